@@ -1,0 +1,35 @@
+// What a template needs to write SQL for one dataset on one engine.
+import type { DatasetConfig } from '../config/schema.js';
+import { groupableDimension } from './catalog.js';
+import type { Dialect, TimeColumnType } from './sql/dialect.js';
+import type { QueryBuilder } from './sql/query-builder.js';
+import type { DateWindow, SegmentFilter } from './types.js';
+
+export interface CompileContext {
+  dataset: DatasetConfig;
+  dialect: Dialect;
+  timeColumnType: TimeColumnType;
+}
+
+/** The time column as a calendar date in the dataset's time zone. */
+export function localDateExpr(q: QueryBuilder, ctx: CompileContext): string {
+  return ctx.dialect.localDate(q.ident(ctx.dataset.time_column), ctx.timeColumnType, ctx.dataset.timezone, q.bind);
+}
+
+/** WHERE conditions for the window and the segment filters; every value is bound. */
+export function whereClause(q: QueryBuilder, ctx: CompileContext, window: DateWindow, filters: SegmentFilter[]): string {
+  const date = localDateExpr(q, ctx);
+  const parts = [
+    `${date} >= ${ctx.dialect.dateParam(q.bind(window.start))}`,
+    `${date} < ${ctx.dialect.dateParam(q.bind(window.end))}`,
+  ];
+  for (const f of filters) {
+    const dim = groupableDimension(ctx.dataset, f.dimension);
+    parts.push(f.values.length === 0 ? 'FALSE' : `${q.ident(dim.column)} IN (${f.values.map((v) => q.bind(v)).join(', ')})`);
+  }
+  return parts.join('\n  AND ');
+}
+
+export function tableRef(q: QueryBuilder, ctx: CompileContext): string {
+  return q.ident(ctx.dataset.table);
+}

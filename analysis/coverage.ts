@@ -1,0 +1,28 @@
+// The dataset's time coverage (first and last date, rows): what partial-period and
+// freshness checks compare against. Run once per plan.
+import type { CompileContext } from './compile-context.js';
+import { localDateExpr, tableRef } from './compile-context.js';
+import { QueryBuilder } from './sql/query-builder.js';
+import type { CompiledQuery, ResultTable } from './types.js';
+
+export interface Coverage {
+  firstDate: string | null;
+  lastDate: string | null;
+  rows: number;
+}
+
+export function compileCoverage(ctx: CompileContext): CompiledQuery {
+  const q = new QueryBuilder(ctx.dialect);
+  const date = localDateExpr(q, ctx);
+  return q.finish(`SELECT MIN(${date}) AS first_date, MAX(${date}) AS last_date, ${ctx.dialect.toDouble('COUNT(*)')} AS row_count
+FROM ${tableRef(q, ctx)}`);
+}
+
+export function readCoverage(table: ResultTable): Coverage {
+  const r = table.rows[0];
+  return {
+    firstDate: (r?.first_date as string | null) ?? null,
+    lastDate: (r?.last_date as string | null) ?? null,
+    rows: Number(r?.row_count ?? 0),
+  };
+}

@@ -1,0 +1,44 @@
+// One runner interface for every engine: templates compile SQL for `dialect`, and `run`
+// executes it with bound parameters, a row cap and a time limit.
+import type { CompiledQuery, ResultTable } from '../types.js';
+import type { Dialect, TimeColumnType } from '../sql/dialect.js';
+
+export interface TableColumn {
+  name: string;
+  /** The engine's own type name, upper case (e.g. DATE, VARCHAR, DECIMAL(10,2)). */
+  type: string;
+}
+
+export interface RunOptions {
+  maxRows: number;
+  timeoutMs: number;
+}
+
+export interface DataSource {
+  readonly dialect: Dialect;
+  /** Columns of the configured table; throws SourceError('missing_table') when absent. */
+  describe(table: string): Promise<TableColumn[]>;
+  run(query: CompiledQuery, options: RunOptions): Promise<ResultTable>;
+  close(): Promise<void>;
+}
+
+export type SourceErrorCode = 'unreachable' | 'missing_table' | 'timeout' | 'query_failed';
+
+export class SourceError extends Error {
+  constructor(
+    readonly code: SourceErrorCode,
+    message: string,
+    override readonly cause?: unknown,
+  ) {
+    super(message);
+    this.name = 'SourceError';
+  }
+}
+
+export function timeColumnTypeOf(engineType: string): TimeColumnType | null {
+  const t = engineType.toUpperCase();
+  if (t === 'DATE') return 'date';
+  if (t.startsWith('TIMESTAMP WITH TIME ZONE') || t === 'TIMESTAMPTZ') return 'timestamptz';
+  if (t.startsWith('TIMESTAMP')) return 'timestamp';
+  return null;
+}

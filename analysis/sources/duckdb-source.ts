@@ -1,0 +1,141 @@
+// The embedded engine. Opens the configured file read-only (or views over CSV/Parquet files),
+// and converts every column explicitly so BIGINT and DECIMAL never lose precision by accident.
+import { existsSync } from 'node:fs';
+import { DuckDBConnection, DuckDBInstance, type DuckDBType, DuckDBTypeId } from '@duckdb/node-api';
+import type { EngineConfig, SourceConfig } from '../../config/schema.js';
+import { duckdbDialect } from '../sql/dialect.js';
+import type { CellValue, CompiledQuery, ResultColumn, ResultTable } from '../types.js';
+import { SourceError, type DataSource, type RunOptions, type TableColumn } from './data-source.js';
+
+export interface DuckDbSourceOptions {
+  source: SourceConfig;
+  /** Absolute paths of the source files (already resolved against the config's folder). */
+  paths: string[];
+  table: string;
+  engine: EngineConfig;
+}
+
+export class DuckDbSource implements DataSource {
+  readonly dialect = duckdbDialect;
+
+  private constructor(
+    private readonly instance: DuckDBInstance,
+    private readonly connection: DuckDBConnection,
+  ) {}
+
+  static async open(opts: DuckDbSourceOptions): Promise<DuckDbSource> {
+    const settings: Record<string, string> = {};
+    if (opts.engine.threads) settings.threads = String(opts.engine.threads);
+    if (opts.engine.memory_limit) settings.memory_limit = opts.engine.memory_limit;
+    for (const p of opts.paths) {
+      if (!existsSync(p)) throw new SourceError('unreachable', `the data file ${p} does not exist`);
+    }
+    let instance: DuckDBInstance;
+    try {
+      if (opts.source.kind === 'duckdb') {
+        instance = await DuckDBInstance.create(opts.paths[0], { ...settings, access_mode: 'READ_ONLY' });
+      } else {
+        instance = await DuckDBInstance.create(':memory:', settings);
+      }
+    } catch (err) {
+      throw new SourceError('unreachable', `cannot open the data file: ${firstLine(err)}`, err);
+    }
+    const connection = await instance.connect();
+    if (opts.source.kind !== 'duckdb') {
+      // File paths come from the config, not from chat; they still go in as SQL string literals.
+      const list = `[${opts.paths.map((p) => `'${p.replaceAll("'", "''")}'`).join(', ')}]`;
+      const reader = opts.source.kind === 'csv' ? `read_csv(${list}, auto_detect = true)` : `read_parquet(${list})`;
+      try {
+        await connection.run(`CREATE VIEW ${duckdbDialect.quoteIdent(opts.table)} AS SELECT * FROM ${reader}`);
+      } catch (err) {
+        connection.closeSync();
+        instance.closeSync();
+        throw new SourceError('unreachable', `cannot read the ${opts.source.kind} files: ${firstLine(err)}`, err);
+      }
+    }
+    return new DuckDbSource(instance, connection);
+  }
+
+  async describe(table: string): Promise<TableColumn[]> {
+    const reader = await this.connection.runAndReadAll(
+      'SELECT column_name, data_type FROM information_schema.columns WHERE table_name = $1 ORDER BY ordinal_position',
+      [table],
+    );
+    const rows = reader.getRowObjectsJson();
+    if (rows.length === 0) throw new SourceError('missing_table', `the table "${table}" does not exist in the dataset`);
+    return rows.map((r) => ({ name: String(r.column_name), type: String(r.data_type).toUpperCase() }));
+  }
+
+  async run(query: CompiledQuery, options: RunOptions): Promise<ResultTable> {
+    // DuckDB has no statement_timeout setting; interrupting the connection cancels the query.
+    let timedOut = false;
+    const timer = setTimeout(() => {
+      timedOut = true;
+      this.connection.interrupt();
+    }, options.timeoutMs);
+    try {
+      const reader = await this.connection.streamAndReadUntil(query.sql, options.maxRows + 1, query.params);
+      const columns = reader.columnNames().map((name, i) => ({ name, type: resultTypeOf(reader.columnTypes()[i]!) }));
+      const json = reader.getRowObjectsJson();
+      const truncated = json.length > options.maxRows;
+      const rows = json.slice(0, options.maxRows).map((r) => convertRow(r, columns));
+      return { columns, rows, truncated };
+    } catch (err) {
+      if (timedOut) throw new SourceError('timeout', `the query ran past the ${options.timeoutMs} ms limit and was stopped`, err);
+      throw new SourceError('query_failed', `the query failed: ${firstLine(err)}`, err);
+    } finally {
+      clearTimeout(timer);
+    }
+  }
+
+  async close(): Promise<void> {
+    this.connection.closeSync();
+    this.instance.closeSync();
+  }
+}
+
+function resultTypeOf(t: DuckDBType): ResultColumn['type'] {
+  switch (t.typeId) {
+    case DuckDBTypeId.DATE:
+      return 'date';
+    case DuckDBTypeId.BOOLEAN:
+      return 'boolean';
+    case DuckDBTypeId.TINYINT:
+    case DuckDBTypeId.SMALLINT:
+    case DuckDBTypeId.INTEGER:
+    case DuckDBTypeId.BIGINT:
+    case DuckDBTypeId.HUGEINT:
+    case DuckDBTypeId.UTINYINT:
+    case DuckDBTypeId.USMALLINT:
+    case DuckDBTypeId.UINTEGER:
+    case DuckDBTypeId.UBIGINT:
+    case DuckDBTypeId.FLOAT:
+    case DuckDBTypeId.DOUBLE:
+    case DuckDBTypeId.DECIMAL:
+      return 'number';
+    default:
+      return 'text';
+  }
+}
+
+/** JSON-converted values (BIGINT and DECIMAL arrive as exact strings) mapped to plain JS values. */
+function convertRow(r: Record<string, unknown>, columns: ResultColumn[]): Record<string, CellValue> {
+  const out: Record<string, CellValue> = {};
+  for (const c of columns) {
+    const v = r[c.name];
+    if (v === null || v === undefined) out[c.name] = null;
+    else if (c.type === 'number') {
+      const n = typeof v === 'number' ? v : Number(v);
+      // 'NaN' and 'Infinity' from DOUBLE arithmetic become missing values, never numbers.
+      out[c.name] = Number.isFinite(n) ? n : null;
+    } else if (c.type === 'boolean') out[c.name] = Boolean(v);
+    else if (c.type === 'date') out[c.name] = String(v).slice(0, 10);
+    // Timestamps stay as the engine's ISO text; captions format them before anyone sees them.
+    else out[c.name] = String(v);
+  }
+  return out;
+}
+
+function firstLine(err: unknown): string {
+  return (err instanceof Error ? err.message : String(err)).split('\n')[0] ?? 'unknown error';
+}

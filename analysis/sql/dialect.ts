@@ -1,0 +1,40 @@
+// The seam between sub-question templates and SQL engines. Templates write SQL only through
+// a Dialect, so the same template compiles for DuckDB now and PostgreSQL later.
+import type { Grain } from '../types.js';
+
+export interface Dialect {
+  readonly name: 'duckdb' | 'postgres';
+  /** The only way an identifier enters SQL; identifiers come from the catalog, never from chat text. */
+  quoteIdent(name: string): string;
+  /** Positional placeholder for the 1-based parameter `index`. */
+  placeholder(index: number): string;
+  /** The first day of the period at `grain` that contains the date expression, as a DATE. */
+  periodStart(grain: Grain, dateExpr: string): string;
+  /** A timestamp (with or without zone) expression turned into a calendar date in `timeZone`. */
+  localDate(expr: string, columnType: TimeColumnType, timeZone: string, bind: (v: string) => string): string;
+  /** Cast to double precision so aggregates arrive as plain floating point numbers. */
+  toDouble(expr: string): string;
+  /** A bound parameter read as a DATE. */
+  dateParam(placeholder: string): string;
+}
+
+export type TimeColumnType = 'date' | 'timestamp' | 'timestamptz';
+
+const GRAIN_UNIT: Record<Grain, string> = { day: 'day', week: 'week', month: 'month', quarter: 'quarter', year: 'year' };
+
+export function quoteIdentifier(name: string): string {
+  // Doubling the quote character is the SQL standard escape for delimited identifiers.
+  return `"${name.replaceAll('"', '""')}"`;
+}
+
+export const duckdbDialect: Dialect = {
+  name: 'duckdb',
+  quoteIdent: quoteIdentifier,
+  placeholder: (i) => `$${i}`,
+  // date_trunc on a DATE returns a TIMESTAMP in DuckDB; cast back so periods stay calendar dates.
+  periodStart: (grain, e) => (grain === 'day' ? `CAST(${e} AS DATE)` : `CAST(date_trunc('${GRAIN_UNIT[grain]}', ${e}) AS DATE)`),
+  localDate: (e, type, tz, bind) =>
+    type === 'date' ? e : type === 'timestamptz' ? `CAST(timezone(${bind(tz)}, ${e}) AS DATE)` : `CAST(${e} AS DATE)`,
+  toDouble: (e) => `CAST(${e} AS DOUBLE)`,
+  dateParam: (p) => `CAST(${p} AS DATE)`,
+};

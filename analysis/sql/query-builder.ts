@@ -1,0 +1,20 @@
+// Collects bound parameters while a template writes its SQL, so values never enter the text.
+import type { CompiledQuery } from '../types.js';
+import type { Dialect } from './dialect.js';
+
+export class QueryBuilder {
+  private readonly params: (string | number | boolean)[] = [];
+  constructor(readonly dialect: Dialect) {}
+
+  /** Binds a value and returns its placeholder. */
+  bind = (value: string | number | boolean): string => {
+    this.params.push(value);
+    return this.dialect.placeholder(this.params.length);
+  };
+
+  ident = (name: string): string => this.dialect.quoteIdent(name);
+
+  finish(sql: string): CompiledQuery {
+    return { sql: sql.trim(), params: [...this.params] };
+  }
+}

@@ -1,0 +1,95 @@
+// Template "series": each metric at a time grain over the window. Answers the time-pattern
+// lens of a trend request (and feeds growth and snapshot templates later).
+import { metricByName } from '../catalog.js';
+import { type CompileContext, localDateExpr, tableRef, whereClause } from '../compile-context.js';
+import type { Coverage } from '../coverage.js';
+import { addDays, nextPeriod, periodsBetween } from '../periods.js';
+import { metricAggregate } from '../sql/metric-sql.js';
+import { QueryBuilder } from '../sql/query-builder.js';
+import type { Caveat, CompiledQuery, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
+
+export function compileSeries(sq: SubQuestion, ctx: CompileContext): CompiledQuery {
+  const q = new QueryBuilder(ctx.dialect);
+  const date = localDateExpr(q, ctx);
+  const period = ctx.dialect.periodStart(sq.grain, date);
+  const measures = sq.metrics.map((name) => `  ${metricAggregate(q, ctx.dataset, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
+  const where = whereClause(q, ctx, sq.window, sq.filters);
+  return q.finish(`SELECT ${period} AS period,
+${measures.join(',\n')},
+  ${ctx.dialect.toDouble('COUNT(*)')} AS row_count
+FROM ${tableRef(q, ctx)}
+WHERE ${where}
+GROUP BY 1
+ORDER BY 1`);
+}
+
+export interface SeriesReading {
+  findings: Finding[];
+  caveats: Caveat[];
+}
+
+/**
+ * Turns the grouped rows into findings. Periods the window covers but the data does not
+ * (a gap) become null points; a first or last period only partly covered is marked partial
+ * and left out of the high and low, since half a month is not comparable with a whole one.
+ */
+export function readSeries(sq: SubQuestion, table: ResultTable, coverage: Coverage): SeriesReading {
+  const caveats: Caveat[] = [];
+  if (table.truncated) caveats.push({ code: 'truncated', data: { rows: table.rows.length } });
+  if (coverage.firstDate === null || coverage.lastDate === null || table.rows.length === 0) {
+    return { findings: [], caveats: [...caveats, { code: 'no_data', data: { start: sq.window.start, end: sq.window.end } }] };
+  }
+  const effectiveStart = maxIso(sq.window.start, coverage.firstDate);
+  const effectiveEnd = minIso(sq.window.end, addDays(coverage.lastDate, 1));
+  const starts = periodsBetween(effectiveStart, effectiveEnd, sq.grain);
+  const byPeriod = new Map(table.rows.map((r) => [String(r.period), r]));
+
+  const partialStarts = new Set<string>();
+  const first = starts[0];
+  const last = starts[starts.length - 1];
+  if (first !== undefined && first < effectiveStart) partialStarts.add(first);
+  if (last !== undefined && nextPeriod(last, sq.grain) > effectiveEnd) partialStarts.add(last);
+  for (const p of partialStarts) {
+    const coveredFrom = maxIso(p, effectiveStart);
+    const coveredTo = addDays(minIso(nextPeriod(p, sq.grain), effectiveEnd), -1);
+    caveats.push({ code: 'partial_period', data: { period: p, grain: sq.grain, coveredFrom, coveredTo } });
+  }
+
+  const findings: Finding[] = [];
+  for (const metric of sq.metrics) {
+    const points: PeriodPoint[] = starts.map((p) => {
+      const v = byPeriod.get(p)?.[metric];
+      return { period: p, value: typeof v === 'number' ? v : null, partial: partialStarts.has(p) };
+    });
+    findings.push({ type: 'series', metric, grain: sq.grain, points });
+    const gaps = points.filter((p) => p.value === null && !p.partial);
+    if (gaps.length > 0 && gaps.length < points.length) {
+      caveats.push({ code: 'series_gap', data: { metric, periods: gaps.length, firstGap: gaps[0]!.period } });
+    }
+    const complete = points.filter((p): p is PeriodPoint & { value: number } => p.value !== null && !p.partial);
+    if (complete.length === 0) {
+      caveats.push({ code: points.some((p) => p.value !== null) ? 'single_period' : 'all_null', data: { metric } });
+      continue;
+    }
+    if (complete.length === 1) caveats.push({ code: 'single_period', data: { metric, period: complete[0]!.period } });
+    let hi = complete[0]!;
+    let lo = complete[0]!;
+    for (const p of complete) {
+      // Ties keep the earliest period, so the result does not depend on row order.
+      if (p.value > hi.value) hi = p;
+      if (p.value < lo.value) lo = p;
+    }
+    findings.push({ type: 'peak', metric, period: hi.period, value: hi.value });
+    findings.push({ type: 'trough', metric, period: lo.period, value: lo.value });
+    const latest = complete[complete.length - 1]!;
+    findings.push({ type: 'latest', metric, period: latest.period, value: latest.value, partial: false });
+  }
+  return { findings, caveats };
+}
+
+function maxIso(a: string, b: string): string {
+  return a > b ? a : b;
+}
+function minIso(a: string, b: string): string {
+  return a < b ? a : b;
+}

@@ -1,0 +1,115 @@
+// The plain values that flow one way through the analysis:
+// sub-question -> compiled query -> result table -> findings.
+// Nothing here knows about chat platforms or prose.
+
+export const GRAINS = ['day', 'week', 'month', 'quarter', 'year'] as const;
+export type Grain = (typeof GRAINS)[number];
+
+export const REQUEST_KINDS = ['trend', 'growth', 'performance', 'kpi'] as const;
+export type RequestKind = (typeof REQUEST_KINDS)[number];
+
+export const LENSES = ['time_pattern', 'breakdown', 'summary', 'distribution'] as const;
+export type Lens = (typeof LENSES)[number];
+
+/** A half-open date window [start, end), ISO dates (YYYY-MM-DD) in the dataset's time zone. */
+export interface DateWindow {
+  start: string;
+  end: string;
+}
+
+/** A filter on a catalog dimension; its values are always bound parameters. */
+export interface SegmentFilter {
+  dimension: string;
+  values: (string | number | boolean)[];
+}
+
+/** One small answerable question. Plain data: compiling and charting it are pure functions. */
+export interface SubQuestion {
+  id: string;
+  kind: RequestKind;
+  lens: Lens;
+  /** Which template family answers it (one file per family under analysis/templates/). */
+  template: string;
+  metrics: string[];
+  dimension?: string;
+  grain: Grain;
+  window: DateWindow;
+  filters: SegmentFilter[];
+  comparisonGroup?: string;
+}
+
+export type CellValue = string | number | boolean | null;
+
+export interface ResultColumn {
+  name: string;
+  type: 'date' | 'text' | 'number' | 'boolean';
+}
+
+/** Aggregated rows from the database, already converted to plain JS values. */
+export interface ResultTable {
+  columns: ResultColumn[];
+  rows: Record<string, CellValue>[];
+  /** True when the database returned more rows than the cap and the tail was cut. */
+  truncated: boolean;
+}
+
+/** SQL with positional parameters, ready for one dialect; shown to users as it ran. */
+export interface CompiledQuery {
+  sql: string;
+  params: (string | number | boolean)[];
+}
+
+/** One value at one period of a time series. `period` is the ISO date the period starts on. */
+export interface PeriodPoint {
+  period: string;
+  value: number | null;
+  /** The period is only partly covered by data (first or last period of the window). */
+  partial: boolean;
+}
+
+export type CaveatCode =
+  | 'partial_period'
+  | 'partial_period_excluded'
+  | 'null_share'
+  | 'duplicate_keys'
+  | 'negative_amounts'
+  | 'series_gap'
+  | 'outlier'
+  | 'stale_data'
+  | 'small_sample'
+  | 'too_few_cycles'
+  | 'no_data'
+  | 'all_null'
+  | 'single_period'
+  | 'truncated'
+  | 'observational';
+
+/** A data-quality or method caveat; prose is written later, from `code` and `data`. */
+export interface Caveat {
+  code: CaveatCode;
+  data: Record<string, string | number | boolean | null>;
+}
+
+/** Structured facts found in one result; captions and chart titles are written from these. */
+export type Finding =
+  | { type: 'peak'; metric: string; period: string; value: number }
+  | { type: 'trough'; metric: string; period: string; value: number }
+  | { type: 'latest'; metric: string; period: string; value: number; partial: boolean }
+  | {
+      type: 'change';
+      metric: string;
+      from: { period: string; value: number };
+      to: { period: string; value: number };
+      /** Relative change, undefined (null) where the base is zero or missing. */
+      relative: number | null;
+      absolute: number;
+    }
+  | { type: 'series'; metric: string; grain: Grain; points: PeriodPoint[] };
+
+export interface Answer {
+  subQuestion: SubQuestion;
+  query: CompiledQuery;
+  table: ResultTable;
+  findings: Finding[];
+  caveats: Caveat[];
+}

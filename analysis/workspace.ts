@@ -1,0 +1,42 @@
+// One dataset opened for questions: its config, its engine, and what it covers.
+import type { DatasetConfig } from '../config/schema.js';
+import { type LoadedConfig, resolveSourcePath } from '../config/load.js';
+import type { CompileContext } from './compile-context.js';
+import { compileCoverage, type Coverage, readCoverage } from './coverage.js';
+import { SourceError, timeColumnTypeOf, type DataSource, type RunOptions } from './sources/data-source.js';
+import { DuckDbSource } from './sources/duckdb-source.js';
+
+export interface Workspace {
+  config: LoadedConfig;
+  dataset: DatasetConfig;
+  source: DataSource;
+  context: CompileContext;
+  coverage: Coverage;
+  runOptions: RunOptions;
+}
+
+export async function openWorkspace(config: LoadedConfig, datasetName?: string): Promise<Workspace> {
+  const dataset = datasetName ? config.datasets.find((d) => d.name === datasetName) : config.datasets[0];
+  if (!dataset) throw new SourceError('missing_table', `the config has no dataset named ${datasetName}`);
+  const paths = dataset.source.kind === 'duckdb' ? [dataset.source.path] : dataset.source.paths;
+  const source = await DuckDbSource.open({
+    source: dataset.source,
+    paths: paths.map((p) => resolveSourcePath(config, p)),
+    table: dataset.table,
+    engine: config.engine,
+  });
+  try {
+    const columns = await source.describe(dataset.table);
+    const time = columns.find((c) => c.name === dataset.time_column);
+    if (!time) throw new SourceError('missing_table', `the table "${dataset.table}" has no column "${dataset.time_column}" (the configured time column)`);
+    const timeColumnType = timeColumnTypeOf(time.type);
+    if (!timeColumnType) throw new SourceError('query_failed', `the time column "${dataset.time_column}" is ${time.type}, not a date or timestamp`);
+    const context: CompileContext = { dataset, dialect: source.dialect, timeColumnType };
+    const runOptions: RunOptions = { maxRows: config.engine.max_result_rows, timeoutMs: config.engine.statement_timeout_ms };
+    const coverage = readCoverage(await source.run(compileCoverage(context), runOptions));
+    return { config, dataset, source, context, coverage, runOptions };
+  } catch (err) {
+    await source.close();
+    throw err;
+  }
+}

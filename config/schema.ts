@@ -1,0 +1,141 @@
+// The one config file's shape. Parsed once at start-up (config/load.ts); everything else
+// receives the typed object and never reads YAML or process.env itself.
+import { z } from 'zod';
+
+const identifier = z
+  .string()
+  .regex(/^[A-Za-z_][A-Za-z0-9_]*$/, 'must be a plain column or table name (letters, digits, underscore)');
+const catalogName = z
+  .string()
+  .regex(/^[a-z][a-z0-9_]*$/, 'must be lower_snake_case (letters, digits, underscore)');
+
+export const filterSchema = z
+  .object({
+    column: identifier,
+    op: z.enum(['eq', 'ne', 'in', 'gt', 'gte', 'lt', 'lte', 'is_true', 'is_false']),
+    value: z.union([z.string(), z.number(), z.boolean(), z.array(z.union([z.string(), z.number()]))]).optional(),
+  })
+  .strict();
+export type ColumnFilter = z.infer<typeof filterSchema>;
+
+export const metricDefinitionSchema = z.discriminatedUnion('type', [
+  z.object({ type: z.literal('sum'), column: identifier, where: filterSchema.optional() }).strict(),
+  z.object({ type: z.literal('count'), where: filterSchema.optional() }).strict(),
+  z.object({ type: z.literal('distinct_count'), column: identifier, where: filterSchema.optional() }).strict(),
+  z.object({ type: z.literal('average'), column: identifier, where: filterSchema.optional() }).strict(),
+  // A ratio of two catalog metrics, computed as a ratio of their aggregates at every grain.
+  z.object({ type: z.literal('ratio'), numerator: catalogName, denominator: catalogName }).strict(),
+  // The share of rows (or of a base metric) that pass a filter.
+  z.object({ type: z.literal('rate'), where: filterSchema, of: catalogName.optional() }).strict(),
+]);
+export type MetricDefinition = z.infer<typeof metricDefinitionSchema>;
+
+export const unitSchema = z.enum(['currency', 'count', 'percent', 'number']);
+export type Unit = z.infer<typeof unitSchema>;
+
+export const metricSchema = z
+  .object({
+    name: catalogName,
+    label: z.string().min(1),
+    synonyms: z.array(z.string().min(1)).default([]),
+    description: z.string().optional(),
+    definition: metricDefinitionSchema,
+    unit: unitSchema,
+    currency: z.string().length(3).optional(),
+    decimals: z.number().int().min(0).max(6).optional(),
+    higher_is_better: z.boolean(),
+  })
+  .strict();
+export type Metric = z.infer<typeof metricSchema>;
+
+export const dimensionSchema = z
+  .object({
+    name: catalogName,
+    column: identifier,
+    label: z.string().min(1),
+    synonyms: z.array(z.string().min(1)).default([]),
+    // Personal data: never grouped by, never filtered on in output, never shown.
+    personal_data: z.boolean().default(false),
+  })
+  .strict();
+export type Dimension = z.infer<typeof dimensionSchema>;
+
+export const comparisonGroupSchema = z
+  .object({
+    name: catalogName,
+    label: z.string().min(1),
+    synonyms: z.array(z.string().min(1)).default([]),
+    column: identifier,
+    // Labels for the rows where the column is true and false.
+    members_label: z.string().min(1),
+    others_label: z.string().min(1),
+    launch_date: z.iso.date().optional(),
+    // Customer key used for per-customer frequency comparisons.
+    unit_column: identifier.optional(),
+  })
+  .strict();
+export type ComparisonGroup = z.infer<typeof comparisonGroupSchema>;
+
+export const sourceSchema = z.discriminatedUnion('kind', [
+  z.object({ kind: z.literal('duckdb'), path: z.string().min(1) }).strict(),
+  z.object({ kind: z.literal('csv'), paths: z.array(z.string().min(1)).min(1) }).strict(),
+  z.object({ kind: z.literal('parquet'), paths: z.array(z.string().min(1)).min(1) }).strict(),
+]);
+export type SourceConfig = z.infer<typeof sourceSchema>;
+
+export const datasetSchema = z
+  .object({
+    name: catalogName,
+    label: z.string().min(1),
+    source: sourceSchema,
+    table: identifier,
+    time_column: identifier,
+    timezone: z.string().refine(isKnownTimeZone, 'is not an IANA time zone name (e.g. Europe/Dublin)'),
+    key_column: identifier.optional(),
+    // Amount columns that should never be negative; negatives are reported as a data-quality caveat.
+    amount_columns: z.array(identifier).default([]),
+    metrics: z.array(metricSchema).min(1),
+    dimensions: z.array(dimensionSchema).default([]),
+    comparison_groups: z.array(comparisonGroupSchema).default([]),
+  })
+  .strict();
+export type DatasetConfig = z.infer<typeof datasetSchema>;
+
+export const engineSchema = z
+  .object({
+    threads: z.number().int().min(1).max(256).optional(),
+    memory_limit: z.string().regex(/^\d+(\.\d+)?\s*(KB|MB|GB|TB|KiB|MiB|GiB|TiB)$/i).optional(),
+    statement_timeout_ms: z.number().int().min(100).default(60_000),
+    max_result_rows: z.number().int().min(10).max(1_000_000).default(10_000),
+  })
+  .strict();
+export type EngineConfig = z.infer<typeof engineSchema>;
+
+export const chartsSchema = z
+  .object({
+    width: z.number().int().min(320).max(4000).default(1200),
+    height: z.number().int().min(200).max(4000).default(675),
+    scale: z.union([z.literal(1), z.literal(2)]).default(1),
+    locale: z.string().default('en-IE'),
+  })
+  .strict();
+export type ChartsConfig = z.infer<typeof chartsSchema>;
+
+export const configSchema = z
+  .object({
+    version: z.literal(1),
+    datasets: z.array(datasetSchema).min(1),
+    engine: engineSchema.default({ statement_timeout_ms: 60_000, max_result_rows: 10_000 }),
+    charts: chartsSchema.default({ width: 1200, height: 675, scale: 1, locale: 'en-IE' }),
+  })
+  .strict();
+export type Config = z.infer<typeof configSchema>;
+
+function isKnownTimeZone(zone: string): boolean {
+  try {
+    new Intl.DateTimeFormat('en', { timeZone: zone });
+    return true;
+  } catch {
+    return false;
+  }
+}
