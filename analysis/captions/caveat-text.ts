@@ -1,0 +1,64 @@
+// Plain-words notes for caveats, and the short flags a chart footer carries.
+import type { Grain } from '../types.js';
+import { formatPeriod } from '../format.js';
+import type { Caveat } from '../types.js';
+
+export function caveatNote(c: Caveat, locale: string): string {
+  const d = c.data;
+  const day = (iso: unknown) => (typeof iso === 'string' ? formatPeriod(iso, 'day', locale, 'long') : 'n/a');
+  const period = (iso: unknown, grain: unknown) =>
+    typeof iso === 'string' ? formatPeriod(iso, (grain as Grain) ?? 'month', locale, 'long') : 'n/a';
+  switch (c.code) {
+    case 'partial_period':
+      return `${period(d.period, d.grain)} is partial (data from ${day(d.coveredFrom)} to ${day(d.coveredTo)}); it is drawn dashed and left out of the highs and lows.`;
+    case 'partial_period_excluded':
+      return `${period(d.period, d.grain)} is partial and was left out.`;
+    case 'series_gap':
+      return `${d.periods} period(s) have no data at all, the first in ${period(d.firstGap, 'month')}.`;
+    case 'no_data':
+      return 'There is no data in the period asked for.';
+    case 'all_null':
+      return 'The metric has no values in this period (all missing).';
+    case 'single_period':
+      return 'Only one complete period is available, so there is no pattern to read yet.';
+    case 'truncated':
+      return `The result was cut at ${d.rows} rows.`;
+    case 'null_share':
+      return `${d.column} is missing in ${d.share} of rows.`;
+    case 'duplicate_keys':
+      return `${d.count} rows repeat a key that should be unique.`;
+    case 'negative_amounts':
+      return `${d.count} rows have a negative ${d.column}.`;
+    case 'outlier':
+      return `${period(d.period, d.grain)} is an outlier.`;
+    case 'stale_data':
+      return `The latest data is from ${day(d.lastDate)}.`;
+    case 'small_sample':
+      return `Small sample (n = ${d.n}): read with care.`;
+    case 'too_few_cycles':
+      return 'Fewer than two full years of data: too little to measure seasonality.';
+    case 'observational':
+      return 'This compares groups that were not randomly assigned, so it cannot prove cause.';
+  }
+}
+
+export function caveatFlag(c: Caveat): string {
+  const flags: Record<Caveat['code'], string> = {
+    partial_period: 'partial period (dashed)',
+    partial_period_excluded: 'partial period excluded',
+    series_gap: 'gap in the series',
+    no_data: 'no data',
+    all_null: 'no values',
+    single_period: 'single period',
+    truncated: 'result truncated',
+    null_share: 'missing values',
+    duplicate_keys: 'duplicate keys',
+    negative_amounts: 'negative amounts',
+    outlier: 'outlier',
+    stale_data: 'stale data',
+    small_sample: 'small sample',
+    too_few_cycles: 'too few cycles',
+    observational: 'observational comparison',
+  };
+  return flags[c.code];
+}

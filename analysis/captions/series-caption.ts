@@ -1,0 +1,32 @@
+// Title and caption for a series answer, written only from its findings.
+import type { Metric } from '../../config/schema.js';
+import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
+import type { Finding, Grain } from '../types.js';
+
+export interface SeriesWords {
+  title: string;
+  caption: string;
+}
+
+type Point = { period: string; value: number };
+
+export function seriesWords(metric: Metric, grain: Grain, findings: Finding[], locale: string): SeriesWords {
+  const fmt = valueFormatOf(metric, locale);
+  const peak = findings.find((f): f is Extract<Finding, { type: 'peak' }> => f.type === 'peak' && f.metric === metric.name);
+  const trough = findings.find((f): f is Extract<Finding, { type: 'trough' }> => f.type === 'trough' && f.metric === metric.name);
+  const value = (p: Point) => formatValue(p.value, fmt, { compact: true });
+  const when = (p: Point) => formatPeriod(p.period, grain, locale, 'long');
+  if (!peak || !trough) {
+    return { title: `${metric.label}: no complete ${grainNoun(grain)} to compare`, caption: `There is no complete ${grainNoun(grain)} of ${metric.label.toLowerCase()} in this period.` };
+  }
+  const title = `${metric.label} peaked in ${when(peak)} at ${value(peak)}`;
+  const caption =
+    peak.period === trough.period
+      ? `${metric.label} was ${value(peak)} in ${when(peak)}, the only complete ${grainNoun(grain)}.`
+      : `${metric.label} peaked in ${when(peak)} at ${value(peak)}; its lowest ${grainNoun(grain)} was ${when(trough)} at ${value(trough)}.`;
+  return { title, caption };
+}
+
+export function grainNoun(grain: Grain): string {
+  return grain;
+}

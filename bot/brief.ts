@@ -1,0 +1,25 @@
+// A brief: what the request asks for, read from its text and completed by the prompts.
+import type { DateWindow, Grain, RequestKind } from '../analysis/types.js';
+
+export const AUDIENCES = ['leadership', 'managers', 'analysts'] as const;
+export type Audience = (typeof AUDIENCES)[number];
+
+/** A phrase in the request that looked like a metric but matched nothing in the catalog. */
+export interface UnknownTerm {
+  text: string;
+  closest: string[];
+}
+
+export interface Brief {
+  requestText: string;
+  kinds: RequestKind[];
+  metrics: string[];
+  dimensions: string[];
+  comparisonGroup?: string;
+  unknownTerms: UnknownTerm[];
+  window?: DateWindow;
+  grain?: Grain;
+  deadline?: string;
+  audience?: Audience;
+  purpose?: string;
+}
