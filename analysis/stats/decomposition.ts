@@ -1,0 +1,154 @@
+// Seasonal indices by classical multiplicative decomposition
+// (Hyndman & Athanasopoulos, Forecasting: Principles and Practice, 3rd ed., section 3.4).
+
+/** One period of a regular series; `season` is its position in the cycle, 1..period (e.g. month of year). */
+export interface SeasonalPoint {
+  season: number;
+  value: number | null;
+}
+
+/** The detrended ratios y/T of one cycle (e.g. one calendar year), indexed by season − 1. */
+export interface CycleRatios {
+  /** 0-based cycle number; cycle 0 holds the first point, even when it starts mid-cycle. */
+  cycle: number;
+  ratios: (number | null)[];
+  /** Every season of this cycle has a ratio. */
+  complete: boolean;
+}
+
+/** For one season: in how many complete cycles its ratio was the highest, and the lowest, of that cycle. */
+export interface SeasonExtremes {
+  season: number;
+  highestIn: number;
+  lowestIn: number;
+}
+
+export type SeasonalIndexResult =
+  | {
+      kind: 'ok';
+      period: number;
+      /** Multiplicative seasonal index per season (index 0 is season 1); they average exactly 1. */
+      indices: number[];
+      /** Centred moving average per input point; null at the ends and where the window holds a null. */
+      trend: (number | null)[];
+      /** y / trend per input point; null where either is missing or the trend is not positive. */
+      ratios: (number | null)[];
+      cycles: CycleRatios[];
+      /** Counts over complete cycles only, so a half year cannot win. */
+      extremes: SeasonExtremes[];
+      completeCycles: number;
+    }
+  | { kind: 'too_few_cycles'; period: number; points: number; fullCycles: number; required: number }
+  | { kind: 'negative_values'; period: number; positions: number[] }
+  | { kind: 'uncovered_seasons'; period: number; seasons: number[] };
+
+/** Fewer than two cycles leave some season with at most one detrended ratio, too few to separate season from noise. */
+export const MIN_CYCLES = 2;
+
+/**
+ * Seasonal indices of a regular series: trend by a 2×m centred moving average (m-MA for odd m), ratios y/trend,
+ * index = mean ratio per season normalised to average 1. Throws on a malformed series (season out of range or
+ * not consecutive); data problems come back as a result kind instead.
+ */
+export function seasonalIndices(points: readonly SeasonalPoint[], period: number): SeasonalIndexResult {
+  if (!(Number.isInteger(period) && period >= 2)) throw new RangeError(`period must be an integer ≥ 2, got ${period}`);
+  checkRegular(points, period);
+  const fullCycles = Math.floor(points.length / period);
+  if (fullCycles < MIN_CYCLES) {
+    return { kind: 'too_few_cycles', period, points: points.length, fullCycles, required: MIN_CYCLES };
+  }
+  const y = points.map((p) => (typeof p.value === 'number' && Number.isFinite(p.value) ? p.value : null));
+  const negatives = y.flatMap((v, i) => (v !== null && v < 0 ? [i] : []));
+  if (negatives.length > 0) return { kind: 'negative_values', period, positions: negatives };
+
+  const trend = centredMovingAverage(y, period);
+  const ratios = y.map((v, i) => {
+    const t = trend[i];
+    return v !== null && t !== null && t !== undefined && t > 0 ? v / t : null;
+  });
+
+  const sums = new Array<number>(period).fill(0);
+  const counts = new Array<number>(period).fill(0);
+  ratios.forEach((r, i) => {
+    if (r === null) return;
+    const s = points[i]!.season - 1;
+    sums[s]! += r;
+    counts[s]!++;
+  });
+  const uncovered = counts.flatMap((c, s) => (c === 0 ? [s + 1] : []));
+  if (uncovered.length > 0) return { kind: 'uncovered_seasons', period, seasons: uncovered };
+  const raw = sums.map((s, k) => s / counts[k]!);
+  const rawMean = raw.reduce((a, b) => a + b, 0) / period;
+  const indices = raw.map((r) => r / rawMean);
+
+  const cycles = groupByCycle(points, ratios, period);
+  const extremes = countExtremes(cycles, period);
+  return {
+    kind: 'ok',
+    period,
+    indices,
+    trend,
+    ratios,
+    cycles,
+    extremes,
+    completeCycles: cycles.filter((c) => c.complete).length,
+  };
+}
+
+/** Centred moving average of order m (2×m for even m); null where the window runs off the ends or holds a null. */
+export function centredMovingAverage(y: readonly (number | null)[], m: number): (number | null)[] {
+  const half = Math.floor(m / 2);
+  const even = m % 2 === 0;
+  return y.map((_, t) => {
+    if (t - half < 0 || t + half >= y.length) return null;
+    let sum = 0;
+    for (let j = -half; j <= half; j++) {
+      const v = y[t + j];
+      if (v === null || v === undefined) return null;
+      // A 2×m-MA weights the two end points, which share a season, by half each.
+      sum += even && Math.abs(j) === half ? v / 2 : v;
+    }
+    return sum / m;
+  });
+}
+
+function checkRegular(points: readonly SeasonalPoint[], period: number): void {
+  points.forEach((p, i) => {
+    if (!(Number.isInteger(p.season) && p.season >= 1 && p.season <= period)) {
+      throw new RangeError(`season at position ${i} must be an integer in 1..${period}, got ${p.season}`);
+    }
+    if (i > 0) {
+      const expected = (points[i - 1]!.season % period) + 1;
+      if (p.season !== expected) throw new RangeError(`series is not regular at position ${i}: season ${p.season}, expected ${expected}`);
+    }
+  });
+}
+
+function groupByCycle(points: readonly SeasonalPoint[], ratios: readonly (number | null)[], period: number): CycleRatios[] {
+  const cycles: CycleRatios[] = [];
+  const offset = points.length > 0 ? points[0]!.season - 1 : 0;
+  ratios.forEach((r, i) => {
+    const c = Math.floor((offset + i) / period);
+    while (cycles.length <= c) cycles.push({ cycle: cycles.length, ratios: new Array<number | null>(period).fill(null), complete: false });
+    cycles[c]!.ratios[points[i]!.season - 1] = r;
+  });
+  for (const c of cycles) c.complete = c.ratios.every((r) => r !== null);
+  return cycles;
+}
+
+function countExtremes(cycles: readonly CycleRatios[], period: number): SeasonExtremes[] {
+  const out = Array.from({ length: period }, (_, k) => ({ season: k + 1, highestIn: 0, lowestIn: 0 }));
+  for (const c of cycles) {
+    if (!c.complete) continue;
+    const r = c.ratios as number[];
+    let hi = 0;
+    let lo = 0;
+    for (let k = 1; k < period; k++) {
+      if (r[k]! > r[hi]!) hi = k;
+      if (r[k]! < r[lo]!) lo = k;
+    }
+    out[hi]!.highestIn++;
+    out[lo]!.lowestIn++;
+  }
+  return out;
+}

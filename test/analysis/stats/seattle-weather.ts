@@ -1,0 +1,56 @@
+// Loads the public Seattle daily weather record shipped in the vega-datasets package (2012–2015).
+import { readFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { dirname, join } from 'node:path';
+
+export interface WeatherDay {
+  date: string;
+  precipitation: number;
+  tempMax: number;
+  tempMin: number;
+  wind: number;
+  weather: string;
+}
+
+const require = createRequire(import.meta.url);
+
+/** Every row of data/seattle-weather.csv, parsed with a plain split (the file has no quoted fields). */
+export function loadSeattleWeather(): WeatherDay[] {
+  // The package's export map hides data/, so locate it from the resolved entry point's folder.
+  const root = dirname(dirname(require.resolve('vega-datasets')));
+  const text = readFileSync(join(root, 'data', 'seattle-weather.csv'), 'utf8');
+  const [header, ...lines] = text.trim().split('\n');
+  if (header !== 'date,precipitation,temp_max,temp_min,wind,weather') throw new Error(`unexpected header: ${header}`);
+  return lines.map((line) => {
+    const [date, precipitation, tempMax, tempMin, wind, weather] = line.split(',');
+    return {
+      date: date!,
+      precipitation: Number(precipitation),
+      tempMax: Number(tempMax),
+      tempMin: Number(tempMin),
+      wind: Number(wind),
+      weather: weather!.trim(),
+    };
+  });
+}
+
+/** Monthly rollup in calendar order: year-month key, month number, day count, precipitation total, mean temp_max. */
+export function monthly(days: readonly WeatherDay[]): { key: string; month: number; days: number; precipitation: number; meanTempMax: number }[] {
+  const groups = new Map<string, WeatherDay[]>();
+  for (const d of days) {
+    const key = d.date.slice(0, 7);
+    const g = groups.get(key) ?? [];
+    g.push(d);
+    groups.set(key, g);
+  }
+  return [...groups.keys()].sort().map((key) => {
+    const g = groups.get(key)!;
+    return {
+      key,
+      month: Number(key.slice(5, 7)),
+      days: g.length,
+      precipitation: g.reduce((acc, d) => acc + d.precipitation, 0),
+      meanTempMax: g.reduce((acc, d) => acc + d.tempMax, 0) / g.length,
+    };
+  });
+}
