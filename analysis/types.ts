@@ -1,12 +1,17 @@
 // The plain values that flow one way through the analysis:
 // sub-question -> compiled query -> result table -> findings.
 // Nothing here knows about chat platforms or prose.
+import type { FamilyFinding } from './findings/index.js';
 
 export const GRAINS = ['day', 'week', 'month', 'quarter', 'year'] as const;
 export type Grain = (typeof GRAINS)[number];
 
 export const REQUEST_KINDS = ['trend', 'growth', 'performance', 'kpi'] as const;
 export type RequestKind = (typeof REQUEST_KINDS)[number];
+
+/** Who will read the answer; it sets the wording (plain words, or tests and intervals). */
+export const AUDIENCES = ['leadership', 'managers', 'analysts'] as const;
+export type Audience = (typeof AUDIENCES)[number];
 
 export const LENSES = ['time_pattern', 'breakdown', 'summary', 'distribution'] as const;
 export type Lens = (typeof LENSES)[number];
@@ -59,6 +64,11 @@ export interface CompiledQuery {
   params: (string | number | boolean)[];
 }
 
+/** One of the queries a template runs for a sub-question; `name` keys its result table. */
+export interface NamedQuery extends CompiledQuery {
+  name: string;
+}
+
 /** One value at one period of a time series. `period` is the ISO date the period starts on. */
 export interface PeriodPoint {
   period: string;
@@ -82,7 +92,12 @@ export type CaveatCode =
   | 'all_null'
   | 'single_period'
   | 'truncated'
-  | 'observational';
+  | 'observational'
+  | 'segments_folded'
+  | 'segment_gap'
+  | 'late_segment'
+  | 'base_zero'
+  | 'suppressed_small_groups';
 
 /** A data-quality or method caveat; prose is written later, from `code` and `data`. */
 export interface Caveat {
@@ -91,7 +106,9 @@ export interface Caveat {
 }
 
 /** Structured facts found in one result; captions and chart titles are written from these. */
-export type Finding =
+export type Finding = CoreFinding | FamilyFinding;
+
+export type CoreFinding =
   | { type: 'peak'; metric: string; period: string; value: number }
   | { type: 'trough'; metric: string; period: string; value: number }
   | { type: 'latest'; metric: string; period: string; value: number; partial: boolean }
@@ -108,8 +125,9 @@ export type Finding =
 
 export interface Answer {
   subQuestion: SubQuestion;
-  query: CompiledQuery;
-  table: ResultTable;
+  /** Every query that ran, in order; each result is in `tables` under the query's name. */
+  queries: NamedQuery[];
+  tables: Record<string, ResultTable>;
   findings: Finding[];
   caveats: Caveat[];
 }

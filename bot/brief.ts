@@ -1,8 +1,7 @@
 // A brief: what the request asks for, read from its text and completed by the prompts.
-import type { DateWindow, Grain, RequestKind } from '../analysis/types.js';
+import type { Audience, DateWindow, Grain, RequestKind } from '../analysis/types.js';
 
-export const AUDIENCES = ['leadership', 'managers', 'analysts'] as const;
-export type Audience = (typeof AUDIENCES)[number];
+export { AUDIENCES, type Audience } from '../analysis/types.js';
 
 /** A phrase in the request that looked like a metric but matched nothing in the catalog. */
 export interface UnknownTerm {

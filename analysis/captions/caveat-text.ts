@@ -39,6 +39,16 @@ export function caveatNote(c: Caveat, locale: string): string {
       return 'Fewer than two full years of data: too little to measure seasonality.';
     case 'observational':
       return 'This compares groups that were not randomly assigned, so it cannot prove cause.';
+    case 'segments_folded':
+      return `${d.count} smaller segments are combined as "All others".`;
+    case 'segment_gap':
+      return `${d.segment} has no data for ${d.periods} period(s), from ${period(d.firstGap, d.grain ?? 'month')}.`;
+    case 'late_segment':
+      return `${d.segment} only has data from ${period(d.firstPeriod, d.grain ?? 'month')}.`;
+    case 'base_zero':
+      return 'Some growth rates are undefined because the earlier value is zero or missing.';
+    case 'suppressed_small_groups':
+      return `${d.count} segments below the minimum group size are combined as "All others".`;
   }
 }
 
@@ -59,6 +69,11 @@ export function caveatFlag(c: Caveat): string {
     small_sample: 'small sample',
     too_few_cycles: 'too few cycles',
     observational: 'observational comparison',
+    segments_folded: 'long tail combined',
+    segment_gap: 'gap in a segment',
+    late_segment: 'segment starts late',
+    base_zero: 'undefined growth',
+    suppressed_small_groups: 'small groups combined',
   };
   return flags[c.code];
 }

@@ -7,6 +7,7 @@ import { addDays, nextPeriod, periodsBetween } from '../periods.js';
 import { metricAggregate } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
+import type { Template } from './template.js';
 
 export function compileSeries(sq: SubQuestion, ctx: CompileContext): CompiledQuery {
   const q = new QueryBuilder(ctx.dialect);
@@ -27,6 +28,12 @@ export interface SeriesReading {
   findings: Finding[];
   caveats: Caveat[];
 }
+
+export const seriesTemplate: Template = {
+  name: 'series',
+  compile: (sq, ctx) => [{ name: 'series', ...compileSeries(sq, ctx) }],
+  read: (sq, tables, ctx) => readSeries(sq, tables.series ?? { columns: [], rows: [], truncated: false }, ctx.coverage),
+};
 
 /**
  * Turns the grouped rows into findings. Periods the window covers but the data does not

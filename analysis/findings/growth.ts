@@ -1,0 +1,2 @@
+// Placeholder until this family's templates land.
+export type GrowthFinding = never;

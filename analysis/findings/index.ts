@@ -1,0 +1,7 @@
+// Findings of each template family, each defined beside its family's own file.
+import type { GrowthFinding } from './growth.js';
+import type { KpiFinding } from './kpi.js';
+import type { PerformanceFinding } from './performance.js';
+import type { SegmentFinding } from './segments.js';
+
+export type FamilyFinding = GrowthFinding | KpiFinding | PerformanceFinding | SegmentFinding;

@@ -1,0 +1,42 @@
+// The subtitle and footer every chart carries, so an image forwarded alone still says what it
+// shows: the metric's definition, the period, the grain and filters; the source, the data's
+// date and the caveat flags.
+import type { Metric } from '../../config/schema.js';
+import { caveatFlag, caveatNote } from '../captions/caveat-text.js';
+import { formatPeriod } from '../format.js';
+import { addDays } from '../periods.js';
+import type { Answer, Grain } from '../types.js';
+import type { PresentContext } from './presenter.js';
+
+const GRAIN_ADJECTIVE: Record<Grain, string> = { day: 'daily', week: 'weekly', month: 'monthly', quarter: 'quarterly', year: 'yearly' };
+
+export function metricDefinition(metric: Metric): string {
+  return metric.description ?? metric.definition.type.replace('_', ' ');
+}
+
+export function chartSubtitle(answer: Answer, metric: Metric, ctx: PresentContext, opts: { grain?: boolean } = {}): string {
+  const sq = answer.subQuestion;
+  const from = formatPeriod(sq.window.start, 'day', ctx.locale);
+  const to = formatPeriod(addDays(sq.window.end, -1), 'day', ctx.locale);
+  const parts = [`${metric.label}: ${metricDefinition(metric)}`, `${from} to ${to}`];
+  if (opts.grain !== false) parts.push(GRAIN_ADJECTIVE[sq.grain]);
+  for (const f of sq.filters) {
+    const dim = ctx.dataset.dimensions.find((d) => d.name === f.dimension);
+    parts.push(`${dim?.label ?? f.dimension}: ${f.values.join(', ')}`);
+  }
+  return parts.join(' · ');
+}
+
+export function chartFooter(answer: Answer, ctx: PresentContext): string[] {
+  const asOf = ctx.dataAsOf ? formatPeriod(ctx.dataAsOf, 'day', ctx.locale) : 'n/a';
+  const flags = [...new Set(answer.caveats.map(caveatFlag))];
+  return [`Source: ${ctx.dataset.label}`, `Data as of ${asOf}`, ...(flags.length ? [`Caveats: ${flags.join('; ')}`] : [])];
+}
+
+export function caveatNotes(answer: Answer, ctx: PresentContext): string[] {
+  return [...new Set(answer.caveats.map((c) => caveatNote(c, ctx.locale)))];
+}
+
+export function chartHeader(answer: Answer, metric: Metric, title: string, ctx: PresentContext) {
+  return { title, subtitle: chartSubtitle(answer, metric, ctx), footer: chartFooter(answer, ctx), ...ctx.chart };
+}

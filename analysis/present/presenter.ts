@@ -1,0 +1,31 @@
+// A presenter turns one answer into what a post shows: a title that states the finding, a
+// caption, an optional chart spec and a takeaway for the thread summary. Pure: no I/O.
+import type { DatasetConfig } from '../../config/schema.js';
+import type { ChartSpec } from '../charts/spec.js';
+import type { Answer, Audience } from '../types.js';
+
+export interface PresentContext {
+  dataset: DatasetConfig;
+  locale: string;
+  audience: Audience;
+  chart: { width: number; height: number; scale: 1 | 2 };
+  /** The dataset's last date (ISO), for "data as of" in footers. */
+  dataAsOf: string | null;
+}
+
+export interface Takeaway {
+  /** Higher is more important; the summary lists the top few in this order. */
+  importance: number;
+  text: string;
+}
+
+export interface Presented {
+  title: string;
+  caption: string;
+  /** Extra lines under the caption: caveats in plain words, the observational-study caution... */
+  notes: string[];
+  chart: ChartSpec | null;
+  takeaway: Takeaway | null;
+}
+
+export type Presenter = (answer: Answer, ctx: PresentContext) => Presented;
