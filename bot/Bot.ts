@@ -39,7 +39,7 @@ export class Bot {
       case 'planning':
         return this.onPlanReply(state, msg.text);
       default:
-        return this.post(state, `note:${state.turn++}`, state.stage === 'running' ? 'Still working on it; answers will appear here.' : 'This request is finished. Post a new message in the channel to start another.');
+        return this.say(state, 'note', state.stage === 'running' ? 'Still working on it; answers will appear here.' : 'This request is finished. Post a new message in the channel to start another.');
     }
   }
 
@@ -65,19 +65,17 @@ export class Bot {
     const prompt = nextPromptFor(state, this.promptContext);
     if (prompt) {
       state.prompt = prompt;
-      await this.deps.store.put(state);
-      await this.post(state, `prompt:${state.turn++}`, replies.promptText(prompt), prompt);
+      await this.say(state, 'prompt', replies.promptText(prompt), prompt);
       return;
     }
     delete state.prompt;
-    state.plan = buildPlan(state.brief, this.deps.workspace.dataset);
+    state.plan = buildPlan(state.brief, this.deps.workspace.dataset, this.deps.workspace.coverage);
     state.stage = 'planning';
     await this.showPlan(state);
   }
 
   private async showPlan(state: ThreadState): Promise<void> {
-    await this.deps.store.put(state);
-    await this.post(state, `plan:${state.turn++}`, replies.planText(state.plan!, this.deps.workspace.dataset, this.deps.workspace.config.charts.locale));
+    await this.say(state, 'plan', replies.planText(state.plan!, this.deps.workspace.dataset, this.deps.workspace.config.charts.locale));
   }
 
   private async onAnswer(state: ThreadState, text: string): Promise<void> {
@@ -85,8 +83,7 @@ export class Bot {
     const typed = byOptionNumber(prompt, text);
     const reading = readAnswer(prompt, typed, state.brief, this.promptContext);
     if (!reading.ok) {
-      await this.post(state, `prompt:${state.turn++}`, `${reading.message}\n\n${replies.promptText(prompt)}`, prompt);
-      await this.deps.store.put(state);
+      await this.say(state, 'prompt', `${reading.message}\n\n${replies.promptText(prompt)}`, prompt);
       return;
     }
     state.brief = reading.brief;
@@ -101,9 +98,9 @@ export class Bot {
       await this.deps.store.put(state);
       return this.post(state, 'cancelled', replies.cancelled());
     }
-    if (edit.type === 'unknown') return this.post(state, `note:${state.turn++}`, replies.planEditHelp());
+    if (edit.type === 'unknown') return this.say(state, 'note', replies.planEditHelp());
     const { plan, error } = applyPlanEdit(state.plan!, edit);
-    if (error) return this.post(state, `note:${state.turn++}`, error);
+    if (error) return this.say(state, 'note', error);
     state.plan = plan;
     await this.showPlan(state);
   }
@@ -132,16 +129,19 @@ export class Bot {
     await this.deps.store.put(state);
   }
 
+  /** Posts under a fresh key; the state (with its turn counter) is saved first, so a retry after a crash reuses the key. */
+  private async say(state: ThreadState, prefix: string, text: string, prompt?: Prompt): Promise<void> {
+    const key = `${prefix}:${state.turn++}`;
+    await this.deps.store.put(state);
+    await this.post(state, key, text, prompt);
+  }
+
   private async post(state: ThreadState, key: string, text: string, prompt?: Prompt): Promise<void> {
     await this.deps.port.post(state.threadId, { key: `${state.threadId}:${key}`, text, ...(prompt ? { prompt } : {}) });
   }
 }
 
 function nextPromptFor(state: ThreadState, ctx: PromptContext): Prompt | null {
-  // Phrases that matched no metric are asked about even when another metric was found.
-  if (state.brief.unknownTerms.length > 0 && state.prompt?.topic !== 'metrics') {
-    return nextPrompt({ ...state.brief, metrics: [] }, ctx);
-  }
   return nextPrompt(state.brief, ctx);
 }
 

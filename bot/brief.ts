@@ -9,8 +9,20 @@ export interface UnknownTerm {
   closest: string[];
 }
 
+/** One question inside a request; a message may hold several. */
+export interface Question {
+  text: string;
+  kind: RequestKind;
+  metrics: string[];
+  dimensions: string[];
+  comparisonGroup?: string;
+  /** Asks how often each customer (the group's unit) does something, not a metric total. */
+  frequency: boolean;
+}
+
 export interface Brief {
   requestText: string;
+  questions: Question[];
   kinds: RequestKind[];
   metrics: string[];
   dimensions: string[];
@@ -21,4 +33,6 @@ export interface Brief {
   deadline?: string;
   audience?: Audience;
   purpose?: string;
+  /** The breakdown prompt was answered (possibly with "none"). */
+  dimensionsAsked?: boolean;
 }

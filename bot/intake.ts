@@ -4,8 +4,8 @@
 import * as chrono from 'chrono-node';
 import type { DatasetConfig } from '../config/schema.js';
 import type { Grain, RequestKind } from '../analysis/types.js';
-import type { Audience, Brief, UnknownTerm } from './brief.js';
-import { type CatalogTerm, closestTerms, findTerms, normaliseWords } from './term-match.js';
+import type { Audience, Brief, Question, UnknownTerm } from './brief.js';
+import { type CatalogTerm, closestTerms, findTerms, normaliseWords, type TermHit } from './term-match.js';
 
 export function catalogTerms(ds: DatasetConfig): CatalogTerm[] {
   const out: CatalogTerm[] = [];
@@ -58,20 +58,18 @@ export function readRequest(text: string, ds: DatasetConfig, opts: IntakeOptions
   const hits = findTerms(text, terms);
   const metrics = unique(hits.filter((h) => h.term.kind === 'metric').map((h) => h.term.name));
   const dimensions = unique(hits.filter((h) => h.term.kind === 'dimension').map((h) => h.term.name));
-  const group = hits.find((h) => h.term.kind === 'group')?.term.name;
-  const kinds = (Object.keys(KIND_CUES) as RequestKind[]).filter((k) => KIND_CUES[k].test(text));
+  const group = groupNamed(hits, ds);
+  const questions = splitQuestions(text, ds, terms);
+  const kinds = unique(questions.map((q) => q.kind));
   const brief: Brief = {
     requestText: text,
+    questions,
     kinds: kinds.length > 0 ? kinds : ['trend'],
     metrics,
     dimensions,
     unknownTerms: unknownMetricPhrases(text, terms),
   };
-  // A dimension on a comparison group's column ("SkerryPass holders") names the group too.
-  const groupByColumn = ds.comparison_groups.find((g) =>
-    hits.some((h) => h.term.kind === 'dimension' && ds.dimensions.find((d) => d.name === h.term.name)?.column === g.column),
-  );
-  if (group ?? groupByColumn) brief.comparisonGroup = group ?? groupByColumn!.name;
+  if (group) brief.comparisonGroup = group;
   const grain = GRAIN_CUES.find(([re]) => re.test(text))?.[1];
   if (grain) brief.grain = grain;
   const audience = AUDIENCE_CUES.find(([re]) => re.test(text))?.[1];
@@ -81,6 +79,60 @@ export function readRequest(text: string, ds: DatasetConfig, opts: IntakeOptions
   const purpose = /\b(?:for|ahead of|before)\s+(?:the|our|my)\s+([\p{L} ]{2,40}?(?:review|meeting|board|report|update|presentation|offsite))\b/iu.exec(text)?.[1];
   if (purpose) brief.purpose = purpose.trim();
   return brief;
+}
+
+/** A comparison group named directly, or through a dimension on the group's column. */
+function groupNamed(hits: TermHit[], ds: DatasetConfig): string | undefined {
+  const direct = hits.find((h) => h.term.kind === 'group')?.term.name;
+  if (direct) return direct;
+  // A dimension on a comparison group's column ("SkerryPass holders") names the group too.
+  return ds.comparison_groups.find((g) =>
+    hits.some((h) => h.term.kind === 'dimension' && ds.dimensions.find((d) => d.name === h.term.name)?.column === g.column),
+  )?.name;
+}
+
+// Where one question ends and the next begins: sentence ends, and the joins people use to
+// list questions in one breath ("..., whether ...", "..., and where ...").
+const QUESTION_BREAK = /[?!;]|\.(?=\s|$)|,?\s+and\s+(?=(?:whether|where|which|how|what|why)\b)|,\s+(?=(?:whether|where|which|how|what|why)\b)/i;
+const FREQUENCY = /\b(more often|how often|frequency|frequently|travel more|book more|repeat|per customer)\b/i;
+// Clauses naming only a breakdown ("which routes drove it") refine the question before them.
+const REFINES_PREVIOUS = /^\s*(which|what)\b.*\b(drove|drive|driving|behind|explain|caused|contributed)\b/i;
+
+export function splitQuestions(text: string, ds: DatasetConfig, terms = catalogTerms(ds)): Question[] {
+  const clauses = text.split(QUESTION_BREAK).map((c) => c.trim()).filter((c) => c.length > 0);
+  const questions: Question[] = [];
+  for (const clause of clauses) {
+    const hits = findTerms(clause, terms);
+    const metrics = unique(hits.filter((h) => h.term.kind === 'metric').map((h) => h.term.name));
+    const dimensions = unique(hits.filter((h) => h.term.kind === 'dimension').map((h) => h.term.name)).filter(
+      (d) => !ds.comparison_groups.some((g) => g.column === ds.dimensions.find((x) => x.name === d)?.column),
+    );
+    const group = groupNamed(hits, ds);
+    const kind = clauseKind(clause, group !== undefined);
+    const previous = questions[questions.length - 1];
+    if ((kind === null || REFINES_PREVIOUS.test(clause)) && previous) {
+      previous.metrics = unique([...previous.metrics, ...metrics]);
+      previous.dimensions = unique([...previous.dimensions, ...dimensions]);
+      continue;
+    }
+    if (kind === null && metrics.length === 0) continue; // context, such as "Ops review is on the 15th"
+    const frequency = FREQUENCY.test(clause);
+    // "more often than other customers": the customers are the unit counted, not the metric.
+    const asked = frequency ? metrics.filter((m) => ds.metrics.find((x) => x.name === m)?.definition.type !== 'distinct_count') : metrics;
+    const q: Question = { text: clause, kind: kind ?? 'trend', metrics: asked, dimensions, frequency };
+    if (group) q.comparisonGroup = group;
+    questions.push(q);
+  }
+  return questions;
+}
+
+/** The one kind a clause asks; the most specific cue wins. */
+function clauseKind(clause: string, namesGroup: boolean): RequestKind | null {
+  if (KIND_CUES.performance.test(clause) && (namesGroup || /\b(program|programme|launch|pilot|feature)/i.test(clause))) return 'performance';
+  if (KIND_CUES.kpi.test(clause)) return 'kpi';
+  if (KIND_CUES.growth.test(clause)) return 'growth';
+  if (KIND_CUES.trend.test(clause)) return 'trend';
+  return null;
 }
 
 function unknownMetricPhrases(text: string, terms: CatalogTerm[]): UnknownTerm[] {

@@ -1,47 +1,134 @@
-// From a complete brief to a plan of sub-questions, and the plan edits a requester can type.
-import type { DatasetConfig } from '../config/schema.js';
+// From a complete brief to a plan of sub-questions (each request kind through its lenses),
+// shaped by the audience and capped in size, and the plan edits a requester can type.
+import type { ComparisonGroup, DatasetConfig, Metric } from '../config/schema.js';
+import type { Coverage } from '../analysis/coverage.js';
 import { TEMPLATES } from '../analysis/templates/index.js';
-import { GRAINS, type RequestKind, type SubQuestion } from '../analysis/types.js';
-import type { Brief } from './brief.js';
+import { GRAINS, type DateWindow, type Grain, type Lens, type RequestKind, type SubQuestion } from '../analysis/types.js';
+import type { Brief, Question } from './brief.js';
+import { readPeriodPhrase } from './period-phrases.js';
+import { fullWindow } from './prompts.js';
 
 export interface Plan {
   items: SubQuestion[];
   /** Kinds of question asked for that no template answers yet, said out loud in the plan. */
   notCovered: RequestKind[];
+  /** Sub-questions left out by the size cap or the audience, in plain words for the reply. */
+  leftOut: SubQuestion[];
+  /** How calendar phrases were read ("this summer" -> the summer of 2024), said back. */
+  readings: string[];
 }
 
 export const MAX_PLAN_ITEMS = 16;
+const LEADERSHIP_MAX_ITEMS = 6;
+const LENS_ORDER: Lens[] = ['time_pattern', 'breakdown', 'summary', 'distribution'];
 
-export function buildPlan(brief: Brief, ds: DatasetConfig): Plan {
-  if (!brief.window || !brief.grain) throw new Error('a plan needs a window and a grain');
-  const items: SubQuestion[] = [];
-  const notCovered: RequestKind[] = [];
-  for (const kind of brief.kinds) {
-    if (kind !== 'trend') {
-      notCovered.push(kind);
-      continue;
+type Draft = Omit<SubQuestion, 'id'> & { headline: boolean };
+
+export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): Plan {
+  const grain: Grain = brief.grain ?? 'month';
+  const all = brief.window ?? fullWindow(coverage);
+  if (!all) return { items: [], notCovered: [], leftOut: [], readings: [] };
+  const drafts: Draft[] = [];
+  const notCovered = new Set<RequestKind>();
+  const readings: string[] = [];
+  const questions = brief.questions.length > 0 ? brief.questions : [{ text: brief.requestText, kind: 'trend' as const, metrics: brief.metrics, dimensions: brief.dimensions, frequency: false }];
+  for (const q of questions) {
+    const group = groupFor(q, brief, ds);
+    const phrase = readPeriodPhrase(q.text, coverage, group?.launch_date);
+    if (phrase) readings.push(`"${q.text}": ${phrase.reading}`);
+    const focus = phrase?.window ?? all;
+    const dims = (q.dimensions.length > 0 ? q.dimensions : brief.dimensions).filter((d) => isGroupable(ds, d));
+    const metrics = q.metrics.length > 0 ? q.metrics : q.frequency ? [countMetric(ds)?.name].filter((m): m is string => !!m) : brief.metrics;
+    const before = drafts.length;
+    const add = (template: string, lens: Lens, metric: string, headline: boolean, extra: Partial<SubQuestion> = {}, window: DateWindow = all) => {
+      if (!TEMPLATES[template]) return;
+      drafts.push({ kind: q.kind, lens, template, metrics: [metric], grain, window, filters: [], headline, ...extra });
+    };
+    for (const metric of metrics) {
+      const additive = isAdditive(ds, metric);
+      switch (q.kind) {
+        case 'trend':
+          add('series', 'time_pattern', metric, true);
+          if (grain === 'month') add('trend_seasonality', 'time_pattern', metric, false);
+          add('trend_test', 'time_pattern', metric, false);
+          add('trend_summary', 'summary', metric, false);
+          for (const d of dims) add('segment_trend', 'breakdown', metric, false, { dimension: d });
+          if (additive) for (const d of dims) add('segment_shares', 'distribution', metric, false, { dimension: d });
+          break;
+        case 'growth':
+          add('growth_series', 'time_pattern', metric, !dims.length);
+          for (const [i, d] of dims.entries()) add('growth_drivers', 'breakdown', metric, i === 0, { dimension: d }, focus);
+          add('growth_summary', 'summary', metric, false);
+          if (additive) for (const d of dims) add('growth_share_shift', 'distribution', metric, false, { dimension: d }, focus);
+          break;
+        case 'performance': {
+          if (!group) break;
+          const g = { comparisonGroup: group.name };
+          const since = phrase?.window ?? (group.launch_date ? { start: group.launch_date, end: all.end } : all);
+          if (q.frequency) add('performance_frequency', 'distribution', metric, true, g, since);
+          else add('performance_compare', 'summary', metric, true, g, since);
+          add('performance_before_after', 'time_pattern', metric, false, g);
+          const d = dims[0] ?? firstGroupable(ds);
+          if (d) add('performance_by_segment', 'breakdown', metric, false, { ...g, dimension: d }, since);
+          if (q.frequency) add('performance_compare', 'summary', metric, false, g, since);
+          break;
+        }
+        case 'kpi': {
+          const upTo = { start: all.start, end: focus.end };
+          add('kpi_snapshot', 'time_pattern', metric, true, {}, upTo);
+          add('kpi_context', 'summary', metric, false, {}, upTo);
+          for (const d of dims) add('kpi_by_segment', 'breakdown', metric, false, { dimension: d }, upTo);
+          if (additive) for (const d of dims) add('kpi_mix', 'distribution', metric, false, { dimension: d }, upTo);
+          break;
+        }
+      }
     }
-    for (const metric of brief.metrics) {
-      if (!TEMPLATES.series || !ds.metrics.some((m) => m.name === metric)) continue;
-      items.push({
-        id: `q${items.length + 1}`,
-        kind,
-        lens: 'time_pattern',
-        template: 'series',
-        metrics: [metric],
-        grain: brief.grain,
-        window: brief.window,
-        filters: [],
-      });
-    }
+    if (drafts.length === before) notCovered.add(q.kind);
   }
-  if (items.length === 0 && notCovered.length > 0) {
-    // Every request can at least be answered with the metric's pattern over time.
-    for (const metric of brief.metrics) {
-      items.push({ id: `q${items.length + 1}`, kind: 'trend', lens: 'time_pattern', template: 'series', metrics: [metric], grain: brief.grain, window: brief.window, filters: [] });
-    }
-  }
-  return { items: items.slice(0, MAX_PLAN_ITEMS), notCovered };
+  // Leadership gets the headline of each question first, and fewer items.
+  const leadership = brief.audience === 'leadership';
+  const cap = leadership ? LEADERSHIP_MAX_ITEMS : MAX_PLAN_ITEMS;
+  const chosen = leadership ? [...drafts.filter((d) => d.headline), ...drafts.filter((d) => !d.headline)] : drafts;
+  const kept = new Set(chosen.slice(0, cap));
+  // Shown grouped under each kind (in the order asked), headline first, then by lens.
+  const kindOrder = [...new Set(drafts.map((d) => d.kind))];
+  const rank = (d: Draft) => kindOrder.indexOf(d.kind) * 100 + (d.headline ? 0 : 10 + LENS_ORDER.indexOf(d.lens));
+  const ordered = [...drafts].sort((a, b) => rank(a) - rank(b));
+  const keptOrdered = ordered.filter((d) => kept.has(d));
+  const leftOrdered = ordered.filter((d) => !kept.has(d));
+  const toSub = (d: Draft, i: number): SubQuestion => {
+    const { headline: _headline, ...sq } = d;
+    return { id: `q${i + 1}`, ...sq };
+  };
+  return {
+    items: keptOrdered.map(toSub),
+    leftOut: leftOrdered.map((d, i) => toSub(d, keptOrdered.length + i)),
+    notCovered: [...notCovered],
+    readings,
+  };
+}
+
+function groupFor(q: Question, brief: Brief, ds: DatasetConfig): ComparisonGroup | undefined {
+  const name = q.comparisonGroup ?? brief.comparisonGroup;
+  return name ? ds.comparison_groups.find((g) => g.name === name) : ds.comparison_groups.length === 1 ? ds.comparison_groups[0] : undefined;
+}
+
+function countMetric(ds: DatasetConfig): Metric | undefined {
+  return ds.metrics.find((m) => m.definition.type === 'count' && !('where' in m.definition && m.definition.where));
+}
+
+function isAdditive(ds: DatasetConfig, metric: string): boolean {
+  const t = ds.metrics.find((m) => m.name === metric)?.definition.type;
+  return t === 'sum' || t === 'count';
+}
+
+function isGroupable(ds: DatasetConfig, dim: string): boolean {
+  const d = ds.dimensions.find((x) => x.name === dim);
+  return !!d && !d.personal_data;
+}
+
+function firstGroupable(ds: DatasetConfig): string | undefined {
+  return ds.dimensions.find((d) => !d.personal_data && !ds.comparison_groups.some((g) => g.column === d.column))?.name;
 }
 
 export type PlanEdit =
@@ -60,8 +147,9 @@ export function readPlanEdit(text: string): PlanEdit {
     const numbers = [...drop[1]!.matchAll(/\d+/g)].map((m) => Number(m[0]));
     if (numbers.length > 0) return { type: 'drop', numbers };
   }
-  const grain = GRAINS.find((g) => new RegExp(`\\b(${g}|${g}ly|${g === 'day' ? 'daily' : g + 'ly'})\\b`).test(t));
-  if (grain && /\b(grain|make it|switch|change|use|instead|by)\b/.test(t)) return { type: 'grain', grain };
+  const adjective: Record<Grain, string> = { day: 'daily', week: 'weekly', month: 'monthly', quarter: 'quarterly', year: 'yearly' };
+  const grain = GRAINS.find((g) => new RegExp(`\\b(${adjective[g]}|by ${g}|per ${g}|${g}ly)\\b`).test(t));
+  if (grain) return { type: 'grain', grain };
   return { type: 'unknown' };
 }
 

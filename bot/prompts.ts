@@ -7,6 +7,7 @@ import { addDays, addMonths, nextPeriod, periodStart } from '../analysis/periods
 import { GRAINS, type DateWindow, type Grain } from '../analysis/types.js';
 import { AUDIENCES, type Audience, type Brief } from './brief.js';
 import { catalogTerms, isValidIsoDate, readDeadlineAnswer } from './intake.js';
+import { readPeriodPhrase } from './period-phrases.js';
 import { findTerms } from './term-match.js';
 
 export const PROMPT_TOPICS = ['metrics', 'audience', 'deadline', 'grain', 'window', 'dimensions'] as const;
@@ -35,12 +36,42 @@ export interface PromptContext {
 
 /** The next thing to ask, or null when the brief is complete enough to propose a plan. */
 export function nextPrompt(brief: Brief, ctx: PromptContext): Prompt | null {
-  if (brief.metrics.length === 0) return metricsPrompt(brief, ctx);
+  if (brief.unknownTerms.length > 0 || brief.questions.length === 0 || questionsWithoutMetric(brief).length > 0) return metricsPrompt(brief, ctx);
   if (!brief.audience) return audiencePrompt();
   if (!brief.deadline) return deadlinePrompt(ctx);
   if (!brief.grain) return grainPrompt(ctx);
-  if (!brief.window) return windowPrompt(brief, ctx);
+  if (!brief.window && needsWindow(brief, ctx)) return windowPrompt(brief, ctx);
+  if (brief.dimensions.length === 0 && brief.questions.some((q) => q.kind === 'growth' && q.dimensions.length === 0) && !brief.dimensionsAsked) {
+    return dimensionsPrompt(ctx);
+  }
   return null;
+}
+
+/** Questions that still need a metric (frequency questions count the group's own unit). */
+export function questionsWithoutMetric(brief: Brief) {
+  return brief.questions.filter((q) => q.metrics.length === 0 && !q.frequency);
+}
+
+/** A window is asked only for questions whose text names no period of its own. */
+function needsWindow(brief: Brief, ctx: PromptContext): boolean {
+  return brief.questions.some((q) => {
+    const launch = ctx.dataset.comparison_groups.find((g) => g.name === q.comparisonGroup)?.launch_date;
+    return !readPeriodPhrase(q.text, ctx.coverage, launch);
+  });
+}
+
+function dimensionsPrompt(ctx: PromptContext): Prompt {
+  const dims = ctx.dataset.dimensions.filter((d) => !d.personal_data && !ctx.dataset.comparison_groups.some((g) => g.column === d.column));
+  const first = dims[0];
+  return {
+    topic: 'dimensions',
+    question: 'Which breakdown should explain the change?',
+    options: [...dims.map((d) => ({ value: d.name, label: d.label })), { value: 'none', label: 'No breakdown' }],
+    recommended: first
+      ? { value: first.name, label: first.label, reason: 'the first breakdown in the catalog' }
+      : { value: 'none', label: 'No breakdown', reason: 'the dataset has no dimensions' },
+    many: true,
+  };
 }
 
 function metricsPrompt(brief: Brief, ctx: PromptContext): Prompt {
@@ -48,9 +79,12 @@ function metricsPrompt(brief: Brief, ctx: PromptContext): Prompt {
   const unknown = brief.unknownTerms[0];
   const suggested = unknown?.closest[0] ?? ds.metrics[0]!.name;
   const label = (name: string) => ds.metrics.find((m) => m.name === name)?.label ?? name;
+  const missing = questionsWithoutMetric(brief)[0];
   const question = unknown
     ? `I don't have a metric called "${unknown.text}". The closest I can measure: ${unknown.closest.map(label).join(', ')}. Which metric should I use?`
-    : 'Which metric should I look at?';
+    : missing
+      ? `Which metric should I use for "${clip(missing.text)}"?`
+      : 'Which metric should I look at?';
   return {
     topic: 'metrics',
     question,
@@ -160,7 +194,10 @@ export function readAnswer(prompt: Prompt, text: string, brief: Brief, ctx: Prom
       if (found.length === 0) {
         return { ok: false, message: `I couldn't match "${clip(typed)}" to a metric. I can measure: ${ctx.dataset.metrics.map((m) => m.label).join(', ')}.` };
       }
-      return { ok: true, brief: { ...brief, metrics: [...new Set([...brief.metrics, ...found])], unknownTerms: [] } };
+      const questions = brief.questions.length > 0
+        ? brief.questions.map((q) => (q.metrics.length === 0 && !q.frequency ? { ...q, metrics: found } : q))
+        : [{ text: brief.requestText, kind: brief.kinds[0] ?? 'trend', metrics: found, dimensions: brief.dimensions, frequency: false }];
+      return { ok: true, brief: { ...brief, questions, metrics: [...new Set([...brief.metrics, ...found])], unknownTerms: [] } };
     }
     case 'audience': {
       const a = AUDIENCES.find((x) => new RegExp(`\\b${x.slice(0, -1)}`, 'i').test(typed)) ?? audienceFromWords(typed);
@@ -190,7 +227,7 @@ export function readAnswer(prompt: Prompt, text: string, brief: Brief, ctx: Prom
       if (found.length === 0 && !/^\s*none\s*$/i.test(typed)) {
         return { ok: false, message: `I couldn't match "${clip(typed)}" to a dimension. I can break down by: ${terms.map((t) => t.phrase).join(', ')}.` };
       }
-      return { ok: true, brief: { ...brief, dimensions: found } };
+      return { ok: true, brief: { ...brief, dimensions: found, dimensionsAsked: true } };
     }
   }
 }

@@ -1,0 +1,26 @@
+# threadcount: build the TypeScript, then run it on a slim Debian-based Node 20 image as a non-root user.
+FROM node:20-bookworm-slim AS build
+WORKDIR /app
+COPY package.json package-lock.json ./
+RUN npm ci --no-audit --no-fund
+COPY tsconfig.json tsconfig.build.json ./
+COPY bot ./bot
+COPY adapters ./adapters
+COPY analysis ./analysis
+COPY config ./config
+COPY cli ./cli
+RUN npm run build
+
+FROM node:20-bookworm-slim AS runtime
+ENV NODE_ENV=production
+WORKDIR /app
+COPY package.json package-lock.json ./
+RUN npm ci --omit=dev --no-audit --no-fund && npm cache clean --force
+COPY --from=build /app/dist ./dist
+COPY bin ./bin
+COPY config/examples ./config/examples
+RUN useradd --system --uid 10001 --home-dir /app threadcount && mkdir -p /app/out && chown threadcount /app/out
+USER threadcount
+# The config (and its data file) is mounted at /config; start writes to /app/out.
+ENTRYPOINT ["node", "bin/threadcount.js"]
+CMD ["start"]

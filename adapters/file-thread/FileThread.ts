@@ -1,0 +1,67 @@
+// A thread written to a folder: thread.json lists every post in order (who, text, files with
+// their kind and path relative to the folder), and each attached file is written beside it.
+// Used by `threadcount ask` and by tests that read a whole conversation back.
+import { mkdirSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import type { FileKind, OutgoingPost, ThreadPort } from '../../bot/port.js';
+
+export interface RecordedFile {
+  kind: FileKind;
+  path: string;
+}
+
+export interface RecordedPost {
+  author: string;
+  text: string;
+  promptTopic?: string;
+  files: RecordedFile[];
+}
+
+export interface RecordedThread {
+  threadId: string;
+  posts: RecordedPost[];
+}
+
+const FOLDER: Record<FileKind, string> = { chart: 'charts', table: 'tables', sql: 'sql', digest: '.' };
+
+export class FileThread implements ThreadPort {
+  readonly thread: RecordedThread;
+  private readonly seenKeys = new Set<string>();
+
+  constructor(
+    private readonly dir: string,
+    threadId: string,
+    private readonly botName = 'threadcount',
+  ) {
+    mkdirSync(dir, { recursive: true });
+    this.thread = { threadId, posts: [] };
+  }
+
+  /** Records a message from a person (the request and their replies). */
+  recordIncoming(author: string, text: string): void {
+    this.thread.posts.push({ author, text, files: [] });
+    this.flush();
+  }
+
+  async post(_threadId: string, post: OutgoingPost): Promise<void> {
+    if (this.seenKeys.has(post.key)) return;
+    this.seenKeys.add(post.key);
+    const files: RecordedFile[] = [];
+    for (const f of post.files ?? []) {
+      const rel = join(FOLDER[f.kind], f.name);
+      mkdirSync(join(this.dir, FOLDER[f.kind]), { recursive: true });
+      writeFileSync(join(this.dir, rel), f.content);
+      files.push({ kind: f.kind, path: rel });
+    }
+    this.thread.posts.push({ author: this.botName, text: post.text, ...(post.prompt ? { promptTopic: post.prompt.topic } : {}), files });
+    this.flush();
+  }
+
+  lastBotPost(): RecordedPost | undefined {
+    return [...this.thread.posts].reverse().find((p) => p.author === this.botName);
+  }
+
+  private flush(): void {
+    writeFileSync(join(this.dir, 'thread.json'), `${JSON.stringify(this.thread, null, 2)}\n`);
+  }
+}

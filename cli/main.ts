@@ -1,0 +1,120 @@
+// The `threadcount` command. Errors a user can fix are printed as one clear message, never a stack trace.
+import { existsSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { parseArgs } from 'node:util';
+import { ConfigError } from '../config/load.js';
+import { generateDemo } from '../config/demo/generate-demo.js';
+import { DEMO_CONFIG_FILE, DEMO_DATABASE_FILE } from '../config/demo/generate-demo.js';
+import { SourceError } from '../analysis/sources/data-source.js';
+import { ask } from './ask.js';
+
+export const DEMO_REQUEST =
+  'Ops review is on the 15th. How has revenue moved over time, month by month? We want to see the busiest and quietest months.';
+
+const USAGE = `threadcount: answers a data request in a thread.
+
+Commands:
+  threadcount demo --out DIR [--rows N] [--seed N]
+      Write the Skerrywake Ferries demo data (DuckDB) and a config pointing to it into DIR.
+  threadcount ask --config FILE --request "TEXT" [--answers FILE] --out DIR
+      Run one whole conversation with scripted answers; write thread.json, charts, tables and SQL to DIR.
+  threadcount start [--out DIR]
+      Generate the demo (once) and answer the demo request; prints where the thread was written.
+`;
+
+export async function main(argv: string[]): Promise<number> {
+  const [command, ...rest] = argv;
+  try {
+    switch (command) {
+      case 'demo':
+        return await demoCommand(rest);
+      case 'ask':
+        return await askCommand(rest);
+      case 'start':
+        return await startCommand(rest);
+      case undefined:
+      case 'help':
+      case '--help':
+      case '-h':
+        process.stdout.write(USAGE);
+        return 0;
+      default:
+        process.stderr.write(`threadcount: unknown command "${command}".\n\n${USAGE}`);
+        return 2;
+    }
+  } catch (err) {
+    return reportError(err);
+  }
+}
+
+function reportError(err: unknown): number {
+  if (err instanceof ConfigError) {
+    process.stderr.write(`threadcount: the file has problems:\n${err.message}\n`);
+    return 2;
+  }
+  if (err instanceof SourceError) {
+    process.stderr.write(`threadcount: the dataset could not be used: ${err.message}\n`);
+    return 3;
+  }
+  if (err instanceof UsageError) {
+    process.stderr.write(`threadcount: ${err.message}\n\n${USAGE}`);
+    return 2;
+  }
+  process.stderr.write(`threadcount: unexpected error: ${err instanceof Error ? err.message : String(err)}\n`);
+  return 1;
+}
+
+class UsageError extends Error {}
+
+function parse(rest: string[], options: Record<string, { type: 'string' | 'boolean' }>) {
+  try {
+    return parseArgs({ args: rest, options, allowPositionals: false, strict: true }).values as Record<string, string | undefined>;
+  } catch (err) {
+    throw new UsageError(err instanceof Error ? err.message : String(err));
+  }
+}
+
+function positiveInt(value: string | undefined, name: string): number | undefined {
+  if (value === undefined) return undefined;
+  const n = Number(value.replaceAll('_', ''));
+  if (!Number.isInteger(n) || n < 1) throw new UsageError(`--${name} must be a whole number above 0 (got "${value}")`);
+  return n;
+}
+
+async function demoCommand(rest: string[]): Promise<number> {
+  const v = parse(rest, { out: { type: 'string' }, rows: { type: 'string' }, seed: { type: 'string' } });
+  if (!v.out) throw new UsageError('demo needs --out DIR');
+  const rows = positiveInt(v.rows, 'rows');
+  const seed = positiveInt(v.seed, 'seed');
+  const started = Date.now();
+  const result = await generateDemo({ outDir: resolve(v.out), ...(rows ? { rows } : {}), ...(seed ? { seed } : {}) });
+  process.stdout.write(`Wrote ${result.rows.toLocaleString('en')} bookings to ${result.databasePath}\nConfig: ${result.configPath} (${((Date.now() - started) / 1000).toFixed(1)} s)\n`);
+  return 0;
+}
+
+async function askCommand(rest: string[]): Promise<number> {
+  const v = parse(rest, { config: { type: 'string' }, request: { type: 'string' }, answers: { type: 'string' }, out: { type: 'string' } });
+  if (!v.config || !v.request || !v.out) throw new UsageError('ask needs --config FILE, --request "TEXT" and --out DIR');
+  const result = await ask({ configFile: v.config, request: v.request, outDir: resolve(v.out), ...(v.answers ? { answersFile: v.answers } : {}) });
+  const files = result.thread.thread.posts.flatMap((p) => p.files);
+  process.stdout.write(`Thread written to ${result.threadFile} (${result.thread.thread.posts.length} posts, ${files.length} files; conversation ${result.end}).\n`);
+  return result.end === 'stalled' ? 1 : 0;
+}
+
+async function startCommand(rest: string[]): Promise<number> {
+  const v = parse(rest, { out: { type: 'string' } });
+  const base = resolve(v.out ?? 'out');
+  const demoDir = join(base, 'demo-data');
+  if (!existsSync(join(demoDir, DEMO_DATABASE_FILE))) {
+    process.stdout.write('Generating the Skerrywake Ferries demo data (once)...\n');
+    await generateDemo({ outDir: demoDir });
+  }
+  const threadDir = join(base, 'demo-thread');
+  process.stdout.write(`Request: "${DEMO_REQUEST}"\n`);
+  const result = await ask({ configFile: join(demoDir, DEMO_CONFIG_FILE), request: DEMO_REQUEST, outDir: threadDir });
+  for (const post of result.thread.thread.posts) {
+    process.stdout.write(`\n[${post.author}] ${post.text}\n${post.files.map((f) => `  (${f.kind}: ${join(threadDir, f.path)})\n`).join('')}`);
+  }
+  process.stdout.write(`\nThread written to ${result.threadFile}\n`);
+  return result.end === 'stalled' ? 1 : 0;
+}
