@@ -119,11 +119,19 @@ export function splitQuestions(text: string, ds: DatasetConfig, terms = catalogT
     const frequency = FREQUENCY.test(clause);
     // "more often than other customers": the customers are the unit counted, not the metric.
     const asked = frequency ? metrics.filter((m) => ds.metrics.find((x) => x.name === m)?.definition.type !== 'distinct_count') : metrics;
-    const q: Question = { text: clause, kind: kind ?? 'trend', metrics: asked, dimensions, frequency };
+    const q: Question = { text: withoutPreamble(clause), kind: kind ?? 'trend', metrics: asked, dimensions, frequency };
     if (group) q.comparisonGroup = group;
     questions.push(q);
   }
   return questions;
+}
+
+/** "Could the data team tell us whether X" -> "X": the question without its polite wrapping. */
+function withoutPreamble(clause: string): string {
+  const stripped = clause
+    .replace(/^(?:(?:could|can|would|will)\s+(?:you|someone|the data team|the team|we)\s+(?:please\s+)?(?:tell|show|let)\s+(?:us|me)\s+(?:know\s+)?)?(?:whether|if)\s+/i, '')
+    .replace(/^(?:and|also|plus)\s+/i, '');
+  return stripped.length > 0 ? stripped : clause;
 }
 
 /** The one kind a clause asks; the most specific cue wins. */
