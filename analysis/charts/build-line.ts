@@ -1,0 +1,68 @@
+import { formatPeriod, formatValue, type ValueFormat } from '../format.js';
+import type { Grain, PeriodPoint } from '../types.js';
+import { headerOf } from './header.js';
+import type { ChartHeader, LineMark, LineSpec } from './spec.js';
+
+export interface LineInput extends ChartHeader {
+  /** Name of the series, e.g. "Revenue"; shown in the legend when there is an overlay. */
+  seriesLabel: string;
+  grain: Grain;
+  points: PeriodPoint[];
+  format: ValueFormat;
+  /** The same periods a year earlier, aligned with `points` by index. */
+  overlay?: { label: string; values: (number | null)[] };
+}
+
+export function buildLine(input: LineInput): LineSpec {
+  const locale = input.format.locale;
+  const points = input.points.map((p) => ({
+    label: formatPeriod(p.period, input.grain, locale),
+    period: p.period,
+    value: finiteOrNull(p.value),
+    partial: p.partial,
+  }));
+  const spec: LineSpec = {
+    kind: 'line',
+    ...headerOf(input),
+    seriesLabel: input.seriesLabel,
+    grain: input.grain,
+    points,
+    format: { ...input.format },
+    marks: highLowMarks(input.points, input.grain, input.format),
+  };
+  if (input.overlay) {
+    const values = points.map((_, i) => finiteOrNull(input.overlay!.values[i] ?? null));
+    spec.overlay = { label: input.overlay.label, values };
+  }
+  return spec;
+}
+
+/**
+ * Marks the highest and lowest complete periods. Partial periods are left out: a half-covered
+ * last month is low only because it is unfinished, and calling it the low would mislead.
+ */
+function highLowMarks(points: PeriodPoint[], grain: Grain, fmt: ValueFormat): LineMark[] {
+  const valid = points
+    .map((p, index) => ({ p, index }))
+    .filter(({ p }) => p.value !== null && Number.isFinite(p.value));
+  const complete = valid.filter(({ p }) => !p.partial);
+  const candidates = complete.length >= 2 ? complete : valid;
+  if (candidates.length < 2) return [];
+  let high = candidates[0]!;
+  let low = candidates[0]!;
+  for (const c of candidates) {
+    if (c.p.value! > high.p.value!) high = c;
+    if (c.p.value! < low.p.value!) low = c;
+  }
+  if (high.p.value === low.p.value) return [];
+  const text = (label: string, c: typeof high) =>
+    `${label}: ${formatValue(c.p.value, fmt, { compact: true })}, ${formatPeriod(c.p.period, grain, fmt.locale)}`;
+  return [
+    { role: 'high', index: high.index, text: text('High', high) },
+    { role: 'low', index: low.index, text: text('Low', low) },
+  ];
+}
+
+function finiteOrNull(v: number | null): number | null {
+  return v !== null && Number.isFinite(v) ? v : null;
+}

@@ -1,0 +1,50 @@
+import { formatValue, type ValueFormat } from '../format.js';
+import { foldTail, type SegmentValue } from './build-bars.js';
+import { headerOf } from './header.js';
+import type { ChartHeader, ParetoBar, ParetoSpec } from './spec.js';
+
+export interface ParetoInput extends ChartHeader {
+  items: SegmentValue[];
+  format: ValueFormat;
+  /** Axis title of the bars, e.g. "Revenue". */
+  valueLabel: string;
+  /** Bars shown before the tail is folded (default 10). */
+  topN?: number;
+  othersLabel?: string;
+  /** Reference share (default 0.8: the "80/20" line). */
+  threshold?: number;
+}
+
+export function buildPareto(input: ParetoInput): ParetoSpec {
+  const threshold = input.threshold ?? 0.8;
+  const folded = foldTail(input.items, input.topN ?? 10, input.othersLabel ?? 'All others');
+  // Shares of a total only make sense for non-negative parts; negatives count as zero.
+  const total = folded.reduce((sum, s) => sum + Math.max(0, s.value), 0);
+  const shareFmt: ValueFormat = { unit: 'percent', decimals: 0, locale: input.format.locale };
+  let running = 0;
+  const bars: ParetoBar[] = folded.map((s) => {
+    const share = total > 0 ? Math.max(0, s.value) / total : 0;
+    running += share;
+    const cumulative = Math.min(1, running);
+    return {
+      label: s.label,
+      value: s.value,
+      text: formatValue(s.value, input.format, { compact: true }),
+      other: s.other,
+      share,
+      cumulative,
+      cumulativeText: formatValue(cumulative, shareFmt),
+    };
+  });
+  // A small tolerance so 0.8 accumulated in floating point still counts as reaching 80%.
+  const thresholdIndex = total > 0 ? bars.findIndex((b) => b.cumulative >= threshold - 1e-9) : -1;
+  return {
+    kind: 'pareto',
+    ...headerOf(input),
+    format: { ...input.format },
+    bars,
+    threshold,
+    thresholdIndex,
+    valueLabel: input.valueLabel,
+  };
+}

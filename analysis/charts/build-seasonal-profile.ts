@@ -1,0 +1,46 @@
+import { formatValue } from '../format.js';
+import { headerOf, monthNames } from './header.js';
+import type { ChartHeader, SeasonalMonth, SeasonalProfileSpec } from './spec.js';
+
+export interface SeasonalIndex {
+  /** Calendar month, 1–12. */
+  month: number;
+  index: number | null;
+  min: number | null;
+  max: number | null;
+}
+
+export interface SeasonalProfileInput extends ChartHeader {
+  months: SeasonalIndex[];
+  locale: string;
+  /** Legend text of the whiskers, e.g. "Range 2022–2024". */
+  rangeLabel: string;
+}
+
+export function buildSeasonalProfile(input: SeasonalProfileInput): SeasonalProfileSpec {
+  const names = monthNames(input.locale);
+  const byMonth = new Map(input.months.map((m) => [m.month, m]));
+  const months: SeasonalMonth[] = names.map((label, i) => {
+    const m = byMonth.get(i + 1);
+    const index = finiteOrNull(m?.index ?? null);
+    return {
+      label,
+      index,
+      min: finiteOrNull(m?.min ?? null),
+      max: finiteOrNull(m?.max ?? null),
+      text: formatValue(index, { unit: 'number', decimals: 2, locale: input.locale }),
+    };
+  });
+  return {
+    kind: 'seasonal_profile',
+    ...headerOf(input),
+    months,
+    locale: input.locale,
+    reference: 1,
+    rangeLabel: input.rangeLabel,
+  };
+}
+
+function finiteOrNull(v: number | null): number | null {
+  return v !== null && Number.isFinite(v) ? v : null;
+}

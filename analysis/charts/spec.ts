@@ -1,0 +1,217 @@
+// A chart spec is plain, serialisable data: builders compute every number and label in it,
+// and the renderer only draws it. No functions, no dates, no class instances.
+import type { ValueFormat } from '../format.js';
+import type { Grain } from '../types.js';
+
+export const CHART_KINDS = [
+  'line',
+  'bars',
+  'pareto',
+  'growth_grid',
+  'kpi_card',
+  'group_compare',
+  'seasonal_profile',
+] as const;
+export type ChartKind = (typeof CHART_KINDS)[number];
+
+/** Texts and size every chart carries. */
+export interface ChartHeader {
+  title: string;
+  subtitle: string;
+  /** Small print: dataset, "data as of …", caveat flags; one entry per fact. */
+  footer: string[];
+  width: number;
+  height: number;
+  /** Device pixels per layout pixel: 2 for sharp images on high-density screens. */
+  scale: 1 | 2;
+}
+
+// ---- line -------------------------------------------------------------------------------
+
+export interface LinePoint {
+  /** Axis label of the period, already formatted ("Aug 2024"). */
+  label: string;
+  /** ISO date the period starts on; the renderer aligns axis labels to calendar boundaries. */
+  period: string;
+  value: number | null;
+  /** The period is only partly covered; drawn with a dashed segment and a hollow marker. */
+  partial: boolean;
+}
+
+export interface LineMark {
+  role: 'high' | 'low';
+  /** Index into `points`. */
+  index: number;
+  /** "High: €1.93M, Aug 2024". */
+  text: string;
+}
+
+export interface LineOverlay {
+  /** Legend text, e.g. "Same month last year". */
+  label: string;
+  /** Aligned with `points` by index. */
+  values: (number | null)[];
+}
+
+export interface LineSpec extends ChartHeader {
+  kind: 'line';
+  /** Legend text of the main series (shown only when there is an overlay). */
+  seriesLabel: string;
+  grain: Grain;
+  points: LinePoint[];
+  format: ValueFormat;
+  marks: LineMark[];
+  overlay?: LineOverlay;
+}
+
+// ---- bars -------------------------------------------------------------------------------
+
+export interface Bar {
+  label: string;
+  value: number;
+  /** Formatted value written at the end of the bar. */
+  text: string;
+  /** The "All others" bar folding the tail; drawn in a neutral colour. */
+  other: boolean;
+}
+
+export interface BarsSpec extends ChartHeader {
+  kind: 'bars';
+  format: ValueFormat;
+  /** Sorted by value, descending, with any "All others" bar last. */
+  bars: Bar[];
+}
+
+// ---- pareto -----------------------------------------------------------------------------
+
+export interface ParetoBar extends Bar {
+  /** Share of the total, 0–1. */
+  share: number;
+  /** Running share up to and including this bar, 0–1. */
+  cumulative: number;
+  /** Cumulative share written beside the line point ("71%"). */
+  cumulativeText: string;
+}
+
+export interface ParetoSpec extends ChartHeader {
+  kind: 'pareto';
+  format: ValueFormat;
+  bars: ParetoBar[];
+  /** The reference share (0.8). */
+  threshold: number;
+  /** First bar at which the cumulative share reaches the threshold; -1 when none does. */
+  thresholdIndex: number;
+  /** Axis title of the bars' axis, e.g. "Revenue". */
+  valueLabel: string;
+}
+
+// ---- growth grid ------------------------------------------------------------------------
+
+export interface GrowthGridRow {
+  /** "2024". */
+  label: string;
+  /** Relative change per column; null where there is no comparable value. */
+  cells: (number | null)[];
+  /** "+8.1%", "n/a". */
+  texts: string[];
+}
+
+export interface GrowthGridSpec extends ChartHeader {
+  kind: 'growth_grid';
+  /** Column headers, e.g. "Jan" … "Dec". */
+  columns: string[];
+  rows: GrowthGridRow[];
+  /** Colour scale runs from −domain (full "worse" colour) to +domain (full "better" colour). */
+  domain: number;
+  /** Decides which direction is coloured as good (blue) and which as bad (vermillion). */
+  higherIsBetter: boolean;
+  /** Legend caption, e.g. "Change vs same month a year earlier". */
+  legendLabel: string;
+  /** Texts of the legend's two ends and middle, e.g. ["−20%", "0%", "+20%"]. */
+  legendTexts: [string, string, string];
+}
+
+// ---- KPI card ---------------------------------------------------------------------------
+
+export interface KpiComparison {
+  /** "vs April 2025", "vs May 2024". */
+  label: string;
+  /** "+8.1%" or "n/a". */
+  changeText: string;
+  /** The value compared against, formatted: "€23.10". */
+  baseText: string;
+  direction: 'up' | 'down' | 'flat' | 'none';
+  sentiment: 'good' | 'bad' | 'neutral';
+}
+
+export interface KpiCardSpec extends ChartHeader {
+  kind: 'kpi_card';
+  /** "Average fare per passenger". */
+  metricLabel: string;
+  /** "€23.45". */
+  valueText: string;
+  /** "May 2025". */
+  periodText: string;
+  comparisons: KpiComparison[];
+}
+
+// ---- group comparison -------------------------------------------------------------------
+
+export interface GroupEstimate {
+  label: string;
+  estimate: number;
+  /** Confidence interval bounds; null when the interval could not be computed. */
+  low: number | null;
+  high: number | null;
+  n: number;
+  /** "€23.45". */
+  estimateText: string;
+  /** "95% CI €22.90 – €24.00", or "" without an interval. */
+  intervalText: string;
+  /** "n = 12,345". */
+  nText: string;
+}
+
+export interface GroupCompareSpec extends ChartHeader {
+  kind: 'group_compare';
+  format: ValueFormat;
+  groups: GroupEstimate[];
+  /** Confidence level of the whiskers, e.g. 0.95. */
+  level: number;
+  /** Axis title, e.g. "Bookings per customer". */
+  valueLabel: string;
+}
+
+// ---- seasonal profile -------------------------------------------------------------------
+
+export interface SeasonalMonth {
+  /** "Jan". */
+  label: string;
+  /** Mean seasonal index; 1.0 is an average month. */
+  index: number | null;
+  /** Lowest and highest index of that month across the years. */
+  min: number | null;
+  max: number | null;
+  /** "1.32". */
+  text: string;
+}
+
+export interface SeasonalProfileSpec extends ChartHeader {
+  kind: 'seasonal_profile';
+  months: SeasonalMonth[];
+  /** Locale of the axis numbers. */
+  locale: string;
+  /** Reference index drawn as a line (1.0). */
+  reference: number;
+  /** Legend text of the whiskers, e.g. "Range 2022–2024". */
+  rangeLabel: string;
+}
+
+export type ChartSpec =
+  | LineSpec
+  | BarsSpec
+  | ParetoSpec
+  | GrowthGridSpec
+  | KpiCardSpec
+  | GroupCompareSpec
+  | SeasonalProfileSpec;

@@ -1,0 +1,177 @@
+// Number and period formatting shared by chart specs and captions, so a value reads the
+// same in the picture and in the prose. Pure: Intl only, no clocks, no process state.
+import type { Metric, Unit } from '../config/schema.js';
+import type { Grain } from './types.js';
+
+export interface ValueFormat {
+  unit: Unit;
+  /** ISO 4217 code, used when unit is 'currency'. */
+  currency?: string;
+  /** Fixed decimals for the full (non-compact) form; unit defaults apply when absent. */
+  decimals?: number;
+  locale: string;
+}
+
+export interface FormatOptions {
+  /** About three significant figures with a magnitude suffix: "€1.93M". */
+  compact?: boolean;
+  /** Always show the sign: "+€12.3K", "−€612". */
+  signed?: boolean;
+}
+
+const NOT_AVAILABLE = 'n/a';
+// Typographic minus: reads better than a hyphen in titles and never wraps apart from its number.
+const MINUS = '\u2212';
+const FALLBACK_LOCALE = 'en';
+
+export function valueFormatOf(metric: Metric, locale: string): ValueFormat {
+  const fmt: ValueFormat = { unit: metric.unit, locale };
+  if (metric.currency !== undefined) fmt.currency = metric.currency;
+  if (metric.decimals !== undefined) fmt.decimals = metric.decimals;
+  return fmt;
+}
+
+export function formatValue(value: number | null, fmt: ValueFormat, opts: FormatOptions = {}): string {
+  if (value === null || !Number.isFinite(value)) return NOT_AVAILABLE;
+  const options = numberOptions(value, fmt, opts);
+  return withMinus(numberFormat(fmt.locale, options).format(value === 0 ? 0 : value));
+}
+
+/** A relative change as a signed percentage: 0.081 → "+8.1%", −0.05 → "−5.0%". */
+export function formatChange(relative: number | null, locale: string): string {
+  if (relative === null || !Number.isFinite(relative)) return NOT_AVAILABLE;
+  const digits = Math.abs(relative) >= 10 ? 0 : 1;
+  const nf = numberFormat(locale, {
+    style: 'percent',
+    minimumFractionDigits: digits,
+    maximumFractionDigits: digits,
+    signDisplay: 'exceptZero',
+  });
+  return withMinus(nf.format(relative === 0 ? 0 : relative));
+}
+
+/**
+ * A period label from the ISO date the period starts on. Dates are calendar dates, so they
+ * are formatted in UTC: formatting a local midnight would shift them by a day west of UTC.
+ */
+export function formatPeriod(
+  periodIso: string,
+  grain: Grain,
+  locale: string,
+  style: 'short' | 'long' = 'short',
+): string {
+  const date = parseCalendarDate(periodIso);
+  if (date === null) return NOT_AVAILABLE;
+  const month = style === 'long' ? 'long' : 'short';
+  switch (grain) {
+    case 'year':
+      return dateFormat(locale, { year: 'numeric' }).format(date);
+    case 'quarter': {
+      const quarter = Math.floor(date.getUTCMonth() / 3) + 1;
+      return `Q${quarter} ${dateFormat(locale, { year: 'numeric' }).format(date)}`;
+    }
+    case 'month':
+      return dateFormat(locale, { month, year: 'numeric' }).format(date);
+    case 'week': {
+      const day = dateFormat(locale, { day: 'numeric', month, year: 'numeric' }).format(date);
+      return style === 'long' ? `week commencing ${day}` : `w/c ${day}`;
+    }
+    case 'day':
+      return dateFormat(locale, { day: 'numeric', month, year: 'numeric' }).format(date);
+  }
+}
+
+/** Rounds to `digits` significant figures; non-finite values pass through unchanged. */
+export function significant(value: number, digits = 3): number {
+  if (!Number.isFinite(value) || value === 0) return value === 0 ? 0 : value;
+  const d = Math.min(100, Math.max(1, Math.round(digits)));
+  const rounded = Number(value.toPrecision(d));
+  return rounded === 0 ? 0 : rounded;
+}
+
+function numberOptions(value: number, fmt: ValueFormat, opts: FormatOptions): Intl.NumberFormatOptions {
+  // 'negative' (ES2023 Intl) keeps a value that rounds to zero from showing as "-0".
+  const sign = { signDisplay: opts.signed ? 'exceptZero' : 'negative' } as Intl.NumberFormatOptions;
+  const decimals = fmt.decimals === undefined ? undefined : clampDecimals(fmt.decimals);
+  if (fmt.unit === 'percent') {
+    const d = decimals ?? 1;
+    return { ...sign, style: 'percent', minimumFractionDigits: d, maximumFractionDigits: d };
+  }
+  const currency = fmt.unit === 'currency' ? validCurrency(fmt.currency) : undefined;
+  const style: Intl.NumberFormatOptions = currency ? { style: 'currency', currency } : {};
+  if (opts.compact) {
+    return { ...sign, ...style, notation: 'compact', maximumSignificantDigits: 3 };
+  }
+  let d: { min: number; max: number };
+  if (decimals !== undefined) d = { min: decimals, max: decimals };
+  else if (fmt.unit === 'count') d = { min: 0, max: 0 };
+  // Cents matter on a fare, not on a month's revenue.
+  else if (fmt.unit === 'currency') d = Math.abs(value) < 1000 ? { min: 2, max: 2 } : { min: 0, max: 0 };
+  else d = { min: 0, max: 2 };
+  return { ...sign, ...style, minimumFractionDigits: d.min, maximumFractionDigits: d.max };
+}
+
+function clampDecimals(decimals: number): number {
+  return Number.isFinite(decimals) ? Math.min(6, Math.max(0, Math.round(decimals))) : 0;
+}
+
+function validCurrency(code: string | undefined): string | undefined {
+  if (code === undefined) return undefined;
+  try {
+    new Intl.NumberFormat(FALLBACK_LOCALE, { style: 'currency', currency: code });
+    return code.toUpperCase();
+  } catch {
+    return undefined;
+  }
+}
+
+function withMinus(text: string): string {
+  return text.replace(/-/g, MINUS);
+}
+
+// Building an Intl formatter costs far more than using one; charts format hundreds of ticks.
+const numberFormats = new Map<string, Intl.NumberFormat>();
+const dateFormats = new Map<string, Intl.DateTimeFormat>();
+
+function numberFormat(locale: string, options: Intl.NumberFormatOptions): Intl.NumberFormat {
+  const key = `${locale}|${JSON.stringify(options)}`;
+  let nf = numberFormats.get(key);
+  if (!nf) {
+    try {
+      nf = new Intl.NumberFormat(locale, options);
+    } catch {
+      nf = new Intl.NumberFormat(FALLBACK_LOCALE, options);
+    }
+    numberFormats.set(key, nf);
+  }
+  return nf;
+}
+
+function dateFormat(locale: string, options: Intl.DateTimeFormatOptions): Intl.DateTimeFormat {
+  const key = `${locale}|${JSON.stringify(options)}`;
+  let df = dateFormats.get(key);
+  if (!df) {
+    const utc = { ...options, timeZone: 'UTC' };
+    try {
+      df = new Intl.DateTimeFormat(locale, utc);
+    } catch {
+      df = new Intl.DateTimeFormat(FALLBACK_LOCALE, utc);
+    }
+    dateFormats.set(key, df);
+  }
+  return df;
+}
+
+/** 'YYYY-MM-DD' (a time suffix is tolerated and ignored) → UTC midnight; null when not a real date. */
+function parseCalendarDate(iso: string): Date | null {
+  const m = /^(\d{4})-(\d{2})-(\d{2})(?:$|[T ])/.exec(iso);
+  if (!m) return null;
+  const year = Number(m[1]);
+  const month = Number(m[2]);
+  const day = Number(m[3]);
+  if (year < 1 || month < 1 || month > 12 || day < 1) return null;
+  const date = new Date(0);
+  date.setUTCFullYear(year, month - 1, day);
+  if (date.getUTCMonth() !== month - 1 || date.getUTCDate() !== day) return null;
+  return date;
+}

@@ -1,0 +1,209 @@
+// Demo-style inputs for chart tests: Skerrywake Ferries (invented). Every number is computed
+// here from a small seeded model, so tests never depend on outside data.
+import { buildBars, type BarsInput } from '../../../analysis/charts/build-bars.js';
+import { buildGroupCompare } from '../../../analysis/charts/build-group-compare.js';
+import { buildGrowthGrid, type GrowthCell } from '../../../analysis/charts/build-growth-grid.js';
+import { buildKpiCard } from '../../../analysis/charts/build-kpi-card.js';
+import { buildLine } from '../../../analysis/charts/build-line.js';
+import { buildPareto } from '../../../analysis/charts/build-pareto.js';
+import { buildSeasonalProfile, type SeasonalIndex } from '../../../analysis/charts/build-seasonal-profile.js';
+import type { ChartHeader, ChartSpec } from '../../../analysis/charts/spec.js';
+import type { ValueFormat } from '../../../analysis/format.js';
+import type { PeriodPoint } from '../../../analysis/types.js';
+
+export const LOCALE = 'en-IE';
+export const EUR: ValueFormat = { unit: 'currency', currency: 'EUR', locale: LOCALE };
+const FOOTER = ['Source: Skerrywake bookings (demo data)', 'Data as of 18 Jun 2025'];
+
+export function header(title: string, subtitle: string, extra: Partial<ChartHeader> = {}): ChartHeader {
+  return { title, subtitle, footer: [...FOOTER], width: 1200, height: 675, scale: 1, ...extra };
+}
+
+/** Small deterministic noise in [-1, 1] (a linear congruential generator). */
+function noise(seed: number): () => number {
+  let s = seed >>> 0;
+  return () => {
+    s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
+    return (s / 2 ** 32) * 2 - 1;
+  };
+}
+
+// Calendar-month shape: July and August busiest, January and February quietest, a December bump.
+export const SEASON = [0.62, 0.66, 0.8, 0.92, 1.02, 1.18, 1.45, 1.5, 1.1, 0.92, 0.78, 0.95];
+const YEAR_LEVEL: Record<number, number> = { 2022: 1, 2023: 1.08, 2024: 1.08, 2025: 1.026 };
+
+/** Monthly revenue, Jan 2022 to Jun 2025, June 2025 only 18 days in. */
+export function monthlyRevenue(): PeriodPoint[] {
+  const rnd = noise(7);
+  const points: PeriodPoint[] = [];
+  for (let y = 2022; y <= 2025; y++) {
+    for (let m = 0; m < 12; m++) {
+      if (y === 2025 && m > 5) break;
+      let value = 1_400_000 * YEAR_LEVEL[y]! * SEASON[m]! * (1 + 0.03 * rnd());
+      if (y === 2024 && m === 0) value *= 0.8; // the January storm week
+      const partial = y === 2025 && m === 5;
+      if (partial) value *= 18 / 30;
+      points.push({ period: `${y}-${String(m + 1).padStart(2, '0')}-01`, value: Math.round(value), partial });
+    }
+  }
+  return points;
+}
+
+export function lineSpec(extra: Partial<ChartHeader> = {}) {
+  return buildLine({
+    ...header('Revenue peaks every summer; 2025 is running below 2024', 'Revenue per month, Jan 2022 to Jun 2025 (June 2025 is partial)', extra),
+    seriesLabel: 'Revenue',
+    grain: 'month',
+    points: monthlyRevenue(),
+    format: EUR,
+  });
+}
+
+export function lineOverlaySpec(extra: Partial<ChartHeader> = {}) {
+  const all = monthlyRevenue();
+  const recent = all.slice(-12);
+  const lastYear = all.slice(-24, -12).map((p) => p.value);
+  return buildLine({
+    ...header('The last twelve months ran below the year before', 'Revenue per month, Jul 2024 to Jun 2025, against the same month a year earlier', extra),
+    seriesLabel: 'Revenue',
+    grain: 'month',
+    points: recent,
+    format: EUR,
+    overlay: { label: 'Same month last year', values: lastYear },
+  });
+}
+
+const ROUTES = ['Mainland–Tern Holm', 'Mainland–Saltreach', 'Mainland–Kelpie Sound', 'Mainland–Dunlin Quay', 'Tern Holm–Saltreach'];
+const ROUTE_SHARE = [0.41, 0.29, 0.12, 0.1, 0.08];
+const FARE_CLASSES = ['foot', 'bicycle', 'car', 'van'];
+const CLASS_SHARE = [0.34, 0.06, 0.45, 0.15];
+
+export function routeRevenue(): { label: string; value: number }[] {
+  return ROUTES.map((label, i) => ({ label, value: Math.round(18_400_000 * ROUTE_SHARE[i]!) }));
+}
+
+export function barsInput(extra: Partial<ChartHeader> = {}): BarsInput {
+  const items = ROUTES.flatMap((route, i) =>
+    FARE_CLASSES.map((fc, j) => ({ label: `${route}, ${fc}`, value: Math.round(6_100_000 * ROUTE_SHARE[i]! * CLASS_SHARE[j]!) })),
+  );
+  return {
+    ...header('Car fares on the two main routes bring in half the revenue', 'Revenue by route and fare class, Jan–Jun 2025', extra),
+    items,
+    format: EUR,
+    topN: 8,
+  };
+}
+
+export function barsSpec(extra: Partial<ChartHeader> = {}) {
+  return buildBars(barsInput(extra));
+}
+
+export function paretoSpec(extra: Partial<ChartHeader> = {}) {
+  return buildPareto({
+    ...header('Two routes carry 70% of revenue', 'Revenue by route, Jan 2022 to Jun 2025, with the running share of the total', extra),
+    items: routeRevenue(),
+    format: EUR,
+    valueLabel: 'Revenue',
+  });
+}
+
+export function growthCells(): GrowthCell[] {
+  const series = monthlyRevenue().filter((p) => !p.partial);
+  const byPeriod = new Map(series.map((p) => [p.period, p.value]));
+  return series
+    .filter((p) => p.period >= '2023-01-01')
+    .map((p) => {
+      const prior = byPeriod.get(`${Number(p.period.slice(0, 4)) - 1}${p.period.slice(4)}`) ?? null;
+      return { period: p.period, change: prior && p.value !== null ? p.value / prior - 1 : null };
+    });
+}
+
+export function growthGridSpec(extra: Partial<ChartHeader> = {}) {
+  return buildGrowthGrid({
+    ...header('Growth stalled in 2024 and turned negative in 2025', 'Revenue, change against the same month a year earlier', extra),
+    cells: growthCells(),
+    higherIsBetter: true,
+    locale: LOCALE,
+  });
+}
+
+export function kpiSpec(extra: Partial<ChartHeader> = {}) {
+  return buildKpiCard({
+    ...header('Average fare per passenger, May 2025', 'Revenue divided by passengers carried, bookings sailing in the month', extra),
+    metricLabel: 'Average fare per passenger',
+    format: { ...EUR, decimals: 2 },
+    higherIsBetter: true,
+    grain: 'month',
+    current: { period: '2025-05-01', value: 23.46 },
+    previous: { period: '2025-04-01', value: 22.91 },
+    lastYear: { period: '2024-05-01', value: 24.1 },
+  });
+}
+
+export function kpiRefundSpec(extra: Partial<ChartHeader> = {}) {
+  return buildKpiCard({
+    ...header('Share of revenue refunded, May 2025', 'Refunded amount as a share of revenue', extra),
+    metricLabel: 'Share of revenue refunded',
+    format: { unit: 'percent', locale: LOCALE },
+    higherIsBetter: false,
+    grain: 'month',
+    current: { period: '2025-05-01', value: 0.0521 },
+    previous: { period: '2025-04-01', value: 0.0488 },
+    lastYear: { period: '2024-05-01', value: 0.0597 },
+  });
+}
+
+export function groupCompareSpec(extra: Partial<ChartHeader> = {}) {
+  // Means and normal-approximation 95% intervals from a stated mean, SD and n.
+  const group = (label: string, mean: number, sd: number, n: number) => {
+    const half = (1.959964 * sd) / Math.sqrt(n);
+    return { label, estimate: mean, low: mean - half, high: mean + half, n };
+  };
+  return buildGroupCompare({
+    ...header('SkerryPass holders book about 2.5 times as often', 'Bookings per customer since the SkerryPass launch (1 Apr 2023)', extra),
+    groups: [group('SkerryPass holders', 9.8, 6.1, 1_840), group('Other customers', 3.9, 3.2, 27_450)],
+    format: { unit: 'number', decimals: 1, locale: LOCALE },
+    valueLabel: 'Bookings per customer',
+  });
+}
+
+export function seasonalIndices(): SeasonalIndex[] {
+  const series = monthlyRevenue().filter((p) => p.period < '2025-01-01');
+  const perYear = new Map<string, number[]>();
+  for (const p of series) {
+    const y = p.period.slice(0, 4);
+    perYear.set(y, [...(perYear.get(y) ?? []), p.value!]);
+  }
+  const indices = [...perYear.values()].map((vals) => {
+    const mean = vals.reduce((a, b) => a + b, 0) / vals.length;
+    return vals.map((v) => v / mean);
+  });
+  return Array.from({ length: 12 }, (_, m) => {
+    const xs = indices.map((row) => row[m]!);
+    return { month: m + 1, index: xs.reduce((a, b) => a + b, 0) / xs.length, min: Math.min(...xs), max: Math.max(...xs) };
+  });
+}
+
+export function seasonalSpec(extra: Partial<ChartHeader> = {}) {
+  return buildSeasonalProfile({
+    ...header('July and August are half as busy again as an average month', 'Seasonal index of revenue by calendar month, 2022–2024', extra),
+    months: seasonalIndices(),
+    locale: LOCALE,
+    rangeLabel: 'Range across 2022–2024',
+  });
+}
+
+/** One realistic spec per kind (two for line and KPI). */
+export function allSamples(extra: Partial<ChartHeader> = {}): Record<string, ChartSpec> {
+  return {
+    line: lineSpec(extra),
+    'line-overlay': lineOverlaySpec(extra),
+    bars: barsSpec(extra),
+    pareto: paretoSpec(extra),
+    'growth-grid': growthGridSpec(extra),
+    'kpi-card': kpiSpec(extra),
+    'kpi-card-rate': kpiRefundSpec(extra),
+    'group-compare': groupCompareSpec(extra),
+    'seasonal-profile': seasonalSpec(extra),
+  };
+}
