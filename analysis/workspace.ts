@@ -40,3 +40,8 @@ export async function openWorkspace(config: LoadedConfig, datasetName?: string):
     throw err;
   }
 }
+
+/** Re-reads what the data covers (for "rerun with fresh data"). */
+export async function refreshCoverage(ws: Workspace): Promise<void> {
+  ws.coverage = readCoverage(await ws.source.run(compileCoverage(ws.context), ws.runOptions));
+}

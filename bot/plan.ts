@@ -2,6 +2,7 @@
 // shaped by the audience and capped in size, and the plan edits a requester can type.
 import type { ComparisonGroup, DatasetConfig, Metric } from '../config/schema.js';
 import type { Coverage } from '../analysis/coverage.js';
+import { PRESENTERS } from '../analysis/present/index.js';
 import { TEMPLATES } from '../analysis/templates/index.js';
 import { GRAINS, type DateWindow, type Grain, type Lens, type RequestKind, type SubQuestion } from '../analysis/types.js';
 import type { Brief, Question } from './brief.js';
@@ -41,7 +42,7 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
     const metrics = q.metrics.length > 0 ? q.metrics : q.frequency ? [countMetric(ds)?.name].filter((m): m is string => !!m) : brief.metrics;
     const before = drafts.length;
     const add = (template: string, lens: Lens, metric: string, headline: boolean, extra: Partial<SubQuestion> = {}, window: DateWindow = all) => {
-      if (!TEMPLATES[template]) return;
+      if (!TEMPLATES[template] || !PRESENTERS[template]) return;
       drafts.push({ kind: q.kind, lens, template, metrics: [metric], grain, window, filters: [], headline, ...extra });
     };
     for (const metric of metrics) {

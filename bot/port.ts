@@ -11,7 +11,7 @@ export interface OutgoingFile {
 }
 
 export interface OutgoingPost {
-  /** Stable per thread: a retried step reuses its key, and adapters drop a repeat. */
+  /** Stable per thread: a retried step reuses its key, and the bot skips a key already posted. */
   key: string;
   text: string;
   prompt?: Prompt;
@@ -19,7 +19,10 @@ export interface OutgoingPost {
 }
 
 export interface ThreadPort {
-  post(threadId: string, post: OutgoingPost): Promise<void>;
+  /** Posts in the thread and returns the platform's reference to the message. */
+  post(threadId: string, post: OutgoingPost): Promise<string>;
+  /** Replaces the text of a message posted earlier (progress updated in place). */
+  update(threadId: string, ref: string, text: string): Promise<void>;
 }
 
 /** A message arriving in a thread: the request that opens it, or a reply. */

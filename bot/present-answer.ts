@@ -1,7 +1,7 @@
 // An answered sub-question as a post (caption, notes, chart PNG, result CSVs, the SQL that
 // ran), and the closing summary with the takeaways in order of importance.
 import { renderChart } from '../analysis/charts/render.js';
-import { presenterFor, type PresentContext, type Presented } from '../analysis/present/index.js';
+import { presenterFor, type PresentContext } from '../analysis/present/index.js';
 import { sqlForReaders } from '../analysis/sql/render-sql.js';
 import { tableToCsv } from '../analysis/table-csv.js';
 import type { Answer, Audience } from '../analysis/types.js';
@@ -25,19 +25,15 @@ export const presentAnswer: AnswerPresenter = async (answer, { workspace, audien
   }
   files.push({ name: `${stem}.sql`, kind: 'sql', content: sqlForReaders(answer.queries, workspace.source.dialect.name) });
   const text = [`*${position}. ${presented.title}*`, presented.caption, ...presented.notes.map((n) => `_Note: ${n}_`)].join('\n');
-  return { text, files };
+  return { post: { text, files }, takeaway: presented.takeaway };
 };
 
-export const presentSummary: SummaryPresenter = (answers, { workspace, audience }) => {
-  const ctx = presentContext(workspace, audience);
-  const takeaways = answers
-    .map((a, i) => ({ presented: presenterFor(a.subQuestion.template)(a, ctx) as Presented, position: i + 1 }))
-    .filter((x) => x.presented.takeaway)
-    .sort((a, b) => b.presented.takeaway!.importance - a.presented.takeaway!.importance || a.position - b.position)
-    .slice(0, 5);
-  const lines = takeaways.map((t) => `- ${t.presented.takeaway!.text} (see ${t.position})`);
+export const presentSummary: SummaryPresenter = async (takeaways, { workspace, failures }) => {
+  const top = [...takeaways].sort((a, b) => b.importance - a.importance || a.position - b.position).slice(0, 5);
+  const lines = top.map((t) => `- ${t.text} (see ${t.position})`);
+  const failed = failures > 0 ? `\n${failures} ${failures === 1 ? 'question' : 'questions'} could not be answered; see the messages above.` : '';
   const text = lines.length
-    ? `*Summary*\n${lines.join('\n')}\nEach answer above has its table (CSV) and the SQL that produced it attached. These are descriptive figures from ${workspace.dataset.label}; follow your organisation's data-governance rules before sharing further.`
-    : '*Summary*\nNo question could be answered; see the messages above.';
+    ? `*Summary*\n${lines.join('\n')}${failed}\nEach answer above has its table (CSV) and the SQL that produced it attached. These are descriptive figures from ${workspace.dataset.label}; follow your organisation's data-governance rules before sharing further.`
+    : `*Summary*\nNo question could be answered; see the messages above.`;
   return { text };
 };

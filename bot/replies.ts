@@ -7,6 +7,9 @@ import type { SubQuestion } from '../analysis/types.js';
 import type { Brief } from './brief.js';
 import type { Plan } from './plan.js';
 import type { Prompt } from './prompts.js';
+import type { ThreadState } from './thread-state.js';
+import { SourceError } from '../analysis/sources/data-source.js';
+import { CatalogError } from '../analysis/catalog.js';
 
 export function acknowledgement(brief: Brief, ds: DatasetConfig): string {
   const kinds = brief.kinds.map(kindNoun).join(', ');
@@ -83,10 +86,6 @@ export function catalogText(ds: DatasetConfig): string {
   return `I can measure these in *${ds.label}*:\n${metrics}\nBroken down by: ${dims || 'nothing yet'}.${groups ? `\nGroups I can compare: ${groups}.` : ''}`;
 }
 
-export function runStarted(plan: Plan): string {
-  return `Running ${plan.items.length} ${plan.items.length === 1 ? 'question' : 'questions'}. Each answer will appear here as it is ready.`;
-}
-
 export function cancelled(): string {
   return 'Cancelled. Nothing more will be posted in this thread; start a new request any time.';
 }
@@ -101,4 +100,83 @@ function grainAdjective(g: SubQuestion['grain']): string {
 
 export function metricLabel(ds: DatasetConfig, name: string): string {
   return ds.metrics.find((m) => m.name === name)?.label ?? name;
+}
+
+export function progress(done: number, total: number): string {
+  return done >= total ? `All ${total} done.` : `Working: ${done} of ${total} done.`;
+}
+
+export function subQuestionFailed(position: number, err: unknown): string {
+  const reason =
+    err instanceof SourceError
+      ? {
+          timeout: `${err.message}. Try a shorter period, or say "rerun" later.`,
+          unreachable: `the dataset could not be reached (${err.message}). Say "rerun" once it is back.`,
+          missing_table: `${err.message}. The dataset may have changed since the plan was made.`,
+          query_failed: `${err.message}.`,
+        }[err.code]
+      : err instanceof CatalogError
+        ? `${err.message}.`
+        : `an unexpected error (${err instanceof Error ? err.message : String(err)}).`;
+  return `${position}. I could not answer this one: ${reason} The other answers are not affected.`;
+}
+
+export function stillRunning(state: ThreadState): string {
+  const run = state.run;
+  const total = state.plan?.items.length ?? 0;
+  return `Still working on it (${run?.posted.length ?? 0} of ${total} done); answers will appear here. Say "cancel" to stop.`;
+}
+
+export function finished(): string {
+  return 'This request is finished. Say "rerun" to run the same plan on fresh data, or post a new message in the channel to start another.';
+}
+
+export function emptyPlan(): string {
+  return 'The plan is empty, so there is nothing to run. Say "cancel", or start a new request with a metric I can measure.';
+}
+
+export function reminder(state: ThreadState): string {
+  const what = state.stage === 'planning' ? 'the plan above (reply "go" to run it)' : 'the question above';
+  return `A reminder: I'm waiting on ${what}. Reply "cancel" if this is no longer needed.`;
+}
+
+export function deadlineNear(deadline: string, locale: string): string {
+  return `Your deadline (${formatPeriod(deadline, 'day', locale, 'long')}) is close and the plan is not agreed yet. Reply "ok" to the question above, or "go" on the plan, to get the answers in time.`;
+}
+
+export function helpText(): string {
+  return [
+    'Ask me a data question in plain words, e.g. "How has revenue moved over time?" or "Did this summer beat last summer, and which routes drove it?"',
+    'I ask what I need to know (who it is for, by when, which metric, what grain), propose a plan to agree, then post each answer with its chart, table and SQL.',
+    'Commands: *help*; *what can you measure*; *status* (your requests); *cancel* (this request); *rerun* (the same plan on fresh data).',
+  ].join('\n');
+}
+
+export function statusText(states: ThreadState[], locale: string): string {
+  if (states.length === 0) return 'You have no requests with me yet.';
+  const stage: Record<ThreadState['stage'], string> = {
+    clarifying: 'waiting for your answer',
+    planning: 'waiting for you to agree the plan',
+    running: 'running',
+    done: 'done',
+    cancelled: 'cancelled',
+  };
+  const lines = states.slice(-10).map((s) => {
+    const done = s.stage === 'running' ? ` (${s.run?.posted.length ?? 0} of ${s.plan?.items.length ?? 0})` : '';
+    const due = s.brief.deadline && s.brief.deadline !== 'none' ? `, due ${formatPeriod(s.brief.deadline, 'day', locale)}` : '';
+    return `- "${clip(s.brief.requestText, 70)}": ${stage[s.stage]}${done}${due}`;
+  });
+  return `Your requests:\n${lines.join('\n')}`;
+}
+
+export function nothingToCancel(): string {
+  return 'There is no open request in this thread to cancel.';
+}
+
+export function nothingToRerun(): string {
+  return 'Only a finished or cancelled request can be rerun; this thread has none.';
+}
+
+function clip(s: string, n: number): string {
+  return s.length > n ? `${s.slice(0, n - 3)}...` : s;
 }

@@ -2,8 +2,18 @@
 import type { Brief } from './brief.js';
 import type { Plan } from './plan.js';
 import type { Prompt } from './prompts.js';
+import type { Takeaway } from '../analysis/present/presenter.js';
 
 export type Stage = 'clarifying' | 'planning' | 'running' | 'done' | 'cancelled';
+
+export interface RunProgress {
+  /** 1 for the first run; "rerun" starts the next, whose posts get fresh keys. */
+  number: number;
+  /** Sub-question ids whose answer (or failure) has been posted. */
+  posted: string[];
+  takeaways: (Takeaway & { position: number })[];
+  failures: number;
+}
 
 export interface ThreadState {
   threadId: string;
@@ -13,23 +23,24 @@ export interface ThreadState {
   /** The prompt waiting for an answer while clarifying. */
   prompt?: Prompt;
   plan?: Plan;
-  /** Counts prompts and plan versions so every post gets a fresh, stable key. */
+  run?: RunProgress;
+  /** Counts posts so every post gets a fresh, stable key. */
   turn: number;
+  /** When the bot last asked the requester something (ISO), for reminders. */
+  waitingSince?: string;
+  /** The turn at which a reminder was last sent, so each wait is reminded once. */
+  remindedAtTurn?: number;
+  deadlineWarned?: boolean;
+  updatedAt: string;
 }
 
+/** Where threads and post keys are kept; the embedded store is a DuckDB file. */
 export interface StateStore {
   get(threadId: string): Promise<ThreadState | undefined>;
   put(state: ThreadState): Promise<void>;
-}
-
-/** The in-process store; the persistent stores come with the conversation issue. */
-export class MemoryStateStore implements StateStore {
-  private readonly states = new Map<string, ThreadState>();
-  async get(threadId: string): Promise<ThreadState | undefined> {
-    const s = this.states.get(threadId);
-    return s ? structuredClone(s) : undefined;
-  }
-  async put(state: ThreadState): Promise<void> {
-    this.states.set(state.threadId, structuredClone(state));
-  }
+  list(filter?: { stages?: Stage[]; requester?: string }): Promise<ThreadState[]>;
+  /** The platform reference of a post already made under this key, if any. */
+  postRef(key: string): Promise<string | undefined>;
+  recordPost(key: string, threadId: string, ref: string): Promise<void>;
+  close(): Promise<void>;
 }

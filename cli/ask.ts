@@ -7,7 +7,8 @@ import { Bot } from '../bot/Bot.js';
 import { presentAnswer, presentSummary } from '../bot/present-answer.js';
 import { loadScriptedAnswers, type ScriptedAnswers } from '../bot/scripted-answers.js';
 import { playScriptedConversation, type ConversationEnd } from '../bot/scripted-conversation.js';
-import { MemoryStateStore } from '../bot/thread-state.js';
+import pLimit from 'p-limit';
+import { MemoryStateStore } from '../bot/stores/MemoryStateStore.js';
 
 export interface AskOptions {
   configFile: string;
@@ -33,7 +34,8 @@ export async function ask(opts: AskOptions): Promise<AskResult> {
     const thread = new FileThread(opts.outDir, threadId);
     const store = new MemoryStateStore();
     const now = opts.now ?? new Date();
-    const bot = new Bot({ workspace, port: thread, store, now: () => now, presentAnswer, presentSummary });
+    const jobs = pLimit(config.conversation.max_concurrent_jobs);
+    const bot = new Bot({ workspace, port: thread, store, now: () => now, presentAnswer, presentSummary, jobs });
     const requester = opts.requester ?? 'requester';
     const end = await playScriptedConversation({
       bot,

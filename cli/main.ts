@@ -85,6 +85,7 @@ async function demoCommand(rest: string[]): Promise<number> {
   const v = parse(rest, { out: { type: 'string' }, rows: { type: 'string' }, seed: { type: 'string' } });
   if (!v.out) throw new UsageError('demo needs --out DIR');
   const rows = positiveInt(v.rows, 'rows');
+  if (rows !== undefined && rows < 1000) throw new UsageError(`--rows must be at least 1000 (got ${rows})`);
   const seed = positiveInt(v.seed, 'seed');
   const started = Date.now();
   const result = await generateDemo({ outDir: resolve(v.out), ...(rows ? { rows } : {}), ...(seed ? { seed } : {}) });

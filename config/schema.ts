@@ -121,12 +121,30 @@ export const chartsSchema = z
   .strict();
 export type ChartsConfig = z.infer<typeof chartsSchema>;
 
+export const conversationSchema = z
+  .object({
+    // Where conversations are kept between restarts (an embedded DuckDB file), relative to the config.
+    state_path: z.string().min(1).default('threadcount-state.duckdb'),
+    remind_after_minutes: z.number().int().min(1).default(240),
+    deadline_warning_hours: z.number().int().min(1).default(24),
+    // Sub-question jobs that may run at once across all threads.
+    max_concurrent_jobs: z.number().int().min(1).max(32).default(2),
+  })
+  .strict();
+export type ConversationConfig = z.infer<typeof conversationSchema>;
+
 export const configSchema = z
   .object({
     version: z.literal(1),
     datasets: z.array(datasetSchema).min(1),
     engine: engineSchema.default({ statement_timeout_ms: 60_000, max_result_rows: 10_000 }),
     charts: chartsSchema.default({ width: 1200, height: 675, scale: 1, locale: 'en-IE' }),
+    conversation: conversationSchema.default({
+      state_path: 'threadcount-state.duckdb',
+      remind_after_minutes: 240,
+      deadline_warning_hours: 24,
+      max_concurrent_jobs: 2,
+    }),
   })
   .strict();
 export type Config = z.infer<typeof configSchema>;

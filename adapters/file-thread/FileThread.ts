@@ -26,7 +26,7 @@ const FOLDER: Record<FileKind, string> = { chart: 'charts', table: 'tables', sql
 
 export class FileThread implements ThreadPort {
   readonly thread: RecordedThread;
-  private readonly seenKeys = new Set<string>();
+  private readonly refByKey = new Map<string, string>();
 
   constructor(
     private readonly dir: string,
@@ -43,9 +43,9 @@ export class FileThread implements ThreadPort {
     this.flush();
   }
 
-  async post(_threadId: string, post: OutgoingPost): Promise<void> {
-    if (this.seenKeys.has(post.key)) return;
-    this.seenKeys.add(post.key);
+  async post(_threadId: string, post: OutgoingPost): Promise<string> {
+    const seen = this.refByKey.get(post.key);
+    if (seen !== undefined) return seen;
     const files: RecordedFile[] = [];
     for (const f of post.files ?? []) {
       const rel = join(FOLDER[f.kind], f.name);
@@ -54,6 +54,16 @@ export class FileThread implements ThreadPort {
       files.push({ kind: f.kind, path: rel });
     }
     this.thread.posts.push({ author: this.botName, text: post.text, ...(post.prompt ? { promptTopic: post.prompt.topic } : {}), files });
+    const ref = String(this.thread.posts.length - 1);
+    this.refByKey.set(post.key, ref);
+    this.flush();
+    return ref;
+  }
+
+  async update(_threadId: string, ref: string, text: string): Promise<void> {
+    const p = this.thread.posts[Number(ref)];
+    if (!p) throw new Error(`no post ${ref} in this thread`);
+    p.text = text;
     this.flush();
   }
 

@@ -15,13 +15,33 @@ export interface DuckDbSourceOptions {
   engine: EngineConfig;
 }
 
+// Sub-question jobs run a few at a time; DuckDB parallelises each query across its own threads.
+const POOL_SIZE = 4;
+
 export class DuckDbSource implements DataSource {
   readonly dialect = duckdbDialect;
 
+  private readonly idle: DuckDBConnection[];
+  private readonly waiting: ((c: DuckDBConnection) => void)[] = [];
+
   private constructor(
     private readonly instance: DuckDBInstance,
-    private readonly connection: DuckDBConnection,
-  ) {}
+    private readonly connections: DuckDBConnection[],
+  ) {
+    this.idle = [...connections];
+  }
+
+  /** One query per connection at a time; callers beyond the pool size wait their turn. */
+  private async withConnection<T>(work: (c: DuckDBConnection) => Promise<T>): Promise<T> {
+    const c = this.idle.pop() ?? (await new Promise<DuckDBConnection>((resolve) => this.waiting.push(resolve)));
+    try {
+      return await work(c);
+    } finally {
+      const next = this.waiting.shift();
+      if (next) next(c);
+      else this.idle.push(c);
+    }
+  }
 
   static async open(opts: DuckDbSourceOptions): Promise<DuckDbSource> {
     const settings: Record<string, string> = {};
@@ -41,6 +61,7 @@ export class DuckDbSource implements DataSource {
       throw new SourceError('unreachable', `cannot open the data file: ${firstLine(err)}`, err);
     }
     const connection = await instance.connect();
+    // Views made on one connection are visible to the others (same database instance).
     if (opts.source.kind !== 'duckdb') {
       // File paths come from the config, not from chat; they still go in as SQL string literals.
       const list = `[${opts.paths.map((p) => `'${p.replaceAll("'", "''")}'`).join(', ')}]`;
@@ -53,28 +74,33 @@ export class DuckDbSource implements DataSource {
         throw new SourceError('unreachable', `cannot read the ${opts.source.kind} files: ${firstLine(err)}`, err);
       }
     }
-    return new DuckDbSource(instance, connection);
+    const others = await Promise.all(Array.from({ length: POOL_SIZE - 1 }, () => instance.connect()));
+    return new DuckDbSource(instance, [connection, ...others]);
   }
 
   async describe(table: string): Promise<TableColumn[]> {
-    const reader = await this.connection.runAndReadAll(
+    const reader = await this.withConnection((c) => c.runAndReadAll(
       'SELECT column_name, data_type FROM information_schema.columns WHERE table_name = $1 ORDER BY ordinal_position',
       [table],
-    );
+    ));
     const rows = reader.getRowObjectsJson();
     if (rows.length === 0) throw new SourceError('missing_table', `the table "${table}" does not exist in the dataset`);
     return rows.map((r) => ({ name: String(r.column_name), type: String(r.data_type).toUpperCase() }));
   }
 
-  async run(query: CompiledQuery, options: RunOptions): Promise<ResultTable> {
+  run(query: CompiledQuery, options: RunOptions): Promise<ResultTable> {
+    return this.withConnection((c) => this.runOn(c, query, options));
+  }
+
+  private async runOn(connection: DuckDBConnection, query: CompiledQuery, options: RunOptions): Promise<ResultTable> {
     // DuckDB has no statement_timeout setting; interrupting the connection cancels the query.
     let timedOut = false;
     const timer = setTimeout(() => {
       timedOut = true;
-      this.connection.interrupt();
+      connection.interrupt();
     }, options.timeoutMs);
     try {
-      const reader = await this.connection.streamAndReadUntil(query.sql, options.maxRows + 1, query.params);
+      const reader = await connection.streamAndReadUntil(query.sql, options.maxRows + 1, query.params);
       const columns = reader.columnNames().map((name, i) => ({ name, type: resultTypeOf(reader.columnTypes()[i]!) }));
       const json = reader.getRowObjectsJson();
       const truncated = json.length > options.maxRows;
@@ -89,7 +115,7 @@ export class DuckDbSource implements DataSource {
   }
 
   async close(): Promise<void> {
-    this.connection.closeSync();
+    for (const c of this.connections) c.closeSync();
     this.instance.closeSync();
   }
 }

@@ -1,0 +1,27 @@
+// The in-process store: for one-shot runs and tests where nothing needs to survive a restart.
+import type { Stage, StateStore, ThreadState } from '../thread-state.js';
+
+export class MemoryStateStore implements StateStore {
+  private readonly states = new Map<string, ThreadState>();
+  private readonly posts = new Map<string, string>();
+
+  async get(threadId: string): Promise<ThreadState | undefined> {
+    const s = this.states.get(threadId);
+    return s ? structuredClone(s) : undefined;
+  }
+  async put(state: ThreadState): Promise<void> {
+    this.states.set(state.threadId, structuredClone(state));
+  }
+  async list(filter: { stages?: Stage[]; requester?: string } = {}): Promise<ThreadState[]> {
+    return [...this.states.values()]
+      .filter((s) => (!filter.stages || filter.stages.includes(s.stage)) && (!filter.requester || s.requester === filter.requester))
+      .map((s) => structuredClone(s));
+  }
+  async postRef(key: string): Promise<string | undefined> {
+    return this.posts.get(key);
+  }
+  async recordPost(key: string, _threadId: string, ref: string): Promise<void> {
+    this.posts.set(key, ref);
+  }
+  async close(): Promise<void> {}
+}

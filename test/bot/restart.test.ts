@@ -1,0 +1,132 @@
+// Restarts: the bot is stopped while clarifying, while the plan waits, and part-way through a
+// run; a new bot on the same state file carries on. Nothing is lost and nothing posted twice.
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import pLimit from 'p-limit';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { loadConfig } from '../../config/load.js';
+import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
+import { Bot } from '../../bot/Bot.js';
+import { presentAnswer, presentSummary } from '../../bot/present-answer.js';
+import { DuckDbStateStore } from '../../bot/stores/DuckDbStateStore.js';
+import { demoFixture } from '../helpers/demo-fixture.js';
+import { RecordingPort } from '../helpers/recording-port.js';
+
+let ws: Workspace;
+const now = new Date('2026-12-01T09:00:00Z');
+
+beforeAll(async () => {
+  ws = await openWorkspace(loadConfig((await demoFixture()).configPath));
+});
+afterAll(async () => ws?.source.close());
+
+async function start(statePath: string, port: RecordingPort) {
+  const store = await DuckDbStateStore.open(statePath);
+  const bot = new Bot({ workspace: ws, port, store, now: () => now, presentAnswer, presentSummary, jobs: pLimit(2) });
+  return { bot, store };
+}
+
+function expectNoRepeatedKeys(port: RecordingPort) {
+  const keys = port.messages.map((m) => m.key);
+  expect(new Set(keys).size).toBe(keys.length);
+}
+
+describe('restarts', () => {
+  it('resumes clarifying and planning where they were', async () => {
+    const statePath = join(mkdtempSync(join(tmpdir(), 'tc-state-')), 'state.duckdb');
+    const port = new RecordingPort();
+    const say = (bot: Bot, text: string) => bot.handle({ threadId: 't1', author: 'maren', text });
+
+    let p = await start(statePath, port);
+    await say(p.bot, 'How has revenue moved over time?');
+    await say(p.bot, 'leadership');
+    await p.store.close(); // stopped while clarifying: the deadline question is pending
+
+    p = await start(statePath, port);
+    expect(port.inThread('t1').at(-1)!.promptTopic).toBe('deadline');
+    await say(p.bot, 'none');
+    await say(p.bot, 'monthly');
+    await say(p.bot, 'all');
+    expect(port.inThread('t1').at(-1)!.text).toMatch(/^Here is the plan/);
+    await p.store.close(); // stopped while the plan waits
+
+    p = await start(statePath, port);
+    await say(p.bot, 'go');
+    const texts = port.inThread('t1').map((m) => m.text);
+    expect(texts.some((t) => t.startsWith('*Summary*'))).toBe(true);
+    expect(texts.filter((t) => t.startsWith('*1. '))).toHaveLength(1);
+    expectNoRepeatedKeys(port);
+    await p.store.close();
+  });
+
+  it('resumes a run stopped part-way without posting any answer twice', async () => {
+    const statePath = join(mkdtempSync(join(tmpdir(), 'tc-state-')), 'state.duckdb');
+    const port = new RecordingPort();
+    const say = (bot: Bot, text: string) => bot.handle({ threadId: 't2', author: 'maren', text });
+    let p = await start(statePath, port);
+    await say(p.bot, 'How have revenue, bookings and passengers moved over time?');
+    for (const answer of ['analysts', 'none', 'monthly', 'all']) await say(p.bot, answer);
+    const planned = (await p.store.get('t2'))!.plan!.items.length;
+    expect(planned).toBeGreaterThan(1);
+    // The platform fails on the second answer: the process "dies" with one answer posted.
+    port.failOnPost = port.messages.length + 3; // progress, answer 1, then answer 2 fails
+    await expect(say(p.bot, 'go')).rejects.toThrow('process stopped');
+    await p.store.close();
+    port.failOnPost = null;
+
+    p = await start(statePath, port);
+    expect((await p.store.get('t2'))!.stage).toBe('running');
+    await p.bot.resume();
+    const answers = port.inThread('t2').filter((m) => m.key.includes(':answer:'));
+    expect(answers).toHaveLength(planned);
+    expect(port.inThread('t2').filter((m) => m.key.endsWith(':summary'))).toHaveLength(1);
+    expect(port.inThread('t2').filter((m) => m.key.endsWith(':progress'))).toHaveLength(1);
+    expect(port.inThread('t2').find((m) => m.key.endsWith(':progress'))!.text).toBe(`All ${planned} done.`);
+    expect((await p.store.get('t2'))!.stage).toBe('done');
+    expectNoRepeatedKeys(port);
+    await p.store.close();
+  });
+
+  it('answers commands: status, cancel, rerun, help, what can you measure', async () => {
+    const statePath = join(mkdtempSync(join(tmpdir(), 'tc-state-')), 'state.duckdb');
+    const port = new RecordingPort();
+    const p = await start(statePath, port);
+    const say = (threadId: string, text: string) => p.bot.handle({ threadId, author: 'maren', text });
+    await say('c1', 'What can you measure?');
+    expect(port.inThread('c1')[0]!.text).toMatch(/Share of revenue refunded/);
+    expect(port.inThread('c1')[0]!.text).not.toMatch(/Customer email/);
+    await say('t3', 'revenue trend please');
+    await say('t3', 'cancel');
+    expect(port.inThread('t3').at(-1)!.text).toMatch(/^Cancelled/);
+    await say('t3', 'status');
+    expect(port.inThread('t3').at(-1)!.text).toMatch(/revenue trend please.*cancelled/);
+    await say('t4', 'help');
+    expect(port.inThread('t4')[0]!.text).toMatch(/Commands:/);
+    await say('t3', 'rerun');
+    expect(port.inThread('t3').at(-1)!.text).toMatch(/Only a finished or cancelled request can be rerun|Summary/);
+    await p.store.close();
+  });
+
+  it('reminds a requester who has not answered, once, and warns when the deadline nears', async () => {
+    const statePath = join(mkdtempSync(join(tmpdir(), 'tc-state-')), 'state.duckdb');
+    const port = new RecordingPort();
+    let clock = new Date('2026-12-01T09:00:00Z');
+    const store = await DuckDbStateStore.open(statePath);
+    const bot = new Bot({
+      workspace: ws, port, store, now: () => clock, presentAnswer, presentSummary, jobs: pLimit(1),
+      timings: { remindAfterMs: 60 * 60_000, deadlineWarningMs: 24 * 3_600_000 },
+    });
+    await bot.handle({ threadId: 't5', author: 'maren', text: 'revenue trend for the board, needed by the 3rd' });
+    await bot.tick();
+    expect(port.inThread('t5').some((m) => m.text.startsWith('A reminder'))).toBe(false);
+    clock = new Date('2026-12-01T10:30:00Z');
+    await bot.tick();
+    await bot.tick();
+    expect(port.inThread('t5').filter((m) => m.text.startsWith('A reminder'))).toHaveLength(1);
+    clock = new Date('2026-12-03T08:00:00Z');
+    await bot.tick();
+    expect(port.inThread('t5').filter((m) => /deadline .* is close/.test(m.text))).toHaveLength(1);
+    await store.close();
+  });
+});
