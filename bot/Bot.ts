@@ -17,6 +17,8 @@ import type { StateStore, ThreadState } from './thread-state.js';
 export interface PresentedPost {
   post: Omit<OutgoingPost, 'key'>;
   takeaway: Takeaway | null;
+  /** The chart PNG, kept for the digest. */
+  chart: Buffer | null;
 }
 
 /** Turns one answered sub-question into a post (chart, caption, CSV, SQL) and its takeaway. */
@@ -24,7 +26,7 @@ export type AnswerPresenter = (answer: Answer, ctx: { workspace: Workspace; audi
 /** Writes the closing summary from the takeaways of the answers. */
 export type SummaryPresenter = (
   takeaways: (Takeaway & { position: number })[],
-  ctx: { workspace: Workspace; audience: Audience; failures: number },
+  ctx: { workspace: Workspace; audience: Audience; failures: number; charts: Map<number, Buffer>; requestText: string },
 ) => Promise<Omit<OutgoingPost, 'key'>>;
 
 export interface BotTimings {
@@ -205,6 +207,8 @@ export class Bot {
     const audience = state.brief.audience ?? 'managers';
     const ws = this.deps.workspace;
     const runKey = (name: string) => `${state.threadId}:run${run.number}:${name}`;
+    // Charts of this process's answers, for the digest (after a restart, only those made since).
+    const charts = new Map<number, Buffer>();
     const progressRef = await this.postOnce(state.threadId, runKey('progress'), { text: replies.progress(run.posted.length, plan.items.length) });
     const pending = plan.items.map((sq, i) =>
       run.posted.includes(sq.id)
@@ -230,12 +234,13 @@ export class Bot {
       await this.postOnce(state.threadId, runKey(`answer:${sq.id}`), presented ? presented.post : { text: failure! });
       run.posted.push(sq.id);
       if (presented?.takeaway) run.takeaways.push({ ...presented.takeaway, position: i + 1 });
+      if (presented?.chart) charts.set(i + 1, presented.chart);
       if (failure) run.failures++;
       state.updatedAt = this.deps.now().toISOString();
       await this.deps.store.put(state);
       await this.deps.port.update(state.threadId, progressRef, replies.progress(run.posted.length, plan.items.length));
     }
-    const summary = await this.deps.presentSummary(run.takeaways, { workspace: ws, audience, failures: run.failures });
+    const summary = await this.deps.presentSummary(run.takeaways, { workspace: ws, audience, failures: run.failures, charts, requestText: state.brief.requestText });
     await this.postOnce(state.threadId, runKey('summary'), summary);
     state.stage = 'done';
     state.updatedAt = this.deps.now().toISOString();

@@ -38,7 +38,9 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
     const phrase = readPeriodPhrase(q.text, coverage, group?.launch_date);
     if (phrase) readings.push(`"${q.text}": ${phrase.reading}`);
     const focus = phrase?.window ?? all;
-    const dims = (q.dimensions.length > 0 ? q.dimensions : brief.dimensions).filter((d) => isGroupable(ds, d));
+    // A question's own breakdowns; the brief's (typed in a prompt) only when nothing else says.
+    const own = q.dimensions.length > 0 ? q.dimensions : questions.length === 1 || brief.dimensionsAsked ? brief.dimensions : [];
+    const dims = own.filter((d) => isGroupable(ds, d) && !ds.comparison_groups.some((g) => g.column === ds.dimensions.find((x) => x.name === d)?.column));
     const metrics = q.metrics.length > 0 ? q.metrics : q.frequency ? [countMetric(ds)?.name].filter((m): m is string => !!m) : brief.metrics;
     const before = drafts.length;
     const add = (template: string, lens: Lens, metric: string, headline: boolean, extra: Partial<SubQuestion> = {}, window: DateWindow = all) => {

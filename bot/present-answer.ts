@@ -1,6 +1,8 @@
 // An answered sub-question as a post (caption, notes, chart PNG, result CSVs, the SQL that
 // ran), and the closing summary with the takeaways in order of importance.
 import { renderChart } from '../analysis/charts/render.js';
+import { renderDigest } from '../analysis/charts/render-digest.js';
+import { formatPeriod } from '../analysis/format.js';
 import { presenterFor, type PresentContext } from '../analysis/present/index.js';
 import { sqlForReaders } from '../analysis/sql/render-sql.js';
 import { tableToCsv } from '../analysis/table-csv.js';
@@ -19,21 +21,34 @@ export const presentAnswer: AnswerPresenter = async (answer, { workspace, audien
   const presented = presenterFor(sq.template)(answer, presentContext(workspace, audience));
   const stem = `${String(position).padStart(2, '0')}-${sq.template}-${sq.metrics.join('-')}`;
   const files: OutgoingFile[] = [];
-  if (presented.chart) files.push({ name: `${stem}.png`, kind: 'chart', content: await renderChart(presented.chart) });
+  const chart = presented.chart ? await renderChart(presented.chart) : null;
+  if (chart) files.push({ name: `${stem}.png`, kind: 'chart', content: chart });
   for (const [name, table] of Object.entries(answer.tables)) {
     files.push({ name: Object.keys(answer.tables).length === 1 ? `${stem}.csv` : `${stem}-${name}.csv`, kind: 'table', content: tableToCsv(table) });
   }
   files.push({ name: `${stem}.sql`, kind: 'sql', content: sqlForReaders(answer.queries, workspace.source.dialect.name) });
   const text = [`*${position}. ${presented.title}*`, presented.caption, ...presented.notes.map((n) => `_Note: ${n}_`)].join('\n');
-  return { post: { text, files }, takeaway: presented.takeaway };
+  return { post: { text, files }, takeaway: presented.takeaway, chart };
 };
 
-export const presentSummary: SummaryPresenter = async (takeaways, { workspace, failures }) => {
-  const top = [...takeaways].sort((a, b) => b.importance - a.importance || a.position - b.position).slice(0, 5);
+export const presentSummary: SummaryPresenter = async (takeaways, { workspace, failures, charts, requestText }) => {
+  // The most important few, told in the order they were asked.
+  const top = [...takeaways]
+    .sort((a, b) => b.importance - a.importance || a.position - b.position)
+    .slice(0, 5)
+    .sort((a, b) => a.position - b.position);
   const lines = top.map((t) => `- ${t.text} (see ${t.position})`);
   const failed = failures > 0 ? `\n${failures} ${failures === 1 ? 'question' : 'questions'} could not be answered; see the messages above.` : '';
-  const text = lines.length
-    ? `*Summary*\n${lines.join('\n')}${failed}\nEach answer above has its table (CSV) and the SQL that produced it attached. These are descriptive figures from ${workspace.dataset.label}; follow your organisation's data-governance rules before sharing further.`
-    : `*Summary*\nNo question could be answered; see the messages above.`;
-  return { text };
+  if (lines.length === 0) return { text: `*Summary*\nNo question could be answered; see the messages above.` };
+  const text = `*Summary*\n${lines.join('\n')}${failed}\nEach answer above has its table (CSV) and the SQL that produced it attached; the digest below puts the key charts and takeaways on one page for forwarding. These are descriptive figures from ${workspace.dataset.label}; comparisons between groups are observational, and your organisation's data-governance rules apply before sharing further.`;
+  const withCharts = top.filter((t) => charts.has(t.position)).slice(0, 4);
+  const asOf = workspace.coverage.lastDate ? formatPeriod(workspace.coverage.lastDate, 'day', workspace.config.charts.locale) : 'n/a';
+  const digest = await renderDigest({
+    title: `${workspace.dataset.label}: key findings`,
+    subtitle: `Answering: "${requestText.length > 140 ? `${requestText.slice(0, 137)}...` : requestText}"`,
+    takeaways: top,
+    charts: withCharts.map((t) => ({ png: charts.get(t.position)!, position: t.position })),
+    footer: `Source: ${workspace.dataset.label} · Data as of ${asOf} · Observational figures; follow your organisation's data-governance rules`,
+  });
+  return { text, files: [{ name: 'digest.png', kind: 'digest', content: digest }] };
 };

@@ -12,11 +12,17 @@ import { SourceError } from '../analysis/sources/data-source.js';
 import { CatalogError } from '../analysis/catalog.js';
 
 export function acknowledgement(brief: Brief, ds: DatasetConfig): string {
-  const kinds = brief.kinds.map(kindNoun).join(', ');
-  const metrics = brief.metrics.map((m) => metricLabel(ds, m)).join(', ');
+  const kinds = listJoin([...new Set(brief.questions.map((q) => q.kind))].map(kindNoun));
+  const metrics = listJoin([...new Set(brief.questions.flatMap((q) => q.metrics))].map((m) => metricLabel(ds, m).toLowerCase()));
+  const n = brief.questions.length;
+  const what = n > 1 ? `${n} questions (${kinds})` : `a ${kinds || 'trend'} question`;
   return metrics
-    ? `On it: a ${kinds} question about ${metrics.toLowerCase()}. A few quick questions first, then a plan to agree.`
-    : `On it: a ${kinds} question. A few quick questions first, then a plan to agree.`;
+    ? `On it: ${what} about ${metrics}. A few quick questions first, then a plan to agree.`
+    : `On it: ${what}. A few quick questions first, then a plan to agree.`;
+}
+
+function listJoin(xs: string[]): string {
+  return xs.length <= 1 ? (xs[0] ?? '') : `${xs.slice(0, -1).join(', ')} and ${xs[xs.length - 1]}`;
 }
 
 export function promptText(p: Prompt): string {

@@ -1,0 +1,78 @@
+// The one-page digest: the key takeaways and up to four charts on a single image, for
+// forwarding in one piece. Charts arrive as PNGs already rendered; nothing is queried.
+import { createCanvas, loadImage } from '@napi-rs/canvas';
+import { ensureFonts } from './fonts.js';
+import { encodePng } from './png.js';
+import { ellipsize, wrapText } from './text.js';
+import { INK, OKABE_ITO, font } from './theme.js';
+
+export interface DigestInput {
+  title: string;
+  subtitle: string;
+  /** Ordered by importance; each is one or two sentences. */
+  takeaways: { text: string; position: number }[];
+  /** Up to four chart PNGs, each with the number of its answer in the thread. */
+  charts: { png: Buffer; position: number }[];
+  footer: string;
+}
+
+const WIDTH = 1600;
+const MARGIN = 48;
+const CHART_W = (WIDTH - MARGIN * 3) / 2;
+const CHART_H = Math.round((CHART_W * 675) / 1200);
+
+export async function renderDigest(input: DigestInput): Promise<Buffer> {
+  ensureFonts();
+  const measure = createCanvas(10, 10).getContext('2d');
+  measure.font = font(22);
+  const lines = input.takeaways.slice(0, 5).flatMap((t, i) => wrapText(measure, `${i + 1}. ${t.text} (answer ${t.position})`, WIDTH - MARGIN * 2 - 20, 3));
+  const fitted = (text: string, f: string) => {
+    measure.font = f;
+    return ellipsize(measure, text, WIDTH - MARGIN * 2);
+  };
+  const charts = input.charts.slice(0, 4);
+  const rows = Math.ceil(charts.length / 2);
+  const headerH = 150;
+  const takeawaysH = 40 + lines.length * 32;
+  const height = headerH + takeawaysH + rows * (CHART_H + MARGIN) + 70;
+  const canvas = createCanvas(WIDTH, height);
+  const ctx = canvas.getContext('2d');
+  ctx.fillStyle = INK.background;
+  ctx.fillRect(0, 0, WIDTH, height);
+
+  ctx.fillStyle = OKABE_ITO.blue;
+  ctx.fillRect(MARGIN, 36, 64, 6);
+  ctx.fillStyle = INK.title;
+  ctx.font = font(40, true);
+  ctx.fillText(fitted(input.title, font(40, true)), MARGIN, 92);
+  ctx.fillStyle = INK.text;
+  ctx.font = font(22);
+  ctx.fillText(fitted(input.subtitle, font(22)), MARGIN, 128);
+
+  let y = headerH + 20;
+  ctx.fillStyle = INK.title;
+  ctx.font = font(24, true);
+  ctx.fillText('Key takeaways', MARGIN, y);
+  y += 36;
+  ctx.font = font(22);
+  ctx.fillStyle = INK.text;
+  for (const line of lines) {
+    ctx.fillText(line, MARGIN + 10, y);
+    y += 32;
+  }
+  y += 10;
+  for (const [i, chart] of charts.entries()) {
+    const img = await loadImage(chart.png);
+    const x = MARGIN + (i % 2) * (CHART_W + MARGIN);
+    const top = y + Math.floor(i / 2) * (CHART_H + MARGIN);
+    ctx.drawImage(img, x, top, CHART_W, CHART_H);
+    ctx.strokeStyle = INK.grid;
+    ctx.lineWidth = 1;
+    ctx.strokeRect(x + 0.5, top + 0.5, CHART_W - 1, CHART_H - 1);
+  }
+  ctx.fillStyle = INK.muted;
+  ctx.font = font(18);
+  ctx.fillText(fitted(input.footer, font(18)), MARGIN, height - 28);
+  return encodePng(canvas.data(), canvas.width, canvas.height);
+}
+
