@@ -3,6 +3,12 @@ import type { Grain } from '../types.js';
 import { formatPeriod } from '../format.js';
 import type { Caveat } from '../types.js';
 
+/** A caveat field as text; a missing field never prints as "undefined". */
+function show(v: unknown): string {
+  if (typeof v === 'number') return Number.isFinite(v) ? v.toLocaleString('en') : 'n/a';
+  return typeof v === 'string' && v.length > 0 ? v : typeof v === 'boolean' ? String(v) : 'n/a';
+}
+
 export function caveatNote(c: Caveat, locale: string): string {
   const d = c.data;
   const day = (iso: unknown) => (typeof iso === 'string' ? formatPeriod(iso, 'day', locale, 'long') : 'n/a');
@@ -14,7 +20,7 @@ export function caveatNote(c: Caveat, locale: string): string {
     case 'partial_period_excluded':
       return `${period(d.period, d.grain)} is partial and was left out.`;
     case 'series_gap':
-      return `${d.periods} period(s) have no data at all, the first in ${period(d.firstGap, 'month')}.`;
+      return `${show(d.periods)} period(s) have no data at all, the first in ${period(d.firstGap, 'month')}.`;
     case 'no_data':
       return 'There is no data in the period asked for.';
     case 'all_null':
@@ -22,33 +28,33 @@ export function caveatNote(c: Caveat, locale: string): string {
     case 'single_period':
       return 'Only one complete period is available, so there is no pattern to read yet.';
     case 'truncated':
-      return `The result was cut at ${d.rows} rows.`;
+      return `The result was cut at ${show(d.rows)} rows.`;
     case 'null_share':
-      return `${d.column} is missing in ${d.share} of rows.`;
+      return `${show(d.column)} is missing in ${show(d.share)} of rows.`;
     case 'duplicate_keys':
-      return `${d.count} rows repeat a key that should be unique.`;
+      return `${show(d.count)} rows repeat a key that should be unique.`;
     case 'negative_amounts':
-      return `${d.count} rows have a negative ${d.column}.`;
+      return `${show(d.count)} rows have a negative ${show(d.column)}.`;
     case 'outlier':
       return `${period(d.period, d.grain)} is an outlier.`;
     case 'stale_data':
       return `The latest data is from ${day(d.lastDate)}.`;
     case 'small_sample':
-      return `Small sample (n = ${d.n}): read with care.`;
+      return `Small sample (n = ${show(d.n)}): read with care.`;
     case 'too_few_cycles':
       return 'Fewer than two full years of data: too little to measure seasonality.';
     case 'observational':
       return 'This compares groups that were not randomly assigned, so it cannot prove cause.';
     case 'segments_folded':
-      return `${d.count} smaller segments are combined as "All others".`;
+      return `${show(d.count)} smaller segments are combined as "All others".`;
     case 'segment_gap':
-      return `${d.segment} has no data for ${d.periods} period(s), from ${period(d.firstGap, d.grain ?? 'month')}.`;
+      return `${show(d.segment)} has no data for ${show(d.periods)} period(s), from ${period(d.firstGap, d.grain ?? 'month')}.`;
     case 'late_segment':
-      return `${d.segment} only has data from ${period(d.firstPeriod, d.grain ?? 'month')}.`;
+      return `${show(d.segment)} only has data from ${period(d.firstPeriod, d.grain ?? 'month')}.`;
     case 'base_zero':
-      return 'Some growth rates are undefined because the earlier value is zero or missing.';
+      return 'Some growth rates cannot be computed because the earlier value is zero or missing.';
     case 'suppressed_small_groups':
-      return `${d.count} segments below the minimum group size are combined as "All others".`;
+      return `${show(d.count)} segments below the minimum group size are combined as "All others".`;
   }
 }
 

@@ -1,0 +1,76 @@
+// Title and caption for a growth_drivers answer: the total's change between the two spans and the
+// segments that moved it most, written only from the finding.
+import type { DatasetConfig, Metric } from '../../config/schema.js';
+import type { GrowthDriverSegment, GrowthDriversFinding } from '../findings/growth.js';
+import { formatChange } from '../format.js';
+import type { Audience } from '../types.js';
+import type { GrowthWords } from './growth-series-caption.js';
+import { capitalise, dimensionLabel, directionOf, formatPoints, lower, segmentText, spanText, unsignedPercent, valueText } from './growth-words.js';
+
+/** Segments named in a caption, largest change first. */
+const NAMED_IN_CAPTION = 3;
+
+export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | undefined, dataset: DatasetConfig, locale: string, audience: Audience): GrowthWords {
+  const label = metric.label;
+  if (!f) {
+    return {
+      title: `${label}: no data to compare by segment`,
+      caption: `There is no ${lower(label)} in either span to compare.`,
+    };
+  }
+  const name = (s: GrowthDriverSegment) => segmentText(s.segment, f.dimension, dataset);
+  const money = (v: number | null, signed = false) => valueText(v, metric, locale, signed);
+  const spans = `${spanText(f.current, locale)} against ${spanText(f.prior, locale)}`;
+  const top = f.segments.find((s) => s.change !== null && s.change !== 0);
+  const dim = lower(dimensionLabel(f.dimension, dataset));
+
+  // A ratio's segments do not add up to its total, so a segment can only be said to have moved most, not to have driven it.
+  const title = !top
+    ? `No ${dim} changed ${lower(label)}`
+    : f.additive
+      ? `${capitalise(name(top))} drove the biggest change in ${lower(label)}: ${money(top.change, true)}`
+      : `${label} moved most for ${name(top)}: ${money(top.change, true)}`;
+
+  const total = f.total;
+  const totalMove =
+    total.relative !== null && Number.isFinite(total.relative)
+      ? `${label} ${totalVerb(total.relative, locale)}: ${money(total.before)} to ${money(total.after)} (${directionOf(total.relative) === 'flat' ? `${formatChange(total.relative, locale)}, ` : ''}${money(total.change, true)})`
+      : `${label} went from ${money(total.before)} to ${money(total.after)}`;
+  const named = f.segments.filter((s) => s.change !== null).slice(0, NAMED_IN_CAPTION);
+  const sentences = [`${totalMove}, ${spans}.`];
+
+  if (audience === 'leadership') {
+    if (named.length > 0) sentences.push(`Biggest moves: ${named.map((s) => `${name(s)} ${money(s.change, true)}`).join(', ')}.`);
+  } else {
+    const detail = named.map((s) => {
+      const parts = [money(s.change, true)];
+      if (s.relative !== null) parts.push(formatChange(s.relative, locale));
+      if (audience === 'analysts' && s.contribution !== null) parts.push(`${formatPoints(s.contribution, locale)} of the total's ${formatChange(total.relative, locale)}`);
+      else if (audience === 'managers' && s.shareOfChange !== null && s.shareOfChange > 0 && s.shareOfChange <= 1) {
+        parts.push(`${unsignedPercent(s.shareOfChange, locale)} of the total change`);
+      }
+      return `${name(s)} ${parts.join(', ')}`;
+    });
+    if (detail.length > 0) sentences.push(`Largest changes by ${dim}: ${detail.join('; ')}.`);
+    if (f.others && f.others.change !== null) {
+      sentences.push(`The other ${f.others.count} together: ${money(f.others.change, true)}.`);
+    }
+    if (!f.additive) {
+      sentences.push(`${label} is not a sum, so segment changes do not add up to the total's; each segment's own change is shown.`);
+    } else if (audience === 'analysts') {
+      sentences.push(`Contribution = segment change / total before, in points of the total's growth rate; the segments' contributions sum to the total's.`);
+    }
+  }
+  return { title, caption: sentences.join(' ') };
+}
+
+function totalVerb(relative: number, locale: string): string {
+  switch (directionOf(relative)) {
+    case 'up':
+      return `rose ${unsignedPercent(relative, locale)}`;
+    case 'down':
+      return `fell ${unsignedPercent(relative, locale)}`;
+    default:
+      return 'held flat';
+  }
+}

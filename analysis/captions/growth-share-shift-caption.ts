@@ -1,0 +1,67 @@
+// Title and caption for a growth_share_shift answer: whose share moved most, and whether the total
+// became more or less concentrated.
+import type { DatasetConfig, Metric } from '../../config/schema.js';
+import type { GrowthShareSegment, GrowthShareShiftFinding } from '../findings/growth.js';
+import { formatValue } from '../format.js';
+import type { Audience } from '../types.js';
+import type { GrowthWords } from './growth-series-caption.js';
+import { capitalise, dimensionLabel, formatPoints, formatShare, lower, plural, segmentText, spanText } from './growth-words.js';
+
+/** HHI moves smaller than this (on the 0–10,000 scale) read as "about as concentrated" (a rule of thumb). */
+const HHI_STEADY = 100;
+
+export function growthShareShiftWords(
+  metric: Metric,
+  f: GrowthShareShiftFinding | undefined,
+  dataset: DatasetConfig,
+  locale: string,
+  audience: Audience,
+): GrowthWords {
+  const label = metric.label;
+  if (!f) {
+    const additive = metric.definition.type === 'sum' || metric.definition.type === 'count';
+    return {
+      title: `${label}: no shares to compare`,
+      caption: additive
+        ? `There is no ${lower(label)} in either span to share out.`
+        : `${label} is not a sum or a count, so it has no shares of a total; compare segments with a breakdown instead.`,
+    };
+  }
+  const name = (s: GrowthShareSegment) => segmentText(s.segment, f.dimension, dataset);
+  const dimNoun = lower(dimensionLabel(f.dimension, dataset));
+  const moved = [...f.segments].filter((s) => s.shareChange !== null).sort((a, b) => Math.abs(b.shareChange!) - Math.abs(a.shareChange!));
+  const top = moved[0];
+  const title =
+    top && top.shareChange !== 0
+      ? `${capitalise(name(top))}'s share of ${lower(label)} ${top.shareChange! > 0 ? 'rose' : 'fell'} ${formatPoints(Math.abs(top.shareChange!), locale).replace(/^\+/, '')} to ${formatShare(top.shareAfter, locale)}`
+      : `Shares of ${lower(label)} by ${dimNoun} did not move`;
+  const spans = `${spanText(f.current, locale)} against ${spanText(f.prior, locale)}`;
+  const hhiText = (v: number | null) => formatValue(v, { unit: 'number', decimals: 0, locale });
+  const pct = `${Math.round(f.threshold * 100)}%`;
+  const reach = (n: number | null) => (n === null ? 'n/a' : `${n}`);
+  const hhiMove =
+    f.before.hhi === null || f.after.hhi === null
+      ? null
+      : Math.abs(f.after.hhi - f.before.hhi) < HHI_STEADY
+        ? 'about as concentrated as'
+        : f.after.hhi > f.before.hhi
+          ? 'more concentrated than'
+          : 'less concentrated than';
+  const sentences: string[] = [];
+  const shifts = moved.slice(0, 3).map((s) => `${name(s)} ${formatShare(s.shareAfter, locale)} (${formatPoints(s.shareChange, locale)})`);
+  if (audience === 'leadership') {
+    if (hhiMove) sentences.push(`${capitalise(label)} by ${dimNoun} was ${hhiMove} a year earlier (${spans}).`);
+    sentences.push(`The top ${reach(f.after.countToThreshold)} ${plural(dimNoun, f.after.countToThreshold)} carry ${pct} or more of it.`);
+  } else {
+    sentences.push(`Shares, ${spans}: ${shifts.join('; ')}.`);
+    sentences.push(
+      `${capitalise(reach(f.after.countToThreshold))} ${plural(dimNoun, f.after.countToThreshold)} reach ${pct} of ${lower(label)} now, against ${reach(f.before.countToThreshold)} a year earlier` +
+        (audience === 'analysts'
+          ? `; HHI ${hhiText(f.before.hhi)} → ${hhiText(f.after.hhi)} (0–10,000 scale).`
+          : hhiMove
+            ? `; overall it is ${hhiMove} before.`
+            : '.'),
+    );
+  }
+  return { title, caption: sentences.join(' ') };
+}

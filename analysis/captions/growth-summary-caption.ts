@@ -1,0 +1,44 @@
+// Title and caption for a growth_summary answer: the range, centre and spread of the growth rates.
+import type { Metric } from '../../config/schema.js';
+import type { GrowthRateSummaryFinding } from '../findings/growth.js';
+import { formatChange } from '../format.js';
+import type { Audience } from '../types.js';
+import type { GrowthWords } from './growth-series-caption.js';
+import { formatPoints, lower, periodText } from './growth-words.js';
+
+export function rateBasisText(f: GrowthRateSummaryFinding): string {
+  return f.basis === 'yoy' ? (f.grain === 'year' ? 'on the year before' : `on the same ${f.grain} a year earlier`) : `on the ${f.grain} before`;
+}
+
+export function growthSummaryWords(metric: Metric, f: GrowthRateSummaryFinding | undefined, locale: string, audience: Audience): GrowthWords {
+  const label = metric.label;
+  if (!f || f.n === 0 || f.min === null || f.max === null) {
+    return {
+      title: `${label}: no growth rates to summarise`,
+      caption: `There are not two comparable complete periods of ${lower(label)} in this window.`,
+    };
+  }
+  const when = (iso: string) => periodText(iso, f.grain, locale);
+  const basis = rateBasisText(f);
+  const pct = (v: number | null) => formatChange(v, locale);
+  const title =
+    f.n === 1
+      ? `${label} changed ${pct(f.min.value)} ${basis} in ${when(f.min.period)}`
+      : `${label}'s growth ${basis} ranged from ${pct(f.min.value)} (${when(f.min.period)}) to ${pct(f.max.value)} (${when(f.max.period)})`;
+  const count = `${f.n} ${f.grain}${f.n === 1 ? '' : 's'}`;
+  let caption: string;
+  if (audience === 'leadership') {
+    caption = `Across ${count}, the typical change ${basis} was ${pct(f.median)}.`;
+  } else if (audience === 'managers') {
+    caption =
+      `Across ${count}, growth ${basis} averaged ${pct(f.mean)} (middle value ${pct(f.median)})` +
+      (f.sd !== null ? `; it typically varied by about ${formatPoints(f.sd, locale).replace(/^\+/, '')} around the average.` : '.');
+  } else {
+    const basisName = f.basis === 'yoy' ? 'year-over-year' : 'period-over-period';
+    caption =
+      `${f.n} ${basisName} rates: mean ${pct(f.mean)}, median ${pct(f.median)}` +
+      (f.sd !== null ? `, sample SD ${formatPoints(f.sd, locale).replace(/^\+/, '')}` : '') +
+      `; min ${pct(f.min.value)} (${when(f.min.period)}), max ${pct(f.max.value)} (${when(f.max.period)}).`;
+  }
+  return { title, caption };
+}

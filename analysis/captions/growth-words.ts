@@ -1,0 +1,175 @@
+// Words shared by the growth family's titles and captions: how a change reads, how a span of
+// dates reads, how a segment is named, and the growth family's own caveat notes.
+import type { DatasetConfig, Metric } from '../../config/schema.js';
+import type { GrowthSpan } from '../findings/growth.js';
+import { formatChange, formatPeriod, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
+import { addDays, addMonths } from '../periods.js';
+import type { Answer, Audience, Caveat, Grain } from '../types.js';
+import { caveatNote } from './caveat-text.js';
+
+/** Changes smaller than this read as "held flat" in plain words (a rule of thumb; the number is still given). */
+export const FLAT_BAND = 0.01;
+
+export type Direction = 'up' | 'down' | 'flat' | 'none';
+
+export function directionOf(relative: number | null): Direction {
+  if (relative === null || !Number.isFinite(relative)) return 'none';
+  if (Math.abs(relative) < FLAT_BAND) return 'flat';
+  return relative > 0 ? 'up' : 'down';
+}
+
+/** "grew 8.1%", "fell 5.0%", "held flat"; "changed by an unknown amount" when undefined. */
+export function movedBy(relative: number | null, locale: string): string {
+  switch (directionOf(relative)) {
+    case 'up':
+      return `grew ${unsignedPercent(relative!, locale)}`;
+    case 'down':
+      return `fell ${unsignedPercent(relative!, locale)}`;
+    case 'flat':
+      return 'held flat';
+    case 'none':
+      return 'has no comparable base';
+  }
+}
+
+/** "8.1%" without a sign, the magnitude of a relative change. */
+export function unsignedPercent(relative: number, locale: string): string {
+  return formatChange(Math.abs(relative), locale).replace(/^[+\u2212]/, '');
+}
+
+/** A fraction difference in percentage points: 0.021 → "+2.1 pts". */
+export function formatPoints(diff: number | null, locale: string): string {
+  if (diff === null || !Number.isFinite(diff)) return 'n/a';
+  const fmt: ValueFormat = { unit: 'number', decimals: 1, locale };
+  const text = formatValue(diff * 100, fmt, { signed: true });
+  return `${text} pts`;
+}
+
+/** A share (0–1) as a percentage with one decimal: "40.0%". */
+export function formatShare(share: number | null, locale: string): string {
+  return formatValue(share, { unit: 'percent', decimals: 1, locale });
+}
+
+export function valueText(value: number | null, metric: Metric, locale: string, signed = false): string {
+  return formatValue(value, valueFormatOf(metric, locale), { compact: true, signed });
+}
+
+export function yearText(iso: string, locale: string): string {
+  return formatPeriod(iso, 'year', locale);
+}
+
+export function periodText(iso: string, grain: Grain, locale: string, style: 'short' | 'long' = 'short'): string {
+  return formatPeriod(iso, grain, locale, style);
+}
+
+/** A half-open span of dates in words: "2024", "Jun 2024 to Aug 2024", "1 Jun 2025 to 18 Jun 2025". */
+export function spanText(span: GrowthSpan, locale: string): string {
+  const last = addDays(span.end, -1);
+  if (span.start >= span.end) return 'no dates';
+  if (span.start.slice(5) === '01-01' && span.end.slice(5) === '01-01') {
+    const from = formatPeriod(span.start, 'year', locale);
+    const to = formatPeriod(last, 'year', locale);
+    return from === to ? from : `${from} to ${to}`;
+  }
+  if (span.start.slice(8) === '01' && span.end.slice(8) === '01') {
+    const from = formatPeriod(span.start, 'month', locale);
+    const to = formatPeriod(addMonths(span.end, -1), 'month', locale);
+    return from === to ? from : `${from} to ${to}`;
+  }
+  const from = formatPeriod(span.start, 'day', locale);
+  const to = formatPeriod(last, 'day', locale);
+  return from === to ? from : `${from} to ${to}`;
+}
+
+/** A segment's display name: booleans of a comparison group's column read as its labels; a missing value as "(not recorded)". */
+export function segmentText(segment: string | null, dimensionName: string, dataset: DatasetConfig): string {
+  if (segment === null) return '(not recorded)';
+  const dim = dataset.dimensions.find((d) => d.name === dimensionName);
+  if (segment === 'true' || segment === 'false') {
+    const group = dataset.comparison_groups.find((g) => g.column === dim?.column);
+    if (group) return segment === 'true' ? group.members_label : group.others_label;
+    return segment === 'true' ? 'Yes' : 'No';
+  }
+  return segment;
+}
+
+export function dimensionLabel(dimensionName: string, dataset: DatasetConfig): string {
+  return dataset.dimensions.find((d) => d.name === dimensionName)?.label ?? dimensionName;
+}
+
+export function capitalise(text: string): string {
+  return text.length === 0 ? text : text[0]!.toUpperCase() + text.slice(1);
+}
+
+/** A label in mid-sentence: "Revenue" → "revenue", but a name such as "SkerryPass holder" keeps its capitals. */
+export function lower(label: string): string {
+  const firstWord = label.split(' ')[0] ?? '';
+  if (label.length === 0 || /[A-Z]/.test(firstWord.slice(1))) return label;
+  return label[0]!.toLowerCase() + label.slice(1);
+}
+
+/** A plain English plural of a dimension label: "route" → "routes", "fare class" → "fare classes". */
+export function plural(noun: string, n: number | null = 2): string {
+  if (n === 1) return noun;
+  return /(s|x|ch|sh)$/.test(noun) ? `${noun}es` : `${noun}s`;
+}
+
+/**
+ * Caveat notes for growth answers: the growth family's own wording where the shared one would
+ * mislead (a partial period here is left out of every rate, not drawn dashed), the shared wording otherwise.
+ */
+export function growthNotes(answer: Answer, locale: string, dataset: DatasetConfig): string[] {
+  const dimension = answer.subQuestion.dimension ?? '';
+  return [...new Set(answer.caveats.map((c) => growthNote(c, locale, dimension, dataset)))];
+}
+
+export function growthNote(c: Caveat, locale: string, dimension: string, dataset: DatasetConfig): string {
+  const d = c.data;
+  const day = (v: unknown) => (typeof v === 'string' ? formatPeriod(v, 'day', locale, 'long') : 'n/a');
+  const seg = (v: unknown) => segmentText(typeof v === 'string' ? v : null, dimension, dataset);
+  switch (c.code) {
+    case 'partial_period_excluded':
+      if (typeof d.period === 'string') {
+        const grain = (d.grain as Grain | undefined) ?? 'month';
+        return `${capitalise(formatPeriod(d.period, grain, locale, 'long'))} is partial (data from ${day(d.coveredFrom)} to ${day(d.coveredTo)}), so it is left out of every growth rate.`;
+      }
+      break;
+    case 'partial_period':
+      if (d.window === 'current') {
+        return `Data only covers ${day(d.coveredFrom)} to ${day(d.coveredTo)} of the window asked for, so both years are compared over those same dates.`;
+      }
+      break;
+    case 'no_data':
+      if (d.window === 'prior') return `There is no data for the same dates a year earlier (${spanText({ start: String(d.start), end: String(d.end) }, locale)}), so there is nothing to compare with.`;
+      if (d.window === 'current') return 'There is no data in the window asked for, only in the year before.';
+      break;
+    case 'late_segment':
+      return `${seg(d.segment)} has no data a year earlier; it first appears on ${day(d.firstPeriod)}, so it counts as zero in the earlier window.`;
+    case 'segment_gap':
+      if (d.window === 'current') return `${seg(d.segment)} had data a year earlier but none in the window asked for.`;
+      if (typeof d.periods === 'number' && typeof d.firstGap === 'string') break;
+      return `${seg(d.segment)} has no data for part of the window.`;
+    case 'series_gap':
+      if (typeof d.firstGap === 'string' && typeof d.periods === 'number') {
+        const grain = (d.grain as Grain | undefined) ?? 'month';
+        return `${d.periods} ${plural(grain, d.periods)} in the window have no data at all (the first is ${formatPeriod(d.firstGap, grain, locale, 'long')}); rates next to them are n/a.`;
+      }
+      break;
+    case 'base_zero':
+      return 'Some growth rates cannot be worked out because the earlier value is zero, negative or missing; they are shown as n/a.';
+    case 'single_period':
+      if (d.rates === 0) return 'There are no two comparable periods, so there is no growth rate to summarise.';
+      if (d.periods === 0) return 'There is no complete period yet, so there is no growth to measure.';
+      return 'Only one complete period is available, so there is no growth to measure yet.';
+    case 'small_sample':
+      return `Only ${d.n} growth rates: read the spread with care.`;
+    default:
+      break;
+  }
+  return caveatNote(c, locale);
+}
+
+/** Plain-words and analyst wording switch on this; managers get plain words with detail. */
+export function isAnalyst(audience: Audience): boolean {
+  return audience === 'analysts';
+}

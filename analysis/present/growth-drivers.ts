@@ -1,0 +1,56 @@
+// Presenter for "growth_drivers": bars of each segment's change between the two spans, the
+// largest driver named in the title.
+import { buildBars } from '../charts/build-bars.js';
+import type { BarsSpec } from '../charts/spec.js';
+import { growthDriversWords } from '../captions/growth-drivers-caption.js';
+import { growthNotes, segmentText } from '../captions/growth-words.js';
+import { metricByName } from '../catalog.js';
+import type { GrowthDriversFinding } from '../findings/growth.js';
+import { formatValue, valueFormatOf } from '../format.js';
+import type { Answer, Finding } from '../types.js';
+import { twoSpanSubtitle } from './growth-header.js';
+import { chartFooter } from './header.js';
+import type { PresentContext, Presenter } from './presenter.js';
+
+const OTHERS_LABEL = 'All others';
+
+export const presentGrowthDrivers: Presenter = (answer, ctx) => {
+  const metric = metricByName(ctx.dataset, answer.subQuestion.metrics[0]!);
+  const f = answer.findings.find((x): x is Extract<Finding, { type: 'growth_drivers' }> => x.type === 'growth_drivers' && x.metric === metric.name);
+  const words = growthDriversWords(metric, f, ctx.dataset, ctx.locale, ctx.audience);
+  const chart = f ? driversChart(answer, f, words.title, ctx) : null;
+  return {
+    title: words.title,
+    caption: words.caption,
+    notes: growthNotes(answer, ctx.locale, ctx.dataset),
+    chart,
+    takeaway: chart ? { importance: 55, text: `${words.title}.` } : null,
+  };
+};
+
+function driversChart(answer: Answer, f: GrowthDriversFinding, title: string, ctx: PresentContext): BarsSpec | null {
+  const metric = metricByName(ctx.dataset, f.metric);
+  const items = f.segments
+    .filter((s) => s.change !== null)
+    .map((s) => ({ label: segmentText(s.segment, f.dimension, ctx.dataset), value: s.change! }));
+  const othersLabel = f.others ? `${OTHERS_LABEL} (${f.others.count})` : null;
+  if (f.others && f.others.change !== null) items.push({ label: othersLabel!, value: f.others.change });
+  if (items.length === 0) return null;
+  const subtitle = twoSpanSubtitle(answer, metric, f.current, f.prior, ctx);
+  const format = valueFormatOf(metric, ctx.locale);
+  // The finding already folded the tail by size of change; the builder must not fold again by signed value.
+  const spec = buildBars({
+    title,
+    subtitle,
+    footer: chartFooter(answer, ctx),
+    ...ctx.chart,
+    items,
+    format,
+    topN: items.length,
+  });
+  // A change reads with its sign: "+€32.9K", "−€19.2K".
+  const signed = spec.bars.map((b) => ({ ...b, text: formatValue(b.value, format, { compact: true, signed: true }) }));
+  const others = signed.filter((b) => b.label === othersLabel);
+  const named = signed.filter((b) => b.label !== othersLabel);
+  return { ...spec, bars: [...named, ...others.map((b) => ({ ...b, other: true }))] };
+}

@@ -1,0 +1,17 @@
+// Chart subtitles for the growth family's two-span charts: the metric's definition, the two spans
+// compared and any filters, so a forwarded image still says what it compares.
+import type { Metric } from '../../config/schema.js';
+import { spanText } from '../captions/growth-words.js';
+import type { GrowthSpan } from '../findings/growth.js';
+import type { Answer } from '../types.js';
+import { metricDefinition } from './header.js';
+import type { PresentContext } from './presenter.js';
+
+export function twoSpanSubtitle(answer: Answer, metric: Metric, current: GrowthSpan, prior: GrowthSpan, ctx: PresentContext): string {
+  const parts = [`${metric.label}: ${metricDefinition(metric)}`, `${spanText(current, ctx.locale)} against ${spanText(prior, ctx.locale)}`];
+  for (const f of answer.subQuestion.filters) {
+    const dim = ctx.dataset.dimensions.find((d) => d.name === f.dimension);
+    parts.push(`${dim?.label ?? f.dimension}: ${f.values.join(', ')}`);
+  }
+  return parts.join(' · ');
+}

@@ -1,0 +1,57 @@
+// Presenter for "growth_series": a year × month grid of year-over-year growth for monthly data,
+// a line of year-over-year growth (or period-over-period where there is no year earlier) otherwise.
+import { buildGrowthGrid } from '../charts/build-growth-grid.js';
+import { buildLine } from '../charts/build-line.js';
+import type { ChartSpec } from '../charts/spec.js';
+import { growthSeriesWords, pickGrowthSeriesFindings } from '../captions/growth-series-caption.js';
+import { growthNotes } from '../captions/growth-words.js';
+import { metricByName } from '../catalog.js';
+import type { GrowthSeriesFinding } from '../findings/growth.js';
+import type { ValueFormat } from '../format.js';
+import type { Answer } from '../types.js';
+import { chartFooter, chartSubtitle } from './header.js';
+import type { PresentContext, Presenter } from './presenter.js';
+
+export const presentGrowthSeries: Presenter = (answer, ctx) => {
+  const sq = answer.subQuestion;
+  const metric = metricByName(ctx.dataset, sq.metrics[0]!);
+  const found = pickGrowthSeriesFindings(answer.findings, metric.name);
+  const words = growthSeriesWords(metric, sq.grain, found, ctx.locale, ctx.audience);
+  const chart = found.series ? growthChart(answer, found.series, words.title, metric.higher_is_better, ctx) : null;
+  return {
+    title: words.title,
+    caption: words.caption,
+    notes: growthNotes(answer, ctx.locale, ctx.dataset),
+    chart,
+    takeaway: found.series ? { importance: 60, text: `${words.title}.` } : null,
+  };
+};
+
+function growthChart(answer: Answer, series: GrowthSeriesFinding, title: string, higherIsBetter: boolean, ctx: PresentContext): ChartSpec | null {
+  const metric = metricByName(ctx.dataset, series.metric);
+  const header = {
+    title,
+    subtitle: chartSubtitle(answer, metric, ctx),
+    footer: chartFooter(answer, ctx),
+    ...ctx.chart,
+  };
+  const lag = series.yoyLag;
+  const hasYoy = series.points.some((p) => p.yoy !== null);
+  if (series.grain === 'month' && lag !== null && hasYoy) {
+    // Months before the first year-earlier base can never hold a rate; a row of them would be empty.
+    const cells = series.points.slice(lag).map((p) => ({ period: p.period, change: p.yoy }));
+    return buildGrowthGrid({ ...header, cells, higherIsBetter, locale: ctx.locale });
+  }
+  const usePop = !hasYoy;
+  if (usePop && !series.points.some((p) => p.pop !== null)) return null;
+  const rateFormat: ValueFormat = { unit: 'percent', decimals: 1, locale: ctx.locale };
+  const offset = usePop ? 1 : lag ?? 1;
+  const points = series.points.slice(offset).map((p) => ({ period: p.period, value: usePop ? p.pop : p.yoy, partial: p.partial }));
+  return buildLine({
+    ...header,
+    seriesLabel: usePop ? `Change on the ${series.grain} before` : 'Change on a year earlier',
+    grain: series.grain,
+    points,
+    format: rateFormat,
+  });
+}

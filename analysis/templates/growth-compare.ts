@@ -1,0 +1,189 @@
+// Shared by growth_drivers and growth_share_shift: the metric by one dimension in the window
+// asked for and in the same dates a year earlier, both cut to the dates the data covers so the
+// two spans stay like for like (18 days of this June against 18 days of last June, not 30).
+import type { DatasetConfig } from '../../config/schema.js';
+import { groupableDimension, metricByName } from '../catalog.js';
+import { type CompileContext, localDateExpr, tableRef, whereClause } from '../compile-context.js';
+import type { Coverage } from '../coverage.js';
+import type { GrowthSpan } from '../findings/growth.js';
+import { addDays, addMonths } from '../periods.js';
+import { metricAggregate } from '../sql/metric-sql.js';
+import { QueryBuilder } from '../sql/query-builder.js';
+import type { Caveat, CompiledQuery, DateWindow, ResultTable, SubQuestion } from '../types.js';
+
+const WINDOW = '__tc_window';
+const DAY = '__tc_day';
+const FIRST = '__tc_first';
+const LAST = '__tc_last';
+
+/** Sums and counts add up across segments and periods; averages, distinct counts, ratios and rates do not. */
+export function isAdditiveMetric(ds: DatasetConfig, name: string): boolean {
+  const t = metricByName(ds, name).definition.type;
+  return t === 'sum' || t === 'count';
+}
+
+/**
+ * The same dates one year earlier. A window edge on 29 February moves to 1 March: the window is
+ * half-open, so [.., 29 Feb 2024) ends after 28 Feb and [.., 1 Mar 2023) does too.
+ */
+export function priorWindow(w: DateWindow): DateWindow {
+  return { start: addMonths(w.start, -12), end: addMonths(w.end, -12) };
+}
+
+/** An inclusive day moved by whole years the way SQL `+ INTERVAL 'n' YEAR` does: 29 Feb becomes 28 Feb. */
+export function shiftDayByYears(iso: string, years: number): string {
+  const shifted = addMonths(iso, 12 * years);
+  return shifted.slice(8, 10) === iso.slice(8, 10) ? shifted : addDays(shifted, -Number(shifted.slice(8, 10)));
+}
+
+export function compileWindowComparison(sq: SubQuestion, ctx: CompileContext): CompiledQuery {
+  if (sq.dimension === undefined) throw new Error(`sub-question ${sq.id} (${sq.template}) needs a dimension`);
+  const dim = groupableDimension(ctx.dataset, sq.dimension);
+  const q = new QueryBuilder(ctx.dialect);
+  const d = ctx.dialect;
+  const seg = q.ident(dim.column);
+  const day = q.ident(DAY);
+  const win = q.ident(WINDOW);
+  const first = q.ident(FIRST);
+  const last = q.ident(LAST);
+  const prior = priorWindow(sq.window);
+  const table = tableRef(q, ctx);
+  const side = (name: 'current' | 'prior', w: DateWindow, edge: string) =>
+    `SELECT t.*, '${name}' AS ${win}, ${localDateExpr(q, ctx)} AS ${day}
+  FROM ${table} AS t CROSS JOIN reach
+  WHERE ${whereClause(q, ctx, w, sq.filters)}
+    AND ${edge}`;
+  const yearFrom = (e: string, sign: '+' | '-') => `CAST(${e} ${sign} INTERVAL '1' YEAR AS DATE)`;
+  const measures = sq.metrics.map((name) => `  ${metricAggregate(q, ctx.dataset, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
+  // `reach` is the whole table's first and last day (as in the coverage check), not the filtered rows',
+  // so a segment filter never shortens the span compared.
+  const reachSql = `SELECT MIN(${localDateExpr(q, ctx)}) AS ${first}, MAX(${localDateExpr(q, ctx)}) AS ${last} FROM ${table}`;
+  const current = side('current', sq.window, `${localDateExpr(q, ctx)} >= ${yearFrom(`reach.${first}`, '+')}`);
+  const before = side('prior', prior, `${localDateExpr(q, ctx)} <= ${yearFrom(`reach.${last}`, '-')}`);
+  return q.finish(`WITH reach AS (
+  ${reachSql}
+),
+tagged AS (
+  ${current}
+  UNION ALL
+  ${before}
+)
+SELECT ${win} AS window_name,
+  GROUPING(${seg}) AS g_segment,
+  ${seg} AS segment,
+${measures.join(',\n')},
+  ${d.toDouble('COUNT(*)')} AS row_count,
+  MIN(${day}) AS first_day,
+  MAX(${day}) AS last_day
+FROM tagged
+GROUP BY GROUPING SETS ((${win}, ${seg}), (${win}))
+ORDER BY 1, 2, 3`);
+}
+
+export interface SideRow {
+  rows: number;
+  firstDay: string | null;
+  values: Record<string, number | null>;
+}
+
+export interface WindowSide {
+  /** The grand total over the side's span (the empty grouping set). */
+  total: SideRow | null;
+  /** Keyed by the segment's value as text; null for rows where the dimension is missing. */
+  segments: Map<string | null, SideRow>;
+}
+
+export interface WindowComparison {
+  current: WindowSide;
+  prior: WindowSide;
+  currentSpan: GrowthSpan;
+  priorSpan: GrowthSpan;
+  caveats: Caveat[];
+  /** Neither span has any row. */
+  empty: boolean;
+}
+
+/**
+ * Splits the comparison rows into the two sides, and works out the compared spans from the same
+ * data bounds the SQL used: the current span starts no earlier than a year after the data's first
+ * day, the prior span ends no later than a year before its last.
+ */
+export function readWindowComparison(sq: SubQuestion, table: ResultTable, coverage: Coverage): WindowComparison {
+  const caveats: Caveat[] = [];
+  if (table.truncated) caveats.push({ code: 'truncated', data: { rows: table.rows.length } });
+  const prior = priorWindow(sq.window);
+  const current: WindowSide = { total: null, segments: new Map() };
+  const before: WindowSide = { total: null, segments: new Map() };
+  for (const r of table.rows) {
+    const sideOf = r.window_name === 'current' ? current : r.window_name === 'prior' ? before : null;
+    if (!sideOf) continue;
+    const values: Record<string, number | null> = {};
+    for (const m of sq.metrics) values[m] = typeof r[m] === 'number' && Number.isFinite(r[m]) ? r[m] : null;
+    const row: SideRow = { rows: Number(r.row_count ?? 0), firstDay: typeof r.first_day === 'string' ? r.first_day : null, values };
+    if (Number(r.g_segment) === 1) sideOf.total = row;
+    else sideOf.segments.set(r.segment === null || r.segment === undefined ? null : String(r.segment), row);
+  }
+  let currentSpan: GrowthSpan = { ...sq.window };
+  let priorSpan: GrowthSpan = { ...prior };
+  if (coverage.firstDate !== null && coverage.lastDate !== null) {
+    currentSpan = {
+      start: maxIso(sq.window.start, shiftDayByYears(coverage.firstDate, 1)),
+      end: minIso(sq.window.end, addDays(coverage.lastDate, 1)),
+    };
+    priorSpan = {
+      start: maxIso(prior.start, coverage.firstDate),
+      end: minIso(prior.end, addDays(shiftDayByYears(coverage.lastDate, -1), 1)),
+    };
+    const cut = currentSpan.start !== sq.window.start || currentSpan.end !== sq.window.end;
+    if (cut && currentSpan.start < currentSpan.end) {
+      caveats.push({
+        code: 'partial_period',
+        data: { period: sq.window.start, grain: 'day', coveredFrom: currentSpan.start, coveredTo: addDays(currentSpan.end, -1), window: 'current' },
+      });
+    }
+  }
+  const currentRows = current.total?.rows ?? 0;
+  const priorRows = before.total?.rows ?? 0;
+  const empty = currentRows === 0 && priorRows === 0;
+  // Dates a year before the data starts cut the current span away too; say it is the year earlier that is missing.
+  const priorUncovered = coverage.firstDate !== null && prior.end <= coverage.firstDate && sq.window.end > coverage.firstDate;
+  if (priorUncovered || (priorRows === 0 && currentRows > 0)) {
+    caveats.push({ code: 'no_data', data: { start: prior.start, end: prior.end, window: 'prior' } });
+  } else if (empty) caveats.push({ code: 'no_data', data: { start: sq.window.start, end: sq.window.end } });
+  else if (currentRows === 0) caveats.push({ code: 'no_data', data: { start: sq.window.start, end: sq.window.end, window: 'current' } });
+  return { current, prior: before, currentSpan, priorSpan, caveats, empty };
+}
+
+/**
+ * Segments present in one span only: new ones (`late_segment`, with the first day they appear) and
+ * ones that vanished (`segment_gap`). Only said when both spans have data at all.
+ */
+export function segmentPresenceCaveats(cmp: WindowComparison): Caveat[] {
+  const out: Caveat[] = [];
+  if (!cmp.current.total?.rows || !cmp.prior.total?.rows) return out;
+  for (const [key, row] of cmp.current.segments) {
+    if (!cmp.prior.segments.has(key)) {
+      out.push({ code: 'late_segment', data: { segment: key, firstPeriod: row.firstDay ?? cmp.currentSpan.start, grain: 'day' } });
+    }
+  }
+  for (const key of cmp.prior.segments.keys()) {
+    if (!cmp.current.segments.has(key)) {
+      out.push({ code: 'segment_gap', data: { segment: key, periods: 1, firstGap: cmp.currentSpan.start, grain: 'day', window: 'current' } });
+    }
+  }
+  return out;
+}
+
+/** Segment keys in a stable order: text order, the missing value last. */
+export function segmentKeys(cmp: WindowComparison): (string | null)[] {
+  const keys = new Set<string | null>([...cmp.prior.segments.keys(), ...cmp.current.segments.keys()]);
+  return [...keys].sort((a, b) => (a === null ? 1 : b === null ? -1 : a < b ? -1 : a > b ? 1 : 0));
+}
+
+export function maxIso(a: string, b: string): string {
+  return a > b ? a : b;
+}
+
+export function minIso(a: string, b: string): string {
+  return a < b ? a : b;
+}

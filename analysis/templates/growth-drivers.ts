@@ -1,0 +1,133 @@
+// Template "growth_drivers": which segments drove the change (growth × breakdown). The metric by
+// one dimension in the window asked for (SubQuestion.window) against the same dates a year earlier.
+import type { DatasetConfig } from '../../config/schema.js';
+import type { GrowthDriverSegment, GrowthDriversFinding } from '../findings/growth.js';
+import { relativeChange } from '../stats/index.js';
+import type { Caveat, Finding, ResultTable, SubQuestion } from '../types.js';
+import type { Coverage } from '../coverage.js';
+import {
+  compileWindowComparison,
+  isAdditiveMetric,
+  readWindowComparison,
+  segmentKeys,
+  segmentPresenceCaveats,
+  type WindowComparison,
+} from './growth-compare.js';
+import type { Reading, Template } from './template.js';
+
+/** Segments named one by one before the rest are folded into "All others". */
+export const DRIVERS_TOP_N = 8;
+
+export const growthDriversTemplate: Template = {
+  name: 'growth_drivers',
+  compile: (sq, ctx) => [{ name: 'drivers', ...compileWindowComparison(sq, ctx) }],
+  read: (sq, tables, ctx) => readGrowthDrivers(sq, tables.drivers ?? { columns: [], rows: [], truncated: false }, ctx.coverage, ctx.dataset),
+};
+
+export function readGrowthDrivers(sq: SubQuestion, table: ResultTable, coverage: Coverage, dataset: DatasetConfig): Reading {
+  const cmp = readWindowComparison(sq, table, coverage);
+  const caveats: Caveat[] = [...cmp.caveats];
+  if (cmp.empty) return { findings: [], caveats };
+  caveats.push(...segmentPresenceCaveats(cmp));
+  const findings: Finding[] = [];
+  for (const metric of sq.metrics) {
+    const finding = driversOf(sq, cmp, metric, isAdditiveMetric(dataset, metric), caveats);
+    if (finding) findings.push(finding);
+  }
+  return { findings, caveats };
+}
+
+function driversOf(
+  sq: SubQuestion,
+  cmp: WindowComparison,
+  metric: string,
+  additive: boolean,
+  caveats: Caveat[],
+): GrowthDriversFinding | null {
+  const totalBefore = cmp.prior.total?.values[metric] ?? null;
+  const totalAfter = cmp.current.total?.values[metric] ?? null;
+  if (totalBefore === null && totalAfter === null) {
+    caveats.push({ code: 'all_null', data: { metric } });
+    return null;
+  }
+  // A sum over no rows is zero, not unknown, once the side has data at all; for other metrics it stays unknown.
+  const priorHasRows = (cmp.prior.total?.rows ?? 0) > 0;
+  const currentHasRows = (cmp.current.total?.rows ?? 0) > 0;
+  const sideValue = (present: number | null | undefined, hasRows: boolean) =>
+    present !== undefined ? present : additive && hasRows ? 0 : null;
+  const totalChange = totalBefore !== null && totalAfter !== null ? totalAfter - totalBefore : null;
+  const all: GrowthDriverSegment[] = segmentKeys(cmp).map((segment) => {
+    const before = sideValue(cmp.prior.segments.get(segment)?.values[metric], priorHasRows);
+    const after = sideValue(cmp.current.segments.get(segment)?.values[metric], currentHasRows);
+    return withShares({ segment, before, after }, additive, totalBefore, totalChange);
+  });
+  // A ratio's change in a tiny segment is mostly noise, so segments of a metric that does not add up
+  // are ranked by their change weighted by their share of the current rows.
+  const rows = cmp.current.total?.rows ?? 0;
+  const weight = (s: GrowthDriverSegment) => (additive || rows === 0 ? 1 : (cmp.current.segments.get(s.segment)?.rows ?? 0) / rows);
+  all.sort((a, b) => byWeightedChange(a, b, weight));
+  const segments = all.slice(0, DRIVERS_TOP_N);
+  const tail = all.slice(DRIVERS_TOP_N);
+  let others: GrowthDriversFinding['others'] = null;
+  if (tail.length > 0) {
+    const sum = (pick: (s: GrowthDriverSegment) => number | null) =>
+      additive && tail.every((s) => pick(s) !== null) ? tail.reduce((acc, s) => acc + pick(s)!, 0) : null;
+    const folded = withShares({ segment: null, before: sum((s) => s.before), after: sum((s) => s.after) }, additive, totalBefore, totalChange);
+    others = {
+      before: folded.before,
+      after: folded.after,
+      change: folded.change,
+      relative: folded.relative,
+      shareOfChange: folded.shareOfChange,
+      contribution: folded.contribution,
+      count: tail.length,
+    };
+    caveats.push({ code: 'segments_folded', data: { count: tail.length, metric } });
+  }
+  const undefinedRates = all.filter((s) => s.after !== null && s.before !== null && s.relative === null).length;
+  const totalRelative = relativeChange(totalBefore, totalAfter);
+  if (undefinedRates > 0 || (totalRelative === null && totalBefore !== null && totalAfter !== null)) {
+    caveats.push({ code: 'base_zero', data: { metric, count: undefinedRates + (totalRelative === null ? 1 : 0) } });
+  }
+  return {
+    type: 'growth_drivers',
+    metric,
+    dimension: sq.dimension!,
+    current: cmp.currentSpan,
+    prior: cmp.priorSpan,
+    additive,
+    total: { before: totalBefore, after: totalAfter, change: totalChange, relative: totalRelative },
+    segments,
+    others,
+  };
+}
+
+function withShares(
+  s: { segment: string | null; before: number | null; after: number | null },
+  additive: boolean,
+  totalBefore: number | null,
+  totalChange: number | null,
+): GrowthDriverSegment {
+  const change = s.before !== null && s.after !== null ? s.after - s.before : null;
+  return {
+    ...s,
+    change,
+    relative: relativeChange(s.before, s.after),
+    shareOfChange: additive && change !== null && totalChange !== null && totalChange !== 0 ? finite(change / totalChange) : null,
+    contribution: additive && change !== null && totalBefore !== null && totalBefore > 0 ? finite(change / totalBefore) : null,
+  };
+}
+
+/** Largest (weighted) absolute change first; unknown changes last; ties by segment so the order never depends on row order. */
+function byWeightedChange(a: GrowthDriverSegment, b: GrowthDriverSegment, weight: (s: GrowthDriverSegment) => number): number {
+  const x = a.change === null ? -1 : Math.abs(a.change) * weight(a);
+  const y = b.change === null ? -1 : Math.abs(b.change) * weight(b);
+  if (x !== y) return y - x;
+  const ka = a.segment ?? '\uffff';
+  const kb = b.segment ?? '\uffff';
+  return ka < kb ? -1 : ka > kb ? 1 : 0;
+}
+
+function finite(v: number): number | null {
+  return Number.isFinite(v) ? v : null;
+}

@@ -1,0 +1,111 @@
+// Template "growth_share_shift": how each segment's share of the total moved against the same
+// dates a year earlier (growth × distribution), with concentration before and after.
+import type { DatasetConfig } from '../../config/schema.js';
+import type { Coverage } from '../coverage.js';
+import type { GrowthConcentration, GrowthShareSegment, GrowthShareShiftFinding } from '../findings/growth.js';
+import { concentration } from '../stats/index.js';
+import type { Caveat, Finding, ResultTable, SubQuestion } from '../types.js';
+import { compileWindowComparison, isAdditiveMetric, readWindowComparison, segmentKeys, segmentPresenceCaveats } from './growth-compare.js';
+import type { Reading, Template } from './template.js';
+
+export const SHARE_TOP_N = 10;
+/** The "80%" of the 80/20 rule of thumb (common practice). */
+export const SHARE_THRESHOLD = 0.8;
+
+export const growthShareShiftTemplate: Template = {
+  name: 'growth_share_shift',
+  compile: (sq, ctx) => [{ name: 'shares', ...compileWindowComparison(sq, ctx) }],
+  read: (sq, tables, ctx) => readGrowthShareShift(sq, tables.shares ?? { columns: [], rows: [], truncated: false }, ctx.coverage, ctx.dataset),
+};
+
+export function readGrowthShareShift(sq: SubQuestion, table: ResultTable, coverage: Coverage, dataset: DatasetConfig): Reading {
+  const cmp = readWindowComparison(sq, table, coverage);
+  const caveats: Caveat[] = [...cmp.caveats];
+  if (cmp.empty) return { findings: [], caveats };
+  caveats.push(...segmentPresenceCaveats(cmp));
+  const findings: Finding[] = [];
+  const keys = segmentKeys(cmp);
+  for (const metric of sq.metrics) {
+    // Shares of a total need parts that add up to it; a ratio or an average has no such parts.
+    if (!isAdditiveMetric(dataset, metric)) continue;
+    const before = keys.map((k) => cmp.prior.segments.get(k)?.values[metric] ?? 0);
+    const after = keys.map((k) => cmp.current.segments.get(k)?.values[metric] ?? 0);
+    if (keys.every((k) => cmp.prior.segments.get(k)?.values[metric] == null && cmp.current.segments.get(k)?.values[metric] == null)) {
+      caveats.push({ code: 'all_null', data: { metric } });
+      continue;
+    }
+    const conBefore = concentrationOf(keys, before, caveats, metric);
+    const conAfter = concentrationOf(keys, after, caveats, metric);
+    const share = (values: number[], c: ReturnType<typeof concentrationOf>, i: number) =>
+      c.total !== null && c.total > 0 && c.valid ? values[i]! / c.total : null;
+    const rows: GrowthShareSegment[] = keys.map((segment, i) => {
+      const shareBefore = share(before, conBefore, i);
+      const shareAfter = share(after, conAfter, i);
+      return {
+        segment,
+        before: before[i]!,
+        after: after[i]!,
+        shareBefore,
+        shareAfter,
+        shareChange: shareBefore !== null && shareAfter !== null ? shareAfter - shareBefore : null,
+      };
+    });
+    rows.sort((a, b) => (b.shareAfter ?? b.after ?? 0) - (a.shareAfter ?? a.after ?? 0) || compareKeys(a.segment, b.segment));
+    const head = rows.slice(0, SHARE_TOP_N);
+    const tail = rows.slice(SHARE_TOP_N);
+    let others: GrowthShareShiftFinding['others'] = null;
+    if (tail.length > 0) {
+      const sum = (pick: (s: GrowthShareSegment) => number | null) =>
+        tail.every((s) => pick(s) !== null) ? tail.reduce((acc, s) => acc + pick(s)!, 0) : null;
+      const shareBefore = sum((s) => s.shareBefore);
+      const shareAfter = sum((s) => s.shareAfter);
+      others = {
+        count: tail.length,
+        before: sum((s) => s.before),
+        after: sum((s) => s.after),
+        shareBefore,
+        shareAfter,
+        shareChange: shareBefore !== null && shareAfter !== null ? shareAfter - shareBefore : null,
+      };
+      caveats.push({ code: 'segments_folded', data: { count: tail.length, metric } });
+    }
+    const finding: GrowthShareShiftFinding = {
+      type: 'growth_share_shift',
+      metric,
+      dimension: sq.dimension!,
+      current: cmp.currentSpan,
+      prior: cmp.priorSpan,
+      threshold: SHARE_THRESHOLD,
+      segments: head,
+      others,
+      before: conBefore.summary,
+      after: conAfter.summary,
+    };
+    findings.push(finding);
+  }
+  return { findings, caveats };
+}
+
+function concentrationOf(keys: (string | null)[], values: number[], caveats: Caveat[], metric: string) {
+  const total = values.reduce((a, v) => a + v, 0);
+  const present = values.filter((v) => v !== 0).length;
+  const summary: GrowthConcentration = { total: values.length ? total : null, segments: present, hhi: null, countToThreshold: null };
+  if (values.length === 0) return { total: null, valid: false, summary };
+  const c = concentration(
+    keys.map((k, i) => ({ key: k ?? '', value: values[i]! })),
+    { threshold: SHARE_THRESHOLD },
+  );
+  if (c.kind === 'negative_values') {
+    caveats.push({ code: 'negative_amounts', data: { count: c.negativeKeys.length, column: metric } });
+    return { total, valid: false, summary };
+  }
+  if (c.kind === 'non_positive_total') {
+    caveats.push({ code: 'base_zero', data: { metric, count: 1 } });
+    return { total, valid: false, summary };
+  }
+  return { total: c.total, valid: true, summary: { ...summary, total: c.total, hhi: c.hhi, countToThreshold: c.countToThreshold } };
+}
+
+function compareKeys(a: string | null, b: string | null): number {
+  return a === null ? 1 : b === null ? -1 : a < b ? -1 : a > b ? 1 : 0;
+}
