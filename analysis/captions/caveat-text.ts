@@ -34,6 +34,8 @@ export function caveatNote(c: Caveat, locale: string): string {
     case 'duplicate_keys':
       return `${show(d.count)} rows repeat a key that should be unique.`;
     case 'negative_amounts':
+      if (d.periods === true) return `Some periods have a negative total of ${show(d.column)}, so they are left out.`;
+      if (d.segments === true) return `Some segments have a negative total, so shares are not meaningful for them.`;
       return `${show(d.count)} rows have a negative ${show(d.column)}.`;
     case 'outlier':
       return `${period(d.period, d.grain)} is an outlier.`;

@@ -1,2 +1,209 @@
-// Placeholder until this family's templates land.
-export type SegmentFinding = never;
+// Findings of the trend family's extra lenses (trend test, seasonality, summary) and of the
+// segment machinery (segment trends, segment shares). Numbers, periods and segment keys only.
+import type { HhiBand } from '../stats/concentration.js';
+import type { Grain, PeriodPoint } from '../types.js';
+
+/** Mann–Kendall and Sen's slope on the complete periods of one metric's series. */
+export interface TrendTestFinding {
+  type: 'trend_test';
+  metric: string;
+  grain: Grain;
+  /** Complete periods tested. */
+  n: number;
+  firstPeriod: string;
+  lastPeriod: string;
+  /** The values were divided by their season's multiplicative index before testing (two full cycles or more). */
+  seasonallyAdjusted: boolean;
+  s: number;
+  z: number;
+  pValue: number;
+  /** The same test on the unadjusted values, for transparency (equals pValue when not adjusted). */
+  rawPValue: number;
+  /** Kendall's tau-b: the strength of the monotonic trend, −1..1; null when every value ties. */
+  tau: number | null;
+  /** Significance level the direction is judged at. */
+  alpha: number;
+  /** 'up' or 'down' only when p < alpha; 'none' otherwise. */
+  direction: 'up' | 'down' | 'none';
+  /** Sen's slope in metric units per period (of the adjusted values when adjusted), and per year. */
+  slopePerPeriod: number;
+  slopePerYear: number;
+  /** Sen's slope per year relative to the mean of the tested periods; null when that mean is not positive. */
+  slopePerYearRelative: number | null;
+  /** Trend line value = intercept + slopePerPeriod × i, where i indexes the series finding's points. */
+  intercept: number;
+  smallSample: boolean;
+}
+
+export interface CalendarMonthPattern {
+  /** 1 = January. */
+  month: number;
+  index: number;
+  /** Lowest and highest detrended ratio of this month across the years; null when no year has one. */
+  min: number | null;
+  max: number | null;
+  /** Over full calendar years, by the raw monthly value: how often this month was the highest, in the top two... */
+  highestIn: number;
+  topTwoIn: number;
+  lowestIn: number;
+  bottomTwoIn: number;
+}
+
+/** Classical multiplicative seasonal indices of the monthly series (period 12). */
+export interface TrendSeasonalityFinding {
+  type: 'trend_seasonality';
+  metric: string;
+  /** Complete months used, first and last. */
+  firstPeriod: string;
+  lastPeriod: string;
+  months: CalendarMonthPattern[];
+  /** Calendar years with twelve complete months, over which the per-year counts run. */
+  fullYears: number[];
+  /** Calendar years whose detrended ratios feed the min–max range. */
+  rangeFromYear: number | null;
+  rangeToYear: number | null;
+  /** The two months with the highest and the two with the lowest index, highest (or lowest) first. */
+  busiest: [number, number];
+  quietest: [number, number];
+}
+
+export interface WeekdayValue {
+  /** ISO day of week: 1 = Monday … 7 = Sunday. */
+  isoDay: number;
+  value: number | null;
+  /** Days of this weekday in the window the data covers. */
+  dayCount: number;
+  /** value / dayCount for additive metrics; the value itself otherwise. */
+  level: number | null;
+  /** level / mean level across the weekdays: 1.0 is an average day. */
+  index: number | null;
+  /** Share of the window's total; null for non-additive metrics. */
+  share: number | null;
+}
+
+export interface TrendWeekdayFinding {
+  type: 'trend_weekday';
+  metric: string;
+  /** Sum and count metrics add up across days, so levels are per day and shares exist. */
+  additive: boolean;
+  days: WeekdayValue[];
+}
+
+export interface TrendSummaryFinding {
+  type: 'trend_summary';
+  metric: string;
+  grain: Grain;
+  n: number;
+  min: number;
+  max: number;
+  mean: number;
+  median: number;
+  mode: number | null;
+  modeCount: number;
+  sd: number | null;
+  minPeriod: string;
+  maxPeriod: string;
+}
+
+export interface TrendOutlierFinding {
+  type: 'trend_outlier';
+  metric: string;
+  grain: Grain;
+  period: string;
+  value: number;
+  /** Modified z-score (Iglewicz & Hoaglin) against the median of the complete periods. */
+  score: number;
+  median: number;
+  threshold: number;
+}
+
+/** A segment key: the dimension's value as text, null for rows where it is missing; the fold has `other`. */
+export interface SegmentKey {
+  segment: string | null;
+  /** The "All others" fold of every segment past the top N. */
+  other: boolean;
+  /** Segments inside this row (1 unless folded). */
+  members: number;
+  /** 1-based rank by size over the window; the fold ranks after every named segment. */
+  rank: number;
+}
+
+export interface SegmentYearGrowth {
+  fromYear: number;
+  toYear: number;
+  from: number;
+  to: number;
+  relative: number | null;
+  /** Compound yearly rate between the two years; null where undefined. */
+  cagr: number | null;
+}
+
+export interface SegmentTrendFinding extends SegmentKey {
+  type: 'segment_trend';
+  metric: string;
+  dimension: string;
+  grain: Grain;
+  /** The metric over the whole window for this segment. */
+  total: number | null;
+  points: PeriodPoint[];
+  /** First period with any row of this segment. */
+  firstPeriod: string | null;
+  /** Sen's slope was taken on seasonally adjusted values (two full cycles or more), as in trend_test. */
+  seasonallyAdjusted: boolean;
+  slopePerPeriod: number | null;
+  slopePerYear: number | null;
+  slopePerYearRelative: number | null;
+  /** First to last calendar year in which this segment has rows in all twelve months. */
+  growth: SegmentYearGrowth | null;
+  peak: { period: string; value: number } | null;
+}
+
+export interface SegmentTrendOverviewFinding {
+  type: 'segment_trend_overview';
+  metric: string;
+  dimension: string;
+  grain: Grain;
+  /** Distinct segments in the window, before folding. */
+  segmentCount: number;
+  folded: number;
+  /** The named segment growing fastest: by compound yearly growth where it exists, else by relative Sen's slope. */
+  fastest: { segment: string | null; measure: 'cagr' | 'slope'; value: number } | null;
+}
+
+export interface SegmentShareRow extends SegmentKey {
+  value: number | null;
+  /** Null when shares do not apply (non-additive metric, negative or zero total). */
+  share: number | null;
+  cumulativeShare: number | null;
+}
+
+export interface SegmentSharesFinding {
+  type: 'segment_shares';
+  metric: string;
+  dimension: string;
+  /** Shares exist only for sums and counts; other metrics carry per-segment values only. */
+  additive: boolean;
+  total: number | null;
+  segmentCount: number;
+  folded: number;
+  /** Largest first, any "All others" fold last. */
+  rows: SegmentShareRow[];
+  threshold: number;
+  /** Fewest segments reaching the threshold; null when shares do not apply or it lies inside the fold. */
+  countToThreshold: number | null;
+  topN: number;
+  topNShare: number | null;
+  /** Herfindahl–Hirschman index over every segment (0–10,000), computed before folding. */
+  hhi: number | null;
+  hhiBand: HhiBand | null;
+}
+
+export type SegmentFinding =
+  | TrendTestFinding
+  | TrendSeasonalityFinding
+  | TrendWeekdayFinding
+  | TrendSummaryFinding
+  | TrendOutlierFinding
+  | SegmentTrendFinding
+  | SegmentTrendOverviewFinding
+  | SegmentSharesFinding;

@@ -1,0 +1,132 @@
+// Titles and captions for segment trends and segment shares, written only from findings.
+import type { Dimension, Metric } from '../../config/schema.js';
+import type { SegmentSharesFinding, SegmentShareRow, SegmentTrendFinding, SegmentTrendOverviewFinding } from '../findings/segments.js';
+import { formatChange, formatValue, valueFormatOf } from '../format.js';
+import type { Audience, Finding } from '../types.js';
+import { isPluralLabel, type Words } from './trend-test-caption.js';
+import { capitalise, countWord, dimensionPlural, formatRelativeSize, formatShare, lowerLabel, segmentLabel } from './trend-words.js';
+
+type Dim = Pick<Dimension, 'label'>;
+
+/** "+4.1% a year (2022 to 2024)" or, without two full years, the trend slope's yearly rate. */
+export function segmentGrowthText(t: SegmentTrendFinding, locale: string, withYears = true): string | null {
+  if (t.growth?.cagr !== null && t.growth?.cagr !== undefined) {
+    return `${formatChange(t.growth.cagr, locale)} a year${withYears ? ` from ${t.growth.fromYear} to ${t.growth.toYear}` : ''}`;
+  }
+  if (t.slopePerYearRelative !== null) return `${formatChange(t.slopePerYearRelative, locale)} a year (trend)`;
+  return null;
+}
+
+export function segmentTrendWords(metric: Metric, dim: Dim, findings: readonly Finding[], audience: Audience, locale: string): Words {
+  const overview = findings.find((f): f is SegmentTrendOverviewFinding => f.type === 'segment_trend_overview' && f.metric === metric.name);
+  const trends = findings.filter((f): f is SegmentTrendFinding => f.type === 'segment_trend' && f.metric === metric.name);
+  const plural = dimensionPlural(dim);
+  const fmt = valueFormatOf(metric, locale);
+  const noun = lowerLabel(metric.label);
+  if (!overview || trends.length === 0) {
+    return { title: `${metric.label} by ${lowerLabel(dim.label)}: no data in this period`, caption: `There are no ${noun} to break down by ${lowerLabel(dim.label)} in this period.` };
+  }
+  const named = trends.filter((t) => !t.other);
+  const fastest = overview.fastest === null ? undefined : named.find((t) => t.segment === overview.fastest!.segment);
+  const largest = named[0];
+  if (!fastest || !overview.fastest) {
+    const largestText = largest ? `${segmentLabel(largest)} is the largest, at ${formatValue(largest.total, fmt, { compact: true })}.` : '';
+    return {
+      title: `${metric.label} by ${lowerLabel(dim.label)}: too few complete periods to compare growth`,
+      caption: `No ${lowerLabel(dim.label)} has enough complete periods for a growth rate. ${capitalise(largestText)}`.trim(),
+    };
+  }
+  const measure = overview.fastest.measure;
+  const rate = (t: SegmentTrendFinding) => (measure === 'cagr' ? t.growth?.cagr ?? null : t.slopePerYearRelative);
+  const slowest = named.reduce<SegmentTrendFinding | null>((lo, t) => (rate(t) !== null && (lo === null || rate(t)! < rate(lo)!) ? t : lo), null);
+  const growth = segmentGrowthText(fastest, locale)!;
+  const title = capitalise(overview.fastest.value > 0 ? `${segmentLabel(fastest)} grew fastest: ${growth}` : `${segmentLabel(fastest)} held up best: ${growth}`);
+  const largestLine = largest ? `${segmentLabel(largest)} is the largest, at ${formatValue(largest.total, fmt, { compact: true })} over the period.` : '';
+  const slowestLine =
+    slowest && slowest !== fastest ? `${segmentLabel(slowest)} ${rate(slowest)! < 0 ? 'shrank the most' : 'grew the least'} (${segmentGrowthText(slowest, locale, false)}).` : '';
+  let caption: string;
+  if (audience === 'analysts') {
+    const list = named
+      .map((t) => {
+        const g = t.growth?.cagr != null ? `CAGR ${formatChange(t.growth.cagr, locale)} ${t.growth.fromYear}–${t.growth.toYear}` : 'no two full years';
+        const sen = t.slopePerPeriod === null ? '' : `, Sen's slope ${formatValue(t.slopePerPeriod, fmt, { compact: true, signed: true })} per ${t.grain}`;
+        return `${segmentLabel(t)}: ${formatValue(t.total, fmt, { compact: true })}, ${g}${sen}`;
+      })
+      .join('; ');
+    caption = `By ${lowerLabel(dim.label)} (growth between the first and last calendar years with rows in all twelve months): ${list}.`;
+  } else if (audience === 'managers') {
+    caption = `Among ${plural}, ${segmentLabel(fastest)} grew fastest, ${growth}. ${capitalise(slowestLine)} ${capitalise(largestLine)}`.replace(/ {2,}/g, ' ').trim();
+  } else {
+    const pace = overview.fastest.value > 0 ? `growing fastest, about ${formatRelativeSize(overview.fastest.value, locale)} a year` : `holding up best, though shrinking about ${formatRelativeSize(overview.fastest.value, locale)} a year`;
+    caption = `${capitalise(segmentLabel(fastest))} is ${pace}. ${capitalise(largestLine)}`.trim();
+  }
+  return { title, caption };
+}
+
+export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly Finding[], audience: Audience, locale: string): Words {
+  const f = findings.find((x): x is SegmentSharesFinding => x.type === 'segment_shares' && x.metric === metric.name);
+  const noun = lowerLabel(metric.label);
+  const plural = dimensionPlural(dim);
+  const fmt = valueFormatOf(metric, locale);
+  if (!f || f.rows.length === 0) {
+    return { title: `${metric.label} by ${lowerLabel(dim.label)}: no data in this period`, caption: `There are no ${noun} to break down by ${lowerLabel(dim.label)} in this period.` };
+  }
+  const named = f.rows.filter((r) => !r.other);
+  if (f.rows.every((r) => r.value === null)) {
+    return { title: `${metric.label} by ${lowerLabel(dim.label)}: no values in this period`, caption: `${capitalise(noun)} ${isPluralLabel(metric.label) ? 'have' : 'has'} no values for any ${lowerLabel(dim.label)} in this period.` };
+  }
+  if (!f.additive || f.total === null || named.every((r) => r.share === null)) {
+    const ranked = [...named].filter((r) => r.value !== null).sort((a, b) => b.value! - a.value!);
+    const top = ranked[0];
+    const why = f.additive ? `the total is not positive or some ${plural} are negative` : `${noun} ${isPluralLabel(metric.label) ? 'are' : 'is'} not a total that splits across ${plural}`;
+    const list = ranked.slice(0, 5).map((r) => `${segmentLabel(r)} ${formatValue(r.value, fmt)}`).join(', ');
+    return {
+      title: top ? `${metric.label} is highest for ${segmentLabel(top)} (${formatValue(top.value, fmt)})` : `${metric.label} by ${lowerLabel(dim.label)}: no values`,
+      caption: `Shares do not apply here: ${why}. ${list ? `By ${lowerLabel(dim.label)}: ${list}.` : ''}`.trim(),
+    };
+  }
+  // The headline names the fewest segments that carry at least half of the total.
+  const half = named.find((r) => r.cumulativeShare! >= 0.5 - 1e-12);
+  const k = half ? named.indexOf(half) + 1 : null;
+  const verbFor = (n: number) => (n === 1 ? 'carries' : 'carry');
+  let title: string;
+  if (k === 1) title = `${capitalise(segmentLabel(named[0]!))} carries ${formatShare(named[0]!.share, locale)} of ${noun}`;
+  else if (k !== null) title = `${capitalise(countWord(k, locale))} ${plural} carry ${formatShare(half!.cumulativeShare, locale)} of ${noun}`;
+  else title = `${capitalise(plural)} are spread out: the largest carries ${formatShare(named[0]!.share, locale)} of ${noun}`;
+
+  const namesOf = (rows: readonly SegmentShareRow[]) => rows.map((r) => `${segmentLabel(r)} (${formatShare(r.share, locale, true)})`);
+  const joinNames = (xs: string[]) => (xs.length <= 1 ? xs.join('') : `${xs.slice(0, -1).join(', ')} and ${xs[xs.length - 1]}`);
+  const lead = k !== null && k > 1 ? `${joinNames(namesOf(named.slice(0, k)))} together ${verbFor(k)} ${formatShare(half!.cumulativeShare, locale, true)} of ${noun}` : `${joinNames(namesOf(named.slice(0, 1)))} ${verbFor(1)} the most`;
+  const c = f.countToThreshold;
+  const reach =
+    c === null
+      ? `the ${named.length} largest ${plural} shown carry ${formatShare(named[named.length - 1]!.cumulativeShare, locale, true)}, short of ${formatShare(f.threshold, locale)}`
+      : `${countWord(c, locale)} ${c === 1 ? lowerLabel(dim.label) : plural} reach ${formatShare(f.threshold, locale)} (${formatShare(named[c - 1]!.cumulativeShare, locale, true)})`;
+  const fold = f.rows.find((r) => r.other);
+  const foldLine = fold ? ` The ${f.folded} smaller ${plural} are combined as "All others" (${formatShare(fold.share, locale, true)}).` : '';
+  let caption: string;
+  if (audience === 'analysts') {
+    const hhi = f.hhi === null ? '' : ` HHI ${formatValue(f.hhi, { unit: 'number', decimals: 0, locale })} (${bandWords(f.hhiBand)} by the 2010 US Horizontal Merger Guidelines bands)${f.topNShare !== null ? `; top ${f.topN} share ${formatShare(f.topNShare, locale, true)}` : ''}.`;
+    caption = `${capitalise(lead)}; ${reach}, of ${f.segmentCount} ${plural} in all.${hhi}${foldLine}`;
+  } else if (audience === 'managers') {
+    caption = `${capitalise(lead)}; ${reach}.${foldLine}`;
+  } else {
+    const top = k !== null ? `${capitalise(countWord(k, locale))} ${k === 1 ? lowerLabel(dim.label) : plural} ${verbFor(k)} about ${formatShare(half!.cumulativeShare, locale)} of ${noun}` : `No single ${lowerLabel(dim.label)} dominates ${noun}`;
+    const more = c !== null && (k === null || c > k) ? `; ${countWord(c, locale)} carry over ${formatShare(f.threshold, locale)}` : '';
+    caption = `${top}${more}.`;
+  }
+  return { title, caption };
+}
+
+function bandWords(band: SegmentSharesFinding['hhiBand']): string {
+  switch (band) {
+    case 'highly_concentrated':
+      return 'highly concentrated';
+    case 'moderately_concentrated':
+      return 'moderately concentrated';
+    case 'unconcentrated':
+      return 'unconcentrated';
+    default:
+      return 'n/a';
+  }
+}

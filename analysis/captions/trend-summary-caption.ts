@@ -1,0 +1,48 @@
+// Title and caption for summary statistics over a series' complete periods, from findings only.
+import type { Metric } from '../../config/schema.js';
+import type { TrendOutlierFinding, TrendSummaryFinding } from '../findings/segments.js';
+import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
+import { MODIFIED_Z_THRESHOLD } from '../stats/index.js';
+import type { Audience, Finding, Grain } from '../types.js';
+import { isPluralLabel, type Words } from './trend-test-caption.js';
+import { formatIndex, grainNoun, lowerLabel } from './trend-words.js';
+
+export function trendSummaryWords(metric: Metric, grain: Grain, findings: readonly Finding[], audience: Audience, locale: string): Words {
+  const s = findings.find((f): f is TrendSummaryFinding => f.type === 'trend_summary' && f.metric === metric.name);
+  const outliers = findings.filter((f): f is TrendOutlierFinding => f.type === 'trend_outlier' && f.metric === metric.name);
+  const fmt = valueFormatOf(metric, locale);
+  const v = (x: number | null) => formatValue(x, fmt, { compact: true });
+  const when = (p: string) => formatPeriod(p, grain, locale, 'long');
+  if (!s) {
+    return {
+      title: `${metric.label}: no complete ${grainNoun(grain)} to summarise`,
+      caption: `There is no complete ${grainNoun(grain)} of ${lowerLabel(metric.label)} with a value in this period.`,
+    };
+  }
+  const per = grainNoun(grain);
+  if (s.n === 1) {
+    return {
+      title: `${metric.label} ${isPluralLabel(metric.label) ? 'were' : 'was'} ${v(s.mean)} in ${when(s.minPeriod)}`,
+      caption: `Only one complete ${per} is available (${when(s.minPeriod)}: ${v(s.mean)}), so there is no spread to describe.`,
+    };
+  }
+  const title = `${metric.label} averaged ${v(s.mean)} a ${per}, from ${v(s.min)} to ${v(s.max)}`;
+  const range = `from ${v(s.min)} (${when(s.minPeriod)}) to ${v(s.max)} (${when(s.maxPeriod)})`;
+  const outlierText = (o: TrendOutlierFinding) => `${when(o.period)} (${v(o.value)}${audience === 'analysts' ? `, modified z = ${formatIndex(o.score, locale)}` : ''})`;
+  const stand =
+    outliers.length === 0
+      ? audience === 'analysts'
+        ? ` No ${per} has |modified z| above ${formatValue(MODIFIED_Z_THRESHOLD, { unit: 'number', decimals: 1, locale })} (Iglewicz–Hoaglin).`
+        : ''
+      : ` ${outliers.length === 1 ? 'One' : String(outliers.length)} ${grainNoun(grain, outliers.length)} ${outliers.length === 1 ? 'stands' : 'stand'} out from the rest: ${outliers.map(outlierText).join(', ')}.`;
+  let caption: string;
+  if (audience === 'analysts') {
+    const mode = s.mode === null ? 'no repeated value' : `mode ${v(s.mode)} (${s.modeCount} times)`;
+    caption = `Over ${s.n} complete ${grainNoun(grain, s.n)}: mean ${v(s.mean)}, median ${v(s.median)}, standard deviation ${v(s.sd)}, ${mode}; ${range}.${stand}`;
+  } else if (audience === 'managers') {
+    caption = `Over ${s.n} complete ${grainNoun(grain, s.n)}, ${lowerLabel(metric.label)} averaged ${v(s.mean)} a ${per} (median ${v(s.median)}), ${range}.${stand}`;
+  } else {
+    caption = `In a typical ${per}, ${lowerLabel(metric.label)} ${isPluralLabel(metric.label) ? 'are' : 'is'} about ${v(s.median)}; the range runs ${range}.${stand}`;
+  }
+  return { title, caption };
+}

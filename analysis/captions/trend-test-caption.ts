@@ -1,0 +1,83 @@
+// Title and caption for a trend test (Mann–Kendall and Sen's slope), written only from findings.
+import type { Metric } from '../../config/schema.js';
+import type { TrendTestFinding } from '../findings/segments.js';
+import { formatChange, formatPeriod, formatValue, valueFormatOf } from '../format.js';
+import type { Audience, Finding, Grain } from '../types.js';
+import { formatIndex, formatP, formatRelativeSize, grainNoun } from './trend-words.js';
+
+export interface Words {
+  title: string;
+  caption: string;
+}
+
+/** "Bookings show" / "Revenue shows": a label whose last word ends in a single s reads as plural. */
+export function isPluralLabel(label: string): boolean {
+  const last = label.trim().split(' ').pop() ?? '';
+  return /[^s]s$/i.test(last);
+}
+
+export function trendTestWords(metric: Metric, grain: Grain, findings: readonly Finding[], audience: Audience, locale: string): Words {
+  const test = findings.find((f): f is TrendTestFinding => f.type === 'trend_test' && f.metric === metric.name);
+  const fmt = valueFormatOf(metric, locale);
+  const when = (p: string) => formatPeriod(p, grain, locale, 'long');
+  const plural = isPluralLabel(metric.label);
+  const peakLine = peakSentence(metric, grain, findings, locale);
+  if (!test) {
+    const series = findings.find((f): f is Extract<Finding, { type: 'series' }> => f.type === 'series' && f.metric === metric.name);
+    const complete = series ? series.points.filter((p) => !p.partial && p.value !== null).length : 0;
+    return {
+      title: `${metric.label}: too few complete ${grainNoun(grain, 2)} to test for a trend`,
+      caption: `A trend test needs at least three complete ${grainNoun(grain, 2)} with a value; ${complete === 0 ? 'this period has none' : `this period has ${complete}`}.${peakLine ? ` ${peakLine}` : ''}`,
+    };
+  }
+
+  const span = `${when(test.firstPeriod)} to ${when(test.lastPeriod)}`;
+  const perPeriod = formatValue(Math.abs(test.slopePerPeriod), fmt, { compact: true });
+  const perYearRel = test.slopePerYearRelative === null ? null : formatChange(test.slopePerYearRelative, locale);
+  const moving = test.direction === 'up' ? 'rising' : 'falling';
+  const show = plural ? 'show' : 'shows';
+  const title =
+    test.direction === 'none'
+      ? `${metric.label}: no clear trend from ${span}`
+      : `${metric.label} ${show} a ${moving} trend of about ${perPeriod} per ${grainNoun(grain)}`;
+
+  let caption: string;
+  if (audience === 'analysts') {
+    const method = `Mann–Kendall${test.seasonallyAdjusted ? ' on seasonally adjusted values' : ''}, p ${formatP(test.pValue, locale)}, τ = ${formatIndex(test.tau, locale)}, n = ${test.n} ${grainNoun(grain, test.n)}, ${span}`;
+    const slope = `Sen's slope ${formatValue(test.slopePerPeriod, fmt, { compact: true, signed: true })} per ${grainNoun(grain)}, ${formatValue(test.slopePerYear, fmt, { compact: true, signed: true })} a year${perYearRel ? ` (${perYearRel} of the mean level)` : ''}`;
+    const raw = test.seasonallyAdjusted ? ` On the unadjusted values the test gives p ${formatP(test.rawPValue, locale)}.` : '';
+    const lead = test.direction === 'none' ? `No significant monotonic trend at the ${formatValue(test.alpha, { unit: 'percent', decimals: 0, locale })} level` : `${title}`;
+    caption = `${lead} (${method}); ${slope}.${raw}`;
+  } else if (audience === 'managers') {
+    const seasonal = test.seasonallyAdjusted ? ', after allowing for the usual seasonal pattern' : '';
+    caption =
+      test.direction === 'none'
+        ? `${metric.label} moved up and down from ${span} without a clear direction${seasonal}; the changes could be chance.`
+        : `${metric.label} ${test.direction === 'up' ? 'rose' : 'fell'} by about ${perPeriod} a ${grainNoun(grain)}${perYearRel ? ` (${perYearRel} a year)` : ''} from ${span}${seasonal}; a trend this steady is unlikely to be chance.`;
+  } else {
+    const be = plural ? 'are' : 'is';
+    const size = test.slopePerYearRelative === null ? '' : `, by about ${formatRelativeSize(test.slopePerYearRelative, locale)} a year`;
+    caption =
+      test.direction === 'none'
+        ? `${metric.label} ${show} no clear rise or fall from ${span}; the ups and downs could be chance.`
+        : `${metric.label} ${be} ${moving}${size}; this is unlikely to be chance.`;
+  }
+  return { title, caption: peakLine ? `${caption} ${peakLine}` : caption };
+}
+
+/** The peak and how far the latest complete period sits from it. */
+function peakSentence(metric: Metric, grain: Grain, findings: readonly Finding[], locale: string): string {
+  const change = findings.find((f): f is Extract<Finding, { type: 'change' }> => f.type === 'change' && f.metric === metric.name);
+  if (!change) return '';
+  const fmt = valueFormatOf(metric, locale);
+  const value = (v: number) => formatValue(v, fmt, { compact: true });
+  const when = (p: string) => formatPeriod(p, grain, locale, 'long');
+  if (change.from.period === change.to.period) {
+    return `The latest complete ${grainNoun(grain)}, ${when(change.to.period)}, is the peak at ${value(change.to.value)}.`;
+  }
+  const gap =
+    change.relative === null
+      ? `${value(change.to.value)}`
+      : `${value(change.to.value)}, ${formatRelativeSize(change.relative, locale)} ${change.relative < 0 ? 'below' : 'above'} it`;
+  return `The peak was ${when(change.from.period)} at ${value(change.from.value)}; the latest complete ${grainNoun(grain)}, ${when(change.to.period)}, was ${gap}.`;
+}

@@ -1,0 +1,51 @@
+// Presenter for "trend_seasonality": the seasonal profile (index per calendar month with its
+// range across years); without enough history, the weekday pattern as bars instead.
+import { buildBars } from '../charts/build-bars.js';
+import { buildSeasonalProfile } from '../charts/build-seasonal-profile.js';
+import { seasonalityWords } from '../captions/trend-seasonality-caption.js';
+import { weekdayName } from '../captions/trend-words.js';
+import { metricByName } from '../catalog.js';
+import type { TrendSeasonalityFinding, TrendWeekdayFinding } from '../findings/segments.js';
+import { valueFormatOf } from '../format.js';
+import { isAdditiveMetric } from '../templates/segments-fold-sql.js';
+import { caveatNotes, chartFooter, chartSubtitle } from './header.js';
+import type { Presenter } from './presenter.js';
+
+export const presentTrendSeasonality: Presenter = (answer, ctx) => {
+  const sq = answer.subQuestion;
+  const metric = metricByName(ctx.dataset, sq.metrics[0]!);
+  const additive = isAdditiveMetric(metric);
+  const words = seasonalityWords(metric, additive, answer.findings, ctx.audience, ctx.locale);
+  const s = answer.findings.find((f): f is TrendSeasonalityFinding => f.type === 'trend_seasonality' && f.metric === metric.name);
+  const w = answer.findings.find((f): f is TrendWeekdayFinding => f.type === 'trend_weekday' && f.metric === metric.name);
+  // The profile is monthly whatever grain was asked for, so the subtitle says "monthly".
+  const header = {
+    title: words.title,
+    subtitle: chartSubtitle({ ...answer, subQuestion: { ...sq, grain: 'month' } }, metric, ctx),
+    footer: chartFooter(answer, ctx),
+    ...ctx.chart,
+  };
+  let chart = null;
+  if (s) {
+    chart = buildSeasonalProfile({
+      ...header,
+      months: s.months.map((m) => ({ month: m.month, index: m.index, min: m.min, max: m.max })),
+      locale: ctx.locale,
+      rangeLabel: s.rangeFromYear !== null && s.rangeToYear !== null ? `Range across ${s.rangeFromYear}–${s.rangeToYear}` : 'Range across years',
+    });
+  } else if (w && w.days.some((d) => d.level !== null)) {
+    chart = buildBars({
+      ...header,
+      items: w.days.flatMap((d) => (d.level === null ? [] : [{ label: weekdayName(d.isoDay, ctx.locale), value: d.level }])),
+      format: valueFormatOf(metric, ctx.locale),
+      topN: 7,
+    });
+  }
+  return {
+    title: words.title,
+    caption: words.caption,
+    notes: caveatNotes(answer, ctx),
+    chart,
+    takeaway: s ? { importance: 55, text: words.title } : null,
+  };
+};

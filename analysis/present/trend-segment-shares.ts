@@ -1,0 +1,41 @@
+// Presenter for "segment_shares": a Pareto chart (bars largest first, running share, 80% mark);
+// for a metric that has no shares (an average, a ratio), plain bars of each segment's value.
+import { buildBars } from '../charts/build-bars.js';
+import { buildPareto } from '../charts/build-pareto.js';
+import { segmentSharesWords } from '../captions/trend-segments-caption.js';
+import { segmentLabel } from '../captions/trend-words.js';
+import { dimensionByName, metricByName } from '../catalog.js';
+import type { SegmentSharesFinding } from '../findings/segments.js';
+import { valueFormatOf } from '../format.js';
+import { caveatNotes, chartFooter, chartSubtitle } from './header.js';
+import type { Presenter } from './presenter.js';
+import { barsWithFoldLast, paretoWithFoldLast } from './trend-fold.js';
+
+export const presentSegmentShares: Presenter = (answer, ctx) => {
+  const sq = answer.subQuestion;
+  const metric = metricByName(ctx.dataset, sq.metrics[0]!);
+  const dim = dimensionByName(ctx.dataset, sq.dimension ?? '');
+  const words = segmentSharesWords(metric, dim, answer.findings, ctx.audience, ctx.locale);
+  const f = answer.findings.find((x): x is SegmentSharesFinding => x.type === 'segment_shares' && x.metric === metric.name);
+  const header = { title: words.title, subtitle: chartSubtitle(answer, metric, ctx, { grain: false }), footer: chartFooter(answer, ctx), ...ctx.chart };
+  const fold = f?.rows.find((r) => r.other);
+  const foldLabel = fold ? segmentLabel(fold) : null;
+  let chart = null;
+  if (f) {
+    const items = f.rows.flatMap((r) => (r.value === null ? [] : [{ label: segmentLabel(r), value: r.value }]));
+    const format = valueFormatOf(metric, ctx.locale);
+    const sharesApply = f.rows.some((r) => r.share !== null);
+    if (items.length > 0 && sharesApply) {
+      chart = paretoWithFoldLast(buildPareto({ ...header, items, format, valueLabel: metric.label, topN: items.length, threshold: f.threshold }), foldLabel);
+    } else if (items.length > 0) {
+      chart = barsWithFoldLast(buildBars({ ...header, items, format, topN: items.length }), foldLabel);
+    }
+  }
+  return {
+    title: words.title,
+    caption: words.caption,
+    notes: caveatNotes(answer, ctx),
+    chart,
+    takeaway: chart ? { importance: 60, text: words.title } : null,
+  };
+};

@@ -1,0 +1,51 @@
+// Presenter for "segment_trend": one bar per segment (its total over the window) with its
+// growth in the label; the title names the fastest-growing segment.
+import { buildBars } from '../charts/build-bars.js';
+import { segmentGrowthText, segmentTrendWords } from '../captions/trend-segments-caption.js';
+import { segmentLabel } from '../captions/trend-words.js';
+import { dimensionByName, metricByName } from '../catalog.js';
+import type { SegmentTrendFinding } from '../findings/segments.js';
+import { valueFormatOf } from '../format.js';
+import { caveatNotes, chartFooter, chartSubtitle } from './header.js';
+import type { Presenter } from './presenter.js';
+import { barsWithFoldLast } from './trend-fold.js';
+
+export const presentSegmentTrend: Presenter = (full, ctx) => {
+  // The chart is bars of window totals: nothing is drawn dashed, and growth rates already skip a
+  // partial period, so its note would only mislead here.
+  const answer = { ...full, caveats: full.caveats.filter((c) => c.code !== 'partial_period') };
+  const sq = answer.subQuestion;
+  const metric = metricByName(ctx.dataset, sq.metrics[0]!);
+  const dim = dimensionByName(ctx.dataset, sq.dimension ?? '');
+  const words = segmentTrendWords(metric, dim, answer.findings, ctx.audience, ctx.locale);
+  const trends = answer.findings.filter((f): f is SegmentTrendFinding => f.type === 'segment_trend' && f.metric === metric.name);
+  const items = trends.flatMap((t) => {
+    if (t.total === null) return [];
+    const growth = t.other ? null : segmentGrowthText(t, ctx.locale, false);
+    return [{ label: growth ? `${segmentLabel(t)} · ${growth}` : segmentLabel(t), value: t.total }];
+  });
+  const fold = trends.find((t) => t.other);
+  const chart =
+    items.length > 0
+      ? barsWithFoldLast(
+          buildBars({
+            title: words.title,
+            subtitle: chartSubtitle(answer, metric, ctx, { grain: false }),
+            footer: chartFooter(answer, ctx),
+            ...ctx.chart,
+            items,
+            format: valueFormatOf(metric, ctx.locale),
+            // Already folded in SQL: show every row as it came.
+            topN: items.length,
+          }),
+          fold ? segmentLabel(fold) : null,
+        )
+      : null;
+  return {
+    title: words.title,
+    caption: words.caption,
+    notes: caveatNotes(answer, ctx),
+    chart,
+    takeaway: chart ? { importance: 55, text: words.title } : null,
+  };
+};

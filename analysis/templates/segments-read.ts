@@ -1,0 +1,68 @@
+// Reading the folded segment rows back: one key per segment (the fold last), and the
+// per-segment gap and late-start checks shared by the segment templates.
+import type { SegmentKey } from '../findings/segments.js';
+import type { Caveat, CellValue, Grain, ResultTable } from '../types.js';
+import { numberOrNull } from './trend-points.js';
+
+export interface FoldedRow extends SegmentKey {
+  /** Map key that tells the missing-value segment (null) from the fold. */
+  id: string;
+  value: number | null;
+  rowCount: number;
+  row: Record<string, CellValue>;
+}
+
+export function segmentId(segment: string | null, other: boolean): string {
+  return other ? 'other' : segment === null ? 'missing' : `v:${segment}`;
+}
+
+export function foldedRow(r: Record<string, CellValue>): FoldedRow {
+  const other = r.other === true;
+  const segment = other || r.segment === null || r.segment === undefined ? null : String(r.segment);
+  return {
+    id: segmentId(segment, other),
+    segment,
+    other,
+    members: numberOrNull(r.members) ?? 1,
+    rank: numberOrNull(r.seg_rank) ?? Number.MAX_SAFE_INTEGER,
+    value: numberOrNull(r.value),
+    rowCount: numberOrNull(r.row_count) ?? 0,
+    row: r,
+  };
+}
+
+/** Segment totals in rank order, the fold last. */
+export function readSegmentTotals(table: ResultTable): FoldedRow[] {
+  return table.rows.map(foldedRow).sort((a, b) => Number(a.other) - Number(b.other) || a.rank - b.rank);
+}
+
+export function foldedCaveat(rows: readonly FoldedRow[], dimension: string): Caveat | null {
+  const fold = rows.find((r) => r.other);
+  return fold ? { code: 'segments_folded', data: { count: fold.members, dimension } } : null;
+}
+
+/**
+ * Gaps and late starts of one named segment over the window's complete periods: a late start
+ * when its first row comes after the window's first period, a gap for each complete period
+ * after its first row with no row at all.
+ */
+export function segmentCoverageCaveats(
+  key: SegmentKey,
+  dimension: string,
+  grain: Grain,
+  starts: readonly string[],
+  partial: ReadonlySet<string>,
+  periodsWithRows: ReadonlySet<string>,
+): Caveat[] {
+  if (key.other) return [];
+  const caveats: Caveat[] = [];
+  const segment = key.segment ?? '(missing)';
+  const firstIdx = starts.findIndex((p) => periodsWithRows.has(p));
+  if (firstIdx < 0) return caveats;
+  if (firstIdx > 0) caveats.push({ code: 'late_segment', data: { segment, dimension, firstPeriod: starts[firstIdx]!, grain } });
+  const gaps = starts.slice(firstIdx).filter((p) => !partial.has(p) && !periodsWithRows.has(p));
+  if (gaps.length > 0) {
+    caveats.push({ code: 'segment_gap', data: { segment, dimension, periods: gaps.length, firstGap: gaps[0]!, lastGap: gaps[gaps.length - 1]!, grain } });
+  }
+  return caveats;
+}

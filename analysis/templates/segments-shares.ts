@@ -1,0 +1,116 @@
+// Template "segment_shares": each segment's share of a metric over the window, Pareto
+// cumulative shares, how many segments make up 80%, the top-N share and the HHI. Shares only
+// exist for sums and counts; any other metric gets its per-segment values and no shares.
+import { metricByName } from '../catalog.js';
+import type { SegmentShareRow, SegmentSharesFinding } from '../findings/segments.js';
+import { concentration, hhiBand } from '../stats/index.js';
+import type { Caveat, ResultTable, SubQuestion } from '../types.js';
+import { compileFoldedSegments, isAdditiveMetric, SEGMENT_TOP_N, segmentDimension } from './segments-fold-sql.js';
+import { foldedCaveat, readSegmentTotals, type FoldedRow } from './segments-read.js';
+import type { ReadContext, Reading, Template } from './template.js';
+import { coveredWindow, EMPTY_TABLE, numberOrNull } from './trend-points.js';
+
+/** The Pareto reference share ("80/20", common practice). */
+export const SHARE_THRESHOLD = 0.8;
+/** How many of the largest segments the top-N share counts. */
+export const SHARE_TOP_N = 3;
+
+export const segmentSharesTemplate: Template = {
+  name: 'segment_shares',
+  compile: (sq, ctx) => {
+    segmentDimension(sq, ctx);
+    return [{ name: 'segment_totals', ...compileFoldedSegments(sq, ctx, { topN: SEGMENT_TOP_N, grain: null, totals: true }) }];
+  },
+  read: (sq, tables, ctx) => readSegmentShares(sq, tables.segment_totals ?? EMPTY_TABLE, ctx),
+};
+
+export function readSegmentShares(sq: SubQuestion, table: ResultTable, ctx: ReadContext): Reading {
+  const metricName = sq.metrics[0]!;
+  const metric = metricByName(ctx.dataset, metricName);
+  const dimension = sq.dimension ?? '';
+  const caveats: Caveat[] = [];
+  if (table.truncated) caveats.push({ code: 'truncated', data: { rows: table.rows.length } });
+  const rows = readSegmentTotals(table);
+  if (rows.length === 0 || coveredWindow(sq.window, ctx.coverage) === null) {
+    return { findings: [], caveats: [...caveats, { code: 'no_data', data: { start: sq.window.start, end: sq.window.end } }] };
+  }
+  if (rows.every((r) => r.value === null)) caveats.push({ code: 'all_null', data: { metric: metricName } });
+  const fold = foldedCaveat(rows, dimension);
+  if (fold) caveats.push(fold);
+  const additive = isAdditiveMetric(metric);
+  const first = table.rows[0]!;
+  const base: SegmentSharesFinding = {
+    type: 'segment_shares',
+    metric: metricName,
+    dimension,
+    additive,
+    total: null,
+    segmentCount: numberOrNull(first.seg_count) ?? rows.length,
+    folded: rows.find((r) => r.other)?.members ?? 0,
+    rows: rows.map((r) => ({ ...keyOf(r), value: r.value, share: null, cumulativeShare: null })),
+    threshold: SHARE_THRESHOLD,
+    countToThreshold: null,
+    topN: SHARE_TOP_N,
+    topNShare: null,
+    hhi: null,
+    hhiBand: null,
+  };
+  if (!additive || rows.every((r) => r.value === null)) return { findings: [base], caveats };
+
+  // A sum over no values is null in SQL; as a part of a total it is zero.
+  const values = rows.map((r) => r.value ?? 0);
+  const negatives = values.filter((v) => v < 0).length;
+  const total = values.reduce((a, b) => a + b, 0);
+  if (negatives > 0) {
+    caveats.push({ code: 'negative_amounts', data: { column: metricName, count: negatives, segments: true } });
+    return { findings: [{ ...base, total }], caveats };
+  }
+  if (!(total > 0)) {
+    caveats.push({ code: 'base_zero', data: { metric: metricName } });
+    return { findings: [{ ...base, total }], caveats };
+  }
+  return { findings: [base.folded > 0 ? foldedShares(base, rows, values, first) : exactShares(base, rows, values)], caveats };
+}
+
+function keyOf(r: FoldedRow) {
+  return { segment: r.segment, other: r.other, members: r.members, rank: r.rank };
+}
+
+/** Every segment is in hand: the stats module computes everything. */
+function exactShares(base: SegmentSharesFinding, rows: readonly FoldedRow[], values: readonly number[]): SegmentSharesFinding {
+  const c = concentration(rows.map((r, i) => ({ key: r.id, value: values[i]! })), { threshold: SHARE_THRESHOLD, topN: SHARE_TOP_N });
+  if (c.kind !== 'ok') return base;
+  const byId = new Map(rows.map((r) => [r.id, r]));
+  const shareRows: SegmentShareRow[] = c.pareto.map((p) => ({ ...keyOf(byId.get(p.key)!), rank: p.rank, value: p.value, share: p.share, cumulativeShare: p.cumulativeShare }));
+  return { ...base, total: c.total, rows: shareRows, countToThreshold: c.countToThreshold, topNShare: c.topNShare, hhi: c.hhi, hhiBand: c.band };
+}
+
+/**
+ * The tail is folded: named segments in rank order, then the fold. The count to the threshold is
+ * known only if the named segments reach it; the HHI comes from the database's sum of squared
+ * segment values over every segment, since the fold's square is not the sum of its members' squares.
+ */
+function foldedShares(base: SegmentSharesFinding, rows: readonly FoldedRow[], values: readonly number[], first: ResultTable['rows'][number]): SegmentSharesFinding {
+  const total = values.reduce((a, b) => a + b, 0);
+  let running = 0;
+  const shareRows: SegmentShareRow[] = rows.map((r, i) => {
+    running += values[i]!;
+    return { ...keyOf(r), value: values[i]!, share: values[i]! / total, cumulativeShare: running / total };
+  });
+  const named = shareRows.filter((r) => !r.other);
+  const reach = named.find((r) => r.cumulativeShare! >= SHARE_THRESHOLD - 1e-12);
+  const topN = named.slice(0, SHARE_TOP_N);
+  const grandTotal = numberOrNull(first.grand_total);
+  const sumSquares = numberOrNull(first.sum_squares);
+  const minSegment = numberOrNull(first.min_segment_value);
+  const hhi = grandTotal !== null && grandTotal > 0 && sumSquares !== null && (minSegment ?? 0) >= 0 ? (10_000 * sumSquares) / (grandTotal * grandTotal) : null;
+  return {
+    ...base,
+    total,
+    rows: shareRows,
+    countToThreshold: reach ? named.indexOf(reach) + 1 : null,
+    topNShare: topN.length === SHARE_TOP_N ? topN[topN.length - 1]!.cumulativeShare : null,
+    hhi,
+    hhiBand: hhi === null ? null : hhiBand(hhi),
+  };
+}

@@ -1,0 +1,149 @@
+// Template "segment_trend": a metric by one dimension at the grain over the window. Each of the
+// top N segments (and one "All others" fold) gets its series, its Sen's slope, its growth from
+// its first to its last full calendar year, and its peak; gaps and late starts become caveats.
+import type { SegmentTrendFinding, SegmentYearGrowth } from '../findings/segments.js';
+import { addDays, nextPeriod } from '../periods.js';
+import { cagr, relativeChange, senSlope } from '../stats/index.js';
+import type { Caveat, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
+import { compileFoldedSegments, SEGMENT_TOP_N, segmentDimension } from './segments-fold-sql.js';
+import { foldedCaveat, foldedRow, readSegmentTotals, segmentCoverageCaveats, type FoldedRow } from './segments-read.js';
+import type { ReadContext, Reading, Template } from './template.js';
+import { completePoints, coveredWindow, EMPTY_TABLE, isoYear, mean, numberOrNull, periodsInYear, seasonallyAdjusted, windowPeriods } from './trend-points.js';
+
+export const segmentTrendTemplate: Template = {
+  name: 'segment_trend',
+  compile: (sq, ctx) => {
+    segmentDimension(sq, ctx);
+    return [
+      { name: 'segment_totals', ...compileFoldedSegments(sq, ctx, { topN: SEGMENT_TOP_N, grain: null, totals: true }) },
+      { name: 'segment_series', ...compileFoldedSegments(sq, ctx, { topN: SEGMENT_TOP_N, grain: sq.grain }) },
+      { name: 'segment_years', ...compileFoldedSegments(sq, ctx, { topN: SEGMENT_TOP_N, grain: 'year', monthsWithRows: true }) },
+    ];
+  },
+  read: (sq, tables, ctx) =>
+    readSegmentTrend(sq, tables.segment_totals ?? EMPTY_TABLE, tables.segment_series ?? EMPTY_TABLE, tables.segment_years ?? EMPTY_TABLE, ctx),
+};
+
+export function readSegmentTrend(sq: SubQuestion, totals: ResultTable, seriesTable: ResultTable, years: ResultTable, ctx: ReadContext): Reading {
+  const metric = sq.metrics[0]!;
+  const dimension = sq.dimension ?? '';
+  const caveats: Caveat[] = [];
+  for (const t of [totals, seriesTable, years]) if (t.truncated) caveats.push({ code: 'truncated', data: { rows: t.rows.length } });
+  const covered = coveredWindow(sq.window, ctx.coverage);
+  const segments = readSegmentTotals(totals);
+  if (!covered || segments.length === 0) {
+    return { findings: [], caveats: [...caveats, { code: 'no_data', data: { start: sq.window.start, end: sq.window.end } }] };
+  }
+  if (segments.every((s) => s.value === null)) caveats.push({ code: 'all_null', data: { metric } });
+  const fold = foldedCaveat(segments, dimension);
+  if (fold) caveats.push(fold);
+
+  const { starts, partial } = windowPeriods(covered, sq.grain);
+  for (const p of partial) caveats.push({ code: 'partial_period', data: { period: p, grain: sq.grain, ...partialCover(p, covered, sq.grain) } });
+  const cells = groupRows(seriesTable);
+  const yearRows = groupRows(years);
+  const perYear = periodsInYear(sq.grain);
+
+  const findings: Finding[] = [];
+  const trends: SegmentTrendFinding[] = [];
+  for (const seg of segments) {
+    const mine = cells.get(seg.id) ?? new Map<string, FoldedRow>();
+    const points: PeriodPoint[] = starts.map((p) => ({ period: p, value: mine.get(p)?.value ?? null, partial: partial.has(p) }));
+    const withRows = new Set([...mine.values()].filter((c) => c.rowCount > 0).map((c) => String(c.row.period)));
+    caveats.push(...segmentCoverageCaveats(seg, dimension, sq.grain, starts, partial, withRows));
+    const complete = completePoints(points);
+    // Adjusted as in trend_test, so a segment that starts at the summer peak does not look like it fell.
+    const adjusted = seasonallyAdjusted(sq.grain, points, complete);
+    const values = adjusted ?? complete.map((c) => c.value);
+    const sen = senSlope(values, complete.map((c) => c.index));
+    const level = mean(values);
+    const slopePerYear = sen ? sen.slope * perYear : null;
+    let peak: { period: string; value: number } | null = null;
+    for (const c of complete) if (peak === null || c.value > peak.value) peak = { period: c.period, value: c.value };
+    const trend: SegmentTrendFinding = {
+      type: 'segment_trend',
+      metric,
+      dimension,
+      grain: sq.grain,
+      segment: seg.segment,
+      other: seg.other,
+      members: seg.members,
+      rank: seg.rank,
+      total: seg.value,
+      points,
+      firstPeriod: starts.find((p) => withRows.has(p)) ?? null,
+      seasonallyAdjusted: adjusted !== null,
+      slopePerPeriod: sen ? sen.slope : null,
+      slopePerYear,
+      slopePerYearRelative: slopePerYear !== null && level !== null && level > 0 ? slopePerYear / level : null,
+      growth: yearGrowth(yearRows.get(seg.id), covered),
+      peak,
+    };
+    trends.push(trend);
+    findings.push(trend);
+  }
+
+  findings.push({
+    type: 'segment_trend_overview',
+    metric,
+    dimension,
+    grain: sq.grain,
+    segmentCount: numberOrNull(totals.rows[0]?.seg_count) ?? segments.length,
+    folded: segments.find((s) => s.other)?.members ?? 0,
+    fastest: fastestGrowing(trends),
+  });
+  return { findings, caveats };
+}
+
+function partialCover(p: string, covered: { start: string; end: string }, grain: SubQuestion['grain']) {
+  const next = nextPeriod(p, grain);
+  return { coveredFrom: p > covered.start ? p : covered.start, coveredTo: addDays(next < covered.end ? next : covered.end, -1) };
+}
+
+/** Rows of a folded per-period table, by segment id and then by period. */
+function groupRows(table: ResultTable): Map<string, Map<string, FoldedRow>> {
+  const out = new Map<string, Map<string, FoldedRow>>();
+  for (const r of table.rows) {
+    const row = foldedRow(r);
+    const byPeriod = out.get(row.id) ?? new Map<string, FoldedRow>();
+    byPeriod.set(String(r.period), row);
+    out.set(row.id, byPeriod);
+  }
+  return out;
+}
+
+/** Growth from the first to the last calendar year that lies inside the window and has rows in all twelve months. */
+function yearGrowth(rows: Map<string, FoldedRow> | undefined, covered: { start: string; end: string }): SegmentYearGrowth | null {
+  if (!rows) return null;
+  const full = [...rows.entries()]
+    .filter(([period, r]) => period >= covered.start && `${isoYear(period) + 1}-01-01` <= covered.end && numberOrNull(r.row.months_with_rows) === 12 && r.value !== null)
+    .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
+  if (full.length < 2) return null;
+  const [firstPeriod, first] = full[0]!;
+  const [lastPeriod, last] = full[full.length - 1]!;
+  const fromYear = isoYear(firstPeriod);
+  const toYear = isoYear(lastPeriod);
+  return {
+    fromYear,
+    toYear,
+    from: first.value!,
+    to: last.value!,
+    relative: relativeChange(first.value, last.value),
+    cagr: cagr(first.value, last.value, toYear - fromYear),
+  };
+}
+
+function fastestGrowing(trends: readonly SegmentTrendFinding[]): { segment: string | null; measure: 'cagr' | 'slope'; value: number } | null {
+  const named = trends.filter((t) => !t.other);
+  let best: { segment: string | null; measure: 'cagr' | 'slope'; value: number } | null = null;
+  for (const t of named) {
+    const v = t.growth?.cagr ?? null;
+    if (v !== null && (best === null || v > best.value)) best = { segment: t.segment, measure: 'cagr', value: v };
+  }
+  if (best) return best;
+  for (const t of named) {
+    const v = t.slopePerYearRelative;
+    if (v !== null && (best === null || v > best.value)) best = { segment: t.segment, measure: 'slope', value: v };
+  }
+  return best;
+}

@@ -1,0 +1,87 @@
+// Template "trend_test": is a metric moving over time? The series at the grain (one grouped
+// query), then Mann–Kendall for direction and strength, Sen's slope for the size, and how far
+// the latest complete period sits from the peak.
+import { mannKendall, relativeChange, senSlope } from '../stats/index.js';
+import type { Caveat, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
+import type { TrendTestFinding } from '../findings/segments.js';
+import { compileSeries, readSeries } from './series.js';
+import type { ReadContext, Reading, Template } from './template.js';
+import { completePoints, EMPTY_TABLE, mean, periodsInYear, seasonallyAdjusted, seriesFinding } from './trend-points.js';
+
+/** Conventional two-sided significance level (common practice, not a law). */
+export const TREND_ALPHA = 0.05;
+
+export const trendTestTemplate: Template = {
+  name: 'trend_test',
+  // One metric per sub-question: the test and the caption speak about one series.
+  compile: (sq, ctx) => [{ name: 'series', ...compileSeries({ ...sq, metrics: sq.metrics.slice(0, 1) }, ctx) }],
+  read: (sq, tables, ctx) => readTrendTest(sq, tables.series ?? EMPTY_TABLE, ctx),
+};
+
+export function readTrendTest(sq: SubQuestion, table: ResultTable, ctx: ReadContext): Reading {
+  const metric = sq.metrics[0]!;
+  const one = { ...sq, metrics: [metric] };
+  const base = readSeries(one, table, ctx.coverage);
+  const findings: Finding[] = [...base.findings];
+  const caveats: Caveat[] = [...base.caveats];
+  const series = seriesFinding(base.findings, metric);
+  if (!series) return { findings, caveats };
+
+  const complete = completePoints(series.points);
+  const peak = findings.find((f): f is Extract<Finding, { type: 'peak' }> => f.type === 'peak');
+  const latest = findings.find((f): f is Extract<Finding, { type: 'latest' }> => f.type === 'latest');
+  if (peak && latest) {
+    findings.push({
+      type: 'change',
+      metric,
+      from: { period: peak.period, value: peak.value },
+      to: { period: latest.period, value: latest.value },
+      relative: relativeChange(peak.value, latest.value),
+      absolute: latest.value - peak.value,
+    });
+  }
+
+  const test = trendTest(sq, series.points, complete);
+  if (test) {
+    findings.push(test);
+    if (test.smallSample) caveats.push({ code: 'small_sample', data: { n: test.n, metric } });
+  } else if (complete.length === 2) {
+    caveats.push({ code: 'small_sample', data: { n: 2, metric } });
+  }
+  return { findings, caveats };
+}
+
+function trendTest(sq: SubQuestion, points: readonly PeriodPoint[], complete: ReturnType<typeof completePoints>): TrendTestFinding | null {
+  const raw = complete.map((p) => p.value);
+  const adjusted = seasonallyAdjusted(sq.grain, points, complete);
+  const values = adjusted ?? raw;
+  const mk = mannKendall(values);
+  const sen = senSlope(values, complete.map((p) => p.index));
+  if (!mk || !sen) return null;
+  const rawMk = adjusted ? mannKendall(raw) : mk;
+  const perYear = periodsInYear(sq.grain);
+  const slopePerYear = sen.slope * perYear;
+  const level = mean(values);
+  // Sen's intercept is at time 0 of the times given, which are the series' own positions.
+  return {
+    type: 'trend_test',
+    metric: sq.metrics[0]!,
+    grain: sq.grain,
+    n: mk.n,
+    firstPeriod: complete[0]!.period,
+    lastPeriod: complete[complete.length - 1]!.period,
+    seasonallyAdjusted: adjusted !== null,
+    s: mk.s,
+    z: mk.z,
+    pValue: mk.pValue,
+    rawPValue: rawMk?.pValue ?? mk.pValue,
+    tau: mk.tau,
+    alpha: TREND_ALPHA,
+    direction: mk.pValue < TREND_ALPHA && mk.s !== 0 ? (mk.s > 0 ? 'up' : 'down') : 'none',
+    slopePerPeriod: sen.slope,
+    slopePerYear,
+    slopePerYearRelative: level !== null && level > 0 ? slopePerYear / level : null,
+    intercept: sen.intercept,
+    smallSample: mk.smallSample,
+  };
+}
