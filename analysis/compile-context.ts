@@ -1,5 +1,6 @@
 // What a template needs to write SQL for one dataset on one engine.
 import type { DatasetConfig } from '../config/schema.js';
+import type { Coverage } from './coverage.js';
 import { groupableDimension } from './catalog.js';
 import type { Dialect, TimeColumnType } from './sql/dialect.js';
 import type { QueryBuilder } from './sql/query-builder.js';
@@ -9,6 +10,8 @@ export interface CompileContext {
   dataset: DatasetConfig;
   dialect: Dialect;
   timeColumnType: TimeColumnType;
+  /** What the data covers, when known: lets a template bind exactly the periods it needs. */
+  coverage?: Coverage;
 }
 
 /** The time column as a calendar date in the dataset's time zone. */

@@ -3,6 +3,7 @@
 // a restart resumes where it was.
 import type { LimitFunction } from 'p-limit';
 import { answerSubQuestion } from '../analysis/answer-sub-question.js';
+import { checkQuality } from '../analysis/quality/check-run.js';
 import type { Takeaway } from '../analysis/present/presenter.js';
 import type { Answer, Audience, SubQuestion } from '../analysis/types.js';
 import { refreshCoverage, type Workspace } from '../analysis/workspace.js';
@@ -209,6 +210,8 @@ export class Bot {
     const runKey = (name: string) => `${state.threadId}:run${run.number}:${name}`;
     // Charts of this process's answers, for the digest (after a restart, only those made since).
     const charts = new Map<number, Buffer>();
+    // One data-quality pass per run; if it cannot run, each answer reports its own error.
+    const quality = await checkQuality(plan.items, ws).catch(() => undefined);
     const progressRef = await this.postOnce(state.threadId, runKey('progress'), { text: replies.progress(run.posted.length, plan.items.length) });
     const pending = plan.items.map((sq, i) =>
       run.posted.includes(sq.id)
@@ -216,7 +219,7 @@ export class Bot {
         : this.deps
             .jobs(async () => {
               this.deps.onJobStart?.(state.threadId, sq);
-              const answer = await answerSubQuestion(sq, ws);
+              const answer = await answerSubQuestion(sq, ws, { ...(quality ? { quality } : {}), now: this.deps.now() });
               return this.deps.presentAnswer(answer, { workspace: ws, audience, position: i + 1 });
             })
             // Settled at once, so a failure waiting its turn to be posted is never "unhandled".

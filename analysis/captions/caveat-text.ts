@@ -30,9 +30,9 @@ export function caveatNote(c: Caveat, locale: string): string {
     case 'truncated':
       return `The result was cut at ${show(d.rows)} rows.`;
     case 'null_share':
-      return `${show(d.column)} is missing in ${show(d.share)} of rows.`;
+      return `${show(d.column)} is missing in ${typeof d.share === 'number' && Number.isFinite(d.share) ? `${(d.share * 100).toFixed(d.share < 0.01 ? 2 : 1)}%` : 'some'} of rows (${show(d.count)}).`;
     case 'duplicate_keys':
-      return `${show(d.count)} rows repeat a key that should be unique.`;
+      return `${show(d.count)} rows repeat a ${show(d.column)} that should be unique; they are counted as they are.`;
     case 'negative_amounts':
       if (d.periods === true) return `Some periods have a negative total of ${show(d.column)}, so they are left out.`;
       if (d.segments === true) return `Some segments have a negative total, so shares are not meaningful for them.`;
@@ -40,7 +40,7 @@ export function caveatNote(c: Caveat, locale: string): string {
     case 'outlier':
       return `${period(d.period, d.grain)} is an outlier.`;
     case 'stale_data':
-      return `The latest data is from ${day(d.lastDate)}.`;
+      return `The latest data is from ${day(d.lastDate)}, ${show(d.days)} days ago.`;
     case 'small_sample':
       return `Small sample (n = ${show(d.n)}): read with care.`;
     case 'too_few_cycles':

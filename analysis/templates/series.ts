@@ -7,6 +7,7 @@ import { addDays, nextPeriod, periodsBetween } from '../periods.js';
 import { metricAggregate } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
+import { seriesOutliers } from '../quality/series-outliers.js';
 import type { Template } from './template.js';
 
 export function compileSeries(sq: SubQuestion, ctx: CompileContext): CompiledQuery {
@@ -69,6 +70,7 @@ export function readSeries(sq: SubQuestion, table: ResultTable, coverage: Covera
       return { period: p, value: typeof v === 'number' ? v : null, partial: partialStarts.has(p) };
     });
     findings.push({ type: 'series', metric, grain: sq.grain, points });
+    caveats.push(...seriesOutliers(points, sq.grain).map((c) => ({ ...c, data: { ...c.data, metric } })));
     const gaps = points.filter((p) => p.value === null && !p.partial);
     if (gaps.length > 0 && gaps.length < points.length) {
       caveats.push({ code: 'series_gap', data: { metric, periods: gaps.length, firstGap: gaps[0]!.period } });

@@ -1,0 +1,45 @@
+// Title and caption placing the latest complete period in its history, from the finding.
+import type { DatasetConfig, Metric } from '../../config/schema.js';
+import type { KpiContextFinding } from '../findings/kpi.js';
+import { formatValue } from '../format.js';
+import type { Audience } from '../types.js';
+import type { KpiWords } from './kpi-snapshot-caption.js';
+import { grainNoun, kpiValue, metricMeaning, ordinal, periodName } from './kpi-words.js';
+
+export function kpiContextWords(f: KpiContextFinding, metric: Metric, ds: DatasetConfig, audience: Audience, locale: string): KpiWords {
+  const when = periodName(f.period, f.grain, locale);
+  const value = kpiValue(f.value, metric, locale);
+  const since = periodName(f.firstPeriod, f.grain, locale);
+  const periods = `${formatValue(f.n, { unit: 'count', locale })} complete ${grainNoun(f.grain, f.n)} since ${since}`;
+  const place =
+    f.n === 1
+      ? `the only complete ${grainNoun(f.grain)} so far`
+      : f.rank === 1
+        ? `the highest of the ${periods}`
+        : f.value <= f.min
+          ? `the lowest of the ${periods}`
+          : `the ${ordinal(f.rank)} highest of the ${periods}`;
+  const title = `${metric.label} in ${when} was ${value}, ${place.replace(/ since .*$/, '')}`;
+
+  const sentences: string[] = [];
+  const meaning = audience === 'leadership' ? '' : ` (${metricMeaning(metric, ds)})`;
+  sentences.push(`${metric.label}${meaning} was ${value} in ${when}, ${place}.`);
+  if (f.n > 1) {
+    const range = `from ${kpiValue(f.min, metric, locale)} in ${periodName(f.minPeriod, f.grain, locale)} to ${kpiValue(f.max, metric, locale)} in ${periodName(f.maxPeriod, f.grain, locale)}`;
+    if (audience === 'leadership') sentences.push(`A typical ${grainNoun(f.grain)} is about ${kpiValue(f.median, metric, locale)}.`);
+    else sentences.push(`The typical (median) ${grainNoun(f.grain)} is ${kpiValue(f.median, metric, locale)}; the history runs ${range}.`);
+  }
+  if (f.outlier && f.robustZ !== null) {
+    const side = f.robustZ > 0 ? 'above' : 'below';
+    if (audience === 'leadership') sentences.push(`That is far ${side} its usual level: treat it as exceptional, not as the new normal.`);
+    else if (audience === 'managers') sentences.push(`That is far ${side} the usual range, an outlier: check what happened before reading it as a trend.`);
+    else sentences.push(`It is an outlier: modified z-score ${formatValue(f.robustZ, { unit: 'number', decimals: 1, locale })} (Iglewicz–Hoaglin; |z| above 3.5 flags an outlier).`);
+  } else if (f.robustZ !== null && audience === 'analysts') {
+    sentences.push(`Modified z-score ${formatValue(f.robustZ, { unit: 'number', decimals: 1, locale })}, inside the 3.5 outlier cut-off (Iglewicz–Hoaglin).`);
+  }
+  if (audience === 'analysts' && f.sd !== null) {
+    sentences.push(`Mean ${kpiValue(f.mean, metric, locale)}, standard deviation ${kpiValue(f.sd, metric, locale)}; percentile ${formatValue(f.percentile, { unit: 'percent', decimals: 0, locale })} (share of ${grainNoun(f.grain, 2)} at or below the latest).`);
+  }
+  return { title: title.replace(/\s+/g, ' '), caption: sentences.join(' ') };
+}
+

@@ -1,0 +1,38 @@
+// Chart header pieces the KPI presenters share: a subtitle naming the metric's definition, the
+// latest complete period and what it is compared with (not the window, which a snapshot does
+// not show), and the shared footer.
+import type { Metric } from '../../config/schema.js';
+import { metricMeaning, periodName } from '../captions/kpi-words.js';
+import type { Answer, Caveat, Grain } from '../types.js';
+import { caveatNotes, chartFooter } from './header.js';
+import type { PresentContext } from './presenter.js';
+
+export function kpiSubtitle(answer: Answer, metric: Metric, ctx: PresentContext, what: string): string {
+  const parts = [`${metric.label}: ${metricMeaning(metric, ctx.dataset)}`, what];
+  for (const f of answer.subQuestion.filters) {
+    const dim = ctx.dataset.dimensions.find((d) => d.name === f.dimension);
+    parts.push(`${dim?.label ?? f.dimension}: ${f.values.join(', ')}`);
+  }
+  return parts.join(' · ');
+}
+
+/** "Latest complete month, May 2025, vs April 2025 and May 2024". */
+export function comparedText(period: string, bases: (string | null)[], grain: Grain, locale: string): string {
+  const named = bases.filter((b): b is string => b !== null).map((b) => periodName(b, grain, locale));
+  const latest = `Latest complete ${grain}, ${periodName(period, grain, locale)}`;
+  return named.length ? `${latest}, vs ${named.join(' and ')}` : latest;
+}
+
+export function kpiHeader(answer: Answer, title: string, subtitle: string, ctx: PresentContext) {
+  return { title, subtitle, footer: chartFooter(answer, ctx), ...ctx.chart };
+}
+
+/** Caveat notes, leaving out those the caption already states in words. */
+export function kpiNotes(answer: Answer, ctx: PresentContext, statedInCaption: Caveat['code'][]): string[] {
+  const rest = { ...answer, caveats: answer.caveats.filter((c) => !statedInCaption.includes(c.code)) };
+  return caveatNotes(rest, ctx);
+}
+
+export function findingOf<T extends { type: string; metric: string }>(answer: Answer, type: T['type'], metric: string): T | undefined {
+  return answer.findings.find((f) => f.type === type && 'metric' in f && f.metric === metric) as T | undefined;
+}

@@ -1,0 +1,156 @@
+// Template "kpi_by_segment" (kpi × breakdown): the snapshot's three points (latest complete
+// period, the one before, a year earlier) for each segment of a dimension. The top N segments
+// (by rows in the latest period, then by rows in all three) are named; the rest are combined in
+// the database, because a ratio or a distinct count of "All others" cannot be added up from the
+// segments' own values.
+import type { DatasetConfig } from '../../config/schema.js';
+import { groupableDimension, metricByName } from '../catalog.js';
+import { tableRef } from '../compile-context.js';
+import type { Coverage } from '../coverage.js';
+import type { KpiBySegmentFinding, KpiSegmentRow, SegmentKey } from '../findings/kpi.js';
+import { nextPeriod } from '../periods.js';
+import { metricAggregate } from '../sql/metric-sql.js';
+import { QueryBuilder } from '../sql/query-builder.js';
+import type { Caveat, CellValue, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
+import { baseIsZero, kpiDelta } from './kpi-delta.js';
+import { comparisonPeriods, coveredInFull, type KpiCompileContext, latestCandidates, periodsToRead, resolvedLatest } from './kpi-periods.js';
+import { EMPTY_TABLE, numberOrNull, periodExpr, periodsWhere } from './kpi-sql.js';
+import type { Reading, Template } from './template.js';
+
+/** Named segments before the rest are combined; the bars chart's default too. */
+export const KPI_SEGMENTS_TOP_N = 8;
+
+// Working column names inside the query. They start "tc_kpi_" to stay clear of the table's own columns.
+const KEY = 'tc_kpi_key';
+const RANK = 'tc_kpi_rank';
+const PERIOD = 'tc_kpi_period';
+const OTHER = 'tc_kpi_other';
+
+export function compileKpiBySegment(sq: SubQuestion, ctx: KpiCompileContext, topN = KPI_SEGMENTS_TOP_N): CompiledQuery {
+  if (!sq.dimension) throw new Error('kpi_by_segment needs a dimension');
+  const ds = ctx.dataset;
+  const dim = groupableDimension(ds, sq.dimension);
+  const metrics = sq.metrics.map((m) => metricByName(ds, m));
+  const q = new QueryBuilder(ctx.dialect);
+  const table = tableRef(q, ctx);
+  const seg = q.ident(dim.column);
+  const candidates = latestCandidates(sq.window, sq.grain, ctx.coverage);
+  const periods = periodsToRead(candidates, sq.grain);
+  const latestList = candidates.map((c) => ctx.dialect.dateParam(q.bind(c))).join(', ');
+  const rankPeriod = periodExpr(q, ctx, sq.grain);
+  const rankWhere = periodsWhere(q, ctx, periods, sq.grain, sq.filters);
+  const period = periodExpr(q, ctx, sq.grain);
+  const n = q.bind(topN);
+  const where = periodsWhere(q, ctx, periods, sq.grain, sq.filters);
+  const measures = metrics.map((m) => `  ${metricAggregate(q, ds, m)} AS ${q.ident(m.name)}`);
+  const [key, rank, per, other] = [KEY, RANK, PERIOD, OTHER].map(q.ident);
+  return q.finish(`WITH ranked AS (
+  SELECT ${seg} AS ${key},
+    ROW_NUMBER() OVER (ORDER BY COUNT(*) FILTER (WHERE ${rankPeriod} IN (${latestList})) DESC, COUNT(*) DESC, ${seg} ASC NULLS LAST) AS ${rank}
+  FROM ${table}
+  WHERE ${rankWhere}
+  GROUP BY ${seg}
+), tagged AS (
+  SELECT ${table}.*,
+    ${period} AS ${per},
+    COALESCE(ranked.${rank} > ${n}, TRUE) AS ${other},
+    ranked.${rank} AS ${rank}
+  FROM ${table}
+  LEFT JOIN ranked ON ${table}.${seg} IS NOT DISTINCT FROM ranked.${key}
+  WHERE ${where}
+)
+SELECT ${per} AS period,
+  CASE WHEN ${other} THEN NULL ELSE ${seg} END AS segment,
+  ${other} AS other,
+  GROUPING(${other}) AS total_row,
+  MIN(${rank}) AS segment_rank,
+  ${ctx.dialect.toDouble(`COUNT(DISTINCT ${seg})`)} AS segment_count,
+${measures.join(',\n')},
+  ${ctx.dialect.toDouble('COUNT(*)')} AS row_count
+FROM tagged
+GROUP BY GROUPING SETS ((${per}, CASE WHEN ${other} THEN NULL ELSE ${seg} END, ${other}), (${per}))
+ORDER BY 1, 4, 5`);
+}
+
+export const kpiBySegmentTemplate: Template = {
+  name: 'kpi_by_segment',
+  compile: (sq, ctx) => [{ name: 'segments', ...compileKpiBySegment(sq, ctx) }],
+  read: (sq, tables, ctx) => readKpiBySegment(sq, tables.segments ?? EMPTY_TABLE, ctx.dataset, ctx.coverage),
+};
+
+type Row = Record<string, CellValue>;
+
+export function readKpiBySegment(sq: SubQuestion, table: ResultTable, dataset: DatasetConfig, coverage: Coverage, topN = KPI_SEGMENTS_TOP_N): Reading {
+  const caveats: Caveat[] = [];
+  if (table.truncated) caveats.push({ code: 'truncated', data: { rows: table.rows.length } });
+  const { latest, partial } = resolvedLatest(sq.window, sq.grain, coverage);
+  if (partial) caveats.push({ code: 'partial_period_excluded', data: { ...partial, grain: sq.grain } });
+  const totals = new Map<string, Row>();
+  const groups = new Map<string, { key: SegmentKey; other: boolean; byPeriod: Map<string, Row> }>();
+  for (const r of table.rows) {
+    const p = String(r.period);
+    if (Number(r.total_row) === 1) {
+      totals.set(p, r);
+      continue;
+    }
+    const other = r.other === true;
+    const key = other ? null : (r.segment ?? null);
+    const id = other ? 'other' : `segment:${typeof key}:${String(key)}`;
+    let g = groups.get(id);
+    if (!g) groups.set(id, (g = { key, other, byPeriod: new Map() }));
+    g.byPeriod.set(p, r);
+  }
+  const latestTotal = latest === null ? undefined : totals.get(latest);
+  if (latest === null || latestTotal === undefined || !(Number(latestTotal.row_count) > 0)) {
+    caveats.push({ code: 'no_data', data: { start: latest ?? sq.window.start, end: latest ? nextPeriod(latest, sq.grain) : sq.window.end } });
+    return { findings: [], caveats };
+  }
+  const { previous, lastYear } = comparisonPeriods(latest, sq.grain);
+  const usable = (p: string | null) => p !== null && coveredInFull(p, sq.grain, coverage);
+  const findings: Finding[] = [];
+  let zeroBase = false;
+  for (const name of sq.metrics) {
+    const metric = metricByName(dataset, name);
+    const point = (byPeriod: Map<string, Row>): Omit<KpiSegmentRow, 'key' | 'other' | 'segments'> => {
+      const value = numberOrNull(byPeriod.get(latest)?.[name]);
+      const base = (p: string | null) => (usable(p) ? numberOrNull(byPeriod.get(p!)?.[name]) : null);
+      const prev = kpiDelta(value, previous, base(previous), metric.higher_is_better);
+      const ly = lastYear === null ? null : kpiDelta(value, lastYear, base(lastYear), metric.higher_is_better);
+      zeroBase ||= baseIsZero(prev, value) || baseIsZero(ly, value);
+      return { value, rows: Number(byPeriod.get(latest)?.row_count ?? 0), previous: prev, lastYear: ly };
+    };
+    const rows = [...groups.values()].map((g) => ({
+      key: g.key,
+      other: g.other,
+      segments: g.other ? Math.max(...[...g.byPeriod.values()].map((r) => Number(r.segment_count ?? 0))) : 1,
+      rank: g.other ? Infinity : Number(g.byPeriod.get(latest)?.segment_rank ?? firstRank(g.byPeriod)),
+      ...point(g.byPeriod),
+    }));
+    // Named segments in rank order, then "All others"; a segment absent from the latest period sorts after those present.
+    rows.sort((a, b) => a.rank - b.rank || Number(a.other) - Number(b.other));
+    const segments: KpiSegmentRow[] = rows.map(({ rank: _rank, ...r }) => r);
+    const finding: KpiBySegmentFinding = {
+      type: 'kpi_by_segment',
+      metric: name,
+      grain: sq.grain,
+      dimension: sq.dimension!,
+      period: latest,
+      segments,
+      total: point(new Map([...totals.entries()])),
+      topN,
+    };
+    findings.push(finding);
+  }
+  const other = [...groups.values()].find((g) => g.other);
+  if (other) {
+    const count = Math.max(...[...other.byPeriod.values()].map((r) => Number(r.segment_count ?? 0)));
+    caveats.push({ code: 'segments_folded', data: { count } });
+  }
+  if (zeroBase) caveats.push({ code: 'base_zero', data: {} });
+  return { findings, caveats };
+}
+
+function firstRank(byPeriod: Map<string, Row>): number {
+  const ranks = [...byPeriod.values()].map((r) => numberOrNull(r.segment_rank)).filter((x): x is number => x !== null);
+  return ranks.length ? Math.min(...ranks) : Number.MAX_SAFE_INTEGER;
+}

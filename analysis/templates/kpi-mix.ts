@@ -1,0 +1,154 @@
+// Template "kpi_mix" (kpi × distribution): how the latest complete period splits across the
+// segments of a dimension, against the same period a year earlier (share change in points),
+// with the count of segments making 80% and the HHI. A ratio or rate has no shares of its own,
+// so its mix is the split of what it is measured per (fare per passenger: passengers).
+import type { DatasetConfig, Metric } from '../../config/schema.js';
+import { groupableDimension, metricByName } from '../catalog.js';
+import { tableRef } from '../compile-context.js';
+import type { Coverage } from '../coverage.js';
+import type { KpiMixFinding, KpiMixRow, SegmentKey } from '../findings/kpi.js';
+import { nextPeriod } from '../periods.js';
+import { metricAggregate } from '../sql/metric-sql.js';
+import { QueryBuilder } from '../sql/query-builder.js';
+import { concentration } from '../stats/index.js';
+import type { Caveat, CellValue, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
+import { coveredInFull, type KpiCompileContext, latestCandidates, resolvedLatest, sameLastYear } from './kpi-periods.js';
+import { EMPTY_TABLE, numberOrNull, periodExpr, periodsWhere } from './kpi-sql.js';
+import type { Reading, Template } from './template.js';
+
+export const MIX_THRESHOLD = 0.8;
+
+/** The metric whose shares a KPI's mix shows; null means shares of rows (when the catalog has no plain row count). */
+export function mixMeasure(ds: DatasetConfig, metric: Metric): Metric | null {
+  const def = metric.definition;
+  switch (def.type) {
+    case 'sum':
+    case 'count':
+    case 'distinct_count':
+      return metric;
+    case 'ratio':
+      return mixMeasure(ds, metricByName(ds, def.denominator));
+    case 'rate':
+      return def.of ? mixMeasure(ds, metricByName(ds, def.of)) : rowCountMetric(ds);
+    case 'average':
+      return rowCountMetric(ds);
+  }
+}
+
+/** The catalog's plain count of rows (such as bookings), so shares of rows can be named. */
+function rowCountMetric(ds: DatasetConfig): Metric | null {
+  return ds.metrics.find((m) => m.definition.type === 'count' && !m.definition.where) ?? null;
+}
+
+// Aliases of the share base start with "_", which no catalog metric name can (they start with a letter).
+const baseAlias = (metric: string) => `_base_${metric}`;
+
+export function compileKpiMix(sq: SubQuestion, ctx: KpiCompileContext): CompiledQuery {
+  if (!sq.dimension) throw new Error('kpi_mix needs a dimension');
+  const ds = ctx.dataset;
+  const dim = groupableDimension(ds, sq.dimension);
+  const q = new QueryBuilder(ctx.dialect);
+  const candidates = latestCandidates(sq.window, sq.grain, ctx.coverage);
+  const periods = new Set<string>();
+  for (const c of candidates) {
+    periods.add(c);
+    const ly = sameLastYear(c, sq.grain);
+    if (ly) periods.add(ly);
+  }
+  const measures: string[] = [];
+  for (const name of sq.metrics) {
+    const metric = metricByName(ds, name);
+    const base = mixMeasure(ds, metric);
+    measures.push(`  ${metricAggregate(q, ds, metric)} AS ${q.ident(name)}`);
+    measures.push(`  ${base ? metricAggregate(q, ds, base) : ctx.dialect.toDouble('COUNT(*)')} AS ${q.ident(baseAlias(name))}`);
+  }
+  const period = periodExpr(q, ctx, sq.grain);
+  const where = periodsWhere(q, ctx, [...periods], sq.grain, sq.filters);
+  return q.finish(`SELECT ${period} AS period,
+  ${q.ident(dim.column)} AS segment,
+${measures.join(',\n')},
+  ${ctx.dialect.toDouble('COUNT(*)')} AS row_count
+FROM ${tableRef(q, ctx)}
+WHERE ${where}
+GROUP BY 1, 2
+ORDER BY 1, 2`);
+}
+
+export const kpiMixTemplate: Template = {
+  name: 'kpi_mix',
+  compile: (sq, ctx) => [{ name: 'mix', ...compileKpiMix(sq, ctx) }],
+  read: (sq, tables, ctx) => readKpiMix(sq, tables.mix ?? EMPTY_TABLE, ctx.dataset, ctx.coverage),
+};
+
+type Row = Record<string, CellValue>;
+
+export function readKpiMix(sq: SubQuestion, table: ResultTable, dataset: DatasetConfig, coverage: Coverage): Reading {
+  const caveats: Caveat[] = [];
+  if (table.truncated) caveats.push({ code: 'truncated', data: { rows: table.rows.length } });
+  const { latest, partial } = resolvedLatest(sq.window, sq.grain, coverage);
+  if (partial) caveats.push({ code: 'partial_period_excluded', data: { ...partial, grain: sq.grain } });
+  const now = latest === null ? [] : table.rows.filter((r) => String(r.period) === latest);
+  if (latest === null || now.length === 0) {
+    caveats.push({ code: 'no_data', data: { start: latest ?? sq.window.start, end: latest ? nextPeriod(latest, sq.grain) : sq.window.end } });
+    return { findings: [], caveats };
+  }
+  const lyPeriod = sameLastYear(latest, sq.grain);
+  // Without full data a year earlier there are no shares to compare; with it, a segment absent then had a share of zero.
+  const lyUsable = lyPeriod !== null && coveredInFull(lyPeriod, sq.grain, coverage);
+  const then = lyUsable ? table.rows.filter((r) => String(r.period) === lyPeriod) : [];
+  const findings: Finding[] = [];
+  for (const name of sq.metrics) {
+    const metric = metricByName(dataset, name);
+    const base = mixMeasure(dataset, metric);
+    const col = baseAlias(name);
+    const keys = new Map<string, SegmentKey>();
+    const idOf = (k: SegmentKey) => `${typeof k}:${String(k)}`;
+    for (const r of [...now, ...then]) keys.set(idOf(r.segment ?? null), (r.segment ?? null) as SegmentKey);
+    const nowBy = byKey(now, idOf);
+    const thenBy = byKey(then, idOf);
+    const ids = [...keys.keys()];
+    const current = ids.map((id) => numberOrNull(nowBy.get(id)?.[col]) ?? 0);
+    const previous = ids.map((id) => numberOrNull(thenBy.get(id)?.[col]) ?? 0);
+    const c = concentration(ids.map((id, i) => ({ key: id, value: current[i]! })), { threshold: MIX_THRESHOLD });
+    const p = lyUsable && then.length > 0 ? concentration(ids.map((id, i) => ({ key: id, value: previous[i]! })), { threshold: MIX_THRESHOLD }) : null;
+    const shareNow = new Map(c.kind === 'ok' ? c.pareto.map((r) => [r.key, r.share]) : []);
+    const shareThen = new Map(p?.kind === 'ok' ? p.pareto.map((r) => [r.key, r.share]) : []);
+    const segments: KpiMixRow[] = ids.map((id, i) => {
+      const share = shareNow.get(id) ?? null;
+      const lastYearShare = shareThen.get(id) ?? null;
+      return {
+        key: keys.get(id)!,
+        value: current[i]!,
+        share,
+        lastYearValue: p ? previous[i]! : null,
+        lastYearShare,
+        shareChange: share !== null && lastYearShare !== null ? share - lastYearShare : null,
+        metricValue: numberOrNull(nowBy.get(id)?.[name]),
+      };
+    });
+    // Largest first; ties by key so the order never depends on the engine's row order.
+    segments.sort((a, b) => b.value - a.value || idOf(a.key).localeCompare(idOf(b.key)));
+    const finding: KpiMixFinding = {
+      type: 'kpi_mix',
+      metric: name,
+      shareOf: base?.name ?? null,
+      grain: sq.grain,
+      dimension: sq.dimension!,
+      period: latest,
+      lastYearPeriod: p ? lyPeriod : null,
+      segments,
+      total: current.reduce((a, v) => a + v, 0),
+      lastYearTotal: p ? previous.reduce((a, v) => a + v, 0) : null,
+      countToThreshold: c.kind === 'ok' ? c.countToThreshold : null,
+      threshold: MIX_THRESHOLD,
+      hhi: c.kind === 'ok' ? c.hhi : null,
+      lastYearHhi: p?.kind === 'ok' ? p.hhi : null,
+    };
+    findings.push(finding);
+  }
+  return { findings, caveats };
+}
+
+function byKey(rows: Row[], idOf: (k: SegmentKey) => string): Map<string, Row> {
+  return new Map(rows.map((r) => [idOf((r.segment ?? null) as SegmentKey), r]));
+}
