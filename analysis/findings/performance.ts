@@ -1,2 +1,259 @@
-// Placeholder until this family's templates land.
-export type PerformanceFinding = never;
+// Findings of the performance family: a comparison group (members vs others) on one metric.
+// Numbers, dates and codes only; every sentence is written later by the presenters.
+import type { DateWindow, Grain, PeriodPoint } from '../types.js';
+
+export type GroupRole = 'members' | 'others';
+
+/**
+ * What is compared for a metric:
+ * - `mean`: the mean of a per-row value (an average metric, or a sum metric per row);
+ * - `proportion`: the share of rows that pass a condition (a rate);
+ * - `ratio`: a ratio of two per-row sums (tested by the delta method);
+ * - `total`: a plain total with no per-row model, so no test.
+ */
+export type MeasureKind = 'mean' | 'proportion' | 'ratio' | 'total';
+
+/** `metric`: the catalog metric itself; `per_row`: a sum metric compared per row (revenue per booking). */
+export type Quantity = 'metric' | 'per_row';
+
+export type TestName = 'welch_t' | 'two_proportion_z' | 'delta_ratio_z' | 'did_t' | 'did_z';
+
+/** Why no test was run: a group has no rows, too few rows, no spread at all, or the measure has no test. */
+export type NoTestReason = 'empty_group' | 'too_few' | 'no_variation' | 'not_testable';
+
+export type Verdict = 'better' | 'worse' | 'no_clear_difference';
+
+/** Which two estimates a difference is between: members − others, or after − before within one group. */
+export type Comparison = 'members_vs_others' | 'others_after_vs_before' | 'members_after_vs_before';
+
+export type Direction = 'higher' | 'lower' | 'equal';
+
+/** The window the comparison actually used, after clipping to the launch date and the data. */
+export interface PerformanceWindowFinding {
+  type: 'performance_window';
+  group: string;
+  start: string;
+  /** Exclusive end (ISO date). */
+  end: string;
+  launchDate: string | null;
+  /** The asked window started before the launch and was moved to the launch date. */
+  clippedToLaunch: boolean;
+}
+
+/** One group's estimate with its interval. */
+export interface PerformanceGroupFinding {
+  type: 'performance_group';
+  metric: string;
+  group: GroupRole;
+  measure: MeasureKind;
+  quantity: Quantity;
+  /** Rows behind the estimate (for a mean, rows with a value). */
+  n: number;
+  estimate: number | null;
+  low: number | null;
+  high: number | null;
+  confidence: number;
+  /** Sample sd of the per-row value (mean measures only). */
+  sd: number | null;
+  /** Median of the per-row value, from SQL over all rows (currency means only). */
+  median: number | null;
+  /** The catalog metric over the group (e.g. total revenue), whatever the measure. */
+  metricValue: number | null;
+}
+
+/** A tested difference of two estimates (first − second, as `comparison` names them). */
+export interface PerformanceDifferenceFinding {
+  type: 'performance_difference';
+  metric: string;
+  comparison: Comparison;
+  measure: MeasureKind;
+  test: TestName;
+  /** The two estimates compared. */
+  first: number;
+  second: number;
+  difference: number;
+  /** difference / second estimate; null when that is 0. */
+  relative: number | null;
+  ci: [number, number];
+  confidence: number;
+  /** t or z. */
+  statistic: number;
+  /** Degrees of freedom for t tests; null for z tests. */
+  df: number | null;
+  pValue: number;
+  /** Hedges' g (Welch only). */
+  effectSize: number | null;
+  nFirst: number;
+  nSecond: number;
+}
+
+/** A difference that could not be tested, with the two estimates where they exist. */
+export interface PerformanceNoTestFinding {
+  type: 'performance_no_test';
+  metric: string;
+  comparison: Comparison;
+  reason: NoTestReason;
+  first: number | null;
+  second: number | null;
+  nFirst: number;
+  nSecond: number;
+}
+
+/** Seeded bootstrap interval for the difference in medians (members − others) of a money value. */
+export interface PerformanceMedianFinding {
+  type: 'performance_median_difference';
+  metric: string;
+  /** Medians over all rows (from SQL). */
+  medianMembers: number;
+  medianOthers: number;
+  difference: number;
+  /** Percentile bootstrap interval, from a bounded deterministic sample of each group. */
+  ci: [number, number];
+  confidence: number;
+  resamples: number;
+  seed: number;
+  sampleMembers: number;
+  sampleOthers: number;
+}
+
+/** The plain-words verdict: is the members' value better, worse or not clearly different? */
+export interface PerformanceVerdictFinding {
+  type: 'performance_verdict';
+  metric: string;
+  comparison: Comparison;
+  verdict: Verdict;
+  direction: Direction;
+  /** `test`: p-value against alpha; `exact`: no spread in either group, so the difference is exact; `none`: no test. */
+  basis: 'test' | 'exact' | 'none';
+  pValue: number | null;
+  alpha: number;
+  higherIsBetter: boolean;
+  relative: number | null;
+}
+
+/** Per-unit (customer) frequency summary of one group. */
+export interface PerformanceFrequencyGroupFinding {
+  type: 'performance_frequency_group';
+  metric: string;
+  group: GroupRole;
+  units: number;
+  /** Sum of the per-unit values (e.g. bookings). */
+  total: number;
+  mean: number;
+  sd: number | null;
+  low: number | null;
+  high: number | null;
+  confidence: number;
+  median: number | null;
+  p90: number | null;
+  /** Share of units per bucket of the per-unit value; empty when the metric is not a count. */
+  buckets: { min: number; max: number | null; units: number; share: number }[];
+}
+
+/** Members' mean per unit over others' mean per unit, with a delta-method interval on the log scale. */
+export interface PerformanceFrequencyRatioFinding {
+  type: 'performance_frequency_ratio';
+  metric: string;
+  ratio: number;
+  low: number | null;
+  high: number | null;
+  confidence: number;
+}
+
+/** The compared quantity per period for one group (before/after chart). */
+export interface PerformanceGroupSeriesFinding {
+  type: 'performance_group_series';
+  metric: string;
+  group: GroupRole;
+  grain: Grain;
+  points: PeriodPoint[];
+}
+
+/** The equal-length windows either side of the launch. */
+export interface PerformancePeriodsFinding {
+  type: 'performance_periods';
+  launchDate: string;
+  before: DateWindow;
+  after: DateWindow;
+  months: number;
+}
+
+/** Difference in differences: (members after − members before) − (others after − others before). */
+export interface PerformanceDidFinding {
+  type: 'performance_did';
+  metric: string;
+  measure: MeasureKind;
+  membersBefore: number;
+  membersAfter: number;
+  othersBefore: number;
+  othersAfter: number;
+  estimate: number;
+  /** estimate / (members after − DiD), the members' after value without the effect; null when that is 0. */
+  relative: number | null;
+  ci: [number, number] | null;
+  confidence: number;
+  test: 'did_t' | 'did_z' | null;
+  statistic: number | null;
+  df: number | null;
+  pValue: number | null;
+}
+
+export type DidNotApplicableReason = 'no_launch_date' | 'members_empty_before' | 'window_too_short' | 'group_empty' | 'not_poolable';
+
+export interface PerformanceDidNotApplicableFinding {
+  type: 'performance_did_not_applicable';
+  metric: string;
+  reason: DidNotApplicableReason;
+}
+
+/** The group comparison within one segment of a dimension. */
+export interface PerformanceSegmentFinding {
+  type: 'performance_segment';
+  metric: string;
+  dimension: string;
+  /** Null for rows where the dimension is missing, or for the folded "All others" row. */
+  segment: string | null;
+  folded: boolean;
+  /** Segments folded into this row (1 for a plain segment). */
+  segmentCount: number;
+  nMembers: number;
+  nOthers: number;
+  members: number | null;
+  others: number | null;
+  difference: number | null;
+  relative: number | null;
+  ci: [number, number] | null;
+  pValue: number | null;
+  /** Either group has fewer rows than the small-sample threshold. */
+  small: boolean;
+}
+
+/** How consistently the members' difference points the same way as the overall difference. */
+export interface PerformanceConsistencyFinding {
+  type: 'performance_consistency';
+  metric: string;
+  dimension: string;
+  overallDirection: Direction;
+  /** Segments compared (both groups present). */
+  segments: number;
+  sameDirection: number;
+  oppositeDirection: number;
+  significantSame: number;
+  significantOpposite: number;
+}
+
+export type PerformanceFinding =
+  | PerformanceWindowFinding
+  | PerformanceGroupFinding
+  | PerformanceDifferenceFinding
+  | PerformanceNoTestFinding
+  | PerformanceMedianFinding
+  | PerformanceVerdictFinding
+  | PerformanceFrequencyGroupFinding
+  | PerformanceFrequencyRatioFinding
+  | PerformanceGroupSeriesFinding
+  | PerformancePeriodsFinding
+  | PerformanceDidFinding
+  | PerformanceDidNotApplicableFinding
+  | PerformanceSegmentFinding
+  | PerformanceConsistencyFinding;

@@ -1,0 +1,180 @@
+// Title and caption of a before/after comparison across a launch (performance_before_after):
+// difference in differences when members existed before the launch; otherwise others before vs
+// after and members vs others after, said plainly.
+import type { PerformanceDifferenceFinding, PerformanceDidFinding, PerformancePeriodsFinding } from '../findings/performance.js';
+import { formatPeriod, formatValue } from '../format.js';
+import { addMonths } from '../periods.js';
+import type { Finding } from '../types.js';
+import { capitalise, type PerformanceWords } from './performance-compare.js';
+import {
+  aboutPercent,
+  chancePhrase,
+  countText,
+  day,
+  findOne,
+  formatDifference,
+  formatP,
+  groupLabel,
+  inText,
+  intervalText,
+  noTestWords,
+  quantityFormat,
+  quantityLabel,
+  rowNoun,
+  statisticText,
+  testName,
+  windowText,
+  type WordsContext,
+} from './performance-words.js';
+
+export function beforeAfterWords(findings: readonly Finding[], ctx: WordsContext): PerformanceWords {
+  const { metric, group, locale, audience, dataset } = ctx;
+  const quantity = ctx.metric.definition.type === 'sum' ? 'per_row' : 'metric';
+  const label = quantityLabel(metric, quantity, dataset);
+  const fmt = quantityFormat(metric, quantity, locale);
+  const rows = rowNoun(dataset);
+  const m = groupLabel(group, 'members');
+  const o = groupLabel(group, 'others');
+  const value = (v: number) => formatValue(v, fmt);
+  const periods = findOne(findings, 'performance_periods');
+  const did = findOne(findings, 'performance_did');
+  const notApplicable = findOne(findings, 'performance_did_not_applicable');
+  const between = findOne(findings, 'performance_difference', (f) => f.comparison === 'members_vs_others');
+  const othersShift = findOne(findings, 'performance_difference', (f) => f.comparison === 'others_after_vs_before');
+  const verdict = findOne(findings, 'performance_verdict', (f) => f.comparison === 'members_vs_others');
+  const none = findOne(findings, 'performance_no_test', (f) => f.comparison === 'members_vs_others');
+  const notes: string[] = [];
+  if (periods) notes.push(windowsNote(periods, locale));
+  const win = findOne(findings, 'performance_window');
+  const span = win ? windowText(win, locale) : '';
+
+  if (did && periods) {
+    notes.push(
+      `Difference in differences assumes both groups would have moved in parallel without the launch; compare their lines before ${day(periods.launchDate, locale)} to judge that.`,
+    );
+    return didWords(did, periods, { label, fmt, m, o, locale, audience, value, notes });
+  }
+
+  if (notApplicable?.reason === 'members_empty_before' && periods) {
+    const sides = `${months(periods.months)} after the launch (${monthSpan(periods.after, locale)})`;
+    const title = between
+      ? `${label}: ${size(between, locale)} for ${inText(m)} than for ${inText(o)} in the ${sides.replace(/ \(.*\)$/, '')}`
+      : `${label} before and after the ${group.label} launch`;
+    const intro = `${group.label} had no ${inText(m)} before ${day(periods.launchDate, locale)}, so the same group cannot be compared before and after (no difference in differences).`;
+    if (!between || !verdict) {
+      const why = none ? ` ${noTestWords(none, ctx, rows)}` : '';
+      return { title, caption: `${intro}${why}`, notes, takeaway: null, clear: false };
+    }
+    const chance = chancePhrase(between.pValue, verdict.alpha);
+    const shift = othersShift
+      ? `${inText(o)}' own ${inText(label)} ${othersShift.difference > 0 ? 'rose' : othersShift.difference < 0 ? 'fell' : 'held'} ${
+          othersShift.relative !== null && Math.abs(othersShift.relative) >= 0.005 ? aboutPercent(othersShift.relative, locale) : ''
+        } on the ${months(periods.months)} before`.replace(/\s+on the/, ' on the')
+      : null;
+    let caption: string;
+    if (audience === 'leadership') {
+      caption = `${intro} In the ${sides}, ${inText(label)} was ${size(between, locale)} for ${inText(m)} than for ${inText(o)}; ${chance}.${
+        shift ? ` Over the same months, ${shift}; ${chancePhrase(othersShift!.pValue, verdict.alpha).replace('the difference', 'the change')}.` : ''
+      } This is an observational comparison, not proof of cause.`;
+    } else if (audience === 'managers') {
+      caption = `${intro} In the ${sides}, ${inText(label)} was ${value(between.first)} for ${inText(m)} against ${value(between.second)} for ${inText(o)} (${countText(between.nFirst, locale)} and ${countText(between.nSecond, locale)} ${rows.plural}); ${chance}.${
+        shift && othersShift ? ` ${capitalise(shift)} (${value(othersShift.first)} against ${value(othersShift.second)}); ${chancePhrase(othersShift.pValue, verdict.alpha).replace('the difference', 'the change')}.` : ''
+      }`;
+    } else {
+      caption = `${intro} ${testLine(between, `${inText(m)} − ${inText(o)}, ${monthSpan(periods.after, locale)}`, fmt, locale, rows.plural)}${
+        othersShift ? ` ${testLine(othersShift, `${inText(o)}, ${monthSpan(periods.after, locale)} − ${monthSpan(periods.before, locale)}`, fmt, locale, rows.plural)}` : ''
+      }`;
+    }
+    return { title, caption, notes, takeaway: `${title}; ${chance}.`, clear: verdict.verdict !== 'no_clear_difference' };
+  }
+
+  // No launch date, or too little data either side of it: members vs others over the whole window.
+  const reason =
+    notApplicable?.reason === 'no_launch_date'
+      ? `${group.label} has no launch date in the catalog, so there is no before and after to compare.`
+      : notApplicable?.reason === 'window_too_short'
+        ? `There is not a full month of data on both sides of the launch, so there is no before and after to compare.`
+        : notApplicable?.reason === 'not_poolable'
+          ? `${metric.label} cannot be added up across months, so there is no before and after to compare.`
+          : notApplicable?.reason === 'group_empty'
+            ? `One group has no ${rows.plural} on one side of the launch, so there is no before and after to compare.`
+            : '';
+  const title = between ? `${label}: ${size(between, locale)} for ${inText(m)} than for ${inText(o)}` : `${label}: ${inText(m)} and ${inText(o)} per period`;
+  if (!between || !verdict) {
+    return { title, caption: `${reason}${none ? ` ${noTestWords(none, ctx, rows)}` : ''}`.trim(), notes, takeaway: null, clear: false };
+  }
+  const chance = chancePhrase(between.pValue, verdict.alpha);
+  const body =
+    audience === 'analysts'
+      ? testLine(between, `${inText(m)} − ${inText(o)}`, fmt, locale, rows.plural)
+      : `Over the whole period${span ? ` (${span})` : ''}, ${inText(label)} was ${value(between.first)} for ${inText(m)} against ${value(between.second)} for ${inText(o)}; ${chance}.`;
+  const tail = audience === 'leadership' ? ' This is an observational comparison, not proof of cause.' : '';
+  return { title, caption: `${reason} ${body}${tail}`.trim(), notes, takeaway: `${title}; ${chance}.`, clear: verdict.verdict !== 'no_clear_difference' };
+}
+
+function didWords(
+  did: PerformanceDidFinding,
+  periods: PerformancePeriodsFinding,
+  w: {
+    label: string;
+    fmt: ReturnType<typeof quantityFormat>;
+    m: string;
+    o: string;
+    locale: string;
+    audience: WordsContext['audience'];
+    value: (v: number) => string;
+    notes: string[];
+  },
+): PerformanceWords {
+  const { label, fmt, m, o, locale, audience, value, notes } = w;
+  const moved = did.estimate > 0 ? 'more' : 'less';
+  const amount = formatDifference(did.estimate, fmt);
+  const clear = did.pValue !== null && did.pValue < 0.05;
+  const chance = chancePhrase(did.pValue, 0.05);
+  const title = clear
+    ? `${label}: ${inText(m)} moved ${amount} ${did.estimate > 0 ? 'up' : 'down'} relative to ${inText(o)} after the launch`
+    : `${label}: no clear change for ${inText(m)} relative to ${inText(o)} after the launch`;
+  const sides = `the ${months(periods.months)} either side of the launch on ${day(periods.launchDate, locale)}`;
+  const paths = `${inText(m)} went from ${value(did.membersBefore)} to ${value(did.membersAfter)} and for ${inText(o)} from ${value(did.othersBefore)} to ${value(did.othersAfter)}`;
+  let caption: string;
+  if (audience === 'leadership') {
+    caption = `Comparing ${sides}, ${inText(label)} for ${paths}: ${inText(m)} moved ${amount} ${moved} than ${inText(o)}; ${chance}. This is an observational comparison, not proof of cause.`;
+  } else if (audience === 'managers') {
+    const range = did.ci ? ` The true effect is probably between ${formatDifference(did.ci[0], fmt, { signed: true })} and ${formatDifference(did.ci[1], fmt, { signed: true })}.` : '';
+    const rel = did.relative !== null ? ` (${aboutPercent(did.relative, locale)} of what ${inText(m)} would otherwise have had)` : '';
+    caption = `Comparing ${sides}, ${inText(label)} for ${paths}. The difference in differences is ${formatDifference(did.estimate, fmt, { signed: true })}${rel}; ${chance}.${range}`;
+  } else {
+    const stats =
+      did.test && did.statistic !== null && did.pValue !== null && did.ci
+        ? `${testName(did.test)}: ${formatDifference(did.estimate, fmt, { signed: true })} (${intervalText(did.ci, did.confidence, fmt, locale)}); ${statisticText({ test: did.test, statistic: did.statistic, df: did.df }, locale)}, ${formatP(did.pValue, locale)}`
+        : `Difference in differences ${formatDifference(did.estimate, fmt, { signed: true })} (no interval: a cell has no spread)`;
+    caption = `${capitalise(stats)}. Cells (${monthSpan(periods.before, locale)} → ${monthSpan(periods.after, locale)}): ${inText(m)} ${value(did.membersBefore)} → ${value(did.membersAfter)}, ${inText(o)} ${value(did.othersBefore)} → ${value(did.othersAfter)}; cells treated as independent samples of rows.`;
+  }
+  return { title, caption, notes, takeaway: `${title}; ${chance}.`, clear };
+}
+
+function testLine(d: PerformanceDifferenceFinding, what: string, fmt: ReturnType<typeof quantityFormat>, locale: string, rowsPlural: string): string {
+  const rel = d.relative === null ? '' : `, ${formatValue(d.relative, { unit: 'percent', decimals: 1, locale }, { signed: true })} relative`;
+  return `${capitalise(testName(d.test))}, ${what}: ${formatDifference(d.difference, fmt, { signed: true })} (${intervalText(d.ci, d.confidence, fmt, locale)})${rel}; ${statisticText(d, locale)}, ${formatP(d.pValue, locale)}; n = ${countText(d.nFirst, locale)} vs ${countText(d.nSecond, locale)} ${rowsPlural}.`;
+}
+
+function size(d: PerformanceDifferenceFinding, locale: string): string {
+  if (d.relative === null) return d.difference > 0 ? 'higher' : d.difference < 0 ? 'lower' : 'the same';
+  if (Math.abs(d.relative) < 0.005) return 'about the same';
+  return `${aboutPercent(d.relative, locale)} ${d.relative > 0 ? 'higher' : 'lower'}`;
+}
+
+function months(k: number): string {
+  return k === 1 ? 'month' : `${k} months`;
+}
+
+/** "April 2023 to March 2024" for a window of whole months. */
+export function monthSpan(w: { start: string; end: string }, locale: string): string {
+  const first = formatPeriod(w.start, 'month', locale, 'long');
+  const last = formatPeriod(addMonths(w.end, -1), 'month', locale, 'long');
+  return first === last ? first : `${first} to ${last}`;
+}
+
+function windowsNote(p: PerformancePeriodsFinding, locale: string): string {
+  return `Equal windows of ${months(p.months)} either side of the launch: ${monthSpan(p.before, locale)} before, ${monthSpan(p.after, locale)} after.`;
+}

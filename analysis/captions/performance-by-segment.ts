@@ -1,0 +1,86 @@
+// Title and caption of a members-vs-others comparison within each segment (performance_by_segment).
+import type { Dimension } from '../../config/schema.js';
+import type { PerformanceSegmentFinding } from '../findings/performance.js';
+import { formatValue } from '../format.js';
+import type { Finding } from '../types.js';
+import { capitalise, type PerformanceWords } from './performance-compare.js';
+import { chancePhrase, countText, findAll, findOne, groupLabel, inText, periodLead, quantityLabel, type WordsContext } from './performance-words.js';
+
+/** "Route" → "routes", "Fare class" → "fare classes", "Category" → "categories". */
+export function pluralLabel(label: string): string {
+  const lower = inText(label);
+  if (/(s|x|z|ch|sh)$/i.test(lower)) return `${lower}es`;
+  if (/[^aeiou]y$/i.test(lower)) return `${lower.slice(0, -1)}ies`;
+  return `${lower}s`;
+}
+
+export function segmentName(f: PerformanceSegmentFinding): string {
+  if (f.folded) return `All others (${f.segmentCount})`;
+  return f.segment ?? 'Not recorded';
+}
+
+export function bySegmentWords(findings: readonly Finding[], ctx: WordsContext, dim: Dimension): PerformanceWords {
+  const { metric, group, locale, audience, dataset } = ctx;
+  const members = findOne(findings, 'performance_group', (f) => f.group === 'members');
+  const quantity = members?.quantity ?? 'metric';
+  const label = quantityLabel(metric, quantity, dataset);
+  const m = groupLabel(group, 'members');
+  const o = groupLabel(group, 'others');
+  const plural = pluralLabel(dim.label);
+  const segments = findAll(findings, 'performance_segment');
+  const consistency = findOne(findings, 'performance_consistency');
+  const overall = findOne(findings, 'performance_difference', (f) => f.comparison === 'members_vs_others');
+  const verdict = findOne(findings, 'performance_verdict', (f) => f.comparison === 'members_vs_others');
+  const win = findOne(findings, 'performance_window');
+  const lead = win ? periodLead(win, ctx) : 'In the period asked for';
+  const pct = (x: number) => formatValue(Math.abs(x), { unit: 'percent', decimals: Math.abs(x) < 0.1 ? 1 : 0, locale });
+  const signed = (x: number) => formatValue(x, { unit: 'percent', decimals: 1, locale }, { signed: true });
+  const compared = segments.filter((s) => s.relative !== null);
+
+  if (!consistency || consistency.segments === 0 || consistency.overallDirection === 'equal' || compared.length === 0) {
+    const title = `${label}: no ${dim.label.toLowerCase()} has both ${inText(m)} and ${inText(o)} to compare`;
+    const text =
+      segments.length === 0
+        ? `There is no data to compare by ${dim.label.toLowerCase()} in this period.`
+        : `No ${dim.label.toLowerCase()} has ${inText(m)} and ${inText(o)} with a difference to compare in this period.`;
+    return { title, caption: text, notes: [], takeaway: null, clear: false };
+  }
+
+  const dir = consistency.overallDirection;
+  const total = consistency.segments;
+  const same = consistency.sameDirection;
+  const where = same === total ? (total === 2 ? `both ${plural}` : `all ${total} ${plural}`) : `${same} of ${total} ${plural}`;
+  const title =
+    same === total || same / total >= 0.75
+      ? `${label} is ${dir} for ${inText(m)} on ${where}`
+      : `${label}: ${inText(m)} ${dir} on ${same} of ${total} ${plural}, ${consistency.oppositeDirection} the other way`;
+  const rels = compared.map((s) => s.relative!).filter((r) => Math.sign(r) === (dir === 'higher' ? 1 : -1));
+  const range = rels.length >= 2 ? `, by ${pct(Math.min(...rels.map(Math.abs)))} to ${pct(Math.max(...rels.map(Math.abs)))}` : '';
+  const chance = overall && verdict ? chancePhrase(overall.pValue, verdict.alpha) : 'there is no test of the overall gap';
+  const evidence =
+    same === total && total >= 2
+      ? `the same direction in every ${inText(dim.label)} suggests the gap is not just a different mix of ${plural}`
+      : consistency.oppositeDirection > 0
+        ? `${consistency.oppositeDirection} ${consistency.oppositeDirection === 1 ? inText(dim.label) : plural} ${consistency.oppositeDirection === 1 ? 'goes' : 'go'} the other way, so the overall gap may partly reflect the mix of ${plural}`
+        : `some ${plural} show no difference`;
+  const small = segments.filter((s) => s.small);
+  const smallText = small.length > 0 ? ` ${small.length === 1 ? `${segmentName(small[0]!)} is` : `${small.length} ${plural} are`} small (fewer than 30 ${small.length === 1 ? 'rows in a group' : 'rows in a group each'}), so read ${small.length === 1 ? 'it' : 'them'} with care.` : '';
+  let caption: string;
+  if (audience === 'leadership') {
+    caption = `${lead}, ${inText(label)} is ${dir} for ${inText(m)} than for ${inText(o)} on ${where}${range}. Overall ${chance}, and ${evidence}. This is an observational comparison, not proof of cause.`;
+  } else if (audience === 'managers') {
+    const list = compared
+      .slice(0, 8)
+      .map((s) => `${segmentName(s)} ${signed(s.relative!)}`)
+      .join('; ');
+    caption = `${lead}, ${inText(label)} for ${inText(m)} against ${inText(o)} by ${dim.label.toLowerCase()}: ${list}. ${capitalise(chance)} overall, and ${evidence}.${smallText}`;
+  } else {
+    const sig = `${consistency.significantSame} of ${total} ${plural} differ in the overall direction at the 5% level and ${consistency.significantOpposite} in the opposite direction (one test per ${inText(dim.label)}, no adjustment for multiple comparisons)`;
+    const list = compared
+      .slice(0, 8)
+      .map((s) => `${segmentName(s)} ${signed(s.relative!)}${s.pValue !== null && s.pValue < 0.05 ? '' : ' (n.s.)'} (n = ${countText(s.nMembers, locale)} vs ${countText(s.nOthers, locale)})`)
+      .join('; ');
+    caption = `Relative difference of ${inText(label)}, ${inText(m)} vs ${inText(o)}, by ${dim.label.toLowerCase()}: ${list}. ${capitalise(sig)}.${smallText}`;
+  }
+  return { title, caption, notes: [], takeaway: `${title}${range}.`, clear: same === total && verdict?.verdict !== 'no_clear_difference' };
+}

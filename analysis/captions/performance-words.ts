@@ -1,0 +1,209 @@
+// Shared wording for the performance family's captions: group and row nouns, numbers of a
+// comparison, chance and p-value phrases. Everything numeric goes through format.ts.
+import type { ComparisonGroup, DatasetConfig, Metric } from '../../config/schema.js';
+import type {
+  GroupRole,
+  PerformanceDifferenceFinding,
+  PerformanceFinding,
+  PerformanceNoTestFinding,
+  Quantity,
+} from '../findings/performance.js';
+import { formatPeriod, formatValue, significant, type ValueFormat, valueFormatOf } from '../format.js';
+import { addDays } from '../periods.js';
+import type { Audience, DateWindow, Finding } from '../types.js';
+
+export interface WordsContext {
+  dataset: DatasetConfig;
+  metric: Metric;
+  group: ComparisonGroup;
+  locale: string;
+  audience: Audience;
+  /** The data's last date (ISO), so an open-ended window reads "since …". */
+  dataAsOf: string | null;
+}
+
+export type FindingOf<T extends PerformanceFinding['type']> = Extract<PerformanceFinding, { type: T }>;
+
+export function findOne<T extends PerformanceFinding['type']>(
+  findings: readonly Finding[],
+  type: T,
+  pred: (f: FindingOf<T>) => boolean = () => true,
+): FindingOf<T> | undefined {
+  return findings.find((f): f is FindingOf<T> => f.type === type && pred(f as FindingOf<T>));
+}
+
+export function findAll<T extends PerformanceFinding['type']>(findings: readonly Finding[], type: T): FindingOf<T>[] {
+  return findings.filter((f): f is FindingOf<T> => f.type === type);
+}
+
+export function groupLabel(group: ComparisonGroup, role: GroupRole): string {
+  return role === 'members' ? group.members_label : group.others_label;
+}
+
+/** The label in running text: "pass holders" (lower case first letter unless it looks like a name). */
+export function inText(label: string): string {
+  const first = label.split(/\s+/)[0] ?? '';
+  // Lower-case a plain capitalised word ("Pass holders"); keep names and acronyms ("SkerryPass", "VIP").
+  return /^[A-Z][a-z]+$/.test(first) ? label.charAt(0).toLowerCase() + label.slice(1) : label;
+}
+
+/** What one row is called, from a plain count metric's label ("bookings"), else "rows". */
+export function rowNoun(ds: DatasetConfig): { plural: string; singular: string } {
+  const count = ds.metrics.find((m) => m.definition.type === 'count' && !m.definition.where);
+  return nounPair(count?.label ?? 'rows');
+}
+
+/** What one unit is called, from a distinct count of the unit column ("customers"), else "units". */
+export function unitNoun(ds: DatasetConfig, group: ComparisonGroup): { plural: string; singular: string } {
+  const distinct = ds.metrics.find((m) => m.definition.type === 'distinct_count' && m.definition.column === group.unit_column && !m.definition.where);
+  return nounPair(distinct?.label ?? 'units');
+}
+
+function nounPair(label: string): { plural: string; singular: string } {
+  const plural = label.toLowerCase();
+  const singular = plural.endsWith('ies') ? `${plural.slice(0, -3)}y` : plural.endsWith('s') ? plural.slice(0, -1) : plural;
+  return { plural, singular };
+}
+
+/** "Average fare per booking", or "Revenue per booking" for a sum compared per row. */
+export function quantityLabel(metric: Metric, quantity: Quantity, ds: DatasetConfig): string {
+  return quantity === 'per_row' ? `${metric.label} per ${rowNoun(ds).singular}` : metric.label;
+}
+
+/** Value format of the compared quantity: a count per row or per unit needs decimals. */
+export function quantityFormat(metric: Metric, quantity: Quantity, locale: string): ValueFormat {
+  if (quantity === 'per_row' && metric.unit === 'count') return { unit: 'number', decimals: 2, locale };
+  return valueFormatOf(metric, locale);
+}
+
+export function perUnitFormat(locale: string): ValueFormat {
+  return { unit: 'number', decimals: 2, locale };
+}
+
+export function day(iso: string, locale: string): string {
+  return formatPeriod(iso, 'day', locale, 'long');
+}
+
+/** "from 1 April 2023 to 18 June 2025" for a half-open window. */
+export function windowText(w: DateWindow, locale: string): string {
+  if (w.start >= w.end) return `in the period asked for`;
+  return `from ${day(w.start, locale)} to ${day(addDays(w.end, -1), locale)}`;
+}
+
+/**
+ * The compared period as a sentence opener: "Since the SkerryPass launch on 1 April 2023" when the
+ * window was moved to the launch and runs to the data's end, else "From 1 April 2023 to 18 June 2025".
+ */
+export function periodLead(win: DateWindow & { clippedToLaunch?: boolean }, ctx: Pick<WordsContext, 'locale' | 'group' | 'dataAsOf'>): string {
+  if (win.start >= win.end) return 'In the period asked for';
+  const toEnd = ctx.dataAsOf !== null && addDays(win.end, -1) >= ctx.dataAsOf;
+  if (win.clippedToLaunch) {
+    const launch = `the ${ctx.group.label} launch on ${day(win.start, ctx.locale)}`;
+    return toEnd ? `Since ${launch}` : `From ${launch} to ${day(addDays(win.end, -1), ctx.locale)}`;
+  }
+  return `From ${day(win.start, ctx.locale)} to ${day(addDays(win.end, -1), ctx.locale)}`;
+}
+
+/** The same period inside a sentence ("since the SkerryPass launch on …", "from … to …"). */
+export function periodInText(win: (DateWindow & { clippedToLaunch?: boolean }) | undefined, ctx: Pick<WordsContext, 'locale' | 'group' | 'dataAsOf'>): string {
+  if (!win) return 'in the period asked for';
+  const lead = periodLead(win, ctx);
+  return lead.charAt(0).toLowerCase() + lead.slice(1);
+}
+
+/** A difference in the metric's own terms; shares read in percentage points. */
+export function formatDifference(diff: number, fmt: ValueFormat, opts: { signed?: boolean } = {}): string {
+  if (fmt.unit === 'percent') {
+    const pp = significant(diff * 100, 2);
+    const text = formatValue(opts.signed ? pp : Math.abs(pp), { unit: 'number', decimals: Math.abs(pp) >= 10 ? 0 : 1, locale: fmt.locale }, { signed: opts.signed ?? false });
+    return `${text} percentage points`;
+  }
+  return formatValue(opts.signed ? diff : Math.abs(diff), fmt, { signed: opts.signed ?? false });
+}
+
+/** "about 14%", rounded to whole percent (one decimal below 1%). */
+export function aboutPercent(relative: number, locale: string): string {
+  const a = Math.abs(relative);
+  return `about ${formatValue(a, { unit: 'percent', decimals: a < 0.01 ? 1 : 0, locale })}`;
+}
+
+/** "about 14% lower" / "about 3.5% higher"; "about the same" below half a percent. */
+export function relativeWords(relative: number | null, locale: string): string | null {
+  if (relative === null || !Number.isFinite(relative)) return null;
+  if (Math.abs(relative) < 0.005) return 'about the same';
+  return `${aboutPercent(relative, locale)} ${relative > 0 ? 'higher' : 'lower'}`;
+}
+
+/** "p < 0.001" or "p = 0.023". */
+export function formatP(p: number, locale: string): string {
+  if (!Number.isFinite(p)) return 'p = n/a';
+  if (p < 0.001) return `p < ${formatValue(0.001, { unit: 'number', decimals: 3, locale })}`;
+  // Two significant figures: 0.023, 0.0038, 0.70.
+  const decimals = Math.min(6, Math.max(1, 1 - Math.floor(Math.log10(p))));
+  return `p = ${formatValue(significant(p, 2), { unit: 'number', decimals, locale })}`;
+}
+
+export function chancePhrase(pValue: number | null, alpha: number): string {
+  if (pValue === null) return 'there is no test of chance for it';
+  return pValue < alpha ? 'the difference is unlikely to be chance' : 'a difference this size could be chance';
+}
+
+export function testName(test: PerformanceDifferenceFinding['test']): string {
+  switch (test) {
+    case 'welch_t':
+      return "Welch's t-test";
+    case 'two_proportion_z':
+      return 'two-proportion z-test';
+    case 'delta_ratio_z':
+      return 'z-test on the ratio (delta method)';
+    case 'did_t':
+      return 'difference in differences (t, Welch–Satterthwaite df)';
+    case 'did_z':
+      return 'difference in differences (z)';
+  }
+}
+
+export function statisticText(d: { test: PerformanceDifferenceFinding['test']; statistic: number; df: number | null }, locale: string): string {
+  const name = d.test === 'welch_t' || d.test === 'did_t' ? 't' : 'z';
+  const a = Math.abs(d.statistic);
+  const stat = formatValue(significant(d.statistic, 3), { unit: 'number', decimals: a >= 100 ? 0 : a >= 10 ? 1 : 2, locale });
+  const df = d.df === null ? '' : `, df = ${formatValue(d.df, { unit: 'number', decimals: d.df >= 100 ? 0 : 1, locale })}`;
+  return `${name} = ${stat}${df}`;
+}
+
+export function intervalText(ci: [number, number], confidence: number, fmt: ValueFormat, locale: string): string {
+  const level = formatValue(confidence, { unit: 'percent', decimals: 0, locale });
+  return `${level} CI ${rangeText(ci[0], ci[1], fmt, { signed: true })}`;
+}
+
+/** "€5.26 to €5.84", or "1.6 to 2.1 percentage points" with the unit once. */
+export function rangeText(lo: number, hi: number, fmt: ValueFormat, opts: { signed?: boolean } = {}): string {
+  if (fmt.unit === 'percent') {
+    const unitless = (v: number) => formatDifference(v, fmt, opts).replace(/ percentage points$/, '');
+    return `${unitless(lo)} to ${unitless(hi)} percentage points`;
+  }
+  return `${formatDifference(lo, fmt, opts)} to ${formatDifference(hi, fmt, opts)}`;
+}
+
+export function countText(n: number, locale: string): string {
+  return formatValue(n, { unit: 'count', locale });
+}
+
+/** Why no test was run, in plain words. */
+export function noTestWords(f: PerformanceNoTestFinding, ctx: WordsContext, nouns: { plural: string; singular: string }): string {
+  const m = groupLabel(ctx.group, 'members');
+  const o = groupLabel(ctx.group, 'others');
+  switch (f.reason) {
+    case 'empty_group': {
+      const empty = [f.nFirst === 0 ? m : null, f.nSecond === 0 ? o : null].filter((x): x is string => x !== null);
+      const who = empty.length === 2 ? `${inText(m)} or ${inText(o)}` : empty.length === 1 ? inText(empty[0]!) : 'one group';
+      return `There are no ${nouns.plural} for ${who} in this period, so there is nothing to compare.`;
+    }
+    case 'too_few':
+      return `One group has only ${countText(Math.min(f.nFirst, f.nSecond), ctx.locale)} ${Math.min(f.nFirst, f.nSecond) === 1 ? nouns.singular : nouns.plural}: too few to test a difference.`;
+    case 'no_variation':
+      return `Every ${nouns.singular} has the same value within each group, so there is no spread to test against.`;
+    case 'not_testable':
+      return `This metric is a total with no per-${nouns.singular} value, so the groups are shown side by side without a test.`;
+  }
+}

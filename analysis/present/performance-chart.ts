@@ -1,0 +1,33 @@
+// Chart header and notes shared by the performance presenters: the subtitle names the compared
+// quantity, the window actually compared and the two groups, so a forwarded image stands alone.
+import type { ComparisonGroup, Metric } from '../../config/schema.js';
+import { caveatNotes, chartFooter, metricDefinition } from './header.js';
+import type { PresentContext } from './presenter.js';
+import { findOne, windowText } from '../captions/performance-words.js';
+import type { ChartHeader } from '../charts/spec.js';
+import type { Answer, DateWindow } from '../types.js';
+
+export function performanceHeader(
+  answer: Answer,
+  ctx: PresentContext,
+  opts: { title: string; label: string; metric: Metric; group: ComparisonGroup; window?: DateWindow; extra?: string[] },
+): ChartHeader {
+  const win = opts.window ?? findOne(answer.findings, 'performance_window') ?? answer.subQuestion.window;
+  const parts = [
+    `${opts.label}: ${metricDefinition(opts.metric)}`,
+    windowText(win, ctx.locale),
+    `${opts.group.label}: ${opts.group.members_label} vs ${opts.group.others_label}`,
+    ...(opts.extra ?? []),
+  ];
+  for (const f of answer.subQuestion.filters) {
+    const dim = ctx.dataset.dimensions.find((d) => d.name === f.dimension);
+    parts.push(`${dim?.label ?? f.dimension}: ${f.values.join(', ')}`);
+  }
+  return { title: opts.title, subtitle: parts.join(' · '), footer: chartFooter(answer, ctx), ...ctx.chart };
+}
+
+/** Caveat notes plus the presenter's own; leadership captions already carry the observational caution. */
+export function performanceNotes(answer: Answer, ctx: PresentContext, extra: string[]): string[] {
+  const caveats = ctx.audience === 'leadership' ? { ...answer, caveats: answer.caveats.filter((c) => c.code !== 'observational') } : answer;
+  return [...new Set([...extra, ...caveatNotes(caveats, ctx)])];
+}

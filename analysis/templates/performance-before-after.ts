@@ -1,0 +1,237 @@
+// Template "performance_before_after" (performance × time_pattern): the metric per period for
+// members and others across the launch date, and a difference in differences over equal-length
+// windows either side of the launch. When there were no members before the launch, DiD does not
+// apply: others before vs after and members vs others after are compared instead.
+import type { ComparisonGroup, Metric } from '../../config/schema.js';
+import { type CompileContext, localDateExpr, tableRef, whereClause } from '../compile-context.js';
+import type { Coverage } from '../coverage.js';
+import type { GroupRole, PerformanceDidNotApplicableFinding, PerformancePeriodsFinding } from '../findings/performance.js';
+import { addDays, addMonths, nextPeriod, periodsBetween, periodStart } from '../periods.js';
+import { QueryBuilder } from '../sql/query-builder.js';
+import type { Caveat, CellValue, DateWindow, Finding, Grain, NamedQuery, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
+import { differenceFinding, primaryMetric } from './performance-compare.js';
+import { ALPHA, CONFIDENCE, EMPTY_TABLE, groupCaveats, groupKnown, memberFlag, resolveGroup, roleOf } from './performance-common.js';
+import { cellFromRow, measureColumns, measureShape, planMeasure, type MeasurePlan } from './performance-measure.js';
+import { type Cell, cellEstimate, compareCells, contrast, poolCells, verdictOf } from './performance-stats.js';
+import type { Template } from './template.js';
+
+/** Per period × group summary pieces over the whole window, at `grain`. */
+export function compileGroupPeriods(sq: SubQuestion, ctx: CompileContext, grain: Grain, name: string): NamedQuery {
+  const ds = ctx.dataset;
+  const metric = primaryMetric(ds, sq);
+  const group = resolveGroup(ds, sq);
+  const q = new QueryBuilder(ctx.dialect);
+  const period = ctx.dialect.periodStart(grain, localDateExpr(q, ctx));
+  const plan = planMeasure(q, ds, metric);
+  const cols = measureColumns(q, ds, metric, plan);
+  const where = whereClause(q, ctx, sq.window, sq.filters);
+  return {
+    name,
+    ...q.finish(`SELECT ${period} AS period,
+  ${memberFlag(q, group)} AS tc_member,
+  ${cols.join(',\n  ')}
+FROM ${tableRef(q, ctx)}
+WHERE ${where}
+  AND ${groupKnown(q, group)}
+GROUP BY 1, 2
+ORDER BY 1, 2`),
+  };
+}
+
+export const performanceBeforeAfterTemplate: Template = {
+  name: 'performance_before_after',
+  compile: (sq, ctx) => {
+    const group = resolveGroup(ctx.dataset, sq);
+    const series = compileGroupPeriods(sq, ctx, sq.grain, 'series');
+    // DiD windows are whole months, so they need monthly pieces when the chart's grain is not a month.
+    return group.launch_date && sq.grain !== 'month' ? [series, compileGroupPeriods(sq, ctx, 'month', 'months')] : [series];
+  },
+  read: (sq, tables, ctx) => {
+    const ds = ctx.dataset;
+    const metric = primaryMetric(ds, sq);
+    const group = resolveGroup(ds, sq);
+    const shape = measureShape(ds, metric);
+    const series = tables.series ?? EMPTY_TABLE;
+    const months = sq.grain === 'month' ? series : (tables.months ?? EMPTY_TABLE);
+    return readBeforeAfter(sq, metric, group, shape, series, months, ctx.coverage);
+  },
+};
+
+type Shape = Pick<MeasurePlan, 'kind' | 'quantity' | 'additive'>;
+type Keyed = { period: string; role: GroupRole; cell: Cell };
+
+function keyedCells(table: ResultTable, shape: Shape): Keyed[] {
+  const out: Keyed[] = [];
+  for (const r of table.rows) {
+    const role = roleOf(r.tc_member);
+    if (!role || typeof r.period !== 'string') continue;
+    out.push({ period: r.period, role, cell: cellFromRow(r as Record<string, CellValue>, shape as MeasurePlan) });
+  }
+  return out;
+}
+
+export function readBeforeAfter(
+  sq: SubQuestion,
+  metric: Metric,
+  group: ComparisonGroup,
+  shape: Shape,
+  seriesTable: ResultTable,
+  monthsTable: ResultTable,
+  coverage: Coverage,
+): { findings: Finding[]; caveats: Caveat[] } {
+  const findings: Finding[] = [];
+  const caveats: Caveat[] = [];
+  const effStart = coverage.firstDate && coverage.firstDate > sq.window.start ? coverage.firstDate : sq.window.start;
+  const lastEnd = coverage.lastDate ? addDays(coverage.lastDate, 1) : sq.window.start;
+  const effEnd = lastEnd < sq.window.end ? lastEnd : sq.window.end;
+
+  findings.push({
+    type: 'performance_window',
+    group: group.name,
+    start: effStart,
+    end: effEnd < effStart ? effStart : effEnd,
+    launchDate: group.launch_date ?? null,
+    clippedToLaunch: false,
+  });
+  const seriesCells = keyedCells(seriesTable, shape);
+  const starts = effStart < effEnd ? periodsBetween(effStart, effEnd, sq.grain) : [];
+  const partial = new Set<string>();
+  const first = starts[0];
+  const last = starts[starts.length - 1];
+  if (first !== undefined && first < effStart) partial.add(first);
+  if (last !== undefined && nextPeriod(last, sq.grain) > effEnd) partial.add(last);
+  for (const p of partial) {
+    const coveredFrom = p > effStart ? p : effStart;
+    const end = nextPeriod(p, sq.grain) < effEnd ? nextPeriod(p, sq.grain) : effEnd;
+    caveats.push({ code: 'partial_period', data: { period: p, grain: sq.grain, coveredFrom, coveredTo: addDays(end, -1) } });
+  }
+  for (const role of ['members', 'others'] as const) {
+    const byPeriod = new Map(seriesCells.filter((c) => c.role === role).map((c) => [c.period, c.cell]));
+    const points: PeriodPoint[] = starts.map((p) => {
+      const cell = byPeriod.get(p);
+      return { period: p, value: cell ? cellEstimate(cell) : null, partial: partial.has(p) };
+    });
+    findings.push({ type: 'performance_group_series', metric: metric.name, group: role, grain: sq.grain, points });
+  }
+
+  const monthCells = keyedCells(monthsTable, shape);
+  const pool = (role: GroupRole, w: DateWindow) =>
+    poolCells(
+      monthCells.filter((c) => c.role === role && c.period >= w.start && c.period < w.end).map((c) => c.cell),
+      shape.kind,
+      shape.additive,
+    );
+  const notApplicable = (reason: PerformanceDidNotApplicableFinding['reason']) =>
+    findings.push({ type: 'performance_did_not_applicable', metric: metric.name, reason });
+  const comparePair = (a: Cell, b: Cell, comparison: 'members_vs_others' | 'others_after_vs_before' | 'members_after_vs_before') => {
+    const result = compareCells(a, b, CONFIDENCE);
+    findings.push(differenceFinding(metric.name, comparison, shape.kind, result, a.n, b.n));
+    return result;
+  };
+  const verdict = (result: ReturnType<typeof compareCells>) => {
+    if (shape.kind === 'total') return;
+    findings.push({
+      type: 'performance_verdict',
+      metric: metric.name,
+      comparison: 'members_vs_others',
+      ...verdictOf(result, metric.higher_is_better, ALPHA),
+      alpha: ALPHA,
+      higherIsBetter: metric.higher_is_better,
+      relative: result.kind === 'test' ? result.relative : null,
+    });
+  };
+
+  let sizes: { role: GroupRole; n: number }[];
+  const periods = group.launch_date ? equalWindows(group.launch_date, effStart, effEnd) : null;
+  if (!group.launch_date || !periods) {
+    notApplicable(group.launch_date ? 'window_too_short' : 'no_launch_date');
+    // Without a launch to split on, members vs others over the whole window (exact pooling of the periods).
+    const whole = (role: GroupRole) => poolCells(seriesCells.filter((c) => c.role === role).map((c) => c.cell), shape.kind, shape.additive);
+    const m = whole('members');
+    const o = whole('others');
+    verdict(comparePair(m, o, 'members_vs_others'));
+    sizes = [
+      { role: 'members', n: m.n },
+      { role: 'others', n: o.n },
+    ];
+  } else {
+    findings.push(periods);
+    const mb = pool('members', periods.before);
+    const ma = pool('members', periods.after);
+    const ob = pool('others', periods.before);
+    const oa = pool('others', periods.after);
+    sizes = [
+      { role: 'members', n: ma.n },
+      { role: 'others', n: oa.n },
+    ];
+    const poolable = [mb, ma, ob, oa].every((c) => c.n === 0 || cellEstimate(c) !== null);
+    if (!poolable) notApplicable('not_poolable');
+    else if (mb.n === 0) notApplicable('members_empty_before');
+    else if (ma.n === 0 || ob.n === 0 || oa.n === 0) notApplicable('group_empty');
+    else {
+      const did = contrast(
+        [
+          { cell: ma, weight: 1 },
+          { cell: mb, weight: -1 },
+          { cell: oa, weight: -1 },
+          { cell: ob, weight: 1 },
+        ],
+        CONFIDENCE,
+      );
+      if (did) {
+        const [vMa, vMb, vOa, vOb] = [ma, mb, oa, ob].map((c) => cellEstimate(c)!) as [number, number, number, number];
+        const counterfactual = vMa - did.estimate;
+        findings.push({
+          type: 'performance_did',
+          metric: metric.name,
+          measure: shape.kind,
+          membersBefore: vMb,
+          membersAfter: vMa,
+          othersBefore: vOb,
+          othersAfter: vOa,
+          estimate: did.estimate,
+          relative: counterfactual === 0 ? null : did.estimate / counterfactual,
+          ci: did.ci,
+          confidence: CONFIDENCE,
+          test: did.test,
+          statistic: did.statistic,
+          df: did.df,
+          pValue: did.pValue,
+        });
+      }
+      comparePair(ma, mb, 'members_after_vs_before');
+    }
+    if (poolable) {
+      if (ob.n > 0 || oa.n > 0) comparePair(oa, ob, 'others_after_vs_before');
+      verdict(comparePair(ma, oa, 'members_vs_others'));
+    }
+  }
+  const win = { start: effStart, end: effEnd };
+  caveats.push(...groupCaveats([seriesTable, ...(monthsTable === seriesTable ? [] : [monthsTable])], sizes, group, win));
+  return { findings, caveats };
+}
+
+/**
+ * Equal-length windows of whole months either side of the launch: as many months as both sides
+ * have complete, cut to whole years when a year or more is available, so each side holds every
+ * season equally. Null when not even one complete month is available on each side.
+ */
+export function equalWindows(launch: string, start: string, end: string): PerformancePeriodsFinding | null {
+  const beforeEnd = periodStart(launch, 'month');
+  const afterStart = beforeEnd === launch ? launch : nextPeriod(beforeEnd, 'month');
+  const firstFull = periodStart(start, 'month') === start ? start : nextPeriod(periodStart(start, 'month'), 'month');
+  let before = 0;
+  while (addMonths(beforeEnd, -(before + 1)) >= firstFull) before++;
+  let after = 0;
+  while (addMonths(afterStart, after + 1) <= end) after++;
+  let months = Math.min(before, after);
+  if (months < 1) return null;
+  if (months >= 12) months -= months % 12;
+  return {
+    type: 'performance_periods',
+    launchDate: launch,
+    before: { start: addMonths(beforeEnd, -months), end: beforeEnd },
+    after: { start: afterStart, end: addMonths(afterStart, months) },
+    months,
+  };
+}

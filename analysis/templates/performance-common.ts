@@ -1,0 +1,88 @@
+// Shared pieces of the performance templates: the comparison group, the window they compare
+// over, the group flag in SQL, and the caveats every group comparison carries.
+import type { ComparisonGroup, DatasetConfig } from '../../config/schema.js';
+import { CatalogError, comparisonGroupByName } from '../catalog.js';
+import type { Coverage } from '../coverage.js';
+import type { GroupRole, PerformanceWindowFinding } from '../findings/performance.js';
+import { addDays } from '../periods.js';
+import type { QueryBuilder } from '../sql/query-builder.js';
+import type { Caveat, CellValue, DateWindow, ResultTable, SubQuestion } from '../types.js';
+
+/** Two-sided level of every interval the family reports. */
+export const CONFIDENCE = 0.95;
+/** Significance level of the verdict. */
+export const ALPHA = 0.05;
+/** Below this many rows (or units) in a group, results carry a small-sample caveat (common practice: 30). */
+export const SMALL_SAMPLE = 30;
+
+export const EMPTY_TABLE: ResultTable = { columns: [], rows: [], truncated: false };
+
+/** The sub-question's comparison group, or the dataset's only one when none is named. */
+export function resolveGroup(ds: DatasetConfig, sq: SubQuestion): ComparisonGroup {
+  if (sq.comparisonGroup) return comparisonGroupByName(ds, sq.comparisonGroup);
+  if (ds.comparison_groups.length === 1) return ds.comparison_groups[0]!;
+  throw new CatalogError('unknown_group', '', `a performance question needs a comparison group; dataset ${ds.name} has ${ds.comparison_groups.length}`);
+}
+
+/**
+ * The window a group comparison runs over: from the launch date when the asked window starts
+ * before it (before launch there are no members, and mixing eras would confound the comparison).
+ */
+export function comparisonWindow(sq: SubQuestion, group: ComparisonGroup): { window: DateWindow; clippedToLaunch: boolean } {
+  const launch = group.launch_date;
+  if (launch && launch > sq.window.start && launch < sq.window.end) return { window: { start: launch, end: sq.window.end }, clippedToLaunch: true };
+  return { window: { ...sq.window }, clippedToLaunch: false };
+}
+
+/** The comparison window further clipped to the data's coverage, for stating what was compared. */
+export function windowFinding(sq: SubQuestion, group: ComparisonGroup, coverage: Coverage): PerformanceWindowFinding {
+  const { window, clippedToLaunch } = comparisonWindow(sq, group);
+  let { start, end } = window;
+  if (coverage.firstDate && coverage.firstDate > start) start = coverage.firstDate;
+  if (coverage.lastDate && addDays(coverage.lastDate, 1) < end) end = addDays(coverage.lastDate, 1);
+  if (start > end) start = end;
+  return { type: 'performance_window', group: group.name, start, end, launchDate: group.launch_date ?? null, clippedToLaunch };
+}
+
+/** TRUE for members, FALSE for others; rows with a missing flag are left out by `groupKnown`. */
+export function memberFlag(q: QueryBuilder, group: ComparisonGroup): string {
+  return `(${q.ident(group.column)} IS TRUE)`;
+}
+
+export function groupKnown(q: QueryBuilder, group: ComparisonGroup): string {
+  return `${q.ident(group.column)} IS NOT NULL`;
+}
+
+export function roleOf(v: CellValue | undefined): GroupRole | null {
+  return v === true ? 'members' : v === false ? 'others' : null;
+}
+
+/** Splits summary rows keyed by tc_member into the two groups. */
+export function rowsByRole(table: ResultTable): Record<GroupRole, Record<string, CellValue> | undefined> {
+  const out: Record<GroupRole, Record<string, CellValue> | undefined> = { members: undefined, others: undefined };
+  for (const r of table.rows) {
+    const role = roleOf(r.tc_member);
+    if (role) out[role] = r;
+  }
+  return out;
+}
+
+/** Caveats every group comparison carries: truncation, the observational caution, and small groups. */
+export function groupCaveats(
+  tables: ResultTable[],
+  sizes: { role: GroupRole; n: number }[],
+  group: ComparisonGroup,
+  window: DateWindow,
+): Caveat[] {
+  const caveats: Caveat[] = [];
+  for (const t of tables) if (t.truncated) caveats.push({ code: 'truncated', data: { rows: t.rows.length } });
+  if (sizes.every((s) => s.n === 0)) caveats.push({ code: 'no_data', data: { start: window.start, end: window.end } });
+  caveats.push({ code: 'observational', data: { group: group.name } });
+  for (const s of sizes) {
+    // An empty group is stated by its own finding (performance_no_test, empty_group), not as a small sample.
+    if (s.n > 0 && s.n < SMALL_SAMPLE) {
+      caveats.push({ code: 'small_sample', data: { n: s.n, group: s.role, label: s.role === 'members' ? group.members_label : group.others_label, threshold: SMALL_SAMPLE } });
+    }
+  }
+  return caveats;
+}
