@@ -59,6 +59,8 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           if (additive) for (const d of dims) add('segment_shares', 'distribution', metric, false, { dimension: d });
           break;
         case 'growth':
+          // The metric's own pattern over time is the context any growth answer is read against.
+          drafts.push(...(TEMPLATES.series && PRESENTERS.series ? [{ kind: 'trend' as const, lens: 'time_pattern' as const, template: 'series', metrics: [metric], grain, window: all, filters: [], headline: false }] : []));
           add('growth_series', 'time_pattern', metric, !dims.length);
           for (const [i, d] of dims.entries()) add('growth_drivers', 'breakdown', metric, i === 0, { dimension: d }, focus);
           add('growth_summary', 'summary', metric, false);

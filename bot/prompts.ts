@@ -212,7 +212,14 @@ export function readAnswer(prompt: Prompt, text: string, brief: Brief, ctx: Prom
       return { ok: true, brief: { ...brief, deadline: d } };
     }
     case 'grain': {
-      const g = GRAINS.find((x) => typed.toLowerCase().startsWith(x) || GRAIN_LABEL[x].toLowerCase() === typed.toLowerCase());
+      const words: Record<Grain, RegExp> = {
+        day: /\b(days?|daily)\b/i,
+        week: /\b(weeks?|weekly)\b/i,
+        month: /\b(months?|monthly)\b/i,
+        quarter: /\b(quarters?|quarterly|q)\b/i,
+        year: /\b(years?|yearly|annual(ly)?)\b/i,
+      };
+      const g = GRAINS.find((x) => words[x].test(typed));
       if (!g) return { ok: false, message: `Please choose a grain: ${GRAINS.join(', ')}.` };
       return { ok: true, brief: { ...brief, grain: g } };
     }
