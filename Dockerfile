@@ -19,8 +19,14 @@ RUN npm ci --omit=dev --no-audit --no-fund && npm cache clean --force
 COPY --from=build /app/dist ./dist
 COPY bin ./bin
 COPY config/examples ./config/examples
+# The local channel's page is read at run time from the package root.
+COPY adapters/local-channel/page ./adapters/local-channel/page
 RUN useradd --system --uid 10001 --home-dir /app threadcount && mkdir -p /app/out && chown threadcount /app/out
 USER threadcount
 # The config (and its data file) is mounted at /config; start writes to /app/out.
+# Inside the container the local channel must listen beyond loopback to be reachable; publish it
+# on the host's loopback only (docker run -p 127.0.0.1:8787:8787 ...): the page has no login.
+ENV THREADCOUNT_HOST=0.0.0.0
+EXPOSE 8787 3000
 ENTRYPOINT ["node", "bin/threadcount.js"]
 CMD ["start"]

@@ -1,12 +1,14 @@
 // The `threadcount` command. Errors a user can fix are printed as one clear message, never a stack trace.
 import { existsSync } from 'node:fs';
-import { join, resolve } from 'node:path';
+import { dirname, join, resolve } from 'node:path';
 import { parseArgs } from 'node:util';
 import { ConfigError } from '../config/load.js';
 import { generateDemo } from '../config/demo/generate-demo.js';
 import { DEMO_CONFIG_FILE, DEMO_DATABASE_FILE } from '../config/demo/generate-demo.js';
 import { SourceError } from '../analysis/sources/data-source.js';
 import { ask } from './ask.js';
+import { EnvironmentError, loadEnvironment } from '../config/environment.js';
+import { serveUntilSignal, type Serving } from './serve.js';
 
 export const DEMO_REQUEST =
   'Ops review is on the 15th. How has revenue moved over time, month by month? We want to see the busiest and quietest months.';
@@ -18,8 +20,16 @@ Commands:
       Write the Skerrywake Ferries demo data (DuckDB) and a config pointing to it into DIR.
   threadcount ask --config FILE --request "TEXT" [--answers FILE] --out DIR
       Run one whole conversation with scripted answers; write thread.json, charts, tables and SQL to DIR.
+  threadcount serve --config FILE [--state FILE]
+      Answer requests in chat: the local channel page always, Slack and Discord when their
+      tokens are set in the environment. Conversations are kept in the state file
+      (default: threadcount-state.duckdb beside the config).
   threadcount start [--out DIR]
-      Generate the demo (once) and answer the demo request; prints where the thread was written.
+      Generate the demo data (once) into DIR/demo-data, then serve it; prints the page's address.
+
+Environment: SLACK_BOT_TOKEN with SLACK_SIGNING_SECRET (Events API over HTTP, SLACK_PORT) or
+SLACK_APP_TOKEN (Socket Mode); DISCORD_BOT_TOKEN; THREADCOUNT_PORT and THREADCOUNT_HOST for
+the local channel (default 127.0.0.1:8787).
 `;
 
 export async function main(argv: string[]): Promise<number> {
@@ -30,6 +40,8 @@ export async function main(argv: string[]): Promise<number> {
         return await demoCommand(rest);
       case 'ask':
         return await askCommand(rest);
+      case 'serve':
+        return await serveCommand(rest);
       case 'start':
         return await startCommand(rest);
       case undefined:
@@ -55,6 +67,10 @@ function reportError(err: unknown): number {
   if (err instanceof SourceError) {
     process.stderr.write(`threadcount: the dataset could not be used: ${err.message}\n`);
     return 3;
+  }
+  if (err instanceof EnvironmentError) {
+    process.stderr.write(`threadcount: the environment has problems:\n${err.problems.map((p) => `- ${p}`).join('\n')}\n`);
+    return 2;
   }
   if (err instanceof UsageError) {
     process.stderr.write(`threadcount: ${err.message}\n\n${USAGE}`);
@@ -102,20 +118,36 @@ async function askCommand(rest: string[]): Promise<number> {
   return result.end === 'stalled' ? 1 : 0;
 }
 
+async function serveCommand(rest: string[]): Promise<number> {
+  const v = parse(rest, { config: { type: 'string' }, state: { type: 'string' } });
+  if (!v.config) throw new UsageError('serve needs --config FILE');
+  // Tokens first: a malformed one stops start-up before any data is opened.
+  const environment = loadEnvironment();
+  const configFile = resolve(v.config);
+  const statePath = resolve(v.state ?? join(dirname(configFile), 'threadcount-state.duckdb'));
+  await serveUntilSignal({ configFile, statePath, environment }, announce);
+  return 0;
+}
+
 async function startCommand(rest: string[]): Promise<number> {
   const v = parse(rest, { out: { type: 'string' } });
+  const environment = loadEnvironment();
   const base = resolve(v.out ?? 'out');
   const demoDir = join(base, 'demo-data');
   if (!existsSync(join(demoDir, DEMO_DATABASE_FILE))) {
     process.stdout.write('Generating the Skerrywake Ferries demo data (once)...\n');
     await generateDemo({ outDir: demoDir });
   }
-  const threadDir = join(base, 'demo-thread');
-  process.stdout.write(`Request: "${DEMO_REQUEST}"\n`);
-  const result = await ask({ configFile: join(demoDir, DEMO_CONFIG_FILE), request: DEMO_REQUEST, outDir: threadDir });
-  for (const post of result.thread.thread.posts) {
-    process.stdout.write(`\n[${post.author}] ${post.text}\n${post.files.map((f) => `  (${f.kind}: ${join(threadDir, f.path)})\n`).join('')}`);
-  }
-  process.stdout.write(`\nThread written to ${result.threadFile}\n`);
-  return result.end === 'stalled' ? 1 : 0;
+  await serveUntilSignal({ configFile: join(demoDir, DEMO_CONFIG_FILE), statePath: join(base, 'threadcount-state.duckdb'), environment }, announce);
+  return 0;
+}
+
+function announce(serving: Serving): void {
+  const others = serving.adapters.filter((a) => a !== 'local');
+  process.stdout.write(
+    `threadcount is answering requests.\n` +
+      `Local channel: ${serving.localUrl}\n` +
+      (others.length ? `Also connected: ${others.join(', ')}.\n` : 'Slack and Discord are off (no tokens set).\n') +
+      `Try: "${DEMO_REQUEST}"\nPress Ctrl+C to stop.\n`,
+  );
 }

@@ -1,0 +1,94 @@
+// The embedded default chat: a page on 127.0.0.1 where a person posts requests and answers the
+// bot, backed by a small HTTP API. Threads are kept in memory for the page only.
+import { createServer, type Server, type ServerResponse } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import type { OutgoingPost } from '../../bot/port.js';
+import type { ChatAdapter, Deliver } from '../chat-adapter.js';
+import { localApi } from './local-api.js';
+import { LocalThreads } from './LocalThreads.js';
+import { loadPageFiles } from './page-files.js';
+
+const PREFIX = 'local:';
+
+export interface LocalChannelOptions {
+  host?: string;
+  /** 0 picks a free port (tests). */
+  port?: number;
+  deliver: Deliver;
+  botName?: string;
+}
+
+export class LocalChannel implements ChatAdapter {
+  readonly name = 'local';
+  readonly threads: LocalThreads;
+  private readonly server: Server;
+  private readonly streams = new Set<ServerResponse>();
+  private readonly host: string;
+  private readonly port: number;
+
+  constructor(opts: LocalChannelOptions) {
+    this.host = opts.host ?? '127.0.0.1';
+    this.port = opts.port ?? 0;
+    this.threads = new LocalThreads(opts.botName ?? 'threadcount');
+    this.server = createServer(
+      localApi({
+        threads: this.threads,
+        deliver: opts.deliver,
+        page: loadPageFiles(),
+        allowedHosts: () => this.allowedHosts(),
+        botThreadId: (id) => `${PREFIX}${id}`,
+        streams: this.streams,
+      }),
+    );
+  }
+
+  owns(threadId: string): boolean {
+    return threadId.startsWith(PREFIX);
+  }
+
+  async start(): Promise<void> {
+    await new Promise<void>((resolve, reject) => {
+      this.server.once('error', reject);
+      this.server.listen(this.port, this.host, () => {
+        this.server.off('error', reject);
+        resolve();
+      });
+    });
+  }
+
+  async stop(): Promise<void> {
+    for (const res of this.streams) res.end();
+    await new Promise<void>((resolve) => {
+      this.server.close(() => resolve());
+      this.server.closeAllConnections();
+    });
+  }
+
+  /** The page's address, e.g. http://127.0.0.1:8787/ (after start). */
+  get url(): string {
+    const a = this.server.address() as AddressInfo | null;
+    if (!a) throw new Error('the local channel is not listening');
+    const host = a.family === 'IPv6' ? `[${a.address}]` : a.address;
+    return `http://${host === '0.0.0.0' || host === '[::]' ? '127.0.0.1' : host}:${a.port}/`;
+  }
+
+  async post(threadId: string, post: OutgoingPost): Promise<string> {
+    return this.threads.addBotPost(this.localId(threadId), post).id;
+  }
+
+  async update(threadId: string, ref: string, text: string): Promise<void> {
+    this.threads.updateText(this.localId(threadId), ref, text);
+  }
+
+  private localId(threadId: string): string {
+    if (!this.owns(threadId)) throw new Error(`thread ${threadId} is not a local channel thread`);
+    return threadId.slice(PREFIX.length);
+  }
+
+  /** On loopback only the loopback names are accepted, so another site cannot rebind a name to it. */
+  private allowedHosts(): Set<string> | null {
+    const a = this.server.address() as AddressInfo | null;
+    if (!a || !['127.0.0.1', '::1', 'localhost'].includes(this.host)) return null;
+    return new Set(['127.0.0.1', 'localhost', '[::1]'].map((h) => `${h}:${a.port}`));
+  }
+}

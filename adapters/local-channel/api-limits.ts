@@ -1,0 +1,12 @@
+// What the local channel's HTTP API accepts, checked once at the edge.
+import { z } from 'zod';
+
+export const MAX_BODY_BYTES = 64 * 1024;
+
+export const newMessageSchema = z
+  .object({
+    author: z.string().trim().min(1).max(80).default('you'),
+    text: z.string().trim().min(1, 'text must not be empty').max(4000),
+  })
+  .strict();
+export type NewMessage = z.infer<typeof newMessageSchema>;

@@ -1,0 +1,323 @@
+// The local channel page: plain JavaScript, no build step. It talks only to the documented API:
+// POST /api/threads, POST /api/threads/:id/messages, GET /api/threads(/:id), the thread's
+// event stream, and /api/files/:id for attachments.
+'use strict';
+
+const $ = (id) => document.getElementById(id);
+const state = { threadId: null, messages: new Map(), nodes: new Map(), source: null };
+
+// ---------- small DOM helpers (text only: nothing from the server is parsed as HTML) ----------
+
+function el(tag, attrs = {}, ...children) {
+  const node = document.createElement(tag);
+  for (const [k, v] of Object.entries(attrs)) {
+    if (v === undefined || v === null || v === false) continue;
+    if (k === 'class') node.className = v;
+    else if (k === 'text') node.textContent = v;
+    else if (k.startsWith('on')) node.addEventListener(k.slice(2), v);
+    else node.setAttribute(k, v === true ? '' : String(v));
+  }
+  for (const c of children.flat()) if (c !== null && c !== undefined) node.append(c);
+  return node;
+}
+
+/** Light markdown from the bot: *bold*, _italic_, lines starting "- " as a list. */
+function renderText(text) {
+  const out = document.createDocumentFragment();
+  let list = null;
+  for (const line of text.split('\n')) {
+    const item = /^\s*[-•]\s+(.*)$/.exec(line);
+    if (item) {
+      if (!list) out.append((list = el('ul')));
+      list.append(el('li', {}, inline(item[1])));
+      continue;
+    }
+    list = null;
+    if (line.trim() === '') continue;
+    out.append(el('p', {}, inline(line)));
+  }
+  return out;
+}
+
+function inline(line) {
+  const frag = document.createDocumentFragment();
+  // An italic span may hold underscores of its own (booking_id); it ends at "_" before a space or the end.
+  const re = /\*([^*\n]+)\*|(^|[\s(])_(\S.*?)_(?=$|[\s).,;:!?])/g;
+  let at = 0;
+  for (let m; (m = re.exec(line)); ) {
+    const lead = m[2] ?? '';
+    frag.append(line.slice(at, m.index) + lead);
+    frag.append(m[1] !== undefined ? el('strong', { text: m[1] }) : el('em', { text: m[3] }));
+    at = m.index + m[0].length;
+  }
+  frag.append(line.slice(at));
+  return frag;
+}
+
+function time(iso) {
+  const d = new Date(iso);
+  return el('time', { datetime: iso, title: d.toLocaleString() }, d.toLocaleTimeString([], { hour: '2-digit', minute: '2-digit' }));
+}
+
+function initials(name) {
+  const parts = name.trim().split(/\s+/).filter(Boolean);
+  return (parts.length > 1 ? parts[0][0] + parts[1][0] : (parts[0] ?? '?')[0]).toUpperCase();
+}
+
+function size(bytes) {
+  return bytes < 1024 ? `${bytes} B` : bytes < 1048576 ? `${(bytes / 1024).toFixed(1)} KB` : `${(bytes / 1048576).toFixed(1)} MB`;
+}
+
+// ---------- the API ----------
+
+function author() {
+  return $('author').value.trim() || 'you';
+}
+
+async function api(path, body) {
+  const res = await fetch(path, body ? { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) } : {});
+  const data = await res.json().catch(() => ({}));
+  if (!res.ok) throw new Error(data.error || `${res.status} ${res.statusText}`);
+  return data;
+}
+
+function showError(err) {
+  const box = $('error');
+  box.textContent = err ? `Could not send: ${err.message}` : '';
+  box.hidden = !err;
+}
+
+async function reply(text) {
+  if (!state.threadId) return;
+  showError(null);
+  try {
+    await api(`/api/threads/${encodeURIComponent(state.threadId)}/messages`, { author: author(), text });
+  } catch (err) {
+    showError(err);
+  }
+}
+
+// ---------- the thread list ----------
+
+// At most one refresh in flight per 80 ms: a burst of messages still refreshes promptly.
+let listTimer = null;
+function refreshList() {
+  if (listTimer) return;
+  listTimer = setTimeout(async () => {
+    listTimer = null;
+    const { threads } = await api('/api/threads').catch(() => ({ threads: [] }));
+    const list = $('thread-list');
+    list.replaceChildren(
+      ...threads.map((t) =>
+        el(
+          'li',
+          {},
+          el(
+            'a',
+            { href: `#/t/${encodeURIComponent(t.id)}`, 'aria-current': t.id === state.threadId ? 'page' : null },
+            el('span', { class: 't-title', text: t.title || 'Untitled request' }),
+            el('span', { class: 't-meta' }, t.author ? `${t.author} · ` : '', time(t.createdAt), t.waiting ? el('span', { class: 't-waiting', text: 'waiting for you' }) : null),
+          ),
+        ),
+      ),
+    );
+    $('no-threads').hidden = threads.length > 0;
+  }, 80);
+}
+
+// ---------- one message ----------
+
+function renderMessage(m, index) {
+  const isRequest = index === 0 && !m.fromBot;
+  const body = el(
+    'div',
+    { class: 'body' },
+    el('div', { class: 'meta' }, el('span', { class: 'author', text: m.author }), time(m.createdAt), m.updatedAt ? el('span', { class: 'edited', text: 'updated' }) : null),
+    el('div', { class: 'text' }, renderText(m.prompt ? m.prompt.lead : m.text)),
+  );
+  if (m.prompt) body.append(renderPrompt(m.prompt));
+  if (m.quickReplies) {
+    body.append(el('div', { class: 'quick' }, m.quickReplies.map((q) => el('button', { type: 'button', class: q.primary ? 'primary' : null, 'data-value': q.value, onclick: () => reply(q.value) }, q.label))));
+  }
+  const images = m.files.filter((f) => f.contentType === 'image/png');
+  const others = m.files.filter((f) => f.contentType !== 'image/png');
+  if (images.length) {
+    body.append(
+      el(
+        'div',
+        { class: 'charts' },
+        images.map((f) =>
+          el(
+            'figure',
+            {},
+            el('a', { href: f.url, target: '_blank', rel: 'noopener', title: 'Open full size' }, el('img', { src: f.url, alt: `Chart: ${f.name}`, width: f.width, height: f.height, loading: 'lazy' })),
+            el('figcaption', {}, el('span', { text: f.name }), el('a', { href: f.url, download: f.name, text: 'Download PNG' })),
+          ),
+        ),
+      ),
+    );
+  }
+  if (others.length) {
+    body.append(
+      el(
+        'ul',
+        { class: 'files' },
+        others.map((f) =>
+          el('li', {}, el('a', { href: f.url, download: f.name }, el('span', { class: 'kind', text: f.kind === 'table' ? 'CSV' : f.kind.toUpperCase() }), el('span', { text: f.name }), el('span', { class: 'size', text: size(f.bytes) }))),
+        ),
+      ),
+    );
+  }
+  const avatar = el('span', { class: 'avatar', 'aria-hidden': 'true', text: m.fromBot ? 'tc' : initials(m.author) });
+  return el('article', { class: `msg ${m.fromBot ? 'bot' : 'person'}${isRequest ? ' request' : ''}`, 'data-id': m.id }, avatar, body);
+}
+
+function renderPrompt(p) {
+  const chosen = new Set();
+  const send = el('button', { type: 'button', class: 'primary send-choices', disabled: true }, 'Send selected');
+  const buttons = p.options.map((o) => {
+    const isRec = o.value === p.recommended.value;
+    const b = el('button', { type: 'button', class: isRec ? 'recommended' : null, 'data-value': o.value, 'aria-pressed': p.many ? 'false' : null }, o.label, isRec ? el('span', { class: 'tag', text: 'recommended' }) : null);
+    b.addEventListener('click', () => {
+      if (!p.many) return reply(o.value);
+      if (chosen.has(o.value)) chosen.delete(o.value);
+      else chosen.add(o.value);
+      b.setAttribute('aria-pressed', String(chosen.has(o.value)));
+      send.disabled = chosen.size === 0;
+      send.textContent = chosen.size > 1 ? `Send ${chosen.size} selected` : 'Send selected';
+    });
+    return b;
+  });
+  // The recommendation is normally one of the options; if not, it gets its own button.
+  if (!p.options.some((o) => o.value === p.recommended.value)) {
+    buttons.push(el('button', { type: 'button', class: 'recommended', 'data-value': p.recommended.value, onclick: () => reply(p.recommended.value) }, p.recommended.label, el('span', { class: 'tag', text: 'recommended' })));
+  }
+  send.addEventListener('click', () => reply(p.options.filter((o) => chosen.has(o.value)).map((o) => o.value).join(', ')));
+  const box = el('div', { class: 'prompt', 'data-topic': p.topic }, el('div', { class: 'choices' }, buttons, p.many ? send : null));
+  if (p.topic === 'deadline') {
+    const input = el('input', { type: 'date', 'aria-label': 'Deadline date' });
+    box.append(el('div', { class: 'date-choice' }, 'or pick a date', input, el('button', { type: 'button', onclick: () => input.value && reply(input.value) }, 'Send date')));
+  }
+  box.append(el('p', { class: 'rec' }, 'Recommended: ', el('strong', { text: p.recommended.label }), ` (${p.recommended.reason}).`, p.many ? ' Pick one or more.' : '', ' Or type your own answer below.'));
+  return box;
+}
+
+/** Only the newest bot message can be answered by clicking; earlier prompts are kept but inert. */
+function refreshActive() {
+  const ordered = [...state.messages.values()];
+  const last = ordered.at(-1);
+  ordered.forEach((m, i) => {
+    const node = state.nodes.get(m.id);
+    const active = last && last.id === m.id && m.fromBot;
+    // What the person said next is the answer; mark the matching choices.
+    const answer = ordered.slice(i + 1).find((x) => !x.fromBot);
+    const picked = new Set((answer?.text ?? '').toLowerCase().split(/\s*,\s*/));
+    for (const part of node.querySelectorAll('.prompt, .quick')) {
+      part.classList.toggle('answered', !active);
+      for (const c of part.querySelectorAll('button, input')) {
+        c.disabled = !active || (c.classList.contains('send-choices') && !part.querySelector('[aria-pressed="true"]'));
+        if (c.dataset.value !== undefined) c.classList.toggle('chosen', !active && picked.has(c.dataset.value.toLowerCase()));
+      }
+    }
+  });
+  // The bot owes a reply when a person spoke last.
+  $('working').hidden = !last || last.fromBot;
+}
+
+function upsert(m) {
+  const known = state.messages.has(m.id);
+  state.messages.set(m.id, m);
+  const index = [...state.messages.keys()].indexOf(m.id);
+  const node = renderMessage(m, index);
+  const old = state.nodes.get(m.id);
+  if (old) old.replaceWith(node);
+  else $('messages').append(node);
+  state.nodes.set(m.id, node);
+  refreshActive();
+  if (!known) {
+    node.scrollIntoView({ block: 'nearest', behavior: matchMedia('(prefers-reduced-motion: reduce)').matches ? 'auto' : 'smooth' });
+    refreshList();
+  }
+}
+
+// ---------- views ----------
+
+function openThread(id) {
+  if (state.source) state.source.close();
+  state.threadId = id;
+  state.messages.clear();
+  state.nodes.clear();
+  $('messages').replaceChildren();
+  $('compose-view').hidden = true;
+  $('thread-view').hidden = false;
+  $('working').hidden = true;
+  // The stream replays the thread from its first event, then follows it.
+  const source = new EventSource(`/api/threads/${encodeURIComponent(id)}/events`);
+  for (const type of ['message.created', 'message.updated']) source.addEventListener(type, (e) => upsert(JSON.parse(e.data)));
+  state.source = source;
+  refreshList();
+  $('reply-text').focus();
+}
+
+function openCompose() {
+  if (state.source) state.source.close();
+  state.source = null;
+  state.threadId = null;
+  $('thread-view').hidden = true;
+  $('compose-view').hidden = false;
+  refreshList();
+  $('request-text').focus();
+}
+
+function route() {
+  const m = /^#\/t\/(.+)$/.exec(location.hash);
+  if (m) openThread(decodeURIComponent(m[1]));
+  else openCompose();
+}
+
+// ---------- forms ----------
+
+function submitOnEnter(textarea, form) {
+  textarea.addEventListener('keydown', (e) => {
+    if (e.key === 'Enter' && !e.shiftKey && !e.isComposing) {
+      e.preventDefault();
+      form.requestSubmit();
+    }
+  });
+}
+
+$('request-form').addEventListener('submit', async (e) => {
+  e.preventDefault();
+  const text = $('request-text').value.trim();
+  if (!text) return;
+  showError(null);
+  try {
+    const { threadId } = await api('/api/threads', { author: author(), text });
+    $('request-text').value = '';
+    location.hash = `#/t/${encodeURIComponent(threadId)}`;
+  } catch (err) {
+    showError(err);
+  }
+});
+
+$('reply-form').addEventListener('submit', async (e) => {
+  e.preventDefault();
+  const text = $('reply-text').value.trim();
+  if (!text) return;
+  $('reply-text').value = '';
+  await reply(text);
+});
+
+for (const b of document.querySelectorAll('button.example')) {
+  b.addEventListener('click', () => {
+    $('request-text').value = b.textContent;
+    $('request-text').focus();
+  });
+}
+
+$('author').value = localStorage.getItem('threadcount.author') || 'you';
+$('author').addEventListener('change', () => localStorage.setItem('threadcount.author', author()));
+submitOnEnter($('request-text'), $('request-form'));
+submitOnEnter($('reply-text'), $('reply-form'));
+window.addEventListener('hashchange', route);
+route();

@@ -1,0 +1,197 @@
+// Slack through Bolt: the Events API over HTTP (Bolt's receiver checks the signature and the
+// five-minute window) or Socket Mode, chosen by the environment. A mention in a channel or a
+// direct message starts a request; replies stay in the request's thread. Every handler returns
+// at once and the bot works afterwards: Slack retries an event not acknowledged within 3 s.
+import { App, HTTPReceiver, LogLevel, type BlockAction, type types } from '@slack/bolt';
+import type { webApi } from '@slack/bolt';
+import type { Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import type { OutgoingPost } from '../../bot/port.js';
+import type { SlackEnvironment } from '../../config/environment.js';
+import type { ChatAdapter, Deliver, KnownThread } from '../chat-adapter.js';
+import { SeenIds } from '../SeenIds.js';
+import { ACTION_PATTERN, answeredBlocks, slackMessage } from './slack-blocks.js';
+import { clip, SLACK_LIMITS } from './slack-limits.js';
+import { slackLogger } from './slack-logger.js';
+import { fromSlackText, toMrkdwn } from './slack-text.js';
+
+const PREFIX = 'slack:';
+
+export interface SlackAdapterOptions {
+  env: SlackEnvironment;
+  deliver: Deliver;
+  knows: KnownThread;
+  log?: (line: string) => void;
+  /** Where the Events API receiver listens; defaults to all interfaces on env.port. */
+  listen?: { host?: string; port?: number };
+  /** Web API client settings (tests turn retries off). */
+  clientOptions?: webApi.WebClientOptions;
+}
+
+/** "slack:<channel>:<thread ts>" */
+export function slackThreadId(channel: string, threadTs: string): string {
+  return `${PREFIX}${channel}:${threadTs}`;
+}
+
+export class SlackAdapter implements ChatAdapter {
+  readonly name = 'slack';
+  readonly app: App;
+  private server: Server | undefined;
+  // Slack redelivers an event it thinks was missed (X-Slack-Retry-Num says which try); its event_id stays the same.
+  private readonly seen = new SeenIds();
+  private readonly log: (line: string) => void;
+
+  constructor(private readonly opts: SlackAdapterOptions) {
+    this.log = opts.log ?? ((line) => process.stderr.write(`${line}\n`));
+    const env = opts.env;
+    const logger = slackLogger(this.log);
+    const common = { token: env.botToken, logger, logLevel: LogLevel.WARN, ...(opts.clientOptions ? { clientOptions: opts.clientOptions } : {}) };
+    this.app =
+      env.mode === 'socket'
+        ? new App({ ...common, appToken: env.appToken, socketMode: true })
+        : new App({ ...common, receiver: new HTTPReceiver({ signingSecret: env.signingSecret, endpoints: '/slack/events', logger, logLevel: LogLevel.WARN }) });
+    this.app.error(async (err) => this.log(`slack: ${err.message}`));
+    this.listen();
+  }
+
+  owns(threadId: string): boolean {
+    return threadId.startsWith(PREFIX);
+  }
+
+  async start(): Promise<void> {
+    if (this.opts.env.mode === 'socket') {
+      await this.app.start();
+      return;
+    }
+    const port = this.opts.listen?.port ?? this.opts.env.port;
+    const host = this.opts.listen?.host;
+    this.server = await this.app.start(host ? { port, host } : port);
+  }
+
+  async stop(): Promise<void> {
+    await this.app.stop();
+  }
+
+  /** The Events API address while listening over HTTP (for tests and the start-up message). */
+  get eventsUrl(): string {
+    const a = this.server?.address() as AddressInfo | null | undefined;
+    if (!a) throw new Error('the Slack receiver is not listening over HTTP');
+    return `http://${a.family === 'IPv6' ? `[${a.address}]` : a.address}:${a.port}/slack/events`;
+  }
+
+  async post(threadId: string, post: OutgoingPost): Promise<string> {
+    const { channel, threadTs } = parseThreadId(threadId);
+    const message = slackMessage(post);
+    const sent = await this.app.client.chat.postMessage({
+      channel,
+      thread_ts: threadTs,
+      text: message.text,
+      ...(message.blocks ? { blocks: message.blocks as types.KnownBlock[] } : {}),
+      unfurl_links: false,
+      unfurl_media: false,
+    });
+    if (!sent.ts) throw new Error('Slack did not return the posted message ts');
+    if (post.files?.length) {
+      // The current upload flow: files.getUploadURLExternal per file, the bytes POSTed to the URL
+      // it returns, then one files.completeUploadExternal that shares them in the thread.
+      const title = clip(firstLine(post.text), 250);
+      await this.app.client.filesUploadV2({
+        channel_id: channel,
+        thread_ts: threadTs,
+        file_uploads: post.files.map((f) => ({
+          file: typeof f.content === 'string' ? Buffer.from(f.content, 'utf8') : f.content,
+          filename: f.name,
+          title: f.name,
+          ...(f.kind === 'chart' ? { alt_text: clip(`Chart: ${title}`, 1000) } : {}),
+        })),
+      });
+    }
+    return sent.ts;
+  }
+
+  async update(threadId: string, ref: string, text: string): Promise<void> {
+    const { channel } = parseThreadId(threadId);
+    await this.app.client.chat.update({ channel, ts: ref, text: clip(toMrkdwn(text), SLACK_LIMITS.messageText) });
+  }
+
+  private listen(): void {
+    // A mention in a channel opens a request (or continues one when made inside its thread).
+    this.app.event('app_mention', async ({ event, body, context }) => {
+      if (!this.first(body, context.retryNum)) return;
+      if (!event.user) return;
+      const text = fromSlackText(event.text, context.botUserId);
+      this.opts.deliver({ threadId: slackThreadId(event.channel, event.thread_ts ?? event.ts), author: event.user, text: text || 'help' });
+    });
+
+    // Direct messages start requests; in channels only replies in a known thread are read.
+    this.app.message(async ({ message, body, context }) => {
+      if (!this.first(body, context.retryNum)) return;
+      if (message.subtype !== undefined || !('user' in message) || !message.user || 'bot_id' in message && message.bot_id) return;
+      const threadTs = message.thread_ts ?? message.ts;
+      const threadId = slackThreadId(message.channel, threadTs);
+      const text = fromSlackText(message.text ?? '', context.botUserId);
+      if (!text) return;
+      if (message.channel_type !== 'im') {
+        if (!message.thread_ts || message.thread_ts === message.ts) return;
+        // A reply that mentions the bot also arrives as app_mention, which handles it.
+        if (context.botUserId && (message.text ?? '').includes(`<@${context.botUserId}>`)) return;
+        if (!(await this.opts.knows(threadId))) return;
+      }
+      this.opts.deliver({ threadId, author: message.user, text });
+    });
+
+    // A click on a prompt's button, select or datepicker is delivered as the option's value.
+    this.app.action<BlockAction>(ACTION_PATTERN, async ({ ack, body, action }) => {
+      await ack();
+      const message = body.message;
+      const channel = body.channel?.id;
+      if (!message || !channel) return;
+      const chosen = readAction(action);
+      if (!chosen) return;
+      const threadTs = (message.thread_ts as string | undefined) ?? (message.ts as string);
+      this.opts.deliver({ threadId: slackThreadId(channel, threadTs), author: body.user.id, text: chosen.value });
+      try {
+        // The choices give way to who chose what, so a second click cannot answer twice.
+        await this.app.client.chat.update({
+          channel,
+          ts: message.ts as string,
+          text: (message.text as string | undefined) ?? 'Answered',
+          blocks: answeredBlocks((message.blocks as unknown[] | undefined) ?? [], body.user.id, chosen.label) as types.KnownBlock[],
+        });
+      } catch (err) {
+        this.log(`slack: could not mark the prompt answered: ${err instanceof Error ? err.message : String(err)}`);
+      }
+    });
+  }
+
+  /** False for an event already handled (Slack's retry of the same event_id). */
+  private first(body: { event_id?: string }, retryNum: number | undefined): boolean {
+    if (!body.event_id) return true;
+    const first = this.seen.first(body.event_id);
+    if (!first) this.log(`slack: dropped retry ${retryNum ?? '?'} of event ${body.event_id}, already handled`);
+    return first;
+  }
+}
+
+function readAction(action: BlockAction['actions'][number]): { value: string; label: string } | null {
+  switch (action.type) {
+    case 'button':
+      return action.value ? { value: action.value, label: action.text.text } : null;
+    case 'static_select':
+      return { value: action.selected_option.value, label: action.selected_option.text.text };
+    case 'datepicker':
+      return action.selected_date ? { value: action.selected_date, label: action.selected_date } : null;
+    default:
+      return null;
+  }
+}
+
+function parseThreadId(threadId: string): { channel: string; threadTs: string } {
+  const m = /^slack:([^:]+):(\d+\.\d+)$/.exec(threadId);
+  if (!m) throw new Error(`not a Slack thread id: ${threadId}`);
+  return { channel: m[1]!, threadTs: m[2]! };
+}
+
+function firstLine(text: string): string {
+  return (text.split('\n')[0] ?? '').replace(/[*_]/g, '');
+}

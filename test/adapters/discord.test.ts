@@ -1,0 +1,242 @@
+// Discord: a real discord.js Client whose REST calls go to a fake Discord API on 127.0.0.1 and
+// whose gateway events arrive as raw dispatch packets; the real bot answers on the demo data.
+// Packets are handed to the client's packet handler, an internal API: discord.js is pinned exactly.
+import { Status, type Client } from 'discord.js';
+import pLimit from 'p-limit';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { discordMessage } from '../../adapters/discord/discord-components.js';
+import { DiscordAdapter } from '../../adapters/discord/DiscordAdapter.js';
+import { ThreadInbox } from '../../adapters/ThreadInbox.js';
+import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
+import { Bot } from '../../bot/Bot.js';
+import type { IncomingMessage } from '../../bot/port.js';
+import { presentAnswer, presentSummary } from '../../bot/present-answer.js';
+import { MemoryStateStore } from '../../bot/stores/MemoryStateStore.js';
+import { loadConfig } from '../../config/load.js';
+import { demoFixture } from '../helpers/demo-fixture.js';
+import { BOT_USER, FakeDiscordApi, type ApiCall } from '../helpers/fake-discord-api.js';
+import { waitFor } from '../helpers/wait-for.js';
+
+const GUILD = '800000000000000001';
+const CHANNEL = '800000000000000002';
+const APP = '900000000000000009';
+const MAREN = { id: '700000000000000001', username: 'maren', discriminator: '0', avatar: null, global_name: 'Maren' };
+const REQUEST = 'How has revenue moved over time, month by month? We want to see the busiest and quietest months.';
+const TOKEN = 'OTAwMDAwMDAwMDAwMDAwMDAx.GabcDE.fakefakefakefakefakefakefakefakefakefake';
+
+let ws: Workspace;
+let api: FakeDiscordApi;
+let adapter: DiscordAdapter;
+let inbox: ThreadInbox;
+const delivered: IncomingMessage[] = [];
+let seq = 1;
+
+/** Hands a gateway dispatch packet to the client, as its WebSocket shard would. */
+function dispatch(client: Client, t: string, d: unknown): void {
+  const shard = { id: 0, checkReady: () => undefined };
+  (client.ws as unknown as { handlePacket(p: unknown, s: unknown): boolean }).handlePacket({ op: 0, t, d, s: seq++ }, shard);
+}
+
+const member = { roles: [], joined_at: '2024-01-01T00:00:00.000Z', deaf: false, mute: false, flags: 0 };
+
+function userMessage(channelId: string, content: string, mentions: unknown[] = []): Record<string, unknown> {
+  return {
+    id: api.snowflake(),
+    channel_id: channelId,
+    guild_id: GUILD,
+    author: MAREN,
+    member,
+    content,
+    timestamp: new Date().toISOString(),
+    edited_timestamp: null,
+    tts: false,
+    mention_everyone: false,
+    mentions,
+    mention_roles: [],
+    attachments: [],
+    embeds: [],
+    components: [],
+    pinned: false,
+    type: 0,
+    flags: 0,
+  };
+}
+
+function click(threadId: string, message: ApiCall, data: Record<string, unknown>): void {
+  dispatch(adapter.client, 'INTERACTION_CREATE', {
+    id: api.snowflake(),
+    application_id: APP,
+    type: 3,
+    token: `tok-${seq}`,
+    version: 1,
+    guild_id: GUILD,
+    channel_id: threadId,
+    channel: { id: threadId, type: 11, guild_id: GUILD, parent_id: CHANNEL, name: 'request' },
+    member: { ...member, user: MAREN, permissions: '2248473465835073' },
+    message: message.answer,
+    data,
+    app_permissions: '2248473465835073',
+    locale: 'en-GB',
+    guild_locale: 'en-GB',
+    entitlements: [],
+    authorizing_integration_owners: { '0': GUILD },
+    context: 0,
+    attachment_size_limit: 26_214_400,
+  });
+}
+
+beforeAll(async () => {
+  ws = await openWorkspace(loadConfig((await demoFixture()).configPath));
+  api = new FakeDiscordApi(GUILD);
+  const restApi = await api.start();
+  const store = new MemoryStateStore();
+  adapter = new DiscordAdapter({
+    token: TOKEN,
+    restApi,
+    deliver: (m) => {
+      delivered.push(m);
+      inbox.deliver(m);
+    },
+    knows: async (id) => (await store.get(id)) !== undefined,
+    log: (line) => {
+      throw new Error(line);
+    },
+  });
+  const bot = new Bot({ workspace: ws, port: adapter, store, now: () => new Date('2026-12-01T09:00:00Z'), presentAnswer, presentSummary, jobs: pLimit(2) });
+  inbox = new ThreadInbox((m) => bot.handle(m), (err) => {
+    throw err;
+  });
+
+  // No login: the gateway session is played by packets. READY sets the bot user; the guild and
+  // its channel must be cached before any MESSAGE_CREATE, or discord.js drops the message.
+  const client = adapter.client;
+  (client.ws as unknown as { status: number }).status = Status.Ready;
+  dispatch(client, 'READY', { v: 10, user: BOT_USER, guilds: [{ id: GUILD, unavailable: true }], session_id: 's', resume_gateway_url: 'wss://gateway.invalid', application: { id: APP, flags: 0 }, shard: [0, 1] });
+  dispatch(client, 'GUILD_CREATE', {
+    id: GUILD,
+    name: 'Skerrywake Ferries',
+    icon: null,
+    owner_id: MAREN.id,
+    unavailable: false,
+    member_count: 2,
+    large: false,
+    joined_at: '2024-01-01T00:00:00.000Z',
+    roles: [{ id: GUILD, name: '@everyone', permissions: '2248473465835073', position: 0, color: 0, hoist: false, managed: false, mentionable: false, flags: 0 }],
+    channels: [{ id: CHANNEL, type: 0, name: 'data-requests', guild_id: GUILD, position: 0, permission_overwrites: [], parent_id: null, nsfw: false, rate_limit_per_user: 0 }],
+    threads: [],
+    members: [],
+    emojis: [],
+    stickers: [],
+    features: [],
+    presences: [],
+    voice_states: [],
+    stage_instances: [],
+    guild_scheduled_events: [],
+    soundboard_sounds: [],
+    preferred_locale: 'en-GB',
+    premium_tier: 0,
+    nsfw_level: 0,
+  });
+});
+
+afterAll(async () => {
+  await inbox?.idle();
+  await adapter?.stop();
+  await api?.stop();
+  await ws?.source.close();
+});
+
+let threadId = '';
+
+describe('Discord adapter', () => {
+  it('opens a thread on the mentioning message and answers in it', async () => {
+    dispatch(adapter.client, 'MESSAGE_CREATE', userMessage(CHANNEL, `<@${BOT_USER.id}> ${REQUEST}`, [BOT_USER]));
+    const started = await waitFor('a thread to be started', () => api.calls.find((c) => c.method === 'POST' && /^\/channels\/\d+\/messages\/\d+\/threads$/.test(c.path)));
+    expect(started.path).toMatch(new RegExp(`^/channels/${CHANNEL}/messages/\\d+/threads$`));
+    expect(started.body).toMatchObject({ name: REQUEST, auto_archive_duration: 1440 });
+    threadId = String(started.answer!.id);
+    // The fake records the call when it arrives; the adapter delivers once the thread is returned.
+    expect(await waitFor('the request delivered', () => delivered[0])).toEqual({ threadId: `discord:${threadId}`, author: MAREN.id, text: REQUEST });
+    const first = await waitFor('the first reply', () => api.messagesIn(threadId)[0]);
+    expect(first.body.content).toMatch(/^On it/);
+    // Nothing is posted in the channel itself.
+    expect(api.messagesIn(CHANNEL)).toHaveLength(0);
+  });
+
+  it('asks with buttons, takes clicks, and reads a typed "go" in the thread', async () => {
+    const answered = new Set<ApiCall>();
+    for (let turn = 0; turn < 10; turn++) {
+      const prompt = await waitFor('a message with components', () => api.messagesIn(threadId).find((c) => (c.body.components as unknown[]).length > 0 && !answered.has(c)));
+      answered.add(prompt);
+      const rows = prompt.body.components as { type: number; components: { type: number; custom_id: string; label?: string; style?: number }[] }[];
+      const buttons = rows.flatMap((r) => r.components).filter((c) => c.type === 2);
+      if (buttons.some((b) => b.custom_id === 'tc:q:go')) {
+        expect(buttons.map((b) => b.label)).toEqual(['Go: run the plan', 'Cancel']);
+        dispatch(adapter.client, 'MESSAGE_CREATE', userMessage(threadId, 'go'));
+        break;
+      }
+      expect(rows).toHaveLength(1);
+      expect(buttons.at(-1)).toMatchObject({ custom_id: expect.stringMatching(/^tc:r:/), label: 'Use recommended', style: 1 });
+      expect(buttons.slice(0, -1).every((b) => b.custom_id.startsWith('tc:v:') && b.style === 2)).toBe(true);
+      // The numbered options live in the buttons, not in the text.
+      expect(prompt.body.content).not.toMatch(/^1\. /m);
+      const callbacks = api.calls.filter((c) => c.path.startsWith('/interactions/')).length;
+      click(threadId, prompt, { custom_id: buttons.at(-1)!.custom_id, component_type: 2 });
+      const callback = await waitFor('the interaction answered', () => api.calls.filter((c) => c.path.startsWith('/interactions/'))[callbacks]);
+      // Type 7 updates the prompt in place: its components go, who chose what is added.
+      expect(callback.body).toMatchObject({ type: 7, data: { components: [] } });
+      expect(String((callback.body.data as { content: string }).content)).toContain(`<@${MAREN.id}> chose`);
+    }
+    await waitFor('the typed go', () => delivered.find((d) => d.text === 'go'));
+    expect(delivered.every((d) => d.threadId === `discord:${threadId}`)).toBe(true);
+  });
+
+  it('attaches charts, tables and SQL as files, and edits the progress message', async () => {
+    await waitFor('the summary', () => api.messagesIn(threadId).find((c) => String(c.body.content).startsWith('**Summary**')), 120_000);
+    await inbox.idle();
+    const withFiles = api.messagesIn(threadId).filter((c) => c.files.length > 0);
+    expect(withFiles.length).toBeGreaterThan(0);
+    const chartPost = withFiles.find((c) => c.files.some((f) => f.name.endsWith('.png')))!;
+    const png = chartPost.files.find((f) => f.name.endsWith('.png'))!;
+    expect(png.field).toMatch(/^files\[\d+\]$/);
+    expect(png.bytes.subarray(1, 4).toString('latin1')).toBe('PNG');
+    expect(png.bytes.readUInt32BE(16)).toBe(1200);
+    expect(chartPost.files.map((f) => f.name)).toEqual(expect.arrayContaining([expect.stringMatching(/\.csv$/), expect.stringMatching(/\.sql$/)]));
+    // The multipart payload lists each attachment by the index of its files[n] part; a chart carries alt text.
+    const listed = chartPost.body.attachments as { id: string; description?: string }[];
+    expect(listed.map((a) => `files[${a.id}]`)).toEqual(chartPost.files.map((f) => f.field));
+    expect(listed[chartPost.files.indexOf(png)]!.description).toMatch(/^Chart: 1\. /);
+    expect(String(chartPost.body.content)).toMatch(/^\*\*1\. /);
+    const edits = api.calls.filter((c) => c.method === 'PATCH' && c.path.startsWith(`/channels/${threadId}/messages/`));
+    expect(String(edits.at(-1)!.body.content)).toMatch(/^All \d+ done\.$/);
+  });
+
+  it('offers a select menu for a choice of several, and reads what was selected', async () => {
+    dispatch(adapter.client, 'MESSAGE_CREATE', userMessage(CHANNEL, `<@${BOT_USER.id}> How has churn moved over time?`, [BOT_USER]));
+    const started = await waitFor('a second thread', () => api.calls.filter((c) => /\/threads$/.test(c.path))[1]);
+    const second = String(started.answer!.id);
+    const prompt = await waitFor('the metric prompt', () => api.messagesIn(second).find((c) => (c.body.components as unknown[]).length > 0));
+    const rows = prompt.body.components as { components: { type: number; custom_id: string; max_values?: number; options?: { value: string }[] }[] }[];
+    const select = rows[0]!.components[0]!;
+    expect(select).toMatchObject({ type: 3, custom_id: 'tc:select', min_values: 1 });
+    expect(select.max_values).toBe(select.options!.length);
+    expect(rows[1]!.components[0]).toMatchObject({ type: 2, label: 'Use recommended' });
+    click(second, prompt, { custom_id: 'tc:select', component_type: 3, values: ['revenue', 'bookings'] });
+    await waitFor('the selection delivered', () => delivered.find((d) => d.threadId === `discord:${second}` && d.text === 'revenue, bookings'));
+  });
+
+  it('ignores messages that do not mention it outside its threads, and its own', async () => {
+    const before = delivered.length;
+    dispatch(adapter.client, 'MESSAGE_CREATE', userMessage(CHANNEL, 'lunch at noon?'));
+    dispatch(adapter.client, 'MESSAGE_CREATE', { ...userMessage(threadId, 'a bot talking'), author: BOT_USER });
+    await new Promise((r) => setTimeout(r, 50));
+    expect(delivered).toHaveLength(before);
+  });
+
+  it('keeps within Discord\'s limits', () => {
+    const long = discordMessage({ key: 'k', text: 'x'.repeat(5000) });
+    expect(long.content.length).toBe(2000);
+    const bold = discordMessage({ key: 'k', text: '*Summary*\n- _Note: partial_' });
+    expect(bold.content).toBe('**Summary**\n- _Note: partial_');
+  });
+});
