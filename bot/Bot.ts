@@ -3,9 +3,10 @@
 // a restart resumes where it was.
 import type { LimitFunction } from 'p-limit';
 import { answerSubQuestion } from '../analysis/answer-sub-question.js';
+import { timePhase, type PhaseTimings } from '../analysis/phase-timings.js';
 import { checkQuality } from '../analysis/quality/check-run.js';
 import type { Takeaway } from '../analysis/present/presenter.js';
-import type { Answer, Audience, SubQuestion } from '../analysis/types.js';
+import type { Answer, Audience, ResultTable, SubQuestion } from '../analysis/types.js';
 import { refreshCoverage, type Workspace } from '../analysis/workspace.js';
 import { readCommand } from './commands.js';
 import { readRequest } from './intake.js';
@@ -23,11 +24,14 @@ export interface PresentedPost {
 }
 
 /** Turns one answered sub-question into a post (chart, caption, CSV, SQL) and its takeaway. */
-export type AnswerPresenter = (answer: Answer, ctx: { workspace: Workspace; audience: Audience; position: number }) => Promise<PresentedPost>;
+export type AnswerPresenter = (
+  answer: Answer,
+  ctx: { workspace: Workspace; audience: Audience; position: number; timings?: PhaseTimings },
+) => Promise<PresentedPost>;
 /** Writes the closing summary from the takeaways of the answers. */
 export type SummaryPresenter = (
   takeaways: (Takeaway & { position: number })[],
-  ctx: { workspace: Workspace; audience: Audience; failures: number; charts: Map<number, Buffer>; requestText: string },
+  ctx: { workspace: Workspace; audience: Audience; failures: number; charts: Map<number, Buffer>; requestText: string; timings?: PhaseTimings },
 ) => Promise<Omit<OutgoingPost, 'key'>>;
 
 export interface BotTimings {
@@ -45,6 +49,8 @@ export interface BotDeps {
   /** Shared across threads: bounds how many sub-questions compute at once. */
   jobs: LimitFunction;
   timings?: BotTimings;
+  /** Collects the time each phase of a run takes (the benchmark passes one; absent, nothing is timed). */
+  phases?: PhaseTimings;
   /** Called when a sub-question job starts, for tests that stop the process part-way. */
   onJobStart?: (threadId: string, sq: SubQuestion) => void;
 }
@@ -52,7 +58,12 @@ export interface BotDeps {
 export class Bot {
   constructor(private readonly deps: BotDeps) {}
 
-  async handle(msg: IncomingMessage): Promise<void> {
+  /** Messages in one thread are handled one at a time; runs go on in the background. */
+  handle(msg: IncomingMessage): Promise<void> {
+    return this.inThread(msg.threadId, () => this.handleNow(msg));
+  }
+
+  private async handleNow(msg: IncomingMessage): Promise<void> {
     const state = await this.deps.store.get(msg.threadId);
     const command = readCommand(msg.text);
     if (command) return this.onCommand(command, msg, state);
@@ -71,25 +82,62 @@ export class Bot {
 
   /** After a restart: carry on every run that was under way. */
   async resume(): Promise<void> {
-    for (const state of await this.deps.store.list({ stages: ['running'] })) await this.runPlan(state);
+    for (const state of await this.deps.store.list({ stages: ['running'] })) this.startRun(state);
+  }
+
+  /** Resolves when every run started so far has finished; rejects if one of them failed. */
+  async idle(): Promise<void> {
+    while (this.runs.size > 0) await Promise.all([...this.runs.values()]);
+  }
+
+  private readonly runs = new Map<string, Promise<void>>();
+  private readonly queues = new Map<string, Promise<unknown>>();
+
+  /** Serialises work on one thread's state, so a reply, a tick and a run step never interleave. */
+  private inThread<T>(threadId: string, work: () => Promise<T>): Promise<T> {
+    const prior = this.queues.get(threadId) ?? Promise.resolve();
+    const next = prior.then(work, work);
+    const settled = next.then(
+      () => undefined,
+      () => undefined,
+    );
+    this.queues.set(threadId, settled);
+    void settled.then(() => {
+      if (this.queues.get(threadId) === settled) this.queues.delete(threadId);
+    });
+    return next;
+  }
+
+  private startRun(state: ThreadState): void {
+    if (this.runs.has(state.threadId)) return;
+    const run = this.runPlan(state).finally(() => this.runs.delete(state.threadId));
+    this.runs.set(state.threadId, run);
+    // Failures surface through idle(); the thread keeps its state so the run can resume.
+    run.catch(() => undefined);
   }
 
   /** Periodic check: remind a requester who has not answered, warn when a deadline nears unagreed. */
   async tick(): Promise<void> {
     const now = this.deps.now().getTime();
     const t = this.deps.timings ?? { remindAfterMs: 4 * 3_600_000, deadlineWarningMs: 24 * 3_600_000 };
-    for (const state of await this.deps.store.list({ stages: ['clarifying', 'planning'] })) {
-      if (state.waitingSince && state.remindedAtTurn !== state.turn && now - Date.parse(state.waitingSince) >= t.remindAfterMs) {
-        state.remindedAtTurn = state.turn + 1;
-        await this.say(state, 'reminder', replies.reminder(state));
-      }
-      const deadline = state.brief.deadline;
-      if (deadline && deadline !== 'none' && !state.deadlineWarned) {
-        const due = Date.parse(`${deadline}T23:59:59Z`);
-        if (due - now <= t.deadlineWarningMs) {
-          state.deadlineWarned = true;
-          await this.say(state, 'deadline', replies.deadlineNear(deadline, this.locale));
-        }
+    for (const listed of await this.deps.store.list({ stages: ['clarifying', 'planning'] })) {
+      await this.inThread(listed.threadId, () => this.checkWaiting(listed.threadId, now, t));
+    }
+  }
+
+  private async checkWaiting(threadId: string, now: number, t: BotTimings): Promise<void> {
+    const state = await this.deps.store.get(threadId);
+    if (!state || (state.stage !== 'clarifying' && state.stage !== 'planning')) return;
+    if (state.waitingSince && state.remindedAtTurn !== state.turn && now - Date.parse(state.waitingSince) >= t.remindAfterMs) {
+      state.remindedAtTurn = state.turn + 1;
+      await this.say(state, 'reminder', replies.reminder(state));
+    }
+    const deadline = state.brief.deadline;
+    if (deadline && deadline !== 'none' && !state.deadlineWarned) {
+      const due = Date.parse(`${deadline}T23:59:59Z`);
+      if (due - now <= t.deadlineWarningMs) {
+        state.deadlineWarned = true;
+        await this.say(state, 'deadline', replies.deadlineNear(deadline, this.locale));
       }
     }
   }
@@ -125,11 +173,16 @@ export class Bot {
         return this.say(state, 'cancelled', replies.cancelled());
       case 'rerun':
         if (!state?.plan || (state.stage !== 'done' && state.stage !== 'cancelled')) return once('rerun', replies.nothingToRerun());
-        await refreshCoverage(this.deps.workspace);
+        // The data may still be down or changed: say so in the thread and keep the plan for later.
+        try {
+          await refreshCoverage(this.deps.workspace);
+        } catch (err) {
+          return this.say(state, 'note', replies.rerunFailed(err));
+        }
         state.run = { number: (state.run?.number ?? 0) + 1, posted: [], takeaways: [], failures: 0 };
         state.stage = 'running';
         await this.deps.store.put(state);
-        return this.runPlan(state);
+        return this.startRun(state);
     }
   }
 
@@ -160,7 +213,7 @@ export class Bot {
     delete state.prompt;
     state.plan = buildPlan(state.brief, this.deps.workspace.dataset, this.deps.workspace.coverage);
     state.stage = 'planning';
-    await this.say(state, 'plan', replies.planText(state.plan, this.deps.workspace.dataset, this.locale));
+    await this.say(state, 'plan', replies.planText(state.plan, this.deps.workspace.dataset, this.locale), undefined, { quickReplies: replies.PLAN_REPLIES });
   }
 
   private async onAnswer(state: ThreadState, text: string): Promise<void> {
@@ -168,7 +221,7 @@ export class Bot {
     const reading = readAnswer(prompt, byOptionNumber(prompt, text), state.brief, this.promptContext);
     if (!reading.ok) {
       state.waitingSince = this.deps.now().toISOString();
-      return this.say(state, 'prompt', `${reading.message}\n\n${replies.promptText(prompt)}`, prompt);
+      return this.say(state, 'prompt', `${reading.message}\n\n${replies.promptText(prompt)}`, prompt, { promptLead: reading.message });
     }
     state.brief = reading.brief;
     await this.advance(state);
@@ -182,7 +235,7 @@ export class Bot {
       delete state.waitingSince;
       state.run = { number: 1, posted: [], takeaways: [], failures: 0 };
       await this.deps.store.put(state);
-      return this.runPlan(state);
+      return this.startRun(state);
     }
     if (edit.type === 'cancel') {
       state.stage = 'cancelled';
@@ -194,7 +247,7 @@ export class Bot {
     const { plan, error } = applyPlanEdit(state.plan!, edit);
     if (error) return this.say(state, 'note', error);
     state.plan = plan;
-    await this.say(state, 'plan', replies.planText(plan, this.deps.workspace.dataset, this.locale));
+    await this.say(state, 'plan', replies.planText(plan, this.deps.workspace.dataset, this.locale), undefined, { quickReplies: replies.PLAN_REPLIES });
   }
 
   /**
@@ -202,23 +255,24 @@ export class Bot {
    * posts go out in plan order as each is ready. A sub-question already posted is skipped, so
    * a resumed run never posts twice.
    */
-  private async runPlan(state: ThreadState): Promise<void> {
-    const plan = state.plan!;
-    const run = state.run!;
-    const audience = state.brief.audience ?? 'managers';
+  private async runPlan(started: ThreadState): Promise<void> {
+    const threadId = started.threadId;
+    const plan = started.plan!;
+    const run = started.run!;
+    const audience = started.brief.audience ?? 'managers';
     const ws = this.deps.workspace;
-    const runKey = (name: string) => `${state.threadId}:run${run.number}:${name}`;
+    const runKey = (name: string) => `${threadId}:run${run.number}:${name}`;
     // Charts of this process's answers, for the digest (after a restart, only those made since).
     const charts = new Map<number, Buffer>();
     // One data-quality pass per run; if it cannot run, each answer reports its own error.
     const quality = await checkQuality(plan.items, ws).catch(() => undefined);
-    const progressRef = await this.postOnce(state.threadId, runKey('progress'), { text: replies.progress(run.posted.length, plan.items.length) });
+    const progressRef = await this.postOnce(threadId, runKey('progress'), { text: replies.progress(run.posted.length, plan.items.length) });
     const pending = plan.items.map((sq, i) =>
       run.posted.includes(sq.id)
         ? null
         : this.deps
             .jobs(async () => {
-              this.deps.onJobStart?.(state.threadId, sq);
+              this.deps.onJobStart?.(threadId, sq);
               const answer = await answerSubQuestion(sq, ws, { ...(quality ? { quality } : {}), now: this.deps.now() });
               return this.deps.presentAnswer(answer, { workspace: ws, audience, position: i + 1 });
             })
@@ -228,34 +282,50 @@ export class Bot {
               (err: unknown) => ({ presented: null, failure: replies.subQuestionFailed(i + 1, err) }),
             ),
     );
+    // This run is still the thread's current one and has not been cancelled.
+    const current = (s: ThreadState | undefined): s is ThreadState => !!s && s.stage === 'running' && s.run?.number === run.number;
     for (const [i, sq] of plan.items.entries()) {
       const job = pending[i];
       if (!job) continue;
       const { presented, failure } = await job;
-      const current = await this.deps.store.get(state.threadId);
-      if (current?.stage === 'cancelled') return;
-      await this.postOnce(state.threadId, runKey(`answer:${sq.id}`), presented ? presented.post : { text: failure! });
-      run.posted.push(sq.id);
-      if (presented?.takeaway) run.takeaways.push({ ...presented.takeaway, position: i + 1 });
+      const stillOn = await this.inThread(threadId, async () => {
+        const state = await this.deps.store.get(threadId);
+        if (!current(state)) return false;
+        await this.postOnce(threadId, runKey(`answer:${sq.id}`), presented ? presented.post : { text: failure! });
+        state.run!.posted.push(sq.id);
+        if (presented?.takeaway) state.run!.takeaways.push({ ...presented.takeaway, position: i + 1 });
+        if (failure) state.run!.failures++;
+        state.updatedAt = this.deps.now().toISOString();
+        await this.deps.store.put(state);
+        await this.deps.port.update(threadId, progressRef, replies.progress(state.run!.posted.length, plan.items.length));
+        return true;
+      });
       if (presented?.chart) charts.set(i + 1, presented.chart);
-      if (failure) run.failures++;
+      if (!stillOn) return;
+    }
+    await this.inThread(threadId, async () => {
+      const state = await this.deps.store.get(threadId);
+      if (!current(state)) return;
+      const summary = await this.deps.presentSummary(state.run!.takeaways, {
+        workspace: ws,
+        audience,
+        failures: state.run!.failures,
+        charts,
+        requestText: state.brief.requestText,
+      });
+      await this.postOnce(threadId, runKey('summary'), summary);
+      state.stage = 'done';
       state.updatedAt = this.deps.now().toISOString();
       await this.deps.store.put(state);
-      await this.deps.port.update(state.threadId, progressRef, replies.progress(run.posted.length, plan.items.length));
-    }
-    const summary = await this.deps.presentSummary(run.takeaways, { workspace: ws, audience, failures: run.failures, charts, requestText: state.brief.requestText });
-    await this.postOnce(state.threadId, runKey('summary'), summary);
-    state.stage = 'done';
-    state.updatedAt = this.deps.now().toISOString();
-    await this.deps.store.put(state);
+    });
   }
 
   /** Posts under a fresh key; the state (with its turn counter) is saved first. */
-  private async say(state: ThreadState, prefix: string, text: string, prompt?: Prompt): Promise<void> {
+  private async say(state: ThreadState, prefix: string, text: string, prompt?: Prompt, extra: Pick<OutgoingPost, 'promptLead' | 'quickReplies'> = {}): Promise<void> {
     const key = `${state.threadId}:${prefix}:${state.turn++}`;
     state.updatedAt = this.deps.now().toISOString();
     await this.deps.store.put(state);
-    await this.postOnce(state.threadId, key, { text, ...(prompt ? { prompt } : {}) });
+    await this.postOnce(state.threadId, key, { text, ...(prompt ? { prompt } : {}), ...extra });
   }
 
   /** A key posted before (in this process or before a restart) is not posted again. */

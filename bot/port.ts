@@ -15,7 +15,18 @@ export interface OutgoingPost {
   key: string;
   text: string;
   prompt?: Prompt;
+  /** With a prompt: what the bot says before asking (e.g. why the last answer was not read). */
+  promptLead?: string;
+  /** One-click replies a platform may show as buttons (e.g. "go" and "cancel" under the plan). */
+  quickReplies?: QuickReply[];
   files?: OutgoingFile[];
+}
+
+export interface QuickReply {
+  /** What the click sends, as if typed. */
+  value: string;
+  label: string;
+  primary: boolean;
 }
 
 export interface ThreadPort {

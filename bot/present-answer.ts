@@ -3,6 +3,7 @@
 import { renderChart } from '../analysis/charts/render.js';
 import { renderDigest } from '../analysis/charts/render-digest.js';
 import { formatPeriod } from '../analysis/format.js';
+import { timePhase } from '../analysis/phase-timings.js';
 import { presenterFor, type PresentContext } from '../analysis/present/index.js';
 import { sqlForReaders } from '../analysis/sql/render-sql.js';
 import { tableToCsv } from '../analysis/table-csv.js';
@@ -16,22 +17,25 @@ export function presentContext(ws: Workspace, audience: Audience): PresentContex
   return { dataset: ws.dataset, locale: c.locale, audience, chart: { width: c.width, height: c.height, scale: c.scale }, dataAsOf: ws.coverage.lastDate };
 }
 
-export const presentAnswer: AnswerPresenter = async (answer, { workspace, audience, position }) => {
+export const presentAnswer: AnswerPresenter = async (answer, { workspace, audience, position, timings }) => {
   const sq = answer.subQuestion;
-  const presented = presenterFor(sq.template)(answer, presentContext(workspace, audience));
+  const presented = timePhase(timings, 'read', () => presenterFor(sq.template)(answer, presentContext(workspace, audience)));
   const stem = `${String(position).padStart(2, '0')}-${sq.template}-${sq.metrics.join('-')}`;
   const files: OutgoingFile[] = [];
-  const chart = presented.chart ? await renderChart(presented.chart) : null;
+  const spec = presented.chart;
+  const chart = spec ? await timePhase(timings, 'render', () => renderChart(spec)) : null;
   if (chart) files.push({ name: `${stem}.png`, kind: 'chart', content: chart });
-  for (const [name, table] of Object.entries(answer.tables)) {
-    files.push({ name: Object.keys(answer.tables).length === 1 ? `${stem}.csv` : `${stem}-${name}.csv`, kind: 'table', content: tableToCsv(table) });
-  }
-  files.push({ name: `${stem}.sql`, kind: 'sql', content: sqlForReaders(answer.queries, workspace.source.dialect.name) });
+  timePhase(timings, 'post', () => {
+    for (const [name, table] of Object.entries(answer.tables)) {
+      files.push({ name: Object.keys(answer.tables).length === 1 ? `${stem}.csv` : `${stem}-${name}.csv`, kind: 'table', content: tableToCsv(table) });
+    }
+    files.push({ name: `${stem}.sql`, kind: 'sql', content: sqlForReaders(answer.queries, workspace.source.dialect.name) });
+  });
   const text = [`*${position}. ${presented.title}*`, presented.caption, ...presented.notes.map((n) => `_Note: ${n}_`)].join('\n');
   return { post: { text, files }, takeaway: presented.takeaway, chart };
 };
 
-export const presentSummary: SummaryPresenter = async (takeaways, { workspace, failures, charts, requestText }) => {
+export const presentSummary: SummaryPresenter = async (takeaways, { workspace, failures, charts, requestText, timings }) => {
   // The most important few, told in the order they were asked.
   const top = [...takeaways]
     .sort((a, b) => b.importance - a.importance || a.position - b.position)
@@ -43,12 +47,12 @@ export const presentSummary: SummaryPresenter = async (takeaways, { workspace, f
   const text = `*Summary*\n${lines.join('\n')}${failed}\nEach answer above has its table (CSV) and the SQL that produced it attached; the digest below puts the key charts and takeaways on one page for forwarding. These are descriptive figures from ${workspace.dataset.label}; comparisons between groups are observational, and your organisation's data-governance rules apply before sharing further.`;
   const withCharts = top.filter((t) => charts.has(t.position)).slice(0, 4);
   const asOf = workspace.coverage.lastDate ? formatPeriod(workspace.coverage.lastDate, 'day', workspace.config.charts.locale) : 'n/a';
-  const digest = await renderDigest({
+  const digest = await timePhase(timings, 'render', () => renderDigest({
     title: `${workspace.dataset.label}: key findings`,
     subtitle: `Answering: "${requestText.length > 140 ? `${requestText.slice(0, 137)}...` : requestText}"`,
     takeaways: top,
     charts: withCharts.map((t) => ({ png: charts.get(t.position)!, position: t.position })),
     footer: `Source: ${workspace.dataset.label} · Data as of ${asOf} · Observational figures; follow your organisation's data-governance rules`,
-  });
+  }));
   return { text, files: [{ name: 'digest.png', kind: 'digest', content: digest }] };
 };

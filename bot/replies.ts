@@ -81,6 +81,12 @@ function capitalise(s: string): string {
   return s.charAt(0).toUpperCase() + s.slice(1);
 }
 
+/** The plan's one-click replies, for platforms with buttons. */
+export const PLAN_REPLIES = [
+  { value: 'go', label: 'Go: run the plan', primary: true },
+  { value: 'cancel', label: 'Cancel', primary: false },
+];
+
 export function planEditHelp(): string {
   return 'I didn\'t catch that. Reply "go" to run the plan, "drop 2" (or "drop 1 and 3") to remove items, a grain such as "weekly" to change it, or "cancel".';
 }
@@ -113,18 +119,26 @@ export function progress(done: number, total: number): string {
 }
 
 export function subQuestionFailed(position: number, err: unknown): string {
-  const reason =
-    err instanceof SourceError
-      ? {
-          timeout: `${err.message}. Try a shorter period, or say "rerun" later.`,
-          unreachable: `the dataset could not be reached (${err.message}). Say "rerun" once it is back.`,
-          missing_table: `${err.message}. The dataset may have changed since the plan was made.`,
-          query_failed: `${err.message}.`,
-        }[err.code]
-      : err instanceof CatalogError
-        ? `${err.message}.`
-        : `an unexpected error (${err instanceof Error ? err.message : String(err)}).`;
-  return `${position}. I could not answer this one: ${reason} The other answers are not affected.`;
+  return `${position}. I could not answer this one: ${problemText(err)} The other answers are not affected.`;
+}
+
+/** A rerun that could not start (the data could not be read again); the plan is kept. */
+export function rerunFailed(err: unknown): string {
+  return `I could not rerun the plan: ${problemText(err)} The plan is kept as it was.`;
+}
+
+function problemText(err: unknown): string {
+  return err instanceof SourceError
+    ? {
+        timeout: `${err.message}. Try a shorter period, or say "rerun" later.`,
+        unreachable: `the dataset could not be reached (${err.message}). Say "rerun" once it is back.`,
+        missing_table: `${err.message}. The dataset may have changed since the plan was made; say "rerun" once the table is back.`,
+        dataset_changed: `the dataset has changed since the plan was made: ${err.message}. Once the config and the table agree again, say "rerun".`,
+        query_failed: `${err.message}.`,
+      }[err.code]
+    : err instanceof CatalogError
+      ? `${err.message}.`
+      : `an unexpected error (${err instanceof Error ? err.message : String(err)}).`;
 }
 
 export function stillRunning(state: ThreadState): string {

@@ -22,6 +22,8 @@ export async function playScriptedConversation(c: ScriptedConversation): Promise
   const say = async (text: string) => {
     c.onRequesterMessage?.(text);
     await c.bot.handle({ threadId: c.threadId, author: c.requester, text });
+    // A run goes on in the background; the scripted requester waits for it like a person would.
+    await c.bot.idle();
   };
   await say(c.request);
   const planReplies = [...(c.answers.plan ?? ['go'])];

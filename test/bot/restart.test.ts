@@ -36,7 +36,10 @@ describe('restarts', () => {
   it('resumes clarifying and planning where they were', async () => {
     const statePath = join(mkdtempSync(join(tmpdir(), 'tc-state-')), 'state.duckdb');
     const port = new RecordingPort();
-    const say = (bot: Bot, text: string) => bot.handle({ threadId: 't1', author: 'maren', text });
+    const say = async (bot: Bot, text: string) => {
+      await bot.handle({ threadId: 't1', author: 'maren', text });
+      await bot.idle();
+    };
 
     let p = await start(statePath, port);
     await say(p.bot, 'How has revenue moved over time?');
@@ -63,7 +66,10 @@ describe('restarts', () => {
   it('resumes a run stopped part-way without posting any answer twice', async () => {
     const statePath = join(mkdtempSync(join(tmpdir(), 'tc-state-')), 'state.duckdb');
     const port = new RecordingPort();
-    const say = (bot: Bot, text: string) => bot.handle({ threadId: 't2', author: 'maren', text });
+    const say = async (bot: Bot, text: string) => {
+      await bot.handle({ threadId: 't2', author: 'maren', text });
+      await bot.idle();
+    };
     let p = await start(statePath, port);
     await say(p.bot, 'How have revenue, bookings and passengers moved over time?');
     for (const answer of ['analysts', 'none', 'monthly', 'all']) await say(p.bot, answer);
@@ -78,6 +84,7 @@ describe('restarts', () => {
     p = await start(statePath, port);
     expect((await p.store.get('t2'))!.stage).toBe('running');
     await p.bot.resume();
+    await p.bot.idle();
     const answers = port.inThread('t2').filter((m) => m.key.includes(':answer:'));
     expect(answers).toHaveLength(planned);
     expect(port.inThread('t2').filter((m) => m.key.endsWith(':summary'))).toHaveLength(1);
@@ -92,7 +99,10 @@ describe('restarts', () => {
     const statePath = join(mkdtempSync(join(tmpdir(), 'tc-state-')), 'state.duckdb');
     const port = new RecordingPort();
     const p = await start(statePath, port);
-    const say = (threadId: string, text: string) => p.bot.handle({ threadId, author: 'maren', text });
+    const say = async (threadId: string, text: string) => {
+      await p.bot.handle({ threadId, author: 'maren', text });
+      await p.bot.idle();
+    };
     await say('c1', 'What can you measure?');
     expect(port.inThread('c1')[0]!.text).toMatch(/Share of revenue refunded/);
     expect(port.inThread('c1')[0]!.text).not.toMatch(/Customer email/);
@@ -127,6 +137,37 @@ describe('restarts', () => {
     clock = new Date('2026-12-03T08:00:00Z');
     await bot.tick();
     expect(port.inThread('t5').filter((m) => /deadline .* is close/.test(m.text))).toHaveLength(1);
+    await store.close();
+  });
+
+  it('stops a run when the requester cancels part-way, and says so', async () => {
+    const statePath = join(mkdtempSync(join(tmpdir(), 'tc-state-')), 'state.duckdb');
+    const port = new RecordingPort();
+    const store = await DuckDbStateStore.open(statePath);
+    let cancelSent = false;
+    const bot: Bot = new Bot({
+      workspace: ws, port, store, now: () => now, presentAnswer, presentSummary, jobs: pLimit(1),
+      // The requester types "cancel" as soon as the first sub-question starts computing.
+      onJobStart: (threadId) => {
+        if (!cancelSent) {
+          cancelSent = true;
+          void bot.handle({ threadId, author: 'maren', text: 'cancel' });
+        }
+      },
+    });
+    const say = async (text: string) => {
+      await bot.handle({ threadId: 't6', author: 'maren', text });
+      await bot.idle();
+    };
+    await say('How have revenue, bookings and passengers moved over time?');
+    for (const answer of ['managers', 'none', 'monthly', 'all']) await say(answer);
+    const planned = (await store.get('t6'))!.plan!.items.length;
+    await say('go');
+    const thread = port.inThread('t6');
+    expect(thread.filter((m) => m.key.includes(':answer:')).length).toBeLessThan(planned);
+    expect(thread.some((m) => m.key.endsWith(':summary'))).toBe(false);
+    expect(thread.some((m) => m.text.startsWith('Cancelled'))).toBe(true);
+    expect((await store.get('t6'))!.stage).toBe('cancelled');
     await store.close();
   });
 });
