@@ -1,7 +1,8 @@
 import { formatPeriod, formatValue, type ValueFormat } from '../format.js';
 import type { Grain, PeriodPoint } from '../types.js';
+import { nextPeriod } from '../periods.js';
 import { headerOf } from './header.js';
-import type { ChartHeader, LineMark, LineSpec } from './spec.js';
+import type { ChartHeader, LineEvent, LineMark, LineSpec } from './spec.js';
 
 export interface LineInput extends ChartHeader {
   /** Name of the series, e.g. "Revenue"; shown in the legend when there is an overlay. */
@@ -11,6 +12,8 @@ export interface LineInput extends ChartHeader {
   format: ValueFormat;
   /** The same periods a year earlier, aligned with `points` by index. */
   overlay?: { label: string; values: (number | null)[] };
+  /** Dated events (a launch, a price change) marked with a thin vertical rule and a short label. */
+  events?: LineEvent[];
 }
 
 export function buildLine(input: LineInput): LineSpec {
@@ -34,6 +37,8 @@ export function buildLine(input: LineInput): LineSpec {
     const values = points.map((_, i) => finiteOrNull(input.overlay!.values[i] ?? null));
     spec.overlay = { label: input.overlay.label, values };
   }
+  const events = (input.events ?? []).filter((e) => Number.isInteger(e.index) && e.index >= 0 && e.index < points.length && e.label.trim() !== '');
+  if (events.length > 0) spec.events = events.map((e) => ({ index: e.index, label: e.label.trim() }));
   return spec;
 }
 
@@ -65,4 +70,17 @@ function highLowMarks(points: PeriodPoint[], grain: Grain, fmt: ValueFormat): Li
 
 function finiteOrNull(v: number | null): number | null {
   return v !== null && Number.isFinite(v) ? v : null;
+}
+
+/**
+ * Index of the point whose period contains `date` (ISO), for placing an event; null when the
+ * date falls outside the points (before the first period or after the last one ends).
+ */
+export function periodIndexOf(points: readonly { period: string }[], date: string, grain: Grain): number | null {
+  const day = date.slice(0, 10);
+  for (let i = points.length - 1; i >= 0; i--) {
+    const start = points[i]!.period.slice(0, 10);
+    if (start <= day) return day < nextPeriod(start, grain) ? i : null;
+  }
+  return null;
 }

@@ -11,13 +11,19 @@ export interface ParetoInput extends ChartHeader {
   /** Bars shown before the tail is folded (default 10). */
   topN?: number;
   othersLabel?: string;
+  /**
+   * The tail was folded upstream (in SQL): the remainder (its bar last, in the neutral colour,
+   * where the running share reaches 100%), or null when nothing was left over. Either way
+   * `items` are not folded again.
+   */
+  folded?: SegmentValue | null;
   /** Reference share (default 0.8: the "80/20" line). */
   threshold?: number;
 }
 
 export function buildPareto(input: ParetoInput): ParetoSpec {
   const threshold = input.threshold ?? 0.8;
-  const folded = foldTail(input.items, input.topN ?? 10, input.othersLabel ?? 'All others');
+  const folded = foldTail(input.items, input.topN ?? 10, input.othersLabel ?? 'All others', input.folded);
   // Shares of a total only make sense for non-negative parts; negatives count as zero.
   const total = folded.reduce((sum, s) => sum + Math.max(0, s.value), 0);
   const shareFmt: ValueFormat = { unit: 'percent', decimals: 0, locale: input.format.locale };

@@ -111,9 +111,28 @@ export function valueAxis(layout: FrameLayout, fmt: ValueFormat) {
       color: INK.muted,
       padding: 8 * layout.u,
       maxTicksLimit: 6,
-      callback: (value: number | string) => formatValue(Number(value), fmt, { compact: true }),
+      callback: (value: number | string, _i: number, ticks: { value: number }[]) => formatTick(Number(value), ticks.map((t) => t.value), fmt),
     },
   };
+}
+
+/**
+ * One axis label. Every tick gets the same, fewest decimals that show all of them exactly:
+ * "0%, 20%, 40%" rather than "0.0%, 20.0%", and "€19.50, €20.00" rather than "€19.5, €20".
+ * Large values keep the compact form ("€1.5M").
+ */
+export function formatTick(value: number, ticks: readonly number[], fmt: ValueFormat): string {
+  const all = ticks.length > 0 ? ticks : [value];
+  const exactAt = (scale: number, d: number) => all.every((t) => Math.abs(t * scale * 10 ** d - Math.round(t * scale * 10 ** d)) < 1e-6);
+  if (fmt.unit === 'percent') {
+    const d = [0, 1, 2, 3].find((k) => exactAt(100, k)) ?? 3;
+    return formatValue(value, { ...fmt, decimals: d });
+  }
+  if (Math.max(...all.map(Math.abs)) < 1000) {
+    const d = fmt.unit === 'currency' ? (exactAt(1, 0) ? 0 : 2) : ([0, 1, 2, 3].find((k) => exactAt(1, k)) ?? 3);
+    return formatValue(value, { ...fmt, decimals: d });
+  }
+  return formatValue(value, fmt, { compact: true });
 }
 
 export function categoryAxis(layout: FrameLayout) {

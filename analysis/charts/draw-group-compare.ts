@@ -35,6 +35,7 @@ export function drawGroupCompare(canvas: Canvas, spec: GroupCompareSpec): DrawRe
     }),
   );
   const maxValue = Math.max(0, ...spec.groups.map((g) => Math.max(g.estimate, g.high ?? g.estimate)));
+  const axis = niceAxis(maxValue * 1.04);
 
   const config: ChartConfiguration<'bar'> = {
     type: 'bar',
@@ -58,8 +59,10 @@ export function drawGroupCompare(canvas: Canvas, spec: GroupCompareSpec): DrawRe
         x: {
           ...valueAxis(layout, spec.format),
           beginAtZero: true,
-          // A round maximum just past the data: chart.js's own choice can leave a third empty.
-          max: niceCeil(maxValue * 1.04),
+          // A round maximum just past the data, on a whole number of round steps: chart.js's own
+          // choice can leave a third empty, or end on a stray tick ("100K 120K" after steps of 50K).
+          max: axis.max,
+          ticks: { ...valueAxis(layout, spec.format).ticks, stepSize: axis.step, maxTicksLimit: axis.intervals + 1 },
           title: axisTitle(layout, spec.valueLabel),
         },
         y: {
@@ -109,9 +112,16 @@ export function drawGroupCompare(canvas: Canvas, spec: GroupCompareSpec): DrawRe
   return { geometry, release: () => chart.destroy() };
 }
 
-function niceCeil(v: number): number {
-  if (!(v > 0)) return 1;
-  const magnitude = 10 ** Math.floor(Math.log10(v));
-  const step = [1, 1.2, 1.5, 2, 2.5, 3, 4, 5, 6, 8, 10].find((m) => m * magnitude >= v - 1e-12) ?? 10;
-  return step * magnitude;
+/** The smallest round maximum reachable in 4 to 6 round steps (1, 2, 2.5 or 5 × 10^k) at or above `v`. */
+export function niceAxis(v: number): { max: number; step: number; intervals: number } {
+  if (!(v > 0)) return { max: 1, step: 0.2, intervals: 5 };
+  let best = { max: Number.POSITIVE_INFINITY, step: 1, intervals: 5 };
+  for (const intervals of [4, 5, 6]) {
+    const raw = v / intervals;
+    const magnitude = 10 ** Math.floor(Math.log10(raw));
+    const step = [1, 2, 2.5, 5, 10].map((m) => m * magnitude).find((st) => st >= raw * (1 - 1e-9))!;
+    const max = Number((step * intervals).toPrecision(12));
+    if (max < best.max * (1 - 1e-9)) best = { max, step, intervals };
+  }
+  return best;
 }

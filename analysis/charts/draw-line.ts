@@ -2,13 +2,15 @@ import type { Canvas, SKRSContext2D } from '@napi-rs/canvas';
 import type { Chart, ChartConfiguration, ScriptableLineSegmentContext } from 'chart.js';
 import { axisTitle, baseOptions, categoryAxis, chartArea, drawBackedText, drawChartJs, tickFont, valueAxis } from './chartjs.js';
 import { layoutFrame, type LegendItem } from './frame.js';
-import { emptyGeometry, scaleBox, type DrawResult, type Box } from './geometry.js';
+import { emptyGeometry, scaleBox, type Box, type DrawResult, type PlacedLine } from './geometry.js';
+import { pickPlacement, polyline, type Candidate, type Obstacle } from './placement.js';
 import type { LineSpec } from './spec.js';
 import { timeTicks } from './axis-ticks.js';
 import { font, INK, OKABE_ITO } from './theme.js';
 
 const MAIN = OKABE_ITO.blue;
 const OVERLAY = '#8FBFE0'; // Okabe–Ito sky blue, lightened: last year recedes behind this year.
+const EVENT = INK.text;
 
 export function drawLine(canvas: Canvas, spec: LineSpec): DrawResult {
   const ctx = canvas.getContext('2d');
@@ -82,11 +84,15 @@ export function drawLine(canvas: Canvas, spec: LineSpec): DrawResult {
   }
 
   const marks: { role: string; x: number; y: number; box: Box }[] = [];
+  const lines: PlacedLine[] = [];
+  const events = spec.events ?? [];
+  // Event labels sit in a band above the plot, so they never cover the data.
+  const eventRoom = events.length > 0 ? 24 * u : 0;
   const config: ChartConfiguration<'line'> = {
     type: 'line',
     data: { labels, datasets },
     options: {
-      ...baseOptions(layout, spec.scale),
+      ...baseOptions(layout, spec.scale, { top: eventRoom }),
       scales: {
         x: {
           ...categoryAxis(layout),
@@ -111,7 +117,7 @@ export function drawLine(canvas: Canvas, spec: LineSpec): DrawResult {
   };
 
   const chart = drawChartJs(canvas, layout, config, {
-    afterDatasets: (c, cx) => drawMarks(c, cx, spec, layout.u, layout.margin, layout.width, marks),
+    afterDatasets: (c, cx) => drawAnnotations(c, cx, spec, layout.u, eventRoom, marks, lines),
   });
   const s = spec.scale;
   const geometry = emptyGeometry(canvas.width, canvas.height, scaleBox(chartArea(chart), s));
@@ -120,32 +126,71 @@ export function drawLine(canvas: Canvas, spec: LineSpec): DrawResult {
     y: values[i] === null ? Number.NaN : el.y * s,
   }));
   geometry.marks = marks.map((m) => ({ role: m.role, x: m.x * s, y: m.y * s, box: scaleBox(m.box, s) }));
+  geometry.lines = lines.map((l) => ({ role: l.role, x1: l.x1 * s, y1: l.y1 * s, x2: l.x2 * s, y2: l.y2 * s }));
   // chart.js clears the canvas when destroyed, so the caller releases it after encoding.
   return { geometry, release: () => chart.destroy() };
 }
 
-function drawMarks(
+/** Event rules and labels, then the high and low markers with labels placed clear of both lines. */
+function drawAnnotations(
   chart: Chart,
   ctx: SKRSContext2D,
   spec: LineSpec,
   u: number,
-  margin: number,
-  width: number,
+  eventRoom: number,
   out: { role: string; x: number; y: number; box: Box }[],
+  lines: PlacedLine[],
 ): void {
   const meta = chart.getDatasetMeta(0);
-  const overlayMeta = spec.overlay ? chart.getDatasetMeta(1) : undefined;
   const area = chartArea(chart);
-  const labelFont = font(14 * u, true);
-  for (const mark of spec.marks) {
-    const el = meta.data[mark.index];
-    if (!el) continue;
-    const { x, y } = el;
-    // Keep the label clear of the overlay line at the same period, too.
-    const other = overlayMeta?.data[mark.index];
-    const otherY = other && spec.overlay?.values[mark.index] !== null && Number.isFinite(other.y) ? other.y : y;
-    const clearAbove = Math.min(y, otherY);
-    const clearBelow = Math.max(y, otherY);
+  const pointsOf = (data: { x: number; y: number }[], vals: (number | null)[]) =>
+    data.map((el, i) => (vals[i] === null || vals[i] === undefined ? null : { x: el.x, y: el.y }));
+  const main = pointsOf(meta.data, spec.points.map((p) => p.value));
+  const overlay = spec.overlay ? pointsOf(chart.getDatasetMeta(1).data, spec.overlay.values) : [];
+  const overlaySegments = polyline(overlay);
+  for (const seg of overlaySegments) lines.push({ role: 'overlay', x1: seg.a.x, y1: seg.a.y, x2: seg.b.x, y2: seg.b.y });
+  const obstacles: Obstacle[] = [
+    ...polyline(main).map((segment) => ({ kind: 'segment' as const, segment, weight: 40 })),
+    ...overlaySegments.map((segment) => ({ kind: 'segment' as const, segment, weight: 40 })),
+  ];
+
+  // Events: a thin dashed rule through the plot, its label in the band above.
+  const eventFont = font(13 * u, true);
+  const xScale = chart.scales['x']!;
+  for (const event of spec.events ?? []) {
+    const x = xScale.getPixelForValue(event.index);
+    if (!Number.isFinite(x)) continue;
+    ctx.font = eventFont;
+    const m = ctx.measureText(event.label);
+    const pad = 2 * u;
+    const w = m.width + 2 * pad;
+    const h = m.actualBoundingBoxAscent + m.actualBoundingBoxDescent + 2 * pad;
+    const top = area.top - eventRoom + 2 * u;
+    // Beside the rule's top, on the side with room.
+    const left = x + 6 * u + w <= area.right ? x + 5 * u : x - 5 * u - w;
+    const box = { left, top, right: left + w, bottom: top + h };
+    ctx.save();
+    ctx.strokeStyle = EVENT;
+    ctx.lineWidth = 1.5 * u;
+    ctx.setLineDash([5 * u, 4 * u]);
+    ctx.beginPath();
+    ctx.moveTo(x, top);
+    ctx.lineTo(x, area.bottom);
+    ctx.stroke();
+    ctx.restore();
+    drawBackedText(ctx, event.label, left + pad, top + pad, { font: eventFont, color: EVENT, align: 'left', baseline: 'top', pad });
+    obstacles.push({ kind: 'segment', segment: { a: { x, y: top }, b: { x, y: area.bottom } }, weight: 8 });
+    obstacles.push({ kind: 'box', box, weight: 100 });
+    out.push({ role: 'event', x, y: area.top, box });
+    lines.push({ role: 'event', x1: x, y1: top, x2: x, y2: area.bottom });
+  }
+
+  // Markers first, so every label can keep clear of every marker.
+  const placed = spec.marks.flatMap((mark) => {
+    const p = main[mark.index];
+    return p ? [{ mark, x: p.x, y: p.y }] : [];
+  });
+  for (const { x, y } of placed) {
     ctx.beginPath();
     ctx.arc(x, y, 6.5 * u, 0, Math.PI * 2);
     ctx.fillStyle = MAIN;
@@ -153,25 +198,67 @@ function drawMarks(
     ctx.lineWidth = 2.5 * u;
     ctx.strokeStyle = INK.background;
     ctx.stroke();
+    obstacles.push({ kind: 'box', box: { left: x - 8 * u, top: y - 8 * u, right: x + 8 * u, bottom: y + 8 * u }, weight: 100 });
+  }
 
+  const labelFont = font(14 * u, true);
+  // The plot, plus a sliver above it; never left of the y axis or over the x axis labels.
+  const bounds = { left: area.left, top: area.top - (eventRoom > 0 ? 0 : 4 * u), right: area.right, bottom: area.bottom - 1 };
+  for (const { mark, x, y } of placed) {
     ctx.font = labelFont;
     const m = ctx.measureText(mark.text);
-    const h = m.actualBoundingBoxAscent + m.actualBoundingBoxDescent;
-    const gap = 14 * u;
-    let above = mark.role === 'high';
-    if (above && clearAbove - gap - h < area.top - 4 * u) above = false;
-    if (!above && clearBelow + gap + h > area.bottom) above = true;
-    // Keep the label inside the image: centred on the point unless that would clip an edge.
-    const half = m.width / 2;
-    const cx = Math.min(Math.max(x, margin + half), width - margin - half);
-    const top = above ? clearAbove - gap - h : clearBelow + gap;
-    const box = drawBackedText(ctx, mark.text, cx, top, {
-      font: labelFont,
-      color: INK.title,
-      align: 'center',
-      baseline: 'top',
-      pad: 3 * u,
-    });
+    const pad = 3 * u;
+    const w = m.width + 2 * pad;
+    const h = m.actualBoundingBoxAscent + m.actualBoundingBoxDescent + 2 * pad;
+    const chosen = pickPlacement(markCandidates(x, y, w, h, mark.role === 'high', u, bounds), obstacles, bounds);
+    const box = chosen.box;
+    if (chosen.leader) {
+      // Moved away from its point: a thin leader keeps the label tied to it.
+      const ty = box.top > y ? box.top : box.bottom;
+      ctx.save();
+      ctx.strokeStyle = INK.muted;
+      ctx.lineWidth = Math.max(1, u);
+      ctx.beginPath();
+      ctx.moveTo(x, y + (ty > y ? 7 * u : -7 * u));
+      ctx.lineTo(Math.min(Math.max(x, box.left + pad), box.right - pad), ty);
+      ctx.stroke();
+      ctx.restore();
+    }
+    drawBackedText(ctx, mark.text, box.left + pad, box.top + pad, { font: labelFont, color: INK.title, align: 'left', baseline: 'top', pad });
+    obstacles.push({ kind: 'box', box, weight: 100 });
     out.push({ role: mark.role, x, y, box });
   }
+}
+
+/**
+ * Where a high or low label may go: above or below its point (the high prefers above, the low
+ * below), centred or shifted sideways, a step or more further out if nearer spots are taken.
+ */
+function markCandidates(x: number, y: number, w: number, h: number, high: boolean, u: number, bounds: Box): (Candidate & { leader: boolean })[] {
+  const out: (Candidate & { leader: boolean })[] = [];
+  const gap = 12 * u;
+  const clampLeft = (left: number) => Math.min(Math.max(left, bounds.left), bounds.right - w);
+  for (const above of high ? [true, false] : [false, true]) {
+    const sidePenalty = above === high ? 0 : 4;
+    for (let level = 0; level < 4; level++) {
+      const off = gap + level * (h + 4 * u);
+      const top = above ? y - off - h : y + off;
+      const lefts: [number, number][] = [
+        [clampLeft(x - w / 2), 0],
+        [clampLeft(x - 10 * u), 1],
+        [clampLeft(x + 10 * u - w), 1],
+      ];
+      for (const [left, shift] of lefts) {
+        out.push({ box: { left, top, right: left + w, bottom: top + h }, penalty: sidePenalty + level * 3 + shift, leader: level > 0 });
+      }
+    }
+  }
+  // Beside the point, level with it.
+  for (const [left, penalty] of [
+    [x + 12 * u, 6],
+    [x - 12 * u - w, 6],
+  ] as const) {
+    out.push({ box: { left, top: y - h / 2, right: left + w, bottom: y + h / 2 }, penalty, leader: false });
+  }
+  return out;
 }

@@ -3,7 +3,8 @@ import type { ChartConfiguration } from 'chart.js';
 import { formatValue } from '../format.js';
 import { axisTitle, baseOptions, categoryAxis, chartArea, drawBackedText, drawChartJs, tickFont, valueAxis } from './chartjs.js';
 import { layoutFrame, type LegendItem } from './frame.js';
-import { emptyGeometry, scaleBox, type DrawResult, type PlacedLine, type PlacedMark } from './geometry.js';
+import { emptyGeometry, scaleBox, type Box, type DrawResult, type PlacedLine, type PlacedMark } from './geometry.js';
+import { inflate, pickPlacement, polyline, type Candidate, type Obstacle } from './placement.js';
 import type { ParetoSpec } from './spec.js';
 import { wrapText } from './text.js';
 import { font, INK, OKABE_ITO } from './theme.js';
@@ -29,6 +30,7 @@ export function drawPareto(canvas: Canvas, spec: ParetoSpec): DrawResult {
   ctx.font = font(tickFont(layout).size);
   const labels = spec.bars.map((b) => wrapText(ctx, b.label, slot - 8 * u, 3));
   const pctFmt = { unit: 'percent' as const, decimals: 0, locale: spec.format.locale };
+  const aligned = alignedScale(spec.bars.map((b) => b.value));
 
   const config = {
     type: 'bar',
@@ -68,7 +70,15 @@ export function drawPareto(canvas: Canvas, spec: ParetoSpec): DrawResult {
       ...baseOptions(layout, spec.scale, { top: 26 * u }),
       scales: {
         x: { ...categoryAxis(layout), ticks: { ...categoryAxis(layout).ticks, autoSkip: false } },
-        y: { ...valueAxis(layout, spec.format), beginAtZero: true, position: 'left', title: axisTitle(layout, spec.valueLabel) },
+        y: {
+          ...valueAxis(layout, spec.format),
+          beginAtZero: true,
+          position: 'left',
+          title: axisTitle(layout, spec.valueLabel),
+          // The same number of steps as the share axis, so both read off the same gridlines.
+          ...(aligned ? { min: 0, max: aligned.max } : {}),
+          ticks: { ...valueAxis(layout, spec.format).ticks, ...(aligned ? { stepSize: aligned.step } : {}) },
+        },
         share: {
           type: 'linear',
           position: 'right',
@@ -80,7 +90,7 @@ export function drawPareto(canvas: Canvas, spec: ParetoSpec): DrawResult {
             font: tickFont(layout),
             color: INK.muted,
             padding: 8 * u,
-            stepSize: 0.2,
+            stepSize: aligned ? 1 / aligned.intervals : 0.2,
             callback: (v: number | string) => formatValue(Number(v), pctFmt),
           },
           title: axisTitle(layout, 'Cumulative share'),
@@ -91,9 +101,18 @@ export function drawPareto(canvas: Canvas, spec: ParetoSpec): DrawResult {
 
   const marks: PlacedMark[] = [];
   const lines: PlacedLine[] = [];
+  const barBoxes: Box[] = [];
   const chart = drawChartJs(canvas, layout, config, {
     afterDatasets: (c, cx) => {
       const area = chartArea(c);
+      // Where each axis put its gridline values, for checking that the two axes share them.
+      for (const [id, role] of [['y', 'value-tick'], ['share', 'share-tick']] as const) {
+        const sc = c.scales[id]!;
+        for (const t of sc.ticks) {
+          const ty = sc.getPixelForValue(t.value);
+          lines.push({ role, x1: area.left, y1: ty, x2: area.right, y2: ty });
+        }
+      }
       const y = c.scales['share']!.getPixelForValue(spec.threshold);
       cx.save();
       cx.strokeStyle = INK.title;
@@ -105,26 +124,46 @@ export function drawPareto(canvas: Canvas, spec: ParetoSpec): DrawResult {
       cx.stroke();
       cx.restore();
       lines.push({ role: 'threshold', x1: area.left, y1: y, x2: area.right, y2: y });
-      drawBackedText(cx, `${formatValue(spec.threshold, pctFmt)} of total`, area.right - 6 * u, y + 6 * u, {
-        font: font(13 * u, true),
-        color: INK.title,
-        align: 'right',
-        baseline: 'top',
-        pad: 2 * u,
-      });
-      // Line points drawn again on top of the reference line, with their running share.
+      // Running-share labels are placed first (above their points); the threshold label then
+      // takes the spot that covers no bar, no label and no stretch of the line.
       const meta = c.getDatasetMeta(0);
-      meta.data.forEach((el, i) => {
-        const bar = spec.bars[i]!;
-        const box = drawBackedText(cx, bar.cumulativeText, el.x, el.y - 10 * u, {
-          font: font(13 * u, true),
-          color: LINE_TEXT,
-          align: 'center',
-          baseline: 'bottom',
-          pad: 2 * u,
-        });
-        marks.push({ role: 'cumulative', x: el.x, y: el.y, box });
+      const shareFont = font(13 * u, true);
+      const cumulative = meta.data.map((el, i) => {
+        const text = spec.bars[i]!.cumulativeText;
+        cx.font = shareFont;
+        const m = cx.measureText(text);
+        const pad = 2 * u;
+        const w = m.width + 2 * pad;
+        const h = m.actualBoundingBoxAscent + m.actualBoundingBoxDescent + 2 * pad;
+        const bottom = el.y - 10 * u + pad;
+        return { el, text, box: { left: el.x - w / 2, top: bottom - h, right: el.x + w / 2, bottom } };
       });
+      const obstacles: Obstacle[] = [
+        ...c.getDatasetMeta(1).data.map((el) => {
+          const { x, y: top, base, width } = el as unknown as { x: number; y: number; base: number; width: number };
+          const box = { left: x - width / 2, top: Math.min(top, base), right: x + width / 2, bottom: Math.max(top, base) };
+          barBoxes.push(box);
+          return { kind: 'box' as const, box, weight: 50 };
+        }),
+        ...cumulative.map((k) => ({ kind: 'box' as const, box: inflate(k.box, 2 * u), weight: 100 })),
+        ...polyline(meta.data.map((el) => ({ x: el.x, y: el.y }))).map((segment) => ({ kind: 'segment' as const, segment, weight: 30 })),
+      ];
+      const label = `${formatValue(spec.threshold, pctFmt)} of total`;
+      const labelFont = font(13 * u, true);
+      cx.font = labelFont;
+      const lm = cx.measureText(label);
+      const pad = 2 * u;
+      const w = lm.width + 2 * pad;
+      const h = lm.actualBoundingBoxAscent + lm.actualBoundingBoxDescent + 2 * pad;
+      const chosen = pickPlacement(thresholdCandidates(area, y, w, h, u, meta.data.map((el) => el.x)), obstacles, area);
+      const tbox = chosen.box;
+      drawBackedText(cx, label, tbox.left + pad, tbox.top + pad, { font: labelFont, color: INK.title, align: 'left', baseline: 'top', pad });
+      marks.push({ role: 'threshold-label', x: (tbox.left + tbox.right) / 2, y, box: tbox });
+      // Line points drawn again on top of the reference line, with their running share.
+      for (const k of cumulative) {
+        drawBackedText(cx, k.text, k.box.left + pad, k.box.top + pad, { font: shareFont, color: LINE_TEXT, align: 'left', baseline: 'top', pad });
+        marks.push({ role: 'cumulative', x: k.el.x, y: k.el.y, box: k.box });
+      }
     },
   });
   const s = spec.scale;
@@ -132,6 +171,43 @@ export function drawPareto(canvas: Canvas, spec: ParetoSpec): DrawResult {
   geometry.points = chart.getDatasetMeta(1).data.map((el) => ({ x: el.x * s, y: el.y * s }));
   geometry.marks = marks.map((m) => ({ role: m.role, x: m.x * s, y: m.y * s, ...(m.box ? { box: scaleBox(m.box, s) } : {}) }));
   geometry.lines = lines.map((l) => ({ role: l.role, x1: l.x1 * s, y1: l.y1 * s, x2: l.x2 * s, y2: l.y2 * s }));
+  geometry.cells = barBoxes.map((b) => scaleBox(b, s));
   // chart.js clears the canvas when destroyed, so the caller releases it after encoding.
   return { geometry, release: () => chart.destroy() };
+}
+
+/**
+ * A left-axis maximum with as many round steps as the share axis has (4 steps of 25% or 5 of
+ * 20%, whichever hugs the tallest bar more closely), so every gridline marks both axes.
+ * Null with negative values, where the axes cannot share a zero and a top.
+ */
+export function alignedScale(values: readonly number[]): { max: number; step: number; intervals: number } | null {
+  if (values.some((v) => v < 0)) return null;
+  const top = Math.max(0, ...values.filter((v) => Number.isFinite(v)));
+  if (!(top > 0)) return null;
+  let best: { max: number; step: number; intervals: number } | null = null;
+  for (const intervals of [5, 4]) {
+    const raw = top / intervals;
+    const magnitude = 10 ** Math.floor(Math.log10(raw));
+    const step = [1, 2, 2.5, 5, 10].map((m) => m * magnitude).find((st) => st >= raw * (1 - 1e-9))!;
+    const max = step * intervals;
+    if (!best || max < best.max - 1e-9 * max) best = { max, step, intervals };
+  }
+  return best;
+}
+
+/** Spots for the threshold label: under or over the line at the right end, then over each bar, then the left end. */
+function thresholdCandidates(area: Box, y: number, w: number, h: number, u: number, centres: number[]): Candidate[] {
+  const below = y + 5 * u;
+  const above = y - 5 * u - h;
+  const at = (left: number, top: number, penalty: number): Candidate => {
+    const l = Math.min(Math.max(left, area.left + 4 * u), area.right - 4 * u - w);
+    return { box: { left: l, top, right: l + w, bottom: top + h }, penalty };
+  };
+  const out: Candidate[] = [at(area.right - 6 * u - w, below, 0), at(area.right - 6 * u - w, above, 1)];
+  [...centres].reverse().forEach((x, i) => {
+    out.push(at(x - w / 2, below, 2 + i), at(x - w / 2, above, 2.5 + i));
+  });
+  out.push(at(area.left + 6 * u, below, 20), at(area.left + 6 * u, above, 21));
+  return out;
 }

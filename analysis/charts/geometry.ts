@@ -35,7 +35,7 @@ export interface ChartGeometry {
   points: Point[];
   marks: PlacedMark[];
   lines: PlacedLine[];
-  /** Grid cells, row-major (growth grid) or card tiles (KPI card). */
+  /** Grid cells, row-major (growth grid), card tiles (KPI card), or the bars (Pareto, bars). */
   cells: Box[];
 }
 

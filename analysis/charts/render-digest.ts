@@ -1,8 +1,10 @@
 // The one-page digest: the key takeaways and up to four charts on a single image, for
 // forwarding in one piece. Charts arrive as PNGs already rendered; nothing is queried.
-import { createCanvas, loadImage } from '@napi-rs/canvas';
+import { createCanvas, loadImage, type SKRSContext2D } from '@napi-rs/canvas';
 import { ensureFonts } from './fonts.js';
 import { encodePng } from './png.js';
+import { renderChart } from './render.js';
+import type { ChartSpec } from './spec.js';
 import { ellipsize, wrapText } from './text.js';
 import { INK, OKABE_ITO, font } from './theme.js';
 
@@ -11,8 +13,12 @@ export interface DigestInput {
   subtitle: string;
   /** Ordered by importance; each is one or two sentences. */
   takeaways: { text: string; position: number }[];
-  /** Up to four chart PNGs, each with the number of its answer in the thread. */
-  charts: { png: Buffer; position: number }[];
+  /**
+   * Up to four charts, each with the number of its answer in the thread. With its spec, a chart
+   * is drawn again at thumbnail size (text then keeps a readable size instead of shrinking with
+   * the picture); otherwise the PNG is scaled down.
+   */
+  charts: { png: Buffer; position: number; spec?: ChartSpec }[];
   footer: string;
 }
 
@@ -25,7 +31,9 @@ export async function renderDigest(input: DigestInput): Promise<Buffer> {
   ensureFonts();
   const measure = createCanvas(10, 10).getContext('2d');
   measure.font = font(22);
-  const lines = input.takeaways.slice(0, 5).flatMap((t, i) => wrapText(measure, `${i + 1}. ${t.text} (answer ${t.position})`, WIDTH - MARGIN * 2 - 20, 3));
+  const lines = input.takeaways
+    .slice(0, 5)
+    .flatMap((t, i) => wrapKeepingEnd(measure, `${i + 1}. ${t.text}`, `(answer ${t.position})`, WIDTH - MARGIN * 2 - 20, 3));
   const fitted = (text: string, f: string) => {
     measure.font = f;
     return ellipsize(measure, text, WIDTH - MARGIN * 2);
@@ -62,7 +70,7 @@ export async function renderDigest(input: DigestInput): Promise<Buffer> {
   }
   y += 10;
   for (const [i, chart] of charts.entries()) {
-    const img = await loadImage(chart.png);
+    const img = await loadImage(chart.spec ? await thumbnail(chart.spec) : chart.png);
     const x = MARGIN + (i % 2) * (CHART_W + MARGIN);
     const top = y + Math.floor(i / 2) * (CHART_H + MARGIN);
     ctx.drawImage(img, x, top, CHART_W, CHART_H);
@@ -76,3 +84,31 @@ export async function renderDigest(input: DigestInput): Promise<Buffer> {
   return encodePng(canvas.data(), canvas.width, canvas.height);
 }
 
+/**
+ * Wraps `text` followed by `end` in at most `maxLines`; when it is too long, the text is cut
+ * at a word with "…" and `end` still closes the last line, so the pointer to the answer survives.
+ */
+export function wrapKeepingEnd(ctx: SKRSContext2D, text: string, end: string, maxWidth: number, maxLines: number): string[] {
+  const fits = (candidate: string) => {
+    const lines = wrapText(ctx, candidate, maxWidth, maxLines);
+    return lines.join(' ').replace(/\s+/g, ' ').endsWith(end) ? lines : null;
+  };
+  const whole = fits(`${text} ${end}`);
+  if (whole) return whole;
+  // Fewer words always fit at least as well: binary search for the most that do.
+  const words = text.split(' ');
+  const cut = (k: number) => fits(`${words.slice(0, k).join(' ').replace(/[\s,;:.]+$/, '')}… ${end}`);
+  let lo = 0;
+  let hi = words.length - 1;
+  while (lo < hi) {
+    const mid = Math.ceil((lo + hi) / 2);
+    if (cut(mid)) lo = mid;
+    else hi = mid - 1;
+  }
+  return (lo > 0 ? cut(lo) : null) ?? wrapText(ctx, `${text} ${end}`, maxWidth, maxLines);
+}
+
+/** The chart laid out for the digest's slot, at twice the pixels so it stays sharp. */
+function thumbnail(spec: ChartSpec): Promise<Buffer> {
+  return renderChart({ ...spec, width: CHART_W, height: CHART_H, scale: 2 } as ChartSpec);
+}

@@ -53,6 +53,14 @@ export interface LineOverlay {
   values: (number | null)[];
 }
 
+/** A dated event drawn as a thin vertical rule with a short label, e.g. a programme launch. */
+export interface LineEvent {
+  /** Index into `points`: the period the event falls in. */
+  index: number;
+  /** Short text beside the rule, e.g. "SkerryPass launch". */
+  label: string;
+}
+
 export interface LineSpec extends ChartHeader {
   kind: 'line';
   /** Legend text of the main series (shown only when there is an overlay). */
@@ -62,6 +70,7 @@ export interface LineSpec extends ChartHeader {
   format: ValueFormat;
   marks: LineMark[];
   overlay?: LineOverlay;
+  events?: LineEvent[];
 }
 
 // ---- bars -------------------------------------------------------------------------------
@@ -80,6 +89,11 @@ export interface BarsSpec extends ChartHeader {
   format: ValueFormat;
   /** Sorted by value, descending, with any "All others" bar last. */
   bars: Bar[];
+  /**
+   * When set, bars are coloured by sign: the good direction in blue, the bad in vermillion
+   * (true: rises are good). Absent: one colour for every bar.
+   */
+  higherIsBetter?: boolean;
 }
 
 // ---- pareto -----------------------------------------------------------------------------
@@ -107,13 +121,22 @@ export interface ParetoSpec extends ChartHeader {
 
 // ---- growth grid ------------------------------------------------------------------------
 
+/**
+ * What a grid cell shows: `value` a coloured change; `not_comparable` "n/a" (the month has data
+ * but no year-earlier base); `partial` a hatched cell (the month is only partly covered);
+ * `no_data` a blank cell (before the data starts or after it ends).
+ */
+export type GrowthCellState = 'value' | 'not_comparable' | 'partial' | 'no_data';
+
 export interface GrowthGridRow {
   /** "2024". */
   label: string;
   /** Relative change per column; null where there is no comparable value. */
   cells: (number | null)[];
-  /** "+8.1%", "n/a". */
+  /** "+8.1%", "n/a", "partial", or "" for a blank cell. */
   texts: string[];
+  /** One per column. */
+  states: GrowthCellState[];
 }
 
 export interface GrowthGridSpec extends ChartHeader {

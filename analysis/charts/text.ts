@@ -39,9 +39,15 @@ export function ellipsize(ctx: SKRSContext2D, text: string, maxWidth: number): s
   return text.slice(0, lo).trimEnd() + ELLIPSIS;
 }
 
+// No-break spaces (U+00A0, U+2007 figure space, U+202F narrow no-break space) join what they
+// separate: "+1.0\u00A0pts" and "€1\u202F000" never split across lines.
+const BREAKING_SPACE_RUN = /[^\S\u00A0\u2007\u202F]+/g;
+// After the replace above, the only breaking whitespace left is the plain space.
+const WORD = /[^ \u2013\u2014/-]*(?:[ \u2013\u2014/-]+|$)/g;
+
 /** Splits after spaces and after dashes and slashes, keeping the separators with the word before. */
-function splitWords(text: string): string[] {
-  return text.replace(/\s+/g, ' ').trim().match(/[^\s\u2013\u2014/-]*(?:[\s\u2013\u2014/-]+|$)/g)?.filter((w) => w !== '') ?? [];
+export function splitWords(text: string): string[] {
+  return text.replace(BREAKING_SPACE_RUN, ' ').trim().match(WORD)?.filter((w) => w !== '') ?? [];
 }
 
 /** Fits a font size so `text` is at most `maxWidth` wide; never below `minSize`. */

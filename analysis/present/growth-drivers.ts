@@ -6,7 +6,7 @@ import { growthDriversWords } from '../captions/growth-drivers-caption.js';
 import { growthNotes, segmentText } from '../captions/growth-words.js';
 import { metricByName } from '../catalog.js';
 import type { GrowthDriversFinding } from '../findings/growth.js';
-import { formatValue, valueFormatOf } from '../format.js';
+import { valueFormatOf } from '../format.js';
 import type { Answer, Finding } from '../types.js';
 import { twoSpanSubtitle } from './growth-header.js';
 import { chartFooter } from './header.js';
@@ -33,24 +33,19 @@ function driversChart(answer: Answer, f: GrowthDriversFinding, title: string, ct
   const items = f.segments
     .filter((s) => s.change !== null)
     .map((s) => ({ label: segmentText(s.segment, f.dimension, ctx.dataset), value: s.change! }));
-  const othersLabel = f.others ? `${OTHERS_LABEL} (${f.others.count})` : null;
-  if (f.others && f.others.change !== null) items.push({ label: othersLabel!, value: f.others.change });
-  if (items.length === 0) return null;
-  const subtitle = twoSpanSubtitle(answer, metric, f.current, f.prior, ctx);
-  const format = valueFormatOf(metric, ctx.locale);
-  // The finding already folded the tail by size of change; the builder must not fold again by signed value.
-  const spec = buildBars({
+  // The finding already folded the tail by size of change: its bar stays last, in the neutral colour.
+  const folded = f.others && f.others.change !== null ? { label: `${OTHERS_LABEL} (${f.others.count})`, value: f.others.change } : null;
+  if (items.length === 0 && !folded) return null;
+  return buildBars({
     title,
-    subtitle,
+    subtitle: twoSpanSubtitle(answer, metric, f.current, f.prior, ctx),
     footer: chartFooter(answer, ctx),
     ...ctx.chart,
     items,
-    format,
-    topN: items.length,
+    folded,
+    format: valueFormatOf(metric, ctx.locale),
+    // A change reads with its sign ("+€32.9K", "−€19.2K"), a rise in the metric's good colour.
+    signed: true,
+    higherIsBetter: metric.higher_is_better,
   });
-  // A change reads with its sign: "+€32.9K", "−€19.2K".
-  const signed = spec.bars.map((b) => ({ ...b, text: formatValue(b.value, format, { compact: true, signed: true }) }));
-  const others = signed.filter((b) => b.label === othersLabel);
-  const named = signed.filter((b) => b.label !== othersLabel);
-  return { ...spec, bars: [...named, ...others.map((b) => ({ ...b, other: true }))] };
 }

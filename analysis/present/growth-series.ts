@@ -39,7 +39,13 @@ function growthChart(answer: Answer, series: GrowthSeriesFinding, title: string,
   const hasYoy = series.points.some((p) => p.yoy !== null);
   if (series.grain === 'month' && lag !== null && hasYoy) {
     // Months before the first year-earlier base can never hold a rate; a row of them would be empty.
-    const cells = series.points.slice(lag).map((p) => ({ period: p.period, change: p.yoy }));
+    // A partly covered month is drawn hatched, a month without data blank (as are months after
+    // the data ends); "n/a" is left for months with data but no year-earlier base.
+    const cells = series.points.slice(lag).map((p) => ({
+      period: p.period,
+      change: p.yoy,
+      ...(p.partial ? { state: 'partial' as const } : p.value === null ? { state: 'no_data' as const } : {}),
+    }));
     return buildGrowthGrid({ ...header, cells, higherIsBetter, locale: ctx.locale });
   }
   const usePop = !hasYoy;

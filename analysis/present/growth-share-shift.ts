@@ -6,7 +6,7 @@ import { growthShareShiftWords } from '../captions/growth-share-shift-caption.js
 import { formatPoints, growthNotes, segmentText } from '../captions/growth-words.js';
 import { metricByName } from '../catalog.js';
 import type { GrowthShareShiftFinding } from '../findings/growth.js';
-import { formatValue, valueFormatOf } from '../format.js';
+import { valueFormatOf } from '../format.js';
 import type { Answer, Finding } from '../types.js';
 import { twoSpanSubtitle } from './growth-header.js';
 import { chartFooter } from './header.js';
@@ -32,14 +32,15 @@ export const presentGrowthShareShift: Presenter = (answer, ctx) => {
 
 function shareChart(answer: Answer, f: GrowthShareShiftFinding, title: string, ctx: PresentContext): ParetoSpec | null {
   const metric = metricByName(ctx.dataset, f.metric);
-  const label = (name: string, change: number | null) => (change === null ? name : `${name} (${formatPoints(change, ctx.locale)})`);
+  // The bracket is one unit: no-break spaces keep "(+1.0 pts)" from wrapping as "(+1.0" / "pts)".
+  const label = (name: string, change: number | null) => (change === null ? name : `${name} (${formatPoints(change, ctx.locale).replace(/ /g, '\u00A0')})`);
   const items = f.segments
     .filter((s) => s.after !== null)
     .map((s) => ({ label: label(segmentText(s.segment, f.dimension, ctx.dataset), s.shareChange), value: s.after! }));
-  const othersLabel = f.others ? label(`${OTHERS_LABEL} (${f.others.count})`, f.others.shareChange) : null;
-  if (f.others && f.others.after !== null) items.push({ label: othersLabel!, value: f.others.after });
-  if (items.length === 0 || !items.some((i) => i.value > 0)) return null;
-  const spec = buildPareto({
+  // The finding already folded the tail: its bar stays last, drawn as the tail.
+  const folded = f.others && f.others.after !== null ? { label: label(`${OTHERS_LABEL} (${f.others.count})`, f.others.shareChange), value: f.others.after } : null;
+  if (![...items, ...(folded ? [folded] : [])].some((i) => i.value > 0)) return null;
+  return buildPareto({
     title,
     subtitle: twoSpanSubtitle(answer, metric, f.current, f.prior, ctx),
     footer: chartFooter(answer, ctx),
@@ -47,20 +48,7 @@ function shareChart(answer: Answer, f: GrowthShareShiftFinding, title: string, c
     items,
     format: valueFormatOf(metric, ctx.locale),
     valueLabel: metric.label,
-    topN: items.length,
+    folded,
     threshold: f.threshold,
   });
-  // The finding already folded the tail; keep its bar last and drawn as the tail.
-  const others = spec.bars.filter((b) => b.label === othersLabel);
-  const named = spec.bars.filter((b) => b.label !== othersLabel);
-  if (others.length === 0) return spec;
-  const bars = [...named, ...others.map((b) => ({ ...b, other: true }))];
-  let running = 0;
-  const total = bars.reduce((a, b) => a + Math.max(0, b.value), 0);
-  const fixed = bars.map((b) => {
-    running += total > 0 ? Math.max(0, b.value) / total : 0;
-    const cumulative = Math.min(1, running);
-    return { ...b, cumulative, cumulativeText: formatValue(cumulative, { unit: 'percent', decimals: 0, locale: ctx.locale }) };
-  });
-  return { ...spec, bars: fixed, thresholdIndex: fixed.findIndex((b) => b.cumulative >= f.threshold - 1e-9) };
 }

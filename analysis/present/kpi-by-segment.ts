@@ -1,7 +1,6 @@
 // Presenter for "kpi_by_segment": bars of the latest complete period's value per segment, each
 // label carrying its change on the same period a year earlier.
 import { buildBars } from '../charts/build-bars.js';
-import type { BarsSpec } from '../charts/spec.js';
 import { kpiBySegmentWords, rowLabel } from '../captions/kpi-by-segment-caption.js';
 import { signedChange } from '../captions/kpi-words.js';
 import { metricByName } from '../catalog.js';
@@ -26,25 +25,16 @@ export const presentKpiBySegment: Presenter = (answer, ctx) => {
     const change = r.lastYear && r.lastYear.value !== null ? `${signedChange(r.lastYear, metric, ctx.locale)} YoY` : 'new';
     return `${name} (${change})`;
   };
-  const otherLabels = new Set(rows.filter((r) => r.other).map(labelOf));
   const what = comparedText(f.period, ly ? [ly] : [], f.grain, ctx.locale) + ' (YoY: change on the same period a year earlier)';
+  const other = rows.find((r) => r.other);
   const chart = rows.length
-    ? markOthers(
-        buildBars({
-          ...kpiHeader(answer, words.title, kpiSubtitle(answer, metric, ctx, ly ? what : comparedText(f.period, [], f.grain, ctx.locale)), ctx),
-          items: rows.map((r) => ({ label: labelOf(r), value: r.value! })),
-          format: valueFormatOf(metric, ctx.locale),
-          // The template already combined the tail in the database; the builder must not fold again.
-          topN: rows.length,
-        }),
-        otherLabels,
-      )
+    ? buildBars({
+        ...kpiHeader(answer, words.title, kpiSubtitle(answer, metric, ctx, ly ? what : comparedText(f.period, [], f.grain, ctx.locale)), ctx),
+        items: rows.filter((r) => !r.other).map((r) => ({ label: labelOf(r), value: r.value! })),
+        // The template already combined the tail in the database: drawn last and neutral, nothing folded again.
+        folded: other ? { label: labelOf(other), value: other.value! } : null,
+        format: valueFormatOf(metric, ctx.locale),
+      })
     : null;
   return { title: words.title, caption: words.caption, notes: kpiNotes(answer, ctx, []), chart, takeaway: chart ? { importance: 55, text: words.title } : null };
 };
-
-/** The database-combined "All others" bar is drawn neutral and last, like the builder's own. */
-function markOthers(spec: BarsSpec, labels: Set<string>): BarsSpec {
-  const bars = spec.bars.map((b) => (labels.has(b.label) ? { ...b, other: true } : b));
-  return { ...spec, bars: [...bars.filter((b) => !b.other), ...bars.filter((b) => b.other)] };
-}

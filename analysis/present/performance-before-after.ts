@@ -2,7 +2,7 @@
 // period across the launch.
 import { beforeAfterWords } from '../captions/performance-before-after.js';
 import { day, findOne, groupLabel, quantityFormat, quantityLabel } from '../captions/performance-words.js';
-import { buildLine } from '../charts/build-line.js';
+import { buildLine, periodIndexOf } from '../charts/build-line.js';
 import { resolveGroup } from '../templates/performance-common.js';
 import { primaryMetric } from '../templates/performance-compare.js';
 import { performanceHeader, performanceNotes } from './performance-chart.js';
@@ -19,6 +19,8 @@ export const presentPerformanceBeforeAfter: Presenter = (answer, ctx) => {
   const members = findOne(answer.findings, 'performance_group_series', (f) => f.group === 'members');
   const others = findOne(answer.findings, 'performance_group_series', (f) => f.group === 'others');
   const hasValues = [members, others].some((s) => s?.points.some((p) => p.value !== null));
+  // The launch as a thin rule across both lines, so "before" and "after" read off the chart.
+  const launchIndex = members && group.launch_date ? periodIndexOf(members.points, group.launch_date, members.grain) : null;
   const chart =
     members && others && hasValues
       ? buildLine({
@@ -34,6 +36,7 @@ export const presentPerformanceBeforeAfter: Presenter = (answer, ctx) => {
           points: members.points,
           format: quantityFormat(metric, quantity, ctx.locale),
           overlay: { label: groupLabel(group, 'others'), values: others.points.map((p) => p.value) },
+          events: launchIndex === null ? [] : [{ index: launchIndex, label: `${group.label} launch` }],
         })
       : null;
   return {

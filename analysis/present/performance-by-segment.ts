@@ -24,10 +24,12 @@ export const presentPerformanceBySegment: Presenter = (answer, ctx) => {
   const allLower = compared.length > 0 && compared.every((s) => s.relative! <= 0);
   const allHigher = compared.length > 0 && compared.every((s) => s.relative! >= 0);
   const sense = allLower ? 'lower' : allHigher ? 'higher' : null;
-  const items = compared.map((s) => ({
+  const item = (s: (typeof compared)[number]) => ({
     label: `${segmentName(s)}${s.small ? ' (small sample)' : ''}`,
     value: sense === 'lower' ? -s.relative! : s.relative!,
-  }));
+  });
+  const items = compared.filter((s) => !s.folded).map(item);
+  const fold = compared.find((s) => s.folded);
   const members = groupLabel(group, 'members');
   const others = groupLabel(group, 'others');
   const barsLabel = sense
@@ -38,7 +40,7 @@ export const presentPerformanceBySegment: Presenter = (answer, ctx) => {
     ? [`${missing.map(segmentName).join(', ')}: only one group present, so no difference is shown.`]
     : [];
   const chart =
-    items.length > 0
+    compared.length > 0
       ? buildBars({
           ...performanceHeader(answer, ctx, {
             title: words.title,
@@ -47,9 +49,10 @@ export const presentPerformanceBySegment: Presenter = (answer, ctx) => {
             group,
           }),
           items,
+          // The template already folded the tail: its row comes last and nothing is folded again
+          // (folding here would add up relative differences).
+          folded: fold ? item(fold) : null,
           format: { unit: 'percent', decimals: 1, locale: ctx.locale },
-          // The template already folded the tail; folding again would add up relative differences.
-          topN: items.length,
         })
       : null;
   return {

@@ -9,7 +9,6 @@ import type { SegmentSharesFinding } from '../findings/segments.js';
 import { valueFormatOf } from '../format.js';
 import { caveatNotes, chartFooter, chartSubtitle } from './header.js';
 import type { Presenter } from './presenter.js';
-import { barsWithFoldLast, paretoWithFoldLast } from './trend-fold.js';
 
 export const presentSegmentShares: Presenter = (answer, ctx) => {
   const sq = answer.subQuestion;
@@ -18,17 +17,18 @@ export const presentSegmentShares: Presenter = (answer, ctx) => {
   const words = segmentSharesWords(metric, dim, answer.findings, ctx.audience, ctx.locale);
   const f = answer.findings.find((x): x is SegmentSharesFinding => x.type === 'segment_shares' && x.metric === metric.name);
   const header = { title: words.title, subtitle: chartSubtitle(answer, metric, ctx, { grain: false }), footer: chartFooter(answer, ctx), ...ctx.chart };
-  const fold = f?.rows.find((r) => r.other);
-  const foldLabel = fold ? segmentLabel(fold) : null;
   let chart = null;
   if (f) {
-    const items = f.rows.flatMap((r) => (r.value === null ? [] : [{ label: segmentLabel(r), value: r.value }]));
+    // The template folded the tail in SQL: the fold comes last, drawn as the tail, and nothing is folded again.
+    const fold = f.rows.find((r) => r.other && r.value !== null);
+    const folded = fold ? { label: segmentLabel(fold), value: fold.value! } : null;
+    const items = f.rows.flatMap((r) => (r.value === null || r.other ? [] : [{ label: segmentLabel(r), value: r.value }]));
     const format = valueFormatOf(metric, ctx.locale);
     const sharesApply = f.rows.some((r) => r.share !== null);
-    if (items.length > 0 && sharesApply) {
-      chart = paretoWithFoldLast(buildPareto({ ...header, items, format, valueLabel: metric.label, topN: items.length, threshold: f.threshold }), foldLabel);
-    } else if (items.length > 0) {
-      chart = barsWithFoldLast(buildBars({ ...header, items, format, topN: items.length }), foldLabel);
+    if (items.length + (folded ? 1 : 0) > 0) {
+      chart = sharesApply
+        ? buildPareto({ ...header, items, folded, format, valueLabel: metric.label, threshold: f.threshold })
+        : buildBars({ ...header, items, folded, format });
     }
   }
   return {

@@ -8,7 +8,6 @@ import type { SegmentTrendFinding } from '../findings/segments.js';
 import { valueFormatOf } from '../format.js';
 import { caveatNotes, chartFooter, chartSubtitle } from './header.js';
 import type { Presenter } from './presenter.js';
-import { barsWithFoldLast } from './trend-fold.js';
 
 export const presentSegmentTrend: Presenter = (full, ctx) => {
   // The chart is bars of window totals: nothing is drawn dashed, and growth rates already skip a
@@ -20,26 +19,24 @@ export const presentSegmentTrend: Presenter = (full, ctx) => {
   const words = segmentTrendWords(metric, dim, answer.findings, ctx.audience, ctx.locale);
   const trends = answer.findings.filter((f): f is SegmentTrendFinding => f.type === 'segment_trend' && f.metric === metric.name);
   const items = trends.flatMap((t) => {
-    if (t.total === null) return [];
-    const growth = t.other ? null : segmentGrowthText(t, ctx.locale, false);
+    if (t.total === null || t.other) return [];
+    const growth = segmentGrowthText(t, ctx.locale, false);
     return [{ label: growth ? `${segmentLabel(t)} · ${growth}` : segmentLabel(t), value: t.total }];
   });
-  const fold = trends.find((t) => t.other);
+  // Already folded in SQL: the fold comes last, drawn as the tail, and nothing is folded again.
+  const fold = trends.find((t) => t.other && t.total !== null);
+  const folded = fold ? { label: segmentLabel(fold), value: fold.total! } : null;
   const chart =
-    items.length > 0
-      ? barsWithFoldLast(
-          buildBars({
-            title: words.title,
-            subtitle: chartSubtitle(answer, metric, ctx, { grain: false }),
-            footer: chartFooter(answer, ctx),
-            ...ctx.chart,
-            items,
-            format: valueFormatOf(metric, ctx.locale),
-            // Already folded in SQL: show every row as it came.
-            topN: items.length,
-          }),
-          fold ? segmentLabel(fold) : null,
-        )
+    items.length + (folded ? 1 : 0) > 0
+      ? buildBars({
+          title: words.title,
+          subtitle: chartSubtitle(answer, metric, ctx, { grain: false }),
+          footer: chartFooter(answer, ctx),
+          ...ctx.chart,
+          items,
+          folded,
+          format: valueFormatOf(metric, ctx.locale),
+        })
       : null;
   return {
     title: words.title,

@@ -43,6 +43,9 @@ export function compileGrowthSeries(sq: SubQuestion, ctx: CompileContext): Compi
   // Month*100 + day compares calendar positions across years: 29 February is only ever matched
   // in leap years, and a cut-off of 29 February counts the prior year to 28 February.
   const mmdd = (e: string) => `(EXTRACT(MONTH FROM ${e}) * 100 + EXTRACT(DAY FROM ${e}))`;
+  // The last day is read from the table itself (same condition, same bound values) rather than
+  // from `scoped`: a CTE read twice is materialised whole by DuckDB, every column of every row.
+  // The values are bound once and their numbered placeholders ($n, in both dialects) used twice.
   return q.finish(`WITH scoped AS (
   SELECT *, ${dateExpr} AS ${day}
   FROM ${tableRef(q, ctx)}
@@ -54,7 +57,7 @@ tagged AS (
     ${d.periodStart('year', day)} AS ${year},
     ${mmdd(day)} <= ${mmdd(`bounds.${last}`)} AS ${ytd},
     bounds.${last} AS ${last}
-  FROM scoped CROSS JOIN (SELECT MAX(${day}) AS ${last} FROM scoped) AS bounds
+  FROM scoped CROSS JOIN (SELECT MAX(${dateExpr}) AS ${last} FROM ${tableRef(q, ctx)} WHERE ${where}) AS bounds
 )
 SELECT GROUPING(${period}) AS g_period,
   GROUPING(${ytd}) AS g_ytd,

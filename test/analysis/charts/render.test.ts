@@ -4,8 +4,11 @@ import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { buildLine } from '../../../analysis/charts/build-line.js';
 import { growthColour } from '../../../analysis/charts/draw-growth-grid.js';
+import { addMonths } from '../../../analysis/periods.js';
 import type { Box, ChartGeometry } from '../../../analysis/charts/geometry.js';
+import { renderDigest } from '../../../analysis/charts/render-digest.js';
 import { renderChart, renderChartToFile, renderChartWithGeometry } from '../../../analysis/charts/render.js';
 import type { ChartSpec } from '../../../analysis/charts/spec.js';
 import { INK, OKABE_ITO, SENTIMENT } from '../../../analysis/charts/theme.js';
@@ -16,8 +19,15 @@ import {
   growthGridSpec,
   kpiRefundSpec,
   kpiSpec,
+  barsSignedSpec,
+  EUR,
+  header,
+  LOCALE,
+  lineEventsSpec,
   lineOverlaySpec,
   lineSpec,
+  monthlyRevenue,
+  paretoFoldedSpec,
   paretoSpec,
   seasonalSpec,
 } from './samples.js';
@@ -100,6 +110,89 @@ describe('line', () => {
     expect(countColour(img, legend, hex('#8FBFE0'), 12)).toBeGreaterThan(20);
   });
 
+  it('keeps a low label on the first point inside the plot, clear of the y-axis tick labels', async () => {
+    // Average fare per passenger (demo-like, € per passenger): the low is January 2022, the first point.
+    const fares = [19.58, 20.22, 20.2, 19.92, 19.8, 19.93, 19.97, 20.07, 20.04, 20.19, 20.01, 20.14, 20.99, 20.83, 20.55, 20.27, 20.45, 20.43];
+    const spec = buildLine({
+      ...header('Average fare per passenger', 'Monthly'),
+      seriesLabel: 'Average fare',
+      grain: 'month',
+      points: fares.map((value, i) => ({ period: addMonths('2022-01-01', i), value, partial: false })),
+      format: { ...EUR, decimals: 2 },
+    });
+    const { img, geometry } = await render(spec);
+    const low = geometry.marks.find((m) => m.role === 'low')!;
+    expect(low.x).toBeCloseTo(geometry.points[0]!.x, 5);
+    for (const m of geometry.marks) {
+      expect(m.box!.left).toBeGreaterThanOrEqual(geometry.plot.left - 0.5);
+      expect(m.box!.right).toBeLessThanOrEqual(geometry.plot.right + 0.5);
+    }
+    // Left of the plot, level with the label, only the axis' own tick text: no label ink spills there.
+    const gutter = { left: 0, top: low.box!.top, right: geometry.plot.left - 1, bottom: low.box!.bottom };
+    const tickInk = countColour(img, gutter, hex(INK.muted), 60);
+    expect(countColour(img, gutter, hex(INK.title), 20)).toBeLessThanOrEqual(tickInk);
+  });
+
+  it('keeps high and low labels off the overlay line (members start low at a launch, others above)', async () => {
+    const all = monthlyRevenue();
+    const members = all.map((p, i) => ({ ...p, value: i < 15 ? null : i === 15 ? 428 : Math.round(p.value! / 700) }));
+    const cases = [
+      lineOverlaySpec(),
+      lineEventsSpec(),
+      buildLine({
+        ...header('Bookings before and after the SkerryPass launch', 'Bookings per month'),
+        seriesLabel: 'Pass holders',
+        grain: 'month',
+        points: members,
+        format: { unit: 'count', locale: LOCALE },
+        overlay: { label: 'Other customers', values: all.map((p) => Math.round(p.value! / 250)) },
+      }),
+    ];
+    for (const spec of cases) {
+      const { geometry } = await render(spec);
+      const overlay = geometry.lines.filter((l) => l.role === 'overlay');
+      expect(overlay.length).toBeGreaterThan(5);
+      for (const m of geometry.marks.filter((k) => k.role === 'high' || k.role === 'low')) {
+        // Sampled independently of the renderer's own clipping test: 50 points along every segment.
+        for (const l of overlay) {
+          for (let t = 0; t <= 1; t += 0.02) {
+            const x = l.x1 + (l.x2 - l.x1) * t;
+            const y = l.y1 + (l.y2 - l.y1) * t;
+            const inBox = x > m.box!.left && x < m.box!.right && y > m.box!.top && y < m.box!.bottom;
+            expect(inBox, `${m.role} label of "${spec.title}" sits on the overlay`).toBe(false);
+          }
+        }
+        expect(m.box!.left).toBeGreaterThanOrEqual(geometry.plot.left - 0.5);
+      }
+    }
+  });
+
+  it('marks an event with a thin dashed rule through the plot and its label above it', async () => {
+    const spec = lineEventsSpec();
+    const { img, geometry } = await render(spec);
+    const rule = geometry.lines.find((l) => l.role === 'event')!;
+    const label = geometry.marks.find((m) => m.role === 'event')!;
+    expect(rule.x1).toBeCloseTo(geometry.points[spec.events![0]!.index]!.x, 5);
+    expect(rule.y2).toBeCloseTo(geometry.plot.bottom, 5);
+    // Dashed: along the rule, stretches of dark ink alternate with gaps.
+    let runs = 0;
+    let inDash = false;
+    for (let y = Math.ceil(geometry.plot.top); y < geometry.plot.bottom; y++) {
+      const dark = countDark(img, { left: rule.x1 - 1, top: y, right: rule.x1 + 2, bottom: y + 1 }) > 0;
+      if (dark && !inDash) runs++;
+      inDash = dark;
+    }
+    expect(runs).toBeGreaterThan(20);
+    // The label sits in the band above the plot, so it covers no data, and does not touch the marks' labels.
+    expect(label.box!.bottom).toBeLessThanOrEqual(geometry.plot.top);
+    expect(countDark(img, label.box!)).toBeGreaterThan(150);
+    for (const m of geometry.marks.filter((k) => k.role !== 'event')) {
+      const a = label.box!;
+      const b = m.box!;
+      expect(a.right < b.left || b.right < a.left || a.bottom < b.top || b.bottom < a.top).toBe(true);
+    }
+  });
+
   it('keeps the marks at 2× in the same relative places', async () => {
     const one = await render(lineSpec());
     const two = await render(lineSpec({ scale: 2 }));
@@ -128,7 +221,73 @@ describe('bars', () => {
   });
 });
 
+describe('bars with negative values', () => {
+  it('keeps value labels inside the plot, draws a clear zero rule and colours rises and falls', async () => {
+    const spec = barsSignedSpec();
+    const { img, geometry } = await render(spec);
+    const zero = geometry.lines.find((l) => l.role === 'zero')!;
+    // The zero rule: dark, full height of the plot.
+    expect(countDark(img, { left: zero.x1 - 1, top: geometry.plot.top, right: zero.x1 + 2, bottom: geometry.plot.bottom })).toBeGreaterThan((geometry.plot.bottom - geometry.plot.top) * 0.9);
+    const values = geometry.marks.filter((m) => m.role === 'value');
+    expect(values).toHaveLength(spec.bars.length);
+    spec.bars.forEach((bar, i) => {
+      const label = values[i]!.box!;
+      const box = geometry.cells[i]!;
+      // Value labels stay right of the category names (left of the plot) and off their own bar.
+      expect(label.left).toBeGreaterThanOrEqual(geometry.plot.left);
+      expect(bar.value < 0 ? label.right <= box.left : label.left >= box.right).toBe(true);
+      expect(countDark(img, label)).toBeGreaterThan(30);
+      // Rises in the good blue, falls in vermillion (revenue: higher is better), the fold grey.
+      const colour = bar.other ? INK.other : bar.value > 0 ? SENTIMENT.good : SENTIMENT.bad;
+      expect(close(pixel(img, (box.left + box.right) / 2, (box.top + box.bottom) / 2), hex(colour), 6)).toBe(true);
+      // Bars start at zero.
+      expect(Math.abs((bar.value < 0 ? box.right : box.left) - zero.x1)).toBeLessThan(1.5);
+    });
+    // The fold stays last though its value is not the smallest.
+    expect(spec.bars[spec.bars.length - 1]).toMatchObject({ label: 'All others (2)', other: true });
+    // A legend names the two colours.
+    const legend = { left: 0, top: geometry.plot.top - 45, right: 600, bottom: geometry.plot.top - 10 };
+    expect(countColour(img, legend, hex(SENTIMENT.good), 10)).toBeGreaterThan(100);
+    expect(countColour(img, legend, hex(SENTIMENT.bad), 10)).toBeGreaterThan(100);
+  });
+});
+
 describe('pareto', () => {
+  it('shares gridlines between the value axis and the 0–100% axis', async () => {
+    for (const spec of [paretoSpec(), paretoFoldedSpec()]) {
+      const { img, geometry } = await render(spec);
+      const valueTicks = geometry.lines.filter((l) => l.role === 'value-tick').map((l) => l.y1);
+      const shareTicks = geometry.lines.filter((l) => l.role === 'share-tick').map((l) => l.y1);
+      expect(shareTicks.length).toBeGreaterThanOrEqual(5);
+      expect(valueTicks).toHaveLength(shareTicks.length);
+      valueTicks.forEach((y, i) => expect(y).toBeCloseTo(shareTicks[i]!, 3));
+      // A gridline is drawn at every share tick above zero (left of the first bar, where nothing else is drawn).
+      const x = geometry.plot.left + 3;
+      // (Skipping a tick the dashed 80% line is drawn over.)
+      const ref = geometry.lines.find((l) => l.role === 'threshold')!.y1;
+      for (const y of shareTicks.slice(1).filter((t) => Math.abs(t - ref) > 2)) {
+        const row = { left: x, top: y - 1.5, right: x + 6, bottom: y + 1.5 };
+        expect(countColour(img, row, hex(INK.grid), 12)).toBeGreaterThanOrEqual(6);
+      }
+    }
+  });
+
+  it('puts the threshold label where it covers no bar and no running-share label, even beside a tall folded tail', async () => {
+    const spec = paretoFoldedSpec();
+    const { img, geometry } = await render(spec);
+    const label = geometry.marks.find((m) => m.role === 'threshold-label')!.box!;
+    const overlaps = (a: Box, b: Box) => a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom;
+    // The tallest bar is the fold, last, reaching over the 80% line where the label used to go.
+    const last = geometry.cells[geometry.cells.length - 1]!;
+    const ref = geometry.lines.find((l) => l.role === 'threshold')!;
+    expect(last.top).toBeLessThan(ref.y1);
+    expect(close(pixel(img, (last.left + last.right) / 2, geometry.plot.bottom - 4), hex(INK.other), 6)).toBe(true);
+    for (const bar of geometry.cells) expect(overlaps(label, bar)).toBe(false);
+    for (const m of geometry.marks.filter((k) => k.role === 'cumulative')) expect(overlaps(label, m.box!)).toBe(false);
+    expect(inside(label, img)).toBe(true);
+    expect(countDark(img, label)).toBeGreaterThan(100);
+  });
+
   it('draws the 80% reference line, the cumulative line points and head/tail bar colours', async () => {
     const spec = paretoSpec();
     const { img, geometry } = await render(spec);
@@ -152,17 +311,47 @@ describe('pareto', () => {
 });
 
 describe('growth grid', () => {
-  it('fills every cell with its diverging colour and writes its value; n/a cells grey', async () => {
+  it('fills every cell by its state: diverging colour with its value, grey "n/a", hatched "partial", blank after the data', async () => {
     const spec = growthGridSpec();
+    // One month without a year-earlier base, to see the "n/a" cell next to the others.
+    spec.rows[0]!.cells[3] = null;
+    spec.rows[0]!.texts[3] = 'n/a';
+    spec.rows[0]!.states[3] = 'not_comparable';
     const { img, geometry } = await render(spec);
     const values = spec.rows.flatMap((r) => r.cells);
+    const states = spec.rows.flatMap((r) => r.states);
     expect(geometry.cells).toHaveLength(values.length);
+    expect(new Set(states)).toEqual(new Set(['value', 'not_comparable', 'partial', 'no_data']));
     geometry.cells.forEach((cell, k) => {
       const v = values[k]!;
-      const fill = v === null ? hex(INK.na) : hex(growthColour(v, spec.domain, spec.higherIsBetter));
-      expect(close(pixel(img, cell.left + 4, cell.top + 4), fill, 3)).toBe(true);
-      expect(countDark(img, cell) + countColour(img, cell, WHITE, 10)).toBeGreaterThan(20);
+      const inner = { left: cell.left + 3, top: cell.top + 3, right: cell.right - 3, bottom: cell.bottom - 3 };
+      const area = (inner.right - inner.left) * (inner.bottom - inner.top);
+      switch (states[k]) {
+        case 'value':
+          expect(close(pixel(img, cell.left + 4, cell.top + 4), hex(growthColour(v!, spec.domain, spec.higherIsBetter)), 3)).toBe(true);
+          expect(countDark(img, cell) + countColour(img, cell, WHITE, 10)).toBeGreaterThan(20);
+          break;
+        case 'not_comparable':
+          expect(close(pixel(img, cell.left + 4, cell.top + 4), hex(INK.na), 3)).toBe(true);
+          break;
+        case 'no_data':
+          // Blank: the whole cell is page white, no "n/a" and no text.
+          expect(countColour(img, inner, WHITE, 2)).toBe((Math.ceil(inner.right) - Math.floor(inner.left)) * (Math.ceil(inner.bottom) - Math.floor(inner.top)));
+          break;
+        case 'partial':
+          // A dashed grey outline and hatching, no growth colour, the word "partial" in muted ink.
+          expect(countColour(img, { ...cell, bottom: cell.top + 3 }, hex('#9AA3AD'), 30)).toBeGreaterThan(20);
+          expect(countColour(img, inner, hex(INK.muted), 40)).toBeGreaterThan(30);
+          expect(countColour(img, inner, hex(OKABE_ITO.blue), 60) + countColour(img, inner, hex(OKABE_ITO.vermillion), 60)).toBe(0);
+          expect(countColour(img, inner, WHITE, 2)).toBeLessThan(area * 0.5);
+          break;
+      }
     });
+    // The legend explains both kinds of grey cell: "n/a" and the hatched "partial" swatch.
+    const last = geometry.cells[geometry.cells.length - 1]!;
+    const legend = { left: 0, top: last.bottom + 5, right: img.width, bottom: last.bottom + 110 };
+    expect(countColour(img, legend, hex(INK.na), 2)).toBeGreaterThan(200);
+    expect(countColour(img, legend, hex('#9AA3AD'), 30)).toBeGreaterThan(40);
     // The scale diverges: good growth blue-ish, bad growth orange-ish.
     const best = values.reduce<number>((a, b) => (b !== null && b > a ? b : a), -Infinity);
     const [r, , b] = hex(growthColour(best, spec.domain, true));
@@ -214,6 +403,22 @@ describe('seasonal profile', () => {
       expect(close(pixel(img, p.x - 12, geometry.plot.bottom - 5), hex(above ? OKABE_ITO.blue : OKABE_ITO.skyBlue), 6)).toBe(true);
       expect(above).toBe(p.y < ref.y1);
     });
+  });
+});
+
+describe('digest', () => {
+  it('redraws a chart from its spec at thumbnail size, so its text stays larger than a scaled-down PNG', async () => {
+    const spec = lineSpec();
+    const base = { title: 'Skerrywake bookings: key findings', subtitle: 'Answering: "test"', takeaways: [{ text: 'Revenue peaks every summer', position: 1 }], footer: 'Source: demo' };
+    const png = await renderChart(spec);
+    const scaled = await decodePng(await renderDigest({ ...base, charts: [{ png, position: 1 }] }));
+    const redrawn = await decodePng(await renderDigest({ ...base, charts: [{ png, position: 1, spec }] }));
+    expect([redrawn.width, redrawn.height]).toEqual([scaled.width, scaled.height]);
+    // The bottom of the chart's slot (its small print and lowest tick label, above the digest's
+    // own footer): the same texts leave more ink when drawn at their own size.
+    const band = { left: 48, top: scaled.height - 160, right: 48 + 728, bottom: scaled.height - 80 };
+    const ink = (img: Decoded) => countColour(img, band, hex(INK.muted), 40);
+    expect(ink(redrawn)).toBeGreaterThan(ink(scaled) * 1.2);
   });
 });
 

@@ -78,6 +78,23 @@ const ROUTE_SHARE = [0.41, 0.29, 0.12, 0.1, 0.08];
 const FARE_CLASSES = ['foot', 'bicycle', 'car', 'van'];
 const CLASS_SHARE = [0.34, 0.06, 0.45, 0.15];
 
+/** Members' line starting at the launch (April 2023), others' line throughout, the launch marked. */
+export function lineEventsSpec(extra: Partial<ChartHeader> = {}) {
+  const all = monthlyRevenue();
+  const launch = all.findIndex((p) => p.period === '2023-04-01');
+  const rnd = noise(11);
+  const members = all.map((p, i) => ({ ...p, value: i < launch ? null : Math.round(p.value! * (0.18 + 0.004 * (i - launch)) * (1 + 0.05 * rnd())) }));
+  return buildLine({
+    ...header('Pass holders grew to a third of revenue after the launch', 'Revenue per month, pass holders and other customers, Jan 2022 to Jun 2025', extra),
+    seriesLabel: 'Pass holders',
+    grain: 'month',
+    points: members,
+    format: EUR,
+    overlay: { label: 'Other customers', values: all.map((p, i) => (members[i]!.value === null ? p.value : p.value! - members[i]!.value!)) },
+    events: [{ index: launch, label: 'SkerryPass launch' }],
+  });
+}
+
 export function routeRevenue(): { label: string; value: number }[] {
   return ROUTES.map((label, i) => ({ label, value: Math.round(18_400_000 * ROUTE_SHARE[i]!) }));
 }
@@ -98,6 +115,35 @@ export function barsSpec(extra: Partial<ChartHeader> = {}) {
   return buildBars(barsInput(extra));
 }
 
+/** Change by booking channel between two summers: rises and falls, coloured by sign. */
+export function barsSignedSpec(extra: Partial<ChartHeader> = {}) {
+  return buildBars({
+    ...header('App drove the biggest change in revenue: +€32.9K', 'Revenue, Jun–Aug 2024 against Jun–Aug 2023', extra),
+    items: [
+      { label: 'app', value: 32_900 },
+      { label: 'kiosk', value: 363 },
+      { label: 'phone', value: -8_140 },
+      { label: 'web', value: -19_200 },
+    ],
+    folded: { label: 'All others (2)', value: -1_250 },
+    format: EUR,
+    signed: true,
+    higherIsBetter: true,
+  });
+}
+
+/** A Pareto whose SQL-folded tail is the tallest bar: it stays last and neutral. */
+export function paretoFoldedSpec(extra: Partial<ChartHeader> = {}) {
+  const routes = routeRevenue();
+  return buildPareto({
+    ...header('Beyond the two main routes, revenue is spread thin', 'Revenue by route, the smaller routes folded together', extra),
+    items: routes.slice(0, 4).map((r) => ({ ...r, label: `${r.label} (+1.0\u00A0pts)` })),
+    folded: { label: 'All others (9)', value: 9_000_000 },
+    format: EUR,
+    valueLabel: 'Revenue',
+  });
+}
+
 export function paretoSpec(extra: Partial<ChartHeader> = {}) {
   return buildPareto({
     ...header('Two routes carry 70% of revenue', 'Revenue by route, Jan 2022 to Jun 2025, with the running share of the total', extra),
@@ -107,12 +153,14 @@ export function paretoSpec(extra: Partial<ChartHeader> = {}) {
   });
 }
 
+/** Year-over-year change per month from 2023; the partly covered June 2025 is marked, not compared. */
 export function growthCells(): GrowthCell[] {
-  const series = monthlyRevenue().filter((p) => !p.partial);
+  const series = monthlyRevenue();
   const byPeriod = new Map(series.map((p) => [p.period, p.value]));
   return series
     .filter((p) => p.period >= '2023-01-01')
     .map((p) => {
+      if (p.partial) return { period: p.period, change: null, state: 'partial' as const };
       const prior = byPeriod.get(`${Number(p.period.slice(0, 4)) - 1}${p.period.slice(4)}`) ?? null;
       return { period: p.period, change: prior && p.value !== null ? p.value / prior - 1 : null };
     });
@@ -193,13 +241,16 @@ export function seasonalSpec(extra: Partial<ChartHeader> = {}) {
   });
 }
 
-/** One realistic spec per kind (two for line and KPI). */
+/** One realistic spec per kind, more for line, bars, Pareto and KPI. */
 export function allSamples(extra: Partial<ChartHeader> = {}): Record<string, ChartSpec> {
   return {
     line: lineSpec(extra),
     'line-overlay': lineOverlaySpec(extra),
+    'line-events': lineEventsSpec(extra),
     bars: barsSpec(extra),
+    'bars-signed': barsSignedSpec(extra),
     pareto: paretoSpec(extra),
+    'pareto-folded': paretoFoldedSpec(extra),
     'growth-grid': growthGridSpec(extra),
     'kpi-card': kpiSpec(extra),
     'kpi-card-rate': kpiRefundSpec(extra),

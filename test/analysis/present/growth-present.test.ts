@@ -85,6 +85,20 @@ describe('growth_series presenter', () => {
     expect(lead.caption).not.toMatch(/CAGR|p =|trailing/);
   });
 
+  it('hatches a partial month and leaves the months after the data blank, keeping "n/a" for missing bases', () => {
+    const series = monthlySeries(Array.from({ length: 41 }, (_, i) => (i === 14 ? null : 1000 + i)));
+    // May 2025, the last point, is only partly covered; March 2023 has no rows at all.
+    series.points[40] = { ...series.points[40]!, partial: true, yoy: null };
+    const p = present(answer(sq('growth_series'), [series, ...headlineFindings.slice(1)]), 'managers');
+    if (p.chart?.kind !== 'growth_grid') throw new Error('expected a growth grid');
+    const [y2023, y2024, y2025] = p.chart.rows;
+    expect(y2025!.states).toEqual([...Array(4).fill('value'), 'partial', ...Array(7).fill('no_data')]);
+    expect(y2025!.texts.slice(3, 7)).toEqual(['+1.2%', 'partial', '', '']);
+    expect(y2023!.states[2]).toBe('no_data');
+    // March 2024's base is the empty March 2023: data, but nothing to compare with.
+    expect([y2024!.states[2], y2024!.texts[2]]).toEqual(['not_comparable', 'n/a']);
+  });
+
   it('draws the grid only over months that can have a year-earlier base, and a line for quarters', () => {
     const p = present(answer(sq('growth_series'), headlineFindings), 'managers');
     if (p.chart?.kind !== 'growth_grid') throw new Error('expected a growth grid');
@@ -245,8 +259,31 @@ describe('growth_share_shift presenter', () => {
     const a = present(answer(s, [shareFinding]), 'analysts');
     expect(a.caption).toContain('HHI 2,600 → 3,800 (0–10,000 scale).');
     if (m.chart?.kind !== 'pareto') throw new Error('expected a pareto');
-    expect(m.chart.bars[0]!.label).toBe('A (+20.0 pts)');
+    // A no-break space inside the bracket, so a wrapped axis label never splits "(+20.0" from "pts)".
+    expect(m.chart.bars[0]!.label).toBe('A (+20.0\u00A0pts)');
     expect(m.chart.thresholdIndex).toBe(1);
+  });
+
+  it('keeps the finding\'s folded tail last and neutral, the running share reaching 100% there', () => {
+    const s = sq('growth_share_shift', { lens: 'distribution', dimension: 'route' });
+    // The fold (30) is larger than B (20) and C (10): a plain sort would put it second.
+    const f: GrowthShareShiftFinding = {
+      ...shareFinding,
+      segments: shareFinding.segments.slice(0, 3).map((x, i) => ({ ...x, after: [40, 20, 10][i]! })),
+      others: { count: 4, before: 20, after: 30, shareBefore: 0.2, shareAfter: 0.3, shareChange: 0.1 },
+    };
+    const m = present(answer(s, [f]), 'managers');
+    if (m.chart?.kind !== 'pareto') throw new Error('expected a pareto');
+    expect(m.chart.bars.map((b) => [b.value, b.other])).toEqual([
+      [40, false],
+      [20, false],
+      [10, false],
+      [30, true],
+    ]);
+    expect(m.chart.bars[3]!.label).toBe('All others (4) (+10.0\u00A0pts)');
+    // Running shares of 100: 40, 60, 70, 100.
+    expect(m.chart.bars.map((b) => b.cumulativeText)).toEqual(['40%', '60%', '70%', '100%']);
+    expect(m.chart.thresholdIndex).toBe(3);
   });
 
   it('explains why a ratio metric has no shares', () => {

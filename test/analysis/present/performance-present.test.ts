@@ -289,6 +289,8 @@ describe('performance_before_after captions', () => {
     expect(chart.overlay?.label).toBe('Other customers');
     expect(chart.points.map((x) => x.value)).toEqual([null, null, 35, 36]);
     expect(chart.overlay?.values).toEqual([38, 39, 40, 41]);
+    // The launch (1 April 2023, from the catalog) marked on the third month.
+    expect(chart.events).toEqual([{ index: 2, label: 'SkerryPass launch' }]);
   });
 
   it('with a DiD: the four cells, the estimate, and the parallel-trends caution', () => {
