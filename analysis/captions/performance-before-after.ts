@@ -98,7 +98,9 @@ export function beforeAfterWords(findings: readonly Finding[], ctx: WordsContext
           ? `${metric.label} cannot be added up across months, so there is no before and after to compare.`
           : notApplicable?.reason === 'group_empty'
             ? `One group has no ${rows.plural} on one side of the launch, so there is no before and after to compare.`
-            : '';
+            : notApplicable?.reason === 'suppressed'
+              ? `Some months of a group have fewer ${rows.plural} than the minimum group size: they are too few to show, so there is no before and after to compare.`
+              : '';
   const title = between ? `${label}: ${size(between, locale)} for ${inText(m)} than for ${inText(o)}` : `${label}: ${inText(m)} and ${inText(o)} per period`;
   if (!between || !verdict) {
     return { title, caption: `${reason}${none ? ` ${noTestWords(none, ctx, rows)}` : ''}`.trim(), notes, takeaway: null, clear: false };

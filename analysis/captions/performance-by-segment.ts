@@ -4,7 +4,7 @@ import type { PerformanceSegmentFinding } from '../findings/performance.js';
 import { formatValue } from '../format.js';
 import type { Finding } from '../types.js';
 import { capitalise, type PerformanceWords } from './performance-compare.js';
-import { chancePhrase, countText, findAll, findOne, groupLabel, inText, periodLead, quantityLabel, type WordsContext } from './performance-words.js';
+import { chancePhrase, countText, findAll, findOne, groupLabel, inText, periodLead, quantityLabel, type WordsContext, isAre } from './performance-words.js';
 
 /** "Route" → "routes", "Fare class" → "fare classes", "Category" → "categories". */
 export function pluralLabel(label: string): string {
@@ -52,7 +52,7 @@ export function bySegmentWords(findings: readonly Finding[], ctx: WordsContext, 
   const where = same === total ? (total === 2 ? `both ${plural}` : `all ${total} ${plural}`) : `${same} of ${total} ${plural}`;
   const title =
     same === total || same / total >= 0.75
-      ? `${label} is ${dir} for ${inText(m)} on ${where}`
+      ? `${label} ${isAre(label)} ${dir} for ${inText(m)} on ${where}`
       : `${label}: ${inText(m)} ${dir} on ${same} of ${total} ${plural}, ${consistency.oppositeDirection} the other way`;
   const rels = compared.map((s) => s.relative!).filter((r) => Math.sign(r) === (dir === 'higher' ? 1 : -1));
   const range = rels.length >= 2 ? `, by ${pct(Math.min(...rels.map(Math.abs)))} to ${pct(Math.max(...rels.map(Math.abs)))}` : '';
@@ -67,7 +67,7 @@ export function bySegmentWords(findings: readonly Finding[], ctx: WordsContext, 
   const smallText = small.length > 0 ? ` ${small.length === 1 ? `${segmentName(small[0]!)} is` : `${small.length} ${plural} are`} small (fewer than 30 ${small.length === 1 ? 'rows in a group' : 'rows in a group each'}), so read ${small.length === 1 ? 'it' : 'them'} with care.` : '';
   let caption: string;
   if (audience === 'leadership') {
-    caption = `${lead}, ${inText(label)} is ${dir} for ${inText(m)} than for ${inText(o)} on ${where}${range}. Overall ${chance}, and ${evidence}. This is an observational comparison, not proof of cause.`;
+    caption = `${lead}, ${inText(label)} ${isAre(label)} ${dir} for ${inText(m)} than for ${inText(o)} on ${where}${range}. Overall ${chance}, and ${evidence}. This is an observational comparison, not proof of cause.`;
   } else if (audience === 'managers') {
     const list = compared
       .slice(0, 8)

@@ -20,8 +20,7 @@ import {
   rowNoun,
   statisticText,
   testName,
-  type WordsContext,
-} from './performance-words.js';
+  type WordsContext, isAre } from './performance-words.js';
 
 export interface PerformanceWords {
   title: string;
@@ -55,6 +54,10 @@ export function compareWords(findings: readonly Finding[], ctx: WordsContext): P
 
   if (!members || !others || members.estimate === null || others.estimate === null || members.n === 0 || others.n === 0) {
     const text = none ? noTestWords(none, ctx, rows) : `There is no data to compare ${period}.`;
+    if (none?.reason === 'suppressed') {
+      const hidden = [none.suppressedFirst ? m : null, none.suppressedSecond ? o : null].filter((x): x is string => x !== null);
+      return { title: `${label}: too few to show for ${hidden.map(inText).join(' and ') || 'one group'}`, caption: text, notes: [], takeaway: null, clear: false };
+    }
     return { title: `${label}: nothing to compare for ${inText(m)} and ${inText(o)}`, caption: text, notes: [], takeaway: null, clear: false };
   }
 
@@ -73,7 +76,7 @@ export function compareWords(findings: readonly Finding[], ctx: WordsContext): P
 
   const title = same
     ? `${label}: about the same for ${inText(m)} and ${inText(o)}`
-    : `${label} is ${size} for ${inText(m)} than for ${inText(o)}`;
+    : `${label} ${isAre(label)} ${size} for ${inText(m)} than for ${inText(o)}`;
 
   if (none || !diff || !verdict) {
     // A single row or no spread at all: state the values and why there is no verdict.
@@ -91,7 +94,7 @@ export function compareWords(findings: readonly Finding[], ctx: WordsContext): P
     verdict.verdict === 'better' ? ` On this measure that is better for ${inText(m)}.` : verdict.verdict === 'worse' ? ` On this measure that is worse for ${inText(m)}.` : '';
   let caption: string;
   if (audience === 'leadership') {
-    caption = `${lead}, ${inText(label)} is ${size} for ${inText(m)} ${compareTo} for ${inText(o)} (${both}); ${chance}. This is an observational comparison, not proof of cause.`;
+    caption = `${lead}, ${inText(label)} ${isAre(label)} ${size} for ${inText(m)} ${compareTo} for ${inText(o)} (${both}); ${chance}. This is an observational comparison, not proof of cause.`;
   } else if (audience === 'managers') {
     const gap = same ? 'practically no gap' : `${formatDifference(diff.difference, fmt)} ${direction}`;
     const crosses = diff.ci[0] <= 0 && diff.ci[1] >= 0;
@@ -100,7 +103,7 @@ export function compareWords(findings: readonly Finding[], ctx: WordsContext): P
     const medianText = median
       ? ` The median is ${value(median.medianMembers)} against ${value(median.medianOthers)}, a gap of ${formatDifference(median.difference, fmt)} for the typical ${rows.singular}.`
       : '';
-    caption = `${lead}, ${inText(label)} is ${both} for ${inText(m)} and ${inText(o)}: ${gap}, over ${countText(diff.nFirst, locale)} and ${countText(diff.nSecond, locale)} ${rows.plural}. ${capitalise(chance)}${range}.${goodness}${medianText}`;
+    caption = `${lead}, ${inText(label)} ${isAre(label)} ${both} for ${inText(m)} and ${inText(o)}: ${gap}, over ${countText(diff.nFirst, locale)} and ${countText(diff.nSecond, locale)} ${rows.plural}. ${capitalise(chance)}${range}.${goodness}${medianText}`;
   } else {
     const medianText = median
       ? ` Median difference ${formatDifference(median.difference, fmt, { signed: true })} (seeded percentile bootstrap, ${intervalText(median.ci, median.confidence, fmt, locale)}; ${countText(median.resamples, locale)} resamples of up to ${countText(Math.max(median.sampleMembers, median.sampleOthers), locale)} sampled ${rows.plural} per group, seed ${median.seed}).`
@@ -109,7 +112,7 @@ export function compareWords(findings: readonly Finding[], ctx: WordsContext): P
     const relText = diff.relative === null ? '' : `, ${formatValue(diff.relative, { unit: 'percent', decimals: 1, locale }, { signed: true })} relative`;
     caption = `${capitalise(testName(diff.test))}, ${inText(m)} − ${inText(o)} on ${inText(label)}, ${period}: ${formatDifference(diff.difference, fmt, { signed: true })} (${intervalText(diff.ci, diff.confidence, fmt, locale)})${relText}; ${statisticText(diff, locale)}, ${formatP(diff.pValue, locale)}${effect}; n = ${countText(diff.nFirst, locale)} vs ${countText(diff.nSecond, locale)} ${rows.plural}.${medianText}`;
   }
-  const takeaway = `${capitalise(label)} is ${size} for ${inText(m)} ${compareTo} for ${inText(o)} (${both}); ${chance}.`;
+  const takeaway = `${capitalise(label)} ${isAre(label)} ${size} for ${inText(m)} ${compareTo} for ${inText(o)} (${both}); ${chance}.`;
   return { title, caption, notes: [], takeaway, clear };
 }
 

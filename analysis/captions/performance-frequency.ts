@@ -20,8 +20,7 @@ import {
   statisticText,
   testName,
   unitNoun,
-  type WordsContext,
-} from './performance-words.js';
+  type WordsContext, isAre } from './performance-words.js';
 
 export function frequencyFormat(metric: Metric, locale: string): ValueFormat {
   return metric.definition.type === 'count' || metric.unit === 'count' ? perUnitFormat(locale) : valueFormatOf(metric, locale);
@@ -53,8 +52,12 @@ export function frequencyWords(findings: readonly Finding[], ctx: WordsContext):
   const spot = (v: number | null) => (isCount ? formatValue(v, { unit: 'number', locale }) : value(v));
   const noun = inText(metric.label);
 
-  if (!members || !others) {
+  if (!members || !others || none?.reason === 'suppressed') {
     const text = none ? noTestWords(none, ctx, units) : `There is no data to compare ${periodInText(win, ctx)}.`;
+    if (none?.reason === 'suppressed') {
+      const hidden = [none.suppressedFirst ? m : null, none.suppressedSecond ? o : null].filter((x): x is string => x !== null);
+      return { title: `${label}: too few to show for ${hidden.map(inText).join(' and ') || 'one group'}`, caption: text, notes: [], takeaway: null, clear: false };
+    }
     return { title: `${label}: nothing to compare for ${inText(m)} and ${inText(o)}`, caption: text, notes: [], takeaway: null, clear: false };
   }
 
@@ -69,7 +72,7 @@ export function frequencyWords(findings: readonly Finding[], ctx: WordsContext):
     statement = `${m} have ${size} ${noun} per ${units.singular} ${r <= 0.9 ? 'than' : 'as'} ${inText(o)}`;
   } else {
     const size = r >= 1.1 ? `${times(r)} times as high` : r <= 0.9 ? `${pct(1 - r)} lower` : 'about the same';
-    statement = `${label} is ${size} for ${inText(m)} ${r <= 0.9 ? 'than' : 'as'} for ${inText(o)}`;
+    statement = `${label} ${isAre(label)} ${size} for ${inText(m)} ${r <= 0.9 ? 'than' : 'as'} for ${inText(o)}`;
   }
   const title = statement;
   const both = `${value(members.mean)} against ${value(others.mean)}`;
@@ -93,7 +96,7 @@ export function frequencyWords(findings: readonly Finding[], ctx: WordsContext):
           }.`
         : '';
     const buckets = bucketLine(members, others, m, o, locale, units.plural, noun);
-    caption = `${lead}, ${inText(label)} is ${both} for ${inText(m)} and ${inText(o)}, over ${countText(members.units, locale)} and ${countText(others.units, locale)} ${units.plural}. ${capitalise(chance)}.${medians}${buckets ? ` ${buckets}` : ''}`;
+    caption = `${lead}, ${inText(label)} ${isAre(label)} ${both} for ${inText(m)} and ${inText(o)}, over ${countText(members.units, locale)} and ${countText(others.units, locale)} ${units.plural}. ${capitalise(chance)}.${medians}${buckets ? ` ${buckets}` : ''}`;
   } else {
     const ratioText =
       ratio && ratio.low !== null && ratio.high !== null

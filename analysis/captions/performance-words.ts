@@ -48,6 +48,12 @@ export function inText(label: string): string {
 }
 
 /** What one row is called, from a plain count metric's label ("bookings"), else "rows". */
+/** "is" or "are" to agree with a metric label: "Revenue is", "Bookings are". */
+export function isAre(label: string): 'is' | 'are' {
+  const last = label.trim().split(/\s+/).pop() ?? '';
+  return /[^s]s$/i.test(last) ? 'are' : 'is';
+}
+
 export function rowNoun(ds: DatasetConfig): { plural: string; singular: string } {
   const count = ds.metrics.find((m) => m.definition.type === 'count' && !m.definition.where);
   return nounPair(count?.label ?? 'rows');
@@ -205,5 +211,14 @@ export function noTestWords(f: PerformanceNoTestFinding, ctx: WordsContext, noun
       return `Every ${nouns.singular} has the same value within each group, so there is no spread to test against.`;
     case 'not_testable':
       return `This metric is a total with no per-${nouns.singular} value, so the groups are shown side by side without a test.`;
+    case 'suppressed': {
+      // Which side is which depends on the comparison: members vs others, or one group after vs before.
+      const [first, second] = f.comparison === 'members_vs_others' ? [m, o] : f.comparison === 'members_after_vs_before' ? [`${m} after`, `${m} before`] : [`${o} after`, `${o} before`];
+      const hidden = [f.suppressedFirst ? first : null, f.suppressedSecond ? second : null].filter((x): x is string => x !== null);
+      // Group labels name people in the plural ("Pass holders").
+      const who = hidden.length === 2 ? `${inText(hidden[0]!)} and ${inText(hidden[1]!)} are` : hidden.length === 1 ? `${inText(hidden[0]!)} are` : 'The groups are';
+      const under = f.minimum !== undefined ? ` (fewer than ${countText(f.minimum, ctx.locale)} ${nouns.plural}, the minimum group size)` : '';
+      return `${who} too few to show${under}, so the figures are withheld and there is nothing to compare.`;
+    }
   }
 }
