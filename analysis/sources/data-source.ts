@@ -22,7 +22,11 @@ export interface DataSource {
   close(): Promise<void>;
 }
 
-export type SourceErrorCode = 'unreachable' | 'missing_table' | 'timeout' | 'query_failed';
+/**
+ * Why a query could not give an answer. `dataset_changed`: the table no longer has a column the
+ * config (and so an agreed plan) relies on, e.g. it was dropped or renamed after the plan was made.
+ */
+export type SourceErrorCode = 'unreachable' | 'missing_table' | 'dataset_changed' | 'timeout' | 'query_failed';
 
 export class SourceError extends Error {
   constructor(

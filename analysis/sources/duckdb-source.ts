@@ -8,7 +8,7 @@ import type { CellValue, CompiledQuery, ResultColumn, ResultTable } from '../typ
 import { SourceError, type DataSource, type RunOptions, type TableColumn } from './data-source.js';
 
 export interface DuckDbSourceOptions {
-  source: SourceConfig;
+  source: Exclude<SourceConfig, { kind: 'postgres' }>;
   /** Absolute paths of the source files (already resolved against the config's folder). */
   paths: string[];
   table: string;
@@ -108,7 +108,11 @@ export class DuckDbSource implements DataSource {
       return { columns, rows, truncated };
     } catch (err) {
       if (timedOut) throw new SourceError('timeout', `the query ran past the ${options.timeoutMs} ms limit and was stopped`, err);
-      throw new SourceError('query_failed', `the query failed: ${firstLine(err)}`, err);
+      const line = firstLine(err);
+      // The same codes as the PostgreSQL source, from DuckDB's error classes.
+      if (/^Catalog Error: Table with name .* does not exist/.test(line)) throw new SourceError('missing_table', `the table is missing from the database (${line})`, err);
+      if (/^Binder Error: Referenced column .* not found/.test(line)) throw new SourceError('dataset_changed', `a column the plan uses is no longer in the table (${line})`, err);
+      throw new SourceError('query_failed', `the query failed: ${line}`, err);
     } finally {
       clearTimeout(timer);
     }

@@ -1,0 +1,325 @@
+// The same demo data (invented Skerrywake bookings) in two independent engines, DuckDB and
+// PostgreSQL, and every template asked a representative sub-question on both through
+// answerSubQuestion. The two engines share no code below the SQL text, so their agreeing on every
+// result table and every finding checks both the portability of the SQL and each engine's answer.
+import { mkdtemp, rm, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { DuckDBInstance } from '@duckdb/node-api';
+import { afterAll, beforeAll, expect, it } from 'vitest';
+import { answerSubQuestion } from '../../analysis/answer-sub-question.js';
+import { TEMPLATES } from '../../analysis/templates/index.js';
+import type { Answer, CellValue, ResultTable, SubQuestion } from '../../analysis/types.js';
+import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
+import { loadConfig, parseConfigText } from '../../config/load.js';
+import { demoFixture } from '../helpers/demo-fixture.js';
+import { copyDuckDbTableToPostgres, createReaderRole, describeWithPostgres, dropSchema, onPostgres, uniqueName, withClient } from '../helpers/postgres.js';
+
+/**
+ * Relative tolerance for numbers. Both engines compute in IEEE doubles, but they add up rows in
+ * different orders (parallel partial sums, different hash-aggregate layouts), and floating-point
+ * addition is not associative: a sum of 10^5 values agrees to roughly 1e-12 relative, not exactly.
+ * 1e-9 leaves room for that and for what the statistics do with it (variances, t and p values),
+ * while any real disagreement (a different row counted, a different period) is far larger.
+ * An absolute floor of 1e-12 covers quantities that are zero up to rounding in one engine.
+ */
+const REL_TOL = 1e-9;
+const ABS_FLOOR = 1e-12;
+
+const FULL = { start: '2022-01-01', end: '2025-07-01' };
+const SINCE_LAUNCH = { start: '2023-04-01', end: '2025-07-01' };
+const SUMMER_2024 = { start: '2024-06-01', end: '2024-09-01' };
+
+const base = (over: Partial<SubQuestion> & Pick<SubQuestion, 'template' | 'kind' | 'lens'>): SubQuestion => ({
+  id: over.template,
+  metrics: ['revenue'],
+  grain: 'month',
+  window: FULL,
+  filters: [],
+  ...over,
+});
+
+/**
+ * One sub-question per template, with the dimension or comparison group it needs. Metrics are
+ * varied so every metric type (sum, count, distinct count, average, ratio, rate) and a segment
+ * filter with a bound value go through both engines.
+ */
+const CASES: SubQuestion[] = [
+  base({ template: 'series', kind: 'trend', lens: 'time_pattern', metrics: ['revenue', 'customers', 'fare_per_passenger', 'refund_rate'] }),
+  base({ template: 'trend_test', kind: 'trend', lens: 'time_pattern', metrics: ['bookings'] }),
+  base({ template: 'trend_seasonality', kind: 'trend', lens: 'time_pattern', metrics: ['passengers'] }),
+  base({ template: 'trend_summary', kind: 'trend', lens: 'summary', metrics: ['average_fare'], grain: 'week' }),
+  base({ template: 'segment_trend', kind: 'trend', lens: 'breakdown', metrics: ['bookings'], dimension: 'channel', grain: 'quarter' }),
+  base({ template: 'segment_shares', kind: 'trend', lens: 'distribution', metrics: ['revenue'], dimension: 'route' }),
+  base({ template: 'growth_series', kind: 'growth', lens: 'time_pattern', metrics: ['bookings', 'revenue'] }),
+  base({ template: 'growth_drivers', kind: 'growth', lens: 'breakdown', dimension: 'channel', window: SUMMER_2024 }),
+  base({ template: 'growth_summary', kind: 'growth', lens: 'summary', metrics: ['passengers'] }),
+  base({ template: 'growth_share_shift', kind: 'growth', lens: 'distribution', dimension: 'route', window: SUMMER_2024 }),
+  base({ template: 'kpi_snapshot', kind: 'kpi', lens: 'time_pattern', metrics: ['fare_per_passenger'] }),
+  base({ template: 'kpi_context', kind: 'kpi', lens: 'summary', metrics: ['refund_rate'] }),
+  base({ template: 'kpi_by_segment', kind: 'kpi', lens: 'breakdown', dimension: 'route', metrics: ['revenue'] }),
+  base({ template: 'kpi_mix', kind: 'kpi', lens: 'distribution', dimension: 'fare_class', metrics: ['passengers'] }),
+  base({ template: 'performance_compare', kind: 'performance', lens: 'summary', comparisonGroup: 'skerrypass', window: SINCE_LAUNCH }),
+  base({
+    template: 'performance_compare',
+    kind: 'performance',
+    lens: 'summary',
+    comparisonGroup: 'skerrypass',
+    metrics: ['refund_rate'],
+    window: SINCE_LAUNCH,
+    filters: [{ dimension: 'channel', values: ['phone', 'web'] }],
+  }),
+  base({ template: 'performance_frequency', kind: 'performance', lens: 'distribution', comparisonGroup: 'skerrypass', metrics: ['bookings'], window: SINCE_LAUNCH }),
+  base({ template: 'performance_before_after', kind: 'performance', lens: 'time_pattern', comparisonGroup: 'skerrypass', metrics: ['average_fare'] }),
+  base({
+    template: 'performance_by_segment',
+    kind: 'performance',
+    lens: 'breakdown',
+    comparisonGroup: 'skerrypass',
+    dimension: 'route',
+    metrics: ['fare_per_passenger'],
+    window: SINCE_LAUNCH,
+  }),
+];
+
+function close(a: number, b: number): boolean {
+  return Math.abs(a - b) <= Math.max(ABS_FLOOR, REL_TOL * Math.max(Math.abs(a), Math.abs(b)));
+}
+
+/** Differences between two values of the same shape: numbers within tolerance, everything else exact. */
+function differences(a: unknown, b: unknown, path: string, out: string[]): void {
+  if (typeof a === 'number' && typeof b === 'number') {
+    if (Number.isNaN(a) && Number.isNaN(b)) return;
+    if (!close(a, b)) out.push(`${path}: ${a} vs ${b}`);
+    return;
+  }
+  if (Array.isArray(a) && Array.isArray(b)) {
+    if (a.length !== b.length) out.push(`${path}: ${a.length} items vs ${b.length}`);
+    for (let i = 0; i < Math.min(a.length, b.length); i++) differences(a[i], b[i], `${path}[${i}]`, out);
+    return;
+  }
+  if (a && b && typeof a === 'object' && typeof b === 'object') {
+    const ka = Object.keys(a).sort();
+    const kb = Object.keys(b).sort();
+    if (ka.join() !== kb.join()) out.push(`${path}: keys ${ka.join(',')} vs ${kb.join(',')}`);
+    for (const k of ka) if (k in b) differences((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k], `${path}.${k}`, out);
+    return;
+  }
+  if (a !== b) out.push(`${path}: ${JSON.stringify(a)} vs ${JSON.stringify(b)}`);
+}
+
+/** Rows in a canonical order: by every cell, numbers rounded well above the tolerance so both engines sort alike. */
+function sortedRows(t: ResultTable): Record<string, CellValue>[] {
+  const key = (r: Record<string, CellValue>) =>
+    JSON.stringify(t.columns.map((c) => {
+      const v = r[c.name];
+      return typeof v === 'number' ? Number(v.toPrecision(7)) : v;
+    }));
+  return [...t.rows].sort((x, y) => (key(x) < key(y) ? -1 : key(x) > key(y) ? 1 : 0));
+}
+
+function compareAnswers(duck: Answer, post: Answer): string[] {
+  const out: string[] = [];
+  const names = Object.keys(duck.tables).sort();
+  if (names.join() !== Object.keys(post.tables).sort().join()) out.push(`tables: ${names.join()} vs ${Object.keys(post.tables).sort().join()}`);
+  for (const name of names) {
+    const d = duck.tables[name]!;
+    const p = post.tables[name];
+    if (!p) continue;
+    differences(d.columns, p.columns, `${name}.columns`, out);
+    differences(d.truncated, p.truncated, `${name}.truncated`, out);
+    differences(sortedRows(d), sortedRows(p), `${name}.rows`, out);
+  }
+  differences(duck.findings, post.findings, 'findings', out);
+  differences(duck.caveats, post.caveats, 'caveats', out);
+  return out;
+}
+
+it('covers every template in the registry', () => {
+  expect([...new Set(CASES.map((c) => c.template))].sort()).toEqual(Object.keys(TEMPLATES).sort());
+});
+
+it('compares numbers within the stated tolerance and nothing looser', () => {
+  const out: string[] = [];
+  differences({ x: [1, 'a', null] }, { x: [1 + 1e-12, 'a', null] }, 'ok', out);
+  expect(out).toEqual([]);
+  differences({ x: 100 }, { x: 100 * (1 + 1e-7) }, 'far', out);
+  differences({ x: 'a' }, { x: 'b' }, 'text', out);
+  differences([1, 2], [1], 'length', out);
+  expect(out).toHaveLength(3);
+});
+
+describeWithPostgres('DuckDB and PostgreSQL agree on every template', (adminUrl) => {
+  const schema = uniqueName('tc_cross');
+  const urlEnv = 'TC_CROSS_ENGINE_URL';
+  let duck: Workspace;
+  let post: Workspace;
+  let role: string | undefined;
+  let loadedRows = 0;
+  let fixtureRows = 0;
+
+  beforeAll(async () => {
+    const demo = await demoFixture();
+    fixtureRows = demo.rows;
+    loadedRows = (await copyDuckDbTableToPostgres({ duckdbPath: demo.databasePath, table: 'bookings', url: adminUrl, schema })).rows;
+    // Read through a SELECT-only role, as a warehouse would grant it.
+    const reader = await createReaderRole(adminUrl, schema);
+    role = reader.role;
+    const config = loadConfig(demo.configPath);
+    duck = await openWorkspace(config);
+    post = await openWorkspace(onPostgres(config, urlEnv, schema), undefined, { [urlEnv]: reader.url });
+  }, 180_000);
+
+  afterAll(async () => {
+    await duck?.source.close();
+    await post?.source.close();
+    await dropSchema(adminUrl, schema, role ? [role] : []);
+  });
+
+  it('loads every demo row and sees the same coverage in both engines', () => {
+    expect(loadedRows).toBe(fixtureRows);
+    expect(post.source.dialect.name).toBe('postgres');
+    expect(duck.source.dialect.name).toBe('duckdb');
+    expect(post.context.timeColumnType).toBe(duck.context.timeColumnType);
+    expect(post.coverage).toEqual(duck.coverage);
+  });
+
+  for (const sq of CASES) {
+    const label = `${sq.template}: ${sq.metrics.join(', ')}${sq.dimension ? ` by ${sq.dimension}` : ''}${sq.filters.length ? ' (filtered)' : ''}`;
+    it(label, async () => {
+      const [d, p] = await Promise.all([answerSubQuestion(sq, duck), answerSubQuestion(sq, post)]);
+      // The answer must say something: a template that found nothing on both engines proves little.
+      expect(d.findings.length).toBeGreaterThan(0);
+      expect(Object.values(d.tables).some((t) => t.rows.length > 0)).toBe(true);
+      expect(p.queries.map((q) => q.name)).toEqual(d.queries.map((q) => q.name));
+      expect(compareAnswers(d, p)).toEqual([]);
+    }, 60_000);
+  }
+});
+
+// ---- time columns with and without a zone --------------------------------------------------------
+// The demo's time column is a DATE. Warehouses often hold instants (TIMESTAMPTZ) or wall-clock
+// times (TIMESTAMP); each dialect turns those into the dataset's local calendar date its own way
+// (DuckDB: timezone(); PostgreSQL: AT TIME ZONE). Instants are placed around local midnight and
+// across both 2024 daylight-saving changes in Dublin, and the daily counts are checked against a
+// plain JS reduction using Intl's IANA zone data, as well as between the engines.
+
+const ZONE = 'Europe/Dublin';
+const EVENT_COUNT = 3000;
+
+interface EventRow {
+  /** The instant, UTC. */
+  at: Date;
+  /** Wall-clock time in Dublin, as a zone-less TIMESTAMP would hold it. */
+  local: string;
+  cents: number;
+  kind: string;
+}
+
+function dublinWallClock(d: Date): string {
+  const parts = new Intl.DateTimeFormat('en-CA', { timeZone: ZONE, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit' })
+    .formatToParts(d)
+    .reduce<Record<string, string>>((acc, p) => ({ ...acc, [p.type]: p.value }), {});
+  return `${parts.year}-${parts.month}-${parts.day} ${parts.hour}:${parts.minute}:${parts.second}`;
+}
+
+/** Deterministic instants: every 37 minutes from 2024-03-25 (DST starts 31 March, ends 27 October), plus a burst near midnights. */
+function events(): EventRow[] {
+  const out: EventRow[] = [];
+  const start = Date.UTC(2024, 2, 25, 0, 0, 0);
+  for (let i = 0; i < EVENT_COUNT; i++) {
+    const t = i % 3 === 0 ? start + i * 37 * 60_000 : Date.UTC(2024, 9, 20 + (i % 12), 23, (i * 7) % 60, i % 60) - (i % 2) * 3_600_000;
+    const at = new Date(t);
+    out.push({ at, local: dublinWallClock(at), cents: 100 + ((i * 7919) % 5000), kind: ['a', 'b', 'c'][i % 3]! });
+  }
+  return out;
+}
+
+function zoneConfig(dir: string, timeColumn: 'at' | 'local_at'): string {
+  return `version: 1
+datasets:
+  - name: events
+    label: Events
+    source: { kind: duckdb, path: events.duckdb }
+    table: events
+    time_column: ${timeColumn}
+    timezone: ${ZONE}
+    metrics:
+      - { name: amount, label: Amount, definition: { type: sum, column: amount }, unit: currency, currency: EUR, higher_is_better: true }
+      - { name: events, label: Events, definition: { type: count }, unit: count, higher_is_better: true }
+    dimensions:
+      - { name: kind, column: kind, label: Kind }
+`;
+}
+
+describeWithPostgres('DuckDB and PostgreSQL agree on local dates of zoned and zone-less time columns', (adminUrl) => {
+  const schema = uniqueName('tc_zone');
+  const urlEnv = 'TC_ZONE_URL';
+  const rows = events();
+  let dir: string;
+  const workspaces: Workspace[] = [];
+
+  beforeAll(async () => {
+    dir = await mkdtemp(join(tmpdir(), 'tc-zone-'));
+    const csv = join(dir, 'events.csv');
+    await writeFile(csv, `at,local_at,amount,kind\n${rows.map((r) => `${r.at.toISOString()},${r.local},${(r.cents / 100).toFixed(2)},${r.kind}`).join('\n')}\n`);
+    const instance = await DuckDBInstance.create(join(dir, 'events.duckdb'));
+    const c = await instance.connect();
+    await c.run(`CREATE TABLE events AS SELECT CAST("at" AS TIMESTAMPTZ) AS "at", CAST(local_at AS TIMESTAMP) AS local_at,
+      CAST(amount AS DECIMAL(10,2)) AS amount, CAST(kind AS VARCHAR) AS kind
+      FROM read_csv('${csv}', header = true, all_varchar = true)`);
+    c.closeSync();
+    instance.closeSync();
+    await withClient(adminUrl, async (pgc) => {
+      await pgc.query(`CREATE SCHEMA ${schema}`);
+      await pgc.query(`CREATE TABLE ${schema}.events ("at" TIMESTAMPTZ, local_at TIMESTAMP, amount NUMERIC(10,2), kind TEXT)`);
+      const values = rows.map((_, i) => `($${i * 4 + 1}, $${i * 4 + 2}, $${i * 4 + 3}, $${i * 4 + 4})`);
+      for (let i = 0; i < rows.length; i += 500) {
+        const part = rows.slice(i, i + 500);
+        await pgc.query(
+          `INSERT INTO ${schema}.events VALUES ${values.slice(0, part.length).join(', ')}`,
+          part.flatMap((r) => [r.at.toISOString(), r.local, (r.cents / 100).toFixed(2), r.kind]),
+        );
+      }
+    });
+  }, 120_000);
+
+  afterAll(async () => {
+    for (const ws of workspaces) await ws.source.close();
+    await dropSchema(adminUrl, schema);
+    await rm(dir, { recursive: true, force: true });
+  });
+
+  for (const timeColumn of ['at', 'local_at'] as const) {
+    it(`${timeColumn === 'at' ? 'TIMESTAMPTZ' : 'TIMESTAMP'} time column: daily counts by local date`, async () => {
+      const config = parseConfigText(zoneConfig(dir, timeColumn), join(dir, 'threadcount.yaml'));
+      const duck = await openWorkspace(config);
+      workspaces.push(duck);
+      const post = await openWorkspace(onPostgres(config, urlEnv, schema), undefined, { [urlEnv]: adminUrl });
+      workspaces.push(post);
+      expect(duck.context.timeColumnType).toBe(timeColumn === 'at' ? 'timestamptz' : 'timestamp');
+      expect(post.context.timeColumnType).toBe(duck.context.timeColumnType);
+      expect(post.coverage).toEqual(duck.coverage);
+
+      const window = { start: '2024-03-25', end: '2024-11-01' };
+      const daily: SubQuestion = { id: 'zone', kind: 'trend', lens: 'time_pattern', template: 'series', metrics: ['events', 'amount'], grain: 'day', window, filters: [] };
+      const [d, p] = await Promise.all([answerSubQuestion(daily, duck), answerSubQuestion(daily, post)]);
+      expect(compareAnswers(d, p)).toEqual([]);
+
+      // Independent reduction: each instant's Dublin calendar date from Intl, counted in JS.
+      const expected = new Map<string, number>();
+      for (const r of rows) {
+        const day = r.local.slice(0, 10);
+        if (day >= window.start && day < window.end) expected.set(day, (expected.get(day) ?? 0) + 1);
+      }
+      const got = new Map(d.tables.series!.rows.map((r) => [String(r.period), Number(r.events)]));
+      expect(got).toEqual(expected);
+      // Not vacuous: many instants fall on a different calendar date in UTC than in Dublin.
+      expect(rows.filter((r) => r.at.toISOString().slice(0, 10) !== r.local.slice(0, 10)).length).toBeGreaterThan(500);
+
+      const shares: SubQuestion = { ...daily, template: 'segment_shares', lens: 'distribution', dimension: 'kind', grain: 'month', metrics: ['amount'] };
+      const [ds, ps] = await Promise.all([answerSubQuestion(shares, duck), answerSubQuestion(shares, post)]);
+      expect(compareAnswers(ds, ps)).toEqual([]);
+    }, 60_000);
+  }
+});

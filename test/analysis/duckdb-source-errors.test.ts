@@ -1,0 +1,29 @@
+// The DuckDB source maps its engine's errors to the same SourceError codes as the PostgreSQL
+// source, so the bot's replies do not depend on the engine.
+import { afterAll, beforeAll, expect, it } from 'vitest';
+import { SourceError } from '../../analysis/sources/data-source.js';
+import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
+import { loadConfig } from '../../config/load.js';
+import { demoFixture } from '../helpers/demo-fixture.js';
+
+let ws: Workspace;
+beforeAll(async () => {
+  ws = await openWorkspace(loadConfig((await demoFixture()).configPath));
+});
+afterAll(async () => ws?.source.close());
+
+async function codeOf(sql: string): Promise<string> {
+  try {
+    await ws.source.run({ sql, params: [] }, ws.runOptions);
+  } catch (err) {
+    if (err instanceof SourceError) return err.code;
+    throw err;
+  }
+  throw new Error('expected the query to fail');
+}
+
+it('reports a missing table, a missing column and other errors with their own codes', async () => {
+  expect(await codeOf('SELECT * FROM "nowhere"')).toBe('missing_table');
+  expect(await codeOf('SELECT "gone" FROM "bookings"')).toBe('dataset_changed');
+  expect(await codeOf('SELECT CAST(\'x\' AS INTEGER)')).toBe('query_failed');
+});
