@@ -1,22 +1,45 @@
 // Compile -> run -> read for one sub-question: the only analysis step that touches a database.
+import { timePhase, type PhaseTimings } from './phase-timings.js';
 import { qualityCaveatsFor } from './quality/check-run.js';
 import type { QualityReport } from './quality/quality-checks.js';
 import { templateFor } from './templates/index.js';
-import type { Answer, ResultTable, SubQuestion } from './types.js';
+import type { Answer, NamedQuery, ResultTable, SubQuestion } from './types.js';
 import type { Workspace } from './workspace.js';
 
 export interface AnswerOptions {
   /** The run's data-quality report; its caveats are attached to the answers they touch. */
   quality?: QualityReport;
   now?: Date;
+  /** Collects the time spent in SQL and in reading the results (the benchmark passes one). */
+  timings?: PhaseTimings;
+  /**
+   * Results of one run, by statement and parameters, shared by its sub-questions: a query that two
+   * answers compile identically (e.g. a change's drivers and its share shift) runs once per run.
+   */
+  runResults?: Map<string, Promise<ResultTable>>;
 }
 
 export async function answerSubQuestion(sq: SubQuestion, ws: Workspace, opts: AnswerOptions = {}): Promise<Answer> {
   const template = templateFor(sq);
   const queries = template.compile(sq, { ...ws.context, coverage: ws.coverage });
   const tables: Record<string, ResultTable> = {};
-  for (const q of queries) tables[q.name] = await ws.source.run(q, ws.runOptions);
-  const { findings, caveats } = template.read(sq, tables, { dataset: ws.dataset, coverage: ws.coverage });
+  for (const q of queries) tables[q.name] = await runShared(q, ws, opts);
+  const { findings, caveats } = timePhase(opts.timings, 'read', () => template.read(sq, tables, { dataset: ws.dataset, coverage: ws.coverage }));
   const quality = opts.quality ? qualityCaveatsFor(sq, opts.quality, ws, opts.now ?? new Date()) : [];
   return { subQuestion: sq, queries, tables, findings, caveats: [...caveats, ...quality] };
+}
+
+function runShared(q: NamedQuery, ws: Workspace, opts: AnswerOptions): Promise<ResultTable> {
+  const run = () => timePhase(opts.timings, 'sql', () => ws.source.run(q, ws.runOptions), q);
+  const shared = opts.runResults;
+  if (!shared) return run();
+  const key = `${q.sql}\u0000${JSON.stringify(q.params)}`;
+  // Each answer gets its own copy, so no reader can change another answer's table.
+  const copy = (table: ResultTable) => structuredClone(table);
+  const earlier = shared.get(key);
+  // Waiting for a result another answer is fetching is time spent in SQL too.
+  if (earlier) return timePhase(opts.timings, 'sql', () => earlier.then(copy), q);
+  const result = run();
+  shared.set(key, result);
+  return result.then(copy);
 }

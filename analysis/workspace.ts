@@ -5,6 +5,8 @@ import type { CompileContext } from './compile-context.js';
 import { compileCoverage, type Coverage, readCoverage } from './coverage.js';
 import { SourceError, timeColumnTypeOf, type DataSource, type RunOptions } from './sources/data-source.js';
 import { DuckDbSource } from './sources/duckdb-source.js';
+import { PostgresSource } from './sources/postgres-source.js';
+import type { Secrets } from '../config/secrets.js';
 
 export interface Workspace {
   config: LoadedConfig;
@@ -15,16 +17,10 @@ export interface Workspace {
   runOptions: RunOptions;
 }
 
-export async function openWorkspace(config: LoadedConfig, datasetName?: string): Promise<Workspace> {
+export async function openWorkspace(config: LoadedConfig, datasetName?: string, secrets: Secrets = {}): Promise<Workspace> {
   const dataset = datasetName ? config.datasets.find((d) => d.name === datasetName) : config.datasets[0];
   if (!dataset) throw new SourceError('missing_table', `the config has no dataset named ${datasetName}`);
-  const paths = dataset.source.kind === 'duckdb' ? [dataset.source.path] : dataset.source.paths;
-  const source = await DuckDbSource.open({
-    source: dataset.source,
-    paths: paths.map((p) => resolveSourcePath(config, p)),
-    table: dataset.table,
-    engine: config.engine,
-  });
+  const source = await openSource(config, dataset, secrets);
   try {
     const columns = await source.describe(dataset.table);
     const time = columns.find((c) => c.name === dataset.time_column);
@@ -39,6 +35,25 @@ export async function openWorkspace(config: LoadedConfig, datasetName?: string):
     await source.close();
     throw err;
   }
+}
+
+/** The engine for the dataset's source kind: embedded DuckDB for files, a pool for PostgreSQL. */
+async function openSource(config: LoadedConfig, dataset: DatasetConfig, secrets: Secrets): Promise<DataSource> {
+  const src = dataset.source;
+  if (src.kind === 'postgres') {
+    const url = secrets[src.url_env];
+    if (!url) {
+      throw new SourceError('unreachable', `the environment variable ${src.url_env} (the PostgreSQL connection URL for the dataset "${dataset.name}") is not set`);
+    }
+    return PostgresSource.open({ url, ...(src.schema ? { schema: src.schema } : {}), timeoutMs: config.engine.statement_timeout_ms });
+  }
+  const paths = src.kind === 'duckdb' ? [src.path] : src.paths;
+  return DuckDbSource.open({
+    source: src,
+    paths: paths.map((p) => resolveSourcePath(config, p)),
+    table: dataset.table,
+    engine: config.engine,
+  });
 }
 
 /** Re-reads what the data covers (for "rerun with fresh data"). */

@@ -6,15 +6,18 @@ import { answerSubQuestion } from '../analysis/answer-sub-question.js';
 import { timePhase, type PhaseTimings } from '../analysis/phase-timings.js';
 import { checkQuality } from '../analysis/quality/check-run.js';
 import type { Takeaway } from '../analysis/present/presenter.js';
-import type { Answer, Audience, ResultTable, SubQuestion } from '../analysis/types.js';
+import type { Answer, Audience, NamedQuery, ResultTable, SubQuestion } from '../analysis/types.js';
 import { refreshCoverage, type Workspace } from '../analysis/workspace.js';
+import type { AccessConfig, DatasetConfig } from '../config/schema.js';
+import { allowedDatasets, channelKey, chooseDataset } from './access.js';
+import type { Brief } from './brief.js';
 import { readCommand } from './commands.js';
 import { readRequest } from './intake.js';
 import { applyPlanEdit, buildPlan, readPlanEdit } from './plan.js';
 import type { IncomingMessage, OutgoingPost, ThreadPort } from './port.js';
-import { nextPrompt, readAnswer, type Prompt, type PromptContext } from './prompts.js';
+import { datasetPrompt, nextPrompt, personalDataRefusal, readAnswer, readDatasetAnswer, type Prompt, type PromptContext } from './prompts.js';
 import * as replies from './replies.js';
-import type { StateStore, ThreadState } from './thread-state.js';
+import type { AuditKind, StateStore, ThreadState } from './thread-state.js';
 
 export interface PresentedPost {
   post: Omit<OutgoingPost, 'key'>;
@@ -40,7 +43,12 @@ export interface BotTimings {
 }
 
 export interface BotDeps {
-  workspace: Workspace;
+  /** The datasets the bot answers on, by dataset name (a config's datasets, opened). */
+  workspaces?: ReadonlyMap<string, Workspace>;
+  /** One dataset every channel may use: shorthand for `workspaces` with one entry and no `access`. */
+  workspace?: Workspace;
+  /** Which channels may use which datasets (the config's `access` section); absent, every channel may use all. */
+  access?: AccessConfig;
   port: ThreadPort;
   store: StateStore;
   now: () => Date;
@@ -55,8 +63,23 @@ export interface BotDeps {
   onJobStart?: (threadId: string, sq: SubQuestion) => void;
 }
 
+/** Who an audit entry or a post is for: the thread, the person asking and their channel. */
+interface Who {
+  threadId: string;
+  requester: string;
+  channel: string;
+}
+
 export class Bot {
-  constructor(private readonly deps: BotDeps) {}
+  private readonly workspaces: ReadonlyMap<string, Workspace>;
+  /** Tells apart the keys of one-off replies outside a request's state (commands, refusals). */
+  private oneOff = 0;
+
+  constructor(private readonly deps: BotDeps) {
+    const given = deps.workspaces ?? (deps.workspace ? new Map([[deps.workspace.dataset.name, deps.workspace]]) : undefined);
+    if (!given || given.size === 0) throw new Error('the bot needs at least one dataset');
+    this.workspaces = given;
+  }
 
   /** Messages in one thread are handled one at a time; runs go on in the background. */
   handle(msg: IncomingMessage): Promise<void> {
@@ -64,13 +87,23 @@ export class Bot {
   }
 
   private async handleNow(msg: IncomingMessage): Promise<void> {
+    const channel = channelKey(msg);
     const state = await this.deps.store.get(msg.threadId);
     const command = readCommand(msg.text);
-    if (command) return this.onCommand(command, msg, state);
-    if (!state) return this.startThread(msg);
+    if (!state && !command) return this.startThread(msg, channel);
+    const who: Who = { threadId: msg.threadId, requester: msg.author, channel };
+    await this.audit(who, 'message', { text: msg.text });
+    // The access rules may have changed since the thread started: they are checked on every message.
+    const refusal = state ? this.threadRefusal(state, channel) : null;
+    if (state && refusal) {
+      await this.audit(who, 'denied', { reason: refusal.reason, text: msg.text, ...(state.dataset ? { dataset: state.dataset } : {}) });
+      return this.say(state, 'note', refusal.text);
+    }
+    if (command) return this.onCommand(command, msg, state, who);
+    if (!state) return;
     switch (state.stage) {
       case 'clarifying':
-        return this.onAnswer(state, msg.text);
+        return state.prompt?.topic === 'dataset' ? this.onDatasetAnswer(state, msg.text, who) : this.onAnswer(state, msg.text);
       case 'planning':
         return this.onPlanReply(state, msg.text);
       case 'running':
@@ -143,25 +176,70 @@ export class Bot {
   }
 
   private get locale(): string {
-    return this.deps.workspace.config.charts.locale;
+    return this.workspaces.values().next().value!.config.charts.locale;
   }
 
-  private get promptContext(): PromptContext {
-    const ws = this.deps.workspace;
+  /** The name of the dataset a thread from before there were several uses: the config's first. */
+  private get firstDataset(): string {
+    return this.workspaces.keys().next().value!;
+  }
+
+  /** The workspace of a thread's dataset. */
+  private workspaceOf(state: ThreadState): Workspace {
+    const name = state.dataset ?? this.firstDataset;
+    const ws = this.workspaces.get(name);
+    if (!ws) throw new Error(`the dataset "${name}" of thread ${state.threadId} is not configured`);
+    return ws;
+  }
+
+  /** The datasets a channel may use, in the config's order. */
+  private allowedFor(channel: string): Workspace[] {
+    return allowedDatasets(this.deps.access, [...this.workspaces.keys()], channel).map((n) => this.workspaces.get(n)!);
+  }
+
+  /** Why a thread may not go on from this channel, if it may not. */
+  private threadRefusal(state: ThreadState, channel: string): { reason: string; text: string } | null {
+    const allowed = this.allowedFor(channel);
+    // Still choosing: the channel must keep at least one dataset.
+    if (state.prompt?.topic === 'dataset' && !state.dataset) return allowed.length > 0 ? null : { reason: 'no_dataset', text: replies.noDatasetForChannel() };
+    const name = state.dataset ?? this.firstDataset;
+    const ws = this.workspaces.get(name);
+    if (!ws) return { reason: 'dataset_gone', text: replies.datasetGone(name) };
+    if (!allowed.includes(ws)) return { reason: 'dataset_not_allowed', text: replies.datasetNotAllowed(ws.dataset.label) };
+    return null;
+  }
+
+  private promptContext(ws: Workspace): PromptContext {
     return { dataset: ws.dataset, coverage: ws.coverage, now: this.deps.now(), locale: this.locale };
   }
 
-  private async onCommand(command: NonNullable<ReturnType<typeof readCommand>>, msg: IncomingMessage, state: ThreadState | undefined): Promise<void> {
-    const ds = this.deps.workspace.dataset;
-    const once = async (name: string, text: string) => {
-      // Commands outside a request's thread have no state; their key is the message's own.
-      await this.postOnce(msg.threadId, `${msg.threadId}:${name}:${state?.turn ?? 0}:${Date.now()}`, { text });
-    };
+  private who(state: ThreadState): Who {
+    return { threadId: state.threadId, requester: state.requester, channel: state.channel ?? channelKey({ threadId: state.threadId }) };
+  }
+
+  private async audit(who: Who, kind: AuditKind, detail: Record<string, unknown>): Promise<void> {
+    await this.deps.store.appendAudit({ at: this.deps.now().toISOString(), ...who, kind, detail });
+  }
+
+  /** A reply outside a request's state (a command in a new thread, a refusal): its key is its own. */
+  private async oneOffReply(who: Who, name: string, text: string, turn = 0): Promise<void> {
+    await this.postOnce(who.threadId, `${who.threadId}:${name}:${turn}:${Date.now()}:${this.oneOff++}`, { text }, who);
+  }
+
+  private async onCommand(command: NonNullable<ReturnType<typeof readCommand>>, msg: IncomingMessage, state: ThreadState | undefined, who: Who): Promise<void> {
+    const once = (name: string, text: string) => this.oneOffReply(who, name, text, state?.turn ?? 0);
     switch (command) {
       case 'help':
         return state ? this.say(state, 'help', replies.helpText()) : once('help', replies.helpText());
-      case 'catalog':
-        return state ? this.say(state, 'catalog', replies.catalogText(ds)) : once('catalog', replies.catalogText(ds));
+      case 'catalog': {
+        if (state) return this.say(state, 'catalog', replies.catalogText(this.workspaceOf(state).dataset));
+        const allowed = this.allowedFor(who.channel);
+        if (allowed.length === 0) {
+          await this.audit(who, 'denied', { reason: 'no_dataset', text: msg.text });
+          return once('denied', replies.noDatasetForChannel());
+        }
+        return once('catalog', allowed.map((ws) => replies.catalogText(ws.dataset)).join('\n\n'));
+      }
       case 'status': {
         const mine = await this.deps.store.list({ requester: msg.author });
         return state ? this.say(state, 'status', replies.statusText(mine, this.locale)) : once('status', replies.statusText(mine, this.locale));
@@ -175,7 +253,7 @@ export class Bot {
         if (!state?.plan || (state.stage !== 'done' && state.stage !== 'cancelled')) return once('rerun', replies.nothingToRerun());
         // The data may still be down or changed: say so in the thread and keep the plan for later.
         try {
-          await refreshCoverage(this.deps.workspace);
+          await refreshCoverage(this.workspaceOf(state));
         } catch (err) {
           return this.say(state, 'note', replies.rerunFailed(err));
         }
@@ -186,24 +264,84 @@ export class Bot {
     }
   }
 
-  private async startThread(msg: IncomingMessage): Promise<void> {
-    const ds = this.deps.workspace.dataset;
-    const brief = readRequest(msg.text, ds, { now: this.deps.now(), timeZone: ds.timezone });
+  /**
+   * A new request: the channel's datasets decide where it may run. One allowed dataset is used
+   * at once; of several, the one whose catalog the request names best, else the requester is asked.
+   */
+  private async startThread(msg: IncomingMessage, channel: string): Promise<void> {
+    const who: Who = { threadId: msg.threadId, requester: msg.author, channel };
+    const allowed = this.allowedFor(channel);
+    if (allowed.length === 0) {
+      await this.audit(who, 'request', { text: msg.text });
+      await this.audit(who, 'denied', { reason: 'no_dataset', text: msg.text });
+      return this.oneOffReply(who, 'denied', replies.noDatasetForChannel());
+    }
+    const choice = chooseDataset(msg.text, allowed.map((ws) => ws.dataset));
+    const first = choice.kind === 'chosen' ? choice.dataset : choice.ranked[0]!;
     const state: ThreadState = {
       threadId: msg.threadId,
       requester: msg.author,
+      channel,
       stage: 'clarifying',
-      brief,
+      // Read against the likeliest catalog for now; read again once the dataset is chosen.
+      brief: this.readBrief(msg.text, first),
       turn: 0,
       updatedAt: this.deps.now().toISOString(),
     };
-    await this.say(state, 'ack', replies.acknowledgement(brief, ds));
+    if (choice.kind === 'chosen') state.dataset = first.name;
+    await this.audit(who, 'request', { text: msg.text, ...(state.dataset ? { dataset: state.dataset } : {}) });
+    if (choice.kind === 'ask') {
+      const prompt = datasetPrompt(choice.ranked, choice.matched);
+      state.prompt = prompt;
+      state.waitingSince = this.deps.now().toISOString();
+      return this.say(state, 'prompt', replies.promptText(prompt), prompt);
+    }
+    await this.begin(state, allowed.length > 1);
+  }
+
+  private readBrief(text: string, ds: DatasetConfig): Brief {
+    return readRequest(text, ds, { now: this.deps.now(), timeZone: ds.timezone });
+  }
+
+  /** The dataset is known: acknowledge, refuse any personal data named, then ask or plan. */
+  private async begin(state: ThreadState, nameDataset: boolean): Promise<void> {
+    const ds = this.workspaceOf(state).dataset;
+    const ack = replies.acknowledgement(state.brief, ds);
+    await this.say(state, 'ack', nameDataset ? `${replies.datasetChosen(ds.label)} ${ack}` : ack);
+    const personal = state.brief.personalData ?? [];
+    if (personal.length > 0) {
+      // Labels, not catalog names: a personal dimension's name is often its column's.
+      const labels = personal.map((n) => ds.dimensions.find((d) => d.name === n)?.label ?? n);
+      await this.audit(this.who(state), 'denied', { reason: 'personal_data', dimensions: labels, text: state.brief.requestText });
+      await this.say(state, 'note', `${personalDataRefusal(ds, personal)} I'll answer the rest of the request without it.`);
+    }
     await this.advance(state);
+  }
+
+  private async onDatasetAnswer(state: ThreadState, text: string, who: Who): Promise<void> {
+    const prompt = state.prompt!;
+    const reading = readDatasetAnswer(prompt, byOptionNumber(prompt, text));
+    if (!reading.ok) {
+      state.waitingSince = this.deps.now().toISOString();
+      return this.say(state, 'prompt', `${reading.message}\n\n${replies.promptText(prompt)}`, prompt, { promptLead: reading.message });
+    }
+    // The options were the channel's datasets when it was asked; the rules may have changed since.
+    const ws = this.allowedFor(who.channel).find((w) => w.dataset.name === reading.dataset);
+    if (!ws) {
+      const label = this.workspaces.get(reading.dataset)?.dataset.label ?? reading.dataset;
+      await this.audit(who, 'denied', { reason: 'dataset_not_allowed', text, dataset: reading.dataset });
+      return this.say(state, 'note', replies.datasetNoLongerOffered(label));
+    }
+    state.dataset = reading.dataset;
+    delete state.prompt;
+    state.brief = this.readBrief(state.brief.requestText, ws.dataset);
+    await this.begin(state, true);
   }
 
   /** Asks the next prompt, or proposes the plan when nothing is left to ask. */
   private async advance(state: ThreadState): Promise<void> {
-    const prompt = nextPrompt(state.brief, this.promptContext);
+    const ws = this.workspaceOf(state);
+    const prompt = nextPrompt(state.brief, this.promptContext(ws));
     state.waitingSince = this.deps.now().toISOString();
     if (prompt) {
       state.prompt = prompt;
@@ -211,14 +349,14 @@ export class Bot {
       return;
     }
     delete state.prompt;
-    state.plan = buildPlan(state.brief, this.deps.workspace.dataset, this.deps.workspace.coverage);
+    state.plan = buildPlan(state.brief, ws.dataset, ws.coverage);
     state.stage = 'planning';
-    await this.say(state, 'plan', replies.planText(state.plan, this.deps.workspace.dataset, this.locale), undefined, { quickReplies: replies.PLAN_REPLIES });
+    await this.say(state, 'plan', replies.planText(state.plan, ws.dataset, this.locale), undefined, { quickReplies: replies.PLAN_REPLIES });
   }
 
   private async onAnswer(state: ThreadState, text: string): Promise<void> {
     const prompt = state.prompt!;
-    const reading = readAnswer(prompt, byOptionNumber(prompt, text), state.brief, this.promptContext);
+    const reading = readAnswer(prompt, byOptionNumber(prompt, text), state.brief, this.promptContext(this.workspaceOf(state)));
     if (!reading.ok) {
       state.waitingSince = this.deps.now().toISOString();
       return this.say(state, 'prompt', `${reading.message}\n\n${replies.promptText(prompt)}`, prompt, { promptLead: reading.message });
@@ -247,7 +385,7 @@ export class Bot {
     const { plan, error } = applyPlanEdit(state.plan!, edit);
     if (error) return this.say(state, 'note', error);
     state.plan = plan;
-    await this.say(state, 'plan', replies.planText(plan, this.deps.workspace.dataset, this.locale), undefined, { quickReplies: replies.PLAN_REPLIES });
+    await this.say(state, 'plan', replies.planText(plan, this.workspaceOf(state).dataset, this.locale), undefined, { quickReplies: replies.PLAN_REPLIES });
   }
 
   /**
@@ -260,21 +398,33 @@ export class Bot {
     const plan = started.plan!;
     const run = started.run!;
     const audience = started.brief.audience ?? 'managers';
-    const ws = this.deps.workspace;
+    const ws = this.workspaceOf(started);
+    const who = this.who(started);
     const runKey = (name: string) => `${threadId}:run${run.number}:${name}`;
     // Charts of this process's answers, for the digest (after a restart, only those made since).
     const charts = new Map<number, Buffer>();
     // One data-quality pass per run; if it cannot run, each answer reports its own error.
-    const quality = await checkQuality(plan.items, ws).catch(() => undefined);
-    const progressRef = await this.postOnce(threadId, runKey('progress'), { text: replies.progress(run.posted.length, plan.items.length) });
+    const phases = this.deps.phases;
+    const quality = await timePhase(phases, 'checks', () => checkQuality(plan.items, ws)).catch(() => undefined);
+    // An identical query compiled by two sub-questions of this run runs once.
+    const runResults = new Map<string, Promise<ResultTable>>();
+    const progressRef = await this.postOnce(threadId, runKey('progress'), { text: replies.progress(run.posted.length, plan.items.length) }, who);
+    // The queries each sub-question ran, for the audit log (kept even when presenting fails).
+    const ran = plan.items.map(() => [] as NamedQuery[]);
     const pending = plan.items.map((sq, i) =>
       run.posted.includes(sq.id)
         ? null
         : this.deps
             .jobs(async () => {
               this.deps.onJobStart?.(threadId, sq);
-              const answer = await answerSubQuestion(sq, ws, { ...(quality ? { quality } : {}), now: this.deps.now() });
-              return this.deps.presentAnswer(answer, { workspace: ws, audience, position: i + 1 });
+              const answer = await answerSubQuestion(sq, ws, {
+                ...(quality ? { quality } : {}),
+                now: this.deps.now(),
+                runResults,
+                ...(phases ? { timings: phases } : {}),
+              });
+              ran[i] = answer.queries;
+              return this.deps.presentAnswer(answer, { workspace: ws, audience, position: i + 1, ...(phases ? { timings: phases } : {}) });
             })
             // Settled at once, so a failure waiting its turn to be posted is never "unhandled".
             .then(
@@ -291,7 +441,10 @@ export class Bot {
       const stillOn = await this.inThread(threadId, async () => {
         const state = await this.deps.store.get(threadId);
         if (!current(state)) return false;
-        await this.postOnce(threadId, runKey(`answer:${sq.id}`), presented ? presented.post : { text: failure! });
+        for (const q of ran[i]!) {
+          await this.audit(who, 'sql', { subQuestion: sq.id, template: sq.template, query: q.name, sql: q.sql, params: q.params, dataset: ws.dataset.name });
+        }
+        await this.postOnce(threadId, runKey(`answer:${sq.id}`), presented ? presented.post : { text: failure! }, who);
         state.run!.posted.push(sq.id);
         if (presented?.takeaway) state.run!.takeaways.push({ ...presented.takeaway, position: i + 1 });
         if (failure) state.run!.failures++;
@@ -312,8 +465,9 @@ export class Bot {
         failures: state.run!.failures,
         charts,
         requestText: state.brief.requestText,
+        ...(phases ? { timings: phases } : {}),
       });
-      await this.postOnce(threadId, runKey('summary'), summary);
+      await this.postOnce(threadId, runKey('summary'), summary, who);
       state.stage = 'done';
       state.updatedAt = this.deps.now().toISOString();
       await this.deps.store.put(state);
@@ -325,15 +479,16 @@ export class Bot {
     const key = `${state.threadId}:${prefix}:${state.turn++}`;
     state.updatedAt = this.deps.now().toISOString();
     await this.deps.store.put(state);
-    await this.postOnce(state.threadId, key, { text, ...(prompt ? { prompt } : {}), ...extra });
+    await this.postOnce(state.threadId, key, { text, ...(prompt ? { prompt } : {}), ...extra }, this.who(state));
   }
 
-  /** A key posted before (in this process or before a restart) is not posted again. */
-  private async postOnce(threadId: string, key: string, post: Omit<OutgoingPost, 'key'>): Promise<string> {
+  /** A key posted before (in this process or before a restart) is not posted again; each post is audited. */
+  private async postOnce(threadId: string, key: string, post: Omit<OutgoingPost, 'key'>, who: Who): Promise<string> {
     const known = await this.deps.store.postRef(key);
     if (known !== undefined) return known;
     const ref = await this.deps.port.post(threadId, { key, ...post });
     await this.deps.store.recordPost(key, threadId, ref);
+    await this.audit(who, 'post', { key, text: post.text, files: (post.files ?? []).map((f) => f.name) });
     return ref;
   }
 }

@@ -35,4 +35,6 @@ export interface Brief {
   purpose?: string;
   /** The breakdown prompt was answered (possibly with "none"). */
   dimensionsAsked?: boolean;
+  /** Personal-data dimensions the request named: refused, never grouped by, filtered on or shown. */
+  personalData?: string[];
 }

@@ -13,7 +13,9 @@ export function catalogTerms(ds: DatasetConfig): CatalogTerm[] {
     for (const phrase of new Set([name.replaceAll('_', ' '), ...phrases])) out.push({ name, kind, phrase });
   };
   for (const m of ds.metrics) add(m.name, 'metric', [m.label, ...m.synonyms]);
-  for (const d of ds.dimensions) if (!d.personal_data) add(d.name, 'dimension', [d.label, ...d.synonyms]);
+  // Personal data is matched too, so its words are not read as another term ("customer email"
+  // is not the customers metric) and the request can be told it is refused.
+  for (const d of ds.dimensions) add(d.name, d.personal_data ? 'personal' : 'dimension', [d.label, ...d.synonyms]);
   for (const g of ds.comparison_groups) add(g.name, 'group', [g.label, g.members_label, ...g.synonyms]);
   return out;
 }
@@ -70,6 +72,8 @@ export function readRequest(text: string, ds: DatasetConfig, opts: IntakeOptions
     unknownTerms: unknownMetricPhrases(text, terms),
   };
   if (group) brief.comparisonGroup = group;
+  const personal = unique(hits.filter((h) => h.term.kind === 'personal').map((h) => h.term.name));
+  if (personal.length > 0) brief.personalData = personal;
   const grain = GRAIN_CUES.find(([re]) => re.test(text))?.[1];
   if (grain) brief.grain = grain;
   const audience = AUDIENCE_CUES.find(([re]) => re.test(text))?.[1];

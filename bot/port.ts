@@ -41,4 +41,10 @@ export interface IncomingMessage {
   threadId: string;
   author: string;
   text: string;
+  /**
+   * The channel the thread lives in, which decides the datasets it may use (the config's
+   * `access` rules): "local", "slack:<channel id>", "discord:<guild id>:<channel id>".
+   * Absent, it is read from the thread id (see bot/access.ts).
+   */
+  channel?: string;
 }

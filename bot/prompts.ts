@@ -8,9 +8,9 @@ import { GRAINS, type DateWindow, type Grain } from '../analysis/types.js';
 import { AUDIENCES, type Audience, type Brief } from './brief.js';
 import { catalogTerms, isValidIsoDate, readDeadlineAnswer } from './intake.js';
 import { readPeriodPhrase } from './period-phrases.js';
-import { findTerms } from './term-match.js';
+import { findTerms, normaliseWords } from './term-match.js';
 
-export const PROMPT_TOPICS = ['metrics', 'audience', 'deadline', 'grain', 'window', 'dimensions'] as const;
+export const PROMPT_TOPICS = ['dataset', 'metrics', 'audience', 'deadline', 'grain', 'window', 'dimensions'] as const;
 export type PromptTopic = (typeof PROMPT_TOPICS)[number];
 
 export interface PromptOption {
@@ -58,6 +58,44 @@ function needsWindow(brief: Brief, ctx: PromptContext): boolean {
     const launch = ctx.dataset.comparison_groups.find((g) => g.name === q.comparisonGroup)?.launch_date;
     return !readPeriodPhrase(q.text, ctx.coverage, launch);
   });
+}
+
+/**
+ * Which dataset a request is about, when the channel may use several and the request's words do
+ * not settle it. `ranked` is best first; the first is recommended.
+ */
+export function datasetPrompt(ranked: readonly DatasetConfig[], matched: boolean): Prompt {
+  const first = ranked[0]!;
+  return {
+    topic: 'dataset',
+    question: 'This channel may use several datasets. Which one is the request about?',
+    options: ranked.map((d) => ({ value: d.name, label: d.label })),
+    recommended: {
+      value: first.name,
+      label: first.label,
+      reason: matched ? 'its catalog has the most of the terms in your request' : 'the first dataset this channel may use',
+    },
+    many: false,
+  };
+}
+
+/** A typed or clicked answer to the dataset prompt: a dataset's name or label (or "ok" for the recommendation). */
+export function readDatasetAnswer(prompt: Prompt, text: string): { ok: true; dataset: string } | { ok: false; message: string } {
+  const typed = ACCEPT_DEFAULT.test(text) ? prompt.recommended.value : text.trim();
+  const words = normaliseWords(typed).join(' ');
+  const hit =
+    prompt.options.find((o) => o.value === typed) ??
+    prompt.options.find((o) => normaliseWords(o.label).join(' ') === words || normaliseWords(o.value).join(' ') === words) ??
+    prompt.options.find((o) => words.length > 0 && normaliseWords(o.label).join(' ').includes(words));
+  if (!hit) return { ok: false, message: `I couldn't match "${clip(typed)}" to a dataset. Choose one of: ${prompt.options.map((o) => o.label).join(', ')}.` };
+  return { ok: true, dataset: hit.value };
+}
+
+/** The refusal for personal-data dimensions a request or an answer names: the rule, not silence. */
+export function personalDataRefusal(ds: DatasetConfig, names: readonly string[]): string {
+  const labels = names.map((n) => ds.dimensions.find((d) => d.name === n)?.label ?? n);
+  const what = labels.length === 1 ? labels[0]! : `${labels.slice(0, -1).join(', ')} and ${labels[labels.length - 1]!}`;
+  return `I can't break anything down by, filter on or show ${what}: the catalog marks ${labels.length === 1 ? 'it' : 'them'} as personal data, and personal data is never grouped by, filtered on or shown in any answer, table or SQL.`;
 }
 
 function dimensionsPrompt(ctx: PromptContext): Prompt {
@@ -228,9 +266,17 @@ export function readAnswer(prompt: Prompt, text: string, brief: Brief, ctx: Prom
       if ('error' in w) return { ok: false, message: w.error };
       return { ok: true, brief: { ...brief, window: w.window } };
     }
+    case 'dataset': {
+      // The bot reads this one itself (readDatasetAnswer): the brief waits for the dataset.
+      return { ok: false, message: `Choose one of: ${prompt.options.map((o) => o.label).join(', ')}.` };
+    }
     case 'dimensions': {
-      const terms = catalogTerms(ctx.dataset).filter((t) => t.kind === 'dimension');
-      const found = [...new Set(findTerms(typed, terms).map((h) => h.term.name))];
+      const all = catalogTerms(ctx.dataset);
+      const hits = findTerms(typed, all.filter((t) => t.kind === 'dimension' || t.kind === 'personal'));
+      const personal = [...new Set(hits.filter((h) => h.term.kind === 'personal').map((h) => h.term.name))];
+      if (personal.length > 0) return { ok: false, message: personalDataRefusal(ctx.dataset, personal) };
+      const terms = all.filter((t) => t.kind === 'dimension');
+      const found = [...new Set(hits.filter((h) => h.term.kind === 'dimension').map((h) => h.term.name))];
       if (found.length === 0 && !/^\s*none\s*$/i.test(typed)) {
         return { ok: false, message: `I couldn't match "${clip(typed)}" to a dimension. I can break down by: ${terms.map((t) => t.phrase).join(', ')}.` };
       }

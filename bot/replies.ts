@@ -189,6 +189,30 @@ export function statusText(states: ThreadState[], locale: string): string {
   return `Your requests:\n${lines.join('\n')}`;
 }
 
+/** A channel the config's access rules give no dataset: nothing runs. */
+export function noDatasetForChannel(): string {
+  return 'This channel has no dataset it may use; ask your data team to add it in the config.';
+}
+
+/** A thread whose dataset this channel may no longer use (the access rules changed). */
+export function datasetNotAllowed(label: string): string {
+  return `This request uses ${label}, which this channel may no longer use; nothing more will run here. Ask your data team if that is a mistake.`;
+}
+
+/** A dataset chosen from the prompt that the channel may no longer use (the rules changed while it waited). */
+export function datasetNoLongerOffered(label: string): string {
+  return `This channel may no longer use ${label}. Choose another from the list above, or ask your data team.`;
+}
+
+/** A thread whose dataset is no longer in the config. */
+export function datasetGone(name: string): string {
+  return `This request used the dataset "${name}", which is no longer configured; nothing more will run here. Start a new request.`;
+}
+
+export function datasetChosen(label: string): string {
+  return `Using ${label}.`;
+}
+
 export function nothingToCancel(): string {
   return 'There is no open request in this thread to cancel.';
 }

@@ -8,6 +8,8 @@ const typed = z.union([z.string(), z.number()]).transform(String);
 
 export const scriptedAnswersSchema = z
   .object({
+    /** When the channel may use several datasets and the request does not settle which. */
+    dataset: typed.optional(),
     audience: typed.optional(),
     deadline: typed.optional(),
     metrics: z.union([typed, z.array(typed).transform((xs) => xs.join(', '))]).optional(),

@@ -12,6 +12,8 @@ export interface ScriptedConversation {
   requester: string;
   request: string;
   answers: ScriptedAnswers;
+  /** The channel key the requester writes in (decides the datasets it may use). */
+  channel?: string;
   /** Called with each message the requester sends, so the thread can record it. */
   onRequesterMessage?: (text: string) => void;
 }
@@ -21,7 +23,7 @@ export type ConversationEnd = 'done' | 'cancelled' | 'stalled';
 export async function playScriptedConversation(c: ScriptedConversation): Promise<ConversationEnd> {
   const say = async (text: string) => {
     c.onRequesterMessage?.(text);
-    await c.bot.handle({ threadId: c.threadId, author: c.requester, text });
+    await c.bot.handle({ threadId: c.threadId, author: c.requester, text, ...(c.channel ? { channel: c.channel } : {}) });
     // A run goes on in the background; the scripted requester waits for it like a person would.
     await c.bot.idle();
   };

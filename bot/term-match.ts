@@ -5,7 +5,8 @@ import { distance } from 'fastest-levenshtein';
 export interface CatalogTerm {
   /** The catalog name this phrase stands for. */
   name: string;
-  kind: 'metric' | 'dimension' | 'group';
+  /** `personal`: a personal-data dimension, matched only so the request can be told it is refused. */
+  kind: 'metric' | 'dimension' | 'group' | 'personal';
   phrase: string;
 }
 

@@ -18,6 +18,10 @@ export interface RunProgress {
 export interface ThreadState {
   threadId: string;
   requester: string;
+  /** The dataset the thread uses, chosen when it started (absent in states from before there were several: the first). */
+  dataset?: string;
+  /** The channel key the request came from ("local", "slack:C0123", ...). */
+  channel?: string;
   stage: Stage;
   brief: Brief;
   /** The prompt waiting for an answer while clarifying. */
@@ -34,6 +38,31 @@ export interface ThreadState {
   updatedAt: string;
 }
 
+export const AUDIT_KINDS = ['request', 'message', 'sql', 'post', 'denied'] as const;
+export type AuditKind = (typeof AUDIT_KINDS)[number];
+
+/**
+ * One line of the audit log: who asked what, which SQL ran, what was posted, what was refused.
+ * `detail` by kind: request/message `{ text }` (a request also `{ dataset }`); sql `{ subQuestion,
+ * template, query, sql, params, dataset }`; post `{ key, text, files }`; denied `{ reason, text, ... }`.
+ */
+export interface AuditEntry {
+  /** ISO timestamp. */
+  at: string;
+  threadId: string;
+  /** Who asked: the message's author, or the thread's requester for what the bot did. */
+  requester: string;
+  channel: string;
+  kind: AuditKind;
+  detail: Record<string, unknown>;
+}
+
+export interface AuditFilter {
+  threadId?: string;
+  /** Entries at or after this ISO date or timestamp. */
+  since?: string;
+}
+
 /** Where threads and post keys are kept; the embedded store is a DuckDB file. */
 export interface StateStore {
   get(threadId: string): Promise<ThreadState | undefined>;
@@ -42,5 +71,9 @@ export interface StateStore {
   /** The platform reference of a post already made under this key, if any. */
   postRef(key: string): Promise<string | undefined>;
   recordPost(key: string, threadId: string, ref: string): Promise<void>;
+  /** Appends to the audit log (never rewritten). */
+  appendAudit(entry: AuditEntry): Promise<void>;
+  /** The audit log in the order it was written. */
+  listAudit(filter?: AuditFilter): Promise<AuditEntry[]>;
   close(): Promise<void>;
 }

@@ -2,13 +2,14 @@
 import { existsSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { parseArgs } from 'node:util';
-import { ConfigError } from '../config/load.js';
+import { ConfigError, loadConfig } from '../config/load.js';
 import { generateDemo } from '../config/demo/generate-demo.js';
 import { DEMO_CONFIG_FILE, DEMO_DATABASE_FILE } from '../config/demo/generate-demo.js';
 import { SourceError } from '../analysis/sources/data-source.js';
 import { ask } from './ask.js';
 import { EnvironmentError, loadEnvironment } from '../config/environment.js';
 import { serveUntilSignal, type Serving } from './serve.js';
+import { auditLines, AuditUsageError, readAudit } from './audit.js';
 
 export const DEMO_REQUEST =
   'Ops review is on the 15th. How has revenue moved over time, month by month? We want to see the busiest and quietest months.';
@@ -24,6 +25,9 @@ Commands:
       Answer requests in chat: the local channel page always, Slack and Discord when their
       tokens are set in the environment. Conversations are kept in the state file
       (default: threadcount-state.duckdb beside the config).
+  threadcount audit --config FILE [--state FILE] [--thread ID] [--since DATE]
+      Print the audit log (requests, messages, SQL that ran, posts, refusals) as JSON lines,
+      oldest first, from the state file serve keeps. Stop serve first: the file is locked while it runs.
   threadcount start [--out DIR]
       Generate the demo data (once) into DIR/demo-data, then serve it; prints the page's address.
 
@@ -44,6 +48,8 @@ export async function main(argv: string[]): Promise<number> {
         return await serveCommand(rest);
       case 'start':
         return await startCommand(rest);
+      case 'audit':
+        return await auditCommand(rest);
       case undefined:
       case 'help':
       case '--help':
@@ -72,7 +78,7 @@ function reportError(err: unknown): number {
     process.stderr.write(`threadcount: the environment has problems:\n${err.problems.map((p) => `- ${p}`).join('\n')}\n`);
     return 2;
   }
-  if (err instanceof UsageError) {
+  if (err instanceof UsageError || err instanceof AuditUsageError) {
     process.stderr.write(`threadcount: ${err.message}\n\n${USAGE}`);
     return 2;
   }
@@ -124,8 +130,32 @@ async function serveCommand(rest: string[]): Promise<number> {
   // Tokens first: a malformed one stops start-up before any data is opened.
   const environment = loadEnvironment();
   const configFile = resolve(v.config);
-  const statePath = resolve(v.state ?? join(dirname(configFile), 'threadcount-state.duckdb'));
+  const statePath = resolve(v.state ?? defaultStatePath(configFile));
   await serveUntilSignal({ configFile, statePath, environment }, announce);
+  return 0;
+}
+
+/** The config's conversation.state_path (default threadcount-state.duckdb), beside the config. */
+function defaultStatePath(configFile: string): string {
+  return resolve(dirname(configFile), loadConfig(configFile).conversation.state_path);
+}
+
+async function auditCommand(rest: string[]): Promise<number> {
+  const v = parse(rest, { config: { type: 'string' }, state: { type: 'string' }, thread: { type: 'string' }, since: { type: 'string' } });
+  if (!v.config && !v.state) throw new UsageError('audit needs --config FILE (or --state FILE)');
+  const statePath = resolve(v.state ?? defaultStatePath(resolve(v.config!)));
+  if (!existsSync(statePath)) throw new UsageError(`there is no state file at ${statePath} yet (serve writes it); pass --state FILE if it is elsewhere`);
+  let entries;
+  try {
+    entries = await readAudit({ statePath, ...(v.thread ? { threadId: v.thread } : {}), ...(v.since ? { since: v.since } : {}) });
+  } catch (err) {
+    if (err instanceof AuditUsageError) throw err;
+    const message = err instanceof Error ? err.message : String(err);
+    // DuckDB locks the file while serve has it open.
+    if (/lock/i.test(message)) throw new UsageError(`the state file ${statePath} is in use (is threadcount serve running?); stop it and try again`);
+    throw err;
+  }
+  process.stdout.write(auditLines(entries));
   return 0;
 }
 

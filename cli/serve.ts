@@ -2,7 +2,8 @@
 // local channel always). One Bot, one persistent store; each adapter delivers messages through
 // one inbox and receives posts through one router.
 import pLimit from 'p-limit';
-import { openWorkspace } from '../analysis/workspace.js';
+import { readSecrets } from '../config/secrets.js';
+import { closeWorkspaces, openWorkspaces } from './workspaces.js';
 import { Bot } from '../bot/Bot.js';
 import { presentAnswer, presentSummary } from '../bot/present-answer.js';
 import { DuckDbStateStore } from '../bot/stores/DuckDbStateStore.js';
@@ -36,8 +37,12 @@ export interface Serving {
 export async function serve(opts: ServeOptions): Promise<Serving> {
   const log = opts.log ?? ((line: string) => process.stderr.write(`${line}\n`));
   const config = loadConfig(opts.configFile);
-  const workspace = await openWorkspace(config);
-  const store = await DuckDbStateStore.open(opts.statePath);
+  // Every dataset is opened: which one a thread uses depends on its channel (the access rules).
+  const workspaces = await openWorkspaces(config, readSecrets(config));
+  const store = await DuckDbStateStore.open(opts.statePath).catch(async (err: unknown) => {
+    await closeWorkspaces(workspaces);
+    throw err;
+  });
   const knows: KnownThread = async (threadId) => (await store.get(threadId)) !== undefined;
 
   // The bot needs the router and the adapters need the inbox: deliver is bound late.
@@ -50,7 +55,8 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
   if (env.discord) adapters.push(new DiscordAdapter({ token: env.discord.token, deliver, knows, log }));
 
   const bot = new Bot({
-    workspace,
+    workspaces,
+    ...(config.access ? { access: config.access } : {}),
     port: new PortRouter(adapters),
     store,
     now: () => new Date(),
@@ -72,7 +78,7 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
   } catch (err) {
     for (const a of started) await a.stop().catch(() => undefined);
     await store.close();
-    await workspace.source.close();
+    await closeWorkspaces(workspaces);
     throw err;
   }
 
@@ -93,7 +99,7 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
       for (const a of [...started].reverse()) await a.stop().catch((err: unknown) => log(`threadcount: stopping ${a.name}: ${String(err)}`));
       await inbox!.idle();
       await store.close();
-      await workspace.source.close();
+      await closeWorkspaces(workspaces);
     },
   };
 }

@@ -112,6 +112,16 @@ function crossReferenceProblems(config: Config): { path: (string | number)[]; me
     seenDatasets.add(ds.name);
     out.push(...datasetProblems(ds).map((p) => ({ ...p, path: ['datasets', d, ...p.path] })));
   });
+  // Access rules may only name datasets the file defines.
+  const unknown = (name: string) => `names dataset "${name}", which is not in this file's datasets (${[...seenDatasets].join(', ')})`;
+  config.access?.channels.forEach((rule, r) =>
+    rule.datasets.forEach((name, i) => {
+      if (!seenDatasets.has(name)) out.push({ path: ['access', 'channels', r, 'datasets', i], message: unknown(name) });
+    }),
+  );
+  config.access?.default_datasets.forEach((name, i) => {
+    if (!seenDatasets.has(name)) out.push({ path: ['access', 'default_datasets', i], message: unknown(name) });
+  });
   return out;
 }
 

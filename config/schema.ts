@@ -80,6 +80,15 @@ export const sourceSchema = z.discriminatedUnion('kind', [
   z.object({ kind: z.literal('duckdb'), path: z.string().min(1) }).strict(),
   z.object({ kind: z.literal('csv'), paths: z.array(z.string().min(1)).min(1) }).strict(),
   z.object({ kind: z.literal('parquet'), paths: z.array(z.string().min(1)).min(1) }).strict(),
+  // A PostgreSQL warehouse. Its URL holds a password, so the file names only the environment
+  // variable that holds it (read once at start by config/secrets.ts).
+  z
+    .object({
+      kind: z.literal('postgres'),
+      url_env: z.string().regex(/^[A-Z_][A-Z0-9_]*$/, 'must be the name of an environment variable (upper case letters, digits, underscore)'),
+      schema: identifier.optional(),
+    })
+    .strict(),
 ]);
 export type SourceConfig = z.infer<typeof sourceSchema>;
 
@@ -97,6 +106,9 @@ export const datasetSchema = z
     metrics: z.array(metricSchema).min(1),
     dimensions: z.array(dimensionSchema).default([]),
     comparison_groups: z.array(comparisonGroupSchema).default([]),
+    // Small-group suppression: a segment or comparison group with fewer rows than this is never
+    // shown on its own (segments join "All others"; a group reads "too few to show"). 0 = off.
+    min_group_size: z.number().int().min(0).max(1_000_000).optional(),
   })
   .strict();
 export type DatasetConfig = z.infer<typeof datasetSchema>;
@@ -133,6 +145,26 @@ export const conversationSchema = z
   .strict();
 export type ConversationConfig = z.infer<typeof conversationSchema>;
 
+// Which datasets each chat channel may use. A channel key is "local", "slack:<channel id>" or
+// "discord:<guild id>:<channel id>"; `match` is a glob on it (* any run of characters, ? one).
+// The first rule that matches decides; a channel no rule matches gets `default_datasets`.
+// Without an `access` section every channel may use every dataset.
+export const accessRuleSchema = z
+  .object({
+    match: z.string().min(1),
+    datasets: z.array(catalogName),
+  })
+  .strict();
+export type AccessRule = z.infer<typeof accessRuleSchema>;
+
+export const accessSchema = z
+  .object({
+    channels: z.array(accessRuleSchema).default([]),
+    default_datasets: z.array(catalogName).default([]),
+  })
+  .strict();
+export type AccessConfig = z.infer<typeof accessSchema>;
+
 export const configSchema = z
   .object({
     version: z.literal(1),
@@ -145,6 +177,7 @@ export const configSchema = z
       deadline_warning_hours: 24,
       max_concurrent_jobs: 2,
     }),
+    access: accessSchema.optional(),
   })
   .strict();
 export type Config = z.infer<typeof configSchema>;

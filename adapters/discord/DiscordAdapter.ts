@@ -36,6 +36,14 @@ export function discordThreadId(channelId: string): string {
   return `${PREFIX}${channelId}`;
 }
 
+/**
+ * The access rules' channel key: "discord:<guild id>:<channel id>", the channel a request's
+ * thread was opened in (not the thread itself). Outside a guild the guild part is "dm".
+ */
+export function discordChannelKey(guildId: string | null, channelId: string): string {
+  return `${PREFIX}${guildId ?? 'dm'}:${channelId}`;
+}
+
 export class DiscordAdapter implements ChatAdapter {
   readonly name = 'discord';
   readonly client: Client;
@@ -101,12 +109,13 @@ export class DiscordAdapter implements ChatAdapter {
     if (message.channel.isThread()) {
       // In a thread: a reply to a request the bot knows, or a mention that starts one there.
       const threadId = discordThreadId(message.channel.id);
-      if (mentioned || (await this.opts.knows(threadId))) this.opts.deliver({ threadId, author: message.author.id, text: text || 'help' });
+      const channel = discordChannelKey(message.guildId, message.channel.parentId ?? message.channel.id);
+      if (mentioned || (await this.opts.knows(threadId))) this.opts.deliver({ threadId, author: message.author.id, text: text || 'help', channel });
       return;
     }
     if (!mentioned || !message.inGuild()) return;
     const thread = await message.startThread({ name: clip(text || 'Data request', DISCORD_LIMITS.threadName), autoArchiveDuration: ThreadAutoArchiveDuration.OneDay });
-    this.opts.deliver({ threadId: discordThreadId(thread.id), author: message.author.id, text: text || 'help' });
+    this.opts.deliver({ threadId: discordThreadId(thread.id), author: message.author.id, text: text || 'help', channel: discordChannelKey(message.guildId, message.channel.id) });
   }
 
   private async onInteraction(interaction: Interaction): Promise<void> {
@@ -119,7 +128,14 @@ export class DiscordAdapter implements ChatAdapter {
       : interaction.component.options.filter((o) => interaction.values.includes(o.value)).map((o) => o.label).join(', ') || value;
     const chosen = `\n-# <@${interaction.user.id}> chose **${clip(label, 200)}**`;
     await interaction.update({ content: clip(interaction.message.content, DISCORD_LIMITS.content - chosen.length) + chosen, components: [], allowedMentions: { parse: [] } });
-    this.opts.deliver({ threadId: discordThreadId(interaction.channelId), author: interaction.user.id, text: value });
+    const where = interaction.channel;
+    const parent = where?.isThread() ? where.parentId : null;
+    this.opts.deliver({
+      threadId: discordThreadId(interaction.channelId),
+      author: interaction.user.id,
+      text: value,
+      channel: discordChannelKey(interaction.guildId, parent ?? interaction.channelId),
+    });
   }
 
   private async channel(threadId: string): Promise<SendableChannels> {

@@ -12,6 +12,9 @@ import { MAX_BODY_BYTES, newMessageSchema, type NewMessage } from './api-limits.
 import type { LocalEvent, LocalThreads } from './LocalThreads.js';
 import type { PageFile } from './page-files.js';
 
+/** The access rules' channel key of every local thread (the page is one channel). */
+export const LOCAL_CHANNEL = 'local';
+
 export interface LocalApiDeps {
   threads: LocalThreads;
   deliver: Deliver;
@@ -88,14 +91,14 @@ async function createThread(deps: LocalApiDeps, req: HttpRequest, res: ServerRes
   const body = await readMessage(req);
   const { thread, message } = deps.threads.createThread(body.author, body.text);
   sendJson(res, 201, { threadId: thread.id, messageId: message.id });
-  deps.deliver({ threadId: deps.botThreadId(thread.id), author: body.author, text: body.text });
+  deps.deliver({ threadId: deps.botThreadId(thread.id), author: body.author, text: body.text, channel: LOCAL_CHANNEL });
 }
 
 async function addReply(deps: LocalApiDeps, threadId: string, req: HttpRequest, res: ServerResponse): Promise<void> {
   const body = await readMessage(req);
   const message = deps.threads.addPersonMessage(threadId, body.author, body.text)!;
   sendJson(res, 201, { messageId: message.id });
-  deps.deliver({ threadId: deps.botThreadId(threadId), author: body.author, text: body.text });
+  deps.deliver({ threadId: deps.botThreadId(threadId), author: body.author, text: body.text, channel: LOCAL_CHANNEL });
 }
 
 function streamEvents(deps: LocalApiDeps, threadId: string, req: HttpRequest, res: ServerResponse): void {

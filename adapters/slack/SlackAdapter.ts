@@ -33,6 +33,11 @@ export function slackThreadId(channel: string, threadTs: string): string {
   return `${PREFIX}${channel}:${threadTs}`;
 }
 
+/** The access rules' channel key: "slack:<channel id>" (a direct message's channel id starts with D). */
+export function slackChannelKey(channel: string): string {
+  return `${PREFIX}${channel}`;
+}
+
 export class SlackAdapter implements ChatAdapter {
   readonly name = 'slack';
   readonly app: App;
@@ -120,7 +125,7 @@ export class SlackAdapter implements ChatAdapter {
       if (!this.first(body, context.retryNum)) return;
       if (!event.user) return;
       const text = fromSlackText(event.text, context.botUserId);
-      this.opts.deliver({ threadId: slackThreadId(event.channel, event.thread_ts ?? event.ts), author: event.user, text: text || 'help' });
+      this.opts.deliver({ threadId: slackThreadId(event.channel, event.thread_ts ?? event.ts), author: event.user, text: text || 'help', channel: slackChannelKey(event.channel) });
     });
 
     // Direct messages start requests; in channels only replies in a known thread are read.
@@ -137,7 +142,7 @@ export class SlackAdapter implements ChatAdapter {
         if (context.botUserId && (message.text ?? '').includes(`<@${context.botUserId}>`)) return;
         if (!(await this.opts.knows(threadId))) return;
       }
-      this.opts.deliver({ threadId, author: message.user, text });
+      this.opts.deliver({ threadId, author: message.user, text, channel: slackChannelKey(message.channel) });
     });
 
     // A click on a prompt's button, select or datepicker is delivered as the option's value.
@@ -149,7 +154,7 @@ export class SlackAdapter implements ChatAdapter {
       const chosen = readAction(action);
       if (!chosen) return;
       const threadTs = (message.thread_ts as string | undefined) ?? (message.ts as string);
-      this.opts.deliver({ threadId: slackThreadId(channel, threadTs), author: body.user.id, text: chosen.value });
+      this.opts.deliver({ threadId: slackThreadId(channel, threadTs), author: body.user.id, text: chosen.value, channel: slackChannelKey(channel) });
       try {
         // The choices give way to who chose what, so a second click cannot answer twice.
         await this.app.client.chat.update({

@@ -55,8 +55,15 @@ export function caveatNote(c: Caveat, locale: string): string {
       return `${show(d.segment)} only has data from ${period(d.firstPeriod, d.grain ?? 'month')}.`;
     case 'base_zero':
       return 'Some growth rates cannot be computed because the earlier value is zero or missing.';
-    case 'suppressed_small_groups':
-      return `${show(d.count)} segments below the minimum group size are combined as "All others".`;
+    case 'suppressed_small_groups': {
+      const under = typeof d.minimum === 'number' ? `fewer than ${show(d.minimum)} rows (the minimum group size)` : 'fewer rows than the minimum group size';
+      const n = typeof d.count === 'number' ? d.count : 0;
+      // Periods or cells of comparison groups; whole comparison groups; or segments folded into "All others".
+      if (typeof d.groups === 'string' && d.periods === true) return `${show(n)} ${n === 1 ? 'period' : 'periods'} of ${show(d.groups)} had ${under}: too few to show, so they are left blank.`;
+      if (typeof d.groups === 'string' && d.cells === true) return `${show(n)} ${n === 1 ? 'value' : 'values'} of ${show(d.groups)} within a segment had ${under}: too few to show, so they are withheld.`;
+      if (typeof d.groups === 'string') return `Too few to show: ${show(d.groups)} had ${under}, so their figures are withheld.`;
+      return `${show(n)} ${n === 1 ? 'segment' : 'segments'} with ${under} ${n === 1 ? 'is' : 'are'} combined as "All others".`;
+    }
   }
 }
 

@@ -16,6 +16,7 @@ export function shareOfLabel(f: KpiMixFinding, ds: DatasetConfig): string {
 }
 
 export function mixRowLabel(row: KpiMixRow, f: KpiMixFinding, ds: DatasetConfig, locale: string): string {
+  if (row.other) return 'All others';
   return segmentLabel(row.key, ds.dimensions.find((d) => d.name === f.dimension), ds, locale);
 }
 

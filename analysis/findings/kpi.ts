@@ -88,6 +88,8 @@ export interface KpiContextFinding {
 
 export interface KpiMixRow {
   key: SegmentKey;
+  /** The "All others" row: segments below the dataset's minimum group size, combined in the database. */
+  other?: boolean;
   /** The measure the shares are of, in the latest period. */
   value: number;
   share: number | null;

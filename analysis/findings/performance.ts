@@ -18,8 +18,11 @@ export type Quantity = 'metric' | 'per_row';
 
 export type TestName = 'welch_t' | 'two_proportion_z' | 'delta_ratio_z' | 'did_t' | 'did_z';
 
-/** Why no test was run: a group has no rows, too few rows, no spread at all, or the measure has no test. */
-export type NoTestReason = 'empty_group' | 'too_few' | 'no_variation' | 'not_testable';
+/**
+ * Why no test was run: a group has no rows, too few rows, no spread at all, the measure has no
+ * test, or a group is below the dataset's minimum group size (`suppressed`: too few to show).
+ */
+export type NoTestReason = 'empty_group' | 'too_few' | 'no_variation' | 'not_testable' | 'suppressed';
 
 export type Verdict = 'better' | 'worse' | 'no_clear_difference';
 
@@ -59,6 +62,8 @@ export interface PerformanceGroupFinding {
   median: number | null;
   /** The catalog metric over the group (e.g. total revenue), whatever the measure. */
   metricValue: number | null;
+  /** Fewer rows than the dataset's minimum group size: every number above is withheld (n is 0). */
+  suppressed?: boolean;
 }
 
 /** A tested difference of two estimates (first − second, as `comparison` names them). */
@@ -97,6 +102,10 @@ export interface PerformanceNoTestFinding {
   second: number | null;
   nFirst: number;
   nSecond: number;
+  /** With reason `suppressed`: which side is below the minimum group size, and the minimum. */
+  suppressedFirst?: boolean;
+  suppressedSecond?: boolean;
+  minimum?: number;
 }
 
 /** Seeded bootstrap interval for the difference in medians (members − others) of a money value. */
@@ -198,7 +207,8 @@ export interface PerformanceDidFinding {
   pValue: number | null;
 }
 
-export type DidNotApplicableReason = 'no_launch_date' | 'members_empty_before' | 'window_too_short' | 'group_empty' | 'not_poolable';
+/** `suppressed`: a month of a group in the compared windows is below the minimum group size, so its pools are withheld. */
+export type DidNotApplicableReason = 'no_launch_date' | 'members_empty_before' | 'window_too_short' | 'group_empty' | 'not_poolable' | 'suppressed';
 
 export interface PerformanceDidNotApplicableFinding {
   type: 'performance_did_not_applicable';
@@ -226,6 +236,9 @@ export interface PerformanceSegmentFinding {
   pValue: number | null;
   /** Either group has fewer rows than the small-sample threshold. */
   small: boolean;
+  /** A side below the dataset's minimum group size: its numbers (and the difference) are withheld. */
+  suppressedMembers?: boolean;
+  suppressedOthers?: boolean;
 }
 
 /** How consistently the members' difference points the same way as the overall difference. */

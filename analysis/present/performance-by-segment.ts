@@ -35,10 +35,14 @@ export const presentPerformanceBySegment: Presenter = (answer, ctx) => {
   const barsLabel = sense
     ? `${label}, % ${sense} for ${inText(members)} than for ${inText(others)}`
     : `${label}, % difference of ${inText(members)} from ${inText(others)}`;
-  const missing = findAll(answer.findings, 'performance_segment').filter((s) => s.relative === null);
-  const extraNotes = missing.length
-    ? [`${missing.map(segmentName).join(', ')}: only one group present, so no difference is shown.`]
-    : [];
+  const all = findAll(answer.findings, 'performance_segment');
+  // A side below the minimum group size is withheld, which is not the same as a group being absent.
+  const hidden = all.filter((s) => s.suppressedMembers || s.suppressedOthers);
+  const missing = all.filter((s) => s.relative === null && !hidden.includes(s));
+  const extraNotes = [
+    ...(missing.length ? [`${missing.map(segmentName).join(', ')}: only one group present, so no difference is shown.`] : []),
+    ...(hidden.length ? [`${hidden.map(segmentName).join(', ')}: a group is too few to show (below the minimum group size), so no difference is shown.`] : []),
+  ];
   const chart =
     compared.length > 0
       ? buildBars({

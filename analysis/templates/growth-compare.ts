@@ -10,11 +10,18 @@ import { addDays, addMonths } from '../periods.js';
 import { metricAggregate } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, DateWindow, ResultTable, SubQuestion } from '../types.js';
+import { minGroupSize } from './small-groups.js';
 
 const WINDOW = '__tc_window';
 const DAY = '__tc_day';
 const FIRST = '__tc_first';
 const LAST = '__tc_last';
+const SEG = '__tc_seg';
+const FOLDED = '__tc_folded';
+const KEY = '__tc_key';
+const ROWS = '__tc_rows';
+const SMALL = '__tc_small';
+const SMALL_COUNT = '__tc_small_count';
 
 /** Sums and counts add up across segments and periods; averages, distinct counts, ratios and rates do not. */
 export function isAdditiveMetric(ds: DatasetConfig, name: string): boolean {
@@ -60,6 +67,52 @@ export function compileWindowComparison(sq: SubQuestion, ctx: CompileContext): C
   const reachSql = `SELECT MIN(${localDateExpr(q, ctx)}) AS ${first}, MAX(${localDateExpr(q, ctx)}) AS ${last} FROM ${table}`;
   const current = side('current', sq.window, `${localDateExpr(q, ctx)} >= ${yearFrom(`reach.${first}`, '+')}`);
   const before = side('prior', prior, `${localDateExpr(q, ctx)} <= ${yearFrom(`reach.${last}`, '-')}`);
+  const min = minGroupSize(ctx.dataset);
+  if (min !== null) {
+    // A segment with fewer rows than the minimum on either side (where it has rows at all) joins
+    // one folded row per side, combined here so its own values never leave the database.
+    const [segAlias, folded, key, rows, small, smallCount] = [SEG, FOLDED, KEY, ROWS, SMALL, SMALL_COUNT].map(q.ident);
+    return q.finish(`WITH reach AS (
+  ${reachSql}
+),
+tagged AS (
+  ${current}
+  UNION ALL
+  ${before}
+),
+tc_cells AS (
+  SELECT ${win} AS ${win}, ${seg} AS ${key}, COUNT(*) AS ${rows}
+  FROM tagged
+  GROUP BY 1, 2
+),
+tc_small AS (
+  SELECT ${key}, TRUE AS ${small}
+  FROM tc_cells
+  GROUP BY ${key}
+  HAVING MIN(${rows}) < ${q.bind(min)}
+),
+marked AS (
+  SELECT tagged.*,
+    COALESCE(tc_small.${small}, FALSE) AS ${folded},
+    CASE WHEN COALESCE(tc_small.${small}, FALSE) THEN NULL ELSE tagged.${seg} END AS ${segAlias},
+    (SELECT COUNT(*) FROM tc_small) AS ${smallCount}
+  FROM tagged
+  LEFT JOIN tc_small ON tagged.${seg} IS NOT DISTINCT FROM tc_small.${key}
+)
+SELECT ${win} AS window_name,
+  GROUPING(${segAlias}) AS g_segment,
+  ${segAlias} AS segment,
+  ${folded} AS folded,
+${measures.join(',\n')},
+  ${d.toDouble('COUNT(*)')} AS row_count,
+  MIN(${day}) AS first_day,
+  MAX(${day}) AS last_day,
+  ${d.toDouble(`COUNT(DISTINCT ${seg})`)} AS members,
+  ${d.toDouble(`MAX(${smallCount})`)} AS small_segments
+FROM marked
+GROUP BY GROUPING SETS ((${win}, ${folded}, ${segAlias}), (${win}))
+ORDER BY 1, 2, 4, 3`);
+  }
   return q.finish(`WITH reach AS (
   ${reachSql}
 ),
@@ -91,6 +144,8 @@ export interface WindowSide {
   total: SideRow | null;
   /** Keyed by the segment's value as text; null for rows where the dimension is missing. */
   segments: Map<string | null, SideRow>;
+  /** Segments below the dataset's minimum group size, combined in the database; null when none. */
+  folded: (SideRow & { members: number }) | null;
 }
 
 export interface WindowComparison {
@@ -101,6 +156,8 @@ export interface WindowComparison {
   caveats: Caveat[];
   /** Neither span has any row. */
   empty: boolean;
+  /** Segments below the minimum group size, folded on both sides (0 without a minimum). */
+  smallSegments: number;
 }
 
 /**
@@ -112,15 +169,18 @@ export function readWindowComparison(sq: SubQuestion, table: ResultTable, covera
   const caveats: Caveat[] = [];
   if (table.truncated) caveats.push({ code: 'truncated', data: { rows: table.rows.length } });
   const prior = priorWindow(sq.window);
-  const current: WindowSide = { total: null, segments: new Map() };
-  const before: WindowSide = { total: null, segments: new Map() };
+  const current: WindowSide = { total: null, segments: new Map(), folded: null };
+  const before: WindowSide = { total: null, segments: new Map(), folded: null };
+  let smallSegments = 0;
   for (const r of table.rows) {
+    if (typeof r.small_segments === 'number' && Number.isFinite(r.small_segments)) smallSegments = Math.max(smallSegments, r.small_segments);
     const sideOf = r.window_name === 'current' ? current : r.window_name === 'prior' ? before : null;
     if (!sideOf) continue;
     const values: Record<string, number | null> = {};
     for (const m of sq.metrics) values[m] = typeof r[m] === 'number' && Number.isFinite(r[m]) ? r[m] : null;
     const row: SideRow = { rows: Number(r.row_count ?? 0), firstDay: typeof r.first_day === 'string' ? r.first_day : null, values };
     if (Number(r.g_segment) === 1) sideOf.total = row;
+    else if (r.folded === true) sideOf.folded = { ...row, members: Number(r.members ?? 0) };
     else sideOf.segments.set(r.segment === null || r.segment === undefined ? null : String(r.segment), row);
   }
   let currentSpan: GrowthSpan = { ...sq.window };
@@ -151,7 +211,7 @@ export function readWindowComparison(sq: SubQuestion, table: ResultTable, covera
     caveats.push({ code: 'no_data', data: { start: prior.start, end: prior.end, window: 'prior' } });
   } else if (empty) caveats.push({ code: 'no_data', data: { start: sq.window.start, end: sq.window.end } });
   else if (currentRows === 0) caveats.push({ code: 'no_data', data: { start: sq.window.start, end: sq.window.end, window: 'current' } });
-  return { current, prior: before, currentSpan, priorSpan, caveats, empty };
+  return { current, prior: before, currentSpan, priorSpan, caveats, empty, smallSegments };
 }
 
 /**
@@ -172,6 +232,11 @@ export function segmentPresenceCaveats(cmp: WindowComparison): Caveat[] {
     }
   }
   return out;
+}
+
+/** How many segments the small-group fold holds (over both sides), 0 when there is none. */
+export function foldedMembers(cmp: WindowComparison): number {
+  return cmp.smallSegments;
 }
 
 /** Segment keys in a stable order: text order, the missing value last. */

@@ -7,12 +7,14 @@ import type { Caveat, Finding, ResultTable, SubQuestion } from '../types.js';
 import type { Coverage } from '../coverage.js';
 import {
   compileWindowComparison,
+  foldedMembers,
   isAdditiveMetric,
   readWindowComparison,
   segmentKeys,
   segmentPresenceCaveats,
   type WindowComparison,
 } from './growth-compare.js';
+import { minGroupSize, suppressedSegmentsCaveat } from './small-groups.js';
 import type { Reading, Template } from './template.js';
 
 /** Segments named one by one before the rest are folded into "All others". */
@@ -34,6 +36,9 @@ export function readGrowthDrivers(sq: SubQuestion, table: ResultTable, coverage:
     const finding = driversOf(sq, cmp, metric, isAdditiveMetric(dataset, metric), caveats);
     if (finding) findings.push(finding);
   }
+  const small = foldedMembers(cmp);
+  const minimum = minGroupSize(dataset);
+  if (small > 0 && minimum !== null) caveats.push(suppressedSegmentsCaveat(small, minimum, { dimension: sq.dimension! }));
   return { findings, caveats };
 }
 
@@ -68,10 +73,17 @@ function driversOf(
   all.sort((a, b) => byWeightedChange(a, b, weight));
   const segments = all.slice(0, DRIVERS_TOP_N);
   const tail = all.slice(DRIVERS_TOP_N);
+  // Segments below the minimum group size arrive already combined (one row per side).
+  const small = foldedMembers(cmp);
+  const smallRow = small > 0
+    ? { before: sideValue(cmp.prior.folded?.values[metric], priorHasRows), after: sideValue(cmp.current.folded?.values[metric], currentHasRows) }
+    : null;
   let others: GrowthDriversFinding['others'] = null;
-  if (tail.length > 0) {
-    const sum = (pick: (s: GrowthDriverSegment) => number | null) =>
-      additive && tail.every((s) => pick(s) !== null) ? tail.reduce((acc, s) => acc + pick(s)!, 0) : null;
+  if (tail.length > 0 || smallRow) {
+    const parts = [...tail.map((s) => ({ before: s.before, after: s.after })), ...(smallRow ? [smallRow] : [])];
+    // The database's fold alone is its own value (a ratio combined in SQL is still a ratio); parts add up only for sums and counts.
+    const sum = (pick: (s: { before: number | null; after: number | null }) => number | null) =>
+      tail.length === 0 && smallRow ? pick(smallRow) : additive && parts.every((s) => pick(s) !== null) ? parts.reduce((acc, s) => acc + pick(s)!, 0) : null;
     const folded = withShares({ segment: null, before: sum((s) => s.before), after: sum((s) => s.after) }, additive, totalBefore, totalChange);
     others = {
       before: folded.before,
@@ -80,9 +92,9 @@ function driversOf(
       relative: folded.relative,
       shareOfChange: folded.shareOfChange,
       contribution: folded.contribution,
-      count: tail.length,
+      count: tail.length + small,
     };
-    caveats.push({ code: 'segments_folded', data: { count: tail.length, metric } });
+    if (tail.length > 0) caveats.push({ code: 'segments_folded', data: { count: tail.length, metric } });
   }
   const undefinedRates = all.filter((s) => s.after !== null && s.before !== null && s.relative === null).length;
   const totalRelative = relativeChange(totalBefore, totalAfter);

@@ -5,7 +5,8 @@ import type { Coverage } from '../coverage.js';
 import type { GrowthConcentration, GrowthShareSegment, GrowthShareShiftFinding } from '../findings/growth.js';
 import { concentration } from '../stats/index.js';
 import type { Caveat, Finding, ResultTable, SubQuestion } from '../types.js';
-import { compileWindowComparison, isAdditiveMetric, readWindowComparison, segmentKeys, segmentPresenceCaveats } from './growth-compare.js';
+import { compileWindowComparison, foldedMembers, isAdditiveMetric, readWindowComparison, segmentKeys, segmentPresenceCaveats } from './growth-compare.js';
+import { minGroupSize, suppressedSegmentsCaveat } from './small-groups.js';
 import type { Reading, Template } from './template.js';
 
 export const SHARE_TOP_N = 10;
@@ -25,17 +26,26 @@ export function readGrowthShareShift(sq: SubQuestion, table: ResultTable, covera
   caveats.push(...segmentPresenceCaveats(cmp));
   const findings: Finding[] = [];
   const keys = segmentKeys(cmp);
+  // Segments below the minimum group size arrive combined; they count in the totals as one part.
+  const small = foldedMembers(cmp);
+  const ids = [...keys.map((k) => (k === null ? 'missing' : `v:${k}`)), ...(small > 0 ? ['other'] : [])];
   for (const metric of sq.metrics) {
     // Shares of a total need parts that add up to it; a ratio or an average has no such parts.
     if (!isAdditiveMetric(dataset, metric)) continue;
-    const before = keys.map((k) => cmp.prior.segments.get(k)?.values[metric] ?? 0);
-    const after = keys.map((k) => cmp.current.segments.get(k)?.values[metric] ?? 0);
-    if (keys.every((k) => cmp.prior.segments.get(k)?.values[metric] == null && cmp.current.segments.get(k)?.values[metric] == null)) {
+    const foldBefore = small > 0 ? (cmp.prior.folded?.values[metric] ?? 0) : null;
+    const foldAfter = small > 0 ? (cmp.current.folded?.values[metric] ?? 0) : null;
+    const before = [...keys.map((k) => cmp.prior.segments.get(k)?.values[metric] ?? 0), ...(foldBefore === null ? [] : [foldBefore])];
+    const after = [...keys.map((k) => cmp.current.segments.get(k)?.values[metric] ?? 0), ...(foldAfter === null ? [] : [foldAfter])];
+    if (
+      keys.every((k) => cmp.prior.segments.get(k)?.values[metric] == null && cmp.current.segments.get(k)?.values[metric] == null) &&
+      cmp.prior.folded?.values[metric] == null &&
+      cmp.current.folded?.values[metric] == null
+    ) {
       caveats.push({ code: 'all_null', data: { metric } });
       continue;
     }
-    const conBefore = concentrationOf(keys, before, caveats, metric);
-    const conAfter = concentrationOf(keys, after, caveats, metric);
+    const conBefore = concentrationOf(ids, before, caveats, metric);
+    const conAfter = concentrationOf(ids, after, caveats, metric);
     const share = (values: number[], c: ReturnType<typeof concentrationOf>, i: number) =>
       c.total !== null && c.total > 0 && c.valid ? values[i]! / c.total : null;
     const rows: GrowthShareSegment[] = keys.map((segment, i) => {
@@ -53,6 +63,12 @@ export function readGrowthShareShift(sq: SubQuestion, table: ResultTable, covera
     rows.sort((a, b) => (b.shareAfter ?? b.after ?? 0) - (a.shareAfter ?? a.after ?? 0) || compareKeys(a.segment, b.segment));
     const head = rows.slice(0, SHARE_TOP_N);
     const tail = rows.slice(SHARE_TOP_N);
+    if (small > 0) {
+      const i = keys.length;
+      const shareBefore = share(before, conBefore, i);
+      const shareAfter = share(after, conAfter, i);
+      tail.push({ segment: null, before: before[i]!, after: after[i]!, shareBefore, shareAfter, shareChange: shareBefore !== null && shareAfter !== null ? shareAfter - shareBefore : null });
+    }
     let others: GrowthShareShiftFinding['others'] = null;
     if (tail.length > 0) {
       const sum = (pick: (s: GrowthShareSegment) => number | null) =>
@@ -60,14 +76,14 @@ export function readGrowthShareShift(sq: SubQuestion, table: ResultTable, covera
       const shareBefore = sum((s) => s.shareBefore);
       const shareAfter = sum((s) => s.shareAfter);
       others = {
-        count: tail.length,
+        count: tail.length - (small > 0 ? 1 : 0) + small,
         before: sum((s) => s.before),
         after: sum((s) => s.after),
         shareBefore,
         shareAfter,
         shareChange: shareBefore !== null && shareAfter !== null ? shareAfter - shareBefore : null,
       };
-      caveats.push({ code: 'segments_folded', data: { count: tail.length, metric } });
+      if (tail.length > (small > 0 ? 1 : 0)) caveats.push({ code: 'segments_folded', data: { count: tail.length - (small > 0 ? 1 : 0), metric } });
     }
     const finding: GrowthShareShiftFinding = {
       type: 'growth_share_shift',
@@ -83,16 +99,18 @@ export function readGrowthShareShift(sq: SubQuestion, table: ResultTable, covera
     };
     findings.push(finding);
   }
+  const minimum = minGroupSize(dataset);
+  if (small > 0 && minimum !== null) caveats.push(suppressedSegmentsCaveat(small, minimum, { dimension: sq.dimension! }));
   return { findings, caveats };
 }
 
-function concentrationOf(keys: (string | null)[], values: number[], caveats: Caveat[], metric: string) {
+function concentrationOf(keys: string[], values: number[], caveats: Caveat[], metric: string) {
   const total = values.reduce((a, v) => a + v, 0);
   const present = values.filter((v) => v !== 0).length;
   const summary: GrowthConcentration = { total: values.length ? total : null, segments: present, hhi: null, countToThreshold: null };
   if (values.length === 0) return { total: null, valid: false, summary };
   const c = concentration(
-    keys.map((k, i) => ({ key: k ?? '', value: values[i]! })),
+    keys.map((k, i) => ({ key: k, value: values[i]! })),
     { threshold: SHARE_THRESHOLD },
   );
   if (c.kind === 'negative_values') {

@@ -15,6 +15,7 @@ import type { Caveat, CellValue, CompiledQuery, Finding, ResultTable, SubQuestio
 import { baseIsZero, kpiDelta } from './kpi-delta.js';
 import { comparisonPeriods, coveredInFull, type KpiCompileContext, latestCandidates, periodsToRead, resolvedLatest } from './kpi-periods.js';
 import { EMPTY_TABLE, numberOrNull, periodExpr, periodsWhere } from './kpi-sql.js';
+import { minGroupSize, suppressedSegmentsCaveat } from './small-groups.js';
 import type { Reading, Template } from './template.js';
 
 /** Named segments before the rest are combined; the bars chart's default too. */
@@ -25,6 +26,9 @@ const KEY = 'tc_kpi_key';
 const RANK = 'tc_kpi_rank';
 const PERIOD = 'tc_kpi_period';
 const OTHER = 'tc_kpi_other';
+const SMALL = 'tc_kpi_small';
+const CELL_PERIOD = 'tc_kpi_cell_period';
+const CELL_ROWS = 'tc_kpi_cell_rows';
 
 export function compileKpiBySegment(sq: SubQuestion, ctx: KpiCompileContext, topN = KPI_SEGMENTS_TOP_N): CompiledQuery {
   if (!sq.dimension) throw new Error('kpi_by_segment needs a dimension');
@@ -44,6 +48,8 @@ export function compileKpiBySegment(sq: SubQuestion, ctx: KpiCompileContext, top
   const where = periodsWhere(q, ctx, periods, sq.grain, sq.filters);
   const measures = metrics.map((m) => `  ${metricAggregate(q, ds, m)} AS ${q.ident(m.name)}`);
   const [key, rank, per, other] = [KEY, RANK, PERIOD, OTHER].map(q.ident);
+  const min = minGroupSize(ds);
+  if (min !== null) return q.finish(withMinimum(q, ctx, { table, seg, rankPeriod, rankWhere, latestList, period, n, where, measures, min: q.bind(min) }));
   return q.finish(`WITH ranked AS (
   SELECT ${seg} AS ${key},
     ROW_NUMBER() OVER (ORDER BY COUNT(*) FILTER (WHERE ${rankPeriod} IN (${latestList})) DESC, COUNT(*) DESC, ${seg} ASC NULLS LAST) AS ${rank}
@@ -70,6 +76,56 @@ ${measures.join(',\n')},
 FROM tagged
 GROUP BY GROUPING SETS ((${per}, CASE WHEN ${other} THEN NULL ELSE ${seg} END, ${other}), (${per}))
 ORDER BY 1, 4, 5`);
+}
+
+/**
+ * The same query with a minimum group size: a segment with fewer rows than the minimum in any
+ * period read (where it has rows at all) joins "All others" whatever its rank, so no value shown
+ * rests on fewer rows. small_segments counts those (in any period), ranked_out_segments the ones
+ * folded for their rank alone.
+ */
+function withMinimum(
+  q: QueryBuilder,
+  ctx: KpiCompileContext,
+  p: { table: string; seg: string; rankPeriod: string; rankWhere: string; latestList: string; period: string; n: string; where: string; measures: string[]; min: string },
+): string {
+  const [key, rank, per, other, small, cellPeriod, cellRows, smallCount, rankedOut] = [KEY, RANK, PERIOD, OTHER, SMALL, CELL_PERIOD, CELL_ROWS, 'tc_kpi_small_count', 'tc_kpi_ranked_out'].map(q.ident);
+  return `WITH cells AS (
+  SELECT ${p.seg} AS ${key}, ${p.rankPeriod} AS ${cellPeriod}, COUNT(*) AS ${cellRows}
+  FROM ${p.table}
+  WHERE ${p.rankWhere}
+  GROUP BY 1, 2
+), ranked AS (
+  SELECT ${key},
+    ROW_NUMBER() OVER (ORDER BY COALESCE(SUM(${cellRows}) FILTER (WHERE ${cellPeriod} IN (${p.latestList})), 0) DESC, SUM(${cellRows}) DESC, ${key} ASC NULLS LAST) AS ${rank},
+    (MIN(${cellRows}) < ${p.min}) AS ${small}
+  FROM cells
+  GROUP BY ${key}
+), tagged AS (
+  SELECT ${p.table}.*,
+    ${p.period} AS ${per},
+    COALESCE(ranked.${rank} > ${p.n} OR ranked.${small}, TRUE) AS ${other},
+    COALESCE(ranked.${small}, FALSE) AS ${small},
+    ranked.${rank} AS ${rank},
+    (SELECT COUNT(*) FROM ranked WHERE ranked.${small}) AS ${smallCount},
+    (SELECT COUNT(*) FROM ranked WHERE ranked.${rank} > ${p.n} AND NOT ranked.${small}) AS ${rankedOut}
+  FROM ${p.table}
+  LEFT JOIN ranked ON ${p.table}.${p.seg} IS NOT DISTINCT FROM ranked.${key}
+  WHERE ${p.where}
+)
+SELECT ${per} AS period,
+  CASE WHEN ${other} THEN NULL ELSE ${p.seg} END AS segment,
+  ${other} AS other,
+  GROUPING(${other}) AS total_row,
+  MIN(${rank}) AS segment_rank,
+  ${ctx.dialect.toDouble(`COUNT(DISTINCT ${p.seg})`)} AS segment_count,
+${p.measures.join(',\n')},
+  ${ctx.dialect.toDouble('COUNT(*)')} AS row_count,
+  ${ctx.dialect.toDouble(`MAX(${smallCount})`)} AS small_segments,
+  ${ctx.dialect.toDouble(`MAX(${rankedOut})`)} AS ranked_out_segments
+FROM tagged
+GROUP BY GROUPING SETS ((${per}, CASE WHEN ${other} THEN NULL ELSE ${p.seg} END, ${other}), (${per}))
+ORDER BY 1, 4, 5`;
 }
 
 export const kpiBySegmentTemplate: Template = {
@@ -144,7 +200,15 @@ export function readKpiBySegment(sq: SubQuestion, table: ResultTable, dataset: D
   const other = [...groups.values()].find((g) => g.other);
   if (other) {
     const count = Math.max(...[...other.byPeriod.values()].map((r) => Number(r.segment_count ?? 0)));
-    caveats.push({ code: 'segments_folded', data: { count } });
+    const minimum = minGroupSize(dataset);
+    if (minimum === null) caveats.push({ code: 'segments_folded', data: { count } });
+    else {
+      const first = [...other.byPeriod.values()][0]!;
+      const small = Number(first.small_segments ?? 0);
+      const ranked = Number(first.ranked_out_segments ?? 0);
+      if (ranked > 0) caveats.push({ code: 'segments_folded', data: { count: ranked } });
+      if (small > 0) caveats.push(suppressedSegmentsCaveat(small, minimum, { dimension: sq.dimension! }));
+    }
   }
   if (zeroBase) caveats.push({ code: 'base_zero', data: {} });
   return { findings, caveats };

@@ -14,6 +14,7 @@ import { concentration } from '../stats/index.js';
 import type { Caveat, CellValue, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
 import { coveredInFull, type KpiCompileContext, latestCandidates, resolvedLatest, sameLastYear } from './kpi-periods.js';
 import { EMPTY_TABLE, numberOrNull, periodExpr, periodsWhere } from './kpi-sql.js';
+import { minGroupSize, suppressedSegmentsCaveat } from './small-groups.js';
 import type { Reading, Template } from './template.js';
 
 export const MIX_THRESHOLD = 0.8;
@@ -64,6 +65,40 @@ export function compileKpiMix(sq: SubQuestion, ctx: KpiCompileContext): Compiled
   }
   const period = periodExpr(q, ctx, sq.grain);
   const where = periodsWhere(q, ctx, [...periods], sq.grain, sq.filters);
+  const min = minGroupSize(ds);
+  if (min !== null) {
+    // A segment with fewer rows than the minimum in either period (where it has rows at all) joins
+    // one "All others" row, combined here because a ratio of the fold cannot be added up later.
+    const seg = q.ident(dim.column);
+    const cellWhere = periodsWhere(q, ctx, [...periods], sq.grain, sq.filters);
+    const cellPeriod = periodExpr(q, ctx, sq.grain);
+    const minP = q.bind(min);
+    return q.finish(`WITH tc_mix_cells AS (
+  SELECT ${seg} AS tc_mix_key, ${cellPeriod} AS tc_mix_period, COUNT(*) AS tc_mix_rows
+  FROM ${tableRef(q, ctx)}
+  WHERE ${cellWhere}
+  GROUP BY 1, 2
+), tc_mix_small AS (
+  SELECT tc_mix_key, TRUE AS tc_mix_small
+  FROM tc_mix_cells
+  GROUP BY tc_mix_key
+  HAVING MIN(tc_mix_rows) < ${minP}
+), tc_mix_tagged AS (
+  SELECT tc_mix_t.*, COALESCE(tc_mix_small.tc_mix_small, FALSE) AS tc_mix_folded
+  FROM ${tableRef(q, ctx)} AS tc_mix_t
+  LEFT JOIN tc_mix_small ON tc_mix_t.${seg} IS NOT DISTINCT FROM tc_mix_small.tc_mix_key
+)
+SELECT ${period} AS period,
+  CASE WHEN tc_mix_folded THEN NULL ELSE ${seg} END AS segment,
+  tc_mix_folded AS other,
+${measures.join(',\n')},
+  ${ctx.dialect.toDouble('COUNT(*)')} AS row_count,
+  ${ctx.dialect.toDouble(`COUNT(DISTINCT ${seg})`)} AS segment_count
+FROM tc_mix_tagged
+WHERE ${where}
+GROUP BY 1, 2, 3
+ORDER BY 1, 3, 2`);
+  }
   return q.finish(`SELECT ${period} AS period,
   ${q.ident(dim.column)} AS segment,
 ${measures.join(',\n')},
@@ -102,10 +137,12 @@ export function readKpiMix(sq: SubQuestion, table: ResultTable, dataset: Dataset
     const base = mixMeasure(dataset, metric);
     const col = baseAlias(name);
     const keys = new Map<string, SegmentKey>();
+    // The fold of small segments (other = TRUE) has its own id, apart from the missing value's.
     const idOf = (k: SegmentKey) => `${typeof k}:${String(k)}`;
-    for (const r of [...now, ...then]) keys.set(idOf(r.segment ?? null), (r.segment ?? null) as SegmentKey);
-    const nowBy = byKey(now, idOf);
-    const thenBy = byKey(then, idOf);
+    const rowId = (r: Row) => (r.other === true ? OTHER_ID : idOf((r.segment ?? null) as SegmentKey));
+    for (const r of [...now, ...then]) keys.set(rowId(r), (r.other === true ? null : (r.segment ?? null)) as SegmentKey);
+    const nowBy = byKey(now, rowId);
+    const thenBy = byKey(then, rowId);
     const ids = [...keys.keys()];
     const current = ids.map((id) => numberOrNull(nowBy.get(id)?.[col]) ?? 0);
     const previous = ids.map((id) => numberOrNull(thenBy.get(id)?.[col]) ?? 0);
@@ -118,6 +155,7 @@ export function readKpiMix(sq: SubQuestion, table: ResultTable, dataset: Dataset
       const lastYearShare = shareThen.get(id) ?? null;
       return {
         key: keys.get(id)!,
+        ...(id === OTHER_ID ? { other: true } : {}),
         value: current[i]!,
         share,
         lastYearValue: p ? previous[i]! : null,
@@ -126,8 +164,8 @@ export function readKpiMix(sq: SubQuestion, table: ResultTable, dataset: Dataset
         metricValue: numberOrNull(nowBy.get(id)?.[name]),
       };
     });
-    // Largest first; ties by key so the order never depends on the engine's row order.
-    segments.sort((a, b) => b.value - a.value || idOf(a.key).localeCompare(idOf(b.key)));
+    // Largest first, "All others" last; ties by key so the order never depends on the engine's row order.
+    segments.sort((a, b) => Number(a.other ?? false) - Number(b.other ?? false) || b.value - a.value || idOf(a.key).localeCompare(idOf(b.key)));
     const finding: KpiMixFinding = {
       type: 'kpi_mix',
       metric: name,
@@ -146,9 +184,16 @@ export function readKpiMix(sq: SubQuestion, table: ResultTable, dataset: Dataset
     };
     findings.push(finding);
   }
+  const minimum = minGroupSize(dataset);
+  const folded = [...now, ...then].filter((r) => r.other === true).map((r) => Number(r.segment_count ?? 0));
+  if (minimum !== null && folded.length > 0 && Math.max(...folded) > 0) {
+    caveats.push(suppressedSegmentsCaveat(Math.max(...folded), minimum, { dimension: sq.dimension! }));
+  }
   return { findings, caveats };
 }
 
-function byKey(rows: Row[], idOf: (k: SegmentKey) => string): Map<string, Row> {
-  return new Map(rows.map((r) => [idOf((r.segment ?? null) as SegmentKey), r]));
+const OTHER_ID = 'other';
+
+function byKey(rows: Row[], idOf: (r: Row) => string): Map<string, Row> {
+  return new Map(rows.map((r) => [idOf(r), r]));
 }

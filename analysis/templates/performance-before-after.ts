@@ -10,7 +10,8 @@ import { addDays, addMonths, nextPeriod, periodsBetween, periodStart } from '../
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CellValue, DateWindow, Finding, Grain, NamedQuery, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
 import { differenceFinding, primaryMetric } from './performance-compare.js';
-import { ALPHA, CONFIDENCE, EMPTY_TABLE, groupCaveats, groupKnown, memberFlag, resolveGroup, roleOf } from './performance-common.js';
+import { ALPHA, CONFIDENCE, EMPTY_TABLE, groupCaveats, groupKnown, isSuppressed, memberFlag, resolveGroup, roleLabel, roleOf } from './performance-common.js';
+import { minGroupSize, suppressedGroupsCaveat, suppressSmallCells } from './small-groups.js';
 import { cellFromRow, measureColumns, measureShape, planMeasure, type MeasurePlan } from './performance-measure.js';
 import { type Cell, cellEstimate, compareCells, contrast, poolCells, verdictOf } from './performance-stats.js';
 import type { Template } from './template.js';
@@ -25,17 +26,19 @@ export function compileGroupPeriods(sq: SubQuestion, ctx: CompileContext, grain:
   const plan = planMeasure(q, ds, metric);
   const cols = measureColumns(q, ds, metric, plan);
   const where = whereClause(q, ctx, sq.window, sq.filters);
-  return {
-    name,
-    ...q.finish(`SELECT ${period} AS period,
+  const body = `SELECT ${period} AS period,
   ${memberFlag(q, group)} AS tc_member,
   ${cols.join(',\n  ')}
 FROM ${tableRef(q, ctx)}
 WHERE ${where}
   AND ${groupKnown(q, group)}
-GROUP BY 1, 2
-ORDER BY 1, 2`),
-  };
+GROUP BY 1, 2`;
+  const min = minGroupSize(ds);
+  if (min !== null) {
+    // A group's period below the minimum group size keeps its row, every number withheld.
+    return { name, ...q.finish(suppressSmallCells({ inner: body, keys: ['period', 'tc_member'], columns: cols, sizeColumn: 'tc_rows', minimum: q.bind(min), orderBy: 'period, tc_member' })) };
+  }
+  return { name, ...q.finish(`${body}\nORDER BY 1, 2`) };
 }
 
 export const performanceBeforeAfterTemplate: Template = {
@@ -53,19 +56,19 @@ export const performanceBeforeAfterTemplate: Template = {
     const shape = measureShape(ds, metric);
     const series = tables.series ?? EMPTY_TABLE;
     const months = sq.grain === 'month' ? series : (tables.months ?? EMPTY_TABLE);
-    return readBeforeAfter(sq, metric, group, shape, series, months, ctx.coverage);
+    return readBeforeAfter(sq, metric, group, shape, series, months, ctx.coverage, minGroupSize(ds));
   },
 };
 
 type Shape = Pick<MeasurePlan, 'kind' | 'quantity' | 'additive'>;
-type Keyed = { period: string; role: GroupRole; cell: Cell };
+type Keyed = { period: string; role: GroupRole; cell: Cell; suppressed: boolean };
 
 function keyedCells(table: ResultTable, shape: Shape): Keyed[] {
   const out: Keyed[] = [];
   for (const r of table.rows) {
     const role = roleOf(r.tc_member);
     if (!role || typeof r.period !== 'string') continue;
-    out.push({ period: r.period, role, cell: cellFromRow(r as Record<string, CellValue>, shape as MeasurePlan) });
+    out.push({ period: r.period, role, cell: cellFromRow(r as Record<string, CellValue>, shape as MeasurePlan), suppressed: isSuppressed(r) });
   }
   return out;
 }
@@ -78,6 +81,7 @@ export function readBeforeAfter(
   seriesTable: ResultTable,
   monthsTable: ResultTable,
   coverage: Coverage,
+  minimum: number | null = null,
 ): { findings: Finding[]; caveats: Caveat[] } {
   const findings: Finding[] = [];
   const caveats: Caveat[] = [];
@@ -143,7 +147,21 @@ export function readBeforeAfter(
 
   let sizes: { role: GroupRole; n: number }[];
   const periods = group.launch_date ? equalWindows(group.launch_date, effStart, effEnd) : null;
-  if (!group.launch_date || !periods) {
+  // Periods of a group below the minimum group size are withheld: their points are blank, and pools
+  // that would need them are not formed (a pool without them would silently leave rows out).
+  const hiddenSeries = seriesCells.filter((c) => c.suppressed);
+  const hiddenMonths = monthCells.filter((c) => c.suppressed);
+  const hiddenIn = (w: DateWindow) => hiddenMonths.some((c) => c.period >= w.start && c.period < w.end);
+  if (hiddenSeries.length > 0 && minimum !== null) {
+    const roles = [...new Set(hiddenSeries.map((c) => c.role))].map((r) => roleLabel(group, r));
+    caveats.push(suppressedGroupsCaveat(roles, minimum, { count: hiddenSeries.length, periods: true, grain: sq.grain }));
+  }
+  if (periods ? hiddenIn(periods.before) || hiddenIn(periods.after) : hiddenSeries.length > 0) {
+    if (periods) findings.push(periods);
+    notApplicable('suppressed');
+    const shown = (role: GroupRole) => poolCells(seriesCells.filter((c) => c.role === role).map((c) => c.cell), shape.kind, shape.additive).n;
+    sizes = (['members', 'others'] as const).map((role) => ({ role, n: shown(role) }));
+  } else if (!group.launch_date || !periods) {
     notApplicable(group.launch_date ? 'window_too_short' : 'no_launch_date');
     // Without a launch to split on, members vs others over the whole window (exact pooling of the periods).
     const whole = (role: GroupRole) => poolCells(seriesCells.filter((c) => c.role === role).map((c) => c.cell), shape.kind, shape.additive);

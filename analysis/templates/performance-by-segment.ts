@@ -15,14 +15,17 @@ import {
   EMPTY_TABLE,
   groupCaveats,
   groupKnown,
+  isSuppressed,
   memberFlag,
   resolveGroup,
+  roleLabel,
   roleOf,
   SMALL_SAMPLE,
   windowFinding,
 } from './performance-common.js';
 import { cellFromRow, measureColumns, measureShape, num, planMeasure, type MeasurePlan } from './performance-measure.js';
 import { cellEstimate, compareCells, directionOf } from './performance-stats.js';
+import { minGroupSize, suppressedGroupsCaveat, suppressedSegmentsCaveat, suppressSmallCells } from './small-groups.js';
 import type { Template } from './template.js';
 
 /** Segments shown by name; the rest are folded into one row. */
@@ -42,6 +45,40 @@ export function compileSegments(sq: SubQuestion, ctx: CompileContext): NamedQuer
   const cols = measureColumns(q, ds, metric, plan);
   const where = whereClause(q, ctx, window, sq.filters);
   const topN = q.bind(SEGMENT_TOP_N);
+  const min = minGroupSize(ds);
+  if (min !== null) {
+    // With a minimum group size: a segment with fewer rows is folded whatever its rank, and a
+    // group's side of a segment with fewer rows keeps its row with every number withheld.
+    const minP = q.bind(min);
+    const segCols = [
+      `CASE WHEN tc_ranked.tc_rank <= ${topN} AND tc_ranked.tc_seg_rows >= ${minP} THEN CAST(tc_ranked.tc_segment AS VARCHAR) END AS tc_segment`,
+      `(tc_ranked.tc_rank > ${topN} OR tc_ranked.tc_seg_rows < ${minP}) AS tc_folded`,
+      `${memberFlag(q, group)} AS tc_member`,
+      `${q.dialect.toDouble('COUNT(DISTINCT tc_ranked.tc_rank)')} AS tc_segments`,
+      `${q.dialect.toDouble('MIN(tc_ranked.tc_rank)')} AS tc_first_rank`,
+      `${q.dialect.toDouble(`COUNT(DISTINCT CASE WHEN tc_ranked.tc_seg_rows < ${minP} THEN tc_ranked.tc_rank END)`)} AS tc_small_segments`,
+    ];
+    const inner = `WITH tc_ranked AS (
+  SELECT ${seg} AS tc_segment,
+    ROW_NUMBER() OVER (ORDER BY COUNT(*) DESC, ${seg}) AS tc_rank,
+    COUNT(*) AS tc_seg_rows
+  FROM ${tableRef(q, ctx)}
+  WHERE ${rankWhere}
+    AND ${groupKnown(q, group)}
+  GROUP BY ${seg}
+)
+SELECT ${[...segCols, ...cols].join(',\n  ')}
+FROM ${tableRef(q, ctx)} AS tc_base
+JOIN tc_ranked ON tc_ranked.tc_segment IS NOT DISTINCT FROM tc_base.${seg}
+WHERE ${where}
+  AND ${groupKnown(q, group)}
+GROUP BY 1, 2, 3`;
+    const keys = ['tc_segment', 'tc_folded', 'tc_member', 'tc_segments', 'tc_first_rank', 'tc_small_segments'];
+    return {
+      name: 'segments',
+      ...q.finish(suppressSmallCells({ inner, keys, columns: cols, sizeColumn: 'tc_rows', minimum: minP, orderBy: 'tc_folded, tc_first_rank, tc_member' })),
+    };
+  }
   // Segments ranked by rows over both groups; ties broken by name so the fold is stable.
   return {
     name: 'segments',
@@ -80,13 +117,14 @@ export const performanceBySegmentTemplate: Template = {
     const win = windowFinding(sq, group, ctx.coverage);
     const groupsTable = tables.groups ?? EMPTY_TABLE;
     const segTable = tables.segments ?? EMPTY_TABLE;
-    const overall = readGroupComparison(metric, shape, groupsTable);
+    const minimum = minGroupSize(ds);
+    const overall = readGroupComparison(metric, shape, groupsTable, minimum);
     const findings: Finding[] = [win, ...overall.findings];
     const caveats: Caveat[] = [];
 
     // Rows arrive ordered by rank; key them by (folded, segment) and keep first-seen order.
     const order: string[] = [];
-    const bySegment = new Map<string, { segment: string | null; folded: boolean; count: number; rows: Partial<Record<GroupRole, Record<string, CellValue>>> }>();
+    const bySegment = new Map<string, { segment: string | null; folded: boolean; count: number; small: number; rows: Partial<Record<GroupRole, Record<string, CellValue>>> }>();
     for (const r of segTable.rows) {
       const role = roleOf(r.tc_member);
       if (!role) continue;
@@ -95,13 +133,15 @@ export const performanceBySegmentTemplate: Template = {
       const key = JSON.stringify([folded, segment]);
       let entry = bySegment.get(key);
       if (!entry) {
-        entry = { segment, folded, count: 0, rows: {} };
+        entry = { segment, folded, count: 0, small: 0, rows: {} };
         bySegment.set(key, entry);
         order.push(key);
       }
       entry.rows[role] = r;
       entry.count = Math.max(entry.count, num(r.tc_segments) ?? 1);
+      entry.small = Math.max(entry.small, num(r.tc_small_segments) ?? 0);
     }
+    const hiddenCells: GroupRole[] = [];
     const overallDiff = diffOf(cellEstimate(overall.cells.members), cellEstimate(overall.cells.others));
     const overallDirection = directionOf(overallDiff);
     let compared = 0;
@@ -113,11 +153,16 @@ export const performanceBySegmentTemplate: Template = {
       const e = bySegment.get(key)!;
       const m = cellFromRow(e.rows.members, shape as MeasurePlan);
       const o = cellFromRow(e.rows.others, shape as MeasurePlan);
-      const result = compareCells(m, o, CONFIDENCE);
+      // A side below the minimum group size is withheld: too few to show, so nothing is compared.
+      const hidden = { members: isSuppressed(e.rows.members), others: isSuppressed(e.rows.others) };
+      if (hidden.members) hiddenCells.push('members');
+      if (hidden.others) hiddenCells.push('others');
+      const anyHidden = hidden.members || hidden.others;
+      const result = anyHidden ? null : compareCells(m, o, CONFIDENCE);
       const members = cellEstimate(m);
       const others = cellEstimate(o);
-      const difference = diffOf(members, others);
-      const small = m.n < SMALL_SAMPLE || o.n < SMALL_SAMPLE;
+      const difference = anyHidden ? null : diffOf(members, others);
+      const small = !anyHidden && (m.n < SMALL_SAMPLE || o.n < SMALL_SAMPLE);
       const finding: PerformanceSegmentFinding = {
         type: 'performance_segment',
         metric: metric.name,
@@ -131,13 +176,15 @@ export const performanceBySegmentTemplate: Template = {
         others: o.n > 0 ? others : null,
         difference: m.n > 0 && o.n > 0 ? difference : null,
         relative: m.n > 0 && o.n > 0 && difference !== null && others !== null && others !== 0 ? difference / others : null,
-        ci: result.kind === 'test' ? result.ci : null,
-        pValue: result.kind === 'test' ? result.pValue : null,
+        ci: result?.kind === 'test' ? result.ci : null,
+        pValue: result?.kind === 'test' ? result.pValue : null,
         small,
+        ...(anyHidden ? { suppressedMembers: hidden.members, suppressedOthers: hidden.others } : {}),
       };
       findings.push(finding);
       if (small) caveats.push({ code: 'small_sample', data: { n: Math.min(m.n, o.n), segment: e.segment ?? (e.folded ? 'All others' : 'missing'), threshold: SMALL_SAMPLE } });
-      if (e.folded) caveats.push({ code: 'segments_folded', data: { count: e.count } });
+      if (e.folded && e.count - e.small > 0) caveats.push({ code: 'segments_folded', data: { count: e.count - e.small } });
+      if (e.folded && e.small > 0 && minimum !== null) caveats.push(suppressedSegmentsCaveat(e.small, minimum, { dimension: dim.name }));
       if (finding.difference === null || overallDirection === 'equal') continue;
       compared++;
       const dir: Direction = directionOf(finding.difference);
@@ -161,7 +208,11 @@ export const performanceBySegmentTemplate: Template = {
       significantSame: sigSame,
       significantOpposite: sigOpposite,
     });
-    caveats.unshift(...groupCaveats([groupsTable, segTable], overall.sizes, group, win));
+    if (hiddenCells.length > 0 && minimum !== null) {
+      const labels = [...new Set(hiddenCells)].map((role) => roleLabel(group, role));
+      caveats.push(suppressedGroupsCaveat(labels, minimum, { count: hiddenCells.length, cells: true, dimension: dim.name }));
+    }
+    caveats.unshift(...groupCaveats([groupsTable, segTable], overall.sizes, group, win, minimum));
     return { findings, caveats };
   },
 };

@@ -7,6 +7,7 @@ import type { GroupRole, PerformanceWindowFinding } from '../findings/performanc
 import { addDays } from '../periods.js';
 import type { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CellValue, DateWindow, ResultTable, SubQuestion } from '../types.js';
+import { suppressedGroupsCaveat } from './small-groups.js';
 
 /** Two-sided level of every interval the family reports. */
 export const CONFIDENCE = 0.95;
@@ -67,16 +68,32 @@ export function rowsByRole(table: ResultTable): Record<GroupRole, Record<string,
   return out;
 }
 
-/** Caveats every group comparison carries: truncation, the observational caution, and small groups. */
+/** A summary row whose numbers the database withheld: the cell is below the minimum group size. */
+export function isSuppressed(row: Record<string, CellValue> | undefined): boolean {
+  return row?.tc_suppressed === true;
+}
+
+/** The label of a group's side: "Pass holders", "Other customers". */
+export function roleLabel(group: ComparisonGroup, role: GroupRole): string {
+  return role === 'members' ? group.members_label : group.others_label;
+}
+
+/**
+ * Caveats every group comparison carries: truncation, the observational caution, and small groups.
+ * A group below the minimum group size (`suppressed`) gets the "too few to show" caveat instead.
+ */
 export function groupCaveats(
   tables: ResultTable[],
-  sizes: { role: GroupRole; n: number }[],
+  sizes: { role: GroupRole; n: number; suppressed?: boolean }[],
   group: ComparisonGroup,
   window: DateWindow,
+  minimum: number | null = null,
 ): Caveat[] {
   const caveats: Caveat[] = [];
   for (const t of tables) if (t.truncated) caveats.push({ code: 'truncated', data: { rows: t.rows.length } });
-  if (sizes.every((s) => s.n === 0)) caveats.push({ code: 'no_data', data: { start: window.start, end: window.end } });
+  if (sizes.every((s) => s.n === 0 && !s.suppressed)) caveats.push({ code: 'no_data', data: { start: window.start, end: window.end } });
+  const hidden = sizes.filter((s) => s.suppressed);
+  if (hidden.length > 0 && minimum !== null) caveats.push(suppressedGroupsCaveat(hidden.map((s) => roleLabel(group, s.role)), minimum));
   caveats.push({ code: 'observational', data: { group: group.name } });
   for (const s of sizes) {
     // An empty group is stated by its own finding (performance_no_test, empty_group), not as a small sample.

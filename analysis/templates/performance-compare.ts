@@ -16,6 +16,7 @@ import {
   EMPTY_TABLE,
   groupCaveats,
   groupKnown,
+  isSuppressed,
   memberFlag,
   resolveGroup,
   roleOf,
@@ -24,6 +25,7 @@ import {
 } from './performance-common.js';
 import { cellFromRow, isMoney, measureColumns, measureShape, medianColumn, num, planMeasure, type MeasurePlan } from './performance-measure.js';
 import { type Cell, cellEstimate, cellInterval, compareCells, verdictOf, type TestedDifference, type UntestedDifference } from './performance-stats.js';
+import { minGroupSize, suppressSmallCells } from './small-groups.js';
 import type { Reading, Template } from './template.js';
 
 /** Rows drawn per group for the median bootstrap: bounded, so the sample never grows with the data. */
@@ -49,16 +51,18 @@ export function compileGroups(sq: SubQuestion, ctx: CompileContext): NamedQuery 
   const median = isMoney(metric) ? medianColumn(q, plan) : null;
   if (median) cols.push(median);
   const where = whereClause(q, ctx, comparisonWindow(sq, group).window, sq.filters);
-  return {
-    name: 'groups',
-    ...q.finish(`SELECT ${memberFlag(q, group)} AS tc_member,
+  const body = `SELECT ${memberFlag(q, group)} AS tc_member,
   ${cols.join(',\n  ')}
 FROM ${tableRef(q, ctx)}
 WHERE ${where}
   AND ${groupKnown(q, group)}
-GROUP BY 1
-ORDER BY 1`),
-  };
+GROUP BY 1`;
+  const min = minGroupSize(ds);
+  if (min !== null) {
+    // A group below the minimum group size keeps its row, with every number withheld.
+    return { name: 'groups', ...q.finish(suppressSmallCells({ inner: body, keys: ['tc_member'], columns: cols, sizeColumn: 'tc_rows', minimum: q.bind(min), orderBy: 'tc_member' })) };
+  }
+  return { name: 'groups', ...q.finish(`${body}\nORDER BY 1`) };
 }
 
 /**
@@ -77,19 +81,23 @@ export function compileSample(sq: SubQuestion, ctx: CompileContext): NamedQuery 
   const flag = memberFlag(q, group);
   const order = `md5(CAST(${q.ident(ds.key_column)} AS VARCHAR) || CAST(${q.bind(String(SAMPLE_SEED))} AS VARCHAR)), ${plan.x}`;
   const where = whereClause(q, ctx, comparisonWindow(sq, group).window, sq.filters);
+  const min = minGroupSize(ds);
+  // Below the minimum group size a group's values are never sampled (the sample is of single rows).
+  const groupRows = min === null ? '' : `,\n    COUNT(*) OVER (PARTITION BY ${flag}) AS tc_group_rows`;
+  const big = min === null ? '' : `\n  AND tc_group_rows >= ${q.bind(min)}`;
   return {
     name: 'sample',
     ...q.finish(`SELECT tc_member, tc_x
 FROM (
   SELECT ${flag} AS tc_member,
     ${q.dialect.toDouble(plan.x)} AS tc_x,
-    ROW_NUMBER() OVER (PARTITION BY ${flag} ORDER BY ${order}) AS tc_draw
+    ROW_NUMBER() OVER (PARTITION BY ${flag} ORDER BY ${order}) AS tc_draw${groupRows}
   FROM ${tableRef(q, ctx)}
   WHERE ${where}
     AND ${groupKnown(q, group)}
     AND (${plan.x}) IS NOT NULL
 ) tc_sample
-WHERE tc_draw <= ${q.bind(SAMPLE_PER_GROUP)}
+WHERE tc_draw <= ${q.bind(SAMPLE_PER_GROUP)}${big}
 ORDER BY tc_member, tc_draw`),
   };
 }
@@ -106,7 +114,8 @@ export const performanceCompareTemplate: Template = {
     const group = resolveGroup(ds, sq);
     const win = windowFinding(sq, group, ctx.coverage);
     const groups = tables.groups ?? EMPTY_TABLE;
-    const reading = readGroupComparison(metric, measureShape(ds, metric), groups);
+    const minimum = minGroupSize(ds);
+    const reading = readGroupComparison(metric, measureShape(ds, metric), groups, minimum);
     const findings: Finding[] = [win, ...reading.findings];
     const sample = tables.sample;
     if (sample && !sample.truncated) {
@@ -118,6 +127,7 @@ export const performanceCompareTemplate: Template = {
       reading.sizes,
       group,
       win,
+      minimum,
     );
     return { findings, caveats };
   },
@@ -128,11 +138,34 @@ export function readGroupComparison(
   metric: Metric,
   shape: Pick<MeasurePlan, 'kind' | 'quantity' | 'additive'>,
   table: ResultTable,
-): Reading & { sizes: { role: GroupRole; n: number }[]; cells: Record<GroupRole, Cell> } {
+  minimum: number | null = null,
+): Reading & { sizes: { role: GroupRole; n: number; suppressed: boolean }[]; cells: Record<GroupRole, Cell> } {
   const rows = rowsByRole(table);
   const plan = shape as MeasurePlan;
   const cells: Record<GroupRole, Cell> = { members: cellFromRow(rows.members, plan), others: cellFromRow(rows.others, plan) };
-  const findings: Finding[] = (['members', 'others'] as const).map((role) => groupFinding(metric, shape, role, cells[role], rows[role]));
+  // A group below the minimum group size arrives with its numbers withheld: too few to show, and nothing to compare.
+  const hidden: Record<GroupRole, boolean> = { members: isSuppressed(rows.members), others: isSuppressed(rows.others) };
+  const findings: Finding[] = (['members', 'others'] as const).map((role) => {
+    const f = groupFinding(metric, shape, role, cells[role], rows[role]);
+    return hidden[role] ? { ...f, suppressed: true } : f;
+  });
+  const sizes = (['members', 'others'] as const).map((role) => ({ role, n: cells[role].n, suppressed: hidden[role] }));
+  if (hidden.members || hidden.others) {
+    findings.push({
+      type: 'performance_no_test',
+      metric: metric.name,
+      comparison: 'members_vs_others',
+      reason: 'suppressed',
+      first: cellEstimate(cells.members),
+      second: cellEstimate(cells.others),
+      nFirst: cells.members.n,
+      nSecond: cells.others.n,
+      suppressedFirst: hidden.members,
+      suppressedSecond: hidden.others,
+      ...(minimum !== null ? { minimum } : {}),
+    });
+    return { findings, caveats: [], sizes, cells };
+  }
   const result = compareCells(cells.members, cells.others, CONFIDENCE);
   findings.push(differenceFinding(metric.name, 'members_vs_others', shape.kind, result, cells.members.n, cells.others.n));
   if (shape.kind !== 'total') {
@@ -147,7 +180,6 @@ export function readGroupComparison(
       relative: result.kind === 'test' ? result.relative : relativeOf(result.first, result.second),
     });
   }
-  const sizes = (['members', 'others'] as const).map((role) => ({ role, n: cells[role].n }));
   return { findings, caveats: [], sizes, cells };
 }
 

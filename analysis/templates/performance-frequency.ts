@@ -14,12 +14,14 @@ import {
   comparisonWindow,
   EMPTY_TABLE,
   groupCaveats,
+  isSuppressed,
   resolveGroup,
   rowsByRole,
   windowFinding,
 } from './performance-common.js';
 import { num } from './performance-measure.js';
 import { cellInterval, compareCells, type MeanCell, ratioOfMeansInterval, verdictOf } from './performance-stats.js';
+import { minGroupSize, suppressSmallCells } from './small-groups.js';
 import type { Template } from './template.js';
 
 /** Frequency buckets of a count per unit: exactly 1, 2 to 5, 6 or more. */
@@ -56,9 +58,7 @@ export function compileFrequency(sq: SubQuestion, ctx: CompileContext): NamedQue
     ...buckets,
   ];
   // A unit is a member when any of its rows in the window carries the group flag.
-  return {
-    name: 'frequency',
-    ...q.finish(`WITH tc_units AS (
+  const body = `WITH tc_units AS (
   SELECT ${unit} AS tc_unit,
     MAX(CASE WHEN ${q.ident(group.column)} IS TRUE THEN 1 ELSE 0 END) AS tc_flag,
     ${metricAggregate(q, ds, metric)} AS tc_value
@@ -70,9 +70,14 @@ export function compileFrequency(sq: SubQuestion, ctx: CompileContext): NamedQue
 SELECT (tc_flag = 1) AS tc_member,
   ${summary.join(',\n  ')}
 FROM tc_units
-GROUP BY 1
-ORDER BY 1`),
-  };
+GROUP BY 1`;
+  const min = minGroupSize(ds);
+  if (min !== null) {
+    // A group of fewer units (customers) than the minimum group size keeps its row, every number withheld.
+    const wrapped = suppressSmallCells({ inner: body, keys: ['tc_member'], columns: summary, sizeColumn: 'tc_n', minimum: q.bind(min), orderBy: 'tc_member' });
+    return { name: 'frequency', ...q.finish(wrapped) };
+  }
+  return { name: 'frequency', ...q.finish(`${body}\nORDER BY 1`) };
 }
 
 export const performanceFrequencyTemplate: Template = {
@@ -90,6 +95,26 @@ export const performanceFrequencyTemplate: Template = {
     for (const role of ['members', 'others'] as const) {
       const g = groupFinding(metric, role, cells[role], rows[role]);
       if (g) findings.push(g);
+    }
+    const minimum = minGroupSize(ds);
+    const hidden: Record<GroupRole, boolean> = { members: isSuppressed(rows.members), others: isSuppressed(rows.others) };
+    const sizesOf = () => (['members', 'others'] as const).map((role) => ({ role, n: cells[role].n, suppressed: hidden[role] }));
+    if (hidden.members || hidden.others) {
+      // Too few units to show: no test, no verdict, no ratio.
+      findings.push({
+        type: 'performance_no_test',
+        metric: metric.name,
+        comparison: 'members_vs_others',
+        reason: 'suppressed',
+        first: null,
+        second: null,
+        nFirst: cells.members.n,
+        nSecond: cells.others.n,
+        suppressedFirst: hidden.members,
+        suppressedSecond: hidden.others,
+        ...(minimum !== null ? { minimum } : {}),
+      });
+      return { findings, caveats: groupCaveats([table], sizesOf(), group, win, minimum) };
     }
     const result = compareCells(cells.members, cells.others, CONFIDENCE);
     findings.push(differenceFinding(metric.name, 'members_vs_others', 'mean', result, cells.members.n, cells.others.n));
@@ -109,8 +134,7 @@ export const performanceFrequencyTemplate: Template = {
       const ci = ratioOfMeansInterval(cells.members.mean, se(cells.members), cells.others.mean, se(cells.others), CONFIDENCE);
       findings.push({ type: 'performance_frequency_ratio', metric: metric.name, ratio, low: ci?.[0] ?? null, high: ci?.[1] ?? null, confidence: CONFIDENCE });
     }
-    const sizes = (['members', 'others'] as const).map((role) => ({ role, n: cells[role].n }));
-    return { findings, caveats: groupCaveats([table], sizes, group, win) };
+    return { findings, caveats: groupCaveats([table], sizesOf(), group, win, minimum) };
   },
 };
 

@@ -2,6 +2,7 @@
 // per-segment gap and late-start checks shared by the segment templates.
 import type { SegmentKey } from '../findings/segments.js';
 import type { Caveat, CellValue, Grain, ResultTable } from '../types.js';
+import { suppressedSegmentsCaveat } from './small-groups.js';
 import { numberOrNull } from './trend-points.js';
 
 export interface FoldedRow extends SegmentKey {
@@ -36,9 +37,18 @@ export function readSegmentTotals(table: ResultTable): FoldedRow[] {
   return table.rows.map(foldedRow).sort((a, b) => Number(a.other) - Number(b.other) || a.rank - b.rank);
 }
 
-export function foldedCaveat(rows: readonly FoldedRow[], dimension: string): Caveat | null {
+/**
+ * What the "All others" row holds: segments past the top N (`segments_folded`) and segments below
+ * the minimum group size (`suppressed_small_groups`, counted by the query's small_members).
+ */
+export function foldedCaveats(rows: readonly FoldedRow[], dimension: string, minimum: number | null): Caveat[] {
   const fold = rows.find((r) => r.other);
-  return fold ? { code: 'segments_folded', data: { count: fold.members, dimension } } : null;
+  if (!fold) return [];
+  const small = minimum === null ? 0 : (numberOrNull(fold.row.small_members) ?? 0);
+  const out: Caveat[] = [];
+  if (fold.members - small > 0) out.push({ code: 'segments_folded', data: { count: fold.members - small, dimension } });
+  if (small > 0 && minimum !== null) out.push(suppressedSegmentsCaveat(small, minimum, { dimension }));
+  return out;
 }
 
 /**

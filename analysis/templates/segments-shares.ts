@@ -6,7 +6,8 @@ import type { SegmentShareRow, SegmentSharesFinding } from '../findings/segments
 import { concentration, hhiBand } from '../stats/index.js';
 import type { Caveat, ResultTable, SubQuestion } from '../types.js';
 import { compileFoldedSegments, isAdditiveMetric, SEGMENT_TOP_N, segmentDimension } from './segments-fold-sql.js';
-import { foldedCaveat, readSegmentTotals, type FoldedRow } from './segments-read.js';
+import { foldedCaveats, readSegmentTotals, type FoldedRow } from './segments-read.js';
+import { minGroupSize } from './small-groups.js';
 import type { ReadContext, Reading, Template } from './template.js';
 import { coveredWindow, EMPTY_TABLE, numberOrNull } from './trend-points.js';
 
@@ -35,8 +36,7 @@ export function readSegmentShares(sq: SubQuestion, table: ResultTable, ctx: Read
     return { findings: [], caveats: [...caveats, { code: 'no_data', data: { start: sq.window.start, end: sq.window.end } }] };
   }
   if (rows.every((r) => r.value === null)) caveats.push({ code: 'all_null', data: { metric: metricName } });
-  const fold = foldedCaveat(rows, dimension);
-  if (fold) caveats.push(fold);
+  caveats.push(...foldedCaveats(rows, dimension, minGroupSize(ctx.dataset)));
   const additive = isAdditiveMetric(metric);
   const first = table.rows[0]!;
   const base: SegmentSharesFinding = {

@@ -6,7 +6,8 @@ import { addDays, nextPeriod } from '../periods.js';
 import { cagr, relativeChange, senSlope } from '../stats/index.js';
 import type { Caveat, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
 import { compileFoldedSegments, SEGMENT_TOP_N, segmentDimension } from './segments-fold-sql.js';
-import { foldedCaveat, foldedRow, readSegmentTotals, segmentCoverageCaveats, type FoldedRow } from './segments-read.js';
+import { foldedCaveats, foldedRow, readSegmentTotals, segmentCoverageCaveats, type FoldedRow } from './segments-read.js';
+import { minGroupSize } from './small-groups.js';
 import type { ReadContext, Reading, Template } from './template.js';
 import { completePoints, coveredWindow, EMPTY_TABLE, isoYear, mean, numberOrNull, periodsInYear, seasonallyAdjusted, windowPeriods } from './trend-points.js';
 
@@ -35,8 +36,7 @@ export function readSegmentTrend(sq: SubQuestion, totals: ResultTable, seriesTab
     return { findings: [], caveats: [...caveats, { code: 'no_data', data: { start: sq.window.start, end: sq.window.end } }] };
   }
   if (segments.every((s) => s.value === null)) caveats.push({ code: 'all_null', data: { metric } });
-  const fold = foldedCaveat(segments, dimension);
-  if (fold) caveats.push(fold);
+  caveats.push(...foldedCaveats(segments, dimension, minGroupSize(ctx.dataset)));
 
   const { starts, partial } = windowPeriods(covered, sq.grain);
   for (const p of partial) caveats.push({ code: 'partial_period', data: { period: p, grain: sq.grain, ...partialCover(p, covered, sq.grain) } });

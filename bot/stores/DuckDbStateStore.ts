@@ -4,7 +4,7 @@
 import { mkdirSync } from 'node:fs';
 import { dirname } from 'node:path';
 import { DuckDBConnection, DuckDBInstance } from '@duckdb/node-api';
-import type { Stage, StateStore, ThreadState } from '../thread-state.js';
+import type { AuditEntry, AuditFilter, AuditKind, Stage, StateStore, ThreadState } from '../thread-state.js';
 
 export class DuckDbStateStore implements StateStore {
   private queue: Promise<unknown> = Promise.resolve();
@@ -12,9 +12,19 @@ export class DuckDbStateStore implements StateStore {
   private constructor(
     private readonly instance: DuckDBInstance,
     private readonly connection: DuckDBConnection,
+    /** The last audit sequence number written (one process owns the file, so a counter in memory is enough). */
+    private auditSeq: number,
+    private readonly hasAudit: boolean,
   ) {}
 
-  static async open(path: string): Promise<DuckDbStateStore> {
+  /** Opens (creating) the state file; `readOnly` reads a file another tool wrote, creating nothing. */
+  static async open(path: string, opts: { readOnly?: boolean } = {}): Promise<DuckDbStateStore> {
+    if (opts.readOnly) {
+      const instance = await DuckDBInstance.create(path, { access_mode: 'READ_ONLY' });
+      const connection = await instance.connect();
+      const r = await connection.runAndReadAll(`SELECT COUNT(*) FROM information_schema.tables WHERE table_name = 'audit'`);
+      return new DuckDbStateStore(instance, connection, 0, Number(r.getRows()[0]?.[0] ?? 0) > 0);
+    }
     mkdirSync(dirname(path), { recursive: true });
     const instance = await DuckDBInstance.create(path);
     const connection = await instance.connect();
@@ -23,7 +33,12 @@ export class DuckDbStateStore implements StateStore {
       state VARCHAR NOT NULL, updated_at VARCHAR NOT NULL)`);
     await connection.run(`CREATE TABLE IF NOT EXISTS posts (
       post_key VARCHAR PRIMARY KEY, thread_id VARCHAR NOT NULL, ref VARCHAR NOT NULL)`);
-    return new DuckDbStateStore(instance, connection);
+    // The audit log: appended to, never updated; seq keeps the order entries were written in.
+    await connection.run(`CREATE TABLE IF NOT EXISTS audit (
+      seq BIGINT PRIMARY KEY, logged_at VARCHAR NOT NULL, thread_id VARCHAR NOT NULL, requester VARCHAR NOT NULL,
+      channel VARCHAR NOT NULL, kind VARCHAR NOT NULL, detail VARCHAR NOT NULL)`);
+    const last = await connection.runAndReadAll('SELECT COALESCE(MAX(seq), 0) FROM audit');
+    return new DuckDbStateStore(instance, connection, Number(last.getRows()[0]?.[0] ?? 0), true);
   }
 
   /** One statement at a time on the one connection. */
@@ -74,6 +89,50 @@ export class DuckDbStateStore implements StateStore {
   recordPost(key: string, threadId: string, ref: string): Promise<void> {
     return this.serial(async () => {
       await this.connection.run('INSERT OR REPLACE INTO posts VALUES ($1, $2, $3)', [key, threadId, ref]);
+    });
+  }
+
+  appendAudit(entry: AuditEntry): Promise<void> {
+    return this.serial(async () => {
+      const seq = this.auditSeq + 1;
+      await this.connection.run('INSERT INTO audit VALUES ($1, $2, $3, $4, $5, $6, $7)', [
+        seq,
+        entry.at,
+        entry.threadId,
+        entry.requester,
+        entry.channel,
+        entry.kind,
+        JSON.stringify(entry.detail),
+      ]);
+      this.auditSeq = seq;
+    });
+  }
+
+  listAudit(filter: AuditFilter = {}): Promise<AuditEntry[]> {
+    return this.serial(async () => {
+      if (!this.hasAudit) return [];
+      const where: string[] = [];
+      const params: string[] = [];
+      if (filter.threadId !== undefined) {
+        params.push(filter.threadId);
+        where.push(`thread_id = $${params.length}`);
+      }
+      if (filter.since !== undefined) {
+        params.push(filter.since);
+        where.push(`logged_at >= $${params.length}`);
+      }
+      const r = await this.connection.runAndReadAll(
+        `SELECT logged_at, thread_id, requester, channel, kind, detail FROM audit${where.length ? ` WHERE ${where.join(' AND ')}` : ''} ORDER BY seq`,
+        params,
+      );
+      return r.getRows().map((row) => ({
+        at: String(row[0]),
+        threadId: String(row[1]),
+        requester: String(row[2]),
+        channel: String(row[3]),
+        kind: String(row[4]) as AuditKind,
+        detail: JSON.parse(String(row[5])) as Record<string, unknown>,
+      }));
     });
   }
 

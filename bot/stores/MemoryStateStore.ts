@@ -1,5 +1,6 @@
 // The in-process store: for one-shot runs and tests where nothing needs to survive a restart.
-import type { Stage, StateStore, ThreadState } from '../thread-state.js';
+import type { AuditEntry, AuditFilter, Stage, StateStore, ThreadState } from '../thread-state.js';
+import { auditMatches } from './audit-filter.js';
 
 export class MemoryStateStore implements StateStore {
   private readonly states = new Map<string, ThreadState>();
@@ -22,6 +23,13 @@ export class MemoryStateStore implements StateStore {
   }
   async recordPost(key: string, _threadId: string, ref: string): Promise<void> {
     this.posts.set(key, ref);
+  }
+  private readonly audit: AuditEntry[] = [];
+  async appendAudit(entry: AuditEntry): Promise<void> {
+    this.audit.push(structuredClone(entry));
+  }
+  async listAudit(filter: AuditFilter = {}): Promise<AuditEntry[]> {
+    return this.audit.filter((e) => auditMatches(e, filter)).map((e) => structuredClone(e));
   }
   async close(): Promise<void> {}
 }

@@ -156,7 +156,7 @@ describe('Discord adapter', () => {
     expect(started.body).toMatchObject({ name: REQUEST, auto_archive_duration: 1440 });
     threadId = String(started.answer!.id);
     // The fake records the call when it arrives; the adapter delivers once the thread is returned.
-    expect(await waitFor('the request delivered', () => delivered[0])).toEqual({ threadId: `discord:${threadId}`, author: MAREN.id, text: REQUEST });
+    expect(await waitFor('the request delivered', () => delivered[0])).toEqual({ threadId: `discord:${threadId}`, author: MAREN.id, text: REQUEST, channel: `discord:${GUILD}:${CHANNEL}` });
     const first = await waitFor('the first reply', () => api.messagesIn(threadId)[0]);
     expect(first.body.content).toMatch(/^On it/);
     // Nothing is posted in the channel itself.
@@ -189,6 +189,8 @@ describe('Discord adapter', () => {
     }
     await waitFor('the typed go', () => delivered.find((d) => d.text === 'go'));
     expect(delivered.every((d) => d.threadId === `discord:${threadId}`)).toBe(true);
+    // Replies in the thread (typed or clicked) carry the channel the thread was opened in, for the access rules.
+    expect(delivered.filter((d) => d.threadId === `discord:${threadId}`).map((d) => d.channel)).not.toContain(undefined);
   });
 
   it('attaches charts, tables and SQL as files, and edits the progress message', async () => {

@@ -176,7 +176,7 @@ describe('Slack adapter', () => {
     expect(posts()).toHaveLength(0);
     // Bolt acknowledges an event before its listeners run; the delivery follows at once.
     await waitFor('the mention delivered', () => delivered.length === 1);
-    expect(delivered).toEqual([{ threadId: `slack:${CHANNEL}:${REQUEST_TS}`, author: 'UMAREN', text: REQUEST }]);
+    expect(delivered).toEqual([{ threadId: `slack:${CHANNEL}:${REQUEST_TS}`, author: 'UMAREN', text: REQUEST, channel: `slack:${CHANNEL}` }]);
 
     // Slack retries when it thinks the ack was missed; same event_id, so it is dropped.
     const retry = await send(body, 'application/json', { ...sign(body, Math.floor(Date.now() / 1000)), 'x-slack-retry-num': '1', 'x-slack-retry-reason': 'http_timeout' });
@@ -229,6 +229,8 @@ describe('Slack adapter', () => {
     expect(seen.has('deadline')).toBe(true);
     expect(delivered.map((d) => d.text)).toContain('2026-12-15');
     expect(delivered.at(-1)).toMatchObject({ text: 'go', threadId: `slack:${CHANNEL}:${REQUEST_TS}` });
+    // Clicks carry the channel too, so the access rules apply to them as to typed replies.
+    expect(delivered.map((d) => d.channel)).toEqual(delivered.map(() => `slack:${CHANNEL}`));
   });
 
   it('uploads charts, tables and SQL into the thread with the external upload flow', async () => {
@@ -269,7 +271,7 @@ describe('Slack adapter', () => {
   it('starts a request from a direct message', async () => {
     const res = await send(eventBody({ type: 'message', channel: 'D0MAREN', channel_type: 'im', user: 'UMAREN', text: 'what can you measure?', ts: '1764580100.000100', event_ts: '1764580100.000100' }), 'application/json');
     expect(res.status).toBe(200);
-    expect(delivered.at(-1)).toEqual({ threadId: 'slack:D0MAREN:1764580100.000100', author: 'UMAREN', text: 'what can you measure?' });
+    expect(delivered.at(-1)).toEqual({ threadId: 'slack:D0MAREN:1764580100.000100', author: 'UMAREN', text: 'what can you measure?', channel: 'slack:D0MAREN' });
     await waitFor('the reply in the DM', () => posts().find((p) => p.params.channel === 'D0MAREN' && p.params.thread_ts === '1764580100.000100'));
   });
 

@@ -22,7 +22,9 @@ import { TEMPLATES } from '../../../analysis/templates/index.js';
 import type { Finding, ResultTable, SubQuestion } from '../../../analysis/types.js';
 import { exampleDataset } from '../../helpers/example-config.js';
 
-const ctx: CompileContext = { dataset: exampleDataset, dialect: duckdbDialect, timeColumnType: 'date' };
+// The query shapes without small-group suppression (the example config turns it on; its SQL is
+// tested in small-groups.test.ts).
+const ctx: CompileContext = { dataset: { ...exampleDataset, min_group_size: 0 }, dialect: duckdbDialect, timeColumnType: 'date' };
 const readCtx = (coverage: Coverage) => ({ dataset: exampleDataset, coverage });
 const series: SubQuestion = {
   id: 'g1',

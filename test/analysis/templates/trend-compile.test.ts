@@ -8,7 +8,9 @@ import { compileFoldedSegments, SEGMENT_TOP_N } from '../../../analysis/template
 import type { SubQuestion } from '../../../analysis/types.js';
 import { exampleDataset } from '../../helpers/example-config.js';
 
-const ctx: CompileContext = { dataset: exampleDataset, dialect: duckdbDialect, timeColumnType: 'date' };
+// The query shapes without small-group suppression (the example config turns it on; its SQL is
+// tested in small-groups.test.ts).
+const ctx: CompileContext = { dataset: { ...exampleDataset, min_group_size: 0 }, dialect: duckdbDialect, timeColumnType: 'date' };
 const base: SubQuestion = {
   id: 'q1',
   kind: 'trend',

@@ -1,0 +1,134 @@
+// Personal data: the demo's customer_email column is never grouped by, filtered on or shown. Whole
+// demo conversations are checked end to end: no post text, attached CSV or SQL file, chart spec or
+// audit entry holds an email address or the column's name; a request that asks for it is told
+// so, naming the rule, and still gets the rest of its answers.
+import { DuckDBInstance } from '@duckdb/node-api';
+import pLimit from 'p-limit';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { presenterFor } from '../../analysis/present/index.js';
+import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
+import { Bot, type AnswerPresenter } from '../../bot/Bot.js';
+import type { OutgoingPost, ThreadPort } from '../../bot/port.js';
+import { presentAnswer, presentContext, presentSummary } from '../../bot/present-answer.js';
+import type { ScriptedAnswers } from '../../bot/scripted-answers.js';
+import { playScriptedConversation } from '../../bot/scripted-conversation.js';
+import { MemoryStateStore } from '../../bot/stores/MemoryStateStore.js';
+import { loadConfig } from '../../config/load.js';
+import { demoFixture } from '../helpers/demo-fixture.js';
+
+// An email address as it would appear in text (local part, @, a dotted domain).
+const EMAIL = /[A-Za-z0-9._%+-]+@[A-Za-z0-9-]+(\.[A-Za-z0-9-]+)*\.[A-Za-z]{2,}/;
+const COLUMN = 'customer_email';
+
+interface Captured {
+  key: string;
+  text: string;
+  promptTopic?: string;
+  /** Text files (CSV, SQL) by name; PNGs are checked through their chart specs instead. */
+  files: Record<string, string>;
+}
+
+class CapturingPort implements ThreadPort {
+  readonly posts: Captured[] = [];
+  async post(_threadId: string, post: OutgoingPost): Promise<string> {
+    const files: Record<string, string> = {};
+    for (const f of post.files ?? []) if (f.kind === 'table' || f.kind === 'sql') files[f.name] = String(f.content);
+    this.posts.push({ key: post.key, text: post.text, files, ...(post.prompt ? { promptTopic: post.prompt.topic } : {}) });
+    return String(this.posts.length - 1);
+  }
+  async update(_threadId: string, ref: string, text: string): Promise<void> {
+    this.posts[Number(ref)]!.text = text;
+  }
+}
+
+let ws: Workspace;
+let sampleEmails: string[];
+const now = new Date('2026-12-01T09:00:00Z');
+
+beforeAll(async () => {
+  const demo = await demoFixture();
+  ws = await openWorkspace(loadConfig(demo.configPath));
+  const db = await DuckDBInstance.create(demo.databasePath, { access_mode: 'READ_ONLY' });
+  const con = await db.connect();
+  sampleEmails = (await con.runAndReadAll(`SELECT DISTINCT ${COLUMN} FROM bookings WHERE ${COLUMN} IS NOT NULL LIMIT 50`)).getRows().map((r) => String(r[0]));
+  con.closeSync();
+  db.closeSync();
+});
+afterAll(async () => {
+  await ws?.source.close();
+});
+
+async function converse(request: string, answers: ScriptedAnswers) {
+  const port = new CapturingPort();
+  const store = new MemoryStateStore();
+  const specs: string[] = [];
+  // The chart spec of every answer, as the presenter built it (the PNG is drawn from it).
+  const capturing: AnswerPresenter = async (answer, ctx) => {
+    const p = presenterFor(answer.subQuestion.template)(answer, presentContext(ctx.workspace, ctx.audience));
+    if (p.chart) specs.push(JSON.stringify(p.chart));
+    return presentAnswer(answer, ctx);
+  };
+  const bot = new Bot({ workspace: ws, port, store, now: () => now, presentAnswer: capturing, presentSummary, jobs: pLimit(2) });
+  const end = await playScriptedConversation({ bot, store, threadId: 'local:privacy', requester: 'maren', channel: 'local', request, answers });
+  const audit = await store.listAudit();
+  const everything = [
+    ...port.posts.flatMap((p) => [p.text, ...Object.values(p.files)]),
+    ...specs,
+    ...audit.map((e) => JSON.stringify(e.detail)),
+  ];
+  return { end, port, specs, audit, everything };
+}
+
+function expectNoPersonalData(texts: string[]): void {
+  for (const t of texts) {
+    expect(t).not.toMatch(EMAIL);
+    expect(t).not.toContain(COLUMN);
+  }
+}
+
+describe('personal data never leaves the database', () => {
+  it('the demo data does hold email addresses, so the checks below can fail', () => {
+    expect(sampleEmails.length).toBe(50);
+    for (const e of sampleEmails) expect(e).toMatch(EMAIL);
+  });
+
+  it('the demo request: every post, CSV, SQL file, chart spec and audit entry is free of emails and of the column name', async () => {
+    const { end, port, specs, everything } = await converse(
+      'Ops review is on the 15th. Could the data team tell us whether this summer beat last summer, which routes and booking channels drove the difference, whether SkerryPass holders really travel more often than other customers since it launched, and where average fare per passenger and the share of revenue we refunded stand for the last full month?',
+      { metrics: 'revenue', audience: 'managers' },
+    );
+    expect(end).toBe('done');
+    // The checks covered real output: answers with CSVs and SQL, and their charts.
+    expect(port.posts.filter((p) => Object.keys(p.files).some((n) => n.endsWith('.sql'))).length).toBeGreaterThanOrEqual(12);
+    expect(specs.length).toBeGreaterThanOrEqual(10);
+    expectNoPersonalData(everything);
+  });
+
+  it('"revenue by customer email" is refused, naming the rule, and the rest is answered without it', async () => {
+    const { end, port, audit, everything } = await converse('Show me revenue by customer email, month by month, for the ops review. No deadline.', {});
+    expect(end).toBe('done');
+    const refusal = port.posts.find((p) => /personal data/.test(p.text))!;
+    expect(refusal.text).toBe(
+      "I can't break anything down by, filter on or show Customer email: the catalog marks it as personal data, and personal data is never grouped by, filtered on or shown in any answer, table or SQL. I'll answer the rest of the request without it.",
+    );
+    // Said straight after the acknowledgement, before any question or plan.
+    expect(port.posts.indexOf(refusal)).toBe(1);
+    expect(audit.find((e) => e.kind === 'denied')).toMatchObject({ detail: { reason: 'personal_data', dimensions: ['Customer email'] } });
+    // "customer" in "customer email" was not read as the customers metric: revenue only.
+    expect(port.posts[0]!.text).toBe('On it: a trend question about revenue. A few quick questions first, then a plan to agree.');
+    expect(port.posts.some((p) => Object.keys(p.files).length > 0)).toBe(true);
+    // The refusal and the audit name the catalog label, never the column.
+    expectNoPersonalData(everything);
+  });
+
+  it('a breakdown answer that names customer email is re-asked with the rule', async () => {
+    const { end, port, everything } = await converse('Did revenue grow this summer compared with last summer? For my team, no deadline.', {
+      dimensions: 'customer email',
+    });
+    expect(end).toBe('done');
+    const prompts = port.posts.filter((p) => p.promptTopic === 'dimensions');
+    expect(prompts).toHaveLength(2);
+    expect(prompts[1]!.text).toMatch(/^I can't break anything down by, filter on or show Customer email: the catalog marks it as personal data/);
+    expectNoPersonalData(everything);
+  });
+});
