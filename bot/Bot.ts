@@ -12,10 +12,11 @@ import type { AccessConfig, DatasetConfig } from '../config/schema.js';
 import { allowedDatasets, channelKey, chooseDataset } from './access.js';
 import type { Brief } from './brief.js';
 import { readCommand } from './commands.js';
-import { readRequest } from './intake.js';
-import { applyPlanEdit, buildPlan, readPlanEdit } from './plan.js';
+import { catalogTerms, readRequest } from './intake.js';
+import { applyPlanEdit, buildPlan, readPlanEdit, type PlanEdit } from './plan.js';
 import type { IncomingMessage, OutgoingPost, ThreadPort } from './port.js';
-import { datasetPrompt, nextPrompt, personalDataRefusal, readAnswer, readDatasetAnswer, type Prompt, type PromptContext } from './prompts.js';
+import { datasetPrompt, nextPrompt, personalDataRefusal, readAnswer, readDatasetAnswer, readWindow, type Prompt, type PromptContext } from './prompts.js';
+import { findTerms } from './term-match.js';
 import * as replies from './replies.js';
 import type { AuditKind, StateStore, ThreadState } from './thread-state.js';
 
@@ -382,10 +383,28 @@ export class Bot {
     }
     state.waitingSince = this.deps.now().toISOString();
     if (edit.type === 'unknown') return this.say(state, 'note', replies.planEditHelp());
-    const { plan, error } = applyPlanEdit(state.plan!, edit);
+    const resolved = this.resolvePlanEdit(edit, state);
+    if ('refusal' in resolved) return this.say(state, 'note', resolved.refusal);
+    const { plan, error } = applyPlanEdit(state.plan!, resolved.edit);
     if (error) return this.say(state, 'note', error);
     state.plan = plan;
     await this.say(state, 'plan', replies.planText(plan, this.workspaceOf(state).dataset, this.locale), undefined, { quickReplies: replies.PLAN_REPLIES });
+  }
+
+  /** Matches an edit's words to the catalog and the data's coverage. */
+  private resolvePlanEdit(edit: PlanEdit, state: ThreadState): { edit: PlanEdit } | { refusal: string } {
+    const ws = this.workspaceOf(state);
+    if (edit.type === 'add_breakdown') {
+      const hit = findTerms(edit.phrase, catalogTerms(ws.dataset)).find((h) => h.term.kind === 'dimension' || h.term.kind === 'personal');
+      if (hit?.term.kind === 'personal') return { refusal: personalDataRefusal(ws.dataset, [hit.term.name]) };
+      return { edit: { ...edit, ...(hit ? { dimension: hit.term.name } : {}) } };
+    }
+    if (edit.type === 'window') {
+      const w = readWindow(edit.phrase, ws.coverage);
+      if ('error' in w) return { refusal: w.error };
+      return { edit: { ...edit, window: w.window } };
+    }
+    return { edit };
   }
 
   /**

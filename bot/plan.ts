@@ -141,7 +141,19 @@ export type PlanEdit =
   | { type: 'drop'; numbers: number[] }
   | { type: 'grain'; grain: SubQuestion['grain'] }
   | { type: 'cancel' }
+  /** "add a breakdown by channel": the phrase is matched to a dimension by the caller. */
+  | { type: 'add_breakdown'; phrase: string; dimension?: string }
+  /** "use 2024 instead", "since 2023-04": read against the data's coverage by the caller. */
+  | { type: 'window'; phrase: string; window?: DateWindow }
   | { type: 'unknown' };
+
+// The breakdown lens of each request kind, for "add a breakdown by ...".
+const BREAKDOWN_TEMPLATE: Record<RequestKind, string> = {
+  trend: 'segment_trend',
+  growth: 'growth_drivers',
+  performance: 'performance_by_segment',
+  kpi: 'kpi_by_segment',
+};
 
 export function readPlanEdit(text: string): PlanEdit {
   const t = text.trim().toLowerCase();
@@ -152,6 +164,10 @@ export function readPlanEdit(text: string): PlanEdit {
     const numbers = [...drop[1]!.matchAll(/\d+/g)].map((m) => Number(m[0]));
     if (numbers.length > 0) return { type: 'drop', numbers };
   }
+  const add = /^(?:please\s+)?(?:add|also|plus|and|include)\b.*?\bby\s+(.+?)[.!?]*$/.exec(t) ?? /\bbreak\s+(?:it|this|that|them)?\s*down\s+by\s+(.+?)[.!?]*$/.exec(t);
+  if (add) return { type: 'add_breakdown', phrase: add[1]! };
+  const window = /^(?:(?:change|set|switch)\s+the\s+(?:window|period|dates?)\s+to|window|period|use|only|just)\s+(.+?)(?:\s+instead)?[.!?]*$/.exec(t) ?? /^((?:since|from)\s+.+?)[.!?]*$/.exec(t);
+  if (window && /\d{4}|last\s+\d+|all/.test(window[1]!)) return { type: 'window', phrase: window[1]! };
   const adjective: Record<Grain, string> = { day: 'daily', week: 'weekly', month: 'monthly', quarter: 'quarterly', year: 'yearly' };
   const grain = GRAINS.find((g) => new RegExp(`\\b(${adjective[g]}|by ${g}|per ${g}|${g}ly)\\b`).test(t));
   if (grain) return { type: 'grain', grain };
@@ -169,6 +185,33 @@ export function applyPlanEdit(plan: Plan, edit: PlanEdit): { plan: Plan; error?:
     }
     case 'grain':
       return { plan: { ...plan, items: plan.items.map((sq) => ({ ...sq, grain: edit.grain })) } };
+    case 'window': {
+      if (!edit.window) return { plan, error: `I couldn't read "${edit.phrase}" as a period.` };
+      const w = edit.window;
+      return { plan: { ...plan, items: plan.items.map((sq) => ({ ...sq, window: w })) } };
+    }
+    case 'add_breakdown': {
+      const dimension = edit.dimension;
+      if (!dimension) return { plan, error: `I couldn't match "${edit.phrase}" to a breakdown.` };
+      // One breakdown per question already in the plan (its kind, metric, window and group).
+      const heads = new Map<string, SubQuestion>();
+      for (const sq of plan.items) {
+        const key = `${sq.kind}|${sq.metrics.join(',')}|${sq.comparisonGroup ?? ''}`;
+        if (!heads.has(key)) heads.set(key, sq);
+      }
+      const added: SubQuestion[] = [];
+      for (const sq of heads.values()) {
+        const template = BREAKDOWN_TEMPLATE[sq.kind];
+        const exists = plan.items.some((x) => x.template === template && x.dimension === dimension && x.metrics.join() === sq.metrics.join());
+        if (exists || !TEMPLATES[template] || !PRESENTERS[template]) continue;
+        const { dimension: _old, ...rest } = sq;
+        added.push({ ...rest, template, lens: 'breakdown', dimension });
+      }
+      if (added.length === 0) return { plan, error: 'The plan already has that breakdown.' };
+      const items = [...plan.items, ...added];
+      if (items.length > MAX_PLAN_ITEMS) return { plan, error: `That would take the plan past ${MAX_PLAN_ITEMS} items; drop some first (e.g. "drop 3").` };
+      return { plan: { ...plan, items: renumber(items) } };
+    }
     default:
       return { plan };
   }

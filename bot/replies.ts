@@ -43,7 +43,7 @@ export function planText(plan: Plan, ds: DatasetConfig, locale: string): string 
   if (plan.readings.length) out.push(`How I read the dates: ${plan.readings.join('; ')}.`);
   if (plan.leftOut.length) out.push(`Left out to keep this focused: ${plan.leftOut.map((sq) => describeSubQuestion(sq, ds, locale).replace(/\.$/, '')).join('; ')}.`);
   if (plan.notCovered.length) out.push(`Not in this plan: ${plan.notCovered.map(kindNoun).join(', ')} questions, which this version cannot answer yet.`);
-  out.push('Reply "go" to run it, "drop 2" to remove an item, "weekly" (or another grain) to change the grain, or "cancel".');
+  out.push('Reply "go" to run it, or edit it: "drop 2", "weekly" (another grain), "use 2024" (another period), "add a breakdown by channel"; or "cancel".');
   return out.join('\n');
 }
 
@@ -88,7 +88,7 @@ export const PLAN_REPLIES = [
 ];
 
 export function planEditHelp(): string {
-  return 'I didn\'t catch that. Reply "go" to run the plan, "drop 2" (or "drop 1 and 3") to remove items, a grain such as "weekly" to change it, or "cancel".';
+  return 'I didn\'t catch that. Reply "go" to run the plan, "drop 2" (or "drop 1 and 3") to remove items, a grain such as "weekly", a period such as "use 2024" or "since 2023-04", "add a breakdown by channel", or "cancel".';
 }
 
 export function catalogText(ds: DatasetConfig): string {

@@ -84,4 +84,18 @@ describe('scripted conversations', () => {
     const { thread } = await converse('revenue trend, needed by end of next month', 'plan: cancel\n');
     expect(bot(thread).map((p) => p.promptTopic)).not.toContain('deadline');
   });
+
+  it('takes plan edits that add a breakdown and change the period, and refuses personal data', async () => {
+    const { end, thread } = await converse(
+      'monthly revenue trend for the ops team',
+      'deadline: none\nwindow: all\nplan: ["add a breakdown by customer email", "add a breakdown by channel", "use 2024", "go"]\n',
+    );
+    expect(end).toBe('done');
+    const notes = bot(thread).map((p) => p.text);
+    expect(notes.some((t) => /personal data/.test(t) && /Customer email/.test(t))).toBe(true);
+    const plans = plan(thread);
+    expect(plans.at(-2)!.text).toMatch(/Revenue by booking channel over time/);
+    expect(plans.at(-1)!.text).toMatch(/January 2024 to December 2024/);
+    expect(bot(thread).some((p) => p.files.some((f) => f.path.includes('segment_trend')))).toBe(true);
+  });
 });

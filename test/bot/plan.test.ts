@@ -67,6 +67,10 @@ describe('plans', () => {
     expect(readPlanEdit('Go')).toEqual({ type: 'agree' });
     expect(readPlanEdit('cancel please')).toEqual({ type: 'cancel' });
     expect(readPlanEdit('what?')).toEqual({ type: 'unknown' });
+    expect(readPlanEdit('add a breakdown by channel')).toEqual({ type: 'add_breakdown', phrase: 'channel' });
+    expect(readPlanEdit('can you break it down by route?')).toEqual({ type: 'add_breakdown', phrase: 'route' });
+    expect(readPlanEdit('use 2024 instead')).toEqual({ type: 'window', phrase: '2024' });
+    expect(readPlanEdit('since 2023-04')).toEqual({ type: 'window', phrase: 'since 2023-04' });
   });
 
   it('refuses to drop an item that does not exist or every item', () => {
