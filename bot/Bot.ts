@@ -5,6 +5,7 @@ import type { LimitFunction } from 'p-limit';
 import { answerSubQuestion } from '../analysis/answer-sub-question.js';
 import { timePhase, type PhaseTimings } from '../analysis/phase-timings.js';
 import { checkQuality } from '../analysis/quality/check-run.js';
+import type { ChartSpec } from '../analysis/charts/spec.js';
 import type { Takeaway } from '../analysis/present/presenter.js';
 import type { Answer, Audience, NamedQuery, ResultTable, SubQuestion } from '../analysis/types.js';
 import { refreshCoverage, type Workspace } from '../analysis/workspace.js';
@@ -20,11 +21,19 @@ import { findTerms } from './term-match.js';
 import * as replies from './replies.js';
 import type { AuditKind, StateStore, ThreadState } from './thread-state.js';
 
+/** A chart kept for the digest: its PNG, and its spec when known. */
+export interface DigestChart {
+  png: Buffer;
+  spec?: ChartSpec;
+}
+
 export interface PresentedPost {
   post: Omit<OutgoingPost, 'key'>;
   takeaway: Takeaway | null;
   /** The chart PNG, kept for the digest. */
   chart: Buffer | null;
+  /** Its spec, so the digest can redraw it legibly at thumbnail size. */
+  chartSpec?: ChartSpec;
 }
 
 /** Turns one answered sub-question into a post (chart, caption, CSV, SQL) and its takeaway. */
@@ -35,7 +44,7 @@ export type AnswerPresenter = (
 /** Writes the closing summary from the takeaways of the answers. */
 export type SummaryPresenter = (
   takeaways: (Takeaway & { position: number })[],
-  ctx: { workspace: Workspace; audience: Audience; failures: number; charts: Map<number, Buffer>; requestText: string; timings?: PhaseTimings },
+  ctx: { workspace: Workspace; audience: Audience; failures: number; charts: Map<number, DigestChart>; requestText: string; timings?: PhaseTimings },
 ) => Promise<Omit<OutgoingPost, 'key'>>;
 
 export interface BotTimings {
@@ -421,7 +430,7 @@ export class Bot {
     const who = this.who(started);
     const runKey = (name: string) => `${threadId}:run${run.number}:${name}`;
     // Charts of this process's answers, for the digest (after a restart, only those made since).
-    const charts = new Map<number, Buffer>();
+    const charts = new Map<number, DigestChart>();
     // One data-quality pass per run; if it cannot run, each answer reports its own error.
     const phases = this.deps.phases;
     const quality = await timePhase(phases, 'checks', () => checkQuality(plan.items, ws)).catch(() => undefined);
@@ -472,7 +481,7 @@ export class Bot {
         await this.deps.port.update(threadId, progressRef, replies.progress(state.run!.posted.length, plan.items.length));
         return true;
       });
-      if (presented?.chart) charts.set(i + 1, presented.chart);
+      if (presented?.chart) charts.set(i + 1, { png: presented.chart, ...(presented.chartSpec ? { spec: presented.chartSpec } : {}) });
       if (!stillOn) return;
     }
     await this.inThread(threadId, async () => {

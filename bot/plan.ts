@@ -70,12 +70,17 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           if (!group) break;
           const g = { comparisonGroup: group.name };
           const since = phrase?.window ?? (group.launch_date ? { start: group.launch_date, end: all.end } : all);
-          if (q.frequency) add('performance_frequency', 'distribution', metric, true, g, since);
-          else add('performance_compare', 'summary', metric, true, g, since);
+          if (q.frequency) {
+            // "Do they travel more often?" is a per-customer question: comparing the groups'
+            // total bookings would mostly measure how many customers each group has.
+            add('performance_frequency', 'distribution', metric, true, g, since);
+            add('performance_before_after', 'time_pattern', metric, false, g);
+            break;
+          }
+          add('performance_compare', 'summary', metric, true, g, since);
           add('performance_before_after', 'time_pattern', metric, false, g);
           const d = dims[0] ?? firstGroupable(ds);
           if (d) add('performance_by_segment', 'breakdown', metric, false, { ...g, dimension: d }, since);
-          if (q.frequency) add('performance_compare', 'summary', metric, false, g, since);
           break;
         }
         case 'kpi': {

@@ -32,7 +32,7 @@ export const presentAnswer: AnswerPresenter = async (answer, { workspace, audien
     files.push({ name: `${stem}.sql`, kind: 'sql', content: sqlForReaders(answer.queries, workspace.source.dialect.name) });
   });
   const text = [`*${position}. ${presented.title}*`, presented.caption, ...presented.notes.map((n) => `_Note: ${n}_`)].join('\n');
-  return { post: { text, files }, takeaway: presented.takeaway, chart };
+  return { post: { text, files }, takeaway: presented.takeaway, chart, ...(spec ? { chartSpec: spec } : {}) };
 };
 
 export const presentSummary: SummaryPresenter = async (takeaways, { workspace, failures, charts, requestText, timings }) => {
@@ -51,7 +51,7 @@ export const presentSummary: SummaryPresenter = async (takeaways, { workspace, f
     title: `${workspace.dataset.label}: key findings`,
     subtitle: `Answering: "${requestText.length > 140 ? `${requestText.slice(0, 137)}...` : requestText}"`,
     takeaways: top,
-    charts: withCharts.map((t) => ({ png: charts.get(t.position)!, position: t.position })),
+    charts: withCharts.map((t) => ({ ...charts.get(t.position)!, position: t.position })),
     footer: `Source: ${workspace.dataset.label} · Data as of ${asOf} · Observational figures; follow your organisation's data-governance rules`,
   }));
   return { text, files: [{ name: 'digest.png', kind: 'digest', content: digest }] };
