@@ -5,7 +5,10 @@ import type { Metric } from '../../config/schema.js';
 import { caveatFlag, caveatNote } from '../captions/caveat-text.js';
 import { formatPeriod } from '../format.js';
 import { addDays } from '../periods.js';
-import type { Answer, Grain } from '../types.js';
+import { buildLine } from '../charts/build-line.js';
+import type { LineSpec } from '../charts/spec.js';
+import { valueFormatOf } from '../format.js';
+import type { Answer, Finding, Grain, PeriodPoint } from '../types.js';
 import type { PresentContext } from './presenter.js';
 
 const GRAIN_ADJECTIVE: Record<Grain, string> = { day: 'daily', week: 'weekly', month: 'monthly', quarter: 'quarterly', year: 'yearly' };
@@ -39,4 +42,25 @@ export function caveatNotes(answer: Answer, ctx: PresentContext): string[] {
 
 export function chartHeader(answer: Answer, metric: Metric, title: string, ctx: PresentContext) {
   return { title, subtitle: chartSubtitle(answer, metric, ctx), footer: chartFooter(answer, ctx), ...ctx.chart };
+}
+
+/** The answer's series of `metric` as a line chart (high and low marked), or null with no values. */
+export function seriesLineChart(
+  answer: Answer,
+  metric: Metric,
+  title: string,
+  ctx: PresentContext,
+  overlay?: (points: PeriodPoint[]) => { label: string; values: (number | null)[] } | undefined,
+): LineSpec | null {
+  const series = answer.findings.find((f): f is Extract<Finding, { type: 'series' }> => f.type === 'series' && f.metric === metric.name);
+  if (!series || !series.points.some((p) => p.value !== null)) return null;
+  const extra = overlay?.(series.points);
+  return buildLine({
+    ...chartHeader(answer, metric, title, ctx),
+    seriesLabel: metric.label,
+    grain: answer.subQuestion.grain,
+    points: series.points,
+    format: valueFormatOf(metric, ctx.locale),
+    ...(extra ? { overlay: extra } : {}),
+  });
 }

@@ -1,11 +1,9 @@
 // Presenter for "trend_summary": the series as a line with its mean drawn flat for reference.
-import { buildLine } from '../charts/build-line.js';
 import { trendSummaryWords } from '../captions/trend-summary-caption.js';
 import { metricByName } from '../catalog.js';
 import type { TrendSummaryFinding } from '../findings/segments.js';
 import { formatValue, valueFormatOf } from '../format.js';
-import type { Finding } from '../types.js';
-import { caveatNotes, chartHeader } from './header.js';
+import { caveatNotes, seriesLineChart } from './header.js';
 import type { Presenter } from './presenter.js';
 
 export const presentTrendSummary: Presenter = (answer, ctx) => {
@@ -13,19 +11,10 @@ export const presentTrendSummary: Presenter = (answer, ctx) => {
   const metric = metricByName(ctx.dataset, sq.metrics[0]!);
   const fmt = valueFormatOf(metric, ctx.locale);
   const words = trendSummaryWords(metric, sq.grain, answer.findings, ctx.audience, ctx.locale);
-  const series = answer.findings.find((f): f is Extract<Finding, { type: 'series' }> => f.type === 'series' && f.metric === metric.name);
   const s = answer.findings.find((f): f is TrendSummaryFinding => f.type === 'trend_summary' && f.metric === metric.name);
-  const chart =
-    series && series.points.some((p) => p.value !== null)
-      ? buildLine({
-          ...chartHeader(answer, metric, words.title, ctx),
-          seriesLabel: metric.label,
-          grain: sq.grain,
-          points: series.points,
-          format: fmt,
-          ...(s && s.n > 1 ? { overlay: { label: `Mean (${formatValue(s.mean, fmt, { compact: true })})`, values: series.points.map(() => s.mean) } } : {}),
-        })
-      : null;
+  const chart = seriesLineChart(answer, metric, words.title, ctx, (points) =>
+    s && s.n > 1 ? { label: `Mean (${formatValue(s.mean, fmt, { compact: true })})`, values: points.map(() => s.mean) } : undefined,
+  );
   return {
     title: words.title,
     caption: words.caption,
