@@ -1,0 +1,221 @@
+// The chat side: `threadcount serve` in a child process, and a fixed number of requests sent at
+// once through the local channel's HTTP API on 127.0.0.1, in rounds: one to warm up; one of GETs
+// for unknown threads (the HTTP floor: a 404 and no bot work); one timing the API's
+// acknowledgement (201, the message recorded); one that also reads each thread's event stream
+// until the bot's first message. The server is left idle between rounds. Bounded in count (four
+// rounds) and time.
+import { spawn, type ChildProcess } from 'node:child_process';
+import { Agent, request } from 'node:http';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { packageRoot } from './data.js';
+import { DEMO_REQUEST } from './plan.js';
+
+export interface AckResult {
+  /** Requests per round, all sent at once. */
+  requests: number;
+  /** Requests of the two measured rounds that completed within the time limit. */
+  completed: number;
+  /** Request to the API's 201, with nothing else going on. */
+  acceptedMs: number[];
+  /** Request to the bot's first message, read from the thread's event stream. */
+  acknowledgedMs: number[];
+  /** Request to the 201 in the round where every sender also opened its thread's event stream. */
+  acceptedWithStreamsMs: number[];
+  /** The HTTP floor on this machine: the same number of requests for an unknown thread (404, no bot work). */
+  notFoundMs: number[];
+  wallMs: number;
+  serverMaxRssKb: number | null;
+}
+
+const TIME_LIMIT_MS = 120_000;
+
+export async function measureAck(configPath: string, requests = 200): Promise<AckResult> {
+  const dir = mkdtempSync(join(tmpdir(), 'threadcount-bench-serve-'));
+  const server = await startServer(configPath, join(dir, 'state.duckdb'));
+  // One socket per request, as separate senders would have; no pooling limit.
+  const agent = new Agent({ keepAlive: false, maxSockets: Infinity });
+  const deadline = Date.now() + TIME_LIMIT_MS;
+  try {
+    const round = async (label: string, readReply: boolean) => {
+      const settled = await Promise.allSettled(Array.from({ length: requests }, (_, i) => oneRequest(server.url, agent, `${label} ${i}`, deadline, readReply)));
+      const done = settled.flatMap((s) => (s.status === 'fulfilled' ? [s.value] : []));
+      const failed = settled.find((s): s is PromiseRejectedResult => s.status === 'rejected');
+      if (done.length === 0 && failed) throw failed.reason;
+      // The bot goes on with each request (its reply, the next prompt): wait until it is done.
+      await untilIdle(server.url, agent, deadline);
+      return done;
+    };
+    // Unmeasured: the server's first requests pay for compiling and warming caches.
+    await round('warm-up', true);
+    const notFound = await Promise.all(Array.from({ length: requests }, (_, i) => timedGet(server.url, agent, `api/threads/no-such-thread-${i}`, deadline)));
+    const started = performance.now();
+    const accepted = await round('requester', false);
+    const replied = await round('follower', true);
+    const wallMs = performance.now() - started;
+    return {
+      requests,
+      completed: accepted.length + replied.length,
+      acceptedMs: accepted.map((d) => d.accepted),
+      acknowledgedMs: replied.map((d) => d.acknowledged!),
+      acceptedWithStreamsMs: replied.map((d) => d.accepted),
+      notFoundMs: notFound,
+      wallMs,
+      serverMaxRssKb: server.peakKb(),
+    };
+  } finally {
+    agent.destroy();
+    await server.stop();
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+/** A GET timed to the end of its response, whatever its status. */
+function timedGet(baseUrl: string, agent: Agent, path: string, deadline: number): Promise<number> {
+  const started = performance.now();
+  return new Promise<number>((resolve, reject) => {
+    const req = request(new URL(path, baseUrl), { agent, timeout: Math.max(1, deadline - Date.now()) }, (res) => {
+      res.resume();
+      res.on('end', () => resolve(performance.now() - started));
+    });
+    req.on('timeout', () => req.destroy(new Error('the request ran past the time limit')));
+    req.on('error', reject);
+    req.end();
+  });
+}
+
+/** Waits until every thread's last message is the bot asking something: nothing left to do. */
+async function untilIdle(baseUrl: string, agent: Agent, deadline: number): Promise<void> {
+  while (Date.now() < deadline) {
+    const text = await new Promise<string>((resolve, reject) => {
+      const req = request(new URL('api/threads', baseUrl), { agent }, (res) => {
+        let body = '';
+        res.setEncoding('utf8');
+        res.on('data', (chunk: string) => (body += chunk));
+        res.on('end', () => resolve(body));
+      });
+      req.on('error', reject);
+      req.end();
+    });
+    const { threads } = JSON.parse(text) as { threads: { waiting: boolean }[] };
+    if (threads.every((t) => t.waiting)) return;
+    await new Promise((resolve) => setTimeout(resolve, 250));
+  }
+  throw new Error('the bot was still busy with the warm-up requests at the time limit');
+}
+
+/** POST the request; then read the thread's event stream until the bot's first message. */
+async function oneRequest(
+  baseUrl: string,
+  agent: Agent,
+  author: string,
+  deadline: number,
+  readReply: boolean,
+): Promise<{ accepted: number; acknowledged: number | null }> {
+  const started = performance.now();
+  const body = JSON.stringify({ author, text: DEMO_REQUEST });
+  const created = await new Promise<string>((resolve, reject) => {
+    const req = request(
+      new URL('api/threads', baseUrl),
+      { method: 'POST', agent, headers: { 'content-type': 'application/json', 'content-length': Buffer.byteLength(body) }, timeout: Math.max(1, deadline - Date.now()) },
+      (res) => {
+        let text = '';
+        res.setEncoding('utf8');
+        res.on('data', (chunk: string) => (text += chunk));
+        res.on('end', () => (res.statusCode === 201 ? resolve(text) : reject(new Error(`POST /api/threads answered ${res.statusCode}: ${text}`))));
+      },
+    );
+    req.on('timeout', () => req.destroy(new Error('the request ran past the time limit')));
+    req.on('error', reject);
+    req.end(body);
+  });
+  const accepted = performance.now() - started;
+  if (!readReply) return { accepted, acknowledged: null };
+  const { threadId } = JSON.parse(created) as { threadId: string };
+  // The stream replays the thread's events from the start, so the reply cannot be missed.
+  await new Promise<void>((resolve, reject) => {
+    const req = request(new URL(`api/threads/${encodeURIComponent(threadId)}/events`, baseUrl), { agent, timeout: Math.max(1, deadline - Date.now()) }, (res) => {
+      if (res.statusCode !== 200) return reject(new Error(`the event stream answered ${res.statusCode}`));
+      let buffer = '';
+      res.setEncoding('utf8');
+      res.on('data', (chunk: string) => {
+        buffer += chunk;
+        let end: number;
+        while ((end = buffer.indexOf('\n\n')) >= 0) {
+          const block = buffer.slice(0, end);
+          buffer = buffer.slice(end + 2);
+          const type = /^event: (.+)$/m.exec(block)?.[1];
+          const data = /^data: (.+)$/m.exec(block)?.[1];
+          if (type === 'message.created' && data && (JSON.parse(data) as { fromBot?: boolean }).fromBot) {
+            resolve();
+            req.destroy();
+            return;
+          }
+        }
+      });
+      res.on('end', () => reject(new Error('the event stream ended before the bot replied')));
+    });
+    req.on('timeout', () => req.destroy(new Error('the bot did not reply within the time limit')));
+    req.on('error', (err) => reject(err));
+    req.end();
+  });
+  return { accepted, acknowledged: performance.now() - started };
+}
+
+interface Server {
+  url: string;
+  /** The server's peak resident memory so far (Linux: VmHWM), in KiB; null where unknown. */
+  peakKb(): number | null;
+  stop(): Promise<void>;
+}
+
+async function startServer(configPath: string, statePath: string): Promise<Server> {
+  // Only the local channel: the chat platforms' tokens are left out of the child's environment.
+  const env: NodeJS.ProcessEnv = {};
+  for (const [k, v] of Object.entries(process.env)) if (!/^(SLACK|DISCORD)_/.test(k)) env[k] = v;
+  env.THREADCOUNT_HOST = '127.0.0.1';
+  env.THREADCOUNT_PORT = '0';
+  const child = spawn(process.execPath, [join(packageRoot(), 'bin', 'threadcount.js'), 'serve', '--config', configPath, '--state', statePath], {
+    env,
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  let stderr = '';
+  child.stderr!.on('data', (chunk: Buffer) => (stderr += chunk.toString()));
+  const url = await new Promise<string>((resolve, reject) => {
+    let stdout = '';
+    const timer = setTimeout(() => reject(new Error(`threadcount serve did not start within 30 s: ${stderr}`)), 30_000);
+    child.stdout!.on('data', (chunk: Buffer) => {
+      stdout += chunk.toString();
+      const m = /Local channel: (http:\/\/127\.0\.0\.1:\d+\/)/.exec(stdout);
+      if (m) {
+        clearTimeout(timer);
+        resolve(m[1]!);
+      }
+    });
+    child.once('exit', (code) => {
+      clearTimeout(timer);
+      reject(new Error(`threadcount serve exited (${code}) before it listened: ${stderr}`));
+    });
+  });
+  return { url, peakKb: () => peakOf(child.pid), stop: () => stopChild(child) };
+}
+
+function peakOf(pid: number | undefined): number | null {
+  if (pid === undefined) return null;
+  try {
+    const m = /^VmHWM:\s+(\d+) kB$/m.exec(readFileSync(`/proc/${pid}/status`, 'utf8'));
+    return m ? Number(m[1]) : null;
+  } catch {
+    return null;
+  }
+}
+
+async function stopChild(child: ChildProcess): Promise<void> {
+  if (child.exitCode !== null || child.signalCode !== null) return;
+  const exited = new Promise<void>((resolve) => child.once('exit', () => resolve()));
+  child.kill('SIGTERM');
+  const timer = setTimeout(() => child.kill('SIGKILL'), 10_000);
+  await exited;
+  clearTimeout(timer);
+}

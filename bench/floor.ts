@@ -1,0 +1,91 @@
+// The database's own floor: the plan's SQL statements, as our run bound them, executed one after
+// another straight on DuckDB with the same settings our source opens it with; and a reference of
+// what one shared scan would cost: a single GROUP BY at the plan's finest grain and dimensions.
+import { DuckDBInstance, type DuckDBValue } from '@duckdb/node-api';
+import type { CompiledQuery } from '../analysis/types.js';
+
+export interface FloorArgs {
+  databasePath: string;
+  queries: CompiledQuery[];
+  threads?: number;
+  memoryLimit?: string;
+}
+
+export interface FloorResult {
+  /** Statements the plan ran, and how many of them were different. */
+  statements: number;
+  distinct: number;
+  /** Every distinct statement once, in order, on one connection. */
+  floorMs: number;
+  /** Every statement as the plan ran it, repeats included. */
+  allStatementsMs: number;
+  perStatementMs: number[];
+  groupByMs: number;
+  groupByRows: number;
+  openMs: number;
+  maxRssKb: number;
+}
+
+/** month x route x channel x fare_class x pass_holder, with the sums, counts and sums of squares a rollup would keep. */
+export const SINGLE_GROUP_BY = `SELECT CAST(date_trunc('month', sail_date) AS DATE) AS month, route, channel, fare_class, pass_holder,
+  COUNT(*) AS n,
+  SUM(fare_total) AS fare_total, SUM(CAST(fare_total AS DOUBLE) * CAST(fare_total AS DOUBLE)) AS fare_total_sq,
+  SUM(passengers) AS passengers, SUM(CAST(passengers AS DOUBLE) * CAST(passengers AS DOUBLE)) AS passengers_sq,
+  SUM(refund_amount) AS refund_amount, SUM(CAST(refund_amount AS DOUBLE) * CAST(refund_amount AS DOUBLE)) AS refund_amount_sq,
+  COUNT(*) FILTER (WHERE refunded) AS refunded
+FROM bookings
+GROUP BY ALL`;
+
+export function distinctQueries<T extends CompiledQuery>(queries: T[]): T[] {
+  const seen = new Map<string, T>();
+  for (const q of queries) {
+    const key = `${q.sql}\u0000${JSON.stringify(q.params)}`;
+    if (!seen.has(key)) seen.set(key, q);
+  }
+  return [...seen.values()];
+}
+
+export async function runFloor(args: FloorArgs): Promise<FloorResult> {
+  const settings: Record<string, string> = { access_mode: 'READ_ONLY' };
+  if (args.threads) settings.threads = String(args.threads);
+  if (args.memoryLimit) settings.memory_limit = args.memoryLimit;
+  const opened = performance.now();
+  const instance = await DuckDBInstance.create(args.databasePath, settings);
+  const connection = await instance.connect();
+  const openMs = performance.now() - opened;
+  try {
+    const run = async (q: CompiledQuery) => {
+      const reader = await connection.runAndReadAll(q.sql, q.params as DuckDBValue[]);
+      return reader.currentRowCount;
+    };
+    const distinct = distinctQueries(args.queries);
+    const perStatementMs: number[] = [];
+    const started = performance.now();
+    for (const q of distinct) {
+      const t = performance.now();
+      await run(q);
+      perStatementMs.push(performance.now() - t);
+    }
+    const floorMs = performance.now() - started;
+    const allStarted = performance.now();
+    for (const q of args.queries) await run(q);
+    const allStatementsMs = performance.now() - allStarted;
+    const g = performance.now();
+    const groupByRows = await run({ sql: SINGLE_GROUP_BY, params: [] });
+    const groupByMs = performance.now() - g;
+    return {
+      statements: args.queries.length,
+      distinct: distinct.length,
+      floorMs,
+      allStatementsMs,
+      perStatementMs,
+      groupByMs,
+      groupByRows,
+      openMs,
+      maxRssKb: process.resourceUsage().maxRSS,
+    };
+  } finally {
+    connection.closeSync();
+    instance.closeSync();
+  }
+}
