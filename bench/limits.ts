@@ -2,6 +2,6 @@
 // benchmark stays bounded (about a quarter of an hour for 1M, 10M and 30M rows).
 
 /** A peer is stopped after this many times our median at the same size... */
-export const PEER_LIMIT_TIMES_OURS = 8;
+export const PEER_LIMIT_TIMES_OURS = 15;
 /** ...but never before this. */
 export const PEER_MIN_LIMIT_MS = 60_000;

@@ -226,7 +226,7 @@ export function writeReport(run: BenchRun): string {
   );
   if (ack) {
     push(
-      `Rounds of ${ack.requests} requests sent at once to \`POST /api/threads\` of \`threadcount serve\` (a child process) on 127.0.0.1 through \`node:http\`, one socket each, after an unmeasured warm-up round, the server idle between rounds (${ack.completed} of ${2 * ack.requests} measured requests completed, ${sec(ack.wallMs)} s; server peak RSS ${ack.serverMaxRssKb ? `${mb(ack.serverMaxRssKb)} MB` : 'n/a'}). The client runs on the same two cores as the server.`,
+      `Rounds of ${ack.requests} requests sent at once to \`threadcount serve\` (a child process) on 127.0.0.1 through \`node:http\`, one socket each, after an unmeasured warm-up round, the bot left to finish between rounds: ${ack.rounds} rounds each of the 404 floor and of \`POST /api/threads\` (percentiles over all their requests), then one round reading the bot's replies (${ack.completed} of ${(ack.rounds + 1) * ack.requests} measured requests completed, ${sec(ack.wallMs)} s; server peak RSS ${ack.serverMaxRssKb ? `${mb(ack.serverMaxRssKb)} MB` : 'n/a'}). The client runs on the same two cores as the server.`,
       '',
       '| from the request to | median (ms) | p99 (ms) |',
       '| --- | ---: | ---: |',
