@@ -36,7 +36,10 @@ const ROUNDS = 3;
 
 export async function measureAck(configPath: string, requests = 200): Promise<AckResult> {
   const dir = mkdtempSync(join(tmpdir(), 'threadcount-bench-serve-'));
-  const server = await startServer(configPath, join(dir, 'state.duckdb'));
+  const server = await startServer(configPath, join(dir, 'state.duckdb')).catch((err: unknown) => {
+    rmSync(dir, { recursive: true, force: true });
+    throw err;
+  });
   // One socket per request, as separate senders would have; no pooling limit.
   const agent = new Agent({ keepAlive: false, maxSockets: Infinity });
   const deadline = Date.now() + TIME_LIMIT_MS;
