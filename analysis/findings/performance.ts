@@ -67,11 +67,8 @@ export interface PerformanceGroupFinding {
 }
 
 /** A tested difference of two estimates (first − second, as `comparison` names them). */
-export interface PerformanceDifferenceFinding {
-  type: 'performance_difference';
-  metric: string;
-  comparison: Comparison;
-  measure: MeasureKind;
+/** The outcome of one significance test of a difference between two estimates. */
+export interface DifferenceTest {
   test: TestName;
   /** The two estimates compared. */
   first: number;
@@ -88,6 +85,13 @@ export interface PerformanceDifferenceFinding {
   pValue: number;
   /** Hedges' g (Welch only). */
   effectSize: number | null;
+}
+
+export interface PerformanceDifferenceFinding extends DifferenceTest {
+  type: 'performance_difference';
+  metric: string;
+  comparison: Comparison;
+  measure: MeasureKind;
   nFirst: number;
   nSecond: number;
 }

@@ -5,7 +5,7 @@ import normalCdf from '@stdlib/stats-base-dists-normal-cdf';
 import normalQuantile from '@stdlib/stats-base-dists-normal-quantile';
 import tCdf from '@stdlib/stats-base-dists-t-cdf';
 import tQuantile from '@stdlib/stats-base-dists-t-quantile';
-import type { Direction, MeasureKind, NoTestReason, TestName, Verdict } from '../findings/performance.js';
+import type { DifferenceTest, Direction, MeasureKind, NoTestReason, TestName, Verdict } from '../findings/performance.js';
 import { combineMoments, twoProportionZTest, welchTTest } from '../stats/index.js';
 
 export interface MeanCell {
@@ -164,19 +164,8 @@ function combineRatio(a: RatioCell, b: RatioCell): RatioCell {
   };
 }
 
-export interface TestedDifference {
+export interface TestedDifference extends DifferenceTest {
   kind: 'test';
-  test: TestName;
-  first: number;
-  second: number;
-  difference: number;
-  relative: number | null;
-  ci: [number, number];
-  confidence: number;
-  statistic: number;
-  df: number | null;
-  pValue: number;
-  effectSize: number | null;
 }
 
 export interface UntestedDifference {
