@@ -3,6 +3,7 @@ import { timePhase, type PhaseTimings } from './phase-timings.js';
 import { qualityCaveatsFor } from './quality/check-run.js';
 import type { QualityReport } from './quality/quality-checks.js';
 import { templateFor } from './templates/index.js';
+import type { RunScope } from './run-scope.js';
 import type { Answer, NamedQuery, ResultTable, SubQuestion } from './types.js';
 import type { Workspace } from './workspace.js';
 
@@ -13,10 +14,10 @@ export interface AnswerOptions {
   /** Collects the time spent in SQL and in reading the results (the benchmark passes one). */
   timings?: PhaseTimings;
   /**
-   * Results of one run, by statement and parameters, shared by its sub-questions: a query that two
-   * answers compile identically (e.g. a change's drivers and its share shift) runs once per run.
+   * What one run's sub-questions share: a query that two answers compile identically (e.g. a
+   * change's drivers and its share shift) runs once per run.
    */
-  runResults?: Map<string, Promise<ResultTable>>;
+  scope?: RunScope;
 }
 
 export async function answerSubQuestion(sq: SubQuestion, ws: Workspace, opts: AnswerOptions = {}): Promise<Answer> {
@@ -31,7 +32,7 @@ export async function answerSubQuestion(sq: SubQuestion, ws: Workspace, opts: An
 
 function runShared(q: NamedQuery, ws: Workspace, opts: AnswerOptions): Promise<ResultTable> {
   const run = () => timePhase(opts.timings, 'sql', () => ws.source.run(q, ws.runOptions), q);
-  const shared = opts.runResults;
+  const shared = opts.scope?.results;
   if (!shared) return run();
   const key = `${q.sql}\u0000${JSON.stringify(q.params)}`;
   // Each answer gets its own copy, so no reader can change another answer's table.

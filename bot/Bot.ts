@@ -5,9 +5,11 @@ import type { LimitFunction } from 'p-limit';
 import { answerSubQuestion } from '../analysis/answer-sub-question.js';
 import { timePhase, type PhaseTimings } from '../analysis/phase-timings.js';
 import { checkQuality } from '../analysis/quality/check-run.js';
+import type { QualityReport } from '../analysis/quality/quality-checks.js';
+import { openRunScope, type RunScope } from '../analysis/run-scope.js';
 import type { ChartSpec } from '../analysis/charts/spec.js';
 import type { Takeaway } from '../analysis/present/presenter.js';
-import type { Answer, Audience, NamedQuery, ResultTable, SubQuestion } from '../analysis/types.js';
+import type { Answer, Audience, NamedQuery, SubQuestion } from '../analysis/types.js';
 import { refreshCoverage, type Workspace } from '../analysis/workspace.js';
 import type { AccessConfig, DatasetConfig } from '../config/schema.js';
 import { allowedDatasets, channelKey, chooseDataset } from './access.js';
@@ -422,20 +424,29 @@ export class Bot {
    * a resumed run never posts twice.
    */
   private async runPlan(started: ThreadState): Promise<void> {
+    const plan = started.plan!;
+    const ws = this.workspaceOf(started);
+    // One data-quality pass per run; if it cannot run, each answer reports its own error.
+    const quality = await timePhase(this.deps.phases, 'checks', () => checkQuality(plan.items, ws)).catch(() => undefined);
+    // What this run's sub-questions share (identical queries run once); freed when the run ends.
+    const scope = openRunScope(plan.items, ws);
+    try {
+      await this.runPlanIn(started, ws, scope, quality);
+    } finally {
+      await scope.close();
+    }
+  }
+
+  private async runPlanIn(started: ThreadState, ws: Workspace, scope: RunScope, quality: QualityReport | undefined): Promise<void> {
     const threadId = started.threadId;
     const plan = started.plan!;
     const run = started.run!;
     const audience = started.brief.audience ?? 'managers';
-    const ws = this.workspaceOf(started);
     const who = this.who(started);
     const runKey = (name: string) => `${threadId}:run${run.number}:${name}`;
     // Charts of this process's answers, for the digest (after a restart, only those made since).
     const charts = new Map<number, DigestChart>();
-    // One data-quality pass per run; if it cannot run, each answer reports its own error.
     const phases = this.deps.phases;
-    const quality = await timePhase(phases, 'checks', () => checkQuality(plan.items, ws)).catch(() => undefined);
-    // An identical query compiled by two sub-questions of this run runs once.
-    const runResults = new Map<string, Promise<ResultTable>>();
     const progressRef = await this.postOnce(threadId, runKey('progress'), { text: replies.progress(run.posted.length, plan.items.length) }, who);
     // The queries each sub-question ran, for the audit log (kept even when presenting fails).
     const ran = plan.items.map(() => [] as NamedQuery[]);
@@ -448,7 +459,7 @@ export class Bot {
               const answer = await answerSubQuestion(sq, ws, {
                 ...(quality ? { quality } : {}),
                 now: this.deps.now(),
-                runResults,
+                scope,
                 ...(phases ? { timings: phases } : {}),
               });
               ran[i] = answer.queries;

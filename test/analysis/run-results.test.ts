@@ -1,9 +1,10 @@
-// One run's sub-questions share identical queries (answerSubQuestion's runResults), and the
+// One run's sub-questions share identical queries (the run scope's results), and the
 // optional phase timings record every step; both on the generated demo (invented data) in DuckDB.
 // The growth drivers and share-shift templates compile the same SQL for the same window and
 // dimension, so a plan asking both runs that query once.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../analysis/answer-sub-question.js';
+import { openRunScope } from '../../analysis/run-scope.js';
 import type { Phase, PhaseTimings } from '../../analysis/phase-timings.js';
 import type { NamedQuery, ResultTable, SubQuestion } from '../../analysis/types.js';
 import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
@@ -50,8 +51,8 @@ describe('queries shared within a run', () => {
     expect(alone[0]!.queries.map((q) => q.sql)).toEqual(alone[1]!.queries.map((q) => q.sql));
 
     runs.length = 0;
-    const runResults = new Map<string, Promise<ResultTable>>();
-    const [drivers, shares] = await Promise.all([answerSubQuestion(DRIVERS, ws, { runResults }), answerSubQuestion(SHARES, ws, { runResults })]);
+    const scope = openRunScope([], ws);
+    const [drivers, shares] = await Promise.all([answerSubQuestion(DRIVERS, ws, { scope }), answerSubQuestion(SHARES, ws, { scope })]);
     expect(unshared).toBe(2);
     expect(runs.length).toBe(1);
     // Same tables and same findings as when each ran its own query.
@@ -62,9 +63,9 @@ describe('queries shared within a run', () => {
   });
 
   it('gives each answer its own copy of a shared table', async () => {
-    const runResults = new Map<string, Promise<ResultTable>>();
-    const a = await answerSubQuestion(DRIVERS, ws, { runResults });
-    const b = await answerSubQuestion(SHARES, ws, { runResults });
+    const scope = openRunScope([], ws);
+    const a = await answerSubQuestion(DRIVERS, ws, { scope });
+    const b = await answerSubQuestion(SHARES, ws, { scope });
     // The templates name their query differently ("drivers", "shares"); the SQL is the same.
     const ta = Object.values(a.tables)[0]!;
     const tb = Object.values(b.tables)[0]!;
@@ -76,9 +77,9 @@ describe('queries shared within a run', () => {
 
   it('runs different windows separately', async () => {
     runs.length = 0;
-    const runResults = new Map<string, Promise<ResultTable>>();
-    await answerSubQuestion(DRIVERS, ws, { runResults });
-    await answerSubQuestion({ ...SHARES, window: { start: '2024-05-01', end: '2024-08-01' } }, ws, { runResults });
+    const scope = openRunScope([], ws);
+    await answerSubQuestion(DRIVERS, ws, { scope });
+    await answerSubQuestion({ ...SHARES, window: { start: '2024-05-01', end: '2024-08-01' } }, ws, { scope });
     expect(runs.length).toBe(2);
   });
 });
