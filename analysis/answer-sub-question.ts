@@ -2,7 +2,9 @@
 import { timePhase, type PhaseTimings } from './phase-timings.js';
 import { qualityCaveatsFor } from './quality/check-run.js';
 import type { QualityReport } from './quality/quality-checks.js';
-import { templateFor } from './templates/index.js';
+import { covers, rollupNeeds } from './rollup/eligibility.js';
+import { sharedScanQuery } from './rollup/rollup.js';
+import { templateFor, type Template } from './templates/index.js';
 import type { RunScope } from './run-scope.js';
 import type { Answer, NamedQuery, ResultTable, SubQuestion } from './types.js';
 import type { Workspace } from './workspace.js';
@@ -22,12 +24,26 @@ export interface AnswerOptions {
 
 export async function answerSubQuestion(sq: SubQuestion, ws: Workspace, opts: AnswerOptions = {}): Promise<Answer> {
   const template = templateFor(sq);
-  const queries = template.compile(sq, { ...ws.context, coverage: ws.coverage });
+  const queries = compileFor(sq, template, ws, opts.scope);
   const tables: Record<string, ResultTable> = {};
   for (const q of queries) tables[q.name] = await runShared(q, ws, opts);
   const { findings, caveats } = timePhase(opts.timings, 'read', () => template.read(sq, tables, { dataset: ws.dataset, coverage: ws.coverage }));
   const quality = opts.quality ? qualityCaveatsFor(sq, opts.quality, ws, opts.now ?? new Date()) : [];
   return { subQuestion: sq, queries, tables, findings, caveats: [...caveats, ...quality] };
+}
+
+/**
+ * The template's queries; over the run's rollup when the sub-question can read it, each then
+ * shown with the rollup as a CTE so the SQL stays a runnable account of how it was computed.
+ */
+function compileFor(sq: SubQuestion, template: Template, ws: Workspace, scope: RunScope | undefined): NamedQuery[] {
+  const ctx = { ...ws.context, coverage: ws.coverage };
+  const shape = scope?.rollup;
+  const need = shape ? rollupNeeds(sq, ws.dataset) : null;
+  if (!shape || !need || !covers(shape, need)) return template.compile(sq, ctx);
+  // The coverage is part of the rollup's identity: new rows (a rerun with fresh data) make a new one.
+  const version = JSON.stringify(ws.coverage);
+  return template.compile(sq, { ...ctx, rollup: shape }).map((q) => ({ name: q.name, ...sharedScanQuery(ctx, shape, q, version) }));
 }
 
 function runShared(q: NamedQuery, ws: Workspace, opts: AnswerOptions): Promise<ResultTable> {

@@ -2,7 +2,10 @@
 import type { DatasetConfig } from '../config/schema.js';
 import type { Coverage } from './coverage.js';
 import { groupableDimension } from './catalog.js';
+import type { Metric } from '../config/schema.js';
+import { ROLLUP_RELATION, rollupMetricAggregate, rollupRowCount, type RollupShape } from './rollup/rollup.js';
 import type { Dialect, TimeColumnType } from './sql/dialect.js';
+import { metricAggregate } from './sql/metric-sql.js';
 import type { QueryBuilder } from './sql/query-builder.js';
 import type { DateWindow, SegmentFilter } from './types.js';
 
@@ -12,10 +15,17 @@ export interface CompileContext {
   timeColumnType: TimeColumnType;
   /** What the data covers, when known: lets a template bind exactly the periods it needs. */
   coverage?: Coverage;
+  /**
+   * When set, the query reads the run's rollup (see rollup/rollup.ts) instead of the table: one
+   * row per local day and dimension values, with the metrics' additive pieces.
+   */
+  rollup?: RollupShape;
 }
 
 /** The time column as a calendar date in the dataset's time zone. */
 export function localDateExpr(q: QueryBuilder, ctx: CompileContext): string {
+  // The rollup's day is already the local calendar date, under the time column's name.
+  if (ctx.rollup) return q.ident(ctx.dataset.time_column);
   return ctx.dialect.localDate(q.ident(ctx.dataset.time_column), ctx.timeColumnType, ctx.dataset.timezone, q.bind);
 }
 
@@ -34,5 +44,16 @@ export function whereClause(q: QueryBuilder, ctx: CompileContext, window: DateWi
 }
 
 export function tableRef(q: QueryBuilder, ctx: CompileContext): string {
-  return q.ident(ctx.dataset.table);
+  return q.ident(ctx.rollup ? ROLLUP_RELATION : ctx.dataset.table);
+}
+
+/** A catalog metric as one aggregate over the rows the query reads (table or rollup). */
+export function measureSql(q: QueryBuilder, ctx: CompileContext, metric: Metric): string {
+  return ctx.rollup ? rollupMetricAggregate(q, ctx.dataset, metric) : metricAggregate(q, ctx.dataset, metric);
+}
+
+/** The number of table rows behind the rows aggregated, optionally only where `where` holds. */
+export function rowCountSql(q: QueryBuilder, ctx: CompileContext, where?: string): string {
+  if (ctx.rollup) return rollupRowCount(q, where);
+  return where ? `COUNT(*) FILTER (WHERE ${where})` : 'COUNT(*)';
 }

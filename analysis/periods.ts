@@ -65,3 +65,35 @@ export function periodsBetween(from: string, end: string, grain: Grain): string[
 export function periodsPerYear(grain: Grain): number | null {
   return { day: null, week: 52, month: 12, quarter: 4, year: 1 }[grain];
 }
+
+// ISO 8601 week calendar: weeks start on Monday and belong to the year that holds their
+// Thursday, so week 1 is the week with 4 January and a year has 52 or 53 weeks.
+
+/** The ISO week-numbering year and week number of the week containing the date. */
+export function isoWeekOf(iso: string): { year: number; week: number } {
+  const thursday = parseIsoDate(addDays(periodStart(iso, 'week'), 3));
+  const year = thursday.getUTCFullYear();
+  const dayOfYear = Math.round((thursday.getTime() - Date.UTC(year, 0, 1)) / 86_400_000);
+  return { year, week: Math.floor(dayOfYear / 7) + 1 };
+}
+
+/** Monday of ISO week `week` of ISO year `year` (week 1 holds 4 January). */
+export function isoWeekStart(year: number, week: number): string {
+  const jan4 = toIsoDate(new Date(Date.UTC(year, 0, 4)));
+  return addDays(periodStart(jan4, 'week'), 7 * (week - 1));
+}
+
+/** 52 or 53: 28 December always falls in an ISO year's last week. */
+export function isoWeeksInYear(year: number): number {
+  return isoWeekOf(toIsoDate(new Date(Date.UTC(year, 11, 28)))).week;
+}
+
+/**
+ * The week with the same ISO week number in the previous ISO year, or null for a week 53 whose
+ * previous year has only 52 weeks (there is no like-for-like week to compare with). Going back a
+ * fixed 52 weeks instead lands one week off for a whole year after every 53-week year.
+ */
+export function sameIsoWeekLastYear(weekStart: string): string | null {
+  const { year, week } = isoWeekOf(weekStart);
+  return week > isoWeeksInYear(year - 1) ? null : isoWeekStart(year - 1, week);
+}

@@ -1,6 +1,7 @@
 // The plain values that flow one way through the analysis:
 // sub-question -> compiled query -> result table -> findings.
 // Nothing here knows about chat platforms or prose.
+import type { SharedScan } from './rollup/rollup.js';
 import type { FamilyFinding } from './findings/index.js';
 
 export const GRAINS = ['day', 'week', 'month', 'quarter', 'year'] as const;
@@ -62,6 +63,11 @@ export interface ResultTable {
 export interface CompiledQuery {
   sql: string;
   params: (string | number | boolean)[];
+  /**
+   * Set when the query reads the run's rollup: `sql` then carries the rollup as a CTE (runnable
+   * as shown), and an engine that keeps rollups runs `scan.body` over its own copy instead.
+   */
+  scan?: SharedScan;
 }
 
 /** One of the queries a template runs for a sub-question; `name` keys its result table. */

@@ -62,7 +62,10 @@ export function caveatNote(c: Caveat, locale: string): string {
       if (typeof d.groups === 'string' && d.periods === true) return `${show(n)} ${n === 1 ? 'period' : 'periods'} of ${show(d.groups)} had ${under}: too few to show, so they are left blank.`;
       if (typeof d.groups === 'string' && d.cells === true) return `${show(n)} ${n === 1 ? 'value' : 'values'} of ${show(d.groups)} within a segment had ${under}: too few to show, so they are withheld.`;
       if (typeof d.groups === 'string') return `Too few to show: ${show(d.groups)} had ${under}, so their figures are withheld.`;
-      return `${show(n)} ${n === 1 ? 'segment' : 'segments'} with ${under} ${n === 1 ? 'is' : 'are'} combined as "All others".`;
+      const extra = typeof d.complementary === 'number' && d.complementary > 0 ? d.complementary : 0;
+      // Complementary suppression: the segments folded beside the small ones are said, so the count stays true.
+      const beside = extra > 0 ? `, with ${show(extra)} more ${extra === 1 ? 'segment' : 'segments'} so that ${n === 1 ? 'it' : 'they'} cannot be worked out from the total` : '';
+      return `${show(n)} ${n === 1 ? 'segment' : 'segments'} with ${under} ${n === 1 ? 'is' : 'are'} combined as "All others"${beside}.`;
     }
   }
 }

@@ -4,6 +4,7 @@ import { existsSync } from 'node:fs';
 import { DuckDBConnection, DuckDBInstance, type DuckDBType, DuckDBTypeId } from '@duckdb/node-api';
 import type { EngineConfig, SourceConfig } from '../../config/schema.js';
 import { duckdbDialect } from '../sql/dialect.js';
+import { rollupTable, storedRollupQuery, storeRollupStatement, type SharedScan } from '../rollup/rollup.js';
 import type { CellValue, CompiledQuery, ResultColumn, ResultTable } from '../types.js';
 import { SourceError, type DataSource, type RunOptions, type TableColumn } from './data-source.js';
 
@@ -17,6 +18,10 @@ export interface DuckDbSourceOptions {
 
 // Sub-question jobs run a few at a time; DuckDB parallelises each query across its own threads.
 const POOL_SIZE = 4;
+// The alias of an attached DuckDB data file (our own catalog name; never shown to users).
+const DATA_CATALOG = 'tc_data';
+// Rollups kept between runs: a few shapes of recent plans (each is aggregated rows, not the table).
+const MAX_KEPT_ROLLUPS = 8;
 
 export class DuckDbSource implements DataSource {
   readonly dialect = duckdbDialect;
@@ -51,16 +56,26 @@ export class DuckDbSource implements DataSource {
       if (!existsSync(p)) throw new SourceError('unreachable', `the data file ${p} does not exist`);
     }
     let instance: DuckDBInstance;
+    let connection: DuckDBConnection;
+    // The engine's own catalog is in memory (where rollups are kept, see rollup/rollup.ts); a
+    // DuckDB data file is attached to it read-only and made every connection's default.
     try {
-      if (opts.source.kind === 'duckdb') {
-        instance = await DuckDBInstance.create(opts.paths[0], { ...settings, access_mode: 'READ_ONLY' });
-      } else {
-        instance = await DuckDBInstance.create(':memory:', settings);
-      }
+      instance = await DuckDBInstance.create(':memory:', settings);
     } catch (err) {
-      throw new SourceError('unreachable', `cannot open the data file: ${firstLine(err)}`, err);
+      throw new SourceError('unreachable', `cannot start the embedded engine: ${firstLine(err)}`, err);
     }
-    const connection = await instance.connect();
+    connection = await instance.connect();
+    if (opts.source.kind === 'duckdb') {
+      try {
+        // The path comes from the config, not from chat; it still goes in as an escaped SQL literal.
+        await connection.run(`ATTACH '${opts.paths[0]!.replaceAll("'", "''")}' AS ${DATA_CATALOG} (READ_ONLY)`);
+        await connection.run(`USE ${DATA_CATALOG}`);
+      } catch (err) {
+        connection.closeSync();
+        instance.closeSync();
+        throw new SourceError('unreachable', `cannot open the data file: ${firstLine(err)}`, err);
+      }
+    }
     // Views made on one connection are visible to the others (same database instance).
     if (opts.source.kind !== 'duckdb') {
       // File paths come from the config, not from chat; they still go in as SQL string literals.
@@ -75,12 +90,13 @@ export class DuckDbSource implements DataSource {
       }
     }
     const others = await Promise.all(Array.from({ length: POOL_SIZE - 1 }, () => instance.connect()));
+    if (opts.source.kind === 'duckdb') for (const c of others) await c.run(`USE ${DATA_CATALOG}`);
     return new DuckDbSource(instance, [connection, ...others]);
   }
 
   async describe(table: string): Promise<TableColumn[]> {
     const reader = await this.withConnection((c) => c.runAndReadAll(
-      'SELECT column_name, data_type FROM information_schema.columns WHERE table_name = $1 ORDER BY ordinal_position',
+      'SELECT column_name, data_type FROM information_schema.columns WHERE table_catalog = current_database() AND table_name = $1 ORDER BY ordinal_position',
       [table],
     ));
     const rows = reader.getRowObjectsJson();
@@ -89,7 +105,49 @@ export class DuckDbSource implements DataSource {
   }
 
   run(query: CompiledQuery, options: RunOptions): Promise<ResultTable> {
+    if (query.scan) return this.runOverRollup(query.scan, options);
     return this.withConnection((c) => this.runOn(c, query, options));
+  }
+
+  // Rollups kept in the in-memory catalog, by key; the least recently used beyond the limit are
+  // dropped once no query reads them. A key names the rollup's SQL and the data's coverage.
+  private readonly rollups = new Map<string, { ready: Promise<void>; readers: number; usedAt: number; dropped: boolean }>();
+  private clock = 0;
+
+  /** Stores the rollup on first use (one scan of the table), then runs the query over the stored copy. */
+  private async runOverRollup(scan: SharedScan, options: RunOptions): Promise<ResultTable> {
+    for (;;) {
+      let entry = this.rollups.get(scan.key);
+      if (!entry) {
+        const ready = this.withConnection((c) => this.runOn(c, storeRollupStatement(scan), options)).then(() => undefined);
+        entry = { ready, readers: 0, usedAt: 0, dropped: false };
+        this.rollups.set(scan.key, entry);
+        // A rollup that failed (a timeout, say) is forgotten, so the next reader tries again.
+        ready.catch(() => {
+          if (this.rollups.get(scan.key) === entry) this.rollups.delete(scan.key);
+        });
+      }
+      await entry.ready;
+      // Dropped while this reader waited: store it again.
+      if (entry.dropped) continue;
+      entry.readers++;
+      entry.usedAt = ++this.clock;
+      try {
+        return await this.withConnection((c) => this.runOn(c, storedRollupQuery(scan), options));
+      } finally {
+        entry.readers--;
+        await this.evictRollups();
+      }
+    }
+  }
+
+  private async evictRollups(): Promise<void> {
+    const idle = [...this.rollups.entries()].filter(([, e]) => e.readers === 0 && e.usedAt > 0).sort((a, b) => a[1].usedAt - b[1].usedAt);
+    for (const [key, entry] of idle.slice(0, Math.max(0, this.rollups.size - MAX_KEPT_ROLLUPS))) {
+      this.rollups.delete(key);
+      entry.dropped = true;
+      await this.withConnection((c) => c.run(`DROP TABLE IF EXISTS ${rollupTable(key)}`)).catch(() => undefined);
+    }
   }
 
   private async runOn(connection: DuckDBConnection, query: CompiledQuery, options: RunOptions): Promise<ResultTable> {

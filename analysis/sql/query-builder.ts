@@ -4,12 +4,16 @@ import type { Dialect } from './dialect.js';
 
 export class QueryBuilder {
   private readonly params: (string | number | boolean)[] = [];
-  constructor(readonly dialect: Dialect) {}
+  /** `offset`: placeholders this builder's parameters follow (for a statement that joins two). */
+  constructor(
+    readonly dialect: Dialect,
+    private readonly offset = 0,
+  ) {}
 
   /** Binds a value and returns its placeholder. */
   bind = (value: string | number | boolean): string => {
     this.params.push(value);
-    return this.dialect.placeholder(this.params.length);
+    return this.dialect.placeholder(this.offset + this.params.length);
   };
 
   ident = (name: string): string => this.dialect.quoteIdent(name);

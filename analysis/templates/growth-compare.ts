@@ -3,14 +3,13 @@
 // two spans stay like for like (18 days of this June against 18 days of last June, not 30).
 import type { DatasetConfig } from '../../config/schema.js';
 import { groupableDimension, metricByName } from '../catalog.js';
-import { type CompileContext, localDateExpr, tableRef, whereClause } from '../compile-context.js';
+import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type { GrowthSpan } from '../findings/growth.js';
 import { addDays, addMonths } from '../periods.js';
-import { metricAggregate } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, DateWindow, ResultTable, SubQuestion } from '../types.js';
-import { minGroupSize } from './small-groups.js';
+import { complementaryFoldCtes, minGroupSize } from './small-groups.js';
 
 const WINDOW = '__tc_window';
 const DAY = '__tc_day';
@@ -22,6 +21,7 @@ const KEY = '__tc_key';
 const ROWS = '__tc_rows';
 const SMALL = '__tc_small';
 const SMALL_COUNT = '__tc_small_count';
+const COMPLEMENT_COUNT = '__tc_complement_count';
 
 /** Sums and counts add up across segments and periods; averages, distinct counts, ratios and rates do not. */
 export function isAdditiveMetric(ds: DatasetConfig, name: string): boolean {
@@ -61,7 +61,7 @@ export function compileWindowComparison(sq: SubQuestion, ctx: CompileContext): C
   WHERE ${whereClause(q, ctx, w, sq.filters)}
     AND ${edge}`;
   const yearFrom = (e: string, sign: '+' | '-') => `CAST(${e} ${sign} INTERVAL '1' YEAR AS DATE)`;
-  const measures = sq.metrics.map((name) => `  ${metricAggregate(q, ctx.dataset, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
+  const measures = sq.metrics.map((name) => `  ${measureSql(q, ctx, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
   // `reach` is the whole table's first and last day (as in the coverage check), not the filtered rows',
   // so a segment filter never shortens the span compared.
   const reachSql = `SELECT MIN(${localDateExpr(q, ctx)}) AS ${first}, MAX(${localDateExpr(q, ctx)}) AS ${last} FROM ${table}`;
@@ -70,8 +70,11 @@ export function compileWindowComparison(sq: SubQuestion, ctx: CompileContext): C
   const min = minGroupSize(ctx.dataset);
   if (min !== null) {
     // A segment with fewer rows than the minimum on either side (where it has rows at all) joins
-    // one folded row per side, combined here so its own values never leave the database.
-    const [segAlias, folded, key, rows, small, smallCount] = [SEG, FOLDED, KEY, ROWS, SMALL, SMALL_COUNT].map(q.ident);
+    // one folded row per side, combined here so its own values never leave the database; so does
+    // the smallest named segment while a side's fold is still below the minimum (complementary
+    // suppression: the fold is the total minus the named segments).
+    const [segAlias, folded, key, rows, small, smallCount, complementCount] = [SEG, FOLDED, KEY, ROWS, SMALL, SMALL_COUNT, COMPLEMENT_COUNT].map(q.ident);
+    const minP = q.bind(min);
     return q.finish(`WITH reach AS (
   ${reachSql}
 ),
@@ -81,21 +84,28 @@ tagged AS (
   ${before}
 ),
 tc_cells AS (
-  SELECT ${win} AS ${win}, ${seg} AS ${key}, COUNT(*) AS ${rows}
+  SELECT ${win} AS ${win}, ${seg} AS ${key}, ${rowCountSql(q, ctx)} AS ${rows}
   FROM tagged
   GROUP BY 1, 2
 ),
-tc_small AS (
-  SELECT ${key}, TRUE AS ${small}
+tc_primary AS (
+  SELECT ${key}, (MIN(${rows}) < ${minP}) AS ${small}
   FROM tc_cells
   GROUP BY ${key}
-  HAVING MIN(${rows}) < ${q.bind(min)}
+),
+${complementaryFoldCtes({ name: 'tc_extra', cells: 'tc_cells', segments: 'tc_primary', key: key!, period: win, rows: rows!, folded: small!, minimum: minP })},
+tc_small AS (
+  SELECT tc_primary.${key}, TRUE AS ${small}
+  FROM tc_primary
+  LEFT JOIN tc_extra ON tc_primary.${key} IS NOT DISTINCT FROM tc_extra.tc_sdc_key
+  WHERE tc_primary.${small} OR tc_extra.tc_sdc_fold
 ),
 marked AS (
   SELECT tagged.*,
     COALESCE(tc_small.${small}, FALSE) AS ${folded},
     CASE WHEN COALESCE(tc_small.${small}, FALSE) THEN NULL ELSE tagged.${seg} END AS ${segAlias},
-    (SELECT COUNT(*) FROM tc_small) AS ${smallCount}
+    (SELECT COUNT(*) FROM tc_primary WHERE tc_primary.${small}) AS ${smallCount},
+    (SELECT COUNT(*) FROM tc_extra) AS ${complementCount}
   FROM tagged
   LEFT JOIN tc_small ON tagged.${seg} IS NOT DISTINCT FROM tc_small.${key}
 )
@@ -104,11 +114,12 @@ SELECT ${win} AS window_name,
   ${segAlias} AS segment,
   ${folded} AS folded,
 ${measures.join(',\n')},
-  ${d.toDouble('COUNT(*)')} AS row_count,
+  ${d.toDouble(rowCountSql(q, ctx))} AS row_count,
   MIN(${day}) AS first_day,
   MAX(${day}) AS last_day,
   ${d.toDouble(`COUNT(DISTINCT ${seg})`)} AS members,
-  ${d.toDouble(`MAX(${smallCount})`)} AS small_segments
+  ${d.toDouble(`MAX(${smallCount})`)} AS small_segments,
+  ${d.toDouble(`MAX(${complementCount})`)} AS complement_segments
 FROM marked
 GROUP BY GROUPING SETS ((${win}, ${folded}, ${segAlias}), (${win}))
 ORDER BY 1, 2, 4, 3`);
@@ -125,7 +136,7 @@ SELECT ${win} AS window_name,
   GROUPING(${seg}) AS g_segment,
   ${seg} AS segment,
 ${measures.join(',\n')},
-  ${d.toDouble('COUNT(*)')} AS row_count,
+  ${d.toDouble(rowCountSql(q, ctx))} AS row_count,
   MIN(${day}) AS first_day,
   MAX(${day}) AS last_day
 FROM tagged
@@ -158,6 +169,8 @@ export interface WindowComparison {
   empty: boolean;
   /** Segments below the minimum group size, folded on both sides (0 without a minimum). */
   smallSegments: number;
+  /** Named segments folded with them so they cannot be worked out from the total (complementary suppression). */
+  complementSegments: number;
 }
 
 /**
@@ -172,8 +185,10 @@ export function readWindowComparison(sq: SubQuestion, table: ResultTable, covera
   const current: WindowSide = { total: null, segments: new Map(), folded: null };
   const before: WindowSide = { total: null, segments: new Map(), folded: null };
   let smallSegments = 0;
+  let complementSegments = 0;
   for (const r of table.rows) {
     if (typeof r.small_segments === 'number' && Number.isFinite(r.small_segments)) smallSegments = Math.max(smallSegments, r.small_segments);
+    if (typeof r.complement_segments === 'number' && Number.isFinite(r.complement_segments)) complementSegments = Math.max(complementSegments, r.complement_segments);
     const sideOf = r.window_name === 'current' ? current : r.window_name === 'prior' ? before : null;
     if (!sideOf) continue;
     const values: Record<string, number | null> = {};
@@ -211,7 +226,7 @@ export function readWindowComparison(sq: SubQuestion, table: ResultTable, covera
     caveats.push({ code: 'no_data', data: { start: prior.start, end: prior.end, window: 'prior' } });
   } else if (empty) caveats.push({ code: 'no_data', data: { start: sq.window.start, end: sq.window.end } });
   else if (currentRows === 0) caveats.push({ code: 'no_data', data: { start: sq.window.start, end: sq.window.end, window: 'current' } });
-  return { current, prior: before, currentSpan, priorSpan, caveats, empty, smallSegments };
+  return { current, prior: before, currentSpan, priorSpan, caveats, empty, smallSegments, complementSegments };
 }
 
 /**
@@ -234,9 +249,9 @@ export function segmentPresenceCaveats(cmp: WindowComparison): Caveat[] {
   return out;
 }
 
-/** How many segments the small-group fold holds (over both sides), 0 when there is none. */
+/** How many segments the small-group fold holds (over both sides, complements included), 0 when there is none. */
 export function foldedMembers(cmp: WindowComparison): number {
-  return cmp.smallSegments;
+  return cmp.smallSegments + cmp.complementSegments;
 }
 
 /** Segment keys in a stable order: text order, the missing value last. */

@@ -38,7 +38,7 @@ export function readGrowthDrivers(sq: SubQuestion, table: ResultTable, coverage:
   }
   const small = foldedMembers(cmp);
   const minimum = minGroupSize(dataset);
-  if (small > 0 && minimum !== null) caveats.push(suppressedSegmentsCaveat(small, minimum, { dimension: sq.dimension! }));
+  if (cmp.smallSegments > 0 && minimum !== null) caveats.push(suppressedSegmentsCaveat(cmp.smallSegments, minimum, { dimension: sq.dimension! }, cmp.complementSegments));
   return { findings, caveats };
 }
 

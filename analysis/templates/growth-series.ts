@@ -4,7 +4,7 @@
 // ratio metrics stay ratios of sums. Growth rates are worked out in `read`.
 import type { DatasetConfig } from '../../config/schema.js';
 import { metricByName } from '../catalog.js';
-import { type CompileContext, localDateExpr, tableRef, whereClause } from '../compile-context.js';
+import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type {
   GrowthCagrFinding,
@@ -14,8 +14,7 @@ import type {
   GrowthYearsFinding,
   GrowthYtdFinding,
 } from '../findings/growth.js';
-import { addDays, nextPeriod, periodsBetween, periodsPerYear } from '../periods.js';
-import { metricAggregate } from '../sql/metric-sql.js';
+import { addDays, nextPeriod, periodsBetween, periodsPerYear, sameIsoWeekLastYear } from '../periods.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import { cagr, periodOverPeriod, relativeChange, trailingSumGrowth, yearOverYear } from '../stats/index.js';
 import type { Caveat, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
@@ -39,7 +38,7 @@ export function compileGrowthSeries(sq: SubQuestion, ctx: CompileContext): Compi
   const ytd = q.ident(YTD);
   const dateExpr = localDateExpr(q, ctx);
   const where = whereClause(q, ctx, sq.window, sq.filters);
-  const measures = sq.metrics.map((name) => `  ${metricAggregate(q, ctx.dataset, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
+  const measures = sq.metrics.map((name) => `  ${measureSql(q, ctx, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
   // Month*100 + day compares calendar positions across years: 29 February is only ever matched
   // in leap years, and a cut-off of 29 February counts the prior year to 28 February.
   const mmdd = (e: string) => `(EXTRACT(MONTH FROM ${e}) * 100 + EXTRACT(DAY FROM ${e}))`;
@@ -66,7 +65,7 @@ SELECT GROUPING(${period}) AS g_period,
   ${ytd} AS ytd,
   MAX(${last}) AS through,
 ${measures.join(',\n')},
-  ${d.toDouble('COUNT(*)')} AS row_count
+  ${d.toDouble(rowCountSql(q, ctx))} AS row_count
 FROM tagged
 GROUP BY GROUPING SETS ((${period}), (${year}), (${year}, ${ytd}))
 ORDER BY 1, 2, 4, 3`);
@@ -132,6 +131,7 @@ export function readGrowthSeries(
   }
 
   const lag = sq.grain === 'day' ? null : periodsPerYear(sq.grain);
+  const yearEarlier = yearEarlierIndex(starts, sq.grain, lag);
   const findings: Finding[] = [];
   for (const metric of sq.metrics) {
     const additive = isAdditiveMetric(dataset, metric);
@@ -148,7 +148,7 @@ export function readGrowthSeries(
     if (gaps.length > 0) caveats.push({ code: 'series_gap', data: { metric, periods: gaps.length, firstGap: gaps[0]!, grain: sq.grain } });
 
     const pop = periodOverPeriod(values);
-    const yoy = lag === null ? values.map(() => null) : yearOverYear(values, lag);
+    const yoy = lag === null ? values.map(() => null) : sq.grain === 'week' ? values.map((v, i) => relativeChange(values[yearEarlier(i)] ?? null, v)) : yearOverYear(values, lag);
     const trailingWindow = lag !== null && lag > 1 && additive ? lag : null;
     const trailing = trailingWindow === null ? values.map(() => null) : trailingSumGrowth(values, trailingWindow);
     const points: GrowthPoint[] = starts.map((period, i) => ({
@@ -167,7 +167,7 @@ export function readGrowthSeries(
     const undefinedBase = (j: number) => j >= 0 && (values[j] === null ? !partial.has(starts[j]!) : values[j]! <= 0);
     const undefinedAt: string[] = [];
     values.forEach((v, i) => {
-      if (v !== null && (undefinedBase(i - 1) || (lag !== null && undefinedBase(i - lag)))) undefinedAt.push(starts[i]!);
+      if (v !== null && (undefinedBase(i - 1) || (lag !== null && undefinedBase(yearEarlier(i))))) undefinedAt.push(starts[i]!);
     });
 
     const years = readYears(metric, rows, effectiveStart, effectiveEnd);
@@ -202,6 +202,21 @@ export function readGrowthSeries(
     }
   }
   return { findings, caveats };
+}
+
+/**
+ * The index of the same period a year earlier, or -1 when it is outside the series (or does not
+ * exist). Weeks pair by ISO 8601 week number, which is 52 or 53 periods back; other grains are a
+ * fixed number of periods back.
+ */
+function yearEarlierIndex(starts: readonly string[], grain: SubQuestion['grain'], lag: number | null): (i: number) => number {
+  if (lag === null) return () => -1;
+  if (grain !== 'week') return (i) => i - lag;
+  const at = new Map(starts.map((p, i) => [p, i]));
+  return (i) => {
+    const base = sameIsoWeekLastYear(starts[i]!);
+    return base === null ? -1 : (at.get(base) ?? -1);
+  };
 }
 
 function readYears(metric: string, rows: GrowthRows, effectiveStart: string, effectiveEnd: string): GrowthYearsFinding {

@@ -100,7 +100,7 @@ export function readGrowthShareShift(sq: SubQuestion, table: ResultTable, covera
     findings.push(finding);
   }
   const minimum = minGroupSize(dataset);
-  if (small > 0 && minimum !== null) caveats.push(suppressedSegmentsCaveat(small, minimum, { dimension: sq.dimension! }));
+  if (cmp.smallSegments > 0 && minimum !== null) caveats.push(suppressedSegmentsCaveat(cmp.smallSegments, minimum, { dimension: sq.dimension! }, cmp.complementSegments));
   return { findings, caveats };
 }
 

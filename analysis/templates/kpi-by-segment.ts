@@ -5,17 +5,16 @@
 // segments' own values.
 import type { DatasetConfig } from '../../config/schema.js';
 import { groupableDimension, metricByName } from '../catalog.js';
-import { tableRef } from '../compile-context.js';
+import { measureSql, rowCountSql, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type { KpiBySegmentFinding, KpiSegmentRow, SegmentKey } from '../findings/kpi.js';
 import { nextPeriod } from '../periods.js';
-import { metricAggregate } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CellValue, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
 import { baseIsZero, kpiDelta } from './kpi-delta.js';
 import { comparisonPeriods, coveredInFull, type KpiCompileContext, latestCandidates, periodsToRead, resolvedLatest } from './kpi-periods.js';
 import { EMPTY_TABLE, numberOrNull, periodExpr, periodsWhere } from './kpi-sql.js';
-import { minGroupSize, suppressedSegmentsCaveat } from './small-groups.js';
+import { complementaryFoldCtes, minGroupSize, suppressedSegmentsCaveat } from './small-groups.js';
 import type { Reading, Template } from './template.js';
 
 /** Named segments before the rest are combined; the bars chart's default too. */
@@ -46,13 +45,13 @@ export function compileKpiBySegment(sq: SubQuestion, ctx: KpiCompileContext, top
   const period = periodExpr(q, ctx, sq.grain);
   const n = q.bind(topN);
   const where = periodsWhere(q, ctx, periods, sq.grain, sq.filters);
-  const measures = metrics.map((m) => `  ${metricAggregate(q, ds, m)} AS ${q.ident(m.name)}`);
+  const measures = metrics.map((m) => `  ${measureSql(q, ctx, m)} AS ${q.ident(m.name)}`);
   const [key, rank, per, other] = [KEY, RANK, PERIOD, OTHER].map(q.ident);
   const min = minGroupSize(ds);
   if (min !== null) return q.finish(withMinimum(q, ctx, { table, seg, rankPeriod, rankWhere, latestList, period, n, where, measures, min: q.bind(min) }));
   return q.finish(`WITH ranked AS (
   SELECT ${seg} AS ${key},
-    ROW_NUMBER() OVER (ORDER BY COUNT(*) FILTER (WHERE ${rankPeriod} IN (${latestList})) DESC, COUNT(*) DESC, ${seg} ASC NULLS LAST) AS ${rank}
+    ROW_NUMBER() OVER (ORDER BY ${rowCountSql(q, ctx, `${rankPeriod} IN (${latestList})`)} DESC, ${rowCountSql(q, ctx)} DESC, ${seg} ASC NULLS LAST) AS ${rank}
   FROM ${table}
   WHERE ${rankWhere}
   GROUP BY ${seg}
@@ -72,7 +71,7 @@ SELECT ${per} AS period,
   MIN(${rank}) AS segment_rank,
   ${ctx.dialect.toDouble(`COUNT(DISTINCT ${seg})`)} AS segment_count,
 ${measures.join(',\n')},
-  ${ctx.dialect.toDouble('COUNT(*)')} AS row_count
+  ${ctx.dialect.toDouble(rowCountSql(q, ctx))} AS row_count
 FROM tagged
 GROUP BY GROUPING SETS ((${per}, CASE WHEN ${other} THEN NULL ELSE ${seg} END, ${other}), (${per}))
 ORDER BY 1, 4, 5`);
@@ -81,17 +80,19 @@ ORDER BY 1, 4, 5`);
 /**
  * The same query with a minimum group size: a segment with fewer rows than the minimum in any
  * period read (where it has rows at all) joins "All others" whatever its rank, so no value shown
- * rests on fewer rows. small_segments counts those (in any period), ranked_out_segments the ones
- * folded for their rank alone.
+ * rests on fewer rows; while the fold is below the minimum in a period, the smallest named
+ * segments join it too (complementary suppression, see small-groups.ts). small_segments counts
+ * the small ones (in any period), complement_segments those folded beside them,
+ * ranked_out_segments the ones folded for their rank alone.
  */
 function withMinimum(
   q: QueryBuilder,
   ctx: KpiCompileContext,
   p: { table: string; seg: string; rankPeriod: string; rankWhere: string; latestList: string; period: string; n: string; where: string; measures: string[]; min: string },
 ): string {
-  const [key, rank, per, other, small, cellPeriod, cellRows, smallCount, rankedOut] = [KEY, RANK, PERIOD, OTHER, SMALL, CELL_PERIOD, CELL_ROWS, 'tc_kpi_small_count', 'tc_kpi_ranked_out'].map(q.ident);
+  const [key, rank, per, other, small, cellPeriod, cellRows, smallCount, rankedOut, complementCount] = [KEY, RANK, PERIOD, OTHER, SMALL, CELL_PERIOD, CELL_ROWS, 'tc_kpi_small_count', 'tc_kpi_ranked_out', 'tc_kpi_complement_count'].map(q.ident);
   return `WITH cells AS (
-  SELECT ${p.seg} AS ${key}, ${p.rankPeriod} AS ${cellPeriod}, COUNT(*) AS ${cellRows}
+  SELECT ${p.seg} AS ${key}, ${p.rankPeriod} AS ${cellPeriod}, ${rowCountSql(q, ctx)} AS ${cellRows}
   FROM ${p.table}
   WHERE ${p.rankWhere}
   GROUP BY 1, 2
@@ -101,16 +102,22 @@ function withMinimum(
     (MIN(${cellRows}) < ${p.min}) AS ${small}
   FROM cells
   GROUP BY ${key}
-), tagged AS (
+), first_fold AS (
+  SELECT ${key}, (${rank} > ${p.n} OR ${small}) AS tc_kpi_folded
+  FROM ranked
+), ${complementaryFoldCtes({ name: 'tc_kpi_extra', cells: 'cells', segments: 'first_fold', key: key!, period: cellPeriod!, rows: cellRows!, folded: 'tc_kpi_folded', minimum: p.min })},
+tagged AS (
   SELECT ${p.table}.*,
     ${p.period} AS ${per},
-    COALESCE(ranked.${rank} > ${p.n} OR ranked.${small}, TRUE) AS ${other},
+    COALESCE(ranked.${rank} > ${p.n} OR ranked.${small} OR tc_kpi_extra.tc_sdc_fold IS NOT NULL, TRUE) AS ${other},
     COALESCE(ranked.${small}, FALSE) AS ${small},
     ranked.${rank} AS ${rank},
     (SELECT COUNT(*) FROM ranked WHERE ranked.${small}) AS ${smallCount},
-    (SELECT COUNT(*) FROM ranked WHERE ranked.${rank} > ${p.n} AND NOT ranked.${small}) AS ${rankedOut}
+    (SELECT COUNT(*) FROM ranked WHERE ranked.${rank} > ${p.n} AND NOT ranked.${small}) AS ${rankedOut},
+    (SELECT COUNT(*) FROM tc_kpi_extra) AS ${complementCount}
   FROM ${p.table}
   LEFT JOIN ranked ON ${p.table}.${p.seg} IS NOT DISTINCT FROM ranked.${key}
+  LEFT JOIN tc_kpi_extra ON ${p.table}.${p.seg} IS NOT DISTINCT FROM tc_kpi_extra.tc_sdc_key
   WHERE ${p.where}
 )
 SELECT ${per} AS period,
@@ -120,9 +127,10 @@ SELECT ${per} AS period,
   MIN(${rank}) AS segment_rank,
   ${ctx.dialect.toDouble(`COUNT(DISTINCT ${p.seg})`)} AS segment_count,
 ${p.measures.join(',\n')},
-  ${ctx.dialect.toDouble('COUNT(*)')} AS row_count,
+  ${ctx.dialect.toDouble(rowCountSql(q, ctx))} AS row_count,
   ${ctx.dialect.toDouble(`MAX(${smallCount})`)} AS small_segments,
-  ${ctx.dialect.toDouble(`MAX(${rankedOut})`)} AS ranked_out_segments
+  ${ctx.dialect.toDouble(`MAX(${rankedOut})`)} AS ranked_out_segments,
+  ${ctx.dialect.toDouble(`MAX(${complementCount})`)} AS complement_segments
 FROM tagged
 GROUP BY GROUPING SETS ((${per}, CASE WHEN ${other} THEN NULL ELSE ${p.seg} END, ${other}), (${per}))
 ORDER BY 1, 4, 5`;
@@ -206,8 +214,9 @@ export function readKpiBySegment(sq: SubQuestion, table: ResultTable, dataset: D
       const first = [...other.byPeriod.values()][0]!;
       const small = Number(first.small_segments ?? 0);
       const ranked = Number(first.ranked_out_segments ?? 0);
+      const complement = Number(first.complement_segments ?? 0);
       if (ranked > 0) caveats.push({ code: 'segments_folded', data: { count: ranked } });
-      if (small > 0) caveats.push(suppressedSegmentsCaveat(small, minimum, { dimension: sq.dimension! }));
+      if (small > 0) caveats.push(suppressedSegmentsCaveat(small, minimum, { dimension: sq.dimension! }, complement));
     }
   }
   if (zeroBase) caveats.push({ code: 'base_zero', data: {} });

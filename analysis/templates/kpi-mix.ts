@@ -4,17 +4,16 @@
 // so its mix is the split of what it is measured per (fare per passenger: passengers).
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import { groupableDimension, metricByName } from '../catalog.js';
-import { tableRef } from '../compile-context.js';
+import { measureSql, rowCountSql, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type { KpiMixFinding, KpiMixRow, SegmentKey } from '../findings/kpi.js';
 import { nextPeriod } from '../periods.js';
-import { metricAggregate } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import { concentration } from '../stats/index.js';
 import type { Caveat, CellValue, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
 import { coveredInFull, type KpiCompileContext, latestCandidates, resolvedLatest, sameLastYear } from './kpi-periods.js';
 import { EMPTY_TABLE, numberOrNull, periodExpr, periodsWhere } from './kpi-sql.js';
-import { minGroupSize, suppressedSegmentsCaveat } from './small-groups.js';
+import { complementaryFoldCtes, minGroupSize, suppressedSegmentsCaveat } from './small-groups.js';
 import type { Reading, Template } from './template.js';
 
 export const MIX_THRESHOLD = 0.8;
@@ -60,31 +59,40 @@ export function compileKpiMix(sq: SubQuestion, ctx: KpiCompileContext): Compiled
   for (const name of sq.metrics) {
     const metric = metricByName(ds, name);
     const base = mixMeasure(ds, metric);
-    measures.push(`  ${metricAggregate(q, ds, metric)} AS ${q.ident(name)}`);
-    measures.push(`  ${base ? metricAggregate(q, ds, base) : ctx.dialect.toDouble('COUNT(*)')} AS ${q.ident(baseAlias(name))}`);
+    measures.push(`  ${measureSql(q, ctx, metric)} AS ${q.ident(name)}`);
+    measures.push(`  ${base ? measureSql(q, ctx, base) : ctx.dialect.toDouble(rowCountSql(q, ctx))} AS ${q.ident(baseAlias(name))}`);
   }
   const period = periodExpr(q, ctx, sq.grain);
   const where = periodsWhere(q, ctx, [...periods], sq.grain, sq.filters);
   const min = minGroupSize(ds);
   if (min !== null) {
     // A segment with fewer rows than the minimum in either period (where it has rows at all) joins
-    // one "All others" row, combined here because a ratio of the fold cannot be added up later.
+    // one "All others" row, combined here because a ratio of the fold cannot be added up later;
+    // while that row is below the minimum in a period, the smallest named segments join it too
+    // (complementary suppression, see small-groups.ts).
     const seg = q.ident(dim.column);
     const cellWhere = periodsWhere(q, ctx, [...periods], sq.grain, sq.filters);
     const cellPeriod = periodExpr(q, ctx, sq.grain);
     const minP = q.bind(min);
     return q.finish(`WITH tc_mix_cells AS (
-  SELECT ${seg} AS tc_mix_key, ${cellPeriod} AS tc_mix_period, COUNT(*) AS tc_mix_rows
+  SELECT ${seg} AS tc_mix_key, ${cellPeriod} AS tc_mix_period, ${rowCountSql(q, ctx)} AS tc_mix_rows
   FROM ${tableRef(q, ctx)}
   WHERE ${cellWhere}
   GROUP BY 1, 2
-), tc_mix_small AS (
-  SELECT tc_mix_key, TRUE AS tc_mix_small
+), tc_mix_primary AS (
+  SELECT tc_mix_key, (MIN(tc_mix_rows) < ${minP}) AS tc_mix_small
   FROM tc_mix_cells
   GROUP BY tc_mix_key
-  HAVING MIN(tc_mix_rows) < ${minP}
+), ${complementaryFoldCtes({ name: 'tc_mix_extra', cells: 'tc_mix_cells', segments: 'tc_mix_primary', key: 'tc_mix_key', period: 'tc_mix_period', rows: 'tc_mix_rows', folded: 'tc_mix_small', minimum: minP })},
+tc_mix_small AS (
+  SELECT tc_mix_primary.tc_mix_key, TRUE AS tc_mix_small
+  FROM tc_mix_primary
+  LEFT JOIN tc_mix_extra ON tc_mix_primary.tc_mix_key IS NOT DISTINCT FROM tc_mix_extra.tc_sdc_key
+  WHERE tc_mix_primary.tc_mix_small OR tc_mix_extra.tc_sdc_fold
 ), tc_mix_tagged AS (
-  SELECT tc_mix_t.*, COALESCE(tc_mix_small.tc_mix_small, FALSE) AS tc_mix_folded
+  SELECT tc_mix_t.*, COALESCE(tc_mix_small.tc_mix_small, FALSE) AS tc_mix_folded,
+    (SELECT COUNT(*) FROM tc_mix_primary WHERE tc_mix_primary.tc_mix_small) AS tc_mix_small_count,
+    (SELECT COUNT(*) FROM tc_mix_extra) AS tc_mix_complement_count
   FROM ${tableRef(q, ctx)} AS tc_mix_t
   LEFT JOIN tc_mix_small ON tc_mix_t.${seg} IS NOT DISTINCT FROM tc_mix_small.tc_mix_key
 )
@@ -92,8 +100,10 @@ SELECT ${period} AS period,
   CASE WHEN tc_mix_folded THEN NULL ELSE ${seg} END AS segment,
   tc_mix_folded AS other,
 ${measures.join(',\n')},
-  ${ctx.dialect.toDouble('COUNT(*)')} AS row_count,
-  ${ctx.dialect.toDouble(`COUNT(DISTINCT ${seg})`)} AS segment_count
+  ${ctx.dialect.toDouble(rowCountSql(q, ctx))} AS row_count,
+  ${ctx.dialect.toDouble(`COUNT(DISTINCT ${seg})`)} AS segment_count,
+  ${ctx.dialect.toDouble('MAX(tc_mix_small_count)')} AS small_segments,
+  ${ctx.dialect.toDouble('MAX(tc_mix_complement_count)')} AS complement_segments
 FROM tc_mix_tagged
 WHERE ${where}
 GROUP BY 1, 2, 3
@@ -102,7 +112,7 @@ ORDER BY 1, 3, 2`);
   return q.finish(`SELECT ${period} AS period,
   ${q.ident(dim.column)} AS segment,
 ${measures.join(',\n')},
-  ${ctx.dialect.toDouble('COUNT(*)')} AS row_count
+  ${ctx.dialect.toDouble(rowCountSql(q, ctx))} AS row_count
 FROM ${tableRef(q, ctx)}
 WHERE ${where}
 GROUP BY 1, 2
@@ -185,9 +195,10 @@ export function readKpiMix(sq: SubQuestion, table: ResultTable, dataset: Dataset
     findings.push(finding);
   }
   const minimum = minGroupSize(dataset);
-  const folded = [...now, ...then].filter((r) => r.other === true).map((r) => Number(r.segment_count ?? 0));
-  if (minimum !== null && folded.length > 0 && Math.max(...folded) > 0) {
-    caveats.push(suppressedSegmentsCaveat(Math.max(...folded), minimum, { dimension: sq.dimension! }));
+  const fold = [...now, ...then].find((r) => r.other === true);
+  const small = Number(fold?.small_segments ?? 0);
+  if (minimum !== null && small > 0) {
+    caveats.push(suppressedSegmentsCaveat(small, minimum, { dimension: sq.dimension! }, Number(fold?.complement_segments ?? 0)));
   }
   return { findings, caveats };
 }

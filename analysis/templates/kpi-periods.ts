@@ -2,7 +2,7 @@
 // full, the period before it and the same period a year earlier. Pure calendar arithmetic.
 import type { CompileContext } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
-import { addDays, addMonths, periodStart } from '../periods.js';
+import { addDays, addMonths, periodStart, sameIsoWeekLastYear } from '../periods.js';
 import type { DateWindow, Grain } from '../types.js';
 
 /**
@@ -29,15 +29,18 @@ export function shiftPeriod(start: string, grain: Grain, n: number): string {
 }
 
 /**
- * The same period a year earlier, or null at the year grain (where the prior period already is
- * last year). Weeks and days go back 52 weeks so the weekday lines up: common practice in
- * retail and travel reporting, where a Saturday is not comparable with a Tuesday.
+ * The same period a year earlier, or null where there is none: at the year grain (the prior
+ * period already is last year) and for an ISO week 53 whose previous year has 52 weeks. A week
+ * is compared with the same ISO 8601 week number of the previous ISO year; a day goes back 52
+ * weeks so the weekday lines up (common practice in retail and travel reporting, where a
+ * Saturday is not comparable with a Tuesday).
  */
 export function sameLastYear(start: string, grain: Grain): string | null {
   switch (grain) {
     case 'day':
-    case 'week':
       return addDays(start, -364);
+    case 'week':
+      return sameIsoWeekLastYear(start);
     case 'month':
     case 'quarter':
       return addMonths(start, -12);

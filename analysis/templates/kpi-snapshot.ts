@@ -3,10 +3,9 @@
 // only those periods.
 import type { Coverage } from '../coverage.js';
 import { metricByName } from '../catalog.js';
-import { tableRef } from '../compile-context.js';
+import { measureSql, rowCountSql, tableRef } from '../compile-context.js';
 import type { KpiSnapshotFinding } from '../findings/kpi.js';
 import { nextPeriod } from '../periods.js';
-import { metricAggregate } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
 import type { DatasetConfig } from '../../config/schema.js';
@@ -18,12 +17,12 @@ import type { Reading, Template } from './template.js';
 export function compileKpiSnapshot(sq: SubQuestion, ctx: KpiCompileContext): CompiledQuery {
   const q = new QueryBuilder(ctx.dialect);
   const periods = periodsToRead(latestCandidates(sq.window, sq.grain, ctx.coverage), sq.grain);
-  const measures = sq.metrics.map((name) => `  ${metricAggregate(q, ctx.dataset, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
+  const measures = sq.metrics.map((name) => `  ${measureSql(q, ctx, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
   const period = periodExpr(q, ctx, sq.grain);
   const where = periodsWhere(q, ctx, periods, sq.grain, sq.filters);
   return q.finish(`SELECT ${period} AS period,
 ${measures.join(',\n')},
-  ${ctx.dialect.toDouble('COUNT(*)')} AS row_count
+  ${ctx.dialect.toDouble(rowCountSql(q, ctx))} AS row_count
 FROM ${tableRef(q, ctx)}
 WHERE ${where}
 GROUP BY 1

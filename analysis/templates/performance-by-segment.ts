@@ -25,7 +25,7 @@ import {
 } from './performance-common.js';
 import { cellFromRow, measureColumns, measureShape, num, planMeasure, type MeasurePlan } from './performance-measure.js';
 import { cellEstimate, compareCells, directionOf } from './performance-stats.js';
-import { minGroupSize, suppressedGroupsCaveat, suppressedSegmentsCaveat, suppressSmallCells } from './small-groups.js';
+import { complementaryFoldCtes, minGroupSize, suppressedGroupsCaveat, suppressedSegmentsCaveat, suppressSmallCells } from './small-groups.js';
 import type { Template } from './template.js';
 
 /** Segments shown by name; the rest are folded into one row. */
@@ -50,15 +50,19 @@ export function compileSegments(sq: SubQuestion, ctx: CompileContext): NamedQuer
     // With a minimum group size: a segment with fewer rows is folded whatever its rank, and a
     // group's side of a segment with fewer rows keeps its row with every number withheld.
     const minP = q.bind(min);
+    // While the fold holds fewer rows than the minimum, the smallest named segment joins it too
+    // (complementary suppression, see small-groups.ts), so no small segment is the fold's difference.
+    const folded = `(tc_ranked.tc_rank > ${topN} OR tc_ranked.tc_seg_rows < ${minP} OR tc_ranked.tc_complement)`;
     const segCols = [
-      `CASE WHEN tc_ranked.tc_rank <= ${topN} AND tc_ranked.tc_seg_rows >= ${minP} THEN CAST(tc_ranked.tc_segment AS VARCHAR) END AS tc_segment`,
-      `(tc_ranked.tc_rank > ${topN} OR tc_ranked.tc_seg_rows < ${minP}) AS tc_folded`,
+      `CASE WHEN NOT ${folded} THEN CAST(tc_ranked.tc_segment AS VARCHAR) END AS tc_segment`,
+      `${folded} AS tc_folded`,
       `${memberFlag(q, group)} AS tc_member`,
       `${q.dialect.toDouble('COUNT(DISTINCT tc_ranked.tc_rank)')} AS tc_segments`,
       `${q.dialect.toDouble('MIN(tc_ranked.tc_rank)')} AS tc_first_rank`,
       `${q.dialect.toDouble(`COUNT(DISTINCT CASE WHEN tc_ranked.tc_seg_rows < ${minP} THEN tc_ranked.tc_rank END)`)} AS tc_small_segments`,
+      `${q.dialect.toDouble('COUNT(DISTINCT CASE WHEN tc_ranked.tc_complement THEN tc_ranked.tc_rank END)')} AS tc_complement_segments`,
     ];
-    const inner = `WITH tc_ranked AS (
+    const inner = `WITH tc_sizes AS (
   SELECT ${seg} AS tc_segment,
     ROW_NUMBER() OVER (ORDER BY COUNT(*) DESC, ${seg}) AS tc_rank,
     COUNT(*) AS tc_seg_rows
@@ -66,6 +70,14 @@ export function compileSegments(sq: SubQuestion, ctx: CompileContext): NamedQuer
   WHERE ${rankWhere}
     AND ${groupKnown(q, group)}
   GROUP BY ${seg}
+), tc_first AS (
+  SELECT tc_segment, 0 AS tc_period, tc_seg_rows, (tc_rank > ${topN} OR tc_seg_rows < ${minP}) AS tc_small_or_out
+  FROM tc_sizes
+), ${complementaryFoldCtes({ name: 'tc_extra', cells: 'tc_first', segments: 'tc_first', key: 'tc_segment', period: 'tc_period', rows: 'tc_seg_rows', folded: 'tc_small_or_out', minimum: minP })},
+tc_ranked AS (
+  SELECT tc_sizes.*, COALESCE(tc_extra.tc_sdc_fold, FALSE) AS tc_complement
+  FROM tc_sizes
+  LEFT JOIN tc_extra ON tc_sizes.tc_segment IS NOT DISTINCT FROM tc_extra.tc_sdc_key
 )
 SELECT ${[...segCols, ...cols].join(',\n  ')}
 FROM ${tableRef(q, ctx)} AS tc_base
@@ -73,7 +85,7 @@ JOIN tc_ranked ON tc_ranked.tc_segment IS NOT DISTINCT FROM tc_base.${seg}
 WHERE ${where}
   AND ${groupKnown(q, group)}
 GROUP BY 1, 2, 3`;
-    const keys = ['tc_segment', 'tc_folded', 'tc_member', 'tc_segments', 'tc_first_rank', 'tc_small_segments'];
+    const keys = ['tc_segment', 'tc_folded', 'tc_member', 'tc_segments', 'tc_first_rank', 'tc_small_segments', 'tc_complement_segments'];
     return {
       name: 'segments',
       ...q.finish(suppressSmallCells({ inner, keys, columns: cols, sizeColumn: 'tc_rows', minimum: minP, orderBy: 'tc_folded, tc_first_rank, tc_member' })),
@@ -124,7 +136,7 @@ export const performanceBySegmentTemplate: Template = {
 
     // Rows arrive ordered by rank; key them by (folded, segment) and keep first-seen order.
     const order: string[] = [];
-    const bySegment = new Map<string, { segment: string | null; folded: boolean; count: number; small: number; rows: Partial<Record<GroupRole, Record<string, CellValue>>> }>();
+    const bySegment = new Map<string, { segment: string | null; folded: boolean; count: number; small: number; complement: number; rows: Partial<Record<GroupRole, Record<string, CellValue>>> }>();
     for (const r of segTable.rows) {
       const role = roleOf(r.tc_member);
       if (!role) continue;
@@ -133,13 +145,14 @@ export const performanceBySegmentTemplate: Template = {
       const key = JSON.stringify([folded, segment]);
       let entry = bySegment.get(key);
       if (!entry) {
-        entry = { segment, folded, count: 0, small: 0, rows: {} };
+        entry = { segment, folded, count: 0, small: 0, complement: 0, rows: {} };
         bySegment.set(key, entry);
         order.push(key);
       }
       entry.rows[role] = r;
       entry.count = Math.max(entry.count, num(r.tc_segments) ?? 1);
       entry.small = Math.max(entry.small, num(r.tc_small_segments) ?? 0);
+      entry.complement = Math.max(entry.complement, num(r.tc_complement_segments) ?? 0);
     }
     const hiddenCells: GroupRole[] = [];
     const overallDiff = diffOf(cellEstimate(overall.cells.members), cellEstimate(overall.cells.others));
@@ -183,8 +196,8 @@ export const performanceBySegmentTemplate: Template = {
       };
       findings.push(finding);
       if (small) caveats.push({ code: 'small_sample', data: { n: Math.min(m.n, o.n), segment: e.segment ?? (e.folded ? 'All others' : 'missing'), threshold: SMALL_SAMPLE } });
-      if (e.folded && e.count - e.small > 0) caveats.push({ code: 'segments_folded', data: { count: e.count - e.small } });
-      if (e.folded && e.small > 0 && minimum !== null) caveats.push(suppressedSegmentsCaveat(e.small, minimum, { dimension: dim.name }));
+      if (e.folded && e.count - e.small - e.complement > 0) caveats.push({ code: 'segments_folded', data: { count: e.count - e.small - e.complement } });
+      if (e.folded && e.small > 0 && minimum !== null) caveats.push(suppressedSegmentsCaveat(e.small, minimum, { dimension: dim.name }, e.complement));
       if (finding.difference === null || overallDirection === 'equal') continue;
       compared++;
       const dir: Direction = directionOf(finding.difference);

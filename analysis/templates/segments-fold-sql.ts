@@ -3,11 +3,10 @@
 // still sends only N + 1 rows (per period) to Node.
 import type { Metric } from '../../config/schema.js';
 import { CatalogError, groupableDimension, metricByName } from '../catalog.js';
-import { type CompileContext, localDateExpr, tableRef, whereClause } from '../compile-context.js';
-import { metricAggregate } from '../sql/metric-sql.js';
+import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { CompiledQuery, Grain, SubQuestion } from '../types.js';
-import { minGroupSize } from './small-groups.js';
+import { complementaryFoldCtes, minGroupSize } from './small-groups.js';
 
 /** Segments named before the rest are folded (bars and Pareto charts stay readable at this size). */
 export const SEGMENT_TOP_N = 8;
@@ -41,8 +40,10 @@ export function segmentDimension(sq: SubQuestion, ctx: CompileContext) {
  * value, row_count [, months_with_rows] [, seg_count, grand_total, sum_squares].
  *
  * With a minimum group size, a segment with fewer rows in the window is folded too, whatever its
- * rank (`small_members` counts those in the fold). Its value then never leaves the database on
- * its own: sum_squares counts the small segments as one, and min_segment_value is only a sign.
+ * rank (`small_members` counts those in the fold), and so is the smallest named segment when the
+ * fold would still hold fewer rows than the minimum (`complement_members`). Its value then never
+ * leaves the database on its own: sum_squares counts the whole fold as one, and
+ * min_segment_value is only a sign.
  */
 export function compileFoldedSegments(sq: SubQuestion, ctx: CompileContext, opts: FoldedQueryOptions): CompiledQuery {
   const q = new QueryBuilder(ctx.dialect);
@@ -51,7 +52,7 @@ export function compileFoldedSegments(sq: SubQuestion, ctx: CompileContext, opts
   const metric = metricByName(ctx.dataset, sq.metrics[0]!);
   const col = q.ident(dim.column);
   const table = tableRef(q, ctx);
-  const rankExpr = isAdditiveMetric(metric) ? metricAggregate(q, ctx.dataset, metric) : d.toDouble('COUNT(*)');
+  const rankExpr = isAdditiveMetric(metric) ? measureSql(q, ctx, metric) : d.toDouble(rowCountSql(q, ctx));
   const innerWhere = whereClause(q, ctx, sq.window, sq.filters);
   const topN = q.bind(opts.topN);
   const foldFrom = q.bind(opts.topN + 1);
@@ -71,10 +72,15 @@ export function compileFoldedSegments(sq: SubQuestion, ctx: CompileContext, opts
   select.push(
     `${d.toDouble('MIN(f.tc_rank)')} AS seg_rank`,
     `${d.toDouble('COUNT(DISTINCT f.tc_rank)')} AS members`,
-    `${metricAggregate(q, ctx.dataset, metric)} AS ${q.ident('value')}`,
-    `${d.toDouble('COUNT(*)')} AS row_count`,
+    `${measureSql(q, ctx, metric)} AS ${q.ident('value')}`,
+    `${d.toDouble(rowCountSql(q, ctx))} AS row_count`,
   );
-  if (minP) select.push(`${d.toDouble('COUNT(DISTINCT CASE WHEN f.tc_small THEN f.tc_rank END)')} AS small_members`);
+  if (minP) {
+    select.push(
+      `${d.toDouble('COUNT(DISTINCT CASE WHEN f.tc_small THEN f.tc_rank END)')} AS small_members`,
+      `${d.toDouble('COUNT(DISTINCT CASE WHEN f.tc_complement THEN f.tc_rank END)')} AS complement_members`,
+    );
+  }
   if (opts.monthsWithRows) select.push(`${d.toDouble(`COUNT(DISTINCT ${d.periodStart('month', localDateExpr(q, ctx))})`)} AS months_with_rows`);
   if (opts.totals) {
     select.push(`${d.toDouble('MIN(f.tc_count)')} AS seg_count`, `MIN(f.tc_total) AS grand_total`, `MIN(f.tc_sum_squares) AS sum_squares`, `MIN(f.tc_min) AS min_segment_value`);
@@ -82,37 +88,71 @@ export function compileFoldedSegments(sq: SubQuestion, ctx: CompileContext, opts
   const outerWhere = whereClause(q, ctx, sq.window, sq.filters);
   const order = opts.grain ? 'ORDER BY other, seg_rank, period' : 'ORDER BY other, seg_rank';
 
-  // Below the minimum group size: folded, counted in the HHI as one segment, hidden from the minimum.
-  const small = minP ? `tc_rows < ${minP}` : null;
-  const sumSquares = small
-    ? `SUM(CASE WHEN ${small} THEN 0 ELSE tc_size * tc_size END) OVER () + COALESCE(SUM(CASE WHEN ${small} THEN tc_size END) OVER (), 0) * COALESCE(SUM(CASE WHEN ${small} THEN tc_size END) OVER (), 0)`
-    : 'SUM(tc_size * tc_size) OVER ()';
-  const minSize = small ? 'SIGN(MIN(tc_size) OVER ())' : 'MIN(tc_size) OVER ()';
-  const other = small ? `((tc_rank > ${topN} AND tc_count > ${foldFrom}) OR tc_small)` : `(tc_rank > ${topN} AND tc_count > ${foldFrom})`;
-
-  // IS NOT DISTINCT FROM joins the rows whose dimension is missing to their own (null) segment.
-  return q.finish(`WITH tc_segments AS (
-  SELECT ${col} AS tc_value, ${rankExpr} AS tc_size${small ? ', COUNT(*) AS tc_rows' : ''}
-  FROM ${table}
-  WHERE ${innerWhere}
-  GROUP BY 1
-), tc_ranked AS (
-  SELECT tc_value,
-    ROW_NUMBER() OVER (ORDER BY tc_size DESC NULLS LAST, CAST(tc_value AS VARCHAR) NULLS LAST) AS tc_rank,
-    COUNT(*) OVER () AS tc_count,
-    ${d.toDouble('SUM(tc_size) OVER ()')} AS tc_total,
-    ${d.toDouble(sumSquares)} AS tc_sum_squares,
-    ${d.toDouble(minSize)} AS tc_min${small ? `,
-    (${small}) AS tc_small` : ''}
-  FROM tc_segments
-), f AS (
-  SELECT tc_value, tc_rank, tc_count, tc_total, tc_sum_squares, tc_min,${small ? ' tc_small,' : ''} ${other} AS tc_other
-  FROM tc_ranked
-)
-SELECT ${select.join(',\n  ')}
+  const outer = `SELECT ${select.join(',\n  ')}
 FROM ${table}
 JOIN f ON ${col} IS NOT DISTINCT FROM f.tc_value
 WHERE ${outerWhere}
 GROUP BY ${group.join(', ')}
-${order}`);
+${order}`;
+  const segments = `tc_segments AS (
+  SELECT ${col} AS tc_value, ${rankExpr} AS tc_size${minP ? `, ${rowCountSql(q, ctx)} AS tc_rows` : ''}
+  FROM ${table}
+  WHERE ${innerWhere}
+  GROUP BY 1
+)`;
+  const rank = 'ROW_NUMBER() OVER (ORDER BY tc_size DESC NULLS LAST, CAST(tc_value AS VARCHAR) NULLS LAST)';
+  const rankedOut = `(tc_rank > ${topN} AND tc_count > ${foldFrom})`;
+  if (minP) return q.finish(`WITH ${segments}, ${suppressedFold(d, { rank, rankedOut, minimum: minP })}
+${outer}`);
+
+  // IS NOT DISTINCT FROM joins the rows whose dimension is missing to their own (null) segment.
+  return q.finish(`WITH ${segments}, tc_ranked AS (
+  SELECT tc_value,
+    ${rank} AS tc_rank,
+    COUNT(*) OVER () AS tc_count,
+    ${d.toDouble('SUM(tc_size) OVER ()')} AS tc_total,
+    ${d.toDouble('SUM(tc_size * tc_size) OVER ()')} AS tc_sum_squares,
+    ${d.toDouble('MIN(tc_size) OVER ()')} AS tc_min
+  FROM tc_segments
+), f AS (
+  SELECT tc_value, tc_rank, tc_count, tc_total, tc_sum_squares, tc_min, ${rankedOut} AS tc_other
+  FROM tc_ranked
+)
+${outer}`);
+}
+
+/**
+ * The fold with a minimum group size. A segment with fewer rows in the window is folded whatever
+ * its rank (primary suppression), and when the fold is still below the minimum the smallest named
+ * segment joins it (complementary suppression, see small-groups.ts). Once anything is folded for
+ * its size, nothing computed from the fold's members alone may leave the database: the HHI's sum
+ * of squares counts the whole fold as one segment (its members' squares with the fold's value
+ * would give them away), and the smallest segment value is only a sign.
+ */
+function suppressedFold(d: CompileContext['dialect'], o: { rank: string; rankedOut: string; minimum: string }): string {
+  const hidden = 'tc_hidden';
+  return `tc_ranked AS (
+  SELECT tc_value, tc_size, tc_rows,
+    ${o.rank} AS tc_rank,
+    COUNT(*) OVER () AS tc_count,
+    (tc_rows < ${o.minimum}) AS tc_small
+  FROM tc_segments
+), tc_first AS (
+  SELECT tc_value, 0 AS tc_period, tc_rows, (${o.rankedOut} OR tc_small) AS tc_folded
+  FROM tc_ranked
+), ${complementaryFoldCtes({ name: 'tc_extra', cells: 'tc_first', segments: 'tc_first', key: 'tc_value', period: 'tc_period', rows: 'tc_rows', folded: 'tc_folded', minimum: o.minimum })},
+tc_marked AS (
+  SELECT r.tc_value, r.tc_size, r.tc_rank, r.tc_count, r.tc_small,
+    COALESCE(x.tc_sdc_fold, FALSE) AS tc_complement,
+    (${o.rankedOut.replaceAll('tc_', 'r.tc_')} OR r.tc_small OR COALESCE(x.tc_sdc_fold, FALSE)) AS tc_other,
+    MAX(CASE WHEN r.tc_small THEN 1 ELSE 0 END) OVER () AS tc_any_small
+  FROM tc_ranked r
+  LEFT JOIN tc_extra x ON r.tc_value IS NOT DISTINCT FROM x.tc_sdc_key
+), f AS (
+  SELECT tc_value, tc_rank, tc_count, tc_small, tc_complement, tc_other,
+    ${d.toDouble('SUM(tc_size) OVER ()')} AS tc_total,
+    ${d.toDouble(`SUM(CASE WHEN ${hidden} THEN 0 ELSE tc_size * tc_size END) OVER () + COALESCE(SUM(CASE WHEN ${hidden} THEN tc_size END) OVER (), 0) * COALESCE(SUM(CASE WHEN ${hidden} THEN tc_size END) OVER (), 0)`)} AS tc_sum_squares,
+    ${d.toDouble('SIGN(MIN(tc_size) OVER ())')} AS tc_min
+  FROM (SELECT tc_marked.*, (tc_other AND tc_any_small = 1) AS ${hidden} FROM tc_marked) tc_h
+)`;
 }

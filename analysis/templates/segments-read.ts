@@ -38,16 +38,19 @@ export function readSegmentTotals(table: ResultTable): FoldedRow[] {
 }
 
 /**
- * What the "All others" row holds: segments past the top N (`segments_folded`) and segments below
- * the minimum group size (`suppressed_small_groups`, counted by the query's small_members).
+ * What the "All others" row holds: segments past the top N (`segments_folded`), and segments below
+ * the minimum group size with any folded beside them so they cannot be worked out from the total
+ * (`suppressed_small_groups`, counted by the query's small_members and complement_members).
  */
 export function foldedCaveats(rows: readonly FoldedRow[], dimension: string, minimum: number | null): Caveat[] {
   const fold = rows.find((r) => r.other);
   if (!fold) return [];
   const small = minimum === null ? 0 : (numberOrNull(fold.row.small_members) ?? 0);
+  const complement = minimum === null ? 0 : (numberOrNull(fold.row.complement_members) ?? 0);
   const out: Caveat[] = [];
-  if (fold.members - small > 0) out.push({ code: 'segments_folded', data: { count: fold.members - small, dimension } });
-  if (small > 0 && minimum !== null) out.push(suppressedSegmentsCaveat(small, minimum, { dimension }));
+  const rankedOut = fold.members - small - complement;
+  if (rankedOut > 0) out.push({ code: 'segments_folded', data: { count: rankedOut, dimension } });
+  if (small > 0 && minimum !== null) out.push(suppressedSegmentsCaveat(small, minimum, { dimension }, complement));
   return out;
 }
 

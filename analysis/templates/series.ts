@@ -1,10 +1,9 @@
 // Template "series": each metric at a time grain over the window. Answers the time-pattern
 // lens of a trend request (and feeds growth and snapshot templates later).
 import { metricByName } from '../catalog.js';
-import { type CompileContext, localDateExpr, tableRef, whereClause } from '../compile-context.js';
+import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import { addDays, nextPeriod, periodsBetween } from '../periods.js';
-import { metricAggregate } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
 import { seriesOutliers } from '../quality/series-outliers.js';
@@ -14,11 +13,11 @@ export function compileSeries(sq: SubQuestion, ctx: CompileContext): CompiledQue
   const q = new QueryBuilder(ctx.dialect);
   const date = localDateExpr(q, ctx);
   const period = ctx.dialect.periodStart(sq.grain, date);
-  const measures = sq.metrics.map((name) => `  ${metricAggregate(q, ctx.dataset, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
+  const measures = sq.metrics.map((name) => `  ${measureSql(q, ctx, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
   const where = whereClause(q, ctx, sq.window, sq.filters);
   return q.finish(`SELECT ${period} AS period,
 ${measures.join(',\n')},
-  ${ctx.dialect.toDouble('COUNT(*)')} AS row_count
+  ${ctx.dialect.toDouble(rowCountSql(q, ctx))} AS row_count
 FROM ${tableRef(q, ctx)}
 WHERE ${where}
 GROUP BY 1

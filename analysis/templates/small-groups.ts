@@ -1,6 +1,7 @@
 // Small-group suppression (statistical disclosure control): a dataset's `min_group_size` keeps
 // any segment or comparison group with fewer rows than that from being shown on its own. Segment
-// templates fold such segments into "All others" in SQL; group comparisons null a small group's
+// templates fold such segments into "All others" in SQL (with a complementary segment when the
+// fold alone would still be small); group comparisons null a small group's
 // numbers in SQL and say "too few to show". A minimum of 0 or 1 hides nothing, and then every
 // query compiles exactly as without this feature.
 import type { DatasetConfig } from '../../config/schema.js';
@@ -12,9 +13,85 @@ export function minGroupSize(ds: Pick<DatasetConfig, 'min_group_size'>): number 
   return n > 1 ? n : null;
 }
 
-/** The caveat for `count` segments folded into "All others" because each had fewer rows than the minimum. */
-export function suppressedSegmentsCaveat(count: number, minimum: number, extra: Caveat['data'] = {}): Caveat {
-  return { code: 'suppressed_small_groups', data: { ...extra, count, minimum } };
+/**
+ * The caveat for `count` segments folded into "All others" because each had fewer rows than the
+ * minimum, and `complementary` segments folded with them so they cannot be worked out from the total.
+ */
+export function suppressedSegmentsCaveat(count: number, minimum: number, extra: Caveat['data'] = {}, complementary = 0): Caveat {
+  return { code: 'suppressed_small_groups', data: { ...extra, count, minimum, ...(complementary > 0 ? { complementary } : {}) } };
+}
+
+/**
+ * Complementary (secondary) suppression of the "All others" row, as SQL common table expressions.
+ *
+ * Folding the segments below the minimum (primary suppression) is not enough when the fold itself
+ * is small: with the total and the named segments shown, a fold holding one small segment, or
+ * fewer rows than the minimum in all, gives that segment away by subtraction. Statistical
+ * disclosure control answers this with secondary suppression: more cells are withheld until the
+ * withheld part is itself safe (Hundepool et al., ESSnet Handbook on Statistical Disclosure
+ * Control, the chapters on magnitude and frequency tables; https://sdctools.github.io/HandbookSDC/).
+ * In a one-way table with a total the rule is: while the fold holds fewer rows than the minimum,
+ * fold the next-smallest named segment too. Every named segment has at least the minimum rows, so
+ * the fold then holds two or more segments and is above the minimum itself.
+ *
+ * Periods: a template that shows the fold in several periods (two windows, a snapshot's three
+ * periods) passes one cell per segment and period; the fold must reach the minimum in every
+ * period where it has rows. Candidates are the named segments with rows in a period that falls
+ * short, ranked by their rows there (smallest first, ties by value); the fewest that lift every
+ * such period are folded. A period where no named segment has rows cannot be lifted and is let
+ * be: its fold already is that period's whole total, which is shown anyway.
+ *
+ * Inputs: `cells`, one row per (segment, period) with its row count, and `segments`, one row per
+ * segment with a boolean already-folded column (below the minimum, or ranked out). Defines the CTE
+ * `name` with the segments to fold as complements: tc_sdc_key, and tc_sdc_fold (TRUE, so a LEFT
+ * JOIN tells a complement whose key is the missing value from no match). `minimum` is a bound
+ * parameter. Only row counts are read, so the SQL is the same for every metric.
+ */
+export function complementaryFoldCtes(o: {
+  name: string;
+  cells: string;
+  segments: string;
+  key: string;
+  period: string;
+  rows: string;
+  folded: string;
+  minimum: string;
+}): string {
+  const { name: n, cells, segments, key, period, rows, folded, minimum } = o;
+  return `${n}_short AS (
+  SELECT c.${period} AS tc_sdc_period, SUM(c.${rows}) AS tc_sdc_rows
+  FROM ${cells} c
+  JOIN ${segments} s ON c.${key} IS NOT DISTINCT FROM s.${key}
+  WHERE s.${folded}
+  GROUP BY c.${period}
+  HAVING SUM(c.${rows}) < ${minimum}
+), ${n}_order AS (
+  SELECT c.${key} AS tc_sdc_key,
+    ROW_NUMBER() OVER (ORDER BY SUM(c.${rows}), c.${key} NULLS LAST) AS tc_sdc_step
+  FROM ${cells} c
+  JOIN ${n}_short sh ON c.${period} = sh.tc_sdc_period
+  JOIN ${segments} s ON c.${key} IS NOT DISTINCT FROM s.${key}
+  WHERE NOT s.${folded}
+  GROUP BY c.${key}
+), ${n}_reach AS (
+  SELECT o.tc_sdc_step, sh.tc_sdc_period,
+    sh.tc_sdc_rows + SUM(COALESCE(c.${rows}, 0)) OVER (PARTITION BY sh.tc_sdc_period ORDER BY o.tc_sdc_step ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) AS tc_sdc_rows
+  FROM ${n}_order o
+  CROSS JOIN ${n}_short sh
+  LEFT JOIN ${cells} c ON c.${key} IS NOT DISTINCT FROM o.tc_sdc_key AND c.${period} = sh.tc_sdc_period
+), ${n}_enough AS (
+  SELECT MIN(tc_sdc_step) AS tc_sdc_step
+  FROM (
+    SELECT tc_sdc_step
+    FROM (SELECT tc_sdc_step, tc_sdc_rows, MAX(tc_sdc_rows) OVER (PARTITION BY tc_sdc_period) AS tc_sdc_best FROM ${n}_reach) tc_sdc_r
+    GROUP BY tc_sdc_step
+    HAVING MIN(CASE WHEN tc_sdc_rows >= ${minimum} OR tc_sdc_best < ${minimum} THEN 1 ELSE 0 END) = 1
+  ) tc_sdc_ok
+), ${n} AS (
+  SELECT o.tc_sdc_key, TRUE AS tc_sdc_fold
+  FROM ${n}_order o CROSS JOIN ${n}_enough e
+  WHERE e.tc_sdc_step IS NULL OR o.tc_sdc_step <= e.tc_sdc_step
+)`;
 }
 
 /**

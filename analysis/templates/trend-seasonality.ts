@@ -2,11 +2,10 @@
 // multiplicative seasonal indices (period 12), the busiest and quietest months and in how many
 // full years each held, plus the day-of-week pattern from a second grouped query.
 import { metricByName } from '../catalog.js';
-import { type CompileContext, localDateExpr, tableRef, whereClause } from '../compile-context.js';
+import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { CalendarMonthPattern, TrendSeasonalityFinding, WeekdayValue } from '../findings/segments.js';
 import { parseIsoDate } from '../periods.js';
 import { seasonalIndices } from '../stats/index.js';
-import { metricAggregate } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
 import { compileSeries, readSeries } from './series.js';
@@ -37,8 +36,8 @@ export function compileWeekday(sq: SubQuestion, ctx: CompileContext): CompiledQu
   const date = localDateExpr(q, ctx);
   const where = whereClause(q, ctx, sq.window, sq.filters);
   return q.finish(`SELECT ${ctx.dialect.toDouble(`EXTRACT(ISODOW FROM ${date})`)} AS iso_dow,
-  ${metricAggregate(q, ctx.dataset, metric)} AS ${q.ident('value')},
-  ${ctx.dialect.toDouble('COUNT(*)')} AS row_count
+  ${measureSql(q, ctx, metric)} AS ${q.ident('value')},
+  ${ctx.dialect.toDouble(rowCountSql(q, ctx))} AS row_count
 FROM ${tableRef(q, ctx)}
 WHERE ${where}
 GROUP BY 1

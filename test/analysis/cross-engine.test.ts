@@ -8,132 +8,15 @@ import { join } from 'node:path';
 import { DuckDBInstance } from '@duckdb/node-api';
 import { afterAll, beforeAll, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../analysis/answer-sub-question.js';
+import { openRunScope } from '../../analysis/run-scope.js';
+import { ROLLUP_TEMPLATES } from '../../analysis/rollup/eligibility.js';
 import { TEMPLATES } from '../../analysis/templates/index.js';
-import type { Answer, CellValue, ResultTable, SubQuestion } from '../../analysis/types.js';
+import type { SubQuestion } from '../../analysis/types.js';
 import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
 import { loadConfig, parseConfigText } from '../../config/load.js';
 import { demoFixture } from '../helpers/demo-fixture.js';
+import { CASES, compareAnswers, differences } from '../helpers/template-cases.js';
 import { copyDuckDbTableToPostgres, createReaderRole, describeWithPostgres, dropSchema, onPostgres, uniqueName, withClient } from '../helpers/postgres.js';
-
-/**
- * Relative tolerance for numbers. Both engines compute in IEEE doubles, but they add up rows in
- * different orders (parallel partial sums, different hash-aggregate layouts), and floating-point
- * addition is not associative: a sum of 10^5 values agrees to roughly 1e-12 relative, not exactly.
- * 1e-9 leaves room for that and for what the statistics do with it (variances, t and p values),
- * while any real disagreement (a different row counted, a different period) is far larger.
- * An absolute floor of 1e-12 covers quantities that are zero up to rounding in one engine.
- */
-const REL_TOL = 1e-9;
-const ABS_FLOOR = 1e-12;
-
-const FULL = { start: '2022-01-01', end: '2025-07-01' };
-const SINCE_LAUNCH = { start: '2023-04-01', end: '2025-07-01' };
-const SUMMER_2024 = { start: '2024-06-01', end: '2024-09-01' };
-
-const base = (over: Partial<SubQuestion> & Pick<SubQuestion, 'template' | 'kind' | 'lens'>): SubQuestion => ({
-  id: over.template,
-  metrics: ['revenue'],
-  grain: 'month',
-  window: FULL,
-  filters: [],
-  ...over,
-});
-
-/**
- * One sub-question per template, with the dimension or comparison group it needs. Metrics are
- * varied so every metric type (sum, count, distinct count, average, ratio, rate) and a segment
- * filter with a bound value go through both engines.
- */
-const CASES: SubQuestion[] = [
-  base({ template: 'series', kind: 'trend', lens: 'time_pattern', metrics: ['revenue', 'customers', 'fare_per_passenger', 'refund_rate'] }),
-  base({ template: 'trend_test', kind: 'trend', lens: 'time_pattern', metrics: ['bookings'] }),
-  base({ template: 'trend_seasonality', kind: 'trend', lens: 'time_pattern', metrics: ['passengers'] }),
-  base({ template: 'trend_summary', kind: 'trend', lens: 'summary', metrics: ['average_fare'], grain: 'week' }),
-  base({ template: 'segment_trend', kind: 'trend', lens: 'breakdown', metrics: ['bookings'], dimension: 'channel', grain: 'quarter' }),
-  base({ template: 'segment_shares', kind: 'trend', lens: 'distribution', metrics: ['revenue'], dimension: 'route' }),
-  base({ template: 'growth_series', kind: 'growth', lens: 'time_pattern', metrics: ['bookings', 'revenue'] }),
-  base({ template: 'growth_drivers', kind: 'growth', lens: 'breakdown', dimension: 'channel', window: SUMMER_2024 }),
-  base({ template: 'growth_summary', kind: 'growth', lens: 'summary', metrics: ['passengers'] }),
-  base({ template: 'growth_share_shift', kind: 'growth', lens: 'distribution', dimension: 'route', window: SUMMER_2024 }),
-  base({ template: 'kpi_snapshot', kind: 'kpi', lens: 'time_pattern', metrics: ['fare_per_passenger'] }),
-  base({ template: 'kpi_context', kind: 'kpi', lens: 'summary', metrics: ['refund_rate'] }),
-  base({ template: 'kpi_by_segment', kind: 'kpi', lens: 'breakdown', dimension: 'route', metrics: ['revenue'] }),
-  base({ template: 'kpi_mix', kind: 'kpi', lens: 'distribution', dimension: 'fare_class', metrics: ['passengers'] }),
-  base({ template: 'performance_compare', kind: 'performance', lens: 'summary', comparisonGroup: 'skerrypass', window: SINCE_LAUNCH }),
-  base({
-    template: 'performance_compare',
-    kind: 'performance',
-    lens: 'summary',
-    comparisonGroup: 'skerrypass',
-    metrics: ['refund_rate'],
-    window: SINCE_LAUNCH,
-    filters: [{ dimension: 'channel', values: ['phone', 'web'] }],
-  }),
-  base({ template: 'performance_frequency', kind: 'performance', lens: 'distribution', comparisonGroup: 'skerrypass', metrics: ['bookings'], window: SINCE_LAUNCH }),
-  base({ template: 'performance_before_after', kind: 'performance', lens: 'time_pattern', comparisonGroup: 'skerrypass', metrics: ['average_fare'] }),
-  base({
-    template: 'performance_by_segment',
-    kind: 'performance',
-    lens: 'breakdown',
-    comparisonGroup: 'skerrypass',
-    dimension: 'route',
-    metrics: ['fare_per_passenger'],
-    window: SINCE_LAUNCH,
-  }),
-];
-
-function close(a: number, b: number): boolean {
-  return Math.abs(a - b) <= Math.max(ABS_FLOOR, REL_TOL * Math.max(Math.abs(a), Math.abs(b)));
-}
-
-/** Differences between two values of the same shape: numbers within tolerance, everything else exact. */
-function differences(a: unknown, b: unknown, path: string, out: string[]): void {
-  if (typeof a === 'number' && typeof b === 'number') {
-    if (Number.isNaN(a) && Number.isNaN(b)) return;
-    if (!close(a, b)) out.push(`${path}: ${a} vs ${b}`);
-    return;
-  }
-  if (Array.isArray(a) && Array.isArray(b)) {
-    if (a.length !== b.length) out.push(`${path}: ${a.length} items vs ${b.length}`);
-    for (let i = 0; i < Math.min(a.length, b.length); i++) differences(a[i], b[i], `${path}[${i}]`, out);
-    return;
-  }
-  if (a && b && typeof a === 'object' && typeof b === 'object') {
-    const ka = Object.keys(a).sort();
-    const kb = Object.keys(b).sort();
-    if (ka.join() !== kb.join()) out.push(`${path}: keys ${ka.join(',')} vs ${kb.join(',')}`);
-    for (const k of ka) if (k in b) differences((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k], `${path}.${k}`, out);
-    return;
-  }
-  if (a !== b) out.push(`${path}: ${JSON.stringify(a)} vs ${JSON.stringify(b)}`);
-}
-
-/** Rows in a canonical order: by every cell, numbers rounded well above the tolerance so both engines sort alike. */
-function sortedRows(t: ResultTable): Record<string, CellValue>[] {
-  const key = (r: Record<string, CellValue>) =>
-    JSON.stringify(t.columns.map((c) => {
-      const v = r[c.name];
-      return typeof v === 'number' ? Number(v.toPrecision(7)) : v;
-    }));
-  return [...t.rows].sort((x, y) => (key(x) < key(y) ? -1 : key(x) > key(y) ? 1 : 0));
-}
-
-function compareAnswers(duck: Answer, post: Answer): string[] {
-  const out: string[] = [];
-  const names = Object.keys(duck.tables).sort();
-  if (names.join() !== Object.keys(post.tables).sort().join()) out.push(`tables: ${names.join()} vs ${Object.keys(post.tables).sort().join()}`);
-  for (const name of names) {
-    const d = duck.tables[name]!;
-    const p = post.tables[name];
-    if (!p) continue;
-    differences(d.columns, p.columns, `${name}.columns`, out);
-    differences(d.truncated, p.truncated, `${name}.truncated`, out);
-    differences(sortedRows(d), sortedRows(p), `${name}.rows`, out);
-  }
-  differences(duck.findings, post.findings, 'findings', out);
-  differences(duck.caveats, post.caveats, 'caveats', out);
-  return out;
-}
 
 it('covers every template in the registry', () => {
   expect([...new Set(CASES.map((c) => c.template))].sort()).toEqual(Object.keys(TEMPLATES).sort());
@@ -193,6 +76,21 @@ describeWithPostgres('DuckDB and PostgreSQL agree on every template', (adminUrl)
       expect(Object.values(d.tables).some((t) => t.rows.length > 0)).toBe(true);
       expect(p.queries.map((q) => q.name)).toEqual(d.queries.map((q) => q.name));
       expect(compareAnswers(d, p)).toEqual([]);
+    }, 60_000);
+  }
+
+  // The same questions over one rollup for all of them: DuckDB reads its stored copy, PostgreSQL
+  // runs the statement as shown (the rollup as a CTE). Both must give the table-read answers.
+  const rolled = CASES.filter((sq) => ROLLUP_TEMPLATES.has(sq.template));
+  for (const sq of rolled) {
+    it(`over the run's rollup: ${sq.template}: ${sq.metrics.join(', ')}`, async () => {
+      const [dScope, pScope] = [openRunScope(CASES, duck), openRunScope(CASES, post)];
+      const [raw, d, p] = await Promise.all([answerSubQuestion(sq, duck), answerSubQuestion(sq, duck, { scope: dScope }), answerSubQuestion(sq, post, { scope: pScope })]);
+      const readsRollup = !sq.metrics.includes('customers');
+      expect(d.queries.every((q) => !!q.scan === readsRollup)).toBe(true);
+      expect(p.queries.every((q) => !!q.scan === readsRollup)).toBe(true);
+      expect(compareAnswers(raw, d)).toEqual([]);
+      expect(compareAnswers(raw, p)).toEqual([]);
     }, 60_000);
   }
 });

@@ -2,6 +2,9 @@
 // in-memory DuckDB) has two routes with a handful of rows each and a route whose pass holders are
 // only three bookings; with min_group_size 10 every segment-producing template folds the two tiny
 // routes into "All others" in SQL and every group comparison withholds the three bookings. The
+// two tiny routes together hold fewer than 10 rows, so the fold would still be small: the
+// smallest named route (Middle) joins it as a complementary suppression (secondary cell
+// suppression, ESSnet Handbook on Statistical Disclosure Control; see complement-fold.test.ts). The
 // expected values are plain JS reductions over the generated rows (never the same SQL). A second
 // part runs the demo data with a minimum large enough to fold its smallest route.
 import { mkdtemp, writeFile } from 'node:fs/promises';
@@ -51,7 +54,7 @@ interface Row {
   pass: boolean;
 }
 
-/** Two years of bookings: North every day (pass holders among them), South every day with three pass-holder bookings, and two tiny routes. */
+/** Two years of bookings: North every day (pass holders among them), South every day with three pass-holder bookings, Middle every other day, and two tiny routes. */
 function generate(): Row[] {
   const rows: Row[] = [];
   let id = 0;
@@ -61,6 +64,7 @@ function generate(): Row[] {
     add(date, 'North', 20 + (day % 13), `N${day % 40}`, false);
     add(date, 'North', 15 + (day % 7), `P${day % 25}`, true);
     add(date, 'South', 30 + (day % 11) * 0.5, `S${day % 30}`, false);
+    if (day % 2 === 0) add(date, 'Middle', 25, `M${day % 10}`, false);
   }
   // South's only pass holders: three bookings, one customer each.
   add('2024-06-05', 'South', 12, 'SP1', true);
@@ -82,6 +86,8 @@ function csv(rows: Row[]): string {
 const inWindow = (r: Row, start: string, end: string) => r.date >= start && r.date < end;
 const sumFare = (rows: Row[]) => rows.reduce((a, r) => a + r.fare, 0);
 const where = (pred: (r: Row) => boolean) => ROWS.filter(pred);
+/** The rows of "All others": the tiny routes and their complement, Middle. */
+const folded = (r: Row) => r.route.startsWith('Tiny') || r.route === 'Middle';
 
 let ws: Workspace;
 let off: Workspace;
@@ -144,34 +150,34 @@ describe('small-group suppression (in-memory DuckDB over a tiny CSV)', () => {
     expect(aliasOf('SUM(x) AS "revenue"')).toBe('"revenue"');
   });
 
-  it('segment_shares: the tiny routes fold into "All others" whatever their rank; the fold is their sum', async () => {
+  it('segment_shares: the tiny routes fold into "All others" whatever their rank, with Middle as their complement', async () => {
     const a = await answerSubQuestion(sq('segment_shares', { lens: 'distribution' }), ws);
     const f = typeOf(a, 'segment_shares')[0]!;
     const named = f.rows.filter((r) => !r.other).map((r) => r.segment);
     expect(named).toEqual(['North', 'South']);
     const fold = f.rows.find((r) => r.other)!;
-    expect(fold.members).toBe(2);
-    // Independent: the tiny routes' fares summed in JS.
-    expect(fold.value).toBeCloseTo(sumFare(where((r) => r.route.startsWith('Tiny'))), 6);
+    expect(fold.members).toBe(3);
+    // Independent: the folded routes' fares summed in JS.
+    expect(fold.value).toBeCloseTo(sumFare(where(folded)), 6);
     expect(f.rows.find((r) => r.segment === 'North')!.value).toBeCloseTo(sumFare(where((r) => r.route === 'North')), 6);
     expect(f.total).toBeCloseTo(sumFare(ROWS), 6);
-    expect(suppressed(a)).toEqual([{ code: 'suppressed_small_groups', data: { count: 2, minimum: MIN, dimension: 'route' } }]);
+    expect(suppressed(a)).toEqual([{ code: 'suppressed_small_groups', data: { count: 2, minimum: MIN, dimension: 'route', complementary: 1 } }]);
     expect(a.caveats.map((c) => c.code)).not.toContain('segments_folded');
-    expect(attached(a)).not.toMatch(/Tiny/);
-    expect(texts(a)).toContain('2 segments with fewer than 10 rows (the minimum group size) are combined as "All others"');
+    expect(attached(a)).not.toMatch(/Tiny|Middle/);
+    expect(texts(a)).toContain('2 segments with fewer than 10 rows (the minimum group size) are combined as "All others", with 1 more segment so that they cannot be worked out from the total.');
     // The control: with suppression off the tiny routes are named.
     const plain = typeOf(await answerSubQuestion(sq('segment_shares', { lens: 'distribution' }), off), 'segment_shares')[0]!;
-    expect(plain.rows.map((r) => r.segment)).toEqual(['North', 'South', 'Tiny2', 'Tiny1']);
+    expect(plain.rows.map((r) => r.segment)).toEqual(['North', 'South', 'Middle', 'Tiny2', 'Tiny1']);
   });
 
-  it('segment_trend: the fold\'s monthly series is the tiny routes\' monthly sums', async () => {
+  it('segment_trend: the fold\'s monthly series is the folded routes\' monthly sums', async () => {
     const a = await answerSubQuestion(sq('segment_trend', { lens: 'time_pattern' }), ws);
     const fold = typeOf(a, 'segment_trend').find((t) => t.other)!;
     const byMonth = new Map<string, number>();
-    for (const r of where((x) => x.route.startsWith('Tiny'))) byMonth.set(`${r.date.slice(0, 7)}-01`, (byMonth.get(`${r.date.slice(0, 7)}-01`) ?? 0) + r.fare);
+    for (const r of where(folded)) byMonth.set(`${r.date.slice(0, 7)}-01`, (byMonth.get(`${r.date.slice(0, 7)}-01`) ?? 0) + r.fare);
     for (const p of fold.points) expect(p.value ?? 0).toBeCloseTo(byMonth.get(p.period) ?? 0, 6);
     expect(typeOf(a, 'segment_trend').filter((t) => !t.other).map((t) => t.segment)).toEqual(['North', 'South']);
-    expect(attached(a)).not.toMatch(/Tiny/);
+    expect(attached(a)).not.toMatch(/Tiny|Middle/);
     texts(a);
   });
 
@@ -180,11 +186,11 @@ describe('small-group suppression (in-memory DuckDB over a tiny CSV)', () => {
     const f = typeOf(a, 'kpi_by_segment')[0]!;
     expect(f.period).toBe('2024-12-01');
     const fold = f.segments.find((s) => s.other)!;
-    // December 2024: one booking of each tiny route.
-    expect(fold.value).toBeCloseTo(sumFare(where((r) => r.route.startsWith('Tiny') && inWindow(r, '2024-12-01', '2025-01-01'))), 6);
+    // December 2024: one booking of each tiny route, too few on their own, so Middle joins them.
+    expect(fold.value).toBeCloseTo(sumFare(where((r) => folded(r) && inWindow(r, '2024-12-01', '2025-01-01'))), 6);
     expect(f.segments.filter((s) => !s.other).map((s) => s.key)).toEqual(['North', 'South']);
-    expect(suppressed(a)[0]?.data).toMatchObject({ count: 2, minimum: MIN });
-    expect(attached(a)).not.toMatch(/Tiny/);
+    expect(suppressed(a)[0]?.data).toMatchObject({ count: 2, minimum: MIN, complementary: 1 });
+    expect(attached(a)).not.toMatch(/Tiny|Middle/);
     texts(a);
   });
 
@@ -193,28 +199,28 @@ describe('small-group suppression (in-memory DuckDB over a tiny CSV)', () => {
     const f = typeOf(a, 'kpi_mix')[0]!;
     const fold = f.segments.find((s) => s.other)!;
     const dec = where((r) => inWindow(r, '2024-12-01', '2025-01-01'));
-    expect(fold.value).toBeCloseTo(sumFare(dec.filter((r) => r.route.startsWith('Tiny'))), 6);
-    expect(fold.share!).toBeCloseTo(sumFare(dec.filter((r) => r.route.startsWith('Tiny'))) / sumFare(dec), 9);
+    expect(fold.value).toBeCloseTo(sumFare(dec.filter(folded)), 6);
+    expect(fold.share!).toBeCloseTo(sumFare(dec.filter(folded)) / sumFare(dec), 9);
     expect(f.segments.at(-1)!.other).toBe(true);
     expect(f.total).toBeCloseTo(sumFare(dec), 6);
-    expect(suppressed(a)[0]?.data).toMatchObject({ count: 2, minimum: MIN });
-    expect(attached(a)).not.toMatch(/Tiny/);
+    expect(suppressed(a)[0]?.data).toMatchObject({ count: 2, minimum: MIN, complementary: 1 });
+    expect(attached(a)).not.toMatch(/Tiny|Middle/);
     expect(texts(a)).toContain('All others');
   });
 
-  it('growth_drivers and growth_share_shift: the tiny routes are one folded row per side, summing correctly', async () => {
+  it('growth_drivers and growth_share_shift: the tiny routes and their complement are one folded row per side, summing correctly', async () => {
     const summer = { start: '2024-06-01', end: '2024-09-01' };
-    const tiny = (start: string, end: string) => sumFare(where((r) => r.route.startsWith('Tiny') && inWindow(r, start, end)));
+    const tiny = (start: string, end: string) => sumFare(where((r) => folded(r) && inWindow(r, start, end)));
     const drivers = await answerSubQuestion(sq('growth_drivers', { kind: 'growth', window: summer }), ws);
     const d = typeOf(drivers, 'growth_drivers')[0]!;
     expect(d.segments.map((s) => s.segment).sort()).toEqual(['North', 'South']);
-    expect(d.others).toMatchObject({ count: 2 });
+    expect(d.others).toMatchObject({ count: 3 });
     expect(d.others!.after).toBeCloseTo(tiny('2024-06-01', '2024-09-01'), 6);
     expect(d.others!.before).toBeCloseTo(tiny('2023-06-01', '2023-09-01'), 6);
     // The parts still add up to the total on each side.
     expect(d.segments.reduce((x, s) => x + s.after!, 0) + d.others!.after!).toBeCloseTo(d.total.after!, 6);
-    expect(suppressed(drivers)[0]?.data).toMatchObject({ count: 2, minimum: MIN });
-    expect(attached(drivers)).not.toMatch(/Tiny/);
+    expect(suppressed(drivers)[0]?.data).toMatchObject({ count: 2, minimum: MIN, complementary: 1 });
+    expect(attached(drivers)).not.toMatch(/Tiny|Middle/);
     texts(drivers);
 
     const shift = await answerSubQuestion(sq('growth_share_shift', { kind: 'growth', lens: 'distribution', window: summer }), ws);
@@ -222,7 +228,7 @@ describe('small-group suppression (in-memory DuckDB over a tiny CSV)', () => {
     expect(s.others!.after).toBeCloseTo(tiny('2024-06-01', '2024-09-01'), 6);
     expect(s.others!.shareAfter!).toBeCloseTo(tiny('2024-06-01', '2024-09-01') / sumFare(where((r) => inWindow(r, '2024-06-01', '2024-09-01'))), 9);
     expect(s.segments.reduce((x, r) => x + r.shareAfter!, 0) + s.others!.shareAfter!).toBeCloseTo(1, 9);
-    expect(attached(shift)).not.toMatch(/Tiny/);
+    expect(attached(shift)).not.toMatch(/Tiny|Middle/);
     texts(shift);
   });
 
@@ -239,10 +245,12 @@ describe('small-group suppression (in-memory DuckDB over a tiny CSV)', () => {
     const hidden = a.tables.segments!.rows.find((r) => r.tc_segment === 'South' && r.tc_member === true)!;
     expect(hidden.tc_suppressed).toBe(true);
     expect([hidden.tc_n, hidden.tc_mean, hidden.tc_value, hidden.tc_rows]).toEqual([null, null, null, null]);
-    expect(a.caveats).toContainEqual({ code: 'suppressed_small_groups', data: { count: 2, minimum: MIN, dimension: 'route' } });
-    // The fold itself has only six other bookings in 2024: that side is withheld too.
-    expect(segs.find((s) => s.folded)).toMatchObject({ suppressedOthers: true, others: null });
-    expect(a.caveats).toContainEqual({ code: 'suppressed_small_groups', data: expect.objectContaining({ cells: true, count: 2, groups: 'Pass holders, Other customers' }) });
+    expect(a.caveats).toContainEqual({ code: 'suppressed_small_groups', data: { count: 2, minimum: MIN, dimension: 'route', complementary: 1 } });
+    // The tiny routes hold only seven bookings in 2024, so Middle joins the fold; its other
+    // customers' side is then large enough to show: the mean fare of those rows, in JS.
+    const foldOthers = where((r) => folded(r) && !r.pass && inWindow(r, '2024-01-01', '2025-01-01'));
+    expect(segs.find((s) => s.folded)!.others).toBeCloseTo(sumFare(foldOthers) / foldOthers.length, 9);
+    expect(a.caveats).toContainEqual({ code: 'suppressed_small_groups', data: expect.objectContaining({ cells: true, count: 1, groups: 'Pass holders' }) });
     expect(texts(a)).toMatch(/too few to show/);
   });
 
@@ -329,27 +337,34 @@ describe('small-group suppression on the demo data (200k rows)', () => {
     await demo?.source.close();
   });
 
-  it('segment_shares folds the smallest route; named routes and the fold match the raw rows and add up to the total', async () => {
-    const smallest = [...routeRows.entries()].sort((a, b) => a[1] - b[1])[0]![0];
+  // The smallest route alone in "All others" would be the total minus the named routes, so the
+  // next-smallest route joins it (complementary suppression).
+  const bySize = () => [...routeRows.entries()].sort((a, b) => a[1] - b[1] || (a[0] < b[0] ? -1 : 1)).map(([route]) => route);
+
+  it('segment_shares folds the smallest route with the next-smallest; named routes and the fold match the raw rows and add up to the total', async () => {
+    const [smallest, complement] = bySize() as [string, string];
     const a = await answerSubQuestion(sq('segment_shares', { lens: 'distribution', window: month, comparisonGroup: undefined } as Partial<SubQuestion>), demo);
     const f = typeOf(a, 'segment_shares')[0]!;
     expect(f.rows.map((r) => r.segment)).not.toContain(smallest);
+    expect(f.rows.map((r) => r.segment)).not.toContain(complement);
     const fold = f.rows.find((r) => r.other)!;
-    expect(fold.members).toBe(1);
-    expect(fold.value).toBeCloseTo(routeRevenue.get(smallest)!, 2);
+    expect(fold.members).toBe(2);
+    expect(fold.value).toBeCloseTo(routeRevenue.get(smallest)! + routeRevenue.get(complement)!, 2);
     for (const r of f.rows.filter((x) => !x.other)) expect(r.value).toBeCloseTo(routeRevenue.get(r.segment!)!, 2);
     const total = [...routeRevenue.values()].reduce((x, y) => x + y, 0);
     expect(f.rows.reduce((x, r) => x + (r.value ?? 0), 0)).toBeCloseTo(total, 2);
-    expect(suppressed(a)[0]?.data).toMatchObject({ count: 1 });
+    expect(suppressed(a)[0]?.data).toMatchObject({ count: 1, complementary: 1 });
     texts(a, demo);
   });
 
-  it('growth_drivers folds the same route on both sides and its parts add up', async () => {
-    const smallest = [...routeRows.entries()].sort((a, b) => a[1] - b[1])[0]![0];
+  it('growth_drivers folds the same two routes on both sides and its parts add up', async () => {
+    const [smallest, complement] = bySize() as [string, string];
     const a = await answerSubQuestion(sq('growth_drivers', { kind: 'growth', window: month }), demo);
     const d = typeOf(a, 'growth_drivers')[0]!;
     expect(d.segments.map((s) => s.segment)).not.toContain(smallest);
-    expect(d.others!.after).toBeCloseTo(routeRevenue.get(smallest)!, 2);
+    expect(d.segments.map((s) => s.segment)).not.toContain(complement);
+    expect(d.others).toMatchObject({ count: 2 });
+    expect(d.others!.after).toBeCloseTo(routeRevenue.get(smallest)! + routeRevenue.get(complement)!, 2);
     expect(d.segments.reduce((x, s) => x + s.after!, 0) + d.others!.after!).toBeCloseTo(d.total.after!, 2);
     texts(a, demo);
   });
