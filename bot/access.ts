@@ -1,7 +1,7 @@
 // Which datasets a chat channel may use, and which of them a request is about. The rules come
 // from the config's `access` section; without one, every channel may use every dataset.
 import type { AccessConfig, DatasetConfig } from '../config/schema.js';
-import { catalogTerms } from './intake.js';
+import { catalogTerms, readablePart } from './intake.js';
 import type { IncomingMessage } from './port.js';
 import { findTerms, type CatalogTerm } from './term-match.js';
 
@@ -66,7 +66,9 @@ export type DatasetChoice =
  */
 export function chooseDataset(text: string, datasets: readonly DatasetConfig[]): DatasetChoice {
   if (datasets.length === 1) return { kind: 'chosen', dataset: datasets[0]!, score: 0 };
-  const scored = datasets.map((ds, order) => ({ ds, order, score: catalogScore(text, ds) }));
+  // Only the part of a long request that intake reads is scored (see REQUEST_READ_LIMIT).
+  const readable = readablePart(text);
+  const scored = datasets.map((ds, order) => ({ ds, order, score: catalogScore(readable, ds) }));
   scored.sort((a, b) => b.score - a.score || a.order - b.order);
   const [best, second] = scored;
   if (best && best.score > 0 && (!second || best.score > second.score)) return { kind: 'chosen', dataset: best.ds, score: best.score };

@@ -55,7 +55,34 @@ export interface IntakeOptions {
   timeZone: string;
 }
 
-export function readRequest(text: string, ds: DatasetConfig, opts: IntakeOptions): Brief {
+/**
+ * How many characters of a request intake reads. Chat platforms keep a message to a few thousand
+ * characters (Slack advises at most 4,000 in a message's text; Discord allows 2,000), so a longer
+ * request is nearly always a pasted document, and matching catalog terms over all of it takes
+ * seconds for nothing. The rest is not read, and the thread is told so; the whole text stays in
+ * the brief and in the audit log.
+ */
+export const REQUEST_READ_LIMIT = 4_000;
+
+/** The part of a request intake reads: all of it up to the limit, else the start, cut between words. */
+export function readablePart(text: string, limit = REQUEST_READ_LIMIT): string {
+  if (text.length <= limit) return text;
+  let cut = limit;
+  // Never split a UTF-16 surrogate pair (an emoji or other character outside the BMP).
+  if (/[\uD800-\uDBFF]/.test(text[cut - 1]!)) cut--;
+  // Back off to the last space in the final 200 characters, so no word is half read.
+  const space = text.slice(cut - 200, cut).search(/\s\S*$/);
+  if (space >= 0) cut = cut - 200 + space;
+  return text.slice(0, cut);
+}
+
+/** Whether intake read only part of the request. */
+export function requestWasCut(text: string): boolean {
+  return readablePart(text).length < text.length;
+}
+
+export function readRequest(fullText: string, ds: DatasetConfig, opts: IntakeOptions): Brief {
+  const text = readablePart(fullText);
   const terms = catalogTerms(ds);
   const hits = findTerms(text, terms);
   const metrics = unique(hits.filter((h) => h.term.kind === 'metric').map((h) => h.term.name));
@@ -64,7 +91,8 @@ export function readRequest(text: string, ds: DatasetConfig, opts: IntakeOptions
   const questions = splitQuestions(text, ds, terms);
   const kinds = unique(questions.map((q) => q.kind));
   const brief: Brief = {
-    requestText: text,
+    // The whole request is kept (it is re-read when the dataset changes, and only its readable part is read).
+    requestText: fullText,
     questions,
     kinds: kinds.length > 0 ? kinds : ['trend'],
     metrics,

@@ -5,6 +5,7 @@ import { formatPeriod } from '../analysis/format.js';
 import { addDays } from '../analysis/periods.js';
 import type { SubQuestion } from '../analysis/types.js';
 import type { Brief } from './brief.js';
+import { readablePart, requestWasCut } from './intake.js';
 import type { Plan } from './plan.js';
 import type { Prompt } from './prompts.js';
 import type { ThreadState } from './thread-state.js';
@@ -12,6 +13,27 @@ import { SourceError } from '../analysis/sources/data-source.js';
 import { CatalogError } from '../analysis/catalog.js';
 
 export function acknowledgement(brief: Brief, ds: DatasetConfig): string {
+  const ack = requestAcknowledgement(brief, ds);
+  return requestWasCut(brief.requestText) ? `${ack}\n${requestTooLong(brief.requestText)}` : ack;
+}
+
+/**
+ * Said when a request is longer than intake reads: how long it is, how much was read and where
+ * reading stopped, and that nothing is lost.
+ */
+export function requestTooLong(text: string): string {
+  const read = readablePart(text);
+  // The last few words read (at most 60 characters, on one line), so the requester sees where reading stopped.
+  const tail = read.replace(/\s+/g, ' ').trimEnd().slice(-60);
+  const lastWords = tail.length === 60 ? tail.replace(/^\S*\s/, '') : tail;
+  const count = (n: number) => n.toLocaleString('en');
+  return (
+    `Your message is ${count(text.length)} characters long, more than I read in one request, so I read the first ${count(read.length)} characters, up to "…${lastWords}". ` +
+    'Anything after that is not part of this request; the whole message is kept in the request log. If something further down matters, send it as a new, shorter request.'
+  );
+}
+
+function requestAcknowledgement(brief: Brief, ds: DatasetConfig): string {
   const kinds = listJoin([...new Set(brief.questions.map((q) => q.kind))].map(kindNoun));
   const metrics = listJoin([...new Set(brief.questions.flatMap((q) => q.metrics))].map((m) => metricLabel(ds, m).toLowerCase()));
   const n = brief.questions.length;
