@@ -2,10 +2,11 @@
 // for them. A template is listed only when every number it computes is a sum or a count of rows
 // grouped by day and dimensions (so a rollup rebuilds it exactly); the performance templates
 // compare per-unit or per-row values (means and variances of bookings, medians, frequencies)
-// and always read the table.
+// and read the table (but for a plain count's before/after series, see performanceReadsRollup).
 import type { DatasetConfig } from '../../config/schema.js';
 import { CatalogError, metricByName } from '../catalog.js';
 import { mixMeasure } from '../templates/kpi-mix.js';
+import { measureShape, totalOfRows } from '../templates/performance-measure.js';
 import type { SubQuestion } from '../types.js';
 import { isRollupMetric, rollupColumns, type RollupShape } from './rollup.js';
 
@@ -38,10 +39,21 @@ function metricsRead(sq: SubQuestion, ds: DatasetConfig): string[] {
   return [...names];
 }
 
+/**
+ * Performance templates compare rows' values (means, variances, medians) and read the table,
+ * except the before/after series of a plain count (bookings per group and period), which is a
+ * sum of counts.
+ */
+function performanceReadsRollup(sq: SubQuestion, ds: DatasetConfig): boolean {
+  if (sq.template !== 'performance_before_after') return false;
+  const metric = metricByName(ds, sq.metrics[0]!);
+  return totalOfRows(measureShape(ds, metric));
+}
+
 /** What the rollup must keep for this sub-question, or null when it has to read the table. */
 export function rollupNeeds(sq: SubQuestion, ds: DatasetConfig): RollupShape | null {
-  if (!ROLLUP_TEMPLATES.has(sq.template)) return null;
   try {
+    if (!ROLLUP_TEMPLATES.has(sq.template) && !performanceReadsRollup(sq, ds)) return null;
     const metrics = metricsRead(sq, ds);
     if (!metrics.every((m) => isRollupMetric(ds, metricByName(ds, m)))) return null;
     const dimensions = [...(sq.dimension ? [sq.dimension] : []), ...sq.filters.map((f) => f.dimension)];

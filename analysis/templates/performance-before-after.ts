@@ -24,7 +24,7 @@ export function compileGroupPeriods(sq: SubQuestion, ctx: CompileContext, grain:
   const q = new QueryBuilder(ctx.dialect);
   const period = ctx.dialect.periodStart(grain, localDateExpr(q, ctx));
   const plan = planMeasure(q, ds, metric);
-  const cols = measureColumns(q, ds, metric, plan);
+  const cols = measureColumns(q, ds, metric, plan, ctx);
   const where = whereClause(q, ctx, sq.window, sq.filters);
   const body = `SELECT ${period} AS period,
   ${memberFlag(q, group)} AS tc_member,

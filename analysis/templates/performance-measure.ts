@@ -4,6 +4,7 @@
 import type { ColumnFilter, DatasetConfig, Metric, MetricDefinition } from '../../config/schema.js';
 import type { MeasureKind, Quantity } from '../findings/performance.js';
 import { metricByName } from '../catalog.js';
+import { type CompileContext, measureSql, rowCountSql } from '../compile-context.js';
 import { filterCondition, metricAggregate } from '../sql/metric-sql.js';
 import { duckdbDialect } from '../sql/dialect.js';
 import { QueryBuilder } from '../sql/query-builder.js';
@@ -73,8 +74,17 @@ function maybeWhere(q: QueryBuilder, where: ColumnFilter | undefined, then: stri
   return where ? `CASE WHEN ${filterCondition(q, where)} THEN ${then} ELSE ${otherwise} END` : then;
 }
 
-/** SELECT-list entries of the summary pieces, plus the catalog metric itself (tc_value) and the row count (tc_rows). */
-export function measureColumns(q: QueryBuilder, ds: DatasetConfig, metric: Metric, plan: MeasurePlan): string[] {
+/**
+ * SELECT-list entries of the summary pieces, plus the catalog metric itself (tc_value) and the row
+ * count (tc_rows). With a compile context over the run's rollup, only a plain total can be read
+ * (see `readsRollup`); the other kinds need each row's value.
+ */
+export function measureColumns(q: QueryBuilder, ds: DatasetConfig, metric: Metric, plan: MeasurePlan, ctx?: CompileContext): string[] {
+  if (ctx?.rollup) {
+    if (!totalOfRows(plan)) throw new Error(`a ${plan.kind} comparison of ${metric.name} needs each row, not the rollup`);
+    const rows = q.dialect.toDouble(rowCountSql(q, ctx));
+    return [`${rows} AS tc_n`, `${measureSql(q, ctx, metric)} AS tc_value`, `${rows} AS tc_rows`];
+  }
   const d = q.dialect;
   const cols: string[] = [];
   switch (plan.kind) {
@@ -108,6 +118,11 @@ export function measureColumns(q: QueryBuilder, ds: DatasetConfig, metric: Metri
   }
   cols.push(`${metricAggregate(q, ds, metric)} AS tc_value`, `${d.toDouble('COUNT(*)')} AS tc_rows`);
   return cols;
+}
+
+/** A comparison of plain totals of rows (bookings per group and period): sums of counts, so a rollup holds it. */
+export function totalOfRows(plan: Pick<MeasurePlan, 'kind' | 'additive'>): boolean {
+  return plan.kind === 'total' && plan.additive;
 }
 
 /** The median of the per-row value, for money compared as a mean (skewed values). */

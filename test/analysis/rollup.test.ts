@@ -46,6 +46,9 @@ const MORE: SubQuestion[] = [
   q({ template: 'kpi_mix', kind: 'kpi', lens: 'distribution', metrics: ['average_fare'], dimension: 'channel' }),
   q({ template: 'kpi_by_segment', kind: 'kpi', lens: 'breakdown', metrics: ['refund_rate'], dimension: 'fare_class' }),
   q({ template: 'growth_series', kind: 'growth', lens: 'time_pattern', metrics: ['passengers'], window: { start: '2030-01-01', end: '2030-07-01' } }),
+  // Bookings per group and period are sums of counts; the demo plan's before/after series.
+  q({ template: 'performance_before_after', kind: 'performance', lens: 'time_pattern', comparisonGroup: 'skerrypass', metrics: ['bookings'] }),
+  q({ template: 'performance_before_after', kind: 'performance', lens: 'time_pattern', comparisonGroup: 'skerrypass', metrics: ['bookings'], grain: 'quarter', filters: [{ dimension: 'channel', values: ['web'] }] }),
 ];
 
 const ALL = [...CASES, ...MORE];
@@ -55,10 +58,16 @@ describe('which sub-questions read the rollup', () => {
     const ds = ws.dataset;
     for (const sq of ALL) {
       const need = rollupNeeds(sq, ds);
-      if (!ROLLUP_TEMPLATES.has(sq.template)) expect(need).toBeNull();
+      const plainCountBeforeAfter = sq.template === 'performance_before_after' && sq.metrics[0] === 'bookings';
+      if (!ROLLUP_TEMPLATES.has(sq.template) && !plainCountBeforeAfter) expect(need).toBeNull();
+      if (plainCountBeforeAfter) expect(need).not.toBeNull();
       if (sq.metrics.includes('customers')) expect(need).toBeNull();
     }
     expect([...ROLLUP_TEMPLATES].some((t) => t.startsWith('performance'))).toBe(false);
+    // Means, shares and ratios of rows compared between groups need each row.
+    for (const metric of ['average_fare', 'refund_rate', 'fare_per_passenger', 'revenue']) {
+      expect(rollupNeeds(q({ template: 'performance_before_after', kind: 'performance', lens: 'time_pattern', comparisonGroup: 'skerrypass', metrics: [metric] }), ds)).toBeNull();
+    }
     // A breakdown by personal data is refused by its template, not folded into a rollup.
     expect(rollupNeeds(q({ template: 'segment_shares', kind: 'trend', lens: 'distribution', dimension: 'customer_email' }), ds)).toBeNull();
   });
@@ -86,7 +95,7 @@ describe('answers over the rollup equal answers read from the table', () => {
   });
 
   it('has cases for every template that reads the rollup', () => {
-    expect(new Set(ALL.filter((sq) => rollupNeeds(sq, ws.dataset)).map((sq) => sq.template))).toEqual(new Set(ROLLUP_TEMPLATES));
+    expect(new Set(ALL.filter((sq) => rollupNeeds(sq, ws.dataset)).map((sq) => sq.template))).toEqual(new Set([...ROLLUP_TEMPLATES, 'performance_before_after']));
   });
 
   for (const [i, sq] of ALL.entries()) {
