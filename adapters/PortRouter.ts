@@ -1,13 +1,14 @@
 // One ThreadPort for the bot over several adapters: each post goes to the adapter that owns the
 // thread id (ids carry the adapter's prefix, e.g. "slack:C1:1700000000.000100").
 import type { OutgoingPost, ThreadPort } from '../bot/port.js';
+import type { SqlSession } from '../bot/thread-state.js';
 import type { ChatAdapter } from './chat-adapter.js';
 
 export class PortRouter implements ThreadPort {
   constructor(private readonly adapters: readonly ChatAdapter[]) {}
 
-  post(threadId: string, post: OutgoingPost): Promise<string> {
-    return this.route(threadId).post(threadId, post);
+  post(threadId: string, post: OutgoingPost, session?: SqlSession): Promise<string> {
+    return this.route(threadId).post(threadId, post, session);
   }
 
   update(threadId: string, ref: string, text: string): Promise<void> {

@@ -3,12 +3,17 @@
 // times a round of GETs for unknown threads (the HTTP floor: a 404 and no bot work) and a round
 // timing the API's acknowledgement (201, the message recorded); last a round that also reads each
 // thread's event stream until the bot's first message. The bot is left to finish between rounds.
-// Bounded in count (eight rounds) and time.
+// Bounded in count (eight rounds) and time. With a PostgreSQL URL (THREADCOUNT_BENCH_PG_URL, else
+// THREADCOUNT_TEST_PG_URL) the same server is measured again with its state in PostgreSQL (one
+// replica of a team deployment): a warm-up round, then one round reading the bot's replies.
+import { randomBytes } from 'node:crypto';
 import { spawn, type ChildProcess } from 'node:child_process';
 import { Agent, request } from 'node:http';
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
+import pg from 'pg';
+import { parseDocument } from 'yaml';
 import { packageRoot } from './data.js';
 import { DEMO_REQUEST } from './plan.js';
 
@@ -28,6 +33,21 @@ export interface AckResult {
   /** The HTTP floor on this machine: the same number of requests for an unknown thread (404, no bot work). */
   notFoundMs: number[];
   wallMs: number;
+  serverMaxRssKb: number | null;
+  /** The same server with its state in PostgreSQL; null when no URL was given. */
+  shared: SharedAckResult | null;
+  /** Why the PostgreSQL round failed, if it did. */
+  sharedError?: string;
+}
+
+/** 200 requests at once to one replica keeping its state (threads, queue, audit) in PostgreSQL. */
+export interface SharedAckResult {
+  requests: number;
+  /** Requests whose bot reply was read within the time limit. */
+  completed: number;
+  acceptedMs: number[];
+  acknowledgedMs: number[];
+  /** The replica's peak resident memory (Linux VmHWM), in KiB. */
   serverMaxRssKb: number | null;
 }
 
@@ -65,6 +85,15 @@ export async function measureAck(configPath: string, requests = 200): Promise<Ac
     }
     const replied = await round('follower', true);
     const wallMs = performance.now() - started;
+    const stateUrl = process.env.THREADCOUNT_BENCH_PG_URL || process.env.THREADCOUNT_TEST_PG_URL;
+    let shared: SharedAckResult | null = null;
+    let sharedError: string | undefined;
+    if (stateUrl) {
+      shared = await measureSharedAck(configPath, stateUrl, requests, dir).catch((err: unknown) => {
+        sharedError = err instanceof Error ? err.message : String(err);
+        return null;
+      });
+    }
     return {
       requests,
       rounds: ROUNDS,
@@ -75,11 +104,53 @@ export async function measureAck(configPath: string, requests = 200): Promise<Ac
       notFoundMs: notFound,
       wallMs,
       serverMaxRssKb: server.peakKb(),
+      shared,
+      ...(sharedError ? { sharedError } : {}),
     };
   } finally {
     agent.destroy();
     await server.stop();
     rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+/** One replica on PostgreSQL state (a schema of its own, dropped after): warm-up, then a round reading the replies. */
+async function measureSharedAck(configPath: string, stateUrl: string, requests: number, dir: string): Promise<SharedAckResult> {
+  const schema = `tc_bench_${randomBytes(4).toString('hex')}`;
+  // Beside the original, so its relative data paths still resolve; removed after.
+  const sharedConfig = join(dirname(configPath), `${schema}.yaml`);
+  const doc = parseDocument(readFileSync(configPath, 'utf8'));
+  doc.setIn(['conversation', 'state'], doc.createNode({ kind: 'postgres', url_env: 'THREADCOUNT_BENCH_STATE_URL', schema }));
+  writeFileSync(sharedConfig, doc.toString());
+  const server = await startServer(sharedConfig, join(dir, 'unused.duckdb'), { THREADCOUNT_BENCH_STATE_URL: stateUrl }).catch((err: unknown) => {
+    rmSync(sharedConfig, { force: true });
+    throw err;
+  });
+  const agent = new Agent({ keepAlive: false, maxSockets: Infinity });
+  const deadline = Date.now() + TIME_LIMIT_MS;
+  try {
+    const round = async (label: string) => {
+      const settled = await Promise.allSettled(Array.from({ length: requests }, (_, i) => oneRequest(server.url, agent, `${label} ${i}`, deadline, true)));
+      await untilIdle(server.url, agent, deadline);
+      return settled.flatMap((s) => (s.status === 'fulfilled' ? [s.value] : []));
+    };
+    await round('shared warm-up');
+    const replied = await round('shared');
+    return {
+      requests,
+      completed: replied.length,
+      acceptedMs: replied.map((d) => d.accepted),
+      acknowledgedMs: replied.map((d) => d.acknowledged!),
+      serverMaxRssKb: server.peakKb(),
+    };
+  } finally {
+    agent.destroy();
+    await server.stop();
+    rmSync(sharedConfig, { force: true });
+    const client = new pg.Client({ connectionString: stateUrl });
+    await client.connect();
+    for (const s of [schema, `${schema}_queue`]) await client.query(`DROP SCHEMA IF EXISTS ${pg.escapeIdentifier(s)} CASCADE`);
+    await client.end();
   }
 }
 
@@ -182,12 +253,13 @@ interface Server {
   stop(): Promise<void>;
 }
 
-async function startServer(configPath: string, statePath: string): Promise<Server> {
+async function startServer(configPath: string, statePath: string, extraEnv: Record<string, string> = {}): Promise<Server> {
   // Only the local channel: the chat platforms' tokens are left out of the child's environment.
   const env: NodeJS.ProcessEnv = {};
   for (const [k, v] of Object.entries(process.env)) if (!/^(SLACK|DISCORD)_/.test(k)) env[k] = v;
   env.THREADCOUNT_HOST = '127.0.0.1';
   env.THREADCOUNT_PORT = '0';
+  Object.assign(env, extraEnv);
   const child = spawn(process.execPath, [join(packageRoot(), 'bin', 'threadcount.js'), 'serve', '--config', configPath, '--state', statePath], {
     env,
     stdio: ['ignore', 'pipe', 'pipe'],

@@ -21,7 +21,8 @@ import type { IncomingMessage, OutgoingPost, ThreadPort } from './port.js';
 import { datasetPrompt, nextPrompt, personalDataRefusal, readAnswer, readDatasetAnswer, readWindow, type Prompt, type PromptContext } from './prompts.js';
 import { findTerms } from './term-match.js';
 import * as replies from './replies.js';
-import type { AuditKind, StateStore, ThreadState } from './thread-state.js';
+import type { RunQueue, RunRef } from './queue/RunQueue.js';
+import type { AuditEntry, AuditKind, SqlSession, StateStore, ThreadState } from './thread-state.js';
 
 /** A chart kept for the digest: its PNG, and its spec when known. */
 export interface DigestChart {
@@ -73,6 +74,13 @@ export interface BotDeps {
   phases?: PhaseTimings;
   /** Called when a sub-question job starts, for tests that stop the process part-way. */
   onJobStart?: (threadId: string, sq: SubQuestion) => void;
+  /**
+   * Where agreed runs wait when several processes share the work (the caller starts its workers
+   * with `runQueued`); absent, this process runs each at once.
+   */
+  queue?: RunQueue;
+  /** Names this process in the audit log's run entries (e.g. "host:pid"). */
+  replica?: string;
 }
 
 /** Who an audit entry or a post is for: the thread, the person asking and their channel. */
@@ -125,9 +133,20 @@ export class Bot {
     }
   }
 
-  /** After a restart: carry on every run that was under way. */
+  /** After a restart: carry on every run that was under way (with a queue: make sure it is queued). */
   async resume(): Promise<void> {
-    for (const state of await this.deps.store.list({ stages: ['running'] })) this.startRun(state);
+    for (const state of await this.deps.store.list({ stages: ['running'] })) await this.launch(state);
+  }
+
+  /**
+   * A queue worker's handler: carries out the run if it is still the thread's current one, and
+   * resolves when it is over. A run already going on in this process is joined, not restarted.
+   */
+  async runQueued(ref: RunRef): Promise<void> {
+    const state = await this.deps.store.get(ref.threadId);
+    if (!state || state.stage !== 'running' || state.run?.number !== ref.number) return;
+    this.startRun(state);
+    await this.runs.get(ref.threadId);
   }
 
   /** Resolves when every run started so far has finished; rejects if one of them failed. */
@@ -138,10 +157,14 @@ export class Bot {
   private readonly runs = new Map<string, Promise<void>>();
   private readonly queues = new Map<string, Promise<unknown>>();
 
-  /** Serialises work on one thread's state, so a reply, a tick and a run step never interleave. */
+  /**
+   * Serialises work on one thread's state, so a reply, a tick and a run step never interleave: in
+   * this process by a promise chain, across processes by the store's thread lock.
+   */
   private inThread<T>(threadId: string, work: () => Promise<T>): Promise<T> {
     const prior = this.queues.get(threadId) ?? Promise.resolve();
-    const next = prior.then(work, work);
+    const locked = () => this.deps.store.withThreadLock(threadId, work);
+    const next = prior.then(locked, locked);
     const settled = next.then(
       () => undefined,
       () => undefined,
@@ -151,6 +174,12 @@ export class Bot {
       if (this.queues.get(threadId) === settled) this.queues.delete(threadId);
     });
     return next;
+  }
+
+  /** An agreed run (saved as 'running'): queued for any process, or started here. */
+  private async launch(state: ThreadState): Promise<void> {
+    if (this.deps.queue) await this.deps.queue.enqueue({ threadId: state.threadId, number: state.run!.number });
+    else this.startRun(state);
   }
 
   private startRun(state: ThreadState): void {
@@ -229,13 +258,24 @@ export class Bot {
     return { threadId: state.threadId, requester: state.requester, channel: state.channel ?? channelKey({ threadId: state.threadId }) };
   }
 
+  private auditEntry(who: Who, kind: AuditKind, detail: Record<string, unknown>): AuditEntry {
+    return { at: this.deps.now().toISOString(), ...who, kind, detail };
+  }
+
   private async audit(who: Who, kind: AuditKind, detail: Record<string, unknown>): Promise<void> {
-    await this.deps.store.appendAudit({ at: this.deps.now().toISOString(), ...who, kind, detail });
+    await this.deps.store.appendAudit(this.auditEntry(who, kind, detail));
+  }
+
+  /** A run entry of the audit log: started (each time a process takes it up) or finished (once). */
+  private runEntry(who: Who, event: 'started' | 'finished', number: number): AuditEntry {
+    return this.auditEntry(who, 'run', { event, number, ...(this.deps.replica ? { replica: this.deps.replica } : {}) });
   }
 
   /** A reply outside a request's state (a command in a new thread, a refusal): its key is its own. */
   private async oneOffReply(who: Who, name: string, text: string, turn = 0): Promise<void> {
-    await this.postOnce(who.threadId, `${who.threadId}:${name}:${turn}:${Date.now()}:${this.oneOff++}`, { text }, who);
+    // The replica's name keeps two processes answering in the same millisecond apart.
+    const origin = this.deps.replica ? `${this.deps.replica}:` : '';
+    await this.postOnce(who.threadId, `${who.threadId}:${name}:${turn}:${origin}${Date.now()}:${this.oneOff++}`, { text }, who);
   }
 
   private async onCommand(command: NonNullable<ReturnType<typeof readCommand>>, msg: IncomingMessage, state: ThreadState | undefined, who: Who): Promise<void> {
@@ -272,7 +312,7 @@ export class Bot {
         state.run = { number: (state.run?.number ?? 0) + 1, posted: [], takeaways: [], failures: 0 };
         state.stage = 'running';
         await this.deps.store.put(state);
-        return this.startRun(state);
+        return this.launch(state);
     }
   }
 
@@ -385,7 +425,7 @@ export class Bot {
       delete state.waitingSince;
       state.run = { number: 1, posted: [], takeaways: [], failures: 0 };
       await this.deps.store.put(state);
-      return this.startRun(state);
+      return this.launch(state);
     }
     if (edit.type === 'cancel') {
       state.stage = 'cancelled';
@@ -447,14 +487,19 @@ export class Bot {
     // Charts of this process's answers, for the digest (after a restart, only those made since).
     const charts = new Map<number, DigestChart>();
     const phases = this.deps.phases;
+    if (!(await this.mayRun(started, who))) return;
+    await this.deps.store.appendAudit(this.runEntry(who, 'started', run.number));
     const progressRef = await this.postOnce(threadId, runKey('progress'), { text: replies.progress(run.posted.length, plan.items.length) }, who);
     // The queries each sub-question ran, for the audit log (kept even when presenting fails).
     const ran = plan.items.map(() => [] as NamedQuery[]);
+    // Once the run stops (cancelled, finished, or failed), jobs still waiting their turn are skipped.
+    let stopped = false;
     const pending = plan.items.map((sq, i) =>
       run.posted.includes(sq.id)
         ? null
         : this.deps
             .jobs(async () => {
+              if (stopped) throw new Error('the run stopped');
               this.deps.onJobStart?.(threadId, sq);
               const answer = await answerSubQuestion(sq, ws, {
                 ...(quality ? { quality } : {}),
@@ -471,6 +516,49 @@ export class Bot {
               (err: unknown) => ({ presented: null, failure: replies.subQuestionFailed(i + 1, err) }),
             ),
     );
+    try {
+      await this.postInOrder(started, ws, audience, who, pending, ran, charts, progressRef);
+    } finally {
+      // The run's scope closes after this returns: no job may still be using it.
+      stopped = true;
+      await Promise.all(pending);
+    }
+  }
+
+  /**
+   * Whether the run may start: it is still the thread's current one, and the channel may still use
+   * the dataset. A run queued or resumed after a restart may meet access rules changed since it
+   * was agreed: it is then cancelled with the refusal in the thread and the audit log.
+   */
+  private mayRun(started: ThreadState, who: Who): Promise<boolean> {
+    return this.inThread(started.threadId, async () => {
+      const state = await this.deps.store.get(started.threadId);
+      if (!state || state.stage !== 'running' || state.run?.number !== started.run!.number) return false;
+      const refusal = this.threadRefusal(state, who.channel);
+      if (!refusal) return true;
+      await this.audit(who, 'denied', { reason: refusal.reason, run: state.run.number, ...(state.dataset ? { dataset: state.dataset } : {}) });
+      state.stage = 'cancelled';
+      await this.say(state, 'note', refusal.text);
+      return false;
+    });
+  }
+
+  /** Posts each answer in plan order as it is ready, then the summary, while the run is current. */
+  private async postInOrder(
+    started: ThreadState,
+    ws: Workspace,
+    audience: Audience,
+    who: Who,
+    pending: (Promise<{ presented: PresentedPost | null; failure: string | null }> | null)[],
+    ran: NamedQuery[][],
+    charts: Map<number, DigestChart>,
+    progressRef: string,
+  ): Promise<void> {
+    const threadId = started.threadId;
+    const plan = started.plan!;
+    const run = started.run!;
+    const runKey = (name: string) => `${threadId}:run${run.number}:${name}`;
+    const phases = this.deps.phases;
     // This run is still the thread's current one and has not been cancelled.
     const current = (s: ThreadState | undefined): s is ThreadState => !!s && s.stage === 'running' && s.run?.number === run.number;
     for (const [i, sq] of plan.items.entries()) {
@@ -506,7 +594,8 @@ export class Bot {
         requestText: state.brief.requestText,
         ...(phases ? { timings: phases } : {}),
       });
-      await this.postOnce(threadId, runKey('summary'), summary, who);
+      // The run's end is logged with its summary post: both or neither, once.
+      await this.postOnce(threadId, runKey('summary'), summary, who, [this.runEntry(who, 'finished', run.number)]);
       state.stage = 'done';
       state.updatedAt = this.deps.now().toISOString();
       await this.deps.store.put(state);
@@ -521,14 +610,15 @@ export class Bot {
     await this.postOnce(state.threadId, key, { text, ...(prompt ? { prompt } : {}), ...extra }, this.who(state));
   }
 
-  /** A key posted before (in this process or before a restart) is not posted again; each post is audited. */
-  private async postOnce(threadId: string, key: string, post: Omit<OutgoingPost, 'key'>, who: Who): Promise<string> {
-    const known = await this.deps.store.postRef(key);
-    if (known !== undefined) return known;
-    const ref = await this.deps.port.post(threadId, { key, ...post });
-    await this.deps.store.recordPost(key, threadId, ref);
-    await this.audit(who, 'post', { key, text: post.text, files: (post.files ?? []).map((f) => f.name) });
-    return ref;
+  /**
+   * A key posted before (by this process, another replica, or before a restart) is not posted
+   * again; each post is audited, with any entries that belong with it.
+   */
+  private async postOnce(threadId: string, key: string, post: Omit<OutgoingPost, 'key'>, who: Who, alsoLog: AuditEntry[] = []): Promise<string> {
+    const entry = this.auditEntry(who, 'post', { key, text: post.text, files: (post.files ?? []).map((f) => f.name) });
+    return this.deps.store.postOnce({ key, threadId, audit: [entry, ...alsoLog] }, (session?: SqlSession) =>
+      this.deps.port.post(threadId, { key, ...post }, session),
+    );
   }
 }
 

@@ -1,6 +1,7 @@
 // The one narrow interface between the conversation and any chat platform. bot/ never imports
 // a platform library; adapters implement this.
 import type { Prompt } from './prompts.js';
+import type { SqlSession } from './thread-state.js';
 
 export type FileKind = 'chart' | 'table' | 'sql' | 'digest';
 
@@ -30,8 +31,12 @@ export interface QuickReply {
 }
 
 export interface ThreadPort {
-  /** Posts in the thread and returns the platform's reference to the message. */
-  post(threadId: string, post: OutgoingPost): Promise<string>;
+  /**
+   * Posts in the thread and returns the platform's reference to the message. A platform kept in
+   * the same database as the bot's state (the local channel on PostgreSQL) writes through
+   * `session`, so the post commits with its key; the others ignore it.
+   */
+  post(threadId: string, post: OutgoingPost, session?: SqlSession): Promise<string>;
   /** Replaces the text of a message posted earlier (progress updated in place). */
   update(threadId: string, ref: string, text: string): Promise<void>;
 }

@@ -38,13 +38,14 @@ export interface ThreadState {
   updatedAt: string;
 }
 
-export const AUDIT_KINDS = ['request', 'message', 'sql', 'post', 'denied'] as const;
+export const AUDIT_KINDS = ['request', 'message', 'sql', 'post', 'denied', 'run'] as const;
 export type AuditKind = (typeof AUDIT_KINDS)[number];
 
 /**
  * One line of the audit log: who asked what, which SQL ran, what was posted, what was refused.
  * `detail` by kind: request/message `{ text }` (a request also `{ dataset }`); sql `{ subQuestion,
- * template, query, sql, params, dataset }`; post `{ key, text, files }`; denied `{ reason, text, ... }`.
+ * template, query, sql, params, dataset }`; post `{ key, text, files }`; denied `{ reason, text, ... }`;
+ * run `{ event: 'started' | 'finished', number, replica }` (replica: the process that ran it).
  */
 export interface AuditEntry {
   /** ISO timestamp. */
@@ -63,7 +64,19 @@ export interface AuditFilter {
   since?: string;
 }
 
-/** Where threads and post keys are kept; the embedded store is a DuckDB file. */
+/** A database session a platform write can join, so that a post and its key commit together. */
+export interface SqlSession {
+  query(text: string, values?: unknown[]): Promise<{ rows: Record<string, unknown>[] }>;
+}
+
+/** A post to make once: its stable key, its thread, and the audit entries recorded with it. */
+export interface KeyedPost {
+  key: string;
+  threadId: string;
+  audit: AuditEntry[];
+}
+
+/** Where threads and post keys are kept; the embedded store is a DuckDB file, the shared one PostgreSQL. */
 export interface StateStore {
   get(threadId: string): Promise<ThreadState | undefined>;
   put(state: ThreadState): Promise<void>;
@@ -71,6 +84,15 @@ export interface StateStore {
   /** The platform reference of a post already made under this key, if any. */
   postRef(key: string): Promise<string | undefined>;
   recordPost(key: string, threadId: string, ref: string): Promise<void>;
+  /**
+   * Sends a post unless one is already recorded under its key, then records the key and the audit
+   * entries; returns the platform reference either way. The PostgreSQL store does it in one
+   * transaction and hands `send` that transaction's session: a platform that writes through it
+   * (the local channel on PostgreSQL) posts exactly once; one that cannot posts at least once.
+   */
+  postOnce(post: KeyedPost, send: (session?: SqlSession) => Promise<string>): Promise<string>;
+  /** Runs `work` while no other process works on the thread (one-process stores need no lock). */
+  withThreadLock<T>(threadId: string, work: () => Promise<T>): Promise<T>;
   /** Appends to the audit log (never rewritten). */
   appendAudit(entry: AuditEntry): Promise<void>;
   /** The audit log in the order it was written. */

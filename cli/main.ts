@@ -7,9 +7,12 @@ import { generateDemo } from '../config/demo/generate-demo.js';
 import { DEMO_CONFIG_FILE, DEMO_DATABASE_FILE } from '../config/demo/generate-demo.js';
 import { SourceError } from '../analysis/sources/data-source.js';
 import { ask } from './ask.js';
-import { EnvironmentError, loadEnvironment } from '../config/environment.js';
+import { EnvironmentError, loadEnvironment, readSecrets } from '../config/environment.js';
+import { PostgresStateStore } from '../bot/stores/PostgresStateStore.js';
 import { serveUntilSignal, type Serving } from './serve.js';
-import { auditLines, AuditUsageError, readAudit } from './audit.js';
+import { sharedStateUrl } from './state-backend.js';
+import { auditLines, AuditUsageError, normaliseSince, readAudit } from './audit.js';
+import type { AuditEntry, AuditFilter } from '../bot/thread-state.js';
 
 export const DEMO_REQUEST =
   'Ops review is on the 15th. How has revenue moved over time, month by month? We want to see the busiest and quietest months.';
@@ -24,14 +27,17 @@ Commands:
   threadcount serve --config FILE [--state FILE]
       Answer requests in chat: the local channel page always, Slack and Discord when their
       tokens are set in the environment. Conversations are kept in the state file
-      (default: threadcount-state.duckdb beside the config).
+      (default: threadcount-state.duckdb beside the config), or in PostgreSQL when the config
+      has conversation.state: then several serve processes (replicas) share the work.
   threadcount audit --config FILE [--state FILE] [--thread ID] [--since DATE]
-      Print the audit log (requests, messages, SQL that ran, posts, refusals) as JSON lines,
-      oldest first, from the state file serve keeps. Stop serve first: the file is locked while it runs.
+      Print the audit log (requests, messages, SQL that ran, posts, refusals, runs) as JSON
+      lines, oldest first, from the state serve keeps. Stop serve first when it is a file: the
+      file is locked while it runs (PostgreSQL state can be read at any time).
   threadcount start [--out DIR]
       Generate the demo data (once) into DIR/demo-data, then serve it; prints the page's address.
 
-Environment: SLACK_BOT_TOKEN with SLACK_SIGNING_SECRET (Events API over HTTP, SLACK_PORT) or
+Environment: the variable the config's conversation.state names (its PostgreSQL URL);
+SLACK_BOT_TOKEN with SLACK_SIGNING_SECRET (Events API over HTTP, SLACK_PORT) or
 SLACK_APP_TOKEN (Socket Mode); DISCORD_BOT_TOKEN; THREADCOUNT_PORT and THREADCOUNT_HOST for
 the local channel (default 127.0.0.1:8787).
 `;
@@ -143,6 +149,15 @@ function defaultStatePath(configFile: string): string {
 async function auditCommand(rest: string[]): Promise<number> {
   const v = parse(rest, { config: { type: 'string' }, state: { type: 'string' }, thread: { type: 'string' }, since: { type: 'string' } });
   if (!v.config && !v.state) throw new UsageError('audit needs --config FILE (or --state FILE)');
+  if (v.config && !v.state) {
+    const config = loadConfig(resolve(v.config));
+    const shared = config.conversation.state;
+    if (shared) {
+      const filter: AuditFilter = { ...(v.thread ? { threadId: v.thread } : {}), ...(v.since ? { since: normaliseSince(v.since) } : {}) };
+      process.stdout.write(auditLines(await sharedAudit(sharedStateUrl(shared, readSecrets(config)), shared.schema, filter)));
+      return 0;
+    }
+  }
   const statePath = resolve(v.state ?? defaultStatePath(resolve(v.config!)));
   if (!existsSync(statePath)) throw new UsageError(`there is no state file at ${statePath} yet (serve writes it); pass --state FILE if it is elsewhere`);
   let entries;
@@ -157,6 +172,16 @@ async function auditCommand(rest: string[]): Promise<number> {
   }
   process.stdout.write(auditLines(entries));
   return 0;
+}
+
+/** The audit log from the shared state in PostgreSQL. */
+async function sharedAudit(url: string, schema: string, filter: AuditFilter): Promise<AuditEntry[]> {
+  const store = await PostgresStateStore.open({ url, schema, poolSize: 1, lockPoolSize: 1, applicationName: 'threadcount audit' });
+  try {
+    return await store.listAudit(filter);
+  } finally {
+    await store.close();
+  }
 }
 
 async function startCommand(rest: string[]): Promise<number> {

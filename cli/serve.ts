@@ -1,12 +1,13 @@
 // `threadcount serve`: the bot on a dataset, answering in every chat whose tokens are set (the
 // local channel always). One Bot, one persistent store; each adapter delivers messages through
-// one inbox and receives posts through one router.
+// one inbox and receives posts through one router. With the state in PostgreSQL this process is
+// one replica of several: they share the threads, and agreed runs go through a shared queue.
 import pLimit from 'p-limit';
-import { readSecrets } from '../config/secrets.js';
+import { readSecrets } from '../config/environment.js';
 import { closeWorkspaces, openWorkspaces } from './workspaces.js';
+import { openFileState, openSharedState, sharedStateUrl, type StateBackend } from './state-backend.js';
 import { Bot } from '../bot/Bot.js';
 import { presentAnswer, presentSummary } from '../bot/present-answer.js';
-import { DuckDbStateStore } from '../bot/stores/DuckDbStateStore.js';
 import type { ChatAdapter, Deliver, KnownThread } from '../adapters/chat-adapter.js';
 import { DiscordAdapter } from '../adapters/discord/DiscordAdapter.js';
 import { LocalChannel } from '../adapters/local-channel/LocalChannel.js';
@@ -18,7 +19,7 @@ import { loadConfig } from '../config/load.js';
 
 export interface ServeOptions {
   configFile: string;
-  /** The DuckDB file that keeps conversations across restarts. */
+  /** The DuckDB file that keeps conversations across restarts (unused when the config's state is in PostgreSQL). */
   statePath: string;
   environment: Environment;
   log?: (line: string) => void;
@@ -38,18 +39,26 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
   const log = opts.log ?? ((line: string) => process.stderr.write(`${line}\n`));
   const config = loadConfig(opts.configFile);
   // Every dataset is opened: which one a thread uses depends on its channel (the access rules).
-  const workspaces = await openWorkspaces(config, readSecrets(config));
-  const store = await DuckDbStateStore.open(opts.statePath).catch(async (err: unknown) => {
+  const secrets = readSecrets(config);
+  const shared = config.conversation.state;
+  // A missing state URL stops start-up before any data is opened.
+  if (shared) sharedStateUrl(shared, secrets);
+  const workspaces = await openWorkspaces(config, secrets);
+  let backend: StateBackend;
+  try {
+    backend = shared ? await openSharedState(shared, secrets, log) : await openFileState(opts.statePath);
+  } catch (err) {
     await closeWorkspaces(workspaces);
     throw err;
-  });
+  }
+  const { store, queue } = backend;
   const knows: KnownThread = async (threadId) => (await store.get(threadId)) !== undefined;
 
   // The bot needs the router and the adapters need the inbox: deliver is bound late.
   let inbox: ThreadInbox | undefined;
   const deliver: Deliver = (msg) => inbox!.deliver(msg);
   const env = opts.environment;
-  const local = new LocalChannel({ host: env.local.host, port: env.local.port, deliver });
+  const local = new LocalChannel({ host: env.local.host, port: env.local.port, deliver, ...(backend.threads ? { threads: backend.threads } : {}) });
   const adapters: ChatAdapter[] = [local];
   if (env.slack) adapters.push(new SlackAdapter({ env: env.slack, deliver, knows, log }));
   if (env.discord) adapters.push(new DiscordAdapter({ token: env.discord.token, deliver, knows, log }));
@@ -63,6 +72,8 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
     presentAnswer,
     presentSummary,
     jobs: pLimit(config.conversation.max_concurrent_jobs),
+    ...(queue ? { queue } : {}),
+    replica: backend.replica,
   });
   inbox = new ThreadInbox(
     (msg) => bot.handle(msg),
@@ -75,9 +86,14 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
       await a.start();
       started.push(a);
     }
+    // Runs agreed on any replica come through the queue; this one takes its share.
+    await queue?.work((run) => bot.runQueued(run));
   } catch (err) {
+    await queue?.stop().catch(() => undefined);
     for (const a of started) await a.stop().catch(() => undefined);
-    await store.close();
+    // A channel that never started still holds its thread log's connection.
+    if (!started.includes(local)) await backend.threads?.close().catch(() => undefined);
+    await backend.close();
     await closeWorkspaces(workspaces);
     throw err;
   }
@@ -96,9 +112,11 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
     local,
     async stop() {
       clearInterval(timer);
+      // No new runs; one under way gets a grace period, then is left to another replica.
+      await queue?.stop().catch((err: unknown) => log(`threadcount: stopping the run queue: ${String(err)}`));
       for (const a of [...started].reverse()) await a.stop().catch((err: unknown) => log(`threadcount: stopping ${a.name}: ${String(err)}`));
       await inbox!.idle();
-      await store.close();
+      await backend.close();
       await closeWorkspaces(workspaces);
     },
   };

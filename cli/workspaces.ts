@@ -1,7 +1,7 @@
 // Opens the datasets a command serves, by name, in the config's order: every one for `serve`,
 // the ones a channel may use for `ask`. A dataset that cannot be opened closes the others.
 import type { LoadedConfig } from '../config/load.js';
-import type { Secrets } from '../config/secrets.js';
+import type { Secrets } from '../config/environment.js';
 import { openWorkspace, type Workspace } from '../analysis/workspace.js';
 
 export async function openWorkspaces(config: LoadedConfig, secrets: Secrets, names: readonly string[] = config.datasets.map((d) => d.name)): Promise<Map<string, Workspace>> {

@@ -1,8 +1,10 @@
-// The one place that reads the chat platforms' tokens and the local channel's address from
-// process.env, parsed with zod (database secrets are config/secrets.ts's). Which adapters start
-// follows from which tokens are set. A problem message names the variable and shows at most a
+// The one place that reads process.env: the chat platforms' tokens and the local channel's
+// address (parsed with zod; which adapters start follows from which tokens are set), and the
+// database URLs the config names by variable (a warehouse source's, the shared state's). Read
+// once at start and passed down. A problem message names the variable and shows at most a
 // token's first few characters, never the secret.
 import { z } from 'zod';
+import type { Config } from './schema.js';
 
 export const DEFAULT_LOCAL_PORT = 8787;
 export const DEFAULT_SLACK_PORT = 3000;
@@ -91,4 +93,28 @@ function hint(env: Record<string, string | undefined>, key: PropertyKey | undefi
   if (typeof key !== 'string' || !/TOKEN$/.test(key)) return '';
   const v = env[key] ?? '';
   return v.length > 0 ? ` (the value set starts with "${v.slice(0, 5)}…")` : '';
+}
+
+/** Environment variable name -> value, for the variables the config names (and that are set). */
+export type Secrets = Readonly<Record<string, string>>;
+
+/** The parts of a config that name secrets. */
+type NamesSecrets = Pick<Config, 'datasets'> & { conversation?: Pick<Config['conversation'], 'state'> };
+
+/** The environment variables `config` names, read once; an empty value counts as unset. */
+export function readSecrets(config: NamesSecrets, env: Readonly<Record<string, string | undefined>> = process.env): Secrets {
+  const out: Record<string, string> = {};
+  for (const name of secretNames(config)) {
+    const value = env[name];
+    if (value !== undefined && value !== '') out[name] = value;
+  }
+  return Object.freeze(out);
+}
+
+/** Every environment variable the config names: PostgreSQL sources' URLs, then the shared state's. */
+export function secretNames(config: NamesSecrets): string[] {
+  const names = config.datasets.flatMap((d) => (d.source.kind === 'postgres' ? [d.source.url_env] : []));
+  const state = config.conversation?.state;
+  if (state) names.push(state.url_env);
+  return [...new Set(names)];
 }

@@ -76,6 +76,9 @@ export const comparisonGroupSchema = z
   .strict();
 export type ComparisonGroup = z.infer<typeof comparisonGroupSchema>;
 
+/** The name of an environment variable that holds a secret (a URL with a password). */
+const envVarName = z.string().regex(/^[A-Z_][A-Z0-9_]*$/, 'must be the name of an environment variable (upper case letters, digits, underscore)');
+
 export const sourceSchema = z.discriminatedUnion('kind', [
   z.object({ kind: z.literal('duckdb'), path: z.string().min(1) }).strict(),
   z.object({ kind: z.literal('csv'), paths: z.array(z.string().min(1)).min(1) }).strict(),
@@ -85,7 +88,7 @@ export const sourceSchema = z.discriminatedUnion('kind', [
   z
     .object({
       kind: z.literal('postgres'),
-      url_env: z.string().regex(/^[A-Z_][A-Z0-9_]*$/, 'must be the name of an environment variable (upper case letters, digits, underscore)'),
+      url_env: envVarName,
       schema: identifier.optional(),
     })
     .strict(),
@@ -133,10 +136,34 @@ export const chartsSchema = z
   .strict();
 export type ChartsConfig = z.infer<typeof chartsSchema>;
 
+// Conversations, post keys, the audit log, the local channel's threads and the queue of runs in
+// PostgreSQL, shared by every replica of the bot that names the same database. Its URL holds a
+// password, so the file names only the environment variable that holds it.
+export const sharedStateSchema = z
+  .object({
+    kind: z.literal('postgres'),
+    url_env: envVarName,
+    // The schema of the bot's tables; the queue's tables go in "<schema>_queue".
+    schema: identifier.default('threadcount'),
+    // Runs one replica works on at once.
+    runs_per_replica: z.number().int().min(1).max(16).default(2),
+    // A run still going after this long is taken as lost with its replica and retried by another:
+    // set it well above the longest run (the queue allows under 24 hours).
+    run_expiry_seconds: z.number().int().min(5).max(86_399).default(900),
+    // Attempts after the first, for runs whose replica died or that failed outright.
+    run_retries: z.number().int().min(0).max(20).default(3),
+    // How often one of the replicas looks for runs past their expiry.
+    expiry_check_seconds: z.number().int().min(1).max(3600).default(30),
+  })
+  .strict();
+export type SharedStateConfig = z.infer<typeof sharedStateSchema>;
+
 export const conversationSchema = z
   .object({
     // Where conversations are kept between restarts (an embedded DuckDB file), relative to the config.
     state_path: z.string().min(1).default('threadcount-state.duckdb'),
+    // Set for several replicas: the state in PostgreSQL instead of the file above.
+    state: sharedStateSchema.optional(),
     remind_after_minutes: z.number().int().min(1).default(240),
     deadline_warning_hours: z.number().int().min(1).default(24),
     // Sub-question jobs that may run at once across all threads.

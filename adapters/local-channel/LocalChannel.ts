@@ -1,10 +1,13 @@
 // The embedded default chat: a page on 127.0.0.1 where a person posts requests and answers the
-// bot, backed by a small HTTP API. Threads are kept in memory for the page only.
+// bot, backed by a small HTTP API. Threads are kept in memory for one process, or in PostgreSQL
+// (a PostgresThreadLog) so that replicas all show the same threads.
 import { createServer, type Server, type ServerResponse } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import type { OutgoingPost } from '../../bot/port.js';
+import type { SqlSession } from '../../bot/thread-state.js';
 import type { ChatAdapter, Deliver } from '../chat-adapter.js';
 import { localApi } from './local-api.js';
+import type { LocalThreadLog } from './local-thread-log.js';
 import { LocalThreads } from './LocalThreads.js';
 import { loadPageFiles } from './page-files.js';
 
@@ -16,11 +19,13 @@ export interface LocalChannelOptions {
   port?: number;
   deliver: Deliver;
   botName?: string;
+  /** Where threads are kept (default: in memory); stopping the channel closes it. */
+  threads?: LocalThreadLog;
 }
 
 export class LocalChannel implements ChatAdapter {
   readonly name = 'local';
-  readonly threads: LocalThreads;
+  readonly threads: LocalThreadLog;
   private readonly server: Server;
   private readonly streams = new Set<ServerResponse>();
   private readonly host: string;
@@ -29,7 +34,7 @@ export class LocalChannel implements ChatAdapter {
   constructor(opts: LocalChannelOptions) {
     this.host = opts.host ?? '127.0.0.1';
     this.port = opts.port ?? 0;
-    this.threads = new LocalThreads(opts.botName ?? 'threadcount');
+    this.threads = opts.threads ?? new LocalThreads(opts.botName ?? 'threadcount');
     this.server = createServer(
       localApi({
         threads: this.threads,
@@ -62,6 +67,7 @@ export class LocalChannel implements ChatAdapter {
       this.server.close(() => resolve());
       this.server.closeAllConnections();
     });
+    await this.threads.close();
   }
 
   /** The page's address, e.g. http://127.0.0.1:8787/ (after start). */
@@ -72,12 +78,13 @@ export class LocalChannel implements ChatAdapter {
     return `http://${host === '0.0.0.0' || host === '[::]' ? '127.0.0.1' : host}:${a.port}/`;
   }
 
-  async post(threadId: string, post: OutgoingPost): Promise<string> {
-    return this.threads.addBotPost(this.localId(threadId), post).id;
+  /** With the threads in PostgreSQL, `session` is the bot's post transaction: the message commits with its key. */
+  async post(threadId: string, post: OutgoingPost, session?: SqlSession): Promise<string> {
+    return (await this.threads.addBotPost(this.localId(threadId), post, session)).id;
   }
 
   async update(threadId: string, ref: string, text: string): Promise<void> {
-    this.threads.updateText(this.localId(threadId), ref, text);
+    await this.threads.updateText(this.localId(threadId), ref, text);
   }
 
   private localId(threadId: string): string {

@@ -9,14 +9,14 @@
 import type { IncomingMessage as HttpRequest, ServerResponse } from 'node:http';
 import type { Deliver } from '../chat-adapter.js';
 import { MAX_BODY_BYTES, newMessageSchema, type NewMessage } from './api-limits.js';
-import type { LocalEvent, LocalThreads } from './LocalThreads.js';
+import type { LocalEvent, LocalThreadLog } from './local-thread-log.js';
 import type { PageFile } from './page-files.js';
 
 /** The access rules' channel key of every local thread (the page is one channel). */
 export const LOCAL_CHANNEL = 'local';
 
 export interface LocalApiDeps {
-  threads: LocalThreads;
+  threads: LocalThreadLog;
   deliver: Deliver;
   page: Map<string, PageFile>;
   /** Host header values accepted (a guard against DNS rebinding); null accepts any. */
@@ -58,20 +58,19 @@ async function route(deps: LocalApiDeps, req: HttpRequest, res: ServerResponse):
   const [, collection, id, sub, ...rest] = parts;
   if (collection === 'threads' && id === undefined) {
     if (method === 'POST') return createThread(deps, req, res);
-    if (method === 'GET') return sendJson(res, 200, { threads: deps.threads.list() });
+    if (method === 'GET') return sendJson(res, 200, { threads: await deps.threads.list() });
   }
   if (collection === 'threads' && id !== undefined && rest.length === 0) {
-    const thread = deps.threads.get(id);
-    if (!thread) throw new HttpError(404, `no thread ${id}`);
     if (sub === undefined && method === 'GET') {
-      const { events: _events, ...plain } = thread;
-      return sendJson(res, 200, plain);
+      const thread = await deps.threads.get(id);
+      if (!thread) throw new HttpError(404, `no thread ${id}`);
+      return sendJson(res, 200, thread);
     }
     if (sub === 'messages' && method === 'POST') return addReply(deps, id, req, res);
     if (sub === 'events' && method === 'GET') return streamEvents(deps, id, req, res);
   }
   if (collection === 'files' && id !== undefined && sub === undefined && method === 'GET') {
-    const found = deps.threads.file(id);
+    const found = await deps.threads.file(id);
     if (!found) throw new HttpError(404, `no file ${id}`);
     res.writeHead(200, {
       'content-type': found.file.contentType,
@@ -89,21 +88,28 @@ async function route(deps: LocalApiDeps, req: HttpRequest, res: ServerResponse):
 
 async function createThread(deps: LocalApiDeps, req: HttpRequest, res: ServerResponse): Promise<void> {
   const body = await readMessage(req);
-  const { thread, message } = deps.threads.createThread(body.author, body.text);
+  const { thread, message } = await deps.threads.createThread(body.author, body.text);
   sendJson(res, 201, { threadId: thread.id, messageId: message.id });
   deps.deliver({ threadId: deps.botThreadId(thread.id), author: body.author, text: body.text, channel: LOCAL_CHANNEL });
 }
 
 async function addReply(deps: LocalApiDeps, threadId: string, req: HttpRequest, res: ServerResponse): Promise<void> {
   const body = await readMessage(req);
-  const message = deps.threads.addPersonMessage(threadId, body.author, body.text)!;
+  const message = await deps.threads.addPersonMessage(threadId, body.author, body.text);
+  if (!message) throw new HttpError(404, `no thread ${threadId}`);
   sendJson(res, 201, { messageId: message.id });
   deps.deliver({ threadId: deps.botThreadId(threadId), author: body.author, text: body.text, channel: LOCAL_CHANNEL });
 }
 
-function streamEvents(deps: LocalApiDeps, threadId: string, req: HttpRequest, res: ServerResponse): void {
+async function streamEvents(deps: LocalApiDeps, threadId: string, req: HttpRequest, res: ServerResponse): Promise<void> {
   // A reconnecting EventSource sends the last id it saw; a first connection gets every event.
   const last = Number(req.headers['last-event-id'] ?? new URL(req.url ?? '/', 'http://local').searchParams.get('after') ?? 0);
+  // Events that arrive before the headers are out wait in order.
+  const early: LocalEvent[] = [];
+  let send = (e: LocalEvent) => void early.push(e);
+  const unsubscribe = await deps.threads.subscribe(threadId, Number.isFinite(last) ? last : 0, (e) => send(e));
+  if (!unsubscribe) throw new HttpError(404, `no thread ${threadId}`);
+  if (res.destroyed) return unsubscribe();
   res.writeHead(200, {
     'content-type': 'text/event-stream; charset=utf-8',
     'cache-control': 'no-cache, no-transform',
@@ -111,8 +117,8 @@ function streamEvents(deps: LocalApiDeps, threadId: string, req: HttpRequest, re
     'x-accel-buffering': 'no',
   });
   res.write('retry: 2000\n\n');
-  const send = (e: LocalEvent) => res.write(`id: ${e.seq}\nevent: ${e.type}\ndata: ${JSON.stringify(e.message)}\n\n`);
-  const unsubscribe = deps.threads.subscribe(threadId, Number.isFinite(last) ? last : 0, send);
+  send = (e: LocalEvent) => void res.write(`id: ${e.seq}\nevent: ${e.type}\ndata: ${JSON.stringify(e.message)}\n\n`);
+  for (const e of early.splice(0)) send(e);
   // A comment line now and then keeps idle proxies from closing the stream.
   const heartbeat = setInterval(() => res.write(': keep-alive\n\n'), 15_000);
   heartbeat.unref();

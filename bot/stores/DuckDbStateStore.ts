@@ -4,7 +4,8 @@
 import { mkdirSync } from 'node:fs';
 import { dirname } from 'node:path';
 import { DuckDBConnection, DuckDBInstance } from '@duckdb/node-api';
-import type { AuditEntry, AuditFilter, AuditKind, Stage, StateStore, ThreadState } from '../thread-state.js';
+import type { AuditEntry, AuditFilter, AuditKind, KeyedPost, Stage, StateStore, ThreadState } from '../thread-state.js';
+import { sendThenRecord } from './post-once.js';
 
 export class DuckDbStateStore implements StateStore {
   private queue: Promise<unknown> = Promise.resolve();
@@ -134,6 +135,15 @@ export class DuckDbStateStore implements StateStore {
         detail: JSON.parse(String(row[5])) as Record<string, unknown>,
       }));
     });
+  }
+
+  postOnce(post: KeyedPost, send: () => Promise<string>): Promise<string> {
+    return sendThenRecord(this, post, send);
+  }
+
+  /** One process owns this store; the bot serialises a thread's work in memory. */
+  withThreadLock<T>(_threadId: string, work: () => Promise<T>): Promise<T> {
+    return work();
   }
 
   async close(): Promise<void> {

@@ -1,5 +1,6 @@
 // The in-process store: for one-shot runs and tests where nothing needs to survive a restart.
-import type { AuditEntry, AuditFilter, Stage, StateStore, ThreadState } from '../thread-state.js';
+import type { AuditEntry, AuditFilter, KeyedPost, Stage, StateStore, ThreadState } from '../thread-state.js';
+import { sendThenRecord } from './post-once.js';
 import { auditMatches } from './audit-filter.js';
 
 export class MemoryStateStore implements StateStore {
@@ -14,8 +15,10 @@ export class MemoryStateStore implements StateStore {
     this.states.set(state.threadId, structuredClone(state));
   }
   async list(filter: { stages?: Stage[]; requester?: string } = {}): Promise<ThreadState[]> {
+    // Oldest update first, as the other stores list them.
     return [...this.states.values()]
       .filter((s) => (!filter.stages || filter.stages.includes(s.stage)) && (!filter.requester || s.requester === filter.requester))
+      .sort((a, b) => a.updatedAt.localeCompare(b.updatedAt) || a.threadId.localeCompare(b.threadId))
       .map((s) => structuredClone(s));
   }
   async postRef(key: string): Promise<string | undefined> {
@@ -30,6 +33,14 @@ export class MemoryStateStore implements StateStore {
   }
   async listAudit(filter: AuditFilter = {}): Promise<AuditEntry[]> {
     return this.audit.filter((e) => auditMatches(e, filter)).map((e) => structuredClone(e));
+  }
+
+  postOnce(post: KeyedPost, send: () => Promise<string>): Promise<string> {
+    return sendThenRecord(this, post, send);
+  }
+  /** One process owns this store; the bot serialises a thread's work in memory. */
+  withThreadLock<T>(_threadId: string, work: () => Promise<T>): Promise<T> {
+    return work();
   }
   async close(): Promise<void> {}
 }

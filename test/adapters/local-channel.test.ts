@@ -176,9 +176,9 @@ describe('acknowledgement', () => {
       const res = await fetch(`${channel.url}api/threads`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ author: 'ola', text: REQUEST }) });
       expect(res.status).toBe(201);
       const { threadId } = (await res.json()) as { threadId: string };
-      expect(channel.threads.get(threadId)!.messages.map((m) => m.fromBot)).toEqual([false]);
+      expect((await channel.threads.get(threadId))!.messages.map((m) => m.fromBot)).toEqual([false]);
       open();
-      await waitFor('the bot to acknowledge', () => channel.threads.get(threadId)!.messages.some((m) => m.fromBot));
+      await waitFor('the bot to acknowledge', async () => (await channel.threads.get(threadId))!.messages.some((m) => m.fromBot));
       await inbox.idle();
     } finally {
       await channel.stop();

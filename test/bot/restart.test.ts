@@ -1,16 +1,21 @@
 // Restarts: the bot is stopped while clarifying, while the plan waits, and part-way through a
-// run; a new bot on the same state file carries on. Nothing is lost and nothing posted twice.
+// run; a new bot on the same state carries on. Nothing is lost and nothing posted twice. Run on
+// the embedded DuckDB file and on the shared PostgreSQL store.
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import pLimit from 'p-limit';
+import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig } from '../../config/load.js';
 import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
 import { Bot } from '../../bot/Bot.js';
 import { presentAnswer, presentSummary } from '../../bot/present-answer.js';
 import { DuckDbStateStore } from '../../bot/stores/DuckDbStateStore.js';
+import { PostgresStateStore } from '../../bot/stores/PostgresStateStore.js';
+import type { StateStore } from '../../bot/thread-state.js';
 import { demoFixture } from '../helpers/demo-fixture.js';
+import { describeWithPostgres, uniqueName, withClient } from '../helpers/postgres.js';
 import { RecordingPort } from '../helpers/recording-port.js';
 
 let ws: Workspace;
@@ -21,8 +26,11 @@ beforeAll(async () => {
 });
 afterAll(async () => ws?.source.close());
 
-async function start(statePath: string, port: RecordingPort) {
-  const store = await DuckDbStateStore.open(statePath);
+/** Opens the same state each time it is called, as a restarted process would. */
+type Reopen = () => Promise<StateStore>;
+
+async function start(open: Reopen, port: RecordingPort) {
+  const store = await open();
   const bot = new Bot({ workspace: ws, port, store, now: () => now, presentAnswer, presentSummary, jobs: pLimit(2) });
   return { bot, store };
 }
@@ -32,21 +40,22 @@ function expectNoRepeatedKeys(port: RecordingPort) {
   expect(new Set(keys).size).toBe(keys.length);
 }
 
-describe('restarts', () => {
+function restarts(kindName: string, place: () => Promise<Reopen>): void {
+describe(`restarts (${kindName})`, () => {
   it('resumes clarifying and planning where they were', async () => {
-    const statePath = join(mkdtempSync(join(tmpdir(), 'tc-state-')), 'state.duckdb');
+    const open = await place();
     const port = new RecordingPort();
     const say = async (bot: Bot, text: string) => {
       await bot.handle({ threadId: 't1', author: 'maren', text });
       await bot.idle();
     };
 
-    let p = await start(statePath, port);
+    let p = await start(open, port);
     await say(p.bot, 'How has revenue moved over time?');
     await say(p.bot, 'leadership');
     await p.store.close(); // stopped while clarifying: the deadline question is pending
 
-    p = await start(statePath, port);
+    p = await start(open, port);
     expect(port.inThread('t1').at(-1)!.promptTopic).toBe('deadline');
     await say(p.bot, 'none');
     await say(p.bot, 'monthly');
@@ -54,7 +63,7 @@ describe('restarts', () => {
     expect(port.inThread('t1').at(-1)!.text).toMatch(/^Here is the plan/);
     await p.store.close(); // stopped while the plan waits
 
-    p = await start(statePath, port);
+    p = await start(open, port);
     await say(p.bot, 'go');
     const texts = port.inThread('t1').map((m) => m.text);
     expect(texts.some((t) => t.startsWith('*Summary*'))).toBe(true);
@@ -64,13 +73,13 @@ describe('restarts', () => {
   });
 
   it('resumes a run stopped part-way without posting any answer twice', async () => {
-    const statePath = join(mkdtempSync(join(tmpdir(), 'tc-state-')), 'state.duckdb');
+    const open = await place();
     const port = new RecordingPort();
     const say = async (bot: Bot, text: string) => {
       await bot.handle({ threadId: 't2', author: 'maren', text });
       await bot.idle();
     };
-    let p = await start(statePath, port);
+    let p = await start(open, port);
     await say(p.bot, 'How have revenue, bookings and passengers moved over time?');
     for (const answer of ['analysts', 'none', 'monthly', 'all']) await say(p.bot, answer);
     const planned = (await p.store.get('t2'))!.plan!.items.length;
@@ -81,7 +90,7 @@ describe('restarts', () => {
     await p.store.close();
     port.failOnPost = null;
 
-    p = await start(statePath, port);
+    p = await start(open, port);
     expect((await p.store.get('t2'))!.stage).toBe('running');
     await p.bot.resume();
     await p.bot.idle();
@@ -96,9 +105,9 @@ describe('restarts', () => {
   });
 
   it('answers commands: status, cancel, rerun, help, what can you measure', async () => {
-    const statePath = join(mkdtempSync(join(tmpdir(), 'tc-state-')), 'state.duckdb');
+    const open = await place();
     const port = new RecordingPort();
-    const p = await start(statePath, port);
+    const p = await start(open, port);
     const say = async (threadId: string, text: string) => {
       await p.bot.handle({ threadId, author: 'maren', text });
       await p.bot.idle();
@@ -119,10 +128,10 @@ describe('restarts', () => {
   });
 
   it('reminds a requester who has not answered, once, and warns when the deadline nears', async () => {
-    const statePath = join(mkdtempSync(join(tmpdir(), 'tc-state-')), 'state.duckdb');
+    const open = await place();
     const port = new RecordingPort();
     let clock = new Date('2026-12-01T09:00:00Z');
-    const store = await DuckDbStateStore.open(statePath);
+    const store = await open();
     const bot = new Bot({
       workspace: ws, port, store, now: () => clock, presentAnswer, presentSummary, jobs: pLimit(1),
       timings: { remindAfterMs: 60 * 60_000, deadlineWarningMs: 24 * 3_600_000 },
@@ -141,9 +150,9 @@ describe('restarts', () => {
   });
 
   it('stops a run when the requester cancels part-way, and says so', async () => {
-    const statePath = join(mkdtempSync(join(tmpdir(), 'tc-state-')), 'state.duckdb');
+    const open = await place();
     const port = new RecordingPort();
-    const store = await DuckDbStateStore.open(statePath);
+    const store = await open();
     let cancelSent = false;
     const bot: Bot = new Bot({
       workspace: ws, port, store, now: () => now, presentAnswer, presentSummary, jobs: pLimit(1),
@@ -169,5 +178,25 @@ describe('restarts', () => {
     expect(thread.some((m) => m.text.startsWith('Cancelled'))).toBe(true);
     expect((await store.get('t6'))!.stage).toBe('cancelled');
     await store.close();
+  });
+});
+}
+
+restarts('DuckDB file', async () => {
+  const statePath = join(mkdtempSync(join(tmpdir(), 'tc-state-')), 'state.duckdb');
+  return () => DuckDbStateStore.open(statePath);
+});
+
+describeWithPostgres('restarts on PostgreSQL', (url) => {
+  const schemas: string[] = [];
+  afterAll(async () => {
+    await withClient(url, async (c) => {
+      for (const s of schemas) await c.query(`DROP SCHEMA IF EXISTS ${pg.escapeIdentifier(s)} CASCADE`);
+    });
+  });
+  restarts('PostgreSQL', async () => {
+    const schema = uniqueName('tc_restart');
+    schemas.push(schema);
+    return () => PostgresStateStore.open({ url, schema, poolSize: 4, lockPoolSize: 2 });
   });
 });

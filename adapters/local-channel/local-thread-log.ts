@@ -1,0 +1,157 @@
+// The local channel's thread log: every thread's messages with their files, and a numbered log of
+// events per thread so a page that reconnects gets exactly what it missed. Two implementations:
+// in memory for one process (LocalThreads), and in PostgreSQL so every replica's API and event
+// streams show the same threads (PostgresThreadLog).
+import { randomBytes } from 'node:crypto';
+import type { FileKind, OutgoingFile, OutgoingPost } from '../../bot/port.js';
+import type { SqlSession } from '../../bot/thread-state.js';
+import { promptView, quickReplies, type PromptView, type QuickReply } from '../post-view.js';
+
+export interface LocalFile {
+  id: string;
+  name: string;
+  kind: FileKind;
+  contentType: string;
+  bytes: number;
+  url: string;
+  /** Pixel size of a PNG, so the page can reserve its space before it loads. */
+  width?: number;
+  height?: number;
+}
+
+export interface LocalMessage {
+  id: string;
+  author: string;
+  fromBot: boolean;
+  text: string;
+  prompt?: PromptView;
+  quickReplies?: QuickReply[];
+  files: LocalFile[];
+  createdAt: string;
+  updatedAt?: string;
+}
+
+export type LocalEventType = 'message.created' | 'message.updated';
+
+export interface LocalEvent {
+  seq: number;
+  type: LocalEventType;
+  message: LocalMessage;
+}
+
+/** A thread as the API shows it. */
+export interface LocalThreadView {
+  id: string;
+  title: string;
+  author: string;
+  createdAt: string;
+  messages: LocalMessage[];
+}
+
+export interface ThreadSummary {
+  id: string;
+  title: string;
+  author: string;
+  createdAt: string;
+  updatedAt: string;
+  messageCount: number;
+  /** The last message asks the requester something. */
+  waiting: boolean;
+}
+
+export type LocalEventListener = (event: LocalEvent) => void;
+
+export interface StoredFile {
+  file: LocalFile;
+  content: Buffer;
+}
+
+export interface LocalThreadLog {
+  createThread(author: string, text: string): Promise<{ thread: { id: string }; message: LocalMessage }>;
+  /** A message from a person; undefined when the thread does not exist. */
+  addPersonMessage(threadId: string, author: string, text: string): Promise<LocalMessage | undefined>;
+  /** The bot's post; a thread unknown here (from before a restart) is adopted. `session` joins the caller's transaction. */
+  addBotPost(threadId: string, post: OutgoingPost, session?: SqlSession): Promise<LocalMessage>;
+  updateText(threadId: string, messageId: string, text: string): Promise<LocalMessage>;
+  get(threadId: string): Promise<LocalThreadView | undefined>;
+  /** Newest first. */
+  list(): Promise<ThreadSummary[]>;
+  file(id: string): Promise<StoredFile | undefined>;
+  /** Events after `afterSeq`, then each new one, until the returned function is called; undefined for an unknown thread. */
+  subscribe(threadId: string, afterSeq: number, listener: LocalEventListener): Promise<(() => void) | undefined>;
+  close(): Promise<void>;
+}
+
+export function newId(): string {
+  return randomBytes(9).toString('base64url');
+}
+
+export function titleOf(text: string): string {
+  const line = text.trim().split('\n')[0] ?? '';
+  return line.length > 80 ? `${line.slice(0, 77)}...` : line;
+}
+
+export function personMessage(author: string, text: string, at: string): LocalMessage {
+  return { id: newId(), author, fromBot: false, text, files: [], createdAt: at };
+}
+
+/** The bot's post as a message, and its attachments to store beside it. */
+export function botMessage(post: OutgoingPost, botName: string, at: string): { message: LocalMessage; files: StoredFile[] } {
+  const prompt = promptView(post);
+  const replies = quickReplies(post);
+  const files = (post.files ?? []).map(storedFile);
+  const message: LocalMessage = {
+    id: newId(),
+    author: botName,
+    fromBot: true,
+    text: post.text,
+    ...(prompt ? { prompt } : {}),
+    ...(replies.length ? { quickReplies: replies } : {}),
+    files: files.map((f) => f.file),
+    createdAt: at,
+  };
+  return { message, files };
+}
+
+/** A summary of a thread from its last message. */
+export function summaryOf(t: Omit<LocalThreadView, 'messages'>, messageCount: number, last: LocalMessage | undefined): ThreadSummary {
+  return {
+    id: t.id,
+    title: t.title,
+    author: t.author,
+    createdAt: t.createdAt,
+    updatedAt: last?.updatedAt ?? last?.createdAt ?? t.createdAt,
+    messageCount,
+    waiting: Boolean(last?.fromBot && (last.prompt || last.quickReplies)),
+  };
+}
+
+function storedFile(f: OutgoingFile): StoredFile {
+  const content = typeof f.content === 'string' ? Buffer.from(f.content, 'utf8') : f.content;
+  const id = newId();
+  const size = pngSize(content);
+  const file: LocalFile = {
+    id,
+    name: f.name,
+    kind: f.kind,
+    contentType: contentTypeOf(f.name, f.kind),
+    bytes: content.length,
+    url: `/api/files/${id}`,
+    ...(size ?? {}),
+  };
+  return { file, content };
+}
+
+function contentTypeOf(name: string, kind: FileKind): string {
+  if (kind === 'chart' || name.endsWith('.png')) return 'image/png';
+  if (kind === 'table' || name.endsWith('.csv')) return 'text/csv; charset=utf-8';
+  if (kind === 'sql' || name.endsWith('.sql')) return 'application/sql; charset=utf-8';
+  return 'text/plain; charset=utf-8';
+}
+
+/** A PNG's width and height sit at fixed offsets in its first (IHDR) chunk. */
+function pngSize(b: Buffer): { width: number; height: number } | null {
+  const signature = '89504e470d0a1a0a';
+  if (b.length < 24 || b.subarray(0, 8).toString('hex') !== signature) return null;
+  return { width: b.readUInt32BE(16), height: b.readUInt32BE(20) };
+}
