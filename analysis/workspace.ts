@@ -6,7 +6,7 @@ import { compileCoverage, type Coverage, readCoverage } from './coverage.js';
 import { SourceError, timeColumnTypeOf, type DataSource, type RunOptions } from './sources/data-source.js';
 import { DuckDbSource } from './sources/duckdb-source.js';
 import { PostgresSource } from './sources/postgres-source.js';
-import type { Secrets } from '../config/secrets.js';
+import type { Secrets } from '../config/environment.js';
 
 export interface Workspace {
   config: LoadedConfig;

@@ -1,7 +1,7 @@
 // `threadcount ask`: one whole conversation with scripted answers, written to a folder.
 import { join } from 'node:path';
 import { loadConfig } from '../config/load.js';
-import { readSecrets } from '../config/secrets.js';
+import { readSecrets } from '../config/environment.js';
 import { allowedDatasets } from '../bot/access.js';
 import { closeWorkspaces, openWorkspaces } from './workspaces.js';
 import { FileThread } from '../adapters/file-thread/FileThread.js';

@@ -84,7 +84,7 @@ export const sourceSchema = z.discriminatedUnion('kind', [
   z.object({ kind: z.literal('csv'), paths: z.array(z.string().min(1)).min(1) }).strict(),
   z.object({ kind: z.literal('parquet'), paths: z.array(z.string().min(1)).min(1) }).strict(),
   // A PostgreSQL warehouse. Its URL holds a password, so the file names only the environment
-  // variable that holds it (read once at start by config/secrets.ts).
+  // variable that holds it (read once at start by config/environment.ts).
   z
     .object({
       kind: z.literal('postgres'),

@@ -1,10 +1,10 @@
 // A PostgreSQL source in the config: the file names the environment variable that holds the URL
-// (a secret), never the URL; config/secrets.ts reads only the variables the config names.
+// (a secret), never the URL; config/environment.ts reads only the variables the config names.
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { ConfigError, parseConfigText } from '../../config/load.js';
-import { readSecrets, secretNames } from '../../config/secrets.js';
+import { readSecrets, secretNames } from '../../config/environment.js';
 import { SourceError } from '../../analysis/sources/data-source.js';
 import { openWorkspace } from '../../analysis/workspace.js';
 
