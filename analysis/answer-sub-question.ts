@@ -20,11 +20,14 @@ export interface AnswerOptions {
    * change's drivers and its share shift) runs once per run.
    */
   scope?: RunScope;
+  /** Told the sub-question's queries once compiled, before they run (so a failure's SQL is known). */
+  onCompiled?: (queries: NamedQuery[]) => void;
 }
 
 export async function answerSubQuestion(sq: SubQuestion, ws: Workspace, opts: AnswerOptions = {}): Promise<Answer> {
   const template = templateFor(sq);
   const queries = compileFor(sq, template, ws, opts.scope);
+  opts.onCompiled?.(queries);
   const tables: Record<string, ResultTable> = {};
   for (const q of queries) tables[q.name] = await runShared(q, ws, opts);
   const { findings, caveats } = timePhase(opts.timings, 'read', () => template.read(sq, tables, { dataset: ws.dataset, coverage: ws.coverage }));

@@ -506,8 +506,11 @@ export class Bot {
                 now: this.deps.now(),
                 scope,
                 ...(phases ? { timings: phases } : {}),
+                // Kept before they run, so the audit log has the SQL of a sub-question that failed too.
+                onCompiled: (queries) => {
+                  ran[i] = queries;
+                },
               });
-              ran[i] = answer.queries;
               return this.deps.presentAnswer(answer, { workspace: ws, audience, position: i + 1, ...(phases ? { timings: phases } : {}) });
             })
             // Settled at once, so a failure waiting its turn to be posted is never "unhandled".
@@ -569,7 +572,15 @@ export class Bot {
         const state = await this.deps.store.get(threadId);
         if (!current(state)) return false;
         for (const q of ran[i]!) {
-          await this.audit(who, 'sql', { subQuestion: sq.id, template: sq.template, query: q.name, sql: q.sql, params: q.params, dataset: ws.dataset.name });
+          await this.audit(who, 'sql', {
+            subQuestion: sq.id,
+            template: sq.template,
+            query: q.name,
+            sql: q.sql,
+            params: q.params,
+            dataset: ws.dataset.name,
+            ...(failure ? { failed: true } : {}),
+          });
         }
         await this.postOnce(threadId, runKey(`answer:${sq.id}`), presented ? presented.post : { text: failure! }, who);
         state.run!.posted.push(sq.id);

@@ -116,6 +116,10 @@ describeWithPostgres('broken data gives clear replies and keeps the request for 
     expect(state.stage).toBe('done');
     expect(state.plan!.items).toHaveLength(t.items);
     expect(state.run!.failures).toBe(t.items);
+    // The audit log keeps the SQL each failed sub-question tried, marked as failed.
+    const tried = (await t.store.listAudit({ threadId })).filter((e) => e.kind === 'sql' && e.detail.failed === true);
+    expect(new Set(tried.map((e) => e.detail.subQuestion)).size).toBe(t.items);
+    for (const e of tried) expect(String(e.detail.sql)).toMatch(/\bSELECT\b/);
   }
 
   /** "rerun" now answers every item. */
