@@ -7,13 +7,14 @@
 // THREADCOUNT_TEST_PG_URL) the same server is measured again with its state in PostgreSQL (one
 // replica of a team deployment): a warm-up round, then one round reading the bot's replies.
 import { randomBytes } from 'node:crypto';
-import { spawn, type ChildProcess } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import { Agent, request } from 'node:http';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import pg from 'pg';
 import { parseDocument } from 'yaml';
+import { peakRssKb, stopChild } from './child-process.js';
 import { packageRoot } from './data.js';
 import { DEMO_REQUEST } from './plan.js';
 
@@ -282,24 +283,5 @@ async function startServer(configPath: string, statePath: string, extraEnv: Reco
       reject(new Error(`threadcount serve exited (${code}) before it listened: ${stderr}`));
     });
   });
-  return { url, peakKb: () => peakOf(child.pid), stop: () => stopChild(child) };
-}
-
-function peakOf(pid: number | undefined): number | null {
-  if (pid === undefined) return null;
-  try {
-    const m = /^VmHWM:\s+(\d+) kB$/m.exec(readFileSync(`/proc/${pid}/status`, 'utf8'));
-    return m ? Number(m[1]) : null;
-  } catch {
-    return null;
-  }
-}
-
-async function stopChild(child: ChildProcess): Promise<void> {
-  if (child.exitCode !== null || child.signalCode !== null) return;
-  const exited = new Promise<void>((resolve) => child.once('exit', () => resolve()));
-  child.kill('SIGTERM');
-  const timer = setTimeout(() => child.kill('SIGKILL'), 10_000);
-  await exited;
-  clearTimeout(timer);
+  return { url, peakKb: () => peakRssKb(child.pid), stop: () => stopChild(child) };
 }

@@ -1,15 +1,10 @@
 // The local channel's tables in PostgreSQL, created on start (replicas take turns, as for the
 // state tables). Messages are JSON as the API shows them; files are kept as bytes.
 import pg from 'pg';
-import { STATE_LOCKS } from '../../bot/stores/postgres-state-schema.js';
+import { migrateUnderLock } from '../../bot/stores/postgres-state-schema.js';
 
 export async function migrateThreadLogSchema(pool: pg.Pool, schema: string): Promise<void> {
-  const s = pg.escapeIdentifier(schema);
-  const client = await pool.connect();
-  try {
-    await client.query('BEGIN');
-    await client.query('SELECT pg_advisory_xact_lock($1, hashtext($2))', [STATE_LOCKS.migrate, schema]);
-    await client.query(`CREATE SCHEMA IF NOT EXISTS ${s}`);
+  await migrateUnderLock(pool, schema, async (client, s) => {
     // last_seq numbers the thread's events; bumping it takes the row lock that orders them.
     await client.query(`CREATE TABLE IF NOT EXISTS ${s}.local_threads (
       id text PRIMARY KEY, title text NOT NULL, author text NOT NULL, created_at text NOT NULL, last_seq integer NOT NULL DEFAULT 0)`);
@@ -21,11 +16,5 @@ export async function migrateThreadLogSchema(pool: pg.Pool, schema: string): Pro
       PRIMARY KEY (thread_id, seq))`);
     await client.query(`CREATE TABLE IF NOT EXISTS ${s}.local_files (
       id text PRIMARY KEY, thread_id text NOT NULL, file json NOT NULL, content bytea NOT NULL)`);
-    await client.query('COMMIT');
-  } catch (err) {
-    await client.query('ROLLBACK').catch(() => undefined);
-    throw err;
-  } finally {
-    client.release();
-  }
+  });
 }

@@ -9,13 +9,29 @@ export const STATE_LOCKS = {
   post: 0x7c03,
 } as const;
 
-export async function migrateStateSchema(pool: pg.Pool, schema: string): Promise<void> {
+/**
+ * Runs `create` in one transaction, after the schema exists, holding the migration lock for the
+ * schema: replicas starting together create their tables one at a time.
+ */
+export async function migrateUnderLock(pool: pg.Pool, schema: string, create: (client: pg.PoolClient, s: string) => Promise<void>): Promise<void> {
   const s = pg.escapeIdentifier(schema);
   const client = await pool.connect();
   try {
     await client.query('BEGIN');
     await client.query('SELECT pg_advisory_xact_lock($1, hashtext($2))', [STATE_LOCKS.migrate, schema]);
     await client.query(`CREATE SCHEMA IF NOT EXISTS ${s}`);
+    await create(client, s);
+    await client.query('COMMIT');
+  } catch (err) {
+    await client.query('ROLLBACK').catch(() => undefined);
+    throw err;
+  } finally {
+    client.release();
+  }
+}
+
+export async function migrateStateSchema(pool: pg.Pool, schema: string): Promise<void> {
+  await migrateUnderLock(pool, schema, async (client, s) => {
     // The state as JSON text (json, not jsonb, keeps it as written); stage and requester for filtering.
     await client.query(`CREATE TABLE IF NOT EXISTS ${s}.threads (
       thread_id text PRIMARY KEY, requester text NOT NULL, stage text NOT NULL, state json NOT NULL, updated_at text NOT NULL)`);
@@ -27,11 +43,5 @@ export async function migrateStateSchema(pool: pg.Pool, schema: string): Promise
       seq bigserial PRIMARY KEY, logged_at text NOT NULL, thread_id text NOT NULL, requester text NOT NULL,
       channel text NOT NULL, kind text NOT NULL, detail json NOT NULL)`);
     await client.query(`CREATE INDEX IF NOT EXISTS audit_thread ON ${s}.audit (thread_id, seq)`);
-    await client.query('COMMIT');
-  } catch (err) {
-    await client.query('ROLLBACK').catch(() => undefined);
-    throw err;
-  } finally {
-    client.release();
-  }
+  });
 }

@@ -6,6 +6,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { promisify } from 'node:util';
 import { parseDocument } from 'yaml';
+import { peakRssKb, stopChild } from '../../bench/child-process.js';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 
@@ -81,25 +82,6 @@ export async function startReplica(build: string, name: string, configPath: stri
     replicaName: `${(await import('node:os')).hostname()}:${child.pid}`,
     stderr: () => stderr,
     peakRssKb: () => peakRssKb(child.pid),
-    stop: () => stopChild(child),
+    stop: () => stopChild(child, 20_000),
   };
-}
-
-function peakRssKb(pid: number | undefined): number | null {
-  if (pid === undefined) return null;
-  try {
-    const m = /^VmHWM:\s+(\d+) kB$/m.exec(readFileSync(`/proc/${pid}/status`, 'utf8'));
-    return m ? Number(m[1]) : null;
-  } catch {
-    return null;
-  }
-}
-
-async function stopChild(child: ChildProcess): Promise<void> {
-  if (child.exitCode !== null || child.signalCode !== null) return;
-  const exited = new Promise<void>((resolve) => child.once('exit', () => resolve()));
-  child.kill('SIGTERM');
-  const timer = setTimeout(() => child.kill('SIGKILL'), 20_000);
-  await exited;
-  clearTimeout(timer);
 }
