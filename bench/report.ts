@@ -1,5 +1,6 @@
 // BENCHMARKS.md from one run's measurements: every figure and ratio comes from that run.
 import type { Phase } from '../analysis/phase-timings.js';
+import type { NamedQuery } from '../analysis/types.js';
 import { distinctQueries } from './floor.js';
 import { PEER_LIMIT_TIMES_OURS, PEER_MIN_LIMIT_MS } from './limits.js';
 import { RELATIVE_TOLERANCE, type Agreement } from './numbers.js';
@@ -43,6 +44,8 @@ interface Summary {
   distinct: number;
   charts: number[];
   digest: number[];
+  /** The first run on this version of the data: its quality check not cached. */
+  cold: { total: number; checks: number; rss: number; processMs: number };
 }
 
 function summarise(s: SizeResult): Summary {
@@ -61,8 +64,9 @@ function summarise(s: SizeResult): Summary {
     groupBy: median(s.floor.map((f) => f.groupByMs)),
     statements: s.floor[0]?.statements ?? 0,
     distinct: s.floor[0]?.distinct ?? 0,
-    charts: s.ours.flatMap((o) => o.chartRenderMs),
-    digest: s.ours.flatMap((o) => o.digestRenderMs),
+    charts: [...s.oursCold.chartRenderMs, ...s.ours.flatMap((o) => o.chartRenderMs)],
+    digest: [...s.oursCold.digestRenderMs, ...s.ours.flatMap((o) => o.digestRenderMs)],
+    cold: { total: s.oursCold.totalMs, checks: s.oursCold.phases.checks.wallMs, rss: s.oursCold.maxRssKb, processMs: s.oursColdProcessMs },
   };
 }
 
@@ -119,7 +123,8 @@ export function writeReport(run: BenchRun): string {
     '## What is measured',
     '',
     '- **Ours**: the `threadcount ask` path (`cli/ask.ts`) end to end with no network: the demo request as a stakeholder wrote it (`shared/design/demo-scenario.md`), scripted answers (revenue for the summer question, audience managers, plan "go"), the plan run through the bot (SQL, statistics, captions, charts, CSV and SQL files written to a thread folder, the digest). Timed inside a fresh Node process per run, from the call to `ask()` to its return (Node start-up and module loading excluded); phases come from the optional `PhaseTimings` collector, as wall-clock time during which at least one step of the phase ran. The bot runs two sub-questions at a time, so phases overlap and do not add up to the total.',
-    `- **Floor**: the plan's own SQL statements, exactly as our run bound them, run one after another on one DuckDB connection with the same settings and nothing around them (results read fully). Repeated statements are run once; the run with the repeats is shown too.`,
+    "- **First run and warm runs**: the data-quality report is kept per version of the data (`analysis/quality/`: the data file's path, inode, size and modification times; a JSON file beside the conversation state). Each size starts with the cache emptied, so its first run pays for the full check (the duplicate-key count over every booking id) as the first request after a data refresh would; the runs after it find the report kept and skip the check's query. Both are shown; \"ours\" without a qualifier means the warm runs.",
+    `- **Floor**: the plan's own SQL statements, exactly as our run bound them, run one after another on one DuckDB connection with the same settings and nothing around them (results read fully), as our engine executes them: the plan's rollup stored once, then each statement (those over the rollup read the stored copy). Repeated statements are run once; the run with the repeats is shown too.`,
     '- **Single GROUP BY**: one scan at the plan\'s finest grain and dimensions (month × route × channel × fare class × pass holder, with counts, sums and sums of squares): the cost of the shared scan that one rollup per plan would need.',
     `- **arquero** ${m.arquero}: the eight columns the plan uses loaded from the DuckDB file into JS arrays (dates as epoch milliseconds, amounts as doubles, route and channel dictionary-encoded; timed apart, in a Node process with a 12 GB heap), then arquero computes the same numbers from the rows.`,
     `- **pandas**: ${m.python ?? 'not available'}; \`read_csv\` of the same columns exported by DuckDB to CSV (dates parsed, route and channel as categories; timed apart), then pandas computes the same numbers.`,
@@ -130,8 +135,8 @@ export function writeReport(run: BenchRun): string {
     '',
     `- CPU: ${m.cpuModel}, ${m.cores} cores; memory ${(m.memoryBytes / 2 ** 30).toFixed(1)} GiB.`,
     `- Load average (1, 5, 15 min) at start: ${m.loadStart.map((l) => l.toFixed(2)).join(', ')}; at end: ${m.loadEnd.map((l) => l.toFixed(2)).join(', ')}.${highLoad ? ' **The machine was busy (load above 2): other work shared the cores, so absolute times are inflated; ratios within the run are less affected.**' : ''}`,
-    `- Node ${m.node}; DuckDB ${m.duckdb} (\`@duckdb/node-api\`); DuckDB threads ${run.engine.threads ?? `default (${m.cores})`}, memory limit ${run.engine.memoryLimit ?? 'default (80% of RAM)'}; ${run.engine.jobs} sub-questions at a time.`,
-    `- ${run.reps} run(s) of ours and of the floor per size, alternating, each in a fresh process; medians shown (ours: min–max in brackets). Peers run once per size. Peak memory is the process's peak resident set (\`maxRSS\`), the largest over the runs.`,
+    `- Node ${m.node}; DuckDB ${m.duckdb} (\`@duckdb/node-api\`); DuckDB threads ${run.engine.threads ?? `default (${m.cores})`}, memory limit ${run.engine.memoryLimit ?? 'DuckDB\'s default (80% of RAM)'}${run.engine.memoryLimit ? (run.engine.memoryLimitFromConfig ? ' (from the config)' : ' (threadcount\'s default when the config sets none)') : ''}; ${run.engine.jobs} sub-questions at a time.`,
+    `- Per size, one first run of ours, then ${run.reps} warm run(s) of ours and of the floor, alternating, each in a fresh process; medians shown (ours: min–max in brackets). Peers run once per size. Peak memory is the process's peak resident set (\`maxRSS\`), the largest over the runs.`,
     '',
     '## Reproduce',
     '',
@@ -158,15 +163,17 @@ export function writeReport(run: BenchRun): string {
       '',
       '| measure | time (s) | peak RSS (MB) |',
       '| --- | ---: | ---: |',
-      `| **Ours, end to end** [${sec(s.totalMin)}–${sec(s.totalMax)}] | **${sec(s.total)}** | **${mb(s.rss)}** |`,
+      `| Ours, first run on this data (quality check run in full) | ${sec(s.cold.total)} | ${mb(s.cold.rss)} |`,
+      `| · its data-quality check (one query) | ${sec(s.cold.checks)} | |`,
+      `| **Ours, end to end** (warm: quality report kept) [${sec(s.totalMin)}–${sec(s.totalMax)}] | **${sec(s.total)}** | **${mb(s.rss)}** |`,
       `| · open the dataset, read its coverage | ${sec(s.phase.open)} | |`,
-      `| · data-quality check (one query) | ${sec(s.phase.checks)} | |`,
+      `| · data-quality check (read from the cache) | ${sec(s.phase.checks)} | |`,
       `| · SQL of the plan (wall; ${sec(s.sqlSum)} s summed over steps) | ${sec(s.phase.sql)} | |`,
       `| · statistics and captions | ${sec(s.phase.read)} | |`,
-      `| · chart rendering (${s.charts.length / Math.max(1, r.ours.length)} charts and the digest) | ${sec(s.phase.render)} | |`,
+      `| · chart rendering (${r.oursCold.chartRenderMs.length} charts and the digest) | ${sec(s.phase.render)} | |`,
       `| · files and posts | ${sec(s.phase.post)} | |`,
       `| Ours as a whole process (Node start-up and loading included) | ${sec(median(r.oursProcessMs))} | |`,
-      `| **Floor**: the plan's ${s.distinct} distinct statements, sequential | **${sec(s.floor)}** | ${mb(s.floorRss)} |`,
+      `| **Floor**: the ${s.distinct} statements DuckDB executes for the plan (each distinct one once, the rollup stored once), sequential | **${sec(s.floor)}** | ${mb(s.floorRss)} |`,
       `| Floor with all ${s.statements} statements as compiled (repeats included) | ${sec(s.floorAll)} | |`,
       `| Single GROUP BY at the finest grain | ${sec(s.groupBy)} | |`,
       a ? `| arquero: load into JS arrays + compute | ${sec(a.totalMs)} | ${mb(a.maxRssKb)} |` : `| arquero | ${r.arqueroNote ?? 'n/a'} | |`,
@@ -188,6 +195,7 @@ export function writeReport(run: BenchRun): string {
   push('## Ratios', '', `| ratio | ${sizes.map((s) => rowsLabel(s.rows)).join(' | ')} |`, `| --- | ${sizes.map(() => '---:').join(' | ')} |`);
   const row = (name: string, f: (s: Summary, r: SizeResult) => string) => push(`| ${name} | ${sizes.map((s, i) => f(s, run.sizes[i]!)).join(' | ')} |`);
   row('ours ÷ floor', (s) => ratio(s.total / s.floor));
+  row('ours first run ÷ floor', (s) => ratio(s.cold.total / s.floor));
   row('ours SQL phase ÷ single GROUP BY', (s) => ratio(s.phase.sql / s.groupBy));
   row('ours SQL phase ÷ floor', (s) => ratio(s.phase.sql / s.floor));
   row('floor ÷ single GROUP BY', (s) => ratio(s.floor / s.groupBy));
@@ -196,12 +204,13 @@ export function writeReport(run: BenchRun): string {
   row('pandas ÷ ours (with its read)', (s, r) => peerRatio(r.pandas?.totalMs, r.pandasStoppedAtMs, s.total));
   row('pandas compute only ÷ ours', (s, r) => peerRatio(r.pandas?.computeMs, null, s.total));
   row('ours peak RSS (MB)', (s) => mb(s.rss));
+  row('ours first run peak RSS (MB)', (s) => mb(s.cold.rss));
   row('ours time per million rows (s)', (s) => (s.total / 1000 / (s.rows / 1e6)).toFixed(2));
   push('');
 
   // Where the floor's time goes at the largest size.
   const largest = run.sizes.at(-1)!;
-  const names = distinctQueries(largest.ours[0]!.queries).map((q) => q.name);
+  const names = executedNames(distinctQueries(largest.ours[0]!.queries));
   const perStatement = names.map((name, i) => ({ name, ms: median(largest.floor.map((f) => f.perStatementMs[i] ?? NaN)) }));
   push(
     `## The floor statement by statement (${rowsLabel(largest.rows)} rows)`,
@@ -235,8 +244,10 @@ export function writeReport(run: BenchRun): string {
       `| the same, when every sender also opens its thread's event stream | ${msText(median(ack.acceptedWithStreamsMs))} | ${msText(percentile(ack.acceptedWithStreamsMs, 0.99))} |`,
       `| the bot's first reply in the thread ("On it: …", read from the event stream) | ${msText(median(ack.acknowledgedMs))} | ${msText(percentile(ack.acknowledgedMs, 0.99))} |`,
       '',
+      ...ackReading(ack),
     );
   } else push(`Not measured: ${run.ackError ?? 'unknown error'}.`, '');
+  push(...sharedStateSection(ack));
 
   // Targets, judged on this run.
   // A peer stopped at its limit (a multiple of our time) was slower; one not run at all is not counted.
@@ -251,10 +262,10 @@ export function writeReport(run: BenchRun): string {
     '',
     '| target | measured | verdict |',
     '| --- | --- | --- |',
-    `| end to end ≤ 1.25× the SQL floor at 10M | ${t10((s) => `${ratio(s.total / s.floor)} (${sec(s.total)} s vs ${sec(s.floor)} s)`) ?? 'no 10M run'} | ${verdict(t10((s) => s.total <= 1.25 * s.floor))} |`,
+    `| end to end ≤ 1.25× the SQL floor at 10M | ${t10((s) => `${ratio(s.total / s.floor)} (${sec(s.total)} s vs ${sec(s.floor)} s); the first run on new data ${ratio(s.cold.total / s.floor)} (${sec(s.cold.total)} s)`) ?? 'no 10M run'} | ${verdict(t10((s) => s.total <= 1.25 * s.floor))}${t10((s) => s.total <= 1.25 * s.floor && s.cold.total > 1.25 * s.floor) ? ' (warm runs; not on the first run)' : ''} |`,
     `| every peer slower than us, at every size | ${run.sizes.map((r, i) => `${rowsLabel(r.rows)}: arquero ${peerRatio(r.arquero?.totalMs, r.arqueroStoppedAtMs, sizes[i]!.total)}, pandas ${peerRatio(r.pandas?.totalMs, r.pandasStoppedAtMs, sizes[i]!.total)}`).join('; ')} (peer ÷ ours, with their load/read) | ${verdict(peersRun ? peersSlower : null)}${peersSlower && !peersSlowerCompute ? ' (not on compute alone)' : ''} |`,
     `| the plan's SQL phase within 1.5× of the single GROUP BY at 10M | ${t10((s) => `${ratio(s.phase.sql / s.groupBy)} (${sec(s.phase.sql)} s vs ${sec(s.groupBy)} s)`) ?? 'no 10M run'} | ${verdict(t10((s) => s.phase.sql <= 1.5 * s.groupBy))} |`,
-    `| peak memory ≤ 500 MB at 10M | ${t10((s) => `${mb(s.rss)} MB`) ?? 'no 10M run'} | ${verdict(t10((s) => s.rss <= 500 * 1024))} |`,
+    `| peak memory ≤ 500 MB at 10M | ${t10((s) => `${mb(s.rss)} MB warm; ${mb(s.cold.rss)} MB on the first run`) ?? 'no 10M run'} | ${verdict(t10((s) => Math.max(s.rss, s.cold.rss) <= 500 * 1024))}${t10((s) => s.rss <= 500 * 1024 && s.cold.rss > 500 * 1024) ? ' (met by the warm runs only)' : ''} |`,
     `| median chart render ≤ 50 ms | ${allCharts.length ? `${msText(chartMedian)} ms over every run (${sizes.map((s) => `${rowsLabel(s.rows)}: ${msText(median(s.charts))} ms`).join(', ')}), sharing the cores with the SQL running alongside` : 'n/a'} | ${verdict(allCharts.length ? chartMedian <= 50 : null)} |`,
     `| acknowledgement p99 ≤ 100 ms (200 concurrent) | ${ack ? `${msText(ackP99)} ms for the API's 201 (the HTTP floor's p99: ${msText(percentile(ack.notFoundMs, 0.99))} ms); the bot's reply ${msText(percentile(ack.acknowledgedMs, 0.99))} ms` : 'n/a'} | ${verdict(ack ? ackP99 <= 100 : null)} |`,
     '',
@@ -262,6 +273,37 @@ export function writeReport(run: BenchRun): string {
 
   push('## Reading the cost curve', '', ...costCurve(sizes, perStatement.find((q) => q.name === 'frequency')), '');
   return `${lines.filter((l, i, all) => !(l === '' && all[i - 1] === '')).join('\n').trimEnd()}\n`;
+}
+
+/** A name for each statement the floor runs, as rollup.ts's executedStatements orders them: a shared rollup stored before its first reader. */
+function executedNames(queries: NamedQuery[]): string[] {
+  const stored = new Set<string>();
+  const names: string[] = [];
+  for (const q of queries) {
+    if (q.scan && !stored.has(q.scan.key)) {
+      stored.add(q.scan.key);
+      names.push('the rollup, stored once');
+    }
+    names.push(q.scan ? `${q.name} (over the rollup)` : q.name);
+  }
+  return names;
+}
+
+/**
+ * What bounds the acknowledgement here. Under a burst the last requests wait for the server to
+ * accept, read and answer all the others on its one event loop, and the client shares the cores,
+ * so the 404's p99 is what any answer costs on this machine; the 201's extra is its own work.
+ */
+function ackReading(ack: NonNullable<BenchRun['ack']>): string[] {
+  const floorP99 = percentile(ack.notFoundMs, 0.99);
+  const acceptedP99 = percentile(ack.acceptedMs, 0.99);
+  const out = [
+    `The API's 201 at the 99th percentile is ${msText(acceptedP99 - floorP99)} ms above the HTTP floor's (${ratio(acceptedP99 / floorP99)}): reading and checking the body, recording the message, and the bot's work on the first requests (its state store's writes) running while the last ones still wait.`,
+  ];
+  if (floorP99 > 100) {
+    out.push(`The floor's own p99, ${msText(floorP99)} ms for a 404 that does no work, is above the 100 ms target: with 200 new connections at once and the client on the same two cores, no answer can come sooner on this machine.`);
+  }
+  return [...out, ''];
 }
 
 /** A few sentences computed from the run: fixed and per-row costs, and where the time goes. */
@@ -280,7 +322,7 @@ function costCurve(sizes: Summary[], perCustomer: { ms: number } | undefined): s
   for (const s of sizes) {
     const sqlShare = (s.phase.sql + s.phase.checks) / s.total;
     out.push(
-      `- At ${rowsLabel(s.rows)}: SQL (the plan's queries plus the data-quality check) is ${(sqlShare * 100).toFixed(0)}% of the wall time, and the plan's SQL phase is ${ratio(s.phase.sql / s.floor)} the floor. The data-quality check, which runs before the plan's queries and which the floor does not include, takes ${sec(s.phase.checks)} s; without it ours would be about ${ratio((s.total - s.phase.checks) / s.floor)} the floor. The floor is ${ratio(s.floor / s.groupBy)} the single GROUP BY.`,
+      `- At ${rowsLabel(s.rows)}: SQL (the plan's queries plus the data-quality check) is ${(sqlShare * 100).toFixed(0)}% of the wall time, and the plan's SQL phase is ${ratio(s.phase.sql / s.floor)} the floor. The data-quality check, which runs before the plan's queries and which the floor does not include, takes ${sec(s.cold.checks)} s on the first run on new data (${ratio(s.cold.total / s.floor)} the floor in all) and ${sec(s.phase.checks)} s once its report is kept. The floor is ${ratio(s.floor / s.groupBy)} the single GROUP BY.`,
     );
   }
   if (perCustomer) {
@@ -289,7 +331,27 @@ function costCurve(sizes: Summary[], perCustomer: { ms: number } | undefined): s
     );
   }
   out.push(
-    "- What would close the SQL gap: one rollup per plan for the additive measures (counts and sums by month × the plan's dimensions × pass holding, at about the single GROUP BY's cost), with every additive sub-question read from it, leaving only the non-additive ones (bookings per customer, distinct counts) as queries of their own. That is a redesign of how plans compile and is not attempted here. The data-quality check's duplicate-key count groups every key of the table, run after run on the same data; kept per data version (e.g. in the state store, keyed by the file's modification time and row count) only the first run after a change would pay for it.",
+    "- The plan's additive sub-questions read one rollup of the table (the floor's first statement); the per-customer question still reads every row. The data-quality check's duplicate-key count groups every booking id; its report is kept per version of the data, so only the first request after the data changes pays for it (the first run above).",
+  );
+  return out;
+}
+
+/** Team deployment: one replica with its state in PostgreSQL, under the same 200 requests at once. */
+function sharedStateSection(ack: BenchRun['ack']): string[] {
+  const out = ['## Chat side: state in PostgreSQL (team deployment)', ''];
+  const shared = ack?.shared;
+  if (!shared) {
+    out.push(ack?.sharedError ? `Not measured: ${ack.sharedError}.` : 'Not measured: no PostgreSQL URL was given (THREADCOUNT_BENCH_PG_URL or THREADCOUNT_TEST_PG_URL).', '');
+    return out;
+  }
+  out.push(
+    `One \`threadcount serve\` replica with \`conversation.state\` in PostgreSQL (threads, post keys, audit log, the local channel's thread log and the run queue), sent ${shared.requests} requests at once through the local channel API after an unmeasured warm-up round; each sender read its thread's event stream until the bot's first message. ${shared.completed} of ${shared.requests} answered within the time limit. Replica peak RSS ${shared.serverMaxRssKb ? `${mb(shared.serverMaxRssKb)} MB` : 'n/a'}; PostgreSQL ran on the same two cores.`,
+    '',
+    '| from the request to | median (ms) | p99 (ms) |',
+    '| --- | ---: | ---: |',
+    `| the API's acknowledgement (201: message written to PostgreSQL) | ${msText(median(shared.acceptedMs))} | ${msText(percentile(shared.acceptedMs, 0.99))} |`,
+    `| the bot's first reply in the thread (read from the event stream) | ${msText(median(shared.acknowledgedMs))} | ${msText(percentile(shared.acknowledgedMs, 0.99))} |`,
+    '',
   );
   return out;
 }

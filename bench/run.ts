@@ -10,6 +10,8 @@ import { join, relative } from 'node:path';
 import { parseArgs } from 'node:util';
 import { DuckDBInstance } from '@duckdb/node-api';
 import { loadConfig } from '../config/load.js';
+import { qualityCacheDir } from '../analysis/quality/quality-cache.js';
+import { DEFAULT_MEMORY_LIMIT } from '../analysis/sources/duckdb-source.js';
 import { measureAck, type AckResult } from './ack.js';
 import { benchData, cacheDir, generatorVersion, packageRoot, type BenchData } from './data.js';
 import type { FloorArgs, FloorResult } from './floor.js';
@@ -36,9 +38,13 @@ export interface SizeResult {
   rows: number;
   generatedSeconds: number | null;
   databaseBytes: number;
+  /** Warm runs: the data's quality report already kept for this version of the data. */
   ours: OursResult[];
-  /** Each run of ours as a whole process (Node start-up and module loading included), as the parent saw it. */
+  /** Each warm run of ours as a whole process (Node start-up and module loading included), as the parent saw it. */
   oursProcessMs: number[];
+  /** The first run on this version of the data (the quality cache emptied first), so its check runs in full. */
+  oursCold: OursResult;
+  oursColdProcessMs: number;
   floor: FloorResult[];
   arquero: PeerResult | null;
   arqueroAgreement: Agreement | null;
@@ -70,7 +76,8 @@ export interface BenchRun {
   command: string;
   reps: number;
   machine: Machine;
-  engine: { threads: number | null; memoryLimit: string | null; jobs: number };
+  /** The engine's settings as our runs and the floor used them; the memory limit is threadcount's default unless the config sets one. */
+  engine: { threads: number | null; memoryLimit: string | null; memoryLimitFromConfig: boolean; jobs: number };
   sizes: SizeResult[];
   ack: AckResult | null;
   ackError: string | null;
@@ -120,11 +127,16 @@ async function main(): Promise<void> {
   log(`machine: ${machine.cores} cores, load ${machine.loadStart.map((l) => l.toFixed(2)).join(' ')}; sizes ${sizes.join(', ')}; ${reps} rep(s)`);
 
   const results: SizeResult[] = [];
-  let engine: BenchRun['engine'] = { threads: null, memoryLimit: null, jobs: 0 };
+  let engine: BenchRun['engine'] = { threads: null, memoryLimit: null, memoryLimitFromConfig: false, jobs: 0 };
   for (const rows of sizes) {
     const data = await benchData(rows, log);
     const config = loadConfig(data.configPath);
-    engine = { threads: config.engine.threads ?? null, memoryLimit: config.engine.memory_limit ?? null, jobs: config.conversation.max_concurrent_jobs };
+    engine = {
+      threads: config.engine.threads ?? null,
+      memoryLimit: config.engine.memory_limit ?? DEFAULT_MEMORY_LIMIT,
+      memoryLimitFromConfig: config.engine.memory_limit !== undefined,
+      jobs: config.conversation.max_concurrent_jobs,
+    };
     results.push(await measureSize(data, reps, engine, python));
   }
 
@@ -169,12 +181,22 @@ async function measureSize(data: BenchData, reps: number, engine: BenchRun['engi
   const ours: OursResult[] = [];
   const oursProcessMs: number[] = [];
   const floor: FloorResult[] = [];
-  for (let i = 0; i < reps; i++) {
-    log(`${label} rows: ours, run ${i + 1} of ${reps}...`);
+  const runOurs = async (): Promise<{ result: OursResult; processMs: number }> => {
     const spawned = performance.now();
     const o = await child<OursResult>('ours', { configPath: data.configPath });
-    oursProcessMs.push(performance.now() - spawned);
+    const processMs = performance.now() - spawned;
     if (o.end !== 'done') throw new Error(`the demo conversation ended "${o.end}", not "done"`);
+    return { result: o, processMs };
+  };
+  // The first request on a new version of the data finds no quality report kept for it.
+  rmSync(qualityCacheDir(loadConfig(data.configPath)), { recursive: true, force: true });
+  log(`${label} rows: ours, first run on this data (quality check not cached)...`);
+  const cold = await runOurs();
+  log(`${label} rows: ours (first run) ${(cold.result.totalMs / 1000).toFixed(2)} s, quality check ${(cold.result.phases.checks.wallMs / 1000).toFixed(2)} s`);
+  for (let i = 0; i < reps; i++) {
+    log(`${label} rows: ours, run ${i + 1} of ${reps}...`);
+    const { result: o, processMs } = await runOurs();
+    oursProcessMs.push(processMs);
     ours.push(o);
     log(`${label} rows: ours ${(o.totalMs / 1000).toFixed(2)} s; the floor, run ${i + 1} of ${reps}...`);
     const floorArgs: FloorArgs = {
@@ -187,9 +209,9 @@ async function measureSize(data: BenchData, reps: number, engine: BenchRun['engi
     floor.push(f);
     log(`${label} rows: floor ${(f.floorMs / 1000).toFixed(2)} s, single GROUP BY ${(f.groupByMs / 1000).toFixed(2)} s`);
   }
-  const reference = ours[0]!.numbers;
+  const reference = cold.result.numbers;
   const peerLimitMs = Math.round(Math.max(PEER_MIN_LIMIT_MS, PEER_LIMIT_TIMES_OURS * median(ours.map((o) => o.totalMs))));
-  const oursAgreement = ours.length > 1 ? merge(ours.slice(1).map((o) => compareNumbers(reference, o.numbers))) : null;
+  const oursAgreement = merge(ours.map((o) => compareNumbers(reference, o.numbers)));
 
   log(`${label} rows: arquero (load into JS arrays, then compute)...`);
   let arquero: PeerResult | null = null;
@@ -232,6 +254,8 @@ async function measureSize(data: BenchData, reps: number, engine: BenchRun['engi
     databaseBytes: statSync(data.databasePath).size,
     ours,
     oursProcessMs,
+    oursCold: cold.result,
+    oursColdProcessMs: cold.processMs,
     floor,
     arquero,
     arqueroAgreement,
@@ -275,7 +299,9 @@ async function child<T>(mode: string, args: unknown, opts: { nodeArgs?: string[]
     const script = join(packageRoot(), 'dist', 'bench', 'child.js');
     let timedOut = false;
     const code = await new Promise<number | null>((resolve, reject) => {
-      const p = spawn(process.execPath, [...(opts.nodeArgs ?? []), script, mode, argsFile, resultFile], { stdio: ['ignore', 'inherit', 'inherit'] });
+      // Run in its own folder, so anything a measurement leaves in its working directory (DuckDB
+      // spills to ./.tmp when no temporary folder is set) goes with it.
+      const p = spawn(process.execPath, [...(opts.nodeArgs ?? []), script, mode, argsFile, resultFile], { stdio: ['ignore', 'inherit', 'inherit'], cwd: dir });
       const timer = opts.timeoutMs
         ? setTimeout(() => {
             timedOut = true;

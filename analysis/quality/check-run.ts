@@ -1,9 +1,12 @@
-// Data quality for one run: one query over the columns the plan uses, then each answer gets
-// the caveats for the columns it used.
+// Data quality for one run: one query over the columns the plan uses (or its report kept from
+// an earlier run on the same data, quality-cache.ts), then each answer gets the caveats for the
+// columns it used.
 import { dimensionByName, metricByName, metricColumns } from '../catalog.js';
 import type { Caveat, SubQuestion } from '../types.js';
 import type { Workspace } from '../workspace.js';
-import { compileQualityChecks, readQuality, type QualityReport } from './quality-checks.js';
+import { dataVersion } from './data-version.js';
+import { entryKey, qualityCacheFile, readEntry, type QualityEntry, writeEntry } from './quality-cache.js';
+import { catalogColumns, compileQualityChecks, readQuality, type QualityCheckOptions, type QualityReport } from './quality-checks.js';
 import { qualityCaveats } from './quality-caveats.js';
 
 // Data older than this is flagged as stale (common practice for monthly reporting).
@@ -23,11 +26,56 @@ export function columnsUsed(sq: SubQuestion, ws: Workspace): string[] {
   return [...cols];
 }
 
+/**
+ * The quality report for the columns the plan's sub-questions use. Reused from the cache while
+ * the data's version (data-version.ts) and the check's definition are unchanged; columns not
+ * yet checked for this version are checked alone, without counting repeated keys again.
+ */
 export async function checkQuality(items: SubQuestion[], ws: Workspace): Promise<QualityReport> {
   const columns = [...new Set(items.flatMap((sq) => columnsUsed(sq, ws)))];
+  const version = await dataVersion(ws).catch(() => null);
+  if (version === null) return runChecks(ws, columns);
+  const key = entryKey(version, checkDefinition(ws));
+  const file = qualityCacheFile(ws.config, ws.dataset);
+  const cached = await readEntry(file, key);
+  const known = new Set(cached?.nulls.map((n) => n.column));
+  const missing = columns.filter((c) => !known.has(c));
+  if (cached && missing.length === 0) return reportFor(cached, columns);
+  const fresh = await runChecks(ws, missing, { duplicates: cached === null });
+  const entry: QualityEntry = cached
+    ? { ...cached, nulls: [...cached.nulls, ...fresh.nulls.map(({ column, count }) => ({ column, count }))] }
+    : { key, rows: fresh.rows, lastDate: fresh.lastDate, duplicateKeys: fresh.duplicateKeys, negatives: fresh.negatives, nulls: fresh.nulls.map(({ column, count }) => ({ column, count })) };
+  // Stored only if the data kept its version while the check ran: otherwise the report may
+  // describe either version, and belongs to neither.
+  if ((await dataVersion(ws).catch(() => null)) === version) await writeEntry(file, entry);
+  return reportFor(entry, columns);
+}
+
+async function runChecks(ws: Workspace, columns: string[], opts: QualityCheckOptions = {}): Promise<QualityReport> {
   const tables: Record<string, Awaited<ReturnType<Workspace['source']['run']>>> = {};
-  for (const q of compileQualityChecks(ws.context, columns)) tables[q.name] = await ws.source.run(q, ws.runOptions);
+  for (const q of compileQualityChecks(ws.context, columns, opts)) tables[q.name] = await ws.source.run(q, ws.runOptions);
   return readQuality(tables, { dataset: ws.dataset });
+}
+
+/** The check over every column the catalog names, as SQL: a change to the dataset's config or to the check changes it. */
+function checkDefinition(ws: Workspace): string {
+  const q = compileQualityChecks(ws.context, [...catalogColumns(ws.dataset)].sort())[0]!;
+  return JSON.stringify([ws.context.timeColumnType, q.sql, q.params]);
+}
+
+/** The report a fresh check of `columns` gives, from the kept parts: the same columns, in the same order. */
+function reportFor(entry: QualityEntry, columns: string[]): QualityReport {
+  const nulls = new Map(entry.nulls.map((n) => [n.column, n.count]));
+  return {
+    rows: entry.rows,
+    nulls: columns.map((column) => {
+      const count = nulls.get(column) ?? 0;
+      return { column, count, share: entry.rows > 0 ? count / entry.rows : 0 };
+    }),
+    duplicateKeys: entry.duplicateKeys,
+    negatives: entry.negatives,
+    lastDate: entry.lastDate,
+  };
 }
 
 export function qualityCaveatsFor(sq: SubQuestion, report: QualityReport, ws: Workspace, now: Date): Caveat[] {

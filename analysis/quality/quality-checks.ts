@@ -41,7 +41,15 @@ export function catalogColumns(ds: DatasetConfig): Set<string> {
   return cols;
 }
 
-export function compileQualityChecks(ctx: CompileContext, columns: string[]): NamedQuery[] {
+export interface QualityCheckOptions {
+  /**
+   * Count repeated keys (default true). The count groups every key of the table, the costly part
+   * of the check; a caller that already knows it for this data leaves it out.
+   */
+  duplicates?: boolean;
+}
+
+export function compileQualityChecks(ctx: CompileContext, columns: string[], opts: QualityCheckOptions = {}): NamedQuery[] {
   const ds = ctx.dataset;
   const known = catalogColumns(ds);
   const unknown = columns.filter((c) => !known.has(c));
@@ -58,7 +66,7 @@ export function compileQualityChecks(ctx: CompileContext, columns: string[]): Na
   }
   let dups = '';
   let join = '';
-  if (ds.key_column) {
+  if (ds.key_column && opts.duplicates !== false) {
     const key = q.ident(ds.key_column);
     dups = `,
 repeated AS (

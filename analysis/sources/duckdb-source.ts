@@ -1,6 +1,9 @@
 // The embedded engine. Opens the configured file read-only (or views over CSV/Parquet files),
 // and converts every column explicitly so BIGINT and DECIMAL never lose precision by accident.
+import { randomBytes } from 'node:crypto';
 import { existsSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { DuckDBConnection, DuckDBInstance, type DuckDBType, DuckDBTypeId } from '@duckdb/node-api';
 import type { EngineConfig, SourceConfig } from '../../config/schema.js';
 import { duckdbDialect } from '../sql/dialect.js';
@@ -15,6 +18,14 @@ export interface DuckDbSourceOptions {
   table: string;
   engine: EngineConfig;
 }
+
+/**
+ * The engine's memory when the config sets none. DuckDB's own default, 80% of the machine's
+ * memory, suits a process that has the machine to itself, not a chat service beside others; with
+ * 128 MB the whole process stays near 500 MB at 10M rows (BENCHMARKS.md), and a query that needs
+ * more spills to disk. Set engine.memory_limit higher for speed on large tables.
+ */
+export const DEFAULT_MEMORY_LIMIT = '128MB';
 
 // Sub-question jobs run a few at a time; DuckDB parallelises each query across its own threads.
 const POOL_SIZE = 4;
@@ -51,7 +62,10 @@ export class DuckDbSource implements DataSource {
   static async open(opts: DuckDbSourceOptions): Promise<DuckDbSource> {
     const settings: Record<string, string> = {};
     if (opts.engine.threads) settings.threads = String(opts.engine.threads);
-    if (opts.engine.memory_limit) settings.memory_limit = opts.engine.memory_limit;
+    settings.memory_limit = opts.engine.memory_limit ?? DEFAULT_MEMORY_LIMIT;
+    // Spills go to a folder of this engine's own under the system's temporary folder (DuckDB
+    // makes it when first needed and removes it on close), never into the working directory.
+    settings.temp_directory = join(tmpdir(), `threadcount-duckdb-${process.pid}-${randomBytes(4).toString('hex')}`);
     for (const p of opts.paths) {
       if (!existsSync(p)) throw new SourceError('unreachable', `the data file ${p} does not exist`);
     }
