@@ -1,6 +1,6 @@
 // What the sub-questions of one run share: results of identical queries, and one rollup of the
 // table (one scan) for every sub-question whose numbers are sums and counts.
-import { runRollup } from './rollup/eligibility.js';
+import { covers, rollupNeeds, runRollup } from './rollup/eligibility.js';
 import type { RollupShape } from './rollup/rollup.js';
 import type { ResultTable, SubQuestion } from './types.js';
 import type { Workspace } from './workspace.js';
@@ -10,6 +10,13 @@ export interface RunScope {
   results: Map<string, Promise<ResultTable>>;
   /** The rollup this run's additive sub-questions read, or null when they read the table. */
   rollup: RollupShape | null;
+  /**
+   * Plan positions in the order to start them: sub-questions that scan the table (per-customer
+   * groupings, distinct counts, comparisons of rows) first, then those reading the rollup, each
+   * group in plan order. With a few jobs at a time the longest work starts at once, and the
+   * rollup readers fill in beside it.
+   */
+  startOrder(items: SubQuestion[]): number[];
   /** Frees whatever the run kept in the engine; safe to call twice. */
   close(): Promise<void>;
 }
@@ -28,5 +35,13 @@ export interface RunScopeOptions {
 
 export function openRunScope(items: SubQuestion[], ws: Workspace, opts: RunScopeOptions = {}): RunScope {
   const rollup = opts.sharedScan === false ? null : runRollup(items, ws.dataset, MIN_READERS);
-  return { results: new Map(), rollup, close: async () => undefined };
+  const readsRollup = (sq: SubQuestion) => {
+    const need = rollup ? rollupNeeds(sq, ws.dataset) : null;
+    return !!rollup && !!need && covers(rollup, need);
+  };
+  const startOrder = (list: SubQuestion[]) => {
+    const positions = list.map((_, i) => i);
+    return [...positions.filter((i) => !readsRollup(list[i]!)), ...positions.filter((i) => readsRollup(list[i]!))];
+  };
+  return { results: new Map(), rollup, startOrder, close: async () => undefined };
 }

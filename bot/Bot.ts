@@ -466,18 +466,24 @@ export class Bot {
   private async runPlan(started: ThreadState): Promise<void> {
     const plan = started.plan!;
     const ws = this.workspaceOf(started);
-    // One data-quality pass per run; if it cannot run, each answer reports its own error.
-    const quality = await timePhase(this.deps.phases, 'checks', () => checkQuality(plan.items, ws)).catch(() => undefined);
-    // What this run's sub-questions share (identical queries run once); freed when the run ends.
+    // What this run's sub-questions share (one rollup; identical queries run once); freed when the run ends.
     const scope = openRunScope(plan.items, ws);
     try {
-      await this.runPlanIn(started, ws, scope, quality);
+      await this.runPlanIn(started, ws, scope);
     } finally {
       await scope.close();
     }
   }
 
-  private async runPlanIn(started: ThreadState, ws: Workspace, scope: RunScope, quality: QualityReport | undefined): Promise<void> {
+  /** One data-quality pass per run, its SQL in the audit log; if it cannot run, each answer reports its own error. */
+  private async checkRunQuality(items: SubQuestion[], ws: Workspace, who: Who): Promise<QualityReport | undefined> {
+    const ran: NamedQuery[] = [];
+    const quality = await timePhase(this.deps.phases, 'checks', () => checkQuality(items, ws, { onQuery: (q) => ran.push(q) })).catch(() => undefined);
+    for (const q of ran) await this.audit(who, 'sql', { subQuestion: null, template: 'quality_check', query: q.name, sql: q.sql, params: q.params, dataset: ws.dataset.name });
+    return quality;
+  }
+
+  private async runPlanIn(started: ThreadState, ws: Workspace, scope: RunScope): Promise<void> {
     const threadId = started.threadId;
     const plan = started.plan!;
     const run = started.run!;
@@ -489,13 +495,18 @@ export class Bot {
     const phases = this.deps.phases;
     if (!(await this.mayRun(started, who))) return;
     await this.deps.store.appendAudit(this.runEntry(who, 'started', run.number));
+    const quality = await this.checkRunQuality(plan.items, ws, who);
     const progressRef = await this.postOnce(threadId, runKey('progress'), { text: replies.progress(run.posted.length, plan.items.length) }, who);
     // The queries each sub-question ran, for the audit log (kept even when presenting fails).
     const ran = plan.items.map(() => [] as NamedQuery[]);
     // Once the run stops (cancelled, finished, or failed), jobs still waiting their turn are skipped.
     let stopped = false;
-    const pending = plan.items.map((sq, i) =>
-      run.posted.includes(sq.id)
+    // Jobs queue in start order (the long table scans first, so they are not left for last);
+    // answers are still posted in plan order.
+    const pending: (Promise<{ presented: PresentedPost | null; failure: string | null }> | null)[] = plan.items.map(() => null);
+    for (const i of scope.startOrder(plan.items)) {
+      const sq = plan.items[i]!;
+      pending[i] = run.posted.includes(sq.id)
         ? null
         : this.deps
             .jobs(async () => {
@@ -517,8 +528,8 @@ export class Bot {
             .then(
               (presented) => ({ presented, failure: null }),
               (err: unknown) => ({ presented: null, failure: replies.subQuestionFailed(i + 1, err) }),
-            ),
-    );
+            );
+    }
     try {
       await this.postInOrder(started, ws, audience, who, pending, ran, charts, progressRef);
     } finally {

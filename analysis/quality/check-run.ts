@@ -2,7 +2,7 @@
 // an earlier run on the same data, quality-cache.ts), then each answer gets the caveats for the
 // columns it used.
 import { dimensionByName, metricByName, metricColumns } from '../catalog.js';
-import type { Caveat, SubQuestion } from '../types.js';
+import type { Caveat, NamedQuery, SubQuestion } from '../types.js';
 import type { Workspace } from '../workspace.js';
 import { dataVersion } from './data-version.js';
 import { entryKey, qualityCacheFile, readEntry, type QualityEntry, writeEntry } from './quality-cache.js';
@@ -31,17 +31,17 @@ export function columnsUsed(sq: SubQuestion, ws: Workspace): string[] {
  * the data's version (data-version.ts) and the check's definition are unchanged; columns not
  * yet checked for this version are checked alone, without counting repeated keys again.
  */
-export async function checkQuality(items: SubQuestion[], ws: Workspace): Promise<QualityReport> {
+export async function checkQuality(items: SubQuestion[], ws: Workspace, opts: { onQuery?: (q: NamedQuery) => void } = {}): Promise<QualityReport> {
   const columns = [...new Set(items.flatMap((sq) => columnsUsed(sq, ws)))];
   const version = await dataVersion(ws).catch(() => null);
-  if (version === null) return runChecks(ws, columns);
+  if (version === null) return runChecks(ws, columns, {}, opts.onQuery);
   const key = entryKey(version, checkDefinition(ws));
   const file = qualityCacheFile(ws.config, ws.dataset);
   const cached = await readEntry(file, key);
   const known = new Set(cached?.nulls.map((n) => n.column));
   const missing = columns.filter((c) => !known.has(c));
   if (cached && missing.length === 0) return reportFor(cached, columns);
-  const fresh = await runChecks(ws, missing, { duplicates: cached === null });
+  const fresh = await runChecks(ws, missing, { duplicates: cached === null }, opts.onQuery);
   const entry: QualityEntry = cached
     ? { ...cached, nulls: [...cached.nulls, ...fresh.nulls.map(({ column, count }) => ({ column, count }))] }
     : { key, rows: fresh.rows, lastDate: fresh.lastDate, duplicateKeys: fresh.duplicateKeys, negatives: fresh.negatives, nulls: fresh.nulls.map(({ column, count }) => ({ column, count })) };
@@ -51,9 +51,12 @@ export async function checkQuality(items: SubQuestion[], ws: Workspace): Promise
   return reportFor(entry, columns);
 }
 
-async function runChecks(ws: Workspace, columns: string[], opts: QualityCheckOptions = {}): Promise<QualityReport> {
+async function runChecks(ws: Workspace, columns: string[], opts: QualityCheckOptions = {}, onQuery?: (q: NamedQuery) => void): Promise<QualityReport> {
   const tables: Record<string, Awaited<ReturnType<Workspace['source']['run']>>> = {};
-  for (const q of compileQualityChecks(ws.context, columns, opts)) tables[q.name] = await ws.source.run(q, ws.runOptions);
+  for (const q of compileQualityChecks(ws.context, columns, opts)) {
+    onQuery?.(q);
+    tables[q.name] = await ws.source.run(q, ws.runOptions);
+  }
   return readQuality(tables, { dataset: ws.dataset });
 }
 

@@ -88,6 +88,22 @@ describe('which sub-questions read the rollup', () => {
   });
 });
 
+describe('the order a run starts its sub-questions in', () => {
+  it('starts the table scans first, then the rollup readers, each in plan order', () => {
+    const scope = openRunScope(ALL, ws);
+    const order = scope.startOrder(ALL);
+    expect([...order].sort((a, b) => a - b)).toEqual(ALL.map((_, i) => i));
+    const reads = (i: number) => rollupNeeds(ALL[i]!, ws.dataset) !== null;
+    const firstReader = order.findIndex(reads);
+    expect(firstReader).toBeGreaterThan(0);
+    expect(order.slice(0, firstReader).every((i) => !reads(i))).toBe(true);
+    expect(order.slice(firstReader).every(reads)).toBe(true);
+    for (const part of [order.slice(0, firstReader), order.slice(firstReader)]) expect(part).toEqual([...part].sort((a, b) => a - b));
+    // Without a rollup every sub-question reads the table: plan order.
+    expect(openRunScope(ALL, ws, { sharedScan: false }).startOrder(ALL)).toEqual(ALL.map((_, i) => i));
+  });
+});
+
 describe('answers over the rollup equal answers read from the table', () => {
   let scope: ReturnType<typeof openRunScope>;
   beforeAll(() => {

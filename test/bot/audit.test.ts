@@ -42,7 +42,10 @@ class KeyedPort implements ThreadPort {
 
 let ws: Workspace;
 beforeAll(async () => {
-  ws = await openWorkspace(loadConfig((await demoFixture()).configPath));
+  const config = loadConfig((await demoFixture()).configPath);
+  // A state folder of its own: the quality cache beside it starts empty, so the run's check runs (and is logged).
+  const stateDir = mkdtempSync(join(tmpdir(), 'threadcount-audit-state-'));
+  ws = await openWorkspace({ ...config, conversation: { ...config.conversation, state_path: join(stateDir, 'state.duckdb') } });
 });
 afterAll(async () => {
   await ws?.source.close();
@@ -100,8 +103,18 @@ describe('the audit log of a demo conversation', () => {
     expect(posts.every((e) => e.requester === 'maren' && e.channel === 'local')).toBe(true);
   });
 
+  it('logs the run\'s data-quality query before any answer\'s SQL', () => {
+    const quality = audit.filter((e) => e.kind === 'sql' && e.detail.template === 'quality_check');
+    expect(quality).toHaveLength(1);
+    expect(quality[0]!.detail.subQuestion).toBeNull();
+    // The duplicate-key count over the configured key column is part of it.
+    expect(String(quality[0]!.detail.sql)).toContain('"booking_id"');
+    const firstAnswerSql = audit.findIndex((e) => e.kind === 'sql' && e.detail.subQuestion !== null);
+    expect(audit.indexOf(quality[0]!)).toBeLessThan(firstAnswerSql);
+  });
+
   it('lists every SQL that ran, equal to the SQL files attached, each before its answer\'s post', () => {
-    const sql = audit.filter((e) => e.kind === 'sql');
+    const sql = audit.filter((e) => e.kind === 'sql' && e.detail.subQuestion !== null);
     const answers = port.posts.filter((p) => p.files.some((f) => f.name.endsWith('.sql')));
     expect(answers.length).toBeGreaterThanOrEqual(12);
     const ids = answers.map((p) => /:answer:(.+)$/.exec(p.key)![1]!);
