@@ -119,6 +119,7 @@ export type DatasetConfig = z.infer<typeof datasetSchema>;
 export const engineSchema = z
   .object({
     threads: z.number().int().min(1).max(256).optional(),
+    // DuckDB's memory limit; the source sets 128MB when unset (see analysis/sources/duckdb-source.ts).
     memory_limit: z.string().regex(/^\d+(\.\d+)?\s*(KB|MB|GB|TB|KiB|MiB|GiB|TiB)$/i).optional(),
     statement_timeout_ms: z.number().int().min(100).default(60_000),
     max_result_rows: z.number().int().min(10).max(1_000_000).default(10_000),
