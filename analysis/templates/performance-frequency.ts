@@ -38,27 +38,10 @@ export function compileFrequency(sq: SubQuestion, ctx: CompileContext): NamedQue
   const group = resolveGroup(ds, sq);
   if (!group.unit_column) throw new Error(`comparison group ${group.name} has no unit_column, so there is no unit to count per`);
   const q = new QueryBuilder(ctx.dialect);
-  const d = ctx.dialect;
   const unit = q.ident(group.unit_column);
   const where = whereClause(q, ctx, comparisonWindow(sq, group).window, sq.filters);
-  const buckets = isCount(metric)
-    ? FREQUENCY_BUCKETS.map((b, i) => {
-        const lo = `tc_value >= ${q.bind(b.min)}`;
-        const cond = b.max === null ? lo : `${lo} AND tc_value <= ${q.bind(b.max)}`;
-        return `${d.toDouble(`COUNT(*) FILTER (WHERE ${cond})`)} AS tc_bucket_${i}`;
-      })
-    : [];
-  const summary = [
-    `${d.toDouble('COUNT(tc_value)')} AS tc_n`,
-    `${d.toDouble('AVG(tc_value)')} AS tc_mean`,
-    `${d.toDouble('var_samp(tc_value)')} AS tc_var`,
-    `${d.toDouble('percentile_cont(0.5) WITHIN GROUP (ORDER BY tc_value)')} AS tc_median`,
-    `${d.toDouble('percentile_cont(0.9) WITHIN GROUP (ORDER BY tc_value)')} AS tc_p90`,
-    `${d.toDouble('SUM(tc_value)')} AS tc_total`,
-    ...buckets,
-  ];
   // A unit is a member when any of its rows in the window carries the group flag.
-  const body = `WITH tc_units AS (
+  const units = `WITH tc_units AS (
   SELECT ${unit} AS tc_unit,
     MAX(CASE WHEN ${q.ident(group.column)} IS TRUE THEN 1 ELSE 0 END) AS tc_flag,
     ${metricAggregate(q, ds, metric)} AS tc_value
@@ -66,11 +49,8 @@ export function compileFrequency(sq: SubQuestion, ctx: CompileContext): NamedQue
   WHERE ${where}
     AND ${unit} IS NOT NULL
   GROUP BY ${unit}
-)
-SELECT (tc_flag = 1) AS tc_member,
-  ${summary.join(',\n  ')}
-FROM tc_units
-GROUP BY 1`;
+)`;
+  const { summary, body } = isCount(metric) ? countSummary(q, units) : valueSummary(q, units);
   const min = minGroupSize(ds);
   if (min !== null) {
     // A group of fewer units (customers) than the minimum group size keeps its row, every number withheld.
@@ -78,6 +58,82 @@ GROUP BY 1`;
     return { name: 'frequency', ...q.finish(wrapped) };
   }
   return { name: 'frequency', ...q.finish(`${body}\nORDER BY 1`) };
+}
+
+/** Any per-unit value: the summaries straight from the units (medians sort every unit's value). */
+function valueSummary(q: QueryBuilder, units: string): { summary: string[]; body: string } {
+  const d = q.dialect;
+  const summary = [
+    `${d.toDouble('COUNT(tc_value)')} AS tc_n`,
+    `${d.toDouble('AVG(tc_value)')} AS tc_mean`,
+    `${d.toDouble('var_samp(tc_value)')} AS tc_var`,
+    `${d.toDouble('percentile_cont(0.5) WITHIN GROUP (ORDER BY tc_value)')} AS tc_median`,
+    `${d.toDouble('percentile_cont(0.9) WITHIN GROUP (ORDER BY tc_value)')} AS tc_p90`,
+    `${d.toDouble('SUM(tc_value)')} AS tc_total`,
+  ];
+  return {
+    summary,
+    body: `${units}
+SELECT (tc_flag = 1) AS tc_member,
+  ${summary.join(',\n  ')}
+FROM tc_units
+GROUP BY 1`,
+  };
+}
+
+/**
+ * A count per unit (bookings per customer) is a whole number with few distinct values, so the
+ * units are first tallied into a frequency table (value, how many units have it) and every
+ * summary is read from that: the same numbers as from the units themselves (the median and p90
+ * by percentile_cont's own rule, linear between the two nearest ranks), without sorting or
+ * holding millions of per-unit values. All sums are of whole numbers below 2^53, so exact.
+ */
+function countSummary(q: QueryBuilder, units: string): { summary: string[]; body: string } {
+  const d = q.dialect;
+  /** The value at 0-based rank `h` of the group's sorted units, linear between the two nearest ranks. */
+  const quantile = (h: string) => {
+    const at = (rank: string) => `MIN(c.tc_value) FILTER (WHERE c.tc_cum > ${rank})`;
+    return `${at(`FLOOR(${h})`)} + (${h} - FLOOR(${h})) * (${at(`CEIL(${h})`)} - ${at(`FLOOR(${h})`)})`;
+  };
+  const buckets = FREQUENCY_BUCKETS.map((b, i) => {
+    const lo = `c.tc_value >= ${q.bind(b.min)}`;
+    const cond = b.max === null ? lo : `${lo} AND c.tc_value <= ${q.bind(b.max)}`;
+    return `${d.toDouble(`COALESCE(SUM(c.tc_k) FILTER (WHERE ${cond}), 0)`)} AS tc_bucket_${i}`;
+  });
+  const summary = [
+    `${d.toDouble('g.tc_n')} AS tc_n`,
+    `${d.toDouble('g.tc_mean')} AS tc_mean`,
+    `${d.toDouble('CASE WHEN g.tc_n > 1 THEN SUM(c.tc_k * (c.tc_value - g.tc_mean) * (c.tc_value - g.tc_mean)) / (g.tc_n - 1) END')} AS tc_var`,
+    `${d.toDouble(quantile('(g.tc_n - 1) * 0.5'))} AS tc_median`,
+    `${d.toDouble(quantile('(g.tc_n - 1) * 0.9'))} AS tc_p90`,
+    `${d.toDouble('SUM(c.tc_k * c.tc_value)')} AS tc_total`,
+    ...buckets,
+  ];
+  return {
+    summary,
+    body: `${units},
+tc_tally AS (
+  SELECT tc_flag, tc_value, ${d.toDouble('COUNT(*)')} AS tc_k
+  FROM tc_units
+  WHERE tc_value IS NOT NULL
+  GROUP BY 1, 2
+),
+tc_cumulative AS (
+  SELECT tc_flag, tc_value, tc_k,
+    SUM(tc_k) OVER (PARTITION BY tc_flag ORDER BY tc_value ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) AS tc_cum
+  FROM tc_tally
+),
+tc_groups AS (
+  SELECT tc_flag, SUM(tc_k) AS tc_n, SUM(tc_k * tc_value) / SUM(tc_k) AS tc_mean
+  FROM tc_tally
+  GROUP BY 1
+)
+SELECT (g.tc_flag = 1) AS tc_member,
+  ${summary.join(',\n  ')}
+FROM tc_cumulative c
+JOIN tc_groups g ON g.tc_flag = c.tc_flag
+GROUP BY g.tc_flag, g.tc_n, g.tc_mean`,
+  };
 }
 
 export const performanceFrequencyTemplate: Template = {
