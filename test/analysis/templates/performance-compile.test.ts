@@ -142,7 +142,11 @@ describe('performance SQL', () => {
     const [q] = performanceFrequencyTemplate.compile(ALL[1]!.sq, ctx);
     expect(q!.sql).toContain('GROUP BY "customer_id"');
     expect(q!.sql).toContain('MAX(CASE WHEN "pass_holder" IS TRUE THEN 1 ELSE 0 END) AS tc_flag');
-    expect(q!.sql).toContain('percentile_cont(0.9) WITHIN GROUP (ORDER BY tc_value)');
+    // Bookings per customer are whole numbers: summarised from a tally of the counts, ranks read cumulatively.
+    expect(q!.sql).toContain('GROUP BY 1, 2');
+    expect(q!.sql).toContain('SUM(tc_k) OVER (PARTITION BY tc_flag ORDER BY tc_value ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) AS tc_cum');
+    expect(q!.sql).toContain('(g.tc_n - 1) * 0.9');
+    expect(q!.sql).not.toContain('percentile_cont');
     expect(q!.params).toEqual(['2023-04-01', '2025-06-19', 1, 1, 2, 5, 6]);
     const noUnit = { ...exampleDataset, comparison_groups: [{ ...exampleDataset.comparison_groups[0]!, unit_column: undefined }] };
     expect(() => performanceFrequencyTemplate.compile(ALL[1]!.sq, { ...ctx, dataset: noUnit })).toThrow(/unit_column/);
