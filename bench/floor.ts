@@ -21,6 +21,9 @@ export interface FloorResult {
   /** Every statement as the plan ran it, repeats included. */
   allStatementsMs: number;
   perStatementMs: number[];
+  /** The floor's statements that make or read the run's rollup (the shared scan), and the rest (reading the table). */
+  sharedScanMs: number;
+  tableScanMs: number;
   groupByMs: number;
   groupByRows: number;
   openMs: number;
@@ -87,12 +90,16 @@ export async function runFloor(args: FloorArgs): Promise<FloorResult> {
     const g = performance.now();
     const groupByRows = await run({ sql: SINGLE_GROUP_BY, params: [] });
     const groupByMs = performance.now() - g;
+    const shared = distinct.map((q) => q.sql.includes('memory.main.tc_rollup_'));
+    const sum = (pick: boolean) => perStatementMs.reduce((t, ms, i) => t + (shared[i] === pick ? ms : 0), 0);
     return {
       statements: args.queries.length,
       distinct: distinct.length,
       floorMs,
       allStatementsMs,
       perStatementMs,
+      sharedScanMs: sum(true),
+      tableScanMs: sum(false),
       groupByMs,
       groupByRows,
       openMs,

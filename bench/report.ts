@@ -40,6 +40,9 @@ interface Summary {
   floorAll: number;
   floorRss: number;
   groupBy: number;
+  /** Floor statements making or reading the rollup, and those reading the table, in ms (medians). */
+  sharedScan: number;
+  tableScan: number;
   statements: number;
   distinct: number;
   charts: number[];
@@ -62,6 +65,8 @@ function summarise(s: SizeResult): Summary {
     floorAll: median(s.floor.map((f) => f.allStatementsMs)),
     floorRss: Math.max(...s.floor.map((f) => f.maxRssKb)),
     groupBy: median(s.floor.map((f) => f.groupByMs)),
+    sharedScan: median(s.floor.map((f) => f.sharedScanMs ?? 0)),
+    tableScan: median(s.floor.map((f) => f.tableScanMs ?? 0)),
     statements: s.floor[0]?.statements ?? 0,
     distinct: s.floor[0]?.distinct ?? 0,
     charts: [...s.oursCold.chartRenderMs, ...s.ours.flatMap((o) => o.chartRenderMs)],
@@ -199,6 +204,8 @@ export function writeReport(run: BenchRun): string {
   row('ours SQL phase ÷ single GROUP BY', (s) => ratio(s.phase.sql / s.groupBy));
   row('ours SQL phase ÷ floor', (s) => ratio(s.phase.sql / s.floor));
   row('floor ÷ single GROUP BY', (s) => ratio(s.floor / s.groupBy));
+  row('floor, shared-scan part (the rollup and the statements over it) ÷ single GROUP BY', (s) => ratio(s.sharedScan / s.groupBy));
+  row('floor, table-reading part (per-customer question) ÷ single GROUP BY', (s) => ratio(s.tableScan / s.groupBy));
   row('arquero ÷ ours (with its load)', (s, r) => peerRatio(r.arquero?.totalMs, r.arqueroStoppedAtMs, s.total));
   row('arquero compute only ÷ ours', (s, r) => peerRatio(r.arquero?.computeMs, null, s.total));
   row('pandas ÷ ours (with its read)', (s, r) => peerRatio(r.pandas?.totalMs, r.pandasStoppedAtMs, s.total));
@@ -264,7 +271,7 @@ export function writeReport(run: BenchRun): string {
     '| --- | --- | --- |',
     `| end to end ≤ 1.25× the SQL floor at 10M | ${t10((s) => `${ratio(s.total / s.floor)} (${sec(s.total)} s vs ${sec(s.floor)} s); the first run on new data ${ratio(s.cold.total / s.floor)} (${sec(s.cold.total)} s)`) ?? 'no 10M run'} | ${verdict(t10((s) => s.total <= 1.25 * s.floor))}${t10((s) => s.total <= 1.25 * s.floor && s.cold.total > 1.25 * s.floor) ? ' (warm runs; not on the first run)' : ''} |`,
     `| every peer slower than us, at every size | ${run.sizes.map((r, i) => `${rowsLabel(r.rows)}: arquero ${peerRatio(r.arquero?.totalMs, r.arqueroStoppedAtMs, sizes[i]!.total)}, pandas ${peerRatio(r.pandas?.totalMs, r.pandasStoppedAtMs, sizes[i]!.total)}`).join('; ')} (peer ÷ ours, with their load/read) | ${verdict(peersRun ? peersSlower : null)}${peersSlower && !peersSlowerCompute ? ' (not on compute alone)' : ''} |`,
-    `| the plan's SQL phase within 1.5× of the single GROUP BY at 10M | ${t10((s) => `${ratio(s.phase.sql / s.groupBy)} (${sec(s.phase.sql)} s vs ${sec(s.groupBy)} s)`) ?? 'no 10M run'} | ${verdict(t10((s) => s.phase.sql <= 1.5 * s.groupBy))} |`,
+    `| the plan's SQL phase within 1.5× of the single GROUP BY at 10M | ${t10((s) => `${ratio(s.phase.sql / s.groupBy)} (${sec(s.phase.sql)} s vs ${sec(s.groupBy)} s); of the floor, the shared scan (the rollup and every statement over it) is ${ratio(s.sharedScan / s.groupBy)} (${sec(s.sharedScan)} s) and the per-customer question, which groups every customer and no rollup by day can serve, ${ratio(s.tableScan / s.groupBy)} (${sec(s.tableScan)} s)`) ?? 'no 10M run'} | ${verdict(t10((s) => s.phase.sql <= 1.5 * s.groupBy))} |`,
     `| peak memory ≤ 500 MB at 10M | ${t10((s) => `${mb(s.rss)} MB warm; ${mb(s.cold.rss)} MB on the first run`) ?? 'no 10M run'} | ${verdict(t10((s) => Math.max(s.rss, s.cold.rss) <= 500 * 1024))}${t10((s) => s.rss <= 500 * 1024 && s.cold.rss > 500 * 1024) ? ' (met by the warm runs only)' : ''} |`,
     `| median chart render ≤ 50 ms | ${allCharts.length ? `${msText(chartMedian)} ms over every run (${sizes.map((s) => `${rowsLabel(s.rows)}: ${msText(median(s.charts))} ms`).join(', ')}), sharing the cores with the SQL running alongside` : 'n/a'} | ${verdict(allCharts.length ? chartMedian <= 50 : null)} |`,
     `| acknowledgement p99 ≤ 100 ms (200 concurrent) | ${ack ? `${msText(ackP99)} ms for the API's 201 (the HTTP floor's p99: ${msText(percentile(ack.notFoundMs, 0.99))} ms); the bot's reply ${msText(percentile(ack.acknowledgedMs, 0.99))} ms` : 'n/a'} | ${verdict(ack ? ackP99 <= 100 : null)} |`,
@@ -331,7 +338,7 @@ function costCurve(sizes: Summary[], perCustomer: { ms: number } | undefined): s
     );
   }
   out.push(
-    "- The plan's additive sub-questions read one rollup of the table (the floor's first statement); the per-customer question still reads every row. The data-quality check's duplicate-key count groups every booking id; its report is kept per version of the data, so only the first request after the data changes pays for it (the first run above).",
+    "- The plan's additive sub-questions read one rollup of the table (stored once, then read by each of them); the per-customer question still reads every row, and a run starts it first so the rollup readers run beside it. The data-quality check's duplicate-key count groups every booking id; its report is kept per version of the data, so only the first request after the data changes pays for it (the first run above).",
   );
   return out;
 }
