@@ -18,6 +18,7 @@ import { MemoryStateStore } from '../../bot/stores/MemoryStateStore.js';
 import type { AuditEntry, StateStore } from '../../bot/thread-state.js';
 import { main } from '../../cli/main.js';
 import { loadConfig } from '../../config/load.js';
+import { auditEntry } from '../helpers/audit-entry.js';
 import { demoFixture } from '../helpers/demo-fixture.js';
 import { EXAMPLE_CONFIG_PATH } from '../helpers/example-config.js';
 
@@ -140,14 +141,7 @@ describe('the audit log of a demo conversation', () => {
 
 describe('the audit log in the DuckDB state file', () => {
   const dir = mkdtempSync(join(tmpdir(), 'threadcount-audit-'));
-  const entry = (threadId: string, at: string, kind: AuditEntry['kind'], detail: Record<string, unknown>): AuditEntry => ({
-    at,
-    threadId,
-    requester: 'maren',
-    channel: 'slack:C1',
-    kind,
-    detail,
-  });
+  const entry = auditEntry;
   const entries = [
     entry('t1', '2026-11-30T23:59:59.000Z', 'request', { text: 'revenue trend' }),
     entry('t2', '2026-12-01T08:00:00.000Z', 'request', { text: 'bookings trend' }),

@@ -11,16 +11,10 @@ import { DuckDbStateStore } from '../../bot/stores/DuckDbStateStore.js';
 import { MemoryStateStore } from '../../bot/stores/MemoryStateStore.js';
 import { PostgresStateStore } from '../../bot/stores/PostgresStateStore.js';
 import type { AuditEntry, KeyedPost, StateStore, ThreadState } from '../../bot/thread-state.js';
+import { auditEntry } from '../helpers/audit-entry.js';
 import { describeWithPostgres, uniqueName, withClient } from '../helpers/postgres.js';
 
-const entry = (threadId: string, at: string, kind: AuditEntry['kind'], detail: Record<string, unknown>): AuditEntry => ({
-  at,
-  threadId,
-  requester: 'maren',
-  channel: 'slack:C1',
-  kind,
-  detail,
-});
+const entry = auditEntry;
 
 const state = (threadId: string, stage: ThreadState['stage'], requester: string, updatedAt: string): ThreadState => ({
   threadId,
