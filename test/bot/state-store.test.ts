@@ -10,7 +10,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { DuckDbStateStore } from '../../bot/stores/DuckDbStateStore.js';
 import { MemoryStateStore } from '../../bot/stores/MemoryStateStore.js';
 import { PostgresStateStore } from '../../bot/stores/PostgresStateStore.js';
-import type { AuditEntry, KeyedPost, StateStore, ThreadState } from '../../bot/thread-state.js';
+import type { KeyedPost, StateStore, ThreadState } from '../../bot/thread-state.js';
 import { auditEntry } from '../helpers/audit-entry.js';
 import { describeWithPostgres, uniqueName, withClient } from '../helpers/postgres.js';
 
