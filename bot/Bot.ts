@@ -107,12 +107,14 @@ export class Bot {
   }
 
   private async handleNow(msg: IncomingMessage): Promise<void> {
+    // Delivered twice (a sweep after a replica died, racing a late first delivery): handled once.
+    if (msg.messageId !== undefined && (await this.received(msg.threadId, msg.messageId))) return;
     const channel = channelKey(msg);
     const state = await this.deps.store.get(msg.threadId);
     const command = readCommand(msg.text);
     if (!state && !command) return this.startThread(msg, channel);
     const who: Who = { threadId: msg.threadId, requester: msg.author, channel };
-    await this.audit(who, 'message', { text: msg.text });
+    await this.audit(who, 'message', { text: msg.text, ...messageIdOf(msg) });
     // The access rules may have changed since the thread started: they are checked on every message.
     const refusal = state ? this.threadRefusal(state, channel) : null;
     if (state && refusal) {
@@ -131,6 +133,11 @@ export class Bot {
       default:
         return this.say(state, 'note', replies.finished());
     }
+  }
+
+  /** Whether the audit log shows this message as received in the thread (its first write when handled). */
+  private async received(threadId: string, messageId: string): Promise<boolean> {
+    return (await this.deps.store.listAudit({ threadId })).some((e) => (e.kind === 'request' || e.kind === 'message') && e.detail.messageId === messageId);
   }
 
   /** After a restart: carry on every run that was under way (with a queue: make sure it is queued). */
@@ -324,7 +331,7 @@ export class Bot {
     const who: Who = { threadId: msg.threadId, requester: msg.author, channel };
     const allowed = this.allowedFor(channel);
     if (allowed.length === 0) {
-      await this.audit(who, 'request', { text: msg.text });
+      await this.audit(who, 'request', { text: msg.text, ...messageIdOf(msg) });
       await this.audit(who, 'denied', { reason: 'no_dataset', text: msg.text });
       return this.oneOffReply(who, 'denied', replies.noDatasetForChannel());
     }
@@ -341,7 +348,7 @@ export class Bot {
       updatedAt: this.deps.now().toISOString(),
     };
     if (choice.kind === 'chosen') state.dataset = first.name;
-    await this.audit(who, 'request', { text: msg.text, ...(state.dataset ? { dataset: state.dataset } : {}) });
+    await this.audit(who, 'request', { text: msg.text, ...messageIdOf(msg), ...(state.dataset ? { dataset: state.dataset } : {}) });
     if (choice.kind === 'ask') {
       const prompt = datasetPrompt(choice.ranked, choice.matched);
       state.prompt = prompt;
@@ -642,6 +649,10 @@ export class Bot {
       this.deps.port.post(threadId, { key, ...post }, session),
     );
   }
+}
+
+function messageIdOf(msg: IncomingMessage): { messageId?: string } {
+  return msg.messageId !== undefined ? { messageId: msg.messageId } : {};
 }
 
 /** "2" picks the second option; anything else is read as typed. */

@@ -52,4 +52,9 @@ export interface IncomingMessage {
    * Absent, it is read from the thread id (see bot/access.ts).
    */
   channel?: string;
+  /**
+   * The platform's id of the message, when it has one. A message whose id the audit log already
+   * shows as received in this thread is not handled again (see the local channel's sweep).
+   */
+  messageId?: string;
 }

@@ -5,6 +5,7 @@
 import pLimit from 'p-limit';
 import { readSecrets } from '../config/environment.js';
 import { closeWorkspaces, openWorkspaces } from './workspaces.js';
+import { sweepUnhandled } from '../adapters/local-channel/unhandled-sweep.js';
 import { openFileState, openSharedState, sharedStateUrl, type StateBackend } from './state-backend.js';
 import { Bot } from '../bot/Bot.js';
 import { presentAnswer, presentSummary } from '../bot/present-answer.js';
@@ -25,7 +26,13 @@ export interface ServeOptions {
   log?: (line: string) => void;
   /** How often reminders and deadline warnings are checked. */
   tickMs?: number;
+  /** With the state in PostgreSQL: how often, and after how long, accepted messages no replica handled are delivered again. */
+  sweep?: { everyMs: number; minAgeMs: number };
 }
+
+// A message not handled a minute after it was accepted is taken as lost with its replica
+// (a burst of 200 requests is answered within a few seconds here); a day back is looked at.
+const SWEEP = { everyMs: 30_000, minAgeMs: 60_000, maxAgeMs: 24 * 3_600_000 };
 
 export interface Serving {
   localUrl: string;
@@ -104,6 +111,19 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
     bot.tick().catch((err: unknown) => log(`threadcount: reminder check failed: ${err instanceof Error ? err.message : String(err)}`));
   }, opts.tickMs ?? 60_000);
   timer.unref();
+  const threadLog = backend.threads;
+  const sweepEvery = opts.sweep?.everyMs ?? SWEEP.everyMs;
+  const sweeper = threadLog
+    ? setInterval(() => {
+        sweepUnhandled({ threads: threadLog, store, deliver, now: new Date(), minAgeMs: opts.sweep?.minAgeMs ?? SWEEP.minAgeMs, maxAgeMs: SWEEP.maxAgeMs }).then(
+          (n) => {
+            if (n > 0) log(`threadcount: ${n} message(s) accepted but never handled (a replica stopped) delivered again`);
+          },
+          (err: unknown) => log(`threadcount: the sweep for unhandled messages failed: ${err instanceof Error ? err.message : String(err)}`),
+        );
+      }, sweepEvery)
+    : undefined;
+  sweeper?.unref();
 
   return {
     localUrl: local.url,
@@ -112,6 +132,7 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
     local,
     async stop() {
       clearInterval(timer);
+      if (sweeper) clearInterval(sweeper);
       // No new runs; one under way gets a grace period, then is left to another replica.
       await queue?.stop().catch((err: unknown) => log(`threadcount: stopping the run queue: ${String(err)}`));
       for (const a of [...started].reverse()) await a.stop().catch((err: unknown) => log(`threadcount: stopping ${a.name}: ${String(err)}`));

@@ -13,6 +13,11 @@ import { loadPageFiles } from './page-files.js';
 
 const PREFIX = 'local:';
 
+/** The bot's thread id for a local channel thread. */
+export function localBotThreadId(localId: string): string {
+  return `${PREFIX}${localId}`;
+}
+
 export interface LocalChannelOptions {
   host?: string;
   /** 0 picks a free port (tests). */
@@ -41,7 +46,7 @@ export class LocalChannel implements ChatAdapter {
         deliver: opts.deliver,
         page: loadPageFiles(),
         allowedHosts: () => this.allowedHosts(),
-        botThreadId: (id) => `${PREFIX}${id}`,
+        botThreadId: localBotThreadId,
         streams: this.streams,
       }),
     );

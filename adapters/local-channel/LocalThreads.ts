@@ -73,6 +73,12 @@ export class LocalThreads implements LocalThreadLog {
     return [...this.threads.values()].map((t) => summaryOf(t, t.messages.length, t.messages.at(-1))).sort((a, b) => b.createdAt.localeCompare(a.createdAt));
   }
 
+  async personMessagesBetween(from: string, to: string): Promise<{ threadId: string; message: LocalMessage }[]> {
+    return [...this.threads.values()].flatMap((t) =>
+      t.messages.filter((m) => !m.fromBot && m.createdAt >= from && m.createdAt < to).map((m) => ({ threadId: t.id, message: structuredClone(m) })),
+    );
+  }
+
   async file(id: string): Promise<StoredFile | undefined> {
     return this.files.get(id);
   }

@@ -131,6 +131,17 @@ export class PostgresThreadLog implements LocalThreadLog {
     return r.rows.map((row) => summaryOf({ id: row.id, title: row.title, author: row.author, createdAt: row.created_at }, row.message_count, row.last ?? undefined));
   }
 
+  async personMessagesBetween(from: string, to: string): Promise<{ threadId: string; message: LocalMessage }[]> {
+    // createdAt is an ISO time in UTC, so text order is time order.
+    const r = await this.pool.query<{ thread_id: string; message: LocalMessage }>(
+      `SELECT thread_id, message FROM ${this.table('local_messages')}
+       WHERE NOT (message->>'fromBot')::boolean AND message->>'createdAt' >= $1 AND message->>'createdAt' < $2
+       ORDER BY thread_id, position`,
+      [from, to],
+    );
+    return r.rows.map((row) => ({ threadId: row.thread_id, message: row.message }));
+  }
+
   async file(id: string): Promise<StoredFile | undefined> {
     const r = await this.pool.query<{ file: LocalFile; content: Buffer }>(`SELECT file, content FROM ${this.table('local_files')} WHERE id = $1`, [id]);
     return r.rows[0] ? { file: r.rows[0].file, content: r.rows[0].content } : undefined;

@@ -90,7 +90,7 @@ async function createThread(deps: LocalApiDeps, req: HttpRequest, res: ServerRes
   const body = await readMessage(req);
   const { thread, message } = await deps.threads.createThread(body.author, body.text);
   sendJson(res, 201, { threadId: thread.id, messageId: message.id });
-  deps.deliver({ threadId: deps.botThreadId(thread.id), author: body.author, text: body.text, channel: LOCAL_CHANNEL });
+  deps.deliver({ threadId: deps.botThreadId(thread.id), author: body.author, text: body.text, channel: LOCAL_CHANNEL, messageId: message.id });
 }
 
 async function addReply(deps: LocalApiDeps, threadId: string, req: HttpRequest, res: ServerResponse): Promise<void> {
@@ -98,7 +98,7 @@ async function addReply(deps: LocalApiDeps, threadId: string, req: HttpRequest, 
   const message = await deps.threads.addPersonMessage(threadId, body.author, body.text);
   if (!message) throw new HttpError(404, `no thread ${threadId}`);
   sendJson(res, 201, { messageId: message.id });
-  deps.deliver({ threadId: deps.botThreadId(threadId), author: body.author, text: body.text, channel: LOCAL_CHANNEL });
+  deps.deliver({ threadId: deps.botThreadId(threadId), author: body.author, text: body.text, channel: LOCAL_CHANNEL, messageId: message.id });
 }
 
 async function streamEvents(deps: LocalApiDeps, threadId: string, req: HttpRequest, res: ServerResponse): Promise<void> {

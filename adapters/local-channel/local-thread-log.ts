@@ -76,6 +76,8 @@ export interface LocalThreadLog {
   get(threadId: string): Promise<LocalThreadView | undefined>;
   /** Newest first. */
   list(): Promise<ThreadSummary[]>;
+  /** People's messages created in [from, to) (ISO times), by thread and in thread order: for the sweep of unhandled ones. */
+  personMessagesBetween(from: string, to: string): Promise<{ threadId: string; message: LocalMessage }[]>;
   file(id: string): Promise<StoredFile | undefined>;
   /** Events after `afterSeq`, then each new one, until the returned function is called; undefined for an unknown thread. */
   subscribe(threadId: string, afterSeq: number, listener: LocalEventListener): Promise<(() => void) | undefined>;

@@ -54,8 +54,8 @@ describeWithPostgres('the local channel on PostgreSQL', (url) => {
     const [a, b] = sides as [Side, Side];
     const created = await postJson(a.base, '/api/threads', { author: 'maren', text: 'Revenue by route?' });
     expect(created.status).toBe(201);
-    const { threadId } = (await created.json()) as { threadId: string };
-    expect(a.delivered.at(-1)).toEqual({ threadId: `local:${threadId}`, author: 'maren', text: 'Revenue by route?', channel: 'local' });
+    const { threadId, messageId } = (await created.json()) as { threadId: string; messageId: string };
+    expect(a.delivered.at(-1)).toEqual({ threadId: `local:${threadId}`, author: 'maren', text: 'Revenue by route?', channel: 'local', messageId });
 
     const sse = new SseClient();
     await sse.open(`${b.base}/api/threads/${threadId}/events`);
