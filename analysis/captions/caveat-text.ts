@@ -60,7 +60,11 @@ export function caveatNote(c: Caveat, locale: string): string {
       const n = typeof d.count === 'number' ? d.count : 0;
       // Periods or cells of comparison groups; whole comparison groups; or segments folded into "All others".
       if (typeof d.groups === 'string' && d.periods === true) return `${show(n)} ${n === 1 ? 'period' : 'periods'} of ${show(d.groups)} had ${under}: too few to show, so they are left blank.`;
-      if (typeof d.groups === 'string' && d.cells === true) return `${show(n)} ${n === 1 ? 'value' : 'values'} of ${show(d.groups)} within a segment had ${under}: too few to show, so they are withheld.`;
+      if (typeof d.groups === 'string' && d.cells === true) {
+        const more = typeof d.complementary === 'number' && d.complementary > 0 ? d.complementary : 0;
+        const also = more > 0 ? `; ${show(more)} more ${more === 1 ? 'is' : 'are'} withheld so that ${n === 1 ? 'it' : 'they'} cannot be worked out from the totals` : '';
+        return `${show(n)} ${n === 1 ? 'value' : 'values'} of ${show(d.groups)} within a segment had ${under}: too few to show, so they are withheld${also}.`;
+      }
       if (typeof d.groups === 'string') return `Too few to show: ${show(d.groups)} had ${under}, so their figures are withheld.`;
       const extra = typeof d.complementary === 'number' && d.complementary > 0 ? d.complementary : 0;
       // Complementary suppression: the segments folded beside the small ones are said, so the count stays true.

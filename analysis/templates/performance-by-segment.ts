@@ -88,7 +88,19 @@ GROUP BY 1, 2, 3`;
     const keys = ['tc_segment', 'tc_folded', 'tc_member', 'tc_segments', 'tc_first_rank', 'tc_small_segments', 'tc_complement_segments'];
     return {
       name: 'segments',
-      ...q.finish(suppressSmallCells({ inner, keys, columns: cols, sizeColumn: 'tc_rows', minimum: minP, orderBy: 'tc_folded, tc_first_rank, tc_member' })),
+      ...q.finish(
+        suppressSmallCells({
+          inner,
+          keys,
+          columns: cols,
+          sizeColumn: 'tc_rows',
+          minimum: minP,
+          orderBy: 'tc_folded, tc_first_rank, tc_member',
+          // The groups' overall figures are shown beside the segments (the "groups" query).
+          complementWithin: 'tc_member',
+          complementTieBreak: 'tc_first_rank',
+        }),
+      ),
     };
   }
   // Segments ranked by rows over both groups; ties broken by name so the fold is stable.
@@ -155,6 +167,8 @@ export const performanceBySegmentTemplate: Template = {
       entry.complement = Math.max(entry.complement, num(r.tc_complement_segments) ?? 0);
     }
     const hiddenCells: GroupRole[] = [];
+    // Cells withheld only so a small one cannot be worked out from the groups' totals.
+    let complementCells = 0;
     const overallDiff = diffOf(cellEstimate(overall.cells.members), cellEstimate(overall.cells.others));
     const overallDirection = directionOf(overallDiff);
     let compared = 0;
@@ -168,8 +182,11 @@ export const performanceBySegmentTemplate: Template = {
       const o = cellFromRow(e.rows.others, shape as MeasurePlan);
       // A side below the minimum group size is withheld: too few to show, so nothing is compared.
       const hidden = { members: isSuppressed(e.rows.members), others: isSuppressed(e.rows.others) };
-      if (hidden.members) hiddenCells.push('members');
-      if (hidden.others) hiddenCells.push('others');
+      for (const role of ['members', 'others'] as const) {
+        if (!hidden[role]) continue;
+        if (e.rows[role]?.tc_complement === true) complementCells++;
+        else hiddenCells.push(role);
+      }
       const anyHidden = hidden.members || hidden.others;
       const result = anyHidden ? null : compareCells(m, o, CONFIDENCE);
       const members = cellEstimate(m);
@@ -223,7 +240,7 @@ export const performanceBySegmentTemplate: Template = {
     });
     if (hiddenCells.length > 0 && minimum !== null) {
       const labels = [...new Set(hiddenCells)].map((role) => roleLabel(group, role));
-      caveats.push(suppressedGroupsCaveat(labels, minimum, { count: hiddenCells.length, cells: true, dimension: dim.name }));
+      caveats.push(suppressedGroupsCaveat(labels, minimum, { count: hiddenCells.length, cells: true, dimension: dim.name, ...(complementCells > 0 ? { complementary: complementCells } : {}) }));
     }
     caveats.unshift(...groupCaveats([groupsTable, segTable], overall.sizes, group, win, minimum));
     return { findings, caveats };

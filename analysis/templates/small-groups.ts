@@ -115,7 +115,16 @@ export function suppressSmallCells(opts: {
   sizeColumn: string;
   minimum: string;
   orderBy: string;
+  /**
+   * Complementary suppression within each value of this column (a comparison group's side of a
+   * segment table, whose overall figure is shown too): when exactly one cell of a side is small,
+   * its smallest other cell (ties by `complementTieBreak`) is withheld as well, so the small one
+   * is not the side's total minus the cells shown. Those cells have `tc_complement` TRUE.
+   */
+  complementWithin?: string;
+  complementTieBreak?: string;
 }): string {
+  if (opts.complementWithin) return suppressWithComplement({ ...opts, complementWithin: opts.complementWithin });
   const small = `tc_cells.${opts.sizeColumn} < ${opts.minimum}`;
   const values = opts.columns
     .map(aliasOf)
@@ -126,6 +135,34 @@ export function suppressSmallCells(opts: {
   ${values.join(',\n  ')}
 FROM (
 ${opts.inner}
+) tc_cells
+ORDER BY ${opts.orderBy}`;
+}
+
+function suppressWithComplement(opts: Parameters<typeof suppressSmallCells>[0] & { complementWithin: string }): string {
+  const size = `tc_raw.${opts.sizeColumn}`;
+  const tie = opts.complementTieBreak ? `, tc_marked.${opts.complementTieBreak}` : '';
+  const values = opts.columns
+    .map(aliasOf)
+    .filter((a) => !opts.keys.includes(a))
+    .map((a) => `CASE WHEN tc_cells.tc_hide THEN NULL ELSE tc_cells.${a} END AS ${a}`);
+  // NULL sizes (a side with no rows at all) are not cells to withhold.
+  return `SELECT ${opts.keys.map((k) => `tc_cells.${k}`).join(', ')},
+  tc_cells.tc_hide AS tc_suppressed,
+  (tc_cells.tc_hide AND NOT tc_cells.tc_small) AS tc_complement,
+  ${values.join(',\n  ')}
+FROM (
+  SELECT tc_marked.*,
+    (tc_marked.tc_small OR (
+      SUM(CASE WHEN tc_marked.tc_small THEN 1 ELSE 0 END) OVER (PARTITION BY tc_marked.${opts.complementWithin}) = 1
+      AND ROW_NUMBER() OVER (PARTITION BY tc_marked.${opts.complementWithin}, tc_marked.tc_small ORDER BY tc_marked.${opts.sizeColumn}${tie}) = 1
+    )) AS tc_hide
+  FROM (
+    SELECT tc_raw.*, COALESCE(${size} < ${opts.minimum}, FALSE) AS tc_small
+    FROM (
+${opts.inner}
+    ) tc_raw
+  ) tc_marked
 ) tc_cells
 ORDER BY ${opts.orderBy}`;
 }

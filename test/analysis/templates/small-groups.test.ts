@@ -252,6 +252,21 @@ describe('small-group suppression (in-memory DuckDB over a tiny CSV)', () => {
     expect(segs.find((s) => s.folded)!.others).toBeCloseTo(sumFare(foldOthers) / foldOthers.length, 9);
     expect(a.caveats).toContainEqual({ code: 'suppressed_small_groups', data: expect.objectContaining({ cells: true, count: 1, groups: 'Pass holders' }) });
     expect(texts(a)).toMatch(/too few to show/);
+    // Complementary suppression (ESSnet Handbook on SDC): the groups' overall figures are shown
+    // beside the segments, so on each side no single cell may be withheld alone.
+    const rows = a.tables.segments!.rows;
+    for (const side of [true, false]) {
+      const hiddenOnSide = rows.filter((r) => r.tc_member === side && r.tc_suppressed === true);
+      expect(hiddenOnSide.length === 0 || hiddenOnSide.length >= 2, `side ${side}: ${hiddenOnSide.length} withheld`).toBe(true);
+    }
+    // South's pass holders are the only small cell on their side (the fold has none), so the
+    // smallest other pass-holder cell, North's, is withheld with it and said to be.
+    const northMembers = rows.find((r) => r.tc_segment === 'North' && r.tc_member === true)!;
+    expect(northMembers).toMatchObject({ tc_suppressed: true, tc_complement: true, tc_n: null, tc_value: null });
+    expect(rows.find((r) => r.tc_segment === 'South' && r.tc_member === true)!.tc_complement).toBe(false);
+    expect(segs.find((s) => s.segment === 'North')).toMatchObject({ suppressedMembers: true, members: null, difference: null });
+    expect(a.caveats).toContainEqual({ code: 'suppressed_small_groups', data: { count: 1, minimum: MIN, groups: 'Pass holders', cells: true, dimension: 'route', complementary: 1 } });
+    expect(texts(a)).toContain('1 more is withheld so that it cannot be worked out from the totals');
   });
 
   describe('a comparison group below the minimum (South only: three pass-holder bookings)', () => {
