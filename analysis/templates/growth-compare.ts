@@ -67,6 +67,15 @@ export function compileWindowComparison(sq: SubQuestion, ctx: CompileContext): C
   const reachSql = `SELECT MIN(${localDateExpr(q, ctx)}) AS ${first}, MAX(${localDateExpr(q, ctx)}) AS ${last} FROM ${table}`;
   const current = side('current', sq.window, `${localDateExpr(q, ctx)} >= ${yearFrom(`reach.${first}`, '+')}`);
   const before = side('prior', prior, `${localDateExpr(q, ctx)} <= ${yearFrom(`reach.${last}`, '-')}`);
+  // Both windows' rows, tagged with their window: shared by the query with and without a minimum group size.
+  const sides = `WITH reach AS (
+  ${reachSql}
+),
+tagged AS (
+  ${current}
+  UNION ALL
+  ${before}
+)`;
   const min = minGroupSize(ctx.dataset);
   if (min !== null) {
     // A segment with fewer rows than the minimum on either side (where it has rows at all) joins
@@ -75,14 +84,7 @@ export function compileWindowComparison(sq: SubQuestion, ctx: CompileContext): C
     // suppression: the fold is the total minus the named segments).
     const [segAlias, folded, key, rows, small, smallCount, complementCount] = [SEG, FOLDED, KEY, ROWS, SMALL, SMALL_COUNT, COMPLEMENT_COUNT].map(q.ident);
     const minP = q.bind(min);
-    return q.finish(`WITH reach AS (
-  ${reachSql}
-),
-tagged AS (
-  ${current}
-  UNION ALL
-  ${before}
-),
+    return q.finish(`${sides},
 tc_cells AS (
   SELECT ${win} AS ${win}, ${seg} AS ${key}, ${rowCountSql(q, ctx)} AS ${rows}
   FROM tagged
@@ -124,14 +126,7 @@ FROM marked
 GROUP BY GROUPING SETS ((${win}, ${folded}, ${segAlias}), (${win}))
 ORDER BY 1, 2, 4, 3`);
   }
-  return q.finish(`WITH reach AS (
-  ${reachSql}
-),
-tagged AS (
-  ${current}
-  UNION ALL
-  ${before}
-)
+  return q.finish(`${sides}
 SELECT ${win} AS window_name,
   GROUPING(${seg}) AS g_segment,
   ${seg} AS segment,

@@ -3,11 +3,36 @@
 import type { ComparisonGroup, DatasetConfig } from '../../config/schema.js';
 import { CatalogError, comparisonGroupByName } from '../catalog.js';
 import type { Coverage } from '../coverage.js';
-import type { GroupRole, PerformanceWindowFinding } from '../findings/performance.js';
+import type { GroupRole, PerformanceNoTestFinding, PerformanceWindowFinding } from '../findings/performance.js';
 import { addDays } from '../periods.js';
 import type { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CellValue, DateWindow, ResultTable, SubQuestion } from '../types.js';
 import { suppressedGroupsCaveat } from './small-groups.js';
+
+/**
+ * The finding for a members-vs-others comparison not tested because a side is below the minimum
+ * group size: which side, the minimum, the sizes, and the estimates when they may be shown.
+ */
+export function suppressedComparison(
+  metric: string,
+  n: Record<GroupRole, number>,
+  hidden: Record<GroupRole, boolean>,
+  minimum: number | null,
+  estimates: { first: number | null; second: number | null } = { first: null, second: null },
+): PerformanceNoTestFinding {
+  return {
+    type: 'performance_no_test',
+    metric,
+    comparison: 'members_vs_others',
+    reason: 'suppressed',
+    ...estimates,
+    nFirst: n.members,
+    nSecond: n.others,
+    suppressedFirst: hidden.members,
+    suppressedSecond: hidden.others,
+    ...(minimum !== null ? { minimum } : {}),
+  };
+}
 
 /** Two-sided level of every interval the family reports. */
 export const CONFIDENCE = 0.95;

@@ -21,6 +21,7 @@ import {
   resolveGroup,
   roleOf,
   rowsByRole,
+  suppressedComparison,
   windowFinding,
 } from './performance-common.js';
 import { cellFromRow, isMoney, measureColumns, measureShape, medianColumn, num, planMeasure, type MeasurePlan } from './performance-measure.js';
@@ -151,19 +152,12 @@ export function readGroupComparison(
   });
   const sizes = (['members', 'others'] as const).map((role) => ({ role, n: cells[role].n, suppressed: hidden[role] }));
   if (hidden.members || hidden.others) {
-    findings.push({
-      type: 'performance_no_test',
-      metric: metric.name,
-      comparison: 'members_vs_others',
-      reason: 'suppressed',
-      first: cellEstimate(cells.members),
-      second: cellEstimate(cells.others),
-      nFirst: cells.members.n,
-      nSecond: cells.others.n,
-      suppressedFirst: hidden.members,
-      suppressedSecond: hidden.others,
-      ...(minimum !== null ? { minimum } : {}),
-    });
+    findings.push(
+      suppressedComparison(metric.name, { members: cells.members.n, others: cells.others.n }, hidden, minimum, {
+        first: cellEstimate(cells.members),
+        second: cellEstimate(cells.others),
+      }),
+    );
     return { findings, caveats: [], sizes, cells };
   }
   const result = compareCells(cells.members, cells.others, CONFIDENCE);

@@ -17,6 +17,7 @@ import {
   isSuppressed,
   resolveGroup,
   rowsByRole,
+  suppressedComparison,
   windowFinding,
 } from './performance-common.js';
 import { num } from './performance-measure.js';
@@ -157,19 +158,7 @@ export const performanceFrequencyTemplate: Template = {
     const sizesOf = () => (['members', 'others'] as const).map((role) => ({ role, n: cells[role].n, suppressed: hidden[role] }));
     if (hidden.members || hidden.others) {
       // Too few units to show: no test, no verdict, no ratio.
-      findings.push({
-        type: 'performance_no_test',
-        metric: metric.name,
-        comparison: 'members_vs_others',
-        reason: 'suppressed',
-        first: null,
-        second: null,
-        nFirst: cells.members.n,
-        nSecond: cells.others.n,
-        suppressedFirst: hidden.members,
-        suppressedSecond: hidden.others,
-        ...(minimum !== null ? { minimum } : {}),
-      });
+      findings.push(suppressedComparison(metric.name, { members: cells.members.n, others: cells.others.n }, hidden, minimum));
       return { findings, caveats: groupCaveats([table], sizesOf(), group, win, minimum) };
     }
     const result = compareCells(cells.members, cells.others, CONFIDENCE);
