@@ -3,7 +3,7 @@
 import { createCanvas, loadImage, type SKRSContext2D } from '@napi-rs/canvas';
 import { ensureFonts } from './fonts.js';
 import { encodePng } from './png.js';
-import { renderChart } from './render.js';
+import { drawChart } from './render.js';
 import type { ChartSpec } from './spec.js';
 import { ellipsize, wrapText } from './text.js';
 import { INK, OKABE_ITO, font } from './theme.js';
@@ -70,10 +70,16 @@ export async function renderDigest(input: DigestInput): Promise<Buffer> {
   }
   y += 10;
   for (const [i, chart] of charts.entries()) {
-    const img = await loadImage(chart.spec ? await thumbnail(chart.spec) : chart.png);
     const x = MARGIN + (i % 2) * (CHART_W + MARGIN);
     const top = y + Math.floor(i / 2) * (CHART_H + MARGIN);
-    ctx.drawImage(img, x, top, CHART_W, CHART_H);
+    if (chart.spec) {
+      const drawn = thumbnail(chart.spec);
+      try {
+        ctx.drawImage(drawn.canvas, x, top, CHART_W, CHART_H);
+      } finally {
+        drawn.release();
+      }
+    } else ctx.drawImage(await loadImage(chart.png), x, top, CHART_W, CHART_H);
     ctx.strokeStyle = INK.grid;
     ctx.lineWidth = 1;
     ctx.strokeRect(x + 0.5, top + 0.5, CHART_W - 1, CHART_H - 1);
@@ -108,7 +114,7 @@ export function wrapKeepingEnd(ctx: SKRSContext2D, text: string, end: string, ma
   return (lo > 0 ? cut(lo) : null) ?? wrapText(ctx, `${text} ${end}`, maxWidth, maxLines);
 }
 
-/** The chart laid out for the digest's slot, at twice the pixels so it stays sharp. */
-function thumbnail(spec: ChartSpec): Promise<Buffer> {
-  return renderChart({ ...spec, width: CHART_W, height: CHART_H, scale: 2 } as ChartSpec);
+/** The chart laid out for the digest's slot, at the slot's own pixels: drawn once, never resampled. */
+function thumbnail(spec: ChartSpec): ReturnType<typeof drawChart> {
+  return drawChart({ ...spec, width: CHART_W, height: CHART_H, scale: 1 } as ChartSpec);
 }

@@ -28,6 +28,20 @@ export async function renderChartToFile(spec: ChartSpec, path: string): Promise<
 }
 
 export async function renderChartWithGeometry(spec: ChartSpec): Promise<RenderResult> {
+  const { canvas, geometry, release } = drawChart(spec);
+  try {
+    const png = encodePng(canvas.data(), canvas.width, canvas.height);
+    return { png, geometry };
+  } finally {
+    release();
+  }
+}
+
+/**
+ * The chart drawn on a canvas of its own; the caller encodes it or draws it into another canvas
+ * (the digest does, which spares a PNG encode and decode per thumbnail), then calls `release`.
+ */
+export function drawChart(spec: ChartSpec): DrawResult & { canvas: Canvas } {
   ensureFonts();
   const sized = {
     ...spec,
@@ -37,13 +51,7 @@ export async function renderChartWithGeometry(spec: ChartSpec): Promise<RenderRe
   } as ChartSpec;
   // chart.js enlarges its canvas by devicePixelRatio itself; the direct-drawn kinds scale here.
   const canvas = createCanvas(sized.width, sized.height);
-  const { geometry, release } = draw(canvas, sized);
-  try {
-    const png = encodePng(canvas.data(), canvas.width, canvas.height);
-    return { png, geometry };
-  } finally {
-    release();
-  }
+  return { canvas, ...draw(canvas, sized) };
 }
 
 function draw(canvas: Canvas, spec: ChartSpec): DrawResult {
