@@ -7,7 +7,20 @@ import type { Grain, RequestKind } from '../analysis/types.js';
 import type { Audience, Brief, Question, UnknownTerm } from './brief.js';
 import { type CatalogTerm, closestTerms, findTerms, normaliseWords, type TermHit } from './term-match.js';
 
-export function catalogTerms(ds: DatasetConfig): CatalogTerm[] {
+// One list per dataset config (configs are not changed once loaded), so term matching can keep
+// its prepared form of the list between requests.
+const catalogTermLists = new WeakMap<DatasetConfig, readonly CatalogTerm[]>();
+
+export function catalogTerms(ds: DatasetConfig): readonly CatalogTerm[] {
+  let terms = catalogTermLists.get(ds);
+  if (!terms) {
+    terms = Object.freeze(buildCatalogTerms(ds));
+    catalogTermLists.set(ds, terms);
+  }
+  return terms;
+}
+
+function buildCatalogTerms(ds: DatasetConfig): CatalogTerm[] {
   const out: CatalogTerm[] = [];
   const add = (name: string, kind: CatalogTerm['kind'], phrases: string[]) => {
     for (const phrase of new Set([name.replaceAll('_', ' '), ...phrases])) out.push({ name, kind, phrase });
@@ -175,7 +188,7 @@ function clauseKind(clause: string, namesGroup: boolean): RequestKind | null {
   return null;
 }
 
-function unknownMetricPhrases(text: string, terms: CatalogTerm[]): UnknownTerm[] {
+function unknownMetricPhrases(text: string, terms: readonly CatalogTerm[]): UnknownTerm[] {
   const out: UnknownTerm[] = [];
   for (const re of METRIC_SLOTS) {
     const m = re.exec(text);
@@ -230,13 +243,26 @@ export function isValidIsoDate(iso: string): boolean {
   return d.toISOString().slice(0, 10) === iso;
 }
 
+// Building an Intl formatter costs far more than using one; intake formats dates for every request.
+const isoDateFormats = new Map<string, Intl.DateTimeFormat>();
+const wallClockFormats = new Map<string, Intl.DateTimeFormat>();
+
+function formatFor(cache: Map<string, Intl.DateTimeFormat>, timeZone: string, make: () => Intl.DateTimeFormat): Intl.DateTimeFormat {
+  let f = cache.get(timeZone);
+  if (!f) {
+    f = make();
+    cache.set(timeZone, f);
+  }
+  return f;
+}
+
 export function isoDateIn(d: Date, timeZone: string): string {
   // en-CA formats as YYYY-MM-DD.
-  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(d);
+  return formatFor(isoDateFormats, timeZone, () => new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' })).format(d);
 }
 
 function zoneOffsetMinutes(d: Date, timeZone: string): number {
-  const parts = new Intl.DateTimeFormat('en-US', { timeZone, hourCycle: 'h23', year: 'numeric', month: 'numeric', day: 'numeric', hour: 'numeric', minute: 'numeric' })
+  const parts = formatFor(wallClockFormats, timeZone, () => new Intl.DateTimeFormat('en-US', { timeZone, hourCycle: 'h23', year: 'numeric', month: 'numeric', day: 'numeric', hour: 'numeric', minute: 'numeric' }))
     .formatToParts(d)
     .reduce<Record<string, number>>((acc, p) => (p.type === 'literal' ? acc : { ...acc, [p.type]: Number(p.value) }), {});
   const asUtc = Date.UTC(parts.year!, parts.month! - 1, parts.day!, parts.hour!, parts.minute!);

@@ -33,24 +33,65 @@ function allowedEdits(length: number): number {
   return length >= 9 ? 2 : length >= 5 ? 1 : 0;
 }
 
-export function findTerms(text: string, terms: CatalogTerm[]): TermHit[] {
-  const words = normaliseWords(text);
+interface PreparedTerm {
+  term: CatalogTerm;
+  /** The phrase's words joined by single spaces: what a window of the text is compared with. */
+  target: string;
+  length: number;
+  edits: number;
+}
+
+// A catalog is matched against every request and every clause of it; its phrases are normalised
+// and ordered once per term list (intake passes the same list for all clauses of one request).
+const preparedLists = new WeakMap<readonly CatalogTerm[], PreparedTerm[]>();
+
+function prepare(terms: readonly CatalogTerm[]): PreparedTerm[] {
+  const known = preparedLists.get(terms);
+  if (known) return known;
   const prepared = terms
     .map((t) => ({ term: t, words: normaliseWords(t.phrase) }))
     .filter((t) => t.words.length > 0)
-    .sort((a, b) => b.words.join(' ').length - a.words.join(' ').length);
+    .map(({ term, words }) => ({ term, target: words.join(' '), length: words.length, edits: 0 }))
+    .sort((a, b) => b.target.length - a.target.length);
+  for (const p of prepared) p.edits = allowedEdits(p.target.length);
+  preparedLists.set(terms, prepared);
+  return prepared;
+}
+
+export function findTerms(text: string, terms: readonly CatalogTerm[]): TermHit[] {
+  const words = normaliseWords(text);
+  const prepared = prepare(terms);
   const taken = new Array<boolean>(words.length).fill(false);
+  // The text's windows of n words, joined once per n rather than once per term.
+  const windowsOf = new Map<number, string[]>();
+  const windows = (n: number): string[] => {
+    let w = windowsOf.get(n);
+    if (!w) {
+      w = [];
+      for (let i = 0; i + n <= words.length; i++) w.push(words.slice(i, i + n).join(' '));
+      windowsOf.set(n, w);
+    }
+    return w;
+  };
+  const free = (i: number, n: number): boolean => {
+    for (let k = i; k < i + n; k++) if (taken[k]) return false;
+    return true;
+  };
   const hits: TermHit[] = [];
   for (const exactPass of [true, false]) {
-    for (const { term, words: pw } of prepared) {
-      const target = pw.join(' ');
-      for (let i = 0; i + pw.length <= words.length; i++) {
-        if (taken.slice(i, i + pw.length).some(Boolean)) continue;
-        const window = words.slice(i, i + pw.length).join(' ');
-        const ok = exactPass ? window === target || window === `${target}s` : distance(window, target) <= allowedEdits(target.length);
-        if (!ok) continue;
-        for (let k = i; k < i + pw.length; k++) taken[k] = true;
-        hits.push({ term, start: i, end: i + pw.length, exact: exactPass });
+    for (const { term, target, length, edits } of prepared) {
+      // With no typo allowed, the typo pass could only find an exact match the first pass already took.
+      if (!exactPass && edits === 0) continue;
+      const ws = windows(length);
+      for (let i = 0; i < ws.length; i++) {
+        const window = ws[i]!;
+        const ok = exactPass
+          ? window === target || window === `${target}s`
+          : // The edit distance is at least the difference in length: most windows stop here.
+            Math.abs(window.length - target.length) <= edits && distance(window, target) <= edits;
+        if (!ok || !free(i, length)) continue;
+        for (let k = i; k < i + length; k++) taken[k] = true;
+        hits.push({ term, start: i, end: i + length, exact: exactPass });
       }
     }
   }
@@ -58,7 +99,7 @@ export function findTerms(text: string, terms: CatalogTerm[]): TermHit[] {
 }
 
 /** The catalog names closest to an unmatched phrase, for "did you mean" prompts. */
-export function closestTerms(phrase: string, terms: CatalogTerm[], kind: CatalogTerm['kind'], limit = 3): string[] {
+export function closestTerms(phrase: string, terms: readonly CatalogTerm[], kind: CatalogTerm['kind'], limit = 3): string[] {
   const target = normaliseWords(phrase).join(' ');
   const best = new Map<string, number>();
   for (const t of terms) {
