@@ -135,6 +135,57 @@ function contract(kind: Kind): void {
 
 for (const kind of kinds) contract(kind);
 
+describe('the DuckDB store under a burst (group commit)', () => {
+  const openFresh = () => DuckDbStateStore.open(join(mkdtempSync(join(tmpdir(), 'tc-store-burst-')), 'state.duckdb'));
+
+  it('keeps every write of many at once, in order, and they outlive a reopen', async () => {
+    const path = join(mkdtempSync(join(tmpdir(), 'tc-store-burst-')), 'state.duckdb');
+    const store = await DuckDbStateStore.open(path);
+    const n = 150;
+    await Promise.all(
+      Array.from({ length: n }, (_, i) =>
+        Promise.all([
+          store.put(state(`t${i}`, 'clarifying', 'maren', `2026-12-01T09:00:${String(i % 60).padStart(2, '0')}.000Z`)),
+          store.appendAudit(entry(`t${i}`, '2026-12-01T09:00:00.000Z', 'request', { n: i })),
+          store.recordPost(`t${i}:ack:0`, `t${i}`, `ref-${i}`),
+        ]),
+      ),
+    );
+    // Written again, now as updates of existing rows.
+    await Promise.all(Array.from({ length: n }, (_, i) => store.put(state(`t${i}`, 'planning', 'maren', '2026-12-01T10:00:00.000Z'))));
+    await Promise.all(Array.from({ length: n }, (_, i) => store.recordPost(`t${i}:ack:0`, `t${i}`, `ref-${i}-again`)));
+    await store.close();
+    const reopened = await DuckDbStateStore.open(path);
+    expect((await reopened.list()).map((s) => s.stage)).toEqual(new Array(n).fill('planning'));
+    expect((await reopened.listAudit()).map((e) => e.detail.n)).toEqual(Array.from({ length: n }, (_, i) => i));
+    expect(await reopened.postRef('t7:ack:0')).toBe('ref-7-again');
+    await reopened.close();
+  });
+
+  it('a write that fails among others fails alone: the rest of its batch is kept', async () => {
+    const store = await openFresh();
+    // Two ways to fail inside a batch: the database refuses the row (requester is NOT NULL), or
+    // the work throws before its statement (a BigInt cannot be written as JSON).
+    const refused = state('bad-row', 'clarifying', null as unknown as string, '2026-12-01T09:00:00.000Z');
+    const unwritable = entry('bad-json', '2026-12-01T09:00:00.000Z', 'request', { n: 10n });
+    const outcomes = await Promise.allSettled([
+      ...Array.from({ length: 20 }, (_, i) => store.put(state(`t${i}`, 'clarifying', 'maren', '2026-12-01T09:00:00.000Z'))),
+      store.put(refused),
+      store.appendAudit(entry('t0', '2026-12-01T09:00:01.000Z', 'request', { n: 1 })),
+      store.appendAudit(unwritable),
+      store.appendAudit(entry('t0', '2026-12-01T09:00:02.000Z', 'request', { n: 2 })),
+    ]);
+    expect(outcomes.map((o) => o.status)).toEqual([...new Array<string>(20).fill('fulfilled'), 'rejected', 'fulfilled', 'rejected', 'fulfilled']);
+    expect(await store.list()).toHaveLength(20);
+    expect(await store.get('bad-row')).toBeUndefined();
+    expect((await store.listAudit()).map((e) => e.detail.n)).toEqual([1, 2]);
+    // The store goes on working after the failures.
+    await store.appendAudit(entry('t0', '2026-12-01T09:00:03.000Z', 'request', { n: 3 }));
+    expect((await store.listAudit()).map((e) => e.detail.n)).toEqual([1, 2, 3]);
+    await store.close();
+  });
+});
+
 describeWithPostgres('the PostgreSQL store', (url) => {
   const schemas: string[] = [];
   const open = (schema: string) => PostgresStateStore.open({ url, schema, poolSize: 4, lockPoolSize: 4 });
