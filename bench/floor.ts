@@ -1,6 +1,7 @@
 // The database's own floor: the plan's SQL statements, as our run bound them, executed one after
 // another straight on DuckDB with the same settings our source opens it with; and a reference of
-// what one shared scan would cost: a single GROUP BY at the plan's finest grain and dimensions.
+// what one shared scan would cost: a single GROUP BY at the plan's finest grain and dimensions; and
+// the per-customer question's own reference: a bare GROUP BY customer over its window.
 import { type DuckDBConnection, DuckDBInstance, type DuckDBValue } from '@duckdb/node-api';
 import { executedStatements } from '../analysis/rollup/rollup.js';
 import type { CompiledQuery } from '../analysis/types.js';
@@ -10,6 +11,8 @@ export interface FloorArgs {
   queries: CompiledQuery[];
   threads?: number;
   memoryLimit?: string;
+  /** The per-customer question's window [from, to), when the plan has one. */
+  perCustomerWindow?: [string, string];
 }
 
 export interface FloorResult {
@@ -26,6 +29,9 @@ export interface FloorResult {
   tableScanMs: number;
   groupByMs: number;
   groupByRows: number;
+  /** A bare GROUP BY customer (a count each) over the per-customer question's window; null without one. */
+  customerGroupByMs: number | null;
+  customerGroups: number | null;
   openMs: number;
   maxRssKb: number;
 }
@@ -39,6 +45,12 @@ export const SINGLE_GROUP_BY = `SELECT CAST(date_trunc('month', sail_date) AS DA
   COUNT(*) FILTER (WHERE refunded) AS refunded
 FROM bookings
 GROUP BY ALL`;
+
+/** Bookings per customer and nothing else: what any per-customer question must at least do. */
+export const CUSTOMER_GROUP_BY = `SELECT customer_id, COUNT(*) AS n
+FROM bookings
+WHERE sail_date >= CAST($1 AS DATE) AND sail_date < CAST($2 AS DATE) AND customer_id IS NOT NULL
+GROUP BY customer_id`;
 
 export function distinctQueries<T extends CompiledQuery>(queries: T[]): T[] {
   const seen = new Map<string, T>();
@@ -90,6 +102,13 @@ export async function runFloor(args: FloorArgs): Promise<FloorResult> {
     const g = performance.now();
     const groupByRows = await run({ sql: SINGLE_GROUP_BY, params: [] });
     const groupByMs = performance.now() - g;
+    let customerGroupByMs: number | null = null;
+    let customerGroups: number | null = null;
+    if (args.perCustomerWindow) {
+      const c = performance.now();
+      customerGroups = await run({ sql: CUSTOMER_GROUP_BY, params: args.perCustomerWindow });
+      customerGroupByMs = performance.now() - c;
+    }
     const shared = distinct.map((q) => q.sql.includes('memory.main.tc_rollup_'));
     const sum = (pick: boolean) => perStatementMs.reduce((t, ms, i) => t + (shared[i] === pick ? ms : 0), 0);
     return {
@@ -102,6 +121,8 @@ export async function runFloor(args: FloorArgs): Promise<FloorResult> {
       tableScanMs: sum(false),
       groupByMs,
       groupByRows,
+      customerGroupByMs,
+      customerGroups,
       openMs,
       maxRssKb: process.resourceUsage().maxRSS,
     };

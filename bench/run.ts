@@ -199,9 +199,12 @@ async function measureSize(data: BenchData, reps: number, engine: BenchRun['engi
     oursProcessMs.push(processMs);
     ours.push(o);
     log(`${label} rows: ours ${(o.totalMs / 1000).toFixed(2)} s; the floor, run ${i + 1} of ${reps}...`);
+    // Its window is its first two parameters (checked, so a change to the template shows up as no reference, not a wrong one).
+    const perCustomer = o.queries.find((q) => q.name === 'frequency' && /"sail_date" >= CAST\(\$1 AS DATE\)\s+AND "sail_date" < CAST\(\$2 AS DATE\)/.test(q.sql));
     const floorArgs: FloorArgs = {
       databasePath: data.databasePath,
       queries: o.queries,
+      ...(perCustomer ? { perCustomerWindow: [String(perCustomer.params[0]), String(perCustomer.params[1])] as [string, string] } : {}),
       ...(engine.threads ? { threads: engine.threads } : {}),
       ...(engine.memoryLimit ? { memoryLimit: engine.memoryLimit } : {}),
     };
