@@ -33,6 +33,9 @@ export interface FloorResult {
   customerGroupByMs: number | null;
   customerGroups: number | null;
   openMs: number;
+  /** CPU time (user + system, every thread of the process) while the floor's statements ran. */
+  floorCpuMs: number;
+  /** Peak resident memory after the floor's statements, before the references ran. */
   maxRssKb: number;
 }
 
@@ -87,6 +90,7 @@ export async function runFloor(args: FloorArgs): Promise<FloorResult> {
     // (queries over the rollup read the stored copy).
     const distinct = executedStatements(distinctQueries(args.queries));
     const perStatementMs: number[] = [];
+    const cpuBefore = process.cpuUsage();
     const started = performance.now();
     for (const q of distinct) {
       const t = performance.now();
@@ -94,10 +98,12 @@ export async function runFloor(args: FloorArgs): Promise<FloorResult> {
       perStatementMs.push(performance.now() - t);
     }
     const floorMs = performance.now() - started;
+    const cpu = process.cpuUsage(cpuBefore);
     await dropStoredRollups(connection);
     const allStarted = performance.now();
     for (const q of executedStatements(args.queries)) await run(q);
     const allStatementsMs = performance.now() - allStarted;
+    const maxRssKb = process.resourceUsage().maxRSS;
     await dropStoredRollups(connection);
     const g = performance.now();
     const groupByRows = await run({ sql: SINGLE_GROUP_BY, params: [] });
@@ -124,7 +130,8 @@ export async function runFloor(args: FloorArgs): Promise<FloorResult> {
       customerGroupByMs,
       customerGroups,
       openMs,
-      maxRssKb: process.resourceUsage().maxRSS,
+      floorCpuMs: (cpu.user + cpu.system) / 1000,
+      maxRssKb,
     };
   } finally {
     connection.closeSync();

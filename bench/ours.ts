@@ -22,6 +22,8 @@ export interface PhaseTotal {
 export interface OursResult {
   end: string;
   totalMs: number;
+  /** CPU time (user + system, every thread of the process: DuckDB's too) from the call to its return. */
+  cpuMs: number;
   phases: Record<Phase, PhaseTotal>;
   /** Each chart's render time (the digest excluded), in plan order of completion. */
   chartRenderMs: number[];
@@ -55,9 +57,11 @@ export async function runOurs(args: { configPath: string }): Promise<OursResult>
     writeFileSync(answersFile, DEMO_ANSWERS);
     const phases = new Collector();
     const outDir = join(dir, 'thread');
+    const cpuBefore = process.cpuUsage();
     const started = performance.now();
     const result = await ask({ configFile: args.configPath, request: DEMO_REQUEST, answersFile, outDir, now: new Date(DEMO_NOW), phases });
     const totalMs = performance.now() - started;
+    const cpu = process.cpuUsage(cpuBefore);
     const renders = phases.steps.filter((s) => s.phase === 'render');
     // The digest is drawn once, after every answer: the last render step.
     const digest = renders.length > 0 ? renders.reduce((a, b) => (b.start > a.start ? b : a)) : undefined;
@@ -65,6 +69,7 @@ export async function runOurs(args: { configPath: string }): Promise<OursResult>
     return {
       end: result.end,
       totalMs,
+      cpuMs: (cpu.user + cpu.system) / 1000,
       phases: Object.fromEntries(PHASES.map((p) => [p, totalOf(phases.steps.filter((s) => s.phase === p))])) as Record<Phase, PhaseTotal>,
       chartRenderMs: renders.filter((s) => s !== digest).map((s) => s.end - s.start),
       digestRenderMs: digest ? [digest.end - digest.start] : [],
