@@ -138,8 +138,9 @@ export class DuckDbStateStore implements StateStore {
     });
   }
 
-  put(state: ThreadState): Promise<void> {
-    // An update, else an insert: DuckDB's INSERT OR REPLACE costs about three times either.
+  async put(state: ThreadState): Promise<void> {
+    // An update, else an insert: DuckDB's INSERT OR REPLACE costs about three times either. The
+    // state is written as it was when put was called.
     const row = [state.threadId, state.requester, state.stage, JSON.stringify(state), state.updatedAt];
     return this.serial(async () => {
       const updated = await this.execute('UPDATE threads SET requester = $2, stage = $3, state = $4, updated_at = $5 WHERE thread_id = $1', row);
@@ -165,8 +166,8 @@ export class DuckDbStateStore implements StateStore {
   }
 
   recordPost(key: string, threadId: string, ref: string): Promise<void> {
-    // A key is nearly always new (its post was just sent); an update, when it is not, comes back
-    // with the row count.
+    // An update, else an insert, as for threads: an insert that hit an existing key would also
+    // abort every other write committed with it.
     return this.serial(async () => {
       const updated = await this.execute('UPDATE posts SET thread_id = $2, ref = $3 WHERE post_key = $1', [key, threadId, ref]);
       if (updated === 0) await this.execute('INSERT INTO posts VALUES ($1, $2, $3)', [key, threadId, ref]);
