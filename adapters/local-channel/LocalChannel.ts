@@ -10,6 +10,7 @@ import { localApi } from './local-api.js';
 import type { LocalThreadLog } from './local-thread-log.js';
 import { LocalThreads } from './LocalThreads.js';
 import { loadPageFiles } from './page-files.js';
+import { noteAccepted } from './server-timing.js';
 
 const PREFIX = 'local:';
 
@@ -50,6 +51,7 @@ export class LocalChannel implements ChatAdapter {
         streams: this.streams,
       }),
     );
+    this.server.on('connection', noteAccepted);
   }
 
   owns(threadId: string): boolean {

@@ -11,6 +11,7 @@ import type { Deliver } from '../chat-adapter.js';
 import { MAX_BODY_BYTES, newMessageSchema, type NewMessage } from './api-limits.js';
 import type { LocalEvent, LocalThreadLog } from './local-thread-log.js';
 import type { PageFile } from './page-files.js';
+import { noteReceived, serverTiming } from './server-timing.js';
 
 /** The access rules' channel key of every local thread (the page is one channel). */
 export const LOCAL_CHANNEL = 'local';
@@ -38,6 +39,7 @@ class HttpError extends Error {
 
 export function localApi(deps: LocalApiDeps) {
   return (req: HttpRequest, res: ServerResponse): void => {
+    noteReceived(req);
     route(deps, req, res).catch((err: unknown) => {
       const status = err instanceof HttpError ? err.status : 500;
       const message = err instanceof HttpError ? err.message : 'internal error';
@@ -168,6 +170,12 @@ async function readMessage(req: HttpRequest): Promise<NewMessage> {
 
 function sendJson(res: ServerResponse, status: number, body: unknown): void {
   const text = JSON.stringify(body);
-  res.writeHead(status, { 'content-type': 'application/json; charset=utf-8', 'content-length': Buffer.byteLength(text), 'cache-control': 'no-store' });
+  const timing = serverTiming(res);
+  res.writeHead(status, {
+    'content-type': 'application/json; charset=utf-8',
+    'content-length': Buffer.byteLength(text),
+    'cache-control': 'no-store',
+    ...(timing ? { 'server-timing': timing } : {}),
+  });
   res.end(text);
 }

@@ -184,6 +184,39 @@ describe('acknowledgement', () => {
       await channel.stop();
     }
   });
+
+  it('says how long it held each answer (Server-Timing), counting from the connection for its first request', async () => {
+    const channel = new LocalChannel({ port: 0, deliver: () => undefined });
+    await channel.start();
+    const { port } = new URL(channel.url);
+    const { connect } = await import('node:net');
+    const socket = connect(Number(port), '127.0.0.1');
+    try {
+      await new Promise<void>((resolve, reject) => socket.once('connect', resolve).once('error', reject));
+      let received = '';
+      socket.setEncoding('utf8').on('data', (chunk: string) => (received += chunk));
+      const exchange = async (path: string): Promise<number> => {
+        const before = received.length;
+        socket.write(`GET ${path} HTTP/1.1\r\nHost: 127.0.0.1:${port}\r\n\r\n`);
+        await waitFor('the answer', async () => /\r\n\r\n[\s\S]*\}/.test(received.slice(before)));
+        const m = /^server-timing: held;dur=(\d+(?:\.\d+)?)\r$/im.exec(received.slice(before));
+        expect(m, received.slice(before)).not.toBeNull();
+        return Number(m![1]);
+      };
+      // The connection sits idle for 300 ms before its first request: that wait is the server's
+      // holding time too (a connection accepted and not yet read is waiting on the server).
+      await new Promise((resolve) => setTimeout(resolve, 300));
+      const first = await exchange('/api/threads/no-such-thread');
+      // A second request on the same kept-alive connection counts from its own arrival.
+      const second = await exchange('/api/threads/no-such-thread');
+      expect(first).toBeGreaterThanOrEqual(300);
+      expect(second).toBeLessThan(first);
+      expect(second).toBeGreaterThanOrEqual(0);
+    } finally {
+      socket.destroy();
+      await channel.stop();
+    }
+  });
 });
 
 /** A screenshot after two animation frames, so the page has painted what the test just did. */
