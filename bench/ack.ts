@@ -33,6 +33,9 @@ export interface AckResult {
   acceptedWithStreamsMs: number[];
   /** The HTTP floor on this machine: the same number of requests for an unknown thread (404, no bot work). */
   notFoundMs: number[];
+  /** The server's own time for the same answers, from its Server-Timing header (accepting the connection to writing the answer). */
+  acceptedServerMs: number[];
+  notFoundServerMs: number[];
   wallMs: number;
   serverMaxRssKb: number | null;
   /** The same server with its state in PostgreSQL; null when no URL was given. */
@@ -77,8 +80,8 @@ export async function measureAck(configPath: string, requests = 200): Promise<Ac
     // Unmeasured: the server's first requests pay for compiling and warming caches.
     await round('warm-up', true);
     // The short rounds three times each, alternating, so one unlucky moment does not decide the tail.
-    const notFound: number[] = [];
-    const accepted: { accepted: number }[] = [];
+    const notFound: { ms: number; serverMs: number | null }[] = [];
+    const accepted: { accepted: number; serverMs: number | null }[] = [];
     const started = performance.now();
     for (let r = 0; r < ROUNDS; r++) {
       notFound.push(...(await Promise.all(Array.from({ length: requests }, (_, i) => timedGet(server.url, agent, `api/threads/no-such-thread-${r}-${i}`, deadline)))));
@@ -100,9 +103,11 @@ export async function measureAck(configPath: string, requests = 200): Promise<Ac
       rounds: ROUNDS,
       completed: accepted.length + replied.length,
       acceptedMs: accepted.map((d) => d.accepted),
+      acceptedServerMs: accepted.flatMap((d) => (d.serverMs === null ? [] : [d.serverMs])),
+      notFoundServerMs: notFound.flatMap((d) => (d.serverMs === null ? [] : [d.serverMs])),
       acknowledgedMs: replied.map((d) => d.acknowledged!),
       acceptedWithStreamsMs: replied.map((d) => d.accepted),
-      notFoundMs: notFound,
+      notFoundMs: notFound.map((d) => d.ms),
       wallMs,
       serverMaxRssKb: server.peakKb(),
       shared,
@@ -155,13 +160,19 @@ async function measureSharedAck(configPath: string, stateUrl: string, requests: 
   }
 }
 
+/** The server's own holding time from its Server-Timing header ("held;dur=12.34"), or null. */
+function heldMs(header: string | string[] | undefined): number | null {
+  const m = /(?:^|,)\s*held;dur=(\d+(?:\.\d+)?)/.exec(Array.isArray(header) ? header.join(',') : (header ?? ''));
+  return m ? Number(m[1]) : null;
+}
+
 /** A GET timed to the end of its response, whatever its status. */
-function timedGet(baseUrl: string, agent: Agent, path: string, deadline: number): Promise<number> {
+function timedGet(baseUrl: string, agent: Agent, path: string, deadline: number): Promise<{ ms: number; serverMs: number | null }> {
   const started = performance.now();
-  return new Promise<number>((resolve, reject) => {
+  return new Promise((resolve, reject) => {
     const req = request(new URL(path, baseUrl), { agent, timeout: Math.max(1, deadline - Date.now()) }, (res) => {
       res.resume();
-      res.on('end', () => resolve(performance.now() - started));
+      res.on('end', () => resolve({ ms: performance.now() - started, serverMs: heldMs(res.headers['server-timing']) }));
     });
     req.on('timeout', () => req.destroy(new Error('the request ran past the time limit')));
     req.on('error', reject);
@@ -196,14 +207,16 @@ async function oneRequest(
   author: string,
   deadline: number,
   readReply: boolean,
-): Promise<{ accepted: number; acknowledged: number | null }> {
+): Promise<{ accepted: number; serverMs: number | null; acknowledged: number | null }> {
   const started = performance.now();
   const body = JSON.stringify({ author, text: DEMO_REQUEST });
+  let serverMs: number | null = null;
   const created = await new Promise<string>((resolve, reject) => {
     const req = request(
       new URL('api/threads', baseUrl),
       { method: 'POST', agent, headers: { 'content-type': 'application/json', 'content-length': Buffer.byteLength(body) }, timeout: Math.max(1, deadline - Date.now()) },
       (res) => {
+        serverMs = heldMs(res.headers['server-timing']);
         let text = '';
         res.setEncoding('utf8');
         res.on('data', (chunk: string) => (text += chunk));
@@ -215,7 +228,7 @@ async function oneRequest(
     req.end(body);
   });
   const accepted = performance.now() - started;
-  if (!readReply) return { accepted, acknowledged: null };
+  if (!readReply) return { accepted, serverMs, acknowledged: null };
   const { threadId } = JSON.parse(created) as { threadId: string };
   // The stream replays the thread's events from the start, so the reply cannot be missed.
   await new Promise<void>((resolve, reject) => {
@@ -244,7 +257,7 @@ async function oneRequest(
     req.on('error', (err) => reject(err));
     req.end();
   });
-  return { accepted, acknowledged: performance.now() - started };
+  return { accepted, serverMs, acknowledged: performance.now() - started };
 }
 
 interface Server {
