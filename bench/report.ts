@@ -26,6 +26,8 @@ const sec = (ms: number) => (Number.isFinite(ms) ? (ms / 1000).toFixed(ms < 10_0
 const msText = (ms: number) => (Number.isFinite(ms) ? `${ms.toFixed(ms < 10 ? 1 : 0)}` : 'n/a');
 const mb = (kb: number) => (Number.isFinite(kb) ? `${Math.round(kb / 1024)}` : 'n/a');
 const ratio = (x: number) => (Number.isFinite(x) ? `${x.toFixed(2)}×` : 'n/a');
+/** A ratio judged against `limit`: one more decimal where two would print the limit itself, so "1.25×, not met" cannot happen. */
+const ratioAgainst = (x: number, limit: number) => (Number.isFinite(x) && x !== limit && x.toFixed(2) === limit.toFixed(2) ? `${x.toFixed(3)}×` : ratio(x));
 const rowsLabel = (n: number) => (n % 1_000_000 === 0 ? `${n / 1_000_000}M` : n % 1000 === 0 ? `${n / 1000}k` : String(n));
 
 interface Summary {
@@ -161,6 +163,7 @@ export function writeReport(run: BenchRun): string {
     'npm run bench                     # 1M, 10M and 30M rows, 3 runs each',
     'npm run bench -- --sizes 1M,10M   # fewer sizes',
     'npm run bench -- --quick          # 1M only, one run: a smoke test',
+    'npm run bench -- --report-from .cache/bench/last-run.json   # this report again from the raw results, measuring nothing',
     '```',
     '',
     'The demo data is generated once per size into `.cache/bench/<rows>/` and reused while the generator\'s SQL is unchanged; raw measurements go to `.cache/bench/last-run.json`. pandas is used when `python3` (or `/usr/bin/python3`) imports it; otherwise it is skipped with a note.',
@@ -285,9 +288,9 @@ export function writeReport(run: BenchRun): string {
     '',
     '| target | measured | verdict |',
     '| --- | --- | --- |',
-    `| end to end ≤ 1.25× the SQL floor at 10M | ${t10((s) => `${ratio(s.total / s.floor)} (${sec(s.total)} s vs ${sec(s.floor)} s); the first run on new data ${ratio(s.cold.total / s.floor)} (${sec(s.cold.total)} s)${s.cpu !== null && s.floorCpu !== null ? `. Ours used ${sec(s.cpu)} s of CPU against the floor's ${sec(s.floorCpu)} s; on ${run.machine.cores} cores that takes at least ${sec(s.cpu / run.machine.cores)} s (${ratio(s.cpu / run.machine.cores / s.floor)} the floor) even with no waiting, and ours kept the cores ${((s.cpu / run.machine.cores / s.total) * 100).toFixed(0)}% busy` : ''}`) ?? 'no 10M run'} | ${verdict(t10((s) => s.total <= 1.25 * s.floor))}${t10((s) => s.total <= 1.25 * s.floor && s.cold.total > 1.25 * s.floor) ? ' (warm runs; not on the first run)' : ''} |`,
+    `| end to end ≤ 1.25× the SQL floor at 10M | ${t10((s) => `${ratioAgainst(s.total / s.floor, 1.25)} (${sec(s.total)} s vs ${sec(s.floor)} s); the first run on new data ${ratio(s.cold.total / s.floor)} (${sec(s.cold.total)} s)${s.cpu !== null && s.floorCpu !== null ? `. Ours used ${sec(s.cpu)} s of CPU against the floor's ${sec(s.floorCpu)} s; on ${run.machine.cores} cores that takes at least ${sec(s.cpu / run.machine.cores)} s (${ratio(s.cpu / run.machine.cores / s.floor)} the floor) even with no waiting, and ours kept the cores ${((s.cpu / run.machine.cores / s.total) * 100).toFixed(0)}% busy` : ''}`) ?? 'no 10M run'} | ${verdict(t10((s) => s.total <= 1.25 * s.floor))}${t10((s) => s.total <= 1.25 * s.floor && s.cold.total > 1.25 * s.floor) ? ' (warm runs; not on the first run)' : ''} |`,
     `| every peer slower than us, at every size | ${run.sizes.map((r, i) => `${rowsLabel(r.rows)}: arquero ${peerRatio(r.arquero?.totalMs, r.arqueroStoppedAtMs, sizes[i]!.total)}, pandas ${peerRatio(r.pandas?.totalMs, r.pandasStoppedAtMs, sizes[i]!.total)}`).join('; ')} (peer ÷ ours, with their load/read) | ${verdict(peersRun ? peersSlower : null)}${peersSlower && !peersSlowerCompute ? ' (not on compute alone)' : ''} |`,
-    `| the plan's SQL phase within 1.5× of the single GROUP BY at 10M | ${t10((s) => `${ratio(s.phase.sql / s.groupBy)} (${sec(s.phase.sql)} s vs ${sec(s.groupBy)} s); of the floor, the shared scan (the rollup and every statement over it) is ${ratio(s.sharedScan / s.groupBy)} (${sec(s.sharedScan)} s) and the per-customer question, which groups every customer and no rollup by day can serve, ${ratio(s.tableScan / s.groupBy)} (${sec(s.tableScan)} s)${s.customerGroupBy !== null ? `; grouping the same rows by customer with nothing else computed takes ${ratio(s.customerGroupBy / s.groupBy)} (${sec(s.customerGroupBy)} s)${s.customerGroupBy > 1.5 * s.groupBy ? ', so no plan that answers the per-customer question can come within 1.5× of this reference' : ''}` : ''}`) ?? 'no 10M run'} | ${verdict(t10((s) => s.phase.sql <= 1.5 * s.groupBy))} |`,
+    `| the plan's SQL phase within 1.5× of the single GROUP BY at 10M | ${t10((s) => `${ratioAgainst(s.phase.sql / s.groupBy, 1.5)} (${sec(s.phase.sql)} s vs ${sec(s.groupBy)} s); of the floor, the shared scan (the rollup and every statement over it) is ${ratio(s.sharedScan / s.groupBy)} (${sec(s.sharedScan)} s) and the per-customer question, which groups every customer and no rollup by day can serve, ${ratio(s.tableScan / s.groupBy)} (${sec(s.tableScan)} s)${s.customerGroupBy !== null ? `; grouping the same rows by customer with nothing else computed takes ${ratio(s.customerGroupBy / s.groupBy)} (${sec(s.customerGroupBy)} s)${s.customerGroupBy > 1.5 * s.groupBy ? ', so no plan that answers the per-customer question can come within 1.5× of this reference' : ''}` : ''}`) ?? 'no 10M run'} | ${verdict(t10((s) => s.phase.sql <= 1.5 * s.groupBy))} |`,
     `| peak memory ≤ 500 MB at 10M | ${t10((s) => `${mb(s.rss)} MB warm; ${mb(s.cold.rss)} MB on the first run`) ?? 'no 10M run'} | ${verdict(t10((s) => Math.max(s.rss, s.cold.rss) <= 500 * 1024))}${t10((s) => s.rss <= 500 * 1024 && s.cold.rss > 500 * 1024) ? ' (met by the warm runs only)' : ''} |`,
     `| median chart render ≤ 50 ms | ${allCharts.length ? `${msText(chartMedian)} ms over every run (${sizes.map((s) => `${rowsLabel(s.rows)}: ${msText(median(s.charts))} ms`).join(', ')}), sharing the cores with the SQL running alongside` : 'n/a'} | ${verdict(allCharts.length ? chartMedian <= 50 : null)} |`,
     `| acknowledgement p99 ≤ 100 ms (200 concurrent) | ${ack ? `${msText(ackP99)} ms for the API's 201 (the HTTP floor's p99: ${msText(percentile(ack.notFoundMs, 0.99))} ms)${ack.acceptedServerMs?.length ? `; ${msText(percentile(ack.acceptedServerMs, 0.99))} ms as the server timed it, from accepting the connection` : ''}; the bot's reply ${msText(percentile(ack.acknowledgedMs, 0.99))} ms` : 'n/a'} | ${verdict(ack ? ackP99 <= 100 : null)} |`,
@@ -330,7 +333,9 @@ function ackReading(ack: NonNullable<BenchRun['ack']>): string[] {
   const floorP99 = percentile(ack.notFoundMs, 0.99);
   const acceptedP99 = percentile(ack.acceptedMs, 0.99);
   const out = [
-    `The API's 201 at the 99th percentile is ${msText(acceptedP99 - floorP99)} ms above the HTTP floor's (${ratio(acceptedP99 / floorP99)}): reading and checking the body, recording the message, and the bot's work on the first requests (its state store's writes) running while the last ones still wait.`,
+    acceptedP99 > floorP99
+      ? `The API's 201 at the 99th percentile is ${msText(acceptedP99 - floorP99)} ms above the HTTP floor's (${ratio(acceptedP99 / floorP99)}): reading and checking the body, recording the message, and the bot's work on the first requests (its state store's writes) running while the last ones still wait.`
+      : `The API's 201 at the 99th percentile is no slower than the HTTP floor's (${ratio(acceptedP99 / floorP99)}): at this load, reading and checking the body and recording the message cost less than the rounds' own variation.`,
   ];
   const serverP99 = ack.acceptedServerMs?.length ? percentile(ack.acceptedServerMs, 0.99) : null;
   if (serverP99 !== null) {
