@@ -51,9 +51,11 @@ function prepare(terms: readonly CatalogTerm[]): PreparedTerm[] {
   const prepared = terms
     .map((t) => ({ term: t, words: normaliseWords(t.phrase) }))
     .filter((t) => t.words.length > 0)
-    .map(({ term, words }) => ({ term, target: words.join(' '), length: words.length, edits: 0 }))
+    .map(({ term, words }) => {
+      const target = words.join(' ');
+      return { term, target, length: words.length, edits: allowedEdits(target.length) };
+    })
     .sort((a, b) => b.target.length - a.target.length);
-  for (const p of prepared) p.edits = allowedEdits(p.target.length);
   preparedLists.set(terms, prepared);
   return prepared;
 }
