@@ -1,5 +1,5 @@
 // Lookups over one dataset's catalog. Names reaching SQL are checked here first.
-import type { ComparisonGroup, DatasetConfig, Dimension, Metric } from '../config/schema.js';
+import type { ComparisonGroup, DatasetConfig, Dimension, Metric, MetricKind } from '../config/schema.js';
 
 export class CatalogError extends Error {
   constructor(
@@ -51,5 +51,25 @@ export function metricColumns(ds: DatasetConfig, metric: Metric): string[] {
       return [...metricColumns(ds, metricByName(ds, def.numerator)), ...metricColumns(ds, metricByName(ds, def.denominator))];
     case 'rate':
       return [def.where.column, ...(def.of ? metricColumns(ds, metricByName(ds, def.of)) : [])];
+  }
+}
+
+/**
+ * The metric's kind of quantity (see MetricKind in config/schema.ts): the kind the config declares,
+ * or the one its definition implies. Sums and counts are flows; ratios and rates are ratios; an
+ * average is a ratio (a mean per row) unless declared a level (a reading such as a concentration).
+ * A declared `level` on a sum stays a level: a column of daily balances summed per day is still one.
+ */
+export function metricKind(ds: DatasetConfig, metric: Metric): MetricKind {
+  if (metric.kind) return metric.kind;
+  switch (metric.definition.type) {
+    case 'sum':
+    case 'count':
+    case 'distinct_count':
+      return 'flow';
+    case 'average':
+    case 'ratio':
+    case 'rate':
+      return 'ratio';
   }
 }

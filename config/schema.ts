@@ -33,6 +33,15 @@ export type MetricDefinition = z.infer<typeof metricDefinitionSchema>;
 export const unitSchema = z.enum(['currency', 'count', 'percent', 'number']);
 export type Unit = z.infer<typeof unitSchema>;
 
+/**
+ * What kind of quantity a metric is, which decides how it rolls up to a coarser grain and how its
+ * growth and seasonality are stated: a `flow` sums over time (revenue, bookings); a `level` is a
+ * reading averaged over time (a concentration, a balance, a headcount); a `ratio` is a ratio or a
+ * rate. Optional in the file: analysis/catalog.ts `metricKind` infers it from the definition.
+ */
+export const metricKindSchema = z.enum(['flow', 'level', 'ratio']);
+export type MetricKind = z.infer<typeof metricKindSchema>;
+
 export const metricSchema = z
   .object({
     name: catalogName,
@@ -44,6 +53,7 @@ export const metricSchema = z
     currency: z.string().length(3).optional(),
     decimals: z.number().int().min(0).max(6).optional(),
     higher_is_better: z.boolean(),
+    kind: metricKindSchema.optional(),
   })
   .strict();
 export type Metric = z.infer<typeof metricSchema>;
