@@ -2,13 +2,20 @@
 // freshness checks compare against. Run once per plan.
 import type { CompileContext } from './compile-context.js';
 import { localDateExpr, tableRef } from './compile-context.js';
+import type { DataSource, RunOptions } from './sources/data-source.js';
 import { QueryBuilder } from './sql/query-builder.js';
+import { compileStamps, readStamps, type StampGranularity } from './stamps.js';
 import type { CompiledQuery, ResultTable } from './types.js';
 
 export interface Coverage {
   firstDate: string | null;
   lastDate: string | null;
   rows: number;
+  /**
+   * How often the data is stamped (analysis/stamps.ts), when it was read: data coarser than daily
+   * has no daily grain and no day-of-week pattern, and its last stamped period is complete.
+   */
+  stamps?: StampGranularity;
 }
 
 export function compileCoverage(ctx: CompileContext): CompiledQuery {
@@ -25,4 +32,10 @@ export function readCoverage(table: ResultTable): Coverage {
     lastDate: (r?.last_date as string | null) ?? null,
     rows: Number(r?.row_count ?? 0),
   };
+}
+
+/** The coverage and the stamp granularity, as a workspace keeps them. */
+export async function readDataCoverage(source: DataSource, ctx: CompileContext, options: RunOptions): Promise<Coverage> {
+  const coverage = readCoverage(await source.run(compileCoverage(ctx), options));
+  return { ...coverage, stamps: readStamps(await source.run(compileStamps(ctx), options)) };
 }

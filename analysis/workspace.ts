@@ -2,7 +2,7 @@
 import type { DatasetConfig } from '../config/schema.js';
 import { type LoadedConfig, resolveSourcePath } from '../config/load.js';
 import type { CompileContext } from './compile-context.js';
-import { compileCoverage, type Coverage, readCoverage } from './coverage.js';
+import { type Coverage, readDataCoverage } from './coverage.js';
 import { SourceError, timeColumnTypeOf, type DataSource, type RunOptions } from './sources/data-source.js';
 import { DuckDbSource } from './sources/duckdb-source.js';
 import { PostgresSource } from './sources/postgres-source.js';
@@ -29,7 +29,7 @@ export async function openWorkspace(config: LoadedConfig, datasetName?: string, 
     if (!timeColumnType) throw new SourceError('query_failed', `the time column "${dataset.time_column}" is ${time.type}, not a date or timestamp`);
     const context: CompileContext = { dataset, dialect: source.dialect, timeColumnType };
     const runOptions: RunOptions = { maxRows: config.engine.max_result_rows, timeoutMs: config.engine.statement_timeout_ms };
-    const coverage = readCoverage(await source.run(compileCoverage(context), runOptions));
+    const coverage = await readDataCoverage(source, context, runOptions);
     return { config, dataset, source, context, coverage, runOptions };
   } catch (err) {
     await source.close();
@@ -58,5 +58,5 @@ async function openSource(config: LoadedConfig, dataset: DatasetConfig, secrets:
 
 /** Re-reads what the data covers (for "rerun with fresh data"). */
 export async function refreshCoverage(ws: Workspace): Promise<void> {
-  ws.coverage = readCoverage(await ws.source.run(compileCoverage(ws.context), ws.runOptions));
+  ws.coverage = await readDataCoverage(ws.source, ws.context, ws.runOptions);
 }

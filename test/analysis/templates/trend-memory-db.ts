@@ -3,7 +3,7 @@
 import { DuckDBInstance, DuckDBTypeId, type DuckDBConnection, type DuckDBType } from '@duckdb/node-api';
 import { parseConfigText } from '../../../config/load.js';
 import type { CompileContext } from '../../../analysis/compile-context.js';
-import { compileCoverage, readCoverage } from '../../../analysis/coverage.js';
+import { readDataCoverage } from '../../../analysis/coverage.js';
 import { timeColumnTypeOf, type DataSource, type RunOptions, type TableColumn } from '../../../analysis/sources/data-source.js';
 import { duckdbDialect } from '../../../analysis/sql/dialect.js';
 import type { CellValue, CompiledQuery, ResultColumn, ResultTable } from '../../../analysis/types.js';
@@ -79,6 +79,6 @@ export async function memoryWorkspace(setup: string[], configYaml: string): Prom
   if (!timeColumnType) throw new Error(`test table has no usable time column ${dataset.time_column}`);
   const context: CompileContext = { dataset, dialect: duckdbDialect, timeColumnType };
   const runOptions: RunOptions = { maxRows: config.engine.max_result_rows, timeoutMs: config.engine.statement_timeout_ms };
-  const coverage = readCoverage(await source.run(compileCoverage(context), runOptions));
+  const coverage = await readDataCoverage(source, context, runOptions);
   return { config, dataset, source, context, coverage, runOptions };
 }
