@@ -4,7 +4,8 @@ import { qualityCaveatsFor } from './quality/check-run.js';
 import type { QualityReport } from './quality/quality-checks.js';
 import { covers, rollupNeeds } from './rollup/eligibility.js';
 import { sharedScanQuery } from './rollup/rollup.js';
-import { templateFor, type Template } from './templates/index.js';
+import { definitionOf } from './sub-questions/registry.js';
+import type { Template } from './templates/template.js';
 import type { RunScope } from './run-scope.js';
 import type { Answer, NamedQuery, ResultTable, SubQuestion } from './types.js';
 import type { Workspace } from './workspace.js';
@@ -25,7 +26,7 @@ export interface AnswerOptions {
 }
 
 export async function answerSubQuestion(sq: SubQuestion, ws: Workspace, opts: AnswerOptions = {}): Promise<Answer> {
-  const template = templateFor(sq);
+  const template = definitionOf(sq).template;
   const queries = compileFor(sq, template, ws, opts.scope);
   opts.onCompiled?.(queries);
   const tables: Record<string, ResultTable> = {};

@@ -37,6 +37,41 @@ export function comparisonGroupByName(ds: DatasetConfig, name: string): Comparis
   return g;
 }
 
+/** Sums and counts add up across segments and periods; averages, distinct counts, ratios and rates do not. */
+export function isAdditive(metric: Metric): boolean {
+  return metric.definition.type === 'sum' || metric.definition.type === 'count';
+}
+
+/** A metric that counts something (rows, with or without a filter): per-unit comparisons are counts per unit. */
+export function isCountMetric(metric: Metric): boolean {
+  return metric.definition.type === 'count';
+}
+
+/** The catalog's plain count of rows (such as bookings), so shares of rows and frequencies can be named. */
+export function plainCountMetric(ds: DatasetConfig): Metric | undefined {
+  return ds.metrics.find((m) => m.definition.type === 'count' && !m.definition.where);
+}
+
+/** True when the dimension exists and may be grouped by or filtered on (personal data never may). */
+export function isGroupable(ds: DatasetConfig, name: string): boolean {
+  const d = ds.dimensions.find((x) => x.name === name);
+  return !!d && !d.personal_data;
+}
+
+/**
+ * True when the dimension may be a breakdown: groupable, and not the column of a comparison
+ * group (a breakdown by the group's own column would repeat the comparison).
+ */
+export function isBreakdownDimension(ds: DatasetConfig, name: string): boolean {
+  const d = ds.dimensions.find((x) => x.name === name);
+  return !!d && isGroupable(ds, name) && !ds.comparison_groups.some((g) => g.column === d.column);
+}
+
+/** The first dimension that may be a breakdown, in catalog order. */
+export function firstBreakdownDimension(ds: DatasetConfig): string | undefined {
+  return ds.dimensions.find((d) => isBreakdownDimension(ds, d.name))?.name;
+}
+
 /** Columns a metric reads, for data-quality checks on exactly what an answer used. */
 export function metricColumns(ds: DatasetConfig, metric: Metric): string[] {
   const def = metric.definition;

@@ -3,6 +3,7 @@
 // Nothing here knows about chat platforms or prose.
 import type { SharedScan } from './rollup/rollup.js';
 import type { FamilyFinding } from './findings/index.js';
+import type { TemplateName } from './sub-questions/registry.js';
 
 export const GRAINS = ['day', 'week', 'month', 'quarter', 'year'] as const;
 export type Grain = (typeof GRAINS)[number];
@@ -34,8 +35,8 @@ export interface SubQuestion {
   id: string;
   kind: RequestKind;
   lens: Lens;
-  /** Which template family answers it (one file per family under analysis/templates/). */
-  template: string;
+  /** Which registered sub-question answers it (analysis/sub-questions/registry.ts). */
+  template: TemplateName;
   metrics: string[];
   dimension?: string;
   grain: Grain;

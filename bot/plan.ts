@@ -1,9 +1,9 @@
 // From a complete brief to a plan of sub-questions (each request kind through its lenses),
 // shaped by the audience and capped in size, and the plan edits a requester can type.
-import type { ComparisonGroup, DatasetConfig, Metric } from '../config/schema.js';
+import type { ComparisonGroup, DatasetConfig } from '../config/schema.js';
+import { firstBreakdownDimension, isAdditive, isBreakdownDimension, metricByName, plainCountMetric } from '../analysis/catalog.js';
 import type { Coverage } from '../analysis/coverage.js';
-import { PRESENTERS } from '../analysis/present/index.js';
-import { TEMPLATES } from '../analysis/templates/index.js';
+import { SUB_QUESTIONS, type TemplateName } from '../analysis/sub-questions/registry.js';
 import { GRAINS, type DateWindow, type Grain, type Lens, type RequestKind, type SubQuestion } from '../analysis/types.js';
 import type { Brief, Question } from './brief.js';
 import { readPeriodPhrase } from './period-phrases.js';
@@ -40,31 +40,32 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
     const focus = phrase?.window ?? all;
     // A question's own breakdowns; the brief's (typed in a prompt) only when nothing else says.
     const own = q.dimensions.length > 0 ? q.dimensions : questions.length === 1 || brief.dimensionsAsked ? brief.dimensions : [];
-    const dims = own.filter((d) => isGroupable(ds, d) && !ds.comparison_groups.some((g) => g.column === ds.dimensions.find((x) => x.name === d)?.column));
-    const metrics = q.metrics.length > 0 ? q.metrics : q.frequency ? [countMetric(ds)?.name].filter((m): m is string => !!m) : brief.metrics;
+    const dims = own.filter((d) => isBreakdownDimension(ds, d));
+    const metrics = q.metrics.length > 0 ? q.metrics : q.frequency ? [plainCountMetric(ds)?.name].filter((m): m is string => !!m) : brief.metrics;
     const before = drafts.length;
-    const add = (template: string, lens: Lens, metric: string, headline: boolean, extra: Partial<SubQuestion> = {}, window: DateWindow = all) => {
-      if (!TEMPLATES[template] || !PRESENTERS[template]) return;
-      drafts.push({ kind: q.kind, lens, template, metrics: [metric], grain, window, filters: [], headline, ...extra });
+    // Kind and lens are the sub-question's own (its declaration in the registry).
+    const add = (template: TemplateName, metric: string, headline: boolean, extra: Partial<SubQuestion> = {}, window: DateWindow = all) => {
+      const { kind, lens } = SUB_QUESTIONS[template];
+      drafts.push({ kind, lens, template, metrics: [metric], grain, window, filters: [], headline, ...extra });
     };
     for (const metric of metrics) {
-      const additive = isAdditive(ds, metric);
+      const additive = ds.metrics.some((m) => m.name === metric) && isAdditive(metricByName(ds, metric));
       switch (q.kind) {
         case 'trend':
-          add('series', 'time_pattern', metric, true);
-          if (grain === 'month') add('trend_seasonality', 'time_pattern', metric, false);
-          add('trend_test', 'time_pattern', metric, false);
-          add('trend_summary', 'summary', metric, false);
-          for (const d of dims) add('segment_trend', 'breakdown', metric, false, { dimension: d });
-          if (additive) for (const d of dims) add('segment_shares', 'distribution', metric, false, { dimension: d });
+          add('series', metric, true);
+          if (grain === 'month') add('trend_seasonality', metric, false);
+          add('trend_test', metric, false);
+          add('trend_summary', metric, false);
+          for (const d of dims) add('segment_trend', metric, false, { dimension: d });
+          if (additive) for (const d of dims) add('segment_shares', metric, false, { dimension: d });
           break;
         case 'growth':
           // The metric's own pattern over time is the context any growth answer is read against.
-          drafts.push(...(TEMPLATES.series && PRESENTERS.series ? [{ kind: 'trend' as const, lens: 'time_pattern' as const, template: 'series', metrics: [metric], grain, window: all, filters: [], headline: false }] : []));
-          add('growth_series', 'time_pattern', metric, !dims.length);
-          for (const [i, d] of dims.entries()) add('growth_drivers', 'breakdown', metric, i === 0, { dimension: d }, focus);
-          add('growth_summary', 'summary', metric, false);
-          if (additive) for (const d of dims) add('growth_share_shift', 'distribution', metric, false, { dimension: d }, focus);
+          add('series', metric, false);
+          add('growth_series', metric, !dims.length);
+          for (const [i, d] of dims.entries()) add('growth_drivers', metric, i === 0, { dimension: d }, focus);
+          add('growth_summary', metric, false);
+          if (additive) for (const d of dims) add('growth_share_shift', metric, false, { dimension: d }, focus);
           break;
         case 'performance': {
           if (!group) break;
@@ -73,22 +74,22 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           if (q.frequency) {
             // "Do they travel more often?" is a per-customer question: comparing the groups'
             // total bookings would mostly measure how many customers each group has.
-            add('performance_frequency', 'distribution', metric, true, g, since);
-            add('performance_before_after', 'time_pattern', metric, false, g);
+            add('performance_frequency', metric, true, g, since);
+            add('performance_before_after', metric, false, g);
             break;
           }
-          add('performance_compare', 'summary', metric, true, g, since);
-          add('performance_before_after', 'time_pattern', metric, false, g);
-          const d = dims[0] ?? firstGroupable(ds);
-          if (d) add('performance_by_segment', 'breakdown', metric, false, { ...g, dimension: d }, since);
+          add('performance_compare', metric, true, g, since);
+          add('performance_before_after', metric, false, g);
+          const d = dims[0] ?? firstBreakdownDimension(ds);
+          if (d) add('performance_by_segment', metric, false, { ...g, dimension: d }, since);
           break;
         }
         case 'kpi': {
           const upTo = { start: all.start, end: focus.end };
-          add('kpi_snapshot', 'time_pattern', metric, true, {}, upTo);
-          add('kpi_context', 'summary', metric, false, {}, upTo);
-          for (const d of dims) add('kpi_by_segment', 'breakdown', metric, false, { dimension: d }, upTo);
-          if (additive) for (const d of dims) add('kpi_mix', 'distribution', metric, false, { dimension: d }, upTo);
+          add('kpi_snapshot', metric, true, {}, upTo);
+          add('kpi_context', metric, false, {}, upTo);
+          for (const d of dims) add('kpi_by_segment', metric, false, { dimension: d }, upTo);
+          if (additive) for (const d of dims) add('kpi_mix', metric, false, { dimension: d }, upTo);
           break;
         }
       }
@@ -123,24 +124,6 @@ function groupFor(q: Question, brief: Brief, ds: DatasetConfig): ComparisonGroup
   return name ? ds.comparison_groups.find((g) => g.name === name) : ds.comparison_groups.length === 1 ? ds.comparison_groups[0] : undefined;
 }
 
-function countMetric(ds: DatasetConfig): Metric | undefined {
-  return ds.metrics.find((m) => m.definition.type === 'count' && !('where' in m.definition && m.definition.where));
-}
-
-function isAdditive(ds: DatasetConfig, metric: string): boolean {
-  const t = ds.metrics.find((m) => m.name === metric)?.definition.type;
-  return t === 'sum' || t === 'count';
-}
-
-function isGroupable(ds: DatasetConfig, dim: string): boolean {
-  const d = ds.dimensions.find((x) => x.name === dim);
-  return !!d && !d.personal_data;
-}
-
-function firstGroupable(ds: DatasetConfig): string | undefined {
-  return ds.dimensions.find((d) => !d.personal_data && !ds.comparison_groups.some((g) => g.column === d.column))?.name;
-}
-
 export type PlanEdit =
   | { type: 'agree' }
   | { type: 'drop'; numbers: number[] }
@@ -153,7 +136,7 @@ export type PlanEdit =
   | { type: 'unknown' };
 
 // The breakdown lens of each request kind, for "add a breakdown by ...".
-const BREAKDOWN_TEMPLATE: Record<RequestKind, string> = {
+const BREAKDOWN_TEMPLATE: Record<RequestKind, TemplateName> = {
   trend: 'segment_trend',
   growth: 'growth_drivers',
   performance: 'performance_by_segment',
@@ -208,7 +191,7 @@ export function applyPlanEdit(plan: Plan, edit: PlanEdit): { plan: Plan; error?:
       for (const sq of heads.values()) {
         const template = BREAKDOWN_TEMPLATE[sq.kind];
         const exists = plan.items.some((x) => x.template === template && x.dimension === dimension && x.metrics.join() === sq.metrics.join());
-        if (exists || !TEMPLATES[template] || !PRESENTERS[template]) continue;
+        if (exists) continue;
         const { dimension: _old, ...rest } = sq;
         added.push({ ...rest, template, lens: 'breakdown', dimension });
       }

@@ -4,7 +4,8 @@ import { renderChart } from '../analysis/charts/render.js';
 import { renderDigest } from '../analysis/charts/render-digest.js';
 import { formatPeriod } from '../analysis/format.js';
 import { timePhase } from '../analysis/phase-timings.js';
-import { presenterFor, type PresentContext } from '../analysis/present/index.js';
+import type { PresentContext } from '../analysis/present/index.js';
+import { definitionOf } from '../analysis/sub-questions/registry.js';
 import { sqlForReaders } from '../analysis/sql/render-sql.js';
 import { tableToCsv } from '../analysis/table-csv.js';
 import type { Answer, Audience } from '../analysis/types.js';
@@ -19,7 +20,7 @@ export function presentContext(ws: Workspace, audience: Audience): PresentContex
 
 export const presentAnswer: AnswerPresenter = async (answer, { workspace, audience, position, timings }) => {
   const sq = answer.subQuestion;
-  const presented = timePhase(timings, 'read', () => presenterFor(sq.template)(answer, presentContext(workspace, audience)));
+  const presented = timePhase(timings, 'read', () => definitionOf(sq).present(answer, presentContext(workspace, audience)));
   const stem = `${String(position).padStart(2, '0')}-${sq.template}-${sq.metrics.join('-')}`;
   const files: OutgoingFile[] = [];
   const spec = presented.chart;

@@ -4,17 +4,16 @@ import { buildBars } from '../charts/build-bars.js';
 import { buildSeasonalProfile } from '../charts/build-seasonal-profile.js';
 import { seasonalityWords } from '../captions/trend-seasonality-caption.js';
 import { weekdayName } from '../captions/trend-words.js';
-import { metricByName } from '../catalog.js';
+import { isAdditive, metricByName } from '../catalog.js';
 import type { TrendSeasonalityFinding, TrendWeekdayFinding } from '../findings/segments.js';
 import { valueFormatOf } from '../format.js';
-import { isAdditiveMetric } from '../templates/segments-fold-sql.js';
 import { caveatNotes, chartFooter, chartSubtitle } from './header.js';
 import type { Presenter } from './presenter.js';
 
 export const presentTrendSeasonality: Presenter = (answer, ctx) => {
   const sq = answer.subQuestion;
   const metric = metricByName(ctx.dataset, sq.metrics[0]!);
-  const additive = isAdditiveMetric(metric);
+  const additive = isAdditive(metric);
   const words = seasonalityWords(metric, additive, answer.findings, ctx.audience, ctx.locale);
   const s = answer.findings.find((f): f is TrendSeasonalityFinding => f.type === 'trend_seasonality' && f.metric === metric.name);
   const w = answer.findings.find((f): f is TrendWeekdayFinding => f.type === 'trend_weekday' && f.metric === metric.name);

@@ -23,12 +23,6 @@ const SMALL = '__tc_small';
 const SMALL_COUNT = '__tc_small_count';
 const COMPLEMENT_COUNT = '__tc_complement_count';
 
-/** Sums and counts add up across segments and periods; averages, distinct counts, ratios and rates do not. */
-export function isAdditiveMetric(ds: DatasetConfig, name: string): boolean {
-  const t = metricByName(ds, name).definition.type;
-  return t === 'sum' || t === 'count';
-}
-
 /**
  * The same dates one year earlier. A window edge on 29 February moves to 1 March: the window is
  * half-open, so [.., 29 Feb 2024) ends after 28 Feb and [.., 1 Mar 2023) does too.

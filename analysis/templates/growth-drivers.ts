@@ -1,6 +1,7 @@
 // Template "growth_drivers": which segments drove the change (growth × breakdown). The metric by
 // one dimension in the window asked for (SubQuestion.window) against the same dates a year earlier.
 import type { DatasetConfig } from '../../config/schema.js';
+import { isAdditive, metricByName } from '../catalog.js';
 import type { GrowthDriverSegment, GrowthDriversFinding } from '../findings/growth.js';
 import { relativeChange } from '../stats/index.js';
 import type { Caveat, Finding, ResultTable, SubQuestion } from '../types.js';
@@ -8,7 +9,6 @@ import type { Coverage } from '../coverage.js';
 import {
   compileWindowComparison,
   foldedMembers,
-  isAdditiveMetric,
   readWindowComparison,
   segmentKeys,
   segmentPresenceCaveats,
@@ -21,7 +21,6 @@ import type { Reading, Template } from './template.js';
 export const DRIVERS_TOP_N = 8;
 
 export const growthDriversTemplate: Template = {
-  name: 'growth_drivers',
   compile: (sq, ctx) => [{ name: 'drivers', ...compileWindowComparison(sq, ctx) }],
   read: (sq, tables, ctx) => readGrowthDrivers(sq, tables.drivers ?? { columns: [], rows: [], truncated: false }, ctx.coverage, ctx.dataset),
 };
@@ -33,7 +32,7 @@ export function readGrowthDrivers(sq: SubQuestion, table: ResultTable, coverage:
   caveats.push(...segmentPresenceCaveats(cmp));
   const findings: Finding[] = [];
   for (const metric of sq.metrics) {
-    const finding = driversOf(sq, cmp, metric, isAdditiveMetric(dataset, metric), caveats);
+    const finding = driversOf(sq, cmp, metric, isAdditive(metricByName(dataset, metric)), caveats);
     if (finding) findings.push(finding);
   }
   const small = foldedMembers(cmp);

@@ -3,7 +3,7 @@
 // same day and month as the last day with data (year to date), all aggregated in the database so
 // ratio metrics stay ratios of sums. Growth rates are worked out in `read`.
 import type { DatasetConfig } from '../../config/schema.js';
-import { metricByName } from '../catalog.js';
+import { isAdditive, metricByName } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type {
@@ -18,7 +18,7 @@ import { addDays, nextPeriod, periodsBetween, periodsPerYear, sameIsoWeekLastYea
 import { QueryBuilder } from '../sql/query-builder.js';
 import { cagr, periodOverPeriod, relativeChange, trailingSumGrowth, yearOverYear } from '../stats/index.js';
 import type { Caveat, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
-import { isAdditiveMetric, maxIso, minIso } from './growth-compare.js';
+import { maxIso, minIso } from './growth-compare.js';
 import type { Reading, Template } from './template.js';
 
 // Working column names, prefixed so they cannot clash with a table's own columns.
@@ -72,7 +72,6 @@ ORDER BY 1, 2, 4, 3`);
 }
 
 export const growthSeriesTemplate: Template = {
-  name: 'growth_series',
   compile: (sq, ctx) => [{ name: 'growth', ...compileGrowthSeries(sq, ctx) }],
   read: (sq, tables, ctx) => readGrowthSeries(sq, tables.growth ?? emptyTable(), ctx.coverage, ctx.dataset),
 };
@@ -134,7 +133,7 @@ export function readGrowthSeries(
   const yearEarlier = yearEarlierIndex(starts, sq.grain, lag);
   const findings: Finding[] = [];
   for (const metric of sq.metrics) {
-    const additive = isAdditiveMetric(dataset, metric);
+    const additive = isAdditive(metricByName(dataset, metric));
     const raw = starts.map((p) => numberOrNull(rows.periods.get(p)?.[metric]));
     if (raw.every((v) => v === null)) {
       caveats.push({ code: 'all_null', data: { metric } });

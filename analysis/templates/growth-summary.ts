@@ -13,7 +13,6 @@ export const MIN_YOY_RATES = 3;
 export const SMALL_RATE_COUNT = 4;
 
 export const growthSummaryTemplate: Template = {
-  name: 'growth_summary',
   compile: (sq, ctx) => [{ name: 'growth', ...compileGrowthSeries(sq, ctx) }],
   read: (sq, tables, ctx) => {
     const base = readGrowthSeries(sq, tables.growth ?? { columns: [], rows: [], truncated: false }, ctx.coverage, ctx.dataset);

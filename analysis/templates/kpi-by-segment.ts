@@ -137,7 +137,6 @@ ORDER BY 1, 4, 5`;
 }
 
 export const kpiBySegmentTemplate: Template = {
-  name: 'kpi_by_segment',
   compile: (sq, ctx) => [{ name: 'segments', ...compileKpiBySegment(sq, ctx) }],
   read: (sq, tables, ctx) => readKpiBySegment(sq, tables.segments ?? EMPTY_TABLE, ctx.dataset, ctx.coverage),
 };

@@ -11,7 +11,6 @@ import { compileSeries, readSeries } from './series.js';
 import type { Reading, Template } from './template.js';
 
 export const kpiContextTemplate: Template = {
-  name: 'kpi_context',
   compile: (sq, ctx) => [{ name: 'history', ...compileSeries(sq, ctx) }],
   read: (sq, tables, ctx) => readKpiContext(sq, tables.history ?? EMPTY_TABLE, ctx.coverage),
 };

@@ -3,7 +3,7 @@
 // with the count of segments making 80% and the HHI. A ratio or rate has no shares of its own,
 // so its mix is the split of what it is measured per (fare per passenger: passengers).
 import type { DatasetConfig, Metric } from '../../config/schema.js';
-import { groupableDimension, metricByName } from '../catalog.js';
+import { groupableDimension, metricByName, plainCountMetric } from '../catalog.js';
 import { measureSql, rowCountSql, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type { KpiMixFinding, KpiMixRow, SegmentKey } from '../findings/kpi.js';
@@ -29,16 +29,12 @@ export function mixMeasure(ds: DatasetConfig, metric: Metric): Metric | null {
     case 'ratio':
       return mixMeasure(ds, metricByName(ds, def.denominator));
     case 'rate':
-      return def.of ? mixMeasure(ds, metricByName(ds, def.of)) : rowCountMetric(ds);
+      return def.of ? mixMeasure(ds, metricByName(ds, def.of)) : (plainCountMetric(ds) ?? null);
     case 'average':
-      return rowCountMetric(ds);
+      return plainCountMetric(ds) ?? null;
   }
 }
 
-/** The catalog's plain count of rows (such as bookings), so shares of rows can be named. */
-function rowCountMetric(ds: DatasetConfig): Metric | null {
-  return ds.metrics.find((m) => m.definition.type === 'count' && !m.definition.where) ?? null;
-}
 
 // Aliases of the share base start with "_", which no catalog metric name can (they start with a letter).
 const baseAlias = (metric: string) => `_base_${metric}`;
@@ -120,7 +116,6 @@ ORDER BY 1, 2`);
 }
 
 export const kpiMixTemplate: Template = {
-  name: 'kpi_mix',
   compile: (sq, ctx) => [{ name: 'mix', ...compileKpiMix(sq, ctx) }],
   read: (sq, tables, ctx) => readKpiMix(sq, tables.mix ?? EMPTY_TABLE, ctx.dataset, ctx.coverage),
 };

@@ -30,7 +30,6 @@ ORDER BY 1`);
 }
 
 export const kpiSnapshotTemplate: Template = {
-  name: 'kpi_snapshot',
   compile: (sq, ctx) => [{ name: 'snapshot', ...compileKpiSnapshot(sq, ctx) }],
   read: (sq, tables, ctx) => readKpiSnapshot(sq, tables.snapshot ?? EMPTY_TABLE, ctx.dataset, ctx.coverage),
 };

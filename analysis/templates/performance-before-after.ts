@@ -42,7 +42,6 @@ GROUP BY 1, 2`;
 }
 
 export const performanceBeforeAfterTemplate: Template = {
-  name: 'performance_before_after',
   compile: (sq, ctx) => {
     const group = resolveGroup(ctx.dataset, sq);
     const series = compileGroupPeriods(sq, ctx, sq.grain, 'series');

@@ -130,7 +130,6 @@ ORDER BY 2, 5, 3`),
 }
 
 export const performanceBySegmentTemplate: Template = {
-  name: 'performance_by_segment',
   compile: (sq, ctx) => [compileSegments(sq, ctx), compileGroups(sq, ctx)],
   read: (sq, tables, ctx) => {
     const ds = ctx.dataset;

@@ -104,7 +104,6 @@ ORDER BY tc_member, tc_draw`),
 }
 
 export const performanceCompareTemplate: Template = {
-  name: 'performance_compare',
   compile: (sq, ctx) => {
     const sample = compileSample(sq, ctx);
     return [compileGroups(sq, ctx), ...(sample ? [sample] : [])];

@@ -2,6 +2,7 @@
 // books, members vs others. SQL aggregates per unit and then summarises per group (mean, spread,
 // median, p90, frequency buckets); Welch's t-test compares the means per unit, with their ratio.
 import type { Metric } from '../../config/schema.js';
+import { isCountMetric } from '../catalog.js';
 import { type CompileContext, tableRef, whereClause } from '../compile-context.js';
 import type { GroupRole, PerformanceFrequencyGroupFinding } from '../findings/performance.js';
 import { metricAggregate } from '../sql/metric-sql.js';
@@ -51,7 +52,7 @@ export function compileFrequency(sq: SubQuestion, ctx: CompileContext): NamedQue
     AND ${unit} IS NOT NULL
   GROUP BY ${unit}
 )`;
-  const { summary, body } = isCount(metric) ? countSummary(q, units) : valueSummary(q, units);
+  const { summary, body } = isCountMetric(metric) ? countSummary(q, units) : valueSummary(q, units);
   const min = minGroupSize(ds);
   if (min !== null) {
     // A group of fewer units (customers) than the minimum group size keeps its row, every number withheld.
@@ -138,7 +139,6 @@ GROUP BY g.tc_flag, g.tc_n, g.tc_mean`,
 }
 
 export const performanceFrequencyTemplate: Template = {
-  name: 'performance_frequency',
   compile: (sq, ctx) => [compileFrequency(sq, ctx)],
   read: (sq, tables, ctx) => {
     const ds = ctx.dataset;
@@ -183,10 +183,6 @@ export const performanceFrequencyTemplate: Template = {
   },
 };
 
-function isCount(metric: Metric): boolean {
-  return metric.definition.type === 'count';
-}
-
 function cellOf(row: Record<string, CellValue> | undefined): MeanCell {
   const n = num(row?.tc_n) ?? 0;
   return { kind: 'mean', n, mean: num(row?.tc_mean) ?? 0, m2: (num(row?.tc_var) ?? 0) * Math.max(0, n - 1) };
@@ -200,7 +196,7 @@ function groupFinding(
 ): PerformanceFrequencyGroupFinding | null {
   if (cell.n <= 0) return null;
   const ci = cellInterval(cell, CONFIDENCE);
-  const buckets = isCount(metric)
+  const buckets = isCountMetric(metric)
     ? FREQUENCY_BUCKETS.map((b, i) => {
         const units = num(row?.[`tc_bucket_${i}`]) ?? 0;
         return { min: b.min, max: b.max, units, share: units / cell.n };

@@ -2,7 +2,7 @@
 // into one "All others" row inside the database, so a dimension with thousands of values
 // still sends only N + 1 rows (per period) to Node.
 import type { Metric } from '../../config/schema.js';
-import { CatalogError, groupableDimension, metricByName } from '../catalog.js';
+import { CatalogError, groupableDimension, isAdditive, metricByName } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { CompiledQuery, Grain, SubQuestion } from '../types.js';
@@ -10,11 +10,6 @@ import { complementaryFoldCtes, minGroupSize } from './small-groups.js';
 
 /** Segments named before the rest are folded (bars and Pareto charts stay readable at this size). */
 export const SEGMENT_TOP_N = 8;
-
-/** Sums and counts add up across segments and periods; averages, ratios, rates and distinct counts do not. */
-export function isAdditiveMetric(metric: Metric): boolean {
-  return metric.definition.type === 'sum' || metric.definition.type === 'count';
-}
 
 export interface FoldedQueryOptions {
   topN: number;
@@ -52,7 +47,7 @@ export function compileFoldedSegments(sq: SubQuestion, ctx: CompileContext, opts
   const metric = metricByName(ctx.dataset, sq.metrics[0]!);
   const col = q.ident(dim.column);
   const table = tableRef(q, ctx);
-  const rankExpr = isAdditiveMetric(metric) ? measureSql(q, ctx, metric) : d.toDouble(rowCountSql(q, ctx));
+  const rankExpr = isAdditive(metric) ? measureSql(q, ctx, metric) : d.toDouble(rowCountSql(q, ctx));
   const innerWhere = whereClause(q, ctx, sq.window, sq.filters);
   const topN = q.bind(opts.topN);
   const foldFrom = q.bind(opts.topN + 1);

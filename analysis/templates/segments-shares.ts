@@ -1,11 +1,11 @@
 // Template "segment_shares": each segment's share of a metric over the window, Pareto
 // cumulative shares, how many segments make up 80%, the top-N share and the HHI. Shares only
 // exist for sums and counts; any other metric gets its per-segment values and no shares.
-import { metricByName } from '../catalog.js';
+import { isAdditive, metricByName } from '../catalog.js';
 import type { SegmentShareRow, SegmentSharesFinding } from '../findings/segments.js';
 import { concentration, hhiBand } from '../stats/index.js';
 import type { Caveat, ResultTable, SubQuestion } from '../types.js';
-import { compileFoldedSegments, isAdditiveMetric, SEGMENT_TOP_N, segmentDimension } from './segments-fold-sql.js';
+import { compileFoldedSegments, SEGMENT_TOP_N, segmentDimension } from './segments-fold-sql.js';
 import { foldedCaveats, readSegmentTotals, type FoldedRow } from './segments-read.js';
 import { minGroupSize } from './small-groups.js';
 import type { ReadContext, Reading, Template } from './template.js';
@@ -17,7 +17,6 @@ export const SHARE_THRESHOLD = 0.8;
 export const SHARE_TOP_N = 3;
 
 export const segmentSharesTemplate: Template = {
-  name: 'segment_shares',
   compile: (sq, ctx) => {
     segmentDimension(sq, ctx);
     return [{ name: 'segment_totals', ...compileFoldedSegments(sq, ctx, { topN: SEGMENT_TOP_N, grain: null, totals: true }) }];
@@ -37,7 +36,7 @@ export function readSegmentShares(sq: SubQuestion, table: ResultTable, ctx: Read
   }
   if (rows.every((r) => r.value === null)) caveats.push({ code: 'all_null', data: { metric: metricName } });
   caveats.push(...foldedCaveats(rows, dimension, minGroupSize(ctx.dataset)));
-  const additive = isAdditiveMetric(metric);
+  const additive = isAdditive(metric);
   const first = table.rows[0]!;
   const base: SegmentSharesFinding = {
     type: 'segment_shares',

@@ -12,7 +12,6 @@ import type { ReadContext, Reading, Template } from './template.js';
 import { completePoints, coveredWindow, EMPTY_TABLE, isoYear, mean, numberOrNull, periodsInYear, seasonallyAdjusted, windowPeriods } from './trend-points.js';
 
 export const segmentTrendTemplate: Template = {
-  name: 'segment_trend',
   compile: (sq, ctx) => {
     segmentDimension(sq, ctx);
     return [

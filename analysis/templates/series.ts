@@ -30,7 +30,6 @@ export interface SeriesReading {
 }
 
 export const seriesTemplate: Template = {
-  name: 'series',
   compile: (sq, ctx) => [{ name: 'series', ...compileSeries(sq, ctx) }],
   read: (sq, tables, ctx) => readSeries(sq, tables.series ?? { columns: [], rows: [], truncated: false }, ctx.coverage),
 };

@@ -1,5 +1,6 @@
 // What every sub-question template provides: pure compilation to named queries for a dialect,
-// and a pure reading of their result tables into findings and caveats.
+// and a pure reading of their result tables into findings and caveats. Its name, kind and lens
+// are declared with the rest of its sub-question (analysis/sub-questions/).
 import type { DatasetConfig } from '../../config/schema.js';
 import type { CompileContext } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
@@ -16,7 +17,6 @@ export interface Reading {
 }
 
 export interface Template {
-  name: string;
   compile(sq: SubQuestion, ctx: CompileContext): NamedQuery[];
   read(sq: SubQuestion, tables: Record<string, ResultTable>, ctx: ReadContext): Reading;
 }

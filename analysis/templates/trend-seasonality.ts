@@ -1,7 +1,7 @@
 // Template "trend_seasonality": the calendar pattern of a metric. Monthly series → classical
 // multiplicative seasonal indices (period 12), the busiest and quietest months and in how many
 // full years each held, plus the day-of-week pattern from a second grouped query.
-import { metricByName } from '../catalog.js';
+import { isAdditive, metricByName } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { CalendarMonthPattern, TrendSeasonalityFinding, WeekdayValue } from '../findings/segments.js';
 import { parseIsoDate } from '../periods.js';
@@ -11,12 +11,10 @@ import type { Caveat, CompiledQuery, Finding, PeriodPoint, ResultTable, SubQuest
 import { compileSeries, readSeries } from './series.js';
 import type { ReadContext, Reading, Template } from './template.js';
 import { coveredWindow, EMPTY_TABLE, isoMonth, isoYear, numberOrNull, seriesFinding } from './trend-points.js';
-import { isAdditiveMetric } from './segments-fold-sql.js';
 
 const PERIOD = 12;
 
 export const trendSeasonalityTemplate: Template = {
-  name: 'trend_seasonality',
   compile: (sq, ctx) => [
     { name: 'monthly', ...compileSeries(monthlyQuestion(sq), ctx) },
     { name: 'weekday', ...compileWeekday(sq, ctx) },
@@ -66,7 +64,7 @@ export function readSeasonality(sq: SubQuestion, monthly: ResultTable, weekday: 
 
   const covered = coveredWindow(sq.window, ctx.coverage);
   if (covered && weekday.rows.length > 0) {
-    const additive = isAdditiveMetric(metric);
+    const additive = isAdditive(metric);
     findings.push({ type: 'trend_weekday', metric: metricName, additive, days: weekdayValues(weekday, covered, additive) });
   }
   return { findings, caveats };

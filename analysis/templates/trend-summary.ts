@@ -7,7 +7,6 @@ import type { ReadContext, Reading, Template } from './template.js';
 import { completePoints, EMPTY_TABLE, seriesFinding } from './trend-points.js';
 
 export const trendSummaryTemplate: Template = {
-  name: 'trend_summary',
   compile: (sq, ctx) => [{ name: 'series', ...compileSeries({ ...sq, metrics: sq.metrics.slice(0, 1) }, ctx) }],
   read: (sq, tables, ctx) => readTrendSummary(sq, tables.series ?? EMPTY_TABLE, ctx),
 };

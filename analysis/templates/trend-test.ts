@@ -12,7 +12,6 @@ import { completePoints, EMPTY_TABLE, mean, periodsInYear, seasonallyAdjusted, s
 export const TREND_ALPHA = 0.05;
 
 export const trendTestTemplate: Template = {
-  name: 'trend_test',
   // One metric per sub-question: the test and the caption speak about one series.
   compile: (sq, ctx) => [{ name: 'series', ...compileSeries({ ...sq, metrics: sq.metrics.slice(0, 1) }, ctx) }],
   read: (sq, tables, ctx) => readTrendTest(sq, tables.series ?? EMPTY_TABLE, ctx),

@@ -10,7 +10,7 @@ import type { CompileContext } from '../../analysis/compile-context.js';
 import type { Coverage } from '../../analysis/coverage.js';
 import { duckdbDialect, type Dialect, type TimeColumnType } from '../../analysis/sql/dialect.js';
 import { postgresDialect } from '../../analysis/sql/postgres-dialect.js';
-import { TEMPLATES } from '../../analysis/templates/index.js';
+import { SUB_QUESTIONS, TEMPLATE_NAMES } from '../../analysis/sub-questions/registry.js';
 import { AUDIENCES, GRAINS, type CompiledQuery, type Grain, type SubQuestion } from '../../analysis/types.js';
 import type { Brief } from '../../bot/brief.js';
 import { isValidIsoDate, readRequest } from '../../bot/intake.js';
@@ -99,7 +99,8 @@ function benignVocabulary(): Vocabulary {
     for (const w of t.words) words.add(w);
     for (const l of t.literals) literals.add(l);
   };
-  for (const [name, template] of Object.entries(TEMPLATES)) {
+  for (const name of TEMPLATE_NAMES) {
+    const template = SUB_QUESTIONS[name].template;
     for (const metric of ds.metrics.map((m) => m.name)) {
       for (const dimension of [undefined, ...groupable]) {
         const shape = { template: name, metrics: [metric], kind: 'trend' as const, lens: 'time_pattern' as const, comparisonGroup: 'skerrypass', ...(dimension ? { dimension } : {}) };
@@ -170,7 +171,7 @@ function checkSql(q: CompiledQuery, fragments: Set<string>, where: string): void
 function compileEverywhere(sq: SubQuestion, fragments: Set<string>, timeType: TimeColumnType): CompiledQuery[][] {
   const out: CompiledQuery[][] = [];
   for (const dialect of DIALECTS) {
-    const queries = TEMPLATES[sq.template]!.compile(sq, ctxOf(dialect, timeType));
+    const queries = SUB_QUESTIONS[sq.template].template.compile(sq, ctxOf(dialect, timeType));
     for (const q of queries) checkSql(q, fragments, `${sq.template} (${dialect.name})`);
     out.push(queries);
   }
@@ -288,7 +289,7 @@ function planAndCompile(request: string, answers: readonly string[], timeType: T
 
 describe('hostile chat input', () => {
   it('derives the allowed vocabulary from benign compilation of every template', () => {
-    expect(vocab.shapes.map((s) => s.template)).toEqual(expect.arrayContaining(Object.keys(TEMPLATES)));
+    expect(vocab.shapes.map((s) => s.template)).toEqual(expect.arrayContaining([...TEMPLATE_NAMES]));
     // The aliases are the templates' own names, never a column the catalog does not expose.
     expect([...vocab.aliases].some((a) => a.includes('customer_email'))).toBe(false);
     // The checker itself rejects what it should.

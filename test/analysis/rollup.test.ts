@@ -6,7 +6,8 @@
 // shown statements in test/analysis/cross-engine.test.ts.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../analysis/answer-sub-question.js';
-import { covers, ROLLUP_TEMPLATES, rollupNeeds, runRollup } from '../../analysis/rollup/eligibility.js';
+import { covers, rollupNeeds, runRollup } from '../../analysis/rollup/eligibility.js';
+import { SUB_QUESTIONS, TEMPLATE_NAMES } from '../../analysis/sub-questions/registry.js';
 import { compileRollup, executedStatements, ROLLUP_NOTE, rollupTable, sharedScanQuery, withRollup } from '../../analysis/rollup/rollup.js';
 import { seriesTemplate } from '../../analysis/templates/series.js';
 import { openRunScope } from '../../analysis/run-scope.js';
@@ -53,6 +54,9 @@ const MORE: SubQuestion[] = [
 
 const ALL = [...CASES, ...MORE];
 
+/** Templates that declare they read the rollup whatever the metric (a plain count's before/after series reads it too). */
+const ROLLUP_TEMPLATES = new Set(TEMPLATE_NAMES.filter((n) => { const use = SUB_QUESTIONS[n].rollup; return !!use && !use.when; }));
+
 describe('which sub-questions read the rollup', () => {
   it('lists only templates whose numbers are sums and counts, and never a distinct count', () => {
     const ds = ws.dataset;
@@ -64,6 +68,10 @@ describe('which sub-questions read the rollup', () => {
       if (sq.metrics.includes('customers')) expect(need).toBeNull();
     }
     expect([...ROLLUP_TEMPLATES].some((t) => t.startsWith('performance'))).toBe(false);
+    // Every sum-and-count template of the trend, growth and KPI families.
+    expect([...ROLLUP_TEMPLATES].sort()).toEqual(
+      ['series', 'trend_test', 'trend_summary', 'trend_seasonality', 'segment_trend', 'segment_shares', 'growth_series', 'growth_summary', 'growth_drivers', 'growth_share_shift', 'kpi_snapshot', 'kpi_context', 'kpi_by_segment', 'kpi_mix'].sort(),
+    );
     // Means, shares and ratios of rows compared between groups need each row.
     for (const metric of ['average_fare', 'refund_rate', 'fare_per_passenger', 'revenue']) {
       expect(rollupNeeds(q({ template: 'performance_before_after', kind: 'performance', lens: 'time_pattern', comparisonGroup: 'skerrypass', metrics: [metric] }), ds)).toBeNull();

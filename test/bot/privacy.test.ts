@@ -5,7 +5,7 @@
 import { DuckDBInstance } from '@duckdb/node-api';
 import pLimit from 'p-limit';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { presenterFor } from '../../analysis/present/index.js';
+import { definitionOf } from '../../analysis/sub-questions/registry.js';
 import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
 import { Bot, type AnswerPresenter } from '../../bot/Bot.js';
 import type { OutgoingPost, ThreadPort } from '../../bot/port.js';
@@ -64,7 +64,7 @@ async function converse(request: string, answers: ScriptedAnswers) {
   const specs: string[] = [];
   // The chart spec of every answer, as the presenter built it (the PNG is drawn from it).
   const capturing: AnswerPresenter = async (answer, ctx) => {
-    const p = presenterFor(answer.subQuestion.template)(answer, presentContext(ctx.workspace, ctx.audience));
+    const p = definitionOf(answer.subQuestion).present(answer, presentContext(ctx.workspace, ctx.audience));
     if (p.chart) specs.push(JSON.stringify(p.chart));
     return presentAnswer(answer, ctx);
   };

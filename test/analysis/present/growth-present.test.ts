@@ -11,7 +11,7 @@ import type {
   GrowthShareShiftFinding,
 } from '../../../analysis/findings/growth.js';
 import { addMonths } from '../../../analysis/periods.js';
-import { PRESENTERS } from '../../../analysis/present/index.js';
+import { definitionOf, type TemplateName } from '../../../analysis/sub-questions/registry.js';
 import type { PresentContext } from '../../../analysis/present/presenter.js';
 import type { Answer, Audience, Caveat, Finding, Grain, SubQuestion } from '../../../analysis/types.js';
 import { exampleDataset } from '../../helpers/example-config.js';
@@ -23,7 +23,7 @@ const ctx = (audience: Audience): PresentContext => ({
   chart: { width: 1200, height: 675, scale: 1 },
   dataAsOf: '2025-06-18',
 });
-const sq = (template: string, over: Partial<SubQuestion> = {}): SubQuestion => ({
+const sq = (template: TemplateName, over: Partial<SubQuestion> = {}): SubQuestion => ({
   id: 't',
   kind: 'growth',
   lens: 'time_pattern',
@@ -35,7 +35,7 @@ const sq = (template: string, over: Partial<SubQuestion> = {}): SubQuestion => (
   ...over,
 });
 const answer = (s: SubQuestion, findings: Finding[], caveats: Caveat[] = []): Answer => ({ subQuestion: s, queries: [], tables: {}, findings, caveats });
-const present = (a: Answer, audience: Audience) => PRESENTERS[a.subQuestion.template]!(a, ctx(audience));
+const present = (a: Answer, audience: Audience) => definitionOf(a.subQuestion).present(a, ctx(audience));
 
 function monthlySeries(values: (number | null)[], start = '2022-01-01'): GrowthSeriesFinding {
   const points: GrowthPoint[] = values.map((v, i) => ({

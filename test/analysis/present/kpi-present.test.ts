@@ -12,7 +12,7 @@ import type {
   KpiSegmentRow,
   KpiSnapshotFinding,
 } from '../../../analysis/findings/kpi.js';
-import { PRESENTERS } from '../../../analysis/present/index.js';
+import { SUB_QUESTIONS, type TemplateName } from '../../../analysis/sub-questions/registry.js';
 import type { PresentContext, Presented } from '../../../analysis/present/presenter.js';
 import type { Answer, Audience, Caveat, Finding, Grain, PeriodPoint, SubQuestion } from '../../../analysis/types.js';
 import { exampleDataset } from '../../helpers/example-config.js';
@@ -25,7 +25,7 @@ const ctxFor = (audience: Audience): PresentContext => ({
   dataAsOf: '2025-06-18',
 });
 
-function answerOf(template: string, metric: string, findings: Finding[], caveats: Caveat[] = [], extra: Partial<SubQuestion> = {}): Answer {
+function answerOf(template: TemplateName, metric: string, findings: Finding[], caveats: Caveat[] = [], extra: Partial<SubQuestion> = {}): Answer {
   const subQuestion: SubQuestion = {
     id: 'k',
     kind: 'kpi',
@@ -65,7 +65,7 @@ describe('kpi_snapshot presenter', () => {
     lastYear: delta('2024-05-01', 24, 23.45),
   };
   const present = (audience: Audience, f = fare, caveats = [juneExcluded]) =>
-    PRESENTERS.kpi_snapshot!(answerOf('kpi_snapshot', f.metric, [f], caveats), ctxFor(audience));
+    SUB_QUESTIONS.kpi_snapshot.present(answerOf('kpi_snapshot', f.metric, [f], caveats), ctxFor(audience));
 
   it('titles the value, its month and the change on the month before', () => {
     // (23.45 − 23.10) / 23.10 = 1.515…% → "1.5%"; (23.45 − 24) / 24 = −2.29…% → "2.3%".
@@ -133,7 +133,7 @@ describe('kpi_snapshot presenter', () => {
   });
 
   it('says so when there is no complete period', () => {
-    const p = PRESENTERS.kpi_snapshot!(answerOf('kpi_snapshot', 'revenue', [], [{ code: 'no_data', data: { start: '2025-06-01', end: '2025-07-01' } }]), ctxFor('managers'));
+    const p = SUB_QUESTIONS.kpi_snapshot.present(answerOf('kpi_snapshot', 'revenue', [], [{ code: 'no_data', data: { start: '2025-06-01', end: '2025-07-01' } }]), ctxFor('managers'));
     expect(p.chart).toBeNull();
     expect(p.title).toBe('Revenue: no complete month to report');
   });
@@ -165,7 +165,7 @@ describe('kpi_by_segment presenter', () => {
     total: { value: 177_900, rows: 4685, previous: delta('2025-04-01', 170_000, 177_900), lastYear: delta('2024-05-01', 180_000, 177_900) },
     topN: 3,
   };
-  const present = (audience: Audience) => PRESENTERS.kpi_by_segment!(answerOf('kpi_by_segment', 'revenue', [f], [], { dimension: 'route', lens: 'breakdown' }), ctxFor(audience));
+  const present = (audience: Audience) => SUB_QUESTIONS.kpi_by_segment.present(answerOf('kpi_by_segment', 'revenue', [f], [], { dimension: 'route', lens: 'breakdown' }), ctxFor(audience));
 
   it('titles the top segment with its value and year-on-year change', () => {
     // (78,000 − 82,200) / 82,200 = −5.109…% → "down 5.1%".
@@ -197,7 +197,7 @@ describe('kpi_by_segment presenter', () => {
 
   it('names booleans by the comparison group and a missing value as "Not recorded"', () => {
     const pass: KpiBySegmentFinding = { ...f, dimension: 'pass_holder', segments: [seg(true as unknown as string, 50, 40, 100), seg(false as unknown as string, 60, 61, 100), seg(null, 5, 5, 3)] };
-    const p = PRESENTERS.kpi_by_segment!(answerOf('kpi_by_segment', 'revenue', [pass], [], { dimension: 'pass_holder' }), ctxFor('managers'));
+    const p = SUB_QUESTIONS.kpi_by_segment.present(answerOf('kpi_by_segment', 'revenue', [pass], [], { dimension: 'pass_holder' }), ctxFor('managers'));
     expect(p.caption).toContain('Other customers €60, Pass holders €50, Not recorded €5');
   });
 });
@@ -231,7 +231,7 @@ describe('kpi_context presenter', () => {
   const series: Finding = { type: 'series', metric: 'refund_rate', grain: 'month', points };
   const outlier: Caveat = { code: 'outlier', data: { period: '2024-01-01', grain: 'month', value: 0.2296, score: 28.48, metric: 'refund_rate' } };
   const present = (audience: Audience, f = storm) =>
-    PRESENTERS.kpi_context!(answerOf('kpi_context', 'refund_rate', [series, f], [outlier], { lens: 'summary', window: { start: '2022-01-01', end: '2024-02-01' } }), ctxFor(audience));
+    SUB_QUESTIONS.kpi_context.present(answerOf('kpi_context', 'refund_rate', [series, f], [outlier], { lens: 'summary', window: { start: '2022-01-01', end: '2024-02-01' } }), ctxFor(audience));
 
   it('titles the latest value with its place in the history', () => {
     expect(present('managers').title).toBe('Refund rate in January 2024 was 23.0%, the highest of the 25 complete months');
@@ -302,7 +302,7 @@ describe('kpi_mix presenter', () => {
     hhi: 2586.3,
     lastYearHhi: 2564.3,
   };
-  const present = (audience: Audience) => PRESENTERS.kpi_mix!(answerOf('kpi_mix', 'fare_per_passenger', [f], [], { dimension: 'route', lens: 'distribution' }), ctxFor(audience));
+  const present = (audience: Audience) => SUB_QUESTIONS.kpi_mix.present(answerOf('kpi_mix', 'fare_per_passenger', [f], [], { dimension: 'route', lens: 'distribution' }), ctxFor(audience));
 
   it('titles the largest share and its change in points', () => {
     // 0.3463 − 0.3573 = −0.0110 → "down 1.1 points".
@@ -363,7 +363,7 @@ describe('KPI presenter fuzz', () => {
     fc.assert(
       fc.property(metricArb, grainArb, periodArb, maybe, fc.nat(), deltaArb, fc.option(deltaArb, { nil: null }), audienceArb, caveatArb, (metric, grain, period, value, rows, previous, lastYear, audience, caveats) => {
         const f: KpiSnapshotFinding = { type: 'kpi_snapshot', metric, grain, period, value, rows, previous, lastYear };
-        const p = PRESENTERS.kpi_snapshot!(answerOf('kpi_snapshot', metric, [f], caveats, { grain }), ctxFor(audience));
+        const p = SUB_QUESTIONS.kpi_snapshot.present(answerOf('kpi_snapshot', metric, [f], caveats, { grain }), ctxFor(audience));
         for (const t of texts(p)) expect(t).not.toMatch(BAD);
       }),
       { numRuns: 300 },
@@ -375,7 +375,7 @@ describe('KPI presenter fuzz', () => {
     fc.assert(
       fc.property(metricArb, grainArb, periodArb, fc.array(rowArb, { maxLength: 10 }), rowArb, fc.constantFrom('route', 'channel', 'pass_holder'), audienceArb, (metric, grain, period, segments, total, dimension, audience) => {
         const f: KpiBySegmentFinding = { type: 'kpi_by_segment', metric, grain, dimension, period, segments, total, topN: 8 };
-        const p = PRESENTERS.kpi_by_segment!(answerOf('kpi_by_segment', metric, [f], [], { grain, dimension }), ctxFor(audience));
+        const p = SUB_QUESTIONS.kpi_by_segment.present(answerOf('kpi_by_segment', metric, [f], [], { grain, dimension }), ctxFor(audience));
         for (const t of texts(p)) expect(t).not.toMatch(BAD);
       }),
       { numRuns: 300 },
@@ -390,7 +390,7 @@ describe('KPI presenter fuzz', () => {
           mean: (lo + hi) / 2, median: lo, sd: n > 1 ? Math.abs(hi - lo) : null, rank: Math.max(1, Math.min(n, Math.round(Math.abs(z ?? 1)))), percentile: 0.5, robustZ: z, outlier,
         };
         const series: Finding = { type: 'series', metric, grain, points };
-        const p = PRESENTERS.kpi_context!(answerOf('kpi_context', metric, [series, f], [], { grain }), ctxFor(audience));
+        const p = SUB_QUESTIONS.kpi_context.present(answerOf('kpi_context', metric, [series, f], [], { grain }), ctxFor(audience));
         for (const t of texts(p)) expect(t).not.toMatch(BAD);
       }),
       { numRuns: 300 },
@@ -405,7 +405,7 @@ describe('KPI presenter fuzz', () => {
           type: 'kpi_mix', metric, shareOf, grain, dimension: 'route', period, lastYearPeriod: ly, segments, total: segments.reduce((s, r) => s + r.value, 0), lastYearTotal: null,
           countToThreshold: count, threshold: 0.8, hhi: hhi === null ? null : Math.abs(hhi) % 10_000, lastYearHhi: lyHhi === null ? null : Math.abs(lyHhi) % 10_000,
         };
-        const p = PRESENTERS.kpi_mix!(answerOf('kpi_mix', metric, [f], [], { grain, dimension: 'route' }), ctxFor(audience));
+        const p = SUB_QUESTIONS.kpi_mix.present(answerOf('kpi_mix', metric, [f], [], { grain, dimension: 'route' }), ctxFor(audience));
         for (const t of texts(p)) expect(t).not.toMatch(BAD);
       }),
       { numRuns: 300 },

@@ -4,9 +4,8 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { PerformanceFinding } from '../../../analysis/findings/performance.js';
-import { PRESENTERS } from '../../../analysis/present/index.js';
+import { definitionOf, SUB_QUESTIONS, type TemplateName } from '../../../analysis/sub-questions/registry.js';
 import type { PresentContext, Presented } from '../../../analysis/present/presenter.js';
-import { TEMPLATES } from '../../../analysis/templates/index.js';
 import type { Answer, Audience, Caveat, CellValue, Finding, ResultTable, SubQuestion } from '../../../analysis/types.js';
 import { exampleDataset } from '../../helpers/example-config.js';
 
@@ -18,7 +17,7 @@ const ctxFor = (audience: Audience): PresentContext => ({
   dataAsOf: '2025-06-18',
 });
 
-function sq(template: string, extra: Partial<SubQuestion> = {}): SubQuestion {
+function sq(template: TemplateName, extra: Partial<SubQuestion> = {}): SubQuestion {
   return {
     id: template,
     kind: 'performance',
@@ -37,7 +36,7 @@ function answer(q: SubQuestion, findings: PerformanceFinding[], caveats: Caveat[
   return { subQuestion: q, queries: [], tables: {}, findings, caveats };
 }
 
-const present = (a: Answer, audience: Audience): Presented => PRESENTERS[a.subQuestion.template]!(a, ctxFor(audience));
+const present = (a: Answer, audience: Audience): Presented => definitionOf(a.subQuestion).present(a, ctxFor(audience));
 
 const WINDOW: PerformanceFinding = { type: 'performance_window', group: 'skerrypass', start: '2023-04-01', end: '2025-06-19', launchDate: '2023-04-01', clippedToLaunch: true };
 
@@ -468,7 +467,7 @@ const segmentRows = fc.array(fc.tuple(fc.constantFrom('A–B', 'C–D', null), f
 const table = (rows: Record<string, CellValue>[]): ResultTable => ({ columns: [], rows, truncated: false });
 
 describe('fuzz: no NaN, Infinity, undefined or ISO date in any text, and no exception', () => {
-  const cases: { template: string; lens: SubQuestion['lens']; dimension?: string }[] = [
+  const cases: { template: TemplateName; lens: SubQuestion['lens']; dimension?: string }[] = [
     { template: 'performance_compare', lens: 'summary' },
     { template: 'performance_frequency', lens: 'distribution' },
     { template: 'performance_before_after', lens: 'time_pattern' },
@@ -492,9 +491,9 @@ describe('fuzz: no NaN, Infinity, undefined or ISO date in any text, and no exce
           (metric, audience, window, grain, groups, series, segments) => {
             const q = sq(c.template, { lens: c.lens, metrics: [metric], window, grain, ...(c.dimension ? { dimension: c.dimension } : {}) });
             const tables = { groups: table(groups), frequency: table(groups), series: table(series), months: table(series), segments: table(segments) };
-            const reading = TEMPLATES[c.template]!.read(q, tables, { dataset: exampleDataset, coverage: { firstDate: '2022-10-01', lastDate: '2023-07-20', rows: 1000 } });
+            const reading = SUB_QUESTIONS[c.template].template.read(q, tables, { dataset: exampleDataset, coverage: { firstDate: '2022-10-01', lastDate: '2023-07-20', rows: 1000 } });
             const findings: Finding[] = reading.findings;
-            const presented = PRESENTERS[c.template]!({ subQuestion: q, queries: [], tables, findings, caveats: reading.caveats }, ctxFor(audience));
+            const presented = SUB_QUESTIONS[c.template].present({ subQuestion: q, queries: [], tables, findings, caveats: reading.caveats }, ctxFor(audience));
             for (const text of textsOf(presented)) expect(text).not.toMatch(BAD);
             expect(presented.title.length).toBeGreaterThan(0);
             expect(presented.caption.length).toBeGreaterThan(0);

@@ -14,7 +14,7 @@ import type {
   TrendTestFinding,
   TrendWeekdayFinding,
 } from '../../../analysis/findings/segments.js';
-import { PRESENTERS } from '../../../analysis/present/index.js';
+import { definitionOf } from '../../../analysis/sub-questions/registry.js';
 import type { PresentContext } from '../../../analysis/present/presenter.js';
 import { addMonths } from '../../../analysis/periods.js';
 import type { Answer, Audience, Caveat, Finding, PeriodPoint, SubQuestion } from '../../../analysis/types.js';
@@ -39,7 +39,7 @@ const sq = (over: Partial<SubQuestion>): SubQuestion => ({
   ...over,
 });
 const answer = (q: SubQuestion, findings: Finding[], caveats: Caveat[] = []): Answer => ({ subQuestion: q, queries: [], tables: {}, findings, caveats });
-const present = (a: Answer, audience: Audience) => PRESENTERS[a.subQuestion.template]!(a, ctx(audience));
+const present = (a: Answer, audience: Audience) => definitionOf(a.subQuestion).present(a, ctx(audience));
 const monthsFrom = (from: string, n: number) => Array.from({ length: n }, (_, i) => addMonths(from, i));
 const STATS_WORDS = /p =|p <|Mann|τ|Sen's|HHI|z =/;
 

@@ -18,7 +18,7 @@ import { DRIVERS_TOP_N, growthDriversTemplate } from '../../../analysis/template
 import { compileGrowthSeries, growthSeriesTemplate } from '../../../analysis/templates/growth-series.js';
 import { growthShareShiftTemplate } from '../../../analysis/templates/growth-share-shift.js';
 import { growthSummaryTemplate } from '../../../analysis/templates/growth-summary.js';
-import { TEMPLATES } from '../../../analysis/templates/index.js';
+import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import type { Finding, ResultTable, SubQuestion } from '../../../analysis/types.js';
 import { exampleDataset } from '../../helpers/example-config.js';
 
@@ -50,8 +50,8 @@ const find = <T extends Finding['type']>(fs: Finding[], type: T, metric = 'reven
 
 describe('growth templates are registered', () => {
   it('under their own names', () => {
-    for (const name of ['growth_series', 'growth_drivers', 'growth_summary', 'growth_share_shift']) {
-      expect(TEMPLATES[name]?.name).toBe(name);
+    for (const name of ['growth_series', 'growth_drivers', 'growth_summary', 'growth_share_shift'] as const) {
+      expect(SUB_QUESTIONS[name]).toMatchObject({ name, kind: 'growth' });
     }
   });
 });

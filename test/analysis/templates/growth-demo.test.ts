@@ -20,7 +20,7 @@ import type {
   GrowthYtdFinding,
 } from '../../../analysis/findings/growth.js';
 import { addMonths } from '../../../analysis/periods.js';
-import { presenterFor } from '../../../analysis/present/index.js';
+import { definitionOf, SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import type { Answer, Finding, SubQuestion } from '../../../analysis/types.js';
 import { openWorkspace, type Workspace } from '../../../analysis/workspace.js';
 import { loadConfig, parseConfigText } from '../../../config/load.js';
@@ -148,7 +148,7 @@ describe('growth_series on the demo data (planted trend, demo-scenario.md effect
   });
 
   it('titles the chart with the headline, from the findings', () => {
-    const p = presenterFor('growth_series')(answer, presentCtx('managers'));
+    const p = SUB_QUESTIONS['growth_series'].present(answer, presentCtx('managers'));
     expect(p.title).toMatch(/^Bookings grew \d\.\d% in 2023, then held flat in 2024; 2025 so far: −\d\.\d%$/);
     expect(p.chart?.kind).toBe('growth_grid');
   });
@@ -166,7 +166,7 @@ describe('growth_series on a segment with a planted gap (effect 6: Dunlin Quay c
     expect(nov24.value).toBe(dunlin('2024-11-01', '2024-12-01'));
     expect(nov24.yoy).toBeNull();
     expect(answer.caveats.map((c) => c.code)).toContain('base_zero');
-    const notes = presenterFor('growth_series')(answer, presentCtx('managers')).notes;
+    const notes = SUB_QUESTIONS['growth_series'].present(answer, presentCtx('managers')).notes;
     expect(notes).toContain('2 months in the window have no data at all (the first is November 2023); rates next to them are n/a.');
   });
 });
@@ -197,7 +197,7 @@ describe('growth_drivers on the demo data', () => {
     closeRel(f.segments.reduce((a, s) => a + s.contribution!, 0), f.total.relative!);
     // Kiosk opened on 2023-06-01 (demo-scenario.md effect 7), so it is present in both summers.
     expect(answer.caveats.filter((c) => c.code === 'late_segment')).toEqual([]);
-    const p = presenterFor('growth_drivers')(answer, presentCtx('managers'));
+    const p = SUB_QUESTIONS['growth_drivers'].present(answer, presentCtx('managers'));
     expect(p.title.toLowerCase()).toContain(String(expected[0]!.ch));
   });
 
@@ -307,7 +307,7 @@ describe('growth templates on edge-case data in a real DuckDB', () => {
     const none = await answerSubQuestion({ ...sq, window: { start: '2030-01-01', end: '2031-01-01' } }, edge);
     expect(none.findings).toEqual([]);
     expect(none.caveats.map((c) => c.code)).toContain('no_data');
-    for (const template of ['growth_drivers', 'growth_summary', 'growth_share_shift']) {
+    for (const template of ['growth_drivers', 'growth_summary', 'growth_share_shift'] as const) {
       const other = await answerSubQuestion({ ...sq, template, dimension: 'channel', window: { start: '2030-01-01', end: '2031-01-01' } }, edge);
       expect(other.caveats.map((c) => c.code)).toContain('no_data');
     }
@@ -323,7 +323,7 @@ describe('growth templates on edge-case data in a real DuckDB', () => {
     expect(d.caveats).toContainEqual({ code: 'all_null', data: { metric: 'revenue' } });
     // Every presenter copes with these answers.
     for (const ans of [a, one, d]) {
-      const p = presenterFor(ans.subQuestion.template)(ans, presentCtx('leadership'));
+      const p = definitionOf(ans.subQuestion).present(ans, presentCtx('leadership'));
       expect(`${p.title} ${p.caption} ${p.notes.join(' ')}`).not.toMatch(/NaN|Infinity|undefined|\d{4}-\d{2}-\d{2}/);
     }
   });
@@ -340,7 +340,7 @@ describe('charts of every growth presenter render on the demo data', () => {
       { ...SERIES, template: 'growth_share_shift', lens: 'distribution', metrics: ['revenue'], dimension: 'route', window: SUMMER_2024 },
     ];
     for (const sq of sqs) {
-      const p = presenterFor(sq.template)(await answerSubQuestion(sq, ws), presentCtx('managers'));
+      const p = definitionOf(sq).present(await answerSubQuestion(sq, ws), presentCtx('managers'));
       expect(p.chart).not.toBeNull();
       const png = await renderChart(p.chart!);
       expect(png.subarray(1, 4).toString('latin1')).toBe('PNG');

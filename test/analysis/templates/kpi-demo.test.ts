@@ -4,8 +4,7 @@ import { mkdirSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { renderChartWithGeometry } from '../../../analysis/charts/render.js';
 import type { KpiBySegmentFinding, KpiContextFinding, KpiMixFinding, KpiSnapshotFinding } from '../../../analysis/findings/kpi.js';
-import { PRESENTERS } from '../../../analysis/present/index.js';
-import { TEMPLATES } from '../../../analysis/templates/index.js';
+import { definitionOf, SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import type { KpiCompileContext } from '../../../analysis/templates/kpi-periods.js';
 import type { Answer, Finding, ResultTable, SubQuestion } from '../../../analysis/types.js';
 import { openWorkspace, type Workspace } from '../../../analysis/workspace.js';
@@ -29,7 +28,7 @@ const FULL = { start: '2022-01-01', end: '2025-06-19' };
 const base: SubQuestion = { id: 'k', kind: 'kpi', lens: 'time_pattern', template: 'kpi_snapshot', metrics: ['revenue'], grain: 'month', window: FULL, filters: [] };
 
 async function answer(sq: SubQuestion, withCoverage = true): Promise<Answer> {
-  const t = TEMPLATES[sq.template]!;
+  const t = definitionOf(sq).template;
   const ctx: KpiCompileContext = withCoverage ? { ...ws.context, coverage: ws.coverage } : ws.context;
   const queries = t.compile(sq, ctx);
   const tables: Record<string, ResultTable> = {};
@@ -265,7 +264,7 @@ describe('KPI charts on the demo', () => {
       { ...base, template: 'kpi_mix', lens: 'distribution', dimension: 'route', metrics: ['fare_per_passenger'] },
     ];
     for (const sq of sqs) {
-      const p = PRESENTERS[sq.template]!(await answer(sq), {
+      const p = SUB_QUESTIONS[sq.template].present(await answer(sq), {
         dataset: ws.dataset,
         locale: 'en-IE',
         audience: 'managers',

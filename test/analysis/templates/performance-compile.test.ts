@@ -21,7 +21,7 @@ import {
   verdictOf,
   wilsonInterval,
 } from '../../../analysis/templates/performance-stats.js';
-import { TEMPLATES } from '../../../analysis/templates/index.js';
+import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import type { CellValue, Finding, ResultTable, SubQuestion } from '../../../analysis/types.js';
 import { exampleDataset } from '../../helpers/example-config.js';
 
@@ -56,9 +56,9 @@ const readCtx = { dataset: exampleDataset, coverage };
 
 const ALL = [
   { t: performanceCompareTemplate, sq: base },
-  { t: performanceFrequencyTemplate, sq: { ...base, lens: 'distribution' as const, template: 'performance_frequency', metrics: ['bookings'] } },
-  { t: performanceBeforeAfterTemplate, sq: { ...base, lens: 'time_pattern' as const, template: 'performance_before_after', grain: 'quarter' as const } },
-  { t: performanceBySegmentTemplate, sq: { ...base, lens: 'breakdown' as const, template: 'performance_by_segment', dimension: 'route' } },
+  { t: performanceFrequencyTemplate, sq: { ...base, lens: 'distribution' as const, template: 'performance_frequency' as const, metrics: ['bookings'] } },
+  { t: performanceBeforeAfterTemplate, sq: { ...base, lens: 'time_pattern' as const, template: 'performance_before_after' as const, grain: 'quarter' as const } },
+  { t: performanceBySegmentTemplate, sq: { ...base, lens: 'breakdown' as const, template: 'performance_by_segment' as const, dimension: 'route' } },
 ];
 
 /** Every number anywhere in the value is finite (no NaN, no Infinity). */
@@ -79,8 +79,8 @@ function find<T extends Finding['type']>(findings: Finding[], type: T, pred: (f:
 
 describe('performance templates are registered', () => {
   it('under their names', () => {
-    for (const name of ['performance_compare', 'performance_frequency', 'performance_before_after', 'performance_by_segment']) {
-      expect(TEMPLATES[name]?.name).toBe(name);
+    for (const name of ['performance_compare', 'performance_frequency', 'performance_before_after', 'performance_by_segment'] as const) {
+      expect(SUB_QUESTIONS[name]).toMatchObject({ name, kind: 'performance' });
     }
   });
 });

@@ -11,8 +11,7 @@ import { loadConfig } from '../../../config/load.js';
 import type { DatasetConfig } from '../../../config/schema.js';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import { renderChartToFile } from '../../../analysis/charts/render.js';
-import { presenterFor } from '../../../analysis/present/index.js';
-import { templateFor } from '../../../analysis/templates/index.js';
+import { definitionOf, type TemplateName } from '../../../analysis/sub-questions/registry.js';
 import type { Answer, Finding, ResultTable, SubQuestion } from '../../../analysis/types.js';
 import { openWorkspace, type Workspace } from '../../../analysis/workspace.js';
 import { demoFixture } from '../../helpers/demo-fixture.js';
@@ -42,7 +41,7 @@ afterAll(async () => {
   await ws?.source.close();
 });
 
-function sq(template: string, extra: Partial<SubQuestion> = {}): SubQuestion {
+function sq(template: TemplateName, extra: Partial<SubQuestion> = {}): SubQuestion {
   return {
     id: template,
     kind: 'performance',
@@ -59,7 +58,7 @@ function sq(template: string, extra: Partial<SubQuestion> = {}): SubQuestion {
 
 /** Compile → run → read with a dataset variant (extra comparison groups), as answerSubQuestion does. */
 async function answerWith(dataset: DatasetConfig, q: SubQuestion): Promise<Answer> {
-  const template = templateFor(q);
+  const template = definitionOf(q).template;
   const queries = template.compile(q, { ...ws.context, dataset });
   const tables: Record<string, ResultTable> = {};
   for (const query of queries) tables[query.name] = await ws.source.run(query, ws.runOptions);
@@ -79,7 +78,7 @@ function rel(actual: number, expected: number, tolerance: number): void {
 const inWindow = (r: PerfRow, start: string, end: string) => r.sail_date >= start && r.sail_date < end && r.pass_holder !== null;
 
 async function renderOnce(answer: Answer, name: string): Promise<void> {
-  const presented = presenterFor(answer.subQuestion.template)(answer, {
+  const presented = definitionOf(answer.subQuestion).present(answer, {
     dataset: ws.dataset,
     locale: 'en-IE',
     audience: 'managers',

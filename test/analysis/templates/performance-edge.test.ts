@@ -7,7 +7,7 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parseConfigText } from '../../../config/load.js';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
-import { presenterFor } from '../../../analysis/present/index.js';
+import { definitionOf, SUB_QUESTIONS, type TemplateName } from '../../../analysis/sub-questions/registry.js';
 import type { Answer, Finding, SubQuestion } from '../../../analysis/types.js';
 import { openWorkspace, type Workspace } from '../../../analysis/workspace.js';
 
@@ -67,7 +67,7 @@ afterAll(async () => {
   await ws?.source.close();
 });
 
-const TEMPLATES: { template: string; lens: SubQuestion['lens']; metrics: string[]; dimension?: string }[] = [
+const TEMPLATES: { template: TemplateName; lens: SubQuestion['lens']; metrics: string[]; dimension?: string }[] = [
   { template: 'performance_compare', lens: 'summary', metrics: ['average_fare'] },
   { template: 'performance_compare', lens: 'summary', metrics: ['refund_rate'] },
   { template: 'performance_frequency', lens: 'distribution', metrics: ['bookings'] },
@@ -100,7 +100,7 @@ function allFinite(value: unknown): boolean {
 function texts(answer: Answer): string[] {
   const out: string[] = [];
   for (const audience of ['leadership', 'managers', 'analysts'] as const) {
-    const p = presenterFor(answer.subQuestion.template)(answer, {
+    const p = definitionOf(answer.subQuestion).present(answer, {
       dataset: ws.dataset,
       locale: 'en-IE',
       audience,
@@ -170,7 +170,7 @@ describe('edge cases through real SQL', () => {
     expect(folded[0]!.nMembers).toBe(3 + 4 + 5 + 6 + 7);
     expect(folded[0]!.nOthers).toBe(4 + 5 + 6 + 7 + 8);
     expect(a.caveats).toContainEqual({ code: 'segments_folded', data: { count: 5 } });
-    const chart = presenterFor('performance_by_segment')(a, {
+    const chart = SUB_QUESTIONS['performance_by_segment'].present(a, {
       dataset: ws.dataset,
       locale: 'en-IE',
       audience: 'managers',

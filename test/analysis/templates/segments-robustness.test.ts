@@ -4,7 +4,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import type { SegmentSharesFinding, SegmentTrendFinding } from '../../../analysis/findings/segments.js';
-import { presenterFor } from '../../../analysis/present/index.js';
+import { definitionOf } from '../../../analysis/sub-questions/registry.js';
 import { SEGMENT_TOP_N } from '../../../analysis/templates/segments-fold-sql.js';
 import type { Answer, SubQuestion } from '../../../analysis/types.js';
 import { memoryWorkspace } from './trend-memory-db.js';
@@ -53,7 +53,7 @@ const base: SubQuestion = {
   window: { start: '2023-01-01', end: '2025-01-01' },
   filters: [],
 };
-const ALL = ['trend_test', 'trend_seasonality', 'trend_summary', 'segment_trend', 'segment_shares'];
+const ALL = ['trend_test', 'trend_seasonality', 'trend_summary', 'segment_trend', 'segment_shares'] as const;
 const BAD_TEXT = /NaN|Infinity|undefined|\d{4}-\d{2}-\d{2}/;
 
 let big: Awaited<ReturnType<typeof memoryWorkspace>>;
@@ -73,7 +73,7 @@ afterAll(async () => {
 
 function presentAll(a: Answer, ws: typeof big) {
   for (const audience of ['leadership', 'managers', 'analysts'] as const) {
-    const p = presenterFor(a.subQuestion.template)(a, { dataset: ws.dataset, locale: 'en-IE', audience, chart: { width: 1200, height: 675, scale: 1 }, dataAsOf: ws.coverage.lastDate });
+    const p = definitionOf(a.subQuestion).present(a, { dataset: ws.dataset, locale: 'en-IE', audience, chart: { width: 1200, height: 675, scale: 1 }, dataAsOf: ws.coverage.lastDate });
     for (const text of [p.title, p.caption, ...p.notes]) expect(text).not.toMatch(BAD_TEXT);
     expect(p.title.length).toBeGreaterThan(0);
   }

@@ -14,7 +14,7 @@ import { DuckDBInstance } from '@duckdb/node-api';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig, parseConfigText } from '../../../config/load.js';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
-import { presenterFor } from '../../../analysis/present/index.js';
+import { definitionOf, type TemplateName } from '../../../analysis/sub-questions/registry.js';
 import { caveatNote } from '../../../analysis/captions/caveat-text.js';
 import { tableToCsv } from '../../../analysis/table-csv.js';
 import type { Answer, Finding, SubQuestion } from '../../../analysis/types.js';
@@ -103,7 +103,7 @@ afterAll(async () => {
   await ws?.source.close();
 });
 
-function sq(template: string, over: Partial<SubQuestion> = {}): SubQuestion {
+function sq(template: TemplateName, over: Partial<SubQuestion> = {}): SubQuestion {
   return {
     id: template,
     kind: 'trend',
@@ -126,7 +126,7 @@ const suppressed = (a: Answer) => a.caveats.filter((c) => c.code === 'suppressed
 function texts(a: Answer, w: Workspace = ws): string {
   const out: string[] = [];
   for (const audience of ['leadership', 'managers', 'analysts'] as const) {
-    const p = presenterFor(a.subQuestion.template)(a, { dataset: w.dataset, locale: 'en-IE', audience, chart: { width: 800, height: 450, scale: 1 }, dataAsOf: w.coverage.lastDate });
+    const p = definitionOf(a.subQuestion).present(a, { dataset: w.dataset, locale: 'en-IE', audience, chart: { width: 800, height: 450, scale: 1 }, dataAsOf: w.coverage.lastDate });
     out.push(p.title, p.caption, ...p.notes, p.takeaway?.text ?? '');
     if (p.chart) out.push(JSON.stringify(p.chart));
   }

@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { CatalogError } from '../../../analysis/catalog.js';
 import type { CompileContext } from '../../../analysis/compile-context.js';
 import { type Dialect, duckdbDialect, quoteIdentifier } from '../../../analysis/sql/dialect.js';
-import { TEMPLATES } from '../../../analysis/templates/index.js';
+import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import { compileFoldedSegments, SEGMENT_TOP_N } from '../../../analysis/templates/segments-fold-sql.js';
 import type { SubQuestion } from '../../../analysis/types.js';
 import { exampleDataset } from '../../helpers/example-config.js';
@@ -37,8 +37,8 @@ const otherDialect: Dialect = {
 
 describe('trend_test, trend_summary and trend_seasonality SQL', () => {
   it('trend_test and trend_summary run one grouped series query on the first metric, window bound', () => {
-    for (const name of ['trend_test', 'trend_summary']) {
-      const qs = TEMPLATES[name]!.compile({ ...base, template: name, metrics: ['bookings', 'revenue'] }, ctx);
+    for (const name of ['trend_test', 'trend_summary'] as const) {
+      const qs = SUB_QUESTIONS[name].template.compile({ ...base, template: name, metrics: ['bookings', 'revenue'] }, ctx);
       expect(qs.map((q) => q.name)).toEqual(['series']);
       expect(qs[0]!.sql).toContain(`CAST(date_trunc('month', "sail_date") AS DATE) AS period`);
       expect(qs[0]!.sql).toContain('AS "bookings"');
@@ -49,7 +49,7 @@ describe('trend_test, trend_summary and trend_seasonality SQL', () => {
   });
 
   it('trend_seasonality reads months whatever the grain, plus an ISO weekday query', () => {
-    const qs = TEMPLATES.trend_seasonality!.compile({ ...base, template: 'trend_seasonality', grain: 'week' }, ctx);
+    const qs = SUB_QUESTIONS.trend_seasonality.template.compile({ ...base, template: 'trend_seasonality', grain: 'week' }, ctx);
     expect(qs.map((q) => q.name)).toEqual(['monthly', 'weekday']);
     expect(qs[0]!.sql).toContain(`date_trunc('month'`);
     expect(qs[0]!.sql).not.toContain(`date_trunc('week'`);
@@ -58,8 +58,8 @@ describe('trend_test, trend_summary and trend_seasonality SQL', () => {
   });
 
   it('binds filter values, never writes them into the SQL', () => {
-    for (const name of ['trend_test', 'trend_seasonality', 'trend_summary', 'segment_trend', 'segment_shares']) {
-      const qs = TEMPLATES[name]!.compile({ ...base, template: name, dimension: 'route', filters: [{ dimension: 'channel', values: [hostile] }] }, ctx);
+    for (const name of ['trend_test', 'trend_seasonality', 'trend_summary', 'segment_trend', 'segment_shares'] as const) {
+      const qs = SUB_QUESTIONS[name].template.compile({ ...base, template: name, dimension: 'route', filters: [{ dimension: 'channel', values: [hostile] }] }, ctx);
       for (const q of qs) {
         expect(q.sql).not.toContain('DROP');
         expect(q.params).toContain(hostile);
@@ -72,8 +72,8 @@ describe('trend_test, trend_summary and trend_seasonality SQL', () => {
   });
 
   it('compiles through the dialect only: no DuckDB placeholder or period SQL leaks into another dialect', () => {
-    for (const name of ['trend_test', 'trend_seasonality', 'trend_summary', 'segment_trend', 'segment_shares']) {
-      const qs = TEMPLATES[name]!.compile({ ...base, template: name, dimension: 'route' }, { ...ctx, dialect: otherDialect });
+    for (const name of ['trend_test', 'trend_seasonality', 'trend_summary', 'segment_trend', 'segment_shares'] as const) {
+      const qs = SUB_QUESTIONS[name].template.compile({ ...base, template: name, dimension: 'route' }, { ...ctx, dialect: otherDialect });
       for (const q of qs) {
         expect(q.sql).not.toMatch(/\$\d/);
         expect(q.sql).not.toContain('date_trunc');
@@ -108,7 +108,7 @@ describe('segment SQL: the tail folded inside the database', () => {
   });
 
   it('segment_trend runs totals, per-period and per-year queries over the same fold', () => {
-    const qs = TEMPLATES.segment_trend!.compile({ ...seg, template: 'segment_trend', lens: 'breakdown', grain: 'quarter' }, ctx);
+    const qs = SUB_QUESTIONS.segment_trend.template.compile({ ...seg, template: 'segment_trend', lens: 'breakdown', grain: 'quarter' }, ctx);
     expect(qs.map((q) => q.name)).toEqual(['segment_totals', 'segment_series', 'segment_years']);
     expect(qs[1]!.sql).toContain(`date_trunc('quarter'`);
     expect(qs[2]!.sql).toContain(`date_trunc('year'`);
@@ -116,8 +116,8 @@ describe('segment SQL: the tail folded inside the database', () => {
   });
 
   it('refuses personal data and a missing dimension before any SQL is written', () => {
-    for (const name of ['segment_trend', 'segment_shares']) {
-      const t = TEMPLATES[name]!;
+    for (const name of ['segment_trend', 'segment_shares'] as const) {
+      const t = SUB_QUESTIONS[name].template;
       let err: unknown;
       try {
         t.compile({ ...seg, template: name, dimension: 'customer_email' }, ctx);

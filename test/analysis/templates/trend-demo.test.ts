@@ -17,6 +17,7 @@ import type { Answer, Finding, SubQuestion } from '../../../analysis/types.js';
 import { openWorkspace, type Workspace } from '../../../analysis/workspace.js';
 import { demoFixture } from '../../helpers/demo-fixture.js';
 import { jStat } from '../stats/jstat.js';
+import { definitionOf } from '../../../analysis/sub-questions/registry.js';
 
 interface RawRow {
   date: string;
@@ -262,7 +263,6 @@ describe('charts on the demo data', () => {
     const { mkdirSync } = await import('node:fs');
     const { renderChart } = await import('../../../analysis/charts/render.js');
     const { writeFile } = await import('node:fs/promises');
-    const { presenterFor } = await import('../../../analysis/present/index.js');
     mkdirSync('/tmp/trend-charts', { recursive: true });
     const questions: SubQuestion[] = [
       sq({ template: 'trend_test' }),
@@ -273,7 +273,7 @@ describe('charts on the demo data', () => {
     ];
     for (const q of questions) {
       const a = await answerSubQuestion(q, ws);
-      const p = presenterFor(q.template)(a, { dataset: ws.dataset, locale: 'en-IE', audience: 'managers', chart: { width: 1200, height: 675, scale: 1 }, dataAsOf: ws.coverage.lastDate });
+      const p = definitionOf(q).present(a, { dataset: ws.dataset, locale: 'en-IE', audience: 'managers', chart: { width: 1200, height: 675, scale: 1 }, dataAsOf: ws.coverage.lastDate });
       expect(p.chart).not.toBeNull();
       const png = await renderChart(p.chart!);
       // PNG signature: 0x89 'P' 'N' 'G'.

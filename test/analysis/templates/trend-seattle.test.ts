@@ -5,7 +5,7 @@ import { dirname, join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import type { TrendSeasonalityFinding, TrendWeekdayFinding } from '../../../analysis/findings/segments.js';
-import { presenterFor } from '../../../analysis/present/index.js';
+import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import type { SubQuestion } from '../../../analysis/types.js';
 import { loadSeattleWeather, monthly } from '../stats/seattle-weather.js';
 import { memoryWorkspace } from './trend-memory-db.js';
@@ -97,7 +97,7 @@ describe('trend_seasonality on Seattle weather', () => {
       const xs = days.filter((x) => (new Date(`${x.date}T00:00:00Z`).getUTCDay() + 6) % 7 === d.isoDay - 1).map((x) => x.tempMax);
       expect(d.value).toBeCloseTo(xs.reduce((p, q) => p + q, 0) / xs.length, 9);
     }
-    const p = presenterFor('trend_seasonality')(a, { dataset: ws.dataset, locale: 'en-US', audience: 'managers', chart: { width: 1200, height: 675, scale: 1 }, dataAsOf: ws.coverage.lastDate });
+    const p = SUB_QUESTIONS['trend_seasonality'].present(a, { dataset: ws.dataset, locale: 'en-US', audience: 'managers', chart: { width: 1200, height: 675, scale: 1 }, dataAsOf: ws.coverage.lastDate });
     expect(p.title).toBe('Daily maximum temperature is highest in July and August (top two in 4 of 4 full years)');
     expect(p.chart?.kind).toBe('seasonal_profile');
   });

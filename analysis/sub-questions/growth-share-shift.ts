@@ -1,0 +1,14 @@
+// Sub-question "growth_share_shift": the growth request's distribution lens.
+import { presentGrowthShareShift } from '../present/growth-share-shift.js';
+import { growthShareShiftTemplate } from '../templates/growth-share-shift.js';
+import { defineSubQuestion } from './definition.js';
+
+export const growthShareShiftSubQuestion = defineSubQuestion({
+  name: 'growth_share_shift',
+  kind: 'growth',
+  lens: 'distribution',
+  rollup: {},
+  template: growthShareShiftTemplate,
+  present: presentGrowthShareShift,
+  describe: (w) => `How each ${w.dim}'s share of ${w.metric} shifted, ${w.span} against a year earlier.`,
+});

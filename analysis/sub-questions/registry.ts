@@ -1,0 +1,65 @@
+// Every sub-question, registered once. Its name, kind, lens, rollup needs, SQL, findings,
+// caption, chart and plan description come from its own declaration (one file beside this one);
+// the rest of the program looks them up here and nowhere else.
+import type { SubQuestion } from '../types.js';
+import type { SubQuestionDefinition } from './definition.js';
+import { growthDriversSubQuestion } from './growth-drivers.js';
+import { growthSeriesSubQuestion } from './growth-series.js';
+import { growthShareShiftSubQuestion } from './growth-share-shift.js';
+import { growthSummarySubQuestion } from './growth-summary.js';
+import { kpiBySegmentSubQuestion } from './kpi-by-segment.js';
+import { kpiContextSubQuestion } from './kpi-context.js';
+import { kpiMixSubQuestion } from './kpi-mix.js';
+import { kpiSnapshotSubQuestion } from './kpi-snapshot.js';
+import { performanceBeforeAfterSubQuestion } from './performance-before-after.js';
+import { performanceBySegmentSubQuestion } from './performance-by-segment.js';
+import { performanceCompareSubQuestion } from './performance-compare.js';
+import { performanceFrequencySubQuestion } from './performance-frequency.js';
+import { segmentSharesSubQuestion } from './segment-shares.js';
+import { segmentTrendSubQuestion } from './segment-trend.js';
+import { seriesSubQuestion } from './series.js';
+import { trendSeasonalitySubQuestion } from './trend-seasonality.js';
+import { trendSummarySubQuestion } from './trend-summary.js';
+import { trendTestSubQuestion } from './trend-test.js';
+
+/** The registered sub-questions; a new one is one entry here. */
+const REGISTERED = [
+  seriesSubQuestion,
+  trendTestSubQuestion,
+  trendSeasonalitySubQuestion,
+  trendSummarySubQuestion,
+  segmentTrendSubQuestion,
+  segmentSharesSubQuestion,
+  growthSeriesSubQuestion,
+  growthDriversSubQuestion,
+  growthSummarySubQuestion,
+  growthShareShiftSubQuestion,
+  performanceCompareSubQuestion,
+  performanceFrequencySubQuestion,
+  performanceBeforeAfterSubQuestion,
+  performanceBySegmentSubQuestion,
+  kpiSnapshotSubQuestion,
+  kpiContextSubQuestion,
+  kpiBySegmentSubQuestion,
+  kpiMixSubQuestion,
+] as const;
+
+/** The name of a registered sub-question (its template). */
+export type TemplateName = (typeof REGISTERED)[number]['name'];
+
+export const SUB_QUESTIONS: { readonly [N in TemplateName]: SubQuestionDefinition<N> } = Object.fromEntries(REGISTERED.map((d) => [d.name, d])) as {
+  [N in TemplateName]: SubQuestionDefinition<N>;
+};
+
+export const TEMPLATE_NAMES: readonly TemplateName[] = REGISTERED.map((d) => d.name);
+
+export function isTemplateName(name: string): name is TemplateName {
+  return Object.hasOwn(SUB_QUESTIONS, name);
+}
+
+/** The declaration of a sub-question's template (a state saved by an older version may name one no longer registered). */
+export function definitionOf(sq: Pick<SubQuestion, 'template'>): SubQuestionDefinition {
+  const name: string = sq.template;
+  if (!isTemplateName(name)) throw new Error(`no sub-question template named ${name}`);
+  return SUB_QUESTIONS[name];
+}

@@ -1,0 +1,14 @@
+// Sub-question "segment_shares": the trend request's distribution lens.
+import { presentSegmentShares } from '../present/trend-segment-shares.js';
+import { segmentSharesTemplate } from '../templates/segments-shares.js';
+import { defineSubQuestion } from './definition.js';
+
+export const segmentSharesSubQuestion = defineSubQuestion({
+  name: 'segment_shares',
+  kind: 'trend',
+  lens: 'distribution',
+  rollup: {},
+  template: segmentSharesTemplate,
+  present: presentSegmentShares,
+  describe: (w) => `Each ${w.dim}'s share of ${w.metric} (${w.span}), and how concentrated it is.`,
+});

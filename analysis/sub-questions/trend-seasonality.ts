@@ -1,0 +1,14 @@
+// Sub-question "trend_seasonality": the trend request's time pattern lens.
+import { presentTrendSeasonality } from '../present/trend-seasonality.js';
+import { trendSeasonalityTemplate } from '../templates/trend-seasonality.js';
+import { defineSubQuestion } from './definition.js';
+
+export const trendSeasonalitySubQuestion = defineSubQuestion({
+  name: 'trend_seasonality',
+  kind: 'trend',
+  lens: 'time_pattern',
+  rollup: {},
+  template: trendSeasonalityTemplate,
+  present: presentTrendSeasonality,
+  describe: (w) => `Which calendar months are busiest and quietest for ${w.metric}, and how consistently across years.`,
+});
