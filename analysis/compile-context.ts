@@ -5,6 +5,7 @@ import { groupableDimension } from './catalog.js';
 import type { Metric } from '../config/schema.js';
 import { ROLLUP_RELATION, rollupMetricAggregate, rollupRowCount, type RollupShape } from './rollup/rollup.js';
 import type { Dialect, TimeColumnType } from './sql/dialect.js';
+import { expressionSql } from './sql/expression-sql.js';
 import { metricAggregate } from './sql/metric-sql.js';
 import type { QueryBuilder } from './sql/query-builder.js';
 import type { DateWindow, SegmentFilter } from './types.js';
@@ -44,7 +45,26 @@ export function whereClause(q: QueryBuilder, ctx: CompileContext, window: DateWi
 }
 
 export function tableRef(q: QueryBuilder, ctx: CompileContext): string {
-  return q.ident(ctx.rollup ? ROLLUP_RELATION : ctx.dataset.table);
+  return ctx.rollup ? q.ident(ROLLUP_RELATION) : datasetRelation(q, ctx.dataset);
+}
+
+/** The name rows with computed columns go by in a statement (a CTE over the table). */
+export const DATASET_ROWS = 'tc_rows';
+
+/**
+ * The dataset's rows as a statement reads them: the table itself, or, when the config computes
+ * columns (expressions, a date from parts, a group defined by values), a CTE over the table that
+ * adds them under their names, so every template reads them as it reads plain columns.
+ */
+export function datasetRelation(q: QueryBuilder, ds: DatasetConfig): string {
+  if (!ds.derived?.length) return q.ident(ds.table);
+  return q.relation(DATASET_ROWS, datasetRowsSql(ds, q.dialect));
+}
+
+/** The SELECT that adds the computed columns to the table's (no parameters: literals are written from parsed values). */
+export function datasetRowsSql(ds: DatasetConfig, dialect: Dialect): string {
+  const added = (ds.derived ?? []).map((d) => `${expressionSql(d.expr, dialect)} AS ${dialect.quoteIdent(d.name)}`);
+  return `SELECT *${added.map((a) => `,\n  ${a}`).join('')}\nFROM ${dialect.quoteIdent(ds.table)}`;
 }
 
 /** A catalog metric as one aggregate over the rows the query reads (table or rollup). */

@@ -3,7 +3,8 @@ import type { DatasetConfig } from '../config/schema.js';
 import { type LoadedConfig, resolveSourcePath } from '../config/load.js';
 import type { CompileContext } from './compile-context.js';
 import { type Coverage, readDataCoverage } from './coverage.js';
-import { SourceError, timeColumnTypeOf, type DataSource, type RunOptions } from './sources/data-source.js';
+import { SourceError, timeColumnTypeOf, type DataSource, type RunOptions, type TableColumn } from './sources/data-source.js';
+import type { TimeColumnType } from './sql/dialect.js';
 import { DuckDbSource } from './sources/duckdb-source.js';
 import { PostgresSource } from './sources/postgres-source.js';
 import type { Secrets } from '../config/environment.js';
@@ -23,10 +24,7 @@ export async function openWorkspace(config: LoadedConfig, datasetName?: string, 
   const source = await openSource(config, dataset, secrets);
   try {
     const columns = await source.describe(dataset.table);
-    const time = columns.find((c) => c.name === dataset.time_column);
-    if (!time) throw new SourceError('missing_table', `the table "${dataset.table}" has no column "${dataset.time_column}" (the configured time column)`);
-    const timeColumnType = timeColumnTypeOf(time.type);
-    if (!timeColumnType) throw new SourceError('query_failed', `the time column "${dataset.time_column}" is ${time.type}, not a date or timestamp`);
+    const timeColumnType = computedTimeColumn(dataset) ? 'date' : timeColumnTypeIn(dataset, columns);
     const context: CompileContext = { dataset, dialect: source.dialect, timeColumnType };
     const runOptions: RunOptions = { maxRows: config.engine.max_result_rows, timeoutMs: config.engine.statement_timeout_ms };
     const coverage = await readDataCoverage(source, context, runOptions);
@@ -37,8 +35,21 @@ export async function openWorkspace(config: LoadedConfig, datasetName?: string, 
   }
 }
 
+/** A time column the config computes (a date from parts, an expression) is a DATE by construction. */
+function computedTimeColumn(dataset: DatasetConfig): boolean {
+  return dataset.derived?.some((d) => d.name === dataset.time_column) ?? false;
+}
+
+function timeColumnTypeIn(dataset: DatasetConfig, columns: TableColumn[]): TimeColumnType {
+  const time = columns.find((c) => c.name === dataset.time_column);
+  if (!time) throw new SourceError('missing_table', `the table "${dataset.table}" has no column "${dataset.time_column}" (the configured time column)`);
+  const type = timeColumnTypeOf(time.type);
+  if (!type) throw new SourceError('query_failed', `the time column "${dataset.time_column}" is ${time.type}, not a date or timestamp`);
+  return type;
+}
+
 /** The engine for the dataset's source kind: embedded DuckDB for files, a pool for PostgreSQL. */
-async function openSource(config: LoadedConfig, dataset: DatasetConfig, secrets: Secrets): Promise<DataSource> {
+export async function openSource(config: LoadedConfig, dataset: DatasetConfig, secrets: Secrets): Promise<DataSource> {
   const src = dataset.source;
   if (src.kind === 'postgres') {
     const url = secrets[src.url_env];

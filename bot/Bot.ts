@@ -483,9 +483,12 @@ export class Bot {
   }
 
   /** One data-quality pass per run, its SQL in the audit log; if it cannot run, each answer reports its own error. */
-  private async checkRunQuality(items: SubQuestion[], ws: Workspace, who: Who): Promise<QualityReport | undefined> {
+  private async checkRunQuality(items: SubQuestion[], ws: Workspace, who: Who): Promise<{ report?: QualityReport; failure?: unknown }> {
     const ran: NamedQuery[] = [];
-    const quality = await timePhase(this.deps.phases, 'checks', () => checkQuality(items, ws, { onQuery: (q) => ran.push(q) })).catch(() => undefined);
+    const quality = await timePhase(this.deps.phases, 'checks', () => checkQuality(items, ws, { onQuery: (q) => ran.push(q) })).then(
+      (report) => ({ report }),
+      (failure: unknown) => ({ failure }),
+    );
     for (const q of ran) await this.audit(who, 'sql', { subQuestion: null, template: 'quality_check', query: q.name, sql: q.sql, params: q.params, dataset: ws.dataset.name });
     return quality;
   }
@@ -502,7 +505,10 @@ export class Bot {
     const phases = this.deps.phases;
     if (!(await this.mayRun(started, who))) return;
     await this.deps.store.appendAudit(this.runEntry(who, 'started', run.number));
-    const quality = await this.checkRunQuality(plan.items, ws, who);
+    const checked = await this.checkRunQuality(plan.items, ws, who);
+    const quality = checked.report;
+    // A check that could not run is said in the thread, never skipped silently.
+    if (checked.failure !== undefined) await this.postOnce(threadId, runKey('quality-failed'), { text: replies.qualityCheckFailed(checked.failure) }, who);
     const progressRef = await this.postOnce(threadId, runKey('progress'), { text: replies.progress(run.posted.length, plan.items.length) }, who);
     // The queries each sub-question ran, for the audit log (kept even when presenting fails).
     const ran = plan.items.map(() => [] as NamedQuery[]);

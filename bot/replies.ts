@@ -117,13 +117,18 @@ export function rerunFailed(err: unknown): string {
   return `I could not rerun the plan: ${problemText(err)} The plan is kept as it was.`;
 }
 
+/** The run's data-quality check could not run: the answers come without its caveats. */
+export function qualityCheckFailed(err: unknown): string {
+  return `The data-quality check could not run (${problemText(err)}), so the answers below carry no notes on missing values, repeated keys or freshness.`;
+}
+
 function problemText(err: unknown): string {
   return err instanceof SourceError
     ? {
         timeout: `${err.message}. Try a shorter period, or say "rerun" later.`,
         unreachable: `the dataset could not be reached (${err.message}). Say "rerun" once it is back.`,
         missing_table: `${err.message}. The dataset may have changed since the plan was made; say "rerun" once the table is back.`,
-        dataset_changed: `the dataset has changed since the plan was made: ${err.message}. Once the config and the table agree again, say "rerun".`,
+        dataset_changed: `${err.message}. Once the config and the table agree again (threadcount check --config FILE lists what is missing), say "rerun".`,
         query_failed: `${err.message}.`,
       }[err.code]
     : err instanceof CatalogError

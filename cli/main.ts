@@ -7,6 +7,8 @@ import { generateDemo } from '../config/demo/generate-demo.js';
 import { DEMO_CONFIG_FILE, DEMO_DATABASE_FILE } from '../config/demo/generate-demo.js';
 import { SourceError } from '../analysis/sources/data-source.js';
 import { ask } from './ask.js';
+import { checkConfig, formatCheckReport } from '../analysis/sources/dataset-check.js';
+import { draftConfigFile } from './init.js';
 import { EnvironmentError, loadEnvironment, readSecrets } from '../config/environment.js';
 import { PostgresStateStore } from '../bot/stores/PostgresStateStore.js';
 import { serveUntilSignal, type Serving } from './serve.js';
@@ -24,6 +26,13 @@ Commands:
       Write the Skerrywake Ferries demo data (DuckDB) and a config pointing to it into DIR.
   threadcount ask --config FILE --request "TEXT" [--answers FILE] --out DIR
       Run one whole conversation with scripted answers; write thread.json, charts, tables and SQL to DIR.
+  threadcount check --config FILE
+      Hold the config against its data before any conversation: every column exists with a
+      usable type, every metric runs, the time column's dates and how often they are stamped,
+      each dimension's values. Prints what it found; exits 2 when the config has problems.
+  threadcount init --source FILE|URL [--table T] --out FILE
+      Draft a config from the data: the time column, metrics for its numbers and true/false
+      columns, dimensions for its low-cardinality text, suspected personal data marked.
   threadcount serve --config FILE [--state FILE]
       Answer requests in chat: the local channel page always, Slack and Discord when their
       tokens are set in the environment. Conversations are kept in the state file
@@ -52,6 +61,10 @@ export async function main(argv: string[]): Promise<number> {
         return await askCommand(rest);
       case 'serve':
         return await serveCommand(rest);
+      case 'check':
+        return await checkCommand(rest);
+      case 'init':
+        return await initCommand(rest);
       case 'start':
         return await startCommand(rest);
       case 'audit':
@@ -128,6 +141,23 @@ async function askCommand(rest: string[]): Promise<number> {
   const files = result.thread.thread.posts.flatMap((p) => p.files);
   process.stdout.write(`Thread written to ${result.threadFile} (${result.thread.thread.posts.length} posts, ${files.length} files; conversation ${result.end}).\n`);
   return result.end === 'stalled' ? 1 : 0;
+}
+
+async function checkCommand(rest: string[]): Promise<number> {
+  const v = parse(rest, { config: { type: 'string' } });
+  if (!v.config) throw new UsageError('check needs --config FILE');
+  const config = loadConfig(resolve(v.config));
+  const report = await checkConfig(config, readSecrets(config));
+  process.stdout.write(formatCheckReport(report));
+  return report.problems.length ? 2 : 0;
+}
+
+async function initCommand(rest: string[]): Promise<number> {
+  const v = parse(rest, { source: { type: 'string' }, table: { type: 'string' }, out: { type: 'string' }, 'url-env': { type: 'string' } });
+  if (!v.source || !v.out) throw new UsageError('init needs --source FILE|URL and --out FILE');
+  const result = await draftConfigFile({ source: v.source, out: resolve(v.out), ...(v.table ? { table: v.table } : {}), ...(v['url-env'] ? { urlEnv: v['url-env'] } : {}) });
+  process.stdout.write(result.summary);
+  return 0;
 }
 
 async function serveCommand(rest: string[]): Promise<number> {

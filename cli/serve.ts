@@ -16,7 +16,8 @@ import { PortRouter } from '../adapters/PortRouter.js';
 import { SlackAdapter } from '../adapters/slack/SlackAdapter.js';
 import { ThreadInbox } from '../adapters/ThreadInbox.js';
 import type { Environment } from '../config/environment.js';
-import { loadConfig } from '../config/load.js';
+import { ConfigError, formatProblem, loadConfig } from '../config/load.js';
+import { checkConfig } from '../analysis/sources/dataset-check.js';
 
 export interface ServeOptions {
   configFile: string;
@@ -50,6 +51,10 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
   const shared = config.conversation.state;
   // A missing state URL stops start-up before any data is opened.
   if (shared) sharedStateUrl(shared, secrets);
+  // A config its data does not bear out stops start-up, with the file, line and key of each problem.
+  const check = await checkConfig(config, secrets);
+  if (check.problems.length > 0) throw new ConfigError(check.problems);
+  for (const w of config.warnings ?? []) log(`threadcount: ${formatProblem(w)}`);
   const workspaces = await openWorkspaces(config, secrets);
   let backend: StateBackend;
   try {

@@ -1,10 +1,14 @@
-// Reads the YAML config once, validates it with zod, and checks the cross-references zod
-// cannot see (a ratio naming an unknown metric...). Every error names the file, the line and the key.
+// Reads the YAML config once, validates the file's shape with zod (config/file-schema.ts), and
+// turns it into the typed config (config/normalise.ts), which also checks the cross-references zod
+// cannot see (a ratio naming an unknown metric...). Every error and warning names the file, the
+// line and the key.
 import { readFileSync } from 'node:fs';
 import { dirname, isAbsolute, resolve } from 'node:path';
 import { LineCounter, parseDocument, isNode } from 'yaml';
 import type { z } from 'zod';
-import { configSchema, type Config, type DatasetConfig } from './schema.js';
+import { configFileSchema } from './file-schema.js';
+import { keyPath, normaliseConfig } from './normalise.js';
+import type { Config } from './schema.js';
 
 export interface ConfigProblem {
   file: string;
@@ -30,6 +34,10 @@ export function formatProblem(p: ConfigProblem): string {
 export interface LoadedConfig extends Config {
   file: string;
   baseDir: string;
+  /** Keys that still load but are on their way out (the earlier metric and filter shapes). */
+  warnings?: ConfigProblem[];
+  /** The line and key of a path in the file, for problems found later (threadcount check). */
+  locate?: (path: (string | number)[]) => { line: number | null; key: string };
 }
 
 export function loadConfig(file: string): LoadedConfig {
@@ -43,15 +51,14 @@ export function loadConfig(file: string): LoadedConfig {
 }
 
 export function parseConfigText(text: string, file: string): LoadedConfig {
-  const { data, lineOf } = parseYamlWithSchema(text, file, configSchema);
-  const problems = crossReferenceProblems(data).map(({ path, message }) => ({
-    file,
-    line: lineOf(path),
-    key: keyPath(path),
-    message,
-  }));
-  if (problems.length > 0) throw new ConfigError(problems);
-  return { ...data, file, baseDir: dirname(resolve(file)) };
+  const { data, lineOf } = parseYamlWithSchema(text, file, configFileSchema);
+  const normalised = normaliseConfig(data);
+  const located = ({ path, message }: { path: (string | number)[]; message: string }): ConfigProblem => ({ file, line: lineOf(path), key: keyPath(path), message });
+  if (normalised.problems.length > 0) throw new ConfigError(normalised.problems.map(located));
+  const loaded: LoadedConfig = { ...normalised.config, file, baseDir: dirname(resolve(file)), warnings: normalised.warnings.map(located) };
+  // Not enumerable: the config stays plain data for anything that copies or clones it.
+  Object.defineProperty(loaded, 'locate', { value: (path: (string | number)[]) => ({ line: lineOf(path), key: keyPath(path) }), enumerable: false });
+  return loaded;
 }
 
 /** Parses YAML and validates it; problems carry the file, line and key path. */
@@ -98,57 +105,4 @@ export function parseYamlWithSchema<S extends z.ZodType>(
 
 export function resolveSourcePath(config: LoadedConfig, path: string): string {
   return isAbsolute(path) ? path : resolve(config.baseDir, path);
-}
-
-function keyPath(path: (string | number)[]): string {
-  return path.map((k, i) => (typeof k === 'number' ? `[${k}]` : i === 0 ? k : `.${k}`)).join('');
-}
-
-function crossReferenceProblems(config: Config): { path: (string | number)[]; message: string }[] {
-  const out: { path: (string | number)[]; message: string }[] = [];
-  const seenDatasets = new Set<string>();
-  config.datasets.forEach((ds, d) => {
-    if (seenDatasets.has(ds.name)) out.push({ path: ['datasets', d, 'name'], message: `dataset name "${ds.name}" is used twice` });
-    seenDatasets.add(ds.name);
-    out.push(...datasetProblems(ds).map((p) => ({ ...p, path: ['datasets', d, ...p.path] })));
-  });
-  // Access rules may only name datasets the file defines.
-  const unknown = (name: string) => `names dataset "${name}", which is not in this file's datasets (${[...seenDatasets].join(', ')})`;
-  config.access?.channels.forEach((rule, r) =>
-    rule.datasets.forEach((name, i) => {
-      if (!seenDatasets.has(name)) out.push({ path: ['access', 'channels', r, 'datasets', i], message: unknown(name) });
-    }),
-  );
-  config.access?.default_datasets.forEach((name, i) => {
-    if (!seenDatasets.has(name)) out.push({ path: ['access', 'default_datasets', i], message: unknown(name) });
-  });
-  return out;
-}
-
-function datasetProblems(ds: DatasetConfig): { path: (string | number)[]; message: string }[] {
-  const out: { path: (string | number)[]; message: string }[] = [];
-  const names = new Map<string, string>();
-  const claim = (name: string, what: string, path: (string | number)[]) => {
-    const prior = names.get(name);
-    if (prior) out.push({ path, message: `"${name}" is already the name of a ${prior}` });
-    else names.set(name, what);
-  };
-  ds.metrics.forEach((m, i) => claim(m.name, 'metric', ['metrics', i, 'name']));
-  ds.dimensions.forEach((d, i) => claim(d.name, 'dimension', ['dimensions', i, 'name']));
-  ds.comparison_groups.forEach((g, i) => claim(g.name, 'comparison group', ['comparison_groups', i, 'name']));
-
-  const metricByName = new Map(ds.metrics.map((m) => [m.name, m]));
-  ds.metrics.forEach((m, i) => {
-    const def = m.definition;
-    const refs: [string, string][] =
-      def.type === 'ratio' ? [['numerator', def.numerator], ['denominator', def.denominator]] : def.type === 'rate' && def.of ? [['of', def.of]] : [];
-    for (const [key, ref] of refs) {
-      const target = metricByName.get(ref);
-      if (!target) out.push({ path: ['metrics', i, 'definition', key], message: `names metric "${ref}", which is not in this dataset's metrics` });
-      else if (target.definition.type === 'ratio' || target.definition.type === 'rate')
-        out.push({ path: ['metrics', i, 'definition', key], message: `"${ref}" is itself a ratio or rate; name a sum, count, distinct count or average` });
-    }
-    if (m.unit === 'currency' && !m.currency) out.push({ path: ['metrics', i, 'currency'], message: 'a currency metric needs a three-letter currency code (e.g. EUR)' });
-  });
-  return out;
 }

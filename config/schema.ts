@@ -1,11 +1,16 @@
-// The one config file's shape. Parsed once at start-up (config/load.ts); everything else
-// receives the typed object and never reads YAML or process.env itself.
+// The typed config every module reads. The file's own shape (config/file-schema.ts) is parsed
+// once at start-up and turned into these objects by config/normalise.ts; everything else receives
+// the typed object and never reads YAML or process.env itself.
 import { z } from 'zod';
+import type { Expr } from './expression.js';
 
-const identifier = z
+/** A column or table name as the engine has it: any characters (every identifier is quoted in SQL). */
+const identifier = z.string().min(1).max(300);
+/** A name threadcount itself creates (the shared state's schema): letters, digits, underscore. */
+const plainIdentifier = z
   .string()
-  .regex(/^[A-Za-z_][A-Za-z0-9_]*$/, 'must be a plain column or table name (letters, digits, underscore)');
-const catalogName = z
+  .regex(/^[A-Za-z_][A-Za-z0-9_]*$/, 'must be a plain name (letters, digits, underscore)');
+export const catalogName = z
   .string()
   .regex(/^[a-z][a-z0-9_]*$/, 'must be lower_snake_case (letters, digits, underscore)');
 
@@ -90,9 +95,12 @@ export type ComparisonGroup = z.infer<typeof comparisonGroupSchema>;
 const envVarName = z.string().regex(/^[A-Z_][A-Z0-9_]*$/, 'must be the name of an environment variable (upper case letters, digits, underscore)');
 
 export const sourceSchema = z.discriminatedUnion('kind', [
+  // A table or view in a DuckDB file.
   z.object({ kind: z.literal('duckdb'), path: z.string().min(1) }).strict(),
+  // Files read in place; each path may be a glob (data/*.csv).
   z.object({ kind: z.literal('csv'), paths: z.array(z.string().min(1)).min(1) }).strict(),
   z.object({ kind: z.literal('parquet'), paths: z.array(z.string().min(1)).min(1) }).strict(),
+  z.object({ kind: z.literal('json'), paths: z.array(z.string().min(1)).min(1) }).strict(),
   // A PostgreSQL warehouse. Its URL holds a password, so the file names only the environment
   // variable that holds it (read once at start by config/environment.ts).
   z
@@ -122,14 +130,26 @@ export const datasetSchema = z
     // Small-group suppression: a segment or comparison group with fewer rows than this is never
     // shown on its own (segments join "All others"; a group reads "too few to show"). 0 = off.
     min_group_size: z.number().int().min(0).max(1_000_000).optional(),
+    // Columns the config computes from the table's own (expressions, a date from parts, a group
+    // defined by values): the rows every query reads carry them under these names (see
+    // analysis/compile-context.ts datasetRelation). Absent when the config names only columns.
+    derived: z.array(z.custom<DerivedColumn>()).optional(),
   })
   .strict();
 export type DatasetConfig = z.infer<typeof datasetSchema>;
 
+/** A column computed from the table's columns; `name` is the expression's canonical text. */
+export interface DerivedColumn {
+  name: string;
+  expr: Expr;
+  /** What it is for, so a problem with it is named in the user's terms (e.g. `metrics[2].sum`). */
+  key: string;
+}
+
 export const engineSchema = z
   .object({
     threads: z.number().int().min(1).max(256).optional(),
-    // DuckDB's memory limit; the source sets 128MB when unset (see analysis/sources/duckdb-source.ts).
+    // DuckDB's memory limit; when unset, a share of the machine's (see analysis/sources/duckdb-source.ts).
     memory_limit: z.string().regex(/^\d+(\.\d+)?\s*(KB|MB|GB|TB|KiB|MiB|GiB|TiB)$/i).optional(),
     statement_timeout_ms: z.number().int().min(100).default(60_000),
     max_result_rows: z.number().int().min(10).max(1_000_000).default(10_000),
@@ -155,7 +175,7 @@ export const sharedStateSchema = z
     kind: z.literal('postgres'),
     url_env: envVarName,
     // The schema of the bot's tables; the queue's tables go in "<schema>_queue".
-    schema: identifier.default('threadcount'),
+    schema: plainIdentifier.default('threadcount'),
     // Runs one replica works on at once.
     runs_per_replica: z.number().int().min(1).max(16).default(2),
     // A run still going after this long is taken as lost with its replica and retried by another:
@@ -220,7 +240,7 @@ export const configSchema = z
   .strict();
 export type Config = z.infer<typeof configSchema>;
 
-function isKnownTimeZone(zone: string): boolean {
+export function isKnownTimeZone(zone: string): boolean {
   try {
     new Intl.DateTimeFormat('en', { timeZone: zone });
     return true;

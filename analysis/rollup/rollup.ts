@@ -7,7 +7,7 @@
 import { createHash } from 'node:crypto';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import { groupableDimension, metricByName } from '../catalog.js';
-import type { CompileContext } from '../compile-context.js';
+import { datasetRelation, type CompileContext } from '../compile-context.js';
 import { filterCondition } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { CompiledQuery } from '../types.js';
@@ -165,7 +165,7 @@ export function compileRollup(ctx: CompileContext, shape: RollupShape, firstPara
   }
   return q.finish(`SELECT ${keys.join(', ')},
   COUNT(*) AS ${q.ident(ROLLUP_ROWS)}${pieces.map((p) => `,\n  ${p}`).join('')}
-FROM ${q.ident(ds.table)}
+FROM ${datasetRelation(q, ds)}
 GROUP BY ${keys.map((_, i) => i + 1).join(', ')}`);
 }
 

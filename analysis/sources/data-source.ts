@@ -46,3 +46,10 @@ export function timeColumnTypeOf(engineType: string): TimeColumnType | null {
   if (t.startsWith('TIMESTAMP')) return 'timestamp';
   return null;
 }
+
+/** What a query that names a column the table no longer has is reported as: the column, by name. */
+export function missingColumnMessage(column: string | undefined, engineText: string): string {
+  return column
+    ? `column ${column.replaceAll('""', '"')} is missing from the table (renamed or dropped since the config was written?)`
+    : `a column the config names is missing from the table (${engineText})`;
+}

@@ -2,14 +2,14 @@
 // and converts every column explicitly so BIGINT and DECIMAL never lose precision by accident.
 import { randomBytes } from 'node:crypto';
 import { existsSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { tmpdir, totalmem } from 'node:os';
 import { join } from 'node:path';
 import { DuckDBConnection, DuckDBInstance, type DuckDBType, DuckDBTypeId } from '@duckdb/node-api';
 import type { EngineConfig, SourceConfig } from '../../config/schema.js';
 import { duckdbDialect } from '../sql/dialect.js';
 import { rollupTable, storedRollupQuery, storeRollupStatement, type SharedScan } from '../rollup/rollup.js';
 import type { CellValue, CompiledQuery, ResultColumn, ResultTable } from '../types.js';
-import { SourceError, type DataSource, type RunOptions, type TableColumn } from './data-source.js';
+import { missingColumnMessage, SourceError, type DataSource, type RunOptions, type TableColumn } from './data-source.js';
 
 export interface DuckDbSourceOptions {
   source: Exclude<SourceConfig, { kind: 'postgres' }>;
@@ -20,12 +20,26 @@ export interface DuckDbSourceOptions {
 }
 
 /**
- * The engine's memory when the config sets none. DuckDB's own default, 80% of the machine's
- * memory, suits a process that has the machine to itself, not a chat service beside others; with
- * 128 MB the whole process stays near 500 MB at 10M rows (BENCHMARKS.md), and a query that needs
- * more spills to disk. Set engine.memory_limit higher for speed on large tables.
+ * The engine's memory when the config sets none: half of the memory the process may use (the
+ * machine's, or its container's limit when lower). DuckDB's own default, 80%, suits a process that
+ * has the machine to itself, not a chat service beside others; a fixed small limit (128 MB before)
+ * made a 36 MB CSV's data-quality check run out of memory. Beyond the limit DuckDB spills to disk
+ * (temp_directory below). Set engine.memory_limit to bound it further.
  */
-export const DEFAULT_MEMORY_LIMIT = '128MB';
+export function defaultMemoryLimit(machineBytes = usableMemory()): string {
+  const share = Math.floor(machineBytes / 2 / 2 ** 20);
+  return `${Math.max(256, share)}MiB`;
+}
+
+function usableMemory(): number {
+  const total = totalmem();
+  // A container's limit (cgroup) when lower than the machine's; 0 or absent when there is none.
+  const constrained = typeof process.constrainedMemory === 'function' ? (process.constrainedMemory() ?? 0) : 0;
+  return constrained > 0 && constrained < total ? constrained : total;
+}
+
+export const DEFAULT_MEMORY_LIMIT = defaultMemoryLimit();
+
 
 // Sub-question jobs run a few at a time; DuckDB parallelises each query across its own threads.
 const POOL_SIZE = 4;
@@ -67,7 +81,8 @@ export class DuckDbSource implements DataSource {
     // makes it when first needed and removes it on close), never into the working directory.
     settings.temp_directory = join(tmpdir(), `threadcount-duckdb-${process.pid}-${randomBytes(4).toString('hex')}`);
     for (const p of opts.paths) {
-      if (!existsSync(p)) throw new SourceError('unreachable', `the data file ${p} does not exist`);
+      // A glob is checked by the reader itself ("no files found that match").
+      if (!isGlob(p) && !existsSync(p)) throw new SourceError('unreachable', `the data file ${p} does not exist`);
     }
     let instance: DuckDBInstance;
     let connection: DuckDBConnection;
@@ -94,7 +109,8 @@ export class DuckDbSource implements DataSource {
     if (opts.source.kind !== 'duckdb') {
       // File paths come from the config, not from chat; they still go in as SQL string literals.
       const list = `[${opts.paths.map((p) => `'${p.replaceAll("'", "''")}'`).join(', ')}]`;
-      const reader = opts.source.kind === 'csv' ? `read_csv(${list}, auto_detect = true)` : `read_parquet(${list})`;
+      const reader =
+        opts.source.kind === 'csv' ? `read_csv(${list}, auto_detect = true)` : opts.source.kind === 'json' ? `read_json(${list})` : `read_parquet(${list})`;
       try {
         await connection.run(`CREATE VIEW ${duckdbDialect.quoteIdent(opts.table)} AS SELECT * FROM ${reader}`);
       } catch (err) {
@@ -164,7 +180,33 @@ export class DuckDbSource implements DataSource {
     }
   }
 
+  /**
+   * Runs the query; one that runs out of memory is retried once with a smaller plan, on a single
+   * thread (each DuckDB thread holds its own share of a grouping's hash tables). A second failure
+   * is reported as such, so the thread says why the answer is missing.
+   */
   private async runOn(connection: DuckDBConnection, query: CompiledQuery, options: RunOptions): Promise<ResultTable> {
+    try {
+      return await this.runOnce(connection, query, options);
+    } catch (err) {
+      if (!(err instanceof SourceError) || err.code !== 'query_failed' || !/Out of Memory Error/i.test(err.message)) throw err;
+      const threads = await connection.runAndReadAll("SELECT current_setting('threads') AS t");
+      const before = String(threads.getRowObjectsJson()[0]?.t ?? '');
+      await connection.run('SET threads = 1');
+      try {
+        return await this.runOnce(connection, query, options);
+      } catch (again) {
+        if (again instanceof SourceError && /Out of Memory Error/i.test(again.message)) {
+          throw new SourceError('query_failed', `the query ran out of memory, and again when retried on one thread (${again.message.replace(/^the query failed: /, '')}); set engine.memory_limit higher or ask for a shorter period`, again);
+        }
+        throw again;
+      } finally {
+        if (/^\d+$/.test(before)) await connection.run(`SET threads = ${before}`);
+      }
+    }
+  }
+
+  private async runOnce(connection: DuckDBConnection, query: CompiledQuery, options: RunOptions): Promise<ResultTable> {
     // DuckDB has no statement_timeout setting; interrupting the connection cancels the query.
     let timedOut = false;
     const timer = setTimeout(() => {
@@ -183,7 +225,8 @@ export class DuckDbSource implements DataSource {
       const line = firstLine(err);
       // The same codes as the PostgreSQL source, from DuckDB's error classes.
       if (/^Catalog Error: Table with name .* does not exist/.test(line)) throw new SourceError('missing_table', `the table is missing from the database (${line})`, err);
-      if (/^Binder Error: Referenced column .* not found/.test(line)) throw new SourceError('dataset_changed', `a column the plan uses is no longer in the table (${line})`, err);
+      const gone = /^Binder Error: Referenced column "((?:[^"]|"")+)" not found/.exec(line);
+      if (gone) throw new SourceError('dataset_changed', missingColumnMessage(gone[1], line), err);
       throw new SourceError('query_failed', `the query failed: ${line}`, err);
     } finally {
       clearTimeout(timer);
@@ -236,6 +279,10 @@ function convertRow(r: Record<string, unknown>, columns: ResultColumn[]): Record
     else out[c.name] = String(v);
   }
   return out;
+}
+
+function isGlob(path: string): boolean {
+  return /[*?[]/.test(path);
 }
 
 function firstLine(err: unknown): string {

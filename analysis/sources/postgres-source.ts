@@ -7,7 +7,7 @@ import Cursor from 'pg-cursor';
 import { quoteIdentifier } from '../sql/dialect.js';
 import { postgresDialect } from '../sql/postgres-dialect.js';
 import type { CellValue, CompiledQuery, ResultColumn, ResultTable } from '../types.js';
-import { SourceError, type DataSource, type RunOptions, type TableColumn } from './data-source.js';
+import { missingColumnMessage, SourceError, type DataSource, type RunOptions, type TableColumn } from './data-source.js';
 
 export interface PostgresSourceOptions {
   /** A postgres:// connection URL (a secret: it comes from the environment, never from the config file). */
@@ -247,7 +247,7 @@ function mapError(err: unknown, timeoutMs: number): SourceError {
   const text = firstLine(err);
   if (code === '57014') return new SourceError('timeout', `the query ran past the ${timeoutMs} ms limit and was stopped`, err);
   if (code === '42P01') return new SourceError('missing_table', `the table is missing from the database (${text})`, err);
-  if (code === '42703') return new SourceError('dataset_changed', `a column the plan uses is no longer in the table (${text})`, err);
+  if (code === '42703') return new SourceError('dataset_changed', missingColumnMessage(/column "((?:[^"]|"")+)" does not exist/.exec(text)?.[1], text), err);
   if (isConnectionError(err)) return new SourceError('unreachable', `cannot reach the PostgreSQL database: ${redact(text)}`, err);
   return new SourceError('query_failed', `the query failed: ${text}`, err);
 }

@@ -2,11 +2,11 @@
 // memory limit unless the config sets one, and spills into a folder of its own under the
 // system's temporary folder that is gone once the engine closes.
 import { existsSync, readdirSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { tmpdir, totalmem } from 'node:os';
 import { dirname } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import type { DataSource } from '../../analysis/sources/data-source.js';
-import { DEFAULT_MEMORY_LIMIT, DuckDbSource } from '../../analysis/sources/duckdb-source.js';
+import { DEFAULT_MEMORY_LIMIT, defaultMemoryLimit, DuckDbSource } from '../../analysis/sources/duckdb-source.js';
 import type { EngineConfig } from '../../config/schema.js';
 import { demoFixture } from '../helpers/demo-fixture.js';
 
@@ -37,11 +37,16 @@ async function settings(source: DataSource): Promise<{ memoryLimit: string; temp
 const REPEATED = { sql: "SELECT COUNT(*) AS keys FROM (SELECT 'key-' || (i % 2000000) AS k FROM range(4000000) t(i) GROUP BY k HAVING COUNT(*) > 1)", params: [] };
 
 describe('DuckDbSource memory settings', () => {
-  it('bounds the memory by default and takes the config\'s limit when set', async () => {
-    // DuckDB shows a limit in binary units, cut to one decimal: 128 MB (10^6 bytes) is 122.07 MiB.
-    const shown = (bytes: number) => `${(Math.floor((bytes / 2 ** 20) * 10) / 10).toFixed(1)} MiB`;
-    expect(DEFAULT_MEMORY_LIMIT).toBe('128MB');
-    expect((await settings(await open())).memoryLimit).toBe(shown(128e6));
+  it('bounds the memory by default to half the machine\'s and takes the config\'s limit when set', async () => {
+    // DuckDB shows a limit in binary units, cut to one decimal (1 GB, 10^9 bytes, is 953.6 MiB), or in GiB from 1000 MiB up.
+    const shown = (bytes: number) => {
+      const mib = bytes / 2 ** 20;
+      return mib >= 1000 ? `${(Math.floor((mib / 1024) * 10) / 10).toFixed(1)} GiB` : `${(Math.floor(mib * 10) / 10).toFixed(1)} MiB`;
+    };
+    expect(DEFAULT_MEMORY_LIMIT).toBe(`${Math.floor(totalmem() / 2 / 2 ** 20)}MiB`);
+    expect(defaultMemoryLimit(8 * 2 ** 30)).toBe('4096MiB');
+    expect(defaultMemoryLimit(300 * 2 ** 20)).toBe('256MiB');
+    expect((await settings(await open())).memoryLimit).toBe(shown(Math.floor(totalmem() / 2 / 2 ** 20) * 2 ** 20));
     expect((await settings(await open({ memory_limit: '1GB' }))).memoryLimit).toBe(shown(1e9));
   });
 
@@ -66,5 +71,15 @@ describe('DuckDbSource memory settings', () => {
     await tight.close();
     sources.splice(sources.indexOf(tight), 1);
     expect(existsSync(tempDirectory)).toBe(false);
+  });
+
+  it('retries a query that runs out of memory once on one thread, and says so when that fails too', async () => {
+    // A list of ten million numbers cannot spill: it needs far more than 16 MB on any plan.
+    const tight = await open({ memory_limit: '16MB' });
+    const sql = { sql: 'SELECT list(i) AS l FROM range(10000000) t(i)', params: [] };
+    await expect(tight.run(sql, RUN)).rejects.toThrow(/ran out of memory, and again when retried on one thread/);
+    // The engine's thread count is back as it was.
+    const t = await tight.run({ sql: "SELECT current_setting('threads') AS t", params: [] }, RUN);
+    expect(Number(t.rows[0]!.t)).toBeGreaterThan(0);
   });
 });

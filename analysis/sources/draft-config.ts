@@ -1,0 +1,188 @@
+// `threadcount init`: a first config drafted from the data itself, so a new user starts from
+// something that loads and checks. It reads the table's columns and a sample of rows, then
+// guesses: the time column (a date column, or year/month/day parts), a count of rows, a sum or an
+// average per numeric column with its kind of quantity, a rate per true/false column, dimensions
+// for low-cardinality text, and personal data (emails, phone numbers, names) marked so. Every
+// guess is written where the user reviews it; `also_called` is left for them to fill in.
+import type { SourceConfig } from '../../config/schema.js';
+import { quoteIdentifier } from '../sql/dialect.js';
+import type { DataSource, TableColumn } from './data-source.js';
+import { typeFamily } from './dataset-check.js';
+
+const SAMPLE_ROWS = 100_000;
+// Text with at most this many values in the sample is a dimension (common practice: a breakdown
+// reads at a glance with a few dozen segments at most).
+const DIMENSION_MAX_VALUES = 60;
+
+export interface ColumnProfile {
+  name: string;
+  type: string;
+  family: ReturnType<typeof typeFamily>;
+  values: number;
+  nonNull: number;
+  /** A few non-empty values as text (for spotting emails and phone numbers). */
+  examples: string[];
+}
+
+export interface DraftInput {
+  datasetName: string;
+  label: string;
+  source: SourceConfig;
+  table?: string;
+  rows: number;
+  columns: ColumnProfile[];
+}
+
+/** Reads each column's type, distinct and non-empty counts and a few values, over a sample of rows. */
+export async function profileColumns(source: DataSource, table: string): Promise<{ rows: number; columns: ColumnProfile[] }> {
+  const described: TableColumn[] = await source.describe(table);
+  const q = quoteIdentifier;
+  const text = source.dialect.name === 'postgres' ? 'TEXT' : 'VARCHAR';
+  const sample = `(SELECT * FROM ${q(table)} LIMIT ${SAMPLE_ROWS}) AS tc_sample`;
+  const parts = described.flatMap((c, i) => [`COUNT(DISTINCT ${q(c.name)}) AS d${i}`, `COUNT(${q(c.name)}) AS n${i}`]);
+  const run = { maxRows: 1000, timeoutMs: 120_000 };
+  const stats = (await source.run({ sql: `SELECT COUNT(*) AS tc_rows, ${parts.join(', ')} FROM ${sample}`, params: [] }, run)).rows[0] ?? {};
+  const examples = described.length
+    ? (await source.run({ sql: `SELECT ${described.map((c, i) => `CAST(${q(c.name)} AS ${text}) AS e${i}`).join(', ')} FROM ${q(table)} LIMIT 200`, params: [] }, run)).rows
+    : [];
+  return {
+    rows: Number(stats.tc_rows ?? 0),
+    columns: described.map((c, i) => ({
+      name: c.name,
+      type: c.type,
+      family: typeFamily(c.type),
+      values: Number(stats[`d${i}`] ?? 0),
+      nonNull: Number(stats[`n${i}`] ?? 0),
+      examples: examples.map((r) => r[`e${i}`]).filter((v): v is string => typeof v === 'string' && v !== '').slice(0, 200),
+    })),
+  };
+}
+
+const EMAIL = /^[^\s@]+@[^\s@]+\.[^\s@]+$/;
+const PHONE = /^\+?[\d\s().-]{7,20}$/;
+const PERSONAL_NAME = /(^|_)(e_?mail|phone|mobile|telephone|tel|first_?name|last_?name|surname|full_?name|given_?name|family_?name|address|street|postcode|zip_?code|birth_?date|date_?of_?birth|dob|passport|ssn|national_?id)($|_)/;
+const PERSON_COLUMN = /(^|_)(name)$/;
+// Readings averaged over time rather than added up (a level, not a flow).
+const LEVEL_WORDS = /(^|_)(temp|temperature|level|balance|concentration|co2|ppm|price|index|rate|ratio|pct|percent|share|avg|mean|average|headcount|stock|inventory|population|pressure|humidity|speed|wind|latitude|longitude|lat|lon|lng|score|age|height|weight)($|_|\d)/;
+const ID_WORDS = /(^|_)(id|key|uuid|code)$/;
+const YEAR = /^(year|yr|yyyy)$/;
+const MONTH = /^(month|mon|mm)$/;
+const DAY = /^(day|dd|date_of_month|day_of_month|dom|mday)$/;
+const TIME_WORDS = /(^|_)(date|day|time|timestamp|month|week|period|when)($|_)/;
+
+/** A catalog name (lower_snake_case) for a column name. */
+export function catalogNameOf(column: string): string {
+  const s = column
+    .replace(/([a-z0-9])([A-Z])/g, '$1_$2')
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, '_')
+    .replace(/^_+|_+$/g, '');
+  return /^[a-z]/.test(s) ? s : `c_${s || 'column'}`;
+}
+
+/** An expression naming the column: bare when it is a plain name, double-quoted otherwise. */
+function columnExpr(name: string): string {
+  return /^[a-z_][a-z0-9_]*$/.test(name) ? name : quoteIdentifier(name);
+}
+
+function labelOf(column: string): string {
+  const words = column.replace(/([a-z0-9])([A-Z])/g, '$1 $2').replace(/[_\s]+/g, ' ').trim();
+  return words.charAt(0).toUpperCase() + words.slice(1);
+}
+
+export interface Draft {
+  config: Record<string, unknown>;
+  /** What was guessed, for the person running init. */
+  notes: string[];
+}
+
+export function draftConfig(input: DraftInput): Draft {
+  const notes: string[] = [];
+  const used = new Set<string>();
+  const unique = (base: string) => {
+    let name = base;
+    for (let i = 2; used.has(name); i++) name = `${base}_${i}`;
+    used.add(name);
+    return name;
+  };
+  const personal = (c: ColumnProfile) =>
+    PERSONAL_NAME.test(catalogNameOf(c.name)) ||
+    (c.family === 'text' && PERSON_COLUMN.test(catalogNameOf(c.name)) && c.values > DIMENSION_MAX_VALUES) ||
+    (c.examples.length > 0 && c.examples.filter((v) => EMAIL.test(v)).length / c.examples.length > 0.5) ||
+    (c.family === 'text' && c.examples.length > 0 && c.examples.filter((v) => PHONE.test(v) && /\d{3}/.test(v)).length / c.examples.length > 0.8);
+
+  // The time column: a date or timestamp (preferring a name that says so), else year/month/day parts.
+  const times = input.columns.filter((c) => c.family === 'time');
+  const time = times.find((c) => TIME_WORDS.test(catalogNameOf(c.name))) ?? times[0];
+  const byRole = (re: RegExp) => input.columns.find((c) => c.family === 'number' && re.test(catalogNameOf(c.name)));
+  const year = byRole(YEAR);
+  const month = byRole(MONTH);
+  const day = byRole(DAY);
+  let timeColumn: unknown;
+  const timeParts = new Set<string>();
+  if (time) {
+    timeColumn = time.name;
+    notes.push(`time column: ${time.name}`);
+  } else if (year) {
+    timeColumn = { year: year.name, ...(month ? { month: month.name } : {}), ...(month && day ? { day: day.name } : {}) };
+    for (const c of [year, month, day]) if (c) timeParts.add(c.name);
+    notes.push(`time column: built from ${[year, month, day].filter(Boolean).map((c) => c!.name).join(', ')}`);
+  } else {
+    timeColumn = 'FILL_IN';
+    notes.push('time column: none found; write time_column (a date column, {year, month, day} or {expr: ...}) before check');
+  }
+
+  const metrics: Record<string, unknown>[] = [{ name: unique('rows'), label: 'Rows', also_called: [], description: 'number of rows (drafted by init)', count: 'rows', unit: 'count', higher_is_better: true, kind: 'flow' }];
+  const dimensions: Record<string, unknown>[] = [];
+  let keyColumn: string | undefined;
+  for (const c of input.columns) {
+    if (c.name === time?.name || timeParts.has(c.name)) continue;
+    const name = catalogNameOf(c.name);
+    if (personal(c)) {
+      dimensions.push({ name: unique(name), label: labelOf(c.name), also_called: [], column: c.name, personal_data: true });
+      notes.push(`personal data (never shown or added up): ${c.name}`);
+      continue;
+    }
+    const idLike = ID_WORDS.test(name) || (c.values === input.rows && input.rows > 100 && c.family !== 'number');
+    if (idLike) {
+      if (!keyColumn && c.values === c.nonNull && c.values === input.rows) keyColumn = c.name;
+      else metrics.push({ name: unique(`distinct_${name}`), label: `Distinct ${labelOf(c.name).toLowerCase()}`, also_called: [], count_distinct: columnExpr(c.name), unit: 'count', higher_is_better: true, kind: 'flow' });
+      continue;
+    }
+    if (c.family === 'boolean') {
+      metrics.push({ name: unique(`${name}_rate`), label: `${labelOf(c.name)} rate`, also_called: [], rate: { when: { column: c.name, is: true } }, unit: 'percent', higher_is_better: true, kind: 'ratio' });
+      continue;
+    }
+    if (c.family === 'number') {
+      // Whole numbers with a handful of values (a weekday, a category code) are a breakdown, not an amount.
+      if (c.values > 0 && c.values <= 7 && input.rows > 50) {
+        dimensions.push({ name: unique(name), label: labelOf(c.name), also_called: [], column: c.name });
+        continue;
+      }
+      const level = LEVEL_WORDS.test(name);
+      metrics.push(
+        level
+          ? { name: unique(name), label: labelOf(c.name), also_called: [], average: columnExpr(c.name), unit: 'number', higher_is_better: true, kind: 'level' }
+          : { name: unique(name), label: labelOf(c.name), also_called: [], sum: columnExpr(c.name), unit: 'number', higher_is_better: true, kind: 'flow' },
+      );
+      continue;
+    }
+    if (c.family === 'text' && c.values > 0 && c.values <= DIMENSION_MAX_VALUES && c.values < Math.max(2, input.rows / 2)) {
+      dimensions.push({ name: unique(name), label: labelOf(c.name), also_called: [], column: c.name });
+    }
+  }
+  const dataset: Record<string, unknown> = {
+    name: input.datasetName,
+    label: input.label,
+    source: input.source,
+    ...(input.table ? { table: input.table } : {}),
+    time_column: timeColumn,
+    timezone: 'UTC',
+    ...(keyColumn ? { key_column: keyColumn } : {}),
+    metrics,
+    dimensions,
+  };
+  notes.push(`metrics: ${metrics.map((m) => `${String(m.name)} (${String(m.kind)})`).join(', ')}`);
+  notes.push(`dimensions: ${dimensions.map((d) => String(d.name)).join(', ') || 'none'}`);
+  return { config: { version: 1, datasets: [dataset] }, notes };
+}

@@ -1,0 +1,81 @@
+// `threadcount check` and serve's start-up on broken configs over vega-datasets' co2-concentration.csv:
+// a missing column and a wrong type each give one message naming the file, the line and the key,
+// exit 2, and serve refuses to start (no conversation is ever opened).
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { tmpdir } from 'node:os';
+import { dirname, join } from 'node:path';
+import { afterEach, describe, expect, it, vi } from 'vitest';
+import { main } from '../../cli/main.js';
+
+const csv = join(dirname(dirname(createRequire(import.meta.url).resolve('vega-datasets'))), 'data', 'co2-concentration.csv');
+afterEach(() => vi.restoreAllMocks());
+
+function configWith(metric: string): { file: string; text: string } {
+  const dir = mkdtempSync(join(tmpdir(), 'tc-check-'));
+  const file = join(dir, 'co2.yaml');
+  const text = `version: 1
+datasets:
+  - name: co2
+    label: CO2
+    source: { kind: csv, path: "${csv}" }
+    time_column: Date
+    timezone: UTC
+    metrics:
+      - name: readings
+        label: Readings
+        count: rows
+        unit: count
+        higher_is_better: true
+${metric}`;
+  writeFileSync(file, text);
+  return { file, text };
+}
+
+async function run(args: string[]): Promise<{ code: number; out: string; err: string }> {
+  let out = '';
+  let err = '';
+  vi.spyOn(process.stdout, 'write').mockImplementation((s) => ((out += String(s)), true));
+  vi.spyOn(process.stderr, 'write').mockImplementation((s) => ((err += String(s)), true));
+  const code = await main(args);
+  vi.restoreAllMocks();
+  return { code, out, err };
+}
+
+const lineOf = (text: string, needle: string) => text.split('\n').findIndex((l) => l.includes(needle)) + 1;
+
+describe('threadcount check on broken configs', () => {
+  it('names a missing column by file, line and key, with the names the table has; serve refuses it', async () => {
+    const { file, text } = configWith('      - { name: co3, label: CO3, average: CO3, unit: number, higher_is_better: false, kind: level }\n');
+    const r = await run(['check', '--config', file]);
+    expect(r.code).toBe(2);
+    const problems = r.out.split('\n').filter((l) => l.startsWith('problem: '));
+    expect(problems).toEqual([`problem: ${file}:${lineOf(text, 'average: CO3')}: datasets[0].metrics[1].average: column CO3 is missing from the table co2 (it has Date, CO2, adjusted CO2)`]);
+    const s = await run(['serve', '--config', file]);
+    expect(s.code).toBe(2);
+    expect(s.err).toContain(`${file}:${lineOf(text, 'average: CO3')}: datasets[0].metrics[1].average: column CO3 is missing`);
+  });
+
+  it('names a column of the wrong type', async () => {
+    const { file, text } = configWith('      - { name: dated, label: Dated, sum: Date, unit: number, higher_is_better: false }\n');
+    const r = await run(['check', '--config', file]);
+    expect(r.code).toBe(2);
+    expect(r.out).toContain(`problem: ${file}:${lineOf(text, 'sum: Date')}: datasets[0].metrics[1].sum: column Date is DATE, but this needs a number`);
+  });
+
+  it('names an expression that does not run on the table (text added to a number)', async () => {
+    const { file, text } = configWith(`      - { name: odd, label: Odd, sum: "CO2 + lower('x')", unit: number, higher_is_better: false }\n`);
+    const r = await run(['check', '--config', file]);
+    expect(r.code).toBe(2);
+    expect(r.out).toMatch(new RegExp(`problem: ${file.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}:${lineOf(text, 'sum: "CO2')}: datasets\\[0\\]\\.metrics\\[1\\]\\.sum: the expression CO2 \\+ lower\\('x'\\) does not run on the table`));
+  });
+
+  it('prints rows, dates, stamps and kinds for a good config', async () => {
+    const { file } = configWith('      - { name: co2, label: CO2, average: CO2, unit: number, higher_is_better: false, kind: level }\n');
+    const r = await run(['check', '--config', file]);
+    expect(r.code).toBe(0);
+    // The file holds Mauna Loa monthly means from March 1958 (NOAA, via vega-datasets).
+    expect(r.out).toMatch(/dataset co2: [\d,]+ rows, 1958-03-01 to \d{4}-\d{2}-01, stamped monthly/);
+    expect(r.out).toMatch(/co2: level, average of CO2/);
+  });
+});
