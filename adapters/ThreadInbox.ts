@@ -1,12 +1,12 @@
-// Hands incoming messages to the bot one at a time per thread, in arrival order, without making
-// the platform wait: deliver() returns at once. Threads run side by side; a failure is logged
-// and does not block the thread's next message.
+// Hands incoming messages to the bot without making the platform wait: deliver() returns at
+// once. The bot serialises each thread's work itself (in the order messages are handed to it),
+// so the inbox only starts the handling, logs a failure, and knows what is still in flight.
 import type { IncomingMessage } from '../bot/port.js';
 
 export type MessageHandler = (msg: IncomingMessage) => Promise<void>;
 
 export class ThreadInbox {
-  private readonly tails = new Map<string, Promise<void>>();
+  private readonly inFlight = new Set<Promise<void>>();
 
   constructor(
     private readonly handler: MessageHandler,
@@ -14,18 +14,23 @@ export class ThreadInbox {
   ) {}
 
   readonly deliver = (msg: IncomingMessage): void => {
-    const before = this.tails.get(msg.threadId) ?? Promise.resolve();
-    const tail = before
-      .then(() => this.handler(msg))
+    // Called now, not after a microtask: the handler takes the message's place in its thread's queue in arrival order.
+    let handling: Promise<void>;
+    try {
+      handling = this.handler(msg);
+    } catch (err) {
+      handling = Promise.reject(err);
+    }
+    const done = handling
       .catch((err: unknown) => this.onError(err, msg))
       .finally(() => {
-        if (this.tails.get(msg.threadId) === tail) this.tails.delete(msg.threadId);
+        this.inFlight.delete(done);
       });
-    this.tails.set(msg.threadId, tail);
+    this.inFlight.add(done);
   };
 
   /** Resolves when every message delivered so far has been handled. */
   async idle(): Promise<void> {
-    while (this.tails.size > 0) await Promise.all([...this.tails.values()]);
+    while (this.inFlight.size > 0) await Promise.all([...this.inFlight]);
   }
 }

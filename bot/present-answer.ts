@@ -10,7 +10,7 @@ import { sqlForReaders } from '../analysis/sql/render-sql.js';
 import { tableToCsv } from '../analysis/table-csv.js';
 import type { Answer, Audience } from '../analysis/types.js';
 import type { Workspace } from '../analysis/workspace.js';
-import type { AnswerPresenter, SummaryPresenter } from './Bot.js';
+import type { AnswerPresenter, SummaryPresenter } from './presenters.js';
 import type { OutgoingFile } from './port.js';
 
 export function presentContext(ws: Workspace, audience: Audience): PresentContext {

@@ -8,7 +8,7 @@ import type { Brief } from './brief.js';
 import { readablePart, requestWasCut } from './intake.js';
 import type { Plan } from './plan.js';
 import type { Prompt } from './prompts.js';
-import type { ThreadState } from './thread-state.js';
+import type { RunningState, ThreadState } from './thread-state.js';
 import { SourceError } from '../analysis/sources/data-source.js';
 import { CatalogError } from '../analysis/catalog.js';
 
@@ -136,10 +136,8 @@ function problemText(err: unknown): string {
       : `an unexpected error (${err instanceof Error ? err.message : String(err)}).`;
 }
 
-export function stillRunning(state: ThreadState): string {
-  const run = state.run;
-  const total = state.plan?.items.length ?? 0;
-  return `Still working on it (${run?.posted.length ?? 0} of ${total} done); answers will appear here. Say "cancel" to stop.`;
+export function stillRunning(state: RunningState): string {
+  return `Still working on it (${state.run.posted.length} of ${state.plan.items.length} done); answers will appear here. Say "cancel" to stop.`;
 }
 
 export function finished(): string {
@@ -177,7 +175,7 @@ export function statusText(states: ThreadState[], locale: string): string {
     cancelled: 'cancelled',
   };
   const lines = states.slice(-10).map((s) => {
-    const done = s.stage === 'running' ? ` (${s.run?.posted.length ?? 0} of ${s.plan?.items.length ?? 0})` : '';
+    const done = s.stage === 'running' ? ` (${s.run.posted.length} of ${s.plan.items.length})` : '';
     const due = s.brief.deadline && s.brief.deadline !== 'none' ? `, due ${formatPeriod(s.brief.deadline, 'day', locale)}` : '';
     return `- "${clip(s.brief.requestText, 70)}": ${stage[s.stage]}${done}${due}`;
   });

@@ -1,10 +1,10 @@
-// Everything the bot remembers about one thread, as plain data so a store can persist it.
+// Everything the bot remembers about one thread, as plain data so a store can persist it, and
+// the store's interface.
 import type { Brief } from './brief.js';
 import type { Plan } from './plan.js';
 import type { Prompt } from './prompts.js';
 import type { Takeaway } from '../analysis/present/presenter.js';
-
-export type Stage = 'clarifying' | 'planning' | 'running' | 'done' | 'cancelled';
+import type { OutgoingPost } from './port.js';
 
 export interface RunProgress {
   /** 1 for the first run; "rerun" starts the next, whose posts get fresh keys. */
@@ -15,27 +15,106 @@ export interface RunProgress {
   failures: number;
 }
 
-export interface ThreadState {
+/** A post the conversation decided to make, kept with the state until it is known to be posted. */
+export interface OutboxPost {
+  key: string;
+  /** Conversation posts carry no files. */
+  post: Omit<OutgoingPost, 'key' | 'files'>;
+}
+
+/** What every thread has, whatever its stage. */
+export interface ThreadCommon {
   threadId: string;
   requester: string;
   /** The dataset the thread uses, chosen when it started (absent in states from before there were several: the first). */
   dataset?: string;
   /** The channel key the request came from ("local", "slack:C0123", ...). */
   channel?: string;
-  stage: Stage;
   brief: Brief;
-  /** The prompt waiting for an answer while clarifying. */
-  prompt?: Prompt;
-  plan?: Plan;
-  run?: RunProgress;
   /** Counts posts so every post gets a fresh, stable key. */
   turn: number;
+  /**
+   * The posts of the last step, committed with the state: a process that stops after the commit
+   * and before posting them posts them after its restart (each key once).
+   */
+  outbox?: OutboxPost[];
   /** When the bot last asked the requester something (ISO), for reminders. */
   waitingSince?: string;
   /** The turn at which a reminder was last sent, so each wait is reminded once. */
   remindedAtTurn?: number;
   deadlineWarned?: boolean;
   updatedAt: string;
+}
+
+/** Asking a clarifying question: `prompt` waits for its answer. */
+export interface ClarifyingState extends ThreadCommon {
+  stage: 'clarifying';
+  prompt: Prompt;
+}
+
+/** The plan is proposed and waits for "go", an edit or "cancel". */
+export interface PlanningState extends ThreadCommon {
+  stage: 'planning';
+  plan: Plan;
+}
+
+/** The agreed plan runs; `run` says how far it got. */
+export interface RunningState extends ThreadCommon {
+  stage: 'running';
+  plan: Plan;
+  run: RunProgress;
+}
+
+export interface DoneState extends ThreadCommon {
+  stage: 'done';
+  plan: Plan;
+  run: RunProgress;
+}
+
+/** Cancelled at any point: the plan and the run are there when it got that far. */
+export interface CancelledState extends ThreadCommon {
+  stage: 'cancelled';
+  plan?: Plan;
+  run?: RunProgress;
+}
+
+/**
+ * Everything the bot remembers about one thread, keyed by stage. A new stage is one more member
+ * here (and its label in replies.statusText); `enterStage` builds it from any other.
+ */
+export type ThreadState = ClarifyingState | PlanningState | RunningState | DoneState | CancelledState;
+export type Stage = ThreadState['stage'];
+export type StateAt<S extends Stage> = Extract<ThreadState, { stage: S }>;
+
+// Every field of ThreadCommon, so a stage change keeps them all and drops the old stage's own
+// (adding a common field without listing it here is a type error).
+const COMMON_FIELDS = {
+  threadId: true,
+  requester: true,
+  dataset: true,
+  channel: true,
+  brief: true,
+  turn: true,
+  outbox: true,
+  waitingSince: true,
+  remindedAtTurn: true,
+  deadlineWarned: true,
+  updatedAt: true,
+} satisfies Record<keyof ThreadCommon, true>;
+
+/** The fields every stage shares, without the stage's own. */
+export function commonOf(state: ThreadCommon): ThreadCommon {
+  const out: Record<string, unknown> = {};
+  for (const key of Object.keys(COMMON_FIELDS)) {
+    const value = (state as unknown as Record<string, unknown>)[key];
+    if (value !== undefined) out[key] = value;
+  }
+  return out as unknown as ThreadCommon;
+}
+
+/** The thread moved to another stage: its common fields kept, the old stage's own fields dropped. */
+export function enterStage<S extends ThreadState>(from: ThreadCommon, stage: Omit<S, keyof ThreadCommon>): S {
+  return { ...commonOf(from), ...stage } as S;
 }
 
 export const AUDIT_KINDS = ['request', 'message', 'sql', 'post', 'denied', 'run'] as const;
@@ -76,6 +155,12 @@ export interface KeyedPost {
   audit: AuditEntry[];
 }
 
+/** What one step of a thread changed. */
+export interface ThreadStep {
+  audit: AuditEntry[];
+  state?: ThreadState;
+}
+
 /** Where threads and post keys are kept; the embedded store is a DuckDB file, the shared one PostgreSQL. */
 export interface StateStore {
   get(threadId: string): Promise<ThreadState | undefined>;
@@ -93,6 +178,8 @@ export interface StateStore {
   postOnce(post: KeyedPost, send: (session?: SqlSession) => Promise<string>): Promise<string>;
   /** Runs `work` while no other process works on the thread (one-process stores need no lock). */
   withThreadLock<T>(threadId: string, work: () => Promise<T>): Promise<T>;
+  /** A step of a thread, written together: its audit entries (in order), then its state if given. */
+  commit(step: ThreadStep): Promise<void>;
   /** Appends to the audit log (never rewritten). */
   appendAudit(entry: AuditEntry): Promise<void>;
   /** The audit log in the order it was written. */

@@ -6,7 +6,7 @@
 import { mkdirSync } from 'node:fs';
 import { dirname } from 'node:path';
 import { DuckDBConnection, DuckDBInstance, type DuckDBPreparedStatement, type DuckDBValue } from '@duckdb/node-api';
-import type { AuditEntry, AuditFilter, AuditKind, KeyedPost, Stage, StateStore, ThreadState } from '../thread-state.js';
+import type { AuditEntry, AuditFilter, AuditKind, KeyedPost, Stage, StateStore, ThreadState, ThreadStep } from '../thread-state.js';
 import { sendThenRecord } from './post-once.js';
 
 interface QueuedWork {
@@ -80,10 +80,25 @@ export class DuckDbStateStore implements StateStore {
     }
   }
 
+  /** One caller's work; in a transaction of its own when the file is writable, so it is all or nothing. */
   private async runAlone(item: QueuedWork): Promise<void> {
+    if (!this.groupCommit) {
+      try {
+        item.resolve(await item.work());
+      } catch (err) {
+        item.reject(err);
+      }
+      return;
+    }
+    const auditSeq = this.auditSeq;
     try {
-      item.resolve(await item.work());
+      await this.connection.run('BEGIN TRANSACTION');
+      const result = await item.work();
+      await this.connection.run('COMMIT');
+      item.resolve(result);
     } catch (err) {
+      await this.connection.run('ROLLBACK').catch(() => undefined);
+      this.auditSeq = auditSeq;
       item.reject(err);
     }
   }
@@ -139,12 +154,23 @@ export class DuckDbStateStore implements StateStore {
   }
 
   async put(state: ThreadState): Promise<void> {
-    // An update, else an insert: DuckDB's INSERT OR REPLACE costs about three times either. The
-    // state is written as it was when put was called.
-    const row = [state.threadId, state.requester, state.stage, JSON.stringify(state), state.updatedAt];
+    // The state is written as it was when put was called.
+    const row = stateRow(state);
+    return this.serial(() => this.writeState(row));
+  }
+
+  /** An update, else an insert: DuckDB's INSERT OR REPLACE costs about three times either. */
+  private async writeState(row: DuckDBValue[]): Promise<void> {
+    const updated = await this.execute('UPDATE threads SET requester = $2, stage = $3, state = $4, updated_at = $5 WHERE thread_id = $1', row);
+    if (updated === 0) await this.execute('INSERT INTO threads VALUES ($1, $2, $3, $4, $5)', row);
+  }
+
+  commit(step: ThreadStep): Promise<void> {
+    const row = step.state ? stateRow(step.state) : undefined;
+    const entries = step.audit.map((e) => structuredClone(e));
     return this.serial(async () => {
-      const updated = await this.execute('UPDATE threads SET requester = $2, stage = $3, state = $4, updated_at = $5 WHERE thread_id = $1', row);
-      if (updated === 0) await this.execute('INSERT INTO threads VALUES ($1, $2, $3, $4, $5)', row);
+      for (const entry of entries) await this.insertAudit(entry);
+      if (row) await this.writeState(row);
     });
   }
 
@@ -175,19 +201,21 @@ export class DuckDbStateStore implements StateStore {
   }
 
   appendAudit(entry: AuditEntry): Promise<void> {
-    return this.serial(async () => {
-      const seq = this.auditSeq + 1;
-      await this.execute('INSERT INTO audit VALUES ($1, $2, $3, $4, $5, $6, $7)', [
-        seq,
-        entry.at,
-        entry.threadId,
-        entry.requester,
-        entry.channel,
-        entry.kind,
-        JSON.stringify(entry.detail),
-      ]);
-      this.auditSeq = seq;
-    });
+    return this.serial(() => this.insertAudit(entry));
+  }
+
+  private async insertAudit(entry: AuditEntry): Promise<void> {
+    const seq = this.auditSeq + 1;
+    await this.execute('INSERT INTO audit VALUES ($1, $2, $3, $4, $5, $6, $7)', [
+      seq,
+      entry.at,
+      entry.threadId,
+      entry.requester,
+      entry.channel,
+      entry.kind,
+      JSON.stringify(entry.detail),
+    ]);
+    this.auditSeq = seq;
   }
 
   listAudit(filter: AuditFilter = {}): Promise<AuditEntry[]> {
@@ -233,4 +261,8 @@ export class DuckDbStateStore implements StateStore {
     this.connection.closeSync();
     this.instance.closeSync();
   }
+}
+
+function stateRow(state: ThreadState): DuckDBValue[] {
+  return [state.threadId, state.requester, state.stage, JSON.stringify(state), state.updatedAt];
 }

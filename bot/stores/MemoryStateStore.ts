@@ -1,5 +1,5 @@
 // The in-process store: for one-shot runs and tests where nothing needs to survive a restart.
-import type { AuditEntry, AuditFilter, KeyedPost, Stage, StateStore, ThreadState } from '../thread-state.js';
+import type { AuditEntry, AuditFilter, KeyedPost, Stage, StateStore, ThreadState, ThreadStep } from '../thread-state.js';
 import { sendThenRecord } from './post-once.js';
 import { auditMatches } from './audit-filter.js';
 
@@ -33,6 +33,11 @@ export class MemoryStateStore implements StateStore {
   }
   async listAudit(filter: AuditFilter = {}): Promise<AuditEntry[]> {
     return this.audit.filter((e) => auditMatches(e, filter)).map((e) => structuredClone(e));
+  }
+
+  async commit(step: ThreadStep): Promise<void> {
+    for (const entry of step.audit) this.audit.push(structuredClone(entry));
+    if (step.state) this.states.set(step.state.threadId, structuredClone(step.state));
   }
 
   postOnce(post: KeyedPost, send: () => Promise<string>): Promise<string> {

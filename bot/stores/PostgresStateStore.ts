@@ -2,7 +2,7 @@
 // (replicas) work on the same conversations. A thread is worked on by one process at a time
 // (an advisory lock keyed by its id), and a post and its key commit in one transaction.
 import pg from 'pg';
-import type { AuditEntry, AuditFilter, AuditKind, KeyedPost, SqlSession, Stage, StateStore, ThreadState } from '../thread-state.js';
+import type { AuditEntry, AuditFilter, AuditKind, KeyedPost, SqlSession, Stage, StateStore, ThreadState, ThreadStep } from '../thread-state.js';
 import { inTransaction } from './pg-transaction.js';
 import { migrateStateSchema, STATE_LOCKS } from './postgres-state-schema.js';
 
@@ -53,7 +53,11 @@ export class PostgresStateStore implements StateStore {
   }
 
   async put(state: ThreadState): Promise<void> {
-    await this.pool.query(
+    await this.upsertState(this.pool, state);
+  }
+
+  private async upsertState(db: pg.Pool | pg.PoolClient, state: ThreadState): Promise<void> {
+    await db.query(
       `INSERT INTO ${this.table('threads')} (thread_id, requester, stage, state, updated_at) VALUES ($1, $2, $3, $4, $5)
        ON CONFLICT (thread_id) DO UPDATE SET requester = EXCLUDED.requester, stage = EXCLUDED.stage, state = EXCLUDED.state, updated_at = EXCLUDED.updated_at`,
       [state.threadId, state.requester, state.stage, JSON.stringify(state), state.updatedAt],
@@ -80,6 +84,14 @@ export class PostgresStateStore implements StateStore {
       `INSERT INTO ${this.table('posts')} (post_key, thread_id, ref) VALUES ($1, $2, $3) ON CONFLICT (post_key) DO UPDATE SET ref = EXCLUDED.ref`,
       [key, threadId, ref],
     );
+  }
+
+  async commit(step: ThreadStep): Promise<void> {
+    if (!step.state && step.audit.length <= 1) return step.audit[0] && this.appendAudit(step.audit[0]);
+    await inTransaction(this.pool, async (_session, client) => {
+      for (const entry of step.audit) await this.insertAudit(client, entry);
+      if (step.state) await this.upsertState(client, step.state);
+    });
   }
 
   async appendAudit(entry: AuditEntry): Promise<void> {

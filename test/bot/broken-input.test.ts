@@ -13,6 +13,7 @@ import { loadConfig, type LoadedConfig } from '../../config/load.js';
 import { demoFixture } from '../helpers/demo-fixture.js';
 import { copyDuckDbTableToPostgres, describeWithPostgres, dropSchema, onPostgres, uniqueName, withClient } from '../helpers/postgres.js';
 import { RecordingPort } from '../helpers/recording-port.js';
+import { inStage } from '../helpers/thread-stage.js';
 
 const URL_ENV = 'TC_BROKEN_INPUT_URL';
 const now = new Date('2025-06-20T09:00:00Z');
@@ -95,7 +96,7 @@ describeWithPostgres('broken data gives clear replies and keeps the request for 
     await say(REQUEST);
     for (let i = 0; i < 8 && !port.inThread(threadId).at(-1)!.text.startsWith('Here is the plan'); i++) await say('ok');
     expect(port.inThread(threadId).at(-1)!.text).toMatch(/^Here is the plan/);
-    const items = (await store.get(threadId))!.plan!.items.length;
+    const items = inStage(await store.get(threadId), 'planning').plan.items.length;
     expect(items).toBeGreaterThan(1);
     const texts = (from = 0) => port.inThread(threadId).slice(from).map((m) => m.text);
     return { bot, store, port, say, items, texts };
@@ -112,10 +113,9 @@ describeWithPostgres('broken data gives clear replies and keeps the request for 
       expect(f).not.toMatch(/undefined|\bat .*\.ts:\d+|Error:/);
     }
     expect(posted.some((x) => x.startsWith('*Summary*'))).toBe(true);
-    const state = (await t.store.get(threadId))!;
-    expect(state.stage).toBe('done');
-    expect(state.plan!.items).toHaveLength(t.items);
-    expect(state.run!.failures).toBe(t.items);
+    const state = inStage(await t.store.get(threadId), 'done');
+    expect(state.plan.items).toHaveLength(t.items);
+    expect(state.run.failures).toBe(t.items);
     // The audit log keeps the SQL each failed sub-question tried, marked as failed.
     const tried = (await t.store.listAudit({ threadId })).filter((e) => e.kind === 'sql' && e.detail.failed === true);
     expect(new Set(tried.map((e) => e.detail.subQuestion)).size).toBe(t.items);
@@ -129,9 +129,9 @@ describeWithPostgres('broken data gives clear replies and keeps the request for 
     const posted = t.texts(from);
     expect(posted.filter((x) => / I could not answer this one: /.test(x))).toEqual([]);
     expect(posted.filter((x) => /^\*\d+\. /.test(x))).toHaveLength(t.items);
-    const state = (await t.store.get(threadId))!;
-    expect(state.run!.number).toBe(2);
-    expect(state.run!.failures).toBe(0);
+    const state = inStage(await t.store.get(threadId), 'done');
+    expect(state.run.number).toBe(2);
+    expect(state.run.failures).toBe(0);
   }
 
   it('a table dropped after the plan: "the table is missing", then rerun once it is back', async () => {

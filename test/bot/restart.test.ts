@@ -17,6 +17,7 @@ import type { StateStore } from '../../bot/thread-state.js';
 import { demoFixture } from '../helpers/demo-fixture.js';
 import { describeWithPostgres, uniqueName, withClient } from '../helpers/postgres.js';
 import { RecordingPort } from '../helpers/recording-port.js';
+import { inStage } from '../helpers/thread-stage.js';
 
 let ws: Workspace;
 const now = new Date('2026-12-01T09:00:00Z');
@@ -82,7 +83,7 @@ describe(`restarts (${kindName})`, () => {
     let p = await start(open, port);
     await say(p.bot, 'How have revenue, bookings and passengers moved over time?');
     for (const answer of ['analysts', 'none', 'monthly', 'all']) await say(p.bot, answer);
-    const planned = (await p.store.get('t2'))!.plan!.items.length;
+    const planned = inStage(await p.store.get('t2'), 'planning').plan.items.length;
     expect(planned).toBeGreaterThan(1);
     // The platform fails on the second answer: the process "dies" with one answer posted.
     port.failOnPost = port.messages.length + 3; // progress, answer 1, then answer 2 fails
@@ -170,7 +171,7 @@ describe(`restarts (${kindName})`, () => {
     };
     await say('How have revenue, bookings and passengers moved over time?');
     for (const answer of ['managers', 'none', 'monthly', 'all']) await say(answer);
-    const planned = (await store.get('t6'))!.plan!.items.length;
+    const planned = inStage(await store.get('t6'), 'planning').plan.items.length;
     await say('go');
     const thread = port.inThread('t6');
     expect(thread.filter((m) => m.key.includes(':answer:')).length).toBeLessThan(planned);

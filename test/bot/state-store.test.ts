@@ -16,15 +16,17 @@ import { describeWithPostgres, uniqueName, withClient } from '../helpers/postgre
 
 const entry = auditEntry;
 
-const state = (threadId: string, stage: ThreadState['stage'], requester: string, updatedAt: string): ThreadState => ({
-  threadId,
-  requester,
-  channel: 'local',
-  stage,
-  brief: { requestText: `request of ${threadId}`, metrics: ['revenue'], dimensions: [] } as unknown as ThreadState['brief'],
-  turn: 3,
-  updatedAt,
-});
+// Only the common fields: the stores keep a state as they are given it, whatever its stage.
+const state = (threadId: string, stage: ThreadState['stage'], requester: string, updatedAt: string): ThreadState =>
+  ({
+    threadId,
+    requester,
+    channel: 'local',
+    stage,
+    brief: { requestText: `request of ${threadId}`, metrics: ['revenue'], dimensions: [] } as unknown as ThreadState['brief'],
+    turn: 3,
+    updatedAt,
+  }) as ThreadState;
 
 const keyed = (key: string, threadId = 't1'): KeyedPost => ({
   key,

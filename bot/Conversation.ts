@@ -1,0 +1,346 @@
+// The conversation: a message in a thread moves it from one stage to the next (request ->
+// clarifying prompts -> plan -> agreed run) and says so in the thread. Each handler gets the
+// thread in its own stage and returns the thread's state after the message; what it says and
+// logs goes through the Step, written together at the end. A new stage is a member of the
+// ThreadState union and a case in `respond`.
+import { refreshCoverage } from '../analysis/workspace.js';
+import type { DatasetConfig } from '../config/schema.js';
+import { channelKey, chooseDataset } from './access.js';
+import { whoOf, type Who } from './AuditLog.js';
+import type { Brief } from './brief.js';
+import { readCommand, type Command } from './commands.js';
+import { catalogTerms, readRequest } from './intake.js';
+import { applyPlanEdit, buildPlan, readPlanEdit, type PlanEdit } from './plan.js';
+import type { IncomingMessage } from './port.js';
+import { datasetPrompt, nextPrompt, personalDataRefusal, readAnswer, readDatasetAnswer, readWindow, type Prompt } from './prompts.js';
+import * as replies from './replies.js';
+import { Step, type StepContext } from './Step.js';
+import { findTerms } from './term-match.js';
+import type { ThreadDatasets } from './ThreadDatasets.js';
+import {
+  commonOf,
+  enterStage,
+  type CancelledState,
+  type ClarifyingState,
+  type PlanningState,
+  type RunningState,
+  type RunProgress,
+  type StateStore,
+  type ThreadCommon,
+  type ThreadState,
+} from './thread-state.js';
+
+export interface WaitTimings {
+  remindAfterMs: number;
+  deadlineWarningMs: number;
+}
+
+export interface ConversationDeps {
+  store: Pick<StateStore, 'get' | 'list' | 'listAudit'>;
+  datasets: ThreadDatasets;
+  steps: StepContext;
+  now: () => Date;
+  /** Starts (or queues) an agreed run; called once the thread's running state is written. */
+  launch: (state: RunningState) => Promise<void>;
+}
+
+export class Conversation {
+  constructor(private readonly deps: ConversationDeps) {}
+
+  /** Handles one message; the caller serialises the thread's work. */
+  async handle(msg: IncomingMessage): Promise<void> {
+    // Delivered twice (a sweep after a replica died, racing a late first delivery): handled once.
+    if (msg.messageId !== undefined && (await this.received(msg.threadId, msg.messageId))) return;
+    const channel = channelKey(msg);
+    const sender: Who = { threadId: msg.threadId, requester: msg.author, channel };
+    const state = await this.deps.store.get(msg.threadId);
+    const step = new Step(this.deps.steps, state ? whoOf(state) : sender, state);
+    await step.commit(await this.respond(step, msg, state, sender));
+  }
+
+  /** Reminds a requester who has not answered, and warns when a deadline nears with nothing agreed. */
+  async checkWaiting(threadId: string, now: number, t: WaitTimings): Promise<void> {
+    const state = await this.deps.store.get(threadId);
+    if (!state || (state.stage !== 'clarifying' && state.stage !== 'planning')) return;
+    const step = new Step(this.deps.steps, whoOf(state), state);
+    let said = false;
+    if (state.waitingSince && state.remindedAtTurn !== state.turn && now - Date.parse(state.waitingSince) >= t.remindAfterMs) {
+      state.remindedAtTurn = state.turn + 1;
+      step.say('reminder', replies.reminder(state));
+      said = true;
+    }
+    const deadline = state.brief.deadline;
+    if (deadline && deadline !== 'none' && !state.deadlineWarned) {
+      const due = Date.parse(`${deadline}T23:59:59Z`);
+      if (due - now <= t.deadlineWarningMs) {
+        state.deadlineWarned = true;
+        step.say('deadline', replies.deadlineNear(deadline, this.deps.datasets.locale));
+        said = true;
+      }
+    }
+    if (said) await step.commit(state);
+  }
+
+  /** Whether the audit log shows this message as received in the thread (its first write when handled). */
+  private async received(threadId: string, messageId: string): Promise<boolean> {
+    return (await this.deps.store.listAudit({ threadId })).some((e) => (e.kind === 'request' || e.kind === 'message') && e.detail.messageId === messageId);
+  }
+
+  private async respond(step: Step, msg: IncomingMessage, state: ThreadState | undefined, sender: Who): Promise<ThreadState | undefined> {
+    const command = readCommand(msg.text);
+    if (!state && !command) return this.startThread(step, msg, sender);
+    step.log('message', { text: msg.text, ...messageIdOf(msg) }, sender);
+    // The access rules may have changed since the thread started: they are checked on every message.
+    const refusal = state ? this.deps.datasets.refusal(state, sender.channel) : null;
+    if (state && refusal) {
+      step.log('denied', { reason: refusal.reason, text: msg.text, ...(state.dataset ? { dataset: state.dataset } : {}) }, sender);
+      step.say('note', refusal.text);
+      return state;
+    }
+    if (command) return this.onCommand(step, command, msg, state, sender);
+    if (!state) return undefined;
+    switch (state.stage) {
+      case 'clarifying':
+        return state.prompt.topic === 'dataset' ? this.onDatasetAnswer(step, state, msg.text, sender) : this.onAnswer(step, state, msg.text);
+      case 'planning':
+        return this.onPlanReply(step, state, msg.text);
+      case 'running':
+        step.say('note', replies.stillRunning(state));
+        return state;
+      case 'done':
+      case 'cancelled':
+        step.say('note', replies.finished());
+        return state;
+    }
+  }
+
+  private async onCommand(step: Step, command: Command, msg: IncomingMessage, state: ThreadState | undefined, sender: Who): Promise<ThreadState | undefined> {
+    // In a request's thread a command's reply is one of its posts; elsewhere a one-off reply.
+    const answer = (name: string, text: string) => (state ? step.say(name, text) : step.reply(name, text));
+    switch (command) {
+      case 'help':
+        answer('help', replies.helpText());
+        return state;
+      case 'catalog': {
+        if (state) {
+          step.say('catalog', replies.catalogText(this.deps.datasets.of(state).dataset));
+          return state;
+        }
+        const allowed = this.deps.datasets.allowedFor(sender.channel);
+        if (allowed.length === 0) {
+          step.log('denied', { reason: 'no_dataset', text: msg.text }, sender);
+          step.reply('denied', replies.noDatasetForChannel());
+          return state;
+        }
+        step.reply('catalog', allowed.map((ws) => replies.catalogText(ws.dataset)).join('\n\n'));
+        return state;
+      }
+      case 'status':
+        answer('status', replies.statusText(await this.deps.store.list({ requester: msg.author }), this.deps.datasets.locale));
+        return state;
+      case 'cancel':
+        if (!state || state.stage === 'done' || state.stage === 'cancelled') {
+          step.reply('cancel', replies.nothingToCancel());
+          return state;
+        }
+        step.say('cancelled', replies.cancelled());
+        return cancelledFrom(state);
+      case 'rerun': {
+        if (!state || (state.stage !== 'done' && state.stage !== 'cancelled') || !state.plan) {
+          step.reply('rerun', replies.nothingToRerun());
+          return state;
+        }
+        // The data may still be down or changed: say so in the thread and keep the plan for later.
+        try {
+          await refreshCoverage(this.deps.datasets.of(state));
+        } catch (err) {
+          step.say('note', replies.rerunFailed(err));
+          return state;
+        }
+        return this.agreed(step, state, state.plan, (state.run?.number ?? 0) + 1);
+      }
+    }
+  }
+
+  /**
+   * A new request: the channel's datasets decide where it may run. One allowed dataset is used
+   * at once; of several, the one whose catalog the request names best, else the requester is asked.
+   */
+  private startThread(step: Step, msg: IncomingMessage, sender: Who): ThreadState | undefined {
+    const allowed = this.deps.datasets.allowedFor(sender.channel);
+    if (allowed.length === 0) {
+      step.log('request', { text: msg.text, ...messageIdOf(msg) });
+      step.log('denied', { reason: 'no_dataset', text: msg.text });
+      step.reply('denied', replies.noDatasetForChannel());
+      return undefined;
+    }
+    const choice = chooseDataset(msg.text, allowed.map((ws) => ws.dataset));
+    const first = choice.kind === 'chosen' ? choice.dataset : choice.ranked[0]!;
+    const thread: ThreadCommon = {
+      threadId: msg.threadId,
+      requester: msg.author,
+      channel: sender.channel,
+      // Read against the likeliest catalog for now; read again once the dataset is chosen.
+      brief: this.readBrief(msg.text, first),
+      turn: 0,
+      updatedAt: this.stamp(),
+      ...(choice.kind === 'chosen' ? { dataset: first.name } : {}),
+    };
+    step.log('request', { text: msg.text, ...messageIdOf(msg), ...(thread.dataset ? { dataset: thread.dataset } : {}) });
+    if (choice.kind === 'ask') return this.ask(step, thread, datasetPrompt(choice.ranked, choice.matched));
+    return this.begin(step, thread, allowed.length > 1);
+  }
+
+  private readBrief(text: string, ds: DatasetConfig): Brief {
+    return readRequest(text, ds, { now: this.deps.now(), timeZone: ds.timezone });
+  }
+
+  /** The dataset is known: acknowledge, refuse any personal data named, then ask or plan. */
+  private begin(step: Step, thread: ThreadCommon, nameDataset: boolean): ThreadState {
+    const ds = this.deps.datasets.of(thread).dataset;
+    const ack = replies.acknowledgement(thread.brief, ds);
+    step.say('ack', nameDataset ? `${replies.datasetChosen(ds.label)} ${ack}` : ack);
+    const personal = thread.brief.personalData ?? [];
+    if (personal.length > 0) {
+      // Labels, not catalog names: a personal dimension's name is often its column's.
+      const labels = personal.map((n) => ds.dimensions.find((d) => d.name === n)?.label ?? n);
+      step.log('denied', { reason: 'personal_data', dimensions: labels, text: thread.brief.requestText });
+      step.say('note', `${personalDataRefusal(ds, personal)} I'll answer the rest of the request without it.`);
+    }
+    return this.advance(step, thread);
+  }
+
+  /** Asks the next prompt, or proposes the plan when nothing is left to ask. */
+  private advance(step: Step, thread: ThreadCommon): ThreadState {
+    const ws = this.deps.datasets.of(thread);
+    const prompt = nextPrompt(thread.brief, this.deps.datasets.promptContext(ws, this.deps.now()));
+    if (prompt) return this.ask(step, thread, prompt);
+    thread.waitingSince = this.stamp();
+    const plan = buildPlan(thread.brief, ws.dataset, ws.coverage);
+    step.say('plan', replies.planText(plan, ws.dataset, this.deps.datasets.locale), { quickReplies: replies.PLAN_REPLIES });
+    return enterStage<PlanningState>(thread, { stage: 'planning', plan });
+  }
+
+  /** Posts a prompt and waits for its answer. */
+  private ask(step: Step, thread: ThreadCommon, prompt: Prompt): ClarifyingState {
+    thread.waitingSince = this.stamp();
+    step.say('prompt', replies.promptText(prompt), { prompt });
+    return enterStage<ClarifyingState>(thread, { stage: 'clarifying', prompt });
+  }
+
+  /** An answer that could not be read: the prompt again, saying why. */
+  private askAgain(step: Step, state: ClarifyingState, message: string): ClarifyingState {
+    state.waitingSince = this.stamp();
+    step.say('prompt', `${message}\n\n${replies.promptText(state.prompt)}`, { prompt: state.prompt, promptLead: message });
+    return state;
+  }
+
+  private onDatasetAnswer(step: Step, state: ClarifyingState, text: string, sender: Who): ThreadState {
+    const reading = readDatasetAnswer(state.prompt, byOptionNumber(state.prompt, text));
+    if (!reading.ok) return this.askAgain(step, state, reading.message);
+    // The options were the channel's datasets when it was asked; the rules may have changed since.
+    const ws = this.deps.datasets.allowedFor(sender.channel).find((w) => w.dataset.name === reading.dataset);
+    if (!ws) {
+      const label = this.deps.datasets.workspaces.get(reading.dataset)?.dataset.label ?? reading.dataset;
+      step.log('denied', { reason: 'dataset_not_allowed', text, dataset: reading.dataset }, sender);
+      step.say('note', replies.datasetNoLongerOffered(label));
+      return state;
+    }
+    const thread = commonOf(state);
+    thread.dataset = reading.dataset;
+    thread.brief = this.readBrief(state.brief.requestText, ws.dataset);
+    return this.begin(step, thread, true);
+  }
+
+  private onAnswer(step: Step, state: ClarifyingState, text: string): ThreadState {
+    const ctx = this.deps.datasets.promptContext(this.deps.datasets.of(state), this.deps.now());
+    const reading = readAnswer(state.prompt, byOptionNumber(state.prompt, text), state.brief, ctx);
+    if (!reading.ok) return this.askAgain(step, state, reading.message);
+    state.brief = reading.brief;
+    return this.advance(step, state);
+  }
+
+  private onPlanReply(step: Step, state: PlanningState, text: string): ThreadState {
+    const edit = readPlanEdit(text);
+    if (edit.type === 'agree') {
+      if (state.plan.items.length === 0) {
+        step.say('note', replies.emptyPlan());
+        return state;
+      }
+      return this.agreed(step, state, state.plan, 1);
+    }
+    if (edit.type === 'cancel') {
+      step.say('cancelled', replies.cancelled());
+      return cancelledFrom(state);
+    }
+    state.waitingSince = this.stamp();
+    if (edit.type === 'unknown') {
+      step.say('note', replies.planEditHelp());
+      return state;
+    }
+    const resolved = this.resolvePlanEdit(edit, state);
+    if ('refusal' in resolved) {
+      step.say('note', resolved.refusal);
+      return state;
+    }
+    const { plan, error } = applyPlanEdit(state.plan, resolved.edit);
+    if (error) {
+      step.say('note', error);
+      return state;
+    }
+    state.plan = plan;
+    step.say('plan', replies.planText(plan, this.deps.datasets.of(state).dataset, this.deps.datasets.locale), { quickReplies: replies.PLAN_REPLIES });
+    return state;
+  }
+
+  /** A plan agreed (or rerun): the thread runs it once its state is written. */
+  private agreed(step: Step, thread: ThreadCommon, plan: PlanningState['plan'], number: number): RunningState {
+    const run: RunProgress = { number, posted: [], takeaways: [], failures: 0 };
+    const running = enterStage<RunningState>(thread, { stage: 'running', plan, run });
+    delete running.waitingSince;
+    step.then(() => this.deps.launch(running));
+    return running;
+  }
+
+  /** Matches an edit's words to the catalog and the data's coverage. */
+  private resolvePlanEdit(edit: PlanEdit, state: PlanningState): { edit: PlanEdit } | { refusal: string } {
+    const ws = this.deps.datasets.of(state);
+    if (edit.type === 'add_breakdown') {
+      const hit = findTerms(edit.phrase, catalogTerms(ws.dataset)).find((h) => h.term.kind === 'dimension' || h.term.kind === 'personal');
+      if (hit?.term.kind === 'personal') return { refusal: personalDataRefusal(ws.dataset, [hit.term.name]) };
+      return { edit: { ...edit, ...(hit ? { dimension: hit.term.name } : {}) } };
+    }
+    if (edit.type === 'window') {
+      const w = readWindow(edit.phrase, ws.coverage);
+      if ('error' in w) return { refusal: w.error };
+      return { edit: { ...edit, window: w.window } };
+    }
+    return { edit };
+  }
+
+  private stamp(): string {
+    return this.deps.now().toISOString();
+  }
+}
+
+/** Cancelled from any stage; the plan and run are kept, so "rerun" can start it again. */
+function cancelledFrom(state: ThreadState): CancelledState {
+  const cancelled = enterStage<CancelledState>(state, {
+    stage: 'cancelled',
+    ...('plan' in state && state.plan ? { plan: state.plan } : {}),
+    ...('run' in state && state.run ? { run: state.run } : {}),
+  });
+  delete cancelled.waitingSince;
+  return cancelled;
+}
+
+function messageIdOf(msg: IncomingMessage): { messageId?: string } {
+  return msg.messageId !== undefined ? { messageId: msg.messageId } : {};
+}
+
+/** "2" picks the second option; anything else is read as typed. */
+function byOptionNumber(prompt: Prompt, text: string): string {
+  const n = /^\s*(\d{1,2})\s*[.)]?\s*$/.exec(text);
+  const option = n ? prompt.options[Number(n[1]) - 1] : undefined;
+  return option ? option.value : text;
+}

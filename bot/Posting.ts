@@ -1,0 +1,53 @@
+// Posting in a thread: every post has a stable key, and a key posted before (by this process,
+// another replica, or before a restart) is not posted again. Each post is audited with its key,
+// together with any entries that belong with it.
+import type { AuditLog, Who } from './AuditLog.js';
+import type { OutgoingPost, ThreadPort } from './port.js';
+import type { AuditEntry, SqlSession, StateStore } from './thread-state.js';
+
+/** How many keys this process remembers having posted, to skip asking the store about them. */
+const REMEMBERED_KEYS = 10_000;
+
+export class Posting {
+  /** Tells apart the keys of one-off replies made in the same millisecond. */
+  private oneOff = 0;
+  private readonly posted = new Set<string>();
+
+  constructor(
+    private readonly port: ThreadPort,
+    private readonly store: Pick<StateStore, 'postOnce' | 'postRef'>,
+    private readonly audit: AuditLog,
+    /** Names this process, so two replicas' one-off keys never meet. */
+    private readonly replica?: string,
+  ) {}
+
+  /** Posts under `key` unless a post is recorded under it; returns the platform's reference either way. */
+  async postOnce(threadId: string, key: string, post: Omit<OutgoingPost, 'key'>, who: Who, alsoLog: AuditEntry[] = []): Promise<string> {
+    const entry = this.audit.entry(who, 'post', { key, text: post.text, files: (post.files ?? []).map((f) => f.name) });
+    const ref = await this.store.postOnce({ key, threadId, audit: [entry, ...alsoLog] }, (session?: SqlSession) => this.port.post(threadId, { key, ...post }, session));
+    this.remember(key);
+    return ref;
+  }
+
+  /** Whether a post is recorded under `key` (this process's memory first, then the store). */
+  async isPosted(key: string): Promise<boolean> {
+    return this.posted.has(key) || (await this.store.postRef(key)) !== undefined;
+  }
+
+  /** Replaces the text of an earlier post (progress in place). */
+  update(threadId: string, ref: string, text: string): Promise<void> {
+    return this.port.update(threadId, ref, text);
+  }
+
+  /** A key of its own for a reply outside a request's state (a command in a new thread, a refusal). */
+  oneOffKey(threadId: string, name: string, turn: number): string {
+    // The replica's name keeps two processes answering in the same millisecond apart.
+    const origin = this.replica ? `${this.replica}:` : '';
+    return `${threadId}:${name}:${turn}:${origin}${Date.now()}:${this.oneOff++}`;
+  }
+
+  private remember(key: string): void {
+    this.posted.add(key);
+    if (this.posted.size > REMEMBERED_KEYS) this.posted.delete(this.posted.values().next().value!);
+  }
+}
