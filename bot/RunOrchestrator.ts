@@ -148,7 +148,7 @@ export class RunOrchestrator {
             );
     }
     try {
-      await this.postInOrder(started, ws, audience, who, pending, ran, progressRef);
+      await this.postInOrder(started, ws, audience, who, pending, ran, progressRef, quality);
     } finally {
       // The run's scope closes after this returns: no job may still be using it.
       stopped = true;
@@ -184,6 +184,7 @@ export class RunOrchestrator {
     pending: (Promise<JobResult> | null)[],
     ran: NamedQuery[][],
     progressRef: string,
+    quality: QualityReport | undefined,
   ): Promise<void> {
     const { threadId, plan, run } = started;
     const phases = this.deps.phases;
@@ -231,6 +232,9 @@ export class RunOrchestrator {
         charts,
         requestText: state.brief.requestText,
         ...(phases ? { timings: phases } : {}),
+        items: plan.items,
+        ...(quality ? { quality } : {}),
+        now: this.deps.now(),
       });
       // The run's end is logged with its summary post: both or neither, once.
       await this.deps.posting.postOnce(threadId, runKey(started, 'summary'), summary, who, [this.deps.audit.runEntry(who, 'finished', run.number)]);

@@ -5,6 +5,7 @@ import { renderDigest } from '../analysis/charts/render-digest.js';
 import { formatPeriod } from '../analysis/format.js';
 import { timePhase } from '../analysis/phase-timings.js';
 import type { PresentContext } from '../analysis/present/index.js';
+import { answerCaveats, threadNotes } from '../analysis/quality/thread-notes.js';
 import { definitionOf } from '../analysis/sub-questions/registry.js';
 import { sqlForReaders } from '../analysis/sql/render-sql.js';
 import { tableToCsv } from '../analysis/table-csv.js';
@@ -20,7 +21,9 @@ export function presentContext(ws: Workspace, audience: Audience): PresentContex
 
 export const presentAnswer: AnswerPresenter = async (answer, { workspace, audience, position, timings }) => {
   const sq = answer.subQuestion;
-  const presented = timePhase(timings, 'read', () => definitionOf(sq).present(answer, presentContext(workspace, audience)));
+  // Notes about the data as a whole are said once, in the summary; each post keeps those that change its answer.
+  const own = { ...answer, caveats: answerCaveats(answer.caveats, workspace.coverage) };
+  const presented = timePhase(timings, 'read', () => definitionOf(sq).present(own, presentContext(workspace, audience)));
   const stem = `${String(position).padStart(2, '0')}-${sq.template}-${sq.metrics.join('-')}`;
   const files: OutgoingFile[] = [];
   const spec = presented.chart;
@@ -36,7 +39,7 @@ export const presentAnswer: AnswerPresenter = async (answer, { workspace, audien
   return { post: { text, files }, takeaway: presented.takeaway, chart, ...(spec ? { chartSpec: spec } : {}) };
 };
 
-export const presentSummary: SummaryPresenter = async (takeaways, { workspace, failures, charts, requestText, timings }) => {
+export const presentSummary: SummaryPresenter = async (takeaways, { workspace, failures, charts, requestText, timings, items, quality, now }) => {
   // The most important few, told in the order they were asked.
   const top = [...takeaways]
     .sort((a, b) => b.importance - a.importance || a.position - b.position)
@@ -45,7 +48,9 @@ export const presentSummary: SummaryPresenter = async (takeaways, { workspace, f
   const lines = top.map((t) => `- ${t.text} (see ${t.position})`);
   const failed = failures > 0 ? `\n${failures} ${failures === 1 ? 'question' : 'questions'} could not be answered; see the messages above.` : '';
   if (lines.length === 0) return { text: `*Summary*\nNo question could be answered; see the messages above.` };
-  const text = `*Summary*\n${lines.join('\n')}${failed}\nEach answer above has its table (CSV) and the SQL that produced it attached; the digest below puts the key charts and takeaways on one page for forwarding. These are descriptive figures from ${workspace.dataset.label}; comparisons between groups are observational, and your organisation's data-governance rules apply before sharing further.`;
+  const notes = threadNotes(items ?? [], quality, workspace, now ?? new Date(), workspace.config.charts.locale);
+  const about = notes.length ? `\n*About the data* (applies to every answer above)\n${notes.map((n) => `- ${n}`).join('\n')}` : '';
+  const text = `*Summary*\n${lines.join('\n')}${failed}${about}\nEach answer above has its table (CSV) and the SQL that produced it attached; the digest below puts the key charts and takeaways on one page for forwarding. These are descriptive figures from ${workspace.dataset.label}; comparisons between groups are observational, and your organisation's data-governance rules apply before sharing further.`;
   const withCharts = top.filter((t) => charts.has(t.position)).slice(0, 4);
   const asOf = workspace.coverage.lastDate ? formatPeriod(workspace.coverage.lastDate, 'day', workspace.config.charts.locale) : 'n/a';
   const digest = await timePhase(timings, 'render', () => renderDigest({

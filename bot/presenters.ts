@@ -3,7 +3,8 @@
 import type { PhaseTimings } from '../analysis/phase-timings.js';
 import type { ChartSpec } from '../analysis/charts/spec.js';
 import type { Takeaway } from '../analysis/present/presenter.js';
-import type { Answer, Audience } from '../analysis/types.js';
+import type { QualityReport } from '../analysis/quality/quality-checks.js';
+import type { Answer, Audience, SubQuestion } from '../analysis/types.js';
 import type { Workspace } from '../analysis/workspace.js';
 import type { OutgoingPost } from './port.js';
 
@@ -31,5 +32,16 @@ export type AnswerPresenter = (
 /** Writes the closing summary from the takeaways of the answers. */
 export type SummaryPresenter = (
   takeaways: (Takeaway & { position: number })[],
-  ctx: { workspace: Workspace; audience: Audience; failures: number; charts: Map<number, DigestChart>; requestText: string; timings?: PhaseTimings },
+  ctx: {
+    workspace: Workspace;
+    audience: Audience;
+    failures: number;
+    charts: Map<number, DigestChart>;
+    requestText: string;
+    timings?: PhaseTimings;
+    /** The plan's sub-questions and the run's data-quality report, for the thread-wide notes said once. */
+    items?: SubQuestion[];
+    quality?: QualityReport;
+    now?: Date;
+  },
 ) => Promise<Omit<OutgoingPost, 'key'>>;

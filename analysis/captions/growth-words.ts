@@ -6,6 +6,7 @@ import { formatChange, formatPeriod, formatValue, valueFormatOf, type ValueForma
 import { addDays, addMonths } from '../periods.js';
 import type { Answer, Audience, Caveat, Grain } from '../types.js';
 import { caveatNote } from './caveat-text.js';
+import { nounFor, pluralNoun } from './grammar.js';
 
 /** Changes smaller than this read as "held flat" in plain words (a rule of thumb; the number is still given). */
 export const FLAT_BAND = 0.01;
@@ -97,21 +98,15 @@ export function dimensionLabel(dimensionName: string, dataset: DatasetConfig): s
   return dataset.dimensions.find((d) => d.name === dimensionName)?.label ?? dimensionName;
 }
 
-export function capitalise(text: string): string {
-  return text.length === 0 ? text : text[0]!.toUpperCase() + text.slice(1);
-}
+import { capitalise } from './grammar.js';
+export { capitalise };
 
-/** A label in mid-sentence: "Revenue" → "revenue", but a name such as "SkerryPass holder" keeps its capitals. */
-export function lower(label: string): string {
-  const firstWord = label.split(' ')[0] ?? '';
-  if (label.length === 0 || /[A-Z]/.test(firstWord.slice(1))) return label;
-  return label[0]!.toLowerCase() + label.slice(1);
-}
+import { inSentence as lower } from './grammar.js';
+export { lower };
 
-/** A plain English plural of a dimension label: "route" → "routes", "fare class" → "fare classes". */
+/** A noun for n of it (n null: the plural). */
 export function plural(noun: string, n: number | null = 2): string {
-  if (n === 1) return noun;
-  return /(s|x|ch|sh)$/.test(noun) ? `${noun}es` : `${noun}s`;
+  return n === null ? pluralNoun(noun) : nounFor(n, noun);
 }
 
 /**

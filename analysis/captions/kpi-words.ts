@@ -4,6 +4,7 @@ import type { DatasetConfig, Dimension, Metric, MetricDefinition } from '../../c
 import type { KpiDelta, SegmentKey } from '../findings/kpi.js';
 import { formatChange, formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import type { Grain } from '../types.js';
+import { pluralNoun } from './grammar.js';
 
 // Changes smaller than this are "level": the KPI card uses the same cut, so words and arrows agree.
 export const FLAT_RELATIVE = 0.0005;
@@ -158,10 +159,7 @@ export function segmentLabel(key: SegmentKey, dim: Dimension | undefined, ds: Da
 
 /** "routes", "fare classes", "booking channels". */
 export function pluralOf(label: string): string {
-  const l = label.toLowerCase();
-  if (/(s|x|ch|sh)$/.test(l)) return `${l}es`;
-  if (/[^aeiou]y$/.test(l)) return `${l.slice(0, -1)}ies`;
-  return `${l}s`;
+  return pluralNoun(label.toLowerCase());
 }
 
 /** 1 → "1st", 2 → "2nd", 11 → "11th". */
@@ -172,7 +170,5 @@ export function ordinal(n: number): string {
   return `${formatValue(k, { unit: 'count', locale: 'en' })}${suffix}`;
 }
 
-/** Lower-cases the first letter so a label reads inside a sentence ("revenue"), keeping acronyms. */
-export function inSentence(label: string): string {
-  return /^[A-Z][a-z]/.test(label) ? label[0]!.toLowerCase() + label.slice(1) : label;
-}
+import { inSentence } from './grammar.js';
+export { inSentence };

@@ -3,15 +3,13 @@ import type { Dimension } from '../../config/schema.js';
 import type { PerformanceSegmentFinding } from '../findings/performance.js';
 import { formatValue } from '../format.js';
 import type { Finding } from '../types.js';
+import { pluralNoun } from './grammar.js';
 import { capitalise, type PerformanceWords } from './performance-compare.js';
 import { chancePhrase, countText, findAll, findOne, groupLabel, inText, periodLead, quantityLabel, type WordsContext, isAre } from './performance-words.js';
 
 /** "Route" → "routes", "Fare class" → "fare classes", "Category" → "categories". */
 export function pluralLabel(label: string): string {
-  const lower = inText(label);
-  if (/(s|x|z|ch|sh)$/i.test(lower)) return `${lower}es`;
-  if (/[^aeiou]y$/i.test(lower)) return `${lower.slice(0, -1)}ies`;
-  return `${lower}s`;
+  return pluralNoun(inText(label));
 }
 
 export function segmentName(f: PerformanceSegmentFinding): string {

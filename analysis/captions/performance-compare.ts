@@ -120,6 +120,5 @@ function relative(a: number, b: number): number | null {
   return b === 0 ? null : (a - b) / b;
 }
 
-export function capitalise(text: string): string {
-  return text.charAt(0).toUpperCase() + text.slice(1);
-}
+import { capitalise } from './grammar.js';
+export { capitalise };

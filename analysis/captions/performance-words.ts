@@ -41,11 +41,8 @@ export function groupLabel(group: ComparisonGroup, role: GroupRole): string {
 }
 
 /** The label in running text: "pass holders" (lower case first letter unless it looks like a name). */
-export function inText(label: string): string {
-  const first = label.split(/\s+/)[0] ?? '';
-  // Lower-case a plain capitalised word ("Pass holders"); keep names and acronyms ("SkerryPass", "VIP").
-  return /^[A-Z][a-z]+$/.test(first) ? label.charAt(0).toLowerCase() + label.slice(1) : label;
-}
+import { inSentence as inText } from './grammar.js';
+export { inText };
 
 /** What one row is called, from a plain count metric's label ("bookings"), else "rows". */
 /** "is" or "are" to agree with a metric label: "Revenue is", "Bookings are". */

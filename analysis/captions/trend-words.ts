@@ -11,9 +11,8 @@ export function countWord(n: number, locale: string): string {
   return Number.isInteger(n) && n >= 0 && n < NUMBER_WORDS.length ? NUMBER_WORDS[n]! : formatValue(n, { unit: 'count', locale });
 }
 
-export function capitalise(text: string): string {
-  return text.length === 0 ? text : text[0]!.toUpperCase() + text.slice(1);
-}
+import { capitalise } from './grammar.js';
+export { capitalise };
 
 /** A p-value with three decimals, or "< 0.001" below that. */
 export function formatP(p: number, locale: string): string {

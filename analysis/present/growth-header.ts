@@ -1,5 +1,6 @@
 // Chart subtitles for the growth family's two-span charts: the metric's definition, the two spans
 // compared and any filters, so a forwarded image still says what it compares.
+import { filterSubtitleParts } from '../captions/scope-words.js';
 import type { Metric } from '../../config/schema.js';
 import { spanText } from '../captions/growth-words.js';
 import type { GrowthSpan } from '../findings/growth.js';
@@ -9,9 +10,6 @@ import type { PresentContext } from './presenter.js';
 
 export function twoSpanSubtitle(answer: Answer, metric: Metric, current: GrowthSpan, prior: GrowthSpan, ctx: PresentContext): string {
   const parts = [`${metric.label}: ${metricDefinition(metric)}`, `${spanText(current, ctx.locale)} against ${spanText(prior, ctx.locale)}`];
-  for (const f of answer.subQuestion.filters) {
-    const dim = ctx.dataset.dimensions.find((d) => d.name === f.dimension);
-    parts.push(`${dim?.label ?? f.dimension}: ${f.values.join(', ')}`);
-  }
+  parts.push(...filterSubtitleParts(answer.subQuestion.filters, ctx.dataset));
   return parts.join(' · ');
 }

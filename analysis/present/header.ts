@@ -1,6 +1,7 @@
 // The subtitle and footer every chart carries, so an image forwarded alone still says what it
 // shows: the metric's definition, the period, the grain and filters; the source, the data's
 // date and the caveat flags.
+import { filterSubtitleParts } from '../captions/scope-words.js';
 import type { Metric } from '../../config/schema.js';
 import { caveatFlag, caveatNote } from '../captions/caveat-text.js';
 import { formatPeriod } from '../format.js';
@@ -23,10 +24,7 @@ export function chartSubtitle(answer: Answer, metric: Metric, ctx: PresentContex
   const to = formatPeriod(addDays(sq.window.end, -1), 'day', ctx.locale);
   const parts = [`${metric.label}: ${metricDefinition(metric)}`, `${from} to ${to}`];
   if (opts.grain !== false) parts.push(GRAIN_ADJECTIVE[sq.grain]);
-  for (const f of sq.filters) {
-    const dim = ctx.dataset.dimensions.find((d) => d.name === f.dimension);
-    parts.push(`${dim?.label ?? f.dimension}: ${f.values.join(', ')}`);
-  }
+  parts.push(...filterSubtitleParts(sq.filters, ctx.dataset));
   return parts.join(' · ');
 }
 

@@ -1,6 +1,7 @@
 // Chart header pieces the KPI presenters share: a subtitle naming the metric's definition, the
 // latest complete period and what it is compared with (not the window, which a snapshot does
 // not show), and the shared footer.
+import { filterSubtitleParts } from '../captions/scope-words.js';
 import type { Metric } from '../../config/schema.js';
 import { metricMeaning, periodName } from '../captions/kpi-words.js';
 import type { Answer, Caveat, Grain } from '../types.js';
@@ -9,10 +10,7 @@ import type { PresentContext } from './presenter.js';
 
 export function kpiSubtitle(answer: Answer, metric: Metric, ctx: PresentContext, what: string): string {
   const parts = [`${metric.label}: ${metricMeaning(metric, ctx.dataset)}`, what];
-  for (const f of answer.subQuestion.filters) {
-    const dim = ctx.dataset.dimensions.find((d) => d.name === f.dimension);
-    parts.push(`${dim?.label ?? f.dimension}: ${f.values.join(', ')}`);
-  }
+  parts.push(...filterSubtitleParts(answer.subQuestion.filters, ctx.dataset));
   return parts.join(' · ');
 }
 

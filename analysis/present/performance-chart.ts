@@ -1,5 +1,6 @@
 // Chart header and notes shared by the performance presenters: the subtitle names the compared
 // quantity, the window actually compared and the two groups, so a forwarded image stands alone.
+import { filterSubtitleParts } from '../captions/scope-words.js';
 import type { ComparisonGroup, Metric } from '../../config/schema.js';
 import { caveatNotes, chartFooter, metricDefinition } from './header.js';
 import type { PresentContext } from './presenter.js';
@@ -19,10 +20,7 @@ export function performanceHeader(
     `${opts.group.label}: ${opts.group.members_label} vs ${opts.group.others_label}`,
     ...(opts.extra ?? []),
   ];
-  for (const f of answer.subQuestion.filters) {
-    const dim = ctx.dataset.dimensions.find((d) => d.name === f.dimension);
-    parts.push(`${dim?.label ?? f.dimension}: ${f.values.join(', ')}`);
-  }
+  parts.push(...filterSubtitleParts(answer.subQuestion.filters, ctx.dataset));
   return { title: opts.title, subtitle: parts.join(' · '), footer: chartFooter(answer, ctx), ...ctx.chart };
 }
 

@@ -35,6 +35,5 @@ export function planWords(sq: SubQuestion, ds: DatasetConfig, locale: string): P
   };
 }
 
-export function capitalise(s: string): string {
-  return s.charAt(0).toUpperCase() + s.slice(1);
-}
+import { capitalise } from '../captions/grammar.js';
+export { capitalise };

@@ -1,6 +1,8 @@
 // Every sub-question, registered once. Its name, kind, lens, rollup needs, SQL, findings,
 // caption, chart and plan description come from its own declaration (one file beside this one);
 // the rest of the program looks them up here and nowhere else.
+import { scopedCaption, scopedTitle } from '../captions/scope-words.js';
+import type { Presenter } from '../present/presenter.js';
 import type { SubQuestion } from '../types.js';
 import type { SubQuestionDefinition } from './definition.js';
 import { growthDriversSubQuestion } from './growth-drivers.js';
@@ -47,9 +49,24 @@ const REGISTERED = [
 /** The name of a registered sub-question (its template). */
 export type TemplateName = (typeof REGISTERED)[number]['name'];
 
-export const SUB_QUESTIONS: { readonly [N in TemplateName]: SubQuestionDefinition<N> } = Object.fromEntries(REGISTERED.map((d) => [d.name, d])) as {
-  [N in TemplateName]: SubQuestionDefinition<N>;
-};
+/**
+ * Every presenter's words carry the sub-question's filters: its title and takeaway name them and
+ * its caption opens with them, so an answer about one segment never reads as one about all.
+ */
+function scoped(present: Presenter): Presenter {
+  return (answer, ctx) => {
+    const p = present(answer, ctx);
+    const filters = answer.subQuestion.filters;
+    if (filters.length === 0) return p;
+    const title = scopedTitle(p.title, filters, ctx.dataset);
+    const takeaway = p.takeaway ? { ...p.takeaway, text: scopedCaption(p.takeaway.text, filters, ctx.dataset) } : null;
+    return { ...p, title, caption: scopedCaption(p.caption, filters, ctx.dataset), takeaway };
+  };
+}
+
+export const SUB_QUESTIONS: { readonly [N in TemplateName]: SubQuestionDefinition<N> } = Object.fromEntries(
+  REGISTERED.map((d) => [d.name, { ...d, present: scoped(d.present) }]),
+) as { [N in TemplateName]: SubQuestionDefinition<N> };
 
 export const TEMPLATE_NAMES: readonly TemplateName[] = REGISTERED.map((d) => d.name);
 

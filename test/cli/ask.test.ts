@@ -104,7 +104,19 @@ describe('threadcount ask on the demo data', () => {
     const fmt = { unit: 'currency' as const, currency: 'EUR', locale: 'en-IE' };
     expect(answer.text).toContain(`peaked in ${formatPeriod(max.period!, 'month', 'en-IE', 'long')} at ${formatValue(Number(max.revenue), fmt, { compact: true })}`);
     expect(answer.text).toContain(`${formatPeriod(min.period!, 'month', 'en-IE', 'long')} at ${formatValue(Number(min.revenue), fmt, { compact: true })}`);
-    expect(answer.text).toMatch(/June 2025 is partial/);
+    // The partial last month is about the data, not this answer: said once, in the summary.
+    expect(answer.text).not.toMatch(/June 2025 is partial/);
+    const summary = thread.posts.find((p) => p.text.startsWith('*Summary*'))!;
+    expect(summary.text).toMatch(/The data ends on 18 June 2025, so June 2025 is partial/);
+  });
+
+  it('says thread-wide data notes once, in the summary, never under each answer', () => {
+    const summary = thread.posts.find((p) => p.text.startsWith('*Summary*'))!;
+    // Planted warts of the demo: repeated booking ids and negative fares.
+    expect(summary.text).toMatch(/repeat a booking_id that should be unique/);
+    for (const post of thread.posts.filter((p) => p !== summary)) {
+      expect(post.text).not.toMatch(/repeat a booking_id|The data ends on|days ago/);
+    }
   });
 
   it('matches monthly totals recomputed from the raw rows, and finds July/August busiest', async () => {

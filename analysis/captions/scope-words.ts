@@ -1,0 +1,36 @@
+// How a sub-question's filters are said: in chart subtitles ("Channel: phone, web"), after a
+// title ("(channel: phone or web)") and at the head of a caption ("Filtered to channel: phone or
+// web."), so an answer about one segment never reads as an answer about all of them.
+import type { DatasetConfig } from '../../config/schema.js';
+import type { SegmentFilter } from '../types.js';
+import { inSentence, listJoin } from './grammar.js';
+
+function dimensionLabel(f: SegmentFilter, ds: DatasetConfig): string {
+  return ds.dimensions.find((d) => d.name === f.dimension)?.label ?? f.dimension;
+}
+
+function valueText(v: string | number | boolean): string {
+  return typeof v === 'string' ? (v.length > 0 ? v : '(blank)') : String(v);
+}
+
+/** One subtitle part per filter: "Channel: phone, web". */
+export function filterSubtitleParts(filters: readonly SegmentFilter[], ds: DatasetConfig): string[] {
+  return filters.map((f) => `${dimensionLabel(f, ds)}: ${f.values.map(valueText).join(', ')}`);
+}
+
+/** "channel: phone or web; route: Mainland–Saltreach" ('' without filters). */
+export function scopeText(filters: readonly SegmentFilter[], ds: DatasetConfig): string {
+  return filters.map((f) => `${inSentence(dimensionLabel(f, ds))}: ${listJoin(f.values.map(valueText), 'or')}`).join('; ');
+}
+
+/** A title with its scope after it; unchanged without filters. */
+export function scopedTitle(title: string, filters: readonly SegmentFilter[], ds: DatasetConfig): string {
+  const scope = scopeText(filters, ds);
+  return scope ? `${title} (${scope})` : title;
+}
+
+/** A caption led by its scope; unchanged without filters. */
+export function scopedCaption(caption: string, filters: readonly SegmentFilter[], ds: DatasetConfig): string {
+  const scope = scopeText(filters, ds);
+  return scope ? `Filtered to ${scope}. ${caption}` : caption;
+}

@@ -1,0 +1,61 @@
+// Notes that hold for a whole thread, said once in its summary rather than under every answer:
+// the data's freshness, repeated keys, negative amounts in rows, and a partial first or last
+// period of the data. Under an answer stays only what changes that answer.
+import type { Coverage } from '../coverage.js';
+import { caveatNote } from '../captions/caveat-text.js';
+import { formatPeriod } from '../format.js';
+import { addDays, nextPeriod, periodStart } from '../periods.js';
+import type { Caveat, SubQuestion } from '../types.js';
+import type { Workspace } from '../workspace.js';
+import { qualityCaveatsFor } from './check-run.js';
+import type { QualityReport } from './quality-checks.js';
+
+/** True when the caveat is about the data as a whole, not about this answer. */
+export function isThreadWide(c: Caveat, coverage: Coverage): boolean {
+  switch (c.code) {
+    case 'stale_data':
+    case 'duplicate_keys':
+      return true;
+    case 'negative_amounts':
+      // Row counts are the data's; negative totals of periods or segments change the answer.
+      return c.data.periods !== true && c.data.segments !== true;
+    case 'partial_period':
+    case 'partial_period_excluded':
+      // Cut by the data's own first or last date, not by the window the answer asked for.
+      return (c.data.coveredTo !== undefined && c.data.coveredTo === coverage.lastDate) || (c.data.coveredFrom !== undefined && c.data.coveredFrom === coverage.firstDate);
+    default:
+      return false;
+  }
+}
+
+/** The caveats an answer's post carries: those that change that answer. */
+export function answerCaveats(caveats: readonly Caveat[], coverage: Coverage): Caveat[] {
+  return caveats.filter((c) => !isThreadWide(c, coverage));
+}
+
+/** The thread's data notes in plain words, each once: quality findings for the columns the plan used, and a partial month at either end. */
+export function threadNotes(items: readonly SubQuestion[], quality: QualityReport | undefined, ws: Workspace, now: Date, locale: string): string[] {
+  const notes: string[] = [];
+  if (quality) {
+    for (const sq of items) {
+      for (const c of qualityCaveatsFor(sq, quality, ws, now)) if (isThreadWide(c, ws.coverage)) notes.push(caveatNote(c, locale));
+    }
+  }
+  notes.push(...partialEnds(ws.coverage, locale));
+  return [...new Set(notes)];
+}
+
+/** "The data ends on 18 June 2025, so June 2025 is partial: ..." for daily data cut inside a month. */
+function partialEnds(coverage: Coverage, locale: string): string[] {
+  const { firstDate, lastDate } = coverage;
+  // Data stamped once a month (or coarser) is whole for every month it has.
+  if (firstDate === null || lastDate === null || (coverage.stamps !== undefined && coverage.stamps !== 'daily' && coverage.stamps !== 'irregular')) return [];
+  const out: string[] = [];
+  const day = (iso: string) => formatPeriod(iso, 'day', locale, 'long');
+  const month = (iso: string) => formatPeriod(iso, 'month', locale, 'long');
+  if (periodStart(firstDate, 'month') !== firstDate) out.push(`The data starts on ${day(firstDate)}, so ${month(firstDate)} is partial.`);
+  if (addDays(nextPeriod(periodStart(lastDate, 'month'), 'month'), -1) !== lastDate) {
+    out.push(`The data ends on ${day(lastDate)}, so ${month(lastDate)} is partial: charts draw it dashed, and highs, lows and growth rates leave it out.`);
+  }
+  return out;
+}
