@@ -4,6 +4,7 @@ import type { CompileContext } from './compile-context.js';
 import { localDateExpr, tableRef } from './compile-context.js';
 import type { DataSource, RunOptions } from './sources/data-source.js';
 import { QueryBuilder } from './sql/query-builder.js';
+import { addDays, nextPeriod, periodStart } from './periods.js';
 import { compileStamps, readStamps, type StampGranularity } from './stamps.js';
 import type { CompiledQuery, ResultTable } from './types.js';
 
@@ -38,4 +39,25 @@ export function readCoverage(table: ResultTable): Coverage {
 export async function readDataCoverage(source: DataSource, ctx: CompileContext, options: RunOptions): Promise<Coverage> {
   const coverage = readCoverage(await source.run(compileCoverage(ctx), options));
   return { ...coverage, stamps: readStamps(await source.run(compileStamps(ctx), options)) };
+}
+
+/**
+ * The day after the last day the data covers (half-open end). Data stamped once a month (or
+ * week, quarter, year) covers the whole of its last stamped period: a series stamped on the 1st
+ * through 1 April is complete for April, not one day of it.
+ */
+export function dataEnd(coverage: Pick<Coverage, 'lastDate' | 'stamps'> & { lastDate: string }): string {
+  const last = coverage.lastDate;
+  switch (coverage.stamps) {
+    case 'weekly':
+      return addDays(last, 7);
+    case 'monthly':
+      return nextPeriod(periodStart(last, 'month'), 'month');
+    case 'quarterly':
+      return nextPeriod(periodStart(last, 'quarter'), 'quarter');
+    case 'yearly':
+      return nextPeriod(periodStart(last, 'year'), 'year');
+    default:
+      return addDays(last, 1);
+  }
 }

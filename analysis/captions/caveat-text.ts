@@ -1,6 +1,7 @@
 // Plain-words notes for caveats, and the short flags a chart footer carries.
 import type { Grain } from '../types.js';
 import { formatPeriod } from '../format.js';
+import { countOf, listJoin } from './grammar.js';
 import type { Caveat } from '../types.js';
 
 /** A caveat field as text; a missing field never prints as "undefined". */
@@ -37,8 +38,12 @@ export function caveatNote(c: Caveat, locale: string): string {
       if (d.periods === true) return `Some periods have a negative total of ${show(d.column)}, so they are left out.`;
       if (d.segments === true) return `Some segments have a negative total, so shares are not meaningful for them.`;
       return `${show(d.count)} rows have a negative ${show(d.column)}.`;
-    case 'outlier':
-      return `${period(d.period, d.grain)} is an outlier.`;
+    case 'outlier': {
+      if (typeof d.count !== 'number') return `${period(d.period, d.grain)} is an outlier.`;
+      const grain = (typeof d.grain === 'string' ? d.grain : 'month') as Grain;
+      const names = String(d.examples ?? '').split(',').filter(Boolean).map((p) => formatPeriod(p, grain, locale, 'long'));
+      return `${countOf(d.count, grain, 'en', grain === 'day' ? 'days' : undefined)} are unusual (modified z-score above 3.5); the ${names.length} most extreme: ${listJoin(names)}.`;
+    }
     case 'stale_data':
       return `The latest data is from ${day(d.lastDate)}, ${show(d.days)} days ago.`;
     case 'small_sample':

@@ -28,9 +28,41 @@ export function isThreadWide(c: Caveat, coverage: Coverage): boolean {
   }
 }
 
-/** The caveats an answer's post carries: those that change that answer. */
+/** The caveats an answer's post carries: those that change that answer, with many unusual periods said as one. */
 export function answerCaveats(caveats: readonly Caveat[], coverage: Coverage): Caveat[] {
-  return caveats.filter((c) => !isThreadWide(c, coverage));
+  return summariseOutliers(caveats.filter((c) => !isThreadWide(c, coverage)));
+}
+
+/** Past this many unusual periods, one note counts them and names the most extreme few. */
+const OUTLIERS_NAMED = 5;
+
+/** One `outlier` caveat per metric for many unusual periods ("235 days are unusual; the five most extreme: ..."), never one per row. */
+export function summariseOutliers(caveats: readonly Caveat[]): Caveat[] {
+  const outliers = caveats.filter((c) => c.code === 'outlier' && c.data.count === undefined);
+  if (outliers.length <= OUTLIERS_NAMED) return [...caveats];
+  const byMetric = new Map<string, Caveat[]>();
+  for (const c of outliers) {
+    const key = String(c.data.metric ?? '');
+    byMetric.set(key, [...(byMetric.get(key) ?? []), c]);
+  }
+  const summaries: Caveat[] = [];
+  for (const [metric, group] of byMetric) {
+    if (group.length <= OUTLIERS_NAMED) {
+      summaries.push(...group);
+      continue;
+    }
+    const extreme = [...group].sort((a, b) => Math.abs(Number(b.data.score ?? 0)) - Math.abs(Number(a.data.score ?? 0)) || String(a.data.period).localeCompare(String(b.data.period)));
+    summaries.push({
+      code: 'outlier',
+      data: {
+        ...(metric ? { metric } : {}),
+        count: group.length,
+        grain: group[0]!.data.grain ?? 'month',
+        examples: extreme.slice(0, OUTLIERS_NAMED).map((c) => String(c.data.period)).join(','),
+      },
+    });
+  }
+  return [...caveats.filter((c) => !outliers.includes(c)), ...summaries];
 }
 
 /** The thread's data notes in plain words, each once: quality findings for the columns the plan used, and a partial month at either end. */

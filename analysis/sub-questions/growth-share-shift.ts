@@ -2,6 +2,7 @@
 import { presentGrowthShareShift } from '../present/growth-share-shift.js';
 import { growthShareShiftTemplate } from '../templates/growth-share-shift.js';
 import { defineSubQuestion } from './definition.js';
+import { longerThanAYear } from './plan-words.js';
 
 export const growthShareShiftSubQuestion = defineSubQuestion({
   name: 'growth_share_shift',
@@ -10,5 +11,8 @@ export const growthShareShiftSubQuestion = defineSubQuestion({
   rollup: {},
   template: growthShareShiftTemplate,
   present: presentGrowthShareShift,
-  describe: (w) => `How each ${w.dim}'s share of ${w.metric} shifted, ${w.span} against a year earlier.`,
+  describe: (w, sq) =>
+    longerThanAYear(sq.window)
+      ? `How each ${w.dim}'s share of ${w.metric} shifted: the last complete year in ${w.span} against the one before.`
+      : `How each ${w.dim}'s share of ${w.metric} shifted, ${w.span} against a year earlier.`,
 });

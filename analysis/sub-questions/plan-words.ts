@@ -2,7 +2,7 @@
 // each sub-question's description is one sentence over them.
 import type { DatasetConfig } from '../../config/schema.js';
 import { formatPeriod } from '../format.js';
-import { addDays } from '../periods.js';
+import { addDays, addMonths } from '../periods.js';
 import type { Grain, SubQuestion } from '../types.js';
 
 export interface PlanWords {
@@ -37,3 +37,8 @@ export function planWords(sq: SubQuestion, ds: DatasetConfig, locale: string): P
 
 import { capitalise } from '../captions/grammar.js';
 export { capitalise };
+
+/** A window a year-earlier comparison would overlap. */
+export function longerThanAYear(w: { start: string; end: string }): boolean {
+  return addMonths(w.start, 12) < w.end;
+}

@@ -5,8 +5,9 @@ import type { DatasetConfig } from '../../config/schema.js';
 import { groupableDimension, metricByName } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
+import { dataEnd } from '../coverage.js';
 import type { GrowthSpan } from '../findings/growth.js';
-import { addDays, addMonths } from '../periods.js';
+import { addDays, addMonths, periodStart } from '../periods.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, DateWindow, ResultTable, SubQuestion } from '../types.js';
 import { complementaryFoldCtes, minGroupSize } from './small-groups.js';
@@ -37,7 +38,26 @@ export function shiftDayByYears(iso: string, years: number): string {
   return shifted.slice(8, 10) === iso.slice(8, 10) ? shifted : addDays(shifted, -Number(shifted.slice(8, 10)));
 }
 
-export function compileWindowComparison(sq: SubQuestion, ctx: CompileContext): CompiledQuery {
+/**
+ * The window a growth comparison uses: never one that overlaps its own year-earlier base. A window
+ * of a year or less is compared with the same dates a year earlier, as asked. A longer one (the
+ * whole history, say) becomes the last complete calendar year against the one before when the
+ * data holds both, else the last 12 complete months against the 12 before; the caption's spans
+ * ("2024 against 2023") say which.
+ */
+export function comparisonWindow(w: DateWindow, coverage: Coverage | undefined): DateWindow {
+  if (addMonths(w.start, 12) >= w.end) return w;
+  const from = coverage?.firstDate ? maxIso(w.start, coverage.firstDate) : w.start;
+  const to = coverage?.lastDate ? minIso(w.end, dataEnd({ ...coverage, lastDate: coverage.lastDate })) : w.end;
+  const yearEnd = periodStart(to, 'year');
+  if (addMonths(yearEnd, -24) >= from) return { start: addMonths(yearEnd, -12), end: yearEnd };
+  const monthEnd = periodStart(to, 'month');
+  if (addMonths(monthEnd, -24) >= from) return { start: addMonths(monthEnd, -12), end: monthEnd };
+  return w;
+}
+
+export function compileWindowComparison(asked: SubQuestion, ctx: CompileContext): CompiledQuery {
+  const sq = { ...asked, window: comparisonWindow(asked.window, ctx.coverage) };
   if (sq.dimension === undefined) throw new Error(`sub-question ${sq.id} (${sq.template}) needs a dimension`);
   const dim = groupableDimension(ctx.dataset, sq.dimension);
   const q = new QueryBuilder(ctx.dialect);
@@ -167,7 +187,8 @@ export interface WindowComparison {
  * data bounds the SQL used: the current span starts no earlier than a year after the data's first
  * day, the prior span ends no later than a year before its last.
  */
-export function readWindowComparison(sq: SubQuestion, table: ResultTable, coverage: Coverage): WindowComparison {
+export function readWindowComparison(asked: SubQuestion, table: ResultTable, coverage: Coverage): WindowComparison {
+  const sq = { ...asked, window: comparisonWindow(asked.window, coverage) };
   const caveats: Caveat[] = [];
   if (table.truncated) caveats.push({ code: 'truncated', data: { rows: table.rows.length } });
   const prior = priorWindow(sq.window);
@@ -192,7 +213,7 @@ export function readWindowComparison(sq: SubQuestion, table: ResultTable, covera
   if (coverage.firstDate !== null && coverage.lastDate !== null) {
     currentSpan = {
       start: maxIso(sq.window.start, shiftDayByYears(coverage.firstDate, 1)),
-      end: minIso(sq.window.end, addDays(coverage.lastDate, 1)),
+      end: minIso(sq.window.end, dataEnd({ ...coverage, lastDate: coverage.lastDate })),
     };
     priorSpan = {
       start: maxIso(prior.start, coverage.firstDate),

@@ -6,6 +6,7 @@ import type { DatasetConfig } from '../../config/schema.js';
 import { isAdditive, metricByName } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
+import { dataEnd } from '../coverage.js';
 import type {
   GrowthCagrFinding,
   GrowthPoint,
@@ -113,7 +114,7 @@ export function readGrowthSeries(
     return { findings: [], caveats: [...caveats, { code: 'no_data', data: { start: sq.window.start, end: sq.window.end } }] };
   }
   const effectiveStart = maxIso(sq.window.start, coverage.firstDate);
-  const effectiveEnd = minIso(sq.window.end, addDays(coverage.lastDate, 1));
+  const effectiveEnd = minIso(sq.window.end, dataEnd({ ...coverage, lastDate: coverage.lastDate }));
   if (effectiveStart >= effectiveEnd) {
     return { findings: [], caveats: [...caveats, { code: 'no_data', data: { start: sq.window.start, end: sq.window.end } }] };
   }

@@ -2,6 +2,7 @@
 // full, the period before it and the same period a year earlier. Pure calendar arithmetic.
 import type { CompileContext } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
+import { dataEnd as coveredEnd } from '../coverage.js';
 import { addDays, addMonths, periodStart, sameIsoWeekLastYear } from '../periods.js';
 import type { DateWindow, Grain } from '../types.js';
 
@@ -65,7 +66,7 @@ export function effectiveSpan(window: DateWindow, coverage: Coverage | undefined
   let { start, end } = window;
   if (coverage?.firstDate && coverage.firstDate > start) start = coverage.firstDate;
   if (coverage?.lastDate) {
-    const dataEnd = addDays(coverage.lastDate, 1);
+    const dataEnd = coveredEnd({ ...coverage, lastDate: coverage.lastDate });
     if (dataEnd < end) end = dataEnd;
   }
   return { start, end };
@@ -126,5 +127,5 @@ export function resolvedLatest(window: DateWindow, grain: Grain, coverage: Cover
  */
 export function coveredInFull(period: string, grain: Grain, coverage: Coverage): boolean {
   if (!coverage.firstDate || !coverage.lastDate) return false;
-  return period >= coverage.firstDate && shiftPeriod(period, grain, 1) <= addDays(coverage.lastDate, 1);
+  return period >= coverage.firstDate && shiftPeriod(period, grain, 1) <= coveredEnd({ ...coverage, lastDate: coverage.lastDate });
 }

@@ -5,6 +5,7 @@
 import type { ComparisonGroup, Metric } from '../../config/schema.js';
 import { type CompileContext, localDateExpr, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
+import { dataEnd } from '../coverage.js';
 import type { GroupRole, PerformanceDidNotApplicableFinding, PerformancePeriodsFinding } from '../findings/performance.js';
 import { addDays, addMonths, nextPeriod, periodsBetween, periodStart } from '../periods.js';
 import { QueryBuilder } from '../sql/query-builder.js';
@@ -85,7 +86,7 @@ export function readBeforeAfter(
   const findings: Finding[] = [];
   const caveats: Caveat[] = [];
   const effStart = coverage.firstDate && coverage.firstDate > sq.window.start ? coverage.firstDate : sq.window.start;
-  const lastEnd = coverage.lastDate ? addDays(coverage.lastDate, 1) : sq.window.start;
+  const lastEnd = coverage.lastDate ? dataEnd({ ...coverage, lastDate: coverage.lastDate }) : sq.window.start;
   const effEnd = lastEnd < sq.window.end ? lastEnd : sq.window.end;
 
   findings.push({

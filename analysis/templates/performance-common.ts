@@ -3,6 +3,7 @@
 import type { ComparisonGroup, DatasetConfig } from '../../config/schema.js';
 import { CatalogError, comparisonGroupByName } from '../catalog.js';
 import type { Coverage } from '../coverage.js';
+import { dataEnd } from '../coverage.js';
 import type { GroupRole, PerformanceNoTestFinding, PerformanceWindowFinding } from '../findings/performance.js';
 import { addDays } from '../periods.js';
 import type { QueryBuilder } from '../sql/query-builder.js';
@@ -65,7 +66,7 @@ export function windowFinding(sq: SubQuestion, group: ComparisonGroup, coverage:
   const { window, clippedToLaunch } = comparisonWindow(sq, group);
   let { start, end } = window;
   if (coverage.firstDate && coverage.firstDate > start) start = coverage.firstDate;
-  if (coverage.lastDate && addDays(coverage.lastDate, 1) < end) end = addDays(coverage.lastDate, 1);
+  if (coverage.lastDate && dataEnd({ ...coverage, lastDate: coverage.lastDate }) < end) end = dataEnd({ ...coverage, lastDate: coverage.lastDate });
   if (start > end) start = end;
   return { type: 'performance_window', group: group.name, start, end, launchDate: group.launch_date ?? null, clippedToLaunch };
 }

@@ -3,6 +3,7 @@
 import { metricByName } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
+import { dataEnd } from '../coverage.js';
 import { addDays, nextPeriod, periodsBetween } from '../periods.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
@@ -46,7 +47,7 @@ export function readSeries(sq: SubQuestion, table: ResultTable, coverage: Covera
     return { findings: [], caveats: [...caveats, { code: 'no_data', data: { start: sq.window.start, end: sq.window.end } }] };
   }
   const effectiveStart = maxIso(sq.window.start, coverage.firstDate);
-  const effectiveEnd = minIso(sq.window.end, addDays(coverage.lastDate, 1));
+  const effectiveEnd = minIso(sq.window.end, dataEnd({ ...coverage, lastDate: coverage.lastDate }));
   const starts = periodsBetween(effectiveStart, effectiveEnd, sq.grain);
   const byPeriod = new Map(table.rows.map((r) => [String(r.period), r]));
 

@@ -1,6 +1,7 @@
 // Small helpers the trend and segment templates share: the window the data actually covers,
 // which of its periods are partial, and the complete points of a series.
 import type { Coverage } from '../coverage.js';
+import { dataEnd as coveredEnd } from '../coverage.js';
 import { addDays, nextPeriod, parseIsoDate, periodsBetween, periodsPerYear } from '../periods.js';
 import { seasonalIndices } from '../stats/index.js';
 import type { DateWindow, Finding, Grain, PeriodPoint, ResultTable } from '../types.js';
@@ -11,7 +12,7 @@ export const EMPTY_TABLE: ResultTable = { columns: [], rows: [], truncated: fals
 export function coveredWindow(window: DateWindow, coverage: Coverage): DateWindow | null {
   if (coverage.firstDate === null || coverage.lastDate === null) return null;
   const start = window.start > coverage.firstDate ? window.start : coverage.firstDate;
-  const dataEnd = addDays(coverage.lastDate, 1);
+  const dataEnd = coveredEnd({ ...coverage, lastDate: coverage.lastDate });
   const end = window.end < dataEnd ? window.end : dataEnd;
   return start < end ? { start, end } : null;
 }

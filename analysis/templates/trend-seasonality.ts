@@ -3,6 +3,7 @@
 // full years each held, plus the day-of-week pattern from a second grouped query.
 import { isAdditive, metricByName } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
+import type { Coverage } from '../coverage.js';
 import type { CalendarMonthPattern, TrendSeasonalityFinding, WeekdayValue } from '../findings/segments.js';
 import { parseIsoDate } from '../periods.js';
 import { seasonalIndices } from '../stats/index.js';
@@ -17,10 +18,17 @@ const PERIOD = 12;
 export const trendSeasonalityTemplate: Template = {
   compile: (sq, ctx) => [
     { name: 'monthly', ...compileSeries(monthlyQuestion(sq), ctx) },
-    { name: 'weekday', ...compileWeekday(sq, ctx) },
+    // Data stamped once a week or coarser has no day of the week to compare.
+    ...(stampedDaily(ctx.coverage) ? [{ name: 'weekday', ...compileWeekday(sq, ctx) }] : []),
   ],
   read: (sq, tables, ctx) => readSeasonality(sq, tables.monthly ?? EMPTY_TABLE, tables.weekday ?? EMPTY_TABLE, ctx),
 };
+
+/** True unless the data is known to be stamped once a week or less often. */
+export function stampedDaily(coverage: Coverage | undefined): boolean {
+  const s = coverage?.stamps;
+  return s === undefined || s === 'daily' || s === 'irregular';
+}
 
 /** Seasonality is read from months whatever grain the sub-question asked for. */
 function monthlyQuestion(sq: SubQuestion): SubQuestion {
@@ -63,7 +71,7 @@ export function readSeasonality(sq: SubQuestion, monthly: ResultTable, weekday: 
   }
 
   const covered = coveredWindow(sq.window, ctx.coverage);
-  if (covered && weekday.rows.length > 0) {
+  if (covered && weekday.rows.length > 0 && stampedDaily(ctx.coverage)) {
     const additive = isAdditive(metric);
     findings.push({ type: 'trend_weekday', metric: metricName, additive, days: weekdayValues(weekday, covered, additive) });
   }
