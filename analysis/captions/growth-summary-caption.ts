@@ -1,4 +1,5 @@
 // Title and caption for a growth_summary answer: the range, centre and spread of the growth rates.
+import { countOf, possessive } from './grammar.js';
 import type { Metric } from '../../config/schema.js';
 import type { GrowthRateSummaryFinding } from '../findings/growth.js';
 import { formatChange } from '../format.js';
@@ -24,8 +25,8 @@ export function growthSummaryWords(metric: Metric, f: GrowthRateSummaryFinding |
   const title =
     f.n === 1
       ? `${label} changed ${pct(f.min.value)} ${basis} in ${when(f.min.period)}`
-      : `${label}'s growth ${basis} ranged from ${pct(f.min.value)} (${when(f.min.period)}) to ${pct(f.max.value)} (${when(f.max.period)})`;
-  const count = `${f.n} ${f.grain}${f.n === 1 ? '' : 's'}`;
+      : `${possessive(label)} growth ${basis} ranged from ${pct(f.min.value)} (${when(f.min.period)}) to ${pct(f.max.value)} (${when(f.max.period)})`;
+  const count = countOf(f.n, f.grain);
   let caption: string;
   if (audience === 'leadership') {
     caption = `Across ${count}, the typical change ${basis} was ${pct(f.median)}.`;

@@ -55,7 +55,7 @@ export function segmentTrendWords(metric: Metric, dim: Dim, findings: readonly F
       .join('; ');
     caption = `By ${lowerLabel(dim.label)} (growth between the first and last calendar years with rows in all twelve months): ${list}.`;
   } else if (audience === 'managers') {
-    caption = `Among ${plural}, ${segmentLabel(fastest)} grew fastest, ${growth}. ${capitalise(slowestLine)} ${capitalise(largestLine)}`.replace(/ {2,}/g, ' ').trim();
+    caption = `Among ${plural}, ${segmentLabel(fastest)} ${overview.fastest.value > 0 ? 'grew fastest' : 'held up best'}, ${growth}. ${capitalise(slowestLine)} ${capitalise(largestLine)}`.replace(/ {2,}/g, ' ').trim();
   } else {
     const pace = overview.fastest.value > 0 ? `growing fastest, about ${formatRelativeSize(overview.fastest.value, locale)} a year` : `holding up best, though shrinking about ${formatRelativeSize(overview.fastest.value, locale)} a year`;
     caption = `${capitalise(segmentLabel(fastest))} is ${pace}. ${capitalise(largestLine)}`.trim();

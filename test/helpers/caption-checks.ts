@@ -1,0 +1,89 @@
+// Checks that a presented answer's words agree with its own tables: every money or percentage
+// figure in the caption and title is one of the answer's numbers (its CSV cells, or a figure its
+// findings computed from them) within the rounding it is printed at; every direction word next to
+// a signed figure agrees with its sign; every filter is named; and no placeholder or broken
+// grammar ("n/a", "NaN", "Bookings's", "1 routes") reaches the reader.
+import type { Presented } from '../../analysis/present/presenter.js';
+import type { Answer } from '../../analysis/types.js';
+
+const UP = /\b(rose|grew|higher|above|increased|gained)\b/i;
+const DOWN = /\b(fell|shrank|lower|below|decreased|dropped|lost)\b/i;
+
+/** A figure as printed: its value and the half-width of the rounding it shows. */
+interface Figure {
+  text: string;
+  value: number;
+  tolerance: number;
+  signed: boolean;
+}
+
+const SCALE: Record<string, number> = { K: 1e3, M: 1e6, B: 1e9, bn: 1e9 };
+
+/** Money and percentage figures ("€93.8K", "+11.4%", "−4.0 pts", "$1,204.50"). */
+export function figuresIn(text: string): Figure[] {
+  const out: Figure[] = [];
+  const re = /([+\u2212-]?)([€$£¥])?(\d{1,3}(?:,\d{3})+|\d+)(\.\d+)?\s?(K|M|B|bn)?(\s?%|\s?pts?\b)?/g;
+  for (const m of text.matchAll(re)) {
+    const [, sign, currency, whole, frac, suffix, unit] = m;
+    if (!currency && !unit) continue;
+    const decimals = frac ? frac.length - 1 : 0;
+    const scale = (suffix ? SCALE[suffix]! : 1) * (unit ? 0.01 : 1);
+    const magnitude = Number(`${whole!.replace(/,/g, '')}${frac ?? ''}`) * scale;
+    const value = sign === '-' || sign === '\u2212' ? -magnitude : magnitude;
+    out.push({ text: m[0], value, tolerance: 0.5 * 10 ** -decimals * scale * 1.0001 + 1e-12, signed: sign !== '' });
+  }
+  return out;
+}
+
+/** Every number the answer holds: its result tables' cells and the figures its findings carry. */
+export function answerNumbers(answer: Answer): number[] {
+  const out: number[] = [];
+  const walk = (v: unknown): void => {
+    if (typeof v === 'number' && Number.isFinite(v)) out.push(v);
+    else if (Array.isArray(v)) v.forEach(walk);
+    else if (v && typeof v === 'object') Object.values(v).forEach(walk);
+  };
+  for (const t of Object.values(answer.tables)) for (const r of t.rows) walk(Object.values(r));
+  walk(answer.findings);
+  // An index (1.65) is said as a percentage above or below 1 ("65% above an average month").
+  return [...out, ...out.map((n) => n - 1)];
+}
+
+/** The words a post shows: title, caption, notes, takeaway. */
+export function wordsOf(p: Presented): string[] {
+  return [p.title, p.caption, ...p.notes, ...(p.takeaway ? [p.takeaway.text] : [])];
+}
+
+export function captionProblems(answer: Answer, p: Presented): string[] {
+  const problems: string[] = [];
+  for (const text of wordsOf(p)) {
+    if (/\bn\/a\b|\bNaN\b|\bundefined\b|\bnull\b|Infinity|\$\{/.test(text)) problems.push(`placeholder in "${text}"`);
+    if (/\w+s's\b/.test(text)) problems.push(`possessive of a plural in "${text}"`);
+    const one = /(?<![\d.,])\b1 (?!of\b|in\b|to\b|a\b|vs\b)([a-z]+s)\b/.exec(text);
+    if (one && !/^(pts|others|segments?s)$/.test(one[1]!) && !/ss$|us$/.test(one[1]!)) problems.push(`"1 ${one[1]}" in "${text}"`);
+  }
+  const numbers = answerNumbers(answer);
+  for (const text of [p.title, p.caption]) {
+    for (const f of figuresIn(text)) {
+      const traced = numbers.some((n) => Math.abs(n - f.value) <= f.tolerance || Math.abs(Math.abs(n) - Math.abs(f.value)) <= f.tolerance);
+      if (!traced) problems.push(`${f.text} in "${text}" is none of the answer's numbers`);
+    }
+    // A direction word beside a signed figure agrees with its sign (one clause at a time).
+    for (const clause of text.split(/[;.:](?:\s|$)|,\s(?=[a-z])/)) {
+      const signed = figuresIn(clause).filter((f) => f.signed && f.value !== 0);
+      if (signed.length !== 1) continue;
+      const up = UP.test(clause);
+      const down = DOWN.test(clause);
+      if (up === down) continue;
+      if ((up && signed[0]!.value < 0) || (down && signed[0]!.value > 0)) problems.push(`direction word disagrees with ${signed[0]!.text} in "${clause}"`);
+    }
+  }
+  for (const f of answer.subQuestion.filters) {
+    for (const v of f.values) {
+      for (const [where, text] of [['title', p.title], ['caption', p.caption]] as const) {
+        if (!text.includes(String(v))) problems.push(`filter value "${String(v)}" missing from the ${where}`);
+      }
+    }
+  }
+  return problems;
+}
