@@ -7,6 +7,7 @@ import { ROLLUP_RELATION, rollupMetricAggregate, rollupRowCount, type RollupShap
 import type { Dialect, TimeColumnType } from './sql/dialect.js';
 import { expressionSql } from './sql/expression-sql.js';
 import { metricAggregate } from './sql/metric-sql.js';
+import { mergeWindows, rangeCondition } from './sql/time-range.js';
 import type { QueryBuilder } from './sql/query-builder.js';
 import type { DateWindow, SegmentFilter } from './types.js';
 
@@ -30,21 +31,53 @@ export function localDateExpr(q: QueryBuilder, ctx: CompileContext): string {
   return ctx.dialect.localDate(q.ident(ctx.dataset.time_column), ctx.timeColumnType, ctx.dataset.timezone, q.bind);
 }
 
+/**
+ * The rows of local dates [start, end) as a range on the time column itself (see
+ * sql/time-range.ts): `col >= $a AND col < $b`, never a function of the column, so an index, a
+ * partition bound or a shard can use it. Over the rollup the column is already the local date.
+ */
+export function dateRange(q: QueryBuilder, ctx: CompileContext, window: DateWindow): string {
+  q.readsDates(window);
+  return rangeOf(q, ctx, window);
+}
+
+/**
+ * The rows of any of the windows: one range per run of touching windows (adjacent periods read
+ * as one), so each is sargable. FALSE for none.
+ */
+export function dateRanges(q: QueryBuilder, ctx: CompileContext, windows: DateWindow[]): string {
+  const merged = mergeWindows(windows);
+  if (merged.length === 0) return 'FALSE';
+  q.readsDates({ start: merged[0]!.start, end: merged[merged.length - 1]!.end });
+  if (merged.length === 1) return rangeOf(q, ctx, merged[0]!);
+  return `(${merged.map((w) => `(${rangeOf(q, ctx, w)})`).join('\n    OR ')})`;
+}
+
+/** Rows of any of the windows, as ranges on the time column, inside an aggregate's FILTER (reads nothing more). */
+export function datesCondition(q: QueryBuilder, ctx: CompileContext, windows: DateWindow[]): string {
+  const merged = mergeWindows(windows);
+  if (merged.length === 0) return 'FALSE';
+  return merged.length === 1 ? rangeOf(q, ctx, merged[0]!) : `(${merged.map((w) => `(${rangeOf(q, ctx, w)})`).join(' OR ')})`;
+}
+
+function rangeOf(q: QueryBuilder, ctx: CompileContext, window: DateWindow): string {
+  return rangeCondition(q, q.ident(ctx.dataset.time_column), ctx.rollup ? 'date' : ctx.timeColumnType, ctx.dataset.timezone, window);
+}
+
 /** WHERE conditions for the window and the segment filters; every value is bound. */
 export function whereClause(q: QueryBuilder, ctx: CompileContext, window: DateWindow, filters: SegmentFilter[]): string {
-  const date = localDateExpr(q, ctx);
-  const parts = [
-    `${date} >= ${ctx.dialect.dateParam(q.bind(window.start))}`,
-    `${date} < ${ctx.dialect.dateParam(q.bind(window.end))}`,
-  ];
-  for (const f of filters) {
+  return [dateRange(q, ctx, window), ...segmentConditions(q, ctx, filters)].join('\n  AND ');
+}
+
+export function segmentConditions(q: QueryBuilder, ctx: CompileContext, filters: SegmentFilter[]): string[] {
+  return filters.map((f) => {
     const dim = groupableDimension(ctx.dataset, f.dimension);
-    parts.push(f.values.length === 0 ? 'FALSE' : `${q.ident(dim.column)} IN (${f.values.map((v) => q.bind(v)).join(', ')})`);
-  }
-  return parts.join('\n  AND ');
+    return f.values.length === 0 ? 'FALSE' : `${q.ident(dim.column)} IN (${f.values.map((v) => q.bind(v)).join(', ')})`;
+  });
 }
 
 export function tableRef(q: QueryBuilder, ctx: CompileContext): string {
+  q.readsTable();
   return ctx.rollup ? q.ident(ROLLUP_RELATION) : datasetRelation(q, ctx.dataset);
 }
 

@@ -69,6 +69,12 @@ export interface CompiledQuery {
    * as shown), and an engine that keeps rollups runs `scan.body` over its own copy instead.
    */
   scan?: SharedScan;
+  /**
+   * What the compiler knows of the dates the query reads (see QueryBuilder.datesRead): every row
+   * it reads falls in this window, or null when it may read any date. Lets a day-level rollup put
+   * in front of the query read only those dates; never shown.
+   */
+  datesRead?: DateWindow | null;
 }
 
 /** One of the queries a template runs for a sub-question; `name` keys its result table. */

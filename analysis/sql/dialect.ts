@@ -16,11 +16,16 @@ export interface Dialect {
   toDouble(expr: string): string;
   /** A bound parameter read as a DATE. */
   dateParam(placeholder: string): string;
+  /** A bound parameter read as a value of the time column's type (a window's end, see sql/time-range.ts). */
+  timeParam(placeholder: string, type: TimeColumnType): string;
 }
 
 export type TimeColumnType = 'date' | 'timestamp' | 'timestamptz';
 
 const GRAIN_UNIT: Record<Grain, string> = { day: 'day', week: 'week', month: 'month', quarter: 'quarter', year: 'year' };
+
+/** The SQL standard names of the time column types, which both engines take in a CAST. */
+export const TIME_TYPE: Record<TimeColumnType, string> = { date: 'DATE', timestamp: 'TIMESTAMP', timestamptz: 'TIMESTAMP WITH TIME ZONE' };
 
 export function quoteIdentifier(name: string): string {
   // Doubling the quote character is the SQL standard escape for delimited identifiers.
@@ -37,4 +42,5 @@ export const duckdbDialect: Dialect = {
     type === 'date' ? e : type === 'timestamptz' ? `CAST(timezone(${bind(tz)}, ${e}) AS DATE)` : `CAST(${e} AS DATE)`,
   toDouble: (e) => `CAST(${e} AS DOUBLE)`,
   dateParam: (p) => `CAST(${p} AS DATE)`,
+  timeParam: (p, type) => `CAST(${p} AS ${TIME_TYPE[type]})`,
 };

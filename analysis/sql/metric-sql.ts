@@ -58,10 +58,14 @@ export function filterCondition(q: QueryBuilder, f: ColumnFilter): string {
   const col = q.ident(f.column);
   const v = f.value;
   switch (f.op) {
+    // A plain column reference rather than `IS TRUE`: the same rows pass wherever this is a
+    // condition (WHERE, FILTER, CASE WHEN: a missing value passes neither test), and engines
+    // that push work to where the data is (postgres_fdw among them) ship `col` and `NOT col` but
+    // not `IS TRUE`.
     case 'is_true':
-      return `${col} IS TRUE`;
+      return col;
     case 'is_false':
-      return `${col} IS FALSE`;
+      return `NOT ${col}`;
     case 'in': {
       const list = Array.isArray(v) ? v : v === undefined ? [] : [v];
       return list.length === 0 ? 'FALSE' : `${col} IN (${list.map((x) => q.bind(x)).join(', ')})`;

@@ -1,7 +1,7 @@
 // PostgreSQL (and warehouses that speak its dialect). Same standard SQL as DuckDB; the
 // differences are how a date is truncated and how a zoned timestamp becomes a local date.
 import type { Grain } from '../types.js';
-import { quoteIdentifier, type Dialect } from './dialect.js';
+import { quoteIdentifier, TIME_TYPE, type Dialect } from './dialect.js';
 
 const GRAIN_UNIT: Record<Grain, string> = { day: 'day', week: 'week', month: 'month', quarter: 'quarter', year: 'year' };
 
@@ -20,4 +20,5 @@ export const postgresDialect: Dialect = {
     type === 'date' ? e : type === 'timestamptz' ? `CAST((${e} AT TIME ZONE CAST(${bind(tz)} AS TEXT)) AS DATE)` : `CAST(${e} AS DATE)`,
   toDouble: (e) => `CAST(${e} AS DOUBLE PRECISION)`,
   dateParam: (p) => `CAST(${p} AS DATE)`,
+  timeParam: (p, type) => `CAST(${p} AS ${TIME_TYPE[type]})`,
 };

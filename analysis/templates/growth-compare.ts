@@ -69,27 +69,8 @@ export function compileWindowComparison(asked: SubQuestion, ctx: CompileContext)
   const last = q.ident(LAST);
   const prior = priorWindow(sq.window);
   const table = tableRef(q, ctx);
-  const side = (name: 'current' | 'prior', w: DateWindow, edge: string) =>
-    `SELECT t.*, '${name}' AS ${win}, ${localDateExpr(q, ctx)} AS ${day}
-  FROM ${table} AS t CROSS JOIN reach
-  WHERE ${whereClause(q, ctx, w, sq.filters)}
-    AND ${edge}`;
-  const yearFrom = (e: string, sign: '+' | '-') => `CAST(${e} ${sign} INTERVAL '1' YEAR AS DATE)`;
   const measures = sq.metrics.map((name) => `  ${measureSql(q, ctx, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
-  // `reach` is the whole table's first and last day (as in the coverage check), not the filtered rows',
-  // so a segment filter never shortens the span compared.
-  const reachSql = `SELECT MIN(${localDateExpr(q, ctx)}) AS ${first}, MAX(${localDateExpr(q, ctx)}) AS ${last} FROM ${table}`;
-  const current = side('current', sq.window, `${localDateExpr(q, ctx)} >= ${yearFrom(`reach.${first}`, '+')}`);
-  const before = side('prior', prior, `${localDateExpr(q, ctx)} <= ${yearFrom(`reach.${last}`, '-')}`);
-  // Both windows' rows, tagged with their window: shared by the query with and without a minimum group size.
-  const sides = `WITH reach AS (
-  ${reachSql}
-),
-tagged AS (
-  ${current}
-  UNION ALL
-  ${before}
-)`;
+  const sides = sidesSql(q, ctx, sq, prior, { table, win, day, first, last });
   const min = minGroupSize(ctx.dataset);
   if (min !== null) {
     // A segment with fewer rows than the minimum on either side (where it has rows at all) joins
@@ -151,6 +132,53 @@ ${measures.join(',\n')},
 FROM tagged
 GROUP BY GROUPING SETS ((${win}, ${seg}), (${win}))
 ORDER BY 1, 2, 3`);
+}
+
+/**
+ * Both windows' rows, tagged with their window (a CTE `tagged`): the current window from a year
+ * after the data's first day, the prior one up to a year before its last, so the two stay like
+ * for like. With the coverage known those edges are bound values and each side is one date range
+ * on the time column; otherwise the whole table's first and last day are read (`reach`, as in the
+ * coverage check), never the filtered rows', so a segment filter never shortens the span compared.
+ */
+function sidesSql(
+  q: QueryBuilder,
+  ctx: CompileContext,
+  sq: SubQuestion,
+  prior: DateWindow,
+  n: { table: string; win: string; day: string; first: string; last: string },
+): string {
+  const coverage = ctx.coverage;
+  if (coverage?.firstDate && coverage.lastDate) {
+    const current = { start: maxIso(sq.window.start, shiftDayByYears(coverage.firstDate, 1)), end: sq.window.end };
+    const before = { start: prior.start, end: minIso(prior.end, addDays(shiftDayByYears(coverage.lastDate, -1), 1)) };
+    const side = (name: 'current' | 'prior', w: DateWindow) => `SELECT t.*, '${name}' AS ${n.win}, ${localDateExpr(q, ctx)} AS ${n.day}
+  FROM ${n.table} AS t
+  WHERE ${whereClause(q, ctx, w, sq.filters)}`;
+    return `WITH tagged AS (
+  ${side('current', current)}
+  UNION ALL
+  ${side('prior', before)}
+)`;
+  }
+  q.readsEveryDate();
+  const side = (name: 'current' | 'prior', w: DateWindow, edge: string) =>
+    `SELECT t.*, '${name}' AS ${n.win}, ${localDateExpr(q, ctx)} AS ${n.day}
+  FROM ${n.table} AS t CROSS JOIN reach
+  WHERE ${whereClause(q, ctx, w, sq.filters)}
+    AND ${edge}`;
+  const yearFrom = (e: string, sign: '+' | '-') => `CAST(${e} ${sign} INTERVAL '1' YEAR AS DATE)`;
+  const reachSql = `SELECT MIN(${localDateExpr(q, ctx)}) AS ${n.first}, MAX(${localDateExpr(q, ctx)}) AS ${n.last} FROM ${n.table}`;
+  const current = side('current', sq.window, `${localDateExpr(q, ctx)} >= ${yearFrom(`reach.${n.first}`, '+')}`);
+  const before = side('prior', prior, `${localDateExpr(q, ctx)} <= ${yearFrom(`reach.${n.last}`, '-')}`);
+  return `WITH reach AS (
+  ${reachSql}
+),
+tagged AS (
+  ${current}
+  UNION ALL
+  ${before}
+)`;
 }
 
 export interface SideRow {

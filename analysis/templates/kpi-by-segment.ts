@@ -5,7 +5,7 @@
 // segments' own values.
 import type { DatasetConfig } from '../../config/schema.js';
 import { groupableDimension, metricByName } from '../catalog.js';
-import { measureSql, rowCountSql, tableRef } from '../compile-context.js';
+import { datesCondition, measureSql, rowCountSql, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type { KpiBySegmentFinding, KpiSegmentRow, SegmentKey } from '../findings/kpi.js';
 import { nextPeriod } from '../periods.js';
@@ -39,7 +39,6 @@ export function compileKpiBySegment(sq: SubQuestion, ctx: KpiCompileContext, top
   const seg = q.ident(dim.column);
   const candidates = latestCandidates(sq.window, sq.grain, ctx.coverage);
   const periods = periodsToRead(candidates, sq.grain);
-  const latestList = candidates.map((c) => ctx.dialect.dateParam(q.bind(c))).join(', ');
   const rankPeriod = periodExpr(q, ctx, sq.grain);
   const rankWhere = periodsWhere(q, ctx, periods, sq.grain, sq.filters);
   const period = periodExpr(q, ctx, sq.grain);
@@ -48,10 +47,15 @@ export function compileKpiBySegment(sq: SubQuestion, ctx: KpiCompileContext, top
   const measures = metrics.map((m) => `  ${measureSql(q, ctx, m)} AS ${q.ident(m.name)}`);
   const [key, rank, per, other] = [KEY, RANK, PERIOD, OTHER].map(q.ident);
   const min = minGroupSize(ds);
-  if (min !== null) return q.finish(withMinimum(q, ctx, { table, seg, rankPeriod, rankWhere, latestList, period, n, where, measures, min: q.bind(min) }));
+  if (min !== null) {
+    const latestList = candidates.map((c) => ctx.dialect.dateParam(q.bind(c))).join(', ');
+    return q.finish(withMinimum(q, ctx, { table, seg, rankPeriod, rankWhere, latestList, period, n, where, measures, min: q.bind(min) }));
+  }
+  // The latest period's rows, as date ranges on the time column (not a function of it).
+  const inLatest = datesCondition(q, ctx, candidates.map((c) => ({ start: c, end: nextPeriod(c, sq.grain) })));
   return q.finish(`WITH ranked AS (
   SELECT ${seg} AS ${key},
-    ROW_NUMBER() OVER (ORDER BY ${rowCountSql(q, ctx, `${rankPeriod} IN (${latestList})`)} DESC, ${rowCountSql(q, ctx)} DESC, ${seg} ASC NULLS LAST) AS ${rank}
+    ROW_NUMBER() OVER (ORDER BY ${rowCountSql(q, ctx, inLatest)} DESC, ${rowCountSql(q, ctx)} DESC, ${seg} ASC NULLS LAST) AS ${rank}
   FROM ${table}
   WHERE ${rankWhere}
   GROUP BY ${seg}

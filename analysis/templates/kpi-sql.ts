@@ -1,6 +1,6 @@
 // SQL pieces the KPI templates share: the period expression and a WHERE that reads only the
 // named periods (plus the sub-question's segment filters). Every date is a bound parameter.
-import { type CompileContext, localDateExpr, whereClause } from '../compile-context.js';
+import { type CompileContext, dateRanges, localDateExpr, segmentConditions } from '../compile-context.js';
 import { nextPeriod } from '../periods.js';
 import type { QueryBuilder } from '../sql/query-builder.js';
 import type { CellValue, Grain, ResultTable, SegmentFilter } from '../types.js';
@@ -10,15 +10,17 @@ export function periodExpr(q: QueryBuilder, ctx: CompileContext, grain: Grain): 
 }
 
 /**
- * Rows in exactly the given periods. The outer date range lets the engine skip whole blocks;
- * the IN list keeps only the periods asked for.
+ * Rows in exactly the given periods: one date range per run of adjacent periods (a latest month
+ * and the one before read as one range), each on the time column itself.
  */
 export function periodsWhere(q: QueryBuilder, ctx: CompileContext, periods: string[], grain: Grain, filters: SegmentFilter[]): string {
   if (periods.length === 0) return 'FALSE';
-  const sorted = [...periods].sort();
-  const span = { start: sorted[0]!, end: nextPeriod(sorted[sorted.length - 1]!, grain) };
-  const list = sorted.map((p) => ctx.dialect.dateParam(q.bind(p))).join(', ');
-  return `${whereClause(q, ctx, span, filters)}\n  AND ${periodExpr(q, ctx, grain)} IN (${list})`;
+  const ranges = dateRanges(
+    q,
+    ctx,
+    periods.map((p) => ({ start: p, end: nextPeriod(p, grain) })),
+  );
+  return [ranges, ...segmentConditions(q, ctx, filters)].join('\n  AND ');
 }
 
 export function numberOrNull(v: CellValue | undefined): number | null {

@@ -71,9 +71,9 @@ export function windowFinding(sq: SubQuestion, group: ComparisonGroup, coverage:
   return { type: 'performance_window', group: group.name, start, end, launchDate: group.launch_date ?? null, clippedToLaunch };
 }
 
-/** TRUE for members, FALSE for others; rows with a missing flag are left out by `groupKnown`. */
+/** TRUE for members, FALSE for others: the flag itself, since rows with a missing flag are left out by `groupKnown`. */
 export function memberFlag(q: QueryBuilder, group: ComparisonGroup): string {
-  return `(${q.ident(group.column)} IS TRUE)`;
+  return q.ident(group.column);
 }
 
 export function groupKnown(q: QueryBuilder, group: ComparisonGroup): string {

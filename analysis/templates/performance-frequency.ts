@@ -45,7 +45,7 @@ export function compileFrequency(sq: SubQuestion, ctx: CompileContext): NamedQue
   // A unit is a member when any of its rows in the window carries the group flag.
   const units = `WITH tc_units AS (
   SELECT ${unit} AS tc_unit,
-    MAX(CASE WHEN ${q.ident(group.column)} IS TRUE THEN 1 ELSE 0 END) AS tc_flag,
+    MAX(CASE WHEN ${q.ident(group.column)} THEN 1 ELSE 0 END) AS tc_flag,
     ${metricAggregate(q, ds, metric)} AS tc_value
   FROM ${tableRef(q, ctx)}
   WHERE ${where}

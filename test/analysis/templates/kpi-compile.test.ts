@@ -44,6 +44,7 @@ const markerDialect: Dialect = {
   localDate: (e) => `LOCAL_DATE(${e})`,
   toDouble: (e) => `TO_DOUBLE(${e})`,
   dateParam: (p) => `DATE_PARAM(${p})`,
+  timeParam: (p, t) => `TIME_PARAM_${t.toUpperCase()}(${p})`,
 };
 
 describe('latest complete period', () => {
@@ -97,10 +98,14 @@ describe('latest complete period', () => {
 });
 
 describe('kpi_snapshot SQL', () => {
-  it('reads only the three periods, every date bound', () => {
+  it('reads only the three periods, as date ranges on the time column itself, every date bound', () => {
     const q = compileKpiSnapshot(sq, withCoverage);
-    expect(q.sql).toContain(`CAST(date_trunc('month', "sail_date") AS DATE) IN (CAST($1 AS DATE), CAST($2 AS DATE), CAST($3 AS DATE))`);
-    expect(q.params).toEqual(['2024-05-01', '2025-04-01', '2025-05-01', '2024-05-01', '2025-06-01']);
+    // May 2024 alone; April and May 2025 touch, so they read as one range.
+    expect(q.sql).toContain(`WHERE (("sail_date" >= CAST($1 AS DATE) AND "sail_date" < CAST($2 AS DATE))
+    OR ("sail_date" >= CAST($3 AS DATE) AND "sail_date" < CAST($4 AS DATE)))`);
+    expect(q.params).toEqual(['2024-05-01', '2024-06-01', '2025-04-01', '2025-06-01']);
+    // No function of the column in the conditions (the period is computed only to group by).
+    expect(q.sql.slice(q.sql.indexOf('WHERE'))).not.toMatch(/date_trunc/);
     expect(q.sql).not.toMatch(/\d{4}-\d{2}-\d{2}/);
   });
 
@@ -120,7 +125,8 @@ describe('kpi_snapshot SQL', () => {
 
   it('without the coverage also reads the month before, in case the data ends inside the last one', () => {
     const q = compileKpiSnapshot({ ...sq, window: { start: '2022-01-01', end: '2025-07-01' } }, ctx);
-    expect(q.params.slice(0, 5)).toEqual(['2024-05-01', '2024-06-01', '2025-04-01', '2025-05-01', '2025-06-01']);
+    // June 2025 and May 2025 as candidates: May and June 2024, and April to June 2025.
+    expect(q.params.slice(0, 4)).toEqual(['2024-05-01', '2024-07-01', '2025-04-01', '2025-07-01']);
   });
 });
 
@@ -150,7 +156,7 @@ describe('kpi_by_segment and kpi_mix SQL', () => {
     const q = compileKpiMix({ ...sq, dimension: 'route' }, withCoverage);
     expect(q.sql).toContain('CAST(SUM("passengers") AS DOUBLE) AS "_base_fare_per_passenger"');
     // The latest month and the same month a year earlier only.
-    expect(q.params.slice(0, 2)).toEqual(['2024-05-01', '2025-05-01']);
+    expect(q.params.slice(0, 4)).toEqual(['2024-05-01', '2024-06-01', '2025-05-01', '2025-06-01']);
   });
 });
 

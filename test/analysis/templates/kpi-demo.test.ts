@@ -57,8 +57,8 @@ describe('kpi_snapshot on the demo', () => {
       code: 'partial_period_excluded',
       data: { period: '2025-06-01', grain: 'month', coveredFrom: '2025-06-01', coveredTo: '2025-06-18' },
     });
-    // Exactly the three periods, bound as parameters, inside the span [May 2024, June 2025) that ends before June's rows.
-    expect(a.queries[0]!.params).toEqual(['2024-05-01', '2025-04-01', '2025-05-01', '2024-05-01', '2025-06-01']);
+    // Exactly the three periods, bound as date ranges (May 2024; April and May 2025 as one), all before June's rows.
+    expect(a.queries[0]!.params).toEqual(['2024-05-01', '2024-06-01', '2025-04-01', '2025-06-01']);
     expect(a.tables.snapshot!.rows.map((r) => r.period)).toEqual(['2024-05-01', '2025-04-01', '2025-05-01']);
   });
 

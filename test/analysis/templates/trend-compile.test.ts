@@ -33,6 +33,7 @@ const otherDialect: Dialect = {
   localDate: (e) => e,
   toDouble: (e) => `(${e})::double precision`,
   dateParam: (p) => `DATE_PARAM(${p})`,
+  timeParam: (p, t) => `TIME_PARAM_${t.toUpperCase()}(${p})`,
 };
 
 describe('trend_test, trend_summary and trend_seasonality SQL', () => {
