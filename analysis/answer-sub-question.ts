@@ -3,7 +3,7 @@ import { timePhase, type PhaseTimings } from './phase-timings.js';
 import { qualityCaveatsFor } from './quality/check-run.js';
 import type { QualityReport } from './quality/quality-checks.js';
 import { covers, rollupNeeds } from './rollup/eligibility.js';
-import { sharedScanQuery } from './rollup/rollup.js';
+import { dayLevelQuery } from './rollup/rollup.js';
 import { definitionOf } from './sub-questions/registry.js';
 import type { Template } from './templates/template.js';
 import type { RunScope } from './run-scope.js';
@@ -37,17 +37,21 @@ export async function answerSubQuestion(sq: SubQuestion, ws: Workspace, opts: An
 }
 
 /**
- * The template's queries; over the run's rollup when the sub-question can read it, each then
- * shown with the rollup as a CTE so the SQL stays a runnable account of how it was computed.
+ * The template's queries. A sub-question whose numbers are sums and counts reads a day-level
+ * rollup (the table summed by day and the dimensions it uses, over the dates it reads), shown as
+ * a CTE so the SQL stays a runnable account of how it was computed: an engine sending the work
+ * to where the data is (a partitioned or sharded warehouse) sums each day there and returns only
+ * those sums. When the run shares a rollup that covers it, an engine that keeps rollups reads its
+ * stored copy instead. The rest (distinct counts, medians, per-unit values) read the table.
  */
 function compileFor(sq: SubQuestion, template: Template, ws: Workspace, scope: RunScope | undefined): NamedQuery[] {
   const ctx = { ...ws.context, coverage: ws.coverage };
+  const need = scope?.readTable ? null : rollupNeeds(sq, ws.dataset);
+  if (!need) return template.compile(sq, ctx).map(({ datesRead: _dates, ...q }) => q);
   const shape = scope?.rollup;
-  const need = shape ? rollupNeeds(sq, ws.dataset) : null;
-  if (!shape || !need || !covers(shape, need)) return template.compile(sq, ctx);
-  // The coverage is part of the rollup's identity: new rows (a rerun with fresh data) make a new one.
-  const version = JSON.stringify(ws.coverage);
-  return template.compile(sq, { ...ctx, rollup: shape }).map((q) => ({ name: q.name, ...sharedScanQuery(ctx, shape, q, version) }));
+  // The coverage is part of a shared rollup's identity: new rows (a rerun with fresh data) make a new one.
+  const shared = shape && covers(shape, need) ? { shape, version: JSON.stringify(ws.coverage) } : undefined;
+  return template.compile(sq, { ...ctx, rollup: need }).map((q) => ({ name: q.name, ...dayLevelQuery(ctx, need, q, shared) }));
 }
 
 function runShared(q: NamedQuery, ws: Workspace, opts: AnswerOptions): Promise<ResultTable> {

@@ -8,8 +8,14 @@ import type { Workspace } from './workspace.js';
 export interface RunScope {
   /** Results by statement and parameters: a query two answers compile identically runs once per run. */
   results: Map<string, Promise<ResultTable>>;
-  /** The rollup this run's additive sub-questions read, or null when they read the table. */
+  /** The rollup this run's additive sub-questions share (an engine that keeps rollups makes it once), or null. */
   rollup: RollupShape | null;
+  /**
+   * True: every sub-question reads the table row by row, the additive ones included: the
+   * reference the day-level path is checked against (tests). Otherwise each additive sub-question
+   * reads a day-level rollup: the run's shared one, or its own.
+   */
+  readTable: boolean;
   /**
    * Plan positions in the order to start them: sub-questions that scan the table (per-customer
    * groupings, distinct counts, comparisons of rows) first, then those reading the rollup, each
@@ -29,12 +35,15 @@ export interface RunScope {
 const MIN_READERS = 2;
 
 export interface RunScopeOptions {
-  /** false: every sub-question reads the table (the benchmark's one-query-per-sub-question reference). */
+  /** false: no rollup shared between sub-questions (each additive one reads a day-level rollup of its own). */
   sharedScan?: boolean;
+  /** true: every sub-question reads the table row by row (the reference tests check the day-level path against). */
+  readTable?: boolean;
 }
 
 export function openRunScope(items: SubQuestion[], ws: Workspace, opts: RunScopeOptions = {}): RunScope {
-  const rollup = opts.sharedScan === false ? null : runRollup(items, ws.dataset, MIN_READERS);
+  const readTable = opts.readTable === true;
+  const rollup = opts.sharedScan === false || readTable ? null : runRollup(items, ws.dataset, MIN_READERS);
   const readsRollup = (sq: SubQuestion) => {
     const need = rollup ? rollupNeeds(sq, ws.dataset) : null;
     return !!rollup && !!need && covers(rollup, need);
@@ -43,5 +52,5 @@ export function openRunScope(items: SubQuestion[], ws: Workspace, opts: RunScope
     const positions = list.map((_, i) => i);
     return [...positions.filter((i) => !readsRollup(list[i]!)), ...positions.filter((i) => readsRollup(list[i]!))];
   };
-  return { results: new Map(), rollup, startOrder, close: async () => undefined };
+  return { results: new Map(), rollup, readTable, startOrder, close: async () => undefined };
 }

@@ -10,7 +10,8 @@ import { groupableDimension, metricByName } from '../catalog.js';
 import { datasetRelation, type CompileContext } from '../compile-context.js';
 import { filterCondition } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
-import type { CompiledQuery } from '../types.js';
+import { rangeCondition } from '../sql/time-range.js';
+import type { CompiledQuery, DateWindow } from '../types.js';
 
 /** The name queries give the rollup they read (a CTE in the SQL shown to people). */
 export const ROLLUP_RELATION = 'tc_rollup';
@@ -146,14 +147,17 @@ export function rollupRowCount(q: QueryBuilder, where?: string): string {
 
 /**
  * The rollup statement: the table grouped by the local calendar day (under the time column's
- * own name) and the shape's columns. `firstParam` numbers its placeholders, so it can follow a
- * query's own parameters in one statement.
+ * own name) and the shape's columns; with `span`, only the rows of those dates, as a range on the
+ * time column itself. `firstParam` numbers its placeholders, so it can follow a query's own
+ * parameters in one statement.
  */
-export function compileRollup(ctx: CompileContext, shape: RollupShape, firstParam = 1): CompiledQuery {
+export function compileRollup(ctx: CompileContext, shape: RollupShape, firstParam = 1, span: DateWindow | null = null): CompiledQuery {
   const ds = ctx.dataset;
   const q = new QueryBuilder(ctx.dialect, firstParam - 1);
   const date = ctx.dialect.localDate(q.ident(ds.time_column), ctx.timeColumnType, ds.timezone, q.bind);
-  const keys = [`${date} AS ${q.ident(ds.time_column)}`, ...shape.columns.map((c) => q.ident(c))];
+  const day = q.ident(ds.time_column);
+  const keys = [date === day ? day : `${date} AS ${day}`, ...shape.columns.map((c) => q.ident(c))];
+  const where = span ? `\nWHERE ${rangeCondition(q, q.ident(ds.time_column), ctx.timeColumnType, ds.timezone, span)}` : '';
   const seen = new Set<string>();
   const pieces: string[] = [];
   for (const name of shape.metrics) {
@@ -165,12 +169,12 @@ export function compileRollup(ctx: CompileContext, shape: RollupShape, firstPara
   }
   return q.finish(`SELECT ${keys.join(', ')},
   COUNT(*) AS ${q.ident(ROLLUP_ROWS)}${pieces.map((p) => `,\n  ${p}`).join('')}
-FROM ${datasetRelation(q, ds)}
+FROM ${datasetRelation(q, ds)}${where}
 GROUP BY ${keys.map((_, i) => i + 1).join(', ')}`);
 }
 
 /** Heads a statement shown over the rollup, so a reader knows why the table is grouped by day first. */
-export const ROLLUP_NOTE = `-- ${ROLLUP_RELATION}: the table summed by day and dimension, one pass shared by this plan's questions; the numbers below are re-added from it.`;
+export const ROLLUP_NOTE = `-- ${ROLLUP_RELATION}: the table's rows summed by day (and by the dimensions used) first; the numbers below are added up from those sums.`;
 
 /** The columns a rollup needs for the dimensions, filters and comparison group named. */
 export function rollupColumns(ds: DatasetConfig, names: { dimensions: string[]; groups: string[] }): string[] {
@@ -191,17 +195,24 @@ export function withRollup(rollupSql: string, body: string): string {
 }
 
 /**
- * The statement shown and audited for a query over the rollup: the rollup as a CTE, then the
- * query; runnable on its own, with the query's parameters first and the rollup's after them.
+ * The statement shown, audited and (on an engine that keeps no rollups) run for a query over a
+ * day-level rollup: the rollup of the query's own shape as a CTE, reading only the dates the
+ * query reads (`body.datesRead`), then the query; runnable on its own, with the query's
+ * parameters first and the rollup's after them. With `shared`, the run's rollup (a wider shape
+ * over every date) that an engine keeping rollups reads instead: the same numbers either way.
  */
+export function dayLevelQuery(ctx: CompileContext, own: RollupShape, body: CompiledQuery, shared?: { shape: RollupShape; version: string }): CompiledQuery {
+  const inline = compileRollup(ctx, own, body.params.length + 1, body.datesRead ?? null);
+  const shown = { sql: `${ROLLUP_NOTE}\n${withRollup(inline.sql, body.sql)}`, params: [...body.params, ...inline.params] };
+  if (!shared) return shown;
+  const rollup = compileRollup(ctx, shared.shape);
+  return { ...shown, scan: { key: rollupKey(rollup, shared.version), rollup, body: { sql: body.sql, params: body.params } } };
+}
+
+/** A query over the run's rollup, shown with that whole rollup as its CTE (see dayLevelQuery). */
 export function sharedScanQuery(ctx: CompileContext, shape: RollupShape, body: CompiledQuery, version = ''): CompiledQuery & { scan: SharedScan } {
-  const rollup = compileRollup(ctx, shape);
-  const inline = compileRollup(ctx, shape, body.params.length + 1);
-  return {
-    sql: `${ROLLUP_NOTE}\n${withRollup(inline.sql, body.sql)}`,
-    params: [...body.params, ...inline.params],
-    scan: { key: rollupKey(rollup, version), rollup, body: { sql: body.sql, params: body.params } },
-  };
+  const q = dayLevelQuery(ctx, shape, { sql: body.sql, params: body.params, datesRead: null }, { shape, version });
+  return { ...q, scan: q.scan! };
 }
 
 /** `version` names the state of the data the rollup was made from (equal SQL on changed data is another rollup). */

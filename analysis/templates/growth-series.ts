@@ -39,6 +39,8 @@ export function compileGrowthSeries(sq: SubQuestion, ctx: CompileContext): Compi
   const ytd = q.ident(YTD);
   const dateExpr = localDateExpr(q, ctx);
   const where = whereClause(q, ctx, sq.window, sq.filters);
+  // `where` serves both reads of the table below: each reads the window's dates only.
+  q.readsDates(sq.window);
   const measures = sq.metrics.map((name) => `  ${measureSql(q, ctx, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
   // Month*100 + day compares calendar positions across years: 29 February is only ever matched
   // in leap years, and a cut-off of 29 February counts the prior year to 28 February.

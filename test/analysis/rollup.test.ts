@@ -124,12 +124,18 @@ describe('answers over the rollup equal answers read from the table', () => {
 
   for (const [i, sq] of ALL.entries()) {
     it(`${i}: ${sq.template} ${sq.metrics.join(', ')}${sq.dimension ? ` by ${sq.dimension}` : ''}${sq.filters.length ? ' (filtered)' : ''} at ${sq.grain}`, async () => {
-      const raw = await answerSubQuestion(sq, ws);
+      // The reference: every number read from the table's rows.
+      const raw = await answerSubQuestion(sq, ws, { scope: openRunScope([sq], ws, { readTable: true }) });
+      // Over the run's shared rollup (stored once by DuckDB), and over a day-level rollup of the
+      // sub-question's own shape and dates (what a run without a shared rollup, and PostgreSQL, runs).
       const rolled = await answerSubQuestion(sq, ws, { scope });
+      const own = await answerSubQuestion(sq, ws);
       const reads = rollupNeeds(sq, ws.dataset) !== null;
       expect(rolled.queries.every((x) => !!x.scan === reads)).toBe(true);
-      expect(raw.queries.every((x) => !x.scan)).toBe(true);
+      expect(raw.queries.every((x) => !x.scan && !x.sql.includes('tc_rollup'))).toBe(true);
+      expect(own.queries.every((x) => !x.scan && x.sql.includes('tc_rollup') === reads)).toBe(true);
       expect(compareAnswers(raw, rolled)).toEqual([]);
+      expect(compareAnswers(raw, own)).toEqual([]);
       if (reads) {
         // The statement shown is runnable as it stands and gives the same table as what ran.
         for (const shown of rolled.queries) {
@@ -138,6 +144,8 @@ describe('answers over the rollup equal answers read from the table', () => {
           expect(shown.sql.startsWith(`${ROLLUP_NOTE}\nWITH tc_rollup AS (`)).toBe(true);
           expect(shown.sql).toContain('FROM "bookings"');
         }
+        // Each day-level rollup reads only the dates its query reads: a range on the time column.
+        for (const shown of own.queries) expect(shown.sql).toMatch(/FROM "bookings"\n\s*WHERE "sail_date" >= CAST\(\$\d+ AS DATE\) AND "sail_date" < CAST\(\$\d+ AS DATE\)\n\s*GROUP BY/);
       }
     }, 60_000);
   }
