@@ -19,11 +19,21 @@ export interface Coverage {
   stamps?: StampGranularity;
 }
 
+/**
+ * Rows counted per local day first, then the first and last day and the total: an engine that
+ * sends work to where the data is (a table partitioned or sharded on the time column) counts
+ * each day there and returns one row per day.
+ */
 export function compileCoverage(ctx: CompileContext): CompiledQuery {
   const q = new QueryBuilder(ctx.dialect);
-  const date = localDateExpr(q, ctx);
-  return q.finish(`SELECT MIN(${date}) AS first_date, MAX(${date}) AS last_date, ${ctx.dialect.toDouble('COUNT(*)')} AS row_count
-FROM ${tableRef(q, ctx)}`);
+  const day = q.ident('tc_day');
+  const rows = q.ident('tc_rows');
+  return q.finish(`SELECT MIN(${day}) AS first_date, MAX(${day}) AS last_date, ${ctx.dialect.toDouble(`SUM(${rows})`)} AS row_count
+FROM (
+  SELECT ${localDateExpr(q, ctx)} AS ${day}, COUNT(*) AS ${rows}
+  FROM ${tableRef(q, ctx)}
+  GROUP BY 1
+) tc_days`);
 }
 
 export function readCoverage(table: ResultTable): Coverage {

@@ -16,6 +16,7 @@ import {
   engineSchema,
   isKnownTimeZone,
   metricKindSchema,
+  qualitySchema,
   sourceSchema as internalSourceSchema,
   unitSchema,
 } from './schema.js';
@@ -145,6 +146,9 @@ export const fileDatasetSchema = z
     dimensions: z.array(fileDimensionSchema).default([]),
     comparison_groups: z.array(fileComparisonGroupSchema).default([]),
     min_group_size: z.number().int().min(0).max(1_000_000).optional(),
+    // How the data-quality checks treat a large table: repeated keys counted in full, on a sample
+    // or not at all, and a freshness column for PostgreSQL (see config/schema.ts qualitySchema).
+    quality: qualitySchema.optional(),
   })
   .strict();
 export type FileDataset = z.infer<typeof fileDatasetSchema>;

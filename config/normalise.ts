@@ -96,6 +96,7 @@ class DatasetNormaliser {
       dimensions,
       comparison_groups,
       ...(ds.min_group_size !== undefined ? { min_group_size: ds.min_group_size } : {}),
+      ...(ds.quality !== undefined ? { quality: ds.quality } : {}),
       ...(this.derived.size > 0 ? { derived: [...this.derived.values()] } : {}),
     };
     this.crossReferences(out);

@@ -113,6 +113,22 @@ export const sourceSchema = z.discriminatedUnion('kind', [
 ]);
 export type SourceConfig = z.infer<typeof sourceSchema>;
 
+// How the data-quality checks treat a large table (see analysis/quality/).
+export const qualitySchema = z
+  .object({
+    // Repeated keys: counted over every key (full), over a fixed 1-in-16 sample of keys and scaled
+    // up (sampled: the caveat says it is an estimate), or not at all (off). auto: full up to
+    // full_key_count_max_rows rows, sampled beyond.
+    duplicate_keys: z.enum(['auto', 'full', 'sampled', 'off']).default('auto'),
+    full_key_count_max_rows: z.number().int().min(0).default(20_000_000),
+    // A column whose largest value moves whenever the data changes (a load time, an updated_at):
+    // on PostgreSQL its maximum tells whether the data changed since the last check, instead of
+    // the table's write counters. Index it: the check reads its maximum on every run.
+    freshness_column: identifier.optional(),
+  })
+  .strict();
+export type QualityConfig = z.infer<typeof qualitySchema>;
+
 export const datasetSchema = z
   .object({
     name: catalogName,
@@ -134,6 +150,7 @@ export const datasetSchema = z
     // defined by values): the rows every query reads carry them under these names (see
     // analysis/compile-context.ts datasetRelation). Absent when the config names only columns.
     derived: z.array(z.custom<DerivedColumn>()).optional(),
+    quality: qualitySchema.optional(),
   })
   .strict();
 export type DatasetConfig = z.infer<typeof datasetSchema>;

@@ -33,6 +33,9 @@ export function caveatNote(c: Caveat, locale: string): string {
     case 'null_share':
       return `${show(d.column)} is missing in ${typeof d.share === 'number' && Number.isFinite(d.share) ? `${(d.share * 100).toFixed(d.share < 0.01 ? 2 : 1)}%` : 'some'} of rows (${show(d.count)}).`;
     case 'duplicate_keys':
+      if (typeof d.sampledOneIn === 'number') {
+        return `About ${show(d.count)} rows repeat a ${show(d.column)} that should be unique (estimated from 1 ${show(d.column)} in ${show(d.sampledOneIn)}); they are counted as they are.`;
+      }
       return `${show(d.count)} rows repeat a ${show(d.column)} that should be unique; they are counted as they are.`;
     case 'negative_amounts':
       if (d.periods === true) return `Some periods have a negative total of ${show(d.column)}, so they are left out.`;

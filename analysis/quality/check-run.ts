@@ -6,7 +6,7 @@ import type { Caveat, NamedQuery, SubQuestion } from '../types.js';
 import type { Workspace } from '../workspace.js';
 import { dataVersion } from './data-version.js';
 import { entryKey, qualityCacheFile, readEntry, type QualityEntry, writeEntry } from './quality-cache.js';
-import { catalogColumns, compileQualityChecks, readQuality, type QualityCheckOptions, type QualityReport } from './quality-checks.js';
+import { catalogColumns, compileQualityChecks, type DuplicateCount, readQuality, type QualityCheckOptions, type QualityReport } from './quality-checks.js';
 import { qualityCaveats } from './quality-caveats.js';
 
 // Data older than this is flagged as stale (common practice for monthly reporting).
@@ -34,14 +34,14 @@ export function columnsUsed(sq: SubQuestion, ws: Workspace): string[] {
 export async function checkQuality(items: SubQuestion[], ws: Workspace, opts: { onQuery?: (q: NamedQuery) => void } = {}): Promise<QualityReport> {
   const columns = [...new Set(items.flatMap((sq) => columnsUsed(sq, ws)))];
   const version = await dataVersion(ws).catch(() => null);
-  if (version === null) return runChecks(ws, columns, {}, opts.onQuery);
+  if (version === null) return runChecks(ws, columns, { duplicates: duplicateCount(ws) }, opts.onQuery);
   const key = entryKey(version, checkDefinition(ws));
   const file = qualityCacheFile(ws.config, ws.dataset);
   const cached = await readEntry(file, key);
   const known = new Set(cached?.nulls.map((n) => n.column));
   const missing = columns.filter((c) => !known.has(c));
   if (cached && missing.length === 0) return reportFor(cached, columns);
-  const fresh = await runChecks(ws, missing, { duplicates: cached === null }, opts.onQuery);
+  const fresh = await runChecks(ws, missing, { duplicates: cached === null ? duplicateCount(ws) : 'none' }, opts.onQuery);
   const entry: QualityEntry = cached
     ? { ...cached, nulls: [...cached.nulls, ...fresh.nulls.map(({ column, count }) => ({ column, count }))] }
     : { key, rows: fresh.rows, lastDate: fresh.lastDate, duplicateKeys: fresh.duplicateKeys, negatives: fresh.negatives, nulls: fresh.nulls.map(({ column, count }) => ({ column, count })) };
@@ -62,8 +62,27 @@ async function runChecks(ws: Workspace, columns: string[], opts: QualityCheckOpt
 
 /** The check over every column the catalog names, as SQL: a change to the dataset's config or to the check changes it. */
 function checkDefinition(ws: Workspace): string {
-  const q = compileQualityChecks(ws.context, [...catalogColumns(ws.dataset)].sort())[0]!;
-  return JSON.stringify([ws.context.timeColumnType, q.sql, q.params]);
+  const qs = compileQualityChecks(ws.context, [...catalogColumns(ws.dataset)].sort(), { duplicates: duplicateCount(ws) });
+  return JSON.stringify([ws.context.timeColumnType, qs.map((q) => [q.sql, q.params])]);
+}
+
+/**
+ * How repeated keys are counted for this dataset (config `quality.duplicate_keys`): on a table
+ * larger than `full_key_count_max_rows` rows, `auto` counts a fixed 1-in-16 sample of keys, since
+ * the full count groups every key of the table (and on a table sharded by date, fetches them all).
+ */
+export function duplicateCount(ws: Workspace): DuplicateCount {
+  const settings = ws.dataset.quality ?? { duplicate_keys: 'auto', full_key_count_max_rows: 20_000_000 };
+  switch (settings.duplicate_keys) {
+    case 'full':
+      return 'full';
+    case 'sampled':
+      return 'sampled';
+    case 'off':
+      return 'none';
+    case 'auto':
+      return ws.coverage.rows > settings.full_key_count_max_rows ? 'sampled' : 'full';
+  }
 }
 
 /** The report a fresh check of `columns` gives, from the kept parts: the same columns, in the same order. */

@@ -21,7 +21,12 @@ export function qualityCaveats(report: QualityReport, columnsUsed: string[], opt
     if (used.has(n.column) && n.count > 0) caveats.push({ code: 'null_share', data: { column: n.column, share: n.share, count: n.count } });
   }
   const dup = report.duplicateKeys;
-  if (dup && dup.extraRows > 0) caveats.push({ code: 'duplicate_keys', data: { count: dup.extraRows, column: dup.column, keys: dup.keys } });
+  if (dup && dup.extraRows > 0) {
+    // A count over a sample of keys is an estimate, and the caveat says so.
+    const data: Caveat['data'] = { count: dup.extraRows, column: dup.column, keys: dup.keys };
+    if (dup.sampledOneIn > 1) data.sampledOneIn = dup.sampledOneIn;
+    caveats.push({ code: 'duplicate_keys', data });
+  }
   for (const n of report.negatives) {
     if (used.has(n.column) && n.count > 0) caveats.push({ code: 'negative_amounts', data: { count: n.count, column: n.column } });
   }

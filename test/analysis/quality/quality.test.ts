@@ -1,9 +1,10 @@
 // Data-quality checks: pure compilation and caveat choice, then the demo's planted warts
 // (invented data) against an independent reduction in plain JavaScript over raw rows.
+import { createHash } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { CompileContext } from '../../../analysis/compile-context.js';
 import { qualityCaveats, daysSince } from '../../../analysis/quality/quality-caveats.js';
-import { compileQualityChecks, QUALITY_QUERY, type QualityReport, readQuality } from '../../../analysis/quality/quality-checks.js';
+import { compileQualityChecks, DUPLICATES_QUERY, QUALITY_QUERY, type QualityReport, readQuality } from '../../../analysis/quality/quality-checks.js';
 import { seriesOutliers } from '../../../analysis/quality/series-outliers.js';
 import { duckdbDialect } from '../../../analysis/sql/dialect.js';
 import { compileSeries, readSeries } from '../../../analysis/templates/series.js';
@@ -17,20 +18,30 @@ import { monthOf, rawBookings, type RawBooking } from '../templates/kpi-raw-rows
 const ctx: CompileContext = { dataset: exampleDataset, dialect: duckdbDialect, timeColumnType: 'date' };
 
 describe('compileQualityChecks', () => {
-  it('is one query with identifiers quoted and the amount threshold bound', () => {
+  it('counts by day first, with identifiers quoted and the amount threshold bound, and repeated keys in a query of their own', () => {
     const qs = compileQualityChecks(ctx, ['channel', 'fare_total', 'channel']);
-    expect(qs).toHaveLength(1);
+    expect(qs.map((q) => q.name)).toEqual([QUALITY_QUERY, DUPLICATES_QUERY]);
     const q = qs[0]!;
-    expect(q.name).toBe(QUALITY_QUERY);
-    expect(q.sql).toContain('COUNT(*) FILTER (WHERE "channel" IS NULL)');
-    expect(q.sql).toContain('"nulls__channel"');
-    // Each column once, even when asked twice.
-    expect(q.sql.match(/"nulls__channel"/g)).toHaveLength(1);
+    expect(q.sql).toContain('COUNT(*) FILTER (WHERE "channel" IS NULL) AS "nulls__channel"');
+    // Each column once, even when asked twice (once per day, once in the total).
+    expect(q.sql.match(/AS "nulls__channel"/g)).toHaveLength(2);
     expect(q.sql).toContain('COUNT(*) FILTER (WHERE "fare_total" < $1)');
     expect(q.sql).toContain('COUNT(*) FILTER (WHERE "refund_amount" < $2)');
-    expect(q.sql).toContain('GROUP BY "booking_id"');
-    expect(q.sql).toContain('MAX("sail_date") AS last_date');
-    expect(q.params).toEqual([0, 0, 1, 1, 0]);
+    // One row per day from the table, then added up: the table's own column, no function of it.
+    expect(q.sql).toMatch(/SELECT "sail_date" AS "tc_day",[\s\S]*FROM "bookings"\n\s*GROUP BY 1\n\) tc_days$/);
+    expect(q.sql).toContain('MAX("tc_day") AS last_date');
+    expect(q.params).toEqual([0, 0]);
+    const dup = qs[1]!;
+    expect(dup.sql).toContain('GROUP BY "booking_id"');
+    expect(dup.sql).not.toContain('md5');
+    expect(dup.params).toEqual([1, 0, 1, 1]);
+  });
+
+  it('counts repeated keys over a 1-in-16 sample of keys when asked, and not at all for none', () => {
+    const [, dup] = compileQualityChecks(ctx, ['channel'], { duplicates: 'sampled' });
+    expect(dup!.sql).toContain('AND substr(md5(CAST("booking_id" AS VARCHAR)), 1, 1) = $4');
+    expect(dup!.params).toEqual([1, 0, 16, '0', 1]);
+    expect(compileQualityChecks(ctx, ['channel'], { duplicates: 'none' }).map((q) => q.name)).toEqual([QUALITY_QUERY]);
   });
 
   it('refuses columns the catalog does not name', () => {
@@ -40,8 +51,8 @@ describe('compileQualityChecks', () => {
 
   it('leaves out the duplicate check when the dataset has no key column', () => {
     const { key_column: _omit, ...rest } = exampleDataset;
-    const q = compileQualityChecks({ ...ctx, dataset: rest }, ['channel'])[0]!;
-    expect(q.sql).not.toContain('duplicates');
+    const qs = compileQualityChecks({ ...ctx, dataset: rest }, ['channel']);
+    expect(qs.map((q) => q.name)).toEqual([QUALITY_QUERY]);
   });
 });
 
@@ -53,7 +64,7 @@ describe('qualityCaveats', () => {
       { column: 'route', count: 0, share: 0 },
       { column: 'fare_total', count: 2, share: 0.002 },
     ],
-    duplicateKeys: { column: 'booking_id', keys: 4, extraRows: 5 },
+    duplicateKeys: { column: 'booking_id', keys: 4, extraRows: 5, sampledOneIn: 1 },
     negatives: [
       { column: 'fare_total', count: 7 },
       { column: 'refund_amount', count: 1 },
@@ -83,7 +94,7 @@ describe('qualityCaveats', () => {
   });
 
   it('says nothing about a clean table', () => {
-    const clean: QualityReport = { rows: 10, nulls: [{ column: 'channel', count: 0, share: 0 }], duplicateKeys: { column: 'booking_id', keys: 0, extraRows: 0 }, negatives: [], lastDate: '2025-06-18' };
+    const clean: QualityReport = { rows: 10, nulls: [{ column: 'channel', count: 0, share: 0 }], duplicateKeys: { column: 'booking_id', keys: 0, extraRows: 0, sampledOneIn: 1 }, negatives: [], lastDate: '2025-06-18' };
     expect(qualityCaveats(clean, ['channel'], opts)).toEqual([]);
   });
 });
@@ -140,9 +151,24 @@ describe('quality checks on the demo', () => {
     const counts = new Map<string, number>();
     for (const r of raw) if (r.booking_id !== null) counts.set(r.booking_id, (counts.get(r.booking_id) ?? 0) + 1);
     const repeated = [...counts.values()].filter((c) => c > 1);
-    expect(report.duplicateKeys).toEqual({ column: 'booking_id', keys: repeated.length, extraRows: repeated.reduce((s, c) => s + c - 1, 0) });
+    expect(report.duplicateKeys).toEqual({ column: 'booking_id', keys: repeated.length, extraRows: repeated.reduce((s, c) => s + c - 1, 0), sampledOneIn: 1 });
     expect(report.duplicateKeys!.extraRows).toBeGreaterThanOrEqual(20);
     expect(report.duplicateKeys!.extraRows).toBeLessThanOrEqual(100);
+  });
+
+  it('counts them over the keys whose md5 starts with 0 when sampled, scaled by 16 (md5 from node:crypto)', async () => {
+    const tables: Record<string, ResultTable> = {};
+    for (const q of compileQualityChecks(ws.context, ['channel'], { duplicates: 'sampled' })) tables[q.name] = await ws.source.run(q, ws.runOptions);
+    const sampled = readQuality(tables, ws).duplicateKeys!;
+    const counts = new Map<string, number>();
+    for (const r of raw) {
+      if (r.booking_id !== null && createHash('md5').update(r.booking_id).digest('hex').startsWith('0')) counts.set(r.booking_id, (counts.get(r.booking_id) ?? 0) + 1);
+    }
+    const repeated = [...counts.values()].filter((c) => c > 1);
+    // Not vacuous: the sample holds about a sixteenth of the keys.
+    expect(counts.size).toBeGreaterThan(raw.length / 20);
+    expect(counts.size).toBeLessThan(raw.length / 13);
+    expect(sampled).toEqual({ column: 'booking_id', keys: 16 * repeated.length, extraRows: 16 * repeated.reduce((s, c) => s + c - 1, 0), sampledOneIn: 16 });
   });
 
   it('counts negative fares exactly (demo scenario: a handful)', () => {
