@@ -2,7 +2,8 @@
 import type { DatasetConfig } from '../config/schema.js';
 import { type LoadedConfig, resolveSourcePath } from '../config/load.js';
 import type { CompileContext } from './compile-context.js';
-import { type Coverage, readDataCoverage } from './coverage.js';
+import type { Coverage } from './coverage.js';
+import { keptCoverage } from './quality/kept-coverage.js';
 import { SourceError, timeColumnTypeOf, type DataSource, type RunOptions, type TableColumn } from './sources/data-source.js';
 import type { TimeColumnType } from './sql/dialect.js';
 import { DuckDbSource } from './sources/duckdb-source.js';
@@ -27,7 +28,7 @@ export async function openWorkspace(config: LoadedConfig, datasetName?: string, 
     const timeColumnType = computedTimeColumn(dataset) ? 'date' : timeColumnTypeIn(dataset, columns);
     const context: CompileContext = { dataset, dialect: source.dialect, timeColumnType };
     const runOptions: RunOptions = { maxRows: config.engine.max_result_rows, timeoutMs: config.engine.statement_timeout_ms };
-    const coverage = await readDataCoverage(source, context, runOptions);
+    const coverage = await keptCoverage({ config, dataset, source, context, runOptions });
     return { config, dataset, source, context, coverage, runOptions };
   } catch (err) {
     await source.close();
@@ -67,7 +68,7 @@ export async function openSource(config: LoadedConfig, dataset: DatasetConfig, s
   });
 }
 
-/** Re-reads what the data covers (for "rerun with fresh data"). */
+/** Re-reads what the data covers (for "rerun with fresh data"); kept per version of the data, so unchanged data is not read again. */
 export async function refreshCoverage(ws: Workspace): Promise<void> {
-  ws.coverage = await readDataCoverage(ws.source, ws.context, ws.runOptions);
+  ws.coverage = await keptCoverage(ws);
 }

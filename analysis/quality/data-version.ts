@@ -1,26 +1,22 @@
-// Which version of the data a quality report describes, so the report can be reused while the
-// data has not changed. For files (DuckDB, CSV, Parquet) the version is each file's identity:
-// path, device, inode, size, and modification and status-change times in nanoseconds. Any
-// rewrite, in place or by replacing the file, changes at least one of them.
-//
-// PostgreSQL gets no version, so its checks always run. Nothing cheap is sound there: the
-// per-table counters in pg_stat_user_tables reach the view only after a delay (a backend
-// reports its counts some time after commit), stay at zero on a read replica, restart from
-// zero after pg_stat_reset or crash recovery, and do not exist for views; the WAL position is
-// exact on a primary but moves with every write anywhere in the cluster (reads that set hint
-// bits included), so it would almost never match. The check runs inside the warehouse, so it
-// costs our process neither memory nor CPU.
+// Which version of the data a quality report (and the coverage) describes, so it can be reused
+// while the data has not changed. For files (DuckDB, CSV, Parquet) the version is each file's
+// identity: path, device, inode, size, and modification and status-change times in nanoseconds.
+// Any rewrite, in place or by replacing the file, changes at least one of them. For PostgreSQL it
+// is read from the server's catalog and statistics (postgres-version.ts), when they give a sound
+// signal for the table; otherwise there is none and the checks run every time (they count by day
+// inside the warehouse, so they cost our process neither memory nor CPU).
 import { readdir, stat } from 'node:fs/promises';
 import { resolveSourcePath } from '../../config/load.js';
 import type { Workspace } from '../workspace.js';
+import { postgresVersion, type VersionSource } from './postgres-version.js';
 
 /** A file's identity, or that it is absent (a DuckDB write-ahead log usually is). */
 export type FileIdentity = { path: string; absent: true } | { path: string; dev: string; ino: string; size: string; mtimeNs: string; ctimeNs: string };
 
-/** The data's version as text, or null when it cannot be told (PostgreSQL, a file that cannot be read). */
-export async function dataVersion(ws: Workspace): Promise<string | null> {
+/** The data's version as text, or null when it cannot be told (a file that cannot be read, a table with no sound signal). */
+export async function dataVersion(ws: VersionSource & Pick<Workspace, 'config'>): Promise<string | null> {
   const src = ws.dataset.source;
-  if (src.kind === 'postgres') return null;
+  if (src.kind === 'postgres') return postgresVersion(ws);
   const paths = (src.kind === 'duckdb' ? [src.path] : src.paths).map((p) => resolveSourcePath(ws.config, p));
   // A DuckDB file's write-ahead log holds changes not yet written into the file itself.
   const logs = src.kind === 'duckdb' ? paths.map((p) => `${p}.wal`) : [];

@@ -8,10 +8,11 @@ import { dirname, join, resolve } from 'node:path';
 import { z } from 'zod';
 import type { LoadedConfig } from '../../config/load.js';
 import type { DatasetConfig } from '../../config/schema.js';
+import type { StampGranularity } from '../stamps.js';
 import type { QualityReport } from './quality-checks.js';
 
 // Raise when the entry's layout or meaning changes, so older files read as nothing.
-const FORMAT = 1;
+const FORMAT = 2;
 
 /** What is kept for one version of the data: the report's parts, with missing values per column checked so far. */
 export interface QualityEntry {
@@ -30,7 +31,7 @@ const entrySchema = z.object({
   key: z.string().min(1),
   rows: count,
   lastDate: z.string().regex(/^\d{4}-\d{2}-\d{2}$/).nullable(),
-  duplicateKeys: z.object({ column: z.string(), keys: count, extraRows: count }).nullable(),
+  duplicateKeys: z.object({ column: z.string(), keys: count, extraRows: count, sampledOneIn: z.number().int().min(1) }).nullable(),
   negatives: z.array(z.object({ column: z.string(), count })),
   nulls: z.array(z.object({ column: z.string(), count })),
 });
@@ -42,8 +43,16 @@ export function qualityCacheDir(config: LoadedConfig): string {
 
 /** One file per dataset and source, so a new version of the data replaces the old entry. */
 export function qualityCacheFile(config: LoadedConfig, dataset: DatasetConfig): string {
-  const name = createHash('sha256').update(JSON.stringify([dataset.name, dataset.source])).digest('hex').slice(0, 24);
-  return join(qualityCacheDir(config), `${name}.json`);
+  return join(qualityCacheDir(config), `${datasetFileStem(dataset)}.json`);
+}
+
+/** The dataset's coverage (first and last day, rows), kept beside its quality report. */
+export function coverageCacheFile(config: LoadedConfig, dataset: DatasetConfig): string {
+  return join(qualityCacheDir(config), `${datasetFileStem(dataset)}.coverage.json`);
+}
+
+function datasetFileStem(dataset: DatasetConfig): string {
+  return createHash('sha256').update(JSON.stringify([dataset.name, dataset.source])).digest('hex').slice(0, 24);
 }
 
 export function entryKey(version: string, definition: string): string {
@@ -52,8 +61,35 @@ export function entryKey(version: string, definition: string): string {
 
 /** The entry stored under `key`, or null for anything else. */
 export async function readEntry(file: string, key: string): Promise<QualityEntry | null> {
+  return readKept(file, key, entrySchema);
+}
+
+/** What is kept of the coverage for one version of the data. */
+export interface CoverageEntry {
+  key: string;
+  firstDate: string | null;
+  lastDate: string | null;
+  rows: number;
+  stamps?: StampGranularity;
+}
+
+const day = z.string().regex(/^\d{4}-\d{2}-\d{2}$/).nullable();
+const coverageSchema = z.object({
+  format: z.literal(FORMAT),
+  key: z.string().min(1),
+  firstDate: day,
+  lastDate: day,
+  rows: count,
+  stamps: z.enum(['daily', 'weekly', 'monthly', 'quarterly', 'yearly', 'irregular'] satisfies StampGranularity[]).optional(),
+});
+
+export async function readCoverageEntry(file: string, key: string): Promise<CoverageEntry | null> {
+  return readKept(file, key, coverageSchema);
+}
+
+async function readKept<T extends { format: number; key: string }>(file: string, key: string, schema: z.ZodType<T>): Promise<Omit<T, 'format'> | null> {
   try {
-    const parsed = entrySchema.safeParse(JSON.parse(await readFile(file, 'utf8')));
+    const parsed = schema.safeParse(JSON.parse(await readFile(file, 'utf8')));
     if (!parsed.success || parsed.data.key !== key) return null;
     const { format: _format, ...entry } = parsed.data;
     return entry;
@@ -63,7 +99,7 @@ export async function readEntry(file: string, key: string): Promise<QualityEntry
 }
 
 /** Writes the entry whole or not at all (a temporary file renamed over the old one). */
-export async function writeEntry(file: string, entry: QualityEntry): Promise<void> {
+export async function writeEntry(file: string, entry: QualityEntry | CoverageEntry): Promise<void> {
   const temporary = `${file}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`;
   try {
     await mkdir(dirname(file), { recursive: true });

@@ -8,14 +8,16 @@ import { DuckDBInstance } from '@duckdb/node-api';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { checkQuality, columnsUsed } from '../../../analysis/quality/check-run.js';
 import { dataVersion } from '../../../analysis/quality/data-version.js';
-import { qualityCacheDir, qualityCacheFile } from '../../../analysis/quality/quality-cache.js';
+import { coverageCacheFile, qualityCacheDir, qualityCacheFile } from '../../../analysis/quality/quality-cache.js';
+import { keptCoverage } from '../../../analysis/quality/kept-coverage.js';
+import { readDataCoverage } from '../../../analysis/coverage.js';
 import { compileQualityChecks, readQuality, type QualityReport } from '../../../analysis/quality/quality-checks.js';
 import type { CompiledQuery, ResultTable, SubQuestion } from '../../../analysis/types.js';
 import { openWorkspace, type Workspace } from '../../../analysis/workspace.js';
 import { loadConfig } from '../../../config/load.js';
 import { DEMO_CONFIG_FILE, DEMO_DATABASE_FILE } from '../../../config/demo/generate-demo.js';
 import { demoFixture } from '../../helpers/demo-fixture.js';
-import { copyDuckDbTableToPostgres, describeWithPostgres, dropSchema, onPostgres, uniqueName } from '../../helpers/postgres.js';
+import { copyDuckDbTableToPostgres, describeWithPostgres, dropSchema, onPostgres, uniqueName, withClient } from '../../helpers/postgres.js';
 
 const WINDOW = { start: '2022-01-01', end: '2025-06-19' };
 const base: Omit<SubQuestion, 'id' | 'metrics'> = { kind: 'trend', lens: 'time_pattern', template: 'series', grain: 'month', window: WINDOW, filters: [] };
@@ -107,7 +109,8 @@ describe('the quality report cache on the demo', () => {
   it('reuses the report in a newly opened workspace: the same report as a fresh check, and no query', async () => {
     const first = recorded(await open(copy.configPath));
     const report = await checkQuality(PLAN, first.ws);
-    expect(first.queries).toHaveLength(1);
+    // The counts by day and the repeated-key count.
+    expect(first.queries).toHaveLength(2);
     expect(report).toEqual(await freshReport(first.ws, PLAN));
     expect(existsSync(qualityCacheFile(first.ws.config, first.ws.dataset))).toBe(true);
     // The planted warts are there (demo scenario), so the comparison is not of empty reports.
@@ -118,6 +121,11 @@ describe('the quality report cache on the demo', () => {
     const again = await checkQuality(PLAN, second.ws);
     expect(second.queries).toHaveLength(0);
     expect(again).toEqual(await freshReport(second.ws, PLAN));
+    // The coverage is kept beside it: read again, it costs no query and gives what a fresh read gives.
+    const coverage = recorded(second.ws);
+    expect(await keptCoverage(coverage.ws)).toEqual(await readDataCoverage(second.ws.source, second.ws.context, second.ws.runOptions));
+    expect(coverage.queries).toHaveLength(0);
+    expect(existsSync(coverageCacheFile(second.ws.config, second.ws.dataset))).toBe(true);
   });
 
   it('checks only the columns not yet checked for this version, without counting repeated keys again', async () => {
@@ -127,7 +135,7 @@ describe('the quality report cache on the demo', () => {
     const report = await checkQuality(OTHER_PLAN, ws);
     const added = queries.slice(before);
     expect(added).toHaveLength(1);
-    expect(added[0]!.sql).not.toMatch(/GROUP BY/);
+    expect(added[0]!.sql).not.toContain('"booking_id"');
     expect(added[0]!.sql).toContain('"nulls__route"');
     expect(added[0]!.sql).not.toContain('"nulls__channel"');
     expect(report).toEqual(await freshReport(ws, OTHER_PLAN));
@@ -135,7 +143,7 @@ describe('the quality report cache on the demo', () => {
     const n = queries.length;
     expect(await checkQuality(OTHER_PLAN, ws)).toEqual(await freshReport(ws, OTHER_PLAN));
     expect(await checkQuality(PLAN, ws)).toEqual(await freshReport(ws, PLAN));
-    expect(queries.length).toBe(n + 2); // the two fresh reports' own queries, nothing else
+    expect(queries.length).toBe(n + 4); // the two fresh reports' own queries (two each), nothing else
   });
 
   it('checks again after the data file is rewritten, in place and with more rows', async () => {
@@ -146,7 +154,7 @@ describe('the quality report cache on the demo', () => {
     await rewrite(copy.databasePath, [NEGATE_A_FARE]);
     const negated = recorded(await open(copy.configPath));
     const afterNegating = await checkQuality(PLAN, negated.ws);
-    expect(negated.queries).toHaveLength(1);
+    expect(negated.queries).toHaveLength(2);
     expect(afterNegating).toEqual(await freshReport(negated.ws, PLAN));
     expect(negatives(afterNegating)).toBe(negatives(old) + 1);
 
@@ -154,7 +162,7 @@ describe('the quality report cache on the demo', () => {
     await rewrite(copy.databasePath, [REPEAT_A_BOOKING]);
     const repeated = recorded(await open(copy.configPath));
     const afterRepeating = await checkQuality(PLAN, repeated.ws);
-    expect(repeated.queries).toHaveLength(1);
+    expect(repeated.queries).toHaveLength(2);
     expect(afterRepeating).toEqual(await freshReport(repeated.ws, PLAN));
     expect(afterRepeating.rows).toBe(old.rows + 1);
     expect(afterRepeating.duplicateKeys!.extraRows).toBe(old.duplicateKeys!.extraRows + 1);
@@ -177,7 +185,7 @@ describe('the quality report cache on the demo', () => {
     const now = recorded(await open(own.configPath));
     expect(await dataVersion(now.ws)).not.toBeNull();
     const report = await checkQuality(PLAN, now.ws);
-    expect(now.queries).toHaveLength(1);
+    expect(now.queries).toHaveLength(2);
     expect(report.rows).toBe(old.rows + 1);
     expect(report).toEqual(await freshReport(now.ws, PLAN));
   });
@@ -191,7 +199,7 @@ describe('the quality report cache on the demo', () => {
       writeFileSync(file, broken);
       const r = recorded(ws);
       const report = await checkQuality(PLAN, r.ws);
-      expect(r.queries).toHaveLength(1);
+      expect(r.queries).toHaveLength(2);
       expect(report).toEqual(await freshReport(ws, PLAN));
       expect(() => JSON.parse(readFileSync(file, 'utf8')) as unknown).not.toThrow();
       const hit = recorded(ws);
@@ -207,7 +215,7 @@ describe('the quality report cache on the demo', () => {
     for (let i = 0; i < 2; i++) {
       const r = recorded(ws);
       expect(await checkQuality(PLAN, r.ws)).toEqual(await freshReport(ws, PLAN));
-      expect(r.queries).toHaveLength(1);
+      expect(r.queries).toHaveLength(2);
     }
   });
 });
@@ -231,7 +239,7 @@ describe('the quality report cache on CSV files', () => {
 
     const first = recorded(await open(own.configPath));
     const old = await checkQuality(PLAN, first.ws);
-    expect(first.queries).toHaveLength(1);
+    expect(first.queries).toHaveLength(2);
     const hit = recorded(first.ws);
     expect(await checkQuality(PLAN, hit.ws)).toEqual(old);
     expect(hit.queries).toHaveLength(0);
@@ -239,33 +247,103 @@ describe('the quality report cache on CSV files', () => {
     await exportCsv([REPEAT_A_BOOKING]);
     const after = recorded(first.ws);
     const report = await checkQuality(PLAN, after.ws);
-    expect(after.queries).toHaveLength(1);
+    expect(after.queries).toHaveLength(2);
     expect(report.rows).toBe(old.rows + 1);
     expect(report).toEqual(await freshReport(first.ws, PLAN));
   });
 });
 
-describeWithPostgres('the quality report on PostgreSQL', (url) => {
+describeWithPostgres('the quality report and coverage on PostgreSQL, kept per version of the table', (url) => {
   const schema = uniqueName('tc_quality_cache');
+  const urlEnv = 'TC_QUALITY_CACHE_PG';
+  const table = `${schema}.bookings`;
   afterAll(async () => {
     await dropSchema(url, schema);
   });
+  // The catalog queries that read the version (never the rows), told apart from the checks.
+  const isVersion = (q: CompiledQuery) => q.sql.includes('to_regclass');
+  const checks = (qs: CompiledQuery[]) => qs.filter((q) => !isVersion(q));
 
-  it('runs the check every time and keeps no file: nothing cheap tells the table changed', async () => {
+  /** Waits until the table's version differs from `before` (a session's counts reach the statistics as it goes idle). */
+  async function changedVersion(ws: Workspace, before: string | null): Promise<string> {
+    for (let i = 0; i < 150; i++) {
+      const now = await dataVersion(ws);
+      if (now !== null && now !== before) return now;
+      await new Promise((r) => setTimeout(r, 100));
+    }
+    throw new Error('the table\'s version did not change within 15 s of the write');
+  }
+
+  it('reuses the report while the write counters stand still, and checks again after an insert and an update', async () => {
     const own = await demoCopy();
     await copyDuckDbTableToPostgres({ duckdbPath: own.databasePath, table: 'bookings', url, schema });
-    const config = onPostgres(loadConfig(own.configPath), 'TC_QUALITY_CACHE_PG', schema);
-    const ws = await openWorkspace(config, undefined, { TC_QUALITY_CACHE_PG: url });
+    const config = onPostgres(loadConfig(own.configPath), urlEnv, schema);
+    const ws = await openWorkspace(config, undefined, { [urlEnv]: url });
     opened.push(ws);
-    expect(await dataVersion(ws)).toBeNull();
     const duck = await open(own.configPath);
-    for (let i = 0; i < 2; i++) {
-      const r = recorded(ws);
-      const report = await checkQuality(PLAN, r.ws);
-      expect(r.queries).toHaveLength(1);
-      // The same counts as DuckDB's on the same rows.
-      expect(report).toEqual(await freshReport(duck, PLAN));
+    const version = await dataVersion(ws);
+    expect(version).not.toBeNull();
+    expect(version).toContain('"signal":"counters"');
+
+    const first = recorded(ws);
+    const report = await checkQuality(PLAN, first.ws);
+    expect(checks(first.queries)).toHaveLength(2);
+    // The same counts as DuckDB's on the same rows.
+    expect(report).toEqual(await freshReport(duck, PLAN));
+    const hit = recorded(ws);
+    expect(await checkQuality(PLAN, hit.ws)).toEqual(report);
+    expect(checks(hit.queries)).toHaveLength(0);
+    expect(hit.queries.length).toBeGreaterThan(0);
+    // The coverage too: kept when the workspace opened, read again without reading a row.
+    const coverage = recorded(ws);
+    expect(await keptCoverage(coverage.ws)).toEqual(ws.coverage);
+    expect(checks(coverage.queries)).toHaveLength(0);
+    expect(ws.coverage).toEqual(duck.coverage);
+
+    await withClient(url, (c) => c.query(`INSERT INTO ${table} SELECT * FROM ${table} WHERE booking_id = (SELECT MIN(booking_id) FROM ${table} WHERE fare_total > 0)`));
+    const afterInsert = await changedVersion(ws, version);
+    const inserted = recorded(ws);
+    const grown = await checkQuality(PLAN, inserted.ws);
+    expect(checks(inserted.queries)).toHaveLength(2);
+    expect(grown.rows).toBe(report.rows + 1);
+    expect(grown.duplicateKeys!.extraRows).toBe(report.duplicateKeys!.extraRows + 1);
+    expect(grown).toEqual(await freshReport(ws, PLAN));
+
+    await withClient(url, (c) => c.query(`UPDATE ${table} SET fare_total = -fare_total WHERE booking_id = (SELECT MAX(booking_id) FROM ${table} WHERE fare_total > 0)`));
+    await changedVersion(ws, afterInsert);
+    const updated = recorded(ws);
+    const negated = await checkQuality(PLAN, updated.ws);
+    expect(checks(updated.queries)).toHaveLength(2);
+    const negatives = (r: QualityReport) => r.negatives.find((n) => n.column === 'fare_total')!.count;
+    expect(negatives(negated)).toBe(negatives(grown) + 1);
+  });
+
+  it('reads the version from a freshness column when the config names one, and sees a newer row', async () => {
+    const own = await demoCopy();
+    const freshSchema = `${schema}_f`;
+    await copyDuckDbTableToPostgres({ duckdbPath: own.databasePath, table: 'bookings', url, schema: freshSchema });
+    try {
+      const base = onPostgres(loadConfig(own.configPath), urlEnv, freshSchema);
+      const config = { ...base, datasets: base.datasets.map((d) => ({ ...d, quality: { duplicate_keys: 'auto' as const, full_key_count_max_rows: 20_000_000, freshness_column: 'booked_at' } })) };
+      const ws = await openWorkspace(config, undefined, { [urlEnv]: url });
+      opened.push(ws);
+      const version = await dataVersion(ws);
+      expect(version).toContain('"signal":"freshness"');
+      const report = await checkQuality(PLAN, ws);
+      const hit = recorded(ws);
+      expect(await checkQuality(PLAN, hit.ws)).toEqual(report);
+      expect(checks(hit.queries)).toHaveLength(0);
+      await withClient(url, (c) =>
+        c.query(`INSERT INTO ${freshSchema}.bookings SELECT * FROM ${freshSchema}.bookings WHERE booking_id = (SELECT MAX(booking_id) FROM ${freshSchema}.bookings)`).then(() =>
+          c.query(`UPDATE ${freshSchema}.bookings SET booked_at = booked_at + INTERVAL '10 years' WHERE ctid = (SELECT MAX(ctid) FROM ${freshSchema}.bookings)`),
+        ),
+      );
+      expect(await dataVersion(ws)).not.toBe(version);
+      const after = recorded(ws);
+      expect((await checkQuality(PLAN, after.ws)).rows).toBe(report.rows + 1);
+      expect(checks(after.queries)).toHaveLength(2);
+    } finally {
+      await dropSchema(url, freshSchema);
     }
-    expect(existsSync(qualityCacheFile(ws.config, ws.dataset))).toBe(false);
   });
 });

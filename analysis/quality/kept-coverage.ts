@@ -1,0 +1,27 @@
+// The dataset's coverage (first and last day, rows), kept per version of the data like the
+// quality report (quality-cache.ts), so opening a dataset whose data has not changed reads no rows.
+import type { CompileContext } from '../compile-context.js';
+import { compileCoverage, type Coverage, readDataCoverage } from '../coverage.js';
+import { compileStamps } from '../stamps.js';
+import type { Workspace } from '../workspace.js';
+import { dataVersion } from './data-version.js';
+import { coverageCacheFile, entryKey, readCoverageEntry, writeEntry } from './quality-cache.js';
+
+export type CoverageSource = Pick<Workspace, 'config' | 'dataset' | 'source' | 'runOptions'> & { context: CompileContext };
+
+export async function keptCoverage(ws: CoverageSource): Promise<Coverage> {
+  const read = () => readDataCoverage(ws.source, ws.context, ws.runOptions);
+  const version = await dataVersion(ws).catch(() => null);
+  if (version === null) return read();
+  const definition = [compileCoverage(ws.context), compileStamps(ws.context)].map((q) => [q.sql, q.params]);
+  const key = entryKey(version, JSON.stringify([ws.context.timeColumnType, definition]));
+  const file = coverageCacheFile(ws.config, ws.dataset);
+  const kept = await readCoverageEntry(file, key);
+  if (kept) return { firstDate: kept.firstDate, lastDate: kept.lastDate, rows: kept.rows, ...(kept.stamps ? { stamps: kept.stamps } : {}) };
+  const coverage = await read();
+  // Kept only if the data kept its version while the queries ran (see check-run.ts).
+  if ((await dataVersion(ws).catch(() => null)) === version) {
+    await writeEntry(file, { key, firstDate: coverage.firstDate, lastDate: coverage.lastDate, rows: coverage.rows, ...(coverage.stamps ? { stamps: coverage.stamps } : {}) });
+  }
+  return coverage;
+}
