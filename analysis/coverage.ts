@@ -5,7 +5,7 @@ import { localDateExpr, tableRef } from './compile-context.js';
 import type { DataSource, RunOptions } from './sources/data-source.js';
 import { QueryBuilder } from './sql/query-builder.js';
 import { addDays, nextPeriod, periodStart } from './periods.js';
-import { compileStamps, readStamps, type StampGranularity } from './stamps.js';
+import { readStamps, stampColumns, stampGaps, type StampGranularity } from './stamps.js';
 import type { CompiledQuery, ResultTable } from './types.js';
 
 export interface Coverage {
@@ -20,20 +20,24 @@ export interface Coverage {
 }
 
 /**
- * Rows counted per local day first, then the first and last day and the total: an engine that
- * sends work to where the data is (a table partitioned or sharded on the time column) counts
- * each day there and returns one row per day.
+ * Rows counted per local day first (an engine that sends work to where the data is, such as a
+ * table partitioned or sharded on the time column, counts each day there and returns one row per
+ * day); then, from those days, the first and last day, the total, and the gaps between the days
+ * that tell how often the data is stamped (analysis/stamps.ts). One statement, one pass.
  */
 export function compileCoverage(ctx: CompileContext): CompiledQuery {
   const q = new QueryBuilder(ctx.dialect);
-  const day = q.ident('tc_day');
-  const rows = q.ident('tc_rows');
-  return q.finish(`SELECT MIN(${day}) AS first_date, MAX(${day}) AS last_date, ${ctx.dialect.toDouble(`SUM(${rows})`)} AS row_count
-FROM (
-  SELECT ${localDateExpr(q, ctx)} AS ${day}, COUNT(*) AS ${rows}
+  const n = (e: string) => ctx.dialect.toDouble(e);
+  return q.finish(`WITH tc_days AS (
+  SELECT ${localDateExpr(q, ctx)} AS tc_d, COUNT(*) AS tc_day_rows
   FROM ${tableRef(q, ctx)}
   GROUP BY 1
-) tc_days`);
+), ${stampGaps('tc_days')}
+SELECT (SELECT MIN(tc_d) FROM tc_days) AS first_date,
+  (SELECT MAX(tc_d) FROM tc_days) AS last_date,
+  (SELECT ${n('SUM(tc_day_rows)')} FROM tc_days) AS row_count,
+  ${stampColumns(ctx.dialect).join(',\n  ')}
+FROM tc_gaps`);
 }
 
 export function readCoverage(table: ResultTable): Coverage {
@@ -47,8 +51,8 @@ export function readCoverage(table: ResultTable): Coverage {
 
 /** The coverage and the stamp granularity, as a workspace keeps them. */
 export async function readDataCoverage(source: DataSource, ctx: CompileContext, options: RunOptions): Promise<Coverage> {
-  const coverage = readCoverage(await source.run(compileCoverage(ctx), options));
-  return { ...coverage, stamps: readStamps(await source.run(compileStamps(ctx), options)) };
+  const table = await source.run(compileCoverage(ctx), options);
+  return { ...readCoverage(table), stamps: readStamps(table) };
 }
 
 /**

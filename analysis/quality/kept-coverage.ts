@@ -2,7 +2,6 @@
 // quality report (quality-cache.ts), so opening a dataset whose data has not changed reads no rows.
 import type { CompileContext } from '../compile-context.js';
 import { compileCoverage, type Coverage, readDataCoverage } from '../coverage.js';
-import { compileStamps } from '../stamps.js';
 import type { Workspace } from '../workspace.js';
 import { dataVersion } from './data-version.js';
 import { coverageCacheFile, entryKey, readCoverageEntry, writeEntry } from './quality-cache.js';
@@ -13,8 +12,8 @@ export async function keptCoverage(ws: CoverageSource): Promise<Coverage> {
   const read = () => readDataCoverage(ws.source, ws.context, ws.runOptions);
   const version = await dataVersion(ws).catch(() => null);
   if (version === null) return read();
-  const definition = [compileCoverage(ws.context), compileStamps(ws.context)].map((q) => [q.sql, q.params]);
-  const key = entryKey(version, JSON.stringify([ws.context.timeColumnType, definition]));
+  const query = compileCoverage(ws.context);
+  const key = entryKey(version, JSON.stringify([ws.context.timeColumnType, query.sql, query.params]));
   const file = coverageCacheFile(ws.config, ws.dataset);
   const kept = await readCoverageEntry(file, key);
   if (kept) return { firstDate: kept.firstDate, lastDate: kept.lastDate, rows: kept.rows, ...(kept.stamps ? { stamps: kept.stamps } : {}) };

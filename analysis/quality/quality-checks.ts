@@ -75,8 +75,8 @@ export function compileQualityChecks(ctx: CompileContext, columns: string[], opt
   const q = new QueryBuilder(ctx.dialect);
   const d = ctx.dialect;
   const day = q.ident('tc_day');
-  const perDay = [`COUNT(*) AS ${q.ident('tc_rows')}`];
-  const totals = [`${d.toDouble(`SUM(${q.ident('tc_rows')})`)} AS row_count`, `MAX(${day}) AS last_date`];
+  const perDay = [`COUNT(*) AS ${q.ident('tc_day_rows')}`];
+  const totals = [`${d.toDouble(`SUM(${q.ident('tc_day_rows')})`)} AS row_count`, `MAX(${day}) AS last_date`];
   const count = (name: string, condition: string) => {
     perDay.push(`COUNT(*) FILTER (WHERE ${condition}) AS ${q.ident(name)}`);
     totals.push(`${d.toDouble(`SUM(${q.ident(name)})`)} AS ${q.ident(name)}`);
