@@ -155,6 +155,11 @@ ORDER BY ordinal_position`,
         'BEGIN TRANSACTION READ ONLY',
         `SET LOCAL statement_timeout = ${timeoutMs}`,
         "SET LOCAL TimeZone = 'UTC'",
+        // Lets a table partitioned on the time column (locally or over postgres_fdw shards)
+        // aggregate each partition on its own, where it lives: every day-level GROUP BY holds the
+        // partition key. Off by default in PostgreSQL for its planning cost; set only where the
+        // server knows the setting, so other engines speaking the protocol are not refused.
+        "SELECT set_config('enable_partitionwise_aggregate', 'on', true) WHERE current_setting('enable_partitionwise_aggregate', true) IS NOT NULL",
         ...(this.schema ? [`SET LOCAL search_path = ${quoteIdentifier(this.schema)}`] : []),
       ];
       await client.query(settings.join('; '));

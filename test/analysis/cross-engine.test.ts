@@ -15,7 +15,10 @@ import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
 import { loadConfig, parseConfigText } from '../../config/load.js';
 import { demoFixture } from '../helpers/demo-fixture.js';
 import { CASES, compareAnswers, differences } from '../helpers/template-cases.js';
-import { copyDuckDbTableToPostgres, createReaderRole, describeWithPostgres, dropSchema, onPostgres, uniqueName, withClient } from '../helpers/postgres.js';
+import { copyDuckDbTableToPostgres, copyDuckDbTableToShards, createReaderRole, describeWithPostgres, describeWithShardedPostgres, dropSchema, dropShardedSchema, onPostgres, uniqueName, withClient } from '../helpers/postgres.js';
+import { explain, foreignScans, rowFetchingScans } from '../helpers/remote-plan.js';
+import { compileCoverage } from '../../analysis/coverage.js';
+import { catalogColumns, compileQualityChecks, DUPLICATES_QUERY } from '../../analysis/quality/quality-checks.js';
 
 it('covers every template in the registry', () => {
   expect([...new Set(CASES.map((c) => c.template))].sort()).toEqual([...TEMPLATE_NAMES].sort());
@@ -95,6 +98,98 @@ describeWithPostgres('DuckDB and PostgreSQL agree on every template', (adminUrl)
       expect(compareAnswers(raw, p)).toEqual([]);
     }, 60_000);
   }
+});
+
+// ---- a sharded PostgreSQL -------------------------------------------------------------------------
+// The coordinator's bookings is range-partitioned by sail_date into yearly partitions, each a
+// postgres_fdw foreign table on one of two shard servers (.ci/postgres.sh). Every template must
+// agree with DuckDB there too; and the statements that sum by day (every rollup statement, the
+// coverage and the quality counts) must be aggregated on the shards: EXPLAIN (VERBOSE) shows each
+// foreign scan's remote SQL with its GROUP BY, so the coordinator fetches aggregated rows only.
+
+const YEARS = ['2023-01-01', '2024-01-01', '2025-01-01'];
+
+describeWithShardedPostgres('DuckDB and a sharded PostgreSQL agree on every template, and the shards aggregate', (servers) => {
+  const schema = uniqueName('tc_shard');
+  const urlEnv = 'TC_SHARDED_URL';
+  let duck: Workspace;
+  let sharded: Workspace;
+  let role: string | undefined;
+  let loaded: Awaited<ReturnType<typeof copyDuckDbTableToShards>>;
+  let fixtureRows = 0;
+
+  beforeAll(async () => {
+    const demo = await demoFixture();
+    fixtureRows = demo.rows;
+    loaded = await copyDuckDbTableToShards({ duckdbPath: demo.databasePath, table: 'bookings', servers, schema, partitionColumn: 'sail_date', boundaries: YEARS });
+    // Read through a SELECT-only role on the coordinator; it reaches the shards as their own read-only role.
+    const reader = await createReaderRole(servers.coordinatorUrl, schema);
+    role = reader.role;
+    const config = loadConfig(demo.configPath);
+    duck = await openWorkspace(config);
+    sharded = await openWorkspace(onPostgres(config, urlEnv, schema), undefined, { [urlEnv]: reader.url });
+  }, 300_000);
+
+  afterAll(async () => {
+    await duck?.source.close();
+    await sharded?.source.close();
+    await dropShardedSchema(servers, schema, role ? [role] : []);
+  });
+
+  it('loads every demo row into partitions on both shards and sees the same coverage', () => {
+    expect(loaded.rows).toBe(fixtureRows);
+    expect(new Set(loaded.partitions.map((p) => p.server)).size).toBe(servers.shards.length);
+    expect(sharded.coverage).toEqual(duck.coverage);
+  });
+
+  for (const sq of CASES) {
+    it(`${sq.template}: ${sq.metrics.join(', ')}${sq.dimension ? ` by ${sq.dimension}` : ''}${sq.filters.length ? ' (filtered)' : ''}`, async () => {
+      const [d, p] = await Promise.all([answerSubQuestion(sq, duck), answerSubQuestion(sq, sharded)]);
+      expect(Object.values(d.tables).some((t) => t.rows.length > 0)).toBe(true);
+      expect(compareAnswers(d, p)).toEqual([]);
+      // Every statement that sums by day is summed on the shards.
+      for (const q of p.queries.filter((x) => x.sql.includes('tc_rollup'))) {
+        const scans = foreignScans(await explain(sharded.source, q, sharded.runOptions));
+        expect(scans.length, q.name).toBeGreaterThan(0);
+        expect(rowFetchingScans(scans), `${sq.template} ${q.name}`).toEqual([]);
+      }
+    }, 120_000);
+  }
+
+  it('aggregates the coverage and the quality counts on the shards, and samples repeated keys there', async () => {
+    const ctx = sharded.context;
+    const statements = [{ name: 'coverage', ...compileCoverage(ctx) }, ...compileQualityChecks(ctx, [...catalogColumns(sharded.dataset)], { duplicates: 'sampled' })];
+    for (const q of statements) {
+      const scans = foreignScans(await explain(sharded.source, q, sharded.runOptions));
+      expect(scans).toHaveLength(loaded.partitions.length);
+      if (q.name === DUPLICATES_QUERY) {
+        // Repeated keys group by the key, which no shard holds whole: each shard sends only its
+        // sampled keys (the sample's condition runs there), not every row.
+        for (const s of scans) expect(s.remoteSql).toMatch(/md5\(\(?"?booking_id"?/);
+        continue;
+      }
+      expect(rowFetchingScans(scans), q.name).toEqual([]);
+    }
+  });
+
+  it('fails a statement that tests a flag with IS TRUE or filters periods with date_trunc: those reach the coordinator as rows', async () => {
+    const sq = CASES.find((c) => c.template === 'kpi_context')!; // refund rate: a flag, by month
+    const [shown] = (await answerSubQuestion(sq, sharded)).queries;
+    expect(rowFetchingScans(foreignScans(await explain(sharded.source, shown!, sharded.runOptions)))).toEqual([]);
+    const isTrue = { ...shown!, sql: shown!.sql.replace('FILTER (WHERE "refunded")', 'FILTER (WHERE "refunded" IS TRUE)') };
+    expect(isTrue.sql).not.toBe(shown!.sql);
+    expect(rowFetchingScans(foreignScans(await explain(sharded.source, isTrue, sharded.runOptions))).length).toBeGreaterThan(0);
+    // The day-level rollup filtered by the month it falls in rather than by a date range.
+    const truncated = {
+      ...shown!,
+      sql: shown!.sql.replace(
+        /WHERE "sail_date" >= CAST\((\$\d+) AS DATE\) AND "sail_date" < CAST\((\$\d+) AS DATE\)\n(\s*)GROUP BY/,
+        `WHERE CAST(date_trunc('month', CAST("sail_date" AS TIMESTAMP)) AS DATE) >= CAST($1 AS DATE) AND CAST(date_trunc('month', CAST("sail_date" AS TIMESTAMP)) AS DATE) < CAST($2 AS DATE)\n$3GROUP BY`,
+      ),
+    };
+    expect(truncated.sql).not.toBe(shown!.sql);
+    expect(rowFetchingScans(foreignScans(await explain(sharded.source, truncated, sharded.runOptions))).length).toBeGreaterThan(0);
+  });
 });
 
 // ---- time columns with and without a zone --------------------------------------------------------

@@ -27,23 +27,119 @@ export function testPostgresUrl(): string | undefined {
  * message saying so, except under CI=true, where the missing server is a failure.
  */
 export function describeWithPostgres(name: string, body: (url: string) => void): void {
-  const url = testPostgresUrl();
-  if (url) {
-    describe(name, () => body(url));
+  describeWithServer(name, testPostgresUrl(), PG_URL_ENV, 'a PostgreSQL superuser URL', body);
+}
+
+function describeWithServer<T>(name: string, found: T | undefined, env: string, what: string, body: (found: T) => void): void {
+  if (found !== undefined) {
+    describe(name, () => body(found));
     return;
   }
   if (process.env.CI === 'true') {
     describe(name, () => {
-      it('has a PostgreSQL server to test against', () => {
-        throw new Error(`${PG_URL_ENV} is not set: .ci/run starts a throwaway PostgreSQL with .ci/postgres.sh and exports it`);
+      it('has the PostgreSQL servers it needs to test against', () => {
+        throw new Error(`${env} is not set: .ci/run starts throwaway PostgreSQL servers with .ci/postgres.sh and exports it`);
       });
     });
     return;
   }
-  console.warn(`[${name}] skipped: set ${PG_URL_ENV} to a PostgreSQL superuser URL to run these tests (.ci/postgres.sh starts one)`);
-  describe.skip(`${name} [skipped: set ${PG_URL_ENV} to a PostgreSQL superuser URL to run these]`, () => {
+  console.warn(`[${name}] skipped: set ${env} to ${what} to run these tests (.ci/postgres.sh starts one)`);
+  describe.skip(`${name} [skipped: set ${env} to ${what} to run these]`, () => {
     it('needs PostgreSQL', () => undefined);
   });
+}
+
+// ---- the sharded layout ----------------------------------------------------------------------
+// .ci/postgres.sh also starts a coordinator and two shard servers: the coordinator reaches each
+// shard through a postgres_fdw foreign server (user mapping for PUBLIC, as the shards' read-only
+// role tc_shard_reader), and tests build a partitioned table on it whose partitions are foreign
+// tables on the shards.
+
+export const PG_SHARDED_URL_ENV = 'THREADCOUNT_TEST_PG_SHARDED_URL';
+export const PG_SHARDS_ENV = 'THREADCOUNT_TEST_PG_SHARDS';
+/** The role on every shard that the coordinator's user mapping logs in as. */
+export const SHARD_READER_ROLE = 'tc_shard_reader';
+
+export interface ShardedServers {
+  /** The coordinator's superuser URL. */
+  coordinatorUrl: string;
+  /** Each shard: its foreign server's name on the coordinator and its own superuser URL. */
+  shards: { server: string; url: string }[];
+}
+
+export function testShardedPostgres(): ShardedServers | undefined {
+  const coordinatorUrl = process.env[PG_SHARDED_URL_ENV];
+  const list = process.env[PG_SHARDS_ENV]?.trim();
+  if (!coordinatorUrl || !list) return undefined;
+  const shards = list.split(/\s+/).map((pair) => {
+    const at = pair.indexOf('=');
+    return { server: pair.slice(0, at), url: pair.slice(at + 1) };
+  });
+  return { coordinatorUrl, shards };
+}
+
+/** A describe block that needs the sharded layout; skipped locally without it, a failure under CI=true. */
+export function describeWithShardedPostgres(name: string, body: (servers: ShardedServers) => void): void {
+  describeWithServer(name, testShardedPostgres(), PG_SHARDED_URL_ENV, `a coordinator's superuser URL (and ${PG_SHARDS_ENV})`, body);
+}
+
+/**
+ * Copies a DuckDB table to the sharded layout: `schema.table` on the coordinator, range-partitioned
+ * on `partitionColumn` at `boundaries` (ascending; the first partition starts at MINVALUE and the
+ * last ends at MAXVALUE), each partition a foreign table on shard i mod n holding
+ * `schema.table_p<i>` there. Each shard's part is loaded straight into the shard with COPY.
+ */
+export async function copyDuckDbTableToShards(opts: {
+  duckdbPath: string;
+  table: string;
+  servers: ShardedServers;
+  schema: string;
+  partitionColumn: string;
+  boundaries: string[];
+}): Promise<{ rows: number; partitions: { name: string; server: string; from: string; to: string }[] }> {
+  const dir = await mkdtemp(join(tmpdir(), 'tc-pg-shard-load-'));
+  const col = quoteIdentifier(opts.partitionColumn);
+  const lows = ['MINVALUE', ...opts.boundaries.map((b) => `'${b}'`)];
+  const highs = [...opts.boundaries.map((b) => `'${b}'`), 'MAXVALUE'];
+  const parts = lows.map((low, i) => {
+    const conds = [...(low === 'MINVALUE' ? [] : [`${col} >= ${low}`]), ...(highs[i] === 'MAXVALUE' ? [] : [`${col} < ${highs[i]}`])];
+    return conds.length ? conds.join(' AND ') : 'TRUE';
+  });
+  const schema = quoteIdentifier(opts.schema);
+  try {
+    const exported = await exportDuckDbTable(opts.duckdbPath, opts.table, dir, parts);
+    const partitions = parts.map((_, i) => ({ name: `${opts.table}_p${i}`, server: opts.servers.shards[i % opts.servers.shards.length]!.server, from: lows[i]!, to: highs[i]! }));
+    for (const [i, p] of partitions.entries()) {
+      const shard = opts.servers.shards.find((s) => s.server === p.server)!;
+      await withClient(shard.url, async (c) => {
+        await loadCsv(c, opts.schema, p.name, exported.columns, exported.files[i]!);
+        await c.query(`GRANT USAGE ON SCHEMA ${schema} TO ${SHARD_READER_ROLE}`);
+        await c.query(`GRANT SELECT ON ${schema}.${quoteIdentifier(p.name)} TO ${SHARD_READER_ROLE}`);
+      });
+    }
+    return await withClient(opts.servers.coordinatorUrl, async (c) => {
+      const parent = `${schema}.${quoteIdentifier(opts.table)}`;
+      await c.query(`CREATE SCHEMA IF NOT EXISTS ${schema}`);
+      await c.query(`CREATE TABLE ${parent} (${columnList(exported.columns)}) PARTITION BY RANGE (${col})`);
+      for (const p of partitions) {
+        await c.query(`CREATE FOREIGN TABLE ${schema}.${quoteIdentifier(p.name)} PARTITION OF ${parent}
+          FOR VALUES FROM (${p.from}) TO (${p.to})
+          SERVER ${quoteIdentifier(p.server)} OPTIONS (schema_name '${opts.schema}', table_name '${p.name}')`);
+      }
+      // Samples each shard's rows for the coordinator's own statistics.
+      await c.query(`ANALYZE ${parent}`);
+      const count = await c.query<{ n: string }>(`SELECT count(*) AS n FROM ${parent}`);
+      return { rows: Number(count.rows[0]!.n), partitions };
+    });
+  } finally {
+    await rm(dir, { recursive: true, force: true });
+  }
+}
+
+/** Removes a schema made by a test from the coordinator and every shard, and the coordinator's reader roles given to it. */
+export async function dropShardedSchema(servers: ShardedServers, schema: string, roles: string[] = []): Promise<void> {
+  await dropSchema(servers.coordinatorUrl, schema, roles);
+  for (const s of servers.shards) await dropSchema(s.url, schema);
 }
 
 /** A fresh name that is safe as a PostgreSQL identifier (lower case, letters, digits, underscore). */
@@ -82,36 +178,57 @@ function postgresTypeOf(duckType: string): string {
   return pgType;
 }
 
+interface ExportedTable {
+  columns: { name: string; type: string }[];
+  /** One CSV file per part, in the order the parts were asked for. */
+  files: string[];
+}
+
+/** Exports a DuckDB table as CSV (one file per `parts` condition, or the whole table), with its column types. */
+async function exportDuckDbTable(duckdbPath: string, table: string, dir: string, parts: string[] = ['TRUE']): Promise<ExportedTable> {
+  const instance = await DuckDBInstance.create(duckdbPath, { access_mode: 'READ_ONLY' });
+  try {
+    const c = await instance.connect();
+    const reader = await c.runAndReadAll('SELECT column_name, data_type FROM information_schema.columns WHERE table_name = $1 ORDER BY ordinal_position', [table]);
+    const columns = reader.getRowObjectsJson().map((r) => ({ name: String(r.column_name), type: String(r.data_type) }));
+    const files: string[] = [];
+    for (const [i, where] of parts.entries()) {
+      const csv = join(dir, `${table}-${i}.csv`);
+      await c.run(`COPY (SELECT * FROM ${quoteIdentifier(table)} WHERE ${where}) TO '${csv.replaceAll("'", "''")}' (FORMAT csv, HEADER true)`);
+      files.push(csv);
+    }
+    c.closeSync();
+    return { columns, files };
+  } finally {
+    instance.closeSync();
+  }
+}
+
+function columnList(columns: ExportedTable['columns']): string {
+  return columns.map((c) => `${quoteIdentifier(c.name)} ${postgresTypeOf(c.type)}`).join(', ');
+}
+
+/** Creates `schema.table` (dropping one of that name) and loads the CSV file into it with COPY ... FROM STDIN. */
+async function loadCsv(client: pg.Client, schema: string, table: string, columns: ExportedTable['columns'], csv: string): Promise<void> {
+  const target = `${quoteIdentifier(schema)}.${quoteIdentifier(table)}`;
+  await client.query(`CREATE SCHEMA IF NOT EXISTS ${quoteIdentifier(schema)}`);
+  await client.query(`DROP TABLE IF EXISTS ${target}`);
+  await client.query(`CREATE TABLE ${target} (${columnList(columns)})`);
+  await pipeline(createReadStream(csv), client.query(copyFrom(`COPY ${target} FROM STDIN WITH (FORMAT csv, HEADER true)`)));
+  await client.query(`ANALYZE ${target}`);
+}
+
 /**
  * Copies a DuckDB table into `schema.table` on PostgreSQL: exported with DuckDB's COPY ... TO
  * (CSV) and loaded with COPY ... FROM STDIN, with each column's type carried over.
  */
 export async function copyDuckDbTableToPostgres(opts: { duckdbPath: string; table: string; url: string; schema: string }): Promise<{ rows: number }> {
   const dir = await mkdtemp(join(tmpdir(), 'tc-pg-load-'));
-  const csv = join(dir, `${opts.table}.csv`);
   try {
-    const instance = await DuckDBInstance.create(opts.duckdbPath, { access_mode: 'READ_ONLY' });
-    let columns: { name: string; type: string }[];
-    try {
-      const c = await instance.connect();
-      const reader = await c.runAndReadAll(
-        'SELECT column_name, data_type FROM information_schema.columns WHERE table_name = $1 ORDER BY ordinal_position',
-        [opts.table],
-      );
-      columns = reader.getRowObjectsJson().map((r) => ({ name: String(r.column_name), type: String(r.data_type) }));
-      await c.run(`COPY ${quoteIdentifier(opts.table)} TO '${csv.replaceAll("'", "''")}' (FORMAT csv, HEADER true)`);
-      c.closeSync();
-    } finally {
-      instance.closeSync();
-    }
-    const target = `${quoteIdentifier(opts.schema)}.${quoteIdentifier(opts.table)}`;
+    const exported = await exportDuckDbTable(opts.duckdbPath, opts.table, dir);
     return await withClient(opts.url, async (client) => {
-      await client.query(`CREATE SCHEMA IF NOT EXISTS ${quoteIdentifier(opts.schema)}`);
-      await client.query(`DROP TABLE IF EXISTS ${target}`);
-      await client.query(`CREATE TABLE ${target} (${columns.map((c) => `${quoteIdentifier(c.name)} ${postgresTypeOf(c.type)}`).join(', ')})`);
-      await pipeline(createReadStream(csv), client.query(copyFrom(`COPY ${target} FROM STDIN WITH (FORMAT csv, HEADER true)`)));
-      await client.query(`ANALYZE ${target}`);
-      const count = await client.query<{ n: string }>(`SELECT count(*) AS n FROM ${target}`);
+      await loadCsv(client, opts.schema, opts.table, exported.columns, exported.files[0]!);
+      const count = await client.query<{ n: string }>(`SELECT count(*) AS n FROM ${quoteIdentifier(opts.schema)}.${quoteIdentifier(opts.table)}`);
       return { rows: Number(count.rows[0]!.n) };
     });
   } finally {
