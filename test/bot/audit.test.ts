@@ -104,14 +104,14 @@ describe('the audit log of a demo conversation', () => {
     expect(posts.every((e) => e.requester === 'maren' && e.channel === 'local')).toBe(true);
   });
 
-  it('logs the run\'s data-quality query before any answer\'s SQL', () => {
+  it('logs the run\'s data-quality queries before any answer\'s SQL', () => {
     const quality = audit.filter((e) => e.kind === 'sql' && e.detail.template === 'quality_check');
-    expect(quality).toHaveLength(1);
-    expect(quality[0]!.detail.subQuestion).toBeNull();
-    // The duplicate-key count over the configured key column is part of it.
-    expect(String(quality[0]!.detail.sql)).toContain('"booking_id"');
+    // The counts by day, and the repeated-key count over the configured key column.
+    expect(quality.map((e) => e.detail.query)).toEqual(['quality', 'quality_keys']);
+    expect(quality.every((e) => e.detail.subQuestion === null)).toBe(true);
+    expect(String(quality[1]!.detail.sql)).toContain('GROUP BY "booking_id"');
     const firstAnswerSql = audit.findIndex((e) => e.kind === 'sql' && e.detail.subQuestion !== null);
-    expect(audit.indexOf(quality[0]!)).toBeLessThan(firstAnswerSql);
+    expect(audit.indexOf(quality[1]!)).toBeLessThan(firstAnswerSql);
   });
 
   it('lists every SQL that ran, equal to the SQL files attached, each before its answer\'s post', () => {
