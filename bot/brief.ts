@@ -18,6 +18,8 @@ export interface Question {
   comparisonGroup?: string;
   /** Asks how often each customer (the group's unit) does something, not a metric total. */
   frequency: boolean;
+  /** Asks for the numbers period by period ("the numbers by month"): the plan opens with the period table. */
+  table?: boolean;
 }
 
 export interface Brief {

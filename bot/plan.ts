@@ -23,7 +23,10 @@ export const MAX_PLAN_ITEMS = 16;
 const LEADERSHIP_MAX_ITEMS = 6;
 const LENS_ORDER: Lens[] = ['time_pattern', 'breakdown', 'summary', 'distribution'];
 
-type Draft = Omit<SubQuestion, 'id'> & { headline: boolean };
+type Draft = Omit<SubQuestion, 'id'> & { headline: boolean; first?: boolean };
+
+/** Metrics side by side in one period table; more are split over several tables so each stays legible. */
+export const MAX_TABLE_METRICS = 4;
 
 export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): Plan {
   const grain: Grain = brief.grain ?? 'month';
@@ -42,6 +45,7 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
     const own = q.dimensions.length > 0 ? q.dimensions : questions.length === 1 || brief.dimensionsAsked ? brief.dimensions : [];
     const dims = own.filter((d) => isBreakdownDimension(ds, d));
     const metrics = q.metrics.length > 0 ? q.metrics : q.frequency ? [plainCountMetric(ds)?.name].filter((m): m is string => !!m) : brief.metrics;
+    addPeriodTables(drafts, q, brief, metrics, grain, focus);
     const before = drafts.length;
     // Kind and lens are the sub-question's own (its declaration in the registry).
     const add = (template: TemplateName, metric: string, headline: boolean, extra: Partial<SubQuestion> = {}, window: DateWindow = all) => {
@@ -99,16 +103,16 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
   // Leadership gets the headline of each question first, and fewer items.
   const leadership = brief.audience === 'leadership';
   const cap = leadership ? LEADERSHIP_MAX_ITEMS : MAX_PLAN_ITEMS;
-  const chosen = leadership ? [...drafts.filter((d) => d.headline), ...drafts.filter((d) => !d.headline)] : drafts;
+  const chosen = [...drafts.filter((d) => d.first), ...(leadership ? [...drafts.filter((d) => d.headline && !d.first), ...drafts.filter((d) => !d.headline)] : drafts.filter((d) => !d.first))];
   const kept = new Set(chosen.slice(0, cap));
-  // Shown grouped under each kind (in the order asked), headline first, then by lens.
+  // Shown grouped under each kind (in the order asked), headline first, then by lens; period tables open the plan.
   const kindOrder = [...new Set(drafts.map((d) => d.kind))];
-  const rank = (d: Draft) => kindOrder.indexOf(d.kind) * 100 + (d.headline ? 0 : 10 + LENS_ORDER.indexOf(d.lens));
+  const rank = (d: Draft) => (d.first ? -1 : kindOrder.indexOf(d.kind) * 100 + (d.headline ? 0 : 10 + LENS_ORDER.indexOf(d.lens)));
   const ordered = [...drafts].sort((a, b) => rank(a) - rank(b));
   const keptOrdered = ordered.filter((d) => kept.has(d));
   const leftOrdered = ordered.filter((d) => !kept.has(d));
   const toSub = (d: Draft, i: number): SubQuestion => {
-    const { headline: _headline, ...sq } = d;
+    const { headline: _headline, first: _first, ...sq } = d;
     return { id: `q${i + 1}`, ...sq };
   };
   return {
@@ -117,6 +121,23 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
     notCovered: [...notCovered],
     readings,
   };
+}
+
+/**
+ * The period table opens the plan when a question names two or more metrics and the brief has a
+ * grain, or asks for the numbers period by period: the metrics side by side, split into tables of
+ * at most MAX_TABLE_METRICS. A table already planned for the same metrics and window is not repeated.
+ */
+function addPeriodTables(drafts: Draft[], q: Question, brief: Brief, metrics: string[], grain: Grain, window: DateWindow): void {
+  if (metrics.length === 0 || !(q.table || (metrics.length >= 2 && brief.grain))) return;
+  const count = Math.ceil(metrics.length / MAX_TABLE_METRICS);
+  for (let k = 0; k < count; k++) {
+    const chunk = metrics.slice(Math.round((k * metrics.length) / count), Math.round(((k + 1) * metrics.length) / count));
+    const same = (d: Draft) => d.template === 'period_table' && d.metrics.join() === chunk.join() && d.window.start === window.start && d.window.end === window.end;
+    if (drafts.some(same)) continue;
+    const { kind, lens } = SUB_QUESTIONS.period_table;
+    drafts.push({ kind, lens, template: 'period_table', metrics: chunk, grain, window, filters: [], headline: true, first: true });
+  }
 }
 
 function groupFor(q: Question, brief: Brief, ds: DatasetConfig): ComparisonGroup | undefined {
@@ -184,6 +205,8 @@ export function applyPlanEdit(plan: Plan, edit: PlanEdit): { plan: Plan; error?:
       // One breakdown per question already in the plan (its kind, metric, window and group).
       const heads = new Map<string, SubQuestion>();
       for (const sq of plan.items) {
+        // A period table's metrics each have their own questions; it takes no breakdown itself.
+        if (sq.template === 'period_table') continue;
         const key = `${sq.kind}|${sq.metrics.join(',')}|${sq.comparisonGroup ?? ''}`;
         if (!heads.has(key)) heads.set(key, sq);
       }

@@ -21,6 +21,11 @@ export interface OutgoingPost {
   /** One-click replies a platform may show as buttons (e.g. "go" and "cancel" under the plan). */
   quickReplies?: QuickReply[];
   files?: OutgoingFile[];
+  /**
+   * The answer as monospace text, most detailed first (a table's rows). A platform shows the first
+   * that fits its message limits under the text, or none; the files carry the same in full.
+   */
+  monospace?: string[];
 }
 
 export interface QuickReply {

@@ -27,24 +27,34 @@ export const presentAnswer: AnswerPresenter = async (answer, { workspace, audien
   const stem = `${String(position).padStart(2, '0')}-${sq.template}-${sq.metrics.join('-')}`;
   const files: OutgoingFile[] = [];
   const spec = presented.chart;
-  const chart = spec ? await timePhase(timings, 'render', () => renderChart(spec)) : null;
-  if (chart) files.push({ name: `${stem}.png`, kind: 'chart', content: chart });
+  // A long table comes as pages, each an image of its own: "-p1", "-p2"...
+  const pages = spec ? [spec, ...(presented.moreCharts ?? [])] : [];
+  const pngs = await timePhase(timings, 'render', () => Promise.all(pages.map((p) => renderChart(p))));
+  pngs.forEach((png, i) => files.push({ name: pages.length > 1 ? `${stem}-p${i + 1}.png` : `${stem}.png`, kind: 'chart', content: png }));
+  const chart = pngs[0] ?? null;
   timePhase(timings, 'post', () => {
+    // The reader's table, when the answer has one, is the CSV by the answer's name; the query results sit beside it.
+    if (presented.csv !== undefined) files.push({ name: `${stem}.csv`, kind: 'table', content: presented.csv });
     for (const [name, table] of Object.entries(answer.tables)) {
-      files.push({ name: Object.keys(answer.tables).length === 1 ? `${stem}.csv` : `${stem}-${name}.csv`, kind: 'table', content: tableToCsv(table) });
+      const single = Object.keys(answer.tables).length === 1 && presented.csv === undefined;
+      files.push({ name: single ? `${stem}.csv` : `${stem}-${name}.csv`, kind: 'table', content: tableToCsv(table) });
     }
     files.push({ name: `${stem}.sql`, kind: 'sql', content: sqlForReaders(answer.queries, workspace.source.dialect.name) });
   });
   const text = [`*${position}. ${presented.title}*`, presented.caption, ...presented.notes.map((n) => `_Note: ${n}_`)].join('\n');
-  return { post: { text, files }, takeaway: presented.takeaway, chart, ...(spec ? { chartSpec: spec } : {}) };
+  const post = { text, files, ...(presented.textBlocks?.length ? { monospace: presented.textBlocks } : {}) };
+  // A table's rows do not survive shrinking to a digest thumbnail; its takeaway leads the digest instead.
+  if (spec?.kind === 'period_table') return { post, takeaway: presented.takeaway, chart: null };
+  return { post, takeaway: presented.takeaway, chart, ...(spec ? { chartSpec: spec } : {}) };
 };
 
 export const presentSummary: SummaryPresenter = async (takeaways, { workspace, failures, charts, requestText, timings, items, quality, now }) => {
-  // The most important few, told in the order they were asked.
+  // The most important few, told in the order they were asked; a takeaway that leads (the one
+  // across a table's metrics) comes first.
   const top = [...takeaways]
-    .sort((a, b) => b.importance - a.importance || a.position - b.position)
+    .sort((a, b) => Number(!!b.leads) - Number(!!a.leads) || b.importance - a.importance || a.position - b.position)
     .slice(0, 5)
-    .sort((a, b) => a.position - b.position);
+    .sort((a, b) => Number(!!b.leads) - Number(!!a.leads) || a.position - b.position);
   const lines = top.map((t) => `- ${t.text} (see ${t.position})`);
   const failed = failures > 0 ? `\n${failures} ${failures === 1 ? 'question' : 'questions'} could not be answered; see the messages above.` : '';
   if (lines.length === 0) return { text: `*Summary*\nNo question could be answered; see the messages above.` };

@@ -21,7 +21,14 @@ export function discordMessage(post: OutgoingPost): DiscordMessage {
   if (quick.length) {
     return checkDiscordMessage({ content, components: [{ type: 1, components: quick.map((q) => button('q', q.value, q.label, q.primary ? 'primary' : q.value === 'cancel' ? 'danger' : 'secondary')) }] });
   }
-  return checkDiscordMessage({ content, components: [] });
+  return checkDiscordMessage({ content: withMonospace(content, post.monospace ?? []), components: [] });
+}
+
+/** The content with the first monospace block that still fits Discord's limit as a code block, if any does. */
+function withMonospace(content: string, blocks: string[]): string {
+  // Discord reads no markdown inside a code block, so the block goes in as it is.
+  const fitting = blocks.map((b) => `${content}\n\`\`\`\n${b}\n\`\`\``).find((c) => c.length <= L.content);
+  return fitting ?? content;
 }
 
 function promptRows(p: PromptView): DiscordRow[] {

@@ -25,7 +25,20 @@ export function slackMessage(post: OutgoingPost): SlackMessage {
     const buttons = quick.map((q, i): SlackButton => button(`${ACTION.quick}${i}`, q.label, q.value, q.primary ? 'primary' : undefined));
     return checkSlackMessage({ text, blocks: [...sections(post.text), { type: 'actions', block_id: 'tc.quick', elements: buttons }] });
   }
+  const table = monospaceSection(post);
+  if (table) return checkSlackMessage({ text, blocks: [...sections(post.text), table] });
   return checkSlackMessage({ text });
+}
+
+/** The first of the post's monospace blocks that fits one section as a code block, if any does. */
+function monospaceSection(post: OutgoingPost): SlackBlock | null {
+  if (sections(post.text).length >= L.blocks) return null;
+  for (const block of post.monospace ?? []) {
+    // Inside a code block Slack reads no formatting; only &, < and > still need escaping.
+    const code = `\`\`\`\n${block.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;')}\n\`\`\``;
+    if (code.length <= L.sectionText) return { type: 'section', text: { type: 'mrkdwn', text: code } };
+  }
+  return null;
 }
 
 function promptBlocks(p: PromptView): SlackBlock[] {

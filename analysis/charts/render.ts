@@ -7,6 +7,7 @@ import { drawGrowthGrid } from './draw-growth-grid.js';
 import { drawKpiCard } from './draw-kpi-card.js';
 import { drawLine } from './draw-line.js';
 import { drawPareto } from './draw-pareto.js';
+import { drawPeriodTable } from './draw-period-table.js';
 import { drawSeasonalProfile } from './draw-seasonal-profile.js';
 import { ensureFonts } from './fonts.js';
 import type { ChartGeometry, DrawResult } from './geometry.js';
@@ -70,6 +71,8 @@ function draw(canvas: Canvas, spec: ChartSpec): DrawResult {
       return drawGroupCompare(canvas, spec);
     case 'seasonal_profile':
       return drawSeasonalProfile(canvas, spec);
+    case 'period_table':
+      return drawPeriodTable(canvas, spec);
   }
 }
 

@@ -11,6 +11,7 @@ export const CHART_KINDS = [
   'kpi_card',
   'group_compare',
   'seasonal_profile',
+  'period_table',
 ] as const;
 export type ChartKind = (typeof CHART_KINDS)[number];
 
@@ -230,7 +231,55 @@ export interface SeasonalProfileSpec extends ChartHeader {
   rangeLabel: string;
 }
 
+// ---- period table ---------------------------------------------------------------------
+
+/**
+ * One cell of the period table. A change cell carries `tone`: its place on the diverging scale,
+ * −1 (full "worse" colour) to +1 (full "better"), already signed by the metric's good direction;
+ * null leaves the cell unfilled. `direction` is drawn as an arrow so the cell reads in grey too.
+ */
+export interface TableCell {
+  text: string;
+  tone: number | null;
+  direction: 'up' | 'down' | 'flat' | null;
+  /** The metric's best or worst period: a symbol and an outline as well as the colour. */
+  mark: 'best' | 'worst' | null;
+}
+
+export interface TableColumn {
+  /** Second header line: "EUR", "vs prev. month", "vs a year earlier". */
+  label: string;
+  /** Index into `groups`: the metric the column belongs to. */
+  group: number;
+  role: 'value' | 'change';
+}
+
+export interface TableRow {
+  /** "Jan 2024"; "Total" on the totals row. */
+  label: string;
+  /** Small text under the label: "partial: to 18 Jun". */
+  note: string;
+  kind: 'period' | 'partial' | 'total';
+  /** One per column. */
+  cells: TableCell[];
+}
+
+export interface PeriodTableSpec extends ChartHeader {
+  kind: 'period_table';
+  /** Header of the period column: "Month". */
+  periodLabel: string;
+  /** Metric names over their columns. */
+  groups: string[];
+  columns: TableColumn[];
+  rows: TableRow[];
+  /** Legend words: the colour scale's two ends and the two marks. */
+  legend: { better: string; worse: string; best: string; worst: string; partial: string | null };
+  /** Small print above the footer: what the totals row holds, how a year earlier is found. */
+  notes: string[];
+}
+
 export type ChartSpec =
+  | PeriodTableSpec
   | LineSpec
   | BarsSpec
   | ParetoSpec

@@ -3,5 +3,6 @@ import type { GrowthFinding } from './growth.js';
 import type { KpiFinding } from './kpi.js';
 import type { PerformanceFinding } from './performance.js';
 import type { SegmentFinding } from './segments.js';
+import type { TableFinding } from './table.js';
 
-export type FamilyFinding = GrowthFinding | KpiFinding | PerformanceFinding | SegmentFinding;
+export type FamilyFinding = GrowthFinding | KpiFinding | PerformanceFinding | SegmentFinding | TableFinding;

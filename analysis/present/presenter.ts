@@ -17,6 +17,8 @@ export interface Takeaway {
   /** Higher is more important; the summary lists the top few in this order. */
   importance: number;
   text: string;
+  /** Put first in the summary whatever the rest's importance (the takeaway across a table's metrics). */
+  leads?: boolean;
 }
 
 export interface Presented {
@@ -26,6 +28,15 @@ export interface Presented {
   notes: string[];
   chart: ChartSpec | null;
   takeaway: Takeaway | null;
+  /** Further images of the same answer, posted after `chart` (a long table's later pages). */
+  moreCharts?: ChartSpec[];
+  /** The answer as a reader's table, in CSV, beside the raw query results. */
+  csv?: string;
+  /**
+   * The answer as monospace text, most detailed first: a platform shows the first that fits its
+   * message limits, or none.
+   */
+  textBlocks?: string[];
 }
 
 export type Presenter = (answer: Answer, ctx: PresentContext) => Presented;

@@ -6,7 +6,7 @@ import { addDays, addMonths } from '../periods.js';
 import type { Grain, SubQuestion } from '../types.js';
 
 export interface PlanWords {
-  /** The metric labels, lower case, joined with "and". */
+  /** The metric labels, lower case, as a list: "revenue", "revenue and bookings", "revenue, bookings and average fare". */
   metric: string;
   /** The breakdown dimension's label, lower case ('' when none). */
   dim: string;
@@ -26,7 +26,7 @@ export function planWords(sq: SubQuestion, ds: DatasetConfig, locale: string): P
   const label = (m: string) => ds.metrics.find((x) => x.name === m)?.label ?? m;
   const group = ds.comparison_groups.find((g) => g.name === sq.comparisonGroup);
   return {
-    metric: sq.metrics.map(label).join(' and ').toLowerCase(),
+    metric: listJoin(sq.metrics.map(label)).toLowerCase(),
     dim: (sq.dimension ? ds.dimensions.find((d) => d.name === sq.dimension)?.label ?? sq.dimension : '').toLowerCase(),
     span: `${formatPeriod(sq.window.start, 'month', locale, 'long')} to ${formatPeriod(addDays(sq.window.end, -1), 'month', locale, 'long')}`,
     grain: GRAIN_ADJECTIVE[sq.grain],
@@ -41,4 +41,8 @@ export { capitalise };
 /** A window a year-earlier comparison would overlap. */
 export function longerThanAYear(w: { start: string; end: string }): boolean {
   return addMonths(w.start, 12) < w.end;
+}
+
+function listJoin(xs: readonly string[]): string {
+  return xs.length <= 1 ? (xs[0] ?? '') : `${xs.slice(0, -1).join(', ')} and ${xs[xs.length - 1]}`;
 }

@@ -17,6 +17,7 @@ import { performanceBeforeAfterSubQuestion } from './performance-before-after.js
 import { performanceBySegmentSubQuestion } from './performance-by-segment.js';
 import { performanceCompareSubQuestion } from './performance-compare.js';
 import { performanceFrequencySubQuestion } from './performance-frequency.js';
+import { periodTableSubQuestion } from './period-table.js';
 import { segmentSharesSubQuestion } from './segment-shares.js';
 import { segmentTrendSubQuestion } from './segment-trend.js';
 import { seriesSubQuestion } from './series.js';
@@ -44,6 +45,7 @@ const REGISTERED = [
   kpiContextSubQuestion,
   kpiBySegmentSubQuestion,
   kpiMixSubQuestion,
+  periodTableSubQuestion,
 ] as const;
 
 /** The name of a registered sub-question (its template). */

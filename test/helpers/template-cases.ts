@@ -48,6 +48,9 @@ export const CASES: SubQuestion[] = [
   base({ template: 'kpi_context', kind: 'kpi', lens: 'summary', metrics: ['refund_rate'] }),
   base({ template: 'kpi_by_segment', kind: 'kpi', lens: 'breakdown', dimension: 'route', metrics: ['revenue'] }),
   base({ template: 'kpi_mix', kind: 'kpi', lens: 'distribution', dimension: 'fare_class', metrics: ['passengers'] }),
+  // A window starting mid-month (its first month partial), distinct customers (read from the table).
+  base({ template: 'period_table', kind: 'growth', lens: 'time_pattern', metrics: ['revenue', 'customers', 'average_fare', 'refund_rate'], window: { start: '2023-03-15', end: '2025-07-01' } }),
+  base({ template: 'period_table', kind: 'trend', lens: 'time_pattern', metrics: ['bookings', 'fare_per_passenger', 'refunded_revenue_share'], grain: 'week', window: SUMMER_2024 }),
   base({ template: 'performance_compare', kind: 'performance', lens: 'summary', comparisonGroup: 'skerrypass', window: SINCE_LAUNCH }),
   base({
     template: 'performance_compare',

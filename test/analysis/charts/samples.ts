@@ -6,8 +6,10 @@ import { buildGrowthGrid, type GrowthCell } from '../../../analysis/charts/build
 import { buildKpiCard } from '../../../analysis/charts/build-kpi-card.js';
 import { buildLine } from '../../../analysis/charts/build-line.js';
 import { buildPareto } from '../../../analysis/charts/build-pareto.js';
+import { buildPeriodTablePages, type PeriodTableInput } from '../../../analysis/charts/build-period-table.js';
 import { buildSeasonalProfile, type SeasonalIndex } from '../../../analysis/charts/build-seasonal-profile.js';
-import type { ChartHeader, ChartSpec } from '../../../analysis/charts/spec.js';
+import type { ChartHeader, ChartSpec, PeriodTableSpec } from '../../../analysis/charts/spec.js';
+import type { Metric } from '../../../config/schema.js';
 import type { ValueFormat } from '../../../analysis/format.js';
 import type { PeriodPoint } from '../../../analysis/types.js';
 
@@ -242,6 +244,61 @@ export function seasonalSpec(extra: Partial<ChartHeader> = {}) {
 }
 
 /** One realistic spec per kind, more for line, bars, Pareto and KPI. */
+const TABLE_METRICS: Metric[] = [
+  { name: 'bookings', label: 'Bookings', synonyms: [], definition: { type: 'count' }, unit: 'count', higher_is_better: true },
+  { name: 'revenue', label: 'Revenue', synonyms: [], definition: { type: 'sum', column: 'fare_total' }, unit: 'currency', currency: 'EUR', higher_is_better: true },
+  { name: 'refund_rate', label: 'Refund rate', synonyms: [], definition: { type: 'rate', where: { column: 'refunded', op: 'is_true' } }, unit: 'percent', higher_is_better: false },
+];
+
+/**
+ * Quarterly bookings, revenue and refund rate, Q1 2023 to Q2 2025 (the last quarter partial), as
+ * the period table's input: changes on the quarter before (percent, points for the rate) and on
+ * the same quarter a year earlier, best and worst quarters marked over the complete ones.
+ */
+export function periodTableInput(extra: Partial<ChartHeader> = {}, quarters = 10): PeriodTableInput {
+  const rnd = noise(11);
+  const periods = Array.from({ length: quarters }, (_, i) => `${2023 + Math.floor(i / 4)}-${String((i % 4) * 3 + 1).padStart(2, '0')}-01`);
+  const season = [0.7, 1.05, 1.4, 0.85];
+  const values = periods.map((p, i) => {
+    const q = i % 4;
+    const partial = i === quarters - 1;
+    const bookings = Math.round(15_000 * season[q]! * (1 + 0.04 * rnd()) * (partial ? 0.6 : 1));
+    const revenue = Math.round(bookings * 37.5 * (1 + 0.02 * rnd()));
+    const refund = 0.055 + 0.01 * rnd() + (p === '2024-01-01' ? 0.05 : 0);
+    return { p, partial, v: [bookings, revenue, refund] };
+  });
+  const change = (k: number, base: number | undefined, v: number) => (base === undefined ? null : k === 2 ? v - base : v / base - 1);
+  const complete = values.filter((x) => !x.partial);
+  const marks = TABLE_METRICS.map((m, k) => {
+    const sorted = [...complete].sort((a, b) => a.v[k]! - b.v[k]!);
+    const [low, high] = [sorted[0]!.p, sorted[sorted.length - 1]!.p];
+    return m.higher_is_better ? { best: high, worst: low } : { best: low, worst: high };
+  });
+  return {
+    ...header('Bookings peaked in Q3 2024 at 21.6K; the refund rate spiked in Q1 2024', 'Bookings, revenue and refund rate · quarterly, 1 Jan 2023 to 18 Jun 2025', extra),
+    grain: 'quarter',
+    locale: LOCALE,
+    metrics: TABLE_METRICS.map((metric) => ({ metric, basis: metric.unit === 'percent' ? 'points' : 'percent' })),
+    rows: values.map((x, i) => ({
+      period: x.p,
+      partial: x.partial,
+      note: x.partial ? 'partial, to 18 Jun' : '',
+      cells: x.v.map((v, k) => ({
+        value: v,
+        vsPrevious: x.partial || i === 0 ? null : change(k, values[i - 1]!.v[k], v),
+        vsYearEarlier: x.partial || i < 4 ? null : change(k, values[i - 4]!.v[k], v),
+        mark: x.partial ? null : x.p === marks[k]!.best ? 'best' : x.p === marks[k]!.worst ? 'worst' : null,
+      })),
+    })),
+    total: { label: 'Whole period', values: [values.reduce((a, x) => a + x.v[0]!, 0), values.reduce((a, x) => a + x.v[1]!, 0), 0.061] },
+    notes: ['Changes on the quarter before and on the same quarter a year earlier.', 'Whole period row: bookings and revenue are summed; the refund rate is worked out over the whole period.'],
+  };
+}
+
+export function periodTableSpec(extra: Partial<ChartHeader> = {}): PeriodTableSpec {
+  return buildPeriodTablePages(periodTableInput(extra, 7))[0]!;
+}
+
 export function allSamples(extra: Partial<ChartHeader> = {}): Record<string, ChartSpec> {
   return {
     line: lineSpec(extra),
@@ -256,5 +313,6 @@ export function allSamples(extra: Partial<ChartHeader> = {}): Record<string, Cha
     'kpi-card-rate': kpiRefundSpec(extra),
     'group-compare': groupCompareSpec(extra),
     'seasonal-profile': seasonalSpec(extra),
+    'period-table': periodTableSpec(extra),
   };
 }

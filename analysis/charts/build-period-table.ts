@@ -1,0 +1,199 @@
+// The period table as chart specs: every text formatted, every change cell placed on its column's
+// diverging colour scale, and a long window split into pages of at most PAGE_ROWS periods (whole
+// years together where they fit) rather than shrunk. Pure: the renderer only draws what is here.
+import type { Metric } from '../../config/schema.js';
+import { changeText } from '../captions/period-table-caption.js';
+import type { ChangeBasis, PeriodTableCell } from '../findings/table.js';
+import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
+import type { Grain } from '../types.js';
+import { colourDomain } from './build-growth-grid.js';
+import { headerOf } from './header.js';
+import type { ChartHeader, PeriodTableSpec, TableCell, TableColumn, TableRow } from './spec.js';
+
+/** Periods per image: a year of months and one more, so a page never needs a smaller font. */
+export const PAGE_ROWS = 13;
+
+export interface PeriodTableMetric {
+  metric: Metric;
+  basis: ChangeBasis;
+}
+
+export interface PeriodTableRowInput {
+  period: string;
+  partial: boolean;
+  /** Small text beside a partial period's label ("to 18 Jun"). */
+  note: string;
+  /** One per metric. */
+  cells: PeriodTableCell[];
+}
+
+export interface PeriodTableInput extends ChartHeader {
+  grain: Grain;
+  locale: string;
+  metrics: PeriodTableMetric[];
+  rows: PeriodTableRowInput[];
+  /** The totals row's label and one value per metric; drawn at the end of the last page. */
+  total: { label: string; values: (number | null)[] } | null;
+  notes: string[];
+}
+
+const GRAIN_NOUN: Record<Grain, string> = { day: 'Day', week: 'Week', month: 'Month', quarter: 'Quarter', year: 'Year' };
+const PREVIOUS_LABEL: Record<Grain, string> = { day: 'vs day before', week: 'vs week before', month: 'vs month before', quarter: 'vs quarter before', year: 'vs year before' };
+// Layout estimates at the default size (1200×675, one layout unit), for the image's own size.
+const PERIOD_COLUMN = { day: 150, week: 190, month: 150, quarter: 130, year: 110 } as const;
+const METRIC_WIDTH = 320;
+const ROW_HEIGHT = 36;
+const CHROME_HEIGHT = 345;
+
+export function buildPeriodTablePages(input: PeriodTableInput): PeriodTableSpec[] {
+  const { grain, locale } = input;
+  const valueTexts = input.metrics.map((m, k) => valueTextsOf(m.metric, locale, [...input.rows.map((r) => r.cells[k]?.value ?? null), input.total?.values[k] ?? null]));
+  // One colour scale per change column over the whole window, so a colour means the same on every page.
+  const domains = input.metrics.map((m, k) => ({
+    previous: domainOf(m.basis, input.rows.map((r) => r.cells[k]?.vsPrevious ?? null)),
+    yearEarlier: domainOf(m.basis, input.rows.map((r) => r.cells[k]?.vsYearEarlier ?? null)),
+  }));
+  const columns: TableColumn[] = input.metrics.flatMap((m, k): TableColumn[] => [
+    { label: m.metric.unit === 'currency' && m.metric.currency ? m.metric.currency : 'value', group: k, role: 'value' },
+    { label: PREVIOUS_LABEL[grain], group: k, role: 'change' },
+    { label: grain === 'day' ? 'vs 52 weeks before' : 'vs a year earlier', group: k, role: 'change' },
+  ]);
+  const rows: TableRow[] = input.rows.map((r, i) => ({
+    label: formatPeriod(r.period, grain, locale),
+    note: r.note,
+    kind: r.partial ? 'partial' : 'period',
+    cells: input.metrics.flatMap((m, k) => {
+      const c = r.cells[k]!;
+      const tone = (change: number | null, domain: number) => (r.partial ? null : changeCell(change, m, domain, locale));
+      return [
+        { text: valueTexts[k]![i]!, tone: null, direction: null, mark: r.partial ? null : c.mark },
+        tone(c.vsPrevious, domains[k]!.previous) ?? blank(r.partial),
+        tone(c.vsYearEarlier, domains[k]!.yearEarlier) ?? blank(r.partial),
+      ];
+    }),
+  }));
+  const totalRow: TableRow | null = input.total
+    ? {
+        label: input.total.label,
+        note: '',
+        kind: 'total',
+        cells: input.metrics.flatMap((_, k) => [{ text: valueTexts[k]![input.rows.length]!, tone: null, direction: null, mark: null }, blank(false), blank(false)]),
+      }
+    : null;
+  const pages = pageRows(input.rows.map((r) => r.period), grain);
+  const width = Math.max(input.width, Math.round(64 + PERIOD_COLUMN[grain] + METRIC_WIDTH * input.metrics.length));
+  const anyPartial = input.rows.some((r) => r.partial);
+  const noun = GRAIN_NOUN[grain].toLowerCase();
+  return pages.map((range, p) => {
+    const last = p === pages.length - 1;
+    const pageRowsShown = [...rows.slice(range.from, range.to), ...(last && totalRow ? [totalRow] : [])];
+    const height = Math.max(input.height, CHROME_HEIGHT + ROW_HEIGHT * (Math.min(PAGE_ROWS, maxPageLength(pages)) + (totalRow ? 1 : 0)));
+    const pageNote =
+      pages.length > 1
+        ? `Page ${p + 1} of ${pages.length}: ${formatPeriod(input.rows[range.from]!.period, grain, locale)} to ${formatPeriod(input.rows[range.to - 1]!.period, grain, locale)}${last ? '' : totalRow ? `; the ${input.total!.label.toLowerCase()} row is on page ${pages.length}` : ''}`
+        : '';
+    return {
+      kind: 'period_table',
+      ...headerOf({ ...input, width, height }),
+      subtitle: pageNote ? `${pageNote} · ${input.subtitle}` : input.subtitle,
+      periodLabel: GRAIN_NOUN[grain],
+      groups: input.metrics.map((m) => m.metric.label),
+      columns,
+      rows: pageRowsShown,
+      legend: {
+        better: 'better',
+        worse: 'worse',
+        best: `best ${noun}`,
+        worst: `worst ${noun}`,
+        partial: anyPartial ? `partial ${noun}: not ranked or compared` : null,
+      },
+      notes: [...input.notes],
+    };
+  });
+}
+
+function blank(partial: boolean): TableCell {
+  return { text: partial ? '–' : '', tone: null, direction: null, mark: null };
+}
+
+function changeCell(change: number | null, m: PeriodTableMetric, domain: number, locale: string): TableCell {
+  const { text, direction } = changeText(change, m.basis, m.metric, locale, false);
+  if (direction === 'none') return { text, tone: null, direction: null, mark: null };
+  const size = Math.max(-1, Math.min(1, change! / domain));
+  const tone = direction === 'flat' ? 0 : m.metric.higher_is_better ? size : -size;
+  return { text, tone: tone === 0 ? 0 : tone, direction, mark: null };
+}
+
+/** Full figures where the longest fits a table cell; about three significant figures otherwise. */
+function valueTextsOf(metric: Metric, locale: string, values: (number | null)[]): string[] {
+  const fmt = valueFormatOf(metric, locale);
+  const full = values.map((v) => (v === null ? 'n/a' : formatValue(v, fmt)));
+  return full.some((t) => t.length > 10) ? values.map((v) => (v === null ? 'n/a' : formatValue(v, fmt, { compact: true }))) : full;
+}
+
+/**
+ * The colour scale's half-width for one change column: for fractions (percent and points) the
+ * same round steps as the growth grid; for changes in units, the 90th percentile of their sizes
+ * rounded up to 1, 2, 2.5 or 5 times a power of ten.
+ */
+export function domainOf(basis: ChangeBasis, changes: (number | null)[]): number {
+  const values = changes.filter((c): c is number => c !== null && Number.isFinite(c));
+  if (basis !== 'units') return colourDomain(values);
+  if (values.length === 0) return 1;
+  const abs = values.map(Math.abs).sort((a, b) => a - b);
+  const p90 = abs[Math.min(abs.length - 1, Math.ceil(0.9 * abs.length) - 1)]!;
+  if (p90 === 0) return 1;
+  const power = 10 ** Math.floor(Math.log10(p90));
+  const step = [1, 2, 2.5, 5, 10].find((s) => s * power >= p90 - 1e-12) ?? 10;
+  return step * power;
+}
+
+/**
+ * Row ranges [from, to) of each page, as few pages as PAGE_ROWS allows. Months and quarters break
+ * between years where that keeps pages within PAGE_ROWS, choosing the breaks that make the longest
+ * page shortest (24 months: 12 and 12; 14 quarters: 8 and 6); other grains split evenly.
+ */
+export function pageRows(periods: readonly string[], grain: Grain): { from: number; to: number }[] {
+  const n = periods.length;
+  if (n <= PAGE_ROWS) return [{ from: 0, to: n }];
+  const count = Math.ceil(n / PAGE_ROWS);
+  if (grain === 'month' || grain === 'quarter') {
+    const breaks = [0, ...periods.flatMap((p, i) => (i > 0 && p.slice(0, 4) !== periods[i - 1]!.slice(0, 4) ? [i] : [])), n];
+    const best = yearPages(breaks, count);
+    if (best) return best;
+  }
+  return Array.from({ length: count }, (_, k) => ({ from: Math.round((k * n) / count), to: Math.round(((k + 1) * n) / count) }));
+}
+
+/** The split of rows into `count` pages at year breaks that minimises the longest page; null if none fits. */
+function yearPages(breaks: number[], count: number): { from: number; to: number }[] | null {
+  // best[k][j]: the smallest possible longest page when the first j year-blocks fill k pages.
+  const blocks = breaks.length - 1;
+  const best: number[][] = Array.from({ length: count + 1 }, () => Array<number>(blocks + 1).fill(Infinity));
+  const from: number[][] = Array.from({ length: count + 1 }, () => Array<number>(blocks + 1).fill(-1));
+  best[0]![0] = 0;
+  for (let k = 1; k <= count; k++) {
+    for (let j = 1; j <= blocks; j++) {
+      for (let i = k - 1; i < j; i++) {
+        const size = breaks[j]! - breaks[i]!;
+        const worst = Math.max(best[k - 1]![i]!, size);
+        if (size <= PAGE_ROWS && worst < best[k]![j]!) {
+          best[k]![j] = worst;
+          from[k]![j] = i;
+        }
+      }
+    }
+  }
+  if (!Number.isFinite(best[count]![blocks]!)) return null;
+  const pages: { from: number; to: number }[] = [];
+  for (let k = count, j = blocks; k > 0; k--) {
+    const i = from[k]![j]!;
+    pages.unshift({ from: breaks[i]!, to: breaks[j]! });
+    j = i;
+  }
+  return pages;
+}
+
+function maxPageLength(pages: { from: number; to: number }[]): number {
+  return Math.max(...pages.map((p) => p.to - p.from));
+}

@@ -1,0 +1,302 @@
+// Template "period_table": several metrics side by side, one row per period of the window, each
+// with its change on the period before and on the same period a year earlier, a totals row, and
+// each metric's best and worst periods. One grouped query reads the window and the year before it
+// (so the first rows have their bases) and the window's totals, aggregated in the database so a
+// ratio stays a ratio of sums; the changes, marks and cross-metric findings are worked out in `read`.
+import type { DatasetConfig, Metric } from '../../config/schema.js';
+import { metricByName } from '../catalog.js';
+import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
+import type { Coverage } from '../coverage.js';
+import type {
+  ChangeBasis,
+  PeriodExtreme,
+  PeriodTableColumn,
+  PeriodTableFinding,
+  PeriodTableRow,
+  QuantityKind,
+  TableLatestFinding,
+  TableQuotientFinding,
+  TotalRule,
+} from '../findings/table.js';
+import { addDays, addMonths, nextPeriod, periodStart, sameIsoWeekLastYear } from '../periods.js';
+import { QueryBuilder } from '../sql/query-builder.js';
+import { relativeChange } from '../stats/index.js';
+import type { Caveat, CompiledQuery, DateWindow, Finding, Grain, ResultTable, SubQuestion } from '../types.js';
+import type { Reading, Template } from './template.js';
+import { coveredWindow, EMPTY_TABLE, numberOrNull, windowPeriods } from './trend-points.js';
+
+// Working column names, prefixed so they cannot clash with a table's own columns.
+const PERIOD = '__tc_period';
+const IN_WINDOW = '__tc_in_window';
+
+/**
+ * The kind of quantity a metric is. Until the catalog states it (the any-dataset work adds a
+ * declared kind), it is read from the definition: sums and counts are flows; averages, ratios and
+ * rates divide one sum by another; a distinct count is counted like a flow but does not add up.
+ */
+export function quantityKindOf(metric: Metric): QuantityKind {
+  switch (metric.definition.type) {
+    case 'sum':
+    case 'count':
+    case 'distinct_count':
+      return 'flow';
+    case 'average':
+    case 'ratio':
+    case 'rate':
+      return 'ratio';
+  }
+}
+
+/** Percent for flows and ratios of amounts, points for rates and shares (unit percent), units for levels. */
+export function changeBasisOf(metric: Metric, kind: QuantityKind): ChangeBasis {
+  if (metric.unit === 'percent') return 'points';
+  return kind === 'level' ? 'units' : 'percent';
+}
+
+/** What the totals row holds: a flow's sum where it adds up, a level's mean, otherwise the metric over the whole window. */
+export function totalRuleOf(metric: Metric, kind: QuantityKind): TotalRule {
+  if (kind === 'level') return 'mean';
+  const t = metric.definition.type;
+  return t === 'sum' || t === 'count' ? 'sum' : 'overall';
+}
+
+/** The period before the one starting at `period`. */
+export function previousPeriod(period: string, grain: Grain): string {
+  switch (grain) {
+    case 'day':
+      return addDays(period, -1);
+    case 'week':
+      return addDays(period, -7);
+    case 'month':
+      return addMonths(period, -1);
+    case 'quarter':
+      return addMonths(period, -3);
+    case 'year':
+      return addMonths(period, -12);
+  }
+}
+
+/**
+ * The same period a year earlier: the same calendar month, quarter or year; the same ISO week
+ * number (null for a week 53 whose year before has none); for days, 52 weeks back, so a Monday is
+ * compared with a Monday.
+ */
+export function yearEarlierPeriod(period: string, grain: Grain): string | null {
+  if (grain === 'week') return sameIsoWeekLastYear(period);
+  if (grain === 'day') return addDays(period, -364);
+  return addMonths(period, -12);
+}
+
+/** The first period the query reads: early enough for the window's first row to have both its bases. */
+export function lookbackStart(window: DateWindow, grain: Grain): string {
+  const first = periodStart(window.start, grain);
+  const yearBack = yearEarlierPeriod(first, grain) ?? addDays(first, -371);
+  const prev = previousPeriod(first, grain);
+  return periodStart(yearBack < prev ? yearBack : prev, grain);
+}
+
+export function compilePeriodTable(sq: SubQuestion, ctx: CompileContext): CompiledQuery {
+  const q = new QueryBuilder(ctx.dialect);
+  const d = ctx.dialect;
+  const period = q.ident(PERIOD);
+  const inWindow = q.ident(IN_WINDOW);
+  const firstPeriod = periodStart(sq.window.start, sq.grain);
+  const span = { start: lookbackStart(sq.window, sq.grain), end: sq.window.end };
+  const date = () => localDateExpr(q, ctx);
+  // A window starting inside a period keeps that period to the window's own days: the days before
+  // it belong to neither the window nor the look-back.
+  const cut = firstPeriod < sq.window.start
+    ? `\n    AND (${date()} < ${d.dateParam(q.bind(firstPeriod))} OR ${date()} >= ${d.dateParam(q.bind(sq.window.start))})`
+    : '';
+  const measures = sq.metrics.map((name) => `  ${measureSql(q, ctx, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
+  return q.finish(`SELECT GROUPING(${period}) AS g_period,
+  ${period} AS period,
+  ${inWindow} AS in_window,
+${measures.join(',\n')},
+  ${d.toDouble(rowCountSql(q, ctx))} AS row_count
+FROM (
+  SELECT *,
+    ${d.periodStart(sq.grain, date())} AS ${period},
+    ${date()} >= ${d.dateParam(q.bind(sq.window.start))} AS ${inWindow}
+  FROM ${tableRef(q, ctx)}
+  WHERE ${whereClause(q, ctx, span, sq.filters)}${cut}
+) AS tagged
+GROUP BY GROUPING SETS ((${period}), (${inWindow}))
+ORDER BY 1, 2, 3`);
+}
+
+export const periodTableTemplate: Template = {
+  compile: (sq, ctx) => [{ name: 'by_period', ...compilePeriodTable(sq, ctx) }],
+  read: (sq, tables, ctx) => readPeriodTable(sq, tables.by_period ?? EMPTY_TABLE, ctx.coverage, ctx.dataset),
+};
+
+/** Relative tolerance of the quotient check: the database's sums against their quotient in doubles. */
+const QUOTIENT_TOLERANCE = 1e-9;
+
+export function readPeriodTable(sq: SubQuestion, table: ResultTable, coverage: Coverage, dataset: DatasetConfig): Reading {
+  const caveats: Caveat[] = [];
+  if (table.truncated) caveats.push({ code: 'truncated', data: { rows: table.rows.length } });
+  const noData = (): Reading => ({ findings: [], caveats: [...caveats, { code: 'no_data', data: { start: sq.window.start, end: sq.window.end } }] });
+  const grain = sq.grain;
+  const firstPeriod = periodStart(sq.window.start, grain);
+  const fetched = coveredWindow({ start: lookbackStart(sq.window, grain), end: sq.window.end }, coverage);
+  const shown = coveredWindow(sq.window, coverage);
+  if (!fetched || !shown || table.rows.length === 0) return noData();
+  const { starts, partial } = windowPeriods(fetched, grain);
+  // The window's first period is partial when the window (or the data) starts inside it.
+  if (shown.start > firstPeriod) partial.add(periodStart(shown.start, grain));
+  const known = new Set(starts);
+  const byPeriod = new Map<string, Record<string, unknown>>();
+  let totals: Record<string, unknown> | undefined;
+  for (const r of table.rows) {
+    if (Number(r.g_period) === 0 && typeof r.period === 'string') byPeriod.set(r.period, r);
+    else if (Number(r.g_period) === 1 && r.in_window === true) totals = r;
+  }
+  const rowsShown = starts.filter((p) => p >= firstPeriod);
+  if (rowsShown.length === 0) return noData();
+  for (const p of rowsShown.filter((x) => partial.has(x))) {
+    const coveredFrom = p < shown.start ? shown.start : p;
+    const end = nextPeriod(p, grain) < shown.end ? nextPeriod(p, grain) : shown.end;
+    caveats.push({ code: 'partial_period', data: { period: p, grain, coveredFrom, coveredTo: addDays(end, -1), shown: 'row' } });
+  }
+
+  const valueAt = (metric: string, p: string): number | null => (known.has(p) && !partial.has(p) ? numberOrNull(byPeriod.get(p)?.[metric]) : null);
+  const columns: PeriodTableColumn[] = [];
+  const rows: PeriodTableRow[] = rowsShown.map((period) => ({ period, partial: partial.has(period), cells: [] }));
+  for (const name of sq.metrics) {
+    const metric = metricByName(dataset, name);
+    const kind = quantityKindOf(metric);
+    const basis = changeBasisOf(metric, kind);
+    const change = (base: number | null, value: number | null) => changeIn(basis, base, value);
+    let undefinedBase = 0;
+    const complete: PeriodExtreme[] = [];
+    for (const row of rows) {
+      const value = numberOrNull(byPeriod.get(row.period)?.[name]);
+      const own = row.partial ? null : value;
+      const prevBase = valueAt(name, previousPeriod(row.period, grain));
+      const yearPeriod = yearEarlierPeriod(row.period, grain);
+      const yearBase = yearPeriod === null ? null : valueAt(name, yearPeriod);
+      const vsPrevious = change(prevBase, own);
+      const vsYearEarlier = change(yearBase, own);
+      if (basis === 'percent' && own !== null && ((prevBase !== null && prevBase <= 0) || (yearBase !== null && yearBase <= 0))) undefinedBase++;
+      row.cells.push({ value, vsPrevious, vsYearEarlier, mark: null });
+      if (own !== null) complete.push({ period: row.period, value: own });
+    }
+    const gaps = rows.filter((r) => !r.partial && r.cells[r.cells.length - 1]!.value === null);
+    if (gaps.length > 0 && gaps.length < rows.length) caveats.push({ code: 'series_gap', data: { metric: name, periods: gaps.length, firstGap: gaps[0]!.period, grain } });
+    if (complete.length === 0) caveats.push({ code: rows.some((r) => r.cells[r.cells.length - 1]!.value !== null) ? 'single_period' : 'all_null', data: { metric: name } });
+    if (undefinedBase > 0) caveats.push({ code: 'base_zero', data: { metric: name, count: undefinedBase } });
+    const { high, low } = extremes(complete);
+    const higherIsBetter = metric.higher_is_better;
+    if (high && low) {
+      const best = higherIsBetter ? high : low;
+      const worst = higherIsBetter ? low : high;
+      const col = columns.length;
+      for (const row of rows) {
+        if (row.partial) continue;
+        if (row.period === best.period) row.cells[col]!.mark = 'best';
+        else if (row.period === worst.period) row.cells[col]!.mark = 'worst';
+      }
+    }
+    const rule = totalRuleOf(metric, kind);
+    const total = rule === 'mean' ? meanOf(complete.map((c) => c.value)) : numberOrNull(totals?.[name]);
+    columns.push({ metric: name, kind, basis, higherIsBetter, total: { rule, value: total }, high, low });
+  }
+
+  const found: PeriodTableFinding = {
+    type: 'period_table',
+    grain,
+    span: { start: shown.start < firstPeriod ? firstPeriod : shown.start, end: shown.end },
+    yearEarlier: grain === 'week' ? 'iso_week' : grain === 'day' ? 'weeks_52' : 'calendar',
+    columns,
+    rows,
+  };
+  const findings: Finding[] = [found];
+  const latest = latestChanges(found);
+  if (latest) findings.push(latest);
+  findings.push(...quotients(found));
+  return { findings, caveats };
+}
+
+function changeIn(basis: ChangeBasis, base: number | null, value: number | null): number | null {
+  if (basis === 'percent') return relativeChange(base, value);
+  if (base === null || value === null) return null;
+  const d = value - base;
+  return Number.isFinite(d) ? d : null;
+}
+
+/** Highest and lowest values, ties keeping the earliest period; null unless at least two values differ. */
+function extremes(points: readonly PeriodExtreme[]): { high: PeriodExtreme | null; low: PeriodExtreme | null } {
+  if (points.length < 2) return { high: null, low: null };
+  let high = points[0]!;
+  let low = points[0]!;
+  for (const p of points) {
+    if (p.value > high.value) high = p;
+    if (p.value < low.value) low = p;
+  }
+  return high.value === low.value ? { high: null, low: null } : { high, low };
+}
+
+function meanOf(values: readonly number[]): number | null {
+  return values.length === 0 ? null : values.reduce((a, b) => a + b, 0) / values.length;
+}
+
+/**
+ * The latest complete row against a year earlier when any metric has that change there, else
+ * against the period before; null when the latest complete row has neither.
+ */
+function latestChanges(t: PeriodTableFinding): TableLatestFinding | null {
+  const row = [...t.rows].reverse().find((r) => !r.partial && r.cells.some((c) => c.value !== null));
+  if (!row) return null;
+  const pick = (against: 'year_earlier' | 'previous') =>
+    t.columns.flatMap((col, i) => {
+      const c = row.cells[i]!;
+      const change = against === 'year_earlier' ? c.vsYearEarlier : c.vsPrevious;
+      return change === null ? [] : [{ metric: col.metric, basis: col.basis, change }];
+    });
+  const yearly = pick('year_earlier');
+  const base = yearEarlierPeriod(row.period, t.grain);
+  if (yearly.length > 0 && base !== null) return { type: 'table_latest', period: row.period, against: 'year_earlier', base, changes: yearly };
+  const previous = pick('previous');
+  if (previous.length > 0) return { type: 'table_latest', period: row.period, against: 'previous', base: previousPeriod(row.period, t.grain), changes: previous };
+  return null;
+}
+
+/**
+ * Every ratio metric of the table that equals another metric divided by a third in each complete
+ * period (at least two). One identity is stated once: revenue / bookings = average fare also reads
+ * revenue / average fare = bookings, and only the ratio's side of it is kept.
+ */
+function quotients(t: PeriodTableFinding): TableQuotientFinding[] {
+  const out: TableQuotientFinding[] = [];
+  const used = new Set<string>();
+  const n = t.columns.length;
+  const complete = t.rows.filter((r) => !r.partial);
+  for (let r = 0; r < n; r++) {
+    if (t.columns[r]!.kind !== 'ratio') continue;
+    search: for (let a = 0; a < n; a++) {
+      for (let b = 0; b < n; b++) {
+        if (a === r || b === r || a === b) continue;
+        const key = [r, a, b].sort().join();
+        if (used.has(key)) continue;
+        let checked = 0;
+        let holds = true;
+        for (const row of complete) {
+          const [rv, av, bv] = [row.cells[r]!.value, row.cells[a]!.value, row.cells[b]!.value];
+          if (rv === null || av === null || bv === null || bv === 0) continue;
+          checked++;
+          if (Math.abs(av / bv - rv) > QUOTIENT_TOLERANCE * Math.max(Math.abs(rv), 1e-12)) {
+            holds = false;
+            break;
+          }
+        }
+        if (holds && checked >= 2) {
+          used.add(key);
+          out.push({ type: 'table_quotient', ratio: t.columns[r]!.metric, numerator: t.columns[a]!.metric, denominator: t.columns[b]!.metric, periods: checked });
+          break search;
+        }
+      }
+    }
+  }
+  return out;
+}
