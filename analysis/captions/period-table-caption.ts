@@ -119,7 +119,7 @@ function recentClause(table: PeriodTableFinding, latest: TableLatestFinding, quo
     for (const x of [quotient.ratio, quotient.numerator, quotient.denominator]) told.add(x);
   }
   const rest = latest.changes.filter((c) => !told.has(c.metric)).map((c) => say(c.metric));
-  const all = parts.length > 0 ? [parts[0]!, ...(rest.length ? [`and ${listJoin(rest)}`] : [])].join(' ') : listJoin(rest);
+  const all = parts.length > 0 ? [parts[0]!, ...(rest.length ? [`while ${listJoin(rest)}`] : [])].join(', ') : listJoin(rest);
   const clause = `${lead} ${all}`;
   return afterPeak ? clause : clause.replace(/^in /, 'In ');
 }

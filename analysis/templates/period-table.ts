@@ -100,16 +100,14 @@ export function compilePeriodTable(sq: SubQuestion, ctx: CompileContext): Compil
   const d = ctx.dialect;
   const period = q.ident(PERIOD);
   const inWindow = q.ident(IN_WINDOW);
-  const firstPeriod = periodStart(sq.window.start, sq.grain);
   const span = { start: lookbackStart(sq.window, sq.grain), end: sq.window.end };
   const date = () => localDateExpr(q, ctx);
-  // A window starting inside a period keeps that period to the window's own days: the days before
-  // it belong to neither the window nor the look-back.
-  const cut = firstPeriod < sq.window.start
-    ? `\n    AND (${date()} < ${d.dateParam(q.bind(firstPeriod))} OR ${date()} >= ${d.dateParam(q.bind(sq.window.start))})`
-    : '';
   const measures = sq.metrics.map((name) => `  ${measureSql(q, ctx, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
+  // Three groupings of the same rows: each whole period (the bases of the changes), each period's
+  // part inside the window (what a row shows: a window starting mid-month shows only its own days
+  // of that month), and the window as a whole (the totals row).
   return q.finish(`SELECT GROUPING(${period}) AS g_period,
+  GROUPING(${inWindow}) AS g_window,
   ${period} AS period,
   ${inWindow} AS in_window,
 ${measures.join(',\n')},
@@ -119,10 +117,10 @@ FROM (
     ${d.periodStart(sq.grain, date())} AS ${period},
     ${date()} >= ${d.dateParam(q.bind(sq.window.start))} AS ${inWindow}
   FROM ${tableRef(q, ctx)}
-  WHERE ${whereClause(q, ctx, span, sq.filters)}${cut}
+  WHERE ${whereClause(q, ctx, span, sq.filters)}
 ) AS tagged
-GROUP BY GROUPING SETS ((${period}), (${inWindow}))
-ORDER BY 1, 2, 3`);
+GROUP BY GROUPING SETS ((${period}), (${period}, ${inWindow}), (${inWindow}))
+ORDER BY 1, 2, 3, 4`);
 }
 
 export const periodTableTemplate: Template = {
@@ -142,15 +140,20 @@ export function readPeriodTable(sq: SubQuestion, table: ResultTable, coverage: C
   const fetched = coveredWindow({ start: lookbackStart(sq.window, grain), end: sq.window.end }, coverage);
   const shown = coveredWindow(sq.window, coverage);
   if (!fetched || !shown || table.rows.length === 0) return noData();
-  const { starts, partial } = windowPeriods(fetched, grain);
-  // The window's first period is partial when the window (or the data) starts inside it.
+  // Periods the data covers only in part are never a base; a row is partial as well when the
+  // window starts inside its period (it shows the window's days, while the whole period stays a base).
+  const { starts, partial: uncovered } = windowPeriods(fetched, grain);
+  const partial = new Set(uncovered);
   if (shown.start > firstPeriod) partial.add(periodStart(shown.start, grain));
   const known = new Set(starts);
-  const byPeriod = new Map<string, Record<string, unknown>>();
+  const whole = new Map<string, Record<string, unknown>>();
+  const inside = new Map<string, Record<string, unknown>>();
   let totals: Record<string, unknown> | undefined;
   for (const r of table.rows) {
-    if (Number(r.g_period) === 0 && typeof r.period === 'string') byPeriod.set(r.period, r);
-    else if (Number(r.g_period) === 1 && r.in_window === true) totals = r;
+    const [gPeriod, gWindow] = [Number(r.g_period), Number(r.g_window)];
+    if (gPeriod === 0 && gWindow === 1 && typeof r.period === 'string') whole.set(r.period, r);
+    else if (gPeriod === 0 && gWindow === 0 && r.in_window === true && typeof r.period === 'string') inside.set(r.period, r);
+    else if (gPeriod === 1 && gWindow === 0 && r.in_window === true) totals = r;
   }
   const rowsShown = starts.filter((p) => p >= firstPeriod);
   if (rowsShown.length === 0) return noData();
@@ -160,7 +163,7 @@ export function readPeriodTable(sq: SubQuestion, table: ResultTable, coverage: C
     caveats.push({ code: 'partial_period', data: { period: p, grain, coveredFrom, coveredTo: addDays(end, -1), shown: 'row' } });
   }
 
-  const valueAt = (metric: string, p: string): number | null => (known.has(p) && !partial.has(p) ? numberOrNull(byPeriod.get(p)?.[metric]) : null);
+  const valueAt = (metric: string, p: string): number | null => (known.has(p) && !uncovered.has(p) ? numberOrNull(whole.get(p)?.[metric]) : null);
   const columns: PeriodTableColumn[] = [];
   const rows: PeriodTableRow[] = rowsShown.map((period) => ({ period, partial: partial.has(period), cells: [] }));
   for (const name of sq.metrics) {
@@ -171,7 +174,7 @@ export function readPeriodTable(sq: SubQuestion, table: ResultTable, coverage: C
     let undefinedBase = 0;
     const complete: PeriodExtreme[] = [];
     for (const row of rows) {
-      const value = numberOrNull(byPeriod.get(row.period)?.[name]);
+      const value = numberOrNull(inside.get(row.period)?.[name]);
       const own = row.partial ? null : value;
       const prevBase = valueAt(name, previousPeriod(row.period, grain));
       const yearPeriod = yearEarlierPeriod(row.period, grain);

@@ -235,6 +235,16 @@ describe('Discord adapter', () => {
     expect(delivered).toHaveLength(before);
   });
 
+  it('adds a table\'s monospace text as a code block, the first variant that fits the 2,000-character limit', async () => {
+    const wide = `${'Jan 2024 | €1.0K  +1.0% '.repeat(8)}\n`.repeat(12);
+    const short = 'Jan 2024 | €1.0K* +1.0%\nTotal    | €1.9K';
+    await adapter.post(`discord:${threadId}`, { key: 'table-text', text: '*1. Revenue peaked in January 2024*', monospace: [wide, short] });
+    const sent = api.messagesIn(threadId).at(-1)!;
+    // The block keeps its * and ! as they are: Discord reads no markdown inside it.
+    expect(sent.body.content).toBe(`**1. Revenue peaked in January 2024**\n\`\`\`\n${short}\n\`\`\``);
+    expect(discordMessage({ key: 'k', text: 'caption', monospace: [wide] }).content).toBe('caption');
+  });
+
   it('keeps within Discord\'s limits', () => {
     const long = discordMessage({ key: 'k', text: 'x'.repeat(5000) });
     expect(long.content.length).toBe(2000);

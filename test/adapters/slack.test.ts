@@ -299,6 +299,22 @@ describe('Slack adapter', () => {
     expect(() => socket.eventsUrl).toThrow(/not listening over HTTP/);
   });
 
+  it('shows a table\'s monospace text as a code block under the text, the first variant that fits a section', async () => {
+    const wide = `${'Jan 2024 | €1.0K  +1.0% '.repeat(8)}\n`.repeat(20);
+    const short = 'Jan 2024 | €1.0K* +1.0%\nFeb 2024 | €0.9K! -10.0%\nTotal    | €1.9K <&>';
+    const threadId = `slack:${CHANNEL}:${REQUEST_TS}`;
+    const before = posts().length;
+    await adapter.post(threadId, { key: 'table-text', text: '*1. Revenue peaked in January 2024*\n- a caption', monospace: [wide, short] });
+    const sent = posts()[before]!;
+    const blocks = sent.params.blocks as { type: string; text?: { text: string } }[];
+    expect(blocks.map((b) => b.type)).toEqual(['section', 'section']);
+    expect(blocks[0]!.text!.text).toBe('*1. Revenue peaked in January 2024*\n• a caption');
+    // Slack reads no formatting inside the block, but &, < and > are still escaped.
+    expect(blocks[1]!.text!.text).toBe(`\`\`\`\n${short.replace('<&>', '&lt;&amp;&gt;')}\n\`\`\``);
+    // None fits: the text alone, as before.
+    expect(slackMessage({ key: 'k', text: 'caption', monospace: [wide] }).blocks).toBeUndefined();
+  });
+
   it('uses a select beyond five options, within Slack\'s limits', () => {
     const options = ['route', 'channel', 'fare_class', 'pass', 'season', 'island', 'none'].map((v) => ({ value: v, label: `By ${v}` }));
     const message = slackMessage({

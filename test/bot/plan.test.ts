@@ -2,7 +2,9 @@
 // calendar phrases are read against the data's coverage; edits re-shape the plan.
 import { describe, expect, it } from 'vitest';
 import { readRequest } from '../../bot/intake.js';
-import { applyPlanEdit, buildPlan, readPlanEdit } from '../../bot/plan.js';
+import type { Brief, Question } from '../../bot/brief.js';
+import { applyPlanEdit, buildPlan, MAX_TABLE_METRICS, readPlanEdit } from '../../bot/plan.js';
+import { planText } from '../../bot/replies.js';
 import { readPeriodPhrase } from '../../bot/period-phrases.js';
 import { nextPrompt } from '../../bot/prompts.js';
 import { exampleDataset } from '../helpers/example-config.js';
@@ -78,5 +80,60 @@ describe('plans', () => {
     expect(applyPlanEdit(plan, { type: 'drop', numbers: [99] }).error).toMatch(/no 99/);
     const all = plan.items.map((_, i) => i + 1);
     expect(applyPlanEdit(plan, { type: 'drop', numbers: all }).error).toMatch(/drop every item/);
+  });
+});
+
+describe('the period table in the plan', () => {
+  // Briefs built directly, as the request reader will hand them over.
+  const question = (metrics: string[], extra: Partial<Question> = {}): Question => ({ text: 'the numbers', kind: 'growth', metrics, dimensions: [], frequency: false, ...extra });
+  const brief = (questions: Question[], extra: Partial<Brief> = {}): Brief => ({
+    requestText: 'revenue, bookings and average fare per booking month by month for 2023 and 2024',
+    questions,
+    kinds: [...new Set(questions.map((q) => q.kind))],
+    metrics: [...new Set(questions.flatMap((q) => q.metrics))],
+    dimensions: [],
+    unknownTerms: [],
+    grain: 'month',
+    window: { start: '2023-01-01', end: '2025-01-01' },
+    audience: 'managers',
+    ...extra,
+  });
+  const THREE = ['revenue', 'bookings', 'average_fare'];
+
+  it('opens the plan with one table of the metrics named, at the brief’s grain and window', () => {
+    const plan = buildPlan(brief([question(THREE)]), exampleDataset, coverage);
+    expect(plan.items[0]).toEqual({ id: 'q1', kind: 'growth', lens: 'time_pattern', template: 'period_table', metrics: THREE, grain: 'month', window: { start: '2023-01-01', end: '2025-01-01' }, filters: [] });
+    expect(plan.items.filter((sq) => sq.template === 'period_table')).toHaveLength(1);
+    // The plan says what it is in words.
+    expect(planText(plan, exampleDataset, 'en-IE')).toMatch(/^1\. A table of revenue, bookings and average fare per booking month by month \(January 2023 to December 2024\)/m);
+  });
+
+  it('plans no table for one metric, or without a grain, unless the numbers period by period are asked for', () => {
+    const one = buildPlan(brief([question(['revenue'])]), exampleDataset, coverage);
+    expect(one.items.some((sq) => sq.template === 'period_table')).toBe(false);
+    const noGrain = buildPlan(brief([question(THREE)], { grain: undefined }), exampleDataset, coverage);
+    expect(noGrain.items.some((sq) => sq.template === 'period_table')).toBe(false);
+    const asked = buildPlan(brief([question(['revenue'], { table: true })], { grain: 'quarter' }), exampleDataset, coverage);
+    expect(asked.items[0]).toMatchObject({ template: 'period_table', metrics: ['revenue'], grain: 'quarter' });
+  });
+
+  it('stays first and kept for leadership, and splits five metrics into tables of three and two', () => {
+    const lead = buildPlan(brief([question(THREE)], { audience: 'leadership' }), exampleDataset, coverage);
+    expect(lead.items[0]!.template).toBe('period_table');
+    const five = buildPlan(brief([question(['revenue', 'bookings', 'average_fare', 'refund_rate', 'customers'])]), exampleDataset, coverage);
+    expect(five.items.slice(0, 2).map((sq) => [sq.template, sq.metrics.length])).toEqual([
+      ['period_table', 3],
+      ['period_table', 2],
+    ]);
+    expect(MAX_TABLE_METRICS).toBe(4);
+  });
+
+  it('can be dropped like any item, and takes no breakdown', () => {
+    const plan = buildPlan(brief([question(THREE)]), exampleDataset, coverage);
+    const dropped = applyPlanEdit(plan, { type: 'drop', numbers: [1] }).plan;
+    expect(dropped.items.some((sq) => sq.template === 'period_table')).toBe(false);
+    expect(dropped.items[0]!.id).toBe('q1');
+    const broken = applyPlanEdit(plan, { type: 'add_breakdown', phrase: 'route', dimension: 'route' }).plan;
+    expect(broken.items.filter((sq) => sq.dimension === 'route').every((sq) => sq.metrics.length === 1)).toBe(true);
   });
 });
