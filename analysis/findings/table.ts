@@ -1,10 +1,8 @@
 // Findings of the period table: several metrics side by side, period by period, each with its
 // change on the period before and on the same period a year earlier, its best and worst periods,
 // and the cross-metric facts the takeaway is written from. Numbers and ISO dates only.
+import type { MetricKind } from '../../config/schema.js';
 import type { DateWindow, Grain } from '../types.js';
-
-/** How a metric adds up over time: flows sum, levels are read at a moment, ratios divide two sums. */
-export type QuantityKind = 'flow' | 'level' | 'ratio';
 
 /** How a change is stated: relative (percent), a difference of fractions (points), or in the metric's own units. */
 export type ChangeBasis = 'percent' | 'points' | 'units';
@@ -38,7 +36,8 @@ export interface PeriodExtreme {
 
 export interface PeriodTableColumn {
   metric: string;
-  kind: QuantityKind;
+  /** The metric's kind of quantity (analysis/catalog.ts metricKind): it sets the change's basis and the total's rule. */
+  kind: MetricKind;
   basis: ChangeBasis;
   higherIsBetter: boolean;
   total: { rule: TotalRule; value: number | null };

@@ -3,8 +3,8 @@
 // each metric's best and worst periods. One grouped query reads the window and the year before it
 // (so the first rows have their bases) and the window's totals, aggregated in the database so a
 // ratio stays a ratio of sums; the changes, marks and cross-metric findings are worked out in `read`.
-import type { DatasetConfig, Metric } from '../../config/schema.js';
-import { metricByName } from '../catalog.js';
+import type { DatasetConfig, Metric, MetricKind } from '../../config/schema.js';
+import { metricByName, metricKind } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type {
@@ -13,7 +13,6 @@ import type {
   PeriodTableColumn,
   PeriodTableFinding,
   PeriodTableRow,
-  QuantityKind,
   TableLatestFinding,
   TableQuotientFinding,
   TotalRule,
@@ -29,32 +28,14 @@ import { coveredWindow, EMPTY_TABLE, numberOrNull, windowPeriods } from './trend
 const PERIOD = '__tc_period';
 const IN_WINDOW = '__tc_in_window';
 
-/**
- * The kind of quantity a metric is. Until the catalog states it (the any-dataset work adds a
- * declared kind), it is read from the definition: sums and counts are flows; averages, ratios and
- * rates divide one sum by another; a distinct count is counted like a flow but does not add up.
- */
-export function quantityKindOf(metric: Metric): QuantityKind {
-  switch (metric.definition.type) {
-    case 'sum':
-    case 'count':
-    case 'distinct_count':
-      return 'flow';
-    case 'average':
-    case 'ratio':
-    case 'rate':
-      return 'ratio';
-  }
-}
-
 /** Percent for flows and ratios of amounts, points for rates and shares (unit percent), units for levels. */
-export function changeBasisOf(metric: Metric, kind: QuantityKind): ChangeBasis {
+export function changeBasisOf(metric: Metric, kind: MetricKind): ChangeBasis {
   if (metric.unit === 'percent') return 'points';
   return kind === 'level' ? 'units' : 'percent';
 }
 
 /** What the totals row holds: a flow's sum where it adds up, a level's mean, otherwise the metric over the whole window. */
-export function totalRuleOf(metric: Metric, kind: QuantityKind): TotalRule {
+export function totalRuleOf(metric: Metric, kind: MetricKind): TotalRule {
   if (kind === 'level') return 'mean';
   const t = metric.definition.type;
   return t === 'sum' || t === 'count' ? 'sum' : 'overall';
@@ -168,7 +149,7 @@ export function readPeriodTable(sq: SubQuestion, table: ResultTable, coverage: C
   const rows: PeriodTableRow[] = rowsShown.map((period) => ({ period, partial: partial.has(period), cells: [] }));
   for (const name of sq.metrics) {
     const metric = metricByName(dataset, name);
-    const kind = quantityKindOf(metric);
+    const kind = metricKind(dataset, metric);
     const basis = changeBasisOf(metric, kind);
     const change = (base: number | null, value: number | null) => changeIn(basis, base, value);
     let undefinedBase = 0;

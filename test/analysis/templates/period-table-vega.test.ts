@@ -42,6 +42,13 @@ datasets:
         definition: { type: count, where: { column: weather, op: eq, value: rain } }
         unit: count
         higher_is_better: false
+      - name: temp_max
+        label: Daily maximum temperature
+        definition: { type: average, column: temp_max }
+        unit: number
+        decimals: 1
+        higher_is_better: true
+        kind: level
       - name: wind
         label: Mean wind speed
         definition: { type: average, column: wind }
@@ -57,6 +64,7 @@ interface Day {
   location: string;
   date: string;
   precipitation: number;
+  temp_max: number;
   wind: number;
   weather: string;
 }
@@ -172,5 +180,30 @@ describe('a brief naming two metrics by month, on vega-datasets weather', () => 
     expect(pages[0]!.subtitle).toMatch(/City: New York/);
     const png = await renderChart(pages[2]!);
     expect(png.subarray(1, 4).toString('ascii')).toBe('PNG');
+  });
+
+  it('states a level’s changes in its own units and its totals row as the mean of its months', async () => {
+    const sq: SubQuestion = { ...buildPlan(brief, ws.dataset, ws.coverage).items[0]!, metrics: ['temp_max', 'precipitation'], filters: [{ dimension: 'location', values: ['Seattle'] }] };
+    const table = (await answerSubQuestion(sq, ws)).findings.find((f): f is PeriodTableFinding => f.type === 'period_table')!;
+    expect(table.columns.map((c) => [c.kind, c.basis, c.total.rule])).toEqual([
+      ['level', 'units', 'mean'],
+      ['flow', 'percent', 'sum'],
+    ]);
+    const monthly = days
+      .filter((d: Day) => d.location === 'Seattle')
+      .derive({ month: (d: Day) => op.substring(d.date, 0, 7) })
+      .groupby('month')
+      .rollup({ t: (d: Day) => op.mean(d.temp_max) })
+      .objects() as { month: string; t: number }[];
+    const t = new Map(monthly.map((o) => [o.month, o.t]));
+    for (const row of table.rows) {
+      const key = row.period.slice(0, 7);
+      const yearAgo = `${Number(key.slice(0, 4)) - 1}${key.slice(4)}`;
+      close(row.cells[0]!.value, t.get(key)!);
+      // A temperature a year earlier is compared as a difference in degrees, never as a percent of its base.
+      close(row.cells[0]!.vsYearEarlier, t.get(key)! - t.get(yearAgo)!);
+    }
+    const inWindow = monthly.filter((o) => o.month >= '2013' && o.month < '2016');
+    close(table.columns[0]!.total.value, inWindow.reduce((a, o) => a + o.t, 0) / inWindow.length);
   });
 });
