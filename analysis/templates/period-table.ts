@@ -10,6 +10,7 @@ import type { Coverage } from '../coverage.js';
 import type {
   ChangeBasis,
   PeriodExtreme,
+  PeriodTableCell,
   PeriodTableColumn,
   PeriodTableFinding,
   PeriodTableRow,
@@ -145,52 +146,20 @@ export function readPeriodTable(sq: SubQuestion, table: ResultTable, coverage: C
   }
 
   const valueAt = (metric: string, p: string): number | null => (known.has(p) && !uncovered.has(p) ? numberOrNull(whole.get(p)?.[metric]) : null);
-  const columns: PeriodTableColumn[] = [];
   const rows: PeriodTableRow[] = rowsShown.map((period) => ({ period, partial: partial.has(period), cells: [] }));
-  for (const name of sq.metrics) {
+  const columns = sq.metrics.map((name): PeriodTableColumn => {
     const metric = metricByName(dataset, name);
-    const kind = metricKind(dataset, metric);
-    const basis = changeBasisOf(metric, kind);
-    const change = (base: number | null, value: number | null) => changeIn(basis, base, value);
-    let undefinedBase = 0;
-    const complete: PeriodExtreme[] = [];
-    for (const row of rows) {
-      const value = numberOrNull(inside.get(row.period)?.[name]);
-      const own = row.partial ? null : value;
-      const prevBase = valueAt(name, previousPeriod(row.period, grain));
-      const yearPeriod = yearEarlierPeriod(row.period, grain);
-      const yearBase = yearPeriod === null ? null : valueAt(name, yearPeriod);
-      const vsPrevious = change(prevBase, own);
-      const vsYearEarlier = change(yearBase, own);
-      if (basis === 'percent' && own !== null && ((prevBase !== null && prevBase <= 0) || (yearBase !== null && yearBase <= 0))) undefinedBase++;
-      row.cells.push({ value, vsPrevious, vsYearEarlier, mark: null });
-      if (own !== null) complete.push({ period: row.period, value: own });
-    }
-    const gaps = rows.filter((r) => !r.partial && r.cells[r.cells.length - 1]!.value === null);
-    if (gaps.length > 0 && gaps.length < rows.length) caveats.push({ code: 'series_gap', data: { metric: name, periods: gaps.length, firstGap: gaps[0]!.period, grain } });
-    if (complete.length === 0) caveats.push({ code: rows.some((r) => r.cells[r.cells.length - 1]!.value !== null) ? 'single_period' : 'all_null', data: { metric: name } });
-    if (undefinedBase > 0) caveats.push({ code: 'base_zero', data: { metric: name, count: undefinedBase } });
-    const { high, low } = extremes(complete);
-    const higherIsBetter = metric.higher_is_better;
-    if (high && low) {
-      const best = higherIsBetter ? high : low;
-      const worst = higherIsBetter ? low : high;
-      const col = columns.length;
-      for (const row of rows) {
-        if (row.partial) continue;
-        if (row.period === best.period) row.cells[col]!.mark = 'best';
-        else if (row.period === worst.period) row.cells[col]!.mark = 'worst';
-      }
-    }
-    const rule = totalRuleOf(metric, kind);
-    const total = rule === 'mean' ? meanOf(complete.map((c) => c.value)) : numberOrNull(totals?.[name]);
-    columns.push({ metric: name, kind, basis, higherIsBetter, total: { rule, value: total }, high, low });
-  }
+    const read = readColumn(metric, metricKind(dataset, metric), grain, rows, (p) => numberOrNull(inside.get(p)?.[name]), (p) => valueAt(name, p));
+    rows.forEach((row, i) => row.cells.push(read.cells[i]!));
+    caveats.push(...read.caveats);
+    const { total } = read.column;
+    return { ...read.column, total: total.rule === 'mean' ? total : { ...total, value: numberOrNull(totals?.[name]) } };
+  });
 
   const found: PeriodTableFinding = {
     type: 'period_table',
     grain,
-    span: { start: shown.start < firstPeriod ? firstPeriod : shown.start, end: shown.end },
+    span: shown,
     yearEarlier: grain === 'week' ? 'iso_week' : grain === 'day' ? 'weeks_52' : 'calendar',
     columns,
     rows,
@@ -200,6 +169,52 @@ export function readPeriodTable(sq: SubQuestion, table: ResultTable, coverage: C
   if (latest) findings.push(latest);
   findings.push(...quotients(found));
   return { findings, caveats };
+}
+
+/**
+ * One metric's column: its value in each row, the changes on the period before and a year earlier
+ * against whole, fully covered periods, its marks over the complete rows, and its caveats. The
+ * totals row's value is the mean of the complete rows for a level; other totals come from the query.
+ */
+function readColumn(
+  metric: Metric,
+  kind: MetricKind,
+  grain: Grain,
+  rows: readonly PeriodTableRow[],
+  shownValue: (period: string) => number | null,
+  baseValue: (period: string) => number | null,
+): { column: PeriodTableColumn; cells: PeriodTableCell[]; caveats: Caveat[] } {
+  const name = metric.name;
+  const basis = changeBasisOf(metric, kind);
+  const caveats: Caveat[] = [];
+  let undefinedBase = 0;
+  const complete: PeriodExtreme[] = [];
+  const cells: PeriodTableCell[] = rows.map((row) => {
+    const value = shownValue(row.period);
+    const own = row.partial ? null : value;
+    const prevBase = baseValue(previousPeriod(row.period, grain));
+    const yearPeriod = yearEarlierPeriod(row.period, grain);
+    const yearBase = yearPeriod === null ? null : baseValue(yearPeriod);
+    if (basis === 'percent' && own !== null && [prevBase, yearBase].some((b) => b !== null && b <= 0)) undefinedBase++;
+    if (own !== null) complete.push({ period: row.period, value: own });
+    return { value, vsPrevious: changeIn(basis, prevBase, own), vsYearEarlier: changeIn(basis, yearBase, own), mark: null };
+  });
+  const gaps = rows.filter((r, i) => !r.partial && cells[i]!.value === null);
+  if (gaps.length > 0 && gaps.length < rows.length) caveats.push({ code: 'series_gap', data: { metric: name, periods: gaps.length, firstGap: gaps[0]!.period, grain } });
+  if (complete.length === 0) caveats.push({ code: cells.some((c) => c.value !== null) ? 'single_period' : 'all_null', data: { metric: name } });
+  if (undefinedBase > 0) caveats.push({ code: 'base_zero', data: { metric: name, count: undefinedBase } });
+  const { high, low } = extremes(complete);
+  if (high && low) {
+    const [best, worst] = metric.higher_is_better ? [high, low] : [low, high];
+    rows.forEach((row, i) => {
+      if (row.partial) return;
+      if (row.period === best.period) cells[i]!.mark = 'best';
+      else if (row.period === worst.period) cells[i]!.mark = 'worst';
+    });
+  }
+  const rule = totalRuleOf(metric, kind);
+  const column: PeriodTableColumn = { metric: name, kind, basis, higherIsBetter: metric.higher_is_better, total: { rule, value: rule === 'mean' ? meanOf(complete.map((c) => c.value)) : null }, high, low };
+  return { column, cells, caveats };
 }
 
 function changeIn(basis: ChangeBasis, base: number | null, value: number | null): number | null {
