@@ -102,7 +102,7 @@ describe('the period table in the plan', () => {
 
   it('opens the plan with one table of the metrics named, at the brief’s grain and window', () => {
     const plan = buildPlan(brief([question(THREE)]), exampleDataset, coverage);
-    expect(plan.items[0]).toEqual({ id: 'q1', kind: 'growth', lens: 'time_pattern', template: 'period_table', metrics: THREE, grain: 'month', window: { start: '2023-01-01', end: '2025-01-01' }, filters: [] });
+    expect(plan.items[0]).toEqual({ id: 'q1', kind: 'trend', lens: 'time_pattern', template: 'period_table', metrics: THREE, grain: 'month', window: { start: '2023-01-01', end: '2025-01-01' }, filters: [] });
     expect(plan.items.filter((sq) => sq.template === 'period_table')).toHaveLength(1);
     // The plan says what it is in words.
     expect(planText(plan, exampleDataset, 'en-IE')).toMatch(/^1\. A table of revenue, bookings and average fare per booking month by month \(January 2023 to December 2024\)/m);

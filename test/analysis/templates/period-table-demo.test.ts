@@ -9,7 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import type { PeriodTableFinding, TableLatestFinding, TableQuotientFinding } from '../../../analysis/findings/table.js';
 import { addDays, addMonths, nextPeriod } from '../../../analysis/periods.js';
-import { presenterFor } from '../../../analysis/present/index.js';
+import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import type { Answer, Grain, SubQuestion } from '../../../analysis/types.js';
 import { openWorkspace, type Workspace } from '../../../analysis/workspace.js';
 import { loadConfig } from '../../../config/load.js';
@@ -206,7 +206,7 @@ describe('monthly table of five metrics, January 2023 to June 2025', () => {
   });
 
   it('presents three pages (12, 12 and 6 months), a CSV of the table as shown and a takeaway that leads the summary', () => {
-    const p = presenterFor('period_table')(answer, { dataset: ws.dataset, locale: 'en-IE', audience: 'managers', chart: { width: 1200, height: 675, scale: 1 }, dataAsOf: ws.coverage.lastDate });
+    const p = SUB_QUESTIONS.period_table.present(answer, { dataset: ws.dataset, locale: 'en-IE', audience: 'managers', chart: { width: 1200, height: 675, scale: 1 }, dataAsOf: ws.coverage.lastDate });
     const pages = [p.chart!, ...(p.moreCharts ?? [])];
     expect(pages.map((s) => (s.kind === 'period_table' ? s.rows.filter((r) => r.kind !== 'total').length : -1))).toEqual([12, 12, 6]);
     expect(pages.map((s) => (s.kind === 'period_table' ? s.rows.some((r) => r.kind === 'total') : null))).toEqual([false, false, true]);

@@ -11,7 +11,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import { renderChart } from '../../../analysis/charts/render.js';
 import type { PeriodTableFinding } from '../../../analysis/findings/table.js';
-import { presenterFor } from '../../../analysis/present/index.js';
+import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import type { Answer, SubQuestion } from '../../../analysis/types.js';
 import type { Brief } from '../../../bot/brief.js';
 import { buildPlan } from '../../../bot/plan.js';
@@ -173,7 +173,7 @@ describe('a brief naming two metrics by month, on vega-datasets weather', () => 
     const sq: SubQuestion = { ...buildPlan(brief, ws.dataset, ws.coverage).items[0]!, filters: [{ dimension: 'location', values: ['New York'] }] };
     const answer = await answerSubQuestion(sq, ws);
     check(answer, (d) => d.location === 'New York');
-    const p = presenterFor('period_table')(answer, { dataset: ws.dataset, locale: 'en-GB', audience: 'managers', chart: { width: 1200, height: 675, scale: 1 }, dataAsOf: ws.coverage.lastDate });
+    const p = SUB_QUESTIONS.period_table.present(answer, { dataset: ws.dataset, locale: 'en-GB', audience: 'managers', chart: { width: 1200, height: 675, scale: 1 }, dataAsOf: ws.coverage.lastDate });
     const pages = [p.chart!, ...(p.moreCharts ?? [])];
     expect(pages).toHaveLength(3);
     expect(p.takeaway!.text).toMatch(/^Precipitation peaked in \w+ 20\d\d at [\d.,]+ on \d+ rainy days; in December 2015, against a year earlier, /);
