@@ -41,6 +41,11 @@ function period(iso: string, grain: Grain, locale: string): string {
   return formatPeriod(iso, grain, locale, 'long');
 }
 
+/** "in July 2024", "in the week commencing 8 July 2024", "on 8 July 2024". */
+function inPeriod(iso: string, grain: Grain, locale: string): string {
+  return `${grain === 'day' ? 'on' : grain === 'week' ? 'in the' : 'in'} ${period(iso, grain, locale)}`;
+}
+
 /** A metric label in mid-sentence, with "the" before a ratio ("the average fare per booking", "the refund rate"). */
 function named(metric: Metric, col: PeriodTableColumn | undefined): string {
   return col?.kind === 'ratio' ? `the ${lower(metric.label)}` : lower(metric.label);
@@ -59,7 +64,7 @@ export function periodTableWords(findings: readonly Finding[], ds: DatasetConfig
   const latest = findings.find((f): f is TableLatestFinding => f.type === 'table_latest');
   const quotient = findings.find((f): f is TableQuotientFinding => f.type === 'table_quotient');
   const peak = peakClause(table, ds, locale);
-  const recent = latest ? recentClause(table, latest, quotient, ds, locale, peak !== null) : null;
+  const recent = latest ? recentClause(table, latest, quotient, ds, locale) : null;
   const labels = table.columns.map((c) => lower(metricByName(ds, c.metric).label));
   const title = peak ?? `${capitalise(listJoin(labels))} by ${table.grain}`;
   const takeaway = peak && recent ? `${peak}; ${recent}.` : peak ? `${peak}.` : recent ? `${capitalise(recent)}.` : '';
@@ -82,7 +87,7 @@ function peakClause(table: PeriodTableFinding, ds: DatasetConfig, locale: string
     return col.kind === 'flow' && m.unit === 'count' && v !== null ? [`${valueShort(v, m, locale)} ${lower(m.label)}`] : [];
   });
   const on = alongside.length > 0 ? ` on ${listJoin(alongside.slice(0, 2))}` : '';
-  return `${metric.label} peaked in ${period(lead.high.period, table.grain, locale)} at ${valueShort(lead.high.value, metric, locale)}${on}`;
+  return `${metric.label} peaked ${inPeriod(lead.high.period, table.grain, locale)} at ${valueShort(lead.high.value, metric, locale)}${on}`;
 }
 
 /**
@@ -90,8 +95,8 @@ function peakClause(table: PeriodTableFinding, ds: DatasetConfig, locale: string
  * another divided by a third, its move is told through theirs ("bookings fell faster than revenue,
  * so the average fare rose 0.8%"); the other metrics follow.
  */
-function recentClause(table: PeriodTableFinding, latest: TableLatestFinding, quotient: TableQuotientFinding | undefined, ds: DatasetConfig, locale: string, afterPeak: boolean): string {
-  const when = period(latest.period, table.grain, locale);
+function recentClause(table: PeriodTableFinding, latest: TableLatestFinding, quotient: TableQuotientFinding | undefined, ds: DatasetConfig, locale: string): string {
+  const when = inPeriod(latest.period, table.grain, locale);
   const base = latest.against === 'year_earlier' ? 'a year earlier' : `the ${table.grain} before`;
   const change = new Map(latest.changes.map((c) => [c.metric, c]));
   const col = (name: string) => table.columns.find((c) => c.metric === name);
@@ -100,7 +105,7 @@ function recentClause(table: PeriodTableFinding, latest: TableLatestFinding, quo
     const m = metricByName(ds, name);
     return `${named(m, col(name))} ${moved(c.change, c.basis, m, locale)}`;
   };
-  const lead = `in ${when}, against ${base},`;
+  const lead = `${when}, against ${base},`;
   const parts: string[] = [];
   const told = new Set<string>();
   if (quotient && [quotient.ratio, quotient.numerator, quotient.denominator].every((n) => change.get(n)?.basis === 'percent')) {
@@ -120,8 +125,7 @@ function recentClause(table: PeriodTableFinding, latest: TableLatestFinding, quo
   }
   const rest = latest.changes.filter((c) => !told.has(c.metric)).map((c) => say(c.metric));
   const all = parts.length > 0 ? [parts[0]!, ...(rest.length ? [`while ${listJoin(rest)}`] : [])].join(', ') : listJoin(rest);
-  const clause = `${lead} ${all}`;
-  return afterPeak ? clause : clause.replace(/^in /, 'In ');
+  return `${lead} ${all}`;
 }
 
 /** "Best months: revenue July 2024, …; worst: …": the marks the table carries, in words. */

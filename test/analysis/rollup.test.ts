@@ -68,9 +68,9 @@ describe('which sub-questions read the rollup', () => {
       if (sq.metrics.includes('customers')) expect(need).toBeNull();
     }
     expect([...ROLLUP_TEMPLATES].some((t) => t.startsWith('performance'))).toBe(false);
-    // Every sum-and-count template of the trend, growth and KPI families.
+    // Every sum-and-count template of the trend, growth and KPI families, and the period table.
     expect([...ROLLUP_TEMPLATES].sort()).toEqual(
-      ['series', 'trend_test', 'trend_summary', 'trend_seasonality', 'segment_trend', 'segment_shares', 'growth_series', 'growth_summary', 'growth_drivers', 'growth_share_shift', 'kpi_snapshot', 'kpi_context', 'kpi_by_segment', 'kpi_mix'].sort(),
+      ['series', 'trend_test', 'trend_summary', 'trend_seasonality', 'segment_trend', 'segment_shares', 'growth_series', 'growth_summary', 'growth_drivers', 'growth_share_shift', 'kpi_snapshot', 'kpi_context', 'kpi_by_segment', 'kpi_mix', 'period_table'].sort(),
     );
     // Means, shares and ratios of rows compared between groups need each row.
     for (const metric of ['average_fare', 'refund_rate', 'fare_per_passenger', 'revenue']) {
