@@ -5,7 +5,8 @@ import { metricByName } from '../catalog.js';
 import type { ChangeBasis, PeriodTableColumn, PeriodTableFinding, TableLatestFinding, TableQuotientFinding } from '../findings/table.js';
 import { formatChange, formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import type { Finding, Grain } from '../types.js';
-import { capitalise, formatPoints, lower } from './growth-words.js';
+import { capitalise, inSentence, listJoin } from './grammar.js';
+import { formatPoints } from './growth-words.js';
 
 export type ChangeDirection = 'up' | 'down' | 'flat' | 'none';
 
@@ -48,7 +49,7 @@ function inPeriod(iso: string, grain: Grain, locale: string): string {
 
 /** A metric label in mid-sentence, with "the" before a ratio ("the average fare per booking", "the refund rate"). */
 function named(metric: Metric, col: PeriodTableColumn | undefined): string {
-  return col?.kind === 'ratio' ? `the ${lower(metric.label)}` : lower(metric.label);
+  return col?.kind === 'ratio' ? `the ${inSentence(metric.label)}` : inSentence(metric.label);
 }
 
 export interface PeriodTableWords {
@@ -65,7 +66,7 @@ export function periodTableWords(findings: readonly Finding[], ds: DatasetConfig
   const quotient = findings.find((f): f is TableQuotientFinding => f.type === 'table_quotient');
   const peak = peakClause(table, ds, locale);
   const recent = latest ? recentClause(table, latest, quotient, ds, locale) : null;
-  const labels = table.columns.map((c) => lower(metricByName(ds, c.metric).label));
+  const labels = table.columns.map((c) => inSentence(metricByName(ds, c.metric).label));
   const title = peak ?? `${capitalise(listJoin(labels))} by ${table.grain}`;
   const takeaway = peak && recent ? `${peak}; ${recent}.` : peak ? `${peak}.` : recent ? `${capitalise(recent)}.` : '';
   const caption = [takeaway, marksSentence(table, ds, locale)].filter((s) => s !== '').join(' ');
@@ -84,7 +85,7 @@ function peakClause(table: PeriodTableFinding, ds: DatasetConfig, locale: string
   const alongside = table.columns.slice(1).flatMap((col, k) => {
     const m = metricByName(ds, col.metric);
     const v = row?.cells[k + 1]?.value ?? null;
-    return col.kind === 'flow' && m.unit === 'count' && v !== null ? [`${valueShort(v, m, locale)} ${lower(m.label)}`] : [];
+    return col.kind === 'flow' && m.unit === 'count' && v !== null ? [`${valueShort(v, m, locale)} ${inSentence(m.label)}`] : [];
   });
   const on = alongside.length > 0 ? ` on ${listJoin(alongside.slice(0, 2))}` : '';
   return `${metric.label} peaked ${inPeriod(lead.high.period, table.grain, locale)} at ${valueShort(lead.high.value, metric, locale)}${on}`;
@@ -136,13 +137,9 @@ function marksSentence(table: PeriodTableFinding, ds: DatasetConfig, locale: str
     if (!col.high || !col.low) continue;
     const m = metricByName(ds, col.metric);
     const [b, w] = col.higherIsBetter ? [col.high, col.low] : [col.low, col.high];
-    best.push(`${lower(m.label)} ${period(b.period, table.grain, locale)} (${valueShort(b.value, m, locale)})`);
-    worst.push(`${lower(m.label)} ${period(w.period, table.grain, locale)} (${valueShort(w.value, m, locale)})`);
+    best.push(`${inSentence(m.label)} ${period(b.period, table.grain, locale)} (${valueShort(b.value, m, locale)})`);
+    worst.push(`${inSentence(m.label)} ${period(w.period, table.grain, locale)} (${valueShort(w.value, m, locale)})`);
   }
   if (best.length === 0) return '';
   return `Best ${table.grain}s: ${best.join('; ')}. Worst: ${worst.join('; ')}.`;
-}
-
-export function listJoin(xs: readonly string[]): string {
-  return xs.length <= 1 ? (xs[0] ?? '') : `${xs.slice(0, -1).join(', ')} and ${xs[xs.length - 1]}`;
 }

@@ -25,6 +25,8 @@ export interface PeriodTableRow {
   period: string;
   /** Only part of the period is covered: shown, never ranked, and no change is stated for or against it. */
   partial: boolean;
+  /** For a partial period, the first and last days it holds (inclusive, ISO). */
+  covered?: { from: string; to: string };
   /** One per column, in column order. */
   cells: PeriodTableCell[];
 }

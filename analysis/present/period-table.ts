@@ -3,8 +3,9 @@
 // metrics that leads the thread's summary.
 import type { DatasetConfig } from '../../config/schema.js';
 import { caveatNote } from '../captions/caveat-text.js';
-import { listJoin, periodTableWords } from '../captions/period-table-caption.js';
-import { capitalise, lower } from '../captions/growth-words.js';
+import { capitalise, inSentence, listJoin } from '../captions/grammar.js';
+import { periodTableWords } from '../captions/period-table-caption.js';
+import { filterSubtitleParts } from '../captions/scope-words.js';
 import { buildPeriodTablePages, type PeriodTableRowInput } from '../charts/build-period-table.js';
 import { metricByName } from '../catalog.js';
 import type { PeriodTableFinding, TotalRule } from '../findings/table.js';
@@ -25,7 +26,7 @@ export const presentPeriodTable: Presenter = (answer, ctx) => {
   const notes = [...new Set([...partials.map((c) => partialNote(c, ctx.locale)), ...answer.caveats.filter((c) => !partials.includes(c)).map((c) => caveatNote(c, ctx.locale))])];
   if (!table) return { title: words.title, caption: words.caption, notes, chart: null, takeaway: null };
   const totalLabel = totalsLabel(table.columns.map((c) => c.total.rule));
-  const rows: PeriodTableRowInput[] = table.rows.map((r) => ({ period: r.period, partial: r.partial, note: r.partial ? partialShort(r.period, partials, ctx.locale) : '', cells: r.cells }));
+  const rows: PeriodTableRowInput[] = table.rows.map((r) => ({ period: r.period, partial: r.partial, note: r.covered ? partialShort(r.period, r.covered, ctx.locale) : '', cells: r.cells }));
   const pages = buildPeriodTablePages({
     title: words.title,
     subtitle: subtitleOf(answer, table, ctx),
@@ -51,11 +52,10 @@ export const presentPeriodTable: Presenter = (answer, ctx) => {
 };
 
 function subtitleOf(answer: Answer, table: PeriodTableFinding, ctx: PresentContext): string {
-  const labels = table.columns.map((c, i) => (i === 0 ? metricByName(ctx.dataset, c.metric).label : lower(metricByName(ctx.dataset, c.metric).label)));
+  const labels = table.columns.map((c, i) => (i === 0 ? metricByName(ctx.dataset, c.metric).label : inSentence(metricByName(ctx.dataset, c.metric).label)));
   const from = formatPeriod(table.span.start, 'day', ctx.locale);
   const to = formatPeriod(addDays(table.span.end, -1), 'day', ctx.locale);
-  const filters = answer.subQuestion.filters.map((f) => `${ctx.dataset.dimensions.find((d) => d.name === f.dimension)?.label ?? f.dimension}: ${f.values.join(', ')}`);
-  return [listJoin(labels), `${GRAIN_ADJECTIVE[table.grain].toLowerCase()}, ${from} to ${to}`, ...filters].join(' · ');
+  return [listJoin(labels), `${GRAIN_ADJECTIVE[table.grain].toLowerCase()}, ${from} to ${to}`, ...filterSubtitleParts(answer.subQuestion.filters, ctx.dataset)].join(' · ');
 }
 
 /** "Total" when every metric sums, "Average" when every one is a level, "Whole period" otherwise. */
@@ -67,7 +67,7 @@ function totalsLabel(rules: TotalRule[]): string {
 
 /** The small print: what the totals row holds, how changes are stated and compared, what each metric means. */
 function smallPrint(table: PeriodTableFinding, totalLabel: string, ds: DatasetConfig): string[] {
-  const label = (name: string) => lower(metricByName(ds, name).label);
+  const label = (name: string) => inSentence(metricByName(ds, name).label);
   const byRule = (rule: TotalRule) => table.columns.filter((c) => c.total.rule === rule).map((c) => label(c.metric));
   const totals = [
     byRule('sum').length ? `${listJoin(byRule('sum'))} ${byRule('sum').length === 1 ? 'is' : 'are'} summed` : '',
@@ -90,14 +90,10 @@ function partialNote(c: Caveat, locale: string): string {
   return `${capitalise(formatPeriod(String(c.data.period), grain, locale, 'long'))} is partial (data from ${day(c.data.coveredFrom)} to ${day(c.data.coveredTo)}): it is shown, but not ranked, and no change is given for it.`;
 }
 
-/** "to 18 Jun" or "from 3 Jan" beside a partial period's label. */
-function partialShort(period: string, partials: Caveat[], locale: string): string {
-  const c = partials.find((x) => x.data.period === period);
-  if (!c) return 'partial';
-  const from = String(c.data.coveredFrom);
-  const to = String(c.data.coveredTo);
+/** "partial, to 18 Jun" or "partial, from 15 Mar" beside a partial period's label. */
+function partialShort(period: string, covered: { from: string; to: string }, locale: string): string {
   const short = (iso: string) => dayMonth(locale).format(new Date(`${iso}T00:00:00Z`));
-  return from > period ? `partial, from ${short(from)}` : `partial, to ${short(to)}`;
+  return covered.from > period ? `partial, from ${short(covered.from)}` : `partial, to ${short(covered.to)}`;
 }
 
 function dayMonth(locale: string): Intl.DateTimeFormat {

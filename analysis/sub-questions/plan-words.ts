@@ -35,14 +35,10 @@ export function planWords(sq: SubQuestion, ds: DatasetConfig, locale: string): P
   };
 }
 
-import { capitalise } from '../captions/grammar.js';
+import { capitalise, listJoin } from '../captions/grammar.js';
 export { capitalise };
 
 /** A window a year-earlier comparison would overlap. */
 export function longerThanAYear(w: { start: string; end: string }): boolean {
   return addMonths(w.start, 12) < w.end;
-}
-
-function listJoin(xs: readonly string[]): string {
-  return xs.length <= 1 ? (xs[0] ?? '') : `${xs.slice(0, -1).join(', ')} and ${xs[xs.length - 1]}`;
 }

@@ -139,14 +139,14 @@ export function readPeriodTable(sq: SubQuestion, table: ResultTable, coverage: C
   }
   const rowsShown = starts.filter((p) => p >= firstPeriod);
   if (rowsShown.length === 0) return noData();
+  const coveredDays = (p: string) => ({ from: p < shown.start ? shown.start : p, to: addDays(nextPeriod(p, grain) < shown.end ? nextPeriod(p, grain) : shown.end, -1) });
   for (const p of rowsShown.filter((x) => partial.has(x))) {
-    const coveredFrom = p < shown.start ? shown.start : p;
-    const end = nextPeriod(p, grain) < shown.end ? nextPeriod(p, grain) : shown.end;
-    caveats.push({ code: 'partial_period', data: { period: p, grain, coveredFrom, coveredTo: addDays(end, -1), shown: 'row' } });
+    const { from, to } = coveredDays(p);
+    caveats.push({ code: 'partial_period', data: { period: p, grain, coveredFrom: from, coveredTo: to, shown: 'row' } });
   }
 
   const valueAt = (metric: string, p: string): number | null => (known.has(p) && !uncovered.has(p) ? numberOrNull(whole.get(p)?.[metric]) : null);
-  const rows: PeriodTableRow[] = rowsShown.map((period) => ({ period, partial: partial.has(period), cells: [] }));
+  const rows: PeriodTableRow[] = rowsShown.map((period) => (partial.has(period) ? { period, partial: true, covered: coveredDays(period), cells: [] } : { period, partial: false, cells: [] }));
   const columns = sq.metrics.map((name): PeriodTableColumn => {
     const metric = metricByName(dataset, name);
     const read = readColumn(metric, metricKind(dataset, metric), grain, rows, (p) => numberOrNull(inside.get(p)?.[name]), (p) => valueAt(name, p));

@@ -210,6 +210,9 @@ describe('monthly table of five metrics, January 2023 to June 2025', () => {
     const pages = [p.chart!, ...(p.moreCharts ?? [])];
     expect(pages.map((s) => (s.kind === 'period_table' ? s.rows.filter((r) => r.kind !== 'total').length : -1))).toEqual([12, 12, 6]);
     expect(pages.map((s) => (s.kind === 'period_table' ? s.rows.some((r) => r.kind === 'total') : null))).toEqual([false, false, true]);
+    // The partial month says how far it goes on the image itself, which may be forwarded alone.
+    const last = pages[2]!;
+    expect(last.kind === 'period_table' && last.rows.find((r) => r.kind === 'partial')).toMatchObject({ label: 'Jun 2025', note: 'partial, to 18 Jun' });
     expect(p.takeaway).toMatchObject({ leads: true });
     const peak = table.columns[0]!.high!;
     expect(peak.period).toBe('2024-07-01');
