@@ -28,6 +28,8 @@ export interface DateWindow {
 export interface SegmentFilter {
   dimension: string;
   values: (string | number | boolean)[];
+  /** Every value but these ("excluding kiosk"). */
+  exclude?: boolean;
 }
 
 /** One small answerable question. Plain data: compiling and charting it are pure functions. */
@@ -43,6 +45,18 @@ export interface SubQuestion {
   window: DateWindow;
   filters: SegmentFilter[];
   comparisonGroup?: string;
+  /** The window the question compares with, when the request names one ("Q2 vs Q1"); like for like. */
+  compareWindow?: DateWindow;
+  /** The date a before/after turns on, when the request states one (else the group's launch date). */
+  launchDate?: string;
+  /** "bookings per day by month": per-day averages at the grain. */
+  perDay?: boolean;
+  /** "top 5 routes": how many segments to rank. */
+  rankLimit?: number;
+  /** "how fast per decade": the unit a rate of change is stated in. */
+  rateUnit?: 'year' | 'decade';
+  /** Two values of one dimension set against each other ("did phone grow faster than kiosk"). */
+  contrast?: { dimension: string; values: [string, string] };
 }
 
 export type CellValue = string | number | boolean | null;

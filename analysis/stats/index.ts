@@ -10,3 +10,4 @@ export * from './concentration.js';
 export * from './outliers.js';
 export { median, quantileSorted } from './order-stats.js';
 export { mulberry32 } from './random.js';
+export * from './log-shift.js';

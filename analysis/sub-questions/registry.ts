@@ -24,6 +24,7 @@ import { seriesSubQuestion } from './series.js';
 import { trendSeasonalitySubQuestion } from './trend-seasonality.js';
 import { trendSummarySubQuestion } from './trend-summary.js';
 import { trendTestSubQuestion } from './trend-test.js';
+import { valueCompareSubQuestion } from './value-compare.js';
 
 /** The registered sub-questions; a new one is one entry here. */
 const REGISTERED = [
@@ -46,6 +47,7 @@ const REGISTERED = [
   kpiBySegmentSubQuestion,
   kpiMixSubQuestion,
   periodTableSubQuestion,
+  valueCompareSubQuestion,
 ] as const;
 
 /** The name of a registered sub-question (its template). */

@@ -60,6 +60,28 @@ function questionsFor(ws: Workspace): SubQuestion[] {
   return out;
 }
 
+/** The two largest values of a dimension, by rows. */
+async function topValues(ws: Workspace, questions: SubQuestion[], dimension: string): Promise<string[]> {
+  const ds = ws.dataset;
+  const shares = await answerSubQuestion({ ...questions[0]!, id: 'top', template: 'segment_shares', kind: 'trend', lens: 'distribution', dimension, filters: [], metrics: [plainCountMetric(ds)?.name ?? ds.metrics[0]!.name] }, ws);
+  const rows = shares.findings.find((f): f is SegmentSharesFinding => f.type === 'segment_shares')!.rows;
+  return rows.filter((r) => r.segment !== null).map((r) => String(r.segment));
+}
+
+/** Value-against-value questions get the dimension's two largest values to compare. */
+async function withContrasts(ws: Workspace, questions: SubQuestion[]): Promise<SubQuestion[]> {
+  const out: SubQuestion[] = [];
+  for (const q of questions) {
+    if (q.template !== 'value_compare') {
+      out.push(q);
+      continue;
+    }
+    const [a, b] = await topValues(ws, questions, q.dimension!);
+    out.push({ ...q, contrast: { dimension: q.dimension!, values: [a!, b!] } });
+  }
+  return out;
+}
+
 /** The largest value of a second breakdown dimension, to filter every sub-question to it. */
 async function filterFor(ws: Workspace, questions: SubQuestion[]): Promise<SubQuestion['filters']> {
   const ds = ws.dataset;
@@ -75,7 +97,7 @@ describe('captions agree with their tables', () => {
     const problems: string[] = [];
     let answered = 0;
     for (const { name, ws } of spaces) {
-      const questions = questionsFor(ws);
+      const questions = await withContrasts(ws, questionsFor(ws));
       const filters = await filterFor(ws, questions);
       for (const sq of [...questions, ...questions.map((q) => ({ ...q, id: `${q.id}-filtered`, filters }))]) {
         const answer = await answerSubQuestion(sq, ws);

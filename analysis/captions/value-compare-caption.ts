@@ -1,0 +1,96 @@
+// Title and caption of a value-against-value comparison, written only from its finding: each
+// value's figure in both spans and its growth, the gap, and whether the gap in growth is clear.
+import type { DatasetConfig, Metric } from '../../config/schema.js';
+import type { ContrastSide, ValueCompareFinding } from '../findings/contrast.js';
+import { formatChange, formatValue } from '../format.js';
+import type { Audience } from '../types.js';
+import { caveatNote } from './caveat-text.js';
+import { capitalise, inSentence } from './grammar.js';
+import { formatPoints, segmentText, spanText, valueText } from './growth-words.js';
+import { formatP } from './performance-words.js';
+
+export interface ValueCompareWords {
+  title: string;
+  caption: string;
+  /** The gap in growth is clear (its interval leaves out zero). */
+  clear: boolean;
+}
+
+/** A rate or share moves in points; anything else in percent. */
+function inPoints(metric: Metric): boolean {
+  return metric.unit === 'percent';
+}
+
+function growthText(s: ContrastSide, metric: Metric, locale: string): string {
+  if (inPoints(metric)) return s.change === null ? 'no comparable base' : formatPoints(s.change, locale);
+  return s.growth === null ? 'no comparable base' : formatChange(s.growth, locale);
+}
+
+const PERIOD_NOUN = { day: 'daily', week: 'weekly', month: 'monthly', quarter: 'quarterly', year: 'yearly' } as const;
+
+export function valueCompareWords(f: ValueCompareFinding | undefined, metric: Metric, dataset: DatasetConfig, locale: string, audience: Audience): ValueCompareWords {
+  if (!f) return { title: `${metric.label}: nothing to compare`, caption: 'There is no data for either value in the spans compared.', clear: false };
+  const name = (s: ContrastSide) => segmentText(s.value, f.dimension, dataset);
+  const label = inSentence(metric.label);
+  const [a, b] = [f.first, f.second];
+  const spans = f.priorBasis === 'asked' ? `${spanText(f.current, locale)} against ${spanText(f.prior, locale)}` : `${spanText(f.current, locale)} against the same dates a year earlier`;
+  const hidden = [a, b].filter((s) => s.suppressed);
+  if (hidden.length > 0) {
+    return {
+      title: `${capitalise(name(hidden[0]!))} is too small to show on its own`,
+      caption: `${hidden.map(name).join(' and ')} ${hidden.length === 1 ? 'has' : 'have'} fewer rows than the minimum group size in ${spans}, so the figures are withheld.`,
+      clear: false,
+    };
+  }
+  const money = (v: number | null) => valueText(v, metric, locale);
+  const sideText = (s: ContrastSide) =>
+    s.prior === null || s.rowsPrior === 0
+      ? `${name(s)} ${money(s.current)} (no data in the earlier span)`
+      : `${name(s)} ${money(s.current)} (from ${money(s.prior)}, ${growthText(s, metric, locale)})`;
+  const sentences = [`${capitalise(label)}, ${spans}: ${sideText(a)}; ${sideText(b)}.`];
+
+  const missing = [a, b].filter((s) => s.rowsPrior === 0 || s.prior === null);
+  const rel = f.relativeGrowth;
+  const clear = rel !== null && (rel.ci[0] > 0 || rel.ci[1] < 0);
+  const comparable = missing.length === 0 && (inPoints(metric) ? a.change !== null && b.change !== null : a.growth !== null && b.growth !== null);
+  let title: string;
+  if (!comparable) {
+    const gone = missing[0];
+    title = gone
+      ? `${capitalise(name(gone))} has no ${label} in the earlier span, so its growth cannot be set against ${name(gone === a ? b : a)}'s`
+      : `${capitalise(label)}: ${name(a)} against ${name(b)}, growth not comparable`;
+  } else {
+    const key = (s: ContrastSide) => (inPoints(metric) ? s.change! : s.growth!);
+    const [fast, slow] = key(a) >= key(b) ? [a, b] : [b, a];
+    const verb = key(fast) > 0 ? 'grew faster than' : 'fell less than';
+    const figures = `${growthText(fast, metric, locale)} against ${growthText(slow, metric, locale)}`;
+    title = clear || rel === null
+      ? `${capitalise(name(fast))} ${verb} ${name(slow)}: ${figures}`
+      : `${capitalise(name(a))} and ${name(b)}: no clear gap in growth (${growthText(a, metric, locale)} against ${growthText(b, metric, locale)})`;
+    if (f.growthGap !== null && audience !== 'leadership') {
+      const gap = inPoints(metric) ? formatPoints(a.change! - b.change!, locale) : formatPoints(f.growthGap, locale);
+      sentences.push(`The gap in growth is ${gap} (${name(a)} minus ${name(b)}).`);
+    }
+  }
+  if (rel) {
+    const interval = `${formatChange(rel.ci[0], locale)} to ${formatChange(rel.ci[1], locale)}`;
+    const against = `Relative to ${name(b)}, ${name(a)}'s ${label} changed ${formatChange(rel.relative, locale)}`;
+    const verdict = clear ? 'a clear difference' : 'within what the period-to-period variation allows, so no clear difference';
+    if (audience === 'analysts') {
+      sentences.push(`${against} (${formatValue(rel.confidence, { unit: 'percent', decimals: 0, locale })} interval ${interval}; Welch's t-test on ${rel.nBefore} and ${rel.nAfter} ${PERIOD_NOUN[rel.periods]} log ratios, t = ${formatValue(rel.t, { unit: 'number', decimals: 2, locale })}, df = ${formatValue(rel.df, { unit: 'number', decimals: 1, locale })}, ${formatP(rel.pValue, locale)}): ${verdict}.`);
+    } else if (audience === 'managers') {
+      sentences.push(`${against} (${formatValue(rel.confidence, { unit: 'percent', decimals: 0, locale })} interval ${interval}): ${verdict}.`);
+    } else sentences.push(clear ? 'The gap in growth is clear.' : 'The gap in growth is within normal variation.');
+  } else if (comparable && f.noGrowthTest === 'too_few_periods') {
+    sentences.push('Too few periods to test the gap in growth.');
+  }
+  if (f.level && audience !== 'leadership') {
+    const lv = f.level;
+    const diff = inPoints(metric) ? formatPoints(lv.difference, locale) : valueText(lv.difference, metric, locale, true);
+    const p = audience === 'analysts' ? `, ${formatP(lv.pValue, locale)}` : '';
+    sentences.push(`In ${spanText(f.current, locale)}, ${name(a)} minus ${name(b)}: ${diff} (${lv.pValue < 0.05 ? 'unlikely to be chance' : 'could be chance'}${p}).`);
+  }
+  return { title, caption: sentences.join(' '), clear };
+}
+
+export { caveatNote };

@@ -1,0 +1,62 @@
+// Findings of a value-against-value comparison ("did phone grow faster than kiosk"): the two
+// values of one dimension, each in the span asked about and the span it is compared with, their
+// growth, the gap between them, and the tests the data allows. Numbers and ISO dates only.
+import type { MetricKind } from '../../config/schema.js';
+import type { LogShift } from '../stats/log-shift.js';
+import type { DateWindow, Grain, PeriodPoint } from '../types.js';
+import type { DifferenceTest, NoTestReason } from './performance.js';
+
+export interface ContrastSide {
+  /** The dimension's value, as text. */
+  value: string;
+  /** The metric over the span asked about and over the span it is compared with. */
+  current: number | null;
+  prior: number | null;
+  /** current / prior − 1 (null on a missing or non-positive base). */
+  growth: number | null;
+  /** current − prior, in the metric's units (points for a rate). */
+  change: number | null;
+  rowsCurrent: number;
+  rowsPrior: number;
+  /** Fewer rows than the dataset's minimum group size: its numbers are withheld. */
+  suppressed: boolean;
+}
+
+export interface ValueCompareFinding {
+  type: 'value_compare';
+  metric: string;
+  dimension: string;
+  /** How the metric adds up: growth of a flow is a percentage, of a rate a change in points. */
+  metricKind: MetricKind;
+  current: DateWindow;
+  prior: DateWindow;
+  /** The compared span is the one the request named, or the same dates a year earlier. */
+  priorBasis: 'asked' | 'year_earlier';
+  first: ContrastSide;
+  second: ContrastSide;
+  /** first − second over the span asked about, and over the span compared with. */
+  gapCurrent: number | null;
+  gapPrior: number | null;
+  /** first's growth − second's growth (a fraction: 0.089 is 8.9 points). */
+  growthGap: number | null;
+  /**
+   * The ratio first / second, current against prior: how much faster first grew than second, as a
+   * relative change, tested over per-period log ratios (analysis/stats/log-shift.ts).
+   */
+  relativeGrowth: (LogShift & { periods: Grain }) | null;
+  /** Why there is no growth test, when there is none. */
+  noGrowthTest: 'too_few_periods' | 'not_positive' | 'not_poolable' | 'missing_side' | null;
+  /** first against second over the span asked about, for a mean, share or ratio (none for a flow). */
+  level: DifferenceTest | null;
+  noLevelTest: NoTestReason | null;
+}
+
+export interface ValueCompareSeriesFinding {
+  type: 'value_compare_series';
+  metric: string;
+  grain: Grain;
+  value: string;
+  points: PeriodPoint[];
+}
+
+export type ContrastFinding = ValueCompareFinding | ValueCompareSeriesFinding;
