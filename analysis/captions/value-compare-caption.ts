@@ -4,7 +4,6 @@ import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { ContrastSide, ValueCompareFinding } from '../findings/contrast.js';
 import { formatChange, formatValue } from '../format.js';
 import type { Audience } from '../types.js';
-import { caveatNote } from './caveat-text.js';
 import { capitalise, inSentence } from './grammar.js';
 import { formatPoints, segmentText, spanText, valueText } from './growth-words.js';
 import { formatP } from './performance-words.js';
@@ -93,4 +92,3 @@ export function valueCompareWords(f: ValueCompareFinding | undefined, metric: Me
   return { title, caption: sentences.join(' '), clear };
 }
 
-export { caveatNote };
