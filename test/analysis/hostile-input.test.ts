@@ -71,7 +71,7 @@ interface Vocabulary {
   /** Every benign SQL text, joined: a fragment found here is the templates' own text. */
   corpus: string;
   /** (template, metric, dimension) combinations that compile: the fuzz draws from these. */
-  shapes: Pick<SubQuestion, 'template' | 'metrics' | 'dimension' | 'comparisonGroup' | 'kind' | 'lens'>[];
+  shapes: Pick<SubQuestion, 'template' | 'metrics' | 'dimension' | 'comparisonGroup' | 'kind' | 'lens' | 'contrast'>[];
 }
 
 const groupable = ds.dimensions.filter((d) => !d.personal_data).map((d) => d.name);
@@ -103,7 +103,9 @@ function benignVocabulary(): Vocabulary {
     const template = SUB_QUESTIONS[name].template;
     for (const metric of ds.metrics.map((m) => m.name)) {
       for (const dimension of [undefined, ...groupable]) {
-        const shape = { template: name, metrics: [metric], kind: 'trend' as const, lens: 'time_pattern' as const, comparisonGroup: 'skerrypass', ...(dimension ? { dimension } : {}) };
+        // A value-against-value question names its two values (bound, like every segment value).
+        const contrast = name === 'value_compare' && dimension ? { contrast: { dimension, values: ['web', 'app'] as [string, string] } } : {};
+        const shape = { template: name, metrics: [metric], kind: 'trend' as const, lens: 'time_pattern' as const, comparisonGroup: 'skerrypass', ...(dimension ? { dimension } : {}), ...contrast };
         let ok = false;
         for (const grain of GRAINS) {
           // Dates and segment values are bound, so one window and one filtered form per grain show

@@ -7,6 +7,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../analysis/answer-sub-question.js';
 import { covers, rollupNeeds, runRollup } from '../../analysis/rollup/eligibility.js';
+import { isAdditive, metricByName } from '../../analysis/catalog.js';
 import { SUB_QUESTIONS, TEMPLATE_NAMES } from '../../analysis/sub-questions/registry.js';
 import { compileRollup, executedStatements, ROLLUP_NOTE, rollupTable, sharedScanQuery, withRollup } from '../../analysis/rollup/rollup.js';
 import { seriesTemplate } from '../../analysis/templates/series.js';
@@ -62,9 +63,11 @@ describe('which sub-questions read the rollup', () => {
     const ds = ws.dataset;
     for (const sq of ALL) {
       const need = rollupNeeds(sq, ds);
-      const plainCountBeforeAfter = sq.template === 'performance_before_after' && sq.metrics[0] === 'bookings';
-      if (!ROLLUP_TEMPLATES.has(sq.template) && !plainCountBeforeAfter) expect(need).toBeNull();
-      if (plainCountBeforeAfter) expect(need).not.toBeNull();
+      // A plain count before and after, and two values' sums or counts against each other, read the rollup too.
+      const readsWhenAdditive =
+        (sq.template === 'performance_before_after' && sq.metrics[0] === 'bookings') || (sq.template === 'value_compare' && isAdditive(metricByName(ds, sq.metrics[0]!)));
+      if (!ROLLUP_TEMPLATES.has(sq.template) && !readsWhenAdditive) expect(need).toBeNull();
+      if (readsWhenAdditive) expect(need).not.toBeNull();
       if (sq.metrics.includes('customers')) expect(need).toBeNull();
     }
     expect([...ROLLUP_TEMPLATES].some((t) => t.startsWith('performance'))).toBe(false);
@@ -119,7 +122,7 @@ describe('answers over the rollup equal answers read from the table', () => {
   });
 
   it('has cases for every template that reads the rollup', () => {
-    expect(new Set(ALL.filter((sq) => rollupNeeds(sq, ws.dataset)).map((sq) => sq.template))).toEqual(new Set([...ROLLUP_TEMPLATES, 'performance_before_after']));
+    expect(new Set(ALL.filter((sq) => rollupNeeds(sq, ws.dataset)).map((sq) => sq.template))).toEqual(new Set([...ROLLUP_TEMPLATES, 'performance_before_after', 'value_compare']));
   });
 
   for (const [i, sq] of ALL.entries()) {

@@ -44,6 +44,8 @@ export const CASES: SubQuestion[] = [
   base({ template: 'growth_drivers', kind: 'growth', lens: 'breakdown', dimension: 'channel', window: SUMMER_2024 }),
   base({ template: 'growth_summary', kind: 'growth', lens: 'summary', metrics: ['passengers'] }),
   base({ template: 'growth_share_shift', kind: 'growth', lens: 'distribution', dimension: 'route', window: SUMMER_2024 }),
+  base({ template: 'value_compare', kind: 'performance', lens: 'summary', dimension: 'channel', contrast: { dimension: 'channel', values: ['app', 'web'] }, window: SUMMER_2024 }),
+  base({ template: 'value_compare', kind: 'performance', lens: 'summary', dimension: 'channel', metrics: ['refund_rate'], contrast: { dimension: 'channel', values: ['phone', 'kiosk'] }, window: SINCE_LAUNCH }),
   base({ template: 'kpi_snapshot', kind: 'kpi', lens: 'time_pattern', metrics: ['fare_per_passenger'] }),
   base({ template: 'kpi_context', kind: 'kpi', lens: 'summary', metrics: ['refund_rate'] }),
   base({ template: 'kpi_by_segment', kind: 'kpi', lens: 'breakdown', dimension: 'route', metrics: ['revenue'] }),
