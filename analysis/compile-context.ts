@@ -72,7 +72,11 @@ export function whereClause(q: QueryBuilder, ctx: CompileContext, window: DateWi
 export function segmentConditions(q: QueryBuilder, ctx: CompileContext, filters: SegmentFilter[]): string[] {
   return filters.map((f) => {
     const dim = groupableDimension(ctx.dataset, f.dimension);
-    return f.values.length === 0 ? 'FALSE' : `${q.ident(dim.column)} IN (${f.values.map((v) => q.bind(v)).join(', ')})`;
+    const list = f.values.map((v) => q.bind(v)).join(', ');
+    const col = q.ident(dim.column);
+    // "excluding kiosk": every other value, and rows where the value is missing.
+    if (f.exclude) return f.values.length === 0 ? 'TRUE' : `(${col} NOT IN (${list}) OR ${col} IS NULL)`;
+    return f.values.length === 0 ? 'FALSE' : `${col} IN (${list})`;
   });
 }
 

@@ -9,6 +9,7 @@ import type { TimeColumnType } from './sql/dialect.js';
 import { DuckDbSource } from './sources/duckdb-source.js';
 import { PostgresSource } from './sources/postgres-source.js';
 import type { Secrets } from '../config/environment.js';
+import { loadValueIndex, type ValueIndex } from './values/value-index.js';
 
 export interface Workspace {
   config: LoadedConfig;
@@ -17,6 +18,8 @@ export interface Workspace {
   context: CompileContext;
   coverage: Coverage;
   runOptions: RunOptions;
+  /** The values of each non-personal dimension, so a request can name them. */
+  values: ValueIndex;
 }
 
 export async function openWorkspace(config: LoadedConfig, datasetName?: string, secrets: Secrets = {}): Promise<Workspace> {
@@ -29,7 +32,9 @@ export async function openWorkspace(config: LoadedConfig, datasetName?: string, 
     const context: CompileContext = { dataset, dialect: source.dialect, timeColumnType };
     const runOptions: RunOptions = { maxRows: config.engine.max_result_rows, timeoutMs: config.engine.statement_timeout_ms };
     const coverage = await keptCoverage({ config, dataset, source, context, runOptions });
-    return { config, dataset, source, context, coverage, runOptions };
+    const opened: Workspace = { config, dataset, source, context, coverage, runOptions, values: new Map() };
+    opened.values = await loadValueIndex(opened);
+    return opened;
   } catch (err) {
     await source.close();
     throw err;
@@ -68,7 +73,13 @@ export async function openSource(config: LoadedConfig, dataset: DatasetConfig, s
   });
 }
 
-/** Re-reads what the data covers (for "rerun with fresh data"); kept per version of the data, so unchanged data is not read again. */
+/** Re-reads what the data covers and the values it holds (for "rerun with fresh data"); kept per version of the data, so unchanged data is not read again. */
 export async function refreshCoverage(ws: Workspace): Promise<void> {
   ws.coverage = await keptCoverage(ws);
+  ws.values = await loadValueIndex(ws);
+}
+
+/** What the request reader needs to know about a workspace's data. */
+export function datasetFacts(ws: Workspace): { dataset: DatasetConfig; coverage: Coverage; values: ValueIndex; stamp?: NonNullable<Coverage['stamps']> } {
+  return { dataset: ws.dataset, coverage: ws.coverage, values: ws.values, ...(ws.coverage.stamps ? { stamp: ws.coverage.stamps } : {}) };
 }

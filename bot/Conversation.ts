@@ -3,19 +3,19 @@
 // thread in its own stage and returns the thread's state after the message; what it says and
 // logs goes through the Step, written together at the end. A new stage is a member of the
 // ThreadState union and a case in `respond`.
-import { refreshCoverage } from '../analysis/workspace.js';
+import { datasetFacts, refreshCoverage } from '../analysis/workspace.js';
 import type { DatasetConfig } from '../config/schema.js';
 import { channelKey, chooseDataset } from './access.js';
 import { whoOf, type Who } from './AuditLog.js';
 import type { Brief } from './brief.js';
 import { readCommand, type Command } from './commands.js';
-import { catalogTerms, readRequest } from './intake.js';
+import { readRequest } from './reading/read-request.js';
+import { readWindowAnswer } from './reading/answers.js';
 import { applyPlanEdit, buildPlan, readPlanEdit, type PlanEdit } from './plan.js';
 import type { IncomingMessage } from './port.js';
-import { datasetPrompt, nextPrompt, personalDataRefusal, readAnswer, readDatasetAnswer, readWindow, type Prompt } from './prompts.js';
+import { datasetPrompt, nextPrompt, personalDataRefusal, readAnswer, readDatasetAnswer, type Prompt } from './prompts.js';
 import * as replies from './replies.js';
 import { Step, type StepContext } from './Step.js';
-import { findTerms } from './term-match.js';
 import type { ThreadDatasets } from './ThreadDatasets.js';
 import {
   commonOf,
@@ -174,7 +174,7 @@ export class Conversation {
       step.reply('denied', replies.noDatasetForChannel());
       return undefined;
     }
-    const choice = chooseDataset(msg.text, allowed.map((ws) => ws.dataset));
+    const choice = chooseDataset(msg.text, allowed.map((ws) => ws.dataset), (ds) => allowed.find((w) => w.dataset === ds)?.values);
     const first = choice.kind === 'chosen' ? choice.dataset : choice.ranked[0]!;
     const thread: ThreadCommon = {
       threadId: msg.threadId,
@@ -192,7 +192,8 @@ export class Conversation {
   }
 
   private readBrief(text: string, ds: DatasetConfig): Brief {
-    return readRequest(text, ds, { now: this.deps.now(), timeZone: ds.timezone });
+    const ws = this.deps.datasets.of({ threadId: '', dataset: ds.name });
+    return readRequest(text, datasetFacts(ws), { now: this.deps.now(), locale: this.deps.datasets.locale });
   }
 
   /** The dataset is known: acknowledge, refuse any personal data named, then ask or plan. */
@@ -306,14 +307,15 @@ export class Conversation {
   private resolvePlanEdit(edit: PlanEdit, state: PlanningState): { edit: PlanEdit } | { refusal: string } {
     const ws = this.deps.datasets.of(state);
     if (edit.type === 'add_breakdown') {
-      const hit = findTerms(edit.phrase, catalogTerms(ws.dataset)).find((h) => h.term.kind === 'dimension' || h.term.kind === 'personal');
-      if (hit?.term.kind === 'personal') return { refusal: personalDataRefusal(ws.dataset, [hit.term.name]) };
-      return { edit: { ...edit, ...(hit ? { dimension: hit.term.name } : {}) } };
+      const read = readRequest(`by ${edit.phrase}`, datasetFacts(ws), { now: this.deps.now() });
+      if ((read.personalData ?? []).length > 0) return { refusal: personalDataRefusal(ws.dataset, read.personalData!) };
+      const dimension = read.dimensions[0] ?? read.questions.flatMap((q) => q.filters.map((f) => f.dimension))[0];
+      return { edit: { ...edit, ...(dimension ? { dimension } : {}) } };
     }
     if (edit.type === 'window') {
-      const w = readWindow(edit.phrase, ws.coverage);
-      if ('error' in w) return { refusal: w.error };
-      return { edit: { ...edit, window: w.window } };
+      const w = readWindowAnswer(edit.phrase, datasetFacts(ws), this.deps.now());
+      if (!w.ok) return { refusal: /couldn't read/.test(w.message) ? replies.planEditHelp() : w.message };
+      return { edit: { ...edit, window: w.value.window, ...(w.value.compareWindow ? { compareWindow: w.value.compareWindow } : {}) } };
     }
     return { edit };
   }

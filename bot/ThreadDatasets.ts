@@ -1,6 +1,6 @@
 // Which dataset a thread uses and whether its channel may still use it: the configured
 // workspaces, looked up through the config's access rules.
-import type { Workspace } from '../analysis/workspace.js';
+import { datasetFacts, type Workspace } from '../analysis/workspace.js';
 import type { AccessConfig } from '../config/schema.js';
 import { allowedDatasets } from './access.js';
 import type { PromptContext } from './prompts.js';
@@ -59,6 +59,6 @@ export class ThreadDatasets {
   }
 
   promptContext(ws: Workspace, now: Date): PromptContext {
-    return { dataset: ws.dataset, coverage: ws.coverage, now, locale: this.locale };
+    return { dataset: ws.dataset, coverage: ws.coverage, facts: datasetFacts(ws), now, locale: this.locale };
   }
 }

@@ -1,9 +1,11 @@
 // Which datasets a chat channel may use, and which of them a request is about. The rules come
 // from the config's `access` section; without one, every channel may use every dataset.
 import type { AccessConfig, DatasetConfig } from '../config/schema.js';
-import { catalogTerms, readablePart } from './intake.js';
+import type { ValueIndex } from '../analysis/values/value-index.js';
 import type { IncomingMessage } from './port.js';
-import { findTerms, type CatalogTerm } from './term-match.js';
+import { findCatalogHits, prepareCatalog } from './reading/catalog-match.js';
+import { readablePart } from './reading/read-request.js';
+import { RequestText } from './reading/text.js';
 
 /**
  * The channel key of a message: the one its adapter set ("local", "slack:C0123",
@@ -64,24 +66,24 @@ export type DatasetChoice =
  * request names (its name or label 3, a metric, dimension or group named exactly 2, with a typo 1);
  * a single best score above zero chooses, anything else asks.
  */
-export function chooseDataset(text: string, datasets: readonly DatasetConfig[]): DatasetChoice {
+export function chooseDataset(text: string, datasets: readonly DatasetConfig[], values: (ds: DatasetConfig) => ValueIndex | undefined = () => undefined): DatasetChoice {
   if (datasets.length === 1) return { kind: 'chosen', dataset: datasets[0]!, score: 0 };
-  // Only the part of a long request that intake reads is scored (see REQUEST_READ_LIMIT).
+  // Only the part of a long request that is read is scored (see REQUEST_READ_LIMIT).
   const readable = readablePart(text);
-  const scored = datasets.map((ds, order) => ({ ds, order, score: catalogScore(readable, ds) }));
+  const scored = datasets.map((ds, order) => ({ ds, order, score: catalogScore(readable, ds, values(ds)) }));
   scored.sort((a, b) => b.score - a.score || a.order - b.order);
   const [best, second] = scored;
   if (best && best.score > 0 && (!second || best.score > second.score)) return { kind: 'chosen', dataset: best.ds, score: best.score };
   return { kind: 'ask', ranked: scored.map((s) => s.ds), matched: (best?.score ?? 0) > 0 };
 }
 
-function catalogScore(text: string, ds: DatasetConfig): number {
-  const own: CatalogTerm[] = [...new Set([ds.name.replaceAll('_', ' '), ds.label])].map((phrase) => ({ name: ds.name, kind: 'group', phrase }));
+/** The dataset's own name 3, a catalog term or value named exactly 2, with a typo 1. */
+function catalogScore(text: string, ds: DatasetConfig, values: ValueIndex | undefined): number {
   let score = 0;
-  for (const hit of findTerms(text, own)) score += hit.exact ? 3 : 0;
-  for (const hit of findTerms(text, catalogTerms(ds))) {
-    if (hit.term.kind === 'personal') continue;
-    score += hit.exact ? 2 : 1;
+  for (const hit of findCatalogHits(new RequestText(text), prepareCatalog(ds, values))) {
+    const kinds = new Set(hit.entries.map((e) => e.kind));
+    if (kinds.has('personal')) continue;
+    score += kinds.has('dataset') ? 3 : hit.exact ? 2 : 1;
   }
   return score;
 }

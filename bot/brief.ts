@@ -1,12 +1,22 @@
-// A brief: what the request asks for, read from its text and completed by the prompts.
-import type { Audience, DateWindow, Grain, RequestKind } from '../analysis/types.js';
+// A brief: what a request asks for, as data, with the words each part was read from. Written by
+// the reader (bot/reading/), completed by the requester's answers and corrections, and turned
+// into a plan. `threadcount read` prints it (bot/reading/brief-json.ts).
+import type { Audience, DateWindow, Grain, RequestKind, SegmentFilter } from '../analysis/types.js';
 
 export { AUDIENCES, type Audience } from '../analysis/types.js';
 
-/** A phrase in the request that looked like a metric but matched nothing in the catalog. */
+/** A word or phrase that names something the catalog and the data do not know. */
 export interface UnknownTerm {
   text: string;
   closest: string[];
+  /** What it seemed to name: a measure, a breakdown, or a value of the data. */
+  role?: 'metric' | 'dimension' | 'value' | 'other';
+}
+
+/** A word that matches several values (or values of several breakdowns): asked, never guessed. */
+export interface AmbiguousValue {
+  text: string;
+  candidates: { dimension: string; value: string }[];
 }
 
 /** One question inside a request; a message may hold several. */
@@ -15,28 +25,79 @@ export interface Question {
   kind: RequestKind;
   metrics: string[];
   dimensions: string[];
+  /** Values of the data the question is restricted to ("phone bookings", "app vs web"). */
+  filters: SegmentFilter[];
   comparisonGroup?: string;
+  /** The date a before/after turns on, stated or the group's launch date when the text refers to it. */
+  launchDate?: string;
   /** Asks how often each customer (the group's unit) does something, not a metric total. */
   frequency: boolean;
-  /** Asks for the numbers period by period ("the numbers by month"): the plan opens with the period table. */
+  /** The question's own period and the period it is compared with, when it names them. */
+  window?: DateWindow;
+  compareWindow?: DateWindow;
+  /** The period named runs past the data's last day, so the window stops there ("this summer" so far). */
+  windowSoFar?: boolean;
+  /** Two values of one dimension set against each other ("did phone grow faster than kiosk"). */
+  contrast?: { dimension: string; values: string[] };
+  /** "top 5 routes": how many to rank. */
+  rankLimit?: number;
+  /** "per decade", "a year": the unit a rate of change is stated in. */
+  rateUnit?: 'year' | 'decade';
+  /** "bookings per day by month": a per-day average at the grain asked. */
+  perDay?: boolean;
+  /** "the numbers by month", "side by side": a table of the metrics by period. */
   table?: boolean;
+  /** The metric the question took from the one before ("how has that moved"). */
+  metricsFromPrevious?: boolean;
 }
+
+/** How a slot of the brief got its value. */
+export type EvidenceHow = 'stated' | 'inferred' | 'default';
+
+export interface Evidence {
+  /** The words the value was read from (empty for a default). */
+  words: string;
+  how: EvidenceHow;
+  /** For a default: the value it takes and why. */
+  value?: string;
+  reason?: string;
+}
+
+export const BRIEF_SLOTS = ['dataset', 'kinds', 'metrics', 'dimensions', 'filters', 'comparisonGroup', 'launchDate', 'window', 'compareWindow', 'grain', 'audience', 'deadline'] as const;
+export type BriefSlot = (typeof BRIEF_SLOTS)[number];
+
+/** What cannot be defaulted, asked before anything runs. */
+export const ASKABLE = ['metrics', 'values', 'dimensions', 'dataset'] as const;
+export type Askable = (typeof ASKABLE)[number];
 
 export interface Brief {
   requestText: string;
   questions: Question[];
+  /** Unions over the questions, for what needs the whole request at once. */
   kinds: RequestKind[];
   metrics: string[];
   dimensions: string[];
   comparisonGroup?: string;
   unknownTerms: UnknownTerm[];
+  ambiguousValues?: AmbiguousValue[];
   window?: DateWindow;
+  compareWindow?: DateWindow;
   grain?: Grain;
   deadline?: string;
   audience?: Audience;
   purpose?: string;
-  /** The breakdown prompt was answered (possibly with "none"). */
+  /** The breakdown was answered or corrected (possibly with "none"). */
   dimensionsAsked?: boolean;
   /** Personal-data dimensions the request named: refused, never grouped by, filtered on or shown. */
   personalData?: string[];
+  /** Values that look like a person's contact or id ("someone@example.com"): refused as filters. */
+  personalValues?: string[];
+  /** What relative periods were counted from. */
+  anchor?: { today: string; why: string };
+  /** How each slot was read. */
+  evidence?: Partial<Record<BriefSlot, Evidence>>;
+  /** What the reader could not settle and must ask. */
+  toAsk?: Askable[];
+  /** A deadline that was named but is already past, said back. */
+  pastDeadline?: string;
 }

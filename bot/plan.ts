@@ -6,8 +6,9 @@ import type { Coverage } from '../analysis/coverage.js';
 import { SUB_QUESTIONS, type TemplateName } from '../analysis/sub-questions/registry.js';
 import { GRAINS, type DateWindow, type Grain, type Lens, type RequestKind, type SubQuestion } from '../analysis/types.js';
 import type { Brief, Question } from './brief.js';
-import { readPeriodPhrase } from './period-phrases.js';
-import { fullWindow } from './prompts.js';
+import { fullWindow } from './reading/answers.js';
+import { AGREE, CANCEL, grainNamedBy } from './reading/lexicon.js';
+import { describeWindow } from './reading/window-words.js';
 
 export interface Plan {
   items: SubQuestion[];
@@ -30,27 +31,42 @@ export const MAX_TABLE_METRICS = 4;
 
 export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): Plan {
   const grain: Grain = brief.grain ?? 'month';
-  const all = brief.window ?? fullWindow(coverage);
-  if (!all) return { items: [], notCovered: [], leftOut: [], readings: [] };
+  // All the data, for the context of a growth or before/after answer; the brief's period, if it
+  // names one, for questions that name none of their own.
+  const history = fullWindow(coverage);
+  if (!history) return { items: [], notCovered: [], leftOut: [], readings: [] };
+  const all = brief.window ?? history;
   const drafts: Draft[] = [];
   const notCovered = new Set<RequestKind>();
   const readings: string[] = [];
-  const questions = brief.questions.length > 0 ? brief.questions : [{ text: brief.requestText, kind: 'trend' as const, metrics: brief.metrics, dimensions: brief.dimensions, frequency: false }];
+  const questions: Question[] = brief.questions.length > 0 ? brief.questions : [{ text: brief.requestText, kind: 'trend', metrics: brief.metrics, dimensions: brief.dimensions, filters: [], frequency: false }];
   for (const q of questions) {
     const group = groupFor(q, brief, ds);
-    const phrase = readPeriodPhrase(q.text, coverage, group?.launch_date);
-    if (phrase) readings.push(`"${q.text}": ${phrase.reading}`);
-    const focus = phrase?.window ?? all;
+    if (q.window) readings.push(`"${q.text}": ${describeWindow(q.window, coverage)}${q.windowSoFar ? ' so far (the data ends there)' : ''}${q.compareWindow ? `, against ${describeWindow(q.compareWindow, coverage)}` : ''}`);
+    const focus = q.window ?? all;
+    // What every sub-question of this question carries: its filters and the hints the request gave.
+    const shared: Partial<SubQuestion> = {
+      filters: q.filters,
+      ...(q.compareWindow ? { compareWindow: q.compareWindow } : {}),
+      ...(q.launchDate ? { launchDate: q.launchDate } : {}),
+      ...(q.perDay ? { perDay: true } : {}),
+      ...(q.rankLimit ? { rankLimit: q.rankLimit } : {}),
+      ...(q.rateUnit ? { rateUnit: q.rateUnit } : {}),
+    };
     // A question's own breakdowns; the brief's (typed in a prompt) only when nothing else says.
     const own = q.dimensions.length > 0 ? q.dimensions : questions.length === 1 || brief.dimensionsAsked ? brief.dimensions : [];
+    // Two values set against each other ("phone vs kiosk") are read through their breakdown.
+    if (q.contrast && !own.includes(q.contrast.dimension)) own.push(q.contrast.dimension);
     const dims = own.filter((d) => isBreakdownDimension(ds, d));
     const metrics = q.metrics.length > 0 ? q.metrics : q.frequency ? [plainCountMetric(ds)?.name].filter((m): m is string => !!m) : brief.metrics;
-    addPeriodTables(drafts, q, brief, metrics, grain, focus);
+    addPeriodTables(drafts, q, brief, metrics, grain, focus, shared);
     const before = drafts.length;
+    // A question's own period frames its answers; without one, the brief's (or all the data).
+    const span = q.window ?? all;
     // Kind and lens are the sub-question's own (its declaration in the registry).
-    const add = (template: TemplateName, metric: string, headline: boolean, extra: Partial<SubQuestion> = {}, window: DateWindow = all) => {
+    const add = (template: TemplateName, metric: string, headline: boolean, extra: Partial<SubQuestion> = {}, window: DateWindow = span) => {
       const { kind, lens } = SUB_QUESTIONS[template];
-      drafts.push({ kind, lens, template, metrics: [metric], grain, window, filters: [], headline, ...extra });
+      drafts.push({ kind, lens, template, metrics: [metric], grain, window, filters: [], headline, ...shared, ...extra });
     };
     for (const metric of metrics) {
       const additive = ds.metrics.some((m) => m.name === metric) && isAdditive(metricByName(ds, metric));
@@ -65,31 +81,34 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           break;
         case 'growth':
           // The metric's own pattern over time is the context any growth answer is read against.
-          add('series', metric, false);
-          add('growth_series', metric, !dims.length);
+          // Over a short window of its own ("this summer") the growth series needs the history around it.
+          const context = q.window && monthsIn(q.window) >= 13 ? q.window : history;
+          add('series', metric, false, {}, context);
+          add('growth_series', metric, !dims.length, {}, context);
           for (const [i, d] of dims.entries()) add('growth_drivers', metric, i === 0, { dimension: d }, focus);
-          add('growth_summary', metric, false);
+          add('growth_summary', metric, false, {}, context);
           if (additive) for (const d of dims) add('growth_share_shift', metric, false, { dimension: d }, focus);
           break;
         case 'performance': {
           if (!group) break;
           const g = { comparisonGroup: group.name };
-          const since = phrase?.window ?? (group.launch_date ? { start: group.launch_date, end: all.end } : all);
+          const launch = q.launchDate ?? group.launch_date;
+          const since = q.window ?? (launch ? { start: launch, end: history.end } : all);
           if (q.frequency) {
             // "Do they travel more often?" is a per-customer question: comparing the groups'
             // total bookings would mostly measure how many customers each group has.
             add('performance_frequency', metric, true, g, since);
-            add('performance_before_after', metric, false, g);
+            add('performance_before_after', metric, false, g, history);
             break;
           }
           add('performance_compare', metric, true, g, since);
-          add('performance_before_after', metric, false, g);
+          add('performance_before_after', metric, false, g, history);
           const d = dims[0] ?? firstBreakdownDimension(ds);
           if (d) add('performance_by_segment', metric, false, { ...g, dimension: d }, since);
           break;
         }
         case 'kpi': {
-          const upTo = { start: all.start, end: focus.end };
+          const upTo = { start: history.start, end: focus.end };
           add('kpi_snapshot', metric, true, {}, upTo);
           add('kpi_context', metric, false, {}, upTo);
           for (const d of dims) add('kpi_by_segment', metric, false, { dimension: d }, upTo);
@@ -128,7 +147,7 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
  * grain, or asks for the numbers period by period: the metrics side by side, split into tables of
  * at most MAX_TABLE_METRICS. A table already planned for the same metrics and window is not repeated.
  */
-function addPeriodTables(drafts: Draft[], q: Question, brief: Brief, metrics: string[], grain: Grain, window: DateWindow): void {
+function addPeriodTables(drafts: Draft[], q: Question, brief: Brief, metrics: string[], grain: Grain, window: DateWindow, shared: Partial<SubQuestion>): void {
   if (metrics.length === 0 || !(q.table || (metrics.length >= 2 && brief.grain))) return;
   const count = Math.ceil(metrics.length / MAX_TABLE_METRICS);
   for (let k = 0; k < count; k++) {
@@ -136,8 +155,12 @@ function addPeriodTables(drafts: Draft[], q: Question, brief: Brief, metrics: st
     const same = (d: Draft) => d.template === 'period_table' && d.metrics.join() === chunk.join() && d.window.start === window.start && d.window.end === window.end;
     if (drafts.some(same)) continue;
     const { kind, lens } = SUB_QUESTIONS.period_table;
-    drafts.push({ kind, lens, template: 'period_table', metrics: chunk, grain, window, filters: [], headline: true, first: true });
+    drafts.push({ kind, lens, template: 'period_table', metrics: chunk, grain, window, filters: [], ...shared, headline: true, first: true });
   }
+}
+
+function monthsIn(w: DateWindow): number {
+  return (Number(w.end.slice(0, 4)) - Number(w.start.slice(0, 4))) * 12 + Number(w.end.slice(5, 7)) - Number(w.start.slice(5, 7));
 }
 
 function groupFor(q: Question, brief: Brief, ds: DatasetConfig): ComparisonGroup | undefined {
@@ -153,7 +176,7 @@ export type PlanEdit =
   /** "add a breakdown by channel": the phrase is matched to a dimension by the caller. */
   | { type: 'add_breakdown'; phrase: string; dimension?: string }
   /** "use 2024 instead", "since 2023-04": read against the data's coverage by the caller. */
-  | { type: 'window'; phrase: string; window?: DateWindow }
+  | { type: 'window'; phrase: string; window?: DateWindow; compareWindow?: DateWindow }
   | { type: 'unknown' };
 
 // The breakdown lens of each request kind, for "add a breakdown by ...".
@@ -166,20 +189,21 @@ const BREAKDOWN_TEMPLATE: Record<RequestKind, TemplateName> = {
 
 export function readPlanEdit(text: string): PlanEdit {
   const t = text.trim().toLowerCase();
-  if (/^(go|go ahead|yes|ok|okay|agreed?|looks good|lgtm|run( it)?|start|do it|sounds good)[.!]*$/.test(t)) return { type: 'agree' };
-  if (/^(cancel|stop|never ?mind|abort)\b/.test(t)) return { type: 'cancel' };
-  const drop = /^(?:drop|remove|delete|skip)\s+(.+)$/.exec(t);
+  if (AGREE.test(t)) return { type: 'agree' };
+  if (CANCEL.test(t)) return { type: 'cancel' };
+  const drop = /^(?:please\s+)?(?:drop|remove|delete|skip|lose|no)\s+(?:items?\s+|numbers?\s+|#)?(.+)$/.exec(t);
   if (drop) {
     const numbers = [...drop[1]!.matchAll(/\d+/g)].map((m) => Number(m[0]));
-    if (numbers.length > 0) return { type: 'drop', numbers };
+    if (numbers.length > 0 && !/\b(?:19|20)\d{2}\b/.test(drop[1]!)) return { type: 'drop', numbers };
   }
-  const add = /^(?:please\s+)?(?:add|also|plus|and|include)\b.*?\bby\s+(.+?)[.!?]*$/.exec(t) ?? /\bbreak\s+(?:it|this|that|them)?\s*down\s+by\s+(.+?)[.!?]*$/.exec(t);
-  if (add) return { type: 'add_breakdown', phrase: add[1]! };
-  const window = /^(?:(?:change|set|switch)\s+the\s+(?:window|period|dates?)\s+to|window|period|use|only|just)\s+(.+?)(?:\s+instead)?[.!?]*$/.exec(t) ?? /^((?:since|from)\s+.+?)[.!?]*$/.exec(t);
-  if (window && /\d{4}|last\s+\d+|all/.test(window[1]!)) return { type: 'window', phrase: window[1]! };
-  const adjective: Record<Grain, string> = { day: 'daily', week: 'weekly', month: 'monthly', quarter: 'quarterly', year: 'yearly' };
-  const grain = GRAINS.find((g) => new RegExp(`\\b(${adjective[g]}|by ${g}|per ${g}|${g}ly)\\b`).test(t));
-  if (grain) return { type: 'grain', grain };
+  const add = /^(?:please\s+)?(?:add|also|plus|and|include)\b.*?\b(?:by|per|across)\s+(.+?)[.!?]*$/.exec(t) ?? /\b(?:break|split)\s+(?:it|this|that|them)?\s*(?:down\s+)?(?:by|across)\s+(.+?)[.!?]*$/.exec(t) ?? /^(?:please\s+)?add\s+(?:the\s+|a\s+)?(.+?)(?:\s+breakdown)?[.!?]*$/.exec(t);
+  if (add && !grainNamedBy(add[1]!)) return { type: 'add_breakdown', phrase: add[1]! };
+  // A grain alone ("weekly", "by month"); a grain inside a period phrase ("the last 3 months") is a period.
+  const grain = grainNamedBy(t);
+  if (grain && /^(?:(?:make it|switch to|change to|use|go|do it|please|by|per|at)\s+)*(?:a\s+)?\S+(?:\s+(?:grain|instead|please|level|view|basis))?[.!]*$/.test(t)) return { type: 'grain', grain };
+  // Anything naming a period ("use 2024", "since march 2024", "compare 2025 so far with 2024"): read by the caller.
+  const phrase = t.replace(/^(?:(?:change|set|switch|move)\s+(?:the\s+)?(?:window|period|dates?|range)\s+to|(?:use|only|just|make it|do|for)\s+)/, '').replace(/\s+instead[.!?]*$/, '');
+  if (/\d|\b(?:since|from|until|between|last|this|past|previous|year|month|quarter|week|day|half|ytd|mtd|qtd|to date|so far|all|everything|spring|summer|autumn|fall|winter|h[12]|q[1-4]|jan|feb|mar|apr|may|jun|jul|aug|sep|oct|nov|dec)/.test(phrase)) return { type: 'window', phrase };
   return { type: 'unknown' };
 }
 
@@ -197,7 +221,8 @@ export function applyPlanEdit(plan: Plan, edit: PlanEdit): { plan: Plan; error?:
     case 'window': {
       if (!edit.window) return { plan, error: `I couldn't read "${edit.phrase}" as a period.` };
       const w = edit.window;
-      return { plan: { ...plan, items: plan.items.map((sq) => ({ ...sq, window: w })) } };
+      const compare = edit.compareWindow;
+      return { plan: { ...plan, items: plan.items.map((sq) => ({ ...sq, window: w, ...(compare ? { compareWindow: compare } : {}) })) } };
     }
     case 'add_breakdown': {
       const dimension = edit.dimension;

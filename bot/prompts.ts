@@ -3,14 +3,17 @@
 import type { DatasetConfig } from '../config/schema.js';
 import type { Coverage } from '../analysis/coverage.js';
 import { formatPeriod } from '../analysis/format.js';
-import { addDays, addMonths, nextPeriod, periodStart } from '../analysis/periods.js';
-import { GRAINS, type DateWindow, type Grain } from '../analysis/types.js';
-import { AUDIENCES, type Audience, type Brief } from './brief.js';
-import { catalogTerms, isValidIsoDate, readDeadlineAnswer } from './intake.js';
-import { readPeriodPhrase } from './period-phrases.js';
-import { findTerms, normaliseWords } from './term-match.js';
+import { addDays, addMonths, periodStart } from '../analysis/periods.js';
+import { GRAINS, type DateWindow, type Grain, type SegmentFilter } from '../analysis/types.js';
+import type { Brief, Question } from './brief.js';
+import { fullWindow, readDeadlineAnswer, readWindowAnswer } from './reading/answers.js';
+import { ACCEPT_DEFAULT, AUDIENCE_LABELS, audienceNamedBy, GRAIN_WORDS, grainNamedBy } from './reading/lexicon.js';
+import { type DatasetFacts, readRequest } from './reading/read-request.js';
+import { phraseWords } from './reading/text.js';
 
-export const PROMPT_TOPICS = ['dataset', 'metrics', 'audience', 'deadline', 'grain', 'window', 'dimensions'] as const;
+export { fullWindow } from './reading/answers.js';
+
+export const PROMPT_TOPICS = ['dataset', 'metrics', 'values', 'audience', 'deadline', 'grain', 'window', 'dimensions'] as const;
 export type PromptTopic = (typeof PROMPT_TOPICS)[number];
 
 export interface PromptOption {
@@ -30,17 +33,20 @@ export interface Prompt {
 export interface PromptContext {
   dataset: DatasetConfig;
   coverage: Coverage;
+  /** What the reader knows of the data (catalog, coverage, values). */
+  facts: DatasetFacts;
   now: Date;
   locale: string;
 }
 
 /** The next thing to ask, or null when the brief is complete enough to propose a plan. */
 export function nextPrompt(brief: Brief, ctx: PromptContext): Prompt | null {
-  if (brief.unknownTerms.length > 0 || brief.questions.length === 0 || questionsWithoutMetric(brief).length > 0) return metricsPrompt(brief, ctx);
+  if (brief.unknownTerms.some((u) => u.role === 'metric') || brief.questions.length === 0 || questionsWithoutMetric(brief).length > 0) return metricsPrompt(brief, ctx);
+  if ((brief.ambiguousValues ?? []).length > 0) return valuesPrompt(brief, ctx);
   if (!brief.audience) return audiencePrompt();
   if (!brief.deadline) return deadlinePrompt(ctx);
   if (!brief.grain) return grainPrompt(ctx);
-  if (!brief.window && needsWindow(brief, ctx)) return windowPrompt(brief, ctx);
+  if (!brief.window && needsWindow(brief)) return windowPrompt(brief, ctx);
   if (brief.dimensions.length === 0 && brief.questions.some((q) => q.kind === 'growth' && q.dimensions.length === 0) && !brief.dimensionsAsked) {
     return dimensionsPrompt(ctx);
   }
@@ -52,12 +58,26 @@ export function questionsWithoutMetric(brief: Brief) {
   return brief.questions.filter((q) => q.metrics.length === 0 && !q.frequency);
 }
 
-/** A window is asked only for questions whose text names no period of its own. */
-function needsWindow(brief: Brief, ctx: PromptContext): boolean {
-  return brief.questions.some((q) => {
-    const launch = ctx.dataset.comparison_groups.find((g) => g.name === q.comparisonGroup)?.launch_date;
-    return !readPeriodPhrase(q.text, ctx.coverage, launch);
-  });
+/** A window is asked only for questions that name no period of their own. */
+function needsWindow(brief: Brief): boolean {
+  return brief.questions.some((q) => !q.window && !q.launchDate);
+}
+
+/** A word that matches several values: which was meant, with the candidates as options. */
+function valuesPrompt(brief: Brief, ctx: PromptContext): Prompt {
+  const a = brief.ambiguousValues![0]!;
+  const label = (c: { dimension: string; value: string }) => {
+    const dim = ctx.dataset.dimensions.find((d) => d.name === c.dimension)?.label ?? c.dimension;
+    return `${c.value} (${dim.toLowerCase()})`;
+  };
+  const options = a.candidates.map((c) => ({ value: JSON.stringify(c), label: label(c) }));
+  return {
+    topic: 'values',
+    question: `"${a.text}" matches more than one value in the data. Which did you mean?`,
+    options,
+    recommended: { ...options[0]!, reason: 'the most common of them in the data' },
+    many: true,
+  };
 }
 
 /**
@@ -114,7 +134,7 @@ function dimensionsPrompt(ctx: PromptContext): Prompt {
 
 function metricsPrompt(brief: Brief, ctx: PromptContext): Prompt {
   const ds = ctx.dataset;
-  const unknown = brief.unknownTerms[0];
+  const unknown = brief.unknownTerms.find((u) => u.role === 'metric');
   const suggested = unknown?.closest[0] ?? ds.metrics[0]!.name;
   const label = (name: string) => ds.metrics.find((m) => m.name === name)?.label ?? name;
   const missing = questionsWithoutMetric(brief)[0];
@@ -140,11 +160,7 @@ function audiencePrompt(): Prompt {
   return {
     topic: 'audience',
     question: 'Who will read this?',
-    options: [
-      { value: 'leadership', label: 'Leadership (plain words, headline first)' },
-      { value: 'managers', label: 'Managers (plain words with the detail)' },
-      { value: 'analysts', label: 'Analysts (tests, p-values and intervals)' },
-    ],
+    options: (['leadership', 'managers', 'analysts'] as const).map((a) => ({ value: a, label: `${AUDIENCE_LABELS[a].label} (${AUDIENCE_LABELS[a].detail})` })),
     recommended: { value: 'managers', label: 'Managers', reason: 'plain words with enough detail to act on' },
     many: false,
   };
@@ -184,12 +200,10 @@ function grainPrompt(ctx: PromptContext): Prompt {
   };
 }
 
-const GRAIN_LABEL: Record<Grain, string> = { day: 'Daily', week: 'Weekly', month: 'Monthly', quarter: 'Quarterly', year: 'Yearly' };
+const GRAIN_LABEL = Object.fromEntries(GRAINS.map((g) => [g, capitalise(GRAIN_WORDS[g].adjective)])) as Record<Grain, string>;
 
-/** All the data there is: its first day to the day after its last. */
-export function fullWindow(coverage: Coverage): DateWindow | null {
-  if (!coverage.firstDate || !coverage.lastDate) return null;
-  return { start: coverage.firstDate, end: addDays(coverage.lastDate, 1) };
+function capitalise(s: string): string {
+  return s.charAt(0).toUpperCase() + s.slice(1);
 }
 
 function windowPrompt(brief: Brief, ctx: PromptContext): Prompt {
@@ -219,122 +233,86 @@ function windowPrompt(brief: Brief, ctx: PromptContext): Prompt {
 
 export type AnswerReading = { ok: true; brief: Brief } | { ok: false; message: string };
 
-const ACCEPT_DEFAULT = /^\s*(|ok|okay|yes|y|sure|fine|default|recommended|go with (that|the default|your suggestion)|sounds good|whatever you (think|recommend))\s*[.!]?\s*$/i;
-
-/** Reads a typed or clicked answer to `prompt` into the brief, or explains what was wrong. */
+/** Reads a typed (or clicked) answer to `prompt` into the brief, or explains what was wrong. */
 export function readAnswer(prompt: Prompt, text: string, brief: Brief, ctx: PromptContext): AnswerReading {
   const typed = ACCEPT_DEFAULT.test(text) ? prompt.recommended.value : text.trim();
+  const facts = ctx.facts;
   switch (prompt.topic) {
     case 'metrics': {
-      const terms = catalogTerms(ctx.dataset).filter((t) => t.kind === 'metric');
-      const exact = ctx.dataset.metrics.filter((m) => typed.split(/\s*,\s*/).includes(m.name)).map((m) => m.name);
-      const found = exact.length > 0 ? exact : [...new Set(findTerms(typed, terms).map((h) => h.term.name))];
+      const named = ctx.dataset.metrics.filter((m) => typed.split(/\s*,\s*/).includes(m.name)).map((m) => m.name);
+      const found = named.length > 0 ? named : readRequest(typed, facts, { now: ctx.now }).metrics;
       if (found.length === 0) {
         return { ok: false, message: `I couldn't match "${clip(typed)}" to a metric. I can measure: ${ctx.dataset.metrics.map((m) => m.label).join(', ')}.` };
       }
-      const questions = brief.questions.length > 0
+      const questions: Question[] = brief.questions.length > 0
         ? brief.questions.map((q) => (q.metrics.length === 0 && !q.frequency ? { ...q, metrics: found } : q))
-        : [{ text: brief.requestText, kind: brief.kinds[0] ?? 'trend', metrics: found, dimensions: brief.dimensions, frequency: false }];
-      return { ok: true, brief: { ...brief, questions, metrics: [...new Set([...brief.metrics, ...found])], unknownTerms: [] } };
+        : [{ text: brief.requestText, kind: brief.kinds[0] ?? 'trend', metrics: found, dimensions: brief.dimensions, filters: [], frequency: false }];
+      const unknownTerms = brief.unknownTerms.filter((u) => u.role !== 'metric');
+      return { ok: true, brief: { ...brief, questions, metrics: [...new Set([...brief.metrics, ...found])], unknownTerms, toAsk: (brief.toAsk ?? []).filter((t) => t !== 'metrics') } };
     }
     case 'audience': {
-      const a = AUDIENCES.find((x) => new RegExp(`\\b${x.slice(0, -1)}`, 'i').test(typed)) ?? audienceFromWords(typed);
+      const a = audienceNamedBy(typed);
       if (!a) return { ok: false, message: `Please choose one of: leadership, managers, analysts.` };
       return { ok: true, brief: { ...brief, audience: a } };
     }
     case 'deadline': {
-      if (/^\s*(none|no deadline|no rush|whenever|n\/a)\s*$/i.test(typed)) return { ok: true, brief: { ...brief, deadline: 'none' } };
-      if (/^\d{4}-\d{2}-\d{2}$/.test(typed) && !isValidIsoDate(typed)) return { ok: false, message: `${typed} is not a real date. Try a date like 2026-12-15, "Friday" or "asap".` };
-      const d = readDeadlineAnswer(typed, { now: ctx.now, timeZone: ctx.dataset.timezone });
-      if (!d) return { ok: false, message: `I couldn't read "${clip(typed)}" as a date. Try a date like 2026-12-15, "next Friday", "asap" or "none".` };
-      return { ok: true, brief: { ...brief, deadline: d } };
+      const d = readDeadlineAnswer(typed, ctx.now, ctx.dataset.timezone);
+      if (!d.ok) return d;
+      return { ok: true, brief: { ...brief, deadline: d.value } };
     }
     case 'grain': {
-      const words: Record<Grain, RegExp> = {
-        day: /\b(days?|daily)\b/i,
-        week: /\b(weeks?|weekly)\b/i,
-        month: /\b(months?|monthly)\b/i,
-        quarter: /\b(quarters?|quarterly|q)\b/i,
-        year: /\b(years?|yearly|annual(ly)?)\b/i,
-      };
-      const g = GRAINS.find((x) => words[x].test(typed));
+      const g = grainNamedBy(typed);
       if (!g) return { ok: false, message: `Please choose a grain: ${GRAINS.join(', ')}.` };
       return { ok: true, brief: { ...brief, grain: g } };
     }
     case 'window': {
-      const w = readWindow(typed, ctx.coverage);
-      if ('error' in w) return { ok: false, message: w.error };
-      return { ok: true, brief: { ...brief, window: w.window } };
+      const w = readWindowAnswer(typed, facts, ctx.now);
+      if (!w.ok) return w;
+      return { ok: true, brief: { ...brief, window: w.value.window, ...(w.value.compareWindow ? { compareWindow: w.value.compareWindow } : {}) } };
     }
     case 'dataset': {
       // The bot reads this one itself (readDatasetAnswer): the brief waits for the dataset.
       return { ok: false, message: `Choose one of: ${prompt.options.map((o) => o.label).join(', ')}.` };
     }
+    case 'values': {
+      const ambiguous = brief.ambiguousValues?.[0];
+      if (!ambiguous) return { ok: true, brief };
+      const chosen = prompt.options.filter((o) => typed.split(/\s*,\s*/).includes(o.value) || o.value === typed || normaliseWords(o.label).join(' ') === normaliseWords(typed).join(' '));
+      const byWords = chosen.length > 0 ? chosen : prompt.options.filter((o) => normaliseWords(typed).some((w) => w.length > 3 && normaliseWords(o.label).includes(w)));
+      if (byWords.length === 0) return { ok: false, message: `Choose one of: ${prompt.options.map((o) => o.label).join(', ')}.` };
+      const picks = byWords.map((o) => JSON.parse(o.value) as { dimension: string; value: string });
+      const questions = brief.questions.map((q, i) => (i === 0 ? { ...q, filters: addValues(q.filters, picks) } : q));
+      const rest = (brief.ambiguousValues ?? []).slice(1);
+      return { ok: true, brief: { ...brief, questions, ambiguousValues: rest, toAsk: rest.length > 0 ? brief.toAsk ?? [] : (brief.toAsk ?? []).filter((t) => t !== 'values') } };
+    }
     case 'dimensions': {
-      const all = catalogTerms(ctx.dataset);
-      const hits = findTerms(typed, all.filter((t) => t.kind === 'dimension' || t.kind === 'personal'));
-      const personal = [...new Set(hits.filter((h) => h.term.kind === 'personal').map((h) => h.term.name))];
-      if (personal.length > 0) return { ok: false, message: personalDataRefusal(ctx.dataset, personal) };
-      const terms = all.filter((t) => t.kind === 'dimension');
-      const found = [...new Set(hits.filter((h) => h.term.kind === 'dimension').map((h) => h.term.name))];
-      if (found.length === 0 && !/^\s*none\s*$/i.test(typed)) {
-        return { ok: false, message: `I couldn't match "${clip(typed)}" to a dimension. I can break down by: ${terms.map((t) => t.phrase).join(', ')}.` };
+      if (/^\s*(?:none|no|no breakdown|nothing)\s*[.!]?\s*$/i.test(typed)) return { ok: true, brief: { ...brief, dimensions: [], dimensionsAsked: true } };
+      const read = readRequest(`by ${typed}`, facts, { now: ctx.now });
+      if ((read.personalData ?? []).length > 0) return { ok: false, message: personalDataRefusal(ctx.dataset, read.personalData!) };
+      const named = ctx.dataset.dimensions.filter((d) => !d.personal_data && typed.split(/\s*,\s*/).includes(d.name)).map((d) => d.name);
+      const found = named.length > 0 ? named : read.dimensions;
+      if (found.length === 0) {
+        const offered = ctx.dataset.dimensions.filter((d) => !d.personal_data).map((d) => d.label);
+        return { ok: false, message: `I couldn't match "${clip(typed)}" to a breakdown. I can break down by: ${offered.join(', ')}.` };
       }
-      return { ok: true, brief: { ...brief, dimensions: found, dimensionsAsked: true } };
+      return { ok: true, brief: { ...brief, dimensions: found, dimensionsAsked: true, unknownTerms: brief.unknownTerms.filter((u) => u.role !== 'dimension'), toAsk: (brief.toAsk ?? []).filter((t) => t !== 'dimensions') } };
     }
   }
 }
 
-function audienceFromWords(text: string): Audience | undefined {
-  if (/\b(exec|board|ceo|senior|leader)/i.test(text)) return 'leadership';
-  if (/\b(data|technical|analyst)/i.test(text)) return 'analysts';
-  if (/\b(manager|ops|team)/i.test(text)) return 'managers';
-  return undefined;
+function addValues(filters: SegmentFilter[], picks: { dimension: string; value: string }[]): SegmentFilter[] {
+  const out = filters.map((f) => ({ ...f, values: [...f.values] }));
+  for (const p of picks) {
+    const f = out.find((x) => x.dimension === p.dimension && !x.exclude);
+    if (f) {
+      if (!f.values.includes(p.value)) f.values.push(p.value);
+    } else out.push({ dimension: p.dimension, values: [p.value] });
+  }
+  return out;
 }
 
-/** "all", "2024", "2023-04 to 2024-03", "since 2023-04-01", "last 12 months". */
-export function readWindow(text: string, coverage: Coverage): { window: DateWindow } | { error: string } {
-  const full = fullWindow(coverage);
-  if (!full) return { error: 'The dataset has no rows, so there is no period to choose.' };
-  const t = text.trim().toLowerCase();
-  if (/^(all|all data|all history|everything|all available data)$/.test(t)) return { window: full };
-  const last = /^(?:the\s+)?last\s+(\d{1,3})\s+(?:full\s+)?months?$/.exec(t);
-  if (last) {
-    const end = periodStart(full.end, 'month');
-    return { window: { start: addMonths(end, -Number(last[1])), end } };
-  }
-  const dates = [...t.matchAll(/\d{4}(?:-\d{1,2}(?:-\d{1,2})?)?/g)].map((m) => m[0]);
-  for (const d of dates) {
-    const bad = impossibleDate(d);
-    if (bad) return { error: bad };
-  }
-  const startOf = (d: string) => (d.length === 4 ? `${d}-01-01` : d.length <= 7 ? `${pad(d)}-01` : pad(d));
-  const endAfter = (d: string): string =>
-    d.length === 4 ? `${Number(d) + 1}-01-01` : d.length <= 7 ? nextPeriod(`${pad(d)}-01`, 'month') : addDays(pad(d), 1);
-  let window: DateWindow | null = null;
-  if (dates.length === 1 && /^since\b|^from\b/.test(t)) window = { start: startOf(dates[0]!), end: full.end };
-  else if (dates.length === 1) window = { start: startOf(dates[0]!), end: endAfter(dates[0]!) };
-  else if (dates.length === 2) window = { start: startOf(dates[0]!), end: endAfter(dates[1]!) };
-  if (!window) return { error: `I couldn't read "${clip(text)}" as a period. Try "all", "2024", "2023-04 to 2024-03", "since 2023-04" or "last 12 months".` };
-  if (window.start >= window.end) return { error: `The period ${window.start} to ${window.end} ends before it starts.` };
-  if (window.end <= full.start || window.start >= full.end) {
-    return { error: `The data covers ${full.start} to ${addDays(full.end, -1)}; the period you asked for has no data. Pick a period inside it.` };
-  }
-  return { window };
-}
-
-function pad(d: string): string {
-  return d
-    .split('-')
-    .map((p, i) => (i === 0 ? p : p.padStart(2, '0')))
-    .join('-');
-}
-
-function impossibleDate(d: string): string | null {
-  const parts = d.split('-').map(Number);
-  if (parts[1] !== undefined && (parts[1] < 1 || parts[1] > 12)) return `${d} is not a real date: there is no month ${parts[1]}.`;
-  if (parts[2] !== undefined && !isValidIsoDate(pad(d))) return `${d} is not a real date.`;
-  return null;
+function normaliseWords(text: string): string[] {
+  return phraseWords(text);
 }
 
 function clip(s: string): string {

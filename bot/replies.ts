@@ -5,7 +5,7 @@ import { formatPeriod } from '../analysis/format.js';
 import { describeSubQuestion } from '../analysis/sub-questions/describe.js';
 import type { SubQuestion } from '../analysis/types.js';
 import type { Brief } from './brief.js';
-import { readablePart, requestWasCut } from './intake.js';
+import { readablePart, requestWasCut } from './reading/read-request.js';
 import type { Plan } from './plan.js';
 import type { Prompt } from './prompts.js';
 import type { RunningState, ThreadState } from './thread-state.js';

@@ -13,6 +13,8 @@ export const scriptedAnswersSchema = z
     audience: typed.optional(),
     deadline: typed.optional(),
     metrics: z.union([typed, z.array(typed).transform((xs) => xs.join(', '))]).optional(),
+    /** When a word matches several values of the data: which was meant. */
+    values: z.union([typed, z.array(typed).transform((xs) => xs.join(', '))]).optional(),
     grain: typed.optional(),
     window: typed.optional(),
     dimensions: z.union([typed, z.array(typed).transform((xs) => xs.join(', '))]).optional(),

@@ -9,6 +9,7 @@ import { SourceError } from '../analysis/sources/data-source.js';
 import { ask } from './ask.js';
 import { checkConfig, formatCheckReport } from '../analysis/sources/dataset-check.js';
 import { draftConfigFile } from './init.js';
+import { readBrief, ReadUsageError } from './read.js';
 import { EnvironmentError, loadEnvironment, readSecrets } from '../config/environment.js';
 import { PostgresStateStore } from '../bot/stores/PostgresStateStore.js';
 import { serveUntilSignal, type Serving } from './serve.js';
@@ -33,6 +34,8 @@ Commands:
   threadcount init --source FILE|URL [--table T] --out FILE
       Draft a config from the data: the time column, metrics for its numbers and true/false
       columns, dimensions for its low-cardinality text, suspected personal data marked.
+  threadcount read --config FILE [--dataset NAME] [--now ISO-TIMESTAMP] "TEXT"
+      Print the brief the bot would act on for a request, as one JSON object (docs/reading.md).
   threadcount serve --config FILE [--state FILE]
       Answer requests in chat: the local channel page always, Slack and Discord when their
       tokens are set in the environment. Conversations are kept in the state file
@@ -59,6 +62,8 @@ export async function main(argv: string[]): Promise<number> {
         return await demoCommand(rest);
       case 'ask':
         return await askCommand(rest);
+      case 'read':
+        return await readCommand(rest);
       case 'serve':
         return await serveCommand(rest);
       case 'check':
@@ -97,7 +102,7 @@ function reportError(err: unknown): number {
     process.stderr.write(`threadcount: the environment has problems:\n${err.problems.map((p) => `- ${p}`).join('\n')}\n`);
     return 2;
   }
-  if (err instanceof UsageError || err instanceof AuditUsageError) {
+  if (err instanceof UsageError || err instanceof AuditUsageError || err instanceof ReadUsageError) {
     process.stderr.write(`threadcount: ${err.message}\n\n${USAGE}`);
     return 2;
   }
@@ -157,6 +162,23 @@ async function initCommand(rest: string[]): Promise<number> {
   if (!v.source || !v.out) throw new UsageError('init needs --source FILE|URL and --out FILE');
   const result = await draftConfigFile({ source: v.source, out: resolve(v.out), ...(v.table ? { table: v.table } : {}), ...(v['url-env'] ? { urlEnv: v['url-env'] } : {}) });
   process.stdout.write(result.summary);
+  return 0;
+}
+
+async function readCommand(rest: string[]): Promise<number> {
+  let parsed;
+  try {
+    parsed = parseArgs({ args: rest, options: { config: { type: 'string' }, dataset: { type: 'string' }, now: { type: 'string' } }, allowPositionals: true, strict: true });
+  } catch (err) {
+    throw new UsageError(err instanceof Error ? err.message : String(err));
+  }
+  const v = parsed.values as Record<string, string | undefined>;
+  const text = parsed.positionals.join(' ');
+  if (!v.config || text.trim().length === 0) throw new UsageError('read needs --config FILE and the request text');
+  const now = v.now ? new Date(v.now) : new Date();
+  if (Number.isNaN(now.getTime())) throw new UsageError(`--now must be an ISO timestamp such as 2025-06-20T09:00:00Z (got "${v.now}")`);
+  const brief = await readBrief({ configFile: resolve(v.config), text, now, ...(v.dataset ? { dataset: v.dataset } : {}) });
+  process.stdout.write(`${JSON.stringify(brief, null, 2)}\n`);
   return 0;
 }
 

@@ -95,6 +95,8 @@ export const fileDimensionSchema = z
     // Personal data: never grouped by, never filtered on in output, never shown, never a metric.
     personal_data: z.boolean().default(false),
     synonyms: z.array(text).optional(),
+    // The words people use for values of this column: { "Mainland–Saltreach": [the reach] }.
+    value_names: z.record(text, z.array(text)).optional(),
   })
   .strict();
 export type FileDimension = z.infer<typeof fileDimensionSchema>;
@@ -131,6 +133,18 @@ export const fileSourceSchema = z.union([
   z.object({ kind: z.enum(['csv', 'parquet', 'json']), path: text }).strict(),
 ]);
 
+/** A named stretch of time a request may mention ("during the storm week"). */
+export const fileEventSchema = z
+  .object({
+    name: text,
+    from: z.iso.date(),
+    to: z.iso.date(),
+    also_called: z.array(text).optional(),
+  })
+  .strict()
+  .refine((e) => e.from <= e.to, { message: 'an event must not end before it starts', path: ['to'] });
+export type FileEvent = z.infer<typeof fileEventSchema>;
+
 export const fileDatasetSchema = z
   .object({
     name: catalogName,
@@ -149,6 +163,9 @@ export const fileDatasetSchema = z
     // How the data-quality checks treat a large table: repeated keys counted in full, on a sample
     // or not at all, and a freshness column for PostgreSQL (see config/schema.ts qualitySchema).
     quality: qualitySchema.optional(),
+    events: z.array(fileEventSchema).default([]),
+    // Which half of the world the seasons of "this summer" are counted in.
+    hemisphere: z.enum(['north', 'south']).default('north'),
   })
   .strict();
 export type FileDataset = z.infer<typeof fileDatasetSchema>;

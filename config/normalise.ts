@@ -97,6 +97,8 @@ class DatasetNormaliser {
       comparison_groups,
       ...(ds.min_group_size !== undefined ? { min_group_size: ds.min_group_size } : {}),
       ...(ds.quality !== undefined ? { quality: ds.quality } : {}),
+      events: ds.events.map((e) => ({ name: e.name, from: e.from, to: e.to, synonyms: e.also_called ?? [] })),
+      hemisphere: ds.hemisphere,
       ...(this.derived.size > 0 ? { derived: [...this.derived.values()] } : {}),
     };
     this.crossReferences(out);
@@ -157,7 +159,7 @@ class DatasetNormaliser {
       const e = this.parse(x.expr, [...path, 'expr']);
       column = e ? this.columnFor(e, [...path, 'expr']) : x.expr;
     }
-    return { name: x.name, column, label: x.label, synonyms: this.synonyms(x, path), personal_data: x.personal_data };
+    return { name: x.name, column, label: x.label, synonyms: this.synonyms(x, path), personal_data: x.personal_data, ...(x.value_names ? { value_names: x.value_names } : {}) };
   }
 
   private group(x: FileComparisonGroup, i: number): ComparisonGroup {

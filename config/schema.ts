@@ -71,6 +71,8 @@ export const dimensionSchema = z
     synonyms: z.array(z.string().min(1)).default([]),
     // Personal data: never grouped by, never filtered on in output, never shown.
     personal_data: z.boolean().default(false),
+    // The words people use for values of this column: { "Mainland–Saltreach": [the reach, saltreach run] }.
+    value_names: z.record(z.string().min(1), z.array(z.string().min(1))).optional(),
   })
   .strict();
 export type Dimension = z.infer<typeof dimensionSchema>;
@@ -90,6 +92,18 @@ export const comparisonGroupSchema = z
   })
   .strict();
 export type ComparisonGroup = z.infer<typeof comparisonGroupSchema>;
+
+export const eventSchema = z
+  .object({
+    name: z.string().min(1),
+    from: z.iso.date(),
+    to: z.iso.date(),
+    // Other words for it ("the storm", "storm closures").
+    synonyms: z.array(z.string().min(1)).default([]),
+  })
+  .strict()
+  .refine((e) => e.from <= e.to, { message: 'an event must not end before it starts', path: ['to'] });
+export type EventConfig = z.infer<typeof eventSchema>;
 
 /** The name of an environment variable that holds a secret (a URL with a password). */
 const envVarName = z.string().regex(/^[A-Z_][A-Z0-9_]*$/, 'must be the name of an environment variable (upper case letters, digits, underscore)');
@@ -151,6 +165,10 @@ export const datasetSchema = z
     // analysis/compile-context.ts datasetRelation). Absent when the config names only columns.
     derived: z.array(z.custom<DerivedColumn>()).optional(),
     quality: qualitySchema.optional(),
+    // Named stretches of time a request may mention ("during the storm week").
+    events: z.array(eventSchema).default([]),
+    // Which half of the world the seasons of "this summer" are counted in.
+    hemisphere: z.enum(['north', 'south']).default('north'),
   })
   .strict();
 export type DatasetConfig = z.infer<typeof datasetSchema>;

@@ -13,7 +13,9 @@ import { postgresDialect } from '../../analysis/sql/postgres-dialect.js';
 import { SUB_QUESTIONS, TEMPLATE_NAMES } from '../../analysis/sub-questions/registry.js';
 import { AUDIENCES, GRAINS, type CompiledQuery, type Grain, type SubQuestion } from '../../analysis/types.js';
 import type { Brief } from '../../bot/brief.js';
-import { isValidIsoDate, readRequest } from '../../bot/intake.js';
+import { readRequest } from '../../bot/reading/read-request.js';
+import { isValidDate } from '../../bot/reading/calendar.js';
+import { exampleValues } from '../helpers/example-facts.js';
 import { buildPlan } from '../../bot/plan.js';
 import { nextPrompt, PROMPT_TOPICS, readAnswer, type Prompt, type PromptContext, type PromptTopic } from '../../bot/prompts.js';
 import { exampleDataset as ds } from '../helpers/example-config.js';
@@ -26,7 +28,7 @@ const RUNS = { conversations: 2_000, compilations: 6_000, answers: 2_500, huge: 
 
 const coverage: Coverage = { firstDate: '2022-01-01', lastDate: '2025-06-18', rows: 200_000 };
 const now = new Date('2025-06-20T09:00:00Z');
-const promptContext: PromptContext = { dataset: ds, coverage, now, locale: 'en-IE' };
+const promptContext: PromptContext = { dataset: ds, coverage, facts: { dataset: ds, coverage, values: exampleValues }, now, locale: 'en-IE' };
 const DIALECTS: Dialect[] = [duckdbDialect, postgresDialect];
 const TIME_TYPES: TimeColumnType[] = ['date', 'timestamp', 'timestamptz'];
 const ctxOf = (dialect: Dialect, timeColumnType: TimeColumnType): CompileContext => ({ dataset: ds, dialect, timeColumnType, coverage });
@@ -255,7 +257,7 @@ const hugeMessage = fc
 
 /** Intake, then every prompt answered with a typed answer (falling back to "ok" when it is refused), then the plan. */
 function converse(request: string, answers: readonly string[]): { brief: Brief; refusals: string[] } {
-  let brief = readRequest(request, ds, { now, timeZone: ds.timezone });
+  let brief = readRequest(request, promptContext.facts, { now });
   const refusals: string[] = [];
   for (let step = 0; step < 20; step++) {
     const prompt = nextPrompt(brief, promptContext);
@@ -355,8 +357,8 @@ describe('hostile chat input', () => {
           const b = r.brief;
           if (b.audience !== undefined && !AUDIENCES.includes(b.audience)) throw new Error(`audience ${b.audience}`);
           if (b.grain !== undefined && !GRAINS.includes(b.grain)) throw new Error(`grain ${b.grain}`);
-          if (b.deadline !== undefined && b.deadline !== 'none' && !isValidIsoDate(b.deadline)) throw new Error(`deadline ${b.deadline}`);
-          if (b.window && !(isValidIsoDate(b.window.start) && isValidIsoDate(b.window.end) && b.window.start < b.window.end)) throw new Error(`window ${JSON.stringify(b.window)}`);
+          if (b.deadline !== undefined && b.deadline !== 'none' && !isoOk(b.deadline)) throw new Error(`deadline ${b.deadline}`);
+          if (b.window && !(isoOk(b.window.start) && isoOk(b.window.end) && b.window.start < b.window.end)) throw new Error(`window ${JSON.stringify(b.window)}`);
           for (const m of [...b.metrics, ...b.questions.flatMap((q) => q.metrics)]) if (!metricNames.has(m)) throw new Error(`metric ${m}`);
           for (const d of b.dimensions) if (!groupable.includes(d)) throw new Error(`dimension ${d}`);
         }
@@ -381,7 +383,7 @@ type BriefTopic = (typeof BRIEF_TOPICS)[number];
 
 /** One prompt of each topic, with a brief that is waiting on exactly that prompt. */
 function promptsByTopic(): Record<BriefTopic, { prompt: Prompt; brief: Brief }> {
-  const question = { text: 'How has revenue grown', kind: 'growth' as const, metrics: ['revenue'], dimensions: [], frequency: false };
+  const question = { text: 'How has revenue grown', kind: 'growth' as const, metrics: ['revenue'], dimensions: [], filters: [], frequency: false };
   const briefs: Record<BriefTopic, Brief> = {
     metrics: { requestText: 'x', questions: [], kinds: ['trend'], metrics: [], dimensions: [], unknownTerms: [] },
     audience: { requestText: 'x', questions: [question], kinds: ['growth'], metrics: ['revenue'], dimensions: [], unknownTerms: [] },
@@ -408,4 +410,9 @@ function promptsByTopic(): Record<BriefTopic, { prompt: Prompt; brief: Brief }> 
     out[topic] = { prompt, brief: briefs[topic] };
   }
   return out;
+}
+
+function isoOk(iso: string): boolean {
+  const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(iso);
+  return !!m && isValidDate(Number(m[1]), Number(m[2]), Number(m[3]));
 }

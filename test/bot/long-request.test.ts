@@ -7,7 +7,8 @@ import pLimit from 'p-limit';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
 import { Bot } from '../../bot/Bot.js';
-import { readablePart, readRequest, REQUEST_READ_LIMIT } from '../../bot/intake.js';
+import { readablePart, readRequest, REQUEST_READ_LIMIT } from '../../bot/reading/read-request.js';
+import { exampleValues } from '../helpers/example-facts.js';
 import { presentAnswer, presentSummary } from '../../bot/present-answer.js';
 import { MemoryStateStore } from '../../bot/stores/MemoryStateStore.js';
 import { loadConfig } from '../../config/load.js';
@@ -53,13 +54,13 @@ describe('readablePart', () => {
   it('a brief is read from the readable part only, and keeps the whole text', () => {
     const ds = loadConfig(EXAMPLE_CONFIG_PATH).datasets[0]!;
     const text = longRequest(100_000);
-    const brief = readRequest(text, ds, { now, timeZone: ds.timezone });
+    const brief = readRequest(text, { dataset: ds, coverage: { firstDate: '2022-01-01', lastDate: '2025-06-18', rows: 1 }, values: exampleValues }, { now });
     expect(brief.requestText).toBe(text);
     expect(brief.metrics).toEqual(['revenue']);
     expect(brief.grain).toBe('month');
     expect(brief.personalData).toBeUndefined();
     // The control: the tail, within the limit, is read.
-    const short = readRequest(REQUEST + TAIL, ds, { now, timeZone: ds.timezone });
+    const short = readRequest(REQUEST + TAIL, { dataset: ds, coverage: { firstDate: '2022-01-01', lastDate: '2025-06-18', rows: 1 }, values: exampleValues }, { now });
     expect(short.metrics).toContain('passengers');
     expect(short.personalData).toEqual(['customer_email']);
   });

@@ -1,55 +1,42 @@
 // Plans from briefs: the demo request splits into its questions and each kind gets its lenses;
 // calendar phrases are read against the data's coverage; edits re-shape the plan.
 import { describe, expect, it } from 'vitest';
-import { readRequest } from '../../bot/intake.js';
 import type { Brief, Question } from '../../bot/brief.js';
 import { applyPlanEdit, buildPlan, MAX_TABLE_METRICS, readPlanEdit } from '../../bot/plan.js';
 import { planText } from '../../bot/replies.js';
-import { readPeriodPhrase } from '../../bot/period-phrases.js';
 import { nextPrompt } from '../../bot/prompts.js';
+import { readRequest as readWith } from '../../bot/reading/read-request.js';
 import { exampleDataset } from '../helpers/example-config.js';
+import { exampleFacts } from '../helpers/example-facts.js';
 
-const coverage = { firstDate: '2022-01-01', lastDate: '2025-06-18', rows: 200_000 };
+const coverage = exampleFacts.coverage;
 const now = new Date('2026-12-01T10:00:00Z');
+const readRequest = (text: string) => readWith(text, exampleFacts, { now });
+const facts = exampleFacts;
 const DEMO_REQUEST =
   'Ops review is on the 15th. Could the data team tell us whether this summer beat last summer, which routes and booking channels drove the difference, whether SkerryPass holders really travel more often than other customers since it launched, and where average fare per passenger and the share of revenue we refunded stand for the last full month?';
 
-describe('period phrases', () => {
-  it('reads "this summer" as the latest summer the data covers in full, with last summer to compare', () => {
-    const p = readPeriodPhrase('whether this summer beat last summer', coverage)!;
-    // Data ends 18 June 2025, so the summer of 2025 is not covered; June-August is meteorological summer (common practice).
-    expect(p.window).toEqual({ start: '2024-06-01', end: '2024-09-01' });
-    expect(p.compareTo).toEqual({ start: '2023-06-01', end: '2023-09-01' });
-  });
-  it('reads "the last full month" as the latest complete month', () => {
-    expect(readPeriodPhrase('where does it stand for the last full month', coverage)!.window).toEqual({ start: '2025-05-01', end: '2025-06-01' });
-  });
-  it('reads "since it launched" from the launch date', () => {
-    expect(readPeriodPhrase('travel more since it launched', coverage, '2023-04-01')!.window).toEqual({ start: '2023-04-01', end: '2025-06-19' });
-  });
-});
-
 describe('the demo request', () => {
-  const brief = readRequest(DEMO_REQUEST, exampleDataset, { now, timeZone: 'Europe/Dublin' });
+  const brief = readRequest(DEMO_REQUEST);
 
   it('splits into a growth, a performance and a KPI question', () => {
     expect(brief.questions.map((q) => q.kind)).toEqual(['growth', 'performance', 'kpi']);
     expect(brief.questions[0]!.dimensions).toEqual(['route', 'channel']);
-    expect(brief.questions[1]).toMatchObject({ comparisonGroup: 'skerrypass', frequency: true, metrics: [] });
+    expect(brief.questions[1]).toMatchObject({ comparisonGroup: 'skerrypass', frequency: true, metrics: ['bookings'] });
     expect(brief.questions[2]!.metrics).toEqual(['fare_per_passenger', 'refunded_revenue_share']);
   });
 
   it('asks which metric the summer question means, and never the window (every question names its period)', () => {
-    const first = nextPrompt(brief, { dataset: exampleDataset, coverage, now, locale: 'en-IE' })!;
+    const first = nextPrompt(brief, { dataset: exampleDataset, coverage, facts, now, locale: 'en-IE' })!;
     expect(first.topic).toBe('metrics');
     expect(first.question).toMatch(/this summer beat last summer/);
     const answered = { ...brief, questions: brief.questions.map((q, i) => (i === 0 ? { ...q, metrics: ['revenue'] } : q)), audience: 'managers' as const, grain: 'month' as const };
-    expect(nextPrompt(answered, { dataset: exampleDataset, coverage, now, locale: 'en-IE' })).toBeNull();
+    expect(nextPrompt(answered, { dataset: exampleDataset, coverage, facts, now, locale: 'en-IE' })).toBeNull();
   });
 });
 
 describe('plans', () => {
-  const base = readRequest('How has revenue moved over time, by route?', exampleDataset, { now, timeZone: 'Europe/Dublin' });
+  const base = readRequest('How has revenue moved over time, by route?');
   const brief = { ...base, audience: 'analysts' as const, grain: 'month' as const, window: { start: '2022-01-01', end: '2025-06-19' } };
 
   it('gives every sub-question a catalog metric, a window and an id in order', () => {
@@ -85,7 +72,7 @@ describe('plans', () => {
 
 describe('the period table in the plan', () => {
   // Briefs built directly, as the request reader will hand them over.
-  const question = (metrics: string[], extra: Partial<Question> = {}): Question => ({ text: 'the numbers', kind: 'growth', metrics, dimensions: [], frequency: false, ...extra });
+  const question = (metrics: string[], extra: Partial<Question> = {}): Question => ({ text: 'the numbers', kind: 'growth', metrics, dimensions: [], filters: [], frequency: false, ...extra });
   const brief = (questions: Question[], extra: Partial<Brief> = {}): Brief => ({
     requestText: 'revenue, bookings and average fare per booking month by month for 2023 and 2024',
     questions,

@@ -112,7 +112,7 @@ const rel = (base: number, value: number) => (base > 0 ? value / base - 1 : null
 
 const brief: Brief = {
   requestText: 'precipitation and rainy days by month for 2013 to 2015',
-  questions: [{ text: 'precipitation and rainy days by month for 2013 to 2015', kind: 'trend', metrics: ['precipitation', 'rain_days'], dimensions: [], frequency: false }],
+  questions: [{ text: 'precipitation and rainy days by month for 2013 to 2015', kind: 'trend', metrics: ['precipitation', 'rain_days'], dimensions: [], filters: [], frequency: false }],
   kinds: ['trend'],
   metrics: ['precipitation', 'rain_days'],
   dimensions: [],

@@ -80,5 +80,5 @@ export async function memoryWorkspace(setup: string[], configYaml: string): Prom
   const context: CompileContext = { dataset, dialect: duckdbDialect, timeColumnType };
   const runOptions: RunOptions = { maxRows: config.engine.max_result_rows, timeoutMs: config.engine.statement_timeout_ms };
   const coverage = await readDataCoverage(source, context, runOptions);
-  return { config, dataset, source, context, coverage, runOptions };
+  return { config, dataset, source, context, coverage, runOptions, values: new Map() };
 }

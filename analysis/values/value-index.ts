@@ -1,0 +1,99 @@
+// The values of each dimension, so a request that names one ("app vs web", "on the Saltreach
+// route") is read as a filter: the most common values of every non-personal dimension, up to a
+// cap each. Personal-data columns are never read. Kept beside the state file per version of the
+// data, like the quality report, so a restart does not scan the table again.
+import { createHash } from 'node:crypto';
+import { dirname, join, resolve } from 'node:path';
+import { z } from 'zod';
+import type { LoadedConfig } from '../../config/load.js';
+import type { DatasetConfig, Dimension } from '../../config/schema.js';
+import { readJsonFile, writeJsonFile } from '../cache/json-file.js';
+import type { CompileContext } from '../compile-context.js';
+import { dataVersion } from '../quality/data-version.js';
+import { QueryBuilder } from '../sql/query-builder.js';
+import type { CompiledQuery, ResultTable } from '../types.js';
+import type { Workspace } from '../workspace.js';
+
+export interface IndexedValue {
+  value: string;
+  rows: number;
+}
+
+export interface DimensionValues {
+  values: IndexedValue[];
+  /** False when the dimension has more values than the cap: a value not listed may still exist. */
+  complete: boolean;
+}
+
+/** By dimension name. */
+export type ValueIndex = ReadonlyMap<string, DimensionValues>;
+
+/** Values kept per dimension: enough for any dimension a person names values of by heart. */
+export const VALUE_INDEX_CAP = 500;
+
+/** Dimensions whose values are read: text breakdowns that are not personal data nor a group's true/false column. */
+export function indexedDimensions(ds: DatasetConfig): Dimension[] {
+  return ds.dimensions.filter((d) => !d.personal_data && !ds.comparison_groups.some((g) => g.column === d.column));
+}
+
+export function compileValueQuery(ctx: CompileContext, dim: Dimension, cap = VALUE_INDEX_CAP): CompiledQuery {
+  const q = new QueryBuilder(ctx.dialect);
+  const col = q.ident(dim.column);
+  return q.finish(`SELECT CAST(${col} AS VARCHAR) AS value, ${ctx.dialect.toDouble('COUNT(*)')} AS row_count
+FROM ${q.ident(ctx.dataset.table)}
+WHERE ${col} IS NOT NULL
+GROUP BY 1
+ORDER BY 2 DESC, 1
+LIMIT ${cap + 1}`);
+}
+
+export function readValues(table: ResultTable, cap = VALUE_INDEX_CAP): DimensionValues {
+  const values = table.rows
+    .map((r) => ({ value: String(r.value ?? ''), rows: Number(r.row_count ?? 0) }))
+    .filter((v) => v.value.trim().length > 0 && !/^(true|false)$/i.test(v.value));
+  return { values: values.slice(0, cap), complete: table.rows.length <= cap };
+}
+
+/** Builds the index from the data (one grouped query per dimension). */
+export async function buildValueIndex(ws: Pick<Workspace, 'context' | 'source' | 'runOptions' | 'dataset'>, cap = VALUE_INDEX_CAP): Promise<ValueIndex> {
+  const index = new Map<string, DimensionValues>();
+  for (const dim of indexedDimensions(ws.dataset)) {
+    index.set(dim.name, readValues(await ws.source.run(compileValueQuery(ws.context, dim, cap), ws.runOptions), cap));
+  }
+  return index;
+}
+
+// ---- kept between processes ----
+
+const FORMAT = 1;
+const entrySchema = z.object({
+  format: z.literal(FORMAT),
+  key: z.string(),
+  dimensions: z.record(z.string(), z.object({ values: z.array(z.object({ value: z.string(), rows: z.number() })), complete: z.boolean() })),
+});
+
+function cacheFile(config: LoadedConfig, ds: DatasetConfig): string {
+  const name = createHash('sha256').update(JSON.stringify([ds.name, ds.source, ds.table])).digest('hex').slice(0, 24);
+  return join(dirname(resolve(config.baseDir, config.conversation.state_path)), 'threadcount-cache', 'values', `${name}.json`);
+}
+
+function definition(ds: DatasetConfig, cap: number): string {
+  return JSON.stringify([cap, indexedDimensions(ds).map((d) => [d.name, d.column])]);
+}
+
+/**
+ * The value index of a workspace: read from the cache while the data keeps its version, else
+ * built and stored. A source with no cheap version (PostgreSQL) is indexed afresh each time.
+ */
+export async function loadValueIndex(ws: Workspace, cap = VALUE_INDEX_CAP): Promise<ValueIndex> {
+  const version = await dataVersion(ws).catch(() => null);
+  if (version === null) return buildValueIndex(ws, cap);
+  const key = createHash('sha256').update(JSON.stringify([FORMAT, version, definition(ws.dataset, cap)])).digest('hex');
+  const file = cacheFile(ws.config, ws.dataset);
+  const parsed = entrySchema.safeParse(await readJsonFile(file));
+  if (parsed.success && parsed.data.key === key) return new Map(Object.entries(parsed.data.dimensions));
+  const index = await buildValueIndex(ws, cap);
+  // Stored only if the data kept its version while it was read.
+  if ((await dataVersion(ws).catch(() => null)) === version) await writeJsonFile(file, { format: FORMAT, key, dimensions: Object.fromEntries(index) });
+  return index;
+}

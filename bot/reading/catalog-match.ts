@@ -1,0 +1,218 @@
+// Finds the dataset's own words in a request: its metrics, breakdowns, comparison groups,
+// personal-data columns and the values of its data, by name, label, other names or part of a
+// value's name, forgiving small typos (a transposed pair of letters counts as one edit, as in
+// Damerau's measure). The longest phrase wins; a phrase that stands for several entries is kept
+// with all of them, so the reader can ask which was meant.
+import damerauLevenshtein from 'damerau-levenshtein';
+import { distance } from 'fastest-levenshtein';
+import type { DatasetConfig } from '../../config/schema.js';
+import { BUSINESS_NOUNS, ORDINARY, STOPWORDS } from './lexicon.js';
+import { phraseWords, type RequestText, type Span, type Word } from './text.js';
+import type { ValueIndex } from '../../analysis/values/value-index.js';
+
+export type EntryKind = 'metric' | 'dimension' | 'group' | 'personal' | 'value' | 'dataset';
+
+export interface CatalogEntry {
+  kind: EntryKind;
+  /** The catalog name (for a value: its dimension's name). */
+  name: string;
+  /** For a value: the value as the data holds it. */
+  value?: string;
+  phrase: string;
+  /** Part of a value's name ("Saltreach" for "Mainland–Saltreach"): several values may share it. */
+  partial?: boolean;
+  /** A value that is also an everyday word ("foot", "high"): taken only with a cue beside it. */
+  weak?: boolean;
+}
+
+export interface CatalogHit extends Span {
+  /** Every entry the words stand for (several when a phrase is shared). */
+  entries: CatalogEntry[];
+  words: Word[];
+  exact: boolean;
+}
+
+interface Prepared {
+  words: string[];
+  target: string;
+  edits: number;
+  entries: CatalogEntry[];
+}
+
+export interface PreparedCatalog {
+  dataset: DatasetConfig;
+  /** Phrases by their number of words, longest first. */
+  byLength: Map<number, Map<string, Prepared>>;
+  lengths: number[];
+  entries: CatalogEntry[];
+}
+
+/** Everyday words that are no evidence of a value on their own. */
+const EVERYDAY = new Set([...STOPWORDS, ...ORDINARY, 'high', 'low', 'medium', 'new', 'old', 'other', 'basic', 'standard', 'free', 'small', 'large', 'big', 'open', 'closed', 'none', 'unknown', 'direct', 'foot', 'true', 'false', 'normal', 'regular', 'general', 'main', 'single', 'return', 'returns', 'first', 'second', 'plus', 'pro', 'lite', 'urgent']);
+
+// Words of a person's record: a personal-data column is also found by these words of its name.
+const PERSONAL_WORDS = new Set(['email', 'emails', 'mail', 'e', 'phone', 'mobile', 'telephone', 'name', 'names', 'surname', 'address', 'addresses', 'postcode', 'zip', 'birth', 'dob', 'ip', 'passport', 'ssn', 'iban', 'card']);
+
+/** Typos allowed for a phrase of this many letters (none for short words: "fare" is not "care"). */
+export function allowedEdits(length: number): number {
+  return length >= 9 ? 2 : length >= 5 ? 1 : 0;
+}
+
+/** Plural and singular read alike: "routes" and "route", "categories" and "category". */
+export function stem(word: string): string {
+  if (word.length > 4 && word.endsWith('ies')) return `${word.slice(0, -3)}y`;
+  if (word.length > 4 && /(?:ses|xes|ches|shes)$/.test(word)) return word.slice(0, -2);
+  if (word.length > 3 && word.endsWith('s') && !word.endsWith('ss') && !word.endsWith('us')) return word.slice(0, -1);
+  return word;
+}
+
+const cache = new WeakMap<DatasetConfig, WeakMap<object, PreparedCatalog>>();
+const NO_VALUES = {};
+
+/** The entries of a dataset's catalog and values, prepared once per dataset and value index. */
+export function prepareCatalog(ds: DatasetConfig, values?: ValueIndex): PreparedCatalog {
+  let perDataset = cache.get(ds);
+  if (!perDataset) cache.set(ds, (perDataset = new WeakMap()));
+  const key = values ?? NO_VALUES;
+  const known = perDataset.get(key);
+  if (known) return known;
+  const entries = catalogEntries(ds, values);
+  const byLength = new Map<number, Map<string, Prepared>>();
+  for (const e of entries) {
+    const words = phraseWords(e.phrase).map(stem);
+    if (words.length === 0) continue;
+    const target = words.join(' ');
+    let bucket = byLength.get(words.length);
+    if (!bucket) byLength.set(words.length, (bucket = new Map()));
+    const p = bucket.get(target) ?? { words, target, edits: allowedEdits(target.length), entries: [] };
+    if (!p.entries.some((x) => x.kind === e.kind && x.name === e.name && x.value === e.value)) p.entries.push(e);
+    bucket.set(target, p);
+  }
+  const prepared = { dataset: ds, byLength, lengths: [...byLength.keys()].sort((a, b) => b - a), entries };
+  perDataset.set(key, prepared);
+  return prepared;
+}
+
+function catalogEntries(ds: DatasetConfig, values?: ValueIndex): CatalogEntry[] {
+  const out: CatalogEntry[] = [];
+  const add = (kind: EntryKind, name: string, phrases: readonly string[], extra: Partial<CatalogEntry> = {}) => {
+    for (const phrase of new Set(phrases.filter((p) => p.trim().length > 0))) out.push({ kind, name, phrase, ...extra });
+  };
+  add('dataset', ds.name, [ds.name.replaceAll('_', ' '), ds.label]);
+  for (const m of ds.metrics) add('metric', m.name, [m.name.replaceAll('_', ' '), m.label, ...m.synonyms]);
+  for (const g of ds.comparison_groups) add('group', g.name, [g.name.replaceAll('_', ' '), g.label, g.members_label, g.others_label, ...g.synonyms]);
+  for (const d of ds.dimensions) {
+    const names = [d.name.replaceAll('_', ' '), d.label, d.column.replaceAll('_', ' '), ...d.synonyms];
+    if (d.personal_data) {
+      // Any personal word of its names finds it too: "emails", "their phone numbers".
+      const personalWords = names.flatMap((n) => phraseWords(n)).filter((w) => PERSONAL_WORDS.has(w));
+      add('personal', d.name, [...names, ...personalWords, ...personalWords.map((w) => `${w} address`), ...personalWords.map((w) => `${w} number`)]);
+      continue;
+    }
+    add('dimension', d.name, names);
+    const index = values?.get(d.name);
+    if (!index) continue;
+    const aliases = d.value_names ?? {};
+    for (const v of index.values) {
+      const text = v.value;
+      add('value', d.name, [text, ...(aliases[text] ?? [])], { value: text, weak: isWeakPhrase(text) });
+    }
+    // Parts of multi-word values ("Saltreach" of "Mainland–Saltreach"): distinctive words only.
+    const partsSeen = new Map<string, string[]>();
+    for (const v of index.values) {
+      const words = phraseWords(v.value);
+      if (words.length < 2) continue;
+      for (const w of new Set(words)) {
+        if (w.length < 4 || STOPWORDS.has(w) || ORDINARY.has(w) || /^\d+$/.test(w)) continue;
+        partsSeen.set(w, [...(partsSeen.get(w) ?? []), v.value]);
+      }
+    }
+    for (const [part, owners] of partsSeen) {
+      // A word every value shares ("Mainland" in most routes) tells them apart from nothing.
+      if (owners.length === index.values.length && owners.length > 1) continue;
+      for (const owner of owners) add('value', d.name, [part], { value: owner, partial: true, weak: isWeakPhrase(part) });
+    }
+  }
+  return out;
+}
+
+function isWeakPhrase(phrase: string): boolean {
+  const words = phraseWords(phrase);
+  return words.length === 1 && (EVERYDAY.has(words[0]!) || BUSINESS_NOUNS.has(words[0]!) || words[0]!.length <= 2);
+}
+
+/**
+ * Every catalog phrase in the text's unclaimed words: an exact pass (plurals read alike), then a
+ * pass forgiving typos; longest phrases first; matched words are not matched again.
+ */
+export function findCatalogHits(text: RequestText, catalog: PreparedCatalog, options: { typos?: boolean } = {}): CatalogHit[] {
+  const words = text.words;
+  const stems = words.map((w) => stem(w.norm));
+  const taken = words.map((w) => text.isClaimed(w));
+  const hits: CatalogHit[] = [];
+  const free = (i: number, n: number) => {
+    for (let k = i; k < i + n; k++) if (taken[k]) return false;
+    return true;
+  };
+  const take = (i: number, n: number, entries: CatalogEntry[], exact: boolean) => {
+    for (let k = i; k < i + n; k++) taken[k] = true;
+    const ws = words.slice(i, i + n);
+    hits.push({ start: ws[0]!.start, end: ws[ws.length - 1]!.end, entries, words: ws, exact });
+  };
+  for (const exactPass of options.typos === false ? [true] : [true, false]) {
+    for (const n of catalog.lengths) {
+      const bucket = catalog.byLength.get(n)!;
+      for (let i = 0; i + n <= words.length; i++) {
+        if (!free(i, n)) continue;
+        // A phrase does not run across a sentence or a comma-separated list item.
+        if (n > 1 && /[.!?;,]/.test(text.lower.slice(words[i]!.end, words[i + n - 1]!.start))) continue;
+        const window = stems.slice(i, i + n).join(' ');
+        if (exactPass) {
+          const p = bucket.get(window);
+          if (p) take(i, n, p.entries, true);
+          continue;
+        }
+        // Typos only in words that are not everyday words themselves ("tips" is not "trips").
+        if (stems.slice(i, i + n).every((w) => EVERYDAY.has(w) || /^\d+$/.test(w))) continue;
+        const p = closestWithin(window, bucket);
+        if (p) take(i, n, p.entries, false);
+      }
+    }
+  }
+  return hits.sort((a, b) => a.start - b.start);
+}
+
+function closestWithin(window: string, bucket: Map<string, Prepared>): Prepared | undefined {
+  let best: Prepared | undefined;
+  let bestDistance = Infinity;
+  for (const p of bucket.values()) {
+    if (p.edits === 0 || Math.abs(window.length - p.target.length) > p.edits) continue;
+    // Short phrases must keep their first letter: people rarely mistype the first one.
+    if (p.target.length < 7 && window[0] !== p.target[0]) continue;
+    let d = distance(window, p.target);
+    // Levenshtein counts a transposition as two edits; Damerau's measure as one.
+    if (d > p.edits && d <= 2 * p.edits) d = damerauLevenshtein(window, p.target).steps;
+    if (d <= p.edits && d < bestDistance) {
+      best = p;
+      bestDistance = d;
+    }
+  }
+  return best;
+}
+
+/** The catalog names and values nearest an unknown phrase, for "did you mean". */
+export function closestEntries(phrase: string, catalog: PreparedCatalog, kinds: readonly EntryKind[], limit = 3): string[] {
+  const target = phraseWords(phrase).map(stem).join(' ');
+  const targetWords = target.split(' ');
+  const scored = new Map<string, number>();
+  for (const e of catalog.entries) {
+    if (!kinds.includes(e.kind)) continue;
+    const p = phraseWords(e.phrase).map(stem).join(' ');
+    const shared = p.split(' ').some((w) => targetWords.includes(w));
+    const score = distance(p, target) / Math.max(p.length, target.length, 1) - (shared ? 0.5 : 0);
+    const label = e.kind === 'value' ? e.value! : e.name;
+    const prior = scored.get(label);
+    if (prior === undefined || score < prior) scored.set(label, score);
+  }
+  return [...scored.entries()].sort((a, b) => a[1] - b[1]).slice(0, limit).map(([name]) => name);
+}

@@ -1,0 +1,164 @@
+// When the requester needs the answer: "by Friday", "before the 15th", "the board meets on
+// Thursday", "asap", "end of the month". Counted from the real today, never from the data's
+// anchor. A deadline is never in the past, and a phrase naming a period of the data ("for last
+// week", "for the last 3 months") is never a deadline.
+import { addDays } from '../../analysis/periods.js';
+import { daysInMonth, isValidDate, ymd } from './calendar.js';
+import { MONTH_PATTERN, monthNumber, NUMBER_WORD_PATTERN, numberFromWord, WEEKDAY_PATTERN, weekdayNumber } from './lexicon.js';
+import type { RequestText, Span } from './text.js';
+
+export interface DeadlineMention extends Span {
+  /** ISO date, or null when the words name a date already past. */
+  date: string | null;
+  words: string;
+  /** The date named when it is in the past (not taken; the reply says so). */
+  past?: string;
+}
+
+const B = `(?<![\\p{L}\\p{N}])`;
+const E = `(?![\\p{L}\\p{N}])`;
+
+const CUE = `(?:by|before|due(?:\\s+(?:by|on))?|until|till|no\\s+later\\s+than|in\\s+time\\s+for|ahead\\s+of|for|need(?:ed)?\\s+(?:it|this|these|them|that|the\\s+\\w+)?\\s*(?:by|for|on)?|deadline(?:\\s+is)?:?|latest)`;
+const MEETING = `(?:review|meeting|board|call|session|presentation|offsite|off-site|sync|catch-?up|standup|stand-up|huddle|deadline|committee|update|readout|deck|report)`;
+const DAY_OF_MONTH = `(?:the\\s+)?(\\d{1,2})(?:st|nd|rd|th)(?![\\p{L}])`;
+const DAY_MONTH = `(\\d{1,2})(?:st|nd|rd|th)?(?:\\s+of)?\\s+(${MONTH_PATTERN})\\.?(?:,?\\s+((?:19|20)\\d{2}))?`;
+const MONTH_DAY = `(${MONTH_PATTERN})\\.?\\s+(\\d{1,2})(?:st|nd|rd|th)?(?:,?\\s+((?:19|20)\\d{2}))?`;
+const ISO = `((?:19|20)\\d{2})-(\\d{2})-(\\d{2})`;
+const WEEKDAY = `(?:(this|next|coming|the\\s+coming)\\s+)?(${WEEKDAY_PATTERN})(?:'s)?(?![\\p{L}])`;
+const END_OF = `(?:the\\s+)?end\\s+of\\s+(?:the\\s+|this\\s+|next\\s+)?(day|week|month|quarter|year)|eod|cob|close\\s+of\\s+(?:business|play)|eow|eom|eoq|eoy`;
+const IN_N = `(?:in|within)\\s+(?:the\\s+next\\s+)?(\\d{1,2}|${NUMBER_WORD_PATTERN}|a|an)\\s+(days?|weeks?|business\\s+days?|working\\s+days?)`;
+
+const re = (s: string) => new RegExp(s, 'gu');
+
+export function findDeadlines(text: RequestText, today: string): DeadlineMention[] {
+  const found: DeadlineMention[] = [];
+  const add = (span: Span, date: string | null, past?: string) => {
+    if (found.some((f) => f.start < span.end && span.start < f.end)) return;
+    found.push({ ...span, date, words: text.quote(span), ...(past ? { past } : {}) });
+  };
+  const dateOrPast = (span: Span, iso: string | null) => {
+    if (!iso) return;
+    if (iso < today) add(span, null, iso);
+    else add(span, iso);
+  };
+
+  // As soon as possible.
+  for (const m of text.matches(re(`${B}(?:asap|a\\.s\\.a\\.p\\.?|as\\s+soon\\s+as\\s+(?:possible|you\\s+can|poss)|urgent(?:ly)?|right\\s+away|immediately|straight\\s+away|by\\s+today|today\\s+(?:please|if\\s+(?:possible|you\\s+can))|(?:need(?:ed)?|want(?:ed)?)\\s+(?:it|this|these|them|that)?\\s*today|(?:by\\s+)?(?:eod|cob|end\\s+of\\s+(?:the\\s+)?day|close\\s+of\\s+(?:business|play))(?:\\s+today)?|today'?s\\s+${MEETING})${E}`))) {
+    add(m.span, today);
+  }
+  // "by Friday", "before the 15th", "for Thursday's board", "due 15 Dec", "deadline: 2026-12-15"
+  const cued = `${B}(?:${CUE})\\s+(?:(?:our|the|my|next|this)\\s+\\w+\\s+(?:on|is)\\s+)?(?:${WEEKDAY}|${DAY_OF_MONTH}|${DAY_MONTH}|${MONTH_DAY}|${ISO}|tomorrow|(${END_OF})|next\\s+week|${IN_N})`;
+  for (const m of text.matches(re(cued))) {
+    const iso = dateOf(m, 1, today);
+    // A past date after "for", "before" or "until" names a period of the data, not a deadline.
+    if (iso && iso < today && !/^(?:by|due|deadline|need)/.test(m[0].toLowerCase())) continue;
+    dateOrPast(m.span, iso);
+  }
+  // "review is on the 15th", "the board meets on Thursday", "meeting on 15 Dec"
+  const meeting = `${B}${MEETING}s?\\s+(?:is|are|will\\s+be|meets?|happens|takes\\s+place)?\\s*(?:on|this|next|at)?\\s*(?:the\\s+)?(?:${WEEKDAY}|${DAY_OF_MONTH}|${DAY_MONTH}|${MONTH_DAY}|${ISO}|tomorrow)${E}`;
+  for (const m of text.matches(re(meeting))) {
+    const iso = dateOf(m, 1, today);
+    if (iso && iso >= today) add(m.span, iso);
+  }
+  // "Thursday's board meeting", "tomorrow's review"
+  for (const m of text.matches(re(`${B}(?:(this|next)\\s+)?(${WEEKDAY_PATTERN}|tomorrow)'?s\\s+(?:\\w+\\s+){0,2}${MEETING}${E}`))) {
+    dateOrPast(m.span, m[2] === 'tomorrow' ? addDays(today, 1) : weekdayDate(m[2]!, m[1], today));
+  }
+  // "in two weeks", "within 3 days", on their own
+  for (const m of text.matches(re(`${B}(?:need(?:ed)?\\s+(?:it|this)?\\s*)?${IN_N}${E}`))) dateOrPast(m.span, inN(m[1]!, m[2]!, today));
+  return found.sort((a, b) => a.start - b.start);
+}
+
+/** Reads the date groups of a cued match (weekday, day of month, day month, month day, ISO, tomorrow, end of, next week, in N). */
+function dateOf(m: RegExpExecArray, g: number, today: string): string | null {
+  const [which, weekday, dom, dmDay, dmMonth, dmYear, mdMonth, mdDay, mdYear, isoY, isoM, isoD, endOf, _endUnit, inCount, inUnit] = m.slice(g, g + 16);
+  const whole = m[0].toLowerCase();
+  if (weekday) return weekdayDate(weekday, which, today);
+  if (dom) return nextDayOfMonth(Number(dom), today);
+  if (dmDay && dmMonth) return dayMonth(Number(dmDay), monthNumber(dmMonth)!, dmYear, today);
+  if (mdMonth && mdDay) return dayMonth(Number(mdDay), monthNumber(mdMonth)!, mdYear, today);
+  if (isoY && isoM && isoD) return isValidDate(Number(isoY), Number(isoM), Number(isoD)) ? ymd(Number(isoY), Number(isoM), Number(isoD)) : null;
+  if (endOf !== undefined || /\b(?:eod|cob|eow|eom|eoq|eoy)\b/.test(whole)) return endOfPeriod(whole, today);
+  if (inCount && inUnit) return inN(inCount, inUnit, today);
+  if (/\btomorrow\b/.test(whole)) return addDays(today, 1);
+  if (/\bnext\s+week\b/.test(whole)) return addDays(today, 8 - isoWeekday(today));
+  return null;
+}
+
+function isoWeekday(iso: string): number {
+  return ((new Date(`${iso}T00:00:00Z`).getUTCDay() + 6) % 7) + 1;
+}
+
+/**
+ * "Friday": the coming Friday, today if it is Friday. "next Friday": the Friday of next week
+ * when this week's is still to come, else the coming one.
+ */
+export function weekdayDate(word: string, which: string | undefined, today: string): string {
+  const target = weekdayNumber(word)!;
+  const now = isoWeekday(today);
+  let ahead = (target - now + 7) % 7;
+  if (which === 'next' && ahead > 0 && target > now) ahead += 7;
+  if (which === 'next' && ahead === 0) ahead = 7;
+  return addDays(today, ahead);
+}
+
+function nextDayOfMonth(day: number, today: string): string | null {
+  if (day < 1 || day > 31) return null;
+  const [y, m] = [Number(today.slice(0, 4)), Number(today.slice(5, 7))];
+  for (let ahead = 0; ahead < 3; ahead++) {
+    const yy = y + Math.floor((m - 1 + ahead) / 12);
+    const mm = ((m - 1 + ahead) % 12) + 1;
+    if (day > daysInMonth(yy, mm)) continue;
+    const iso = ymd(yy, mm, day);
+    if (iso >= today) return iso;
+  }
+  return null;
+}
+
+function dayMonth(day: number, month: number, year: string | undefined, today: string): string | null {
+  if (year) return isValidDate(Number(year), month, day) ? ymd(Number(year), month, day) : null;
+  const y = Number(today.slice(0, 4));
+  for (const yy of [y, y + 1]) {
+    if (!isValidDate(yy, month, day)) continue;
+    const iso = ymd(yy, month, day);
+    if (iso >= today) return iso;
+  }
+  return null;
+}
+
+function endOfPeriod(words: string, today: string): string {
+  const [y, m] = [Number(today.slice(0, 4)), Number(today.slice(5, 7))];
+  const next = /\bnext\b/.test(words);
+  if (/\b(?:day|eod|cob|close of)\b/.test(words)) return today;
+  if (/\b(?:week|eow)\b/.test(words)) {
+    const friday = addDays(today, (5 - isoWeekday(today) + 7) % 7);
+    return next ? addDays(friday, 7) : friday;
+  }
+  if (/\b(?:month|eom)\b/.test(words)) {
+    const mm = next ? m + 1 : m;
+    const yy = y + Math.floor((mm - 1) / 12);
+    const m2 = ((mm - 1) % 12) + 1;
+    return ymd(yy, m2, daysInMonth(yy, m2));
+  }
+  if (/\b(?:quarter|eoq)\b/.test(words)) {
+    const q = Math.ceil(m / 3) + (next ? 1 : 0);
+    const yy = y + Math.floor((q - 1) / 4);
+    const lastMonth = (((q - 1) % 4) + 1) * 3;
+    return ymd(yy, lastMonth, daysInMonth(yy, lastMonth));
+  }
+  return ymd(next ? y + 1 : y, 12, 31);
+}
+
+function inN(count: string, unit: string, today: string): string {
+  const n = /^\d+$/.test(count) ? Number(count) : (numberFromWord(count) ?? 1);
+  if (/week/.test(unit)) return addDays(today, 7 * n);
+  if (/business|working/.test(unit)) {
+    let d = today;
+    for (let left = n; left > 0; ) {
+      d = addDays(d, 1);
+      if (isoWeekday(d) <= 5) left--;
+    }
+    return d;
+  }
+  return addDays(today, n);
+}

@@ -1,0 +1,226 @@
+// The one vocabulary of ordinary request wording: the words people use around the data's own
+// terms. Every reader (a request, an answer to a question, a correction to the brief card, a
+// plan edit) looks words up here, so a phrase that works in one works in all. Data terms come
+// from each dataset's catalog and values, never from here.
+import { AUDIENCES, type Audience, GRAINS, type Grain } from '../../analysis/types.js';
+
+// ---- calendar words ----
+
+const MONTHS: [RegExp, number][] = [
+  [/^jan(uary)?$/, 1],
+  [/^feb(ruary)?$/, 2],
+  [/^mar(ch)?$/, 3],
+  [/^apr(il)?$/, 4],
+  [/^may$/, 5],
+  [/^june?$/, 6],
+  [/^july?$/, 7],
+  [/^aug(ust)?$/, 8],
+  [/^sep(t(ember)?)?$/, 9],
+  [/^oct(ober)?$/, 10],
+  [/^nov(ember)?$/, 11],
+  [/^dec(ember)?$/, 12],
+];
+export const MONTH_PATTERN = 'jan(?:uary)?|feb(?:ruary)?|mar(?:ch)?|apr(?:il)?|may|june?|july?|aug(?:ust)?|sept(?:ember)?|sep|oct(?:ober)?|nov(?:ember)?|dec(?:ember)?';
+
+export function monthNumber(word: string): number | undefined {
+  const w = word.toLowerCase().replace(/\.$/, '');
+  return MONTHS.find(([re]) => re.test(w))?.[1];
+}
+
+const NUMBER_WORDS: Record<string, number> = {
+  one: 1, two: 2, three: 3, four: 4, five: 5, six: 6, seven: 7, eight: 8, nine: 9, ten: 10,
+  eleven: 11, twelve: 12, thirteen: 13, fourteen: 14, fifteen: 15, sixteen: 16, eighteen: 18,
+  twenty: 20, thirty: 30, sixty: 60, ninety: 90, a: 1, an: 1, couple: 2, 'a couple of': 2,
+};
+export const NUMBER_WORD_PATTERN = 'a\\s+couple\\s+of|couple\\s+of|one|two|three|four|five|six|seven|eight|nine|ten|eleven|twelve|thirteen|fourteen|fifteen|sixteen|eighteen|twenty|thirty|sixty|ninety';
+
+export function numberFromWord(word: string): number | undefined {
+  const w = word.toLowerCase().replace(/\s+/g, ' ').replace(/ of$/, '');
+  return NUMBER_WORDS[w] ?? NUMBER_WORDS[`a ${w}`];
+}
+
+const ORDINALS: Record<string, number> = { first: 1, second: 2, third: 3, fourth: 4, fifth: 5, '1st': 1, '2nd': 2, '3rd': 3, '4th': 4, '5th': 5 };
+export const ORDINAL_PATTERN = 'first|second|third|fourth|fifth|1st|2nd|3rd|4th|5th';
+
+export function ordinalNumber(word: string): number | undefined {
+  return ORDINALS[word.toLowerCase()];
+}
+
+export const WEEKDAYS = ['monday', 'tuesday', 'wednesday', 'thursday', 'friday', 'saturday', 'sunday'] as const;
+export const WEEKDAY_PATTERN = 'mon(?:day)?|tue(?:s(?:day)?)?|wed(?:nesday)?|thu(?:rs(?:day)?)?|fri(?:day)?|sat(?:urday)?|sun(?:day)?';
+
+/** 1 for Monday ... 7 for Sunday (ISO). */
+export function weekdayNumber(word: string): number | undefined {
+  const w = word.toLowerCase();
+  const i = WEEKDAYS.findIndex((d) => d.startsWith(w.slice(0, 3)));
+  return i >= 0 ? i + 1 : undefined;
+}
+
+// ---- grains ----
+
+/** How a grain is written when read: "monthly", "by month", "per month", "month by month", "each month". */
+export const GRAIN_WORDS: Record<Grain, { adjective: string; noun: string; plural: string; extra: string[] }> = {
+  day: { adjective: 'daily', noun: 'day', plural: 'days', extra: ['day by day', 'day-by-day', 'day on day', 'dod'] },
+  week: { adjective: 'weekly', noun: 'week', plural: 'weeks', extra: ['week by week', 'week-by-week', 'week on week', 'week-on-week', 'week over week', 'wow', 'wk'] },
+  month: { adjective: 'monthly', noun: 'month', plural: 'months', extra: ['month by month', 'month-by-month', 'month on month', 'month-on-month', 'month over month', 'mom', 'monthwise'] },
+  quarter: { adjective: 'quarterly', noun: 'quarter', plural: 'quarters', extra: ['quarter by quarter', 'quarter-by-quarter', 'quarter on quarter', 'quarter-on-quarter', 'qoq', 'qtr', 'qtrly'] },
+  year: { adjective: 'yearly', noun: 'year', plural: 'years', extra: ['annual', 'annually', 'year by year', 'year-by-year', 'per annum'] },
+};
+
+/** The grain a standalone answer names ("weekly", "by month", "quarters", "q"), if any. */
+export function grainNamedBy(text: string): Grain | undefined {
+  const t = text.toLowerCase();
+  for (const g of GRAINS) {
+    const w = GRAIN_WORDS[g];
+    const words = [w.adjective, w.noun, w.plural, ...w.extra].map((x) => x.replace(/[-\s]+/g, '[-\\s]+'));
+    if (new RegExp(`(?<![\\p{L}])(?:${words.join('|')})(?![\\p{L}])`, 'u').test(t)) return g;
+  }
+  if (/^\s*q\s*$/.test(t)) return 'quarter';
+  return undefined;
+}
+
+// ---- audiences ----
+
+export const AUDIENCE_CUES: Record<Audience, RegExp> = {
+  leadership:
+    /\b(leadership|leaders|the board|board (?:meeting|pack|paper|deck|update|members?|report)|for (?:the )?board|board-level|exec(?:s|utives?|utive team)?|(?:the )?c-suite|c-level|ceo|cfo|coo|cmo|cto|md|managing director|directors?|senior (?:management|leadership|team|leaders)|slt|elt|top team|management team|investors?|shareholders?|chair(?:man|woman|person)?|trustees)\b/i,
+  managers:
+    /\b(managers?|manager's|my team|our team|the team meeting|team meeting|team review|heads? of|(?:ops|operations|finance|sales|marketing|commercial|product|support|customer|service|regional|station|store|site|weekly|monthly|quarterly|business|performance)\s+(?:review|meeting|sync|huddle|standup|stand-up|catch-?up|call|update)|line managers?|supervisors?|team leads?|my boss|for my manager)\b/i,
+  analysts:
+    /\b(analysts?|analyst team|technical (?:detail|audience|appendix|readers?)|(?:with|include|show)(?: the)? (?:p-?values?|confidence intervals?|test statistics|methodology|stats detail)|p-?values?|statistically rigorous|deep[- ]dive|for the data (?:folks|people)|data scientists?)\b/i,
+};
+
+export const AUDIENCE_LABELS: Record<Audience, { label: string; detail: string }> = {
+  leadership: { label: 'Leadership', detail: 'plain words, headline first' },
+  managers: { label: 'Managers', detail: 'plain words with the detail' },
+  analysts: { label: 'Analysts', detail: 'tests, p-values and intervals' },
+};
+
+/** The audience a short answer or correction names ("for leadership", "execs", "the analysts"). */
+export function audienceNamedBy(text: string): Audience | undefined {
+  const t = text.toLowerCase();
+  for (const a of AUDIENCES) if (new RegExp(`\\b${a.slice(0, -1)}`, 'i').test(t)) return a;
+  return AUDIENCES.find((a) => AUDIENCE_CUES[a].test(t)) ?? (/\b(senior|exec|board)/.test(t) ? 'leadership' : undefined);
+}
+
+// ---- agreeing, cancelling ----
+
+export const AGREE = /^\s*(?:go|go ahead|go for it|yes|yep|yeah|y|ok|okay|k|sure|fine|agreed?|agree|looks good|looks great|lgtm|run(?: it)?|start|do it|sounds good|perfect|great|ship it|proceed|confirm(?:ed)?|👍|✅)(?:[,!. ]+(?:thanks|thank you|please|go|run it|ta|cheers))*\s*[.!]*\s*$/iu;
+export const ACCEPT_DEFAULT = /^\s*(?:|ok|okay|yes|y|sure|fine|default|recommended|use recommended|go with (?:that|the default|your suggestion|the recommendation)|sounds good|whatever you (?:think|recommend)|your call|you choose|👍)\s*[.!]?\s*$/iu;
+export const CANCEL = /^\s*(?:cancel|stop|abort|never ?mind|forget it|scrap (?:it|that)|drop it)\b/i;
+
+// ---- kinds of question ----
+
+/** Cues for each kind of question, with weights; the reader scores a question's words with these. */
+export const KIND_CUES = {
+  performance: [
+    /\bworth (?:it|keeping|the (?:money|cost|effort))\b/,
+    /\b(?:is|was) it (?:working|worth)|\bdid it work\b|\bpaying off\b|\bpay(?:s|ing)? off\b|\bmake a difference\b/,
+    /\b(?:impact|effect|effects|affect(?:ed)?|benefit|lift|uplift|incremental|cannibali[sz]\w*)\b/,
+    /\bbefore and after\b|\bbefore (?:vs\.?|versus|v) after\b|\bpre[- ]and[- ]post\b|\bpre-? ?(?:vs\.?|versus)? ?post\b/,
+    /\bthan (?:everyone|everybody|anyone) else\b|\bthan (?:the )?(?:rest|others|other customers|non-?\w+)\b|\b(?:vs\.?|versus|against|compared (?:to|with)) (?:the )?(?:rest|others|everyone else|non-?\w+)\b/,
+    /\b(?:since|after|post)[- ](?:it|we|they)? ?(?:launch(?:ed)?|went live|started|rolled out|introduc\w+)\b|\bsince (?:the )?launch\b|\bpost-launch\b/,
+    /\b(?:more|less|fewer) (?:often|frequently)\b|\bhow often\b|\btravel more\b|\bbook more\b|\bspend more\b|\bspend less\b/,
+  ],
+  kpi: [
+    /\bwhere (?:does|do|did|is|are) .{0,60}\bstand\b|\bstand(?:s|ing)? (?:at|right now|today|currently)\b|\bwhere we stand\b|\bwhere (?:are|is) .{1,40} (?:now|at)\b/,
+    /\bhow(?:'s|'re| is| are| did| was| were| has| have) .{0,30}\b(?:go|going|gone|look(?:ing)?|do(?:ing)?|shap\w+ up|perform(?:ing)?)\b(?=.{0,40}(?:last|this|yesterday|today|in (?:jan|feb|mar|apr|may|jun|jul|aug|sep|oct|nov|dec)|q[1-4]))/,
+    /\bhow did (?:jan|feb|mar|apr|may|jun|jul|aug|sep|oct|nov|dec|q[1-4]|h[12]|last|this|yesterday)\w* (?:go|look|turn out|land)\b/,
+    /\b(?:current(?:ly)?|right now|at the moment|as of (?:now|today)|latest|snapshot|kpis?|headline (?:number|figure)s?|scorecard|month[- ]end|quarter[- ]end|flash (?:report|numbers?))\b/,
+    /\bwhat (?:is|are|was|were|'s) (?:our |the )?.{0,40}\b(?:last|this|yesterday|today|so far)\b/,
+  ],
+  growth: [
+    /\bgr[eo]w(?:s|n|ing|th)?\b|\bdeclin\w*|\bincreas\w*|\bdecreas\w*|\bshr[iu]nk\w*|\bcontract\w*|\bexpand\w*/,
+    /\b(?:up|down) (?:or|and) (?:down|up)\b|\b(?:up|down) on\b|\bup from\b|\bdown from\b|\b(?:is|are|was|were|'s|'re)\b(?:\s+\S+){0,5}\s+(?:up|down)\b(?=\s*(?:$|[?.!,]|on\b|from\b|vs\b|versus\b|compared\b|this\b|last\b|since\b|year\b|again\b|at all\b))|\b(?:rise|rising|rose|risen|fall|falling|fell|fallen|drop\w*|dip\w*|jump\w*|surg\w*|climb\w*|slump\w*|plummet\w*|soar\w*|spike\w*|slid\w*|slip\w*|recover\w*|bounce\w* back|rebound\w*)\b/,
+    /\b(?:faster|slower|quicker|more quickly|more slowly|accelerat\w*|decelerat\w*|slow(?:ed|ing)? down|speed(?:ing)? up|momentum)\b/,
+    /\bbeat(?:s|en)?\b|\bbeating\b|\bbetter or worse\b|\b(?:better|worse) than\b|\b(?:more|less|higher|lower|bigger|smaller) than (?:last|the (?:previous|prior|same)|a year)\b/,
+    /\byear[- ](?:on|over)[- ]year\b|\byoy\b|\by\/y\b|\bcagr\b|\bgrowth rate\b|\brate of (?:change|growth|increase|decline)\b|\bhow (?:fast|quickly|much) .{0,40}\b(?:chang|rising|rose|grow|fall|increas|decreas|declin|climb)\w*|\bper (?:decade|year|annum)\b.{0,20}$/,
+    /\bchang(?:e|ed|es|ing)\b|\bcompare\w*\b|\bvs\.?\b|\bversus\b|\bagainst\b/,
+  ],
+  trend: [
+    /\btrend\w*|\bover time\b|\bpattern\w*|\bseason\w*|\bhistor\w*|\bevolv\w*|\bevolution\b|\btrajector\w*|\bmoved\b|\bmovement\b|\btrack\w*/,
+    /\bbusiest\b|\bquietest\b|\bslowest\b|\bpeak\w*|\btrough\w*|\bwhen in the year\b|\bwhich (?:months?|weeks?|days?|quarters?) (?:is|are|was|were)\b|\btime of (?:the )?year\b|\bday of (?:the )?week\b|\bweekday\w*|\bweekend\w*/,
+    /\bmake[s]? up\b|\bshare of\b|\bshares\b|\bmix\b|\bsplit of\b|\bconcentrat\w*|\btop \d+\b|\btop (?:three|five|ten)\b|\bbottom \d+\b|\brank\w*|\bpareto\b|\blong tail\b|\bdistribution\b|\bbiggest\b|\blargest\b|\bsmallest\b|\bmost of\b|\bhighest\b|\blowest\b|\bbest\b|\bworst\b/,
+    /\bmonth by month\b|\bweek by week\b|\bday by day\b|\bquarter by quarter\b|\byear by year\b|\bover the (?:years|months|weeks)\b|\blong[- ]term\b/,
+  ],
+} as const;
+
+/** Words that only ask for a breakdown of the question before them ("which routes drove it"). */
+export const REFINES_PREVIOUS = /^\s*(?:and\s+|also\s+|plus\s+)?(?:which|what)\b.*\b(?:drove|drive|driving|drives|behind|explain\w*|caused|cause|contribut\w*|responsible|account(?:ed|s)? for)\b|^\s*(?:and|also|plus)?\s*(?:split|broken down|break(?:ing)? (?:it |that |this )?down)\s+by\b|^\s*(?:and|also|plus|or)?\s*by\s+\w+(?:\s+(?:and|or)\s+\w+)?\s*\??\s*$/i;
+
+/** A question about how often each unit does something, not a total. */
+export const FREQUENCY = /\b(?:more|less) (?:often|frequently)\b|\bhow often\b|\bfrequenc\w+|\btravel (?:more|less)\b|\bbook (?:more|less)\b|\brepeat\b|\bper (?:customer|user|member|client|account|head)\b|\bonce a\b|\btimes a (?:month|year|week)\b/i;
+
+/** Words that begin a new question inside one sentence (", whether ...", "and where ..."). */
+export const QUESTION_JOINS = /,?\s+and\s+(?=(?:whether|where|which|how|what|why|when|is|are|did|does|do|can|could)\b)|,\s+(?=(?:whether|where|which|how|what|why|when|also|plus)\b)|;\s*|\s+(?:also|plus),?\s+(?=(?:whether|where|which|how|what|why|can|could|is|are|did)\b)/i;
+
+// ---- ordinary words ----
+
+/** Function words: never data, never unknown. */
+export const STOPWORDS = new Set(
+  `a about above after again against all almost along already also although always am among an and another any anybody anyone anything anyway are aren around as at away
+  back be became because become been before being below between both but by can cannot could couldn did didn do does doesn doing don done down during each either else enough especially even ever every
+  few for from further get gets getting give given go goes going got had hadn has hasn have haven having he her here hers herself him himself his how however i if in into is isn it its itself just
+  least less let like likely made make many may maybe me might mine more most much must my myself near nearly need neither never no nobody none nor not nothing now of off often on once one only onto or other others otherwise our ours ourselves out over own
+  per perhaps please quite rather really same several shall she should shouldn since so some somebody someone something sometimes still such than that the their theirs them themselves then there these they thing things this those though through thus to too toward towards
+  under until up upon us very via vs versus was wasn way we well were weren what whatever when whenever where whereas whether which while who whole whom whose why will with within without won would wouldn yet you your yours yourself yourselves
+  hi hello hey dear thanks thank cheers regards best kind ta please pls plz thx ty ok okay yes no yeah yep nope sure fine great good nice lovely awesome`.split(/\s+/),
+);
+
+/**
+ * Request wording: verbs, analysis words, office nouns and the like. Never reported as unknown,
+ * never taken for data. The analysis words of the trade (trend, share, growth...) are here too:
+ * they are read as cues, not as names of things in the data.
+ */
+export const ORDINARY = new Set(
+  `able ahead ask asked asking answer answers bit break breakdown broken briefly build call chance chart charts check clear compare compared comparing comparison could cover curious
+  data dashboard deck detail details dig doing drill email emails explain figure figures find follow following fyi graph graphs help hope idea insight insights interested
+  keen know last latest let look looking looks meeting meetings mind need needed needs note notes number numbers overview picture plot prepare presentation pull put question questions quick quickly
+  read ready report reporting reports request review see send share show showing slide slides sort stats summary summarise summarize table tables team tell thinking thought time today tomorrow understand update
+  view want wanted wants week weeks wondering work working write yesterday year years month months quarter quarters day days half period periods date dates season
+  trend trends trending growth grow growing grown grew change changes changed changing rate rates ratio share shares mix split pattern patterns seasonal seasonality
+  top bottom best worst highest lowest biggest smallest largest most least average averages avg mean median typical total totals overall sum count counts volume volumes level levels
+  up down higher lower more less increase decrease rise fall drop dip jump peak peaks trough busy busiest quiet quietest slow slowest fast faster slower strong weak
+  vs versus against compared since until through between across within per each every both either whole full complete partial entire so far recent recently currently current now
+  doing going looking performing perform performed performance move moved moving moves movement movements happen happened happening go went gone
+  beat beaten drive drove driving driver drivers behind cause caused reason reasons explain explains impact effect effects worth difference differ differs different
+  lately past previous prior next coming upcoming ago earlier later early late mid end start beginning ongoing so-called ytd mtd qtd yoy mom wow qoq ttm ltm
+  business company firm org organisation organization everyone everybody people folks guys all team teams colleagues boss manager managers board leadership exec execs
+  ops operations finance marketing sales commercial product strategy plan planning budget forecast target targets goal goals kpi kpis metric metrics measure measures figure
+  thing stuff something anything everything lot lots bunch kind sort type way ways bit piece part parts point points side sides term terms case cases example instance
+  morning afternoon evening tonight week weekend weekends weekday weekdays daily weekly monthly quarterly yearly annual annually`.split(/\s+/),
+);
+
+/**
+ * Nouns that name a measure or a breakdown in most businesses. One of these that the catalog
+ * does not know is reported as unknown wherever it appears: a request asking for profit on data
+ * that has no profit must not be answered with revenue in silence.
+ */
+export const BUSINESS_NOUNS = new Set(
+  `profit profits profitability margin margins cost costs expense expenses spend spending ebitda ebit earnings payroll wages salary salaries price prices pricing discount discounts
+  nps csat ces churn retention conversion conversions roi roas ltv clv arpu aov headcount staff staffing employees fte utilisation utilization occupancy inventory stock stockouts
+  region regions regional country countries city cities state states province provinces store stores shop shops branch branches site sites location locations department departments
+  product products sku skus category categories segment segments brand brands supplier suppliers vendor vendors campaign campaigns market markets territory territories zone zones
+  area areas division divisions unit units warehouse warehouses depot depots outlet outlets franchise franchises partner partners agent agents rep reps salesperson salespeople
+  complaint complaints returns return delays delay cancellations weather temperature rainfall emissions carbon fuel energy age gender demographic demographics
+  sessions pageviews clicks impressions visits visitors footfall downloads installs signups subscribers subscriptions leads deals pipeline quota`.split(/\s+/),
+);
+
+// ---- business words for the main kinds of metric ----
+
+/** What an ordinary word asks to measure, when the catalog has exactly one metric of that role. */
+export type MetricRole = 'amount' | 'count' | 'distinct' | 'average_amount';
+
+export const ROLE_WORDS: { role: MetricRole; pattern: RegExp }[] = [
+  { role: 'average_amount', pattern: /\b(?:average|avg|mean|typical)\s+(?:price|spend|ticket|basket|order value|transaction value|sale|value|amount|fare|bill|cheque|check)\b|\b(?:aov|atv|basket size)\b/ },
+  { role: 'amount', pattern: /\b(?:money|takings|income|sales|turnover|revenues?|earnings|receipts|gross|top line|topline|cash|billings?|how much (?:did we|have we|do we) (?:make|made|earn|take|bring)|how much we (?:made|make|took|earned))\b/ },
+  { role: 'count', pattern: /\b(?:volume|volumes|how many|number of|no\.? of|count of|transactions|throughput|activity)\b/ },
+  { role: 'distinct', pattern: /\b(?:unique|distinct|active)\s+(?:customers|users|clients|people|accounts|members)\b|\bhow many (?:customers|users|clients|people)\b/ },
+];
+
+/** Words that point back to the previous question's metric. */
+export const PRONOUNS = new Set(['it', 'that', 'this', 'they', 'them', 'those', 'these', 'its', 'same', 'one']);
+
+/** Words that ask for a breakdown by the noun after them. */
+export const BREAKDOWN_BEFORE = /(?:\bby|\bper|\bfor each|\beach|\bevery|\bacross(?: (?:all|the|our))?|\bsplit (?:by|across|into)|\bbroken down by|\bbreak(?:ing)? (?:it |that |this |them )?down by|\bbreakdown (?:by|of)|\bgrouped by|\bwithin each|\bfor every|\bamong(?: the)?|\bbetween (?:the )?(?:different )?)\s+$/;
+export const BREAKDOWN_WH = /(?:\bwhich|\bwhat)\s+$/;

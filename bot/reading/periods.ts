@@ -1,0 +1,473 @@
+// Period phrases: every way a request names a stretch of time ("Q3 2024", "since March 2023",
+// "the last 6 weeks", "this summer", "year to date", "the storm week"), and the phrases that ask
+// for a comparison with another stretch ("vs last year", "a year earlier", "month on month").
+// Each recogniser returns what it found and the words it found it in; resolving a phrase that
+// needs a year ("in March", "for Q3") uses the anchor: the latest occurrence that has begun.
+import { addDays } from '../../analysis/periods.js';
+import type { DateWindow } from '../../analysis/types.js';
+import {
+  addMonthsClamped,
+  dayWindow,
+  halfWindow,
+  type Hemisphere,
+  isValidDate,
+  isoWeekWindow,
+  monthWindow,
+  type PeriodUnit,
+  periodHolding,
+  quarterWindow,
+  type Season,
+  seasonWindow,
+  shiftPeriod,
+  yearWindow,
+  ymd,
+} from './calendar.js';
+import type { RequestText, Span } from './text.js';
+import { MONTH_PATTERN, monthNumber, NUMBER_WORD_PATTERN, numberFromWord, ORDINAL_PATTERN, ordinalNumber } from './lexicon.js';
+
+/** What relative phrases count from, and what the data covers. */
+export interface PeriodContext {
+  /** The reference "today": the real today, or the day after the data's last date if that is earlier. */
+  anchor: string;
+  hemisphere: Hemisphere;
+  /** Numeric dates such as 09/01/2023 are read day first (most locales) or month first (en-US). */
+  dayFirst: boolean;
+  /** Named periods from the config ("the storm week"). */
+  events: readonly NamedPeriod[];
+}
+
+export interface NamedPeriod {
+  name: string;
+  phrases: readonly string[];
+  window: DateWindow;
+}
+
+/**
+ * "a year earlier", "same period last year": the window n units back; "the previous period": the
+ * stretch of the window's own length just before it.
+ */
+export interface Shift {
+  /** `same`: one of the window's own unit ("this year against last"). */
+  unit: PeriodUnit | 'period' | 'same';
+  n: number;
+}
+
+export interface PeriodMention extends Span {
+  /** The stretch of time, unclipped; absent for a pure comparison shift ("a year earlier"). */
+  window?: DateWindow;
+  unit: PeriodUnit | 'span';
+  /** A relative phrase, resolved against the anchor ("last month", "this summer"). */
+  relative: boolean;
+  /** Runs to the latest data ("since March", "year to date", "this month"). */
+  toLatest?: boolean;
+  /** Starts at the first data ("until March"). */
+  fromEarliest?: boolean;
+  shift?: Shift;
+  /** Preceded by a comparison word ("vs", "against", "compared with", "than", "beat"). */
+  compared: boolean;
+  /** "last summer": resolved as the one before `this`, when both are named. */
+  previousOf?: PeriodUnit;
+  /** Set against the window by a comparison word ("vs", "compared with"), not only a shift ("on the year before"). */
+  strong?: boolean;
+  words: string;
+}
+
+/** A point in the calendar named by the text, possibly without its year (resolved later). */
+interface Point extends Span {
+  unit: PeriodUnit;
+  /** Builds the window for a year; `year` absent when the text gave one. */
+  make: (year: number) => DateWindow;
+  year?: number;
+  /** Which occurrence when no year is given. */
+  which: 'latest' | 'last' | 'next';
+  /** For range year inheritance: the month the point starts in. */
+  month: number;
+}
+
+const YEAR = `(?:19|20)\\d{2}`;
+const SHORT_YEAR = `'\\d{2}`;
+const B = `(?<![\\p{L}\\p{N}])`;
+const E = `(?![\\p{L}\\p{N}])`;
+
+function re(source: string): RegExp {
+  return new RegExp(source, 'gu');
+}
+
+function yearFrom(text: string | undefined): number | undefined {
+  if (!text) return undefined;
+  if (text.startsWith("'")) return 2000 + Number(text.slice(1));
+  if (/^\d{2}$/.test(text)) return 2000 + Number(text);
+  return Number(text);
+}
+
+/** The occurrence of a recurring period that a bare name means, counted from the anchor. */
+export function resolveOccurrence(make: (year: number) => DateWindow, which: Point['which'], anchor: string): DateWindow {
+  const anchorYear = Number(anchor.slice(0, 4));
+  if (which === 'next') {
+    for (let y = anchorYear - 1; y <= anchorYear + 2; y++) {
+      const w = make(y);
+      if (w.start >= anchor) return w;
+    }
+  }
+  for (let y = anchorYear + 1; y >= anchorYear - 3; y--) {
+    const w = make(y);
+    // The latest that has begun by the anchor; "last" the latest that has ended.
+    if (which === 'latest' ? w.start < anchor : w.end <= anchor) return w;
+  }
+  return make(anchorYear - 1);
+}
+
+function relativeYear(word: string, anchor: string): number {
+  const y = Number(anchor.slice(0, 4));
+  return word === 'last' || word === 'previous' || word === 'prior' ? y - 1 : word === 'next' ? y + 1 : y;
+}
+
+const QUARTER_WORD = `(?:first|second|third|fourth|last|1st|2nd|3rd|4th)`;
+const HALF_WORD = `(?:first|second|1st|2nd)`;
+
+function quarterIndex(word: string): number {
+  return word === 'last' ? 4 : ordinalNumber(word) ?? Number(word);
+}
+
+/** Finds calendar points: days, months, quarters, halves, seasons, ISO weeks and years. */
+function findPoints(text: RequestText, ctx: PeriodContext): Point[] {
+  const found: Point[] = [];
+  const add = (span: Span, p: Omit<Point, 'start' | 'end'>) => found.push({ ...span, ...p });
+  const month = (m: string) => monthNumber(m)!;
+  const whichOf = (w: string | undefined): Point['which'] => (w === 'last' || w === 'previous' ? 'last' : w === 'next' ? 'next' : 'latest');
+
+  // 2023-01-09
+  for (const m of text.matches(re(`${B}(${YEAR})-(\\d{1,2})-(\\d{1,2})${E}`))) {
+    const [y, mo, d] = [Number(m[1]), Number(m[2]), Number(m[3])];
+    if (isValidDate(y, mo, d)) add(m.span, { unit: 'day', year: y, make: () => dayWindow(ymd(y, mo, d)), which: 'latest', month: mo });
+  }
+  // 09/01/2023, 9.1.23: day first or month first as the locale writes them, unless a part over 12 settles it
+  for (const m of text.matches(re(`${B}(\\d{1,2})[/.](\\d{1,2})[/.](\\d{4}|\\d{2})${E}`))) {
+    const [p1, p2] = [Number(m[1]), Number(m[2])];
+    const y = yearFrom(m[3])!;
+    const [d, mo] = p1 > 12 ? [p1, p2] : p2 > 12 ? [p2, p1] : ctx.dayFirst ? [p1, p2] : [p2, p1];
+    if (isValidDate(y, mo, d)) add(m.span, { unit: 'day', year: y, make: () => dayWindow(ymd(y, mo, d)), which: 'latest', month: mo });
+  }
+  // 9 January 2023, 9th of Jan '23, 9 Jan (no year)
+  for (const m of text.matches(re(`${B}(\\d{1,2})(?:st|nd|rd|th)?(?:\\s+of)?\\s+(${MONTH_PATTERN})\\.?(?:,?\\s+(${YEAR}|${SHORT_YEAR}))?${E}`))) {
+    const [d, mo, y] = [Number(m[1]), month(m[2]!), yearFrom(m[3])];
+    if (d < 1 || d > 31) continue;
+    add(m.span, { unit: 'day', ...(y ? { year: y } : {}), make: (yy) => dayWindow(ymd(yy, mo, d)), which: 'latest', month: mo });
+  }
+  // January 9, 2023; Jan 9th
+  for (const m of text.matches(re(`${B}(${MONTH_PATTERN})\\.?\\s+(\\d{1,2})(?:st|nd|rd|th)?(?:,?\\s+(${YEAR}|${SHORT_YEAR}))?${E}`))) {
+    const [mo, d, y] = [month(m[1]!), Number(m[2]), yearFrom(m[3])];
+    if (d < 1 || d > 31) continue;
+    add(m.span, { unit: 'day', ...(y ? { year: y } : {}), make: (yy) => dayWindow(ymd(yy, mo, d)), which: 'latest', month: mo });
+  }
+  // January 2023, Jan '23, January of last year, last January, 2023-01, 01/2023
+  for (const m of text.matches(re(`${B}(?:(last|this|next|previous)\\s+)?(${MONTH_PATTERN})\\.?(?:,?\\s+(?:of\\s+)?(?:(${YEAR}|${SHORT_YEAR})|(last|this|next)\\s+year))?${E}`))) {
+    const mo = month(m[2]!);
+    if (m[2] === 'may' && !monthContext(text, m.span, m[1] ?? m[3] ?? m[4])) continue;
+    if (m[2] === 'march' && !m[1] && !m[3] && !m[4] && !monthContext(text, m.span, undefined)) continue;
+    const y = m[3] ? yearFrom(m[3]) : m[4] ? relativeYear(m[4], ctx.anchor) : undefined;
+    add(m.span, { unit: 'month', ...(y ? { year: y } : {}), make: (yy) => monthWindow(yy, mo), which: whichOf(m[1]), month: mo });
+  }
+  for (const m of text.matches(re(`${B}(${YEAR})-(0[1-9]|1[0-2])${E}(?!-\\d)`))) {
+    const [y, mo] = [Number(m[1]), Number(m[2])];
+    add(m.span, { unit: 'month', year: y, make: () => monthWindow(y, mo), which: 'latest', month: mo });
+  }
+  for (const m of text.matches(re(`${B}(0?[1-9]|1[0-2])/(${YEAR})${E}`))) {
+    const [mo, y] = [Number(m[1]), Number(m[2])];
+    add(m.span, { unit: 'month', year: y, make: () => monthWindow(y, mo), which: 'latest', month: mo });
+  }
+  // Quarters: Q3 2024, 2024 Q3, Q3 '24, 3Q24, Q3 FY? (calendar only), the third quarter of 2024, last year's Q3
+  const quarter = (span: Span, q: number, y: number | undefined, which: Point['which'] = 'latest') =>
+    q >= 1 && q <= 4 && add(span, { unit: 'quarter', ...(y ? { year: y } : {}), make: (yy) => quarterWindow(yy, q), which, month: (q - 1) * 3 + 1 });
+  for (const m of text.matches(re(`${B}(?:(last|this|next)\\s+)?q([1-4])(?:\\s*(?:of\\s+)?[-/ ]?\\s*(${YEAR}|${SHORT_YEAR}|\\d{2}(?=$|[^\\p{N}]))|\\s+(?:of\\s+)?(last|this|next)\\s+year)?${E}`))) {
+    quarter(m.span, Number(m[2]), m[3] ? yearFrom(m[3]) : m[4] ? relativeYear(m[4], ctx.anchor) : undefined, whichOf(m[1]));
+  }
+  for (const m of text.matches(re(`${B}(${YEAR})\\s*[-/ ]?\\s*q([1-4])${E}`))) quarter(m.span, Number(m[2]), Number(m[1]));
+  for (const m of text.matches(re(`${B}([1-4])q\\s*(${YEAR}|\\d{2})${E}`))) quarter(m.span, Number(m[1]), yearFrom(m[2]));
+  for (const m of text.matches(re(`${B}(last|this)\\s+year'?s\\s+q([1-4])${E}`))) quarter(m.span, Number(m[2]), relativeYear(m[1]!, ctx.anchor));
+  for (const m of text.matches(re(`${B}(?:the\\s+)?(${QUARTER_WORD})\\s+quarter(?:\\s+(?:of\\s+)?(?:(${YEAR})|(last|this|next)\\s+year|the\\s+year))?${E}`))) {
+    const q = quarterIndex(m[1]!);
+    quarter(m.span, q, m[2] ? Number(m[2]) : m[3] ? relativeYear(m[3], ctx.anchor) : undefined);
+  }
+  // Halves: H1 2024, 2024 H1, the first half of 2024, H2 last year
+  const half = (span: Span, h: number, y: number | undefined, which: Point['which'] = 'latest') =>
+    add(span, { unit: 'half', ...(y ? { year: y } : {}), make: (yy) => halfWindow(yy, h), which, month: h === 1 ? 1 : 7 });
+  for (const m of text.matches(re(`${B}(?:(last|this|next)\\s+)?h([12])(?:\\s*(?:of\\s+)?[-/ ]?\\s*(${YEAR}|${SHORT_YEAR})|\\s+(?:of\\s+)?(last|this|next)\\s+year)?${E}`))) {
+    half(m.span, Number(m[2]), m[3] ? yearFrom(m[3]) : m[4] ? relativeYear(m[4], ctx.anchor) : undefined, whichOf(m[1]));
+  }
+  for (const m of text.matches(re(`${B}(${YEAR})\\s*[-/ ]?\\s*h([12])${E}`))) half(m.span, Number(m[2]), Number(m[1]));
+  for (const m of text.matches(re(`${B}(?:the\\s+)?(${HALF_WORD})\\s+half(?:\\s+(?:of\\s+)?(?:(${YEAR})|(last|this|next)\\s+year|the\\s+year))?${E}`))) {
+    half(m.span, ordinalNumber(m[1]!)!, m[2] ? Number(m[2]) : m[3] ? relativeYear(m[3], ctx.anchor) : undefined);
+  }
+  // Seasons: summer 2024, the summer of 2024, this summer, last winter, winter 2023/24, 2024 summer
+  const season = (span: Span, s: Season, y: number | undefined, which: Point['which']) =>
+    add(span, { unit: 'season', ...(y ? { year: y } : {}), make: (yy) => seasonWindow(s, yy, ctx.hemisphere), which, month: Number(seasonWindow(s, 2001, ctx.hemisphere).start.slice(5, 7)) });
+  const SEASON = `(spring|summer|autumn|fall|winter)`;
+  const seasonName = (w: string): Season => (w === 'fall' ? 'autumn' : (w as Season));
+  for (const m of text.matches(re(`${B}(?:(this|last|past|previous|next)\\s+)?${SEASON}(?:\\s+(?:of\\s+)?(${YEAR}|${SHORT_YEAR})(?:\\s*[/-]\\s*(\\d{2}|${YEAR}))?)?${E}`))) {
+    const s = seasonName(m[2]!);
+    // "winter 2023/24" is the winter that starts in 2023: labelled by its January's year.
+    const y = m[4] ? yearFrom(m[4].length === 2 ? `'${m[4]}` : m[4]) : m[3] ? yearFrom(m[3]) : undefined;
+    const label = m[4] && s !== 'winter' ? yearFrom(m[3]) : y;
+    season(m.span, s, label, m[1] === 'last' || m[1] === 'past' || m[1] === 'previous' ? 'last' : m[1] === 'next' ? 'next' : 'latest');
+  }
+  for (const m of text.matches(re(`${B}(${YEAR})\\s+${SEASON}${E}`))) season(m.span, seasonName(m[2]!), Number(m[1]), 'latest');
+  // ISO weeks: 2024-W12, W12 2024, week 12 of 2024, wk 12
+  for (const m of text.matches(re(`${B}(${YEAR})-?w(\\d{1,2})${E}`))) {
+    const [y, w] = [Number(m[1]), Number(m[2])];
+    if (w >= 1 && w <= 53) add(m.span, { unit: 'week', year: y, make: () => isoWeekWindow(y, w), which: 'latest', month: 1 });
+  }
+  for (const m of text.matches(re(`${B}(?:iso\\s+)?(?:week|wk|w)\\s*(\\d{1,2})(?:\\s*(?:of\\s+|,\\s*)?(${YEAR}))?${E}`))) {
+    const w = Number(m[1]);
+    const y = m[2] ? Number(m[2]) : undefined;
+    if (w >= 1 && w <= 53) add(m.span, { unit: 'week', ...(y ? { year: y } : {}), make: (yy) => isoWeekWindow(yy, w), which: 'latest', month: 1 });
+  }
+  // Years: 2024, the year 2024, calendar 2024, FY2024 (read as the calendar year)
+  for (const m of text.matches(re(`${B}(?:(?:the\\s+)?(?:calendar\\s+|full\\s+)?year\\s+|fy\\s?|cy\\s?)?(${YEAR})${E}(?![.,]\\d)`))) {
+    const y = Number(m[1]);
+    const before = text.lower.slice(Math.max(0, m.index - 2), m.index);
+    if (/[$€£¥]\s*$|\d[.,]$/.test(before)) continue;
+    const anchorYear = Number(ctx.anchor.slice(0, 4));
+    if (y < anchorYear - 30 || y > anchorYear + 5) continue;
+    add(m.span, { unit: 'year', year: y, make: () => yearWindow(y), which: 'latest', month: 1 });
+  }
+  return longestFirst(found);
+}
+
+/** "may" and "march" name a month only where the words around them say so. */
+function monthContext(text: RequestText, span: Span, qualifier: string | undefined): boolean {
+  if (qualifier) return true;
+  const raw = text.original.slice(span.start, span.end);
+  const before = text.lower.slice(Math.max(0, span.start - 30), span.start);
+  const after = text.lower.slice(span.end, span.end + 20);
+  if (/\b(in|since|from|during|until|till|through|of|for|vs|versus|and|to|between|before|after|by|over|on|than|against|with|end of|start of|beginning of|mid|late|early)\s*$/.test(before)) return true;
+  if (/^\s*(\d|vs|versus|and|to|-|compared|against|,\s*(\w+\s*,\s*)?(and|or)?\s*(jan|feb|apr|jun|jul|aug|sep|oct|nov|dec))/.test(after)) return true;
+  return /^\p{Lu}/u.test(raw) && !/(^|[.!?]\s*)$/.test(text.original.slice(0, span.start).trimEnd().slice(-1));
+}
+
+function longestFirst<T extends Span>(xs: T[]): T[] {
+  const sorted = [...xs].sort((a, b) => b.end - b.start - (a.end - a.start) || a.start - b.start);
+  const kept: T[] = [];
+  for (const x of sorted) if (!kept.some((k) => x.start < k.end && k.start < x.end)) kept.push(x);
+  return kept.sort((a, b) => a.start - b.start);
+}
+
+function resolvePoint(p: Point, ctx: PeriodContext): DateWindow {
+  return p.year !== undefined ? p.make(p.year) : resolveOccurrence(p.make, p.which, ctx.anchor);
+}
+
+const UNIT_WORD: Record<string, PeriodUnit> = {
+  day: 'day',
+  days: 'day',
+  week: 'week',
+  weeks: 'week',
+  wk: 'week',
+  wks: 'week',
+  month: 'month',
+  months: 'month',
+  mo: 'month',
+  mos: 'month',
+  quarter: 'quarter',
+  quarters: 'quarter',
+  qtr: 'quarter',
+  qtrs: 'quarter',
+  year: 'year',
+  years: 'year',
+  yr: 'year',
+  yrs: 'year',
+  half: 'half',
+  season: 'season',
+};
+const UNIT = `(days?|weeks?|wks?|months?|mos?|quarters?|qtrs?|years?|yrs?)`;
+const COUNT = `(\\d{1,3}|${NUMBER_WORD_PATTERN})`;
+
+/** Relative phrases: today, this month, last quarter, the last 6 weeks, year to date, the past 12 months. */
+function findRelative(text: RequestText, ctx: PeriodContext): PeriodMention[] {
+  const out: PeriodMention[] = [];
+  const A = ctx.anchor;
+  const add = (span: Span, m: Omit<PeriodMention, 'start' | 'end' | 'compared' | 'words' | 'relative'>) =>
+    out.push({ ...span, relative: true, compared: false, words: text.quote(span), ...m });
+  const holding = (unit: PeriodUnit) => periodHolding(A, unit, ctx.hemisphere);
+
+  for (const m of text.matches(re(`${B}(?:the\\s+)?(?:day\\s+before\\s+yesterday)${E}`))) add(m.span, { window: dayWindow(addDays(A, -2)), unit: 'day' });
+  for (const m of text.matches(re(`${B}yesterday'?s?${E}`))) add(m.span, { window: dayWindow(addDays(A, -1)), unit: 'day' });
+  for (const m of text.matches(re(`${B}(?:so\\s+far\\s+)?today(?:\\s+so\\s+far)?${E}`))) add(m.span, { window: dayWindow(A), unit: 'day', toLatest: true });
+  // this week / month / quarter / year (/ half): from its start to the latest data
+  for (const m of text.matches(re(`${B}(?:(?:so\\s+far\\s+)?(?:this|the\\s+current|current)\\s+(week|month|quarter|qtr|year|half)(?:\\s+so\\s+far|\\s+to\\s+date)?)${E}`))) {
+    const unit = UNIT_WORD[m[1]!]!;
+    add(m.span, { window: holding(unit), unit, toLatest: true });
+  }
+  // year / month / quarter / week to date
+  for (const m of text.matches(re(`${B}(?:(ytd|mtd|qtd|wtd)|(year|month|quarter|week)[-\\s]to[-\\s]date|(?:so\\s+far\\s+)?(?:in\\s+)?(?:the\\s+)?(year|month|quarter|week)\\s+so\\s+far|so\\s+far\\s+this\\s+(year|month|quarter|week))${E}`))) {
+    const short: Record<string, PeriodUnit> = { ytd: 'year', mtd: 'month', qtd: 'quarter', wtd: 'week' };
+    const unit = m[1] ? short[m[1]]! : UNIT_WORD[(m[2] ?? m[3] ?? m[4])!]!;
+    add(m.span, { window: holding(unit), unit, toLatest: true });
+  }
+  // last / previous week, month, quarter, year, half (whole); last full month
+  for (const m of text.matches(re(`${B}(?:the\\s+)?(last|previous|prior|past|latest)\\s+(?:full\\s+|complete\\s+|whole\\s+|calendar\\s+)?(week|month|quarter|qtr|year|half|weekend)${E}(?!\\s+(?:to\\s+date|so\\s+far))`))) {
+    const word = m[2]!;
+    if (word === 'weekend') {
+      const monday = holding('week').start;
+      add(m.span, { window: { start: addDays(monday, -2), end: monday }, unit: 'span' });
+      continue;
+    }
+    const unit = UNIT_WORD[word]!;
+    // "the past year" / "over the last year" is the twelve months before the current one.
+    if (unit === 'year' && /^(?:the\s+)?(past|last)/.test(m[0]) && /\bthe\s+(past|last)\s+year/.test(m[0])) {
+      const end = holding('month').start;
+      add(m.span, { window: { start: addMonthsClamped(end, -12), end }, unit: 'span' });
+      continue;
+    }
+    if (m[1] === 'latest' && unit !== 'week') {
+      // "the latest full month": the latest whole one the data has, which is last month's.
+      add(m.span, { window: shiftPeriod(holding(unit), unit, 1), unit });
+      continue;
+    }
+    add(m.span, { window: shiftPeriod(holding(unit), unit, 1), unit, previousOf: unit });
+  }
+  // the last N days / weeks / months / quarters / years
+  for (const m of text.matches(re(`${B}(?:(?:over|in|for|during)\\s+)?(?:the\\s+)?(?:last|past|previous|prior|trailing|recent|latest|rolling)\\s+(?:${COUNT}\\s+)?(?:full\\s+|complete\\s+|whole\\s+)?${UNIT}${E}`))) {
+    const n = m[1] ? (numberFromWord(m[1]) ?? Number(m[1])) : undefined;
+    const unit = UNIT_WORD[m[2]!]!;
+    if (n === undefined && !/s$/.test(m[2]!)) continue; // "last month" is handled above
+    const count = n ?? 1;
+    if (count < 1 || count > 400) continue;
+    if (unit === 'day') {
+      add(m.span, { window: { start: addDays(A, -count), end: A }, unit: 'span' });
+    } else {
+      const end = holding(unit).start;
+      add(m.span, { window: { start: shiftPeriod({ start: end, end }, unit, count).start, end }, unit: 'span' });
+    }
+  }
+  // trailing twelve months
+  for (const m of text.matches(re(`${B}(?:ttm|ltm|l12m|trailing\\s+(?:twelve|12)(?:\\s+months)?|rolling\\s+(?:twelve|12)\\s+months|rolling\\s+year|moving\\s+annual\\s+total|mat)${E}`))) {
+    const end = holding('month').start;
+    add(m.span, { window: { start: addMonthsClamped(end, -12), end }, unit: 'span' });
+  }
+  // Named periods from the config's events: fixed dates, not relative to the anchor.
+  for (const ev of ctx.events) {
+    for (const phrase of [ev.name, ...ev.phrases]) {
+      const escaped = phrase.toLowerCase().replace(/[.*+?^${}()|[\]\\]/g, '\\$&').replace(/\s+/g, '\\s+');
+      for (const m of text.matches(re(`${B}(?:the\\s+)?${escaped}${E}`))) out.push({ ...m.span, window: ev.window, unit: 'span', relative: false, compared: false, words: text.quote(m.span) });
+    }
+  }
+  return out;
+}
+
+/** Phrases that shift the window for a comparison: "a year earlier", "same period last year", "month on month". */
+function findShifts(text: RequestText): PeriodMention[] {
+  const out: PeriodMention[] = [];
+  const add = (span: Span, unit: PeriodUnit, n = 1): number =>
+    out.push({ ...span, unit, relative: true, compared: true, shift: { unit, n }, words: text.quote(span) });
+  const sameAsLastYear = [
+    `(?:the\\s+)?(?:same|equivalent|corresponding|comparable)\\s+(?:period|time|months?|weeks?|days?|dates|quarter|stretch|point)\\s+(?:of\\s+|in\\s+)?(?:last|a|the\\s+previous|the\\s+prior|the\\s+year\\s+before|one)\\s*(?:year)?`,
+    `(?:this|the\\s+same)\\s+time\\s+last\\s+year`,
+    `(?:a|one)\\s+year\\s+(?:earlier|ago|before|back|prior)`,
+    `(?:12|twelve)\\s+months\\s+(?:earlier|ago|before)`,
+    `(?:the\\s+)?(?:previous|prior)\\s+year'?s?(?:\\s+(?:same\\s+)?(?:period|figures?|numbers?|levels?))?`,
+    `(?:the\\s+)?year\\s+before`,
+    `last\\s+year'?s\\s+(?:figures?|numbers?|levels?|period|equivalent)`,
+  ];
+  for (const m of text.matches(re(`${B}(?:${sameAsLastYear.join('|')})${E}`))) add(m.span, 'year');
+  // "the December before", "the summer before", "the one before"
+  for (const m of text.matches(re(`${B}the\\s+(?:${MONTH_PATTERN}|spring|summer|autumn|fall|winter|q[1-4]|one|same\\s+\\w+)\\s+(?:before|a\\s+year\\s+(?:before|earlier))${E}`))) add(m.span, 'year');
+  for (const m of text.matches(re(`${B}(?:(?:the\\s+)?(month|week|quarter)\\s*(?:-|\\s)\\s*(?:on|over)\\s*(?:-|\\s)\\s*(?:month|week|quarter)|(mom|wow|qoq))${E}`))) {
+    const unit: PeriodUnit = m[1] ? UNIT_WORD[m[1]]! : ({ mom: 'month', wow: 'week', qoq: 'quarter' } as const)[m[2] as 'mom' | 'wow' | 'qoq'];
+    add(m.span, unit);
+  }
+  for (const m of text.matches(re(`${B}(?:the\\s+)?(?:previous|prior|preceding)\\s+(month|week|quarter|period|day)${E}`))) {
+    const unit = m[1] === 'period' ? 'period' : UNIT_WORD[m[1]!]!;
+    out.push({ ...m.span, unit: unit === 'period' ? 'span' : unit, relative: true, compared: true, shift: { unit, n: 1 }, words: text.quote(m.span) });
+  }
+  for (const m of text.matches(re(`${B}(?:the\\s+)?(month|week|quarter|day)\\s+before${E}`))) add(m.span, UNIT_WORD[m[1]!]!);
+  // "this year against last", "vs the previous": the period before, of the window's own unit.
+  for (const m of text.matches(re(`${B}(?:against|vs\\.?|versus|than|compared\\s+(?:to|with))\\s+(?:the\\s+)?(?:last|previous|prior|preceding)${E}(?!\\s+(?:\\d|${NUMBER_WORD_PATTERN}|day|week|month|quarter|year|half|season|spring|summer|autumn|fall|winter|${MONTH_PATTERN}|q[1-4]|h[12])\\b)`))) {
+    out.push({ ...m.span, unit: 'span', relative: true, compared: true, shift: { unit: 'same', n: 1 }, words: text.quote(m.span) });
+  }
+  return out;
+}
+
+/** Words that put the period after them in the comparison's place. */
+const COMPARED_BEFORE = /(?:\bvs\.?|\bv\.?|\bversus|\bagainst|\bcompared\s+(?:to|with)|\bcompare\w*(?:\s+\S+){0,6}\s+(?:to|with|against)|\brelative\s+to|\bthan|\bbeat(?:s|en)?|\bbeating|\boutperform\w*|\bover|\bon|\bfrom|\bwith|\bagainst|\bto)\s+(?:the\s+|that\s+of\s+|those\s+of\s+|in\s+|for\s+|of\s+)?$/;
+const STRONG_COMPARED_BEFORE = /(?:\bvs\.?|\bv\.?|\bversus|\bagainst|\bcompared\s+(?:to|with)|\bcompare\w*(?:\s+\S+){0,6}\s+(?:to|with|against)|\brelative\s+to|\bthan|\bbeat(?:s|en)?|\bbeating|\boutperform\w*)\s+(?:the\s+|that\s+of\s+|those\s+of\s+|in\s+|for\s+|of\s+)?$/;
+
+/** Every period mention in the text, ranges and "since" folded in, each marked when it is compared against. */
+export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMention[] {
+  const relative = findRelative(text, ctx);
+  const shifts = findShifts(text);
+  const points = findPoints(text, ctx).filter((p) => ![...relative, ...shifts].some((r) => p.start < r.end && r.start < p.end && r.end - r.start >= p.end - p.start));
+  const mentions: PeriodMention[] = [];
+  // Ranges: "from X to Y", "between X and Y", "X to Y", "Jan-Mar 2024".
+  const used = new Set<Point>();
+  for (let i = 0; i + 1 < points.length; i++) {
+    const a = points[i]!;
+    const b = points[i + 1]!;
+    const gap = text.lower.slice(a.end, b.start);
+    const before = text.lower.slice(Math.max(0, a.start - 12), a.start);
+    const between = /\bbetween\s+$/.test(before);
+    const from = /\bfrom\s+$/.test(before);
+    if (!(/^\s*(?:-|to|until|till|through|thru)\s*$/.test(gap) || (between && /^\s*and\s*$/.test(gap)) || (from && /^\s*(?:-|to|until|till|through|thru)\s*$/.test(gap)))) continue;
+    const [wa, wb] = rangeEnds(a, b, ctx);
+    const start = (from || between) ? before.search(/\b(?:from|between)\s+$/) + Math.max(0, a.start - 12) : a.start;
+    mentions.push({ start, end: b.end, window: { start: wa.start, end: wb.end }, unit: 'span', relative: a.year === undefined && b.year === undefined, compared: false, words: text.quote({ start, end: b.end }) });
+    used.add(a);
+    used.add(b);
+    i++;
+  }
+  for (const p of points) {
+    if (used.has(p)) continue;
+    mentions.push({ start: p.start, end: p.end, window: resolvePoint(p, ctx), unit: p.unit, relative: p.year === undefined, compared: false, words: text.quote(p) });
+  }
+  for (const r of [...relative, ...shifts]) {
+    if (mentions.some((m) => r.start < m.end && m.start < r.end)) continue;
+    mentions.push(r);
+  }
+  const chosen = longestFirst(mentions);
+  // "since X", "from X on", "starting X": to the latest data. "until X", "up to X": from the first.
+  for (const m of chosen) {
+    const before = text.lower.slice(Math.max(0, m.start - 24), m.start);
+    const after = text.lower.slice(m.end, m.end + 16);
+    const since = /\b(?:since|from|starting(?:\s+(?:in|from|with))?|beginning(?:\s+(?:in|from|with))?|after|post)\s+(?:the\s+(?:start|beginning)\s+of\s+)?$/.exec(before);
+    if (since && m.window && !m.shift && (/^since|^starting|^beginning|^post|^after/.test(since[0]) || /^\s*(?:on(?:wards?)?|onward)\b/.test(after) || !/^\s*(?:to|until|till|through|-)/.test(after))) {
+      const isAfter = /^after|^post/.test(since[0]);
+      m.window = { start: isAfter ? m.window.end : m.window.start, end: m.window.end };
+      m.toLatest = true;
+      m.unit = 'span';
+      m.start -= since[0].length;
+      m.words = text.quote(m);
+    }
+    const until = /\b(?:until|till|up\s+to|through|thru|before|prior\s+to)\s+(?:the\s+end\s+of\s+)?$/.exec(before);
+    if (until && m.window && !m.shift && !since) {
+      if (/^(?:before|prior)/.test(until[0])) m.window = { start: m.window.start, end: m.window.start };
+      m.fromEarliest = true;
+      m.unit = 'span';
+      m.start -= until[0].length;
+      m.words = text.quote(m);
+    }
+    const preceding = text.lower.slice(Math.max(0, m.start - 60), m.start);
+    // Weak comparison words ("on", "over", "from") count only before a relative phrase ("up on last year").
+    m.strong = STRONG_COMPARED_BEFORE.test(preceding) || /^(?:vs|versus|against|compared|than)/.test(m.words.toLowerCase());
+    m.compared = m.compared || STRONG_COMPARED_BEFORE.test(preceding) || (m.relative && !m.toLatest && COMPARED_BEFORE.test(preceding) && /^(?:last|previous|prior|a\s+year|the\s+(?:previous|prior))/.test(m.words.toLowerCase()));
+  }
+  return chosen;
+}
+
+/** Both ends of a range, a missing year taken from the other end ("Dec to Feb 2024": December 2023). */
+function rangeEnds(a: Point, b: Point, ctx: PeriodContext): [DateWindow, DateWindow] {
+  if (a.year === undefined && b.year !== undefined) {
+    const y = a.month > b.month ? b.year - 1 : b.year;
+    return [a.make(y), b.make(b.year)];
+  }
+  if (b.year === undefined && a.year !== undefined) {
+    const y = b.month < a.month ? a.year + 1 : a.year;
+    return [a.make(a.year), b.make(y)];
+  }
+  if (a.year === undefined && b.year === undefined) {
+    const wb = resolveOccurrence(b.make, 'latest', ctx.anchor);
+    const yb = Number(wb.start.slice(0, 4));
+    return [a.make(a.month > b.month ? yb - 1 : yb), wb];
+  }
+  return [a.make(a.year!), b.make(b.year!)];
+}
+
+export { ORDINAL_PATTERN };

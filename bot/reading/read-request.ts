@@ -1,0 +1,717 @@
+// The one reader: a request's text, the dataset's catalog and facts about its data (what dates
+// it covers, the values of its breakdowns) in; a brief out, every slot with the words it came
+// from. The bot's conversation, `threadcount ask` and `threadcount read` all read through here.
+import type { Coverage } from '../../analysis/coverage.js';
+import { addDays } from '../../analysis/periods.js';
+import type { DateWindow, Grain, RequestKind, SegmentFilter } from '../../analysis/types.js';
+import type { ValueIndex } from '../../analysis/values/value-index.js';
+import type { DatasetConfig, Metric } from '../../config/schema.js';
+import type { AmbiguousValue, Askable, Brief, BriefSlot, Evidence, Question, UnknownTerm } from '../brief.js';
+import { addMonthsClamped, daysBetween, monthWindow, type PeriodUnit, shiftMonths, yearOf } from './calendar.js';
+import { type CatalogEntry, type CatalogHit, findCatalogHits, prepareCatalog, type PreparedCatalog } from './catalog-match.js';
+import { splitClauses, type Clause } from './clauses.js';
+import { findDeadlines } from './deadline.js';
+import { readIntent } from './intent.js';
+import {
+  AUDIENCE_CUES,
+  BREAKDOWN_BEFORE,
+  BREAKDOWN_WH,
+  FREQUENCY,
+  GRAIN_WORDS,
+  type MetricRole,
+  REFINES_PREVIOUS,
+  ROLE_WORDS,
+} from './lexicon.js';
+import { findPeriods, type PeriodContext, type PeriodMention } from './periods.js';
+import { isoDateIn } from './time-zone.js';
+import { overlaps, RequestText, type Span } from './text.js';
+import { findUnknownTerms } from './unknown-words.js';
+import { AUDIENCES, GRAINS } from '../../analysis/types.js';
+
+/** What the reader knows about a dataset's data. */
+export interface DatasetFacts {
+  dataset: DatasetConfig;
+  coverage: Coverage;
+  values?: ValueIndex;
+  /** How the data is stamped, when known: data stamped monthly is complete for its last stamped month. */
+  stamp?: 'daily' | 'weekly' | 'monthly' | 'quarterly' | 'yearly' | 'irregular';
+}
+
+export interface ReadOptions {
+  now: Date;
+  /** The charts' locale: numeric dates are read month first only in en-US. */
+  locale?: string;
+}
+
+/**
+ * How many characters of a request are read. Chat platforms keep a message to a few thousand
+ * characters (Slack advises at most 4,000 in a message's text; Discord allows 2,000), so a longer
+ * request is nearly always a pasted document. The rest is not read, and the thread is told so;
+ * the whole text stays in the brief and in the audit log. Counted in UTF-16 units, as everywhere.
+ */
+export const REQUEST_READ_LIMIT = 4_000;
+
+/** The part of a request that is read: all of it up to the limit, else the start, cut between words. */
+export function readablePart(text: string, limit = REQUEST_READ_LIMIT): string {
+  if (text.length <= limit) return text;
+  let cut = limit;
+  // Never split a UTF-16 surrogate pair (an emoji or other character outside the BMP).
+  if (/[\uD800-\uDBFF]/.test(text[cut - 1]!)) cut--;
+  // Back off to the last space in the final 200 characters, so no word is half read.
+  const space = text.slice(cut - 200, cut).search(/\s\S*$/);
+  if (space >= 0) cut = cut - 200 + space;
+  return text.slice(0, cut);
+}
+
+export function requestWasCut(text: string): boolean {
+  return readablePart(text).length < text.length;
+}
+
+/** The reference "today" relative periods count from, and why. */
+export function anchorOf(today: string, facts: Pick<DatasetFacts, 'coverage' | 'stamp'>): { today: string; why: string; dataEnd: string | null } {
+  const last = facts.coverage.lastDate;
+  if (!last) return { today, why: 'today (the dataset has no rows)', dataEnd: null };
+  // Data stamped once a period covers the whole of its last stamped period.
+  const stampedEnd =
+    facts.stamp === 'monthly' ? addMonthsClamped(last.slice(0, 8) + '01', 1)
+    : facts.stamp === 'quarterly' ? addMonthsClamped(last.slice(0, 8) + '01', 3)
+    : facts.stamp === 'yearly' ? `${yearOf(last) + 1}-01-01`
+    : facts.stamp === 'weekly' ? addDays(last, 7)
+    : addDays(last, 1);
+  if (stampedEnd <= today) {
+    return { today: stampedEnd, why: `the data ends on ${addDays(stampedEnd, -1)}, before today, so relative periods count back from there`, dataEnd: stampedEnd };
+  }
+  return { today, why: 'today', dataEnd: stampedEnd };
+}
+
+interface ReadState {
+  text: RequestText;
+  ds: DatasetConfig;
+  catalog: PreparedCatalog;
+  anchor: string;
+  dataEnd: string | null;
+  periods: PeriodMention[];
+  hits: CatalogHit[];
+  roleHits: { span: Span; role: MetricRole; metrics: string[] }[];
+  evidence: Partial<Record<BriefSlot, Evidence>>;
+}
+
+export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOptions): Brief {
+  const ds = facts.dataset;
+  const text = new RequestText(readablePart(fullText));
+  const today = isoDateIn(opts.now, ds.timezone);
+  const anchor = anchorOf(today, facts);
+  const evidence: Partial<Record<BriefSlot, Evidence>> = {};
+
+  const personalValues = findPersonalValues(text);
+  const deadlines = findDeadlines(text, today);
+  for (const d of deadlines) text.claim(d);
+  const periodCtx: PeriodContext = {
+    anchor: anchor.today,
+    hemisphere: ds.hemisphere ?? 'north',
+    dayFirst: !/-US$/i.test(opts.locale ?? ''),
+    events: (ds.events ?? []).map((e) => ({ name: e.name, phrases: e.synonyms ?? [], window: { start: e.from, end: addDays(e.to, 1) } })),
+  };
+  const periods = findPeriods(text, periodCtx);
+  for (const p of periods) text.claim(p);
+  const catalog = prepareCatalog(ds, facts.values);
+  const hits = findCatalogHits(text, catalog);
+  for (const h of hits) text.claim(h);
+  const roleHits = findRoleWords(text, ds);
+  for (const r of roleHits) text.claim(r.span);
+  const grain = readGrain(text);
+  if (grain) {
+    evidence.grain = { words: grain.words, how: grain.how };
+    for (const s of grain.spans) text.claim(s);
+  }
+  const audience = readAudience(text);
+  if (audience) evidence.audience = { words: audience.words, how: audience.how };
+
+  const state: ReadState = { text, ds, catalog, anchor: anchor.today, dataEnd: anchor.dataEnd, periods, hits, roleHits, evidence };
+  const { questions, ambiguous } = readQuestions(state);
+  const unknownTerms = findUnknownTerms(text, { catalog });
+
+  const personal = unique(hits.flatMap((h) => h.entries.filter((e) => e.kind === 'personal').map((e) => e.name)));
+  const deadline = deadlines.find((d) => d.date !== null);
+  const pastDeadline = deadlines.find((d) => d.date === null && d.past)?.past;
+
+  const brief: Brief = {
+    requestText: fullText,
+    questions,
+    kinds: unique(questions.map((q) => q.kind)),
+    metrics: unique(questions.flatMap((q) => q.metrics)),
+    dimensions: unique(questions.flatMap((q) => q.dimensions)),
+    unknownTerms,
+    anchor: { today: anchor.today, why: anchor.why },
+    evidence,
+  };
+  if (brief.kinds.length === 0) brief.kinds = ['trend'];
+  const group = questions.find((q) => q.comparisonGroup)?.comparisonGroup;
+  if (group) brief.comparisonGroup = group;
+  const windowed = questions.find((q) => q.window);
+  if (windowed?.window) brief.window = windowed.window;
+  if (windowed?.compareWindow) brief.compareWindow = windowed.compareWindow;
+  if (grain) brief.grain = grain.grain;
+  if (audience) brief.audience = audience.audience;
+  if (deadline?.date) {
+    brief.deadline = deadline.date;
+    evidence.deadline = { words: deadline.words, how: 'stated' };
+  }
+  if (pastDeadline) brief.pastDeadline = pastDeadline;
+  if (personal.length > 0) brief.personalData = personal;
+  if (personalValues.length > 0) brief.personalValues = personalValues.map((p) => p.text);
+  if (ambiguous.length > 0) brief.ambiguousValues = ambiguous;
+  const purpose = /\b(?:for|ahead of|before)\s+(?:the|our|my|next|this)\s+([\p{L} ]{2,40}?(?:review|meeting|board|report|update|presentation|offsite|deck|pack))\b/iu.exec(text.original)?.[1];
+  if (purpose) brief.purpose = purpose.trim();
+  recordEvidence(brief, state);
+  brief.toAsk = toAsk(brief);
+  return brief;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Questions
+
+interface ClauseReading {
+  clause: Clause;
+  metrics: string[];
+  metricWords: string[];
+  dimensions: string[];
+  filters: SegmentFilter[];
+  contrast?: { dimension: string; values: string[] };
+  group?: string;
+  periods: PeriodMention[];
+  kind: RequestKind | null;
+  kindWords: string;
+  frequency: boolean;
+  pronoun: boolean;
+  refines: boolean;
+  launchDate?: string;
+  launchWords?: string;
+  rankLimit?: number;
+  rateUnit?: 'year' | 'decade';
+  perDay: boolean;
+  table: boolean;
+}
+
+function readQuestions(st: ReadState): { questions: Question[]; ambiguous: AmbiguousValue[] } {
+  const clauses = splitClauses(st.text);
+  const questions: Question[] = [];
+  const ambiguous: AmbiguousValue[] = [];
+  // Context clauses ("Looking at 2024.") lend their period and filters to the next question.
+  let pending: ClauseReading | null = null;
+  for (const clause of clauses) {
+    const r = readClause(clause, st, ambiguous);
+    const previous = questions[questions.length - 1];
+    const hasContent = r.metrics.length > 0 || r.kind !== null || r.frequency || r.group !== undefined || r.table;
+    if (previous && (r.refines || (!hasContent && (r.dimensions.length > 0 || r.filters.length > 0 || r.periods.length > 0)) || (r.metrics.length > 0 && r.kind === null && !r.group && r.dimensions.length === 0 && /^\s*(?:and|also|plus|as well as|with)\b|\b(?:too|as well)\s*$/i.test(r.clause.text)))) {
+      mergeInto(previous, r, st);
+      continue;
+    }
+    if (!hasContent) {
+      if (r.periods.length > 0 || r.filters.length > 0 || r.dimensions.length > 0) pending = pending ? { ...r, periods: [...pending.periods, ...r.periods], filters: [...pending.filters, ...r.filters], dimensions: [...pending.dimensions, ...r.dimensions] } : r;
+      continue;
+    }
+    const q = toQuestion(r, st, previous, pending);
+    pending = null;
+    questions.push(q);
+  }
+  // Nothing read as a question (no metric, no cue): the whole request is one, for the card to complete.
+  if (questions.length === 0 && clauses.length > 0) {
+    const whole: Clause = { start: clauses[0]!.start, end: clauses[clauses.length - 1]!.end, text: st.text.original.trim(), asked: true };
+    questions.push(toQuestion(pending ? { ...pending, clause: whole, kind: null } : readClause(whole, st, ambiguous), st, undefined, null));
+  }
+  return { questions, ambiguous };
+}
+
+function mergeInto(q: Question, r: ClauseReading, st: ReadState): void {
+  q.metrics = unique([...q.metrics, ...r.metrics]);
+  q.dimensions = unique([...q.dimensions, ...r.dimensions]);
+  q.filters = mergeFilters(q.filters, r.filters);
+  if (r.group && !q.comparisonGroup) q.comparisonGroup = r.group;
+  if (!q.window && r.periods.length > 0) Object.assign(q, windowsOf(r.periods, st, r.clause));
+  if (r.contrast && !q.contrast) q.contrast = r.contrast;
+}
+
+function toQuestion(r: ClauseReading, st: ReadState, previous: Question | undefined, pending: ClauseReading | null): Question {
+  const ds = st.ds;
+  let metrics = r.metrics;
+  let fromPrevious = false;
+  if (metrics.length === 0 && previous && (r.pronoun || !r.frequency)) {
+    // "how has that moved", "is it up": the previous question's metric.
+    if (r.pronoun || previous.metrics.length > 0) {
+      metrics = r.pronoun || !r.group ? previous.metrics : [];
+      fromPrevious = metrics.length > 0;
+    }
+  }
+  if (r.frequency && metrics.length === 0) {
+    const count = rowCountMetric(ds);
+    if (count) metrics = [count.name];
+  }
+  const periods = r.periods.length > 0 ? r.periods : (pending?.periods ?? []);
+  const windows = periods.length > 0 ? windowsOf(periods, st, r.clause) : {};
+  const kind = r.kind ?? (windows.compareWindow ? 'growth' : 'trend');
+  const q: Question = {
+    text: withoutPreamble(r.clause.text),
+    kind,
+    metrics,
+    dimensions: unique([...r.dimensions, ...(pending?.dimensions ?? [])]),
+    filters: mergeFilters(r.filters, pending?.filters ?? []),
+    frequency: r.frequency,
+    ...windows,
+  };
+  if (fromPrevious) q.metricsFromPrevious = true;
+  if (r.group) q.comparisonGroup = r.group;
+  if (r.launchDate) q.launchDate = r.launchDate;
+  if (r.contrast) q.contrast = r.contrast;
+  if (r.rankLimit) q.rankLimit = r.rankLimit;
+  if (r.rateUnit) q.rateUnit = r.rateUnit;
+  if (r.perDay) q.perDay = true;
+  if (r.table) q.table = true;
+  // A launch the text refers to ("since it launched") is the group's catalog launch date.
+  if (!q.launchDate && refersToLaunch(r.clause.text)) {
+    const g = ds.comparison_groups.find((x) => x.name === q.comparisonGroup) ?? (ds.comparison_groups.filter((x) => x.launch_date).length === 1 ? ds.comparison_groups.find((x) => x.launch_date) : undefined);
+    if (g?.launch_date) {
+      q.launchDate = g.launch_date;
+      if (!q.comparisonGroup && kind === 'performance') q.comparisonGroup = g.name;
+      if (/\bsince\b|\bafter\b|\bpost[- ]/.test(r.clause.text.toLowerCase()) && !q.window && !/\bbefore\b/.test(r.clause.text.toLowerCase())) {
+        q.window = { start: g.launch_date, end: st.dataEnd ?? addDays(st.anchor, 0) };
+      }
+    }
+  }
+  return q;
+}
+
+function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]): ClauseReading {
+  const inside = (s: Span) => s.start >= clause.start && s.end <= clause.end;
+  const hits = st.hits.filter(inside);
+  const lower = st.text.lower;
+  const t = clause.text.toLowerCase();
+  const metrics: string[] = [];
+  const metricWords: string[] = [];
+  const dimensions: string[] = [];
+  const valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[] = [];
+  let group: string | undefined;
+
+  for (const h of hits) {
+    const kinds = new Set(h.entries.map((e) => e.kind));
+    if (kinds.has('personal')) continue;
+    if (kinds.has('group')) {
+      group ??= h.entries.find((e) => e.kind === 'group')!.name;
+      continue;
+    }
+    if (kinds.has('metric')) {
+      metrics.push(h.entries.find((e) => e.kind === 'metric')!.name);
+      metricWords.push(st.text.quote(h));
+      continue;
+    }
+    if (kinds.has('dimension')) {
+      const dim = h.entries.find((e) => e.kind === 'dimension')!.name;
+      // A dimension's own noun beside one of its values names the value ("the app channel"), not a breakdown.
+      const neighbourValue = hits.some((o) => o !== h && o.entries.some((e) => e.kind === 'value' && e.name === dim) && nearGap(o, h, lower) <= 2);
+      const before = lower.slice(Math.max(0, h.start - 40), h.start);
+      const askedFor = BREAKDOWN_BEFORE.test(before) || BREAKDOWN_WH.test(before);
+      if ((askedFor || !neighbourValue) && !isGroupColumn(st.ds, dim)) dimensions.push(dim);
+      continue;
+    }
+    const values = h.entries.filter((e) => e.kind === 'value');
+    if (values.length > 0) valueHits.push({ hit: h, entries: values });
+  }
+  // "revenue per passenger": the ratio metric of the two, when the catalog has it.
+  composeRatios(metrics, hits, st, clause);
+
+  const { filters, contrast } = readValues(valueHits, hits, st, clause, ambiguous);
+  const dims = unique(dimensions);
+
+  // Ordinary business words ("takings", "how many") when no catalog metric is named.
+  if (metrics.length === 0) {
+    for (const r of st.roleHits.filter((x) => inside(x.span))) {
+      if (r.metrics.length === 1) {
+        metrics.push(r.metrics[0]!);
+        metricWords.push(st.text.quote(r.span));
+      }
+    }
+  }
+
+  const periods = st.periods.filter(inside);
+  const launch = statedLaunch(periods, st.text);
+  const kept = launch ? periods.filter((p) => p !== launch.mention || /\bsince\b/.test(p.words.toLowerCase())) : periods;
+  const windows = kept.length > 0 ? windowsOf(kept, st, clause) : {};
+  const intent = readIntent(clause.text, {
+    namesGroup: group !== undefined,
+    refersToLaunch: launch !== undefined || refersToLaunch(clause.text),
+    comparesPeriods: windows.compareWindow !== undefined,
+    contrastsValues: contrast !== undefined,
+    ...(windows.window ? { window: windows.window, windowUnit: kept[0]?.unit } : {}),
+    anchor: st.anchor,
+  });
+  const top = /\b(?:top|bottom|best|worst|biggest|largest|smallest)\s+(\d{1,2}|three|five|ten)\b/.exec(t);
+  const rate = /\bper\s+(decade|year|annum)\b|\b(?:a|each)\s+(decade|year)\b(?=.{0,30}$)/.exec(t);
+  const hasRateCue = rate && /\bhow\s+(?:fast|quickly|much)|\brate\b|\bper\s+decade\b|\ba\s+decade\b|\brising|\bfalling|\bincreas|\bdecreas|\bgrow|\bchang/.test(t);
+  const reading: ClauseReading = {
+    clause,
+    metrics: unique(metrics),
+    metricWords,
+    dimensions: dims,
+    filters,
+    periods: kept,
+    kind: intent.kind,
+    kindWords: intent.words,
+    frequency: FREQUENCY.test(clause.text) && (group !== undefined || /\bcustomers?\b|\busers?\b|\bmembers?\b|\bclients?\b|\bpeople\b/.test(t)),
+    pronoun: /\b(?:it|that|this|they|them|those|these|same)\b/.test(t.replace(/\bthis\s+(?:year|month|week|quarter|summer|winter|spring|autumn|season|time)\b/g, '')) && metrics.length === 0,
+    refines: REFINES_PREVIOUS.test(clause.text) && metrics.length === 0 && !group,
+    perDay: /\b(?:per|a|each)\s+day\b|\bdaily\s+(?:average|rate|mean)\b|\bper-day\b/.test(t) && GRAINS.some((g) => g !== 'day' && new RegExp(`\\b(?:${GRAIN_WORDS[g].adjective}|by ${g}|per ${g}|each ${g}|${g} by ${g})\\b`).test(t)),
+    table: /\b(?:the\s+)?(?:numbers|figures|kpis|metrics|stats)\s+(?:by|per|for each|each)\s+(?:month|week|quarter|day|year)\b|\bside\s+by\s+side\b|\b(?:as\s+a|in\s+a|one)\s+table\b|\bmonthly\s+table\b|\btable\s+of\b/.test(t),
+  };
+  if (group) reading.group = group;
+  if (contrast) reading.contrast = contrast;
+  if (launch) {
+    reading.launchDate = launch.date;
+    reading.launchWords = launch.words;
+  }
+  if (top) reading.rankLimit = /^\d+$/.test(top[1]!) ? Number(top[1]) : { three: 3, five: 5, ten: 10 }[top[1] as 'three' | 'five' | 'ten'];
+  if (rate && hasRateCue) reading.rateUnit = (rate[1] ?? rate[2]) === 'decade' ? 'decade' : 'year';
+  return reading;
+}
+
+function nearGap(a: Span, b: Span, lower: string): number {
+  const gap = a.end <= b.start ? lower.slice(a.end, b.start) : lower.slice(b.end, a.start);
+  if (/[.;!?]/.test(gap)) return 99;
+  return gap.trim().split(/\s+/).filter((w) => w.length > 0 && !/^(?:the|a|an|of|:|-)$/.test(w)).length;
+}
+
+function isGroupColumn(ds: DatasetConfig, dim: string): boolean {
+  const column = ds.dimensions.find((d) => d.name === dim)?.column;
+  return ds.comparison_groups.some((g) => g.column === column);
+}
+
+/** "A per B" names the ratio metric of A and B, or the average of A's column when B is the row count. */
+function composeRatios(metrics: string[], hits: CatalogHit[], st: ReadState, clause: Clause): void {
+  const metricHits = hits.filter((h) => h.entries.some((e) => e.kind === 'metric'));
+  for (let i = 0; i + 1 < metricHits.length; i++) {
+    const a = metricHits[i]!;
+    const b = metricHits[i + 1]!;
+    if (!/^\s*(?:per|for each|a|each|by)\s+$/.test(st.text.lower.slice(a.end, b.start))) continue;
+    const [na, nb] = [a.entries.find((e) => e.kind === 'metric')!.name, b.entries.find((e) => e.kind === 'metric')!.name];
+    const ratio = st.ds.metrics.find((m) => m.definition.type === 'ratio' && m.definition.numerator === na && m.definition.denominator === nb);
+    const ma = st.ds.metrics.find((m) => m.name === na)!;
+    const mb = st.ds.metrics.find((m) => m.name === nb)!;
+    const average = ma.definition.type === 'sum' && mb.definition.type === 'count' && !('where' in mb.definition && mb.definition.where)
+      ? st.ds.metrics.find((m) => m.definition.type === 'average' && m.definition.column === (ma.definition as { column: string }).column && !m.definition.where)
+      : undefined;
+    const replacement = ratio ?? average;
+    if (!replacement) continue;
+    const ia = metrics.indexOf(na);
+    if (ia >= 0) metrics.splice(ia, 1, replacement.name);
+    const ib = metrics.lastIndexOf(nb);
+    if (ib >= 0 && ib !== ia) metrics.splice(ib, 1);
+    void clause;
+  }
+}
+
+/** Values named in a clause become filters, two of one breakdown set against each other a contrast. */
+function readValues(valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[], hits: CatalogHit[], st: ReadState, clause: Clause, ambiguous: AmbiguousValue[]): { filters: SegmentFilter[]; contrast?: { dimension: string; values: string[] } } {
+  const lower = st.text.lower;
+  const chosen: { dimension: string; value: string; exclude: boolean; hit: CatalogHit }[] = [];
+  for (const { hit, entries } of valueHits) {
+    const before = lower.slice(Math.max(0, hit.start - 30), hit.start);
+    const after = lower.slice(hit.end, hit.end + 30);
+    const strong = entries.filter((e) => !e.weak);
+    const cueBeside =
+      /\b(?:only|just|excluding|except|without|exclude|via|through|on|in|from|at|for|vs\.?|versus|than|and|or|to)\s+(?:the\s+)?$/.test(before) ||
+      hits.some((o) => o !== hit && o.entries.some((e) => e.kind === 'metric' || (e.kind === 'dimension' && entries.some((v) => v.name === e.name))) && nearGap(o, hit, lower) <= 1) ||
+      /^\s*(?:vs\.?|versus|v|than|and|or|compared)\b/.test(after);
+    const usable = entries.filter((e) => !e.weak || cueBeside);
+    if (usable.length === 0) continue;
+    // Candidates narrowed by a breakdown named beside the value ("the Saltreach route").
+    const namedDims = hits.filter((o) => o.entries.some((e) => e.kind === 'dimension') && nearGap(o, hit, lower) <= 2).flatMap((o) => o.entries.map((e) => e.name));
+    let candidates = namedDims.length > 0 ? usable.filter((e) => namedDims.includes(e.name)) : usable;
+    if (candidates.length === 0) candidates = usable;
+    const distinct = uniqueBy(candidates, (e) => `${e.name}\u0000${e.value}`);
+    const exclude = /\b(?:excluding|except|without|exclude|other than|apart from|not|ex)\s+(?:the\s+)?$/.test(before);
+    const plural = /s$/.test(hit.words[hit.words.length - 1]!.norm) || /\bboth\b|\ball\b/.test(before);
+    const dims = unique(distinct.map((e) => e.name));
+    if (distinct.length === 1 || (dims.length === 1 && plural && distinct.every((e) => e.partial))) {
+      for (const e of distinct) chosen.push({ dimension: e.name, value: e.value!, exclude, hit });
+    } else if (strong.length > 0 || cueBeside) {
+      const text = st.text.quote(hit);
+      if (!ambiguous.some((a) => a.text === text)) ambiguous.push({ text, candidates: distinct.map((e) => ({ dimension: e.name, value: e.value! })) });
+    }
+  }
+  const filters: SegmentFilter[] = [];
+  for (const c of chosen) {
+    const f = filters.find((x) => x.dimension === c.dimension && !!x.exclude === c.exclude);
+    if (f) {
+      if (!f.values.includes(c.value)) f.values.push(c.value);
+    } else filters.push({ dimension: c.dimension, values: [c.value], ...(c.exclude ? { exclude: true } : {}) });
+  }
+  // Two values of one breakdown joined by a comparison word are set against each other.
+  let contrast: { dimension: string; values: string[] } | undefined;
+  for (let i = 0; i + 1 < chosen.length; i++) {
+    const a = chosen[i]!;
+    const b = chosen[i + 1]!;
+    if (a.dimension !== b.dimension || a.exclude || b.exclude) continue;
+    const gap = lower.slice(a.hit.end, b.hit.start);
+    if (/\b(?:vs\.?|versus|v|than|against|compared\s+(?:to|with)|or|beat\w*|outperform\w*|outsell\w*|overtake\w*|overtook)\b/.test(gap) || (/\band\b/.test(gap) && /\bcompar\w*|\bdifferen\w*|\bbetween\b|\bfaster|\bslower|\bbetter|\bworse|\bmore\b|\bless\b/.test(clause.text.toLowerCase()))) {
+      contrast = { dimension: a.dimension, values: unique([a.value, b.value]) };
+      break;
+    }
+  }
+  return contrast ? { filters, contrast } : { filters };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Periods of a question
+
+/** The question's window and the window it is compared with, like for like. */
+function windowsOf(periods: PeriodMention[], st: ReadState, clause: Clause): { window?: DateWindow; compareWindow?: DateWindow; windowSoFar?: boolean } {
+  const t = clause.text.toLowerCase();
+  const plain = periods.filter((p) => p.window && !p.compared && !p.shift);
+  const comparing = /\bcompar\w*|\bvs\.?\b|\bversus\b|\bagainst\b|\bbeat\w*|\bthan\b|\bdifferen\w*|\bchanged?\s+(?:between|from)\b/.test(t);
+  // Over a stretch of several periods ("2023 and 2024"), "growth on the year before" asks for each
+  // period's change, not for a second window.
+  const stretch = plain.length >= 2 && !comparing;
+  const compared = periods.filter((p) => (p.compared || p.shift) && !(stretch && p.shift && !p.strong));
+  let main = plain[0];
+  let other = compared[0];
+  if (!other && plain.length >= 2 && comparing) other = { ...plain[1]!, compared: true };
+  let window: DateWindow | undefined;
+  if (main?.window) {
+    // Two plain periods and no comparison: the stretch that covers both ("for 2023 and 2024").
+    const spanEnd = !other && plain.length >= 2 ? plain.reduce((e, p) => (p.window!.end > e ? p.window!.end : e), main.window.end) : main.window.end;
+    window = { start: main.window.start, end: main.toLatest ? (st.dataEnd ?? spanEnd) : spanEnd };
+  } else if (other && !other.shift?.unit.match(/^(?:month|week|quarter|day)$/)) {
+    // A comparison with no window of its own ("is revenue up on last year?"): the year to date.
+    const unit: PeriodUnit = other.shift?.unit === 'period' ? 'month' : other.shift?.unit === 'same' ? 'year' : ((other.shift?.unit as PeriodUnit | undefined) ?? (other.unit === 'span' ? 'year' : (other.unit as PeriodUnit)));
+    const start = unit === 'year' || unit === 'half' || unit === 'season' ? `${yearOf(st.anchor)}-01-01` : monthWindow(yearOf(st.anchor), Number(st.anchor.slice(5, 7))).start;
+    window = { start, end: st.dataEnd ?? st.anchor };
+    main = { ...other, window, unit: 'span', compared: false, relative: true, toLatest: true };
+  } else if (other?.shift) {
+    // "month on month" alone asks for a series of changes, not two windows.
+    return {};
+  }
+  if (!window) return {};
+  const clipped = clip(window, st);
+  const so = clipped.end < window.end ? { windowSoFar: true } : {};
+  if (!other) return { window: clipped, ...so };
+  const compareWindow = compareOf(clipped, main!, other, st);
+  return compareWindow ? { window: clipped, compareWindow, ...so } : { window: clipped, ...so };
+}
+
+function clip(w: DateWindow, st: ReadState): DateWindow {
+  return st.dataEnd && w.end > st.dataEnd && w.start < st.dataEnd ? { start: w.start, end: st.dataEnd } : w;
+}
+
+/** The compared window, like for like: the same length and the same place in the calendar. */
+function compareOf(window: DateWindow, main: PeriodMention, other: PeriodMention, st: ReadState): DateWindow | undefined {
+  if (other.shift) {
+    const n = other.shift.n;
+    const unit = other.shift.unit === 'same' ? (main.unit === 'span' ? 'year' : main.unit) : other.shift.unit;
+    if (unit === 'period') {
+      const days = daysBetween(window.start, window.end);
+      return { start: addDays(window.start, -days), end: window.start };
+    }
+    const months = { year: 12, half: 6, quarter: 3, season: 12, month: 1, week: 0, day: 0 }[unit];
+    if (months > 0) return shiftMonths(window, -months * n);
+    const days = unit === 'week' ? 7 * n : n;
+    return { start: addDays(window.start, -days), end: addDays(window.end, -days) };
+  }
+  const raw = other.window!;
+  const mainRaw = main.window!;
+  const sameUnit = other.unit === main.unit && other.unit !== 'span';
+  const coarser = other.unit === 'year' && main.unit !== 'year' && main.unit !== 'span';
+  const relativeLast = other.relative && /^(?:last|previous|prior|the\s+previous|the\s+prior|a\s+year)/i.test(other.words);
+  if (sameUnit || coarser || (relativeLast && other.unit === 'year')) {
+    if (other.unit === 'day' || other.unit === 'week') {
+      const days = daysBetween(raw.start, mainRaw.start);
+      return { start: addDays(window.start, -days), end: addDays(window.end, -days) };
+    }
+    const months = coarser || (relativeLast && other.unit === 'year') ? 12 * (yearOf(mainRaw.start) - yearOf(raw.start)) : monthsBetween(raw.start, mainRaw.start);
+    if (months <= 0) return clip(raw, st);
+    return shiftMonths(window, -months);
+  }
+  return clip(raw, st);
+}
+
+function monthsBetween(a: string, b: string): number {
+  return (yearOf(b) - yearOf(a)) * 12 + (Number(b.slice(5, 7)) - Number(a.slice(5, 7)));
+}
+
+/** "it launched on 9 Jan 2023", "since the price change on 1 May": the date a before/after turns on. */
+function statedLaunch(periods: PeriodMention[], text: RequestText): { date: string; words: string; mention: PeriodMention } | undefined {
+  for (const p of periods) {
+    if (!p.window || (p.unit !== 'day' && p.unit !== 'month' && p.unit !== 'week' && p.unit !== 'span')) continue;
+    const before = text.lower.slice(Math.max(0, p.start - 60), p.start);
+    const after = text.lower.slice(p.end, p.end + 30);
+    if (/\b(?:launch\w*|start\w*|began|begun|went\s+live|go(?:es)?\s+live|introduc\w*|rolled\s+out|roll-?out|kicked\s+off|came\s+in|switch\w*|chang\w+|new\s+\w+\s+(?:from|on|since)|effective|took\s+effect|live\s+(?:from|since|on))\b[^.;!?]{0,40}$/.test(before) || /^\s*(?:launch|go-live|rollout|roll-out|switch|change)\b/.test(after)) {
+      const start = p.unit === 'span' && /\bsince\b/.test(p.words.toLowerCase()) ? p.window.start : p.window.start;
+      return { date: start, words: text.quote(p), mention: p };
+    }
+  }
+  return undefined;
+}
+
+function refersToLaunch(text: string): boolean {
+  return /\b(?:since|after|before|post|pre)[- ](?:it|we|they|the\s+\w+)?\s*(?:launch\w*|went live|started|rolled out|introduc\w+)\b|\bsince (?:the )?launch\b|\bpost-launch\b|\bpre-launch\b|\bbefore and after\b|\blaunch\b/i.test(text);
+}
+
+// ---------------------------------------------------------------------------------------------
+// Grain, audience, business words, personal values
+
+function readGrain(text: RequestText): { grain: Grain; words: string; how: 'stated' | 'inferred'; spans: Span[] } | undefined {
+  const found: { grain: Grain; span: Span; how: 'stated' | 'inferred' }[] = [];
+  for (const g of GRAINS) {
+    const w = GRAIN_WORDS[g];
+    const extra = w.extra.filter((x) => !/^(?:wow|mom|qoq|dod)$/.test(x)).map((x) => x.replace(/[-\s]+/g, '[-\\s]+'));
+    const stated = new RegExp(`(?<![\\p{L}])(?:${[w.adjective, ...extra].join('|')}|(?:by|per|each|every|for\\s+each|broken\\s+down\\s+by|split\\s+by)\\s+(?:the\\s+)?(?:calendar\\s+)?${w.noun})(?![\\p{L}])`, 'gu');
+    for (const m of text.matches(stated)) {
+      // "per day" beside another grain is a per-day rate ("bookings per day by month"), not the grain.
+      if (g === 'day' && /^(?:per|a|each)\s/.test(m[0])) continue;
+      // "per year" in "how fast ... per year", "each year" after "busiest months": a rate or a season, not a grain.
+      if (g === 'year' && /^(?:per|each|every)\s/.test(m[0]) && /\b(?:how\s+(?:fast|quickly|much)|rate|rising|falling|growing|grow|busiest|quietest|peak|every\s+year|each\s+year)\b/.test(text.lower) && !/\bby\s+year\b/.test(text.lower)) continue;
+      found.push({ grain: g, span: m.span, how: 'stated' });
+    }
+    const inferred = new RegExp(`(?<![\\p{L}])(?:(?:busiest|quietest|best|worst|peak|strongest|weakest|slowest|biggest)\\s+${w.plural}|which\\s+${w.noun}s?|what\\s+${w.noun}s?)(?![\\p{L}])`, 'gu');
+    for (const m of text.matches(inferred)) found.push({ grain: g, span: m.span, how: 'inferred' });
+  }
+  const perDayAlone = [...text.matches(/(?<![\p{L}])(?:per|a|each)\s+day(?![\p{L}])/gu)];
+  if (found.length === 0 && perDayAlone.length > 0) found.push({ grain: 'day', span: perDayAlone[0]!.span, how: 'stated' });
+  if (found.length === 0) return undefined;
+  found.sort((a, b) => (a.how === b.how ? a.span.start - b.span.start : a.how === 'stated' ? -1 : 1));
+  const first = found[0]!;
+  return { grain: first.grain, words: text.quote(first.span), how: first.how, spans: found.filter((f) => f.grain === first.grain).map((f) => f.span) };
+}
+
+function readAudience(text: RequestText): { audience: (typeof AUDIENCES)[number]; words: string; how: 'stated' | 'inferred' } | undefined {
+  for (const a of ['leadership', 'analysts', 'managers'] as const) {
+    const m = AUDIENCE_CUES[a].exec(text.lower);
+    if (!m) continue;
+    const stated = /leader|board|exec|ceo|cfo|coo|director|manager|analyst|senior/.test(m[0]);
+    return { audience: a, words: text.quote({ start: m.index, end: m.index + m[0].length }), how: stated ? 'stated' : 'inferred' };
+  }
+  return undefined;
+}
+
+/** Ordinary words for the main kinds of metric ("takings", "how many"), when exactly one metric fits. */
+function findRoleWords(text: RequestText, ds: DatasetConfig): { span: Span; role: MetricRole; metrics: string[] }[] {
+  const out: { span: Span; role: MetricRole; metrics: string[] }[] = [];
+  for (const { role, pattern } of ROLE_WORDS) {
+    for (const m of text.matches(new RegExp(pattern.source, 'g'))) {
+      if (text.isClaimed(m.span) || out.some((o) => overlaps(o.span, m.span))) continue;
+      // "how many customers": the catalog's word after it decides, not the role.
+      if (role === 'count' && /how many|number of|no\.? of|count of/.test(m[0])) {
+        const next = text.wordAt(m.span.end);
+        if (next && text.isClaimed(next)) continue;
+      }
+      out.push({ span: m.span, role, metrics: metricsForRole(ds, role) });
+    }
+  }
+  return out;
+}
+
+export function metricsForRole(ds: DatasetConfig, role: MetricRole): string[] {
+  const plain = (m: Metric) => !('where' in m.definition && m.definition.where);
+  const pick = (ms: Metric[]) => {
+    const preferred = ms.filter((m) => m.higher_is_better && plain(m));
+    return (preferred.length > 0 ? preferred : ms).map((m) => m.name);
+  };
+  switch (role) {
+    case 'amount':
+      return pick(ds.metrics.filter((m) => m.definition.type === 'sum' && m.unit === 'currency'));
+    case 'count':
+      return pick(ds.metrics.filter((m) => m.definition.type === 'count'));
+    case 'distinct':
+      return pick(ds.metrics.filter((m) => m.definition.type === 'distinct_count'));
+    case 'average_amount':
+      return pick(ds.metrics.filter((m) => m.definition.type === 'average' && m.unit === 'currency'));
+  }
+}
+
+export function rowCountMetric(ds: DatasetConfig): Metric | undefined {
+  return ds.metrics.find((m) => m.definition.type === 'count' && !('where' in m.definition && m.definition.where));
+}
+
+/** Text that looks like a person's email address, phone number or id: refused as a filter. */
+function findPersonalValues(text: RequestText): { text: string; span: Span }[] {
+  const out: { text: string; span: Span }[] = [];
+  const patterns = [
+    /[\p{L}\p{N}._%+-]+@[\p{L}\p{N}-]+(?:\.[\p{L}\p{N}-]+)*/gu,
+    /(?<![\p{N}-])(?:\+\d{1,3}[\s-]?)?(?:\(0?\d{1,4}\)|0\d{1,4})[\s-]?\d{3,4}[\s-]?\d{3,4}(?![\p{N}-])/gu,
+    /\+\d{1,3}[\s-]?\d{2,4}[\s-]?\d{3,4}[\s-]?\d{3,4}/gu,
+    /\b(?:customer|user|member|client|passenger|account|person|patient|subscriber|caller|requester|employee)\s*(?:id|#|no\.?|number|ref)?\s*[:#]?\s*(?=[a-z-]{0,4}\d)[a-z]{0,4}[-_]?\d{3,}\b/gu,
+  ];
+  for (const re of patterns) {
+    for (const m of text.matches(re)) {
+      if (out.some((o) => overlaps(o.span, m.span))) continue;
+      out.push({ text: text.quote(m.span), span: m.span });
+      text.claim(m.span);
+    }
+  }
+  return out;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Evidence and what to ask
+
+function recordEvidence(brief: Brief, st: ReadState): void {
+  const ev = st.evidence;
+  const q = brief.questions;
+  ev.dataset = { words: '', how: 'inferred', value: st.ds.name, reason: 'the dataset this channel uses' };
+  if (q.length > 0) ev.kinds = { words: q.map((x) => x.text).join(' | '), how: 'inferred' };
+  const metricWords = q.filter((x) => x.metrics.length > 0).map((x) => x.metrics.join(', '));
+  if (brief.metrics.length > 0) ev.metrics = { words: metricWords.join('; '), how: 'stated' };
+  if (brief.dimensions.length > 0) ev.dimensions = { words: brief.dimensions.join(', '), how: 'stated' };
+  const filters = q.flatMap((x) => x.filters);
+  if (filters.length > 0) ev.filters = { words: filters.map((f) => f.values.join(', ')).join('; '), how: 'stated' };
+  if (brief.comparisonGroup) ev.comparisonGroup = { words: brief.comparisonGroup, how: 'stated' };
+  const launched = q.find((x) => x.launchDate);
+  if (launched?.launchDate) ev.launchDate = { words: launched.launchDate, how: st.periods.some((p) => p.window?.start === launched.launchDate && /launch|start|live|introduc|roll/.test(st.text.lower.slice(Math.max(0, p.start - 60), p.start))) ? 'stated' : 'inferred' };
+  const windowed = st.periods.find((p) => p.window && !p.compared && !p.shift);
+  if (brief.window) ev.window = { words: windowed?.words ?? '', how: windowed ? 'stated' : 'inferred' };
+  const compared = st.periods.find((p) => p.compared || p.shift);
+  if (brief.compareWindow) ev.compareWindow = { words: compared?.words ?? '', how: compared ? 'stated' : 'inferred' };
+}
+
+function toAsk(brief: Brief): Askable[] {
+  const ask = new Set<Askable>();
+  if (brief.questions.length === 0 || brief.questions.every((q) => q.metrics.length === 0 && !q.frequency)) ask.add('metrics');
+  for (const u of brief.unknownTerms) {
+    if (u.role === 'metric') ask.add('metrics');
+    if (u.role === 'dimension') ask.add('dimensions');
+    if (u.role === 'value') ask.add('values');
+  }
+  if ((brief.ambiguousValues ?? []).length > 0) ask.add('values');
+  return [...ask];
+}
+
+// ---------------------------------------------------------------------------------------------
+
+/** "Could the data team tell us whether X" -> "X": the question without its polite wrapping. */
+function withoutPreamble(clause: string): string {
+  const stripped = clause
+    .replace(/^(?:hi|hello|hey|dear)\b[^,]*,\s*/i, '')
+    .replace(/^(?:(?:could|can|would|will)\s+(?:you|someone|the data team|the team|we)\s+(?:please\s+)?(?:tell|show|let)\s+(?:us|me)\s+(?:know\s+)?)?(?:whether|if)\s+/i, '')
+    .replace(/^(?:and|also|plus)\s+/i, '');
+  return stripped.length > 0 ? stripped : clause;
+}
+
+function mergeFilters(a: SegmentFilter[], b: SegmentFilter[]): SegmentFilter[] {
+  const out = a.map((f) => ({ ...f, values: [...f.values] }));
+  for (const f of b) {
+    const same = out.find((x) => x.dimension === f.dimension && !!x.exclude === !!f.exclude);
+    if (!same) {
+      out.push({ ...f, values: [...f.values] });
+      continue;
+    }
+    for (const v of f.values) if (!same.values.includes(v)) same.values.push(v);
+  }
+  return out;
+}
+
+function unique<T>(xs: T[]): T[] {
+  return [...new Set(xs)];
+}
+
+function uniqueBy<T>(xs: T[], key: (x: T) => string): T[] {
+  const seen = new Set<string>();
+  return xs.filter((x) => (seen.has(key(x)) ? false : (seen.add(key(x)), true)));
+}
