@@ -4,11 +4,11 @@ import type { ComparisonGroup, DatasetConfig } from '../config/schema.js';
 import { firstBreakdownDimension, isAdditive, isBreakdownDimension, metricByName, plainCountMetric } from '../analysis/catalog.js';
 import type { Coverage } from '../analysis/coverage.js';
 import { SUB_QUESTIONS, type TemplateName } from '../analysis/sub-questions/registry.js';
-import { GRAINS, type DateWindow, type Grain, type Lens, type RequestKind, type SubQuestion } from '../analysis/types.js';
+import { type DateWindow, type Grain, type Lens, type RequestKind, type SubQuestion } from '../analysis/types.js';
 import type { Brief, Question } from './brief.js';
 import { fullWindow } from './reading/answers.js';
 import { AGREE, CANCEL, grainNamedBy } from './reading/lexicon.js';
-import { describeWindow } from './reading/window-words.js';
+import { describeWindow } from '../analysis/window-words.js';
 
 export interface Plan {
   items: SubQuestion[];

@@ -3,7 +3,6 @@
 import type { DatasetConfig } from '../config/schema.js';
 import { formatPeriod } from '../analysis/format.js';
 import { describeSubQuestion } from '../analysis/sub-questions/describe.js';
-import type { SubQuestion } from '../analysis/types.js';
 import type { Brief } from './brief.js';
 import { readablePart, requestWasCut } from './reading/read-request.js';
 import type { Plan } from './plan.js';

@@ -2,6 +2,7 @@
 // shows: the metric's definition, the period, the grain and filters; the source, the data's
 // date and the caveat flags.
 import { filterSubtitleParts } from '../captions/scope-words.js';
+import { grainAdjective } from '../grains.js';
 import type { Metric } from '../../config/schema.js';
 import { caveatFlag, caveatNote } from '../captions/caveat-text.js';
 import { formatPeriod } from '../format.js';
@@ -9,10 +10,9 @@ import { addDays } from '../periods.js';
 import { buildLine } from '../charts/build-line.js';
 import type { LineSpec } from '../charts/spec.js';
 import { valueFormatOf } from '../format.js';
-import type { Answer, Finding, Grain, PeriodPoint } from '../types.js';
+import type { Answer, Finding, PeriodPoint } from '../types.js';
 import type { PresentContext } from './presenter.js';
 
-const GRAIN_ADJECTIVE: Record<Grain, string> = { day: 'daily', week: 'weekly', month: 'monthly', quarter: 'quarterly', year: 'yearly' };
 
 export function metricDefinition(metric: Metric): string {
   return metric.description ?? metric.definition.type.replace('_', ' ');
@@ -23,7 +23,7 @@ export function chartSubtitle(answer: Answer, metric: Metric, ctx: PresentContex
   const from = formatPeriod(sq.window.start, 'day', ctx.locale);
   const to = formatPeriod(addDays(sq.window.end, -1), 'day', ctx.locale);
   const parts = [`${metric.label}: ${metricDefinition(metric)}`, `${from} to ${to}`];
-  if (opts.grain !== false) parts.push(GRAIN_ADJECTIVE[sq.grain]);
+  if (opts.grain !== false) parts.push(grainAdjective(sq.grain));
   parts.push(...filterSubtitleParts(sq.filters, ctx.dataset));
   return parts.join(' · ');
 }

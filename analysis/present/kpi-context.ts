@@ -1,16 +1,16 @@
 // Presenter for "kpi_context": the history as a line (the builder marks its high and low) and a
 // caption stating where the latest complete period sits in it.
+import { grainAdjective } from '../grains.js';
 import { buildLine } from '../charts/build-line.js';
 import { kpiContextWords } from '../captions/kpi-context-caption.js';
 import { periodName } from '../captions/kpi-words.js';
 import { metricByName } from '../catalog.js';
 import type { KpiContextFinding } from '../findings/kpi.js';
 import { valueFormatOf } from '../format.js';
-import type { Finding, Grain } from '../types.js';
+import type { Finding } from '../types.js';
 import { caveatNotes } from './header.js';
 import { findingOf, kpiHeader, kpiNotes, kpiSubtitle } from './kpi-header.js';
 
-const GRAIN_ADJECTIVE: Record<Grain, string> = { day: 'daily', week: 'weekly', month: 'monthly', quarter: 'quarterly', year: 'yearly' };
 import type { Presenter } from './presenter.js';
 
 export const presentKpiContext: Presenter = (answer, ctx) => {
@@ -23,7 +23,7 @@ export const presentKpiContext: Presenter = (answer, ctx) => {
     return { title, caption: `There is no complete ${sq.grain} of ${metric.label.toLowerCase()} in the period asked for.`, notes: kpiNotes(answer, ctx, []), chart: null, takeaway: null };
   }
   const words = kpiContextWords(f, metric, ctx.dataset, ctx.audience, ctx.locale);
-  const what = `${periodName(f.firstPeriod, f.grain, ctx.locale)} to ${periodName(f.period, f.grain, ctx.locale)}, ${GRAIN_ADJECTIVE[f.grain]}; latest complete: ${periodName(f.period, f.grain, ctx.locale)}`;
+  const what = `${periodName(f.firstPeriod, f.grain, ctx.locale)} to ${periodName(f.period, f.grain, ctx.locale)}, ${grainAdjective(f.grain)}; latest complete: ${periodName(f.period, f.grain, ctx.locale)}`;
   const chart = buildLine({
     ...kpiHeader(answer, words.title, kpiSubtitle(answer, metric, ctx, what), ctx),
     seriesLabel: metric.label,

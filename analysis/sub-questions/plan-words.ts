@@ -2,8 +2,10 @@
 // each sub-question's description is one sentence over them.
 import type { DatasetConfig } from '../../config/schema.js';
 import { formatPeriod } from '../format.js';
+import { grainAdjective } from '../grains.js';
 import { addDays, addMonths } from '../periods.js';
-import type { Grain, SubQuestion } from '../types.js';
+import type { SubQuestion } from '../types.js';
+import { describeWindow } from '../window-words.js';
 
 export interface PlanWords {
   /** The metric labels, lower case, as a list: "revenue", "revenue and bookings", "revenue, bookings and average fare". */
@@ -20,7 +22,6 @@ export interface PlanWords {
   groupLabel: string;
 }
 
-const GRAIN_ADJECTIVE: Record<Grain, string> = { day: 'daily', week: 'weekly', month: 'monthly', quarter: 'quarterly', year: 'yearly' };
 
 export function planWords(sq: SubQuestion, ds: DatasetConfig, locale: string): PlanWords {
   const label = (m: string) => ds.metrics.find((x) => x.name === m)?.label ?? m;
@@ -28,11 +29,18 @@ export function planWords(sq: SubQuestion, ds: DatasetConfig, locale: string): P
   return {
     metric: listJoin(sq.metrics.map(label)).toLowerCase(),
     dim: (sq.dimension ? ds.dimensions.find((d) => d.name === sq.dimension)?.label ?? sq.dimension : '').toLowerCase(),
-    span: `${formatPeriod(sq.window.start, 'month', locale, 'long')} to ${formatPeriod(addDays(sq.window.end, -1), 'month', locale, 'long')}`,
-    grain: GRAIN_ADJECTIVE[sq.grain],
+    span: spanWords(sq, locale),
+    grain: grainAdjective(sq.grain),
     vs: group ? `${group.members_label.toLowerCase()} vs ${group.others_label.toLowerCase()}` : '',
     groupLabel: group?.label ?? '',
   };
+}
+
+/** Whole months read as months ("January 2022 to June 2025"); anything else as its days ("1 June to 18 June 2025"). */
+function spanWords(sq: SubQuestion, locale: string): string {
+  const w = sq.window;
+  if (w.start.endsWith('-01') && w.end.endsWith('-01')) return `${formatPeriod(w.start, 'month', locale, 'long')} to ${formatPeriod(addDays(w.end, -1), 'month', locale, 'long')}`;
+  return describeWindow(w, { firstDate: null, lastDate: null, rows: 0 }, locale);
 }
 
 import { capitalise, listJoin } from '../captions/grammar.js';

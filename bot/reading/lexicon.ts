@@ -2,7 +2,10 @@
 // terms. Every reader (a request, an answer to a question, a correction to the brief card, a
 // plan edit) looks words up here, so a phrase that works in one works in all. Data terms come
 // from each dataset's catalog and values, never from here.
+import { GRAIN_WORDS } from '../../analysis/grains.js';
 import { AUDIENCES, type Audience, GRAINS, type Grain } from '../../analysis/types.js';
+
+export { GRAIN_WORDS } from '../../analysis/grains.js';
 
 // ---- calendar words ----
 
@@ -57,15 +60,6 @@ export function weekdayNumber(word: string): number | undefined {
 }
 
 // ---- grains ----
-
-/** How a grain is written when read: "monthly", "by month", "per month", "month by month", "each month". */
-export const GRAIN_WORDS: Record<Grain, { adjective: string; noun: string; plural: string; extra: string[] }> = {
-  day: { adjective: 'daily', noun: 'day', plural: 'days', extra: ['day by day', 'day-by-day', 'day on day', 'dod'] },
-  week: { adjective: 'weekly', noun: 'week', plural: 'weeks', extra: ['week by week', 'week-by-week', 'week on week', 'week-on-week', 'week over week', 'wow', 'wk'] },
-  month: { adjective: 'monthly', noun: 'month', plural: 'months', extra: ['month by month', 'month-by-month', 'month on month', 'month-on-month', 'month over month', 'mom', 'monthwise'] },
-  quarter: { adjective: 'quarterly', noun: 'quarter', plural: 'quarters', extra: ['quarter by quarter', 'quarter-by-quarter', 'quarter on quarter', 'quarter-on-quarter', 'qoq', 'qtr', 'qtrly'] },
-  year: { adjective: 'yearly', noun: 'year', plural: 'years', extra: ['annual', 'annually', 'year by year', 'year-by-year', 'per annum'] },
-};
 
 /** The grain a standalone answer names ("weekly", "by month", "quarters", "q"), if any. */
 export function grainNamedBy(text: string): Grain | undefined {

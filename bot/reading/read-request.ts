@@ -6,7 +6,7 @@ import { addDays } from '../../analysis/periods.js';
 import type { DateWindow, Grain, RequestKind, SegmentFilter } from '../../analysis/types.js';
 import type { ValueIndex } from '../../analysis/values/value-index.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
-import type { AmbiguousValue, Askable, Brief, BriefSlot, Evidence, Question, UnknownTerm } from '../brief.js';
+import type { AmbiguousValue, Askable, Brief, BriefSlot, Evidence, Question } from '../brief.js';
 import { addMonthsClamped, daysBetween, monthWindow, type PeriodUnit, shiftMonths, yearOf } from './calendar.js';
 import { type CatalogEntry, type CatalogHit, findCatalogHits, prepareCatalog, type PreparedCatalog } from './catalog-match.js';
 import { splitClauses, type Clause } from './clauses.js';

@@ -1,8 +1,8 @@
 // A window said back in plain words: "1 June to 18 June 2025 (the data ends there)", so the
 // requester can see how a period phrase was read.
-import type { Coverage } from '../../analysis/coverage.js';
-import { addDays } from '../../analysis/periods.js';
-import type { DateWindow } from '../../analysis/types.js';
+import type { Coverage } from './coverage.js';
+import { addDays } from './periods.js';
+import type { DateWindow } from './types.js';
 
 const formats = new Map<string, Intl.DateTimeFormat>();
 
