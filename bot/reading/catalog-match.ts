@@ -34,6 +34,8 @@ export interface CatalogHit extends Span {
 
 interface Prepared {
   words: string[];
+  /** The phrase's words before stemming, to tell "takings" (a noun) from "taking" (a verb). */
+  raw: string[];
   target: string;
   edits: number;
   entries: CatalogEntry[];
@@ -58,8 +60,17 @@ export function allowedEdits(length: number): number {
   return length >= 9 ? 2 : length >= 5 ? 1 : 0;
 }
 
+// Words a measure's name uses interchangeably: "urgent rate" is the catalog's "urgent share".
+const SAME_WORD: Record<string, string> = {
+  rate: 'share', percentage: 'share', percent: 'share', proportion: 'share', ratio: 'share', fraction: 'share', pct: 'share',
+  avg: 'average', mean: 'average', typical: 'average',
+  num: 'number', count: 'number',
+};
+
 /** Plural and singular read alike: "routes" and "route", "categories" and "category". */
 export function stem(word: string): string {
+  const same = SAME_WORD[word];
+  if (same) return same;
   if (word.length > 4 && word.endsWith('ies')) return `${word.slice(0, -3)}y`;
   if (word.length > 4 && /(?:ses|xes|ches|shes)$/.test(word)) return word.slice(0, -2);
   if (word.length > 3 && word.endsWith('s') && !word.endsWith('ss') && !word.endsWith('us')) return word.slice(0, -1);
@@ -84,7 +95,7 @@ export function prepareCatalog(ds: DatasetConfig, values?: ValueIndex): Prepared
     const target = words.join(' ');
     let bucket = byLength.get(words.length);
     if (!bucket) byLength.set(words.length, (bucket = new Map()));
-    const p = bucket.get(target) ?? { words, target, edits: allowedEdits(target.length), entries: [] };
+    const p = bucket.get(target) ?? { words, raw: phraseWords(e.phrase), target, edits: allowedEdits(target.length), entries: [] };
     if (!p.entries.some((x) => x.kind === e.kind && x.name === e.name && x.value === e.value)) p.entries.push(e);
     bucket.set(target, p);
   }
@@ -159,7 +170,12 @@ export function findCatalogHits(text: RequestText, catalog: PreparedCatalog, opt
     const ws = words.slice(i, i + n);
     hits.push({ start: ws[0]!.start, end: ws[ws.length - 1]!.end, entries, words: ws, exact });
   };
-  for (const exactPass of options.typos === false ? [true] : [true, false]) {
+  // "taking bookings away" is not "takings": a bare -ing word stands for an -ings noun only after
+  // "per", "a", "each", "the"... ("revenue per booking").
+  const verbForNoun = (i: number, p: Prepared) =>
+    p.raw.some((r, k) => r.endsWith('ings') && words[i + k]!.norm.endsWith('ing') && !/^(?:per|a|an|each|every|one|the|our|their|its|by|average|avg|first|last|single)$/.test(words[i + k - 1]?.norm ?? ''));
+  for (const pass of options.typos === false ? (['exact'] as const) : (['exact', 'typo', 'family'] as const)) {
+    const exactPass = pass === 'exact';
     for (const n of catalog.lengths) {
       const bucket = catalog.byLength.get(n)!;
       for (let i = 0; i + n <= words.length; i++) {
@@ -169,17 +185,31 @@ export function findCatalogHits(text: RequestText, catalog: PreparedCatalog, opt
         const window = stems.slice(i, i + n).join(' ');
         if (exactPass) {
           const p = bucket.get(window);
-          if (p) take(i, n, p.entries, true);
+          if (p && !verbForNoun(i, p)) take(i, n, p.entries, true);
           continue;
         }
         // Typos only in words that are not everyday words themselves ("tips" is not "trips").
         if (stems.slice(i, i + n).every((w) => EVERYDAY.has(w) || /^\d+$/.test(w))) continue;
-        const p = closestWithin(window, bucket);
+        const p = pass === 'typo' ? closestWithin(window, bucket) : n === 1 ? sameFamily(window, bucket) : undefined;
+        // "taking" is not a typo of "takings": a plural noun of its own.
+        if (p && p.raw.some((r) => r.endsWith('ings')) && window.split(' ').some((w) => w.endsWith('ing'))) continue;
         if (p) take(i, n, p.entries, false);
       }
     }
   }
   return hits.sort((a, b) => a.start - b.start);
+}
+
+/** A long word of the same family as a one-word name: "satisfied" and "satisfaction", "cancelled" and "cancellations". */
+function sameFamily(word: string, bucket: Map<string, Prepared>): Prepared | undefined {
+  if (word.length < 8) return undefined;
+  for (const p of bucket.values()) {
+    if (p.target.length < 8 || p.target.includes(' ')) continue;
+    let shared = 0;
+    while (shared < word.length && word[shared] === p.target[shared]) shared++;
+    if (shared >= 6 && shared >= Math.min(word.length, p.target.length) - 6) return p;
+  }
+  return undefined;
 }
 
 function closestWithin(window: string, bucket: Map<string, Prepared>): Prepared | undefined {

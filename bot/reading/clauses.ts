@@ -30,7 +30,8 @@ export function splitClauses(text: RequestText): Clause[] {
     const body = s.slice(sentence.start, sentence.end);
     const asked = /\?\s*$/.test(body);
     let offset = 0;
-    const joins = new RegExp(QUESTION_JOINS.source, 'gi');
+    // Enumerated asks ("(1) …, (2) …", "(a) …") are questions of their own too.
+    const joins = new RegExp(`${QUESTION_JOINS.source}|,?\\s*(?:and\\s+)?\\((?:\\d|[a-e]|i{1,3}|iv)\\)\\s*|,?\\s+(?:first(?:ly)?|second(?:ly)?|third(?:ly)?),\\s+`, 'gi');
     for (const m of body.matchAll(joins)) {
       push(clauses, s, sentence.start + offset, sentence.start + m.index, asked);
       offset = m.index + m[0].length;

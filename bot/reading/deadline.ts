@@ -19,18 +19,19 @@ const B = `(?<![\\p{L}\\p{N}])`;
 const E = `(?![\\p{L}\\p{N}])`;
 
 const CUE = `(?:by|before|due(?:\\s+(?:by|on))?|until|till|no\\s+later\\s+than|in\\s+time\\s+for|ahead\\s+of|for|need(?:ed)?\\s+(?:it|this|these|them|that|the\\s+\\w+)?\\s*(?:by|for|on)?|deadline(?:\\s+is)?:?|latest)`;
-const MEETING = `(?:review|meeting|board|call|session|presentation|offsite|off-site|sync|catch-?up|standup|stand-up|huddle|deadline|committee|update|readout|deck|report)`;
+const MEETING = `(?:review|meeting|board|call|session|presentation|offsite|off-site|sync|catch-?up|standup|stand-up|huddle|deadline|committee|update|readout|deck|report|briefing|brief|pack|all-hands|town\\s+hall|debrief|retro|workshop|1:1|one-to-one|check-in)`;
 const DAY_OF_MONTH = `(?:the\\s+)?(\\d{1,2})(?:st|nd|rd|th)(?![\\p{L}])`;
 const DAY_MONTH = `(\\d{1,2})(?:st|nd|rd|th)?(?:\\s+of)?\\s+(${MONTH_PATTERN})\\.?(?:,?\\s+((?:19|20)\\d{2}))?`;
 const MONTH_DAY = `(${MONTH_PATTERN})\\.?\\s+(\\d{1,2})(?:st|nd|rd|th)?(?:,?\\s+((?:19|20)\\d{2}))?`;
 const ISO = `((?:19|20)\\d{2})-(\\d{2})-(\\d{2})`;
+const NUMERIC = `(\\d{1,2})/(\\d{1,2})(?:/(\\d{4}|\\d{2}))?(?![\\p{N}/])`;
 const WEEKDAY = `(?:(this|next|coming|the\\s+coming)\\s+)?(${WEEKDAY_PATTERN})(?:'s)?(?![\\p{L}])`;
 const END_OF = `(?:the\\s+)?end\\s+of\\s+(?:the\\s+|this\\s+|next\\s+)?(day|week|month|quarter|year)|eod|cob|close\\s+of\\s+(?:business|play)|eow|eom|eoq|eoy`;
 const IN_N = `(?:in|within)\\s+(?:the\\s+next\\s+)?(\\d{1,2}|${NUMBER_WORD_PATTERN}|a|an)\\s+(days?|weeks?|business\\s+days?|working\\s+days?)`;
 
 const re = (s: string) => new RegExp(s, 'gu');
 
-export function findDeadlines(text: RequestText, today: string): DeadlineMention[] {
+export function findDeadlines(text: RequestText, today: string, dayFirst = true): DeadlineMention[] {
   const found: DeadlineMention[] = [];
   const add = (span: Span, date: string | null, past?: string) => {
     if (found.some((f) => f.start < span.end && span.start < f.end)) return;
@@ -43,26 +44,35 @@ export function findDeadlines(text: RequestText, today: string): DeadlineMention
   };
 
   // As soon as possible.
-  for (const m of text.matches(re(`${B}(?:asap|a\\.s\\.a\\.p\\.?|as\\s+soon\\s+as\\s+(?:possible|you\\s+can|poss)|urgent(?:ly)?|right\\s+away|immediately|straight\\s+away|by\\s+today|today\\s+(?:please|if\\s+(?:possible|you\\s+can))|(?:need(?:ed)?|want(?:ed)?)\\s+(?:it|this|these|them|that)?\\s*today|(?:by\\s+)?(?:eod|cob|end\\s+of\\s+(?:the\\s+)?day|close\\s+of\\s+(?:business|play))(?:\\s+today)?|today'?s\\s+${MEETING})${E}`))) {
+  // "end of day tomorrow", "tomorrow EOD", "by tomorrow": tomorrow.
+  for (const m of text.matches(re(`${B}(?:(?:by\\s+)?(?:eod|cob|end\\s+of\\s+(?:the\\s+)?day|close\\s+of\\s+(?:business|play)|first\\s+thing|lunchtime|noon)\\s+tomorrow|tomorrow\\s+(?:eod|cob|morning|afternoon|first\\s+thing|at\\s+the\\s+latest))${E}`))) {
+    add(m.span, addDays(today, 1));
+  }
+  for (const m of text.matches(re(`${B}(?:asap|a\\.s\\.a\\.p\\.?|as\\s+soon\\s+as\\s+(?:possible|you\\s+can|poss)|urgently|(?:it'?s|is|this\\s+is|bit|quite|very|fairly|pretty|rather)\\s+urgent|urgent(?=\\s*(?:[!.,;:]|$|please|request|ask|one|pls))|right\\s+away|immediately|straight\\s+away|by\\s+today|today\\s+(?:please|if\\s+(?:possible|you\\s+can)|really|ideally|at\\s+the\\s+latest)|so\\s+today|(?:need(?:ed)?|want(?:ed)?)\\s+(?:it|this|these|them|that)?\\s*(?:for\\s+)?today|(?:by\\s+)?(?:eod|cob|end\\s+of\\s+(?:the\\s+)?day|close\\s+of\\s+(?:business|play))(?:\\s+today)?|today'?s\\s+(?:\\w+\\s+){0,2}${MEETING})${E}`))) {
     add(m.span, today);
   }
   // "by Friday", "before the 15th", "for Thursday's board", "due 15 Dec", "deadline: 2026-12-15"
-  const cued = `${B}(?:${CUE})\\s+(?:(?:our|the|my|next|this)\\s+\\w+\\s+(?:on|is)\\s+)?(?:${WEEKDAY}|${DAY_OF_MONTH}|${DAY_MONTH}|${MONTH_DAY}|${ISO}|tomorrow|(${END_OF})|next\\s+week|${IN_N})`;
+  const cued = `${B}(?:${CUE})\\s+(?:(?:our|the|my|next|this)\\s+\\w+\\s+(?:on|is)\\s+)?(?:${WEEKDAY}|${DAY_OF_MONTH}|${DAY_MONTH}|${MONTH_DAY}|${ISO}|${NUMERIC}|tomorrow|(${END_OF})|${IN_N})`;
   for (const m of text.matches(re(cued))) {
-    const iso = dateOf(m, 1, today);
+    const iso = dateOf(m, 1, today, dayFirst);
     // A past date after "for", "before" or "until" names a period of the data, not a deadline.
     if (iso && iso < today && !/^(?:by|due|deadline|need)/.test(m[0].toLowerCase())) continue;
     dateOrPast(m.span, iso);
   }
   // "review is on the 15th", "the board meets on Thursday", "meeting on 15 Dec"
-  const meeting = `${B}${MEETING}s?\\s+(?:is|are|will\\s+be|meets?|happens|takes\\s+place)?\\s*(?:on|this|next|at)?\\s*(?:the\\s+)?(?:${WEEKDAY}|${DAY_OF_MONTH}|${DAY_MONTH}|${MONTH_DAY}|${ISO}|tomorrow)${E}`;
+  const meeting = `${B}${MEETING}s?\\s+(?:is|are|will\\s+be|meets?|happens|takes\\s+place|closes|opens|starts|runs|goes\\s+out|is\\s+due)?\\s*(?:on|this|next|at|by)?\\s*(?:the\\s+)?(?:${WEEKDAY}|${DAY_OF_MONTH}|${DAY_MONTH}|${MONTH_DAY}|${ISO}|${NUMERIC}|tomorrow)${E}`;
   for (const m of text.matches(re(meeting))) {
-    const iso = dateOf(m, 1, today);
+    const iso = dateOf(m, 1, today, dayFirst);
     if (iso && iso >= today) add(m.span, iso);
   }
   // "Thursday's board meeting", "tomorrow's review"
-  for (const m of text.matches(re(`${B}(?:(this|next)\\s+)?(${WEEKDAY_PATTERN}|tomorrow)'?s\\s+(?:\\w+\\s+){0,2}${MEETING}${E}`))) {
+  for (const m of text.matches(re(`${B}(?:(this|next)\\s+)?(${WEEKDAY_PATTERN}|tomorrow)(?:'?s)?\\s+(?:[\\p{L}']+\\s+){0,2}${MEETING}${E}`))) {
     dateOrPast(m.span, m[2] === 'tomorrow' ? addDays(today, 1) : weekdayDate(m[2]!, m[1], today));
+  }
+  // "end of the week would be great", "No rush, end of the month is fine": on their own too.
+  for (const m of text.matches(re(`${B}(?:${END_OF})${E}(?!\\s+(?:figures?|numbers?|totals?|balance|position|stock|snapshot))`))) {
+    if (/\bof\s+(?:the\s+)?(?:month|quarter|year)\s*$/.test(text.lower.slice(Math.max(0, m.index - 12), m.index))) continue;
+    dateOrPast(m.span, endOfPeriod(m[0].toLowerCase(), today));
   }
   // "in two weeks", "within 3 days", on their own
   for (const m of text.matches(re(`${B}(?:need(?:ed)?\\s+(?:it|this)?\\s*)?${IN_N}${E}`))) dateOrPast(m.span, inN(m[1]!, m[2]!, today));
@@ -70,18 +80,24 @@ export function findDeadlines(text: RequestText, today: string): DeadlineMention
 }
 
 /** Reads the date groups of a cued match (weekday, day of month, day month, month day, ISO, tomorrow, end of, next week, in N). */
-function dateOf(m: RegExpExecArray, g: number, today: string): string | null {
-  const [which, weekday, dom, dmDay, dmMonth, dmYear, mdMonth, mdDay, mdYear, isoY, isoM, isoD, endOf, _endUnit, inCount, inUnit] = m.slice(g, g + 16);
+function dateOf(m: RegExpExecArray, g: number, today: string, dayFirst: boolean): string | null {
+  const [which, weekday, dom, dmDay, dmMonth, dmYear, mdMonth, mdDay, mdYear, isoY, isoM, isoD, numA, numB, numYear, endOf, _endUnit, inCount, inUnit] = m.slice(g, g + 19);
   const whole = m[0].toLowerCase();
   if (weekday) return weekdayDate(weekday, which, today);
   if (dom) return nextDayOfMonth(Number(dom), today);
   if (dmDay && dmMonth) return dayMonth(Number(dmDay), monthNumber(dmMonth)!, dmYear, today);
   if (mdMonth && mdDay) return dayMonth(Number(mdDay), monthNumber(mdMonth)!, mdYear, today);
   if (isoY && isoM && isoD) return isValidDate(Number(isoY), Number(isoM), Number(isoD)) ? ymd(Number(isoY), Number(isoM), Number(isoD)) : null;
+  if (numA && numB) {
+    // 12/13 is read month first (en-US) or day first as the locale writes dates, unless a part over 12 settles it.
+    const [a, b] = [Number(numA), Number(numB)];
+    const [day, month] = a > 12 ? [a, b] : b > 12 ? [b, a] : dayFirst ? [a, b] : [b, a];
+    if (month < 1 || month > 12) return null;
+    return dayMonth(day, month, numYear ? String(numYear.length === 2 ? 2000 + Number(numYear) : Number(numYear)) : undefined, today);
+  }
   if (endOf !== undefined || /\b(?:eod|cob|eow|eom|eoq|eoy)\b/.test(whole)) return endOfPeriod(whole, today);
   if (inCount && inUnit) return inN(inCount, inUnit, today);
   if (/\btomorrow\b/.test(whole)) return addDays(today, 1);
-  if (/\bnext\s+week\b/.test(whole)) return addDays(today, 8 - isoWeekday(today));
   return null;
 }
 

@@ -77,9 +77,9 @@ export function grainNamedBy(text: string): Grain | undefined {
 
 export const AUDIENCE_CUES: Record<Audience, RegExp> = {
   leadership:
-    /\b(leadership|leaders|the board|board (?:meeting|pack|paper|deck|update|members?|report)|for (?:the )?board|board-level|exec(?:s|utives?|utive team)?|(?:the )?c-suite|c-level|ceo|cfo|coo|cmo|cto|md|managing director|directors?|senior (?:management|leadership|team|leaders)|slt|elt|top team|management team|investors?|shareholders?|chair(?:man|woman|person)?|trustees)\b/i,
+    /\b((?:vp|svp|evp|head|chief)\s+of\s+(?:[a-z]+\s?){1,3}|vps?|svp|evp|leadership|leaders|the board|board (?:meeting|pack|paper|deck|update|members?|report)|for (?:the )?board|board-level|exec(?:s|utives?|utive team)?|(?:the )?c-suite|c-level|ceo|cfo|coo|cmo|cto|md|managing director|directors?|senior (?:management|leadership|team|leaders)|slt|elt|top team|management team|investors?|shareholders?|chair(?:man|woman|person)?|trustees)\b/i,
   managers:
-    /\b(managers?|manager's|my team|our team|the team meeting|team meeting|team review|heads? of|(?:ops|operations|finance|sales|marketing|commercial|product|support|customer|service|regional|station|store|site|weekly|monthly|quarterly|business|performance)\s+(?:review|meeting|sync|huddle|standup|stand-up|catch-?up|call|update)|line managers?|supervisors?|team leads?|my boss|for my manager)\b/i,
+    /\b(managers?|manager's|my team|our team|(?:from|for) the (?:growth|marketing|sales|ops|operations|finance|product|commercial|customer success|cs|support|service|insights|strategy|revenue|people|hr) team|team leads?|support leads|leads meeting|the team meeting|team meeting|team review|heads? of(?: the)?(?: [a-z]+)?|(?:ops|operations|finance|sales|marketing|commercial|product|support|customer|service|regional|station|store|site|weekly|monthly|quarterly|business|performance)\s+(?:review|meeting|sync|huddle|standup|stand-up|catch-?up|call|update)|line managers?|supervisors?|team leads?|my boss|for my manager)\b/i,
   analysts:
     /\b(analysts?|analyst team|technical (?:detail|audience|appendix|readers?)|(?:with|include|show)(?: the)? (?:p-?values?|confidence intervals?|test statistics|methodology|stats detail)|p-?values?|statistically rigorous|deep[- ]dive|for the data (?:folks|people)|data scientists?)\b/i,
 };
@@ -117,23 +117,21 @@ export const KIND_CUES = {
     /\b(?:more|less|fewer) (?:often|frequently)\b|\bhow often\b|\btravel more\b|\bbook more\b|\bspend more\b|\bspend less\b/,
   ],
   kpi: [
-    /\bwhere (?:does|do|did|is|are) .{0,60}\bstand\b|\bstand(?:s|ing)? (?:at|right now|today|currently)\b|\bwhere we stand\b|\bwhere (?:are|is) .{1,40} (?:now|at)\b/,
-    /\bhow(?:'s|'re| is| are| did| was| were| has| have) .{0,30}\b(?:go|going|gone|look(?:ing)?|do(?:ing)?|shap\w+ up|perform(?:ing)?)\b(?=.{0,40}(?:last|this|yesterday|today|in (?:jan|feb|mar|apr|may|jun|jul|aug|sep|oct|nov|dec)|q[1-4]))/,
+    /\bwhat(?:'s|s|\s+is|\s+are)\b.{0,40}\blooking\s+like\b|\bwhere (?:does|do|did|is|are) .{0,60}\bst(?:an|oo)d\b|\bst(?:and|ood)(?:s|ing)? (?:at|right now|today|currently)\b|\bwhere we stand\b|\bwhere (?:are|is) .{1,40} (?:now|at)\b|\bhow are we doing\b|\bwhere .{0,40}\bstood\b/,
     /\bhow did (?:jan|feb|mar|apr|may|jun|jul|aug|sep|oct|nov|dec|q[1-4]|h[12]|last|this|yesterday)\w* (?:go|look|turn out|land)\b/,
-    /\b(?:current(?:ly)?|right now|at the moment|as of (?:now|today)|latest|snapshot|kpis?|headline (?:number|figure)s?|scorecard|month[- ]end|quarter[- ]end|flash (?:report|numbers?))\b/,
-    /\bwhat (?:is|are|was|were|'s) (?:our |the )?.{0,40}\b(?:last|this|yesterday|today|so far)\b/,
+    /\b(?:current(?:ly)?|right now|at the moment|as of (?:now|today)|latest(?! full| complete)(?<!at the latest)|snapshot|kpis?|headline (?:number|figure)s?|scorecard|month[- ]end|quarter[- ]end|flash (?:report|numbers?)|so far this month|month[- ]to[- ]date|mtd)\b/,
   ],
   growth: [
     /\bgr[eo]w(?:s|n|ing|th)?\b|\bdeclin\w*|\bincreas\w*|\bdecreas\w*|\bshr[iu]nk\w*|\bcontract\w*|\bexpand\w*/,
     /\b(?:up|down) (?:or|and) (?:down|up)\b|\b(?:up|down) on\b|\bup from\b|\bdown from\b|\b(?:is|are|was|were|'s|'re)\b(?:\s+\S+){0,5}\s+(?:up|down)\b(?=\s*(?:$|[?.!,]|on\b|from\b|vs\b|versus\b|compared\b|this\b|last\b|since\b|year\b|again\b|at all\b))|\b(?:rise|rising|rose|risen|fall|falling|fell|fallen|drop\w*|dip\w*|jump\w*|surg\w*|climb\w*|slump\w*|plummet\w*|soar\w*|spike\w*|slid\w*|slip\w*|recover\w*|bounce\w* back|rebound\w*)\b/,
     /\b(?:faster|slower|quicker|more quickly|more slowly|accelerat\w*|decelerat\w*|slow(?:ed|ing)? down|speed(?:ing)? up|momentum)\b/,
     /\bbeat(?:s|en)?\b|\bbeating\b|\bbetter or worse\b|\b(?:better|worse) than\b|\b(?:more|less|higher|lower|bigger|smaller) than (?:last|the (?:previous|prior|same)|a year)\b/,
-    /\byear[- ](?:on|over)[- ]year\b|\byoy\b|\by\/y\b|\bcagr\b|\bgrowth rate\b|\brate of (?:change|growth|increase|decline)\b|\bhow (?:fast|quickly|much) .{0,40}\b(?:chang|rising|rose|grow|fall|increas|decreas|declin|climb)\w*|\bper (?:decade|year|annum)\b.{0,20}$/,
-    /\bchang(?:e|ed|es|ing)\b|\bcompare\w*\b|\bvs\.?\b|\bversus\b|\bagainst\b/,
+    /\byear[- ](?:on|over)[- ]year\b|\byoy\b|\by\/y\b|\bcagr\b|\bgrowth rate\b|\brate of (?:change|growth|increase|decline)\b|\bhow (?:fast|quickly|much) .{0,40}\b(?:chang|rising|rose|grow|fall|increas|decreas|declin|climb)\w*/,
+    /\bchang(?:e|ed|es|ing)\b|\bimprov\w*|\bworsen\w*|\bdeteriorat\w*|\bgetting (?:better|worse)\b|\btaking .{0,30}\baway\b/,
   ],
   trend: [
     /\btrend\w*|\bover time\b|\bpattern\w*|\bseason\w*|\bhistor\w*|\bevolv\w*|\bevolution\b|\btrajector\w*|\bmoved\b|\bmovement\b|\btrack\w*/,
-    /\bbusiest\b|\bquietest\b|\bslowest\b|\bpeak\w*|\btrough\w*|\bwhen in the year\b|\bwhich (?:months?|weeks?|days?|quarters?) (?:is|are|was|were)\b|\btime of (?:the )?year\b|\bday of (?:the )?week\b|\bweekday\w*|\bweekend\w*/,
+    /\bbusiest\b|\bquietest\b|\bslowest\b|\bpeak\w*|\btrough\w*|\bwhen in the year\b|\bwhich (?:months?|weeks?|days?|quarters?) (?:is|are|was|were)\b|\btime of (?:the )?year\b|\bday of (?:the )?week\b|\bweekdays\b|\bweekends?\s+(?:vs|versus|compared)\b/,
     /\bmake[s]? up\b|\bshare of\b|\bshares\b|\bmix\b|\bsplit of\b|\bconcentrat\w*|\btop \d+\b|\btop (?:three|five|ten)\b|\bbottom \d+\b|\brank\w*|\bpareto\b|\blong tail\b|\bdistribution\b|\bbiggest\b|\blargest\b|\bsmallest\b|\bmost of\b|\bhighest\b|\blowest\b|\bbest\b|\bworst\b/,
     /\bmonth by month\b|\bweek by week\b|\bday by day\b|\bquarter by quarter\b|\byear by year\b|\bover the (?:years|months|weeks)\b|\blong[- ]term\b/,
   ],
@@ -146,7 +144,7 @@ export const REFINES_PREVIOUS = /^\s*(?:and\s+|also\s+|plus\s+)?(?:which|what)\b
 export const FREQUENCY = /\b(?:more|less) (?:often|frequently)\b|\bhow often\b|\bfrequenc\w+|\btravel (?:more|less)\b|\bbook (?:more|less)\b|\brepeat\b|\bper (?:customer|user|member|client|account|head)\b|\bonce a\b|\btimes a (?:month|year|week)\b/i;
 
 /** Words that begin a new question inside one sentence (", whether ...", "and where ..."). */
-export const QUESTION_JOINS = /,?\s+and\s+(?=(?:whether|where|which|how|what|why|when|is|are|did|does|do|can|could)\b)|,\s+(?=(?:whether|where|which|how|what|why|when|also|plus)\b)|;\s*|\s+(?:also|plus),?\s+(?=(?:whether|where|which|how|what|why|can|could|is|are|did)\b)/i;
+export const QUESTION_JOINS = /,?\s+and\s+(?=(?:whether|where|which|how|what|why|when|is|are|was|were|did|does|do|has|have|can|could|will|should)\b)|,?\s+and\s+(?:say|tell\s+(?:me|us)|let\s+(?:me|us)\s+know|check|show|see)\s+(?=(?:whether|if|how|what|which)\b)|,\s+(?=(?:whether|where|which|how|what|why|when|also|plus)\b)|;\s*|\s+(?:also|plus),?\s+(?=(?:whether|where|which|how|what|why|can|could|is|are|did)\b)/i;
 
 // ---- ordinary words ----
 
@@ -158,7 +156,8 @@ export const STOPWORDS = new Set(
   least less let like likely made make many may maybe me might mine more most much must my myself near nearly need neither never no nobody none nor not nothing now of off often on once one only onto or other others otherwise our ours ourselves out over own
   per perhaps please quite rather really same several shall she should shouldn since so some somebody someone something sometimes still such than that the their theirs them themselves then there these they thing things this those though through thus to too toward towards
   under until up upon us very via vs versus was wasn way we well were weren what whatever when whenever where whereas whether which while who whole whom whose why will with within without won would wouldn yet you your yours yourself yourselves
-  hi hello hey dear thanks thank cheers regards best kind ta please pls plz thx ty ok okay yes no yeah yep nope sure fine great good nice lovely awesome`.split(/\s+/),
+  hi hello hey dear thanks thank cheers regards best kind ta please pls plz thx ty ok okay yes no yeah yep nope sure fine great good nice lovely awesome
+  first second third fourth fifth firstly secondly thirdly lastly finally non behalf regarding re one two three four five six seven eight nine ten twelve`.split(/\s+/),
 );
 
 /**
@@ -182,7 +181,9 @@ export const ORDINARY = new Set(
   business company firm org organisation organization everyone everybody people folks guys all team teams colleagues boss manager managers board leadership exec execs
   ops operations finance marketing sales commercial product strategy plan planning budget forecast target targets goal goals kpi kpis metric metrics measure measures figure
   thing stuff something anything everything lot lots bunch kind sort type way ways bit piece part parts point points side sides term terms case cases example instance
-  morning afternoon evening tonight week weekend weekends weekday weekdays daily weekly monthly quarterly yearly annual annually`.split(/\s+/),
+  morning afternoon evening tonight week weekend weekends weekday weekdays daily weekly monthly quarterly yearly annual annually
+  say said says mention note apologies sorry long short brief clear simple view views methodology confidence interval intervals significance statistical statistically test tests p-value pvalue
+  analysis deep-dive dive favour favor ask asks request requests note notes draft version cycle round funding planning session sessions`.split(/\s+/),
 );
 
 /**
@@ -216,5 +217,5 @@ export const ROLE_WORDS: { role: MetricRole; pattern: RegExp }[] = [
 export const PRONOUNS = new Set(['it', 'that', 'this', 'they', 'them', 'those', 'these', 'its', 'same', 'one']);
 
 /** Words that ask for a breakdown by the noun after them. */
-export const BREAKDOWN_BEFORE = /(?:\bby|\bper|\bfor each|\beach|\bevery|\bacross(?: (?:all|the|our))?|\bsplit (?:by|across|into)|\bbroken down by|\bbreak(?:ing)? (?:it |that |this |them )?down by|\bbreakdown (?:by|of)|\bgrouped by|\bwithin each|\bfor every|\bamong(?: the)?|\bbetween (?:the )?(?:different )?)\s+$/;
+export const BREAKDOWN_BEFORE = /(?:\bby|\bper|\bfor each|\beach|\bevery|\bacross(?: (?:all|the|our))?|\bsplit (?:by|across|into)|\bbroken down by|\bbreak(?:ing)? (?:it |that |this |them )?down by|\bbreakdown (?:by|of)|\bgrouped by|\bwithin each|\bfor every|\bamong(?: the)?|\bbetween (?:the )?(?:different |\w+ )?)\s+$/;
 export const BREAKDOWN_WH = /(?:\bwhich|\bwhat)\s+$/;

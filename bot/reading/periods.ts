@@ -82,6 +82,10 @@ interface Point extends Span {
   which: 'latest' | 'last' | 'next';
   /** For range year inheritance: the month the point starts in. */
   month: number;
+  /** Qualified by "this", "last" or "next": relative to today, not a name on the calendar. */
+  qualified?: boolean;
+  /** The year was written in digits (not "last year"): a neighbour without a year may take it. */
+  digitsYear?: boolean;
 }
 
 const YEAR = `(?:19|20)\\d{2}`;
@@ -136,6 +140,19 @@ function findPoints(text: RequestText, ctx: PeriodContext): Point[] {
   const month = (m: string) => monthNumber(m)!;
   const whichOf = (w: string | undefined): Point['which'] => (w === 'last' || w === 'previous' ? 'last' : w === 'next' ? 'next' : 'latest');
 
+  // Day ranges inside one month: "between 16 and 31 December 2024", "from 1 to 14 June", "1-7 Jan".
+  for (const m of text.matches(re(`${B}(?:between\\s+|from\\s+)?(?:the\\s+)?(\\d{1,2})(?:st|nd|rd|th)?\\s*(?:-|–|to|and|until|till|through|thru)\\s*(?:the\\s+)?(\\d{1,2})(?:st|nd|rd|th)?(?:\\s+of)?\\s+(${MONTH_PATTERN})(?:\\.(?=\\s*(?:\\d|'\\d)))?(?:,?\\s+(${YEAR}|${SHORT_YEAR}))?${E}`))) {
+    const [d1, d2, mo, y] = [Number(m[1]), Number(m[2]), month(m[3]!), yearFrom(m[4])];
+    if (d1 < 1 || d2 > 31 || d1 > d2) continue;
+    add(m.span, { unit: 'day', ...(y ? { year: y } : {}), make: (yy) => ({ start: ymd(yy, mo, d1), end: addDays(ymd(yy, mo, d2), 1) }), which: 'latest', month: mo });
+  }
+  // Week ranges: "weeks 30 to 36 of 2025".
+  for (const m of text.matches(re(`${B}(?:iso\\s+)?weeks\\s+(\\d{1,2})\\s*(?:-|–|to|and|through)\\s*(\\d{1,2})(?:\\s*(?:of\\s+|,\\s*)?(${YEAR}))?${E}`))) {
+    const [w1, w2] = [Number(m[1]), Number(m[2])];
+    const y = m[3] ? Number(m[3]) : undefined;
+    if (w1 < 1 || w2 > 53 || w1 > w2) continue;
+    add(m.span, { unit: 'week', ...(y ? { year: y } : {}), make: (yy) => ({ start: isoWeekWindow(yy, w1).start, end: isoWeekWindow(yy, w2).end }), which: 'latest', month: 1 });
+  }
   // 2023-01-09
   for (const m of text.matches(re(`${B}(${YEAR})-(\\d{1,2})-(\\d{1,2})${E}`))) {
     const [y, mo, d] = [Number(m[1]), Number(m[2]), Number(m[3])];
@@ -149,24 +166,24 @@ function findPoints(text: RequestText, ctx: PeriodContext): Point[] {
     if (isValidDate(y, mo, d)) add(m.span, { unit: 'day', year: y, make: () => dayWindow(ymd(y, mo, d)), which: 'latest', month: mo });
   }
   // 9 January 2023, 9th of Jan '23, 9 Jan (no year)
-  for (const m of text.matches(re(`${B}(\\d{1,2})(?:st|nd|rd|th)?(?:\\s+of)?\\s+(${MONTH_PATTERN})\\.?(?:,?\\s+(${YEAR}|${SHORT_YEAR}))?${E}`))) {
+  for (const m of text.matches(re(`${B}(\\d{1,2})(?:st|nd|rd|th)?(?:\\s+of)?\\s+(${MONTH_PATTERN})(?:\\.(?=\\s*(?:\\d|'\\d)))?(?:,?\\s+(${YEAR}|${SHORT_YEAR}))?${E}`))) {
     const [d, mo, y] = [Number(m[1]), month(m[2]!), yearFrom(m[3])];
     if (d < 1 || d > 31) continue;
     add(m.span, { unit: 'day', ...(y ? { year: y } : {}), make: (yy) => dayWindow(ymd(yy, mo, d)), which: 'latest', month: mo });
   }
   // January 9, 2023; Jan 9th
-  for (const m of text.matches(re(`${B}(${MONTH_PATTERN})\\.?\\s+(\\d{1,2})(?:st|nd|rd|th)?(?:,?\\s+(${YEAR}|${SHORT_YEAR}))?${E}`))) {
+  for (const m of text.matches(re(`${B}(${MONTH_PATTERN})(?:\\.(?=\\s*(?:\\d|'\\d)))?\\s+(\\d{1,2})(?:st|nd|rd|th)?(?:,?\\s+(${YEAR}|${SHORT_YEAR}))?${E}`))) {
     const [mo, d, y] = [month(m[1]!), Number(m[2]), yearFrom(m[3])];
     if (d < 1 || d > 31) continue;
     add(m.span, { unit: 'day', ...(y ? { year: y } : {}), make: (yy) => dayWindow(ymd(yy, mo, d)), which: 'latest', month: mo });
   }
   // January 2023, Jan '23, January of last year, last January, 2023-01, 01/2023
-  for (const m of text.matches(re(`${B}(?:(last|this|next|previous)\\s+)?(${MONTH_PATTERN})\\.?(?:,?\\s+(?:of\\s+)?(?:(${YEAR}|${SHORT_YEAR})|(last|this|next)\\s+year))?${E}`))) {
+  for (const m of text.matches(re(`${B}(?:(last|this|next|previous)\\s+)?(${MONTH_PATTERN})(?:\\.(?=\\s*(?:\\d|'\\d)))?(?:,?\\s+(?:of\\s+)?(?:(${YEAR}|${SHORT_YEAR})|(last|this|next)\\s+year))?${E}`))) {
     const mo = month(m[2]!);
     if (m[2] === 'may' && !monthContext(text, m.span, m[1] ?? m[3] ?? m[4])) continue;
     if (m[2] === 'march' && !m[1] && !m[3] && !m[4] && !monthContext(text, m.span, undefined)) continue;
     const y = m[3] ? yearFrom(m[3]) : m[4] ? relativeYear(m[4], ctx.anchor) : undefined;
-    add(m.span, { unit: 'month', ...(y ? { year: y } : {}), make: (yy) => monthWindow(yy, mo), which: whichOf(m[1]), month: mo });
+    add(m.span, { unit: 'month', ...(y ? { year: y } : {}), make: (yy) => monthWindow(yy, mo), which: whichOf(m[1]), month: mo, qualified: !!(m[1] || m[4]), digitsYear: !!m[3] });
   }
   for (const m of text.matches(re(`${B}(${YEAR})-(0[1-9]|1[0-2])${E}(?!-\\d)`))) {
     const [y, mo] = [Number(m[1]), Number(m[2])];
@@ -177,31 +194,31 @@ function findPoints(text: RequestText, ctx: PeriodContext): Point[] {
     add(m.span, { unit: 'month', year: y, make: () => monthWindow(y, mo), which: 'latest', month: mo });
   }
   // Quarters: Q3 2024, 2024 Q3, Q3 '24, 3Q24, Q3 FY? (calendar only), the third quarter of 2024, last year's Q3
-  const quarter = (span: Span, q: number, y: number | undefined, which: Point['which'] = 'latest') =>
-    q >= 1 && q <= 4 && add(span, { unit: 'quarter', ...(y ? { year: y } : {}), make: (yy) => quarterWindow(yy, q), which, month: (q - 1) * 3 + 1 });
+  const quarter = (span: Span, q: number, y: number | undefined, which: Point['which'] = 'latest', qualified = false, digitsYear = false) =>
+    q >= 1 && q <= 4 && add(span, { unit: 'quarter', ...(y ? { year: y } : {}), make: (yy) => quarterWindow(yy, q), which, month: (q - 1) * 3 + 1, qualified, digitsYear });
   for (const m of text.matches(re(`${B}(?:(last|this|next)\\s+)?q([1-4])(?:\\s*(?:of\\s+)?[-/ ]?\\s*(${YEAR}|${SHORT_YEAR}|\\d{2}(?=$|[^\\p{N}]))|\\s+(?:of\\s+)?(last|this|next)\\s+year)?${E}`))) {
-    quarter(m.span, Number(m[2]), m[3] ? yearFrom(m[3]) : m[4] ? relativeYear(m[4], ctx.anchor) : undefined, whichOf(m[1]));
+    quarter(m.span, Number(m[2]), m[3] ? yearFrom(m[3]) : m[4] ? relativeYear(m[4], ctx.anchor) : undefined, whichOf(m[1]), !!(m[1] || m[4]), !!m[3]);
   }
-  for (const m of text.matches(re(`${B}(${YEAR})\\s*[-/ ]?\\s*q([1-4])${E}`))) quarter(m.span, Number(m[2]), Number(m[1]));
-  for (const m of text.matches(re(`${B}([1-4])q\\s*(${YEAR}|\\d{2})${E}`))) quarter(m.span, Number(m[1]), yearFrom(m[2]));
-  for (const m of text.matches(re(`${B}(last|this)\\s+year'?s\\s+q([1-4])${E}`))) quarter(m.span, Number(m[2]), relativeYear(m[1]!, ctx.anchor));
+  for (const m of text.matches(re(`${B}(${YEAR})\\s*[-/ ]?\\s*q([1-4])${E}`))) quarter(m.span, Number(m[2]), Number(m[1]), 'latest', false, true);
+  for (const m of text.matches(re(`${B}([1-4])q\\s*(${YEAR}|\\d{2})${E}`))) quarter(m.span, Number(m[1]), yearFrom(m[2]), 'latest', false, true);
+  for (const m of text.matches(re(`${B}(last|this)\\s+year'?s\\s+q([1-4])${E}`))) quarter(m.span, Number(m[2]), relativeYear(m[1]!, ctx.anchor), 'latest', true);
   for (const m of text.matches(re(`${B}(?:the\\s+)?(${QUARTER_WORD})\\s+quarter(?:\\s+(?:of\\s+)?(?:(${YEAR})|(last|this|next)\\s+year|the\\s+year))?${E}`))) {
     const q = quarterIndex(m[1]!);
-    quarter(m.span, q, m[2] ? Number(m[2]) : m[3] ? relativeYear(m[3], ctx.anchor) : undefined);
+    quarter(m.span, q, m[2] ? Number(m[2]) : m[3] ? relativeYear(m[3], ctx.anchor) : undefined, 'latest', !!m[3], !!m[2]);
   }
   // Halves: H1 2024, 2024 H1, the first half of 2024, H2 last year
-  const half = (span: Span, h: number, y: number | undefined, which: Point['which'] = 'latest') =>
-    add(span, { unit: 'half', ...(y ? { year: y } : {}), make: (yy) => halfWindow(yy, h), which, month: h === 1 ? 1 : 7 });
+  const half = (span: Span, h: number, y: number | undefined, which: Point['which'] = 'latest', qualified = false, digitsYear = false) =>
+    add(span, { unit: 'half', ...(y ? { year: y } : {}), make: (yy) => halfWindow(yy, h), which, month: h === 1 ? 1 : 7, qualified, digitsYear });
   for (const m of text.matches(re(`${B}(?:(last|this|next)\\s+)?h([12])(?:\\s*(?:of\\s+)?[-/ ]?\\s*(${YEAR}|${SHORT_YEAR})|\\s+(?:of\\s+)?(last|this|next)\\s+year)?${E}`))) {
-    half(m.span, Number(m[2]), m[3] ? yearFrom(m[3]) : m[4] ? relativeYear(m[4], ctx.anchor) : undefined, whichOf(m[1]));
+    half(m.span, Number(m[2]), m[3] ? yearFrom(m[3]) : m[4] ? relativeYear(m[4], ctx.anchor) : undefined, whichOf(m[1]), !!(m[1] || m[4]), !!m[3]);
   }
-  for (const m of text.matches(re(`${B}(${YEAR})\\s*[-/ ]?\\s*h([12])${E}`))) half(m.span, Number(m[2]), Number(m[1]));
+  for (const m of text.matches(re(`${B}(${YEAR})\\s*[-/ ]?\\s*h([12])${E}`))) half(m.span, Number(m[2]), Number(m[1]), 'latest', false, true);
   for (const m of text.matches(re(`${B}(?:the\\s+)?(${HALF_WORD})\\s+half(?:\\s+(?:of\\s+)?(?:(${YEAR})|(last|this|next)\\s+year|the\\s+year))?${E}`))) {
-    half(m.span, ordinalNumber(m[1]!)!, m[2] ? Number(m[2]) : m[3] ? relativeYear(m[3], ctx.anchor) : undefined);
+    half(m.span, ordinalNumber(m[1]!)!, m[2] ? Number(m[2]) : m[3] ? relativeYear(m[3], ctx.anchor) : undefined, 'latest', !!m[3], !!m[2]);
   }
   // Seasons: summer 2024, the summer of 2024, this summer, last winter, winter 2023/24, 2024 summer
-  const season = (span: Span, s: Season, y: number | undefined, which: Point['which']) =>
-    add(span, { unit: 'season', ...(y ? { year: y } : {}), make: (yy) => seasonWindow(s, yy, ctx.hemisphere), which, month: Number(seasonWindow(s, 2001, ctx.hemisphere).start.slice(5, 7)) });
+  const season = (span: Span, s: Season, y: number | undefined, which: Point['which'], qualified = false) =>
+    add(span, { unit: 'season', ...(y ? { year: y, digitsYear: true } : {}), make: (yy) => seasonWindow(s, yy, ctx.hemisphere), which, month: Number(seasonWindow(s, 2001, ctx.hemisphere).start.slice(5, 7)), qualified });
   const SEASON = `(spring|summer|autumn|fall|winter)`;
   const seasonName = (w: string): Season => (w === 'fall' ? 'autumn' : (w as Season));
   for (const m of text.matches(re(`${B}(?:(this|last|past|previous|next)\\s+)?${SEASON}(?:\\s+(?:of\\s+)?(${YEAR}|${SHORT_YEAR})(?:\\s*[/-]\\s*(\\d{2}|${YEAR}))?)?${E}`))) {
@@ -209,7 +226,7 @@ function findPoints(text: RequestText, ctx: PeriodContext): Point[] {
     // "winter 2023/24" is the winter that starts in 2023: labelled by its January's year.
     const y = m[4] ? yearFrom(m[4].length === 2 ? `'${m[4]}` : m[4]) : m[3] ? yearFrom(m[3]) : undefined;
     const label = m[4] && s !== 'winter' ? yearFrom(m[3]) : y;
-    season(m.span, s, label, m[1] === 'last' || m[1] === 'past' || m[1] === 'previous' ? 'last' : m[1] === 'next' ? 'next' : 'latest');
+    season(m.span, s, label, m[1] === 'last' || m[1] === 'past' || m[1] === 'previous' ? 'last' : m[1] === 'next' ? 'next' : 'latest', !!m[1]);
   }
   for (const m of text.matches(re(`${B}(${YEAR})\\s+${SEASON}${E}`))) season(m.span, seasonName(m[2]!), Number(m[1]), 'latest');
   // ISO weeks: 2024-W12, W12 2024, week 12 of 2024, wk 12
@@ -220,7 +237,7 @@ function findPoints(text: RequestText, ctx: PeriodContext): Point[] {
   for (const m of text.matches(re(`${B}(?:iso\\s+)?(?:week|wk|w)\\s*(\\d{1,2})(?:\\s*(?:of\\s+|,\\s*)?(${YEAR}))?${E}`))) {
     const w = Number(m[1]);
     const y = m[2] ? Number(m[2]) : undefined;
-    if (w >= 1 && w <= 53) add(m.span, { unit: 'week', ...(y ? { year: y } : {}), make: (yy) => isoWeekWindow(yy, w), which: 'latest', month: 1 });
+    if (w >= 1 && w <= 53) add(m.span, { unit: 'week', ...(y ? { year: y, digitsYear: true } : {}), make: (yy) => isoWeekWindow(yy, w), which: 'latest', month: 1 });
   }
   // Years: 2024, the year 2024, calendar 2024, FY2024 (read as the calendar year)
   for (const m of text.matches(re(`${B}(?:(?:the\\s+)?(?:calendar\\s+|full\\s+)?year\\s+|fy\\s?|cy\\s?)?(${YEAR})${E}(?![.,]\\d)`))) {
@@ -229,7 +246,7 @@ function findPoints(text: RequestText, ctx: PeriodContext): Point[] {
     if (/[$€£¥]\s*$|\d[.,]$/.test(before)) continue;
     const anchorYear = Number(ctx.anchor.slice(0, 4));
     if (y < anchorYear - 30 || y > anchorYear + 5) continue;
-    add(m.span, { unit: 'year', year: y, make: () => yearWindow(y), which: 'latest', month: 1 });
+    add(m.span, { unit: 'year', year: y, make: () => yearWindow(y), which: 'latest', month: 1, digitsYear: true });
   }
   return longestFirst(found);
 }
@@ -297,6 +314,11 @@ function findRelative(text: RequestText, ctx: PeriodContext): PeriodMention[] {
     const unit = UNIT_WORD[m[1]!]!;
     add(m.span, { window: holding(unit), unit, toLatest: true });
   }
+  // "since the start of the year": this year to date.
+  for (const m of text.matches(re(`${B}since\\s+the\\s+(?:start|beginning)\\s+of\\s+(?:the|this)\\s+(year|month|quarter|week)${E}`))) {
+    const unit = UNIT_WORD[m[1]!]!;
+    add(m.span, { window: holding(unit), unit, toLatest: true });
+  }
   // year / month / quarter / week to date
   for (const m of text.matches(re(`${B}(?:(ytd|mtd|qtd|wtd)|(year|month|quarter|week)[-\\s]to[-\\s]date|(?:so\\s+far\\s+)?(?:in\\s+)?(?:the\\s+)?(year|month|quarter|week)\\s+so\\s+far|so\\s+far\\s+this\\s+(year|month|quarter|week))${E}`))) {
     const short: Record<string, PeriodUnit> = { ytd: 'year', mtd: 'month', qtd: 'quarter', wtd: 'week' };
@@ -312,12 +334,6 @@ function findRelative(text: RequestText, ctx: PeriodContext): PeriodMention[] {
       continue;
     }
     const unit = UNIT_WORD[word]!;
-    // "the past year" / "over the last year" is the twelve months before the current one.
-    if (unit === 'year' && /^(?:the\s+)?(past|last)/.test(m[0]) && /\bthe\s+(past|last)\s+year/.test(m[0])) {
-      const end = holding('month').start;
-      add(m.span, { window: { start: addMonthsClamped(end, -12), end }, unit: 'span' });
-      continue;
-    }
     if (m[1] === 'latest' && unit !== 'week') {
       // "the latest full month": the latest whole one the data has, which is last month's.
       add(m.span, { window: shiftPeriod(holding(unit), unit, 1), unit });
@@ -369,6 +385,8 @@ function findShifts(text: RequestText): PeriodMention[] {
     `last\\s+year'?s\\s+(?:figures?|numbers?|levels?|period|equivalent)`,
   ];
   for (const m of text.matches(re(`${B}(?:${sameAsLastYear.join('|')})${E}`))) add(m.span, 'year');
+  // "year on year", "yoy": a year earlier; with no window of its own, the year to date against the same dates.
+  for (const m of text.matches(re(`${B}(?:year\\s*(?:-|\\s)\\s*(?:on|over)\\s*(?:-|\\s)\\s*year|yoy|y\\/y|y-o-y)${E}`))) add(m.span, 'year');
   // "the December before", "the summer before", "the one before"
   for (const m of text.matches(re(`${B}the\\s+(?:${MONTH_PATTERN}|spring|summer|autumn|fall|winter|q[1-4]|one|same\\s+\\w+)\\s+(?:before|a\\s+year\\s+(?:before|earlier))${E}`))) add(m.span, 'year');
   for (const m of text.matches(re(`${B}(?:(?:the\\s+)?(month|week|quarter)\\s*(?:-|\\s)\\s*(?:on|over)\\s*(?:-|\\s)\\s*(?:month|week|quarter)|(mom|wow|qoq))${E}`))) {
@@ -380,6 +398,10 @@ function findShifts(text: RequestText): PeriodMention[] {
     out.push({ ...m.span, unit: unit === 'period' ? 'span' : unit, relative: true, compared: true, shift: { unit, n: 1 }, words: text.quote(m.span) });
   }
   for (const m of text.matches(re(`${B}(?:the\\s+)?(month|week|quarter|day)\\s+before${E}`))) add(m.span, UNIT_WORD[m[1]!]!);
+  // "last 28 days vs prior 28", "vs the previous 4 weeks": the stretch of the same length just before.
+  for (const m of text.matches(re(`${B}(?:vs\\.?|versus|against|compared\\s+(?:to|with))\\s+(?:the\\s+)?(?:prior|previous|preceding)\\s+\\d{1,3}(?:\\s+(?:days?|weeks?|months?))?${E}`))) {
+    out.push({ ...m.span, unit: 'span', relative: true, compared: true, strong: true, shift: { unit: 'period', n: 1 }, words: text.quote(m.span) });
+  }
   // "this year against last", "vs the previous": the period before, of the window's own unit.
   for (const m of text.matches(re(`${B}(?:against|vs\\.?|versus|than|compared\\s+(?:to|with))\\s+(?:the\\s+)?(?:last|previous|prior|preceding)${E}(?!\\s+(?:\\d|${NUMBER_WORD_PATTERN}|day|week|month|quarter|year|half|season|spring|summer|autumn|fall|winter|${MONTH_PATTERN}|q[1-4]|h[12])\\b)`))) {
     out.push({ ...m.span, unit: 'span', relative: true, compared: true, shift: { unit: 'same', n: 1 }, words: text.quote(m.span) });
@@ -396,6 +418,12 @@ export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMentio
   const relative = findRelative(text, ctx);
   const shifts = findShifts(text);
   const points = findPoints(text, ctx).filter((p) => ![...relative, ...shifts].some((r) => p.start < r.end && r.start < p.end && r.end - r.start >= p.end - p.start));
+  // "week 3 of 2024 with week 2": a point with no year takes the year of its neighbour of the same kind.
+  for (const p of points) {
+    if (p.year !== undefined) continue;
+    const near = points.find((o) => o !== p && o.unit === p.unit && o.year !== undefined && o.digitsYear && Math.abs(o.start - p.start) < 60 && !/[.!?;]/.test(text.lower.slice(Math.min(o.end, p.end), Math.max(o.start, p.start))));
+    if (near) p.year = near.year;
+  }
   const mentions: PeriodMention[] = [];
   // Ranges: "from X to Y", "between X and Y", "X to Y", "Jan-Mar 2024".
   const used = new Set<Point>();
@@ -409,31 +437,38 @@ export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMentio
     if (!(/^\s*(?:-|to|until|till|through|thru)\s*$/.test(gap) || (between && /^\s*and\s*$/.test(gap)) || (from && /^\s*(?:-|to|until|till|through|thru)\s*$/.test(gap)))) continue;
     const [wa, wb] = rangeEnds(a, b, ctx);
     const start = (from || between) ? before.search(/\b(?:from|between)\s+$/) + Math.max(0, a.start - 12) : a.start;
-    mentions.push({ start, end: b.end, window: { start: wa.start, end: wb.end }, unit: 'span', relative: a.year === undefined && b.year === undefined, compared: false, words: text.quote({ start, end: b.end }) });
+    mentions.push({ start, end: b.end, window: { start: wa.start, end: wb.end }, unit: 'span', relative: false, compared: false, words: text.quote({ start, end: b.end }) });
     used.add(a);
     used.add(b);
     i++;
   }
   for (const p of points) {
     if (used.has(p)) continue;
-    mentions.push({ start: p.start, end: p.end, window: resolvePoint(p, ctx), unit: p.unit, relative: p.year === undefined, compared: false, words: text.quote(p) });
+    mentions.push({ start: p.start, end: p.end, window: resolvePoint(p, ctx), unit: p.unit, relative: p.qualified === true, compared: false, words: text.quote(p) });
   }
-  for (const r of [...relative, ...shifts]) {
-    if (mentions.some((m) => r.start < m.end && m.start < r.end)) continue;
-    mentions.push(r);
-  }
-  const chosen = longestFirst(mentions);
+  // The longest reading of any stretch of words wins ("the same month last year" over "last year").
+  mentions.push(...relative, ...shifts);
+  // Words read as a deadline ("by 15 Dec") are not a period of the data.
+  const chosen = longestFirst(mentions.filter((m) => !text.isClaimed(m)));
   // "since X", "from X on", "starting X": to the latest data. "until X", "up to X": from the first.
   for (const m of chosen) {
     const before = text.lower.slice(Math.max(0, m.start - 24), m.start);
     const after = text.lower.slice(m.end, m.end + 16);
-    const since = /\b(?:since|from|starting(?:\s+(?:in|from|with))?|beginning(?:\s+(?:in|from|with))?|after|post)\s+(?:the\s+(?:start|beginning)\s+of\s+)?$/.exec(before);
+    const since = /\b(?:since|from|starting(?:\s+(?:in|from|with))?|beginning(?:\s+(?:in|from|with))?|after|post)\s+(?:the\s+(?:start|beginning)\s+of\s+)?(?:the\s+)?$/.exec(before);
     if (since && m.window && !m.shift && (/^since|^starting|^beginning|^post|^after/.test(since[0]) || /^\s*(?:on(?:wards?)?|onward)\b/.test(after) || !/^\s*(?:to|until|till|through|-)/.test(after))) {
       const isAfter = /^after|^post/.test(since[0]);
       m.window = { start: isAfter ? m.window.end : m.window.start, end: m.window.end };
       m.toLatest = true;
       m.unit = 'span';
       m.start -= since[0].length;
+      m.words = text.quote(m);
+    }
+    // "2024 so far", "Q2 to date": to the latest data.
+    const soFar = /^\s*(?:so\s+far|to\s+date)\b/.exec(after);
+    if (soFar && m.window && !m.shift && !m.toLatest) {
+      m.toLatest = true;
+      m.relative = true;
+      m.end += soFar[0].length;
       m.words = text.quote(m);
     }
     const until = /\b(?:until|till|up\s+to|through|thru|before|prior\s+to)\s+(?:the\s+end\s+of\s+)?$/.exec(before);

@@ -8,8 +8,9 @@ import type { ValueIndex } from '../../analysis/values/value-index.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { AmbiguousValue, Askable, Brief, BriefSlot, Evidence, Question } from '../brief.js';
 import { addMonthsClamped, daysBetween, monthWindow, type PeriodUnit, shiftMonths, yearOf } from './calendar.js';
-import { type CatalogEntry, type CatalogHit, findCatalogHits, prepareCatalog, type PreparedCatalog } from './catalog-match.js';
+import { type CatalogEntry, type CatalogHit, closestEntries, findCatalogHits, prepareCatalog, type PreparedCatalog } from './catalog-match.js';
 import { splitClauses, type Clause } from './clauses.js';
+import { stem } from './catalog-match.js';
 import { findDeadlines } from './deadline.js';
 import { readIntent } from './intent.js';
 import {
@@ -19,13 +20,16 @@ import {
   FREQUENCY,
   GRAIN_WORDS,
   type MetricRole,
+  ORDINARY,
   REFINES_PREVIOUS,
   ROLE_WORDS,
+  STOPWORDS,
 } from './lexicon.js';
 import { findPeriods, type PeriodContext, type PeriodMention } from './periods.js';
 import { isoDateIn } from './time-zone.js';
 import { overlaps, RequestText, type Span } from './text.js';
 import { findUnknownTerms } from './unknown-words.js';
+import { mendCalendarWords } from './spelling.js';
 import { AUDIENCES, GRAINS } from '../../analysis/types.js';
 
 /** What the reader knows about a dataset's data. */
@@ -93,43 +97,57 @@ interface ReadState {
   periods: PeriodMention[];
   hits: CatalogHit[];
   roleHits: { span: Span; role: MetricRole; metrics: string[] }[];
+  grainSpans: Span[];
   evidence: Partial<Record<BriefSlot, Evidence>>;
 }
 
 export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOptions): Brief {
   const ds = facts.dataset;
-  const text = new RequestText(readablePart(fullText));
+  const catalog = prepareCatalog(ds, facts.values);
+  const text = new RequestText(mendCalendarWords(readablePart(fullText), catalogWords(catalog)));
+  const dayFirst = !/-US$/i.test(opts.locale ?? '');
   const today = isoDateIn(opts.now, ds.timezone);
   const anchor = anchorOf(today, facts);
   const evidence: Partial<Record<BriefSlot, Evidence>> = {};
 
   const personalValues = findPersonalValues(text);
-  const deadlines = findDeadlines(text, today);
+  const deadlines = findDeadlines(text, today, dayFirst);
   for (const d of deadlines) text.claim(d);
   const periodCtx: PeriodContext = {
     anchor: anchor.today,
     hemisphere: ds.hemisphere ?? 'north',
-    dayFirst: !/-US$/i.test(opts.locale ?? ''),
+    dayFirst,
     events: (ds.events ?? []).map((e) => ({ name: e.name, phrases: e.synonyms ?? [], window: { start: e.from, end: addDays(e.to, 1) } })),
   };
   const periods = findPeriods(text, periodCtx);
   for (const p of periods) text.claim(p);
-  const catalog = prepareCatalog(ds, facts.values);
   const hits = findCatalogHits(text, catalog);
   for (const h of hits) text.claim(h);
   const roleHits = findRoleWords(text, ds);
-  for (const r of roleHits) text.claim(r.span);
+  // A business word the catalog has no metric for ("revenue" on a support desk) stays free, to be said back as unknown.
+  for (const r of roleHits) if (r.metrics.length > 0) text.claim(r.span);
   const grain = readGrain(text);
   if (grain) {
     evidence.grain = { words: grain.words, how: grain.how };
     for (const s of grain.spans) text.claim(s);
   }
-  const audience = readAudience(text);
-  if (audience) evidence.audience = { words: audience.words, how: audience.how };
+  const audience = readAudience(text, hits);
+  if (audience) {
+    evidence.audience = { words: audience.words, how: audience.how };
+    text.claim(audience.span);
+  }
 
-  const state: ReadState = { text, ds, catalog, anchor: anchor.today, dataEnd: anchor.dataEnd, periods, hits, roleHits, evidence };
+  const state: ReadState = { text, ds, catalog, anchor: anchor.today, dataEnd: anchor.dataEnd, periods, hits, roleHits, grainSpans: grain?.spans ?? [], evidence };
   const { questions, ambiguous } = readQuestions(state);
   const unknownTerms = findUnknownTerms(text, { catalog });
+  // A business word the catalog has no measure for ("revenue" on a support desk's data).
+  for (const r of roleHits) {
+    const words = text.quote(r.span).toLowerCase();
+    if (r.metrics.length === 0 && (r.role === 'amount' || r.role === 'average_amount') && !/how much/.test(words) && !unknownTerms.some((u) => u.text === words || words.includes(u.text))) {
+      for (let i = unknownTerms.length - 1; i >= 0; i--) if (words.includes(unknownTerms[i]!.text)) unknownTerms.splice(i, 1);
+      unknownTerms.push({ text: words, closest: closestEntries(words, catalog, ['metric']), role: 'metric' });
+    }
+  }
 
   const personal = unique(hits.flatMap((h) => h.entries.filter((e) => e.kind === 'personal').map((e) => e.name)));
   const deadline = deadlines.find((d) => d.date !== null);
@@ -150,7 +168,9 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   if (group) brief.comparisonGroup = group;
   const windowed = questions.find((q) => q.window);
   if (windowed?.window) brief.window = windowed.window;
-  if (windowed?.compareWindow) brief.compareWindow = windowed.compareWindow;
+  // The first comparison named, even in a later question that refers back ("… and is it up on last year?").
+  const compared = questions.find((q) => q.compareWindow);
+  if (compared?.compareWindow) brief.compareWindow = compared.compareWindow;
   if (grain) brief.grain = grain.grain;
   if (audience) brief.audience = audience.audience;
   if (deadline?.date) {
@@ -191,6 +211,10 @@ interface ClauseReading {
   rateUnit?: 'year' | 'decade';
   perDay: boolean;
   table: boolean;
+  /** Points back at the question before ("how does that compare", "and which teams took them"). */
+  refersBack: boolean;
+  /** Only context: a deadline, an audience, a greeting ("Ideally before the planning session on the 10th"). */
+  context: boolean;
 }
 
 function readQuestions(st: ReadState): { questions: Question[]; ambiguous: AmbiguousValue[] } {
@@ -202,8 +226,35 @@ function readQuestions(st: ReadState): { questions: Question[]; ambiguous: Ambig
   for (const clause of clauses) {
     const r = readClause(clause, st, ambiguous);
     const previous = questions[questions.length - 1];
+    if (r.context) {
+      // "Fares went up on 1 March 2024.": a launch stated after the question it belongs to.
+      if (previous && r.launchDate && !previous.launchDate) {
+        previous.launchDate = r.launchDate;
+        if (previous.kind !== 'performance') previous.kind = 'performance';
+      }
+      continue;
+    }
+    // "Fares went up on 1 March 2024." after the question: the launch it asks about.
+    if (previous && r.launchDate && r.metrics.length === 0 && !r.group) {
+      if (!previous.launchDate) previous.launchDate = r.launchDate;
+      if (previous.kind !== 'performance' && (previous.comparisonGroup || /\b(?:effect|impact|hurt|help|affect\w*|worth|change\w*)\b/i.test(previous.text))) previous.kind = 'performance';
+      continue;
+    }
+    // "Before and after the launch, how did bookings change?": the measure completes the question before it.
+    if (previous && previous.metrics.length === 0 && !previous.frequency && r.metrics.length > 0 && !r.group && (r.kind === null || r.kind === previous.kind || previous.kind === 'performance' || r.kind === 'trend' || r.kind === 'growth') && !r.launchDate) {
+      previous.metrics = unique([...previous.metrics, ...r.metrics]);
+      mergeInto(previous, r, st);
+      continue;
+    }
     const hasContent = r.metrics.length > 0 || r.kind !== null || r.frequency || r.group !== undefined || r.table;
-    if (previous && (r.refines || (!hasContent && (r.dimensions.length > 0 || r.filters.length > 0 || r.periods.length > 0)) || (r.metrics.length > 0 && r.kind === null && !r.group && r.dimensions.length === 0 && /^\s*(?:and|also|plus|as well as|with)\b|\b(?:too|as well)\s*$/i.test(r.clause.text)))) {
+    // "Could you show sign-ups for both platforms, quarter by quarter?": the data for the question before.
+    const elaborates = previous !== undefined && !r.group && (r.metrics.length === 0 || r.metrics.every((m) => previous.metrics.includes(m))) && /\b(?:both|either|the\s+two|each\s+of\s+them)\b/i.test(r.clause.text);
+    if (previous && elaborates) {
+      mergeInto(previous, r, st);
+      continue;
+    }
+    const addsToPrevious = r.kind === null && !r.group && /^\s*(?:and|also|plus|as\s+well\s+as|with)\b|\b(?:too|as\s+well)\s*[?.!]*$|\b(?:could|can|would)\s+you\s+(?:also\s+)?(?:include|add)\b|^\s*(?:also\s+)?(?:include|add)\b/i.test(r.clause.text);
+    if (previous && !r.launchDate && (r.refines || (!hasContent && (r.dimensions.length > 0 || r.filters.length > 0 || r.periods.length > 0)) || (r.metrics.length > 0 && addsToPrevious))) {
       mergeInto(previous, r, st);
       continue;
     }
@@ -243,13 +294,34 @@ function toQuestion(r: ClauseReading, st: ReadState, previous: Question | undefi
       fromPrevious = metrics.length > 0;
     }
   }
+  // "how often customers travel": the customers are who is counted, not the measure.
+  if (r.frequency) {
+    const units = new Set(ds.comparison_groups.map((g) => g.unit_column).filter((c): c is string => !!c));
+    metrics = metrics.filter((m) => { const d = ds.metrics.find((x) => x.name === m)?.definition; return !(d?.type === 'distinct_count' && units.has(d.column)); });
+  }
   if (r.frequency && metrics.length === 0) {
-    const count = rowCountMetric(ds);
+    const count = rowCountMetric(ds) ?? ds.metrics.find((m) => m.definition.type === 'count');
     if (count) metrics = [count.name];
   }
-  const periods = r.periods.length > 0 ? r.periods : (pending?.periods ?? []);
-  const windows = periods.length > 0 ? windowsOf(periods, st, r.clause) : {};
-  const kind = r.kind ?? (windows.compareWindow ? 'growth' : 'trend');
+  // A clause whose only periods are compared ("…, which channels grew against H1 2023") takes its
+  // window from the context before it; one that refers back ("how does that compare with Q2?")
+  // from the previous question.
+  const onlyCompared = r.periods.length > 0 && r.periods.every((p) => p.compared || p.shift);
+  const base = pending?.periods.filter((p) => !p.compared && !p.shift) ?? [];
+  const periods = r.periods.length === 0 ? (pending?.periods ?? []) : onlyCompared && base.length > 0 ? [...base, ...r.periods] : r.periods;
+  let windows: ReturnType<typeof windowsOf> = periods.length > 0 ? windowsOf(periods, st, r.clause) : {};
+  if (onlyCompared && base.length === 0 && previous?.window && (r.pronoun || fromPrevious || metrics.length === 0 || r.refersBack)) {
+    windows = compareWithPrevious(previous, r.periods, st) ?? windows;
+  }
+  // A follow-up with no cue of its own ("how does that compare with Q2?") keeps the kind asked before it, unless it compares periods.
+  // "And what was their trial share?": a follow-up that points back keeps the period asked before.
+  if (!windows.window && previous?.window && /\b(?:their|its|those|these|them|they|that|it)\b/.test(r.clause.text.toLowerCase()) && r.periods.length === 0) {
+    windows = { window: previous.window, ...(previous.compareWindow ? { compareWindow: previous.compareWindow } : {}) };
+  }
+  // A follow-up pointing back with no period of its own ("what share of them…", "was that across all countries?") is asked about the same period, in the same kind, unless it asks about a change.
+  const pointsBack = previous !== undefined && r.periods.length === 0 && /\b(?:them|their|those|these|that|it|its|they)\b/.test(r.clause.text.toLowerCase());
+  if (pointsBack && r.kind !== 'growth' && r.kind !== 'performance') r.kind = previous!.kind;
+  const kind = r.kind ?? (fromPrevious && previous && !windows.compareWindow ? previous.kind : windows.compareWindow && !(previous && fromPrevious && previous.kind === 'kpi') ? 'growth' : previous && fromPrevious ? previous.kind : 'trend');
   const q: Question = {
     text: withoutPreamble(r.clause.text),
     kind,
@@ -260,7 +332,8 @@ function toQuestion(r: ClauseReading, st: ReadState, previous: Question | undefi
     ...windows,
   };
   if (fromPrevious) q.metricsFromPrevious = true;
-  if (r.group) q.comparisonGroup = r.group;
+  // A group named without being set against the rest ("revenue since the referral programme launched") is not compared.
+  if (r.group && kind === 'performance') q.comparisonGroup = r.group;
   if (r.launchDate) q.launchDate = r.launchDate;
   if (r.contrast) q.contrast = r.contrast;
   if (r.rankLimit) q.rankLimit = r.rankLimit;
@@ -273,12 +346,29 @@ function toQuestion(r: ClauseReading, st: ReadState, previous: Question | undefi
     if (g?.launch_date) {
       q.launchDate = g.launch_date;
       if (!q.comparisonGroup && kind === 'performance') q.comparisonGroup = g.name;
-      if (/\bsince\b|\bafter\b|\bpost[- ]/.test(r.clause.text.toLowerCase()) && !q.window && !/\bbefore\b/.test(r.clause.text.toLowerCase())) {
+      if (/\bsince\b/.test(r.clause.text.toLowerCase()) && !q.window && !/\bbefore\b/.test(r.clause.text.toLowerCase())) {
         q.window = { start: g.launch_date, end: st.dataEnd ?? addDays(st.anchor, 0) };
       }
     }
   }
   return q;
+}
+
+/** The previous question's window, against a comparison a follow-up names ("and how does that compare with Q2?"). */
+function compareWithPrevious(previous: Question, compared: PeriodMention[], st: ReadState): { window: DateWindow; compareWindow: DateWindow } | undefined {
+  const window = previous.window!;
+  const other = compared[0]!;
+  const main: PeriodMention = { start: 0, end: 0, window, unit: unitOf(window), relative: false, compared: false, words: '' };
+  const compareWindow = compareOf(window, main, other, st);
+  return compareWindow ? { window, compareWindow } : undefined;
+}
+
+/** The calendar unit a window spans exactly, for like-for-like comparison. */
+function unitOf(w: DateWindow): PeriodMention['unit'] {
+  const months = monthsBetween(w.start, w.end);
+  if (w.start.endsWith('-01') && w.end.endsWith('-01')) return months === 1 ? 'month' : months === 3 ? 'quarter' : months === 12 ? 'year' : 'span';
+  const days = daysBetween(w.start, w.end);
+  return days === 1 ? 'day' : days === 7 ? 'week' : 'span';
 }
 
 function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]): ClauseReading {
@@ -292,36 +382,55 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
   const valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[] = [];
   let group: string | undefined;
 
+  const metricHits: CatalogHit[] = [];
   for (const h of hits) {
     const kinds = new Set(h.entries.map((e) => e.kind));
-    if (kinds.has('personal')) continue;
+    // A word that is both a value and a personal word ("email" the channel, "email" the address):
+    // the person's only when the words around it say so.
+    if (kinds.has('personal') && !(kinds.has('value') && !personalContext(h, st.text))) continue;
     if (kinds.has('group')) {
       group ??= h.entries.find((e) => e.kind === 'group')!.name;
       continue;
     }
     if (kinds.has('metric')) {
-      metrics.push(h.entries.find((e) => e.kind === 'metric')!.name);
-      metricWords.push(st.text.quote(h));
+      metricHits.push(h);
       continue;
     }
     if (kinds.has('dimension')) {
       const dim = h.entries.find((e) => e.kind === 'dimension')!.name;
-      // A dimension's own noun beside one of its values names the value ("the app channel"), not a breakdown.
-      const neighbourValue = hits.some((o) => o !== h && o.entries.some((e) => e.kind === 'value' && e.name === dim) && nearGap(o, h, lower) <= 2);
-      const before = lower.slice(Math.max(0, h.start - 40), h.start);
-      const askedFor = BREAKDOWN_BEFORE.test(before) || BREAKDOWN_WH.test(before);
-      if ((askedFor || !neighbourValue) && !isGroupColumn(st.ds, dim)) dimensions.push(dim);
+      if (isBreakdown(h, dim, hits, st) && !isGroupColumn(st.ds, dim)) dimensions.push(dim);
       continue;
     }
     const values = h.entries.filter((e) => e.kind === 'value');
     if (values.length > 0) valueHits.push({ hit: h, entries: values });
   }
+  for (const h of metricHits) {
+    // The unit a group or a value is counted in ("premium accounts", "paid social sign-ups", "by
+    // passenger nationality") is not a second measure when the clause names another.
+    if (metricHits.length > 1 && isUnitNoun(h, hits, st.text)) continue;
+    metrics.push(metricOf(h));
+    metricWords.push(st.text.quote(h));
+  }
+  const composed = composeShares(metrics, metricHits, clause, st);
   // "revenue per passenger": the ratio metric of the two, when the catalog has it.
   composeRatios(metrics, hits, st, clause);
 
-  const { filters, contrast } = readValues(valueHits, hits, st, clause, ambiguous);
+  const read = readValues(valueHits, hits, st, clause, ambiguous);
+  const contrast = read.contrast;
+  // The value a composed rate is about ("share of tickets that were urgent") is the rate's, not a filter.
+  const rateValues = composed?.definition.type === 'rate' ? [composed.definition.where.value].flat().map((v) => String(v).toLowerCase()) : [];
+  const filters = read.filters.map((f) => ({ ...f, values: f.values.filter((v) => !rateValues.includes(String(v).toLowerCase())) })).filter((f) => f.values.length > 0);
   const dims = unique(dimensions);
 
+  // "how much we refunded": the amount whose names hold the verb.
+  if (metrics.length === 0) {
+    const verb = /\bhow\s+much\s+(?:money\s+)?(?:did|have|do|has)?\s*(?:we|they|you)\s+([a-z]+?)(?:ed|d)?\b/.exec(t);
+    if (verb) {
+      const root = verb[1]!;
+      const amount = st.ds.metrics.filter((m) => m.unit === 'currency' && [m.name, m.label, ...m.synonyms].some((n) => n.toLowerCase().includes(root)) && m.definition.type === 'sum');
+      if (amount.length === 1) metrics.push(amount[0]!.name);
+    }
+  }
   // Ordinary business words ("takings", "how many") when no catalog metric is named.
   if (metrics.length === 0) {
     for (const r of st.roleHits.filter((x) => inside(x.span))) {
@@ -336,13 +445,17 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
   const launch = statedLaunch(periods, st.text);
   const kept = launch ? periods.filter((p) => p !== launch.mention || /\bsince\b/.test(p.words.toLowerCase())) : periods;
   const windows = kept.length > 0 ? windowsOf(kept, st, clause) : {};
+  const plainPeriods = kept.filter((p) => p.window && !p.compared && !p.shift);
   const intent = readIntent(clause.text, {
     namesGroup: group !== undefined,
     refersToLaunch: launch !== undefined || refersToLaunch(clause.text),
     comparesPeriods: windows.compareWindow !== undefined,
     contrastsValues: contrast !== undefined,
-    ...(windows.window ? { window: windows.window, windowUnit: kept[0]?.unit } : {}),
-    anchor: st.anchor,
+    ...(windows.window && plainPeriods.length === 1
+      ? { window: windows.window, windowRelative: plainPeriods[0]!.relative && plainPeriods[0]!.unit !== 'span', windowSingle: plainPeriods[0]!.unit !== 'span' || daysBetween(windows.window.start, windows.window.end) <= 93 }
+      : {}),
+    namesMeasure: metrics.length > 0 || st.roleHits.some((x) => inside(x.span)),
+    asksGrain: st.grainSpans.some(inside),
   });
   const top = /\b(?:top|bottom|best|worst|biggest|largest|smallest)\s+(\d{1,2}|three|five|ten)\b/.exec(t);
   const rate = /\bper\s+(decade|year|annum)\b|\b(?:a|each)\s+(decade|year)\b(?=.{0,30}$)/.exec(t);
@@ -357,11 +470,16 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
     kind: intent.kind,
     kindWords: intent.words,
     frequency: FREQUENCY.test(clause.text) && (group !== undefined || /\bcustomers?\b|\busers?\b|\bmembers?\b|\bclients?\b|\bpeople\b/.test(t)),
-    pronoun: /\b(?:it|that|this|they|them|those|these|same)\b/.test(t.replace(/\bthis\s+(?:year|month|week|quarter|summer|winter|spring|autumn|season|time)\b/g, '')) && metrics.length === 0,
+    pronoun: /\b(?:it|its|that|this|they|them|their|those|these|same|either|both)\b/.test(t.replace(/\b(?:this|that)\s+(?:year|month|week|quarter|summer|winter|spring|autumn|season|time)\b/g, '')) && metrics.length === 0,
     refines: REFINES_PREVIOUS.test(clause.text) && metrics.length === 0 && !group,
     perDay: /\b(?:per|a|each)\s+day\b|\bdaily\s+(?:average|rate|mean)\b|\bper-day\b/.test(t) && GRAINS.some((g) => g !== 'day' && new RegExp(`\\b(?:${GRAIN_WORDS[g].adjective}|by ${g}|per ${g}|each ${g}|${g} by ${g})\\b`).test(t)),
     table: /\b(?:the\s+)?(?:numbers|figures|kpis|metrics|stats)\s+(?:by|per|for each|each)\s+(?:month|week|quarter|day|year)\b|\bside\s+by\s+side\b|\b(?:as\s+a|in\s+a|one)\s+table\b|\bmonthly\s+table\b|\btable\s+of\b/.test(t),
+    refersBack: /^\s*(?:and\s+|also\s+|second(?:ly)?,?\s+|then\s+)?(?:how\s+(?:does|do|did)\s+(?:that|it|this|they|those)\s+compare|(?:is|was|were|are)\s+(?:it|that|this|they)\b|which\s+\w+\s+(?:drove|took|caused|explain))/.test(t),
+    context: false,
   };
+  // A clause with nothing to measure whose cues are only a deadline or an audience is context.
+  const onlyDeadlineOrAudience = metrics.length === 0 && dims.length === 0 && filters.length === 0 && !group && kept.every((p) => !p.window) && (/\b(?:need|needed|ideally|by|before|deadline|due|would be great|is fine|no rush|thanks|cheers|regards|best)\b/.test(t) || intent.kind === null);
+  if (onlyDeadlineOrAudience && !reading.frequency && !reading.table && !/\?\s*$/.test(clause.text + (clause.asked ? '?' : ''))) reading.context = true;
   if (group) reading.group = group;
   if (contrast) reading.contrast = contrast;
   if (launch) {
@@ -371,6 +489,103 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
   if (top) reading.rankLimit = /^\d+$/.test(top[1]!) ? Number(top[1]) : { three: 3, five: 5, ten: 10 }[top[1] as 'three' | 'five' | 'ten'];
   if (rate && hasRateCue) reading.rateUnit = (rate[1] ?? rate[2]) === 'decade' ? 'decade' : 'year';
   return reading;
+}
+
+/** The metric a hit names; of several sharing a phrase once words are folded, the one written exactly so. */
+function metricOf(h: CatalogHit): string {
+  const ms = h.entries.filter((e) => e.kind === 'metric');
+  const written = h.words.map((w) => w.norm).join(' ');
+  return (ms.find((e) => e.phrase.toLowerCase().replace(/[^\p{L}\p{N}]+/gu, ' ').trim() === written) ?? ms[0]!).name;
+}
+
+/** "their emails", "requester email", "email addresses": the person's, not a value of the data. */
+function personalContext(h: CatalogHit, text: RequestText): boolean {
+  const before = text.lower.slice(Math.max(0, h.start - 24), h.start);
+  const after = text.lower.slice(h.end, h.end + 16);
+  const last = h.words[h.words.length - 1]!.norm;
+  return /s$/.test(last) && !/ss$/.test(last) || /^\s*(?:address|addresses|number|numbers|id|ids)\b/.test(after) || /\b(?:their|his|her|requester'?s?|customer'?s?|user'?s?|client'?s?|people'?s|whose|personal|contact)\s+$/.test(before);
+}
+
+/**
+ * A breakdown is asked for with "by", "per", "which", "each", "across" before the dimension's
+ * noun, or by its plural ("routes", "compare channels"); a singular noun beside a value ("the app
+ * channel", "the phone line", "the Denver team") names the value, and "both platforms" points at
+ * values already named.
+ */
+function isBreakdown(h: CatalogHit, dim: string, hits: CatalogHit[], st: ReadState): boolean {
+  const lower = st.text.lower;
+  const before = lower.slice(Math.max(0, h.start - 40), h.start);
+  if (BREAKDOWN_BEFORE.test(before) || BREAKDOWN_WH.test(before)) return true;
+  // "by route and fare class": the second of a list after a breakdown is one too.
+  const listed = hits.find((o) => o.end <= h.start && /^\s*(?:,|and|or|&|\/|plus)\s*(?:by\s+|the\s+)?$/.test(lower.slice(o.end, h.start)) && o.entries.some((e) => e.kind === 'dimension'));
+  if (listed && isBreakdown(listed, listed.entries.find((e) => e.kind === 'dimension')!.name, hits, st)) return true;
+  if (/\b(?:both|either|the\s+two|these|those|that|this|its|his|her|their)\s+$/.test(before)) return false;
+  const valueBeside = hits.some((o) => o !== h && o.entries.some((e) => e.kind === 'value') && nearGap(o, h, lower) <= 1);
+  if (valueBeside) return false;
+  // A word the catalog does not know right before it is a value it does not have ("the rathlin route").
+  const prev = st.text.words.filter((w) => w.end <= h.start).pop();
+  if (prev && !st.text.isClaimed(prev) && /\s*$/.test(lower.slice(prev.end, h.start)) && lower.slice(prev.end, h.start).trim() === '' && isContentWord(prev.norm)) return false;
+  const last = h.words[h.words.length - 1]!;
+  const plural = /s$/.test(last.norm) && !/ss$/.test(last.norm);
+  return plural || /^\s*(?:by|breakdown|split|mix|shares?|ranking|comparison)\b/.test(lower.slice(h.end, h.end + 14));
+}
+
+function isContentWord(w: string): boolean {
+  return w.length >= 3 && !STOPWORDS.has(w) && !ORDINARY.has(w) && !/^\d/.test(w);
+}
+
+/** A metric word right after a group or a value, or after "by"/"of" a breakdown: the unit counted, not a measure. */
+function isUnitNoun(h: CatalogHit, hits: CatalogHit[], text: RequestText): boolean {
+  const before = text.lower.slice(Math.max(0, h.start - 30), h.start);
+  // "top 20 users by revenue": the users are ranked, revenue is the measure.
+  if (/\b(?:top|bottom|best|worst|biggest|largest)\s+(?:\d+\s+|ten\s+|five\s+|three\s+)?$/.test(before) && /^\s*by\b/.test(text.lower.slice(h.end, h.end + 5))) return true;
+  if (/\bby\s+$/.test(before) && isContentWord(text.wordAt(h.end)?.norm ?? '')) return true;
+  const prev = hits.filter((o) => o.end <= h.start).pop();
+  if (!prev || nearGap(prev, h, text.lower) > 0) return /\b(?:share|percentage|proportion|percent|%|fraction|rate)\s+of\s+(?:the\s+|our\s+|all\s+)?$/.test(before);
+  return prev.entries.some((e) => e.kind === 'group' || e.kind === 'value');
+}
+
+/**
+ * "What share of tickets were urgent", "share of sign-ups on a free trial", "what share of its
+ * revenue do we refund": the rate or ratio metric of the catalog that the other words describe.
+ */
+function composeShares(metrics: string[], metricHits: CatalogHit[], clause: Clause, st: ReadState): Metric | undefined {
+  const t = clause.text.toLowerCase();
+  const share = /\b(?:share|percentage|proportion|percent|fraction|%)\s+of\s+(?:the\s+|our\s+|its\s+|all\s+)?/.exec(t);
+  if (!share) return undefined;
+  const ds = st.ds;
+  // Already named as a rate or ratio of the catalog ("the share of revenue we refunded"): nothing to compose.
+  const at = clause.start + share.index;
+  if (metricHits.some((h) => h.start <= at && at < h.end)) return undefined;
+  if (metrics.some((m) => { const d = ds.metrics.find((x) => x.name === m)?.definition.type; return d === 'rate' || d === 'ratio'; })) return undefined;
+  const words = new Set(t.split(/[^\p{L}]+/u).filter((w) => w.length > 3).map(stem));
+  // Every measure named, the "of revenue" of "share of revenue" included (dropped as the unit counted).
+  const named = [...metrics, ...metricHits.map((h) => metricOf(h))];
+  const mentions = (m: Metric) => [m.name.replaceAll('_', ' '), m.label, ...m.synonyms].some((n) => n.toLowerCase().split(/\s+/).some((w) => w.length > 3 && words.has(stem(w)) && !/^(?:share|rate|revenue|tickets?|signups?|bookings?)$/.test(stem(w))));
+  const candidates = ds.metrics.filter((m) => {
+    const d = m.definition;
+    if (d.type === 'rate') {
+      const v = d.where.value;
+      const values = Array.isArray(v) ? v.map(String) : v === undefined ? [] : [String(v)];
+      return values.some((x) => words.has(stem(x.toLowerCase()))) || mentions(m) || words.has(stem(d.where.column.toLowerCase()));
+    }
+    if (d.type === 'ratio') return named.includes(d.denominator) && mentions(ds.metrics.find((x) => x.name === d.numerator)!);
+    return false;
+  });
+  // "share of its revenue we refund": a ratio over the measure named right after "share of" first.
+  const after = t.slice(share.index + share[0].length);
+  const ratioFirst = candidates.filter((m) => m.definition.type === 'ratio' && after.startsWith(metricNames(ds.metrics.find((x) => x.name === (m.definition as { denominator: string }).denominator)!).find((n) => after.startsWith(n)) ?? '\u0000'));
+  const pool = ratioFirst.length === 1 ? ratioFirst : candidates;
+  if (pool.length !== 1) return undefined;
+  const chosen = pool[0]!;
+  const base = chosen.definition.type === 'ratio' ? [chosen.definition.numerator, chosen.definition.denominator] : [chosen.definition.type === 'rate' && chosen.definition.of ? chosen.definition.of : ''];
+  for (let i = metrics.length - 1; i >= 0; i--) if (base.includes(metrics[i]!) || metrics[i] === chosen.name || rowCountMetric(ds)?.name === metrics[i] || words.has(stem(metrics[i]!.split('_')[0]!))) metrics.splice(i, 1);
+  metrics.unshift(chosen.name);
+  return chosen;
+}
+
+function metricNames(m: Metric): string[] {
+  return [m.name.replaceAll('_', ' '), m.label, ...m.synonyms].map((n) => n.toLowerCase());
 }
 
 function nearGap(a: Span, b: Span, lower: string): number {
@@ -415,12 +630,23 @@ function readValues(valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[], h
   for (const { hit, entries } of valueHits) {
     const before = lower.slice(Math.max(0, hit.start - 30), hit.start);
     const after = lower.slice(hit.end, hit.end + 30);
-    const strong = entries.filter((e) => !e.weak);
+    const strong = entries.filter((e) => !e.weak && !(e.partial && !/^\p{Lu}/u.test(hit.words[0]!.raw)));
+    const ownNounBeside = hits.some((o) => o !== hit && o.entries.some((e) => e.kind === 'dimension' && entries.some((v) => v.name === e.name)) && nearGap(o, hit, lower) <= 1);
     const cueBeside =
+      ownNounBeside ||
       /\b(?:only|just|excluding|except|without|exclude|via|through|on|in|from|at|for|vs\.?|versus|than|and|or|to)\s+(?:the\s+)?$/.test(before) ||
-      hits.some((o) => o !== hit && o.entries.some((e) => e.kind === 'metric' || (e.kind === 'dimension' && entries.some((v) => v.name === e.name))) && nearGap(o, hit, lower) <= 1) ||
+      hits.some((o) => o !== hit && o.entries.some((e) => e.kind === 'metric') && nearGap(o, hit, lower) <= 1) ||
       /^\s*(?:vs\.?|versus|v|than|and|or|compared)\b/.test(after);
-    const usable = entries.filter((e) => !e.weak || cueBeside);
+    // Part of a value's name counts only when written as a name ("Saltreach", not "support") or
+    // beside its breakdown's noun ("the saltreach route"); a value that is also a grain word
+    // ("monthly", "annual") only beside its noun ("monthly plan").
+    const capitalised = /^\p{Lu}/u.test(hit.words[0]!.raw);
+    const grainWord = (e: CatalogEntry) => /^(?:daily|weekly|monthly|quarterly|yearly|annual|annually)$/.test((e.value ?? '').toLowerCase());
+    const usable = entries.filter((e) => {
+      if (e.partial && !capitalised) return ownNounBeside;
+      if (grainWord(e)) return ownNounBeside || /\b(?:on|the|an?)\s+$/.test(before) && /^\s*(?:plans?|subscriptions?|tier|option)\b/.test(after);
+      return !e.weak || cueBeside;
+    });
     if (usable.length === 0) continue;
     // Candidates narrowed by a breakdown named beside the value ("the Saltreach route").
     const namedDims = hits.filter((o) => o.entries.some((e) => e.kind === 'dimension') && nearGap(o, hit, lower) <= 2).flatMap((o) => o.entries.map((e) => e.name));
@@ -542,7 +768,10 @@ function statedLaunch(periods: PeriodMention[], text: RequestText): { date: stri
     if (!p.window || (p.unit !== 'day' && p.unit !== 'month' && p.unit !== 'week' && p.unit !== 'span')) continue;
     const before = text.lower.slice(Math.max(0, p.start - 60), p.start);
     const after = text.lower.slice(p.end, p.end + 30);
-    if (/\b(?:launch\w*|start\w*|began|begun|went\s+live|go(?:es)?\s+live|introduc\w*|rolled\s+out|roll-?out|kicked\s+off|came\s+in|switch\w*|chang\w+|new\s+\w+\s+(?:from|on|since)|effective|took\s+effect|live\s+(?:from|since|on))\b[^.;!?]{0,40}$/.test(before) || /^\s*(?:launch|go-live|rollout|roll-out|switch|change)\b/.test(after)) {
+    if (p.relative && p.unit !== 'span') continue;
+    const verbs = /\b(?:launch(?:ed|es)?|start(?:ed|s)?|began|begun|went\s+(?:live|up|down)|go(?:es)?\s+live|introduc(?:ed|es)|rolled\s+out|roll-?out|kicked\s+off|switch(?:ed)?|changed|effective|took\s+effect|came\s+into\s+effect|live\s+(?:from|since|on)|rose|increased|decreased|was\s+cut|were\s+cut)\b[^.;!?]{0,40}$/;
+    const nouns = /\b(?:launch|rise|increase|hike|cut|change|reorgani[sz]ation|reorg|restructur\w*|migration|redesign|rollout|roll-out|switch|update|campaign|promotion|sale|outage|new\s+\w+)\s+(?:on|from|in|of)\s+(?:the\s+)?$/;
+    if (verbs.test(before) || nouns.test(before) || /^\s*(?:\p{L}+\s+){0,2}(?:launch|go-live|rollout|roll-out|switch|change|rise|increase|hike|cut|reorgani[sz]ation|reorg|migration|redesign|update|campaign|promotion)\b/u.test(after)) {
       const start = p.unit === 'span' && /\bsince\b/.test(p.words.toLowerCase()) ? p.window.start : p.window.start;
       return { date: start, words: text.quote(p), mention: p };
     }
@@ -551,7 +780,7 @@ function statedLaunch(periods: PeriodMention[], text: RequestText): { date: stri
 }
 
 function refersToLaunch(text: string): boolean {
-  return /\b(?:since|after|before|post|pre)[- ](?:it|we|they|the\s+\w+)?\s*(?:launch\w*|went live|started|rolled out|introduc\w+)\b|\bsince (?:the )?launch\b|\bpost-launch\b|\bpre-launch\b|\bbefore and after\b|\blaunch\b/i.test(text);
+  return /\b(?:since|after|before|post|pre)[- ](?:it|we|they|the)?\s*(?:[\p{L}-]+\s+){0,3}(?:launch(?:ed)?|went\s+live|started|rolled\s+out|introduc\w+|began|came\s+in)\b|\bsince\s+(?:the\s+)?launch\b|\bpost-launch\b|\bpre-launch\b|\bbefore\s+and\s+after\b|\blaunch(?:ed)?\b/iu.test(text);
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -564,14 +793,14 @@ function readGrain(text: RequestText): { grain: Grain; words: string; how: 'stat
     const extra = w.extra.filter((x) => !/^(?:wow|mom|qoq|dod)$/.test(x)).map((x) => x.replace(/[-\s]+/g, '[-\\s]+'));
     const stated = new RegExp(`(?<![\\p{L}])(?:${[w.adjective, ...extra].join('|')}|(?:by|per|each|every|for\\s+each|broken\\s+down\\s+by|split\\s+by)\\s+(?:the\\s+)?(?:calendar\\s+)?${w.noun})(?![\\p{L}])`, 'gu');
     for (const m of text.matches(stated)) {
+      // A value of the data ("annual plans", "the monthly plan") is not a grain.
+      if (text.isClaimed(m.span)) continue;
       // "per day" beside another grain is a per-day rate ("bookings per day by month"), not the grain.
       if (g === 'day' && /^(?:per|a|each)\s/.test(m[0])) continue;
       // "per year" in "how fast ... per year", "each year" after "busiest months": a rate or a season, not a grain.
       if (g === 'year' && /^(?:per|each|every)\s/.test(m[0]) && /\b(?:how\s+(?:fast|quickly|much)|rate|rising|falling|growing|grow|busiest|quietest|peak|every\s+year|each\s+year)\b/.test(text.lower) && !/\bby\s+year\b/.test(text.lower)) continue;
       found.push({ grain: g, span: m.span, how: 'stated' });
     }
-    const inferred = new RegExp(`(?<![\\p{L}])(?:(?:busiest|quietest|best|worst|peak|strongest|weakest|slowest|biggest)\\s+${w.plural}|which\\s+${w.noun}s?|what\\s+${w.noun}s?)(?![\\p{L}])`, 'gu');
-    for (const m of text.matches(inferred)) found.push({ grain: g, span: m.span, how: 'inferred' });
   }
   const perDayAlone = [...text.matches(/(?<![\p{L}])(?:per|a|each)\s+day(?![\p{L}])/gu)];
   if (found.length === 0 && perDayAlone.length > 0) found.push({ grain: 'day', span: perDayAlone[0]!.span, how: 'stated' });
@@ -581,12 +810,18 @@ function readGrain(text: RequestText): { grain: Grain; words: string; how: 'stat
   return { grain: first.grain, words: text.quote(first.span), how: first.how, spans: found.filter((f) => f.grain === first.grain).map((f) => f.span) };
 }
 
-function readAudience(text: RequestText): { audience: (typeof AUDIENCES)[number]; words: string; how: 'stated' | 'inferred' } | undefined {
+function readAudience(text: RequestText, hits: CatalogHit[]): { audience: (typeof AUDIENCES)[number]; words: string; how: 'stated' | 'inferred'; span: Span } | undefined {
+  // A cue that is a value of the data ("the Billing team") is the data's, not the audience.
+  const ofData = (span: Span) => hits.some((h) => overlaps(h, span) && h.entries.some((e) => e.kind === 'value' && (!e.partial || /^\p{Lu}/u.test(h.words[0]!.raw))));
   for (const a of ['leadership', 'analysts', 'managers'] as const) {
-    const m = AUDIENCE_CUES[a].exec(text.lower);
+    const all = [...text.matches(new RegExp(AUDIENCE_CUES[a].source, 'gi'))].filter((x) => !ofData(x.span));
+    const m = all[0];
     if (!m) continue;
+    // Every cue of any audience is context, not data ("the heads of product", "the monthly update").
+    for (const other of ['leadership', 'analysts', 'managers'] as const) for (const x of text.matches(new RegExp(AUDIENCE_CUES[other].source, 'gi'))) if (!ofData(x.span)) text.claim(x.span);
     const stated = /leader|board|exec|ceo|cfo|coo|director|manager|analyst|senior/.test(m[0]);
-    return { audience: a, words: text.quote({ start: m.index, end: m.index + m[0].length }), how: stated ? 'stated' : 'inferred' };
+    const span = { start: m.index, end: m.index + m[0].length };
+    return { audience: a, words: text.quote(span), how: stated ? 'stated' : 'inferred', span };
   }
   return undefined;
 }
@@ -597,15 +832,28 @@ function findRoleWords(text: RequestText, ds: DatasetConfig): { span: Span; role
   for (const { role, pattern } of ROLE_WORDS) {
     for (const m of text.matches(new RegExp(pattern.source, 'g'))) {
       if (text.isClaimed(m.span) || out.some((o) => overlaps(o.span, m.span))) continue;
-      // "how many customers": the catalog's word after it decides, not the role.
+      // "how many customers": the catalog's word after it decides, not the role; "how many staff
+      // hours": a word the catalog does not know decides, and is said back.
       if (role === 'count' && /how many|number of|no\.? of|count of/.test(m[0])) {
         const next = text.wordAt(m.span.end);
-        if (next && text.isClaimed(next)) continue;
+        if (next && (text.isClaimed(next) || (!STOPWORDS.has(next.norm) && !ORDINARY.has(next.norm)))) continue;
       }
       out.push({ span: m.span, role, metrics: metricsForRole(ds, role) });
     }
   }
   return out;
+}
+
+const catalogWordSets = new WeakMap<PreparedCatalog, ReadonlySet<string>>();
+
+/** Every word of the catalog's names and the data's values, which spelling mends never touch. */
+function catalogWords(catalog: PreparedCatalog): ReadonlySet<string> {
+  let words = catalogWordSets.get(catalog);
+  if (!words) {
+    words = new Set(catalog.entries.flatMap((e) => e.phrase.toLowerCase().split(/[^\p{L}\p{N}]+/u)).filter((w) => w.length > 0));
+    catalogWordSets.set(catalog, words);
+  }
+  return words;
 }
 
 export function metricsForRole(ds: DatasetConfig, role: MetricRole): string[] {

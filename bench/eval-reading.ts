@@ -1,0 +1,26 @@
+// `npm run eval:reading`: reads the labelled corpus, prints accuracy per slot (all, tuned on, held
+// back) and every miss, and writes READING.md. The demo's data is generated into out/eval-data once.
+import { existsSync, writeFileSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { DEMO_CONFIG_FILE, DEMO_DATABASE_FILE, generateDemo } from '../config/demo/generate-demo.js';
+import { accuracy, evaluate, loadCorpus, readingReport, repoRoot, SLOTS } from './reading-eval.js';
+
+const root = repoRoot(process.cwd());
+const demoDir = resolve(root, 'out', 'eval-data');
+if (!existsSync(join(demoDir, DEMO_DATABASE_FILE))) {
+  process.stdout.write('Generating the demo data once (out/eval-data)...\n');
+  await generateDemo({ outDir: demoDir });
+}
+const report = await evaluate(loadCorpus(root), root, (config) => (config.endsWith('skerrywake.yaml') ? join(demoDir, DEMO_CONFIG_FILE) : resolve(root, config)));
+const text = readingReport(report);
+writeFileSync(resolve(root, 'READING.md'), text);
+const all = accuracy(report.results);
+const held = accuracy(report.results.filter((r) => r.request.split === 'held'));
+for (const s of SLOTS) process.stdout.write(`${s.padEnd(16)} ${(100 * all.perSlot[s]).toFixed(1).padStart(5)}%   held ${(100 * held.perSlot[s]).toFixed(1).padStart(5)}%\n`);
+process.stdout.write(`whole request    ${(100 * all.wholeRequest).toFixed(1).padStart(5)}%   held ${(100 * held.wholeRequest).toFixed(1).padStart(5)}%\n`);
+const misses = report.results.filter((r) => r.misses.length > 0);
+for (const r of misses) {
+  process.stdout.write(`\n${r.request.id} (${r.request.split}): ${r.request.text.replace(/\s+/g, ' ').slice(0, 220)}\n`);
+  for (const m of r.misses) process.stdout.write(`  ${m.slot}: expected ${m.expected}  read ${m.got}\n`);
+}
+process.stdout.write(`\n${misses.length} of ${report.results.length} requests have a miss. READING.md written.\n`);

@@ -1,0 +1,32 @@
+// The reader against the labelled corpus (test/reading/corpus/, labelled by hand from
+// docs/reading.md): every slot must be right on at least 90% of the requests, on the whole corpus
+// and on the held-back fifth. `npm run eval:reading` prints the same figures with every miss.
+import { fileURLToPath } from 'node:url';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { accuracy, evaluate, type EvalReport, loadCorpus, repoRoot, SLOTS } from '../../bench/reading-eval.js';
+import { demoFixture } from '../helpers/demo-fixture.js';
+
+const root = repoRoot(fileURLToPath(new URL('.', import.meta.url)));
+let report: EvalReport;
+
+beforeAll(async () => {
+  const demo = await demoFixture();
+  // The demo's data is generated, not in git: its config is the one the generator writes.
+  report = await evaluate(loadCorpus(root), root, (config) => (config.endsWith('skerrywake.yaml') ? demo.configPath : `${root}/${config}`));
+}, 600_000);
+
+describe('reading the labelled corpus', () => {
+  it('reads at least 300 requests over three datasets', () => {
+    expect(report.results.length).toBeGreaterThanOrEqual(300);
+    expect(new Set(report.results.map((r) => r.request.dataset)).size).toBeGreaterThanOrEqual(3);
+  });
+
+  for (const split of ['all', 'held'] as const) {
+    it(`gets every slot right on at least 90% of ${split === 'all' ? 'the corpus' : 'the held-back fifth'}`, () => {
+      const results = split === 'all' ? report.results : report.results.filter((r) => r.request.split === 'held');
+      const a = accuracy(results);
+      const low = SLOTS.filter((s) => a.perSlot[s] < 0.9).map((s) => `${s} ${(100 * a.perSlot[s]).toFixed(1)}%`);
+      expect(low, `slots under 90% (${split})`).toEqual([]);
+    });
+  }
+});
