@@ -20,6 +20,12 @@ export interface OutgoingPost {
   promptLead?: string;
   /** One-click replies a platform may show as buttons (e.g. "go" and "cancel" under the plan). */
   quickReplies?: QuickReply[];
+  /**
+   * Controls a platform may show with the post (the brief card's: a select per topic, a date for
+   * the deadline). Choosing sends the choice's value as if typed; the post stays, and the bot
+   * edits it in place with what changed.
+   */
+  controls?: PostControl[];
   files?: OutgoingFile[];
   /**
    * The answer as monospace text, most detailed first (a table's rows). A platform shows the first
@@ -35,6 +41,21 @@ export interface QuickReply {
   primary: boolean;
 }
 
+/** One control of a post: a list to pick one from, or a date. */
+export interface PostControl {
+  /** What the control sets ("audience", "grain", "period", "breakdowns", "deadline"): unique in its post. */
+  topic: string;
+  /** Its name as shown ("Audience"). */
+  label: string;
+  kind: 'select' | 'date';
+  /** A select's choices; each sends its value, as if typed. Empty for a date. */
+  choices: { value: string; label: string }[];
+  /** The choice in force: a select's value, or a date's ISO day. */
+  current?: string;
+  /** For a date: the words sent, with the chosen ISO day in place of "{date}" ("deadline {date}"). */
+  sends?: string;
+}
+
 export interface ThreadPort {
   /**
    * Posts in the thread and returns the platform's reference to the message. A platform kept in
@@ -42,8 +63,12 @@ export interface ThreadPort {
    * `session`, so the post commits with its key; the others ignore it.
    */
   post(threadId: string, post: OutgoingPost, session?: SqlSession): Promise<string>;
-  /** Replaces the text of a message posted earlier (progress updated in place). */
-  update(threadId: string, ref: string, text: string): Promise<void>;
+  /**
+   * Replaces a message posted earlier: only its text (progress updated in place), or, with `post`,
+   * the whole of it, controls and quick replies included (the brief card after a correction; a
+   * post without controls leaves none).
+   */
+  update(threadId: string, ref: string, text: string, post?: Omit<OutgoingPost, 'key' | 'files'>): Promise<void>;
 }
 
 /** A message arriving in a thread: the request that opens it, or a reply. */
@@ -62,4 +87,9 @@ export interface IncomingMessage {
    * shows as received in this thread is not handled again (see the local channel's sweep).
    */
   messageId?: string;
+  /**
+   * For a click: the label the requester chose, which the thread shows as their reply; `text`
+   * holds the value the bot reads.
+   */
+  label?: string;
 }
