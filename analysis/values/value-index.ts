@@ -8,7 +8,7 @@ import { z } from 'zod';
 import type { LoadedConfig } from '../../config/load.js';
 import type { DatasetConfig, Dimension } from '../../config/schema.js';
 import { readJsonFile, writeJsonFile } from '../cache/json-file.js';
-import type { CompileContext } from '../compile-context.js';
+import { datasetRelation, type CompileContext } from '../compile-context.js';
 import { dataVersion } from '../quality/data-version.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { CompiledQuery, ResultTable } from '../types.js';
@@ -40,7 +40,7 @@ export function compileValueQuery(ctx: CompileContext, dim: Dimension, cap = VAL
   const q = new QueryBuilder(ctx.dialect);
   const col = q.ident(dim.column);
   return q.finish(`SELECT CAST(${col} AS VARCHAR) AS value, ${ctx.dialect.toDouble('COUNT(*)')} AS row_count
-FROM ${q.ident(ctx.dataset.table)}
+FROM ${datasetRelation(q, ctx.dataset)}
 WHERE ${col} IS NOT NULL
 GROUP BY 1
 ORDER BY 2 DESC, 1
