@@ -1,4 +1,5 @@
-// The labelled request corpus (test/reading/corpus/*.yaml) is well-formed test material: every
+// The labelled request corpus (test/reading/corpus/*.yaml) and the fresh set written apart from it
+// (test/reading/corpus-fresh/*.yaml, never tuned on) are well-formed test material: every
 // request carries every slot, names only what its dataset's catalog and data hold, and its dates
 // obey the calendar rules of docs/reading.md that can be checked without reading the text (a
 // window inside the data, a comparison before its window, an ISO week from Monday to Sunday, a
@@ -15,7 +16,7 @@ import type { DatasetConfig } from '../../config/schema.js';
 import { demoFixture } from '../helpers/demo-fixture.js';
 
 const ROOT = fileURLToPath(new URL('../../', import.meta.url));
-const CORPUS = join(ROOT, 'test/reading/corpus');
+const CORPUS_DIRS = ['test/reading/corpus', 'test/reading/corpus-fresh'] as const;
 
 const SLOTS = ['kinds', 'metrics', 'dimensions', 'filters', 'comparisonGroup', 'launchDate', 'window', 'compareWindow', 'grain', 'audience', 'deadline', 'unknownTerms'] as const;
 const KINDS = ['trend', 'growth', 'performance', 'kpi'];
@@ -54,17 +55,28 @@ interface CorpusRequest {
   expect: Expect;
 }
 interface CorpusFile {
+  /** The file's path under test/reading/, e.g. `corpus-fresh/bookings.yaml`. */
   name: string;
+  fresh: boolean;
   dataset: string;
   config: string;
   now: string;
   requests: CorpusRequest[];
 }
 
-const files: CorpusFile[] = readdirSync(CORPUS)
-  .filter((f) => f.endsWith('.yaml'))
-  .sort()
-  .map((f) => ({ name: f, ...(parse(readFileSync(join(CORPUS, f), 'utf8')) as Omit<CorpusFile, 'name'>) }));
+const allFiles: CorpusFile[] = CORPUS_DIRS.flatMap((dir) =>
+  readdirSync(join(ROOT, dir))
+    .filter((f) => f.endsWith('.yaml'))
+    .sort()
+    .map((f) => ({
+      name: `${dir.split('/').pop()}/${f}`,
+      fresh: dir.endsWith('-fresh'),
+      ...(parse(readFileSync(join(ROOT, dir, f), 'utf8')) as Omit<CorpusFile, 'name' | 'fresh'>),
+    })),
+);
+/** The corpus the reader is tuned and held back on; the fresh set is checked alongside it. */
+const files = allFiles.filter((f) => !f.fresh);
+const freshFiles = allFiles.filter((f) => f.fresh);
 
 /** The local calendar date of an instant in a time zone. */
 function localDate(instant: string, timeZone: string): string {
@@ -98,7 +110,13 @@ beforeAll(async () => {
   con = await db.connect();
   const demo = await demoFixture();
   let attached = false;
-  for (const file of files) {
+  const byDataset = new Map<string, DataFacts>();
+  for (const file of allFiles) {
+    const known = byDataset.get(`${file.config}\u0000${file.dataset}`);
+    if (known) {
+      facts.set(file.name, known);
+      continue;
+    }
     const config = loadConfig(join(ROOT, file.config));
     const dataset = config.datasets.find((d) => d.name === file.dataset)!;
     expect(dataset, `${file.name}: dataset ${file.dataset} is in ${file.config}`).toBeDefined();
@@ -123,7 +141,9 @@ beforeAll(async () => {
       const rows = (await con.runAndReadAll(`SELECT DISTINCT CAST("${dim.column}" AS VARCHAR) AS v FROM ${from} WHERE "${dim.column}" IS NOT NULL`)).getRowObjectsJson();
       values.set(dim.name, new Set(rows.map((r) => String(r.v))));
     }
-    facts.set(file.name, { dataset, first: String(range!.lo), last: String(range!.hi), values });
+    const found = { dataset, first: String(range!.lo), last: String(range!.hi), values };
+    byDataset.set(`${file.config}\u0000${file.dataset}`, found);
+    facts.set(file.name, found);
   }
 });
 
@@ -143,11 +163,21 @@ describe('the reading corpus', () => {
     expect(files.length).toBeGreaterThanOrEqual(3);
   });
 
+  it('holds a fresh set of 150 requests over the same three datasets, every one split fresh, ids unique across both sets', () => {
+    const fresh = freshFiles.flatMap((f) => f.requests);
+    expect(fresh.length).toBe(150);
+    expect(freshFiles.find((f) => f.dataset === 'bookings')!.requests.length).toBe(90);
+    expect(new Set(freshFiles.map((f) => f.dataset))).toEqual(new Set(files.map((f) => f.dataset)));
+    for (const r of fresh) expect(r.split, r.id).toBe('fresh');
+    const ids = allFiles.flatMap((f) => f.requests.map((r) => r.id));
+    expect(new Set(ids).size).toBe(ids.length);
+  });
+
   it.each(files.map((f) => [f.name, f] as const))('%s: every fifth request, and only those, is held back', (_name, file) => {
     file.requests.forEach((r, i) => expect(r.split, r.id).toBe(i % 5 === 4 ? 'held' : 'tune'));
   });
 
-  it.each(files.map((f) => [f.name, f] as const))('%s: every request carries every slot, in its enumerations', (_name, file) => {
+  it.each(allFiles.map((f) => [f.name, f] as const))('%s: every request carries every slot, in its enumerations', (_name, file) => {
     expect(Number.isNaN(Date.parse(file.now))).toBe(false);
     for (const r of file.requests) {
       expect(Object.keys(r.expect).sort(), r.id).toEqual([...SLOTS].sort());
@@ -168,7 +198,7 @@ describe('the reading corpus', () => {
     }
   });
 
-  it.each(files.map((f) => [f.name, f] as const))('%s: names only catalog terms and values the data holds; never a personal column', (name, file) => {
+  it.each(allFiles.map((f) => [f.name, f] as const))('%s: names only catalog terms and values the data holds; never a personal column', (name, file) => {
     const { dataset, values } = facts.get(name)!;
     const metrics = new Set(dataset.metrics.map((m) => m.name));
     const personal = new Set(dataset.dimensions.filter((d) => d.personal_data).map((d) => d.name));
@@ -193,7 +223,7 @@ describe('the reading corpus', () => {
     }
   });
 
-  it.each(files.map((f) => [f.name, f] as const))('%s: windows lie inside the data, comparisons come before their window', (name, file) => {
+  it.each(allFiles.map((f) => [f.name, f] as const))('%s: windows lie inside the data, comparisons come before their window', (name, file) => {
     const { first, last } = facts.get(name)!;
     for (const r of file.requests) {
       for (const w of [r.expect.window, r.expect.compareWindow]) {
@@ -207,7 +237,7 @@ describe('the reading corpus', () => {
     }
   });
 
-  it.each(files.map((f) => [f.name, f] as const))('%s: a stated ISO week runs Monday to Sunday of that week', (name, file) => {
+  it.each(allFiles.map((f) => [f.name, f] as const))('%s: a stated ISO week runs Monday to Sunday of that week', (name, file) => {
     for (const r of file.requests) {
       const m = /week (\d{1,2}) of (\d{4})|(\d{4})-W(\d{2})/i.exec(r.text);
       if (!m) continue;
@@ -218,7 +248,7 @@ describe('the reading corpus', () => {
     }
   });
 
-  it.each(files.map((f) => [f.name, f] as const))('%s: a deadline is never before the request\'s own day, and a named weekday is that weekday', (name, file) => {
+  it.each(allFiles.map((f) => [f.name, f] as const))('%s: a deadline is never before the request\'s own day, and a named weekday is that weekday', (name, file) => {
     const zone = facts.get(name)!.dataset.timezone;
     for (const r of file.requests) {
       const d = r.expect.deadline;
