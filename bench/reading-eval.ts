@@ -30,17 +30,19 @@ const expectSchema = z.object({
   deadline: isoDate.nullable(),
   unknownTerms: z.array(z.string()),
 });
-const requestSchema = z.object({ id: z.string(), split: z.enum(['tune', 'held']), now: z.string().optional(), text: z.string(), expect: expectSchema, note: z.string().optional() });
+const requestSchema = z.object({ id: z.string(), split: z.enum(['tune', 'held', 'fresh']), now: z.string().optional(), text: z.string(), expect: expectSchema, note: z.string().optional() });
 const fileSchema = z.object({ dataset: z.string(), config: z.string(), now: z.string(), requests: z.array(requestSchema) });
 
 export type CorpusRequest = z.infer<typeof requestSchema> & { dataset: string; config: string; now: string };
 export type Expected = z.infer<typeof expectSchema>;
 
 export const CORPUS_DIR = 'test/reading/corpus';
+/** Requests written apart from the corpus and the reader, never used to tune it (split `fresh`). */
+export const FRESH_DIR = 'test/reading/corpus-fresh';
 
-/** Every labelled request, with its file's dataset, config and clock. */
-export function loadCorpus(root: string): CorpusRequest[] {
-  const dir = join(root, CORPUS_DIR);
+/** Every labelled request of a corpus folder, with its file's dataset, config and clock. */
+export function loadCorpus(root: string, folder: string = CORPUS_DIR): CorpusRequest[] {
+  const dir = join(root, folder);
   const out: CorpusRequest[] = [];
   for (const name of readdirSync(dir).filter((n) => n.endsWith('.yaml')).sort()) {
     const file = fileSchema.parse(parse(readFileSync(join(dir, name), 'utf8')));
@@ -147,6 +149,7 @@ export function readingReport(report: EvalReport): string {
   const all = accuracy(report.results);
   const held = accuracy(report.results.filter((r) => r.request.split === 'held'));
   const tune = accuracy(report.results.filter((r) => r.request.split === 'tune'));
+  const fresh = accuracy(report.results.filter((r) => r.request.split === 'fresh'));
   const datasets = [...new Set(report.results.map((r) => r.request.dataset))];
   const sorted = [...report.timings].sort((a, b) => a - b);
   const median = sorted.length ? sorted[Math.floor(sorted.length / 2)]! : 0;
@@ -155,12 +158,14 @@ export function readingReport(report: EvalReport): string {
     '',
     'Written by `npm run eval:reading`. The corpus (`test/reading/corpus/`) holds requests labelled by hand with the brief they should give, following docs/reading.md; each is read by the same reader the bot and `threadcount read` use, over its dataset\'s real data (coverage and values). A fifth of the corpus (`split: held`) was kept out while the reader was tuned and is reported on its own. A slot is right when it equals the label exactly (sets compared as sets; windows date for date).',
     '',
-    `Requests: ${all.requests} (${tune.requests} tuned on, ${held.requests} held back), on ${datasets.length} datasets (${datasets.join(', ')}). Reading one request took ${median.toFixed(2)} ms at the median in this run (facts already loaded; see BENCHMARKS.md for the measured benchmark).`,
+    'The fresh set (`test/reading/corpus-fresh/`, `split: fresh`) was written apart from the corpus and from the reader\'s code, and landed after the reader: its figures are the reader meeting requests it was never tuned on. Be warned that the held-back fifth is no longer fully clean: its misses were read during a later round of work on the reader.',
     '',
-    '| slot | all | tuned on | held back |',
-    '| --- | --- | --- | --- |',
-    ...SLOTS.map((s) => `| ${s} | ${pct(all.perSlot[s])} | ${pct(tune.perSlot[s])} | ${pct(held.perSlot[s])} |`),
-    `| **whole request** (every slot right) | ${pct(all.wholeRequest)} | ${pct(tune.wholeRequest)} | ${pct(held.wholeRequest)} |`,
+    `Requests: ${all.requests} (${tune.requests} tuned on, ${held.requests} held back, ${fresh.requests} fresh), on ${datasets.length} datasets (${datasets.join(', ')}). Reading one request took ${median.toFixed(2)} ms at the median in this run (facts already loaded; see BENCHMARKS.md for the measured benchmark).`,
+    '',
+    '| slot | all | tuned on | held back | fresh |',
+    '| --- | --- | --- | --- | --- |',
+    ...SLOTS.map((s) => `| ${s} | ${pct(all.perSlot[s])} | ${pct(tune.perSlot[s])} | ${pct(held.perSlot[s])} | ${pct(fresh.perSlot[s])} |`),
+    `| **whole request** (every slot right) | ${pct(all.wholeRequest)} | ${pct(tune.wholeRequest)} | ${pct(held.wholeRequest)} | ${pct(fresh.wholeRequest)} |`,
     '',
     '## By dataset',
     '',
