@@ -11,8 +11,8 @@ export class PortRouter implements ThreadPort {
     return this.route(threadId).post(threadId, post, session);
   }
 
-  update(threadId: string, ref: string, text: string): Promise<void> {
-    return this.route(threadId).update(threadId, ref, text);
+  update(threadId: string, ref: string, text: string, post?: Omit<OutgoingPost, 'key' | 'files'>): Promise<void> {
+    return post ? this.route(threadId).update(threadId, ref, text, post) : this.route(threadId).update(threadId, ref, text);
   }
 
   private route(threadId: string): ChatAdapter {

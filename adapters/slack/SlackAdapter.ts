@@ -7,10 +7,11 @@ import type { webApi } from '@slack/bolt';
 import type { Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import type { OutgoingPost } from '../../bot/port.js';
+import { controlReplyLabel, dateReply, dayInWords, joinChoices } from '../post-view.js';
 import type { SlackEnvironment } from '../../config/environment.js';
 import type { ChatAdapter, Deliver, KnownThread } from '../chat-adapter.js';
 import { SeenIds } from '../SeenIds.js';
-import { ACTION_PATTERN, answeredBlocks, slackMessage } from './slack-blocks.js';
+import { ACTION, ACTION_PATTERN, answeredBlocks, readCardBlockId, slackMessage } from './slack-blocks.js';
 import { clip, SLACK_LIMITS } from './slack-limits.js';
 import { slackLogger } from './slack-logger.js';
 import { fromSlackText, toMrkdwn } from './slack-text.js';
@@ -114,9 +115,15 @@ export class SlackAdapter implements ChatAdapter {
     return sent.ts;
   }
 
-  async update(threadId: string, ref: string, text: string): Promise<void> {
+  async update(threadId: string, ref: string, text: string, post?: Omit<OutgoingPost, 'key' | 'files'>): Promise<void> {
     const { channel } = parseThreadId(threadId);
-    await this.app.client.chat.update({ channel, ts: ref, text: clip(toMrkdwn(text), SLACK_LIMITS.messageText) });
+    if (!post) {
+      await this.app.client.chat.update({ channel, ts: ref, text: clip(toMrkdwn(text), SLACK_LIMITS.messageText) });
+      return;
+    }
+    // The whole message: a post without blocks leaves none (an empty list clears the old ones).
+    const message = slackMessage({ ...post, text });
+    await this.app.client.chat.update({ channel, ts: ref, text: message.text, blocks: (message.blocks ?? []) as types.KnownBlock[] });
   }
 
   private listen(): void {
@@ -145,18 +152,21 @@ export class SlackAdapter implements ChatAdapter {
       this.opts.deliver({ threadId, author: message.user, text, channel: slackChannelKey(message.channel) });
     });
 
-    // A click on a prompt's button, select or datepicker is delivered as the option's value.
+    // A click on a prompt's button, select or datepicker, or on a card's control, is delivered as
+    // the value it stands for, with the label the requester chose.
     this.app.action<BlockAction>(ACTION_PATTERN, async ({ ack, body, action }) => {
       await ack();
       const message = body.message;
       const channel = body.channel?.id;
       if (!message || !channel) return;
-      const chosen = readAction(action);
+      const chosen = readAction(action, body);
       if (!chosen) return;
       const threadTs = (message.thread_ts as string | undefined) ?? (message.ts as string);
-      this.opts.deliver({ threadId: slackThreadId(channel, threadTs), author: body.user.id, text: chosen.value, channel: slackChannelKey(channel) });
+      this.opts.deliver({ threadId: slackThreadId(channel, threadTs), author: body.user.id, text: chosen.value, label: chosen.label, channel: slackChannelKey(channel) });
+      // The card keeps its controls: the bot edits it in place with what changed.
+      if (chosen.card) return;
       try {
-        // The choices give way to who chose what, so a second click cannot answer twice.
+        // A prompt's choices give way to who chose what, so a second click cannot answer twice.
         await this.app.client.chat.update({
           channel,
           ts: message.ts as string,
@@ -178,17 +188,52 @@ export class SlackAdapter implements ChatAdapter {
   }
 }
 
-function readAction(action: BlockAction['actions'][number]): { value: string; label: string } | null {
+interface Chosen {
+  value: string;
+  label: string;
+  /** From the brief card, whose controls stay. */
+  card: boolean;
+}
+
+type SlackOptionPayload = { value: string; text: { text: string } };
+
+/** What a click stands for, or null for one that sends nothing (a change in a multi-select). */
+export function readAction(action: BlockAction['actions'][number], body: Pick<BlockAction, 'state' | 'message'>): Chosen | null {
+  const id = action.action_id;
+  const card = readCardBlockId(action.block_id);
+  if (card) {
+    if (action.type === 'static_select') return { value: action.selected_option.value, label: controlReplyLabel(card.label, action.selected_option.text.text), card: true };
+    if (action.type === 'datepicker' && action.selected_date) {
+      return { value: dateReply({ topic: id.slice(ACTION.cardDate.length), label: card.label, kind: 'date', choices: [], ...(card.sends ? { sends: card.sends } : {}) }, action.selected_date), label: controlReplyLabel(card.label, dayInWords(action.selected_date)), card: true };
+    }
+    return null;
+  }
   switch (action.type) {
     case 'button':
-      return action.value ? { value: action.value, label: action.text.text } : null;
+      if (id === ACTION.send) return several(body);
+      return action.value ? { value: action.value, label: action.text.text, card: id.startsWith(ACTION.cardQuick) } : null;
     case 'static_select':
-      return { value: action.selected_option.value, label: action.selected_option.text.text };
+      return { value: action.selected_option.value, label: action.selected_option.text.text, card: false };
     case 'datepicker':
-      return action.selected_date ? { value: action.selected_date, label: action.selected_date } : null;
+      return action.selected_date ? { value: action.selected_date, label: dayInWords(action.selected_date), card: false } : null;
     default:
       return null;
   }
+}
+
+/** "Send selected": what the multi-select holds now (Slack sends the message's input state with a click), else what it started with. */
+function several(body: Pick<BlockAction, 'state' | 'message'>): Chosen | null {
+  let picked: SlackOptionPayload[] | undefined;
+  for (const block of Object.values(body.state?.values ?? {})) {
+    const el = (block as Record<string, { type?: string; selected_options?: SlackOptionPayload[] }>)[ACTION.multi];
+    if (el?.selected_options) picked = el.selected_options;
+  }
+  if (!picked) {
+    const blocks = (body.message?.blocks as { elements?: { action_id?: string; initial_options?: SlackOptionPayload[] }[] }[] | undefined) ?? [];
+    picked = blocks.flatMap((b) => b.elements ?? []).find((e) => e.action_id === ACTION.multi)?.initial_options;
+  }
+  if (!picked?.length) return null;
+  return { value: joinChoices(picked.map((o) => o.value)), label: picked.map((o) => o.text.text).join(', '), card: false };
 }
 
 function parseThreadId(threadId: string): { channel: string; threadTs: string } {

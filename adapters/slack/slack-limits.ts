@@ -1,6 +1,7 @@
 // Slack's limits on what we send, stated once and checked with zod before anything is posted
 // (Block Kit reference: a section's text up to 3000 characters, a button's text 75 and value
-// 2000, up to 25 elements in an actions block, up to 100 options in a static select, 50 blocks).
+// 2000, up to 25 elements in an actions block, up to 100 options in a static select, 50 blocks,
+// a block_id or action_id up to 255).
 import { z } from 'zod';
 
 export const SLACK_LIMITS = {
@@ -10,6 +11,7 @@ export const SLACK_LIMITS = {
   buttonText: 75,
   buttonValue: 2_000,
   actionId: 255,
+  blockId: 255,
   actionsElements: 25,
   selectOptions: 100,
   optionText: 75,
@@ -34,17 +36,38 @@ const button = z
   })
   .strict();
 const staticSelect = z
-  .object({ type: z.literal('static_select'), action_id: actionId, placeholder: plain(L.placeholder), options: z.array(option).min(1).max(L.selectOptions) })
+  .object({
+    type: z.literal('static_select'),
+    action_id: actionId,
+    placeholder: plain(L.placeholder),
+    options: z.array(option).min(1).max(L.selectOptions),
+    initial_option: option.optional(),
+  })
   .strict();
-const datepicker = z.object({ type: z.literal('datepicker'), action_id: actionId, placeholder: plain(L.placeholder) }).strict();
+const multiSelect = z
+  .object({
+    type: z.literal('multi_static_select'),
+    action_id: actionId,
+    placeholder: plain(L.placeholder),
+    options: z.array(option).min(1).max(L.selectOptions),
+    initial_options: z.array(option).min(1).max(L.selectOptions).optional(),
+  })
+  .strict();
+const datepicker = z
+  .object({ type: z.literal('datepicker'), action_id: actionId, placeholder: plain(L.placeholder), initial_date: z.string().regex(/^\d{4}-\d{2}-\d{2}$/).optional() })
+  .strict();
+const blockId = z.string().min(1).max(L.blockId);
 
 export const blockSchema = z.discriminatedUnion('type', [
-  z.object({ type: z.literal('section'), text: mrkdwn(L.sectionText) }).strict(),
-  z.object({ type: z.literal('actions'), block_id: z.string().max(255).optional(), elements: z.array(z.union([button, staticSelect, datepicker])).min(1).max(L.actionsElements) }).strict(),
+  z
+    .object({ type: z.literal('section'), block_id: blockId.optional(), text: mrkdwn(L.sectionText), accessory: z.union([staticSelect, datepicker]).optional() })
+    .strict(),
+  z.object({ type: z.literal('actions'), block_id: blockId.optional(), elements: z.array(z.union([button, staticSelect, multiSelect, datepicker])).min(1).max(L.actionsElements) }).strict(),
   z.object({ type: z.literal('context'), elements: z.array(mrkdwn(L.contextText)).min(1).max(10) }).strict(),
 ]);
 export type SlackBlock = z.infer<typeof blockSchema>;
 export type SlackButton = z.infer<typeof button>;
+export type SlackOption = z.infer<typeof option>;
 export type SlackElement = SlackBlock extends infer B ? (B extends { type: 'actions'; elements: (infer E)[] } ? E : never) : never;
 
 export const messageSchema = z

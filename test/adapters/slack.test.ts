@@ -7,6 +7,7 @@ import nock from 'nock';
 import pLimit from 'p-limit';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { slackMessage } from '../../adapters/slack/slack-blocks.js';
+import { toMrkdwn } from '../../adapters/slack/slack-text.js';
 import { SlackAdapter } from '../../adapters/slack/SlackAdapter.js';
 import { ThreadInbox } from '../../adapters/ThreadInbox.js';
 import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
@@ -15,6 +16,7 @@ import type { IncomingMessage } from '../../bot/port.js';
 import { presentAnswer, presentSummary } from '../../bot/present-answer.js';
 import { MemoryStateStore } from '../../bot/stores/MemoryStateStore.js';
 import { loadConfig } from '../../config/load.js';
+import { agreedCardPost, briefCardPost, CARD_TEXT, correctedCardPost } from '../helpers/brief-card-post.js';
 import { demoFixture } from '../helpers/demo-fixture.js';
 import { waitFor } from '../helpers/wait-for.js';
 
@@ -141,7 +143,7 @@ function eventBody(event: Record<string, unknown>, eventId = `Ev${String(++event
   });
 }
 
-function actionBody(post: ApiCall, ts: string, action: Record<string, unknown>): string {
+function actionBody(post: ApiCall, ts: string, action: Record<string, unknown>, state?: Record<string, unknown>): string {
   const payload = {
     type: 'block_actions',
     team: { id: 'T1', domain: 'skerrywake' },
@@ -154,6 +156,7 @@ function actionBody(post: ApiCall, ts: string, action: Record<string, unknown>):
     message: { type: 'message', ts, thread_ts: REQUEST_TS, text: post.params.text, blocks: post.params.blocks, user: 'UBOT', bot_id: 'BBOT' },
     response_url: 'https://hooks.slack.com/actions/T1/1/abc',
     actions: [{ block_id: 'tc.prompt', action_ts: '1764579800.000001', ...action }],
+    ...(state ? { state: { values: state } } : {}),
   };
   return new URLSearchParams({ payload: JSON.stringify(payload) }).toString();
 }
@@ -211,19 +214,34 @@ describe('Slack adapter', () => {
       }
       expect(blocks[0]).toMatchObject({ type: 'section', text: { type: 'mrkdwn' } });
       expect(blocks.at(-1)).toMatchObject({ type: 'context' });
-      expect(buttons.at(-1)).toMatchObject({ action_id: 'tc.recommended', text: { text: 'Use recommended' } });
-      expect(buttons.slice(0, -1).every((b, i) => b.action_id === `tc.option.${i}`)).toBe(true);
+      // The recommendation is shown once: one primary button, no "Use recommended" beside it (issue 17 item 3).
+      const primary = buttons.filter((b) => (b as { style?: string }).style === 'primary');
+      expect(primary).toHaveLength(1);
+      expect(buttons.map((b) => b.text!.text)).not.toContain('Use recommended');
+      expect(new Set(buttons.map((b) => b.value)).size).toBe(buttons.length);
+      const recommended = primary[0]!;
+      expect(JSON.stringify(blocks.at(-1))).toContain('Recommended: *');
       const updatesBefore = calls.filter((c) => c.method === 'chat.update').length;
       const datepicker = actions.elements!.find((e) => e.type === 'datepicker');
       const action = datepicker
         ? { type: 'datepicker', action_id: 'tc.date', selected_date: '2026-12-15' }
-        : { type: 'button', action_id: 'tc.recommended', value: buttons.at(-1)!.value, text: { type: 'plain_text', text: 'Use recommended' } };
+        : { type: 'button', action_id: recommended.action_id, value: recommended.value, text: { type: 'plain_text', text: recommended.text!.text } };
+      const deliveredBefore = delivered.length;
       const clicked = await send(actionBody(post, ts, action), 'application/x-www-form-urlencoded');
       expect(clicked.status).toBe(200);
       // The prompt is marked answered in place: its buttons give way to who chose what.
       const marked = await waitFor('the prompt marked answered', () => calls.filter((c) => c.method === 'chat.update').slice(updatesBefore).find((c) => c.params.ts === ts));
       expect((marked.params.blocks as Block[]).some((b) => b.type === 'actions')).toBe(false);
       expect(JSON.stringify(marked.params.blocks)).toContain('<@UMAREN> chose');
+      // The click is delivered as the value, with the label the requester saw (issue 17 item 4).
+      const click = delivered[deliveredBefore]!;
+      if (datepicker) {
+        expect(click).toMatchObject({ text: '2026-12-15', label: 'Tue 15 Dec 2026' });
+        expect(JSON.stringify(marked.params.blocks)).toContain('chose *Tue 15 Dec 2026*');
+      } else {
+        expect(click).toMatchObject({ text: recommended.value, label: recommended.text!.text });
+        expect(JSON.stringify(marked.params.blocks)).toContain(`chose *${recommended.text!.text}*`);
+      }
       if (datepicker) seen.add('deadline');
     }
     expect(seen.has('deadline')).toBe(true);
@@ -315,15 +333,116 @@ describe('Slack adapter', () => {
     expect(slackMessage({ key: 'k', text: 'caption', monospace: [wide] }).blocks).toBeUndefined();
   });
 
-  it('uses a select beyond five options, within Slack\'s limits', () => {
+  it('offers several choices as a multi-select with the recommendation picked, and one click sends it', async () => {
     const options = ['route', 'channel', 'fare_class', 'pass', 'season', 'island', 'none'].map((v) => ({ value: v, label: `By ${v}` }));
-    const message = slackMessage({
-      key: 'k',
-      text: 'Which breakdown?',
-      prompt: { topic: 'dimensions', question: 'Which breakdown?', options, recommended: { value: 'route', label: 'By route', reason: 'first' }, many: true },
-    });
+    const prompt = { topic: 'dimensions' as const, question: 'Which breakdown should explain the change?', options, recommended: { value: 'route', label: 'By route', reason: 'first' }, many: true };
+    const message = slackMessage({ key: 'k', text: 'Which breakdown?', prompt });
     const actions = message.blocks!.find((b) => b.type === 'actions')!;
-    expect(actions.type === 'actions' && actions.elements.map((e) => e.type)).toEqual(['static_select', 'button']);
+    if (actions.type !== 'actions') throw new Error('no actions block');
+    expect(actions.elements.map((e) => e.type)).toEqual(['multi_static_select', 'button']);
+    const multi = actions.elements[0]!;
+    expect(multi.type === 'multi_static_select' && multi.initial_options).toEqual([{ text: { type: 'plain_text', text: 'By route' }, value: 'route' }]);
+    expect(actions.elements[1]).toMatchObject({ action_id: 'tc.send', style: 'primary', text: { text: 'Send selected' } });
+    // One select of one option beyond five: the select, and the recommendation once, as a button.
+    const single = slackMessage({ key: 'k', text: 'x', prompt: { ...prompt, many: false } }).blocks!.find((b) => b.type === 'actions')!;
+    expect(single.type === 'actions' && single.elements.map((e) => [e.type, e.type === 'button' ? e.text.text : ''])).toEqual([['static_select', ''], ['button', 'By route']]);
     expect(() => slackMessage({ key: 'k', text: 'x'.repeat(40_001) })).not.toThrow();
+
+    // Posted and clicked: "Send selected" sends what the select holds (Slack sends its state with the click) ...
+    const threadId = `slack:${CHANNEL}:${REQUEST_TS}`;
+    const ts = await adapter.post(threadId, { key: 'several', text: 'Which breakdown?', prompt });
+    const post = posts().at(-1)!;
+    const before = delivered.length;
+    const picked = { selected_options: [{ value: 'route', text: { type: 'plain_text', text: 'By route' } }, { value: 'channel', text: { type: 'plain_text', text: 'By channel' } }] };
+    await send(actionBody(post, ts, { type: 'button', action_id: 'tc.send', value: 'selected', text: { type: 'plain_text', text: 'Send selected' } }, { 'tc.prompt': { 'tc.multi': { type: 'multi_static_select', ...picked } } }), 'application/x-www-form-urlencoded');
+    await waitFor('the several delivered', () => delivered[before]);
+    expect(delivered[before]).toMatchObject({ text: 'route, channel', label: 'By route, By channel' });
+    // ... and with nothing touched, the recommendation: one click.
+    await send(actionBody(post, ts, { type: 'button', action_id: 'tc.send', value: 'selected', text: { type: 'plain_text', text: 'Send selected' } }), 'application/x-www-form-urlencoded');
+    await waitFor('the recommendation delivered', () => delivered[before + 1]);
+    expect(delivered[before + 1]).toMatchObject({ text: 'route', label: 'By route' });
+    // A change in the multi-select itself sends nothing.
+    await send(actionBody(post, ts, { type: 'multi_static_select', action_id: 'tc.multi', ...picked }), 'application/x-www-form-urlencoded');
+    await new Promise((r) => setTimeout(r, 100));
+    expect(delivered).toHaveLength(before + 2);
+  });
+
+  it('shows the brief card whole, with a control per topic showing the choice in force, and Go and Cancel', () => {
+    const card = briefCardPost();
+    expect(card.text.length).toBeGreaterThan(3000);
+    const message = slackMessage(card);
+    const blocks = message.blocks!;
+    const text = blocks.filter((b) => b.type === 'section' && !b.accessory).map((b) => (b.type === 'section' ? b.text.text : ''));
+    // The wording survives: split into sections at line ends, nothing clipped, escaped for mrkdwn.
+    expect(text.length).toBeGreaterThan(1);
+    expect(text.join('\n')).toBe(toMrkdwn(CARD_TEXT));
+    expect(text.join('\n')).toContain('16. A period table of revenue, bookings and passengers month by month');
+    expect(text.join('\n')).toContain('cancellations by route &amp; month &lt;all of them');
+    const controls = blocks.filter((b) => b.type === 'section' && b.accessory);
+    expect(controls.map((b) => b.type === 'section' && b.text.text)).toEqual(['*Audience*', '*Deadline*', '*Grain*', '*Period*', '*Breakdowns*']);
+    const accessory = (topic: string) => controls.map((b) => (b.type === 'section' ? b.accessory! : null)).find((a) => a!.action_id.endsWith(`.${topic}`))!;
+    expect(accessory('audience')).toMatchObject({ type: 'static_select', initial_option: { value: 'for managers', text: { text: 'Managers (plain words with the detail)' } } });
+    expect(accessory('grain')).toMatchObject({ type: 'static_select', initial_option: { value: 'monthly', text: { text: 'Monthly' } } });
+    expect(accessory('breakdowns')).toMatchObject({ initial_option: { value: 'by route' } });
+    // A current value that is none of the choices leaves the select unset rather than wrong.
+    expect(accessory('period')).not.toHaveProperty('initial_option');
+    expect(accessory('deadline')).toMatchObject({ type: 'datepicker', initial_date: '2026-12-10' });
+    const last = blocks.at(-1)!;
+    expect(last.type === 'actions' && last.elements.map((e) => (e.type === 'button' ? [e.text.text, e.value, e.style ?? ''] : []))).toEqual([
+      ['Go: run the plan', 'go', 'primary'],
+      ['Cancel', 'cancel', ''],
+    ]);
+  });
+
+  it('delivers a card click as its value with the chosen label, and keeps the card\'s controls', async () => {
+    const threadId = `slack:${CHANNEL}:${REQUEST_TS}`;
+    const ts = await adapter.post(threadId, briefCardPost('card-click'));
+    const post = posts().at(-1)!;
+    const blocks = post.params.blocks as { block_id?: string; accessory?: { action_id: string } }[];
+    const blockOf = (topic: string) => blocks.find((b) => b.accessory?.action_id.endsWith(`.${topic}`))!;
+    const updatesBefore = calls.filter((c) => c.method === 'chat.update').length;
+    const before = delivered.length;
+    const click = async (action: Record<string, unknown>) => {
+      const n = delivered.length;
+      expect((await send(actionBody(post, ts, action), 'application/x-www-form-urlencoded')).status).toBe(200);
+      return waitFor('the click delivered', () => delivered[n]);
+    };
+    const grain = blockOf('grain');
+    expect(await click({ type: 'static_select', block_id: grain.block_id, action_id: grain.accessory!.action_id, selected_option: { value: 'weekly', text: { type: 'plain_text', text: 'Weekly' } } })).toMatchObject({
+      threadId,
+      author: 'UMAREN',
+      text: 'weekly',
+      label: 'Grain: Weekly',
+    });
+    const deadline = blockOf('deadline');
+    expect(await click({ type: 'datepicker', block_id: deadline.block_id, action_id: deadline.accessory!.action_id, selected_date: '2026-12-18' })).toMatchObject({ text: 'deadline 2026-12-18', label: 'Deadline: Fri 18 Dec 2026' });
+    expect(await click({ type: 'button', block_id: 'tc.card.quick', action_id: 'tc.card.q.0', value: 'go', text: { type: 'plain_text', text: 'Go: run the plan' } })).toMatchObject({ text: 'go', label: 'Go: run the plan' });
+    expect(delivered).toHaveLength(before + 3);
+    // Unlike a prompt's, the card's controls are not taken away: the bot edits the card itself.
+    await new Promise((r) => setTimeout(r, 100));
+    expect(calls.filter((c) => c.method === 'chat.update').slice(updatesBefore)).toEqual([]);
+  });
+
+  it('replaces the whole card in place on an edit with a post, and leaves no controls once agreed', async () => {
+    const threadId = `slack:${CHANNEL}:${REQUEST_TS}`;
+    const ts = await adapter.post(threadId, briefCardPost('card-edit'));
+    const postsBefore = posts().length;
+    const corrected = correctedCardPost();
+    await adapter.update(threadId, ts, corrected.text, corrected);
+    const edit = calls.filter((c) => c.method === 'chat.update').at(-1)!;
+    expect(edit.params).toMatchObject({ channel: CHANNEL, ts });
+    const blocks = edit.params.blocks as { type: string; text?: { text: string }; accessory?: { action_id: string; initial_option?: { value: string } } }[];
+    expect(blocks.find((b) => b.accessory?.action_id.endsWith('.grain'))!.accessory!.initial_option!.value).toBe('weekly');
+    expect(blocks.filter((b) => b.type === 'section' && !b.accessory).map((b) => b.text!.text).join('\n')).toContain('*Grain:* weekly (you changed it)');
+    const agreed = agreedCardPost();
+    await adapter.update(threadId, ts, agreed.text, agreed);
+    const inert = calls.filter((c) => c.method === 'chat.update').at(-1)!;
+    expect(inert.params.ts).toBe(ts);
+    const inertBlocks = inert.params.blocks as { type: string; accessory?: unknown }[];
+    // An edit with a post carries blocks (even none), so Slack drops the old controls.
+    expect(inertBlocks.every((b) => b.type === 'section' && !b.accessory)).toBe(true);
+    expect(String(inert.params.text)).toMatch(/Agreed: running the plan\.$/);
+    // Never re-posted as a new message.
+    expect(posts()).toHaveLength(postsBefore);
   });
 });
