@@ -14,9 +14,11 @@ import {
   type SendableChannels,
 } from 'discord.js';
 import type { OutgoingPost } from '../../bot/port.js';
+import { chunks } from '../text-chunks.js';
 import type { ChatAdapter, Deliver, KnownThread } from '../chat-adapter.js';
 import { SeenIds } from '../SeenIds.js';
-import { discordMessage, readCustomId } from './discord-components.js';
+import { discordMessages, isCardCustomId, readCustomId } from './discord-components.js';
+import type { DiscordMessage } from './discord-limits.js';
 import { clip, DISCORD_LIMITS } from './discord-limits.js';
 import { fromDiscordText, toDiscordMarkdown } from './discord-text.js';
 
@@ -29,6 +31,8 @@ export interface DiscordAdapterOptions {
   log?: (line: string) => void;
   /** The REST API base (tests point it at a local fake); default Discord's own. */
   restApi?: string;
+  /** The clock for a date control's choices (tests fix it). */
+  now?: () => Date;
 }
 
 /** "discord:<thread channel id>" */
@@ -76,9 +80,13 @@ export class DiscordAdapter implements ChatAdapter {
     await this.client.destroy();
   }
 
+  /**
+   * Posts the text in as many messages as it needs, the components and files with the last. The
+   * reference is the messages' ids joined by commas, so an edit reaches every part.
+   */
   async post(threadId: string, post: OutgoingPost): Promise<string> {
     const channel = await this.channel(threadId);
-    const message = discordMessage(post);
+    const messages = discordMessages(post, this.dates());
     const title = (post.text.split('\n')[0] ?? '').replace(/[*_]/g, '');
     const files = (post.files ?? []).map((f) => ({
       attachment: typeof f.content === 'string' ? Buffer.from(f.content, 'utf8') : f.content,
@@ -86,19 +94,44 @@ export class DiscordAdapter implements ChatAdapter {
       // A chart's description is its alt text for screen readers.
       ...(f.kind === 'chart' ? { description: clip(`Chart: ${title}`, DISCORD_LIMITS.attachmentDescription) } : {}),
     }));
-    // Ten attachments at most per message; any more follow in messages of their own.
-    const first = files.slice(0, DISCORD_LIMITS.attachments);
-    const sent = await channel.send({ content: message.content, components: message.components, files: first, allowedMentions: { parse: [] } } as MessageCreateOptions);
+    const ids: string[] = [];
+    for (const [i, message] of messages.entries()) {
+      // Ten attachments at most per message; any more follow in messages of their own.
+      const withFiles = i === messages.length - 1 ? files.slice(0, DISCORD_LIMITS.attachments) : [];
+      const sent = await channel.send({ content: message.content, components: message.components, files: withFiles, allowedMentions: { parse: [] } } as MessageCreateOptions);
+      ids.push(sent.id);
+    }
     for (let i = DISCORD_LIMITS.attachments; i < files.length; i += DISCORD_LIMITS.attachments) {
       await channel.send({ files: files.slice(i, i + DISCORD_LIMITS.attachments) });
     }
-    return sent.id;
+    return ids.join(',');
   }
 
-  async update(threadId: string, ref: string, text: string): Promise<void> {
+  /**
+   * Edits a message posted earlier, every part of it: the text only, or with `post` the whole
+   * (components included; a post without any leaves none). Text that now needs more parts than were
+   * posted is clipped in the last (a card is posted with room to spare); parts no longer needed say so.
+   */
+  async update(threadId: string, ref: string, text: string, post?: Omit<OutgoingPost, 'key' | 'files'>): Promise<void> {
     const channel = await this.channel(threadId);
     if (!('messages' in channel)) throw new Error(`Discord channel ${threadId} has no messages`);
-    await channel.messages.edit(ref, { content: clip(toDiscordMarkdown(text), DISCORD_LIMITS.content) });
+    const ids = ref.split(',');
+    const messages: { content: string; components?: DiscordMessage['components'] }[] = post
+      ? discordMessages({ ...post, text }, this.dates())
+      : chunks(toDiscordMarkdown(text), DISCORD_LIMITS.content).map((content) => ({ content }));
+    const fitted = fit(messages, ids.length);
+    for (const [i, id] of ids.entries()) {
+      const m = fitted[i];
+      const content = m?.content ?? '-# (continued in the message above)';
+      await channel.messages.edit(id, post ? { content, components: m?.components ?? [] } : { content });
+    }
+  }
+
+  private dates(): { today: string } {
+    const now = this.opts.now?.() ?? new Date();
+    // The server's calendar day: the requester's own zone is not known to Discord's API.
+    const local = new Date(now.getTime() - now.getTimezoneOffset() * 60_000);
+    return { today: local.toISOString().slice(0, 10) };
   }
 
   private async onMessage(message: Message): Promise<void> {
@@ -122,18 +155,27 @@ export class DiscordAdapter implements ChatAdapter {
     if (!interaction.isButton() && !interaction.isStringSelectMenu()) return;
     const value = readCustomId(interaction.customId, interaction.isStringSelectMenu() ? interaction.values : []);
     if (value === null || !interaction.channelId) return;
-    // Answer within 3 s: the choices give way to who chose what, so nobody answers twice.
+    // The label the requester chose: the button's, or the chosen options'.
     const label = interaction.isButton()
-      ? (interaction.customId.startsWith('tc:v:') && 'label' in interaction.component && interaction.component.label) || value
+      ? ('label' in interaction.component && interaction.component.label) || value
       : interaction.component.options.filter((o) => interaction.values.includes(o.value)).map((o) => o.label).join(', ') || value;
-    const chosen = `\n-# <@${interaction.user.id}> chose **${clip(label, 200)}**`;
-    await interaction.update({ content: clip(interaction.message.content, DISCORD_LIMITS.content - chosen.length) + chosen, components: [], allowedMentions: { parse: [] } });
+    const chosen = `-# <@${interaction.user.id}> chose **${clip(label, 200)}**`;
+    const card = isCardCustomId(interaction.customId);
+    // Answer within 3 s. A prompt's choices give way to who chose what, so nobody answers twice;
+    // the card keeps its components (the bot edits it with what changed), showing the last choice.
+    const content = interaction.message.content.replace(/\n-# <@\d+> chose \*\*.*\*\*$/, '');
+    await interaction.update({
+      content: `${clip(content, DISCORD_LIMITS.content - chosen.length - 1)}\n${chosen}`,
+      components: card ? interaction.message.components : [],
+      allowedMentions: { parse: [] },
+    });
     const where = interaction.channel;
     const parent = where?.isThread() ? where.parentId : null;
     this.opts.deliver({
       threadId: discordThreadId(interaction.channelId),
       author: interaction.user.id,
       text: value,
+      label,
       channel: discordChannelKey(interaction.guildId, parent ?? interaction.channelId),
     });
   }
@@ -148,4 +190,12 @@ export class DiscordAdapter implements ChatAdapter {
   private fail(what: string, err: unknown): void {
     this.log(`discord: ${what} failed: ${err instanceof Error ? err.message : String(err)}`);
   }
+}
+
+/** `messages` in `n` parts at most: any beyond are joined into the last, its text clipped and at most five rows kept. */
+function fit<T extends { content: string; components?: DiscordMessage['components'] }>(messages: T[], n: number): T[] {
+  if (messages.length <= n) return messages;
+  const rest = messages.slice(n - 1);
+  const components = rest.flatMap((m) => m.components ?? []).slice(-DISCORD_LIMITS.rows);
+  return [...messages.slice(0, n - 1), { ...rest.at(-1)!, content: clip(rest.map((m) => m.content).join('\n'), DISCORD_LIMITS.content), components }];
 }

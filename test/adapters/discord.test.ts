@@ -4,7 +4,8 @@
 import { Status, type Client } from 'discord.js';
 import pLimit from 'p-limit';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { discordMessage } from '../../adapters/discord/discord-components.js';
+import { discordMessage, discordMessages } from '../../adapters/discord/discord-components.js';
+import { toDiscordMarkdown } from '../../adapters/discord/discord-text.js';
 import { DiscordAdapter } from '../../adapters/discord/DiscordAdapter.js';
 import { ThreadInbox } from '../../adapters/ThreadInbox.js';
 import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
@@ -13,6 +14,7 @@ import type { IncomingMessage } from '../../bot/port.js';
 import { presentAnswer, presentSummary } from '../../bot/present-answer.js';
 import { MemoryStateStore } from '../../bot/stores/MemoryStateStore.js';
 import { loadConfig } from '../../config/load.js';
+import { agreedCardPost, briefCardPost, CARD_TEXT, correctedCardPost } from '../helpers/brief-card-post.js';
 import { demoFixture } from '../helpers/demo-fixture.js';
 import { BOT_USER, FakeDiscordApi, type ApiCall } from '../helpers/fake-discord-api.js';
 import { waitFor } from '../helpers/wait-for.js';
@@ -93,6 +95,7 @@ beforeAll(async () => {
   adapter = new DiscordAdapter({
     token: TOKEN,
     restApi,
+    now: () => new Date('2026-12-04T10:00:00Z'),
     deliver: (m) => {
       delivered.push(m);
       inbox.deliver(m);
@@ -147,6 +150,7 @@ afterAll(async () => {
 });
 
 let threadId = '';
+let cardRef = '';
 
 describe('Discord adapter', () => {
   it('opens a thread on the mentioning message and answers in it', async () => {
@@ -176,16 +180,24 @@ describe('Discord adapter', () => {
         break;
       }
       expect(rows).toHaveLength(1);
-      expect(buttons.at(-1)).toMatchObject({ custom_id: expect.stringMatching(/^tc:r:/), label: 'Use recommended', style: 1 });
-      expect(buttons.slice(0, -1).every((b) => b.custom_id.startsWith('tc:v:') && b.style === 2)).toBe(true);
+      // The recommendation is shown once: the one primary button among the options, no "Use recommended".
+      const recommended = buttons.filter((b) => b.style === 1);
+      expect(recommended).toHaveLength(1);
+      expect(recommended[0]!.custom_id).toMatch(/^tc:r:/);
+      expect(buttons.map((b) => b.label)).not.toContain('Use recommended');
+      expect(buttons.filter((b) => b !== recommended[0]).every((b) => b.custom_id.startsWith('tc:v:') && b.style === 2)).toBe(true);
       // The numbered options live in the buttons, not in the text.
       expect(prompt.body.content).not.toMatch(/^1\. /m);
       const callbacks = api.calls.filter((c) => c.path.startsWith('/interactions/')).length;
-      click(threadId, prompt, { custom_id: buttons.at(-1)!.custom_id, component_type: 2 });
+      const before = delivered.length;
+      click(threadId, prompt, { custom_id: recommended[0]!.custom_id, component_type: 2 });
       const callback = await waitFor('the interaction answered', () => api.calls.filter((c) => c.path.startsWith('/interactions/'))[callbacks]);
-      // Type 7 updates the prompt in place: its components go, who chose what is added.
+      // Type 7 updates the prompt in place: its components go, who chose what is added, by its label.
       expect(callback.body).toMatchObject({ type: 7, data: { components: [] } });
-      expect(String((callback.body.data as { content: string }).content)).toContain(`<@${MAREN.id}> chose`);
+      expect(String((callback.body.data as { content: string }).content)).toContain(`<@${MAREN.id}> chose **${recommended[0]!.label}**`);
+      // Delivered as the value, with the label the requester clicked (issue 17 item 4).
+      const delivery = await waitFor('the click delivered', () => delivered[before]);
+      expect(delivery).toMatchObject({ text: recommended[0]!.custom_id.slice('tc:r:'.length), label: recommended[0]!.label });
     }
     await waitFor('the typed go', () => delivered.find((d) => d.text === 'go'));
     expect(delivered.every((d) => d.threadId === `discord:${threadId}`)).toBe(true);
@@ -222,9 +234,13 @@ describe('Discord adapter', () => {
     const select = rows[0]!.components[0]!;
     expect(select).toMatchObject({ type: 3, custom_id: 'tc:select', min_values: 1 });
     expect(select.max_values).toBe(select.options!.length);
-    expect(rows[1]!.components[0]).toMatchObject({ type: 2, label: 'Use recommended' });
+    // One click takes the recommendation: a primary button named by it.
+    expect(rows[1]!.components[0]).toMatchObject({ type: 2, style: 1, custom_id: expect.stringMatching(/^tc:r:/) });
+    expect((rows[1]!.components[0] as unknown as { label: string }).label).not.toBe('Use recommended');
     click(second, prompt, { custom_id: 'tc:select', component_type: 3, values: ['revenue', 'bookings'] });
-    await waitFor('the selection delivered', () => delivered.find((d) => d.threadId === `discord:${second}` && d.text === 'revenue, bookings'));
+    const chosen = await waitFor('the selection delivered', () => delivered.find((d) => d.threadId === `discord:${second}` && d.text === 'revenue, bookings'));
+    const labels = Object.fromEntries(select.options!.map((o) => [o.value, (o as { label?: string }).label]));
+    expect(chosen.label).toBe(`${labels.revenue}, ${labels.bookings}`);
   });
 
   it('ignores messages that do not mention it outside its threads, and its own', async () => {
@@ -245,10 +261,99 @@ describe('Discord adapter', () => {
     expect(discordMessage({ key: 'k', text: 'caption', monospace: [wide] }).content).toBe('caption');
   });
 
-  it('keeps within Discord\'s limits', () => {
-    const long = discordMessage({ key: 'k', text: 'x'.repeat(5000) });
-    expect(long.content.length).toBe(2000);
+  it('keeps within Discord\'s limits without losing words: long text goes on in further messages', () => {
+    const text = Array.from({ length: 3 }, () => `${'word '.repeat(399)}end`).join('\n');
+    const long = discordMessages({ key: 'k', text }, { today: '2026-12-04' });
+    expect(long.length).toBeGreaterThan(1);
+    for (const m of long) expect(m.content.length).toBeLessThanOrEqual(2000);
+    expect(long.map((m) => m.content).join('\n')).toBe(text);
     const bold = discordMessage({ key: 'k', text: '*Summary*\n- _Note: partial_' });
     expect(bold.content).toBe('**Summary**\n- _Note: partial_');
+  });
+
+  it('posts the brief card whole, a select per control with the choice in force, and Go and Cancel', async () => {
+    const thread = `discord:${threadId}`;
+    const before = api.messagesIn(threadId).length;
+    const ref = await adapter.post(thread, briefCardPost());
+    const sent = api.messagesIn(threadId).slice(before);
+    expect(ref.split(',')).toEqual(sent.map((c) => String(c.answer!.id)));
+    // The 16-item plan and its edit instructions survive: split at line ends, nothing clipped.
+    expect(sent.length).toBeGreaterThan(1);
+    expect(sent.map((c) => String(c.body.content)).join('\n')).toBe(toDiscordMarkdown(CARD_TEXT));
+    expect(String(sent.at(-1)!.body.content)).toContain('16. A period table of revenue, bookings and passengers month by month');
+    type Row = { type: number; components: { type: number; custom_id: string; label?: string; style?: number; options?: { label: string; value: string; default?: boolean }[] }[] };
+    const rows = sent.flatMap((c) => c.body.components as Row[]);
+    for (const c of sent) expect((c.body.components as Row[]).length).toBeLessThanOrEqual(5);
+    // Five controls and the buttons are six rows: the first control rides on the message before.
+    expect((sent.at(-1)!.body.components as Row[]).length).toBe(5);
+    const selects = rows.flatMap((r) => r.components).filter((c) => c.type === 3);
+    expect(selects.map((c) => c.custom_id)).toEqual(['tc:c:audience', 'tc:c:deadline', 'tc:c:grain', 'tc:c:period', 'tc:c:breakdowns']);
+    const current = (id: string) => selects.find((c) => c.custom_id === id)!.options!.filter((o) => o.default).map((o) => o.label);
+    expect(current('tc:c:audience')).toEqual(['Audience: Managers (plain words with the detail)']);
+    expect(current('tc:c:grain')).toEqual(['Grain: Monthly']);
+    expect(current('tc:c:breakdowns')).toEqual(['Breakdowns: Route']);
+    expect(current('tc:c:period')).toEqual([]);
+    // No date picker on Discord: sensible days from today (Friday 4 December 2026), the one in force kept.
+    const days = selects.find((c) => c.custom_id === 'tc:c:deadline')!.options!;
+    expect(days.map((o) => [o.label, o.value, o.default ?? false])).toEqual([
+      ['Deadline: Thu 10 Dec 2026', 'deadline 2026-12-10', true],
+      ['Deadline: Today (Fri 4 Dec 2026)', 'deadline 2026-12-04', false],
+      ['Deadline: Tomorrow (Sat 5 Dec 2026)', 'deadline 2026-12-05', false],
+      ['Deadline: End of next week (Fri 11 Dec 2026)', 'deadline 2026-12-11', false],
+      ['Deadline: End of the month (Thu 31 Dec 2026)', 'deadline 2026-12-31', false],
+      ['Deadline: No deadline', 'no deadline', false],
+    ]);
+    const buttons = rows.flatMap((r) => r.components).filter((c) => c.type === 2);
+    expect(buttons.map((b) => [b.label, b.custom_id, b.style])).toEqual([
+      ['Go: run the plan', 'tc:k:go', 1],
+      ['Cancel', 'tc:k:cancel', 4],
+    ]);
+    expect(rows.at(-1)!.components).toEqual(expect.arrayContaining([expect.objectContaining({ custom_id: 'tc:k:go' })]));
+    cardRef = ref;
+  });
+
+  it('delivers a card choice as its value with its label, keeping the card\'s components', async () => {
+    const last = api.messagesIn(threadId).at(-1)!;
+    const callbacks = api.calls.filter((c) => c.path.startsWith('/interactions/')).length;
+    const before = delivered.length;
+    click(threadId, last, { custom_id: 'tc:c:grain', component_type: 3, values: ['weekly'] });
+    const delivery = await waitFor('the choice delivered', () => delivered[before]);
+    expect(delivery).toMatchObject({ threadId: `discord:${threadId}`, author: MAREN.id, text: 'weekly', label: 'Grain: Weekly' });
+    const callback = await waitFor('the interaction answered', () => api.calls.filter((c) => c.path.startsWith('/interactions/'))[callbacks]);
+    const data = callback.body.data as { content: string; components: { components: { custom_id: string }[] }[] };
+    expect(callback.body.type).toBe(7);
+    // The components stay; the choice shows under the card until the bot edits it.
+    expect(data.components.flatMap((r) => r.components.map((c) => c.custom_id))).toEqual(
+      (last.body.components as { components: { custom_id: string }[] }[]).flatMap((r) => r.components.map((c) => c.custom_id)),
+    );
+    expect(data.content).toMatch(new RegExp(`<@${MAREN.id}> chose \\*\\*Grain: Weekly\\*\\*$`));
+    expect(data.content).toContain('16. A period table');
+    click(threadId, last, { custom_id: 'tc:c:deadline', component_type: 3, values: ['deadline 2026-12-11'] });
+    expect(await waitFor('the day delivered', () => delivered[before + 1])).toMatchObject({ text: 'deadline 2026-12-11', label: 'Deadline: End of next week (Fri 11 Dec 2026)' });
+    click(threadId, last, { custom_id: 'tc:k:go', component_type: 2 });
+    expect(await waitFor('go delivered', () => delivered[before + 2])).toMatchObject({ text: 'go', label: 'Go: run the plan' });
+  });
+
+  it('edits every part of the card in place, and leaves no components once agreed', async () => {
+    // The bot's answers to the clicks above are out of the way first.
+    await inbox.idle();
+    const ids = cardRef.split(',');
+    const postsBefore = api.messagesIn(threadId).length;
+    const editsBefore = api.calls.length;
+    const corrected = correctedCardPost();
+    await adapter.update(`discord:${threadId}`, cardRef, corrected.text, corrected);
+    const edits = api.calls.slice(editsBefore).filter((c) => c.method === 'PATCH');
+    expect(edits.map((c) => c.path)).toEqual(ids.map((id) => `/channels/${threadId}/messages/${id}`));
+    expect(edits.map((c) => String(c.body.content)).join('\n')).toBe(toDiscordMarkdown(corrected.text));
+    const grain = edits.flatMap((c) => c.body.components as { components: { custom_id: string; options?: { value: string; default?: boolean }[] }[] }[]).flatMap((r) => r.components).find((c) => c.custom_id === 'tc:c:grain')!;
+    expect(grain.options!.filter((o) => o.default).map((o) => o.value)).toEqual(['weekly']);
+    const agreed = agreedCardPost();
+    const agreedFrom = api.calls.length;
+    await adapter.update(`discord:${threadId}`, cardRef, agreed.text, agreed);
+    const inert = api.calls.slice(agreedFrom).filter((c) => c.method === 'PATCH');
+    expect(inert).toHaveLength(ids.length);
+    for (const c of inert) expect(c.body.components).toEqual([]);
+    expect(inert.map((c) => String(c.body.content)).join('\n')).toContain('Agreed: running the plan.');
+    expect(api.messagesIn(threadId)).toHaveLength(postsBefore);
   });
 });
