@@ -90,8 +90,9 @@ export class LocalChannel implements ChatAdapter {
     return (await this.threads.addBotPost(this.localId(threadId), post, session)).id;
   }
 
-  async update(threadId: string, ref: string, text: string): Promise<void> {
-    await this.threads.updateText(this.localId(threadId), ref, text);
+  /** With `post`, the whole message is replaced (the brief card after a correction); the page gets it as message.updated. */
+  async update(threadId: string, ref: string, text: string, post?: Omit<OutgoingPost, 'key' | 'files'>): Promise<void> {
+    await this.threads.updateText(this.localId(threadId), ref, text, post);
   }
 
   private localId(threadId: string): string {

@@ -1,7 +1,9 @@
 // The local channel's threads in memory, for one process: after a restart this starts empty
 // (the bot's own state lives in its store). Replicas use PostgresThreadLog instead.
 import type { OutgoingPost } from '../../bot/port.js';
+import type { PostContent } from '../post-view.js';
 import {
+  applyEdit,
   botMessage,
   newId,
   personMessage,
@@ -39,9 +41,9 @@ export class LocalThreads implements LocalThreadLog {
     return { thread, message: this.append(thread, personMessage(author, text, this.stamp())) };
   }
 
-  async addPersonMessage(threadId: string, author: string, text: string): Promise<LocalMessage | undefined> {
+  async addPersonMessage(threadId: string, author: string, text: string, label?: string): Promise<LocalMessage | undefined> {
     const thread = this.threads.get(threadId);
-    return thread ? this.append(thread, personMessage(author, text, this.stamp())) : undefined;
+    return thread ? this.append(thread, personMessage(author, text, this.stamp(), label)) : undefined;
   }
 
   async addBotPost(threadId: string, post: OutgoingPost): Promise<LocalMessage> {
@@ -52,12 +54,11 @@ export class LocalThreads implements LocalThreadLog {
     return this.append(thread, message);
   }
 
-  async updateText(threadId: string, messageId: string, text: string): Promise<LocalMessage> {
+  async updateText(threadId: string, messageId: string, text: string, post?: PostContent): Promise<LocalMessage> {
     const thread = this.threads.get(threadId);
     const message = thread?.messages.find((m) => m.id === messageId);
     if (!thread || !message) throw new Error(`no message ${messageId} in local thread ${threadId}`);
-    message.text = text;
-    message.updatedAt = this.stamp();
+    applyEdit(message, text, this.stamp(), post);
     this.emit(thread, 'message.updated', message);
     return structuredClone(message);
   }
@@ -70,7 +71,7 @@ export class LocalThreads implements LocalThreadLog {
   }
 
   async list(): Promise<ThreadSummary[]> {
-    return [...this.threads.values()].map((t) => summaryOf(t, t.messages.length, t.messages.at(-1))).sort((a, b) => b.createdAt.localeCompare(a.createdAt));
+    return [...this.threads.values()].map((t) => summaryOf(t, t.messages.length, t.messages)).sort((a, b) => b.createdAt.localeCompare(a.createdAt));
   }
 
   async personMessagesBetween(from: string, to: string): Promise<{ threadId: string; message: LocalMessage }[]> {

@@ -5,7 +5,9 @@
 import pg from 'pg';
 import type { OutgoingPost } from '../../bot/port.js';
 import type { SqlSession } from '../../bot/thread-state.js';
+import type { PostContent } from '../post-view.js';
 import {
+  applyEdit,
   botMessage,
   newId,
   personMessage,
@@ -76,10 +78,10 @@ export class PostgresThreadLog implements LocalThreadLog {
     return { thread: { id }, message };
   }
 
-  async addPersonMessage(threadId: string, author: string, text: string): Promise<LocalMessage | undefined> {
+  async addPersonMessage(threadId: string, author: string, text: string, label?: string): Promise<LocalMessage | undefined> {
     return this.transaction(undefined, async (db) => {
       const exists = await db.query(`SELECT 1 FROM ${this.table('local_threads')} WHERE id = $1`, [threadId]);
-      return exists.rows.length ? this.append(db, threadId, personMessage(author, text, this.stamp())) : undefined;
+      return exists.rows.length ? this.append(db, threadId, personMessage(author, text, this.stamp(), label)) : undefined;
     });
   }
 
@@ -99,14 +101,13 @@ export class PostgresThreadLog implements LocalThreadLog {
     });
   }
 
-  async updateText(threadId: string, messageId: string, text: string): Promise<LocalMessage> {
+  async updateText(threadId: string, messageId: string, text: string, post?: PostContent): Promise<LocalMessage> {
     return this.transaction(undefined, async (db) => {
       const seq = await this.nextSeq(db, threadId);
       const r = await db.query(`SELECT message FROM ${this.table('local_messages')} WHERE thread_id = $1 AND id = $2`, [threadId, messageId]);
       const message = r.rows[0]?.message as LocalMessage | undefined;
       if (seq === undefined || !message) throw new Error(`no message ${messageId} in local thread ${threadId}`);
-      message.text = text;
-      message.updatedAt = this.stamp();
+      applyEdit(message, text, this.stamp(), post);
       await db.query(`UPDATE ${this.table('local_messages')} SET message = $3 WHERE thread_id = $1 AND id = $2`, [threadId, messageId, JSON.stringify(message)]);
       await this.recordEvent(db, threadId, seq, 'message.updated', message);
       return message;
@@ -122,13 +123,18 @@ export class PostgresThreadLog implements LocalThreadLog {
   }
 
   async list(): Promise<ThreadSummary[]> {
-    const r = await this.pool.query<ThreadRow & { message_count: number; last: LocalMessage | null }>(
+    // The tail: from the last bot message offering something to click (or the last message), for `waiting`.
+    const messages = this.table('local_messages');
+    const r = await this.pool.query<ThreadRow & { message_count: number; tail: LocalMessage[] | null }>(
       `SELECT t.id, t.title, t.author, t.created_at,
-              (SELECT count(*)::int FROM ${this.table('local_messages')} m WHERE m.thread_id = t.id) AS message_count,
-              (SELECT m.message FROM ${this.table('local_messages')} m WHERE m.thread_id = t.id ORDER BY m.position DESC LIMIT 1) AS last
+              (SELECT count(*)::int FROM ${messages} m WHERE m.thread_id = t.id) AS message_count,
+              (SELECT json_agg(m.message ORDER BY m.position) FROM ${messages} m WHERE m.thread_id = t.id AND m.position >= COALESCE(
+                 (SELECT max(x.position) FROM ${messages} x WHERE x.thread_id = t.id AND (x.message->>'fromBot')::boolean
+                    AND (x.message->'prompt' IS NOT NULL OR x.message->'quickReplies' IS NOT NULL OR x.message->'controls' IS NOT NULL)),
+                 (SELECT max(y.position) FROM ${messages} y WHERE y.thread_id = t.id))) AS tail
        FROM ${this.table('local_threads')} t ORDER BY t.created_at DESC, t.id`,
     );
-    return r.rows.map((row) => summaryOf({ id: row.id, title: row.title, author: row.author, createdAt: row.created_at }, row.message_count, row.last ?? undefined));
+    return r.rows.map((row) => summaryOf({ id: row.id, title: row.title, author: row.author, createdAt: row.created_at }, row.message_count, row.tail ?? []));
   }
 
   async personMessagesBetween(from: string, to: string): Promise<{ threadId: string; message: LocalMessage }[]> {

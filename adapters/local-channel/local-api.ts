@@ -1,6 +1,7 @@
 // The local channel's HTTP API and page, on node:http (a handful of routes needs no framework).
 //   POST /api/threads                 {author, text} -> 201 {threadId, messageId}: a new request
-//   POST /api/threads/:id/messages    {author, text} -> 201 {messageId}: a reply in the thread
+//   POST /api/threads/:id/messages    {author, text, label?} -> 201 {messageId}: a reply in the thread
+//                                     (a click sends its value as text and what was chosen as label)
 //   GET  /api/threads                 -> {threads: [...]}: newest first
 //   GET  /api/threads/:id             -> the thread with all its messages
 //   GET  /api/threads/:id/events      server-sent events: message.created, message.updated
@@ -97,10 +98,10 @@ async function createThread(deps: LocalApiDeps, req: HttpRequest, res: ServerRes
 
 async function addReply(deps: LocalApiDeps, threadId: string, req: HttpRequest, res: ServerResponse): Promise<void> {
   const body = await readMessage(req);
-  const message = await deps.threads.addPersonMessage(threadId, body.author, body.text);
+  const message = await deps.threads.addPersonMessage(threadId, body.author, body.text, body.label);
   if (!message) throw new HttpError(404, `no thread ${threadId}`);
   sendJson(res, 201, { messageId: message.id });
-  deps.deliver({ threadId: deps.botThreadId(threadId), author: body.author, text: body.text, channel: LOCAL_CHANNEL, messageId: message.id });
+  deps.deliver({ threadId: deps.botThreadId(threadId), author: body.author, text: body.text, ...(body.label ? { label: body.label } : {}), channel: LOCAL_CHANNEL, messageId: message.id });
 }
 
 async function streamEvents(deps: LocalApiDeps, threadId: string, req: HttpRequest, res: ServerResponse): Promise<void> {

@@ -3,9 +3,9 @@
 // in memory for one process (LocalThreads), and in PostgreSQL so every replica's API and event
 // streams show the same threads (PostgresThreadLog).
 import { randomBytes } from 'node:crypto';
-import type { FileKind, OutgoingFile, OutgoingPost } from '../../bot/port.js';
+import type { FileKind, OutgoingFile, OutgoingPost, PostControl } from '../../bot/port.js';
 import type { SqlSession } from '../../bot/thread-state.js';
-import { promptView, quickReplies, type PromptView, type QuickReply } from '../post-view.js';
+import { postControls, promptView, quickReplies, type PostContent, type PromptView, type QuickReply } from '../post-view.js';
 
 export interface LocalFile {
   id: string;
@@ -23,9 +23,14 @@ export interface LocalMessage {
   id: string;
   author: string;
   fromBot: boolean;
+  /** What the bot reads: typed words, or the value a click sent. */
   text: string;
+  /** A click's choice as the requester saw it; the page shows it in place of `text`. */
+  label?: string;
   prompt?: PromptView;
   quickReplies?: QuickReply[];
+  /** The brief card's controls (a select per topic, a date). */
+  controls?: PostControl[];
   files: LocalFile[];
   createdAt: string;
   updatedAt?: string;
@@ -55,7 +60,7 @@ export interface ThreadSummary {
   createdAt: string;
   updatedAt: string;
   messageCount: number;
-  /** The last message asks the requester something. */
+  /** A bot message still waits for the requester's answer (see `openMessage`). */
   waiting: boolean;
 }
 
@@ -69,10 +74,11 @@ export interface StoredFile {
 export interface LocalThreadLog {
   createThread(author: string, text: string): Promise<{ thread: { id: string }; message: LocalMessage }>;
   /** A message from a person; undefined when the thread does not exist. */
-  addPersonMessage(threadId: string, author: string, text: string): Promise<LocalMessage | undefined>;
+  addPersonMessage(threadId: string, author: string, text: string, label?: string): Promise<LocalMessage | undefined>;
   /** The bot's post; a thread unknown here (from before a restart) is adopted. `session` joins the caller's transaction. */
   addBotPost(threadId: string, post: OutgoingPost, session?: SqlSession): Promise<LocalMessage>;
-  updateText(threadId: string, messageId: string, text: string): Promise<LocalMessage>;
+  /** Replaces a message's text, or with `post` all it shows (see `applyEdit`). */
+  updateText(threadId: string, messageId: string, text: string, post?: PostContent): Promise<LocalMessage>;
   get(threadId: string): Promise<LocalThreadView | undefined>;
   /** Newest first. */
   list(): Promise<ThreadSummary[]>;
@@ -93,30 +99,65 @@ export function titleOf(text: string): string {
   return line.length > 80 ? `${line.slice(0, 77)}...` : line;
 }
 
-export function personMessage(author: string, text: string, at: string): LocalMessage {
-  return { id: newId(), author, fromBot: false, text, files: [], createdAt: at };
+export function personMessage(author: string, text: string, at: string, label?: string): LocalMessage {
+  return { id: newId(), author, fromBot: false, text, ...(label ? { label } : {}), files: [], createdAt: at };
 }
 
 /** The bot's post as a message, and its attachments to store beside it. */
 export function botMessage(post: OutgoingPost, botName: string, at: string): { message: LocalMessage; files: StoredFile[] } {
-  const prompt = promptView(post);
-  const replies = quickReplies(post);
   const files = (post.files ?? []).map(storedFile);
-  const message: LocalMessage = {
-    id: newId(),
-    author: botName,
-    fromBot: true,
-    text: post.text,
-    ...(prompt ? { prompt } : {}),
-    ...(replies.length ? { quickReplies: replies } : {}),
-    files: files.map((f) => f.file),
-    createdAt: at,
-  };
+  const message: LocalMessage = { id: newId(), author: botName, fromBot: true, text: post.text, ...interactive(post), files: files.map((f) => f.file), createdAt: at };
   return { message, files };
 }
 
-/** A summary of a thread from its last message. */
-export function summaryOf(t: Omit<LocalThreadView, 'messages'>, messageCount: number, last: LocalMessage | undefined): ThreadSummary {
+/** What a post offers to click: a prompt, quick replies, controls (only those it has). */
+function interactive(post: PostContent): Pick<LocalMessage, 'prompt' | 'quickReplies' | 'controls'> {
+  const prompt = promptView(post);
+  const replies = quickReplies(post);
+  const controls = postControls(post);
+  return { ...(prompt ? { prompt } : {}), ...(replies.length ? { quickReplies: replies } : {}), ...(controls.length ? { controls } : {}) };
+}
+
+/**
+ * An edit in place: the text only (progress), or with `post` everything the message offers is
+ * replaced too (the brief card after a correction; a post without controls leaves none). Files stay.
+ */
+export function applyEdit(message: LocalMessage, text: string, at: string, post?: PostContent): void {
+  message.text = text;
+  message.updatedAt = at;
+  if (!post) return;
+  delete message.prompt;
+  delete message.quickReplies;
+  delete message.controls;
+  Object.assign(message, interactive({ ...post, text }));
+}
+
+/**
+ * The bot message still waiting for an answer, if any: the newest one offering something to
+ * click, unless a later reply from a person answered it (one of its options or quick replies,
+ * typed or clicked). Informational messages after it (a reminder, help, status) do not close it,
+ * and a card stays open while it has controls: the bot edits them away once it is agreed.
+ * The page (app.js) applies the same rule.
+ */
+export function openMessage(messages: readonly LocalMessage[]): LocalMessage | undefined {
+  let at = -1;
+  for (let i = messages.length - 1; i >= 0 && at < 0; i--) if (messages[i]!.fromBot && offers(messages[i]!)) at = i;
+  if (at < 0) return undefined;
+  const m = messages[at]!;
+  const answers = new Set([...(m.prompt?.options ?? []), ...(m.prompt ? [m.prompt.recommended] : []), ...(m.quickReplies ?? [])].map((o) => o.value.toLowerCase()));
+  const said = (x: LocalMessage) => x.text.trim().toLowerCase();
+  // A prompt of several takes "a, b"; a card is answered only by its Go or Cancel, not by a correction.
+  const answered = messages.slice(at + 1).some((x) => !x.fromBot && (answers.has(said(x)) || (!!m.prompt && said(x).split(/\s*,\s*/).every((v) => answers.has(v)))));
+  return answered ? undefined : m;
+}
+
+function offers(m: LocalMessage): boolean {
+  return Boolean(m.prompt || m.quickReplies?.length || m.controls?.length);
+}
+
+/** A summary of a thread from its last messages: at least the last, and from the last one offering something to click. */
+export function summaryOf(t: Omit<LocalThreadView, 'messages'>, messageCount: number, tail: readonly LocalMessage[]): ThreadSummary {
+  const last = tail.at(-1);
   return {
     id: t.id,
     title: t.title,
@@ -124,7 +165,7 @@ export function summaryOf(t: Omit<LocalThreadView, 'messages'>, messageCount: nu
     createdAt: t.createdAt,
     updatedAt: last?.updatedAt ?? last?.createdAt ?? t.createdAt,
     messageCount,
-    waiting: Boolean(last?.fromBot && (last.prompt || last.quickReplies)),
+    waiting: openMessage(tail) !== undefined,
   };
 }
 

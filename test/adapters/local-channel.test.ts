@@ -282,8 +282,9 @@ describe('the page in a browser', () => {
           break;
         }
         const before = await page.locator('#messages article.msg').count();
-        await last.locator('.prompt button.recommended').click();
+        // One click takes the recommendation; for several, it is already picked and Send sends it.
         if (kind === 'many') await last.locator('.send-choices').click();
+        else await last.locator('.prompt button.recommended').click();
         // Wait until the click was taken (the person's reply appears, the prompt goes inert).
         await page.waitForFunction((n) => document.querySelectorAll('#messages article.msg').length > n, before, { timeout: 60_000 });
       }

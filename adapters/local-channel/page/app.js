@@ -87,11 +87,12 @@ function showError(err) {
   box.hidden = !err;
 }
 
-async function reply(text) {
+/** Sends a reply; a click sends its value as `text` and what was chosen as `label`, which the thread shows. */
+async function reply(text, label) {
   if (!state.threadId) return;
   showError(null);
   try {
-    await api(`/api/threads/${encodeURIComponent(state.threadId)}/messages`, { author: author(), text });
+    await api(`/api/threads/${encodeURIComponent(state.threadId)}/messages`, { author: author(), text, ...(label ? { label } : {}) });
   } catch (err) {
     showError(err);
   }
@@ -133,11 +134,12 @@ function renderMessage(m, index) {
     'div',
     { class: 'body' },
     el('div', { class: 'meta' }, el('span', { class: 'author', text: m.author }), time(m.createdAt), m.updatedAt ? el('span', { class: 'edited', text: 'updated' }) : null),
-    el('div', { class: 'text' }, renderText(m.prompt ? m.prompt.lead : m.text)),
+    el('div', { class: 'text' }, renderText(m.prompt ? m.prompt.lead : (m.label ?? m.text))),
   );
   if (m.prompt) body.append(renderPrompt(m.prompt));
+  if (m.controls) body.append(renderControls(m.controls));
   if (m.quickReplies) {
-    body.append(el('div', { class: 'quick' }, m.quickReplies.map((q) => el('button', { type: 'button', class: q.primary ? 'primary' : null, 'data-value': q.value, onclick: () => reply(q.value) }, q.label))));
+    body.append(el('div', { class: 'quick' }, m.quickReplies.map((q) => el('button', { type: 'button', class: q.primary ? 'primary' : null, 'data-value': q.value, onclick: () => reply(q.value, q.label) }, q.label))));
   }
   const images = m.files.filter((f) => f.contentType === 'image/png');
   const others = m.files.filter((f) => f.contentType !== 'image/png');
@@ -172,55 +174,125 @@ function renderMessage(m, index) {
   return el('article', { class: `msg ${m.fromBot ? 'bot' : 'person'}${isRequest ? ' request' : ''}`, 'data-id': m.id }, avatar, body);
 }
 
+/** An ISO day in words, as the server says it in a reply's label ("Thu 10 Dec 2026"). */
+function dayInWords(iso) {
+  const d = new Date(`${iso}T12:00:00Z`);
+  if (Number.isNaN(d.getTime())) return iso;
+  return new Intl.DateTimeFormat('en-GB', { weekday: 'short', day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' }).format(d).replace(',', '');
+}
+
+/**
+ * A prompt's choices. One choice: a button each, the recommended one marked. Several: toggles with
+ * the recommendation already on and "Send selected", so one click accepts it (as on Slack and Discord).
+ */
 function renderPrompt(p) {
-  const chosen = new Set();
-  const send = el('button', { type: 'button', class: 'primary send-choices', disabled: true }, 'Send selected');
-  const buttons = p.options.map((o) => {
+  const isOption = p.options.some((o) => o.value === p.recommended.value);
+  const options = isOption ? p.options : [...p.options, { value: p.recommended.value, label: p.recommended.label }];
+  const chosen = new Set(p.many ? [p.recommended.value] : []);
+  const send = el('button', { type: 'button', class: 'primary send-choices' });
+  const label = () => options.filter((o) => chosen.has(o.value)).map((o) => o.label).join(', ');
+  const refreshSend = () => {
+    send.disabled = chosen.size === 0;
+    send.textContent = chosen.size > 1 ? `Send ${chosen.size} selected` : 'Send selected';
+  };
+  const buttons = options.map((o) => {
     const isRec = o.value === p.recommended.value;
-    const b = el('button', { type: 'button', class: isRec ? 'recommended' : null, 'data-value': o.value, 'aria-pressed': p.many ? 'false' : null }, o.label, isRec ? el('span', { class: 'tag', text: 'recommended' }) : null);
+    const b = el(
+      'button',
+      { type: 'button', class: isRec ? 'recommended' : null, 'data-value': o.value, 'aria-pressed': p.many ? String(chosen.has(o.value)) : null },
+      o.label,
+      isRec ? el('span', { class: 'tag', text: 'recommended' }) : null,
+    );
     b.addEventListener('click', () => {
-      if (!p.many) return reply(o.value);
+      if (!p.many) return reply(o.value, o.label);
       if (chosen.has(o.value)) chosen.delete(o.value);
       else chosen.add(o.value);
       b.setAttribute('aria-pressed', String(chosen.has(o.value)));
-      send.disabled = chosen.size === 0;
-      send.textContent = chosen.size > 1 ? `Send ${chosen.size} selected` : 'Send selected';
+      refreshSend();
     });
     return b;
   });
-  // The recommendation is normally one of the options; if not, it gets its own button.
-  if (!p.options.some((o) => o.value === p.recommended.value)) {
-    buttons.push(el('button', { type: 'button', class: 'recommended', 'data-value': p.recommended.value, onclick: () => reply(p.recommended.value) }, p.recommended.label, el('span', { class: 'tag', text: 'recommended' })));
-  }
-  send.addEventListener('click', () => reply(p.options.filter((o) => chosen.has(o.value)).map((o) => o.value).join(', ')));
+  refreshSend();
+  send.addEventListener('click', () => reply(options.filter((o) => chosen.has(o.value)).map((o) => o.value).join(', '), label()));
   const box = el('div', { class: 'prompt', 'data-topic': p.topic }, el('div', { class: 'choices' }, buttons, p.many ? send : null));
   if (p.topic === 'deadline') {
     const input = el('input', { type: 'date', 'aria-label': 'Deadline date' });
-    box.append(el('div', { class: 'date-choice' }, 'or pick a date', input, el('button', { type: 'button', onclick: () => input.value && reply(input.value) }, 'Send date')));
+    box.append(el('div', { class: 'date-choice' }, 'or pick a date', input, el('button', { type: 'button', onclick: () => input.value && reply(input.value, dayInWords(input.value)) }, 'Send date')));
   }
-  box.append(el('p', { class: 'rec' }, 'Recommended: ', el('strong', { text: p.recommended.label }), ` (${p.recommended.reason}).`, p.many ? ' Pick one or more.' : '', ' Or type your own answer below.'));
+  box.append(el('p', { class: 'rec' }, 'Recommended: ', el('strong', { text: p.recommended.label }), ` (${p.recommended.reason}).`, p.many ? ' Pick one or more and send; the recommended one is already picked.' : '', ' Or type your own answer below.'));
   return box;
 }
 
-/** Only the newest bot message can be answered by clicking; earlier prompts are kept but inert. */
+/** The brief card's controls: a select per topic showing the choice in force, a date for the deadline. Choosing sends at once. */
+function renderControls(controls) {
+  const rows = controls.map((c) => {
+    const id = `ctl-${c.topic}-${Math.random().toString(36).slice(2, 8)}`;
+    let input;
+    if (c.kind === 'date') {
+      input = el('input', { type: 'date', id, value: /^\d{4}-\d{2}-\d{2}$/.test(c.current ?? '') ? c.current : null });
+      input.addEventListener('change', () => {
+        if (!input.value) return;
+        reply((c.sends ?? `${c.topic} {date}`).replaceAll('{date}', input.value), `${c.label}: ${dayInWords(input.value)}`);
+      });
+    } else {
+      const known = c.choices.some((o) => o.value === c.current);
+      input = el(
+        'select',
+        { id },
+        known ? null : el('option', { value: '', selected: true, disabled: true, text: 'Choose…' }),
+        c.choices.map((o) => el('option', { value: o.value, selected: o.value === c.current, text: o.label })),
+      );
+      input.addEventListener('change', () => {
+        const o = c.choices.find((x) => x.value === input.value);
+        if (o) reply(o.value, `${c.label}: ${o.label}`);
+      });
+    }
+    input.dataset.topic = c.topic;
+    return el('div', { class: 'control' }, el('label', { for: id, text: c.label }), input);
+  });
+  return el('div', { class: 'controls' }, rows);
+}
+
+/**
+ * The bot message still waiting for an answer: the newest one offering something to click, unless
+ * a later reply answered it (one of its options or quick replies). A reminder, help or status
+ * after it leaves it live; a card stays live while it has controls. The server's `openMessage`
+ * (local-thread-log.ts) applies the same rule for the list's "waiting for you".
+ */
+function openMessage(ordered) {
+  let at = -1;
+  for (let i = ordered.length - 1; i >= 0 && at < 0; i--) {
+    const m = ordered[i];
+    if (m.fromBot && (m.prompt || m.quickReplies?.length || m.controls?.length)) at = i;
+  }
+  if (at < 0) return undefined;
+  const m = ordered[at];
+  const answers = new Set([...(m.prompt?.options ?? []), ...(m.prompt ? [m.prompt.recommended] : []), ...(m.quickReplies ?? [])].map((o) => o.value.toLowerCase()));
+  const said = (x) => x.text.trim().toLowerCase();
+  const answered = ordered.slice(at + 1).some((x) => !x.fromBot && (answers.has(said(x)) || (!!m.prompt && said(x).split(/\s*,\s*/).every((v) => answers.has(v)))));
+  return answered ? undefined : m;
+}
+
+/** Only the message waiting for an answer can be answered by clicking; earlier ones are kept but inert. */
 function refreshActive() {
   const ordered = [...state.messages.values()];
-  const last = ordered.at(-1);
+  const open = openMessage(ordered);
   ordered.forEach((m, i) => {
     const node = state.nodes.get(m.id);
-    const active = last && last.id === m.id && m.fromBot;
+    const active = open !== undefined && open.id === m.id;
     // What the person said next is the answer; mark the matching choices.
     const answer = ordered.slice(i + 1).find((x) => !x.fromBot);
     const picked = new Set((answer?.text ?? '').toLowerCase().split(/\s*,\s*/));
-    for (const part of node.querySelectorAll('.prompt, .quick')) {
+    for (const part of node.querySelectorAll('.prompt, .quick, .controls')) {
       part.classList.toggle('answered', !active);
-      for (const c of part.querySelectorAll('button, input')) {
+      for (const c of part.querySelectorAll('button, input, select')) {
         c.disabled = !active || (c.classList.contains('send-choices') && !part.querySelector('[aria-pressed="true"]'));
         if (c.dataset.value !== undefined) c.classList.toggle('chosen', !active && picked.has(c.dataset.value.toLowerCase()));
       }
     }
   });
   // The bot owes a reply when a person spoke last.
+  const last = ordered.at(-1);
   $('working').hidden = !last || last.fromBot;
 }
 
