@@ -4,11 +4,13 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { runArquero } from './peer-arquero.js';
 import { runFloor } from './floor.js';
 import { runOurs } from './ours.js';
+import { runWarehouseFloor } from './warehouse-floor.js';
 
 const MODES = {
   ours: runOurs,
   floor: runFloor,
   arquero: runArquero,
+  warehouseFloor: runWarehouseFloor,
 } as const;
 
 async function main(): Promise<void> {

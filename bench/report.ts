@@ -4,7 +4,7 @@ import type { NamedQuery } from '../analysis/types.js';
 import { distinctQueries } from './floor.js';
 import { PEER_LIMIT_TIMES_OURS, PEER_MIN_LIMIT_MS } from './limits.js';
 import { RELATIVE_TOLERANCE, type Agreement } from './numbers.js';
-import type { BenchRun, SizeResult } from './run.js';
+import type { BenchRun, SizeResult, WarehouseResult } from './run.js';
 
 const TEN_MILLION = 10_000_000;
 
@@ -274,6 +274,8 @@ export function writeReport(run: BenchRun): string {
     );
   } else push(`Not measured: ${run.ackError ?? 'unknown error'}.`, '');
   push(...sharedStateSection(ack));
+  const warehouse = warehouseSection(run);
+  push(...warehouse.lines);
 
   // Targets, judged on this run.
   // A peer stopped at its limit (a multiple of our time) was slower; one not run at all is not counted.
@@ -293,6 +295,7 @@ export function writeReport(run: BenchRun): string {
     `| the plan's SQL phase within 1.5× of the single GROUP BY at 10M | ${t10((s) => `${ratioAgainst(s.phase.sql / s.groupBy, 1.5)} (${sec(s.phase.sql)} s vs ${sec(s.groupBy)} s); of the floor, the shared scan (the rollup and every statement over it) is ${ratio(s.sharedScan / s.groupBy)} (${sec(s.sharedScan)} s) and the per-customer question, which groups every customer and no rollup by day can serve, ${ratio(s.tableScan / s.groupBy)} (${sec(s.tableScan)} s)${s.customerGroupBy !== null ? `; grouping the same rows by customer with nothing else computed takes ${ratio(s.customerGroupBy / s.groupBy)} (${sec(s.customerGroupBy)} s)${s.customerGroupBy > 1.5 * s.groupBy ? ', so no plan that answers the per-customer question can come within 1.5× of this reference' : ''}` : ''}`) ?? 'no 10M run'} | ${verdict(t10((s) => s.phase.sql <= 1.5 * s.groupBy))} |`,
     `| peak memory ≤ 500 MB at 10M | ${t10((s) => `${mb(s.rss)} MB warm; ${mb(s.cold.rss)} MB on the first run`) ?? 'no 10M run'} | ${verdict(t10((s) => Math.max(s.rss, s.cold.rss) <= 500 * 1024))}${t10((s) => s.rss <= 500 * 1024 && s.cold.rss > 500 * 1024) ? ' (met by the warm runs only)' : ''} |`,
     `| median chart render ≤ 50 ms | ${allCharts.length ? `${msText(chartMedian)} ms over every run (${sizes.map((s) => `${rowsLabel(s.rows)}: ${msText(median(s.charts))} ms`).join(', ')}), sharing the cores with the SQL running alongside` : 'n/a'} | ${verdict(allCharts.length ? chartMedian <= 50 : null)} |`,
+    ...warehouse.targets,
     `| acknowledgement p99 ≤ 100 ms (200 concurrent) | ${ack ? `${msText(ackP99)} ms for the API's 201 (the HTTP floor's p99: ${msText(percentile(ack.notFoundMs, 0.99))} ms)${ack.acceptedServerMs?.length ? `; ${msText(percentile(ack.acceptedServerMs, 0.99))} ms as the server timed it, from accepting the connection` : ''}; the bot's reply ${msText(percentile(ack.acknowledgedMs, 0.99))} ms` : 'n/a'} | ${verdict(ack ? ackP99 <= 100 : null)} |`,
     '',
   );
@@ -397,4 +400,111 @@ function sharedStateSection(ack: BenchRun['ack']): string[] {
     '',
   );
   return out;
+}
+
+interface WarehouseSummary {
+  w: WarehouseResult;
+  total: number;
+  totalMin: number;
+  totalMax: number;
+  phase: Record<Phase, number>;
+  floor: number;
+  rss: number;
+  /** Per distinct statement of the plan (from the first floor run): rows returned, rows the shards sent, aggregated or not. */
+  returned: number;
+  fromShards: number;
+  fromAggregatedScans: number;
+  fromRowScans: number;
+  rowStatements: string[];
+  scans: number;
+  aggregatedScans: number;
+}
+
+function summariseWarehouse(w: WarehouseResult): WarehouseSummary {
+  const phase = (p: Phase) => median(w.ours.map((o) => o.phases[p].wallMs));
+  const statements = w.floor[0]?.perStatement ?? [];
+  const rowScans = statements.filter((st) => st.foreignScans > st.aggregatedScans);
+  return {
+    w,
+    total: median(w.ours.map((o) => o.totalMs)),
+    totalMin: Math.min(...w.ours.map((o) => o.totalMs)),
+    totalMax: Math.max(...w.ours.map((o) => o.totalMs)),
+    phase: { open: phase('open'), checks: phase('checks'), sql: phase('sql'), read: phase('read'), render: phase('render'), post: phase('post') },
+    floor: median(w.floor.map((f) => f.floorMs)),
+    rss: Math.max(...w.ours.map((o) => o.maxRssKb)),
+    returned: statements.reduce((n, st) => n + st.rowsReturned, 0),
+    fromShards: statements.reduce((n, st) => n + st.rowsFromShards, 0),
+    fromAggregatedScans: statements.filter((st) => st.foreignScans === st.aggregatedScans).reduce((n, st) => n + st.rowsFromShards, 0),
+    fromRowScans: rowScans.reduce((n, st) => n + st.rowsFromShards, 0),
+    rowStatements: [...new Set(rowScans.map((st) => st.name))],
+    scans: statements.reduce((n, st) => n + st.foreignScans, 0),
+    aggregatedScans: statements.reduce((n, st) => n + st.aggregatedScans, 0),
+  };
+}
+
+const count = (n: number) => n.toLocaleString('en');
+
+/** The warehouse path: PostgreSQL plain and sharded, with its own floor and the rows moved. */
+function warehouseSection(run: BenchRun): { lines: string[]; targets: string[] } {
+  const out = ['## Warehouse: PostgreSQL, plain and sharded', ''];
+  const results = run.warehouse ?? [];
+  if (results.length === 0) {
+    out.push(run.warehouseError ? `Not measured: ${run.warehouseError}.` : 'Not measured in this run (`--warehouse-sizes none`, or a run from before it was measured).', '');
+    return { lines: out, targets: [] };
+  }
+  const all = results.map(summariseWarehouse);
+  const col = (w: WarehouseResult) => `${rowsLabel(w.rows)} ${w.layout}`;
+  const sharded = results.find((w) => w.layout === 'sharded');
+  out.push(
+    `The same request, answers and charts, with the dataset in PostgreSQL ${run.postgres ?? ''} on throwaway servers started by \`.ci/postgres.sh\` on this machine (so every server shares its ${run.machine.cores} cores with our process and with the others: this measures what the warehouse path costs, not how it scales out):`,
+    '',
+    '- **plain**: one server, `bookings` one table with a BRIN index on `sail_date` (the rows arrive in date order, so each window reads only its blocks).',
+    `- **sharded**: a coordinator whose \`bookings\` is range-partitioned on \`sail_date\`, one partition per year, each a postgres_fdw foreign table on one of two shard servers${sharded ? ` (${sharded.partitions.map((p) => `${p.name} on ${p.server}`).join(', ')})` : ''}; threadcount turns on partition-wise aggregation, so each day-level GROUP BY runs on the shard holding the partition. The dataset names \`booked_at\` as its freshness column (indexed on each shard): the coordinator has no write counters for foreign partitions, and the column's maximum is how a run tells the data has not changed.`,
+    '- **First run**: nothing kept for this data yet: the coverage and the quality checks run (the repeated-key count in full), as on the first request after a load. **Warm runs**: the version check finds both kept.',
+    "- **Floor**: the plan's statements exactly as our warm run bound them (each with its day-level rollup as a CTE, as shown in the thread), each distinct one once, one after another on one connection with the same settings, results read fully. Then each once more under `EXPLAIN (ANALYZE, VERBOSE)`, to count the rows each shard sent the coordinator and whether that foreign scan was an aggregate computed on the shard (its remote SQL holds the GROUP BY).",
+    `- Per layout and size: one first run, then ${run.reps} warm run(s) of ours and of the floor, alternating, each in a fresh process; medians (ours: min–max in brackets). **The machine is shared and was noisy** (load ${run.machine.loadStart[0]?.toFixed(1)} at the start, ${run.machine.loadEnd[0]?.toFixed(1)} at the end): the absolute times move from run to run, the ratios, taken within this one run, less so.`,
+    '',
+    `| measure | ${results.map(col).join(' | ')} |`,
+    `| --- | ${results.map(() => '---:').join(' | ')} |`,
+    `| load into the layout (s) | ${results.map((w) => sec(w.loadSeconds * 1000)).join(' | ')} |`,
+    `| ours, first run on this data (s) | ${results.map((w) => sec(w.oursCold.totalMs)).join(' | ')} |`,
+    `| · its open (coverage) + quality check (s) | ${results.map((w) => `${sec(w.oursCold.phases.open.wallMs)} + ${sec(w.oursCold.phases.checks.wallMs)}`).join(' | ')} |`,
+    `| **ours, end to end** (warm) (s) | ${all.map((a) => `**${sec(a.total)}** [${sec(a.totalMin)}–${sec(a.totalMax)}]`).join(' | ')} |`,
+    `| · open: version check, coverage kept (s) | ${all.map((a) => sec(a.phase.open)).join(' | ')} |`,
+    `| · quality: version check, report kept (s) | ${all.map((a) => sec(a.phase.checks)).join(' | ')} |`,
+    `| · SQL of the plan (wall, s) | ${all.map((a) => sec(a.phase.sql)).join(' | ')} |`,
+    `| · statistics, captions, charts, files (wall, s) | ${all.map((a) => `${sec(a.phase.read)}, ${sec(a.phase.render)}, ${sec(a.phase.post)}`).join(' | ')} |`,
+    `| **floor**: the plan's ${all[0]!.w.floor[0]?.distinct ?? 'n/a'} distinct statements on that engine, sequential (s) | ${all.map((a) => `**${sec(a.floor)}**`).join(' | ')} |`,
+    `| **ours ÷ floor** | ${all.map((a) => `**${ratioAgainst(a.total / a.floor, 1.5)}**`).join(' | ')} |`,
+    `| ours first run ÷ floor | ${all.map((a) => ratio(a.w.oursCold.totalMs / a.floor)).join(' | ')} |`,
+    `| rows the plan's statements returned to threadcount | ${all.map((a) => count(a.returned)).join(' | ')} |`,
+    `| rows the shards sent the coordinator | ${all.map((a) => (a.w.layout === 'sharded' ? count(a.fromShards) : '—')).join(' | ')} |`,
+    `| · from foreign scans aggregated on the shard (${all.filter((a) => a.w.layout === 'sharded').map((a) => `${a.aggregatedScans} of ${a.scans} scans`).join('; ')}) | ${all.map((a) => (a.w.layout === 'sharded' ? count(a.fromAggregatedScans) : '—')).join(' | ')} |`,
+    `| · from scans sending rows (${[...new Set(all.flatMap((a) => a.rowStatements))].join(', ') || 'none'}) | ${all.map((a) => (a.w.layout === 'sharded' ? count(a.fromRowScans) : '—')).join(' | ')} |`,
+    `| ours peak RSS (MB) | ${all.map((a) => mb(a.rss)).join(' | ')} |`,
+    `| numbers against DuckDB's answers on the same data | ${results.map((w) => agreementText(w.agreement)).join(' | ')} |`,
+    '',
+  );
+  const largest = all.filter((a) => a.w.layout === 'sharded').at(-1);
+  if (largest) {
+    const statements = largest.w.floor[0]?.perStatement ?? [];
+    out.push(
+      `Statement by statement, ${rowsLabel(largest.w.rows)} sharded (floor, median ms over its runs; rows from the first):`,
+      '',
+      '| # | query | ms | rows to threadcount | rows from the shards | scans aggregated on the shard |',
+      '| ---: | --- | ---: | ---: | ---: | ---: |',
+      ...statements.map((st, i) => `| ${i + 1} | ${st.name} | ${msText(median(largest.w.floor.map((f) => f.perStatement[i]?.ms ?? NaN)))} | ${count(st.rowsReturned)} | ${count(st.rowsFromShards)} | ${st.aggregatedScans} of ${st.foreignScans} |`),
+      '',
+    );
+  }
+  const within = all.every((a) => a.total <= 1.5 * a.floor);
+  const rowScans = all.filter((a) => a.w.layout === 'sharded' && a.fromRowScans > 0);
+  const targets = [
+    `| warehouse: end to end ≤ 1.5× the engine's own floor (warm) | ${all.map((a) => `${col(a.w)} ${ratioAgainst(a.total / a.floor, 1.5)} (${sec(a.total)} s vs ${sec(a.floor)} s)`).join('; ')}; first runs ${all.map((a) => `${col(a.w)} ${ratio(a.w.oursCold.totalMs / a.floor)}`).join(', ')} | ${within ? 'met' : '**not met**'} |`,
+    `| warehouse: the shards send only the aggregated rows the answers need | ${all
+      .filter((a) => a.w.layout === 'sharded')
+      .map((a) => `${rowsLabel(a.w.rows)}: ${a.aggregatedScans} of ${a.scans} foreign scans aggregated on the shard, ${count(a.fromAggregatedScans)} day-level rows; ${a.fromRowScans > 0 ? `${count(a.fromRowScans)} rows from ${a.rowStatements.join(', ')}, which groups by customer, a key no time partition holds whole` : 'no scan sent rows'}`)
+      .join('; ')} | ${rowScans.length === 0 ? 'met' : '**met for every day-level statement; not for the per-customer question**'} |`,
+  ];
+  return { lines: out, targets };
 }

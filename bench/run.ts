@@ -20,6 +20,9 @@ import { compareNumbers, type Agreement } from './numbers.js';
 import type { OursResult } from './ours.js';
 import type { PeerResult } from './peer-arquero.js';
 import { PLAN_WINDOWS } from './plan.js';
+import { loadLayout, startWarehouseServers, WAREHOUSE_SCHEMA, WAREHOUSE_URL_ENV, type Layout } from './warehouse.js';
+import type { WarehouseFloorResult } from './warehouse-floor.js';
+import { withClient } from './warehouse-load.js';
 import { PEER_LIMIT_TIMES_OURS, PEER_MIN_LIMIT_MS } from './limits.js';
 import { median, writeReport } from './report.js';
 
@@ -60,6 +63,22 @@ export interface SizeResult {
   oursAgreement: Agreement | null;
 }
 
+/** One warehouse layout at one size: our runs and the warehouse's own floor. */
+export interface WarehouseResult {
+  layout: Layout;
+  rows: number;
+  loadSeconds: number;
+  partitions: { name: string; server: string }[];
+  /** The first run on this data (quality report and coverage not kept yet), then the warm runs. */
+  oursCold: OursResult;
+  ours: OursResult[];
+  floor: WarehouseFloorResult[];
+  /** Our answers' numbers against DuckDB's on the same data. */
+  agreement: Agreement;
+  /** Set when the layout could not be measured. */
+  error?: string;
+}
+
 export interface Machine {
   cpuModel: string;
   cores: number;
@@ -80,12 +99,18 @@ export interface BenchRun {
   /** The engine's settings as our runs and the floor used them; the memory limit is threadcount's default unless the config sets one. */
   engine: { threads: number | null; memoryLimit: string | null; memoryLimitFromConfig: boolean; jobs: number };
   sizes: SizeResult[];
+  /** The warehouse path (PostgreSQL, plain and sharded); absent in runs from before it was measured. */
+  warehouse?: WarehouseResult[];
+  warehouseError?: string | null;
+  /** The PostgreSQL server version the warehouse ran on. */
+  postgres?: string | null;
   ack: AckResult | null;
   ackError: string | null;
   seconds: number;
 }
 
 const SIZES = { '1M': 1_000_000, '10M': 10_000_000, '30M': 30_000_000 } as const;
+const WAREHOUSE_SIZES = [2_000_000, 10_000_000];
 
 
 function log(line: string): void {
@@ -105,7 +130,14 @@ async function main(): Promise<void> {
   const startedAt = new Date().toISOString();
   const { values } = parseArgs({
     args: process.argv.slice(2),
-    options: { sizes: { type: 'string' }, quick: { type: 'boolean' }, reps: { type: 'string' }, out: { type: 'string' }, 'report-from': { type: 'string' } },
+    options: {
+      sizes: { type: 'string' },
+      'warehouse-sizes': { type: 'string' },
+      quick: { type: 'boolean' },
+      reps: { type: 'string' },
+      out: { type: 'string' },
+      'report-from': { type: 'string' },
+    },
     strict: true,
   });
   const root = packageRoot();
@@ -117,6 +149,9 @@ async function main(): Promise<void> {
     return;
   }
   const sizes = values.quick ? [SIZES['1M']] : (values.sizes?.split(',').map(parseSize) ?? Object.values(SIZES));
+  // The warehouse path: 2M and 10M by default, none in a quick run unless asked; "none" skips it.
+  const warehouseText = values['warehouse-sizes'] ?? (values.quick ? 'none' : undefined);
+  const warehouseSizes = warehouseText === 'none' ? [] : (warehouseText?.split(',').map(parseSize) ?? WAREHOUSE_SIZES);
   const reps = values.reps ? Number(values.reps) : values.quick ? 1 : 3;
   if (!Number.isInteger(reps) || reps < 1 || reps > 20) throw new Error('--reps must be a whole number from 1 to 20');
   const python = findPandas();
@@ -147,6 +182,18 @@ async function main(): Promise<void> {
     results.push(await measureSize(data, reps, engine, python));
   }
 
+  let warehouse: WarehouseResult[] = [];
+  let warehouseError: string | null = null;
+  let postgres: string | null = null;
+  if (warehouseSizes.length > 0) {
+    try {
+      ({ results: warehouse, postgres } = await measureWarehouse(warehouseSizes, reps));
+    } catch (err) {
+      warehouseError = err instanceof Error ? err.message : String(err);
+      log(`the warehouse measurement failed: ${warehouseError}`);
+    }
+  }
+
   let ack: AckResult | null = null;
   let ackError: string | null = null;
   try {
@@ -167,6 +214,9 @@ async function main(): Promise<void> {
     machine,
     engine,
     sizes: results,
+    warehouse,
+    warehouseError,
+    postgres,
     ack,
     ackError,
     seconds: (performance.now() - started) / 1000,
@@ -175,7 +225,7 @@ async function main(): Promise<void> {
   writeFileSync(join(cacheDir(), 'last-run.json'), `${JSON.stringify(run, null, 1)}\n`);
   writeFileSync(out, writeReport(run));
   log(`wrote ${relative(process.cwd(), out) || out} (raw results in ${relative(process.cwd(), join(cacheDir(), 'last-run.json'))}) in ${run.seconds.toFixed(0)} s`);
-  const disagreements = results.flatMap((r) => [r.arqueroAgreement, r.pandasAgreement, r.oursAgreement]).filter((a) => a && a.differences.length > 0);
+  const disagreements = [...results.flatMap((r) => [r.arqueroAgreement, r.pandasAgreement, r.oursAgreement]), ...warehouse.map((w) => w.agreement)].filter((a) => a && a.differences.length > 0);
   if (disagreements.length > 0) {
     log('some numbers disagree; see BENCHMARKS.md');
     process.exitCode = 1;
@@ -277,6 +327,55 @@ async function measureSize(data: BenchData, reps: number, engine: BenchRun['engi
     pandasStoppedAtMs,
     oursAgreement,
   };
+}
+
+/**
+ * Both warehouse layouts at each size: the demo data loaded, then our first run (nothing kept),
+ * the warm runs and the floor alternating, each in a fresh process. Our numbers must match
+ * DuckDB's own answers on the same data.
+ */
+async function measureWarehouse(sizes: number[], reps: number): Promise<{ results: WarehouseResult[]; postgres: string | null }> {
+  const servers = await startWarehouseServers(log);
+  const results: WarehouseResult[] = [];
+  try {
+    const postgres = await withClient(servers.plainUrl, async (c) => String((await c.query<{ v: string }>("SELECT current_setting('server_version') AS v")).rows[0]?.v ?? 'unknown'));
+    for (const rows of sizes) {
+      const data = await benchData(rows, log);
+      // DuckDB's answers on the same data: the numbers every warehouse run must match.
+      log(`warehouse ${rows.toLocaleString('en')} rows: DuckDB's answers, for the comparison...`);
+      const reference = (await child<OursResult>('ours', { configPath: data.configPath })).numbers;
+      for (const layout of ['plain', 'sharded'] as const) {
+        const label = `warehouse ${rows.toLocaleString('en')} rows, ${layout}`;
+        const loaded = await loadLayout(layout, data, servers, log);
+        process.env[WAREHOUSE_URL_ENV[layout]] = loaded.readerUrl;
+        rmSync(qualityCacheDir(loadConfig(loaded.configPath)), { recursive: true, force: true });
+        const runOurs = async () => {
+          const o = await child<OursResult>('ours', { configPath: loaded.configPath });
+          if (o.end !== 'done') throw new Error(`the demo conversation on ${layout} PostgreSQL ended "${o.end}", not "done"`);
+          return o;
+        };
+        log(`${label}: ours, first run (nothing kept yet)...`);
+        const oursCold = await runOurs();
+        log(`${label}: ours (first run) ${(oursCold.totalMs / 1000).toFixed(2)} s`);
+        const ours: OursResult[] = [];
+        const floor: WarehouseFloorResult[] = [];
+        for (let i = 0; i < reps; i++) {
+          const o = await runOurs();
+          ours.push(o);
+          const f = await child<WarehouseFloorResult>('warehouseFloor', { url: loaded.adminUrl, schema: WAREHOUSE_SCHEMA, queries: o.queries });
+          floor.push(f);
+          log(`${label}: ours ${(o.totalMs / 1000).toFixed(2)} s, floor ${(f.floorMs / 1000).toFixed(2)} s (run ${i + 1} of ${reps})`);
+        }
+        const agreement = merge([oursCold, ...ours].map((o) => compareNumbers(reference, o.numbers)));
+        results.push({ layout, rows: loaded.rows, loadSeconds: loaded.loadSeconds, partitions: loaded.partitions, oursCold, ours, floor, agreement });
+        await withClient(loaded.adminUrl, (c) => c.query(`DROP SCHEMA ${WAREHOUSE_SCHEMA} CASCADE`));
+        if (layout === 'sharded') for (const s of servers.sharded.shards) await withClient(s.url, (c) => c.query(`DROP SCHEMA ${WAREHOUSE_SCHEMA} CASCADE`));
+      }
+    }
+    return { results, postgres };
+  } finally {
+    await servers.stop();
+  }
 }
 
 class PeerTimeout extends Error {
