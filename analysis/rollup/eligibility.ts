@@ -1,8 +1,8 @@
 // Which sub-questions read the run's rollup instead of the table, and what the rollup must keep
 // for them. Each sub-question declares its own use (analysis/sub-questions/): only those whose
-// every number is a sum or a count of rows grouped by day and dimensions (so a rollup rebuilds
-// it exactly). Comparisons of per-unit or per-row values (means and variances, medians,
-// frequencies) read the table.
+// every number is a sum or a count of rows grouped by day and dimensions, or a group comparison
+// whose means and variances add up from per-day counts, sums and sums of squares (so a rollup
+// rebuilds it exactly). Medians, distinct counts and per-unit frequencies read the table.
 import type { DatasetConfig } from '../../config/schema.js';
 import { CatalogError, metricByName } from '../catalog.js';
 import { definitionOf } from '../sub-questions/registry.js';
@@ -18,7 +18,8 @@ export function rollupNeeds(sq: SubQuestion, ds: DatasetConfig): RollupShape | n
     if (!metrics.every((m) => isRollupMetric(ds, metricByName(ds, m)))) return null;
     const dimensions = [...(sq.dimension ? [sq.dimension] : []), ...sq.filters.map((f) => f.dimension)];
     const columns = rollupColumns(ds, { dimensions, groups: sq.comparisonGroup ? [sq.comparisonGroup] : [] });
-    return { columns, metrics: metrics.sort() };
+    const moments = use.moments ? [...new Set(use.moments(sq, ds))].sort() : [];
+    return { columns, metrics: metrics.sort(), ...(moments.length ? { moments } : {}) };
   } catch (err) {
     // An unknown or personal-data term: the template reports it in its own words.
     if (err instanceof CatalogError) return null;
@@ -30,6 +31,7 @@ export function rollupNeeds(sq: SubQuestion, ds: DatasetConfig): RollupShape | n
 export function runRollup(items: SubQuestion[], ds: DatasetConfig, minReaders = 1): RollupShape | null {
   const columns = new Set<string>();
   const metrics = new Set<string>();
+  const moments = new Set<string>();
   let readers = 0;
   for (const sq of items) {
     const need = rollupNeeds(sq, ds);
@@ -37,11 +39,17 @@ export function runRollup(items: SubQuestion[], ds: DatasetConfig, minReaders = 
     readers++;
     for (const c of need.columns) columns.add(c);
     for (const m of need.metrics) metrics.add(m);
+    for (const m of need.moments ?? []) moments.add(m);
   }
-  return readers >= minReaders ? { columns: [...columns].sort(), metrics: [...metrics].sort() } : null;
+  if (readers < minReaders) return null;
+  return { columns: [...columns].sort(), metrics: [...metrics].sort(), ...(moments.size ? { moments: [...moments].sort() } : {}) };
 }
 
 /** True when `shape` keeps everything `need` asks for. */
 export function covers(shape: RollupShape, need: RollupShape): boolean {
-  return need.columns.every((c) => shape.columns.includes(c)) && need.metrics.every((m) => shape.metrics.includes(m));
+  return (
+    need.columns.every((c) => shape.columns.includes(c)) &&
+    need.metrics.every((m) => shape.metrics.includes(m)) &&
+    (need.moments ?? []).every((m) => (shape.moments ?? []).includes(m))
+  );
 }

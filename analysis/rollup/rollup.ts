@@ -11,6 +11,7 @@ import { datasetRelation, type CompileContext } from '../compile-context.js';
 import { filterCondition } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import { rangeCondition } from '../sql/time-range.js';
+import { momentPieces } from '../templates/performance-measure.js';
 import type { CompiledQuery, DateWindow } from '../types.js';
 
 /** The name queries give the rollup they read (a CTE in the SQL shown to people). */
@@ -24,6 +25,12 @@ export interface RollupShape {
   columns: string[];
   /** Metric names, sorted; each is additive (see `isRollupMetric`). */
   metrics: string[];
+  /**
+   * Metrics compared between groups row by row, sorted: the rollup also keeps their per-row
+   * values' count, sum and sum of squares (templates/performance-measure.ts momentPieces), from
+   * which means and variances add up exactly. Absent: none.
+   */
+  moments?: string[];
 }
 
 /** A query over the rollup, and the rollup it needs; what `NamedQuery.scan` carries. */
@@ -165,6 +172,13 @@ export function compileRollup(ctx: CompileContext, shape: RollupShape, firstPara
       if (seen.has(p.column)) continue;
       seen.add(p.column);
       pieces.push(`${p.aggregate(q)} AS ${q.ident(p.column)}`);
+    }
+  }
+  for (const name of shape.moments ?? []) {
+    for (const p of momentPieces(q, ds, metricByName(ds, name))) {
+      if (seen.has(p.column)) continue;
+      seen.add(p.column);
+      pieces.push(`${p.aggregate} AS ${q.ident(p.column)}`);
     }
   }
   return q.finish(`SELECT ${keys.join(', ')},

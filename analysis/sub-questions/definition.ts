@@ -16,6 +16,8 @@ export interface RollupUse {
   when?(sq: SubQuestion, ds: DatasetConfig): boolean;
   /** The metrics its queries aggregate (default: the sub-question's own). */
   metrics?(sq: SubQuestion, ds: DatasetConfig): string[];
+  /** The metrics it compares between groups row by row, whose moments the rollup keeps (default: none). */
+  moments?(sq: SubQuestion, ds: DatasetConfig): string[];
 }
 
 export interface SubQuestionDefinition<N extends string = string> {

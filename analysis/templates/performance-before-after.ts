@@ -13,7 +13,7 @@ import type { Caveat, CellValue, DateWindow, Finding, Grain, NamedQuery, PeriodP
 import { differenceFinding, primaryMetric } from './performance-compare.js';
 import { ALPHA, CONFIDENCE, EMPTY_TABLE, groupCaveats, groupKnown, isSuppressed, memberFlag, resolveGroup, roleLabel, roleOf } from './performance-common.js';
 import { minGroupSize, suppressedGroupsCaveat, suppressSmallCells } from './small-groups.js';
-import { cellFromRow, measureColumns, measureShape, planMeasure, type MeasurePlan } from './performance-measure.js';
+import { cellFromRow, measureColumns, measureShape, planFor, type MeasurePlan } from './performance-measure.js';
 import { type Cell, cellEstimate, compareCells, contrast, poolCells, verdictOf } from './performance-stats.js';
 import type { Template } from './template.js';
 
@@ -24,7 +24,7 @@ export function compileGroupPeriods(sq: SubQuestion, ctx: CompileContext, grain:
   const group = resolveGroup(ds, sq);
   const q = new QueryBuilder(ctx.dialect);
   const period = ctx.dialect.periodStart(grain, localDateExpr(q, ctx));
-  const plan = planMeasure(q, ds, metric);
+  const plan = planFor(q, ctx, metric);
   const cols = measureColumns(q, ds, metric, plan, ctx);
   const where = whereClause(q, ctx, sq.window, sq.filters);
   const body = `SELECT ${period} AS period,

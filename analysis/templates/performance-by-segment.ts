@@ -3,7 +3,7 @@
 // folded into one "All others" row in SQL; a difference pointing the same way in most segments is
 // evidence the overall gap is not a mix effect. Small segments are flagged.
 import { groupableDimension } from '../catalog.js';
-import { type CompileContext, tableRef, whereClause } from '../compile-context.js';
+import { type CompileContext, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Direction, GroupRole, PerformanceSegmentFinding } from '../findings/performance.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CellValue, Finding, NamedQuery, SubQuestion } from '../types.js';
@@ -23,7 +23,7 @@ import {
   SMALL_SAMPLE,
   windowFinding,
 } from './performance-common.js';
-import { cellFromRow, measureColumns, measureShape, num, planMeasure, type MeasurePlan } from './performance-measure.js';
+import { cellFromRow, measureColumns, measureShape, num, planFor, type MeasurePlan } from './performance-measure.js';
 import { cellEstimate, compareCells, directionOf } from './performance-stats.js';
 import { complementaryFoldCtes, minGroupSize, suppressedGroupsCaveat, suppressedSegmentsCaveat, suppressSmallCells } from './small-groups.js';
 import type { Template } from './template.js';
@@ -41,8 +41,8 @@ export function compileSegments(sq: SubQuestion, ctx: CompileContext): NamedQuer
   const window = comparisonWindow(sq, group).window;
   const seg = q.ident(dim.column);
   const rankWhere = whereClause(q, ctx, window, sq.filters);
-  const plan = planMeasure(q, ds, metric);
-  const cols = measureColumns(q, ds, metric, plan);
+  const plan = planFor(q, ctx, metric);
+  const cols = measureColumns(q, ds, metric, plan, ctx);
   const where = whereClause(q, ctx, window, sq.filters);
   const topN = q.bind(SEGMENT_TOP_N);
   const min = minGroupSize(ds);
@@ -64,8 +64,8 @@ export function compileSegments(sq: SubQuestion, ctx: CompileContext): NamedQuer
     ];
     const inner = `WITH tc_sizes AS (
   SELECT ${seg} AS tc_segment,
-    ROW_NUMBER() OVER (ORDER BY COUNT(*) DESC, ${seg}) AS tc_rank,
-    COUNT(*) AS tc_seg_rows
+    ROW_NUMBER() OVER (ORDER BY ${rowCountSql(q, ctx)} DESC, ${seg}) AS tc_rank,
+    ${rowCountSql(q, ctx)} AS tc_seg_rows
   FROM ${tableRef(q, ctx)}
   WHERE ${rankWhere}
     AND ${groupKnown(q, group)}
@@ -108,7 +108,7 @@ GROUP BY 1, 2, 3`;
     name: 'segments',
     ...q.finish(`WITH tc_ranked AS (
   SELECT ${seg} AS tc_segment,
-    ROW_NUMBER() OVER (ORDER BY COUNT(*) DESC, ${seg}) AS tc_rank
+    ROW_NUMBER() OVER (ORDER BY ${rowCountSql(q, ctx)} DESC, ${seg}) AS tc_rank
   FROM ${tableRef(q, ctx)}
   WHERE ${rankWhere}
     AND ${groupKnown(q, group)}

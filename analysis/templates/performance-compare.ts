@@ -24,7 +24,7 @@ import {
   suppressedComparison,
   windowFinding,
 } from './performance-common.js';
-import { cellFromRow, isMoney, measureColumns, measureShape, medianColumn, num, planMeasure, type MeasurePlan } from './performance-measure.js';
+import { cellFromRow, isMoney, measureColumns, measureShape, medianColumn, num, planFor, planMeasure, type MeasurePlan } from './performance-measure.js';
 import { type Cell, cellEstimate, cellInterval, compareCells, verdictOf, type TestedDifference, type UntestedDifference } from './performance-stats.js';
 import { minGroupSize, suppressSmallCells } from './small-groups.js';
 import type { Reading, Template } from './template.js';
@@ -47,9 +47,10 @@ export function compileGroups(sq: SubQuestion, ctx: CompileContext): NamedQuery 
   const metric = primaryMetric(ds, sq);
   const group = resolveGroup(ds, sq);
   const q = new QueryBuilder(ctx.dialect);
-  const plan = planMeasure(q, ds, metric);
-  const cols = measureColumns(q, ds, metric, plan);
+  const plan = planFor(q, ctx, metric);
+  const cols = measureColumns(q, ds, metric, plan, ctx);
   const median = isMoney(metric) ? medianColumn(q, plan) : null;
+  if (median && ctx.rollup) throw new Error(`the median of ${metric.name} needs the rows, not a rollup`);
   if (median) cols.push(median);
   const where = whereClause(q, ctx, comparisonWindow(sq, group).window, sq.filters);
   const body = `SELECT ${memberFlag(q, group)} AS tc_member,

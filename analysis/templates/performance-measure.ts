@@ -8,7 +8,7 @@ import { type CompileContext, measureSql, rowCountSql } from '../compile-context
 import { filterCondition, metricAggregate } from '../sql/metric-sql.js';
 import { duckdbDialect } from '../sql/dialect.js';
 import { QueryBuilder } from '../sql/query-builder.js';
-import type { CellValue } from '../types.js';
+import type { CellValue, SubQuestion } from '../types.js';
 import type { Cell } from './performance-stats.js';
 
 export interface MeasurePlan {
@@ -23,17 +23,37 @@ export interface MeasurePlan {
   hit?: string;
   /** Totals of disjoint row sets add up (plain counts). */
   additive: boolean;
+  /** For `mean` and `ratio`: `x` and `y` as parts (see `RowPart`), from which a rollup keeps their moments. */
+  xPart?: RowPart;
+  yPart?: RowPart;
+}
+
+/**
+ * A per-row value as a column (or 1, to count) on the rows that pass `when` (all rows when null).
+ * `x` and `y` are written from it for reading rows; a rollup's moments are written from it as
+ * aggregates with FILTER (WHERE ...) and no CASE or COALESCE, which postgres_fdw (15) does not
+ * send to a shard.
+ */
+export interface RowPart {
+  value: string;
+  when: string | null;
+  /** Missing values and rows that fail `when` are left out (a mean's rows) rather than counted as 0. */
+  skipsMissing: boolean;
 }
 
 /** Decides the per-row model of a metric; every expression is built with `q`, so values are bound. */
 export function planMeasure(q: QueryBuilder, ds: DatasetConfig, metric: Metric): MeasurePlan {
   const def = metric.definition;
   switch (def.type) {
-    case 'average':
-      return { kind: 'mean', quantity: 'metric', x: maybeWhere(q, def.where, q.ident(def.column), 'NULL'), additive: false };
-    case 'sum':
+    case 'average': {
+      const xPart: RowPart = { value: q.ident(def.column), when: def.where ? filterCondition(q, def.where) : null, skipsMissing: true };
+      return { kind: 'mean', quantity: 'metric', x: partSql(xPart), xPart, additive: false };
+    }
+    case 'sum': {
       // A total per group says nothing about performance; the same money per row does (revenue per booking).
-      return { kind: 'mean', quantity: 'per_row', x: perRowPart(q, def)!, additive: false };
+      const xPart = perRowPart(q, def)!;
+      return { kind: 'mean', quantity: 'per_row', x: partSql(xPart), xPart, additive: false };
+    }
     case 'count':
       return def.where
         ? { kind: 'proportion', quantity: 'metric', base: null, hit: filterCondition(q, def.where), additive: false }
@@ -49,25 +69,32 @@ export function planMeasure(q: QueryBuilder, ds: DatasetConfig, metric: Metric):
         return { kind: 'proportion', quantity: 'metric', base: own, hit: own ? `(${cond}) AND (${own})` : cond, additive: false };
       }
       if (base.type === 'sum') {
-        const whole = perRowPart(q, base)!;
-        const own = base.where ? `(${cond}) AND (${filterCondition(q, base.where)})` : cond;
-        return { kind: 'ratio', quantity: 'metric', x: `CASE WHEN ${own} THEN COALESCE(${q.ident(base.column)}, 0) ELSE 0 END`, y: whole, additive: false };
+        const yPart = perRowPart(q, base)!;
+        const xPart: RowPart = { value: q.ident(base.column), when: yPart.when ? `(${cond}) AND (${yPart.when})` : cond, skipsMissing: false };
+        return { kind: 'ratio', quantity: 'metric', x: partSql(xPart), y: partSql(yPart), xPart, yPart, additive: false };
       }
       return { kind: 'total', quantity: 'metric', additive: false };
     }
     case 'ratio': {
-      const x = perRowPart(q, metricByName(ds, def.numerator).definition);
-      const y = perRowPart(q, metricByName(ds, def.denominator).definition);
-      return x && y ? { kind: 'ratio', quantity: 'metric', x, y, additive: false } : { kind: 'total', quantity: 'metric', additive: false };
+      const xPart = perRowPart(q, metricByName(ds, def.numerator).definition);
+      const yPart = perRowPart(q, metricByName(ds, def.denominator).definition);
+      return xPart && yPart
+        ? { kind: 'ratio', quantity: 'metric', x: partSql(xPart), y: partSql(yPart), xPart, yPart, additive: false }
+        : { kind: 'total', quantity: 'metric', additive: false };
     }
   }
 }
 
 /** A sum or count metric as the per-row part of its total (so Σ part = the metric); null for other types. */
-function perRowPart(q: QueryBuilder, def: MetricDefinition): string | null {
-  if (def.type === 'sum') return maybeWhere(q, def.where, `COALESCE(${q.ident(def.column)}, 0)`, '0');
-  if (def.type === 'count') return def.where ? `CASE WHEN ${filterCondition(q, def.where)} THEN 1 ELSE 0 END` : '1';
-  return null;
+function perRowPart(q: QueryBuilder, def: MetricDefinition): RowPart | null {
+  if (def.type !== 'sum' && def.type !== 'count') return null;
+  return { value: def.type === 'sum' ? q.ident(def.column) : '1', when: def.where ? filterCondition(q, def.where) : null, skipsMissing: false };
+}
+
+/** The part as a per-row expression: NULL where it skips a row, otherwise 0. */
+function partSql(p: RowPart): string {
+  const value = p.skipsMissing || p.value === '1' ? p.value : `COALESCE(${p.value}, 0)`;
+  return p.when ? `CASE WHEN ${p.when} THEN ${value} ELSE ${p.skipsMissing ? 'NULL' : '0'} END` : value;
 }
 
 function maybeWhere(q: QueryBuilder, where: ColumnFilter | undefined, then: string, otherwise: string): string {
@@ -76,14 +103,16 @@ function maybeWhere(q: QueryBuilder, where: ColumnFilter | undefined, then: stri
 
 /**
  * SELECT-list entries of the summary pieces, plus the catalog metric itself (tc_value) and the row
- * count (tc_rows). With a compile context over the run's rollup, only a plain total can be read
- * (see `readsRollup`); the other kinds need each row's value.
+ * count (tc_rows). Over a rollup (a compile context with `rollup`), the pieces are added up from
+ * the moments it keeps per day (see `momentPieces`); a non-additive total (a distinct count)
+ * cannot be.
  */
 export function measureColumns(q: QueryBuilder, ds: DatasetConfig, metric: Metric, plan: MeasurePlan, ctx?: CompileContext): string[] {
   if (ctx?.rollup) {
-    if (!totalOfRows(plan)) throw new Error(`a ${plan.kind} comparison of ${metric.name} needs each row, not the rollup`);
+    if (plan.kind === 'total' && !plan.additive) throw new Error(`a comparison of ${metric.name} needs each row, not the rollup`);
     const rows = q.dialect.toDouble(rowCountSql(q, ctx));
-    return [`${rows} AS tc_n`, `${measureSql(q, ctx, metric)} AS tc_value`, `${rows} AS tc_rows`];
+    const n = plan.kind === 'total' ? rows : q.dialect.toDouble(`COALESCE(SUM(${q.ident(momentName('n', metric))}), 0)`);
+    return [`${n} AS tc_n`, ...momentColumns(q, metric, plan), `${measureSql(q, ctx, metric)} AS tc_value`, `${rows} AS tc_rows`];
   }
   const d = q.dialect;
   const cols: string[] = [];
@@ -120,9 +149,117 @@ export function measureColumns(q: QueryBuilder, ds: DatasetConfig, metric: Metri
   return cols;
 }
 
-/** A comparison of plain totals of rows (bookings per group and period): sums of counts, so a rollup holds it. */
-export function totalOfRows(plan: Pick<MeasurePlan, 'kind' | 'additive'>): boolean {
-  return plan.kind === 'total' && plan.additive;
+// ---- moments kept by a day-level rollup ----------------------------------------------------------
+// A comparison between groups needs, per group, the count, mean and variance of the per-row
+// values (and for a ratio the covariance). Per day they are kept as n, the sum and the sum of
+// squares (and the sums of y, y squared and x times y), all exact for integer and decimal columns:
+// each square is taken as x * (x + 0.0), which both engines compute as a decimal. Added up over
+// the days, the variance is (n * sum(x^2) - sum(x)^2) / (n (n - 1)), the difference still exact,
+// divided in floating point last. (Floating-point columns are summed in floating point.)
+
+type Moment = 'n' | 'sx' | 'sy' | 'sxx' | 'syy' | 'sxy' | 'hits';
+
+function momentName(moment: Moment, metric: Metric): string {
+  return `tc_${moment}__${metric.name}`;
+}
+
+/** An aggregate over the rows that pass every condition given. */
+function filtered(aggregate: string, ...conditions: (string | null)[]): string {
+  const when = conditions.filter((c): c is string => !!c);
+  if (!when.length) return aggregate;
+  return `${aggregate} FILTER (WHERE ${when.length === 1 ? when[0] : when.map((c) => `(${c})`).join(' AND ')})`;
+}
+
+/** Σ part over a day (NULL when no row adds to it, read back as 0). */
+function partSum(p: RowPart): string {
+  return p.value === '1' ? filtered('COUNT(*)', p.when) : filtered(`SUM(${p.value})`, p.when);
+}
+
+/** Σ a times b over a day, as an exact decimal for integer and decimal columns: b + 0.0 is a decimal in both engines. */
+function partProduct(a: RowPart, b: RowPart): string {
+  return filtered(`SUM(${a.value} * (${b.value} + 0.0))`, a.when, b.when);
+}
+
+/**
+ * The rollup's aggregates for a compared metric's moments, built with the rollup statement's
+ * builder. A missing value adds 0 to a sum (or is left out of a mean's rows), so no COALESCE or
+ * CASE is needed per row and every piece is a plain aggregate a shard can compute.
+ */
+export function momentPieces(q: QueryBuilder, ds: DatasetConfig, metric: Metric): { column: string; aggregate: string }[] {
+  const plan = planMeasure(q, ds, metric);
+  const piece = (m: Moment, aggregate: string) => ({ column: momentName(m, metric), aggregate });
+  const { xPart: x, yPart: y } = plan;
+  switch (plan.kind) {
+    case 'mean':
+      return [piece('n', x!.skipsMissing ? filtered(`COUNT(${x!.value})`, x!.when) : 'COUNT(*)'), piece('sx', partSum(x!)), piece('sxx', partProduct(x!, x!))];
+    case 'proportion':
+      return [piece('n', filtered('COUNT(*)', plan.base ?? null)), piece('hits', filtered('COUNT(*)', plan.hit!))];
+    case 'ratio':
+      return [
+        piece('n', 'COUNT(*)'),
+        piece('sx', partSum(x!)),
+        piece('sy', partSum(y!)),
+        piece('sxx', partProduct(x!, x!)),
+        piece('syy', partProduct(y!, y!)),
+        piece('sxy', partProduct(x!, y!)),
+      ];
+    case 'total':
+      return [];
+  }
+}
+
+/** The summary pieces (all but tc_n) read back from the moments over the rollup's rows. */
+function momentColumns(q: QueryBuilder, metric: Metric, plan: MeasurePlan): string[] {
+  const d = q.dialect;
+  const sum = (m: Moment) => `COALESCE(SUM(${q.ident(momentName(m, metric))}), 0)`;
+  const n = sum('n');
+  const mean = (m: Moment) => `${d.toDouble(sum(m))} / NULLIF(${d.toDouble(n)}, 0)`;
+  // The sample (co)variance; missing, as var_samp is, for fewer than two values.
+  const covariance = (sxy: Moment, sx: Moment, sy: Moment) => `CASE WHEN ${n} > 1 THEN ${d.toDouble(`${n} * ${sum(sxy)} - ${sum(sx)} * ${sum(sy)}`)} / (${d.toDouble(n)} * ${d.toDouble(`${n} - 1`)}) END`;
+  switch (plan.kind) {
+    case 'mean':
+      return [`${mean('sx')} AS tc_mean`, `${covariance('sxx', 'sx', 'sx')} AS tc_var`];
+    case 'proportion':
+      return [`${d.toDouble(sum('hits'))} AS tc_hits`];
+    case 'ratio':
+      return [
+        `${mean('sx')} AS tc_mx`,
+        `${mean('sy')} AS tc_my`,
+        `${covariance('sxx', 'sx', 'sx')} AS tc_vx`,
+        `${covariance('syy', 'sy', 'sy')} AS tc_vy`,
+        `${covariance('sxy', 'sx', 'sy')} AS tc_cxy`,
+      ];
+    case 'total':
+      return [];
+  }
+}
+
+/**
+ * Whether a group comparison of this metric can be added up from a day-level rollup: every kind
+ * but a non-additive total (a distinct count, which needs the rows' values).
+ */
+export function comparableFromDays(plan: Pick<MeasurePlan, 'kind' | 'additive'>): boolean {
+  return plan.kind !== 'total' || plan.additive;
+}
+
+/**
+ * The per-row model as a query writes it: with the query's own builder when it reads rows, and a
+ * scratch one over a rollup (which reads the kept moments, so the per-row expressions, and the
+ * values they bind, must stay out of the statement).
+ */
+export function planFor(q: QueryBuilder, ctx: CompileContext, metric: Metric): MeasurePlan {
+  return planMeasure(ctx.rollup ? new QueryBuilder(q.dialect) : q, ctx.dataset, metric);
+}
+
+/**
+ * Whether a summary comparison (performance_compare, performance_by_segment) adds up from a
+ * day-level rollup: not for money compared as a mean, whose median (and its bootstrap sample)
+ * needs the rows.
+ */
+export function comparedFromDays(sq: SubQuestion, ds: DatasetConfig): boolean {
+  const metric = metricByName(ds, sq.metrics[0]!);
+  const shape = measureShape(ds, metric);
+  return comparableFromDays(shape) && !(shape.kind === 'mean' && isMoney(metric));
 }
 
 /** The median of the per-row value, for money compared as a mean (skewed values). */

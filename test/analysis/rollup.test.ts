@@ -51,6 +51,13 @@ const MORE: SubQuestion[] = [
   // Bookings per group and period are sums of counts; the demo plan's before/after series.
   q({ template: 'performance_before_after', kind: 'performance', lens: 'time_pattern', comparisonGroup: 'skerrypass', metrics: ['bookings'] }),
   q({ template: 'performance_before_after', kind: 'performance', lens: 'time_pattern', comparisonGroup: 'skerrypass', metrics: ['bookings'], grain: 'quarter', filters: [{ dimension: 'channel', values: ['web'] }] }),
+  // Group comparisons from counts, sums and sums of squares per day: a mean (money: the before/after
+  // series has no median), a share, a ratio, a per-row mean of a sum, and a mean that is not money.
+  q({ template: 'performance_before_after', kind: 'performance', lens: 'time_pattern', comparisonGroup: 'skerrypass', metrics: ['average_fare'], grain: 'quarter' }),
+  q({ template: 'performance_before_after', kind: 'performance', lens: 'time_pattern', comparisonGroup: 'skerrypass', metrics: ['refund_rate'] }),
+  q({ template: 'performance_compare', kind: 'performance', lens: 'summary', comparisonGroup: 'skerrypass', metrics: ['fare_per_passenger'], window: SUMMER_2024 }),
+  q({ template: 'performance_compare', kind: 'performance', lens: 'summary', comparisonGroup: 'skerrypass', metrics: ['passengers'] }),
+  q({ template: 'performance_by_segment', kind: 'performance', lens: 'breakdown', comparisonGroup: 'skerrypass', metrics: ['refund_rate'], dimension: 'channel', filters: [{ dimension: 'fare_class', values: ['foot', 'car'] }] }),
 ];
 
 const ALL = [...CASES, ...MORE];
@@ -63,11 +70,11 @@ describe('which sub-questions read the rollup', () => {
     const ds = ws.dataset;
     for (const sq of ALL) {
       const need = rollupNeeds(sq, ds);
-      // A plain count before and after, and two values' sums or counts against each other, read the rollup too.
-      const readsWhenAdditive =
-        (sq.template === 'performance_before_after' && sq.metrics[0] === 'bookings') || (sq.template === 'value_compare' && isAdditive(metricByName(ds, sq.metrics[0]!)));
-      if (!ROLLUP_TEMPLATES.has(sq.template) && !readsWhenAdditive) expect(need).toBeNull();
-      if (readsWhenAdditive) expect(need).not.toBeNull();
+      // Group comparisons of rows (not frequencies) read the rollup's moments; two values' sums or counts against each other read it too.
+      const comparison = sq.template.startsWith('performance_') && sq.template !== 'performance_frequency';
+      const valuesAdditive = sq.template === 'value_compare' && isAdditive(metricByName(ds, sq.metrics[0]!));
+      if (!ROLLUP_TEMPLATES.has(sq.template) && !comparison && !valuesAdditive) expect(need).toBeNull();
+      if (valuesAdditive) expect(need).not.toBeNull();
       if (sq.metrics.includes('customers')) expect(need).toBeNull();
     }
     expect([...ROLLUP_TEMPLATES].some((t) => t.startsWith('performance'))).toBe(false);
@@ -75,10 +82,19 @@ describe('which sub-questions read the rollup', () => {
     expect([...ROLLUP_TEMPLATES].sort()).toEqual(
       ['series', 'trend_test', 'trend_summary', 'trend_seasonality', 'segment_trend', 'segment_shares', 'growth_series', 'growth_summary', 'growth_drivers', 'growth_share_shift', 'kpi_snapshot', 'kpi_context', 'kpi_by_segment', 'kpi_mix', 'period_table'].sort(),
     );
-    // Means, shares and ratios of rows compared between groups need each row.
-    for (const metric of ['average_fare', 'refund_rate', 'fare_per_passenger', 'revenue']) {
-      expect(rollupNeeds(q({ template: 'performance_before_after', kind: 'performance', lens: 'time_pattern', comparisonGroup: 'skerrypass', metrics: [metric] }), ds)).toBeNull();
+    // Means, shares and ratios compared between groups add up from the days' moments; the
+    // summary of money compared as a mean also gives its median, which needs each row, and
+    // frequencies are per customer.
+    const group = { kind: 'performance' as const, comparisonGroup: 'skerrypass' };
+    for (const metric of ['average_fare', 'refund_rate', 'fare_per_passenger', 'revenue', 'bookings']) {
+      expect(rollupNeeds(q({ ...group, template: 'performance_before_after', lens: 'time_pattern', metrics: [metric] }), ds)?.moments).toEqual([metric]);
     }
+    for (const metric of ['average_fare', 'revenue']) {
+      expect(rollupNeeds(q({ ...group, template: 'performance_compare', lens: 'summary', metrics: [metric] }), ds)).toBeNull();
+      expect(rollupNeeds(q({ ...group, template: 'performance_by_segment', lens: 'breakdown', dimension: 'route', metrics: [metric] }), ds)).toBeNull();
+    }
+    for (const metric of ['refund_rate', 'fare_per_passenger', 'passengers']) expect(rollupNeeds(q({ ...group, template: 'performance_compare', lens: 'summary', metrics: [metric] }), ds)).not.toBeNull();
+    expect(rollupNeeds(q({ ...group, template: 'performance_frequency', lens: 'distribution', metrics: ['bookings'] }), ds)).toBeNull();
     // A breakdown by personal data is refused by its template, not folded into a rollup.
     expect(rollupNeeds(q({ template: 'segment_shares', kind: 'trend', lens: 'distribution', dimension: 'customer_email' }), ds)).toBeNull();
   });
@@ -122,7 +138,9 @@ describe('answers over the rollup equal answers read from the table', () => {
   });
 
   it('has cases for every template that reads the rollup', () => {
-    expect(new Set(ALL.filter((sq) => rollupNeeds(sq, ws.dataset)).map((sq) => sq.template))).toEqual(new Set([...ROLLUP_TEMPLATES, 'performance_before_after', 'value_compare']));
+    expect(new Set(ALL.filter((sq) => rollupNeeds(sq, ws.dataset)).map((sq) => sq.template))).toEqual(
+      new Set([...ROLLUP_TEMPLATES, 'performance_before_after', 'performance_compare', 'performance_by_segment', 'value_compare']),
+    );
   });
 
   for (const [i, sq] of ALL.entries()) {
