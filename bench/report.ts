@@ -405,6 +405,8 @@ function sharedStateSection(ack: BenchRun['ack']): string[] {
 interface WarehouseSummary {
   w: WarehouseResult;
   total: number;
+  /** DuckDB's median on the same data, in the same run. */
+  duckdb: number | null;
   totalMin: number;
   totalMax: number;
   phase: Record<Phase, number>;
@@ -427,6 +429,7 @@ function summariseWarehouse(w: WarehouseResult): WarehouseSummary {
   return {
     w,
     total: median(w.ours.map((o) => o.totalMs)),
+    duckdb: w.duckdb?.length ? median(w.duckdb.map((o) => o.totalMs)) : null,
     totalMin: Math.min(...w.ours.map((o) => o.totalMs)),
     totalMax: Math.max(...w.ours.map((o) => o.totalMs)),
     phase: { open: phase('open'), checks: phase('checks'), sql: phase('sql'), read: phase('read'), render: phase('render'), post: phase('post') },
@@ -470,6 +473,8 @@ function warehouseSection(run: BenchRun): { lines: string[]; targets: string[] }
     `| ours, first run on this data (s) | ${results.map((w) => sec(w.oursCold.totalMs)).join(' | ')} |`,
     `| · its open (coverage) + quality check (s) | ${results.map((w) => `${sec(w.oursCold.phases.open.wallMs)} + ${sec(w.oursCold.phases.checks.wallMs)}`).join(' | ')} |`,
     `| **ours, end to end** (warm) (s) | ${all.map((a) => `**${sec(a.total)}** [${sec(a.totalMin)}–${sec(a.totalMax)}]`).join(' | ')} |`,
+    `| the same request on DuckDB, same data, this run (s) | ${all.map((a) => (a.duckdb !== null ? sec(a.duckdb) : 'n/a')).join(' | ')} |`,
+    `| ours on this layout ÷ DuckDB | ${all.map((a) => (a.duckdb !== null ? ratio(a.total / a.duckdb) : 'n/a')).join(' | ')} |`,
     `| · open: version check, coverage kept (s) | ${all.map((a) => sec(a.phase.open)).join(' | ')} |`,
     `| · quality: version check, report kept (s) | ${all.map((a) => sec(a.phase.checks)).join(' | ')} |`,
     `| · SQL of the plan (wall, s) | ${all.map((a) => sec(a.phase.sql)).join(' | ')} |`,

@@ -69,6 +69,8 @@ export interface WarehouseResult {
   rows: number;
   loadSeconds: number;
   partitions: { name: string; server: string }[];
+  /** The same request on DuckDB over the same data, in this run (absent in runs from before it was kept). */
+  duckdb?: OursResult[];
   /** The first run on this data (quality report and coverage not kept yet), then the warm runs. */
   oursCold: OursResult;
   ours: OursResult[];
@@ -343,7 +345,11 @@ async function measureWarehouse(sizes: number[], reps: number): Promise<{ result
       const data = await benchData(rows, log);
       // DuckDB's answers on the same data: the numbers every warehouse run must match.
       log(`warehouse ${rows.toLocaleString('en')} rows: DuckDB's answers, for the comparison...`);
-      const reference = (await child<OursResult>('ours', { configPath: data.configPath })).numbers;
+      // Run as many times as the warehouse's warm runs, so its median sits beside theirs.
+      const duckdb: OursResult[] = [];
+      for (let i = 0; i < reps; i++) duckdb.push(await child<OursResult>('ours', { configPath: data.configPath }));
+      const reference = duckdb[0]!.numbers;
+      log(`warehouse ${rows.toLocaleString('en')} rows: DuckDB ${(median(duckdb.map((o) => o.totalMs)) / 1000).toFixed(2)} s`);
       for (const layout of ['plain', 'sharded'] as const) {
         const label = `warehouse ${rows.toLocaleString('en')} rows, ${layout}`;
         const loaded = await loadLayout(layout, data, servers, log);
@@ -367,7 +373,7 @@ async function measureWarehouse(sizes: number[], reps: number): Promise<{ result
           log(`${label}: ours ${(o.totalMs / 1000).toFixed(2)} s, floor ${(f.floorMs / 1000).toFixed(2)} s (run ${i + 1} of ${reps})`);
         }
         const agreement = merge([oursCold, ...ours].map((o) => compareNumbers(reference, o.numbers)));
-        results.push({ layout, rows: loaded.rows, loadSeconds: loaded.loadSeconds, partitions: loaded.partitions, oursCold, ours, floor, agreement });
+        results.push({ layout, rows: loaded.rows, loadSeconds: loaded.loadSeconds, partitions: loaded.partitions, duckdb, oursCold, ours, floor, agreement });
         await withClient(loaded.adminUrl, (c) => c.query(`DROP SCHEMA ${WAREHOUSE_SCHEMA} CASCADE`));
         if (layout === 'sharded') for (const s of servers.sharded.shards) await withClient(s.url, (c) => c.query(`DROP SCHEMA ${WAREHOUSE_SCHEMA} CASCADE`));
       }
