@@ -7,6 +7,7 @@
 //   monthpass:YYYY-MM:true|false        bookings by month and pass holding
 //   launch:SEGMENT:true|false           bookings since the launch by route and pass holding ("(all)" for both groups)
 //   fpp:YYYY-MM, refshare:YYYY-MM       fare per passenger and refunded share of revenue by complete month
+//                                       (the period table's figures for those months must be the same)
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 
@@ -63,6 +64,9 @@ export function numbersFromThreadTables(tablesDir: string): Numbers {
     out[key] = n;
   };
   const month = (iso: string) => iso.slice(0, 7);
+  // The period table repeats the KPI metrics month by month, partial months included: its figures
+  // must equal the KPI tables' for the months those hold; it adds no keys of its own.
+  const repeated: [string, string | undefined][] = [];
   for (const file of readdirSync(tablesDir).sort()) {
     const rows = parseCsv(readFileSync(join(tablesDir, file), 'utf8'));
     const kind = file.replace(/^\d+-/, '').replace(/\.csv$/, '');
@@ -110,10 +114,20 @@ export function numbersFromThreadTables(tablesDir: string): Numbers {
       for (const r of rows) put(`fpp:${month(r.period!)}`, r.fare_per_passenger);
     } else if (kind === 'kpi_snapshot-refunded_revenue_share' || kind === 'kpi_context-refunded_revenue_share') {
       for (const r of rows) put(`refshare:${month(r.period!)}`, r.refunded_revenue_share);
+    } else if (kind === 'period_table-fare_per_passenger-refunded_revenue_share-by_period') {
+      // Whole periods (g_period 0, g_window 1); the other rows are the window's parts and totals.
+      const whole = rows.filter((x) => x.g_period === '0' && x.g_window === '1');
+      if (whole.length === 0) throw new Error(`no whole periods in ${file}: its columns have changed`);
+      for (const r of whole) {
+        repeated.push([`fpp:${month(r.period!)}`, r.fare_per_passenger], [`refshare:${month(r.period!)}`, r.refunded_revenue_share]);
+      }
+    } else if (kind === 'period_table-fare_per_passenger-refunded_revenue_share') {
+      // The period table as shown (rounded, with its changes and marks): its figures are checked above, from its query's result.
     } else {
       throw new Error(`the plan answered with a table the benchmark does not know: ${file}`);
     }
   }
+  for (const [key, value] of repeated) if (out[key] !== undefined) put(key, value);
   return out;
 }
 
