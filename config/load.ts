@@ -4,7 +4,7 @@
 // line and the key.
 import { readFileSync } from 'node:fs';
 import { dirname, isAbsolute, resolve } from 'node:path';
-import { LineCounter, parseDocument, isNode } from 'yaml';
+import { LineCounter, parseDocument, isNode, visit } from 'yaml';
 import type { z } from 'zod';
 import { configFileSchema } from './file-schema.js';
 import { keyPath, normaliseConfig } from './normalise.js';
@@ -79,7 +79,7 @@ export function parseYamlWithSchema<S extends z.ZodType>(
       })),
     );
   }
-  const raw: unknown = doc.toJS();
+  const raw: unknown = toPlainData(doc, file, lineCounter);
   const lineOf = (path: (string | number)[]): number | null => {
     // Walk up to the nearest node that exists, so a missing key points at its parent.
     for (let n = path.length; n >= 0; n--) {
@@ -101,6 +101,45 @@ export function parseYamlWithSchema<S extends z.ZodType>(
     );
   }
   return { data: parsed.data, lineOf };
+}
+
+/**
+ * The document as plain data. The YAML library refuses aliases that expand past its limit (an
+ * "alias bomb": a few lines that would grow to millions of values); that is reported at the first
+ * alias that refers to other aliases, with the file and line, like any other problem.
+ */
+function toPlainData(doc: ReturnType<typeof parseDocument>, file: string, lineCounter: LineCounter): unknown {
+  try {
+    return doc.toJS();
+  } catch (err) {
+    if (!(err instanceof ReferenceError) || !/alias/i.test(err.message)) throw err;
+    let at: number | null = null;
+    let first: number | null = null;
+    visit(doc, {
+      Alias(_key, node) {
+        const line = node.range ? lineCounter.linePos(node.range[0]).line : null;
+        first ??= line;
+        const target = node.resolve(doc);
+        if (target && at === null && hasAlias(target)) {
+          at = line;
+          return visit.BREAK;
+        }
+        return undefined;
+      },
+    });
+    throw new ConfigError([{ file, line: at ?? first, key: '', message: 'YAML aliases here expand to more values than a config can hold (aliases of aliases); write the values out instead' }]);
+  }
+}
+
+function hasAlias(node: unknown): boolean {
+  let found = false;
+  visit(node as Parameters<typeof visit>[0], {
+    Alias() {
+      found = true;
+      return visit.BREAK;
+    },
+  });
+  return found;
 }
 
 export function resolveSourcePath(config: LoadedConfig, path: string): string {
