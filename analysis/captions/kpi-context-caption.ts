@@ -4,7 +4,8 @@ import type { KpiContextFinding } from '../findings/kpi.js';
 import { formatValue } from '../format.js';
 import type { Audience } from '../types.js';
 import type { KpiWords } from './kpi-snapshot-caption.js';
-import { grainNoun, kpiValue, metricMeaning, ordinal, periodName } from './kpi-words.js';
+import { grainNoun, kpiValue, ordinal, periodName } from './kpi-words.js';
+import { metricMeaning } from './metric-words.js';
 
 export function kpiContextWords(f: KpiContextFinding, metric: Metric, ds: DatasetConfig, audience: Audience, locale: string): KpiWords {
   const when = periodName(f.period, f.grain, locale);
@@ -22,7 +23,7 @@ export function kpiContextWords(f: KpiContextFinding, metric: Metric, ds: Datase
   const title = `${metric.label} in ${when} was ${value}, ${place.replace(/ since .*$/, '')}`;
 
   const sentences: string[] = [];
-  const meaning = audience === 'leadership' ? '' : ` (${metricMeaning(metric, ds)})`;
+  const meaning = audience === 'leadership' ? '' : ` (${metricMeaning(metric, ds, audience)})`;
   sentences.push(`${metric.label}${meaning} was ${value} in ${when}, ${place}.`);
   if (f.n > 1) {
     const range = `from ${kpiValue(f.min, metric, locale)} in ${periodName(f.minPeriod, f.grain, locale)} to ${kpiValue(f.max, metric, locale)} in ${periodName(f.maxPeriod, f.grain, locale)}`;

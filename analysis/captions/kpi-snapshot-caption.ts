@@ -7,13 +7,12 @@ import {
   cardValue,
   changePhrase,
   grainNoun,
-  metricFormula,
-  metricMeaning,
   periodName,
   points,
   shortPeriodName,
   verdict,
 } from './kpi-words.js';
+import { metricFormula, metricMeaning } from './metric-words.js';
 
 export interface KpiWords {
   title: string;
@@ -52,7 +51,7 @@ export function kpiSnapshotWords(
     if (phrase === null) return `no figure for ${periodName(d.period, f.grain, locale)} to compare with`;
     return phrase === 'level' ? `level with ${base}` : `${phrase} on ${base}`;
   });
-  const meaning = audience === 'leadership' ? '' : ` (${metricMeaning(metric, ds)})`;
+  const meaning = audience === 'leadership' ? '' : ` (${metricMeaning(metric, ds, audience)})`;
   sentences.push(`${metric.label}${meaning} was ${value} in ${when}${latestNote}: ${detailed.join(' and ')}.`);
 
   const verdicts = comparisons.map((d) => verdict(d, metric));

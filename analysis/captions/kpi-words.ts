@@ -1,6 +1,6 @@
-// Words the KPI captions share: the metric's definition spelled out, a change against a
+// Words the KPI captions share: a change against a
 // comparison point, period names and segment labels. Every number and date goes through format.ts.
-import type { DatasetConfig, Dimension, Metric, MetricDefinition } from '../../config/schema.js';
+import type { DatasetConfig, Dimension, Metric } from '../../config/schema.js';
 import type { KpiDelta, SegmentKey } from '../findings/kpi.js';
 import { formatChange, formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import type { Grain } from '../types.js';
@@ -10,43 +10,6 @@ import { pluralNoun } from './grammar.js';
 export const FLAT_RELATIVE = 0.0005;
 // Rates move in percentage points; under 0.05 points is level.
 export const FLAT_POINTS = 0.0005;
-
-/** The catalog definition as a formula in words: "sum of fare_total", "revenue divided by passengers". */
-export function metricFormula(metric: Metric, ds: DatasetConfig): string {
-  return formulaOf(metric.definition, ds);
-}
-
-/** The catalog's description, else the formula. */
-export function metricMeaning(metric: Metric, ds: DatasetConfig): string {
-  return metric.description ?? metricFormula(metric, ds);
-}
-
-function formulaOf(def: MetricDefinition, ds: DatasetConfig): string {
-  const label = (name: string) => ds.metrics.find((m) => m.name === name)?.label.toLowerCase() ?? name;
-  const where = 'where' in def && def.where ? ` where ${conditionText(def.where)}` : '';
-  switch (def.type) {
-    case 'sum':
-      return `sum of ${def.column}${where}`;
-    case 'count':
-      return `number of rows${where}`;
-    case 'distinct_count':
-      return `number of distinct ${def.column} values${where}`;
-    case 'average':
-      return `mean of ${def.column}${where}`;
-    case 'ratio':
-      return `${label(def.numerator)} divided by ${label(def.denominator)}`;
-    case 'rate':
-      return def.of ? `share of ${label(def.of)} from rows where ${conditionText(def.where)}` : `share of rows where ${conditionText(def.where)}`;
-  }
-}
-
-function conditionText(f: { column: string; op: string; value?: unknown }): string {
-  const ops: Record<string, string> = { eq: 'is', ne: 'is not', gt: 'is above', gte: 'is at least', lt: 'is below', lte: 'is at most', in: 'is one of' };
-  if (f.op === 'is_true') return `${f.column} is true`;
-  if (f.op === 'is_false') return `${f.column} is false`;
-  const v = Array.isArray(f.value) ? f.value.join(', ') : String(f.value ?? '');
-  return `${f.column} ${ops[f.op] ?? f.op} ${v}`;
-}
 
 export function isRate(metric: Metric): boolean {
   return metric.unit === 'percent';

@@ -1,10 +1,11 @@
-// The frame every chart shares: white page, accent rule, title, subtitle, optional legend
-// row, and the small print at the bottom. The chart itself goes in `plot`.
+// The frame every chart shares: white page, the header (a bold title; under it a chip naming the
+// metric with the subtitle beside it; a full-width hairline closing the header), an optional
+// legend row, and the small print at the bottom above a lighter hairline. The chart goes in `plot`.
 import type { SKRSContext2D } from '@napi-rs/canvas';
 import type { Box } from './geometry.js';
 import type { ChartHeader } from './spec.js';
-import { wrapText } from './text.js';
-import { font, INK, layoutUnit, OKABE_ITO } from './theme.js';
+import { ellipsize, wrapText } from './text.js';
+import { CHIP, font, INK, layoutUnit } from './theme.js';
 
 export type SwatchShape = 'line' | 'dashed' | 'box' | 'hollow' | 'whisker' | 'line-dot';
 
@@ -21,7 +22,12 @@ export interface FrameLayout {
   u: number;
   margin: number;
   title: { lines: string[]; size: number; lineHeight: number; top: number };
-  subtitle: { lines: string[]; size: number; lineHeight: number; top: number };
+  /** The metric's chip, left of the subtitle; null without one. */
+  chip: { text: string; size: number; box: Box } | null;
+  /** Subtitle lines start at `left` (right of the chip), each line as wide as the rest of the row. */
+  subtitle: { lines: string[]; size: number; lineHeight: number; top: number; left: number };
+  /** The hairline under the header, full width between the margins. */
+  rule: { y: number; width: number };
   legend: { items: LegendItem[]; size: number; top: number };
   footer: { lines: string[]; size: number; lineHeight: number; top: number };
   /** Space left for the chart, in layout pixels. */
@@ -39,18 +45,22 @@ export function layoutFrame(ctx: SKRSContext2D, header: ChartHeader, legend: Leg
   const titleSize = 30 * u;
   ctx.font = font(titleSize, true);
   const titleLines = header.title.trim() === '' ? [] : wrapText(ctx, header.title, textWidth, 2);
-  const titleTop = 46 * u;
+  const titleTop = 26 * u;
   const titleLH = titleSize * 1.22;
 
   const subtitleSize = 18 * u;
-  ctx.font = font(subtitleSize);
-  const subtitleLines = header.subtitle.trim() === '' ? [] : wrapText(ctx, header.subtitle, textWidth, 2);
-  const subtitleTop = titleTop + titleLines.length * titleLH + 6 * u;
   const subtitleLH = subtitleSize * 1.3;
+  const subtitleTop = titleTop + titleLines.length * titleLH + 8 * u;
+  const chip = layoutChip(ctx, header.chip, margin, subtitleTop, subtitleLH, u, textWidth / 3);
+  const subtitleLeft = chip ? chip.box.right + 10 * u : margin;
+  ctx.font = font(subtitleSize);
+  const subtitleLines = header.subtitle.trim() === '' ? [] : wrapText(ctx, header.subtitle, width - margin - subtitleLeft, 2);
 
-  let cursor = subtitleTop + subtitleLines.length * subtitleLH;
+  const headerBottom = Math.max(subtitleTop + subtitleLines.length * subtitleLH, chip ? chip.box.bottom : 0);
+  const ruleY = Math.round(headerBottom + 12 * u) + 0.5;
+  let cursor = ruleY;
   const legendSize = 14 * u;
-  const legendTop = cursor + 12 * u;
+  const legendTop = cursor + 14 * u;
   if (legend.length > 0) cursor = legendTop + legendSize * 1.4;
 
   const footerSize = 12.5 * u;
@@ -68,11 +78,27 @@ export function layoutFrame(ctx: SKRSContext2D, header: ChartHeader, legend: Leg
     u,
     margin,
     title: { lines: titleLines, size: titleSize, lineHeight: titleLH, top: titleTop },
-    subtitle: { lines: subtitleLines, size: subtitleSize, lineHeight: subtitleLH, top: subtitleTop },
+    chip,
+    subtitle: { lines: subtitleLines, size: subtitleSize, lineHeight: subtitleLH, top: subtitleTop, left: subtitleLeft },
+    rule: { y: ruleY, width: Math.max(1, u) },
     legend: { items: legend, size: legendSize, top: legendTop },
     footer: { lines: footerLines, size: footerSize, lineHeight: footerLH, top: footerTop },
     plot: { left: margin, top: cursor + 18 * u, right: width - margin, bottom: plotBottom },
   };
+}
+
+/** A rounded chip holding the metric's name, centred on the subtitle's first line; never wider than `maxWidth`. */
+function layoutChip(ctx: SKRSContext2D, text: string | undefined, left: number, lineTop: number, lineHeight: number, u: number, maxWidth: number): FrameLayout['chip'] {
+  const label = text?.trim() ?? '';
+  if (label === '') return null;
+  const size = 14 * u;
+  const padX = 9 * u;
+  ctx.font = font(size, true);
+  const fitted = ellipsize(ctx, label, maxWidth - 2 * padX);
+  const w = ctx.measureText(fitted).width + 2 * padX;
+  const h = size * 1.75;
+  const top = lineTop + (lineHeight - h) / 2;
+  return { text: fitted, size, box: { left, top, right: left + w, bottom: top + h } };
 }
 
 /** Paints the page and the frame texts; the context is in layout pixels. */
@@ -82,23 +108,26 @@ export function drawFrame(ctx: SKRSContext2D, layout: FrameLayout): void {
   ctx.fillStyle = INK.background;
   ctx.fillRect(0, 0, layout.width, layout.height);
 
-  // The house mark: a short two-tone rule above the title.
-  ctx.fillStyle = OKABE_ITO.blue;
-  ctx.fillRect(margin, 24 * u, 36 * u, 5 * u);
-  ctx.fillStyle = OKABE_ITO.skyBlue;
-  ctx.fillRect(margin + 36 * u, 24 * u, 14 * u, 5 * u);
-
   ctx.textBaseline = 'top';
   ctx.textAlign = 'left';
   ctx.fillStyle = INK.title;
   ctx.font = font(layout.title.size, true);
   layout.title.lines.forEach((line, i) => ctx.fillText(line, margin, layout.title.top + i * layout.title.lineHeight));
 
+  if (layout.chip) drawChip(ctx, layout.chip, u);
   ctx.fillStyle = INK.text;
   ctx.font = font(layout.subtitle.size);
   layout.subtitle.lines.forEach((line, i) =>
-    ctx.fillText(line, margin, layout.subtitle.top + i * layout.subtitle.lineHeight),
+    ctx.fillText(line, layout.subtitle.left, layout.subtitle.top + i * layout.subtitle.lineHeight),
   );
+
+  // The hairline closing the header, margin to margin.
+  ctx.strokeStyle = CHIP.rule;
+  ctx.lineWidth = layout.rule.width;
+  ctx.beginPath();
+  ctx.moveTo(margin, layout.rule.y);
+  ctx.lineTo(layout.width - margin, layout.rule.y);
+  ctx.stroke();
 
   drawLegend(ctx, layout);
 
@@ -116,6 +145,25 @@ export function drawFrame(ctx: SKRSContext2D, layout: FrameLayout): void {
       ctx.fillText(line, margin, layout.footer.top + i * layout.footer.lineHeight),
     );
   }
+  ctx.restore();
+}
+
+export function drawChip(ctx: SKRSContext2D, chip: NonNullable<FrameLayout['chip']>, u: number): void {
+  const { box } = chip;
+  const h = box.bottom - box.top;
+  ctx.save();
+  ctx.fillStyle = CHIP.fill;
+  ctx.strokeStyle = CHIP.edge;
+  ctx.lineWidth = Math.max(1, u);
+  ctx.beginPath();
+  ctx.roundRect(box.left, box.top, box.right - box.left, h, h / 2);
+  ctx.fill();
+  ctx.stroke();
+  ctx.fillStyle = CHIP.text;
+  ctx.font = font(chip.size, true);
+  ctx.textBaseline = 'middle';
+  ctx.textAlign = 'center';
+  ctx.fillText(chip.text, (box.left + box.right) / 2, box.top + h / 2 + 0.5 * u);
   ctx.restore();
 }
 

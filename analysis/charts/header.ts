@@ -4,6 +4,7 @@ import type { ChartHeader } from './spec.js';
 export function headerOf(input: ChartHeader): ChartHeader {
   return {
     title: input.title,
+    ...(input.chip ? { chip: input.chip } : {}),
     subtitle: input.subtitle,
     footer: [...input.footer],
     width: input.width,

@@ -6,7 +6,7 @@ import { encodePng } from './png.js';
 import { drawChart } from './render.js';
 import type { ChartSpec } from './spec.js';
 import { ellipsize, wrapText } from './text.js';
-import { INK, OKABE_ITO, font } from './theme.js';
+import { CHIP, INK, font } from './theme.js';
 
 export interface DigestInput {
   title: string;
@@ -48,14 +48,19 @@ export async function renderDigest(input: DigestInput): Promise<Buffer> {
   ctx.fillStyle = INK.background;
   ctx.fillRect(0, 0, WIDTH, height);
 
-  ctx.fillStyle = OKABE_ITO.blue;
-  ctx.fillRect(MARGIN, 36, 64, 6);
   ctx.fillStyle = INK.title;
   ctx.font = font(40, true);
-  ctx.fillText(fitted(input.title, font(40, true)), MARGIN, 92);
+  ctx.fillText(fitted(input.title, font(40, true)), MARGIN, 72);
   ctx.fillStyle = INK.text;
   ctx.font = font(22);
-  ctx.fillText(fitted(input.subtitle, font(22)), MARGIN, 128);
+  ctx.fillText(fitted(input.subtitle, font(22)), MARGIN, 110);
+  // The same closing hairline as every chart's header.
+  ctx.strokeStyle = CHIP.rule;
+  ctx.lineWidth = 1;
+  ctx.beginPath();
+  ctx.moveTo(MARGIN, 134.5);
+  ctx.lineTo(WIDTH - MARGIN, 134.5);
+  ctx.stroke();
 
   let y = headerH + 20;
   ctx.fillStyle = INK.title;

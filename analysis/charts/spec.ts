@@ -18,6 +18,8 @@ export type ChartKind = (typeof CHART_KINDS)[number];
 /** Texts and size every chart carries. */
 export interface ChartHeader {
   title: string;
+  /** Names what the chart measures ("Revenue"), drawn as a chip before the subtitle. */
+  chip?: string;
   subtitle: string;
   /** Small print: dataset, "data as of …", caveat flags; one entry per fact. */
   footer: string[];

@@ -22,6 +22,12 @@ export const INK = {
   background: '#FFFFFF',
 } as const;
 
+/**
+ * The header's own marks: a pale chip with dark blue text naming the metric (contrast about 8:1,
+ * readable without colour vision), and the grey hairline that closes the header.
+ */
+export const CHIP = { fill: '#EAF3FA', edge: '#B9D6EC', text: '#0B4A75', rule: '#C3CAD1' } as const;
+
 /** Good news is blue, bad news vermillion: distinguishable without red–green vision. */
 export const SENTIMENT = { good: OKABE_ITO.blue, bad: OKABE_ITO.vermillion, neutral: INK.muted } as const;
 

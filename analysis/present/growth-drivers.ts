@@ -38,6 +38,7 @@ function driversChart(answer: Answer, f: GrowthDriversFinding, title: string, ct
   if (items.length === 0 && !folded) return null;
   return buildBars({
     title,
+    chip: metric.label,
     subtitle: twoSpanSubtitle(answer, metric, f.current, f.prior, ctx),
     footer: chartFooter(answer, ctx),
     ...ctx.chart,

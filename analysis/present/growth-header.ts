@@ -9,7 +9,7 @@ import { metricDefinition } from './header.js';
 import type { PresentContext } from './presenter.js';
 
 export function twoSpanSubtitle(answer: Answer, metric: Metric, current: GrowthSpan, prior: GrowthSpan, ctx: PresentContext): string {
-  const parts = [`${metric.label}: ${metricDefinition(metric)}`, `${spanText(current, ctx.locale)} against ${spanText(prior, ctx.locale)}`];
+  const parts = [metricDefinition(metric, ctx), `${spanText(current, ctx.locale)} against ${spanText(prior, ctx.locale)}`];
   parts.push(...filterSubtitleParts(answer.subQuestion.filters, ctx.dataset));
   return parts.join(' · ');
 }

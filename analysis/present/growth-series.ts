@@ -31,6 +31,7 @@ function growthChart(answer: Answer, series: GrowthSeriesFinding, title: string,
   const metric = metricByName(ctx.dataset, series.metric);
   const header = {
     title,
+    chip: metric.label,
     subtitle: chartSubtitle(answer, metric, ctx),
     footer: chartFooter(answer, ctx),
     ...ctx.chart,

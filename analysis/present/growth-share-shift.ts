@@ -42,6 +42,7 @@ function shareChart(answer: Answer, f: GrowthShareShiftFinding, title: string, c
   if (![...items, ...(folded ? [folded] : [])].some((i) => i.value > 0)) return null;
   return buildPareto({
     title,
+    chip: metric.label,
     subtitle: twoSpanSubtitle(answer, metric, f.current, f.prior, ctx),
     footer: chartFooter(answer, ctx),
     ...ctx.chart,

@@ -17,6 +17,7 @@ export const presentGrowthSummary: Presenter = (answer, ctx) => {
     f && f.n > 0
       ? buildLine({
           title: words.title,
+          chip: metric.label,
           subtitle: chartSubtitle(answer, metric, ctx),
           footer: chartFooter(answer, ctx),
           ...ctx.chart,

@@ -1,11 +1,12 @@
-// The subtitle and footer every chart carries, so an image forwarded alone still says what it
-// shows: the metric's definition, the period, the grain and filters; the source, the data's
-// date and the caveat flags.
+// The header, subtitle and footer every chart carries, so an image forwarded alone still says what
+// it shows: the metric's name on the chip; its meaning, the period, the grain and filters in the
+// subtitle; the source, the data's date and the caveat flags in the footer.
 import { filterSubtitleParts } from '../captions/scope-words.js';
 import { grainAdjective } from '../grains.js';
 import type { Metric } from '../../config/schema.js';
 import { caveatFlag, caveatNote } from '../captions/caveat-text.js';
 import { formatPeriod } from '../format.js';
+import { metricMeaning } from '../captions/metric-words.js';
 import { addDays } from '../periods.js';
 import { buildLine } from '../charts/build-line.js';
 import type { LineSpec } from '../charts/spec.js';
@@ -14,15 +15,16 @@ import type { Answer, Finding, PeriodPoint } from '../types.js';
 import type { PresentContext } from './presenter.js';
 
 
-export function metricDefinition(metric: Metric): string {
-  return metric.description ?? metric.definition.type.replace('_', ' ');
+/** What `metric` means, in the words its reader gets (no raw column names outside analysts). */
+export function metricDefinition(metric: Metric, ctx: PresentContext): string {
+  return metricMeaning(metric, ctx.dataset, ctx.audience);
 }
 
 export function chartSubtitle(answer: Answer, metric: Metric, ctx: PresentContext, opts: { grain?: boolean } = {}): string {
   const sq = answer.subQuestion;
   const from = formatPeriod(sq.window.start, 'day', ctx.locale);
   const to = formatPeriod(addDays(sq.window.end, -1), 'day', ctx.locale);
-  const parts = [`${metric.label}: ${metricDefinition(metric)}`, `${from} to ${to}`];
+  const parts = [metricDefinition(metric, ctx), `${from} to ${to}`];
   if (opts.grain !== false) parts.push(grainAdjective(sq.grain));
   parts.push(...filterSubtitleParts(sq.filters, ctx.dataset));
   return parts.join(' · ');
@@ -39,7 +41,7 @@ export function caveatNotes(answer: Answer, ctx: PresentContext): string[] {
 }
 
 export function chartHeader(answer: Answer, metric: Metric, title: string, ctx: PresentContext) {
-  return { title, subtitle: chartSubtitle(answer, metric, ctx), footer: chartFooter(answer, ctx), ...ctx.chart };
+  return { title, chip: metric.label, subtitle: chartSubtitle(answer, metric, ctx), footer: chartFooter(answer, ctx), ...ctx.chart };
 }
 
 /** The answer's series of `metric` as a line chart (high and low marked), or null with no values. */

@@ -29,7 +29,7 @@ export const presentKpiBySegment: Presenter = (answer, ctx) => {
   const other = rows.find((r) => r.other);
   const chart = rows.length
     ? buildBars({
-        ...kpiHeader(answer, words.title, kpiSubtitle(answer, metric, ctx, ly ? what : comparedText(f.period, [], f.grain, ctx.locale)), ctx),
+        ...kpiHeader(answer, metric, words.title, kpiSubtitle(answer, metric, ctx, ly ? what : comparedText(f.period, [], f.grain, ctx.locale)), ctx),
         items: rows.filter((r) => !r.other).map((r) => ({ label: labelOf(r), value: r.value! })),
         // The template already combined the tail in the database: drawn last and neutral, nothing folded again.
         folded: other ? { label: labelOf(other), value: other.value! } : null,

@@ -25,7 +25,7 @@ export const presentKpiContext: Presenter = (answer, ctx) => {
   const words = kpiContextWords(f, metric, ctx.dataset, ctx.audience, ctx.locale);
   const what = `${periodName(f.firstPeriod, f.grain, ctx.locale)} to ${periodName(f.period, f.grain, ctx.locale)}, ${grainAdjective(f.grain)}; latest complete: ${periodName(f.period, f.grain, ctx.locale)}`;
   const chart = buildLine({
-    ...kpiHeader(answer, words.title, kpiSubtitle(answer, metric, ctx, what), ctx),
+    ...kpiHeader(answer, metric, words.title, kpiSubtitle(answer, metric, ctx, what), ctx),
     seriesLabel: metric.label,
     grain: sq.grain,
     points: series.points,

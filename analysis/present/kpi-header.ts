@@ -3,13 +3,13 @@
 // not show), and the shared footer.
 import { filterSubtitleParts } from '../captions/scope-words.js';
 import type { Metric } from '../../config/schema.js';
-import { metricMeaning, periodName } from '../captions/kpi-words.js';
+import { periodName } from '../captions/kpi-words.js';
 import type { Answer, Caveat, Grain } from '../types.js';
-import { caveatNotes, chartFooter } from './header.js';
+import { caveatNotes, chartFooter, metricDefinition } from './header.js';
 import type { PresentContext } from './presenter.js';
 
 export function kpiSubtitle(answer: Answer, metric: Metric, ctx: PresentContext, what: string): string {
-  const parts = [`${metric.label}: ${metricMeaning(metric, ctx.dataset)}`, what];
+  const parts = [metricDefinition(metric, ctx), what];
   parts.push(...filterSubtitleParts(answer.subQuestion.filters, ctx.dataset));
   return parts.join(' · ');
 }
@@ -21,8 +21,8 @@ export function comparedText(period: string, bases: (string | null)[], grain: Gr
   return named.length ? `${latest}, vs ${named.join(' and ')}` : latest;
 }
 
-export function kpiHeader(answer: Answer, title: string, subtitle: string, ctx: PresentContext) {
-  return { title, subtitle, footer: chartFooter(answer, ctx), ...ctx.chart };
+export function kpiHeader(answer: Answer, metric: Metric, title: string, subtitle: string, ctx: PresentContext) {
+  return { title, chip: metric.label, subtitle, footer: chartFooter(answer, ctx), ...ctx.chart };
 }
 
 /** Caveat notes, leaving out those the caption already states in words. */

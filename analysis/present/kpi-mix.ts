@@ -31,7 +31,7 @@ export const presentKpiMix: Presenter = (answer, ctx) => {
   const chart =
     items.length && f.countToThreshold !== null
       ? buildPareto({
-          ...kpiHeader(answer, words.title, kpiSubtitle(answer, metric, ctx, what), ctx),
+          ...kpiHeader(answer, metric, words.title, kpiSubtitle(answer, metric, ctx, what), ctx),
           items,
           format: base ? valueFormatOf(base, ctx.locale) : { unit: 'count', locale: ctx.locale },
           valueLabel: base?.label ?? 'Rows',

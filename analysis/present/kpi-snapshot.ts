@@ -18,7 +18,7 @@ export const presentKpiSnapshot: Presenter = (answer, ctx) => {
   const words = kpiSnapshotWords(f, metric, ctx.dataset, ctx.audience, ctx.locale, answer.caveats);
   const subtitle = kpiSubtitle(answer, metric, ctx, comparedText(f.period, [f.previous.period, f.lastYear?.period ?? null], f.grain, ctx.locale));
   const chart = buildKpiCard({
-    ...kpiHeader(answer, words.title, subtitle, ctx),
+    ...kpiHeader(answer, metric, words.title, subtitle, ctx),
     metricLabel: metric.label,
     format: valueFormatOf(metric, ctx.locale),
     higherIsBetter: metric.higher_is_better,

@@ -15,13 +15,14 @@ export function performanceHeader(
 ): ChartHeader {
   const win = opts.window ?? findOne(answer.findings, 'performance_window') ?? answer.subQuestion.window;
   const parts = [
-    `${opts.label}: ${metricDefinition(opts.metric)}`,
+    // The chip names the metric; a label of its own ("% lower for …") still leads the subtitle.
+    opts.label === opts.metric.label ? metricDefinition(opts.metric, ctx) : `${opts.label}: ${metricDefinition(opts.metric, ctx)}`,
     windowText(win, ctx.locale),
     `${opts.group.label}: ${opts.group.members_label} vs ${opts.group.others_label}`,
     ...(opts.extra ?? []),
   ];
   parts.push(...filterSubtitleParts(answer.subQuestion.filters, ctx.dataset));
-  return { title: opts.title, subtitle: parts.join(' · '), footer: chartFooter(answer, ctx), ...ctx.chart };
+  return { title: opts.title, chip: opts.metric.label, subtitle: parts.join(' · '), footer: chartFooter(answer, ctx), ...ctx.chart };
 }
 
 /** Caveat notes plus the presenter's own; leadership captions already carry the observational caution. */

@@ -37,7 +37,7 @@ export const presentPeriodTable: Presenter = (answer, ctx) => {
     metrics: table.columns.map((c) => ({ metric: metricByName(ds, c.metric), basis: c.basis })),
     rows,
     total: { label: totalLabel, values: table.columns.map((c) => c.total.value) },
-    notes: smallPrint(table, totalLabel, ds),
+    notes: smallPrint(table, totalLabel, ctx),
   });
   return {
     title: words.title,
@@ -66,7 +66,8 @@ function totalsLabel(rules: TotalRule[]): string {
 }
 
 /** The small print: what the totals row holds, how changes are stated and compared, what each metric means. */
-function smallPrint(table: PeriodTableFinding, totalLabel: string, ds: DatasetConfig): string[] {
+function smallPrint(table: PeriodTableFinding, totalLabel: string, ctx: PresentContext): string[] {
+  const ds = ctx.dataset;
   const label = (name: string) => inSentence(metricByName(ds, name).label);
   const byRule = (rule: TotalRule) => table.columns.filter((c) => c.total.rule === rule).map((c) => label(c.metric));
   const totals = [
@@ -80,7 +81,7 @@ function smallPrint(table: PeriodTableFinding, totalLabel: string, ds: DatasetCo
   const inUnits = table.columns.filter((c) => c.basis === 'units').map((c) => label(c.metric));
   const basis = [inPoints.length ? `in percentage points for ${listJoin(inPoints)}` : '', inUnits.length ? `in its own units for ${listJoin(inUnits)}` : ''].filter((s) => s);
   const changes = `Changes on the ${grain} before and on ${yearEarlier}, in percent${basis.length ? ` (${basis.join('; ')})` : ''}; colour shows better or worse for the metric, each column on its own scale. ★ and ✖ mark each metric's best and worst complete ${grain} of the whole table.`;
-  const meanings = table.columns.map((c) => `${metricByName(ds, c.metric).label}: ${metricDefinition(metricByName(ds, c.metric))}`).join('; ');
+  const meanings = table.columns.map((c) => `${metricByName(ds, c.metric).label}: ${metricDefinition(metricByName(ds, c.metric), ctx)}`).join('; ');
   return [`${capitalise(changes)}`, `${totalLabel} row: ${totals.join('; ')}.`, `${meanings}.`];
 }
 

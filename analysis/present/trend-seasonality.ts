@@ -20,6 +20,7 @@ export const presentTrendSeasonality: Presenter = (answer, ctx) => {
   // The profile is monthly whatever grain was asked for, so the subtitle says "monthly".
   const header = {
     title: words.title,
+    chip: metric.label,
     subtitle: chartSubtitle({ ...answer, subQuestion: { ...sq, grain: 'month' } }, metric, ctx),
     footer: chartFooter(answer, ctx),
     ...ctx.chart,

@@ -16,7 +16,7 @@ export const presentSegmentShares: Presenter = (answer, ctx) => {
   const dim = dimensionByName(ctx.dataset, sq.dimension ?? '');
   const words = segmentSharesWords(metric, dim, answer.findings, ctx.audience, ctx.locale);
   const f = answer.findings.find((x): x is SegmentSharesFinding => x.type === 'segment_shares' && x.metric === metric.name);
-  const header = { title: words.title, subtitle: chartSubtitle(answer, metric, ctx, { grain: false }), footer: chartFooter(answer, ctx), ...ctx.chart };
+  const header = { title: words.title, chip: metric.label, subtitle: chartSubtitle(answer, metric, ctx, { grain: false }), footer: chartFooter(answer, ctx), ...ctx.chart };
   let chart = null;
   if (f) {
     // The template folded the tail in SQL: the fold comes last, drawn as the tail, and nothing is folded again.

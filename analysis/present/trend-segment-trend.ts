@@ -30,6 +30,7 @@ export const presentSegmentTrend: Presenter = (full, ctx) => {
     items.length + (folded ? 1 : 0) > 0
       ? buildBars({
           title: words.title,
+          chip: metric.label,
           subtitle: chartSubtitle(answer, metric, ctx, { grain: false }),
           footer: chartFooter(answer, ctx),
           ...ctx.chart,

@@ -23,8 +23,9 @@ export const presentValueCompare: Presenter = (answer, ctx) => {
     f && first && second && hasValues
       ? buildLine({
           title: words.title,
+          chip: metric.label,
           subtitle: [
-            `${metric.label}: ${metricDefinition(metric)}`,
+            metricDefinition(metric, ctx),
             `${spanText(f.current, ctx.locale)} against ${spanText(f.prior, ctx.locale)}`,
             ...filterSubtitleParts(answer.subQuestion.filters, ctx.dataset),
           ].join(' · '),

@@ -11,7 +11,9 @@ import type { Box, ChartGeometry } from '../../../analysis/charts/geometry.js';
 import { renderDigest } from '../../../analysis/charts/render-digest.js';
 import { renderChart, renderChartToFile, renderChartWithGeometry } from '../../../analysis/charts/render.js';
 import type { ChartSpec } from '../../../analysis/charts/spec.js';
-import { INK, OKABE_ITO, SENTIMENT } from '../../../analysis/charts/theme.js';
+import { CHIP, INK, OKABE_ITO, SENTIMENT } from '../../../analysis/charts/theme.js';
+import { layoutFrame } from '../../../analysis/charts/frame.js';
+import { createCanvas } from '@napi-rs/canvas';
 import {
   allSamples,
   barsSpec,
@@ -442,5 +444,32 @@ describe('robustness', () => {
     } finally {
       rmSync(dir, { recursive: true, force: true });
     }
+  });
+});
+
+describe('header', () => {
+  // Issue 17 item 18: our own header, a chip naming the metric and a full-width hairline under it,
+  // with no short solid bar above the title.
+  it('draws the chip where the layout puts it, the hairline margin to margin, and nothing above the title', async () => {
+    const spec = { ...lineSpec(), chip: 'Revenue' };
+    const layout = layoutFrame(createCanvas(10, 10).getContext('2d'), spec);
+    const { img } = await render(spec);
+    const chip = layout.chip!;
+    expect(chip.text).toBe('Revenue');
+    expect(countColour(img, chip.box, hex(CHIP.fill), 6)).toBeGreaterThan(200);
+    expect(countColour(img, chip.box, hex(CHIP.text), 40)).toBeGreaterThan(30);
+    // The subtitle starts right of the chip.
+    expect(layout.subtitle.left).toBeGreaterThan(chip.box.right);
+    const ruleRow = { left: 0, top: Math.floor(layout.rule.y), right: img.width, bottom: Math.floor(layout.rule.y) + 1 };
+    expect(countColour(img, ruleRow, hex(CHIP.rule), 20)).toBeGreaterThan(img.width - 2 * layout.margin - 4);
+    // Above the title: white only (the old accent bar sat there).
+    expect(countDark(img, { left: 0, top: 0, right: img.width, bottom: layout.title.top - 2 })).toBe(0);
+    expect(countColour(img, { left: 0, top: 0, right: img.width, bottom: layout.title.top - 2 }, BLUE, 60)).toBe(0);
+  });
+
+  it('leaves the subtitle at the margin without a chip', () => {
+    const layout = layoutFrame(createCanvas(10, 10).getContext('2d'), lineSpec());
+    expect(layout.chip).toBeNull();
+    expect(layout.subtitle.left).toBe(layout.margin);
   });
 });

@@ -100,7 +100,8 @@ describe('kpi_snapshot presenter', () => {
       ['vs April 2025', 'up', 'good'],
       ['vs May 2024', 'down', 'bad'],
     ]);
-    expect(card.subtitle).toBe('Average fare per passenger: revenue divided by passengers · Latest complete month, May 2025, vs April 2025 and May 2024');
+    expect(card.chip).toBe('Average fare per passenger');
+    expect(card.subtitle).toBe('revenue divided by passengers · Latest complete month, May 2025, vs April 2025 and May 2024');
   });
 
   it('words a rate in points, and a rise in a lower-is-better rate as worse', () => {
@@ -174,7 +175,7 @@ describe('kpi_by_segment presenter', () => {
 
   it('lists segments, names the biggest mover and the segment new since last year', () => {
     const c = present('managers').caption;
-    expect(c).toContain('Revenue (sum of fare_total over all bookings) by route in May 2025: Mainland–Tern Holm €78K, Mainland–Saltreach €64.5K, Tern Holm–Saltreach €10.4K; all routes together €178K.');
+    expect(c).toContain('Revenue (sum of fare total over all bookings) by route in May 2025: Mainland–Tern Holm €78K, Mainland–Saltreach €64.5K, Tern Holm–Saltreach €10.4K; all routes together €178K.');
     // Saltreach: (64,500 − 61,300) / 61,300 = +5.22% beats Tern Holm's −5.11%.
     expect(c).toContain('The biggest change on May 2024 was Mainland–Saltreach, up 5.2%.');
     expect(c).toContain('No figure a year earlier for Tern Holm–Saltreach.');
