@@ -1,5 +1,6 @@
-// The conversation: a message in a thread moves it from one stage to the next (request ->
-// clarifying prompts -> plan -> agreed run) and says so in the thread. Each handler gets the
+// The conversation: a message in a thread moves it from one stage to the next (request -> a
+// question only for what cannot be defaulted -> the brief card, corrected in place -> agreed run
+// -> follow-ups that start new runs) and says so in the thread. Each handler gets the
 // thread in its own stage and returns the thread's state after the message; what it says and
 // logs goes through the Step, written together at the end. A new stage is a member of the
 // ThreadState union and a case in `respond`.
@@ -10,12 +11,13 @@ import { whoOf, type Who } from './AuditLog.js';
 import type { Brief } from './brief.js';
 import { readCommand, type Command } from './commands.js';
 import { readRequest } from './reading/read-request.js';
-import { readWindowAnswer } from './reading/answers.js';
-import { applyPlanEdit, buildPlan, readPlanEdit, type PlanEdit } from './plan.js';
+import { changesSomething, readCorrection, type Correction } from './reading/corrections.js';
+import { buildCard, cardControls, cardText } from './card.js';
+import { applyCorrection, planFor } from './card-edits.js';
 import type { IncomingMessage } from './port.js';
 import { datasetPrompt, nextPrompt, personalDataRefusal, readAnswer, readDatasetAnswer, type Prompt } from './prompts.js';
 import * as replies from './replies.js';
-import { Step, type StepContext } from './Step.js';
+import { Step, type PostExtras, type StepContext } from './Step.js';
 import type { ThreadDatasets } from './ThreadDatasets.js';
 import {
   commonOf,
@@ -109,8 +111,7 @@ export class Conversation {
         return state;
       case 'done':
       case 'cancelled':
-        step.say('note', replies.finished());
-        return state;
+        return this.onFollowUp(step, state, msg.text);
     }
   }
 
@@ -196,36 +197,49 @@ export class Conversation {
     return readRequest(text, datasetFacts(ws), { now: this.deps.now(), locale: this.deps.datasets.locale });
   }
 
-  /** The dataset is known: acknowledge, refuse any personal data named, then ask or plan. */
+  /** The dataset is known: log any personal data refused, then ask what cannot be defaulted, or post the card. */
   private begin(step: Step, thread: ThreadCommon, nameDataset: boolean): ThreadState {
     const ds = this.deps.datasets.of(thread).dataset;
-    const ack = replies.acknowledgement(thread.brief, ds);
-    step.say('ack', nameDataset ? `${replies.datasetChosen(ds.label)} ${ack}` : ack);
     const personal = thread.brief.personalData ?? [];
     if (personal.length > 0) {
       // Labels, not catalog names: a personal dimension's name is often its column's.
       const labels = personal.map((n) => ds.dimensions.find((d) => d.name === n)?.label ?? n);
       step.log('denied', { reason: 'personal_data', dimensions: labels, text: thread.brief.requestText });
-      step.say('note', `${personalDataRefusal(ds, personal)} I'll answer the rest of the request without it.`);
     }
-    return this.advance(step, thread);
+    const ack = replies.acknowledgement(thread.brief, ds);
+    return this.advance(step, thread, nameDataset ? `${replies.datasetChosen(ds.label)} ${ack}` : ack);
   }
 
-  /** Asks the next prompt, or proposes the plan when nothing is left to ask. */
-  private advance(step: Step, thread: ThreadCommon): ThreadState {
+  /** Asks what cannot be defaulted (with `lead` said first), or posts the brief card. */
+  private advance(step: Step, thread: ThreadCommon, lead?: string): ThreadState {
     const ws = this.deps.datasets.of(thread);
     const prompt = nextPrompt(thread.brief, this.deps.datasets.promptContext(ws, this.deps.now()));
-    if (prompt) return this.ask(step, thread, prompt);
+    if (prompt) return this.ask(step, thread, prompt, lead);
+    return this.propose(step, thread);
+  }
+
+  /** Posts the brief card (what was read, what is assumed, the plan) and waits for "go" or a correction. */
+  private propose(step: Step, thread: ThreadCommon): PlanningState {
     thread.waitingSince = this.stamp();
-    const plan = buildPlan(thread.brief, ws.dataset, ws.coverage);
-    step.say('plan', replies.planText(plan, ws.dataset, this.deps.datasets.locale), { quickReplies: replies.PLAN_REPLIES });
-    return enterStage<PlanningState>(thread, { stage: 'planning', plan });
+    const { plan, post } = this.card(thread);
+    const cardKey = step.say('card', post.text, post.extras);
+    return enterStage<PlanningState>(thread, { stage: 'planning', plan, cardKey });
+  }
+
+  /** The card for a thread's brief, and the plan it shows. */
+  private card(thread: ThreadCommon): { plan: PlanningState['plan']; post: { text: string; extras: PostExtras } } {
+    const ws = this.deps.datasets.of(thread);
+    const locale = this.deps.datasets.locale;
+    const { plan, defaults } = planFor(thread.brief, ws.dataset, ws.coverage, thread.dropped ?? []);
+    const card = buildCard(thread.brief, plan, { dataset: ws.dataset, coverage: ws.coverage, locale, defaults });
+    card.notes.push(...replies.cardNotes(thread.brief, ws.dataset));
+    return { plan, post: { text: cardText(card), extras: { quickReplies: replies.CARD_REPLIES, controls: cardControls(card) } } };
   }
 
   /** Posts a prompt and waits for its answer. */
-  private ask(step: Step, thread: ThreadCommon, prompt: Prompt): ClarifyingState {
+  private ask(step: Step, thread: ThreadCommon, prompt: Prompt, lead?: string): ClarifyingState {
     thread.waitingSince = this.stamp();
-    step.say('prompt', replies.promptText(prompt), { prompt });
+    step.say('prompt', lead ? `${lead}\n\n${replies.promptText(prompt)}` : replies.promptText(prompt), { prompt, ...(lead ? { promptLead: lead } : {}) });
     return enterStage<ClarifyingState>(thread, { stage: 'clarifying', prompt });
   }
 
@@ -261,37 +275,97 @@ export class Conversation {
     return this.advance(step, state);
   }
 
+  /** A reply to the card: "go", "cancel", or a correction that edits the card in place. */
   private onPlanReply(step: Step, state: PlanningState, text: string): ThreadState {
-    const edit = readPlanEdit(text);
-    if (edit.type === 'agree') {
+    const c = this.correction(state, text);
+    if (c.agree) {
       if (state.plan.items.length === 0) {
         step.say('note', replies.emptyPlan());
         return state;
       }
+      this.settleCard(step, state, replies.cardAgreed(state.plan.items.length));
       return this.agreed(step, state, state.plan, 1);
     }
-    if (edit.type === 'cancel') {
+    if (c.cancel) {
+      this.settleCard(step, state, replies.cancelled());
       step.say('cancelled', replies.cancelled());
       return cancelledFrom(state);
     }
     state.waitingSince = this.stamp();
-    if (edit.type === 'unknown') {
-      step.say('note', replies.planEditHelp());
-      return state;
-    }
-    const resolved = this.resolvePlanEdit(edit, state);
-    if ('refusal' in resolved) {
-      step.say('note', resolved.refusal);
-      return state;
-    }
-    const { plan, error } = applyPlanEdit(state.plan, resolved.edit);
-    if (error) {
-      step.say('note', error);
-      return state;
-    }
+    const edit = this.edit(step, state, c, text);
+    if (!edit) return state;
+    state.brief = edit.brief;
+    state.dropped = edit.dropped;
+    const { plan, post } = this.card(state);
     state.plan = plan;
-    step.say('plan', replies.planText(plan, this.deps.datasets.of(state).dataset, this.deps.datasets.locale), { quickReplies: replies.PLAN_REPLIES });
+    if (state.cardKey) step.edit(state.cardKey, post.text, post.extras);
+    else state.cardKey = step.say('card', post.text, post.extras);
+    step.say('note', replies.cardChanged(edit.changes, edit.problems));
     return state;
+  }
+
+  /**
+   * After a run: a correction ("rerun it weekly", "same for 2023", "now split that by channel",
+   * "drop the seasonality one") starts a new run from the last brief with the change, asking
+   * nothing again; a new question gets a card of its own, keeping what the thread settled.
+   */
+  private onFollowUp(step: Step, state: ThreadState, text: string): ThreadState {
+    const c = this.correction(state, text);
+    if (c.agree || c.cancel) {
+      step.say('note', replies.finished());
+      return state;
+    }
+    const ws = this.deps.datasets.of(state);
+    if (changesSomething(c) && 'plan' in state && state.plan) {
+      const edit = this.edit(step, state, c, text);
+      if (!edit) return state;
+      const thread = commonOf(state);
+      thread.brief = edit.brief;
+      thread.dropped = edit.dropped;
+      const { plan } = planFor(edit.brief, ws.dataset, ws.coverage, edit.dropped);
+      step.say('rerun', replies.followUpRun(edit.changes, edit.problems, replies.planLines(plan, ws.dataset, this.deps.datasets.locale)));
+      return this.agreed(step, thread, plan, ('run' in state && state.run ? state.run.number : 0) + 1);
+    }
+    const read = this.readBrief(text, ws.dataset);
+    if (read.questions.length > 0 && (read.metrics.length > 0 || read.kinds.length > 0) && c.unread.length === 0) {
+      const thread = commonOf(state);
+      const before = state.brief;
+      // What the thread already settled carries over unless the new question says otherwise.
+      thread.brief = { ...read, audience: read.audience ?? before.audience, grain: read.grain ?? before.grain, deadline: read.deadline ?? before.deadline };
+      delete thread.dropped;
+      return this.advance(step, thread);
+    }
+    step.say('note', replies.finished());
+    return state;
+  }
+
+  private correction(state: ThreadState, text: string): Correction {
+    const ws = this.deps.datasets.of(state);
+    return readCorrection(text, datasetFacts(ws), this.deps.now(), this.deps.datasets.locale);
+  }
+
+  /** A correction applied to the thread's brief; undefined (with the reason said) when nothing could change. */
+  private edit(step: Step, state: PlanningState | ThreadState, c: Correction, text: string): ReturnType<typeof applyCorrection> | undefined {
+    const ws = this.deps.datasets.of(state);
+    if (c.personalData.length > 0) {
+      step.log('denied', { reason: 'personal_data', dimensions: c.personalData, text });
+      step.say('note', personalDataRefusal(ws.dataset, c.personalData));
+      return undefined;
+    }
+    const plan = 'plan' in state && state.plan ? state.plan : planFor(state.brief, ws.dataset, ws.coverage, state.dropped ?? []).plan;
+    const edit = applyCorrection(state.brief, c, plan, state.dropped ?? [], { dataset: ws.dataset, coverage: ws.coverage, locale: this.deps.datasets.locale, words: text });
+    if (edit.changes.length === 0) {
+      step.say('note', replies.correctionNotRead(text, c.unread, edit.problems));
+      return undefined;
+    }
+    return edit;
+  }
+
+  /** The card answered: its controls removed, so it cannot be answered twice; its text stays with a last line. */
+  private settleCard(step: Step, state: PlanningState, last: string): void {
+    if (!state.cardKey) return;
+    const { post } = this.card(state);
+    step.edit(state.cardKey, `${post.text.split('\n').filter((l) => !/^For example:/.test(l)).join('\n')}\n${last}`);
   }
 
   /** A plan agreed (or rerun): the thread runs it once its state is written. */
@@ -301,23 +375,6 @@ export class Conversation {
     delete running.waitingSince;
     step.then(() => this.deps.launch(running));
     return running;
-  }
-
-  /** Matches an edit's words to the catalog and the data's coverage. */
-  private resolvePlanEdit(edit: PlanEdit, state: PlanningState): { edit: PlanEdit } | { refusal: string } {
-    const ws = this.deps.datasets.of(state);
-    if (edit.type === 'add_breakdown') {
-      const read = readRequest(`by ${edit.phrase}`, datasetFacts(ws), { now: this.deps.now() });
-      if ((read.personalData ?? []).length > 0) return { refusal: personalDataRefusal(ws.dataset, read.personalData!) };
-      const dimension = read.dimensions[0] ?? read.questions.flatMap((q) => q.filters.map((f) => f.dimension))[0];
-      return { edit: { ...edit, ...(dimension ? { dimension } : {}) } };
-    }
-    if (edit.type === 'window') {
-      const w = readWindowAnswer(edit.phrase, datasetFacts(ws), this.deps.now());
-      if (!w.ok) return { refusal: /couldn't read/.test(w.message) ? replies.planEditHelp() : w.message };
-      return { edit: { ...edit, window: w.value.window, ...(w.value.compareWindow ? { compareWindow: w.value.compareWindow } : {}) } };
-    }
-    return { edit };
   }
 
   private stamp(): string {

@@ -29,6 +29,22 @@ export class Posting {
     return ref;
   }
 
+  /**
+   * Replaces the post recorded under `target` in place, once under `key`. A target never posted
+   * (lost with a platform's history) is posted anew instead, so the thread still shows it.
+   */
+  async editOnce(threadId: string, key: string, target: string, post: Omit<OutgoingPost, 'key'>, who: Who): Promise<string> {
+    const ref = await this.store.postRef(target);
+    if (ref === undefined) return this.postOnce(threadId, key, post, who);
+    const entry = this.audit.entry(who, 'post', { key, edits: target, text: post.text, files: [] });
+    await this.store.postOnce({ key, threadId, audit: [entry] }, async () => {
+      await this.port.update(threadId, ref, post.text, post);
+      return ref;
+    });
+    this.remember(key);
+    return ref;
+  }
+
   /** Whether a post is recorded under `key` (this process's memory first, then the store). */
   async isPosted(key: string): Promise<boolean> {
     return this.posted.has(key) || (await this.store.postRef(key)) !== undefined;

@@ -14,7 +14,7 @@ export interface StepContext {
   now: () => Date;
 }
 
-export type PostExtras = Pick<OutgoingPost, 'prompt' | 'promptLead' | 'quickReplies'>;
+export type PostExtras = Pick<OutgoingPost, 'prompt' | 'promptLead' | 'quickReplies' | 'controls'>;
 
 export class Step {
   private readonly entries: AuditEntry[] = [];
@@ -37,9 +37,19 @@ export class Step {
     return this.thread.threadId;
   }
 
-  /** A post in the thread under the next key, "<thread>:<prefix>:<n>". */
-  say(prefix: string, text: string, extra: PostExtras = {}): void {
-    this.posts.push({ key: `${this.threadId}:${prefix}:${this.counter++}`, post: { text, ...extra } });
+  /** A post in the thread under the next key, "<thread>:<prefix>:<n>"; returns the key. */
+  say(prefix: string, text: string, extra: PostExtras = {}): string {
+    const key = `${this.threadId}:${prefix}:${this.counter++}`;
+    this.posts.push({ key, post: { text, ...extra } });
+    return key;
+  }
+
+  /**
+   * Replaces the post made under `target` (the brief card after a correction), whole: text and
+   * controls. The edit has a key of its own, so a restart makes it once more at most (harmless).
+   */
+  edit(target: string, text: string, extra: PostExtras = {}): void {
+    this.posts.push({ key: `${this.threadId}:edit:${this.counter++}`, post: { text, ...extra }, edits: target });
   }
 
   /** A reply outside a request's state (a command in a new thread, a refusal): its key is its own. */
@@ -72,7 +82,10 @@ export class Step {
       else delete state.outbox;
     }
     if (state || this.entries.length > 0) await this.ctx.store.commit({ audit: this.entries, ...(state ? { state } : {}) });
-    for (const p of outbox) await this.ctx.posting.postOnce(this.threadId, p.key, p.post, this.thread);
+    for (const p of outbox) {
+      if (p.edits) await this.ctx.posting.editOnce(this.threadId, p.key, p.edits, p.post, this.thread);
+      else await this.ctx.posting.postOnce(this.threadId, p.key, p.post, this.thread);
+    }
     for (const work of this.after) await work();
   }
 

@@ -39,17 +39,15 @@ export interface PromptContext {
   locale: string;
 }
 
-/** The next thing to ask, or null when the brief is complete enough to propose a plan. */
+/**
+ * The one thing that must be asked before the brief card, or null. Only what has no safe default
+ * is asked: no measure at all, a measure the catalog lacks, a word matching several values.
+ * Audience, deadline, grain, period and breakdowns are defaulted on the card (bot/brief-defaults.ts).
+ */
 export function nextPrompt(brief: Brief, ctx: PromptContext): Prompt | null {
-  if (brief.unknownTerms.some((u) => u.role === 'metric') || brief.questions.length === 0 || questionsWithoutMetric(brief).length > 0) return metricsPrompt(brief, ctx);
+  const noMeasure = brief.questions.length === 0 || brief.questions.every((q) => q.metrics.length === 0 && !q.frequency);
+  if (brief.unknownTerms.some((u) => u.role === 'metric') || noMeasure) return metricsPrompt(brief, ctx);
   if ((brief.ambiguousValues ?? []).length > 0) return valuesPrompt(brief, ctx);
-  if (!brief.audience) return audiencePrompt();
-  if (!brief.deadline) return deadlinePrompt(ctx);
-  if (!brief.grain) return grainPrompt(ctx);
-  if (!brief.window && needsWindow(brief)) return windowPrompt(brief, ctx);
-  if (brief.dimensions.length === 0 && brief.questions.some((q) => q.kind === 'growth' && q.dimensions.length === 0) && !brief.dimensionsAsked) {
-    return dimensionsPrompt(ctx);
-  }
   return null;
 }
 
@@ -58,10 +56,6 @@ export function questionsWithoutMetric(brief: Brief) {
   return brief.questions.filter((q) => q.metrics.length === 0 && !q.frequency);
 }
 
-/** A window is asked only for questions that name no period of their own. */
-function needsWindow(brief: Brief): boolean {
-  return brief.questions.some((q) => !q.window && !q.launchDate);
-}
 
 /** A word that matches several values: which was meant, with the candidates as options. */
 function valuesPrompt(brief: Brief, ctx: PromptContext): Prompt {
@@ -118,19 +112,6 @@ export function personalDataRefusal(ds: DatasetConfig, names: readonly string[])
   return `I can't break anything down by, filter on or show ${what}: the catalog marks ${labels.length === 1 ? 'it' : 'them'} as personal data, and personal data is never grouped by, filtered on or shown in any answer, table or SQL.`;
 }
 
-function dimensionsPrompt(ctx: PromptContext): Prompt {
-  const dims = ctx.dataset.dimensions.filter((d) => !d.personal_data && !ctx.dataset.comparison_groups.some((g) => g.column === d.column));
-  const first = dims[0];
-  return {
-    topic: 'dimensions',
-    question: 'Which breakdown should explain the change?',
-    options: [...dims.map((d) => ({ value: d.name, label: d.label })), { value: 'none', label: 'No breakdown' }],
-    recommended: first
-      ? { value: first.name, label: first.label, reason: 'the first breakdown in the catalog' }
-      : { value: 'none', label: 'No breakdown', reason: 'the dataset has no dimensions' },
-    many: true,
-  };
-}
 
 function metricsPrompt(brief: Brief, ctx: PromptContext): Prompt {
   const ds = ctx.dataset;
@@ -156,30 +137,7 @@ function metricsPrompt(brief: Brief, ctx: PromptContext): Prompt {
   };
 }
 
-function audiencePrompt(): Prompt {
-  return {
-    topic: 'audience',
-    question: 'Who will read this?',
-    options: (['leadership', 'managers', 'analysts'] as const).map((a) => ({ value: a, label: `${AUDIENCE_LABELS[a].label} (${AUDIENCE_LABELS[a].detail})` })),
-    recommended: { value: 'managers', label: 'Managers', reason: 'plain words with enough detail to act on' },
-    many: false,
-  };
-}
 
-function deadlinePrompt(ctx: PromptContext): Prompt {
-  const inAWeek = addDays(ctx.now.toISOString().slice(0, 10), 7);
-  return {
-    topic: 'deadline',
-    question: 'When do you need it by?',
-    options: [
-      { value: 'asap', label: 'As soon as possible' },
-      { value: inAWeek, label: 'Within a week' },
-      { value: 'none', label: 'No deadline' },
-    ],
-    recommended: { value: 'asap', label: 'As soon as possible', reason: 'the run takes a minute or two once the plan is agreed' },
-    many: false,
-  };
-}
 
 export function recommendedGrain(coverage: Coverage): { grain: Grain; reason: string } {
   if (!coverage.firstDate || !coverage.lastDate) return { grain: 'month', reason: 'the usual grain for a business review' };
@@ -189,16 +147,6 @@ export function recommendedGrain(coverage: Coverage): { grain: Grain; reason: st
   return { grain: 'day', reason: 'the data spans under three months' };
 }
 
-function grainPrompt(ctx: PromptContext): Prompt {
-  const rec = recommendedGrain(ctx.coverage);
-  return {
-    topic: 'grain',
-    question: 'At what time grain?',
-    options: GRAINS.map((g) => ({ value: g, label: GRAIN_LABEL[g] })),
-    recommended: { value: rec.grain, label: GRAIN_LABEL[rec.grain], reason: rec.reason },
-    many: false,
-  };
-}
 
 const GRAIN_LABEL = Object.fromEntries(GRAINS.map((g) => [g, capitalise(GRAIN_WORDS[g].adjective)])) as Record<Grain, string>;
 
@@ -206,30 +154,6 @@ function capitalise(s: string): string {
   return s.charAt(0).toUpperCase() + s.slice(1);
 }
 
-function windowPrompt(brief: Brief, ctx: PromptContext): Prompt {
-  const full = fullWindow(ctx.coverage);
-  const grain = brief.grain ?? 'month';
-  const describe = (w: DateWindow) =>
-    `${formatPeriod(w.start, 'month', ctx.locale, 'long')} to ${formatPeriod(addDays(w.end, -1), 'month', ctx.locale, 'long')}`;
-  const fullLabel = full ? `All available data (${describe(full)})` : 'All available data';
-  const options: PromptOption[] = [{ value: 'all', label: fullLabel }];
-  if (ctx.coverage.lastDate) {
-    const end = periodStart(addDays(ctx.coverage.lastDate, 1), 'month');
-    options.push({ value: 'last 12 months', label: `The last 12 full months (to ${formatPeriod(addMonths(end, -1), 'month', ctx.locale, 'long')})` });
-    options.push({ value: 'last 24 months', label: 'The last 24 full months' });
-  }
-  return {
-    topic: 'window',
-    question: 'Over what period?',
-    options,
-    recommended: {
-      value: 'all',
-      label: fullLabel,
-      reason: `the whole history shows the ${GRAIN_LABEL[grain].toLowerCase()} pattern best; a partial last period is marked and kept out of the highs and lows`,
-    },
-    many: false,
-  };
-}
 
 export type AnswerReading = { ok: true; brief: Brief } | { ok: false; message: string };
 

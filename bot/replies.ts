@@ -1,5 +1,6 @@
 // The words of every bot post. Plain text with light markdown (bold with *, lists with -),
 // which each adapter renders in its platform's way.
+import { personalDataRefusal } from './prompts.js';
 import type { DatasetConfig } from '../config/schema.js';
 import { formatPeriod } from '../analysis/format.js';
 import { describeSubQuestion } from '../analysis/sub-questions/describe.js';
@@ -37,9 +38,7 @@ function requestAcknowledgement(brief: Brief, ds: DatasetConfig): string {
   const metrics = listJoin([...new Set(brief.questions.flatMap((q) => q.metrics))].map((m) => metricLabel(ds, m).toLowerCase()));
   const n = brief.questions.length;
   const what = n > 1 ? `${n} questions (${kinds})` : `a ${kinds || 'trend'} question`;
-  return metrics
-    ? `On it: ${what} about ${metrics}. A few quick questions first, then a plan to agree.`
-    : `On it: ${what}. A few quick questions first, then a plan to agree.`;
+  return metrics ? `On it: ${what} about ${metrics}. One thing first, then a brief to agree.` : `On it: ${what}. One thing first, then a brief to agree.`;
 }
 
 function listJoin(xs: string[]): string {
@@ -75,10 +74,61 @@ function capitalise(s: string): string {
 }
 
 /** The plan's one-click replies, for platforms with buttons. */
+/** The plan's headings and numbered items only (no date readings or edit help): for the card and reruns. */
+export function planLines(plan: Plan, ds: DatasetConfig, locale: string): string[] {
+  return planText(plan, ds, locale)
+    .split('\n')
+    .filter((l) => /^\*[^*]+\*$|^\d+\. /.test(l));
+}
+
 export const PLAN_REPLIES = [
   { value: 'go', label: 'Go: run the plan', primary: true },
   { value: 'cancel', label: 'Cancel', primary: false },
 ];
+
+/** Go and Cancel under the brief card. */
+export const CARD_REPLIES = [
+  { value: 'go', label: 'Go: run it', primary: true },
+  { value: 'cancel', label: 'Cancel', primary: false },
+];
+
+/** The card's notes drawn from the brief: what was refused, cut or not recognised. */
+export function cardNotes(brief: Brief, ds: DatasetConfig): string[] {
+  const out: string[] = [];
+  if (requestWasCut(brief.requestText)) out.push(requestTooLong(brief.requestText));
+  const personal = brief.personalData ?? [];
+  if (personal.length > 0) out.push(`${personalDataRefusal(ds, personal)} The rest of the request is answered without it.`);
+  const unknown = brief.unknownTerms.filter((u) => u.role !== 'metric');
+  for (const u of unknown) {
+    const near = u.closest.length > 0 ? ` The nearest I have: ${u.closest.slice(0, 3).join(', ')}.` : '';
+    out.push(`I found nothing called "${u.text}" in this dataset, so the answers cover everything without it.${near} Name a value to narrow them ("only …").`);
+  }
+  return out;
+}
+
+/** The card's last line once agreed. */
+export function cardAgreed(items: number): string {
+  return `*Agreed:* running ${items} ${items === 1 ? 'answer' : 'answers'}.`;
+}
+
+/** One line confirming what a correction changed on the card (edited in place above). */
+export function cardChanged(changes: string[], problems: string[]): string {
+  const done = `Updated the brief above: ${changes.join('; ')}.`;
+  return problems.length > 0 ? `${done} ${problems.join(' ')}` : done;
+}
+
+/** A correction that changed nothing: what was read, and how to say it. */
+export function correctionNotRead(text: string, unread: string[], problems: string[]): string {
+  if (problems.length > 0) return problems.join(' ');
+  const words = unread.length > 0 ? ` I didn't recognise ${unread.map((u) => `"${u}"`).join(', ')}.` : '';
+  return `I couldn't read "${text.length > 80 ? `${text.slice(0, 77)}...` : text}" as a change to the brief.${words} Say "go" to run it, or change anything in your own words: "for leadership", "weekly", "only 2024", "add channel", "drop 3", "cancel".`;
+}
+
+/** A follow-up after a run: what changed, and the plan it runs now. */
+export function followUpRun(changes: string[], problems: string[], plan: string[]): string {
+  const note = problems.length > 0 ? ` ${problems.join(' ')}` : '';
+  return [`Running it again with ${changes.join('; ')}.${note}`, ...plan].join('\n');
+}
 
 export function planEditHelp(): string {
   return 'I didn\'t catch that. Reply "go" to run the plan, "drop 2" (or "drop 1 and 3") to remove items, a grain such as "weekly", a period such as "use 2024" or "since 2023-04", "add a breakdown by channel", or "cancel".';

@@ -20,6 +20,8 @@ export const scriptedAnswersSchema = z
     dimensions: z.union([typed, z.array(typed).transform((xs) => xs.join(', '))]).optional(),
     /** Plan replies in order, e.g. ["drop 2", "go"]; the last one should agree or cancel. */
     plan: z.union([typed.transform((s) => [s]), z.array(typed)]).optional(),
+    /** Follow-ups sent after the run finishes, each once the run before it has ("rerun it weekly", "same for 2023"). */
+    after: z.union([typed.transform((s) => [s]), z.array(typed)]).optional(),
   })
   .strict();
 export type ScriptedAnswers = z.output<typeof scriptedAnswersSchema>;

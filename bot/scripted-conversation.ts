@@ -1,6 +1,7 @@
 // Plays the requester's side of a conversation from an answers file: each prompt gets the
-// scripted answer for its topic (or "ok" for the recommendation), the plan gets the scripted
-// plan replies (or "go"). Drives `threadcount ask` and conversation tests.
+// scripted answer for its topic (or "ok" for the recommendation); at the brief card, each
+// scripted card topic (audience, deadline, grain, window, breakdowns) is typed as a correction,
+// once, then the scripted plan replies (or "go"). Drives `threadcount ask` and conversation tests.
 import type { Bot } from './Bot.js';
 import type { ScriptedAnswers } from './scripted-answers.js';
 import type { StateStore } from './thread-state.js';
@@ -29,12 +30,19 @@ export async function playScriptedConversation(c: ScriptedConversation): Promise
   };
   await say(c.request);
   const planReplies = [...(c.answers.plan ?? ['go'])];
+  const cardCorrections = cardWords(c.answers);
+  const followUps = [...(c.answers.after ?? [])];
   const tries = new Map<string, number>();
   // Bounded: a wrong scripted answer is re-asked, and a second wrong answer takes the default.
   for (let turn = 0; turn < 50; turn++) {
     const state = await c.store.get(c.threadId);
     if (!state) return 'stalled';
-    if (state.stage === 'done' || state.stage === 'cancelled') return state.stage;
+    if (state.stage === 'done' || state.stage === 'cancelled') {
+      const next = followUps.shift();
+      if (next === undefined) return state.stage;
+      await say(next);
+      continue;
+    }
     if (state.stage === 'clarifying' && state.prompt) {
       const topic = state.prompt.topic;
       const n = (tries.get(topic) ?? 0) + 1;
@@ -44,10 +52,22 @@ export async function playScriptedConversation(c: ScriptedConversation): Promise
       continue;
     }
     if (state.stage === 'planning') {
-      await say(planReplies.shift() ?? 'go');
+      const correction = cardCorrections.shift();
+      await say(correction ?? planReplies.shift() ?? 'go');
       continue;
     }
     return 'stalled';
   }
   return 'stalled';
+}
+
+/** The card topics of an answers file as a requester would type them on the card. */
+function cardWords(a: ScriptedAnswers): string[] {
+  const out: string[] = [];
+  if (a.audience !== undefined) out.push(/^(?:leadership|managers|analysts)$/i.test(a.audience) ? `for ${a.audience}` : a.audience);
+  if (a.deadline !== undefined) out.push(/^\d{4}-\d{2}-\d{2}$|^(?:asap|none)$/i.test(a.deadline) ? `deadline ${a.deadline}` : a.deadline);
+  if (a.grain !== undefined) out.push(a.grain);
+  if (a.window !== undefined) out.push(/^all$/i.test(a.window) ? 'all the data' : a.window);
+  if (a.dimensions !== undefined) out.push(/^none$/i.test(a.dimensions) ? 'no breakdown' : `add ${a.dimensions}`);
+  return out;
 }

@@ -20,6 +20,8 @@ export interface OutboxPost {
   key: string;
   /** Conversation posts carry no files. */
   post: Omit<OutgoingPost, 'key' | 'files'>;
+  /** The key of an earlier post this one replaces in place (the brief card), not a new message. */
+  edits?: string;
 }
 
 /** What every thread has, whatever its stage. */
@@ -43,6 +45,8 @@ export interface ThreadCommon {
   /** The turn at which a reminder was last sent, so each wait is reminded once. */
   remindedAtTurn?: number;
   deadlineWarned?: boolean;
+  /** Plan items the requester dropped, by what they are (bot/card-edits.ts): kept out of rebuilt plans and reruns. */
+  dropped?: string[];
   updatedAt: string;
 }
 
@@ -52,10 +56,15 @@ export interface ClarifyingState extends ThreadCommon {
   prompt: Prompt;
 }
 
-/** The plan is proposed and waits for "go", an edit or "cancel". */
+/**
+ * The brief card (what was read and assumed, with the plan) is posted and waits for "go", a
+ * correction or "cancel"; corrections edit the card in place.
+ */
 export interface PlanningState extends ThreadCommon {
   stage: 'planning';
   plan: Plan;
+  /** The card's post key, for edits in place (absent in states from before the card). */
+  cardKey?: string;
 }
 
 /** The agreed plan runs; `run` says how far it got. */
@@ -99,6 +108,7 @@ const COMMON_FIELDS = {
   waitingSince: true,
   remindedAtTurn: true,
   deadlineWarned: true,
+  dropped: true,
   updatedAt: true,
 } satisfies Record<keyof ThreadCommon, true>;
 

@@ -14,6 +14,10 @@ export interface RecordedPost {
   author: string;
   text: string;
   promptTopic?: string;
+  /** The topics of the controls it carries (the brief card's), in order. */
+  controls?: string[];
+  /** How many times it was edited in place. */
+  edits?: number;
   files: RecordedFile[];
 }
 
@@ -53,17 +57,21 @@ export class FileThread implements ThreadPort {
       writeFileSync(join(this.dir, rel), f.content);
       files.push({ kind: f.kind, path: rel });
     }
-    this.thread.posts.push({ author: this.botName, text: post.text, ...(post.prompt ? { promptTopic: post.prompt.topic } : {}), files });
+    this.thread.posts.push({ author: this.botName, text: post.text, ...(post.prompt ? { promptTopic: post.prompt.topic } : {}), ...controlsOf(post), files });
     const ref = String(this.thread.posts.length - 1);
     this.refByKey.set(post.key, ref);
     this.flush();
     return ref;
   }
 
-  async update(_threadId: string, ref: string, text: string): Promise<void> {
+  async update(_threadId: string, ref: string, text: string, post?: Omit<OutgoingPost, 'key' | 'files'>): Promise<void> {
     const p = this.thread.posts[Number(ref)];
     if (!p) throw new Error(`no post ${ref} in this thread`);
     p.text = text;
+    if (post) {
+      delete p.controls;
+      Object.assign(p, controlsOf(post), { edits: (p.edits ?? 0) + 1 });
+    }
     this.flush();
   }
 
@@ -74,4 +82,8 @@ export class FileThread implements ThreadPort {
   private flush(): void {
     writeFileSync(join(this.dir, 'thread.json'), `${JSON.stringify(this.thread, null, 2)}\n`);
   }
+}
+
+function controlsOf(post: Pick<OutgoingPost, 'controls'>): { controls?: string[] } {
+  return post.controls && post.controls.length > 0 ? { controls: post.controls.map((c) => c.topic) } : {};
 }

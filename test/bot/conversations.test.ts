@@ -23,7 +23,8 @@ async function converse(request: string, answers: string): Promise<{ end: string
 }
 
 const bot = (t: RecordedThread) => t.posts.filter((p) => p.author === 'threadcount');
-const plan = (t: RecordedThread) => bot(t).filter((p) => p.text.startsWith('Here is the plan'));
+// The brief card holds the plan; corrections edit it in place (test/bot/brief-card.test.ts).
+const card = (t: RecordedThread) => bot(t).find((p) => p.text.startsWith('*Here is what I understood.*'))!;
 
 describe('scripted conversations', () => {
   it('the demo request covers all four request kinds and ends with a digest', async () => {
@@ -32,12 +33,13 @@ describe('scripted conversations', () => {
       'metrics: revenue\naudience: managers\n',
     );
     expect(end).toBe('done');
-    const text = plan(thread)[0]!.text;
-    for (const heading of ['*Trend*', '*Growth*', '*Performance*', '*KPI snapshot*']) expect(text).toContain(heading);
+    const text = card(thread).text;
+    for (const heading of ['*Growth*', '*Performance*', '*KPI snapshot*']) expect(text).toContain(heading);
     // The data ends on 18 June 2025: this summer so far, against the same days a year earlier (docs/reading.md).
-    expect(text).toMatch(/1 June to 18 June 2025 so far \(the data ends there\), against 1 June to 18 June 2024/);
-    // Asked only what the request left open: the metric of the summer question, the grain.
-    expect(bot(thread).map((p) => p.promptTopic).filter(Boolean)).toEqual(['metrics', 'grain']);
+    expect(text).toMatch(/1 June to 18 June 2025 so far against 1 June to 18 June 2024/);
+    // Nothing asked: the summer question's measure is assumed (the headline one) and said on the card.
+    expect(bot(thread).map((p) => p.promptTopic).filter(Boolean)).toEqual([]);
+    expect(text).toMatch(/Revenue \(assumed\)/);
     const answers = bot(thread).filter((p) => /^\*\d+\. /.test(p.text));
     expect(answers.length).toBeGreaterThanOrEqual(12);
     expect(answers.some((p) => /pass holders/i.test(p.text) && /observational|not proof|cannot prove/i.test(p.text))).toBe(true);
@@ -55,11 +57,13 @@ describe('scripted conversations', () => {
     // "the board" sets the audience and "by friday" the deadline: neither is asked.
     expect(bot(thread).map((p) => p.promptTopic)).not.toContain('audience');
     expect(bot(thread).map((p) => p.promptTopic)).not.toContain('deadline');
-    const plans = plan(thread);
-    expect(plans.length).toBe(2);
-    const count = (t: string) => (t.match(/^\d+\. /gm) ?? []).length;
-    expect(count(plans[1]!.text)).toBe(count(plans[0]!.text) - 1);
-    expect(plans[0]!.text).toMatch(/Quarterly revenue, 1 January 2023 to 18 June 2025/);
+    // The grain, the period and the drop are corrections to one card, each confirmed in a line.
+    const confirmations = bot(thread).filter((p) => p.text.startsWith('Updated the brief above:')).map((p) => p.text);
+    expect(confirmations).toEqual([expect.stringMatching(/grain: quarterly/), expect.stringMatching(/period: 1 January 2023 to 18 June 2025/), expect.stringMatching(/dropped: /)]);
+    const dropped = /dropped: (.+)\.$/.exec(confirmations[2]!)![1]!;
+    expect(card(thread).text).not.toContain(dropped);
+    expect(card(thread).text).toMatch(/Quarterly revenue, 1 January 2023 to 18 June 2025/);
+    expect(card(thread).edits).toBe(4);
   });
 
   it('asks for a metric when none is named, and lists the catalog for one that does not exist', async () => {
@@ -94,9 +98,8 @@ describe('scripted conversations', () => {
     expect(end).toBe('done');
     const notes = bot(thread).map((p) => p.text);
     expect(notes.some((t) => /personal data/.test(t) && /Customer email/.test(t))).toBe(true);
-    const plans = plan(thread);
-    expect(plans.at(-2)!.text).toMatch(/Revenue by booking channel over time/);
-    expect(plans.at(-1)!.text).toMatch(/January 2024 to December 2024/);
+    expect(card(thread).text).toMatch(/Revenue by booking channel over time/);
+    expect(card(thread).text).toMatch(/January 2024 to December 2024/);
     expect(bot(thread).some((p) => p.files.some((f) => f.path.includes('segment_trend')))).toBe(true);
   });
 });

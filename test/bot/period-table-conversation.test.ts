@@ -32,7 +32,7 @@ const bot = () => thread.posts.filter((p) => p.author === 'threadcount');
 describe('"revenue, bookings and average fare per booking month by month for 2023 and 2024…"', () => {
   it('plans the table first and answers it with one image per page, the table as CSV and its SQL', () => {
     expect(end).toBe('done');
-    const plan = bot().find((p) => p.text.startsWith('Here is the plan'))!;
+    const plan = bot().find((p) => p.text.startsWith('*Here is what I understood.*'))!;
     expect(plan.text).toMatch(/^1\. A table of revenue, bookings and average fare per booking month by month \(January 2023 to December 2024\)/m);
     const table = bot().find((p) => p.text.startsWith('*1. '))!;
     const names = table.files.map((f) => f.path);

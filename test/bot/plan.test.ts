@@ -5,6 +5,7 @@ import type { Brief, Question } from '../../bot/brief.js';
 import { applyPlanEdit, buildPlan, MAX_TABLE_METRICS, readPlanEdit } from '../../bot/plan.js';
 import { planText } from '../../bot/replies.js';
 import { nextPrompt } from '../../bot/prompts.js';
+import { briefDefaults, withDefaults } from '../../bot/brief-defaults.js';
 import { readRequest as readWith } from '../../bot/reading/read-request.js';
 import { exampleDataset } from '../helpers/example-config.js';
 import { exampleFacts } from '../helpers/example-facts.js';
@@ -26,12 +27,13 @@ describe('the demo request', () => {
     expect(brief.questions[2]!.metrics).toEqual(['fare_per_passenger', 'refunded_revenue_share']);
   });
 
-  it('asks which metric the summer question means, and never the window (every question names its period)', () => {
-    const first = nextPrompt(brief, { dataset: exampleDataset, coverage, facts, now, locale: 'en-IE' })!;
-    expect(first.topic).toBe('metrics');
-    expect(first.question).toMatch(/this summer beat last summer/);
-    const answered = { ...brief, questions: brief.questions.map((q, i) => (i === 0 ? { ...q, metrics: ['revenue'] } : q)), audience: 'managers' as const, grain: 'month' as const };
-    expect(nextPrompt(answered, { dataset: exampleDataset, coverage, facts, now, locale: 'en-IE' })).toBeNull();
+  it('asks nothing: the summer question takes the headline measure, said as assumed on the card; a request with no measure at all is asked', () => {
+    expect(nextPrompt(brief, { dataset: exampleDataset, coverage, facts, now, locale: 'en-IE' })).toBeNull();
+    const defaults = briefDefaults(brief, exampleDataset, coverage);
+    expect(defaults.metric).toEqual({ value: exampleDataset.metrics[0]!.name, reason: 'the headline measure of this dataset' });
+    expect(withDefaults(brief, defaults).questions[0]!.metrics).toEqual([exampleDataset.metrics[0]!.name]);
+    const none = readRequest('did this summer beat last summer?');
+    expect(nextPrompt(none, { dataset: exampleDataset, coverage, facts, now, locale: 'en-IE' })!.topic).toBe('metrics');
   });
 });
 

@@ -69,9 +69,9 @@ describe('threadcount ask on the demo data', () => {
 
   it('asks only what the request did not say, then proposes a plan', () => {
     const topics = thread.posts.map((p) => p.promptTopic).filter(Boolean);
-    // The request names the metric, so metrics are not asked; the rest are.
-    expect(topics).toEqual(['audience', 'deadline', 'grain', 'window']);
-    expect(thread.posts.some((p) => p.author === 'threadcount' && p.text.startsWith('Here is the plan'))).toBe(true);
+    // The request names the metric: nothing is asked; audience, deadline, grain and period are defaulted on the card.
+    expect(topics).toEqual([]);
+    expect(thread.posts.some((p) => p.author === 'threadcount' && p.text.startsWith('*Here is what I understood.*'))).toBe(true);
     expect(thread.posts[0]).toMatchObject({ author: 'requester', text: 'How has our revenue moved over time?' });
   });
 
@@ -160,7 +160,9 @@ describe('threadcount ask with bad input', () => {
     const answers = join(out, 'answers.yaml');
     writeFileSync(answers, 'window: "2024-02-30 to 2024-06-01"\n');
     const result = await ask({ configFile: configPath, request: 'revenue trend', answersFile: answers, outDir: join(out, 't'), now });
+    // Typed on the card as a correction: refused with the reason, the period left as it was.
     expect(result.thread.thread.posts.some((p) => p.text.startsWith('2024-02-30 is not a real date'))).toBe(true);
+    expect(result.thread.thread.posts.some((p) => p.text.startsWith('Updated the brief above'))).toBe(false);
     expect(result.end).toBe('done');
   });
 

@@ -1,0 +1,47 @@
+// What the bot assumes for what a request did not say, with a reason for each: the card shows
+// them as assumed, and the plan is built from the brief with them filled in. Audience, deadline,
+// grain and period always have safe defaults; only a request with no measure at all is asked.
+import type { Coverage } from '../analysis/coverage.js';
+import { firstBreakdownDimension } from '../analysis/catalog.js';
+import type { DatasetConfig } from '../config/schema.js';
+import type { Brief } from './brief.js';
+import type { BriefDefaults } from './card.js';
+import { recommendedGrain } from './prompts.js';
+
+export function briefDefaults(brief: Brief, ds: DatasetConfig, coverage: Coverage): BriefDefaults {
+  const grain = recommendedGrain(coverage);
+  const out: BriefDefaults = {
+    audience: { value: 'managers', reason: 'plain words with enough detail to act on' },
+    grain: { value: grain.grain, reason: grain.reason },
+  };
+  // A question with no measure of its own ("did this summer beat last summer") takes the
+  // dataset's headline measure (the catalog's first), said on the card as assumed.
+  const headline = ds.metrics[0]?.name;
+  if (headline && brief.questions.some((q) => q.metrics.length === 0 && !q.frequency)) {
+    out.metric = { value: headline, reason: 'the headline measure of this dataset' };
+  }
+  // A change is explained by a breakdown; without one asked, the catalog's first.
+  const first = firstBreakdownDimension(ds);
+  if (first && !brief.dimensionsAsked && brief.questions.some((q) => q.kind === 'growth' && q.dimensions.length === 0 && !q.contrast)) {
+    out.breakdown = { value: first, reason: 'a change is easier to act on with what drove it; the first breakdown in the catalog' };
+  }
+  return out;
+}
+
+/** The brief the plan is built from: what was read, with the defaults where nothing was. */
+export function withDefaults(brief: Brief, d: BriefDefaults): Brief {
+  const questions = brief.questions.map((q) => {
+    const metrics = q.metrics.length === 0 && !q.frequency && d.metric ? [d.metric.value] : q.metrics;
+    const dimensions = q.kind === 'growth' && q.dimensions.length === 0 && !q.contrast && d.breakdown ? [d.breakdown.value] : q.dimensions;
+    return { ...q, metrics, dimensions };
+  });
+  return {
+    ...brief,
+    questions,
+    metrics: [...new Set(questions.flatMap((q) => q.metrics))],
+    dimensions: [...new Set([...brief.dimensions, ...questions.flatMap((q) => q.dimensions)])],
+    audience: brief.audience ?? d.audience.value,
+    grain: brief.grain ?? d.grain.value,
+    deadline: brief.deadline ?? 'none',
+  };
+}

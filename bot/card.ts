@@ -1,0 +1,255 @@
+// The brief card: one message that says what was understood and what is assumed, with the plan
+// beneath, so a requester agrees in one reply ("go") or corrects several things at once. Built
+// from the brief (each slot with the words it was read from, or its default and why) and the plan;
+// every platform shows its text, and those that can add a control per topic whose value is a
+// correction read by the same reader as typed words.
+import type { Coverage } from '../analysis/coverage.js';
+import { grainAdjective } from '../analysis/grains.js';
+import { GRAINS, type DateWindow, type Grain } from '../analysis/types.js';
+import { describeWindow } from '../analysis/window-words.js';
+import { isBreakdownDimension } from '../analysis/catalog.js';
+import type { DatasetConfig } from '../config/schema.js';
+import type { Brief, Question } from './brief.js';
+import type { Plan } from './plan.js';
+import type { PostControl } from './port.js';
+import { planLines } from './replies.js';
+import { describeSubQuestion } from '../analysis/sub-questions/describe.js';
+import { fullWindow } from './reading/answers.js';
+import { AUDIENCE_LABELS } from './reading/lexicon.js';
+
+export const CARD_TOPICS = ['audience', 'deadline', 'metrics', 'grain', 'period', 'breakdowns', 'filters'] as const;
+export type CardTopic = (typeof CARD_TOPICS)[number];
+
+export interface CardChoice {
+  /** What choosing it sends, as if typed: a correction the reader understands ("for leadership"). */
+  value: string;
+  label: string;
+}
+
+export interface CardLine {
+  topic: CardTopic;
+  label: string;
+  value: string;
+  /** `read`: from the request's words; `assumed`: a default, with its reason. */
+  how: 'read' | 'assumed';
+  words?: string;
+  reason?: string;
+  /** The control a platform may show for it: a list to pick from, or a date. */
+  control?: { kind: 'select'; choices: CardChoice[]; current?: string } | { kind: 'date'; current?: string };
+}
+
+export interface BriefCard {
+  /** The questions in plain words. */
+  questions: string[];
+  lines: CardLine[];
+  /** The plan's lines: numbered items under their kind's heading. */
+  plan: string[];
+  /** How many items the plan has. */
+  items: number;
+  leftOut: string[];
+  notes: string[];
+}
+
+export interface CardContext {
+  dataset: DatasetConfig;
+  coverage: Coverage;
+  locale: string;
+  /** The defaults the plan was built with, so the card says what will run. */
+  defaults: BriefDefaults;
+}
+
+/** What the bot assumes for what the request did not say, with reasons. */
+export interface BriefDefaults {
+  audience: { value: NonNullable<Brief['audience']>; reason: string };
+  grain: { value: Grain; reason: string };
+  /** Metrics taken for questions that named none ("did this summer beat last summer"). */
+  metric?: { value: string; reason: string };
+  /** A breakdown to explain a change when none was asked. */
+  breakdown?: { value: string; reason: string };
+}
+
+const AUDIENCE_CHOICES: CardChoice[] = (['leadership', 'managers', 'analysts'] as const).map((a) => ({ value: `for ${a}`, label: `${AUDIENCE_LABELS[a].label} (${AUDIENCE_LABELS[a].detail})` }));
+
+export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard {
+  const ds = ctx.dataset;
+  const ev = brief.evidence ?? {};
+  const lines: CardLine[] = [];
+  const read = (words: string | undefined) => (words ? { how: 'read' as const, words } : { how: 'read' as const });
+  const label = (m: string) => ds.metrics.find((x) => x.name === m)?.label ?? m;
+  const dimLabel = (d: string) => ds.dimensions.find((x) => x.name === d)?.label ?? d;
+
+  const audience = brief.audience ?? ctx.defaults.audience.value;
+  lines.push({
+    topic: 'audience',
+    label: 'Audience',
+    value: AUDIENCE_LABELS[audience].label,
+    ...(brief.audience ? read(ev.audience?.words) : { how: 'assumed' as const, reason: ctx.defaults.audience.reason }),
+    control: { kind: 'select', choices: AUDIENCE_CHOICES, current: `for ${audience}` },
+  });
+  const deadline = brief.deadline && brief.deadline !== 'none' ? brief.deadline : undefined;
+  lines.push({
+    topic: 'deadline',
+    label: 'Deadline',
+    value: deadline ? longDate(deadline, ctx.locale) : 'none',
+    ...(deadline ? read(ev.deadline?.words) : { how: 'assumed' as const, reason: 'none given: it runs as soon as you say go' }),
+    control: { kind: 'date', ...(deadline ? { current: deadline } : {}) },
+  });
+  const named = [...new Set(brief.questions.flatMap((q) => q.metrics))];
+  const assumed = brief.questions.some((q) => q.metrics.length === 0 && !q.frequency) ? ctx.defaults.metric : undefined;
+  lines.push({
+    topic: 'metrics',
+    label: named.length + (assumed ? 1 : 0) > 1 ? 'Measures' : 'Measure',
+    value: [...named.map(label), ...(assumed && !named.includes(assumed.value) ? [`${label(assumed.value)} (assumed)`] : [])].join(', ') || 'none',
+    ...(assumed ? { how: 'assumed' as const, reason: assumed.reason } : read(ev.metrics?.words)),
+    control: { kind: 'select', choices: ds.metrics.map((m) => ({ value: `measure ${m.label.toLowerCase()}`, label: m.label })) },
+  });
+  const grain = brief.grain ?? ctx.defaults.grain.value;
+  lines.push({
+    topic: 'grain',
+    label: 'Grain',
+    value: grainAdjective(grain, true),
+    ...(brief.grain ? read(ev.grain?.words) : { how: 'assumed' as const, reason: ctx.defaults.grain.reason }),
+    control: { kind: 'select', choices: grainChoices(ctx.coverage), current: grainAdjective(grain) },
+  });
+  lines.push(periodLine(brief, ctx));
+  const dims = [...new Set(brief.questions.flatMap((q) => q.dimensions))];
+  const breakdown = dims.length === 0 ? ctx.defaults.breakdown : undefined;
+  lines.push({
+    topic: 'breakdowns',
+    label: 'Breakdowns',
+    value: dims.length > 0 ? dims.map(dimLabel).join(', ') : breakdown ? `${dimLabel(breakdown.value)} (assumed)` : 'none',
+    ...(dims.length > 0 ? read(ev.dimensions?.words) : breakdown ? { how: 'assumed' as const, reason: breakdown.reason } : { how: 'assumed' as const, reason: 'none asked' }),
+    control: {
+      kind: 'select',
+      choices: [...ds.dimensions.filter((d) => isBreakdownDimension(ds, d.name)).map((d) => ({ value: `add a breakdown by ${d.label.toLowerCase()}`, label: `Add ${d.label.toLowerCase()}` })), { value: 'no breakdown', label: 'No breakdown' }],
+    },
+  });
+  const filters = brief.questions.flatMap((q) => q.filters);
+  if (filters.length > 0) {
+    lines.push({
+      topic: 'filters',
+      label: 'Only',
+      value: filters.map((f) => `${f.exclude ? 'not ' : ''}${f.values.join(' or ')} (${dimLabel(f.dimension).toLowerCase()})`).join('; '),
+      ...read(ev.filters?.words),
+    });
+  }
+  const notes: string[] = [];
+  if (brief.anchor && brief.anchor.why !== 'today') notes.push(`Periods like "last month" count back from ${longDate(brief.anchor.today, ctx.locale)}: ${brief.anchor.why}.`);
+  return {
+    questions: brief.questions.map((q) => restate(q, ds, ctx)),
+    lines,
+    // The plan's headings and numbered items; its date readings and edit help are the card's own lines.
+    plan: planLines(plan, ds, ctx.locale),
+    items: plan.items.length,
+    leftOut: plan.leftOut.map((sq) => describeSubQuestion(sq, ds, ctx.locale).replace(/\.$/, '')),
+    notes,
+  };
+}
+
+function periodLine(brief: Brief, ctx: CardContext): CardLine {
+  const windowed = brief.questions.filter((q) => q.window);
+  const full = fullWindow(ctx.coverage);
+  const choices = periodChoices(ctx.coverage);
+  if (windowed.length === 0 && !brief.window) {
+    return {
+      topic: 'period',
+      label: 'Period',
+      value: full ? `all the data, ${describeWindow(full, ctx.coverage, ctx.locale)}` : 'all the data',
+      how: 'assumed',
+      reason: 'no period named: the whole history shows the pattern best',
+      control: { kind: 'select', choices, current: 'all the data' },
+    };
+  }
+  const parts = (windowed.length > 0 ? windowed : [{ window: brief.window!, compareWindow: brief.compareWindow, windowSoFar: false } as Question]).map((q) => {
+    const w = describeWindow(q.window!, ctx.coverage, ctx.locale);
+    const so = q.windowSoFar ? ' so far' : '';
+    return q.compareWindow ? `${w}${so} against ${describeWindow(q.compareWindow, ctx.coverage, ctx.locale)}` : `${w}${so}`;
+  });
+  const words = [brief.evidence?.window?.words, brief.evidence?.compareWindow?.words].filter(Boolean).join(' … ');
+  return { topic: 'period', label: 'Period', value: [...new Set(parts)].join('; '), how: 'read', ...(words ? { words } : {}), control: { kind: 'select', choices } };
+}
+
+function grainChoices(coverage: Coverage): CardChoice[] {
+  // Data stamped monthly has no daily or weekly grain to offer.
+  const coarse = coverage.stamps === 'monthly' ? ['day', 'week'] : coverage.stamps === 'quarterly' ? ['day', 'week', 'month'] : coverage.stamps === 'yearly' ? ['day', 'week', 'month', 'quarter'] : coverage.stamps === 'weekly' ? ['day'] : [];
+  return GRAINS.filter((g) => !coarse.includes(g)).map((g) => ({ value: grainAdjective(g), label: grainAdjective(g, true) }));
+}
+
+function periodChoices(coverage: Coverage): CardChoice[] {
+  const choices: CardChoice[] = [{ value: 'all the data', label: 'All the data' }];
+  if (!coverage.lastDate) return choices;
+  choices.push({ value: 'the last 12 months', label: 'The last 12 full months' }, { value: 'year to date vs last year', label: 'This year so far against last' });
+  const last = Number(coverage.lastDate.slice(0, 4));
+  const first = Number((coverage.firstDate ?? coverage.lastDate).slice(0, 4));
+  for (let y = last; y >= Math.max(first, last - 4); y--) choices.push({ value: `only ${y}`, label: String(y) });
+  return choices;
+}
+
+/** A question in plain words: what, of which measure, over which period. */
+function restate(q: Question, ds: DatasetConfig, ctx: CardContext): string {
+  const m = q.metrics.map((x) => (ds.metrics.find((y) => y.name === x)?.label ?? x).toLowerCase());
+  const what = m.length > 0 ? m.join(' and ') : ctx.defaults.metric ? `${(ds.metrics.find((y) => y.name === ctx.defaults.metric!.value)?.label ?? '').toLowerCase()} (assumed)` : 'a measure still to choose';
+  const dims = q.dimensions.map((d) => (ds.dimensions.find((x) => x.name === d)?.label ?? d).toLowerCase());
+  const by = dims.length > 0 ? ` by ${dims.join(' and ')}` : '';
+  const only = q.filters.length > 0 ? ` (${q.filters.map((f) => `${f.exclude ? 'not ' : ''}${f.values.join(' or ')}`).join('; ')})` : '';
+  const w = q.window ? describeWindow(q.window, ctx.coverage, ctx.locale) : '';
+  const group = ds.comparison_groups.find((g) => g.name === q.comparisonGroup);
+  switch (q.kind) {
+    case 'growth':
+      if (q.contrast) return `How ${q.contrast.values.join(' and ')} compare in ${what}${w ? `, ${w}` : ''}.`;
+      return q.compareWindow ? `How ${what}${only} changed${by}: ${w} against ${describeWindow(q.compareWindow, ctx.coverage, ctx.locale)}.` : `How fast ${what}${only} is growing${by}${w ? `, ${w}` : ''}.`;
+    case 'kpi':
+      return `Where ${what}${only} stands${by}${w ? ` in ${w}` : ' in the latest complete period'}.`;
+    case 'performance':
+      if (group) return `${cap(what)}: ${group.members_label.toLowerCase()} against ${group.others_label.toLowerCase()}${q.frequency ? ' (how often each customer books)' : ''}${q.launchDate ? `, since ${longDate(q.launchDate, ctx.locale)}` : ''}.`;
+      return `${cap(what)} before and after ${q.launchDate ? longDate(q.launchDate, ctx.locale) : 'the change'}.`;
+    default:
+      return `How ${what}${only} moved${by}${w ? `, ${w}` : ' over time'}.`;
+  }
+}
+
+/** The card as one message's text: plain words with light markdown, as every platform shows it. */
+export function cardText(card: BriefCard): string {
+  const out: string[] = ['*Here is what I understood.* Say "go" to run it, or change anything in your own words.'];
+  out.push(card.questions.length > 1 ? '*Questions*' : '*Question*');
+  card.questions.forEach((q, i) => out.push(card.questions.length > 1 ? `${i + 1}. ${q}` : q));
+  for (const l of card.lines) {
+    const source = l.how === 'read' ? (l.words ? `from "${clip(l.words)}"` : 'from your request') : `assumed: ${l.reason}`;
+    out.push(`- *${l.label}:* ${l.value} _(${source})_`);
+  }
+  out.push(`*Plan* (${card.items} ${card.items === 1 ? 'answer' : 'answers'})`);
+  out.push(...card.plan);
+  if (card.leftOut.length > 0) out.push(`Left out to keep it focused: ${card.leftOut.join('; ')}.`);
+  out.push(...card.notes);
+  out.push('For example: "for leadership, weekly, only 2024, add channel, drop 3"; or "cancel".');
+  return out.join('\n');
+}
+
+/** The card's controls: a select per topic that has choices, a date for the deadline. */
+export function cardControls(card: BriefCard): PostControl[] {
+  const out: PostControl[] = [];
+  for (const l of card.lines) {
+    if (!l.control) continue;
+    if (l.control.kind === 'date') out.push({ topic: l.topic, label: l.label, kind: 'date', choices: [], sends: 'deadline {date}', ...(l.control.current ? { current: l.control.current } : {}) });
+    else if (l.topic !== 'metrics') out.push({ topic: l.topic, label: l.label, kind: 'select', choices: l.control.choices, ...(l.control.current ? { current: l.control.current } : {}) });
+  }
+  return out;
+}
+
+function clip(s: string): string {
+  return s.length > 60 ? `${s.slice(0, 57)}...` : s;
+}
+
+function cap(s: string): string {
+  return s.charAt(0).toUpperCase() + s.slice(1);
+}
+
+const dateFormats = new Map<string, Intl.DateTimeFormat>();
+
+function longDate(iso: string, locale: string): string {
+  let f = dateFormats.get(locale);
+  if (!f) dateFormats.set(locale, (f = new Intl.DateTimeFormat(locale, { day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' })));
+  return f.format(new Date(`${iso}T00:00:00Z`));
+}
+
+export type { DateWindow };
