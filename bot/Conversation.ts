@@ -189,7 +189,7 @@ export class Conversation {
     };
     step.log('request', { text: msg.text, ...messageIdOf(msg), ...(thread.dataset ? { dataset: thread.dataset } : {}) });
     if (choice.kind === 'ask') return this.ask(step, thread, datasetPrompt(choice.ranked, choice.matched));
-    return this.begin(step, thread, allowed.length > 1);
+    return this.begin(step, thread, allowed.length > 1 ? 'its catalog has the most of the terms in your request' : undefined);
   }
 
   private readBrief(text: string, ds: DatasetConfig): Brief {
@@ -197,8 +197,11 @@ export class Conversation {
     return readRequest(text, datasetFacts(ws), { now: this.deps.now(), locale: this.deps.datasets.locale });
   }
 
-  /** The dataset is known: log any personal data refused, then ask what cannot be defaulted, or post the card. */
-  private begin(step: Step, thread: ThreadCommon, nameDataset: boolean): ThreadState {
+  /**
+   * The dataset is known: log any personal data refused, then ask what cannot be defaulted, or post
+   * the card. `datasetWhy` names the dataset (and why) when the channel could use several.
+   */
+  private begin(step: Step, thread: ThreadCommon, datasetWhy?: string): ThreadState {
     const ds = this.deps.datasets.of(thread).dataset;
     const personal = thread.brief.personalData ?? [];
     if (personal.length > 0) {
@@ -207,31 +210,33 @@ export class Conversation {
       step.log('denied', { reason: 'personal_data', dimensions: labels, text: thread.brief.requestText });
     }
     const ack = replies.acknowledgement(thread.brief, ds);
-    return this.advance(step, thread, nameDataset ? `${replies.datasetChosen(ds.label)} ${ack}` : ack);
+    const named = datasetWhy ? replies.datasetChosen(ds.label) : '';
+    return this.advance(step, thread, named ? `${named} ${ack}` : ack, datasetWhy ? [replies.datasetChosen(ds.label, datasetWhy)] : []);
   }
 
-  /** Asks what cannot be defaulted (with `lead` said first), or posts the brief card. */
-  private advance(step: Step, thread: ThreadCommon, lead?: string): ThreadState {
+  /** Asks what cannot be defaulted (with `lead` said first), or posts the brief card (with `notes`). */
+  private advance(step: Step, thread: ThreadCommon, lead?: string, notes: string[] = []): ThreadState {
     const ws = this.deps.datasets.of(thread);
     const prompt = nextPrompt(thread.brief, this.deps.datasets.promptContext(ws, this.deps.now()));
     if (prompt) return this.ask(step, thread, prompt, lead);
-    return this.propose(step, thread);
+    return this.propose(step, thread, notes);
   }
 
   /** Posts the brief card (what was read, what is assumed, the plan) and waits for "go" or a correction. */
-  private propose(step: Step, thread: ThreadCommon): PlanningState {
+  private propose(step: Step, thread: ThreadCommon, notes: string[] = []): PlanningState {
     thread.waitingSince = this.stamp();
-    const { plan, post } = this.card(thread);
+    const { plan, post } = this.card(thread, notes);
     const cardKey = step.say('card', post.text, post.extras);
     return enterStage<PlanningState>(thread, { stage: 'planning', plan, cardKey });
   }
 
   /** The card for a thread's brief, and the plan it shows. */
-  private card(thread: ThreadCommon): { plan: PlanningState['plan']; post: { text: string; extras: PostExtras } } {
+  private card(thread: ThreadCommon, notes: string[] = []): { plan: PlanningState['plan']; post: { text: string; extras: PostExtras } } {
     const ws = this.deps.datasets.of(thread);
     const locale = this.deps.datasets.locale;
     const { plan, defaults } = planFor(thread.brief, ws.dataset, ws.coverage, thread.dropped ?? []);
     const card = buildCard(thread.brief, plan, { dataset: ws.dataset, coverage: ws.coverage, locale, defaults });
+    card.notes.unshift(...notes);
     card.notes.push(...replies.cardNotes(thread.brief, ws.dataset));
     return { plan, post: { text: cardText(card), extras: { quickReplies: replies.CARD_REPLIES, controls: cardControls(card) } } };
   }
@@ -264,7 +269,7 @@ export class Conversation {
     const thread = commonOf(state);
     thread.dataset = reading.dataset;
     thread.brief = this.readBrief(state.brief.requestText, ws.dataset);
-    return this.begin(step, thread, true);
+    return this.begin(step, thread, 'as you chose');
   }
 
   private onAnswer(step: Step, state: ClarifyingState, text: string): ThreadState {
@@ -348,7 +353,8 @@ export class Conversation {
   private edit(step: Step, state: PlanningState | ThreadState, c: Correction, text: string): ReturnType<typeof applyCorrection> | undefined {
     const ws = this.deps.datasets.of(state);
     if (c.personalData.length > 0) {
-      step.log('denied', { reason: 'personal_data', dimensions: c.personalData, text });
+      // Labels, not catalog names: a personal dimension's name is often its column's.
+      step.log('denied', { reason: 'personal_data', dimensions: c.personalData.map((n) => ws.dataset.dimensions.find((d) => d.name === n)?.label ?? n), text });
       step.say('note', personalDataRefusal(ws.dataset, c.personalData));
       return undefined;
     }

@@ -251,8 +251,8 @@ export function datasetGone(name: string): string {
   return `This request used the dataset "${name}", which is no longer configured; nothing more will run here. Start a new request.`;
 }
 
-export function datasetChosen(label: string): string {
-  return `Using ${label}.`;
+export function datasetChosen(label: string, why?: string): string {
+  return why ? `Using ${label}: ${why}.` : `Using ${label}.`;
 }
 
 export function nothingToCancel(): string {

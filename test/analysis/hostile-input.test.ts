@@ -17,6 +17,8 @@ import { readRequest } from '../../bot/reading/read-request.js';
 import { isValidDate } from '../../bot/reading/calendar.js';
 import { exampleValues } from '../helpers/example-facts.js';
 import { buildPlan } from '../../bot/plan.js';
+import { applyCorrection, planFor } from '../../bot/card-edits.js';
+import { changesSomething, readCorrection } from '../../bot/reading/corrections.js';
 import { nextPrompt, PROMPT_TOPICS, readAnswer, type Prompt, type PromptContext, type PromptTopic } from '../../bot/prompts.js';
 import { exampleDataset as ds } from '../helpers/example-config.js';
 
@@ -255,13 +257,16 @@ const hugeMessage = fc
 
 // ---- one conversation, as the bot holds it, without the chat platform ----------------------
 
-/** Intake, then every prompt answered with a typed answer (falling back to "ok" when it is refused), then the plan. */
+/**
+ * Intake, then every prompt answered with a typed answer (falling back to "ok" when it is
+ * refused), then every answer typed on the brief card as a correction, then the plan.
+ */
 function converse(request: string, answers: readonly string[]): { brief: Brief; refusals: string[] } {
   let brief = readRequest(request, promptContext.facts, { now });
   const refusals: string[] = [];
   for (let step = 0; step < 20; step++) {
     const prompt = nextPrompt(brief, promptContext);
-    if (!prompt) return { brief, refusals };
+    if (!prompt) return { brief: corrected(brief, answers, refusals), refusals };
     const reading = readAnswer(prompt, answers[step % answers.length]!, brief, promptContext);
     if (reading.ok) {
       brief = reading.brief;
@@ -275,11 +280,26 @@ function converse(request: string, answers: readonly string[]): { brief: Brief; 
   throw new Error('the conversation did not reach a plan in 20 prompts');
 }
 
+/** The answers typed on the card, one correction each, as the conversation applies them. */
+function corrected(start: Brief, answers: readonly string[], refusals: string[]): Brief {
+  let brief = start;
+  let dropped: string[] = [];
+  for (const text of answers) {
+    const c = readCorrection(text, promptContext.facts, now);
+    if (!changesSomething(c)) continue;
+    const edit = applyCorrection(brief, c, planFor(brief, ds, coverage, dropped).plan, dropped, { dataset: ds, coverage, locale: 'en-IE', words: text });
+    refusals.push(...edit.problems);
+    brief = edit.brief;
+    dropped = edit.dropped;
+  }
+  return brief;
+}
+
 function planAndCompile(request: string, answers: readonly string[], timeType: TimeColumnType): number {
   const { brief, refusals } = converse(request, answers);
   // A refusal quotes at most a short clip of what was typed, however long the input.
   for (const r of refusals) if (r.length > 1_000) throw new Error(`a refusal of ${r.length} characters`);
-  const plan = buildPlan(brief, ds, coverage);
+  const plan = planFor(brief, ds, coverage, []).plan;
   const fragments = fragmentsOf([request, ...answers]);
   let compiled = 0;
   for (const sq of [...plan.items, ...plan.leftOut]) {
@@ -347,6 +367,7 @@ describe('hostile chat input', () => {
     const metricNames = new Set(ds.metrics.map((m) => m.name));
     fc.assert(
       fc.property(message, (typed) => {
+        const briefs: Brief[] = [];
         for (const topic of BRIEF_TOPICS) {
           const { prompt, brief } = prompts[topic];
           const r = readAnswer(prompt, typed, brief, promptContext);
@@ -354,7 +375,15 @@ describe('hostile chat input', () => {
             if (typeof r.message !== 'string' || r.message.length === 0 || r.message.length > 1_000) throw new Error(`${topic}: refusal of ${r.message.length} characters`);
             continue;
           }
-          const b = r.brief;
+          briefs.push(r.brief);
+        }
+        // Typed on the brief card: a correction to a complete brief.
+        const base = cardBrief();
+        const c = readCorrection(typed, promptContext.facts, now);
+        const edit = applyCorrection(base, c, planFor(base, ds, coverage, []).plan, [], { dataset: ds, coverage, locale: 'en-IE', words: typed });
+        for (const p of edit.problems) if (p.length > 1_000) throw new Error(`card: a problem of ${p.length} characters`);
+        briefs.push(edit.brief);
+        for (const b of briefs) {
           if (b.audience !== undefined && !AUDIENCES.includes(b.audience)) throw new Error(`audience ${b.audience}`);
           if (b.grain !== undefined && !GRAINS.includes(b.grain)) throw new Error(`grain ${b.grain}`);
           if (b.deadline !== undefined && b.deadline !== 'none' && !isoOk(b.deadline)) throw new Error(`deadline ${b.deadline}`);
@@ -377,31 +406,20 @@ describe('hostile chat input', () => {
   }, 120_000);
 });
 
-/** The prompts that complete a brief (nextPrompt asks them); each reads its answer with readAnswer. */
-const BRIEF_TOPICS = ['metrics', 'audience', 'deadline', 'grain', 'window', 'dimensions'] as const satisfies readonly PromptTopic[];
+/** The prompt asked before the card (nextPrompt asks only what cannot be defaulted); it reads its answer with readAnswer. */
+const BRIEF_TOPICS = ['metrics'] as const satisfies readonly PromptTopic[];
+
+/** A complete brief, as the card shows it, for corrections. */
+function cardBrief(): Brief {
+  const question = { text: 'How has revenue grown', kind: 'growth' as const, metrics: ['revenue'], dimensions: [], filters: [], frequency: false };
+  return { requestText: 'x', questions: [question], kinds: ['growth'], metrics: ['revenue'], dimensions: [], unknownTerms: [], audience: 'managers', deadline: 'none', grain: 'month' };
+}
 type BriefTopic = (typeof BRIEF_TOPICS)[number];
 
 /** One prompt of each topic, with a brief that is waiting on exactly that prompt. */
 function promptsByTopic(): Record<BriefTopic, { prompt: Prompt; brief: Brief }> {
-  const question = { text: 'How has revenue grown', kind: 'growth' as const, metrics: ['revenue'], dimensions: [], filters: [], frequency: false };
   const briefs: Record<BriefTopic, Brief> = {
     metrics: { requestText: 'x', questions: [], kinds: ['trend'], metrics: [], dimensions: [], unknownTerms: [] },
-    audience: { requestText: 'x', questions: [question], kinds: ['growth'], metrics: ['revenue'], dimensions: [], unknownTerms: [] },
-    deadline: { requestText: 'x', questions: [question], kinds: ['growth'], metrics: ['revenue'], dimensions: [], unknownTerms: [], audience: 'managers' },
-    grain: { requestText: 'x', questions: [question], kinds: ['growth'], metrics: ['revenue'], dimensions: [], unknownTerms: [], audience: 'managers', deadline: 'none' },
-    window: { requestText: 'x', questions: [question], kinds: ['growth'], metrics: ['revenue'], dimensions: [], unknownTerms: [], audience: 'managers', deadline: 'none', grain: 'month' },
-    dimensions: {
-      requestText: 'x',
-      questions: [question],
-      kinds: ['growth'],
-      metrics: ['revenue'],
-      dimensions: [],
-      unknownTerms: [],
-      audience: 'managers',
-      deadline: 'none',
-      grain: 'month',
-      window: { start: '2022-01-01', end: '2025-06-19' },
-    },
   };
   const out = {} as Record<BriefTopic, { prompt: Prompt; brief: Brief }>;
   for (const topic of BRIEF_TOPICS) {

@@ -161,15 +161,17 @@ describe('a bot on two datasets with access rules (demo data)', () => {
     await bot.handle({ threadId: 'slack:COPS1:1.1', author: 'ana', text: 'In the refunds data, how has the refund rate moved over time?', channel: 'slack:COPS1' });
     const state = (await store.get('slack:COPS1:1.1'))!;
     expect(state).toMatchObject({ dataset: 'bookings', channel: 'slack:COPS1' });
-    // One dataset allowed: the acknowledgement does not name it.
-    expect(port.messages[0]!.text).toMatch(/^On it: /);
+    // One dataset allowed: the brief card does not name it.
+    expect(port.messages[0]!.text).toMatch(/^\*Here is what I understood\.\*/);
+    expect(port.messages[0]!.text).not.toMatch(/Using Skerrywake/);
   });
 
   it('a channel with both: the request\'s terms choose, and the acknowledgement says which', async () => {
     const { bot, store, port } = newBot();
     await bot.handle({ threadId: 'local:a', author: 'ana', text: 'How has revenue moved over time?', channel: 'local' });
     expect((await store.get('local:a'))!.dataset).toBe('bookings');
-    expect(port.messages[0]!.text).toMatch(/^Using Skerrywake bookings\. On it: a trend question about revenue/);
+    expect(port.messages[0]!.text).toMatch(/^\*Here is what I understood\.\*/);
+    expect(port.messages[0]!.text).toMatch(/^Using Skerrywake bookings: its catalog has the most of the terms in your request\.$/m);
   });
 
   it('asks which dataset when the request does not settle it, then uses the answer for the whole thread', async () => {
@@ -203,7 +205,9 @@ describe('a bot on two datasets with access rules (demo data)', () => {
     await bot.handle({ threadId: 'local:c', author: 'ana', text: 'the weather one', channel: 'local' });
     expect(port.messages.at(-1)!.text).toMatch(/^I couldn't match "the weather one" to a dataset\. Choose one of: Skerrywake bookings, Skerrywake refunds\./);
     await bot.handle({ threadId: 'local:c', author: 'ana', text: 'refunds', channel: 'local' });
-    expect(port.messages.at(-2)!.text).toMatch(/^Using Skerrywake refunds\./);
+    // The request names no measure: asked next, after saying which dataset is used.
+    expect(port.messages.at(-1)!.text).toMatch(/^Using Skerrywake refunds\./);
+    expect(port.messages.at(-1)!.promptTopic).toBe('metrics');
   });
 
   it('when the rules change, a thread whose dataset the channel lost is refused on its next message', async () => {

@@ -94,7 +94,11 @@ describe('the audit log of a demo conversation', () => {
   });
 
   it('lists every post the thread received, by key, in order, with its first text and files', () => {
-    const posts = audit.filter((e) => e.kind === 'post');
+    // Edits in place (the brief card once agreed) are logged under keys of their own, naming the post they replace.
+    const edits = audit.filter((e) => e.kind === 'post' && e.detail.edits);
+    expect(edits.length).toBeGreaterThan(0);
+    for (const e of edits) expect(port.posts.map((p) => p.key)).toContain(e.detail.edits);
+    const posts = audit.filter((e) => e.kind === 'post' && !e.detail.edits);
     expect(posts.map((e) => e.detail.key)).toEqual(port.posts.map((p) => p.key));
     // The progress message is edited later; the log keeps what was first posted.
     expect(posts.map((e) => e.detail.files)).toEqual(port.posts.map((p) => p.files.map((f) => f.name)));

@@ -94,8 +94,8 @@ describeWithPostgres('broken data gives clear replies and keeps the request for 
       await bot.idle();
     };
     await say(REQUEST);
-    for (let i = 0; i < 8 && !port.inThread(threadId).at(-1)!.text.startsWith('Here is the plan'); i++) await say('ok');
-    expect(port.inThread(threadId).at(-1)!.text).toMatch(/^Here is the plan/);
+    for (let i = 0; i < 8 && !port.inThread(threadId).at(-1)!.text.startsWith('*Here is what I understood.*'); i++) await say('ok');
+    expect(port.inThread(threadId).at(-1)!.text).toMatch(/^\*Here is what I understood\.\*/);
     const items = inStage(await store.get(threadId), 'planning').plan.items.length;
     expect(items).toBeGreaterThan(1);
     const texts = (from = 0) => port.inThread(threadId).slice(from).map((m) => m.text);

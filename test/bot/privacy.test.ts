@@ -107,28 +107,28 @@ describe('personal data never leaves the database', () => {
   it('"revenue by customer email" is refused, naming the rule, and the rest is answered without it', async () => {
     const { end, port, audit, everything } = await converse('Show me revenue by customer email, month by month, for the ops review. No deadline.', {});
     expect(end).toBe('done');
-    const refusal = port.posts.find((p) => /personal data/.test(p.text))!;
-    expect(refusal.text).toBe(
-      "I can't break anything down by, filter on or show Customer email: the catalog marks it as personal data, and personal data is never grouped by, filtered on or shown in any answer, table or SQL. I'll answer the rest of the request without it.",
+    // Said on the brief card, the first post, before anything runs.
+    const card = port.posts[0]!;
+    expect(card.text).toMatch(/^\*Here is what I understood\.\*/);
+    expect(card.text).toContain(
+      "I can't break anything down by, filter on or show Customer email: the catalog marks it as personal data, and personal data is never grouped by, filtered on or shown in any answer, table or SQL. The rest of the request is answered without it.",
     );
-    // Said straight after the acknowledgement, before any question or plan.
-    expect(port.posts.indexOf(refusal)).toBe(1);
     expect(audit.find((e) => e.kind === 'denied')).toMatchObject({ detail: { reason: 'personal_data', dimensions: ['Customer email'] } });
     // "customer" in "customer email" was not read as the customers metric: revenue only.
-    expect(port.posts[0]!.text).toBe('On it: a trend question about revenue. A few quick questions first, then a plan to agree.');
+    expect(card.text).toMatch(/^- \*Measure:\* Revenue _/m);
     expect(port.posts.some((p) => Object.keys(p.files).length > 0)).toBe(true);
     // The refusal and the audit name the catalog label, never the column.
     expectNoPersonalData(everything);
   });
 
-  it('a breakdown answer that names customer email is re-asked with the rule', async () => {
+  it('a correction on the card that names customer email is refused with the rule, and the card stays as it was', async () => {
     const { end, port, everything } = await converse('Did revenue grow this summer compared with last summer? For my team, no deadline.', {
       dimensions: 'customer email',
     });
     expect(end).toBe('done');
-    const prompts = port.posts.filter((p) => p.promptTopic === 'dimensions');
-    expect(prompts).toHaveLength(2);
-    expect(prompts[1]!.text).toMatch(/^I can't break anything down by, filter on or show Customer email: the catalog marks it as personal data/);
+    const refusals = port.posts.filter((p) => /^I can't break anything down by, filter on or show Customer email: the catalog marks it as personal data/.test(p.text));
+    expect(refusals).toHaveLength(1);
+    expect(port.posts.some((p) => p.text.startsWith('Updated the brief above'))).toBe(false);
     expectNoPersonalData(everything);
   });
 });

@@ -52,19 +52,21 @@ describe(`restarts (${kindName})`, () => {
     };
 
     let p = await start(open, port);
-    await say(p.bot, 'How has revenue moved over time?');
-    await say(p.bot, 'leadership');
-    await p.store.close(); // stopped while clarifying: the deadline question is pending
+    await say(p.bot, 'How have things moved over time?');
+    await p.store.close(); // stopped while clarifying: the request names no measure, so it is asked
 
     p = await start(open, port);
-    expect(port.inThread('t1').at(-1)!.promptTopic).toBe('deadline');
-    await say(p.bot, 'none');
-    await say(p.bot, 'monthly');
-    await say(p.bot, 'all');
-    expect(port.inThread('t1').at(-1)!.text).toMatch(/^Here is the plan/);
-    await p.store.close(); // stopped while the plan waits
+    expect(port.inThread('t1').at(-1)!.promptTopic).toBe('metrics');
+    await say(p.bot, 'revenue');
+    const card = port.inThread('t1').at(-1)!;
+    expect(card.text).toMatch(/^\*Here is what I understood\.\*/);
+    await say(p.bot, 'for leadership, quarterly');
+    await p.store.close(); // stopped while the card waits, after a correction
 
     p = await start(open, port);
+    // The card was corrected in place, and the correction survived the restart.
+    expect(port.inThread('t1').filter((m) => m.text.startsWith('*Here is what I understood.*'))).toHaveLength(1);
+    expect(port.inThread('t1').find((m) => m.key === card.key)!.text).toMatch(/Audience:\* Leadership[\s\S]*Grain:\* Quarterly/);
     await say(p.bot, 'go');
     const texts = port.inThread('t1').map((m) => m.text);
     expect(texts.some((t) => t.startsWith('*Summary*'))).toBe(true);
