@@ -72,7 +72,7 @@ describeWithPostgres('the sweep for accepted but unhandled messages', (url) => {
     await settle();
     const answered = await botMessages(lost.thread.id);
     expect(answered.length).toBeGreaterThan(0);
-    expect(answered[0]!.text).toMatch(/^On it/);
+    expect(answered[0]!.text).toMatch(/^\*Here is what I understood\.\*/);
     expect((await received(lost.thread.id)).map((e) => e.detail.messageId)).toEqual([lost.message.id]);
 
     // Nothing left to sweep; the same message delivered again (a late first delivery) is skipped.

@@ -20,7 +20,8 @@ import { demoFixture } from '../helpers/demo-fixture.js';
 import { SseClient } from '../helpers/sse-client.js';
 import { waitFor } from '../helpers/wait-for.js';
 
-const REQUEST = 'How has revenue moved over time, month by month? We want to see the busiest and quietest months.';
+// Names no measure, so the bot asks for one (a prompt with options) before its brief card.
+const REQUEST = 'How have things moved over time, month by month? We want to see the busiest and quietest months.';
 const CHROMIUM = '/usr/bin/chromium';
 const SHOTS = '/tmp/local-channel';
 
