@@ -1,9 +1,10 @@
 // Title and caption for a growth_drivers answer: the total's change between the two spans and the
 // segments that moved it most, written only from the finding.
 import type { DatasetConfig, Metric } from '../../config/schema.js';
-import type { GrowthDriverSegment, GrowthDriversFinding } from '../findings/growth.js';
-import { formatChange } from '../format.js';
+import type { ChangedSegment, GrowthDriverSegment, GrowthDriversFinding } from '../findings/growth.js';
+import { formatChange, formatPeriod } from '../format.js';
 import type { Audience } from '../types.js';
+import { listJoin } from './grammar.js';
 import type { GrowthWords } from './growth-series-caption.js';
 import { capitalise, dimensionLabel, directionOf, formatPoints, lower, segmentText, spanText, unsignedPercent, valueText } from './growth-words.js';
 
@@ -25,11 +26,18 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
   const dim = lower(dimensionLabel(f.dimension, dataset));
 
   // A ratio's segments do not add up to its total, so a segment can only be said to have moved most, not to have driven it.
-  const title = !top
+  const driverTitle = !top
     ? `No ${dim} changed ${lower(label)}`
     : f.additive
       ? `${capitalise(name(top))} drove the biggest change in ${lower(label)}: ${money(top.change, true)}`
       : `${label} moved most for ${name(top)}: ${money(top.change, true)}`;
+  // When segments came or went, the headline states both growth figures if they differ as printed.
+  const lfl = f.likeForLike;
+  const bothFigures =
+    lfl && lfl.relative !== null && f.total.relative !== null && formatChange(lfl.relative, locale) !== formatChange(f.total.relative, locale)
+      ? `${lower(label)} ${formatChange(lfl.relative, locale)} like for like against ${formatChange(f.total.relative, locale)} overall`
+      : null;
+  const title = bothFigures ? `${driverTitle}; ${bothFigures}` : driverTitle;
 
   const total = f.total;
   const totalMove =
@@ -38,6 +46,7 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
       : `${label} went from ${money(total.before)} to ${money(total.after)}`;
   const named = f.segments.filter((s) => s.change !== null).slice(0, NAMED_IN_CAPTION);
   const sentences = [`${totalMove}, ${spans}.`];
+  if (lfl) sentences.push(likeForLikeSentence(lfl, label, (s) => segmentText(s.segment, f.dimension, dataset), money, locale));
 
   if (audience === 'leadership') {
     if (named.length > 0) sentences.push(`Biggest moves: ${named.map((s) => `${name(s)} ${money(s.change, true)}`).join(', ')}.`);
@@ -73,4 +82,29 @@ function totalVerb(relative: number, locale: string): string {
     default:
       return 'held flat';
   }
+}
+
+/** "Like for like, without kiosk (opened on 1 June 2023), revenue rose 2.0%: €680K to €694K." */
+function likeForLikeSentence(
+  lfl: NonNullable<GrowthDriversFinding['likeForLike']>,
+  label: string,
+  name: (s: ChangedSegment) => string,
+  money: (v: number | null) => string,
+  locale: string,
+): string {
+  const day = (iso: string | null) => (iso === null ? '' : formatPeriod(iso, 'day', locale, 'long'));
+  const why = (s: ChangedSegment) =>
+    s.opened && s.closed
+      ? `${name(s)} (only there from ${day(s.firstDay)} to ${day(s.lastDay)})`
+      : s.opened
+        ? `${name(s)} (opened on ${day(s.firstDay)})`
+        : `${name(s)} (last there on ${day(s.lastDay)})`;
+  const shown = lfl.excluded.slice(0, NAMED_IN_CAPTION).map(why);
+  const more = lfl.excluded.length - shown.length;
+  const left = listJoin(more > 0 ? [...shown, `${more} more`] : shown);
+  const how = lfl.excluded.length === 1 ? 'is not there through both spans, so it is' : 'are not there through both spans, so they are';
+  if (lfl.relative === null || lfl.before === null || lfl.after === null) {
+    return `${capitalise(left)} ${how} left out of like-for-like growth, which cannot be worked out here.`;
+  }
+  return `Like for like, without ${left}, which ${lfl.excluded.length === 1 ? 'is' : 'are'} not there through both spans, ${lower(label)} ${totalVerb(lfl.relative, locale)}: ${money(lfl.before)} to ${money(lfl.after)}.`;
 }

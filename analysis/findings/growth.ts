@@ -85,6 +85,18 @@ export interface GrowthDriverSegment {
   contribution: number | null;
 }
 
+/** A segment that was not there through both spans, so like-for-like growth leaves it out. */
+export interface ChangedSegment {
+  segment: string | null;
+  /** It first appears after the earlier span began (a new site or channel). */
+  opened: boolean;
+  /** It last appears before the later span ended (a closed site, a discontinued product). */
+  closed: boolean;
+  /** Its first and last day with rows over both spans. */
+  firstDay: string | null;
+  lastDay: string | null;
+}
+
 export interface GrowthDriversFinding {
   type: 'growth_drivers';
   metric: string;
@@ -99,6 +111,11 @@ export interface GrowthDriversFinding {
   segments: GrowthDriverSegment[];
   /** The remaining segments folded together; values are null when the metric does not add up. */
   others: (Omit<GrowthDriverSegment, 'segment'> & { count: number }) | null;
+  /**
+   * Like-for-like growth: the total over the segments there through both spans, and the segments
+   * left out; null when every segment was there throughout (the total is then like for like).
+   */
+  likeForLike: { before: number | null; after: number | null; change: number | null; relative: number | null; excluded: ChangedSegment[] } | null;
 }
 
 export interface GrowthRateSummaryFinding {

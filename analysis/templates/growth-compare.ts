@@ -1,12 +1,14 @@
 // Shared by growth_drivers and growth_share_shift: the metric by one dimension in the window
 // asked for and in the same dates a year earlier, both cut to the dates the data covers so the
-// two spans stay like for like (18 days of this June against 18 days of last June, not 30).
+// two spans stay like for like (18 days of this June against 18 days of last June, not 30). Each
+// segment is also marked as present through both spans or not (a site that opened or closed in
+// between), and the segments present through both get a total of their own: like-for-like growth.
 import type { DatasetConfig } from '../../config/schema.js';
 import { groupableDimension, metricByName } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import { dataEnd } from '../coverage.js';
-import type { GrowthSpan } from '../findings/growth.js';
+import type { ChangedSegment, GrowthSpan } from '../findings/growth.js';
 import { addDays, addMonths, periodStart } from '../periods.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, DateWindow, ResultTable, SubQuestion } from '../types.js';
@@ -23,6 +25,22 @@ const ROWS = '__tc_rows';
 const SMALL = '__tc_small';
 const SMALL_COUNT = '__tc_small_count';
 const COMPLEMENT_COUNT = '__tc_complement_count';
+const LIFE_KEY = '__tc_life_key';
+const OPENED = '__tc_opened';
+const CLOSED = '__tc_closed';
+const LFL = '__tc_lfl';
+
+/**
+ * How many days after the earliest first day of the earlier span a segment may first appear (or
+ * before the latest last day of the later span it may last appear) and still count as present
+ * through both: a twelfth of the span, at least one day and at most 31, so a site with a quiet
+ * first day or two is not taken for a new one. Our rule; retailers' own like-for-like rules (a
+ * site open a full year, say) are stricter and may be set by the organisation.
+ */
+export function presenceToleranceDays(w: DateWindow): number {
+  const days = Math.round((Date.parse(w.end) - Date.parse(w.start)) / 86_400_000);
+  return Math.min(31, Math.max(1, Math.floor(days / 12)));
+}
 
 /**
  * The same dates one year earlier. A window edge on 29 February moves to 1 March: the window is
@@ -71,6 +89,8 @@ export function compileWindowComparison(asked: SubQuestion, ctx: CompileContext)
   const table = tableRef(q, ctx);
   const measures = sq.metrics.map((name) => `  ${measureSql(q, ctx, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
   const sides = sidesSql(q, ctx, sq, prior, { table, win, day, first, last });
+  const [opened, closed, lfl] = [OPENED, CLOSED, LFL].map(q.ident) as [string, string, string];
+  const life = presenceSql(q, { seg, win, day, tolerance: q.bind(presenceToleranceDays(sq.window)) });
   const min = minGroupSize(ctx.dataset);
   if (min !== null) {
     // A segment with fewer rows than the minimum on either side (where it has rows at all) joins
@@ -97,19 +117,29 @@ tc_small AS (
   LEFT JOIN tc_extra ON tc_primary.${key} IS NOT DISTINCT FROM tc_extra.tc_sdc_key
   WHERE tc_primary.${small} OR tc_extra.tc_sdc_fold
 ),
+${life.ctes},
 marked AS (
   SELECT tagged.*,
     COALESCE(tc_small.${small}, FALSE) AS ${folded},
     CASE WHEN COALESCE(tc_small.${small}, FALSE) THEN NULL ELSE tagged.${seg} END AS ${segAlias},
     (SELECT COUNT(*) FROM tc_primary WHERE tc_primary.${small}) AS ${smallCount},
-    (SELECT COUNT(*) FROM tc_extra) AS ${complementCount}
+    (SELECT COUNT(*) FROM tc_extra) AS ${complementCount},
+    ${life.opened} AS ${opened},
+    ${life.closed} AS ${closed},
+    -- Segments too small to show stay in the like-for-like base, so it never gives their values away.
+    (COALESCE(tc_small.${small}, FALSE) OR NOT (${life.opened} OR ${life.closed})) AS ${lfl}
   FROM tagged
   LEFT JOIN tc_small ON tagged.${seg} IS NOT DISTINCT FROM tc_small.${key}
+  ${life.joins}
 )
 SELECT ${win} AS window_name,
   GROUPING(${segAlias}) AS g_segment,
+  GROUPING(${lfl}) AS g_lfl,
   ${segAlias} AS segment,
   ${folded} AS folded,
+  ${lfl} AS like_for_like,
+  BOOL_OR(${opened}) AS opened,
+  BOOL_OR(${closed}) AS closed,
 ${measures.join(',\n')},
   ${d.toDouble(rowCountSql(q, ctx))} AS row_count,
   MIN(${day}) AS first_day,
@@ -118,20 +148,58 @@ ${measures.join(',\n')},
   ${d.toDouble(`MAX(${smallCount})`)} AS small_segments,
   ${d.toDouble(`MAX(${complementCount})`)} AS complement_segments
 FROM marked
-GROUP BY GROUPING SETS ((${win}, ${folded}, ${segAlias}), (${win}))
-ORDER BY 1, 2, 4, 3`);
+GROUP BY GROUPING SETS ((${win}, ${folded}, ${segAlias}, ${lfl}), (${win}), (${win}, ${lfl}))
+ORDER BY 1, 2, 3, 5, 4`);
   }
-  return q.finish(`${sides}
+  return q.finish(`${sides},
+${life.ctes},
+lived AS (
+  SELECT tagged.*, ${life.opened} AS ${opened}, ${life.closed} AS ${closed}, NOT (${life.opened} OR ${life.closed}) AS ${lfl}
+  FROM tagged
+  ${life.joins}
+)
 SELECT ${win} AS window_name,
   GROUPING(${seg}) AS g_segment,
+  GROUPING(${lfl}) AS g_lfl,
   ${seg} AS segment,
+  ${lfl} AS like_for_like,
+  BOOL_OR(${opened}) AS opened,
+  BOOL_OR(${closed}) AS closed,
 ${measures.join(',\n')},
   ${d.toDouble(rowCountSql(q, ctx))} AS row_count,
   MIN(${day}) AS first_day,
   MAX(${day}) AS last_day
-FROM tagged
-GROUP BY GROUPING SETS ((${win}, ${seg}), (${win}))
-ORDER BY 1, 2, 3`);
+FROM lived
+GROUP BY GROUPING SETS ((${win}, ${seg}, ${lfl}), (${win}), (${win}, ${lfl}))
+ORDER BY 1, 2, 3, 4`);
+}
+
+/**
+ * Whether each segment was there through both spans, read from the two spans' own rows: it opened
+ * if its first day in the earlier span comes more than `tolerance` days after the earliest first
+ * day of any segment there (or it has no rows there), it closed if its last day in the later span
+ * comes that much before the latest last day there (or it has no rows there). Edges come from the
+ * data, so a span cut to the data's dates is judged on the days it has.
+ */
+function presenceSql(q: QueryBuilder, n: { seg: string; win: string; day: string; tolerance: string }): { ctes: string; joins: string; opened: string; closed: string } {
+  const key = q.ident(LIFE_KEY);
+  const ctes = `tc_life AS (
+  SELECT ${n.seg} AS ${key},
+    MIN(CASE WHEN ${n.win} = 'prior' THEN ${n.day} END) AS tc_first_prior,
+    MAX(CASE WHEN ${n.win} = 'current' THEN ${n.day} END) AS tc_last_current
+  FROM tagged
+  GROUP BY 1
+),
+tc_edges AS (
+  SELECT MIN(tc_first_prior) AS tc_first_prior, MAX(tc_last_current) AS tc_last_current FROM tc_life
+)`;
+  return {
+    ctes,
+    joins: `LEFT JOIN tc_life ON tagged.${n.seg} IS NOT DISTINCT FROM tc_life.${key}
+  CROSS JOIN tc_edges`,
+    opened: `COALESCE(tc_life.tc_first_prior - tc_edges.tc_first_prior > ${n.tolerance}, TRUE)`,
+    closed: `COALESCE(tc_edges.tc_last_current - tc_life.tc_last_current > ${n.tolerance}, TRUE)`,
+  };
 }
 
 /**
@@ -184,6 +252,7 @@ tagged AS (
 export interface SideRow {
   rows: number;
   firstDay: string | null;
+  lastDay: string | null;
   values: Record<string, number | null>;
 }
 
@@ -194,6 +263,8 @@ export interface WindowSide {
   segments: Map<string | null, SideRow>;
   /** Segments below the dataset's minimum group size, combined in the database; null when none. */
   folded: (SideRow & { members: number }) | null;
+  /** The total over the segments present through both spans; null when there are none (or none was read). */
+  likeForLike: SideRow | null;
 }
 
 export interface WindowComparison {
@@ -208,6 +279,8 @@ export interface WindowComparison {
   smallSegments: number;
   /** Named segments folded with them so they cannot be worked out from the total (complementary suppression). */
   complementSegments: number;
+  /** Segments not there through both spans, left out of the like-for-like totals; empty when every segment was. */
+  changed: ChangedSegment[];
 }
 
 /**
@@ -220,10 +293,11 @@ export function readWindowComparison(asked: SubQuestion, table: ResultTable, cov
   const caveats: Caveat[] = [];
   if (table.truncated) caveats.push({ code: 'truncated', data: { rows: table.rows.length } });
   const prior = priorWindow(sq.window);
-  const current: WindowSide = { total: null, segments: new Map(), folded: null };
-  const before: WindowSide = { total: null, segments: new Map(), folded: null };
+  const current: WindowSide = { total: null, segments: new Map(), folded: null, likeForLike: null };
+  const before: WindowSide = { total: null, segments: new Map(), folded: null, likeForLike: null };
   let smallSegments = 0;
   let complementSegments = 0;
+  const changed = new Map<string | null, ChangedSegment>();
   for (const r of table.rows) {
     if (typeof r.small_segments === 'number' && Number.isFinite(r.small_segments)) smallSegments = Math.max(smallSegments, r.small_segments);
     if (typeof r.complement_segments === 'number' && Number.isFinite(r.complement_segments)) complementSegments = Math.max(complementSegments, r.complement_segments);
@@ -231,10 +305,27 @@ export function readWindowComparison(asked: SubQuestion, table: ResultTable, cov
     if (!sideOf) continue;
     const values: Record<string, number | null> = {};
     for (const m of sq.metrics) values[m] = typeof r[m] === 'number' && Number.isFinite(r[m]) ? r[m] : null;
-    const row: SideRow = { rows: Number(r.row_count ?? 0), firstDay: typeof r.first_day === 'string' ? r.first_day : null, values };
-    if (Number(r.g_segment) === 1) sideOf.total = row;
-    else if (r.folded === true) sideOf.folded = { ...row, members: Number(r.members ?? 0) };
-    else sideOf.segments.set(r.segment === null || r.segment === undefined ? null : String(r.segment), row);
+    const row: SideRow = { rows: Number(r.row_count ?? 0), firstDay: dayOf(r.first_day), lastDay: dayOf(r.last_day), values };
+    if (Number(r.g_segment) === 1) {
+      // The like-for-like grouping: the segments through both spans (true) or the others (false, not kept).
+      if (r.g_lfl !== undefined && Number(r.g_lfl) === 0) {
+        if (r.like_for_like === true) sideOf.likeForLike = row;
+      } else sideOf.total = row;
+    } else if (r.folded === true) sideOf.folded = { ...row, members: Number(r.members ?? 0) };
+    else {
+      const key = r.segment === null || r.segment === undefined ? null : String(r.segment);
+      sideOf.segments.set(key, row);
+      if (r.like_for_like === false) {
+        const seen = changed.get(key);
+        changed.set(key, {
+          segment: key,
+          opened: r.opened === true,
+          closed: r.closed === true,
+          firstDay: minDay(seen?.firstDay ?? null, row.firstDay),
+          lastDay: maxDay(seen?.lastDay ?? null, row.lastDay),
+        });
+      }
+    }
   }
   let currentSpan: GrowthSpan = { ...sq.window };
   let priorSpan: GrowthSpan = { ...prior };
@@ -264,7 +355,19 @@ export function readWindowComparison(asked: SubQuestion, table: ResultTable, cov
     caveats.push({ code: 'no_data', data: { start: prior.start, end: prior.end, window: 'prior' } });
   } else if (empty) caveats.push({ code: 'no_data', data: { start: sq.window.start, end: sq.window.end } });
   else if (currentRows === 0) caveats.push({ code: 'no_data', data: { start: sq.window.start, end: sq.window.end, window: 'current' } });
-  return { current, prior: before, currentSpan, priorSpan, caveats, empty, smallSegments, complementSegments };
+  return { current, prior: before, currentSpan, priorSpan, caveats, empty, smallSegments, complementSegments, changed: [...changed.values()] };
+}
+
+function dayOf(v: unknown): string | null {
+  return typeof v === 'string' ? v : null;
+}
+
+function minDay(a: string | null, b: string | null): string | null {
+  return a === null ? b : b === null ? a : minIso(a, b);
+}
+
+function maxDay(a: string | null, b: string | null): string | null {
+  return a === null ? b : b === null ? a : maxIso(a, b);
 }
 
 /**

@@ -13,6 +13,7 @@ import {
   segmentKeys,
   segmentPresenceCaveats,
   type WindowComparison,
+  type WindowSide,
 } from './growth-compare.js';
 import { minGroupSize, suppressedSegmentsCaveat } from './small-groups.js';
 import type { Reading, Template } from './template.js';
@@ -110,6 +111,23 @@ function driversOf(
     total: { before: totalBefore, after: totalAfter, change: totalChange, relative: totalRelative },
     segments,
     others,
+    likeForLike: likeForLikeOf(cmp, metric, additive),
+  };
+}
+
+/** The like-for-like total, when some segment was not there through both spans and both spans have data. */
+function likeForLikeOf(cmp: WindowComparison, metric: string, additive: boolean): GrowthDriversFinding['likeForLike'] {
+  if (cmp.changed.length === 0 || !cmp.prior.total?.rows || !cmp.current.total?.rows) return null;
+  // No segment through both spans: a sum over none is zero, a ratio over none unknown.
+  const side = (s: WindowSide) => (s.likeForLike ? s.likeForLike.values[metric] ?? null : additive ? 0 : null);
+  const before = side(cmp.prior);
+  const after = side(cmp.current);
+  return {
+    before,
+    after,
+    change: before !== null && after !== null ? after - before : null,
+    relative: relativeChange(before, after),
+    excluded: cmp.changed,
   };
 }
 

@@ -152,6 +152,7 @@ const driversFinding: GrowthDriversFinding = {
     { segment: 'kiosk', before: 0, after: 1_000, change: 1_000, relative: null, shareOfChange: 0.1, contribution: 0.005 },
   ],
   others: { count: 2, before: 30_000, after: 30_000, change: 0, relative: 0, shareOfChange: 0, contribution: 0 },
+  likeForLike: null,
 };
 
 describe('growth_drivers presenter', () => {

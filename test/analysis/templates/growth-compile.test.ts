@@ -92,8 +92,9 @@ describe('growth_series SQL', () => {
 describe('two-window SQL (drivers and share shift)', () => {
   it('binds the window and the same dates a year earlier, and groups by the catalog column', () => {
     const q = compileWindowComparison(drivers, ctx);
-    expect(q.params).toEqual(['2024-06-01', '2024-09-01', '2023-06-01', '2023-09-01']);
-    expect(q.sql).toContain('GROUP BY GROUPING SETS (("__tc_window", "channel"), ("__tc_window"))');
+    // The last parameter: the days a segment may start late or end early and still be like for like (92 days / 12).
+    expect(q.params).toEqual(['2024-06-01', '2024-09-01', '2023-06-01', '2023-09-01', 7]);
+    expect(q.sql).toContain('GROUP BY GROUPING SETS (("__tc_window", "channel", "__tc_lfl"), ("__tc_window"), ("__tc_window", "__tc_lfl"))');
     expect(q.sql).toContain('UNION ALL');
     expect(q.sql).not.toMatch(/'20\d\d-/);
   });
