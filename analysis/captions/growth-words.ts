@@ -46,6 +46,16 @@ export function formatPoints(diff: number | null, locale: string): string {
   return `${text} pts`;
 }
 
+/**
+ * A small move of a rate in points with two significant figures, unsigned: a slope of 0.00042 a
+ * month is "0.042 pts", never "0.0%" or "0.0 pts".
+ */
+export function formatSmallPoints(diff: number, locale: string): string {
+  const pts = Math.abs(diff * 100);
+  const decimals = pts === 0 || pts >= 10 ? 1 : Math.min(6, Math.max(1, 1 - Math.floor(Math.log10(pts))));
+  return `${formatValue(pts, { unit: 'number', decimals, locale })} pts`;
+}
+
 /** A share (0–1) as a percentage with one decimal: "40.0%". */
 export function formatShare(share: number | null, locale: string): string {
   return formatValue(share, { unit: 'percent', decimals: 1, locale });
@@ -147,11 +157,11 @@ export function growthNote(c: Caveat, locale: string, dimension: string, dataset
     case 'series_gap':
       if (typeof d.firstGap === 'string' && typeof d.periods === 'number') {
         const grain = (d.grain as Grain | undefined) ?? 'month';
-        return `${d.periods} ${plural(grain, d.periods)} in the window have no data at all (the first is ${formatPeriod(d.firstGap, grain, locale, 'long')}); rates next to them are n/a.`;
+        return `${d.periods} ${plural(grain, d.periods)} in the window have no data at all (the first is ${formatPeriod(d.firstGap, grain, locale, 'long')}); no rate is given next to them.`;
       }
       break;
     case 'base_zero':
-      return 'Some growth rates cannot be worked out because the earlier value is zero, negative or missing; they are shown as n/a.';
+      return 'Some growth rates cannot be worked out because the earlier value is zero, negative or missing, so those rates are left out.';
     case 'single_period':
       if (d.rates === 0) return 'There are no two comparable periods, so there is no growth rate to summarise.';
       if (d.periods === 0) return 'There is no complete period yet, so there is no growth to measure.';

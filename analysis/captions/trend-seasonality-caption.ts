@@ -3,6 +3,7 @@ import type { Metric } from '../../config/schema.js';
 import type { CalendarMonthPattern, TrendSeasonalityFinding, TrendWeekdayFinding } from '../findings/segments.js';
 import { formatPeriod } from '../format.js';
 import type { Audience, Finding } from '../types.js';
+import { listJoin } from './grammar.js';
 import type { Words } from './trend-test-caption.js';
 import { formatIndex, formatRelativeSize, grainNoun, lowerLabel, monthName, monthPair, weekdayName } from './trend-words.js';
 
@@ -30,6 +31,8 @@ export function seasonalityWords(metric: Metric, additive: boolean, findings: re
 
   const name = (m: number) => monthName(m, locale);
   const rel = (m: CalendarMonthPattern) => formatRelativeSize(m.index - 1, locale);
+  /** "about 27% above an average month", "about 3% below", "about the same as": the side follows the index. */
+  const against = (m: CalendarMonthPattern) => besideAverage(m.index, 'an average month', locale);
   const noun = lowerLabel(metric.label);
   let caption: string;
   if (audience === 'analysts') {
@@ -42,15 +45,24 @@ export function seasonalityWords(metric: Metric, additive: boolean, findings: re
     const counts = years > 0 ? ` Top-two and bottom-two counts are by raw monthly value over the full calendar years ${s.fullYears.join(', ')}: ${name(q0)} and ${name(q1)} were in the bottom two in ${Math.min(byMonth(q0).bottomTwoIn, byMonth(q1).bottomTwoIn)} of ${years}.` : '';
     caption = `Classical multiplicative decomposition (2×12 centred moving average) of ${formatPeriod(s.firstPeriod, 'month', locale, 'long')} to ${formatPeriod(s.lastPeriod, 'month', locale, 'long')}${rangeYears}: ${idx(b0)}; ${idx(b1)}; ${idx(q0)}; ${idx(q1)}.${counts}`;
   } else if (audience === 'managers') {
-    caption = `${name(b0)} (index ${formatIndex(byMonth(b0).index, locale)}) and ${name(b1)} (${formatIndex(byMonth(b1).index, locale)}) run about ${rel(byMonth(b0))} and ${rel(byMonth(b1))} above an average month; ${name(q0)} (${formatIndex(byMonth(q0).index, locale)}) and ${name(q1)} (${formatIndex(byMonth(q1).index, locale)}) are the ${additive ? 'quietest' : 'lowest'}, about ${rel(byMonth(q0))} and ${rel(byMonth(q1))} below.`;
-  } else {
-    const band = (a: number, b: number) => {
-      const [x, y] = [Math.abs(byMonth(a).index - 1), Math.abs(byMonth(b).index - 1)].sort((u, v) => u - v);
-      const lo = formatRelativeSize(x!, locale);
-      const hi = formatRelativeSize(y!, locale);
-      return lo === hi ? hi : `${lo.replace(/\s*%/, '')}–${hi}`;
+    // "run about 66% and 61% above an average month"; the quiet pair says "below" alone after it.
+    const pair = (a: number, b: number, basis: string) => {
+      const [x, y] = [byMonth(a), byMonth(b)];
+      if (sideOf(x.index) === 0 && sideOf(y.index) === 0) return 'about the same as an average month';
+      return sideOf(x.index) === sideOf(y.index)
+        ? `about ${rel(x)} and ${rel(y)} ${sideWord(x.index, basis).trim()}`
+        : `${against(x)} and ${against(y)} respectively`;
     };
-    caption = `${monthPair(b0, b1, locale)} are about ${band(b0, b1)} above an average month for ${noun}; ${monthPair(q0, q1, locale)} about ${band(q0, q1)} below.`;
+    caption = `${name(b0)} (index ${formatIndex(byMonth(b0).index, locale)}) and ${name(b1)} (${formatIndex(byMonth(b1).index, locale)}) run ${pair(b0, b1, 'an average month')}; ${name(q0)} (${formatIndex(byMonth(q0).index, locale)}) and ${name(q1)} (${formatIndex(byMonth(q1).index, locale)}) are the ${additive ? 'quietest' : 'lowest'}, ${pair(q0, q1, '')}.`;
+  } else {
+    const band = (a: number, b: number, basis: string) => {
+      const [x, y] = [byMonth(a), byMonth(b)];
+      if (sideOf(x.index) !== sideOf(y.index)) return `${against(x)} and ${against(y)} respectively`;
+      const [lo, hi] = [Math.abs(x.index - 1), Math.abs(y.index - 1)].sort((u, v) => u - v).map((v) => formatRelativeSize(v, locale));
+      const size = lo === hi ? hi! : `${lo!.replace(/\s*%/, '')}–${hi}`;
+      return sideOf(x.index) === 0 ? 'about the same as an average month' : `about ${size} ${sideWord(x.index, basis).trim()}`;
+    };
+    caption = `${monthPair(b0, b1, locale)} are ${band(b0, b1, 'an average month')} for ${noun}; ${monthPair(q0, q1, locale)} ${band(q0, q1, '')}.`;
   }
   return { title, caption: weekday ? `${caption} ${weekday}` : caption };
 }
@@ -71,5 +83,32 @@ function weekdaySentence(w: TrendWeekdayFinding, additive: boolean, audience: Au
     const list = w.days.map((d) => `${day(d.isoDay).slice(0, 3)} ${formatIndex(d.index, locale)}`).join(', ');
     return `Weekday indices (${additive ? 'per-day level' : 'level'} against the mean of the seven): ${list}.`;
   }
-  return `By day of week, ${day(hi.isoDay)} is the ${additive ? 'busiest' : 'highest'} (about ${formatRelativeSize(hi.index - 1, locale)} above ${basis}) and ${day(lo.isoDay)} the ${additive ? 'quietest' : 'lowest'} (about ${formatRelativeSize(lo.index - 1, locale)} below).`;
+  // Days whose indices print the same are named together as a tie.
+  const printed = (d: { index: number }) => besideAverage(d.index, basis, locale);
+  const tied = (end: { index: number }) => days.filter((d) => printed(d) === printed(end));
+  const names = (group: typeof days) => listJoin(group.map((d) => day(d.isoDay)));
+  if (printed(hi) === printed(lo)) return `By day of week, every day is ${printed(hi)}.`;
+  const [top, bottom] = [tied(hi), tied(lo)];
+  const highWord = additive ? 'busiest' : 'highest';
+  const lowWord = additive ? 'quietest' : 'lowest';
+  const high = top.length > 1 ? `${names(top)} tie as the ${highWord} (${printed(hi)})` : `${day(hi.isoDay)} is the ${highWord} (${printed(hi)})`;
+  // The basis is said once, after the first figure: "(about 8.1% below)".
+  const lowText = sideOf(lo.index) === 0 ? printed(lo) : besideAverage(lo.index, '', locale).trim();
+  const low = bottom.length > 1 ? `${names(bottom)} tie as the ${lowWord} (${lowText})` : `${day(lo.isoDay)} the ${lowWord} (${lowText})`;
+  return `By day of week, ${high} and ${low}.`;
+}
+
+/** Which side of the average an index falls, as printed (within half a tenth of a percent is "the same"). */
+function sideOf(index: number): -1 | 0 | 1 {
+  return Math.abs(index - 1) < 0.0005 ? 0 : index > 1 ? 1 : -1;
+}
+
+function sideWord(index: number, basis: string): string {
+  const side = sideOf(index);
+  return side === 0 ? `the same as ${basis}` : `${side > 0 ? 'above' : 'below'} ${basis}`;
+}
+
+/** A seasonal index against its average: 1.27 is "about 27% above", 0.97 "about 3.0% below". */
+function besideAverage(index: number, basis: string, locale: string): string {
+  return sideOf(index) === 0 ? `about the same as ${basis}` : `about ${formatRelativeSize(index - 1, locale)} ${sideWord(index, basis)}`;
 }

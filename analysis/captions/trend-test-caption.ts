@@ -3,6 +3,7 @@ import type { Metric } from '../../config/schema.js';
 import type { TrendTestFinding } from '../findings/segments.js';
 import { formatChange, formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import type { Audience, Finding, Grain } from '../types.js';
+import { formatSmallPoints } from './growth-words.js';
 import { formatIndex, formatP, formatRelativeSize, grainNoun } from './trend-words.js';
 
 export interface Words {
@@ -32,8 +33,12 @@ export function trendTestWords(metric: Metric, grain: Grain, findings: readonly 
   }
 
   const span = `${when(test.firstPeriod)} to ${when(test.lastPeriod)}`;
-  const perPeriod = formatValue(Math.abs(test.slopePerPeriod), fmt, { compact: true });
-  const perYearRel = test.slopePerYearRelative === null ? null : formatChange(test.slopePerYearRelative, locale);
+  // A rate or share moves in points: its slope is "0.042 pts a month", never a percentage of itself.
+  const inPoints = metric.unit === 'percent';
+  const perPeriod = inPoints ? formatSmallPoints(test.slopePerPeriod, locale) : formatValue(Math.abs(test.slopePerPeriod), fmt, { compact: true });
+  const perYearRel = inPoints
+    ? `${test.slopePerYear < 0 ? '\u2212' : '+'}${formatSmallPoints(test.slopePerYear, locale)}`
+    : test.slopePerYearRelative === null ? null : formatChange(test.slopePerYearRelative, locale);
   const moving = test.direction === 'up' ? 'rising' : 'falling';
   const show = plural ? 'show' : 'shows';
   const title =
@@ -44,7 +49,10 @@ export function trendTestWords(metric: Metric, grain: Grain, findings: readonly 
   let caption: string;
   if (audience === 'analysts') {
     const method = `Mann–Kendall${test.seasonallyAdjusted ? ' on seasonally adjusted values' : ''}, p ${formatP(test.pValue, locale)}, τ = ${formatIndex(test.tau, locale)}, n = ${test.n} ${grainNoun(grain, test.n)}, ${span}`;
-    const slope = `Sen's slope ${formatValue(test.slopePerPeriod, fmt, { compact: true, signed: true })} per ${grainNoun(grain)}, ${formatValue(test.slopePerYear, fmt, { compact: true, signed: true })} a year${perYearRel ? ` (${perYearRel} of the mean level)` : ''}`;
+    const signedPoints = (v: number) => `${v < 0 ? '\u2212' : '+'}${formatSmallPoints(v, locale)}`;
+    const slope = inPoints
+      ? `Sen's slope ${signedPoints(test.slopePerPeriod)} per ${grainNoun(grain)}, ${signedPoints(test.slopePerYear)} a year`
+      : `Sen's slope ${formatValue(test.slopePerPeriod, fmt, { compact: true, signed: true })} per ${grainNoun(grain)}, ${formatValue(test.slopePerYear, fmt, { compact: true, signed: true })} a year${perYearRel ? ` (${perYearRel} of the mean level)` : ''}`;
     const raw = test.seasonallyAdjusted ? ` On the unadjusted values the test gives p ${formatP(test.rawPValue, locale)}.` : '';
     const lead = test.direction === 'none' ? `No significant monotonic trend at the ${formatValue(test.alpha, { unit: 'percent', decimals: 0, locale })} level` : `${title}`;
     caption = `${lead} (${method}); ${slope}.${raw}`;
@@ -56,7 +64,9 @@ export function trendTestWords(metric: Metric, grain: Grain, findings: readonly 
         : `${metric.label} ${test.direction === 'up' ? 'rose' : 'fell'} by about ${perPeriod} a ${grainNoun(grain)}${perYearRel ? ` (${perYearRel} a year)` : ''} from ${span}${seasonal}; a trend this steady is unlikely to be chance.`;
   } else {
     const be = plural ? 'are' : 'is';
-    const size = test.slopePerYearRelative === null ? '' : `, by about ${formatRelativeSize(test.slopePerYearRelative, locale)} a year`;
+    const size = inPoints
+      ? `, by about ${formatSmallPoints(test.slopePerYear, locale)} a year`
+      : test.slopePerYearRelative === null ? '' : `, by about ${formatRelativeSize(test.slopePerYearRelative, locale)} a year`;
     caption =
       test.direction === 'none'
         ? `${metric.label} ${show} no clear rise or fall from ${span}; the ups and downs could be chance.`

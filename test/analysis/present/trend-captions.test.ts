@@ -140,6 +140,45 @@ const weekday: TrendWeekdayFinding = {
   days: [0.946, 0.919, 0.926, 0.996, 1.093, 1.074, 1.048].map((index, i) => ({ isoDay: i + 1, value: 27000 + i, dayCount: 181, level: 150 * index, index, share: 1 / 7 })),
 };
 
+describe('a rate moves in points (issue 16)', () => {
+  // A refund rate drifting up by 0.042 points a month (Sen's slope 0.00042 as a fraction): hand
+  // arithmetic gives 0.504 points a year (12 × 0.042). Printed as "0.0%" before.
+  const rateTest: TrendTestFinding = { ...test, metric: 'refund_rate', slopePerPeriod: 0.00042, slopePerYear: 0.00504, slopePerYearRelative: 0.084 };
+  it('gives the slope in points per period and per year, never a percentage of the rate', () => {
+    const a = answer(sq({ metrics: ['refund_rate'] }), [rateTest]);
+    for (const audience of ['leadership', 'managers', 'analysts'] as const) {
+      const p = present(a, audience);
+      expect(p.title).toBe('Refund rate shows a rising trend of about 0.042 pts per month');
+      expect(`${p.title} ${p.caption}`).not.toMatch(/\d%\s*(per|a) (month|year)/);
+    }
+    expect(present(a, 'managers').caption).toContain('rose by about 0.042 pts a month (+0.50 pts a year)');
+    expect(present(a, 'analysts').caption).toContain("Sen's slope +0.042 pts per month, +0.50 pts a year");
+    expect(present(a, 'leadership').caption).toContain('by about 0.50 pts a year');
+    // A falling rate keeps its sign in points.
+    const down = answer(sq({ metrics: ['refund_rate'] }), [{ ...rateTest, direction: 'down', slopePerPeriod: -0.0031, slopePerYear: -0.0372 }]);
+    expect(present(down, 'analysts').caption).toContain("Sen's slope \u22120.31 pts per month, \u22123.7 pts a year");
+  });
+});
+
+describe('seasonal index words follow the side of the average (issue 16)', () => {
+  // An index of 0.97 is 3% below an average month (1 − 0.97), whichever place it holds in the ranking.
+  const flat = [1.2, 1.1, 1.0, 0.99, 0.98, 0.975, 0.97, 0.96, 0.955, 0.95, 0.96, 0.96].map((index, k) => ({ ...monthsPattern[k]!, month: k + 1, index }));
+  it('a second-busiest month below average is said to be below', () => {
+    const f: TrendSeasonalityFinding = { ...seasonality, months: flat.map((m, k) => (k === 1 ? { ...m, index: 0.97 } : m)), busiest: [1, 2], quietest: [10, 9] };
+    const a = answer(sq({ template: 'trend_seasonality' }), [f]);
+    const managers = present(a, 'managers').caption;
+    expect(managers).toContain('January (index 1.20) and February (0.97) run about 20% above an average month and about 3.0% below an average month respectively');
+    expect(managers).not.toMatch(/3\.0% above/);
+    expect(present(a, 'leadership').caption).toContain('January and February are about 20% above an average month and about 3.0% below an average month respectively');
+  });
+
+  it('names two days of the week that print the same as a tie', () => {
+    const tied: TrendWeekdayFinding = { ...weekday, days: weekday.days.map((d) => (d.isoDay === 6 ? { ...d, index: 1.093 } : d.isoDay === 2 ? { ...d, index: 0.926 } : d)) };
+    const a = answer(sq({ template: 'trend_seasonality' }), [seasonality, tied]);
+    expect(present(a, 'managers').caption).toContain('By day of week, Friday and Saturday tie as the busiest (about 9.3% above an average day) and Tuesday and Wednesday tie as the quietest (about 7.4% below).');
+  });
+});
+
 describe('trend_seasonality presenter', () => {
   it('titles the busiest months with the years they held', () => {
     const a = answer(sq({ template: 'trend_seasonality' }), [seasonality, weekday]);

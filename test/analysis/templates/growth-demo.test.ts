@@ -167,7 +167,7 @@ describe('growth_series on a segment with a planted gap (effect 6: Dunlin Quay c
     expect(nov24.yoy).toBeNull();
     expect(answer.caveats.map((c) => c.code)).toContain('base_zero');
     const notes = SUB_QUESTIONS['growth_series'].present(answer, presentCtx('managers')).notes;
-    expect(notes).toContain('2 months in the window have no data at all (the first is November 2023); rates next to them are n/a.');
+    expect(notes).toContain('2 months in the window have no data at all (the first is November 2023); no rate is given next to them.');
   });
 });
 
