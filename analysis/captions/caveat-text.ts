@@ -1,7 +1,7 @@
 // Plain-words notes for caveats, and the short flags a chart footer carries.
 import type { Grain } from '../types.js';
 import { formatPeriod } from '../format.js';
-import { countOf, listJoin } from './grammar.js';
+import { countOf, isAre, listJoin } from './grammar.js';
 import type { Caveat } from '../types.js';
 
 /** A caveat field as text; a missing field never prints as "undefined". */
@@ -56,7 +56,7 @@ export function caveatNote(c: Caveat, locale: string): string {
     case 'observational':
       return 'This compares groups that were not randomly assigned, so it cannot prove cause.';
     case 'segments_folded':
-      return `${show(d.count)} smaller segments are combined as "All others".`;
+      return typeof d.count === 'number' ? `${countOf(d.count, 'smaller segment')} ${isAre(d.count)} combined as "All others".` : 'Smaller segments are combined as "All others".';
     case 'segment_gap':
       return `${show(d.segment)} has no data for ${show(d.periods)} period(s), from ${period(d.firstGap, d.grain ?? 'month')}.`;
     case 'late_segment':

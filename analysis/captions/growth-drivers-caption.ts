@@ -4,7 +4,6 @@ import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { ChangedSegment, GrowthDriverSegment, GrowthDriversFinding } from '../findings/growth.js';
 import { formatChange, formatPeriod } from '../format.js';
 import type { Audience } from '../types.js';
-import { listJoin } from './grammar.js';
 import type { GrowthWords } from './growth-series-caption.js';
 import { capitalise, dimensionLabel, directionOf, formatPoints, lower, segmentText, spanText, unsignedPercent, valueText } from './growth-words.js';
 
@@ -62,7 +61,7 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
     });
     if (detail.length > 0) sentences.push(`Largest changes by ${dim}: ${detail.join('; ')}.`);
     if (f.others && f.others.change !== null) {
-      sentences.push(`The other ${f.others.count} together: ${money(f.others.change, true)}.`);
+      sentences.push(f.others.count === 1 ? `The one other: ${money(f.others.change, true)}.` : `The other ${f.others.count} together: ${money(f.others.change, true)}.`);
     }
     if (!f.additive) {
       sentences.push(`${label} is not a sum, so segment changes do not add up to the total's; each segment's own change is shown.`);
@@ -84,7 +83,7 @@ function totalVerb(relative: number, locale: string): string {
   }
 }
 
-/** "Like for like, without kiosk (opened on 1 June 2023), revenue rose 2.0%: €680K to €694K." */
+/** "Like for like, leaving out what was not there through both spans (kiosk, opened on 1 June 2023), revenue fell 2.1%: €2.19M to €2.14M." */
 function likeForLikeSentence(
   lfl: NonNullable<GrowthDriversFinding['likeForLike']>,
   label: string,
@@ -95,16 +94,15 @@ function likeForLikeSentence(
   const day = (iso: string | null) => (iso === null ? '' : formatPeriod(iso, 'day', locale, 'long'));
   const why = (s: ChangedSegment) =>
     s.opened && s.closed
-      ? `${name(s)} (only there from ${day(s.firstDay)} to ${day(s.lastDay)})`
+      ? `${name(s)}, there only from ${day(s.firstDay)} to ${day(s.lastDay)}`
       : s.opened
-        ? `${name(s)} (opened on ${day(s.firstDay)})`
-        : `${name(s)} (last there on ${day(s.lastDay)})`;
+        ? `${name(s)}, opened on ${day(s.firstDay)}`
+        : `${name(s)}, last there on ${day(s.lastDay)}`;
   const shown = lfl.excluded.slice(0, NAMED_IN_CAPTION).map(why);
   const more = lfl.excluded.length - shown.length;
-  const left = listJoin(more > 0 ? [...shown, `${more} more`] : shown);
-  const how = lfl.excluded.length === 1 ? 'is not there through both spans, so it is' : 'are not there through both spans, so they are';
+  const left = `${shown.join('; ')}${more > 0 ? `; and ${more} more` : ''}`;
   if (lfl.relative === null || lfl.before === null || lfl.after === null) {
-    return `${capitalise(left)} ${how} left out of like-for-like growth, which cannot be worked out here.`;
+    return `Like-for-like growth leaves out what was not there through both spans (${left}); without it there is no like-for-like figure here.`;
   }
-  return `Like for like, without ${left}, which ${lfl.excluded.length === 1 ? 'is' : 'are'} not there through both spans, ${lower(label)} ${totalVerb(lfl.relative, locale)}: ${money(lfl.before)} to ${money(lfl.after)}.`;
+  return `Like for like, leaving out what was not there through both spans (${left}), ${lower(label)} ${totalVerb(lfl.relative, locale)}: ${money(lfl.before)} to ${money(lfl.after)}.`;
 }

@@ -32,7 +32,7 @@ function driversChart(answer: Answer, f: GrowthDriversFinding, title: string, ct
   const metric = metricByName(ctx.dataset, f.metric);
   const items = f.segments
     .filter((s) => s.change !== null)
-    .map((s) => ({ label: segmentText(s.segment, f.dimension, ctx.dataset), value: s.change! }));
+    .map((s) => ({ label: `${segmentText(s.segment, f.dimension, ctx.dataset)}${presenceMark(f, s.segment)}`, value: s.change! }));
   // The finding already folded the tail by size of change: its bar stays last, in the neutral colour.
   const folded = f.others && f.others.change !== null ? { label: `${OTHERS_LABEL} (${f.others.count})`, value: f.others.change } : null;
   if (items.length === 0 && !folded) return null;
@@ -49,4 +49,11 @@ function driversChart(answer: Answer, f: GrowthDriversFinding, title: string, ct
     signed: true,
     higherIsBetter: metric.higher_is_better,
   });
+}
+
+/** " (new)" or " (closed)" beside a bar whose segment is left out of like-for-like growth. */
+function presenceMark(f: GrowthDriversFinding, segment: string | null): string {
+  const changed = f.likeForLike?.excluded.find((x) => x.segment === segment);
+  if (!changed) return '';
+  return changed.opened && changed.closed ? ' (not throughout)' : changed.opened ? ' (new)' : ' (closed)';
 }

@@ -11,6 +11,7 @@ import { DuckDBInstance } from '@duckdb/node-api';
 import * as aq from 'arquero';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
+import type { BarsSpec } from '../../../analysis/charts/spec.js';
 import type { GrowthDriversFinding } from '../../../analysis/findings/growth.js';
 import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import { presenceToleranceDays } from '../../../analysis/templates/growth-compare.js';
@@ -78,8 +79,11 @@ describe('like-for-like growth', () => {
     for (const audience of ['leadership', 'managers', 'analysts'] as const) {
       const p = SUB_QUESTIONS.growth_drivers.present(answer, presentContext(demo, audience));
       expect(captionProblems(answer, p)).toEqual([]);
-      expect(p.caption).toMatch(/Like for like, without kiosk \(opened on \d+ \w+ 2023\), which is not there through both spans, revenue (rose|fell) \d/);
+      expect(p.caption).toMatch(/Like for like, leaving out what was not there through both spans \(kiosk, opened on \d+ \w+ 2023\), revenue (rose|fell) \d/);
     }
+    // The bar of the segment left out says so.
+    const chart = SUB_QUESTIONS.growth_drivers.present(answer, presentContext(demo, 'managers')).chart as BarsSpec;
+    expect(chart.bars.map((b) => b.label)).toContain('kiosk (new)');
   });
 
   it('the demo: summers 2024 and 2023 both have kiosk from its first day, so there is no like-for-like figure apart', async () => {
