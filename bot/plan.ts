@@ -68,6 +68,11 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
       const { kind, lens } = SUB_QUESTIONS[template];
       drafts.push({ kind, lens, template, metrics: [metric], grain, window, filters: [], headline, ...shared, ...extra });
     };
+    // "Did phone grow faster than kiosk": the two values set against each other head the question's answers.
+    const contrast = q.contrast && q.contrast.values.length === 2 && isBreakdownDimension(ds, q.contrast.dimension) ? q.contrast : null;
+    if (contrast) {
+      for (const metric of metrics) add('value_compare', metric, true, { dimension: contrast.dimension, contrast: { dimension: contrast.dimension, values: [contrast.values[0]!, contrast.values[1]!] } });
+    }
     for (const metric of metrics) {
       const additive = ds.metrics.some((m) => m.name === metric) && isAdditive(metricByName(ds, metric));
       switch (q.kind) {

@@ -126,3 +126,26 @@ describe('the period table in the plan', () => {
     expect(broken.items.filter((sq) => sq.dimension === 'route').every((sq) => sq.metrics.length === 1)).toBe(true);
   });
 });
+
+describe('two values set against each other (issue 16)', () => {
+  it('plans value_compare first for each metric when the request sets two values against each other', () => {
+    const read = readRequest('Did phone bookings grow faster than kiosk bookings in 2024?');
+    // The reader leaves the measure to a prompt here; the brief is as it stands after "bookings" is answered.
+    const brief: Brief = { ...read, metrics: ['bookings', 'revenue'], questions: read.questions.map((x) => ({ ...x, metrics: ['bookings', 'revenue'] })) };
+    const q = brief.questions.find((x) => x.contrast);
+    expect(q?.contrast).toEqual({ dimension: 'channel', values: ['phone', 'kiosk'] });
+    const plan = buildPlan(brief, exampleDataset, coverage);
+    const head = plan.items.find((sq) => sq.template !== 'period_table')!;
+    expect(head).toMatchObject({ template: 'value_compare', dimension: 'channel', contrast: { dimension: 'channel', values: ['phone', 'kiosk'] } });
+    expect(plan.items.filter((sq) => sq.template === 'value_compare').map((sq) => sq.metrics[0])).toEqual(['bookings', 'revenue']);
+    expect(plan.items.slice(0, 2).map((sq) => sq.template)).toEqual(['value_compare', 'value_compare']);
+    expect(planText(plan, exampleDataset, 'en-IE')).toMatch(/phone against kiosk/);
+  });
+
+  it('plans no value_compare without a contrast', () => {
+    const read = readRequest('How did bookings grow in 2024 by channel?');
+    const plan = buildPlan({ ...read, metrics: ['bookings'], questions: read.questions.map((x) => ({ ...x, metrics: ['bookings'] })) }, exampleDataset, coverage);
+    expect(plan.items.length).toBeGreaterThan(0);
+    expect(plan.items.some((sq) => sq.template === 'value_compare')).toBe(false);
+  });
+});
