@@ -147,6 +147,13 @@ function numberFormat(locale: string, options: Intl.NumberFormatOptions): Intl.N
   return nf;
 }
 
+/** A day within its year, without the year: "18 June"; `month` alone gives "January". */
+export function formatDayOfYear(iso: string, locale: string, part: 'day' | 'month' = 'day'): string {
+  const date = parseCalendarDate(iso);
+  if (date === null) return NOT_AVAILABLE;
+  return dateFormat(locale, part === 'day' ? { day: 'numeric', month: 'long' } : { month: 'long' }).format(date);
+}
+
 function dateFormat(locale: string, options: Intl.DateTimeFormatOptions): Intl.DateTimeFormat {
   const key = `${locale}|${JSON.stringify(options)}`;
   let df = dateFormats.get(key);

@@ -11,7 +11,8 @@ import { sqlForReaders } from '../analysis/sql/render-sql.js';
 import { tableToCsv } from '../analysis/table-csv.js';
 import type { Answer, Audience } from '../analysis/types.js';
 import type { Workspace } from '../analysis/workspace.js';
-import type { AnswerPresenter, SummaryPresenter } from './presenters.js';
+import type { AnswerPresenter, DigestChart, SummaryPresenter } from './presenters.js';
+import { verdictLine, wantsVerdict } from '../analysis/captions/verdict-words.js';
 import type { OutgoingFile } from './port.js';
 
 export function presentContext(ws: Workspace, audience: Audience): PresentContext {
@@ -55,20 +56,42 @@ export const presentSummary: SummaryPresenter = async (takeaways, { workspace, f
     .sort((a, b) => Number(!!b.leads) - Number(!!a.leads) || b.importance - a.importance || a.position - b.position)
     .slice(0, 5)
     .sort((a, b) => Number(!!b.leads) - Number(!!a.leads) || a.position - b.position);
-  const lines = top.map((t) => `- ${t.text} (see ${t.position})`);
+  // The answer to the question asked comes before everything else: the first verdict in plan order.
+  const settled = wantsVerdict(requestText) ? [...takeaways].sort((a, b) => a.position - b.position).find((t) => t.verdict) : undefined;
+  const verdict = settled ? { text: verdictLine(requestText, settled.verdict!), position: settled.position } : null;
+  const lines = [...(verdict ? [verdict] : []), ...top].map((t) => `- ${t.text} (see ${t.position})`);
   const failed = failures > 0 ? `\n${failures} ${failures === 1 ? 'question' : 'questions'} could not be answered; see the messages above.` : '';
-  if (lines.length === 0) return { text: `*Summary*\nNo question could be answered; see the messages above.` };
+  if (top.length === 0) return { text: `*Summary*\nNo question could be answered; see the messages above.` };
   const notes = threadNotes(items ?? [], quality, workspace, now ?? new Date(), workspace.config.charts.locale);
   const about = notes.length ? `\n*About the data* (applies to every answer above)\n${notes.map((n) => `- ${n}`).join('\n')}` : '';
   const text = `*Summary*\n${lines.join('\n')}${failed}${about}\nEach answer above has its table (CSV) and the SQL that produced it attached; the digest below puts the key charts and takeaways on one page for forwarding. These are descriptive figures from ${workspace.dataset.label}; comparisons between groups are observational, and your organisation's data-governance rules apply before sharing further.`;
-  const withCharts = top.filter((t) => charts.has(t.position)).slice(0, 4);
   const asOf = workspace.coverage.lastDate ? formatPeriod(workspace.coverage.lastDate, 'day', workspace.config.charts.locale) : 'n/a';
+  // The digest is titled with a finding: the verdict, else the first takeaway; the rest are listed under it.
+  const [headline, ...rest] = verdict ? [verdict, ...top] : top;
   const digest = await timePhase(timings, 'render', () => renderDigest({
-    title: `${workspace.dataset.label}: key findings`,
-    subtitle: `Answering: "${requestText.length > 140 ? `${requestText.slice(0, 137)}...` : requestText}"`,
-    takeaways: top,
-    charts: withCharts.map((t) => ({ ...charts.get(t.position)!, position: t.position })),
+    title: headline!.text.replace(/\.$/, ''),
+    subtitle: `${workspace.dataset.label}, answering: "${requestText.length > 120 ? `${requestText.slice(0, 117)}...` : requestText}"`,
+    takeaways: rest.map((t) => ({ text: t.text })),
+    charts: distinctCharts(top, charts),
     footer: `Source: ${workspace.dataset.label} · Data as of ${asOf} · Observational figures; follow your organisation's data-governance rules`,
   }));
   return { text, files: [{ name: 'digest.png', kind: 'digest', content: digest }] };
 };
+
+/**
+ * Up to four charts for the digest, in the takeaways' order, each showing something the others do
+ * not: a chart of the same kind and metric as one already chosen (the monthly line and the trend
+ * line over it) is taken only when nothing different is left.
+ */
+function distinctCharts(top: { position: number }[], charts: Map<number, DigestChart>): DigestChart[] {
+  const withChart = top.filter((t) => charts.has(t.position)).map((t) => charts.get(t.position)!);
+  const seen = new Set<string>();
+  const firstPick: DigestChart[] = [];
+  const later: DigestChart[] = [];
+  for (const c of withChart) {
+    const key = c.spec ? `${c.spec.kind}|${c.spec.chip ?? c.spec.title}` : `png|${firstPick.length + later.length}`;
+    (seen.has(key) ? later : firstPick).push(c);
+    seen.add(key);
+  }
+  return [...firstPick, ...later].slice(0, 4);
+}

@@ -9,7 +9,8 @@ import type {
   GrowthYearsFinding,
   GrowthYtdFinding,
 } from '../findings/growth.js';
-import { formatChange, formatPeriod } from '../format.js';
+import { formatChange, formatDayOfYear, formatPeriod } from '../format.js';
+import type { Verdict, VerdictDirection } from './verdict-words.js';
 import type { Audience, Finding, Grain } from '../types.js';
 import { capitalise, directionOf, lower, movedBy, periodText, unsignedPercent, valueText, yearText } from './growth-words.js';
 
@@ -150,4 +151,38 @@ function latestSentence(p: GrowthPoint, series: GrowthSeriesFinding, grain: Grai
   }
   if (parts.length === 0) return `${capitalise(when)} is the latest complete ${grain}; it has no comparable base.`;
   return `Latest complete ${grain}, ${when}: ${parts.join('; ')}.`;
+}
+
+/**
+ * The verdict on a year earlier: the year so far against the same dates a year before when the
+ * last year is unfinished, else the latest complete year against the one before; null without either.
+ */
+export function growthVerdict(metric: Metric, f: GrowthSeriesFindings, locale: string): Verdict | null {
+  const label = lower(metric.label);
+  const ytd = f.ytd && f.ytd.relative !== null ? f.ytd : undefined;
+  if (ytd) {
+    const span = `${formatDayOfYear(ytd.current.year, locale, 'month')} to ${formatDayOfYear(ytd.through, locale)}`;
+    const direction = verdictDirection(ytd.relative!);
+    const where =
+      direction === 'level'
+        ? `level with last year so far (${formatChange(ytd.relative, locale)}, ${span})`
+        : `${unsignedPercent(ytd.relative!, locale)} ${direction === 'up' ? 'above' : 'below'} last year so far (${span})`;
+    return { direction, statement: `${label} is ${where}` };
+  }
+  const year = (f.years?.years ?? []).filter((y) => y.yoy !== null).at(-1);
+  if (year) {
+    const direction = verdictDirection(year.yoy!);
+    const prior = yearText(`${Number(year.year.slice(0, 4)) - 1}-01-01`, locale);
+    const where =
+      direction === 'level'
+        ? `level with ${prior} (${formatChange(year.yoy, locale)})`
+        : `${unsignedPercent(year.yoy!, locale)} ${direction === 'up' ? 'above' : 'below'} ${prior}`;
+    return { direction, statement: `${label} in ${yearText(year.year, locale)} was ${where}` };
+  }
+  return null;
+}
+
+function verdictDirection(relative: number): VerdictDirection {
+  const d = directionOf(relative);
+  return d === 'up' || d === 'down' ? d : 'level';
 }

@@ -1,6 +1,6 @@
 // The one-page digest: the key takeaways and up to four charts on a single image, for
 // forwarding in one piece. Charts arrive as PNGs already rendered; nothing is queried.
-import { createCanvas, loadImage, type SKRSContext2D } from '@napi-rs/canvas';
+import { createCanvas, loadImage } from '@napi-rs/canvas';
 import { ensureFonts } from './fonts.js';
 import { encodePng } from './png.js';
 import { drawChart } from './render.js';
@@ -11,14 +11,16 @@ import { CHIP, INK, font } from './theme.js';
 export interface DigestInput {
   title: string;
   subtitle: string;
-  /** Ordered by importance; each is one or two sentences. */
-  takeaways: { text: string; position: number }[];
   /**
-   * Up to four charts, each with the number of its answer in the thread. With its spec, a chart
-   * is drawn again at thumbnail size (text then keeps a readable size instead of shrinking with
-   * the picture); otherwise the PNG is scaled down.
+   * In the order to read them; each is one or two sentences. No pointer back to the thread: a
+   * forwarded image cannot follow one.
    */
-  charts: { png: Buffer; position: number; spec?: ChartSpec }[];
+  takeaways: { text: string }[];
+  /**
+   * Up to four charts. With its spec, a chart is drawn again at thumbnail size (text then keeps a
+   * readable size instead of shrinking with the picture); otherwise the PNG is scaled down.
+   */
+  charts: { png: Buffer; spec?: ChartSpec }[];
   footer: string;
 }
 
@@ -31,17 +33,19 @@ export async function renderDigest(input: DigestInput): Promise<Buffer> {
   ensureFonts();
   const measure = createCanvas(10, 10).getContext('2d');
   measure.font = font(22);
-  const lines = input.takeaways
-    .slice(0, 5)
-    .flatMap((t, i) => wrapKeepingEnd(measure, `${i + 1}. ${t.text}`, `(answer ${t.position})`, WIDTH - MARGIN * 2 - 20, 3));
+  const lines = input.takeaways.slice(0, 5).flatMap((t, i) => wrapText(measure, `${i + 1}. ${t.text}`, WIDTH - MARGIN * 2 - 20, 3));
+  // The title is a finding, often a long sentence: up to two lines.
+  measure.font = font(40, true);
+  const titleLines = wrapText(measure, input.title, WIDTH - MARGIN * 2, 2);
   const fitted = (text: string, f: string) => {
     measure.font = f;
     return ellipsize(measure, text, WIDTH - MARGIN * 2);
   };
   const charts = input.charts.slice(0, 4);
   const rows = Math.ceil(charts.length / 2);
-  const headerH = 150;
-  const takeawaysH = 40 + lines.length * 32;
+  const titleH = titleLines.length * 50;
+  const headerH = 100 + titleH;
+  const takeawaysH = lines.length > 0 ? 40 + lines.length * 32 : 0;
   const height = headerH + takeawaysH + rows * (CHART_H + MARGIN) + 70;
   const canvas = createCanvas(WIDTH, height);
   const ctx = canvas.getContext('2d');
@@ -50,23 +54,26 @@ export async function renderDigest(input: DigestInput): Promise<Buffer> {
 
   ctx.fillStyle = INK.title;
   ctx.font = font(40, true);
-  ctx.fillText(fitted(input.title, font(40, true)), MARGIN, 72);
+  titleLines.forEach((line, i) => ctx.fillText(line, MARGIN, 72 + i * 50));
   ctx.fillStyle = INK.text;
   ctx.font = font(22);
-  ctx.fillText(fitted(input.subtitle, font(22)), MARGIN, 110);
+  ctx.fillText(fitted(input.subtitle, font(22)), MARGIN, 60 + titleH);
   // The same closing hairline as every chart's header.
+  const ruleY = Math.round(84 + titleH) + 0.5;
   ctx.strokeStyle = CHIP.rule;
   ctx.lineWidth = 1;
   ctx.beginPath();
-  ctx.moveTo(MARGIN, 134.5);
-  ctx.lineTo(WIDTH - MARGIN, 134.5);
+  ctx.moveTo(MARGIN, ruleY);
+  ctx.lineTo(WIDTH - MARGIN, ruleY);
   ctx.stroke();
 
   let y = headerH + 20;
-  ctx.fillStyle = INK.title;
-  ctx.font = font(24, true);
-  ctx.fillText('Key takeaways', MARGIN, y);
-  y += 36;
+  if (lines.length > 0) {
+    ctx.fillStyle = INK.title;
+    ctx.font = font(24, true);
+    ctx.fillText('Also found', MARGIN, y);
+    y += 36;
+  }
   ctx.font = font(22);
   ctx.fillStyle = INK.text;
   for (const line of lines) {
@@ -93,30 +100,6 @@ export async function renderDigest(input: DigestInput): Promise<Buffer> {
   ctx.font = font(18);
   ctx.fillText(fitted(input.footer, font(18)), MARGIN, height - 28);
   return encodePng(canvas.data(), canvas.width, canvas.height);
-}
-
-/**
- * Wraps `text` followed by `end` in at most `maxLines`; when it is too long, the text is cut
- * at a word with "…" and `end` still closes the last line, so the pointer to the answer survives.
- */
-export function wrapKeepingEnd(ctx: SKRSContext2D, text: string, end: string, maxWidth: number, maxLines: number): string[] {
-  const fits = (candidate: string) => {
-    const lines = wrapText(ctx, candidate, maxWidth, maxLines);
-    return lines.join(' ').replace(/\s+/g, ' ').endsWith(end) ? lines : null;
-  };
-  const whole = fits(`${text} ${end}`);
-  if (whole) return whole;
-  // Fewer words always fit at least as well: binary search for the most that do.
-  const words = text.split(' ');
-  const cut = (k: number) => fits(`${words.slice(0, k).join(' ').replace(/[\s,;:.]+$/, '')}… ${end}`);
-  let lo = 0;
-  let hi = words.length - 1;
-  while (lo < hi) {
-    const mid = Math.ceil((lo + hi) / 2);
-    if (cut(mid)) lo = mid;
-    else hi = mid - 1;
-  }
-  return (lo > 0 ? cut(lo) : null) ?? wrapText(ctx, `${text} ${end}`, maxWidth, maxLines);
 }
 
 /** The chart laid out for the digest's slot, at the slot's own pixels: drawn once, never resampled. */

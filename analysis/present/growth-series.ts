@@ -3,14 +3,15 @@
 import { buildGrowthGrid } from '../charts/build-growth-grid.js';
 import { buildLine } from '../charts/build-line.js';
 import type { ChartSpec } from '../charts/spec.js';
-import { growthSeriesWords, pickGrowthSeriesFindings } from '../captions/growth-series-caption.js';
+import { growthSeriesWords, growthVerdict, pickGrowthSeriesFindings } from '../captions/growth-series-caption.js';
 import { growthNotes } from '../captions/growth-words.js';
 import { metricByName } from '../catalog.js';
 import type { GrowthSeriesFinding } from '../findings/growth.js';
 import type { ValueFormat } from '../format.js';
 import type { Answer } from '../types.js';
 import { chartFooter, chartSubtitle } from './header.js';
-import type { PresentContext, Presenter } from './presenter.js';
+import type { PresentContext, Presenter, Takeaway } from './presenter.js';
+import type { Verdict } from '../captions/verdict-words.js';
 
 export const presentGrowthSeries: Presenter = (answer, ctx) => {
   const sq = answer.subQuestion;
@@ -23,9 +24,13 @@ export const presentGrowthSeries: Presenter = (answer, ctx) => {
     caption: words.caption,
     notes: growthNotes(answer, ctx.locale, ctx.dataset),
     chart,
-    takeaway: found.series ? { importance: 60, text: `${words.title}.` } : null,
+    takeaway: found.series ? withVerdict({ importance: 60, text: `${words.title}.` }, growthVerdict(metric, found, ctx.locale)) : null,
   };
 };
+
+function withVerdict(t: Takeaway, verdict: Verdict | null): Takeaway {
+  return verdict ? { ...t, verdict } : t;
+}
 
 function growthChart(answer: Answer, series: GrowthSeriesFinding, title: string, higherIsBetter: boolean, ctx: PresentContext): ChartSpec | null {
   const metric = metricByName(ctx.dataset, series.metric);

@@ -1,5 +1,6 @@
 // A presenter turns one answer into what a post shows: a title that states the finding, a
 // caption, an optional chart spec and a takeaway for the thread summary. Pure: no I/O.
+import type { Verdict } from '../captions/verdict-words.js';
 import type { DatasetConfig } from '../../config/schema.js';
 import type { ChartSpec } from '../charts/spec.js';
 import type { Answer, Audience } from '../types.js';
@@ -19,6 +20,8 @@ export interface Takeaway {
   text: string;
   /** Put first in the summary whatever the rest's importance (the takeaway across a table's metrics). */
   leads?: boolean;
+  /** The answer's finding as a verdict on a comparison with a year earlier, when it settles one. */
+  verdict?: Verdict;
 }
 
 export interface Presented {

@@ -411,10 +411,10 @@ describe('seasonal profile', () => {
 describe('digest', () => {
   it('redraws a chart from its spec at thumbnail size, so its text stays larger than a scaled-down PNG', async () => {
     const spec = lineSpec();
-    const base = { title: 'Skerrywake bookings: key findings', subtitle: 'Answering: "test"', takeaways: [{ text: 'Revenue peaks every summer', position: 1 }], footer: 'Source: demo' };
+    const base = { title: 'Skerrywake bookings: key findings', subtitle: 'Answering: "test"', takeaways: [{ text: 'Revenue peaks every summer' }], footer: 'Source: demo' };
     const png = await renderChart(spec);
-    const scaled = await decodePng(await renderDigest({ ...base, charts: [{ png, position: 1 }] }));
-    const redrawn = await decodePng(await renderDigest({ ...base, charts: [{ png, position: 1, spec }] }));
+    const scaled = await decodePng(await renderDigest({ ...base, charts: [{ png }] }));
+    const redrawn = await decodePng(await renderDigest({ ...base, charts: [{ png, spec }] }));
     expect([redrawn.width, redrawn.height]).toEqual([scaled.width, scaled.height]);
     // The bottom of the chart's slot (its small print and lowest tick label, above the digest's
     // own footer): the same texts leave more ink when drawn at their own size.

@@ -4,7 +4,6 @@
 import { createCanvas } from '@napi-rs/canvas';
 import { describe, expect, it } from 'vitest';
 import { ensureFonts } from '../../../analysis/charts/fonts.js';
-import { wrapKeepingEnd } from '../../../analysis/charts/render-digest.js';
 import { splitWords, wrapText } from '../../../analysis/charts/text.js';
 import { font } from '../../../analysis/charts/theme.js';
 
@@ -39,22 +38,5 @@ describe('wrapText', () => {
     expect(lines).toHaveLength(1);
     expect(lines[0]!.endsWith('…')).toBe(true);
     expect(ctx.measureText(lines[0]!).width).toBeLessThanOrEqual(60);
-  });
-});
-
-describe('wrapKeepingEnd (digest takeaways)', () => {
-  it('cuts a long takeaway at a word but keeps its "(answer N)" pointer on the last line', () => {
-    const ctx = context();
-    const text = `2. Revenue shows a rising trend of about €478 per month ${'with a long analyst explanation '.repeat(12)}`.trim();
-    const lines = wrapKeepingEnd(ctx, text, '(answer 3)', 400, 3);
-    expect(lines).toHaveLength(3);
-    expect(lines[2]!.endsWith('… (answer 3)')).toBe(true);
-    for (const line of lines) expect(ctx.measureText(line).width).toBeLessThanOrEqual(400);
-    expect(lines[0]!.startsWith('2. Revenue shows')).toBe(true);
-  });
-
-  it('leaves a short takeaway whole', () => {
-    const ctx = context();
-    expect(wrapKeepingEnd(ctx, '1. Two routes carry 71% of revenue', '(answer 7)', 800, 3)).toEqual(['1. Two routes carry 71% of revenue (answer 7)']);
   });
 });

@@ -1,0 +1,51 @@
+// The verdict: the one sentence that answers the question the requester asked, said first in the
+// summary and as the digest's title. A presenter whose finding settles a comparison with a year
+// earlier states it as a Verdict; this module words it against the request: "Yes: …" or "No: …"
+// when the request asks whether something went one way, the plain statement otherwise.
+import { capitalise } from './grammar.js';
+
+/** Which way a metric moved against the comparison it was judged on. */
+export type VerdictDirection = 'up' | 'down' | 'level';
+
+export interface Verdict {
+  direction: VerdictDirection;
+  /** The finding as a clause, lower-case first: "revenue is 2.5% below last year so far (January to 18 June)". */
+  statement: string;
+}
+
+// A question that can be answered yes or no starts with an auxiliary verb.
+const POLAR = /^(?:so\s+|and\s+|but\s+)?(?:is|are|was|were|did|do|does|has|have|had|will|would|can|could|are we|is our)\b/i;
+const UP = /\b(?:up|higher|above|more|grow\w*|grew|grown|ris(?:e|es|ing|en)|rose|increas\w*|beat\w*|ahead|better|improv\w*|gain\w*)\b/i;
+const DOWN = /\b(?:down|lower|below|less|fewer|fall\w*|fell|drop\w*|declin\w*|shr[iu]nk\w*|behind|worse|los(?:e|ing|t))\b/i;
+
+/**
+ * The direction a yes-or-no question asks about ("Is revenue up on last year?" → up), or null when
+ * no sentence of the request is such a question, or it asks both ways ("up or down?").
+ */
+export function askedDirection(request: string): 'up' | 'down' | null {
+  for (const sentence of request.split(/(?<=[?.!])\s+|\n+/)) {
+    const s = sentence.trim();
+    if (!POLAR.test(s)) continue;
+    const up = UP.test(s);
+    const down = DOWN.test(s);
+    if (up !== down) return up ? 'up' : 'down';
+    return null;
+  }
+  return null;
+}
+
+/** The verdict as the first line: "No: revenue is 2.5% below last year so far (January to 18 June)." */
+export function verdictLine(request: string, verdict: Verdict): string {
+  const asked = askedDirection(request);
+  const sentence = `${verdict.statement.replace(/[.\s]+$/, '')}.`;
+  if (asked === null) return capitalise(sentence);
+  return `${asked === verdict.direction ? 'Yes' : 'No'}: ${sentence}`;
+}
+
+// A request that names a comparison with a year earlier wants that verdict first, asked as a question or not.
+const YEAR_EARLIER = /\b(?:last year|(?:the )?(?:previous|prior) year|year before|a year (?:earlier|ago)|year[- ]on[- ]year|year[- ]over[- ]year|yoy|so far)\b/i;
+
+/** The request asks whether something went one way, or names a comparison with a year earlier. */
+export function wantsVerdict(request: string): boolean {
+  return askedDirection(request) !== null || YEAR_EARLIER.test(request);
+}
