@@ -12,7 +12,7 @@ import { tableToCsv } from '../analysis/table-csv.js';
 import type { Answer, Audience } from '../analysis/types.js';
 import type { Workspace } from '../analysis/workspace.js';
 import type { AnswerPresenter, DigestChart, SummaryPresenter } from './presenters.js';
-import { verdictLine, wantsVerdict } from '../analysis/captions/verdict-words.js';
+import { askedDirection, verdictLine, wantsVerdict } from '../analysis/captions/verdict-words.js';
 import type { OutgoingFile } from './port.js';
 
 export function presentContext(ws: Workspace, audience: Audience): PresentContext {
@@ -57,7 +57,10 @@ export const presentSummary: SummaryPresenter = async (takeaways, { workspace, f
     .slice(0, 5)
     .sort((a, b) => Number(!!b.leads) - Number(!!a.leads) || a.position - b.position);
   // The answer to the question asked comes before everything else: the first verdict in plan order.
-  const settled = wantsVerdict(requestText) ? [...takeaways].sort((a, b) => a.position - b.position).find((t) => t.verdict) : undefined;
+  // A request that only names a year-earlier comparison (a table "with the growth on the year
+  // before") keeps a leading takeaway first; a yes-or-no question is always answered first.
+  const verdictFirst = askedDirection(requestText) !== null || (wantsVerdict(requestText) && !takeaways.some((t) => t.leads));
+  const settled = verdictFirst ? [...takeaways].sort((a, b) => a.position - b.position).find((t) => t.verdict) : undefined;
   const verdict = settled ? { text: verdictLine(requestText, settled.verdict!), position: settled.position } : null;
   const lines = [...(verdict ? [verdict] : []), ...top].map((t) => `- ${t.text} (see ${t.position})`);
   const failed = failures > 0 ? `\n${failures} ${failures === 1 ? 'question' : 'questions'} could not be answered; see the messages above.` : '';
