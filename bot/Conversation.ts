@@ -72,7 +72,8 @@ export class Conversation {
       said = true;
     }
     const deadline = state.brief.deadline;
-    if (deadline && deadline !== 'none' && !state.deadlineWarned) {
+    // "As soon as possible" is today by choice: a warning that it is close would say nothing new.
+    if (deadline && deadline !== 'none' && !state.brief.deadlineAsap && !state.deadlineWarned) {
       const due = Date.parse(`${deadline}T23:59:59Z`);
       if (due - now <= t.deadlineWarningMs) {
         state.deadlineWarned = true;
@@ -336,7 +337,7 @@ export class Conversation {
       const thread = commonOf(state);
       const before = state.brief;
       // What the thread already settled carries over unless the new question says otherwise.
-      thread.brief = { ...read, audience: read.audience ?? before.audience, grain: read.grain ?? before.grain, deadline: read.deadline ?? before.deadline };
+      thread.brief = { ...read, audience: read.audience ?? before.audience, grain: read.grain ?? before.grain, ...(read.deadline || !before.deadline ? {} : { deadline: before.deadline, ...(before.deadlineAsap ? { deadlineAsap: true as const } : {}) }) };
       delete thread.dropped;
       return this.advance(step, thread);
     }

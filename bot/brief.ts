@@ -84,6 +84,8 @@ export interface Brief {
   compareWindow?: DateWindow;
   grain?: Grain;
   deadline?: string;
+  /** The deadline was "as soon as possible": it is today by choice, so no warning that it is close follows. */
+  deadlineAsap?: true;
   audience?: Audience;
   purpose?: string;
   /** The breakdown was answered or corrected (possibly with "none"). */

@@ -67,10 +67,12 @@ export function applyCorrection(brief: Brief, c: Correction, plan: Plan, dropped
     evidence.audience = stated;
     changes.push(`audience: ${AUDIENCE_LABELS[c.audience].label.toLowerCase()}`);
   }
-  if (c.deadline && c.deadline !== brief.deadline) {
+  if (c.deadline && (c.deadline !== brief.deadline || !c.deadlineAsap !== !brief.deadlineAsap)) {
     next.deadline = c.deadline;
+    if (c.deadlineAsap) next.deadlineAsap = true;
+    else delete next.deadlineAsap;
     evidence.deadline = stated;
-    changes.push(`deadline: ${c.deadline === 'none' ? 'none' : c.deadline === 'asap' ? 'as soon as possible' : c.deadline}`);
+    changes.push(`deadline: ${c.deadline === 'none' ? 'none' : c.deadlineAsap ? 'as soon as possible' : c.deadline}`);
   }
   if (c.grain && c.grain !== brief.grain) {
     next.grain = c.grain;

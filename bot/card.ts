@@ -90,7 +90,7 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
   lines.push({
     topic: 'deadline',
     label: 'Deadline',
-    value: deadline ? longDate(deadline, ctx.locale) : 'none',
+    value: deadline ? `${brief.deadlineAsap ? 'as soon as possible, ' : ''}${longDate(deadline, ctx.locale)}` : 'none',
     ...(deadline ? read(ev.deadline?.words) : { how: 'assumed' as const, reason: 'none given: it runs as soon as you say go' }),
     control: { kind: 'date', ...(deadline ? { current: deadline } : {}) },
   });

@@ -7,6 +7,7 @@ import { addDays, addMonths, periodStart } from '../analysis/periods.js';
 import { GRAINS, type DateWindow, type Grain, type SegmentFilter } from '../analysis/types.js';
 import type { Brief, Question } from './brief.js';
 import { fullWindow, readDeadlineAnswer, readWindowAnswer } from './reading/answers.js';
+import { saysAsap } from './reading/deadline.js';
 import { ACCEPT_DEFAULT, AUDIENCE_LABELS, audienceNamedBy, GRAIN_WORDS, grainNamedBy } from './reading/lexicon.js';
 import { type DatasetFacts, readRequest } from './reading/read-request.js';
 import { phraseWords } from './reading/text.js';
@@ -182,7 +183,8 @@ export function readAnswer(prompt: Prompt, text: string, brief: Brief, ctx: Prom
     case 'deadline': {
       const d = readDeadlineAnswer(typed, ctx.now, ctx.dataset.timezone);
       if (!d.ok) return d;
-      return { ok: true, brief: { ...brief, deadline: d.value } };
+      const { deadlineAsap: _before, ...rest } = brief;
+      return { ok: true, brief: { ...rest, deadline: d.value, ...(saysAsap(typed) ? { deadlineAsap: true as const } : {}) } };
     }
     case 'grain': {
       const g = grainNamedBy(typed);

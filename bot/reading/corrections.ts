@@ -7,6 +7,7 @@ import { isBreakdownDimension } from '../../analysis/catalog.js';
 import type { Audience } from '../brief.js';
 import { fullWindow, impossibleDate, readDeadlineAnswer } from './answers.js';
 import { AGREE, CANCEL } from './lexicon.js';
+import { saysAsap } from './deadline.js';
 import { type DatasetFacts, readRequest } from './read-request.js';
 
 export interface Correction {
@@ -14,6 +15,8 @@ export interface Correction {
   cancel: boolean;
   audience?: Audience;
   deadline?: string;
+  /** The new deadline was "as soon as possible". */
+  deadlineAsap?: true;
   grain?: Grain;
   window?: { window: DateWindow; compareWindow?: DateWindow } | { all: true };
   /** Replace the measures ("use bookings instead"), or add to them ("also passengers"). */
@@ -102,10 +105,15 @@ export function readCorrection(text: string, facts: DatasetFacts, now: Date, loc
   c.filters = filters;
   if (read.audience) c.audience = read.audience;
   if (read.grain) c.grain = read.grain;
-  if (read.deadline) c.deadline = read.deadline;
-  else if (/^\s*(?:deadline|due|by)\b/.test(rest) || /^\s*\d{4}-\d{2}-\d{2}\s*$/.test(rest)) {
+  if (read.deadline) {
+    c.deadline = read.deadline;
+    if (read.deadlineAsap) c.deadlineAsap = true;
+  } else if (/^\s*(?:deadline|due|by)\b/.test(rest) || /^\s*\d{4}-\d{2}-\d{2}\s*$/.test(rest)) {
     const d = readDeadlineAnswer(rest.replace(/^\s*(?:deadline|due)\s*:?\s*/, ''), now, ds.timezone);
-    if (d.ok) c.deadline = d.value;
+    if (d.ok) {
+      c.deadline = d.value;
+      if (saysAsap(rest)) c.deadlineAsap = true;
+    }
     else c.problems.push(d.message);
   }
   const impossible = impossibleDate(rest);

@@ -13,9 +13,13 @@ export interface DeadlineMention extends Span {
   words: string;
   /** The date named when it is in the past (not taken; the reply says so). */
   past?: string;
+  /** "as soon as possible": today, by choice (no warning that it is close follows). */
+  asap?: true;
 }
 
 const B = `(?<![\\p{L}\\p{N}])`;
+/** The words for "as soon as possible": a deadline of today that the requester chose as urgent. */
+const ASAP = `(?:asap|a\\.s\\.a\\.p\\.?|as\\s+soon\\s+as\\s+(?:possible|you\\s+can|poss)|urgently|(?:it'?s|is|this\\s+is|bit|quite|very|fairly|pretty|rather)\\s+urgent|urgent(?=\\s*(?:[!.,;:]|$|please|request|ask|one|pls))|right\\s+away|immediately|straight\\s+away)`;
 const E = `(?![\\p{L}\\p{N}])`;
 
 const CUE = `(?:by|before|due(?:\\s+(?:by|on))?|until|till|no\\s+later\\s+than|in\\s+time\\s+for|ahead\\s+of|for|need(?:ed)?\\s+(?:it|this|these|them|that|the\\s+\\w+)?\\s*(?:by|for|on)?|deadline(?:\\s+is)?:?|latest)`;
@@ -33,9 +37,9 @@ const re = (s: string) => new RegExp(s, 'gu');
 
 export function findDeadlines(text: RequestText, today: string, dayFirst = true): DeadlineMention[] {
   const found: DeadlineMention[] = [];
-  const add = (span: Span, date: string | null, past?: string) => {
+  const add = (span: Span, date: string | null, past?: string, asap?: true) => {
     if (found.some((f) => f.start < span.end && span.start < f.end)) return;
-    found.push({ ...span, date, words: text.quote(span), ...(past ? { past } : {}) });
+    found.push({ ...span, date, words: text.quote(span), ...(past ? { past } : {}), ...(asap ? { asap } : {}) });
   };
   const dateOrPast = (span: Span, iso: string | null) => {
     if (!iso) return;
@@ -48,7 +52,8 @@ export function findDeadlines(text: RequestText, today: string, dayFirst = true)
   for (const m of text.matches(re(`${B}(?:(?:by\\s+)?(?:eod|cob|end\\s+of\\s+(?:the\\s+)?day|close\\s+of\\s+(?:business|play)|first\\s+thing|lunchtime|noon)\\s+tomorrow|tomorrow\\s+(?:eod|cob|morning|afternoon|first\\s+thing|at\\s+the\\s+latest))${E}`))) {
     add(m.span, addDays(today, 1));
   }
-  for (const m of text.matches(re(`${B}(?:asap|a\\.s\\.a\\.p\\.?|as\\s+soon\\s+as\\s+(?:possible|you\\s+can|poss)|urgently|(?:it'?s|is|this\\s+is|bit|quite|very|fairly|pretty|rather)\\s+urgent|urgent(?=\\s*(?:[!.,;:]|$|please|request|ask|one|pls))|right\\s+away|immediately|straight\\s+away|by\\s+today|today\\s+(?:please|if\\s+(?:possible|you\\s+can)|really|ideally|at\\s+the\\s+latest)|so\\s+today|(?:need(?:ed)?|want(?:ed)?)\\s+(?:it|this|these|them|that)?\\s*(?:for\\s+)?today|(?:by\\s+)?(?:eod|cob|end\\s+of\\s+(?:the\\s+)?day|close\\s+of\\s+(?:business|play))(?:\\s+today)?|today'?s\\s+(?:\\w+\\s+){0,2}${MEETING})${E}`))) {
+  for (const m of text.matches(re(`${B}${ASAP}${E}`))) add(m.span, today, undefined, true);
+  for (const m of text.matches(re(`${B}(?:by\\s+today|today\\s+(?:please|if\\s+(?:possible|you\\s+can)|really|ideally|at\\s+the\\s+latest)|so\\s+today|(?:need(?:ed)?|want(?:ed)?)\\s+(?:it|this|these|them|that)?\\s*(?:for\\s+)?today|(?:by\\s+)?(?:eod|cob|end\\s+of\\s+(?:the\\s+)?day|close\\s+of\\s+(?:business|play))(?:\\s+today)?|today'?s\\s+(?:\\w+\\s+){0,2}${MEETING})${E}`))) {
     add(m.span, today);
   }
   // "by Friday", "before the 15th", "for Thursday's board", "due 15 Dec", "deadline: 2026-12-15"
@@ -177,4 +182,9 @@ function inN(count: string, unit: string, today: string): string {
     return d;
   }
   return addDays(today, n);
+}
+
+/** Whether the words ask for the answer as soon as possible ("asap", "urgently"). */
+export function saysAsap(words: string): boolean {
+  return new RegExp(`${B}${ASAP}${E}`, 'iu').test(words);
 }

@@ -175,6 +175,7 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   if (audience) brief.audience = audience.audience;
   if (deadline?.date) {
     brief.deadline = deadline.date;
+    if (deadline.asap) brief.deadlineAsap = true;
     evidence.deadline = { words: deadline.words, how: 'stated' };
   }
   if (pastDeadline) brief.pastDeadline = pastDeadline;
