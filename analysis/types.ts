@@ -157,4 +157,14 @@ export interface Answer {
   tables: Record<string, ResultTable>;
   findings: Finding[];
   caveats: Caveat[];
+  /** Set when the first try failed for resources and this answer comes from a smaller plan (analysis/smaller-plan.ts). */
+  retry?: SmallerPlanRetry;
+}
+
+/** What failed and what the retry changed, in words for the thread. */
+export interface SmallerPlanRetry {
+  /** "ran out of memory", "ran past the 60000 ms limit and was stopped". */
+  failure: string;
+  /** "the period cut to its latest half, 1 July to 31 December 2024 (instead of …)", "a weekly grain instead of daily". */
+  change: string;
 }

@@ -69,7 +69,8 @@ export async function openSource(config: LoadedConfig, dataset: DatasetConfig, s
     source: src,
     paths: paths.map((p) => resolveSourcePath(config, p)),
     table: dataset.table,
-    engine: config.engine,
+    // A dataset's own memory limit, when its source sets one, bounds its engine alone.
+    engine: src.memory_limit ? { ...config.engine, memory_limit: src.memory_limit } : config.engine,
   });
 }
 

@@ -3,9 +3,9 @@
 // shared by several processes they are queued and any process takes them up. A run resumed
 // after a restart skips what was already posted.
 import type { LimitFunction } from 'p-limit';
-import { answerSubQuestion } from '../analysis/answer-sub-question.js';
+import { answerWithSmallerPlanOnFailure, resourceFailure } from '../analysis/smaller-plan.js';
 import { timePhase, type PhaseTimings } from '../analysis/phase-timings.js';
-import { checkQuality } from '../analysis/quality/check-run.js';
+import { checkQuality, checkQualitySmaller } from '../analysis/quality/check-run.js';
 import type { QualityReport } from '../analysis/quality/quality-checks.js';
 import { openRunScope, type RunScope } from '../analysis/run-scope.js';
 import type { Audience, NamedQuery, SubQuestion } from '../analysis/types.js';
@@ -91,13 +91,27 @@ export class RunOrchestrator {
     }
   }
 
-  /** One data-quality pass per run, its SQL in the audit log; if it cannot run, each answer reports its own error. */
-  private async checkRunQuality(items: SubQuestion[], ws: Workspace, who: Who): Promise<{ report?: QualityReport; failure?: unknown }> {
+  /**
+   * One data-quality pass per run, its SQL in the audit log; one that fails for resources is tried
+   * once more with a smaller plan (smaller: what it changed). If it cannot run, the thread says so.
+   */
+  private async checkRunQuality(items: SubQuestion[], ws: Workspace, who: Who): Promise<{ report?: QualityReport; failure?: unknown; smaller?: string }> {
     const ran: NamedQuery[] = [];
-    const quality = await timePhase(this.deps.phases, 'checks', () => checkQuality(items, ws, { onQuery: (q) => ran.push(q) })).then(
-      (report) => ({ report }),
-      (failure: unknown) => ({ failure }),
-    );
+    const onQuery = (q: NamedQuery) => ran.push(q);
+    const quality: { report?: QualityReport; failure?: unknown; smaller?: string } = await timePhase(this.deps.phases, 'checks', async () => {
+      try {
+        return { report: await checkQuality(items, ws, { onQuery }) };
+      } catch (failure) {
+        const reason = resourceFailure(failure);
+        if (reason === null) return { failure };
+        try {
+          const smaller = await checkQualitySmaller(items, ws, { onQuery });
+          return smaller ? { report: smaller.report, smaller: replies.qualityCheckSmaller(reason, smaller.change) } : { failure };
+        } catch (again) {
+          return { failure: again };
+        }
+      }
+    });
     for (const q of ran) await this.deps.audit.append(who, 'sql', { subQuestion: null, template: 'quality_check', query: q.name, sql: q.sql, params: q.params, dataset: ws.dataset.name });
     return quality;
   }
@@ -113,6 +127,7 @@ export class RunOrchestrator {
     const quality = checked.report;
     // A check that could not run is said in the thread, never skipped silently.
     if (checked.failure !== undefined) await this.deps.posting.postOnce(threadId, runKey(started, 'quality-failed'), { text: replies.qualityCheckFailed(checked.failure) }, who);
+    if (checked.smaller !== undefined) await this.deps.posting.postOnce(threadId, runKey(started, 'quality-smaller'), { text: checked.smaller }, who);
     const progressRef = await this.deps.posting.postOnce(threadId, runKey(started, 'progress'), { text: replies.progress(run.posted.length, plan.items.length) }, who);
     // The queries each sub-question ran, for the audit log (kept even when presenting fails).
     const ran = plan.items.map(() => [] as NamedQuery[]);
@@ -129,7 +144,8 @@ export class RunOrchestrator {
             .jobs(async () => {
               if (stopped) throw new Error('the run stopped');
               this.deps.onJobStart?.(threadId, sq);
-              const answer = await answerSubQuestion(sq, ws, {
+              // One that fails for resources is tried once more with a smaller plan, which its post says.
+              const answer = await answerWithSmallerPlanOnFailure(sq, ws, {
                 ...(quality ? { quality } : {}),
                 now: this.deps.now(),
                 scope,

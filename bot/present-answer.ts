@@ -42,7 +42,9 @@ export const presentAnswer: AnswerPresenter = async (answer, { workspace, audien
     }
     files.push({ name: `${stem}.sql`, kind: 'sql', content: sqlForReaders(answer.queries, workspace.source.dialect.name) });
   });
-  const text = [`*${position}. ${presented.title}*`, presented.caption, ...presented.notes.map((n) => `_Note: ${n}_`)].join('\n');
+  // An answer from a smaller plan says so before anything else (analysis/smaller-plan.ts).
+  const retried = answer.retry ? [`_The first try ${answer.retry.failure}, so this answer was computed again with ${answer.retry.change}._`] : [];
+  const text = [`*${position}. ${presented.title}*`, ...retried, presented.caption, ...presented.notes.map((n) => `_Note: ${n}_`)].join('\n');
   const post = { text, files, ...(presented.textBlocks?.length ? { monospace: presented.textBlocks } : {}) };
   // A table's rows do not survive shrinking to a digest thumbnail; its takeaway leads the digest instead.
   if (spec?.kind === 'period_table') return { post, takeaway: presented.takeaway, chart: null };

@@ -171,6 +171,11 @@ export function qualityCheckFailed(err: unknown): string {
   return `The data-quality check could not run (${problemText(err)}), so the answers below carry no notes on missing values, repeated keys or freshness.`;
 }
 
+/** The run's data-quality check failed for resources and ran again with a smaller plan. */
+export function qualityCheckSmaller(failure: string, change: string): string {
+  return `The data-quality check ${failure}, so it ran again with ${change}; the notes on the answers below come from that smaller check.`;
+}
+
 function problemText(err: unknown): string {
   return err instanceof SourceError
     ? {

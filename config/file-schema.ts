@@ -14,6 +14,7 @@ import {
   chartsSchema,
   conversationSchema,
   engineSchema,
+  memoryLimitSchema,
   isKnownTimeZone,
   metricKindSchema,
   qualitySchema,
@@ -130,7 +131,7 @@ export type FileTimeColumn = z.infer<typeof fileTimeColumnSchema>;
 /** A source: the engine's own shapes, plus `path` for one file (or glob). */
 export const fileSourceSchema = z.union([
   internalSourceSchema,
-  z.object({ kind: z.enum(['csv', 'parquet', 'json']), path: text }).strict(),
+  z.object({ kind: z.enum(['csv', 'parquet', 'json']), path: text, memory_limit: memoryLimitSchema.optional() }).strict(),
 ]);
 
 /** A named stretch of time a request may mention ("during the storm week"). */

@@ -107,7 +107,10 @@ class DatasetNormaliser {
 
   private source(): SourceConfig {
     const s = this.ds.source;
-    return 'path' in s && (s.kind === 'csv' || s.kind === 'parquet' || s.kind === 'json') && !('paths' in s) ? { kind: s.kind, paths: [s.path] } : (s as SourceConfig);
+    if ('path' in s && (s.kind === 'csv' || s.kind === 'parquet' || s.kind === 'json') && !('paths' in s)) {
+      return { kind: s.kind, paths: [s.path], ...(s.memory_limit ? { memory_limit: s.memory_limit } : {}) };
+    }
+    return s as SourceConfig;
   }
 
   /** A column for the expression: the column itself when it is one, else a computed column. */

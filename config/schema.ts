@@ -108,13 +108,17 @@ export type EventConfig = z.infer<typeof eventSchema>;
 /** The name of an environment variable that holds a secret (a URL with a password). */
 const envVarName = z.string().regex(/^[A-Z_][A-Z0-9_]*$/, 'must be the name of an environment variable (upper case letters, digits, underscore)');
 
+/** DuckDB's memory limit as written in the config: "2GB", "512MiB". */
+export const memoryLimitSchema = z.string().regex(/^\d+(\.\d+)?\s*(KB|MB|GB|TB|KiB|MiB|GiB|TiB)$/i, 'must be an amount of memory such as 512MB or 2GB');
+
 export const sourceSchema = z.discriminatedUnion('kind', [
-  // A table or view in a DuckDB file.
-  z.object({ kind: z.literal('duckdb'), path: z.string().min(1) }).strict(),
+  // A table or view in a DuckDB file. `memory_limit` (on any embedded source) bounds this
+  // dataset's engine instead of engine.memory_limit.
+  z.object({ kind: z.literal('duckdb'), path: z.string().min(1), memory_limit: memoryLimitSchema.optional() }).strict(),
   // Files read in place; each path may be a glob (data/*.csv).
-  z.object({ kind: z.literal('csv'), paths: z.array(z.string().min(1)).min(1) }).strict(),
-  z.object({ kind: z.literal('parquet'), paths: z.array(z.string().min(1)).min(1) }).strict(),
-  z.object({ kind: z.literal('json'), paths: z.array(z.string().min(1)).min(1) }).strict(),
+  z.object({ kind: z.literal('csv'), paths: z.array(z.string().min(1)).min(1), memory_limit: memoryLimitSchema.optional() }).strict(),
+  z.object({ kind: z.literal('parquet'), paths: z.array(z.string().min(1)).min(1), memory_limit: memoryLimitSchema.optional() }).strict(),
+  z.object({ kind: z.literal('json'), paths: z.array(z.string().min(1)).min(1), memory_limit: memoryLimitSchema.optional() }).strict(),
   // A PostgreSQL warehouse. Its URL holds a password, so the file names only the environment
   // variable that holds it (read once at start by config/environment.ts).
   z
@@ -185,7 +189,7 @@ export const engineSchema = z
   .object({
     threads: z.number().int().min(1).max(256).optional(),
     // DuckDB's memory limit; when unset, a share of the machine's (see analysis/sources/duckdb-source.ts).
-    memory_limit: z.string().regex(/^\d+(\.\d+)?\s*(KB|MB|GB|TB|KiB|MiB|GiB|TiB)$/i).optional(),
+    memory_limit: memoryLimitSchema.optional(),
     statement_timeout_ms: z.number().int().min(100).default(60_000),
     max_result_rows: z.number().int().min(10).max(1_000_000).default(10_000),
   })

@@ -51,6 +51,22 @@ export async function checkQuality(items: SubQuestion[], ws: Workspace, opts: { 
   return reportFor(entry, columns);
 }
 
+/**
+ * The check once more with a smaller plan, after it failed for resources: repeated keys counted on
+ * a 1-in-16 sample instead of every key, or not at all when already sampled (that count groups
+ * every key, the check's one large grouping). Not kept: it is not the check the data's version
+ * asks for. Null when there is nothing smaller to run.
+ */
+export async function checkQualitySmaller(items: SubQuestion[], ws: Workspace, opts: { onQuery?: (q: NamedQuery) => void } = {}): Promise<{ report: QualityReport; change: string } | null> {
+  const columns = [...new Set(items.flatMap((sq) => columnsUsed(sq, ws)))];
+  const before = duplicateCount(ws);
+  if (before === 'none' || !ws.dataset.key_column) return null;
+  const duplicates: DuplicateCount = before === 'full' ? 'sampled' : 'none';
+  const report = await runChecks(ws, columns, { duplicates }, opts.onQuery);
+  const key = ws.dataset.key_column;
+  return { report, change: duplicates === 'sampled' ? `repeated ${key} values counted on a sample of 1 ${key} in 16 instead of every one` : `no count of repeated ${key} values` };
+}
+
 async function runChecks(ws: Workspace, columns: string[], opts: QualityCheckOptions = {}, onQuery?: (q: NamedQuery) => void): Promise<QualityReport> {
   const tables: Record<string, Awaited<ReturnType<Workspace['source']['run']>>> = {};
   for (const q of compileQualityChecks(ws.context, columns, opts)) {

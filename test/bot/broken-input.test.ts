@@ -175,7 +175,8 @@ describeWithPostgres('broken data gives clear replies and keeps the request for 
       await admin(`DROP VIEW ${table}`);
       await admin(`ALTER TABLE ${schema}.bookings_data RENAME TO bookings`);
     }
-    await expectFailedRun(t, 'slow', from, /the query ran past the 1000 ms limit and was stopped\. Try a shorter period, or say "rerun" later\./);
+    // Each was tried once more with a smaller plan (analysis/smaller-plan.ts), which every row still makes too slow.
+    await expectFailedRun(t, 'slow', from, /the query ran past the 1000 ms limit and was stopped(; tried again with the period cut to its latest half, [^;]*, and that failed too \(the query ran past the 1000 ms limit and was stopped\)|; no smaller plan answers the same question, so it was not tried again)\. Try a shorter period, or say "rerun" later\./);
     await expectRerunAnswers(t, 'slow');
   }, 120_000);
 
