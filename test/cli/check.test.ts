@@ -79,3 +79,37 @@ describe('threadcount check on broken configs', () => {
     expect(r.out).toMatch(/co2: level, average of CO2/);
   });
 });
+
+// Issue 15's acceptance: each kind of broken config gives exactly one message naming the file,
+// line and key, through `check` and through `serve`, which refuses to start (no conversation).
+describe('broken configs: one message each, and serve refuses', () => {
+  const personal = `    dimensions:
+      - { name: note, label: Note, column: adjusted CO2, personal_data: true }
+`;
+  const cases: { what: string; metric: string; key: string; at: string; says: RegExp; extra?: string }[] = [
+    { what: 'a missing column', metric: '      - { name: co3, label: CO3, average: CO3, unit: number, higher_is_better: false }\n', key: 'datasets[0].metrics[1].average', at: 'average: CO3', says: /column CO3 is missing from the table co2/ },
+    { what: 'a column of the wrong type', metric: '      - { name: dated, label: Dated, sum: Date, unit: number, higher_is_better: false }\n', key: 'datasets[0].metrics[1].sum', at: 'sum: Date', says: /column Date is DATE, but this needs a number/ },
+    { what: 'an expression that does not parse', metric: '      - { name: half, label: Half, sum: "CO2 / ", unit: number, higher_is_better: false }\n', key: 'datasets[0].metrics[1].sum', at: 'sum: "CO2 / "', says: /is not a valid expression/ },
+    { what: 'an unknown function', metric: '      - { name: slept, label: Slept, sum: "pg_sleep(CO2)", unit: number, higher_is_better: false }\n', key: 'datasets[0].metrics[1].sum', at: 'sum: "pg_sleep', says: /function pg_sleep, which is not allowed/ },
+    { what: 'a personal column used as a metric', metric: '      - { name: noted, label: Noted, sum: "\\"adjusted CO2\\"", unit: number, higher_is_better: false }\n', key: 'datasets[0].metrics[1].sum', at: 'sum: "\\"adjusted', says: /adjusted CO2, which is marked personal data/, extra: personal },
+  ];
+  for (const c of cases) {
+    it(c.what, async () => {
+      const { file, text } = configWith(c.metric + (c.extra ?? ''));
+      const where = `${file}:${lineOf(text, c.at)}: ${c.key}: `;
+      const r = await run(['check', '--config', file]);
+      expect(r.code).toBe(2);
+      const said = `${r.out}${r.err}`.split('\n').filter((l) => l.includes(file));
+      expect(said).toHaveLength(1);
+      expect(said[0]).toContain(where);
+      expect(said[0]).toMatch(c.says);
+      const s = await run(['serve', '--config', file]);
+      expect(s.code).toBe(2);
+      const refused = `${s.out}${s.err}`.split('\n').filter((l) => l.includes(file));
+      expect(refused).toHaveLength(1);
+      expect(refused[0]).toContain(where);
+      // Nothing was opened to talk in: no local channel address announced.
+      expect(s.out).not.toMatch(/http:\/\//);
+    });
+  }
+});
