@@ -16,6 +16,7 @@ import type { AnswerPresenter, DigestChart, PresentedPost, SummaryPresenter } fr
 import type { RunQueue, RunRef } from './queue/RunQueue.js';
 import * as replies from './replies.js';
 import { Step, type StepContext } from './Step.js';
+import { bundlePost, type BundleSource } from './thread-bundle.js';
 import type { ThreadDatasets } from './ThreadDatasets.js';
 import type { ThreadSerial } from './ThreadSerial.js';
 import { enterStage, type CancelledState, type DoneState, type RunningState, type StateStore, type ThreadState } from './thread-state.js';
@@ -206,6 +207,8 @@ export class RunOrchestrator {
     const phases = this.deps.phases;
     // Charts of this process's answers, for the digest (after a restart, only those made since).
     const charts = new Map<number, DigestChart>();
+    // Files of this process's answers, for the thread's zip (the same limit after a restart, said in its post).
+    const answerFiles: BundleSource['answers'] = [];
     for (const [i, sq] of plan.items.entries()) {
       const job = pending[i];
       if (!job) continue;
@@ -236,6 +239,7 @@ export class RunOrchestrator {
         return true;
       });
       if (presented?.chart) charts.set(i + 1, { png: presented.chart, ...(presented.chartSpec ? { spec: presented.chartSpec } : {}) });
+      if (presented?.post.files?.length) answerFiles.push({ position: i + 1, files: presented.post.files });
       if (!stillOn) return;
     }
     await this.deps.serial.run(threadId, async () => {
@@ -254,6 +258,12 @@ export class RunOrchestrator {
       });
       // The run's end is logged with its summary post: both or neither, once.
       await this.deps.posting.postOnce(threadId, runKey(started, 'summary'), summary, who, [this.deps.audit.runEntry(who, 'finished', run.number)]);
+      if (answerFiles.length > 0 || summary.files?.length) {
+        const at = this.deps.now();
+        const postedEarlier = plan.items.flatMap((_, i) => (pending[i] ? [] : [i + 1]));
+        const name = `${ws.dataset.name}-${at.toISOString().slice(0, 10)}-run${run.number}`;
+        await this.deps.posting.postOnce(threadId, runKey(started, 'bundle'), bundlePost({ answers: answerFiles, postedEarlier, summary, name, at }), who);
+      }
       const done = enterStage<DoneState>(state, { stage: 'done', plan: state.plan, run: state.run });
       done.updatedAt = this.deps.now().toISOString();
       await this.deps.store.put(done);

@@ -3,7 +3,11 @@
 import type { Prompt } from './prompts.js';
 import type { SqlSession } from './thread-state.js';
 
-export type FileKind = 'chart' | 'table' | 'sql' | 'digest';
+/** What a posted file holds; 'bundle' is the zip of a whole thread's files (bot/thread-bundle.ts). */
+export type FileKind = 'chart' | 'table' | 'sql' | 'digest' | 'bundle';
+
+/** The folder a file of each kind goes in, wherever a thread's files are laid out together (a folder, the zip). */
+export const FOLDER_OF_KIND: Record<FileKind, string> = { chart: 'charts', table: 'tables', sql: 'sql', digest: '.', bundle: '.' };
 
 export interface OutgoingFile {
   name: string;

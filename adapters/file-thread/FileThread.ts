@@ -3,7 +3,7 @@
 // Used by `threadcount ask` and by tests that read a whole conversation back.
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import type { FileKind, OutgoingPost, ThreadPort } from '../../bot/port.js';
+import { FOLDER_OF_KIND as FOLDER, type FileKind, type OutgoingPost, type ThreadPort } from '../../bot/port.js';
 
 export interface RecordedFile {
   kind: FileKind;
@@ -25,8 +25,6 @@ export interface RecordedThread {
   threadId: string;
   posts: RecordedPost[];
 }
-
-const FOLDER: Record<FileKind, string> = { chart: 'charts', table: 'tables', sql: 'sql', digest: '.' };
 
 export class FileThread implements ThreadPort {
   readonly thread: RecordedThread;

@@ -189,6 +189,7 @@ function contentTypeOf(name: string, kind: FileKind): string {
   if (kind === 'chart' || name.endsWith('.png')) return 'image/png';
   if (kind === 'table' || name.endsWith('.csv')) return 'text/csv; charset=utf-8';
   if (kind === 'sql' || name.endsWith('.sql')) return 'application/sql; charset=utf-8';
+  if (kind === 'bundle' || name.endsWith('.zip')) return 'application/zip';
   return 'text/plain; charset=utf-8';
 }
 

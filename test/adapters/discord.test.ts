@@ -17,6 +17,7 @@ import { loadConfig } from '../../config/load.js';
 import { agreedCardPost, briefCardPost, CARD_TEXT, correctedCardPost } from '../helpers/brief-card-post.js';
 import { demoFixture } from '../helpers/demo-fixture.js';
 import { BOT_USER, FakeDiscordApi, type ApiCall } from '../helpers/fake-discord-api.js';
+import { expectBundleHoldsThread } from '../helpers/thread-bundle.js';
 import { waitFor } from '../helpers/wait-for.js';
 
 const GUILD = '800000000000000001';
@@ -226,6 +227,16 @@ describe('Discord adapter', () => {
     expect(String(chartPost.body.content)).toMatch(/^\*\*1\. /);
     const edits = api.calls.filter((c) => c.method === 'PATCH' && c.path.startsWith(`/channels/${threadId}/messages/`));
     expect(String(edits.at(-1)!.body.content)).toMatch(/^All \d+ done\.$/);
+  });
+
+  it('attaches one zip of the thread after the summary, holding every file the thread posted', async () => {
+    const zipPost = await waitFor('the zip', () => api.messagesIn(threadId).find((c) => c.files.some((f) => f.name.endsWith('.zip'))), 120_000);
+    const sent = api.messagesIn(threadId);
+    expect(sent.filter((c) => c.files.some((f) => f.name.endsWith('.zip')))).toHaveLength(1);
+    expect(String(zipPost.body.content)).toMatch(/^\*\*Everything above in one file\*\*: /);
+    expect(sent.indexOf(zipPost)).toBeGreaterThan(sent.findIndex((c) => String(c.body.content).startsWith('**Summary**')));
+    const zip = zipPost.files.find((f) => f.name.endsWith('.zip'))!;
+    expectBundleHoldsThread(zip.bytes, sent.flatMap((c) => c.files));
   });
 
   it('offers a select menu for a choice of several, and reads what was selected', async () => {

@@ -1,6 +1,6 @@
 // The local channel: its HTTP API driven over loopback through a whole request (the real bot on
 // the demo data), the fast acknowledgement, and the page itself in Debian's chromium.
-import { existsSync, mkdirSync, mkdtempSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import pLimit from 'p-limit';
@@ -18,6 +18,7 @@ import { serve, type Serving } from '../../cli/serve.js';
 import { loadConfig } from '../../config/load.js';
 import { demoFixture } from '../helpers/demo-fixture.js';
 import { SseClient } from '../helpers/sse-client.js';
+import { expectBundleHoldsThread } from '../helpers/thread-bundle.js';
 import { waitFor } from '../helpers/wait-for.js';
 
 // Names no measure, so the bot asks for one (a prompt with options) before its brief card.
@@ -307,6 +308,28 @@ describe('the page in a browser', () => {
       expect(await page.locator('#thread-list a').count()).toBeGreaterThan(0);
       expect(await page.locator('.files a[download$=".csv"]').count()).toBeGreaterThan(0);
       expect(await page.locator('.files a[download$=".sql"]').count()).toBeGreaterThan(0);
+
+      // One zip of the whole thread, offered once after the summary; the browser downloads it.
+      const zipLink = page.locator('.files .bundle a[download$=".zip"]');
+      await zipLink.waitFor({ timeout: 60_000 });
+      expect(await zipLink.count()).toBe(1);
+      await zipLink.scrollIntoViewIfNeeded();
+      await shot(page, '07-zip.png');
+      const [download] = await Promise.all([page.waitForEvent('download'), zipLink.click()]);
+      const zipBytes = readFileSync((await download.path())!);
+      const threadId = decodeURIComponent(/#\/t\/(.+)$/.exec(page.url())![1]!);
+      const posted = (await thread(threadId)).messages.flatMap((m) => m.files);
+      const fetched = await Promise.all(posted.map(async (f) => ({ name: f.name, bytes: Buffer.from(await (await fetch(`${base}${f.url}`)).arrayBuffer()) })));
+      expectBundleHoldsThread(zipBytes, fetched);
+
+      // The thread's own link opens it again, in a page of its own, finished and with its zip.
+      const link = await page.locator('#thread-link').getAttribute('href');
+      expect(link).toBe(`${base}/#/t/${encodeURIComponent(threadId)}`);
+      const again = await browser.newPage({ viewport: { width: 1280, height: 900 } });
+      await again.goto(link!);
+      await again.locator('.files .bundle a[download$=".zip"]').waitFor({ timeout: 30_000 });
+      expect(await again.locator('#messages article.msg').count()).toBe(await page.locator('#messages article.msg').count());
+      await again.close();
       expect(errors).toEqual([]);
     } finally {
       await browser.close();

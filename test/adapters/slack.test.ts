@@ -18,6 +18,7 @@ import { MemoryStateStore } from '../../bot/stores/MemoryStateStore.js';
 import { loadConfig } from '../../config/load.js';
 import { agreedCardPost, briefCardPost, CARD_TEXT, correctedCardPost } from '../helpers/brief-card-post.js';
 import { demoFixture } from '../helpers/demo-fixture.js';
+import { expectBundleHoldsThread } from '../helpers/thread-bundle.js';
 import { waitFor } from '../helpers/wait-for.js';
 
 const SECRET = '8f742231b10e8888abcd99yyyzzz85a5'.replace(/[yz]/g, 'e');
@@ -39,6 +40,8 @@ const calls: ApiCall[] = [];
 const delivered: IncomingMessage[] = [];
 const logged: string[] = [];
 const uploads: { id: string; bytes: Buffer }[] = [];
+/** Each upload's file name, by the id Slack handed out for it. */
+const uploadNames = new Map<string, string>();
 let nextTs = 1;
 
 /** Slack sends the Web API arguments form-encoded, nested values as JSON. */
@@ -63,6 +66,7 @@ function intercept() {
   record('chat.update', (p) => ({ channel: p.channel, ts: p.ts, text: p.text }));
   record('files.getUploadURLExternal', (p) => {
     const id = `F${String(uploads.length + calls.length).padStart(8, '0')}`;
+    uploadNames.set(id, String(p.filename));
     return { upload_url: `https://files.slack.com/upload/v1/${id}`, file_id: id, filename: p.filename };
   });
   record('files.completeUploadExternal', (p) => ({ files: (p.files as { id: string }[]).map((f) => ({ id: f.id })) }));
@@ -273,6 +277,23 @@ describe('Slack adapter', () => {
     // Progress is one message updated in place.
     const progress = calls.filter((c) => c.method === 'chat.update' && /done\.$/.test(String(c.params.text)));
     expect(progress.at(-1)!.params.text).toMatch(/^All \d+ done\.$/);
+  });
+
+  it('uploads one zip of the thread after the summary, holding every file the thread posted', async () => {
+    const bundlePost = await waitFor('the zip\'s post', () => posts().find((p) => String(p.params.text).startsWith('*Everything above in one file*')), 120_000);
+    await waitFor('the zip\'s upload shared', () => calls.find((c) => c.method === 'files.completeUploadExternal' && (c.params.files as { id: string }[]).some((f) => uploadNames.get(f.id)?.endsWith('.zip'))), 60_000);
+    // One zip, posted after the summary, shared in the request's thread.
+    const zipIds = uploads.filter((u) => uploadNames.get(u.id)!.endsWith('.zip')).map((u) => u.id);
+    expect(zipIds).toHaveLength(1);
+    const summaryAt = calls.findIndex((c) => c.method === 'chat.postMessage' && String(c.params.text).startsWith('*Summary*'));
+    expect(calls.indexOf(bundlePost)).toBeGreaterThan(summaryAt);
+    expect(bundlePost.params).toMatchObject({ channel: CHANNEL, thread_ts: REQUEST_TS });
+    const sharedHere = calls
+      .filter((c) => c.method === 'files.completeUploadExternal' && c.params.thread_ts === REQUEST_TS)
+      .flatMap((c) => (c.params.files as { id: string }[]).map((f) => f.id));
+    expect(sharedHere).toContain(zipIds[0]);
+    const posted = uploads.filter((u) => sharedHere.includes(u.id)).map((u) => ({ name: uploadNames.get(u.id)!, bytes: u.bytes }));
+    expectBundleHoldsThread(uploads.find((u) => u.id === zipIds[0])!.bytes, posted);
   });
 
   it('ignores thread replies in channels it has no request in', async () => {

@@ -128,6 +128,9 @@ function refreshList() {
 
 // ---------- one message ----------
 
+/** How a file's kind is named on its download link; the zip of a whole thread is "ZIP". */
+const FILE_KIND_LABEL = { table: 'CSV', bundle: 'ZIP' };
+
 function renderMessage(m, index) {
   const isRequest = index === 0 && !m.fromBot;
   const body = el(
@@ -165,7 +168,7 @@ function renderMessage(m, index) {
         'ul',
         { class: 'files' },
         others.map((f) =>
-          el('li', {}, el('a', { href: f.url, download: f.name }, el('span', { class: 'kind', text: f.kind === 'table' ? 'CSV' : f.kind.toUpperCase() }), el('span', { text: f.name }), el('span', { class: 'size', text: size(f.bytes) }))),
+          el('li', { class: f.kind === 'bundle' ? 'bundle' : null }, el('a', { href: f.url, download: f.name }, el('span', { class: 'kind', text: FILE_KIND_LABEL[f.kind] ?? f.kind.toUpperCase() }), el('span', { text: f.name }), el('span', { class: 'size', text: size(f.bytes) }))),
         ),
       ),
     );
@@ -323,6 +326,8 @@ function openThread(id) {
   $('compose-view').hidden = true;
   $('thread-view').hidden = false;
   $('working').hidden = true;
+  // The thread's own address, stable across restarts (thread ids are kept with the thread log).
+  $('thread-link').href = `${location.origin}${location.pathname}#/t/${encodeURIComponent(id)}`;
   // The stream replays the thread from its first event, then follows it.
   const source = new EventSource(`/api/threads/${encodeURIComponent(id)}/events`);
   for (const type of ['message.created', 'message.updated']) source.addEventListener(type, (e) => upsert(JSON.parse(e.data)));
