@@ -68,7 +68,8 @@ async function openFor(opts: InitOptions): Promise<{ source: DataSource; config:
   if (!kind) throw new SourceError('query_failed', `cannot tell what kind of file ${opts.source} is from its name: use .csv, .tsv, .parquet, .json, .jsonl or .duckdb`);
   // Source paths in the config are relative to the config's folder.
   const rel = relative(dirname(resolve(opts.out)), path);
-  const shown = isAbsolute(rel) || rel === '' ? path : rel;
+  // Relative only for a file beside the config or below it; one elsewhere keeps its absolute path.
+  const shown = isAbsolute(rel) || rel === '' || rel.startsWith('..') ? path : rel;
   const fileName = catalogNameOf(basename(path, extname(path)).replace(/\*/g, ''));
   if (kind === 'duckdb') {
     const table = opts.table ?? (await onlyTable(path, engine));

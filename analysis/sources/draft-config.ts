@@ -135,8 +135,12 @@ export function draftConfig(input: DraftInput): Draft {
   const metrics: Record<string, unknown>[] = [{ name: unique('rows'), label: 'Rows', also_called: [], description: 'number of rows (drafted by init)', count: 'rows', unit: 'count', higher_is_better: true, kind: 'flow' }];
   const dimensions: Record<string, unknown>[] = [];
   let keyColumn: string | undefined;
+  // With a date column, its year, month and day columns repeat it: never amounts to add up.
+  const repeatsDate = (c: ColumnProfile) => !!time && c.family === 'number' && [YEAR, MONTH, DAY].some((re) => re.test(catalogNameOf(c.name)));
+  const leftOut = input.columns.filter(repeatsDate).map((c) => c.name);
+  if (leftOut.length) notes.push(`left out (parts of the date in ${time!.name}): ${leftOut.join(', ')}`);
   for (const c of input.columns) {
-    if (c.name === time?.name || timeParts.has(c.name)) continue;
+    if (c.name === time?.name || timeParts.has(c.name) || repeatsDate(c)) continue;
     const name = catalogNameOf(c.name);
     if (personal(c)) {
       dimensions.push({ name: unique(name), label: labelOf(c.name), also_called: [], column: c.name, personal_data: true });
