@@ -108,3 +108,12 @@ export function metricKind(ds: DatasetConfig, metric: Metric): MetricKind {
       return 'ratio';
   }
 }
+
+/**
+ * The dimension whose values are a comparison group's units (sites, stores), when its unit column
+ * is one and not personal data; null for a unit key that is no dimension (a customer id).
+ */
+export function namedUnitDimension(ds: DatasetConfig, group: ComparisonGroup): Dimension | null {
+  if (!group.unit_column) return null;
+  return ds.dimensions.find((d) => d.column === group.unit_column && !d.personal_data) ?? null;
+}

@@ -56,6 +56,11 @@ export function nextPeriod(start: string, grain: Grain): string {
 }
 
 /** Every period start from the one containing `from` up to (not including) `end`. */
+/** Calendar days from `start` up to the exclusive `end` (0 when end is not after start). */
+export function daysBetween(start: string, end: string): number {
+  return Math.max(0, Math.round((parseIsoDate(end).getTime() - parseIsoDate(start).getTime()) / 86_400_000));
+}
+
 export function periodsBetween(from: string, end: string, grain: Grain): string[] {
   const out: string[] = [];
   for (let p = periodStart(from, grain); p < end; p = nextPeriod(p, grain)) out.push(p);

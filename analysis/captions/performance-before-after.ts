@@ -21,6 +21,7 @@ import {
   quantityFormat,
   quantityLabel,
   rowNoun,
+  seriesQuantity,
   statisticText,
   testName,
   windowText,
@@ -29,7 +30,7 @@ import {
 
 export function beforeAfterWords(findings: readonly Finding[], ctx: WordsContext): PerformanceWords {
   const { metric, group, locale, audience, dataset } = ctx;
-  const quantity = ctx.metric.definition.type === 'sum' ? 'per_row' : 'metric';
+  const quantity = seriesQuantity(findings, metric);
   const label = quantityLabel(metric, quantity, dataset);
   const fmt = quantityFormat(metric, quantity, locale);
   const rows = rowNoun(dataset);
@@ -129,28 +130,44 @@ function didWords(
   },
 ): PerformanceWords {
   const { label, fmt, m, o, locale, audience, value, notes } = w;
-  const moved = did.estimate > 0 ? 'more' : 'less';
+  const ratio = did.ratio ?? null;
   const amount = formatDifference(did.estimate, fmt);
-  const clear = did.pValue !== null && did.pValue < 0.05;
-  const chance = chancePhrase(did.pValue, 0.05);
+  // The verdict follows the interval stated: the relative one (log-linear) when there is one.
+  const clear = ratio ? ratio.ci[0] > 0 || ratio.ci[1] < 0 : did.pValue !== null && did.pValue < 0.05;
+  const chance = chancePhrase(ratio ? ratio.pValue : did.pValue, 0.05);
+  const percent = (v: number) => formatValue(v, { unit: 'percent', decimals: Math.abs(v) < 0.1 ? 1 : 0, locale }, { signed: true });
+  const relRange = ratio ? `${formatValue(did.confidence, { unit: 'percent', decimals: 0, locale })} interval ${percent(ratio.ci[0])} to ${percent(ratio.ci[1])}` : '';
+  const up = (ratio ? ratio.estimate : did.estimate) > 0;
   const title = clear
-    ? `${label}: ${inText(m)} moved ${amount} ${did.estimate > 0 ? 'up' : 'down'} relative to ${inText(o)} after the launch`
+    ? ratio
+      ? `${label}: ${aboutPercent(ratio.estimate, locale)} ${up ? 'higher' : 'lower'} for ${inText(m)} after the launch, relative to ${inText(o)}`
+      : `${label}: ${inText(m)} moved ${amount} ${up ? 'up' : 'down'} relative to ${inText(o)} after the launch`
     : `${label}: no clear change for ${inText(m)} relative to ${inText(o)} after the launch`;
   const sides = `the ${months(periods.months)} either side of the launch on ${day(periods.launchDate, locale)}`;
   const paths = `${inText(m)} went from ${value(did.membersBefore)} to ${value(did.membersAfter)} and for ${inText(o)} from ${value(did.othersBefore)} to ${value(did.othersAfter)}`;
+  const relative = ratio
+    ? ` Set against ${inText(o)}' own change, ${inText(m)} ended ${aboutPercent(ratio.estimate, locale)} ${ratio.estimate >= 0 ? 'higher' : 'lower'} (${relRange}); ${chance}.`
+    : '';
   let caption: string;
   if (audience === 'leadership') {
-    caption = `Comparing ${sides}, ${inText(label)} for ${paths}: ${inText(m)} moved ${amount} ${moved} than ${inText(o)}; ${chance}. This is an observational comparison, not proof of cause.`;
+    caption = ratio
+      ? `Comparing ${sides}, ${inText(label)} for ${paths}.${relative} This is an observational comparison, not proof of cause.`
+      : `Comparing ${sides}, ${inText(label)} for ${paths}: ${inText(m)} moved ${amount} ${up ? 'more' : 'less'} than ${inText(o)}; ${chance}. This is an observational comparison, not proof of cause.`;
   } else if (audience === 'managers') {
-    const range = did.ci ? ` The true effect is probably between ${formatDifference(did.ci[0], fmt, { signed: true })} and ${formatDifference(did.ci[1], fmt, { signed: true })}.` : '';
-    const rel = did.relative !== null ? ` (${aboutPercent(did.relative, locale)} of what ${inText(m)} would otherwise have had)` : '';
-    caption = `Comparing ${sides}, ${inText(label)} for ${paths}. The difference in differences is ${formatDifference(did.estimate, fmt, { signed: true })}${rel}; ${chance}.${range}`;
+    const between = did.ci ? `between ${formatDifference(did.ci[0], fmt, { signed: true })} and ${formatDifference(did.ci[1], fmt, { signed: true })}` : '';
+    const absolute = formatDifference(did.estimate, fmt, { signed: true });
+    caption = ratio
+      ? `Comparing ${sides}, ${inText(label)} for ${paths}.${relative} In ${inText(label)}, the difference in differences is ${absolute}${between ? ` (${between})` : ''}.`
+      : `Comparing ${sides}, ${inText(label)} for ${paths}. The difference in differences is ${absolute}${did.relative !== null ? ` (${aboutPercent(did.relative, locale)} of what ${inText(m)} would otherwise have had)` : ''}; ${chance}.${between ? ` The true effect is probably ${between}.` : ''}`;
   } else {
     const stats =
       did.test && did.statistic !== null && did.pValue !== null && did.ci
         ? `${testName(did.test)}: ${formatDifference(did.estimate, fmt, { signed: true })} (${intervalText(did.ci, did.confidence, fmt, locale)}); ${statisticText({ test: did.test, statistic: did.statistic, df: did.df }, locale)}, ${formatP(did.pValue, locale)}`
         : `Difference in differences ${formatDifference(did.estimate, fmt, { signed: true })} (no interval: a cell has no spread)`;
-    caption = `${capitalise(stats)}. Cells (${monthSpan(periods.before, locale)} → ${monthSpan(periods.after, locale)}): ${inText(m)} ${value(did.membersBefore)} → ${value(did.membersAfter)}, ${inText(o)} ${value(did.othersBefore)} → ${value(did.othersAfter)}; cells treated as independent samples of rows.`;
+    const logLinear = ratio
+      ? ` Log-linear (ratio of ratios, delta method): ${percent(ratio.estimate)} (${relRange}), ${formatP(ratio.pValue, locale)}; the verdict follows this interval.`
+      : '';
+    caption = `${capitalise(stats)}.${logLinear} Cells (${monthSpan(periods.before, locale)} → ${monthSpan(periods.after, locale)}): ${inText(m)} ${value(did.membersBefore)} → ${value(did.membersAfter)}, ${inText(o)} ${value(did.othersBefore)} → ${value(did.othersAfter)}; cells treated as independent samples.`;
   }
   return { title, caption, notes, takeaway: `${title}; ${chance}.`, clear };
 }

@@ -5,7 +5,9 @@ import type {
   GroupRole,
   PerformanceDifferenceFinding,
   PerformanceFinding,
+  PerformanceGroupSeriesFinding,
   PerformanceNoTestFinding,
+  PerformanceUnitsLeftOutFinding,
   Quantity,
 } from '../findings/performance.js';
 import { formatPeriod, formatValue, significant, type ValueFormat, valueFormatOf } from '../format.js';
@@ -41,7 +43,7 @@ export function groupLabel(group: ComparisonGroup, role: GroupRole): string {
 }
 
 /** The label in running text: "pass holders" (lower case first letter unless it looks like a name). */
-import { inSentence as inText } from './grammar.js';
+import { countOf, inSentence as inText } from './grammar.js';
 export { inText };
 
 /** What one row is called, from a plain count metric's label ("bookings"), else "rows". */
@@ -68,15 +70,23 @@ function nounPair(label: string): { plural: string; singular: string } {
   return { plural, singular };
 }
 
-/** "Average fare per booking", or "Revenue per booking" for a sum compared per row. */
+/** "Average fare per booking", "Revenue per booking" for a sum compared per row, "Weekday visits per day" for a count. */
 export function quantityLabel(metric: Metric, quantity: Quantity, ds: DatasetConfig): string {
+  if (quantity === 'per_day') return `${metric.label} per day`;
   return quantity === 'per_row' ? `${metric.label} per ${rowNoun(ds).singular}` : metric.label;
 }
 
-/** Value format of the compared quantity: a count per row or per unit needs decimals. */
+/** Value format of the compared quantity: a count per row, per day or per unit needs decimals (the metric's own when set). */
 export function quantityFormat(metric: Metric, quantity: Quantity, locale: string): ValueFormat {
-  if (quantity === 'per_row' && metric.unit === 'count') return { unit: 'number', decimals: 2, locale };
+  if (quantity === 'per_row' && metric.unit === 'count') return { unit: 'number', decimals: metric.decimals ?? 2, locale };
+  if (quantity === 'per_day' && metric.unit === 'count') return { unit: 'number', decimals: metric.decimals ?? 1, locale };
   return valueFormatOf(metric, locale);
+}
+
+/** The compared quantity of a before/after answer, from its series (older findings: per row for a sum). */
+export function seriesQuantity(findings: readonly Finding[], metric: Metric): Quantity {
+  const series = findings.find((f): f is PerformanceGroupSeriesFinding => f.type === 'performance_group_series');
+  return series?.quantity ?? (metric.definition.type === 'sum' ? 'per_row' : 'metric');
 }
 
 export function perUnitFormat(locale: string): ValueFormat {
@@ -218,4 +228,19 @@ export function noTestWords(f: PerformanceNoTestFinding, ctx: WordsContext, noun
       return `${who} too few to show${under}, so the figures are withheld and there is nothing to compare.`;
     }
   }
+}
+
+/**
+ * The units left out of both groups, for the end of a caption: "1 site was not there through the
+ * whole period and is left out of both groups, so neither changes its make-up: Harbour Road
+ * (other sites, from 4 March 2024 to 31 December 2024)."
+ */
+export function unitsLeftOutSentence(findings: readonly Finding[], ctx: Pick<WordsContext, 'group' | 'locale' | 'dataset'>): string | null {
+  const f = findings.find((x): x is PerformanceUnitsLeftOutFinding => x.type === 'performance_units_left_out');
+  if (!f || f.units.length === 0) return null;
+  const dim = ctx.dataset.dimensions.find((d) => d.name === f.dimension);
+  const noun = (dim?.label ?? f.dimension).toLowerCase();
+  const list = f.units.map((u) => `${u.unit} (${inText(groupLabel(ctx.group, u.group))}, from ${day(u.first, ctx.locale)} to ${day(u.last, ctx.locale)})`);
+  const one = f.units.length === 1;
+  return `${countOf(f.units.length, noun, ctx.locale)} ${one ? 'was' : 'were'} not there through the whole period and ${one ? 'is' : 'are'} left out of both groups, so neither changes its make-up: ${list.join('; ')}.`;
 }

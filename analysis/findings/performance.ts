@@ -13,8 +13,12 @@ export type GroupRole = 'members' | 'others';
  */
 export type MeasureKind = 'mean' | 'proportion' | 'ratio' | 'total';
 
-/** `metric`: the catalog metric itself; `per_row`: a sum metric compared per row (revenue per booking). */
-export type Quantity = 'metric' | 'per_row';
+/**
+ * `metric`: the catalog metric itself; `per_row`: a sum metric compared per row (revenue per
+ * booking); `per_day`: a count (plain or filtered) compared as its mean per calendar day, days
+ * without a row counting as 0, so a count is never compared as a share of rows.
+ */
+export type Quantity = 'metric' | 'per_row' | 'per_day';
 
 export type TestName = 'welch_t' | 'two_proportion_z' | 'delta_ratio_z' | 'did_t' | 'did_z';
 
@@ -179,6 +183,8 @@ export interface PerformanceGroupSeriesFinding {
   metric: string;
   group: GroupRole;
   grain: Grain;
+  /** What each point is (a count's points are its mean per day in the period); absent means `metric`. */
+  quantity?: Quantity;
   points: PeriodPoint[];
 }
 
@@ -189,6 +195,16 @@ export interface PerformancePeriodsFinding {
   before: DateWindow;
   after: DateWindow;
   months: number;
+}
+
+/**
+ * Named units (sites) not there throughout the compared window (opened or closed inside it), left
+ * out of both groups so neither group's make-up changes between before and after.
+ */
+export interface PerformanceUnitsLeftOutFinding {
+  type: 'performance_units_left_out';
+  dimension: string;
+  units: { unit: string; group: GroupRole; first: string; last: string }[];
 }
 
 /** Difference in differences: (members after − members before) − (others after − others before). */
@@ -206,6 +222,12 @@ export interface PerformanceDidFinding {
   ci: [number, number] | null;
   confidence: number;
   test: 'did_t' | 'did_z' | null;
+  /**
+   * The change in relative terms from a log-linear model of the four cells: (members after /
+   * members before) / (others after / others before) − 1, with its interval by the delta method
+   * on the log scale. Null unless all four estimates are positive with a variance.
+   */
+  ratio?: { estimate: number; ci: [number, number]; pValue: number } | null;
   statistic: number | null;
   df: number | null;
   pValue: number | null;
@@ -269,6 +291,7 @@ export type PerformanceFinding =
   | PerformanceFrequencyGroupFinding
   | PerformanceFrequencyRatioFinding
   | PerformanceGroupSeriesFinding
+  | PerformanceUnitsLeftOutFinding
   | PerformancePeriodsFinding
   | PerformanceDidFinding
   | PerformanceDidNotApplicableFinding

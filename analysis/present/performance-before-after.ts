@@ -1,7 +1,7 @@
 // Presenter for "performance_before_after": members as the main line, others as the overlay, per
 // period across the launch.
 import { beforeAfterWords } from '../captions/performance-before-after.js';
-import { day, findOne, groupLabel, quantityFormat, quantityLabel } from '../captions/performance-words.js';
+import { day, findOne, groupLabel, quantityFormat, quantityLabel, seriesQuantity, unitsLeftOutSentence } from '../captions/performance-words.js';
 import { buildLine, periodIndexOf } from '../charts/build-line.js';
 import { resolveGroup } from '../templates/performance-common.js';
 import { primaryMetric } from '../templates/performance-compare.js';
@@ -14,7 +14,7 @@ export const presentPerformanceBeforeAfter: Presenter = (answer, ctx) => {
   const group = resolveGroup(ctx.dataset, sq);
   const wctx = { dataset: ctx.dataset, metric, group, locale: ctx.locale, audience: ctx.audience, dataAsOf: ctx.dataAsOf };
   const words = beforeAfterWords(answer.findings, wctx);
-  const quantity = metric.definition.type === 'sum' ? 'per_row' : 'metric';
+  const quantity = seriesQuantity(answer.findings, metric);
   const label = quantityLabel(metric, quantity, ctx.dataset);
   const members = findOne(answer.findings, 'performance_group_series', (f) => f.group === 'members');
   const others = findOne(answer.findings, 'performance_group_series', (f) => f.group === 'others');
@@ -41,7 +41,7 @@ export const presentPerformanceBeforeAfter: Presenter = (answer, ctx) => {
       : null;
   return {
     title: words.title,
-    caption: words.caption,
+    caption: [words.caption, unitsLeftOutSentence(answer.findings, { group, locale: ctx.locale, dataset: ctx.dataset })].filter(Boolean).join(' '),
     notes: performanceNotes(answer, ctx, words.notes),
     chart,
     takeaway: words.takeaway ? { importance: words.clear ? 65 : 40, text: words.takeaway } : null,

@@ -1,7 +1,7 @@
 // Presenter for "performance_by_segment": one bar per segment showing how far the members' value
 // sits above or below the others' (relative difference), small segments marked in their label.
 import { bySegmentWords, segmentName } from '../captions/performance-by-segment.js';
-import { findAll, groupLabel, inText, quantityLabel } from '../captions/performance-words.js';
+import { findAll, groupLabel, inText, quantityLabel, unitsLeftOutSentence } from '../captions/performance-words.js';
 import { buildBars } from '../charts/build-bars.js';
 import { groupableDimension } from '../catalog.js';
 import { resolveGroup } from '../templates/performance-common.js';
@@ -61,7 +61,7 @@ export const presentPerformanceBySegment: Presenter = (answer, ctx) => {
       : null;
   return {
     title: words.title,
-    caption: words.caption,
+    caption: [words.caption, unitsLeftOutSentence(answer.findings, { group, locale: ctx.locale, dataset: ctx.dataset })].filter(Boolean).join(' '),
     notes: performanceNotes(answer, ctx, [...words.notes, ...extraNotes]),
     chart,
     takeaway: words.takeaway ? { importance: words.clear ? 60 : 40, text: words.takeaway } : null,

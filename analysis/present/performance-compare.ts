@@ -1,6 +1,6 @@
 // Presenter for "performance_compare": both groups' estimates with interval whiskers and n.
 import { compareWords } from '../captions/performance-compare.js';
-import { findAll, groupLabel, quantityFormat, quantityLabel } from '../captions/performance-words.js';
+import { findAll, groupLabel, quantityFormat, quantityLabel, unitsLeftOutSentence } from '../captions/performance-words.js';
 import { buildGroupCompare } from '../charts/build-group-compare.js';
 import { resolveGroup } from '../templates/performance-common.js';
 import { primaryMetric } from '../templates/performance-compare.js';
@@ -27,7 +27,7 @@ export const presentPerformanceCompare: Presenter = (answer, ctx) => {
       : null;
   return {
     title: words.title,
-    caption: words.caption,
+    caption: [words.caption, unitsLeftOutSentence(answer.findings, { group, locale: ctx.locale, dataset: ctx.dataset })].filter(Boolean).join(' '),
     notes: performanceNotes(answer, ctx, words.notes),
     chart,
     takeaway: words.takeaway ? { importance: words.clear ? 70 : 40, text: words.takeaway } : null,

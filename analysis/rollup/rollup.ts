@@ -6,7 +6,7 @@
 // per-unit questions still read the table itself.
 import { createHash } from 'node:crypto';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
-import { groupableDimension, metricByName } from '../catalog.js';
+import { groupableDimension, metricByName, namedUnitDimension } from '../catalog.js';
 import { datasetRelation, type CompileContext } from '../compile-context.js';
 import { filterCondition } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
@@ -197,6 +197,9 @@ export function rollupColumns(ds: DatasetConfig, names: { dimensions: string[]; 
   for (const g of names.groups) {
     const group = ds.comparison_groups.find((x) => x.name === g);
     if (group) cols.add(group.column);
+    // Units that enter or leave are left out of a comparison, judged per unit (see performance-common.ts).
+    const units = group ? namedUnitDimension(ds, group) : null;
+    if (units) cols.add(units.column);
   }
   return [...cols].sort();
 }

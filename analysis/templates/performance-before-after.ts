@@ -7,14 +7,14 @@ import { type CompileContext, localDateExpr, tableRef, whereClause } from '../co
 import type { Coverage } from '../coverage.js';
 import { dataEnd } from '../coverage.js';
 import type { GroupRole, PerformanceDidNotApplicableFinding, PerformancePeriodsFinding } from '../findings/performance.js';
-import { addDays, addMonths, nextPeriod, periodsBetween, periodStart } from '../periods.js';
+import { addDays, addMonths, daysBetween, nextPeriod, periodsBetween, periodStart } from '../periods.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CellValue, DateWindow, Finding, Grain, NamedQuery, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
 import { differenceFinding, primaryMetric } from './performance-compare.js';
-import { ALPHA, CONFIDENCE, EMPTY_TABLE, groupCaveats, groupKnown, isSuppressed, memberFlag, resolveGroup, roleLabel, roleOf } from './performance-common.js';
+import { ALPHA, CONFIDENCE, compileUnitsLeftOut, EMPTY_TABLE, groupCaveats, groupKnown, isSuppressed, memberFlag, resolveGroup, roleLabel, roleOf, throughUnitsCondition, unitsLeftOutFinding } from './performance-common.js';
 import { minGroupSize, suppressedGroupsCaveat, suppressSmallCells } from './small-groups.js';
-import { cellFromRow, measureColumns, measureShape, planFor, type MeasurePlan } from './performance-measure.js';
-import { type Cell, cellEstimate, compareCells, contrast, poolCells, verdictOf } from './performance-stats.js';
+import { cellFromRow, comparisonPlanFor, comparisonShape, measureColumns, perDayQuery, type MeasurePlan } from './performance-measure.js';
+import { type Cell, cellEstimate, compareCells, contrast, logRatioContrast, poolCells, verdictOf } from './performance-stats.js';
 import type { Template } from './template.js';
 
 /** Per period × group summary pieces over the whole window, at `grain`. */
@@ -24,16 +24,26 @@ export function compileGroupPeriods(sq: SubQuestion, ctx: CompileContext, grain:
   const group = resolveGroup(ds, sq);
   const q = new QueryBuilder(ctx.dialect);
   const period = ctx.dialect.periodStart(grain, localDateExpr(q, ctx));
-  const plan = planFor(q, ctx, metric);
-  const cols = measureColumns(q, ds, metric, plan, ctx);
-  const where = whereClause(q, ctx, sq.window, sq.filters);
-  const body = `SELECT ${period} AS period,
+  const plan = comparisonPlanFor(q, ctx, metric);
+  const where = `${whereClause(q, ctx, sq.window, sq.filters)}\n  AND ${throughUnitsCondition(q, ctx, sq, group, sq.window)}`;
+  let cols: string[];
+  let body: string;
+  if (plan.perDay) {
+    const keys = [
+      { sql: period, alias: 'period' },
+      { sql: memberFlag(q, group), alias: 'tc_member' },
+    ];
+    ({ body, columns: cols } = perDayQuery(q, ctx, metric, keys, tableRef(q, ctx), `${where}\n    AND ${groupKnown(q, group)}`));
+  } else {
+    cols = measureColumns(q, ds, metric, plan, ctx);
+    body = `SELECT ${period} AS period,
   ${memberFlag(q, group)} AS tc_member,
   ${cols.join(',\n  ')}
 FROM ${tableRef(q, ctx)}
 WHERE ${where}
   AND ${groupKnown(q, group)}
 GROUP BY 1, 2`;
+  }
   const min = minGroupSize(ds);
   if (min !== null) {
     // A group's period below the minimum group size keeps its row, every number withheld.
@@ -46,29 +56,36 @@ export const performanceBeforeAfterTemplate: Template = {
   compile: (sq, ctx) => {
     const group = resolveGroup(ctx.dataset, sq);
     const series = compileGroupPeriods(sq, ctx, sq.grain, 'series');
+    const leftOut = compileUnitsLeftOut(sq, ctx, group, sq.window);
     // DiD windows are whole months, so they need monthly pieces when the chart's grain is not a month.
-    return group.launch_date && sq.grain !== 'month' ? [series, compileGroupPeriods(sq, ctx, 'month', 'months')] : [series];
+    return [series, ...(group.launch_date && sq.grain !== 'month' ? [compileGroupPeriods(sq, ctx, 'month', 'months')] : []), ...(leftOut ? [leftOut] : [])];
   },
   read: (sq, tables, ctx) => {
     const ds = ctx.dataset;
     const metric = primaryMetric(ds, sq);
     const group = resolveGroup(ds, sq);
-    const shape = measureShape(ds, metric);
+    const shape = comparisonShape(ds, metric);
     const series = tables.series ?? EMPTY_TABLE;
     const months = sq.grain === 'month' ? series : (tables.months ?? EMPTY_TABLE);
-    return readBeforeAfter(sq, metric, group, shape, series, months, ctx.coverage, minGroupSize(ds));
+    const read = readBeforeAfter(sq, metric, group, shape, series, months, ctx.coverage, minGroupSize(ds));
+    const leftOut = unitsLeftOutFinding(ds, group, tables.units_left_out);
+    return leftOut ? { ...read, findings: [...read.findings, leftOut] } : read;
   },
 };
 
-type Shape = Pick<MeasurePlan, 'kind' | 'quantity' | 'additive'>;
+type Shape = Pick<MeasurePlan, 'kind' | 'quantity' | 'additive' | 'perDay'>;
 type Keyed = { period: string; role: GroupRole; cell: Cell; suppressed: boolean };
 
-function keyedCells(table: ResultTable, shape: Shape): Keyed[] {
+/** Cells keyed by period and group; a count compared per day spans its period's days within [start, end). */
+function keyedCells(table: ResultTable, shape: Shape, grain: Grain, start: string, end: string): Keyed[] {
   const out: Keyed[] = [];
   for (const r of table.rows) {
     const role = roleOf(r.tc_member);
     if (!role || typeof r.period !== 'string') continue;
-    out.push({ period: r.period, role, cell: cellFromRow(r as Record<string, CellValue>, shape as MeasurePlan), suppressed: isSuppressed(r) });
+    const from = r.period > start ? r.period : start;
+    const next = nextPeriod(r.period, grain);
+    const days = daysBetween(from, next < end ? next : end);
+    out.push({ period: r.period, role, cell: cellFromRow(r as Record<string, CellValue>, shape, days), suppressed: isSuppressed(r) });
   }
   return out;
 }
@@ -97,7 +114,7 @@ export function readBeforeAfter(
     launchDate: group.launch_date ?? null,
     clippedToLaunch: false,
   });
-  const seriesCells = keyedCells(seriesTable, shape);
+  const seriesCells = keyedCells(seriesTable, shape, sq.grain, effStart, effEnd);
   const starts = effStart < effEnd ? periodsBetween(effStart, effEnd, sq.grain) : [];
   const partial = new Set<string>();
   const first = starts[0];
@@ -115,10 +132,10 @@ export function readBeforeAfter(
       const cell = byPeriod.get(p);
       return { period: p, value: cell ? cellEstimate(cell) : null, partial: partial.has(p) };
     });
-    findings.push({ type: 'performance_group_series', metric: metric.name, group: role, grain: sq.grain, points });
+    findings.push({ type: 'performance_group_series', metric: metric.name, group: role, grain: sq.grain, quantity: shape.quantity, points });
   }
 
-  const monthCells = keyedCells(monthsTable, shape);
+  const monthCells = keyedCells(monthsTable, shape, 'month', effStart, effEnd);
   const pool = (role: GroupRole, w: DateWindow) =>
     poolCells(
       monthCells.filter((c) => c.role === role && c.period >= w.start && c.period < w.end).map((c) => c.cell),
@@ -187,15 +204,14 @@ export function readBeforeAfter(
     else if (mb.n === 0) notApplicable('members_empty_before');
     else if (ma.n === 0 || ob.n === 0 || oa.n === 0) notApplicable('group_empty');
     else {
-      const did = contrast(
-        [
-          { cell: ma, weight: 1 },
-          { cell: mb, weight: -1 },
-          { cell: oa, weight: -1 },
-          { cell: ob, weight: 1 },
-        ],
-        CONFIDENCE,
-      );
+      const terms = [
+        { cell: ma, weight: 1 },
+        { cell: mb, weight: -1 },
+        { cell: oa, weight: -1 },
+        { cell: ob, weight: 1 },
+      ];
+      const did = contrast(terms, CONFIDENCE);
+      const ratio = logRatioContrast(terms, CONFIDENCE);
       if (did) {
         const [vMa, vMb, vOa, vOb] = [ma, mb, oa, ob].map((c) => cellEstimate(c)!) as [number, number, number, number];
         const counterfactual = vMa - did.estimate;
@@ -215,6 +231,7 @@ export function readBeforeAfter(
           statistic: did.statistic,
           df: did.df,
           pValue: did.pValue,
+          ratio: ratio ? { estimate: ratio.estimate, ci: ratio.ci, pValue: ratio.pValue } : null,
         });
       }
       comparePair(ma, mb, 'members_after_vs_before');

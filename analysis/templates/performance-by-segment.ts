@@ -3,7 +3,9 @@
 // folded into one "All others" row in SQL; a difference pointing the same way in most segments is
 // evidence the overall gap is not a mix effect. Small segments are flagged.
 import { groupableDimension } from '../catalog.js';
-import { type CompileContext, rowCountSql, tableRef, whereClause } from '../compile-context.js';
+import type { Metric } from '../../config/schema.js';
+import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
+import { daysBetween } from '../periods.js';
 import type { Direction, GroupRole, PerformanceSegmentFinding } from '../findings/performance.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CellValue, Finding, NamedQuery, SubQuestion } from '../types.js';
@@ -12,6 +14,7 @@ import {
   ALPHA,
   CONFIDENCE,
   comparisonWindow,
+  compileUnitsLeftOut,
   EMPTY_TABLE,
   groupCaveats,
   groupKnown,
@@ -21,9 +24,11 @@ import {
   roleLabel,
   roleOf,
   SMALL_SAMPLE,
+  throughUnitsCondition,
+  unitsLeftOutFinding,
   windowFinding,
 } from './performance-common.js';
-import { cellFromRow, measureColumns, measureShape, num, planFor, type MeasurePlan } from './performance-measure.js';
+import { cellFromRow, comparisonPlanFor, comparisonShape, measureColumns, num } from './performance-measure.js';
 import { cellEstimate, compareCells, directionOf } from './performance-stats.js';
 import { complementaryFoldCtes, minGroupSize, suppressedGroupsCaveat, suppressedSegmentsCaveat, suppressSmallCells } from './small-groups.js';
 import type { Template } from './template.js';
@@ -40,11 +45,24 @@ export function compileSegments(sq: SubQuestion, ctx: CompileContext): NamedQuer
   const q = new QueryBuilder(ctx.dialect);
   const window = comparisonWindow(sq, group).window;
   const seg = q.ident(dim.column);
-  const rankWhere = whereClause(q, ctx, window, sq.filters);
-  const plan = planFor(q, ctx, metric);
-  const cols = measureColumns(q, ds, metric, plan, ctx);
-  const where = whereClause(q, ctx, window, sq.filters);
+  const rankWhere = `${whereClause(q, ctx, window, sq.filters)}\n    AND ${throughUnitsCondition(q, ctx, sq, group, window)}`;
+  const plan = comparisonPlanFor(q, ctx, metric);
+  const where = `${whereClause(q, ctx, window, sq.filters)}\n  AND ${throughUnitsCondition(q, ctx, sq, group, window)}`;
   const topN = q.bind(SEGMENT_TOP_N);
+  // The final SELECT: its segment keys, its aggregates over the ranked segments, then the measure.
+  const finalSelect = (keys: { sql: string; alias: string }[], rankAggregates: { sql: string; alias: string }[], carried: string[], ctes: string): { body: string; columns: string[] } => {
+    if (plan.perDay) return perDaySegments(q, ctx, metric, { seg, keys, rankAggregates, carried, ctes, where: `${where}\n    AND ${groupKnown(q, group)}` });
+    const columns = measureColumns(q, ds, metric, plan, ctx);
+    const body = `${ctes}
+SELECT ${[...keys, ...rankAggregates].map((k) => `${k.sql} AS ${k.alias}`).join(',\n  ')},
+  ${columns.join(',\n  ')}
+FROM ${tableRef(q, ctx)} AS tc_base
+JOIN tc_ranked ON tc_ranked.tc_segment IS NOT DISTINCT FROM tc_base.${seg}
+WHERE ${where}
+  AND ${groupKnown(q, group)}
+GROUP BY 1, 2, 3`;
+    return { body, columns };
+  };
   const min = minGroupSize(ds);
   if (min !== null) {
     // With a minimum group size: a segment with fewer rows is folded whatever its rank, and a
@@ -53,16 +71,18 @@ export function compileSegments(sq: SubQuestion, ctx: CompileContext): NamedQuer
     // While the fold holds fewer rows than the minimum, the smallest named segment joins it too
     // (complementary suppression, see small-groups.ts), so no small segment is the fold's difference.
     const folded = `(tc_ranked.tc_rank > ${topN} OR tc_ranked.tc_seg_rows < ${minP} OR tc_ranked.tc_complement)`;
-    const segCols = [
-      `CASE WHEN NOT ${folded} THEN CAST(tc_ranked.tc_segment AS VARCHAR) END AS tc_segment`,
-      `${folded} AS tc_folded`,
-      `${memberFlag(q, group)} AS tc_member`,
-      `${q.dialect.toDouble('COUNT(DISTINCT tc_ranked.tc_rank)')} AS tc_segments`,
-      `${q.dialect.toDouble('MIN(tc_ranked.tc_rank)')} AS tc_first_rank`,
-      `${q.dialect.toDouble(`COUNT(DISTINCT CASE WHEN tc_ranked.tc_seg_rows < ${minP} THEN tc_ranked.tc_rank END)`)} AS tc_small_segments`,
-      `${q.dialect.toDouble('COUNT(DISTINCT CASE WHEN tc_ranked.tc_complement THEN tc_ranked.tc_rank END)')} AS tc_complement_segments`,
+    const keyCols = [
+      { sql: `CASE WHEN NOT ${folded} THEN CAST(tc_ranked.tc_segment AS VARCHAR) END`, alias: 'tc_segment' },
+      { sql: folded, alias: 'tc_folded' },
+      { sql: memberFlag(q, group), alias: 'tc_member' },
     ];
-    const inner = `WITH tc_sizes AS (
+    const rankCols = [
+      { sql: q.dialect.toDouble('COUNT(DISTINCT tc_ranked.tc_rank)'), alias: 'tc_segments' },
+      { sql: q.dialect.toDouble('MIN(tc_ranked.tc_rank)'), alias: 'tc_first_rank' },
+      { sql: q.dialect.toDouble(`COUNT(DISTINCT CASE WHEN tc_ranked.tc_seg_rows < ${minP} THEN tc_ranked.tc_rank END)`), alias: 'tc_small_segments' },
+      { sql: q.dialect.toDouble('COUNT(DISTINCT CASE WHEN tc_ranked.tc_complement THEN tc_ranked.tc_rank END)'), alias: 'tc_complement_segments' },
+    ];
+    const ctes = `WITH tc_sizes AS (
   SELECT ${seg} AS tc_segment,
     ROW_NUMBER() OVER (ORDER BY ${rowCountSql(q, ctx)} DESC, ${seg}) AS tc_rank,
     ${rowCountSql(q, ctx)} AS tc_seg_rows
@@ -78,13 +98,8 @@ tc_ranked AS (
   SELECT tc_sizes.*, COALESCE(tc_extra.tc_sdc_fold, FALSE) AS tc_complement
   FROM tc_sizes
   LEFT JOIN tc_extra ON tc_sizes.tc_segment IS NOT DISTINCT FROM tc_extra.tc_sdc_key
-)
-SELECT ${[...segCols, ...cols].join(',\n  ')}
-FROM ${tableRef(q, ctx)} AS tc_base
-JOIN tc_ranked ON tc_ranked.tc_segment IS NOT DISTINCT FROM tc_base.${seg}
-WHERE ${where}
-  AND ${groupKnown(q, group)}
-GROUP BY 1, 2, 3`;
+)`;
+    const { body: inner, columns: cols } = finalSelect(keyCols, rankCols, ['tc_rank', 'tc_seg_rows', 'tc_complement'], ctes);
     const keys = ['tc_segment', 'tc_folded', 'tc_member', 'tc_segments', 'tc_first_rank', 'tc_small_segments', 'tc_complement_segments'];
     return {
       name: 'segments',
@@ -104,45 +119,99 @@ GROUP BY 1, 2, 3`;
     };
   }
   // Segments ranked by rows over both groups; ties broken by name so the fold is stable.
-  return {
-    name: 'segments',
-    ...q.finish(`WITH tc_ranked AS (
+  const ctes = `WITH tc_ranked AS (
   SELECT ${seg} AS tc_segment,
     ROW_NUMBER() OVER (ORDER BY ${rowCountSql(q, ctx)} DESC, ${seg}) AS tc_rank
   FROM ${tableRef(q, ctx)}
   WHERE ${rankWhere}
     AND ${groupKnown(q, group)}
   GROUP BY ${seg}
+)`;
+  const { body } = finalSelect(
+    [
+      { sql: `CASE WHEN tc_ranked.tc_rank <= ${topN} THEN CAST(tc_ranked.tc_segment AS VARCHAR) END`, alias: 'tc_segment' },
+      { sql: `(tc_ranked.tc_rank > ${topN})`, alias: 'tc_folded' },
+      { sql: memberFlag(q, group), alias: 'tc_member' },
+    ],
+    [
+      { sql: q.dialect.toDouble('COUNT(DISTINCT tc_ranked.tc_rank)'), alias: 'tc_segments' },
+      { sql: q.dialect.toDouble('MIN(tc_ranked.tc_rank)'), alias: 'tc_first_rank' },
+    ],
+    ['tc_rank'],
+    ctes,
+  );
+  return { name: 'segments', ...q.finish(`${body}\nORDER BY 2, 5, 3`) };
+}
+
+/**
+ * The final SELECT for a count compared per day: the catalog count per segment key, group and day
+ * over the ranked segments (a folded row adds up its segments' days first), then per key the days
+ * with a row, Σ and Σ² of the daily counts; the rank aggregates come from the same rows.
+ */
+function perDaySegments(
+  q: QueryBuilder,
+  ctx: CompileContext,
+  metric: Metric,
+  o: { seg: string; keys: { sql: string; alias: string }[]; rankAggregates: { sql: string; alias: string }[]; carried: string[]; ctes: string; where: string },
+): { body: string; columns: string[] } {
+  const d = q.dialect;
+  const aliases = o.keys.map((k) => k.alias);
+  const partCols = [...o.keys.map((k) => `${k.sql} AS ${k.alias}`), ...o.carried.map((c) => `tc_ranked.${c} AS ${c}`)];
+  const onKeys = aliases.map((a) => `tc_keys.${a} IS NOT DISTINCT FROM tc_days.${a}`).join(' AND ');
+  const columns = [
+    `${d.toDouble('COUNT(*)')} AS tc_days`,
+    `${d.toDouble('SUM(tc_days.tc_day_value)')} AS tc_sx`,
+    `${d.toDouble('SUM(tc_days.tc_day_value * tc_days.tc_day_value)')} AS tc_sxx`,
+    `${d.toDouble('SUM(tc_days.tc_day_value)')} AS tc_value`,
+    `${d.toDouble('SUM(tc_days.tc_day_rows)')} AS tc_rows`,
+  ];
+  const body = `${o.ctes},
+tc_parts AS (
+  SELECT ${partCols.join(', ')},
+    ${localDateExpr(q, ctx)} AS tc_day,
+    ${d.toDouble(measureSql(q, ctx, metric))} AS tc_part_value,
+    ${rowCountSql(q, ctx)} AS tc_part_rows
+  FROM ${tableRef(q, ctx)} AS tc_base
+  JOIN tc_ranked ON tc_ranked.tc_segment IS NOT DISTINCT FROM tc_base.${o.seg}
+  WHERE ${o.where}
+  GROUP BY ${partCols.map((_, i) => String(i + 1)).join(', ')}, ${partCols.length + 1}
+), tc_days AS (
+  SELECT ${aliases.join(', ')}, tc_day, SUM(tc_part_value) AS tc_day_value, SUM(tc_part_rows) AS tc_day_rows
+  FROM tc_parts
+  GROUP BY ${aliases.join(', ')}, tc_day
+), tc_keys AS (
+  SELECT ${aliases.join(', ')}, ${o.rankAggregates.map((r) => `${r.sql.replaceAll('tc_ranked.', 'tc_parts.')} AS ${r.alias}`).join(', ')}
+  FROM tc_parts
+  GROUP BY ${aliases.join(', ')}
 )
-SELECT CASE WHEN tc_ranked.tc_rank <= ${topN} THEN CAST(tc_ranked.tc_segment AS VARCHAR) END AS tc_segment,
-  (tc_ranked.tc_rank > ${topN}) AS tc_folded,
-  ${memberFlag(q, group)} AS tc_member,
-  ${q.dialect.toDouble('COUNT(DISTINCT tc_ranked.tc_rank)')} AS tc_segments,
-  ${q.dialect.toDouble('MIN(tc_ranked.tc_rank)')} AS tc_first_rank,
-  ${cols.join(',\n  ')}
-FROM ${tableRef(q, ctx)} AS tc_base
-JOIN tc_ranked ON tc_ranked.tc_segment IS NOT DISTINCT FROM tc_base.${seg}
-WHERE ${where}
-  AND ${groupKnown(q, group)}
-GROUP BY 1, 2, 3
-ORDER BY 2, 5, 3`),
-  };
+SELECT ${[...aliases, ...o.rankAggregates.map((r) => r.alias)].map((a) => `tc_keys.${a}`).join(', ')},
+  ${columns.join(',\n  ')}
+FROM tc_keys
+JOIN tc_days ON ${onKeys}
+GROUP BY ${[...aliases, ...o.rankAggregates.map((r) => r.alias)].map((a) => `tc_keys.${a}`).join(', ')}`;
+  return { body, columns };
 }
 
 export const performanceBySegmentTemplate: Template = {
-  compile: (sq, ctx) => [compileSegments(sq, ctx), compileGroups(sq, ctx)],
+  compile: (sq, ctx) => {
+    const group = resolveGroup(ctx.dataset, sq);
+    const leftOut = compileUnitsLeftOut(sq, ctx, group, comparisonWindow(sq, group).window);
+    return [compileSegments(sq, ctx), compileGroups(sq, ctx), ...(leftOut ? [leftOut] : [])];
+  },
   read: (sq, tables, ctx) => {
     const ds = ctx.dataset;
     const metric = primaryMetric(ds, sq);
     const group = resolveGroup(ds, sq);
     const dim = groupableDimension(ds, sq.dimension ?? '');
-    const shape = measureShape(ds, metric);
+    const shape = comparisonShape(ds, metric);
     const win = windowFinding(sq, group, ctx.coverage);
+    const days = daysBetween(win.start, win.end);
     const groupsTable = tables.groups ?? EMPTY_TABLE;
     const segTable = tables.segments ?? EMPTY_TABLE;
     const minimum = minGroupSize(ds);
-    const overall = readGroupComparison(metric, shape, groupsTable, minimum);
-    const findings: Finding[] = [win, ...overall.findings];
+    const overall = readGroupComparison(metric, shape, groupsTable, minimum, days);
+    const leftOut = unitsLeftOutFinding(ds, group, tables.units_left_out);
+    const findings: Finding[] = [win, ...overall.findings, ...(leftOut ? [leftOut] : [])];
     const caveats: Caveat[] = [];
 
     // Rows arrive ordered by rank; key them by (folded, segment) and keep first-seen order.
@@ -177,8 +246,8 @@ export const performanceBySegmentTemplate: Template = {
     let sigOpposite = 0;
     for (const key of order) {
       const e = bySegment.get(key)!;
-      const m = cellFromRow(e.rows.members, shape as MeasurePlan);
-      const o = cellFromRow(e.rows.others, shape as MeasurePlan);
+      const m = cellFromRow(e.rows.members, shape, days);
+      const o = cellFromRow(e.rows.others, shape, days);
       // A side below the minimum group size is withheld: too few to show, so nothing is compared.
       const hidden = { members: isSuppressed(e.rows.members), others: isSuppressed(e.rows.others) };
       for (const role of ['members', 'others'] as const) {

@@ -1,13 +1,14 @@
 // Shared pieces of the performance templates: the comparison group, the window they compare
 // over, the group flag in SQL, and the caveats every group comparison carries.
-import type { ComparisonGroup, DatasetConfig } from '../../config/schema.js';
-import { CatalogError, comparisonGroupByName } from '../catalog.js';
+import type { ComparisonGroup, DatasetConfig, Dimension } from '../../config/schema.js';
+import { CatalogError, comparisonGroupByName, namedUnitDimension } from '../catalog.js';
+import { type CompileContext, dateRange, localDateExpr, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import { dataEnd } from '../coverage.js';
-import type { GroupRole, PerformanceNoTestFinding, PerformanceWindowFinding } from '../findings/performance.js';
+import type { GroupRole, PerformanceNoTestFinding, PerformanceUnitsLeftOutFinding, PerformanceWindowFinding } from '../findings/performance.js';
 import { addDays } from '../periods.js';
-import type { QueryBuilder } from '../sql/query-builder.js';
-import type { Caveat, CellValue, DateWindow, ResultTable, SubQuestion } from '../types.js';
+import { QueryBuilder } from '../sql/query-builder.js';
+import type { Caveat, CellValue, DateWindow, NamedQuery, ResultTable, SubQuestion } from '../types.js';
 import { suppressedGroupsCaveat } from './small-groups.js';
 
 /**
@@ -128,4 +129,76 @@ export function groupCaveats(
     }
   }
   return caveats;
+}
+
+// ---- units that enter or leave during the window ------------------------------------------------
+// A group of named units (sites, stores) changes its make-up when one opens or closes inside the
+// window: a site that opens late adds its visits to one side of the comparison only, which reads as
+// an effect. Such units are left out of both groups and named. A unit key that is no dimension
+// (a customer id) comes and goes as a matter of course and is not treated so.
+
+/** Days of slack at each edge when judging whether a unit was there throughout (as growth's like-for-like). */
+export function unitPresenceTolerance(w: DateWindow): number {
+  const days = Math.round((Date.parse(w.end) - Date.parse(w.start)) / 86_400_000);
+  return Math.min(31, Math.max(1, Math.floor(days / 12)));
+}
+
+/** Each unit's first and last day in the window, against the window's own first and last day with data. */
+function unitLives(q: QueryBuilder, ctx: CompileContext, sq: SubQuestion, group: ComparisonGroup, unit: Dimension, window: DateWindow): string {
+  const day = localDateExpr(q, ctx);
+  const col = q.ident(unit.column);
+  const tolerance = `CAST(${q.bind(unitPresenceTolerance(window))} AS INTEGER)`;
+  return `SELECT tc_life.tc_unit, tc_life.tc_member, tc_life.tc_first, tc_life.tc_last,
+    (tc_life.tc_first <= tc_edges.tc_lo + ${tolerance} AND tc_life.tc_last >= tc_edges.tc_hi - ${tolerance}) AS tc_through
+  FROM (
+    SELECT ${col} AS tc_unit, ${memberFlag(q, group)} AS tc_member, MIN(${day}) AS tc_first, MAX(${day}) AS tc_last
+    FROM ${tableRef(q, ctx)}
+    WHERE ${whereClause(q, ctx, window, sq.filters)}
+      AND ${groupKnown(q, group)}
+    GROUP BY 1, 2
+  ) tc_life
+  CROSS JOIN (
+    SELECT MIN(${day}) AS tc_lo, MAX(${day}) AS tc_hi
+    FROM ${tableRef(q, ctx)}
+    WHERE ${dateRange(q, ctx, window)}
+  ) tc_edges`;
+}
+
+/**
+ * The condition keeping only units there throughout the window (TRUE when the group has no named
+ * units), for the WHERE of a comparison's queries.
+ */
+export function throughUnitsCondition(q: QueryBuilder, ctx: CompileContext, sq: SubQuestion, group: ComparisonGroup, window: DateWindow): string {
+  const unit = namedUnitDimension(ctx.dataset, group);
+  if (!unit) return 'TRUE';
+  return `${q.ident(unit.column)} IN (
+    SELECT tc_unit FROM (${unitLives(q, ctx, sq, group, unit, window)}) tc_lives WHERE tc_through
+  )`;
+}
+
+/** The units left out (first and last day, group), as the query "units_left_out"; null without named units. */
+export function compileUnitsLeftOut(sq: SubQuestion, ctx: CompileContext, group: ComparisonGroup, window: DateWindow): NamedQuery | null {
+  const q = new QueryBuilder(ctx.dialect);
+  const unit = namedUnitDimension(ctx.dataset, group);
+  if (!unit) return null;
+  return {
+    name: 'units_left_out',
+    ...q.finish(`SELECT CAST(tc_unit AS VARCHAR) AS tc_unit, tc_member, tc_first, tc_last
+FROM (${unitLives(q, ctx, sq, group, unit, window)}) tc_lives
+WHERE NOT tc_through
+ORDER BY tc_first, tc_unit`),
+  };
+}
+
+/** The finding naming the units left out of both groups, or null when none was. */
+export function unitsLeftOutFinding(ds: DatasetConfig, group: ComparisonGroup, table: ResultTable | undefined): PerformanceUnitsLeftOutFinding | null {
+  const unit = namedUnitDimension(ds, group);
+  if (!unit || !table || table.rows.length === 0) return null;
+  const units = table.rows.map((r) => ({
+    unit: String(r.tc_unit),
+    group: roleOf(r.tc_member) ?? 'others',
+    first: String(r.tc_first).slice(0, 10),
+    last: String(r.tc_last).slice(0, 10),
+  }));
+  return { type: 'performance_units_left_out', dimension: unit.name, units };
 }

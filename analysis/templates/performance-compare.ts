@@ -13,6 +13,7 @@ import {
   ALPHA,
   CONFIDENCE,
   comparisonWindow,
+  compileUnitsLeftOut,
   EMPTY_TABLE,
   groupCaveats,
   groupKnown,
@@ -22,9 +23,12 @@ import {
   roleOf,
   rowsByRole,
   suppressedComparison,
+  throughUnitsCondition,
+  unitsLeftOutFinding,
   windowFinding,
 } from './performance-common.js';
-import { cellFromRow, isMoney, measureColumns, measureShape, medianColumn, num, planFor, planMeasure, type MeasurePlan } from './performance-measure.js';
+import { cellFromRow, comparisonPlanFor, comparisonShape, isMoney, measureColumns, medianColumn, num, perDayQuery, planMeasure, type MeasurePlan } from './performance-measure.js';
+import { daysBetween } from '../periods.js';
 import { type Cell, cellEstimate, cellInterval, compareCells, verdictOf, type TestedDifference, type UntestedDifference } from './performance-stats.js';
 import { minGroupSize, suppressSmallCells } from './small-groups.js';
 import type { Reading, Template } from './template.js';
@@ -47,18 +51,25 @@ export function compileGroups(sq: SubQuestion, ctx: CompileContext): NamedQuery 
   const metric = primaryMetric(ds, sq);
   const group = resolveGroup(ds, sq);
   const q = new QueryBuilder(ctx.dialect);
-  const plan = planFor(q, ctx, metric);
-  const cols = measureColumns(q, ds, metric, plan, ctx);
-  const median = isMoney(metric) ? medianColumn(q, plan) : null;
-  if (median && ctx.rollup) throw new Error(`the median of ${metric.name} needs the rows, not a rollup`);
-  if (median) cols.push(median);
-  const where = whereClause(q, ctx, comparisonWindow(sq, group).window, sq.filters);
-  const body = `SELECT ${memberFlag(q, group)} AS tc_member,
+  const plan = comparisonPlanFor(q, ctx, metric);
+  const window = comparisonWindow(sq, group).window;
+  const where = `${whereClause(q, ctx, window, sq.filters)}\n  AND ${throughUnitsCondition(q, ctx, sq, group, window)}`;
+  let cols: string[];
+  let body: string;
+  if (plan.perDay) {
+    ({ body, columns: cols } = perDayQuery(q, ctx, metric, [{ sql: memberFlag(q, group), alias: 'tc_member' }], tableRef(q, ctx), `${where}\n    AND ${groupKnown(q, group)}`));
+  } else {
+    cols = measureColumns(q, ds, metric, plan, ctx);
+    const median = isMoney(metric) ? medianColumn(q, plan) : null;
+    if (median && ctx.rollup) throw new Error(`the median of ${metric.name} needs the rows, not a rollup`);
+    if (median) cols.push(median);
+    body = `SELECT ${memberFlag(q, group)} AS tc_member,
   ${cols.join(',\n  ')}
 FROM ${tableRef(q, ctx)}
 WHERE ${where}
   AND ${groupKnown(q, group)}
 GROUP BY 1`;
+  }
   const min = minGroupSize(ds);
   if (min !== null) {
     // A group below the minimum group size keeps its row, with every number withheld.
@@ -82,7 +93,8 @@ export function compileSample(sq: SubQuestion, ctx: CompileContext): NamedQuery 
   if (plan.kind !== 'mean' || !plan.x) return null;
   const flag = memberFlag(q, group);
   const order = `md5(CAST(${q.ident(ds.key_column)} AS VARCHAR) || CAST(${q.bind(String(SAMPLE_SEED))} AS VARCHAR)), ${plan.x}`;
-  const where = whereClause(q, ctx, comparisonWindow(sq, group).window, sq.filters);
+  const window = comparisonWindow(sq, group).window;
+  const where = `${whereClause(q, ctx, window, sq.filters)}\n    AND ${throughUnitsCondition(q, ctx, sq, group, window)}`;
   const min = minGroupSize(ds);
   // Below the minimum group size a group's values are never sampled (the sample is of single rows).
   const groupRows = min === null ? '' : `,\n    COUNT(*) OVER (PARTITION BY ${flag}) AS tc_group_rows`;
@@ -107,7 +119,8 @@ ORDER BY tc_member, tc_draw`),
 export const performanceCompareTemplate: Template = {
   compile: (sq, ctx) => {
     const sample = compileSample(sq, ctx);
-    return [compileGroups(sq, ctx), ...(sample ? [sample] : [])];
+    const leftOut = compileUnitsLeftOut(sq, ctx, resolveGroup(ctx.dataset, sq), comparisonWindow(sq, resolveGroup(ctx.dataset, sq)).window);
+    return [compileGroups(sq, ctx), ...(sample ? [sample] : []), ...(leftOut ? [leftOut] : [])];
   },
   read: (sq, tables, ctx) => {
     const ds = ctx.dataset;
@@ -116,8 +129,9 @@ export const performanceCompareTemplate: Template = {
     const win = windowFinding(sq, group, ctx.coverage);
     const groups = tables.groups ?? EMPTY_TABLE;
     const minimum = minGroupSize(ds);
-    const reading = readGroupComparison(metric, measureShape(ds, metric), groups, minimum);
-    const findings: Finding[] = [win, ...reading.findings];
+    const reading = readGroupComparison(metric, comparisonShape(ds, metric), groups, minimum, daysBetween(win.start, win.end));
+    const leftOut = unitsLeftOutFinding(ds, group, tables.units_left_out);
+    const findings: Finding[] = [win, ...reading.findings, ...(leftOut ? [leftOut] : [])];
     const sample = tables.sample;
     if (sample && !sample.truncated) {
       const median = readMedianBootstrap(metric, sample, groups);
@@ -137,13 +151,14 @@ export const performanceCompareTemplate: Template = {
 /** Group estimates, the tested difference (or why there is none) and the verdict, from the per-group rows. */
 export function readGroupComparison(
   metric: Metric,
-  shape: Pick<MeasurePlan, 'kind' | 'quantity' | 'additive'>,
+  shape: Pick<MeasurePlan, 'kind' | 'quantity' | 'additive' | 'perDay'>,
   table: ResultTable,
   minimum: number | null = null,
+  /** The calendar days compared, for a count compared per day. */
+  days?: number,
 ): Reading & { sizes: { role: GroupRole; n: number; suppressed: boolean }[]; cells: Record<GroupRole, Cell> } {
   const rows = rowsByRole(table);
-  const plan = shape as MeasurePlan;
-  const cells: Record<GroupRole, Cell> = { members: cellFromRow(rows.members, plan), others: cellFromRow(rows.others, plan) };
+  const cells: Record<GroupRole, Cell> = { members: cellFromRow(rows.members, shape, days), others: cellFromRow(rows.others, shape, days) };
   // A group below the minimum group size arrives with its numbers withheld: too few to show, and nothing to compare.
   const hidden: Record<GroupRole, boolean> = { members: isSuppressed(rows.members), others: isSuppressed(rows.others) };
   const findings: Finding[] = (['members', 'others'] as const).map((role) => {

@@ -4,7 +4,7 @@
 import type { ColumnFilter, DatasetConfig, Metric, MetricDefinition } from '../../config/schema.js';
 import type { MeasureKind, Quantity } from '../findings/performance.js';
 import { metricByName } from '../catalog.js';
-import { type CompileContext, measureSql, rowCountSql } from '../compile-context.js';
+import { type CompileContext, localDateExpr, measureSql, rowCountSql } from '../compile-context.js';
 import { filterCondition, metricAggregate } from '../sql/metric-sql.js';
 import { duckdbDialect } from '../sql/dialect.js';
 import { QueryBuilder } from '../sql/query-builder.js';
@@ -26,6 +26,12 @@ export interface MeasurePlan {
   /** For `mean` and `ratio`: `x` and `y` as parts (see `RowPart`), from which a rollup keeps their moments. */
   xPart?: RowPart;
   yPart?: RowPart;
+  /**
+   * For a count compared between groups (quantity `per_day`): the mean is over calendar days,
+   * not rows. SQL returns per group the days with a row (tc_days), Σ and Σ² of the daily counts
+   * (tc_sx, tc_sxx); the days of the window, known in Node, fill in the days with none as 0.
+   */
+  perDay?: boolean;
 }
 
 /**
@@ -83,6 +89,65 @@ export function planMeasure(q: QueryBuilder, ds: DatasetConfig, metric: Metric):
         : { kind: 'total', quantity: 'metric', additive: false };
     }
   }
+}
+
+/**
+ * How a metric is compared between groups (members and others, before and after): as
+ * `planMeasure`, except that a count, plain or filtered (weekday visits), is compared as its mean
+ * per calendar day. A count's share of rows is not the count, and its total says only how big a
+ * group is; a daily rate keeps the metric's own units and has a day-to-day spread to test with.
+ */
+export function planComparison(q: QueryBuilder, ds: DatasetConfig, metric: Metric): MeasurePlan {
+  if (metric.definition.type === 'count') return { kind: 'mean', quantity: 'per_day', additive: false, perDay: true };
+  return planMeasure(q, ds, metric);
+}
+
+/** The shape of `planComparison` without building SQL for a real engine. */
+export function comparisonShape(ds: DatasetConfig, metric: Metric): Pick<MeasurePlan, 'kind' | 'quantity' | 'additive' | 'perDay'> {
+  const p = planComparison(new QueryBuilder(duckdbDialect), ds, metric);
+  return { kind: p.kind, quantity: p.quantity, additive: p.additive, perDay: p.perDay };
+}
+
+/**
+ * A per-day plan's query: the catalog count per day and key (`keys`: select expressions with
+ * their aliases), then per key the days with a row, Σ and Σ² of the daily counts, the total
+ * (tc_value) and the rows behind it (tc_rows). Columns as `measureColumns` returns them, for
+ * small-cell suppression.
+ */
+export function perDayQuery(
+  q: QueryBuilder,
+  ctx: CompileContext,
+  metric: Metric,
+  keys: readonly { sql: string; alias: string }[],
+  from: string,
+  where: string,
+): { body: string; columns: string[] } {
+  const d = q.dialect;
+  const day = localDateExpr(q, ctx);
+  const columns = [
+    `${d.toDouble('COUNT(*)')} AS tc_days`,
+    `${d.toDouble('SUM(tc_day_value)')} AS tc_sx`,
+    `${d.toDouble('SUM(tc_day_value * tc_day_value)')} AS tc_sxx`,
+    `${d.toDouble('SUM(tc_day_value)')} AS tc_value`,
+    `${d.toDouble('SUM(tc_day_rows)')} AS tc_rows`,
+  ];
+  const inner = `SELECT ${keys.map((k) => `${k.sql} AS ${k.alias}`).join(', ')},
+    ${day} AS tc_day,
+    ${d.toDouble(measureSql(q, ctx, metric))} AS tc_day_value,
+    ${rowCountSql(q, ctx)} AS tc_day_rows
+  FROM ${from}
+  WHERE ${where}
+  GROUP BY ${keys.map((_, i) => String(i + 1)).join(', ')}, ${keys.length + 1}`;
+  const aliases = keys.map((k) => k.alias).join(', ');
+  return {
+    body: `SELECT ${aliases},
+  ${columns.join(',\n  ')}
+FROM (
+  ${inner}
+) tc_daily
+GROUP BY ${aliases}`,
+    columns,
+  };
 }
 
 /** A sum or count metric as the per-row part of its total (so Σ part = the metric); null for other types. */
@@ -251,6 +316,11 @@ export function planFor(q: QueryBuilder, ctx: CompileContext, metric: Metric): M
   return planMeasure(ctx.rollup ? new QueryBuilder(q.dialect) : q, ctx.dataset, metric);
 }
 
+/** As `planFor`, for a comparison between groups (`planComparison`). */
+export function comparisonPlanFor(q: QueryBuilder, ctx: CompileContext, metric: Metric): MeasurePlan {
+  return planComparison(ctx.rollup ? new QueryBuilder(q.dialect) : q, ctx.dataset, metric);
+}
+
 /**
  * Whether a summary comparison (performance_compare, performance_by_segment) adds up from a
  * day-level rollup: not for money compared as a mean, whose median (and its bootstrap sample)
@@ -271,8 +341,22 @@ export function num(v: CellValue | undefined): number | null {
   return typeof v === 'number' && Number.isFinite(v) ? v : null;
 }
 
-/** Reads a cell from a summary row; a missing row is an empty cell. */
-export function cellFromRow(row: Record<string, CellValue> | undefined, plan: MeasurePlan): Cell {
+/**
+ * Reads a cell from a summary row; a missing row is an empty cell. A per-day plan needs `days`,
+ * the calendar days the row's window spans (its days without a row count as 0); a group with no
+ * row on any day is empty.
+ */
+export function cellFromRow(row: Record<string, CellValue> | undefined, plan: Pick<MeasurePlan, 'kind' | 'additive' | 'perDay'>, days?: number): Cell {
+  if (plan.perDay) {
+    const present = row ? (num(row.tc_days) ?? 0) : 0;
+    if (days === undefined) throw new Error('a count compared per day needs the days of its window');
+    const n = present > 0 ? Math.max(days, present) : 0;
+    if (n === 0) return { kind: 'mean', n: 0, mean: 0, m2: 0 };
+    const sx = num(row?.tc_sx) ?? 0;
+    const mean = sx / n;
+    // Σ(x − mean)² over every day, the days without a row adding mean² each: Σx² − n·mean².
+    return { kind: 'mean', n, mean, m2: Math.max(0, (num(row?.tc_sxx) ?? 0) - n * mean * mean) };
+  }
   const n = row ? (num(row.tc_n) ?? 0) : 0;
   const k = Math.max(0, n - 1);
   switch (plan.kind) {

@@ -292,6 +292,35 @@ export function contrast(terms: readonly { cell: Cell; weight: number }[], confi
 }
 
 /**
+ * A contrast of logs of independent cells, Σ w·log(estimate), as a relative change exp(Σ) − 1:
+ * for difference in differences, (members after / members before) / (others after / others
+ * before) − 1, the effect in a log-linear model of the four cells. Its standard error is from
+ * the delta method, Var(log m) ≈ Var(m) / m², with a normal interval, so the interval and the
+ * p-value agree: the interval leaves out 0 exactly when p < 1 − confidence. Null unless every
+ * estimate is positive with a variance.
+ */
+export function logRatioContrast(terms: readonly { cell: Cell; weight: number }[], confidence: number): { estimate: number; ci: [number, number]; pValue: number; se: number } | null {
+  let log = 0;
+  let variance = 0;
+  for (const { cell, weight } of terms) {
+    const e = cellEstimate(cell);
+    const v = cellVariance(cell);
+    if (e === null || !(e > 0) || v === null) return null;
+    log += weight * Math.log(e);
+    variance += (weight * weight * v.variance) / (e * e);
+  }
+  if (!(variance > 0)) return null;
+  const se = Math.sqrt(variance);
+  const z = normalQuantile(1 - (1 - confidence) / 2, 0, 1);
+  return {
+    estimate: Math.exp(log) - 1,
+    ci: [Math.exp(log - z * se) - 1, Math.exp(log + z * se) - 1],
+    pValue: Math.min(1, 2 * normalCdf(-Math.abs(log / se), 0, 1)),
+    se,
+  };
+}
+
+/**
  * Interval for the ratio of two independent means m1/m2 with standard errors se1, se2, by the
  * delta method on the log scale (keeps the interval positive); null unless both means are positive.
  */
