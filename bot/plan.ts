@@ -1,5 +1,6 @@
 // From a complete brief to a plan of sub-questions (each request kind through its lenses),
 // shaped by the audience and capped in size, and the plan edits a requester can type.
+import { isDeepStrictEqual } from 'node:util';
 import type { ComparisonGroup, DatasetConfig } from '../config/schema.js';
 import { firstBreakdownDimension, isAdditive, isBreakdownDimension, metricByName, plainCountMetric } from '../analysis/catalog.js';
 import type { Coverage } from '../analysis/coverage.js';
@@ -66,7 +67,12 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
     // Kind and lens are the sub-question's own (its declaration in the registry).
     const add = (template: TemplateName, metric: string, headline: boolean, extra: Partial<SubQuestion> = {}, window: DateWindow = span) => {
       const { kind, lens } = SUB_QUESTIONS[template];
-      drafts.push({ kind, lens, template, metrics: [metric], grain, window, filters: [], headline, ...shared, ...extra });
+      const draft: Draft = { kind, lens, template, metrics: [metric], grain, window, filters: [], headline, ...shared, ...extra };
+      // Two questions that come to the same thing ("how has it moved? the busiest months?") share
+      // their items: one asks nothing the other does not (issue 17 item 11).
+      const twin = drafts.find((d) => sameItem(d, draft));
+      if (twin) twin.headline ||= headline;
+      else drafts.push(draft);
     };
     // "Did phone grow faster than kiosk": the two values set against each other head the question's answers.
     const contrast = q.contrast && q.contrast.values.length === 2 && isBreakdownDimension(ds, q.contrast.dimension) ? q.contrast : null;
@@ -162,6 +168,13 @@ function addPeriodTables(drafts: Draft[], q: Question, brief: Brief, metrics: st
     const { kind, lens } = SUB_QUESTIONS.period_table;
     drafts.push({ kind, lens, template: 'period_table', metrics: chunk, grain, window, filters: [], ...shared, headline: true, first: true });
   }
+}
+
+/** Whether two drafts would compute the same thing: everything but whether either heads its question. */
+function sameItem(a: Draft, b: Draft): boolean {
+  const { headline: _a, first: _fa, ...x } = a;
+  const { headline: _b, first: _fb, ...y } = b;
+  return isDeepStrictEqual(x, y);
 }
 
 function monthsIn(w: DateWindow): number {

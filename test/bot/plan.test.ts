@@ -52,6 +52,18 @@ describe('plans', () => {
     expect(plan.items[0]).toMatchObject({ template: 'series', kind: 'trend', lens: 'time_pattern' });
   });
 
+  it('plans no item twice when two questions come to the same thing (issue 17 item 11)', () => {
+    // Two sentences, both read as a trend of the same measure over the same period.
+    const twice = withDefaults(readRequest('How has revenue moved over time, month by month? We want to see the busiest and quietest months.'), briefDefaults(readRequest('How has revenue moved over time, month by month?'), exampleDataset, coverage));
+    const plan = buildPlan(twice, exampleDataset, coverage);
+    const keys = [...plan.items, ...plan.leftOut].map(({ id: _id, ...sq }) => JSON.stringify(sq, Object.keys(sq).sort()));
+    expect(keys.length).toBeGreaterThan(1);
+    expect(new Set(keys).size).toBe(keys.length);
+    // The whole set of answers is still planned: the one question's are all there.
+    const once = buildPlan(withDefaults(readRequest('How has revenue moved over time, month by month?'), briefDefaults(readRequest('How has revenue moved over time, month by month?'), exampleDataset, coverage)), exampleDataset, coverage);
+    expect(plan.items.map((sq) => sq.template)).toEqual(expect.arrayContaining(once.items.map((sq) => sq.template)));
+  });
+
   it('reads edits: drop, grain, go, cancel', () => {
     expect(readPlanEdit('drop 1 and 3')).toEqual({ type: 'drop', numbers: [1, 3] });
     expect(readPlanEdit('make it weekly')).toEqual({ type: 'grain', grain: 'week' });
