@@ -84,6 +84,8 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
     presentAnswer,
     presentSummary,
     jobs: pLimit(config.conversation.max_concurrent_jobs),
+    // The config's reminder and deadline-warning times (README: conversation).
+    timings: { remindAfterMs: config.conversation.remind_after_minutes * 60_000, deadlineWarningMs: config.conversation.deadline_warning_hours * 3_600_000 },
     ...(queue ? { queue } : {}),
     replica: backend.replica,
   });
