@@ -68,7 +68,7 @@ export interface BriefDefaults {
   breakdown?: { value: string; reason: string };
 }
 
-const AUDIENCE_CHOICES: CardChoice[] = (['leadership', 'managers', 'analysts'] as const).map((a) => ({ value: `for ${a}`, label: `${AUDIENCE_LABELS[a].label} (${AUDIENCE_LABELS[a].detail})` }));
+const AUDIENCE_CHOICES: CardChoice[] = (['leadership', 'managers', 'analysts'] as const).map((a) => ({ value: `for ${a}`, label: AUDIENCE_LABELS[a].label }));
 
 export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard {
   const ds = ctx.dataset;
@@ -136,7 +136,8 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
   const notes: string[] = [];
   if (brief.anchor && brief.anchor.why !== 'today') notes.push(`Periods like "last month" count back from ${longDate(brief.anchor.today, ctx.locale)}: ${brief.anchor.why}.`);
   return {
-    questions: brief.questions.map((q) => restate(q, ds, ctx)),
+    // Two questions read as the same thing are restated once (their plan items are shared too).
+    questions: [...new Set(brief.questions.map((q) => restate(q, ds, ctx)))],
     lines,
     // The plan's headings and numbered items; its date readings and edit help are the card's own lines.
     plan: planLines(plan, ds, ctx.locale),

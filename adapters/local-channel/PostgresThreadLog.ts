@@ -123,14 +123,14 @@ export class PostgresThreadLog implements LocalThreadLog {
   }
 
   async list(): Promise<ThreadSummary[]> {
-    // The tail: from the last bot message offering something to click (or the last message), for `waiting`.
+    // The tail: from the last bot message offering something to click or naming a stage (or the last message), for `waiting` and `stage`.
     const messages = this.table('local_messages');
     const r = await this.pool.query<ThreadRow & { message_count: number; tail: LocalMessage[] | null }>(
       `SELECT t.id, t.title, t.author, t.created_at,
               (SELECT count(*)::int FROM ${messages} m WHERE m.thread_id = t.id) AS message_count,
               (SELECT json_agg(m.message ORDER BY m.position) FROM ${messages} m WHERE m.thread_id = t.id AND m.position >= COALESCE(
                  (SELECT max(x.position) FROM ${messages} x WHERE x.thread_id = t.id AND (x.message->>'fromBot')::boolean
-                    AND (x.message->'prompt' IS NOT NULL OR x.message->'quickReplies' IS NOT NULL OR x.message->'controls' IS NOT NULL)),
+                    AND (x.message->'prompt' IS NOT NULL OR x.message->'quickReplies' IS NOT NULL OR x.message->'controls' IS NOT NULL OR x.message->'kind' IS NOT NULL)),
                  (SELECT max(y.position) FROM ${messages} y WHERE y.thread_id = t.id))) AS tail
        FROM ${this.table('local_threads')} t ORDER BY t.created_at DESC, t.id`,
     );

@@ -6,6 +6,7 @@ import { randomBytes } from 'node:crypto';
 import type { FileKind, OutgoingFile, OutgoingPost, PostControl } from '../../bot/port.js';
 import type { SqlSession } from '../../bot/thread-state.js';
 import { postControls, promptView, quickReplies, type PostContent, type PromptView, type QuickReply } from '../post-view.js';
+import { postKind, stageOf, type PostKind, type ThreadStage } from './thread-stage.js';
 
 export interface LocalFile {
   id: string;
@@ -31,6 +32,8 @@ export interface LocalMessage {
   quickReplies?: QuickReply[];
   /** The brief card's controls (a select per topic, a date). */
   controls?: PostControl[];
+  /** What a bot post is (the brief card, a run's summary...), for the thread's stage; see thread-stage.ts. */
+  kind?: PostKind;
   files: LocalFile[];
   createdAt: string;
   updatedAt?: string;
@@ -62,6 +65,8 @@ export interface ThreadSummary {
   messageCount: number;
   /** A bot message still waits for the requester's answer (see `openMessage`). */
   waiting: boolean;
+  /** Where the request stands (see thread-stage.ts). */
+  stage: ThreadStage;
 }
 
 export type LocalEventListener = (event: LocalEvent) => void;
@@ -106,7 +111,8 @@ export function personMessage(author: string, text: string, at: string, label?: 
 /** The bot's post as a message, and its attachments to store beside it. */
 export function botMessage(post: OutgoingPost, botName: string, at: string): { message: LocalMessage; files: StoredFile[] } {
   const files = (post.files ?? []).map(storedFile);
-  const message: LocalMessage = { id: newId(), author: botName, fromBot: true, text: post.text, ...interactive(post), files: files.map((f) => f.file), createdAt: at };
+  const kind = postKind(post.key);
+  const message: LocalMessage = { id: newId(), author: botName, fromBot: true, text: post.text, ...interactive(post), ...(kind ? { kind } : {}), files: files.map((f) => f.file), createdAt: at };
   return { message, files };
 }
 
@@ -155,7 +161,7 @@ function offers(m: LocalMessage): boolean {
   return Boolean(m.prompt || m.quickReplies?.length || m.controls?.length);
 }
 
-/** A summary of a thread from its last messages: at least the last, and from the last one offering something to click. */
+/** A summary of a thread from its last messages: at least the last, and from the last one offering something to click or naming a stage. */
 export function summaryOf(t: Omit<LocalThreadView, 'messages'>, messageCount: number, tail: readonly LocalMessage[]): ThreadSummary {
   const last = tail.at(-1);
   return {
@@ -166,6 +172,7 @@ export function summaryOf(t: Omit<LocalThreadView, 'messages'>, messageCount: nu
     updatedAt: last?.updatedAt ?? last?.createdAt ?? t.createdAt,
     messageCount,
     waiting: openMessage(tail) !== undefined,
+    stage: stageOf(tail),
   };
 }
 

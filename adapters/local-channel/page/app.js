@@ -59,11 +59,6 @@ function time(iso) {
   return el('time', { datetime: iso, title: d.toLocaleString() }, d.toLocaleTimeString([], { hour: '2-digit', minute: '2-digit' }));
 }
 
-function initials(name) {
-  const parts = name.trim().split(/\s+/).filter(Boolean);
-  return (parts.length > 1 ? parts[0][0] + parts[1][0] : (parts[0] ?? '?')[0]).toUpperCase();
-}
-
 function size(bytes) {
   return bytes < 1024 ? `${bytes} B` : bytes < 1048576 ? `${(bytes / 1024).toFixed(1)} KB` : `${(bytes / 1048576).toFixed(1)} MB`;
 }
@@ -115,15 +110,39 @@ function refreshList() {
           {},
           el(
             'a',
-            { href: `#/t/${encodeURIComponent(t.id)}`, 'aria-current': t.id === state.threadId ? 'page' : null },
+            { class: 'req', href: `#/t/${encodeURIComponent(t.id)}`, 'aria-current': t.id === state.threadId ? 'page' : null, 'data-stage': t.stage },
             el('span', { class: 't-title', text: t.title || 'Untitled request' }),
-            el('span', { class: 't-meta' }, t.author ? `${t.author} · ` : '', time(t.createdAt), t.waiting ? el('span', { class: 't-waiting', text: 'waiting for you' }) : null),
+            el('span', { class: 't-meta' }, el('span', { text: t.author || 'someone' }), time(t.createdAt), t.waiting ? el('span', { class: 't-waiting', text: 'waiting for you' }) : null),
+            stageTrack(t.stage),
           ),
         ),
       ),
     );
     $('no-threads').hidden = threads.length > 0;
+    const open = threads.find((t) => t.id === state.threadId);
+    if (open) $('thread-stage').replaceWith(stageTrack(open.stage, 'thread-stage'));
   }, 80);
+}
+
+// Where a request stands; the server names it (thread-stage.ts). A cancelled one is "closed".
+const STAGES = [
+  ['asking', 'asking'],
+  ['plan', 'plan'],
+  ['running', 'running'],
+  ['done', 'done'],
+];
+
+/** The four steps of a request, those passed ticked and the current one filled. */
+function stageTrack(stage, id) {
+  const closed = stage === 'closed';
+  const at = STAGES.findIndex(([s]) => s === stage);
+  const track = el(
+    'ol',
+    { class: `stages${closed ? ' closed' : ''}`, id, 'aria-label': `Stage: ${closed ? 'closed' : stage}`, 'data-stage': stage },
+    STAGES.map(([s, label], i) => el('li', { class: i < at ? 'past' : i === at ? `now ${s}` : null, 'aria-current': i === at ? 'step' : null, text: label })),
+    closed ? el('li', { class: 'closed-note', text: 'cancelled' }) : null,
+  );
+  return track;
 }
 
 // ---------- one message ----------
@@ -136,9 +155,9 @@ function renderMessage(m, index) {
   const body = el(
     'div',
     { class: 'body' },
-    el('div', { class: 'meta' }, el('span', { class: 'author', text: m.author }), time(m.createdAt), m.updatedAt ? el('span', { class: 'edited', text: 'updated' }) : null),
     el('div', { class: 'text' }, renderText(m.prompt ? m.prompt.lead : (m.label ?? m.text))),
   );
+  const meta = el('div', { class: 'meta' }, el('span', { class: 'author', text: m.author }), time(m.createdAt), m.updatedAt ? el('span', { class: 'edited', text: 'updated' }) : null);
   if (m.prompt) body.append(renderPrompt(m.prompt));
   if (m.controls) body.append(renderControls(m.controls));
   if (m.quickReplies) {
@@ -155,7 +174,7 @@ function renderMessage(m, index) {
           el(
             'figure',
             {},
-            el('a', { href: f.url, target: '_blank', rel: 'noopener', title: 'Open full size' }, el('img', { src: f.url, alt: `Chart: ${f.name}`, width: f.width, height: f.height, loading: 'lazy' })),
+            el('button', { type: 'button', class: 'open-chart', title: 'Open the chart full-screen', onclick: () => showChart(f) }, el('img', { src: f.url, alt: `Chart: ${f.name}`, width: f.width, height: f.height, loading: 'lazy' })),
             el('figcaption', {}, el('span', { text: f.name }), el('a', { href: f.url, download: f.name, text: 'Download PNG' })),
           ),
         ),
@@ -173,8 +192,46 @@ function renderMessage(m, index) {
       ),
     );
   }
-  const avatar = el('span', { class: 'avatar', 'aria-hidden': 'true', text: m.fromBot ? 'tc' : initials(m.author) });
-  return el('article', { class: `msg ${m.fromBot ? 'bot' : 'person'}${isRequest ? ' request' : ''}`, 'data-id': m.id }, avatar, body);
+  return el('article', { class: `msg ${m.fromBot ? 'bot' : 'person'}${isRequest ? ' request' : ''}`, 'data-id': m.id, 'data-kind': m.kind }, meta, body);
+}
+
+// ---------- a chart full-screen ----------
+
+function showChart(f) {
+  const view = $('chart-view');
+  const img = $('chart-view-img');
+  img.onload = () => fitChart();
+  img.src = f.url;
+  img.alt = `Chart: ${f.name}`;
+  $('chart-view-name').textContent = f.name;
+  $('chart-view-png').href = f.url;
+  view.showModal();
+  fitChart();
+  $('chart-view-close').focus();
+}
+
+/**
+ * A wide chart on an upright phone screen is drawn turned a quarter, as large as the screen's
+ * height allows: read with the phone turned, it is about twice the size it would be upright.
+ */
+function fitChart() {
+  const view = $('chart-view');
+  const img = $('chart-view-img');
+  const body = img.parentElement;
+  const aspect = (img.naturalWidth || 16) / (img.naturalHeight || 9);
+  const w = body.clientWidth - 16;
+  const h = body.clientHeight - 16;
+  const turn = view.open && h > w * 1.3 && aspect > 1.2 && Math.min(h, w * aspect) > w * 1.25;
+  img.classList.toggle('turned', turn);
+  view.classList.toggle('is-turned', turn);
+  if (turn) {
+    const long = Math.min(h, w * aspect);
+    img.style.width = `${Math.floor(long)}px`;
+    img.style.height = `${Math.floor(long / aspect)}px`;
+  } else {
+    img.style.width = '';
+    img.style.height = '';
+  }
 }
 
 /** An ISO day in words, as the server says it in a reply's label ("Thu 10 Dec 2026"). */
@@ -297,6 +354,20 @@ function refreshActive() {
   // The bot owes a reply when a person spoke last.
   const last = ordered.at(-1);
   $('working').hidden = !last || last.fromBot;
+  placeReply(open);
+}
+
+/** The reply box goes under the entry waiting for an answer, else after the last entry. */
+function placeReply(open) {
+  const under = open ? state.nodes.get(open.id) : undefined;
+  for (const n of state.nodes.values()) n.classList.toggle('waiting', n === under);
+  $('reply-label').textContent = !open ? 'Your reply' : open.prompt ? 'Your answer, if none of the choices above' : open.controls?.length ? 'Go, or change the plan in your own words' : 'Your reply';
+  const form = $('reply-form');
+  const after = under ?? $('working');
+  if (form.previousElementSibling === after) return;
+  const hadFocus = document.activeElement === $('reply-text');
+  after.after(form);
+  if (hadFocus) $('reply-text').focus();
 }
 
 function upsert(m) {
@@ -309,10 +380,9 @@ function upsert(m) {
   else $('messages').append(node);
   state.nodes.set(m.id, node);
   refreshActive();
-  if (!known) {
-    node.scrollIntoView({ block: 'nearest', behavior: matchMedia('(prefers-reduced-motion: reduce)').matches ? 'auto' : 'smooth' });
-    refreshList();
-  }
+  // An edit moves the stage too (a card agreed is running).
+  refreshList();
+  if (!known) node.scrollIntoView({ block: 'nearest', behavior: matchMedia('(prefers-reduced-motion: reduce)').matches ? 'auto' : 'smooth' });
 }
 
 // ---------- views ----------
@@ -325,6 +395,9 @@ function openThread(id) {
   $('messages').replaceChildren();
   $('compose-view').hidden = true;
   $('thread-view').hidden = false;
+  document.body.classList.add('in-thread');
+  $('thread-view').append($('reply-form'));
+  $('thread-stage').replaceWith(stageTrack('asking', 'thread-stage'));
   $('working').hidden = true;
   // The thread's own address, stable across restarts (thread ids are kept with the thread log).
   $('thread-link').href = `${location.origin}${location.pathname}#/t/${encodeURIComponent(id)}`;
@@ -342,6 +415,7 @@ function openCompose() {
   state.threadId = null;
   $('thread-view').hidden = true;
   $('compose-view').hidden = false;
+  document.body.classList.remove('in-thread');
   refreshList();
   $('request-text').focus();
 }
@@ -396,5 +470,9 @@ $('author').value = localStorage.getItem('threadcount.author') || 'you';
 $('author').addEventListener('change', () => localStorage.setItem('threadcount.author', author()));
 submitOnEnter($('request-text'), $('request-form'));
 submitOnEnter($('reply-text'), $('reply-form'));
+$('chart-view-close').addEventListener('click', () => $('chart-view').close());
+// A click on the dark edge around the chart closes it too; Escape closes a dialog by itself.
+$('chart-view').addEventListener('click', (e) => e.target === $('chart-view') && $('chart-view').close());
+window.addEventListener('resize', () => $('chart-view').open && fitChart());
 window.addEventListener('hashchange', route);
 route();
