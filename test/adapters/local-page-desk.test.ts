@@ -44,10 +44,30 @@ const botCount = (page: Page) => page.locator('#messages article.bot').count();
 
 /** The open request's stage, on its card on the desk and above the thread (the same). */
 async function waitForStage(page: Page, stage: string, timeout = 60_000): Promise<void> {
-  await page.waitForFunction((s) => document.querySelector('#thread-stage')?.getAttribute('data-stage') === s, stage, { timeout });
-  expect(await page.locator('#thread-stage li[aria-current="step"]').innerText()).toMatch(new RegExp(stage, 'i'));
   // On a phone the desk is hidden in a thread; its card carries the stage all the same.
-  expect(await page.locator('#thread-list a.req[aria-current="page"]').getAttribute('data-stage')).toBe(stage);
+  await page.waitForFunction(
+    (s) =>
+      document.querySelector('#thread-stage')?.getAttribute('data-stage') === s &&
+      document.querySelector('#thread-stage li[aria-current="step"]')?.textContent === s &&
+      document.querySelector('#thread-list a.req[aria-current="page"]')?.getAttribute('data-stage') === s,
+    stage,
+    { timeout },
+  );
+}
+
+/** Records each stage the open request's card shows, from now on. */
+async function watchStages(page: Page): Promise<() => Promise<string[]>> {
+  await page.evaluate(() => {
+    const seen: string[] = [];
+    (window as unknown as { seenStages: string[] }).seenStages = seen;
+    const note = () => {
+      const s = document.querySelector('#thread-list a.req[aria-current="page"]')?.getAttribute('data-stage');
+      if (s && seen.at(-1) !== s) seen.push(s);
+    };
+    note();
+    new MutationObserver(note).observe(document.querySelector('#thread-list')!, { subtree: true, childList: true, attributes: true });
+  });
+  return () => page.evaluate(() => (window as unknown as { seenStages: string[] }).seenStages);
 }
 
 async function say(page: Page, text: string): Promise<void> {
@@ -119,11 +139,12 @@ async function walk(browser: Browser, width: number): Promise<void> {
     expect(await overflow(page)).toBeLessThanOrEqual(0);
 
     // Go: running, then done.
+    const stages = await watchStages(page);
     await card.getByRole('button', { name: /^Go/ }).click();
-    await waitForStage(page, 'running');
-    expect(await card.getByRole('button', { name: /^Go/ }).count()).toBe(0);
     await page.waitForFunction(() => [...document.querySelectorAll<HTMLImageElement>('.charts img')].some((img) => img.complete && img.naturalWidth > 0), undefined, { timeout: 180_000 });
     await waitForStage(page, 'done', 240_000);
+    expect(await card.getByRole('button', { name: /^Go/ }).count()).toBe(0);
+    expect(await stages()).toEqual(['plan', 'running', 'done']);
     await shot(page, `${tag}-05-done-full.png`, true);
     expect(await overflow(page), 'the finished thread is wider than the screen').toBeLessThanOrEqual(0);
 
