@@ -14,6 +14,7 @@ import type { IncomingMessage, ThreadPort } from './port.js';
 import { Posting } from './Posting.js';
 import type { AnswerPresenter, SummaryPresenter } from './presenters.js';
 import type { RunQueue, RunRef } from './queue/RunQueue.js';
+import { isDue } from './rerun-schedule.js';
 import { RunOrchestrator } from './RunOrchestrator.js';
 import type { StepContext } from './Step.js';
 import { ThreadDatasets } from './ThreadDatasets.js';
@@ -103,12 +104,17 @@ export class Bot {
     return this.runs.idle();
   }
 
-  /** Periodic check: remind a requester who has not answered, warn when a deadline nears unagreed. */
+  /** Periodic check: remind a requester who has not answered, warn when a deadline nears unagreed, start scheduled reruns that are due. */
   async tick(): Promise<void> {
     const now = this.deps.now().getTime();
     const t = this.deps.timings ?? DEFAULT_TIMINGS;
     for (const listed of await this.deps.store.list({ stages: ['clarifying', 'planning'] })) {
       await this.serial.run(listed.threadId, () => this.conversation.checkWaiting(listed.threadId, now, t));
+    }
+    // Finished threads whose scheduled rerun is due (checked again under the thread's lock).
+    const at = new Date(now);
+    for (const listed of await this.deps.store.list({ stages: ['done', 'cancelled'] })) {
+      if (isDue(listed.schedule, at)) await this.serial.run(listed.threadId, () => this.conversation.runDue(listed.threadId, at));
     }
   }
 }

@@ -11,6 +11,8 @@ import { whoOf, type Who } from './AuditLog.js';
 import type { Brief } from './brief.js';
 import { readCommand, type Command } from './commands.js';
 import { readRequest } from './reading/read-request.js';
+import { readSchedule, type ScheduleRequest } from './reading/schedule.js';
+import { isDue, nextDueAfter } from './rerun-schedule.js';
 import { changesSomething, readCorrection, type Correction } from './reading/corrections.js';
 import { buildCard, cardControls, cardText } from './card.js';
 import { applyCorrection, planFor } from './card-edits.js';
@@ -82,6 +84,28 @@ export class Conversation {
       }
     }
     if (said) await step.commit(state);
+  }
+
+  /**
+   * Starts a finished thread's scheduled rerun when it is due. The next due time moves on in the
+   * same commit that starts the run, under the thread's lock: a replica that takes the lock after
+   * finds nothing due, so each due time runs once. Due times missed while down run once, late.
+   */
+  async runDue(threadId: string, now: Date): Promise<void> {
+    const state = await this.deps.store.get(threadId);
+    if (!state || (state.stage !== 'done' && state.stage !== 'cancelled') || !state.plan || !isDue(state.schedule, now)) return;
+    const step = new Step(this.deps.steps, whoOf(state), state);
+    const schedule = { ...state.schedule, nextDue: nextDueAfter(state.schedule.cron, state.schedule.timeZone, now).toISOString() };
+    state.schedule = schedule;
+    try {
+      await refreshCoverage(this.deps.datasets.of(state));
+    } catch (err) {
+      step.say('note', replies.rerunFailed(err));
+      await step.commit(state);
+      return;
+    }
+    step.say('rerun', replies.scheduledRerun(schedule));
+    await step.commit(this.agreed(step, state, state.plan, (state.run?.number ?? 0) + 1));
   }
 
   /** Whether the audit log shows this message as received in the thread (its first write when handled). */
@@ -316,6 +340,8 @@ export class Conversation {
    * nothing again; a new question gets a card of its own, keeping what the thread settled.
    */
   private onFollowUp(step: Step, state: ThreadState, text: string): ThreadState {
+    const scheduling = readSchedule(text);
+    if (scheduling) return this.onSchedule(step, state, scheduling);
     const c = this.correction(state, text);
     if (c.agree || c.cancel) {
       step.say('note', replies.finished());
@@ -342,6 +368,29 @@ export class Conversation {
       return this.advance(step, thread);
     }
     step.say('note', replies.finished());
+    return state;
+  }
+
+  /** "every Monday at 9", "stop the schedule", "when does it run?" on a finished thread. */
+  private onSchedule(step: Step, state: ThreadState, asked: ScheduleRequest): ThreadState {
+    if (asked.kind === 'ask') {
+      step.say('schedule', replies.scheduleTold(state.schedule));
+      return state;
+    }
+    if (asked.kind === 'stop') {
+      step.say('schedule', replies.scheduleStopped(state.schedule));
+      delete state.schedule;
+      return state;
+    }
+    if (!('plan' in state && state.plan)) {
+      step.say('schedule', replies.nothingToRerun());
+      return state;
+    }
+    const configured = this.deps.datasets.of(state).dataset.timezone;
+    const timeZone = configured || 'UTC';
+    const { cron, words, assumed } = asked.schedule;
+    state.schedule = { cron, words, timeZone, nextDue: nextDueAfter(cron, timeZone, this.deps.now()).toISOString() };
+    step.say('schedule', replies.scheduleSet(state.schedule, assumed, !!configured));
     return state;
   }
 

@@ -271,3 +271,31 @@ export function nothingToRerun(): string {
 function clip(s: string, n: number): string {
   return s.length > n ? `${s.slice(0, n - 3)}...` : s;
 }
+
+// ---- scheduled reruns (bot/reading/schedule.ts reads them, bot/rerun-schedule.ts keeps them) ----
+
+/** A due time said in the schedule's own zone: "Mon 7 Dec 2026, 09:00". */
+function dueInWords(iso: string, timeZone: string): string {
+  const f = new Intl.DateTimeFormat('en-GB', { weekday: 'short', day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit', hourCycle: 'h23', timeZone });
+  return f.format(new Date(iso)).replace(/^(\w+),/, '$1').replace(/ at /, ', ');
+}
+
+export function scheduleSet(s: { words: string; timeZone: string; nextDue: string }, assumed: string[], zoneFromConfig: boolean): string {
+  const zone = zoneFromConfig ? `time zone ${s.timeZone}, the dataset's configured one` : 'time zone UTC, as none is configured';
+  const read = [zone, ...assumed].join('; ');
+  return `I will rerun this ${s.words} ${s.timeZone} on fresh data and post the answers in this thread; the first is due ${dueInWords(s.nextDue, s.timeZone)}. Say "stop the schedule" to end it.\n_Assumed: ${read}._`;
+}
+
+export function scheduleTold(s: { words: string; timeZone: string; nextDue: string } | undefined): string {
+  if (!s) return 'This thread has no schedule. Say when to rerun it, e.g. "every Monday at 9".';
+  return `This thread reruns ${s.words} ${s.timeZone}; the next is due ${dueInWords(s.nextDue, s.timeZone)}. Say "stop the schedule" to end it.`;
+}
+
+export function scheduleStopped(s: { words: string; timeZone: string } | undefined): string {
+  if (!s) return 'This thread has no schedule to stop.';
+  return `Stopped: this thread no longer reruns ${s.words} ${s.timeZone}. Say "rerun" to run it once more now.`;
+}
+
+export function scheduledRerun(s: { words: string; timeZone: string }): string {
+  return `Scheduled rerun (${s.words} ${s.timeZone}) on fresh data. Say "stop the schedule" to end the schedule.`;
+}

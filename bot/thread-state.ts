@@ -5,6 +5,7 @@ import type { Plan } from './plan.js';
 import type { Prompt } from './prompts.js';
 import type { Takeaway } from '../analysis/present/presenter.js';
 import type { OutgoingPost } from './port.js';
+import type { RerunSchedule } from './rerun-schedule.js';
 
 export interface RunProgress {
   /** 1 for the first run; "rerun" starts the next, whose posts get fresh keys. */
@@ -47,6 +48,8 @@ export interface ThreadCommon {
   deadlineWarned?: boolean;
   /** Plan items the requester dropped, by what they are (bot/card-edits.ts): kept out of rebuilt plans and reruns. */
   dropped?: string[];
+  /** Reruns on a schedule the requester set on the finished thread (bot/rerun-schedule.ts). */
+  schedule?: RerunSchedule;
   updatedAt: string;
 }
 
@@ -109,6 +112,7 @@ const COMMON_FIELDS = {
   remindedAtTurn: true,
   deadlineWarned: true,
   dropped: true,
+  schedule: true,
   updatedAt: true,
 } satisfies Record<keyof ThreadCommon, true>;
 
