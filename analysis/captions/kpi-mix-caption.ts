@@ -40,7 +40,7 @@ export function kpiMixWords(f: KpiMixFinding, metric: Metric, ds: DatasetConfig,
   const sentences: string[] = [];
   const segs = formatValue(f.segments.filter((s) => s.value > 0).length, { unit: 'count', locale });
   if (f.countToThreshold !== null) {
-    const reached = f.segments.slice(0, f.countToThreshold).reduce((a, r) => a + (r.share ?? 0), 0);
+    const reached = f.shareToThreshold ?? f.segments.slice(0, f.countToThreshold).reduce((a, r) => a + (r.share ?? 0), 0);
     sentences.push(`In ${when} the top ${formatValue(f.countToThreshold, { unit: 'count', locale })} of ${segs} ${pluralOf(dimLabel)} carried ${pct(reached)} of ${of}.`);
   }
   if (f.shareOf !== metric.name && audience !== 'leadership') {

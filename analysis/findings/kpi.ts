@@ -116,6 +116,8 @@ export interface KpiMixFinding {
   lastYearTotal: number | null;
   /** Fewest segments reaching `threshold` of the total; null when shares are undefined. */
   countToThreshold: number | null;
+  /** The share those `countToThreshold` largest segments carry together (named rows only, largest first). */
+  shareToThreshold?: number | null;
   threshold: number;
   /** Herfindahl–Hirschman index, 0–10,000; null when shares are undefined. */
   hhi: number | null;

@@ -183,6 +183,7 @@ export function readKpiMix(sq: SubQuestion, table: ResultTable, dataset: Dataset
       total: current.reduce((a, v) => a + v, 0),
       lastYearTotal: p ? previous.reduce((a, v) => a + v, 0) : null,
       countToThreshold: c.kind === 'ok' ? c.countToThreshold : null,
+      shareToThreshold: c.kind === 'ok' ? segments.slice(0, c.countToThreshold).reduce((a, r) => a + (r.share ?? 0), 0) : null,
       threshold: MIX_THRESHOLD,
       hhi: c.kind === 'ok' ? c.hhi : null,
       lastYearHhi: p?.kind === 'ok' ? p.hhi : null,
