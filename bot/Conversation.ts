@@ -131,9 +131,13 @@ export class Conversation {
         return state.prompt.topic === 'dataset' ? this.onDatasetAnswer(step, state, msg.text, sender) : this.onAnswer(step, state, msg.text);
       case 'planning':
         return this.onPlanReply(step, state, msg.text);
-      case 'running':
+      case 'running': {
+        // A scheduled rerun under way can still be asked about or stopped.
+        const scheduling = readSchedule(msg.text);
+        if (scheduling && scheduling.kind !== 'set') return this.onSchedule(step, state, scheduling);
         step.say('note', replies.stillRunning(state));
         return state;
+      }
       case 'done':
       case 'cancelled':
         return this.onFollowUp(step, state, msg.text);

@@ -59,6 +59,10 @@ function scheduled(kindName: string, open: () => Promise<StateStore[]>): void {
       // Due: every bot checks at once; the rerun starts once and posts into the same thread.
       clock = new Date('2026-12-07T09:00:30Z');
       await Promise.all(bots.map((b) => b.tick()));
+      // While it runs, the schedule can be asked about (its next due time has already moved on).
+      expect((await stores[0]!.get('t1'))!.stage).toBe('running');
+      await first!.handle({ threadId: 't1', author: 'maren', text: 'when does it run?' });
+      expect(thread().at(-1)!.text).toMatch(/^This thread reruns every Monday at 09:00 Europe\/Dublin; the next is due Mon 14 Dec 2026, 09:00\./);
       await settle();
       expect(thread().filter((m) => m.text.startsWith('Scheduled rerun (every Monday at 09:00 Europe/Dublin)'))).toHaveLength(1);
       expect(thread().filter((m) => m.key.endsWith(':run2:summary'))).toHaveLength(1);

@@ -1,8 +1,9 @@
-// A scheduled rerun survives a crash: a real `threadcount serve` (state and the local channel's
-// threads in PostgreSQL, where the page's threads outlive the process) takes
+// A scheduled rerun survives a crash and runs once across replicas: a real `threadcount serve`
+// (state and the local channel's threads in PostgreSQL, where the page's threads outlive the
+// process) takes
 // a request to its summary, is told "every day at HH:MM" (a couple of minutes ahead), is killed
-// with SIGKILL, and is started again. The restarted process reruns the plan when due and posts
-// into the same thread, once. Nothing here asserts a duration; the wait is for the clock.
+// with SIGKILL, and is started again beside a second replica on the same database. When due, the
+// plan reruns once (one run started in the audit log, by either replica) into the same thread. Nothing here asserts a duration; the wait is for the clock.
 import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -22,6 +23,7 @@ describeWithPostgres('a schedule across a crash', (pgUrl) => {
   let build: Awaited<ReturnType<typeof buildCli>>;
   let configPath: string;
   let running: Replica | undefined;
+  let second: Replica | undefined;
   const start = (name: string) => startReplica(build.dir, name, configPath, { [STATE_ENV]: pgUrl });
 
   beforeAll(async () => {
@@ -34,6 +36,7 @@ describeWithPostgres('a schedule across a crash', (pgUrl) => {
 
   afterAll(async () => {
     await running?.stop();
+    await second?.stop();
     build?.remove();
     await withClient(pgUrl, async (c) => {
       for (const s of [schema, `${schema}_queue`]) await c.query(`DROP SCHEMA IF EXISTS ${pg.escapeIdentifier(s)} CASCADE`);
@@ -48,7 +51,7 @@ describeWithPostgres('a schedule across a crash', (pgUrl) => {
 
   const messages = async (r: Replica, id: string) => (await api<{ messages: LocalMessage[] }>(r, `/api/threads/${id}`)).messages;
 
-  it('keeps a schedule across a kill -9 and a restart, and the rerun posts into the same thread once', async () => {
+  it('keeps a schedule across a kill -9 and a restart; with two replicas the rerun posts into the same thread once', async () => {
     const zone = (parse(readFileSync(configPath, 'utf8')) as { datasets: { timezone: string }[] }).datasets[0]!.timezone;
     running = await start('A');
     const { threadId } = await api<{ threadId: string }>(running, '/api/threads', { author: 'maren', text: 'How has revenue moved month by month?' });
@@ -79,7 +82,7 @@ describeWithPostgres('a schedule across a crash', (pgUrl) => {
     killed.child.kill('SIGKILL');
     await exited;
     expect(killed.child.signalCode).toBe('SIGKILL');
-    running = await start('A again');
+    [running, second] = await Promise.all([start('A again'), start('B')]);
 
     const restarted = running;
     await waitFor('the scheduled rerun\'s summary', async () => {
@@ -96,6 +99,19 @@ describeWithPostgres('a schedule across a crash', (pgUrl) => {
     expect(Date.parse(rerun[0]!.createdAt)).toBeGreaterThanOrEqual(due.getTime());
     expect(all.filter((m) => m.text.startsWith('*Summary*'))).toHaveLength(2);
     expect(all.filter((m) => m.text.startsWith('*Everything above in one file*'))).toHaveLength(2);
+    // Both replicas checked the schedule; the audit log shows the second run started once.
+    await withClient(pgUrl, async (c) => {
+      const runs = await c.query<{ event: string; number: number }>(
+        `SELECT detail->>'event' AS event, (detail->>'number')::int AS number FROM ${pg.escapeIdentifier(schema)}.audit WHERE thread_id = $1 AND kind = 'run' ORDER BY seq`,
+        [`local:${threadId}`],
+      );
+      expect(runs.rows).toEqual([
+        { event: 'started', number: 1 },
+        { event: 'finished', number: 1 },
+        { event: 'started', number: 2 },
+        { event: 'finished', number: 2 },
+      ]);
+    });
     const told = await api<{ messageId: string }>(restarted, `/api/threads/${threadId}/messages`, { author: 'maren', text: 'when does it run?' });
     expect(told.messageId).toBeTruthy();
     const reply = await waitFor('the schedule told', async () => (await messages(restarted, threadId)).find((m) => m.text.startsWith('This thread reruns')), 60_000);
