@@ -20,7 +20,7 @@ import {
   noTestWords,
   quantityFormat,
   quantityLabel,
-  rowNoun,
+  sampleNoun,
   seriesQuantity,
   statisticText,
   testName,
@@ -33,7 +33,7 @@ export function beforeAfterWords(findings: readonly Finding[], ctx: WordsContext
   const quantity = seriesQuantity(findings, metric);
   const label = quantityLabel(metric, quantity, dataset);
   const fmt = quantityFormat(metric, quantity, locale);
-  const rows = rowNoun(dataset);
+  const rows = sampleNoun(dataset, quantity);
   const m = groupLabel(group, 'members');
   const o = groupLabel(group, 'others');
   const value = (v: number) => formatValue(v, fmt);

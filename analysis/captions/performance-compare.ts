@@ -17,7 +17,8 @@ import {
   noTestWords,
   quantityFormat,
   quantityLabel,
-  rowNoun,
+  sampleNoun,
+  volumeNote,
   statisticText,
   testName,
   type WordsContext, isAre } from './performance-words.js';
@@ -45,7 +46,7 @@ export function compareWords(findings: readonly Finding[], ctx: WordsContext): P
   const quantity = members?.quantity ?? others?.quantity ?? 'metric';
   const label = quantityLabel(metric, quantity, dataset);
   const fmt = quantityFormat(metric, quantity, locale);
-  const rows = rowNoun(dataset);
+  const rows = sampleNoun(dataset, quantity);
   const m = groupLabel(group, 'members');
   const o = groupLabel(group, 'others');
   const lead = win ? periodLead(win, ctx) : 'In the period asked for';
@@ -91,7 +92,8 @@ export function compareWords(findings: readonly Finding[], ctx: WordsContext): P
   const clear = verdict.verdict !== 'no_clear_difference';
   const chance = chancePhrase(diff.pValue, verdict.alpha);
   const goodness =
-    verdict.verdict === 'better' ? ` On this measure that is better for ${inText(m)}.` : verdict.verdict === 'worse' ? ` On this measure that is worse for ${inText(m)}.` : '';
+    volumeNote(quantity, inText(m)) ??
+    (verdict.verdict === 'better' ? ` On this measure that is better for ${inText(m)}.` : verdict.verdict === 'worse' ? ` On this measure that is worse for ${inText(m)}.` : '');
   let caption: string;
   if (audience === 'leadership') {
     caption = `${lead}, ${inText(label)} ${isAre(label)} ${size} for ${inText(m)} ${compareTo} for ${inText(o)} (${both}); ${chance}. This is an observational comparison, not proof of cause.`;

@@ -244,3 +244,16 @@ export function unitsLeftOutSentence(findings: readonly Finding[], ctx: Pick<Wor
   const one = f.units.length === 1;
   return `${countOf(f.units.length, noun, ctx.locale)} ${one ? 'was' : 'were'} not there through the whole period and ${one ? 'is' : 'are'} left out of both groups, so neither changes its make-up: ${list.join('; ')}.`;
 }
+
+/** What the compared n counts: days for a count compared per day, otherwise the dataset's rows. */
+export function sampleNoun(ds: DatasetConfig, quantity: Quantity): { plural: string; singular: string } {
+  return quantity === 'per_day' ? { plural: 'days', singular: 'day' } : rowNoun(ds);
+}
+
+/**
+ * For a count compared per day between two groups: the groups' volumes, not what each member
+ * does, so no better or worse is said of it.
+ */
+export function volumeNote(quantity: Quantity, members: string): string | null {
+  return quantity === 'per_day' ? ` This compares the two groups' daily volumes, not how often each of the ${members} does it.` : null;
+}

@@ -266,6 +266,10 @@ describe('a filtered count compared between groups of sites', () => {
     expect(captionProblems(a, p)).toEqual([]);
     expect(p.title).toMatch(/^Weekday visits per day/);
     expect(`${p.title} ${p.caption}`).not.toMatch(/\b1 against 1\b|\b0 higher\b/);
+    // n counts days, and two groups' daily volumes are not called better or worse.
+    expect(p.caption).toMatch(/over 366 and 366 days/);
+    expect(p.caption).not.toMatch(/better|worse/);
+    expect(p.caption).toMatch(/daily volumes/);
   });
 
   it('per site: each site side per day matches the raw rows', async () => {
