@@ -86,9 +86,10 @@ export const presentSummary: SummaryPresenter = async (takeaways, { workspace, f
 /**
  * Up to four charts for the digest, in the takeaways' order, each showing something the others do
  * not: a chart of the same kind and metric as one already chosen (the monthly line and the trend
- * line over it) is taken only when nothing different is left.
+ * line over it) is left out while two that differ are there, and taken only to avoid a digest of
+ * a single chart (issue 17 item 7: not three near-identical lines).
  */
-function distinctCharts(top: { position: number }[], charts: Map<number, DigestChart>): DigestChart[] {
+export function distinctCharts(top: { position: number }[], charts: Map<number, DigestChart>): DigestChart[] {
   const withChart = top.filter((t) => charts.has(t.position)).map((t) => charts.get(t.position)!);
   const seen = new Set<string>();
   const firstPick: DigestChart[] = [];
@@ -98,5 +99,5 @@ function distinctCharts(top: { position: number }[], charts: Map<number, DigestC
     (seen.has(key) ? later : firstPick).push(c);
     seen.add(key);
   }
-  return [...firstPick, ...later].slice(0, 4);
+  return (firstPick.length >= 2 ? firstPick : [...firstPick, ...later]).slice(0, 4);
 }
