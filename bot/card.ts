@@ -5,7 +5,7 @@
 // correction read by the same reader as typed words.
 import type { Coverage } from '../analysis/coverage.js';
 import { grainAdjective } from '../analysis/grains.js';
-import { GRAINS, type DateWindow, type Grain } from '../analysis/types.js';
+import { GRAINS, type DateWindow, type Grain, type SubQuestion } from '../analysis/types.js';
 import { describeWindow } from '../analysis/window-words.js';
 import { isBreakdownDimension } from '../analysis/catalog.js';
 import type { DatasetConfig } from '../config/schema.js';
@@ -142,9 +142,16 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
     // The plan's headings and numbered items; its date readings and edit help are the card's own lines.
     plan: planLines(plan, ds, ctx.locale),
     items: plan.items.length,
-    leftOut: plan.leftOut.map((sq) => describeSubQuestion(sq, ds, ctx.locale).replace(/\.$/, '')),
+    leftOut: leftOutLines(plan, ds, ctx.locale),
     notes,
   };
+}
+
+/** What the size cap left out, each said once and none that reads as an item still in the plan (issue 17 item 12). */
+function leftOutLines(plan: Plan, ds: DatasetConfig, locale: string): string[] {
+  const say = (sq: SubQuestion) => describeSubQuestion(sq, ds, locale).replace(/\.$/, '');
+  const kept = new Set(plan.items.map(say));
+  return [...new Set(plan.leftOut.map(say))].filter((line) => !kept.has(line));
 }
 
 function periodLine(brief: Brief, ctx: CardContext): CardLine {

@@ -73,6 +73,8 @@ export function readCorrection(text: string, facts: DatasetFacts, now: Date, loc
     rest = rest.replace(/\b(?:all\s+the\s+data|all\s+data|everything|whole\s+history|all\s+time|no\s+date\s+limit)\b/g, ' ');
   }
   if (/\b(?:no|without\s+a|drop\s+the)\s+deadline\b|\bno\s+rush\b(?!.*\bby\b)/.test(rest)) c.deadline = 'none';
+  // "use 2025", "switch to weekly", "make it March 2024 to May 2025 instead": the verb only says a change follows.
+  rest = rest.replace(/^\s*(?:(?:please|pls|ok|okay|and|then|now)[\s,]+)*(?:use|using|switch\s+to|change\s+(?:it\s+)?to|make\s+it|go\s+with)\b|\binstead\b/g, ' ');
   // "add channel", "also by route", "split by channel": breakdowns to add; "without route": to drop.
   const read = readRequest(rest, facts, { now, ...(locale ? { locale } : {}) });
   c.personalData = read.personalData ?? [];

@@ -66,6 +66,34 @@ describe('card controls', () => {
     expect(c.window).toEqual({ window: { start: '2024-01-01', end: '2025-01-01' } });
   });
 
+  it('reads typed period edits as they say (issue 17 item 14), the verb before them not taken as an unknown word', () => {
+    // The example data runs 1 January 2022 to 18 June 2025; windows are end-exclusive (docs/reading.md).
+    expect(read('since march 2024')).toMatchObject({ window: { window: { start: '2024-03-01', end: '2025-06-19' } }, unread: [] });
+    expect(read('use march 2024 to may 2025')).toMatchObject({ window: { window: { start: '2024-03-01', end: '2025-06-01' } }, unread: [] });
+    expect(read('use 2025')).toMatchObject({ window: { window: { start: '2025-01-01', end: '2025-06-19' } }, unread: [] });
+    expect(read('switch to weekly instead')).toMatchObject({ grain: 'week', unread: [] });
+    expect(read('compare 2025 so far with the same months of 2024')).toMatchObject({
+      window: { window: { start: '2025-01-01', end: '2025-06-19' }, compareWindow: { start: '2024-01-01', end: '2024-06-19' } },
+      unread: [],
+    });
+  });
+
+  it('lists as left out only what the plan does not hold, each once (issue 17 item 12), also after an edit', () => {
+    // A leadership brief of two questions and two breakdowns: more than its cap of items.
+    const big = readRequest('for leadership: how have revenue and bookings moved over time by route and channel, and did this summer beat last summer?', exampleFacts, { now: NOW, locale: 'en-IE' });
+    const check = (b: typeof big, dropped: string[]) => {
+      const p = planFor(b, ds, coverage, dropped).plan;
+      const c = buildCard(b, p, { dataset: ds, coverage, locale: 'en-IE', defaults: briefDefaults(b, ds, coverage) });
+      expect(c.leftOut.length).toBeGreaterThan(0);
+      expect(new Set(c.leftOut).size).toBe(c.leftOut.length);
+      for (const line of c.leftOut) expect(c.plan.join('\n')).not.toContain(line);
+      return p;
+    };
+    const p = check(big, []);
+    const edit = applyCorrection(big, read('drop 1, weekly'), p, [], { dataset: ds, coverage, locale: 'en-IE', words: 'drop 1, weekly' });
+    check(edit.brief, edit.dropped);
+  });
+
   it('says back an impossible date and changes nothing', () => {
     const c = read('deadline 2025-02-30');
     expect(c.deadline).toBeUndefined();
