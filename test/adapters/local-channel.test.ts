@@ -74,9 +74,11 @@ describe('local channel HTTP API', () => {
       if (!last.prompt) break;
     }
 
-    const done = await waitFor('the summary', async () => {
+    // The run's last post is the zip of the thread, after the summary: wait for both, so no post
+    // arrives while the events are counted.
+    const done = await waitFor('the summary and the zip', async () => {
       const t = await thread(threadId);
-      return t.messages.some((m) => m.fromBot && m.text.startsWith('*Summary*')) ? t : undefined;
+      return t.messages.some((m) => m.fromBot && m.text.startsWith('*Summary*')) && t.messages.some((m) => m.files.some((f) => f.kind === 'bundle')) ? t : undefined;
     });
     const prompts = done.messages.filter((m) => m.prompt);
     expect(prompts.length).toBeGreaterThan(0);
