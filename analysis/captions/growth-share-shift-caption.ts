@@ -1,5 +1,6 @@
 // Title and caption for a growth_share_shift answer: whose share moved most, and whether the total
 // became more or less concentrated.
+import { addMonths } from '../periods.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { GrowthShareSegment, GrowthShareShiftFinding } from '../findings/growth.js';
 import { formatValue } from '../format.js';
@@ -36,6 +37,8 @@ export function growthShareShiftWords(
       ? `${capitalise(name(top))}'s share of ${lower(label)} ${top.shareChange! > 0 ? 'rose' : 'fell'} ${formatPoints(Math.abs(top.shareChange!), locale).replace(/^\+/, '')} to ${formatShare(top.shareAfter, locale)}`
       : `Shares of ${lower(label)} by ${dimNoun} did not move`;
   const spans = `${spanText(f.current, locale)} against ${spanText(f.prior, locale)}`;
+  // The base is a year earlier unless the request named another period ("2025 against 2023").
+  const earlier = addMonths(f.current.start, -12) === f.prior.start ? 'a year earlier' : 'in the earlier period';
   const hhiText = (v: number | null) => formatValue(v, { unit: 'number', decimals: 0, locale });
   const pct = `${Math.round(f.threshold * 100)}%`;
   const reach = (n: number | null) => (n === null ? 'n/a' : `${n}`);
@@ -50,12 +53,12 @@ export function growthShareShiftWords(
   const sentences: string[] = [];
   const shifts = moved.slice(0, 3).map((s) => `${name(s)} ${formatShare(s.shareAfter, locale)} (${formatPoints(s.shareChange, locale)})`);
   if (audience === 'leadership') {
-    if (hhiMove) sentences.push(`${capitalise(label)} by ${dimNoun} was ${hhiMove} a year earlier (${spans}).`);
+    if (hhiMove) sentences.push(`${capitalise(label)} by ${dimNoun} was ${hhiMove} ${earlier} (${spans}).`);
     sentences.push(`The top ${reach(f.after.countToThreshold)} ${plural(dimNoun, f.after.countToThreshold)} carry ${pct} or more of it.`);
   } else {
     sentences.push(`Shares, ${spans}: ${shifts.join('; ')}.`);
     sentences.push(
-      `${capitalise(reach(f.after.countToThreshold))} ${plural(dimNoun, f.after.countToThreshold)} reach ${pct} of ${lower(label)} now, against ${reach(f.before.countToThreshold)} a year earlier` +
+      `${capitalise(reach(f.after.countToThreshold))} ${plural(dimNoun, f.after.countToThreshold)} reach ${pct} of ${lower(label)} now, against ${reach(f.before.countToThreshold)} ${earlier}` +
         (audience === 'analysts'
           ? `; HHI ${hhiText(f.before.hhi)} → ${hhiText(f.after.hhi)} (0–10,000 scale).`
           : hhiMove

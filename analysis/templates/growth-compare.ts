@@ -13,6 +13,7 @@ import { addDays, addMonths, periodStart } from '../periods.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, DateWindow, ResultTable, SubQuestion } from '../types.js';
 import { complementaryFoldCtes, minGroupSize } from './small-groups.js';
+import { coveredWindow } from './trend-points.js';
 
 const WINDOW = '__tc_window';
 const DAY = '__tc_day';
@@ -74,8 +75,33 @@ export function comparisonWindow(w: DateWindow, coverage: Coverage | undefined):
   return w;
 }
 
+/**
+ * The two spans a growth comparison sets side by side. With a comparison period named in the
+ * request ("2025 against 2023"), that period, from its start and as long as the current span
+ * (like for like), never past its own end; both are already cut to the data (`asked`). Otherwise
+ * the non-overlapping window above against the same dates a year earlier, which the SQL and the
+ * spans cut to the data by a year's shift.
+ */
+export function comparedSpans(asked: SubQuestion, coverage: Coverage | undefined): { current: DateWindow; prior: DateWindow; asked: boolean } {
+  if (asked.compareWindow) {
+    const current = (coverage && coveredWindow(asked.window, coverage)) || asked.window;
+    const cw = (coverage && coveredWindow(asked.compareWindow, coverage)) || asked.compareWindow;
+    return { current, prior: askedPrior(current, cw), asked: true };
+  }
+  const current = comparisonWindow(asked.window, coverage);
+  return { current, prior: priorWindow(current), asked: false };
+}
+
+/** A named comparison period, like for like: from its start, as many days as the current span, never past its end. */
+export function askedPrior(current: DateWindow, compare: DateWindow): DateWindow {
+  const days = Math.round((Date.parse(current.end) - Date.parse(current.start)) / 86_400_000);
+  const end = addDays(compare.start, days);
+  return { start: compare.start, end: end < compare.end ? end : compare.end };
+}
+
 export function compileWindowComparison(asked: SubQuestion, ctx: CompileContext): CompiledQuery {
-  const sq = { ...asked, window: comparisonWindow(asked.window, ctx.coverage) };
+  const spans = comparedSpans(asked, ctx.coverage);
+  const sq = { ...asked, window: spans.current };
   if (sq.dimension === undefined) throw new Error(`sub-question ${sq.id} (${sq.template}) needs a dimension`);
   const dim = groupableDimension(ctx.dataset, sq.dimension);
   const q = new QueryBuilder(ctx.dialect);
@@ -85,10 +111,10 @@ export function compileWindowComparison(asked: SubQuestion, ctx: CompileContext)
   const win = q.ident(WINDOW);
   const first = q.ident(FIRST);
   const last = q.ident(LAST);
-  const prior = priorWindow(sq.window);
+  const prior = spans.prior;
   const table = tableRef(q, ctx);
   const measures = sq.metrics.map((name) => `  ${measureSql(q, ctx, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
-  const sides = sidesSql(q, ctx, sq, prior, { table, win, day, first, last });
+  const sides = sidesSql(q, ctx, sq, prior, { table, win, day, first, last }, spans.asked);
   const [opened, closed, lfl] = [OPENED, CLOSED, LFL].map(q.ident) as [string, string, string];
   const life = presenceSql(q, { seg, win, day, tolerance: q.bind(presenceToleranceDays(sq.window)) });
   const min = minGroupSize(ctx.dataset);
@@ -215,11 +241,13 @@ function sidesSql(
   sq: SubQuestion,
   prior: DateWindow,
   n: { table: string; win: string; day: string; first: string; last: string },
+  asked = false,
 ): string {
   const coverage = ctx.coverage;
-  if (coverage?.firstDate && coverage.lastDate) {
-    const current = { start: maxIso(sq.window.start, shiftDayByYears(coverage.firstDate, 1)), end: sq.window.end };
-    const before = { start: prior.start, end: minIso(prior.end, addDays(shiftDayByYears(coverage.lastDate, -1), 1)) };
+  // Spans the request named are already cut to the data (comparedSpans); a year-earlier base is cut by a year's shift.
+  if ((coverage?.firstDate && coverage.lastDate) || asked) {
+    const current = asked || !coverage?.firstDate ? sq.window : { start: maxIso(sq.window.start, shiftDayByYears(coverage.firstDate, 1)), end: sq.window.end };
+    const before = asked || !coverage?.lastDate ? prior : { start: prior.start, end: minIso(prior.end, addDays(shiftDayByYears(coverage.lastDate, -1), 1)) };
     const side = (name: 'current' | 'prior', w: DateWindow) => `SELECT t.*, '${name}' AS ${n.win}, ${localDateExpr(q, ctx)} AS ${n.day}
   FROM ${n.table} AS t
   WHERE ${whereClause(q, ctx, w, sq.filters)}`;
@@ -289,10 +317,11 @@ export interface WindowComparison {
  * day, the prior span ends no later than a year before its last.
  */
 export function readWindowComparison(asked: SubQuestion, table: ResultTable, coverage: Coverage): WindowComparison {
-  const sq = { ...asked, window: comparisonWindow(asked.window, coverage) };
+  const spans = comparedSpans(asked, coverage);
+  const sq = { ...asked, window: spans.current };
   const caveats: Caveat[] = [];
   if (table.truncated) caveats.push({ code: 'truncated', data: { rows: table.rows.length } });
-  const prior = priorWindow(sq.window);
+  const prior = spans.prior;
   const current: WindowSide = { total: null, segments: new Map(), folded: null, likeForLike: null };
   const before: WindowSide = { total: null, segments: new Map(), folded: null, likeForLike: null };
   let smallSegments = 0;
@@ -329,7 +358,7 @@ export function readWindowComparison(asked: SubQuestion, table: ResultTable, cov
   }
   let currentSpan: GrowthSpan = { ...sq.window };
   let priorSpan: GrowthSpan = { ...prior };
-  if (coverage.firstDate !== null && coverage.lastDate !== null) {
+  if (coverage.firstDate !== null && coverage.lastDate !== null && !spans.asked) {
     currentSpan = {
       start: maxIso(sq.window.start, shiftDayByYears(coverage.firstDate, 1)),
       end: minIso(sq.window.end, dataEnd({ ...coverage, lastDate: coverage.lastDate })),

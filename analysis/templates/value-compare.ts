@@ -13,7 +13,7 @@ import { addDays, nextPeriod, periodStart, parseIsoDate } from '../periods.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import { logRatio, logShift } from '../stats/log-shift.js';
 import type { Caveat, CellValue, DateWindow, Finding, Grain, NamedQuery, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
-import { comparisonWindow as nonOverlapping, priorWindow } from './growth-compare.js';
+import { askedPrior, comparisonWindow as nonOverlapping, priorWindow } from './growth-compare.js';
 import { CONFIDENCE, EMPTY_TABLE } from './performance-common.js';
 import { cellFromRow, measureColumns, measureShape, planMeasure, type MeasurePlan } from './performance-measure.js';
 import { type Cell, cellEstimate, compareCells, poolCells } from './performance-stats.js';
@@ -40,9 +40,7 @@ export function contrastSpans(sq: SubQuestion, coverage: Coverage | undefined): 
   const asked = sq.compareWindow ? sq.window : nonOverlapping(sq.window, coverage);
   const current = (coverage && coveredWindow(asked, coverage)) || asked;
   if (sq.compareWindow) {
-    const cw = sq.compareWindow;
-    const end = addDays(cw.start, daysBetween(current.start, current.end));
-    return { current, prior: { start: cw.start, end: end < cw.end ? end : cw.end }, basis: 'asked' };
+    return { current, prior: askedPrior(current, sq.compareWindow), basis: 'asked' };
   }
   return { current, prior: priorWindow(current), basis: 'year_earlier' };
 }
