@@ -15,6 +15,10 @@ export class PortRouter implements ThreadPort {
     return post ? this.route(threadId).update(threadId, ref, text, post) : this.route(threadId).update(threadId, ref, text);
   }
 
+  joinsState(threadId: string): boolean {
+    return this.route(threadId).joinsState?.(threadId) ?? false;
+  }
+
   private route(threadId: string): ChatAdapter {
     const adapter = this.adapters.find((a) => a.owns(threadId));
     if (!adapter) throw new Error(`no chat adapter is running for thread ${threadId}`);

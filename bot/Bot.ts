@@ -3,7 +3,7 @@
 // restart resumes where it was. This file wires the parts; each has its own module:
 // the conversation (Conversation), the runs (RunOrchestrator), the audit log (AuditLog),
 // posting (Posting, Step) and the one serialisation of a thread's work (ThreadSerial).
-import type { LimitFunction } from 'p-limit';
+import pLimit, { type LimitFunction } from 'p-limit';
 import type { PhaseTimings } from '../analysis/phase-timings.js';
 import type { SubQuestion } from '../analysis/types.js';
 import type { Workspace } from '../analysis/workspace.js';
@@ -50,14 +50,24 @@ export interface BotDeps {
   queue?: RunQueue;
   /** Names this process in the audit log's run entries (e.g. "host:pid"). */
   replica?: string;
+  /** Where errors that stop nothing but must not go unseen are written (default: stderr). */
+  log?: (line: string) => void;
 }
 
 const DEFAULT_TIMINGS: BotTimings = { remindAfterMs: 4 * 3_600_000, deadlineWarningMs: 24 * 3_600_000 };
+
+/**
+ * Messages handled at once, across threads, in arrival order. A burst then gets its replies one
+ * after another from the start, instead of every message advancing step by step through the one
+ * state store and all of them replying at the end.
+ */
+const MESSAGES_AT_ONCE = 4;
 
 export class Bot {
   private readonly serial: ThreadSerial;
   private readonly conversation: Conversation;
   private readonly runs: RunOrchestrator;
+  private readonly handling = pLimit(MESSAGES_AT_ONCE);
 
   constructor(private readonly deps: BotDeps) {
     const given = deps.workspaces ?? (deps.workspace ? new Map([[deps.workspace.dataset.name, deps.workspace]]) : new Map<string, Workspace>());
@@ -80,18 +90,30 @@ export class Bot {
       ...(deps.phases ? { phases: deps.phases } : {}),
       ...(deps.onJobStart ? { onJobStart: deps.onJobStart } : {}),
       ...(deps.queue ? { queue: deps.queue } : {}),
+      log: deps.log ?? ((line) => process.stderr.write(`${line}\n`)),
     });
     this.conversation = new Conversation({ store: deps.store, datasets, steps, now: deps.now, launch: (state) => this.runs.launch(state) });
   }
 
   /** Messages in one thread are handled one at a time, in the order given; runs go on in the background. */
   handle(msg: IncomingMessage): Promise<void> {
-    return this.serial.run(msg.threadId, () => this.conversation.handle(msg));
+    return this.serial.run(msg.threadId, () => this.handling(() => this.conversation.handle(msg)));
   }
 
-  /** After a restart: carry on every run that was under way (with a queue: make sure it is queued). */
-  resume(): Promise<void> {
-    return this.runs.resume();
+  /**
+   * After a restart: the posts each thread's last step decided and may not have made are made
+   * (each key once), then every run that was under way carries on (with a queue: is queued).
+   */
+  async resume(): Promise<void> {
+    for (const listed of await this.deps.store.list()) {
+      if (listed.outbox?.length) await this.serial.run(listed.threadId, () => this.conversation.finishPosting(listed.threadId));
+    }
+    await this.runs.resume();
+  }
+
+  /** The process is stopping: runs take no new sub-question and are left to be resumed after a restart. */
+  stop(): void {
+    this.runs.stop();
   }
 
   /** A queue worker's handler: carries out the run if it is still the thread's current one. */

@@ -40,7 +40,7 @@ export interface WaitTimings {
 }
 
 export interface ConversationDeps {
-  store: Pick<StateStore, 'get' | 'list' | 'listAudit'>;
+  store: Pick<StateStore, 'get' | 'list' | 'listAudit' | 'shared'>;
   datasets: ThreadDatasets;
   steps: StepContext;
   now: () => Date;
@@ -53,13 +53,21 @@ export class Conversation {
 
   /** Handles one message; the caller serialises the thread's work. */
   async handle(msg: IncomingMessage): Promise<void> {
-    // Delivered twice (a sweep after a replica died, racing a late first delivery): handled once.
-    if (msg.messageId !== undefined && (await this.received(msg.threadId, msg.messageId))) return;
+    // Delivered again by a sweep, or (replicas) both by a sweep and by a replica that was slow to it: handled once.
+    const mayBeRepeat = msg.redelivered === true || this.deps.store.shared;
+    if (mayBeRepeat && msg.messageId !== undefined && (await this.received(msg.threadId, msg.messageId))) return;
     const channel = channelKey(msg);
     const sender: Who = { threadId: msg.threadId, requester: msg.author, channel };
     const state = await this.deps.store.get(msg.threadId);
     const step = new Step(this.deps.steps, state ? whoOf(state) : sender, state);
     await step.commit(await this.respond(step, msg, state, sender));
+  }
+
+  /** Makes the posts the thread's last step decided, if they were not made (a process stopped in between). */
+  async finishPosting(threadId: string): Promise<void> {
+    const state = await this.deps.store.get(threadId);
+    if (!state?.outbox?.length) return;
+    await new Step(this.deps.steps, whoOf(state), state).commit(state);
   }
 
   /** Reminds a requester who has not answered, and warns when a deadline nears with nothing agreed. */
@@ -234,9 +242,8 @@ export class Conversation {
     const ds = this.deps.datasets.of(thread).dataset;
     const personal = thread.brief.personalData ?? [];
     if (personal.length > 0) {
-      // Labels, not catalog names: a personal dimension's name is often its column's.
-      const labels = personal.map((n) => ds.dimensions.find((d) => d.name === n)?.label ?? n);
-      step.log('denied', { reason: 'personal_data', dimensions: labels, text: thread.brief.requestText });
+      // The card says the refusal (replies.cardNotes); the audit log records it.
+      refusedPersonal(step, ds, personal, thread.brief.requestText);
     }
     const ack = replies.acknowledgement(thread.brief, ds);
     const named = datasetWhy ? replies.datasetChosen(ds.label) : '';
@@ -304,7 +311,10 @@ export class Conversation {
   private onAnswer(step: Step, state: ClarifyingState, text: string): ThreadState {
     const ctx = this.deps.datasets.promptContext(this.deps.datasets.of(state), this.deps.now());
     const reading = readAnswer(state.prompt, byOptionNumber(state.prompt, text), state.brief, ctx);
-    if (!reading.ok) return this.askAgain(step, state, reading.message);
+    if (!reading.ok) {
+      if (reading.personal) refusedPersonal(step, ctx.dataset, reading.personal, text);
+      return this.askAgain(step, state, reading.message);
+    }
     state.brief = reading.brief;
     return this.advance(step, state);
   }
@@ -407,8 +417,7 @@ export class Conversation {
   private edit(step: Step, state: PlanningState | ThreadState, c: Correction, text: string): ReturnType<typeof applyCorrection> | undefined {
     const ws = this.deps.datasets.of(state);
     if (c.personalData.length > 0) {
-      // Labels, not catalog names: a personal dimension's name is often its column's.
-      step.log('denied', { reason: 'personal_data', dimensions: c.personalData.map((n) => ws.dataset.dimensions.find((d) => d.name === n)?.label ?? n), text });
+      refusedPersonal(step, ws.dataset, c.personalData, text);
       step.say('note', personalDataRefusal(ws.dataset, c.personalData));
       return undefined;
     }
@@ -440,6 +449,13 @@ export class Conversation {
   private stamp(): string {
     return this.deps.now().toISOString();
   }
+}
+
+/** A refusal to touch personal data, in the audit log: which dimensions (by label) and the words that asked. */
+function refusedPersonal(step: Step, ds: DatasetConfig, names: readonly string[], text: string): void {
+  // Labels, not catalog names: a personal dimension's name is often its column's.
+  const labels = names.map((n) => ds.dimensions.find((d) => d.name === n)?.label ?? n);
+  step.log('denied', { reason: 'personal_data', dimensions: labels, text });
 }
 
 /** Cancelled from any stage; the plan and run are kept, so "rerun" can start it again. */

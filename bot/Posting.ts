@@ -3,7 +3,16 @@
 // together with any entries that belong with it.
 import type { AuditLog, Who } from './AuditLog.js';
 import type { OutgoingPost, ThreadPort } from './port.js';
-import type { AuditEntry, SqlSession, StateStore } from './thread-state.js';
+import type { AuditEntry, SqlSession, StateStore, ThreadState } from './thread-state.js';
+
+/** What is recorded with a post: audit entries before and after its own, and the thread's state after it. */
+export interface PostRecord {
+  before?: AuditEntry[];
+  after?: AuditEntry[];
+  state?: ThreadState;
+  /** The key is new with this step (see PostOnceOptions.fresh). */
+  fresh?: boolean;
+}
 
 /** How many keys this process remembers having posted, to skip asking the store about them. */
 const REMEMBERED_KEYS = 10_000;
@@ -21,10 +30,19 @@ export class Posting {
     private readonly replica?: string,
   ) {}
 
-  /** Posts under `key` unless a post is recorded under it; returns the platform's reference either way. */
-  async postOnce(threadId: string, key: string, post: Omit<OutgoingPost, 'key'>, who: Who, alsoLog: AuditEntry[] = []): Promise<string> {
+  /**
+   * Posts under `key` unless a post is recorded under it; returns the platform's reference either
+   * way. Its audit entry (with those that belong before and after it) and the thread's state after
+   * it are written with the key.
+   */
+  async postOnce(threadId: string, key: string, post: Omit<OutgoingPost, 'key'>, who: Who, record: PostRecord = {}): Promise<string> {
     const entry = this.audit.entry(who, 'post', { key, text: post.text, files: (post.files ?? []).map((f) => f.name) });
-    const ref = await this.store.postOnce({ key, threadId, audit: [entry, ...alsoLog] }, (session?: SqlSession) => this.port.post(threadId, { key, ...post }, session));
+    const audit = [...(record.before ?? []), entry, ...(record.after ?? [])];
+    const ref = await this.store.postOnce(
+      { key, threadId, audit, ...(record.state ? { state: record.state } : {}) },
+      (session?: SqlSession) => this.port.post(threadId, { key, ...post }, session),
+      { joined: this.port.joinsState?.(threadId) ?? false, fresh: record.fresh ?? false },
+    );
     this.remember(key);
     return ref;
   }

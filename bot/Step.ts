@@ -82,9 +82,11 @@ export class Step {
       else delete state.outbox;
     }
     if (state || this.entries.length > 0) await this.ctx.store.commit({ audit: this.entries, ...(state ? { state } : {}) });
+    // This step's own posts have keys no earlier step used; those waiting from before may have been posted.
+    const own = new Set(this.posts);
     for (const p of outbox) {
       if (p.edits) await this.ctx.posting.editOnce(this.threadId, p.key, p.edits, p.post, this.thread);
-      else await this.ctx.posting.postOnce(this.threadId, p.key, p.post, this.thread);
+      else await this.ctx.posting.postOnce(this.threadId, p.key, p.post, this.thread, { fresh: own.has(p) });
     }
     for (const work of this.after) await work();
   }

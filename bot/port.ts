@@ -73,6 +73,12 @@ export interface ThreadPort {
    * post without controls leaves none).
    */
   update(threadId: string, ref: string, text: string, post?: Omit<OutgoingPost, 'key' | 'files'>): Promise<void>;
+  /**
+   * True when the port keeps this thread's posts in the bot's state store and writes them through
+   * the session `post` is given (the local channel): the store then writes the post and its key in
+   * one transaction. Absent or false for a port that calls out to a platform.
+   */
+  joinsState?(threadId: string): boolean;
 }
 
 /** A message arriving in a thread: the request that opens it, or a reply. */
@@ -86,14 +92,16 @@ export interface IncomingMessage {
    * Absent, it is read from the thread id (see bot/access.ts).
    */
   channel?: string;
-  /**
-   * The platform's id of the message, when it has one. A message whose id the audit log already
-   * shows as received in this thread is not handled again (see the local channel's sweep).
-   */
+  /** The platform's id of the message, when it has one (the audit log records it). */
   messageId?: string;
   /**
    * For a click: the label the requester chose, which the thread shows as their reply; `text`
    * holds the value the bot reads.
    */
   label?: string;
+  /**
+   * Delivered again by a sweep for messages accepted and never handled (see the local channel's
+   * sweep): handled only if the audit log does not show its id as received in the thread.
+   */
+  redelivered?: boolean;
 }

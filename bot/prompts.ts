@@ -156,7 +156,8 @@ function capitalise(s: string): string {
 }
 
 
-export type AnswerReading = { ok: true; brief: Brief } | { ok: false; message: string };
+/** A reading of an answer; a refused one names the personal-data dimensions it asked for, for the audit log. */
+export type AnswerReading = { ok: true; brief: Brief } | { ok: false; message: string; personal?: string[] };
 
 /** Reads a typed (or clicked) answer to `prompt` into the brief, or explains what was wrong. */
 export function readAnswer(prompt: Prompt, text: string, brief: Brief, ctx: PromptContext): AnswerReading {
@@ -214,7 +215,7 @@ export function readAnswer(prompt: Prompt, text: string, brief: Brief, ctx: Prom
     case 'dimensions': {
       if (/^\s*(?:none|no|no breakdown|nothing)\s*[.!]?\s*$/i.test(typed)) return { ok: true, brief: { ...brief, dimensions: [], dimensionsAsked: true } };
       const read = readRequest(`by ${typed}`, facts, { now: ctx.now });
-      if ((read.personalData ?? []).length > 0) return { ok: false, message: personalDataRefusal(ctx.dataset, read.personalData!) };
+      if ((read.personalData ?? []).length > 0) return { ok: false, message: personalDataRefusal(ctx.dataset, read.personalData!), personal: read.personalData! };
       const named = ctx.dataset.dimensions.filter((d) => !d.personal_data && typed.split(/\s*,\s*/).includes(d.name)).map((d) => d.name);
       const found = named.length > 0 ? named : read.dimensions;
       if (found.length === 0) {

@@ -157,6 +157,30 @@ export function progress(done: number, total: number): string {
   return done >= total ? `All ${total} done.` : `Working: ${done} of ${total} done.`;
 }
 
+/** The progress message of a run taken up again (after a restart, or by another replica): a new message, the old one is left. */
+export function progressResumed(done: number, total: number): string {
+  return done >= total ? `All ${total} done.` : `Carrying on where the run stopped: ${done} of ${total} done.`;
+}
+
+/** An answer the chat platform would not take: the run goes on with the rest. */
+export function answerNotPosted(position: number, err: unknown): string {
+  return `Answer ${position} failed: it could not be posted here (${errorText(err)}); the rest continue.`;
+}
+
+/** The summary could not be written; the answers above stand. */
+export function summaryFailed(err: unknown): string {
+  return `*Summary*\nThe summary could not be written (${errorText(err)}); the answers above stand.`;
+}
+
+/** A run that stopped part-way on an error: it stays agreed and carries on when the bot restarts. */
+export function runStopped(done: number, total: number, err: unknown): string {
+  return `The run stopped after ${done} of ${total} answers: ${errorText(err)}. It carries on from there when the bot restarts; say "cancel" to stop it.`;
+}
+
+function errorText(err: unknown): string {
+  return err instanceof Error ? err.message : String(err);
+}
+
 export function subQuestionFailed(position: number, err: unknown): string {
   return `${position}. I could not answer this one: ${problemText(err)} The other answers are not affected.`;
 }

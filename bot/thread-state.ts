@@ -14,6 +14,11 @@ export interface RunProgress {
   posted: string[];
   takeaways: (Takeaway & { position: number })[];
   failures: number;
+  /**
+   * How many times a process has taken the run up (absent: not yet). Each take-up posts a progress
+   * message of its own: a process never edits one a stopped process left.
+   */
+  attempt?: number;
 }
 
 /** A post the conversation decided to make, kept with the state until it is known to be posted. */
@@ -162,21 +167,38 @@ export interface SqlSession {
   query(text: string, values?: unknown[]): Promise<{ rows: Record<string, unknown>[] }>;
 }
 
-/** A post to make once: its stable key, its thread, and the audit entries recorded with it. */
+export interface PostOnceOptions {
+  /** The port writes the post in this store through the session it is given (the local channel kept with the state). */
+  joined?: boolean;
+  /**
+   * The key was made by the step that posts it, after the state it follows from was written, so
+   * nothing can be posted under it yet: a store that writes a joined post and its key together
+   * may skip looking for it (the key's uniqueness still guards it).
+   */
+  fresh?: boolean;
+}
+
+/** A post to make once: its stable key, its thread, and what is recorded with it. */
 export interface KeyedPost {
   key: string;
   threadId: string;
   audit: AuditEntry[];
+  /** The thread's state after the post, written with its key (and written all the same when the key was posted before). */
+  state?: ThreadState;
 }
 
-/** What one step of a thread changed. */
+/** What one step of a thread changed, written together. */
 export interface ThreadStep {
   audit: AuditEntry[];
   state?: ThreadState;
+  /** Post keys to record with their platform references. */
+  posts?: { key: string; threadId: string; ref: string }[];
 }
 
 /** Where threads and post keys are kept; the embedded store is a DuckDB file, the shared one PostgreSQL. */
 export interface StateStore {
+  /** Other processes share this store (replicas): the same message may reach two of them. */
+  readonly shared: boolean;
   get(threadId: string): Promise<ThreadState | undefined>;
   put(state: ThreadState): Promise<void>;
   list(filter?: { stages?: Stage[]; requester?: string }): Promise<ThreadState[]>;
@@ -189,10 +211,10 @@ export interface StateStore {
    * transaction and hands `send` that transaction's session: a platform that writes through it
    * (the local channel on PostgreSQL) posts exactly once; one that cannot posts at least once.
    */
-  postOnce(post: KeyedPost, send: (session?: SqlSession) => Promise<string>): Promise<string>;
+  postOnce(post: KeyedPost, send: (session?: SqlSession) => Promise<string>, opts?: PostOnceOptions): Promise<string>;
   /** Runs `work` while no other process works on the thread (one-process stores need no lock). */
   withThreadLock<T>(threadId: string, work: () => Promise<T>): Promise<T>;
-  /** A step of a thread, written together: its audit entries (in order), then its state if given. */
+  /** A step of a thread, written together: post keys, audit entries (in order), then the state if given. */
   commit(step: ThreadStep): Promise<void>;
   /** Appends to the audit log (never rewritten). */
   appendAudit(entry: AuditEntry): Promise<void>;

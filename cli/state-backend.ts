@@ -2,6 +2,7 @@
 // `conversation.state` in the config, PostgreSQL shared by every replica (the state store, the
 // local channel's threads and the queue of runs).
 import { hostname } from 'node:os';
+import { DuckDbThreadLog } from '../adapters/local-channel/DuckDbThreadLog.js';
 import type { LocalThreadLog } from '../adapters/local-channel/local-thread-log.js';
 import { PostgresThreadLog } from '../adapters/local-channel/PostgresThreadLog.js';
 import { PgBossRunQueue } from '../bot/queue/PgBossRunQueue.js';
@@ -14,8 +15,10 @@ import type { SharedStateConfig } from '../config/schema.js';
 
 export interface StateBackend {
   store: StateStore;
-  /** The local channel's threads, when they are shared; absent, the channel keeps them in memory. */
-  threads?: LocalThreadLog;
+  /** The local channel's threads, kept with the state. */
+  threads: LocalThreadLog;
+  /** Whether other processes share this state (replicas): then they may be handling a message this one did not see. */
+  shared: boolean;
   /** The shared queue of runs; absent, each process runs what it agreed. */
   queue?: RunQueue;
   /** Names this process in the audit log. */
@@ -26,7 +29,13 @@ export interface StateBackend {
 
 export async function openFileState(statePath: string): Promise<StateBackend> {
   const store = await DuckDbStateStore.open(statePath);
-  return { store, replica: replicaName(), close: () => store.close() };
+  try {
+    const threads = await DuckDbThreadLog.open(store);
+    return { store, threads, shared: false, replica: replicaName(), close: () => store.close() };
+  } catch (err) {
+    await store.close().catch(() => undefined);
+    throw err;
+  }
 }
 
 export async function openSharedState(shared: SharedStateConfig, secrets: Secrets, log: (line: string) => void): Promise<StateBackend> {
@@ -47,7 +56,7 @@ export async function openSharedState(shared: SharedStateConfig, secrets: Secret
       applicationName: `threadcount-queue ${replica}`,
       onError: (err) => log(`threadcount: run queue: ${err.message}`),
     });
-    return { store, threads, queue, replica, close: () => store.close() };
+    return { store, threads, shared: true, queue, replica, close: () => store.close() };
   } catch (err) {
     await threads?.close().catch(() => undefined);
     await store.close().catch(() => undefined);

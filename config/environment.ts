@@ -9,12 +9,17 @@ import type { Config } from './schema.js';
 export const DEFAULT_LOCAL_PORT = 8787;
 export const DEFAULT_SLACK_PORT = 3000;
 
-export type SlackEnvironment =
+export type SlackEnvironment = (
   | { mode: 'http'; botToken: string; signingSecret: string; port: number }
-  | { mode: 'socket'; botToken: string; appToken: string };
+  | { mode: 'socket'; botToken: string; appToken: string }
+) & {
+  /** The Web API's base URL when it is not Slack's own (GovSlack, or a proxy the organisation runs). */
+  apiUrl?: string;
+};
 
 export interface Environment {
-  local: { host: string; port: number };
+  /** The local channel's address, and the access token it needs beyond loopback. */
+  local: { host: string; port: number; accessToken?: string };
   slack?: SlackEnvironment;
   discord?: { token: string };
 }
@@ -50,12 +55,18 @@ const environmentSchema = z.object({
   ),
   SLACK_APP_TOKEN: optional(token('SLACK_APP_TOKEN', 'xapp-', 'an app-level token with the connections:write scope, for Socket Mode')),
   SLACK_PORT: optional(port('SLACK_PORT')),
+  SLACK_API_URL: optional(z.string().regex(/^https?:\/\/[^\s]+\/$/, 'SLACK_API_URL must be the Web API\'s base URL ending in a slash (e.g. https://slack-gov.com/api/)')),
   // A bot token is three base64url parts joined by dots.
   DISCORD_BOT_TOKEN: optional(
     z.string().regex(/^[\w-]{10,}\.[\w-]{4,}\.[\w-]{10,}$/, 'DISCORD_BOT_TOKEN does not look like a bot token (three parts joined by dots, from the "Bot" page of the application)'),
   ),
   THREADCOUNT_PORT: optional(port('THREADCOUNT_PORT')),
   THREADCOUNT_HOST: optional(z.string().regex(/^[\w.:-]+$/, 'THREADCOUNT_HOST must be a host name or IP address')),
+  THREADCOUNT_ACCESS_TOKEN: optional(
+    z
+      .string()
+      .regex(/^[\x21-\x7e]{24,}$/, 'THREADCOUNT_ACCESS_TOKEN must be at least 24 printable characters with no spaces (e.g. the output of "openssl rand -hex 32")'),
+  ),
 });
 
 /** Parses the variables threadcount uses; throws EnvironmentError naming every problem. */
@@ -75,9 +86,10 @@ export function parseEnvironment(env: Record<string, string | undefined>): Envir
   } else if (e.SLACK_SIGNING_SECRET || e.SLACK_APP_TOKEN) {
     problems.push(`${e.SLACK_APP_TOKEN ? 'SLACK_APP_TOKEN' : 'SLACK_SIGNING_SECRET'} is set but SLACK_BOT_TOKEN is not; Slack needs the bot token too`);
   }
+  if (slack && e.SLACK_API_URL) slack = { ...slack, apiUrl: e.SLACK_API_URL };
   if (problems.length > 0) throw new EnvironmentError(problems);
   return {
-    local: { host: e.THREADCOUNT_HOST ?? '127.0.0.1', port: e.THREADCOUNT_PORT ?? DEFAULT_LOCAL_PORT },
+    local: { host: e.THREADCOUNT_HOST ?? '127.0.0.1', port: e.THREADCOUNT_PORT ?? DEFAULT_LOCAL_PORT, ...(e.THREADCOUNT_ACCESS_TOKEN ? { accessToken: e.THREADCOUNT_ACCESS_TOKEN } : {}) },
     ...(slack ? { slack } : {}),
     ...(e.DISCORD_BOT_TOKEN ? { discord: { token: e.DISCORD_BOT_TOKEN } } : {}),
   };
@@ -89,8 +101,8 @@ export function loadEnvironment(): Environment {
 }
 
 function hint(env: Record<string, string | undefined>, key: PropertyKey | undefined): string {
-  // Token prefixes (xoxb-, xoxp-) are not secret; the signing secret is never echoed.
-  if (typeof key !== 'string' || !/TOKEN$/.test(key)) return '';
+  // Platform token prefixes (xoxb-, xoxp-) are not secret; the signing secret and the access token are never echoed.
+  if (typeof key !== 'string' || !/^(SLACK|DISCORD)_\w*TOKEN$/.test(key)) return '';
   const v = env[key] ?? '';
   return v.length > 0 ? ` (the value set starts with "${v.slice(0, 5)}…")` : '';
 }

@@ -1,11 +1,13 @@
 // The embedded default chat: a page on 127.0.0.1 where a person posts requests and answers the
-// bot, backed by a small HTTP API. Threads are kept in memory for one process, or in PostgreSQL
-// (a PostgresThreadLog) so that replicas all show the same threads.
+// bot, backed by a small HTTP API. Threads are kept in the bot's state store (the DuckDB file, or
+// PostgreSQL so that replicas all show the same threads), or in memory for tests. Beyond loopback
+// it needs an access token (see local-access.ts).
 import { createServer, type Server, type ServerResponse } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import type { OutgoingPost } from '../../bot/port.js';
 import type { SqlSession } from '../../bot/thread-state.js';
 import type { ChatAdapter, Deliver } from '../chat-adapter.js';
+import { isLoopbackAddress, isLoopbackHost, LocalAccess } from './local-access.js';
 import { localApi } from './local-api.js';
 import type { LocalThreadLog } from './local-thread-log.js';
 import { LocalThreads } from './LocalThreads.js';
@@ -27,6 +29,20 @@ export interface LocalChannelOptions {
   botName?: string;
   /** Where threads are kept (default: in memory); stopping the channel closes it. */
   threads?: LocalThreadLog;
+  /** Required to listen beyond loopback: the API then takes it as a bearer token, the page as a sign-in. */
+  accessToken?: string;
+  /** How long a request may take to arrive in full (headers and body) before it is dropped. */
+  requestTimeoutMs?: number;
+}
+
+/** A request still arriving after this long is dropped (a body declared and never sent holds nothing for long). */
+const REQUEST_TIMEOUT_MS = 10_000;
+
+/** The error when the channel would listen beyond loopback with no access token. */
+export class OpenBeyondLoopbackError extends Error {
+  constructor(readonly address: string) {
+    super(`the local channel would listen on ${address}, beyond this machine, with no access token`);
+  }
 }
 
 export class LocalChannel implements ChatAdapter {
@@ -36,17 +52,23 @@ export class LocalChannel implements ChatAdapter {
   private readonly streams = new Set<ServerResponse>();
   private readonly host: string;
   private readonly port: number;
+  private readonly accessToken: string | undefined;
 
   constructor(opts: LocalChannelOptions) {
     this.host = opts.host ?? '127.0.0.1';
     this.port = opts.port ?? 0;
     this.threads = opts.threads ?? new LocalThreads(opts.botName ?? 'threadcount');
+    this.accessToken = opts.accessToken;
+    const timeout = opts.requestTimeoutMs ?? REQUEST_TIMEOUT_MS;
     this.server = createServer(
+      // Node checks for overdue requests every connectionsCheckingInterval (30 s by default).
+      { requestTimeout: timeout, headersTimeout: timeout, connectionsCheckingInterval: Math.min(1000, timeout) },
       localApi({
         threads: this.threads,
         deliver: opts.deliver,
         page: loadPageFiles(),
-        allowedHosts: () => this.allowedHosts(),
+        hostAllowed: (host) => this.hostAllowed(host),
+        access: opts.accessToken ? new LocalAccess(opts.accessToken) : null,
         botThreadId: localBotThreadId,
         streams: this.streams,
       }),
@@ -66,6 +88,12 @@ export class LocalChannel implements ChatAdapter {
         resolve();
       });
     });
+    // Judged by the address actually bound, however the host was spelt.
+    const bound = this.server.address() as AddressInfo;
+    if (!this.accessToken && !isLoopbackAddress(bound.address)) {
+      await new Promise<void>((resolve) => this.server.close(() => resolve()));
+      throw new OpenBeyondLoopbackError(bound.address);
+    }
   }
 
   async stop(): Promise<void> {
@@ -85,9 +113,13 @@ export class LocalChannel implements ChatAdapter {
     return `http://${host === '0.0.0.0' || host === '[::]' ? '127.0.0.1' : host}:${a.port}/`;
   }
 
-  /** With the threads in PostgreSQL, `session` is the bot's post transaction: the message commits with its key. */
+  /** With the threads in the state store, `session` is the bot's post transaction: the message commits with its key. */
   async post(threadId: string, post: OutgoingPost, session?: SqlSession): Promise<string> {
     return (await this.threads.addBotPost(this.localId(threadId), post, session)).id;
+  }
+
+  joinsState(): boolean {
+    return this.threads.inStateStore;
   }
 
   /** With `post`, the whole message is replaced (the brief card after a correction); the page gets it as message.updated. */
@@ -100,10 +132,13 @@ export class LocalChannel implements ChatAdapter {
     return threadId.slice(PREFIX.length);
   }
 
-  /** On loopback only the loopback names are accepted, so another site cannot rebind a name to it. */
-  private allowedHosts(): Set<string> | null {
+  /**
+   * On a loopback address only loopback names and addresses are accepted as Host, so another site
+   * cannot rebind a name of its own to it. Beyond loopback the access token guards the channel.
+   */
+  private hostAllowed(host: string | undefined): boolean {
     const a = this.server.address() as AddressInfo | null;
-    if (!a || !['127.0.0.1', '::1', 'localhost'].includes(this.host)) return null;
-    return new Set(['127.0.0.1', 'localhost', '[::1]'].map((h) => `${h}:${a.port}`));
+    if (!a || !isLoopbackAddress(a.address)) return true;
+    return isLoopbackHost(host, a.port);
   }
 }

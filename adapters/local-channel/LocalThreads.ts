@@ -1,5 +1,5 @@
-// The local channel's threads in memory, for one process: after a restart this starts empty
-// (the bot's own state lives in its store). Replicas use PostgresThreadLog instead.
+// The local channel's threads in memory, for tests and one-shot use: after a restart this starts
+// empty. `serve` keeps them in its state store (DuckDbThreadLog, PostgresThreadLog).
 import type { OutgoingPost } from '../../bot/port.js';
 import type { PostContent } from '../post-view.js';
 import {
@@ -26,8 +26,11 @@ interface LocalThread extends LocalThreadView {
 }
 
 export class LocalThreads implements LocalThreadLog {
+  readonly inStateStore = false;
   private readonly threads = new Map<string, LocalThread>();
-  private readonly files = new Map<string, StoredFile>();
+  private readonly files = new Map<string, StoredFile & { threadId: string }>();
+  /** Post key -> message id, so a post made again returns the message already made. */
+  private readonly byKey = new Map<string, string>();
   private readonly listeners = new Map<string, Set<LocalEventListener>>();
 
   constructor(
@@ -49,8 +52,11 @@ export class LocalThreads implements LocalThreadLog {
   async addBotPost(threadId: string, post: OutgoingPost): Promise<LocalMessage> {
     // A thread from before a restart is unknown here; the bot may still post in it (resume).
     const thread = this.threads.get(threadId) ?? this.adoptThread(threadId);
-    const { message, files } = botMessage(post, this.botName, this.stamp());
-    for (const f of files) this.files.set(f.file.id, f);
+    const made = thread.messages.find((m) => m.id === this.byKey.get(`${threadId}\n${post.key}`));
+    if (made) return structuredClone(made);
+    const { message, files } = botMessage(threadId, post, this.botName, this.stamp());
+    for (const f of files) this.files.set(f.file.id, { ...f, threadId });
+    this.byKey.set(`${threadId}\n${post.key}`, message.id);
     return this.append(thread, message);
   }
 
@@ -80,8 +86,9 @@ export class LocalThreads implements LocalThreadLog {
     );
   }
 
-  async file(id: string): Promise<StoredFile | undefined> {
-    return this.files.get(id);
+  async file(threadId: string, id: string): Promise<StoredFile | undefined> {
+    const f = this.files.get(id);
+    return f && f.threadId === threadId ? { file: f.file, content: f.content } : undefined;
   }
 
   async subscribe(threadId: string, afterSeq: number, listener: LocalEventListener): Promise<(() => void) | undefined> {

@@ -13,6 +13,7 @@ import {
   personMessage,
   summaryOf,
   titleOf,
+  withFileUrls,
   type LocalEvent,
   type LocalEventListener,
   type LocalEventType,
@@ -45,6 +46,7 @@ interface ThreadRow {
 }
 
 export class PostgresThreadLog implements LocalThreadLog {
+  readonly inStateStore = true;
   private constructor(
     private readonly pool: pg.Pool,
     private readonly schema: string,
@@ -93,11 +95,13 @@ export class PostgresThreadLog implements LocalThreadLog {
         'An earlier request',
         this.stamp(),
       ]);
-      const { message, files } = botMessage(post, this.botName, this.stamp());
+      const made = await db.query(`SELECT message FROM ${this.table('local_messages')} WHERE thread_id = $1 AND post_key = $2`, [threadId, post.key]);
+      if (made.rows[0]) return withFileUrls(threadId, made.rows[0].message as LocalMessage);
+      const { message, files } = botMessage(threadId, post, this.botName, this.stamp());
       for (const f of files) {
         await db.query(`INSERT INTO ${this.table('local_files')} (id, thread_id, file, content) VALUES ($1, $2, $3, $4)`, [f.file.id, threadId, JSON.stringify(f.file), f.content]);
       }
-      return this.append(db, threadId, message);
+      return this.append(db, threadId, message, post.key);
     });
   }
 
@@ -119,7 +123,7 @@ export class PostgresThreadLog implements LocalThreadLog {
     const row = t.rows[0];
     if (!row) return undefined;
     const m = await this.pool.query<{ message: LocalMessage }>(`SELECT message FROM ${this.table('local_messages')} WHERE thread_id = $1 ORDER BY position`, [threadId]);
-    return { id: row.id, title: row.title, author: row.author, createdAt: row.created_at, messages: m.rows.map((r) => r.message) };
+    return { id: row.id, title: row.title, author: row.author, createdAt: row.created_at, messages: m.rows.map((r) => withFileUrls(row.id, r.message)) };
   }
 
   async list(): Promise<ThreadSummary[]> {
@@ -148,8 +152,8 @@ export class PostgresThreadLog implements LocalThreadLog {
     return r.rows.map((row) => ({ threadId: row.thread_id, message: row.message }));
   }
 
-  async file(id: string): Promise<StoredFile | undefined> {
-    const r = await this.pool.query<{ file: LocalFile; content: Buffer }>(`SELECT file, content FROM ${this.table('local_files')} WHERE id = $1`, [id]);
+  async file(threadId: string, id: string): Promise<StoredFile | undefined> {
+    const r = await this.pool.query<{ file: LocalFile; content: Buffer }>(`SELECT file, content FROM ${this.table('local_files')} WHERE id = $1 AND thread_id = $2`, [id, threadId]);
     return r.rows[0] ? { file: r.rows[0].file, content: r.rows[0].content } : undefined;
   }
 
@@ -170,13 +174,19 @@ export class PostgresThreadLog implements LocalThreadLog {
       `SELECT seq, type, message FROM ${this.table('local_events')} WHERE thread_id = $1 AND seq > $2 ORDER BY seq`,
       [threadId, afterSeq],
     );
-    return r.rows;
+    return r.rows.map((e) => ({ ...e, message: withFileUrls(threadId, e.message) }));
   }
 
-  private async append(db: SqlSession, threadId: string, message: LocalMessage): Promise<LocalMessage> {
+  private async append(db: SqlSession, threadId: string, message: LocalMessage, postKey: string | null = null): Promise<LocalMessage> {
     const seq = await this.nextSeq(db, threadId);
     if (seq === undefined) throw new Error(`no local thread ${threadId}`);
-    await db.query(`INSERT INTO ${this.table('local_messages')} (id, thread_id, position, message) VALUES ($1, $2, $3, $4)`, [message.id, threadId, seq, JSON.stringify(message)]);
+    await db.query(`INSERT INTO ${this.table('local_messages')} (id, thread_id, position, message, post_key) VALUES ($1, $2, $3, $4, $5)`, [
+      message.id,
+      threadId,
+      seq,
+      JSON.stringify(message),
+      postKey,
+    ]);
     await this.recordEvent(db, threadId, seq, 'message.created', message);
     return message;
   }

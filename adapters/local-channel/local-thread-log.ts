@@ -1,7 +1,9 @@
 // The local channel's thread log: every thread's messages with their files, and a numbered log of
-// events per thread so a page that reconnects gets exactly what it missed. Two implementations:
-// in memory for one process (LocalThreads), and in PostgreSQL so every replica's API and event
-// streams show the same threads (PostgresThreadLog).
+// events per thread so a page that reconnects gets exactly what it missed. Three implementations:
+// in the embedded state file beside the bot's state (DuckDbThreadLog), in PostgreSQL so every
+// replica's API and event streams show the same threads (PostgresThreadLog), and in memory for
+// tests (LocalThreads). A bot post carries its key: posting a key again returns the message
+// already made, so a post retried after a restart appears once.
 import { randomBytes } from 'node:crypto';
 import type { FileKind, OutgoingFile, OutgoingPost, PostControl } from '../../bot/port.js';
 import type { SqlSession } from '../../bot/thread-state.js';
@@ -77,10 +79,15 @@ export interface StoredFile {
 }
 
 export interface LocalThreadLog {
+  /** Kept in the bot's state store: bot posts can be written in the store's transaction. */
+  readonly inStateStore: boolean;
   createThread(author: string, text: string): Promise<{ thread: { id: string }; message: LocalMessage }>;
   /** A message from a person; undefined when the thread does not exist. */
   addPersonMessage(threadId: string, author: string, text: string, label?: string): Promise<LocalMessage | undefined>;
-  /** The bot's post; a thread unknown here (from before a restart) is adopted. `session` joins the caller's transaction. */
+  /**
+   * The bot's post, or the message already made under its key; a thread unknown here (from before
+   * the log kept it) is adopted. `session` joins the caller's transaction.
+   */
   addBotPost(threadId: string, post: OutgoingPost, session?: SqlSession): Promise<LocalMessage>;
   /** Replaces a message's text, or with `post` all it shows (see `applyEdit`). */
   updateText(threadId: string, messageId: string, text: string, post?: PostContent): Promise<LocalMessage>;
@@ -89,7 +96,8 @@ export interface LocalThreadLog {
   list(): Promise<ThreadSummary[]>;
   /** People's messages created in [from, to) (ISO times), by thread and in thread order: for the sweep of unhandled ones. */
   personMessagesBetween(from: string, to: string): Promise<{ threadId: string; message: LocalMessage }[]>;
-  file(id: string): Promise<StoredFile | undefined>;
+  /** An attachment of this thread's (none of another thread's, whatever its id). */
+  file(threadId: string, id: string): Promise<StoredFile | undefined>;
   /** Events after `afterSeq`, then each new one, until the returned function is called; undefined for an unknown thread. */
   subscribe(threadId: string, afterSeq: number, listener: LocalEventListener): Promise<(() => void) | undefined>;
   close(): Promise<void>;
@@ -109,8 +117,8 @@ export function personMessage(author: string, text: string, at: string, label?: 
 }
 
 /** The bot's post as a message, and its attachments to store beside it. */
-export function botMessage(post: OutgoingPost, botName: string, at: string): { message: LocalMessage; files: StoredFile[] } {
-  const files = (post.files ?? []).map(storedFile);
+export function botMessage(threadId: string, post: OutgoingPost, botName: string, at: string): { message: LocalMessage; files: StoredFile[] } {
+  const files = (post.files ?? []).map((f) => storedFile(threadId, f));
   const kind = postKind(post.key);
   const message: LocalMessage = { id: newId(), author: botName, fromBot: true, text: post.text, ...interactive(post), ...(kind ? { kind } : {}), files: files.map((f) => f.file), createdAt: at };
   return { message, files };
@@ -176,7 +184,17 @@ export function summaryOf(t: Omit<LocalThreadView, 'messages'>, messageCount: nu
   };
 }
 
-function storedFile(f: OutgoingFile): StoredFile {
+/** An attachment's address: under its thread, so only those who have the thread's link can fetch it. */
+export function fileUrl(threadId: string, fileId: string): string {
+  return `/api/threads/${encodeURIComponent(threadId)}/files/${encodeURIComponent(fileId)}`;
+}
+
+/** A message as the API shows it: attachment addresses in the current form (older rows kept another). */
+export function withFileUrls(threadId: string, message: LocalMessage): LocalMessage {
+  return message.files.length === 0 ? message : { ...message, files: message.files.map((f) => ({ ...f, url: fileUrl(threadId, f.id) })) };
+}
+
+function storedFile(threadId: string, f: OutgoingFile): StoredFile {
   const content = typeof f.content === 'string' ? Buffer.from(f.content, 'utf8') : f.content;
   const id = newId();
   const size = pngSize(content);
@@ -186,7 +204,7 @@ function storedFile(f: OutgoingFile): StoredFile {
     kind: f.kind,
     contentType: contentTypeOf(f.name, f.kind),
     bytes: content.length,
-    url: `/api/files/${id}`,
+    url: fileUrl(threadId, id),
     ...(size ?? {}),
   };
   return { file, content };

@@ -11,6 +11,9 @@ export async function migrateThreadLogSchema(pool: pg.Pool, schema: string): Pro
     await client.query(`CREATE TABLE IF NOT EXISTS ${s}.local_messages (
       id text PRIMARY KEY, thread_id text NOT NULL REFERENCES ${s}.local_threads (id), position integer NOT NULL, message json NOT NULL)`);
     await client.query(`CREATE INDEX IF NOT EXISTS local_messages_thread ON ${s}.local_messages (thread_id, position)`);
+    // The bot's post key, so a post made again (a retry after a restart) finds its message.
+    await client.query(`ALTER TABLE ${s}.local_messages ADD COLUMN IF NOT EXISTS post_key text`);
+    await client.query(`CREATE UNIQUE INDEX IF NOT EXISTS local_messages_post_key ON ${s}.local_messages (thread_id, post_key) WHERE post_key IS NOT NULL`);
     await client.query(`CREATE TABLE IF NOT EXISTS ${s}.local_events (
       thread_id text NOT NULL REFERENCES ${s}.local_threads (id), seq integer NOT NULL, type text NOT NULL, message json NOT NULL,
       PRIMARY KEY (thread_id, seq))`);

@@ -40,7 +40,7 @@ export async function sweepUnhandled(opts: SweepOptions): Promise<number> {
     const newest = trailing.at(-1);
     if (!newest || now - Date.parse(newest.createdAt) < opts.minAgeMs) continue;
     for (const m of trailing) {
-      opts.deliver({ threadId, author: m.author, text: m.text, ...(m.label ? { label: m.label } : {}), channel: LOCAL_CHANNEL, messageId: m.id });
+      opts.deliver({ threadId, author: m.author, text: m.text, ...(m.label ? { label: m.label } : {}), channel: LOCAL_CHANNEL, messageId: m.id, redelivered: true });
       delivered++;
     }
   }

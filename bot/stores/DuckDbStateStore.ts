@@ -3,11 +3,39 @@
 // Writes go through one connection in order, so a state is never half written. Statements that
 // queue up while one runs are committed together in one transaction (group commit): DuckDB spends
 // more on each autocommit than on a small write, and a burst of requests queues many.
-import { mkdirSync } from 'node:fs';
+// The local channel's threads live in the same file (DuckDbThreadLog), written through
+// `exclusive`, so they take their turn with the bot's own writes.
+import { existsSync, mkdirSync } from 'node:fs';
 import { dirname } from 'node:path';
 import { DuckDBConnection, DuckDBInstance, type DuckDBPreparedStatement, type DuckDBValue } from '@duckdb/node-api';
-import type { AuditEntry, AuditFilter, AuditKind, KeyedPost, Stage, StateStore, ThreadState, ThreadStep } from '../thread-state.js';
+import type { AuditEntry, AuditFilter, AuditKind, KeyedPost, PostOnceOptions, SqlSession, Stage, StateStore, ThreadState, ThreadStep } from '../thread-state.js';
 import { sendThenRecord } from './post-once.js';
+import { checkStateFile, StateFileError } from './state-file-check.js';
+
+export { StateFileError };
+
+/**
+ * Statements on the state file's connection, inside the caller's turn (and transaction). It is
+ * also the session postOnce hands a port that keeps its posts in this file (the local channel),
+ * so the post and its key commit together.
+ */
+export interface DuckDbSession extends SqlSession {
+  readonly kind: 'duckdb';
+  /** Runs a write; the number of rows it changed. */
+  execute(sql: string, params?: DuckDBValue[]): Promise<number>;
+  rows(sql: string, params?: DuckDBValue[]): Promise<DuckDBValue[][]>;
+  /** Runs `work` once the transaction has committed (what a write announces waits for it); dropped if it rolls back. */
+  afterCommit(work: () => void): void;
+}
+
+export function isDuckDbSession(session: SqlSession | undefined): session is DuckDbSession {
+  return (session as Partial<DuckDbSession> | undefined)?.kind === 'duckdb';
+}
+
+// The state file holds small rows and the local channel's attachments; DuckDB's default buffer
+// pool (80% of the machine's memory) would keep every page it ever read. A bounded pool keeps the
+// process's memory flat as threads accumulate (pages beyond it are read from the file again).
+const STATE_MEMORY_LIMIT = '64MB';
 
 interface QueuedWork {
   work: () => Promise<unknown>;
@@ -18,8 +46,21 @@ interface QueuedWork {
 /** The most statements committed in one transaction, so no caller waits behind a long batch. */
 const GROUP_COMMIT_LIMIT = 64;
 
+/**
+ * Whose work it is. The bot's own steps go first, with a few of the channel's (a message arriving,
+ * a page reading) beside them in each commit: under a burst the bot answers the first messages
+ * while later ones are still arriving, instead of every reply waiting for the whole burst to be
+ * written; arriving messages still get a share of every commit.
+ */
+export type Lane = 'bot' | 'channel';
+const CHANNEL_SHARE_BESIDE_BOT = 32;
+
+/** Threads whose last written state is kept in memory (a few KB each). */
+const RECENT_THREADS = 1_000;
+
 export class DuckDbStateStore implements StateStore {
-  private readonly waiting: QueuedWork[] = [];
+  readonly shared = false;
+  private readonly waiting: Record<Lane, QueuedWork[]> = { bot: [], channel: [] };
   private draining = false;
 
   private constructor(
@@ -30,39 +71,78 @@ export class DuckDbStateStore implements StateStore {
     private readonly hasAudit: boolean,
     /** Whether queued statements are committed together (not for a read-only file). */
     private readonly groupCommit: boolean,
+    /** The ids of the threads in the file (read at open), so a write knows to update or insert. */
+    private readonly threadIds: Set<string>,
   ) {}
 
-  /** Opens (creating) the state file; `readOnly` reads a file another tool wrote, creating nothing. */
+  /**
+   * Opens (creating) the state file; `readOnly` reads a file another tool wrote, creating nothing.
+   * An existing file is checked first, read-only: a damaged or truncated one throws StateFileError
+   * and is left as it was.
+   */
   static async open(path: string, opts: { readOnly?: boolean } = {}): Promise<DuckDbStateStore> {
+    if (existsSync(path)) await checkStateFile(path);
     if (opts.readOnly) {
-      const instance = await DuckDBInstance.create(path, { access_mode: 'READ_ONLY' });
+      const instance = await DuckDBInstance.create(path, { access_mode: 'READ_ONLY', memory_limit: STATE_MEMORY_LIMIT });
       const connection = await instance.connect();
       const r = await connection.runAndReadAll(`SELECT COUNT(*) FROM information_schema.tables WHERE table_name = 'audit'`);
-      return new DuckDbStateStore(instance, connection, 0, Number(r.getRows()[0]?.[0] ?? 0) > 0, false);
+      return new DuckDbStateStore(instance, connection, 0, Number(r.getRows()[0]?.[0] ?? 0) > 0, false, new Set());
     }
     mkdirSync(dirname(path), { recursive: true });
-    const instance = await DuckDBInstance.create(path);
+    const instance = await DuckDBInstance.create(path, { memory_limit: STATE_MEMORY_LIMIT });
     const connection = await instance.connect();
-    await connection.run(`CREATE TABLE IF NOT EXISTS threads (
-      thread_id VARCHAR PRIMARY KEY, requester VARCHAR NOT NULL, stage VARCHAR NOT NULL,
-      state VARCHAR NOT NULL, updated_at VARCHAR NOT NULL)`);
-    await connection.run(`CREATE TABLE IF NOT EXISTS posts (
-      post_key VARCHAR PRIMARY KEY, thread_id VARCHAR NOT NULL, ref VARCHAR NOT NULL)`);
-    // The audit log: appended to, never updated; seq keeps the order entries were written in.
-    await connection.run(`CREATE TABLE IF NOT EXISTS audit (
-      seq BIGINT PRIMARY KEY, logged_at VARCHAR NOT NULL, thread_id VARCHAR NOT NULL, requester VARCHAR NOT NULL,
-      channel VARCHAR NOT NULL, kind VARCHAR NOT NULL, detail VARCHAR NOT NULL)`);
-    const last = await connection.runAndReadAll('SELECT COALESCE(MAX(seq), 0) FROM audit');
-    return new DuckDbStateStore(instance, connection, Number(last.getRows()[0]?.[0] ?? 0), true, true);
+    try {
+      // What the last process left in the write-ahead log is folded into the file now, before any new write.
+      await connection.run('CHECKPOINT');
+      await connection.run(`CREATE TABLE IF NOT EXISTS threads (
+        thread_id VARCHAR PRIMARY KEY, requester VARCHAR NOT NULL, stage VARCHAR NOT NULL,
+        state VARCHAR NOT NULL, updated_at VARCHAR NOT NULL)`);
+      await connection.run(`CREATE TABLE IF NOT EXISTS posts (
+        post_key VARCHAR PRIMARY KEY, thread_id VARCHAR NOT NULL, ref VARCHAR NOT NULL)`);
+      // The audit log: appended to, never updated; seq keeps the order entries were written in.
+      await connection.run(`CREATE TABLE IF NOT EXISTS audit (
+        seq BIGINT PRIMARY KEY, logged_at VARCHAR NOT NULL, thread_id VARCHAR NOT NULL, requester VARCHAR NOT NULL,
+        channel VARCHAR NOT NULL, kind VARCHAR NOT NULL, detail VARCHAR NOT NULL)`);
+      const last = await connection.runAndReadAll('SELECT COALESCE(MAX(seq), 0) FROM audit');
+      const ids = await connection.runAndReadAll('SELECT thread_id FROM threads');
+      return new DuckDbStateStore(instance, connection, Number(last.getRows()[0]?.[0] ?? 0), true, true, new Set(ids.getRows().map((r) => String(r[0]))));
+    } catch (err) {
+      connection.closeSync();
+      instance.closeSync();
+      throw err;
+    }
+  }
+
+  /** Runs `work` on the file's connection in its turn, in one transaction with whatever commits beside it. */
+  exclusive<T>(work: (db: DuckDbSession) => Promise<T>, lane: Lane = 'bot'): Promise<T> {
+    return this.serial(() => work(this.session), lane);
+  }
+
+  private readonly session: DuckDbSession = {
+    kind: 'duckdb',
+    execute: (sql, params = []) => this.execute(sql, params),
+    rows: async (sql, params = []) => (await (await this.statement(sql, params)).runAndReadAll()).getRows(),
+    query: async (sql, values = []) => ({ rows: (await (await this.statement(sql, values as DuckDBValue[])).runAndReadAll()).getRowObjects() }),
+    afterCommit: (work) => void this.committed.push(work),
+  };
+
+  /** What waits for the running transaction to commit. */
+  private committed: (() => void)[] = [];
+
+  /** The transaction committed: what waited for it runs now, in order. */
+  private flushCommitted(): void {
+    const works = this.committed;
+    this.committed = [];
+    for (const work of works) work();
   }
 
   /**
    * One statement at a time on the one connection. Those that arrive while another runs wait and
    * then run together in one transaction; each caller's promise settles only after that commit.
    */
-  private serial<T>(work: () => Promise<T>): Promise<T> {
+  private serial<T>(work: () => Promise<T>, lane: Lane = 'bot'): Promise<T> {
     return new Promise<T>((resolve, reject) => {
-      this.waiting.push({ work, resolve: resolve as (value: unknown) => void, reject });
+      this.waiting[lane].push({ work, resolve: resolve as (value: unknown) => void, reject });
       if (!this.draining) void this.drain();
     });
   }
@@ -70,8 +150,9 @@ export class DuckDbStateStore implements StateStore {
   private async drain(): Promise<void> {
     this.draining = true;
     try {
-      while (this.waiting.length > 0) {
-        const batch = this.waiting.splice(0, GROUP_COMMIT_LIMIT);
+      while (this.waiting.bot.length > 0 || this.waiting.channel.length > 0) {
+        const bot = this.waiting.bot.splice(0, GROUP_COMMIT_LIMIT);
+        const batch = [...bot, ...this.waiting.channel.splice(0, bot.length > 0 ? CHANNEL_SHARE_BESIDE_BOT : GROUP_COMMIT_LIMIT)];
         if (batch.length > 1 && this.groupCommit && (await this.runTogether(batch))) continue;
         for (const item of batch) await this.runAlone(item);
       }
@@ -95,9 +176,11 @@ export class DuckDbStateStore implements StateStore {
       await this.connection.run('BEGIN TRANSACTION');
       const result = await item.work();
       await this.connection.run('COMMIT');
+      this.flushCommitted();
       item.resolve(result);
     } catch (err) {
       await this.connection.run('ROLLBACK').catch(() => undefined);
+      this.committed = [];
       this.auditSeq = auditSeq;
       item.reject(err);
     }
@@ -113,9 +196,11 @@ export class DuckDbStateStore implements StateStore {
       await this.connection.run('COMMIT');
     } catch {
       await this.connection.run('ROLLBACK').catch(() => undefined);
+      this.committed = [];
       this.auditSeq = auditSeq;
       return false;
     }
+    this.flushCommitted();
     batch.forEach((item, i) => item.resolve(results[i]));
     return true;
   }
@@ -146,11 +231,29 @@ export class DuckDbStateStore implements StateStore {
     return reader.getRows()[0]?.[0];
   }
 
-  get(threadId: string): Promise<ThreadState | undefined> {
-    return this.serial(async () => {
-      const state = await this.firstValue('SELECT state FROM threads WHERE thread_id = $1', [threadId]);
-      return state === undefined ? undefined : (JSON.parse(String(state)) as ThreadState);
-    });
+  /**
+   * The threads written or read lately, as written (one process owns the file, so what it wrote
+   * last is what the file holds): most messages find their thread here instead of waiting their
+   * turn to read it. Bounded, oldest dropped first.
+   */
+  private readonly recent = new Map<string, string>();
+
+  private remember(threadId: string, json: string): void {
+    this.recent.delete(threadId);
+    this.recent.set(threadId, json);
+    if (this.recent.size > RECENT_THREADS) this.recent.delete(this.recent.keys().next().value!);
+  }
+
+  async get(threadId: string): Promise<ThreadState | undefined> {
+    const cached = this.recent.get(threadId);
+    if (cached !== undefined) return JSON.parse(cached) as ThreadState;
+    // Not among the ids in the file (read at open, added to since): a new thread, nothing to read.
+    if (this.groupCommit && !this.threadIds.has(threadId)) return undefined;
+    const state = await this.serial(() => this.firstValue('SELECT state FROM threads WHERE thread_id = $1', [threadId]));
+    if (state === undefined) return undefined;
+    // Written meanwhile: the newer one is remembered already.
+    if (!this.recent.has(threadId)) this.remember(threadId, String(state));
+    return JSON.parse(String(state)) as ThreadState;
   }
 
   async put(state: ThreadState): Promise<void> {
@@ -159,16 +262,26 @@ export class DuckDbStateStore implements StateStore {
     return this.serial(() => this.writeState(row));
   }
 
-  /** An update, else an insert: DuckDB's INSERT OR REPLACE costs about three times either. */
+  /**
+   * An update of a thread in the file, else an insert (DuckDB's INSERT OR REPLACE costs about three
+   * times either); which one is known without asking, from the ids read at open and added since.
+   */
   private async writeState(row: DuckDBValue[]): Promise<void> {
-    const updated = await this.execute('UPDATE threads SET requester = $2, stage = $3, state = $4, updated_at = $5 WHERE thread_id = $1', row);
-    if (updated === 0) await this.execute('INSERT INTO threads VALUES ($1, $2, $3, $4, $5)', row);
+    const id = String(row[0]);
+    // Remembered once it is committed; a rolled-back write leaves the last committed one.
+    this.committed.push(() => this.remember(id, String(row[3])));
+    // A known id whose insert was rolled back is not in the file: the update then finds nothing.
+    if (this.threadIds.has(id) && (await this.execute('UPDATE threads SET requester = $2, stage = $3, state = $4, updated_at = $5 WHERE thread_id = $1', row)) > 0) return;
+    await this.execute('INSERT INTO threads VALUES ($1, $2, $3, $4, $5)', row);
+    this.threadIds.add(id);
   }
 
   commit(step: ThreadStep): Promise<void> {
     const row = step.state ? stateRow(step.state) : undefined;
     const entries = step.audit.map((e) => structuredClone(e));
+    const posts = (step.posts ?? []).map((p) => ({ ...p }));
     return this.serial(async () => {
+      for (const p of posts) await this.writePost(p.key, p.threadId, p.ref);
       for (const entry of entries) await this.insertAudit(entry);
       if (row) await this.writeState(row);
     });
@@ -192,12 +305,13 @@ export class DuckDbStateStore implements StateStore {
   }
 
   recordPost(key: string, threadId: string, ref: string): Promise<void> {
-    // An update, else an insert, as for threads: an insert that hit an existing key would also
-    // abort every other write committed with it.
-    return this.serial(async () => {
-      const updated = await this.execute('UPDATE posts SET thread_id = $2, ref = $3 WHERE post_key = $1', [key, threadId, ref]);
-      if (updated === 0) await this.execute('INSERT INTO posts VALUES ($1, $2, $3)', [key, threadId, ref]);
-    });
+    return this.serial(() => this.writePost(key, threadId, ref));
+  }
+
+  /** An update, else an insert, as for threads: an insert that hit an existing key would also abort every other write committed with it. */
+  private async writePost(key: string, threadId: string, ref: string): Promise<void> {
+    const updated = await this.execute('UPDATE posts SET thread_id = $2, ref = $3 WHERE post_key = $1', [key, threadId, ref]);
+    if (updated === 0) await this.execute('INSERT INTO posts VALUES ($1, $2, $3)', [key, threadId, ref]);
   }
 
   appendAudit(entry: AuditEntry): Promise<void> {
@@ -246,8 +360,25 @@ export class DuckDbStateStore implements StateStore {
     });
   }
 
-  postOnce(post: KeyedPost, send: () => Promise<string>): Promise<string> {
-    return sendThenRecord(this, post, send);
+  /**
+   * A port that keeps its posts in this file (`joined`) writes through the session in the same
+   * transaction as the key: exactly once. Any other is called outside the store's turn (a slow
+   * platform must not hold up every thread's writes), then the key is recorded: at least once.
+   */
+  postOnce(post: KeyedPost, send: (session?: SqlSession) => Promise<string>, opts: PostOnceOptions = {}): Promise<string> {
+    if (!opts.joined) return sendThenRecord(this, post, send);
+    const entries = post.audit.map((e) => structuredClone(e));
+    const row = post.state ? stateRow(post.state) : undefined;
+    return this.serial(async () => {
+      const known = opts.fresh ? undefined : await this.firstValue('SELECT ref FROM posts WHERE post_key = $1', [post.key]);
+      const ref = known === undefined ? await send(this.session) : String(known);
+      if (known === undefined) {
+        await this.execute('INSERT INTO posts VALUES ($1, $2, $3)', [post.key, post.threadId, ref]);
+        for (const entry of entries) await this.insertAudit(entry);
+      }
+      if (row) await this.writeState(row);
+      return ref;
+    });
   }
 
   /** One process owns this store; the bot serialises a thread's work in memory. */

@@ -4,6 +4,7 @@ import { sendThenRecord } from './post-once.js';
 import { auditMatches } from './audit-filter.js';
 
 export class MemoryStateStore implements StateStore {
+  readonly shared = false;
   private readonly states = new Map<string, ThreadState>();
   private readonly posts = new Map<string, string>();
 
@@ -36,6 +37,7 @@ export class MemoryStateStore implements StateStore {
   }
 
   async commit(step: ThreadStep): Promise<void> {
+    for (const p of step.posts ?? []) this.posts.set(p.key, p.ref);
     for (const entry of step.audit) this.audit.push(structuredClone(entry));
     if (step.state) this.states.set(step.state.threadId, structuredClone(step.state));
   }

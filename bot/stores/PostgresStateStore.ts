@@ -19,6 +19,7 @@ export interface PostgresStateOptions {
 }
 
 export class PostgresStateStore implements StateStore {
+  readonly shared = true;
   private constructor(
     /** Shared with the local channel's thread log: one pool per process. */
     readonly pool: pg.Pool,
@@ -80,18 +81,23 @@ export class PostgresStateStore implements StateStore {
   }
 
   async recordPost(key: string, threadId: string, ref: string): Promise<void> {
-    await this.pool.query(
-      `INSERT INTO ${this.table('posts')} (post_key, thread_id, ref) VALUES ($1, $2, $3) ON CONFLICT (post_key) DO UPDATE SET ref = EXCLUDED.ref`,
-      [key, threadId, ref],
-    );
+    await this.insertPost(this.pool, key, threadId, ref);
   }
 
   async commit(step: ThreadStep): Promise<void> {
-    if (!step.state && step.audit.length <= 1) return step.audit[0] && this.appendAudit(step.audit[0]);
     await inTransaction(this.pool, async (_session, client) => {
+      for (const p of step.posts ?? []) await this.insertPost(client, p.key, p.threadId, p.ref);
       for (const entry of step.audit) await this.insertAudit(client, entry);
       if (step.state) await this.upsertState(client, step.state);
     });
+  }
+
+  private async insertPost(db: pg.Pool | pg.PoolClient, key: string, threadId: string, ref: string): Promise<void> {
+    await db.query(`INSERT INTO ${this.table('posts')} (post_key, thread_id, ref) VALUES ($1, $2, $3) ON CONFLICT (post_key) DO UPDATE SET ref = EXCLUDED.ref`, [
+      key,
+      threadId,
+      ref,
+    ]);
   }
 
   async appendAudit(entry: AuditEntry): Promise<void> {
@@ -132,10 +138,14 @@ export class PostgresStateStore implements StateStore {
       // Two processes resuming the same run wait here for each other; the second finds the key.
       await client.query('SELECT pg_advisory_xact_lock($1, hashtext($2))', [STATE_LOCKS.post, post.key]);
       const known = await client.query<{ ref: string }>(`SELECT ref FROM ${this.table('posts')} WHERE post_key = $1`, [post.key]);
-      if (known.rows[0]) return known.rows[0].ref;
+      if (known.rows[0]) {
+        if (post.state) await this.upsertState(client, post.state);
+        return known.rows[0].ref;
+      }
       const ref = await send(session);
       await client.query(`INSERT INTO ${this.table('posts')} (post_key, thread_id, ref) VALUES ($1, $2, $3)`, [post.key, post.threadId, ref]);
       for (const entry of post.audit) await this.insertAudit(client, entry);
+      if (post.state) await this.upsertState(client, post.state);
       return ref;
     });
   }

@@ -100,8 +100,11 @@ describe(`restarts (${kindName})`, () => {
     const answers = port.inThread('t2').filter((m) => m.key.includes(':answer:'));
     expect(answers).toHaveLength(planned);
     expect(port.inThread('t2').filter((m) => m.key.endsWith(':summary'))).toHaveLength(1);
-    expect(port.inThread('t2').filter((m) => m.key.endsWith(':progress'))).toHaveLength(1);
-    expect(port.inThread('t2').find((m) => m.key.endsWith(':progress'))!.text).toBe(`All ${planned} done.`);
+    // Each process shows its own progress: the first one's message is left as it was, the second's is new.
+    const progress = port.inThread('t2').filter((m) => /:progress(:\d+)?$/.test(m.key));
+    expect(progress.map((m) => m.key.replace(/^.*:run1:/, ''))).toEqual(['progress', 'progress:2']);
+    expect(progress[0]!.text).toBe(`Working: 1 of ${planned} done.`);
+    expect(progress[1]!.text).toBe(`All ${planned} done.`);
     expect((await p.store.get('t2'))!.stage).toBe('done');
     expectNoRepeatedKeys(port);
     await p.store.close();

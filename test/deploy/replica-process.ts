@@ -46,24 +46,25 @@ export interface Replica {
   /** How the audit log names it ("host:pid"). */
   replicaName: string;
   stderr: () => string;
+  stdout: () => string;
   /** Peak resident memory so far (Linux VmHWM), in KiB. */
   peakRssKb: () => number | null;
   stop: () => Promise<void>;
 }
 
-export async function startReplica(build: string, name: string, configPath: string, env: Record<string, string>): Promise<Replica> {
+export async function startReplica(build: string, name: string, configPath: string, env: Record<string, string>, args: string[] = []): Promise<Replica> {
   const childEnv: NodeJS.ProcessEnv = {};
   // Only the local channel: chat tokens stay out of the child's environment.
   for (const [k, v] of Object.entries(process.env)) if (!/^(SLACK|DISCORD)_/.test(k)) childEnv[k] = v;
   Object.assign(childEnv, { THREADCOUNT_HOST: '127.0.0.1', THREADCOUNT_PORT: '0', ...env });
-  const child = spawn(process.execPath, [join(build, 'run.js'), 'serve', '--config', configPath], { env: childEnv, stdio: ['ignore', 'pipe', 'pipe'] });
+  const child = spawn(process.execPath, [join(build, 'run.js'), 'serve', '--config', configPath, ...args], { env: childEnv, stdio: ['ignore', 'pipe', 'pipe'] });
   let stderr = '';
+  let stdout = '';
   child.stderr!.on('data', (c: Buffer) => (stderr += c.toString()));
+  child.stdout!.on('data', (c: Buffer) => (stdout += c.toString()));
   const url = await new Promise<string>((resolve, reject) => {
-    let stdout = '';
     const timer = setTimeout(() => reject(new Error(`replica ${name} did not start within 60 s: ${stderr}`)), 60_000);
-    child.stdout!.on('data', (c: Buffer) => {
-      stdout += c.toString();
+    child.stdout!.on('data', () => {
       const m = /Local channel: (http:\/\/127\.0\.0\.1:\d+)\//.exec(stdout);
       if (m) {
         clearTimeout(timer);
@@ -81,7 +82,28 @@ export async function startReplica(build: string, name: string, configPath: stri
     child,
     replicaName: `${(await import('node:os')).hostname()}:${child.pid}`,
     stderr: () => stderr,
+    stdout: () => stdout,
     peakRssKb: () => peakRssKb(child.pid),
     stop: () => stopChild(child, 20_000),
   };
+}
+
+/** Runs the CLI once to its end (a command that is expected to exit by itself). */
+export async function runCli(build: string, args: string[], env: Record<string, string> = {}, timeoutMs = 120_000): Promise<{ code: number | null; stdout: string; stderr: string }> {
+  const childEnv: NodeJS.ProcessEnv = {};
+  for (const [k, v] of Object.entries(process.env)) if (!/^(SLACK|DISCORD|THREADCOUNT)_/.test(k)) childEnv[k] = v;
+  Object.assign(childEnv, { THREADCOUNT_PORT: '0', ...env });
+  const child = spawn(process.execPath, [join(build, 'run.js'), ...args], { env: childEnv, stdio: ['ignore', 'pipe', 'pipe'] });
+  let stdout = '';
+  let stderr = '';
+  child.stdout!.on('data', (c: Buffer) => (stdout += c.toString()));
+  child.stderr!.on('data', (c: Buffer) => (stderr += c.toString()));
+  const code = await new Promise<number | null>((resolve) => {
+    const timer = setTimeout(() => child.kill('SIGKILL'), timeoutMs);
+    child.once('exit', (c) => {
+      clearTimeout(timer);
+      resolve(c);
+    });
+  });
+  return { code, stdout, stderr };
 }

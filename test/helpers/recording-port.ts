@@ -12,13 +12,13 @@ export interface PlatformMessage {
 
 export class RecordingPort implements ThreadPort {
   readonly messages: PlatformMessage[] = [];
-  /** Throws on the nth post (1-based) to stand in for a process dying part-way. */
+  /** Throws from the nth post on (1-based): the platform gone, as for a process dying part-way. */
   failOnPost: number | null = null;
   private posts = 0;
 
   async post(threadId: string, post: OutgoingPost): Promise<string> {
     this.posts++;
-    if (this.failOnPost !== null && this.posts === this.failOnPost) throw new Error('process stopped');
+    if (this.failOnPost !== null && this.posts >= this.failOnPost) throw new Error('process stopped');
     this.messages.push({
       threadId,
       key: post.key,

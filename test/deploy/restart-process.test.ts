@@ -1,0 +1,260 @@
+// Restarts with real processes, on the embedded state file: `threadcount serve` is spawned,
+// driven through the local channel's HTTP API, stopped with SIGKILL or SIGTERM at several points
+// (mid-run while another thread waits on its plan, right after a reply to a prompt, right after
+// "go", and at random moments of runs), and started again on the same state file. Every thread
+// must finish with each answer posted exactly once: counted from the thread's messages as the
+// API shows them and from the audit log read from the state file once the server has stopped.
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { DuckDbThreadLog } from '../../adapters/local-channel/DuckDbThreadLog.js';
+import type { LocalMessage } from '../../adapters/local-channel/local-thread-log.js';
+import { DuckDbStateStore } from '../../bot/stores/DuckDbStateStore.js';
+import { DEMO_REQUEST } from '../../cli/main.js';
+import { generateDemo } from '../../config/demo/generate-demo.js';
+import { SseClient } from '../helpers/sse-client.js';
+import { buildCli, startReplica, type Replica } from './replica-process.js';
+
+interface Thread {
+  id: string;
+  messages: LocalMessage[];
+}
+
+describe('serve on its state file, stopped hard and started again', () => {
+  let build: Awaited<ReturnType<typeof buildCli>>;
+  let configPath: string;
+  let dir: string;
+  const running: Replica[] = [];
+
+  beforeAll(async () => {
+    dir = mkdtempSync(join(tmpdir(), 'tc-restart-'));
+    const [built, demo] = await Promise.all([buildCli(), generateDemo({ outDir: join(dir, 'demo'), rows: 5000 })]);
+    build = built;
+    configPath = demo.configPath;
+  });
+
+  afterAll(async () => {
+    await Promise.all(running.map((r) => r.stop()));
+    build?.remove();
+  });
+
+  async function start(statePath: string): Promise<Replica> {
+    const r = await startReplica(build.dir, 'serve', configPath, {}, ['--state', statePath]);
+    running.push(r);
+    return r;
+  }
+
+  async function kill(r: Replica, signal: 'SIGKILL' | 'SIGTERM'): Promise<void> {
+    if (r.child.exitCode === null && r.child.signalCode === null) {
+      const exited = new Promise<void>((resolve) => r.child.once('exit', () => resolve()));
+      r.child.kill(signal);
+      await exited;
+    }
+    running.splice(running.indexOf(r), 1);
+  }
+
+  async function api<T>(r: Replica, path: string, body?: unknown): Promise<{ status: number; json: T }> {
+    const res = await fetch(`${r.url}${path}`, body ? { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) } : {});
+    return { status: res.status, json: (await res.json()) as T };
+  }
+
+  async function thread(r: Replica, id: string): Promise<Thread> {
+    const got = await api<Thread>(r, `/api/threads/${id}`);
+    expect(got.status, `thread ${id} as the API shows it`).toBe(200);
+    return got.json;
+  }
+
+  /** Polls gently: the server shares two cores with the rest of the suite. */
+  async function poll<T>(what: string, check: () => Promise<T | undefined>, timeoutMs = 180_000, everyMs = 100): Promise<T> {
+    const until = Date.now() + timeoutMs;
+    for (;;) {
+      const v = await check();
+      if (v !== undefined) return v;
+      if (Date.now() > until) throw new Error(`gave up waiting for ${what}`);
+      await new Promise((r) => setTimeout(r, everyMs));
+    }
+  }
+
+  const botMessages = (t: Thread) => t.messages.filter((m) => m.fromBot);
+  const asks = (m: LocalMessage | undefined) => !!m?.fromBot && !!(m.prompt || m.quickReplies);
+  const answerNumbers = (t: Thread) => botMessages(t).flatMap((m) => /^\*(\d+)\. /.exec(m.text)?.[1] ?? []);
+  const hasSummary = (t: Thread) => botMessages(t).some((m) => m.text.startsWith('*Summary*'));
+
+  /** Waits for the bot's next question after `seen` messages (a prompt or the plan). */
+  const nextQuestion = (r: Replica, id: string, seen: number) =>
+    poll(`a question in ${id}`, async () => {
+      const t = await thread(r, id);
+      return t.messages.length > seen && asks(t.messages.at(-1)) ? t : undefined;
+    });
+
+  /** A request taken through its prompts (the recommended answers) to the plan. */
+  async function toPlan(r: Replica, text: string): Promise<string> {
+    const created = await api<{ threadId: string }>(r, '/api/threads', { author: 'maren', text });
+    expect(created.status).toBe(201);
+    const id = created.json.threadId;
+    let t = await nextQuestion(r, id, 1);
+    for (let turn = 0; turn < 12 && t.messages.at(-1)!.prompt; turn++) {
+      await say(r, id, t.messages.at(-1)!.prompt!.recommended.value);
+      t = await nextQuestion(r, id, t.messages.length + 1);
+    }
+    expect(t.messages.at(-1)!.text).toMatch(/^Here is the plan/);
+    return id;
+  }
+
+  async function say(r: Replica, id: string, text: string): Promise<void> {
+    expect((await api(r, `/api/threads/${id}/messages`, { author: 'maren', text })).status).toBe(201);
+  }
+
+  const finished = (r: Replica, id: string) => poll(`the summary in ${id}`, async () => ((await hasSummary(await thread(r, id))) ? true : undefined), 300_000, 250);
+
+  /**
+   * Everything the threads show, checked against the audit log in the state file (read once the
+   * server has stopped): each post once, each answer of the plan once, one finished run, and each
+   * of the requester's messages handled once.
+   */
+  async function expectExactlyOnce(statePath: string, threads: Thread[]): Promise<void> {
+    const store = await DuckDbStateStore.open(statePath, { readOnly: true });
+    try {
+      for (const t of threads) {
+        const botId = `local:${t.id}`;
+        const state = await store.get(botId);
+        expect(state?.stage).toBe('done');
+        const items = state!.stage === 'done' ? state!.plan.items : [];
+        const audit = await store.listAudit({ threadId: botId });
+        const keys = audit.filter((e) => e.kind === 'post').map((e) => String(e.detail.key));
+        expect(new Set(keys).size).toBe(keys.length);
+        // One message per post key: nothing posted that the log does not show, nothing shown twice.
+        expect(botMessages(t)).toHaveLength(keys.length);
+        for (const sq of items) expect(keys.filter((k) => k === `${botId}:run1:answer:${sq.id}`)).toHaveLength(1);
+        expect(answerNumbers(t)).toEqual(items.map((_, i) => String(i + 1)));
+        expect(botMessages(t).filter((m) => m.text.startsWith('*Summary*'))).toHaveLength(1);
+        expect(audit.filter((e) => e.kind === 'run' && e.detail.event === 'finished')).toHaveLength(1);
+        // Each of the requester's messages was read once.
+        const read = audit.filter((e) => e.kind === 'request' || e.kind === 'message').map((e) => e.detail.messageId);
+        expect([...read].sort()).toEqual(t.messages.filter((m) => !m.fromBot).map((m) => m.id).sort());
+        // Each answer's SQL is in the log once, with its post.
+        const sql = audit.filter((e) => e.kind === 'sql' && e.detail.subQuestion !== null);
+        for (const sq of items) expect(new Set(sql.filter((e) => e.detail.subQuestion === sq.id).map((e) => e.detail.query)).size).toBe(sql.filter((e) => e.detail.subQuestion === sq.id).length);
+      }
+    } finally {
+      await store.close();
+    }
+  }
+
+  it('killed mid-run while another thread waits on its plan: both finish after the restart, every answer once', async () => {
+    const statePath = join(dir, 'mid-run.duckdb');
+    let r = await start(statePath);
+    const waiting = await toPlan(r, 'How has revenue moved over time, month by month?');
+    // A run long enough to stop part-way: the demo request asks all four kinds of question.
+    let runningId = '';
+    let cut: Thread | undefined;
+    for (let attempt = 0; attempt < 4 && !cut; attempt++) {
+      runningId = await toPlan(r, DEMO_REQUEST);
+      await say(r, runningId, 'go');
+      const seen = await poll('the first answers', async () => {
+        const t = await thread(r, runningId);
+        return answerNumbers(t).length >= 1 || hasSummary(t) ? t : undefined;
+      });
+      await kill(r, 'SIGKILL');
+      if (!hasSummary(seen)) cut = seen;
+      r = await start(statePath);
+      if (!cut) await finished(r, runningId);
+    }
+    expect(cut, 'a run was stopped part-way').toBeDefined();
+    // The page's event stream of the running thread works again, from where it was.
+    const events = new SseClient();
+    await events.open(`${r.url}/api/threads/${runningId}/events`);
+    await finished(r, runningId);
+    // The waiting thread answers after the restart.
+    await say(r, waiting, 'go');
+    await finished(r, waiting);
+    await events.close();
+    expect(events.events.some((e) => e.event === 'message.created' && e.data.includes('*Summary*'))).toBe(true);
+    const threads = [await thread(r, runningId), await thread(r, waiting)];
+    // The stopped process's progress message is left as it was; the new one says where it carried on.
+    const progress = botMessages(threads[0]!).filter((m) => /^(Working|Carrying on|All \d+ done)/.test(m.text));
+    expect(progress.length).toBeGreaterThanOrEqual(2);
+    expect(progress.at(-1)!.text).toMatch(/^All \d+ done\.$/);
+    await kill(r, 'SIGTERM');
+    await expectExactlyOnce(statePath, threads);
+  });
+
+  it('stopped with SIGTERM mid-run: the run is left and carried on after the restart', async () => {
+    const statePath = join(dir, 'sigterm.duckdb');
+    let r = await start(statePath);
+    const id = await toPlan(r, DEMO_REQUEST);
+    await say(r, id, 'go');
+    await poll('the first answer', async () => ((answerNumbers(await thread(r, id)).length >= 1 ? true : undefined)));
+    await kill(r, 'SIGTERM');
+    r = await start(statePath);
+    await finished(r, id);
+    const t = await thread(r, id);
+    await kill(r, 'SIGTERM');
+    await expectExactlyOnce(statePath, [t]);
+  });
+
+  it('killed right after a reply to a prompt, and right after "go": nothing is lost and nothing posted twice', async () => {
+    const statePath = join(dir, 'replies.duckdb');
+    let r = await start(statePath);
+    const created = await api<{ threadId: string }>(r, '/api/threads', { author: 'maren', text: 'How have bookings moved over time?' });
+    const id = created.json.threadId;
+    // At every question: the reply is accepted (201), then the process is killed at once.
+    let t = await nextQuestion(r, id, 1);
+    for (let turn = 0; turn < 12; turn++) {
+      const last = t.messages.at(-1)!;
+      await say(r, id, last.prompt ? last.prompt.recommended.value : 'go');
+      await kill(r, 'SIGKILL');
+      r = await start(statePath);
+      if (!last.prompt) break;
+      // The reply was read after the restart if not before: the next question comes, once.
+      t = await nextQuestion(r, id, t.messages.length + 1);
+    }
+    await finished(r, id);
+    const done = await thread(r, id);
+    // Each question was asked once: no prompt or plan message repeated.
+    const questions = done.messages.filter(asks).map((m) => m.text);
+    expect(new Set(questions).size).toBe(questions.length);
+    await kill(r, 'SIGTERM');
+    await expectExactlyOnce(statePath, [done]);
+  });
+
+  it('a reply accepted and never handled (the process died first) is read after the restart', async () => {
+    const statePath = join(dir, 'unhandled.duckdb');
+    let r = await start(statePath);
+    const id = await toPlan(r, 'How has revenue moved over time, month by month?');
+    await kill(r, 'SIGTERM');
+    // What a process leaves when it dies between answering 201 and handling the message: the
+    // message in the thread log, nothing in the audit log.
+    const store = await DuckDbStateStore.open(statePath);
+    const log = await DuckDbThreadLog.open(store);
+    const accepted = await log.addPersonMessage(id, 'maren', 'go');
+    await store.close();
+    r = await start(statePath);
+    await finished(r, id);
+    const t = await thread(r, id);
+    expect(t.messages.filter((m) => m.id === accepted!.id)).toHaveLength(1);
+    await kill(r, 'SIGTERM');
+    await expectExactlyOnce(statePath, [t]);
+  });
+
+  it('killed at random moments of runs, several times over: every answer once', async () => {
+    const statePath = join(dir, 'random.duckdb');
+    let r = await start(statePath);
+    const ids = [await toPlan(r, DEMO_REQUEST), await toPlan(r, 'How have revenue, bookings and passengers moved over time?')];
+    for (const id of ids) await say(r, id, 'go');
+    // A seeded spread of moments (no Math.random: a failure can be run again as it was).
+    const delays = [150, 900, 400, 1300, 60, 700];
+    for (const ms of delays) {
+      await new Promise((resolve) => setTimeout(resolve, ms));
+      await kill(r, 'SIGKILL');
+      r = await start(statePath);
+      const all = await Promise.all(ids.map((id) => thread(r, id)));
+      if (all.every(hasSummary)) break;
+    }
+    for (const id of ids) await finished(r, id);
+    const threads = await Promise.all(ids.map((id) => thread(r, id)));
+    await kill(r, 'SIGTERM');
+    await expectExactlyOnce(statePath, threads);
+  });
+});
