@@ -337,4 +337,38 @@ describe('the page in a browser', () => {
       await browser.close();
     }
   });
+
+  it('with an access token: signs in through the form, then posts (the CSRF token goes with it)', async () => {
+    expect(existsSync(CHROMIUM), `chromium not found at ${CHROMIUM}; .ci/run should have installed it`).toBe(true);
+    const token = 'page-test-access-token-0123456789';
+    const received: string[] = [];
+    const channel = new LocalChannel({ port: 0, accessToken: token, deliver: (m) => void received.push(m.text) });
+    await channel.start();
+    const { chromium } = await import('playwright-core');
+    mkdirSync(SHOTS, { recursive: true });
+    const browser = await chromium.launch({ executablePath: CHROMIUM, headless: true, args: ['--no-sandbox', '--disable-gpu', '--no-first-run'] });
+    try {
+      const page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
+      const errors: string[] = [];
+      page.on('pageerror', (e) => errors.push(e.message));
+      await page.goto(channel.url);
+      expect(new URL(page.url()).pathname).toBe('/login');
+      await shot(page, '07-sign-in.png');
+      await page.fill('#token', 'not the token at all, no');
+      await page.getByRole('button', { name: 'Sign in' }).click();
+      await page.waitForSelector('.sign-in .error');
+      await page.fill('#token', token);
+      await page.getByRole('button', { name: 'Sign in' }).click();
+      await page.waitForSelector('#request-text');
+      await page.fill('#request-text', REQUEST);
+      await page.getByRole('button', { name: 'Post request' }).click();
+      await page.waitForSelector('#messages article.request');
+      await waitFor('the request to reach the bot', () => received.length === 1);
+      expect(received).toEqual([REQUEST]);
+      expect(errors).toEqual([]);
+    } finally {
+      await browser.close();
+      await channel.stop();
+    }
+  });
 });

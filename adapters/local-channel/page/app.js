@@ -1,6 +1,6 @@
 // The local channel page: plain JavaScript, no build step. It talks only to the documented API:
 // POST /api/threads, POST /api/threads/:id/messages, GET /api/threads(/:id), the thread's
-// event stream, and /api/files/:id for attachments.
+// event stream, and /api/threads/:id/files/:file for attachments.
 'use strict';
 
 const $ = (id) => document.getElementById(id);
@@ -69,8 +69,20 @@ function author() {
   return $('author').value.trim() || 'you';
 }
 
+// When the server asks for an access token, the page signed in and got a CSRF cookie: each
+// POST sends it back as a header (another site's page cannot read it).
+function csrfHeader() {
+  const m = /(?:^|;\s*)tc_csrf=([^;]+)/.exec(document.cookie);
+  return m ? { 'x-csrf-token': m[1] } : {};
+}
+
 async function api(path, body) {
-  const res = await fetch(path, body ? { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) } : {});
+  const res = await fetch(path, body ? { method: 'POST', headers: { 'content-type': 'application/json', ...csrfHeader() }, body: JSON.stringify(body) } : {});
+  if (res.status === 401) {
+    // Signed out (the token changed): sign in again, then come back here.
+    location.assign('/login');
+    throw new Error('signed out');
+  }
   const data = await res.json().catch(() => ({}));
   if (!res.ok) throw new Error(data.error || `${res.status} ${res.statusText}`);
   return data;
