@@ -16,6 +16,8 @@ import { serveUntilSignal, type Serving } from './serve.js';
 import { sharedStateUrl } from './state-backend.js';
 import { auditLines, AuditUsageError, normaliseSince, readAudit } from './audit.js';
 import type { AuditEntry, AuditFilter } from '../bot/thread-state.js';
+import { StateFileError } from '../bot/stores/state-file-check.js';
+import { backupState, checkState, restoreState, StateUsageError } from './state-file.js';
 
 export const DEMO_REQUEST =
   'Ops review is on the 15th. How has revenue moved over time, month by month? We want to see the busiest and quietest months.';
@@ -45,13 +47,22 @@ Commands:
       Print the audit log (requests, messages, SQL that ran, posts, refusals, runs) as JSON
       lines, oldest first, from the state serve keeps. Stop serve first when it is a file: the
       file is locked while it runs (PostgreSQL state can be read at any time).
+  threadcount state check|backup|restore --config FILE [--state FILE] [--out FILE | --from FILE]
+      The state file's care (stop serve first): check reads it through as serve does at start;
+      backup --out FILE writes a checked copy; restore --from FILE puts a backup in its place,
+      keeping the replaced file beside it.
   threadcount start [--out DIR]
       Generate the demo data (once) into DIR/demo-data, then serve it; prints the page's address.
 
 Environment: the variable the config's conversation.state names (its PostgreSQL URL);
 SLACK_BOT_TOKEN with SLACK_SIGNING_SECRET (Events API over HTTP, SLACK_PORT) or
 SLACK_APP_TOKEN (Socket Mode); DISCORD_BOT_TOKEN; THREADCOUNT_PORT and THREADCOUNT_HOST for
-the local channel (default 127.0.0.1:8787).
+the local channel (default 127.0.0.1:8787), and THREADCOUNT_ACCESS_TOKEN, required when
+THREADCOUNT_HOST is not a loopback address (the API then takes it as a bearer token, the page
+as a sign-in).
+
+Exit codes: 1 unexpected error; 2 a problem in the config, the environment or the command line;
+3 a dataset that cannot be used; 4 a state file that is damaged or in use.
 `;
 
 export async function main(argv: string[]): Promise<number> {
@@ -74,6 +85,8 @@ export async function main(argv: string[]): Promise<number> {
         return await startCommand(rest);
       case 'audit':
         return await auditCommand(rest);
+      case 'state':
+        return await stateCommand(rest);
       case undefined:
       case 'help':
       case '--help':
@@ -102,7 +115,11 @@ function reportError(err: unknown): number {
     process.stderr.write(`threadcount: the environment has problems:\n${err.problems.map((p) => `- ${p}`).join('\n')}\n`);
     return 2;
   }
-  if (err instanceof UsageError || err instanceof AuditUsageError || err instanceof ReadUsageError) {
+  if (err instanceof StateFileError) {
+    process.stderr.write(`threadcount: ${err.message}\n`);
+    return 4;
+  }
+  if (err instanceof UsageError || err instanceof AuditUsageError || err instanceof StateUsageError || err instanceof ReadUsageError) {
     process.stderr.write(`threadcount: ${err.message}\n\n${USAGE}`);
     return 2;
   }
@@ -236,6 +253,32 @@ async function sharedAudit(url: string, schema: string, filter: AuditFilter): Pr
   }
 }
 
+async function stateCommand(rest: string[]): Promise<number> {
+  const [action, ...args] = rest;
+  const v = parse(args, { config: { type: 'string' }, state: { type: 'string' }, out: { type: 'string' }, from: { type: 'string' } });
+  if (!v.config && !v.state) throw new UsageError('state needs --config FILE (or --state FILE)');
+  const statePath = resolve(v.state ?? defaultStatePath(resolve(v.config!)));
+  switch (action) {
+    case 'check':
+      await checkState(statePath);
+      process.stdout.write(`The state file ${statePath} reads through with no damage.\n`);
+      return 0;
+    case 'backup':
+      if (!v.out) throw new UsageError('state backup needs --out FILE');
+      await backupState(statePath, resolve(v.out));
+      process.stdout.write(`Backed up ${statePath} to ${resolve(v.out)} (checked).\n`);
+      return 0;
+    case 'restore': {
+      if (!v.from) throw new UsageError('state restore needs --from FILE');
+      const kept = await restoreState(statePath, resolve(v.from));
+      process.stdout.write(`Restored ${statePath} from ${resolve(v.from)}.${kept.length ? ` The replaced files are kept as ${kept.join(', ')}.` : ''}\n`);
+      return 0;
+    }
+    default:
+      throw new UsageError(`state needs check, backup or restore (got "${action ?? ''}")`);
+  }
+}
+
 async function startCommand(rest: string[]): Promise<number> {
   const v = parse(rest, { out: { type: 'string' } });
   const environment = loadEnvironment();
@@ -255,6 +298,7 @@ function announce(serving: Serving): void {
     `threadcount is answering requests.\n` +
       `Local channel: ${serving.localUrl}\n` +
       (others.length ? `Also connected: ${others.join(', ')}.\n` : 'Slack and Discord are off (no tokens set).\n') +
+      (serving.slackEventsUrl ? `Slack Events API: ${serving.slackEventsUrl}\n` : '') +
       `Try: "${DEMO_REQUEST}"\nPress Ctrl+C to stop.\n`,
   );
 }

@@ -1,0 +1,100 @@
+// `threadcount serve` as a real process refuses to start where it would be unsafe or would lose
+// data: on a non-loopback address without an access token (as the Docker image runs it, on
+// 0.0.0.0), and on a damaged state file, which it leaves exactly as it found it. A backup made
+// with `threadcount state backup` restores the conversations.
+import { createHash } from 'node:crypto';
+import { mkdtempSync, readFileSync, statSync, truncateSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { LocalMessage } from '../../adapters/local-channel/local-thread-log.js';
+import { generateDemo } from '../../config/demo/generate-demo.js';
+import { buildCli, runCli, startReplica, type Replica } from './replica-process.js';
+
+const TOKEN = 'docker-style-token-0123456789abcdef';
+
+describe('serve refuses to start where it would be unsafe or lose data', () => {
+  let build: Awaited<ReturnType<typeof buildCli>>;
+  let configPath: string;
+  let dir: string;
+  const running: Replica[] = [];
+
+  beforeAll(async () => {
+    dir = mkdtempSync(join(tmpdir(), 'tc-guards-'));
+    const [built, demo] = await Promise.all([buildCli(), generateDemo({ outDir: join(dir, 'demo'), rows: 5000 })]);
+    build = built;
+    configPath = demo.configPath;
+  });
+  afterAll(async () => {
+    await Promise.all(running.map((r) => r.stop()));
+    build?.remove();
+  });
+
+  async function start(env: Record<string, string>, args: string[]): Promise<Replica> {
+    const r = await startReplica(build.dir, 'serve', configPath, env, args);
+    running.push(r);
+    return r;
+  }
+  async function stop(r: Replica): Promise<void> {
+    await r.stop();
+    running.splice(running.indexOf(r), 1);
+  }
+
+  it('on 0.0.0.0 (the Docker image\'s setting) without a token: refused, naming the variable; with one, an API call without it gets 401', async () => {
+    const state = join(dir, 'exposed.duckdb');
+    const refused = await runCli(build.dir, ['serve', '--config', configPath, '--state', state], { THREADCOUNT_HOST: '0.0.0.0' });
+    expect(refused.code).toBe(2);
+    expect(refused.stderr).toMatch(/THREADCOUNT_ACCESS_TOKEN/);
+    expect(refused.stderr).toMatch(/THREADCOUNT_HOST=0\.0\.0\.0/);
+    expect(refused.stdout).not.toMatch(/Local channel:/);
+
+    const r = await start({ THREADCOUNT_HOST: '0.0.0.0', THREADCOUNT_ACCESS_TOKEN: TOKEN }, ['--state', state]);
+    const without = await fetch(`${r.url}/api/threads`);
+    expect(without.status).toBe(401);
+    expect((await fetch(`${r.url}/api/threads`, { headers: { authorization: `Bearer ${TOKEN}` } })).status).toBe(200);
+    expect((await fetch(`${r.url}/`, { redirect: 'manual' })).status).toBe(303);
+    await stop(r);
+  });
+
+  it('a truncated state file stops serve with a clear message and is left as it was; a backup restores it', async () => {
+    const state = join(dir, 'state.duckdb');
+    let r = await start({}, ['--state', state]);
+    const created = await fetch(`${r.url}/api/threads`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ author: 'maren', text: 'How has revenue moved over time?' }) });
+    const { threadId } = (await created.json()) as { threadId: string };
+    const asked = async () => ((await (await fetch(`${r.url}/api/threads/${threadId}`)).json()) as { messages: LocalMessage[] }).messages;
+    for (let i = 0; i < 200 && !(await asked()).some((m) => m.prompt); i++) await new Promise((resolve) => setTimeout(resolve, 100));
+    const before = await asked();
+    expect(before.at(-1)!.prompt).toBeDefined();
+    await stop(r);
+
+    const backup = join(dir, 'backup.duckdb');
+    const made = await runCli(build.dir, ['state', 'backup', '--config', configPath, '--state', state, '--out', backup]);
+    expect(made.code, made.stderr).toBe(0);
+    // A backup never overwrites.
+    expect((await runCli(build.dir, ['state', 'backup', '--config', configPath, '--state', state, '--out', backup])).code).toBe(2);
+
+    truncateSync(state, Math.floor(statSync(state).size / 2));
+    const hash = () => createHash('sha256').update(readFileSync(state)).digest('hex');
+    const damaged = hash();
+    const refused = await runCli(build.dir, ['serve', '--config', configPath, '--state', state]);
+    expect(refused.code).toBe(4);
+    expect(refused.stderr).toMatch(/the state file .*state\.duckdb is damaged and was left as it is/);
+    expect(refused.stderr).toMatch(/threadcount state restore --from FILE/);
+    expect(refused.stdout).not.toMatch(/Local channel:/);
+    expect(hash()).toBe(damaged);
+    const checked = await runCli(build.dir, ['state', 'check', '--config', configPath, '--state', state]);
+    expect(checked.code).toBe(4);
+    expect(hash()).toBe(damaged);
+
+    const restored = await runCli(build.dir, ['state', 'restore', '--config', configPath, '--state', state, '--from', backup]);
+    expect(restored.code, restored.stderr).toBe(0);
+    expect(restored.stdout).toMatch(/replaced-/);
+    r = await start({}, ['--state', state]);
+    // The thread is as it was, still waiting on its prompt, and the answer moves it on.
+    expect((await asked()).map((m) => m.id)).toEqual(before.map((m) => m.id));
+    await fetch(`${r.url}/api/threads/${threadId}/messages`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ author: 'maren', text: before.at(-1)!.prompt!.recommended.value }) });
+    for (let i = 0; i < 200 && (await asked()).length <= before.length + 1; i++) await new Promise((resolve) => setTimeout(resolve, 100));
+    expect((await asked()).length).toBeGreaterThan(before.length + 1);
+    await stop(r);
+  });
+});
