@@ -122,13 +122,29 @@ describe('personal data never leaves the database', () => {
   });
 
   it('a correction on the card that names customer email is refused with the rule, and the card stays as it was', async () => {
-    const { end, port, everything } = await converse('Did revenue grow this summer compared with last summer? For my team, no deadline.', {
+    const { end, port, audit, everything } = await converse('Did revenue grow this summer compared with last summer? For my team, no deadline.', {
       dimensions: 'customer email',
     });
     expect(end).toBe('done');
     const refusals = port.posts.filter((p) => /^I can't break anything down by, filter on or show Customer email: the catalog marks it as personal data/.test(p.text));
     expect(refusals).toHaveLength(1);
     expect(port.posts.some((p) => p.text.startsWith('Updated the brief above'))).toBe(false);
+    // The refusal is in the audit log with the words that asked.
+    expect(audit.filter((e) => e.kind === 'denied').map((e) => e.detail)).toEqual([{ reason: 'personal_data', dimensions: ['Customer email'], text: 'customer email' }]);
+    expectNoPersonalData(everything);
+  });
+
+  it('a plan edit that names customer email is refused, and the refusal is audited', async () => {
+    const { end, port, audit, everything } = await converse('How has revenue moved over time? For my team, no deadline.', {
+      plan: ['add a breakdown by customer email', 'go'],
+    });
+    expect(end).toBe('done');
+    const refusal = port.posts.find((p) => /personal data/.test(p.text))!;
+    expect(refusal.text).toMatch(/^I can't break anything down by, filter on or show Customer email/);
+    expect(audit.filter((e) => e.kind === 'denied').map((e) => e.detail)).toEqual([{ reason: 'personal_data', dimensions: ['Customer email'], text: 'add a breakdown by customer email' }]);
+    // Logged before the refusal was posted.
+    const deniedAt = audit.findIndex((e) => e.kind === 'denied');
+    expect(deniedAt).toBeLessThan(audit.findIndex((e) => e.kind === 'post' && e.detail.text === refusal.text));
     expectNoPersonalData(everything);
   });
 });
