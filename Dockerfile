@@ -24,8 +24,11 @@ COPY adapters/local-channel/page ./adapters/local-channel/page
 RUN useradd --system --uid 10001 --home-dir /app threadcount && mkdir -p /app/out && chown threadcount /app/out
 USER threadcount
 # The config (and its data file) is mounted at /config; start writes to /app/out.
-# Inside the container the local channel must listen beyond loopback to be reachable; publish it
-# on the host's loopback only (docker run -p 127.0.0.1:8787:8787 ...): the page has no login.
+# Inside the container the local channel must listen beyond loopback to be reachable, so serve
+# and start refuse to run without THREADCOUNT_ACCESS_TOKEN: pass one in at run time
+# (docker run -e THREADCOUNT_ACCESS_TOKEN ...), never baked into the image. The API then wants it as
+# a bearer token and the page signs in with it. Publishing on the host's loopback only
+# (-p 127.0.0.1:8787:8787) is still the safer choice.
 ENV THREADCOUNT_HOST=0.0.0.0
 EXPOSE 8787 3000
 ENTRYPOINT ["node", "bin/threadcount.js"]

@@ -41,8 +41,12 @@ describe('serve refuses to start where it would be unsafe or lose data', () => {
   }
 
   it('on 0.0.0.0 (the Docker image\'s setting) without a token: refused, naming the variable; with one, an API call without it gets 401', async () => {
+    // The image's own environment, as its Dockerfile sets it: listening beyond loopback, and no token baked in.
+    const imageEnv = dockerfileEnv(readFileSync(new URL('../../Dockerfile', import.meta.url), 'utf8'));
+    expect(imageEnv.THREADCOUNT_HOST).toBe('0.0.0.0');
+    expect(imageEnv.THREADCOUNT_ACCESS_TOKEN).toBeUndefined();
     const state = join(dir, 'exposed.duckdb');
-    const refused = await runCli(build.dir, ['serve', '--config', configPath, '--state', state], { THREADCOUNT_HOST: '0.0.0.0' });
+    const refused = await runCli(build.dir, ['serve', '--config', configPath, '--state', state], imageEnv);
     expect(refused.code).toBe(2);
     expect(refused.stderr).toMatch(/THREADCOUNT_ACCESS_TOKEN/);
     expect(refused.stderr).toMatch(/THREADCOUNT_HOST=0\.0\.0\.0/);
@@ -98,3 +102,10 @@ describe('serve refuses to start where it would be unsafe or lose data', () => {
     await stop(r);
   });
 });
+
+/** The ENV lines of a Dockerfile (the `ENV NAME=value` form it uses). */
+function dockerfileEnv(text: string): Record<string, string> {
+  const env: Record<string, string> = {};
+  for (const m of text.matchAll(/^ENV\s+([A-Z_][A-Z0-9_]*)=(\S*)\s*$/gm)) env[m[1]!] = m[2]!;
+  return env;
+}
