@@ -178,7 +178,7 @@ describe('serve on its state file, stopped hard and started again', () => {
     expect(progress.at(-1)!.text).toMatch(/^All \d+ done\.$/);
     await kill(r, 'SIGTERM');
     await expectExactlyOnce(statePath, threads);
-  });
+  }, 600_000);
 
   it('stopped with SIGTERM mid-run: the run is left and carried on after the restart', async () => {
     const statePath = join(dir, 'sigterm.duckdb');
@@ -192,7 +192,7 @@ describe('serve on its state file, stopped hard and started again', () => {
     const t = await thread(r, id);
     await kill(r, 'SIGTERM');
     await expectExactlyOnce(statePath, [t]);
-  });
+  }, 600_000);
 
   it('killed right after a reply to a prompt, and right after "go": nothing is lost and nothing posted twice', async () => {
     const statePath = join(dir, 'replies.duckdb');
@@ -217,7 +217,7 @@ describe('serve on its state file, stopped hard and started again', () => {
     expect(new Set(questions).size).toBe(questions.length);
     await kill(r, 'SIGTERM');
     await expectExactlyOnce(statePath, [done]);
-  });
+  }, 600_000);
 
   it('a reply accepted and never handled (the process died first) is read after the restart', async () => {
     const statePath = join(dir, 'unhandled.duckdb');
@@ -236,7 +236,7 @@ describe('serve on its state file, stopped hard and started again', () => {
     expect(t.messages.filter((m) => m.id === accepted!.id)).toHaveLength(1);
     await kill(r, 'SIGTERM');
     await expectExactlyOnce(statePath, [t]);
-  });
+  }, 600_000);
 
   it('killed at random moments of runs, several times over: every answer once', async () => {
     const statePath = join(dir, 'random.duckdb');
@@ -256,5 +256,5 @@ describe('serve on its state file, stopped hard and started again', () => {
     const threads = await Promise.all(ids.map((id) => thread(r, id)));
     await kill(r, 'SIGTERM');
     await expectExactlyOnce(statePath, threads);
-  });
+  }, 600_000);
 });

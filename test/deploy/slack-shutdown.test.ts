@@ -65,5 +65,5 @@ describe('serve with Slack unreachable', () => {
     await stopChild(r.child, 10_000);
     expect(r.child.signalCode, r.stderr()).toBeNull();
     expect(r.child.exitCode).toBe(0);
-  });
+  }, 600_000);
 });

@@ -58,7 +58,7 @@ describe('serve refuses to start where it would be unsafe or lose data', () => {
     expect((await fetch(`${r.url}/api/threads`, { headers: { authorization: `Bearer ${TOKEN}` } })).status).toBe(200);
     expect((await fetch(`${r.url}/`, { redirect: 'manual' })).status).toBe(303);
     await stop(r);
-  });
+  }, 600_000);
 
   it('a truncated state file stops serve with a clear message and is left as it was; a backup restores it', async () => {
     const state = join(dir, 'state.duckdb');
@@ -100,7 +100,7 @@ describe('serve refuses to start where it would be unsafe or lose data', () => {
     for (let i = 0; i < 200 && (await asked()).length <= before.length + 1; i++) await new Promise((resolve) => setTimeout(resolve, 100));
     expect((await asked()).length).toBeGreaterThan(before.length + 1);
     await stop(r);
-  });
+  }, 600_000);
 });
 
 /** The ENV lines of a Dockerfile (the `ENV NAME=value` form it uses). */
