@@ -36,7 +36,7 @@ export interface LocalChannelOptions {
 }
 
 /** A request still arriving after this long is dropped (a body declared and never sent holds nothing for long). */
-const REQUEST_TIMEOUT_MS = 10_000;
+const REQUEST_TIMEOUT_MS = 60_000;
 
 /** The error when the channel would listen beyond loopback with no access token. */
 export class OpenBeyondLoopbackError extends Error {
