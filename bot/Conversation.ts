@@ -245,6 +245,12 @@ export class Conversation {
       // The card says the refusal (replies.cardNotes); the audit log records it.
       refusedPersonal(step, ds, personal, thread.brief.requestText);
     }
+    // A value that picks out one person ("bookings for someone@example.com") is never a filter.
+    const values = thread.brief.personalValues ?? [];
+    if (values.length > 0) {
+      step.log('denied', { reason: 'personal_value', kinds: [...new Set(values.map(replies.personalValueKind))], text: thread.brief.requestText });
+      step.say('note', replies.personalValueRefused(values));
+    }
     const ack = replies.acknowledgement(thread.brief, ds);
     const named = datasetWhy ? replies.datasetChosen(ds.label) : '';
     return this.advance(step, thread, named ? `${named} ${ack}` : ack, datasetWhy ? [replies.datasetChosen(ds.label, datasetWhy)] : []);

@@ -11,6 +11,7 @@ import type { Prompt } from './prompts.js';
 import type { RunningState, ThreadState } from './thread-state.js';
 import { SourceError } from '../analysis/sources/data-source.js';
 import { CatalogError } from '../analysis/catalog.js';
+import { listJoin as joinWords } from '../analysis/captions/grammar.js';
 
 export function acknowledgement(brief: Brief, ds: DatasetConfig): string {
   const ack = requestAcknowledgement(brief, ds);
@@ -322,4 +323,16 @@ export function scheduleStopped(s: { words: string; timeZone: string } | undefin
 
 export function scheduledRerun(s: { words: string; timeZone: string }): string {
   return `Scheduled rerun (${s.words} ${s.timeZone}) on fresh data. Say "stop the schedule" to end the schedule.`;
+}
+
+/** What kind of personal value a piece of a request is, as the reader found it (bot/reading). */
+export function personalValueKind(value: string): 'an email address' | 'a phone number' | 'an id of a person' {
+  if (value.includes('@')) return 'an email address';
+  return /^[\d\s()+.-]+$/.test(value) ? 'a phone number' : 'an id of a person';
+}
+
+/** A filter on a value that picks out one person is refused; the value itself is not repeated. */
+export function personalValueRefused(values: readonly string[]): string {
+  const kinds = [...new Set(values.map(personalValueKind))];
+  return `I can't filter on ${joinWords(kinds, 'or')}: that would pick out one person, and personal data is never filtered on or shown in any answer. I'll answer for everyone instead.`;
 }

@@ -147,4 +147,24 @@ describe('personal data never leaves the database', () => {
     expect(deniedAt).toBeLessThan(audit.findIndex((e) => e.kind === 'post' && e.detail.text === refusal.text));
     expectNoPersonalData(everything);
   });
+  it.each([
+    ['How many bookings did someone@example.com make, month by month? For my team, no deadline.', 'someone@example.com', 'an email address'],
+    // The short form the attack probe used: no dot in the domain.
+    ['bookings for someone@example by month, for my team, no deadline', 'someone@example', 'an email address'],
+    ['Revenue from +353 87 123 4567 by month? For my team, no deadline.', '123 4567', 'a phone number'],
+    ['How often does customer 48213 travel, month by month? For my team, no deadline.', '48213', 'an id of a person'],
+  ])('a filter on a personal value is refused with a reply, audited, and the answer is for everyone: %s', async (request, value, kind) => {
+    const { end, port, audit } = await converse(request, { metrics: 'bookings' });
+    expect(end).toBe('done');
+    const refusal = port.posts.find((p) => p.text.startsWith("I can't filter on"))!;
+    expect(refusal.text).toBe(`I can't filter on ${kind}: that would pick out one person, and personal data is never filtered on or shown in any answer. I'll answer for everyone instead.`);
+    expect(audit.filter((e) => e.kind === 'denied').map((e) => e.detail)).toEqual([{ reason: 'personal_value', kinds: [kind], text: request }]);
+    // Answered, and never for that person: the value is in no post, table, SQL file or bound parameter.
+    expect(port.posts.some((p) => Object.keys(p.files).some((n) => n.endsWith('.sql')))).toBe(true);
+    for (const p of port.posts) {
+      expect(p.text).not.toContain(value);
+      for (const f of Object.values(p.files)) expect(f).not.toContain(value);
+    }
+    for (const e of audit.filter((x) => x.kind === 'sql')) expect(JSON.stringify(e.detail)).not.toContain(value);
+  });
 });
