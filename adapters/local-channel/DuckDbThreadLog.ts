@@ -5,12 +5,15 @@
 // connection; one process owns the file, so new events go to this process's streams directly, and
 // each thread's last event number is kept in memory (read once at start) instead of a counter
 // row updated on every message.
-import { blobValue, DuckDBBlobValue, type DuckDBValue } from '@duckdb/node-api';
+import { blobValue, DuckDBBlobValue, type DuckDBListValue, type DuckDBValue } from '@duckdb/node-api';
 import type { OutgoingPost } from '../../bot/port.js';
 import { isDuckDbSession, type DuckDbSession, type DuckDbStateStore } from '../../bot/stores/DuckDbStateStore.js';
 import type { SqlSession } from '../../bot/thread-state.js';
+import type { PostContent } from '../post-view.js';
 import {
+  applyEdit,
   botMessage,
+  offers,
   newId,
   personMessage,
   summaryOf,
@@ -52,7 +55,7 @@ export class DuckDbThreadLog implements LocalThreadLog {
         id VARCHAR NOT NULL, title VARCHAR NOT NULL, author VARCHAR NOT NULL, created_at VARCHAR NOT NULL)`);
       await db.execute(`CREATE TABLE IF NOT EXISTS local_messages (
         id VARCHAR NOT NULL, thread_id VARCHAR NOT NULL, position INTEGER NOT NULL, from_bot BOOLEAN NOT NULL,
-        created_at VARCHAR NOT NULL, post_key VARCHAR, message VARCHAR NOT NULL)`);
+        created_at VARCHAR NOT NULL, post_key VARCHAR, message VARCHAR NOT NULL, offers BOOLEAN NOT NULL)`);
       await db.execute(`CREATE TABLE IF NOT EXISTS local_events (
         thread_id VARCHAR NOT NULL, seq INTEGER NOT NULL, type VARCHAR NOT NULL, message VARCHAR NOT NULL)`);
       await db.execute(`CREATE TABLE IF NOT EXISTS local_files (
@@ -77,8 +80,8 @@ export class DuckDbThreadLog implements LocalThreadLog {
     return { thread: { id }, message };
   }
 
-  async addPersonMessage(threadId: string, author: string, text: string): Promise<LocalMessage | undefined> {
-    const message = personMessage(author, text, this.stamp());
+  async addPersonMessage(threadId: string, author: string, text: string, label?: string): Promise<LocalMessage | undefined> {
+    const message = personMessage(author, text, this.stamp(), label);
     const event = await this.store.exclusive((db) => this.append(db, threadId, message, null), 'channel');
     if (!event) return undefined;
     this.emit(threadId, event);
@@ -116,15 +119,15 @@ export class DuckDbThreadLog implements LocalThreadLog {
     return { message, event: await this.appendAt(db, threadId, seq, message, post.key) };
   }
 
-  async updateText(threadId: string, messageId: string, text: string): Promise<LocalMessage> {
+  /** Replaces a message's text, or with `post` all it shows (see `applyEdit`). */
+  async updateText(threadId: string, messageId: string, text: string, post?: PostContent): Promise<LocalMessage> {
     const event = await this.store.exclusive(async (db) => {
       const found = await db.rows('SELECT message FROM local_messages WHERE thread_id = $1 AND id = $2', [threadId, messageId]);
       if (!found[0]) throw new Error(`no message ${messageId} in local thread ${threadId}`);
       const message = JSON.parse(String(found[0][0])) as LocalMessage;
-      message.text = text;
-      message.updatedAt = this.stamp();
+      applyEdit(message, text, this.stamp(), post);
       const seq = this.nextSeq(threadId);
-      await db.execute('UPDATE local_messages SET message = $3 WHERE thread_id = $1 AND id = $2', [threadId, messageId, JSON.stringify(message)]);
+      await db.execute('UPDATE local_messages SET message = $3, offers = $4 WHERE thread_id = $1 AND id = $2', [threadId, messageId, JSON.stringify(message), offers(message)]);
       return this.recordEvent(db, threadId, seq, 'message.updated', message);
     });
     this.emit(threadId, event);
@@ -142,17 +145,21 @@ export class DuckDbThreadLog implements LocalThreadLog {
   }
 
   async list(): Promise<ThreadSummary[]> {
+    // The tail: from the last bot message offering something to click (or the last message), for `waiting`.
     const rows = await this.store.exclusive((db) =>
       db.rows(
-        `SELECT t.id, t.title, t.author, t.created_at, count(m.id), arg_max(m.message, m.position)
-         FROM local_threads t LEFT JOIN local_messages m ON m.thread_id = t.id
-         GROUP BY t.id, t.title, t.author, t.created_at ORDER BY t.created_at DESC, t.id`,
+        `SELECT t.id, t.title, t.author, t.created_at,
+                (SELECT count(*) FROM local_messages m WHERE m.thread_id = t.id),
+                (SELECT list(m.message ORDER BY m.position) FROM local_messages m WHERE m.thread_id = t.id AND m.position >= COALESCE(
+                   (SELECT max(x.position) FROM local_messages x WHERE x.thread_id = t.id AND x.offers),
+                   (SELECT max(y.position) FROM local_messages y WHERE y.thread_id = t.id)))
+         FROM local_threads t ORDER BY t.created_at DESC, t.id`,
       ),
       'channel',
     );
     return rows.map((r) => {
-      const last = r[5] === null ? undefined : (JSON.parse(String(r[5])) as LocalMessage);
-      return summaryOf({ id: String(r[0]), title: String(r[1]), author: String(r[2]), createdAt: String(r[3]) }, Number(r[4]), last);
+      const tail = r[5] === null ? [] : (r[5] as DuckDBListValue).items.map((m) => JSON.parse(String(m)) as LocalMessage);
+      return summaryOf({ id: String(r[0]), title: String(r[1]), author: String(r[2]), createdAt: String(r[3]) }, Number(r[4]), tail);
     });
   }
 
@@ -209,8 +216,8 @@ export class DuckDbThreadLog implements LocalThreadLog {
 
   /** The message at its place in the thread (its event's number), and its event. */
   private async appendAt(db: DuckDbSession, threadId: string, seq: number, message: LocalMessage, postKey: string | null): Promise<LocalEvent> {
-    const row: DuckDBValue[] = [message.id, threadId, seq, message.fromBot, message.createdAt, postKey, JSON.stringify(message)];
-    await db.execute('INSERT INTO local_messages VALUES ($1, $2, $3, $4, $5, $6, $7)', row);
+    const row: DuckDBValue[] = [message.id, threadId, seq, message.fromBot, message.createdAt, postKey, JSON.stringify(message), offers(message)];
+    await db.execute('INSERT INTO local_messages VALUES ($1, $2, $3, $4, $5, $6, $7, $8)', row);
     return this.recordEvent(db, threadId, seq, 'message.created', message);
   }
 

@@ -165,7 +165,8 @@ export function openMessage(messages: readonly LocalMessage[]): LocalMessage | u
   return answered ? undefined : m;
 }
 
-function offers(m: LocalMessage): boolean {
+/** Whether a message offers something to click (a prompt, quick replies or controls). */
+export function offers(m: LocalMessage): boolean {
   return Boolean(m.prompt || m.quickReplies?.length || m.controls?.length);
 }
 

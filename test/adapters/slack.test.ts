@@ -147,6 +147,8 @@ function eventBody(event: Record<string, unknown>, eventId = `Ev${String(++event
   });
 }
 
+// Slack stamps every click with its own action_ts; the adapter drops a click it has seen (a replay).
+let clicks = 0;
 function actionBody(post: ApiCall, ts: string, action: Record<string, unknown>, state?: Record<string, unknown>): string {
   const payload = {
     type: 'block_actions',
@@ -159,7 +161,7 @@ function actionBody(post: ApiCall, ts: string, action: Record<string, unknown>, 
     channel: { id: CHANNEL, name: 'data-requests' },
     message: { type: 'message', ts, thread_ts: REQUEST_TS, text: post.params.text, blocks: post.params.blocks, user: 'UBOT', bot_id: 'BBOT' },
     response_url: 'https://hooks.slack.com/actions/T1/1/abc',
-    actions: [{ block_id: 'tc.prompt', action_ts: '1764579800.000001', ...action }],
+    actions: [{ block_id: 'tc.prompt', action_ts: `1764579800.${String(++clicks).padStart(6, '0')}`, ...action }],
     ...(state ? { state: { values: state } } : {}),
   };
   return new URLSearchParams({ payload: JSON.stringify(payload) }).toString();

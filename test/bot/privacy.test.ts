@@ -130,7 +130,7 @@ describe('personal data never leaves the database', () => {
     expect(refusals).toHaveLength(1);
     expect(port.posts.some((p) => p.text.startsWith('Updated the brief above'))).toBe(false);
     // The refusal is in the audit log with the words that asked.
-    expect(audit.filter((e) => e.kind === 'denied').map((e) => e.detail)).toEqual([{ reason: 'personal_data', dimensions: ['Customer email'], text: 'customer email' }]);
+    expect(audit.filter((e) => e.kind === 'denied').map((e) => e.detail)).toEqual([{ reason: 'personal_data', dimensions: ['Customer email'], text: 'add customer email' }]);
     expectNoPersonalData(everything);
   });
 

@@ -98,7 +98,7 @@ describe('serve on its state file, stopped hard and started again', () => {
       await say(r, id, t.messages.at(-1)!.prompt!.recommended.value);
       t = await nextQuestion(r, id, t.messages.length + 1);
     }
-    expect(t.messages.at(-1)!.text).toMatch(/^Here is the plan/);
+    expect(t.messages.at(-1)!.text).toMatch(/^\*Here is what I understood\.\*/);
     return id;
   }
 
@@ -122,7 +122,8 @@ describe('serve on its state file, stopped hard and started again', () => {
         expect(state?.stage).toBe('done');
         const items = state!.stage === 'done' ? state!.plan.items : [];
         const audit = await store.listAudit({ threadId: botId });
-        const keys = audit.filter((e) => e.kind === 'post').map((e) => String(e.detail.key));
+        // An edit in place (the brief card after a correction) is logged under a key of its own and makes no message.
+        const keys = audit.filter((e) => e.kind === 'post' && !e.detail.edits).map((e) => String(e.detail.key));
         expect(new Set(keys).size).toBe(keys.length);
         // One message per post key: nothing posted that the log does not show, nothing shown twice.
         expect(botMessages(t)).toHaveLength(keys.length);
@@ -194,25 +195,43 @@ describe('serve on its state file, stopped hard and started again', () => {
     await expectExactlyOnce(statePath, [t]);
   }, 600_000);
 
-  it('killed right after a reply to a prompt, and right after "go": nothing is lost and nothing posted twice', async () => {
+  it('killed right after a reply to a prompt, a correction to the card, and "go": nothing is lost and nothing posted twice', async () => {
     const statePath = join(dir, 'replies.duckdb');
     let r = await start(statePath);
-    const created = await api<{ threadId: string }>(r, '/api/threads', { author: 'maren', text: 'How have bookings moved over time?' });
+    // No measure named: the bot asks for one before it can post the card.
+    const created = await api<{ threadId: string }>(r, '/api/threads', { author: 'maren', text: 'How have things moved over time?' });
     const id = created.json.threadId;
     // At every question: the reply is accepted (201), then the process is killed at once.
     let t = await nextQuestion(r, id, 1);
-    for (let turn = 0; turn < 12; turn++) {
-      const last = t.messages.at(-1)!;
-      await say(r, id, last.prompt ? last.prompt.recommended.value : 'go');
+    let prompts = 0;
+    for (let turn = 0; turn < 12 && t.messages.at(-1)!.prompt; turn++) {
+      await say(r, id, t.messages.at(-1)!.prompt!.recommended.value);
+      prompts++;
       await kill(r, 'SIGKILL');
       r = await start(statePath);
-      if (!last.prompt) break;
       // The reply was read after the restart if not before: the next question comes, once.
       t = await nextQuestion(r, id, t.messages.length + 1);
     }
+    expect(prompts, 'the request was asked about before its card').toBeGreaterThan(0);
+    const card = t.messages.at(-1)!;
+    expect(card.text).toMatch(/^\*Here is what I understood\.\*/);
+    // A correction edits the card in place and confirms in one line; killed at once, it is read once.
+    await say(r, id, 'for leadership');
+    await kill(r, 'SIGKILL');
+    r = await start(statePath);
+    t = await poll('the correction confirmed', async () => {
+      const now = await thread(r, id);
+      return now.messages.length > t.messages.length + 1 ? now : undefined;
+    });
+    await say(r, id, 'go');
+    await kill(r, 'SIGKILL');
+    r = await start(statePath);
     await finished(r, id);
     const done = await thread(r, id);
-    // Each question was asked once: no prompt or plan message repeated.
+    const edited = done.messages.find((m) => m.id === card.id)!;
+    expect(edited.updatedAt, 'the card was edited in place').toBeDefined();
+    expect(edited.text).not.toBe(card.text);
+    // Each question was asked once: no prompt or card message repeated.
     const questions = done.messages.filter(asks).map((m) => m.text);
     expect(new Set(questions).size).toBe(questions.length);
     await kill(r, 'SIGTERM');

@@ -66,9 +66,10 @@ describe('serve refuses to start where it would be unsafe or lose data', () => {
     const created = await fetch(`${r.url}/api/threads`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ author: 'maren', text: 'How has revenue moved over time?' }) });
     const { threadId } = (await created.json()) as { threadId: string };
     const asked = async () => ((await (await fetch(`${r.url}/api/threads/${threadId}`)).json()) as { messages: LocalMessage[] }).messages;
-    for (let i = 0; i < 200 && !(await asked()).some((m) => m.prompt); i++) await new Promise((resolve) => setTimeout(resolve, 100));
+    // The brief card: it waits for "go" or a correction.
+    for (let i = 0; i < 200 && !(await asked()).some((m) => m.fromBot && m.quickReplies?.length); i++) await new Promise((resolve) => setTimeout(resolve, 100));
     const before = await asked();
-    expect(before.at(-1)!.prompt).toBeDefined();
+    expect(before.at(-1)!.quickReplies?.length).toBeGreaterThan(0);
     await stop(r);
 
     const backup = join(dir, 'backup.duckdb');
@@ -94,9 +95,9 @@ describe('serve refuses to start where it would be unsafe or lose data', () => {
     expect(restored.code, restored.stderr).toBe(0);
     expect(restored.stdout).toMatch(/replaced-/);
     r = await start({}, ['--state', state]);
-    // The thread is as it was, still waiting on its prompt, and the answer moves it on.
+    // The thread is as it was, still waiting on its card, and "go" moves it on.
     expect((await asked()).map((m) => m.id)).toEqual(before.map((m) => m.id));
-    await fetch(`${r.url}/api/threads/${threadId}/messages`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ author: 'maren', text: before.at(-1)!.prompt!.recommended.value }) });
+    await fetch(`${r.url}/api/threads/${threadId}/messages`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ author: 'maren', text: 'go' }) });
     for (let i = 0; i < 200 && (await asked()).length <= before.length + 1; i++) await new Promise((resolve) => setTimeout(resolve, 100));
     expect((await asked()).length).toBeGreaterThan(before.length + 1);
     await stop(r);
