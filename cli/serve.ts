@@ -146,10 +146,11 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
   // What was under way before a restart carries on: posts decided and not yet made, runs, and
   // (with the state file, which no other process shares) messages accepted and never handled.
   // This may take a while, so it is not awaited.
-  bot
+  let stopping = false;
+  const resuming = bot
     .resume()
     .catch((err: unknown) => log(`threadcount: resuming earlier work failed: ${err instanceof Error ? err.message : String(err)}`))
-    .then(() => (backend.shared ? undefined : sweep(0, startedAt)))
+    .then(() => (backend.shared || stopping ? undefined : sweep(0, startedAt)))
     .catch(() => undefined);
   const timer = setInterval(() => {
     bot.tick().catch((err: unknown) => log(`threadcount: reminder check failed: ${err instanceof Error ? err.message : String(err)}`));
@@ -166,6 +167,7 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
     inbox,
     local,
     async stop() {
+      stopping = true;
       clearInterval(timer);
       if (sweeper) clearInterval(sweeper);
       // Whatever the network does, stopping ends in time: what is left is resumed after a restart.
@@ -178,6 +180,8 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
       for (const a of [...started].reverse()) await within(`stopping ${a.name}`, a.stop(), 2_500);
       // A reply waiting on a platform that does not answer is left in its thread's outbox, and posted after a restart.
       await within('messages being handled', inbox!.idle(), 1_500);
+      // The start-up sweep reads the state: it ends (or is skipped) before the state closes.
+      await within('taking up earlier work', resuming, 1_000);
       await within('closing the state', backend.close(), 500);
       await within('closing the datasets', closeWorkspaces(workspaces));
     },

@@ -141,6 +141,8 @@ export class DuckDbStateStore implements StateStore {
    * then run together in one transaction; each caller's promise settles only after that commit.
    */
   private serial<T>(work: () => Promise<T>, lane: Lane = 'bot'): Promise<T> {
+    // Work arriving after close (a late sweep, a stray timer) is refused here: DuckDB must never see a closed connection.
+    if (this.closed) return Promise.reject(new Error('the state file is closed'));
     return new Promise<T>((resolve, reject) => {
       this.waiting[lane].push({ work, resolve: resolve as (value: unknown) => void, reject });
       if (!this.draining) void this.drain();
@@ -386,8 +388,14 @@ export class DuckDbStateStore implements StateStore {
     return work();
   }
 
+  /** Set once close has begun: the work already queued runs, nothing new is taken. */
+  private closed = false;
+
   async close(): Promise<void> {
-    await this.serial(async () => undefined);
+    if (this.closed) return;
+    const drained = this.serial(async () => undefined);
+    this.closed = true;
+    await drained;
     for (const p of this.prepared.values()) (await p.catch(() => undefined))?.destroySync();
     this.connection.closeSync();
     this.instance.closeSync();
