@@ -260,14 +260,15 @@ async function oneRequest(
   return { accepted, serverMs, acknowledged: performance.now() - started };
 }
 
-interface Server {
+export interface Server {
   url: string;
+  pid: number;
   /** The server's peak resident memory so far (Linux: VmHWM), in KiB; null where unknown. */
   peakKb(): number | null;
   stop(): Promise<void>;
 }
 
-async function startServer(configPath: string, statePath: string, extraEnv: Record<string, string> = {}): Promise<Server> {
+export async function startServer(configPath: string, statePath: string, extraEnv: Record<string, string> = {}): Promise<Server> {
   // Only the local channel: the chat platforms' tokens are left out of the child's environment.
   const env: NodeJS.ProcessEnv = {};
   for (const [k, v] of Object.entries(process.env)) if (!/^(SLACK|DISCORD)_/.test(k)) env[k] = v;
@@ -296,5 +297,5 @@ async function startServer(configPath: string, statePath: string, extraEnv: Reco
       reject(new Error(`threadcount serve exited (${code}) before it listened: ${stderr}`));
     });
   });
-  return { url, peakKb: () => peakRssKb(child.pid), stop: () => stopChild(child) };
+  return { url, pid: child.pid!, peakKb: () => peakRssKb(child.pid), stop: () => stopChild(child) };
 }

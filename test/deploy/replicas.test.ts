@@ -200,7 +200,7 @@ describeWithPostgres('two replicas on one PostgreSQL', (pgUrl) => {
       expect(keys.filter((k) => k === `${id}:run1:summary`)).toHaveLength(1);
       // What the thread shows matches: one message per post key, each answer's number once.
       const messages = (await thread(b, id.slice('local:'.length))).messages.filter((m) => m.fromBot);
-      expect(messages).toHaveLength(keys.length);
+      expect(messages.map((m) => m.text.slice(0, 60)), `post keys: ${keys.join(', ')}`).toHaveLength(keys.length);
       const numbered = messages.map((m) => /^\*(\d+)\. /.exec(m.text)?.[1]).filter(Boolean);
       expect(numbered).toEqual(items.map((_, i) => String(i + 1)));
       expect(messages.filter((m) => m.text.startsWith('*Summary*'))).toHaveLength(1);
