@@ -1,14 +1,15 @@
-// The chat side over many runs: `threadcount serve` (a child process, the embedded state file) is
+// The chat side under load. First a burst: 200 requests at once (bench/ack.ts), with the time from
+// each request to the bot's first reply in its thread. Then many runs: `threadcount serve` (a child process, the embedded state file) is
 // given one request after another through the local channel's API, each taken from its brief card
 // to its summary with "go", and its resident memory (VmRSS, from /proc) is read after runs 10, 50
 // and 100. Charts, tables and SQL live in the state file, not in the process, so memory should
 // level off rather than grow with every run (issue 18: within 10% from run 10 to run 100).
-//   npm run bench:chat-memory [-- --runs N]
+//   npm run bench:chat-memory [-- --runs N] [--no-burst]
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { generateDemo } from '../config/demo/generate-demo.js';
-import { startServer } from './ack.js';
+import { measureAck, startServer } from './ack.js';
 
 interface Message {
   fromBot: boolean;
@@ -59,6 +60,28 @@ async function main(): Promise<void> {
   const dir = mkdtempSync(join(tmpdir(), 'threadcount-bench-chat-memory-'));
   try {
     const demo = await generateDemo({ outDir: join(dir, 'demo') });
+    if (!process.argv.includes('--no-burst')) {
+      // Without PostgreSQL: the embedded state file only.
+      delete process.env.THREADCOUNT_BENCH_PG_URL;
+      delete process.env.THREADCOUNT_TEST_PG_URL;
+      const burst = await measureAck(demo.configPath, 200);
+      const q = (xs: number[], p: number) => {
+        const sorted = [...xs].sort((a, b) => a - b);
+        return sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)]!;
+      };
+      process.stdout.write(
+        [
+          `200 requests at once to serve on the state file, after a warm-up round (${burst.acknowledgedMs.length} of 200 replied within the limit):`,
+          '',
+          '| from the request to | p50 (ms) | p99 (ms) |',
+          '|---|---|---|',
+          `| the API's 201 | ${q(burst.acceptedMs, 50).toFixed(0)} | ${q(burst.acceptedMs, 99).toFixed(0)} |`,
+          `| the bot's first reply in the thread | ${q(burst.acknowledgedMs, 50).toFixed(0)} | ${q(burst.acknowledgedMs, 99).toFixed(0)} |`,
+          '',
+          '',
+        ].join('\n'),
+      );
+    }
     const server = await startServer(demo.configPath, join(dir, 'state.duckdb'));
     const pid = server.pid;
     const rows: string[] = [];
