@@ -13,7 +13,7 @@ import type { PostContent } from '../post-view.js';
 import {
   applyEdit,
   botMessage,
-  offers,
+  startsTail,
   newId,
   personMessage,
   summaryOf,
@@ -55,7 +55,7 @@ export class DuckDbThreadLog implements LocalThreadLog {
         id VARCHAR NOT NULL, title VARCHAR NOT NULL, author VARCHAR NOT NULL, created_at VARCHAR NOT NULL)`);
       await db.execute(`CREATE TABLE IF NOT EXISTS local_messages (
         id VARCHAR NOT NULL, thread_id VARCHAR NOT NULL, position INTEGER NOT NULL, from_bot BOOLEAN NOT NULL,
-        created_at VARCHAR NOT NULL, post_key VARCHAR, message VARCHAR NOT NULL, offers BOOLEAN NOT NULL)`);
+        created_at VARCHAR NOT NULL, post_key VARCHAR, message VARCHAR NOT NULL, starts_tail BOOLEAN NOT NULL)`);
       await db.execute(`CREATE TABLE IF NOT EXISTS local_events (
         thread_id VARCHAR NOT NULL, seq INTEGER NOT NULL, type VARCHAR NOT NULL, message VARCHAR NOT NULL)`);
       await db.execute(`CREATE TABLE IF NOT EXISTS local_files (
@@ -127,7 +127,7 @@ export class DuckDbThreadLog implements LocalThreadLog {
       const message = JSON.parse(String(found[0][0])) as LocalMessage;
       applyEdit(message, text, this.stamp(), post);
       const seq = this.nextSeq(threadId);
-      await db.execute('UPDATE local_messages SET message = $3, offers = $4 WHERE thread_id = $1 AND id = $2', [threadId, messageId, JSON.stringify(message), offers(message)]);
+      await db.execute('UPDATE local_messages SET message = $3, starts_tail = $4 WHERE thread_id = $1 AND id = $2', [threadId, messageId, JSON.stringify(message), startsTail(message)]);
       return this.recordEvent(db, threadId, seq, 'message.updated', message);
     });
     this.emit(threadId, event);
@@ -145,13 +145,13 @@ export class DuckDbThreadLog implements LocalThreadLog {
   }
 
   async list(): Promise<ThreadSummary[]> {
-    // The tail: from the last bot message offering something to click (or the last message), for `waiting`.
+    // The tail: from the last bot message offering something to click or naming a stage (or the last message), for `waiting` and `stage`.
     const rows = await this.store.exclusive((db) =>
       db.rows(
         `SELECT t.id, t.title, t.author, t.created_at,
                 (SELECT count(*) FROM local_messages m WHERE m.thread_id = t.id),
                 (SELECT list(m.message ORDER BY m.position) FROM local_messages m WHERE m.thread_id = t.id AND m.position >= COALESCE(
-                   (SELECT max(x.position) FROM local_messages x WHERE x.thread_id = t.id AND x.offers),
+                   (SELECT max(x.position) FROM local_messages x WHERE x.thread_id = t.id AND x.starts_tail),
                    (SELECT max(y.position) FROM local_messages y WHERE y.thread_id = t.id)))
          FROM local_threads t ORDER BY t.created_at DESC, t.id`,
       ),
@@ -216,7 +216,7 @@ export class DuckDbThreadLog implements LocalThreadLog {
 
   /** The message at its place in the thread (its event's number), and its event. */
   private async appendAt(db: DuckDbSession, threadId: string, seq: number, message: LocalMessage, postKey: string | null): Promise<LocalEvent> {
-    const row: DuckDBValue[] = [message.id, threadId, seq, message.fromBot, message.createdAt, postKey, JSON.stringify(message), offers(message)];
+    const row: DuckDBValue[] = [message.id, threadId, seq, message.fromBot, message.createdAt, postKey, JSON.stringify(message), startsTail(message)];
     await db.execute('INSERT INTO local_messages VALUES ($1, $2, $3, $4, $5, $6, $7, $8)', row);
     return this.recordEvent(db, threadId, seq, 'message.created', message);
   }

@@ -170,6 +170,11 @@ export function offers(m: LocalMessage): boolean {
   return Boolean(m.prompt || m.quickReplies?.length || m.controls?.length);
 }
 
+/** Where a thread list's tail may start: a bot message offering something to click or naming a stage (see summaryOf). */
+export function startsTail(m: LocalMessage): boolean {
+  return m.fromBot && (offers(m) || m.kind !== undefined);
+}
+
 /** A summary of a thread from its last messages: at least the last, and from the last one offering something to click or naming a stage. */
 export function summaryOf(t: Omit<LocalThreadView, 'messages'>, messageCount: number, tail: readonly LocalMessage[]): ThreadSummary {
   const last = tail.at(-1);

@@ -121,8 +121,10 @@ export class DuckDbStateStore implements StateStore {
   private readonly session: DuckDbSession = {
     kind: 'duckdb',
     execute: (sql, params = []) => this.execute(sql, params),
-    rows: async (sql, params = []) => (await (await this.statement(sql, params)).runAndReadAll()).getRows(),
-    query: async (sql, values = []) => ({ rows: (await (await this.statement(sql, values as DuckDBValue[])).runAndReadAll()).getRowObjects() }),
+    // Reads are not prepared once and reused: a cached statement read again while the page asked
+    // for the thread list returned strings from freed memory (ids like "M", titles like U+FFFD).
+    rows: async (sql, params = []) => (await this.connection.runAndReadAll(sql, params)).getRows(),
+    query: async (sql, values = []) => ({ rows: (await this.connection.runAndReadAll(sql, values as DuckDBValue[])).getRowObjects() }),
     afterCommit: (work) => void this.committed.push(work),
   };
 
