@@ -181,6 +181,14 @@ describeWithPostgres('two replicas on one PostgreSQL', (pgUrl) => {
     expect(doneAtKill).toBeLessThan(n);
 
     await poll('every run to finish on the surviving replica', async () => ((await finished()) === n ? true : undefined), 240_000, 500);
+    // The thread's zip follows its summary in a commit of its own: wait for those B owes, so the
+    // audit log and the threads are read at rest. (One A finished may have no zip: A died.)
+    await poll('the zip of every run the surviving replica finished', async () => {
+      const entries = await auditOf(botIds);
+      const finishedByB = entries.filter((e) => e.kind === 'run' && e.detail.event === 'finished' && e.detail.replica === b.replicaName).map((e) => e.thread_id);
+      const zipped = new Set(entries.filter((e) => e.kind === 'post' && String(e.detail.key).endsWith(':run1:bundle')).map((e) => e.thread_id));
+      return finishedByB.every((id) => zipped.has(id)) ? true : undefined;
+    }, 120_000, 500);
 
     const audit = await auditOf(botIds);
     const plans = await db.query<{ thread_id: string; items: { id: string }[] }>(`SELECT thread_id, state->'plan'->'items' AS items FROM ${table('threads')} WHERE thread_id = ANY($1)`, [botIds]);
