@@ -28,7 +28,12 @@ export type TestName = 'welch_t' | 'two_proportion_z' | 'delta_ratio_z' | 'did_t
  */
 export type NoTestReason = 'empty_group' | 'too_few' | 'no_variation' | 'not_testable' | 'suppressed';
 
-export type Verdict = 'better' | 'worse' | 'no_clear_difference';
+/**
+ * `better` / `worse`: a clear difference on a quantity with a good direction (the metric's
+ * higher_is_better); `clear_difference`: a clear difference on a quantity with none (two groups'
+ * daily volumes, which differ by the groups' sizes), said as higher or lower only.
+ */
+export type Verdict = 'better' | 'worse' | 'clear_difference' | 'no_clear_difference';
 
 /** Which two estimates a difference is between: members − others, or after − before within one group. */
 export type Comparison = 'members_vs_others' | 'others_after_vs_before' | 'members_after_vs_before';
@@ -144,7 +149,8 @@ export interface PerformanceVerdictFinding {
   basis: 'test' | 'exact' | 'none';
   pValue: number | null;
   alpha: number;
-  higherIsBetter: boolean;
+  /** The compared quantity's good direction; null when it has none (see `goodDirection`). */
+  higherIsBetter: boolean | null;
   relative: number | null;
 }
 

@@ -13,7 +13,7 @@ import type { Caveat, CellValue, DateWindow, Finding, Grain, NamedQuery, PeriodP
 import { differenceFinding, primaryMetric } from './performance-compare.js';
 import { ALPHA, CONFIDENCE, compileUnitsLeftOut, EMPTY_TABLE, groupCaveats, groupKnown, isSuppressed, memberFlag, resolveGroup, roleLabel, roleOf, throughUnitsCondition, unitsLeftOutFinding } from './performance-common.js';
 import { minGroupSize, suppressedGroupsCaveat, suppressSmallCells } from './small-groups.js';
-import { cellFromRow, comparisonPlanFor, comparisonShape, measureColumns, perDayQuery, type MeasurePlan } from './performance-measure.js';
+import { cellFromRow, comparisonPlanFor, comparisonShape, goodDirection, measureColumns, perDayQuery, type MeasurePlan } from './performance-measure.js';
 import { type Cell, cellEstimate, compareCells, contrast, logRatioContrast, poolCells, verdictOf } from './performance-stats.js';
 import type { Template } from './template.js';
 
@@ -155,9 +155,9 @@ export function readBeforeAfter(
       type: 'performance_verdict',
       metric: metric.name,
       comparison: 'members_vs_others',
-      ...verdictOf(result, metric.higher_is_better, ALPHA),
+      ...verdictOf(result, goodDirection(metric, shape.quantity), ALPHA),
       alpha: ALPHA,
-      higherIsBetter: metric.higher_is_better,
+      higherIsBetter: goodDirection(metric, shape.quantity),
       relative: result.kind === 'test' ? result.relative : null,
     });
   };

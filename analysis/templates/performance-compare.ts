@@ -27,7 +27,7 @@ import {
   unitsLeftOutFinding,
   windowFinding,
 } from './performance-common.js';
-import { cellFromRow, comparisonPlanFor, comparisonShape, isMoney, measureColumns, medianColumn, num, perDayQuery, planMeasure, type MeasurePlan } from './performance-measure.js';
+import { cellFromRow, comparisonPlanFor, comparisonShape, goodDirection, isMoney, measureColumns, medianColumn, num, perDayQuery, planMeasure, type MeasurePlan } from './performance-measure.js';
 import { daysBetween } from '../periods.js';
 import { type Cell, cellEstimate, cellInterval, compareCells, verdictOf, type TestedDifference, type UntestedDifference } from './performance-stats.js';
 import { minGroupSize, suppressSmallCells } from './small-groups.js';
@@ -178,14 +178,15 @@ export function readGroupComparison(
   const result = compareCells(cells.members, cells.others, CONFIDENCE);
   findings.push(differenceFinding(metric.name, 'members_vs_others', shape.kind, result, cells.members.n, cells.others.n));
   if (shape.kind !== 'total') {
-    const v = verdictOf(result, metric.higher_is_better, ALPHA);
+    const good = goodDirection(metric, shape.quantity);
+    const v = verdictOf(result, good, ALPHA);
     findings.push({
       type: 'performance_verdict',
       metric: metric.name,
       comparison: 'members_vs_others',
       ...v,
       alpha: ALPHA,
-      higherIsBetter: metric.higher_is_better,
+      higherIsBetter: good,
       relative: result.kind === 'test' ? result.relative : relativeOf(result.first, result.second),
     });
   }

@@ -102,6 +102,15 @@ export function planComparison(q: QueryBuilder, ds: DatasetConfig, metric: Metri
   return planMeasure(q, ds, metric);
 }
 
+/**
+ * Whether higher is better for the quantity compared between groups: the metric's own declared
+ * direction, except for a count per day, which is two groups' volumes (they differ by the groups'
+ * sizes, so neither side is better for having more); null when there is no good direction.
+ */
+export function goodDirection(metric: Metric, quantity: Quantity): boolean | null {
+  return quantity === 'per_day' ? null : metric.higher_is_better;
+}
+
 /** The shape of `planComparison` without building SQL for a real engine. */
 export function comparisonShape(ds: DatasetConfig, metric: Metric): Pick<MeasurePlan, 'kind' | 'quantity' | 'additive' | 'perDay'> {
   const p = planComparison(new QueryBuilder(duckdbDialect), ds, metric);

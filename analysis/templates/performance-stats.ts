@@ -345,9 +345,11 @@ export interface VerdictParts {
 
 /**
  * Better / worse only when the test rejects equality at `alpha` (or when neither group varies at
- * all, so the difference is exact); the metric's higher_is_better decides which way is better.
+ * all, so the difference is exact); `higherIsBetter` (the compared quantity's good direction,
+ * `goodDirection`) decides which way is better, and when it is null a clear difference is only a
+ * clear difference.
  */
-export function verdictOf(result: TestedDifference | UntestedDifference, higherIsBetter: boolean, alpha: number): VerdictParts {
+export function verdictOf(result: TestedDifference | UntestedDifference, higherIsBetter: boolean | null, alpha: number): VerdictParts {
   if (result.kind === 'test') {
     const direction = directionOf(result.difference);
     const clear = result.pValue < alpha && direction !== 'equal';
@@ -361,7 +363,8 @@ export function verdictOf(result: TestedDifference | UntestedDifference, higherI
   return { verdict: 'no_clear_difference', direction, basis: 'none', pValue: null };
 }
 
-function goodOrBad(direction: Direction, higherIsBetter: boolean): Verdict {
+function goodOrBad(direction: Direction, higherIsBetter: boolean | null): Verdict {
+  if (higherIsBetter === null) return 'clear_difference';
   return (direction === 'higher') === higherIsBetter ? 'better' : 'worse';
 }
 

@@ -270,6 +270,10 @@ describe('a filtered count compared between groups of sites', () => {
     expect(p.caption).toMatch(/over 366 and 366 days/);
     expect(p.caption).not.toMatch(/better|worse/);
     expect(p.caption).toMatch(/daily volumes/);
+    // Nor does the stored verdict, which the summary and digest may read: the groups' volumes have
+    // no good direction, so a clear gap (25 against 38 visits a day by design) is only a clear gap.
+    expect(find(a, 'performance_verdict')[0]).toMatchObject({ verdict: 'clear_difference', direction: 'lower', higherIsBetter: null });
+    expect(p.takeaway?.text ?? '').not.toMatch(/better|worse/);
   });
 
   it('per site: each site side per day matches the raw rows', async () => {
