@@ -52,7 +52,8 @@ export interface Question {
 }
 
 /** How a slot of the brief got its value. */
-export type EvidenceHow = 'stated' | 'inferred' | 'default';
+/** `answered`: from the requester's answer to a prompt, not the request's words. */
+export type EvidenceHow = 'stated' | 'inferred' | 'default' | 'answered';
 
 export interface Evidence {
   /** The words the value was read from (empty for a default). */

@@ -5,17 +5,18 @@
 // correction read by the same reader as typed words.
 import type { Coverage } from '../analysis/coverage.js';
 import { grainAdjective } from '../analysis/grains.js';
+import { addDays } from '../analysis/periods.js';
 import { GRAINS, type DateWindow, type Grain, type SubQuestion } from '../analysis/types.js';
 import { describeWindow } from '../analysis/window-words.js';
 import { isBreakdownDimension } from '../analysis/catalog.js';
 import type { DatasetConfig } from '../config/schema.js';
-import type { Brief, Question } from './brief.js';
+import type { Brief, Evidence, Question } from './brief.js';
 import type { Plan } from './plan.js';
 import type { PostControl } from './port.js';
 import { planLines } from './replies.js';
 import { describeSubQuestion } from '../analysis/sub-questions/describe.js';
 import { fullWindow } from './reading/answers.js';
-import { AUDIENCE_LABELS } from './reading/lexicon.js';
+import { AUDIENCE_LABELS, SEASON_ASK, WEEKDAY_ASK } from './reading/lexicon.js';
 
 export const CARD_TOPICS = ['audience', 'deadline', 'metrics', 'grain', 'period', 'breakdowns', 'filters'] as const;
 export type CardTopic = (typeof CARD_TOPICS)[number];
@@ -30,8 +31,8 @@ export interface CardLine {
   topic: CardTopic;
   label: string;
   value: string;
-  /** `read`: from the request's words; `assumed`: a default, with its reason. */
-  how: 'read' | 'assumed';
+  /** `read`: from the request's words; `answered`: from an answer to a prompt; `assumed`: a default, with its reason. */
+  how: 'read' | 'answered' | 'assumed';
   words?: string;
   reason?: string;
   /** The control a platform may show for it: a list to pick from, or a date. */
@@ -74,7 +75,7 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
   const ds = ctx.dataset;
   const ev = brief.evidence ?? {};
   const lines: CardLine[] = [];
-  const read = (words: string | undefined) => (words ? { how: 'read' as const, words } : { how: 'read' as const });
+  const read = (e: Evidence | undefined) => (e?.how === 'answered' ? { how: 'answered' as const } : e?.words ? { how: 'read' as const, words: e.words } : { how: 'read' as const });
   const label = (m: string) => ds.metrics.find((x) => x.name === m)?.label ?? m;
   const dimLabel = (d: string) => ds.dimensions.find((x) => x.name === d)?.label ?? d;
 
@@ -83,7 +84,7 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
     topic: 'audience',
     label: 'Audience',
     value: AUDIENCE_LABELS[audience].label,
-    ...(brief.audience ? read(ev.audience?.words) : { how: 'assumed' as const, reason: ctx.defaults.audience.reason }),
+    ...(brief.audience ? read(ev.audience) : { how: 'assumed' as const, reason: ctx.defaults.audience.reason }),
     control: { kind: 'select', choices: AUDIENCE_CHOICES, current: `for ${audience}` },
   });
   const deadline = brief.deadline && brief.deadline !== 'none' ? brief.deadline : undefined;
@@ -91,7 +92,7 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
     topic: 'deadline',
     label: 'Deadline',
     value: deadline ? `${brief.deadlineAsap ? 'as soon as possible, ' : ''}${longDate(deadline, ctx.locale)}` : 'none',
-    ...(deadline ? read(ev.deadline?.words) : { how: 'assumed' as const, reason: 'none given: it runs as soon as you say go' }),
+    ...(deadline ? read(ev.deadline) : { how: 'assumed' as const, reason: 'none given: it runs as soon as you say go' }),
     control: { kind: 'date', ...(deadline ? { current: deadline } : {}) },
   });
   const named = [...new Set(brief.questions.flatMap((q) => q.metrics))];
@@ -100,7 +101,7 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
     topic: 'metrics',
     label: named.length + (assumed ? 1 : 0) > 1 ? 'Measures' : 'Measure',
     value: [...named.map(label), ...(assumed && !named.includes(assumed.value) ? [`${label(assumed.value)} (assumed)`] : [])].join(', ') || 'none',
-    ...(assumed ? { how: 'assumed' as const, reason: assumed.reason } : read(ev.metrics?.words)),
+    ...(assumed ? { how: 'assumed' as const, reason: assumed.reason } : read(ev.metrics)),
     control: { kind: 'select', choices: ds.metrics.map((m) => ({ value: `measure ${m.label.toLowerCase()}`, label: m.label })) },
   });
   const grain = brief.grain ?? ctx.defaults.grain.value;
@@ -108,7 +109,7 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
     topic: 'grain',
     label: 'Grain',
     value: grainAdjective(grain, true),
-    ...(brief.grain ? read(ev.grain?.words) : { how: 'assumed' as const, reason: ctx.defaults.grain.reason }),
+    ...(brief.grain ? read(ev.grain) : { how: 'assumed' as const, reason: ctx.defaults.grain.reason }),
     control: { kind: 'select', choices: grainChoices(ctx.coverage), current: grainAdjective(grain) },
   });
   lines.push(periodLine(brief, ctx));
@@ -118,7 +119,7 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
     topic: 'breakdowns',
     label: 'Breakdowns',
     value: dims.length > 0 ? dims.map(dimLabel).join(', ') : breakdown ? `${dimLabel(breakdown.value)} (assumed)` : 'none',
-    ...(dims.length > 0 ? read(ev.dimensions?.words) : breakdown ? { how: 'assumed' as const, reason: breakdown.reason } : { how: 'assumed' as const, reason: 'none asked' }),
+    ...(dims.length > 0 ? read(ev.dimensions) : breakdown ? { how: 'assumed' as const, reason: breakdown.reason } : { how: 'assumed' as const, reason: 'none asked' }),
     control: {
       kind: 'select',
       choices: [...ds.dimensions.filter((d) => isBreakdownDimension(ds, d.name)).map((d) => ({ value: `add a breakdown by ${d.label.toLowerCase()}`, label: `Add ${d.label.toLowerCase()}` })), { value: 'no breakdown', label: 'No breakdown' }],
@@ -130,11 +131,11 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
       topic: 'filters',
       label: 'Only',
       value: filters.map((f) => `${f.exclude ? 'not ' : ''}${f.values.join(' or ')} (${dimLabel(f.dimension).toLowerCase()})`).join('; '),
-      ...read(ev.filters?.words),
+      ...read(ev.filters),
     });
   }
   const notes: string[] = [];
-  if (brief.anchor && brief.anchor.why !== 'today') notes.push(`Periods like "last month" count back from ${longDate(brief.anchor.today, ctx.locale)}: ${brief.anchor.why}.`);
+  if (brief.anchor && brief.anchor.why !== 'today') notes.push(anchorNote(brief.anchor, ctx));
   return {
     // Two questions read as the same thing are restated once (their plan items are shared too).
     questions: [...new Set(brief.questions.map((q) => restate(q, ds, ctx)))],
@@ -145,6 +146,13 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
     leftOut: leftOutLines(plan, ds, ctx.locale),
     notes,
   };
+}
+
+/** Where relative periods count from, in the card's own date words: the anchor is the day after the data ends. */
+function anchorNote(anchor: NonNullable<Brief['anchor']>, ctx: CardContext): string {
+  const last = ctx.coverage.lastDate;
+  if (last && addDays(last, 1) <= anchor.today) return `Periods like "last month" count back from the end of the data (${longDate(addDays(anchor.today, -1), ctx.locale)}), not from today.`;
+  return `Periods like "last month" count back from ${longDate(anchor.today, ctx.locale)}: ${anchor.why}.`;
 }
 
 /** What the size cap left out, each said once and none that reads as an item still in the plan (issue 17 item 12). */
@@ -174,7 +182,8 @@ function periodLine(brief: Brief, ctx: CardContext): CardLine {
     return q.compareWindow ? `${w}${so} against ${describeWindow(q.compareWindow, ctx.coverage, ctx.locale)}` : `${w}${so}`;
   });
   const words = [brief.evidence?.window?.words, brief.evidence?.compareWindow?.words].filter(Boolean).join(' … ');
-  return { topic: 'period', label: 'Period', value: [...new Set(parts)].join('; '), how: 'read', ...(words ? { words } : {}), control: { kind: 'select', choices } };
+  const answered = brief.evidence?.window?.how === 'answered';
+  return { topic: 'period', label: 'Period', value: [...new Set(parts)].join('; '), how: answered ? 'answered' : 'read', ...(words && !answered ? { words } : {}), control: { kind: 'select', choices } };
 }
 
 function grainChoices(coverage: Coverage): CardChoice[] {
@@ -212,6 +221,9 @@ function restate(q: Question, ds: DatasetConfig, ctx: CardContext): string {
       if (group) return `${cap(what)}: ${group.members_label.toLowerCase()} against ${group.others_label.toLowerCase()}${q.frequency ? ' (how often each customer books)' : ''}${q.launchDate ? `, since ${longDate(q.launchDate, ctx.locale)}` : ''}.`;
       return `${cap(what)} before and after ${q.launchDate ? longDate(q.launchDate, ctx.locale) : 'the change'}.`;
     default:
+      // A question about when things peak keeps that detail, so it is not folded into "how it moved".
+      if (SEASON_ASK.test(q.text) || /\bseason/i.test(q.text)) return `When in the year ${what}${only} is highest and lowest${by}${w ? `, ${w}` : ''}.`;
+      if (WEEKDAY_ASK.test(q.text)) return `Which days of the week ${what}${only} is highest and lowest on${by}${w ? `, ${w}` : ''}.`;
       return `How ${what}${only} moved${by}${w ? `, ${w}` : ' over time'}.`;
   }
 }
@@ -222,7 +234,7 @@ export function cardText(card: BriefCard): string {
   out.push(card.questions.length > 1 ? '*Questions*' : '*Question*');
   card.questions.forEach((q, i) => out.push(card.questions.length > 1 ? `${i + 1}. ${q}` : q));
   for (const l of card.lines) {
-    const source = l.how === 'read' ? (l.words ? `from "${clip(l.words)}"` : 'from your request') : `assumed: ${l.reason}`;
+    const source = l.how === 'read' ? (l.words ? `from "${clip(l.words)}"` : 'from your request') : l.how === 'answered' ? 'your answer' : `assumed: ${l.reason}`;
     out.push(`- *${l.label}:* ${l.value} _(${source})_`);
   }
   out.push(`*Plan* (${card.items} ${card.items === 1 ? 'answer' : 'answers'})`);

@@ -5,7 +5,7 @@ import type { Coverage } from '../analysis/coverage.js';
 import { formatPeriod } from '../analysis/format.js';
 import { addDays, addMonths, periodStart } from '../analysis/periods.js';
 import { GRAINS, type DateWindow, type Grain, type SegmentFilter } from '../analysis/types.js';
-import type { Brief, Question } from './brief.js';
+import type { Brief, BriefSlot, Question } from './brief.js';
 import { fullWindow, readDeadlineAnswer, readWindowAnswer } from './reading/answers.js';
 import { saysAsap } from './reading/deadline.js';
 import { ACCEPT_DEFAULT, AUDIENCE_LABELS, audienceNamedBy, GRAIN_WORDS, grainNamedBy } from './reading/lexicon.js';
@@ -161,6 +161,16 @@ export type AnswerReading = { ok: true; brief: Brief } | { ok: false; message: s
 
 /** Reads a typed (or clicked) answer to `prompt` into the brief, or explains what was wrong. */
 export function readAnswer(prompt: Prompt, text: string, brief: Brief, ctx: PromptContext): AnswerReading {
+  const read = readAnswerInto(prompt, text, brief, ctx);
+  // What an answer set is marked as answered, so the card does not credit it to the request.
+  const slot = ANSWERED_SLOT[prompt.topic];
+  if (!read.ok || !slot || read.brief === brief) return read;
+  return { ok: true, brief: { ...read.brief, evidence: { ...(read.brief.evidence ?? {}), [slot]: { words: text.trim(), how: 'answered' as const } } } };
+}
+
+const ANSWERED_SLOT: Partial<Record<Prompt['topic'], BriefSlot>> = { metrics: 'metrics', audience: 'audience', deadline: 'deadline', grain: 'grain', window: 'window', values: 'filters', dimensions: 'dimensions' };
+
+function readAnswerInto(prompt: Prompt, text: string, brief: Brief, ctx: PromptContext): AnswerReading {
   const typed = ACCEPT_DEFAULT.test(text) ? prompt.recommended.value : text.trim();
   const facts = ctx.facts;
   switch (prompt.topic) {

@@ -45,7 +45,7 @@ export const briefJsonSchema = z
     anchor: z.object({ today: isoDate, why: z.string() }).strict(),
     evidence: z.partialRecord(
       z.enum(BRIEF_SLOTS),
-      z.object({ words: z.string(), how: z.enum(['stated', 'inferred', 'default']), value: z.string().optional(), reason: z.string().optional() }).strict(),
+      z.object({ words: z.string(), how: z.enum(['stated', 'inferred', 'default', 'answered']), value: z.string().optional(), reason: z.string().optional() }).strict(),
     ),
   })
   .strict();

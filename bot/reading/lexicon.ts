@@ -105,6 +105,11 @@ export const CANCEL = /^\s*(?:cancel|stop|abort|never ?mind|forget it|scrap (?:i
 
 // ---- kinds of question ----
 
+/** Asks when in the year something is high or low ("the busiest and quietest months"). */
+export const SEASON_ASK = /\bbusiest\b|\bquietest\b|\bslowest\b|\bpeak\w*|\btrough\w*|\bwhen in the year\b|\bwhich (?:months?|weeks?|quarters?) (?:is|are|was|were)\b|\btime of (?:the )?year\b/;
+/** Asks how days of the week differ ("weekdays", "weekends vs weekdays"). */
+export const WEEKDAY_ASK = /\bwhich days? (?:is|are|was|were)\b|\bday of (?:the )?week\b|\bweekdays\b|\bweekends?\s+(?:vs|versus|compared)\b/;
+
 /** Cues for each kind of question, with weights; the reader scores a question's words with these. */
 export const KIND_CUES = {
   performance: [
@@ -131,7 +136,8 @@ export const KIND_CUES = {
   ],
   trend: [
     /\btrend\w*|\bover time\b|\bpattern\w*|\bseason\w*|\bhistor\w*|\bevolv\w*|\bevolution\b|\btrajector\w*|\bmoved\b|\bmovement\b|\btrack\w*/,
-    /\bbusiest\b|\bquietest\b|\bslowest\b|\bpeak\w*|\btrough\w*|\bwhen in the year\b|\bwhich (?:months?|weeks?|days?|quarters?) (?:is|are|was|were)\b|\btime of (?:the )?year\b|\bday of (?:the )?week\b|\bweekdays\b|\bweekends?\s+(?:vs|versus|compared)\b/,
+    SEASON_ASK,
+    WEEKDAY_ASK,
     /\bmake[s]? up\b|\bshare of\b|\bshares\b|\bmix\b|\bsplit of\b|\bconcentrat\w*|\btop \d+\b|\btop (?:three|five|ten)\b|\bbottom \d+\b|\brank\w*|\bpareto\b|\blong tail\b|\bdistribution\b|\bbiggest\b|\blargest\b|\bsmallest\b|\bmost of\b|\bhighest\b|\blowest\b|\bbest\b|\bworst\b/,
     /\bmonth by month\b|\bweek by week\b|\bday by day\b|\bquarter by quarter\b|\byear by year\b|\bover the (?:years|months|weeks)\b|\blong[- ]term\b/,
   ],

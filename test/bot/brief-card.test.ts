@@ -46,6 +46,9 @@ describe('the brief card', () => {
     expect(line(card, 'Grain')).toMatch(/Monthly _\(assumed: .+\)_/);
     // The summer question names no measure: the request's first is assumed, and said.
     expect(line(card, 'Measures')).toMatch(/\(assumed\)|assumed:/);
+    // The data ends before today: the card says from which day "last month" counts, in one date style.
+    expect(card).toMatch(/^Periods like "last month" count back from the end of the data \(\d{1,2} [A-Z][a-z]+ \d{4}\), not from today\.$/m);
+    expect(card).not.toMatch(/\d{4}-\d{2}-\d{2}/);
     // The questions restated, and the plan beneath with its kinds.
     expect(card).toMatch(/\*Questions\*\n1\. /);
     for (const heading of ['*Growth*', '*Performance*', '*KPI snapshot*']) expect(card).toContain(heading);
@@ -78,6 +81,15 @@ describe('the brief card', () => {
     const unknown = await converse('show me the trend of churn for the board by friday', 'metrics: "bookings"\n');
     expect(bot(unknown.thread).filter((p) => p.promptTopic).map((p) => p.promptTopic)).toEqual(['metrics']);
     expect(bot(unknown.thread)[0]!.text).toMatch(/I don't have a metric called "churn"/);
+    // What the answer set is credited to the answer, not to the request's words.
+    expect(line(cards(none.thread)[0]!.text, 'Measure')).toMatch(/^- \*Measure:\* Bookings _\(your answer\)_$/);
+  }, 240_000);
+
+  it('restates each question with its own detail: "the busiest and quietest months" is not folded into "how it moved"', async () => {
+    const { thread } = await converse('How has revenue moved over time, month by month? We want to see the busiest and quietest months.', '');
+    const card = cards(thread)[0]!.text;
+    expect(card).toMatch(/^1\. How revenue moved over time\.$/m);
+    expect(card).toMatch(/^2\. When in the year revenue is highest and lowest\.$/m);
   }, 240_000);
 
   it('says back a reply it cannot read as a change, and keeps the card as it was', async () => {
