@@ -19,6 +19,7 @@ import {
   quantityLabel,
   sampleNoun,
   volumeNote,
+  perUnitNote,
   statisticText,
   testName,
   type WordsContext, isAre } from './performance-words.js';
@@ -44,9 +45,10 @@ export function compareWords(findings: readonly Finding[], ctx: WordsContext): P
   const median = findOne(findings, 'performance_median_difference');
   const win = findOne(findings, 'performance_window');
   const quantity = members?.quantity ?? others?.quantity ?? 'metric';
-  const label = quantityLabel(metric, quantity, dataset);
+  const unit = members?.unit ?? others?.unit;
+  const label = quantityLabel(metric, quantity, dataset, unit);
   const fmt = quantityFormat(metric, quantity, locale);
-  const rows = sampleNoun(dataset, quantity);
+  const rows = sampleNoun(dataset, quantity, unit);
   const m = groupLabel(group, 'members');
   const o = groupLabel(group, 'others');
   const lead = win ? periodLead(win, ctx) : 'In the period asked for';
@@ -115,7 +117,8 @@ export function compareWords(findings: readonly Finding[], ctx: WordsContext): P
     caption = `${capitalise(testName(diff.test))}, ${inText(m)} − ${inText(o)} on ${inText(label)}, ${period}: ${formatDifference(diff.difference, fmt, { signed: true })} (${intervalText(diff.ci, diff.confidence, fmt, locale)})${relText}; ${statisticText(diff, locale)}, ${formatP(diff.pValue, locale)}${effect}; n = ${countText(diff.nFirst, locale)} vs ${countText(diff.nSecond, locale)} ${rows.plural}.${medianText}`;
   }
   const takeaway = `${capitalise(label)} ${isAre(label)} ${size} for ${inText(m)} ${compareTo} for ${inText(o)} (${both}); ${chance}.`;
-  return { title, caption, notes: [], takeaway, clear };
+  const unitNote = perUnitNote(quantity, metric, rows);
+  return { title, caption, notes: unitNote ? [unitNote] : [], takeaway, clear };
 }
 
 function relative(a: number, b: number): number | null {

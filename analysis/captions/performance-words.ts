@@ -43,13 +43,14 @@ export function groupLabel(group: ComparisonGroup, role: GroupRole): string {
 }
 
 /** The label in running text: "pass holders" (lower case first letter unless it looks like a name). */
-import { countOf, inSentence as inText } from './grammar.js';
+import { countOf, inSentence as inText, pluralNoun } from './grammar.js';
 export { inText };
 
 /** What one row is called, from a plain count metric's label ("bookings"), else "rows". */
 /** "is" or "are" to agree with a metric label: "Revenue is", "Bookings are". */
 export function isAre(label: string): 'is' | 'are' {
-  const last = label.trim().split(/\s+/).pop() ?? '';
+  // The head noun comes before "per …": "Weekday visits per site per day are".
+  const last = label.trim().replace(/\s+per\s.*$/i, '').split(/\s+/).pop() ?? '';
   return /[^s]s$/i.test(last) ? 'are' : 'is';
 }
 
@@ -70,16 +71,27 @@ function nounPair(label: string): { plural: string; singular: string } {
   return { plural, singular };
 }
 
-/** "Average fare per booking", "Revenue per booking" for a sum compared per row, "Weekday visits per day" for a count. */
-export function quantityLabel(metric: Metric, quantity: Quantity, ds: DatasetConfig): string {
+/** What one unit of a `per_unit_day` comparison is called, from its dimension's label: "site", "sites". */
+export function unitDimensionNoun(ds: DatasetConfig, unit: string | undefined): { plural: string; singular: string } {
+  const dim = ds.dimensions.find((d) => d.name === unit);
+  const singular = (dim?.label ?? unit ?? 'unit').toLowerCase();
+  return { singular, plural: pluralNoun(singular) };
+}
+
+/**
+ * "Average fare per booking", "Revenue per booking" for a sum compared per row, "Weekday visits
+ * per day" for a count, "Weekday visits per site per day" for a count between groups of sites.
+ */
+export function quantityLabel(metric: Metric, quantity: Quantity, ds: DatasetConfig, unit?: string): string {
   if (quantity === 'per_day') return `${metric.label} per day`;
+  if (quantity === 'per_unit_day') return `${metric.label} per ${unitDimensionNoun(ds, unit).singular} per day`;
   return quantity === 'per_row' ? `${metric.label} per ${rowNoun(ds).singular}` : metric.label;
 }
 
 /** Value format of the compared quantity: a count per row, per day or per unit needs decimals (the metric's own when set). */
 export function quantityFormat(metric: Metric, quantity: Quantity, locale: string): ValueFormat {
   if (quantity === 'per_row' && metric.unit === 'count') return { unit: 'number', decimals: metric.decimals ?? 2, locale };
-  if (quantity === 'per_day' && metric.unit === 'count') return { unit: 'number', decimals: metric.decimals ?? 1, locale };
+  if ((quantity === 'per_day' || quantity === 'per_unit_day') && metric.unit === 'count') return { unit: 'number', decimals: metric.decimals ?? 1, locale };
   return valueFormatOf(metric, locale);
 }
 
@@ -245,8 +257,9 @@ export function unitsLeftOutSentence(findings: readonly Finding[], ctx: Pick<Wor
   return `${countOf(f.units.length, noun, ctx.locale)} ${one ? 'was' : 'were'} not there through the whole period and ${one ? 'is' : 'are'} left out of both groups, so neither changes its make-up: ${list.join('; ')}.`;
 }
 
-/** What the compared n counts: days for a count compared per day, otherwise the dataset's rows. */
-export function sampleNoun(ds: DatasetConfig, quantity: Quantity): { plural: string; singular: string } {
+/** What the compared n counts: days for a count compared per day, units per unit, otherwise the dataset's rows. */
+export function sampleNoun(ds: DatasetConfig, quantity: Quantity, unit?: string): { plural: string; singular: string } {
+  if (quantity === 'per_unit_day') return unitDimensionNoun(ds, unit);
   return quantity === 'per_day' ? { plural: 'days', singular: 'day' } : rowNoun(ds);
 }
 
@@ -256,4 +269,13 @@ export function sampleNoun(ds: DatasetConfig, quantity: Quantity): { plural: str
  */
 export function volumeNote(quantity: Quantity, members: string): string | null {
   return quantity === 'per_day' ? ` This compares the two groups' daily volumes, not how often each of the ${members} does it.` : null;
+}
+
+/**
+ * For a count compared per unit (`per_unit_day`): how the figure is formed, so a reader knows the
+ * groups' sizes are out of it and what n counts.
+ */
+export function perUnitNote(quantity: Quantity, metric: Metric, unit: { singular: string; plural: string }): string | null {
+  if (quantity !== 'per_unit_day') return null;
+  return `Each ${unit.singular} counts once, at its ${inText(metric.label)} per day over the period, so the groups are compared per ${unit.singular} whatever their number of ${unit.plural}; the interval treats the ${unit.plural} as the sample.`;
 }

@@ -16,9 +16,11 @@ export type MeasureKind = 'mean' | 'proportion' | 'ratio' | 'total';
 /**
  * `metric`: the catalog metric itself; `per_row`: a sum metric compared per row (revenue per
  * booking); `per_day`: a count (plain or filtered) compared as its mean per calendar day, days
- * without a row counting as 0, so a count is never compared as a share of rows.
+ * without a row counting as 0, so a count is never compared as a share of rows; `per_unit_day`: a
+ * count between groups of named units (sites), as each unit's count per calendar day, one
+ * observation per unit (the finding's `unit` names the dimension).
  */
-export type Quantity = 'metric' | 'per_row' | 'per_day';
+export type Quantity = 'metric' | 'per_row' | 'per_day' | 'per_unit_day';
 
 export type TestName = 'welch_t' | 'two_proportion_z' | 'delta_ratio_z' | 'did_t' | 'did_z';
 
@@ -73,6 +75,8 @@ export interface PerformanceGroupFinding {
   metricValue: number | null;
   /** Fewer rows than the dataset's minimum group size: every number above is withheld (n is 0). */
   suppressed?: boolean;
+  /** With quantity `per_unit_day`: the dimension whose values are the units (n counts them). */
+  unit?: string;
 }
 
 /** A tested difference of two estimates (first − second, as `comparison` names them). */

@@ -14,7 +14,7 @@ export const presentPerformanceCompare: Presenter = (answer, ctx) => {
   const words = compareWords(answer.findings, { dataset: ctx.dataset, metric, group, locale: ctx.locale, audience: ctx.audience, dataAsOf: ctx.dataAsOf });
   const estimates = findAll(answer.findings, 'performance_group').filter((f) => f.metric === metric.name && f.estimate !== null && f.n > 0);
   const quantity = estimates[0]?.quantity ?? 'metric';
-  const label = quantityLabel(metric, quantity, ctx.dataset);
+  const label = quantityLabel(metric, quantity, ctx.dataset, estimates[0]?.unit);
   const chart =
     estimates.length > 0
       ? buildGroupCompare({

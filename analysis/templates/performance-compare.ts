@@ -3,7 +3,7 @@
 // shares a two-proportion z-test, ratios of sums a delta-method z-test; money values add a seeded
 // bootstrap interval for the difference in medians from a bounded deterministic sample per group.
 import type { DatasetConfig, Metric } from '../../config/schema.js';
-import { metricByName } from '../catalog.js';
+import { groupableDimension, metricByName } from '../catalog.js';
 import { type CompileContext, tableRef, whereClause } from '../compile-context.js';
 import type { GroupRole, PerformanceGroupFinding } from '../findings/performance.js';
 import { bootstrapMedianDifference } from '../stats/index.js';
@@ -27,7 +27,7 @@ import {
   unitsLeftOutFinding,
   windowFinding,
 } from './performance-common.js';
-import { cellFromRow, comparisonPlanFor, comparisonShape, goodDirection, isMoney, measureColumns, medianColumn, num, perDayQuery, planMeasure, type MeasurePlan } from './performance-measure.js';
+import { cellFromRow, comparisonPlanFor, comparisonShape, goodDirection, isMoney, measureColumns, medianColumn, num, perDayQuery, perUnitQuery, planMeasure, type MeasurePlan } from './performance-measure.js';
 import { daysBetween } from '../periods.js';
 import { type Cell, cellEstimate, cellInterval, compareCells, verdictOf, type TestedDifference, type UntestedDifference } from './performance-stats.js';
 import { minGroupSize, suppressSmallCells } from './small-groups.js';
@@ -51,12 +51,15 @@ export function compileGroups(sq: SubQuestion, ctx: CompileContext): NamedQuery 
   const metric = primaryMetric(ds, sq);
   const group = resolveGroup(ds, sq);
   const q = new QueryBuilder(ctx.dialect);
-  const plan = comparisonPlanFor(q, ctx, metric);
+  const plan = comparisonPlanFor(q, ctx, metric, group);
   const window = comparisonWindow(sq, group).window;
   const where = `${whereClause(q, ctx, window, sq.filters)}\n  AND ${throughUnitsCondition(q, ctx, sq, group, window)}`;
   let cols: string[];
   let body: string;
-  if (plan.perDay) {
+  if (plan.perUnit) {
+    const unit = groupableDimension(ds, plan.perUnit);
+    ({ body, columns: cols } = perUnitQuery(q, ctx, metric, unit.column, [{ sql: memberFlag(q, group), alias: 'tc_member' }], tableRef(q, ctx), `${where}\n    AND ${groupKnown(q, group)}`));
+  } else if (plan.perDay) {
     ({ body, columns: cols } = perDayQuery(q, ctx, metric, [{ sql: memberFlag(q, group), alias: 'tc_member' }], tableRef(q, ctx), `${where}\n    AND ${groupKnown(q, group)}`));
   } else {
     cols = measureColumns(q, ds, metric, plan, ctx);
@@ -129,7 +132,7 @@ export const performanceCompareTemplate: Template = {
     const win = windowFinding(sq, group, ctx.coverage);
     const groups = tables.groups ?? EMPTY_TABLE;
     const minimum = minGroupSize(ds);
-    const reading = readGroupComparison(metric, comparisonShape(ds, metric), groups, minimum, daysBetween(win.start, win.end));
+    const reading = readGroupComparison(metric, comparisonShape(ds, metric, group), groups, minimum, daysBetween(win.start, win.end));
     const leftOut = unitsLeftOutFinding(ds, group, tables.units_left_out);
     const findings: Finding[] = [win, ...reading.findings, ...(leftOut ? [leftOut] : [])];
     const sample = tables.sample;
@@ -151,7 +154,7 @@ export const performanceCompareTemplate: Template = {
 /** Group estimates, the tested difference (or why there is none) and the verdict, from the per-group rows. */
 export function readGroupComparison(
   metric: Metric,
-  shape: Pick<MeasurePlan, 'kind' | 'quantity' | 'additive' | 'perDay'>,
+  shape: Pick<MeasurePlan, 'kind' | 'quantity' | 'additive' | 'perDay' | 'perUnit'>,
   table: ResultTable,
   minimum: number | null = null,
   /** The calendar days compared, for a count compared per day. */
@@ -195,7 +198,7 @@ export function readGroupComparison(
 
 export function groupFinding(
   metric: Metric,
-  shape: Pick<MeasurePlan, 'kind' | 'quantity'>,
+  shape: Pick<MeasurePlan, 'kind' | 'quantity' | 'perUnit'>,
   role: GroupRole,
   cell: Cell,
   row: Record<string, CellValue> | undefined,
@@ -215,6 +218,7 @@ export function groupFinding(
     sd: cell.kind === 'mean' && cell.n >= 2 ? Math.sqrt(cell.m2 / (cell.n - 1)) : null,
     median: num(row?.tc_median),
     metricValue: num(row?.tc_value),
+    ...(shape.perUnit ? { unit: shape.perUnit } : {}),
   };
 }
 

@@ -1,9 +1,9 @@
 // How a catalog metric is compared between groups: which per-row model it has (mean, share,
 // ratio of sums, or a plain total), the SQL summary pieces each group returns, and the cell read
 // back from a result row. Only summary rows per group ever reach Node.
-import type { ColumnFilter, DatasetConfig, Metric, MetricDefinition } from '../../config/schema.js';
+import type { ColumnFilter, ComparisonGroup, DatasetConfig, Metric, MetricDefinition } from '../../config/schema.js';
 import type { MeasureKind, Quantity } from '../findings/performance.js';
-import { metricByName } from '../catalog.js';
+import { metricByName, namedUnitDimension } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql } from '../compile-context.js';
 import { filterCondition, metricAggregate } from '../sql/metric-sql.js';
 import { duckdbDialect } from '../sql/dialect.js';
@@ -32,6 +32,12 @@ export interface MeasurePlan {
    * (tc_sx, tc_sxx); the days of the window, known in Node, fill in the days with none as 0.
    */
   perDay?: boolean;
+  /**
+   * For a count compared between groups of named units (sites, routes: the group's unit column is
+   * a dimension), quantity `per_unit_day`: each unit's count per calendar day is one observation,
+   * so the groups are compared per unit, whatever their sizes. The dimension's name.
+   */
+  perUnit?: string;
 }
 
 /**
@@ -97,24 +103,70 @@ export function planMeasure(q: QueryBuilder, ds: DatasetConfig, metric: Metric):
  * per calendar day. A count's share of rows is not the count, and its total says only how big a
  * group is; a daily rate keeps the metric's own units and has a day-to-day spread to test with.
  */
-export function planComparison(q: QueryBuilder, ds: DatasetConfig, metric: Metric): MeasurePlan {
-  if (metric.definition.type === 'count') return { kind: 'mean', quantity: 'per_day', additive: false, perDay: true };
+export function planComparison(q: QueryBuilder, ds: DatasetConfig, metric: Metric, group?: ComparisonGroup): MeasurePlan {
+  if (metric.definition.type === 'count') {
+    const unit = group ? namedUnitDimension(ds, group) : null;
+    if (unit) return { kind: 'mean', quantity: 'per_unit_day', additive: false, perDay: true, perUnit: unit.name };
+    return { kind: 'mean', quantity: 'per_day', additive: false, perDay: true };
+  }
   return planMeasure(q, ds, metric);
 }
 
 /**
  * Whether higher is better for the quantity compared between groups: the metric's own declared
- * direction, except for a count per day, which is two groups' volumes (they differ by the groups'
- * sizes, so neither side is better for having more); null when there is no good direction.
+ * direction (also per unit per day: visits per site per day), except for a count per day, which is
+ * two groups' volumes (they differ by the groups' sizes, so neither side is better for having
+ * more); null when there is no good direction.
  */
 export function goodDirection(metric: Metric, quantity: Quantity): boolean | null {
   return quantity === 'per_day' ? null : metric.higher_is_better;
 }
 
 /** The shape of `planComparison` without building SQL for a real engine. */
-export function comparisonShape(ds: DatasetConfig, metric: Metric): Pick<MeasurePlan, 'kind' | 'quantity' | 'additive' | 'perDay'> {
-  const p = planComparison(new QueryBuilder(duckdbDialect), ds, metric);
-  return { kind: p.kind, quantity: p.quantity, additive: p.additive, perDay: p.perDay };
+export function comparisonShape(ds: DatasetConfig, metric: Metric, group?: ComparisonGroup): Pick<MeasurePlan, 'kind' | 'quantity' | 'additive' | 'perDay' | 'perUnit'> {
+  const p = planComparison(new QueryBuilder(duckdbDialect), ds, metric, group);
+  return { kind: p.kind, quantity: p.quantity, additive: p.additive, perDay: p.perDay, ...(p.perUnit ? { perUnit: p.perUnit } : {}) };
+}
+
+/**
+ * A per-unit plan's query: the catalog count per key and unit over the window, then per key the
+ * units (tc_units), Σ and Σ² of the units' counts (tc_ux, tc_uxx), the total (tc_value) and the
+ * rows behind it (tc_rows). The days of the window, known in Node, turn each unit's count into a
+ * daily rate. Columns as `measureColumns` returns them, for small-cell suppression.
+ */
+export function perUnitQuery(
+  q: QueryBuilder,
+  ctx: CompileContext,
+  metric: Metric,
+  unitColumn: string,
+  keys: readonly { sql: string; alias: string }[],
+  from: string,
+  where: string,
+): { body: string; columns: string[] } {
+  const d = q.dialect;
+  const columns = [
+    `${d.toDouble('COUNT(*)')} AS tc_units`,
+    `${d.toDouble('SUM(tc_unit_value)')} AS tc_ux`,
+    `${d.toDouble('SUM(tc_unit_value * tc_unit_value)')} AS tc_uxx`,
+    `${d.toDouble('SUM(tc_unit_value)')} AS tc_value`,
+    `${d.toDouble('SUM(tc_unit_rows)')} AS tc_rows`,
+  ];
+  const aliases = keys.map((k) => k.alias).join(', ');
+  return {
+    body: `SELECT ${aliases},
+  ${columns.join(',\n  ')}
+FROM (
+  SELECT ${keys.map((k) => `${k.sql} AS ${k.alias}`).join(', ')},
+    ${q.ident(unitColumn)} AS tc_unit,
+    ${d.toDouble(measureSql(q, ctx, metric))} AS tc_unit_value,
+    ${rowCountSql(q, ctx)} AS tc_unit_rows
+  FROM ${from}
+  WHERE ${where}
+  GROUP BY ${keys.map((_, i) => String(i + 1)).join(', ')}, ${keys.length + 1}
+) tc_units
+GROUP BY ${aliases}`,
+    columns,
+  };
 }
 
 /**
@@ -326,8 +378,8 @@ export function planFor(q: QueryBuilder, ctx: CompileContext, metric: Metric): M
 }
 
 /** As `planFor`, for a comparison between groups (`planComparison`). */
-export function comparisonPlanFor(q: QueryBuilder, ctx: CompileContext, metric: Metric): MeasurePlan {
-  return planComparison(ctx.rollup ? new QueryBuilder(q.dialect) : q, ctx.dataset, metric);
+export function comparisonPlanFor(q: QueryBuilder, ctx: CompileContext, metric: Metric, group?: ComparisonGroup): MeasurePlan {
+  return planComparison(ctx.rollup ? new QueryBuilder(q.dialect) : q, ctx.dataset, metric, group);
 }
 
 /**
@@ -355,7 +407,15 @@ export function num(v: CellValue | undefined): number | null {
  * the calendar days the row's window spans (its days without a row count as 0); a group with no
  * row on any day is empty.
  */
-export function cellFromRow(row: Record<string, CellValue> | undefined, plan: Pick<MeasurePlan, 'kind' | 'additive' | 'perDay'>, days?: number): Cell {
+export function cellFromRow(row: Record<string, CellValue> | undefined, plan: Pick<MeasurePlan, 'kind' | 'additive' | 'perDay' | 'perUnit'>, days?: number): Cell {
+  if (plan.perUnit) {
+    if (days === undefined || days <= 0) throw new Error('a count compared per unit needs the days of its window');
+    const n = row ? (num(row.tc_units) ?? 0) : 0;
+    if (n === 0) return { kind: 'mean', n: 0, mean: 0, m2: 0 };
+    // Each unit's rate is its count over the days; Σ(rate − mean)² = (Σx² − n·x̄²) / days².
+    const mean = (num(row?.tc_ux) ?? 0) / n;
+    return { kind: 'mean', n, mean: mean / days, m2: Math.max(0, (num(row?.tc_uxx) ?? 0) - n * mean * mean) / (days * days) };
+  }
   if (plan.perDay) {
     const present = row ? (num(row.tc_days) ?? 0) : 0;
     if (days === undefined) throw new Error('a count compared per day needs the days of its window');

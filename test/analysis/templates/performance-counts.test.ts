@@ -14,6 +14,7 @@ import { mkdtemp, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { DuckDBInstance } from '@duckdb/node-api';
+import ttest2 from '@stdlib/stats-ttest2';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import type { PerformanceDidFinding, PerformanceGroupFinding, PerformanceUnitsLeftOutFinding } from '../../../analysis/findings/performance.js';
@@ -179,6 +180,8 @@ const question = (template: 'performance_before_after' | 'performance_compare' |
 
 let dir: string;
 let ws: Workspace;
+/** The same table with no unit column on the group: counts are compared per day. */
+let noUnits: Workspace;
 let visits: Visit[];
 beforeAll(async () => {
   visits = generateVisits();
@@ -200,9 +203,12 @@ beforeAll(async () => {
   inst.closeSync();
   await writeFile(join(dir, 'config.yaml'), CONFIG);
   ws = await openWorkspace(loadConfig(join(dir, 'config.yaml')));
+  await writeFile(join(dir, 'config-no-units.yaml'), CONFIG.replace(/\n\s+unit_column: site\n/, '\n'));
+  noUnits = await openWorkspace(loadConfig(join(dir, 'config-no-units.yaml')));
 }, 120_000);
 afterAll(async () => {
   await ws?.source.close();
+  await noUnits?.source.close();
   if (dir) await rm(dir, { recursive: true, force: true });
 });
 
@@ -252,26 +258,69 @@ describe('a filtered count compared between groups of sites', () => {
     expect(naive).toBeLessThan(PLANTED - 0.1);
   });
 
-  it('members against others: weekday visits per day, never a share of rows', async () => {
+  it('members against others: weekday visits per site per day (the group is of sites), never a share of rows', async () => {
     const a = await answerSubQuestion(question('performance_compare', 'weekday_visits'), ws);
     const groups = find(a, 'performance_group') as PerformanceGroupFinding[];
     const members = groups.find((g) => g.group === 'members')!;
     const others = groups.find((g) => g.group === 'others')!;
-    expect(members.quantity).toBe('per_day');
-    // The window starts at the launch (the group existed from then).
-    expect(members.estimate).toBeCloseTo(perDay(true, LAUNCH, END), 9);
-    expect(others.estimate).toBeCloseTo(perDay(false, LAUNCH, END), 9);
-    expect(members.n).toBe(366);
+    expect(members.quantity).toBe('per_unit_day');
+    expect(members.unit).toBe('site');
+    // Each site's weekday visits per calendar day since the launch, from the raw rows (Harbour Road
+    // opened late and is left out); the groups are the means over their sites, n the sites.
+    const days = 366;
+    const rate = (site: string) => visits.filter((v) => v.site === site && v.weekday && v.visit_day >= LAUNCH && v.visit_day < END).length / days;
+    const refitted = ['North Quay', 'Mill Lane'].map(rate);
+    const rest = ['Ash Row', 'Brook End', 'Castle Gate'].map(rate);
+    const mean = (xs: number[]) => xs.reduce((t, x) => t + x, 0) / xs.length;
+    expect(members.n).toBe(2);
+    expect(others.n).toBe(3);
+    expect(members.estimate).toBeCloseTo(mean(refitted), 9);
+    expect(others.estimate).toBeCloseTo(mean(rest), 9);
+    // Per site, not per group: the refitted pair's visits per day over 2 sites.
+    expect(members.estimate).toBeCloseTo(perDay(true, LAUNCH, END) / 2, 9);
+    // Welch's t-test over the sites, against @stdlib/stats-ttest2 (a general-purpose reference).
+    const d = find(a, 'performance_difference')[0]!;
+    const ref = ttest2(refitted, rest);
+    expect(d.statistic).toBeCloseTo(ref.statistic, 8);
+    expect(d.df!).toBeCloseTo(ref.df, 8);
+    expect(d.ci[0]).toBeCloseTo(ref.ci[0]!, 8);
+    expect(d.ci[1]).toBeCloseTo(ref.ci[1]!, 8);
+    expect(d.pValue).toBeCloseTo(ref.pValue, 8);
+    const verdict = find(a, 'performance_verdict')[0]!;
+    // A rate per site has the metric's good direction; with two sites against three nothing is clear.
+    expect(verdict.higherIsBetter).toBe(true);
+    expect(verdict.verdict).toBe(ref.pValue < 0.05 ? (ref.statistic > 0 ? 'better' : 'worse') : 'no_clear_difference');
     const p = SUB_QUESTIONS.performance_compare.present(a, presentContext(ws, 'managers'));
+    if (process.env.TC_PEEK) console.log(p.title, '\n', p.caption, '\n', p.notes.join('\n'));
+    expect(captionProblems(a, p)).toEqual([]);
+    expect(p.title).toMatch(/^Weekday visits per site per day/);
+    expect(`${p.title} ${p.caption}`).not.toMatch(/\b1 against 1\b|\b0 higher\b/);
+    // n counts sites, and the note says each site is one observation.
+    expect(p.caption).toMatch(/over 2 and 3 sites/);
+    expect(p.notes.join(' ')).toMatch(/Each site counts once/);
+    expect(a.caveats.some((c) => c.code === 'small_sample')).toBe(true);
+  });
+
+  it('members against others without named units: weekday visits per day, two volumes with no better or worse', async () => {
+    const a = await answerSubQuestion(question('performance_compare', 'weekday_visits'), noUnits);
+    const groups = find(a, 'performance_group') as PerformanceGroupFinding[];
+    const members = groups.find((g) => g.group === 'members')!;
+    const others = groups.find((g) => g.group === 'others')!;
+    expect(members.quantity).toBe('per_day');
+    // Without a unit dimension Harbour Road stays in (nothing says it is a site).
+    const all = (refit: boolean) => visits.filter((v) => v.refit === refit && v.weekday && v.visit_day >= LAUNCH && v.visit_day < END).length / 366;
+    expect(members.estimate).toBeCloseTo(all(true), 9);
+    expect(others.estimate).toBeCloseTo(all(false), 9);
+    expect(members.n).toBe(366);
+    const p = SUB_QUESTIONS.performance_compare.present(a, presentContext(noUnits, 'managers'));
     expect(captionProblems(a, p)).toEqual([]);
     expect(p.title).toMatch(/^Weekday visits per day/);
-    expect(`${p.title} ${p.caption}`).not.toMatch(/\b1 against 1\b|\b0 higher\b/);
     // n counts days, and two groups' daily volumes are not called better or worse.
     expect(p.caption).toMatch(/over 366 and 366 days/);
     expect(p.caption).not.toMatch(/better|worse/);
     expect(p.caption).toMatch(/daily volumes/);
     // Nor does the stored verdict, which the summary and digest may read: the groups' volumes have
-    // no good direction, so a clear gap (25 against 38 visits a day by design) is only a clear gap.
+    // no good direction, so a clear gap (25 against 53 visits a day by design) is only a clear gap.
     expect(find(a, 'performance_verdict')[0]).toMatchObject({ verdict: 'clear_difference', direction: 'lower', higherIsBetter: null });
     expect(p.takeaway?.text ?? '').not.toMatch(/better|worse/);
   });
