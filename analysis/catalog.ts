@@ -1,5 +1,6 @@
 // Lookups over one dataset's catalog. Names reaching SQL are checked here first.
 import type { ComparisonGroup, DatasetConfig, Dimension, Metric, MetricKind } from '../config/schema.js';
+import type { SeasonalModel } from './stats/decomposition.js';
 
 export class CatalogError extends Error {
   constructor(
@@ -95,7 +96,12 @@ export function metricColumns(ds: DatasetConfig, metric: Metric): string[] {
  * average is a ratio (a mean per row) unless declared a level (a reading such as a concentration).
  * A declared `level` on a sum stays a level: a column of daily balances summed per day is still one.
  */
-export function metricKind(ds: DatasetConfig, metric: Metric): MetricKind {
+export function metricKind(_ds: DatasetConfig, metric: Metric): MetricKind {
+  return quantityKind(metric);
+}
+
+/** metricKind for code that holds the metric alone (captions): the kind needs nothing else. */
+export function quantityKind(metric: Metric): MetricKind {
   if (metric.kind) return metric.kind;
   switch (metric.definition.type) {
     case 'sum':
@@ -107,6 +113,11 @@ export function metricKind(ds: DatasetConfig, metric: Metric): MetricKind {
     case 'rate':
       return 'ratio';
   }
+}
+
+/** How a metric's seasonal cycle is measured: a level swings in its own units, a flow or ratio in proportion. */
+export function seasonalModel(metric: Metric): SeasonalModel {
+  return quantityKind(metric) === 'level' ? 'additive' : 'multiplicative';
 }
 
 /**

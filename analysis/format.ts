@@ -7,8 +7,13 @@ export interface ValueFormat {
   unit: Unit;
   /** ISO 4217 code, used when unit is 'currency'. */
   currency?: string;
-  /** Fixed decimals for the full (non-compact) form; unit defaults apply when absent. */
+  /**
+   * Fixed decimals; unit defaults apply when absent. The compact form keeps them below 1,000
+   * (above, a magnitude suffix decides), unless they would round a value that is not zero to zero.
+   */
   decimals?: number;
+  /** The unit's short name after a count or number ("ppm"), from the metric's `unit_label`. */
+  label?: string;
   locale: string;
 }
 
@@ -28,13 +33,22 @@ export function valueFormatOf(metric: Metric, locale: string): ValueFormat {
   const fmt: ValueFormat = { unit: metric.unit, locale };
   if (metric.currency !== undefined) fmt.currency = metric.currency;
   if (metric.decimals !== undefined) fmt.decimals = metric.decimals;
+  if (metric.unit_label !== undefined && (metric.unit === 'count' || metric.unit === 'number')) fmt.label = metric.unit_label;
   return fmt;
+}
+
+/** The same format without the unit's name, for a figure whose words already carry it (an index, a share). */
+export function withoutUnitLabel(fmt: ValueFormat): ValueFormat {
+  const { label: _label, ...rest } = fmt;
+  return rest;
 }
 
 export function formatValue(value: number | null, fmt: ValueFormat, opts: FormatOptions = {}): string {
   if (value === null || !Number.isFinite(value)) return NOT_AVAILABLE;
   const options = numberOptions(value, fmt, opts);
-  return withMinus(numberFormat(fmt.locale, options).format(value === 0 ? 0 : value));
+  const text = withMinus(numberFormat(fmt.locale, options).format(value === 0 ? 0 : value));
+  // A no-break space keeps "355 ppm" together on a narrow line.
+  return fmt.label && fmt.unit !== 'currency' && fmt.unit !== 'percent' ? `${text}\u00a0${fmt.label}` : text;
 }
 
 /** A relative change as a signed percentage: 0.081 → "+8.1%", −0.05 → "−5.0%". */
@@ -100,6 +114,9 @@ function numberOptions(value: number, fmt: ValueFormat, opts: FormatOptions): In
   const currency = fmt.unit === 'currency' ? validCurrency(fmt.currency) : undefined;
   const style: Intl.NumberFormatOptions = currency ? { style: 'currency', currency } : {};
   if (opts.compact) {
+    if (decimals !== undefined && Math.abs(value) < 1000 && (value === 0 || Math.abs(value) >= 0.5 * 10 ** -decimals)) {
+      return { ...sign, ...style, minimumFractionDigits: decimals, maximumFractionDigits: decimals };
+    }
     return { ...sign, ...style, notation: 'compact', maximumSignificantDigits: 3 };
   }
   let d: { min: number; max: number };

@@ -67,6 +67,14 @@ export function periodsBetween(from: string, end: string, grain: Grain): string[
   return out;
 }
 
+/** A date as a time in years, for slopes per year: 1960-07-01 → 1960.497 (its day within its own year's length). */
+export function yearFraction(iso: string): number {
+  const d = parseIsoDate(iso);
+  const year = d.getUTCFullYear();
+  const start = Date.UTC(year, 0, 1);
+  return year + (d.getTime() - start) / (Date.UTC(year + 1, 0, 1) - start);
+}
+
 export function periodsPerYear(grain: Grain): number | null {
   return { day: null, week: 52, month: 12, quarter: 4, year: 1 }[grain];
 }

@@ -20,6 +20,7 @@ import {
   qualitySchema,
   sourceSchema as internalSourceSchema,
   unitSchema,
+  unitLabelSchema,
 } from './schema.js';
 
 const text = z.string().min(1);
@@ -76,6 +77,7 @@ export const fileMetricSchema = z
     unit: unitSchema,
     currency: z.string().length(3).optional(),
     decimals: z.number().int().min(0).max(6).optional(),
+    unit_label: unitLabelSchema.optional(),
     higher_is_better: z.boolean(),
     kind: metricKindSchema.optional(),
     // Before: definition: {type, ...} and synonyms.

@@ -204,6 +204,7 @@ class DatasetNormaliser {
       unit: x.unit,
       ...(x.currency !== undefined ? { currency: x.currency } : {}),
       ...(x.decimals !== undefined ? { decimals: x.decimals } : {}),
+      ...(x.unit_label !== undefined ? { unit_label: x.unit_label } : {}),
       higher_is_better: x.higher_is_better,
       ...(x.kind !== undefined ? { kind: x.kind } : {}),
     };
@@ -324,6 +325,8 @@ class DatasetNormaliser {
           this.problem(['metrics', i, ...key], `"${ref}" is itself a ratio or rate; name a sum, count, distinct count or average`);
       }
       if (m.unit === 'currency' && !m.currency) this.problem(['metrics', i, 'currency'], 'a currency metric needs a three-letter currency code (e.g. EUR)');
+      if (m.unit_label !== undefined && (m.unit === 'currency' || m.unit === 'percent'))
+        this.problem(['metrics', i, 'unit_label'], `a ${m.unit} metric writes its own sign; unit_label is for count and number metrics (e.g. ppm)`);
       const howKey = file.definition ? 'definition' : (HOW_KEYS.find((k) => file[k] !== undefined) ?? 'name');
       const read = 'column' in def ? this.sourceColumns(ds, def.column) : [];
       const hit = read.find((c) => personal.has(c));

@@ -38,6 +38,9 @@ export type MetricDefinition = z.infer<typeof metricDefinitionSchema>;
 export const unitSchema = z.enum(['currency', 'count', 'percent', 'number']);
 export type Unit = z.infer<typeof unitSchema>;
 
+/** The short name of a metric's unit, written after its values: "355 ppm". */
+export const unitLabelSchema = z.string().trim().min(1).max(16).regex(/^[^\d\n]+$/, 'must be a short unit name without digits (e.g. ppm, °C, kg)');
+
 /**
  * What kind of quantity a metric is, which decides how it rolls up to a coarser grain and how its
  * growth and seasonality are stated: a `flow` sums over time (revenue, bookings); a `level` is a
@@ -57,6 +60,8 @@ export const metricSchema = z
     unit: unitSchema,
     currency: z.string().length(3).optional(),
     decimals: z.number().int().min(0).max(6).optional(),
+    // Written after every value of a count or number ("ppm", "°C", "staff"): see analysis/format.ts.
+    unit_label: unitLabelSchema.optional(),
     higher_is_better: z.boolean(),
     kind: metricKindSchema.optional(),
   })

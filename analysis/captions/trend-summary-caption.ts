@@ -1,6 +1,7 @@
 // Title and caption for summary statistics over a series' complete periods, from findings only.
 import type { Metric } from '../../config/schema.js';
 import type { TrendOutlierFinding, TrendSummaryFinding } from '../findings/segments.js';
+import { quantityKind } from '../catalog.js';
 import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import { MODIFIED_Z_THRESHOLD } from '../stats/index.js';
 import type { Audience, Finding, Grain } from '../types.js';
@@ -20,13 +21,15 @@ export function trendSummaryWords(metric: Metric, grain: Grain, findings: readon
     };
   }
   const per = grainNoun(grain);
+  // Only a flow adds up to "a month"; a level or a ratio is a reading: "averaged 355 ppm".
+  const perGrain = quantityKind(metric) === 'flow' ? ` a ${per}` : '';
   if (s.n === 1) {
     return {
       title: `${metric.label} ${isPluralLabel(metric.label) ? 'were' : 'was'} ${v(s.mean)} in ${when(s.minPeriod)}`,
       caption: `Only one complete ${per} is available (${when(s.minPeriod)}: ${v(s.mean)}), so there is no spread to describe.`,
     };
   }
-  const title = `${metric.label} averaged ${v(s.mean)} a ${per}, from ${v(s.min)} to ${v(s.max)}`;
+  const title = `${metric.label} averaged ${v(s.mean)}${perGrain}, from ${v(s.min)} to ${v(s.max)}`;
   const range = `from ${v(s.min)} (${when(s.minPeriod)}) to ${v(s.max)} (${when(s.maxPeriod)})`;
   const outlierText = (o: TrendOutlierFinding) => `${when(o.period)} (${v(o.value)}${audience === 'analysts' ? `, modified z = ${formatIndex(o.score, locale)}` : ''})`;
   const stand =
@@ -40,7 +43,7 @@ export function trendSummaryWords(metric: Metric, grain: Grain, findings: readon
     const mode = s.mode === null ? 'no repeated value' : `mode ${v(s.mode)} (${s.modeCount} times)`;
     caption = `Over ${s.n} complete ${grainNoun(grain, s.n)}: mean ${v(s.mean)}, median ${v(s.median)}, standard deviation ${v(s.sd)}, ${mode}; ${range}.${stand}`;
   } else if (audience === 'managers') {
-    caption = `Over ${s.n} complete ${grainNoun(grain, s.n)}, ${lowerLabel(metric.label)} averaged ${v(s.mean)} a ${per} (median ${v(s.median)}), ${range}.${stand}`;
+    caption = `Over ${s.n} complete ${grainNoun(grain, s.n)}, ${lowerLabel(metric.label)} averaged ${v(s.mean)}${perGrain} (median ${v(s.median)}), ${range}.${stand}`;
   } else {
     caption = `In a typical ${per}, ${lowerLabel(metric.label)} ${isPluralLabel(metric.label) ? 'are' : 'is'} about ${v(s.median)}; the range runs ${range}.${stand}`;
   }

@@ -1,7 +1,9 @@
 // Title and caption for a trend test (Mann–Kendall and Sen's slope), written only from findings.
 import type { Metric } from '../../config/schema.js';
 import type { TrendTestFinding } from '../findings/segments.js';
+import { quantityKind } from '../catalog.js';
 import { formatChange, formatPeriod, formatValue, valueFormatOf } from '../format.js';
+import { yearFraction } from '../periods.js';
 import type { Audience, Finding, Grain } from '../types.js';
 import { formatSmallPoints } from './growth-words.js';
 import { formatIndex, formatP, formatRelativeSize, grainNoun } from './trend-words.js';
@@ -33,6 +35,10 @@ export function trendTestWords(metric: Metric, grain: Grain, findings: readonly 
   }
 
   const span = `${when(test.firstPeriod)} to ${when(test.lastPeriod)}`;
+  if (quantityKind(metric) === 'level' && metric.unit !== 'percent') {
+    const words = levelTrendWords(metric, grain, test, audience, locale, span);
+    return { title: words.title, caption: peakLine ? `${words.caption} ${peakLine}` : words.caption };
+  }
   // A rate or share moves in points: its slope is "0.042 pts a month", never a percentage of itself.
   const inPoints = metric.unit === 'percent';
   const perPeriod = inPoints ? formatSmallPoints(test.slopePerPeriod, locale) : formatValue(Math.abs(test.slopePerPeriod), fmt, { compact: true });
@@ -73,6 +79,45 @@ export function trendTestWords(metric: Metric, grain: Grain, findings: readonly 
         : `${metric.label} ${be} ${moving}${size}; this is unlikely to be chance.`;
   }
   return { title, caption: peakLine ? `${caption} ${peakLine}` : caption };
+}
+
+/**
+ * A level (a reading such as a concentration) changes in its own units: "rose by about 1.56 ppm a
+ * year (15.6 ppm a decade)", with the rate decade by decade when the values reach into several.
+ */
+function levelTrendWords(metric: Metric, grain: Grain, test: TrendTestFinding, audience: Audience, locale: string, span: string): Words {
+  const fmt = valueFormatOf(metric, locale);
+  const size = (v: number) => formatValue(Math.abs(v), fmt, { compact: true });
+  const signed = (v: number) => formatValue(v, fmt, { compact: true, signed: true });
+  const yearsSpanned = yearFraction(test.lastPeriod) - yearFraction(test.firstPeriod);
+  // A rate per decade from a shorter span would be an extrapolation.
+  const decade = yearsSpanned >= 10 ? ` (${size(test.slopePerYear * 10)} a decade)` : '';
+  const byDecade =
+    test.byDecade.length >= 2
+      ? ` Decade by decade, the change a year was ${test.byDecade.map((d) => `${signed(d.perYear)} in the ${d.decade}s`).join(', ')}.`
+      : '';
+  const moving = test.direction === 'up' ? 'rising' : 'falling';
+  const plural = isPluralLabel(metric.label);
+  const title =
+    test.direction === 'none'
+      ? `${metric.label}: no clear trend from ${span}`
+      : `${metric.label} ${plural ? 'show' : 'shows'} a ${moving} trend of about ${size(test.slopePerYear)} a year`;
+  const seasonal = test.seasonallyAdjusted ? ', after taking out the usual seasonal swing' : '';
+  if (audience === 'analysts') {
+    const method = `Mann–Kendall${test.seasonallyAdjusted ? ' on seasonally adjusted values (additive)' : ''}, p ${formatP(test.pValue, locale)}, τ = ${formatIndex(test.tau, locale)}, n = ${test.n} ${grainNoun(grain, test.n)}, ${span}`;
+    const lead = test.direction === 'none' ? `No significant monotonic trend at the ${formatValue(test.alpha, { unit: 'percent', decimals: 0, locale })} level` : title;
+    const perDecade = yearsSpanned >= 10 ? `, ${signed(test.slopePerYear * 10)} a decade` : '';
+    const raw = test.seasonallyAdjusted ? ` On the unadjusted values the test gives p ${formatP(test.rawPValue, locale)}.` : '';
+    return { title, caption: `${lead} (${method}); Sen's slope ${signed(test.slopePerPeriod)} per ${grainNoun(grain)}, ${signed(test.slopePerYear)} a year${perDecade}.${raw}${byDecade}` };
+  }
+  if (test.direction === 'none') {
+    return { title, caption: `${metric.label} moved up and down from ${span} without a clear direction${seasonal}; the changes could be chance.` };
+  }
+  const verb = test.direction === 'up' ? 'rose' : 'fell';
+  if (audience === 'managers') {
+    return { title, caption: `${metric.label} ${verb} by about ${size(test.slopePerYear)} a year${decade} from ${span}${seasonal}; a trend this steady is unlikely to be chance.${byDecade}` };
+  }
+  return { title, caption: `${metric.label} ${plural ? 'are' : 'is'} ${moving}, by about ${size(test.slopePerYear)} a year${decade}; this is unlikely to be chance.${byDecade}` };
 }
 
 /** The peak and how far the latest complete period sits from it. */

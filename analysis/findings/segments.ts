@@ -1,5 +1,6 @@
 // Findings of the trend family's extra lenses (trend test, seasonality, summary) and of the
 // segment machinery (segment trends, segment shares). Numbers, periods and segment keys only.
+import type { DecadeSlope } from '../stats/decades.js';
 import type { HhiBand } from '../stats/concentration.js';
 import type { Grain, PeriodPoint } from '../types.js';
 
@@ -33,6 +34,8 @@ export interface TrendTestFinding {
   /** Trend line value = intercept + slopePerPeriod × i, where i indexes the series finding's points. */
   intercept: number;
   smallSample: boolean;
+  /** Sen's slope per year within each calendar decade the values span five years or more of (on the adjusted values); empty with fewer than two such decades. */
+  byDecade: DecadeSlope[];
 }
 
 export interface CalendarMonthPattern {

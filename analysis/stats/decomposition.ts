@@ -1,5 +1,12 @@
-// Seasonal indices by classical multiplicative decomposition
+// Seasonal indices by classical decomposition, multiplicative or additive
 // (Hyndman & Athanasopoulos, Forecasting: Principles and Practice, 3rd ed., section 3.4).
+
+/**
+ * Multiplicative for a flow, whose cycle grows with its level (a ratio y/T, indices averaging 1);
+ * additive for a level, whose cycle is a swing in its own units (a difference y − T, indices
+ * summing to 0).
+ */
+export type SeasonalModel = 'multiplicative' | 'additive';
 
 /** One period of a regular series; `season` is its position in the cycle, 1..period (e.g. month of year). */
 export interface SeasonalPoint {
@@ -27,11 +34,12 @@ export type SeasonalIndexResult =
   | {
       kind: 'ok';
       period: number;
-      /** Multiplicative seasonal index per season (index 0 is season 1); they average exactly 1. */
+      model: SeasonalModel;
+      /** Seasonal index per season (index 0 is season 1): multiplicative ones average exactly 1, additive ones (in units) sum to 0. */
       indices: number[];
       /** Centred moving average per input point; null at the ends and where the window holds a null. */
       trend: (number | null)[];
-      /** y / trend per input point; null where either is missing or the trend is not positive. */
+      /** y / trend (additive: y − trend) per input point; null where either is missing or (multiplicative) the trend is not positive. */
       ratios: (number | null)[];
       cycles: CycleRatios[];
       /** Counts over complete cycles only, so a half year cannot win. */
@@ -50,7 +58,7 @@ export const MIN_CYCLES = 2;
  * index = mean ratio per season normalised to average 1. Throws on a malformed series (season out of range or
  * not consecutive); data problems come back as a result kind instead.
  */
-export function seasonalIndices(points: readonly SeasonalPoint[], period: number): SeasonalIndexResult {
+export function seasonalIndices(points: readonly SeasonalPoint[], period: number, model: SeasonalModel = 'multiplicative'): SeasonalIndexResult {
   if (!(Number.isInteger(period) && period >= 2)) throw new RangeError(`period must be an integer ≥ 2, got ${period}`);
   checkRegular(points, period);
   const fullCycles = Math.floor(points.length / period);
@@ -58,13 +66,16 @@ export function seasonalIndices(points: readonly SeasonalPoint[], period: number
     return { kind: 'too_few_cycles', period, points: points.length, fullCycles, required: MIN_CYCLES };
   }
   const y = points.map((p) => (typeof p.value === 'number' && Number.isFinite(p.value) ? p.value : null));
-  const negatives = y.flatMap((v, i) => (v !== null && v < 0 ? [i] : []));
+  // A ratio to the trend means nothing below zero; a difference from it does (a temperature).
+  const negatives = model === 'additive' ? [] : y.flatMap((v, i) => (v !== null && v < 0 ? [i] : []));
   if (negatives.length > 0) return { kind: 'negative_values', period, positions: negatives };
 
   const trend = centredMovingAverage(y, period);
   const ratios = y.map((v, i) => {
     const t = trend[i];
-    return v !== null && t !== null && t !== undefined && t > 0 ? v / t : null;
+    if (v === null || t === null || t === undefined) return null;
+    if (model === 'additive') return v - t;
+    return t > 0 ? v / t : null;
   });
 
   const sums = new Array<number>(period).fill(0);
@@ -79,13 +90,14 @@ export function seasonalIndices(points: readonly SeasonalPoint[], period: number
   if (uncovered.length > 0) return { kind: 'uncovered_seasons', period, seasons: uncovered };
   const raw = sums.map((s, k) => s / counts[k]!);
   const rawMean = raw.reduce((a, b) => a + b, 0) / period;
-  const indices = raw.map((r) => r / rawMean);
+  const indices = raw.map((r) => (model === 'additive' ? r - rawMean : r / rawMean));
 
   const cycles = groupByCycle(points, ratios, period);
   const extremes = countExtremes(cycles, period);
   return {
     kind: 'ok',
     period,
+    model,
     indices,
     trend,
     ratios,

@@ -6,6 +6,7 @@ export * from './bootstrap.js';
 export * from './mann-kendall.js';
 export * from './decomposition.js';
 export * from './growth.js';
+export * from './decades.js';
 export * from './concentration.js';
 export * from './outliers.js';
 export { median, quantileSorted } from './order-stats.js';

@@ -3,7 +3,7 @@
 import type { Coverage } from '../coverage.js';
 import { dataEnd as coveredEnd } from '../coverage.js';
 import { addDays, nextPeriod, parseIsoDate, periodsBetween, periodsPerYear } from '../periods.js';
-import { seasonalIndices } from '../stats/index.js';
+import { seasonalIndices, type SeasonalModel } from '../stats/index.js';
 import type { DateWindow, Finding, Grain, PeriodPoint, ResultTable } from '../types.js';
 
 export const EMPTY_TABLE: ResultTable = { columns: [], rows: [], truncated: false };
@@ -77,10 +77,16 @@ const SEASONAL_PERIOD: Partial<Record<Grain, number>> = { month: 12, quarter: 4,
  * Mann–Kendall and Sen's slope assume no seasonal cycle; a strong one (July at 1.7 times
  * January) buries a modest trend in noise, and a series that starts at a peak looks like a fall.
  * With two full cycles or more, each complete value is divided by its season's classical
- * multiplicative index (the same indices trend_seasonality reports); with fewer, or when the
+ * multiplicative index (the same indices trend_seasonality reports), or for a level has its
+ * season's additive deviation taken off; with fewer, or when the
  * indices are undefined, null tells the caller to use the raw values.
  */
-export function seasonallyAdjusted(grain: Grain, points: readonly PeriodPoint[], complete: readonly IndexedValue[]): number[] | null {
+export function seasonallyAdjusted(
+  grain: Grain,
+  points: readonly PeriodPoint[],
+  complete: readonly IndexedValue[],
+  model: SeasonalModel = 'multiplicative',
+): number[] | null {
   const period = SEASONAL_PERIOD[grain];
   if (period === undefined || complete.length === 0) return null;
   const first = complete[0]!.index;
@@ -90,9 +96,13 @@ export function seasonallyAdjusted(grain: Grain, points: readonly PeriodPoint[],
   const result = seasonalIndices(
     span.map((p) => ({ season: season(p), value: p.partial ? null : p.value })),
     period,
+    model,
   );
-  if (result.kind !== 'ok' || result.indices.some((v) => !(v > 0))) return null;
-  return complete.map((c) => c.value / result.indices[season(points[c.index]!) - 1]!);
+  if (result.kind !== 'ok') return null;
+  const index = (c: IndexedValue) => result.indices[season(points[c.index]!) - 1]!;
+  if (model === 'additive') return complete.map((c) => c.value - index(c));
+  if (result.indices.some((v) => !(v > 0))) return null;
+  return complete.map((c) => c.value / index(c));
 }
 
 function seasonOf(period: string, grain: Grain): number {

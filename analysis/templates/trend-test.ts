@@ -1,7 +1,9 @@
 // Template "trend_test": is a metric moving over time? The series at the grain (one grouped
 // query), then Mann–Kendall for direction and strength, Sen's slope for the size, and how far
 // the latest complete period sits from the peak.
-import { mannKendall, relativeChange, senSlope } from '../stats/index.js';
+import { metricByName, seasonalModel } from '../catalog.js';
+import { yearFraction } from '../periods.js';
+import { mannKendall, relativeChange, senSlope, slopesByDecade, type DecadeSlope, type SeasonalModel } from '../stats/index.js';
 import type { Caveat, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
 import type { TrendTestFinding } from '../findings/segments.js';
 import { compileSeries, readSeries } from './series.js';
@@ -40,7 +42,7 @@ export function readTrendTest(sq: SubQuestion, table: ResultTable, ctx: ReadCont
     });
   }
 
-  const test = trendTest(sq, series.points, complete);
+  const test = trendTest(sq, series.points, complete, seasonalModel(metricByName(ctx.dataset, metric)));
   if (test) {
     findings.push(test);
     if (test.smallSample) caveats.push({ code: 'small_sample', data: { n: test.n, metric } });
@@ -50,9 +52,9 @@ export function readTrendTest(sq: SubQuestion, table: ResultTable, ctx: ReadCont
   return { findings, caveats };
 }
 
-function trendTest(sq: SubQuestion, points: readonly PeriodPoint[], complete: ReturnType<typeof completePoints>): TrendTestFinding | null {
+function trendTest(sq: SubQuestion, points: readonly PeriodPoint[], complete: ReturnType<typeof completePoints>, model: SeasonalModel): TrendTestFinding | null {
   const raw = complete.map((p) => p.value);
-  const adjusted = seasonallyAdjusted(sq.grain, points, complete);
+  const adjusted = seasonallyAdjusted(sq.grain, points, complete, model);
   const values = adjusted ?? raw;
   const mk = mannKendall(values);
   const sen = senSlope(values, complete.map((p) => p.index));
@@ -82,5 +84,12 @@ function trendTest(sq: SubQuestion, points: readonly PeriodPoint[], complete: Re
     slopePerYearRelative: level !== null && level > 0 ? slopePerYear / level : null,
     intercept: sen.intercept,
     smallSample: mk.smallSample,
+    byDecade: decadesOf(complete, values),
   };
+}
+
+/** Decade by decade, when the values reach into two decades or more; each period counts at its start date. */
+function decadesOf(complete: ReturnType<typeof completePoints>, values: readonly number[]): DecadeSlope[] {
+  const decades = slopesByDecade(complete.map((p, i) => ({ year: yearFraction(p.period), value: values[i]! })));
+  return decades.length >= 2 ? decades : [];
 }

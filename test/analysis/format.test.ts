@@ -52,6 +52,22 @@ describe('formatValue', () => {
   });
 });
 
+describe('decimals and the unit label', () => {
+  const ppm: ValueFormat = { unit: 'number', decimals: 1, label: 'ppm', locale: 'en-IE' };
+  it('keeps a metric’s decimals in the compact form below a thousand, and the magnitude suffix above', () => {
+    expect(formatValue(355.234, ppm, { compact: true })).toBe('355.2\u00a0ppm');
+    expect(formatValue(38.3, { ...eur, decimals: 2 }, { compact: true })).toBe('€38.30');
+    expect(formatValue(1_934_567, { ...eur, decimals: 2 }, { compact: true })).toBe('€1.93M');
+    // A value the decimals would round to nothing keeps its significant figures.
+    expect(formatValue(0.13, { ...ppm, decimals: 0 }, { compact: true })).toBe('0.13\u00a0ppm');
+  });
+  it('writes the label after counts and numbers, signed or not, and never after currency or percent', () => {
+    expect(formatValue(-2.46, ppm, { compact: true, signed: true })).toBe(`${MINUS}2.5\u00a0ppm`);
+    expect(formatValue(2.46, ppm, { signed: true })).toBe('+2.5\u00a0ppm');
+    expect(formatValue(3, { unit: 'percent', label: 'ppm', locale: 'en-IE' })).toBe('300.0%');
+  });
+});
+
 describe('valueFormatOf', () => {
   it('takes unit, currency and decimals from the metric', () => {
     const metric: Metric = {

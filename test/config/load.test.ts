@@ -59,6 +59,13 @@ describe('config loading', () => {
     expect(p?.line).toBe(lineOf(text, 'per: pasengers'));
   });
 
+  it('refuses a unit label on a currency metric, at its line', () => {
+    const text = example.replace('        currency: EUR\n        decimals: 2\n', '        currency: EUR\n        decimals: 2\n        unit_label: euro\n');
+    const p = problemsOf(text).find((x) => x.key.endsWith('unit_label'));
+    expect(p?.message).toMatch(/writes its own sign/);
+    expect(p?.line).toBe(lineOf(text, 'unit_label: euro'));
+  });
+
   it('rejects an unknown time zone', () => {
     const text = example.replace('timezone: Europe/Dublin', 'timezone: Europe/Atlantis');
     expect(problemsOf(text).map((p) => p.key)).toContain('datasets[0].timezone');

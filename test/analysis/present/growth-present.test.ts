@@ -186,7 +186,7 @@ describe('growth_drivers presenter', () => {
     const s = sq('growth_drivers', { lens: 'breakdown', dimension: 'channel', metrics: ['fare_per_passenger'] });
     const f: GrowthDriversFinding = { ...driversFinding, metric: 'fare_per_passenger', additive: false, others: null, segments: [{ ...driversFinding.segments[0]!, before: 20, after: 21, change: 1, relative: 0.05, shareOfChange: null, contribution: null }], total: { before: 20, after: 20.5, change: 0.5, relative: 0.025 } };
     const p = present(answer(s, [f]), 'managers');
-    expect(p.title).toBe('Average fare per passenger moved most for app: +€1');
+    expect(p.title).toBe('Average fare per passenger moved most for app: +€1.00');
     expect(p.caption).toContain('is not a sum, so segment changes do not add up');
   });
 

@@ -50,7 +50,7 @@ describe('period table words', () => {
       'Revenue peaked in July 2024 at €318K on 8.3K bookings; in August 2024, against a year earlier, revenue grew faster than bookings (+5.0% against +2.0%), so the average fare per booking rose 2.9%.',
     );
     expect(words.title).toBe('Revenue peaked in July 2024 at €318K on 8.3K bookings');
-    expect(words.caption).toMatch(/Best months: revenue July 2024 \(€318K\); bookings July 2024 \(8\.3K\); average fare per booking July 2024 \(€38\.3\)\. Worst: revenue August 2024/);
+    expect(words.caption).toMatch(/Best months: revenue July 2024 \(€318K\); bookings July 2024 \(8\.3K\); average fare per booking July 2024 \(€38\.30\)\. Worst: revenue August 2024/);
   });
 
   it('reads weeks as "the week commencing" and days with "on", and lists the changes without a quotient', () => {

@@ -65,6 +65,7 @@ const test: TrendTestFinding = {
   slopePerYearRelative: 0.037299,
   intercept: 4729.27,
   smallSample: false,
+  byDecade: [],
 };
 const change: Finding = { type: 'change', metric: 'bookings', from: { period: '2023-07-01', value: 8449 }, to: { period: '2024-12-01', value: 4489 }, relative: -0.46869, absolute: -3960 };
 

@@ -1,0 +1,131 @@
+// A level on a public series: NOAA's Mauna Loa monthly mean CO2 (vega-datasets co2-concentration.csv,
+// 1958–2020), loaded into an in-memory DuckDB table with a config written here that declares it a
+// level in ppm with one decimal. Every number is checked against a plain computation of the CSV
+// in this file (means and least-squares slopes), never through DuckDB, and the decade rates
+// against NOAA's published Mauna Loa growth rates.
+import { readFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { dirname, join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
+import type { TrendSeasonalityFinding, TrendSummaryFinding, TrendTestFinding } from '../../../analysis/findings/segments.js';
+import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
+import type { SubQuestion } from '../../../analysis/types.js';
+import type { TemplateName } from '../../../analysis/sub-questions/registry.js';
+import { memoryWorkspace } from './trend-memory-db.js';
+
+const require = createRequire(import.meta.url);
+const CSV = join(dirname(dirname(require.resolve('vega-datasets'))), 'data', 'co2-concentration.csv');
+
+const CONFIG = `
+version: 1
+datasets:
+  - name: co2
+    label: Mauna Loa CO2 (vega-datasets)
+    source: { kind: duckdb, path: unused.duckdb }
+    table: co2
+    time_column: Date
+    timezone: UTC
+    metrics:
+      - name: co2
+        label: CO2
+        definition: { type: average, column: CO2 }
+        unit: number
+        unit_label: ppm
+        decimals: 1
+        higher_is_better: false
+        kind: level
+`;
+
+interface Reading {
+  date: string;
+  year: number;
+  month: number;
+  co2: number;
+}
+const readings: Reading[] = readFileSync(CSV, 'utf8')
+  .trim()
+  .split('\n')
+  .slice(1)
+  .map((line) => {
+    const [date, co2] = line.split(',');
+    return { date: date!, year: Number(date!.slice(0, 4)), month: Number(date!.slice(5, 7)), co2: Number(co2) };
+  });
+
+/** Ordinary least squares slope of y on x. */
+function olsSlope(xs: number[], ys: number[]): number {
+  const mx = xs.reduce((a, b) => a + b, 0) / xs.length;
+  const my = ys.reduce((a, b) => a + b, 0) / ys.length;
+  let sxy = 0;
+  let sxx = 0;
+  xs.forEach((x, i) => {
+    sxy += (x - mx) * (ys[i]! - my);
+    sxx += (x - mx) ** 2;
+  });
+  return sxy / sxx;
+}
+
+let ws: Awaited<ReturnType<typeof memoryWorkspace>>;
+const question = (template: TemplateName, grain: SubQuestion['grain'] = 'month'): SubQuestion => ({
+  id: 'c',
+  kind: 'trend',
+  lens: 'time_pattern',
+  template,
+  metrics: ['co2'],
+  grain,
+  window: { start: '1958-01-01', end: '2020-05-01' },
+  filters: [],
+});
+const present = async (sq: SubQuestion, audience: 'managers' | 'analysts' = 'managers') => {
+  const answer = await answerSubQuestion(sq, ws);
+  return { answer, shown: SUB_QUESTIONS[sq.template].present(answer, { dataset: ws.dataset, locale: 'en-GB', audience, chart: { width: 1200, height: 675, scale: 1 }, dataAsOf: ws.coverage.lastDate }) };
+};
+
+beforeAll(async () => {
+  ws = await memoryWorkspace([`CREATE TABLE co2 AS SELECT * FROM read_csv('${CSV.replaceAll("'", "''")}', header = true)`], CONFIG);
+});
+afterAll(async () => {
+  await ws?.source.close();
+});
+
+describe('a level (Mauna Loa CO2) is stated in its own units', () => {
+  it('the summary says "averaged 355.x ppm", never "a month", with the mean of the CSV', async () => {
+    const { answer, shown } = await present(question('trend_summary'));
+    const s = answer.findings.find((f): f is TrendSummaryFinding => f.type === 'trend_summary')!;
+    // Every stamped month is complete (stamped monthly on the 1st, up to April 2020).
+    const mean = readings.reduce((a, r) => a + r.co2, 0) / readings.length;
+    expect(s.n).toBe(readings.length);
+    expect(s.mean).toBeCloseTo(mean, 9);
+    expect(shown.title).toBe(`CO2 averaged ${mean.toFixed(1)}\u00a0ppm, from ${Math.min(...readings.map((r) => r.co2)).toFixed(1)}\u00a0ppm to ${Math.max(...readings.map((r) => r.co2)).toFixed(1)}\u00a0ppm`);
+    expect(shown.caption).toContain(`averaged ${mean.toFixed(1)}\u00a0ppm (median`);
+    expect(`${shown.title} ${shown.caption}`).not.toMatch(/a month|a year/);
+  });
+
+  it('the trend is a change in ppm a year and a decade, with a rate for each decade near NOAA’s', async () => {
+    const { answer, shown } = await present(question('trend_test'));
+    const t = answer.findings.find((f): f is TrendTestFinding => f.type === 'trend_test')!;
+    expect(t.direction).toBe('up');
+    // Independent: least squares of the monthly readings on time within each whole decade of the CSV.
+    const decades = [1960, 1970, 1980, 1990, 2000, 2010];
+    expect(t.byDecade.map((d) => d.decade)).toEqual(decades);
+    for (const d of t.byDecade) {
+      const inside = readings.filter((r) => r.year >= d.decade && r.year < d.decade + 10);
+      const ols = olsSlope(inside.map((r) => r.year + (r.month - 1) / 12), inside.map((r) => r.co2));
+      expect(Math.abs(d.perYear - ols)).toBeLessThan(0.1);
+    }
+    // NOAA Global Monitoring Laboratory, Mauna Loa annual mean growth rates averaged by decade
+    // (recalled from memory, ppm a year): 1960s about 0.86, 2010s about 2.4.
+    expect(t.byDecade[0]!.perYear).toBeGreaterThan(0.7);
+    expect(t.byDecade[0]!.perYear).toBeLessThan(1.0);
+    expect(t.byDecade[5]!.perYear).toBeGreaterThan(2.2);
+    expect(t.byDecade[5]!.perYear).toBeLessThan(2.6);
+    // The whole span: least squares over all readings, per year and per decade.
+    const overall = olsSlope(readings.map((r) => r.year + (r.month - 1) / 12), readings.map((r) => r.co2));
+    expect(Math.abs(t.slopePerYear - overall)).toBeLessThan(0.1);
+    expect(shown.title).toBe(`CO2 shows a rising trend of about ${t.slopePerYear.toFixed(1)}\u00a0ppm a year`);
+    expect(shown.caption).toContain(`rose by about ${t.slopePerYear.toFixed(1)}\u00a0ppm a year (${(t.slopePerYear * 10).toFixed(1)}\u00a0ppm a decade)`);
+    expect(shown.caption).toContain(`+${t.byDecade[0]!.perYear.toFixed(1)}\u00a0ppm in the 1960s`);
+    expect(shown.caption).toContain(`+${t.byDecade[5]!.perYear.toFixed(1)}\u00a0ppm in the 2010s`);
+    expect(shown.caption).not.toMatch(/%/);
+  });
+});
