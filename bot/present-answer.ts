@@ -61,7 +61,9 @@ export const presentSummary: SummaryPresenter = async (takeaways, { workspace, f
   // The answer to the question asked comes before everything else: the first verdict in plan order.
   // A request that only names a year-earlier comparison (a table "with the growth on the year
   // before") keeps a leading takeaway first; a yes-or-no question is always answered first.
-  const verdictFirst = askedDirection(requestText) !== null || (wantsVerdict(requestText) && !takeaways.some((t) => t.leads));
+  // A request that names the periods to compare ("2025 against 2023") wants that verdict too.
+  const namedComparison = (items ?? []).some((sq) => sq.compareWindow);
+  const verdictFirst = askedDirection(requestText) !== null || ((wantsVerdict(requestText) || namedComparison) && !takeaways.some((t) => t.leads));
   const settled = verdictFirst ? [...takeaways].sort((a, b) => a.position - b.position).find((t) => t.verdict) : undefined;
   const verdict = settled ? { text: verdictLine(requestText, settled.verdict!), position: settled.position } : null;
   const lines = [...(verdict ? [verdict] : []), ...top].map((t) => `- ${t.text} (see ${t.position})`);

@@ -2,9 +2,11 @@
 // segments that moved it most, written only from the finding.
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { ChangedSegment, GrowthDriverSegment, GrowthDriversFinding } from '../findings/growth.js';
-import { formatChange, formatPeriod } from '../format.js';
+import { formatChange, formatDayOfYear, formatPeriod } from '../format.js';
 import type { Audience } from '../types.js';
-import type { GrowthWords } from './growth-series-caption.js';
+import { verdictDirection, type GrowthWords } from './growth-series-caption.js';
+import type { Verdict } from './verdict-words.js';
+import { addDays, addMonths } from '../periods.js';
 import { capitalise, dimensionLabel, directionOf, formatPoints, lower, segmentText, spanText, unsignedPercent, valueText } from './growth-words.js';
 
 /** Segments named in a caption, largest change first. */
@@ -105,4 +107,34 @@ function likeForLikeSentence(
     return `Like-for-like growth leaves out what was not there through both spans (${left}); without it there is no like-for-like figure here.`;
   }
   return `Like for like, leaving out what was not there through both spans (${left}), ${lower(label)} ${totalVerb(lfl.relative, locale)}: ${money(lfl.before)} to ${money(lfl.after)}.`;
+}
+
+/**
+ * The verdict on a comparison the request named ("2025 against 2023", "this summer against last"):
+ * the total's change between the two spans, against the base said as the requester would.
+ */
+export function spansVerdict(metric: Metric, f: GrowthDriversFinding, locale: string): Verdict | null {
+  const rel = f.total.relative;
+  if (rel === null || !Number.isFinite(rel)) return null;
+  const { current, prior } = f;
+  const direction = verdictDirection(rel);
+  const label = lower(metric.label);
+  const days = (s: typeof current) => `${formatDayOfYear(s.start, locale)} to ${formatDayOfYear(addDays(s.end, -1), locale)}`;
+  const wholeYears = (s: typeof current) => s.start.slice(5) === '01-01' && s.end.slice(5) === '01-01';
+  const shiftedYears = Number(current.start.slice(0, 4)) - Number(prior.start.slice(0, 4));
+  const sameDates = shiftedYears > 0 && addMonths(current.start, -12 * shiftedYears) === prior.start && addMonths(current.end, -12 * shiftedYears) === prior.end;
+  const values = `${valueText(f.total.after, metric, locale)} against ${valueText(f.total.before, metric, locale)}`;
+  let base: string;
+  if (sameDates && shiftedYears === 1 && current.start.slice(5) === '01-01' && !wholeYears(current)) {
+    // The year so far, said as the year-so-far verdict of growth_series says it.
+    base = `last year so far (${formatDayOfYear(current.start, locale, 'month')} to ${formatDayOfYear(addDays(current.end, -1), locale)})`;
+  } else if (sameDates && wholeYears(current)) {
+    base = `${spanText(prior, locale)} (${values})`;
+  } else if (sameDates) {
+    base = `${shiftedYears === 1 ? 'the same dates a year earlier' : `the same dates of ${prior.start.slice(0, 4)}`} (${days(current)}; ${values})`;
+  } else {
+    base = `${spanText(prior, locale)} (${spanText(current, locale)}; ${values})`;
+  }
+  const where = direction === 'level' ? `level with ${base.replace(/ \(/, ` (${formatChange(rel, locale)}, `)}` : `${unsignedPercent(rel, locale)} ${direction === 'up' ? 'above' : 'below'} ${base}`;
+  return { direction, statement: wholeYears(current) ? `${label} in ${spanText(current, locale)} was ${where}` : `${label} is ${where}` };
 }

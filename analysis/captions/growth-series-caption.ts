@@ -182,7 +182,7 @@ export function growthVerdict(metric: Metric, f: GrowthSeriesFindings, locale: s
   return null;
 }
 
-function verdictDirection(relative: number): VerdictDirection {
+export function verdictDirection(relative: number): VerdictDirection {
   const d = directionOf(relative);
   return d === 'up' || d === 'down' ? d : 'level';
 }

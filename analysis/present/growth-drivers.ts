@@ -2,7 +2,7 @@
 // largest driver named in the title.
 import { buildBars } from '../charts/build-bars.js';
 import type { BarsSpec } from '../charts/spec.js';
-import { growthDriversWords } from '../captions/growth-drivers-caption.js';
+import { growthDriversWords, spansVerdict } from '../captions/growth-drivers-caption.js';
 import { growthNotes, segmentText } from '../captions/growth-words.js';
 import { metricByName } from '../catalog.js';
 import type { GrowthDriversFinding } from '../findings/growth.js';
@@ -10,7 +10,7 @@ import { valueFormatOf } from '../format.js';
 import type { Answer, Finding } from '../types.js';
 import { twoSpanSubtitle } from './growth-header.js';
 import { chartFooter } from './header.js';
-import type { PresentContext, Presenter } from './presenter.js';
+import { withVerdict, type PresentContext, type Presenter } from './presenter.js';
 
 const OTHERS_LABEL = 'All others';
 
@@ -24,7 +24,9 @@ export const presentGrowthDrivers: Presenter = (answer, ctx) => {
     caption: words.caption,
     notes: growthNotes(answer, ctx.locale, ctx.dataset),
     chart,
-    takeaway: chart ? { importance: 55, text: `${words.title}.` } : null,
+    // A comparison the request named is answered here, on the spans it named (the year-so-far
+    // verdict of growth_series answers only a request that named none).
+    takeaway: chart ? withVerdict({ importance: 55, text: `${words.title}.` }, f && answer.subQuestion.compareWindow ? spansVerdict(metric, f, ctx.locale) : null) : null,
   };
 };
 

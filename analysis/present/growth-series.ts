@@ -10,8 +10,7 @@ import type { GrowthSeriesFinding } from '../findings/growth.js';
 import type { ValueFormat } from '../format.js';
 import type { Answer } from '../types.js';
 import { chartFooter, chartSubtitle } from './header.js';
-import type { PresentContext, Presenter, Takeaway } from './presenter.js';
-import type { Verdict } from '../captions/verdict-words.js';
+import { withVerdict, type PresentContext, type Presenter } from './presenter.js';
 
 export const presentGrowthSeries: Presenter = (answer, ctx) => {
   const sq = answer.subQuestion;
@@ -27,10 +26,6 @@ export const presentGrowthSeries: Presenter = (answer, ctx) => {
     takeaway: found.series ? withVerdict({ importance: 60, text: `${words.title}.` }, growthVerdict(metric, found, ctx.locale)) : null,
   };
 };
-
-function withVerdict(t: Takeaway, verdict: Verdict | null): Takeaway {
-  return verdict ? { ...t, verdict } : t;
-}
 
 function growthChart(answer: Answer, series: GrowthSeriesFinding, title: string, higherIsBetter: boolean, ctx: PresentContext): ChartSpec | null {
   const metric = metricByName(ctx.dataset, series.metric);

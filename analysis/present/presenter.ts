@@ -43,3 +43,8 @@ export interface Presented {
 }
 
 export type Presenter = (answer: Answer, ctx: PresentContext) => Presented;
+
+/** A takeaway that settles the comparison asked carries its verdict, said first in the summary. */
+export function withVerdict(t: Takeaway, verdict: Verdict | null): Takeaway {
+  return verdict ? { ...t, verdict } : t;
+}

@@ -15,5 +15,5 @@ export const growthDriversSubQuestion = defineSubQuestion({
   describe: (w, sq) =>
     longerThanAYear(sq.window)
       ? `Which ${w.dim}s drove the change in ${w.metric}: the last complete year in ${w.span} against the one before.`
-      : `Which ${w.dim}s drove the change in ${w.metric}, ${w.span} against a year earlier.`,
+      : `Which ${w.dim}s drove the change in ${w.metric}, ${w.span} against ${w.base}.`,
 });

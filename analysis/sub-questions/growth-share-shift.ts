@@ -14,5 +14,5 @@ export const growthShareShiftSubQuestion = defineSubQuestion({
   describe: (w, sq) =>
     longerThanAYear(sq.window)
       ? `How each ${w.dim}'s share of ${w.metric} shifted: the last complete year in ${w.span} against the one before.`
-      : `How each ${w.dim}'s share of ${w.metric} shifted, ${w.span} against a year earlier.`,
+      : `How each ${w.dim}'s share of ${w.metric} shifted, ${w.span} against ${w.base}.`,
 });

@@ -20,6 +20,8 @@ export interface PlanWords {
   vs: string;
   /** The comparison group's label ('' without one). */
   groupLabel: string;
+  /** What the window is compared with: "a year earlier", or the period the request named. */
+  base: string;
 }
 
 
@@ -33,6 +35,7 @@ export function planWords(sq: SubQuestion, ds: DatasetConfig, locale: string): P
     grain: grainAdjective(sq.grain),
     vs: group ? `${group.members_label.toLowerCase()} vs ${group.others_label.toLowerCase()}` : '',
     groupLabel: group?.label ?? '',
+    base: sq.compareWindow ? describeWindow(sq.compareWindow, { firstDate: null, lastDate: null, rows: 0 }, locale) : 'a year earlier',
   };
 }
 

@@ -32,12 +32,17 @@ beforeAll(async () => {
 
 /** Revenue from 1 January to 18 June of a year, summed from the raw rows in plain JavaScript. */
 async function revenueToJune18(year: number): Promise<number> {
+  return revenueBetween(`${year}-01-01`, `${year}-06-18`);
+}
+
+/** Revenue between two days (inclusive), summed from the raw rows in plain JavaScript. */
+async function revenueBetween(first: string, last: string): Promise<number> {
   const db = await DuckDBInstance.create(databasePath, { access_mode: 'READ_ONLY' });
   const con = await db.connect();
   const reader = await con.runAndReadAll('SELECT CAST(sail_date AS VARCHAR) AS d, CAST(fare_total AS VARCHAR) AS f FROM bookings');
   let total = 0;
   for (const [d, f] of reader.getRows() as [string, string][]) {
-    if (d >= `${year}-01-01` && d <= `${year}-06-18`) total += Number(f);
+    if (d >= first && d <= last) total += Number(f);
   }
   con.closeSync();
   db.closeSync();
@@ -67,4 +72,36 @@ describe('"Is revenue growing on last year so far this year?"', () => {
     const png = readFileSync(join(dir, 'out', summary.files[0]!.path));
     expect(png.readUInt32BE(16)).toBe(1600);
   });
+});
+
+// A request that names the periods to compare is answered on those periods, not on the year so far
+// against the year before (which would answer a different question).
+describe('a comparison the request names leads the summary, on the periods it names', () => {
+  async function summaryOf(request: string): Promise<RecordedThread> {
+    const demo = await demoFixture();
+    const out = mkdtempSync(join(tmpdir(), 'tc-verdict-named-'));
+    writeFileSync(join(out, 'answers.yaml'), 'plan: go\n');
+    const r = await ask({ configFile: demo.configPath, request, answersFile: join(out, 'answers.yaml'), outDir: join(out, 'out'), now: new Date('2025-06-19T09:00:00Z') });
+    expect(r.end).toBe('done');
+    return r.thread.thread;
+  }
+  const firstLine = (t: RecordedThread) => t.posts.find((p) => p.author === 'threadcount' && p.text.startsWith('*Summary*'))!.text.split('\n')[1]!;
+
+  it('"How did revenue in 2025 compare with 2023?": 2025 so far against the same dates of 2023', async () => {
+    const t = await summaryOf('How did revenue in 2025 compare with 2023?');
+    const change = (await revenueToJune18(2025)) / (await revenueToJune18(2023)) - 1;
+    const pct = (Math.abs(change) * 100).toFixed(1).replace('.', '\\.');
+    expect(firstLine(t)).toMatch(new RegExp(`^- Revenue is ${pct}% ${change < 0 ? 'below' : 'above'} the same dates of 2023 \\(1 January to 18 June; €[\\d.]+K against €[\\d.]+K\\)\\. \\(see \\d+\\)$`));
+    // The plan said what it compares with: 2023, not "a year earlier".
+    const card = t.posts.find((p) => p.text.startsWith('*Here is what I understood.*'))!.text;
+    expect(card).toMatch(/drove the change in revenue, 1 January to 18 June 2025 against 1 January to 18 June 2023\./);
+    expect(card).not.toMatch(/against a year earlier/);
+  }, 300_000);
+
+  it('"Did this summer beat last summer?": the summer so far against the same dates a year earlier, not the year so far', async () => {
+    const t = await summaryOf('Did this summer beat last summer for revenue?');
+    const change = (await revenueBetween('2025-06-01', '2025-06-18')) / (await revenueBetween('2024-06-01', '2024-06-18')) - 1;
+    const pct = (Math.abs(change) * 100).toFixed(1).replace('.', '\\.');
+    expect(firstLine(t)).toMatch(new RegExp(`^- ${change < 0 ? 'No' : 'Yes'}: revenue is ${pct}% ${change < 0 ? 'below' : 'above'} the same dates a year earlier \\(1 June to 18 June; `));
+  }, 300_000);
 });
