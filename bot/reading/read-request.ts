@@ -316,7 +316,9 @@ function toQuestion(r: ClauseReading, st: ReadState, previous: Question | undefi
   }
   // A follow-up with no cue of its own ("how does that compare with Q2?") keeps the kind asked before it, unless it compares periods.
   // "And what was their trial share?": a follow-up that points back keeps the period asked before.
-  if (!windows.window && previous?.window && /\b(?:their|its|those|these|them|they|that|it)\b/.test(r.clause.text.toLowerCase()) && r.periods.length === 0) {
+  // "Since it launched" is its own period (from the launch), not a pointer back.
+  const ownLaunch = !!r.launchDate || refersToLaunch(r.clause.text);
+  if (!windows.window && previous?.window && !ownLaunch && /\b(?:their|its|those|these|them|they|that|it)\b/.test(r.clause.text.toLowerCase()) && r.periods.length === 0) {
     windows = { window: previous.window, ...(previous.compareWindow ? { compareWindow: previous.compareWindow } : {}) };
   }
   // A follow-up pointing back with no period of its own ("what share of them…", "was that across all countries?") is asked about the same period, in the same kind, unless it asks about a change.

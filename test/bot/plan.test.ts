@@ -25,6 +25,10 @@ describe('the demo request', () => {
     expect(brief.questions[0]!.dimensions).toEqual(['route', 'channel']);
     expect(brief.questions[1]).toMatchObject({ comparisonGroup: 'skerrypass', frequency: true, metrics: ['bookings'] });
     expect(brief.questions[2]!.metrics).toEqual(['fare_per_passenger', 'refunded_revenue_share']);
+    // "since it launched" is the pass question's own period: the "it" is the launch, not a pointer
+    // back to the summer asked before (which would compare the groups over 18 days of June).
+    expect(brief.questions[1]!.window?.start).toBe(brief.questions[1]!.launchDate);
+    expect(brief.questions[1]!.compareWindow).toBeUndefined();
   });
 
   it('asks nothing: the summer question takes the headline measure, said as assumed on the card; a request with no measure at all is asked', () => {
