@@ -1,7 +1,7 @@
 // Title and caption for the seasonal pattern (monthly indices and weekdays), from findings only.
 import type { Metric } from '../../config/schema.js';
 import type { CalendarMonthPattern, TrendSeasonalityFinding, TrendWeekdayFinding } from '../findings/segments.js';
-import { formatPeriod } from '../format.js';
+import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import type { Audience, Finding } from '../types.js';
 import { listJoin } from './grammar.js';
 import type { Words } from './trend-test-caption.js';
@@ -29,6 +29,10 @@ export function seasonalityWords(metric: Metric, additive: boolean, findings: re
     ? `${monthPair(b0, b1, locale)} are the busiest months${held}`
     : `${metric.label} is highest in ${monthPair(b0, b1, locale)}${held}`;
 
+  if (s.model === 'additive') {
+    const caption = levelSeasonCaption(metric, s, audience, locale);
+    return { title, caption: weekday ? `${caption} ${weekday}` : caption };
+  }
   const name = (m: number) => monthName(m, locale);
   const rel = (m: CalendarMonthPattern) => formatRelativeSize(m.index - 1, locale);
   /** "about 27% above an average month", "about 3% below", "about the same as": the side follows the index. */
@@ -65,6 +69,35 @@ export function seasonalityWords(metric: Metric, additive: boolean, findings: re
     caption = `${monthPair(b0, b1, locale)} are ${band(b0, b1, 'an average month')} for ${noun}; ${monthPair(q0, q1, locale)} ${band(q0, q1, '')}.`;
   }
   return { title, caption: weekday ? `${caption} ${weekday}` : caption };
+}
+
+/**
+ * A level's seasonal pattern is a swing in its own units around the yearly mean (additive
+ * decomposition): "May runs +3.1 ppm above the yearly mean", never a percentage index.
+ */
+function levelSeasonCaption(metric: Metric, s: TrendSeasonalityFinding, audience: Audience, locale: string): string {
+  const fmt = valueFormatOf(metric, locale);
+  const signed = (v: number) => formatValue(v, fmt, { compact: true, signed: true });
+  const name = (m: number) => monthName(m, locale);
+  const byMonth = (m: number) => s.months[m - 1]!;
+  const [b0, b1] = s.busiest;
+  const [q0, q1] = s.quietest;
+  const side = (v: number) => (v >= 0 ? 'above' : 'below');
+  const swing = formatValue(byMonth(b0).index - byMonth(q0).index, fmt, { compact: true });
+  if (audience === 'analysts') {
+    const idx = (m: number) => {
+      const p = byMonth(m);
+      const range = p.min !== null && p.max !== null && s.rangeFromYear !== null ? `, range ${signed(p.min)} to ${signed(p.max)}` : '';
+      return `${name(m)} ${signed(p.index)}${range}`;
+    };
+    const rangeYears = s.rangeFromYear !== null && s.rangeToYear !== null ? ` (ranges over ${s.rangeFromYear}–${s.rangeToYear})` : '';
+    return `Classical additive decomposition (2×12 centred moving average) of ${formatPeriod(s.firstPeriod, 'month', locale, 'long')} to ${formatPeriod(s.lastPeriod, 'month', locale, 'long')}${rangeYears}, deviations from the trend: ${idx(b0)}; ${idx(b1)}; ${idx(q0)}; ${idx(q1)}; ${swing} from the highest month to the lowest.`;
+  }
+  const at = (m: number) => `${signed(byMonth(m).index)} ${side(byMonth(m).index)} the yearly mean in ${name(m)}`;
+  if (audience === 'managers') {
+    return `${metric.label} runs ${at(b0)} and ${signed(byMonth(b1).index)} in ${name(b1)}; ${signed(byMonth(q0).index)} in ${name(q0)} and ${signed(byMonth(q1).index)} in ${name(q1)} are the lowest: a swing of ${swing} within the year.`;
+  }
+  return `${monthPair(b0, b1, locale)} are the highest months for ${lowerLabel(metric.label)} (${at(b0)}), ${monthPair(q0, q1, locale)} the lowest (${signed(byMonth(q0).index)} in ${name(q0)}).`;
 }
 
 function weekdaySentence(w: TrendWeekdayFinding, additive: boolean, audience: Audience, locale: string): string {

@@ -1,4 +1,4 @@
-import { formatValue } from '../format.js';
+import { formatValue, type ValueFormat } from '../format.js';
 import { headerOf, monthNames } from './header.js';
 import type { ChartHeader, SeasonalMonth, SeasonalProfileSpec } from './spec.js';
 
@@ -15,6 +15,8 @@ export interface SeasonalProfileInput extends ChartHeader {
   locale: string;
   /** Legend text of the whiskers, e.g. "Range 2022–2024". */
   rangeLabel: string;
+  /** A level's pattern: indices are deviations in these units from the yearly mean (additive). */
+  deviationFormat?: ValueFormat;
 }
 
 export function buildSeasonalProfile(input: SeasonalProfileInput): SeasonalProfileSpec {
@@ -28,7 +30,9 @@ export function buildSeasonalProfile(input: SeasonalProfileInput): SeasonalProfi
       index,
       min: finiteOrNull(m?.min ?? null),
       max: finiteOrNull(m?.max ?? null),
-      text: formatValue(index, { unit: 'number', decimals: 2, locale: input.locale }),
+      text: input.deviationFormat
+        ? formatValue(index, input.deviationFormat, { compact: true, signed: true })
+        : formatValue(index, { unit: 'number', decimals: 2, locale: input.locale }),
     };
   });
   return {
@@ -36,11 +40,22 @@ export function buildSeasonalProfile(input: SeasonalProfileInput): SeasonalProfi
     ...headerOf(input),
     months,
     locale: input.locale,
-    reference: 1,
+    reference: input.deviationFormat ? 0 : 1,
     rangeLabel: input.rangeLabel,
+    ...(input.deviationFormat ? { units: deviationAxis(input.deviationFormat) } : {}),
   };
 }
 
 function finiteOrNull(v: number | null): number | null {
   return v !== null && Number.isFinite(v) ? v : null;
+}
+
+function deviationAxis(format: ValueFormat): NonNullable<SeasonalProfileSpec['units']> {
+  return {
+    format,
+    axisTitle: `Difference from the yearly mean${format.label ? ` (${format.label})` : ''}`,
+    referenceLabel: 'Yearly mean',
+    above: 'Above the yearly mean',
+    below: 'Below',
+  };
 }

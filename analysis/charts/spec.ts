@@ -227,8 +227,13 @@ export interface SeasonalProfileSpec extends ChartHeader {
   months: SeasonalMonth[];
   /** Locale of the axis numbers. */
   locale: string;
-  /** Reference index drawn as a line (1.0). */
+  /** Reference drawn as a line: 1.0 for an index, 0 for a deviation in units. */
   reference: number;
+  /**
+   * Present when the bars are deviations in the metric's units (a level's additive pattern): the
+   * axis runs through zero in units, never from 0 to an index.
+   */
+  units?: { format: ValueFormat; axisTitle: string; referenceLabel: string; above: string; below: string };
   /** Legend text of the whiskers, e.g. "Range 2022–2024". */
   rangeLabel: string;
 }

@@ -1,6 +1,7 @@
 // Findings of the trend family's extra lenses (trend test, seasonality, summary) and of the
 // segment machinery (segment trends, segment shares). Numbers, periods and segment keys only.
 import type { DecadeSlope } from '../stats/decades.js';
+import type { SeasonalModel } from '../stats/decomposition.js';
 import type { HhiBand } from '../stats/concentration.js';
 import type { Grain, PeriodPoint } from '../types.js';
 
@@ -42,7 +43,7 @@ export interface CalendarMonthPattern {
   /** 1 = January. */
   month: number;
   index: number;
-  /** Lowest and highest detrended ratio of this month across the years; null when no year has one. */
+  /** Lowest and highest detrended ratio (additive: difference) of this month across the years; null when no year has one. */
   min: number | null;
   max: number | null;
   /** Over full calendar years, by the raw monthly value: how often this month was the highest, in the top two... */
@@ -52,10 +53,15 @@ export interface CalendarMonthPattern {
   bottomTwoIn: number;
 }
 
-/** Classical multiplicative seasonal indices of the monthly series (period 12). */
+/**
+ * Classical seasonal indices of the monthly series (period 12): multiplicative for flows and
+ * ratios (an index, 1 = an average month), additive for levels (a deviation in the metric's units,
+ * 0 = the yearly mean; see analysis/catalog.ts seasonalModel).
+ */
 export interface TrendSeasonalityFinding {
   type: 'trend_seasonality';
   metric: string;
+  model: SeasonalModel;
   /** Complete months used, first and last. */
   firstPeriod: string;
   lastPeriod: string;

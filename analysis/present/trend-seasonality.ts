@@ -32,6 +32,7 @@ export const presentTrendSeasonality: Presenter = (answer, ctx) => {
       months: s.months.map((m) => ({ month: m.month, index: m.index, min: m.min, max: m.max })),
       locale: ctx.locale,
       rangeLabel: s.rangeFromYear !== null && s.rangeToYear !== null ? `Range across ${s.rangeFromYear}–${s.rangeToYear}` : 'Range across years',
+      ...(s.model === 'additive' ? { deviationFormat: valueFormatOf(metric, ctx.locale) } : {}),
     });
   } else if (w && w.days.some((d) => d.level !== null)) {
     chart = buildBars({

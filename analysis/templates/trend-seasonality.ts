@@ -1,12 +1,12 @@
 // Template "trend_seasonality": the calendar pattern of a metric. Monthly series → classical
-// multiplicative seasonal indices (period 12), the busiest and quietest months and in how many
+// seasonal indices (period 12; multiplicative, or additive in units for a level), the busiest and quietest months and in how many
 // full years each held, plus the day-of-week pattern from a second grouped query.
-import { isAdditive, metricByName } from '../catalog.js';
+import { isAdditive, metricByName, seasonalModel } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type { CalendarMonthPattern, TrendSeasonalityFinding, WeekdayValue } from '../findings/segments.js';
 import { parseIsoDate } from '../periods.js';
-import { seasonalIndices } from '../stats/index.js';
+import { seasonalIndices, type SeasonalModel } from '../stats/index.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
 import { compileSeries, readSeries } from './series.js';
@@ -63,7 +63,7 @@ export function readSeasonality(sq: SubQuestion, monthly: ResultTable, weekday: 
 
   const points = completeSpan(series.points);
   if (points.length > 0) {
-    const seasonal = seasonalityOf(metricName, points);
+    const seasonal = seasonalityOf(metricName, points, seasonalModel(metric));
     if (seasonal.kind === 'ok') findings.push(seasonal.finding);
     else caveats.push(seasonal.caveat);
   } else if (!caveats.some((c) => c.code === 'all_null' || c.code === 'single_period')) {
@@ -89,8 +89,8 @@ function completeSpan(points: readonly PeriodPoint[]): PeriodPoint[] {
 
 type SeasonalOutcome = { kind: 'ok'; finding: TrendSeasonalityFinding } | { kind: 'caveat'; caveat: Caveat };
 
-function seasonalityOf(metric: string, points: readonly PeriodPoint[]): SeasonalOutcome {
-  const result = seasonalIndices(points.map((p) => ({ season: isoMonth(p.period), value: p.value })), PERIOD);
+function seasonalityOf(metric: string, points: readonly PeriodPoint[], model: SeasonalModel): SeasonalOutcome {
+  const result = seasonalIndices(points.map((p) => ({ season: isoMonth(p.period), value: p.value })), PERIOD, model);
   if (result.kind === 'too_few_cycles') {
     return { kind: 'caveat', caveat: { code: 'too_few_cycles', data: { metric, fullCycles: result.fullCycles, required: result.required, months: result.points } } };
   }
@@ -144,6 +144,7 @@ function seasonalityOf(metric: string, points: readonly PeriodPoint[]): Seasonal
     finding: {
       type: 'trend_seasonality',
       metric,
+      model,
       firstPeriod: points[0]!.period,
       lastPeriod: points[points.length - 1]!.period,
       months,

@@ -125,6 +125,7 @@ const monthsPattern: CalendarMonthPattern[] = [0.587, 0.581, 0.79, 0.907, 1.05, 
 const seasonality: TrendSeasonalityFinding = {
   type: 'trend_seasonality',
   metric: 'bookings',
+  model: 'multiplicative',
   firstPeriod: '2022-01-01',
   lastPeriod: '2025-05-01',
   months: monthsPattern,

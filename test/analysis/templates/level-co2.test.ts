@@ -3,12 +3,14 @@
 // level in ppm with one decimal. Every number is checked against a plain computation of the CSV
 // in this file (means and least-squares slopes), never through DuckDB, and the decade rates
 // against NOAA's published Mauna Loa growth rates.
-import { readFileSync } from 'node:fs';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import type { TrendSeasonalityFinding, TrendSummaryFinding, TrendTestFinding } from '../../../analysis/findings/segments.js';
+import { renderChartWithGeometry } from '../../../analysis/charts/render.js';
+import type { SeasonalProfileSpec } from '../../../analysis/charts/spec.js';
 import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import type { SubQuestion } from '../../../analysis/types.js';
 import type { TemplateName } from '../../../analysis/sub-questions/registry.js';
@@ -42,14 +44,16 @@ interface Reading {
   year: number;
   month: number;
   co2: number;
+  /** NOAA's own seasonally adjusted value, shipped beside the reading. */
+  adjusted: number;
 }
 const readings: Reading[] = readFileSync(CSV, 'utf8')
   .trim()
   .split('\n')
   .slice(1)
   .map((line) => {
-    const [date, co2] = line.split(',');
-    return { date: date!, year: Number(date!.slice(0, 4)), month: Number(date!.slice(5, 7)), co2: Number(co2) };
+    const [date, co2, adjusted] = line.split(',');
+    return { date: date!, year: Number(date!.slice(0, 4)), month: Number(date!.slice(5, 7)), co2: Number(co2), adjusted: Number(adjusted) };
   });
 
 /** Ordinary least squares slope of y on x. */
@@ -127,5 +131,38 @@ describe('a level (Mauna Loa CO2) is stated in its own units', () => {
     expect(shown.caption).toContain(`+${t.byDecade[0]!.perYear.toFixed(1)}\u00a0ppm in the 1960s`);
     expect(shown.caption).toContain(`+${t.byDecade[5]!.perYear.toFixed(1)}\u00a0ppm in the 2010s`);
     expect(shown.caption).not.toMatch(/%/);
+  });
+
+  it('the seasonal pattern is a swing in ppm around the yearly mean, as NOAA’s own adjustment has it, drawn around zero', async () => {
+    const { answer, shown } = await present(question('trend_seasonality'));
+    const s = answer.findings.find((f): f is TrendSeasonalityFinding => f.type === 'trend_seasonality')!;
+    expect(s.model).toBe('additive');
+    // Independent: NOAA's seasonal cycle is the reading less its seasonally adjusted value (both
+    // columns of the CSV); its mean per calendar month is the cycle our decomposition should find.
+    for (let month = 1; month <= 12; month++) {
+      const rows = readings.filter((r) => r.month === month);
+      const noaa = rows.reduce((a, r) => a + (r.co2 - r.adjusted), 0) / rows.length;
+      expect(Math.abs(s.months[month - 1]!.index - noaa)).toBeLessThan(0.35);
+    }
+    expect(s.months.reduce((a, m) => a + m.index, 0)).toBeCloseTo(0, 9);
+    // May is the highest month and September or October the lowest at Mauna Loa (NOAA's record).
+    expect(s.busiest[0]).toBe(5);
+    expect([9, 10]).toContain(s.quietest[0]);
+    const may = s.months[4]!.index;
+    expect(shown.caption).toContain(`runs +${may.toFixed(1)}\u00a0ppm above the yearly mean in May`);
+    expect(shown.caption).not.toMatch(/index|%/);
+    const spec = shown.chart as SeasonalProfileSpec;
+    expect(spec.reference).toBe(0);
+    expect(spec.units?.axisTitle).toBe('Difference from the yearly mean (ppm)');
+    expect(spec.months[4]!.text).toBe(`+${may.toFixed(1)}\u00a0ppm`);
+    // Drawn around zero: months above the mean end above the reference line, those below beneath it.
+    const { png, geometry } = await renderChartWithGeometry(spec);
+    if (process.env.TC_CHART_DIR) writeFileSync(join(process.env.TC_CHART_DIR, 'co2-seasonal.png'), png);
+    const ref = geometry.lines.find((l) => l.role === 'reference')!;
+    s.months.forEach((m, k) => {
+      const y = geometry.points[k]!.y;
+      if (m.index > 0.05) expect(y).toBeLessThan(ref.y1);
+      if (m.index < -0.05) expect(y).toBeGreaterThan(ref.y1);
+    });
   });
 });
