@@ -5,13 +5,14 @@
 // to see that the config reads the table as they meant.
 import { expressionColumns } from '../../config/expression.js';
 import type { ConfigProblem, LoadedConfig } from '../../config/load.js';
-import type { DatasetConfig, Metric } from '../../config/schema.js';
+import type { DatasetConfig, Dimension, Metric } from '../../config/schema.js';
 import { metricKind } from '../catalog.js';
 import { datasetRelation } from '../compile-context.js';
 import type { StampGranularity } from '../stamps.js';
 import { metricAggregate } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { ResultColumn } from '../types.js';
+import type { DimensionValues } from '../values/value-index.js';
 import { openSource, openWorkspace, type Workspace } from '../workspace.js';
 import type { Secrets } from '../../config/environment.js';
 import { SourceError, type DataSource, type TableColumn } from './data-source.js';
@@ -245,6 +246,7 @@ LIMIT 6`),
       note(['dimensions', i], `dimension ${d.name} has ${values.toLocaleString('en')} values in the first ${SAMPLE_ROWS.toLocaleString('en')} rows: a breakdown shows a few and folds the rest; is it an identifier?`);
     }
     if (values === 1) note(['dimensions', i], `dimension ${d.name} has one value only: a breakdown by it shows nothing`);
+    checkValueNames(d, ws.values.get(d.name), (message) => problem(['dimensions', i, 'value_names'], message), (message) => note(['dimensions', i, 'value_names'], message));
   }
   return {
     name: ds.name,
@@ -257,6 +259,40 @@ LIMIT 6`),
     metrics: ds.metrics.map((m) => ({ name: m.name, kind: metricKind(ds, m), definition: describeDefinition(m) })),
     dimensions,
   };
+}
+
+/**
+ * A dimension's other names for its values must name values the data holds (a mistyped "APPL" would
+ * never match), and one name must not stand for two values. Past the value index's cap a value may
+ * exist unread, so an unknown one is only a note there.
+ */
+function checkValueNames(d: Dimension, index: DimensionValues | undefined, problem: (message: string) => void, note: (message: string) => void): void {
+  if (!d.value_names) return;
+  if (d.personal_data) {
+    problem(`dimension ${d.name} is personal data, so its values are never read from a request: remove value_names`);
+    return;
+  }
+  if (!index) {
+    note(`the values of dimension ${d.name} are not read from requests (it is a comparison group's column), so value_names is not used`);
+    return;
+  }
+  const known = new Set(index.values.map((v) => v.value) ?? []);
+  const owners = new Map<string, string[]>();
+  for (const [value, names] of Object.entries(d.value_names)) {
+    if (!known.has(value)) {
+      const some = [...known].slice(0, 8).join(', ');
+      const message = `value_names names ${value}, which is not a value of ${d.column}${some ? ` (it has: ${some}${known.size > 8 ? ', …' : ''})` : ''}`;
+      if (!index.complete) note(`${message} in the values read`);
+      else problem(message);
+    }
+    for (const n of names) {
+      const key = n.trim().toLowerCase();
+      owners.set(key, [...(owners.get(key) ?? []), value]);
+    }
+  }
+  for (const [name, values] of owners) {
+    if (values.length > 1) problem(`value_names gives "${name}" to ${values.join(' and ')}: a request saying it could mean either`);
+  }
 }
 
 function keySteps(key: string): (string | number)[] {

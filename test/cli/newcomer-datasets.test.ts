@@ -1,0 +1,81 @@
+// A newcomer's first run on two public datasets the project never tuned to, from the npm package
+// vega-datasets: stocks.csv (monthly closing prices of five US companies, 2000–2010, symbol/date/price
+// with text dates "Jan 1 2000") and unemployment-across-industries.json (US BLS monthly unemployed
+// count, in thousands, and rate, in percent points, for 14 industries, 2000–2010).
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { tmpdir } from 'node:os';
+import { dirname, join } from 'node:path';
+import { afterEach, describe, expect, it, vi } from 'vitest';
+import { main } from '../../cli/main.js';
+import { readBrief } from '../../cli/read.js';
+
+const data = join(dirname(dirname(createRequire(import.meta.url).resolve('vega-datasets'))), 'data');
+const stocksCsv = join(data, 'stocks.csv');
+afterEach(() => vi.restoreAllMocks());
+
+async function run(args: string[]): Promise<{ code: number; out: string; err: string }> {
+  let out = '';
+  let err = '';
+  vi.spyOn(process.stdout, 'write').mockImplementation((s) => ((out += String(s)), true));
+  vi.spyOn(process.stderr, 'write').mockImplementation((s) => ((err += String(s)), true));
+  const code = await main(args);
+  vi.restoreAllMocks();
+  return { code, out, err };
+}
+
+function stocksConfig(valueNames: string): string {
+  const file = join(mkdtempSync(join(tmpdir(), 'tc-newcomer-')), 'stocks.yaml');
+  writeFileSync(
+    file,
+    `version: 1
+datasets:
+  - name: stocks
+    label: Stocks
+    source: { kind: csv, path: "${stocksCsv}" }
+    # The year and month of "Jan 1 2000" (every date in the file is the 1st of a month).
+    time_column: { expr: "make_date(cast(substr(date, length(date) - 3, 4) as integer), case substr(date, 1, 3) when 'Jan' then 1 when 'Feb' then 2 when 'Mar' then 3 when 'Apr' then 4 when 'May' then 5 when 'Jun' then 6 when 'Jul' then 7 when 'Aug' then 8 when 'Sep' then 9 when 'Oct' then 10 when 'Nov' then 11 when 'Dec' then 12 end, 1)" }
+    timezone: UTC
+    metrics:
+      - { name: price, label: Share price, also_called: [stock price], average: price, unit: currency, currency: USD, higher_is_better: true, kind: level }
+    dimensions:
+      - name: symbol
+        label: Company
+        also_called: [ticker, company]
+        column: symbol
+${valueNames}`,
+  );
+  return file;
+}
+
+describe('other names for a dimension\'s values (stocks.csv)', () => {
+  // The file's five symbols are MSFT, AMZN, IBM, GOOG and AAPL (vega-datasets stocks.csv).
+  const names = `        value_names:
+          AAPL: [Apple]
+          AMZN: [Amazon]
+          MSFT: [Microsoft]
+`;
+
+  it('reads "Apple\'s share price" as symbol = AAPL', async () => {
+    const brief = await readBrief({ configFile: stocksConfig(names), text: "Could you take a look at how Apple's share price did over the years?", now: new Date('2026-12-05T00:00:00Z') });
+    const filters = JSON.stringify(brief);
+    expect(filters).toContain('"dimension":"symbol"');
+    expect(filters).toMatch(/"values":\["AAPL"\]/);
+  });
+
+  it('check passes a config whose names name real values', async () => {
+    const r = await run(['check', '--config', stocksConfig(names)]);
+    expect(r.code).toBe(0);
+    expect(r.out).toMatch(/symbol: 5 values/);
+  });
+
+  it('check names a value the data does not hold, and a name given to two values', async () => {
+    const r = await run(['check', '--config', stocksConfig(`        value_names:
+          APPL: [Apple]
+          MSFT: [Microsoft, Apple]
+`)]);
+    expect(r.code).toBe(2);
+    expect(r.out).toMatch(/datasets\[0\]\.dimensions\[0\]\.value_names: value_names names APPL, which is not a value of symbol \(it has: .*AAPL/);
+    expect(r.out).toMatch(/value_names gives "apple" to APPL and MSFT/);
+  });
+});
