@@ -67,6 +67,11 @@ export function periodsBetween(from: string, end: string, grain: Grain): string[
   return out;
 }
 
+/** Days in a calendar month (1 = January): 28 or 29 for February by the Gregorian leap rule. */
+export function daysInMonth(year: number, month: number): number {
+  return new Date(Date.UTC(year, month, 0)).getUTCDate();
+}
+
 /** A date as a time in years, for slopes per year: 1960-07-01 → 1960.497 (its day within its own year's length). */
 export function yearFraction(iso: string): number {
   const d = parseIsoDate(iso);

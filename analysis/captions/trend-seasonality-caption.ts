@@ -1,13 +1,14 @@
 // Title and caption for the seasonal pattern (monthly indices and weekdays), from findings only.
 import type { Metric } from '../../config/schema.js';
-import type { CalendarMonthPattern, TrendSeasonalityFinding, TrendWeekdayFinding } from '../findings/segments.js';
+import type { CalendarMonthPattern, MonthTotalsPerDay, TrendSeasonalityFinding, TrendWeekdayFinding } from '../findings/segments.js';
 import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import type { Audience, Finding } from '../types.js';
 import { listJoin } from './grammar.js';
 import type { Words } from './trend-test-caption.js';
 import { formatIndex, formatRelativeSize, grainNoun, lowerLabel, monthName, monthPair, weekdayName } from './trend-words.js';
 
-export function seasonalityWords(metric: Metric, additive: boolean, findings: readonly Finding[], audience: Audience, locale: string): Words {
+/** `perDayAsked`: the request compared months per day ("which months have the most bookings per day"), so the title ranks them so. */
+export function seasonalityWords(metric: Metric, additive: boolean, findings: readonly Finding[], audience: Audience, locale: string, perDayAsked = false): Words {
   const s = findings.find((f): f is TrendSeasonalityFinding => f.type === 'trend_seasonality' && f.metric === metric.name);
   const w = findings.find((f): f is TrendWeekdayFinding => f.type === 'trend_weekday' && f.metric === metric.name);
   const weekday = w ? weekdaySentence(w, additive, audience, locale) : '';
@@ -25,7 +26,9 @@ export function seasonalityWords(metric: Metric, additive: boolean, findings: re
   const years = s.fullYears.length;
   const together = Math.min(byMonth(b0).topTwoIn, byMonth(b1).topTwoIn);
   const held = years > 0 ? ` (top two in ${together} of ${years} full ${years === 1 ? 'year' : 'years'})` : '';
-  const title = additive
+  const title = perDayAsked && s.perDay
+    ? `Per day, ${monthPair(s.perDay.byDay[0]!, s.perDay.byDay[1]!, locale)} are the busiest months; by total, ${monthPair(b0, b1, locale)}`
+    : additive
     ? `${monthPair(b0, b1, locale)} are the busiest months${held}`
     : `${metric.label} is highest in ${monthPair(b0, b1, locale)}${held}`;
 
@@ -68,7 +71,32 @@ export function seasonalityWords(metric: Metric, additive: boolean, findings: re
     };
     caption = `${monthPair(b0, b1, locale)} are ${band(b0, b1, 'an average month')} for ${noun}; ${monthPair(q0, q1, locale)} ${band(q0, q1, '')}.`;
   }
-  return { title, caption: weekday ? `${caption} ${weekday}` : caption };
+  const perDay = s.perDay ? ` ${perDaySentence(metric, s.perDay, locale)}` : '';
+  return { title, caption: `${caption}${perDay}${weekday ? ` ${weekday}` : ''}` };
+}
+
+/**
+ * Month-of-year totals rank months by their length as much as by their pace; per day they can
+ * swap. Names the busiest and quietest per day and every month that moves up per day, with the
+ * months it passes.
+ */
+export function perDaySentence(metric: Metric, p: MonthTotalsPerDay, locale: string): string {
+  const fmt = valueFormatOf(metric, locale);
+  const name = (m: number) => monthName(m, locale);
+  // Whole units once a day's figure is in the hundreds: "11,999 a day", not "11,999.09".
+  const perDay = (m: number) => {
+    const v = p.perDay[m - 1]!;
+    return `${formatValue(v, fmt.decimals === undefined && Math.abs(v) >= 100 ? { ...fmt, decimals: 0 } : fmt)} a day`;
+  };
+  const [top, bottom] = [p.byDay[0]!, p.byDay[p.byDay.length - 1]!];
+  const lead = `Per day (months differ in length), the busiest month is ${name(top)} (${perDay(top)}) and the quietest ${name(bottom)} (${perDay(bottom)})`;
+  if (p.swaps.length === 0) return `${lead}, the same order as by total.`;
+  const passes = new Map<number, number[]>();
+  for (const [up, down] of p.swaps) passes.set(up, [...(passes.get(up) ?? []), down]);
+  const moves = [...passes].sort((a, b) => b[1].length - a[1].length || p.byDay.indexOf(a[0]) - p.byDay.indexOf(b[0]));
+  const shown = moves.slice(0, 3).map(([up, downs], i) => `${name(up)} ${i === 0 ? 'moves ' : ''}above ${listJoin(downs.sort((a, b) => a - b).map(name))}`);
+  const more = moves.length > 3 ? `; ${moves.length - 3} more ${moves.length - 3 === 1 ? 'month moves' : 'months move'} up` : '';
+  return `${lead}; against the order by total, ${shown.join('; ')}${more}.`;
 }
 
 /**

@@ -74,6 +74,23 @@ export interface TrendSeasonalityFinding {
   /** The two months with the highest and the two with the lowest index, highest (or lowest) first. */
   busiest: [number, number];
   quietest: [number, number];
+  /**
+   * A flow's months by total and by the day (months differ in length: February has 28 or 29
+   * days), over the full calendar years; absent for levels and ratios, or without a full year.
+   */
+  perDay?: MonthTotalsPerDay;
+}
+
+export interface MonthTotalsPerDay {
+  /** Mean total of each calendar month over the full years, January first. */
+  totals: number[];
+  /** Each calendar month's total over the full years divided by its days in them, January first. */
+  perDay: number[];
+  /** Months in order by total and by the day, highest first. */
+  byTotal: number[];
+  byDay: number[];
+  /** Pairs [a, b]: a is above b per day but below it by total. */
+  swaps: [number, number][];
 }
 
 export interface WeekdayValue {

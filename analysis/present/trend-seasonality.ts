@@ -14,7 +14,7 @@ export const presentTrendSeasonality: Presenter = (answer, ctx) => {
   const sq = answer.subQuestion;
   const metric = metricByName(ctx.dataset, sq.metrics[0]!);
   const additive = isAdditive(metric);
-  const words = seasonalityWords(metric, additive, answer.findings, ctx.audience, ctx.locale);
+  const words = seasonalityWords(metric, additive, answer.findings, ctx.audience, ctx.locale, sq.perDay === true);
   const s = answer.findings.find((f): f is TrendSeasonalityFinding => f.type === 'trend_seasonality' && f.metric === metric.name);
   const w = answer.findings.find((f): f is TrendWeekdayFinding => f.type === 'trend_weekday' && f.metric === metric.name);
   // The profile is monthly whatever grain was asked for, so the subtitle says "monthly".

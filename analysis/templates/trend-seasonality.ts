@@ -1,11 +1,11 @@
 // Template "trend_seasonality": the calendar pattern of a metric. Monthly series → classical
 // seasonal indices (period 12; multiplicative, or additive in units for a level), the busiest and quietest months and in how many
 // full years each held, plus the day-of-week pattern from a second grouped query.
-import { isAdditive, metricByName, seasonalModel } from '../catalog.js';
+import { isAdditive, metricByName, quantityKind, seasonalModel } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
-import type { CalendarMonthPattern, TrendSeasonalityFinding, WeekdayValue } from '../findings/segments.js';
-import { parseIsoDate } from '../periods.js';
+import type { CalendarMonthPattern, MonthTotalsPerDay, TrendSeasonalityFinding, WeekdayValue } from '../findings/segments.js';
+import { daysInMonth, parseIsoDate } from '../periods.js';
 import { seasonalIndices, type SeasonalModel } from '../stats/index.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
@@ -63,7 +63,7 @@ export function readSeasonality(sq: SubQuestion, monthly: ResultTable, weekday: 
 
   const points = completeSpan(series.points);
   if (points.length > 0) {
-    const seasonal = seasonalityOf(metricName, points, seasonalModel(metric));
+    const seasonal = seasonalityOf(metricName, points, seasonalModel(metric), isAdditive(metric) && quantityKind(metric) === 'flow');
     if (seasonal.kind === 'ok') findings.push(seasonal.finding);
     else caveats.push(seasonal.caveat);
   } else if (!caveats.some((c) => c.code === 'all_null' || c.code === 'single_period')) {
@@ -89,7 +89,7 @@ function completeSpan(points: readonly PeriodPoint[]): PeriodPoint[] {
 
 type SeasonalOutcome = { kind: 'ok'; finding: TrendSeasonalityFinding } | { kind: 'caveat'; caveat: Caveat };
 
-function seasonalityOf(metric: string, points: readonly PeriodPoint[], model: SeasonalModel): SeasonalOutcome {
+function seasonalityOf(metric: string, points: readonly PeriodPoint[], model: SeasonalModel, flow: boolean): SeasonalOutcome {
   const result = seasonalIndices(points.map((p) => ({ season: isoMonth(p.period), value: p.value })), PERIOD, model);
   if (result.kind === 'too_few_cycles') {
     return { kind: 'caveat', caveat: { code: 'too_few_cycles', data: { metric, fullCycles: result.fullCycles, required: result.required, months: result.points } } };
@@ -153,8 +153,35 @@ function seasonalityOf(metric: string, points: readonly PeriodPoint[], model: Se
       rangeToYear: rangeYears[rangeYears.length - 1] ?? null,
       busiest: [byIndex[0]!, byIndex[1]!],
       quietest: [byIndex[PERIOD - 1]!, byIndex[PERIOD - 2]!],
+      ...(flow && fullYears.size > 0 ? { perDay: totalsPerDay(fullYears) } : {}),
     },
   };
+}
+
+/**
+ * Month-of-year totals against per-day averages over the full years: a 31-day month can lead on
+ * totals and trail per day. Ties keep calendar order, so no pair swaps on a tie.
+ */
+export function totalsPerDay(fullYears: ReadonlyMap<number, readonly number[]>): MonthTotalsPerDay {
+  const totals = new Array<number>(PERIOD).fill(0);
+  const days = new Array<number>(PERIOD).fill(0);
+  for (const [year, values] of fullYears) {
+    values.forEach((v, k) => {
+      totals[k]! += v;
+      days[k]! += daysInMonth(year, k + 1);
+    });
+  }
+  const perDay = totals.map((t, k) => t / days[k]!);
+  const meanTotals = totals.map((t) => t / fullYears.size);
+  const order = (values: number[]) => values.map((v, k) => ({ v, m: k + 1 })).sort((a, b) => b.v - a.v || a.m - b.m).map((x) => x.m);
+  const byTotal = order(meanTotals);
+  const byDay = order(perDay);
+  const rankByDay = new Map(byDay.map((m, i) => [m, i]));
+  const swaps: [number, number][] = [];
+  byTotal.forEach((above, i) => {
+    for (const below of byTotal.slice(i + 1)) if (rankByDay.get(below)! < rankByDay.get(above)!) swaps.push([below, above]);
+  });
+  return { totals: meanTotals, perDay, byTotal, byDay, swaps };
 }
 
 /** Calendar years whose twelve months are all complete and present, with their values January first. */

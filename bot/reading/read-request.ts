@@ -475,7 +475,7 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
     frequency: FREQUENCY.test(clause.text) && (group !== undefined || /\bcustomers?\b|\busers?\b|\bmembers?\b|\bclients?\b|\bpeople\b/.test(t)),
     pronoun: /\b(?:it|its|that|this|they|them|their|those|these|same|either|both)\b/.test(t.replace(/\b(?:this|that)\s+(?:year|month|week|quarter|summer|winter|spring|autumn|season|time)\b/g, '')) && metrics.length === 0,
     refines: REFINES_PREVIOUS.test(clause.text) && metrics.length === 0 && !group,
-    perDay: /\b(?:per|a|each)\s+day\b|\bdaily\s+(?:average|rate|mean)\b|\bper-day\b/.test(t) && GRAINS.some((g) => g !== 'day' && new RegExp(`\\b(?:${GRAIN_WORDS[g].adjective}|by ${g}|per ${g}|each ${g}|${g} by ${g})\\b`).test(t)),
+    perDay: /\b(?:per|a|each)\s+day\b|\bdaily\s+(?:average|rate|mean)\b|\bper-day\b/.test(t) && (new RegExp(CALENDAR_MONTHS.source, 'u').test(t) || GRAINS.some((g) => g !== 'day' && new RegExp(`\\b(?:${GRAIN_WORDS[g].adjective}|by ${g}|per ${g}|each ${g}|${g} by ${g})\\b`).test(t))),
     table: /\b(?:the\s+)?(?:numbers|figures|kpis|metrics|stats)\s+(?:by|per|for each|each)\s+(?:month|week|quarter|day|year)\b|\bside\s+by\s+side\b|\b(?:as\s+a|in\s+a|one)\s+table\b|\bmonthly\s+table\b|\btable\s+of\b/.test(t),
     refersBack: /^\s*(?:and\s+|also\s+|second(?:ly)?,?\s+|then\s+)?(?:how\s+(?:does|do|did)\s+(?:that|it|this|they|those)\s+compare|(?:is|was|were|are)\s+(?:it|that|this|they)\b|which\s+\w+\s+(?:drove|took|caused|explain))/.test(t),
     context: false,
@@ -789,6 +789,9 @@ function refersToLaunch(text: string): boolean {
 // ---------------------------------------------------------------------------------------------
 // Grain, audience, business words, personal values
 
+/** Months of the year named as the things compared ("which months", "time of year"). */
+const CALENDAR_MONTHS = /(?<![\p{L}])(?:months|which\s+month|month\s+of\s+(?:the\s+)?year|time\s+of\s+(?:the\s+)?year|seasonal(?:ity)?)(?![\p{L}])/gu;
+
 function readGrain(text: RequestText): { grain: Grain; words: string; how: 'stated' | 'inferred'; spans: Span[] } | undefined {
   const found: { grain: Grain; span: Span; how: 'stated' | 'inferred' }[] = [];
   for (const g of GRAINS) {
@@ -806,6 +809,10 @@ function readGrain(text: RequestText): { grain: Grain; words: string; how: 'stat
     }
   }
   const perDayAlone = [...text.matches(/(?<![\p{L}])(?:per|a|each)\s+day(?![\p{L}])/gu)];
+  // "which months have the most bookings per day": months of the year compared per day, on a
+  // monthly plan; a daily one would answer a different question (and note every unusual day).
+  const months = [...text.matches(CALENDAR_MONTHS)];
+  if (found.length === 0 && perDayAlone.length > 0 && months.length > 0) found.push({ grain: 'month', span: months[0]!.span, how: 'stated' });
   if (found.length === 0 && perDayAlone.length > 0) found.push({ grain: 'day', span: perDayAlone[0]!.span, how: 'stated' });
   if (found.length === 0) return undefined;
   found.sort((a, b) => (a.how === b.how ? a.span.start - b.span.start : a.how === 'stated' ? -1 : 1));

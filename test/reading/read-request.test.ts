@@ -171,6 +171,19 @@ describe('periods', () => {
   });
 });
 
+describe('per day', () => {
+  it('compares months of the year per day on a monthly plan, never a daily one', () => {
+    for (const text of ['Which months have the most bookings per day?', 'Which month of the year is busiest for bookings per day?']) {
+      const b = read(text);
+      expect(b.grain).toBe('month');
+      expect(b.questions[0]!.perDay).toBe(true);
+    }
+    expect(read('bookings per day by month').grain).toBe('month');
+    // "per day" alone, with no months compared, is still the daily grain.
+    expect(read('How many bookings per day?').grain).toBe('day');
+  });
+});
+
 describe('grain, audience, deadline', () => {
   it('reads grain, audience and a relative deadline', () => {
     const b = read('For the leadership offsite: monthly revenue trend, needed by the 15th', new Date('2026-12-01T10:00:00Z'));
