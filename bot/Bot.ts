@@ -91,6 +91,7 @@ export class Bot {
       ...(deps.onJobStart ? { onJobStart: deps.onJobStart } : {}),
       ...(deps.queue ? { queue: deps.queue } : {}),
       log: deps.log ?? ((line) => process.stderr.write(`${line}\n`)),
+      afterRun: (threadId) => this.conversation.takeHeld(threadId),
     });
     this.conversation = new Conversation({ store: deps.store, datasets, steps, now: deps.now, launch: (state) => this.runs.launch(state) });
   }
@@ -137,6 +138,8 @@ export class Bot {
     const at = new Date(now);
     for (const listed of await this.deps.store.list({ stages: ['done', 'cancelled'] })) {
       if (isDue(listed.schedule, at)) await this.serial.run(listed.threadId, () => this.conversation.runDue(listed.threadId, at));
+      // A process stopped between a run's end and taking up what it held: taken up now.
+      if (listed.held?.length) await this.serial.run(listed.threadId, () => this.conversation.takeHeld(listed.threadId));
     }
   }
 }

@@ -143,6 +143,12 @@ export class Conversation {
         // A scheduled rerun under way can still be asked about or stopped.
         const scheduling = readSchedule(msg.text);
         if (scheduling && scheduling.kind !== 'set') return this.onSchedule(step, state, scheduling);
+        // A follow-up sent before the run ends is kept and taken up when it does (takeHeld), not lost.
+        if (this.followUpOf(state, msg.text)) {
+          state.held = [...(state.held ?? []), msg.text];
+          step.say('note', replies.heldFollowUp(msg.text, state));
+          return state;
+        }
         step.say('note', replies.stillRunning(state));
         return state;
       }
@@ -362,13 +368,10 @@ export class Conversation {
   private onFollowUp(step: Step, state: ThreadState, text: string): ThreadState {
     const scheduling = readSchedule(text);
     if (scheduling) return this.onSchedule(step, state, scheduling);
-    const c = this.correction(state, text);
-    if (c.agree || c.cancel) {
-      step.say('note', replies.finished());
-      return state;
-    }
+    const kind = this.followUpOf(state, text);
     const ws = this.deps.datasets.of(state);
-    if (changesSomething(c) && 'plan' in state && state.plan) {
+    if (kind === 'change' && 'plan' in state && state.plan) {
+      const c = this.correction(state, text);
       const edit = this.edit(step, state, c, text);
       if (!edit) return state;
       const thread = commonOf(state);
@@ -378,8 +381,8 @@ export class Conversation {
       step.say('rerun', replies.followUpRun(edit.changes, edit.problems, replies.planLines(plan, ws.dataset, this.deps.datasets.locale)));
       return this.agreed(step, thread, plan, ('run' in state && state.run ? state.run.number : 0) + 1);
     }
-    const read = this.readBrief(text, ws.dataset);
-    if (read.questions.length > 0 && (read.metrics.length > 0 || read.kinds.length > 0) && c.unread.length === 0) {
+    if (kind === 'question') {
+      const read = this.readBrief(text, ws.dataset);
       const thread = commonOf(state);
       const before = state.brief;
       // What the thread already settled carries over unless the new question says otherwise.
@@ -389,6 +392,29 @@ export class Conversation {
     }
     step.say('note', replies.finished());
     return state;
+  }
+
+  /** What a message after (or during) a run asks: a change to the last run, a new question, or neither. */
+  private followUpOf(state: ThreadState, text: string): 'change' | 'question' | null {
+    const c = this.correction(state, text);
+    if (c.agree || c.cancel) return null;
+    if (changesSomething(c) && 'plan' in state && state.plan) return 'change';
+    const read = this.readBrief(text, this.deps.datasets.of(state).dataset);
+    // A new question names something to measure, break down, filter or date; "thanks!" names nothing (its kind is only a default).
+    const namesSomething = read.metrics.length > 0 || read.questions.some((q) => q.metrics.length > 0 || q.dimensions.length > 0 || q.filters.length > 0 || q.window || q.comparisonGroup);
+    return read.questions.length > 0 && namesSomething && c.unread.length === 0 ? 'question' : null;
+  }
+
+  /** A finished run's first held follow-up, taken up as if sent now; the rest wait for the run it starts. */
+  async takeHeld(threadId: string): Promise<void> {
+    const state = await this.deps.store.get(threadId);
+    if (!state || state.stage !== 'done' || !state.held?.length) return;
+    const [text, ...rest] = state.held;
+    const step = new Step(this.deps.steps, whoOf(state), state);
+    if (rest.length > 0) state.held = rest;
+    else delete state.held;
+    step.say('note', replies.takingUpHeld(text!));
+    await step.commit(this.onFollowUp(step, state, text!));
   }
 
   /** "every Monday at 9", "stop the schedule", "when does it run?" on a finished thread. */
@@ -472,6 +498,8 @@ function cancelledFrom(state: ThreadState): CancelledState {
     ...('run' in state && state.run ? { run: state.run } : {}),
   });
   delete cancelled.waitingSince;
+  // Follow-ups held for the run's end go with it.
+  delete cancelled.held;
   return cancelled;
 }
 

@@ -40,6 +40,8 @@ export interface RunDeps {
   onJobStart?: (threadId: string, sq: SubQuestion) => void;
   queue?: RunQueue;
   log: (line: string) => void;
+  /** Called with the thread's work serialised once a run has finished: follow-ups held during it are taken up. */
+  afterRun?: (threadId: string) => Promise<void>;
 }
 
 /** A sub-question's outcome: its post, or why it failed. */
@@ -92,12 +94,18 @@ export class RunOrchestrator {
 
   private start(state: RunningState): void {
     if (this.runs.has(state.threadId)) return;
-    const run = this.runPlan(state)
-      .catch(async (err: unknown) => {
+    const run = (async () => {
+      try {
+        await this.runPlan(state);
+      } catch (err) {
         await this.reportStopped(state, err);
         throw err;
-      })
-      .finally(() => this.runs.delete(state.threadId));
+      } finally {
+        this.runs.delete(state.threadId);
+      }
+      // Out of the map first, so a follow-up it held can start the thread's next run; idle() waits for that too.
+      if (this.deps.afterRun && !this.stopping) await this.deps.serial.run(state.threadId, () => this.deps.afterRun!(state.threadId));
+    })();
     this.runs.set(state.threadId, run);
     // Failures are logged and said in the thread, and surface through idle(); the thread keeps its state so the run can resume.
     run.catch(() => undefined);

@@ -215,6 +215,16 @@ function problemText(err: unknown): string {
       : `an unexpected error (${err instanceof Error ? err.message : String(err)}).`;
 }
 
+/** A follow-up sent during a run, kept for its end. */
+export function heldFollowUp(text: string, state: RunningState): string {
+  return `Noted: I'll take up "${clip(text.trim().replace(/\s+/g, ' '), 80)}" when this run finishes (${state.run.posted.length} of ${state.plan.items.length} done). Say "cancel" to stop the run instead.`;
+}
+
+/** The run finished: the follow-up it held is taken up now. */
+export function takingUpHeld(text: string): string {
+  return `Now taking up what you asked during the run: "${clip(text.trim().replace(/\s+/g, ' '), 80)}".`;
+}
+
 export function stillRunning(state: RunningState): string {
   return `Still working on it (${state.run.posted.length} of ${state.plan.items.length} done); answers will appear here. Say "cancel" to stop.`;
 }

@@ -55,6 +55,8 @@ export interface ThreadCommon {
   dropped?: string[];
   /** Reruns on a schedule the requester set on the finished thread (bot/rerun-schedule.ts). */
   schedule?: RerunSchedule;
+  /** Follow-ups sent while a run was under way ("rerun it quarterly"): taken up in order once it finishes. */
+  held?: string[];
   updatedAt: string;
 }
 
@@ -118,6 +120,7 @@ const COMMON_FIELDS = {
   deadlineWarned: true,
   dropped: true,
   schedule: true,
+  held: true,
   updatedAt: true,
 } satisfies Record<keyof ThreadCommon, true>;
 
