@@ -6,6 +6,7 @@
 // unknown functions, ...) is refused with a message. SQL is written back from our tree only
 // (analysis/sql/expression-sql.ts), never from the text, so what runs is what was checked.
 import { parse, type Expr as PgExpr } from 'pgsql-ast-parser';
+import { parseDateFormat } from './date-format.js';
 
 export type Expr =
   | { type: 'column'; name: string }
@@ -50,10 +51,12 @@ export const EXPRESSION_FUNCTIONS = {
   day: [1, 1],
   isodow: [1, 1],
   make_date: [3, 3],
+  // A date read from text by a format of C strptime codes (config/date-format.ts).
+  strptime: [2, 2],
 } as const satisfies Record<string, readonly [number, number]>;
 export type FunctionName = keyof typeof EXPRESSION_FUNCTIONS;
 
-const FUNCTION_ALIASES: Record<string, FunctionName> = { ceiling: 'ceil', pow: 'power', substring: 'substr', dayofmonth: 'day' };
+const FUNCTION_ALIASES: Record<string, FunctionName> = { ceiling: 'ceil', pow: 'power', substring: 'substr', dayofmonth: 'day', try_strptime: 'strptime' };
 
 const CAST_TYPES: Record<string, CastType> = {
   int: 'integer',
@@ -180,7 +183,14 @@ function convert(node: PgExpr, text: string, depth: number): Expr {
       if (n.args.length < min || n.args.length > max) {
         throw new ExpressionError(`calls ${fn} with ${n.args.length} argument${n.args.length === 1 ? '' : 's'} (it takes ${min === max ? min : `${min} to ${max}`})`);
       }
-      return { type: 'call', fn, args: n.args.map(sub) };
+      const args = n.args.map(sub);
+      if (fn === 'strptime') {
+        const format = args[1]!;
+        if (format.type !== 'string') throw new ExpressionError(`calls strptime with a format that is not a quoted text ('%b %d %Y')`);
+        const parsed = parseDateFormat(format.value);
+        if (typeof parsed === 'string') throw new ExpressionError(parsed);
+      }
+      return { type: 'call', fn, args };
     }
     default:
       throw new ExpressionError(`uses ${describeNode(n.type)}, which is not allowed in an expression`);

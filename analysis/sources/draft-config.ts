@@ -4,6 +4,7 @@
 // average per numeric column with its kind of quantity, a rate per true/false column, dimensions
 // for low-cardinality text, and personal data (emails, phone numbers, names) marked so. Every
 // guess is written where the user reviews it; `also_called` is left for them to fill in.
+import { textDateFormatsOf } from '../../config/date-format.js';
 import type { SourceConfig } from '../../config/schema.js';
 import { quoteIdentifier } from '../sql/dialect.js';
 import type { DataSource, TableColumn } from './data-source.js';
@@ -90,6 +91,16 @@ function labelOf(column: string): string {
   return words.charAt(0).toUpperCase() + words.slice(1);
 }
 
+/** A text column whose examples all read as dates in one common format (preferring a name that says so). */
+function textDateColumn(columns: ColumnProfile[]): { column: ColumnProfile; format: string; others: string[] } | undefined {
+  const found = columns
+    .filter((c) => c.family === 'text' && c.examples.length > 0 && c.nonNull > 0)
+    .map((c) => ({ column: c, formats: textDateFormatsOf(c.examples) }))
+    .filter((x) => x.formats.length > 0);
+  const pick = found.find((x) => TIME_WORDS.test(catalogNameOf(x.column.name))) ?? found[0];
+  return pick ? { column: pick.column, format: pick.formats[0]!, others: pick.formats.slice(1) } : undefined;
+}
+
 export interface Draft {
   config: Record<string, unknown>;
   /** What was guessed, for the person running init. */
@@ -118,9 +129,15 @@ export function draftConfig(input: DraftInput): Draft {
   const year = byRole(YEAR);
   const month = byRole(MONTH);
   const day = byRole(DAY);
+  // Failing those, text that reads as dates in one of the common formats ("Jan 1 2000", "31/12/2024").
+  const textDate = time || year ? undefined : textDateColumn(input.columns);
   let timeColumn: unknown;
   const timeParts = new Set<string>();
-  if (time) {
+  if (textDate) {
+    timeColumn = { expr: `strptime(${columnExpr(textDate.column.name)}, '${textDate.format}')` };
+    timeParts.add(textDate.column.name);
+    notes.push(`time column: ${textDate.column.name}, text dates read as ${textDate.format}${textDate.others.length ? ` (they also fit ${textDate.others.join(', ')}: check which the data means)` : ''}`);
+  } else if (time) {
     timeColumn = time.name;
     notes.push(`time column: ${time.name}`);
   } else if (year) {

@@ -4,6 +4,7 @@
 // same expression gives the same values on DuckDB and PostgreSQL.
 import type { CastType, Expr } from '../../config/expression.js';
 import type { Dialect } from './dialect.js';
+import { dateFormatPattern, parseDateFormat, postgresDateFormat } from '../../config/date-format.js';
 
 const CAST_SQL: Record<Dialect['name'], Record<CastType, string>> = {
   duckdb: { integer: 'BIGINT', double: 'DOUBLE', text: 'VARCHAR', date: 'DATE', timestamp: 'TIMESTAMP', boolean: 'BOOLEAN' },
@@ -64,6 +65,17 @@ function callSql(fn: Extract<Expr, { type: 'call' }>['fn'], args: Expr[], dialec
     case 'isodow':
       // EXTRACT is numeric on PostgreSQL and BIGINT on DuckDB; both become whole numbers.
       return `CAST(EXTRACT(${fn.toUpperCase()} FROM ${a[0]}) AS INTEGER)`;
+    case 'strptime': {
+      // The format was checked at load (config/expression.ts); each engine's spelling is built
+      // from its parsed codes and written as a quoted literal.
+      const format = args[1]!.type === 'string' ? args[1]!.value : '';
+      const parts = parseDateFormat(format);
+      if (typeof parts === 'string') throw new Error(parts);
+      const quote = (t: string) => `'${t.replaceAll("'", "''")}'`;
+      if (dialect.name === 'duckdb') return `try_strptime(CAST(${a[0]} AS VARCHAR), ${quote(format)})`;
+      const text = `CAST(${a[0]} AS TEXT)`;
+      return `(CASE WHEN trim(${text}) ~ ${quote(dateFormatPattern(parts))} THEN CAST(to_timestamp(trim(${text}), ${quote(postgresDateFormat(parts))}) AS TIMESTAMP) END)`;
+    }
     case 'make_date':
       return `make_date(${a.map(int).join(', ')})`;
     case 'round':

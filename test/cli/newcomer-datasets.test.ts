@@ -2,11 +2,12 @@
 // vega-datasets: stocks.csv (monthly closing prices of five US companies, 2000–2010, symbol/date/price
 // with text dates "Jan 1 2000") and unemployment-across-industries.json (US BLS monthly unemployed
 // count, in thousands, and rate, in percent points, for 14 industries, 2000–2010).
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { afterEach, describe, expect, it, vi } from 'vitest';
+import { parse } from 'yaml';
 import { main } from '../../cli/main.js';
 import { readBrief } from '../../cli/read.js';
 
@@ -33,8 +34,7 @@ datasets:
   - name: stocks
     label: Stocks
     source: { kind: csv, path: "${stocksCsv}" }
-    # The year and month of "Jan 1 2000" (every date in the file is the 1st of a month).
-    time_column: { expr: "make_date(cast(substr(date, length(date) - 3, 4) as integer), case substr(date, 1, 3) when 'Jan' then 1 when 'Feb' then 2 when 'Mar' then 3 when 'Apr' then 4 when 'May' then 5 when 'Jun' then 6 when 'Jul' then 7 when 'Aug' then 8 when 'Sep' then 9 when 'Oct' then 10 when 'Nov' then 11 when 'Dec' then 12 end, 1)" }
+    time_column: { expr: "strptime(date, '%b %d %Y')" }
     timezone: UTC
     metrics:
       - { name: price, label: Share price, also_called: [stock price], average: price, unit: currency, currency: USD, higher_is_better: true, kind: level }
@@ -77,5 +77,20 @@ describe('other names for a dimension\'s values (stocks.csv)', () => {
     expect(r.code).toBe(2);
     expect(r.out).toMatch(/datasets\[0\]\.dimensions\[0\]\.value_names: value_names names APPL, which is not a value of symbol \(it has: .*AAPL/);
     expect(r.out).toMatch(/value_names gives "apple" to APPL and MSFT/);
+  });
+});
+
+describe('init on text dates (stocks.csv)', () => {
+  it('drafts the time column as strptime over the text, which check then reads', async () => {
+    const file = join(mkdtempSync(join(tmpdir(), 'tc-newcomer-init-')), 'stocks.yaml');
+    const r = await run(['init', '--source', stocksCsv, '--out', file]);
+    expect(r.code).toBe(0);
+    expect(r.out).toContain('time column: date, text dates read as %b %d %Y');
+    const ds = (parse(readFileSync(file, 'utf8')) as { datasets: Record<string, unknown>[] }).datasets[0]!;
+    expect(ds.time_column).toEqual({ expr: "strptime(date, '%b %d %Y')" });
+    const check = await run(['check', '--config', file]);
+    expect(check.code).toBe(0);
+    // 560 rows: five symbols, monthly closing prices from January 2000 to March 2010 (vega-datasets).
+    expect(check.out).toMatch(/560 rows, 2000-01-01 to 2010-03-01, stamped monthly/);
   });
 });
