@@ -48,7 +48,7 @@ export function caveatNote(c: Caveat, locale: string): string {
       return `${countOf(d.count, grain, 'en', grain === 'day' ? 'days' : undefined)} are unusual (modified z-score above 3.5); the ${names.length} most extreme: ${listJoin(names)}.`;
     }
     case 'stale_data':
-      return `The latest data is from ${day(d.lastDate)}, ${show(d.days)} days ago.`;
+      return `The latest data is from ${day(d.lastDate)}, ${ageText(d.days)}.`;
     case 'small_sample':
       return `Small sample (n = ${show(d.n)}): read with care.`;
     case 'too_few_cycles':
@@ -106,4 +106,12 @@ export function caveatFlag(c: Caveat): string {
     suppressed_small_groups: 'small groups combined',
   };
   return flags[c.code];
+}
+
+/** How old the data is, as a person would say it: "12 days ago", "about 5 months ago", "about 16 years ago". */
+function ageText(days: unknown): string {
+  if (typeof days !== 'number' || !Number.isFinite(days)) return `${String(days)} days ago`;
+  if (days < 60) return countOf(Math.round(days), 'day') + ' ago';
+  if (days < 730) return `about ${countOf(Math.round(days / 30.44), 'month')} ago`;
+  return `about ${countOf(Math.round(days / 365.25), 'year')} ago`;
 }

@@ -2,6 +2,7 @@
 import { presentGrowthDrivers } from '../present/growth-drivers.js';
 import { growthDriversTemplate } from '../templates/growth-drivers.js';
 import { defineSubQuestion } from './definition.js';
+import { pluralNoun } from '../captions/grammar.js';
 import { longerThanAYear } from './plan-words.js';
 
 export const growthDriversSubQuestion = defineSubQuestion({
@@ -14,6 +15,6 @@ export const growthDriversSubQuestion = defineSubQuestion({
   // A window longer than a year is compared as its last complete year (or 12 months) against the one before: never overlapping.
   describe: (w, sq) =>
     longerThanAYear(sq.window)
-      ? `Which ${w.dim}s drove the change in ${w.metric}: the last complete year in ${w.span} against the one before.`
-      : `Which ${w.dim}s drove the change in ${w.metric}, ${w.span} against ${w.base}.`,
+      ? `Which ${pluralNoun(w.dim)} drove the change in ${w.metric}: the last complete year in ${w.span} against the one before.`
+      : `Which ${pluralNoun(w.dim)} drove the change in ${w.metric}, ${w.span} against ${w.base}.`,
 });

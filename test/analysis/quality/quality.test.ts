@@ -4,6 +4,7 @@ import { createHash } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { CompileContext } from '../../../analysis/compile-context.js';
 import { qualityCaveats, daysSince } from '../../../analysis/quality/quality-caveats.js';
+import { caveatNote } from '../../../analysis/captions/caveat-text.js';
 import { compileQualityChecks, DUPLICATES_QUERY, QUALITY_QUERY, type QualityReport, readQuality } from '../../../analysis/quality/quality-checks.js';
 import { seriesOutliers } from '../../../analysis/quality/series-outliers.js';
 import { duckdbDialect } from '../../../analysis/sql/dialect.js';
@@ -186,6 +187,10 @@ describe('quality checks on the demo', () => {
     const caveats = qualityCaveats(report, ['channel', 'fare_total'], { now: new Date('2026-12-01T12:00:00Z'), staleAfterDays: 30 });
     expect(caveats.map((c) => c.code)).toEqual(['null_share', 'duplicate_keys', 'negative_amounts', 'stale_data']);
     expect(caveats.find((c) => c.code === 'stale_data')!.data).toEqual({ lastDate: '2025-06-18', days: 531 });
+    // Said as a person would: 531 days is about 17 months (531 / 30.44 = 17.4), not "531 days ago".
+    expect(caveatNote(caveats.find((c) => c.code === 'stale_data')!, 'en-IE')).toBe('The latest data is from 18 June 2025, about 17 months ago.');
+    expect(caveatNote({ code: 'stale_data', data: { lastDate: '2010-03-01', days: 6123 } } as never, 'en-IE')).toMatch(/, about 17 years ago\.$/);
+    expect(caveatNote({ code: 'stale_data', data: { lastDate: '2025-06-18', days: 40 } } as never, 'en-IE')).toMatch(/, 40 days ago\.$/);
   });
 
   it('flags the storm month (January 2024) in the monthly refund rate, from the engine and from raw rows alike', () => {

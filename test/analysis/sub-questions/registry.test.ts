@@ -42,6 +42,12 @@ describe('sub-question registry', () => {
       const text = describeSubQuestion(sq, ds, 'en-IE');
       expect(text).toMatch(/^[A-Z].*[.?]$/);
       expect(text).not.toMatch(/undefined|null|NaN|\$\{/);
+      // A breakdown's label in the plural is English, not label + "s" ("companys").
+      const company = { ...ds, dimensions: ds.dimensions.map((d) => (d.name === sq.dimension ? { ...d, label: 'Company' } : d)) };
+      expect(describeSubQuestion(sq, company, 'en-IE')).not.toMatch(/\bcompanys\b/i);
     }
+    const drivers: SubQuestion = { id: 'q1', kind: 'growth', lens: 'breakdown', template: 'growth_drivers', metrics: [ds.metrics[0]!.name], dimension: 'route', grain: 'month', window: { start: '2024-01-01', end: '2025-01-01' }, filters: [] };
+    const industry = { ...ds, dimensions: ds.dimensions.map((d) => (d.name === 'route' ? { ...d, label: 'Industry' } : d)) };
+    expect(describeSubQuestion(drivers, industry, 'en-IE')).toMatch(/^Which industries drove the change/);
   });
 });
