@@ -2,7 +2,7 @@
 // config (analysis/sources/draft-config.ts) for the user to review, then check, then serve.
 import { existsSync, writeFileSync } from 'node:fs';
 import { basename, dirname, extname, isAbsolute, relative, resolve } from 'node:path';
-import { stringify } from 'yaml';
+import { Document, isMap, isSeq } from 'yaml';
 import { SourceError } from '../analysis/sources/data-source.js';
 import { catalogNameOf, draftConfig, profileColumns } from '../analysis/sources/draft-config.js';
 import { DuckDbSource } from '../analysis/sources/duckdb-source.js';
@@ -44,7 +44,7 @@ export async function draftConfigFile(opts: InitOptions): Promise<{ summary: str
       '# keep personal_data on columns that hold people\'s details. Then: threadcount check --config FILE',
       '',
     ].join('\n');
-    writeFileSync(opts.out, `${header}${stringify(draft.config, { lineWidth: 0 })}`);
+    writeFileSync(opts.out, `${header}${withComments(draft.config, draft.comments)}`);
     return { file: opts.out, summary: `Wrote ${opts.out}.\n${draft.notes.map((n) => `  ${n}`).join('\n')}\nNext: review it, then threadcount check --config ${opts.out}\n` };
   } finally {
     await source.close();
@@ -93,4 +93,21 @@ async function onlyTable(path: string, engine: { statement_timeout_ms: number; m
   } finally {
     await probe.close();
   }
+}
+
+/** The draft as YAML, with what init guessed about each metric as a comment above it. */
+function withComments(config: Record<string, unknown>, comments: Record<string, string>): string {
+  const doc = new Document(config);
+  const datasets = doc.get('datasets');
+  if (isSeq(datasets)) {
+    for (const ds of datasets.items) {
+      const metrics = isMap(ds) ? ds.get('metrics') : undefined;
+      if (!isSeq(metrics)) continue;
+      for (const m of metrics.items) {
+        const name = isMap(m) ? m.get('name') : undefined;
+        if (isMap(m) && typeof name === 'string' && comments[name]) m.commentBefore = comments[name];
+      }
+    }
+  }
+  return doc.toString({ lineWidth: 0 });
 }

@@ -25,6 +25,13 @@ export interface ColumnProfile {
   examples: string[];
 }
 
+/** How many distinct (date, breakdown value) pairs the sampled rows hold. */
+export interface DateBreakdownCount {
+  time: string;
+  dimension: string;
+  distinct: number;
+}
+
 export interface DraftInput {
   datasetName: string;
   label: string;
@@ -32,10 +39,12 @@ export interface DraftInput {
   table?: string;
   rows: number;
   columns: ColumnProfile[];
+  /** Distinct (date, breakdown value) pairs: one row per pair makes the numbers readings (levels). */
+  readings?: DateBreakdownCount[];
 }
 
 /** Reads each column's type, distinct and non-empty counts and a few values, over a sample of rows. */
-export async function profileColumns(source: DataSource, table: string): Promise<{ rows: number; columns: ColumnProfile[] }> {
+export async function profileColumns(source: DataSource, table: string): Promise<{ rows: number; columns: ColumnProfile[]; readings: DateBreakdownCount[] }> {
   const described: TableColumn[] = await source.describe(table);
   const q = quoteIdentifier;
   const text = source.dialect.name === 'postgres' ? 'TEXT' : 'VARCHAR';
@@ -46,17 +55,23 @@ export async function profileColumns(source: DataSource, table: string): Promise
   const examples = described.length
     ? (await source.run({ sql: `SELECT ${described.map((c, i) => `CAST(${q(c.name)} AS ${text}) AS e${i}`).join(', ')} FROM ${q(table)} LIMIT 200`, params: [] }, run)).rows
     : [];
-  return {
-    rows: Number(stats.tc_rows ?? 0),
-    columns: described.map((c, i) => ({
-      name: c.name,
-      type: c.type,
-      family: typeFamily(c.type),
-      values: Number(stats[`d${i}`] ?? 0),
-      nonNull: Number(stats[`n${i}`] ?? 0),
-      examples: examples.map((r) => r[`e${i}`]).filter((v): v is string => typeof v === 'string' && v !== '').slice(0, 200),
-    })),
-  };
+  const columns: ColumnProfile[] = described.map((c, i) => ({
+    name: c.name,
+    type: c.type,
+    family: typeFamily(c.type),
+    values: Number(stats[`d${i}`] ?? 0),
+    nonNull: Number(stats[`n${i}`] ?? 0),
+    examples: examples.map((r) => r[`e${i}`]).filter((v): v is string => typeof v === 'string' && v !== '').slice(0, 200),
+  }));
+  // Rows per date and breakdown value: one row each (a reading per industry per month) says the
+  // numbers beside them are readings of a level, not amounts that add up over time.
+  const times = columns.filter((c) => c.family === 'time' || (c.family === 'text' && textDateFormatsOf(c.examples).length > 0));
+  const breakdowns = columns.filter((c) => c.family === 'text' && c.values > 1 && c.values <= DIMENSION_MAX_VALUES && !times.includes(c));
+  const pairs = times.flatMap((t) => breakdowns.map((d) => ({ time: t.name, dimension: d.name })));
+  const pairCounts = pairs.length
+    ? (await source.run({ sql: `SELECT ${pairs.map((p, i) => `COUNT(DISTINCT CAST(${q(p.time)} AS ${text}) || '|' || CAST(${q(p.dimension)} AS ${text})) AS p${i}`).join(', ')} FROM ${sample}`, params: [] }, run)).rows[0] ?? {}
+    : {};
+  return { rows: Number(stats.tc_rows ?? 0), columns, readings: pairs.map((p, i) => ({ ...p, distinct: Number(pairCounts[`p${i}`] ?? 0) })) };
 }
 
 const EMAIL = /^[^\s@]+@[^\s@]+\.[^\s@]+$/;
@@ -65,6 +80,8 @@ const PERSONAL_NAME = /(^|_)(e_?mail|phone|mobile|telephone|tel|first_?name|last
 const PERSON_COLUMN = /(^|_)(name)$/;
 // Readings averaged over time rather than added up (a level, not a flow).
 const LEVEL_WORDS = /(^|_)(temp|temperature|level|balance|concentration|co2|ppm|price|index|rate|ratio|pct|percent|share|avg|mean|average|headcount|stock|inventory|population|pressure|humidity|speed|wind|latitude|longitude|lat|lon|lng|score|age|height|weight)($|_|\d)/;
+// Amounts that add up over time whatever the data's shape (a flow).
+const FLOW_WORDS = /(^|_)(revenue|sales|amount|spend|spent|cost|costs|paid|income|sold|orders|bookings|visits|trips|births|deaths|arrivals|departures|volume|quantity|qty|units|takings|fares|tickets|calls|clicks|views|downloads)($|_|\d)/;
 const ID_WORDS = /(^|_)(id|key|uuid|code)$/;
 const YEAR = /^(year|yr|yyyy)$/;
 const MONTH = /^(month|mon|mm)$/;
@@ -105,6 +122,8 @@ export interface Draft {
   config: Record<string, unknown>;
   /** What was guessed, for the person running init. */
   notes: string[];
+  /** By metric name: what init guessed about it, written as a comment above it in the file. */
+  comments: Record<string, string>;
 }
 
 export function draftConfig(input: DraftInput): Draft {
@@ -149,7 +168,17 @@ export function draftConfig(input: DraftInput): Draft {
     notes.push('time column: none found; write time_column (a date column, {year, month, day} or {expr: ...}) before check');
   }
 
-  const metrics: Record<string, unknown>[] = [{ name: unique('rows'), label: 'Rows', also_called: [], description: 'number of rows (drafted by init)', count: 'rows', unit: 'count', higher_is_better: true, kind: 'flow' }];
+  // One row per date and breakdown value, several per date: the numbers are readings of each value
+  // at each date (unemployed per industry per month, a price per company per month).
+  const timeName = textDate?.column.name ?? time?.name;
+  const dateValues = input.columns.find((c) => c.name === timeName)?.values ?? 0;
+  const panel = input.readings?.find((r) => r.time === timeName && r.distinct === input.rows && dateValues > 0 && dateValues < input.rows);
+  // Said above each metric in the file, where the person reviews it (never in a description, which
+  // requesters read in charts and in "what can you measure?").
+  const comments: Record<string, string> = {};
+  const rowsName = unique('rows');
+  comments[rowsName] = ' drafted by init: the number of rows';
+  const metrics: Record<string, unknown>[] = [{ name: rowsName, label: 'Rows', also_called: [], count: 'rows', unit: 'count', higher_is_better: true, kind: 'flow' }];
   const dimensions: Record<string, unknown>[] = [];
   let keyColumn: string | undefined;
   // With a date column, its year, month and day columns repeat it: never amounts to add up.
@@ -180,11 +209,18 @@ export function draftConfig(input: DraftInput): Draft {
         dimensions.push({ name: unique(name), label: labelOf(c.name), also_called: [], column: c.name });
         continue;
       }
-      const level = LEVEL_WORDS.test(name);
+      const named = LEVEL_WORDS.test(name);
+      // A reading per breakdown value per date adds up across values on one date, never over time:
+      // drafted as its average (a year is the mean of its readings), unless its name says amount.
+      const reading = !named && !!panel && !FLOW_WORDS.test(name);
+      const metricName = unique(name);
+      if (named) comments[metricName] = ` drafted by init: a level (its name reads as a reading), averaged over time`;
+      else if (reading) comments[metricName] = ` drafted by init: a level, averaged over time: the data has one row per ${panel!.dimension} per ${panel!.time}, so ${c.name} reads as a reading, not an amount (make it sum and kind: flow if it adds up over time)`;
+      else comments[metricName] = ` drafted by init: a flow, added up over time (make it average and kind: level if it is a reading such as a balance)`;
       metrics.push(
-        level
-          ? { name: unique(name), label: labelOf(c.name), also_called: [], average: columnExpr(c.name), unit: 'number', higher_is_better: true, kind: 'level' }
-          : { name: unique(name), label: labelOf(c.name), also_called: [], sum: columnExpr(c.name), unit: 'number', higher_is_better: true, kind: 'flow' },
+        named || reading
+          ? { name: metricName, label: labelOf(c.name), also_called: [], average: columnExpr(c.name), unit: 'number', higher_is_better: true, kind: 'level' }
+          : { name: metricName, label: labelOf(c.name), also_called: [], sum: columnExpr(c.name), unit: 'number', higher_is_better: true, kind: 'flow' },
       );
       continue;
     }
@@ -205,5 +241,5 @@ export function draftConfig(input: DraftInput): Draft {
   };
   notes.push(`metrics: ${metrics.map((m) => `${String(m.name)} (${String(m.kind)})`).join(', ')}`);
   notes.push(`dimensions: ${dimensions.map((d) => String(d.name)).join(', ') || 'none'}`);
-  return { config: { version: 1, datasets: [dataset] }, notes };
+  return { config: { version: 1, datasets: [dataset] }, notes, comments };
 }

