@@ -187,6 +187,8 @@ export class Conversation {
           step.reply('cancel', replies.nothingToCancel());
           return state;
         }
+        // A card waiting for "go" is settled, so its controls cannot start what was cancelled.
+        if (state.stage === 'planning') this.settleCard(step, state, replies.cancelled());
         step.say('cancelled', replies.cancelled());
         return cancelledFrom(state);
       case 'rerun': {

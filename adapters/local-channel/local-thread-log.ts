@@ -162,7 +162,9 @@ export function openMessage(messages: readonly LocalMessage[]): LocalMessage | u
   const said = (x: LocalMessage) => x.text.trim().toLowerCase();
   // A prompt of several takes "a, b"; a card is answered only by its Go or Cancel, not by a correction.
   const answered = messages.slice(at + 1).some((x) => !x.fromBot && (answers.has(said(x)) || (!!m.prompt && said(x).split(/\s*,\s*/).every((v) => answers.has(v)))));
-  return answered ? undefined : m;
+  // A request cancelled after it waits for nothing.
+  const cancelled = messages.slice(at + 1).some((x) => x.fromBot && x.kind === 'cancelled');
+  return answered || cancelled ? undefined : m;
 }
 
 /** Whether a message offers something to click (a prompt, quick replies or controls). */

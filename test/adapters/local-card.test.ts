@@ -86,6 +86,15 @@ describe('the brief card over the local API', () => {
     await sse.close();
   });
 
+  it('waits for nothing once the request is cancelled, whatever the words ("never mind" answers no prompt option)', async () => {
+    const { thread } = await channel.threads.createThread('maren', 'How has it moved?');
+    await channel.post(localBotThreadId(thread.id), { key: `${thread.id}:prompt:1`, text: 'Which measure?', prompt: { topic: 'metrics', question: 'Which measure?', options: [{ value: 'revenue', label: 'Revenue' }], recommended: { value: 'revenue', label: 'Revenue' } } } as never);
+    expect((await threadList()).find((t) => t.id === thread.id)).toMatchObject({ waiting: true });
+    await postJson(`/api/threads/${thread.id}/messages`, { author: 'maren', text: 'never mind' });
+    await channel.post(localBotThreadId(thread.id), { key: `${thread.id}:cancelled:2`, text: 'Cancelled.' });
+    expect((await threadList()).find((t) => t.id === thread.id)).toMatchObject({ waiting: false });
+  });
+
   it('refuses a label that is not text', async () => {
     const { id } = await newCardThread();
     expect((await postJson(`/api/threads/${id}/messages`, { text: 'weekly', label: 7 })).status).toBe(400);

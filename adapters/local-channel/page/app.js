@@ -342,7 +342,9 @@ function openMessage(ordered) {
   const answers = new Set([...(m.prompt?.options ?? []), ...(m.prompt ? [m.prompt.recommended] : []), ...(m.quickReplies ?? [])].map((o) => o.value.toLowerCase()));
   const said = (x) => x.text.trim().toLowerCase();
   const answered = ordered.slice(at + 1).some((x) => !x.fromBot && (answers.has(said(x)) || (!!m.prompt && said(x).split(/\s*,\s*/).every((v) => answers.has(v)))));
-  return answered ? undefined : m;
+  // A request cancelled after it waits for nothing.
+  const cancelled = ordered.slice(at + 1).some((x) => x.fromBot && x.kind === 'cancelled');
+  return answered || cancelled ? undefined : m;
 }
 
 /** Only the message waiting for an answer can be answered by clicking; earlier ones are kept but inert. */
