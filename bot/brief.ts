@@ -104,3 +104,22 @@ export interface Brief {
   /** A deadline that was named but is already past, said back. */
   pastDeadline?: string;
 }
+
+/**
+ * The whole request as one question, for a brief that holds none (every reader makes at least
+ * one; a brief built elsewhere may not): it keeps the brief's period, comparison and group, so
+ * an answer to a prompt or a plan never widens what was asked.
+ */
+export function wholeRequestQuestion(brief: Brief, metrics: string[] = brief.metrics): Question {
+  return {
+    text: brief.requestText,
+    kind: brief.kinds[0] ?? 'trend',
+    metrics,
+    dimensions: brief.dimensions,
+    filters: [],
+    frequency: false,
+    ...(brief.window ? { window: brief.window } : {}),
+    ...(brief.compareWindow ? { compareWindow: brief.compareWindow } : {}),
+    ...(brief.comparisonGroup ? { comparisonGroup: brief.comparisonGroup } : {}),
+  };
+}

@@ -6,7 +6,7 @@ import { firstBreakdownDimension, isAdditive, isBreakdownDimension, metricByName
 import type { Coverage } from '../analysis/coverage.js';
 import { SUB_QUESTIONS, type TemplateName } from '../analysis/sub-questions/registry.js';
 import { type DateWindow, type Grain, type Lens, type RequestKind, type SubQuestion } from '../analysis/types.js';
-import type { Brief, Question } from './brief.js';
+import { type Brief, type Question, wholeRequestQuestion } from './brief.js';
 import { fullWindow } from './reading/answers.js';
 import { AGREE, CANCEL, grainNamedBy } from './reading/lexicon.js';
 import { describeWindow } from '../analysis/window-words.js';
@@ -40,7 +40,7 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
   const drafts: Draft[] = [];
   const notCovered = new Set<RequestKind>();
   const readings: string[] = [];
-  const questions: Question[] = brief.questions.length > 0 ? brief.questions : [{ text: brief.requestText, kind: 'trend', metrics: brief.metrics, dimensions: brief.dimensions, filters: [], frequency: false }];
+  const questions: Question[] = brief.questions.length > 0 ? brief.questions : [wholeRequestQuestion(brief)];
   for (const q of questions) {
     const group = groupFor(q, brief, ds);
     if (q.window) readings.push(`"${q.text}": ${describeWindow(q.window, coverage)}${q.windowSoFar ? ' so far (the data ends there)' : ''}${q.compareWindow ? `, against ${describeWindow(q.compareWindow, coverage)}` : ''}`);

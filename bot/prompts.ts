@@ -5,7 +5,7 @@ import type { Coverage } from '../analysis/coverage.js';
 import { formatPeriod } from '../analysis/format.js';
 import { addDays, addMonths, periodStart } from '../analysis/periods.js';
 import { GRAINS, type DateWindow, type Grain, type SegmentFilter } from '../analysis/types.js';
-import type { Brief, BriefSlot, Question } from './brief.js';
+import { type Brief, type BriefSlot, type Question, wholeRequestQuestion } from './brief.js';
 import { fullWindow, readDeadlineAnswer, readWindowAnswer } from './reading/answers.js';
 import { saysAsap } from './reading/deadline.js';
 import { ACCEPT_DEFAULT, AUDIENCE_LABELS, audienceNamedBy, GRAIN_WORDS, grainNamedBy } from './reading/lexicon.js';
@@ -182,7 +182,7 @@ function readAnswerInto(prompt: Prompt, text: string, brief: Brief, ctx: PromptC
       }
       const questions: Question[] = brief.questions.length > 0
         ? brief.questions.map((q) => (q.metrics.length === 0 && !q.frequency ? { ...q, metrics: found } : q))
-        : [{ text: brief.requestText, kind: brief.kinds[0] ?? 'trend', metrics: found, dimensions: brief.dimensions, filters: [], frequency: false }];
+        : [wholeRequestQuestion(brief, found)];
       const unknownTerms = brief.unknownTerms.filter((u) => u.role !== 'metric');
       return { ok: true, brief: { ...brief, questions, metrics: [...new Set([...brief.metrics, ...found])], unknownTerms, toAsk: (brief.toAsk ?? []).filter((t) => t !== 'metrics') } };
     }
@@ -218,7 +218,8 @@ function readAnswerInto(prompt: Prompt, text: string, brief: Brief, ctx: PromptC
       const byWords = chosen.length > 0 ? chosen : prompt.options.filter((o) => normaliseWords(typed).some((w) => w.length > 3 && normaliseWords(o.label).includes(w)));
       if (byWords.length === 0) return { ok: false, message: `Choose one of: ${prompt.options.map((o) => o.label).join(', ')}.` };
       const picks = byWords.map((o) => JSON.parse(o.value) as { dimension: string; value: string });
-      const questions = brief.questions.map((q, i) => (i === 0 ? { ...q, filters: addValues(q.filters, picks) } : q));
+      const asked = brief.questions.length > 0 ? brief.questions : [wholeRequestQuestion(brief)];
+      const questions = asked.map((q, i) => (i === 0 ? { ...q, filters: addValues(q.filters, picks) } : q));
       const rest = (brief.ambiguousValues ?? []).slice(1);
       return { ok: true, brief: { ...brief, questions, ambiguousValues: rest, toAsk: rest.length > 0 ? brief.toAsk ?? [] : (brief.toAsk ?? []).filter((t) => t !== 'values') } };
     }

@@ -701,8 +701,15 @@ function windowsOf(periods: PeriodMention[], st: ReadState, clause: Clause): { w
   const stretch = plain.length >= 2 && !comparing;
   const compared = periods.filter((p) => (p.compared || p.shift) && !(stretch && p.shift && !p.strong));
   let main = plain[0];
-  let other = compared[0];
+  // A second period named outright ("year over year, 2005 vs 2006") is the comparison; a shift
+  // ("year over year") only says how the two are set apart.
+  let other = compared.find((p) => p.window && !p.shift) ?? compared[0];
   if (!other && plain.length >= 2 && comparing) other = { ...plain[1]!, compared: true };
+  // Two periods named outright, the later one first or second ("2005 vs 2006"): the later is the
+  // current one and the earlier its base, as in any change from one to the other.
+  if (main?.window && other?.window && !other.shift && !other.relative && !main.toLatest && other.window.start >= main.window.end) {
+    [main, other] = [{ ...other, compared: false }, { ...main, compared: true }];
+  }
   let window: DateWindow | undefined;
   if (main?.window) {
     // Two plain periods and no comparison: the stretch that covers both ("for 2023 and 2024").
@@ -774,7 +781,13 @@ function statedLaunch(periods: PeriodMention[], text: RequestText): { date: stri
     if (p.relative && p.unit !== 'span') continue;
     const verbs = /\b(?:launch(?:ed|es)?|start(?:ed|s)?|began|begun|went\s+(?:live|up|down)|go(?:es)?\s+live|introduc(?:ed|es)|rolled\s+out|roll-?out|kicked\s+off|switch(?:ed)?|changed|effective|took\s+effect|came\s+into\s+effect|live\s+(?:from|since|on)|rose|increased|decreased|was\s+cut|were\s+cut)\b[^.;!?]{0,40}$/;
     const nouns = /\b(?:launch|rise|increase|hike|cut|change|reorgani[sz]ation|reorg|restructur\w*|migration|redesign|rollout|roll-out|switch|update|campaign|promotion|sale|outage|new\s+\w+)\s+(?:on|from|in|of)\s+(?:the\s+)?$/;
-    if (verbs.test(before) || nouns.test(before) || /^\s*(?:\p{L}+\s+){0,2}(?:launch|go-live|rollout|roll-out|switch|change|rise|increase|hike|cut|reorgani[sz]ation|reorg|migration|redesign|update|campaign|promotion)\b/u.test(after)) {
+    // "how joblessness changed from 2007 through 2009", "the rise between 2007 and 2009": across a
+    // stretch with two ends, words of change say what moved over it (the question's period), not
+    // when something happened; only an event ("launched from 1 to 14 March") dates one.
+    const closed = p.unit === 'span' && !p.toLatest && !p.fromEarliest && !p.relative;
+    const word = verbs.exec(before)?.[0].split(/\s+/).slice(0, 2).join(' ') ?? nouns.exec(before)?.[0].split(/\s+/)[0] ?? /(?:launch|go-live|rollout|roll-out|switch|change|rise|increase|hike|cut|reorgani[sz]ation|reorg|migration|redesign|update|campaign|promotion)$/u.exec(/^\s*(?:\p{L}+\s+){0,2}(?:launch|go-live|rollout|roll-out|switch|change|rise|increase|hike|cut|reorgani[sz]ation|reorg|migration|redesign|update|campaign|promotion)\b/u.exec(after)?.[0] ?? '')?.[0];
+    if (word && closed && !/launch|start|beg[au]n|live|introduc|roll|kicked|effect|reorg|restructur|migration|redesign|campaign|promotion|outage|sale|new/.test(word)) continue;
+    if (word) {
       const start = p.unit === 'span' && /\bsince\b/.test(p.words.toLowerCase()) ? p.window.start : p.window.start;
       return { date: start, words: text.quote(p), mention: p };
     }

@@ -1,0 +1,51 @@
+// Requests a newcomer typed on two public datasets (vega-datasets' stocks and US unemployment by
+// industry, see public-data.ts), each one the reader once answered as a different question. The
+// dates each check expects are the calendar's; the data's span is the files' own (BLS: January
+// 2000 to February 2010; stocks: January 2000 to March 2010).
+import { describe, expect, it } from 'vitest';
+import { readStocks, readUnemployment } from './public-data.js';
+
+describe('a period with two ends is the period a change is asked over, not the date of an event', () => {
+  it('"how joblessness changed in construction from 2007 through 2009", with a preamble and a closing line', async () => {
+    const b = await readUnemployment("Hey, with the recession on everyone's mind, can you show me how joblessness changed in construction from 2007 through 2009? Would love something I can drop in a deck.");
+    // One question: the closing line asks for a format, not a second question about a fall.
+    expect(b.questions).toHaveLength(1);
+    const q = b.questions[0]!;
+    expect(q).toMatchObject({ kind: 'growth', launchDate: null, window: { from: '2007-01-01', to: '2009-12-31' }, filters: [{ dimension: 'series', values: ['Construction'] }] });
+  });
+
+  it.each([
+    'Could you show how the number of unemployed rose in manufacturing between 2008 and 2009?',
+    'Given the downturn, how did the unemployment rate change in Construction between 2007 and 2009? Happy to drop this in my slides.',
+    'Was there a rise in unemployment in Finance from 2003 to 2005?',
+  ])('%s', async (text) => {
+    const b = await readUnemployment(text);
+    expect(b.questions).toHaveLength(1);
+    expect(b.questions[0]!.launchDate).toBeNull();
+    expect(b.questions[0]!.kind).toBe('growth');
+    expect(b.questions[0]!.window).not.toBeNull();
+  });
+
+  it('still dates an event: a change on one day, a launch at the start of a stretch', async () => {
+    expect((await readUnemployment('the rate changed on 1 March 2008 - did unemployment go up after?')).questions[0]!.launchDate).toBe('2008-03-01');
+  });
+});
+
+describe('two years named outright are the comparison, the later one the current', () => {
+  it('"year over year, 2005 vs 2006" sets 2006 against 2005, not 2005 against 2004', async () => {
+    const b = await readStocks('Need by Friday for the board: how did stock prices move year over year, 2005 vs 2006?');
+    expect(b.questions).toHaveLength(1);
+    expect(b.questions[0]).toMatchObject({ metrics: ['price'], window: { from: '2006-01-01', to: '2006-12-31' }, compareWindow: { from: '2005-01-01', to: '2005-12-31' } });
+  });
+
+  it.each([
+    ['Share prices yoy please, 2003 versus 2004', '2004', '2003'],
+    ['How did the stock price do in 2007 compared with 2008?', '2008', '2007'],
+    ['Compare AAPL vs IBM price, 2008 against 2007', '2008', '2007'],
+    ['prices y/y: 2001 against 2002, for the exec team', '2002', '2001'],
+  ])('%s', async (text, current, base) => {
+    const q = (await readStocks(text)).questions[0]!;
+    expect(q.window).toEqual({ from: `${current}-01-01`, to: `${current}-12-31` });
+    expect(q.compareWindow).toEqual({ from: `${base}-01-01`, to: `${base}-12-31` });
+  });
+});
