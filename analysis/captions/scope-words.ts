@@ -13,14 +13,15 @@ function valueText(v: string | number | boolean): string {
   return typeof v === 'string' ? (v.length > 0 ? v : '(blank)') : String(v);
 }
 
-/** One subtitle part per filter: "Channel: phone, web". */
+/** One subtitle part per filter: "Channel: phone, web", "Customer tier: all but free". */
 export function filterSubtitleParts(filters: readonly SegmentFilter[], ds: DatasetConfig): string[] {
-  return filters.map((f) => `${dimensionLabel(f, ds)}: ${f.values.map(valueText).join(', ')}`);
+  return filters.map((f) => `${dimensionLabel(f, ds)}: ${f.exclude ? `all but ${listJoin(f.values.map(valueText), 'and')}` : f.values.map(valueText).join(', ')}`);
 }
 
-/** "channel: phone or web; route: Mainland–Saltreach" ('' without filters). */
+/** "channel: phone or web; route: Mainland–Saltreach; customer tier: all but free" ('' without filters). */
 export function scopeText(filters: readonly SegmentFilter[], ds: DatasetConfig): string {
-  return filters.map((f) => `${inSentence(dimensionLabel(f, ds))}: ${listJoin(f.values.map(valueText), 'or')}`).join('; ');
+  // A filter that leaves values out says so: "customer tier: free" would read as the opposite.
+  return filters.map((f) => `${inSentence(dimensionLabel(f, ds))}: ${f.exclude ? `all but ${listJoin(f.values.map(valueText), 'and')}` : listJoin(f.values.map(valueText), 'or')}`).join('; ');
 }
 
 /** A title with its scope after it; unchanged without filters. */

@@ -637,7 +637,7 @@ function readValues(valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[], h
     const ownNounBeside = hits.some((o) => o !== hit && o.entries.some((e) => e.kind === 'dimension' && entries.some((v) => v.name === e.name)) && nearGap(o, hit, lower) <= 1);
     const cueBeside =
       ownNounBeside ||
-      /\b(?:only|just|excluding|except|without|exclude|via|through|on|in|from|at|for|vs\.?|versus|than|and|or|to)\s+(?:the\s+)?$/.test(before) ||
+      /\b(?:only|just|excluding|except|without|exclude|leaving\s+out|leave\s+out|not\s+counting|via|through|on|in|from|at|for|vs\.?|versus|than|and|or|to)\s+(?:the\s+)?$/.test(before) ||
       hits.some((o) => o !== hit && o.entries.some((e) => e.kind === 'metric') && nearGap(o, hit, lower) <= 1) ||
       /^\s*(?:vs\.?|versus|v|than|and|or|compared)\b/.test(after);
     // Part of a value's name counts only when written as a name ("Saltreach", not "support") or
@@ -656,7 +656,7 @@ function readValues(valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[], h
     let candidates = namedDims.length > 0 ? usable.filter((e) => namedDims.includes(e.name)) : usable;
     if (candidates.length === 0) candidates = usable;
     const distinct = uniqueBy(candidates, (e) => `${e.name}\u0000${e.value}`);
-    const exclude = /\b(?:excluding|except|without|exclude|other than|apart from|not|ex)\s+(?:the\s+)?$/.test(before);
+    const exclude = /\b(?:excluding|except|without|exclude|leaving\s+out|leave\s+out|not\s+counting|other than|apart from|not|ex)\s+(?:the\s+)?$/.test(before);
     const plural = /s$/.test(hit.words[hit.words.length - 1]!.norm) || /\bboth\b|\ball\b/.test(before);
     const dims = unique(distinct.map((e) => e.name));
     if (distinct.length === 1 || (dims.length === 1 && plural && distinct.every((e) => e.partial))) {

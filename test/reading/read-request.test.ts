@@ -74,6 +74,9 @@ describe('values of the data', () => {
 
   it('reads "excluding" as a filter that leaves the value out', () => {
     expect(read("excluding kiosk, what's the revenue trend?").questions[0]!.filters).toEqual([{ dimension: 'channel', values: ['kiosk'], exclude: true }]);
+    // "leaving out" and "not counting" leave it out too (found reading a whole thread on the support-desk data, where it had been read as "only").
+    expect(read("leaving out kiosk, what's the revenue trend?").questions[0]!.filters).toEqual([{ dimension: 'channel', values: ['kiosk'], exclude: true }]);
+    expect(read("not counting the kiosk, what's the revenue trend?").questions[0]!.filters).toEqual([{ dimension: 'channel', values: ['kiosk'], exclude: true }]);
   });
 
   it('asks which value a shared part of a name means', () => {
