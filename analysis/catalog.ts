@@ -1,6 +1,7 @@
 // Lookups over one dataset's catalog. Names reaching SQL are checked here first.
 import type { ComparisonGroup, DatasetConfig, Dimension, Metric, MetricKind } from '../config/schema.js';
 import type { SeasonalModel } from './stats/decomposition.js';
+import type { SegmentFilter } from './types.js';
 
 export class CatalogError extends Error {
   constructor(
@@ -68,9 +69,17 @@ export function isBreakdownDimension(ds: DatasetConfig, name: string): boolean {
   return !!d && isGroupable(ds, name) && !ds.comparison_groups.some((g) => g.column === d.column);
 }
 
-/** The first dimension that may be a breakdown, in catalog order. */
-export function firstBreakdownDimension(ds: DatasetConfig): string | undefined {
-  return ds.dimensions.find((d) => isBreakdownDimension(ds, d.name))?.name;
+/**
+ * The first dimension that may be a breakdown, in catalog order, skipping any that `filters` pin
+ * to a single value (a breakdown by team of "the Billing team only" has one row: 100%).
+ */
+export function firstBreakdownDimension(ds: DatasetConfig, filters: readonly SegmentFilter[] = []): string | undefined {
+  return ds.dimensions.find((d) => isBreakdownDimension(ds, d.name) && !pinsOneValue(filters, d.name))?.name;
+}
+
+/** The filters keep a single value of the dimension ("team: Billing"), so nothing is left to break down. */
+export function pinsOneValue(filters: readonly SegmentFilter[], dimension: string): boolean {
+  return filters.some((f) => f.dimension === dimension && !f.exclude && f.values.length === 1);
 }
 
 /** Columns a metric reads, for data-quality checks on exactly what an answer used. */

@@ -20,9 +20,11 @@ export function briefDefaults(brief: Brief, ds: DatasetConfig, coverage: Coverag
   if (headline && brief.questions.some((q) => q.metrics.length === 0 && !q.frequency)) {
     out.metric = { value: headline, reason: 'the headline measure of this dataset' };
   }
-  // A change is explained by a breakdown; without one asked, the catalog's first.
-  const first = firstBreakdownDimension(ds);
-  if (first && !brief.dimensionsAsked && brief.questions.some((q) => q.kind === 'growth' && q.dimensions.length === 0 && !q.contrast)) {
+  // A change is explained by a breakdown; without one asked, the catalog's first that the
+  // questions' filters leave more than one value of.
+  const open = brief.questions.filter((q) => q.kind === 'growth' && q.dimensions.length === 0 && !q.contrast);
+  const first = firstBreakdownDimension(ds, open.flatMap((q) => q.filters));
+  if (first && !brief.dimensionsAsked && open.length > 0) {
     out.breakdown = { value: first, reason: 'a change is easier to act on with what drove it; the first breakdown in the catalog' };
   }
   return out;

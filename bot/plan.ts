@@ -114,7 +114,7 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           }
           add('performance_compare', metric, true, g, since);
           add('performance_before_after', metric, false, g, history);
-          const d = dims[0] ?? firstBreakdownDimension(ds);
+          const d = dims[0] ?? firstBreakdownDimension(ds, q.filters);
           if (d) add('performance_by_segment', metric, false, { ...g, dimension: d }, since);
           break;
         }

@@ -58,7 +58,7 @@ export function growthShareShiftWords(
   } else {
     sentences.push(`Shares, ${spans}: ${shifts.join('; ')}.`);
     sentences.push(
-      `${capitalise(reach(f.after.countToThreshold))} ${plural(dimNoun, f.after.countToThreshold)} reach ${pct} of ${lower(label)} now, against ${reach(f.before.countToThreshold)} ${earlier}` +
+      `${capitalise(reach(f.after.countToThreshold))} ${plural(dimNoun, f.after.countToThreshold)} ${f.after.countToThreshold === 1 ? 'reaches' : 'reach'} ${pct} of ${lower(label)} now, against ${reach(f.before.countToThreshold)} ${earlier}` +
         (audience === 'analysts'
           ? `; HHI ${hhiText(f.before.hhi)} → ${hhiText(f.after.hhi)} (0–10,000 scale).`
           : hhiMove

@@ -47,7 +47,7 @@ export function bySegmentWords(findings: readonly Finding[], ctx: WordsContext, 
   const dir = consistency.overallDirection;
   const total = consistency.segments;
   const same = consistency.sameDirection;
-  const where = same === total ? (total === 2 ? `both ${plural}` : `all ${total} ${plural}`) : `${same} of ${total} ${plural}`;
+  const where = same === total ? (total === 1 ? `the only ${inText(dim.label)} compared, ${segmentName(compared[0]!)}` : total === 2 ? `both ${plural}` : `all ${total} ${plural}`) : `${same} of ${total} ${plural}`;
   const title =
     same === total || same / total >= 0.75
       ? `${label} ${isAre(label)} ${dir} for ${inText(m)} on ${where}`
@@ -55,8 +55,9 @@ export function bySegmentWords(findings: readonly Finding[], ctx: WordsContext, 
   const rels = compared.map((s) => s.relative!).filter((r) => Math.sign(r) === (dir === 'higher' ? 1 : -1));
   const range = rels.length >= 2 ? `, by ${pct(Math.min(...rels.map(Math.abs)))} to ${pct(Math.max(...rels.map(Math.abs)))}` : '';
   const chance = overall && verdict ? chancePhrase(overall.pValue, verdict.alpha) : 'there is no test of the overall gap';
-  const evidence =
-    same === total && total >= 2
+  const evidence = total === 1
+    ? `with one ${inText(dim.label)} there is no mix of ${plural} to judge`
+    : same === total && total >= 2
       ? `the same direction in every ${inText(dim.label)} suggests the gap is not just a different mix of ${plural}`
       : consistency.oppositeDirection > 0
         ? `${consistency.oppositeDirection} ${consistency.oppositeDirection === 1 ? inText(dim.label) : plural} ${consistency.oppositeDirection === 1 ? 'goes' : 'go'} the other way, so the overall gap may partly reflect the mix of ${plural}`

@@ -101,7 +101,7 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
   const reach =
     c === null
       ? `the ${named.length} largest ${plural} shown carry ${formatShare(named[named.length - 1]!.cumulativeShare, locale, true)}, short of ${formatShare(f.threshold, locale)}`
-      : `${countWord(c, locale)} ${c === 1 ? lowerLabel(dim.label) : plural} reach ${formatShare(f.threshold, locale)} (${formatShare(named[c - 1]!.cumulativeShare, locale, true)})`;
+      : `${countWord(c, locale)} ${c === 1 ? `${lowerLabel(dim.label)} reaches` : `${plural} reach`} ${formatShare(f.threshold, locale)} (${formatShare(named[c - 1]!.cumulativeShare, locale, true)})`;
   const fold = f.rows.find((r) => r.other);
   const foldLine = fold ? ` The ${f.folded} smaller ${plural} are combined as "All others" (${formatShare(fold.share, locale, true)}).` : '';
   let caption: string;

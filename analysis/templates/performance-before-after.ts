@@ -175,7 +175,10 @@ export function readBeforeAfter(
   }
   if (periods ? hiddenIn(periods.before) || hiddenIn(periods.after) : hiddenSeries.length > 0) {
     if (periods) findings.push(periods);
-    notApplicable('suppressed');
+    // No members at all before the launch is the first reason there is no before and after; a
+    // small month withheld is the reason only when there were members to compare.
+    const membersBefore = periods ? monthCells.some((c) => c.role === 'members' && c.period >= periods.before.start && c.period < periods.before.end) : true;
+    notApplicable(membersBefore ? 'suppressed' : 'members_empty_before');
     const shown = (role: GroupRole) => poolCells(seriesCells.filter((c) => c.role === role).map((c) => c.cell), shape.kind, shape.additive).n;
     sizes = (['members', 'others'] as const).map((role) => ({ role, n: shown(role) }));
   } else if (!group.launch_date || !periods) {
