@@ -36,6 +36,16 @@ export function isAre(n: number): string {
   return Math.abs(n) === 1 ? 'is' : 'are';
 }
 
+/**
+ * The verb agreeing with a metric label, by its head noun (before any "per …"): "Revenue is",
+ * "Bookings are", "Weekday visits per site per day are"; `was` gives "was" or "were".
+ */
+export function verbFor(label: string, verb: 'is' | 'was' = 'is'): string {
+  const head = label.trim().replace(/\s+per\s.*$/i, '').split(/\s+/).pop() ?? '';
+  const plural = /[^s]s$/i.test(head);
+  return verb === 'is' ? (plural ? 'are' : 'is') : plural ? 'were' : 'was';
+}
+
 /** "Route A's", but "Bookings'" (a name ending in s takes the apostrophe alone). */
 export function possessive(name: string): string {
   return /s$/i.test(name) ? `${name}'` : `${name}'s`;

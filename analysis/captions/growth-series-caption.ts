@@ -1,6 +1,7 @@
 // Title and caption for a growth_series answer, written only from its findings: the complete
 // years' growth, the latest year so far against the same dates a year earlier, compound growth,
 // and the latest complete period against a year earlier.
+import { verbFor } from './grammar.js';
 import type { Metric } from '../../config/schema.js';
 import type {
   GrowthCagrFinding,
@@ -167,7 +168,7 @@ export function growthVerdict(metric: Metric, f: GrowthSeriesFindings, locale: s
       direction === 'level'
         ? `level with last year so far (${formatChange(ytd.relative, locale)}, ${span})`
         : `${unsignedPercent(ytd.relative!, locale)} ${direction === 'up' ? 'above' : 'below'} last year so far (${span})`;
-    return { direction, statement: `${label} is ${where}` };
+    return { direction, statement: `${label} ${verbFor(label)} ${where}` };
   }
   const year = (f.years?.years ?? []).filter((y) => y.yoy !== null).at(-1);
   if (year) {
@@ -177,7 +178,7 @@ export function growthVerdict(metric: Metric, f: GrowthSeriesFindings, locale: s
       direction === 'level'
         ? `level with ${prior} (${formatChange(year.yoy, locale)})`
         : `${unsignedPercent(year.yoy!, locale)} ${direction === 'up' ? 'above' : 'below'} ${prior}`;
-    return { direction, statement: `${label} in ${yearText(year.year, locale)} was ${where}` };
+    return { direction, statement: `${label} in ${yearText(year.year, locale)} ${verbFor(label, 'was')} ${where}` };
   }
   return null;
 }

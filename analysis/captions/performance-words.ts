@@ -43,15 +43,13 @@ export function groupLabel(group: ComparisonGroup, role: GroupRole): string {
 }
 
 /** The label in running text: "pass holders" (lower case first letter unless it looks like a name). */
-import { countOf, inSentence as inText, pluralNoun } from './grammar.js';
+import { countOf, inSentence as inText, pluralNoun, verbFor } from './grammar.js';
 export { inText };
 
 /** What one row is called, from a plain count metric's label ("bookings"), else "rows". */
 /** "is" or "are" to agree with a metric label: "Revenue is", "Bookings are". */
 export function isAre(label: string): 'is' | 'are' {
-  // The head noun comes before "per …": "Weekday visits per site per day are".
-  const last = label.trim().replace(/\s+per\s.*$/i, '').split(/\s+/).pop() ?? '';
-  return /[^s]s$/i.test(last) ? 'are' : 'is';
+  return verbFor(label) as 'is' | 'are';
 }
 
 export function rowNoun(ds: DatasetConfig): { plural: string; singular: string } {

@@ -63,7 +63,9 @@ function scoped(present: Presenter): Presenter {
     const filters = answer.subQuestion.filters;
     if (filters.length === 0) return p;
     const title = scopedTitle(p.title, filters, ctx.dataset);
-    const takeaway = p.takeaway ? { ...p.takeaway, text: scopedCaption(p.takeaway.text, filters, ctx.dataset) } : null;
+    // A verdict said first in the summary (and as the digest's title) names the scope too.
+    const verdict = p.takeaway?.verdict ? { ...p.takeaway.verdict, statement: scopedTitle(p.takeaway.verdict.statement.replace(/[.\s]+$/, ''), filters, ctx.dataset) } : undefined;
+    const takeaway = p.takeaway ? { ...p.takeaway, text: scopedCaption(p.takeaway.text, filters, ctx.dataset), ...(verdict ? { verdict } : {}) } : null;
     return { ...p, title, caption: scopedCaption(p.caption, filters, ctx.dataset), takeaway };
   };
 }
