@@ -3,6 +3,7 @@
 // grain and period always have safe defaults; only a request with no measure at all is asked.
 import type { Coverage } from '../analysis/coverage.js';
 import { firstBreakdownDimension } from '../analysis/catalog.js';
+import { finestGrain, grainAdjective, isFinerGrain } from '../analysis/grains.js';
 import type { DatasetConfig } from '../config/schema.js';
 import type { Brief } from './brief.js';
 import type { BriefDefaults } from './card.js';
@@ -14,6 +15,11 @@ export function briefDefaults(brief: Brief, ds: DatasetConfig, coverage: Coverag
     audience: { value: 'managers', reason: 'plain words with enough detail to act on' },
     grain: { value: grain.grain, reason: grain.reason },
   };
+  // Data stamped once a month has no daily figures: a daily grain asked is read at the finest there is, and said.
+  const finest = finestGrain(coverage.stamps);
+  if (brief.grain && isFinerGrain(brief.grain, finest)) {
+    out.grainCapped = { asked: brief.grain, value: finest, reason: `you asked for ${grainAdjective(brief.grain)} figures, but the data is stamped ${coverage.stamps}, so ${grainAdjective(finest)} is the finest there is` };
+  }
   // A question with no measure of its own ("did this summer beat last summer") takes the
   // dataset's headline measure (the catalog's first), said on the card as assumed.
   const headline = ds.metrics[0]?.name;
@@ -43,7 +49,7 @@ export function withDefaults(brief: Brief, d: BriefDefaults): Brief {
     metrics: [...new Set(questions.flatMap((q) => q.metrics))],
     dimensions: [...new Set([...brief.dimensions, ...questions.flatMap((q) => q.dimensions)])],
     audience: brief.audience ?? d.audience.value,
-    grain: brief.grain ?? d.grain.value,
+    grain: d.grainCapped?.value ?? brief.grain ?? d.grain.value,
     deadline: brief.deadline ?? 'none',
   };
 }

@@ -4,7 +4,7 @@
 // every platform shows its text, and those that can add a control per topic whose value is a
 // correction read by the same reader as typed words.
 import type { Coverage } from '../analysis/coverage.js';
-import { grainAdjective } from '../analysis/grains.js';
+import { finestGrain, grainAdjective, isFinerGrain } from '../analysis/grains.js';
 import { addDays } from '../analysis/periods.js';
 import { GRAINS, type DateWindow, type Grain, type SubQuestion } from '../analysis/types.js';
 import { describeWindow } from '../analysis/window-words.js';
@@ -63,6 +63,8 @@ export interface CardContext {
 export interface BriefDefaults {
   audience: { value: NonNullable<Brief['audience']>; reason: string };
   grain: { value: Grain; reason: string };
+  /** The grain asked is finer than the data is stamped ("daily" on monthly data): the finest there is, and why. */
+  grainCapped?: { asked: Grain; value: Grain; reason: string };
   /** Metrics taken for questions that named none ("did this summer beat last summer"). */
   metric?: { value: string; reason: string };
   /** A breakdown to explain a change when none was asked. */
@@ -104,12 +106,14 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
     ...(assumed ? { how: 'assumed' as const, reason: assumed.reason } : read(ev.metrics)),
     control: { kind: 'select', choices: ds.metrics.map((m) => ({ value: `measure ${m.label.toLowerCase()}`, label: m.label })) },
   });
-  const grain = brief.grain ?? ctx.defaults.grain.value;
+  // A grain finer than the data is stamped is not offered: the coarser one is said, with why.
+  const capped = ctx.defaults.grainCapped;
+  const grain = capped ? capped.value : brief.grain ?? ctx.defaults.grain.value;
   lines.push({
     topic: 'grain',
     label: 'Grain',
     value: grainAdjective(grain, true),
-    ...(brief.grain ? read(ev.grain) : { how: 'assumed' as const, reason: ctx.defaults.grain.reason }),
+    ...(capped ? { how: 'assumed' as const, reason: capped.reason } : brief.grain ? read(ev.grain) : { how: 'assumed' as const, reason: ctx.defaults.grain.reason }),
     control: { kind: 'select', choices: grainChoices(ctx.coverage), current: grainAdjective(grain) },
   });
   lines.push(periodLine(brief, ctx));
@@ -188,8 +192,8 @@ function periodLine(brief: Brief, ctx: CardContext): CardLine {
 
 function grainChoices(coverage: Coverage): CardChoice[] {
   // Data stamped monthly has no daily or weekly grain to offer.
-  const coarse = coverage.stamps === 'monthly' ? ['day', 'week'] : coverage.stamps === 'quarterly' ? ['day', 'week', 'month'] : coverage.stamps === 'yearly' ? ['day', 'week', 'month', 'quarter'] : coverage.stamps === 'weekly' ? ['day'] : [];
-  return GRAINS.filter((g) => !coarse.includes(g)).map((g) => ({ value: grainAdjective(g), label: grainAdjective(g, true) }));
+  const finest = finestGrain(coverage.stamps);
+  return GRAINS.filter((g) => !isFinerGrain(g, finest)).map((g) => ({ value: grainAdjective(g), label: grainAdjective(g, true) }));
 }
 
 function periodChoices(coverage: Coverage): CardChoice[] {

@@ -4,6 +4,7 @@ import type { DatasetConfig } from '../config/schema.js';
 import type { Coverage } from '../analysis/coverage.js';
 import { formatPeriod } from '../analysis/format.js';
 import { addDays, addMonths, periodStart } from '../analysis/periods.js';
+import { finestGrain, isFinerGrain } from '../analysis/grains.js';
 import { GRAINS, type DateWindow, type Grain, type SegmentFilter } from '../analysis/types.js';
 import { type Brief, type BriefSlot, type Question, wholeRequestQuestion } from './brief.js';
 import { fullWindow, readDeadlineAnswer, readWindowAnswer } from './reading/answers.js';
@@ -141,6 +142,13 @@ function metricsPrompt(brief: Brief, ctx: PromptContext): Prompt {
 
 
 export function recommendedGrain(coverage: Coverage): { grain: Grain; reason: string } {
+  const finest = finestGrain(coverage.stamps);
+  const byLength = recommendedByLength(coverage);
+  // Data stamped once a quarter is shown quarterly however short it is.
+  return isFinerGrain(byLength.grain, finest) ? { grain: finest, reason: `the data is stamped ${coverage.stamps}` } : byLength;
+}
+
+function recommendedByLength(coverage: Coverage): { grain: Grain; reason: string } {
   if (!coverage.firstDate || !coverage.lastDate) return { grain: 'month', reason: 'the usual grain for a business review' };
   const days = (Date.parse(coverage.lastDate) - Date.parse(coverage.firstDate)) / 86_400_000;
   if (days > 366) return { grain: 'month', reason: 'the data spans more than a year, so months show the pattern without daily noise' };

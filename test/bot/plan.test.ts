@@ -165,3 +165,20 @@ describe('two values set against each other (issue 16)', () => {
     expect(plan.items.some((sq) => sq.template === 'value_compare')).toBe(false);
   });
 });
+
+describe('a grain finer than the data is stamped', () => {
+  it('is read at the finest grain there is, and the card says why (data stamped once a month has no daily figures)', () => {
+    const monthly = { ...coverage, stamps: 'monthly' as const };
+    const brief = readRequest('What was daily revenue in 2024?');
+    expect(brief.grain).toBe('day');
+    const defaults = briefDefaults(brief, exampleDataset, monthly);
+    expect(defaults.grainCapped).toMatchObject({ asked: 'day', value: 'month' });
+    expect(defaults.grainCapped!.reason).toMatch(/stamped monthly, so monthly is the finest there is/);
+    expect(withDefaults(brief, defaults).grain).toBe('month');
+    // A grain the stamps allow is kept as read.
+    expect(briefDefaults(readRequest('What was quarterly revenue in 2024?'), exampleDataset, monthly).grainCapped).toBeUndefined();
+    // With nothing asked, the recommendation is never finer than the stamps either.
+    expect(briefDefaults(readRequest('How has revenue moved?'), exampleDataset, { ...coverage, stamps: 'quarterly' as const, firstDate: '2024-01-01', lastDate: '2024-03-01' }).grain.value).toBe('quarter');
+  });
+});
+
