@@ -5,12 +5,15 @@ import { verbFor } from './grammar.js';
 import type { Metric } from '../../config/schema.js';
 import type {
   GrowthCagrFinding,
+  GrowthLevelRateFinding,
   GrowthPoint,
   GrowthSeriesFinding,
   GrowthYearsFinding,
   GrowthYtdFinding,
 } from '../findings/growth.js';
+import { quantityKind } from '../catalog.js';
 import { formatChange, formatDayOfYear, formatPeriod } from '../format.js';
+import { levelGrowthVerdict, levelGrowthWords } from './growth-level-caption.js';
 import type { Verdict, VerdictDirection } from './verdict-words.js';
 import type { Audience, Finding, Grain } from '../types.js';
 import { capitalise, directionOf, lower, movedBy, periodText, unsignedPercent, valueText, yearText } from './growth-words.js';
@@ -25,6 +28,7 @@ export interface GrowthSeriesFindings {
   years?: GrowthYearsFinding;
   ytd?: GrowthYtdFinding;
   cagr?: GrowthCagrFinding;
+  level?: GrowthLevelRateFinding;
 }
 
 export function pickGrowthSeriesFindings(findings: Finding[], metric: string): GrowthSeriesFindings {
@@ -35,6 +39,7 @@ export function pickGrowthSeriesFindings(findings: Finding[], metric: string): G
     else if (f.type === 'growth_years') out.years = f;
     else if (f.type === 'growth_ytd') out.ytd = f;
     else if (f.type === 'growth_cagr') out.cagr = f;
+    else if (f.type === 'growth_level_rate') out.level = f;
   }
   return out;
 }
@@ -50,6 +55,8 @@ export function latestComplete(series: GrowthSeriesFinding | undefined): GrowthP
 }
 
 export function growthSeriesWords(metric: Metric, grain: Grain, f: GrowthSeriesFindings, locale: string, audience: Audience): GrowthWords {
+  // A level (a reading) changes in its own units; a compound percentage would misstate it.
+  if (quantityKind(metric) === 'level' && metric.unit !== 'percent') return levelGrowthWords(metric, grain, f, locale, audience);
   const label = metric.label;
   const yearsWithRate = (f.years?.years ?? []).filter((y) => y.yoy !== null);
   const recent = yearsWithRate.slice(-2);
@@ -160,6 +167,7 @@ function latestSentence(p: GrowthPoint, series: GrowthSeriesFinding, grain: Grai
  */
 export function growthVerdict(metric: Metric, f: GrowthSeriesFindings, locale: string): Verdict | null {
   const label = lower(metric.label);
+  if (quantityKind(metric) === 'level' && metric.unit !== 'percent') return levelGrowthVerdict(metric, f, locale);
   const ytd = f.ytd && f.ytd.relative !== null ? f.ytd : undefined;
   if (ytd) {
     const span = `${formatDayOfYear(ytd.current.year, locale, 'month')} to ${formatDayOfYear(ytd.through, locale)}`;

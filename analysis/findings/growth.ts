@@ -1,5 +1,6 @@
 // Findings of the growth family: how fast a metric grows, period over period and year over year.
 // Numbers and ISO dates only; every rate is a finite number or null (undefined growth), never NaN.
+import type { DecadeSlope } from '../stats/decades.js';
 import type { Grain } from '../types.js';
 
 /** A half-open span of calendar dates [start, end), ISO. */
@@ -70,6 +71,19 @@ export interface GrowthCagrFinding {
   to: { year: string; value: number };
   years: number;
   rate: number | null;
+}
+
+/**
+ * A level's rate of change (a reading such as a concentration does not compound): Sen's slope of
+ * its complete years' values in units a year, and decade by decade when they reach into two or more.
+ */
+export interface GrowthLevelRateFinding {
+  type: 'growth_level_rate';
+  metric: string;
+  from: string;
+  to: string;
+  perYear: number;
+  byDecade: DecadeSlope[];
 }
 
 export interface GrowthDriverSegment {
@@ -172,6 +186,7 @@ export type GrowthFinding =
   | GrowthYearsFinding
   | GrowthYtdFinding
   | GrowthCagrFinding
+  | GrowthLevelRateFinding
   | GrowthDriversFinding
   | GrowthRateSummaryFinding
   | GrowthShareShiftFinding;

@@ -5,9 +5,9 @@ import { buildLine } from '../charts/build-line.js';
 import type { ChartSpec } from '../charts/spec.js';
 import { growthSeriesWords, growthVerdict, pickGrowthSeriesFindings } from '../captions/growth-series-caption.js';
 import { growthNotes } from '../captions/growth-words.js';
-import { metricByName } from '../catalog.js';
+import { metricByName, quantityKind } from '../catalog.js';
 import type { GrowthSeriesFinding } from '../findings/growth.js';
-import type { ValueFormat } from '../format.js';
+import { valueFormatOf, type ValueFormat } from '../format.js';
 import type { Answer } from '../types.js';
 import { chartFooter, chartSubtitle } from './header.js';
 import { withVerdict, type PresentContext, type Presenter } from './presenter.js';
@@ -37,6 +37,7 @@ function growthChart(answer: Answer, series: GrowthSeriesFinding, title: string,
     ...ctx.chart,
   };
   const lag = series.yoyLag;
+  if (quantityKind(metric) === 'level' && metric.unit !== 'percent' && lag !== null) return levelChangeLine(header, series, lag, valueFormatOf(metric, ctx.locale));
   const hasYoy = series.points.some((p) => p.yoy !== null);
   if (series.grain === 'month' && lag !== null && hasYoy) {
     // Months before the first year-earlier base can never hold a rate; a row of them would be empty.
@@ -61,4 +62,16 @@ function growthChart(answer: Answer, series: GrowthSeriesFinding, title: string,
     points,
     format: rateFormat,
   });
+}
+
+/** A level's change on a year earlier in its own units (a percentage grid would misstate a reading). */
+function levelChangeLine(header: Omit<Parameters<typeof buildLine>[0], 'seriesLabel' | 'grain' | 'points' | 'format'>, series: GrowthSeriesFinding, lag: number, format: ValueFormat): ChartSpec | null {
+  const usable = (p: GrowthSeriesFinding['points'][number] | undefined) => p !== undefined && !p.partial && p.value !== null;
+  const points = series.points.slice(lag).map((p, i) => {
+    const base = series.points[i];
+    return { period: p.period, value: usable(p) && usable(base) ? p.value! - base!.value! : null, partial: p.partial };
+  });
+  if (!points.some((p) => p.value !== null)) return null;
+  // The line is a change, not the reading itself: the subtitle says so first.
+  return buildLine({ ...header, subtitle: `change on a year earlier · ${header.subtitle}`, seriesLabel: 'Change on a year earlier', grain: series.grain, points, format });
 }

@@ -3,12 +3,13 @@
 // same day and month as the last day with data (year to date), all aggregated in the database so
 // ratio metrics stay ratios of sums. Growth rates are worked out in `read`.
 import type { DatasetConfig } from '../../config/schema.js';
-import { isAdditive, metricByName } from '../catalog.js';
+import { isAdditive, metricByName, quantityKind } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import { dataEnd } from '../coverage.js';
 import type {
   GrowthCagrFinding,
+  GrowthLevelRateFinding,
   GrowthPoint,
   GrowthSeriesFinding,
   GrowthYear,
@@ -17,7 +18,7 @@ import type {
 } from '../findings/growth.js';
 import { addDays, nextPeriod, periodsBetween, periodsPerYear, sameIsoWeekLastYear } from '../periods.js';
 import { QueryBuilder } from '../sql/query-builder.js';
-import { cagr, periodOverPeriod, relativeChange, trailingSumGrowth, yearOverYear } from '../stats/index.js';
+import { cagr, periodOverPeriod, relativeChange, senSlope, slopesByDecade, trailingSumGrowth, yearOverYear } from '../stats/index.js';
 import type { Caveat, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
 import { maxIso, minIso } from './growth-compare.js';
 import type { Reading, Template } from './template.js';
@@ -194,6 +195,7 @@ export function readGrowthSeries(
       if (c.rate === null) undefinedAt.push(from.year);
       findings.push(c);
     }
+    if (quantityKind(metricByName(dataset, metric)) === 'level' && completeYears.length >= 2) findings.push(levelRate(metric, completeYears));
     const ytd = readYtd(metric, rows, effectiveStart, effectiveEnd);
     if (ytd) {
       if (ytd.relative === null && ytd.current.value !== null) undefinedAt.push(ytd.prior.year);
@@ -204,6 +206,14 @@ export function readGrowthSeries(
     }
   }
   return { findings, caveats };
+}
+
+/** A level's change in units a year over its complete years, and decade by decade. */
+function levelRate(metric: string, years: readonly GrowthYear[]): GrowthLevelRateFinding {
+  const at = years.map((y) => ({ year: Number(y.year.slice(0, 4)), value: y.value! }));
+  const sen = senSlope(at.map((y) => y.value), at.map((y) => y.year));
+  const byDecade = slopesByDecade(at);
+  return { type: 'growth_level_rate', metric, from: years[0]!.year, to: years[years.length - 1]!.year, perYear: sen?.slope ?? 0, byDecade: byDecade.length >= 2 ? byDecade : [] };
 }
 
 /**

@@ -10,7 +10,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import type { TrendSeasonalityFinding, TrendSummaryFinding, TrendTestFinding } from '../../../analysis/findings/segments.js';
 import { renderChartWithGeometry } from '../../../analysis/charts/render.js';
-import type { SeasonalProfileSpec } from '../../../analysis/charts/spec.js';
+import type { LineSpec, SeasonalProfileSpec } from '../../../analysis/charts/spec.js';
+import type { GrowthLevelRateFinding } from '../../../analysis/findings/growth.js';
 import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import type { SubQuestion } from '../../../analysis/types.js';
 import type { TemplateName } from '../../../analysis/sub-questions/registry.js';
@@ -164,5 +165,35 @@ describe('a level (Mauna Loa CO2) is stated in its own units', () => {
       if (m.index > 0.05) expect(y).toBeLessThan(ref.y1);
       if (m.index < -0.05) expect(y).toBeGreaterThan(ref.y1);
     });
+  });
+
+  it('its growth is a change in ppm on the year before and a rate a year and a decade, decade by decade, with its chart in ppm', async () => {
+    const { answer, shown } = await present(question('growth_series'));
+    const rate = answer.findings.find((f): f is GrowthLevelRateFinding => f.type === 'growth_level_rate')!;
+    // Independent: the mean of each complete year's twelve readings in the CSV (1959–2019).
+    const yearly = new Map<number, number[]>();
+    for (const r of readings) yearly.set(r.year, [...(yearly.get(r.year) ?? []), r.co2]);
+    const means = [...yearly].filter(([y, v]) => v.length === 12 && y < 2020).map(([y, v]) => ({ year: y, mean: v.reduce((a, b) => a + b, 0) / 12 }));
+    expect(rate.from.slice(0, 4)).toBe(String(means[0]!.year));
+    expect(rate.to).toBe('2019-01-01');
+    expect(Math.abs(rate.perYear - olsSlope(means.map((m) => m.year), means.map((m) => m.mean)))).toBeLessThan(0.1);
+    // NOAA's decade means of the Mauna Loa annual growth rate (recalled from memory): 1960s about 0.86 ppm a year, 2010s about 2.4.
+    expect(rate.byDecade.map((x) => x.decade)).toEqual([1960, 1970, 1980, 1990, 2000, 2010]);
+    expect(Math.abs(rate.byDecade[0]!.perYear - 0.86)).toBeLessThan(0.15);
+    expect(Math.abs(rate.byDecade[5]!.perYear - 2.4)).toBeLessThan(0.15);
+    const [y2018, y2019] = [means.find((m) => m.year === 2018)!, means.find((m) => m.year === 2019)!];
+    expect(shown.caption).toContain(`2019: ${y2019.mean.toFixed(1)}\u00a0ppm, +${(y2019.mean - y2018.mean).toFixed(1)}\u00a0ppm on the year before`);
+    expect(shown.caption).toContain(`it rose about ${rate.perYear.toFixed(1)}\u00a0ppm a year (${(rate.perYear * 10).toFixed(1)}\u00a0ppm a decade)`);
+    expect(shown.caption).toContain('in the 1960s');
+    expect(`${shown.title} ${shown.caption}`).not.toMatch(/%|compound/);
+    expect(shown.takeaway?.verdict?.direction).toBe('up');
+    const spec = shown.chart as LineSpec;
+    expect(spec.kind).toBe('line');
+    expect(spec.format.label).toBe('ppm');
+    // The line is the change on the same month a year earlier, in ppm, from the CSV: March 2019 less March 2018.
+    const mar = (y: number) => readings.find((r) => r.date === `${y}-03-01`)!.co2;
+    expect(spec.points.find((p) => p.period === '2019-03-01')!.value).toBeCloseTo(mar(2019) - mar(2018), 9);
+    const { png } = await renderChartWithGeometry(spec);
+    if (process.env.TC_CHART_DIR) writeFileSync(join(process.env.TC_CHART_DIR, 'co2-growth.png'), png);
   });
 });
