@@ -1,20 +1,14 @@
 // The DuckDB source maps its engine's errors to the same SourceError codes as the PostgreSQL
 // source, so the bot's replies do not depend on the engine.
-import { afterAll, beforeAll, expect, it } from 'vitest';
+import { expect, it } from 'vitest';
 import { SourceError } from '../../analysis/sources/data-source.js';
-import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
-import { loadConfig } from '../../config/load.js';
-import { demoFixture } from '../helpers/demo-fixture.js';
+import { useDemoWorkspace } from '../helpers/demo-fixture.js';
 
-let ws: Workspace;
-beforeAll(async () => {
-  ws = await openWorkspace(loadConfig((await demoFixture()).configPath));
-});
-afterAll(async () => ws?.source.close());
+const demoWorkspace = useDemoWorkspace();
 
 async function failureOf(sql: string): Promise<SourceError> {
   try {
-    await ws.source.run({ sql, params: [] }, ws.runOptions);
+    await demoWorkspace().source.run({ sql, params: [] }, demoWorkspace().runOptions);
   } catch (err) {
     if (err instanceof SourceError) return err;
     throw err;

@@ -3,15 +3,13 @@
 // deadline still gets its warning, also when it replaces an "asap". The real bot on the demo data
 // (invented), state in memory; the reader's own checks on the example catalog.
 import pLimit from 'p-limit';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
+import { describe, expect, it } from 'vitest';
 import { Bot } from '../../bot/Bot.js';
 import { presentAnswer, presentSummary } from '../../bot/present-answer.js';
 import { readCorrection } from '../../bot/reading/corrections.js';
 import { readRequest } from '../../bot/reading/read-request.js';
 import { MemoryStateStore } from '../../bot/stores/MemoryStateStore.js';
-import { loadConfig } from '../../config/load.js';
-import { demoFixture } from '../helpers/demo-fixture.js';
+import { useDemoWorkspace } from '../helpers/demo-fixture.js';
 import { exampleFacts } from '../helpers/example-facts.js';
 import { RecordingPort } from '../helpers/recording-port.js';
 
@@ -33,17 +31,13 @@ describe('reading "as soon as possible"', () => {
   });
 });
 
-let ws: Workspace;
-beforeAll(async () => {
-  ws = await openWorkspace(loadConfig((await demoFixture()).configPath));
-}, 300_000);
-afterAll(async () => ws?.source.close());
+const demoWorkspace = useDemoWorkspace();
 
 function setUp() {
   const port = new RecordingPort();
   let clock = new Date('2026-12-01T09:00:00Z');
   const bot = new Bot({
-    workspace: ws, port, store: new MemoryStateStore(), now: () => clock, presentAnswer, presentSummary, jobs: pLimit(1),
+    workspace: demoWorkspace(), port, store: new MemoryStateStore(), now: () => clock, presentAnswer, presentSummary, jobs: pLimit(1),
     timings: { remindAfterMs: 24 * 3_600_000, deadlineWarningMs: 24 * 3_600_000 },
   });
   const warnings = (thread: string) => port.inThread(thread).filter((m) => /deadline .* is close/i.test(m.text));

@@ -3,21 +3,15 @@
 // working on it" and then a thread that ended without the run asked for. The real bot on the
 // demo data (invented), with the first answer held back until the follow-ups are in.
 import pLimit from 'p-limit';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
+import { describe, expect, it } from 'vitest';
 import { Bot } from '../../bot/Bot.js';
 import { presentAnswer, presentSummary } from '../../bot/present-answer.js';
 import type { AnswerPresenter } from '../../bot/presenters.js';
 import { MemoryStateStore } from '../../bot/stores/MemoryStateStore.js';
-import { loadConfig } from '../../config/load.js';
-import { demoFixture } from '../helpers/demo-fixture.js';
+import { useDemoWorkspace } from '../helpers/demo-fixture.js';
 import { RecordingPort } from '../helpers/recording-port.js';
 
-let ws: Workspace;
-beforeAll(async () => {
-  ws = await openWorkspace(loadConfig((await demoFixture()).configPath));
-}, 300_000);
-afterAll(async () => ws?.source.close());
+const demoWorkspace = useDemoWorkspace();
 
 /** A bot whose first answer waits for `release()`, so messages can arrive mid-run. */
 function setUp() {
@@ -33,7 +27,7 @@ function setUp() {
     }
     return presentAnswer(answer, ctx);
   };
-  const bot = new Bot({ workspace: ws, port, store, now: () => new Date('2026-12-01T09:00:00Z'), presentAnswer: held, presentSummary, jobs: pLimit(1) });
+  const bot = new Bot({ workspace: demoWorkspace(), port, store, now: () => new Date('2026-12-01T09:00:00Z'), presentAnswer: held, presentSummary, jobs: pLimit(1) });
   return { port, store, bot, release };
 }
 

@@ -2,28 +2,22 @@
 // the dataset since the plan was agreed gets the refusal in the thread, the run is cancelled and
 // the audit log says why; with the rules unchanged the run carries on.
 import pLimit from 'p-limit';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
+import { describe, expect, it } from 'vitest';
 import { Bot } from '../../bot/Bot.js';
 import { presentAnswer, presentSummary } from '../../bot/present-answer.js';
 import { MemoryStateStore } from '../../bot/stores/MemoryStateStore.js';
 import type { AccessConfig } from '../../config/schema.js';
-import { loadConfig } from '../../config/load.js';
-import { demoFixture } from '../helpers/demo-fixture.js';
+import { useDemoWorkspace } from '../helpers/demo-fixture.js';
 import { RecordingPort } from '../helpers/recording-port.js';
 
-let ws: Workspace;
-beforeAll(async () => {
-  ws = await openWorkspace(loadConfig((await demoFixture()).configPath));
-});
-afterAll(async () => ws?.source.close());
+const demoWorkspace = useDemoWorkspace();
 
 const now = new Date('2026-12-01T09:00:00Z');
 const open: AccessConfig = { channels: [{ match: 'local', datasets: ['bookings'] }], default_datasets: [] };
 const closed: AccessConfig = { channels: [{ match: 'slack:*', datasets: ['bookings'] }], default_datasets: [] };
 
 async function stoppedPartWay(store: MemoryStateStore, port: RecordingPort, threadId: string): Promise<number> {
-  const bot = new Bot({ workspace: ws, access: open, port, store, now: () => now, presentAnswer, presentSummary, jobs: pLimit(1) });
+  const bot = new Bot({ workspace: demoWorkspace(), access: open, port, store, now: () => now, presentAnswer, presentSummary, jobs: pLimit(1) });
   const say = async (text: string) => {
     await bot.handle({ threadId, author: 'maren', text, channel: 'local' });
     await bot.idle();
@@ -42,7 +36,7 @@ describe('a run resumed after a restart', () => {
   it('is cancelled with the refusal when its channel may no longer use the dataset', async () => {
     const [store, port] = [new MemoryStateStore(), new RecordingPort()];
     const answersBefore = await stoppedPartWay(store, port, 'local:r1');
-    const restarted = new Bot({ workspace: ws, access: closed, port, store, now: () => now, presentAnswer, presentSummary, jobs: pLimit(1) });
+    const restarted = new Bot({ workspace: demoWorkspace(), access: closed, port, store, now: () => now, presentAnswer, presentSummary, jobs: pLimit(1) });
     await restarted.resume();
     await restarted.idle();
     const thread = port.inThread('local:r1');
@@ -59,7 +53,7 @@ describe('a run resumed after a restart', () => {
   it('carries on when the rules still allow it', async () => {
     const [store, port] = [new MemoryStateStore(), new RecordingPort()];
     await stoppedPartWay(store, port, 'local:r2');
-    const restarted = new Bot({ workspace: ws, access: open, port, store, now: () => now, presentAnswer, presentSummary, jobs: pLimit(1) });
+    const restarted = new Bot({ workspace: demoWorkspace(), access: open, port, store, now: () => now, presentAnswer, presentSummary, jobs: pLimit(1) });
     await restarted.resume();
     await restarted.idle();
     expect((await store.get('local:r2'))!.stage).toBe('done');

@@ -7,30 +7,24 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import pLimit from 'p-limit';
 import pg from 'pg';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
+import { afterAll, describe, expect, it } from 'vitest';
 import { Bot } from '../../bot/Bot.js';
 import { presentAnswer, presentSummary } from '../../bot/present-answer.js';
 import { DuckDbStateStore } from '../../bot/stores/DuckDbStateStore.js';
 import { PostgresStateStore } from '../../bot/stores/PostgresStateStore.js';
 import type { StateStore } from '../../bot/thread-state.js';
-import { loadConfig } from '../../config/load.js';
-import { demoFixture } from '../helpers/demo-fixture.js';
+import { useDemoWorkspace } from '../helpers/demo-fixture.js';
 import { describeWithPostgres, uniqueName, withClient } from '../helpers/postgres.js';
 import { RecordingPort } from '../helpers/recording-port.js';
 
-let ws: Workspace;
-beforeAll(async () => {
-  ws = await openWorkspace(loadConfig((await demoFixture()).configPath));
-});
-afterAll(async () => ws?.source.close());
+const demoWorkspace = useDemoWorkspace();
 
 function scheduled(kindName: string, open: () => Promise<StateStore[]>): void {
   it(`reruns a finished thread when due, once, in the same thread, until stopped (${kindName})`, async () => {
     const stores = await open();
     const port = new RecordingPort();
     let clock = new Date('2026-12-04T15:00:00Z');
-    const bots = stores.map((store, i) => new Bot({ workspace: ws, port, store, now: () => clock, presentAnswer, presentSummary, jobs: pLimit(2), replica: `r${i}` }));
+    const bots = stores.map((store, i) => new Bot({ workspace: demoWorkspace(), port, store, now: () => clock, presentAnswer, presentSummary, jobs: pLimit(2), replica: `r${i}` }));
     const [first] = bots;
     const say = async (text: string) => {
       await first!.handle({ threadId: 't1', author: 'maren', text });

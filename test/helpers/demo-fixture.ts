@@ -4,7 +4,10 @@ import { rmSync } from 'node:fs';
 import { mkdir, mkdtemp, readdir, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { afterAll, beforeAll } from 'vitest';
+import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
 import { generateDemo, type DemoResult } from '../../config/demo/generate-demo.js';
+import { loadConfig } from '../../config/load.js';
 
 // One folder per process, named "<pid>-<random>": test workers are often killed rather than
 // exited, so each build also removes the folders of processes that no longer run.
@@ -20,6 +23,22 @@ export async function demoFixture(rows = 200_000): Promise<DemoResult> {
     demo.catch(() => built.delete(rows));
   }
   return demo;
+}
+
+/**
+ * The demo's workspace for the tests of one file (or describe block): opened before them, closed
+ * after. Read it through the returned function once the tests run.
+ */
+export function useDemoWorkspace(): () => Workspace {
+  let ws: Workspace | undefined;
+  beforeAll(async () => {
+    ws = await openWorkspace(loadConfig((await demoFixture()).configPath));
+  }, 300_000);
+  afterAll(async () => ws?.source.close());
+  return () => {
+    if (!ws) throw new Error('the demo workspace is opened in beforeAll: read it inside a test');
+    return ws;
+  };
 }
 
 async function build(rows: number): Promise<DemoResult> {
