@@ -124,6 +124,15 @@ export function quantityKind(metric: Metric): MetricKind {
   }
 }
 
+/**
+ * The metric's good direction: true when higher is better, false when lower is, null when the config
+ * says neither (a count of unemployed, a price): then changes are told as rises and falls, never as
+ * better or worse.
+ */
+export function metricDirection(metric: Metric): boolean | null {
+  return metric.higher_is_better ?? null;
+}
+
 /** How a metric's seasonal cycle is measured: a level swings in its own units, a flow or ratio in proportion. */
 export function seasonalModel(metric: Metric): SeasonalModel {
   return quantityKind(metric) === 'level' ? 'additive' : 'multiplicative';

@@ -40,8 +40,9 @@ export async function draftConfigFile(opts: InitOptions): Promise<{ summary: str
       `# Drafted by threadcount init from ${config.kind === 'postgres' ? `the table ${table}` : opts.source} (${profile.rows.toLocaleString('en')} rows read).`,
       '# Review it: each metric says how it adds up (sum, count, count_distinct, average, ratio, rate)',
       '# and its kind (flow: adds up over time; level: a reading averaged over time; ratio). Fill in',
-      '# `also_called` with the words requesters use, set units, currency and higher_is_better, and',
-      '# keep personal_data on columns that hold people\'s details. Then: threadcount check --config FILE',
+      '# `also_called` with the words requesters use, set units and currency, set higher_is_better where',
+      '# more is better (true) or worse (false): left out, changes are told as rises and falls. Keep',
+      '# personal_data on columns that hold people\'s details. Then: threadcount check --config FILE',
       '',
     ].join('\n');
     writeFileSync(opts.out, `${header}${withComments(draft.config, draft.comments)}`);

@@ -78,7 +78,7 @@ export const fileMetricSchema = z
     currency: z.string().length(3).optional(),
     decimals: z.number().int().min(0).max(6).optional(),
     unit_label: unitLabelSchema.optional(),
-    higher_is_better: z.boolean(),
+    higher_is_better: z.boolean().optional(),
     kind: metricKindSchema.optional(),
     // Before: definition: {type, ...} and synonyms.
     definition: legacyDefinitionSchema.optional(),

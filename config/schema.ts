@@ -62,7 +62,7 @@ export const metricSchema = z
     decimals: z.number().int().min(0).max(6).optional(),
     // Written after every value of a count or number ("ppm", "°C", "staff"): see analysis/format.ts.
     unit_label: unitLabelSchema.optional(),
-    higher_is_better: z.boolean(),
+    higher_is_better: z.boolean().optional(),
     kind: metricKindSchema.optional(),
   })
   .strict();

@@ -1,4 +1,5 @@
 // Title and caption of a KPI snapshot, written only from its finding and the catalog.
+import { metricDirection } from '../catalog.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { KpiDelta, KpiSnapshotFinding } from '../findings/kpi.js';
 import { formatValue, valueFormatOf } from '../format.js';
@@ -75,7 +76,7 @@ function judgement(
   metric: Metric,
   locale: string,
 ): string | null {
-  const direction = metric.higher_is_better ? 'higher is better' : 'lower is better';
+  const direction = metricDirection(metric) === false ? 'lower is better' : 'higher is better';
   const known = verdicts.filter((v) => v !== null);
   if (known.length === 0) return null;
   if (known.length === verdicts.length && known.every((v) => v === known[0])) {

@@ -1,5 +1,6 @@
 // Words the KPI captions share: a change against a
 // comparison point, period names and segment labels. Every number and date goes through format.ts.
+import { metricDirection } from '../catalog.js';
 import type { DatasetConfig, Dimension, Metric } from '../../config/schema.js';
 import type { KpiDelta, SegmentKey } from '../findings/kpi.js';
 import { formatChange, formatPeriod, formatValue, valueFormatOf } from '../format.js';
@@ -84,7 +85,9 @@ export function signedChange(d: KpiDelta | null, metric: Metric, locale: string)
 export function verdict(d: KpiDelta, metric: Metric): 'better' | 'worse' | null {
   const dir = directionOf(d, metric);
   if (dir === 'none' || dir === 'level') return null;
-  return (dir === 'up') === metric.higher_is_better ? 'better' : 'worse';
+  const good = metricDirection(metric);
+  if (good === null) return null;
+  return (dir === 'up') === good ? 'better' : 'worse';
 }
 
 /** A period's long name: "May 2025", "Q2 2025", "week commencing 5 May 2025". */

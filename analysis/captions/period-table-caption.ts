@@ -133,13 +133,25 @@ function recentClause(table: PeriodTableFinding, latest: TableLatestFinding, quo
 function marksSentence(table: PeriodTableFinding, ds: DatasetConfig, locale: string): string {
   const best: string[] = [];
   const worst: string[] = [];
+  const highest: string[] = [];
+  const lowest: string[] = [];
   for (const col of table.columns) {
     if (!col.high || !col.low) continue;
     const m = metricByName(ds, col.metric);
+    const at = (x: NonNullable<typeof col.high>) => `${inSentence(m.label)} ${period(x.period, table.grain, locale)} (${valueShort(x.value, m, locale)})`;
+    // A metric with no good direction has a highest and a lowest, not a best and a worst.
+    if (col.higherIsBetter === null) {
+      highest.push(at(col.high));
+      lowest.push(at(col.low));
+      continue;
+    }
     const [b, w] = col.higherIsBetter ? [col.high, col.low] : [col.low, col.high];
-    best.push(`${inSentence(m.label)} ${period(b.period, table.grain, locale)} (${valueShort(b.value, m, locale)})`);
-    worst.push(`${inSentence(m.label)} ${period(w.period, table.grain, locale)} (${valueShort(w.value, m, locale)})`);
+    best.push(at(b));
+    worst.push(at(w));
   }
-  if (best.length === 0) return '';
-  return `Best ${table.grain}s: ${best.join('; ')}. Worst: ${worst.join('; ')}.`;
+  const sentences = [
+    best.length ? `Best ${table.grain}s: ${best.join('; ')}. Worst: ${worst.join('; ')}.` : '',
+    highest.length ? `Highest ${table.grain}s: ${highest.join('; ')}. Lowest: ${lowest.join('; ')}.` : '',
+  ];
+  return sentences.filter(Boolean).join(' ');
 }

@@ -17,7 +17,7 @@ export interface GrowthCell {
 
 export interface GrowthGridInput extends ChartHeader {
   cells: GrowthCell[];
-  higherIsBetter: boolean;
+  higherIsBetter: boolean | null;
   locale: string;
   legendLabel?: string;
 }

@@ -11,7 +11,7 @@ export interface KpiValue {
 export interface KpiCardInput extends ChartHeader {
   metricLabel: string;
   format: ValueFormat;
-  higherIsBetter: boolean;
+  higherIsBetter: boolean | null;
   grain: Grain;
   current: KpiValue;
   previous?: KpiValue;
@@ -42,7 +42,7 @@ function compare(
   base: KpiValue,
   fmt: ValueFormat,
   grain: Grain,
-  higherIsBetter: boolean,
+  higherIsBetter: boolean | null,
 ): KpiComparison {
   const label = `vs ${formatPeriod(base.period, grain, fmt.locale, 'long')}`;
   const baseText = formatValue(base.value, fmt);
@@ -58,6 +58,6 @@ function compare(
   const size = relative ?? (diff === 0 ? 0 : Math.sign(diff));
   const direction = Math.abs(size) < FLAT ? 'flat' : diff > 0 ? 'up' : 'down';
   const sentiment =
-    direction === 'flat' ? 'neutral' : (direction === 'up') === higherIsBetter ? 'good' : 'bad';
+    direction === 'flat' || higherIsBetter === null ? 'neutral' : (direction === 'up') === higherIsBetter ? 'good' : 'bad';
   return { label, changeText, baseText, direction, sentiment };
 }

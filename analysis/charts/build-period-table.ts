@@ -1,6 +1,7 @@
 // The period table as chart specs: every text formatted, every change cell placed on its column's
 // diverging colour scale, and a long window split into pages of at most PAGE_ROWS periods (whole
 // years together where they fit) rather than shrunk. Pure: the renderer only draws what is here.
+import { metricDirection } from '../catalog.js';
 import type { Metric } from '../../config/schema.js';
 import { changeText } from '../captions/period-table-caption.js';
 import type { ChangeBasis, PeriodTableCell } from '../findings/table.js';
@@ -120,7 +121,8 @@ function changeCell(change: number | null, m: PeriodTableMetric, domain: number,
   const { text, direction } = changeText(change, m.basis, m.metric, locale, false);
   if (direction === 'none') return { text, tone: null, direction: null, mark: null };
   const size = Math.max(-1, Math.min(1, change! / domain));
-  const tone = direction === 'flat' ? 0 : m.metric.higher_is_better ? size : -size;
+  const good = metricDirection(m.metric);
+  const tone = direction === 'flat' || good === null ? 0 : good ? size : -size;
   return { text, tone: tone === 0 ? 0 : tone, direction, mark: null };
 }
 

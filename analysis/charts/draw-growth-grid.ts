@@ -4,7 +4,7 @@ import { emptyGeometry, scaleBox, type DrawResult, type Box } from './geometry.j
 import type { GrowthCellState, GrowthGridRow, GrowthGridSpec } from './spec.js';
 import { fitFontSize } from './text.js';
 import { luminance, mix } from './colour.js';
-import { font, INK, SENTIMENT } from './theme.js';
+import { font, INK, OKABE_ITO, SENTIMENT } from './theme.js';
 
 const NEUTRAL = '#F3F4F6';
 const PARTIAL_FILL = '#F7F8FA';
@@ -44,11 +44,13 @@ function drawPartialCell(ctx: ReturnType<Canvas['getContext']>, box: { left: num
 }
 
 /** Diverging fill: neutral near zero, blue for good growth, vermillion for bad. */
-export function growthColour(value: number, domain: number, higherIsBetter: boolean): string {
+export function growthColour(value: number, domain: number, higherIsBetter: boolean | null): string {
   const t = Math.max(-1, Math.min(1, value / (domain > 0 ? domain : 1)));
-  const good = t > 0 === higherIsBetter;
   // A slight ease-out so small but real changes are already visibly tinted.
   const strength = Math.pow(Math.abs(t), 0.8);
+  // With no good direction, rises and falls take a pair of colours that judge neither.
+  if (higherIsBetter === null) return mix(NEUTRAL, t > 0 ? OKABE_ITO.skyBlue : OKABE_ITO.orange, strength * 0.95);
+  const good = t > 0 === higherIsBetter;
   return mix(NEUTRAL, good ? SENTIMENT.good : SENTIMENT.bad, strength * 0.95);
 }
 

@@ -149,8 +149,8 @@ export interface GrowthGridSpec extends ChartHeader {
   rows: GrowthGridRow[];
   /** Colour scale runs from −domain (full "worse" colour) to +domain (full "better" colour). */
   domain: number;
-  /** Decides which direction is coloured as good (blue) and which as bad (vermillion). */
-  higherIsBetter: boolean;
+  /** Decides which direction is coloured as good (blue) and which as bad (vermillion); null: neither (sky blue and orange). */
+  higherIsBetter: boolean | null;
   /** Legend caption, e.g. "Change vs same month a year earlier". */
   legendLabel: string;
   /** Texts of the legend's two ends and middle, e.g. ["−20%", "0%", "+20%"]. */

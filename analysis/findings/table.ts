@@ -41,7 +41,7 @@ export interface PeriodTableColumn {
   /** The metric's kind of quantity (analysis/catalog.ts metricKind): it sets the change's basis and the total's rule. */
   kind: MetricKind;
   basis: ChangeBasis;
-  higherIsBetter: boolean;
+  higherIsBetter: boolean | null;
   total: { rule: TotalRule; value: number | null };
   /** Highest and lowest complete periods (ties keep the earliest); null with fewer than two distinct values. */
   high: PeriodExtreme | null;

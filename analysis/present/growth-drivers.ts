@@ -4,7 +4,7 @@ import { buildBars } from '../charts/build-bars.js';
 import type { BarsSpec } from '../charts/spec.js';
 import { growthDriversWords, spansVerdict } from '../captions/growth-drivers-caption.js';
 import { growthNotes, segmentText } from '../captions/growth-words.js';
-import { metricByName } from '../catalog.js';
+import { metricByName, metricDirection } from '../catalog.js';
 import type { GrowthDriversFinding } from '../findings/growth.js';
 import { valueFormatOf } from '../format.js';
 import type { Answer, Finding } from '../types.js';
@@ -49,7 +49,7 @@ function driversChart(answer: Answer, f: GrowthDriversFinding, title: string, ct
     format: valueFormatOf(metric, ctx.locale),
     // A change reads with its sign ("+€32.9K", "−€19.2K"), a rise in the metric's good colour.
     signed: true,
-    higherIsBetter: metric.higher_is_better,
+    higherIsBetter: metricDirection(metric) ?? undefined,
   });
 }
 

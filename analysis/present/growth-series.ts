@@ -5,7 +5,7 @@ import { buildLine } from '../charts/build-line.js';
 import type { ChartSpec } from '../charts/spec.js';
 import { growthSeriesWords, growthVerdict, pickGrowthSeriesFindings } from '../captions/growth-series-caption.js';
 import { growthNotes } from '../captions/growth-words.js';
-import { metricByName, quantityKind } from '../catalog.js';
+import { metricByName, metricDirection, quantityKind } from '../catalog.js';
 import type { GrowthSeriesFinding } from '../findings/growth.js';
 import { valueFormatOf, type ValueFormat } from '../format.js';
 import type { Answer } from '../types.js';
@@ -17,7 +17,7 @@ export const presentGrowthSeries: Presenter = (answer, ctx) => {
   const metric = metricByName(ctx.dataset, sq.metrics[0]!);
   const found = pickGrowthSeriesFindings(answer.findings, metric.name);
   const words = growthSeriesWords(metric, sq.grain, found, ctx.locale, ctx.audience);
-  const chart = found.series ? growthChart(answer, found.series, words.title, metric.higher_is_better, ctx) : null;
+  const chart = found.series ? growthChart(answer, found.series, words.title, metricDirection(metric), ctx) : null;
   return {
     title: words.title,
     caption: words.caption,
@@ -27,7 +27,7 @@ export const presentGrowthSeries: Presenter = (answer, ctx) => {
   };
 };
 
-function growthChart(answer: Answer, series: GrowthSeriesFinding, title: string, higherIsBetter: boolean, ctx: PresentContext): ChartSpec | null {
+function growthChart(answer: Answer, series: GrowthSeriesFinding, title: string, higherIsBetter: boolean | null, ctx: PresentContext): ChartSpec | null {
   const metric = metricByName(ctx.dataset, series.metric);
   const header = {
     title,

@@ -2,7 +2,7 @@
 // caption stating the latest complete period against the period before and a year earlier.
 import { buildKpiCard } from '../charts/build-kpi-card.js';
 import { kpiSnapshotWords } from '../captions/kpi-snapshot-caption.js';
-import { metricByName } from '../catalog.js';
+import { metricByName, metricDirection } from '../catalog.js';
 import type { KpiSnapshotFinding } from '../findings/kpi.js';
 import { valueFormatOf } from '../format.js';
 import { comparedText, findingOf, kpiHeader, kpiNotes, kpiSubtitle } from './kpi-header.js';
@@ -21,7 +21,7 @@ export const presentKpiSnapshot: Presenter = (answer, ctx) => {
     ...kpiHeader(answer, metric, words.title, subtitle, ctx),
     metricLabel: metric.label,
     format: valueFormatOf(metric, ctx.locale),
-    higherIsBetter: metric.higher_is_better,
+    higherIsBetter: metricDirection(metric),
     grain: f.grain,
     current: { period: f.period, value: f.value },
     previous: { period: f.previous.period, value: f.previous.value },

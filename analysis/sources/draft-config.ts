@@ -82,6 +82,18 @@ const PERSON_COLUMN = /(^|_)(name)$/;
 const LEVEL_WORDS = /(^|_)(temp|temperature|level|balance|concentration|co2|ppm|price|index|rate|ratio|pct|percent|share|avg|mean|average|headcount|stock|inventory|population|pressure|humidity|speed|wind|latitude|longitude|lat|lon|lng|score|age|height|weight)($|_|\d)/;
 // Amounts that add up over time whatever the data's shape (a flow).
 const FLOW_WORDS = /(^|_)(revenue|sales|amount|spend|spent|cost|costs|paid|income|sold|orders|bookings|visits|trips|births|deaths|arrivals|departures|volume|quantity|qty|units|takings|fares|tickets|calls|clicks|views|downloads)($|_|\d)/;
+// Names that say which way is good. Anything else is left without a direction: its changes are told
+// as rises and falls, never as better or worse (a count of unemployed, a price).
+const GOOD_WHEN_HIGHER = /(^|_)(revenue|sales|profit|income|margin|satisfaction|satisfied|retention|conversion|uptime|on_?time)($|_|\d)/;
+const GOOD_WHEN_LOWER = /(^|_)(unemploy\w*|jobless|error|errors|failure|failures|failed|defect|defects|complaint|complaints|churn|cancel\w*|delay|delays|delayed|late|loss|losses|cost|costs|latency|downtime|refund|refunds)($|_|\d)/;
+
+/** `higher_is_better` when the column's name settles it; nothing otherwise. */
+function directionOf(name: string): { higher_is_better?: boolean } {
+  if (GOOD_WHEN_LOWER.test(name)) return { higher_is_better: false };
+  if (GOOD_WHEN_HIGHER.test(name)) return { higher_is_better: true };
+  return {};
+}
+
 const ID_WORDS = /(^|_)(id|key|uuid|code)$/;
 const YEAR = /^(year|yr|yyyy)$/;
 const MONTH = /^(month|mon|mm)$/;
@@ -178,7 +190,7 @@ export function draftConfig(input: DraftInput): Draft {
   const comments: Record<string, string> = {};
   const rowsName = unique('rows');
   comments[rowsName] = ' drafted by init: the number of rows';
-  const metrics: Record<string, unknown>[] = [{ name: rowsName, label: 'Rows', also_called: [], count: 'rows', unit: 'count', higher_is_better: true, kind: 'flow' }];
+  const metrics: Record<string, unknown>[] = [{ name: rowsName, label: 'Rows', also_called: [], count: 'rows', unit: 'count', kind: 'flow' }];
   const dimensions: Record<string, unknown>[] = [];
   let keyColumn: string | undefined;
   // With a date column, its year, month and day columns repeat it: never amounts to add up.
@@ -196,11 +208,11 @@ export function draftConfig(input: DraftInput): Draft {
     const idLike = ID_WORDS.test(name) || (c.values === input.rows && input.rows > 100 && c.family !== 'number');
     if (idLike) {
       if (!keyColumn && c.values === c.nonNull && c.values === input.rows) keyColumn = c.name;
-      else metrics.push({ name: unique(`distinct_${name}`), label: `Distinct ${labelOf(c.name).toLowerCase()}`, also_called: [], count_distinct: columnExpr(c.name), unit: 'count', higher_is_better: true, kind: 'flow' });
+      else metrics.push({ name: unique(`distinct_${name}`), label: `Distinct ${labelOf(c.name).toLowerCase()}`, also_called: [], count_distinct: columnExpr(c.name), unit: 'count', kind: 'flow' });
       continue;
     }
     if (c.family === 'boolean') {
-      metrics.push({ name: unique(`${name}_rate`), label: `${labelOf(c.name)} rate`, also_called: [], rate: { when: { column: c.name, is: true } }, unit: 'percent', higher_is_better: true, kind: 'ratio' });
+      metrics.push({ name: unique(`${name}_rate`), label: `${labelOf(c.name)} rate`, also_called: [], rate: { when: { column: c.name, is: true } }, unit: 'percent', ...directionOf(name), kind: 'ratio' });
       continue;
     }
     if (c.family === 'number') {
@@ -219,8 +231,8 @@ export function draftConfig(input: DraftInput): Draft {
       else comments[metricName] = ` drafted by init: a flow, added up over time (make it average and kind: level if it is a reading such as a balance)`;
       metrics.push(
         named || reading
-          ? { name: metricName, label: labelOf(c.name), also_called: [], average: columnExpr(c.name), unit: 'number', higher_is_better: true, kind: 'level' }
-          : { name: metricName, label: labelOf(c.name), also_called: [], sum: columnExpr(c.name), unit: 'number', higher_is_better: true, kind: 'flow' },
+          ? { name: metricName, label: labelOf(c.name), also_called: [], average: columnExpr(c.name), unit: 'number', ...directionOf(name), kind: 'level' }
+          : { name: metricName, label: labelOf(c.name), also_called: [], sum: columnExpr(c.name), unit: 'number', ...directionOf(name), kind: 'flow' },
       );
       continue;
     }

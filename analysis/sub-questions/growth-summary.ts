@@ -10,5 +10,5 @@ export const growthSummarySubQuestion = defineSubQuestion({
   rollup: {},
   template: growthSummaryTemplate,
   present: presentGrowthSummary,
-  describe: (w) => `Summary of ${w.grain} growth rates of ${w.metric}: best, worst, typical.`,
+  describe: (w) => `Summary of ${w.grain} growth rates of ${w.metric}: highest, lowest, typical.`,
 });

@@ -4,7 +4,7 @@
 // the database, because a ratio or a distinct count of "All others" cannot be added up from the
 // segments' own values.
 import type { DatasetConfig } from '../../config/schema.js';
-import { groupableDimension, metricByName } from '../catalog.js';
+import { groupableDimension, metricByName, metricDirection } from '../catalog.js';
 import { datesCondition, measureSql, rowCountSql, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type { KpiBySegmentFinding, KpiSegmentRow, SegmentKey } from '../findings/kpi.js';
@@ -181,8 +181,8 @@ export function readKpiBySegment(sq: SubQuestion, table: ResultTable, dataset: D
     const point = (byPeriod: Map<string, Row>): Omit<KpiSegmentRow, 'key' | 'other' | 'segments'> => {
       const value = numberOrNull(byPeriod.get(latest)?.[name]);
       const base = (p: string | null) => (usable(p) ? numberOrNull(byPeriod.get(p!)?.[name]) : null);
-      const prev = kpiDelta(value, previous, base(previous), metric.higher_is_better);
-      const ly = lastYear === null ? null : kpiDelta(value, lastYear, base(lastYear), metric.higher_is_better);
+      const prev = kpiDelta(value, previous, base(previous), metricDirection(metric));
+      const ly = lastYear === null ? null : kpiDelta(value, lastYear, base(lastYear), metricDirection(metric));
       zeroBase ||= baseIsZero(prev, value) || baseIsZero(ly, value);
       return { value, rows: Number(byPeriod.get(latest)?.row_count ?? 0), previous: prev, lastYear: ly };
     };

@@ -2,14 +2,14 @@
 import type { KpiDelta } from '../findings/kpi.js';
 import { relativeChange } from '../stats/index.js';
 
-export function kpiDelta(latest: number | null, period: string, base: number | null, higherIsBetter: boolean): KpiDelta {
+export function kpiDelta(latest: number | null, period: string, base: number | null, higherIsBetter: boolean | null): KpiDelta {
   const absolute = latest !== null && base !== null ? latest - base : null;
   return {
     period,
     value: base,
     absolute,
     relative: relativeChange(base, latest),
-    improved: absolute === null || absolute === 0 ? null : absolute > 0 === higherIsBetter,
+    improved: absolute === null || absolute === 0 || higherIsBetter === null ? null : absolute > 0 === higherIsBetter,
   };
 }
 

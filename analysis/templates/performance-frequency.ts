@@ -2,7 +2,7 @@
 // books, members vs others. SQL aggregates per unit and then summarises per group (mean, spread,
 // median, p90, frequency buckets); Welch's t-test compares the means per unit, with their ratio.
 import type { Metric } from '../../config/schema.js';
-import { isCountMetric } from '../catalog.js';
+import { isCountMetric, metricDirection } from '../catalog.js';
 import { type CompileContext, tableRef, whereClause } from '../compile-context.js';
 import type { GroupRole, PerformanceFrequencyGroupFinding } from '../findings/performance.js';
 import { metricAggregate } from '../sql/metric-sql.js';
@@ -163,7 +163,7 @@ export const performanceFrequencyTemplate: Template = {
     }
     const result = compareCells(cells.members, cells.others, CONFIDENCE);
     findings.push(differenceFinding(metric.name, 'members_vs_others', 'mean', result, cells.members.n, cells.others.n));
-    const v = verdictOf(result, metric.higher_is_better, ALPHA);
+    const v = verdictOf(result, metricDirection(metric), ALPHA);
     const ratio = cells.others.n > 0 && cells.members.n > 0 && cells.others.mean !== 0 ? cells.members.mean / cells.others.mean : null;
     findings.push({
       type: 'performance_verdict',
@@ -171,7 +171,7 @@ export const performanceFrequencyTemplate: Template = {
       comparison: 'members_vs_others',
       ...v,
       alpha: ALPHA,
-      higherIsBetter: metric.higher_is_better,
+      higherIsBetter: metricDirection(metric),
       relative: ratio === null ? null : ratio - 1,
     });
     if (ratio !== null) {

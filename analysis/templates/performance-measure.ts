@@ -3,7 +3,7 @@
 // back from a result row. Only summary rows per group ever reach Node.
 import type { ColumnFilter, ComparisonGroup, DatasetConfig, Metric, MetricDefinition } from '../../config/schema.js';
 import type { MeasureKind, Quantity } from '../findings/performance.js';
-import { metricByName, namedUnitDimension } from '../catalog.js';
+import { metricByName, namedUnitDimension, metricDirection } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql } from '../compile-context.js';
 import { filterCondition, metricAggregate } from '../sql/metric-sql.js';
 import { duckdbDialect } from '../sql/dialect.js';
@@ -119,7 +119,7 @@ export function planComparison(q: QueryBuilder, ds: DatasetConfig, metric: Metri
  * more); null when there is no good direction.
  */
 export function goodDirection(metric: Metric, quantity: Quantity): boolean | null {
-  return quantity === 'per_day' ? null : metric.higher_is_better;
+  return quantity === 'per_day' ? null : metricDirection(metric);
 }
 
 /** The shape of `planComparison` without building SQL for a real engine. */

@@ -4,7 +4,7 @@
 // (so the first rows have their bases) and the window's totals, aggregated in the database so a
 // ratio stays a ratio of sums; the changes, marks and cross-metric findings are worked out in `read`.
 import type { DatasetConfig, Metric, MetricKind } from '../../config/schema.js';
-import { metricByName, metricKind } from '../catalog.js';
+import { metricByName, metricKind, metricDirection } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type {
@@ -204,8 +204,9 @@ function readColumn(
   if (complete.length === 0) caveats.push({ code: cells.some((c) => c.value !== null) ? 'single_period' : 'all_null', data: { metric: name } });
   if (undefinedBase > 0) caveats.push({ code: 'base_zero', data: { metric: name, count: undefinedBase } });
   const { high, low } = extremes(complete);
-  if (high && low) {
-    const [best, worst] = metric.higher_is_better ? [high, low] : [low, high];
+  // With no good direction there is no best or worst period to mark (the caption names the highest and lowest).
+  if (high && low && metricDirection(metric) !== null) {
+    const [best, worst] = metricDirection(metric) === false ? [low, high] : [high, low];
     rows.forEach((row, i) => {
       if (row.partial) return;
       if (row.period === best.period) cells[i]!.mark = 'best';
@@ -213,7 +214,7 @@ function readColumn(
     });
   }
   const rule = totalRuleOf(metric, kind);
-  const column: PeriodTableColumn = { metric: name, kind, basis, higherIsBetter: metric.higher_is_better, total: { rule, value: rule === 'mean' ? meanOf(complete.map((c) => c.value)) : null }, high, low };
+  const column: PeriodTableColumn = { metric: name, kind, basis, higherIsBetter: metricDirection(metric), total: { rule, value: rule === 'mean' ? meanOf(complete.map((c) => c.value)) : null }, high, low };
   return { column, cells, caveats };
 }
 

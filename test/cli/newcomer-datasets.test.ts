@@ -122,3 +122,21 @@ describe('init on readings per industry per month (unemployment-across-industrie
     expect(metrics.find((m) => m.name === 'births')).toMatchObject({ sum: 'births', kind: 'flow' });
   });
 });
+
+describe('no better or worse without a good direction (unemployment-across-industries.json)', () => {
+  it('init leaves the direction unset, and a whole answered thread on it never says better or worse', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'tc-newcomer-ask-'));
+    const file = join(dir, 'unemployment.yaml');
+    expect((await run(['init', '--source', join(data, 'unemployment-across-industries.json'), '--out', file])).code).toBe(0);
+    const metrics = (parse(readFileSync(file, 'utf8')) as { datasets: Record<string, unknown>[] }).datasets[0]!.metrics as Record<string, unknown>[];
+    for (const m of metrics) expect(m).not.toHaveProperty('higher_is_better');
+    const out = join(dir, 'thread');
+    // Unemployment rose in every industry from 2008 to 2009 (BLS via vega-datasets): a rise here is
+    // a rise, and with no direction in the config it must not be called better.
+    const r = await run(['ask', '--config', file, '--request', 'Unemployed count by industry in 2009 compared with 2008, yearly', '--out', out]);
+    expect(r.code, r.err).toBe(0);
+    const thread = readFileSync(join(out, 'thread.json'), 'utf8');
+    expect(thread).toMatch(/2009/);
+    expect(thread).not.toMatch(/\b(?:better|worse|best|worst|improv\w*|deteriorat\w*)\b/i);
+  }, 240_000);
+});
