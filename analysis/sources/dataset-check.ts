@@ -224,6 +224,7 @@ async function readFacts(
     }
   }
   if (failed) return null;
+  for (const [i, m] of ds.metrics.entries()) await checkPercentScale(ws, m, (message) => note(['metrics', i, 'unit'], message));
   const coverage = ws.coverage;
   if (coverage.firstDate === null) problem(['time_column'], `the time column ${ds.time_column} has no dates (every row is empty there, or the table is empty)`);
   const dimensions: DimensionFacts[] = [];
@@ -293,6 +294,30 @@ function checkValueNames(d: Dimension, index: DimensionValues | undefined, probl
   for (const [name, values] of owners) {
     if (values.length > 1) problem(`value_names gives "${name}" to ${values.join(' and ')}: a request saying it could mean either`);
   }
+}
+
+// A share written as a fraction stays within about ±1; values mostly above this are percent points
+// (2.1 for 2.1%), which unit: percent would show as 210% (common practice: 1.5 leaves room for a
+// share that overshoots, such as a 120% load factor).
+const PERCENT_POINTS_ABOVE = 1.5;
+
+/** A percent metric over a column must read fractions (0.021 for 2.1%); says so when its values look like points. */
+async function checkPercentScale(ws: Workspace, m: Metric, note: (message: string) => void): Promise<void> {
+  const def = m.definition;
+  if (m.unit !== 'percent' || (def.type !== 'average' && def.type !== 'sum')) return;
+  const q = new QueryBuilder(ws.source.dialect);
+  const rows = datasetRelation(q, ws.dataset);
+  const col = q.ident(def.column);
+  const t = await ws.source.run(
+    q.finish(`SELECT AVG(CASE WHEN ABS(${col}) > ${PERCENT_POINTS_ABOVE} THEN 1.0 ELSE 0.0 END) AS above, MAX(${col}) AS top FROM (SELECT * FROM ${rows} LIMIT ${SAMPLE_ROWS}) AS tc_sample WHERE ${col} IS NOT NULL`),
+    ws.runOptions,
+  );
+  const above = Number(t.rows[0]?.above ?? 0);
+  if (above <= 0.5) return;
+  const written = /^[A-Za-z_][A-Za-z0-9_]*$/.test(def.column) ? def.column : `(${def.column})`;
+  note(
+    `metric ${m.name} has unit percent, which reads its values as fractions (0.021 is 2.1%), but ${Math.round(above * 100)}% of its values are above ${PERCENT_POINTS_ABOVE} (up to ${Number(t.rows[0]?.top)}): if they are percent points (2.1 for 2.1%), write ${def.type}: "${written} / 100"`,
+  );
 }
 
 function keySteps(key: string): (string | number)[] {

@@ -94,6 +94,7 @@ function directionOf(name: string): { higher_is_better?: boolean } {
   return {};
 }
 
+const PERCENT_WORDS = /(^|_)(rate|pct|percent|percentage|share)($|_)/;
 const ID_WORDS = /(^|_)(id|key|uuid|code)$/;
 const YEAR = /^(year|yr|yyyy)$/;
 const MONTH = /^(month|mon|mm)$/;
@@ -229,6 +230,18 @@ export function draftConfig(input: DraftInput): Draft {
       if (named) comments[metricName] = ` drafted by init: a level (its name reads as a reading), averaged over time`;
       else if (reading) comments[metricName] = ` drafted by init: a level, averaged over time: the data has one row per ${panel!.dimension} per ${panel!.time}, so ${c.name} reads as a reading, not an amount (make it sum and kind: flow if it adds up over time)`;
       else comments[metricName] = ` drafted by init: a flow, added up over time (make it average and kind: level if it is a reading such as a balance)`;
+      // A rate or share: percent, as a fraction (0.021) or, when its values are mostly above 1.5
+      // and at most 100, as points (2.1) divided by 100 so that it shows as 2.1%.
+      const numbers = c.examples.map(Number).filter((v) => Number.isFinite(v));
+      const share = PERCENT_WORDS.test(name) && numbers.length > 0 && numbers.every((v) => v >= 0 && v <= 100);
+      const points = share && numbers.filter((v) => v > 1.5).length > numbers.length / 2;
+      if (share && (points || numbers.every((v) => v <= 1.5))) {
+        comments[metricName] = points
+          ? ` drafted by init: a percentage; its values are percent points (${numbers[0]} for ${numbers[0]}%), so divided by 100 (unit: percent reads 0.021 as 2.1%), averaged over time`
+          : ` drafted by init: a percentage written as a fraction (0.021 for 2.1%), averaged over time`;
+        metrics.push({ name: metricName, label: labelOf(c.name), also_called: [], average: points ? `${columnExpr(c.name)} / 100` : columnExpr(c.name), unit: 'percent', ...directionOf(name), kind: 'level' });
+        continue;
+      }
       metrics.push(
         named || reading
           ? { name: metricName, label: labelOf(c.name), also_called: [], average: columnExpr(c.name), unit: 'number', ...directionOf(name), kind: 'level' }

@@ -140,3 +140,33 @@ describe('no better or worse without a good direction (unemployment-across-indus
     expect(thread).not.toMatch(/\b(?:better|worse|best|worst|improv\w*|deteriorat\w*)\b/i);
   }, 240_000);
 });
+
+describe('percent points against fractions (unemployment-across-industries.json)', () => {
+  // The file's rate is in percent points: 2.1 means 2.1% (BLS via vega-datasets); the expected share and maximum are read from the file here.
+  const json = join(data, 'unemployment-across-industries.json');
+  const configWith = (average: string) => {
+    const file = join(mkdtempSync(join(tmpdir(), 'tc-newcomer-pct-')), 'unemployment.yaml');
+    writeFileSync(file, `version: 1
+datasets:
+  - name: unemployment
+    label: Unemployment
+    source: { kind: json, path: "${json}" }
+    time_column: date
+    timezone: UTC
+    metrics:
+      - { name: rate, label: Unemployment rate, average: "${average}", unit: percent, kind: level }
+`);
+    return file;
+  };
+
+  it('check says when a percent metric reads points as fractions, and names the fix', async () => {
+    const r = await run(['check', '--config', configWith('rate')]);
+    expect(r.code).toBe(0);
+    const rates = (JSON.parse(readFileSync(json, 'utf8')) as { rate: number }[]).map((x) => x.rate);
+    const share = Math.round((rates.filter((v) => Math.abs(v) > 1.5).length / rates.length) * 100);
+    expect(r.out).toContain(`metric rate has unit percent, which reads its values as fractions (0.021 is 2.1%), but ${share}% of its values are above 1.5 (up to ${Math.max(...rates)}): if they are percent points (2.1 for 2.1%), write average: "rate / 100"`);
+    const fixed = await run(['check', '--config', configWith('rate / 100')]);
+    expect(fixed.code).toBe(0);
+    expect(fixed.out).not.toMatch(/reads its values as fractions/);
+  });
+});
