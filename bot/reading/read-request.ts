@@ -137,6 +137,9 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
     text.claim(audience.span);
   }
 
+  // "per decade": the unit a rate of change is stated in, not a term of the data.
+  for (const m of text.matches(/(?<![\p{L}])(?:per|a|each)\s+decade(?![\p{L}])/gu)) text.claim(m.span);
+
   const state: ReadState = { text, ds, catalog, anchor: anchor.today, dataEnd: anchor.dataEnd, periods, hits, roleHits, grainSpans: grain?.spans ?? [], evidence };
   const { questions, ambiguous } = readQuestions(state);
   const unknownTerms = findUnknownTerms(text, { catalog });
@@ -490,7 +493,8 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
     reading.launchWords = launch.words;
   }
   if (top) reading.rankLimit = /^\d+$/.test(top[1]!) ? Number(top[1]) : { three: 3, five: 5, ten: 10 }[top[1] as 'three' | 'five' | 'ten'];
-  if (rate && hasRateCue) reading.rateUnit = (rate[1] ?? rate[2]) === 'decade' ? 'decade' : 'year';
+  // "per year and per decade" asks for both; the decade is the wider statement (it carries the year's rate too).
+  if (rate && hasRateCue) reading.rateUnit = (rate[1] ?? rate[2]) === 'decade' || /\b(?:per|a|each)\s+decade\b/.test(t) ? 'decade' : 'year';
   return reading;
 }
 

@@ -174,6 +174,14 @@ describe('periods', () => {
   });
 });
 
+describe('rates per decade', () => {
+  it('reads "per decade" as the unit of a rate, never as a term of the data', () => {
+    const b = read('How fast has revenue risen per year and per decade?');
+    expect(b.questions[0]!.rateUnit).toBe('decade');
+    expect(b.unknownTerms ?? []).toEqual([]);
+  });
+});
+
 describe('per day', () => {
   it('compares months of the year per day on a monthly plan, never a daily one', () => {
     for (const text of ['Which months have the most bookings per day?', 'Which month of the year is busiest for bookings per day?']) {
