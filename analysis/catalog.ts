@@ -133,6 +133,14 @@ export function metricDirection(metric: Metric): boolean | null {
   return metric.higher_is_better ?? null;
 }
 
+/**
+ * A level's change is stated in its own units ("+2.5 ppm"), never as a percentage of itself; a
+ * level kept in percent (a share held over time) moves in points, as a rate does.
+ */
+export function changesInUnits(metric: Metric): boolean {
+  return quantityKind(metric) === 'level' && metric.unit !== 'percent';
+}
+
 /** How a metric's seasonal cycle is measured: a level swings in its own units, a flow or ratio in proportion. */
 export function seasonalModel(metric: Metric): SeasonalModel {
   return quantityKind(metric) === 'level' ? 'additive' : 'multiplicative';

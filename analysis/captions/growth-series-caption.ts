@@ -11,7 +11,7 @@ import type {
   GrowthYearsFinding,
   GrowthYtdFinding,
 } from '../findings/growth.js';
-import { quantityKind } from '../catalog.js';
+import { changesInUnits } from '../catalog.js';
 import { formatChange, formatDayOfYear, formatPeriod } from '../format.js';
 import { levelGrowthVerdict, levelGrowthWords } from './growth-level-caption.js';
 import type { Verdict, VerdictDirection } from './verdict-words.js';
@@ -56,7 +56,7 @@ export function latestComplete(series: GrowthSeriesFinding | undefined): GrowthP
 
 export function growthSeriesWords(metric: Metric, grain: Grain, f: GrowthSeriesFindings, locale: string, audience: Audience): GrowthWords {
   // A level (a reading) changes in its own units; a compound percentage would misstate it.
-  if (quantityKind(metric) === 'level' && metric.unit !== 'percent') return levelGrowthWords(metric, grain, f, locale, audience);
+  if (changesInUnits(metric)) return levelGrowthWords(metric, grain, f, locale, audience);
   const label = metric.label;
   const yearsWithRate = (f.years?.years ?? []).filter((y) => y.yoy !== null);
   const recent = yearsWithRate.slice(-2);
@@ -167,7 +167,7 @@ function latestSentence(p: GrowthPoint, series: GrowthSeriesFinding, grain: Grai
  */
 export function growthVerdict(metric: Metric, f: GrowthSeriesFindings, locale: string): Verdict | null {
   const label = lower(metric.label);
-  if (quantityKind(metric) === 'level' && metric.unit !== 'percent') return levelGrowthVerdict(metric, f, locale);
+  if (changesInUnits(metric)) return levelGrowthVerdict(metric, f, locale);
   const ytd = f.ytd && f.ytd.relative !== null ? f.ytd : undefined;
   if (ytd) {
     const span = `${formatDayOfYear(ytd.current.year, locale, 'month')} to ${formatDayOfYear(ytd.through, locale)}`;

@@ -2,7 +2,7 @@
 import { countOf, possessive } from './grammar.js';
 import type { Metric } from '../../config/schema.js';
 import type { GrowthRateSummaryFinding } from '../findings/growth.js';
-import { formatChange } from '../format.js';
+import { formatChange, formatValue, valueFormatOf } from '../format.js';
 import type { Audience } from '../types.js';
 import type { GrowthWords } from './growth-series-caption.js';
 import { formatPoints, lower, periodText } from './growth-words.js';
@@ -21,24 +21,29 @@ export function growthSummaryWords(metric: Metric, f: GrowthRateSummaryFinding |
   }
   const when = (iso: string) => periodText(iso, f.grain, locale);
   const basis = rateBasisText(f);
-  const pct = (v: number | null) => formatChange(v, locale);
+  // A level's changes are in its units ("+2.5 ppm"); a flow's and a ratio's are relative.
+  const units = f.measure === 'units';
+  const fmt = valueFormatOf(metric, locale);
+  const pct = (v: number | null) => (units ? formatValue(v, fmt, { compact: true, signed: true }) : formatChange(v, locale));
+  const spread = (sd: number) => (units ? formatValue(sd, fmt, { compact: true }) : formatPoints(sd, locale).replace(/^\+/, ''));
+  const growth = units ? 'change' : 'growth';
   const title =
     f.n === 1
       ? `${label} changed ${pct(f.min.value)} ${basis} in ${when(f.min.period)}`
-      : `${possessive(label)} growth ${basis} ranged from ${pct(f.min.value)} (${when(f.min.period)}) to ${pct(f.max.value)} (${when(f.max.period)})`;
+      : `${possessive(label)} ${growth} ${basis} ranged from ${pct(f.min.value)} (${when(f.min.period)}) to ${pct(f.max.value)} (${when(f.max.period)})`;
   const count = countOf(f.n, f.grain);
   let caption: string;
   if (audience === 'leadership') {
     caption = `Across ${count}, the typical change ${basis} was ${pct(f.median)}.`;
   } else if (audience === 'managers') {
     caption =
-      `Across ${count}, growth ${basis} averaged ${pct(f.mean)} (middle value ${pct(f.median)})` +
-      (f.sd !== null ? `; it typically varied by about ${formatPoints(f.sd, locale).replace(/^\+/, '')} around the average.` : '.');
+      `Across ${count}, ${growth} ${basis} averaged ${pct(f.mean)} (middle value ${pct(f.median)})` +
+      (f.sd !== null ? `; it typically varied by about ${spread(f.sd)} around the average.` : '.');
   } else {
-    const basisName = f.basis === 'yoy' ? 'year-over-year' : 'period-over-period';
+    const basisName = `${f.basis === 'yoy' ? 'year-over-year' : 'period-over-period'}${units ? ' changes' : ''}`;
     caption =
-      `${f.n} ${basisName} rates: mean ${pct(f.mean)}, median ${pct(f.median)}` +
-      (f.sd !== null ? `, sample SD ${formatPoints(f.sd, locale).replace(/^\+/, '')}` : '') +
+      `${f.n} ${basisName}${units ? '' : ' rates'}: mean ${pct(f.mean)}, median ${pct(f.median)}` +
+      (f.sd !== null ? `, sample SD ${spread(f.sd)}` : '') +
       `; min ${pct(f.min.value)} (${when(f.min.period)}), max ${pct(f.max.value)} (${when(f.max.period)}).`;
   }
   return { title, caption };

@@ -1,7 +1,7 @@
 // Title and caption for a trend test (Mann–Kendall and Sen's slope), written only from findings.
 import type { Metric } from '../../config/schema.js';
 import type { TrendTestFinding } from '../findings/segments.js';
-import { quantityKind } from '../catalog.js';
+import { changesInUnits } from '../catalog.js';
 import { formatChange, formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import { yearFraction } from '../periods.js';
 import type { Audience, Finding, Grain } from '../types.js';
@@ -35,7 +35,7 @@ export function trendTestWords(metric: Metric, grain: Grain, findings: readonly 
   }
 
   const span = `${when(test.firstPeriod)} to ${when(test.lastPeriod)}`;
-  if (quantityKind(metric) === 'level' && metric.unit !== 'percent') {
+  if (changesInUnits(metric)) {
     const words = levelTrendWords(metric, grain, test, audience, locale, span);
     return { title: words.title, caption: peakLine ? `${words.caption} ${peakLine}` : words.caption };
   }

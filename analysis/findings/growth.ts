@@ -138,6 +138,8 @@ export interface GrowthRateSummaryFinding {
   grain: Grain;
   /** Which rates were summarised: against the same period a year earlier, or against the period before. */
   basis: 'yoy' | 'pop';
+  /** 'units' for a level: each rate is a difference in the metric's units, not a relative change. */
+  measure: 'relative' | 'units';
   rates: { period: string; value: number | null }[];
   n: number;
   min: { period: string; value: number } | null;

@@ -3,6 +3,7 @@ import { buildLine } from '../charts/build-line.js';
 import { growthSummaryWords, rateBasisText } from '../captions/growth-summary-caption.js';
 import { capitalise, growthNotes } from '../captions/growth-words.js';
 import { metricByName } from '../catalog.js';
+import { valueFormatOf } from '../format.js';
 import type { Finding } from '../types.js';
 import { chartFooter, chartSubtitle } from './header.js';
 import type { Presenter } from './presenter.js';
@@ -24,7 +25,7 @@ export const presentGrowthSummary: Presenter = (answer, ctx) => {
           seriesLabel: capitalise(`change ${rateBasisText(f)}`),
           grain: f.grain,
           points: f.rates.map((r) => ({ period: r.period, value: r.value, partial: false })),
-          format: { unit: 'percent', decimals: 1, locale: ctx.locale },
+          format: f.measure === 'units' ? valueFormatOf(metric, ctx.locale) : { unit: 'percent', decimals: 1, locale: ctx.locale },
         })
       : null;
   return {

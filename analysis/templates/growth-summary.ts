@@ -4,6 +4,7 @@
 import type { GrowthRateSummaryFinding, GrowthSeriesFinding } from '../findings/growth.js';
 import { argExtremes, summarize } from '../stats/index.js';
 import type { Finding } from '../types.js';
+import { changesInUnits, metricByName } from '../catalog.js';
 import { compileGrowthSeries, readGrowthSeries } from './growth-series.js';
 import type { Reading, Template } from './template.js';
 
@@ -20,7 +21,7 @@ export const growthSummaryTemplate: Template = {
     const caveats = [...base.caveats];
     for (const f of base.findings) {
       if (f.type !== 'growth_series') continue;
-      const summary = summarizeRates(f);
+      const summary = summarizeRates(f, changesInUnits(metricByName(ctx.dataset, f.metric)));
       if (summary.n === 0) caveats.push({ code: 'single_period', data: { metric: f.metric, rates: 0 } });
       else if (summary.n < SMALL_RATE_COUNT) caveats.push({ code: 'small_sample', data: { n: summary.n, metric: f.metric } });
       findings.push(summary);
@@ -29,12 +30,18 @@ export const growthSummaryTemplate: Template = {
   },
 };
 
-export function summarizeRates(series: GrowthSeriesFinding): GrowthRateSummaryFinding {
+/** `units`: a level's changes are differences in its units (value less its base), not ratios. */
+export function summarizeRates(series: GrowthSeriesFinding, units = false): GrowthRateSummaryFinding {
   const yoyCount = series.points.filter((p) => p.yoy !== null).length;
   const basis: 'yoy' | 'pop' = series.yoyLag !== null && (yoyCount >= MIN_YOY_RATES || series.yoyLag === 1) ? 'yoy' : 'pop';
   // Rates start where a base could exist, so the leading periods without one do not count as missing.
   const offset = basis === 'yoy' ? series.yoyLag! : 1;
-  const rates = series.points.slice(offset).map((p) => ({ period: p.period, value: basis === 'yoy' ? p.yoy : p.pop }));
+  const usable = (p: GrowthSeriesFinding['points'][number] | undefined) => p !== undefined && !p.partial && p.value !== null;
+  const difference = (i: number) => {
+    const [p, base] = [series.points[i], series.points[i - offset]];
+    return usable(p) && usable(base) ? p!.value! - base!.value! : null;
+  };
+  const rates = series.points.slice(offset).map((p, k) => ({ period: p.period, value: units ? difference(k + offset) : basis === 'yoy' ? p.yoy : p.pop }));
   const values = rates.map((r) => r.value);
   const s = summarize(values);
   const { minIndex, maxIndex } = argExtremes(values);
@@ -43,6 +50,7 @@ export function summarizeRates(series: GrowthSeriesFinding): GrowthRateSummaryFi
     metric: series.metric,
     grain: series.grain,
     basis,
+    measure: units ? 'units' : 'relative',
     rates,
     n: s.n,
     min: minIndex === null ? null : { period: rates[minIndex]!.period, value: rates[minIndex]!.value! },

@@ -204,6 +204,7 @@ const summaryFinding: GrowthRateSummaryFinding = {
   metric: 'revenue',
   grain: 'month',
   basis: 'yoy',
+  measure: 'relative',
   rates: [
     { period: '2024-01-01', value: 0.1 },
     { period: '2024-02-01', value: -0.1 },

@@ -11,7 +11,7 @@ import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import type { TrendSeasonalityFinding, TrendSummaryFinding, TrendTestFinding } from '../../../analysis/findings/segments.js';
 import { renderChartWithGeometry } from '../../../analysis/charts/render.js';
 import type { LineSpec, SeasonalProfileSpec } from '../../../analysis/charts/spec.js';
-import type { GrowthLevelRateFinding } from '../../../analysis/findings/growth.js';
+import type { GrowthLevelRateFinding, GrowthRateSummaryFinding } from '../../../analysis/findings/growth.js';
 import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import type { SubQuestion } from '../../../analysis/types.js';
 import type { TemplateName } from '../../../analysis/sub-questions/registry.js';
@@ -195,5 +195,23 @@ describe('a level (Mauna Loa CO2) is stated in its own units', () => {
     expect(spec.points.find((p) => p.period === '2019-03-01')!.value).toBeCloseTo(mar(2019) - mar(2018), 9);
     const { png } = await renderChartWithGeometry(spec);
     if (process.env.TC_CHART_DIR) writeFileSync(join(process.env.TC_CHART_DIR, 'co2-growth.png'), png);
+  });
+
+  it('the summary of its changes is in ppm on the same month a year earlier, as the CSV gives them', async () => {
+    const { answer, shown } = await present(question('growth_summary'));
+    const f = answer.findings.find((x): x is GrowthRateSummaryFinding => x.type === 'growth_rate_summary')!;
+    expect(f.measure).toBe('units');
+    // Independent: every month's reading less the same month's a year earlier, where both are in the CSV.
+    const byDate = new Map(readings.map((r) => [r.date, r.co2]));
+    const diffs = readings.flatMap((r) => {
+      const base = byDate.get(`${r.year - 1}${r.date.slice(4)}`);
+      return base === undefined ? [] : [r.co2 - base];
+    });
+    expect(f.n).toBe(diffs.length);
+    expect(f.mean!).toBeCloseTo(diffs.reduce((a, b) => a + b, 0) / diffs.length, 9);
+    expect(f.max!.value).toBeCloseTo(Math.max(...diffs), 9);
+    expect(shown.title).toContain(`to +${Math.max(...diffs).toFixed(1)}\u00a0ppm`);
+    expect(`${shown.title} ${shown.caption}`).not.toMatch(/%| pts/);
+    expect((shown.chart as LineSpec).format.label).toBe('ppm');
   });
 });
