@@ -329,6 +329,11 @@ export class Conversation {
       if (reading.personal) refusedPersonal(step, ctx.dataset, reading.personal, text);
       return this.askAgain(step, state, reading.message);
     }
+    // "ok" to the recommendation to stop (nothing in the data measures what was asked).
+    if (reading.stop) {
+      step.say('cancelled', replies.cancelled());
+      return cancelledFrom(state);
+    }
     state.brief = reading.brief;
     return this.advance(step, state);
   }

@@ -12,6 +12,7 @@ import { saysAsap } from './reading/deadline.js';
 import { ACCEPT_DEFAULT, AUDIENCE_LABELS, audienceNamedBy, GRAIN_WORDS, grainNamedBy } from './reading/lexicon.js';
 import { type DatasetFacts, readRequest } from './reading/read-request.js';
 import { phraseWords } from './reading/text.js';
+import { stem } from './reading/catalog-match.js';
 
 export { fullWindow } from './reading/answers.js';
 
@@ -115,26 +116,45 @@ export function personalDataRefusal(ds: DatasetConfig, names: readonly string[])
 }
 
 
+/**
+ * The one-click choice when nothing in the data measures what was asked: stopping, not a stand-in
+ * (a row count is no answer to "trading volume"). Sent as "cancel", read as the cancel command.
+ */
+export const STOP_HERE: PromptOption = { value: 'cancel', label: 'Stop here' };
+/** The same, when the request also names measures the data has: go on with those alone. */
+const LEAVE_OUT: PromptOption = { value: 'leave it out', label: 'Leave it out' };
+const LEAVES_OUT = /^\s*(?:leave\s+it\s+out|leave\s+out|skip(?:\s+it)?|without\s+it|none|drop\s+it)\s*[.!]?\s*$/i;
+
 function metricsPrompt(brief: Brief, ctx: PromptContext): Prompt {
   const ds = ctx.dataset;
   const unknown = brief.unknownTerms.find((u) => u.role === 'metric');
-  const suggested = unknown?.closest[0] ?? ds.metrics[0]!.name;
   const label = (name: string) => ds.metrics.find((m) => m.name === name)?.label ?? name;
+  const options = ds.metrics.map((m) => ({ value: m.name, label: m.label }));
+  if (unknown) {
+    // A nearest metric is recommended only when it shares a word with what was asked ("net
+    // revenue" -> Revenue); otherwise nothing in the data stands in for it.
+    const asked = new Set(phraseWords(unknown.text).map(stem));
+    const kin = unknown.closest.find((name) => { const m = ds.metrics.find((x) => x.name === name); return !!m && [m.name, m.label, ...m.synonyms].some((n) => phraseWords(n).map(stem).some((w) => asked.has(w))); });
+    const nearest = unknown.closest.length > 0 ? ` The closest I can measure: ${unknown.closest.map(label).join(', ')}.` : '';
+    return {
+      topic: 'metrics',
+      question: `I don't have a metric called "${unknown.text}": nothing in ${ds.label} measures it.${nearest} Choose one only if it answers your question instead, or stop here.`,
+      options,
+      recommended: kin
+        ? { value: kin, label: label(kin), reason: `closest match to "${unknown.text}"` }
+        : questionsWithoutMetric(brief).length === 0 && brief.questions.length > 0
+          ? { ...LEAVE_OUT, reason: `the data has no measure of "${unknown.text}"; the rest of the request can be answered without it` }
+          : { ...STOP_HERE, reason: `the data has no measure of "${unknown.text}", and none of these is one` },
+      many: true,
+    };
+  }
+  const suggested = ds.metrics[0]!.name;
   const missing = questionsWithoutMetric(brief)[0];
-  const question = unknown
-    ? `I don't have a metric called "${unknown.text}". The closest I can measure: ${unknown.closest.map(label).join(', ')}. Which metric should I use?`
-    : missing
-      ? `Which metric should I use for "${clip(missing.text)}"?`
-      : 'Which metric should I look at?';
   return {
     topic: 'metrics',
-    question,
-    options: ds.metrics.map((m) => ({ value: m.name, label: m.label })),
-    recommended: {
-      value: suggested,
-      label: label(suggested),
-      reason: unknown ? `closest match to "${unknown.text}"` : 'the headline metric of this dataset',
-    },
+    question: missing ? `Which metric should I use for "${clip(missing.text)}"?` : 'Which metric should I look at?',
+    options,
+    recommended: { value: suggested, label: label(suggested), reason: 'the headline metric of this dataset' },
     many: true,
   };
 }
@@ -165,14 +185,15 @@ function capitalise(s: string): string {
 
 
 /** A reading of an answer; a refused one names the personal-data dimensions it asked for, for the audit log. */
-export type AnswerReading = { ok: true; brief: Brief } | { ok: false; message: string; personal?: string[] };
+export type AnswerReading = { ok: true; brief: Brief; /** The answer takes the recommendation to stop (STOP_HERE): the request ends here. */ stop?: true } | { ok: false; message: string; personal?: string[] };
 
 /** Reads a typed (or clicked) answer to `prompt` into the brief, or explains what was wrong. */
 export function readAnswer(prompt: Prompt, text: string, brief: Brief, ctx: PromptContext): AnswerReading {
   const read = readAnswerInto(prompt, text, brief, ctx);
   // What an answer set is marked as answered, so the card does not credit it to the request.
   const slot = ANSWERED_SLOT[prompt.topic];
-  if (!read.ok || !slot || read.brief === brief) return read;
+  // Leaving out a measure the data lacks sets none: what the request named stays credited to it.
+  if (!read.ok || !slot || read.brief === brief || (prompt.topic === 'metrics' && LEAVES_OUT.test(text))) return read;
   return { ok: true, brief: { ...read.brief, evidence: { ...(read.brief.evidence ?? {}), [slot]: { words: text.trim(), how: 'answered' as const } } } };
 }
 
@@ -183,6 +204,10 @@ function readAnswerInto(prompt: Prompt, text: string, brief: Brief, ctx: PromptC
   const facts = ctx.facts;
   switch (prompt.topic) {
     case 'metrics': {
+      if (typed === STOP_HERE.value && prompt.recommended.value === STOP_HERE.value) return { ok: true, brief, stop: true };
+      if (LEAVES_OUT.test(typed) && questionsWithoutMetric(brief).length === 0 && brief.questions.length > 0) {
+        return { ok: true, brief: { ...brief, unknownTerms: brief.unknownTerms.filter((u) => u.role !== 'metric'), toAsk: (brief.toAsk ?? []).filter((t) => t !== 'metrics') } };
+      }
       const named = ctx.dataset.metrics.filter((m) => typed.split(/\s*,\s*/).includes(m.name)).map((m) => m.name);
       const found = named.length > 0 ? named : readRequest(typed, facts, { now: ctx.now }).metrics;
       if (found.length === 0) {

@@ -88,6 +88,15 @@ export function anchorOf(today: string, facts: Pick<DatasetFacts, 'coverage' | '
   return { today, why: 'today', dataEnd: stampedEnd };
 }
 
+/** An ordinary word for a kind of measure ("takings", "how many"), with the metrics of that kind. */
+interface RoleHit {
+  span: Span;
+  role: MetricRole;
+  metrics: string[];
+  /** Named with a word the catalog does not know ("trading volume"): a measure the data lacks. */
+  qualified?: true;
+}
+
 interface ReadState {
   text: RequestText;
   ds: DatasetConfig;
@@ -96,7 +105,7 @@ interface ReadState {
   dataEnd: string | null;
   periods: PeriodMention[];
   hits: CatalogHit[];
-  roleHits: { span: Span; role: MetricRole; metrics: string[] }[];
+  roleHits: RoleHit[];
   grainSpans: Span[];
   evidence: Partial<Record<BriefSlot, Evidence>>;
 }
@@ -146,7 +155,7 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   // A business word the catalog has no measure for ("revenue" on a support desk's data).
   for (const r of roleHits) {
     const words = text.quote(r.span).toLowerCase();
-    if (r.metrics.length === 0 && (r.role === 'amount' || r.role === 'average_amount') && !/how much/.test(words) && !unknownTerms.some((u) => u.text === words || words.includes(u.text))) {
+    if (r.metrics.length === 0 && (r.role === 'amount' || r.role === 'average_amount' || r.qualified) && !/how much/.test(words) && !unknownTerms.some((u) => u.text === words || words.includes(u.text))) {
       for (let i = unknownTerms.length - 1; i >= 0; i--) if (words.includes(unknownTerms[i]!.text)) unknownTerms.splice(i, 1);
       unknownTerms.push({ text: words, closest: closestEntries(words, catalog, ['metric']), role: 'metric' });
     }
@@ -854,8 +863,8 @@ function readAudience(text: RequestText, hits: CatalogHit[]): { audience: (typeo
 }
 
 /** Ordinary words for the main kinds of metric ("takings", "how many"), when exactly one metric fits. */
-function findRoleWords(text: RequestText, ds: DatasetConfig): { span: Span; role: MetricRole; metrics: string[] }[] {
-  const out: { span: Span; role: MetricRole; metrics: string[] }[] = [];
+function findRoleWords(text: RequestText, ds: DatasetConfig): RoleHit[] {
+  const out: RoleHit[] = [];
   for (const { role, pattern } of ROLE_WORDS) {
     for (const m of text.matches(new RegExp(pattern.source, 'g'))) {
       if (text.isClaimed(m.span) || out.some((o) => overlaps(o.span, m.span))) continue;
@@ -864,6 +873,13 @@ function findRoleWords(text: RequestText, ds: DatasetConfig): { span: Span; role
       if (role === 'count' && /how many|number of|no\.? of|count of/.test(m[0])) {
         const next = text.wordAt(m.span.end);
         if (next && (text.isClaimed(next) || (!STOPWORDS.has(next.norm) && !ORDINARY.has(next.norm)))) continue;
+      }
+      // "trading volume", "call volume": a word the catalog does not know says what is counted, and
+      // a count of the data's rows is not a count of that. Said back as a measure it lacks.
+      const qualifier = role === 'count' && /^(?:volumes?|transactions|throughput|activity)$/.test(m[0]) ? text.words.find((w) => w.end <= m.span.start && /^\s*$/.test(text.lower.slice(w.end, m.span.start))) : undefined;
+      if (qualifier && /\p{L}/u.test(qualifier.norm) && !text.isClaimed(qualifier) && !out.some((o) => overlaps(o.span, qualifier)) && !STOPWORDS.has(qualifier.norm) && !ORDINARY.has(qualifier.norm) && !ORDINARY.has(stem(qualifier.norm))) {
+        out.push({ span: { start: qualifier.start, end: m.span.end }, role, metrics: [], qualified: true });
+        continue;
       }
       out.push({ span: m.span, role, metrics: metricsForRole(ds, role) });
     }

@@ -151,5 +151,7 @@ function isModifierSlot(before: string): boolean {
 
 /** Words ending like verbs and adverbs are rarely the name of a measure or a breakdown. */
 function isVerbLike(word: string): boolean {
+  // "hourly wage", "nightly rate": a word of the calendar in -ly names the measure's unit.
+  if (/(?:hour|dai|night|week|fortnight|month|quarter|year)ly$/.test(word)) return false;
   return /(?:ing|ed|ly)$/.test(word) && word.length > 4;
 }

@@ -275,6 +275,8 @@ function converse(request: string, answers: readonly string[]): { brief: Brief; 
     refusals.push(reading.message);
     const fallback = readAnswer(prompt, 'ok', brief, promptContext);
     if (!fallback.ok) throw new Error(`the recommended answer to the ${prompt.topic} prompt was refused: ${fallback.message}`);
+    // The recommendation may be to stop (a measure the data lacks): the conversation ends there.
+    if (fallback.stop) return { brief: fallback.brief, refusals };
     brief = fallback.brief;
   }
   throw new Error('the conversation did not reach a plan in 20 prompts');

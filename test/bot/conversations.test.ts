@@ -73,9 +73,12 @@ describe('scripted conversations', () => {
     const unknown = await converse('show me the trend of churn', 'metrics: "churn"\n');
     const prompts = bot(unknown.thread).filter((p) => p.promptTopic === 'metrics');
     expect(prompts[0]!.text).toMatch(/I don't have a metric called "churn"/);
-    // The typed "churn" is refused with the catalog, then the recommendation is taken.
+    // The typed "churn" is refused with the catalog, then "ok" takes the recommendation, which is
+    // to stop: nothing in the data measures churn, and no other measure is offered in its place.
     expect(prompts[1]!.text).toMatch(/I couldn't match "churn" to a metric\. I can measure: Revenue, Bookings/);
-    expect(unknown.end).toBe('done');
+    expect(prompts[0]!.text).toMatch(/Recommended: \*Stop here\*/);
+    expect(unknown.end).toBe('cancelled');
+    expect(bot(unknown.thread).at(-1)!.text).toMatch(/^Cancelled/);
   });
 
   it('stops on cancel at the plan', async () => {

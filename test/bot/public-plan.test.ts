@@ -6,9 +6,9 @@ import { describe, expect, it } from 'vitest';
 import type { Brief } from '../../bot/brief.js';
 import { briefDefaults, withDefaults } from '../../bot/brief-defaults.js';
 import { buildPlan } from '../../bot/plan.js';
-import { nextPrompt, readAnswer, type PromptContext } from '../../bot/prompts.js';
+import { nextPrompt, readAnswer, STOP_HERE, type PromptContext } from '../../bot/prompts.js';
 import { readRequest } from '../../bot/reading/read-request.js';
-import { NOW, publicFacts, UNEMPLOYMENT_CONFIG } from '../reading/public-data.js';
+import { NOW, publicFacts, STOCKS_CONFIG, UNEMPLOYMENT_CONFIG } from '../reading/public-data.js';
 
 describe('a restricted request keeps its restriction through the measure prompt and into the plan', () => {
   it('"how joblessness changed in construction from 2007 through 2009": every item is about Construction, 2007 to 2009', async () => {
@@ -54,5 +54,39 @@ describe('a brief that holds no question of its own', () => {
       expect(item.filters).toEqual([{ dimension: 'series', values: ['Construction'] }]);
       expect(item.compareWindow).toEqual(compareWindow);
     }
+  });
+});
+
+describe('the measure prompt for a measure the data lacks', () => {
+  const ask = async (config: string, text: string) => {
+    const facts = await publicFacts(config);
+    const ctx: PromptContext = { dataset: facts.dataset, coverage: facts.coverage, facts, now: NOW, locale: 'en-IE' };
+    const brief = readRequest(text, facts, { now: NOW });
+    return { brief, ctx, prompt: nextPrompt(brief, ctx)! };
+  };
+
+  it('says plainly there is none, and recommends stopping rather than a row count', async () => {
+    for (const [config, text, missing] of [
+      [STOCKS_CONFIG, 'Show me trading volume by ticker per month', 'trading volume'],
+      [UNEMPLOYMENT_CONFIG, 'What was the average hourly wage by sector last year?', 'average hourly wage'],
+    ] as const) {
+      const { prompt, brief, ctx } = await ask(config, text);
+      expect(prompt.topic).toBe('metrics');
+      expect(prompt.question).toMatch(new RegExp(`^I don't have a metric called "${missing}": nothing in [^.]+ measures it\\.`));
+      expect(prompt.recommended).toMatchObject(STOP_HERE);
+      expect(prompt.recommended.reason).toContain(`no measure of "${missing}"`);
+      // "ok" takes it: the request stops (the conversation says it is cancelled), nothing stands in.
+      expect(readAnswer(prompt, 'ok', brief, ctx)).toEqual({ ok: true, brief, stop: true });
+    }
+  });
+
+  it('recommends leaving it out when the request names a measure the data has too, and keeps that one', async () => {
+    const { brief, ctx, prompt } = await ask(STOCKS_CONFIG, 'share price and trading volume for AAPL');
+    expect(prompt.recommended.label).toBe('Leave it out');
+    const read = readAnswer(prompt, 'ok', brief, ctx);
+    if (!read.ok) throw new Error(read.message);
+    expect(read.brief.questions[0]).toMatchObject({ metrics: ['price'], filters: [{ dimension: 'symbol', values: ['AAPL'] }] });
+    expect(read.brief.unknownTerms).toEqual([]);
+    expect(nextPrompt(read.brief, ctx)).toBeNull();
   });
 });

@@ -149,10 +149,11 @@ describe('threadcount ask with bad input', () => {
   it('asks about a metric that does not exist, naming the closest ones', async () => {
     const out = tmp('unknown');
     const result = await ask({ configFile: configPath, request: 'Show me the trend of churn over time', outDir: out, now });
-    expect(result.end).toBe('done');
     const prompt = result.thread.thread.posts.find((p) => p.promptTopic === 'metrics')!;
     expect(prompt.text).toMatch(/I don't have a metric called "churn"/);
     expect(prompt.text).toMatch(/closest I can measure/);
+    // With no answer scripted the recommendation is taken: stopping, not a stand-in for churn.
+    expect(result.end).toBe('cancelled');
   });
 
   it('re-asks with a clear message when a typed answer is an impossible date', async () => {

@@ -49,3 +49,30 @@ describe('two years named outright are the comparison, the later one the current
     expect(q.compareWindow).toEqual({ from: `${base}-01-01`, to: `${base}-12-31` });
   });
 });
+
+describe('a measure the data lacks is said back, never swapped for one it has', () => {
+  it('"trading volume" on monthly prices is not a count of rows', async () => {
+    const b = await readStocks('Show me trading volume by ticker per month');
+    expect(b.questions[0]!.metrics).toEqual([]);
+    expect(b.unknownTerms.map((u) => u.text)).toEqual(['trading volume']);
+    expect(b.toAsk).toContain('metrics');
+  });
+
+  it('"the average hourly wage by sector" on unemployment data is a measure it lacks', async () => {
+    const b = await readUnemployment('What was the average hourly wage by sector last year?');
+    expect(b.unknownTerms.map((u) => u.text)).toEqual(['average hourly wage']);
+    expect(b.questions[0]!.dimensions).toEqual(['series']);
+    expect(b.toAsk).toContain('metrics');
+  });
+
+  it.each([
+    [readStocks, "what's the trade volume for AAPL in 2008?"],
+    [readUnemployment, 'median weekly earnings by industry in 2009'],
+    [readUnemployment, 'average salary per sector, 2008 vs 2009'],
+  ] as const)('%#: %s', async (read, text) => {
+    const b = await read(text);
+    expect(b.questions.flatMap((q) => q.metrics)).toEqual([]);
+    expect(b.unknownTerms.length).toBeGreaterThan(0);
+    expect(b.toAsk).toContain('metrics');
+  });
+});
