@@ -103,6 +103,8 @@ export interface Brief {
   toAsk?: Askable[];
   /** A deadline that was named but is already past, said back. */
   pastDeadline?: string;
+  /** Periods read otherwise than written or outside the data ("30 February 2008 is not a real date…"), said back on the card. */
+  saidBack?: string[];
 }
 
 /**

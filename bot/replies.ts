@@ -97,6 +97,7 @@ export const CARD_REPLIES = [
 export function cardNotes(brief: Brief, ds: DatasetConfig): string[] {
   const out: string[] = [];
   if (requestWasCut(brief.requestText)) out.push(requestTooLong(brief.requestText));
+  out.push(...(brief.saidBack ?? []));
   const personal = brief.personalData ?? [];
   if (personal.length > 0) out.push(`${personalDataRefusal(ds, personal)} The rest of the request is answered without it.`);
   const unknown = brief.unknownTerms.filter((u) => u.role !== 'metric');

@@ -69,6 +69,8 @@ export interface PeriodMention extends Span {
   previousOf?: PeriodUnit;
   /** Set against the window by a comparison word ("vs", "compared with"), not only a shift ("on the year before"). */
   strong?: boolean;
+  /** A day no calendar has ("30 February 2008"): the window is its month, and the reader says so. */
+  notReal?: boolean;
   words: string;
 }
 
@@ -86,6 +88,8 @@ interface Point extends Span {
   qualified?: boolean;
   /** The year was written in digits (not "last year"): a neighbour without a year may take it. */
   digitsYear?: boolean;
+  /** A day no calendar has ("30 February 2008"): read as its month, and said back. */
+  notReal?: boolean;
 }
 
 const YEAR = `(?:19|20)\\d{2}`;
@@ -169,13 +173,15 @@ function findPoints(text: RequestText, ctx: PeriodContext): Point[] {
   for (const m of text.matches(re(`${B}(\\d{1,2})(?:st|nd|rd|th)?(?:\\s+of)?\\s+(${MONTH_PATTERN})(?:\\.(?=\\s*(?:\\d|'\\d)))?(?:,?\\s+(${YEAR}|${SHORT_YEAR}))?${E}`))) {
     const [d, mo, y] = [Number(m[1]), month(m[2]!), yearFrom(m[3])];
     if (d < 1 || d > 31) continue;
-    add(m.span, { unit: 'day', ...(y ? { year: y } : {}), make: (yy) => dayWindow(ymd(yy, mo, d)), which: 'latest', month: mo });
+    if (!isValidDate(y ?? 2000, mo, d)) add(m.span, { unit: 'month', ...(y ? { year: y } : {}), make: (yy) => monthWindow(yy, mo), which: 'latest', month: mo, notReal: true });
+    else add(m.span, { unit: 'day', ...(y ? { year: y } : {}), make: (yy) => dayWindow(ymd(yy, mo, d)), which: 'latest', month: mo });
   }
   // January 9, 2023; Jan 9th
   for (const m of text.matches(re(`${B}(${MONTH_PATTERN})(?:\\.(?=\\s*(?:\\d|'\\d)))?\\s+(\\d{1,2})(?:st|nd|rd|th)?(?:,?\\s+(${YEAR}|${SHORT_YEAR}))?${E}`))) {
     const [mo, d, y] = [month(m[1]!), Number(m[2]), yearFrom(m[3])];
     if (d < 1 || d > 31) continue;
-    add(m.span, { unit: 'day', ...(y ? { year: y } : {}), make: (yy) => dayWindow(ymd(yy, mo, d)), which: 'latest', month: mo });
+    if (!isValidDate(y ?? 2000, mo, d)) add(m.span, { unit: 'month', ...(y ? { year: y } : {}), make: (yy) => monthWindow(yy, mo), which: 'latest', month: mo, notReal: true });
+    else add(m.span, { unit: 'day', ...(y ? { year: y } : {}), make: (yy) => dayWindow(ymd(yy, mo, d)), which: 'latest', month: mo });
   }
   // January 2023, Jan '23, January of last year, last January, 2023-01, 01/2023
   for (const m of text.matches(re(`${B}(?:(last|this|next|previous)\\s+)?(${MONTH_PATTERN})(?:\\.(?=\\s*(?:\\d|'\\d)))?(?:,?\\s+(?:of\\s+)?(?:(${YEAR}|${SHORT_YEAR})|(last|this|next)\\s+year))?${E}`))) {
@@ -444,7 +450,7 @@ export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMentio
   }
   for (const p of points) {
     if (used.has(p)) continue;
-    mentions.push({ start: p.start, end: p.end, window: resolvePoint(p, ctx), unit: p.unit, relative: p.qualified === true, compared: false, words: text.quote(p) });
+    mentions.push({ start: p.start, end: p.end, window: resolvePoint(p, ctx), unit: p.unit, relative: p.qualified === true, compared: false, ...(p.notReal ? { notReal: true } : {}), words: text.quote(p) });
   }
   // The longest reading of any stretch of words wins ("the same month last year" over "last year").
   mentions.push(...relative, ...shifts);

@@ -191,6 +191,8 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
     evidence.deadline = { words: deadline.words, how: 'stated' };
   }
   if (pastDeadline) brief.pastDeadline = pastDeadline;
+  const notes = periodNotes(periods, facts, anchor.dataEnd);
+  if (notes.length > 0) brief.saidBack = notes;
   if (personal.length > 0) brief.personalData = personal;
   if (personalValues.length > 0) brief.personalValues = personalValues.map((p) => p.text);
   if (ambiguous.length > 0) brief.ambiguousValues = ambiguous;
@@ -199,6 +201,28 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   recordEvidence(brief, state);
   brief.toAsk = toAsk(brief);
   return brief;
+}
+
+/**
+ * Periods read otherwise than written, or that the data cannot answer, said back: a day no
+ * calendar has ("30 February 2008", read as its month), a period wholly before or after the data.
+ */
+function periodNotes(periods: readonly PeriodMention[], facts: DatasetFacts, dataEnd: string | null): string[] {
+  const out: string[] = [];
+  const monthly = facts.stamp === 'monthly' || facts.stamp === 'quarterly' || facts.stamp === 'yearly';
+  const say = (iso: string, month = monthly) => new Intl.DateTimeFormat('en-GB', { ...(month ? {} : { day: 'numeric' }), month: 'long', year: 'numeric', timeZone: 'UTC' }).format(new Date(`${iso}T00:00:00Z`));
+  for (const p of periods) if (p.notReal && p.window) out.push(`${p.words} is not a real date, so I read it as ${say(p.window.start, true)}.`);
+  const first = facts.coverage.firstDate;
+  const end = dataEnd ?? (facts.coverage.lastDate ? addDays(facts.coverage.lastDate, 1) : null);
+  if (first && end) {
+    const runs = `The data runs from ${say(first)} to ${say(addDays(end, -1))}`;
+    for (const p of periods) {
+      if (!p.window || p.shift) continue;
+      if (p.window.start >= end) out.push(`${runs}; ${p.words} is after it, so there is nothing to answer for it.`);
+      else if (p.window.end <= first) out.push(`${runs}; ${p.words} is before it, so there is nothing to answer for it.`);
+    }
+  }
+  return unique(out);
 }
 
 // ---------------------------------------------------------------------------------------------

@@ -3,7 +3,9 @@
 // dates each check expects are the calendar's; the data's span is the files' own (BLS: January
 // 2000 to February 2010; stocks: January 2000 to March 2010).
 import { describe, expect, it } from 'vitest';
-import { readStocks, readUnemployment } from './public-data.js';
+import { readRequest } from '../../bot/reading/read-request.js';
+import { cardNotes } from '../../bot/replies.js';
+import { NOW, publicFacts, readStocks, readUnemployment, STOCKS_CONFIG, UNEMPLOYMENT_CONFIG } from './public-data.js';
 
 describe('a period with two ends is the period a change is asked over, not the date of an event', () => {
   it('"how joblessness changed in construction from 2007 through 2009", with a preamble and a closing line', async () => {
@@ -74,5 +76,31 @@ describe('a measure the data lacks is said back, never swapped for one it has', 
     expect(b.questions.flatMap((q) => q.metrics)).toEqual([]);
     expect(b.unknownTerms.length).toBeGreaterThan(0);
     expect(b.toAsk).toContain('metrics');
+  });
+});
+
+describe('a day no calendar has, and a period outside the data, are said back', () => {
+  const brief = async (config: string, text: string) => readRequest(text, await publicFacts(config), { now: NOW });
+
+  it('"30 February 2008" is not a real date: read as February 2008, and said so', async () => {
+    const b = await brief(UNEMPLOYMENT_CONFIG, 'unemployment in Construction for 30 February 2008');
+    expect(b.questions[0]!.window).toEqual({ start: '2008-02-01', end: '2008-03-01' });
+    expect(b.saidBack).toEqual(['30 February 2008 is not a real date, so I read it as February 2008.']);
+  });
+
+  it.each(['jobless rate in Finance on 31 April 2009', 'what was AAPL on February 30th, 2007?'])('%s', async (text) => {
+    const b = await brief(/AAPL/.test(text) ? STOCKS_CONFIG : UNEMPLOYMENT_CONFIG, text);
+    expect(b.saidBack).toEqual([expect.stringMatching(/is not a real date, so I read it as (?:April 2009|February 2007)\.$/)]);
+  });
+
+  it('"GOOG\'s price in February 2031" is after the data, and said so with the data\'s span', async () => {
+    const b = await brief(STOCKS_CONFIG, "What was GOOG's price in February 2031?");
+    // stocks.csv runs from January 2000 to March 2010, one price a month.
+    expect(b.saidBack).toEqual(['The data runs from January 2000 to March 2010; February 2031 is after it, so there is nothing to answer for it.']);
+    // The brief card says it, among its notes.
+    expect(cardNotes(b, (await publicFacts(STOCKS_CONFIG)).dataset)).toContain(b.saidBack![0]);
+    const before = await brief(UNEMPLOYMENT_CONFIG, 'construction unemployment in 1995 vs 1996');
+    expect(before.saidBack).toEqual(expect.arrayContaining([expect.stringMatching(/^The data runs from January 2000 to February 2010; 1995 is before it/)]));
+    expect((await brief(STOCKS_CONFIG, 'MSFT price in March 2009')).saidBack).toBeUndefined();
   });
 });
