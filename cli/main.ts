@@ -299,6 +299,6 @@ function announce(serving: Serving): void {
       `Local channel: ${serving.localUrl}\n` +
       (others.length ? `Also connected: ${others.join(', ')}.\n` : 'Slack and Discord are off (no tokens set).\n') +
       (serving.slackEventsUrl ? `Slack Events API: ${serving.slackEventsUrl}\n` : '') +
-      `Try: "${DEMO_REQUEST}"\nPress Ctrl+C to stop.\n`,
+      `Try: "${serving.starters[0] ?? DEMO_REQUEST}"\nPress Ctrl+C to stop.\n`,
   );
 }

@@ -7,6 +7,7 @@ import pLimit from 'p-limit';
 import { EnvironmentError, readSecrets } from '../config/environment.js';
 import { closeWorkspaces, openWorkspaces } from './workspaces.js';
 import { sweepUnhandled } from '../adapters/local-channel/unhandled-sweep.js';
+import { startersFor } from '../adapters/local-channel/starters.js';
 import { openFileState, openSharedState, sharedStateUrl, type StateBackend } from './state-backend.js';
 import { Bot } from '../bot/Bot.js';
 import { presentAnswer, presentSummary } from '../bot/present-answer.js';
@@ -46,6 +47,8 @@ export const ACCESS_TOKEN_VARIABLE = 'THREADCOUNT_ACCESS_TOKEN';
 
 export interface Serving {
   localUrl: string;
+  /** Requests to start from, drawn from the served data: the page offers them, the start-up hint the first. */
+  starters: string[];
   /** Where Slack's Events API requests are received, when Slack runs over HTTP. */
   slackEventsUrl?: string;
   adapters: string[];
@@ -79,6 +82,7 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
   }
   const { store, queue } = backend;
   const knows: KnownThread = async (threadId) => (await store.get(threadId)) !== undefined;
+  const starters = startersFor([...workspaces.values()].map((w) => ({ dataset: w.dataset, firstDate: w.coverage.firstDate, lastDate: w.coverage.lastDate })));
 
   // The bot needs the router and the adapters need the inbox: deliver is bound late.
   let inbox: ThreadInbox | undefined;
@@ -89,6 +93,7 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
     deliver,
     threads: backend.threads,
     ...(env.local.accessToken ? { accessToken: env.local.accessToken } : {}),
+    starters,
   });
   const adapters: ChatAdapter[] = [local];
   const slack = env.slack ? new SlackAdapter({ env: env.slack, deliver, knows, log }) : undefined;
@@ -162,6 +167,7 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
 
   return {
     localUrl: local.url,
+    starters,
     ...(env.slack?.mode === 'http' && slack ? { slackEventsUrl: slack.eventsUrl } : {}),
     adapters: adapters.map((a) => a.name),
     inbox,

@@ -33,6 +33,8 @@ export interface LocalChannelOptions {
   accessToken?: string;
   /** How long a request may take to arrive in full (headers and body) before it is dropped. */
   requestTimeoutMs?: number;
+  /** Requests the page offers to start from (starters.ts); the generic one alone when absent. */
+  starters?: string[];
 }
 
 /** A request still arriving after this long is dropped (a body declared and never sent holds nothing for long). */
@@ -71,6 +73,7 @@ export class LocalChannel implements ChatAdapter {
         access: opts.accessToken ? new LocalAccess(opts.accessToken) : null,
         botThreadId: localBotThreadId,
         streams: this.streams,
+        starters: () => opts.starters ?? ['What can you measure?'],
       }),
     );
     this.server.on('connection', noteAccepted);

@@ -6,6 +6,7 @@
 //   GET  /api/threads/:id                 -> the thread with all its messages
 //   GET  /api/threads/:id/events          server-sent events: message.created, message.updated
 //   GET  /api/threads/:id/files/:file     an attachment of that thread (chart PNG, CSV, SQL)
+//   GET  /api/starters                    -> {starters: [...]}: requests to start from, drawn from the served data
 //   GET/POST /login                       the sign-in form, when an access token is set
 // A POST answers as soon as the message is recorded; the bot works on it afterwards.
 import type { IncomingMessage as HttpRequest, ServerResponse } from 'node:http';
@@ -38,6 +39,8 @@ export interface LocalApiDeps {
   botThreadId: (localId: string) => string;
   /** Open event streams, so stopping the server can end them. */
   streams: Set<ServerResponse>;
+  /** Requests the page offers to start from, drawn from the served data (starters.ts). */
+  starters: () => string[];
 }
 
 class HttpError extends Error {
@@ -84,6 +87,7 @@ async function route(deps: LocalApiDeps, req: HttpRequest, res: ServerResponse):
 
   if (parts[0] !== 'api') return servePage(deps, method, parts, res);
   const [, collection, id, sub, fileId, ...rest] = parts;
+  if (collection === 'starters' && id === undefined && method === 'GET') return sendJson(res, 200, { starters: deps.starters() });
   if (collection === 'threads' && id === undefined) {
     if (method === 'POST') return createThread(deps, req, res);
     if (method === 'GET') return sendJson(res, 200, { threads: await deps.threads.list() });

@@ -2,7 +2,7 @@
 // vega-datasets: stocks.csv (monthly closing prices of five US companies, 2000–2010, symbol/date/price
 // with text dates "Jan 1 2000") and unemployment-across-industries.json (US BLS monthly unemployed
 // count, in thousands, and rate, in percent points, for 14 industries, 2000–2010).
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
@@ -10,9 +10,11 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import { parse } from 'yaml';
 import { main } from '../../cli/main.js';
 import { readBrief } from '../../cli/read.js';
+import { serve } from '../../cli/serve.js';
 
 const data = join(dirname(dirname(createRequire(import.meta.url).resolve('vega-datasets'))), 'data');
 const stocksCsv = join(data, 'stocks.csv');
+const CHROMIUM = '/usr/bin/chromium';
 afterEach(() => vi.restoreAllMocks());
 
 async function run(args: string[]): Promise<{ code: number; out: string; err: string }> {
@@ -168,5 +170,37 @@ datasets:
     const fixed = await run(['check', '--config', configWith('rate / 100')]);
     expect(fixed.code).toBe(0);
     expect(fixed.out).not.toMatch(/reads its values as fractions/);
+  });
+});
+
+describe('starters drawn from the served data (stocks.csv)', () => {
+  it('the local channel offers questions on share prices and the years the file covers, never the demo\'s', async () => {
+    const file = stocksConfig('');
+    const serving = await serve({ configFile: file, statePath: join(dirname(file), 'state.duckdb'), environment: { local: { host: '127.0.0.1', port: 0 } }, log: () => undefined });
+    try {
+      const res = await fetch(new URL('/api/starters', serving.localUrl));
+      expect(res.status).toBe(200);
+      const { starters } = (await res.json()) as { starters: string[] };
+      expect(starters).toEqual(serving.starters);
+      // The file runs from January 2000 to March 2010 (vega-datasets stocks.csv): the last whole year is 2009.
+      expect(starters).toContain('How has share price moved over time, month by month?');
+      expect(starters).toContain('Which company drove the change in share price in 2009 against 2008?');
+      expect(starters.join(' ')).not.toMatch(/revenue|routes|SkerryPass/i);
+      // The page itself, in Debian's chromium: its buttons are these starters, not the built-in demo ones.
+      if (existsSync(CHROMIUM) || process.env.CI === 'true') {
+        const { chromium } = await import('playwright-core');
+        const browser = await chromium.launch({ executablePath: CHROMIUM, headless: true, args: ['--no-sandbox', '--disable-gpu', '--no-first-run'] });
+        try {
+          const page = await browser.newPage();
+          await page.goto(serving.localUrl);
+          await page.waitForFunction(() => document.querySelector('button.example')?.textContent?.includes('share price'));
+          expect(await page.locator('button.example').allTextContents()).toEqual(starters);
+        } finally {
+          await browser.close();
+        }
+      }
+    } finally {
+      await serving.stop();
+    }
   });
 });

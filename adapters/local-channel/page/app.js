@@ -473,12 +473,32 @@ $('reply-form').addEventListener('submit', async (e) => {
   await reply(text);
 });
 
-for (const b of document.querySelectorAll('button.example')) {
+function bindExample(b) {
   b.addEventListener('click', () => {
     $('request-text').value = b.textContent;
     $('request-text').focus();
   });
 }
+for (const b of document.querySelectorAll('button.example')) bindExample(b);
+
+// The served data's own starters replace the page's built-in ones (those are the demo's).
+fetch('/api/starters', { headers: { accept: 'application/json' } })
+  .then((r) => (r.ok ? r.json() : null))
+  .then((body) => {
+    if (!body || !Array.isArray(body.starters) || body.starters.length === 0) return;
+    const box = document.querySelector('.examples');
+    for (const old of box.querySelectorAll('button.example')) old.remove();
+    for (const text of body.starters) {
+      const b = document.createElement('button');
+      b.type = 'button';
+      b.className = 'example';
+      b.textContent = text;
+      bindExample(b);
+      box.appendChild(b);
+    }
+    $('request-text').placeholder = `e.g. ${body.starters[0]}`;
+  })
+  .catch(() => undefined);
 
 $('author').value = localStorage.getItem('threadcount.author') || 'you';
 $('author').addEventListener('change', () => localStorage.setItem('threadcount.author', author()));
