@@ -3,11 +3,12 @@
 import { verbFor } from './grammar.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { ChangedSegment, GrowthDriverSegment, GrowthDriversFinding } from '../findings/growth.js';
-import { formatChange, formatDayOfYear, formatPeriod } from '../format.js';
+import { formatChange, formatDayOfYear, formatPeriod, formatValue } from '../format.js';
+import { quantityFormat } from './performance-words.js';
 import type { Audience } from '../types.js';
 import { verdictDirection, type GrowthWords } from './growth-series-caption.js';
 import type { Verdict } from './verdict-words.js';
-import { addDays, addMonths } from '../periods.js';
+import { addDays, addMonths, daysBetween } from '../periods.js';
 import { capitalise, dimensionLabel, directionOf, formatPoints, lower, segmentText, spanText, unsignedPercent, valueText } from './growth-words.js';
 
 /** Segments named in a caption, largest change first. */
@@ -48,6 +49,8 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
       : `${label} went from ${money(total.before)} to ${money(total.after)}`;
   const named = f.segments.filter((s) => s.change !== null).slice(0, NAMED_IN_CAPTION);
   const sentences = [`${totalMove}, ${spans}.`];
+  const perDay = perDaySentence(f, label, metric, locale);
+  if (perDay) sentences.push(perDay);
   if (lfl) sentences.push(likeForLikeSentence(lfl, label, (s) => segmentText(s.segment, f.dimension, dataset), money, locale));
 
   if (audience === 'leadership') {
@@ -138,4 +141,20 @@ export function spansVerdict(metric: Metric, f: GrowthDriversFinding, locale: st
   }
   const where = direction === 'level' ? `level with ${base.replace(/ \(/, ` (${formatChange(rel, locale)}, `)}` : `${unsignedPercent(rel, locale)} ${direction === 'up' ? 'above' : 'below'} ${base}`;
   return { direction, statement: wholeYears(current) ? `${label} in ${spanText(current, locale)} ${verbFor(label, 'was')} ${where}` : `${label} ${verbFor(label)} ${where}` };
+}
+
+/**
+ * Totals of two spans that differ in length ("March against February": 31 days against 29) differ
+ * by the days alone, so a total that adds up over days is also said per day, with the days, from
+ * which each figure can be worked out. Null for spans of one length or a total that does not add up.
+ */
+function perDaySentence(f: GrowthDriversFinding, label: string, metric: Metric, locale: string): string | null {
+  const [dc, dp] = [daysBetween(f.current.start, f.current.end), daysBetween(f.prior.start, f.prior.end)];
+  const { before, after } = f.total;
+  // A leap day (0.3% of a year) is not worth a sentence; a month against another is (up to 10%).
+  if (!f.additive || Math.abs(dc - dp) <= 0.01 * Math.max(dc, dp) || dc <= 0 || dp <= 0 || before === null || after === null || before <= 0) return null;
+  const [a, b] = [after / dc, before / dp];
+  const fmt = quantityFormat(metric, 'per_day', locale);
+  const rel = a / b - 1;
+  return `${capitalise(spanText(f.current, locale))} has ${dc} days and ${spanText(f.prior, locale)} ${dp}, so per day ${lower(label)} ${totalVerb(rel, locale)} (${formatValue(a, fmt)} against ${formatValue(b, fmt)} a day).`;
 }
