@@ -136,6 +136,14 @@ function roleOf(w: Word, text: RequestText): UnknownTerm['role'] | undefined {
   if ((w.named || !isVerbLike(n)) && VALUE_SLOT.test(before) && (w.named || VALUE_END.test(after))) return 'value';
   if (nextKnown && !isVerbLike(n) && !/^(?:each|every|all|both|our|total|average|new|more|less|most|top|gross|net)$/.test(n) && isModifierSlot(before)) return 'value';
   if (w.named && /^\s*(?:route|site|store|branch|channel|region|line|office|location|team|plan|product)s?\b/.test(after)) return 'value';
+  // "Apple's share price": a name owning a catalog term is a value the data may call otherwise.
+  if (/'s$/i.test(w.raw) && nextKnown && !isVerbLike(n)) return 'value';
+  // "amazn and microsfot prices": listed with a word that stands before a catalog term, it is one of the same kind.
+  const joined = text.words[w.index + 2];
+  if (joined && /^\s*(?:,|and|or|&|vs\.?|versus)\s*$/.test(text.lower.slice(w.end, joined.start)) && !isVerbLike(n)) {
+    const after2 = text.words[joined.index + 1];
+    if (text.isClaimed(joined) || (!STOPWORDS.has(joined.norm) && after2 && text.isClaimed(after2) && /^\s*$/.test(text.lower.slice(joined.end, after2.start)))) return 'value';
+  }
   // A noun phrase asked about with nothing the catalog knows in it: "How is on-time performance trending?", "load factor by vessel".
   if (ASKS_OF.test(before) && METRIC_SLOT_AFTER.test(after) && !isVerbLike(n)) return 'metric';
   if ((METRIC_SLOT_BEFORE.test(before) && METRIC_SLOT_AFTER.test(after)) || (/\b(?:trends?\s+(?:of|in)|growth\s+(?:of|in)|number\s+of|how\s+many|total)\s+(?:our\s+|the\s+)?$/.test(before) && !isVerbLike(n))) return 'metric';

@@ -104,3 +104,22 @@ describe('a day no calendar has, and a period outside the data, are said back', 
     expect((await brief(STOCKS_CONFIG, 'MSFT price in March 2009')).saidBack).toBeUndefined();
   });
 });
+
+describe('a word that looks like a value the reader cannot match never vanishes', () => {
+  const brief = async (text: string) => readRequest(text, await publicFacts(STOCKS_CONFIG), { now: NOW });
+
+  it('"amazn and microsfot prices": both are said back, not only the second', async () => {
+    const b = await brief('amazn and microsfot prices quartely pls');
+    expect(b.unknownTerms.map((u) => u.text)).toEqual(expect.arrayContaining(['amazn', 'microsfot']));
+    expect(b.toAsk).toContain('values');
+  });
+
+  it.each([
+    ["Hi! could you take a look at how Apple's share price did over the years?", 'apple'],
+    ["how has Amazon's stock price done since 2005", 'amazon'],
+    ['googl or amazn share price trend', 'googl'],
+  ])('%s', async (text, word) => {
+    const b = await brief(text);
+    expect(b.unknownTerms.map((u) => u.text)).toContain(word);
+  });
+});
