@@ -25,7 +25,7 @@ export const MAX_PLAN_ITEMS = 16;
 const LEADERSHIP_MAX_ITEMS = 6;
 const LENS_ORDER: Lens[] = ['time_pattern', 'breakdown', 'summary', 'distribution'];
 
-type Draft = Omit<SubQuestion, 'id'> & { headline: boolean; first?: boolean };
+type Draft = Omit<SubQuestion, 'id'> & { headline: boolean; first?: boolean; defaultBreakdown?: boolean };
 
 /** Metrics side by side in one period table; more are split over several tables so each stays legible. */
 export const MAX_TABLE_METRICS = 4;
@@ -115,7 +115,7 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           add('performance_compare', metric, true, g, since);
           add('performance_before_after', metric, false, g, history);
           const d = dims[0] ?? firstBreakdownDimension(ds, q.filters);
-          if (d) add('performance_by_segment', metric, false, { ...g, dimension: d }, since);
+          if (d) add('performance_by_segment', metric, false, { ...g, dimension: d, ...(dims[0] ? {} : { defaultBreakdown: true }) }, since);
           break;
         }
         case 'kpi': {
@@ -133,8 +133,7 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
   // Leadership gets the headline of each question first, and fewer items.
   const leadership = brief.audience === 'leadership';
   const cap = leadership ? LEADERSHIP_MAX_ITEMS : MAX_PLAN_ITEMS;
-  const chosen = [...drafts.filter((d) => d.first), ...(leadership ? [...drafts.filter((d) => d.headline && !d.first), ...drafts.filter((d) => !d.headline)] : drafts.filter((d) => !d.first))];
-  const kept = new Set(chosen.slice(0, cap));
+  const kept = new Set(capOrder(drafts).slice(0, cap));
   // Shown grouped under each kind (in the order asked), headline first, then by lens; period tables open the plan.
   const kindOrder = [...new Set(drafts.map((d) => d.kind))];
   const rank = (d: Draft) => (d.first ? -1 : kindOrder.indexOf(d.kind) * 100 + (d.headline ? 0 : 10 + LENS_ORDER.indexOf(d.lens)));
@@ -142,7 +141,7 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
   const keptOrdered = ordered.filter((d) => kept.has(d));
   const leftOrdered = ordered.filter((d) => !kept.has(d));
   const toSub = (d: Draft, i: number): SubQuestion => {
-    const { headline: _headline, first: _first, ...sq } = d;
+    const { headline: _headline, first: _first, defaultBreakdown: _default, ...sq } = d;
     return { id: `q${i + 1}`, ...sq };
   };
   return {
@@ -172,9 +171,48 @@ function addPeriodTables(drafts: Draft[], q: Question, brief: Brief, metrics: st
 
 /** Whether two drafts would compute the same thing: everything but whether either heads its question. */
 function sameItem(a: Draft, b: Draft): boolean {
-  const { headline: _a, first: _fa, ...x } = a;
-  const { headline: _b, first: _fb, ...y } = b;
+  const { headline: _a, first: _fa, defaultBreakdown: _da, ...x } = a;
+  const { headline: _b, first: _fb, defaultBreakdown: _db, ...y } = b;
   return isDeepStrictEqual(x, y);
+}
+
+/**
+ * The order a capped plan keeps items in (issue 17 item 13): what was asked before what was
+ * assumed, and a near-duplicate chart last. Period tables; each question's headline; the breakdowns
+ * the request named; the other lenses; then breakdowns the plan chose itself and a second line of a
+ * metric's own series (the same metric, window and grain drawn again with a mark or a mean). Within
+ * each tier the metrics take turns, so a metric named last is not the one the cap drops whole.
+ */
+function capOrder(drafts: readonly Draft[]): Draft[] {
+  const lines = new Set<string>();
+  const repeat = new Set<Draft>();
+  for (const d of [...drafts.filter((x) => x.headline), ...drafts.filter((x) => !x.headline)]) {
+    if (!SUB_QUESTIONS[d.template].drawsSeriesLine) continue;
+    const key = JSON.stringify([d.metrics, d.window, d.grain, d.filters]);
+    if (lines.has(key)) repeat.add(d);
+    else lines.add(key);
+  }
+  const last = (d: Draft) => repeat.has(d) || d.defaultBreakdown === true;
+  const tiers = [
+    drafts.filter((d) => d.first),
+    drafts.filter((d) => !d.first && d.headline),
+    drafts.filter((d) => !d.first && !d.headline && d.dimension !== undefined && !last(d)),
+    drafts.filter((d) => !d.first && !d.headline && d.dimension === undefined && !last(d)),
+    drafts.filter((d) => !d.first && !d.headline && last(d)),
+  ];
+  return tiers.flatMap(byTurns);
+}
+
+/** Items in turns by metric: the first of each metric, then the second of each, and so on. */
+function byTurns(items: readonly Draft[]): Draft[] {
+  const groups = new Map<string, Draft[]>();
+  for (const d of items) {
+    const key = d.metrics.join(',');
+    groups.set(key, [...(groups.get(key) ?? []), d]);
+  }
+  const out: Draft[] = [];
+  for (let i = 0; out.length < items.length; i++) for (const g of groups.values()) if (g[i]) out.push(g[i]!);
+  return out;
 }
 
 function monthsIn(w: DateWindow): number {

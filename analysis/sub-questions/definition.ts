@@ -28,6 +28,11 @@ export interface SubQuestionDefinition<N extends string = string> {
   rollup?: RollupUse;
   template: Template;
   present: Presenter;
+  /**
+   * Its chart is the metric's own series as a line (marks, a trend line or a mean over it): two such
+   * items of one metric, window and grain look nearly alike, so a capped plan drops the second first.
+   */
+  drawsSeriesLine?: true;
   /** One plain sentence for the plan ("Monthly revenue, January 2022 to June 2025, ..."). */
   describe(words: PlanWords, sq: SubQuestion): string;
 }

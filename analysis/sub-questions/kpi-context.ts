@@ -10,5 +10,6 @@ export const kpiContextSubQuestion = defineSubQuestion({
   rollup: {},
   template: kpiContextTemplate,
   present: presentKpiContext,
+  drawsSeriesLine: true,
   describe: (w, sq) => `How the latest ${sq.grain} of ${w.metric} compares with its whole history.`,
 });

@@ -11,5 +11,6 @@ export const seriesSubQuestion = defineSubQuestion({
   rollup: {},
   template: seriesTemplate,
   present: presentSeries,
+  drawsSeriesLine: true,
   describe: (w, sq) => `${capitalise(w.grain)} ${w.metric}, ${w.span}, with the highest and lowest ${sq.grain}s marked.`,
 });

@@ -10,5 +10,6 @@ export const trendSummarySubQuestion = defineSubQuestion({
   rollup: {},
   template: trendSummaryTemplate,
   present: presentTrendSummary,
+  drawsSeriesLine: true,
   describe: (w) => `Summary statistics of ${w.grain} ${w.metric} (${w.span}): range, mean, median, spread and outliers.`,
 });

@@ -10,5 +10,6 @@ export const trendTestSubQuestion = defineSubQuestion({
   rollup: {},
   template: trendTestTemplate,
   present: presentTrendTest,
+  drawsSeriesLine: true,
   describe: (w) => `Is ${w.metric} trending up or down (${w.span})? Direction, strength and the change since the peak.`,
 });

@@ -182,3 +182,48 @@ describe('a grain finer than the data is stamped', () => {
   });
 });
 
+describe('the size cap keeps what was asked (issue 17 item 13)', () => {
+  const trend = (metrics: string[], dimensions: string[]): Question => ({ text: 'how have they moved', kind: 'trend', metrics, dimensions, filters: [], frequency: false });
+  const brief = (questions: Question[], audience: Brief['audience']): Brief => ({
+    requestText: 'how have they moved, by route and channel',
+    questions,
+    kinds: [...new Set(questions.map((q) => q.kind))],
+    metrics: [...new Set(questions.flatMap((q) => q.metrics))],
+    dimensions: [...new Set(questions.flatMap((q) => q.dimensions))],
+    unknownTerms: [],
+    grain: 'quarter',
+    window: { start: '2022-01-01', end: '2025-06-19' },
+    audience,
+  });
+  const nearDuplicates = ['trend_test', 'trend_summary'];
+
+  it('for leadership: every named metric and breakdown before a second line of the same series', () => {
+    const plan = buildPlan(brief([trend(['revenue', 'bookings'], ['route'])], 'leadership'), exampleDataset, coverage);
+    expect(plan.items).toHaveLength(6);
+    const kept = plan.items.map((sq) => `${sq.template}:${sq.metrics[0]}${sq.dimension ? `:${sq.dimension}` : ''}`);
+    // Each metric's headline and its breakdowns by the route asked for.
+    expect(kept).toEqual(expect.arrayContaining(['series:revenue', 'series:bookings', 'segment_trend:revenue:route', 'segment_trend:bookings:route']));
+    // The lines that repeat the series (its trend line, its mean) are the first to go.
+    expect(plan.items.some((sq) => nearDuplicates.includes(sq.template))).toBe(false);
+    expect(plan.leftOut.filter((sq) => nearDuplicates.includes(sq.template))).toHaveLength(4);
+  });
+
+  it('for managers: no named metric is dropped whole when a long plan is cut', () => {
+    const metrics = ['revenue', 'bookings', 'passengers', 'customers', 'average_fare'];
+    const plan = buildPlan(brief([trend(metrics, ['route', 'channel'])], 'managers'), exampleDataset, coverage);
+    expect(plan.leftOut.length).toBeGreaterThan(0);
+    for (const m of metrics) expect(plan.items.some((sq) => sq.metrics.includes(m) && sq.template === 'series'), m).toBe(true);
+    // Every named breakdown is kept for the first metric at least, and no near-duplicate line is kept while a breakdown is left out.
+    for (const d of ['route', 'channel']) expect(plan.items.some((sq) => sq.dimension === d), d).toBe(true);
+    if (plan.leftOut.some((sq) => sq.dimension !== undefined)) expect(plan.items.some((sq) => nearDuplicates.includes(sq.template))).toBe(false);
+  });
+
+  it('drops a breakdown the plan chose itself before one the request named', () => {
+    const perf = (dimensions: string[]): Question => ({ text: 'do pass holders spend more', kind: 'performance', metrics: ['revenue', 'bookings', 'average_fare'], dimensions, filters: [], frequency: false, comparisonGroup: 'skerrypass' });
+    const b = { ...brief([perf([]), trend(['refund_rate'], ['channel'])], 'leadership'), comparisonGroup: 'skerrypass' };
+    const plan = buildPlan(b, exampleDataset, coverage);
+    // The channel breakdown asked for is kept; the performance breakdown by the catalog's first dimension, not asked for, goes.
+    expect(plan.items.some((sq) => sq.template === 'segment_trend' && sq.dimension === 'channel')).toBe(true);
+    expect(plan.leftOut.some((sq) => sq.template === 'performance_by_segment')).toBe(true);
+  });
+});
