@@ -31,6 +31,20 @@ export function countOf(n: number, noun: string, locale = 'en', plural?: string)
   return `${formatValue(n, { unit: 'count', locale })} ${nounFor(n, noun, plural)}`;
 }
 
+/**
+ * Whether a metric's label reads as plural ("Bookings", "Passengers", "Sign-ups"): its last word
+ * ends in a single s. "Bookings per customer" and "Revenue" are singular.
+ */
+export function isPluralLabel(label: string): boolean {
+  const last = label.trim().split(' ').pop() ?? '';
+  return /[^s]s$/i.test(last);
+}
+
+/** The verb agreeing with a label: `agree("Bookings", "was", "were")` → "were". */
+export function agree(label: string, singular: string, plural: string): string {
+  return isPluralLabel(label) ? plural : singular;
+}
+
 /** "is" or "are" for n things. */
 export function isAre(n: number): string {
   return Math.abs(n) === 1 ? 'is' : 'are';

@@ -14,7 +14,7 @@ import {
   sentenceCase,
   signedChange,
 } from './kpi-words.js';
-import { metricMeaning } from './metric-words.js';
+import { meaningAside } from './metric-words.js';
 
 // A segment with a handful of rows swings by chance; it is not named the biggest mover (rule of thumb, common practice).
 const MIN_ROWS_TO_RANK_CHANGE = 30;
@@ -49,7 +49,7 @@ export function kpiBySegmentWords(f: KpiBySegmentFinding, metric: Metric, ds: Da
   const title = sentenceCase(`${label(top)} had the highest ${inSentence(metric.label)} in ${when}: ${kpiValue(top.value, metric, locale)}${yoyTail}`);
 
   const sentences: string[] = [];
-  const meaning = audience === 'leadership' ? '' : ` (${metricMeaning(metric, ds, audience)})`;
+  const meaning = meaningAside(metric, ds, audience);
   const list = ranked.slice(0, audience === 'leadership' ? 3 : 5).map((r) => `${label(r)} ${kpiValue(r.value, metric, locale)}`);
   sentences.push(`${metric.label}${meaning} by ${inSentence(dimLabel)} in ${when}: ${list.join(', ')}; all ${pluralOf(dimLabel)} together ${kpiValue(f.total.value, metric, locale)}.`);
   if (ranked.length > 1) {

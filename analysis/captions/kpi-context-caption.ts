@@ -5,7 +5,8 @@ import { formatValue } from '../format.js';
 import type { Audience } from '../types.js';
 import type { KpiWords } from './kpi-snapshot-caption.js';
 import { grainNoun, kpiValue, ordinal, periodName } from './kpi-words.js';
-import { metricMeaning } from './metric-words.js';
+import { agree } from './grammar.js';
+import { meaningAside } from './metric-words.js';
 
 export function kpiContextWords(f: KpiContextFinding, metric: Metric, ds: DatasetConfig, audience: Audience, locale: string): KpiWords {
   const when = periodName(f.period, f.grain, locale);
@@ -23,8 +24,8 @@ export function kpiContextWords(f: KpiContextFinding, metric: Metric, ds: Datase
   const title = `${metric.label} in ${when} was ${value}, ${place.replace(/ since .*$/, '')}`;
 
   const sentences: string[] = [];
-  const meaning = audience === 'leadership' ? '' : ` (${metricMeaning(metric, ds, audience)})`;
-  sentences.push(`${metric.label}${meaning} was ${value} in ${when}, ${place}.`);
+  const meaning = meaningAside(metric, ds, audience);
+  sentences.push(`${metric.label}${meaning} ${agree(metric.label, 'was', 'were')} ${value} in ${when}, ${place}.`);
   if (f.n > 1) {
     const range = `from ${kpiValue(f.min, metric, locale)} in ${periodName(f.minPeriod, f.grain, locale)} to ${kpiValue(f.max, metric, locale)} in ${periodName(f.maxPeriod, f.grain, locale)}`;
     if (audience === 'leadership') sentences.push(`A typical ${grainNoun(f.grain)} is about ${kpiValue(f.median, metric, locale)}.`);

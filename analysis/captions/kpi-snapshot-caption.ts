@@ -13,7 +13,8 @@ import {
   shortPeriodName,
   verdict,
 } from './kpi-words.js';
-import { metricFormula, metricMeaning } from './metric-words.js';
+import { agree } from './grammar.js';
+import { meaningAside, metricFormula } from './metric-words.js';
 
 export interface KpiWords {
   title: string;
@@ -37,23 +38,28 @@ export function kpiSnapshotWords(
     if (phrase === null) return null;
     return phrase === 'level' ? `level with ${short(d)}` : `${phrase} on ${short(d)}`;
   };
-  const headline = against(f.previous) ?? against(f.lastYear);
-  const title = headline ? `${metric.label} was ${value} in ${when}, ${headline}` : `${metric.label} was ${value} in ${when}`;
+  // The same period a year earlier shares its season, so it leads (issue 17 item 8): a seasonal
+  // business does not read "up 16.7% on April" about a May that is always busier than April.
+  // The period before leads only when no year-earlier figure compares (and at the year grain,
+  // where the period before is the year earlier).
+  const headline = against(f.lastYear) ?? against(f.previous);
+  const was = agree(metric.label, 'was', 'were');
+  const title = headline ? `${metric.label} ${was} ${value} in ${when}, ${headline}` : `${metric.label} ${was} ${value} in ${when}`;
 
   const sentences: string[] = [];
   const partial = caveats.find((c) => c.code === 'partial_period_excluded');
   const latestNote = partial
     ? `, the latest complete ${grainNoun(f.grain)} (${periodName(String(partial.data.period), f.grain, locale)} is left out: it is only covered up to ${periodName(String(partial.data.coveredTo), 'day', locale)})`
     : `, the latest complete ${grainNoun(f.grain)}`;
-  const comparisons = [f.previous, f.lastYear].filter((d): d is KpiDelta => d !== null);
+  const comparisons = [f.lastYear, f.previous].filter((d): d is KpiDelta => d !== null);
   const detailed = comparisons.map((d) => {
     const phrase = changePhrase(d, metric, locale);
     const base = `${periodName(d.period, f.grain, locale)} (${cardValue(d.value, metric, locale)})`;
     if (phrase === null) return `no figure for ${periodName(d.period, f.grain, locale)} to compare with`;
     return phrase === 'level' ? `level with ${base}` : `${phrase} on ${base}`;
   });
-  const meaning = audience === 'leadership' ? '' : ` (${metricMeaning(metric, ds, audience)})`;
-  sentences.push(`${metric.label}${meaning} was ${value} in ${when}${latestNote}: ${detailed.join(' and ')}.`);
+  const meaning = meaningAside(metric, ds, audience);
+  sentences.push(`${metric.label}${meaning} ${was} ${value} in ${when}${latestNote}: ${detailed.join(' and ')}.`);
 
   const verdicts = comparisons.map((d) => verdict(d, metric));
   const judged = judgement(verdicts, comparisons, f, metric, locale);

@@ -1,6 +1,7 @@
 // What a metric means, in words for its reader: analysts see the catalog's description (or the
 // formula) as written, column names and all; managers and leadership never see a raw column
-// name ("sum of fare_total"): a breakdown's column reads as its label, any other as plain words.
+// name ("sum of fare_total"): a breakdown's column reads as its label, and words that would need
+// one are left out, the metric's label saying it instead.
 import type { DatasetConfig, Metric, MetricDefinition } from '../../config/schema.js';
 import type { Audience } from '../types.js';
 
@@ -9,32 +10,50 @@ export function metricFormula(metric: Metric, ds: DatasetConfig): string {
   return formulaOf(metric.definition, ds);
 }
 
-/** The catalog's description, else the formula; for readers other than analysts, without raw column names. */
+/**
+ * The catalog's description, else the formula; for readers other than analysts, only in words a
+ * manager would say: a breakdown's column by its label, a money column by its code, and nothing
+ * at all ('') when the words still name a raw column ("sum of fare_total"): the chart's chip and
+ * the caption already name the metric by its label (issue 17 item 10).
+ */
 export function metricMeaning(metric: Metric, ds: DatasetConfig, audience: Audience): string {
-  const text = metric.description ?? metricFormula(metric, ds);
-  return audience === 'analysts' ? text : plainColumnWords(text, ds);
+  const formula = metricFormula(metric, ds);
+  if (audience === 'analysts') return metric.description ?? formula;
+  return (metric.description !== undefined ? managerWords(metric.description, ds) : null) ?? managerWords(formula, ds) ?? '';
+}
+
+/** The meaning as an aside after the metric's label, " (revenue divided by passengers)"; none for leadership or when unsaid. */
+export function meaningAside(metric: Metric, ds: DatasetConfig, audience: Audience): string {
+  const meaning = audience === 'leadership' ? '' : metricMeaning(metric, ds, audience);
+  return meaning ? ` (${meaning})` : '';
 }
 
 // Codes that end a money column's name ("revenue_eur"): said as the code in capitals.
 const CURRENCY_CODES = new Set(['eur', 'usd', 'gbp', 'jpy', 'chf', 'cad', 'aud', 'sek', 'nok', 'dkk', 'pln', 'cny', 'inr']);
+// A name a person would not say: with an underscore, or with inner capitals.
+const IDENTIFIER = /\b[A-Za-z][A-Za-z0-9]*(?:_[A-Za-z0-9]+)+\b|\b[a-z]+(?:[A-Z][a-z0-9]*)+\b/g;
 
 /**
  * `text` with every raw column name in words: a breakdown's column becomes the breakdown's label
- * ("fare_class" → "fare class" or the label the catalog gives it), and any other identifier
- * (a name with an underscore or inner capitals) its parts spelled out ("fare_total" → "fare total").
+ * ("fare_class" → "fare class" or the label the catalog gives it), a money column its name and
+ * code ("revenue_eur" → "revenue (EUR)"); null when any other identifier is left ("fare_total"),
+ * which only its owner knows how to say.
  */
-export function plainColumnWords(text: string, ds: DatasetConfig): string {
+export function managerWords(text: string, ds: DatasetConfig): string | null {
   const labels = new Map<string, string>();
   for (const d of ds.dimensions) labels.set(d.column, d.label.toLowerCase());
   for (const g of ds.comparison_groups) labels.set(g.column, g.label);
-  return text.replace(/\b[A-Za-z][A-Za-z0-9]*(?:_[A-Za-z0-9]+)+\b|\b[a-z]+(?:[A-Z][a-z0-9]*)+\b/g, (name) => {
+  let unsaid = false;
+  const out = text.replace(IDENTIFIER, (name) => {
     const label = labels.get(name);
     if (label) return label;
     const parts = name.split(/_|(?=[A-Z])/).filter((p) => p !== '').map((p) => p.toLowerCase());
     const last = parts[parts.length - 1]!;
     if (parts.length > 1 && CURRENCY_CODES.has(last)) return `${parts.slice(0, -1).join(' ')} (${last.toUpperCase()})`;
-    return parts.join(' ');
+    unsaid = true;
+    return name;
   });
+  return unsaid ? null : out;
 }
 
 function formulaOf(def: MetricDefinition, ds: DatasetConfig): string {

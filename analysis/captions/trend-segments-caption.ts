@@ -1,9 +1,10 @@
 // Titles and captions for segment trends and segment shares, written only from findings.
 import type { Dimension, Metric } from '../../config/schema.js';
-import type { SegmentSharesFinding, SegmentShareRow, SegmentTrendFinding, SegmentTrendOverviewFinding } from '../findings/segments.js';
+import { CLEAR_LEAD, type SegmentSharesFinding, type SegmentShareRow, type SegmentTrendFinding, type SegmentTrendOverviewFinding } from '../findings/segments.js';
 import { formatChange, formatValue, valueFormatOf } from '../format.js';
 import type { Audience, Finding } from '../types.js';
-import { isPluralLabel, type Words } from './trend-test-caption.js';
+import { agree, isPluralLabel } from './grammar.js';
+import type { Words } from './trend-test-caption.js';
 import { capitalise, countWord, dimensionPlural, formatRelativeSize, formatShare, lowerLabel, segmentLabel } from './trend-words.js';
 
 type Dim = Pick<Dimension, 'label'>;
@@ -40,10 +41,24 @@ export function segmentTrendWords(metric: Metric, dim: Dim, findings: readonly F
   const rate = (t: SegmentTrendFinding) => (measure === 'cagr' ? t.growth?.cagr ?? null : t.slopePerYearRelative);
   const slowest = named.reduce<SegmentTrendFinding | null>((lo, t) => (rate(t) !== null && (lo === null || rate(t)! < rate(lo)!) ? t : lo), null);
   const growth = segmentGrowthText(fastest, locale)!;
-  const title = capitalise(overview.fastest.value > 0 ? `${segmentLabel(fastest)} grew fastest: ${growth}` : `${segmentLabel(fastest)} held up best: ${growth}`);
+  // A lead under CLEAR_LEAD (or one the rounding hides) names no single winner: both are said.
+  const runner = overview.runnerUp ? named.find((t) => t.segment === overview.runnerUp!.segment) : undefined;
+  const tied =
+    runner && overview.runnerUp && (overview.fastest.value - overview.runnerUp.value < CLEAR_LEAD || segmentGrowthText(runner, locale, false) === segmentGrowthText(fastest, locale, false))
+      ? runner
+      : undefined;
+  const both = tied ? `${segmentLabel(fastest)} and ${segmentLabel(tied)}` : '';
+  const bothRates = tied ? `${segmentGrowthText(fastest, locale, false)!.replace(/ a year.*$/, '')} and ${segmentGrowthText(tied, locale)!}` : '';
+  const title = capitalise(
+    tied
+      ? `${both} ${overview.fastest.value > 0 ? 'grew at about the same pace' : 'held up about equally'}: ${bothRates}`
+      : overview.fastest.value > 0
+        ? `${segmentLabel(fastest)} grew fastest: ${growth}`
+        : `${segmentLabel(fastest)} held up best: ${growth}`,
+  );
   const largestLine = largest ? `${segmentLabel(largest)} is the largest, at ${formatValue(largest.total, fmt, { compact: true })} over the period.` : '';
   const slowestLine =
-    slowest && slowest !== fastest ? `${segmentLabel(slowest)} ${rate(slowest)! < 0 ? 'shrank the most' : 'grew the least'} (${segmentGrowthText(slowest, locale, false)}).` : '';
+    slowest && slowest !== fastest && slowest !== tied ? `${segmentLabel(slowest)} ${rate(slowest)! < 0 ? 'shrank the most' : 'grew the least'} (${segmentGrowthText(slowest, locale, false)}).` : '';
   let caption: string;
   if (audience === 'analysts') {
     const list = named
@@ -55,10 +70,16 @@ export function segmentTrendWords(metric: Metric, dim: Dim, findings: readonly F
       .join('; ');
     caption = `By ${lowerLabel(dim.label)} (growth between the first and last calendar years with rows in all twelve months): ${list}.`;
   } else if (audience === 'managers') {
-    caption = `Among ${plural}, ${segmentLabel(fastest)} ${overview.fastest.value > 0 ? 'grew fastest' : 'held up best'}, ${growth}. ${capitalise(slowestLine)} ${capitalise(largestLine)}`.replace(/ {2,}/g, ' ').trim();
+    const lead = tied
+      ? `${both} ${overview.fastest.value > 0 ? 'grew at about the same pace' : 'held up about equally'}, ${bothRates}, too close to name one`
+      : `${segmentLabel(fastest)} ${overview.fastest.value > 0 ? 'grew fastest' : 'held up best'}, ${growth}`;
+    caption = `Among ${plural}, ${lead}. ${capitalise(slowestLine)} ${capitalise(largestLine)}`.replace(/ {2,}/g, ' ').trim();
   } else {
     const pace = overview.fastest.value > 0 ? `growing fastest, about ${formatRelativeSize(overview.fastest.value, locale)} a year` : `holding up best, though shrinking about ${formatRelativeSize(overview.fastest.value, locale)} a year`;
-    caption = `${capitalise(segmentLabel(fastest))} is ${pace}. ${capitalise(largestLine)}`.trim();
+    const lead = tied
+      ? `${capitalise(both)} are ${overview.fastest.value > 0 ? 'growing' : 'changing'} at about the same pace, about ${formatRelativeSize(overview.fastest.value, locale)} a year`
+      : `${capitalise(segmentLabel(fastest))} is ${pace}`;
+    caption = `${lead}. ${capitalise(largestLine)}`.trim();
   }
   return { title, caption };
 }
@@ -81,7 +102,7 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
     const why = f.additive ? `the total is not positive or some ${plural} are negative` : `${noun} ${isPluralLabel(metric.label) ? 'are' : 'is'} not a total that splits across ${plural}`;
     const list = ranked.slice(0, 5).map((r) => `${segmentLabel(r)} ${formatValue(r.value, fmt)}`).join(', ');
     return {
-      title: top ? `${metric.label} is highest for ${segmentLabel(top)} (${formatValue(top.value, fmt)})` : `${metric.label} by ${lowerLabel(dim.label)}: no values`,
+      title: top ? `${metric.label} ${agree(metric.label, 'is', 'are')} highest for ${segmentLabel(top)} (${formatValue(top.value, fmt)})` : `${metric.label} by ${lowerLabel(dim.label)}: no values`,
       caption: `Shares do not apply here: ${why}. ${list ? `By ${lowerLabel(dim.label)}: ${list}.` : ''}`.trim(),
     };
   }

@@ -5,7 +5,8 @@ import { quantityKind } from '../catalog.js';
 import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import { MODIFIED_Z_THRESHOLD } from '../stats/index.js';
 import type { Audience, Finding, Grain } from '../types.js';
-import { isPluralLabel, type Words } from './trend-test-caption.js';
+import { isPluralLabel } from './grammar.js';
+import type { Words } from './trend-test-caption.js';
 import { formatIndex, grainNoun, lowerLabel } from './trend-words.js';
 
 export function trendSummaryWords(metric: Metric, grain: Grain, findings: readonly Finding[], audience: Audience, locale: string): Words {

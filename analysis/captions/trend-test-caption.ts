@@ -5,6 +5,7 @@ import { changesInUnits } from '../catalog.js';
 import { formatChange, formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import { yearFraction } from '../periods.js';
 import type { Audience, Finding, Grain } from '../types.js';
+import { isPluralLabel } from './grammar.js';
 import { formatSmallPoints } from './growth-words.js';
 import { formatIndex, formatP, formatRelativeSize, grainNoun } from './trend-words.js';
 
@@ -13,11 +14,6 @@ export interface Words {
   caption: string;
 }
 
-/** "Bookings show" / "Revenue shows": a label whose last word ends in a single s reads as plural. */
-export function isPluralLabel(label: string): boolean {
-  const last = label.trim().split(' ').pop() ?? '';
-  return /[^s]s$/i.test(last);
-}
 
 export function trendTestWords(metric: Metric, grain: Grain, findings: readonly Finding[], audience: Audience, locale: string): Words {
   const test = findings.find((f): f is TrendTestFinding => f.type === 'trend_test' && f.metric === metric.name);
@@ -47,10 +43,15 @@ export function trendTestWords(metric: Metric, grain: Grain, findings: readonly 
     : test.slopePerYearRelative === null ? null : formatChange(test.slopePerYearRelative, locale);
   const moving = test.direction === 'up' ? 'rising' : 'falling';
   const show = plural ? 'show' : 'shows';
-  const title =
-    test.direction === 'none'
+  // Under two years a move is not declared a trend: it may be the season (issue 17 item 8).
+  const unresolved = test.seasonUnresolved === true;
+  const went = test.direction === 'up' ? 'rose' : test.direction === 'down' ? 'fell' : 'moved';
+  const title = unresolved
+    ? `${metric.label} ${went} from ${span}: too short a span to tell a trend from the season`
+    : test.direction === 'none'
       ? `${metric.label}: no clear trend from ${span}`
       : `${metric.label} ${show} a ${moving} trend of about ${perPeriod} per ${grainNoun(grain)}`;
+  const seasonCaveat = `With less than two years of ${grainNoun(grain, 2)}, a rise or fall cannot be told apart from the usual seasonal pattern; over two years or more the season can be allowed for.`;
 
   let caption: string;
   if (audience === 'analysts') {
@@ -60,8 +61,12 @@ export function trendTestWords(metric: Metric, grain: Grain, findings: readonly 
       ? `Sen's slope ${signedPoints(test.slopePerPeriod)} per ${grainNoun(grain)}, ${signedPoints(test.slopePerYear)} a year`
       : `Sen's slope ${formatValue(test.slopePerPeriod, fmt, { compact: true, signed: true })} per ${grainNoun(grain)}, ${formatValue(test.slopePerYear, fmt, { compact: true, signed: true })} a year${perYearRel ? ` (${perYearRel} of the mean level)` : ''}`;
     const raw = test.seasonallyAdjusted ? ` On the unadjusted values the test gives p ${formatP(test.rawPValue, locale)}.` : '';
-    const lead = test.direction === 'none' ? `No significant monotonic trend at the ${formatValue(test.alpha, { unit: 'percent', decimals: 0, locale })} level` : `${title}`;
-    caption = `${lead} (${method}); ${slope}.${raw}`;
+    const lead = test.direction === 'none' ? `No significant monotonic trend at the ${formatValue(test.alpha, { unit: 'percent', decimals: 0, locale })} level` : `${unresolved ? `${metric.label}: monotonic movement` : title}`;
+    const short = unresolved ? ` Fewer than two years tested: no yearly season could be removed, so the test does not separate trend from season.` : '';
+    caption = `${lead} (${method}); ${slope}.${raw}${short}`;
+  } else if (unresolved) {
+    const size = audience === 'managers' && test.direction !== 'none' ? ` by about ${perPeriod} a ${grainNoun(grain)}` : '';
+    caption = `${metric.label} ${went}${size} from ${span}. ${seasonCaveat}`;
   } else if (audience === 'managers') {
     const seasonal = test.seasonallyAdjusted ? ', after allowing for the usual seasonal pattern' : '';
     caption =

@@ -24,7 +24,8 @@ const FLAT = 0.0005;
 export function buildKpiCard(input: KpiCardInput): KpiCardSpec {
   const { format, grain } = input;
   const comparisons: KpiComparison[] = [];
-  for (const base of [input.previous, input.lastYear]) {
+  // The year earlier first: it shares the season, so a seasonal series is read against it first.
+  for (const base of [input.lastYear, input.previous]) {
     if (base) comparisons.push(compare(input.current.value, base, format, grain, input.higherIsBetter));
   }
   return {

@@ -43,15 +43,14 @@ export function buildLine(input: LineInput): LineSpec {
 }
 
 /**
- * Marks the highest and lowest complete periods. Partial periods are left out: a half-covered
- * last month is low only because it is unfinished, and calling it the low would mislead.
+ * Marks the highest and lowest complete periods. Partial periods are never marked: a half-covered
+ * last month is low only because it is unfinished, and a partial quarter that includes a busy
+ * month is not the high its title's complete periods name. Fewer than two complete: no marks.
  */
 function highLowMarks(points: PeriodPoint[], grain: Grain, fmt: ValueFormat): LineMark[] {
-  const valid = points
+  const candidates = points
     .map((p, index) => ({ p, index }))
-    .filter(({ p }) => p.value !== null && Number.isFinite(p.value));
-  const complete = valid.filter(({ p }) => !p.partial);
-  const candidates = complete.length >= 2 ? complete : valid;
+    .filter(({ p }) => p.value !== null && Number.isFinite(p.value) && !p.partial);
   if (candidates.length < 2) return [];
   let high = candidates[0]!;
   let low = candidates[0]!;

@@ -106,6 +106,7 @@ export function drawGroupCompare(canvas: Canvas, spec: GroupCompareSpec): DrawRe
   });
   const s = spec.scale;
   const geometry = emptyGeometry(canvas.width, canvas.height, scaleBox(chartArea(chart), s));
+  geometry.valueAxis = { min: chart.scales['x']!.min, max: chart.scales['x']!.max };
   geometry.points = chart.getDatasetMeta(0).data.map((el) => ({ x: el.x * s, y: el.y * s }));
   geometry.marks = marks.map((m) => ({ role: m.role, x: m.x * s, y: m.y * s }));
   // chart.js clears the canvas when destroyed, so the caller releases it after encoding.

@@ -121,6 +121,7 @@ export function drawLine(canvas: Canvas, spec: LineSpec): DrawResult {
   });
   const s = spec.scale;
   const geometry = emptyGeometry(canvas.width, canvas.height, scaleBox(chartArea(chart), s));
+  geometry.valueAxis = { min: chart.scales['y']!.min, max: chart.scales['y']!.max };
   geometry.points = chart.getDatasetMeta(0).data.map((el, i) => ({
     x: el.x * s,
     y: values[i] === null ? Number.NaN : el.y * s,

@@ -124,6 +124,7 @@ export function drawSeasonalProfile(canvas: Canvas, spec: SeasonalProfileSpec): 
   });
   const s = spec.scale;
   const geometry = emptyGeometry(canvas.width, canvas.height, scaleBox(chartArea(chart), s));
+  geometry.valueAxis = { min: chart.scales['y']!.min, max: chart.scales['y']!.max };
   geometry.points = chart.getDatasetMeta(0).data.map((el) => ({ x: el.x * s, y: el.y * s }));
   geometry.marks = marks.map((m) => ({ role: m.role, x: m.x * s, y: m.y * s }));
   geometry.lines = lines.map((l) => ({ role: l.role, x1: l.x1 * s, y1: l.y1 * s, x2: l.x2 * s, y2: l.y2 * s }));

@@ -37,6 +37,8 @@ export interface ChartGeometry {
   lines: PlacedLine[];
   /** Grid cells, row-major (growth grid), card tiles (KPI card), or the bars (Pareto, bars). */
   cells: Box[];
+  /** The value axis's range, in data units, where the chart has one (lines, bars, intervals). */
+  valueAxis?: { min: number; max: number };
 }
 
 export function emptyGeometry(width: number, height: number, plot: Box): ChartGeometry {

@@ -16,6 +16,11 @@ export interface TrendTestFinding {
   lastPeriod: string;
   /** The values were divided by their season's multiplicative index before testing (two full cycles or more). */
   seasonallyAdjusted: boolean;
+  /**
+   * The tested span is shorter than two years at a grain under a year: a yearly season could not be
+   * estimated and removed, so a rise or fall cannot be told apart from it (issue 17 item 8).
+   */
+  seasonUnresolved?: boolean;
   s: number;
   z: number;
   pValue: number;
@@ -194,7 +199,16 @@ export interface SegmentTrendOverviewFinding {
   folded: number;
   /** The named segment growing fastest: by compound yearly growth where it exists, else by relative Sen's slope. */
   fastest: { segment: string | null; measure: 'cagr' | 'slope'; value: number } | null;
+  /** The next fastest on the same measure, when there is one: a lead under CLEAR_LEAD is no lead. */
+  runnerUp?: { segment: string | null; value: number } | null;
 }
+
+/**
+ * The smallest lead in yearly growth (as a fraction) that names one segment "fastest": one
+ * percentage point. Common practice, not a test: yearly rates are shown to a tenth of a point and
+ * a year of sampling noise in a segment's total moves them by more than that.
+ */
+export const CLEAR_LEAD = 0.01;
 
 export interface SegmentShareRow extends SegmentKey {
   value: number | null;

@@ -11,5 +11,5 @@ import type { PresentContext } from './presenter.js';
 export function twoSpanSubtitle(answer: Answer, metric: Metric, current: GrowthSpan, prior: GrowthSpan, ctx: PresentContext): string {
   const parts = [metricDefinition(metric, ctx), `${spanText(current, ctx.locale)} against ${spanText(prior, ctx.locale)}`];
   parts.push(...filterSubtitleParts(answer.subQuestion.filters, ctx.dataset));
-  return parts.join(' · ');
+  return parts.filter((p) => p !== '').join(' · ');
 }

@@ -23,11 +23,14 @@ export function metricDefinition(metric: Metric, ctx: PresentContext): string {
 export function chartSubtitle(answer: Answer, metric: Metric, ctx: PresentContext, opts: { grain?: boolean } = {}): string {
   const sq = answer.subQuestion;
   const from = formatPeriod(sq.window.start, 'day', ctx.locale);
-  const to = formatPeriod(addDays(sq.window.end, -1), 'day', ctx.locale);
+  // A window that runs past the data ("2025" in June 2025) is said to the data's last day: the
+  // chart shows nothing after it, and a subtitle to 31 December would claim it does.
+  const lastDay = addDays(sq.window.end, -1);
+  const to = formatPeriod(ctx.dataAsOf && ctx.dataAsOf.slice(0, 10) < lastDay ? ctx.dataAsOf.slice(0, 10) : lastDay, 'day', ctx.locale);
   const parts = [metricDefinition(metric, ctx), `${from} to ${to}`];
   if (opts.grain !== false) parts.push(grainAdjective(sq.grain));
   parts.push(...filterSubtitleParts(sq.filters, ctx.dataset));
-  return parts.join(' · ');
+  return parts.filter((p) => p !== '').join(' · ');
 }
 
 export function chartFooter(answer: Answer, ctx: PresentContext): string[] {

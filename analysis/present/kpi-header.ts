@@ -11,7 +11,7 @@ import type { PresentContext } from './presenter.js';
 export function kpiSubtitle(answer: Answer, metric: Metric, ctx: PresentContext, what: string): string {
   const parts = [metricDefinition(metric, ctx), what];
   parts.push(...filterSubtitleParts(answer.subQuestion.filters, ctx.dataset));
-  return parts.join(' · ');
+  return parts.filter((p) => p !== '').join(' · ');
 }
 
 /** "Latest complete month, May 2025, vs April 2025 and May 2024". */

@@ -1,5 +1,6 @@
 // Presenter for "kpi_snapshot": a KPI card (arrows and colours by higher_is_better) and a
-// caption stating the latest complete period against the period before and a year earlier.
+// caption stating the latest complete period against a year earlier (first: it shares the season)
+// and the period before.
 import { buildKpiCard } from '../charts/build-kpi-card.js';
 import { kpiSnapshotWords } from '../captions/kpi-snapshot-caption.js';
 import { metricByName, metricDirection } from '../catalog.js';
@@ -16,7 +17,7 @@ export const presentKpiSnapshot: Presenter = (answer, ctx) => {
     return { title, caption: `There is no complete ${answer.subQuestion.grain} of ${metric.label.toLowerCase()} in the period asked for.`, notes: kpiNotes(answer, ctx, []), chart: null, takeaway: null };
   }
   const words = kpiSnapshotWords(f, metric, ctx.dataset, ctx.audience, ctx.locale, answer.caveats);
-  const subtitle = kpiSubtitle(answer, metric, ctx, comparedText(f.period, [f.previous.period, f.lastYear?.period ?? null], f.grain, ctx.locale));
+  const subtitle = kpiSubtitle(answer, metric, ctx, comparedText(f.period, [f.lastYear?.period ?? null, f.previous.period], f.grain, ctx.locale));
   const chart = buildKpiCard({
     ...kpiHeader(answer, metric, words.title, subtitle, ctx),
     metricLabel: metric.label,

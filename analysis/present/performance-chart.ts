@@ -16,13 +16,13 @@ export function performanceHeader(
   const win = opts.window ?? findOne(answer.findings, 'performance_window') ?? answer.subQuestion.window;
   const parts = [
     // The chip names the metric; a label of its own ("% lower for …") still leads the subtitle.
-    opts.label === opts.metric.label ? metricDefinition(opts.metric, ctx) : `${opts.label}: ${metricDefinition(opts.metric, ctx)}`,
+    opts.label === opts.metric.label ? metricDefinition(opts.metric, ctx) : [opts.label, metricDefinition(opts.metric, ctx)].filter((p) => p !== '').join(': '),
     windowText(win, ctx.locale),
     `${opts.group.label}: ${opts.group.members_label} vs ${opts.group.others_label}`,
     ...(opts.extra ?? []),
   ];
   parts.push(...filterSubtitleParts(answer.subQuestion.filters, ctx.dataset));
-  return { title: opts.title, chip: opts.metric.label, subtitle: parts.join(' · '), footer: chartFooter(answer, ctx), ...ctx.chart };
+  return { title: opts.title, chip: opts.metric.label, subtitle: parts.filter((p) => p !== '').join(' · '), footer: chartFooter(answer, ctx), ...ctx.chart };
 }
 
 /** Caveat notes plus the presenter's own; leadership captions already carry the observational caution. */

@@ -81,8 +81,12 @@ function smallPrint(table: PeriodTableFinding, totalLabel: string, ctx: PresentC
   const inUnits = table.columns.filter((c) => c.basis === 'units').map((c) => label(c.metric));
   const basis = [inPoints.length ? `in percentage points for ${listJoin(inPoints)}` : '', inUnits.length ? `in its own units for ${listJoin(inUnits)}` : ''].filter((s) => s);
   const changes = `Changes on the ${grain} before and on ${yearEarlier}, in percent${basis.length ? ` (${basis.join('; ')})` : ''}; colour shows better or worse for the metric, each column on its own scale. ★ and ✖ mark each metric's best and worst complete ${grain} of the whole table.`;
-  const meanings = table.columns.map((c) => `${metricByName(ds, c.metric).label}: ${metricDefinition(metricByName(ds, c.metric), ctx)}`).join('; ');
-  return [`${capitalise(changes)}`, `${totalLabel} row: ${totals.join('; ')}.`, `${meanings}.`];
+  const meanings = table.columns.flatMap((c) => {
+    const m = metricByName(ds, c.metric);
+    const meaning = metricDefinition(m, ctx);
+    return meaning ? [`${m.label}: ${meaning}`] : [];
+  });
+  return [`${capitalise(changes)}`, `${totalLabel} row: ${totals.join('; ')}.`, ...(meanings.length ? [`${meanings.join('; ')}.`] : [])];
 }
 
 function partialNote(c: Caveat, locale: string): string {

@@ -1,11 +1,10 @@
-// Presenter for "segment_trend": one bar per segment (its total over the window) with its
-// growth in the label; the title names the fastest-growing segment.
+// Presenter for "segment_trend": one bar per segment, its yearly growth; the title names the
+// fastest-growing segment (or the two too close to tell apart), so the bars compare what it says.
 import { buildBars } from '../charts/build-bars.js';
-import { segmentGrowthText, segmentTrendWords } from '../captions/trend-segments-caption.js';
+import { segmentTrendWords } from '../captions/trend-segments-caption.js';
 import { segmentLabel } from '../captions/trend-words.js';
 import { dimensionByName, metricByName } from '../catalog.js';
-import type { SegmentTrendFinding } from '../findings/segments.js';
-import { valueFormatOf } from '../format.js';
+import type { SegmentTrendFinding, SegmentTrendOverviewFinding } from '../findings/segments.js';
 import { caveatNotes, chartFooter, chartSubtitle } from './header.js';
 import type { Presenter } from './presenter.js';
 
@@ -18,25 +17,29 @@ export const presentSegmentTrend: Presenter = (full, ctx) => {
   const dim = dimensionByName(ctx.dataset, sq.dimension ?? '');
   const words = segmentTrendWords(metric, dim, answer.findings, ctx.audience, ctx.locale);
   const trends = answer.findings.filter((f): f is SegmentTrendFinding => f.type === 'segment_trend' && f.metric === metric.name);
-  const items = trends.flatMap((t) => {
-    if (t.total === null || t.other) return [];
-    const growth = segmentGrowthText(t, ctx.locale, false);
-    return [{ label: growth ? `${segmentLabel(t)} · ${growth}` : segmentLabel(t), value: t.total }];
-  });
-  // Already folded in SQL: the fold comes last, drawn as the tail, and nothing is folded again.
-  const fold = trends.find((t) => t.other && t.total !== null);
-  const folded = fold ? { label: segmentLabel(fold), value: fold.total! } : null;
+  const overview = answer.findings.find((f): f is SegmentTrendOverviewFinding => f.type === 'segment_trend_overview' && f.metric === metric.name);
+  // The title is about growth, so the bars are the growth rates it compares (on the one measure the
+  // fastest was chosen by), not the segments' totals; a segment without a rate is said in the caption.
+  const measure = overview?.fastest?.measure ?? 'cagr';
+  const rateOf = (t: SegmentTrendFinding) => (measure === 'cagr' ? t.growth?.cagr ?? null : t.slopePerYearRelative);
+  const items = trends.flatMap((t) => (t.other || rateOf(t) === null ? [] : [{ label: segmentLabel(t), value: rateOf(t)! }]));
+  const fold = trends.find((t) => t.other && rateOf(t) !== null);
+  const folded = fold ? { label: segmentLabel(fold), value: rateOf(fold)! } : null;
+  const years = trends.find((t) => !t.other && t.growth?.cagr != null)?.growth;
+  const rateWords = measure === 'cagr' && years ? `growth a year, ${years.fromYear} to ${years.toYear} (full calendar years)` : 'growth a year along the trend (Sen\'s slope)';
   const chart =
-    items.length + (folded ? 1 : 0) > 0
+    items.length > 0
       ? buildBars({
           title: words.title,
           chip: metric.label,
-          subtitle: chartSubtitle(answer, metric, ctx, { grain: false }),
+          subtitle: `${rateWords} · ${chartSubtitle(answer, metric, ctx, { grain: false })}`,
           footer: chartFooter(answer, ctx),
           ...ctx.chart,
           items,
           folded,
-          format: valueFormatOf(metric, ctx.locale),
+          format: { unit: 'percent', decimals: 1, locale: ctx.locale },
+          signed: true,
+          higherIsBetter: metric.higher_is_better,
         })
       : null;
   return {

@@ -13,14 +13,14 @@ export const presentTrendTest: Presenter = (answer, ctx) => {
   const test = answer.findings.find((f): f is TrendTestFinding => f.type === 'trend_test' && f.metric === metric.name);
   // Sen's line across the tested span only: outside it the slope was never measured.
   const chart = seriesLineChart(answer, metric, words.title, ctx, (points) =>
-    test ? { label: "Trend (Sen's slope)", values: trendLine(test, points) } : undefined,
+    test ? { label: test.seasonUnresolved ? "Straight-line fit (Sen's slope; season not removed)" : "Trend (Sen's slope)", values: trendLine(test, points) } : undefined,
   );
   return {
     title: words.title,
     caption: words.caption,
     notes: caveatNotes(answer, ctx),
     chart,
-    takeaway: test ? { importance: test.direction === 'none' ? 40 : 60, text: words.caption } : null,
+    takeaway: test ? { importance: test.direction === 'none' || test.seasonUnresolved ? 40 : 60, text: words.caption } : null,
   };
 };
 

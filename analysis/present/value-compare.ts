@@ -28,7 +28,9 @@ export const presentValueCompare: Presenter = (answer, ctx) => {
             metricDefinition(metric, ctx),
             `${spanText(f.current, ctx.locale)} against ${spanText(f.prior, ctx.locale)}`,
             ...filterSubtitleParts(answer.subQuestion.filters, ctx.dataset),
-          ].join(' · '),
+          ]
+            .filter((p) => p !== '')
+            .join(' · '),
           footer: chartFooter(answer, ctx),
           ...ctx.chart,
           seriesLabel: name(first.value),

@@ -1,7 +1,7 @@
 // Template "segment_trend": a metric by one dimension at the grain over the window. Each of the
 // top N segments (and one "All others" fold) gets its series, its Sen's slope, its growth from
 // its first to its last full calendar year, and its peak; gaps and late starts become caveats.
-import type { SegmentTrendFinding, SegmentYearGrowth } from '../findings/segments.js';
+import type { SegmentTrendFinding, SegmentTrendOverviewFinding, SegmentYearGrowth } from '../findings/segments.js';
 import { addDays, nextPeriod } from '../periods.js';
 import { cagr, relativeChange, senSlope } from '../stats/index.js';
 import type { Caveat, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
@@ -89,7 +89,7 @@ export function readSegmentTrend(sq: SubQuestion, totals: ResultTable, seriesTab
     grain: sq.grain,
     segmentCount: numberOrNull(totals.rows[0]?.seg_count) ?? segments.length,
     folded: segments.find((s) => s.other)?.members ?? 0,
-    fastest: fastestGrowing(trends),
+    ...fastestGrowing(trends),
   });
   return { findings, caveats };
 }
@@ -132,17 +132,17 @@ function yearGrowth(rows: Map<string, FoldedRow> | undefined, covered: { start: 
   };
 }
 
-function fastestGrowing(trends: readonly SegmentTrendFinding[]): { segment: string | null; measure: 'cagr' | 'slope'; value: number } | null {
+function fastestGrowing(trends: readonly SegmentTrendFinding[]): Pick<SegmentTrendOverviewFinding, 'fastest' | 'runnerUp'> {
   const named = trends.filter((t) => !t.other);
-  let best: { segment: string | null; measure: 'cagr' | 'slope'; value: number } | null = null;
-  for (const t of named) {
-    const v = t.growth?.cagr ?? null;
-    if (v !== null && (best === null || v > best.value)) best = { segment: t.segment, measure: 'cagr', value: v };
+  // Compound yearly growth where any segment has it, else the relative Sen's slope; one measure for all.
+  for (const measure of ['cagr', 'slope'] as const) {
+    const rated = named
+      .map((t) => ({ segment: t.segment, value: measure === 'cagr' ? t.growth?.cagr ?? null : t.slopePerYearRelative }))
+      .filter((r): r is { segment: string | null; value: number } => r.value !== null)
+      .sort((a, b) => b.value - a.value);
+    if (rated.length === 0) continue;
+    const [first, second] = rated;
+    return { fastest: { segment: first!.segment, measure, value: first!.value }, runnerUp: second ? { segment: second.segment, value: second.value } : null };
   }
-  if (best) return best;
-  for (const t of named) {
-    const v = t.slopePerYearRelative;
-    if (v !== null && (best === null || v > best.value)) best = { segment: t.segment, measure: 'slope', value: v };
-  }
-  return best;
+  return { fastest: null, runnerUp: null };
 }

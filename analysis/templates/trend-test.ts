@@ -62,6 +62,10 @@ function trendTest(sq: SubQuestion, points: readonly PeriodPoint[], complete: Re
   const rawMk = adjusted ? mannKendall(raw) : mk;
   const perYear = periodsInYear(sq.grain);
   const slopePerYear = sen.slope * perYear;
+  // Two years are the fewest from which a yearly season can be estimated (two of each month);
+  // over less, the test cannot tell a trend from the season, whatever its p-value.
+  const spanned = complete[complete.length - 1]!.index - complete[0]!.index + 1;
+  const seasonUnresolved = sq.grain !== 'year' && spanned < 2 * perYear - 1e-9;
   const level = mean(values);
   // Sen's intercept is at time 0 of the times given, which are the series' own positions.
   return {
@@ -72,6 +76,7 @@ function trendTest(sq: SubQuestion, points: readonly PeriodPoint[], complete: Re
     firstPeriod: complete[0]!.period,
     lastPeriod: complete[complete.length - 1]!.period,
     seasonallyAdjusted: adjusted !== null,
+    ...(seasonUnresolved ? { seasonUnresolved: true } : {}),
     s: mk.s,
     z: mk.z,
     pValue: mk.pValue,

@@ -2,7 +2,7 @@
 // analysts keep the catalog's own words. Checked on hand-made catalogs, then over whole plans of
 // every request kind on the demo and the two fixture datasets of other trades (test/helpers/whole-plans.ts).
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { metricMeaning, plainColumnWords } from '../../../analysis/captions/metric-words.js';
+import { managerWords, metricMeaning } from '../../../analysis/captions/metric-words.js';
 import type { Audience } from '../../../analysis/types.js';
 import type { DatasetConfig, Metric } from '../../../config/schema.js';
 import { answerPlans, closeWorkspaces, openPlanWorkspaces, planCases, type NamedWorkspace, type PlannedAnswer } from '../../helpers/whole-plans.js';
@@ -17,28 +17,32 @@ const ds = {
 } as unknown as DatasetConfig;
 
 describe('metric meanings in words', () => {
-  it('spells a column name out for managers, keeps it for analysts', () => {
+  it('keeps a column name for analysts; managers get no words that would need one (the label says it)', () => {
     const revenue = { name: 'revenue', label: 'Revenue', definition: { type: 'sum', column: 'fare_total' } } as Metric;
     expect(metricMeaning(revenue, ds, 'analysts')).toBe('sum of fare_total');
-    expect(metricMeaning(revenue, ds, 'managers')).toBe('sum of fare total');
-    expect(metricMeaning(revenue, ds, 'leadership')).toBe('sum of fare total');
+    // Not "sum of fare total": a raw name spelled out is still a raw name.
+    expect(metricMeaning(revenue, ds, 'managers')).toBe('');
+    expect(metricMeaning(revenue, ds, 'leadership')).toBe('');
+    const described = { ...revenue, description: 'fares paid, before refunds' } as Metric;
+    expect(metricMeaning(described, ds, 'managers')).toBe('fares paid, before refunds');
   });
 
-  it("reads a breakdown's or group's column as its label, a money code in capitals, inner capitals as words", () => {
-    expect(plainColumnWords('revenue where fare_class is car', ds)).toBe('revenue where fare class is car');
-    expect(plainColumnWords('share of rows where is_pass_holder is true', ds)).toBe('share of rows where SkerryPass holders is true');
-    expect(plainColumnWords('sum of revenue_eur', ds)).toBe('sum of revenue (EUR)');
-    expect(plainColumnWords('mean of waitMinutes', ds)).toBe('mean of wait minutes');
+  it("reads a breakdown's or group's column as its label and a money code in capitals; leaves any other name unsaid", () => {
+    expect(managerWords('revenue where fare_class is car', ds)).toBe('revenue where fare class is car');
+    expect(managerWords('share of rows where is_pass_holder is true', ds)).toBe('share of rows where SkerryPass holders is true');
+    expect(managerWords('sum of revenue_eur', ds)).toBe('sum of revenue (EUR)');
+    expect(managerWords('mean of waitMinutes', ds)).toBeNull();
+    expect(managerWords('sum of fare_total over all bookings', ds)).toBeNull();
     // Ordinary words and hyphenated words are left alone.
-    expect(plainColumnWords('bookings sailing in the month, one-way fares', ds)).toBe('bookings sailing in the month, one-way fares');
+    expect(managerWords('bookings sailing in the month, one-way fares', ds)).toBe('bookings sailing in the month, one-way fares');
   });
 
-  it('words a ratio from its parts and keeps a written description for analysts', () => {
+  it('words a ratio from its parts, falling back to it when the description names a column', () => {
     const fare = { name: 'fare', label: 'Average fare', definition: { type: 'ratio', numerator: 'revenue', denominator: 'passengers' } } as Metric;
     expect(metricMeaning(fare, ds, 'managers')).toBe('revenue divided by passengers');
     const described = { ...fare, description: 'fare_total over pax, both summed' } as Metric;
     expect(metricMeaning(described, ds, 'analysts')).toBe('fare_total over pax, both summed');
-    expect(metricMeaning(described, ds, 'managers')).toBe('fare total over pax, both summed');
+    expect(metricMeaning(described, ds, 'managers')).toBe('revenue divided by passengers');
   });
 });
 

@@ -310,14 +310,15 @@ describe('buildKpiCard', () => {
     const spec = buildKpiCard({ ...base, format: { unit: 'percent', locale: LOCALE }, higherIsBetter: false });
     expect(spec.valueText).toBe('5.0%');
     expect(spec.periodText).toBe('May 2025');
-    expect(spec.comparisons[0]).toEqual({
+    // The year earlier first (issue 17 item 8), then the month before.
+    expect(spec.comparisons[1]).toEqual({
       label: 'vs April 2025',
       changeText: '+1.0 pp',
       baseText: '4.0%',
       direction: 'up',
       sentiment: 'bad',
     });
-    expect(spec.comparisons[1]).toMatchObject({ changeText: 'n/a', direction: 'none', sentiment: 'neutral' });
+    expect(spec.comparisons[0]).toMatchObject({ label: 'vs May 2024', changeText: 'n/a', direction: 'none', sentiment: 'neutral' });
   });
 
   it('uses relative change for other units and calls a tiny change flat', () => {
@@ -330,8 +331,8 @@ describe('buildKpiCard', () => {
       lastYear: { period: '2024-05-01', value: 80 },
     });
     expect(spec.comparisons.map((c) => [c.changeText, c.direction, c.sentiment])).toEqual([
-      ['0.0%', 'flat', 'neutral'],
       ['+25.0%', 'up', 'good'],
+      ['0.0%', 'flat', 'neutral'],
     ]);
   });
 });

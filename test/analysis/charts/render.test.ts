@@ -374,8 +374,9 @@ describe('KPI card', () => {
       });
       expect(countDark(img, geometry.cells[0]!)).toBeGreaterThan(2000);
     }
-    expect(kpiSpec().comparisons.map((c) => c.sentiment)).toEqual(['good', 'bad']);
-    expect(kpiRefundSpec().comparisons.map((c) => c.sentiment)).toEqual(['bad', 'good']);
+    // The year earlier first, then the month before (issue 17 item 8).
+    expect(kpiSpec().comparisons.map((c) => c.sentiment)).toEqual(['bad', 'good']);
+    expect(kpiRefundSpec().comparisons.map((c) => c.sentiment)).toEqual(['good', 'bad']);
   });
 });
 

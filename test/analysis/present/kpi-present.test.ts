@@ -67,16 +67,16 @@ describe('kpi_snapshot presenter', () => {
   const present = (audience: Audience, f = fare, caveats = [juneExcluded]) =>
     SUB_QUESTIONS.kpi_snapshot.present(answerOf('kpi_snapshot', f.metric, [f], caveats), ctxFor(audience));
 
-  it('titles the value, its month and the change on the month before', () => {
+  it('titles the value, its month and the change on the same month a year earlier (it shares the season)', () => {
     // (23.45 − 23.10) / 23.10 = 1.515…% → "1.5%"; (23.45 − 24) / 24 = −2.29…% → "2.3%".
-    expect(present('managers').title).toBe('Average fare per passenger was €23.45 in May 2025, up 1.5% on April');
+    expect(present('managers').title).toBe('Average fare per passenger was €23.45 in May 2025, down 2.3% on May 2024');
   });
 
   it('says June 2025 is left out and judges each change by higher_is_better', () => {
     const p = present('leadership');
     expect(p.caption).toBe(
       'Average fare per passenger was €23.45 in May 2025, the latest complete month (June 2025 is left out: it is only covered up to 18 June 2025): ' +
-        'up 1.5% on April 2025 (€23.10) and down 2.3% on May 2024 (€24.00). That is better than April but worse than May 2024 (higher is better).',
+        'down 2.3% on May 2024 (€24.00) and up 1.5% on April 2025 (€23.10). That is worse than May 2024 but better than April (higher is better).',
     );
     // The caption says it, so the note does not repeat it.
     expect(p.notes).toEqual([]);
@@ -86,7 +86,7 @@ describe('kpi_snapshot presenter', () => {
     expect(present('managers').caption).toContain('Average fare per passenger (revenue divided by passengers) was €23.45');
     const a = present('analysts').caption;
     expect(a).toContain('Definition: revenue divided by passengers.');
-    expect(a).toContain('Absolute changes: +€0.35 vs April 2025; −€0.55 vs May 2024.');
+    expect(a).toContain('Absolute changes: −€0.55 vs May 2024; +€0.35 vs April 2025.');
     expect(a).toContain('Based on 5,058 rows in May 2025.');
     expect(present('leadership').caption).not.toContain('divided by');
   });
@@ -97,11 +97,11 @@ describe('kpi_snapshot presenter', () => {
     expect(card.valueText).toBe('€23.45');
     expect(card.periodText).toBe('May 2025');
     expect(card.comparisons.map((c) => [c.label, c.direction, c.sentiment])).toEqual([
-      ['vs April 2025', 'up', 'good'],
       ['vs May 2024', 'down', 'bad'],
+      ['vs April 2025', 'up', 'good'],
     ]);
     expect(card.chip).toBe('Average fare per passenger');
-    expect(card.subtitle).toBe('revenue divided by passengers · Latest complete month, May 2025, vs April 2025 and May 2024');
+    expect(card.subtitle).toBe('revenue divided by passengers · Latest complete month, May 2025, vs May 2024 and April 2025');
   });
 
   it('words a rate in points, and a rise in a lower-is-better rate as worse', () => {
@@ -113,23 +113,23 @@ describe('kpi_snapshot presenter', () => {
       lastYear: delta('2024-05-01', 0.052, 0.052, false),
     };
     const p = present('managers', rate, []);
-    expect(p.title).toBe('Refund rate was 5.2% in May 2025, up 0.4 points on April');
-    expect(p.caption).toContain('up 0.4 points on April 2025 (4.8%) and level with May 2024 (5.2%). That is worse than April (lower is better).');
+    expect(p.title).toBe('Refund rate was 5.2% in May 2025, level with May 2024');
+    expect(p.caption).toContain('level with May 2024 (5.2%) and up 0.4 points on April 2025 (4.8%). That is worse than April (lower is better).');
     const card = p.chart as KpiCardSpec;
-    expect(card.comparisons.map((c) => c.sentiment)).toEqual(['bad', 'neutral']);
+    expect(card.comparisons.map((c) => c.sentiment)).toEqual(['neutral', 'bad']);
   });
 
-  it('falls back to the year-ago change when there is no previous value, and to the value alone without either', () => {
-    const noPrev = { ...fare, previous: delta('2025-04-01', null, 23.45) };
-    expect(present('managers', noPrev).title).toBe('Average fare per passenger was €23.45 in May 2025, down 2.3% on May 2024');
-    const none = { ...noPrev, lastYear: delta('2024-05-01', null, 23.45) };
+  it('falls back to the change on the month before without a year-earlier value, and to the value alone without either', () => {
+    const noYear = { ...fare, lastYear: delta('2024-05-01', null, 23.45) };
+    expect(present('managers', noYear).title).toBe('Average fare per passenger was €23.45 in May 2025, up 1.5% on April');
+    const none = { ...noYear, previous: delta('2025-04-01', null, 23.45) };
     const p = present('managers', none, []);
     expect(p.title).toBe('Average fare per passenger was €23.45 in May 2025');
-    expect(p.caption).toContain('no figure for April 2025 to compare with and no figure for May 2024 to compare with.');
+    expect(p.caption).toContain('no figure for May 2024 to compare with and no figure for April 2025 to compare with.');
   });
 
   it('compares a January with "December 2024", not a bare month name', () => {
-    const jan = { ...fare, period: '2025-01-01', previous: delta('2024-12-01', 23.1, 23.45), lastYear: delta('2024-01-01', 24, 23.45) };
+    const jan = { ...fare, period: '2025-01-01', previous: delta('2024-12-01', 23.1, 23.45), lastYear: delta('2024-01-01', null, 23.45) };
     expect(present('managers', jan, []).title).toBe('Average fare per passenger was €23.45 in January 2025, up 1.5% on December 2024');
   });
 
@@ -175,7 +175,8 @@ describe('kpi_by_segment presenter', () => {
 
   it('lists segments, names the biggest mover and the segment new since last year', () => {
     const c = present('managers').caption;
-    expect(c).toContain('Revenue (sum of fare total over all bookings) by route in May 2025: Mainland–Tern Holm €78K, Mainland–Saltreach €64.5K, Tern Holm–Saltreach €10.4K; all routes together €178K.');
+    // The catalog's description names a raw column (fare_total): managers get the label alone (issue 17 item 10).
+    expect(c).toContain('Revenue by route in May 2025: Mainland–Tern Holm €78K, Mainland–Saltreach €64.5K, Tern Holm–Saltreach €10.4K; all routes together €178K.');
     // Saltreach: (64,500 − 61,300) / 61,300 = +5.22% beats Tern Holm's −5.11%.
     expect(c).toContain('The biggest change on May 2024 was Mainland–Saltreach, up 5.2%.');
     expect(c).toContain('No figure a year earlier for Tern Holm–Saltreach.');

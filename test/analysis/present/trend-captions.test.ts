@@ -259,11 +259,40 @@ describe('segment_trend presenter', () => {
     expect(present(a, 'analysts').caption).toContain('app: 81.1K, CAGR +10.5% 2022–2024, Sen\'s slope +1 per month');
   });
 
-  it('bars carry each segment’s growth, and the SQL fold stays last', () => {
-    const chart = present(a, 'managers').chart as BarsSpec;
-    expect(chart.bars.map((b) => b.label)).toEqual(['web · −5.0% a year', 'app · +10.5% a year', 'phone · −13.1% a year', 'All others (4)']);
+  it('bars draw each segment’s yearly growth, which the title is about (issue 17 item 9); the SQL fold stays last', () => {
+    const withFold = answer(sq({ template: 'segment_trend', lens: 'breakdown', dimension: 'channel' }), [
+      trend('web', 1, 86538, -0.05007),
+      trend('app', 2, 81136, 0.10531),
+      trend('phone', 3, 23070, -0.13098),
+      trend(null, 9, 120000, 0.2, true, 4),
+      overview,
+    ]);
+    const chart = present(withFold, 'managers').chart as BarsSpec;
+    expect(chart.format.unit).toBe('percent');
+    expect(chart.bars.map((b) => [b.label, b.text])).toEqual([
+      ['app', '+10.5%'],
+      ['web', '−5.0%'],
+      ['phone', '−13.1%'],
+      ['All others (4)', '+20.0%'],
+    ]);
     expect(chart.bars.at(-1)!.other).toBe(true);
-    expect(chart.bars.slice(0, -1).every((b) => !b.other)).toBe(true);
+    expect(chart.subtitle).toMatch(/^growth a year, 2022 to 2024 \(full calendar years\) · /);
+  });
+
+  it('names no single fastest segment on a lead under a percentage point', () => {
+    const close = answer(sq({ template: 'segment_trend', lens: 'breakdown', dimension: 'channel' }), [
+      trend('web', 1, 86538, 0.1003),
+      trend('app', 2, 81136, 0.10531),
+      trend('phone', 3, 23070, -0.13098),
+      { ...overview, runnerUp: { segment: 'web', value: 0.1003 } },
+    ]);
+    const p = present(close, 'managers');
+    expect(p.title).toBe('App and web grew at about the same pace: +10.5% and +10.0% a year from 2022 to 2024');
+    expect(p.caption).toContain('too close to name one');
+    // With a clear lead (10.5% against 5%), the fastest is named.
+    expect(present(answer(sq({ template: 'segment_trend', lens: 'breakdown', dimension: 'channel' }), [trend('web', 1, 86538, 0.05), trend('app', 2, 81136, 0.10531), { ...overview, runnerUp: { segment: 'web', value: 0.05 } }]), 'managers').title).toBe(
+      'App grew fastest: +10.5% a year from 2022 to 2024',
+    );
   });
 });
 
