@@ -32,17 +32,12 @@ export function countOf(n: number, noun: string, locale = 'en', plural?: string)
 }
 
 /**
- * Whether a metric's label reads as plural ("Bookings", "Passengers", "Sign-ups"): its last word
- * ends in a single s. "Bookings per customer" and "Revenue" are singular.
+ * Whether a metric's label reads as plural by its head noun (before any "per …"): "Bookings",
+ * "Weekday visits per site" are; "Revenue", "Average fare per booking" are not.
  */
 export function isPluralLabel(label: string): boolean {
-  const last = label.trim().split(' ').pop() ?? '';
-  return /[^s]s$/i.test(last);
-}
-
-/** The verb agreeing with a label: `agree("Bookings", "was", "were")` → "were". */
-export function agree(label: string, singular: string, plural: string): string {
-  return isPluralLabel(label) ? plural : singular;
+  const head = label.trim().replace(/\s+per\s.*$/i, '').split(/\s+/).pop() ?? '';
+  return /[^s]s$/i.test(head);
 }
 
 /** "is" or "are" for n things. */
@@ -55,8 +50,7 @@ export function isAre(n: number): string {
  * "Bookings are", "Weekday visits per site per day are"; `was` gives "was" or "were".
  */
 export function verbFor(label: string, verb: 'is' | 'was' = 'is'): string {
-  const head = label.trim().replace(/\s+per\s.*$/i, '').split(/\s+/).pop() ?? '';
-  const plural = /[^s]s$/i.test(head);
+  const plural = isPluralLabel(label);
   return verb === 'is' ? (plural ? 'are' : 'is') : plural ? 'were' : 'was';
 }
 

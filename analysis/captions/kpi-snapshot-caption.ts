@@ -13,7 +13,7 @@ import {
   shortPeriodName,
   verdict,
 } from './kpi-words.js';
-import { agree } from './grammar.js';
+import { verbFor } from './grammar.js';
 import { meaningAside, metricFormula } from './metric-words.js';
 
 export interface KpiWords {
@@ -43,7 +43,7 @@ export function kpiSnapshotWords(
   // The period before leads only when no year-earlier figure compares (and at the year grain,
   // where the period before is the year earlier).
   const headline = against(f.lastYear) ?? against(f.previous);
-  const was = agree(metric.label, 'was', 'were');
+  const was = verbFor(metric.label, 'was');
   const title = headline ? `${metric.label} ${was} ${value} in ${when}, ${headline}` : `${metric.label} ${was} ${value} in ${when}`;
 
   const sentences: string[] = [];

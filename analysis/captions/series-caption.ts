@@ -1,5 +1,5 @@
 // Title and caption for a series answer, written only from its findings.
-import { agree } from './grammar.js';
+import { verbFor } from './grammar.js';
 import type { Metric } from '../../config/schema.js';
 import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import type { Finding, Grain } from '../types.js';
@@ -23,7 +23,7 @@ export function seriesWords(metric: Metric, grain: Grain, findings: Finding[], l
   const title = `${metric.label} peaked in ${when(peak)} at ${value(peak)}`;
   const caption =
     peak.period === trough.period
-      ? `${metric.label} ${agree(metric.label, 'was', 'were')} ${value(peak)} in ${when(peak)}, the only complete ${grainNoun(grain)}.`
+      ? `${metric.label} ${verbFor(metric.label, 'was')} ${value(peak)} in ${when(peak)}, the only complete ${grainNoun(grain)}.`
       : `${metric.label} peaked in ${when(peak)} at ${value(peak)}; its lowest ${grainNoun(grain)} was ${when(trough)} at ${value(trough)}.`;
   return { title, caption };
 }

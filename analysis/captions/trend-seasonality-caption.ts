@@ -3,7 +3,7 @@ import type { Metric } from '../../config/schema.js';
 import type { CalendarMonthPattern, MonthTotalsPerDay, TrendSeasonalityFinding, TrendWeekdayFinding } from '../findings/segments.js';
 import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import type { Audience, Finding } from '../types.js';
-import { agree, listJoin } from './grammar.js';
+import { listJoin, verbFor } from './grammar.js';
 import type { Words } from './trend-test-caption.js';
 import { formatIndex, formatRelativeSize, grainNoun, lowerLabel, monthName, monthPair, weekdayName } from './trend-words.js';
 
@@ -30,7 +30,7 @@ export function seasonalityWords(metric: Metric, additive: boolean, findings: re
     ? `Per day, ${monthPair(s.perDay.byDay[0]!, s.perDay.byDay[1]!, locale)} are the busiest months; by total, ${monthPair(b0, b1, locale)}`
     : additive
     ? `${monthPair(b0, b1, locale)} are the busiest months${held}`
-    : `${metric.label} ${agree(metric.label, 'is', 'are')} highest in ${monthPair(b0, b1, locale)}${held}`;
+    : `${metric.label} ${verbFor(metric.label)} highest in ${monthPair(b0, b1, locale)}${held}`;
 
   if (s.model === 'additive') {
     const caption = levelSeasonCaption(metric, s, audience, locale);

@@ -3,7 +3,7 @@ import type { Dimension, Metric } from '../../config/schema.js';
 import { CLEAR_LEAD, type SegmentSharesFinding, type SegmentShareRow, type SegmentTrendFinding, type SegmentTrendOverviewFinding } from '../findings/segments.js';
 import { formatChange, formatValue, valueFormatOf } from '../format.js';
 import type { Audience, Finding } from '../types.js';
-import { agree, isPluralLabel } from './grammar.js';
+import { isPluralLabel } from './grammar.js';
 import type { Words } from './trend-test-caption.js';
 import { capitalise, countWord, dimensionPlural, formatRelativeSize, formatShare, lowerLabel, segmentLabel } from './trend-words.js';
 
@@ -102,7 +102,7 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
     const why = f.additive ? `the total is not positive or some ${plural} are negative` : `${noun} ${isPluralLabel(metric.label) ? 'are' : 'is'} not a total that splits across ${plural}`;
     const list = ranked.slice(0, 5).map((r) => `${segmentLabel(r)} ${formatValue(r.value, fmt)}`).join(', ');
     return {
-      title: top ? `${metric.label} ${agree(metric.label, 'is', 'are')} highest for ${segmentLabel(top)} (${formatValue(top.value, fmt)})` : `${metric.label} by ${lowerLabel(dim.label)}: no values`,
+      title: top ? `${metric.label} ${isPluralLabel(metric.label) ? 'are' : 'is'} highest for ${segmentLabel(top)} (${formatValue(top.value, fmt)})` : `${metric.label} by ${lowerLabel(dim.label)}: no values`,
       caption: `Shares do not apply here: ${why}. ${list ? `By ${lowerLabel(dim.label)}: ${list}.` : ''}`.trim(),
     };
   }
