@@ -21,7 +21,7 @@ export function kpiContextWords(f: KpiContextFinding, metric: Metric, ds: Datase
         : f.value <= f.min
           ? `the lowest of the ${periods}`
           : `the ${ordinal(f.rank)} highest of the ${periods}`;
-  const title = `${metric.label} in ${when} was ${value}, ${place.replace(/ since .*$/, '')}`;
+  const title = `${metric.label} in ${when} ${verbFor(metric.label, 'was')} ${value}, ${place.replace(/ since .*$/, '')}`;
 
   const sentences: string[] = [];
   const meaning = meaningAside(metric, ds, audience);

@@ -20,10 +20,12 @@ export function seriesWords(metric: Metric, grain: Grain, findings: Finding[], l
   if (!peak || !trough) {
     return { title: `${metric.label}: no complete ${grainNoun(grain)} to compare`, caption: `There is no complete ${grainNoun(grain)} of ${metric.label.toLowerCase()} in this period.` };
   }
-  const title = `${metric.label} peaked in ${when(peak)} at ${value(peak)}`;
+  // One complete period is no peak: a partial one beside it may be drawn higher (issue 17 item 9).
+  const only = `${metric.label} ${verbFor(metric.label, 'was')} ${value(peak)} in ${when(peak)}, the only complete ${grainNoun(grain)}`;
+  const title = peak.period === trough.period ? only : `${metric.label} peaked in ${when(peak)} at ${value(peak)}`;
   const caption =
     peak.period === trough.period
-      ? `${metric.label} ${verbFor(metric.label, 'was')} ${value(peak)} in ${when(peak)}, the only complete ${grainNoun(grain)}.`
+      ? `${only}.`
       : `${metric.label} peaked in ${when(peak)} at ${value(peak)}; its lowest ${grainNoun(grain)} was ${when(trough)} at ${value(trough)}.`;
   return { title, caption };
 }

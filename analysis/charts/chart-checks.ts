@@ -51,6 +51,7 @@ function lineProblems(spec: LineSpec, g: ChartGeometry): string[] {
     if (!claim || !mark) continue;
     if (!mark.text.includes(claim)) out.push(`title names ${claim} as the ${role}, the chart marks "${mark.text}"`);
   }
+  if (/\bpeak(?:ed|s)?\b/i.test(spec.title) && !spec.marks.some((m) => m.role === 'high')) out.push(`title "${spec.title}" names a peak the chart does not mark`);
   // Every drawn point and mark inside the plot: an axis that clips them hides what the title says.
   const inside = (y: number) => y >= g.plot.top - 1 && y <= g.plot.bottom + 1;
   g.points.forEach((pt, i) => {

@@ -39,8 +39,18 @@ describe('the checks catch what they name', () => {
     expect(problems).toEqual(expect.arrayContaining([expect.stringMatching(/high mark .* on a partial period/), expect.stringMatching(/title names €362K as the high/)]));
   });
 
+  it('a peak in the title with one complete period, the rest partial', async () => {
+    const spec = quarterly([362_000, 508_000], true);
+    const { geometry } = await renderChartWithGeometry(spec);
+    expect(chartProblems(spec, geometry, { lastDate: '2025-06-18' })).toEqual(['title "Revenue peaked in Q1 2025 at €362K" names a peak the chart does not mark']);
+  });
+
   it('a subtitle running past the data', async () => {
     const spec = { ...quarterly([300_000, 330_000, 340_000, 362_000], false), subtitle: 'Total fares · 1 Jan 2025 to 31 Dec 2025 · quarterly' };
+    spec.marks = [
+      { role: 'high', index: 3, text: 'High: €362K, Q1 2025' },
+      { role: 'low', index: 0, text: 'Low: €300K, Q2 2024' },
+    ];
     const { geometry } = await renderChartWithGeometry(spec);
     expect(chartProblems(spec, geometry, { lastDate: '2025-06-18' })).toEqual(['subtitle names 31 Dec 2025, after the data ends (2025-06-18)']);
     expect(datesNamed('Jan 1, 2024 to Jun 18, 2025 · Q3 2024 · May 2025').map((d) => d.start)).toEqual(['2024-01-01', '2025-06-18', '2025-05-01', '2024-07-01']);
