@@ -3,7 +3,7 @@
 import { buildBars } from '../charts/build-bars.js';
 import { segmentTrendWords } from '../captions/trend-segments-caption.js';
 import { segmentLabel } from '../captions/trend-words.js';
-import { dimensionByName, metricByName } from '../catalog.js';
+import { dimensionByName, metricByName, metricDirection } from '../catalog.js';
 import type { SegmentTrendFinding, SegmentTrendOverviewFinding } from '../findings/segments.js';
 import { caveatNotes, chartFooter, chartSubtitle } from './header.js';
 import type { Presenter } from './presenter.js';
@@ -39,7 +39,8 @@ export const presentSegmentTrend: Presenter = (full, ctx) => {
           folded,
           format: { unit: 'percent', decimals: 1, locale: ctx.locale },
           signed: true,
-          higherIsBetter: metric.higher_is_better,
+          // Coloured by the metric's good direction; without one, one colour for every bar.
+          ...(metricDirection(metric) === null ? {} : { higherIsBetter: metricDirection(metric)! }),
         })
       : null;
   return {
