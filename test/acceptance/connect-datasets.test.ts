@@ -11,11 +11,11 @@ import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { main } from '../../cli/main.js';
 import { serve, type Serving } from '../../cli/serve.js';
 import { loadConfig } from '../../config/load.js';
 import { metricByName, metricKind } from '../../analysis/catalog.js';
 import { waitFor } from '../helpers/wait-for.js';
+import { runCli } from '../helpers/run-cli.js';
 
 const require = createRequire(import.meta.url);
 const vega = join(dirname(dirname(require.resolve('vega-datasets'))), 'data');
@@ -31,18 +31,7 @@ function csvRows(file: string): Record<string, string>[] {
   return csvRowsOf(readFileSync(file, 'utf8'));
 }
 
-async function run(args: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const o = vi.spyOn(process.stdout, 'write').mockImplementation((s) => ((out += String(s)), true));
-  const e = vi.spyOn(process.stderr, 'write').mockImplementation((s) => ((err += String(s)), true));
-  try {
-    return { code: await main(args), out, err };
-  } finally {
-    o.mockRestore();
-    e.mockRestore();
-  }
-}
+const run = runCli;
 
 /** init, then check, then serve; the caller stops it. */
 async function connect(source: string): Promise<{ file: string; check: string; serving: Serving }> {

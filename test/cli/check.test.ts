@@ -6,7 +6,7 @@ import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { main } from '../../cli/main.js';
+import { runCli } from '../helpers/run-cli.js';
 
 const csv = join(dirname(dirname(createRequire(import.meta.url).resolve('vega-datasets'))), 'data', 'co2-concentration.csv');
 afterEach(() => vi.restoreAllMocks());
@@ -32,15 +32,7 @@ ${metric}`;
   return { file, text };
 }
 
-async function run(args: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  vi.spyOn(process.stdout, 'write').mockImplementation((s) => ((out += String(s)), true));
-  vi.spyOn(process.stderr, 'write').mockImplementation((s) => ((err += String(s)), true));
-  const code = await main(args);
-  vi.restoreAllMocks();
-  return { code, out, err };
-}
+const run = runCli;
 
 const lineOf = (text: string, needle: string) => text.split('\n').findIndex((l) => l.includes(needle)) + 1;
 

