@@ -71,8 +71,11 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
       // Two questions that come to the same thing ("how has it moved? the busiest months?") share
       // their items: one asks nothing the other does not (issue 17 item 11).
       const twin = drafts.find((d) => sameItem(d, draft));
-      if (twin) twin.headline ||= headline;
-      else drafts.push(draft);
+      if (twin) {
+        twin.headline ||= headline;
+        // "per decade" asked of one of the two is how the shared item states its rate.
+        if (draft.rateUnit && !twin.rateUnit) twin.rateUnit = draft.rateUnit;
+      } else drafts.push(draft);
     };
     // "Did phone grow faster than kiosk": the two values set against each other head the question's answers.
     const contrast = q.contrast && q.contrast.values.length === 2 && isBreakdownDimension(ds, q.contrast.dimension) ? q.contrast : null;
@@ -169,11 +172,14 @@ function addPeriodTables(drafts: Draft[], q: Question, brief: Brief, metrics: st
   }
 }
 
-/** Whether two drafts would compute the same thing: everything but whether either heads its question. */
+/**
+ * Whether two drafts would compute the same thing: everything but whether either heads its
+ * question, and the unit a rate is stated in when only one of them names it.
+ */
 function sameItem(a: Draft, b: Draft): boolean {
-  const { headline: _a, first: _fa, defaultBreakdown: _da, ...x } = a;
-  const { headline: _b, first: _fb, defaultBreakdown: _db, ...y } = b;
-  return isDeepStrictEqual(x, y);
+  const { headline: _a, first: _fa, defaultBreakdown: _da, rateUnit: ra, ...x } = a;
+  const { headline: _b, first: _fb, defaultBreakdown: _db, rateUnit: rb, ...y } = b;
+  return (ra === rb || ra === undefined || rb === undefined) && isDeepStrictEqual(x, y);
 }
 
 /**

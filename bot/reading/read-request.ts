@@ -23,7 +23,9 @@ import {
   ORDINARY,
   REFINES_PREVIOUS,
   ROLE_WORDS,
+  SEASON_ASK,
   STOPWORDS,
+  WEEKDAY_ASK,
 } from './lexicon.js';
 import { findPeriods, type PeriodContext, type PeriodMention } from './periods.js';
 import { isoDateIn } from './time-zone.js';
@@ -359,7 +361,9 @@ function toQuestion(r: ClauseReading, st: ReadState, previous: Question | undefi
   }
   // A follow-up pointing back with no period of its own ("what share of them…", "was that across all countries?") is asked about the same period, in the same kind, unless it asks about a change.
   const pointsBack = previous !== undefined && r.periods.length === 0 && /\b(?:them|their|those|these|that|it|its|they)\b/.test(r.clause.text.toLowerCase());
-  if (pointsBack && r.kind !== 'growth' && r.kind !== 'performance') r.kind = previous!.kind;
+  // "…and when in the year is it highest?" points back for its measure but asks its own thing: a season.
+  const asksSeason = SEASON_ASK.test(r.clause.text.toLowerCase()) || WEEKDAY_ASK.test(r.clause.text.toLowerCase());
+  if (pointsBack && !asksSeason && r.kind !== 'growth' && r.kind !== 'performance') r.kind = previous!.kind;
   const kind = r.kind ?? (fromPrevious && previous && !windows.compareWindow ? previous.kind : windows.compareWindow && !(previous && fromPrevious && previous.kind === 'kpi') ? 'growth' : previous && fromPrevious ? previous.kind : 'trend');
   const q: Question = {
     text: withoutPreamble(r.clause.text),

@@ -227,3 +227,17 @@ describe('the size cap keeps what was asked (issue 17 item 13)', () => {
     expect(plan.leftOut.some((sq) => sq.template === 'performance_by_segment')).toBe(true);
   });
 });
+
+describe('two questions about one measure', () => {
+  it('"How fast has revenue grown per year, and when in the year is it highest?": a growth and a season question, no item twice', () => {
+    const brief = readRequest('How fast has revenue grown per year, and when in the year is it highest?');
+    // "it" points back for the measure; "when in the year" asks its own thing (found on NOAA CO2: both read as growth, every item planned twice).
+    expect(brief.questions.map((q) => q.kind)).toEqual(['growth', 'trend']);
+    const plan = buildPlan(withDefaults(brief, briefDefaults(brief, exampleDataset, coverage)), exampleDataset, coverage);
+    expect(plan.items.map((sq) => sq.template)).toContain('trend_seasonality');
+    const described = plan.items.map((sq) => JSON.stringify({ ...sq, id: '' }));
+    expect(new Set(described).size).toBe(described.length);
+    // The shared line keeps the rate unit the growth question asked for.
+    expect(plan.items.filter((sq) => sq.template === 'series')).toHaveLength(1);
+  });
+});
