@@ -42,6 +42,8 @@ export const briefJsonSchema = z
     personalData: z.array(z.string()),
     personalValues: z.array(z.string()),
     toAsk: z.array(z.enum(ASKABLE)),
+    /** What the card says back about how the request was read (a date that is not real, a period outside the data). */
+    saidBack: z.array(z.string()),
     anchor: z.object({ today: isoDate, why: z.string() }).strict(),
     evidence: z.partialRecord(
       z.enum(BRIEF_SLOTS),
@@ -87,6 +89,7 @@ export function briefToJson(brief: Brief, dataset: string): BriefJson {
     personalData: brief.personalData ?? [],
     personalValues: brief.personalValues ?? [],
     toAsk: brief.toAsk ?? [],
+    saidBack: brief.saidBack ?? [],
     anchor: brief.anchor ?? { today: '', why: '' },
     evidence: brief.evidence ?? {},
   };
