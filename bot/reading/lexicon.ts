@@ -146,6 +146,16 @@ export const KIND_CUES = {
 /** Words that only ask for a breakdown of the question before them ("which routes drove it"). */
 export const REFINES_PREVIOUS = /^\s*(?:and\s+|also\s+|plus\s+)?(?:which|what)\b.*\b(?:drove|drive|driving|drives|behind|explain\w*|caused|cause|contribut\w*|responsible|account(?:ed|s)? for)\b|^\s*(?:and|also|plus)?\s*(?:split|broken down|break(?:ing)? (?:it |that |this )?down)\s+by\b|^\s*(?:and|also|plus|or)?\s*by\s+\w+(?:\s+(?:and|or)\s+\w+)?\s*\??\s*$/i;
 
+/**
+ * Words that open a clause saying what the whole request is about, before its questions ("For email
+ * tickets, …", "Looking only at enterprise customers: …", "On rainy days, …"): its values reach
+ * every question that does not name its own.
+ */
+export const FRAME_OPENING = /^\s*(?:for|on|in|among(?:st)?|within|excluding|except|without|just|only|looking\s+(?:only\s+|just\s+)?at|focus(?:ing|ed)?\s+on|thinking\s+about|talking\s+about|regarding|as\s+for|when\s+it\s+comes\s+to)\b/i;
+
+/** Words by which a question asks about everything, not only the values the request named before ("overall", "across all channels"). */
+export const OVERALL = /\b(?:overall|in\s+total|altogether|company[- ]wide|business[- ]wide|across\s+the\s+board|across\s+(?:all|every)\b|(?:for|in|of)\s+all\s+(?!of\b|them\b|those\b|these\b)|every\s+(?:channel|team|route|segment|one)\b|the\s+whole\s+(?:business|company|desk|network))/i;
+
 /** A question about how often each unit does something, not a total. */
 export const FREQUENCY = /\b(?:more|less) (?:often|frequently)\b|\bhow often\b|\bfrequenc\w+|\btravel (?:more|less)\b|\bbook (?:more|less)\b|\brepeat\b|\bper (?:customer|user|member|client|account|head)\b|\bonce a\b|\btimes a (?:month|year|week)\b/i;
 

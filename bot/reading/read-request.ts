@@ -17,10 +17,12 @@ import {
   AUDIENCE_CUES,
   BREAKDOWN_BEFORE,
   BREAKDOWN_WH,
+  FRAME_OPENING,
   FREQUENCY,
   GRAIN_WORDS,
   type MetricRole,
   ORDINARY,
+  OVERALL,
   REFINES_PREVIOUS,
   ROLE_WORDS,
   SEASON_ASK,
@@ -262,9 +264,17 @@ function readQuestions(st: ReadState): { questions: Question[]; ambiguous: Ambig
   const ambiguous: AmbiguousValue[] = [];
   // Context clauses ("Looking at 2024.") lend their period and filters to the next question.
   let pending: ClauseReading | null = null;
-  for (const clause of clauses) {
+  // The values a frame ("For email tickets, …") restricts the request to, in force when each question was read.
+  let frame: SegmentFilter[] = [];
+  const framed = new Map<Question, SegmentFilter[]>();
+  for (const [at, clause] of clauses.entries()) {
     const r = readClause(clause, st, ambiguous);
     const previous = questions[questions.length - 1];
+    if (isFrame(r, st) && at < clauses.length - 1) {
+      frame = [...frame.filter((f) => !r.filters.some((x) => x.dimension === f.dimension)), ...r.filters];
+      pending = pending ? { ...r, metrics: unique([...pending.metrics, ...r.metrics]), periods: [...pending.periods, ...r.periods], filters: mergeFilters(pending.filters, r.filters), dimensions: [...pending.dimensions, ...r.dimensions] } : r;
+      continue;
+    }
     if (r.context) {
       // "Fares went up on 1 March 2024.": a launch stated after the question it belongs to.
       if (previous && r.launchDate && !previous.launchDate) {
@@ -303,14 +313,45 @@ function readQuestions(st: ReadState): { questions: Question[]; ambiguous: Ambig
     }
     const q = toQuestion(r, st, previous, pending);
     pending = null;
+    framed.set(q, frame);
     questions.push(q);
   }
+  carryFilters(questions, framed);
   // Nothing read as a question (no metric, no cue): the whole request is one, for the card to complete.
   if (questions.length === 0 && clauses.length > 0) {
     const whole: Clause = { start: clauses[0]!.start, end: clauses[clauses.length - 1]!.end, text: st.text.original.trim(), asked: true };
     questions.push(toQuestion(pending ? { ...pending, clause: whole, kind: null } : readClause(whole, st, ambiguous), st, undefined, null));
   }
   return { questions, ambiguous };
+}
+
+/**
+ * "For email tickets, …": a clause with nothing to ask but values, before a question: what the
+ * request is about, not a question of its own (its measure, if any, serves the questions after it).
+ */
+function isFrame(r: ClauseReading, st: ReadState): boolean {
+  return r.filters.length > 0 && r.kind === null && r.dimensions.length === 0 && !r.group && !r.table && !r.frequency && !r.contrast && !r.launchDate
+    && !st.grainSpans.some((s) => s.start >= r.clause.start && s.end <= r.clause.end) && FRAME_OPENING.test(r.clause.text);
+}
+
+/**
+ * A filter said once reaches every question that does not name its own value of that breakdown
+ * ("For email tickets, how have volumes moved and which teams handle most of them?"): the values
+ * of the frame in force and of the first question, or, for a question that takes its measure from
+ * the one before, that question's. A question that breaks down by the filtered breakdown, sets two
+ * of its values against each other, or asks about everything ("overall") keeps to its own words.
+ */
+function carryFilters(questions: Question[], framed: Map<Question, SegmentFilter[]>): void {
+  const first = questions[0];
+  if (!first) return;
+  for (const [i, q] of questions.entries()) {
+    if (i === 0) continue;
+    const frame = framed.get(q) ?? [];
+    const source = q.metricsFromPrevious ? questions[i - 1]!.filters : [...frame, ...first.filters.filter((f) => !frame.some((x) => x.dimension === f.dimension))];
+    if (OVERALL.test(q.text)) continue;
+    const carried = source.filter((f) => !q.filters.some((x) => x.dimension === f.dimension) && !(f.exclude !== true && q.dimensions.includes(f.dimension)) && q.contrast?.dimension !== f.dimension);
+    if (carried.length > 0) q.filters = mergeFilters(q.filters, carried);
+  }
 }
 
 function mergeInto(q: Question, r: ClauseReading, st: ReadState): void {
@@ -324,7 +365,8 @@ function mergeInto(q: Question, r: ClauseReading, st: ReadState): void {
 
 function toQuestion(r: ClauseReading, st: ReadState, previous: Question | undefined, pending: ClauseReading | null): Question {
   const ds = st.ds;
-  let metrics = r.metrics;
+  // "For email tickets, how have things moved?": the measure the frame before it named.
+  let metrics = r.metrics.length === 0 && pending && pending.metrics.length > 0 ? pending.metrics : r.metrics;
   let fromPrevious = false;
   if (metrics.length === 0 && previous && (r.pronoun || !r.frequency)) {
     // "how has that moved", "is it up": the previous question's metric.
