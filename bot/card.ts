@@ -215,9 +215,10 @@ function restate(q: Question, ds: DatasetConfig, ctx: CardContext): string {
   const only = q.filters.length > 0 ? ` (${q.filters.map((f) => `${f.exclude ? 'not ' : ''}${f.values.join(' or ')}`).join('; ')})` : '';
   const w = q.window ? describeWindow(q.window, ctx.coverage, ctx.locale) : '';
   const group = ds.comparison_groups.find((g) => g.name === q.comparisonGroup);
+  // Two values set against each other head the question's answers, whatever its kind ("how do email tickets compare with phone tickets").
+  if (q.contrast && q.kind !== 'performance') return `How ${q.contrast.values.join(' and ')} compare in ${what}${w ? `, ${w}` : ''}.`;
   switch (q.kind) {
     case 'growth':
-      if (q.contrast) return `How ${q.contrast.values.join(' and ')} compare in ${what}${w ? `, ${w}` : ''}.`;
       return q.compareWindow ? `How ${what}${only} changed${by}: ${w} against ${describeWindow(q.compareWindow, ctx.coverage, ctx.locale)}.` : `How fast ${what}${only} is growing${by}${w ? `, ${w}` : ''}.`;
     case 'kpi':
       return `Where ${what}${only} stands${by}${w ? ` in ${w}` : ' in the latest complete period'}.`;

@@ -489,10 +489,13 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
     const values = h.entries.filter((e) => e.kind === 'value');
     if (values.length > 0) valueHits.push({ hit: h, entries: values });
   }
-  for (const h of metricHits) {
-    // The unit a group or a value is counted in ("premium accounts", "paid social sign-ups", "by
-    // passenger nationality") is not a second measure when the clause names another.
-    if (metricHits.length > 1 && isUnitNoun(h, hits, st.text)) continue;
+  // The unit a group or a value is counted in ("premium accounts", "paid social sign-ups", "by
+  // passenger nationality") is not a second measure when the clause names another; when every
+  // measure named is such a unit ("email tickets compare with phone tickets"), it is the measure.
+  const unitNouns = metricHits.map((h) => metricHits.length > 1 && isUnitNoun(h, hits, st.text));
+  const allUnits = unitNouns.every((u) => u);
+  for (const [i, h] of metricHits.entries()) {
+    if (unitNouns[i] && !allUnits) continue;
     metrics.push(metricOf(h));
     metricWords.push(st.text.quote(h));
   }
@@ -720,7 +723,7 @@ function readValues(valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[], h
     const ownNounBeside = hits.some((o) => o !== hit && o.entries.some((e) => e.kind === 'dimension' && entries.some((v) => v.name === e.name)) && nearGap(o, hit, lower) <= 1);
     const cueBeside =
       ownNounBeside ||
-      /\b(?:only|just|excluding|except|without|exclude|leaving\s+out|leave\s+out|not\s+counting|via|through|on|in|from|at|for|vs\.?|versus|than|and|or|to)\s+(?:the\s+)?$/.test(before) ||
+      /\b(?:only|just|excluding|except|without|exclude|leaving\s+out|leave\s+out|not\s+counting|via|through|on|in|from|at|for|vs\.?|versus|than|and|or|to|with|against)\s+(?:the\s+)?$|(?:^|\s)w\/\s*$/.test(before) ||
       hits.some((o) => o !== hit && o.entries.some((e) => e.kind === 'metric') && nearGap(o, hit, lower) <= 1) ||
       /^\s*(?:vs\.?|versus|v|than|and|or|compared)\b/.test(after);
     // Part of a value's name counts only when written as a name ("Saltreach", not "support") or
@@ -763,7 +766,7 @@ function readValues(valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[], h
     const b = chosen[i + 1]!;
     if (a.dimension !== b.dimension || a.exclude || b.exclude) continue;
     const gap = lower.slice(a.hit.end, b.hit.start);
-    if (/\b(?:vs\.?|versus|v|than|against|compared\s+(?:to|with)|or|beat\w*|outperform\w*|outsell\w*|overtake\w*|overtook)\b/.test(gap) || (/\band\b/.test(gap) && /\bcompar\w*|\bdifferen\w*|\bbetween\b|\bfaster|\bslower|\bbetter|\bworse|\bmore\b|\bless\b/.test(clause.text.toLowerCase()))) {
+    if (/\b(?:vs\.?|versus|v|than|against|compar\w*|or|beat\w*|outperform\w*|outsell\w*|overtake\w*|overtook)\b|(?:^|\s)w\/(?:\s|$)/.test(gap) || (/\band\b/.test(gap) && /\bcompar\w*|\bdifferen\w*|\bbetween\b|\bfaster|\bslower|\bbetter|\bworse|\bmore\b|\bless\b/.test(clause.text.toLowerCase()))) {
       contrast = { dimension: a.dimension, values: unique([a.value, b.value]) };
       break;
     }
