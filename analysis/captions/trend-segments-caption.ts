@@ -1,5 +1,6 @@
 // Titles and captions for segment trends and segment shares, written only from findings.
 import type { Dimension, Metric } from '../../config/schema.js';
+import { isAdditive } from '../catalog.js';
 import { CLEAR_LEAD, type SegmentSharesFinding, type SegmentShareRow, type SegmentTrendFinding, type SegmentTrendOverviewFinding } from '../findings/segments.js';
 import { formatChange, formatValue, valueFormatOf } from '../format.js';
 import type { Audience, Finding } from '../types.js';
@@ -18,6 +19,23 @@ export function segmentGrowthText(t: SegmentTrendFinding, locale: string, withYe
   return null;
 }
 
+/**
+ * Which named segment stands out by the value shown. A sum or count ranks its segments by that
+ * value, so the first is the largest; an average or a ratio ranks them by their rows (the busiest
+ * are worth naming), so the words follow the value itself: highest and lowest, never "largest".
+ */
+function sizeLine(metric: Metric, named: readonly SegmentTrendFinding[], fmt: ReturnType<typeof valueFormatOf>, span: string): string {
+  const valued = named.filter((t) => t.total !== null);
+  if (valued.length === 0) return '';
+  if (isAdditive(metric)) return `${segmentLabel(valued[0]!)} is the largest, at ${formatValue(valued[0]!.total, fmt, { compact: true })}${span}.`;
+  const byValue = [...valued].sort((a, b) => b.total! - a.total!);
+  const top = byValue[0]!;
+  const bottom = byValue[byValue.length - 1]!;
+  const noun = lowerLabel(metric.label);
+  if (byValue.length === 1) return `${segmentLabel(top)} has ${noun} of ${formatValue(top.total, fmt)}${span}.`;
+  return `Of the ${byValue.length} shown, ${segmentLabel(top)} has the highest ${noun}, ${formatValue(top.total, fmt)}${span}, and ${segmentLabel(bottom)} the lowest, ${formatValue(bottom.total, fmt)}.`;
+}
+
 export function segmentTrendWords(metric: Metric, dim: Dim, findings: readonly Finding[], audience: Audience, locale: string): Words {
   const overview = findings.find((f): f is SegmentTrendOverviewFinding => f.type === 'segment_trend_overview' && f.metric === metric.name);
   const trends = findings.filter((f): f is SegmentTrendFinding => f.type === 'segment_trend' && f.metric === metric.name);
@@ -29,9 +47,8 @@ export function segmentTrendWords(metric: Metric, dim: Dim, findings: readonly F
   }
   const named = trends.filter((t) => !t.other);
   const fastest = overview.fastest === null ? undefined : named.find((t) => t.segment === overview.fastest!.segment);
-  const largest = named[0];
   if (!fastest || !overview.fastest) {
-    const largestText = largest ? `${segmentLabel(largest)} is the largest, at ${formatValue(largest.total, fmt, { compact: true })}.` : '';
+    const largestText = sizeLine(metric, named, fmt, '');
     return {
       title: `${metric.label} by ${lowerLabel(dim.label)}: too few complete periods to compare growth`,
       caption: `No ${lowerLabel(dim.label)} has enough complete periods for a growth rate. ${capitalise(largestText)}`.trim(),
@@ -56,7 +73,7 @@ export function segmentTrendWords(metric: Metric, dim: Dim, findings: readonly F
         ? `${segmentLabel(fastest)} grew fastest: ${growth}`
         : `${segmentLabel(fastest)} held up best: ${growth}`,
   );
-  const largestLine = largest ? `${segmentLabel(largest)} is the largest, at ${formatValue(largest.total, fmt, { compact: true })} over the period.` : '';
+  const largestLine = sizeLine(metric, named, fmt, ' over the period');
   const slowestLine =
     slowest && slowest !== fastest && slowest !== tied ? `${segmentLabel(slowest)} ${rate(slowest)! < 0 ? 'shrank the most' : 'grew the least'} (${segmentGrowthText(slowest, locale, false)}).` : '';
   let caption: string;
@@ -123,6 +140,17 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
     c === null
       ? `the ${named.length} largest ${plural} shown carry ${formatShare(named[named.length - 1]!.cumulativeShare, locale, true)}, short of ${formatShare(f.threshold, locale)}`
       : `${countWord(c, locale)} ${c === 1 ? `${lowerLabel(dim.label)} reaches` : `${plural} reach`} ${formatShare(f.threshold, locale)} (${formatShare(named[c - 1]!.cumulativeShare, locale, true)})`;
+  // "top 10": the share of as many as were asked, and why fewer are named when they are.
+  const asked = f.topNAsked ?? null;
+  const askedTop = asked !== null && f.topNShare !== null ? `the top ${f.topN} ${plural} carry ${formatShare(f.topNShare, locale, true)}` : null;
+  const fewerLine =
+    asked === null || named.length >= asked
+      ? ''
+      : f.segmentCount < asked
+        ? ` Only ${f.segmentCount} ${plural} have ${noun} in this period.`
+        : asked > f.topN
+          ? ` The ${f.topN} largest are named; more would not read in one chart.`
+          : '';
   const fold = f.rows.find((r) => r.other);
   const foldLine = fold ? ` The ${f.folded} smaller ${plural} are combined as "All others" (${formatShare(fold.share, locale, true)}).` : '';
   let caption: string;
@@ -130,7 +158,7 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
     const hhi = f.hhi === null ? '' : ` HHI ${formatValue(f.hhi, { unit: 'number', decimals: 0, locale })} (${bandWords(f.hhiBand)} by the 2010 US Horizontal Merger Guidelines bands)${f.topNShare !== null ? `; top ${f.topN} share ${formatShare(f.topNShare, locale, true)}` : ''}.`;
     caption = `${capitalise(lead)}; ${reach}, of ${f.segmentCount} ${plural} in all.${hhi}${foldLine}`;
   } else if (audience === 'managers') {
-    caption = `${capitalise(lead)}; ${reach}.${foldLine}`;
+    caption = `${capitalise(lead)}; ${askedTop ? `${askedTop}${c === null ? '' : `; ${reach}`}` : reach}.${fewerLine}${foldLine}`;
   } else {
     const top = k !== null ? `${capitalise(countWord(k, locale))} ${k === 1 ? lowerLabel(dim.label) : plural} ${verbFor(k)} about ${formatShare(half!.cumulativeShare, locale)} of ${noun}` : `No single ${lowerLabel(dim.label)} dominates ${noun}`;
     const more = c !== null && (k === null || c > k) ? `; ${countWord(c, locale)} carry over ${formatShare(f.threshold, locale)}` : '';

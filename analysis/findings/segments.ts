@@ -232,6 +232,8 @@ export interface SegmentSharesFinding {
   /** Fewest segments reaching the threshold; null when shares do not apply or it lies inside the fold. */
   countToThreshold: number | null;
   topN: number;
+  /** How many the request asked for ("top 10"): topN is that number (up to MAX_NAMED_SEGMENTS) and the answer says that share. */
+  topNAsked?: number | null;
   topNShare: number | null;
   /** Herfindahl–Hirschman index over every segment (0–10,000), computed before folding. */
   hhi: number | null;

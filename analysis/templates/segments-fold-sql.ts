@@ -10,6 +10,13 @@ import { complementaryFoldCtes, minGroupSize } from './small-groups.js';
 
 /** Segments named before the rest are folded (bars and Pareto charts stay readable at this size). */
 export const SEGMENT_TOP_N = 8;
+/** The most segments a request can have named ("top 50 routes"): past this a bar chart is unreadable. */
+export const MAX_NAMED_SEGMENTS = 20;
+
+/** How many segments to name before the fold: as many as the request asked for ("top 10"), else SEGMENT_TOP_N. */
+export function namedSegmentCount(sq: Pick<SubQuestion, 'rankLimit'>): number {
+  return sq.rankLimit ? Math.min(Math.max(1, Math.floor(sq.rankLimit)), MAX_NAMED_SEGMENTS) : SEGMENT_TOP_N;
+}
 
 export interface FoldedQueryOptions {
   topN: number;

@@ -5,7 +5,7 @@ import { isAdditive, metricByName } from '../catalog.js';
 import type { SegmentShareRow, SegmentSharesFinding } from '../findings/segments.js';
 import { concentration, hhiBand } from '../stats/index.js';
 import type { Caveat, ResultTable, SubQuestion } from '../types.js';
-import { compileFoldedSegments, SEGMENT_TOP_N, segmentDimension } from './segments-fold-sql.js';
+import { compileFoldedSegments, namedSegmentCount, segmentDimension } from './segments-fold-sql.js';
 import { foldedCaveats, readSegmentTotals, type FoldedRow } from './segments-read.js';
 import { minGroupSize } from './small-groups.js';
 import type { ReadContext, Reading, Template } from './template.js';
@@ -19,7 +19,7 @@ export const SHARE_TOP_N = 3;
 export const segmentSharesTemplate: Template = {
   compile: (sq, ctx) => {
     segmentDimension(sq, ctx);
-    return [{ name: 'segment_totals', ...compileFoldedSegments(sq, ctx, { topN: SEGMENT_TOP_N, grain: null, totals: true }) }];
+    return [{ name: 'segment_totals', ...compileFoldedSegments(sq, ctx, { topN: namedSegmentCount(sq), grain: null, totals: true }) }];
   },
   read: (sq, tables, ctx) => readSegmentShares(sq, tables.segment_totals ?? EMPTY_TABLE, ctx),
 };
@@ -49,7 +49,9 @@ export function readSegmentShares(sq: SubQuestion, table: ResultTable, ctx: Read
     rows: rows.map((r) => ({ ...keyOf(r), value: r.value, share: null, cumulativeShare: null })),
     threshold: SHARE_THRESHOLD,
     countToThreshold: null,
-    topN: SHARE_TOP_N,
+    // "top 10 airports": the share the request asked about, else the common top-three share.
+    topN: sq.rankLimit ? namedSegmentCount(sq) : SHARE_TOP_N,
+    topNAsked: sq.rankLimit ?? null,
     topNShare: null,
     hhi: null,
     hhiBand: null,
@@ -77,7 +79,7 @@ function keyOf(r: FoldedRow) {
 
 /** Every segment is in hand: the stats module computes everything. */
 function exactShares(base: SegmentSharesFinding, rows: readonly FoldedRow[], values: readonly number[]): SegmentSharesFinding {
-  const c = concentration(rows.map((r, i) => ({ key: r.id, value: values[i]! })), { threshold: SHARE_THRESHOLD, topN: SHARE_TOP_N });
+  const c = concentration(rows.map((r, i) => ({ key: r.id, value: values[i]! })), { threshold: SHARE_THRESHOLD, topN: base.topN });
   if (c.kind !== 'ok') return base;
   const byId = new Map(rows.map((r) => [r.id, r]));
   const shareRows: SegmentShareRow[] = c.pareto.map((p) => ({ ...keyOf(byId.get(p.key)!), rank: p.rank, value: p.value, share: p.share, cumulativeShare: p.cumulativeShare }));
@@ -98,7 +100,7 @@ function foldedShares(base: SegmentSharesFinding, rows: readonly FoldedRow[], va
   });
   const named = shareRows.filter((r) => !r.other);
   const reach = named.find((r) => r.cumulativeShare! >= SHARE_THRESHOLD - 1e-12);
-  const topN = named.slice(0, SHARE_TOP_N);
+  const topN = named.slice(0, base.topN);
   const grandTotal = numberOrNull(first.grand_total);
   const sumSquares = numberOrNull(first.sum_squares);
   const minSegment = numberOrNull(first.min_segment_value);
@@ -108,7 +110,7 @@ function foldedShares(base: SegmentSharesFinding, rows: readonly FoldedRow[], va
     total,
     rows: shareRows,
     countToThreshold: reach ? named.indexOf(reach) + 1 : null,
-    topNShare: topN.length === SHARE_TOP_N ? topN[topN.length - 1]!.cumulativeShare : null,
+    topNShare: topN.length === base.topN ? topN[topN.length - 1]!.cumulativeShare : null,
     hhi,
     hhiBand: hhi === null ? null : hhiBand(hhi),
   };

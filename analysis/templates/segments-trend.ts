@@ -5,7 +5,7 @@ import type { SegmentTrendFinding, SegmentTrendOverviewFinding, SegmentYearGrowt
 import { addDays, nextPeriod } from '../periods.js';
 import { cagr, relativeChange, senSlope } from '../stats/index.js';
 import type { Caveat, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
-import { compileFoldedSegments, SEGMENT_TOP_N, segmentDimension } from './segments-fold-sql.js';
+import { compileFoldedSegments, namedSegmentCount, segmentDimension } from './segments-fold-sql.js';
 import { foldedCaveats, foldedRow, readSegmentTotals, segmentCoverageCaveats, type FoldedRow } from './segments-read.js';
 import { minGroupSize } from './small-groups.js';
 import type { ReadContext, Reading, Template } from './template.js';
@@ -14,10 +14,11 @@ import { completePoints, coveredWindow, EMPTY_TABLE, isoYear, mean, numberOrNull
 export const segmentTrendTemplate: Template = {
   compile: (sq, ctx) => {
     segmentDimension(sq, ctx);
+    const topN = namedSegmentCount(sq);
     return [
-      { name: 'segment_totals', ...compileFoldedSegments(sq, ctx, { topN: SEGMENT_TOP_N, grain: null, totals: true }) },
-      { name: 'segment_series', ...compileFoldedSegments(sq, ctx, { topN: SEGMENT_TOP_N, grain: sq.grain }) },
-      { name: 'segment_years', ...compileFoldedSegments(sq, ctx, { topN: SEGMENT_TOP_N, grain: 'year', monthsWithRows: true }) },
+      { name: 'segment_totals', ...compileFoldedSegments(sq, ctx, { topN, grain: null, totals: true }) },
+      { name: 'segment_series', ...compileFoldedSegments(sq, ctx, { topN, grain: sq.grain }) },
+      { name: 'segment_years', ...compileFoldedSegments(sq, ctx, { topN, grain: 'year', monthsWithRows: true }) },
     ];
   },
   read: (sq, tables, ctx) =>
