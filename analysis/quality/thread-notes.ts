@@ -39,14 +39,22 @@ const OUTLIERS_NAMED = 5;
 /** One `outlier` caveat per metric for many unusual periods ("235 days are unusual; the five most extreme: ..."), never one per row. */
 export function summariseOutliers(caveats: readonly Caveat[]): Caveat[] {
   const outliers = caveats.filter((c) => c.code === 'outlier' && c.data.count === undefined);
-  if (outliers.length <= OUTLIERS_NAMED) return [...caveats];
+  // One answer may screen the same series twice (its summary and its series): a period is said once.
+  // Grouped by metric and grain, so each note names its periods at their own grain.
   const byMetric = new Map<string, Caveat[]>();
+  const seen = new Set<string>();
   for (const c of outliers) {
-    const key = String(c.data.metric ?? '');
+    const id = `${String(c.data.metric ?? '')}|${String(c.data.grain ?? 'month')}|${String(c.data.period)}`;
+    if (seen.has(id)) continue;
+    seen.add(id);
+    const key = `${String(c.data.metric ?? '')}|${String(c.data.grain ?? 'month')}`;
     byMetric.set(key, [...(byMetric.get(key) ?? []), c]);
   }
+  const once = [...byMetric.values()].flat();
+  if (once.length <= OUTLIERS_NAMED) return caveats.filter((c) => !outliers.includes(c) || once.includes(c));
   const summaries: Caveat[] = [];
-  for (const [metric, group] of byMetric) {
+  for (const [key, group] of byMetric) {
+    const metric = key.slice(0, key.lastIndexOf('|'));
     if (group.length <= OUTLIERS_NAMED) {
       summaries.push(...group);
       continue;

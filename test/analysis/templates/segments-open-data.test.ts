@@ -9,6 +9,8 @@ import { dirname, join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import type { SegmentSharesFinding, SegmentTrendFinding } from '../../../analysis/findings/segments.js';
+import { caveatNote } from '../../../analysis/captions/caveat-text.js';
+import { answerCaveats } from '../../../analysis/quality/thread-notes.js';
 import { SUB_QUESTIONS, type TemplateName } from '../../../analysis/sub-questions/registry.js';
 import type { SubQuestion } from '../../../analysis/types.js';
 import { memoryWorkspace } from './trend-memory-db.js';
@@ -63,6 +65,13 @@ datasets:
         unit: count
         higher_is_better: false
         kind: flow
+      - name: cost_total
+        label: Total cost
+        sum: '"Cost Total $"'
+        unit: currency
+        currency: USD
+        higher_is_better: false
+        kind: flow
     dimensions:
       - name: airport
         label: Airport
@@ -80,7 +89,7 @@ const strikeLines = readFileSync(STRIKES_CSV, 'utf8').trim().split('\n');
 const strikeHeader = strikeLines[0]!.split(',');
 const strikes = strikeLines.slice(1).map((l) => {
   const cells = l.split(',');
-  return { airport: cells[strikeHeader.indexOf('Airport Name')]!, date: cells[strikeHeader.indexOf('Flight Date')]! };
+  return { airport: cells[strikeHeader.indexOf('Airport Name')]!, date: cells[strikeHeader.indexOf('Flight Date')]!, cost: Number(cells[strikeHeader.indexOf('Cost Total $')]) };
 });
 
 function countBy<T>(rows: readonly T[], key: (r: T) => string): Map<string, number> {
@@ -172,5 +181,33 @@ describe('a breakdown ranks and names segments by the value shown, as many as as
     const origins = new Set(day.map((f) => f.origin)).size;
     const { shown } = await present(flightsWs, question('segment_shares', 'flights', 'origin', { start: '2001-01-01', end: '2001-01-02' }, { rankLimit: origins + 5, grain: 'day' }));
     expect(shown.caption).toContain(`Only ${origins} origin airports have flights in this period.`);
+  });
+});
+
+describe('unusual periods are said once each, at their own grain', () => {
+  it('monthly total cost of strikes: the note counts each unusual month once and names no month twice', async () => {
+    const sq: SubQuestion = { ...question('trend_summary', 'cost_total', 'airport', STRIKE_YEARS), dimension: undefined };
+    const answer = await answerSubQuestion(sq, strikesWs);
+    const notes = answerCaveats(answer.caveats, strikesWs.coverage).filter((c) => c.code === 'outlier');
+    expect(notes).toHaveLength(1);
+    const text = caveatNote(notes[0]!, 'en-GB');
+    // Independent: monthly sums of "Cost Total $" over the complete months (February 1990 to June
+    // 2002: the file starts on 8 January 1990 and ends on 25 July 2002), then the modified z-score
+    // of Iglewicz & Hoaglin (1993): 0.6745 (x - median) / MAD, unusual above 3.5.
+    const byMonth = new Map<string, number>();
+    for (const s of strikes) byMonth.set(s.date.slice(0, 7), (byMonth.get(s.date.slice(0, 7)) ?? 0) + s.cost);
+    const months = [...byMonth.keys()].filter((m) => m >= '1990-02' && m <= '2002-06').sort();
+    const values = months.map((m) => byMonth.get(m)!);
+    const median = (xs: number[]) => {
+      const s = [...xs].sort((a, b) => a - b);
+      return s.length % 2 ? s[(s.length - 1) / 2]! : (s[s.length / 2 - 1]! + s[s.length / 2]!) / 2;
+    };
+    const med = median(values);
+    const mad = median(values.map((v) => Math.abs(v - med)));
+    const unusual = values.filter((v) => Math.abs((0.6745 * (v - med)) / mad) > 3.5).length;
+    expect(text.startsWith(`${unusual} months are unusual`)).toBe(true);
+    const named = text.slice(text.indexOf(':') + 1).replace(/\.$/, '').split(/, | and /).map((x) => x.trim());
+    expect(named.length).toBe(5);
+    expect(new Set(named).size).toBe(named.length);
   });
 });
