@@ -59,7 +59,7 @@ describe('unusual periods', () => {
     const { caveatNote } = await import('../../../analysis/captions/caveat-text.js');
     const days = Array.from({ length: 235 }, (_, i) => ({
       code: 'outlier' as const,
-      data: { metric: 'visits', period: `2024-01-${String((i % 28) + 1).padStart(2, '0')}`, grain: 'day', score: i === 7 ? 40 : 4 + i / 1000 },
+      data: { metric: 'visits', period: new Date(Date.UTC(2024, 0, 1 + i)).toISOString().slice(0, 10), grain: 'day', score: i === 7 ? 40 : 4 + i / 1000 },
     }));
     const out = summariseOutliers([...days, { code: 'small_sample', data: { n: 3 } }]);
     expect(out).toHaveLength(2);
