@@ -11,6 +11,8 @@ export interface UnknownTerm {
   closest: string[];
   /** What it seemed to name: a measure, a breakdown, or a value of the data. */
   role?: 'metric' | 'dimension' | 'value' | 'other';
+  /** A word the data could measure several ways (a bare "volume": bookings or passengers): `closest` are those ways. */
+  several?: true;
 }
 
 /** A word that matches several values (or values of several breakdowns): asked, never guessed. */
@@ -68,7 +70,8 @@ export const BRIEF_SLOTS = ['dataset', 'kinds', 'metrics', 'dimensions', 'filter
 export type BriefSlot = (typeof BRIEF_SLOTS)[number];
 
 /** What cannot be defaulted, asked before anything runs. */
-export const ASKABLE = ['metrics', 'values', 'dimensions', 'dataset'] as const;
+/** `window`: the period named lies outside the data ("sales in 2031"); nothing runs on another period in its place. */
+export const ASKABLE = ['metrics', 'values', 'dimensions', 'dataset', 'window'] as const;
 export type Askable = (typeof ASKABLE)[number];
 
 export interface Brief {
@@ -103,7 +106,7 @@ export interface Brief {
   toAsk?: Askable[];
   /** A deadline that was named but is already past, said back. */
   pastDeadline?: string;
-  /** Periods read otherwise than written or outside the data ("30 February 2008 is not a real date…"), said back on the card. */
+  /** Readings said back on the card: periods read otherwise than written or outside the data ("30 February 2008 is not a real date…"), a bare "volume" read as the one count of the data. */
   saidBack?: string[];
 }
 

@@ -51,7 +51,37 @@ export function nextPrompt(brief: Brief, ctx: PromptContext): Prompt | null {
   const noMeasure = brief.questions.length === 0 || brief.questions.every((q) => q.metrics.length === 0 && !q.frequency);
   if (brief.unknownTerms.some((u) => u.role === 'metric') || noMeasure) return metricsPrompt(brief, ctx);
   if ((brief.ambiguousValues ?? []).length > 0) return valuesPrompt(brief, ctx);
+  if ((brief.toAsk ?? []).includes('window')) return windowPrompt(brief, ctx);
   return null;
+}
+
+/**
+ * A period named outside the data ("sales in 2031"): the data's range said, and periods inside it
+ * offered, the whole of it recommended. Nothing runs on another period unasked.
+ */
+function windowPrompt(brief: Brief, ctx: PromptContext): Prompt {
+  const full = fullWindow(ctx.coverage)!;
+  const last = addDays(full.end, -1);
+  const range = `${formatPeriod(full.start, 'day', ctx.locale)} to ${formatPeriod(last, 'day', ctx.locale)}`;
+  const all: PromptOption = { value: 'all', label: `All the data (${range})` };
+  const options: PromptOption[] = [all];
+  // The last full calendar year in the data, and the data's last 12 months, as periods named outright.
+  // (The window's end is the day after the data's last: the year before it is the last full one.)
+  const year = Number(full.end.slice(0, 4)) - 1;
+  if (`${year}-01-01` >= full.start) options.push({ value: String(year), label: String(year) });
+  const twelveStart = addMonths(periodStart(full.end, 'month'), -12);
+  if (twelveStart > full.start) {
+    const lastMonth = addMonths(periodStart(full.end, 'month'), -1);
+    options.push({ value: `${twelveStart.slice(0, 7)} to ${lastMonth.slice(0, 7)}`, label: `The last 12 full months of the data (${formatPeriod(twelveStart, 'month', ctx.locale)} to ${formatPeriod(lastMonth, 'month', ctx.locale)})` });
+  }
+  const outside = (brief.saidBack ?? []).filter((l) => /nothing to answer for it/.test(l));
+  return {
+    topic: 'window',
+    question: `${outside.length > 0 ? `${outside.join(' ')} ` : ''}Which period should I use instead? Choose one, or name a period inside the data.`,
+    options,
+    recommended: { ...all, reason: `the data runs from ${range}` },
+    many: false,
+  };
 }
 
 /** Questions that still need a metric (frequency questions count the group's own unit). */
@@ -238,7 +268,9 @@ function readAnswerInto(prompt: Prompt, text: string, brief: Brief, ctx: PromptC
     case 'window': {
       const w = readWindowAnswer(typed, facts, ctx.now);
       if (!w.ok) return w;
-      return { ok: true, brief: { ...brief, window: w.value.window, ...(w.value.compareWindow ? { compareWindow: w.value.compareWindow } : {}) } };
+      // The period chosen is every question's that lost its own to a period outside the data.
+      const questions = brief.questions.map((q) => (q.window ? q : { ...q, window: w.value.window, ...(w.value.compareWindow ? { compareWindow: w.value.compareWindow } : {}) }));
+      return { ok: true, brief: { ...brief, questions, window: w.value.window, ...(w.value.compareWindow ? { compareWindow: w.value.compareWindow } : {}), toAsk: (brief.toAsk ?? []).filter((t) => t !== 'window') } };
     }
     case 'dataset': {
       // The bot reads this one itself (readDatasetAnswer): the brief waits for the dataset.

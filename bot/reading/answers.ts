@@ -34,6 +34,9 @@ export function readWindowAnswer(text: string, facts: DatasetFacts, now: Date): 
   const brief = readRequest(text, facts, { now });
   const window = brief.window;
   if (!window) {
+    // A period read but outside the data ("last year" on data that ended years ago): said as such.
+    const outside = (brief.saidBack ?? []).filter((l) => /nothing to answer for it/.test(l));
+    if (outside.length > 0) return { ok: false, message: `${outside.join(' ')} Pick a period inside it.` };
     return { ok: false, message: `I couldn't read "${clip(text)}" as a period. Try "all", "2024", "Q3 2024", "2023-04 to 2024-03", "since March 2023", "the last 12 months" or "this year vs last".` };
   }
   if (window.start >= window.end) return { ok: false, message: `The period ${window.start} to ${addDays(window.end, -1)} ends before it starts.` };

@@ -229,6 +229,13 @@ export const ROLE_WORDS: { role: MetricRole; pattern: RegExp }[] = [
   { role: 'distinct', pattern: /\b(?:unique|distinct|active)\s+(?:customers|users|clients|people|accounts|members)\b|\bhow many (?:customers|users|clients|people)\b/ },
 ];
 
+/**
+ * The bare words for how much of something there is ("what's our volume by month?"). Unless the
+ * catalog calls a metric so, they name no measure of their own: a count of the data's rows, or of
+ * another thing counted, is read for them only when it is the one such count, and said back.
+ */
+export const VOLUME_WORDS = /^(?:volumes?|throughput)$/;
+
 /** Words that point back to the previous question's metric. */
 export const PRONOUNS = new Set(['it', 'that', 'this', 'they', 'them', 'those', 'these', 'its', 'same', 'one']);
 

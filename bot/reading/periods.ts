@@ -251,7 +251,10 @@ function findPoints(text: RequestText, ctx: PeriodContext): Point[] {
     const before = text.lower.slice(Math.max(0, m.index - 2), m.index);
     if (/[$€£¥]\s*$|\d[.,]$/.test(before)) continue;
     const anchorYear = Number(ctx.anchor.slice(0, 4));
-    if (y < anchorYear - 30 || y > anchorYear + 5) continue;
+    // A number that could be a count ("2500 tickets") is a year only near the data's years, or
+    // after a word that dates it ("in 2031", "for 2031"): a year outside the data is still a year, asked about.
+    const dated = /\b(?:in|for|during|since|from|until|till|through|by|of|year|fy|cy)\s+(?:the\s+)?(?:calendar\s+|full\s+)?(?:year\s+)?$/.test(text.lower.slice(Math.max(0, m.index - 30), m.index));
+    if (y < anchorYear - 30 || y > anchorYear + (dated ? 30 : 5)) continue;
     add(m.span, { unit: 'year', year: y, make: () => yearWindow(y), which: 'latest', month: 1, digitsYear: true });
   }
   return longestFirst(found);

@@ -27,6 +27,7 @@ import {
   ROLE_WORDS,
   SEASON_ASK,
   STOPWORDS,
+  VOLUME_WORDS,
   WEEKDAY_ASK,
 } from './lexicon.js';
 import { findPeriods, type PeriodContext, type PeriodMention } from './periods.js';
@@ -99,6 +100,10 @@ interface RoleHit {
   metrics: string[];
   /** Named with a word the catalog does not know ("trading volume"): a measure the data lacks. */
   qualified?: true;
+  /** A bare "volume" that could be several counts of the data: asked, never guessed. */
+  several?: true;
+  /** How a bare "volume" was read, said back on the card ("volume" read as the number of tickets). */
+  saidBack?: string;
 }
 
 interface ReadState {
@@ -156,6 +161,13 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   const state: ReadState = { text, ds, catalog, anchor: anchor.today, dataEnd: anchor.dataEnd, periods, hits, roleHits, grainSpans: grain?.spans ?? [], evidence };
   const { questions, ambiguous } = readQuestions(state);
   const unknownTerms = findUnknownTerms(text, { catalog });
+  // A bare "volume" that could be several counts of the data: asked, with those counts as the closest.
+  for (const r of roleHits) {
+    if (!r.several || !questions.some((q) => q.metrics.length === 0 && q.text.includes(text.quote(r.span)))) continue;
+    const words = text.quote(r.span).toLowerCase();
+    for (let i = unknownTerms.length - 1; i >= 0; i--) if (unknownTerms[i]!.text === words) unknownTerms.splice(i, 1);
+    unknownTerms.push({ text: words, closest: volumeCandidates(ds), role: 'metric', several: true });
+  }
   // A business word the catalog has no measure for ("revenue" on a support desk's data).
   for (const r of roleHits) {
     const words = text.quote(r.span).toLowerCase();
@@ -196,7 +208,13 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   }
   if (pastDeadline) brief.pastDeadline = pastDeadline;
   const notes = periodNotes(periods, facts, anchor.dataEnd);
-  if (notes.length > 0) brief.saidBack = notes;
+  for (const r of roleHits) if (r.saidBack && questions.some((q) => q.metrics.includes(r.metrics[0]!))) notes.push(r.saidBack);
+  const stale = staleRelativePeriods(fullText, periods, facts, { ...periodCtx, anchor: today }, today, catalog);
+  // A relative period said back from today replaces its reading from the data's end ("this year is after it").
+  for (const w of stale.words) for (let i = notes.length - 1; i >= 0; i--) if (notes[i]!.includes(`; ${w} is after it`)) notes.splice(i, 1);
+  notes.push(...stale.notes);
+  if (notes.length > 0) brief.saidBack = unique(notes);
+  const askWindow = dropWindowsOutside(brief, facts, anchor.dataEnd, stale.windows);
   if (personal.length > 0) brief.personalData = personal;
   if (personalValues.length > 0) brief.personalValues = personalValues.map((p) => p.text);
   if (ambiguous.length > 0) brief.ambiguousValues = ambiguous;
@@ -204,7 +222,81 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   if (purpose) brief.purpose = purpose.trim();
   recordEvidence(brief, state);
   brief.toAsk = toAsk(brief);
+  if (askWindow) brief.toAsk.push('window');
   return brief;
+}
+
+/** The data's days as a half-open window, or null for an empty dataset. */
+function dataWindow(facts: DatasetFacts, dataEnd: string | null): DateWindow | null {
+  const first = facts.coverage.firstDate;
+  const end = dataEnd ?? (facts.coverage.lastDate ? addDays(facts.coverage.lastDate, 1) : null);
+  return first && end ? { start: first, end } : null;
+}
+
+/**
+ * A period named wholly outside the data ("sales in 2031", "last year" on data that ended years
+ * ago) is asked about, never run on another period in its place: the questions' windows that lie
+ * outside the data, or that were counted back from the data's end for a relative period that
+ * means another time (`stale`), are taken out, and a window is asked for (the prompt says the
+ * data's range and offers it). Returns whether to ask.
+ */
+function dropWindowsOutside(brief: Brief, facts: DatasetFacts, dataEnd: string | null, stale: readonly DateWindow[]): boolean {
+  const data = dataWindow(facts, dataEnd);
+  if (!data) return false;
+  const outside = (w: DateWindow) => w.end <= data.start || w.start >= data.end || stale.some((x) => x.start === w.start);
+  let ask = false;
+  for (const q of brief.questions) {
+    if (q.window && outside(q.window)) {
+      delete q.window;
+      delete q.windowSoFar;
+      delete q.compareWindow;
+      ask = true;
+    }
+    if (q.compareWindow && outside(q.compareWindow)) {
+      delete q.compareWindow;
+      ask = true;
+    }
+  }
+  if (!ask) return false;
+  const windowed = brief.questions.find((q) => q.window);
+  if (windowed?.window) brief.window = windowed.window;
+  else delete brief.window;
+  const compared = brief.questions.find((q) => q.compareWindow);
+  if (compared?.compareWindow) brief.compareWindow = compared.compareWindow;
+  else delete brief.compareWindow;
+  if (brief.evidence) {
+    if (!brief.window) delete brief.evidence.window;
+    if (!brief.compareWindow) delete brief.evidence.compareWindow;
+  }
+  return true;
+}
+
+/**
+ * Data that ended years ago (nothing in today's year or the one before): relative periods are
+ * counted back from the data's end so that something answers, but "last year" then means a year
+ * the requester did not name. Each relative period is read again from today; one that lies wholly
+ * after the data is said back with the data's range, and its window counted from the data's end
+ * is returned, to be asked about rather than run.
+ */
+function staleRelativePeriods(fullText: string, periods: readonly PeriodMention[], facts: DatasetFacts, todayCtx: PeriodContext, today: string, catalog: PreparedCatalog): { notes: string[]; windows: DateWindow[]; words: string[] } {
+  const last = facts.coverage.lastDate;
+  if (!last || yearOf(last) >= yearOf(today) - 1) return { notes: [], windows: [], words: [] };
+  const relative = periods.filter((p) => p.relative && !p.shift && p.window);
+  if (relative.length === 0) return { notes: [], windows: [], words: [] };
+  const asToday = findPeriods(new RequestText(mendCalendarWords(readablePart(fullText), catalogWords(catalog))), todayCtx);
+  const say = (iso: string) => new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' }).format(new Date(`${iso}T00:00:00Z`));
+  const notes: string[] = [];
+  const windows: DateWindow[] = [];
+  const words: string[] = [];
+  for (const p of relative) {
+    const real = asToday.find((x) => x.start === p.start && x.end === p.end)?.window;
+    if (!real || real.start <= last) continue;
+    const shown = real.end > today ? today : addDays(real.end, -1);
+    notes.push(`The data runs from ${say(facts.coverage.firstDate ?? last)} to ${say(last)}; ${p.words} (${say(real.start)} to ${say(shown)}) is after it, so there is nothing to answer for it.`);
+    windows.push(p.window!);
+    words.push(p.words);
+  }
+  return { notes, windows, words };
 }
 
 /**
@@ -954,10 +1046,25 @@ function findRoleWords(text: RequestText, ds: DatasetConfig): RoleHit[] {
         out.push({ span: { start: qualifier.start, end: m.span.end }, role, metrics: [], qualified: true });
         continue;
       }
+      if (role === 'count' && VOLUME_WORDS.test(m[0])) {
+        out.push(volumeHit(m.span, m[0], ds));
+        continue;
+      }
       out.push({ span: m.span, role, metrics: metricsForRole(ds, role) });
     }
   }
   return out;
+}
+
+/**
+ * A bare "volume": the one count of the data it can mean, said back ("volume" read as the number
+ * of tickets), or, with several (bookings, passengers), none, to be asked. Counts of rows and sums
+ * counted in units qualify; a count of distinct ids (customers) is how many, not how much.
+ */
+function volumeHit(span: Span, words: string, ds: DatasetConfig): RoleHit {
+  const counts = volumeCandidates(ds).map((name) => ds.metrics.find((m) => m.name === name)!);
+  if (counts.length === 1) return { span, role: 'count', metrics: [counts[0]!.name], saidBack: `"${words}" read as the number of ${counts[0]!.label.toLowerCase()}.` };
+  return { span, role: 'count', metrics: [], several: true };
 }
 
 const catalogWordSets = new WeakMap<PreparedCatalog, ReadonlySet<string>>();
@@ -970,6 +1077,12 @@ function catalogWords(catalog: PreparedCatalog): ReadonlySet<string> {
     catalogWordSets.set(catalog, words);
   }
   return words;
+}
+
+/** The counts a bare "volume" can mean: counts of rows and sums counted in units, unfiltered. */
+function volumeCandidates(ds: DatasetConfig): string[] {
+  const plain = (m: Metric) => !('where' in m.definition && m.definition.where);
+  return ds.metrics.filter((m) => plain(m) && (m.definition.type === 'count' || (m.definition.type === 'sum' && m.unit === 'count'))).map((m) => m.name);
 }
 
 export function metricsForRole(ds: DatasetConfig, role: MetricRole): string[] {

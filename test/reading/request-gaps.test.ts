@@ -172,6 +172,7 @@ const KNOWN_MISSES = new Set(['On rainy days, how has wind changed over the year
 const READ_RIGHT: Record<string, Case[]> = {
   'a filter said once reaches every question': FILTER_CASES,
   'two values of one breakdown are set against each other': CONTRAST_CASES,
+  'a period outside the data is asked about, not run on another': OUTSIDE_CASES,
 };
 
 describe.each(Object.entries(READ_RIGHT))('reading gaps: %s', (_name, cases) => {
@@ -197,4 +198,35 @@ describe('`threadcount read` prints what the card says back', () => {
     const b = await readBrief({ configFile: TICKETS_CONFIG, text: 'tickets on 30 February 2023', now: NOW.tickets });
     expect(b.saidBack).toEqual(['30 February 2023 is not a real date, so I read it as February 2023.']);
   });
+});
+
+describe('through the bot (`threadcount ask`, real DuckDB): what the thread shows', () => {
+  const converse = async (configFile: string, request: string, answers: string, now: Date) => {
+    const { ask } = await import('../../cli/ask.js');
+    const dir = mkdtempSync(join(tmpdir(), 'tc-gaps-ask-'));
+    writeFileSync(join(dir, 'answers.yaml'), answers);
+    const r = await ask({ configFile, request, answersFile: join(dir, 'answers.yaml'), outDir: join(dir, 'out'), now });
+    return r.thread.thread.posts.filter((p) => p.author === 'threadcount');
+  };
+  const card = (posts: { text: string }[]) => posts.find((p) => p.text.startsWith('*Here is what I understood.*'))?.text ?? '';
+
+  it('a year after the data is asked about with the data\'s range; the period chosen is the one run', async () => {
+    const posts = await converse(TICKETS_CONFIG, 'how many tickets did we get in 2031, by channel?', 'window: "2023"\nplan: go\n', NOW.tickets);
+    const prompt = posts.find((p) => p.promptTopic === 'window');
+    expect(prompt?.text).toMatch(/The data runs from 1 September 2021 to 29 November 2024; 2031 is after it/);
+    expect(prompt?.text).toMatch(/All the data/);
+    expect(card(posts)).toMatch(/\*Period:\* January 1 to December 31, 2023/);
+  }, 300_000);
+
+  it('"last year" on data that ended years ago is asked about; the recommendation is all the data', async () => {
+    const posts = await converse(STOCKS_CONFIG, 'how did share prices do last year?', 'plan: go\n', NOW.stocks);
+    const prompt = posts.find((p) => p.promptTopic === 'window');
+    expect(prompt?.text).toMatch(/last year \(1 January 2025 to 31 December 2025\) is after it/);
+    expect(card(posts)).toMatch(/\*Period:\* .*2000.*2010/);
+  }, 300_000);
+
+  it('two values set against each other are said as such on the card and head the plan', async () => {
+    const posts = await converse(TICKETS_CONFIG, 'How do email tickets compare with phone tickets?', 'plan: go\n', NOW.tickets);
+    expect(card(posts)).toMatch(/How email and phone compare in tickets/);
+  }, 300_000);
 });
