@@ -160,6 +160,18 @@ function metricsPrompt(brief: Brief, ctx: PromptContext): Prompt {
   const unknown = brief.unknownTerms.find((u) => u.role === 'metric');
   const label = (name: string) => ds.metrics.find((m) => m.name === name)?.label ?? name;
   const options = ds.metrics.map((m) => ({ value: m.name, label: m.label }));
+  if (unknown?.several) {
+    // A bare "volume" the data could count several ways: those ways first, none taken unasked.
+    const ways = unknown.closest.map((name) => ({ value: name, label: label(name) }));
+    const what = ways.map((w) => w.label.toLowerCase());
+    return {
+      topic: 'metrics',
+      question: `"${unknown.text}" could be counted as ${what.slice(0, -1).join(', ')} or ${what[what.length - 1]} in ${ds.label}. Which did you mean?`,
+      options: [...ways, ...options.filter((o) => !unknown.closest.includes(o.value))],
+      recommended: { ...ways[0]!, reason: 'the first count of this dataset' },
+      many: true,
+    };
+  }
   if (unknown) {
     // A nearest metric is recommended only when it shares a word with what was asked ("net
     // revenue" -> Revenue); otherwise nothing in the data stands in for it.

@@ -430,7 +430,8 @@ function isFrame(r: ClauseReading, st: ReadState): boolean {
  * A filter said once reaches every question that does not name its own value of that breakdown
  * ("For email tickets, how have volumes moved and which teams handle most of them?"): the values
  * of the frame in force and of the first question, or, for a question that takes its measure from
- * the one before, that question's. A question that breaks down by the filtered breakdown, sets two
+ * the one before, that question's. A question that names values of its own takes only the frame's.
+ * A question that breaks down by the filtered breakdown, sets two
  * of its values against each other, or asks about everything ("overall") keeps to its own words.
  */
 function carryFilters(questions: Question[], framed: Map<Question, SegmentFilter[]>): void {
@@ -439,7 +440,10 @@ function carryFilters(questions: Question[], framed: Map<Question, SegmentFilter
   for (const [i, q] of questions.entries()) {
     if (i === 0) continue;
     const frame = framed.get(q) ?? [];
-    const source = q.metricsFromPrevious ? questions[i - 1]!.filters : [...frame, ...first.filters.filter((f) => !frame.some((x) => x.dimension === f.dimension))];
+    // A question that names values of its own ("And for the Billing team, …") sets its own scope:
+    // only a frame said for the whole request reaches it.
+    const ownScope = q.filters.length > 0 && !q.metricsFromPrevious;
+    const source = ownScope ? frame : q.metricsFromPrevious ? questions[i - 1]!.filters : [...frame, ...first.filters.filter((f) => !frame.some((x) => x.dimension === f.dimension))];
     if (OVERALL.test(q.text)) continue;
     const carried = source.filter((f) => !q.filters.some((x) => x.dimension === f.dimension) && !(f.exclude !== true && q.dimensions.includes(f.dimension)) && q.contrast?.dimension !== f.dimension);
     if (carried.length > 0) q.filters = mergeFilters(q.filters, carried);
