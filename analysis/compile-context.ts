@@ -109,6 +109,35 @@ export function measureSql(q: QueryBuilder, ctx: CompileContext, metric: Metric)
   return ctx.rollup ? rollupMetricAggregate(q, ctx.dataset, metric) : metricAggregate(q, ctx.dataset, metric);
 }
 
+/**
+ * How a statement grouped by period reads a sub-question's segment filters: the window alone in
+ * WHERE, and the filters inside each aggregate. Every period that has rows at all keeps its row,
+ * so a filtered count of a period with no matching rows is 0 (and an average of none is missing,
+ * with a row count of 0) instead of the period vanishing as if the data had a hole there.
+ */
+export interface PeriodScope {
+  /** The WHERE condition: the windows' dates only. */
+  where: string;
+  /** A catalog metric over the rows that pass the filters. */
+  measure(metric: Metric): string;
+  /** The table rows behind the group that pass the filters (and `where`, when given). */
+  rowCount(where?: string): string;
+  /** `expr` on the rows that pass the filters, NULL on the others (for a COUNT(DISTINCT …) of them). */
+  onMatching(expr: string): string;
+}
+
+export function periodScope(q: QueryBuilder, ctx: CompileContext, windows: DateWindow | DateWindow[], filters: SegmentFilter[]): PeriodScope {
+  const where = Array.isArray(windows) ? dateRanges(q, ctx, windows) : dateRange(q, ctx, windows);
+  const conds = segmentConditions(q, ctx, filters);
+  const only = conds.length > 0 ? conds.join(' AND ') : undefined;
+  return {
+    where,
+    measure: (metric) => (ctx.rollup ? rollupMetricAggregate(q, ctx.dataset, metric, only) : metricAggregate(q, ctx.dataset, metric, only)),
+    onMatching: (expr) => (only ? `CASE WHEN ${only} THEN ${expr} END` : expr),
+    rowCount: (extra) => rowCountSql(q, ctx, [only, extra].filter((c): c is string => c !== undefined).join(' AND ') || undefined),
+  };
+}
+
 /** The number of table rows behind the rows aggregated, optionally only where `where` holds. */
 export function rowCountSql(q: QueryBuilder, ctx: CompileContext, where?: string): string {
   if (ctx.rollup) return rollupRowCount(q, where);

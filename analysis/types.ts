@@ -111,6 +111,7 @@ export type CaveatCode =
   | 'duplicate_keys'
   | 'negative_amounts'
   | 'series_gap'
+  | 'empty_period'
   | 'outlier'
   | 'stale_data'
   | 'small_sample'

@@ -22,6 +22,12 @@ export function caveatNote(c: Caveat, locale: string): string {
       return `${period(d.period, d.grain)} is partial and was left out.`;
     case 'series_gap':
       return `${show(d.periods)} period(s) have no data at all, the first in ${period(d.firstGap, 'month')}.`;
+    case 'empty_period': {
+      const grain = (typeof d.grain === 'string' ? d.grain : 'month') as Grain;
+      const n = typeof d.periods === 'number' ? d.periods : 0;
+      if (d.leading === true) return `No rows match the filter before ${period(d.firstMatch, grain)} (the ${countOf(n, grain)} from ${period(d.firstEmpty, grain)}), so the series starts there.`;
+      return `${countOf(n, grain)} ${n === 1 ? 'has' : 'have'} no rows that match the filter (the first is ${period(d.firstEmpty, grain)}): there is nothing to average, so ${n === 1 ? 'it is' : 'they are'} left blank rather than drawn as 0.`;
+    }
     case 'no_data':
       return 'There is no data in the period asked for.';
     case 'all_null':
@@ -87,6 +93,7 @@ export function caveatFlag(c: Caveat): string {
     partial_period: 'partial period (dashed)',
     partial_period_excluded: 'partial period excluded',
     series_gap: 'gap in the series',
+    empty_period: 'empty after the filter',
     no_data: 'no data',
     all_null: 'no values',
     single_period: 'single period',

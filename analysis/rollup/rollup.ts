@@ -118,31 +118,34 @@ function piecesOf(ds: DatasetConfig, metric: Metric): Piece[] {
 
 /**
  * The metric as an aggregate over the rollup's rows; the same number the table-side
- * `metricAggregate` gives (sums of sums and of counts are exact; a count over no rows is 0).
+ * `metricAggregate` gives (sums of sums and of counts are exact; a count over no rows is 0, and
+ * so is a filtered sum). `rowCondition` limits every sum to the rollup rows where it holds, as
+ * it does on the table side.
  */
-export function rollupMetricAggregate(q: QueryBuilder, ds: DatasetConfig, metric: Metric): string {
+export function rollupMetricAggregate(q: QueryBuilder, ds: DatasetConfig, metric: Metric, rowCondition?: string): string {
   const d = q.dialect;
-  const sum = (col: string) => d.toDouble(`SUM(${q.ident(col)})`);
-  const count = (col: string) => d.toDouble(`COALESCE(SUM(${q.ident(col)}), 0)`);
+  const only = rowCondition ? ` FILTER (WHERE ${rowCondition})` : '';
+  const sum = (col: string) => d.toDouble(`SUM(${q.ident(col)})${only}`);
+  const orZero = (col: string) => d.toDouble(`COALESCE(SUM(${q.ident(col)})${only}, 0)`);
   const def = metric.definition;
   switch (def.type) {
     case 'sum':
-      return sum(sumName(metric.name));
+      return def.where || rowCondition ? orZero(sumName(metric.name)) : sum(sumName(metric.name));
     case 'count':
-      return count(countName(metric.name));
+      return orZero(countName(metric.name));
     case 'average':
-      return `(${sum(sumName(metric.name))} / NULLIF(${count(countName(metric.name))}, 0))`;
+      return `(${sum(sumName(metric.name))} / NULLIF(${orZero(countName(metric.name))}, 0))`;
     case 'distinct_count':
       throw new Error(`metric ${metric.name} is a distinct count, which a rollup cannot rebuild`);
     case 'ratio':
-      return `(${rollupMetricAggregate(q, ds, metricByName(ds, def.numerator))} / NULLIF(${rollupMetricAggregate(q, ds, metricByName(ds, def.denominator))}, 0))`;
+      return `(${rollupMetricAggregate(q, ds, metricByName(ds, def.numerator), rowCondition)} / NULLIF(${rollupMetricAggregate(q, ds, metricByName(ds, def.denominator), rowCondition)}, 0))`;
     case 'rate': {
       const base = def.of ? metricByName(ds, def.of) : undefined;
-      if (!base) return `(${count(hitName(metric.name))} / NULLIF(${count(ROLLUP_ROWS)}, 0))`;
+      if (!base) return `(${orZero(hitName(metric.name))} / NULLIF(${orZero(ROLLUP_ROWS)}, 0))`;
       const b = base.definition.type;
       const part =
-        b === 'sum' ? sum(hitName(metric.name)) : b === 'count' ? count(hitName(metric.name)) : `(${sum(hitName(metric.name))} / NULLIF(${count(hitCountName(metric.name))}, 0))`;
-      return `(${part} / NULLIF(${rollupMetricAggregate(q, ds, base)}, 0))`;
+        b === 'sum' ? orZero(hitName(metric.name)) : b === 'count' ? orZero(hitName(metric.name)) : `(${sum(hitName(metric.name))} / NULLIF(${orZero(hitCountName(metric.name))}, 0))`;
+      return `(${part} / NULLIF(${rollupMetricAggregate(q, ds, base, rowCondition)}, 0))`;
     }
   }
 }

@@ -4,54 +4,53 @@ import type { ColumnFilter, DatasetConfig, Metric } from '../../config/schema.js
 import { metricByName } from '../catalog.js';
 import type { QueryBuilder } from './query-builder.js';
 
-export function metricAggregate(q: QueryBuilder, ds: DatasetConfig, metric: Metric): string {
+/**
+ * `rowCondition`, when given, limits every aggregate inside the metric to the rows where it holds
+ * (a FILTER clause, not a WHERE): a statement grouped by period then keeps each period that has
+ * rows at all, and a period with rows but none that match counts 0 rather than vanishing. A sum
+ * over no matching rows is 0 for the same reason (SQL's SUM of nothing is NULL); an average over
+ * none stays missing.
+ */
+export function metricAggregate(q: QueryBuilder, ds: DatasetConfig, metric: Metric, rowCondition?: string): string {
   const d = q.dialect;
   const def = metric.definition;
+  const f = (own?: ColumnFilter) => filterClause(q, own, rowCondition);
   switch (def.type) {
-    case 'sum':
-      return d.toDouble(`SUM(${q.ident(def.column)})${filterClause(q, def.where)}`);
+    case 'sum': {
+      const sum = `SUM(${q.ident(def.column)})${f(def.where)}`;
+      return d.toDouble(def.where || rowCondition ? `COALESCE(${sum}, 0)` : sum);
+    }
     case 'count':
-      return d.toDouble(`COUNT(*)${filterClause(q, def.where)}`);
+      return d.toDouble(`COUNT(*)${f(def.where)}`);
     case 'distinct_count':
-      return d.toDouble(`COUNT(DISTINCT ${q.ident(def.column)})${filterClause(q, def.where)}`);
+      return d.toDouble(`COUNT(DISTINCT ${q.ident(def.column)})${f(def.where)}`);
     case 'average':
-      return d.toDouble(`AVG(${q.ident(def.column)})${filterClause(q, def.where)}`);
+      return d.toDouble(`AVG(${q.ident(def.column)})${f(def.where)}`);
     case 'ratio': {
-      const num = metricAggregate(q, ds, metricByName(ds, def.numerator));
-      const den = metricAggregate(q, ds, metricByName(ds, def.denominator));
+      const num = metricAggregate(q, ds, metricByName(ds, def.numerator), rowCondition);
+      const den = metricAggregate(q, ds, metricByName(ds, def.denominator), rowCondition);
       return `(${num} / NULLIF(${den}, 0))`;
     }
     case 'rate': {
       const base = def.of ? metricByName(ds, def.of) : undefined;
-      const cond = filterCondition(q, def.where);
-      const part = base ? metricAggregateWhere(q, ds, base, cond) : d.toDouble(`COUNT(*) FILTER (WHERE ${cond})`);
-      const whole = base ? metricAggregate(q, ds, base) : d.toDouble('COUNT(*)');
+      const cond = [filterCondition(q, def.where), ...(rowCondition ? [rowCondition] : [])].join(' AND ');
+      if (base && !isRateBase(base)) throw new Error(`metric ${metric.name} cannot be the base of a rate`);
+      const part = base ? metricAggregate(q, ds, base, cond) : d.toDouble(`COUNT(*) FILTER (WHERE ${cond})`);
+      const whole = base ? metricAggregate(q, ds, base, rowCondition) : d.toDouble(`COUNT(*)${filterClause(q, undefined, rowCondition)}`);
       return `(${part} / NULLIF(${whole}, 0))`;
     }
   }
 }
 
-function metricAggregateWhere(q: QueryBuilder, ds: DatasetConfig, metric: Metric, cond: string): string {
-  const def = metric.definition;
-  const own = 'where' in def && def.where ? ` AND ${filterCondition(q, def.where)}` : '';
-  const f = ` FILTER (WHERE ${cond}${own})`;
-  switch (def.type) {
-    case 'sum':
-      return q.dialect.toDouble(`SUM(${q.ident(def.column)})${f}`);
-    case 'count':
-      return q.dialect.toDouble(`COUNT(*)${f}`);
-    case 'distinct_count':
-      return q.dialect.toDouble(`COUNT(DISTINCT ${q.ident(def.column)})${f}`);
-    case 'average':
-      return q.dialect.toDouble(`AVG(${q.ident(def.column)})${f}`);
-    default:
-      // Config validation forbids a rate of a ratio or rate.
-      throw new Error(`metric ${metric.name} cannot be the base of a rate`);
-  }
+// Config validation forbids a rate of a ratio or rate.
+function isRateBase(metric: Metric): boolean {
+  const t = metric.definition.type;
+  return t === 'sum' || t === 'count' || t === 'distinct_count' || t === 'average';
 }
 
-function filterClause(q: QueryBuilder, f: ColumnFilter | undefined): string {
-  return f ? ` FILTER (WHERE ${filterCondition(q, f)})` : '';
+function filterClause(q: QueryBuilder, f: ColumnFilter | undefined, rowCondition?: string): string {
+  const conds = [...(rowCondition ? [rowCondition] : []), ...(f ? [filterCondition(q, f)] : [])];
+  return conds.length ? ` FILTER (WHERE ${conds.join(' AND ')})` : '';
 }
 
 export function filterCondition(q: QueryBuilder, f: ColumnFilter): string {

@@ -4,7 +4,7 @@
 // ratio metrics stay ratios of sums. Growth rates are worked out in `read`.
 import type { DatasetConfig } from '../../config/schema.js';
 import { isAdditive, metricByName, quantityKind } from '../catalog.js';
-import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
+import { type CompileContext, localDateExpr, periodScope, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import { dataEnd } from '../coverage.js';
 import type {
@@ -22,6 +22,7 @@ import { cagr, periodOverPeriod, relativeChange, senSlope, slopesByDecade, trail
 import type { Caveat, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
 import { maxIso, minIso } from './growth-compare.js';
 import type { Reading, Template } from './template.js';
+import { firstMatchingStart } from './series.js';
 
 // Working column names, prefixed so they cannot clash with a table's own columns.
 const DAY = '__tc_day';
@@ -39,10 +40,11 @@ export function compileGrowthSeries(sq: SubQuestion, ctx: CompileContext): Compi
   const year = q.ident(YEAR);
   const ytd = q.ident(YTD);
   const dateExpr = localDateExpr(q, ctx);
-  const where = whereClause(q, ctx, sq.window, sq.filters);
+  const scope = periodScope(q, ctx, sq.window, sq.filters);
+  const where = scope.where;
   // `where` serves both reads of the table below: each reads the window's dates only.
   q.readsDates(sq.window);
-  const measures = sq.metrics.map((name) => `  ${measureSql(q, ctx, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
+  const measures = sq.metrics.map((name) => `  ${scope.measure(metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
   // Month*100 + day compares calendar positions across years: 29 February is only ever matched
   // in leap years, and a cut-off of 29 February counts the prior year to 28 February.
   const mmdd = (e: string) => `(EXTRACT(MONTH FROM ${e}) * 100 + EXTRACT(DAY FROM ${e}))`;
@@ -69,7 +71,7 @@ SELECT GROUPING(${period}) AS g_period,
   ${ytd} AS ytd,
   MAX(${last}) AS through,
 ${measures.join(',\n')},
-  ${d.toDouble(rowCountSql(q, ctx))} AS row_count
+  ${d.toDouble(scope.rowCount())} AS row_count
 FROM tagged
 GROUP BY GROUPING SETS ((${period}), (${year}), (${year}, ${ytd}))
 ORDER BY 1, 2, 4, 3`);
@@ -116,8 +118,10 @@ export function readGrowthSeries(
   if (coverage.firstDate === null || coverage.lastDate === null || rows.periods.size === 0) {
     return { findings: [], caveats: [...caveats, { code: 'no_data', data: { start: sq.window.start, end: sq.window.end } }] };
   }
-  const effectiveStart = maxIso(sq.window.start, coverage.firstDate);
   const effectiveEnd = minIso(sq.window.end, dataEnd({ ...coverage, lastDate: coverage.lastDate }));
+  const matched = firstMatchingStart(sq.grain, maxIso(sq.window.start, coverage.firstDate), effectiveEnd, (p) => rows.periods.get(p));
+  if (matched.caveat) caveats.push(matched.caveat);
+  const effectiveStart = matched.start;
   if (effectiveStart >= effectiveEnd) {
     return { findings: [], caveats: [...caveats, { code: 'no_data', data: { start: sq.window.start, end: sq.window.end } }] };
   }

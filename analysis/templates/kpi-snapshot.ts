@@ -3,7 +3,7 @@
 // only those periods.
 import type { Coverage } from '../coverage.js';
 import { metricByName, metricDirection } from '../catalog.js';
-import { measureSql, rowCountSql, tableRef } from '../compile-context.js';
+import { tableRef } from '../compile-context.js';
 import type { KpiSnapshotFinding } from '../findings/kpi.js';
 import { nextPeriod } from '../periods.js';
 import { QueryBuilder } from '../sql/query-builder.js';
@@ -11,20 +11,20 @@ import type { Caveat, CompiledQuery, Finding, ResultTable, SubQuestion } from '.
 import type { DatasetConfig } from '../../config/schema.js';
 import { baseIsZero, kpiDelta } from './kpi-delta.js';
 import { comparisonPeriods, coveredInFull, type KpiCompileContext, latestCandidates, periodsToRead, resolvedLatest } from './kpi-periods.js';
-import { EMPTY_TABLE, numberOrNull, periodExpr, periodsWhere } from './kpi-sql.js';
+import { EMPTY_TABLE, numberOrNull, periodExpr, periodsScope } from './kpi-sql.js';
 import type { Reading, Template } from './template.js';
 
 export function compileKpiSnapshot(sq: SubQuestion, ctx: KpiCompileContext): CompiledQuery {
   const q = new QueryBuilder(ctx.dialect);
   const periods = periodsToRead(latestCandidates(sq.window, sq.grain, ctx.coverage), sq.grain);
-  const measures = sq.metrics.map((name) => `  ${measureSql(q, ctx, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
+  const scope = periodsScope(q, ctx, periods, sq.grain, sq.filters);
+  const measures = sq.metrics.map((name) => `  ${scope.measure(metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
   const period = periodExpr(q, ctx, sq.grain);
-  const where = periodsWhere(q, ctx, periods, sq.grain, sq.filters);
   return q.finish(`SELECT ${period} AS period,
 ${measures.join(',\n')},
-  ${ctx.dialect.toDouble(rowCountSql(q, ctx))} AS row_count
+  ${ctx.dialect.toDouble(scope.rowCount())} AS row_count
 FROM ${tableRef(q, ctx)}
-WHERE ${where}
+WHERE ${scope.where}
 GROUP BY 1
 ORDER BY 1`);
 }

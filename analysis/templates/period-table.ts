@@ -5,7 +5,7 @@
 // ratio stays a ratio of sums; the changes, marks and cross-metric findings are worked out in `read`.
 import type { DatasetConfig, Metric, MetricKind } from '../../config/schema.js';
 import { metricByName, metricKind, metricDirection } from '../catalog.js';
-import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
+import { type CompileContext, localDateExpr, periodScope, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type {
   ChangeBasis,
@@ -84,7 +84,8 @@ export function compilePeriodTable(sq: SubQuestion, ctx: CompileContext): Compil
   const inWindow = q.ident(IN_WINDOW);
   const span = { start: lookbackStart(sq.window, sq.grain), end: sq.window.end };
   const date = () => localDateExpr(q, ctx);
-  const measures = sq.metrics.map((name) => `  ${measureSql(q, ctx, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
+  const scope = periodScope(q, ctx, span, sq.filters);
+  const measures = sq.metrics.map((name) => `  ${scope.measure(metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
   // Three groupings of the same rows: each whole period (the bases of the changes), each period's
   // part inside the window (what a row shows: a window starting mid-month shows only its own days
   // of that month), and the window as a whole (the totals row).
@@ -93,13 +94,13 @@ export function compilePeriodTable(sq: SubQuestion, ctx: CompileContext): Compil
   ${period} AS period,
   ${inWindow} AS in_window,
 ${measures.join(',\n')},
-  ${d.toDouble(rowCountSql(q, ctx))} AS row_count
+  ${d.toDouble(scope.rowCount())} AS row_count
 FROM (
   SELECT *,
     ${d.periodStart(sq.grain, date())} AS ${period},
     ${date()} >= ${d.dateParam(q.bind(sq.window.start))} AS ${inWindow}
   FROM ${tableRef(q, ctx)}
-  WHERE ${whereClause(q, ctx, span, sq.filters)}
+  WHERE ${scope.where}
 ) AS tagged
 GROUP BY GROUPING SETS ((${period}), (${period}, ${inWindow}), (${inWindow}))
 ORDER BY 1, 2, 3, 4`);

@@ -3,7 +3,7 @@
 // still sends only N + 1 rows (per period) to Node.
 import type { Metric } from '../../config/schema.js';
 import { CatalogError, groupableDimension, isAdditive, metricByName } from '../catalog.js';
-import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
+import { type CompileContext, localDateExpr, measureSql, periodScope, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { CompiledQuery, Grain, SubQuestion } from '../types.js';
 import { complementaryFoldCtes, minGroupSize } from './small-groups.js';
@@ -61,6 +61,9 @@ export function compileFoldedSegments(sq: SubQuestion, ctx: CompileContext, opts
   const min = minGroupSize(ctx.dataset);
   const minP = min === null ? null : q.bind(min);
 
+  // The segments are those with matching rows in the window; each one's periods are read with the
+  // filters inside the aggregates, so a period where it has rows but none that match is a 0.
+  const outerScope = periodScope(q, ctx, sq.window, sq.filters);
   const select: string[] = [];
   const group: string[] = [];
   if (opts.grain) {
@@ -74,8 +77,8 @@ export function compileFoldedSegments(sq: SubQuestion, ctx: CompileContext, opts
   select.push(
     `${d.toDouble('MIN(f.tc_rank)')} AS seg_rank`,
     `${d.toDouble('COUNT(DISTINCT f.tc_rank)')} AS members`,
-    `${measureSql(q, ctx, metric)} AS ${q.ident('value')}`,
-    `${d.toDouble(rowCountSql(q, ctx))} AS row_count`,
+    `${outerScope.measure(metric)} AS ${q.ident('value')}`,
+    `${d.toDouble(outerScope.rowCount())} AS row_count`,
   );
   if (minP) {
     select.push(
@@ -83,17 +86,16 @@ export function compileFoldedSegments(sq: SubQuestion, ctx: CompileContext, opts
       `${d.toDouble('COUNT(DISTINCT CASE WHEN f.tc_complement THEN f.tc_rank END)')} AS complement_members`,
     );
   }
-  if (opts.monthsWithRows) select.push(`${d.toDouble(`COUNT(DISTINCT ${d.periodStart('month', localDateExpr(q, ctx))})`)} AS months_with_rows`);
+  if (opts.monthsWithRows) select.push(`${d.toDouble(`COUNT(DISTINCT ${outerScope.onMatching(d.periodStart('month', localDateExpr(q, ctx)))})`)} AS months_with_rows`);
   if (opts.totals) {
     select.push(`${d.toDouble('MIN(f.tc_count)')} AS seg_count`, `MIN(f.tc_total) AS grand_total`, `MIN(f.tc_sum_squares) AS sum_squares`, `MIN(f.tc_min) AS min_segment_value`);
   }
-  const outerWhere = whereClause(q, ctx, sq.window, sq.filters);
   const order = opts.grain ? 'ORDER BY other, seg_rank, period' : 'ORDER BY other, seg_rank';
 
   const outer = `SELECT ${select.join(',\n  ')}
 FROM ${table}
 JOIN f ON ${col} IS NOT DISTINCT FROM f.tc_value
-WHERE ${outerWhere}
+WHERE ${outerScope.where}
 GROUP BY ${group.join(', ')}
 ${order}`;
   const segments = `tc_segments AS (

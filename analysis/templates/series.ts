@@ -1,7 +1,7 @@
 // Template "series": each metric at a time grain over the window. Answers the time-pattern
 // lens of a trend request (and feeds growth and snapshot templates later).
 import { metricByName } from '../catalog.js';
-import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
+import { type CompileContext, localDateExpr, periodScope, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import { dataEnd } from '../coverage.js';
 import { addDays, nextPeriod, periodsBetween } from '../periods.js';
@@ -14,13 +14,13 @@ export function compileSeries(sq: SubQuestion, ctx: CompileContext): CompiledQue
   const q = new QueryBuilder(ctx.dialect);
   const date = localDateExpr(q, ctx);
   const period = ctx.dialect.periodStart(sq.grain, date);
-  const measures = sq.metrics.map((name) => `  ${measureSql(q, ctx, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
-  const where = whereClause(q, ctx, sq.window, sq.filters);
+  const scope = periodScope(q, ctx, sq.window, sq.filters);
+  const measures = sq.metrics.map((name) => `  ${scope.measure(metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
   return q.finish(`SELECT ${period} AS period,
 ${measures.join(',\n')},
-  ${ctx.dialect.toDouble(rowCountSql(q, ctx))} AS row_count
+  ${ctx.dialect.toDouble(scope.rowCount())} AS row_count
 FROM ${tableRef(q, ctx)}
-WHERE ${where}
+WHERE ${scope.where}
 GROUP BY 1
 ORDER BY 1`);
 }
@@ -46,10 +46,12 @@ export function readSeries(sq: SubQuestion, table: ResultTable, coverage: Covera
   if (coverage.firstDate === null || coverage.lastDate === null || table.rows.length === 0) {
     return { findings: [], caveats: [...caveats, { code: 'no_data', data: { start: sq.window.start, end: sq.window.end } }] };
   }
-  const effectiveStart = maxIso(sq.window.start, coverage.firstDate);
-  const effectiveEnd = minIso(sq.window.end, dataEnd({ ...coverage, lastDate: coverage.lastDate }));
-  const starts = periodsBetween(effectiveStart, effectiveEnd, sq.grain);
   const byPeriod = new Map(table.rows.map((r) => [String(r.period), r]));
+  const effectiveEnd = minIso(sq.window.end, dataEnd({ ...coverage, lastDate: coverage.lastDate }));
+  const matched = firstMatchingStart(sq.grain, maxIso(sq.window.start, coverage.firstDate), effectiveEnd, (p) => byPeriod.get(p));
+  if (matched.caveat) caveats.push(matched.caveat);
+  const effectiveStart = matched.start;
+  const starts = periodsBetween(effectiveStart, effectiveEnd, sq.grain);
 
   const partialStarts = new Set<string>();
   const first = starts[0];
@@ -70,7 +72,11 @@ export function readSeries(sq: SubQuestion, table: ResultTable, coverage: Covera
     });
     findings.push({ type: 'series', metric, grain: sq.grain, points });
     caveats.push(...seriesOutliers(points, sq.grain).map((c) => ({ ...c, data: { ...c.data, metric } })));
-    const gaps = points.filter((p) => p.value === null && !p.partial);
+    // A period with rows but none that pass the filters (row count 0; periodScope keeps its row)
+    // is empty, not a hole in the data: additive metrics read 0 there, others have no value.
+    const empty = points.filter((p) => p.value === null && !p.partial && isEmptyPeriod(byPeriod.get(p.period)));
+    if (empty.length > 0) caveats.push({ code: 'empty_period', data: { metric, periods: empty.length, firstEmpty: empty[0]!.period, grain: sq.grain } });
+    const gaps = points.filter((p) => p.value === null && !p.partial && !empty.includes(p));
     if (gaps.length > 0 && gaps.length < points.length) {
       caveats.push({ code: 'series_gap', data: { metric, periods: gaps.length, firstGap: gaps[0]!.period } });
     }
@@ -93,6 +99,29 @@ export function readSeries(sq: SubQuestion, table: ResultTable, coverage: Covera
     findings.push({ type: 'latest', metric, period: latest.period, value: latest.value, partial: false });
   }
   return { findings, caveats };
+}
+
+/**
+ * Where a filtered series starts: before the first period with a matching row (a channel that
+ * opened after the data starts) it starts where the rows do, with a caveat that says so. A run
+ * of zeros there would make "the lowest month" a month before the thing existed, and a year it
+ * joined part-way a full base year for growth.
+ */
+export function firstMatchingStart(
+  grain: SubQuestion['grain'],
+  start: string,
+  end: string,
+  rowOf: (period: string) => Record<string, unknown> | undefined,
+): { start: string; caveat?: Caveat } {
+  const all = periodsBetween(start, end, grain);
+  const lead = all.findIndex((p) => !isEmptyPeriod(rowOf(p)));
+  if (lead <= 0) return { start };
+  return { start: all[lead]!, caveat: { code: 'empty_period', data: { leading: true, periods: lead, firstEmpty: maxIso(all[0]!, start), firstMatch: all[lead]!, grain } } };
+}
+
+/** A grouped row whose rows all failed the filters: it is there, with a row count of 0. */
+export function isEmptyPeriod(row: Record<string, unknown> | undefined): boolean {
+  return row !== undefined && row.row_count === 0;
 }
 
 function maxIso(a: string, b: string): string {

@@ -5,14 +5,13 @@
 // checked against the same sums computed here in plain JavaScript from the CSV.
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
-import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { datasetRelation } from '../../analysis/compile-context.js';
 import { metricAggregate } from '../../analysis/sql/metric-sql.js';
 import { QueryBuilder } from '../../analysis/sql/query-builder.js';
 import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
 import { parseConfigText, type LoadedConfig } from '../../config/load.js';
-import { loadSeattleWeather } from './stats/seattle-weather.js';
+import { loadSeattleWeather, loadSeattleWeatherTable } from './stats/seattle-weather.js';
 import { describeWithPostgres, dropSchema, onPostgres, uniqueName, withClient } from '../helpers/postgres.js';
 
 const csv = join(dirname(dirname(createRequire(import.meta.url).resolve('vega-datasets'))), 'data', 'seattle-weather.csv');
@@ -92,16 +91,7 @@ describeWithPostgres('expressions on PostgreSQL (table loaded from the CSV)', (a
   const schema = uniqueName('tc_expr');
   let ws: Workspace;
   beforeAll(async () => {
-    const lines = readFileSync(csv, 'utf8').trim().split('\n').slice(1);
-    await withClient(adminUrl, async (c) => {
-      await c.query(`CREATE SCHEMA "${schema}"`);
-      await c.query(`CREATE TABLE "${schema}".weather (date DATE, precipitation DOUBLE PRECISION, temp_max DOUBLE PRECISION, temp_min DOUBLE PRECISION, wind DOUBLE PRECISION, weather TEXT)`);
-      const values = lines.map((l) => l.split(','));
-      for (let i = 0; i < values.length; i += 500) {
-        const chunk = values.slice(i, i + 500);
-        await c.query(`INSERT INTO "${schema}".weather VALUES ${chunk.map((_, j) => `(${[1, 2, 3, 4, 5, 6].map((n) => `$${j * 6 + n}`).join(', ')})`).join(', ')}`, chunk.flat());
-      }
-    });
+    await withClient(adminUrl, (c) => loadSeattleWeatherTable(c, schema));
     ws = await openWorkspace(onPostgres(config, 'TC_EXPR_URL', schema), undefined, { TC_EXPR_URL: adminUrl });
   });
   afterAll(async () => {

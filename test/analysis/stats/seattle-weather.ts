@@ -54,3 +54,16 @@ export function monthly(days: readonly WeatherDay[]): { key: string; month: numb
     };
   });
 }
+
+/** The CSV's rows as a PostgreSQL table `"schema".weather` (same columns, loaded in chunks of bound values). */
+export async function loadSeattleWeatherTable(client: { query(sql: string, values?: unknown[]): Promise<unknown> }, schema: string): Promise<void> {
+  const root = dirname(dirname(require.resolve('vega-datasets')));
+  const lines = readFileSync(join(root, 'data', 'seattle-weather.csv'), 'utf8').trim().split('\n').slice(1);
+  await client.query(`CREATE SCHEMA "${schema}"`);
+  await client.query(`CREATE TABLE "${schema}".weather (date DATE, precipitation DOUBLE PRECISION, temp_max DOUBLE PRECISION, temp_min DOUBLE PRECISION, wind DOUBLE PRECISION, weather TEXT)`);
+  const values = lines.map((l) => l.split(','));
+  for (let i = 0; i < values.length; i += 500) {
+    const chunk = values.slice(i, i + 500);
+    await client.query(`INSERT INTO "${schema}".weather VALUES ${chunk.map((_, j) => `(${[1, 2, 3, 4, 5, 6].map((n) => `$${j * 6 + n}`).join(', ')})`).join(', ')}`, chunk.flat());
+  }
+}

@@ -1,0 +1,157 @@
+// A filtered count's empty period is 0, not a gap. Checked on vega-datasets' seattle-weather.csv
+// (public daily weather record, 2012–2015, one row a day): filtered to rain, July 2013 has no rain
+// day at all, so its count is 0 and it is the lowest month; filtered to snow, most months have no
+// snow day, so snow precipitation there is 0 while snow days' average temp_max has no value (and is
+// said to be empty). Expected numbers come from the CSV read here in plain JavaScript
+// (test/analysis/stats/seattle-weather.ts), never from the project's SQL. Each check runs through
+// the real compile path on DuckDB (the CSV file) and PostgreSQL (a table loaded from it), both
+// straight from the table and through the day-level rollup.
+import { createRequire } from 'node:module';
+import { dirname, join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { answerSubQuestion } from '../../analysis/answer-sub-question.js';
+import { openRunScope } from '../../analysis/run-scope.js';
+import type { Answer, PeriodPoint, SubQuestion } from '../../analysis/types.js';
+import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
+import { parseConfigText, type LoadedConfig } from '../../config/load.js';
+import { describeWithPostgres, dropSchema, onPostgres, uniqueName, withClient } from '../helpers/postgres.js';
+import { loadSeattleWeather, loadSeattleWeatherTable } from './stats/seattle-weather.js';
+
+const csv = join(dirname(dirname(createRequire(import.meta.url).resolve('vega-datasets'))), 'data', 'seattle-weather.csv');
+
+const config: LoadedConfig = parseConfigText(
+  `version: 1
+datasets:
+  - name: weather
+    label: Seattle weather
+    source: { kind: csv, path: "${csv}" }
+    table: weather
+    time_column: date
+    timezone: UTC
+    metrics:
+      - { name: days, label: Days, count: rows, unit: count, higher_is_better: true }
+      - { name: precipitation, label: Precipitation, sum: precipitation, unit: number, higher_is_better: true }
+      - { name: temp_max, label: Temp max, average: temp_max, unit: number, higher_is_better: true, kind: level }
+    dimensions:
+      - { name: weather, label: Weather, column: weather }
+`,
+  '/virtual/weather.yaml',
+);
+
+const WINDOW = { start: '2012-01-01', end: '2016-01-01' };
+const question = (template: 'series' | 'period_table' | 'growth_series', metrics: string[], weather: string): SubQuestion => ({
+  id: `${template}-${weather}`,
+  kind: 'trend',
+  lens: 'time_pattern',
+  template,
+  metrics,
+  grain: 'month',
+  window: WINDOW,
+  filters: [{ dimension: 'weather', values: [weather] }],
+});
+
+/** Per calendar month of the file: days, precipitation and temp_max sum over the days with this weather. */
+function fromCsv(weather: string): Map<string, { days: number; precipitation: number; tempMaxSum: number }> {
+  const out = new Map<string, { days: number; precipitation: number; tempMaxSum: number }>();
+  // Every month of the file is a key, with or without a matching day: the file has a row for every day.
+  for (const d of loadSeattleWeather()) {
+    const key = `${d.date.slice(0, 7)}-01`;
+    const m = out.get(key) ?? { days: 0, precipitation: 0, tempMaxSum: 0 };
+    if (d.weather === weather) {
+      m.days++;
+      m.precipitation += d.precipitation;
+      m.tempMaxSum += d.tempMax;
+    }
+    out.set(key, m);
+  }
+  return out;
+}
+
+function seriesPoints(a: Answer, metric: string): PeriodPoint[] {
+  const f = a.findings.find((x) => x.type === 'series' && x.metric === metric);
+  if (!f || f.type !== 'series') throw new Error(`no series of ${metric}`);
+  return f.points;
+}
+
+function checks(open: () => Promise<Workspace>): void {
+  let ws: Workspace;
+  beforeAll(async () => {
+    ws = await open();
+  });
+  afterAll(async () => ws?.source.close());
+
+  for (const path of ['table', 'rollup'] as const) {
+    const answer = (sq: SubQuestion) => answerSubQuestion(sq, ws, path === 'table' ? { scope: openRunScope([sq], ws, { readTable: true }) } : {});
+
+    it(`rain days by month: July 2013 is 0 and the lowest month (${path})`, async () => {
+      const want = fromCsv('rain');
+      expect(want.get('2013-07-01')!.days).toBe(0); // the CSV itself: no day of July 2013 is "rain"
+      const a = await answer(question('series', ['days'], 'rain'));
+      const points = seriesPoints(a, 'days');
+      expect(points.map((p) => p.period)).toEqual([...want.keys()].sort());
+      for (const p of points) expect(p.value).toBe(want.get(p.period)!.days);
+      const trough = a.findings.find((f) => f.type === 'trough');
+      expect(trough).toMatchObject({ period: '2013-07-01', value: 0 });
+      expect(a.caveats.map((c) => c.code)).not.toContain('series_gap');
+    });
+
+    it(`snow: precipitation is 0 in a month without snow, the average is empty and said so (${path})`, async () => {
+      const want = fromCsv('snow');
+      const a = await answer(question('series', ['precipitation', 'temp_max'], 'snow'));
+      const emptyMonths = [...want].filter(([, m]) => m.days === 0).map(([k]) => k);
+      expect(emptyMonths.length).toBeGreaterThan(30);
+      for (const p of seriesPoints(a, 'precipitation')) expect(p.value).toBeCloseTo(want.get(p.period)!.precipitation, 9);
+      for (const p of seriesPoints(a, 'temp_max')) {
+        const m = want.get(p.period)!;
+        if (m.days === 0) expect(p.value).toBeNull();
+        else expect(p.value).toBeCloseTo(m.tempMaxSum / m.days, 9);
+      }
+      const empty = a.caveats.find((c) => c.code === 'empty_period' && c.data.metric === 'temp_max');
+      expect(empty?.data).toMatchObject({ periods: emptyMonths.length, firstEmpty: emptyMonths[0] });
+      expect(a.caveats.some((c) => c.code === 'empty_period' && c.data.metric === 'precipitation')).toBe(false);
+      expect(a.caveats.map((c) => c.code)).not.toContain('series_gap');
+    });
+
+    it(`fog first appears in July 2012: the series starts there, and 2012 is no base year for growth (${path})`, async () => {
+      const want = fromCsv('fog');
+      const firstFog = [...want].find(([, m]) => m.days > 0)![0];
+      expect(firstFog).toBe('2012-07-01'); // the CSV itself: the first "fog" day is 11 July 2012
+      const a = await answer(question('series', ['days'], 'fog'));
+      const points = seriesPoints(a, 'days');
+      expect(points[0]!.period).toBe(firstFog);
+      for (const p of points) expect(p.value).toBe(want.get(p.period)!.days);
+      expect(a.caveats.find((c) => c.code === 'empty_period')?.data).toMatchObject({ leading: true, periods: 6, firstEmpty: '2012-01-01', firstMatch: firstFog });
+      expect(a.findings.find((f) => f.type === 'trough')).toMatchObject({ value: Math.min(...points.map((p) => p.value!)) });
+
+      const g = await answer(question('growth_series', ['days'], 'fog'));
+      const years = g.findings.find((f) => f.type === 'growth_years');
+      if (years?.type !== 'growth_years') throw new Error('no growth_years');
+      const year = (y: string) => years.years.find((x) => x.year === `${y}-01-01`)!;
+      const total = (y: string) => [...want].filter(([k]) => k.startsWith(y)).reduce((n, [, m]) => n + m.days, 0);
+      expect(year('2012').complete).toBe(false);
+      expect(year('2013').yoy).toBeNull();
+      expect(year('2014').yoy).toBeCloseTo(total('2014') / total('2013') - 1, 12);
+    });
+
+    it(`period table of rain days keeps July 2013 as a 0 row (${path})`, async () => {
+      const want = fromCsv('rain');
+      const a = await answer(question('period_table', ['days'], 'rain'));
+      const whole = (a.tables.by_period?.rows ?? []).filter((r) => r.g_period === 0 && r.g_window === 1);
+      const byPeriod = new Map(whole.map((r) => [String(r.period).slice(0, 10), r.days]));
+      for (const [k, m] of want) expect(byPeriod.get(k)).toBe(m.days);
+    });
+  }
+}
+
+describe('filtered months with no matching rows on DuckDB (CSV file)', () => {
+  checks(() => openWorkspace(config));
+});
+
+describeWithPostgres('filtered months with no matching rows on PostgreSQL (table loaded from the CSV)', (adminUrl) => {
+  const schema = uniqueName('tc_empty');
+  checks(async () => {
+    await withClient(adminUrl, (c) => loadSeattleWeatherTable(c, schema));
+    return openWorkspace(onPostgres(config, 'TC_EMPTY_URL', schema), undefined, { TC_EMPTY_URL: adminUrl });
+  });
+  afterAll(async () => dropSchema(adminUrl, schema));
+});
