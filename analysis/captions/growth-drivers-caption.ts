@@ -58,6 +58,10 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
   } else {
     const detail = named.map((s) => {
       const parts = [money(s.change, true)];
+      // A segment not there through both spans has no like-for-like rate: its percentage
+      // (+1,210% for a channel that opened part-way through the base) would read as growth.
+      const changed = lfl?.excluded.find((c) => c.segment === s.segment);
+      if (changed) return `${name(s)} ${parts[0]} (${notThroughBoth(changed, f, locale)})`;
       if (s.relative !== null) parts.push(formatChange(s.relative, locale));
       if (audience === 'analysts' && s.contribution !== null) parts.push(`${formatPoints(s.contribution, locale)} of the total's ${formatChange(total.relative, locale)}`);
       else if (audience === 'managers' && s.shareOfChange !== null && s.shareOfChange > 0 && s.shareOfChange <= 1) {
@@ -87,6 +91,20 @@ function totalVerb(relative: number, locale: string): string {
     default:
       return 'held flat';
   }
+}
+
+/**
+ * Why a segment has no like-for-like rate: "opened in September 2022, part-way through 2022, so
+ * it has no like-for-like rate", "new in March 2024: not in the base, 2023".
+ */
+function notThroughBoth(s: ChangedSegment, f: GrowthDriversFinding, locale: string): string {
+  const month = (iso: string | null) => (iso === null ? '' : formatPeriod(iso, 'month', locale, 'long'));
+  const rate = 'so it has no like-for-like rate';
+  if (s.opened && s.firstDay !== null && s.firstDay >= f.current.start) return `new in ${month(s.firstDay)}: not in the base, ${spanText(f.prior, locale)}`;
+  if (s.closed && s.lastDay !== null && s.lastDay < f.current.start) return `last there in ${month(s.lastDay)}: gone before ${spanText(f.current, locale)}`;
+  if (s.opened && !s.closed) return `opened in ${month(s.firstDay)}, part-way through ${spanText(f.prior, locale)}, ${rate}`;
+  if (s.closed && !s.opened) return `last there in ${month(s.lastDay)}, part-way through ${spanText(f.current, locale)}, ${rate}`;
+  return `there only from ${month(s.firstDay)} to ${month(s.lastDay)}, ${rate}`;
 }
 
 /** "Like for like, leaving out what was not there through both spans (kiosk, opened on 1 June 2023), revenue fell 2.1%: €2.19M to €2.14M." */

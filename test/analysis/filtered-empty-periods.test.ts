@@ -6,37 +6,15 @@
 // (test/analysis/stats/seattle-weather.ts), never from the project's SQL. Each check runs through
 // the real compile path on DuckDB (the CSV file) and PostgreSQL (a table loaded from it), both
 // straight from the table and through the day-level rollup.
-import { createRequire } from 'node:module';
-import { dirname, join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../analysis/answer-sub-question.js';
 import { openRunScope } from '../../analysis/run-scope.js';
 import type { Answer, PeriodPoint, SubQuestion } from '../../analysis/types.js';
 import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
-import { parseConfigText, type LoadedConfig } from '../../config/load.js';
 import { describeWithPostgres, dropSchema, onPostgres, uniqueName, withClient } from '../helpers/postgres.js';
-import { loadSeattleWeather, loadSeattleWeatherTable } from './stats/seattle-weather.js';
+import { loadSeattleWeather, loadSeattleWeatherTable, seattleWeatherConfig } from './stats/seattle-weather.js';
 
-const csv = join(dirname(dirname(createRequire(import.meta.url).resolve('vega-datasets'))), 'data', 'seattle-weather.csv');
-
-const config: LoadedConfig = parseConfigText(
-  `version: 1
-datasets:
-  - name: weather
-    label: Seattle weather
-    source: { kind: csv, path: "${csv}" }
-    table: weather
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: days, label: Days, count: rows, unit: count, higher_is_better: true }
-      - { name: precipitation, label: Precipitation, sum: precipitation, unit: number, higher_is_better: true }
-      - { name: temp_max, label: Temp max, average: temp_max, unit: number, higher_is_better: true, kind: level }
-    dimensions:
-      - { name: weather, label: Weather, column: weather }
-`,
-  '/virtual/weather.yaml',
-);
+const config = seattleWeatherConfig();
 
 const WINDOW = { start: '2012-01-01', end: '2016-01-01' };
 const question = (template: 'series' | 'period_table' | 'growth_series', metrics: string[], weather: string): SubQuestion => ({

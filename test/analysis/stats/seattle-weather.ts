@@ -2,6 +2,7 @@
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
+import { parseConfigText, type LoadedConfig } from '../../../config/load.js';
 
 export interface WeatherDay {
   date: string;
@@ -66,4 +67,27 @@ export async function loadSeattleWeatherTable(client: { query(sql: string, value
     const chunk = values.slice(i, i + 500);
     await client.query(`INSERT INTO "${schema}".weather VALUES ${chunk.map((_, j) => `(${[1, 2, 3, 4, 5, 6].map((n) => `$${j * 6 + n}`).join(', ')})`).join(', ')}`, chunk.flat());
   }
+}
+
+/** A catalog over the CSV file: a count of days, precipitation (a sum), temp_max (an average) and the weather as a dimension. */
+export function seattleWeatherConfig(): LoadedConfig {
+  const csv = join(dirname(dirname(require.resolve('vega-datasets'))), 'data', 'seattle-weather.csv');
+  return parseConfigText(
+    `version: 1
+datasets:
+  - name: weather
+    label: Seattle weather
+    source: { kind: csv, path: "${csv}" }
+    table: weather
+    time_column: date
+    timezone: UTC
+    metrics:
+      - { name: days, label: Days, count: rows, unit: count, higher_is_better: true }
+      - { name: precipitation, label: Precipitation, sum: precipitation, unit: number, higher_is_better: true }
+      - { name: temp_max, label: Temp max, average: temp_max, unit: number, higher_is_better: true, kind: level }
+    dimensions:
+      - { name: weather, label: Weather, column: weather }
+`,
+    '/virtual/weather.yaml',
+  );
 }
