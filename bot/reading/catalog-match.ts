@@ -6,7 +6,7 @@
 import damerauLevenshtein from 'damerau-levenshtein';
 import { distance } from 'fastest-levenshtein';
 import type { DatasetConfig } from '../../config/schema.js';
-import { BUSINESS_NOUNS, ORDINARY, STOPWORDS } from './lexicon.js';
+import { BUSINESS_NOUNS, GRAIN_WORDS, MONTH_PATTERN, ORDINARY, STOPWORDS, WEEKDAY_PATTERN } from './lexicon.js';
 import { phraseWords, type RequestText, type Span, type Word } from './text.js';
 import type { ValueIndex } from '../../analysis/values/value-index.js';
 
@@ -43,6 +43,8 @@ interface Prepared {
 
 export interface PreparedCatalog {
   dataset: DatasetConfig;
+  /** Each breakdown's own words (of its name, label and other names): "wildlife" for "Wildlife size". */
+  dimensionWords: Map<string, Set<string>>;
   /** Phrases by their number of words, longest first. */
   byLength: Map<number, Map<string, Prepared>>;
   lengths: number[];
@@ -99,7 +101,10 @@ export function prepareCatalog(ds: DatasetConfig, values?: ValueIndex): Prepared
     if (!p.entries.some((x) => x.kind === e.kind && x.name === e.name && x.value === e.value)) p.entries.push(e);
     bucket.set(target, p);
   }
-  const prepared = { dataset: ds, byLength, lengths: [...byLength.keys()].sort((a, b) => b - a), entries };
+  const dimensionWords = new Map(
+    ds.dimensions.map((d) => [d.name, new Set([d.name.replaceAll('_', ' '), d.label, ...d.synonyms].flatMap((n) => phraseWords(n)).filter((w) => !STOPWORDS.has(w) && w.length > 2).map(stem))]),
+  );
+  const prepared = { dataset: ds, dimensionWords, byLength, lengths: [...byLength.keys()].sort((a, b) => b - a), entries };
   perDataset.set(key, prepared);
   return prepared;
 }
@@ -197,7 +202,67 @@ export function findCatalogHits(text: RequestText, catalog: PreparedCatalog, opt
       }
     }
   }
-  return hits.sort((a, b) => a.start - b.start);
+  return hits.flatMap((h) => valuesWithEvidence(h, hits, text, catalog)).sort((a, b) => a.start - b.start);
+}
+
+// Words that name a period or a grain: in lower case they are nearly always the calendar's ("day
+// to day", "by day"), whatever the data's values.
+const PERIOD_NOUN = new RegExp(`^(?:${Object.values(GRAIN_WORDS).flatMap((w) => [w.noun, w.plural]).join('|')}|today|tonight)$`);
+// Names of months and weekdays ("may", "march", "sat"): everyday words when the data writes them otherwise.
+const CALENDAR_NAME = new RegExp(`^(?:${MONTH_PATTERN}|${WEEKDAY_PATTERN})$`);
+
+/** How the data writes the words a hit matched: the value, or its word the part is ("large" of "Unknown bird - large"). */
+function dataForm(e: CatalogEntry, norm: string): string {
+  if (!e.partial) return e.value ?? e.phrase;
+  return (e.value ?? '').split(/[^\p{L}\p{N}]+/u).find((w) => w.toLowerCase() === norm) ?? e.phrase;
+}
+
+/** A one-word value hit written in lower case as an everyday or calendar word the data writes otherwise. */
+function wantsEvidence(h: CatalogHit, e: CatalogEntry): boolean {
+  if (h.words.length !== 1 || e.kind !== 'value') return false;
+  const w = h.words[0]!;
+  const lower = w.raw === w.raw.toLowerCase();
+  if (PERIOD_NOUN.test(w.norm)) return lower || dataForm(e, w.norm) !== w.raw;
+  return (!!e.weak || CALENDAR_NAME.test(w.norm)) && lower && dataForm(e, w.norm) !== w.raw;
+}
+
+/**
+ * A value that is also an everyday word ("day", "large", "may") written in lower case when the
+ * data writes it otherwise ("DAY" the airport code, "Large" the wildlife size), or a period noun in
+ * lower case ("day", "week"), is the word's ordinary sense unless something says it is the data's: its
+ * breakdown's own word beside it ("destination airport day", "large wildlife" for Wildlife size),
+ * quotes around it, or another value of its breakdown set against it ("Night vs day"). Such entries
+ * are dropped from the hit (and the hit with them when none is left), so its words stay free for
+ * the calendar ("by day") and the rest of the reader. A whole value left in the hit beats parts of
+ * longer values ("large" is Wildlife size Large, not "Unknown bird - large").
+ */
+function valuesWithEvidence(h: CatalogHit, hits: readonly CatalogHit[], text: RequestText, catalog: PreparedCatalog): CatalogHit[] {
+  const values = h.entries.filter((e) => e.kind === 'value');
+  if (values.length === 0) return [h];
+  const quoted = /["'“‘`]\s*$/.test(text.original.slice(Math.max(0, h.start - 2), h.start)) && /^\s*["'”’`]/.test(text.original.slice(h.end, h.end + 2));
+  const at = h.words[0]!.index;
+  const near = (k: number) => text.words[k];
+  // Its breakdown's word within one word either side ("large wildlife", "medium sized birds", "airport day").
+  const ownWordBeside = (dim: string) => {
+    const own = catalog.dimensionWords.get(dim);
+    if (!own) return false;
+    for (const k of [at - 2, at - 1, at + h.words.length, at + h.words.length + 1]) {
+      const w = near(k);
+      if (!w || !own.has(stem(w.norm))) continue;
+      const between = k < at ? text.lower.slice(w.end, h.start) : text.lower.slice(h.end, w.start);
+      if (/[.;!?,]/.test(between)) continue;
+      return true;
+    }
+    return false;
+  };
+  // Another value of its breakdown set against it: "Night vs day", "day or night".
+  const setAgainst = (dim: string) =>
+    hits.some((o) => o !== h && o.entries.some((x) => x.kind === 'value' && x.name === dim && !wantsEvidence(o, x)) && /^\s*(?:vs\.?|versus|v|or|and|than|against|compared\s+(?:to|with)|&|\/)\s*$/.test(o.end <= h.start ? text.lower.slice(o.end, h.start) : text.lower.slice(h.end, o.start)));
+  // An entry kept on evidence is no longer a weak one: the words around it have said what it is.
+  let kept = h.entries.flatMap((e) => (!wantsEvidence(h, e) ? [e] : quoted || ownWordBeside(e.name) || setAgainst(e.name) ? [{ ...e, weak: false }] : []));
+  if (kept.some((e) => e.kind === 'value' && !e.partial)) kept = kept.filter((e) => !(e.kind === 'value' && e.partial));
+  if (kept.length === 0) return [];
+  return [{ ...h, entries: kept }];
 }
 
 /** A long word of the same family as a one-word name: "satisfied" and "satisfaction", "cancelled" and "cancellations". */
