@@ -13,11 +13,12 @@ RUN npm run build
 
 FROM node:20-bookworm-slim AS runtime
 ENV NODE_ENV=production
-# glibc gives each thread that allocates (DuckDB's workers, libuv's pool) an arena of its own, up to
-# 8 per core, and keeps what each arena once held: a long-running serve's resident memory crept up
-# run after run with no growth in the JavaScript heap or in DuckDB's own accounts. Two arenas keep
-# it flat (bench:chat-memory, BENCHMARKS.md); common practice for long-running glibc services.
+# glibc's allocator, set before start (glibc reads it only then; the list and why: cli/allocator.ts).
+# Without it a long-running serve's resident memory crept up run after run with no growth in the
+# JavaScript heap or in DuckDB's own accounts (bench:chat-memory, BENCHMARKS.md).
 ENV MALLOC_ARENA_MAX=2
+ENV MALLOC_MMAP_THRESHOLD_=131072
+ENV MALLOC_TRIM_THRESHOLD_=131072
 WORKDIR /app
 COPY package.json package-lock.json ./
 RUN npm ci --omit=dev --no-audit --no-fund && npm cache clean --force

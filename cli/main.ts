@@ -18,6 +18,7 @@ import { auditLines, AuditUsageError, normaliseSince, readAudit } from './audit.
 import type { AuditEntry, AuditFilter } from '../bot/thread-state.js';
 import { StateFileError } from '../bot/stores/state-file-check.js';
 import { backupState, checkState, restoreState, StateUsageError } from './state-file.js';
+import { allocatorNote, runsOnGlibc } from './allocator.js';
 
 export const DEMO_REQUEST =
   'Ops review is on the 15th. How has revenue moved over time, month by month? We want to see the busiest and quietest months.';
@@ -206,6 +207,7 @@ async function serveCommand(rest: string[]): Promise<number> {
   const environment = loadEnvironment();
   const configFile = resolve(v.config);
   const statePath = resolve(v.state ?? defaultStatePath(configFile));
+  noteAllocator();
   await serveUntilSignal({ configFile, statePath, environment }, announce);
   return 0;
 }
@@ -288,8 +290,15 @@ async function startCommand(rest: string[]): Promise<number> {
     process.stdout.write('Generating the Skerrywake Ferries demo data (once)...\n');
     await generateDemo({ outDir: demoDir });
   }
+  noteAllocator();
   await serveUntilSignal({ configFile: join(demoDir, DEMO_CONFIG_FILE), statePath: join(base, 'threadcount-state.duckdb'), environment }, announce);
   return 0;
+}
+
+/** A long-running serve without glibc's allocator settings is told which to set (they apply only from the start). */
+function noteAllocator(): void {
+  const note = allocatorNote(process.env, runsOnGlibc());
+  if (note) process.stderr.write(`${note}\n`);
 }
 
 function announce(serving: Serving): void {

@@ -9,6 +9,7 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { LocalMessage } from '../../adapters/local-channel/local-thread-log.js';
 import { generateDemo } from '../../config/demo/generate-demo.js';
+import { SERVE_ALLOCATOR_ENV } from '../../cli/allocator.js';
 import { buildCli, runCli, startReplica, type Replica } from './replica-process.js';
 
 const TOKEN = 'docker-style-token-0123456789abcdef';
@@ -51,6 +52,19 @@ describe('serve refuses to start where it would be unsafe or lose data', () => {
     expect(refused.stderr).toMatch(/THREADCOUNT_ACCESS_TOKEN/);
     expect(refused.stderr).toMatch(/THREADCOUNT_HOST=0\.0\.0\.0/);
     expect(refused.stdout).not.toMatch(/Local channel:/);
+    // The image sets glibc's allocator before start (cli/allocator.ts), so serve has nothing to say of it;
+    // started without those settings, it names each one to set.
+    for (const [name, value] of Object.entries(SERVE_ALLOCATOR_ENV)) expect(imageEnv[name]).toBe(value);
+    expect(refused.stderr).not.toMatch(/MALLOC_/);
+    const { MALLOC_ARENA_MAX: _a, MALLOC_MMAP_THRESHOLD_: _m, MALLOC_TRIM_THRESHOLD_: _t, ...withoutAllocator } = imageEnv;
+    // runCli passes this process's environment on: none of the settings may come from there either.
+    const inherited = Object.keys(SERVE_ALLOCATOR_ENV).map((name) => [name, process.env[name]] as const);
+    for (const [name] of inherited) delete process.env[name];
+    const bare = await runCli(build.dir, ['serve', '--config', configPath, '--state', state], withoutAllocator).finally(() => {
+      for (const [name, value] of inherited) if (value !== undefined) process.env[name] = value;
+    });
+    expect(bare.code).toBe(2);
+    expect(bare.stderr).toMatch(/MALLOC_ARENA_MAX=2 MALLOC_MMAP_THRESHOLD_=131072 MALLOC_TRIM_THRESHOLD_=131072/);
 
     const r = await start({ THREADCOUNT_HOST: '0.0.0.0', THREADCOUNT_ACCESS_TOKEN: TOKEN }, ['--state', state]);
     const without = await fetch(`${r.url}/api/threads`);
