@@ -22,6 +22,12 @@ export interface FormatOptions {
   compact?: boolean;
   /** Always show the sign: "+€12.3K", "−€612". */
   signed?: boolean;
+  /**
+   * A rate of the metric (per day, per unit), not a total: a count's "1.4 a day" must not read
+   * "1", so below 100 it keeps three significant figures ("0.347", "1.43", "12.3"); from 100 whole
+   * units ("11,999 a day"). A metric's own decimals still win; money keeps its own form.
+   */
+  rate?: boolean;
 }
 
 const NOT_AVAILABLE = 'n/a';
@@ -118,6 +124,9 @@ function numberOptions(value: number, fmt: ValueFormat, opts: FormatOptions): In
       return { ...sign, ...style, minimumFractionDigits: decimals, maximumFractionDigits: decimals };
     }
     return { ...sign, ...style, notation: 'compact', maximumSignificantDigits: 3 };
+  }
+  if (opts.rate && decimals === undefined && !currency) {
+    return Math.abs(value) >= 100 ? { ...sign, ...style, maximumFractionDigits: 0 } : { ...sign, ...style, maximumSignificantDigits: 3 };
   }
   let d: { min: number; max: number };
   if (decimals !== undefined) d = { min: decimals, max: decimals };

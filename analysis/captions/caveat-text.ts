@@ -21,7 +21,7 @@ export function caveatNote(c: Caveat, locale: string): string {
     case 'partial_period_excluded':
       return `${period(d.period, d.grain)} is partial and was left out.`;
     case 'series_gap':
-      return `${show(d.periods)} period(s) have no data at all, the first in ${period(d.firstGap, 'month')}.`;
+      return `${periodsText(d.periods, d.grain)} ${d.periods === 1 ? 'has' : 'have'} no data at all${d.periods === 1 ? ':' : ', the first in'} ${period(d.firstGap, d.grain ?? 'month')}.`;
     case 'empty_period': {
       const grain = (typeof d.grain === 'string' ? d.grain : 'month') as Grain;
       const n = typeof d.periods === 'number' ? d.periods : 0;
@@ -64,7 +64,7 @@ export function caveatNote(c: Caveat, locale: string): string {
     case 'segments_folded':
       return typeof d.count === 'number' ? `${countOf(d.count, 'smaller segment')} ${isAre(d.count)} combined as "All others".` : 'Smaller segments are combined as "All others".';
     case 'segment_gap':
-      return `${show(d.segment)} has no data for ${show(d.periods)} period(s), from ${period(d.firstGap, d.grain ?? 'month')}.`;
+      return `${show(d.segment)} has no data for ${periodsText(d.periods, d.grain)}, from ${period(d.firstGap, d.grain ?? 'month')}.`;
     case 'late_segment':
       return `${show(d.segment)} only has data from ${period(d.firstPeriod, d.grain ?? 'month')}.`;
     case 'base_zero':
@@ -86,6 +86,12 @@ export function caveatNote(c: Caveat, locale: string): string {
       return `${show(n)} ${n === 1 ? 'segment' : 'segments'} with ${under} ${n === 1 ? 'is' : 'are'} combined as "All others"${beside}.`;
     }
   }
+}
+
+/** "1 month", "12 weeks": a count of periods named by their grain (a period when the grain is not known). */
+function periodsText(n: unknown, grain: unknown): string {
+  const noun = typeof grain === 'string' && ['day', 'week', 'month', 'quarter', 'year'].includes(grain) ? grain : 'period';
+  return typeof n === 'number' ? countOf(n, noun) : `some ${noun}s`;
 }
 
 export function caveatFlag(c: Caveat): string {

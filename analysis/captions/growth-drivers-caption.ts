@@ -174,5 +174,5 @@ function perDaySentence(f: GrowthDriversFinding, label: string, metric: Metric, 
   const [a, b] = [after / dc, before / dp];
   const fmt = quantityFormat(metric, 'per_day', locale);
   const rel = a / b - 1;
-  return `${capitalise(spanText(f.current, locale))} has ${dc} days and ${spanText(f.prior, locale)} ${dp}, so per day ${lower(label)} ${totalVerb(rel, locale)} (${formatValue(a, fmt)} against ${formatValue(b, fmt)} a day).`;
+  return `${capitalise(spanText(f.current, locale))} has ${dc} days and ${spanText(f.prior, locale)} ${dp}, so per day ${lower(label)} ${totalVerb(rel, locale)} (${formatValue(a, fmt, { rate: true })} against ${formatValue(b, fmt, { rate: true })} a day).`;
 }

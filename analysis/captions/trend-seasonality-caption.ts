@@ -83,11 +83,7 @@ export function seasonalityWords(metric: Metric, additive: boolean, findings: re
 export function perDaySentence(metric: Metric, p: MonthTotalsPerDay, locale: string): string {
   const fmt = valueFormatOf(metric, locale);
   const name = (m: number) => monthName(m, locale);
-  // Whole units once a day's figure is in the hundreds: "11,999 a day", not "11,999.09".
-  const perDay = (m: number) => {
-    const v = p.perDay[m - 1]!;
-    return `${formatValue(v, fmt.decimals === undefined && Math.abs(v) >= 100 ? { ...fmt, decimals: 0 } : fmt)} a day`;
-  };
+  const perDay = (m: number) => `${formatValue(p.perDay[m - 1]!, fmt, { rate: true })} a day`;
   const [top, bottom] = [p.byDay[0]!, p.byDay[p.byDay.length - 1]!];
   const lead = `Per day (months differ in length), the busiest month is ${name(top)} (${perDay(top)}) and the quietest ${name(bottom)} (${perDay(bottom)})`;
   if (p.swaps.length === 0) return `${lead}, the same order as by total.`;

@@ -78,7 +78,7 @@ export function readSeries(sq: SubQuestion, table: ResultTable, coverage: Covera
     if (empty.length > 0) caveats.push({ code: 'empty_period', data: { metric, periods: empty.length, firstEmpty: empty[0]!.period, grain: sq.grain } });
     const gaps = points.filter((p) => p.value === null && !p.partial && !empty.includes(p));
     if (gaps.length > 0 && gaps.length < points.length) {
-      caveats.push({ code: 'series_gap', data: { metric, periods: gaps.length, firstGap: gaps[0]!.period } });
+      caveats.push({ code: 'series_gap', data: { metric, periods: gaps.length, firstGap: gaps[0]!.period, grain: sq.grain } });
     }
     const complete = points.filter((p): p is PeriodPoint & { value: number } => p.value !== null && !p.partial);
     if (complete.length === 0) {
