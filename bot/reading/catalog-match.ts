@@ -6,7 +6,7 @@
 import damerauLevenshtein from 'damerau-levenshtein';
 import { distance } from 'fastest-levenshtein';
 import type { DatasetConfig } from '../../config/schema.js';
-import { BUSINESS_NOUNS, GRAIN_WORDS, MONTH_PATTERN, ORDINARY, STOPWORDS, WEEKDAY_PATTERN } from './lexicon.js';
+import { BUSINESS_NOUNS, ENDS_JOIN, FROM_END_CUE, FROM_END_WORDS, GRAIN_WORDS, MONTH_PATTERN, ORDINARY, STOPWORDS, TO_END_CUE, TO_END_WORDS, WEEKDAY_PATTERN } from './lexicon.js';
 import { phraseWords, type RequestText, type Span, type Word } from './text.js';
 import type { ValueIndex } from '../../analysis/values/value-index.js';
 
@@ -45,6 +45,8 @@ export interface PreparedCatalog {
   dataset: DatasetConfig;
   /** Each breakdown's own words (of its name, label and other names): "wildlife" for "Wildlife size". */
   dimensionWords: Map<string, Set<string>>;
+  /** Breakdowns that are the start or the end of a movement, by their names (origin and destination). */
+  ends: Map<string, 'from' | 'to'>;
   /** Phrases by their number of words, longest first. */
   byLength: Map<number, Map<string, Prepared>>;
   lengths: number[];
@@ -104,7 +106,14 @@ export function prepareCatalog(ds: DatasetConfig, values?: ValueIndex): Prepared
   const dimensionWords = new Map(
     ds.dimensions.map((d) => [d.name, new Set([d.name.replaceAll('_', ' '), d.label, ...d.synonyms].flatMap((n) => phraseWords(n)).filter((w) => !STOPWORDS.has(w) && w.length > 2).map(stem))]),
   );
-  const prepared = { dataset: ds, dimensionWords, byLength, lengths: [...byLength.keys()].sort((a, b) => b - a), entries };
+  const ends = new Map<string, 'from' | 'to'>();
+  for (const d of ds.dimensions) {
+    const words = [d.name.replaceAll('_', ' '), d.label, d.column, ...d.synonyms].flatMap((n) => phraseWords(n));
+    const from = words.some((w) => FROM_END_WORDS.has(w));
+    const to = words.some((w) => TO_END_WORDS.has(w));
+    if (from !== to) ends.set(d.name, from ? 'from' : 'to');
+  }
+  const prepared = { dataset: ds, dimensionWords, ends, byLength, lengths: [...byLength.keys()].sort((a, b) => b - a), entries };
   perDataset.set(key, prepared);
   return prepared;
 }
@@ -202,7 +211,58 @@ export function findCatalogHits(text: RequestText, catalog: PreparedCatalog, opt
       }
     }
   }
-  return hits.flatMap((h) => valuesWithEvidence(h, hits, text, catalog)).sort((a, b) => a.start - b.start);
+  const kept = hits.flatMap((h) => valuesWithEvidence(h, hits, text, catalog)).sort((a, b) => a.start - b.start);
+  return orientEnds(kept, text, catalog);
+}
+
+/**
+ * "from LAX to SFO", "LAX→SFO", "into SFO from LAX", "between DFW and ORD": a value that both
+ * ends of a movement hold (origin and destination airports) is placed at the end its words say,
+ * the first of two joined ones at the start and the second at the end. Two parts of one
+ * breakdown's values joined so ("from Mainland to Saltreach") are the value that runs from one
+ * to the other. With no such words the value keeps every candidate, to be asked about.
+ */
+function orientEnds(hits: CatalogHit[], text: RequestText, catalog: PreparedCatalog): CatalogHit[] {
+  const valueHits = hits.filter((h) => h.entries.some((e) => e.kind === 'value'));
+  const endOf = (e: CatalogEntry) => (e.kind === 'value' ? catalog.ends.get(e.name) : undefined);
+  const bothEnds = (h: CatalogHit) => h.entries.some((e) => endOf(e) === 'from') && h.entries.some((e) => endOf(e) === 'to');
+  const side = new Map<CatalogHit, 'from' | 'to'>();
+  const joined = new Map<CatalogHit, CatalogHit>();
+  for (const [i, h] of valueHits.entries()) {
+    const before = text.lower.slice(Math.max(0, h.start - 30), h.start);
+    if (bothEnds(h)) {
+      if (FROM_END_CUE.test(before)) side.set(h, 'from');
+      else if (TO_END_CUE.test(before)) side.set(h, 'to');
+    }
+    const prev = valueHits[i - 1];
+    if (!prev) continue;
+    const gap = text.original.slice(prev.end, h.start);
+    const betweenAnd = /^\s*and\s*$/i.test(gap) && /\bbetween\s+(?:the\s+)?$/.test(text.lower.slice(Math.max(0, prev.start - 14), prev.start));
+    if (!ENDS_JOIN.test(gap) && !betweenAnd) continue;
+    joined.set(h, prev);
+    if (bothEnds(prev) && bothEnds(h)) {
+      if (side.get(prev) !== 'to') side.set(prev, 'from');
+      if (side.get(h) !== 'from' || side.get(prev) === 'from') side.set(h, side.get(prev) === 'to' ? 'from' : 'to');
+    }
+  }
+  // Two parts of one breakdown's values joined so: the value named by both, in the order written.
+  const route = new Map<CatalogHit, CatalogEntry>();
+  for (const [h, prev] of joined) {
+    if (side.has(h) || side.has(prev)) continue;
+    const shared = h.entries.filter((e) => e.kind === 'value' && (e.partial || prev.entries.some((p) => p.partial)) && prev.entries.some((p) => p.kind === 'value' && p.name === e.name && p.value === e.value));
+    const position = (e: CatalogEntry, w: Word) => (e.value ?? '').toLowerCase().indexOf(w.norm);
+    const inOrder = shared.filter((e) => position(e, prev.words[0]!) < position(e, h.words[0]!));
+    const pick = inOrder.length === 1 ? inOrder[0]! : shared.length === 1 ? shared[0]! : undefined;
+    if (!pick) continue;
+    route.set(h, { ...pick, partial: false });
+    route.set(prev, { ...pick, partial: false });
+  }
+  return hits.map((h) => {
+    const r = route.get(h);
+    if (r) return { ...h, entries: [r] };
+    const s = side.get(h);
+    return s ? { ...h, entries: h.entries.filter((e) => e.kind !== 'value' || endOf(e) === s) } : h;
+  });
 }
 
 // Words that name a period or a grain: in lower case they are nearly always the calendar's ("day

@@ -242,3 +242,14 @@ export const PRONOUNS = new Set(['it', 'that', 'this', 'they', 'them', 'those', 
 /** Words that ask for a breakdown by the noun after them. */
 export const BREAKDOWN_BEFORE = /(?:\bby|\bper|\bfor each|\beach|\bevery|\bacross(?: (?:all|the|our))?|\bsplit (?:by|across|into)|\bbroken down by|\bbreak(?:ing)? (?:it |that |this |them )?down by|\bbreakdown (?:by|of)|\bgrouped by|\bwithin each|\bfor every|\bamong(?: the)?|\bbetween (?:the )?(?:different |\w+ )?)\s+$/;
 export const BREAKDOWN_WH = /(?:\bwhich|\bwhat)\s+$/;
+
+// ---- the two ends of a journey ----
+
+/** Words of a breakdown's names that make it the start of a movement (origin, from, pickup) or its end (destination, to, dropoff). */
+export const FROM_END_WORDS = new Set(['origin', 'origins', 'from', 'departure', 'departures', 'departing', 'source', 'sources', 'start', 'starting', 'pickup', 'pick', 'sender', 'outbound', 'leaving']);
+export const TO_END_WORDS = new Set(['destination', 'destinations', 'to', 'arrival', 'arrivals', 'arriving', 'target', 'targets', 'end', 'dropoff', 'drop', 'recipient', 'inbound', 'bound']);
+/** Words right before a value that put it at the start ("from LAX", "out of DFW") or the end ("into SFO", "arriving at SEA"). */
+export const FROM_END_CUE = /(?:\bfrom|\bout\s+of|\bleaving|\bdeparting(?:\s+from)?|\bdepartures?\s+(?:from|at)|\boriginating\s+(?:at|in|from))\s+(?:the\s+)?$/;
+export const TO_END_CUE = /(?:\bto|\binto|\barriving\s+(?:at|in|into)|\barrivals?\s+(?:at|in|into)|\bbound\s+for|\bheaded\s+for|\bheading\s+(?:to|for)|\blanding\s+(?:at|in))\s+(?:the\s+)?$/;
+/** What joins the two ends named together: "LAX to SFO", "LAX→SFO", "LAX-SFO", "LAX > SFO". */
+export const ENDS_JOIN = /^\s*(?:to|→|->|—|–|-|>|›|\/)\s*$/;
