@@ -8,8 +8,8 @@
 // The runs use serve in this process (the same function `threadcount serve` calls), so each reading
 // can follow a full garbage collection (`node --expose-gc`: garbage V8 has not yet collected is not
 // growth) and can name its parts: the JavaScript heap, and what each DuckDB engine reports it holds
-// (duckdb_memory(), against its memory_limit). The npm script caps glibc's malloc arenas as the
-// Docker image does (MALLOC_ARENA_MAX, see the Dockerfile); the readings say which cap was in force.
+// (duckdb_memory(), against its memory_limit). The npm script sets glibc's allocator as the Docker
+// image does (cli/allocator.ts); the readings say which settings were in force.
 //   npm run bench:chat-memory [-- --runs N] [--no-burst]
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -17,6 +17,7 @@ import { join } from 'node:path';
 import { DuckDBInstance } from '@duckdb/node-api';
 import { generateDemo } from '../config/demo/generate-demo.js';
 import { parseEnvironment } from '../config/environment.js';
+import { SERVE_ALLOCATOR_ENV } from '../cli/allocator.js';
 import { serve } from '../cli/serve.js';
 import { measureAck } from './ack.js';
 
@@ -179,7 +180,7 @@ async function main(): Promise<void> {
         : '';
     process.stdout.write(
       [
-        `${runs} runs one after another on the demo data (${REQUESTS.length} requests in turn, each from its card to its summary), ${seconds} s; MALLOC_ARENA_MAX=${process.env.MALLOC_ARENA_MAX ?? 'unset'}. Memory after a full garbage collection, in MB: the process's resident set (RSS), the JavaScript heap in use, and what each DuckDB engine reports it holds (duckdb_memory()):`,
+        `${runs} runs one after another on the demo data (${REQUESTS.length} requests in turn, each from its card to its summary), ${seconds} s; ${Object.keys(SERVE_ALLOCATOR_ENV).map((k) => `${k}=${process.env[k] ?? 'unset'}`).join(', ')}. Memory after a full garbage collection, in MB: the process's resident set (RSS), the JavaScript heap in use, and what each DuckDB engine reports it holds (duckdb_memory()):`,
         '',
         `| runs | RSS | JS heap used | ${names.join(' | ')} |`,
         `|---|---|---|${names.map(() => '---|').join('')}`,

@@ -77,6 +77,9 @@ export class DuckDbSource implements DataSource {
     const settings: Record<string, string> = {};
     if (opts.engine.threads) settings.threads = String(opts.engine.threads);
     settings.memory_limit = opts.engine.memory_limit ?? DEFAULT_MEMORY_LIMIT;
+    // Freed memory goes back to the system from DuckDB's background thread (as for the state file:
+    // bot/stores/DuckDbStateStore.ts), not only when this engine next allocates.
+    settings.allocator_background_threads = 'true';
     // Spills go to a folder of this engine's own under the system's temporary folder (DuckDB
     // makes it when first needed and removes it on close), never into the working directory.
     settings.temp_directory = join(tmpdir(), `threadcount-duckdb-${process.pid}-${randomBytes(4).toString('hex')}`);

@@ -37,6 +37,20 @@ export function isDuckDbSession(session: SqlSession | undefined): session is Duc
 // process's memory flat as threads accumulate (pages beyond it are read from the file again).
 const STATE_MEMORY_LIMIT = '64MB';
 
+/**
+ * The state file's engine settings besides its pool. Rows written since the last checkpoint stay
+ * pinned in the pool until it runs (at 16MB of write-ahead log by default: the pool swung between 20
+ * and 46 MB over 100 runs, and a 16 or 32 MB limit then failed commits); checkpointing at 4MB keeps
+ * that share small. DuckDB's allocator hands what it freed back to the system from a background
+ * thread, not only when it next allocates: without it a reading just after a checkpoint held tens of
+ * MB already freed. Measured by bench:chat-memory (BENCHMARKS.md, issue 18).
+ */
+export const STATE_ENGINE_SETTINGS: Readonly<Record<string, string>> = {
+  memory_limit: STATE_MEMORY_LIMIT,
+  checkpoint_threshold: '4MB',
+  allocator_background_threads: 'true',
+};
+
 interface QueuedWork {
   work: () => Promise<unknown>;
   resolve: (value: unknown) => void;
@@ -89,7 +103,7 @@ export class DuckDbStateStore implements StateStore {
       return new DuckDbStateStore(instance, connection, 0, Number(r.getRows()[0]?.[0] ?? 0) > 0, false, new Set());
     }
     mkdirSync(dirname(path), { recursive: true });
-    const instance = await DuckDBInstance.create(path, { memory_limit: STATE_MEMORY_LIMIT });
+    const instance = await DuckDBInstance.create(path, { ...STATE_ENGINE_SETTINGS });
     const connection = await instance.connect();
     try {
       // What the last process left in the write-ahead log is folded into the file now, before any new write.
