@@ -75,6 +75,8 @@ const SAME_WORD: Record<string, string> = {
 export function stem(word: string): string {
   const same = SAME_WORD[word];
   if (same) return same;
+  // Their own plural: "species", "series".
+  if (/(?:species|series)$/.test(word)) return word;
   if (word.length > 4 && word.endsWith('ies')) return `${word.slice(0, -3)}y`;
   if (word.length > 4 && /(?:ses|xes|ches|shes)$/.test(word)) return word.slice(0, -2);
   if (word.length > 3 && word.endsWith('s') && !word.endsWith('ss') && !word.endsWith('us')) return word.slice(0, -1);
@@ -204,7 +206,8 @@ export function findCatalogHits(text: RequestText, catalog: PreparedCatalog, opt
         }
         // Typos only in words that are not everyday words themselves ("tips" is not "trips").
         if (stems.slice(i, i + n).every((w) => EVERYDAY.has(w) || /^\d+$/.test(w))) continue;
-        const p = pass === 'typo' ? closestWithin(window, bucket) : n === 1 ? sameFamily(window, bucket) : undefined;
+        // A one-word typo is tried as written too: "speceis" folds to "specei", far from "species".
+        const p = pass === 'typo' ? closestWithin(window, bucket) ?? (n === 1 && words[i]!.norm !== window ? closestWithin(words[i]!.norm, bucket) : undefined) : n === 1 ? sameFamily(window, bucket) : undefined;
         // "taking" is not a typo of "takings": a plural noun of its own.
         if (p && p.raw.some((r) => r.endsWith('ings')) && window.split(' ').some((w) => w.endsWith('ing'))) continue;
         if (p) take(i, n, p.entries, false);

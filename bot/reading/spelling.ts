@@ -17,6 +17,8 @@ const ABBREVIATIONS: Record<string, string> = {
   yr: 'year', yrs: 'years', yy: 'year', mth: 'month', mths: 'months', mnth: 'month', mnths: 'months', wk: 'week', wks: 'weeks',
   qtr: 'quarter', qtrs: 'quarters', tmrw: 'tomorrow', tmw: 'tomorrow', tmrow: 'tomorrow', tomoz: 'tomorrow', tdy: 'today', yday: 'yesterday', ystdy: 'yesterday',
   thsi: 'this', ths: 'this', tihs: 'this', lst: 'last', lsat: 'last', alst: 'last',
+  // Question words with a letter left out (a swapped pair is mended below): "wich species", "wat share".
+  wich: 'which', whic: 'which', whih: 'which', wat: 'what', wht: 'what', hw: 'how',
 };
 
 const UNITS = ['year', 'years', 'month', 'months', 'week', 'weeks', 'quarter', 'quarters', 'day', 'days'];
