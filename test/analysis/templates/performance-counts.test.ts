@@ -252,6 +252,21 @@ describe('a filtered count compared between groups of sites', () => {
     }
   });
 
+  it('the relative estimate is the per-site one: the groups are of fixed sites, so their unequal sizes cancel', async () => {
+    // Groups of named units compared as per-day totals (performance_compare compares them per unit):
+    // with the late site left out, each group holds the same sites in both windows, so a group's
+    // total per day is its per-site rate times a constant, and the ratio of ratios is the per-site one.
+    const a = await answerSubQuestion(question('performance_before_after', 'weekday_visits'), ws);
+    const did = find(a, 'performance_did')[0] as PerformanceDidFinding;
+    const sites = (refit: boolean, from: string, to: string) =>
+      new Set(visits.filter((v) => v.refit === refit && v.site !== 'Harbour Road' && v.weekday && v.visit_day >= from && v.visit_day < to).map((v) => v.site));
+    const perSite = (refit: boolean, from: string, to: string) => perDay(refit, from, to) / sites(refit, from, to).size;
+    for (const refit of [true, false]) expect([...sites(refit, '2023-01-01', '2024-01-01')].sort()).toEqual([...sites(refit, '2024-01-01', '2025-01-01')].sort());
+    expect(sites(true, '2023-01-01', '2024-01-01').size).not.toBe(sites(false, '2023-01-01', '2024-01-01').size);
+    const perSiteRatio = perSite(true, '2024-01-01', '2025-01-01') / perSite(true, '2023-01-01', '2024-01-01') / (perSite(false, '2024-01-01', '2025-01-01') / perSite(false, '2023-01-01', '2024-01-01')) - 1;
+    expect(did.ratio!.estimate).toBeCloseTo(perSiteRatio, 12);
+  });
+
   it('without the late site left out, the others would have grown by its visits: the estimate would be far lower', () => {
     const all = (refit: boolean, from: string, to: string) => visits.filter((v) => v.refit === refit && v.weekday && v.visit_day >= from && v.visit_day < to).length;
     const naive = all(true, '2024-01-01', '2025-01-01') / all(true, '2023-01-01', '2024-01-01') / (all(false, '2024-01-01', '2025-01-01') / all(false, '2023-01-01', '2024-01-01')) - 1;
