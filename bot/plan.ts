@@ -8,7 +8,7 @@ import { SUB_QUESTIONS, type TemplateName } from '../analysis/sub-questions/regi
 import { type DateWindow, type Grain, type Lens, type RequestKind, type SubQuestion } from '../analysis/types.js';
 import { type Brief, type Question, wholeRequestQuestion } from './brief.js';
 import { fullWindow } from './reading/answers.js';
-import { AGREE, CANCEL, grainNamedBy } from './reading/lexicon.js';
+import { AGREE, CANCEL, grainNamedBy, WEEKDAY_ASK } from './reading/lexicon.js';
 import { describeWindow } from '../analysis/window-words.js';
 
 export interface Plan {
@@ -87,7 +87,9 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
       switch (q.kind) {
         case 'trend':
           add('series', metric, true);
-          if (grain === 'month') add('trend_seasonality', metric, false);
+          // The days of the week asked about ("which weekday", "by day of week"): the time pattern
+          // answers it (on daily data) whatever the grain, and heads the question.
+          if (grain === 'month' || WEEKDAY_ASK.test(q.text.toLowerCase())) add('trend_seasonality', metric, WEEKDAY_ASK.test(q.text.toLowerCase()));
           add('trend_test', metric, false);
           add('trend_summary', metric, false);
           for (const d of dims) add('segment_trend', metric, false, { dimension: d });

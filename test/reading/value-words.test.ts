@@ -196,6 +196,7 @@ const READ_RIGHT: Record<string, Case[]> = {
   'a whole value beats part of a longer one': WHOLE_VALUE_CASES,
   'from X to Y is an origin and a destination': ROUTE_CASES,
   'a breakdown word is found through typos nearby': TYPO_CASES,
+  'the days of the week compared': WEEKDAY_CASES,
 };
 
 describe.each(Object.entries(READ_RIGHT))('value words: %s', (_name, cases) => {
