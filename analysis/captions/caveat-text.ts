@@ -95,6 +95,8 @@ function periodsText(n: unknown, grain: unknown): string {
 }
 
 export function caveatFlag(c: Caveat): string {
+  // A filtered series that starts at its first matching period is not empty anywhere it is drawn.
+  if (c.code === 'empty_period' && c.data.leading === true) return 'starts at the first match';
   const flags: Record<Caveat['code'], string> = {
     partial_period: 'partial period (dashed)',
     partial_period_excluded: 'partial period excluded',

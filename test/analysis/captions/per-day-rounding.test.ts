@@ -5,7 +5,7 @@
 // Counts of periods in notes come from the grammar helper ("1 month", "3 weeks"), never "period(s)".
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
-import { caveatNote } from '../../../analysis/captions/caveat-text.js';
+import { caveatFlag, caveatNote } from '../../../analysis/captions/caveat-text.js';
 import { formatValue } from '../../../analysis/format.js';
 import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import type { SubQuestion } from '../../../analysis/types.js';
@@ -66,5 +66,12 @@ describe('counts of periods in notes', () => {
     expect(one).toBe('1 month has no data at all: July 2013.');
     expect(three).toMatch(/^fog has no data for 3 weeks, from /);
     for (const note of [one, three]) expect(note).not.toMatch(/\(s\)/);
+  });
+
+  it('a filtered series that starts late says where it starts, in the note and the chart flag', () => {
+    const lead = { code: 'empty_period' as const, data: { leading: true, periods: 6, firstEmpty: '2012-01-01', firstMatch: '2012-07-01', grain: 'month' } };
+    expect(caveatNote(lead, 'en')).toBe('No rows match the filter before July 2012 (the 6 months from January 2012), so the series starts there.');
+    expect(caveatFlag(lead)).toBe('starts at the first match');
+    expect(caveatFlag({ code: 'empty_period', data: { periods: 2, firstEmpty: '2012-05-01', grain: 'month' } })).toBe('empty after the filter');
   });
 });
