@@ -177,7 +177,8 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
     }
   }
 
-  const personal = unique(hits.flatMap((h) => h.entries.filter((e) => e.kind === 'personal').map((e) => e.name)));
+  // A word that is also a value ("email" the channel) names personal data only where the words around it say so, as in a clause.
+  const personal = unique(hits.filter((h) => !(h.entries.some((e) => e.kind === 'value') && !personalContext(h, text))).flatMap((h) => h.entries.filter((e) => e.kind === 'personal').map((e) => e.name)));
   const deadline = deadlines.find((d) => d.date !== null);
   const pastDeadline = deadlines.find((d) => d.date === null && d.past)?.past;
 

@@ -253,3 +253,12 @@ describe('a bare "volume": on the card, or in the prompt', () => {
     expect(answered.ok && nextPrompt(answered.brief, ctx)).toBeNull();
   });
 });
+
+describe('"email" the channel is not the requester\'s email', () => {
+  it('a filter on email tickets refuses no personal data; a requester\'s email still is refused', () => {
+    const b = read('tickets', 'For email tickets, how have volumes moved this year and which teams handle most of them?');
+    expect(b.personalData).toEqual([]);
+    expect(read('tickets', 'tickets by requester email').personalData).toEqual(['requester_email']);
+    expect(read('tickets', 'show their email addresses').personalData).toEqual(['requester_email']);
+  });
+});
