@@ -449,7 +449,7 @@ export class Conversation {
 
   private correction(state: ThreadState, text: string): Correction {
     const ws = this.deps.datasets.of(state);
-    return readCorrection(text, datasetFacts(ws), this.deps.now(), this.deps.datasets.locale);
+    return readCorrection(text, datasetFacts(ws), this.deps.now(), this.deps.datasets.locale, state.brief);
   }
 
   /** A correction applied to the thread's brief; undefined (with the reason said) when nothing could change. */

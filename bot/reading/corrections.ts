@@ -4,7 +4,7 @@
 // the same words, so clicking and typing are one path.
 import type { DateWindow, Grain, SegmentFilter } from '../../analysis/types.js';
 import { isBreakdownDimension } from '../../analysis/catalog.js';
-import type { Audience } from '../brief.js';
+import type { Audience, Brief } from '../brief.js';
 import { fullWindow, impossibleDate, readDeadlineAnswer } from './answers.js';
 import { AGREE, CANCEL } from './lexicon.js';
 import { saysAsap } from './deadline.js';
@@ -47,7 +47,12 @@ export function changesSomething(c: Correction): boolean {
   return !!(c.audience || c.deadline || c.grain || c.window || c.metrics || c.addDimensions.length || c.removeDimensions.length || c.clearDimensions || c.filters.length || c.clearFilters.length || c.drop.length);
 }
 
-export function readCorrection(text: string, facts: DatasetFacts, now: Date, locale?: string): Correction {
+/**
+ * `current`: the brief being changed. A value that more than one breakdown holds ("same for ORD",
+ * origin or destination) takes the breakdown the brief already restricts, when only one of them
+ * is: the follow-up swaps that value for this one.
+ */
+export function readCorrection(text: string, facts: DatasetFacts, now: Date, locale?: string, current?: Brief): Correction {
   const c = emptyCorrection();
   const t = text.trim();
   if (AGREE.test(t)) return { ...c, agree: true };
@@ -79,6 +84,11 @@ export function readCorrection(text: string, facts: DatasetFacts, now: Date, loc
   const read = readRequest(rest, facts, { now, ...(locale ? { locale } : {}) });
   c.personalData = read.personalData ?? [];
   const filters = read.questions.flatMap((q) => q.filters);
+  const restricted = new Set((current?.questions ?? []).flatMap((q) => q.filters.map((f) => f.dimension)));
+  for (const a of read.ambiguousValues ?? []) {
+    const fits = a.candidates.filter((x) => restricted.has(x.dimension));
+    if (fits.length === 1) filters.push({ dimension: fits[0]!.dimension, values: [fits[0]!.value] });
+  }
   const addedDims = new Set(read.dimensions);
   for (const m of rest.matchAll(/\b(?:add|include|also|plus|and|split\s+by|break\s+(?:it\s+)?down\s+by)\s+(?:a\s+)?(?:breakdown\s+(?:by|of)\s+)?(?:by\s+)?(?:the\s+)?([a-z][a-z ]*?)(?=\s*(?:,|;|$|\band\b|\bplus\b))/g)) {
     const words = m[1]!;

@@ -15,6 +15,7 @@ import type { Brief } from '../../bot/brief.js';
 import { briefDefaults, withDefaults } from '../../bot/brief-defaults.js';
 import { buildPlan } from '../../bot/plan.js';
 import { briefToJson, type BriefJson } from '../../bot/reading/brief-json.js';
+import { changesSomething, readCorrection } from '../../bot/reading/corrections.js';
 import { type DatasetFacts, readRequest } from '../../bot/reading/read-request.js';
 import { exampleFacts } from '../helpers/example-facts.js';
 import { publicFacts } from './public-data.js';
@@ -219,5 +220,28 @@ describe('all value cases', () => {
     });
     console.log(`value cases read right: ${every.length - wrong.length} of ${every.length}\n${wrong.map(([d, t]) => `  wrong: ${d}: ${t}`).join('\n')}`);
     expect(every.length - wrong.length).toBeGreaterThanOrEqual(Object.values(READ_RIGHT).flat().length);
+  });
+});
+
+// 6. A follow-up naming only a value reruns the last brief with it: the value takes the breakdown
+// the brief already restricts when several hold it (origin or destination).
+describe('a follow-up that names only a value', () => {
+  const followUp = (data: Data, first: string, then: string) => {
+    const brief = readRequest(first, facts[data], { now: NOW[data], locale: 'en-GB' });
+    return readCorrection(then, facts[data], NOW[data], 'en-GB', brief);
+  };
+  it.each([
+    ['flights', 'Weekly number of flights out of DFW', 'same for ORD', 'origin', 'ORD'],
+    ['flights', 'average delay of flights into SFO by week', 'and for LAX?', 'destination', 'LAX'],
+    ['birdstrikes', 'strikes in California by year', 'and for Texas?', 'origin_state', 'Texas'],
+    ['demo', 'bookings on the app by month', 'what about the web channel', 'channel', 'web'],
+  ] as [Data, string, string, string, string][])('%s: "%s", then "%s"', (data, first, then, dimension, value) => {
+    const c = followUp(data, first, then);
+    expect(changesSomething(c)).toBe(true);
+    expect(c.filters).toContainEqual({ dimension, values: [value] });
+  });
+  it('a value both ends hold, after a brief restricting neither, is not placed on a guess', () => {
+    const c = followUp('flights', 'weekly flights', 'same for ORD');
+    expect(c.filters).toEqual([]);
   });
 });
