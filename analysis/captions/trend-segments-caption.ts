@@ -1,8 +1,8 @@
 // Titles and captions for segment trends and segment shares, written only from findings.
 import type { Dimension, Metric } from '../../config/schema.js';
 import { isAdditive } from '../catalog.js';
-import { CLEAR_LEAD, type SegmentSharesFinding, type SegmentShareRow, type SegmentTrendFinding, type SegmentTrendOverviewFinding } from '../findings/segments.js';
-import { formatChange, formatValue, valueFormatOf } from '../format.js';
+import { CLEAR_LEAD, type SegmentGrowthMeasure, type SegmentSharesFinding, type SegmentShareRow, type SegmentTrendFinding, type SegmentTrendOverviewFinding } from '../findings/segments.js';
+import { formatChange, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
 import type { Audience, Finding } from '../types.js';
 import { isPluralLabel } from './grammar.js';
 import type { Words } from './trend-test-caption.js';
@@ -10,8 +10,12 @@ import { capitalise, countWord, dimensionPlural, formatRelativeSize, formatShare
 
 type Dim = Pick<Dimension, 'label'>;
 
-/** "+4.1% a year (2022 to 2024)" or, without two full years, the trend slope's yearly rate. */
-export function segmentGrowthText(t: SegmentTrendFinding, locale: string, withYears = true): string | null {
+/**
+ * "+4.1% a year from 2022 to 2024", without two full years the trend slope's yearly rate, and where
+ * a percentage has no base or the span is under a year, the slope in units ("+0.3 min a week (trend)").
+ */
+export function segmentGrowthText(t: SegmentTrendFinding, locale: string, withYears = true, measure?: SegmentGrowthMeasure, fmt?: ValueFormat): string | null {
+  if (measure === 'units') return t.slopePerPeriod === null || !fmt ? null : `${formatValue(t.slopePerPeriod, fmt, { signed: true })} a ${t.grain}${withYears ? ' (trend)' : ''}`;
   if (t.growth?.cagr !== null && t.growth?.cagr !== undefined) {
     return `${formatChange(t.growth.cagr, locale)} a year${withYears ? ` from ${t.growth.fromYear} to ${t.growth.toYear}` : ''}`;
   }
@@ -55,27 +59,31 @@ export function segmentTrendWords(metric: Metric, dim: Dim, findings: readonly F
     };
   }
   const measure = overview.fastest.measure;
-  const rate = (t: SegmentTrendFinding) => (measure === 'cagr' ? t.growth?.cagr ?? null : t.slopePerYearRelative);
+  const rate = (t: SegmentTrendFinding) => (measure === 'cagr' ? t.growth?.cagr ?? null : measure === 'slope' ? t.slopePerYearRelative : t.slopePerPeriod);
+  const growthText = (t: SegmentTrendFinding, withYears = true) => segmentGrowthText(t, locale, withYears, measure, fmt);
   const slowest = named.reduce<SegmentTrendFinding | null>((lo, t) => (rate(t) !== null && (lo === null || rate(t)! < rate(lo)!) ? t : lo), null);
-  const growth = segmentGrowthText(fastest, locale)!;
+  const growth = growthText(fastest)!;
   // A lead under CLEAR_LEAD (or one the rounding hides) names no single winner: both are said.
   const runner = overview.runnerUp ? named.find((t) => t.segment === overview.runnerUp!.segment) : undefined;
   const tied =
-    runner && overview.runnerUp && (overview.fastest.value - overview.runnerUp.value < CLEAR_LEAD || segmentGrowthText(runner, locale, false) === segmentGrowthText(fastest, locale, false))
+    runner && overview.runnerUp && ((measure !== 'units' && overview.fastest.value - overview.runnerUp.value < CLEAR_LEAD) || growthText(runner, false) === growthText(fastest, false))
       ? runner
       : undefined;
+  // A change in units is a rise or a fall of the value, not growth of a size.
+  const units = measure === 'units';
+  const fastestVerb = overview.fastest.value > 0 ? (units ? 'rose most' : 'grew fastest') : units ? 'fell least' : 'held up best';
   const both = tied ? `${segmentLabel(fastest)} and ${segmentLabel(tied)}` : '';
-  const bothRates = tied ? `${segmentGrowthText(fastest, locale, false)!.replace(/ a year.*$/, '')} and ${segmentGrowthText(tied, locale)!}` : '';
+  const bothRates = tied ? `${growthText(fastest, false)!.replace(/ a (?:year|quarter|month|week|day).*$/, '')} and ${growthText(tied)!}` : '';
   const title = capitalise(
     tied
       ? `${both} ${overview.fastest.value > 0 ? 'grew at about the same pace' : 'held up about equally'}: ${bothRates}`
       : overview.fastest.value > 0
-        ? `${segmentLabel(fastest)} grew fastest: ${growth}`
-        : `${segmentLabel(fastest)} held up best: ${growth}`,
+        ? `${segmentLabel(fastest)} ${fastestVerb}: ${growth}`
+        : `${segmentLabel(fastest)} ${fastestVerb}: ${growth}`,
   );
   const largestLine = sizeLine(metric, named, fmt, ' over the period');
   const slowestLine =
-    slowest && slowest !== fastest && slowest !== tied ? `${segmentLabel(slowest)} ${rate(slowest)! < 0 ? 'shrank the most' : 'grew the least'} (${segmentGrowthText(slowest, locale, false)}).` : '';
+    slowest && slowest !== fastest && slowest !== tied ? `${segmentLabel(slowest)} ${rate(slowest)! < 0 ? (units ? 'fell the most' : 'shrank the most') : units ? 'rose the least' : 'grew the least'} (${growthText(slowest, false)}).` : '';
   let caption: string;
   if (audience === 'analysts') {
     const list = named
@@ -89,12 +97,14 @@ export function segmentTrendWords(metric: Metric, dim: Dim, findings: readonly F
   } else if (audience === 'managers') {
     const lead = tied
       ? `${both} ${overview.fastest.value > 0 ? 'grew at about the same pace' : 'held up about equally'}, ${bothRates}, too close to name one`
-      : `${segmentLabel(fastest)} ${overview.fastest.value > 0 ? 'grew fastest' : 'held up best'}, ${growth}`;
+      : `${segmentLabel(fastest)} ${fastestVerb}, ${growth}`;
     caption = `Among ${plural}, ${lead}. ${capitalise(slowestLine)} ${capitalise(largestLine)}`.replace(/ {2,}/g, ' ').trim();
   } else {
-    const pace = overview.fastest.value > 0 ? `growing fastest, about ${formatRelativeSize(overview.fastest.value, locale)} a year` : `holding up best, though shrinking about ${formatRelativeSize(overview.fastest.value, locale)} a year`;
+    const pace = units
+      ? `${overview.fastest.value > 0 ? 'rising most' : 'falling least'}, ${growth}`
+      : overview.fastest.value > 0 ? `growing fastest, about ${formatRelativeSize(overview.fastest.value, locale)} a year` : `holding up best, though shrinking about ${formatRelativeSize(overview.fastest.value, locale)} a year`;
     const lead = tied
-      ? `${capitalise(both)} are ${overview.fastest.value > 0 ? 'growing' : 'changing'} at about the same pace, about ${formatRelativeSize(overview.fastest.value, locale)} a year`
+      ? `${capitalise(both)} are ${overview.fastest.value > 0 ? 'growing' : 'changing'} at about the same pace, about ${units ? bothRates : `${formatRelativeSize(overview.fastest.value, locale)} a year`}`
       : `${capitalise(segmentLabel(fastest))} is ${pace}`;
     caption = `${lead}. ${capitalise(largestLine)}`.trim();
   }

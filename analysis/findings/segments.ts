@@ -189,6 +189,13 @@ export interface SegmentTrendFinding extends SegmentKey {
   peak: { period: string; value: number } | null;
 }
 
+/**
+ * How segment growth is measured: compound yearly growth between full calendar years, the Sen's
+ * slope a year relative to the level, or (where a percentage has no base or the span is under a
+ * year) the Sen's slope in the metric's own units per period.
+ */
+export type SegmentGrowthMeasure = 'cagr' | 'slope' | 'units';
+
 export interface SegmentTrendOverviewFinding {
   type: 'segment_trend_overview';
   metric: string;
@@ -197,8 +204,8 @@ export interface SegmentTrendOverviewFinding {
   /** Distinct segments in the window, before folding. */
   segmentCount: number;
   folded: number;
-  /** The named segment growing fastest: by compound yearly growth where it exists, else by relative Sen's slope. */
-  fastest: { segment: string | null; measure: 'cagr' | 'slope'; value: number } | null;
+  /** The named segment growing fastest: by compound yearly growth where it exists, else by relative Sen's slope, else by Sen's slope in units. */
+  fastest: { segment: string | null; measure: SegmentGrowthMeasure; value: number } | null;
   /** The next fastest on the same measure, when there is one: a lead under CLEAR_LEAD is no lead. */
   runnerUp?: { segment: string | null; value: number } | null;
 }

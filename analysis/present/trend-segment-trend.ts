@@ -7,6 +7,7 @@ import { dimensionByName, metricByName, metricDirection } from '../catalog.js';
 import type { SegmentTrendFinding, SegmentTrendOverviewFinding } from '../findings/segments.js';
 import { caveatNotes, chartFooter, chartSubtitle } from './header.js';
 import type { Presenter } from './presenter.js';
+import { valueFormatOf } from '../format.js';
 
 export const presentSegmentTrend: Presenter = (full, ctx) => {
   // The chart is bars of window totals: nothing is drawn dashed, and growth rates already skip a
@@ -21,12 +22,18 @@ export const presentSegmentTrend: Presenter = (full, ctx) => {
   // The title is about growth, so the bars are the growth rates it compares (on the one measure the
   // fastest was chosen by), not the segments' totals; a segment without a rate is said in the caption.
   const measure = overview?.fastest?.measure ?? 'cagr';
-  const rateOf = (t: SegmentTrendFinding) => (measure === 'cagr' ? t.growth?.cagr ?? null : t.slopePerYearRelative);
+  const rateOf = (t: SegmentTrendFinding) => (measure === 'cagr' ? t.growth?.cagr ?? null : measure === 'slope' ? t.slopePerYearRelative : t.slopePerPeriod);
   const items = trends.flatMap((t) => (t.other || rateOf(t) === null ? [] : [{ label: segmentLabel(t), value: rateOf(t)! }]));
   const fold = trends.find((t) => t.other && rateOf(t) !== null);
   const folded = fold ? { label: segmentLabel(fold), value: rateOf(fold)! } : null;
   const years = trends.find((t) => !t.other && t.growth?.cagr != null)?.growth;
-  const rateWords = measure === 'cagr' && years ? `growth a year, ${years.fromYear} to ${years.toYear} (full calendar years)` : 'growth a year along the trend (Sen\'s slope)';
+  const grain = trends[0]?.grain ?? sq.grain;
+  const rateWords =
+    measure === 'cagr' && years
+      ? `growth a year, ${years.fromYear} to ${years.toYear} (full calendar years)`
+      : measure === 'units'
+        ? `change a ${grain} along the trend (Sen's slope), in ${metric.unit_label ?? metric.label.toLowerCase()}`
+        : 'growth a year along the trend (Sen\'s slope)';
   const chart =
     items.length > 0
       ? buildBars({
@@ -37,7 +44,7 @@ export const presentSegmentTrend: Presenter = (full, ctx) => {
           ...ctx.chart,
           items,
           folded,
-          format: { unit: 'percent', decimals: 1, locale: ctx.locale },
+          format: measure === 'units' ? valueFormatOf(metric, ctx.locale) : { unit: 'percent', decimals: 1, locale: ctx.locale },
           signed: true,
           // Coloured by the metric's good direction; without one, one colour for every bar.
           ...(metricDirection(metric) === null ? {} : { higherIsBetter: metricDirection(metric)! }),

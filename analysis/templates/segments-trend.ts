@@ -9,7 +9,7 @@ import { compileFoldedSegments, namedSegmentCount, segmentDimension } from './se
 import { foldedCaveats, foldedRow, readSegmentTotals, segmentCoverageCaveats, type FoldedRow } from './segments-read.js';
 import { minGroupSize } from './small-groups.js';
 import type { ReadContext, Reading, Template } from './template.js';
-import { completePoints, coveredWindow, EMPTY_TABLE, isoYear, mean, numberOrNull, periodsInYear, seasonallyAdjusted, windowPeriods } from './trend-points.js';
+import { completePoints, coveredWindow, EMPTY_TABLE, isoYear, mean, numberOrNull, periodsInYear, relativeYearlyRateApplies, seasonallyAdjusted, windowPeriods } from './trend-points.js';
 
 export const segmentTrendTemplate: Template = {
   compile: (sq, ctx) => {
@@ -75,13 +75,17 @@ export function readSegmentTrend(sq: SubQuestion, totals: ResultTable, seriesTab
       seasonallyAdjusted: adjusted !== null,
       slopePerPeriod: sen ? sen.slope : null,
       slopePerYear,
-      slopePerYearRelative: slopePerYear !== null && level !== null && level > 0 ? slopePerYear / level : null,
+      slopePerYearRelative: slopePerYear !== null && level !== null && level > 0 && relativeYearlyRateApplies(complete.map((c) => c.value), sq.grain) ? slopePerYear / level : null,
       growth: yearGrowth(yearRows.get(seg.id), covered),
       peak,
     };
     trends.push(trend);
     findings.push(trend);
   }
+  // One measure for all: when any named segment's values touch or cross zero, the metric has no
+  // base for a percentage, so no segment gets one (else the ranking would silently skip that one).
+  const named = trends.filter((t) => !t.other);
+  if (named.some((t) => t.slopePerYear !== null && t.slopePerYearRelative === null)) for (const t of trends) t.slopePerYearRelative = null;
 
   findings.push({
     type: 'segment_trend_overview',
@@ -135,10 +139,11 @@ function yearGrowth(rows: Map<string, FoldedRow> | undefined, covered: { start: 
 
 function fastestGrowing(trends: readonly SegmentTrendFinding[]): Pick<SegmentTrendOverviewFinding, 'fastest' | 'runnerUp'> {
   const named = trends.filter((t) => !t.other);
-  // Compound yearly growth where any segment has it, else the relative Sen's slope; one measure for all.
-  for (const measure of ['cagr', 'slope'] as const) {
+  // Compound yearly growth where any segment has it, else the relative Sen's slope a year; one measure for all.
+  // Else the Sen's slope in the metric's units per period, where a percentage has no base or the span is under a year.
+  for (const measure of ['cagr', 'slope', 'units'] as const) {
     const rated = named
-      .map((t) => ({ segment: t.segment, value: measure === 'cagr' ? t.growth?.cagr ?? null : t.slopePerYearRelative }))
+      .map((t) => ({ segment: t.segment, value: measure === 'cagr' ? t.growth?.cagr ?? null : measure === 'slope' ? t.slopePerYearRelative : t.slopePerPeriod }))
       .filter((r): r is { segment: string | null; value: number } => r.value !== null)
       .sort((a, b) => b.value - a.value);
     if (rated.length === 0) continue;

@@ -49,6 +49,17 @@ export function periodsInYear(grain: Grain): number {
   return periodsPerYear(grain) ?? 365.2425;
 }
 
+/**
+ * Whether a yearly rate relative to the level means anything for these complete values: every one
+ * is above zero (a percentage of a level that touches or crosses zero has no base: an average delay
+ * of 0.4 min rising 1 min a year would be "+250% a year"), and they span a whole year or more (a
+ * quarter's slope times four is no year's growth). Otherwise the change is said in the metric's units
+ * per period.
+ */
+export function relativeYearlyRateApplies(values: readonly number[], grain: Grain): boolean {
+  return values.length >= periodsInYear(grain) && values.every((v) => v > 0);
+}
+
 export function mean(values: readonly number[]): number | null {
   if (values.length === 0) return null;
   return values.reduce((a, b) => a + b, 0) / values.length;

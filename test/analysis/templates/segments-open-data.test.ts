@@ -211,3 +211,36 @@ describe('unusual periods are said once each, at their own grain', () => {
     expect(new Set(named).size).toBe(named.length);
   });
 });
+
+describe('a change in a metric that can be zero or negative, or over less than a year, is said in units', () => {
+  it('average delay by origin over one quarter: the Sen slope in minutes a week, never a percentage a year', async () => {
+    const { answer, shown } = await present(flightsWs, question('segment_trend', 'avg_delay', 'origin', Q1, { grain: 'week' }));
+    expect(`${shown.title} ${shown.caption}`).not.toMatch(/%|a year/);
+    const named = answer.findings.filter((f): f is SegmentTrendFinding => f.type === 'segment_trend' && !f.other);
+    expect(named.every((t) => t.slopePerYearRelative === null)).toBe(true);
+    // Independent: weekly mean delay per origin over the 12 complete Monday weeks (1 January 2001
+    // was a Monday; the week of 26 March ends after the data), and Sen's slope (Sen 1968): the
+    // median of the pairwise slopes.
+    const weekOf = (d: string) => Math.floor((Date.UTC(+d.slice(0, 4), +d.slice(5, 7) - 1, +d.slice(8, 10)) - Date.UTC(2001, 0, 1)) / (7 * 86_400_000));
+    const sen = (origin: string) => {
+      const sums = Array.from({ length: 12 }, () => ({ s: 0, n: 0 }));
+      for (const f of flights) {
+        const w = weekOf(f.date);
+        if (f.origin === origin && w < 12) {
+          sums[w]!.s += f.delay;
+          sums[w]!.n += 1;
+        }
+      }
+      const y = sums.map((c) => c.s / c.n);
+      const slopes: number[] = [];
+      for (let i = 0; i < y.length; i++) for (let j = i + 1; j < y.length; j++) slopes.push((y[j]! - y[i]!) / (j - i));
+      slopes.sort((a, b) => a - b);
+      const m = slopes.length;
+      return m % 2 ? slopes[(m - 1) / 2]! : (slopes[m / 2 - 1]! + slopes[m / 2]!) / 2;
+    };
+    for (const t of named) expect(t.slopePerPeriod).toBeCloseTo(sen(t.segment!), 9);
+    const best = [...named].sort((a, b) => sen(b.segment!) - sen(a.segment!))[0]!;
+    const fmt = (v: number) => `${v > 0 ? '+' : v < 0 ? '−' : ''}${Math.abs(v).toFixed(1)}\u00a0min`;
+    expect(shown.title).toContain(`${best.segment} ${sen(best.segment!) > 0 ? 'rose most' : 'fell least'}: ${fmt(sen(best.segment!))} a week (trend)`);
+  });
+});
