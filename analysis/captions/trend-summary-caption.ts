@@ -9,7 +9,7 @@ import { isPluralLabel } from './grammar.js';
 import type { Words } from './trend-test-caption.js';
 import { formatIndex, grainNoun, lowerLabel } from './trend-words.js';
 
-export function trendSummaryWords(metric: Metric, grain: Grain, findings: readonly Finding[], audience: Audience, locale: string): Words {
+export function trendSummaryWords(metric: Metric, grain: Grain, findings: readonly Finding[], audience: Audience, locale: string, rowsLabel?: string): Words {
   const s = findings.find((f): f is TrendSummaryFinding => f.type === 'trend_summary' && f.metric === metric.name);
   const outliers = findings.filter((f): f is TrendOutlierFinding => f.type === 'trend_outlier' && f.metric === metric.name);
   const fmt = valueFormatOf(metric, locale);
@@ -39,14 +39,21 @@ export function trendSummaryWords(metric: Metric, grain: Grain, findings: readon
         ? ` No ${per} has |modified z| above ${formatValue(MODIFIED_Z_THRESHOLD, { unit: 'number', decimals: 1, locale })} (Iglewicz–Hoaglin).`
         : ''
       : ` ${outliers.length === 1 ? 'One' : String(outliers.length)} ${grainNoun(grain, outliers.length)} ${outliers.length === 1 ? 'stands' : 'stand'} out from the rest: ${outliers.map(outlierText).join(', ')}.`;
+  // The statistics above are of the periods' values; an average's own rows are said apart, so a
+  // median of weekly averages is never read as the median per flight.
+  const r = s.rows;
+  const rowsLine = r
+    ? ` Across the ${formatValue(r.n, { unit: 'count', locale })} ${rowsLabel ? lowerLabel(rowsLabel) : 'rows with a value'} themselves: mean ${v(r.mean)}, median ${v(r.median)}.`
+    : '';
+  const ofPeriods = quantityKind(metric) === 'flow' ? '' : ` of the ${grainNoun(grain, 2)}' values`;
   let caption: string;
   if (audience === 'analysts') {
     const mode = s.mode === null ? 'no repeated value' : `mode ${v(s.mode)} (${s.modeCount} times)`;
-    caption = `Over ${s.n} complete ${grainNoun(grain, s.n)}: mean ${v(s.mean)}, median ${v(s.median)}, standard deviation ${v(s.sd)}, ${mode}; ${range}.${stand}`;
+    caption = `Over ${s.n} complete ${grainNoun(grain, s.n)}${ofPeriods}: mean ${v(s.mean)}, median ${v(s.median)}, standard deviation ${v(s.sd)}, ${mode}; ${range}.${stand}${rowsLine}`;
   } else if (audience === 'managers') {
-    caption = `Over ${s.n} complete ${grainNoun(grain, s.n)}, ${lowerLabel(metric.label)} averaged ${v(s.mean)}${perGrain} (median ${v(s.median)}), ${range}.${stand}`;
+    caption = `Over ${s.n} complete ${grainNoun(grain, s.n)}, ${lowerLabel(metric.label)} averaged ${v(s.mean)}${perGrain} (median${quantityKind(metric) === 'flow' ? '' : ` ${per}`} ${v(s.median)}), ${range}.${stand}${rowsLine}`;
   } else {
-    caption = `In a typical ${per}, ${lowerLabel(metric.label)} ${isPluralLabel(metric.label) ? 'are' : 'is'} about ${v(s.median)}; the range runs ${range}.${stand}`;
+    caption = `In a typical ${per}, ${lowerLabel(metric.label)} ${isPluralLabel(metric.label) ? 'are' : 'is'} about ${v(s.median)}; the range runs ${range}.${stand}${rowsLine}`;
   }
   return { title, caption };
 }

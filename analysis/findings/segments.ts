@@ -134,6 +134,8 @@ export interface TrendSummaryFinding {
   sd: number | null;
   minPeriod: string;
   maxPeriod: string;
+  /** For an average of a column: its mean and median over the rows in the window (the statistics above are of the periods' values). */
+  rows?: { n: number; mean: number; median: number };
 }
 
 export interface TrendOutlierFinding {

@@ -10,7 +10,9 @@ export const presentTrendSummary: Presenter = (answer, ctx) => {
   const sq = answer.subQuestion;
   const metric = metricByName(ctx.dataset, sq.metrics[0]!);
   const fmt = valueFormatOf(metric, ctx.locale);
-  const words = trendSummaryWords(metric, sq.grain, answer.findings, ctx.audience, ctx.locale);
+  // What one row is, for "per flight": the label of the dataset's plain row count, when it has one.
+  const rowsMetric = ctx.dataset.metrics.find((m) => m.definition.type === 'count' && !m.definition.where);
+  const words = trendSummaryWords(metric, sq.grain, answer.findings, ctx.audience, ctx.locale, rowsMetric?.label);
   const s = answer.findings.find((f): f is TrendSummaryFinding => f.type === 'trend_summary' && f.metric === metric.name);
   const chart = seriesLineChart(answer, metric, words.title, ctx, (points) =>
     s && s.n > 1 ? { label: `Mean (${formatValue(s.mean, fmt, { compact: true })})`, values: points.map(() => s.mean) } : undefined,

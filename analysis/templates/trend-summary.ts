@@ -1,15 +1,55 @@
 // Template "trend_summary": summary statistics over the complete periods of the window (which
 // period holds each extreme), and periods that stand out by a robust outlier screen.
 import { modifiedZScores, summarize } from '../stats/index.js';
-import type { Caveat, Finding, ResultTable, SubQuestion } from '../types.js';
+import { metricByName } from '../catalog.js';
+import { type CompileContext, tableRef, whereClause } from '../compile-context.js';
+import { filterCondition } from '../sql/metric-sql.js';
+import { QueryBuilder } from '../sql/query-builder.js';
+import type { Caveat, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
 import { compileSeries, readSeries } from './series.js';
 import type { ReadContext, Reading, Template } from './template.js';
-import { completePoints, EMPTY_TABLE, seriesFinding } from './trend-points.js';
+import { completePoints, EMPTY_TABLE, numberOrNull, seriesFinding } from './trend-points.js';
 
 export const trendSummaryTemplate: Template = {
-  compile: (sq, ctx) => [{ name: 'series', ...compileSeries({ ...sq, metrics: sq.metrics.slice(0, 1) }, ctx) }],
-  read: (sq, tables, ctx) => readTrendSummary(sq, tables.series ?? EMPTY_TABLE, ctx),
+  compile: (sq, ctx) => {
+    const rows = compileRowStats(sq, ctx);
+    return [{ name: 'series', ...compileSeries({ ...sq, metrics: sq.metrics.slice(0, 1) }, ctx) }, ...(rows ? [{ name: 'row_stats', ...rows }] : [])];
+  },
+  read: (sq, tables, ctx) => withRowStats(readTrendSummary(sq, tables.series ?? EMPTY_TABLE, ctx), tables.row_stats),
 };
+
+/**
+ * An average of a column summarised period by period gives the mean and median of the periods'
+ * averages, which is not what "the typical delay per flight" asks: the median of the rows can be
+ * far from the median of daily means (flights: 0 min against 6.7). So an average metric also
+ * gets its mean and median over the rows themselves in the window (percentile_cont, the SQL
+ * standard's ordered-set aggregate, which DuckDB and PostgreSQL both run).
+ */
+function compileRowStats(sq: SubQuestion, ctx: CompileContext): CompiledQuery | null {
+  const metric = metricByName(ctx.dataset, sq.metrics[0]!);
+  const def = metric.definition;
+  if (def.type !== 'average') return null;
+  // The rows themselves, never a rollup of them: a median does not roll up.
+  const raw: CompileContext = { ...ctx, rollup: undefined };
+  const q = new QueryBuilder(ctx.dialect);
+  const col = q.ident(def.column);
+  const where = [whereClause(q, raw, sq.window, sq.filters), ...(def.where ? [filterCondition(q, def.where)] : [])].join(' AND ');
+  const d = ctx.dialect;
+  return q.finish(`SELECT ${d.toDouble(`AVG(${col})`)} AS row_mean,
+  ${d.toDouble(`percentile_cont(0.5) WITHIN GROUP (ORDER BY ${col})`)} AS row_median,
+  ${d.toDouble(`COUNT(${col})`)} AS row_n
+FROM ${tableRef(q, raw)}
+WHERE ${where}`);
+}
+
+function withRowStats(reading: Reading, table: ResultTable | undefined): Reading {
+  const row = table?.rows[0];
+  const n = numberOrNull(row?.row_n);
+  const meanOfRows = numberOrNull(row?.row_mean);
+  const medianOfRows = numberOrNull(row?.row_median);
+  if (!n || meanOfRows === null || medianOfRows === null) return reading;
+  return { ...reading, findings: reading.findings.map((f) => (f.type === 'trend_summary' ? { ...f, rows: { n, mean: meanOfRows, median: medianOfRows } } : f)) };
+}
 
 export function readTrendSummary(sq: SubQuestion, table: ResultTable, ctx: ReadContext): Reading {
   const metric = sq.metrics[0]!;

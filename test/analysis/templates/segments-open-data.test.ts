@@ -244,3 +244,17 @@ describe('a change in a metric that can be zero or negative, or over less than a
     expect(shown.title).toContain(`${best.segment} ${sen(best.segment!) > 0 ? 'rose most' : 'fell least'}: ${fmt(sen(best.segment!))} a week (trend)`);
   });
 });
+
+describe('the typical value per row is a statistic of the rows, and the period statistics say they are of periods', () => {
+  it('average delay: "median week" for the weekly values, and the mean and median over the flights themselves', async () => {
+    const sq: SubQuestion = { ...question('trend_summary', 'avg_delay', 'origin', Q1, { grain: 'week' }), dimension: undefined };
+    const { shown } = await present(flightsWs, sq);
+    // Independent: mean and median of the 20,000 delays (the newcomer's DuckDB check: 7.70 and 0).
+    const delays = flights.map((f) => f.delay).sort((a, b) => a - b);
+    const mean = delays.reduce((a, b) => a + b, 0) / delays.length;
+    const median = (delays[delays.length / 2 - 1]! + delays[delays.length / 2]!) / 2;
+    expect(median).toBe(0);
+    expect(shown.caption).toContain(`Across the 20,000 flights themselves: mean ${mean.toFixed(1)}\u00a0min, median ${median.toFixed(1)}\u00a0min.`);
+    expect(shown.caption).toMatch(/\(median week \d/);
+  });
+});
