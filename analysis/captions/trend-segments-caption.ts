@@ -28,6 +28,11 @@ export function segmentGrowthText(t: SegmentTrendFinding, locale: string, withYe
  * value, so the first is the largest; an average or a ratio ranks them by their rows (the busiest
  * are worth naming), so the words follow the value itself: highest and lowest, never "largest".
  */
+/** Whether two segments' growth spans the same full years (so the second need not repeat them). */
+function sameYears(a: SegmentTrendFinding, b: SegmentTrendFinding): boolean {
+  return a.growth?.fromYear === b.growth?.fromYear && a.growth?.toYear === b.growth?.toYear;
+}
+
 function sizeLine(metric: Metric, named: readonly SegmentTrendFinding[], fmt: ReturnType<typeof valueFormatOf>, span: string): string {
   const valued = named.filter((t) => t.total !== null);
   if (valued.length === 0) return '';
@@ -83,7 +88,7 @@ export function segmentTrendWords(metric: Metric, dim: Dim, findings: readonly F
   );
   const largestLine = sizeLine(metric, named, fmt, ' over the period');
   const slowestLine =
-    slowest && slowest !== fastest && slowest !== tied ? `${segmentLabel(slowest)} ${rate(slowest)! < 0 ? (units ? 'fell the most' : 'shrank the most') : units ? 'rose the least' : 'grew the least'} (${growthText(slowest, false)}).` : '';
+    slowest && slowest !== fastest && slowest !== tied ? `${segmentLabel(slowest)} ${rate(slowest)! < 0 ? (units ? 'fell the most' : 'shrank the most') : units ? 'rose the least' : 'grew the least'} (${growthText(slowest, sameYears(slowest, fastest) ? false : true)}).` : '';
   let caption: string;
   if (audience === 'analysts') {
     const list = named

@@ -23,14 +23,20 @@ export const presentSegmentTrend: Presenter = (full, ctx) => {
   // fastest was chosen by), not the segments' totals; a segment without a rate is said in the caption.
   const measure = overview?.fastest?.measure ?? 'cagr';
   const rateOf = (t: SegmentTrendFinding) => (measure === 'cagr' ? t.growth?.cagr ?? null : measure === 'slope' ? t.slopePerYearRelative : t.slopePerPeriod);
-  const items = trends.flatMap((t) => (t.other || rateOf(t) === null ? [] : [{ label: segmentLabel(t), value: rateOf(t)! }]));
+  // Each segment's growth runs between its own first and last full years: when they differ, each
+  // bar says its years and the subtitle does not claim one span for all.
+  const spans = new Set(trends.flatMap((t) => (measure === 'cagr' && t.growth?.cagr != null ? [`${t.growth.fromYear}–${t.growth.toYear}`] : [])));
+  const ownYears = (t: SegmentTrendFinding) => (spans.size > 1 && t.growth?.cagr != null ? ` (${t.growth.fromYear}–${t.growth.toYear})` : '');
+  const items = trends.flatMap((t) => (t.other || rateOf(t) === null ? [] : [{ label: `${segmentLabel(t)}${ownYears(t)}`, value: rateOf(t)! }]));
   const fold = trends.find((t) => t.other && rateOf(t) !== null);
-  const folded = fold ? { label: segmentLabel(fold), value: rateOf(fold)! } : null;
+  const folded = fold ? { label: `${segmentLabel(fold)}${ownYears(fold)}`, value: rateOf(fold)! } : null;
   const years = trends.find((t) => !t.other && t.growth?.cagr != null)?.growth;
   const grain = trends[0]?.grain ?? sq.grain;
   const rateWords =
     measure === 'cagr' && years
-      ? `growth a year, ${years.fromYear} to ${years.toYear} (full calendar years)`
+      ? spans.size > 1
+        ? 'growth a year between each one\'s first and last full calendar years'
+        : `growth a year, ${years.fromYear} to ${years.toYear} (full calendar years)`
       : measure === 'units'
         ? `change a ${grain} along the trend (Sen's slope), in ${metric.unit_label ?? metric.label.toLowerCase()}`
         : 'growth a year along the trend (Sen\'s slope)';

@@ -258,3 +258,32 @@ describe('the typical value per row is a statistic of the rows, and the period s
     expect(shown.caption).toMatch(/\(median week \d/);
   });
 });
+
+describe('each segment growth is labelled with the years it was computed over', () => {
+  it('strikes by airport: every bar and the caption name the full years each airport’s rate really spans', async () => {
+    const { answer, shown } = await present(strikesWs, question('segment_trend', 'strikes', 'airport', STRIKE_YEARS, { rankLimit: 8 }));
+    const named = answer.findings.filter((f): f is SegmentTrendFinding => f.type === 'segment_trend' && !f.other && f.growth?.cagr != null);
+    expect(named.length).toBeGreaterThan(1);
+    // Independent: for each airport, the calendar years inside the data with strikes in all twelve months.
+    const fullYears = (airport: string) => {
+      const months = new Map<number, Set<string>>();
+      for (const s of strikes.filter((x) => x.airport === airport)) {
+        const y = Number(s.date.slice(0, 4));
+        months.set(y, (months.get(y) ?? new Set()).add(s.date.slice(5, 7)));
+      }
+      return [...months.entries()].filter(([y, m]) => m.size === 12 && y <= 2001).map(([y]) => y).sort();
+    };
+    const spans = new Set<string>();
+    for (const t of named) {
+      const years = fullYears(t.segment!).filter((y) => `${y}-01-01` >= (strikesWs.coverage.firstDate ?? ''));
+      expect([t.growth!.fromYear, t.growth!.toYear]).toEqual([years[0], years[years.length - 1]]);
+      spans.add(`${t.growth!.fromYear}–${t.growth!.toYear}`);
+    }
+    if (spans.size > 1 && shown.chart?.kind === 'bars') {
+      for (const t of named) expect(shown.chart.bars.map((b) => b.label)).toContain(`${t.segment} (${t.growth!.fromYear}–${t.growth!.toYear})`);
+      expect(shown.chart.subtitle).toContain("between each one's first and last full calendar years");
+    }
+    // Each year span the caption states is one a named airport's rate really covers.
+    for (const m of shown.caption.matchAll(/from (\d{4}) to (\d{4})/g)) expect(spans).toContain(`${m[1]}–${m[2]}`);
+  });
+});
