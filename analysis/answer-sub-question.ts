@@ -51,7 +51,9 @@ function compileFor(sq: SubQuestion, template: Template, ws: Workspace, scope: R
   const shape = scope?.rollup;
   // The coverage is part of a shared rollup's identity: new rows (a rerun with fresh data) make a new one.
   const shared = shape && covers(shape, need) ? { shape, version: JSON.stringify(ws.coverage) } : undefined;
-  return template.compile(sq, { ...ctx, rollup: need }).map((q) => ({ name: q.name, ...dayLevelQuery(ctx, need, q, shared) }));
+  return template.compile(sq, { ...ctx, rollup: need }).map((q) =>
+    q.readsRows ? (({ datesRead: _dates, ...own }) => own)(q) : { name: q.name, ...dayLevelQuery(ctx, need, q, shared) },
+  );
 }
 
 function runShared(q: NamedQuery, ws: Workspace, opts: AnswerOptions): Promise<ResultTable> {

@@ -78,6 +78,8 @@ export interface ResultTable {
 export interface CompiledQuery {
   sql: string;
   params: (string | number | boolean)[];
+  /** The query reads the rows themselves (a median over rows), never a day-level rollup of them. */
+  readsRows?: true;
   /**
    * Set when the query reads the run's rollup: `sql` then carries the rollup as a CTE (runnable
    * as shown), and an engine that keeps rollups runs `scan.body` over its own copy instead.

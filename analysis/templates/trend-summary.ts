@@ -35,11 +35,11 @@ function compileRowStats(sq: SubQuestion, ctx: CompileContext): CompiledQuery | 
   const col = q.ident(def.column);
   const where = [whereClause(q, raw, sq.window, sq.filters), ...(def.where ? [filterCondition(q, def.where)] : [])].join(' AND ');
   const d = ctx.dialect;
-  return q.finish(`SELECT ${d.toDouble(`AVG(${col})`)} AS row_mean,
+  return { ...q.finish(`SELECT ${d.toDouble(`AVG(${col})`)} AS row_mean,
   ${d.toDouble(`percentile_cont(0.5) WITHIN GROUP (ORDER BY ${col})`)} AS row_median,
   ${d.toDouble(`COUNT(${col})`)} AS row_n
 FROM ${tableRef(q, raw)}
-WHERE ${where}`);
+WHERE ${where}`), readsRows: true };
 }
 
 function withRowStats(reading: Reading, table: ResultTable | undefined): Reading {
