@@ -1,7 +1,9 @@
 // A window said back in plain words: "1 June to 18 June 2025 (the data ends there)", so the
 // requester can see how a period phrase was read.
-import type { Coverage } from './coverage.js';
-import { addDays } from './periods.js';
+import { type Coverage, dataEnd } from './coverage.js';
+import { formatPeriod } from './format.js';
+import { finestGrain } from './grains.js';
+import { addDays, periodStart } from './periods.js';
 import type { DateWindow } from './types.js';
 
 const formats = new Map<string, Intl.DateTimeFormat>();
@@ -20,10 +22,17 @@ function format(iso: string, locale: string, withYear: boolean): string {
 export function describeWindow(w: DateWindow, coverage: Coverage, locale = 'en-IE'): string {
   const last = addDays(w.end, -1);
   const sameYear = w.start.slice(0, 4) === last.slice(0, 4);
-  const range = w.start === last ? format(w.start, locale, true) : `${format(w.start, locale, !sameYear)} to ${format(last, locale, true)}`;
+  // Data stamped once a month (or coarser) is said in months: "1 April 2020" would claim a day it does not have.
+  const stamp = finestGrain(coverage.stamps);
+  const coarse = stamp !== 'day' && stamp !== 'week' && periodStart(w.start, 'month') === w.start && periodStart(w.end, 'month') === w.end;
+  const month = (iso: string) => formatPeriod(iso, 'month', locale, 'long');
+  const range = coarse
+    ? w.start.slice(0, 7) === last.slice(0, 7) ? month(w.start) : `${month(w.start)} to ${month(last)}`
+    : w.start === last ? format(w.start, locale, true) : `${format(w.start, locale, !sameYear)} to ${format(last, locale, true)}`;
   const notes: string[] = [];
-  if (coverage.lastDate && last >= coverage.lastDate && w.start <= coverage.lastDate && last > coverage.lastDate) notes.push(`the data ends on ${format(coverage.lastDate, locale, true)}`);
-  if (coverage.firstDate && w.start < coverage.firstDate) notes.push(`the data starts on ${format(coverage.firstDate, locale, true)}`);
+  const dataLast = coverage.lastDate ? addDays(dataEnd({ lastDate: coverage.lastDate, ...(coverage.stamps ? { stamps: coverage.stamps } : {}) }), -1) : null;
+  if (coverage.lastDate && dataLast && w.start <= dataLast && last > dataLast) notes.push(coarse ? `the data ends with ${month(dataLast)}` : `the data ends on ${format(coverage.lastDate, locale, true)}`);
+  if (coverage.firstDate && w.start < coverage.firstDate) notes.push(coarse ? `the data starts with ${month(coverage.firstDate)}` : `the data starts on ${format(coverage.firstDate, locale, true)}`);
   if (coverage.lastDate && w.start > coverage.lastDate) notes.push('after the data ends');
   return notes.length > 0 ? `${range} (${notes.join('; ')})` : range;
 }

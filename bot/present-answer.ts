@@ -5,7 +5,7 @@ import { renderDigest } from '../analysis/charts/render-digest.js';
 import { formatPeriod } from '../analysis/format.js';
 import { timePhase } from '../analysis/phase-timings.js';
 import type { PresentContext } from '../analysis/present/index.js';
-import { answerCaveats, threadNotes } from '../analysis/quality/thread-notes.js';
+import { answerCaveats, measureNotes, threadNotes } from '../analysis/quality/thread-notes.js';
 import { definitionOf } from '../analysis/sub-questions/registry.js';
 import { sqlForReaders } from '../analysis/sql/render-sql.js';
 import { tableToCsv } from '../analysis/table-csv.js';
@@ -23,7 +23,9 @@ export function presentContext(ws: Workspace, audience: Audience): PresentContex
 export const presentAnswer: AnswerPresenter = async (answer, { workspace, audience, position, timings }) => {
   const sq = answer.subQuestion;
   // Notes about the data as a whole are said once, in the summary; each post keeps those that change its answer.
-  const own = { ...answer, caveats: answerCaveats(answer.caveats, workspace.coverage) };
+  const own = { ...answer, caveats: answerCaveats(answer.caveats, workspace.coverage, sq) };
+  const labelOf = (m: string) => workspace.dataset.metrics.find((x) => x.name === m)?.label ?? m;
+  const dataNotes = measureNotes(answer.caveats, workspace.coverage, sq, labelOf, workspace.config.charts.locale);
   const presented = timePhase(timings, 'read', () => definitionOf(sq).present(own, presentContext(workspace, audience)));
   const stem = `${String(position).padStart(2, '0')}-${sq.template}-${sq.metrics.join('-')}`;
   const files: OutgoingFile[] = [];
@@ -44,11 +46,12 @@ export const presentAnswer: AnswerPresenter = async (answer, { workspace, audien
   });
   // An answer from a smaller plan says so before anything else (analysis/smaller-plan.ts).
   const retried = answer.retry ? [`_The first try ${answer.retry.failure}, so this answer was computed again with ${answer.retry.change}._`] : [];
-  const text = [`*${position}. ${presented.title}*`, ...retried, presented.caption, ...presented.notes.map((n) => `_Note: ${n}_`)].join('\n');
+  const text = [`*${position}. ${presented.title}*`, ...retried, presented.caption, ...[...presented.notes, ...(presented.takeaway ? [] : dataNotes)].map((n) => `_Note: ${n}_`)].join('\n');
   const post = { text, files, ...(presented.textBlocks?.length ? { monospace: presented.textBlocks } : {}) };
+  const takeaway = presented.takeaway && dataNotes.length > 0 ? { ...presented.takeaway, dataNotes } : presented.takeaway;
   // A table's rows do not survive shrinking to a digest thumbnail; its takeaway leads the digest instead.
-  if (spec?.kind === 'period_table') return { post, takeaway: presented.takeaway, chart: null };
-  return { post, takeaway: presented.takeaway, chart, ...(spec ? { chartSpec: spec } : {}) };
+  if (spec?.kind === 'period_table') return { post, takeaway, chart: null };
+  return { post, takeaway, chart, ...(spec ? { chartSpec: spec } : {}) };
 };
 
 export const presentSummary: SummaryPresenter = async (takeaways, { workspace, failures, charts, requestText, timings, items, quality, now }) => {
@@ -69,7 +72,7 @@ export const presentSummary: SummaryPresenter = async (takeaways, { workspace, f
   const lines = [...(verdict ? [verdict] : []), ...top].map((t) => `- ${t.text} (see ${t.position})`);
   const failed = failures > 0 ? `\n${failures} ${failures === 1 ? 'question' : 'questions'} could not be answered; see the messages above.` : '';
   if (top.length === 0) return { text: `*Summary*\nNo question could be answered; see the messages above.` };
-  const notes = threadNotes(items ?? [], quality, workspace, now ?? new Date(), workspace.config.charts.locale);
+  const notes = [...new Set([...threadNotes(items ?? [], quality, workspace, now ?? new Date(), workspace.config.charts.locale), ...takeaways.flatMap((t) => t.dataNotes ?? [])])];
   const about = notes.length ? `\n*About the data* (applies to every answer above)\n${notes.map((n) => `- ${n}`).join('\n')}` : '';
   const text = `*Summary*\n${lines.join('\n')}${failed}${about}\nEach answer above has its table (CSV) and the SQL that produced it attached; the digest below puts the key charts and takeaways on one page for forwarding. These are descriptive figures from ${workspace.dataset.label}; comparisons between groups are observational, and your organisation's data-governance rules apply before sharing further.`;
   const asOf = workspace.coverage.lastDate ? formatPeriod(workspace.coverage.lastDate, 'day', workspace.config.charts.locale) : 'n/a';

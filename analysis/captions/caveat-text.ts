@@ -54,7 +54,7 @@ export function caveatNote(c: Caveat, locale: string): string {
       return `${countOf(d.count, grain, 'en', grain === 'day' ? 'days' : undefined)} are unusual (modified z-score above 3.5); the ${names.length} most extreme: ${listJoin(names)}.`;
     }
     case 'stale_data':
-      return `The latest data is from ${day(d.lastDate)}, ${ageText(d.days)}.`;
+      return typeof d.grain === 'string' ? `The latest data is for ${period(d.lastDate, d.grain)}, ${ageText(d.days)}.` : `The latest data is from ${day(d.lastDate)}, ${ageText(d.days)}.`;
     case 'small_sample':
       return `Small sample (n = ${show(d.n)}): read with care.`;
     case 'too_few_cycles':

@@ -59,6 +59,12 @@ export function possessive(name: string): string {
   return /s$/i.test(name) ? `${name}'` : `${name}'s`;
 }
 
+/** A caption's first sentence, for a summary line: a full stop followed by a space ends it (never a decimal point). */
+export function firstSentence(text: string): string {
+  const end = /\.\s/.exec(text);
+  return end ? text.slice(0, end.index + 1) : text;
+}
+
 /** "a", "a and b", "a, b and c". */
 export function listJoin(items: readonly string[], conjunction = 'and'): string {
   if (items.length <= 1) return items[0] ?? '';

@@ -22,6 +22,8 @@ export interface Takeaway {
   leads?: boolean;
   /** The answer's finding as a verdict on a comparison with a year earlier, when it settles one. */
   verdict?: Verdict;
+  /** Notes about the measure's data as a whole that this answer left to the summary, said there once (thread-notes.ts). */
+  dataNotes?: string[];
 }
 
 export interface Presented {

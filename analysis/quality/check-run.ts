@@ -117,5 +117,5 @@ function reportFor(entry: QualityEntry, columns: string[]): QualityReport {
 }
 
 export function qualityCaveatsFor(sq: SubQuestion, report: QualityReport, ws: Workspace, now: Date): Caveat[] {
-  return qualityCaveats(report, columnsUsed(sq, ws), { now, staleAfterDays: STALE_AFTER_DAYS });
+  return qualityCaveats(report, columnsUsed(sq, ws), { now, staleAfterDays: STALE_AFTER_DAYS, ...(ws.coverage.stamps ? { stamps: ws.coverage.stamps } : {}) });
 }

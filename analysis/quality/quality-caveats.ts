@@ -1,7 +1,9 @@
 // Chooses the data-quality caveats an answer carries from the report: missing values and
 // negative amounts only in the columns the answer used; repeated keys always, since a repeated
 // row inflates every count and sum; stale data when the latest date is older than allowed.
-import { parseIsoDate, toIsoDate } from '../periods.js';
+import { finestGrain } from '../grains.js';
+import { addDays, nextPeriod, parseIsoDate, periodStart, toIsoDate } from '../periods.js';
+import type { StampGranularity } from '../stamps.js';
 import type { Caveat } from '../types.js';
 import type { QualityReport } from './quality-checks.js';
 
@@ -12,6 +14,8 @@ export interface QualityCaveatOptions {
   now: Date;
   /** Data whose latest date is more than this many days before `now` is flagged as stale. */
   staleAfterDays: number;
+  /** How often the data is stamped: data stamped monthly is as fresh as the end of its last month, and said as that month. */
+  stamps?: StampGranularity;
 }
 
 export function qualityCaveats(report: QualityReport, columnsUsed: string[], opts: QualityCaveatOptions): Caveat[] {
@@ -30,9 +34,12 @@ export function qualityCaveats(report: QualityReport, columnsUsed: string[], opt
   for (const n of report.negatives) {
     if (used.has(n.column) && n.count > 0) caveats.push({ code: 'negative_amounts', data: { count: n.count, column: n.column } });
   }
-  const days = daysSince(report.lastDate, opts.now);
+  const grain = finestGrain(opts.stamps);
+  // The last day the latest stamp stands for: 30 April for a monthly reading stamped 1 April.
+  const lastCovered = report.lastDate !== null && grain !== 'day' ? addDays(nextPeriod(periodStart(report.lastDate, grain), grain), -1) : report.lastDate;
+  const days = daysSince(lastCovered, opts.now);
   if (report.lastDate !== null && days !== null && days > opts.staleAfterDays) {
-    caveats.push({ code: 'stale_data', data: { lastDate: report.lastDate, days } });
+    caveats.push({ code: 'stale_data', data: { lastDate: report.lastDate, days, ...(grain !== 'day' ? { grain } : {}) } });
   }
   return caveats;
 }

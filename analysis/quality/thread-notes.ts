@@ -5,14 +5,21 @@ import type { Coverage } from '../coverage.js';
 import { caveatNote } from '../captions/caveat-text.js';
 import { formatPeriod } from '../format.js';
 import { addDays, nextPeriod, periodStart } from '../periods.js';
-import type { Caveat, SubQuestion } from '../types.js';
+import { countOf } from '../captions/grammar.js';
+import type { Caveat, Grain, SubQuestion } from '../types.js';
 import type { Workspace } from '../workspace.js';
 import { qualityCaveatsFor } from './check-run.js';
 import type { QualityReport } from './quality-checks.js';
 
-/** True when the caveat is about the data as a whole, not about this answer. */
-export function isThreadWide(c: Caveat, coverage: Coverage): boolean {
+/**
+ * True when the caveat is about the data as a whole, not about this answer. Months with no data in
+ * an unfiltered measure are the measure's, the same under each of its answers: said once, in the
+ * summary, with the measure named (measureNotes).
+ */
+export function isThreadWide(c: Caveat, coverage: Coverage, sq?: Pick<SubQuestion, 'filters' | 'comparisonGroup'>): boolean {
   switch (c.code) {
+    case 'series_gap':
+      return sq !== undefined && sq.filters.length === 0 && !sq.comparisonGroup;
     case 'stale_data':
     case 'duplicate_keys':
       return true;
@@ -29,8 +36,25 @@ export function isThreadWide(c: Caveat, coverage: Coverage): boolean {
 }
 
 /** The caveats an answer's post carries: those that change that answer, with many unusual periods said as one. */
-export function answerCaveats(caveats: readonly Caveat[], coverage: Coverage): Caveat[] {
-  return summariseOutliers(caveats.filter((c) => !isThreadWide(c, coverage)));
+export function answerCaveats(caveats: readonly Caveat[], coverage: Coverage, sq?: Pick<SubQuestion, 'filters' | 'comparisonGroup'>): Caveat[] {
+  return summariseOutliers(caveats.filter((c) => !isThreadWide(c, coverage, sq)));
+}
+
+/**
+ * The notes about a measure's own data an answer leaves to the summary (months with no data at
+ * all), each with the measure named, since another measure of the thread may have none:
+ * "CO2 has no data for 5 months, the first June 1958."
+ */
+export function measureNotes(caveats: readonly Caveat[], coverage: Coverage, sq: Pick<SubQuestion, 'filters' | 'comparisonGroup'>, labelOf: (metric: string) => string, locale: string): string[] {
+  return caveats
+    .filter((c) => c.code === 'series_gap' && isThreadWide(c, coverage, sq))
+    .map((c) => {
+      const grain = (typeof c.data.grain === 'string' ? c.data.grain : 'month') as Grain;
+      const n = Number(c.data.periods);
+      const first = typeof c.data.firstGap === 'string' ? formatPeriod(c.data.firstGap, grain, locale, 'long') : null;
+      const what = typeof c.data.metric === 'string' ? labelOf(c.data.metric) : 'The measure';
+      return `${what} has no data for ${countOf(n, grain)}${n > 1 && first ? `, the first ${first}` : first ? `: ${first}` : ''}; ${n === 1 ? 'it is' : 'they are'} left blank, not counted as zero.`;
+    });
 }
 
 /** Past this many unusual periods, one note counts them and names the most extreme few. */

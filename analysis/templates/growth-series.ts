@@ -16,7 +16,8 @@ import type {
   GrowthYearsFinding,
   GrowthYtdFinding,
 } from '../findings/growth.js';
-import { addDays, nextPeriod, periodsBetween, periodsPerYear, sameIsoWeekLastYear } from '../periods.js';
+import { addDays, nextPeriod, periodStart, periodsBetween, periodsPerYear, sameIsoWeekLastYear } from '../periods.js';
+import { finestGrain } from '../grains.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import { cagr, periodOverPeriod, relativeChange, senSlope, slopesByDecade, trailingSumGrowth, yearOverYear } from '../stats/index.js';
 import type { Caveat, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
@@ -115,6 +116,10 @@ export function readGrowthSeries(
   const caveats: Caveat[] = [];
   if (table.truncated) caveats.push({ code: 'truncated', data: { rows: table.rows.length } });
   const rows = splitRows(table);
+  // A stamp stands for its whole period: monthly readings stamped 1 April run to 30 April, so the
+  // year so far ends there (and a December stamp ends the year).
+  const stamp = finestGrain(coverage.stamps);
+  if (rows.through !== null && stamp !== 'day') rows.through = addDays(nextPeriod(periodStart(rows.through, stamp), stamp), -1);
   if (coverage.firstDate === null || coverage.lastDate === null || rows.periods.size === 0) {
     return { findings: [], caveats: [...caveats, { code: 'no_data', data: { start: sq.window.start, end: sq.window.end } }] };
   }

@@ -1,7 +1,7 @@
 // Short replies read with the same recognisers as a request: an answer to a question the bot
 // asked ("bookings", "weekly", "since March 2024", "by Friday"), a correction to the brief card,
 // a plan edit. A phrase that works in a request works here, and the other way round.
-import type { Coverage } from '../../analysis/coverage.js';
+import { type Coverage, dataEnd } from '../../analysis/coverage.js';
 import { addDays } from '../../analysis/periods.js';
 import type { DateWindow } from '../../analysis/types.js';
 import { isValidDate } from './calendar.js';
@@ -12,10 +12,10 @@ import { isoDateIn } from './time-zone.js';
 
 export type Reading<T> = { ok: true; value: T } | { ok: false; message: string };
 
-/** All the data there is: its first day to the day after its last. */
+/** All the data there is: its first day to the end of its last stamp (the day after a daily stamp, the month after a monthly one). */
 export function fullWindow(coverage: Coverage): DateWindow | null {
   if (!coverage.firstDate || !coverage.lastDate) return null;
-  return { start: coverage.firstDate, end: addDays(coverage.lastDate, 1) };
+  return { start: coverage.firstDate, end: dataEnd({ lastDate: coverage.lastDate, ...(coverage.stamps ? { stamps: coverage.stamps } : {}) }) };
 }
 
 const ALL = /^\s*(?:all|all data|all (?:the )?history|everything|all available data|the whole (?:history|period)|all time|full history|no limit)\s*[.!]?\s*$/i;
