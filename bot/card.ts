@@ -3,6 +3,7 @@
 // from the brief (each slot with the words it was read from, or its default and why) and the plan;
 // every platform shows its text, and those that can add a control per topic whose value is a
 // correction read by the same reader as typed words.
+import { inSentence, listJoin, verbFor } from '../analysis/captions/grammar.js';
 import type { Coverage } from '../analysis/coverage.js';
 import { finestGrain, grainAdjective, isFinerGrain } from '../analysis/grains.js';
 import { addDays } from '../analysis/periods.js';
@@ -208,9 +209,12 @@ function periodChoices(coverage: Coverage): CardChoice[] {
 
 /** A question in plain words: what, of which measure, over which period. */
 function restate(q: Question, ds: DatasetConfig, ctx: CardContext): string {
-  const m = q.metrics.map((x) => (ds.metrics.find((y) => y.name === x)?.label ?? x).toLowerCase());
-  const what = m.length > 0 ? m.join(' and ') : ctx.defaults.metric ? `${(ds.metrics.find((y) => y.name === ctx.defaults.metric!.value)?.label ?? '').toLowerCase()} (assumed)` : 'a measure still to choose';
-  const dims = q.dimensions.map((d) => (ds.dimensions.find((x) => x.name === d)?.label ?? d).toLowerCase());
+  const m = q.metrics.map((x) => inSentence(ds.metrics.find((y) => y.name === x)?.label ?? x));
+  const assumed = ctx.defaults.metric ? inSentence(ds.metrics.find((y) => y.name === ctx.defaults.metric!.value)?.label ?? '') : '';
+  const what = m.length > 0 ? listJoin(m) : assumed ? `${assumed} (assumed)` : 'a measure still to choose';
+  // "bookings are", "revenue is"; two measures together are plural.
+  const is = m.length > 1 ? 'are' : verbFor(m[0] ?? assumed);
+  const dims = q.dimensions.map((d) => inSentence(ds.dimensions.find((x) => x.name === d)?.label ?? d));
   const by = dims.length > 0 ? ` by ${dims.join(' and ')}` : '';
   const only = q.filters.length > 0 ? ` (${q.filters.map((f) => `${f.exclude ? 'not ' : ''}${f.values.join(' or ')}`).join('; ')})` : '';
   const w = q.window ? describeWindow(q.window, ctx.coverage, ctx.locale) : '';
@@ -219,16 +223,16 @@ function restate(q: Question, ds: DatasetConfig, ctx: CardContext): string {
   if (q.contrast && q.kind !== 'performance') return `How ${q.contrast.values.join(' and ')} compare in ${what}${w ? `, ${w}` : ''}.`;
   switch (q.kind) {
     case 'growth':
-      return q.compareWindow ? `How ${what}${only} changed${by}: ${w} against ${describeWindow(q.compareWindow, ctx.coverage, ctx.locale)}.` : `How fast ${what}${only} is growing${by}${w ? `, ${w}` : ''}.`;
+      return q.compareWindow ? `How ${what}${only} changed${by}: ${w} against ${describeWindow(q.compareWindow, ctx.coverage, ctx.locale)}.` : `How fast ${what}${only} ${is} growing${by}${w ? `, ${w}` : ''}.`;
     case 'kpi':
-      return `Where ${what}${only} stands${by}${w ? ` in ${w}` : ' in the latest complete period'}.`;
+      return `Where ${what}${only} ${is === 'are' ? 'stand' : 'stands'}${by}${w ? ` in ${w}` : ' in the latest complete period'}.`;
     case 'performance':
-      if (group) return `${cap(what)}: ${group.members_label.toLowerCase()} against ${group.others_label.toLowerCase()}${q.frequency ? ' (how often each customer books)' : ''}${q.launchDate ? `, since ${longDate(q.launchDate, ctx.locale)}` : ''}.`;
+      if (group) return `${cap(what)}: ${inSentence(group.members_label)} against ${inSentence(group.others_label)}${q.frequency ? ' (how often each customer books)' : ''}${q.launchDate ? `, since ${longDate(q.launchDate, ctx.locale)}` : ''}.`;
       return `${cap(what)} before and after ${q.launchDate ? longDate(q.launchDate, ctx.locale) : 'the change'}.`;
     default:
       // A question about when things peak keeps that detail, so it is not folded into "how it moved".
-      if (SEASON_ASK.test(q.text) || /\bseason/i.test(q.text)) return `When in the year ${what}${only} is highest and lowest${by}${w ? `, ${w}` : ''}.`;
-      if (WEEKDAY_ASK.test(q.text)) return `Which days of the week ${what}${only} is highest and lowest on${by}${w ? `, ${w}` : ''}.`;
+      if (SEASON_ASK.test(q.text) || /\bseason/i.test(q.text)) return `When in the year ${what}${only} ${is} highest and lowest${by}${w ? `, ${w}` : ''}.`;
+      if (WEEKDAY_ASK.test(q.text)) return `Which days of the week ${what}${only} ${is} highest and lowest on${by}${w ? `, ${w}` : ''}.`;
       return `How ${what}${only} moved${by}${w ? `, ${w}` : ' over time'}.`;
   }
 }

@@ -10,5 +10,5 @@ export const growthSeriesSubQuestion = defineSubQuestion({
   rollup: {},
   template: growthSeriesTemplate,
   present: presentGrowthSeries,
-  describe: (w) => `How fast ${w.metric} is growing: ${w.grain} change on the previous period and on the same period last year.`,
+  describe: (w) => `How fast ${w.metric} ${w.is} growing: ${w.grain} change on the previous period and on the same period last year.`,
 });

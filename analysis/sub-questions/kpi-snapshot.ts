@@ -10,5 +10,5 @@ export const kpiSnapshotSubQuestion = defineSubQuestion({
   rollup: {},
   template: kpiSnapshotTemplate,
   present: presentKpiSnapshot,
-  describe: (w, sq) => `Where ${w.metric} stands in the latest complete ${sq.grain}, against the ${sq.grain} before and a year earlier.`,
+  describe: (w, sq) => `Where ${w.metric} ${w.is === 'are' ? 'stand' : 'stands'} in the latest complete ${sq.grain}, against the ${sq.grain} before and a year earlier.`,
 });

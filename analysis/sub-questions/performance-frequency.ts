@@ -9,5 +9,5 @@ export const performanceFrequencySubQuestion = defineSubQuestion({
   lens: 'distribution',
   template: performanceFrequencyTemplate,
   present: presentPerformanceFrequency,
-  describe: (w) => `How often ${w.vs} book (${w.span}): bookings per customer.`,
+  describe: (w) => `How many ${w.metric} each ${w.unit} has: ${w.vs} (${w.span}).`,
 });

@@ -22,6 +22,12 @@ export interface PlanWords {
   groupLabel: string;
   /** What the window is compared with: "a year earlier", or the period the request named. */
   base: string;
+  /** Every metric adds up over time (bookings, revenue): its highs and lows read as busy and quiet; a reading or a rate's as high and low. */
+  flow: boolean;
+  /** The verb agreeing with the measures: "bookings are", "revenue is". */
+  is: 'is' | 'are';
+  /** What one unit of the comparison group is called ("customer"; "unit" without a distinct count of it). */
+  unit: string;
 }
 
 
@@ -29,13 +35,16 @@ export function planWords(sq: SubQuestion, ds: DatasetConfig, locale: string): P
   const label = (m: string) => ds.metrics.find((x) => x.name === m)?.label ?? m;
   const group = ds.comparison_groups.find((g) => g.name === sq.comparisonGroup);
   return {
-    metric: listJoin(sq.metrics.map(label)).toLowerCase(),
-    dim: (sq.dimension ? ds.dimensions.find((d) => d.name === sq.dimension)?.label ?? sq.dimension : '').toLowerCase(),
+    metric: listJoin(sq.metrics.map((m) => inSentence(label(m)))),
+    dim: inSentence(sq.dimension ? ds.dimensions.find((d) => d.name === sq.dimension)?.label ?? sq.dimension : ''),
     span: spanWords(sq, locale),
     grain: grainAdjective(sq.grain),
-    vs: group ? `${group.members_label.toLowerCase()} vs ${group.others_label.toLowerCase()}` : '',
+    vs: group ? `${inSentence(group.members_label)} vs ${inSentence(group.others_label)}` : '',
     groupLabel: group?.label ?? '',
     base: sq.compareWindow ? describeWindow(sq.compareWindow, { firstDate: null, lastDate: null, rows: 0 }, locale) : 'a year earlier',
+    is: sq.metrics.length > 1 ? 'are' : (verbFor(label(sq.metrics[0] ?? '')) as 'is' | 'are'),
+    unit: group ? unitNoun(ds, group).singular : 'unit',
+    flow: sq.metrics.every((m) => { const metric = ds.metrics.find((x) => x.name === m); return !metric || quantityKind(metric) === 'flow'; }),
   };
 }
 
@@ -46,7 +55,9 @@ function spanWords(sq: SubQuestion, locale: string): string {
   return describeWindow(w, { firstDate: null, lastDate: null, rows: 0 }, locale);
 }
 
-import { capitalise, listJoin } from '../captions/grammar.js';
+import { capitalise, inSentence, listJoin, verbFor } from '../captions/grammar.js';
+import { unitNoun } from '../captions/performance-words.js';
+import { quantityKind } from '../catalog.js';
 export { capitalise };
 
 /** A window a year-earlier comparison would overlap. */

@@ -10,5 +10,5 @@ export const trendSeasonalitySubQuestion = defineSubQuestion({
   rollup: {},
   template: trendSeasonalityTemplate,
   present: presentTrendSeasonality,
-  describe: (w) => `Which calendar months are busiest and quietest for ${w.metric}, and how consistently across years.`,
+  describe: (w) => `Which calendar months ${w.flow ? 'are busiest and quietest' : 'run highest and lowest'} for ${w.metric}, and how consistently across years.`,
 });

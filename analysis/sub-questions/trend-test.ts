@@ -11,5 +11,5 @@ export const trendTestSubQuestion = defineSubQuestion({
   template: trendTestTemplate,
   present: presentTrendTest,
   drawsSeriesLine: true,
-  describe: (w) => `Is ${w.metric} trending up or down (${w.span})? Direction, strength and the change since the peak.`,
+  describe: (w) => `${w.is === 'are' ? 'Are' : 'Is'} ${w.metric} trending up or down (${w.span})? Direction, strength and the change since the peak.`,
 });

@@ -1141,7 +1141,7 @@ function recordEvidence(brief: Brief, st: ReadState): void {
   ev.dataset = { words: '', how: 'inferred', value: st.ds.name, reason: 'the dataset this channel uses' };
   if (q.length > 0) ev.kinds = { words: q.map((x) => x.text).join(' | '), how: 'inferred' };
   const metricWords = q.filter((x) => x.metrics.length > 0).map((x) => x.metrics.join(', '));
-  if (brief.metrics.length > 0) ev.metrics = { words: metricWords.join('; '), how: 'stated' };
+  if (brief.metrics.length > 0) ev.metrics = { words: [...new Set(metricWords)].join('; '), how: 'stated' };
   if (brief.dimensions.length > 0) ev.dimensions = { words: brief.dimensions.join(', '), how: 'stated' };
   const filters = q.flatMap((x) => x.filters);
   if (filters.length > 0) ev.filters = { words: filters.map((f) => f.values.join(', ')).join('; '), how: 'stated' };

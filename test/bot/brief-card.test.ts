@@ -92,6 +92,14 @@ describe('the brief card', () => {
     expect(card).toMatch(/^2\. When in the year revenue is highest and lowest\.$/m);
   }, 240_000);
 
+  it('makes the verb agree with a plural measure: "bookings are", never "bookings is"', async () => {
+    const { thread } = await converse('How fast are bookings growing, and when in the year are they busiest?', '');
+    const card = cards(thread)[0]!.text;
+    expect(card).toMatch(/^1\. How fast bookings are growing\.$/m);
+    expect(card).toMatch(/^2\. When in the year bookings are highest and lowest\.$/m);
+    expect(card).not.toMatch(/bookings (?:is|stands|has)\b/);
+  }, 240_000);
+
   it('says back a reply it cannot read as a change, and keeps the card as it was', async () => {
     const { end, thread } = await converse('monthly passengers trend', 'plan: ["make it sparkle", "go"]\n');
     expect(end).toBe('done');
