@@ -12,6 +12,7 @@ import { tableToCsv } from '../analysis/table-csv.js';
 import type { Answer, Audience } from '../analysis/types.js';
 import type { Workspace } from '../analysis/workspace.js';
 import type { AnswerPresenter, DigestChart, SummaryPresenter } from './presenters.js';
+import { firstClause } from '../analysis/captions/grammar.js';
 import { askedDirection, verdictLine, wantsVerdict } from '../analysis/captions/verdict-words.js';
 import type { OutgoingFile } from './port.js';
 
@@ -69,19 +70,24 @@ export const presentSummary: SummaryPresenter = async (takeaways, { workspace, f
   const verdictFirst = askedDirection(requestText) !== null || ((wantsVerdict(requestText) || namedComparison) && !takeaways.some((t) => t.leads));
   const settled = verdictFirst ? [...takeaways].sort((a, b) => a.position - b.position).find((t) => t.verdict) : undefined;
   const verdict = settled ? { text: verdictLine(requestText, settled.verdict!), position: settled.position } : null;
-  const lines = [...(verdict ? [verdict] : []), ...top].map((t) => `- ${t.text} (see ${t.position})`);
+  // A scope every line shares is said once, in the heading; otherwise each line leads with its own.
+  const scopes = new Set(top.map((t) => t.scope ?? ''));
+  const shared = scopes.size === 1 ? [...scopes][0]! : '';
+  const scoped = (t: { text: string; scope?: string }) => (t.scope && !shared ? `Filtered to ${t.scope}. ${t.text}` : t.text);
+  const lines = [...(verdict ? [verdict] : []), ...top].map((t) => `- ${scoped(t)} (see ${t.position})`);
   const failed = failures > 0 ? `\n${failures} ${failures === 1 ? 'question' : 'questions'} could not be answered; see the messages above.` : '';
   if (top.length === 0) return { text: `*Summary*\nNo question could be answered; see the messages above.` };
   const notes = [...new Set([...threadNotes(items ?? [], quality, workspace, now ?? new Date(), workspace.config.charts.locale), ...takeaways.flatMap((t) => t.dataNotes ?? [])])];
   const about = notes.length ? `\n*About the data* (applies to every answer above)\n${notes.map((n) => `- ${n}`).join('\n')}` : '';
-  const text = `*Summary*\n${lines.join('\n')}${failed}${about}\nEach answer above has its table (CSV) and the SQL that produced it attached; the digest below puts the key charts and takeaways on one page for forwarding. These are descriptive figures from ${workspace.dataset.label}; comparisons between groups are observational, and your organisation's data-governance rules apply before sharing further.`;
+  const text = `*Summary*${shared ? ` (filtered to ${shared})` : ''}\n${lines.join('\n')}${failed}${about}\nEach answer above has its table (CSV) and the SQL that produced it attached; the digest below puts the key charts and takeaways on one page for forwarding. These are descriptive figures from ${workspace.dataset.label}; comparisons between groups are observational, and your organisation's data-governance rules apply before sharing further.`;
   const asOf = workspace.coverage.lastDate ? formatPeriod(workspace.coverage.lastDate, 'day', workspace.config.charts.locale) : 'n/a';
   // The digest is titled with a finding: the verdict, else the first takeaway; the rest are listed under it.
   const [headline, ...rest] = verdict ? [verdict, ...top] : top;
   const digest = await timePhase(timings, 'render', () => renderDigest({
-    title: headline!.text.replace(/\.$/, ''),
-    subtitle: `${workspace.dataset.label}, answering: "${requestText.length > 120 ? `${requestText.slice(0, 117)}...` : requestText}"`,
-    takeaways: rest.map((t) => ({ text: t.text })),
+    // The finding's first clause: a headline, not a paragraph cut at the width.
+    title: firstClause(headline!.text).replace(/\.$/, ''),
+    subtitle: `${workspace.dataset.label}${shared ? ` (filtered to ${shared})` : ''}, answering: "${requestText.length > 120 ? `${requestText.slice(0, 117)}...` : requestText}"`,
+    takeaways: rest.map((t) => ({ text: scoped(t) })),
     charts: distinctCharts(top, charts),
     footer: `Source: ${workspace.dataset.label} · Data as of ${asOf} · Observational figures; follow your organisation's data-governance rules`,
   }));

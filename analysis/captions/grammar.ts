@@ -1,6 +1,7 @@
 // The small grammar every caption, title and note uses, in one place: plurals, counts with
 // their noun, possessives, lists, and labels inside a sentence. English only, as the captions are.
-import { formatValue } from '../format.js';
+import { formatPeriod, formatValue } from '../format.js';
+import type { Grain } from '../types.js';
 
 /** Upper-cases the first letter. */
 export function capitalise(text: string): string {
@@ -14,8 +15,17 @@ export function inSentence(label: string): string {
   return label[0]!.toLowerCase() + label.slice(1);
 }
 
-/** A plain English plural: "route" → "routes", "fare class" → "fare classes", "category" → "categories". */
+// Nouns whose plural is the same word ("species", "aircraft"), and ones already plural.
+const SAME_PLURAL = /(?:^|\s)(?:species|series|aircraft|sheep|deer|fish|data|news|means|staff|equipment|information|people|children)$/i;
+
+/**
+ * A plain English plural: "route" → "routes", "fare class" → "fare classes", "category" →
+ * "categories", "phase of flight" → "phases of flight", "species" → "species".
+ */
 export function pluralNoun(noun: string): string {
+  const of = /^(.+?)(\s+(?:of|per|in|for|by)\s+.+)$/i.exec(noun);
+  if (of) return `${pluralNoun(of[1]!)}${of[2]}`;
+  if (SAME_PLURAL.test(noun)) return noun;
   if (/(s|x|z|ch|sh)$/i.test(noun)) return `${noun}es`;
   if (/[^aeiou]y$/i.test(noun)) return `${noun.slice(0, -1)}ies`;
   return `${noun}s`;
@@ -63,6 +73,23 @@ export function possessive(name: string): string {
 export function firstSentence(text: string): string {
   const end = /\.\s/.exec(text);
   return end ? text.slice(0, end.index + 1) : text;
+}
+
+/** A period with the preposition it takes: "on 25 February 2001", "in the week commencing 5 March 2001", "in March 2001". */
+export function inPeriod(iso: string, grain: Grain, locale: string): string {
+  return `${grain === 'day' ? 'on' : grain === 'week' ? 'in the' : 'in'} ${formatPeriod(iso, grain, locale, 'long')}`;
+}
+
+/** A sentence's first clause, up to a semicolon outside brackets: a headline, not a paragraph. */
+export function firstClause(text: string): string {
+  let depth = 0;
+  for (let i = 0; i < text.length; i++) {
+    const c = text[i]!;
+    if (c === '(') depth++;
+    else if (c === ')') depth = Math.max(0, depth - 1);
+    else if (c === ';' && depth === 0) return text.slice(0, i);
+  }
+  return text;
 }
 
 /** "a", "a and b", "a, b and c". */

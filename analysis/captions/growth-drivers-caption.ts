@@ -1,5 +1,6 @@
 // Title and caption for a growth_drivers answer: the total's change between the two spans and the
 // segments that moved it most, written only from the finding.
+import { metricDirection } from '../catalog.js';
 import { verbFor } from './grammar.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { ChangedSegment, GrowthDriverSegment, GrowthDriversFinding } from '../findings/growth.js';
@@ -158,7 +159,7 @@ export function spansVerdict(metric: Metric, f: GrowthDriversFinding, locale: st
     base = `${spanText(prior, locale)} (${spanText(current, locale)}; ${values})`;
   }
   const where = direction === 'level' ? `level with ${base.replace(/ \(/, ` (${formatChange(rel, locale)}, `)}` : `${unsignedPercent(rel, locale)} ${direction === 'up' ? 'above' : 'below'} ${base}`;
-  return { direction, statement: wholeYears(current) ? `${label} in ${spanText(current, locale)} ${verbFor(label, 'was')} ${where}` : `${label} ${verbFor(label)} ${where}` };
+  return { direction, higherIsBetter: metricDirection(metric), statement: wholeYears(current) ? `${label} in ${spanText(current, locale)} ${verbFor(label, 'was')} ${where}` : `${label} ${verbFor(label)} ${where}` };
 }
 
 /**

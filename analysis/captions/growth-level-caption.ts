@@ -1,6 +1,7 @@
 // Title and caption for a level's growth_series answer (a reading such as a concentration): its
 // change is told in the metric's own units (a year on the year before, a year's rate by Sen's
 // slope, decade by decade), never as a compound percentage. Written only from findings.
+import { metricDirection } from '../catalog.js';
 import type { Metric } from '../../config/schema.js';
 import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import type { Audience, Grain } from '../types.js';
@@ -68,11 +69,11 @@ export function levelGrowthVerdict(metric: Metric, f: GrowthSeriesFindings, loca
   const direction = (x: number) => (/^[^1-9]*$/.test(formatValue(x, fmt, { compact: true })) ? 'level' : x > 0 ? 'up' : 'down');
   const label = lower(metric.label);
   if (f.ytd && f.ytd.absolute !== null) {
-    return { direction: direction(f.ytd.absolute), statement: `${label} so far in ${yearText(f.ytd.current.year, locale)} is ${d(f.ytd.absolute)} on the same dates of ${yearText(f.ytd.prior.year, locale)}` };
+    return { direction: direction(f.ytd.absolute), higherIsBetter: metricDirection(metric), statement: `${label} so far in ${yearText(f.ytd.current.year, locale)} is ${d(f.ytd.absolute)} on the same dates of ${yearText(f.ytd.prior.year, locale)}` };
   }
   const complete = (f.years?.years ?? []).filter((y) => y.complete && y.value !== null);
   const [prev, last] = complete.slice(-2);
   if (!prev || !last || Number(last.year.slice(0, 4)) - Number(prev.year.slice(0, 4)) !== 1) return null;
   const change = last.value! - prev.value!;
-  return { direction: direction(change), statement: `${label} in ${yearText(last.year, locale)} was ${d(change)} on ${yearText(prev.year, locale)}` };
+  return { direction: direction(change), higherIsBetter: metricDirection(metric), statement: `${label} in ${yearText(last.year, locale)} was ${d(change)} on ${yearText(prev.year, locale)}` };
 }

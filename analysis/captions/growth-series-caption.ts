@@ -11,7 +11,7 @@ import type {
   GrowthYearsFinding,
   GrowthYtdFinding,
 } from '../findings/growth.js';
-import { changesInUnits } from '../catalog.js';
+import { changesInUnits, metricDirection } from '../catalog.js';
 import { formatChange, formatDayOfYear, formatPeriod } from '../format.js';
 import { levelGrowthVerdict, levelGrowthWords } from './growth-level-caption.js';
 import type { Verdict, VerdictDirection } from './verdict-words.js';
@@ -176,7 +176,7 @@ export function growthVerdict(metric: Metric, f: GrowthSeriesFindings, locale: s
       direction === 'level'
         ? `level with last year so far (${formatChange(ytd.relative, locale)}, ${span})`
         : `${unsignedPercent(ytd.relative!, locale)} ${direction === 'up' ? 'above' : 'below'} last year so far (${span})`;
-    return { direction, statement: `${label} ${verbFor(label)} ${where}` };
+    return { direction, higherIsBetter: metricDirection(metric), statement: `${label} ${verbFor(label)} ${where}` };
   }
   const year = (f.years?.years ?? []).filter((y) => y.yoy !== null).at(-1);
   if (year) {
@@ -186,7 +186,7 @@ export function growthVerdict(metric: Metric, f: GrowthSeriesFindings, locale: s
       direction === 'level'
         ? `level with ${prior} (${formatChange(year.yoy, locale)})`
         : `${unsignedPercent(year.yoy!, locale)} ${direction === 'up' ? 'above' : 'below'} ${prior}`;
-    return { direction, statement: `${label} in ${yearText(year.year, locale)} ${verbFor(label, 'was')} ${where}` };
+    return { direction, higherIsBetter: metricDirection(metric), statement: `${label} in ${yearText(year.year, locale)} ${verbFor(label, 'was')} ${where}` };
   }
   return null;
 }

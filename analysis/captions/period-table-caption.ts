@@ -5,7 +5,7 @@ import { metricByName } from '../catalog.js';
 import type { ChangeBasis, PeriodTableColumn, PeriodTableFinding, TableLatestFinding, TableQuotientFinding } from '../findings/table.js';
 import { formatChange, formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import type { Finding, Grain } from '../types.js';
-import { capitalise, inSentence, listJoin } from './grammar.js';
+import { capitalise, inPeriod, inSentence, listJoin } from './grammar.js';
 import { formatPoints } from './growth-words.js';
 
 export type ChangeDirection = 'up' | 'down' | 'flat' | 'none';
@@ -43,10 +43,6 @@ function period(iso: string, grain: Grain, locale: string): string {
 }
 
 /** "in July 2024", "in the week commencing 8 July 2024", "on 8 July 2024". */
-function inPeriod(iso: string, grain: Grain, locale: string): string {
-  return `${grain === 'day' ? 'on' : grain === 'week' ? 'in the' : 'in'} ${period(iso, grain, locale)}`;
-}
-
 /** A metric label in mid-sentence, with "the" before a ratio ("the average fare per booking", "the refund rate"). */
 function named(metric: Metric, col: PeriodTableColumn | undefined): string {
   return col?.kind === 'ratio' ? `the ${inSentence(metric.label)}` : inSentence(metric.label);

@@ -9,36 +9,58 @@ export type VerdictDirection = 'up' | 'down' | 'level';
 
 export interface Verdict {
   direction: VerdictDirection;
+  /** The metric's own direction (catalog metricDirection): whether "better" means up, down, or cannot be said (null). */
+  higherIsBetter: boolean | null;
   /** The finding as a clause, lower-case first: "revenue is 2.5% below last year so far (January to 18 June)". */
   statement: string;
 }
 
 // A question that can be answered yes or no starts with an auxiliary verb.
 const POLAR = /^(?:so\s+|and\s+|but\s+)?(?:is|are|was|were|did|do|does|has|have|had|will|would|can|could|are we|is our)\b/i;
-const UP = /\b(?:up|higher|above|more|grow\w*|grew|grown|ris(?:e|es|ing|en)|rose|increas\w*|beat\w*|ahead|better|improv\w*|gain\w*)\b/i;
-const DOWN = /\b(?:down|lower|below|less|fewer|fall\w*|fell|drop\w*|declin\w*|shr[iu]nk\w*|behind|worse|los(?:e|ing|t))\b/i;
+const UP = /\b(?:up|higher|above|more|grow\w*|grew|grown|ris(?:e|es|ing|en)|rose|increas\w*|gain\w*)\b/i;
+const DOWN = /\b(?:down|lower|below|less|fewer|fall\w*|fell|drop\w*|declin\w*|shr[iu]nk\w*)\b/i;
+// Words of judgement: which way they point depends on the metric (fewer delays are better).
+const BETTER = /\b(?:better|improv\w*|beat\w*|ahead|outperform\w*)\b/i;
+const WORSE = /\b(?:worse|worsen\w*|behind|los(?:e|ing|t)|deteriorat\w*)\b/i;
+
+/** What a yes-or-no question asks: a way for the figure to move, or a judgement the metric's direction settles. */
+export type AskedWay = 'up' | 'down' | 'better' | 'worse';
 
 /**
- * The direction a yes-or-no question asks about ("Is revenue up on last year?" → up), or null when
- * no sentence of the request is such a question, or it asks both ways ("up or down?").
+ * What a yes-or-no question asks about ("Is revenue up on last year?" → up; "Was March better
+ * for average delay?" → better), or null when no sentence of the request is such a question, or
+ * it asks both ways ("up or down?"). A plain direction word wins over a judgement word.
  */
-export function askedDirection(request: string): 'up' | 'down' | null {
+export function askedDirection(request: string): AskedWay | null {
   for (const sentence of request.split(/(?<=[?.!])\s+|\n+/)) {
     const s = sentence.trim();
     if (!POLAR.test(s)) continue;
     const up = UP.test(s);
     const down = DOWN.test(s);
     if (up !== down) return up ? 'up' : 'down';
+    if (up && down) return null;
+    const better = BETTER.test(s);
+    const worse = WORSE.test(s);
+    if (better !== worse) return better ? 'better' : 'worse';
     return null;
   }
   return null;
 }
 
-/** The verdict as the first line: "No: revenue is 2.5% below last year so far (January to 18 June)." */
+/**
+ * The verdict as the first line: "No: revenue is 2.5% below last year so far (January to 18 June)."
+ * "Better" is answered through the metric's direction; a metric with none gets the plain statement
+ * and a word on why there is no yes or no.
+ */
 export function verdictLine(request: string, verdict: Verdict): string {
   const asked = askedDirection(request);
   const sentence = `${verdict.statement.replace(/[.\s]+$/, '')}.`;
   if (asked === null) return capitalise(sentence);
+  if (asked === 'better' || asked === 'worse') {
+    if (verdict.higherIsBetter === null) return `${capitalise(sentence)} Whether that is better or worse is not set for this measure.`;
+    const up = (asked === 'better') === verdict.higherIsBetter;
+    return `${(up ? 'up' : 'down') === verdict.direction ? 'Yes' : 'No'}: ${sentence}`;
+  }
   return `${asked === verdict.direction ? 'Yes' : 'No'}: ${sentence}`;
 }
 

@@ -36,7 +36,10 @@ export function ellipsize(ctx: SKRSContext2D, text: string, maxWidth: number): s
     if (ctx.measureText(text.slice(0, mid).trimEnd() + ELLIPSIS).width <= maxWidth) lo = mid;
     else hi = mid - 1;
   }
-  return text.slice(0, lo).trimEnd() + ELLIPSIS;
+  // Cut between words, not inside one, unless that would drop most of the line.
+  const space = text.lastIndexOf(' ', lo);
+  const cut = lo < text.length && text[lo] !== ' ' && space > lo * 0.6 ? space : lo;
+  return text.slice(0, cut).trimEnd().replace(/[,;:]$/, '') + ELLIPSIS;
 }
 
 // No-break spaces (U+00A0, U+2007 figure space, U+202F narrow no-break space) join what they

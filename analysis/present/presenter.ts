@@ -24,6 +24,8 @@ export interface Takeaway {
   verdict?: Verdict;
   /** Notes about the measure's data as a whole that this answer left to the summary, said there once (thread-notes.ts). */
   dataNotes?: string[];
+  /** The answer's filters in words ("origin airport: LAX"), said once in the summary when every line shares them (scope-words.ts). */
+  scope?: string;
 }
 
 export interface Presented {

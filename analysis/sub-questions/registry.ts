@@ -1,7 +1,7 @@
 // Every sub-question, registered once. Its name, kind, lens, rollup needs, SQL, findings,
 // caption, chart and plan description come from its own declaration (one file beside this one);
 // the rest of the program looks them up here and nowhere else.
-import { scopedCaption, scopedTitle } from '../captions/scope-words.js';
+import { scopedCaption, scopedTitle, scopeText } from '../captions/scope-words.js';
 import type { Presenter } from '../present/presenter.js';
 import type { SubQuestion } from '../types.js';
 import type { SubQuestionDefinition } from './definition.js';
@@ -54,8 +54,9 @@ const REGISTERED = [
 export type TemplateName = (typeof REGISTERED)[number]['name'];
 
 /**
- * Every presenter's words carry the sub-question's filters: its title and takeaway name them and
- * its caption opens with them, so an answer about one segment never reads as one about all.
+ * Every presenter's words carry the sub-question's filters: its title names them, its caption
+ * opens with them and its takeaway keeps them beside its text (the summary says a scope every
+ * line shares once), so an answer about one segment never reads as one about all.
  */
 function scoped(present: Presenter): Presenter {
   return (answer, ctx) => {
@@ -65,7 +66,7 @@ function scoped(present: Presenter): Presenter {
     const title = scopedTitle(p.title, filters, ctx.dataset);
     // A verdict said first in the summary (and as the digest's title) names the scope too.
     const verdict = p.takeaway?.verdict ? { ...p.takeaway.verdict, statement: scopedTitle(p.takeaway.verdict.statement.replace(/[.\s]+$/, ''), filters, ctx.dataset) } : undefined;
-    const takeaway = p.takeaway ? { ...p.takeaway, text: scopedCaption(p.takeaway.text, filters, ctx.dataset), ...(verdict ? { verdict } : {}) } : null;
+    const takeaway = p.takeaway ? { ...p.takeaway, scope: scopeText(filters, ctx.dataset), ...(verdict ? { verdict } : {}) } : null;
     return { ...p, title, caption: scopedCaption(p.caption, filters, ctx.dataset), takeaway };
   };
 }

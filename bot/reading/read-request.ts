@@ -1140,7 +1140,9 @@ function recordEvidence(brief: Brief, st: ReadState): void {
   const q = brief.questions;
   ev.dataset = { words: '', how: 'inferred', value: st.ds.name, reason: 'the dataset this channel uses' };
   if (q.length > 0) ev.kinds = { words: q.map((x) => x.text).join(' | '), how: 'inferred' };
-  const metricWords = q.filter((x) => x.metrics.length > 0).map((x) => x.metrics.join(', '));
+  // The request's own words for its measures ("damage costs"), not the catalog's names.
+  const quoted = st.hits.filter((h) => h.entries.some((e) => e.kind === 'metric' && brief.metrics.includes(e.name))).map((h) => st.text.quote(h));
+  const metricWords = quoted.length > 0 ? quoted : q.filter((x) => x.metrics.length > 0).map((x) => x.metrics.join(', '));
   if (brief.metrics.length > 0) ev.metrics = { words: [...new Set(metricWords)].join('; '), how: 'stated' };
   if (brief.dimensions.length > 0) ev.dimensions = { words: brief.dimensions.join(', '), how: 'stated' };
   const filters = q.flatMap((x) => x.filters);

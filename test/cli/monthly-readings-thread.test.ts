@@ -57,7 +57,7 @@ describe('a thread on monthly readings', () => {
     expect(card).toContain('How fast CO2 is growing');
     expect(card).toContain('run highest and lowest for CO2');
     expect(card).not.toMatch(/busiest|quietest/);
-    expect(card).toContain('(from "co2")');
+    expect(card).toContain('(from "CO2")');
   });
 
   it('counts the last month as complete and the year so far to its end, with the means of the CSV', () => {

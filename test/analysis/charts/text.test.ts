@@ -39,4 +39,17 @@ describe('wrapText', () => {
     expect(lines[0]!.endsWith('…')).toBe(true);
     expect(ctx.measureText(lines[0]!).width).toBeLessThanOrEqual(60);
   });
+
+  it('cuts a too-long last line between words, not inside one', () => {
+    const ctx = context();
+    const text = 'Flights peaked in the week commencing 5 February 2001 at 6 and its lowest week was the week commencing 5 March 2001';
+    const lines = wrapText(ctx, text, 300, 2);
+    expect(lines).toHaveLength(2);
+    const last = lines[1]!;
+    expect(last.endsWith('…')).toBe(true);
+    // What is kept before the ellipsis ends a word of the text.
+    const kept = last.slice(0, -1).trim().split(' ').pop()!;
+    expect(text.split(' ')).toContain(kept);
+    expect(ctx.measureText(last).width).toBeLessThanOrEqual(300);
+  });
 });
