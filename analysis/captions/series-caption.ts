@@ -26,7 +26,7 @@ export function seriesWords(metric: Metric, grain: Grain, findings: Finding[], l
   const caption =
     peak.period === trough.period
       ? `${only}.`
-      : `${metric.label} peaked ${inPeriod(peak.period, grain, locale)} at ${value(peak)}; its lowest ${grainNoun(grain)} was ${when(trough)} at ${value(trough)}.`;
+      : `${metric.label} peaked ${inPeriod(peak.period, grain, locale)} at ${value(peak)}; its lowest ${grainNoun(grain)} was ${grain === 'week' ? 'the ' : ''}${when(trough)} at ${value(trough)}.`;
   return { title, caption };
 }
 

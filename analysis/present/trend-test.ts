@@ -1,5 +1,4 @@
 // Presenter for "trend_test": the series as a line with Sen's slope drawn as a trend line.
-import { firstSentence } from '../captions/grammar.js';
 import { trendTestWords } from '../captions/trend-test-caption.js';
 import { metricByName } from '../catalog.js';
 import type { TrendTestFinding } from '../findings/segments.js';
@@ -21,7 +20,7 @@ export const presentTrendTest: Presenter = (answer, ctx) => {
     caption: words.caption,
     notes: caveatNotes(answer, ctx),
     chart,
-    takeaway: test ? { importance: test.direction === 'none' || test.seasonUnresolved ? 40 : 60, text: firstSentence(words.caption) } : null,
+    takeaway: test ? { importance: test.direction === 'none' || test.seasonUnresolved ? 40 : 60, text: `${words.title}.` } : null,
   };
 };
 

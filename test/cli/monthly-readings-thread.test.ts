@@ -89,9 +89,9 @@ describe('a thread on monthly readings', () => {
     expect(summary).toMatch(new RegExp(`The latest data is for ${monthName(last)}, about \\d+ (?:years|months) ago`));
   });
 
-  it('keeps the summary line of the trend to its first sentence', () => {
+  it('keeps the summary line of the trend to its headline', () => {
     const summary = posts.find((p) => p.startsWith('*Summary*'))!;
-    const trendLine = summary.split('\n').find((l) => /rose by about/.test(l))!;
+    const trendLine = summary.split('\n').find((l) => /trend of about/.test(l))!;
     expect(trendLine).toBeDefined();
     expect(trendLine).not.toContain('Decade by decade');
   });
