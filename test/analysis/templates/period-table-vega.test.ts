@@ -176,7 +176,10 @@ describe('a brief naming two metrics by month, on vega-datasets weather', () => 
     const p = SUB_QUESTIONS.period_table.present(answer, { dataset: ws.dataset, locale: 'en-GB', audience: 'managers', chart: { width: 1200, height: 675, scale: 1 }, dataAsOf: ws.coverage.lastDate });
     const pages = [p.chart!, ...(p.moreCharts ?? [])];
     expect(pages).toHaveLength(3);
-    expect(p.takeaway!.text).toMatch(/^Filtered to city: New York\. Precipitation peaked in \w+ 20\d\d at [\d.,]+ on \d+ rainy days; in December 2015, against a year earlier, /);
+    // The takeaway keeps its scope beside it; the summary says it once for lines that share it.
+    expect(p.takeaway!.scope).toBe('city: New York');
+    expect(p.caption).toMatch(/^Filtered to city: New York\. /);
+    expect(p.takeaway!.text).toMatch(/^Precipitation peaked in \w+ 20\d\d at [\d.,]+ on \d+ rainy days; in December 2015, against a year earlier, /);
     expect(pages[0]!.subtitle).toMatch(/City: New York/);
     const png = await renderChart(pages[2]!);
     expect(png.subarray(1, 4).toString('ascii')).toBe('PNG');
