@@ -85,7 +85,9 @@ function zeroBaseProblems(values: number[], g: ChartGeometry): string[] {
 function barTitleProblems(spec: BarsSpec): string[] {
   const out: string[] = [];
   const aboutGrowth = /\b(?:grew|grow(?:ing|th)|fastest|slowest|shrank|held up best)\b/i.test(spec.title);
-  if (aboutGrowth && spec.format.unit !== 'percent') out.push(`title "${spec.title}" is about growth rates, the bars draw ${spec.format.unit} values`);
+  // Growth told in the metric's own units per period ("+0.3 min a week (trend)") is drawn in those units.
+  const inUnits = !spec.title.includes('%') && /\ba (?:day|week|month|quarter|year)\b/.test(spec.title);
+  if (aboutGrowth && !inUnits && spec.format.unit !== 'percent') out.push(`title "${spec.title}" is about growth rates, the bars draw ${spec.format.unit} values`);
   if (/\bfastest\b|\bheld up best\b/i.test(spec.title)) {
     const named = spec.bars.filter((b) => !b.other);
     const [first, second] = named;
