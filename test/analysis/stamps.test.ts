@@ -1,14 +1,12 @@
 // Stamp granularity read from the data. The public series are checked against what their
 // publishers say they are: vega-datasets' co2-concentration.csv is NOAA's Mauna Loa monthly mean
 // (one row per month, stamped on the 1st), seattle-weather.csv is one row per day (2012–2015).
-import { createRequire } from 'node:module';
-import { dirname, join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parseConfigText } from '../../config/load.js';
 import { openWorkspace } from '../../analysis/workspace.js';
 import { memoryWorkspace } from './templates/trend-memory-db.js';
+import { vegaDataFile } from '../helpers/open-data.js';
 
-const vegaData = join(dirname(dirname(createRequire(import.meta.url).resolve('vega-datasets'))), 'data');
 
 async function stampsOfCsv(file: string, timeColumn: string): Promise<string | undefined> {
   const config = parseConfigText(
@@ -16,7 +14,7 @@ async function stampsOfCsv(file: string, timeColumn: string): Promise<string | u
 datasets:
   - name: series
     label: Series
-    source: { kind: csv, paths: ["${join(vegaData, file)}"] }
+    source: { kind: csv, paths: ["${vegaDataFile(file)}"] }
     table: series
     time_column: ${timeColumn}
     timezone: UTC

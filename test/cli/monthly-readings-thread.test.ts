@@ -4,13 +4,13 @@
 // no reading are said once, in the summary; a reading's plan says "highest and lowest", not busy
 // and quiet. Every figure is checked against the CSV read here, not through DuckDB.
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
-import { dirname, join } from 'node:path';
+import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { runCli } from '../helpers/run-cli.js';
+import { vegaDataFile } from '../helpers/open-data.js';
 
-const csv = join(dirname(dirname(createRequire(import.meta.url).resolve('vega-datasets'))), 'data', 'co2-concentration.csv');
+const csv = vegaDataFile('co2-concentration.csv');
 const rows = readFileSync(csv, 'utf8').trim().split('\n').slice(1).map((l) => {
   const [date, co2] = l.split(',');
   return { month: date!.slice(0, 7), co2: Number(co2) };

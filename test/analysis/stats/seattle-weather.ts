@@ -1,8 +1,7 @@
 // Loads the public Seattle daily weather record shipped in the vega-datasets package (2012–2015).
 import { readFileSync } from 'node:fs';
-import { createRequire } from 'node:module';
-import { dirname, join } from 'node:path';
 import { parseConfigText, type LoadedConfig } from '../../../config/load.js';
+import { vegaDataFile } from '../../helpers/open-data.js';
 
 export interface WeatherDay {
   date: string;
@@ -13,13 +12,11 @@ export interface WeatherDay {
   weather: string;
 }
 
-const require = createRequire(import.meta.url);
+export const SEATTLE_WEATHER_CSV = vegaDataFile('seattle-weather.csv');
 
 /** Every row of data/seattle-weather.csv, parsed with a plain split (the file has no quoted fields). */
 export function loadSeattleWeather(): WeatherDay[] {
-  // The package's export map hides data/, so locate it from the resolved entry point's folder.
-  const root = dirname(dirname(require.resolve('vega-datasets')));
-  const text = readFileSync(join(root, 'data', 'seattle-weather.csv'), 'utf8');
+  const text = readFileSync(SEATTLE_WEATHER_CSV, 'utf8');
   const [header, ...lines] = text.trim().split('\n');
   if (header !== 'date,precipitation,temp_max,temp_min,wind,weather') throw new Error(`unexpected header: ${header}`);
   return lines.map((line) => {
@@ -58,8 +55,7 @@ export function monthly(days: readonly WeatherDay[]): { key: string; month: numb
 
 /** The CSV's rows as a PostgreSQL table `"schema".weather` (same columns, loaded in chunks of bound values). */
 export async function loadSeattleWeatherTable(client: { query(sql: string, values?: unknown[]): Promise<unknown> }, schema: string): Promise<void> {
-  const root = dirname(dirname(require.resolve('vega-datasets')));
-  const lines = readFileSync(join(root, 'data', 'seattle-weather.csv'), 'utf8').trim().split('\n').slice(1);
+  const lines = readFileSync(SEATTLE_WEATHER_CSV, 'utf8').trim().split('\n').slice(1);
   await client.query(`CREATE SCHEMA "${schema}"`);
   await client.query(`CREATE TABLE "${schema}".weather (date DATE, precipitation DOUBLE PRECISION, temp_max DOUBLE PRECISION, temp_min DOUBLE PRECISION, wind DOUBLE PRECISION, weather TEXT)`);
   const values = lines.map((l) => l.split(','));
@@ -69,24 +65,31 @@ export async function loadSeattleWeatherTable(client: { query(sql: string, value
   }
 }
 
-/** A catalog over the CSV file: a count of days, precipitation (a sum), temp_max (an average) and the weather as a dimension. */
-export function seattleWeatherConfig(): LoadedConfig {
-  const csv = join(dirname(dirname(require.resolve('vega-datasets'))), 'data', 'seattle-weather.csv');
+/** The default catalog: a count of days, precipitation (a sum), temp_max (an average) and the weather as a dimension. */
+const DEFAULT_CATALOG = `metrics:
+  - { name: days, label: Days, count: rows, unit: count, higher_is_better: true }
+  - { name: precipitation, label: Precipitation, sum: precipitation, unit: number, higher_is_better: true }
+  - { name: temp_max, label: Temp max, average: temp_max, unit: number, higher_is_better: true, kind: level }
+dimensions:
+  - { name: weather, label: Weather, column: weather }`;
+
+/**
+ * A config over the CSV file (dataset `weather`, stamped by `date`, UTC). `catalog` is the dataset's
+ * own YAML (metrics:, dimensions:, comparison_groups:) written at the left margin; each test declares
+ * the metrics it checks.
+ */
+export function seattleWeatherConfig(catalog: string = DEFAULT_CATALOG): LoadedConfig {
+  const indented = catalog.trim().split('\n').map((line) => `    ${line}`).join('\n');
   return parseConfigText(
     `version: 1
 datasets:
   - name: weather
     label: Seattle weather
-    source: { kind: csv, path: "${csv}" }
+    source: { kind: csv, path: "${SEATTLE_WEATHER_CSV}" }
     table: weather
     time_column: date
     timezone: UTC
-    metrics:
-      - { name: days, label: Days, count: rows, unit: count, higher_is_better: true }
-      - { name: precipitation, label: Precipitation, sum: precipitation, unit: number, higher_is_better: true }
-      - { name: temp_max, label: Temp max, average: temp_max, unit: number, higher_is_better: true, kind: level }
-    dimensions:
-      - { name: weather, label: Weather, column: weather }
+${indented}
 `,
     '/virtual/weather.yaml',
   );

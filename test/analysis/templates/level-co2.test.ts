@@ -4,8 +4,7 @@
 // in this file (means and least-squares slopes), never through DuckDB, and the decade rates
 // against NOAA's published Mauna Loa growth rates.
 import { readFileSync, writeFileSync } from 'node:fs';
-import { createRequire } from 'node:module';
-import { dirname, join } from 'node:path';
+import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import type { TrendSeasonalityFinding, TrendSummaryFinding, TrendTestFinding } from '../../../analysis/findings/segments.js';
@@ -16,9 +15,9 @@ import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import type { SubQuestion } from '../../../analysis/types.js';
 import type { TemplateName } from '../../../analysis/sub-questions/registry.js';
 import { memoryWorkspace } from './trend-memory-db.js';
+import { vegaDataFile } from '../../helpers/open-data.js';
 
-const require = createRequire(import.meta.url);
-const CSV = join(dirname(dirname(require.resolve('vega-datasets'))), 'data', 'co2-concentration.csv');
+const CSV = vegaDataFile('co2-concentration.csv');
 
 const CONFIG = `
 version: 1

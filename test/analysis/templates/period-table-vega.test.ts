@@ -5,8 +5,6 @@
 // lag for the month before and a month × year pivot for the year earlier), never through DuckDB.
 import * as aq from 'arquero';
 import { readFileSync } from 'node:fs';
-import { createRequire } from 'node:module';
-import { dirname, join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import { renderChart } from '../../../analysis/charts/render.js';
@@ -16,10 +14,10 @@ import type { Answer, SubQuestion } from '../../../analysis/types.js';
 import type { Brief } from '../../../bot/brief.js';
 import { buildPlan } from '../../../bot/plan.js';
 import { memoryWorkspace } from './trend-memory-db.js';
+import { vegaDataFile } from '../../helpers/open-data.js';
 
 const { op } = aq;
-const require = createRequire(import.meta.url);
-const CSV = join(dirname(dirname(require.resolve('vega-datasets'))), 'data', 'weather.csv');
+const CSV = vegaDataFile('weather.csv');
 
 const CONFIG = `
 version: 1

@@ -3,8 +3,6 @@
 // maximum temperature climbs every spring; over nine months a trend test on the raw values calls
 // that a significant rise, so under two years the answer must say the season cannot be told apart,
 // and a snapshot's headline compares a month with the same month a year earlier, not the one before.
-import { createRequire } from 'node:module';
-import { dirname, join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import type { KpiSnapshotFinding } from '../../../analysis/findings/kpi.js';
@@ -13,27 +11,13 @@ import { mannKendall } from '../../../analysis/stats/index.js';
 import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import type { SubQuestion } from '../../../analysis/types.js';
 import { openWorkspace, type Workspace } from '../../../analysis/workspace.js';
-import { parseConfigText } from '../../../config/load.js';
 import { presentContext } from '../../../bot/present-answer.js';
-import { loadSeattleWeather } from '../stats/seattle-weather.js';
+import { loadSeattleWeather, seattleWeatherConfig } from '../stats/seattle-weather.js';
 
-const csv = join(dirname(dirname(createRequire(import.meta.url).resolve('vega-datasets'))), 'data', 'seattle-weather.csv');
-const config = parseConfigText(
-  `version: 1
-datasets:
-  - name: weather
-    label: Seattle weather
-    source: { kind: csv, path: "${csv}" }
-    table: weather
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: warmth, label: Daily high, description: mean of the daily maximum temperature, average: temp_max, unit: number, decimals: 1, higher_is_better: true }
-    dimensions:
-      - { name: weather, label: Weather, column: weather }
-`,
-  '/virtual/weather.yaml',
-);
+const config = seattleWeatherConfig(`metrics:
+  - { name: warmth, label: Daily high, description: mean of the daily maximum temperature, average: temp_max, unit: number, decimals: 1, higher_is_better: true }
+dimensions:
+  - { name: weather, label: Weather, column: weather }`);
 
 /** Mean temp_max of one calendar month, from the CSV in plain JavaScript. */
 function monthMean(ym: string): number {

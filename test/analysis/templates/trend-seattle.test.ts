@@ -1,7 +1,5 @@
 // trend_seasonality on a table outside the project: vega-datasets' Seattle daily weather
 // (2012–2015), loaded into an in-memory DuckDB table with a config written here.
-import { createRequire } from 'node:module';
-import { dirname, join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import type { TrendSeasonalityFinding, TrendWeekdayFinding } from '../../../analysis/findings/segments.js';
@@ -9,9 +7,9 @@ import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import type { SubQuestion } from '../../../analysis/types.js';
 import { loadSeattleWeather, monthly } from '../stats/seattle-weather.js';
 import { memoryWorkspace } from './trend-memory-db.js';
+import { vegaDataFile } from '../../helpers/open-data.js';
 
-const require = createRequire(import.meta.url);
-const CSV = join(dirname(dirname(require.resolve('vega-datasets'))), 'data', 'seattle-weather.csv');
+const CSV = vegaDataFile('seattle-weather.csv');
 
 const CONFIG = `
 version: 1
