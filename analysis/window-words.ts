@@ -4,6 +4,7 @@ import { type Coverage, dataEnd } from './coverage.js';
 import { formatPeriod } from './format.js';
 import { finestGrain } from './grains.js';
 import { addDays, periodStart } from './periods.js';
+import type { StampGranularity } from './stamps.js';
 import type { DateWindow } from './types.js';
 
 const formats = new Map<string, Intl.DateTimeFormat>();
@@ -22,9 +23,7 @@ function format(iso: string, locale: string, withYear: boolean): string {
 export function describeWindow(w: DateWindow, coverage: Coverage, locale = 'en-IE'): string {
   const last = addDays(w.end, -1);
   const sameYear = w.start.slice(0, 4) === last.slice(0, 4);
-  // Data stamped once a month (or coarser) is said in months: "1 April 2020" would claim a day it does not have.
-  const stamp = finestGrain(coverage.stamps);
-  const coarse = stamp !== 'day' && stamp !== 'week' && periodStart(w.start, 'month') === w.start && periodStart(w.end, 'month') === w.end;
+  const coarse = saidInMonths(w, coverage.stamps);
   const month = (iso: string) => formatPeriod(iso, 'month', locale, 'long');
   const range = coarse
     ? w.start.slice(0, 7) === last.slice(0, 7) ? month(w.start) : `${month(w.start)} to ${month(last)}`
@@ -35,4 +34,35 @@ export function describeWindow(w: DateWindow, coverage: Coverage, locale = 'en-I
   if (coverage.firstDate && w.start < coverage.firstDate) notes.push(coarse ? `the data starts with ${month(coverage.firstDate)}` : `the data starts on ${format(coverage.firstDate, locale, true)}`);
   if (coverage.lastDate && w.start > coverage.lastDate) notes.push('after the data ends');
   return notes.length > 0 ? `${range} (${notes.join('; ')})` : range;
+}
+
+/**
+ * Whether a window over data stamped this often is said in months: data stamped once a month (or
+ * coarser) has no days to name, and "1 April 2020" would claim one it does not have.
+ */
+export function saidInMonths(w: DateWindow, stamps: StampGranularity | undefined): boolean {
+  const stamp = finestGrain(stamps);
+  return stamp !== 'day' && stamp !== 'week' && periodStart(w.start, 'month') === w.start && periodStart(w.end, 'month') === w.end;
+}
+
+/**
+ * A window in a chart's short words, by the same stamp rule as describeWindow: "Mar 1958 to Apr
+ * 2020" for monthly data, "1 Jan 2024 to 18 Jun 2025" for daily data; one period alone when the
+ * window holds one.
+ */
+export function shortWindow(w: DateWindow, stamps: StampGranularity | undefined, locale: string): string {
+  const grain = saidInMonths(w, stamps) ? 'month' : 'day';
+  const from = formatPeriod(w.start, grain, locale);
+  const to = formatPeriod(addDays(w.end, -1), grain, locale);
+  return from === to ? from : `${from} to ${to}`;
+}
+
+/**
+ * The data's last date as a footer says it ("Data as of …"), by the same stamp rule: monthly
+ * data stamped 1 April 2020 is data "as of Apr 2020" (the whole month), daily data of its day.
+ */
+export function dataDateWords(lastDate: string, stamps: StampGranularity | undefined, locale: string): string {
+  const end = dataEnd({ lastDate, ...(stamps ? { stamps } : {}) });
+  const coveredTo = addDays(end, -1);
+  return saidInMonths({ start: periodStart(coveredTo, 'month'), end }, stamps) ? formatPeriod(coveredTo, 'month', locale) : formatPeriod(lastDate, 'day', locale);
 }

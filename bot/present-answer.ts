@@ -2,7 +2,7 @@
 // ran), and the closing summary with the takeaways in order of importance.
 import { renderChart } from '../analysis/charts/render.js';
 import { renderDigest } from '../analysis/charts/render-digest.js';
-import { formatPeriod } from '../analysis/format.js';
+import { dataDateWords } from '../analysis/window-words.js';
 import { timePhase } from '../analysis/phase-timings.js';
 import type { PresentContext } from '../analysis/present/index.js';
 import { answerCaveats, measureNotes, threadNotes } from '../analysis/quality/thread-notes.js';
@@ -18,7 +18,7 @@ import type { OutgoingFile } from './port.js';
 
 export function presentContext(ws: Workspace, audience: Audience): PresentContext {
   const c = ws.config.charts;
-  return { dataset: ws.dataset, locale: c.locale, audience, chart: { width: c.width, height: c.height, scale: c.scale }, dataAsOf: ws.coverage.lastDate };
+  return { dataset: ws.dataset, locale: c.locale, audience, chart: { width: c.width, height: c.height, scale: c.scale }, dataAsOf: ws.coverage.lastDate, ...(ws.coverage.stamps ? { stamps: ws.coverage.stamps } : {}) };
 }
 
 export const presentAnswer: AnswerPresenter = async (answer, { workspace, audience, position, timings }) => {
@@ -80,7 +80,7 @@ export const presentSummary: SummaryPresenter = async (takeaways, { workspace, f
   const notes = [...new Set([...threadNotes(items ?? [], quality, workspace, now ?? new Date(), workspace.config.charts.locale), ...takeaways.flatMap((t) => t.dataNotes ?? [])])];
   const about = notes.length ? `\n*About the data* (applies to every answer above)\n${notes.map((n) => `- ${n}`).join('\n')}` : '';
   const text = `*Summary*${shared ? ` (filtered to ${shared})` : ''}\n${lines.join('\n')}${failed}${about}\nEach answer above has its table (CSV) and the SQL that produced it attached; the digest below puts the key charts and takeaways on one page for forwarding. These are descriptive figures from ${workspace.dataset.label}; comparisons between groups are observational, and your organisation's data-governance rules apply before sharing further.`;
-  const asOf = workspace.coverage.lastDate ? formatPeriod(workspace.coverage.lastDate, 'day', workspace.config.charts.locale) : 'n/a';
+  const asOf = workspace.coverage.lastDate ? dataDateWords(workspace.coverage.lastDate, workspace.coverage.stamps, workspace.config.charts.locale) : 'n/a';
   // The digest is titled with a finding: the verdict, else the first takeaway; the rest are listed under it.
   const [headline, ...rest] = verdict ? [verdict, ...top] : top;
   const digest = await timePhase(timings, 'render', () => renderDigest({

@@ -5,9 +5,9 @@ import { filterSubtitleParts } from '../captions/scope-words.js';
 import { grainAdjective } from '../grains.js';
 import type { Metric } from '../../config/schema.js';
 import { caveatFlag, caveatNote } from '../captions/caveat-text.js';
-import { formatPeriod } from '../format.js';
 import { metricMeaning } from '../captions/metric-words.js';
-import { addDays } from '../periods.js';
+import { dataEnd } from '../coverage.js';
+import { dataDateWords, shortWindow } from '../window-words.js';
 import { buildLine } from '../charts/build-line.js';
 import type { LineSpec } from '../charts/spec.js';
 import { valueFormatOf } from '../format.js';
@@ -22,19 +22,19 @@ export function metricDefinition(metric: Metric, ctx: PresentContext): string {
 
 export function chartSubtitle(answer: Answer, metric: Metric, ctx: PresentContext, opts: { grain?: boolean } = {}): string {
   const sq = answer.subQuestion;
-  const from = formatPeriod(sq.window.start, 'day', ctx.locale);
-  // A window that runs past the data ("2025" in June 2025) is said to the data's last day: the
-  // chart shows nothing after it, and a subtitle to 31 December would claim it does.
-  const lastDay = addDays(sq.window.end, -1);
-  const to = formatPeriod(ctx.dataAsOf && ctx.dataAsOf.slice(0, 10) < lastDay ? ctx.dataAsOf.slice(0, 10) : lastDay, 'day', ctx.locale);
-  const parts = [metricDefinition(metric, ctx), `${from} to ${to}`];
+  // A window that runs past the data ("2025" in June 2025) is said to the data's end: the chart
+  // shows nothing after it, and a subtitle to 31 December would claim it does. Data stamped
+  // monthly covers its last month whole and is said in months, as the thread's text says it.
+  const end = ctx.dataAsOf ? dataEnd({ lastDate: ctx.dataAsOf.slice(0, 10), ...(ctx.stamps ? { stamps: ctx.stamps } : {}) }) : null;
+  const shown = { start: sq.window.start, end: end !== null && end < sq.window.end ? end : sq.window.end };
+  const parts = [metricDefinition(metric, ctx), shortWindow(shown, ctx.stamps, ctx.locale)];
   if (opts.grain !== false) parts.push(grainAdjective(sq.grain));
   parts.push(...filterSubtitleParts(sq.filters, ctx.dataset));
   return parts.filter((p) => p !== '').join(' · ');
 }
 
 export function chartFooter(answer: Answer, ctx: PresentContext): string[] {
-  const asOf = ctx.dataAsOf ? formatPeriod(ctx.dataAsOf, 'day', ctx.locale) : 'n/a';
+  const asOf = ctx.dataAsOf ? dataDateWords(ctx.dataAsOf.slice(0, 10), ctx.stamps, ctx.locale) : 'n/a';
   const flags = [...new Set(answer.caveats.map(caveatFlag))];
   return [`Source: ${ctx.dataset.label}`, `Data as of ${asOf}`, ...(flags.length ? [`Caveats: ${flags.join('; ')}`] : [])];
 }

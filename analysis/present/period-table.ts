@@ -10,8 +10,8 @@ import { buildPeriodTablePages, type PeriodTableRowInput } from '../charts/build
 import { metricByName } from '../catalog.js';
 import type { PeriodTableFinding, TotalRule } from '../findings/table.js';
 import { formatPeriod } from '../format.js';
-import { addDays } from '../periods.js';
 import type { Answer, Caveat, Grain } from '../types.js';
+import { shortWindow } from '../window-words.js';
 import { chartFooter, metricDefinition } from './header.js';
 import { periodTableCsv, periodTableTextBlocks } from './period-table-files.js';
 import type { PresentContext, Presenter } from './presenter.js';
@@ -53,9 +53,7 @@ export const presentPeriodTable: Presenter = (answer, ctx) => {
 
 function subtitleOf(answer: Answer, table: PeriodTableFinding, ctx: PresentContext): string {
   const labels = table.columns.map((c, i) => (i === 0 ? metricByName(ctx.dataset, c.metric).label : inSentence(metricByName(ctx.dataset, c.metric).label)));
-  const from = formatPeriod(table.span.start, 'day', ctx.locale);
-  const to = formatPeriod(addDays(table.span.end, -1), 'day', ctx.locale);
-  return [listJoin(labels), `${GRAIN_ADJECTIVE[table.grain].toLowerCase()}, ${from} to ${to}`, ...filterSubtitleParts(answer.subQuestion.filters, ctx.dataset)].join(' · ');
+  return [listJoin(labels), `${GRAIN_ADJECTIVE[table.grain].toLowerCase()}, ${shortWindow(table.span, ctx.stamps, ctx.locale)}`, ...filterSubtitleParts(answer.subQuestion.filters, ctx.dataset)].join(' · ');
 }
 
 /** "Total" when every metric sums, "Average" when every one is a level, "Whole period" otherwise. */

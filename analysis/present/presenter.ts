@@ -3,6 +3,7 @@
 import type { Verdict } from '../captions/verdict-words.js';
 import type { DatasetConfig } from '../../config/schema.js';
 import type { ChartSpec } from '../charts/spec.js';
+import type { StampGranularity } from '../stamps.js';
 import type { Answer, Audience } from '../types.js';
 
 export interface PresentContext {
@@ -12,6 +13,8 @@ export interface PresentContext {
   chart: { width: number; height: number; scale: 1 | 2 };
   /** The dataset's last date (ISO), for "data as of" in footers. */
   dataAsOf: string | null;
+  /** How often the data is stamped (analysis/stamps.ts): monthly data is dated in months, not days. Absent: daily. */
+  stamps?: StampGranularity;
 }
 
 export interface Takeaway {
