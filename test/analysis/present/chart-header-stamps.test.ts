@@ -5,8 +5,6 @@
 // (March 1958 to April 2020, per the file itself, read below); seattle-weather.csv is one row per
 // day (1 January 2012 to 31 December 2015, per the file itself).
 import { readFileSync } from 'node:fs';
-import { createRequire } from 'node:module';
-import { dirname, join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parseConfigText } from '../../../config/load.js';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
@@ -16,12 +14,11 @@ import type { Grain, SubQuestion } from '../../../analysis/types.js';
 import { describeWindow } from '../../../analysis/window-words.js';
 import { openWorkspace, type Workspace } from '../../../analysis/workspace.js';
 import { presentContext } from '../../../bot/present-answer.js';
-
-const vegaData = join(dirname(dirname(createRequire(import.meta.url).resolve('vega-datasets'))), 'data');
+import { vegaDataFile } from '../../helpers/open-data.js';
 
 /** The first and last date column of a CSV, read as text (the publisher's own stamps). */
 function csvSpan(file: string): { first: string; last: string } {
-  const lines = readFileSync(join(vegaData, file), 'utf8').trim().split('\n').slice(1);
+  const lines = readFileSync(vegaDataFile(file), 'utf8').trim().split('\n').slice(1);
   return { first: lines[0]!.slice(0, 10), last: lines[lines.length - 1]!.slice(0, 10) };
 }
 
@@ -31,7 +28,7 @@ async function workspaceOf(file: string, timeColumn: string, metric: string): Pr
 datasets:
   - name: series
     label: Open series
-    source: { kind: csv, paths: ["${join(vegaData, file)}"] }
+    source: { kind: csv, paths: ["${vegaDataFile(file)}"] }
     time_column: ${timeColumn}
     timezone: UTC
     metrics:
