@@ -27,6 +27,9 @@ export function levelGrowthWords(metric: Metric, grain: Grain, f: GrowthSeriesFi
   const lag = f.series?.yoyLag ?? null;
   const yearEarlier = latest && lag !== null && f.series ? f.series.points[f.series.points.indexOf(latest) - lag] : undefined;
   const latestChange = latest && yearEarlier && !yearEarlier.partial && yearEarlier.value !== null ? latest.value! - yearEarlier.value : null;
+  // Without a year-earlier period (days, or under a year of data), the latest complete period against the one before.
+  const before = latest && f.series ? f.series.points[f.series.points.indexOf(latest) - 1] : undefined;
+  const latestStep = latestChange === null && latest && before && !before.partial && before.value !== null ? latest.value! - before.value : null;
 
   let title: string;
   if (recent.length > 0) {
@@ -36,6 +39,8 @@ export function levelGrowthWords(metric: Metric, grain: Grain, f: GrowthSeriesFi
     title = `${label} so far in ${yearText(ytd.current.year, locale)}: ${d(ytd.absolute!)} on the same dates of ${yearText(ytd.prior.year, locale)}`;
   } else if (latest && latestChange !== null) {
     title = `${label} in ${periodText(latest.period, grain, locale, 'long')}: ${d(latestChange)} on a year earlier`;
+  } else if (latest && latestStep !== null) {
+    title = `${label} in ${periodText(latest.period, grain, locale, 'long')}: ${d(latestStep)} on the ${grain} before`;
   } else {
     return {
       title: `${label}: not enough complete periods to measure its change`,
@@ -59,6 +64,7 @@ export function levelGrowthWords(metric: Metric, grain: Grain, f: GrowthSeriesFi
     if (rate.byDecade.length >= 2) sentences.push(`Decade by decade, the change a year was ${rate.byDecade.map((x) => `${d(x.perYear)} in the ${x.decade}s`).join(', ')}.`);
   }
   if (latest && latestChange !== null) sentences.push(`Latest complete ${grain}, ${periodText(latest.period, grain, locale, 'long')}: ${d(latestChange)} on a year earlier.`);
+  else if (latest && latestStep !== null) sentences.push(`Latest complete ${grain}, ${periodText(latest.period, grain, locale, 'long')}: ${v(latest.value!)}, ${d(latestStep)} on the ${grain} before (${v(before!.value!)}).`);
   return { title, caption: sentences.join(' ') };
 }
 

@@ -11,12 +11,12 @@ import type {
   GrowthYearsFinding,
   GrowthYtdFinding,
 } from '../findings/growth.js';
-import { changesInUnits, metricDirection } from '../catalog.js';
+import { metricDirection } from '../catalog.js';
 import { formatChange, formatDayOfYear, formatPeriod } from '../format.js';
 import { levelGrowthVerdict, levelGrowthWords } from './growth-level-caption.js';
 import type { Verdict, VerdictDirection } from './verdict-words.js';
 import type { Audience, Finding, Grain } from '../types.js';
-import { capitalise, directionOf, lower, movedBy, periodText, unsignedPercent, valueText, yearText } from './growth-words.js';
+import { capitalise, directionOf, growthInUnits, lower, movedBy, periodText, unsignedPercent, valueText, yearText } from './growth-words.js';
 
 export interface GrowthWords {
   title: string;
@@ -56,7 +56,7 @@ export function latestComplete(series: GrowthSeriesFinding | undefined): GrowthP
 
 export function growthSeriesWords(metric: Metric, grain: Grain, f: GrowthSeriesFindings, locale: string, audience: Audience): GrowthWords {
   // A level (a reading) changes in its own units; a compound percentage would misstate it.
-  if (changesInUnits(metric)) return levelGrowthWords(metric, grain, f, locale, audience);
+  if (growthInUnits(metric, f.series)) return levelGrowthWords(metric, grain, f, locale, audience);
   const label = metric.label;
   const yearsWithRate = (f.years?.years ?? []).filter((y) => y.yoy !== null);
   const recent = yearsWithRate.slice(-2);
@@ -167,7 +167,7 @@ function latestSentence(p: GrowthPoint, series: GrowthSeriesFinding, grain: Grai
  */
 export function growthVerdict(metric: Metric, f: GrowthSeriesFindings, locale: string): Verdict | null {
   const label = lower(metric.label);
-  if (changesInUnits(metric)) return levelGrowthVerdict(metric, f, locale);
+  if (growthInUnits(metric, f.series)) return levelGrowthVerdict(metric, f, locale);
   const ytd = f.ytd && f.ytd.relative !== null ? f.ytd : undefined;
   if (ytd) {
     const span = `${formatDayOfYear(ytd.current.year, locale, 'month')} to ${formatDayOfYear(ytd.through, locale)}`;

@@ -5,7 +5,7 @@ import type { GrowthRateSummaryFinding } from '../findings/growth.js';
 import { formatChange, formatValue, valueFormatOf } from '../format.js';
 import type { Audience } from '../types.js';
 import type { GrowthWords } from './growth-series-caption.js';
-import { formatPoints, lower, periodText } from './growth-words.js';
+import { formatPoints, lower, periodText, plural } from './growth-words.js';
 
 export function rateBasisText(f: GrowthRateSummaryFinding): string {
   return f.basis === 'yoy' ? (f.grain === 'year' ? 'on the year before' : `on the same ${f.grain} a year earlier`) : `on the ${f.grain} before`;
@@ -36,13 +36,14 @@ export function growthSummaryWords(metric: Metric, f: GrowthRateSummaryFinding |
   if (audience === 'leadership') {
     caption = `Across ${count}, the typical change ${basis} was ${pct(f.median)}.`;
   } else if (audience === 'managers') {
+    // The middle value and middle half, not the mean and SD: one small base can blow a mean of rates up.
     caption =
-      `Across ${count}, ${growth} ${basis} averaged ${pct(f.mean)} (middle value ${pct(f.median)})` +
-      (f.sd !== null ? `; it typically varied by about ${spread(f.sd)} around the average.` : '.');
+      `Across ${count}, ${growth} ${basis} had a middle value of ${pct(f.median)}` +
+      (f.quartiles && f.n >= 4 ? `; half of the ${plural(f.grain, f.n)} lay between ${pct(f.quartiles.lower)} and ${pct(f.quartiles.upper)}.` : '.');
   } else {
     const basisName = `${f.basis === 'yoy' ? 'year-over-year' : 'period-over-period'}${units ? ' changes' : ''}`;
     caption =
-      `${f.n} ${basisName}${units ? '' : ' rates'}: mean ${pct(f.mean)}, median ${pct(f.median)}` +
+      `${f.n} ${basisName}${units ? '' : ' rates'}: median ${pct(f.median)}, mean ${pct(f.mean)}` +
       (f.sd !== null ? `, sample SD ${spread(f.sd)}` : '') +
       `; min ${pct(f.min.value)} (${when(f.min.period)}), max ${pct(f.max.value)} (${when(f.max.period)}).`;
   }

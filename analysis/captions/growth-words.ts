@@ -1,9 +1,11 @@
 // Words shared by the growth family's titles and captions: how a change reads, how a span of
 // dates reads, how a segment is named, and the growth family's own caveat notes.
 import type { DatasetConfig, Metric } from '../../config/schema.js';
-import type { GrowthSpan } from '../findings/growth.js';
+import type { GrowthSeriesFinding, GrowthSpan } from '../findings/growth.js';
+import { changesInUnits } from '../catalog.js';
 import { formatChange, formatPeriod, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
 import { addDays, addMonths } from '../periods.js';
+import { TINY_BASE_FRACTION } from '../stats/index.js';
 import type { Answer, Audience, Caveat, Grain } from '../types.js';
 import { caveatNote } from './caveat-text.js';
 import { nounFor, pluralNoun } from './grammar.js';
@@ -161,6 +163,8 @@ export function growthNote(c: Caveat, locale: string, dimension: string, dataset
       }
       break;
     case 'base_zero':
+      if (d.reason === 'signed') return 'This measure reaches zero or goes below it in this window, so no percentage change of it is given; changes are in its units.';
+      if (d.reason === 'tiny') return `Some growth rates are left out: the earlier value is zero, missing or under ${formatValue(TINY_BASE_FRACTION, { unit: 'percent', decimals: 0, locale })} of the usual (median) level, where a percentage would mislead.`;
       return 'Some growth rates cannot be worked out because the earlier value is zero, negative or missing, so those rates are left out.';
     case 'single_period':
       if (d.rates === 0) return 'There are no two comparable periods, so there is no growth rate to summarise.';
@@ -177,4 +181,9 @@ export function growthNote(c: Caveat, locale: string, dimension: string, dataset
 /** Plain-words and analyst wording switch on this; managers get plain words with detail. */
 export function isAnalyst(audience: Audience): boolean {
   return audience === 'analysts';
+}
+
+/** A level, or a quantity signed in the window asked about, grows in its units, never in percent. */
+export function growthInUnits(metric: Metric, series: GrowthSeriesFinding | undefined): boolean {
+  return changesInUnits(metric) || series?.inUnits === true;
 }

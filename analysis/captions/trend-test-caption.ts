@@ -38,7 +38,11 @@ export function trendTestWords(metric: Metric, grain: Grain, findings: readonly 
   // A rate or share moves in points: its slope is "0.042 pts a month", never a percentage of itself.
   const inPoints = metric.unit === 'percent';
   const perPeriod = inPoints ? formatSmallPoints(test.slopePerPeriod, locale) : formatValue(Math.abs(test.slopePerPeriod), fmt, { compact: true });
-  const perYearRel = inPoints
+  // A slope from under a year of periods is said per period only: a quarter's slope times four is no year's change.
+  const yearly = test.underAYear !== true;
+  const perYearRel = !yearly
+    ? null
+    : inPoints
     ? `${test.slopePerYear < 0 ? '\u2212' : '+'}${formatSmallPoints(test.slopePerYear, locale)}`
     : test.slopePerYearRelative === null ? null : formatChange(test.slopePerYearRelative, locale);
   const moving = test.direction === 'up' ? 'rising' : 'falling';
@@ -58,8 +62,8 @@ export function trendTestWords(metric: Metric, grain: Grain, findings: readonly 
     const method = `Mann–Kendall${test.seasonallyAdjusted ? ' on seasonally adjusted values' : ''}, p ${formatP(test.pValue, locale)}, τ = ${formatIndex(test.tau, locale)}, n = ${test.n} ${grainNoun(grain, test.n)}, ${span}`;
     const signedPoints = (v: number) => `${v < 0 ? '\u2212' : '+'}${formatSmallPoints(v, locale)}`;
     const slope = inPoints
-      ? `Sen's slope ${signedPoints(test.slopePerPeriod)} per ${grainNoun(grain)}, ${signedPoints(test.slopePerYear)} a year`
-      : `Sen's slope ${formatValue(test.slopePerPeriod, fmt, { compact: true, signed: true })} per ${grainNoun(grain)}, ${formatValue(test.slopePerYear, fmt, { compact: true, signed: true })} a year${perYearRel ? ` (${perYearRel} of the mean level)` : ''}`;
+      ? `Sen's slope ${signedPoints(test.slopePerPeriod)} per ${grainNoun(grain)}${yearly ? `, ${signedPoints(test.slopePerYear)} a year` : ''}`
+      : `Sen's slope ${formatValue(test.slopePerPeriod, fmt, { compact: true, signed: true })} per ${grainNoun(grain)}${yearly ? `, ${formatValue(test.slopePerYear, fmt, { compact: true, signed: true })} a year${perYearRel ? ` (${perYearRel} of the mean level)` : ''}` : ''}`;
     const raw = test.seasonallyAdjusted ? ` On the unadjusted values the test gives p ${formatP(test.rawPValue, locale)}.` : '';
     const lead = test.direction === 'none' ? `No significant monotonic trend at the ${formatValue(test.alpha, { unit: 'percent', decimals: 0, locale })} level` : `${unresolved ? `${metric.label}: monotonic movement` : title}`;
     const short = unresolved ? ` Fewer than two years tested: no yearly season could be removed, so the test does not separate trend from season.` : '';
@@ -75,7 +79,9 @@ export function trendTestWords(metric: Metric, grain: Grain, findings: readonly 
         : `${metric.label} ${test.direction === 'up' ? 'rose' : 'fell'} by about ${perPeriod} a ${grainNoun(grain)}${perYearRel ? ` (${perYearRel} a year)` : ''} from ${span}${seasonal}; a trend this steady is unlikely to be chance.`;
   } else {
     const be = plural ? 'are' : 'is';
-    const size = inPoints
+    const size = !yearly
+      ? `, by about ${perPeriod} a ${grainNoun(grain)}`
+      : inPoints
       ? `, by about ${formatSmallPoints(test.slopePerYear, locale)} a year`
       : test.slopePerYearRelative === null ? '' : `, by about ${formatRelativeSize(test.slopePerYearRelative, locale)} a year`;
     caption =
@@ -95,6 +101,10 @@ function levelTrendWords(metric: Metric, grain: Grain, test: TrendTestFinding, a
   const size = (v: number) => formatValue(Math.abs(v), fmt, { compact: true });
   const signed = (v: number) => formatValue(v, fmt, { compact: true, signed: true });
   const yearsSpanned = yearFraction(test.lastPeriod) - yearFraction(test.firstPeriod);
+  // Under a year of periods the slope is said per period ("0.4 kt a week"), never annualised.
+  const yearly = test.underAYear !== true;
+  const rate = yearly ? test.slopePerYear : test.slopePerPeriod;
+  const per = yearly ? 'a year' : `a ${grainNoun(grain)}`;
   // A rate per decade from a shorter span would be an extrapolation.
   const decade = yearsSpanned >= 10 ? ` (${size(test.slopePerYear * 10)} a decade)` : '';
   const byDecade =
@@ -106,23 +116,23 @@ function levelTrendWords(metric: Metric, grain: Grain, test: TrendTestFinding, a
   const title =
     test.direction === 'none'
       ? `${metric.label}: no clear trend from ${span}`
-      : `${metric.label} ${plural ? 'show' : 'shows'} a ${moving} trend of about ${size(test.slopePerYear)} a year`;
+      : `${metric.label} ${plural ? 'show' : 'shows'} a ${moving} trend of about ${size(rate)} ${per}`;
   const seasonal = test.seasonallyAdjusted ? ', after taking out the usual seasonal swing' : '';
   if (audience === 'analysts') {
     const method = `Mann–Kendall${test.seasonallyAdjusted ? ' on seasonally adjusted values (additive)' : ''}, p ${formatP(test.pValue, locale)}, τ = ${formatIndex(test.tau, locale)}, n = ${test.n} ${grainNoun(grain, test.n)}, ${span}`;
     const lead = test.direction === 'none' ? `No significant monotonic trend at the ${formatValue(test.alpha, { unit: 'percent', decimals: 0, locale })} level` : title;
     const perDecade = yearsSpanned >= 10 ? `, ${signed(test.slopePerYear * 10)} a decade` : '';
     const raw = test.seasonallyAdjusted ? ` On the unadjusted values the test gives p ${formatP(test.rawPValue, locale)}.` : '';
-    return { title, caption: `${lead} (${method}); Sen's slope ${signed(test.slopePerPeriod)} per ${grainNoun(grain)}, ${signed(test.slopePerYear)} a year${perDecade}.${raw}${byDecade}` };
+    return { title, caption: `${lead} (${method}); Sen's slope ${signed(test.slopePerPeriod)} per ${grainNoun(grain)}${yearly ? `, ${signed(test.slopePerYear)} a year` : ''}${perDecade}.${raw}${byDecade}` };
   }
   if (test.direction === 'none') {
     return { title, caption: `${metric.label} moved up and down from ${span} without a clear direction${seasonal}; the changes could be chance.` };
   }
   const verb = test.direction === 'up' ? 'rose' : 'fell';
   if (audience === 'managers') {
-    return { title, caption: `${metric.label} ${verb} by about ${size(test.slopePerYear)} a year${decade} from ${span}${seasonal}; a trend this steady is unlikely to be chance.${byDecade}` };
+    return { title, caption: `${metric.label} ${verb} by about ${size(rate)} ${per}${decade} from ${span}${seasonal}; a trend this steady is unlikely to be chance.${byDecade}` };
   }
-  return { title, caption: `${metric.label} ${plural ? 'are' : 'is'} ${moving}, by about ${size(test.slopePerYear)} a year${decade}; this is unlikely to be chance.${byDecade}` };
+  return { title, caption: `${metric.label} ${plural ? 'are' : 'is'} ${moving}, by about ${size(rate)} ${per}${decade}; this is unlikely to be chance.${byDecade}` };
 }
 
 /** The peak and how far the latest complete period sits from it. */

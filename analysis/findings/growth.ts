@@ -33,6 +33,8 @@ export interface GrowthSeriesFinding {
   yoyLag: number | null;
   /** Periods in the trailing sum; null when not computed (a metric whose values do not add up, or no yearly lag). */
   trailingWindow: number | null;
+  /** The quantity is signed in this window (stats/growth percentScale): no rate is a percentage; its changes are told in units. */
+  inUnits?: boolean;
 }
 
 export interface GrowthYear {
@@ -148,6 +150,8 @@ export interface GrowthRateSummaryFinding {
   median: number | null;
   /** Sample standard deviation; null below two rates. */
   sd: number | null;
+  /** The middle half of the rates (linear-interpolation quartiles); the spread told to managers, which one tiny base cannot blow up. */
+  quartiles: { lower: number; upper: number } | null;
 }
 
 export interface GrowthShareSegment {

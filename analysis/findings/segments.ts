@@ -21,6 +21,8 @@ export interface TrendTestFinding {
    * estimated and removed, so a rise or fall cannot be told apart from it (issue 17 item 8).
    */
   seasonUnresolved?: boolean;
+  /** The complete periods tested span less than a year: the slope is said per period, never "a year". */
+  underAYear?: boolean;
   s: number;
   z: number;
   pValue: number;

@@ -4,8 +4,8 @@ import { buildGrowthGrid } from '../charts/build-growth-grid.js';
 import { buildLine } from '../charts/build-line.js';
 import type { ChartSpec } from '../charts/spec.js';
 import { growthSeriesWords, growthVerdict, pickGrowthSeriesFindings } from '../captions/growth-series-caption.js';
-import { growthNotes } from '../captions/growth-words.js';
-import { changesInUnits, metricByName, metricDirection } from '../catalog.js';
+import { growthInUnits, growthNotes } from '../captions/growth-words.js';
+import { metricByName, metricDirection } from '../catalog.js';
 import type { GrowthSeriesFinding } from '../findings/growth.js';
 import { valueFormatOf, type ValueFormat } from '../format.js';
 import type { Answer } from '../types.js';
@@ -37,7 +37,7 @@ function growthChart(answer: Answer, series: GrowthSeriesFinding, title: string,
     ...ctx.chart,
   };
   const lag = series.yoyLag;
-  if (changesInUnits(metric) && lag !== null) return levelChangeLine(header, series, lag, valueFormatOf(metric, ctx.locale));
+  if (growthInUnits(metric, series) && lag !== null) return levelChangeLine(header, series, lag, valueFormatOf(metric, ctx.locale));
   const hasYoy = series.points.some((p) => p.yoy !== null);
   if (series.grain === 'month' && lag !== null && hasYoy) {
     // Months before the first year-earlier base can never hold a rate; a row of them would be empty.

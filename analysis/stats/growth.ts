@@ -9,6 +9,51 @@ export function relativeChange(base: number | null, value: number | null): numbe
   return finiteOrNull((value - base) / base);
 }
 
+/**
+ * Below this fraction of a quantity's typical level (the median of its absolute values in the
+ * window) a base is too small to divide by: on wildlife-strike costs a September of US$313 against
+ * a typical month of US$15,592 turned the next September into "+1,217,656%". Withholding a
+ * percentage off a tiny base is common practice; the cut-off is our rule. The change is then said
+ * in the quantity's units.
+ */
+export const TINY_BASE_FRACTION = 0.1;
+
+/** What one quantity's values in a window allow a percentage change to be taken against. */
+export interface PercentScale {
+  /** Median of the absolute values in the window; null when there are none. */
+  typical: number | null;
+  /**
+   * The quantity is signed in this window: it went below zero, or (for an average, a ratio or a
+   * level, where zero is no natural floor) reached zero. No percentage of it is given at all:
+   * an average delay from 10.4 to −0.07 min is not "−100.7%".
+   */
+  signed: boolean;
+}
+
+/**
+ * The scale of one quantity from its values in the window. `zeroIsALevel`: a count or a sum of
+ * amounts, where zero means "none" (a month without strikes) and a fall to it is a true −100%.
+ */
+export function percentScale(values: readonly (number | null)[], zeroIsALevel: boolean): PercentScale {
+  const present = values.filter(isNum);
+  const signed = present.some((v) => v < 0 || (!zeroIsALevel && v === 0));
+  const abs = present.map(Math.abs).sort((a, b) => a - b);
+  const mid = abs.length >> 1;
+  const typical = abs.length === 0 ? null : abs.length % 2 ? abs[mid]! : (abs[mid - 1]! + abs[mid]!) / 2;
+  return { typical, signed };
+}
+
+/** Whether a percentage may be taken against `base` on this scale (the rule above, in one place). */
+export function percentBaseUsable(base: number | null, scale: PercentScale): boolean {
+  if (scale.signed || !isNum(base) || base <= 0) return false;
+  return scale.typical === null || base >= TINY_BASE_FRACTION * scale.typical;
+}
+
+/** `relativeChange` where the scale allows a percentage, else null (say the change in units instead). */
+export function percentChange(base: number | null, value: number | null, scale: PercentScale): number | null {
+  return percentBaseUsable(base, scale) ? relativeChange(base, value) : null;
+}
+
 /** Change of each period against the one before; the first entry is null. */
 export function periodOverPeriod(values: readonly (number | null)[]): (number | null)[] {
   return lagged(values, 1);

@@ -3,7 +3,7 @@
 import type { DatasetConfig } from '../../config/schema.js';
 import { isAdditive, metricByName } from '../catalog.js';
 import type { GrowthDriverSegment, GrowthDriversFinding } from '../findings/growth.js';
-import { relativeChange } from '../stats/index.js';
+import { percentChange, percentScale } from '../stats/index.js';
 import type { Caveat, Finding, ResultTable, SubQuestion } from '../types.js';
 import type { Coverage } from '../coverage.js';
 import {
@@ -61,11 +61,13 @@ function driversOf(
   const sideValue = (present: number | null | undefined, hasRows: boolean) =>
     present !== undefined ? present : additive && hasRows ? 0 : null;
   const totalChange = totalBefore !== null && totalAfter !== null ? totalAfter - totalBefore : null;
-  const all: GrowthDriverSegment[] = segmentKeys(cmp).map((segment) => {
-    const before = sideValue(cmp.prior.segments.get(segment)?.values[metric], priorHasRows);
-    const after = sideValue(cmp.current.segments.get(segment)?.values[metric], currentHasRows);
-    return withShares({ segment, before, after }, additive, totalBefore, totalChange);
-  });
+  const pairs = segmentKeys(cmp).map((segment) => ({
+    segment,
+    before: sideValue(cmp.prior.segments.get(segment)?.values[metric], priorHasRows),
+    after: sideValue(cmp.current.segments.get(segment)?.values[metric], currentHasRows),
+  }));
+  const relative = relativeRule(additive, [totalBefore, totalAfter, ...pairs.flatMap((p) => [p.before, p.after])]);
+  const all: GrowthDriverSegment[] = pairs.map((p) => withShares(p, additive, totalBefore, totalChange, relative));
   // A ratio's change in a tiny segment is mostly noise, so segments of a metric that does not add up
   // are ranked by their change weighted by their share of the current rows.
   const rows = cmp.current.total?.rows ?? 0;
@@ -84,7 +86,7 @@ function driversOf(
     // The database's fold alone is its own value (a ratio combined in SQL is still a ratio); parts add up only for sums and counts.
     const sum = (pick: (s: { before: number | null; after: number | null }) => number | null) =>
       tail.length === 0 && smallRow ? pick(smallRow) : additive && parts.every((s) => pick(s) !== null) ? parts.reduce((acc, s) => acc + pick(s)!, 0) : null;
-    const folded = withShares({ segment: null, before: sum((s) => s.before), after: sum((s) => s.after) }, additive, totalBefore, totalChange);
+    const folded = withShares({ segment: null, before: sum((s) => s.before), after: sum((s) => s.after) }, additive, totalBefore, totalChange, relative);
     others = {
       before: folded.before,
       after: folded.after,
@@ -97,7 +99,7 @@ function driversOf(
     if (tail.length > 0) caveats.push({ code: 'segments_folded', data: { count: tail.length, metric } });
   }
   const undefinedRates = all.filter((s) => s.after !== null && s.before !== null && s.relative === null).length;
-  const totalRelative = relativeChange(totalBefore, totalAfter);
+  const totalRelative = relative(totalBefore, totalAfter);
   if (undefinedRates > 0 || (totalRelative === null && totalBefore !== null && totalAfter !== null)) {
     caveats.push({ code: 'base_zero', data: { metric, count: undefinedRates + (totalRelative === null ? 1 : 0) } });
   }
@@ -111,12 +113,12 @@ function driversOf(
     total: { before: totalBefore, after: totalAfter, change: totalChange, relative: totalRelative },
     segments,
     others,
-    likeForLike: likeForLikeOf(cmp, metric, additive),
+    likeForLike: likeForLikeOf(cmp, metric, additive, relative),
   };
 }
 
 /** The like-for-like total, when some segment was not there through both spans and both spans have data. */
-function likeForLikeOf(cmp: WindowComparison, metric: string, additive: boolean): GrowthDriversFinding['likeForLike'] {
+function likeForLikeOf(cmp: WindowComparison, metric: string, additive: boolean, relativeOf: RelativeRule): GrowthDriversFinding['likeForLike'] {
   if (cmp.changed.length === 0 || !cmp.prior.total?.rows || !cmp.current.total?.rows) return null;
   // No segment through both spans: a sum over none is zero, a ratio over none unknown.
   const side = (s: WindowSide) => (s.likeForLike ? s.likeForLike.values[metric] ?? null : additive ? 0 : null);
@@ -126,7 +128,7 @@ function likeForLikeOf(cmp: WindowComparison, metric: string, additive: boolean)
     before,
     after,
     change: before !== null && after !== null ? after - before : null,
-    relative: relativeChange(before, after),
+    relative: relativeOf(before, after),
     excluded: cmp.changed,
   };
 }
@@ -136,15 +138,31 @@ function withShares(
   additive: boolean,
   totalBefore: number | null,
   totalChange: number | null,
+  relativeOf: RelativeRule,
 ): GrowthDriverSegment {
   const change = s.before !== null && s.after !== null ? s.after - s.before : null;
   return {
     ...s,
     change,
-    relative: relativeChange(s.before, s.after),
+    relative: relativeOf(s.before, s.after),
     shareOfChange: additive && change !== null && totalChange !== null && totalChange !== 0 ? finite(change / totalChange) : null,
     contribution: additive && change !== null && totalBefore !== null && totalBefore > 0 ? finite(change / totalBefore) : null,
   };
+}
+
+type RelativeRule = (before: number | null, after: number | null) => number | null;
+
+/**
+ * Where a percentage change is given (stats/growth percentScale). A sum or count: each segment
+ * against its own two values, since segments of very different sizes are all real bases. An
+ * average or ratio: one scale over every value compared, so a segment averaging near zero against
+ * a typical level of minutes gets no percentage, and none is given at all once any value is at or
+ * below zero (an average delay from 10.4 to −0.07 min is "−10.5 min", not "−100.7%").
+ */
+function relativeRule(additive: boolean, values: readonly (number | null)[]): RelativeRule {
+  if (additive) return (before, after) => percentChange(before, after, percentScale([before, after], true));
+  const scale = percentScale(values, false);
+  return (before, after) => percentChange(before, after, scale);
 }
 
 /** Largest (weighted) absolute change first; unknown changes last; ties by segment so the order never depends on row order. */

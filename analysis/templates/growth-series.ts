@@ -19,7 +19,7 @@ import type {
 import { addDays, nextPeriod, periodStart, periodsBetween, periodsPerYear, sameIsoWeekLastYear } from '../periods.js';
 import { finestGrain } from '../grains.js';
 import { QueryBuilder } from '../sql/query-builder.js';
-import { cagr, periodOverPeriod, relativeChange, senSlope, slopesByDecade, trailingSumGrowth, yearOverYear } from '../stats/index.js';
+import { cagr, percentBaseUsable, percentChange, percentScale, senSlope, slopesByDecade, trailingSum, type PercentScale } from '../stats/index.js';
 import type { Caveat, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
 import { maxIso, minIso } from './growth-compare.js';
 import type { Reading, Template } from './template.js';
@@ -159,10 +159,15 @@ export function readGrowthSeries(
     const gaps = starts.filter((p, i) => raw[i] === null && !partial.has(p));
     if (gaps.length > 0) caveats.push({ code: 'series_gap', data: { metric, periods: gaps.length, firstGap: gaps[0]!, grain: sq.grain } });
 
-    const pop = periodOverPeriod(values);
-    const yoy = lag === null ? values.map(() => null) : sq.grain === 'week' ? values.map((v, i) => relativeChange(values[yearEarlier(i)] ?? null, v)) : yearOverYear(values, lag);
+    // Percentages only where the base allows one (stats/growth percentScale): never for a quantity
+    // that is signed in this window, never off a base below a tenth of its typical level.
+    const scale = percentScale(values, additive);
+    const pop = values.map((v, i) => (i === 0 ? null : percentChange(values[i - 1] ?? null, v, scale)));
+    const yoy = lag === null ? values.map(() => null) : values.map((v, i) => percentChange(values[yearEarlier(i)] ?? null, v, scale));
     const trailingWindow = lag !== null && lag > 1 && additive ? lag : null;
-    const trailing = trailingWindow === null ? values.map(() => null) : trailingSumGrowth(values, trailingWindow);
+    const sums = trailingWindow === null ? [] : trailingSum(values, trailingWindow);
+    const sumScale = percentScale(sums, additive);
+    const trailing = trailingWindow === null ? values.map(() => null) : sums.map((v, i) => (i < trailingWindow ? null : percentChange(sums[i - trailingWindow] ?? null, v, sumScale)));
     const points: GrowthPoint[] = starts.map((period, i) => ({
       period,
       value: raw[i]!,
@@ -171,23 +176,24 @@ export function readGrowthSeries(
       yoy: yoy[i]!,
       trailing: trailing[i]!,
     }));
-    const series: GrowthSeriesFinding = { type: 'growth_series', metric, grain: sq.grain, points, yoyLag: lag, trailingWindow };
+    const series: GrowthSeriesFinding = { type: 'growth_series', metric, grain: sq.grain, points, yoyLag: lag, trailingWindow, ...(scale.signed ? { inUnits: true } : {}) };
     findings.push(series);
 
     // A rate is undefined by its base (not by the window's start) when the base period exists but
     // its value is zero, negative or missing; a partial base is already explained by its own caveat.
-    const undefinedBase = (j: number) => j >= 0 && (values[j] === null ? !partial.has(starts[j]!) : values[j]! <= 0);
+    const undefinedBase = (j: number) => j >= 0 && (values[j] === null ? !partial.has(starts[j]!) : !percentBaseUsable(values[j]!, scale));
     const undefinedAt: string[] = [];
     values.forEach((v, i) => {
       if (v !== null && (undefinedBase(i - 1) || (lag !== null && undefinedBase(yearEarlier(i))))) undefinedAt.push(starts[i]!);
     });
 
-    const years = readYears(metric, rows, effectiveStart, effectiveEnd);
+    const years = readYears(metric, rows, effectiveStart, effectiveEnd, additive);
+    const yearScale = yearsScale(years, additive);
     findings.push(years);
     const completeYears = years.years.filter((y) => y.complete && y.value !== null);
     years.years.forEach((y, i) => {
       const prev = years.years[i - 1];
-      if (y.complete && prev?.complete && y.value !== null && (prev.value === null || prev.value <= 0)) undefinedAt.push(y.year);
+      if (y.complete && prev?.complete && y.value !== null && !percentBaseUsable(prev.value, yearScale)) undefinedAt.push(y.year);
     });
     if (completeYears.length >= 2) {
       const from = completeYears[0]!;
@@ -199,19 +205,20 @@ export function readGrowthSeries(
         from: { year: from.year, value: from.value! },
         to: { year: to.year, value: to.value! },
         years: span,
-        rate: cagr(from.value, to.value, span),
+        rate: percentBaseUsable(from.value, yearScale) ? cagr(from.value, to.value, span) : null,
       };
       if (c.rate === null) undefinedAt.push(from.year);
       findings.push(c);
     }
     if (quantityKind(metricByName(dataset, metric)) === 'level' && completeYears.length >= 2) findings.push(levelRate(metric, completeYears));
-    const ytd = readYtd(metric, rows, effectiveStart, effectiveEnd);
+    const ytd = readYtd(metric, rows, effectiveStart, effectiveEnd, additive);
     if (ytd) {
       if (ytd.relative === null && ytd.current.value !== null) undefinedAt.push(ytd.prior.year);
       findings.push(ytd);
     }
     if (undefinedAt.length > 0) {
-      caveats.push({ code: 'base_zero', data: { metric, count: undefinedAt.length, first: [...undefinedAt].sort()[0]! } });
+      const reason = scale.signed ? 'signed' : values.some((v) => v !== null && v > 0 && !percentBaseUsable(v, scale)) ? 'tiny' : 'zero';
+      caveats.push({ code: 'base_zero', data: { metric, count: undefinedAt.length, first: [...undefinedAt].sort()[0]!, reason } });
     }
   }
   return { findings, caveats };
@@ -240,7 +247,12 @@ function yearEarlierIndex(starts: readonly string[], grain: SubQuestion['grain']
   };
 }
 
-function readYears(metric: string, rows: GrowthRows, effectiveStart: string, effectiveEnd: string): GrowthYearsFinding {
+/** The scale of a metric's complete years, the base of every yearly percentage. */
+function yearsScale(years: GrowthYearsFinding, additive: boolean): PercentScale {
+  return percentScale(years.years.filter((y) => y.complete).map((y) => y.value), additive);
+}
+
+function readYears(metric: string, rows: GrowthRows, effectiveStart: string, effectiveEnd: string, additive: boolean): GrowthYearsFinding {
   const keys = [...rows.years.keys()].sort();
   const years: GrowthYear[] = keys.map((year) => ({
     year,
@@ -248,20 +260,22 @@ function readYears(metric: string, rows: GrowthRows, effectiveStart: string, eff
     complete: year >= effectiveStart && nextPeriod(year, 'year') <= effectiveEnd,
     yoy: null,
   }));
+  const found: GrowthYearsFinding = { type: 'growth_years', metric, years };
+  const scale = yearsScale(found, additive);
   for (let i = 1; i < years.length; i++) {
     const y = years[i]!;
     const prev = years[i - 1]!;
     const consecutive = nextPeriod(prev.year, 'year') === y.year;
-    if (consecutive && y.complete && prev.complete) y.yoy = relativeChange(prev.value, y.value);
+    if (consecutive && y.complete && prev.complete) y.yoy = percentChange(prev.value, y.value, scale);
   }
-  return { type: 'growth_years', metric, years };
+  return found;
 }
 
 /**
  * The last year against the year before, both counted to the same day and month. Given only when
  * the last year is unfinished (otherwise the year totals say it) and both years are covered from 1 January.
  */
-function readYtd(metric: string, rows: GrowthRows, effectiveStart: string, effectiveEnd: string): GrowthYtdFinding | null {
+function readYtd(metric: string, rows: GrowthRows, effectiveStart: string, effectiveEnd: string, additive: boolean): GrowthYtdFinding | null {
   const through = rows.through;
   if (through === null || through.slice(5) === '12-31') return null;
   const year = `${through.slice(0, 4)}-01-01`;
@@ -277,7 +291,7 @@ function readYtd(metric: string, rows: GrowthRows, effectiveStart: string, effec
     through,
     current: { year, value: current },
     prior: { year: priorYear, value: prior },
-    relative: relativeChange(prior, current),
+    relative: percentChange(prior, current, percentScale([prior, current], additive)),
     absolute: current !== null && prior !== null ? current - prior : null,
   };
 }

@@ -2,9 +2,9 @@
 // Runs the growth_series query and summarises its year-over-year rates when there are enough of them,
 // otherwise its period-over-period rates.
 import type { GrowthRateSummaryFinding, GrowthSeriesFinding } from '../findings/growth.js';
-import { argExtremes, summarize } from '../stats/index.js';
+import { argExtremes, percentScale, quantileSorted, summarize } from '../stats/index.js';
 import type { Finding } from '../types.js';
-import { changesInUnits, metricByName } from '../catalog.js';
+import { changesInUnits, isAdditive, metricByName } from '../catalog.js';
 import { compileGrowthSeries, readGrowthSeries } from './growth-series.js';
 import type { Reading, Template } from './template.js';
 
@@ -21,7 +21,10 @@ export const growthSummaryTemplate: Template = {
     const caveats = [...base.caveats];
     for (const f of base.findings) {
       if (f.type !== 'growth_series') continue;
-      const summary = summarizeRates(f, changesInUnits(metricByName(ctx.dataset, f.metric)));
+      const metric = metricByName(ctx.dataset, f.metric);
+      // A level, or a quantity signed in this window (an average delay that goes below zero), changes in its units.
+      const complete = f.points.filter((p) => !p.partial).map((p) => p.value);
+      const summary = summarizeRates(f, changesInUnits(metric) || percentScale(complete, isAdditive(metric)).signed);
       if (summary.n === 0) caveats.push({ code: 'single_period', data: { metric: f.metric, rates: 0 } });
       else if (summary.n < SMALL_RATE_COUNT) caveats.push({ code: 'small_sample', data: { n: summary.n, metric: f.metric } });
       findings.push(summary);
@@ -58,5 +61,11 @@ export function summarizeRates(series: GrowthSeriesFinding, units = false): Grow
     mean: s.mean,
     median: s.median,
     sd: s.sd,
+    quartiles: s.n < 2 ? null : quartilesOf(values),
   };
+}
+
+function quartilesOf(values: readonly (number | null)[]): { lower: number; upper: number } {
+  const sorted = values.filter((v): v is number => v !== null && Number.isFinite(v)).sort((a, b) => a - b);
+  return { lower: quantileSorted(sorted, 0.25), upper: quantileSorted(sorted, 0.75) };
 }

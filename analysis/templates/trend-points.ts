@@ -3,7 +3,7 @@
 import type { Coverage } from '../coverage.js';
 import { dataEnd as coveredEnd } from '../coverage.js';
 import { addDays, nextPeriod, parseIsoDate, periodsBetween, periodsPerYear } from '../periods.js';
-import { seasonalIndices, type SeasonalModel } from '../stats/index.js';
+import { percentScale, seasonalIndices, type SeasonalModel } from '../stats/index.js';
 import type { DateWindow, Finding, Grain, PeriodPoint, ResultTable } from '../types.js';
 
 export const EMPTY_TABLE: ResultTable = { columns: [], rows: [], truncated: false };
@@ -57,7 +57,12 @@ export function periodsInYear(grain: Grain): number {
  * per period.
  */
 export function relativeYearlyRateApplies(values: readonly number[], grain: Grain): boolean {
-  return values.length >= periodsInYear(grain) && values.every((v) => v > 0);
+  return spansAYear(values.length, grain) && !percentScale(values, false).signed;
+}
+
+/** Whether `periods` complete periods make a year or more: a slope over fewer is said per period, never "a year". */
+export function spansAYear(periods: number, grain: Grain): boolean {
+  return periods >= periodsInYear(grain) - 1e-9;
 }
 
 export function mean(values: readonly number[]): number | null {

@@ -8,7 +8,7 @@ import type { Caveat, Finding, PeriodPoint, ResultTable, SubQuestion } from '../
 import type { TrendTestFinding } from '../findings/segments.js';
 import { compileSeries, readSeries } from './series.js';
 import type { ReadContext, Reading, Template } from './template.js';
-import { completePoints, EMPTY_TABLE, mean, periodsInYear, seasonallyAdjusted, seriesFinding } from './trend-points.js';
+import { completePoints, EMPTY_TABLE, mean, periodsInYear, relativeYearlyRateApplies, seasonallyAdjusted, seriesFinding, spansAYear } from './trend-points.js';
 
 /** Conventional two-sided significance level (common practice, not a law). */
 export const TREND_ALPHA = 0.05;
@@ -86,7 +86,9 @@ function trendTest(sq: SubQuestion, points: readonly PeriodPoint[], complete: Re
     direction: mk.pValue < TREND_ALPHA && mk.s !== 0 ? (mk.s > 0 ? 'up' : 'down') : 'none',
     slopePerPeriod: sen.slope,
     slopePerYear,
-    slopePerYearRelative: level !== null && level > 0 ? slopePerYear / level : null,
+    // A percentage of the level only where the rule allows one (trend-points relativeYearlyRateApplies).
+    slopePerYearRelative: level !== null && level > 0 && relativeYearlyRateApplies(raw, sq.grain) ? slopePerYear / level : null,
+    ...(spansAYear(spanned, sq.grain) ? {} : { underAYear: true }),
     intercept: sen.intercept,
     smallSample: mk.smallSample,
     byDecade: decadesOf(complete, values),

@@ -217,6 +217,8 @@ const summaryFinding: GrowthRateSummaryFinding = {
   mean: 0.05,
   median: 0.05,
   sd: 0.1291,
+  // Quartiles of −0.1, 0, 0.1, 0.2 by linear interpolation (numpy's default, R type 7): −0.025 and 0.125.
+  quartiles: { lower: -0.025, upper: 0.125 },
 };
 
 describe('growth_summary presenter', () => {
@@ -224,9 +226,9 @@ describe('growth_summary presenter', () => {
     const s = sq('growth_summary', { lens: 'summary' });
     const m = present(answer(s, [summaryFinding]), 'managers');
     expect(m.title).toBe("Revenue's growth on the same month a year earlier ranged from −10.0% (Feb 2024) to +20.0% (Mar 2024)");
-    expect(m.caption).toBe('Across 4 months, growth on the same month a year earlier averaged +5.0% (middle value +5.0%); it typically varied by about 12.9 pts around the average.');
+    expect(m.caption).toBe('Across 4 months, growth on the same month a year earlier had a middle value of +5.0%; half of the months lay between −2.5% and +12.5%.');
     const a = present(answer(s, [summaryFinding]), 'analysts');
-    expect(a.caption).toBe('4 year-over-year rates: mean +5.0%, median +5.0%, sample SD 12.9 pts; min −10.0% (Feb 2024), max +20.0% (Mar 2024).');
+    expect(a.caption).toBe('4 year-over-year rates: median +5.0%, mean +5.0%, sample SD 12.9 pts; min −10.0% (Feb 2024), max +20.0% (Mar 2024).');
     const l = present(answer(s, [summaryFinding]), 'leadership');
     expect(l.caption).toBe('Across 4 months, the typical change on the same month a year earlier was +5.0%.');
     if (m.chart?.kind !== 'line') throw new Error('expected a line');
