@@ -82,7 +82,7 @@ export async function serve(opts: ServeOptions): Promise<Serving> {
   }
   const { store, queue } = backend;
   const knows: KnownThread = async (threadId) => (await store.get(threadId)) !== undefined;
-  const starters = startersFor([...workspaces.values()].map((w) => ({ dataset: w.dataset, firstDate: w.coverage.firstDate, lastDate: w.coverage.lastDate })));
+  const starters = startersFor([...workspaces.values()].map((w) => ({ dataset: w.dataset, coverage: w.coverage })));
 
   // The bot needs the router and the adapters need the inbox: deliver is bound late.
   let inbox: ThreadInbox | undefined;

@@ -178,6 +178,10 @@ describe('starters drawn from the served data (stocks.csv)', () => {
       expect(starters).toContain('How has share price moved over time, month by month?');
       expect(starters).toContain('Which company drove the change in share price in 2009 against 2008?');
       expect(starters.join(' ')).not.toMatch(/revenue|routes|SkerryPass/i);
+      // The page as served has no questions built in, so none from the demo shows before the starters arrive.
+      const html = await (await fetch(serving.localUrl)).text();
+      expect(html).toContain('class="examples" hidden');
+      expect(html).not.toMatch(/revenue|routes|SkerryPass|bookings/i);
       // The page itself, in Debian's chromium: its buttons are these starters, not the built-in demo ones.
       if (existsSync(CHROMIUM) || process.env.CI === 'true') {
         const { chromium } = await import('playwright-core');
@@ -187,6 +191,8 @@ describe('starters drawn from the served data (stocks.csv)', () => {
           await page.goto(serving.localUrl);
           await page.waitForFunction(() => document.querySelector('button.example')?.textContent?.includes('share price'));
           expect(await page.locator('button.example').allTextContents()).toEqual(starters);
+          expect(await page.locator('.examples').isVisible()).toBe(true);
+          expect(await page.locator('#request-text').getAttribute('placeholder')).toBe(`e.g. ${starters[0]}`);
         } finally {
           await browser.close();
         }

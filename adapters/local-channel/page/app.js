@@ -479,15 +479,14 @@ function bindExample(b) {
     $('request-text').focus();
   });
 }
-for (const b of document.querySelectorAll('button.example')) bindExample(b);
 
-// The served data's own starters replace the page's built-in ones (those are the demo's).
+// The starters are the served data's own (starters.ts, the same list serve's hint comes from); the
+// page has none built in, so it never offers another dataset's questions, even for a moment.
 fetch('/api/starters', { headers: { accept: 'application/json' } })
   .then((r) => (r.ok ? r.json() : null))
   .then((body) => {
     if (!body || !Array.isArray(body.starters) || body.starters.length === 0) return;
     const box = document.querySelector('.examples');
-    for (const old of box.querySelectorAll('button.example')) old.remove();
     for (const text of body.starters) {
       const b = document.createElement('button');
       b.type = 'button';
@@ -496,6 +495,7 @@ fetch('/api/starters', { headers: { accept: 'application/json' } })
       bindExample(b);
       box.appendChild(b);
     }
+    box.hidden = false;
     $('request-text').placeholder = `e.g. ${body.starters[0]}`;
   })
   .catch(() => undefined);
