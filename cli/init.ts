@@ -2,7 +2,7 @@
 // config (analysis/sources/draft-config.ts) for the user to review, then check, then serve.
 import { existsSync, writeFileSync } from 'node:fs';
 import { basename, dirname, extname, isAbsolute, relative, resolve } from 'node:path';
-import { Document, isMap, isSeq } from 'yaml';
+import { Document, isMap, isScalar, isSeq } from 'yaml';
 import { SourceError } from '../analysis/sources/data-source.js';
 import { catalogNameOf, draftConfig, profileColumns } from '../analysis/sources/draft-config.js';
 import { DuckDbSource } from '../analysis/sources/duckdb-source.js';
@@ -45,7 +45,7 @@ export async function draftConfigFile(opts: InitOptions): Promise<{ summary: str
       '# personal_data on columns that hold people\'s details. Then: threadcount check --config FILE',
       '',
     ].join('\n');
-    writeFileSync(opts.out, `${header}${withComments(draft.config, draft.comments)}`);
+    writeFileSync(opts.out, `${header}${withComments(draft.config, draft.comments, draft.timeComment)}`);
     return { file: opts.out, summary: `Wrote ${opts.out}.\n${draft.notes.map((n) => `  ${n}`).join('\n')}\nNext: review it, then threadcount check --config ${opts.out}\n` };
   } finally {
     await source.close();
@@ -96,12 +96,14 @@ async function onlyTable(path: string, engine: { statement_timeout_ms: number; m
   }
 }
 
-/** The draft as YAML, with what init guessed about each metric as a comment above it. */
-function withComments(config: Record<string, unknown>, comments: Record<string, string>): string {
+/** The draft as YAML, with what init guessed about each metric (and a text time column) as a comment above it. */
+function withComments(config: Record<string, unknown>, comments: Record<string, string>, timeComment?: string): string {
   const doc = new Document(config);
   const datasets = doc.get('datasets');
   if (isSeq(datasets)) {
     for (const ds of datasets.items) {
+      const time = isMap(ds) && timeComment ? ds.items.find((p) => isScalar(p.key) && p.key.value === 'time_column') : undefined;
+      if (time && isScalar(time.key)) time.key.commentBefore = timeComment;
       const metrics = isMap(ds) ? ds.get('metrics') : undefined;
       if (!isSeq(metrics)) continue;
       for (const m of metrics.items) {

@@ -86,21 +86,33 @@ export function fitsDateFormat(text: string, parts: DateFormatPart[]): boolean {
   return true;
 }
 
-/**
- * Common ways dates are written as text, tried in this order by `init` (ISO dates are read as dates
- * by the engines already). Day-first before month-first: when both fit every example, init says so.
- */
-export const TEXT_DATE_FORMATS = [
-  '%b %d %Y', '%b %d, %Y', '%B %d %Y', '%B %d, %Y', '%d %b %Y', '%d %B %Y', '%b %Y', '%B %Y',
-  '%d/%m/%Y', '%m/%d/%Y', '%d.%m.%Y', '%d-%m-%Y', '%m-%d-%Y', '%Y/%m/%d',
-  '%d/%m/%Y %H:%M', '%m/%d/%Y %H:%M', '%d/%m/%Y %H:%M:%S', '%m/%d/%Y %H:%M:%S',
-] as const;
+// Common ways dates and times are written as text, tried by `init` over a sample of a text column's
+// values (analysis/sources/text-dates.ts). The order settles ties: year first, then day first, then
+// month first (when a day-first and a month-first reading both fit every value, init takes the
+// day-first one and says so), four-digit years before two-digit ones, then month names.
+const SEPARATORS = ['/', '-', '.'];
+const TIMES = ['', ' %H:%M', ' %H:%M:%S'];
+const YEAR_FIRST = SEPARATORS.flatMap((s) => [...TIMES, 'T%H:%M', 'T%H:%M:%S'].map((t) => `%Y${s}%m${s}%d${t}`));
+const dayMonth = (first: string, second: string, year: string) => SEPARATORS.flatMap((s) => TIMES.map((t) => `%${first}${s}%${second}${s}%${year}${t}`));
+const MONTH_NAMED = ['%b %d %Y', '%b %d, %Y', '%B %d %Y', '%B %d, %Y', '%d %b %Y', '%d %B %Y', '%d-%b-%Y', '%d %b %Y %H:%M', '%b %d %Y %H:%M', '%b %Y', '%B %Y'];
 
-/** The formats every example fits (none when there are no examples). */
-export function textDateFormatsOf(examples: readonly string[]): string[] {
-  if (examples.length === 0) return [];
-  return TEXT_DATE_FORMATS.filter((f) => {
-    const parts = parseDateFormat(f);
-    return typeof parts !== 'string' && examples.every((x) => fitsDateFormat(x, parts));
-  });
+export const TEXT_DATE_FORMATS: readonly string[] = [
+  ...YEAR_FIRST,
+  ...dayMonth('d', 'm', 'Y'),
+  ...dayMonth('m', 'd', 'Y'),
+  ...dayMonth('d', 'm', 'y'),
+  ...dayMonth('m', 'd', 'y'),
+  ...MONTH_NAMED,
+];
+
+/** The same format read the other way round, day for month (for saying when the data cannot tell them apart). */
+export function dayMonthSwapped(format: string): string | undefined {
+  if (!format.includes('%d') || !format.includes('%m')) return undefined;
+  return format.replace('%d', '\u0000').replace('%m', '%d').replace('\u0000', '%m');
+}
+
+/** True when the text fits the format as PostgreSQL's pattern guard reads it (the engine-side check for DuckDB is try_strptime). */
+export function fitsTextDateFormat(text: string, format: string): boolean {
+  const parts = parseDateFormat(format);
+  return typeof parts !== 'string' && fitsDateFormat(text, parts);
 }

@@ -1,19 +1,32 @@
 // `threadcount init`: a first config drafted from the data itself, so a new user starts from
 // something that loads and checks. It reads the table's columns and a sample of rows, then
-// guesses: the time column (a date column, or year/month/day parts), a count of rows, a sum or an
-// average per numeric column with its kind of quantity, a rate per true/false column, dimensions
-// for low-cardinality text, and personal data (emails, phone numbers, names) marked so. Every
-// guess is written where the user reviews it; `also_called` is left for them to fill in.
-import { textDateFormatsOf } from '../../config/date-format.js';
+// guesses: the time column (a date column, year/month/day parts, or text the engine reads as dates),
+// a count of rows, a sum or an average per numeric column with its kind of quantity and unit, a
+// rate per true/false column, dimensions for text with few values for its rows, and personal data
+// (emails, phone numbers, names) marked so. Every guess is written where the user reviews it;
+// `also_called` is left for them to fill in.
 import type { SourceConfig } from '../../config/schema.js';
 import { quoteIdentifier } from '../sql/dialect.js';
 import type { DataSource, TableColumn } from './data-source.js';
 import { typeFamily } from './dataset-check.js';
+import { mayBeDates, readTextDates, type TextDateReading } from './text-dates.js';
 
 const SAMPLE_ROWS = 100_000;
-// Text with at most this many values in the sample is a dimension (common practice: a breakdown
-// reads at a glance with a few dozen segments at most).
-const DIMENSION_MAX_VALUES = 60;
+// Text is a breakdown (a dimension) when its values are few for the rows (common practice, not a
+// published rule): a few dozen at most reads at a glance in any table; a larger table may carry more
+// (220 airports in 20,000 flights, 174 distributors in 3,201 films) while each value has 10 rows or
+// more on average (at most 10% as many values as rows) and there are at most 1,000 of them. More than that is a name, an id or free
+// text: counted or left out, never grouped by.
+const DIMENSION_FEW_VALUES = 60;
+const DIMENSION_MAX_SHARE_OF_ROWS = 0.1;
+const DIMENSION_CEILING = 1000;
+
+/** True when a text column with this many values in this many rows reads as a breakdown. */
+export function isBreakdown(values: number, rows: number): boolean {
+  // One value only: a breakdown by it shows nothing.
+  if (values < 2) return false;
+  return (values <= DIMENSION_FEW_VALUES && values < Math.max(2, rows / 2)) || (values <= DIMENSION_CEILING && values <= rows * DIMENSION_MAX_SHARE_OF_ROWS);
+}
 
 export interface ColumnProfile {
   name: string;
@@ -23,6 +36,10 @@ export interface ColumnProfile {
   nonNull: number;
   /** A few non-empty values as text (for spotting emails and phone numbers). */
   examples: string[];
+  /** A number column's least value in the sample (below zero: not an amount to add up). */
+  min?: number;
+  /** A text column the engine reads as dates, and in which format. */
+  textDate?: TextDateReading;
 }
 
 /** How many distinct (date, breakdown value) pairs the sampled rows hold. */
@@ -49,7 +66,12 @@ export async function profileColumns(source: DataSource, table: string): Promise
   const q = quoteIdentifier;
   const text = source.dialect.name === 'postgres' ? 'TEXT' : 'VARCHAR';
   const sample = `(SELECT * FROM ${q(table)} LIMIT ${SAMPLE_ROWS}) AS tc_sample`;
-  const parts = described.flatMap((c, i) => [`COUNT(DISTINCT ${q(c.name)}) AS d${i}`, `COUNT(${q(c.name)}) AS n${i}`]);
+  const double = source.dialect.name === 'postgres' ? 'DOUBLE PRECISION' : 'DOUBLE';
+  const parts = described.flatMap((c, i) => [
+    `COUNT(DISTINCT ${q(c.name)}) AS d${i}`,
+    `COUNT(${q(c.name)}) AS n${i}`,
+    ...(typeFamily(c.type) === 'number' ? [`MIN(CAST(${q(c.name)} AS ${double})) AS m${i}`] : []),
+  ]);
   const run = { maxRows: 1000, timeoutMs: 120_000 };
   const stats = (await source.run({ sql: `SELECT COUNT(*) AS tc_rows, ${parts.join(', ')} FROM ${sample}`, params: [] }, run)).rows[0] ?? {};
   const examples = described.length
@@ -62,26 +84,50 @@ export async function profileColumns(source: DataSource, table: string): Promise
     values: Number(stats[`d${i}`] ?? 0),
     nonNull: Number(stats[`n${i}`] ?? 0),
     examples: examples.map((r) => r[`e${i}`]).filter((v): v is string => typeof v === 'string' && v !== '').slice(0, 200),
+    ...(stats[`m${i}`] !== null && stats[`m${i}`] !== undefined ? { min: Number(stats[`m${i}`]) } : {}),
   }));
+  const textDates = await readTextDates(source, table, columns.filter((c) => c.family === 'text' && mayBeDates(c.examples)).map((c) => c.name), SAMPLE_ROWS);
+  for (const c of columns) if (textDates[c.name]) c.textDate = textDates[c.name];
   // Rows per date and breakdown value: one row each (a reading per industry per month) says the
   // numbers beside them are readings of a level, not amounts that add up over time.
-  const times = columns.filter((c) => c.family === 'time' || (c.family === 'text' && textDateFormatsOf(c.examples).length > 0));
-  const breakdowns = columns.filter((c) => c.family === 'text' && c.values > 1 && c.values <= DIMENSION_MAX_VALUES && !times.includes(c));
+  const rows = Number(stats.tc_rows ?? 0);
+  const times = columns.filter((c) => c.family === 'time' || c.textDate);
+  const breakdowns = columns.filter((c) => c.family === 'text' && c.values > 1 && isBreakdown(c.values, rows) && !times.includes(c));
   const pairs = times.flatMap((t) => breakdowns.map((d) => ({ time: t.name, dimension: d.name })));
   const pairCounts = pairs.length
     ? (await source.run({ sql: `SELECT ${pairs.map((p, i) => `COUNT(DISTINCT CAST(${q(p.time)} AS ${text}) || '|' || CAST(${q(p.dimension)} AS ${text})) AS p${i}`).join(', ')} FROM ${sample}`, params: [] }, run)).rows[0] ?? {}
     : {};
-  return { rows: Number(stats.tc_rows ?? 0), columns, readings: pairs.map((p, i) => ({ ...p, distinct: Number(pairCounts[`p${i}`] ?? 0) })) };
+  return { rows, columns, readings: pairs.map((p, i) => ({ ...p, distinct: Number(pairCounts[`p${i}`] ?? 0) })) };
 }
 
 const EMAIL = /^[^\s@]+@[^\s@]+\.[^\s@]+$/;
 const PHONE = /^\+?[\d\s().-]{7,20}$/;
 const PERSONAL_NAME = /(^|_)(e_?mail|phone|mobile|telephone|tel|first_?name|last_?name|surname|full_?name|given_?name|family_?name|address|street|postcode|zip_?code|birth_?date|date_?of_?birth|dob|passport|ssn|national_?id)($|_)/;
-const PERSON_COLUMN = /(^|_)(name)$/;
+// Names of people and the people a row is about: personal when they hold many values, or nearly one
+// per row (a name per person), unless the name is a thing's (airport_name, product_name).
+const PERSON_COLUMN = /(^|_)(name|customer|client|patient|employee|passenger|guest|member|user|username|contact|person|driver|owner|student|buyer|recipient|sender|holder|candidate)$/;
+const THING_NAME = /(^|_)(airport|airline|carrier|operator|product|item|company|business|brand|store|shop|branch|city|town|country|state|region|county|district|province|station|stop|port|harbour|harbor|route|line|ship|vessel|aircraft|model|team|department|dept|category|type|species|genre|title|file|host|server|app|project|campaign|event|venue|school|hospital|series|job|course|game|track|song|album|movie|film|show|channel|site|page|industry|sector|plan|service|segment|market|currency|unit|metric|field|column|table)_name$/;
+// Values that are keys whatever the column is called: UUIDs and long hexadecimal hashes.
+const ID_VALUE = /^([0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}|[0-9a-f]{16,})$/i;
 // Readings averaged over time rather than added up (a level, not a flow).
 const LEVEL_WORDS = /(^|_)(temp|temperature|level|balance|concentration|co2|ppm|price|index|rate|ratio|pct|percent|share|avg|mean|average|headcount|stock|inventory|population|pressure|humidity|speed|wind|latitude|longitude|lat|lon|lng|score|age|height|weight)($|_|\d)/;
 // Amounts that add up over time whatever the data's shape (a flow).
 const FLOW_WORDS = /(^|_)(revenue|sales|amount|spend|spent|cost|costs|paid|income|sold|orders|bookings|visits|trips|births|deaths|arrivals|departures|volume|quantity|qty|units|takings|fares|tickets|calls|clicks|views|downloads)($|_|\d)/;
+// Money: a sum (or, for a price, an average) with unit currency. The currency comes from a mark or
+// code in a column's name ("Cost Total $"), the same for the table's other money columns.
+const MONEY_WORDS = /(^|_)(revenue|revenues|sales|amount|amounts|spend|spent|cost|costs|paid|income|price|prices|fare|fares|fee|fees|takings|profit|profits|budget|gross|salary|salaries|wage|wages|payment|payments|receipts|disbursements|refund|refunds|cash|loan|loans|debt|debts|contributions|donations|usd|eur|gbp|dollars|euros)($|_|\d)/;
+const CURRENCY_MARKS: readonly [RegExp, string][] = [[/\$/, 'USD'], [/€/, 'EUR'], [/£/, 'GBP'], [/¥/, 'JPY'], [/₹/, 'INR']];
+const CURRENCY_CODE = /(^|_)(usd|eur|gbp|jpy|chf|cad|aud|nzd|sek|nok|dkk|inr|cny)($|_)/;
+// A value per row that a total would not mean (a flight's delay, a rating, a duration): its mean per row.
+const PER_ROW_WORDS = /(^|_)(delay|delays|lateness|latency|duration|wait|waiting|rating|ratings|stars|grade|per|elevation|altitude)($|_|\d)/;
+
+/** The currency a column's name states ("$" read as USD), and what it was read from. */
+function currencyNamed(column: string): { code: string; from: string } | undefined {
+  for (const [mark, code] of CURRENCY_MARKS) if (mark.test(column)) return { code, from: `"${mark.source.replace(/\\/g, '')}" in ${column}` };
+  const code = CURRENCY_CODE.exec(catalogNameOf(column))?.[2];
+  return code ? { code: code.toUpperCase(), from: `"${code}" in ${column}` } : undefined;
+}
+
 // Names that say which way is good. Anything else is left without a direction: its changes are told
 // as rises and falls, never as better or worse (a count of unemployed, a price).
 const GOOD_WHEN_HIGHER = /(^|_)(revenue|sales|profit|income|margin|satisfaction|satisfied|retention|conversion|uptime|on_?time)($|_|\d)/;
@@ -94,6 +140,8 @@ function directionOf(name: string): { higher_is_better?: boolean } {
   return {};
 }
 
+// The currency a money column gets when no column names one: said in the notes and the file.
+const ASSUMED_CURRENCY = 'USD';
 const PERCENT_WORDS = /(^|_)(rate|pct|percent|percentage|share)($|_)/;
 const ID_WORDS = /(^|_)(id|key|uuid|code)$/;
 const YEAR = /^(year|yr|yyyy)$/;
@@ -117,18 +165,25 @@ function columnExpr(name: string): string {
 }
 
 function labelOf(column: string): string {
-  const words = column.replace(/([a-z0-9])([A-Z])/g, '$1 $2').replace(/[_\s]+/g, ' ').trim();
+  // Currency marks are said by the unit ("$1.2M"), not the label.
+  const words = column.replace(/([a-z0-9])([A-Z])/g, '$1 $2').replace(/[$€£¥₹]/g, ' ').replace(/[_\s]+/g, ' ').trim();
   return words.charAt(0).toUpperCase() + words.slice(1);
 }
 
-/** A text column whose examples all read as dates in one common format (preferring a name that says so). */
-function textDateColumn(columns: ColumnProfile[]): { column: ColumnProfile; format: string; others: string[] } | undefined {
-  const found = columns
-    .filter((c) => c.family === 'text' && c.examples.length > 0 && c.nonNull > 0)
-    .map((c) => ({ column: c, formats: textDateFormatsOf(c.examples) }))
-    .filter((x) => x.formats.length > 0);
-  const pick = found.find((x) => TIME_WORDS.test(catalogNameOf(x.column.name))) ?? found[0];
-  return pick ? { column: pick.column, format: pick.formats[0]!, others: pick.formats.slice(1) } : undefined;
+/** A text column the engine reads as dates (preferring a name that says so). */
+function textDateColumn(columns: ColumnProfile[]): (ColumnProfile & { textDate: TextDateReading }) | undefined {
+  const found = columns.filter((c): c is ColumnProfile & { textDate: TextDateReading } => c.family === 'text' && !!c.textDate);
+  return found.find((c) => TIME_WORDS.test(catalogNameOf(c.name))) ?? found[0];
+}
+
+/** What init read of a text date column, and what it assumed, for the notes and the file. */
+function textDateSaid(c: ColumnProfile & { textDate: TextDateReading }): string {
+  const t = c.textDate;
+  const said = [`text dates read as ${t.format} (${t.read === t.sampled ? `all ${t.sampled}` : `${t.read} of ${t.sampled}`} distinct values sampled${t.read < t.sampled ? '; the others read as no date' : ''})`];
+  if (t.dayMonthUnsettled) said.push(`every sampled value has a day and a month of 12 or under, so the data cannot tell day-first from month-first: assumed ${t.format}; if the month comes first write ${t.dayMonthUnsettled}`);
+  const others = t.others.filter((f) => f !== t.dayMonthUnsettled);
+  if (others.length) said.push(`they also fit ${others.join(', ')}: check which the data means`);
+  return said.join('; ');
 }
 
 export interface Draft {
@@ -137,6 +192,8 @@ export interface Draft {
   notes: string[];
   /** By metric name: what init guessed about it, written as a comment above it in the file. */
   comments: Record<string, string>;
+  /** What init read and assumed about the time column, written above it in the file. */
+  timeComment?: string;
 }
 
 export function draftConfig(input: DraftInput): Draft {
@@ -150,7 +207,10 @@ export function draftConfig(input: DraftInput): Draft {
   };
   const personal = (c: ColumnProfile) =>
     PERSONAL_NAME.test(catalogNameOf(c.name)) ||
-    (c.family === 'text' && PERSON_COLUMN.test(catalogNameOf(c.name)) && c.values > DIMENSION_MAX_VALUES) ||
+    (c.family === 'text' &&
+      PERSON_COLUMN.test(catalogNameOf(c.name)) &&
+      !THING_NAME.test(catalogNameOf(c.name)) &&
+      (c.values > DIMENSION_FEW_VALUES || (input.rows >= 10 && c.values >= input.rows / 2))) ||
     (c.examples.length > 0 && c.examples.filter((v) => EMAIL.test(v)).length / c.examples.length > 0.5) ||
     (c.family === 'text' && c.examples.length > 0 && c.examples.filter((v) => PHONE.test(v) && /\d{3}/.test(v)).length / c.examples.length > 0.8);
 
@@ -164,11 +224,13 @@ export function draftConfig(input: DraftInput): Draft {
   // Failing those, text that reads as dates in one of the common formats ("Jan 1 2000", "31/12/2024").
   const textDate = time || year ? undefined : textDateColumn(input.columns);
   let timeColumn: unknown;
+  let timeComment: string | undefined;
   const timeParts = new Set<string>();
   if (textDate) {
-    timeColumn = { expr: `strptime(${columnExpr(textDate.column.name)}, '${textDate.format}')` };
-    timeParts.add(textDate.column.name);
-    notes.push(`time column: ${textDate.column.name}, text dates read as ${textDate.format}${textDate.others.length ? ` (they also fit ${textDate.others.join(', ')}: check which the data means)` : ''}`);
+    timeColumn = { expr: `strptime(${columnExpr(textDate.name)}, '${textDate.textDate.format}')` };
+    timeParts.add(textDate.name);
+    notes.push(`time column: ${textDate.name}, ${textDateSaid(textDate)}`);
+    timeComment = ` drafted by init: ${textDate.name} holds dates as text, ${textDateSaid(textDate)}`;
   } else if (time) {
     timeColumn = time.name;
     notes.push(`time column: ${time.name}`);
@@ -183,7 +245,7 @@ export function draftConfig(input: DraftInput): Draft {
 
   // One row per date and breakdown value, several per date: the numbers are readings of each value
   // at each date (unemployed per industry per month, a price per company per month).
-  const timeName = textDate?.column.name ?? time?.name;
+  const timeName = textDate?.name ?? time?.name;
   const dateValues = input.columns.find((c) => c.name === timeName)?.values ?? 0;
   const panel = input.readings?.find((r) => r.time === timeName && r.distinct === input.rows && dateValues > 0 && dateValues < input.rows);
   // Said above each metric in the file, where the person reviews it (never in a description, which
@@ -194,6 +256,15 @@ export function draftConfig(input: DraftInput): Draft {
   const metrics: Record<string, unknown>[] = [{ name: rowsName, label: 'Rows', also_called: [], count: 'rows', unit: 'count', kind: 'flow' }];
   const dimensions: Record<string, unknown>[] = [];
   let keyColumn: string | undefined;
+  const moneyMetrics: string[] = [];
+  // Money columns share the currency a name states ("Cost Total $"); without one it is assumed, and said.
+  const isMoney = (c: ColumnProfile) => c.family === 'number' && (MONEY_WORDS.test(catalogNameOf(c.name)) || !!currencyNamed(c.name));
+  const tableCurrency = input.columns.filter(isMoney).map((c) => currencyNamed(c.name)).find(Boolean);
+  // Rows per time value: about one is a reading per date (a level); many are events, whose values are averaged per row.
+  const timeValues = input.columns.find((c) => c.name === (textDate?.name ?? time?.name))?.values ?? 0;
+  const eventsPerStamp = timeValues > 0 && input.rows / timeValues > 1.5;
+  const leftOutText: string[] = [];
+  const numericText: string[] = [];
   // With a date column, its year, month and day columns repeat it: never amounts to add up.
   const repeatsDate = (c: ColumnProfile) => !!time && c.family === 'number' && [YEAR, MONTH, DAY].some((re) => re.test(catalogNameOf(c.name)));
   const leftOut = input.columns.filter(repeatsDate).map((c) => c.name);
@@ -217,19 +288,14 @@ export function draftConfig(input: DraftInput): Draft {
       continue;
     }
     if (c.family === 'number') {
-      // Whole numbers with a handful of values (a weekday, a category code) are a breakdown, not an amount.
-      if (c.values > 0 && c.values <= 7 && input.rows > 50) {
+      // Whole numbers with a handful of values (a weekday, a category code) are a breakdown, not an
+      // amount, unless the name says amount or money.
+      const wholeNumbers = c.examples.every((v) => /^-?\d+$/.test(v));
+      if (c.values > 0 && c.values <= 7 && input.rows > 50 && wholeNumbers && !isMoney(c) && !FLOW_WORDS.test(name)) {
         dimensions.push({ name: unique(name), label: labelOf(c.name), also_called: [], column: c.name });
         continue;
       }
-      const named = LEVEL_WORDS.test(name);
-      // A reading per breakdown value per date adds up across values on one date, never over time:
-      // drafted as its average (a year is the mean of its readings), unless its name says amount.
-      const reading = !named && !!panel && !FLOW_WORDS.test(name);
       const metricName = unique(name);
-      if (named) comments[metricName] = ` drafted by init: a level (its name reads as a reading), averaged over time`;
-      else if (reading) comments[metricName] = ` drafted by init: a level, averaged over time: the data has one row per ${panel!.dimension} per ${panel!.time}, so ${c.name} reads as a reading, not an amount (make it sum and kind: flow if it adds up over time)`;
-      else comments[metricName] = ` drafted by init: a flow, added up over time (make it average and kind: level if it is a reading such as a balance)`;
       // A rate or share: percent, as a fraction (0.021) or, when its values are mostly above 1.5
       // and at most 100, as points (2.1) divided by 100 so that it shows as 2.1%.
       const numbers = c.examples.map(Number).filter((v) => Number.isFinite(v));
@@ -242,17 +308,30 @@ export function draftConfig(input: DraftInput): Draft {
         metrics.push({ name: metricName, label: labelOf(c.name), also_called: [], average: points ? `${columnExpr(c.name)} / 100` : columnExpr(c.name), unit: 'percent', ...directionOf(name), kind: 'level' });
         continue;
       }
-      metrics.push(
-        named || reading
-          ? { name: metricName, label: labelOf(c.name), also_called: [], average: columnExpr(c.name), unit: 'number', ...directionOf(name), kind: 'level' }
-          : { name: metricName, label: labelOf(c.name), also_called: [], sum: columnExpr(c.name), unit: 'number', ...directionOf(name), kind: 'flow' },
-      );
+      const { how, kind, why } = howItAddsUp(c, name);
+      comments[metricName] = ` drafted by init: ${why}`;
+      const money = isMoney(c);
+      if (money) {
+        const own = currencyNamed(c.name) ?? tableCurrency;
+        comments[metricName] += own ? `; money in ${own.code}, read from ${own.from}` : `; money (its name says so) in ${ASSUMED_CURRENCY}, assumed: no column names its currency, so set currency`;
+        moneyMetrics.push(metricName);
+      }
+      const currency = money ? { currency: (currencyNamed(c.name) ?? tableCurrency)?.code ?? ASSUMED_CURRENCY } : {};
+      metrics.push({ name: metricName, label: labelOf(c.name), also_called: [], [how]: columnExpr(c.name), unit: money ? 'currency' : 'number', ...currency, ...directionOf(name), kind });
       continue;
     }
-    if (c.family === 'text' && c.values > 0 && c.values <= DIMENSION_MAX_VALUES && c.values < Math.max(2, input.rows / 2)) {
+    if (c.family !== 'text' || c.values === 0) continue;
+    if (numbersAsText(c) && (c.values > 7 || MONEY_WORDS.test(name) || FLOW_WORDS.test(name))) {
+      numericText.push(c.name);
+    } else if (isBreakdown(c.values, input.rows) && !freeText(c) && !c.examples.every((v) => ID_VALUE.test(v))) {
       dimensions.push({ name: unique(name), label: labelOf(c.name), also_called: [], column: c.name });
+    } else {
+      leftOutText.push(`${c.name} (${c.values.toLocaleString('en')} value${c.values === 1 ? '' : 's'}${freeText(c) ? ', free text' : ''})`);
     }
   }
+  if (numericText.length) notes.push(`left out (numbers written as text: add a metric over CAST(column AS DOUBLE) if they are amounts): ${numericText.join(', ')}`);
+  if (leftOutText.length) notes.push(`left out (one value only, too many values in ${input.rows.toLocaleString('en')} rows for a breakdown, or free text): ${leftOutText.join(', ')}`);
+  if (moneyMetrics.length) notes.push(`money (unit currency): ${moneyMetrics.join(', ')}, in ${tableCurrency ? `${tableCurrency.code} (read from ${tableCurrency.from})` : `${ASSUMED_CURRENCY}, assumed (no column names its currency): set currency`}`);
   const dataset: Record<string, unknown> = {
     name: input.datasetName,
     label: input.label,
@@ -266,5 +345,31 @@ export function draftConfig(input: DraftInput): Draft {
   };
   notes.push(`metrics: ${metrics.map((m) => `${String(m.name)} (${String(m.kind)})`).join(', ')}`);
   notes.push(`dimensions: ${dimensions.map((d) => String(d.name)).join(', ') || 'none'}`);
-  return { config: { version: 1, datasets: [dataset] }, notes, comments };
+  return { config: { version: 1, datasets: [dataset] }, notes, comments, ...(timeComment ? { timeComment } : {}) };
+
+  /** Sum, or average, and why: said above the metric in the file. */
+  function howItAddsUp(c: ColumnProfile, name: string): { how: 'sum' | 'average'; kind: 'flow' | 'level' | 'ratio'; why: string } {
+    const flow = FLOW_WORDS.test(name) || MONEY_WORDS.test(name) || !!currencyNamed(c.name);
+    if (LEVEL_WORDS.test(name) && (panel || !eventsPerStamp)) return { how: 'average', kind: 'level', why: 'a level (its name reads as a reading), averaged over time' };
+    if (LEVEL_WORDS.test(name)) return { how: 'average', kind: 'ratio', why: `a value per row (its name reads as a reading; the data has ${(input.rows / timeValues).toFixed(1)} rows per ${timeName} on average, so the mean per row), averaged over the rows` };
+    // A reading per breakdown value per date adds up across values on one date, never over time:
+    // drafted as its average (a year is the mean of its readings), unless its name says amount.
+    if (panel && !flow) return { how: 'average', kind: 'level', why: `a level, averaged over time: the data has one row per ${panel.dimension} per ${panel.time}, so ${c.name} reads as a reading, not an amount (make it sum and kind: flow if it adds up over time)` };
+    if (PER_ROW_WORDS.test(name) && !flow) return { how: 'average', kind: 'ratio', why: 'a value per row (its name reads as one: a delay, a duration, a rating), averaged over the rows; a total would mean little (make it sum and kind: flow if it adds up)' };
+    if (c.min !== undefined && c.min < 0 && !flow) return { how: 'average', kind: 'ratio', why: `a value per row averaged over the rows: its values go below zero (down to ${c.min}), so a total would net highs against lows (make it sum and kind: flow if it adds up)` };
+    return { how: 'sum', kind: 'flow', why: 'a flow, added up over time (make it average and kind: level if it is a reading such as a balance)' };
+  }
+}
+
+/** Text whose values are all plain numbers ("0", "3500"): amounts stored as text, not labels (a code with a leading zero stays a label). */
+function numbersAsText(c: ColumnProfile): boolean {
+  return c.examples.length > 0 && c.examples.every((v) => /^-?(0|[1-9]\d*)(\.\d+)?$/.test(v.trim()));
+}
+
+/** Text that reads as sentences rather than labels: long, or many words (common practice: labels are short). */
+function freeText(c: ColumnProfile): boolean {
+  const middle = <T>(xs: T[]) => xs[Math.floor(xs.length / 2)];
+  const lengths = c.examples.map((v) => v.length).sort((a, b) => a - b);
+  const words = c.examples.map((v) => v.trim().split(/\s+/).length).sort((a, b) => a - b);
+  return c.examples.length > 0 && ((middle(lengths) ?? 0) > 40 || (middle(words) ?? 0) > 6);
 }

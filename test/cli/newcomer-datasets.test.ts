@@ -202,3 +202,90 @@ describe('starters drawn from the served data (stocks.csv)', () => {
     }
   });
 });
+
+// A newcomer's first drafts of two more vega-datasets files (v3.2.1, the package this project
+// installs): flights-20k.json (20,000 US flights in early 2001: date as text "2001/01/01 00:47",
+// delay in minutes, negative when early, distance, origin and destination airports) and
+// birdstrikes.csv (FAA wildlife strike reports with costs in a column named "Cost Total $").
+// Every expected value below is read from the file itself in plain JavaScript.
+describe('init on text timestamps, many airports and a delay (flights-20k.json)', () => {
+  const json = join(data, 'flights-20k.json');
+  const flights = JSON.parse(readFileSync(json, 'utf8')) as { date: string; delay: number; origin: string; destination: string }[];
+
+  it('drafts strptime over the text dates, origin and destination as dimensions, and the delay as an average', async () => {
+    const file = join(mkdtempSync(join(tmpdir(), 'tc-newcomer-init-')), 'flights.yaml');
+    const r = await run(['init', '--source', json, '--out', file]);
+    expect(r.code, r.err).toBe(0);
+    expect(r.out).toMatch(/time column: date, text dates read as %Y\/%m\/%d %H:%M \(all \d+ distinct values sampled\)/);
+    const text = readFileSync(file, 'utf8');
+    const ds = (parse(text) as { datasets: Record<string, unknown>[] }).datasets[0]!;
+    expect(ds.time_column).toEqual({ expr: "strptime(date, '%Y/%m/%d %H:%M')" });
+    expect(text).toMatch(/# drafted by init: date holds dates as text, text dates read as %Y\/%m\/%d %H:%M/);
+    // 220 origins and 223 destinations in 20,000 rows: a breakdown each, well under one value per ten rows.
+    const origins = new Set(flights.map((f) => f.origin)).size;
+    const destinations = new Set(flights.map((f) => f.destination)).size;
+    expect([origins, destinations]).toEqual([220, 223]);
+    expect(ds.dimensions).toEqual([expect.objectContaining({ column: 'origin' }), expect.objectContaining({ column: 'destination' })]);
+    // The delay goes below zero (an early departure): a mean per flight, never a total.
+    expect(Math.min(...flights.map((f) => f.delay))).toBeLessThan(0);
+    const metrics = ds.metrics as Record<string, unknown>[];
+    expect(metrics.find((m) => m.name === 'delay')).toMatchObject({ average: 'delay', kind: 'ratio', higher_is_better: false });
+    expect(metrics.find((m) => m.name === 'delay')).not.toHaveProperty('sum');
+    const check = await run(['check', '--config', file]);
+    expect(check.code, check.out).toBe(0);
+    const days = flights.map((f) => f.date.slice(0, 10).replace(/\//g, '-')).sort();
+    expect(check.out).toContain(`20,000 rows, ${days[0]} to ${days[days.length - 1]}, stamped daily`);
+    expect(check.out).toMatch(new RegExp(`origin: ${origins} values`));
+    expect(check.out).toMatch(/delay: ratio, average of delay/);
+  });
+});
+
+describe('init on money named with a mark (birdstrikes.csv)', () => {
+  it('drafts "Cost Total $" and the other costs as sums in USD, and says where the currency came from', async () => {
+    const csv = join(data, 'birdstrikes.csv');
+    const file = join(mkdtempSync(join(tmpdir(), 'tc-newcomer-init-')), 'birdstrikes.yaml');
+    const r = await run(['init', '--source', csv, '--out', file]);
+    expect(r.code, r.err).toBe(0);
+    expect(r.out).toContain('money (unit currency): cost_other, cost_repair, cost_total, in USD (read from "$" in Cost Total $)');
+    const ds = (parse(readFileSync(file, 'utf8')) as { datasets: Record<string, unknown>[] }).datasets[0]!;
+    const metrics = ds.metrics as Record<string, unknown>[];
+    for (const name of ['cost_other', 'cost_repair', 'cost_total']) expect(metrics.find((m) => m.name === name)).toMatchObject({ unit: 'currency', currency: 'USD', kind: 'flow' });
+    expect(metrics.find((m) => m.name === 'cost_total')).toMatchObject({ sum: '"Cost Total $"', label: 'Cost Total' });
+    // The file has no quoted fields: a plain split reads its columns. Aircraft models: 225 in 10,000 rows, a breakdown.
+    const [header, ...lines] = readFileSync(csv, 'utf8').trim().split('\n');
+    const model = header!.split(',').indexOf('Aircraft Make Model');
+    const models = new Set(lines.map((l) => l.split(',')[model])).size;
+    expect(models).toBe(225);
+    expect(ds.dimensions).toContainEqual(expect.objectContaining({ column: 'Aircraft Make Model' }));
+    // An airport's name is a place, not a person's: a breakdown, never personal data.
+    expect(ds.dimensions).toContainEqual(expect.objectContaining({ column: 'Airport Name' }));
+    expect((ds.dimensions as Record<string, unknown>[]).find((d) => d.column === 'Airport Name')).not.toHaveProperty('personal_data');
+    const check = await run(['check', '--config', file]);
+    expect(check.code, check.out).toBe(0);
+    expect(check.out).toMatch(new RegExp(`aircraft_make_model: ${models} values`));
+  });
+});
+
+// vega-datasets political-contributions.json: 58 US FEC candidate summaries, "Coverage_End_Date"
+// written month first ("01/31/2015"), candidates' names, and money columns naming no currency.
+describe('init on month-first text dates, people\'s names and money without a mark (political-contributions.json)', () => {
+  it('reads the dates month first because some days are above 12, marks the names personal, and says the currency is assumed', async () => {
+    const json = join(data, 'political-contributions.json');
+    const rows = JSON.parse(readFileSync(json, 'utf8')) as { Coverage_End_Date: string }[];
+    expect(rows.some((x) => Number(x.Coverage_End_Date.split('/')[1]) > 12)).toBe(true);
+    const file = join(mkdtempSync(join(tmpdir(), 'tc-newcomer-init-')), 'contributions.yaml');
+    const r = await run(['init', '--source', json, '--out', file]);
+    expect(r.code, r.err).toBe(0);
+    expect(r.out).toMatch(/time column: Coverage_End_Date, text dates read as %m\/%d\/%Y /);
+    expect(r.out).not.toMatch(/cannot tell day-first/);
+    expect(r.out).toContain('personal data (never shown or added up): Candidate_Name');
+    expect(r.out).toMatch(/money \(unit currency\): total_receipts, .* in USD, assumed \(no column names its currency\): set currency/);
+    const ds = (parse(readFileSync(file, 'utf8')) as { datasets: Record<string, unknown>[] }).datasets[0]!;
+    expect(ds.time_column).toEqual({ expr: "strptime(\"Coverage_End_Date\", '%m/%d/%Y')" });
+    expect(ds.dimensions).toContainEqual(expect.objectContaining({ column: 'Candidate_Name', personal_data: true }));
+    const check = await run(['check', '--config', file]);
+    expect(check.code, check.out).toBe(0);
+    const iso = rows.map((x) => x.Coverage_End_Date.replace(/^(\d\d)\/(\d\d)\/(\d{4})$/, '$3-$1-$2')).sort();
+    expect(check.out).toContain(`58 rows, ${iso[0]} to ${iso[iso.length - 1]}`);
+  });
+});
