@@ -75,3 +75,8 @@ export function dataEnd(coverage: Pick<Coverage, 'lastDate' | 'stamps'> & { last
       return addDays(last, 1);
   }
 }
+
+/** The last day the data stands for: its last date, or the last day of its last stamped period (31 December for a yearly stamp of 1 January). */
+export function lastCoveredDay(coverage: Pick<Coverage, 'lastDate' | 'stamps'> & { lastDate: string }): string {
+  return addDays(dataEnd(coverage), -1);
+}

@@ -5,7 +5,7 @@ import { formatPeriod } from './format.js';
 import { finestGrain } from './grains.js';
 import { addDays, periodStart } from './periods.js';
 import type { StampGranularity } from './stamps.js';
-import type { DateWindow } from './types.js';
+import type { DateWindow, Grain } from './types.js';
 
 const formats = new Map<string, Intl.DateTimeFormat>();
 
@@ -23,35 +23,50 @@ function format(iso: string, locale: string, withYear: boolean): string {
 export function describeWindow(w: DateWindow, coverage: Coverage, locale = 'en-IE'): string {
   const last = addDays(w.end, -1);
   const sameYear = w.start.slice(0, 4) === last.slice(0, 4);
-  const coarse = saidInMonths(w, coverage.stamps);
-  const month = (iso: string) => formatPeriod(iso, 'month', locale, 'long');
+  const unit = windowWordsGrain(w, coverage.stamps);
+  const period = (iso: string) => formatPeriod(iso, unit, locale, 'long');
+  const coarse = unit !== 'day';
   const range = coarse
-    ? w.start.slice(0, 7) === last.slice(0, 7) ? month(w.start) : `${month(w.start)} to ${month(last)}`
+    ? period(w.start) === period(last) ? period(w.start) : `${period(w.start)} to ${period(last)}`
     : w.start === last ? format(w.start, locale, true) : `${format(w.start, locale, !sameYear)} to ${format(last, locale, true)}`;
   const notes: string[] = [];
   const dataLast = coverage.lastDate ? addDays(dataEnd({ lastDate: coverage.lastDate, ...(coverage.stamps ? { stamps: coverage.stamps } : {}) }), -1) : null;
-  if (coverage.lastDate && dataLast && w.start <= dataLast && last > dataLast) notes.push(coarse ? `the data ends with ${month(dataLast)}` : `the data ends on ${format(coverage.lastDate, locale, true)}`);
-  if (coverage.firstDate && w.start < coverage.firstDate) notes.push(coarse ? `the data starts with ${month(coverage.firstDate)}` : `the data starts on ${format(coverage.firstDate, locale, true)}`);
+  if (coverage.lastDate && dataLast && w.start <= dataLast && last > dataLast) notes.push(coarse ? `the data ends with ${period(dataLast)}` : `the data ends on ${format(coverage.lastDate, locale, true)}`);
+  if (coverage.firstDate && w.start < coverage.firstDate) notes.push(coarse ? `the data starts with ${period(coverage.firstDate)}` : `the data starts on ${format(coverage.firstDate, locale, true)}`);
   if (coverage.lastDate && w.start > coverage.lastDate) notes.push('after the data ends');
   return notes.length > 0 ? `${range} (${notes.join('; ')})` : range;
 }
 
 /**
- * Whether a window over data stamped this often is said in months: data stamped once a month (or
- * coarser) has no days to name, and "1 April 2020" would claim one it does not have.
+ * The unit a window over data stamped this often is said in: the stamp's own unit when the window
+ * keeps its bounds, else months when it keeps theirs, else days. A stamp stands for its whole
+ * period, so data stamped once a year has no months or days to name ("2001 to 2017", not "1
+ * January 2001 to 1 January 2017"); daily or weekly data is said in days.
+ */
+export function windowWordsGrain(w: DateWindow, stamps: StampGranularity | undefined): Grain {
+  const stamp = finestGrain(stamps);
+  if (stamp === 'day' || stamp === 'week') return 'day';
+  for (const unit of new Set<Grain>([stamp, 'month'])) {
+    if (periodStart(w.start, unit) === w.start && periodStart(w.end, unit) === w.end) return unit;
+  }
+  return 'day';
+}
+
+/**
+ * Whether a window over data stamped this often is said in months or coarser: data stamped once
+ * a month (or coarser) has no days to name, and "1 April 2020" would claim one it does not have.
  */
 export function saidInMonths(w: DateWindow, stamps: StampGranularity | undefined): boolean {
-  const stamp = finestGrain(stamps);
-  return stamp !== 'day' && stamp !== 'week' && periodStart(w.start, 'month') === w.start && periodStart(w.end, 'month') === w.end;
+  return windowWordsGrain(w, stamps) !== 'day';
 }
 
 /**
  * A window in a chart's short words, by the same stamp rule as describeWindow: "Mar 1958 to Apr
- * 2020" for monthly data, "1 Jan 2024 to 18 Jun 2025" for daily data; one period alone when the
- * window holds one.
+ * 2020" for monthly data, "2001 to 2017" for yearly, "1 Jan 2024 to 18 Jun 2025" for daily data;
+ * one period alone when the window holds one.
  */
 export function shortWindow(w: DateWindow, stamps: StampGranularity | undefined, locale: string): string {
-  const grain = saidInMonths(w, stamps) ? 'month' : 'day';
+  const grain = windowWordsGrain(w, stamps);
   const from = formatPeriod(w.start, grain, locale);
   const to = formatPeriod(addDays(w.end, -1), grain, locale);
   return from === to ? from : `${from} to ${to}`;
@@ -59,10 +74,13 @@ export function shortWindow(w: DateWindow, stamps: StampGranularity | undefined,
 
 /**
  * The data's last date as a footer says it ("Data as of …"), by the same stamp rule: monthly
- * data stamped 1 April 2020 is data "as of Apr 2020" (the whole month), daily data of its day.
+ * data stamped 1 April 2020 is data "as of Apr 2020" (the whole month), yearly data stamped 1
+ * January 2017 "as of 2017", daily data of its day.
  */
 export function dataDateWords(lastDate: string, stamps: StampGranularity | undefined, locale: string): string {
   const end = dataEnd({ lastDate, ...(stamps ? { stamps } : {}) });
+  const grain = finestGrain(stamps);
   const coveredTo = addDays(end, -1);
-  return saidInMonths({ start: periodStart(coveredTo, 'month'), end }, stamps) ? formatPeriod(coveredTo, 'month', locale) : formatPeriod(lastDate, 'day', locale);
+  const unit = grain === 'day' || grain === 'week' ? 'day' : windowWordsGrain({ start: periodStart(coveredTo, grain), end }, stamps);
+  return unit === 'day' ? formatPeriod(lastDate, 'day', locale) : formatPeriod(coveredTo, unit, locale);
 }

@@ -3,6 +3,7 @@
 import type { DatasetConfig } from '../config/schema.js';
 import type { Coverage } from '../analysis/coverage.js';
 import { formatPeriod } from '../analysis/format.js';
+import { shortWindow } from '../analysis/window-words.js';
 import { addDays, addMonths, periodStart } from '../analysis/periods.js';
 import { finestGrain, isFinerGrain } from '../analysis/grains.js';
 import { GRAINS, type DateWindow, type Grain, type SegmentFilter } from '../analysis/types.js';
@@ -62,7 +63,8 @@ export function nextPrompt(brief: Brief, ctx: PromptContext): Prompt | null {
 function windowPrompt(brief: Brief, ctx: PromptContext): Prompt {
   const full = fullWindow(ctx.coverage)!;
   const last = addDays(full.end, -1);
-  const range = `${formatPeriod(full.start, 'day', ctx.locale)} to ${formatPeriod(last, 'day', ctx.locale)}`;
+  // Said in the data's own stamps: yearly data "2001 to 2017", daily data "1 Jan 2001 to 31 Dec 2017".
+  const range = shortWindow(full, ctx.coverage.stamps, ctx.locale);
   const all: PromptOption = { value: 'all', label: `All the data (${range})` };
   const options: PromptOption[] = [all];
   // The last full calendar year in the data, and the data's last 12 months, as periods named outright.
@@ -70,7 +72,8 @@ function windowPrompt(brief: Brief, ctx: PromptContext): Prompt {
   const year = Number(full.end.slice(0, 4)) - 1;
   if (`${year}-01-01` >= full.start) options.push({ value: String(year), label: String(year) });
   const twelveStart = addMonths(periodStart(full.end, 'month'), -12);
-  if (twelveStart > full.start) {
+  // On data stamped yearly the last 12 months are the last year, already offered.
+  if (twelveStart > full.start && twelveStart !== `${year}-01-01`) {
     const lastMonth = addMonths(periodStart(full.end, 'month'), -1);
     options.push({ value: `${twelveStart.slice(0, 7)} to ${lastMonth.slice(0, 7)}`, label: `The last 12 full months of the data (${formatPeriod(twelveStart, 'month', ctx.locale)} to ${formatPeriod(lastMonth, 'month', ctx.locale)})` });
   }

@@ -7,7 +7,7 @@ import type { DatasetConfig } from '../../config/schema.js';
 import { groupableDimension, metricByName } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
-import { dataEnd } from '../coverage.js';
+import { dataEnd, lastCoveredDay } from '../coverage.js';
 import type { ChangedSegment, GrowthSpan } from '../findings/growth.js';
 import { addDays, addMonths, periodStart } from '../periods.js';
 import { QueryBuilder } from '../sql/query-builder.js';
@@ -247,7 +247,8 @@ function sidesSql(
   // Spans the request named are already cut to the data (comparedSpans); a year-earlier base is cut by a year's shift.
   if ((coverage?.firstDate && coverage.lastDate) || asked) {
     const current = asked || !coverage?.firstDate ? sq.window : { start: maxIso(sq.window.start, shiftDayByYears(coverage.firstDate, 1)), end: sq.window.end };
-    const before = asked || !coverage?.lastDate ? prior : { start: prior.start, end: minIso(prior.end, addDays(shiftDayByYears(coverage.lastDate, -1), 1)) };
+    // A stamp stands for its whole period: a yearly stamp of 1 January 2017 covers 2017, so the year before runs to 31 December 2016.
+    const before = asked || !coverage?.lastDate ? prior : { start: prior.start, end: minIso(prior.end, addDays(shiftDayByYears(lastCoveredDay({ ...coverage, lastDate: coverage.lastDate }), -1), 1)) };
     const side = (name: 'current' | 'prior', w: DateWindow) => `SELECT t.*, '${name}' AS ${n.win}, ${localDateExpr(q, ctx)} AS ${n.day}
   FROM ${n.table} AS t
   WHERE ${whereClause(q, ctx, w, sq.filters)}`;
@@ -365,7 +366,7 @@ export function readWindowComparison(asked: SubQuestion, table: ResultTable, cov
     };
     priorSpan = {
       start: maxIso(prior.start, coverage.firstDate),
-      end: minIso(prior.end, addDays(shiftDayByYears(coverage.lastDate, -1), 1)),
+      end: minIso(prior.end, addDays(shiftDayByYears(lastCoveredDay({ ...coverage, lastDate: coverage.lastDate }), -1), 1)),
     };
     const cut = currentSpan.start !== sq.window.start || currentSpan.end !== sq.window.end;
     if (cut && currentSpan.start < currentSpan.end) {

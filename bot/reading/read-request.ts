@@ -1,7 +1,8 @@
 // The one reader: a request's text, the dataset's catalog and facts about its data (what dates
 // it covers, the values of its breakdowns) in; a brief out, every slot with the words it came
 // from. The bot's conversation, `threadcount ask` and `threadcount read` all read through here.
-import type { Coverage } from '../../analysis/coverage.js';
+import { type Coverage, dataEnd } from '../../analysis/coverage.js';
+import { describeWindow } from '../../analysis/window-words.js';
 import { addDays } from '../../analysis/periods.js';
 import type { DateWindow, Grain, RequestKind, SegmentFilter } from '../../analysis/types.js';
 import type { ValueIndex } from '../../analysis/values/value-index.js';
@@ -81,12 +82,7 @@ export function anchorOf(today: string, facts: Pick<DatasetFacts, 'coverage' | '
   const last = facts.coverage.lastDate;
   if (!last) return { today, why: 'today (the dataset has no rows)', dataEnd: null };
   // Data stamped once a period covers the whole of its last stamped period.
-  const stampedEnd =
-    facts.stamp === 'monthly' ? addMonthsClamped(last.slice(0, 8) + '01', 1)
-    : facts.stamp === 'quarterly' ? addMonthsClamped(last.slice(0, 8) + '01', 3)
-    : facts.stamp === 'yearly' ? `${yearOf(last) + 1}-01-01`
-    : facts.stamp === 'weekly' ? addDays(last, 7)
-    : addDays(last, 1);
+  const stampedEnd = dataEnd({ lastDate: last, ...(facts.stamp ? { stamps: facts.stamp } : {}) });
   if (stampedEnd <= today) {
     return { today: stampedEnd, why: `the data ends on ${addDays(stampedEnd, -1)}, before today, so relative periods count back from there`, dataEnd: stampedEnd };
   }
@@ -293,11 +289,24 @@ function staleRelativePeriods(fullText: string, periods: readonly PeriodMention[
     const real = asToday.find((x) => x.start === p.start && x.end === p.end)?.window;
     if (!real || real.start <= last) continue;
     const shown = real.end > today ? today : addDays(real.end, -1);
-    notes.push(`The data runs from ${say(facts.coverage.firstDate ?? last)} to ${say(last)}; ${p.words} (${say(real.start)} to ${say(shown)}) is after it, so there is nothing to answer for it.`);
+    notes.push(`${dataRunsWords(facts)}; ${p.words} (${say(real.start)} to ${say(shown)}) is after it, so there is nothing to answer for it.`);
     windows.push(p.window!);
     words.push(p.words);
   }
   return { notes, windows, words };
+}
+
+/**
+ * "The data runs from 2001 to 2017": the data's whole span in the words of its stamps (a yearly
+ * stamp stands for its year, a monthly one for its month), as the window words say any window.
+ */
+function dataRunsWords(facts: DatasetFacts): string {
+  const { firstDate, lastDate } = facts.coverage;
+  if (!firstDate || !lastDate) return 'The dataset has no rows';
+  const stamps = facts.stamp ?? facts.coverage.stamps;
+  const full = { start: firstDate, end: dataEnd({ lastDate, ...(stamps ? { stamps } : {}) }) };
+  const range = describeWindow(full, { firstDate: null, lastDate: null, rows: 0, ...(stamps ? { stamps } : {}) }, 'en-GB');
+  return range.includes(' to ') ? `The data runs from ${range}` : `The data covers ${range}`;
 }
 
 /**
@@ -306,13 +315,12 @@ function staleRelativePeriods(fullText: string, periods: readonly PeriodMention[
  */
 function periodNotes(periods: readonly PeriodMention[], facts: DatasetFacts, dataEnd: string | null): string[] {
   const out: string[] = [];
-  const monthly = facts.stamp === 'monthly' || facts.stamp === 'quarterly' || facts.stamp === 'yearly';
-  const say = (iso: string, month = monthly) => new Intl.DateTimeFormat('en-GB', { ...(month ? {} : { day: 'numeric' }), month: 'long', year: 'numeric', timeZone: 'UTC' }).format(new Date(`${iso}T00:00:00Z`));
-  for (const p of periods) if (p.notReal && p.window) out.push(`${p.words} is not a real date, so I read it as ${say(p.window.start, true)}.`);
+  const say = (iso: string) => new Intl.DateTimeFormat('en-GB', { month: 'long', year: 'numeric', timeZone: 'UTC' }).format(new Date(`${iso}T00:00:00Z`));
+  for (const p of periods) if (p.notReal && p.window) out.push(`${p.words} is not a real date, so I read it as ${say(p.window.start)}.`);
   const first = facts.coverage.firstDate;
   const end = dataEnd ?? (facts.coverage.lastDate ? addDays(facts.coverage.lastDate, 1) : null);
   if (first && end) {
-    const runs = `The data runs from ${say(first)} to ${say(addDays(end, -1))}`;
+    const runs = dataRunsWords(facts);
     for (const p of periods) {
       if (!p.window || p.shift) continue;
       if (p.window.start >= end) out.push(`${runs}; ${p.words} is after it, so there is nothing to answer for it.`);
