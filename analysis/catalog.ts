@@ -1,7 +1,7 @@
 // Lookups over one dataset's catalog. Names reaching SQL are checked here first.
 import type { ComparisonGroup, DatasetConfig, Dimension, Metric, MetricKind } from '../config/schema.js';
 import type { SeasonalModel } from './stats/decomposition.js';
-import type { SegmentFilter } from './types.js';
+import type { RankOrder, SegmentFilter } from './types.js';
 
 export class CatalogError extends Error {
   constructor(
@@ -131,6 +131,16 @@ export function quantityKind(metric: Metric): MetricKind {
  */
 export function metricDirection(metric: Metric): boolean | null {
   return metric.higher_is_better ?? null;
+}
+
+/**
+ * Whether a ranking asked "highest", "lowest", "best" or "worst" puts the largest value first:
+ * best and worst go through higher_is_better, taken as true when the catalog does not say.
+ */
+export function rankDescending(metric: Metric, order: RankOrder): boolean {
+  if (order === 'highest' || order === 'lowest') return order === 'highest';
+  const higherBetter = metricDirection(metric) ?? true;
+  return order === 'best' ? higherBetter : !higherBetter;
 }
 
 /**

@@ -32,6 +32,13 @@ export interface SegmentFilter {
   exclude?: boolean;
 }
 
+/**
+ * The direction a ranking by value was asked in: highest and lowest literally, best and worst
+ * through the metric's higher_is_better.
+ */
+export const RANK_ORDERS = ['highest', 'lowest', 'best', 'worst'] as const;
+export type RankOrder = (typeof RANK_ORDERS)[number];
+
 /** One small answerable question. Plain data: compiling and charting it are pure functions. */
 export interface SubQuestion {
   id: string;
@@ -53,6 +60,8 @@ export interface SubQuestion {
   perDay?: boolean;
   /** "top 5 routes": how many segments to rank. */
   rankLimit?: number;
+  /** "worst 10", "lowest 5": segments ranked by the metric's value in this direction (see rankDescending). */
+  rankOrder?: RankOrder;
   /** "how fast per decade": the unit a rate of change is stated in. */
   rateUnit?: 'year' | 'decade';
   /** Two values of one dimension set against each other ("did phone grow faster than kiosk"). */

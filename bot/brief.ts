@@ -1,7 +1,7 @@
 // A brief: what a request asks for, as data, with the words each part was read from. Written by
 // the reader (bot/reading/), completed by the requester's answers and corrections, and turned
 // into a plan. `threadcount read` prints it (bot/reading/brief-json.ts).
-import type { Audience, DateWindow, Grain, RequestKind, SegmentFilter } from '../analysis/types.js';
+import type { Audience, DateWindow, Grain, RankOrder, RequestKind, SegmentFilter } from '../analysis/types.js';
 
 export { AUDIENCES, type Audience } from '../analysis/types.js';
 
@@ -43,6 +43,8 @@ export interface Question {
   contrast?: { dimension: string; values: string[] };
   /** "top 5 routes": how many to rank. */
   rankLimit?: number;
+  /** "worst 10", "lowest 5": rank by the metric's value in this direction. */
+  rankOrder?: RankOrder;
   /** "per decade", "a year": the unit a rate of change is stated in. */
   rateUnit?: 'year' | 'decade';
   /** "bookings per day by month": a per-day average at the grain asked. */

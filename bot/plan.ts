@@ -52,6 +52,7 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
       ...(q.launchDate ? { launchDate: q.launchDate } : {}),
       ...(q.perDay ? { perDay: true } : {}),
       ...(q.rankLimit ? { rankLimit: q.rankLimit } : {}),
+      ...(q.rankOrder ? { rankOrder: q.rankOrder } : {}),
       ...(q.rateUnit ? { rateUnit: q.rateUnit } : {}),
     };
     // A question's own breakdowns; the brief's (typed in a prompt) only when nothing else says.
@@ -93,7 +94,8 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           add('trend_test', metric, false);
           add('trend_summary', metric, false);
           for (const d of dims) add('segment_trend', metric, false, { dimension: d });
-          if (additive) for (const d of dims) add('segment_shares', metric, false, { dimension: d });
+          // "worst 10 by late share": a ranking by value answers it, whatever the metric, and heads the question.
+          if (additive || q.rankOrder) for (const d of dims) add('segment_shares', metric, !!q.rankOrder, { dimension: d });
           break;
         case 'growth':
           // The metric's own pattern over time is the context any growth answer is read against.

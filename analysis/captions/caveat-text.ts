@@ -1,6 +1,6 @@
 // Plain-words notes for caveats, and the short flags a chart footer carries.
 import type { Grain } from '../types.js';
-import { formatPeriod } from '../format.js';
+import { formatPeriod, formatValue } from '../format.js';
 import { countOf, isAre, listJoin } from './grammar.js';
 import type { Caveat } from '../types.js';
 
@@ -62,6 +62,8 @@ export function caveatNote(c: Caveat, locale: string): string {
     case 'observational':
       return 'This compares groups that were not randomly assigned, so it cannot prove cause.';
     case 'segments_folded':
+      if (typeof d.count === 'number' && typeof d.minRows === 'number') return `${countOf(d.count, 'segment')} with fewer than ${formatValue(d.minRows, { unit: 'count', locale: 'en' })} rows ${isAre(d.count)} not ranked and ${isAre(d.count)} combined as "All others".`;
+      if (typeof d.count === 'number' && d.byValue === true) return `${countOf(d.count, 'further segment')} ranked past those named ${isAre(d.count)} combined as "All others".`;
       return typeof d.count === 'number' ? `${countOf(d.count, 'smaller segment')} ${isAre(d.count)} combined as "All others".` : 'Smaller segments are combined as "All others".';
     case 'segment_gap':
       return `${show(d.segment)} has no data for ${periodsText(d.periods, d.grain)}, from ${period(d.firstGap, d.grain ?? 'month')}.`;

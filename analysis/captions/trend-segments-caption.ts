@@ -1,10 +1,10 @@
 // Titles and captions for segment trends and segment shares, written only from findings.
 import type { Dimension, Metric } from '../../config/schema.js';
 import { isAdditive } from '../catalog.js';
-import { CLEAR_LEAD, type SegmentGrowthMeasure, type SegmentSharesFinding, type SegmentShareRow, type SegmentTrendFinding, type SegmentTrendOverviewFinding } from '../findings/segments.js';
+import { CLEAR_LEAD, type SegmentGrowthMeasure, type SegmentRanking, type SegmentSharesFinding, type SegmentShareRow, type SegmentTrendFinding, type SegmentTrendOverviewFinding } from '../findings/segments.js';
 import { formatChange, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
 import type { Audience, Finding } from '../types.js';
-import { isPluralLabel } from './grammar.js';
+import { countOf, isPluralLabel } from './grammar.js';
 import type { Words } from './trend-test-caption.js';
 import { capitalise, countWord, dimensionPlural, formatRelativeSize, formatShare, lowerLabel, segmentLabel } from './trend-words.js';
 
@@ -116,7 +116,43 @@ export function segmentTrendWords(metric: Metric, dim: Dim, findings: readonly F
   return { title, caption };
 }
 
-export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly Finding[], audience: Audience, locale: string): Words {
+/**
+ * "Worst 10 destination airports by late share": the named segments in the order asked, the
+ * rule the ranking followed (higher_is_better for best and worst) and, for an average or a rate,
+ * the row floor a segment needed and how many fell short of it.
+ */
+function rankingWords(metric: Metric, dim: Dim, f: SegmentSharesFinding, ranking: SegmentRanking, locale: string, rows: { plural: string; singular: string }): Words {
+  const fmt = valueFormatOf(metric, locale);
+  const noun = lowerLabel(metric.label);
+  const plural = dimensionPlural(dim);
+  const ranked = f.rows.filter((r) => !r.other && r.value !== null);
+  const fold = f.rows.find((r) => r.other && r.value !== null);
+  const floor = ranking.minRows === null ? '' : ` with at least ${countOf(ranking.minRows, rows.singular, locale, rows.plural)}`;
+  if (ranked.length === 0) {
+    return {
+      title: `${metric.label} by ${lowerLabel(dim.label)}: no ${lowerLabel(dim.label)} to rank`,
+      caption: `No ${lowerLabel(dim.label)}${floor} has a value of ${noun} in this period${fold ? `; all of them together come to ${formatValue(fold.value, fmt)}` : ''}.`,
+    };
+  }
+  const first = ranked[0]!;
+  const countText = ranked.length === 1 ? lowerLabel(dim.label) : `${ranked.length} ${plural}`;
+  const title = `${capitalise(ranking.order)} ${countText} by ${noun}: ${segmentLabel(first)}, ${formatValue(first.value, fmt)}`;
+  const why =
+    ranking.order === 'best' || ranking.order === 'worst'
+      ? ` (${ranking.descending === (ranking.order === 'worst') ? 'a high value is worse' : 'a high value is better'} for ${noun})`
+      : '';
+  const list = ranked.map((r) => `${segmentLabel(r)} ${formatValue(r.value, fmt)}`).join(', ');
+  const rule =
+    ranking.minRows === null
+      ? ''
+      : ` Only ${plural}${floor} are ranked (a figure over fewer swings too far to rank; the floor is ${formatShare(ranking.floorRule.share, locale)} of the ${rows.plural}, kept between ${ranking.floorRule.least} and ${ranking.floorRule.most})${ranking.thin > 0 ? `; ${countOf(ranking.thin, lowerLabel(dim.label), locale, plural)} with fewer ${ranking.thin === 1 ? 'is' : 'are'} left out` : ''}.`;
+  const asked = f.topNAsked ?? null;
+  const fewer = asked !== null && ranked.length < asked ? ` Only ${countOf(ranked.length, lowerLabel(dim.label), locale, plural)}${floor} ${ranked.length === 1 ? 'has' : 'have'} a value.` : '';
+  const rest = fold ? ` The rest together come to ${formatValue(fold.value, fmt)} ("All others").` : '';
+  return { title, caption: `Ranked ${ranking.descending ? 'highest' : 'lowest'} first${why}: ${list}.${rule}${fewer}${rest}` };
+}
+
+export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly Finding[], audience: Audience, locale: string, rows: { plural: string; singular: string } = { plural: 'rows', singular: 'row' }): Words {
   const f = findings.find((x): x is SegmentSharesFinding => x.type === 'segment_shares' && x.metric === metric.name);
   const noun = lowerLabel(metric.label);
   const plural = dimensionPlural(dim);
@@ -128,6 +164,7 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
   if (f.rows.every((r) => r.value === null)) {
     return { title: `${metric.label} by ${lowerLabel(dim.label)}: no values in this period`, caption: `${capitalise(noun)} ${isPluralLabel(metric.label) ? 'have' : 'has'} no values for any ${lowerLabel(dim.label)} in this period.` };
   }
+  if (f.ranking && (!f.additive || !f.ranking.descending || f.total === null || named.every((r) => r.share === null))) return rankingWords(metric, dim, f, f.ranking, locale, rows);
   if (!f.additive || f.total === null || named.every((r) => r.share === null)) {
     const ranked = [...named].filter((r) => r.value !== null).sort((a, b) => b.value! - a.value!);
     const top = ranked[0];

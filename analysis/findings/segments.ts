@@ -3,7 +3,7 @@
 import type { DecadeSlope } from '../stats/decades.js';
 import type { SeasonalModel } from '../stats/decomposition.js';
 import type { HhiBand } from '../stats/concentration.js';
-import type { Grain, PeriodPoint } from '../types.js';
+import type { Grain, PeriodPoint, RankOrder } from '../types.js';
 
 /** Mann–Kendall and Sen's slope on the complete periods of one metric's series. */
 export interface TrendTestFinding {
@@ -249,6 +249,21 @@ export interface SegmentSharesFinding {
   /** Herfindahl–Hirschman index over every segment (0–10,000), computed before folding. */
   hhi: number | null;
   hhiBand: HhiBand | null;
+  /** "worst 10": the segments were ranked by value in this direction, not by size. */
+  ranking?: SegmentRanking;
+}
+
+/** A ranking by value: its direction, and for an average or a rate the row floor a segment needs to be named. */
+export interface SegmentRanking {
+  order: RankOrder;
+  /** The largest value first. */
+  descending: boolean;
+  /** Rows a segment needs to be ranked (null for a sum or count, whose size is its value). */
+  minRows: number | null;
+  /** Segments left out of the ranking for having fewer rows (in the fold). */
+  thin: number;
+  /** The rule minRows came from: this share of the window's rows, kept between least and most. */
+  floorRule: { share: number; least: number; most: number };
 }
 
 export type SegmentFinding =

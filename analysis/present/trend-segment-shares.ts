@@ -4,6 +4,7 @@ import { buildBars } from '../charts/build-bars.js';
 import { buildPareto } from '../charts/build-pareto.js';
 import { segmentSharesWords } from '../captions/trend-segments-caption.js';
 import { segmentLabel } from '../captions/trend-words.js';
+import { rowNoun } from '../captions/performance-words.js';
 import { dimensionByName, metricByName } from '../catalog.js';
 import type { SegmentSharesFinding } from '../findings/segments.js';
 import { valueFormatOf } from '../format.js';
@@ -14,7 +15,7 @@ export const presentSegmentShares: Presenter = (answer, ctx) => {
   const sq = answer.subQuestion;
   const metric = metricByName(ctx.dataset, sq.metrics[0]!);
   const dim = dimensionByName(ctx.dataset, sq.dimension ?? '');
-  const words = segmentSharesWords(metric, dim, answer.findings, ctx.audience, ctx.locale);
+  const words = segmentSharesWords(metric, dim, answer.findings, ctx.audience, ctx.locale, rowNoun(ctx.dataset));
   const f = answer.findings.find((x): x is SegmentSharesFinding => x.type === 'segment_shares' && x.metric === metric.name);
   const header = { title: words.title, chip: metric.label, subtitle: chartSubtitle(answer, metric, ctx, { grain: false }), footer: chartFooter(answer, ctx), ...ctx.chart };
   let chart = null;

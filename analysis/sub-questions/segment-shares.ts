@@ -1,6 +1,8 @@
 // Sub-question "segment_shares": the trend request's distribution lens.
 import { presentSegmentShares } from '../present/trend-segment-shares.js';
 import { segmentSharesTemplate } from '../templates/segments-shares.js';
+import { namedSegmentCount } from '../templates/segments-fold-sql.js';
+import { pluralNoun } from '../captions/grammar.js';
 import { defineSubQuestion } from './definition.js';
 
 export const segmentSharesSubQuestion = defineSubQuestion({
@@ -10,5 +12,8 @@ export const segmentSharesSubQuestion = defineSubQuestion({
   rollup: {},
   template: segmentSharesTemplate,
   present: presentSegmentShares,
-  describe: (w) => `Each ${w.dim}'s share of ${w.metric} (${w.span}), and how concentrated it is.`,
+  describe: (w, sq) =>
+    sq.rankOrder
+      ? `The ${sq.rankLimit ? `${namedSegmentCount(sq)} ` : ''}${sq.rankOrder} ${pluralNoun(w.dim)} by ${w.metric} (${w.span}), ranked by its value.`
+      : `Each ${w.dim}'s share of ${w.metric} (${w.span}), and how concentrated it is.`,
 });

@@ -2,7 +2,7 @@
 // into one "All others" row inside the database, so a dimension with thousands of values
 // still sends only N + 1 rows (per period) to Node.
 import type { Metric } from '../../config/schema.js';
-import { CatalogError, groupableDimension, isAdditive, metricByName } from '../catalog.js';
+import { CatalogError, groupableDimension, isAdditive, metricByName, rankDescending } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, periodScope, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { CompiledQuery, Grain, SubQuestion } from '../types.js';
@@ -17,6 +17,13 @@ export const MAX_NAMED_SEGMENTS = 20;
 export function namedSegmentCount(sq: Pick<SubQuestion, 'rankLimit'>): number {
   return sq.rankLimit ? Math.min(Math.max(1, Math.floor(sq.rankLimit)), MAX_NAMED_SEGMENTS) : SEGMENT_TOP_N;
 }
+
+/**
+ * A ranking of an average or a rate by its value names only segments with enough rows: at least
+ * this share of the window's rows, kept between the two bounds (common practice: a value over a
+ * few dozen rows swings too far to rank; the floor is said in the caption, as rank_min_rows).
+ */
+export const RANK_FLOOR = { share: 0.01, least: 30, most: 100 } as const;
 
 export interface FoldedQueryOptions {
   topN: number;
@@ -37,6 +44,9 @@ export function segmentDimension(sq: SubQuestion, ctx: CompileContext) {
 /**
  * Segments are ranked by the metric when it is additive (their size is the metric) and by row
  * count otherwise (an average has no size; the biggest segments are the ones worth naming).
+ * A ranking asked by value ("worst 10", sq.rankOrder) ranks by the metric in that direction; for
+ * an average or a rate only segments with at least RANK_FLOOR rows are named, the thinner ones
+ * are folded (rank_min_rows says the floor, thin_members how many the fold holds for it).
  * Ties rank by the value's text so the fold never depends on scan order. Columns:
  * [period,] segment (text; null for missing values and for the fold), other, seg_rank, members,
  * value, row_count [, months_with_rows] [, seg_count, grand_total, sum_squares].
@@ -54,7 +64,10 @@ export function compileFoldedSegments(sq: SubQuestion, ctx: CompileContext, opts
   const metric = metricByName(ctx.dataset, sq.metrics[0]!);
   const col = q.ident(dim.column);
   const table = tableRef(q, ctx);
-  const rankExpr = isAdditive(metric) ? measureSql(q, ctx, metric) : d.toDouble(rowCountSql(q, ctx));
+  const byValue = sq.rankOrder !== undefined;
+  const rankExpr = isAdditive(metric) || byValue ? measureSql(q, ctx, metric) : d.toDouble(rowCountSql(q, ctx));
+  const descending = !sq.rankOrder || rankDescending(metric, sq.rankOrder);
+  const floored = byValue && !isAdditive(metric);
   const innerWhere = whereClause(q, ctx, sq.window, sq.filters);
   const topN = q.bind(opts.topN);
   const foldFrom = q.bind(opts.topN + 1);
@@ -80,6 +93,7 @@ export function compileFoldedSegments(sq: SubQuestion, ctx: CompileContext, opts
     `${outerScope.measure(metric)} AS ${q.ident('value')}`,
     `${d.toDouble(outerScope.rowCount())} AS row_count`,
   );
+  if (byValue) select.push(`${d.toDouble('MIN(f.tc_floor)')} AS rank_min_rows`, `${d.toDouble('COUNT(DISTINCT CASE WHEN f.tc_thin THEN f.tc_rank END)')} AS thin_members`);
   if (minP) {
     select.push(
       `${d.toDouble('COUNT(DISTINCT CASE WHEN f.tc_small THEN f.tc_rank END)')} AS small_members`,
@@ -98,20 +112,28 @@ JOIN f ON ${col} IS NOT DISTINCT FROM f.tc_value
 WHERE ${outerScope.where}
 GROUP BY ${group.join(', ')}
 ${order}`;
-  const segments = `tc_segments AS (
-  SELECT ${col} AS tc_value, ${rankExpr} AS tc_size${minP ? `, ${rowCountSql(q, ctx)} AS tc_rows` : ''}
+  // tc_thin: too few rows to be ranked by an average's value; such a segment ranks after the rest and is folded.
+  const floor = floored ? d.toDouble(`GREATEST(${q.bind(RANK_FLOOR.least)}, LEAST(${q.bind(RANK_FLOOR.most)}, CEIL(${q.bind(RANK_FLOOR.share)} * SUM(tc_rows) OVER ())))`) : d.toDouble('NULL');
+  const segments = `tc_counted AS (
+  SELECT ${col} AS tc_value, ${rankExpr} AS tc_size, ${rowCountSql(q, ctx)} AS tc_rows
   FROM ${table}
   WHERE ${innerWhere}
   GROUP BY 1
+), tc_floored AS (
+  SELECT tc_value, tc_size, tc_rows, ${floor} AS tc_floor
+  FROM tc_counted
+), tc_segments AS (
+  SELECT tc_value, tc_size, tc_rows, tc_floor, COALESCE(tc_rows < tc_floor, FALSE) AS tc_thin
+  FROM tc_floored
 )`;
-  const rank = 'ROW_NUMBER() OVER (ORDER BY tc_size DESC NULLS LAST, CAST(tc_value AS VARCHAR) NULLS LAST)';
-  const rankedOut = `(tc_rank > ${topN} AND tc_count > ${foldFrom})`;
+  const rank = `ROW_NUMBER() OVER (ORDER BY tc_thin, tc_size ${descending ? 'DESC' : 'ASC'} NULLS LAST, CAST(tc_value AS VARCHAR) NULLS LAST)`;
+  const rankedOut = `((tc_rank > ${topN} AND tc_count > ${foldFrom}) OR tc_thin)`;
   if (minP) return q.finish(`WITH ${segments}, ${suppressedFold(d, { rank, rankedOut, minimum: minP })}
 ${outer}`);
 
   // IS NOT DISTINCT FROM joins the rows whose dimension is missing to their own (null) segment.
   return q.finish(`WITH ${segments}, tc_ranked AS (
-  SELECT tc_value,
+  SELECT tc_value, tc_thin, tc_floor,
     ${rank} AS tc_rank,
     COUNT(*) OVER () AS tc_count,
     ${d.toDouble('SUM(tc_size) OVER ()')} AS tc_total,
@@ -119,7 +141,7 @@ ${outer}`);
     ${d.toDouble('MIN(tc_size) OVER ()')} AS tc_min
   FROM tc_segments
 ), f AS (
-  SELECT tc_value, tc_rank, tc_count, tc_total, tc_sum_squares, tc_min, ${rankedOut} AS tc_other
+  SELECT tc_value, tc_rank, tc_count, tc_total, tc_sum_squares, tc_min, tc_thin, tc_floor, ${rankedOut} AS tc_other
   FROM tc_ranked
 )
 ${outer}`);
@@ -136,7 +158,7 @@ ${outer}`);
 function suppressedFold(d: CompileContext['dialect'], o: { rank: string; rankedOut: string; minimum: string }): string {
   const hidden = 'tc_hidden';
   return `tc_ranked AS (
-  SELECT tc_value, tc_size, tc_rows,
+  SELECT tc_value, tc_size, tc_rows, tc_thin, tc_floor,
     ${o.rank} AS tc_rank,
     COUNT(*) OVER () AS tc_count,
     (tc_rows < ${o.minimum}) AS tc_small
@@ -146,14 +168,14 @@ function suppressedFold(d: CompileContext['dialect'], o: { rank: string; rankedO
   FROM tc_ranked
 ), ${complementaryFoldCtes({ name: 'tc_extra', cells: 'tc_first', segments: 'tc_first', key: 'tc_value', period: 'tc_period', rows: 'tc_rows', folded: 'tc_folded', minimum: o.minimum })},
 tc_marked AS (
-  SELECT r.tc_value, r.tc_size, r.tc_rank, r.tc_count, r.tc_small,
+  SELECT r.tc_value, r.tc_size, r.tc_rank, r.tc_count, r.tc_small, r.tc_thin, r.tc_floor,
     COALESCE(x.tc_sdc_fold, FALSE) AS tc_complement,
     (${o.rankedOut.replaceAll('tc_', 'r.tc_')} OR r.tc_small OR COALESCE(x.tc_sdc_fold, FALSE)) AS tc_other,
     MAX(CASE WHEN r.tc_small THEN 1 ELSE 0 END) OVER () AS tc_any_small
   FROM tc_ranked r
   LEFT JOIN tc_extra x ON r.tc_value IS NOT DISTINCT FROM x.tc_sdc_key
 ), f AS (
-  SELECT tc_value, tc_rank, tc_count, tc_small, tc_complement, tc_other,
+  SELECT tc_value, tc_rank, tc_count, tc_small, tc_complement, tc_other, tc_thin, tc_floor,
     ${d.toDouble('SUM(tc_size) OVER ()')} AS tc_total,
     ${d.toDouble(`SUM(CASE WHEN ${hidden} THEN 0 ELSE tc_size * tc_size END) OVER () + COALESCE(SUM(CASE WHEN ${hidden} THEN tc_size END) OVER (), 0) * COALESCE(SUM(CASE WHEN ${hidden} THEN tc_size END) OVER (), 0)`)} AS tc_sum_squares,
     ${d.toDouble('SIGN(MIN(tc_size) OVER ())')} AS tc_min

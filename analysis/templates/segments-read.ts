@@ -47,9 +47,14 @@ export function foldedCaveats(rows: readonly FoldedRow[], dimension: string, min
   if (!fold) return [];
   const small = minimum === null ? 0 : (numberOrNull(fold.row.small_members) ?? 0);
   const complement = minimum === null ? 0 : (numberOrNull(fold.row.complement_members) ?? 0);
+  // Segments too thin to rank by an average's value (see RANK_FLOOR); one also below the minimum group size is counted there.
+  const thin = Math.max(0, (numberOrNull(fold.row.thin_members) ?? 0) - small);
+  const minRows = numberOrNull(fold.row.rank_min_rows);
   const out: Caveat[] = [];
-  const rankedOut = fold.members - small - complement;
-  if (rankedOut > 0) out.push({ code: 'segments_folded', data: { count: rankedOut, dimension } });
+  const rankedOut = fold.members - small - complement - thin;
+  // Ranked by value ("worst 10"), the segments past those named are not the smaller ones.
+  if (rankedOut > 0) out.push({ code: 'segments_folded', data: { count: rankedOut, dimension, ...('rank_min_rows' in fold.row ? { byValue: true } : {}) } });
+  if (thin > 0 && minRows !== null) out.push({ code: 'segments_folded', data: { count: thin, dimension, minRows } });
   if (small > 0 && minimum !== null) out.push(suppressedSegmentsCaveat(small, minimum, { dimension }, complement));
   return out;
 }

@@ -1,11 +1,11 @@
 // Template "segment_shares": each segment's share of a metric over the window, Pareto
 // cumulative shares, how many segments make up 80%, the top-N share and the HHI. Shares only
 // exist for sums and counts; any other metric gets its per-segment values and no shares.
-import { isAdditive, metricByName } from '../catalog.js';
-import type { SegmentShareRow, SegmentSharesFinding } from '../findings/segments.js';
+import { isAdditive, metricByName, rankDescending } from '../catalog.js';
+import type { SegmentRanking, SegmentShareRow, SegmentSharesFinding } from '../findings/segments.js';
 import { concentration, hhiBand } from '../stats/index.js';
 import type { Caveat, ResultTable, SubQuestion } from '../types.js';
-import { compileFoldedSegments, namedSegmentCount, segmentDimension } from './segments-fold-sql.js';
+import { compileFoldedSegments, namedSegmentCount, RANK_FLOOR, segmentDimension } from './segments-fold-sql.js';
 import { foldedCaveats, readSegmentTotals, type FoldedRow } from './segments-read.js';
 import { minGroupSize } from './small-groups.js';
 import type { ReadContext, Reading, Template } from './template.js';
@@ -35,7 +35,8 @@ export function readSegmentShares(sq: SubQuestion, table: ResultTable, ctx: Read
     return { findings: [], caveats: [...caveats, { code: 'no_data', data: { start: sq.window.start, end: sq.window.end } }] };
   }
   if (rows.every((r) => r.value === null)) caveats.push({ code: 'all_null', data: { metric: metricName } });
-  caveats.push(...foldedCaveats(rows, dimension, minGroupSize(ctx.dataset)));
+  // A ranking's caption states its row floor and how many fell short: no note repeats it.
+  caveats.push(...foldedCaveats(rows, dimension, minGroupSize(ctx.dataset)).filter((c) => !(sq.rankOrder && c.code === 'segments_folded' && 'minRows' in c.data)));
   const additive = isAdditive(metric);
   const first = table.rows[0]!;
   const base: SegmentSharesFinding = {
@@ -55,8 +56,11 @@ export function readSegmentShares(sq: SubQuestion, table: ResultTable, ctx: Read
     topNShare: null,
     hhi: null,
     hhiBand: null,
+    ...(sq.rankOrder ? { ranking: rankingOf(sq, metric, rows) } : {}),
   };
   if (!additive || rows.every((r) => r.value === null)) return { findings: [base], caveats };
+  // "lowest 5 by bookings": a Pareto reads largest first, so an ascending ranking keeps its values only.
+  if (base.ranking && !base.ranking.descending) return { findings: [base], caveats };
 
   // A sum over no values is null in SQL; as a part of a total it is zero.
   const values = rows.map((r) => r.value ?? 0);
@@ -71,6 +75,13 @@ export function readSegmentShares(sq: SubQuestion, table: ResultTable, ctx: Read
     return { findings: [{ ...base, total }], caveats };
   }
   return { findings: [base.folded > 0 ? foldedShares(base, rows, values, first) : exactShares(base, rows, values)], caveats };
+}
+
+/** The direction the request ranked in, and the row floor the query applied to an average or a rate. */
+function rankingOf(sq: SubQuestion, metric: ReturnType<typeof metricByName>, rows: readonly FoldedRow[]): SegmentRanking {
+  const fold = rows.find((r) => r.other);
+  const minRows = rows.map((r) => numberOrNull(r.row.rank_min_rows)).find((x) => x !== null) ?? null;
+  return { order: sq.rankOrder!, descending: rankDescending(metric, sq.rankOrder!), minRows, thin: fold ? (numberOrNull(fold.row.thin_members) ?? 0) : 0, floorRule: { ...RANK_FLOOR } };
 }
 
 function keyOf(r: FoldedRow) {

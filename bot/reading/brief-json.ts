@@ -2,7 +2,7 @@
 // windows as inclusive dates. docs/reading.md says what each field means.
 import { z } from 'zod';
 import { addDays } from '../../analysis/periods.js';
-import { GRAINS, REQUEST_KINDS, type DateWindow } from '../../analysis/types.js';
+import { GRAINS, RANK_ORDERS, REQUEST_KINDS, type DateWindow } from '../../analysis/types.js';
 import { ASKABLE, AUDIENCES, BRIEF_SLOTS, type Brief } from '../brief.js';
 
 const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/);
@@ -26,6 +26,7 @@ export const briefJsonSchema = z
           contrast: z.object({ dimension: z.string(), values: z.array(z.string()) }).strict().nullable(),
           frequency: z.boolean(),
           rankLimit: z.number().int().positive().nullable(),
+          rankOrder: z.enum(RANK_ORDERS).nullable(),
           rateUnit: z.enum(['year', 'decade']).nullable(),
           perDay: z.boolean(),
           table: z.boolean(),
@@ -75,6 +76,7 @@ export function briefToJson(brief: Brief, dataset: string): BriefJson {
       contrast: q.contrast ?? null,
       frequency: q.frequency,
       rankLimit: q.rankLimit ?? null,
+      rankOrder: q.rankOrder ?? null,
       rateUnit: q.rateUnit ?? null,
       perDay: q.perDay ?? false,
       table: q.table ?? false,

@@ -4,7 +4,7 @@
 import { type Coverage, dataEnd } from '../../analysis/coverage.js';
 import { describeWindow } from '../../analysis/window-words.js';
 import { addDays } from '../../analysis/periods.js';
-import type { DateWindow, Grain, RequestKind, SegmentFilter } from '../../analysis/types.js';
+import type { DateWindow, Grain, RankOrder, RequestKind, SegmentFilter } from '../../analysis/types.js';
 import type { ValueIndex } from '../../analysis/values/value-index.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { AmbiguousValue, Askable, Brief, BriefSlot, Evidence, Question } from '../brief.js';
@@ -36,7 +36,7 @@ import { isoDateIn } from './time-zone.js';
 import { overlaps, RequestText, type Span } from './text.js';
 import { findUnknownTerms } from './unknown-words.js';
 import { mendCalendarWords } from './spelling.js';
-import { AUDIENCES, GRAINS } from '../../analysis/types.js';
+import { AUDIENCES, GRAINS, RANK_ORDERS } from '../../analysis/types.js';
 
 /** What the reader knows about a dataset's data. */
 export interface DatasetFacts {
@@ -350,6 +350,7 @@ interface ClauseReading {
   launchDate?: string;
   launchWords?: string;
   rankLimit?: number;
+  rankOrder?: RankOrder;
   rateUnit?: 'year' | 'decade';
   perDay: boolean;
   table: boolean;
@@ -527,6 +528,7 @@ function toQuestion(r: ClauseReading, st: ReadState, previous: Question | undefi
   if (r.launchDate) q.launchDate = r.launchDate;
   if (r.contrast) q.contrast = r.contrast;
   if (r.rankLimit) q.rankLimit = r.rankLimit;
+  if (r.rankOrder) q.rankOrder = r.rankOrder;
   if (r.rateUnit) q.rateUnit = r.rateUnit;
   if (r.perDay) q.perDay = true;
   if (r.table) q.table = true;
@@ -650,7 +652,7 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
     namesMeasure: metrics.length > 0 || st.roleHits.some((x) => inside(x.span)),
     asksGrain: st.grainSpans.some(inside),
   });
-  const top = /\b(?:top|bottom|best|worst|biggest|largest|smallest)\s+(\d{1,2}|three|five|ten)\b/.exec(t);
+  const top = /\b(top|bottom|best|worst|biggest|largest|smallest|highest|lowest)\s+(\d{1,2}|three|five|ten)\b/.exec(t);
   const rate = /\bper\s+(decade|year|annum)\b|\b(?:a|each)\s+(decade|year)\b(?=.{0,30}$)/.exec(t);
   const hasRateCue = rate && /\bhow\s+(?:fast|quickly|much)|\brate\b|\bper\s+decade\b|\ba\s+decade\b|\brising|\bfalling|\bincreas|\bdecreas|\bgrow|\bchang/.test(t);
   const reading: ClauseReading = {
@@ -679,7 +681,9 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
     reading.launchDate = launch.date;
     reading.launchWords = launch.words;
   }
-  if (top) reading.rankLimit = /^\d+$/.test(top[1]!) ? Number(top[1]) : { three: 3, five: 5, ten: 10 }[top[1] as 'three' | 'five' | 'ten'];
+  if (top) reading.rankLimit = /^\d+$/.test(top[2]!) ? Number(top[2]) : { three: 3, five: 5, ten: 10 }[top[2] as 'three' | 'five' | 'ten'];
+  // "worst 10", "lowest 5" rank by the metric's value; "top", "largest" keep ranking by size.
+  if (top && RANK_ORDERS.includes(top[1] as RankOrder)) reading.rankOrder = top[1] as RankOrder;
   // "per year and per decade" asks for both; the decade is the wider statement (it carries the year's rate too).
   if (rate && hasRateCue) reading.rateUnit = (rate[1] ?? rate[2]) === 'decade' || /\b(?:per|a|each)\s+decade\b/.test(t) ? 'decade' : 'year';
   return reading;

@@ -241,3 +241,21 @@ describe('two questions about one measure', () => {
     expect(plan.items.filter((sq) => sq.template === 'series')).toHaveLength(1);
   });
 });
+
+describe('a ranking asked by value ("worst 5", "lowest 3") carries its direction to a ranking answer', () => {
+  it('"average fare per passenger by route, lowest 5": the direction is read and a ranking heads the plan', () => {
+    const brief = readRequest('Average fare per passenger by route, lowest 5');
+    expect(brief.questions[0]).toMatchObject({ rankLimit: 5, rankOrder: 'lowest', dimensions: ['route'] });
+    const plan = buildPlan(brief, exampleDataset, coverage);
+    const ranking = plan.items.find((i) => i.template === 'segment_shares');
+    expect(ranking).toMatchObject({ rankLimit: 5, rankOrder: 'lowest', dimension: 'route', metrics: ['fare_per_passenger'] });
+    // Every answer of the question is told the direction (the route trends name the same five).
+    expect(plan.items.find((i) => i.template === 'segment_trend')).toMatchObject({ rankOrder: 'lowest' });
+  });
+
+  it('"top 5 routes" keeps ranking by size: no direction is read', () => {
+    const brief = readRequest('Average fare per passenger, top 5 routes');
+    expect(brief.questions[0]!.rankLimit).toBe(5);
+    expect(brief.questions[0]!.rankOrder).toBeUndefined();
+  });
+});

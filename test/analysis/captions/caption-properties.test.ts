@@ -53,6 +53,8 @@ function questionsFor(ws: Workspace): SubQuestion[] {
     if (other !== flow && template !== 'performance_frequency' && !(['segment_shares', 'growth_share_shift', 'kpi_mix'] as TemplateName[]).includes(template)) {
       out.push({ id: `${template}-${other.name}`, ...base, metrics: [other.name] });
     }
+    // A ranking by value ("worst 5 by <an average>") states its values and its row floor: traced too.
+    if (template === 'segment_shares') out.push({ id: `${template}-${other.name}-worst`, ...base, metrics: [other.name], rankLimit: 5, rankOrder: 'worst' });
     // Seasonality at day grain states each weekday's figure against an average day: traced too.
     if (template === 'trend_seasonality') out.push({ id: `${template}-${flow.name}-daily`, ...base, grain: 'day', metrics: [flow.name] });
   }

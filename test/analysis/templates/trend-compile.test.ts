@@ -91,7 +91,7 @@ describe('segment SQL: the tail folded inside the database', () => {
 
   it('ranks segments in a subquery and folds past the top N, with N bound', () => {
     const q = compileFoldedSegments(seg, ctx, { topN: SEGMENT_TOP_N, grain: null, totals: true });
-    expect(q.sql).toContain('ROW_NUMBER() OVER (ORDER BY tc_size DESC NULLS LAST');
+    expect(q.sql).toContain('ROW_NUMBER() OVER (ORDER BY tc_thin, tc_size DESC NULLS LAST');
     expect(q.sql).toMatch(/tc_rank > \$\d+ AND tc_count > \$\d+/);
     expect(q.params).toContain(SEGMENT_TOP_N);
     expect(q.params).toContain(SEGMENT_TOP_N + 1);
