@@ -163,17 +163,19 @@ export function spansVerdict(metric: Metric, f: GrowthDriversFinding, locale: st
 }
 
 /**
- * Totals of two spans that differ in length ("March against February": 31 days against 29) differ
- * by the days alone, so a total that adds up over days is also said per day, with the days, from
- * which each figure can be worked out. Null for spans of one length or a total that does not add up.
+ * Totals of two spans that differ in length ("March against February": 31 days against 29; Q1 of a
+ * leap year has 91) differ by the days alone, so the days are said, and a total that adds up over
+ * days is also said per day, from which each figure can be worked out. Null for spans of one length.
  */
 function perDaySentence(f: GrowthDriversFinding, label: string, metric: Metric, locale: string): string | null {
   const [dc, dp] = [daysBetween(f.current.start, f.current.end), daysBetween(f.prior.start, f.prior.end)];
   const { before, after } = f.total;
-  // A leap day (0.3% of a year) is not worth a sentence; a month against another is (up to 10%).
-  if (!f.additive || Math.abs(dc - dp) <= 0.01 * Math.max(dc, dp) || dc <= 0 || dp <= 0 || before === null || after === null || before <= 0) return null;
+  if (dc === dp || dc <= 0 || dp <= 0) return null;
+  const lengths = `${capitalise(spanText(f.current, locale))} has ${dc} days and ${spanText(f.prior, locale)} ${dp}`;
+  // A leap day in a year (0.3%) changes no total worth a per-day figure, but the lengths are still said; a month against another (up to 10%) is given per day.
+  if (!f.additive || Math.abs(dc - dp) <= 0.005 * Math.max(dc, dp) || before === null || after === null || before <= 0) return `${lengths}; both are compared whole.`;
   const [a, b] = [after / dc, before / dp];
   const fmt = quantityFormat(metric, 'per_day', locale);
   const rel = a / b - 1;
-  return `${capitalise(spanText(f.current, locale))} has ${dc} days and ${spanText(f.prior, locale)} ${dp}, so per day ${lower(label)} ${totalVerb(rel, locale)} (${formatValue(a, fmt, { rate: true })} against ${formatValue(b, fmt, { rate: true })} a day).`;
+  return `${lengths}, so per day ${lower(label)} ${totalVerb(rel, locale)} (${formatValue(a, fmt, { rate: true })} against ${formatValue(b, fmt, { rate: true })} a day).`;
 }

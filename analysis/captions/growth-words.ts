@@ -164,7 +164,7 @@ export function growthNote(c: Caveat, locale: string, dimension: string, dataset
       break;
     case 'base_zero':
       if (d.reason === 'signed') return 'This measure reaches zero or goes below it in this window, so no percentage change of it is given; changes are in its units.';
-      if (d.reason === 'tiny') return `Some growth rates are left out: the earlier value is zero, missing or under ${formatValue(TINY_BASE_FRACTION, { unit: 'percent', decimals: 0, locale })} of the usual (median) level, where a percentage would mislead.`;
+      if (d.reason === 'tiny') return `Some growth rates are left out: the earlier value is zero, missing or under ${baseFractionWords()} of the usual (median) level, where a percentage would mislead.`;
       return 'Some growth rates cannot be worked out because the earlier value is zero, negative or missing, so those rates are left out.';
     case 'single_period':
       if (d.rates === 0) return 'There are no two comparable periods, so there is no growth rate to summarise.';
@@ -186,4 +186,10 @@ export function isAnalyst(audience: Audience): boolean {
 /** A level, or a quantity signed in the window asked about, grows in its units, never in percent. */
 export function growthInUnits(metric: Metric, series: GrowthSeriesFinding | undefined): boolean {
   return changesInUnits(metric) || series?.inUnits === true;
+}
+
+/** The tiny-base cut-off in words, not as a percentage figure a reader would look for in the table ("a tenth"). */
+function baseFractionWords(): string {
+  const parts: Record<number, string> = { 2: 'half', 4: 'a quarter', 5: 'a fifth', 10: 'a tenth', 20: 'a twentieth' };
+  return parts[Math.round(1 / TINY_BASE_FRACTION)] ?? `${TINY_BASE_FRACTION * 100} per cent`;
 }

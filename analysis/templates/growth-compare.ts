@@ -77,8 +77,9 @@ export function comparisonWindow(w: DateWindow, coverage: Coverage | undefined):
 
 /**
  * The two spans a growth comparison sets side by side. With a comparison period named in the
- * request ("2025 against 2023"), that period, from its start and as long as the current span
- * (like for like), never past its own end; both are already cut to the data (`asked`). Otherwise
+ * request, both are cut to the data (`asked`) and compared as `askedPrior` says: two whole periods
+ * of one kind ("Q1 2001 against Q1 2000") whole, even when one is a day longer (the caption then
+ * says so and gives per-day figures); a period still running against the same dates of the other. Otherwise
  * the non-overlapping window above against the same dates a year earlier, which the SQL and the
  * spans cut to the data by a year's shift.
  */
@@ -92,10 +93,20 @@ export function comparedSpans(asked: SubQuestion, coverage: Coverage | undefined
   return { current, prior: priorWindow(current), asked: false };
 }
 
-/** A named comparison period, like for like: from its start, as many days as the current span, never past its end. */
+/**
+ * A named comparison period. Whole when both spans are whole calendar periods of one kind (a
+ * quarter against a quarter, a month against a month, a year against a year): named periods keep
+ * their own lengths, so a leap year's first quarter keeps its 91 days. Otherwise, a span still
+ * running ("2025 so far against 2023"), like for like: from its start, over the same dates (or as
+ * many days) as the current span, never past its end.
+ */
 export function askedPrior(current: DateWindow, compare: DateWindow): DateWindow {
-  const days = Math.round((Date.parse(current.end) - Date.parse(current.start)) / 86_400_000);
-  const end = addDays(compare.start, days);
+  const kind = wholePeriodKind(current);
+  if (kind !== null && kind === wholePeriodKind(compare)) return compare;
+  // Both starting on the same day of a month: the same dates ("1 January to 25 July" of each,
+  // whatever the leap days between); otherwise as many days.
+  const months = (Number(compare.start.slice(0, 4)) - Number(current.start.slice(0, 4))) * 12 + Number(compare.start.slice(5, 7)) - Number(current.start.slice(5, 7));
+  const end = compare.start.slice(8) === current.start.slice(8) ? addMonths(current.end, months) : addDays(compare.start, spanDays(current));
   return { start: compare.start, end: end < compare.end ? end : compare.end };
 }
 
@@ -429,6 +440,22 @@ export function foldedMembers(cmp: WindowComparison): number {
 export function segmentKeys(cmp: WindowComparison): (string | null)[] {
   const keys = new Set<string | null>([...cmp.prior.segments.keys(), ...cmp.current.segments.keys()]);
   return [...keys].sort((a, b) => (a === null ? 1 : b === null ? -1 : a < b ? -1 : a > b ? 1 : 0));
+}
+
+/** The kind of calendar period a span is exactly (a week of seven days from any day), or null. */
+export function wholePeriodKind(span: DateWindow): 'year' | 'quarter' | 'month' | 'week' | null {
+  if (span.start.slice(8) === '01') {
+    const month = Number(span.start.slice(5, 7));
+    if (month === 1 && addMonths(span.start, 12) === span.end) return 'year';
+    if ((month - 1) % 3 === 0 && addMonths(span.start, 3) === span.end) return 'quarter';
+    if (addMonths(span.start, 1) === span.end) return 'month';
+  }
+  return spanDays(span) === 7 ? 'week' : null;
+}
+
+/** Days in a half-open span of dates. */
+export function spanDays(span: DateWindow): number {
+  return Math.round((Date.parse(span.end) - Date.parse(span.start)) / 86_400_000);
 }
 
 export function maxIso(a: string, b: string): string {

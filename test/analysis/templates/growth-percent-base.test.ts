@@ -155,7 +155,7 @@ describe('a percentage of a tiny base is never given', () => {
     expect(summary.median).toBeCloseTo(mid, 12);
     expect(text).toContain('had a middle value of');
     expect(text).not.toContain('averaged');
-    expect(text).toContain('under 10% of the usual (median) level');
+    expect(text).toContain('under a tenth of the usual (median) level');
   });
 });
 

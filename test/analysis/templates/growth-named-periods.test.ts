@@ -1,0 +1,109 @@
+// Named periods compared whole, and like for like judged on the whole table, on open data: FAA
+// wildlife strikes 1990–2002 (vega-datasets birdstrikes.csv). Every figure the answers are checked
+// against is computed here by our own SQL on the raw file, in a DuckDB instance of the test's own.
+import { DuckDBInstance, type DuckDBConnection } from '@duckdb/node-api';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
+import type { GrowthDriversFinding } from '../../../analysis/findings/growth.js';
+import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
+import type { SubQuestion } from '../../../analysis/types.js';
+import { vegaDataFile } from '../../helpers/open-data.js';
+import { memoryWorkspace } from './trend-memory-db.js';
+
+const STRIKES_CSV = vegaDataFile('birdstrikes.csv').replaceAll("'", "''");
+const STRIKES_TABLE = `CREATE TABLE strikes AS SELECT * FROM read_csv('${STRIKES_CSV}', header = true)`;
+const STRIKES_CONFIG = `
+version: 1
+datasets:
+  - name: strikes
+    label: Wildlife strikes (vega-datasets)
+    source: { kind: duckdb, path: unused.duckdb }
+    table: strikes
+    time_column: Flight Date
+    timezone: UTC
+    metrics:
+      - name: strikes
+        label: Strikes
+        count: rows
+        unit: count
+        higher_is_better: false
+        kind: flow
+      - name: speed
+        label: Speed
+        average: '"Speed IAS in knots"'
+        unit: number
+        unit_label: kt
+        kind: level
+    dimensions:
+      - name: airport
+        label: Airport
+        column: Airport Name
+`;
+
+let ws: Awaited<ReturnType<typeof memoryWorkspace>>;
+let truthDb: DuckDBInstance;
+let truth: DuckDBConnection;
+beforeAll(async () => {
+  ws = await memoryWorkspace([STRIKES_TABLE], STRIKES_CONFIG);
+  truthDb = await DuckDBInstance.create(':memory:');
+  truth = await truthDb.connect();
+  await truth.run(STRIKES_TABLE);
+});
+afterAll(async () => {
+  await ws?.source.close();
+  truth?.closeSync();
+  truthDb?.closeSync();
+});
+
+async function one(sql: string): Promise<Record<string, unknown>> {
+  return ((await truth.runAndReadAll(sql)).getRowObjectsJson() as Record<string, unknown>[])[0]!;
+}
+
+const drivers = (window: SubQuestion['window'], compareWindow: SubQuestion['compareWindow'], metric = 'strikes'): SubQuestion => ({
+  id: 'drivers',
+  kind: 'growth',
+  lens: 'breakdown',
+  template: 'growth_drivers',
+  metrics: [metric],
+  grain: 'month',
+  window,
+  ...(compareWindow ? { compareWindow } : {}),
+  filters: [],
+  dimension: 'airport',
+});
+const Q1_2001 = { start: '2001-01-01', end: '2001-04-01' };
+const Q1_2000 = { start: '2000-01-01', end: '2000-04-01' };
+
+describe('a named period is compared whole', () => {
+  it('Q1 2001 against Q1 2000: all 91 days of the leap-year quarter, said with the days and per day', async () => {
+    const t = await one(`SELECT
+        COUNT(*) FILTER (WHERE "Flight Date" >= DATE '2001-01-01' AND "Flight Date" < DATE '2001-04-01') AS q1_2001,
+        COUNT(*) FILTER (WHERE "Flight Date" >= DATE '2000-01-01' AND "Flight Date" < DATE '2000-04-01') AS q1_2000,
+        COUNT(*) FILTER (WHERE "Flight Date" >= DATE '2000-01-01' AND "Flight Date" < DATE '2000-03-31') AS cut_2000
+      FROM strikes`);
+    const [now, before, cut] = [Number(t.q1_2001), Number(t.q1_2000), Number(t.cut_2000)];
+    // The newcomer's check on the same file: 151 against 140 (+7.9%); cut to 30 March, 138 (+9.4%).
+    expect([now, before, cut]).toEqual([151, 140, 138]);
+    const answer = await answerSubQuestion(drivers(Q1_2001, Q1_2000), ws);
+    const f = answer.findings.find((x): x is GrowthDriversFinding => x.type === 'growth_drivers')!;
+    expect(f.prior).toEqual(Q1_2000);
+    expect(f.total.before).toBe(before);
+    expect(f.total.after).toBe(now);
+    expect(f.total.relative).toBeCloseTo(now / before - 1, 12);
+    const shown = SUB_QUESTIONS.growth_drivers.present(answer, { dataset: ws.dataset, locale: 'en-GB', audience: 'managers', chart: { width: 1200, height: 675, scale: 1 }, dataAsOf: ws.coverage.lastDate });
+    expect(shown.caption).toContain(`Strikes rose ${((now / before - 1) * 100).toFixed(1)}%: ${before} to ${now}`);
+    const [a, b] = [now / 90, before / 91];
+    expect(shown.caption).toContain(`Jan 2001 to Mar 2001 has 90 days and Jan 2000 to Mar 2000 91, so per day strikes rose ${((a / b - 1) * 100).toFixed(1)}% (${a.toFixed(1)} against ${b.toFixed(1)} a day).`);
+  });
+
+  it('a period still running is compared with as many days of the named one', async () => {
+    // The data ends on 25 July 2002: "2002 against 2000" compares 1 January to 25 July of each.
+    const last = await one(`SELECT strftime(MAX("Flight Date"), '%Y-%m-%d') AS d FROM strikes`);
+    expect(last.d).toBe('2002-07-25');
+    const answer = await answerSubQuestion(drivers({ start: '2002-01-01', end: '2003-01-01' }, { start: '2000-01-01', end: '2001-01-01' }), ws);
+    const f = answer.findings.find((x): x is GrowthDriversFinding => x.type === 'growth_drivers')!;
+    const t = await one(`SELECT COUNT(*) FILTER (WHERE "Flight Date" BETWEEN DATE '2000-01-01' AND DATE '2000-07-25') AS base FROM strikes`);
+    expect(f.prior).toEqual({ start: '2000-01-01', end: '2000-07-26' });
+    expect(f.total.before).toBe(Number(t.base));
+  });
+});
