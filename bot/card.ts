@@ -8,7 +8,7 @@ import type { Coverage } from '../analysis/coverage.js';
 import { finestGrain, grainAdjective, isFinerGrain } from '../analysis/grains.js';
 import { addDays } from '../analysis/periods.js';
 import { GRAINS, type DateWindow, type Grain, type SubQuestion } from '../analysis/types.js';
-import { describeWindow } from '../analysis/window-words.js';
+import { describeWindow, shortWindow } from '../analysis/window-words.js';
 import { isBreakdownDimension } from '../analysis/catalog.js';
 import type { DatasetConfig } from '../config/schema.js';
 import type { Brief, Evidence, Question } from './brief.js';
@@ -120,15 +120,13 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
   lines.push(periodLine(brief, ctx));
   const dims = [...new Set(brief.questions.flatMap((q) => q.dimensions))];
   const breakdown = dims.length === 0 ? ctx.defaults.breakdown : undefined;
+  const inForce = dims.length > 0 ? dims : breakdown ? [breakdown.value] : [];
   lines.push({
     topic: 'breakdowns',
     label: 'Breakdowns',
     value: dims.length > 0 ? dims.map(dimLabel).join(', ') : breakdown ? `${dimLabel(breakdown.value)} (assumed)` : 'none',
     ...(dims.length > 0 ? read(ev.dimensions) : breakdown ? { how: 'assumed' as const, reason: breakdown.reason } : { how: 'assumed' as const, reason: 'none asked' }),
-    control: {
-      kind: 'select',
-      choices: [...ds.dimensions.filter((d) => isBreakdownDimension(ds, d.name)).map((d) => ({ value: `add a breakdown by ${d.label.toLowerCase()}`, label: `Add ${d.label.toLowerCase()}` })), { value: 'no breakdown', label: 'No breakdown' }],
-    },
+    control: breakdownControl(ds, inForce.map(dimLabel)),
   });
   const filters = brief.questions.flatMap((q) => q.filters);
   if (filters.length > 0) {
@@ -188,7 +186,50 @@ function periodLine(brief: Brief, ctx: CardContext): CardLine {
   });
   const words = [brief.evidence?.window?.words, brief.evidence?.compareWindow?.words].filter(Boolean).join(' … ');
   const answered = brief.evidence?.window?.how === 'answered';
-  return { topic: 'period', label: 'Period', value: [...new Set(parts)].join('; '), how: answered ? 'answered' : 'read', ...(words && !answered ? { words } : {}), control: { kind: 'select', choices } };
+  const value = [...new Set(parts)].join('; ');
+  // The select shows the period in force: one of its choices, or the period itself as the first
+  // choice, sending words the reader takes back to the same dates. Several periods (one per
+  // question) have no single choice to show.
+  const periods = new Map((windowed.length > 0 ? windowed : [{ window: brief.window!, compareWindow: brief.compareWindow } as Question]).map((q) => {
+    const choice = periodChoice(q.window!, q.compareWindow, ctx);
+    return [choice.value, choice];
+  }));
+  const only = periods.size === 1 ? [...periods.values()][0]! : undefined;
+  const control: CardLine['control'] = only
+    ? { kind: 'select', choices: choices.some((c) => c.value === only.value) ? choices : [only, ...choices], current: only.value }
+    : { kind: 'select', choices };
+  return { topic: 'period', label: 'Period', value, how: answered ? 'answered' : 'read', ...(words && !answered ? { words } : {}), control };
+}
+
+/**
+ * A period as a select's choice: it sends a correction the reader takes back to the same dates
+ * (whole years "only 2010 to 2017", whole months "only 2024-03 to 2025-02", else days; a
+ * comparison after "against"), and is labelled short enough for the select ("2010 to 2017",
+ * "Mar 2024 to Feb 2025", "2016 vs 2015").
+ */
+function periodChoice(w: DateWindow, compare: DateWindow | undefined, ctx: CardContext): CardChoice {
+  const wholeYears = (x: DateWindow) => x.start.endsWith('-01-01') && x.end.endsWith('-01-01');
+  const words = (x: DateWindow) => {
+    const last = addDays(x.end, -1);
+    const [from, to] = wholeYears(x) ? [x.start.slice(0, 4), last.slice(0, 4)] : x.start.endsWith('-01') && x.end.endsWith('-01') ? [x.start.slice(0, 7), last.slice(0, 7)] : [x.start, last];
+    return from === to ? from : `${from} to ${to}`;
+  };
+  const label = (x: DateWindow) => (wholeYears(x) ? words(x) : shortWindow(x, ctx.coverage.stamps, ctx.locale));
+  return {
+    value: `only ${words(w)}${compare ? ` against ${words(compare)}` : ''}`,
+    label: compare ? `${label(w)} vs ${label(compare)}` : label(w),
+  };
+}
+
+/**
+ * The breakdown select: a breakdown to add, or none; the breakdowns in force are shown as its
+ * current choice ("By source"), which sends them as read ("by source"), and "No breakdown" when none is.
+ */
+function breakdownControl(ds: DatasetConfig, inForce: string[]): CardLine['control'] {
+  const choices: CardChoice[] = [...ds.dimensions.filter((d) => isBreakdownDimension(ds, d.name)).map((d) => ({ value: `add a breakdown by ${d.label.toLowerCase()}`, label: `Add ${d.label.toLowerCase()}` })), { value: 'no breakdown', label: 'No breakdown' }];
+  if (inForce.length === 0) return { kind: 'select', choices, current: 'no breakdown' };
+  const by = `by ${inForce.map(inSentence).join(' and ')}`;
+  return { kind: 'select', choices: [{ value: by, label: cap(by) }, ...choices], current: by };
 }
 
 function grainChoices(coverage: Coverage): CardChoice[] {

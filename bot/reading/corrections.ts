@@ -120,7 +120,7 @@ export function readCorrection(text: string, facts: DatasetFacts, now: Date, loc
   if (read.deadline) {
     c.deadline = read.deadline;
     if (read.deadlineAsap) c.deadlineAsap = true;
-  } else if (/^\s*(?:deadline|due|by)\b/.test(rest) || /^\s*\d{4}-\d{2}-\d{2}\s*$/.test(rest)) {
+  } else if (/^\s*(?:deadline|due)\b/.test(rest) || /^\s*\d{4}-\d{2}-\d{2}\s*$/.test(rest) || (/^\s*by\b/.test(rest) && !readAsOtherThanDate(firstClause(rest), facts, now))) {
     const d = readDeadlineAnswer(rest.replace(/^\s*(?:deadline|due)\s*:?\s*/, ''), now, ds.timezone);
     if (d.ok) {
       c.deadline = d.value;
@@ -141,4 +141,19 @@ export function readCorrection(text: string, facts: DatasetFacts, now: Date, loc
   }
   for (const u of read.unknownTerms) c.unread.push(u.text);
   return c;
+}
+
+/** The words up to the first comma or semicolon: "by source" of "by source, only 2010 to 2017". */
+function firstClause(text: string): string {
+  return text.split(/[,;]/)[0]!;
+}
+
+/**
+ * Whether a clause opening with "by" was read as something other than a date: a breakdown ("by
+ * source"), a grain ("by month"), a measure, a period or an audience. Only a "by" that reads as
+ * none of these is taken for a deadline (and complained about when it is not a date either).
+ */
+function readAsOtherThanDate(clause: string, facts: DatasetFacts, now: Date): boolean {
+  const read = readRequest(clause, facts, { now });
+  return read.dimensions.length > 0 || !!read.grain || read.metrics.length > 0 || !!read.window || !!read.audience || read.questions.some((q) => q.filters.length > 0);
 }
