@@ -100,6 +100,12 @@ export interface Brief {
   personalData?: string[];
   /** Values that look like a person's contact or id ("someone@example.com"): refused as filters. */
   personalValues?: string[];
+  /**
+   * Relative periods ("this year vs last year") that fell after data which ended years ago, asked
+   * about: the same periods counted back from the data's end (2017 against 2016), which the period
+   * prompt recommends, as relative periods count back from there.
+   */
+  latestInstead?: { unit: 'year' | 'quarter' | 'month'; window: DateWindow; compareWindow?: DateWindow };
   /** What relative periods were counted from. */
   anchor?: { today: string; why: string };
   /** How each slot was read. */

@@ -78,9 +78,31 @@ function windowPrompt(brief: Brief, ctx: PromptContext): Prompt {
     options.push({ value: `${twelveStart.slice(0, 7)} to ${lastMonth.slice(0, 7)}`, label: `The last 12 full months of the data (${formatPeriod(twelveStart, 'month', ctx.locale)} to ${formatPeriod(lastMonth, 'month', ctx.locale)})` });
   }
   const outside = (brief.saidBack ?? []).filter((l) => /nothing to answer for it/.test(l));
+  const question = `${outside.length > 0 ? `${outside.join(' ')} ` : ''}Which period should I use instead? Choose one, or name a period inside the data.`;
+  // "this year vs last year" after data that ended years ago: the same periods counted back from
+  // the data's end, as the card says relative periods are, recommended first.
+  const instead = brief.latestInstead;
+  if (instead) {
+    const said = (w: DateWindow) => formatPeriod(w.start, instead.unit, ctx.locale);
+    const typed = (w: DateWindow) => (instead.unit === 'year' ? w.start.slice(0, 4) : instead.unit === 'quarter' ? `Q${Math.floor(Number(w.start.slice(5, 7)) / 3) + 1} ${w.start.slice(0, 4)}` : w.start.slice(0, 7));
+    const latest: PromptOption = {
+      value: instead.compareWindow ? `${typed(instead.window)} vs ${typed(instead.compareWindow)}` : typed(instead.window),
+      label: instead.compareWindow
+        ? `${said(instead.window)} against ${said(instead.compareWindow)} (the data's latest ${instead.unit} and the one before)`
+        : `${said(instead.window)} (the data's latest ${instead.unit})`,
+    };
+    const rest = options.filter((o) => o.value !== latest.value);
+    return {
+      topic: 'window',
+      question,
+      options: [latest, ...rest],
+      recommended: { ...latest, reason: `the data ends in ${formatPeriod(last, instead.unit, ctx.locale)}, and periods like "this ${instead.unit}" count back from there` },
+      many: false,
+    };
+  }
   return {
     topic: 'window',
-    question: `${outside.length > 0 ? `${outside.join(' ')} ` : ''}Which period should I use instead? Choose one, or name a period inside the data.`,
+    question,
     options,
     recommended: { ...all, reason: `the data runs from ${range}` },
     many: false,

@@ -60,6 +60,8 @@ export interface PeriodMention extends Span {
   relative: boolean;
   /** Runs to the latest data ("since March", "year to date", "this month"). */
   toLatest?: boolean;
+  /** Runs to the latest data but never past its own period's end ("this year", "2024 so far"), where "since 2024" runs on. */
+  bounded?: boolean;
   /** Starts at the first data ("until March"). */
   fromEarliest?: boolean;
   shift?: Shift;
@@ -317,22 +319,22 @@ function findRelative(text: RequestText, ctx: PeriodContext): PeriodMention[] {
 
   for (const m of text.matches(re(`${B}(?:the\\s+)?(?:day\\s+before\\s+yesterday)${E}`))) add(m.span, { window: dayWindow(addDays(A, -2)), unit: 'day' });
   for (const m of text.matches(re(`${B}yesterday'?s?${E}`))) add(m.span, { window: dayWindow(addDays(A, -1)), unit: 'day' });
-  for (const m of text.matches(re(`${B}(?:so\\s+far\\s+)?today(?:\\s+so\\s+far)?${E}`))) add(m.span, { window: dayWindow(A), unit: 'day', toLatest: true });
+  for (const m of text.matches(re(`${B}(?:so\\s+far\\s+)?today(?:\\s+so\\s+far)?${E}`))) add(m.span, { window: dayWindow(A), unit: 'day', toLatest: true, bounded: true });
   // this week / month / quarter / year (/ half): from its start to the latest data
   for (const m of text.matches(re(`${B}(?:(?:so\\s+far\\s+)?(?:this|the\\s+current|current)\\s+(week|month|quarter|qtr|year|half)(?:\\s+so\\s+far|\\s+to\\s+date)?)${E}`))) {
     const unit = UNIT_WORD[m[1]!]!;
-    add(m.span, { window: holding(unit), unit, toLatest: true });
+    add(m.span, { window: holding(unit), unit, toLatest: true, bounded: true });
   }
   // "since the start of the year": this year to date.
   for (const m of text.matches(re(`${B}since\\s+the\\s+(?:start|beginning)\\s+of\\s+(?:the|this)\\s+(year|month|quarter|week)${E}`))) {
     const unit = UNIT_WORD[m[1]!]!;
-    add(m.span, { window: holding(unit), unit, toLatest: true });
+    add(m.span, { window: holding(unit), unit, toLatest: true, bounded: true });
   }
   // year / month / quarter / week to date
   for (const m of text.matches(re(`${B}(?:(ytd|mtd|qtd|wtd)|(year|month|quarter|week)[-\\s]to[-\\s]date|(?:so\\s+far\\s+)?(?:in\\s+)?(?:the\\s+)?(year|month|quarter|week)\\s+so\\s+far|so\\s+far\\s+this\\s+(year|month|quarter|week))${E}`))) {
     const short: Record<string, PeriodUnit> = { ytd: 'year', mtd: 'month', qtd: 'quarter', wtd: 'week' };
     const unit = m[1] ? short[m[1]]! : UNIT_WORD[(m[2] ?? m[3] ?? m[4])!]!;
-    add(m.span, { window: holding(unit), unit, toLatest: true });
+    add(m.span, { window: holding(unit), unit, toLatest: true, bounded: true });
   }
   // last / previous week, month, quarter, year, half (whole); last full month
   for (const m of text.matches(re(`${B}(?:the\\s+)?(last|previous|prior|past|latest)\\s+(?:full\\s+|complete\\s+|whole\\s+|calendar\\s+)?(week|month|quarter|qtr|year|half|weekend)${E}(?!\\s+(?:to\\s+date|so\\s+far))`))) {
@@ -476,6 +478,7 @@ export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMentio
     const soFar = /^\s*(?:so\s+far|to\s+date)\b/.exec(after);
     if (soFar && m.window && !m.shift && !m.toLatest) {
       m.toLatest = true;
+      m.bounded = true;
       m.relative = true;
       m.end += soFar[0].length;
       m.words = text.quote(m);

@@ -8,7 +8,7 @@ import type { DateWindow, Grain, RankOrder, RequestKind, SegmentFilter } from '.
 import type { ValueIndex } from '../../analysis/values/value-index.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { AmbiguousValue, Askable, Brief, BriefSlot, Evidence, Question } from '../brief.js';
-import { addMonthsClamped, daysBetween, monthWindow, type PeriodUnit, shiftMonths, yearOf } from './calendar.js';
+import { daysBetween, minIso, monthWindow, periodHolding, type PeriodUnit, shiftMonths, shiftPeriod, yearOf } from './calendar.js';
 import { type CatalogEntry, type CatalogHit, closestEntries, findCatalogHits, prepareCatalog, type PreparedCatalog } from './catalog-match.js';
 import { splitClauses, type Clause } from './clauses.js';
 import { stem } from './catalog-match.js';
@@ -211,7 +211,11 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   for (const w of stale.words) for (let i = notes.length - 1; i >= 0; i--) if (notes[i]!.includes(`; ${w} is after it`)) notes.splice(i, 1);
   notes.push(...stale.notes);
   if (notes.length > 0) brief.saidBack = unique(notes);
+  const hadComparison = brief.questions.some((q) => q.compareWindow);
   const askWindow = dropWindowsOutside(brief, facts, anchor.dataEnd, stale.windows);
+  // Relative periods after data that ended years ago: the same periods counted back from the data's end, offered in their place.
+  const instead = askWindow && stale.units[0] ? latestInstead(facts, stale.units[0], hadComparison) : null;
+  if (instead) brief.latestInstead = instead;
   if (personal.length > 0) brief.personalData = personal;
   if (personalValues.length > 0) brief.personalValues = personalValues.map((p) => p.text);
   if (ambiguous.length > 0) brief.ambiguousValues = ambiguous;
@@ -275,16 +279,18 @@ function dropWindowsOutside(brief: Brief, facts: DatasetFacts, dataEnd: string |
  * after the data is said back with the data's range, and its window counted from the data's end
  * is returned, to be asked about rather than run.
  */
-function staleRelativePeriods(fullText: string, periods: readonly PeriodMention[], facts: DatasetFacts, todayCtx: PeriodContext, today: string, catalog: PreparedCatalog): { notes: string[]; windows: DateWindow[]; words: string[] } {
+function staleRelativePeriods(fullText: string, periods: readonly PeriodMention[], facts: DatasetFacts, todayCtx: PeriodContext, today: string, catalog: PreparedCatalog): { notes: string[]; windows: DateWindow[]; words: string[]; units: PeriodMention['unit'][] } {
   const last = facts.coverage.lastDate;
-  if (!last || yearOf(last) >= yearOf(today) - 1) return { notes: [], windows: [], words: [] };
-  const relative = periods.filter((p) => p.relative && !p.shift && p.window);
-  if (relative.length === 0) return { notes: [], windows: [], words: [] };
+  if (!last || yearOf(last) >= yearOf(today) - 1) return { notes: [], windows: [], words: [], units: [] };
+  // "the latest year" names the data's own latest, counted from its end, never today's.
+  const relative = periods.filter((p) => p.relative && !p.shift && p.window && !/^(?:the\s+)?latest\b/i.test(p.words));
+  if (relative.length === 0) return { notes: [], windows: [], words: [], units: [] };
   const asToday = findPeriods(new RequestText(mendCalendarWords(readablePart(fullText), catalogWords(catalog))), todayCtx);
   const say = (iso: string) => new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' }).format(new Date(`${iso}T00:00:00Z`));
   const notes: string[] = [];
   const windows: DateWindow[] = [];
   const words: string[] = [];
+  const units: PeriodMention['unit'][] = [];
   for (const p of relative) {
     const real = asToday.find((x) => x.start === p.start && x.end === p.end)?.window;
     if (!real || real.start <= last) continue;
@@ -292,8 +298,9 @@ function staleRelativePeriods(fullText: string, periods: readonly PeriodMention[
     notes.push(`${dataRunsWords(facts)}; ${p.words} (${say(real.start)} to ${say(shown)}) is after it, so there is nothing to answer for it.`);
     windows.push(p.window!);
     words.push(p.words);
+    units.push(p.unit);
   }
-  return { notes, windows, words };
+  return { notes, windows, words, units };
 }
 
 /**
@@ -307,6 +314,23 @@ function dataRunsWords(facts: DatasetFacts): string {
   const full = { start: firstDate, end: dataEnd({ lastDate, ...(stamps ? { stamps } : {}) }) };
   const range = describeWindow(full, { firstDate: null, lastDate: null, rows: 0, ...(stamps ? { stamps } : {}) }, 'en-GB');
   return range.includes(' to ') ? `The data runs from ${range}` : `The data covers ${range}`;
+}
+
+/**
+ * The latest whole period of a unit the data holds, and the one before it when the request
+ * compared: "this year vs last year" on data that ends with 2017 is 2017 against 2016 when
+ * periods count back from the data's end. Null for a unit with no whole period in the data.
+ */
+function latestInstead(facts: DatasetFacts, unit: PeriodMention['unit'], compared: boolean): Brief['latestInstead'] | null {
+  const { firstDate, lastDate } = facts.coverage;
+  if (!firstDate || !lastDate || (unit !== 'year' && unit !== 'quarter' && unit !== 'month')) return null;
+  const stamps = facts.stamp ?? facts.coverage.stamps;
+  const end = dataEnd({ lastDate, ...(stamps ? { stamps } : {}) });
+  let window = periodHolding(addDays(end, -1), unit);
+  if (window.end > end) window = shiftPeriod(window, unit, 1);
+  if (window.start < firstDate) return null;
+  const before = shiftPeriod(window, unit, 1);
+  return { unit, window, ...(compared && before.start >= firstDate ? { compareWindow: before } : {}) };
 }
 
 /**
@@ -539,7 +563,7 @@ function toQuestion(r: ClauseReading, st: ReadState, previous: Question | undefi
       q.launchDate = g.launch_date;
       if (!q.comparisonGroup && kind === 'performance') q.comparisonGroup = g.name;
       if (/\bsince\b/.test(r.clause.text.toLowerCase()) && !q.window && !/\bbefore\b/.test(r.clause.text.toLowerCase())) {
-        q.window = { start: g.launch_date, end: st.dataEnd ?? addDays(st.anchor, 0) };
+        q.window = { start: g.launch_date, end: latestEnd(st) };
       }
     }
   }
@@ -909,12 +933,14 @@ function windowsOf(periods: PeriodMention[], st: ReadState, clause: Clause): { w
   if (main?.window) {
     // Two plain periods and no comparison: the stretch that covers both ("for 2023 and 2024").
     const spanEnd = !other && plain.length >= 2 ? plain.reduce((e, p) => (p.window!.end > e ? p.window!.end : e), main.window.end) : main.window.end;
-    window = { start: main.window.start, end: main.toLatest ? (st.dataEnd ?? spanEnd) : spanEnd };
+    // "since 2024" runs to the latest data; "this year" and "2024 so far" to the latest data within their own period.
+    const latest = latestEnd(st);
+    window = { start: main.window.start, end: main.toLatest ? (main.bounded ? minIso(spanEnd, latest) : latest) : spanEnd };
   } else if (other && !other.shift?.unit.match(/^(?:month|week|quarter|day)$/)) {
     // A comparison with no window of its own ("is revenue up on last year?"): the year to date.
     const unit: PeriodUnit = other.shift?.unit === 'period' ? 'month' : other.shift?.unit === 'same' ? 'year' : ((other.shift?.unit as PeriodUnit | undefined) ?? (other.unit === 'span' ? 'year' : (other.unit as PeriodUnit)));
     const start = unit === 'year' || unit === 'half' || unit === 'season' ? `${yearOf(st.anchor)}-01-01` : monthWindow(yearOf(st.anchor), Number(st.anchor.slice(5, 7))).start;
-    window = { start, end: st.dataEnd ?? st.anchor };
+    window = { start, end: latestEnd(st) };
     main = { ...other, window, unit: 'span', compared: false, relative: true, toLatest: true };
   } else if (other?.shift) {
     // "month on month" alone asks for a series of changes, not two windows.
@@ -926,6 +952,16 @@ function windowsOf(periods: PeriodMention[], st: ReadState, clause: Clause): { w
   if (!other) return { window: clipped, ...so };
   const compareWindow = compareOf(clipped, main!, other, st);
   return compareWindow ? { window: clipped, compareWindow, ...so } : { window: clipped, ...so };
+}
+
+/**
+ * Where "the latest data" ends for a period that runs to it ("since March", "this year"): the
+ * data's end, but never past the anchor's day. Rows dated after today (a date typed with the
+ * wrong century, a booking not yet travelled) are not the latest data.
+ */
+function latestEnd(st: Pick<ReadState, 'anchor' | 'dataEnd'>): string {
+  const today = addDays(st.anchor, 1);
+  return st.dataEnd ? minIso(st.dataEnd, today) : st.anchor;
 }
 
 function clip(w: DateWindow, st: ReadState): DateWindow {

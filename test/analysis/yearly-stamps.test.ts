@@ -12,6 +12,7 @@ import type { SubQuestion } from '../../analysis/types.js';
 import { dataDateWords, describeWindow, shortWindow, windowWordsGrain } from '../../analysis/window-words.js';
 import { datasetFacts, openWorkspace, type Workspace } from '../../analysis/workspace.js';
 import { nextPrompt } from '../../bot/prompts.js';
+import { readWindowAnswer } from '../../bot/reading/answers.js';
 import { readRequest } from '../../bot/reading/read-request.js';
 import { parseConfigText } from '../../config/load.js';
 import { vegaDataFile } from '../helpers/open-data.js';
@@ -103,5 +104,30 @@ datasets:
     expect(prompt?.topic).toBe('window');
     expect(prompt!.question).toContain('The data runs from 2001 to 2017; 2031 is after it');
     expect(prompt!.options.map((o) => o.label)).toEqual(['All the data (2001 to 2017)', '2017']);
+  });
+
+  // The file ends with 2017; on 5 December 2026 it is stale, so relative periods count back from its end.
+  const now = new Date('2026-12-05T09:00:00Z');
+
+  it('"this year vs last year" on data that ended years ago recommends the data\'s latest year against the one before', () => {
+    const facts = datasetFacts(ws);
+    const brief = readRequest('total net generation this year vs last year', facts, { now });
+    expect(brief.anchor?.today).toBe('2018-01-01');
+    expect(brief.toAsk).toContain('window');
+    const prompt = nextPrompt(brief, { dataset: ws.dataset, coverage: ws.coverage, facts, now, locale: 'en-GB' })!;
+    expect(prompt.recommended.value).toBe('2017 vs 2016');
+    expect(prompt.recommended.label).toBe("2017 against 2016 (the data's latest year and the one before)");
+    expect(prompt.recommended.reason).toContain('the data ends in 2017');
+    expect(prompt.options[0]!.value).toBe('2017 vs 2016');
+    // Taking it reads back as those two whole years.
+    const taken = readWindowAnswer(prompt.recommended.value, facts, now);
+    expect(taken).toEqual({ ok: true, value: { window: { start: '2017-01-01', end: '2018-01-01' }, compareWindow: { start: '2016-01-01', end: '2017-01-01' } } });
+  });
+
+  it('"the latest year" is the data\'s latest year, 2017, not the calendar year before today', () => {
+    const brief = readRequest('KPI snapshot of net generation for the latest year, for leadership', datasetFacts(ws), { now });
+    expect(brief.window).toEqual({ start: '2017-01-01', end: '2018-01-01' });
+    expect(brief.toAsk ?? []).not.toContain('window');
+    expect((brief.saidBack ?? []).join(' ')).not.toMatch(/2025/);
   });
 });

@@ -219,11 +219,13 @@ describe('through the bot (`threadcount ask`, real DuckDB): what the thread show
     expect(card(posts)).toMatch(/\*Period:\* January 1 to December 31, 2023/);
   }, 300_000);
 
-  it('"last year" on data that ended years ago is asked about; the recommendation is all the data', async () => {
+  it('"last year" on data that ended years ago is asked about; the recommendation is the data\'s latest whole year, as relative periods count back from its end', async () => {
     const posts = await converse(STOCKS_CONFIG, 'how did share prices do last year?', 'plan: go\n', NOW.stocks);
     const prompt = posts.find((p) => p.promptTopic === 'window');
     expect(prompt?.text).toMatch(/last year \(1 January 2025 to 31 December 2025\) is after it/);
-    expect(card(posts)).toMatch(/\*Period:\* .*2000.*2010/);
+    // stocks.csv is stamped monthly to March 2010 (the file itself): its latest whole year is 2009.
+    expect(prompt?.text).toMatch(/Recommended: \*2009 \(the data's latest year\)\*/);
+    expect(card(posts)).toMatch(/\*Period:\* January 2009 to December 2009/);
   }, 300_000);
 
   it('two values set against each other are said as such on the card and head the plan', async () => {
