@@ -40,7 +40,10 @@ export async function readTextDates(source: DataSource, table: string, columns: 
   const text = source.dialect.name === 'postgres' ? 'TEXT' : 'VARCHAR';
   const run = { maxRows: SAMPLE_VALUES + 1, timeoutMs: 120_000 };
   for (const column of columns) {
-    const values = `SELECT DISTINCT CAST(${q(column)} AS ${text}) AS v FROM (SELECT ${q(column)} FROM ${q(table)} LIMIT ${sampleRows}) AS tc_sample WHERE ${q(column)} IS NOT NULL AND TRIM(CAST(${q(column)} AS ${text})) <> '' LIMIT ${SAMPLE_VALUES}`;
+    // Distinct values in an order of their hashes: spread over the whole sample, not the first
+    // days of sorted data (a thousand minutes of 1-12 January would never settle day against month).
+    const spread = source.dialect.name === 'postgres' ? 'md5(v)' : 'hash(v)';
+    const values = `SELECT v FROM (SELECT DISTINCT CAST(${q(column)} AS ${text}) AS v FROM (SELECT ${q(column)} FROM ${q(table)} LIMIT ${sampleRows}) AS tc_sample WHERE ${q(column)} IS NOT NULL AND TRIM(CAST(${q(column)} AS ${text})) <> '') AS tc_distinct ORDER BY ${spread} LIMIT ${SAMPLE_VALUES}`;
     let counts: number[];
     let sampled: number;
     if (source.dialect.name === 'duckdb') {
