@@ -1,11 +1,12 @@
 // Template "kpi_by_segment" (kpi × breakdown): the snapshot's three points (latest complete
 // period, the one before, a year earlier) for each segment of a dimension. The top N segments
-// (by rows in the latest period, then by rows in all three) are named; the rest are combined in
+// (as many as the request asked for, else namedSegmentCount's default; by matching rows in the
+// latest period, then by matching rows in all three) are named; the rest are combined in
 // the database, because a ratio or a distinct count of "All others" cannot be added up from the
 // segments' own values.
 import type { DatasetConfig } from '../../config/schema.js';
 import { groupableDimension, metricByName, metricDirection } from '../catalog.js';
-import { datesCondition, measureSql, rowCountSql, tableRef } from '../compile-context.js';
+import { datesCondition, type PeriodScope, rowCountSql, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type { KpiBySegmentFinding, KpiSegmentRow, SegmentKey } from '../findings/kpi.js';
 import { nextPeriod } from '../periods.js';
@@ -13,12 +14,10 @@ import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CellValue, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
 import { baseIsZero, kpiDelta } from './kpi-delta.js';
 import { comparisonPeriods, coveredInFull, type KpiCompileContext, latestCandidates, periodsToRead, resolvedLatest } from './kpi-periods.js';
-import { EMPTY_TABLE, numberOrNull, periodExpr, periodsWhere } from './kpi-sql.js';
+import { EMPTY_TABLE, numberOrNull, periodExpr, periodsScope, periodsWhere } from './kpi-sql.js';
+import { namedSegmentCount } from './segments-fold-sql.js';
 import { complementaryFoldCtes, minGroupSize, suppressedSegmentsCaveat } from './small-groups.js';
 import type { Reading, Template } from './template.js';
-
-/** Named segments before the rest are combined; the bars chart's default too. */
-export const KPI_SEGMENTS_TOP_N = 8;
 
 // Working column names inside the query. They start "tc_kpi_" to stay clear of the table's own columns.
 const KEY = 'tc_kpi_key';
@@ -29,7 +28,7 @@ const SMALL = 'tc_kpi_small';
 const CELL_PERIOD = 'tc_kpi_cell_period';
 const CELL_ROWS = 'tc_kpi_cell_rows';
 
-export function compileKpiBySegment(sq: SubQuestion, ctx: KpiCompileContext, topN = KPI_SEGMENTS_TOP_N): CompiledQuery {
+export function compileKpiBySegment(sq: SubQuestion, ctx: KpiCompileContext, topN = namedSegmentCount(sq)): CompiledQuery {
   if (!sq.dimension) throw new Error('kpi_by_segment needs a dimension');
   const ds = ctx.dataset;
   const dim = groupableDimension(ds, sq.dimension);
@@ -43,13 +42,16 @@ export function compileKpiBySegment(sq: SubQuestion, ctx: KpiCompileContext, top
   const rankWhere = periodsWhere(q, ctx, periods, sq.grain, sq.filters);
   const period = periodExpr(q, ctx, sq.grain);
   const n = q.bind(topN);
-  const where = periodsWhere(q, ctx, periods, sq.grain, sq.filters);
-  const measures = metrics.map((m) => `  ${measureSql(q, ctx, m)} AS ${q.ident(m.name)}`);
+  // The periods' dates in WHERE and the filters inside each aggregate (periodScope): a segment or a
+  // period with rows but none matching keeps its row, so a filtered count there is 0, not a gap.
+  const scope = periodsScope(q, ctx, periods, sq.grain, sq.filters);
+  const where = scope.where;
+  const measures = metrics.map((m) => `  ${scope.measure(m)} AS ${q.ident(m.name)}`);
   const [key, rank, per, other] = [KEY, RANK, PERIOD, OTHER].map(q.ident);
   const min = minGroupSize(ds);
   if (min !== null) {
     const latestList = candidates.map((c) => ctx.dialect.dateParam(q.bind(c))).join(', ');
-    return q.finish(withMinimum(q, ctx, { table, seg, rankPeriod, rankWhere, latestList, period, n, where, measures, min: q.bind(min) }));
+    return q.finish(withMinimum(q, ctx, { table, seg, rankPeriod, rankWhere, latestList, period, n, where, measures, min: q.bind(min), scope }));
   }
   // The latest period's rows, as date ranges on the time column (not a function of it).
   const inLatest = datesCondition(q, ctx, candidates.map((c) => ({ start: c, end: nextPeriod(c, sq.grain) })));
@@ -73,9 +75,9 @@ SELECT ${per} AS period,
   ${other} AS other,
   GROUPING(${other}) AS total_row,
   MIN(${rank}) AS segment_rank,
-  ${ctx.dialect.toDouble(`COUNT(DISTINCT ${seg})`)} AS segment_count,
+  ${ctx.dialect.toDouble(`COUNT(DISTINCT ${scope.onMatching(seg)})`)} AS segment_count,
 ${measures.join(',\n')},
-  ${ctx.dialect.toDouble(rowCountSql(q, ctx))} AS row_count
+  ${ctx.dialect.toDouble(scope.rowCount())} AS row_count
 FROM tagged
 GROUP BY GROUPING SETS ((${per}, CASE WHEN ${other} THEN NULL ELSE ${seg} END, ${other}), (${per}))
 ORDER BY 1, 4, 5`);
@@ -92,7 +94,7 @@ ORDER BY 1, 4, 5`);
 function withMinimum(
   q: QueryBuilder,
   ctx: KpiCompileContext,
-  p: { table: string; seg: string; rankPeriod: string; rankWhere: string; latestList: string; period: string; n: string; where: string; measures: string[]; min: string },
+  p: { table: string; seg: string; rankPeriod: string; rankWhere: string; latestList: string; period: string; n: string; where: string; measures: string[]; min: string; scope: PeriodScope },
 ): string {
   const [key, rank, per, other, small, cellPeriod, cellRows, smallCount, rankedOut, complementCount] = [KEY, RANK, PERIOD, OTHER, SMALL, CELL_PERIOD, CELL_ROWS, 'tc_kpi_small_count', 'tc_kpi_ranked_out', 'tc_kpi_complement_count'].map(q.ident);
   return `WITH cells AS (
@@ -129,9 +131,9 @@ SELECT ${per} AS period,
   ${other} AS other,
   GROUPING(${other}) AS total_row,
   MIN(${rank}) AS segment_rank,
-  ${ctx.dialect.toDouble(`COUNT(DISTINCT ${p.seg})`)} AS segment_count,
+  ${ctx.dialect.toDouble(`COUNT(DISTINCT ${p.scope.onMatching(p.seg)})`)} AS segment_count,
 ${p.measures.join(',\n')},
-  ${ctx.dialect.toDouble(rowCountSql(q, ctx))} AS row_count,
+  ${ctx.dialect.toDouble(p.scope.rowCount())} AS row_count,
   ${ctx.dialect.toDouble(`MAX(${smallCount})`)} AS small_segments,
   ${ctx.dialect.toDouble(`MAX(${rankedOut})`)} AS ranked_out_segments,
   ${ctx.dialect.toDouble(`MAX(${complementCount})`)} AS complement_segments
@@ -147,7 +149,7 @@ export const kpiBySegmentTemplate: Template = {
 
 type Row = Record<string, CellValue>;
 
-export function readKpiBySegment(sq: SubQuestion, table: ResultTable, dataset: DatasetConfig, coverage: Coverage, topN = KPI_SEGMENTS_TOP_N): Reading {
+export function readKpiBySegment(sq: SubQuestion, table: ResultTable, dataset: DatasetConfig, coverage: Coverage, topN = namedSegmentCount(sq)): Reading {
   const caveats: Caveat[] = [];
   if (table.truncated) caveats.push({ code: 'truncated', data: { rows: table.rows.length } });
   const { latest, partial } = resolvedLatest(sq.window, sq.grain, coverage);
@@ -168,7 +170,8 @@ export function readKpiBySegment(sq: SubQuestion, table: ResultTable, dataset: D
     g.byPeriod.set(p, r);
   }
   const latestTotal = latest === null ? undefined : totals.get(latest);
-  if (latest === null || latestTotal === undefined || !(Number(latestTotal.row_count) > 0)) {
+  // A latest period with rows but none matching the filters is read (a filtered count of 0), not missing.
+  if (latest === null || latestTotal === undefined) {
     caveats.push({ code: 'no_data', data: { start: latest ?? sq.window.start, end: latest ? nextPeriod(latest, sq.grain) : sq.window.end } });
     return { findings: [], caveats };
   }

@@ -31,10 +31,8 @@ import {
 import { cellFromRow, comparisonPlanFor, comparisonShape, measureColumns, num } from './performance-measure.js';
 import { cellEstimate, compareCells, directionOf } from './performance-stats.js';
 import { complementaryFoldCtes, minGroupSize, suppressedGroupsCaveat, suppressedSegmentsCaveat, suppressSmallCells } from './small-groups.js';
+import { namedSegmentCount } from './segments-fold-sql.js';
 import type { Template } from './template.js';
-
-/** Segments shown by name; the rest are folded into one row. */
-export const SEGMENT_TOP_N = 8;
 
 export function compileSegments(sq: SubQuestion, ctx: CompileContext): NamedQuery {
   const ds = ctx.dataset;
@@ -48,7 +46,8 @@ export function compileSegments(sq: SubQuestion, ctx: CompileContext): NamedQuer
   const rankWhere = `${whereClause(q, ctx, window, sq.filters)}\n    AND ${throughUnitsCondition(q, ctx, sq, group, window)}`;
   const plan = comparisonPlanFor(q, ctx, metric);
   const where = `${whereClause(q, ctx, window, sq.filters)}\n  AND ${throughUnitsCondition(q, ctx, sq, group, window)}`;
-  const topN = q.bind(SEGMENT_TOP_N);
+  // Segments shown by name, as many as the request asked for; the rest are folded into one row.
+  const topN = q.bind(namedSegmentCount(sq));
   // The final SELECT: its segment keys, its aggregates over the ranked segments, then the measure.
   const finalSelect = (keys: { sql: string; alias: string }[], rankAggregates: { sql: string; alias: string }[], carried: string[], ctes: string): { body: string; columns: string[] } => {
     if (plan.perDay) return perDaySegments(q, ctx, metric, { seg, keys, rankAggregates, carried, ctes, where: `${where}\n    AND ${groupKnown(q, group)}` });

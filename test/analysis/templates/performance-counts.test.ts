@@ -351,6 +351,14 @@ describe('a filtered count compared between groups of sites', () => {
     expect(captionProblems(a, p)).toEqual([]);
   });
 
+  it('per site, "top 2": two sites named (the busiest by weekday visits), the rest folded', async () => {
+    const a = await answerSubQuestion(question('performance_by_segment', 'weekday_visits', { dimension: 'site', rankLimit: 2 }), ws);
+    const segs = find(a, 'performance_segment');
+    const named = segs.filter((s) => !s.folded);
+    expect(named).toHaveLength(2);
+    expect(segs.find((s) => s.folded)?.segmentCount).toBeGreaterThan(0);
+  });
+
   it('reads the same numbers from the run rollup as from the rows', async () => {
     const run = [question('performance_before_after', 'weekday_visits'), question('performance_compare', 'weekday_visits'), question('performance_by_segment', 'weekday_visits', { dimension: 'site' })];
     for (const sq of run) {
