@@ -14,6 +14,11 @@ export interface ValueFormat {
   decimals?: number;
   /** The unit's short name after a count or number ("ppm"), from the metric's `unit_label`. */
   label?: string;
+  /**
+   * A rate of the metric (a count per day, per row, per unit), wherever it is printed: the rate
+   * rule of FormatOptions.rate applies in captions and chart labels alike.
+   */
+  rate?: boolean;
   locale: string;
 }
 
@@ -123,10 +128,15 @@ function numberOptions(value: number, fmt: ValueFormat, opts: FormatOptions): In
     if (decimals !== undefined && Math.abs(value) < 1000 && (value === 0 || Math.abs(value) >= 0.5 * 10 ** -decimals)) {
       return { ...sign, ...style, minimumFractionDigits: decimals, maximumFractionDigits: decimals };
     }
-    return { ...sign, ...style, notation: 'compact', maximumSignificantDigits: 3 };
+    // A reading keeps its third figure: "+2.00 ppm" beside "+2.91 ppm", never "+2 ppm" (one rule of
+    // three significant figures, so a caption's figure and its chart label print alike).
+    const zeros = fmt.unit === 'number' && decimals === undefined && value !== 0 && Math.abs(value) < 1000 ? { minimumSignificantDigits: 3 } : {};
+    return { ...sign, ...style, notation: 'compact', maximumSignificantDigits: 3, ...zeros };
   }
-  if (opts.rate && decimals === undefined && !currency) {
-    return Math.abs(value) >= 100 ? { ...sign, ...style, maximumFractionDigits: 0 } : { ...sign, ...style, maximumSignificantDigits: 3 };
+  // A rate, and a plain number with no decimals of its own, keep three significant figures below
+  // 100 ("0.0417", "2.00", "12.3") and whole units from 100 ("355", "11,999").
+  if (((opts.rate || fmt.rate) && !currency) || fmt.unit === 'number') {
+    if (decimals === undefined) return { ...sign, ...style, ...significantFigures(value) };
   }
   let d: { min: number; max: number };
   if (decimals !== undefined) d = { min: decimals, max: decimals };
@@ -135,6 +145,12 @@ function numberOptions(value: number, fmt: ValueFormat, opts: FormatOptions): In
   else if (fmt.unit === 'currency') d = Math.abs(value) < 1000 ? { min: 2, max: 2 } : { min: 0, max: 0 };
   else d = { min: 0, max: 2 };
   return { ...sign, ...style, minimumFractionDigits: d.min, maximumFractionDigits: d.max };
+}
+
+/** The one significant-figures rule: three figures, trailing zeros kept, below 100; whole units from 100. */
+function significantFigures(value: number): Intl.NumberFormatOptions {
+  if (value === 0) return { maximumFractionDigits: 0 };
+  return Math.abs(value) >= 100 ? { maximumFractionDigits: 0 } : { minimumSignificantDigits: 3, maximumSignificantDigits: 3 };
 }
 
 function clampDecimals(decimals: number): number {

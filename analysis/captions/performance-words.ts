@@ -86,10 +86,17 @@ export function quantityLabel(metric: Metric, quantity: Quantity, ds: DatasetCon
   return quantity === 'per_row' ? `${metric.label} per ${rowNoun(ds).singular}` : metric.label;
 }
 
-/** Value format of the compared quantity: a count per row, per day or per unit needs decimals (the metric's own when set). */
+/**
+ * Value format of the compared quantity. A count per row, per day or per unit is a rate: it is
+ * printed by format.ts's rate rule (three significant figures below 100), so "0.0417 a day" never
+ * reads "0.0 a day" and the chart's labels print what the caption says. A count's own decimals
+ * (usually 0) say how the count is printed, not its rate; decimals above 0 still win.
+ */
 export function quantityFormat(metric: Metric, quantity: Quantity, locale: string): ValueFormat {
-  if (quantity === 'per_row' && metric.unit === 'count') return { unit: 'number', decimals: metric.decimals ?? 2, locale };
-  if ((quantity === 'per_day' || quantity === 'per_unit_day') && metric.unit === 'count') return { unit: 'number', decimals: metric.decimals ?? 1, locale };
+  if (quantity !== 'metric' && metric.unit === 'count') {
+    const { decimals, ...own } = valueFormatOf(metric, locale);
+    return { ...own, unit: 'number', rate: true, ...(decimals !== undefined && decimals > 0 ? { decimals } : {}) };
+  }
   return valueFormatOf(metric, locale);
 }
 
