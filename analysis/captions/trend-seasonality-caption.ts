@@ -71,7 +71,7 @@ export function seasonalityWords(metric: Metric, additive: boolean, findings: re
     };
     caption = `${monthPair(b0, b1, locale)} are ${band(b0, b1, 'an average month')} for ${noun}; ${monthPair(q0, q1, locale)} ${band(q0, q1, '')}.`;
   }
-  const perDay = s.perDay ? ` ${perDaySentence(metric, s.perDay, locale)}` : '';
+  const perDay = s.perDay ? ` ${perDaySentence(metric, s.perDay, locale)}${totalsAside(s, s.perDay, locale)}` : '';
   return { title, caption: `${caption}${perDay}${weekday ? ` ${weekday}` : ''}` };
 }
 
@@ -93,6 +93,30 @@ export function perDaySentence(metric: Metric, p: MonthTotalsPerDay, locale: str
   const shown = moves.slice(0, 3).map(([up, downs], i) => `${name(up)} ${i === 0 ? 'moves ' : ''}above ${listJoin(downs.sort((a, b) => a - b).map(name))}`);
   const more = moves.length > 3 ? `; ${moves.length - 3} more ${moves.length - 3 === 1 ? 'month moves' : 'months move'} up` : '';
   return `${lead}; against the order by total, ${shown.join('; ')}${more}.`;
+}
+
+/**
+ * The title and the index rank months after taking out the trend; the per-day sentence ranks raw
+ * totals over the full years. With a steep trend or a few large months (rare events: fog days)
+ * the two orders can differ at the top or the bottom; then the caption says so, so the title and
+ * "the same order as by total" do not read as a contradiction.
+ */
+function totalsAside(s: TrendSeasonalityFinding, p: MonthTotalsPerDay, locale: string): string {
+  const same = (a: readonly number[], b: readonly number[]) => new Set([...a, ...b]).size === 2;
+  const topTotal = [p.byTotal[0]!, p.byTotal[1]!];
+  const bottomTotal = [p.byTotal[p.byTotal.length - 1]!, p.byTotal[p.byTotal.length - 2]!];
+  const topDiffers = !same(topTotal, s.busiest);
+  const bottomDiffers = !same(bottomTotal, s.quietest);
+  if (!topDiffers && !bottomDiffers) return '';
+  const years = s.fullYears.length === 1 ? `${s.fullYears[0]}` : `${s.fullYears[0]}–${s.fullYears[s.fullYears.length - 1]}`;
+  const parts = [
+    ...(topDiffers ? [`${monthPair(topTotal[0]!, topTotal[1]!, locale)} have the largest totals`] : []),
+    ...(bottomDiffers ? [`${monthPair(bottomTotal[0]!, bottomTotal[1]!, locale)} the smallest`] : []),
+  ];
+  return ` By total over the full ${s.fullYears.length === 1 ? 'year' : 'years'} ${years}, ${parts.join(' and ')}; the index takes out the change across the years and weighs each year alike, so it ranks ${[
+    ...(topDiffers ? [`${monthPair(s.busiest[0], s.busiest[1], locale)} first`] : []),
+    ...(bottomDiffers ? [`${monthPair(s.quietest[0], s.quietest[1], locale)} last`] : []),
+  ].join(' and ')}.`;
 }
 
 /**

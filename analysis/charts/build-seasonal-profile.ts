@@ -17,6 +17,8 @@ export interface SeasonalProfileInput extends ChartHeader {
   rangeLabel: string;
   /** A level's pattern: indices are deviations in these units from the yearly mean (additive). */
   deviationFormat?: ValueFormat;
+  /** The index axis's title, when not the default (a flow's index is of monthly totals). */
+  indexTitle?: string;
 }
 
 export function buildSeasonalProfile(input: SeasonalProfileInput): SeasonalProfileSpec {
@@ -32,7 +34,7 @@ export function buildSeasonalProfile(input: SeasonalProfileInput): SeasonalProfi
       max: finiteOrNull(m?.max ?? null),
       text: input.deviationFormat
         ? formatValue(index, input.deviationFormat, { compact: true, signed: true })
-        : formatValue(index, { unit: 'number', decimals: 2, locale: input.locale }),
+        : formatValue(index, { unit: 'number', decimals: indexDecimals(index), locale: input.locale }),
     };
   });
   return {
@@ -42,8 +44,17 @@ export function buildSeasonalProfile(input: SeasonalProfileInput): SeasonalProfi
     locale: input.locale,
     reference: input.deviationFormat ? 0 : 1,
     rangeLabel: input.rangeLabel,
+    ...(input.indexTitle ? { indexTitle: input.indexTitle } : {}),
     ...(input.deviationFormat ? { units: deviationAxis(input.deviationFormat) } : {}),
   };
+}
+
+/**
+ * Two decimals, or three for an index that would print as the average ("1.00") while its bar is
+ * coloured busier or quieter: "0.996" and "1.004" say why the colours differ.
+ */
+function indexDecimals(index: number | null): number {
+  return index !== null && index !== 1 && Math.abs(index - 1) < 0.005 ? 3 : 2;
 }
 
 function finiteOrNull(v: number | null): number | null {

@@ -61,7 +61,7 @@ export function drawSeasonalProfile(canvas: Canvas, spec: SeasonalProfileSpec): 
             stepSize: step,
             callback: (v: number | string) => indexFmt.format(Number(v)),
           },
-          title: axisTitle(layout, 'Seasonal index (average month = 1.0)'),
+          title: axisTitle(layout, spec.indexTitle ?? 'Seasonal index (average month = 1.0)'),
         },
       },
     },

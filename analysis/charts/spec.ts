@@ -236,6 +236,8 @@ export interface SeasonalProfileSpec extends ChartHeader {
   units?: { format: ValueFormat; axisTitle: string; referenceLabel: string; above: string; below: string };
   /** Legend text of the whiskers, e.g. "Range 2022–2024". */
   rangeLabel: string;
+  /** The index axis's title when it is not the default: a flow's index is of monthly totals. */
+  indexTitle?: string;
 }
 
 // ---- period table ---------------------------------------------------------------------

@@ -33,6 +33,9 @@ export const presentTrendSeasonality: Presenter = (answer, ctx) => {
       locale: ctx.locale,
       rangeLabel: s.rangeFromYear !== null && s.rangeToYear !== null ? `Range across ${s.rangeFromYear}–${s.rangeToYear}` : 'Range across years',
       ...(s.model === 'additive' ? { deviationFormat: valueFormatOf(metric, ctx.locale) } : {}),
+      // A flow's index is of monthly totals, which favour long months; the caption gives the
+      // per-day order where it differs. Totals are kept: they are what a monthly report adds up.
+      ...(s.model !== 'additive' && additive ? { indexTitle: 'Index of monthly totals (average month = 1.0)' } : {}),
     });
   } else if (w && w.days.some((d) => d.level !== null)) {
     chart = buildBars({

@@ -13,7 +13,8 @@ import { openWorkspace, type Workspace } from '../../../analysis/workspace.js';
 import { presentContext } from '../../../bot/present-answer.js';
 import { loadSeattleWeather, seattleWeatherConfig } from '../stats/seattle-weather.js';
 
-const threeFigures = (x: number) => String(Number(x.toPrecision(3)));
+// toPrecision keeps trailing zeros ("1.40"), as the caption does beside "1.43".
+const threeFigures = (x: number) => x.toPrecision(3);
 
 describe('a rate of a count keeps three significant figures below 100', () => {
   it('matches toPrecision(3) for small rates and whole units from 100', () => {
@@ -56,6 +57,38 @@ describe('seasonality of rain days per day, Seattle 2012–2015', () => {
     const answer = await answerSubQuestion(sq, ws);
     const caption = SUB_QUESTIONS.trend_seasonality.present(answer, presentContext(ws, 'managers')).caption;
     expect(caption).toContain(`the busiest month is ${name(top)} (${threeFigures(perDay[top]!)} a day) and the quietest ${name(bottom)} (${threeFigures(perDay[bottom]!)} a day)`);
+  });
+
+  it('fog days (rare, rising): where the index ranks other months first than the totals do, the caption names the totals\' months from the CSV', async () => {
+    // Fog days per calendar month over the full years the series covers (fog is first recorded in
+    // July 2012, so 2013–2015), counted here from the CSV.
+    const fog = Array.from({ length: 12 }, () => 0);
+    for (const d of loadSeattleWeather()) if (d.weather === 'fog' && d.date >= '2013-01-01') fog[Number(d.date.slice(5, 7)) - 1]!++;
+    const order = fog.map((n, m) => ({ n, m })).sort((a, b) => b.n - a.n || a.m - b.m).map((x) => x.m);
+    const name = (m: number) => new Date(Date.UTC(2020, m, 1)).toLocaleString('en', { month: 'long', timeZone: 'UTC' });
+    const pair = (a: number, b: number) => [a, b].sort((x, y) => x - y).map(name).join(' and ');
+    const sq: SubQuestion = {
+      id: 'fog',
+      kind: 'trend',
+      lens: 'time_pattern',
+      template: 'trend_seasonality',
+      metrics: ['days'],
+      grain: 'month',
+      window: { start: '2012-01-01', end: '2016-01-01' },
+      filters: [{ dimension: 'weather', values: ['fog'] }],
+    };
+    const answer = await answerSubQuestion(sq, ws);
+    const shown = SUB_QUESTIONS.trend_seasonality.present(answer, presentContext(ws, 'managers'));
+    const titled = /^(\w+) and (\w+) are the busiest months/.exec(shown.title);
+    expect(titled, shown.title).not.toBeNull();
+    const byTotal = pair(order[0]!, order[1]!);
+    if (`${titled![1]} and ${titled![2]}` !== byTotal) {
+      // The title ranks by the index; the caption must not leave "the same order as by total" unexplained.
+      expect(shown.caption).toContain(`By total over the full years 2013–2015, ${byTotal} have the largest totals`);
+      expect(shown.caption).toContain(`so it ranks ${titled![1]} and ${titled![2]} first`);
+    }
+    // This series is a case of it (checked here so the branch above is exercised).
+    expect(`${titled![1]} and ${titled![2]}`).not.toBe(byTotal);
   });
 });
 
