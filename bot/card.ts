@@ -140,8 +140,9 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
   const notes: string[] = [];
   if (brief.anchor && brief.anchor.why !== 'today') notes.push(anchorNote(brief.anchor, ctx));
   return {
-    // Two questions read as the same thing are restated once (their plan items are shared too).
-    questions: [...new Set(brief.questions.map((q) => restate(q, ds, ctx)))],
+    // Two questions read as the same thing are restated once (their plan items are shared too). A
+    // question without a period of its own runs over the brief's, and is said so.
+    questions: [...new Set(brief.questions.map((q) => restate(q.window || !brief.window ? q : { ...q, window: brief.window }, ds, ctx)))],
     lines,
     // The plan's headings and numbered items; its date readings and edit help are the card's own lines.
     plan: planLines(plan, ds, ctx.locale),

@@ -10,6 +10,7 @@ import { type Brief, type Question, wholeRequestQuestion } from './brief.js';
 import { fullWindow } from './reading/answers.js';
 import { AGREE, CANCEL, grainNamedBy, WEEKDAY_ASK } from './reading/lexicon.js';
 import { describeWindow } from '../analysis/window-words.js';
+import { describeSubQuestion } from '../analysis/sub-questions/describe.js';
 
 export interface Plan {
   items: SubQuestion[];
@@ -71,11 +72,11 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
       const draft: Draft = { kind, lens, template, metrics: [metric], grain, window, filters: [], headline, ...shared, ...extra };
       // Two questions that come to the same thing ("how has it moved? the busiest months?") share
       // their items: one asks nothing the other does not (issue 17 item 11).
-      const twin = drafts.find((d) => sameItem(d, draft));
+      const twin = drafts.find((d) => sameItem(d, draft, ds));
       if (twin) {
         twin.headline ||= headline;
-        // "per decade" asked of one of the two is how the shared item states its rate.
-        if (draft.rateUnit && !twin.rateUnit) twin.rateUnit = draft.rateUnit;
+        // "per decade" or "top 10" asked of one of the two is how the shared item states it.
+        for (const hint of SHARED_HINTS) if (draft[hint] !== undefined && twin[hint] === undefined) Object.assign(twin, { [hint]: draft[hint] });
       } else drafts.push(draft);
     };
     // "Did phone grow faster than kiosk": the two values set against each other head the question's answers.
@@ -177,13 +178,36 @@ function addPeriodTables(drafts: Draft[], q: Question, brief: Brief, metrics: st
 }
 
 /**
- * Whether two drafts would compute the same thing: everything but whether either heads its
- * question, and the unit a rate is stated in when only one of them names it.
+ * A question's hints that one of two questions may give and the other not ("top 10 pls" after
+ * "which distributors earned the most", a year named to compare with): a shared item takes them.
  */
-function sameItem(a: Draft, b: Draft): boolean {
-  const { headline: _a, first: _fa, defaultBreakdown: _da, rateUnit: ra, ...x } = a;
-  const { headline: _b, first: _fb, defaultBreakdown: _db, rateUnit: rb, ...y } = b;
-  return (ra === rb || ra === undefined || rb === undefined) && isDeepStrictEqual(x, y);
+const SHARED_HINTS = ['rateUnit', 'rankLimit', 'rankOrder', 'compareWindow'] as const;
+
+/**
+ * Whether two drafts come to the same item: everything but whether either heads its question is
+ * the same, or all but a hint only one of them gives, where the plan would say both in the same
+ * words (the hint changes nothing it computes: "top 10" on a monthly series, a comparison year on a
+ * KPI snapshot). Two questions of one request that split apart ("which distributors earned the
+ * most since 2000? top 10 pls") so plan and answer each thing once. The unit a rate is stated in
+ * is shared as before, whatever the words.
+ */
+function sameItem(a: Draft, b: Draft, ds: DatasetConfig): boolean {
+  const core = (d: Draft) => {
+    const { headline: _h, first: _f, defaultBreakdown: _d, rateUnit: _r, rankLimit: _l, rankOrder: _o, compareWindow: _c, ...rest } = d;
+    return rest;
+  };
+  if (!isDeepStrictEqual(core(a), core(b))) return false;
+  const conflicts = SHARED_HINTS.filter((h) => a[h] !== undefined && b[h] !== undefined && !isDeepStrictEqual(a[h], b[h]));
+  if (conflicts.length > 0) return false;
+  const oneSided = SHARED_HINTS.filter((h) => h !== 'rateUnit' && (a[h] === undefined) !== (b[h] === undefined));
+  if (oneSided.length === 0) return true;
+  // Said the same in the plan: the locale does not matter, the two are only compared with each other.
+  const say = (d: Draft) => describeSubQuestion({ id: 'q', ...core(d), ...(d.rateUnit ? { rateUnit: d.rateUnit } : {}), ...pick(d, oneSided) }, ds, 'en');
+  return say(a) === say(b);
+}
+
+function pick(d: Draft, hints: readonly (typeof SHARED_HINTS)[number][]): Partial<SubQuestion> {
+  return Object.fromEntries(hints.flatMap((h) => (d[h] === undefined ? [] : [[h, d[h]]])));
 }
 
 /**
