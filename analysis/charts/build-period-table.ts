@@ -6,6 +6,8 @@ import type { Metric } from '../../config/schema.js';
 import { changeText } from '../captions/period-table-caption.js';
 import type { ChangeBasis, PeriodTableCell } from '../findings/table.js';
 import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
+import { GRAIN_WORDS } from '../grains.js';
+import { capitalise, possessive } from '../captions/grammar.js';
 import type { Grain } from '../types.js';
 import { colourDomain } from './build-growth-grid.js';
 import { headerOf } from './header.js';
@@ -13,6 +15,13 @@ import type { ChartHeader, PeriodTableSpec, TableCell, TableColumn, TableRow } f
 
 /** Periods per image: a year of months and one more, so a page never needs a smaller font. */
 export const PAGE_ROWS = 13;
+
+/**
+ * Images per table at most: four years of months. A longer window (a century of months is a
+ * hundred pages, more than anyone reads in a thread) draws its latest pages and says so; every
+ * period stays in the table's CSV.
+ */
+export const MAX_PAGES = 4;
 
 export interface PeriodTableMetric {
   metric: Metric;
@@ -81,7 +90,10 @@ export function buildPeriodTablePages(input: PeriodTableInput): PeriodTableSpec[
         cells: input.metrics.flatMap((_, k) => [{ text: valueTexts[k]![input.rows.length]!, tone: null, direction: null, mark: null }, blank(false), blank(false)]),
       }
     : null;
-  const pages = pageRows(input.rows.map((r) => r.period), grain);
+  const periods = input.rows.map((r) => r.period);
+  const from = drawnFrom(periods, grain);
+  const pages = pageRows(periods.slice(from), grain).map((r) => ({ from: r.from + from, to: r.to + from }));
+  const notDrawn = notDrawnNote(input, from);
   const width = Math.max(input.width, Math.round(64 + PERIOD_COLUMN[grain] + METRIC_WIDTH * input.metrics.length));
   const anyPartial = input.rows.some((r) => r.partial);
   const noun = GRAIN_NOUN[grain].toLowerCase();
@@ -89,9 +101,11 @@ export function buildPeriodTablePages(input: PeriodTableInput): PeriodTableSpec[
     const last = p === pages.length - 1;
     const pageRowsShown = [...rows.slice(range.from, range.to), ...(last && totalRow ? [totalRow] : [])];
     const height = Math.max(input.height, CHROME_HEIGHT + ROW_HEIGHT * (Math.min(PAGE_ROWS, maxPageLength(pages)) + (totalRow ? 1 : 0)));
+    // A table cut to its latest pages says so where the page number is read.
+    const latest = from > 0 ? `latest ${GRAIN_WORDS[grain].plural}, ` : '';
     const pageNote =
-      pages.length > 1
-        ? `Page ${p + 1} of ${pages.length}: ${formatPeriod(input.rows[range.from]!.period, grain, locale)} to ${formatPeriod(input.rows[range.to - 1]!.period, grain, locale)}${last ? '' : totalRow ? `; the ${input.total!.label.toLowerCase()} row is on page ${pages.length}` : ''}`
+      pages.length > 1 || latest
+        ? `${capitalise(`${latest}page ${p + 1} of ${pages.length}`)}: ${formatPeriod(input.rows[range.from]!.period, grain, locale)} to ${formatPeriod(input.rows[range.to - 1]!.period, grain, locale)}${last ? '' : totalRow ? `; the ${input.total!.label.toLowerCase()} row is on page ${pages.length}` : ''}`
         : '';
     return {
       kind: 'period_table',
@@ -108,9 +122,44 @@ export function buildPeriodTablePages(input: PeriodTableInput): PeriodTableSpec[
         worst: `worst ${noun}`,
         partial: anyPartial ? `partial ${noun}: not ranked or compared` : null,
       },
-      notes: [...input.notes],
+      notes: [...(notDrawn ? [notDrawn] : []), ...input.notes],
     };
   });
+}
+
+/**
+ * The first period drawn: 0 when the whole window fits in MAX_PAGES pages, else the latest
+ * periods that do, starting at a year's start for months and quarters (Jan 2043 to Dec 2046).
+ */
+function drawnFrom(periods: readonly string[], grain: Grain): number {
+  if (pageRows(periods, grain).length <= MAX_PAGES) return 0;
+  const from = periods.length - MAX_PAGES * PAGE_ROWS;
+  if (grain !== 'month' && grain !== 'quarter') return from;
+  const yearStart = periods.findIndex((p, i) => i >= from && p.slice(0, 4) !== periods[i - 1]?.slice(0, 4));
+  return yearStart >= 0 && pageRows(periods.slice(yearStart), grain).length <= MAX_PAGES ? yearStart : from;
+}
+
+/**
+ * What a table cut to its latest pages leaves out, said on every page: how many periods are drawn
+ * of how many, that the rest are in the CSV, that the totals row and the marks cover them all,
+ * and which marked periods fall in the part not drawn.
+ */
+function notDrawnNote(input: PeriodTableInput, hidden: number): string | null {
+  if (hidden <= 0) return null;
+  const { grain, locale, rows } = input;
+  const n = (v: number) => new Intl.NumberFormat(locale).format(v);
+  const plural = GRAIN_WORDS[grain].plural;
+  const period = (iso: string) => formatPeriod(iso, grain, locale);
+  const marked = input.metrics.flatMap((m, k) => {
+    const at = (mark: 'best' | 'worst') => rows.slice(0, hidden).find((r) => !r.partial && r.cells[k]?.mark === mark);
+    return (['best', 'worst'] as const).flatMap((mark) => {
+      const r = at(mark);
+      return r ? [`${possessive(m.metric.label)} ${mark} (${period(r.period)})`] : [];
+    });
+  });
+  const total = input.total ? `; the ${input.total.label.toLowerCase()} row and the ★ and ✖ marks cover all of them` : '';
+  const marks = marked.length > 0 ? ` Marked among the earlier ones: ${marked.join(', ')}.` : '';
+  return `Drawn: the latest ${n(rows.length - hidden)} of ${n(rows.length)} ${plural} (${period(rows[hidden]!.period)} to ${period(rows.at(-1)!.period)}); the earlier ${n(hidden)} are in the attached CSV${total}.${marks}`;
 }
 
 function blank(partial: boolean): TableCell {

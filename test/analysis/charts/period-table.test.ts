@@ -3,7 +3,7 @@
 // metric's extremes over its complete periods; a partial period is hatched and never coloured;
 // long windows come as pages of at most 13 periods.
 import { describe, expect, it } from 'vitest';
-import { buildPeriodTablePages, domainOf, pageRows, PAGE_ROWS, type PeriodTableInput } from '../../../analysis/charts/build-period-table.js';
+import { buildPeriodTablePages, domainOf, MAX_PAGES, pageRows, PAGE_ROWS, type PeriodTableInput } from '../../../analysis/charts/build-period-table.js';
 import { MARK_COLOUR, tableCellColour } from '../../../analysis/charts/draw-period-table.js';
 import type { ChartGeometry } from '../../../analysis/charts/geometry.js';
 import { renderChartWithGeometry } from '../../../analysis/charts/render.js';
@@ -127,6 +127,36 @@ describe('pages', () => {
       const png = (await renderChartWithGeometry(p)).png;
       expect(pngSize(png)).toEqual({ width: p.width, height: p.height });
     }
+  });
+
+  it('draws at most MAX_PAGES pages of a long history, the latest, and says what is left to the CSV and which marks it holds', async () => {
+    // A century of months (January 1929 to December 2046, 1,416 of them) would be 118 images.
+    const input: PeriodTableInput = { ...periodTableInput({}, 4), grain: 'month' };
+    const rows = Array.from({ length: 1416 }, (_, i) => {
+      const period = addMonths('1929-01-01', i);
+      const base = input.rows[i % 3]!;
+      // Bookings' best month long ago, its worst among the months drawn.
+      const mark = (k: number): 'best' | 'worst' | null => (k === 0 && period === '1972-03-01' ? 'best' : k === 0 && period === '2045-06-01' ? 'worst' : null);
+      return { ...base, period, partial: false, note: '', cells: base.cells.map((c, k) => ({ ...c, mark: mark(k) })) };
+    });
+    const pages = buildPeriodTablePages({ ...input, rows });
+    expect(pages).toHaveLength(MAX_PAGES);
+    expect(pages.map((p) => p.rows.length)).toEqual([12, 12, 12, 13]);
+    expect(pages[0]!.rows[0]!.label).toBe('Jan 2043');
+    expect(pages.at(-1)!.rows.at(-1)!.kind).toBe('total');
+    expect(pages[0]!.subtitle).toMatch(/^Latest months, page 1 of 4: Jan 2043 to Dec 2043; the whole period row is on page 4 · /);
+    for (const p of pages) {
+      expect(p.notes[0]).toBe(
+        "Drawn: the latest 48 of 1,416 months (Jan 2043 to Dec 2046); the earlier 1,368 are in the attached CSV; the whole period row and the ★ and ✖ marks cover all of them. Marked among the earlier ones: Bookings' best (Mar 1972).",
+      );
+    }
+    const png = (await renderChartWithGeometry(pages[0]!)).png;
+    expect(pngSize(png)).toEqual({ width: pages[0]!.width, height: pages[0]!.height });
+    // At MAX_PAGES pages or fewer nothing is cut and nothing is said about it.
+    const four = buildPeriodTablePages({ ...input, rows: rows.slice(-48) });
+    expect(four).toHaveLength(4);
+    expect(four[0]!.subtitle).toMatch(/^Page 1 of 4: /);
+    expect(four[0]!.notes.join(' ')).not.toMatch(/Drawn:/);
   });
 
   it('never puts more than PAGE_ROWS periods on a page, and balances the breaks', () => {
