@@ -1,12 +1,16 @@
 // Replicas as real processes: the CLI compiled with tsc into a folder of this test's own (not
 // dist/, which the benchmark uses), and `threadcount serve` started from it as child processes.
 import { execFile, spawn, type ChildProcess } from 'node:child_process';
-import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { promisify } from 'node:util';
 import { parseDocument } from 'yaml';
 import { peakRssKb, stopChild } from '../../bench/child-process.js';
+import { afterAll, beforeAll } from 'vitest';
+import { generateDemo } from '../../config/demo/generate-demo.js';
+import { waitFor } from '../helpers/wait-for.js';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 
@@ -106,4 +110,65 @@ export async function runCli(build: string, args: string[], env: Record<string, 
     });
   });
   return { code, stdout, stderr };
+}
+
+/** A call to a replica's local channel API: GET, or POST of a JSON body; the status and the parsed reply. */
+export async function replicaApi<T>(r: Replica, path: string, body?: unknown): Promise<{ status: number; json: T }> {
+  const res = await fetch(`${r.url}${path}`, body ? { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) } : {});
+  return { status: res.status, json: (await res.json()) as T };
+}
+
+/** Polls replicas gently: they share two cores with the rest of the suite, and a run can take minutes there. */
+export function pollReplica<T>(what: string, check: () => Promise<T | undefined>, timeoutMs = 180_000, everyMs = 100): Promise<T> {
+  return waitFor(what, check, timeoutMs, everyMs);
+}
+
+/** The CLI built, a demo dataset of 5,000 rows in a folder of the test's own, and the replicas it started. */
+export interface DemoServeFixture {
+  readonly dir: string;
+  readonly configPath: string;
+  readonly buildDir: string;
+  /** Starts `serve` on the demo with extra environment and arguments; stopped after the tests unless forgotten first. */
+  start(env: Record<string, string>, args: string[]): Promise<Replica>;
+  /** The replica has stopped (or was killed): no longer stopped after the tests. */
+  forget(r: Replica): void;
+}
+
+/** Registers beforeAll/afterAll hooks in the calling describe block: build and demo before, replicas stopped after. */
+export function demoServeFixture(tmpPrefix: string): DemoServeFixture {
+  let build: Awaited<ReturnType<typeof buildCli>> | undefined;
+  let dir = '';
+  let configPath = '';
+  const running: Replica[] = [];
+  beforeAll(async () => {
+    dir = mkdtempSync(join(tmpdir(), tmpPrefix));
+    const [built, demo] = await Promise.all([buildCli(), generateDemo({ outDir: join(dir, 'demo'), rows: 5000 })]);
+    build = built;
+    configPath = demo.configPath;
+  });
+  afterAll(async () => {
+    await Promise.all(running.map((r) => r.stop()));
+    build?.remove();
+  });
+  return {
+    get dir() {
+      return dir;
+    },
+    get configPath() {
+      return configPath;
+    },
+    get buildDir() {
+      if (!build) throw new Error('the CLI is built in beforeAll');
+      return build.dir;
+    },
+    async start(env, args) {
+      const r = await startReplica(this.buildDir, 'serve', configPath, env, args);
+      running.push(r);
+      return r;
+    },
+    forget(r) {
+      const i = running.indexOf(r);
+      if (i >= 0) running.splice(i, 1);
+    },
+  };
 }

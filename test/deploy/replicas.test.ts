@@ -15,7 +15,7 @@ import { afterAll, beforeAll, expect, it } from 'vitest';
 import type { LocalMessage } from '../../adapters/local-channel/local-thread-log.js';
 import { generateDemo } from '../../config/demo/generate-demo.js';
 import { describeWithPostgres, uniqueName, withClient } from '../helpers/postgres.js';
-import { buildCli, startReplica, withSharedState, type Replica } from './replica-process.js';
+import { buildCli, startReplica, withSharedState, type Replica, pollReplica, replicaApi } from './replica-process.js';
 
 const REQUEST = 'How has revenue moved month by month?';
 const STATE_ENV = 'THREADCOUNT_STATE_URL';
@@ -59,23 +59,8 @@ describeWithPostgres('two replicas on one PostgreSQL', (pgUrl) => {
   const table = (name: string) => `${pg.escapeIdentifier(schema)}.${pg.escapeIdentifier(name)}`;
   const alive = () => replicas.filter((r) => r.child.exitCode === null && r.child.signalCode === null);
 
-  async function api<T>(r: Replica, path: string, body?: unknown): Promise<{ status: number; json: T }> {
-    const res = await fetch(`${r.url}${path}`, body ? { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) } : {});
-    return { status: res.status, json: (await res.json()) as T };
-  }
-
-  const thread = async (r: Replica, id: string) => (await api<{ messages: LocalMessage[] }>(r, `/api/threads/${id}`)).json;
-
-  /** Polls gently (many pollers share two cores with the replicas). */
-  async function poll<T>(what: string, check: () => Promise<T | undefined>, timeoutMs = 180_000, everyMs = 200): Promise<T> {
-    const until = Date.now() + timeoutMs;
-    for (;;) {
-      const v = await check();
-      if (v !== undefined) return v;
-      if (Date.now() > until) throw new Error(`gave up waiting for ${what}`);
-      await new Promise((r) => setTimeout(r, everyMs));
-    }
-  }
+  const poll = <T>(what: string, check: () => Promise<T | undefined>, timeoutMs = 180_000, everyMs = 200) => pollReplica(what, check, timeoutMs, everyMs);
+  const thread = async (r: Replica, id: string) => (await replicaApi<{ messages: LocalMessage[] }>(r, `/api/threads/${id}`)).json;
 
   async function auditOf(threadIds: string[]) {
     const r = await db.query<{ thread_id: string; kind: string; detail: Record<string, unknown> }>(
@@ -88,7 +73,7 @@ describeWithPostgres('two replicas on one PostgreSQL', (pgUrl) => {
   it('takes 200 requests sent at once to both replicas: each recorded once and answered', async () => {
     const [a, b] = replicas as [Replica, Replica];
     const sent = await Promise.all(
-      Array.from({ length: 200 }, (_, i) => api<{ threadId: string }>(i % 2 ? b : a, '/api/threads', { author: `sender ${i}`, text: `${REQUEST} (${i})` })),
+      Array.from({ length: 200 }, (_, i) => replicaApi<{ threadId: string }>(i % 2 ? b : a, '/api/threads', { author: `sender ${i}`, text: `${REQUEST} (${i})` })),
     );
     expect(sent.map((s) => s.status)).toEqual(sent.map(() => 201));
     const ids = sent.map((s) => s.json.threadId);
@@ -97,12 +82,12 @@ describeWithPostgres('two replicas on one PostgreSQL', (pgUrl) => {
     // Answered: each thread's last message is the bot asking its first question.
     const mine = new Set(ids);
     const listed = await poll('every request to be answered', async () => {
-      const { json } = await api<{ threads: { id: string; waiting: boolean; messageCount: number }[] }>(a, '/api/threads');
+      const { json } = await replicaApi<{ threads: { id: string; waiting: boolean; messageCount: number }[] }>(a, '/api/threads');
       const ours = json.threads.filter((t) => mine.has(t.id));
       return ours.length === 200 && ours.every((t) => t.waiting) ? ours : undefined;
     });
     // Both replicas list the same threads.
-    const fromB = (await api<{ threads: { id: string }[] }>(b, '/api/threads')).json.threads.filter((t) => mine.has(t.id));
+    const fromB = (await replicaApi<{ threads: { id: string }[] }>(b, '/api/threads')).json.threads.filter((t) => mine.has(t.id));
     expect(fromB.map((t) => t.id).sort()).toEqual(listed.map((t) => t.id).sort());
 
     const botIds = ids.map((id) => `local:${id}`);
@@ -128,7 +113,7 @@ describeWithPostgres('two replicas on one PostgreSQL', (pgUrl) => {
       return live[k % live.length]!;
     };
     const converse = async (i: number): Promise<string> => {
-      const created = await api<{ threadId: string }>(pick(i), '/api/threads', { author: `requester ${i}`, text: REQUEST });
+      const created = await replicaApi<{ threadId: string }>(pick(i), '/api/threads', { author: `requester ${i}`, text: REQUEST });
       expect(created.status).toBe(201);
       const id = created.json.threadId;
       const answered = new Set<string>();
@@ -138,7 +123,7 @@ describeWithPostgres('two replicas on one PostgreSQL', (pgUrl) => {
           return m?.fromBot && (m.prompt || m.quickReplies) && !answered.has(m.id) ? m : undefined;
         });
         answered.add(last.id);
-        const reply = await api(pick(i + turn + 1), `/api/threads/${id}/messages`, { author: `requester ${i}`, text: last.prompt ? last.prompt.recommended.value : 'go' });
+        const reply = await replicaApi(pick(i + turn + 1), `/api/threads/${id}/messages`, { author: `requester ${i}`, text: last.prompt ? last.prompt.recommended.value : 'go' });
         expect(reply.status).toBe(201);
         if (!last.prompt) break;
       }

@@ -4,17 +4,14 @@
 // "go", and at random moments of runs), and started again on the same state file. Every thread
 // must finish with each answer posted exactly once: counted from the thread's messages as the
 // API shows them and from the audit log read from the state file once the server has stopped.
-import { mkdtempSync } from 'node:fs';
-import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { DuckDbThreadLog } from '../../adapters/local-channel/DuckDbThreadLog.js';
 import type { LocalMessage } from '../../adapters/local-channel/local-thread-log.js';
 import { DuckDbStateStore } from '../../bot/stores/DuckDbStateStore.js';
 import { DEMO_REQUEST } from '../../cli/main.js';
-import { generateDemo } from '../../config/demo/generate-demo.js';
 import { SseClient } from '../helpers/sse-client.js';
-import { buildCli, startReplica, type Replica } from './replica-process.js';
+import { demoServeFixture, pollReplica, replicaApi, type Replica } from './replica-process.js';
 
 interface Thread {
   id: string;
@@ -22,27 +19,10 @@ interface Thread {
 }
 
 describe('serve on its state file, stopped hard and started again', () => {
-  let build: Awaited<ReturnType<typeof buildCli>>;
-  let configPath: string;
-  let dir: string;
-  const running: Replica[] = [];
-
-  beforeAll(async () => {
-    dir = mkdtempSync(join(tmpdir(), 'tc-restart-'));
-    const [built, demo] = await Promise.all([buildCli(), generateDemo({ outDir: join(dir, 'demo'), rows: 5000 })]);
-    build = built;
-    configPath = demo.configPath;
-  });
-
-  afterAll(async () => {
-    await Promise.all(running.map((r) => r.stop()));
-    build?.remove();
-  });
+  const fx = demoServeFixture('tc-restart-');
 
   async function start(statePath: string): Promise<Replica> {
-    const r = await startReplica(build.dir, 'serve', configPath, {}, ['--state', statePath]);
-    running.push(r);
-    return r;
+    return fx.start({}, ['--state', statePath]);
   }
 
   async function kill(r: Replica, signal: 'SIGKILL' | 'SIGTERM'): Promise<void> {
@@ -51,29 +31,13 @@ describe('serve on its state file, stopped hard and started again', () => {
       r.child.kill(signal);
       await exited;
     }
-    running.splice(running.indexOf(r), 1);
-  }
-
-  async function api<T>(r: Replica, path: string, body?: unknown): Promise<{ status: number; json: T }> {
-    const res = await fetch(`${r.url}${path}`, body ? { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) } : {});
-    return { status: res.status, json: (await res.json()) as T };
+    fx.forget(r);
   }
 
   async function thread(r: Replica, id: string): Promise<Thread> {
-    const got = await api<Thread>(r, `/api/threads/${id}`);
+    const got = await replicaApi<Thread>(r, `/api/threads/${id}`);
     expect(got.status, `thread ${id} as the API shows it`).toBe(200);
     return got.json;
-  }
-
-  /** Polls gently: the server shares two cores with the rest of the suite. */
-  async function poll<T>(what: string, check: () => Promise<T | undefined>, timeoutMs = 180_000, everyMs = 100): Promise<T> {
-    const until = Date.now() + timeoutMs;
-    for (;;) {
-      const v = await check();
-      if (v !== undefined) return v;
-      if (Date.now() > until) throw new Error(`gave up waiting for ${what}`);
-      await new Promise((r) => setTimeout(r, everyMs));
-    }
   }
 
   const botMessages = (t: Thread) => t.messages.filter((m) => m.fromBot);
@@ -83,14 +47,14 @@ describe('serve on its state file, stopped hard and started again', () => {
 
   /** Waits for the bot's next question after `seen` messages (a prompt or the plan). */
   const nextQuestion = (r: Replica, id: string, seen: number) =>
-    poll(`a question in ${id}`, async () => {
+    pollReplica(`a question in ${id}`, async () => {
       const t = await thread(r, id);
       return t.messages.length > seen && asks(t.messages.at(-1)) ? t : undefined;
     });
 
   /** A request taken through its prompts (the recommended answers) to the plan. */
   async function toPlan(r: Replica, text: string): Promise<string> {
-    const created = await api<{ threadId: string }>(r, '/api/threads', { author: 'maren', text });
+    const created = await replicaApi<{ threadId: string }>(r, '/api/threads', { author: 'maren', text });
     expect(created.status).toBe(201);
     const id = created.json.threadId;
     let t = await nextQuestion(r, id, 1);
@@ -103,10 +67,10 @@ describe('serve on its state file, stopped hard and started again', () => {
   }
 
   async function say(r: Replica, id: string, text: string): Promise<void> {
-    expect((await api(r, `/api/threads/${id}/messages`, { author: 'maren', text })).status).toBe(201);
+    expect((await replicaApi(r, `/api/threads/${id}/messages`, { author: 'maren', text })).status).toBe(201);
   }
 
-  const finished = (r: Replica, id: string) => poll(`the summary in ${id}`, async () => ((await hasSummary(await thread(r, id))) ? true : undefined), 300_000, 250);
+  const finished = (r: Replica, id: string) => pollReplica(`the summary in ${id}`, async () => ((await hasSummary(await thread(r, id))) ? true : undefined), 300_000, 250);
 
   /**
    * Everything the threads show, checked against the audit log in the state file (read once the
@@ -149,7 +113,7 @@ describe('serve on its state file, stopped hard and started again', () => {
   }
 
   it('killed mid-run while another thread waits on its plan: both finish after the restart, every answer once', async () => {
-    const statePath = join(dir, 'mid-run.duckdb');
+    const statePath = join(fx.dir, 'mid-run.duckdb');
     let r = await start(statePath);
     const waiting = await toPlan(r, 'How has revenue moved over time, month by month?');
     // A run long enough to stop part-way: the demo request asks all four kinds of question.
@@ -158,7 +122,7 @@ describe('serve on its state file, stopped hard and started again', () => {
     for (let attempt = 0; attempt < 4 && !cut; attempt++) {
       runningId = await toPlan(r, DEMO_REQUEST);
       await say(r, runningId, 'go');
-      const seen = await poll('the first answers', async () => {
+      const seen = await pollReplica('the first answers', async () => {
         const t = await thread(r, runningId);
         return answerNumbers(t).length >= 1 || hasSummary(t) ? t : undefined;
       });
@@ -187,11 +151,11 @@ describe('serve on its state file, stopped hard and started again', () => {
   }, 600_000);
 
   it('stopped with SIGTERM mid-run: the run is left and carried on after the restart', async () => {
-    const statePath = join(dir, 'sigterm.duckdb');
+    const statePath = join(fx.dir, 'sigterm.duckdb');
     let r = await start(statePath);
     const id = await toPlan(r, DEMO_REQUEST);
     await say(r, id, 'go');
-    await poll('the first answer', async () => ((answerNumbers(await thread(r, id)).length >= 1 ? true : undefined)));
+    await pollReplica('the first answer', async () => ((answerNumbers(await thread(r, id)).length >= 1 ? true : undefined)));
     await kill(r, 'SIGTERM');
     r = await start(statePath);
     await finished(r, id);
@@ -201,10 +165,10 @@ describe('serve on its state file, stopped hard and started again', () => {
   }, 600_000);
 
   it('killed right after a reply to a prompt, a correction to the card, and "go": nothing is lost and nothing posted twice', async () => {
-    const statePath = join(dir, 'replies.duckdb');
+    const statePath = join(fx.dir, 'replies.duckdb');
     let r = await start(statePath);
     // No measure named: the bot asks for one before it can post the card.
-    const created = await api<{ threadId: string }>(r, '/api/threads', { author: 'maren', text: 'How have things moved over time?' });
+    const created = await replicaApi<{ threadId: string }>(r, '/api/threads', { author: 'maren', text: 'How have things moved over time?' });
     const id = created.json.threadId;
     // At every question: the reply is accepted (201), then the process is killed at once.
     let t = await nextQuestion(r, id, 1);
@@ -224,7 +188,7 @@ describe('serve on its state file, stopped hard and started again', () => {
     await say(r, id, 'for leadership');
     await kill(r, 'SIGKILL');
     r = await start(statePath);
-    t = await poll('the correction confirmed', async () => {
+    t = await pollReplica('the correction confirmed', async () => {
       const now = await thread(r, id);
       return now.messages.length > t.messages.length + 1 ? now : undefined;
     });
@@ -244,7 +208,7 @@ describe('serve on its state file, stopped hard and started again', () => {
   }, 600_000);
 
   it('a reply accepted and never handled (the process died first) is read after the restart', async () => {
-    const statePath = join(dir, 'unhandled.duckdb');
+    const statePath = join(fx.dir, 'unhandled.duckdb');
     let r = await start(statePath);
     const id = await toPlan(r, 'How has revenue moved over time, month by month?');
     await kill(r, 'SIGTERM');
@@ -263,7 +227,7 @@ describe('serve on its state file, stopped hard and started again', () => {
   }, 600_000);
 
   it('killed at random moments of runs, several times over: every answer once', async () => {
-    const statePath = join(dir, 'random.duckdb');
+    const statePath = join(fx.dir, 'random.duckdb');
     let r = await start(statePath);
     const ids = [await toPlan(r, DEMO_REQUEST), await toPlan(r, 'How have revenue, bookings and passengers moved over time?')];
     for (const id of ids) await say(r, id, 'go');

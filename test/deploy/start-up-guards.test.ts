@@ -3,42 +3,24 @@
 // 0.0.0.0), and on a damaged state file, which it leaves exactly as it found it. A backup made
 // with `threadcount state backup` restores the conversations.
 import { createHash } from 'node:crypto';
-import { mkdtempSync, readFileSync, statSync, truncateSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync, statSync, truncateSync } from 'node:fs';
 import { join } from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import type { LocalMessage } from '../../adapters/local-channel/local-thread-log.js';
-import { generateDemo } from '../../config/demo/generate-demo.js';
 import { SERVE_ALLOCATOR_ENV } from '../../cli/allocator.js';
-import { buildCli, runCli, startReplica, type Replica } from './replica-process.js';
+import { demoServeFixture, runCli, type Replica } from './replica-process.js';
 
 const TOKEN = 'docker-style-token-0123456789abcdef';
 
 describe('serve refuses to start where it would be unsafe or lose data', () => {
-  let build: Awaited<ReturnType<typeof buildCli>>;
-  let configPath: string;
-  let dir: string;
-  const running: Replica[] = [];
-
-  beforeAll(async () => {
-    dir = mkdtempSync(join(tmpdir(), 'tc-guards-'));
-    const [built, demo] = await Promise.all([buildCli(), generateDemo({ outDir: join(dir, 'demo'), rows: 5000 })]);
-    build = built;
-    configPath = demo.configPath;
-  });
-  afterAll(async () => {
-    await Promise.all(running.map((r) => r.stop()));
-    build?.remove();
-  });
+  const fx = demoServeFixture('tc-guards-');
 
   async function start(env: Record<string, string>, args: string[]): Promise<Replica> {
-    const r = await startReplica(build.dir, 'serve', configPath, env, args);
-    running.push(r);
-    return r;
+    return fx.start(env, args);
   }
   async function stop(r: Replica): Promise<void> {
     await r.stop();
-    running.splice(running.indexOf(r), 1);
+    fx.forget(r);
   }
 
   it('on 0.0.0.0 (the Docker image\'s setting) without a token: refused, naming the variable; with one, an API call without it gets 401', async () => {
@@ -46,8 +28,8 @@ describe('serve refuses to start where it would be unsafe or lose data', () => {
     const imageEnv = dockerfileEnv(readFileSync(new URL('../../Dockerfile', import.meta.url), 'utf8'));
     expect(imageEnv.THREADCOUNT_HOST).toBe('0.0.0.0');
     expect(imageEnv.THREADCOUNT_ACCESS_TOKEN).toBeUndefined();
-    const state = join(dir, 'exposed.duckdb');
-    const refused = await runCli(build.dir, ['serve', '--config', configPath, '--state', state], imageEnv);
+    const state = join(fx.dir, 'exposed.duckdb');
+    const refused = await runCli(fx.buildDir, ['serve', '--config', fx.configPath, '--state', state], imageEnv);
     expect(refused.code).toBe(2);
     expect(refused.stderr).toMatch(/THREADCOUNT_ACCESS_TOKEN/);
     expect(refused.stderr).toMatch(/THREADCOUNT_HOST=0\.0\.0\.0/);
@@ -60,7 +42,7 @@ describe('serve refuses to start where it would be unsafe or lose data', () => {
     // runCli passes this process's environment on: none of the settings may come from there either.
     const inherited = Object.keys(SERVE_ALLOCATOR_ENV).map((name) => [name, process.env[name]] as const);
     for (const [name] of inherited) delete process.env[name];
-    const bare = await runCli(build.dir, ['serve', '--config', configPath, '--state', state], withoutAllocator).finally(() => {
+    const bare = await runCli(fx.buildDir, ['serve', '--config', fx.configPath, '--state', state], withoutAllocator).finally(() => {
       for (const [name, value] of inherited) if (value !== undefined) process.env[name] = value;
     });
     expect(bare.code).toBe(2);
@@ -75,7 +57,7 @@ describe('serve refuses to start where it would be unsafe or lose data', () => {
   }, 600_000);
 
   it('a truncated state file stops serve with a clear message and is left as it was; a backup restores it', async () => {
-    const state = join(dir, 'state.duckdb');
+    const state = join(fx.dir, 'state.duckdb');
     let r = await start({}, ['--state', state]);
     const created = await fetch(`${r.url}/api/threads`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ author: 'maren', text: 'How has revenue moved over time?' }) });
     const { threadId } = (await created.json()) as { threadId: string };
@@ -86,26 +68,26 @@ describe('serve refuses to start where it would be unsafe or lose data', () => {
     expect(before.at(-1)!.quickReplies?.length).toBeGreaterThan(0);
     await stop(r);
 
-    const backup = join(dir, 'backup.duckdb');
-    const made = await runCli(build.dir, ['state', 'backup', '--config', configPath, '--state', state, '--out', backup]);
+    const backup = join(fx.dir, 'backup.duckdb');
+    const made = await runCli(fx.buildDir, ['state', 'backup', '--config', fx.configPath, '--state', state, '--out', backup]);
     expect(made.code, made.stderr).toBe(0);
     // A backup never overwrites.
-    expect((await runCli(build.dir, ['state', 'backup', '--config', configPath, '--state', state, '--out', backup])).code).toBe(2);
+    expect((await runCli(fx.buildDir, ['state', 'backup', '--config', fx.configPath, '--state', state, '--out', backup])).code).toBe(2);
 
     truncateSync(state, Math.floor(statSync(state).size / 2));
     const hash = () => createHash('sha256').update(readFileSync(state)).digest('hex');
     const damaged = hash();
-    const refused = await runCli(build.dir, ['serve', '--config', configPath, '--state', state]);
+    const refused = await runCli(fx.buildDir, ['serve', '--config', fx.configPath, '--state', state]);
     expect(refused.code).toBe(4);
     expect(refused.stderr).toMatch(/the state file .*state\.duckdb is damaged and was left as it is/);
     expect(refused.stderr).toMatch(/threadcount state restore --from FILE/);
     expect(refused.stdout).not.toMatch(/Local channel:/);
     expect(hash()).toBe(damaged);
-    const checked = await runCli(build.dir, ['state', 'check', '--config', configPath, '--state', state]);
+    const checked = await runCli(fx.buildDir, ['state', 'check', '--config', fx.configPath, '--state', state]);
     expect(checked.code).toBe(4);
     expect(hash()).toBe(damaged);
 
-    const restored = await runCli(build.dir, ['state', 'restore', '--config', configPath, '--state', state, '--from', backup]);
+    const restored = await runCli(fx.buildDir, ['state', 'restore', '--config', fx.configPath, '--state', state, '--from', backup]);
     expect(restored.code, restored.stderr).toBe(0);
     expect(restored.stdout).toMatch(/replaced-/);
     r = await start({}, ['--state', state]);
