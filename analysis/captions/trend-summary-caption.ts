@@ -9,6 +9,17 @@ import { isPluralLabel } from './grammar.js';
 import type { Words } from './trend-test-caption.js';
 import { formatIndex, grainNoun, lowerLabel } from './trend-words.js';
 
+// A caption names a handful of unusual periods; a list of eighty is not read (a long history of sparse data).
+const MOST_OUTLIERS_SAID = 5;
+
+/** The outliers furthest from the median (largest |modified z|), in time order. */
+function mostExtreme(outliers: readonly TrendOutlierFinding[]): TrendOutlierFinding[] {
+  return [...outliers]
+    .sort((a, b) => Math.abs(b.score) - Math.abs(a.score))
+    .slice(0, MOST_OUTLIERS_SAID)
+    .sort((a, b) => a.period.localeCompare(b.period));
+}
+
 export function trendSummaryWords(metric: Metric, grain: Grain, findings: readonly Finding[], audience: Audience, locale: string, rowsLabel?: string): Words {
   const s = findings.find((f): f is TrendSummaryFinding => f.type === 'trend_summary' && f.metric === metric.name);
   const outliers = findings.filter((f): f is TrendOutlierFinding => f.type === 'trend_outlier' && f.metric === metric.name);
@@ -38,7 +49,9 @@ export function trendSummaryWords(metric: Metric, grain: Grain, findings: readon
       ? audience === 'analysts'
         ? ` No ${per} has |modified z| above ${formatValue(MODIFIED_Z_THRESHOLD, { unit: 'number', decimals: 1, locale })} (Iglewicz–Hoaglin).`
         : ''
-      : ` ${outliers.length === 1 ? 'One' : String(outliers.length)} ${grainNoun(grain, outliers.length)} ${outliers.length === 1 ? 'stands' : 'stand'} out from the rest: ${outliers.map(outlierText).join(', ')}.`;
+      : ` ${outliers.length === 1 ? 'One' : String(outliers.length)} ${grainNoun(grain, outliers.length)} ${outliers.length === 1 ? 'stands' : 'stand'} out from the rest${
+          outliers.length > MOST_OUTLIERS_SAID ? `; the ${MOST_OUTLIERS_SAID} furthest out: ${mostExtreme(outliers).map(outlierText).join(', ')}` : `: ${outliers.map(outlierText).join(', ')}`
+        }.`;
   // The statistics above are of the periods' values; an average's own rows are said apart, so a
   // median of weekly averages is never read as the median per flight.
   const r = s.rows;

@@ -209,6 +209,15 @@ describe('unusual periods are said once each, at their own grain', () => {
     const named = text.slice(text.indexOf(':') + 1).replace(/\.$/, '').split(/, | and /).map((x) => x.trim());
     expect(named.length).toBe(5);
     expect(new Set(named).size).toBe(named.length);
+    // The caption names the five months furthest out (largest |z|), not every unusual month.
+    const z = months.map((m, i) => ({ m, z: Math.abs((0.6745 * (values[i]! - med)) / mad) })).sort((a, b) => b.z - a.z);
+    const monthName = (ym: string) => new Date(`${ym}-01T00:00:00Z`).toLocaleString('en-GB', { month: 'long', year: 'numeric', timeZone: 'UTC' });
+    const { shown } = await present(strikesWs, sq);
+    expect(unusual).toBeGreaterThan(5);
+    expect(shown.caption).toContain(`${unusual} months stand out from the rest; the 5 furthest out: `);
+    const listed = /furthest out: (.*?)\.(?:\s|$)/.exec(shown.caption)![1]!;
+    for (const { m } of z.slice(0, 5)) expect(listed).toContain(monthName(m));
+    expect(listed).not.toContain(monthName(z[5]!.m));
   });
 });
 
