@@ -13,7 +13,7 @@ import type { Answer, Audience } from '../analysis/types.js';
 import type { Workspace } from '../analysis/workspace.js';
 import type { AnswerPresenter, DigestChart, SummaryPresenter } from './presenters.js';
 import { firstClause } from '../analysis/captions/grammar.js';
-import { askedDirection, verdictLine, wantsVerdict } from '../analysis/captions/verdict-words.js';
+import { askedDirection, verdictFor, verdictLine, wantsVerdict } from '../analysis/captions/verdict-words.js';
 import type { OutgoingFile } from './port.js';
 
 export function presentContext(ws: Workspace, audience: Audience): PresentContext {
@@ -68,13 +68,16 @@ export const presentSummary: SummaryPresenter = async (takeaways, { workspace, f
   // A request that names the periods to compare ("2025 against 2023") wants that verdict too.
   const namedComparison = (items ?? []).some((sq) => sq.compareWindow);
   const verdictFirst = askedDirection(requestText) !== null || ((wantsVerdict(requestText) || namedComparison) && !takeaways.some((t) => t.leads));
-  const settled = verdictFirst ? [...takeaways].sort((a, b) => a.position - b.position).find((t) => t.verdict) : undefined;
+  const settled = verdictFirst ? verdictFor(requestText, takeaways) : undefined;
   const verdict = settled ? { text: verdictLine(requestText, settled.verdict!), position: settled.position } : null;
   // A scope every line shares is said once, in the heading; otherwise each line leads with its own.
   const scopes = new Set(top.map((t) => t.scope ?? ''));
   const shared = scopes.size === 1 ? [...scopes][0]! : '';
   const scoped = (t: { text: string; scope?: string }) => (t.scope && !shared ? `Filtered to ${t.scope}. ${t.text}` : t.text);
-  const lines = [...(verdict ? [verdict] : []), ...top].map((t) => `- ${scoped(t)} (see ${t.position})`);
+  // A takeaway the verdict already says word for word (a trend test's title) is not said again.
+  const restated = (t: { text: string; position: number }) => !!verdict && t.position === verdict.position && verdict.text.toLowerCase().includes(t.text.replace(/[.\s]+$/, '').toLowerCase());
+  const listed = top.filter((t) => !restated(t));
+  const lines = [...(verdict ? [verdict] : []), ...listed].map((t) => `- ${scoped(t)} (see ${t.position})`);
   const failed = failures > 0 ? `\n${failures} ${failures === 1 ? 'question' : 'questions'} could not be answered; see the messages above.` : '';
   if (top.length === 0) return { text: `*Summary*\nNo question could be answered; see the messages above.` };
   const notes = [...new Set([...threadNotes(items ?? [], quality, workspace, now ?? new Date(), workspace.config.charts.locale), ...takeaways.flatMap((t) => t.dataNotes ?? [])])];
@@ -82,7 +85,7 @@ export const presentSummary: SummaryPresenter = async (takeaways, { workspace, f
   const text = `*Summary*${shared ? ` (filtered to ${shared})` : ''}\n${lines.join('\n')}${failed}${about}\nEach answer above has its table (CSV) and the SQL that produced it attached; the digest below puts the key charts and takeaways on one page for forwarding. These are descriptive figures from ${workspace.dataset.label}; comparisons between groups are observational, and your organisation's data-governance rules apply before sharing further.`;
   const asOf = workspace.coverage.lastDate ? dataDateWords(workspace.coverage.lastDate, workspace.coverage.stamps, workspace.config.charts.locale) : 'n/a';
   // The digest is titled with a finding: the verdict, else the first takeaway; the rest are listed under it.
-  const [headline, ...rest] = verdict ? [verdict, ...top] : top;
+  const [headline, ...rest] = verdict ? [verdict, ...listed] : top;
   const digest = await timePhase(timings, 'render', () => renderDigest({
     // The finding's first clause: a headline, not a paragraph cut at the width.
     title: firstClause(headline!.text).replace(/\.$/, ''),

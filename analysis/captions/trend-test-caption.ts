@@ -1,11 +1,12 @@
 // Title and caption for a trend test (Mann–Kendall and Sen's slope), written only from findings.
 import type { Metric } from '../../config/schema.js';
 import type { TrendTestFinding } from '../findings/segments.js';
-import { changesInUnits } from '../catalog.js';
+import { changesInUnits, metricDirection } from '../catalog.js';
 import { formatChange, formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import { yearFraction } from '../periods.js';
 import type { Audience, Finding, Grain } from '../types.js';
-import { isPluralLabel } from './grammar.js';
+import { inSentence, isPluralLabel } from './grammar.js';
+import type { Verdict } from './verdict-words.js';
 import { formatSmallPoints } from './growth-words.js';
 import { formatIndex, formatP, formatRelativeSize, grainNoun } from './trend-words.js';
 
@@ -150,4 +151,23 @@ function peakSentence(metric: Metric, grain: Grain, findings: readonly Finding[]
       ? `${value(change.to.value)}`
       : `${value(change.to.value)}, ${formatRelativeSize(change.relative, locale)} ${change.relative < 0 ? 'below' : 'above'} it`;
   return `The peak was ${when(change.from.period)} at ${value(change.from.value)}; the latest complete ${grainNoun(grain)}, ${when(change.to.period)}, was ${gap}.`;
+}
+
+/**
+ * The trend test as the answer to a yes-or-no question about the trend ("Is generation trending
+ * up?"): up or down only where the test finds a trend, level where the moves could be chance. None
+ * where the span is too short to tell a trend from the season.
+ */
+export function trendVerdict(metric: Metric, grain: Grain, test: TrendTestFinding, title: string, locale: string): Verdict | null {
+  if (test.seasonUnresolved) return null;
+  const when = (p: string) => formatPeriod(p, grain, locale, 'long');
+  const span = `${when(test.firstPeriod)} to ${when(test.lastPeriod)}`;
+  const tested = `Mann–Kendall test, p ${formatP(test.pValue, locale)}`;
+  const label = inSentence(metric.label);
+  const base = { higherIsBetter: metricDirection(metric), about: 'trend' as const };
+  if (test.direction === 'none') {
+    return { ...base, direction: 'level', statement: `${label} ${isPluralLabel(metric.label) ? 'show' : 'shows'} no clear trend from ${span} (${tested}: the ups and downs could be chance)` };
+  }
+  const clause = inSentence(title.replace(/[.\s]+$/, ''));
+  return { ...base, direction: test.direction, statement: `${clause}${clause.includes(span) ? '' : `, ${span}`} (${tested}: a trend this steady is unlikely to be chance)` };
 }

@@ -13,6 +13,8 @@ export interface Verdict {
   higherIsBetter: boolean | null;
   /** The finding as a clause, lower-case first: "revenue is 2.5% below last year so far (January to 18 June)". */
   statement: string;
+  /** What the verdict settles: a comparison of two spans (the default) or the trend over the whole span (a trend test). */
+  about?: 'change' | 'trend';
 }
 
 // A question that can be answered yes or no starts with an auxiliary verb.
@@ -70,4 +72,21 @@ const YEAR_EARLIER = /\b(?:last year|(?:the )?(?:previous|prior) year|year befor
 /** The request asks whether something went one way, or names a comparison with a year earlier. */
 export function wantsVerdict(request: string): boolean {
   return askedDirection(request) !== null || YEAR_EARLIER.test(request);
+}
+
+// A question about the trend ("Is generation trending up?", "is the rise significant?") is settled
+// by the trend test over the whole span, not by one year's change.
+const TREND = /\b(?:trend\w*|over time|steadily|long[- ]term|long[- ]run|significan\w*|by chance)\b/i;
+
+/** The request asks about a trend over the whole span rather than a change between two spans. */
+export function asksAboutTrend(request: string): boolean {
+  return TREND.test(request);
+}
+
+/** The verdict the summary leads with: a trend question's from the trend test where one settles it, else the first comparison's in plan order. */
+export function verdictFor<T extends { position: number; verdict?: Verdict }>(request: string, takeaways: readonly T[]): T | undefined {
+  const ordered = [...takeaways].sort((a, b) => a.position - b.position).filter((t) => t.verdict);
+  const trend = ordered.find((t) => t.verdict!.about === 'trend');
+  if (trend && asksAboutTrend(request)) return trend;
+  return ordered.find((t) => t.verdict!.about !== 'trend');
 }

@@ -1,10 +1,10 @@
 // Presenter for "trend_test": the series as a line with Sen's slope drawn as a trend line.
-import { trendTestWords } from '../captions/trend-test-caption.js';
+import { trendTestWords, trendVerdict } from '../captions/trend-test-caption.js';
 import { metricByName } from '../catalog.js';
 import type { TrendTestFinding } from '../findings/segments.js';
 
 import { caveatNotes, seriesLineChart } from './header.js';
-import type { Presenter } from './presenter.js';
+import { withVerdict, type Presenter } from './presenter.js';
 
 export const presentTrendTest: Presenter = (answer, ctx) => {
   const sq = answer.subQuestion;
@@ -20,7 +20,9 @@ export const presentTrendTest: Presenter = (answer, ctx) => {
     caption: words.caption,
     notes: caveatNotes(answer, ctx),
     chart,
-    takeaway: test ? { importance: test.direction === 'none' || test.seasonUnresolved ? 40 : 60, text: `${words.title}.` } : null,
+    takeaway: test
+      ? withVerdict({ importance: test.direction === 'none' || test.seasonUnresolved ? 40 : 60, text: `${words.title}.` }, trendVerdict(metric, sq.grain, test, words.title, ctx.locale))
+      : null,
   };
 };
 
