@@ -119,7 +119,28 @@ const MONEY_WORDS = /(^|_)(revenue|revenues|sales|amount|amounts|spend|spent|cos
 const CURRENCY_MARKS: readonly [RegExp, string][] = [[/\$/, 'USD'], [/€/, 'EUR'], [/£/, 'GBP'], [/¥/, 'JPY'], [/₹/, 'INR']];
 const CURRENCY_CODE = /(^|_)(usd|eur|gbp|jpy|chf|cad|aud|nzd|sek|nok|dkk|inr|cny)($|_)/;
 // A value per row that a total would not mean (a flight's delay, a rating, a duration): its mean per row.
-const PER_ROW_WORDS = /(^|_)(delay|delays|lateness|latency|duration|wait|waiting|rating|ratings|stars|grade|per|elevation|altitude)($|_|\d)/;
+const PER_ROW_WORDS = /(^|_)(delay|delays|lateness|latency|duration|time|length|wait|waiting|rating|ratings|stars|grade|per|elevation|altitude)($|_|\d)/;
+
+// Units a column's name states ("Speed IAS in knots", "Running Time min"): written after its values.
+const UNIT_LABELS: readonly [RegExp, string][] = [
+  [/(^|_)(knots|kts|kt)($|_)/, 'kt'],
+  [/(^|_)(minutes|mins|min)($|_)/, 'min'],
+  [/(^|_)(seconds|secs|sec)($|_)/, 's'],
+  [/(^|_)(hours|hrs)($|_)/, 'h'],
+  [/(^|_)(km|kilometres|kilometers)($|_)/, 'km'],
+  [/(^|_)(miles)($|_)/, 'mi'],
+  [/(^|_)(mph)($|_)/, 'mph'],
+  [/(^|_)(kg|kilograms)($|_)/, 'kg'],
+  [/(^|_)(celsius|degc)($|_)/, '°C'],
+  [/(^|_)(fahrenheit|degf)($|_)/, '°F'],
+  [/(^|_)(ppm)($|_)/, 'ppm'],
+];
+
+/** `unit_label` when the column's name states its unit; nothing otherwise. */
+function unitLabelOf(name: string): { unit_label?: string } {
+  const found = UNIT_LABELS.find(([re]) => re.test(name));
+  return found ? { unit_label: found[1] } : {};
+}
 
 /** The currency a column's name states ("$" read as USD), and what it was read from. */
 function currencyNamed(column: string): { code: string; from: string } | undefined {
@@ -317,7 +338,7 @@ export function draftConfig(input: DraftInput): Draft {
         moneyMetrics.push(metricName);
       }
       const currency = money ? { currency: (currencyNamed(c.name) ?? tableCurrency)?.code ?? ASSUMED_CURRENCY } : {};
-      metrics.push({ name: metricName, label: labelOf(c.name), also_called: [], [how]: columnExpr(c.name), unit: money ? 'currency' : 'number', ...currency, ...directionOf(name), kind });
+      metrics.push({ name: metricName, label: labelOf(c.name), also_called: [], [how]: columnExpr(c.name), unit: money ? 'currency' : 'number', ...currency, ...(money ? {} : unitLabelOf(name)), ...directionOf(name), kind });
       continue;
     }
     if (c.family !== 'text' || c.values === 0) continue;
@@ -355,7 +376,7 @@ export function draftConfig(input: DraftInput): Draft {
     // A reading per breakdown value per date adds up across values on one date, never over time:
     // drafted as its average (a year is the mean of its readings), unless its name says amount.
     if (panel && !flow) return { how: 'average', kind: 'level', why: `a level, averaged over time: the data has one row per ${panel.dimension} per ${panel.time}, so ${c.name} reads as a reading, not an amount (make it sum and kind: flow if it adds up over time)` };
-    if (PER_ROW_WORDS.test(name) && !flow) return { how: 'average', kind: 'ratio', why: 'a value per row (its name reads as one: a delay, a duration, a rating), averaged over the rows; a total would mean little (make it sum and kind: flow if it adds up)' };
+    if (PER_ROW_WORDS.test(name) && !flow) return { how: 'average', kind: 'ratio', why: 'a value per row (its name reads as one: a delay, a duration, a time taken, a rating), averaged over the rows; a total would mean little (make it sum and kind: flow if it adds up)' };
     if (c.min !== undefined && c.min < 0 && !flow) return { how: 'average', kind: 'ratio', why: `a value per row averaged over the rows: its values go below zero (down to ${c.min}), so a total would net highs against lows (make it sum and kind: flow if it adds up)` };
     return { how: 'sum', kind: 'flow', why: 'a flow, added up over time (make it average and kind: level if it is a reading such as a balance)' };
   }

@@ -257,6 +257,10 @@ describe('init on money named with a mark (birdstrikes.csv)', () => {
     const models = new Set(lines.map((l) => l.split(',')[model])).size;
     expect(models).toBe(225);
     expect(ds.dimensions).toContainEqual(expect.objectContaining({ column: 'Aircraft Make Model' }));
+    // Several strikes a day on average: the speed is a value per strike, averaged per row; its name states knots.
+    const dates = header!.split(',').indexOf('Flight Date');
+    expect(lines.length / new Set(lines.map((l) => l.split(',')[dates])).size).toBeGreaterThan(1.5);
+    expect(metrics.find((m) => m.name === 'speed_ias_in_knots')).toMatchObject({ average: '"Speed IAS in knots"', unit: 'number', unit_label: 'kt', kind: 'ratio' });
     // An airport's name is a place, not a person's: a breakdown, never personal data.
     expect(ds.dimensions).toContainEqual(expect.objectContaining({ column: 'Airport Name' }));
     expect((ds.dimensions as Record<string, unknown>[]).find((d) => d.column === 'Airport Name')).not.toHaveProperty('personal_data');
