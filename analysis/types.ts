@@ -62,6 +62,8 @@ export interface SubQuestion {
   rankLimit?: number;
   /** "worst 10", "lowest 5": segments ranked by the metric's value in this direction (see rankDescending). */
   rankOrder?: RankOrder;
+  /** This item answers the question as it was asked (a ranking asked with "which … the most"): the summary leads with it. */
+  answersAsked?: boolean;
   /** "how fast per decade": the unit a rate of change is stated in. */
   rateUnit?: 'year' | 'decade';
   /** Two values of one dimension set against each other ("did phone grow faster than kiosk"). */

@@ -45,6 +45,8 @@ export interface Question {
   rankLimit?: number;
   /** "worst 10", "lowest 5": rank by the metric's value in this direction. */
   rankOrder?: RankOrder;
+  /** Asks which segments of its breakdown come first ("which species cause the most cost", "top 5 busiest airports"): the ranking is its answer. */
+  ranking?: boolean;
   /** "per decade", "a year": the unit a rate of change is stated in. */
   rateUnit?: 'year' | 'decade';
   /** "bookings per day by month": a per-day average at the grain asked. */

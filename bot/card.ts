@@ -9,7 +9,8 @@ import { finestGrain, grainAdjective, isFinerGrain } from '../analysis/grains.js
 import { addDays } from '../analysis/periods.js';
 import { GRAINS, type DateWindow, type Grain, type SubQuestion } from '../analysis/types.js';
 import { describeWindow, shortWindow } from '../analysis/window-words.js';
-import { isBreakdownDimension } from '../analysis/catalog.js';
+import { isAdditive, isBreakdownDimension } from '../analysis/catalog.js';
+import { dimensionPlural } from '../analysis/captions/trend-words.js';
 import type { DatasetConfig } from '../config/schema.js';
 import type { Brief, Evidence, Question } from './brief.js';
 import type { Plan } from './plan.js';
@@ -263,6 +264,14 @@ function restate(q: Question, ds: DatasetConfig, ctx: CardContext): string {
   const group = ds.comparison_groups.find((g) => g.name === q.comparisonGroup);
   // Two values set against each other head the question's answers, whatever its kind ("how do email tickets compare with phone tickets").
   if (q.contrast && q.kind !== 'performance') return `How ${q.contrast.values.join(' and ')} compare in ${what}${w ? `, ${w}` : ''}.`;
+  // "Which species cause the most cost", "top 5 busiest airports": the ranking asked, not a pattern over time.
+  const ranked = q.ranking ? ds.dimensions.find((x) => x.name === q.dimensions[0]) : undefined;
+  if (ranked && (q.kind === 'trend' || q.kind === 'kpi')) {
+    const when = w ? `, ${w}` : q.kind === 'kpi' ? ' in the latest complete period' : '';
+    if (q.rankLimit) return `The top ${q.rankLimit} ${dimensionPlural(ranked)} by ${what}${only}${when}.`;
+    const most = q.metrics.every((x) => { const metric = ds.metrics.find((y) => y.name === x); return metric ? isAdditive(metric) : true; }) ? 'the most' : 'the highest';
+    return `Which ${inSentence(ranked.label)} has ${most} ${what}${only}${when}.`;
+  }
   switch (q.kind) {
     case 'growth':
       return q.compareWindow ? `How ${what}${only} changed${by}: ${w} against ${describeWindow(q.compareWindow, ctx.coverage, ctx.locale)}.` : `How fast ${what}${only} ${is} growing${by}${w ? `, ${w}` : ''}.`;

@@ -81,14 +81,28 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
     };
     // "Did phone grow faster than kiosk": the two values set against each other head the question's answers.
     const contrast = q.contrast && q.contrast.values.length === 2 && isBreakdownDimension(ds, q.contrast.dimension) ? q.contrast : null;
+    // "Night vs day: how do strikes compare?" with no change asked: the two values' totals (or
+    // levels) side by side over the period, then each one's course; their growth only when asked.
+    const levels = contrast !== null && (q.kind === 'trend' || q.kind === 'kpi') && !q.compareWindow;
     if (contrast) {
-      for (const metric of metrics) add('value_compare', metric, true, { dimension: contrast.dimension, contrast: { dimension: contrast.dimension, values: [contrast.values[0]!, contrast.values[1]!] } });
+      const pair = { dimension: contrast.dimension, values: [contrast.values[0]!, contrast.values[1]!] as [string, string] };
+      for (const metric of metrics) {
+        if (levels) {
+          add('segment_shares', metric, true, { dimension: contrast.dimension, contrast: pair, answersAsked: true });
+          add('segment_trend', metric, false, { dimension: contrast.dimension, contrast: pair });
+        } else add('value_compare', metric, true, { dimension: contrast.dimension, contrast: pair });
+      }
     }
+    const ranks = q.ranking === true && dims.length > 0;
     for (const metric of metrics) {
+      if (levels) break;
       const additive = ds.metrics.some((m) => m.name === metric) && isAdditive(metricByName(ds, metric));
       switch (q.kind) {
         case 'trend':
-          add('series', metric, true);
+          // "Which species cause the most cost", "top 5 busiest airports": the ranking of the
+          // breakdown heads the question's answers (bars by value where shares do not apply).
+          if (ranks) for (const d of dims) add('segment_shares', metric, true, { dimension: d, answersAsked: true });
+          add('series', metric, !ranks);
           // The days of the week asked about ("which weekday", "by day of week"): the time pattern
           // answers it (on daily data) whatever the grain, and heads the question.
           if (grain === 'month' || WEEKDAY_ASK.test(q.text.toLowerCase())) add('trend_seasonality', metric, WEEKDAY_ASK.test(q.text.toLowerCase()));
@@ -96,7 +110,7 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           add('trend_summary', metric, false);
           for (const d of dims) add('segment_trend', metric, false, { dimension: d });
           // "worst 10 by late share": a ranking by value answers it, whatever the metric, and heads the question.
-          if (additive || q.rankOrder) for (const d of dims) add('segment_shares', metric, !!q.rankOrder, { dimension: d });
+          if ((additive || q.rankOrder) && !ranks) for (const d of dims) add('segment_shares', metric, !!q.rankOrder, { dimension: d });
           break;
         case 'growth':
           // The metric's own pattern over time is the context any growth answer is read against.
@@ -130,7 +144,7 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           const upTo = { start: history.start, end: focus.end };
           add('kpi_snapshot', metric, true, {}, upTo);
           add('kpi_context', metric, false, {}, upTo);
-          for (const d of dims) add('kpi_by_segment', metric, false, { dimension: d }, upTo);
+          for (const d of dims) add('kpi_by_segment', metric, ranks, { dimension: d, ...(ranks ? { answersAsked: true } : {}) }, upTo);
           if (additive) for (const d of dims) add('kpi_mix', metric, false, { dimension: d }, upTo);
           break;
         }
@@ -166,7 +180,9 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
  * at most MAX_TABLE_METRICS. A table already planned for the same metrics and window is not repeated.
  */
 function addPeriodTables(drafts: Draft[], q: Question, brief: Brief, metrics: string[], grain: Grain, window: DateWindow, shared: Partial<SubQuestion>): void {
-  if (metrics.length === 0 || !(q.table || (metrics.length >= 2 && brief.grain))) return;
+  // A ranking asked ("which phase costs the most") or two values set side by side ("night vs day") is
+  // answered by those, not by a table of the pooled measures by period.
+  if (metrics.length === 0 || !(q.table || (metrics.length >= 2 && brief.grain && !q.ranking && !q.contrast))) return;
   const count = Math.ceil(metrics.length / MAX_TABLE_METRICS);
   for (let k = 0; k < count; k++) {
     const chunk = metrics.slice(Math.round((k * metrics.length) / count), Math.round(((k + 1) * metrics.length) / count));

@@ -58,10 +58,13 @@ export const presentAnswer: AnswerPresenter = async (answer, { workspace, audien
 export const presentSummary: SummaryPresenter = async (takeaways, { workspace, failures, charts, requestText, timings, items, quality, now }) => {
   // The most important few, told in the order they were asked; a takeaway that leads (the one
   // across a table's metrics) comes first.
+  // The answer to a ranking asked ("which species cause the most cost") leads before both.
+  const askedAt = new Set((items ?? []).flatMap((sq, i) => (sq.answersAsked ? [i + 1] : [])));
+  const first = (t: { position: number; leads?: boolean }) => (askedAt.has(t.position) ? 2 : t.leads ? 1 : 0);
   const top = [...takeaways]
-    .sort((a, b) => Number(!!b.leads) - Number(!!a.leads) || b.importance - a.importance || a.position - b.position)
+    .sort((a, b) => first(b) - first(a) || b.importance - a.importance || a.position - b.position)
     .slice(0, 5)
-    .sort((a, b) => Number(!!b.leads) - Number(!!a.leads) || a.position - b.position);
+    .sort((a, b) => first(b) - first(a) || a.position - b.position);
   // The answer to the question asked comes before everything else: the first verdict in plan order.
   // A request that only names a year-earlier comparison (a table "with the growth on the year
   // before") keeps a leading takeaway first; a yes-or-no question is always answered first.

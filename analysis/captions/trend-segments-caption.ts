@@ -152,7 +152,7 @@ function rankingWords(metric: Metric, dim: Dim, f: SegmentSharesFinding, ranking
   return { title, caption: `Ranked ${ranking.descending ? 'highest' : 'lowest'} first${why}: ${list}.${rule}${fewer}${rest}` };
 }
 
-export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly Finding[], audience: Audience, locale: string, rows: { plural: string; singular: string } = { plural: 'rows', singular: 'row' }): Words {
+export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly Finding[], audience: Audience, locale: string, rows: { plural: string; singular: string } = { plural: 'rows', singular: 'row' }, request: { ranking?: boolean; contrast?: readonly [string, string] } = {}): Words {
   const f = findings.find((x): x is SegmentSharesFinding => x.type === 'segment_shares' && x.metric === metric.name);
   const noun = lowerLabel(metric.label);
   const plural = dimensionPlural(dim);
@@ -165,6 +165,14 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
     return { title: `${metric.label} by ${lowerLabel(dim.label)}: no values in this period`, caption: `${capitalise(noun)} ${isPluralLabel(metric.label) ? 'have' : 'has'} no values for any ${lowerLabel(dim.label)} in this period.` };
   }
   if (f.ranking && (!f.additive || !f.ranking.descending || f.total === null || named.every((r) => r.share === null))) return rankingWords(metric, dim, f, f.ranking, locale, rows);
+  // Two values set against each other ("night vs day"): the two side by side, in the order asked.
+  const pair = request.contrast?.map((v) => named.find((r) => segmentLabel(r).toLowerCase() === String(v).toLowerCase()));
+  if (pair && pair[0] && pair[1] && pair[0].value !== null && pair[1].value !== null) {
+    const [a, b] = pair as [SegmentShareRow, SegmentShareRow];
+    const side = (r: SegmentShareRow) => `${segmentLabel(r)} ${formatValue(r.value, fmt, { compact: true })}`;
+    const shares = a.share !== null && b.share !== null && f.additive ? ` (${segmentLabel(a)} ${formatShare(a.value! / (a.value! + b.value!), locale, true)} of the two)` : '';
+    return { title: `${metric.label}: ${side(a)} against ${side(b)}`, caption: `${capitalise(noun)} over the period: ${side(a)} against ${side(b)}${shares}.` };
+  }
   if (!f.additive || f.total === null || named.every((r) => r.share === null)) {
     const ranked = [...named].filter((r) => r.value !== null).sort((a, b) => b.value! - a.value!);
     const top = ranked[0];
@@ -180,7 +188,10 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
   const k = half ? named.indexOf(half) + 1 : null;
   const verbFor = (n: number) => (n === 1 ? 'carries' : 'carry');
   let title: string;
-  if (k === 1) title = `${capitalise(segmentLabel(named[0]!))} carries ${formatShare(named[0]!.share, locale)} of ${noun}`;
+  // A ranking asked ("which species cause the most cost", "top 5 airports and their share"): the title answers it.
+  if (request.ranking && f.topNAsked && f.topNShare !== null) title = `The top ${f.topN} ${plural} carry ${formatShare(f.topNShare, locale)} of ${noun}; ${segmentLabel(named[0]!)} the most (${formatShare(named[0]!.share, locale, true)})`;
+  else if (request.ranking) title = `${capitalise(segmentLabel(named[0]!))} has the most ${noun}: ${formatValue(named[0]!.value, fmt, { compact: true })} (${formatShare(named[0]!.share, locale, true)})`;
+  else if (k === 1) title = `${capitalise(segmentLabel(named[0]!))} carries ${formatShare(named[0]!.share, locale)} of ${noun}`;
   else if (k !== null) title = `${capitalise(countWord(k, locale))} ${plural} carry ${formatShare(half!.cumulativeShare, locale)} of ${noun}`;
   else title = `${capitalise(plural)} are spread out: the largest carries ${formatShare(named[0]!.share, locale)} of ${noun}`;
 

@@ -11,7 +11,7 @@ export function countWord(n: number, locale: string): string {
   return Number.isInteger(n) && n >= 0 && n < NUMBER_WORDS.length ? NUMBER_WORDS[n]! : formatValue(n, { unit: 'count', locale });
 }
 
-import { capitalise } from './grammar.js';
+import { capitalise, pluralNoun } from './grammar.js';
 export { capitalise };
 
 /** A p-value with three decimals, or "< 0.001" below that. */
@@ -64,10 +64,8 @@ export function segmentLabel(key: { segment: string | null; other: boolean; memb
  * "fare classes"; a first word with inner capitals (a brand) keeps its case.
  */
 export function dimensionPlural(dim: Pick<Dimension, 'label'>): string {
-  const words = lowerLabel(dim.label).split(' ');
-  const last = words[words.length - 1] ?? '';
-  words[words.length - 1] = /(s|x|ch|sh)$/i.test(last) ? `${last}es` : /[^aeiou]y$/i.test(last) ? `${last.slice(0, -1)}ies` : `${last}s`;
-  return words.join(' ');
+  // One plural rule for every caption (grammar.ts): "species" stays, "phase of flight" → "phases of flight".
+  return pluralNoun(lowerLabel(dim.label));
 }
 
 /** A catalog label inside a sentence: "Booking channel" → "booking channel"; "SkerryPass holder" keeps its case. */

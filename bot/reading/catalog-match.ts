@@ -142,7 +142,8 @@ function catalogEntries(ds: DatasetConfig, values?: ValueIndex): CatalogEntry[] 
     const aliases = d.value_names ?? {};
     for (const v of index.values) {
       const text = v.value;
-      add('value', d.name, [text, ...(aliases[text] ?? [])], { value: text, weak: isWeakPhrase(text) });
+      const weak = isWeakPhrase(text);
+      add('value', d.name, [text, ...(aliases[text] ?? []), ...(weak ? [] : valueWordForms(text))], { value: text, weak });
     }
     // Parts of multi-word values ("Saltreach" of "Mainland–Saltreach"): distinctive words only.
     const partsSeen = new Map<string, string[]>();
@@ -161,6 +162,22 @@ function catalogEntries(ds: DatasetConfig, values?: ValueIndex): CatalogEntry[] 
     }
   }
   return out;
+}
+
+/**
+ * The other forms of a one-word value a request may use: "rainy", "raining", "rained" for "rain";
+ * "foggy", "sunny" for "fog", "sun" (a short closing consonant doubled). Only for a value that is a
+ * plain word of three letters or more, not a code in capitals ("LAX") and not an everyday word
+ * (those stay weak, read only on evidence), and never a form that is itself an everyday word.
+ */
+export function valueWordForms(value: string): string[] {
+  if (!/^\p{L}{3,}$/u.test(value) || (value === value.toUpperCase() && value.length <= 4)) return [];
+  const w = value.toLowerCase();
+  // Consonant-vowel-consonant at the end of a short word doubles its last letter: fog → foggy, sun → sunny.
+  const stemmed = w.length <= 4 && /[^aeiou][aeiou][^aeiouwxy]$/.test(w) ? w + w.slice(-1) : w;
+  const base = /e$/.test(w) ? w.slice(0, -1) : stemmed;
+  const forms = [`${base}y`, `${base}ing`, `${base}ed`].filter((f) => f !== w);
+  return forms.filter((f) => !EVERYDAY.has(f) && !BUSINESS_NOUNS.has(f) && !STOPWORDS.has(f) && !ORDINARY.has(f));
 }
 
 function isWeakPhrase(phrase: string): boolean {
@@ -289,6 +306,8 @@ function wantsEvidence(h: CatalogHit, e: CatalogEntry): boolean {
   return (!!e.weak || CALENDAR_NAME.test(w.norm)) && lower && dataForm(e, w.norm) !== w.raw;
 }
 
+const SET_AGAINST = /^\s*(?:vs\.?|versus|v|or|and|&|\/)\s*$|^\s*(?:[\p{L}'-]+\s+){0,2}(?:vs\.?|versus|than|against|compared\s+(?:to|with))\s+(?:[\p{L}'-]+\s+){0,2}$/u;
+
 /**
  * A value that is also an everyday word ("day", "large", "may") written in lower case when the
  * data writes it otherwise ("DAY" the airport code, "Large" the wildlife size), or a period noun in
@@ -319,8 +338,9 @@ function valuesWithEvidence(h: CatalogHit, hits: readonly CatalogHit[], text: Re
     return false;
   };
   // Another value of its breakdown set against it: "Night vs day", "day or night".
+  // A word of comparison may have a few words around it ("night strikes than day strikes", "at night against in the day").
   const setAgainst = (dim: string) =>
-    hits.some((o) => o !== h && o.entries.some((x) => x.kind === 'value' && x.name === dim && !wantsEvidence(o, x)) && /^\s*(?:vs\.?|versus|v|or|and|than|against|compared\s+(?:to|with)|&|\/)\s*$/.test(o.end <= h.start ? text.lower.slice(o.end, h.start) : text.lower.slice(h.end, o.start)));
+    hits.some((o) => o !== h && o.entries.some((x) => x.kind === 'value' && x.name === dim && !wantsEvidence(o, x)) && (o.end <= h.start ? o.end : h.end) < (o.end <= h.start ? h.start : o.start) && SET_AGAINST.test(o.end <= h.start ? text.lower.slice(o.end, h.start) : text.lower.slice(h.end, o.start)));
   // An entry kept on evidence is no longer a weak one: the words around it have said what it is.
   let kept = h.entries.flatMap((e) => (!wantsEvidence(h, e) ? [e] : quoted || ownWordBeside(e.name) || setAgainst(e.name) ? [{ ...e, weak: false }] : []));
   if (kept.some((e) => e.kind === 'value' && !e.partial)) kept = kept.filter((e) => !(e.kind === 'value' && e.partial));

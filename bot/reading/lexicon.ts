@@ -243,6 +243,16 @@ export const PRONOUNS = new Set(['it', 'that', 'this', 'they', 'them', 'those', 
 export const BREAKDOWN_BEFORE = /(?:\bby|\bper|\bfor each|\beach|\bevery|\bacross(?: (?:all|the|our))?|\bsplit (?:by|across|into)|\bbroken down by|\bbreak(?:ing)? (?:it |that |this |them )?down by|\bbreakdown (?:by|of)|\bgrouped by|\bwithin each|\bfor every|\bamong(?: the)?|\bbetween (?:the )?(?:different |\w+ )?)\s+$/;
 export const BREAKDOWN_WH = /(?:\bwhich|\bwhat)\s+$/;
 
+/**
+ * A ranking of a breakdown's segments ("which species cause the most cost", "top 5 busiest
+ * airports", "rank operators by repair cost"): a superlative of amount or a word of rank. Read only
+ * where the clause names a breakdown. "most recent", "at most", "mostly" are not rankings.
+ */
+export const RANK_WORDS = /\b(?:most|highest|biggest|largest|greatest|top|worst|best|least|lowest|fewest|smallest|busiest|quietest|costliest|priciest|dearest|leading|rank(?:ed|ing|s)?|league\s+table)\b(?!\s+(?:recent|recently|of\s+(?:the\s+)?(?:time|it|them)))/;
+export const NOT_RANK = /\b(?:at\s+(?:the\s+)?most|on\s+top\s+of|at\s+least|top\s+up|best\s+regards|all\s+the\s+best)\b/g;
+/** Asks which segment: "which X", "what X", "who", or a rank list ("top 5", "bottom 3", "rank X by"). */
+export const RANK_ASK = /\b(?:which|what|who|whose)\b|\b(?:top|bottom)\s+(?:\d{1,2}|three|five|ten)\b|\brank\w*\b|\bleague\s+table\b/;
+
 // ---- the two ends of a journey ----
 
 /** Words of a breakdown's names that make it the start of a movement (origin, from, pickup) or its end (destination, to, dropoff). */

@@ -22,8 +22,11 @@ import {
   FREQUENCY,
   GRAIN_WORDS,
   type MetricRole,
+  NOT_RANK,
   ORDINARY,
   OVERALL,
+  RANK_ASK,
+  RANK_WORDS,
   REFINES_PREVIOUS,
   ROLE_WORDS,
   SEASON_ASK,
@@ -375,6 +378,7 @@ interface ClauseReading {
   launchWords?: string;
   rankLimit?: number;
   rankOrder?: RankOrder;
+  ranking: boolean;
   rateUnit?: 'year' | 'decade';
   perDay: boolean;
   table: boolean;
@@ -425,6 +429,12 @@ function readQuestions(st: ReadState): { questions: Question[]; ambiguous: Ambig
     // "Could you show sign-ups for both platforms, quarter by quarter?": the data for the question before.
     const elaborates = previous !== undefined && !r.group && (r.metrics.length === 0 || r.metrics.every((m) => previous.metrics.includes(m))) && /\b(?:both|either|the\s+two|each\s+of\s+them)\b/i.test(r.clause.text);
     if (previous && elaborates) {
+      mergeInto(previous, r, st);
+      continue;
+    }
+    // "top 5 airports by flights, and what share of all flights do they handle?": the share the
+    // ranked few carry of the total, which the ranking answers (its concentration), not a question of its own.
+    if (previous?.ranking && r.dimensions.length === 0 && !r.group && r.filters.length === 0 && r.metrics.every((m) => previous.metrics.includes(m)) && SHARE_OF_TOTAL.test(r.clause.text) && /\b(?:they|them|these|those|their|it)\b/i.test(r.clause.text)) {
       mergeInto(previous, r, st);
       continue;
     }
@@ -491,6 +501,24 @@ function mergeInto(q: Question, r: ClauseReading, st: ReadState): void {
   if (r.group && !q.comparisonGroup) q.comparisonGroup = r.group;
   if (!q.window && r.periods.length > 0) Object.assign(q, windowsOf(r.periods, st, r.clause));
   if (r.contrast && !q.contrast) q.contrast = r.contrast;
+  // "…by phase of flight. Which phase costs us the most?": the ranking is what the question asks.
+  if (r.ranking && q.dimensions.length > 0 && (q.kind === 'trend' || q.kind === 'kpi')) q.ranking = true;
+  if (r.rankLimit && !q.rankLimit) q.rankLimit = r.rankLimit;
+}
+
+/** A share of a whole: "what share of all flights", "what percentage of the total", "how much of the total". */
+const SHARE_OF_TOTAL = /\b(?:share|percentage|proportion|percent|fraction|portion|%)\b|\bhow\s+much\s+of\s+(?:the\s+)?(?:total|whole|all)\b/i;
+
+/**
+ * Whether a clause asks which segments of a breakdown it names come first: a superlative or a word
+ * of rank beside a "which", a "top N", a "rank", or right before the breakdown's noun ("the busiest
+ * origin airports"). A superlative of time ("the busiest months") asks about the calendar instead.
+ */
+function asksRanking(t: string, dims: readonly string[]): boolean {
+  // "which months are busiest, by phase": the superlative is the calendar's.
+  if (dims.length === 0 || /\b(?:which|what)\s+(?:(?:time|part)\s+of\s+(?:the\s+)?)?(?:days?|weeks?|months?|quarters?|years?|seasons?|weekdays?|hours?)\b/.test(t)) return false;
+  const text = t.replace(NOT_RANK, ' ').replace(new RegExp(`${RANK_WORDS.source}(?:\\s+(?:and|or|&)\\s+\\w+)?\\s+(?:the\\s+)?(?:days?|weeks?|months?|quarters?|years?|periods?|seasons?|times?|hours?|weekdays?)\\b`, 'g'), ' ');
+  return RANK_WORDS.test(text) && (RANK_ASK.test(text) || /\b(?:top|bottom|biggest|largest|busiest|quietest|leading|costliest|worst|best|most|fewest|least|highest|lowest|smallest)\s+(?:\d{1,2}\b|\p{L})/u.test(text));
 }
 
 function toQuestion(r: ClauseReading, st: ReadState, previous: Question | undefined, pending: ClauseReading | null): Question {
@@ -553,6 +581,7 @@ function toQuestion(r: ClauseReading, st: ReadState, previous: Question | undefi
   if (r.contrast) q.contrast = r.contrast;
   if (r.rankLimit) q.rankLimit = r.rankLimit;
   if (r.rankOrder) q.rankOrder = r.rankOrder;
+  if (r.ranking && q.dimensions.length > 0 && (kind === 'trend' || kind === 'kpi')) q.ranking = true;
   if (r.rateUnit) q.rateUnit = r.rateUnit;
   if (r.perDay) q.perDay = true;
   if (r.table) q.table = true;
@@ -676,7 +705,9 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
     namesMeasure: metrics.length > 0 || st.roleHits.some((x) => inside(x.span)),
     asksGrain: st.grainSpans.some(inside),
   });
-  const top = /\b(top|bottom|best|worst|biggest|largest|smallest|highest|lowest)\s+(\d{1,2}|three|five|ten)\b/.exec(t);
+  // "top 5 routes", "worst 10", "the 5 busiest origins", "the three biggest operators": [words, the superlative, how many].
+  const topMatch = /\b(top|bottom|best|worst|biggest|largest|smallest|highest|lowest|busiest|quietest)\s+(\d{1,2}|three|five|ten)\b|\b(?:the|our|those|these)\s+(\d{1,2}|three|five|ten)\s+(busiest|biggest|largest|leading|smallest|quietest|costliest|most|highest|lowest|worst|best|top)\b/.exec(t);
+  const top = topMatch ? [topMatch[0], topMatch[1] ?? topMatch[4], topMatch[2] ?? topMatch[3]] : null;
   const rate = /\bper\s+(decade|year|annum)\b|\b(?:a|each)\s+(decade|year)\b(?=.{0,30}$)/.exec(t);
   const hasRateCue = rate && /\bhow\s+(?:fast|quickly|much)|\brate\b|\bper\s+decade\b|\ba\s+decade\b|\brising|\bfalling|\bincreas|\bdecreas|\bgrow|\bchang/.test(t);
   const reading: ClauseReading = {
@@ -691,6 +722,7 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
     frequency: FREQUENCY.test(clause.text) && (group !== undefined || /\bcustomers?\b|\busers?\b|\bmembers?\b|\bclients?\b|\bpeople\b/.test(t)),
     pronoun: /\b(?:it|its|that|this|they|them|their|those|these|same|either|both)\b/.test(t.replace(/\b(?:this|that)\s+(?:year|month|week|quarter|summer|winter|spring|autumn|season|time)\b/g, '')) && metrics.length === 0,
     refines: REFINES_PREVIOUS.test(clause.text) && metrics.length === 0 && !group,
+    ranking: asksRanking(t, dims),
     perDay: /\b(?:per|a|each)\s+day\b|\bdaily\s+(?:average|rate|mean)\b|\bper-day\b/.test(t) && (new RegExp(CALENDAR_MONTHS.source, 'u').test(t) || GRAINS.some((g) => g !== 'day' && new RegExp(`\\b(?:${GRAIN_WORDS[g].adjective}|by ${g}|per ${g}|each ${g}|${g} by ${g})\\b`).test(t))),
     table: /\b(?:the\s+)?(?:numbers|figures|kpis|metrics|stats)\s+(?:by|per|for each|each)\s+(?:month|week|quarter|day|year)\b|\bside\s+by\s+side\b|\b(?:as\s+a|in\s+a|one)\s+table\b|\bmonthly\s+table\b|\btable\s+of\b/.test(t),
     refersBack: /^\s*(?:and\s+|also\s+|second(?:ly)?,?\s+|then\s+)?(?:how\s+(?:does|do|did)\s+(?:that|it|this|they|those)\s+compare|(?:is|was|were|are)\s+(?:it|that|this|they)\b|which\s+\w+\s+(?:drove|took|caused|explain))/.test(t),
@@ -783,7 +815,11 @@ function composeShares(metrics: string[], metricHits: CatalogHit[], clause: Clau
   const words = new Set(t.split(/[^\p{L}]+/u).filter((w) => w.length > 3).map(stem));
   // Every measure named, the "of revenue" of "share of revenue" included (dropped as the unit counted).
   const named = [...metrics, ...metricHits.map((h) => metricOf(h))];
-  const mentions = (m: Metric) => [m.name.replaceAll('_', ' '), m.label, ...m.synonyms].some((n) => n.toLowerCase().split(/\s+/).some((w) => w.length > 3 && words.has(stem(w)) && !/^(?:share|rate|revenue|tickets?|signups?|bookings?)$/.test(stem(w))));
+  // "share of all flights": the measure right after "share of" is what is shared out, so its own
+  // words ("flights") do not name a rate of it ("share of flights late"); only another word would.
+  const sharedOut = metricHits.find((h) => h.start >= at + share[0].length && /^\s*(?:(?:the\s+)?(?:total|entire|whole|overall)\s+)?$/.test(st.text.lower.slice(at + share[0].length, h.start)));
+  const baseStems = new Set(sharedOut ? metricNames(ds.metrics.find((x) => x.name === metricOf(sharedOut))!).flatMap((n) => n.split(/[^\p{L}]+/u)).filter((w) => w.length > 3).map(stem) : []);
+  const mentions = (m: Metric) => [m.name.replaceAll('_', ' '), m.label, ...m.synonyms].some((n) => n.toLowerCase().split(/\s+/).some((w) => w.length > 3 && words.has(stem(w)) && !baseStems.has(stem(w)) && !/^(?:share|rate|revenue|tickets?|signups?|bookings?)$/.test(stem(w))));
   const candidates = ds.metrics.filter((m) => {
     const d = m.definition;
     if (d.type === 'rate') {
