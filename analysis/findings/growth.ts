@@ -104,11 +104,11 @@ export interface GrowthDriverSegment {
 /** A segment that was not there through both spans, so like-for-like growth leaves it out. */
 export interface ChangedSegment {
   segment: string | null;
-  /** It first appears after the earlier span began (a new site or channel). */
+  /** Its first record in the whole table comes after the earlier span began (a new site or channel). */
   opened: boolean;
-  /** It last appears before the later span ended (a closed site, a discontinued product). */
+  /** Its last record in the whole table comes before the later span ended (a closed site, a discontinued product). */
   closed: boolean;
-  /** Its first and last day with rows over both spans. */
+  /** Its first and last record in the whole table. */
   firstDay: string | null;
   lastDay: string | null;
 }

@@ -30,6 +30,8 @@ const LIFE_KEY = '__tc_life_key';
 const OPENED = '__tc_opened';
 const CLOSED = '__tc_closed';
 const LFL = '__tc_lfl';
+const LIFE_FIRST = '__tc_life_first';
+const LIFE_LAST = '__tc_life_last';
 
 /**
  * How many days after the earliest first day of the earlier span a segment may first appear (or
@@ -127,7 +129,7 @@ export function compileWindowComparison(asked: SubQuestion, ctx: CompileContext)
   const measures = sq.metrics.map((name) => `  ${measureSql(q, ctx, metricByName(ctx.dataset, name))} AS ${q.ident(name)}`);
   const sides = sidesSql(q, ctx, sq, prior, { table, win, day, first, last }, spans.asked);
   const [opened, closed, lfl] = [OPENED, CLOSED, LFL].map(q.ident) as [string, string, string];
-  const life = presenceSql(q, { seg, win, day, tolerance: q.bind(presenceToleranceDays(sq.window)) });
+  const life = presenceSql(q, ctx, { seg, win, day, tolerance: q.bind(presenceToleranceDays(sq.window)), table });
   const min = minGroupSize(ctx.dataset);
   if (min !== null) {
     // A segment with fewer rows than the minimum on either side (where it has rows at all) joins
@@ -163,6 +165,7 @@ marked AS (
     (SELECT COUNT(*) FROM tc_extra) AS ${complementCount},
     ${life.opened} AS ${opened},
     ${life.closed} AS ${closed},
+    ${life.columns},
     -- Segments too small to show stay in the like-for-like base, so it never gives their values away.
     (COALESCE(tc_small.${small}, FALSE) OR NOT (${life.opened} OR ${life.closed})) AS ${lfl}
   FROM tagged
@@ -181,6 +184,8 @@ ${measures.join(',\n')},
   ${d.toDouble(rowCountSql(q, ctx))} AS row_count,
   MIN(${day}) AS first_day,
   MAX(${day}) AS last_day,
+  MIN(${life.firstEver}) AS life_first,
+  MAX(${life.lastEver}) AS life_last,
   ${d.toDouble(`COUNT(DISTINCT ${seg})`)} AS members,
   ${d.toDouble(`MAX(${smallCount})`)} AS small_segments,
   ${d.toDouble(`MAX(${complementCount})`)} AS complement_segments
@@ -191,7 +196,7 @@ ORDER BY 1, 2, 3, 5, 4`);
   return q.finish(`${sides},
 ${life.ctes},
 lived AS (
-  SELECT tagged.*, ${life.opened} AS ${opened}, ${life.closed} AS ${closed}, NOT (${life.opened} OR ${life.closed}) AS ${lfl}
+  SELECT tagged.*, ${life.opened} AS ${opened}, ${life.closed} AS ${closed}, NOT (${life.opened} OR ${life.closed}) AS ${lfl}, ${life.columns}
   FROM tagged
   ${life.joins}
 )
@@ -205,37 +210,51 @@ SELECT ${win} AS window_name,
 ${measures.join(',\n')},
   ${d.toDouble(rowCountSql(q, ctx))} AS row_count,
   MIN(${day}) AS first_day,
-  MAX(${day}) AS last_day
+  MAX(${day}) AS last_day,
+  MIN(${life.firstEver}) AS life_first,
+  MAX(${life.lastEver}) AS life_last
 FROM lived
 GROUP BY GROUPING SETS ((${win}, ${seg}, ${lfl}), (${win}), (${win}, ${lfl}))
 ORDER BY 1, 2, 3, 4`);
 }
 
 /**
- * Whether each segment was there through both spans, read from the two spans' own rows: it opened
- * if its first day in the earlier span comes more than `tolerance` days after the earliest first
- * day of any segment there (or it has no rows there), it closed if its last day in the later span
- * comes that much before the latest last day there (or it has no rows there). Edges come from the
- * data, so a span cut to the data's dates is judged on the days it has.
+ * Whether each segment was there through both spans, read from the whole table (every date, no
+ * filter): it opened if its first record anywhere comes more than `tolerance` days after the
+ * earliest first day of any segment in the earlier span, it closed if its last record anywhere
+ * comes that much before the latest last day in the later span. A segment merely without rows in
+ * one span (a sparse airport with no strike that quarter, there since 1990) is there throughout:
+ * it stays in like-for-like growth, with zero for a count or a sum. The span edges come from the
+ * spans' own rows, so a span cut to the data's dates is judged on the days it has.
  */
-function presenceSql(q: QueryBuilder, n: { seg: string; win: string; day: string; tolerance: string }): { ctes: string; joins: string; opened: string; closed: string } {
+function presenceSql(
+  q: QueryBuilder,
+  ctx: CompileContext,
+  n: { seg: string; win: string; day: string; tolerance: string; table: string },
+): { ctes: string; joins: string; opened: string; closed: string; columns: string; firstEver: string; lastEver: string } {
   const key = q.ident(LIFE_KEY);
+  const [firstEver, lastEver] = [q.ident(LIFE_FIRST), q.ident(LIFE_LAST)];
+  // The segment's whole life, over every date the table holds.
+  q.readsEveryDate();
   const ctes = `tc_life AS (
-  SELECT ${n.seg} AS ${key},
-    MIN(CASE WHEN ${n.win} = 'prior' THEN ${n.day} END) AS tc_first_prior,
-    MAX(CASE WHEN ${n.win} = 'current' THEN ${n.day} END) AS tc_last_current
-  FROM tagged
+  SELECT ${n.seg} AS ${key}, MIN(${localDateExpr(q, ctx)}) AS tc_first_ever, MAX(${localDateExpr(q, ctx)}) AS tc_last_ever
+  FROM ${n.table} AS t
   GROUP BY 1
 ),
 tc_edges AS (
-  SELECT MIN(tc_first_prior) AS tc_first_prior, MAX(tc_last_current) AS tc_last_current FROM tc_life
+  SELECT MIN(CASE WHEN ${n.win} = 'prior' THEN ${n.day} END) AS tc_first_prior,
+    MAX(CASE WHEN ${n.win} = 'current' THEN ${n.day} END) AS tc_last_current
+  FROM tagged
 )`;
   return {
     ctes,
     joins: `LEFT JOIN tc_life ON tagged.${n.seg} IS NOT DISTINCT FROM tc_life.${key}
   CROSS JOIN tc_edges`,
-    opened: `COALESCE(tc_life.tc_first_prior - tc_edges.tc_first_prior > ${n.tolerance}, TRUE)`,
-    closed: `COALESCE(tc_edges.tc_last_current - tc_life.tc_last_current > ${n.tolerance}, TRUE)`,
+    opened: `COALESCE(tc_life.tc_first_ever - tc_edges.tc_first_prior > ${n.tolerance}, FALSE)`,
+    closed: `COALESCE(tc_edges.tc_last_current - tc_life.tc_last_ever > ${n.tolerance}, FALSE)`,
+    columns: `tc_life.tc_first_ever AS ${firstEver}, tc_life.tc_last_ever AS ${lastEver}`,
+    firstEver,
+    lastEver,
   };
 }
 
@@ -362,8 +381,9 @@ export function readWindowComparison(asked: SubQuestion, table: ResultTable, cov
           segment: key,
           opened: r.opened === true,
           closed: r.closed === true,
-          firstDay: minDay(seen?.firstDay ?? null, row.firstDay),
-          lastDay: maxDay(seen?.lastDay ?? null, row.lastDay),
+          // Its first and last record in the whole table, which is what opened and closed were judged on.
+          firstDay: minDay(seen?.firstDay ?? null, dayOf(r.life_first) ?? row.firstDay),
+          lastDay: maxDay(seen?.lastDay ?? null, dayOf(r.life_last) ?? row.lastDay),
         });
       }
     }
@@ -412,19 +432,23 @@ function maxDay(a: string | null, b: string | null): string | null {
 }
 
 /**
- * Segments present in one span only: new ones (`late_segment`, with the first day they appear) and
- * ones that vanished (`segment_gap`). Only said when both spans have data at all.
+ * Segments present in one span only because they opened after the earlier span (`late_segment`,
+ * with their first record) or closed before the later one (`segment_gap`), as the whole table says.
+ * A sparse segment merely without rows in one span is no news: it counts as zero there. Only said
+ * when both spans have data at all.
  */
 export function segmentPresenceCaveats(cmp: WindowComparison): Caveat[] {
   const out: Caveat[] = [];
   if (!cmp.current.total?.rows || !cmp.prior.total?.rows) return out;
+  const changed = new Map(cmp.changed.map((c) => [c.segment, c]));
   for (const [key, row] of cmp.current.segments) {
-    if (!cmp.prior.segments.has(key)) {
-      out.push({ code: 'late_segment', data: { segment: key, firstPeriod: row.firstDay ?? cmp.currentSpan.start, grain: 'day' } });
+    const c = changed.get(key);
+    if (!cmp.prior.segments.has(key) && c?.opened) {
+      out.push({ code: 'late_segment', data: { segment: key, firstPeriod: c.firstDay ?? row.firstDay ?? cmp.currentSpan.start, grain: 'day' } });
     }
   }
   for (const key of cmp.prior.segments.keys()) {
-    if (!cmp.current.segments.has(key)) {
+    if (!cmp.current.segments.has(key) && changed.get(key)?.closed) {
       out.push({ code: 'segment_gap', data: { segment: key, periods: 1, firstGap: cmp.currentSpan.start, grain: 'day', window: 'current' } });
     }
   }

@@ -107,3 +107,53 @@ describe('a named period is compared whole', () => {
     expect(f.total.before).toBe(Number(t.base));
   });
 });
+
+describe('like for like is judged on the whole table', () => {
+  it('Q1 2001 against Q1 2000: every airport has strikes from before 2000 to after March 2001, so none is left out; a sparse one counts as zero', async () => {
+    const life = (await truth.runAndReadAll(`SELECT "Airport Name" AS a, strftime(MIN("Flight Date"), '%Y-%m-%d') AS first, strftime(MAX("Flight Date"), '%Y-%m-%d') AS last,
+        COUNT(*) FILTER (WHERE "Flight Date" >= DATE '2000-01-01' AND "Flight Date" < DATE '2000-04-01') AS q1_2000
+      FROM strikes GROUP BY 1`)).getRowObjectsJson() as { a: string; first: string; last: string; q1_2000: number | string }[];
+    // The newcomer saw "BARKSDALE AIR FORCE BASE ARPT, opened on 24 February 2000": its first strike is on 8 January 1990.
+    expect(life.find((r) => r.a === 'BARKSDALE AIR FORCE BASE ARPT')!.first).toBe('1990-01-08');
+    expect(life.every((r) => r.first < '2000-01-01' && r.last >= '2001-03-31')).toBe(true);
+    const sparse = life.filter((r) => Number(r.q1_2000) === 0).map((r) => r.a);
+    expect(sparse.length).toBeGreaterThan(0);
+    const answer = await answerSubQuestion(drivers(Q1_2001, Q1_2000), ws);
+    const f = answer.findings.find((x): x is GrowthDriversFinding => x.type === 'growth_drivers')!;
+    expect(f.likeForLike).toBeNull();
+    for (const s of f.segments.filter((x) => sparse.includes(x.segment ?? ''))) expect(s.before).toBe(0);
+    expect(answer.caveats.filter((c) => c.code === 'late_segment' || c.code === 'segment_gap')).toEqual([]);
+    const shown = SUB_QUESTIONS.growth_drivers.present(answer, { dataset: ws.dataset, locale: 'en-GB', audience: 'managers', chart: { width: 1200, height: 675, scale: 1 }, dataAsOf: ws.coverage.lastDate });
+    expect(shown.caption).not.toMatch(/opened on|like for like/i);
+  });
+
+  it('1995 against 1994: Denver International (first strike 24 March 1995) is left out of like for like, and the rest is our own SQL total', async () => {
+    // Our SQL: each airport's first and last strike in the whole file; the rule of presenceToleranceDays
+    // (a twelfth of the span: 30 days for a year) against the first strike of 1994 and the last of 1995.
+    const t = (await truth.runAndReadAll(`
+      WITH life AS (SELECT "Airport Name" AS a, MIN("Flight Date") AS first, MAX("Flight Date") AS last FROM strikes GROUP BY 1),
+      edges AS (
+        SELECT MIN("Flight Date") FILTER (WHERE year("Flight Date") = 1994) AS e0, MAX("Flight Date") FILTER (WHERE year("Flight Date") = 1995) AS e1 FROM strikes
+      ),
+      kept AS (SELECT a FROM life, edges WHERE first - e0 <= 30 AND e1 - last <= 30)
+      SELECT
+        (SELECT string_agg(a, '|' ORDER BY a) FROM life WHERE a NOT IN (SELECT a FROM kept)) AS left_out,
+        COUNT(*) FILTER (WHERE year("Flight Date") = 1994) AS before,
+        COUNT(*) FILTER (WHERE year("Flight Date") = 1995) AS after
+      FROM strikes WHERE "Airport Name" IN (SELECT a FROM kept)`)).getRowObjectsJson()[0] as Record<string, unknown>;
+    expect(t.left_out).toBe('DENVER INTL AIRPORT');
+    const answer = await answerSubQuestion(drivers({ start: '1995-01-01', end: '1996-01-01' }, { start: '1994-01-01', end: '1995-01-01' }), ws);
+    const f = answer.findings.find((x): x is GrowthDriversFinding => x.type === 'growth_drivers')!;
+    expect(f.likeForLike!.excluded.map((c) => [c.segment, c.opened, c.closed, c.firstDay])).toEqual([['DENVER INTL AIRPORT', true, false, '1995-03-24']]);
+    expect(f.likeForLike!.before).toBe(Number(t.before));
+    expect(f.likeForLike!.after).toBe(Number(t.after));
+  });
+
+  it('an average: an airport without strikes in one span is not opened or closed, and has no change to show', async () => {
+    const answer = await answerSubQuestion(drivers(Q1_2001, Q1_2000, 'speed'), ws);
+    const f = answer.findings.find((x): x is GrowthDriversFinding => x.type === 'growth_drivers')!;
+    expect(f.likeForLike).toBeNull();
+    const charleston = f.segments.find((s) => s.segment === 'CHARLESTON AFB/INTL ARPT');
+    if (charleston) expect(charleston.before).toBeNull();
+  });
+});
