@@ -319,7 +319,8 @@ describe('growth_drivers read', () => {
     // Before: a 100, b 50, c 50 (200). After: a 130, b 40, c 60, d 20 (250). Change +50.
     const rows = [
       sideRow('prior', 'a', 100), sideRow('prior', 'b', 50), sideRow('prior', 'c', 50), sideRow('prior', null, 200, 30, '2023-06-01', true),
-      sideRow('current', 'a', 130), sideRow('current', 'b', 40), sideRow('current', 'c', 60), sideRow('current', 'd', 20, 2, '2024-07-15'),
+      sideRow('current', 'a', 130), sideRow('current', 'b', 40), sideRow('current', 'c', 60), // d's first record in the whole table is 15 July 2024: it opened (the SQL's presence columns).
+      { ...sideRow('current', 'd', 20, 2, '2024-07-15'), like_for_like: false, opened: true, closed: false, life_first: '2024-07-15' },
       sideRow('current', null, 250, 32, '2024-06-01', true),
     ];
     const r = growthDriversTemplate.read(drivers, { drivers: table(rows) }, readCtx(fullCoverage));
@@ -398,7 +399,7 @@ describe('growth_share_shift read', () => {
     // U.S. DoJ, "Herfindahl-Hirschman Index" page (recalled from memory): shares of 30, 30, 20 and 20
     // percent give an HHI of 2,600. After: 50, 30, 20 (d gone) gives 2,500 + 900 + 400 = 3,800.
     const rows = [
-      sideRow('prior', 'a', 30), sideRow('prior', 'b', 30), sideRow('prior', 'c', 20), sideRow('prior', 'd', 20), sideRow('prior', null, 100, 40, '2023-06-01', true),
+      sideRow('prior', 'a', 30), sideRow('prior', 'b', 30), sideRow('prior', 'c', 20), { ...sideRow('prior', 'd', 20), like_for_like: false, opened: false, closed: true }, sideRow('prior', null, 100, 40, '2023-06-01', true),
       sideRow('current', 'a', 50), sideRow('current', 'b', 30), sideRow('current', 'c', 20), sideRow('current', null, 100, 30, '2024-06-01', true),
     ];
     const r = growthShareShiftTemplate.read({ ...drivers, template: 'growth_share_shift' }, { shares: table(rows) }, readCtx(fullCoverage));
