@@ -49,7 +49,8 @@ export function frequencyWords(findings: readonly Finding[], ctx: WordsContext):
   const value = (v: number | null | undefined) => formatValue(v ?? null, fmt);
   const isCount = metric.definition.type === 'count';
   // Order statistics of counts are whole (or half) numbers: no padded decimals.
-  const spot = (v: number | null) => (isCount ? formatValue(v, { unit: 'number', locale }) : value(v));
+  // A median or tenth of counts is whole, or a half between two: "4", "2.5", never "4.00".
+  const spot = (v: number | null) => (isCount ? formatValue(v, { unit: 'number', decimals: v !== null && Number.isInteger(v) ? 0 : 1, locale }) : value(v));
   const noun = inText(metric.label);
 
   if (!members || !others || none?.reason === 'suppressed') {
