@@ -17,7 +17,55 @@ export interface Coverage {
    * has no daily grain and no day-of-week pattern, and its last stamped period is complete.
    */
   stamps?: StampGranularity;
+  /**
+   * Rows dated after the run's day (a two-digit year read in the wrong century, a date typed
+   * ahead): left out of every answer by default, so the data ends on its last date up to that day
+   * (`lastDate`), and said once. Absent when no row is dated after the day.
+   */
+  afterToday?: DatesAfter;
 }
+
+/** Rows dated after `day`: how many, and the first and last of their dates. */
+export interface DatesAfter {
+  day: string;
+  rows: number;
+  firstDate: string;
+  lastDate: string;
+}
+
+/** The rows dated after `day` and the last date up to it, in one pass (run only when the data's last date is after `day`). */
+export function compileDatesAfter(ctx: CompileContext, day: string): CompiledQuery {
+  const q = new QueryBuilder(ctx.dialect);
+  const d = localDateExpr(q, ctx);
+  const bound = ctx.dialect.timeParam(q.bind(day), 'date');
+  const n = (e: string) => ctx.dialect.toDouble(e);
+  return q.finish(`SELECT ${n(`COUNT(*) FILTER (WHERE ${d} > ${bound})`)} AS rows_after,
+  MIN(${d}) FILTER (WHERE ${d} > ${bound}) AS first_after,
+  MAX(${d}) FILTER (WHERE ${d} > ${bound}) AS last_after,
+  MAX(${d}) FILTER (WHERE ${d} <= ${bound}) AS last_up_to
+FROM ${tableRef(q, ctx)}`);
+}
+
+/**
+ * The coverage as of `day`: when rows are dated after it, the data ends on its last date up to
+ * `day`, and those rows are counted and dated in `afterToday`. Unchanged otherwise.
+ */
+export async function coverageAsOf(coverage: Coverage, day: string, source: DataSource, ctx: CompileContext, options: RunOptions): Promise<Coverage> {
+  const { afterToday: _, ...plain } = coverage;
+  if (plain.lastDate === null || plain.lastDate <= day) return plain;
+  const r = (await source.run(compileDatesAfter(ctx, day), options)).rows[0] ?? {};
+  const rows = Number(r.rows_after ?? 0);
+  if (rows === 0 || typeof r.first_after !== 'string' || typeof r.last_after !== 'string') return plain;
+  const lastUpTo = typeof r.last_up_to === 'string' ? r.last_up_to : null;
+  return {
+    ...plain,
+    firstDate: lastUpTo === null ? null : plain.firstDate,
+    lastDate: lastUpTo,
+    rows: plain.rows - rows,
+    afterToday: { day, rows, firstDate: r.first_after, lastDate: r.last_after },
+  };
+}
+
 
 /**
  * Rows counted per local day first (an engine that sends work to where the data is, such as a

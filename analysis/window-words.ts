@@ -1,6 +1,6 @@
 // A window said back in plain words: "1 June to 18 June 2025 (the data ends there)", so the
 // requester can see how a period phrase was read.
-import { type Coverage, dataEnd } from './coverage.js';
+import { type Coverage, type DatesAfter, dataEnd } from './coverage.js';
 import { formatPeriod } from './format.js';
 import { finestGrain } from './grains.js';
 import { addDays, periodStart } from './periods.js';
@@ -83,4 +83,14 @@ export function dataDateWords(lastDate: string, stamps: StampGranularity | undef
   const coveredTo = addDays(end, -1);
   const unit = grain === 'day' || grain === 'week' ? 'day' : windowWordsGrain({ start: periodStart(coveredTo, grain), end }, stamps);
   return unit === 'day' ? formatPeriod(lastDate, 'day', locale) : formatPeriod(coveredTo, unit, locale);
+}
+
+/**
+ * Rows dated after the run's day, said once: "16 rows dated after 5 December 2026 (12 August
+ * 2027 to 31 December 2046) are left out: a date in the future is likely a mistake in the data."
+ */
+export function datesAfterWords(after: DatesAfter, locale = 'en-GB'): string {
+  const span = after.firstDate === after.lastDate ? format(after.firstDate, locale, true) : `${format(after.firstDate, locale, true)} to ${format(after.lastDate, locale, true)}`;
+  const rows = after.rows === 1 ? '1 row' : `${after.rows.toLocaleString('en')} rows`;
+  return `${rows} dated after ${format(after.day, locale, true)} (${span}) ${after.rows === 1 ? 'is' : 'are'} left out: a date in the future is likely a mistake in the data.`;
 }

@@ -22,7 +22,8 @@ export interface Workspace {
   values: ValueIndex;
 }
 
-export async function openWorkspace(config: LoadedConfig, datasetName?: string, secrets: Secrets = {}): Promise<Workspace> {
+/** Opens a dataset; `now` is the run's clock, after whose day rows are left out (coverage.ts coverageAsOf). */
+export async function openWorkspace(config: LoadedConfig, datasetName?: string, secrets: Secrets = {}, now: Date = new Date()): Promise<Workspace> {
   const dataset = datasetName ? config.datasets.find((d) => d.name === datasetName) : config.datasets[0];
   if (!dataset) throw new SourceError('missing_table', `the config has no dataset named ${datasetName}`);
   const source = await openSource(config, dataset, secrets);
@@ -31,7 +32,7 @@ export async function openWorkspace(config: LoadedConfig, datasetName?: string, 
     const timeColumnType = computedTimeColumn(dataset) ? 'date' : timeColumnTypeIn(dataset, columns);
     const context: CompileContext = { dataset, dialect: source.dialect, timeColumnType };
     const runOptions: RunOptions = { maxRows: config.engine.max_result_rows, timeoutMs: config.engine.statement_timeout_ms };
-    const coverage = await keptCoverage({ config, dataset, source, context, runOptions });
+    const coverage = await keptCoverage({ config, dataset, source, context, runOptions }, now);
     const opened: Workspace = { config, dataset, source, context, coverage, runOptions, values: new Map() };
     opened.values = await loadValueIndex(opened);
     return opened;
@@ -75,8 +76,8 @@ export async function openSource(config: LoadedConfig, dataset: DatasetConfig, s
 }
 
 /** Re-reads what the data covers and the values it holds (for "rerun with fresh data"); kept per version of the data, so unchanged data is not read again. */
-export async function refreshCoverage(ws: Workspace): Promise<void> {
-  ws.coverage = await keptCoverage(ws);
+export async function refreshCoverage(ws: Workspace, now: Date = new Date()): Promise<void> {
+  ws.coverage = await keptCoverage(ws, now);
   ws.values = await loadValueIndex(ws);
 }
 

@@ -106,7 +106,7 @@ export class Conversation {
     const schedule = { ...state.schedule, nextDue: nextDueAfter(state.schedule.cron, state.schedule.timeZone, now).toISOString() };
     state.schedule = schedule;
     try {
-      await refreshCoverage(this.deps.datasets.of(state));
+      await refreshCoverage(this.deps.datasets.of(state), now);
     } catch (err) {
       step.say('note', replies.rerunFailed(err));
       await step.commit(state);
@@ -198,7 +198,7 @@ export class Conversation {
         }
         // The data may still be down or changed: say so in the thread and keep the plan for later.
         try {
-          await refreshCoverage(this.deps.datasets.of(state));
+          await refreshCoverage(this.deps.datasets.of(state), this.deps.now());
         } catch (err) {
           step.say('note', replies.rerunFailed(err));
           return state;

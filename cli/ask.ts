@@ -39,7 +39,7 @@ export async function ask(opts: AskOptions): Promise<AskResult> {
   const channel = opts.channel ?? 'local';
   // Only the datasets this channel may use are opened; with none, the bot says so and nothing runs.
   const names = allowedDatasets(config.access, config.datasets.map((d) => d.name), channel);
-  const workspaces = await timePhase(opts.phases, 'open', () => openWorkspaces(config, readSecrets(config), names.length > 0 ? names : [config.datasets[0]!.name]));
+  const workspaces = await timePhase(opts.phases, 'open', () => openWorkspaces(config, readSecrets(config), names.length > 0 ? names : [config.datasets[0]!.name], opts.now ?? new Date()));
   try {
     const threadId = 'cli-thread';
     const thread = new FileThread(opts.outDir, threadId);

@@ -26,7 +26,7 @@ export async function readBrief(opts: ReadOptions): Promise<BriefJson> {
     throw new ReadUsageError(`the config has no dataset "${opts.dataset}" (it has: ${config.datasets.map((d) => d.name).join(', ')})`);
   }
   if (names.length === 0) throw new ReadUsageError('no dataset may be used from this channel (see the config\'s access rules); pass --dataset NAME');
-  const workspaces = await openWorkspaces(config, readSecrets(config), names);
+  const workspaces = await openWorkspaces(config, readSecrets(config), names, opts.now ?? new Date());
   try {
     const choice = chooseDataset(opts.text, [...workspaces.values()].map((w) => w.dataset), (ds) => workspaces.get(ds.name)?.values);
     const chosen = choice.kind === 'chosen' ? choice.dataset : choice.ranked[0]!;

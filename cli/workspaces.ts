@@ -4,10 +4,10 @@ import type { LoadedConfig } from '../config/load.js';
 import type { Secrets } from '../config/environment.js';
 import { openWorkspace, type Workspace } from '../analysis/workspace.js';
 
-export async function openWorkspaces(config: LoadedConfig, secrets: Secrets, names: readonly string[] = config.datasets.map((d) => d.name)): Promise<Map<string, Workspace>> {
+export async function openWorkspaces(config: LoadedConfig, secrets: Secrets, names: readonly string[] = config.datasets.map((d) => d.name), now: Date = new Date()): Promise<Map<string, Workspace>> {
   const opened = new Map<string, Workspace>();
   try {
-    for (const name of names) opened.set(name, await openWorkspace(config, name, secrets));
+    for (const name of names) opened.set(name, await openWorkspace(config, name, secrets, now));
   } catch (err) {
     await closeWorkspaces(opened);
     throw err;

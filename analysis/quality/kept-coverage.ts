@@ -1,14 +1,28 @@
 // The dataset's coverage (first and last day, rows), kept per version of the data like the
 // quality report (quality-cache.ts), so opening a dataset whose data has not changed reads no rows.
 import type { CompileContext } from '../compile-context.js';
-import { compileCoverage, type Coverage, readDataCoverage } from '../coverage.js';
+import { compileCoverage, type Coverage, coverageAsOf, readDataCoverage } from '../coverage.js';
 import type { Workspace } from '../workspace.js';
 import { dataVersion } from './data-version.js';
 import { coverageCacheFile, entryKey, readCoverageEntry, writeEntry } from './quality-cache.js';
 
 export type CoverageSource = Pick<Workspace, 'config' | 'dataset' | 'source' | 'runOptions'> & { context: CompileContext };
 
-export async function keptCoverage(ws: CoverageSource): Promise<Coverage> {
+/**
+ * The coverage as of the run's day (`now` in the dataset's time zone): rows dated after it are
+ * left out and counted (coverage.ts coverageAsOf). The whole data's coverage is what is kept.
+ */
+export async function keptCoverage(ws: CoverageSource, now: Date = new Date()): Promise<Coverage> {
+  const whole = await wholeCoverage(ws);
+  return coverageAsOf(whole, dayIn(now, ws.dataset.timezone), ws.source, ws.context, ws.runOptions);
+}
+
+/** The calendar day `now` falls on in a time zone, as an ISO date. */
+function dayIn(now: Date, timeZone: string): string {
+  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(now);
+}
+
+async function wholeCoverage(ws: CoverageSource): Promise<Coverage> {
   const read = () => readDataCoverage(ws.source, ws.context, ws.runOptions);
   const version = await dataVersion(ws).catch(() => null);
   if (version === null) return read();

@@ -9,6 +9,7 @@ import type { DatasetConfig, Dimension, Metric } from '../../config/schema.js';
 import { metricKind } from '../catalog.js';
 import { datasetRelation } from '../compile-context.js';
 import type { StampGranularity } from '../stamps.js';
+import { datesAfterWords } from '../window-words.js';
 import { metricAggregate } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { ResultColumn } from '../types.js';
@@ -227,6 +228,7 @@ async function readFacts(
   for (const [i, m] of ds.metrics.entries()) await checkPercentScale(ws, m, (message) => note(['metrics', i, 'unit'], message));
   const coverage = ws.coverage;
   if (coverage.firstDate === null) problem(['time_column'], `the time column ${ds.time_column} has no dates (every row is empty there, or the table is empty)`);
+  if (coverage.afterToday) note(['time_column'], datesAfterWords(coverage.afterToday));
   const dimensions: DimensionFacts[] = [];
   for (const [i, d] of ds.dimensions.entries()) {
     const q = new QueryBuilder(ws.source.dialect);

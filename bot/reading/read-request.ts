@@ -2,7 +2,7 @@
 // it covers, the values of its breakdowns) in; a brief out, every slot with the words it came
 // from. The bot's conversation, `threadcount ask` and `threadcount read` all read through here.
 import { type Coverage, dataEnd } from '../../analysis/coverage.js';
-import { describeWindow } from '../../analysis/window-words.js';
+import { datesAfterWords, describeWindow } from '../../analysis/window-words.js';
 import { addDays } from '../../analysis/periods.js';
 import type { DateWindow, Grain, RankOrder, RequestKind, SegmentFilter } from '../../analysis/types.js';
 import type { ValueIndex } from '../../analysis/values/value-index.js';
@@ -208,6 +208,8 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   }
   if (pastDeadline) brief.pastDeadline = pastDeadline;
   const notes = periodNotes(periods, facts, anchor.dataEnd);
+  // Rows dated after today are left out of every answer: said on the card, where the period is agreed.
+  if (facts.coverage.afterToday) notes.push(datesAfterWords(facts.coverage.afterToday));
   for (const r of roleHits) if (r.saidBack && questions.some((q) => q.metrics.includes(r.metrics[0]!))) notes.push(r.saidBack);
   const stale = staleRelativePeriods(fullText, periods, facts, { ...periodCtx, anchor: today }, today, catalog);
   // A relative period said back from today replaces its reading from the data's end ("this year is after it").
