@@ -112,7 +112,7 @@ const ID_VALUE = /^([0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}
 // Readings averaged over time rather than added up (a level, not a flow).
 const LEVEL_WORDS = /(^|_)(temp|temperature|level|balance|concentration|co2|ppm|price|index|rate|ratio|pct|percent|share|avg|mean|average|headcount|stock|inventory|population|pressure|humidity|speed|wind|latitude|longitude|lat|lon|lng|score|age|height|weight)($|_|\d)/;
 // Amounts that add up over time whatever the data's shape (a flow).
-const FLOW_WORDS = /(^|_)(revenue|sales|amount|spend|spent|cost|costs|paid|income|sold|orders|bookings|visits|trips|births|deaths|arrivals|departures|volume|quantity|qty|units|takings|fares|tickets|calls|clicks|views|downloads)($|_|\d)/;
+const FLOW_WORDS = /(^|_)(revenue|sales|amount|spend|spent|cost|costs|paid|income|sold|orders|bookings|visits|trips|births|deaths|arrivals|departures|volume|quantity|qty|units|takings|fares|tickets|calls|clicks|views|downloads|generation|generated|production|produced|output|consumption|consumed|usage|emissions|shipments|shipped|deliveries|delivered|purchases|transactions|passengers|mwh|kwh|gwh|tons|tonnes|barrels)($|_|\d)/;
 // Money: a sum (or, for a price, an average) with unit currency. The currency comes from a mark or
 // code in a column's name ("Cost Total $"), the same for the table's other money columns.
 const MONEY_WORDS = /(^|_)(revenue|revenues|sales|amount|amounts|spend|spent|cost|costs|paid|income|price|prices|fare|fares|fee|fees|takings|profit|profits|budget|gross|salary|salaries|wage|wages|payment|payments|receipts|disbursements|refund|refunds|cash|loan|loans|debt|debts|contributions|donations|usd|eur|gbp|dollars|euros)($|_|\d)/;

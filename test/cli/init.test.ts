@@ -40,6 +40,22 @@ describe('threadcount init', () => {
   });
 });
 
+describe('threadcount init on one row per source per year', () => {
+  it('drafts an amount made in a period (net generation) as a sum, though each date has one row per source', async () => {
+    // vega-datasets' iowa-electricity.csv: U.S. EIA net generation in Iowa by source (fossil fuels,
+    // nuclear, renewables), 2001–2017. Generation is energy made in the year: the year's total is the
+    // sum over its sources (2017: 56,476, computed here from the file), not their mean.
+    const csv = join(dirname(dirname(createRequire(import.meta.url).resolve('vega-datasets'))), 'data', 'iowa-electricity.csv');
+    const file = join(mkdtempSync(join(tmpdir(), 'tc-init-')), 'iowa.yaml');
+    const r = await run(['init', '--source', csv, '--out', file]);
+    expect(r.code).toBe(0);
+    const ds = (parse(readFileSync(file, 'utf8')) as { datasets: Record<string, unknown>[] }).datasets[0]!;
+    expect((ds.metrics as Record<string, unknown>[]).find((m) => m.name === 'net_generation')).toMatchObject({ sum: 'net_generation', kind: 'flow' });
+    const total2017 = readFileSync(csv, 'utf8').trim().split('\n').slice(1).filter((l) => l.startsWith('2017')).reduce((a, l) => a + Number(l.split(',')[2]), 0);
+    expect(total2017).toBe(56476);
+  });
+});
+
 // The SSA file has one row per day from 1 January 2000 to 31 December 2014: 5,479 days.
 const BIRTH_DAYS = /5,479 rows, 2000-01-01 to 2014-12-31, stamped daily/;
 
