@@ -8,6 +8,7 @@ import type { DatasetConfig } from '../config/schema.js';
 import type { Brief } from './brief.js';
 import type { BriefDefaults } from './card.js';
 import { recommendedGrain } from './prompts.js';
+import { rankMetrics } from './reading/metric-ranking.js';
 
 export function briefDefaults(brief: Brief, ds: DatasetConfig, coverage: Coverage): BriefDefaults {
   const grain = recommendedGrain(coverage);
@@ -20,17 +21,19 @@ export function briefDefaults(brief: Brief, ds: DatasetConfig, coverage: Coverag
   if (brief.grain && isFinerGrain(brief.grain, finest)) {
     out.grainCapped = { asked: brief.grain, value: finest, reason: `you asked for ${grainAdjective(brief.grain)} figures, but the data is stamped ${coverage.stamps}, so ${grainAdjective(finest)} is the finest there is` };
   }
-  // A question with no measure of its own ("did this summer beat last summer") takes the
-  // dataset's headline measure (the catalog's first), said on the card as assumed.
-  const headline = ds.metrics[0]?.name;
+  // A question with no measure of its own ("did this summer beat last summer") takes the measure
+  // the metric prompt would recommend (never the row count unless things are counted), said on the card as assumed.
+  const headline = ds.metrics.length > 0 ? rankMetrics(ds, brief.requestText)[0] : undefined;
   if (headline && brief.questions.some((q) => q.metrics.length === 0 && !q.frequency)) {
-    out.metric = { value: headline, reason: 'the headline measure of this dataset' };
+    out.metric = { value: headline.name, reason: headline.reason === 'the headline metric of this dataset' ? 'the headline measure of this dataset' : headline.reason };
   }
   // A change is explained by a breakdown; without one asked, the catalog's first that the
   // questions' filters leave more than one value of.
   const open = brief.questions.filter((q) => q.kind === 'growth' && q.dimensions.length === 0 && !q.contrast);
   const first = firstBreakdownDimension(ds, open.flatMap((q) => q.filters));
-  if (first && !brief.dimensionsAsked && open.length > 0) {
+  // Never in place of a breakdown the request named that the catalog lacks ("by studio"): that is asked (bot/prompts.ts).
+  const unplaced = brief.unknownTerms.some((u) => u.role === 'dimension');
+  if (first && !brief.dimensionsAsked && open.length > 0 && !unplaced) {
     out.breakdown = { value: first, reason: 'a change is easier to act on with what drove it; the first breakdown in the catalog' };
   }
   return out;

@@ -7,13 +7,14 @@ import { shortWindow } from '../analysis/window-words.js';
 import { addDays, addMonths, periodStart } from '../analysis/periods.js';
 import { finestGrain, isFinerGrain } from '../analysis/grains.js';
 import { GRAINS, type DateWindow, type Grain, type SegmentFilter } from '../analysis/types.js';
-import { type Brief, type BriefSlot, type Question, wholeRequestQuestion } from './brief.js';
+import { type Brief, type BriefSlot, type Question, type UnknownTerm, wholeRequestQuestion } from './brief.js';
+import { distance } from 'fastest-levenshtein';
 import { fullWindow, readDeadlineAnswer, readWindowAnswer } from './reading/answers.js';
 import { saysAsap } from './reading/deadline.js';
 import { ACCEPT_DEFAULT, AUDIENCE_LABELS, audienceNamedBy, GRAIN_WORDS, grainNamedBy } from './reading/lexicon.js';
-import { type DatasetFacts, readRequest } from './reading/read-request.js';
+import { type DatasetFacts, readRequest, rowCountMetric } from './reading/read-request.js';
 import { phraseWords } from './reading/text.js';
-import { stem } from './reading/catalog-match.js';
+import { COUNTING, rankMetrics } from './reading/metric-ranking.js';
 
 export { fullWindow } from './reading/answers.js';
 
@@ -53,8 +54,41 @@ export function nextPrompt(brief: Brief, ctx: PromptContext): Prompt | null {
   if (brief.unknownTerms.some((u) => u.role === 'metric') || noMeasure) return metricsPrompt(brief, ctx);
   if ((brief.ambiguousValues ?? []).length > 0) return valuesPrompt(brief, ctx);
   if ((brief.toAsk ?? []).includes('window')) return windowPrompt(brief, ctx);
+  if (unplacedBreakdown(brief)) return dimensionsPrompt(brief, ctx);
   return null;
 }
+
+/**
+ * A breakdown word the catalog does not have ("by studio"), in a request whose change would
+ * otherwise be explained by the catalog's first breakdown: asked, never put in its place.
+ */
+export function unplacedBreakdown(brief: Brief): UnknownTerm | undefined {
+  if (brief.dimensionsAsked) return undefined;
+  const open = brief.questions.some((q) => q.kind === 'growth' && q.dimensions.length === 0 && !q.contrast);
+  return open ? brief.unknownTerms.find((u) => u.role === 'dimension') : undefined;
+}
+
+function dimensionsPrompt(brief: Brief, ctx: PromptContext): Prompt {
+  const term = unplacedBreakdown(brief)!;
+  const dims = ctx.dataset.dimensions.filter((d) => !d.personal_data);
+  const options: PromptOption[] = [...dims.map((d) => ({ value: d.name, label: d.label })), NO_BREAKDOWN];
+  // The closest is recommended only when it is the word asked, mistyped ("genra" for Genre); a
+  // breakdown merely near in spelling answers another question.
+  const asked = phraseWords(term.text);
+  const kin = term.closest.map((name) => dims.find((d) => d.name === name)).find((d) => d && [d.name.replaceAll('_', ' '), d.label, ...d.synonyms].flatMap((n) => phraseWords(n)).some((w) => asked.some((a) => a.length >= 4 && w.length >= 4 && distance(a, w) <= 1)));
+  const near = term.closest.map((name) => dims.find((d) => d.name === name)?.label).filter((l): l is string => !!l);
+  return {
+    topic: 'dimensions',
+    question: `I found no breakdown called "${term.text}" in ${ctx.dataset.label}${near.length > 0 ? `; the closest I have: ${near.join(', ')}` : ''}. Which should explain the change?`,
+    options,
+    recommended: kin
+      ? { value: kin.name, label: kin.label, reason: `closest match to "${term.text}"` }
+      : { ...NO_BREAKDOWN, reason: `nothing in ${ctx.dataset.label} is a breakdown by "${term.text}"` },
+    many: true,
+  };
+}
+
+const NO_BREAKDOWN: PromptOption = { value: 'none', label: 'No breakdown' };
 
 /**
  * A period named outside the data ("sales in 2031"): the data's range said, and periods inside it
@@ -186,42 +220,48 @@ function metricsPrompt(brief: Brief, ctx: PromptContext): Prompt {
   const label = (name: string) => ds.metrics.find((m) => m.name === name)?.label ?? name;
   const options = ds.metrics.map((m) => ({ value: m.name, label: m.label }));
   if (unknown?.several) {
-    // A bare "volume" the data could count several ways: those ways first, none taken unasked.
-    const ways = unknown.closest.map((name) => ({ value: name, label: label(name) }));
-    const what = ways.map((w) => w.label.toLowerCase());
+    // A word the data could measure several ways (a bare "volume", "gross" of US and Worldwide
+    // Gross): those ways first, none taken unasked; the request's other words recommend one.
+    const counts = unknown.closest.every((name) => { const m = ds.metrics.find((x) => x.name === name); return m?.definition.type === 'count' || (m?.definition.type === 'sum' && m.unit === 'count'); });
+    // Counts keep the catalog's order (the first count recommended); measures go by the ranking.
+    const ranked = counts ? unknown.closest.map((name) => ({ name, reason: '' })) : rankMetrics(ds, brief.requestText, unknown.text, unknown.closest);
+    const ways = ranked.map((r) => ({ value: r.name, label: label(r.name) }));
+    const what = ways.map((w) => (counts ? w.label.toLowerCase() : w.label));
     return {
       topic: 'metrics',
-      question: `"${unknown.text}" could be counted as ${what.slice(0, -1).join(', ')} or ${what[what.length - 1]} in ${ds.label}. Which did you mean?`,
+      question: `"${unknown.text}" could be ${counts ? 'counted' : 'measured'} as ${what.slice(0, -1).join(', ')} or ${what[what.length - 1]} in ${ds.label}. Which did you mean?`,
       options: [...ways, ...options.filter((o) => !unknown.closest.includes(o.value))],
-      recommended: { ...ways[0]!, reason: 'the first count of this dataset' },
+      recommended: { ...ways[0]!, reason: ranked[0]!.reason.startsWith('closest match') ? ranked[0]!.reason.replace(/^closest match to "[^"]*", and /, '') : counts ? 'the first count of this dataset' : 'the first of them in the catalog' },
       many: true,
     };
   }
   if (unknown) {
-    // A nearest metric is recommended only when it shares a word with what was asked ("net
-    // revenue" -> Revenue); otherwise nothing in the data stands in for it.
-    const asked = new Set(phraseWords(unknown.text).map(stem));
-    const kin = unknown.closest.find((name) => { const m = ds.metrics.find((x) => x.name === name); return !!m && [m.name, m.label, ...m.synonyms].some((n) => phraseWords(n).map(stem).some((w) => asked.has(w))); });
-    const nearest = unknown.closest.length > 0 ? ` The closest I can measure: ${unknown.closest.map(label).join(', ')}.` : '';
+    // A measure is recommended only when it answers the words asked: it shares a word with them
+    // ("generation" -> Net generation), or money words ask for an amount ("money" -> a gross);
+    // otherwise nothing in the data stands in for it.
+    const ranked = rankMetrics(ds, brief.requestText, unknown.text);
+    const fit = ranked.find((r) => r.fits);
+    const closest = ranked.filter((r) => r.fits).concat(ranked.filter((r) => !r.fits)).slice(0, 3).map((r) => r.name);
+    const nearest = closest.length > 0 ? ` The closest I can measure: ${closest.map(label).join(', ')}.` : '';
     return {
       topic: 'metrics',
       question: `I don't have a metric called "${unknown.text}": nothing in ${ds.label} measures it.${nearest} Choose one only if it answers your question instead, or stop here.`,
       options,
-      recommended: kin
-        ? { value: kin, label: label(kin), reason: `closest match to "${unknown.text}"` }
+      recommended: fit
+        ? { value: fit.name, label: label(fit.name), reason: fit.reason }
         : questionsWithoutMetric(brief).length === 0 && brief.questions.length > 0
           ? { ...LEAVE_OUT, reason: `the data has no measure of "${unknown.text}"; the rest of the request can be answered without it` }
           : { ...STOP_HERE, reason: `the data has no measure of "${unknown.text}", and none of these is one` },
       many: true,
     };
   }
-  const suggested = ds.metrics[0]!.name;
+  const first = rankMetrics(ds, brief.requestText)[0]!;
   const missing = questionsWithoutMetric(brief)[0];
   return {
     topic: 'metrics',
     question: missing ? `Which metric should I use for "${clip(missing.text)}"?` : 'Which metric should I look at?',
     options,
-    recommended: { value: suggested, label: label(suggested), reason: 'the headline metric of this dataset' },
+    recommended: { value: first.name, label: label(first.name), reason: first.reason },
     many: true,
   };
 }
@@ -280,11 +320,20 @@ function readAnswerInto(prompt: Prompt, text: string, brief: Brief, ctx: PromptC
       if (found.length === 0) {
         return { ok: false, message: `I couldn't match "${clip(typed)}" to a metric. I can measure: ${ctx.dataset.metrics.map((m) => m.label).join(', ')}.` };
       }
+      // The answer wins over words read before it: the question that holds the word asked about
+      // takes the measure chosen, and a row count read from its noun ("films") goes unless it counts.
+      const asked = brief.unknownTerms.find((u) => u.role === 'metric')?.text.toLowerCase();
+      const rows = rowCountMetric(ctx.dataset)?.name;
       const questions: Question[] = brief.questions.length > 0
-        ? brief.questions.map((q) => (q.metrics.length === 0 && !q.frequency ? { ...q, metrics: found } : q))
+        ? brief.questions.map((q) => {
+          if (q.metrics.length === 0 && !q.frequency) return { ...q, metrics: found };
+          if (!asked || !q.text.toLowerCase().includes(asked)) return q;
+          const kept = q.metrics.filter((m) => m !== rows || COUNTING.test(q.text));
+          return { ...q, metrics: [...new Set([...found, ...kept])] };
+        })
         : [wholeRequestQuestion(brief, found)];
       const unknownTerms = brief.unknownTerms.filter((u) => u.role !== 'metric');
-      return { ok: true, brief: { ...brief, questions, metrics: [...new Set([...brief.metrics, ...found])], unknownTerms, toAsk: (brief.toAsk ?? []).filter((t) => t !== 'metrics') } };
+      return { ok: true, brief: { ...brief, questions, metrics: [...new Set(questions.flatMap((q) => q.metrics))], unknownTerms, toAsk: (brief.toAsk ?? []).filter((t) => t !== 'metrics') } };
     }
     case 'audience': {
       const a = audienceNamedBy(typed);

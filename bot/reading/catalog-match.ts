@@ -19,7 +19,7 @@ export interface CatalogEntry {
   /** For a value: the value as the data holds it. */
   value?: string;
   phrase: string;
-  /** Part of a value's name ("Saltreach" for "Mainland–Saltreach"): several values may share it. */
+  /** Part of a value's name ("Saltreach" for "Mainland–Saltreach"), or of a metric's or breakdown's label ("generation" of "Net generation"): several may share it. */
   partial?: boolean;
   /** A value that is also an everyday word ("foot", "high"): taken only with a cue beside it. */
   weak?: boolean;
@@ -160,6 +160,61 @@ function catalogEntries(ds: DatasetConfig, values?: ValueIndex): CatalogEntry[] 
       if (owners.length === index.values.length && owners.length > 1) continue;
       for (const owner of owners) add('value', d.name, [part], { value: owner, partial: true, weak: isWeakPhrase(part) });
     }
+  }
+  out.push(...labelParts(ds, out));
+  return out;
+}
+
+// Words of a label too general to stand for it alone ("Major Genre" is not found by "major").
+// Words of analysis that end many labels ("Refund rate", "Running time"): never a label's part alone.
+const ANALYSIS_WORDS = new Set(['rate', 'share', 'time', 'ratio', 'mix', 'growth', 'change', 'trend', 'level', 'number', 'total', 'sum', 'percent', 'percentage', 'day', 'week', 'month', 'quarter', 'year', 'period', 'date']);
+const GENERAL_LABEL_WORDS = new Set(['total', 'average', 'avg', 'mean', 'median', 'amount', 'number', 'count', 'type', 'types', 'kind', 'major', 'minor', 'main', 'level', 'value', 'score', 'min', 'max', 'net', 'code', 'name', 'group', 'class', 'category']);
+
+/**
+ * Words and shorter runs of words of a multi-word metric or breakdown label ("generation" of "Net
+ * generation", "genre" of "Major Genre", "gross" of "US Gross" and "Worldwide Gross"), as partial
+ * entries: taken only where no whole name, label, other name or value has those words, and only
+ * when every owner is of one kind (a word shared by a metric and a breakdown, "rating" of "IMDB
+ * Rating" and "MPAA Rating", tells nothing). A part shared by several metrics stays with all of
+ * them, to be asked. Other names are the catalog author's own words and are not cut up.
+ */
+function labelParts(ds: DatasetConfig, whole: readonly CatalogEntry[]): CatalogEntry[] {
+  const taken = new Set(whole.map((e) => phraseWords(e.phrase).map(stem).join(' ')));
+  const owners = new Map<string, { kind: EntryKind; name: string; phrase: string }[]>();
+  // The value a rate counts ("urgent" of "Urgent share") is the data's value first, not the rate's name.
+  const filterWords = new Set(ds.metrics.flatMap((m) => ('where' in m.definition && m.definition.where ? [m.definition.where.value].flat() : [])).flatMap((v) => phraseWords(String(v ?? ''))).map(stem));
+  const own = (kind: EntryKind, name: string, names: readonly string[]) => {
+    for (const n of names) {
+      const words = phraseWords(n);
+      if (words.length < 2) continue;
+      // Single words only: a run of several ("share of revenue" of "Share of revenue refunded")
+      // would outrun a whole name it contains ("revenue"), the longest phrase winning.
+      for (let len = 1; len < 2; len++) {
+        for (let i = 0; i + len <= words.length; i++) {
+          const part = words.slice(i, i + len);
+          // The label's head noun (its last word: "Budget" of "Production Budget", "Sales" of "US
+          // DVD Sales") names it even when it is an everyday word of requests, unless it is a word of analysis.
+          const head = (w: string, k: number) => i + k === words.length - 1 && !ANALYSIS_WORDS.has(stem(w));
+          const distinctive = part.filter((w, k) => w.length >= 3 && !STOPWORDS.has(w) && !GENERAL_LABEL_WORDS.has(w) && !/^\d+$/.test(w) && (head(w, k) || (!ORDINARY.has(w) && !ORDINARY.has(stem(w)) && !EVERYDAY.has(w))));
+          if (distinctive.length === 0 || (len === 1 && distinctive.length !== 1)) continue;
+          const phrase = part.join(' ');
+          const key = part.map(stem).join(' ');
+          if (taken.has(key) || filterWords.has(key)) continue;
+          const list = owners.get(key) ?? [];
+          if (!list.some((o) => o.kind === kind && o.name === name)) list.push({ kind, name, phrase });
+          owners.set(key, list);
+        }
+      }
+    }
+  };
+  // Only for entries with no other names: an author who wrote them has said which words name it
+  // ("first response" for one metric, not "response" for every label holding it).
+  for (const m of ds.metrics) if (m.synonyms.length === 0) own('metric', m.name, [m.name.replaceAll('_', ' '), m.label]);
+  for (const d of ds.dimensions) if (!d.personal_data && d.synonyms.length === 0) own('dimension', d.name, [d.name.replaceAll('_', ' '), d.label]);
+  const out: CatalogEntry[] = [];
+  for (const list of owners.values()) {
+    if (new Set(list.map((o) => o.kind)).size > 1) continue;
+    for (const o of list) out.push({ kind: o.kind, name: o.name, phrase: o.phrase, partial: true });
   }
   return out;
 }

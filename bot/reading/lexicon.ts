@@ -224,7 +224,7 @@ export type MetricRole = 'amount' | 'count' | 'distinct' | 'average_amount';
 
 export const ROLE_WORDS: { role: MetricRole; pattern: RegExp }[] = [
   { role: 'average_amount', pattern: /\b(?:average|avg|mean|typical)\s+(?:price|spend|ticket|basket|order value|transaction value|sale|value|amount|fare|bill|cheque|check)\b|\b(?:aov|atv|basket size)\b/ },
-  { role: 'amount', pattern: /\b(?:money|takings|income|sales|turnover|revenues?|earnings|receipts|gross|top line|topline|cash|billings?|how much (?:did we|have we|do we) (?:make|made|earn|take|bring)|how much we (?:made|make|took|earned))\b/ },
+  { role: 'amount', pattern: /\b(?:money|takings|income|sales|turnover|revenues?|earnings|receipts|gross|box[- ]office|top line|topline|cash|billings?|how much (?:did we|have we|do we) (?:make|made|earn|take|bring)|how much we (?:made|make|took|earned))\b/ },
   { role: 'count', pattern: /\b(?:volume|volumes|how many|number of|no\.? of|count of|transactions|throughput|activity)\b/ },
   { role: 'distinct', pattern: /\b(?:unique|distinct|active)\s+(?:customers|users|clients|people|accounts|members)\b|\bhow many (?:customers|users|clients|people)\b/ },
 ];

@@ -39,6 +39,7 @@ import { isoDateIn } from './time-zone.js';
 import { overlaps, RequestText, type Span } from './text.js';
 import { findUnknownTerms } from './unknown-words.js';
 import { mendCalendarWords } from './spelling.js';
+import { COUNTING } from './metric-ranking.js';
 import { AUDIENCES, GRAINS, RANK_ORDERS } from '../../analysis/types.js';
 
 /** What the reader knows about a dataset's data. */
@@ -116,6 +117,10 @@ interface ReadState {
   roleHits: RoleHit[];
   grainSpans: Span[];
   evidence: Partial<Record<BriefSlot, Evidence>>;
+  /** A word of several metrics' labels ("gross" of US Gross and Worldwide Gross): asked, never guessed. */
+  sharedMetricHits: CatalogHit[];
+  /** Readings said back on the card. */
+  notes: string[];
 }
 
 export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOptions): Brief {
@@ -157,7 +162,7 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   // "per decade": the unit a rate of change is stated in, not a term of the data.
   for (const m of text.matches(/(?<![\p{L}])(?:per|a|each)\s+decade(?![\p{L}])/gu)) text.claim(m.span);
 
-  const state: ReadState = { text, ds, catalog, anchor: anchor.today, dataEnd: anchor.dataEnd, periods, hits, roleHits, grainSpans: grain?.spans ?? [], evidence };
+  const state: ReadState = { text, ds, catalog, anchor: anchor.today, dataEnd: anchor.dataEnd, periods, hits, roleHits, grainSpans: grain?.spans ?? [], evidence, sharedMetricHits: [], notes: [] };
   const { questions, ambiguous } = readQuestions(state);
   const unknownTerms = findUnknownTerms(text, { catalog });
   // A bare "volume" that could be several counts of the data: asked, with those counts as the closest.
@@ -167,10 +172,21 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
     for (let i = unknownTerms.length - 1; i >= 0; i--) if (unknownTerms[i]!.text === words) unknownTerms.splice(i, 1);
     unknownTerms.push({ text: words, closest: volumeCandidates(ds), role: 'metric', several: true });
   }
+  // A word of several metrics' labels, in a question with no measure of its own: which one, asked.
+  for (const h of state.sharedMetricHits) {
+    const words = text.quote(h).toLowerCase();
+    if (!questions.some((q) => q.metrics.length === 0 && !q.frequency && q.text.toLowerCase().includes(words))) continue;
+    for (let i = unknownTerms.length - 1; i >= 0; i--) if (unknownTerms[i]!.text === words || unknownTerms[i]!.text.split(' ').includes(words)) unknownTerms.splice(i, 1);
+    const candidates = unique(h.entries.filter((e) => e.kind === 'metric').map((e) => e.name));
+    if (!unknownTerms.some((u) => u.role === 'metric' && u.several)) unknownTerms.push({ text: words, closest: candidates, role: 'metric', several: true });
+    // "in the US" beside "gross": a word of one of their labels tells them apart (bot/reading/metric-ranking.ts), it is no value the data lacks.
+    const labelWords = new Set(ds.metrics.filter((m) => candidates.includes(m.name)).flatMap((m) => m.label.toLowerCase().split(/[^\p{L}\p{N}]+/u)));
+    for (let i = unknownTerms.length - 1; i >= 0; i--) if (unknownTerms[i]!.role !== 'metric' && labelWords.has(unknownTerms[i]!.text)) unknownTerms.splice(i, 1);
+  }
   // A business word the catalog has no measure for ("revenue" on a support desk's data).
   for (const r of roleHits) {
     const words = text.quote(r.span).toLowerCase();
-    if (r.metrics.length === 0 && (r.role === 'amount' || r.role === 'average_amount' || r.qualified) && !/how much/.test(words) && !unknownTerms.some((u) => u.text === words || words.includes(u.text))) {
+    if (r.metrics.length === 0 && (r.role === 'amount' || r.role === 'average_amount' || r.qualified) && !/how much/.test(words) && !unknownTerms.some((u) => u.text === words || words.includes(u.text) || (u.several && r.role === 'amount'))) {
       for (let i = unknownTerms.length - 1; i >= 0; i--) if (words.includes(unknownTerms[i]!.text)) unknownTerms.splice(i, 1);
       unknownTerms.push({ text: words, closest: closestEntries(words, catalog, ['metric']), role: 'metric' });
     }
@@ -207,7 +223,7 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
     evidence.deadline = { words: deadline.words, how: 'stated' };
   }
   if (pastDeadline) brief.pastDeadline = pastDeadline;
-  const notes = periodNotes(periods, facts, anchor.dataEnd);
+  const notes = [...periodNotes(periods, facts, anchor.dataEnd), ...state.notes];
   // Rows dated after today are left out of every answer: said on the card, where the period is agreed.
   if (facts.coverage.afterToday) notes.push(datesAfterWords(facts.coverage.afterToday));
   for (const r of roleHits) if (r.saidBack && questions.some((q) => q.metrics.includes(r.metrics[0]!))) notes.push(r.saidBack);
@@ -640,7 +656,9 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
       continue;
     }
     if (kinds.has('metric')) {
-      metricHits.push(h);
+      const named = unique(h.entries.filter((e) => e.kind === 'metric').map((e) => e.name));
+      if (named.length > 1 && h.entries.every((e) => e.kind !== 'metric' || e.partial)) st.sharedMetricHits.push(h);
+      else metricHits.push(h);
       continue;
     }
     if (kinds.has('dimension')) {
@@ -656,8 +674,10 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
   // measure named is such a unit ("email tickets compare with phone tickets"), it is the measure.
   const unitNouns = metricHits.map((h) => metricHits.length > 1 && isUnitNoun(h, hits, st.text));
   const allUnits = unitNouns.every((u) => u);
+  const rowsUnit = rowsAsUnit(metricHits, hits, clause, st);
   for (const [i, h] of metricHits.entries()) {
     if (unitNouns[i] && !allUnits) continue;
+    if (rowsUnit.has(h)) continue;
     metrics.push(metricOf(h));
     metricWords.push(st.text.quote(h));
   }
@@ -745,6 +765,42 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
   // "per year and per decade" asks for both; the decade is the wider statement (it carries the year's rate too).
   if (rate && hasRateCue) reading.rateUnit = (rate[1] ?? rate[2]) === 'decade' || /\b(?:per|a|each)\s+decade\b/.test(t) ? 'decade' : 'year';
   return reading;
+}
+
+/**
+ * The row noun beside another measure ("gross per film", "R-rated vs PG-13 films: do they gross
+ * differently") is what is counted in, not a second measure: after "per"/"each" it asks for the
+ * measure per row, beside a value ("PG-13 films") it names the rows the measure is taken over.
+ * Kept where the clause counts ("how many films and their gross"). "per film" with no average
+ * of the measure in the catalog is said back: the totals are what can be measured.
+ */
+function rowsAsUnit(metricHits: CatalogHit[], hits: CatalogHit[], clause: Clause, st: ReadState): Set<CatalogHit> {
+  const out = new Set<CatalogHit>();
+  const rows = rowCountMetric(st.ds)?.name;
+  if (!rows) return out;
+  const inside = (s: Span) => s.start >= clause.start && s.end <= clause.end;
+  const shared = st.sharedMetricHits.filter(inside);
+  const others = metricHits.filter((h) => metricOf(h) !== rows);
+  if (others.length === 0 && shared.length === 0) return out;
+  if (COUNTING.test(clause.text)) return out;
+  for (const h of metricHits) {
+    if (metricOf(h) !== rows) continue;
+    const before = st.text.lower.slice(Math.max(0, h.start - 12), h.start);
+    const per = /\b(?:per|for\s+each|each|every|a|an)\s+$/.test(before);
+    if (!per && !isUnitNoun(h, hits, st.text) && shared.length === 0) continue;
+    const measured = others.map((o) => st.ds.metrics.find((m) => m.name === metricOf(o))!);
+    // "revenue per booking" the catalog has as a ratio or an average: composeRatios reads it.
+    const composed = (m: Metric) => st.ds.metrics.some((x) => (x.definition.type === 'ratio' && x.definition.numerator === m.name && x.definition.denominator === rows) || (m.definition.type === 'sum' && x.definition.type === 'average' && x.definition.column === m.definition.column && !x.definition.where));
+    if (per && measured.some(composed)) continue;
+    out.add(h);
+    if (!per) continue;
+    for (const m of measured) {
+      if (m.definition.type !== 'sum') continue;
+      const cue = h.start - (before.length - before.search(/\S+\s+$/));
+      st.notes.push(`"${st.text.quote({ start: cue, end: h.end })}": the catalog has no average of ${m.label} per row, so I measure its total; an average metric of the same column in the config would give the figure per row.`);
+    }
+  }
+  return out;
 }
 
 /** The metric a hit names; of several sharing a phrase once words are folded, the one written exactly so. */

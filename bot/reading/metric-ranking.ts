@@ -1,0 +1,94 @@
+// Which of a catalog's measures to offer first when a request's measure word is not one of its
+// names: one ranking for every metric prompt ("I don't have a metric called …", "Which metric?")
+// and for the measure the card assumes. A measure whose label shares a word with what was asked
+// comes first ("generation" for "Net generation"), then one that money words point to ("money",
+// "box office" for a gross), the request's other words deciding between them ("in the US" for US
+// Gross). A count of rows is a measure only of how many things there are: it comes first only when
+// the request counts ("how many", "number of") or when the catalog has no other measure.
+import type { DatasetConfig, Metric } from '../../config/schema.js';
+import { allowedEdits, stem } from './catalog-match.js';
+import { STOPWORDS } from './lexicon.js';
+import { phraseWords } from './text.js';
+import { distance } from 'fastest-levenshtein';
+
+export interface RankedMetric {
+  name: string;
+  /** The metric answers the words asked (a shared word, or money words for an amount). */
+  fits: boolean;
+  /** Why it is where it is, for the prompt's recommendation. */
+  reason: string;
+}
+
+/** Words that count things: the row count is their measure. */
+export const COUNTING = /\b(?:how\s+many|number\s+of|no\.?\s+of|count(?:s|ed|ing)?\s+(?:of\s+)?|counts?\b|tally)/i;
+// Money that comes in, and money that goes out: "money", "earn", "box office" ask for the first.
+const MONEY_ASKED = /\b(?:money|takings|income|sales|turnover|revenues?|earnings?|earn(?:s|ed|t)?|receipts|gross(?:ed|es)?|box[- ]office|top[- ]?line|cash|makes?\s+(?:more|less|the\s+most)?\s*money|made\s+(?:more|less)?\s*money)\b/i;
+const MONEY_IN_LABEL = /\b(?:gross|revenues?|sales|takings|income|earnings|turnover|receipts|box office)\b/i;
+const MONEY_OUT_LABEL = /\b(?:budget|costs?|spend|spending|expenses?|price|prices)\b/i;
+
+function isRowCount(m: Metric): boolean {
+  return m.definition.type === 'count' && !m.definition.where;
+}
+
+function labelWords(m: Metric): string[] {
+  return [...new Set([m.name.replaceAll('_', ' '), m.label, ...m.synonyms].flatMap((n) => phraseWords(n)))];
+}
+
+/** A word asked matches a word of the metric's names, plurals alike, forgiving a small typo. */
+function sharesWord(asked: readonly string[], m: Metric): boolean {
+  const own = labelWords(m).filter((w) => !STOPWORDS.has(w) && w.length > 2).map(stem);
+  return asked.some((a) => own.some((w) => w === a || (w.length >= 5 && a.length >= 5 && distance(w, a) <= allowedEdits(Math.min(w.length, a.length)))));
+}
+
+/**
+ * The metric's other label words the request holds ("US" beside "gross" for US Gross): a word that
+ * is also a function word ("us") counts only written in capitals.
+ */
+function evidenceIn(requestText: string, m: Metric, asked: readonly string[]): string[] {
+  const written = requestText.split(/[^\p{L}\p{N}]+/u).filter((w) => w.length > 0);
+  const out: string[] = [];
+  for (const w of labelWords(m)) {
+    if (asked.includes(stem(w)) || w.length < 2) continue;
+    const hit = written.find((x) => x.toLowerCase() === w && (!STOPWORDS.has(w) || /^\p{Lu}+$/u.test(x)));
+    if (hit) out.push(hit);
+  }
+  return out;
+}
+
+/**
+ * The catalog's metrics, best first, for a request and the words of its measure that were not
+ * matched (`asked`; none for a request that named no measure). `among` keeps to some metrics (the
+ * ones a shared word stands for).
+ */
+export function rankMetrics(ds: DatasetConfig, requestText: string, asked?: string, among?: readonly string[]): RankedMetric[] {
+  const pool = ds.metrics.filter((m) => !among || among.includes(m.name));
+  const askedWords = asked ? phraseWords(asked).filter((w) => !STOPWORDS.has(w)).map(stem) : [];
+  const counting = COUNTING.test(requestText);
+  const money = MONEY_ASKED.test(asked ?? requestText);
+  const real = pool.filter((m) => !isRowCount(m));
+  // The dataset's own name ("Iowa electricity") asked as a measure: its one measure, when it has one.
+  const ofDataset = askedWords.length > 0 && real.length === 1 && phraseWords(ds.label).map(stem).some((w) => askedWords.includes(w));
+  const scored = pool.map((m, order) => {
+    const byWord = askedWords.length > 0 && sharesWord(askedWords, m);
+    const moneyIn = money && !isRowCount(m) && (MONEY_IN_LABEL.test(labelWords(m).join(' ')) || (m.unit === 'currency' && m.definition.type === 'sum' && !MONEY_OUT_LABEL.test(labelWords(m).join(' '))));
+    const evidence = evidenceIn(requestText, m, askedWords);
+    const counts = isRowCount(m) && counting;
+    const fits = byWord || moneyIn || (ofDataset && !isRowCount(m)) || (counts && !asked);
+    // Higher first: words asked, then money words, then a count asked for, then any real measure.
+    const tier = byWord ? 4 : moneyIn ? 3 : ofDataset && !isRowCount(m) ? 3 : counts ? 2 : isRowCount(m) ? (real.length === 0 ? 1 : 0) : 1;
+    const said = asked ? `"${asked}"` : 'your request';
+    const reason = evidence.length > 0 && (byWord || moneyIn)
+      ? `closest match to ${said}, and your request says "${evidence.join(' ')}"`
+      : byWord ? `closest match to ${said}`
+      : moneyIn ? `${said} reads as money coming in, and ${m.label} is the first such measure`
+      : ofDataset && !isRowCount(m) ? `the one measure of ${ds.label}`
+      : counts ? 'your request counts things ("how many", "number of"), and this counts rows'
+      : isRowCount(m) ? 'the dataset has no other measure'
+      : real.length === 1 ? `the one measure of ${ds.label} besides the row count`
+      : order === 0 ? 'the headline metric of this dataset'
+      : 'the first measure in the catalog after the row count';
+    return { m, order, tier, evidence: evidence.length, fits, reason };
+  });
+  scored.sort((a, b) => b.tier - a.tier || (a.tier >= 3 ? b.evidence - a.evidence : 0) || a.order - b.order);
+  return scored.map((s) => ({ name: s.m.name, fits: s.fits, reason: s.reason }));
+}
