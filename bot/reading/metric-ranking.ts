@@ -77,7 +77,7 @@ export function rankMetrics(ds: DatasetConfig, requestText: string, asked?: stri
     // Higher first: words asked, then money words, then a count asked for, then any real measure.
     const tier = byWord ? 4 : moneyIn ? 3 : ofDataset && !isRowCount(m) ? 3 : counts ? 2 : isRowCount(m) ? (real.length === 0 ? 1 : 0) : 1;
     const said = asked ? `"${asked}"` : 'your request';
-    const reason = evidence.length > 0 && (byWord || moneyIn)
+    const reason = asked && evidence.length > 0 && (byWord || moneyIn)
       ? `closest match to ${said}, and your request says "${evidence.join(' ')}"`
       : byWord ? `closest match to ${said}`
       : moneyIn ? `${said} reads as money coming in, and ${m.label} is the first such measure`
@@ -89,6 +89,7 @@ export function rankMetrics(ds: DatasetConfig, requestText: string, asked?: stri
       : 'the first measure in the catalog after the row count';
     return { m, order, tier, evidence: evidence.length, fits, reason };
   });
-  scored.sort((a, b) => b.tier - a.tier || (a.tier >= 3 ? b.evidence - a.evidence : 0) || a.order - b.order);
+  // The request's other words decide only between measures that answer the words asked.
+  scored.sort((a, b) => b.tier - a.tier || (asked && a.tier >= 3 ? b.evidence - a.evidence : 0) || a.order - b.order);
   return scored.map((s) => ({ name: s.m.name, fits: s.fits, reason: s.reason }));
 }
