@@ -80,7 +80,7 @@ export function rankMetrics(ds: DatasetConfig, requestText: string, asked?: stri
     const reason = asked && evidence.length > 0 && (byWord || moneyIn)
       ? `closest match to ${said}, and your request says "${evidence.join(' ')}"`
       : byWord ? `closest match to ${said}`
-      : moneyIn ? `${said} reads as money coming in, and ${m.label} is the first such measure`
+      : moneyIn && asked ? `${said} reads as money coming in, and ${m.label} is the first such measure`
       : ofDataset && !isRowCount(m) ? `the one measure of ${ds.label}`
       : counts ? 'your request counts things ("how many", "number of"), and this counts rows'
       : isRowCount(m) ? 'the dataset has no other measure'
