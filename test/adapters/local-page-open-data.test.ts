@@ -6,13 +6,13 @@
 //   correction typed in words ("by source, only 2010 to 2017");
 // - that correction, understood, draws no complaint about a date.
 // The real server (cli/serve), the real bot and a real DuckDB.
-import { existsSync, mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { Locator, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { serve, type Serving } from '../../cli/serve.js';
-import { vegaDataFile } from '../helpers/open-data.js';
+import { writeIowaConfig } from '../helpers/open-data.js';
 
 const CHROMIUM = '/usr/bin/chromium';
 const SHOTS = '/tmp/local-page-open-data';
@@ -20,20 +20,7 @@ const SHOTS = '/tmp/local-page-open-data';
 let serving: Serving;
 beforeAll(async () => {
   const dir = mkdtempSync(join(tmpdir(), 'tc-page-open-'));
-  const configFile = join(dir, 'iowa.yaml');
-  writeFileSync(configFile, `version: 1
-datasets:
-  - name: iowa_electricity
-    label: Iowa electricity
-    source: { kind: csv, paths: [${vegaDataFile('iowa-electricity.csv')}] }
-    time_column: year
-    timezone: UTC
-    metrics:
-      - { name: rows, label: Rows, count: rows, unit: count, kind: flow }
-      - { name: net_generation, label: Net generation, average: net_generation, unit: number, kind: level }
-    dimensions:
-      - { name: source, label: Source, column: source }
-`);
+  const configFile = writeIowaConfig(dir);
   serving = await serve({ configFile, statePath: join(dir, 'state.duckdb'), environment: { local: { host: '127.0.0.1', port: 0 } }, log: () => undefined });
 }, 300_000);
 afterAll(async () => serving?.stop());

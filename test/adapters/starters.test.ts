@@ -10,7 +10,7 @@ import { describe, expect, it } from 'vitest';
 import type { Coverage } from '../../analysis/coverage.js';
 import { startersFor } from '../../adapters/local-channel/starters.js';
 import { parseConfigText } from '../../config/load.js';
-import { vegaDataFile } from '../helpers/open-data.js';
+import { vegaDataFile, writeIowaConfig } from '../helpers/open-data.js';
 import { publicFacts } from '../reading/public-data.js';
 
 const daily = (firstDate: string, lastDate: string): Coverage => ({ firstDate, lastDate, rows: 1000, stamps: 'daily' });
@@ -56,20 +56,7 @@ describe('starter questions on open data', () => {
   it('use years for data stamped once a year, and its last year, which is whole (vega-datasets iowa-electricity.csv)', async () => {
     // US EIA net generation in Iowa by source, one row per source per year, 2001 to 2017 (51 rows),
     // with the catalog `threadcount init` drafts for it (a row count first, then the measure).
-    const config = join(dir, 'iowa.yaml');
-    writeFileSync(config, `version: 1
-datasets:
-  - name: iowa_electricity
-    label: Iowa electricity
-    source: { kind: csv, paths: [${vegaDataFile('iowa-electricity.csv')}] }
-    time_column: year
-    timezone: UTC
-    metrics:
-      - { name: rows, label: Rows, count: rows, unit: count, kind: flow }
-      - { name: net_generation, label: Net generation, average: net_generation, unit: number, kind: level }
-    dimensions:
-      - { name: source, label: Source, column: source }
-`);
+    const config = writeIowaConfig(dir);
     const facts = await publicFacts(config);
     expect(facts.coverage).toMatchObject({ firstDate: '2001-01-01', lastDate: '2017-01-01', stamps: 'yearly' });
     const starters = startersFor([{ dataset: facts.dataset, coverage: facts.coverage }]);

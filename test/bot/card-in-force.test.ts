@@ -3,7 +3,7 @@
 // iowa-electricity.csv (US EIA net generation in Iowa by source, one row per source per year,
 // 2001 to 2017), read through a real DuckDB workspace with the catalog `threadcount init` drafts
 // for it (a row count, then net generation). Windows are end-exclusive (docs/reading.md).
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -12,27 +12,14 @@ import { buildCard, cardControls } from '../../bot/card.js';
 import { readCorrection } from '../../bot/reading/corrections.js';
 import { type DatasetFacts, readRequest } from '../../bot/reading/read-request.js';
 import { cardChanged } from '../../bot/replies.js';
-import { vegaDataFile } from '../helpers/open-data.js';
+import { writeIowaConfig } from '../helpers/open-data.js';
 import { publicFacts } from '../reading/public-data.js';
 
 const NOW = new Date('2026-12-05T07:00:00Z');
 let facts: DatasetFacts;
 
 beforeAll(async () => {
-  const config = join(mkdtempSync(join(tmpdir(), 'tc-card-in-force-')), 'iowa.yaml');
-  writeFileSync(config, `version: 1
-datasets:
-  - name: iowa_electricity
-    label: Iowa electricity
-    source: { kind: csv, paths: [${vegaDataFile('iowa-electricity.csv')}] }
-    time_column: year
-    timezone: UTC
-    metrics:
-      - { name: rows, label: Rows, count: rows, unit: count, kind: flow }
-      - { name: net_generation, label: Net generation, average: net_generation, unit: number, kind: level }
-    dimensions:
-      - { name: source, label: Source, column: source }
-`);
+  const config = writeIowaConfig(mkdtempSync(join(tmpdir(), 'tc-card-in-force-')));
   facts = await publicFacts(config);
 }, 60_000);
 

@@ -1,5 +1,6 @@
 // Files of the vega-datasets package (public datasets: NOAA, FAA, Seattle weather and others), a dev
 // dependency the tests read as data the project was never built around.
+import { writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
 
@@ -9,4 +10,28 @@ const dataFolder = join(dirname(dirname(createRequire(import.meta.url).resolve('
 /** The absolute path of one file in vega-datasets' data/ folder, e.g. `vegaDataFile('seattle-weather.csv')`. */
 export function vegaDataFile(name: string): string {
   return join(dataFolder, name);
+}
+
+/**
+ * Writes `iowa.yaml` into `dir` over vega-datasets' iowa-electricity.csv (US EIA net generation in
+ * Iowa by source, one row per source per year, 2001–2017) with the catalog `threadcount init` first
+ * drafted for it: a row count, then net generation as a level (init now drafts it as a sum; the
+ * tests using this one check reading and the page, where either does). Returns the file's path.
+ */
+export function writeIowaConfig(dir: string): string {
+  const file = join(dir, 'iowa.yaml');
+  writeFileSync(file, `version: 1
+datasets:
+  - name: iowa_electricity
+    label: Iowa electricity
+    source: { kind: csv, paths: [${vegaDataFile('iowa-electricity.csv')}] }
+    time_column: year
+    timezone: UTC
+    metrics:
+      - { name: rows, label: Rows, count: rows, unit: count, kind: flow }
+      - { name: net_generation, label: Net generation, average: net_generation, unit: number, kind: level }
+    dimensions:
+      - { name: source, label: Source, column: source }
+`);
+  return file;
 }

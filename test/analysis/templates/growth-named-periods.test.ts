@@ -7,44 +7,13 @@ import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import type { GrowthDriversFinding } from '../../../analysis/findings/growth.js';
 import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import type { SubQuestion } from '../../../analysis/types.js';
-import { vegaDataFile } from '../../helpers/open-data.js';
-import { memoryWorkspace } from './trend-memory-db.js';
+import { STRIKES_TABLE, strikesWorkspace } from './open-data-tables.js';
 
-const STRIKES_CSV = vegaDataFile('birdstrikes.csv').replaceAll("'", "''");
-const STRIKES_TABLE = `CREATE TABLE strikes AS SELECT * FROM read_csv('${STRIKES_CSV}', header = true)`;
-const STRIKES_CONFIG = `
-version: 1
-datasets:
-  - name: strikes
-    label: Wildlife strikes (vega-datasets)
-    source: { kind: duckdb, path: unused.duckdb }
-    table: strikes
-    time_column: Flight Date
-    timezone: UTC
-    metrics:
-      - name: strikes
-        label: Strikes
-        count: rows
-        unit: count
-        higher_is_better: false
-        kind: flow
-      - name: speed
-        label: Speed
-        average: '"Speed IAS in knots"'
-        unit: number
-        unit_label: kt
-        kind: level
-    dimensions:
-      - name: airport
-        label: Airport
-        column: Airport Name
-`;
-
-let ws: Awaited<ReturnType<typeof memoryWorkspace>>;
+let ws: Awaited<ReturnType<typeof strikesWorkspace>>;
 let truthDb: DuckDBInstance;
 let truth: DuckDBConnection;
 beforeAll(async () => {
-  ws = await memoryWorkspace([STRIKES_TABLE], STRIKES_CONFIG);
+  ws = await strikesWorkspace();
   truthDb = await DuckDBInstance.create(':memory:');
   truth = await truthDb.connect();
   await truth.run(STRIKES_TABLE);

@@ -2,8 +2,6 @@
 // open datasets (vega-datasets, the npm package): FAA wildlife strikes 1990–2002 (birdstrikes.csv)
 // and US flights of Q1 2001 (flights-20k.json). Every figure the answers are checked against is
 // computed here by our own SQL on the raw file, in a DuckDB instance of the test's own.
-import { createRequire } from 'node:module';
-import { dirname, join } from 'node:path';
 import { DuckDBInstance, type DuckDBConnection } from '@duckdb/node-api';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
@@ -12,74 +10,15 @@ import type { TrendTestFinding } from '../../../analysis/findings/segments.js';
 import { TINY_BASE_FRACTION } from '../../../analysis/stats/index.js';
 import { SUB_QUESTIONS, type TemplateName } from '../../../analysis/sub-questions/registry.js';
 import type { SubQuestion } from '../../../analysis/types.js';
-import { memoryWorkspace } from './trend-memory-db.js';
+import { FLIGHTS_TABLE, STRIKES_TABLE, flightsWorkspace, strikesWorkspace } from './open-data-tables.js';
 
-const require = createRequire(import.meta.url);
-const DATA = join(dirname(dirname(require.resolve('vega-datasets'))), 'data');
-const FLIGHTS_JSON = join(DATA, 'flights-20k.json').replaceAll("'", "''");
-const STRIKES_CSV = join(DATA, 'birdstrikes.csv').replaceAll("'", "''");
-
-const FLIGHTS_CONFIG = `
-version: 1
-datasets:
-  - name: flights
-    label: Flights (vega-datasets)
-    source: { kind: duckdb, path: unused.duckdb }
-    table: flights
-    time_column: departed
-    timezone: UTC
-    metrics:
-      - name: flights
-        label: Flights
-        count: rows
-        unit: count
-        kind: flow
-      - name: avg_delay
-        label: Average delay
-        average: delay
-        unit: number
-        unit_label: min
-        decimals: 1
-        higher_is_better: false
-        kind: ratio
-    dimensions:
-      - name: origin
-        label: Origin airport
-        column: origin
-`;
-
-const STRIKES_CONFIG = `
-version: 1
-datasets:
-  - name: strikes
-    label: Wildlife strikes (vega-datasets)
-    source: { kind: duckdb, path: unused.duckdb }
-    table: strikes
-    time_column: Flight Date
-    timezone: UTC
-    metrics:
-      - name: cost_total
-        label: Total cost
-        sum: '"Cost Total $"'
-        unit: currency
-        currency: USD
-        higher_is_better: false
-        kind: flow
-    dimensions:
-      - name: airport
-        label: Airport
-        column: Airport Name
-`;
-
-let flightsWs: Awaited<ReturnType<typeof memoryWorkspace>>;
-let strikesWs: Awaited<ReturnType<typeof memoryWorkspace>>;
+let flightsWs: Awaited<ReturnType<typeof flightsWorkspace>>;
+let strikesWs: Awaited<ReturnType<typeof strikesWorkspace>>;
 let truthDb: DuckDBInstance;
 let truth: DuckDBConnection;
-const FLIGHTS_TABLE = `CREATE TABLE flights AS SELECT strptime(date, '%Y/%m/%d %H:%M') AS departed, delay, origin FROM read_json('${FLIGHTS_JSON}')`;
-const STRIKES_TABLE = `CREATE TABLE strikes AS SELECT * FROM read_csv('${STRIKES_CSV}', header = true)`;
 beforeAll(async () => {
-  flightsWs = await memoryWorkspace([FLIGHTS_TABLE], FLIGHTS_CONFIG);
-  strikesWs = await memoryWorkspace([STRIKES_TABLE], STRIKES_CONFIG);
+  flightsWs = await flightsWorkspace();
+  strikesWs = await strikesWorkspace();
   // The truth comes from a database of the test's own, with SQL written here.
   truthDb = await DuckDBInstance.create(':memory:');
   truth = await truthDb.connect();

@@ -4,8 +4,6 @@
 // written here; every number the answers are checked against is computed in this file from the raw
 // file with plain JavaScript, never through DuckDB or the project's code.
 import { readFileSync } from 'node:fs';
-import { createRequire } from 'node:module';
-import { dirname, join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import type { SegmentSharesFinding, SegmentTrendFinding } from '../../../analysis/findings/segments.js';
@@ -13,70 +11,7 @@ import { caveatNote } from '../../../analysis/captions/caveat-text.js';
 import { answerCaveats } from '../../../analysis/quality/thread-notes.js';
 import { SUB_QUESTIONS, type TemplateName } from '../../../analysis/sub-questions/registry.js';
 import type { SubQuestion } from '../../../analysis/types.js';
-import { memoryWorkspace } from './trend-memory-db.js';
-
-const require = createRequire(import.meta.url);
-const DATA = join(dirname(dirname(require.resolve('vega-datasets'))), 'data');
-const FLIGHTS_JSON = join(DATA, 'flights-20k.json');
-const STRIKES_CSV = join(DATA, 'birdstrikes.csv');
-
-const FLIGHTS_CONFIG = `
-version: 1
-datasets:
-  - name: flights
-    label: Flights (vega-datasets)
-    source: { kind: duckdb, path: unused.duckdb }
-    table: flights
-    time_column: departed
-    timezone: UTC
-    metrics:
-      - name: flights
-        label: Flights
-        count: rows
-        unit: count
-        kind: flow
-      - name: avg_delay
-        label: Average delay
-        average: delay
-        unit: number
-        unit_label: min
-        decimals: 1
-        higher_is_better: false
-        kind: ratio
-    dimensions:
-      - name: origin
-        label: Origin airport
-        column: origin
-`;
-
-const STRIKES_CONFIG = `
-version: 1
-datasets:
-  - name: strikes
-    label: Wildlife strikes (vega-datasets)
-    source: { kind: duckdb, path: unused.duckdb }
-    table: strikes
-    time_column: Flight Date
-    timezone: UTC
-    metrics:
-      - name: strikes
-        label: Strikes
-        count: rows
-        unit: count
-        higher_is_better: false
-        kind: flow
-      - name: cost_total
-        label: Total cost
-        sum: '"Cost Total $"'
-        unit: currency
-        currency: USD
-        higher_is_better: false
-        kind: flow
-    dimensions:
-      - name: airport
-        label: Airport
-        column: Airport Name
-`;
+import { FLIGHTS_JSON, STRIKES_CSV, flightsWorkspace, strikesWorkspace } from './open-data-tables.js';
 
 interface Flight {
   date: string;
@@ -100,11 +35,11 @@ function countBy<T>(rows: readonly T[], key: (r: T) => string): Map<string, numb
 /** Largest first; ties by name, as the fold ranks them. */
 const ranked = (m: Map<string, number>) => [...m.entries()].sort((a, b) => b[1] - a[1] || (a[0] < b[0] ? -1 : 1));
 
-let flightsWs: Awaited<ReturnType<typeof memoryWorkspace>>;
-let strikesWs: Awaited<ReturnType<typeof memoryWorkspace>>;
+let flightsWs: Awaited<ReturnType<typeof flightsWorkspace>>;
+let strikesWs: Awaited<ReturnType<typeof strikesWorkspace>>;
 beforeAll(async () => {
-  flightsWs = await memoryWorkspace([`CREATE TABLE flights AS SELECT strptime(date, '%Y/%m/%d %H:%M') AS departed, delay, distance, origin, destination FROM read_json('${FLIGHTS_JSON.replaceAll("'", "''")}')`], FLIGHTS_CONFIG);
-  strikesWs = await memoryWorkspace([`CREATE TABLE strikes AS SELECT * FROM read_csv('${STRIKES_CSV.replaceAll("'", "''")}', header = true)`], STRIKES_CONFIG);
+  flightsWs = await flightsWorkspace();
+  strikesWs = await strikesWorkspace();
 });
 afterAll(async () => {
   await flightsWs?.source.close();
