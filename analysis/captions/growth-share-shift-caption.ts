@@ -5,6 +5,7 @@ import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { GrowthShareSegment, GrowthShareShiftFinding } from '../findings/growth.js';
 import { formatValue } from '../format.js';
 import type { Audience } from '../types.js';
+import { possessive } from './grammar.js';
 import type { GrowthWords } from './growth-series-caption.js';
 import { capitalise, dimensionLabel, formatPoints, formatShare, lower, plural, segmentText, spanText } from './growth-words.js';
 
@@ -34,7 +35,7 @@ export function growthShareShiftWords(
   const top = moved[0];
   const title =
     top && top.shareChange !== 0
-      ? `${capitalise(name(top))}'s share of ${lower(label)} ${top.shareChange! > 0 ? 'rose' : 'fell'} ${formatPoints(Math.abs(top.shareChange!), locale).replace(/^\+/, '')} to ${formatShare(top.shareAfter, locale)}`
+      ? `${possessive(capitalise(name(top)))} share of ${lower(label)} ${top.shareChange! > 0 ? 'rose' : 'fell'} ${formatPoints(Math.abs(top.shareChange!), locale).replace(/^\+/, '')} to ${formatShare(top.shareAfter, locale)}`
       : `Shares of ${lower(label)} by ${dimNoun} did not move`;
   const spans = `${spanText(f.current, locale)} against ${spanText(f.prior, locale)}`;
   // The base is a year earlier unless the request named another period ("2025 against 2023").

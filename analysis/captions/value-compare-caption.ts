@@ -4,7 +4,7 @@ import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { ContrastSide, ValueCompareFinding } from '../findings/contrast.js';
 import { formatChange, formatValue } from '../format.js';
 import type { Audience } from '../types.js';
-import { capitalise, inSentence } from './grammar.js';
+import { capitalise, inSentence, possessive } from './grammar.js';
 import { formatPoints, segmentText, spanText, valueText } from './growth-words.js';
 import { formatP } from './performance-words.js';
 
@@ -73,7 +73,7 @@ export function valueCompareWords(f: ValueCompareFinding | undefined, metric: Me
   }
   if (rel) {
     const interval = `${formatChange(rel.ci[0], locale)} to ${formatChange(rel.ci[1], locale)}`;
-    const against = `Relative to ${name(b)}, ${name(a)}'s ${label} changed ${formatChange(rel.relative, locale)}`;
+    const against = `Relative to ${name(b)}, ${possessive(name(a))} ${label} changed ${formatChange(rel.relative, locale)}`;
     const verdict = clear ? 'a clear difference' : 'within what the period-to-period variation allows, so no clear difference';
     if (audience === 'analysts') {
       sentences.push(`${against} (${formatValue(rel.confidence, { unit: 'percent', decimals: 0, locale })} interval ${interval}; Welch's t-test on ${rel.nBefore} and ${rel.nAfter} ${PERIOD_NOUN[rel.periods]} log ratios, t = ${formatValue(rel.t, { unit: 'number', decimals: 2, locale })}, df = ${formatValue(rel.df, { unit: 'number', decimals: 1, locale })}, ${formatP(rel.pValue, locale)}): ${verdict}.`);

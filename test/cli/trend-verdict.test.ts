@@ -14,10 +14,12 @@ import { vegaDataFile } from '../helpers/open-data.js';
 
 const csv = vegaDataFile('iowa-electricity.csv');
 const totals = new Map<number, number>();
+const renewables = new Map<number, number>();
 for (const line of readFileSync(csv, 'utf8').trim().split('\n').slice(1)) {
-  const [year, , value] = line.split(',');
+  const [year, source, value] = line.split(',');
   const y = Number(year!.slice(0, 4));
   totals.set(y, (totals.get(y) ?? 0) + Number(value));
+  if (source === 'Renewables') renewables.set(y, Number(value));
 }
 const years = [...totals.keys()].sort((a, b) => a - b);
 const values = years.map((y) => totals.get(y)!);
@@ -60,9 +62,11 @@ datasets:
 
 let trendSummary = '';
 let changeSummary = '';
+let driversSummary = '';
 beforeAll(async () => {
   trendSummary = await summaryOf('Is generation trending up? is the trend significant?');
   changeSummary = await summaryOf('Was generation up in 2017 on the year before?');
+  driversSummary = await summaryOf('what drove the change in generation in 2016 compared with 2015?');
 }, 300_000);
 
 describe('the verdict on a trend question', () => {
@@ -87,5 +91,12 @@ describe('the verdict on a trend question', () => {
     expect(first).toMatch(/^- Yes: /);
     expect(first).toContain(`${(change * 100).toFixed(1)}%`);
     expect(first).not.toContain('Mann–Kendall');
+  });
+
+  it('names a segment ending in s with the apostrophe alone', () => {
+    const share = (y: number) => renewables.get(y)! / totals.get(y)!;
+    const points = ((share(2016) - share(2015)) * 100).toFixed(1);
+    expect(driversSummary).toContain(`Renewables' share of net generation rose ${points} pts to ${(share(2016) * 100).toFixed(1)}%`);
+    expect(driversSummary).not.toContain("Renewables's");
   });
 });
