@@ -5,7 +5,7 @@ import { formatValue } from '../format.js';
 import type { Finding } from '../types.js';
 import { pluralNoun } from './grammar.js';
 import { capitalise, type PerformanceWords } from './performance-compare.js';
-import { chancePhrase, countText, findAll, findOne, groupLabel, inText, periodLead, quantityLabel, type WordsContext, isAre } from './performance-words.js';
+import { sampleNoun, chancePhrase, countText, findAll, findOne, groupLabel, inText, periodLead, quantityLabel, type WordsContext, isAre } from './performance-words.js';
 
 /** "Route" → "routes", "Fare class" → "fare classes", "Category" → "categories". */
 export function pluralLabel(label: string): string {
@@ -21,7 +21,9 @@ export function bySegmentWords(findings: readonly Finding[], ctx: WordsContext, 
   const { metric, group, locale, audience, dataset } = ctx;
   const members = findOne(findings, 'performance_group', (f) => f.group === 'members');
   const quantity = members?.quantity ?? 'metric';
-  const label = quantityLabel(metric, quantity, dataset);
+  const label = quantityLabel(metric, quantity, dataset, members?.unit);
+  // What a segment's n counts: sites for a count per site, days for one per day, else rows.
+  const sampled = quantity === 'metric' || quantity === 'per_row' ? 'rows' : sampleNoun(dataset, quantity, members?.unit).plural;
   const m = groupLabel(group, 'members');
   const o = groupLabel(group, 'others');
   const plural = pluralLabel(dim.label);
@@ -63,7 +65,7 @@ export function bySegmentWords(findings: readonly Finding[], ctx: WordsContext, 
         ? `${consistency.oppositeDirection} ${consistency.oppositeDirection === 1 ? inText(dim.label) : plural} ${consistency.oppositeDirection === 1 ? 'goes' : 'go'} the other way, so the overall gap may partly reflect the mix of ${plural}`
         : `some ${plural} show no difference`;
   const small = segments.filter((s) => s.small);
-  const smallText = small.length > 0 ? ` ${small.length === 1 ? `${segmentName(small[0]!)} is` : `${small.length} ${plural} are`} small (fewer than 30 ${small.length === 1 ? 'rows in a group' : 'rows in a group each'}), so read ${small.length === 1 ? 'it' : 'them'} with care.` : '';
+  const smallText = small.length > 0 ? ` ${small.length === 1 ? `${segmentName(small[0]!)} is` : `${small.length} ${plural} are`} small (fewer than 30 ${sampled} in a group${small.length === 1 ? '' : ' each'}), so read ${small.length === 1 ? 'it' : 'them'} with care.` : '';
   let caption: string;
   if (audience === 'leadership') {
     caption = `${lead}, ${inText(label)} ${isAre(label)} ${dir} for ${inText(m)} than for ${inText(o)} on ${where}${range}. Overall ${chance}, and ${evidence}. This is an observational comparison, not proof of cause.`;

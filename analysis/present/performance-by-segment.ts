@@ -16,8 +16,8 @@ export const presentPerformanceBySegment: Presenter = (answer, ctx) => {
   const dim = groupableDimension(ctx.dataset, sq.dimension ?? '');
   const wctx = { dataset: ctx.dataset, metric, group, locale: ctx.locale, audience: ctx.audience, dataAsOf: ctx.dataAsOf };
   const words = bySegmentWords(answer.findings, wctx, dim);
-  const quantity = findAll(answer.findings, 'performance_group')[0]?.quantity ?? 'metric';
-  const label = quantityLabel(metric, quantity, ctx.dataset);
+  const overall = findAll(answer.findings, 'performance_group')[0];
+  const label = quantityLabel(metric, overall?.quantity ?? 'metric', ctx.dataset, overall?.unit);
   const compared = findAll(answer.findings, 'performance_segment').filter((s) => s.relative !== null);
   // When every segment points one way, bars of the size of the gap read better than bars hanging
   // left of zero, and the subtitle says which way; mixed directions keep their signs.

@@ -44,13 +44,18 @@ export function compileSegments(sq: SubQuestion, ctx: CompileContext): NamedQuer
   const window = comparisonWindow(sq, group).window;
   const seg = q.ident(dim.column);
   const rankWhere = `${whereClause(q, ctx, window, sq.filters)}\n    AND ${throughUnitsCondition(q, ctx, sq, group, window)}`;
-  const plan = comparisonPlanFor(q, ctx, metric);
+  const plan = comparisonPlanFor(q, ctx, metric, group);
   const where = `${whereClause(q, ctx, window, sq.filters)}\n  AND ${throughUnitsCondition(q, ctx, sq, group, window)}`;
   // Segments shown by name, as many as the request asked for; the rest are folded into one row.
   const topN = q.bind(namedSegmentCount(sq));
   // The final SELECT: its segment keys, its aggregates over the ranked segments, then the measure.
   const finalSelect = (keys: { sql: string; alias: string }[], rankAggregates: { sql: string; alias: string }[], carried: string[], ctes: string): { body: string; columns: string[] } => {
-    if (plan.perDay) return perDaySegments(q, ctx, metric, { seg, keys, rankAggregates, carried, ctes, where: `${where}\n    AND ${groupKnown(q, group)}` });
+    if (plan.perDay) {
+      // Per unit (a group of sites): each site's count in the segment is one observation, as in
+      // the groups' own comparison; otherwise the segment's count per calendar day.
+      const by = plan.perUnit ? q.ident(groupableDimension(ds, plan.perUnit).column) : null;
+      return perDaySegments(q, ctx, metric, { seg, keys, rankAggregates, carried, ctes, where: `${where}\n    AND ${groupKnown(q, group)}`, by });
+    }
     const columns = measureColumns(q, ds, metric, plan, ctx);
     const body = `${ctes}
 SELECT ${[...keys, ...rankAggregates].map((k) => `${k.sql} AS ${k.alias}`).join(',\n  ')},
@@ -145,29 +150,32 @@ tc_ranked AS (
 /**
  * The final SELECT for a count compared per day: the catalog count per segment key, group and day
  * over the ranked segments (a folded row adds up its segments' days first), then per key the days
- * with a row, Σ and Σ² of the daily counts; the rank aggregates come from the same rows.
+ * with a row, Σ and Σ² of the daily counts; the rank aggregates come from the same rows. With `by`
+ * (a unit column), per unit instead of per day: the units with a row, Σ and Σ² of their counts
+ * (the columns `perUnitQuery` returns).
  */
 function perDaySegments(
   q: QueryBuilder,
   ctx: CompileContext,
   metric: Metric,
-  o: { seg: string; keys: { sql: string; alias: string }[]; rankAggregates: { sql: string; alias: string }[]; carried: string[]; ctes: string; where: string },
+  o: { seg: string; keys: { sql: string; alias: string }[]; rankAggregates: { sql: string; alias: string }[]; carried: string[]; ctes: string; where: string; by: string | null },
 ): { body: string; columns: string[] } {
   const d = q.dialect;
   const aliases = o.keys.map((k) => k.alias);
   const partCols = [...o.keys.map((k) => `${k.sql} AS ${k.alias}`), ...o.carried.map((c) => `tc_ranked.${c} AS ${c}`)];
   const onKeys = aliases.map((a) => `tc_keys.${a} IS NOT DISTINCT FROM tc_days.${a}`).join(' AND ');
+  const [n, sx, sxx] = o.by ? ['tc_units', 'tc_ux', 'tc_uxx'] : ['tc_days', 'tc_sx', 'tc_sxx'];
   const columns = [
-    `${d.toDouble('COUNT(*)')} AS tc_days`,
-    `${d.toDouble('SUM(tc_days.tc_day_value)')} AS tc_sx`,
-    `${d.toDouble('SUM(tc_days.tc_day_value * tc_days.tc_day_value)')} AS tc_sxx`,
+    `${d.toDouble('COUNT(*)')} AS ${n}`,
+    `${d.toDouble('SUM(tc_days.tc_day_value)')} AS ${sx}`,
+    `${d.toDouble('SUM(tc_days.tc_day_value * tc_days.tc_day_value)')} AS ${sxx}`,
     `${d.toDouble('SUM(tc_days.tc_day_value)')} AS tc_value`,
     `${d.toDouble('SUM(tc_days.tc_day_rows)')} AS tc_rows`,
   ];
   const body = `${o.ctes},
 tc_parts AS (
   SELECT ${partCols.join(', ')},
-    ${localDateExpr(q, ctx)} AS tc_day,
+    ${o.by ?? localDateExpr(q, ctx)} AS tc_by,
     ${d.toDouble(measureSql(q, ctx, metric))} AS tc_part_value,
     ${rowCountSql(q, ctx)} AS tc_part_rows
   FROM ${tableRef(q, ctx)} AS tc_base
@@ -175,9 +183,9 @@ tc_parts AS (
   WHERE ${o.where}
   GROUP BY ${partCols.map((_, i) => String(i + 1)).join(', ')}, ${partCols.length + 1}
 ), tc_days AS (
-  SELECT ${aliases.join(', ')}, tc_day, SUM(tc_part_value) AS tc_day_value, SUM(tc_part_rows) AS tc_day_rows
+  SELECT ${aliases.join(', ')}, tc_by, SUM(tc_part_value) AS tc_day_value, SUM(tc_part_rows) AS tc_day_rows
   FROM tc_parts
-  GROUP BY ${aliases.join(', ')}, tc_day
+  GROUP BY ${aliases.join(', ')}, tc_by
 ), tc_keys AS (
   SELECT ${aliases.join(', ')}, ${o.rankAggregates.map((r) => `${r.sql.replaceAll('tc_ranked.', 'tc_parts.')} AS ${r.alias}`).join(', ')}
   FROM tc_parts
@@ -202,7 +210,7 @@ export const performanceBySegmentTemplate: Template = {
     const metric = primaryMetric(ds, sq);
     const group = resolveGroup(ds, sq);
     const dim = groupableDimension(ds, sq.dimension ?? '');
-    const shape = comparisonShape(ds, metric);
+    const shape = comparisonShape(ds, metric, group);
     const win = windowFinding(sq, group, ctx.coverage);
     const days = daysBetween(win.start, win.end);
     const groupsTable = tables.groups ?? EMPTY_TABLE;
@@ -259,7 +267,8 @@ export const performanceBySegmentTemplate: Template = {
       const members = cellEstimate(m);
       const others = cellEstimate(o);
       const difference = anyHidden ? null : diffOf(members, others);
-      const small = !anyHidden && (m.n < SMALL_SAMPLE || o.n < SMALL_SAMPLE);
+      // A side with nothing is an absent group (said in a note), not a small sample.
+      const small = !anyHidden && m.n > 0 && o.n > 0 && (m.n < SMALL_SAMPLE || o.n < SMALL_SAMPLE);
       const finding: PerformanceSegmentFinding = {
         type: 'performance_segment',
         metric: metric.name,

@@ -155,6 +155,7 @@ datasets:
         higher_is_better: true
     dimensions:
       - { name: site, column: site, label: Site }
+      - { name: day_type, column: weekday, label: Weekday }
     comparison_groups:
       - name: refit
         label: Refit
@@ -348,7 +349,34 @@ describe('a filtered count compared between groups of sites', () => {
     expect(ash.others).toBeCloseTo(ashRows / 366, 9);
     expect(segs.some((s) => s.segment === 'Harbour Road')).toBe(false);
     const p = SUB_QUESTIONS.performance_by_segment.present(a, presentContext(ws, 'managers'));
+    if (process.env.TC_PEEK) console.log(p.title, '\n', p.caption, '\n', p.notes.join('\n'));
     expect(captionProblems(a, p)).toEqual([]);
+  });
+
+  it('by a segment every site has (weekday or not): visits per site per day in each segment, the sites as the sample, as the groups overall', async () => {
+    const a = await answerSubQuestion(question('performance_by_segment', 'visits', { dimension: 'day_type' }), ws);
+    const groups = find(a, 'performance_group') as PerformanceGroupFinding[];
+    expect(groups.map((g) => g.quantity)).toEqual(['per_unit_day', 'per_unit_day']);
+    const segs = find(a, 'performance_segment');
+    expect(segs).toHaveLength(2);
+    const days = 366;
+    const mean = (xs: number[]) => xs.reduce((t, x) => t + x, 0) / xs.length;
+    // Each site's visits on that kind of day since the launch over the calendar days, averaged over
+    // the group's sites (Harbour Road opened late and is left out), from the raw rows.
+    const perSite = (sites: string[], weekday: boolean) => mean(sites.map((site) => visits.filter((v) => v.site === site && v.weekday === weekday && v.visit_day >= LAUNCH && v.visit_day < END).length / days));
+    for (const s of segs) {
+      const weekday = s.segment === 'true';
+      expect(s.nMembers).toBe(2);
+      expect(s.nOthers).toBe(3);
+      expect(s.members!).toBeCloseTo(perSite(['North Quay', 'Mill Lane'], weekday), 9);
+      expect(s.others!).toBeCloseTo(perSite(['Ash Row', 'Brook End', 'Castle Gate'], weekday), 9);
+    }
+    const p = SUB_QUESTIONS.performance_by_segment.present(a, presentContext(ws, 'managers'));
+    if (process.env.TC_PEEK) console.log(p.title, '\n', p.caption, '\n', p.notes.join('\n'));
+    expect(captionProblems(a, p)).toEqual([]);
+    // The chart's subtitle and the headline name the figure compared: per site per day.
+    expect(p.title).toMatch(/^Visits per site per day/);
+    expect(p.chart?.subtitle).toMatch(/^Visits per site per day, % /);
   });
 
   it('per site, "top 2": two sites named (the busiest by weekday visits), the rest folded', async () => {
