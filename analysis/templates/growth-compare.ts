@@ -10,6 +10,7 @@ import type { Coverage } from '../coverage.js';
 import { dataEnd, lastCoveredDay } from '../coverage.js';
 import type { ChangedSegment, GrowthSpan } from '../findings/growth.js';
 import { addDays, addMonths, periodStart } from '../periods.js';
+import { lifeColumnsSql, presenceToleranceDays, silentBeyondChanceSql } from '../presence.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, DateWindow, ResultTable, SubQuestion } from '../types.js';
 import { complementaryFoldCtes, minGroupSize } from './small-groups.js';
@@ -32,18 +33,6 @@ const CLOSED = '__tc_closed';
 const LFL = '__tc_lfl';
 const LIFE_FIRST = '__tc_life_first';
 const LIFE_LAST = '__tc_life_last';
-
-/**
- * How many days after the earliest first day of the earlier span a segment may first appear (or
- * before the latest last day of the later span it may last appear) and still count as present
- * through both: a twelfth of the span, at least one day and at most 31, so a site with a quiet
- * first day or two is not taken for a new one. Our rule; retailers' own like-for-like rules (a
- * site open a full year, say) are stricter and may be set by the organisation.
- */
-export function presenceToleranceDays(w: DateWindow): number {
-  const days = Math.round((Date.parse(w.end) - Date.parse(w.start)) / 86_400_000);
-  return Math.min(31, Math.max(1, Math.floor(days / 12)));
-}
 
 /**
  * The same dates one year earlier. A window edge on 29 February moves to 1 March: the window is
@@ -220,12 +209,13 @@ ORDER BY 1, 2, 3, 4`);
 
 /**
  * Whether each segment was there through both spans, read from the whole table (every date, no
- * filter): it opened if its first record anywhere comes more than `tolerance` days after the
- * earliest first day of any segment in the earlier span, it closed if its last record anywhere
- * comes that much before the latest last day in the later span. A segment merely without rows in
- * one span (a sparse airport with no strike that quarter, there since 1990) is there throughout:
- * it stays in like-for-like growth, with zero for a count or a sum. The span edges come from the
- * spans' own rows, so a span cut to the data's dates is judged on the days it has.
+ * filter): it opened if it was silent from the earliest first day of any segment in the earlier
+ * span up to its first record anywhere, it closed if silent from its last record anywhere to the
+ * latest last day in the later span, each beyond chance for its own rhythm (the rule in
+ * analysis/presence.ts). A segment merely without rows in one span (a sparse airport with no
+ * strike that quarter, there since 1990; drizzle, missing from Seattle's last weeks) is there
+ * throughout: it stays in like-for-like growth, with zero for a count or a sum. The span edges
+ * come from the spans' own rows, so a span cut to the data's dates is judged on the days it has.
  */
 function presenceSql(
   q: QueryBuilder,
@@ -236,8 +226,10 @@ function presenceSql(
   const [firstEver, lastEver] = [q.ident(LIFE_FIRST), q.ident(LIFE_LAST)];
   // The segment's whole life, over every date the table holds.
   q.readsEveryDate();
+  const life = { first: 'tc_first_ever', last: 'tc_last_ever', activeMonths: 'tc_active_months' };
+  const lived = { first: `tc_life.${life.first}`, last: `tc_life.${life.last}`, activeMonths: `tc_life.${life.activeMonths}` };
   const ctes = `tc_life AS (
-  SELECT ${n.seg} AS ${key}, MIN(${localDateExpr(q, ctx)}) AS tc_first_ever, MAX(${localDateExpr(q, ctx)}) AS tc_last_ever
+  SELECT ${n.seg} AS ${key}, ${lifeColumnsSql(localDateExpr(q, ctx), life)}
   FROM ${n.table} AS t
   GROUP BY 1
 ),
@@ -250,8 +242,8 @@ tc_edges AS (
     ctes,
     joins: `LEFT JOIN tc_life ON tagged.${n.seg} IS NOT DISTINCT FROM tc_life.${key}
   CROSS JOIN tc_edges`,
-    opened: `COALESCE(tc_life.tc_first_ever - tc_edges.tc_first_prior > ${n.tolerance}, FALSE)`,
-    closed: `COALESCE(tc_edges.tc_last_current - tc_life.tc_last_ever > ${n.tolerance}, FALSE)`,
+    opened: `COALESCE(${silentBeyondChanceSql(lived, 'tc_edges.tc_first_prior', 'start', n.tolerance)}, FALSE)`,
+    closed: `COALESCE(${silentBeyondChanceSql(lived, 'tc_edges.tc_last_current', 'end', n.tolerance)}, FALSE)`,
     columns: `tc_life.tc_first_ever AS ${firstEver}, tc_life.tc_last_ever AS ${lastEver}`,
     firstEver,
     lastEver,

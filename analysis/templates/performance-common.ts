@@ -7,6 +7,7 @@ import type { Coverage } from '../coverage.js';
 import { dataEnd } from '../coverage.js';
 import type { GroupRole, PerformanceNoTestFinding, PerformanceUnitsLeftOutFinding, PerformanceWindowFinding } from '../findings/performance.js';
 import { addDays } from '../periods.js';
+import { lifeColumnsSql, presenceToleranceDays, silentBeyondChanceSql } from '../presence.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CellValue, DateWindow, NamedQuery, ResultTable, SubQuestion } from '../types.js';
 import { suppressedGroupsCaveat } from './small-groups.js';
@@ -137,21 +138,22 @@ export function groupCaveats(
 // an effect. Such units are left out of both groups and named. A unit key that is no dimension
 // (a customer id) comes and goes as a matter of course and is not treated so.
 
-/** Days of slack at each edge when judging whether a unit was there throughout (as growth's like-for-like). */
-export function unitPresenceTolerance(w: DateWindow): number {
-  const days = Math.round((Date.parse(w.end) - Date.parse(w.start)) / 86_400_000);
-  return Math.min(31, Math.max(1, Math.floor(days / 12)));
-}
-
-/** Each unit's first and last day in the window, against the window's own first and last day with data. */
+/**
+ * Each unit's first and last day in the window, against the window's own first and last day with
+ * data; it is there throughout unless silent at an edge beyond chance for its own rhythm (the rule
+ * of growth's like-for-like, analysis/presence.ts).
+ */
 function unitLives(q: QueryBuilder, ctx: CompileContext, sq: SubQuestion, group: ComparisonGroup, unit: Dimension, window: DateWindow): string {
   const day = localDateExpr(q, ctx);
   const col = q.ident(unit.column);
-  const tolerance = `CAST(${q.bind(unitPresenceTolerance(window))} AS INTEGER)`;
+  const tolerance = `CAST(${q.bind(presenceToleranceDays(window))} AS INTEGER)`;
+  const life = { first: 'tc_first', last: 'tc_last', activeMonths: 'tc_active_months' };
+  const lived = { first: `tc_life.${life.first}`, last: `tc_life.${life.last}`, activeMonths: `tc_life.${life.activeMonths}` };
   return `SELECT tc_life.tc_unit, tc_life.tc_member, tc_life.tc_first, tc_life.tc_last,
-    (tc_life.tc_first <= tc_edges.tc_lo + ${tolerance} AND tc_life.tc_last >= tc_edges.tc_hi - ${tolerance}) AS tc_through
+    NOT (COALESCE(${silentBeyondChanceSql(lived, 'tc_edges.tc_lo', 'start', tolerance)}, FALSE)
+      OR COALESCE(${silentBeyondChanceSql(lived, 'tc_edges.tc_hi', 'end', tolerance)}, FALSE)) AS tc_through
   FROM (
-    SELECT ${col} AS tc_unit, ${memberFlag(q, group)} AS tc_member, MIN(${day}) AS tc_first, MAX(${day}) AS tc_last
+    SELECT ${col} AS tc_unit, ${memberFlag(q, group)} AS tc_member, ${lifeColumnsSql(day, life)}
     FROM ${tableRef(q, ctx)}
     WHERE ${whereClause(q, ctx, window, sq.filters)}
       AND ${groupKnown(q, group)}

@@ -14,7 +14,7 @@ import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import type { BarsSpec } from '../../../analysis/charts/spec.js';
 import type { GrowthDriversFinding } from '../../../analysis/findings/growth.js';
 import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
-import { presenceToleranceDays } from '../../../analysis/templates/growth-compare.js';
+import { presenceToleranceDays } from '../../../analysis/presence.js';
 import type { SubQuestion } from '../../../analysis/types.js';
 import { openWorkspace, type Workspace } from '../../../analysis/workspace.js';
 import { loadConfig } from '../../../config/load.js';
