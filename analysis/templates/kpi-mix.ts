@@ -4,7 +4,7 @@
 // so its mix is the split of what it is measured per (fare per passenger: passengers).
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import { groupableDimension, metricByName, plainCountMetric } from '../catalog.js';
-import { measureSql, rowCountSql, tableRef } from '../compile-context.js';
+import { rowCountSql, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type { KpiMixFinding, KpiMixRow, SegmentKey } from '../findings/kpi.js';
 import { nextPeriod } from '../periods.js';
@@ -12,7 +12,7 @@ import { QueryBuilder } from '../sql/query-builder.js';
 import { concentration } from '../stats/index.js';
 import type { Caveat, CellValue, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
 import { coveredInFull, type KpiCompileContext, latestCandidates, resolvedLatest, sameLastYear } from './kpi-periods.js';
-import { EMPTY_TABLE, numberOrNull, periodExpr, periodsWhere } from './kpi-sql.js';
+import { EMPTY_TABLE, numberOrNull, periodExpr, periodsScope, periodsWhere } from './kpi-sql.js';
 import { complementaryFoldCtes, minGroupSize, suppressedSegmentsCaveat } from './small-groups.js';
 import type { Reading, Template } from './template.js';
 
@@ -51,15 +51,19 @@ export function compileKpiMix(sq: SubQuestion, ctx: KpiCompileContext): Compiled
     const ly = sameLastYear(c, sq.grain);
     if (ly) periods.add(ly);
   }
+  // The periods' dates in WHERE and the filters inside each aggregate (periodScope, as
+  // kpi_by_segment): a period with rows but none matching keeps its rows at 0, so it reads as an
+  // empty period, not as a gap in the data; segments with no matching row are dropped on reading.
+  const scope = periodsScope(q, ctx, [...periods], sq.grain, sq.filters);
   const measures: string[] = [];
   for (const name of sq.metrics) {
     const metric = metricByName(ds, name);
     const base = mixMeasure(ds, metric);
-    measures.push(`  ${measureSql(q, ctx, metric)} AS ${q.ident(name)}`);
-    measures.push(`  ${base ? measureSql(q, ctx, base) : ctx.dialect.toDouble(rowCountSql(q, ctx))} AS ${q.ident(baseAlias(name))}`);
+    measures.push(`  ${scope.measure(metric)} AS ${q.ident(name)}`);
+    measures.push(`  ${base ? scope.measure(base) : ctx.dialect.toDouble(scope.rowCount())} AS ${q.ident(baseAlias(name))}`);
   }
   const period = periodExpr(q, ctx, sq.grain);
-  const where = periodsWhere(q, ctx, [...periods], sq.grain, sq.filters);
+  const where = scope.where;
   const min = minGroupSize(ds);
   if (min !== null) {
     // A segment with fewer rows than the minimum in either period (where it has rows at all) joins
@@ -96,8 +100,8 @@ SELECT ${period} AS period,
   CASE WHEN tc_mix_folded THEN NULL ELSE ${seg} END AS segment,
   tc_mix_folded AS other,
 ${measures.join(',\n')},
-  ${ctx.dialect.toDouble(rowCountSql(q, ctx))} AS row_count,
-  ${ctx.dialect.toDouble(`COUNT(DISTINCT ${seg})`)} AS segment_count,
+  ${ctx.dialect.toDouble(scope.rowCount())} AS row_count,
+  ${ctx.dialect.toDouble(`COUNT(DISTINCT ${scope.onMatching(seg)})`)} AS segment_count,
   ${ctx.dialect.toDouble('MAX(tc_mix_small_count)')} AS small_segments,
   ${ctx.dialect.toDouble('MAX(tc_mix_complement_count)')} AS complement_segments
 FROM tc_mix_tagged
@@ -108,7 +112,7 @@ ORDER BY 1, 3, 2`);
   return q.finish(`SELECT ${period} AS period,
   ${q.ident(dim.column)} AS segment,
 ${measures.join(',\n')},
-  ${ctx.dialect.toDouble(rowCountSql(q, ctx))} AS row_count
+  ${ctx.dialect.toDouble(scope.rowCount())} AS row_count
 FROM ${tableRef(q, ctx)}
 WHERE ${where}
 GROUP BY 1, 2
@@ -127,7 +131,9 @@ export function readKpiMix(sq: SubQuestion, table: ResultTable, dataset: Dataset
   if (table.truncated) caveats.push({ code: 'truncated', data: { rows: table.rows.length } });
   const { latest, partial } = resolvedLatest(sq.window, sq.grain, coverage);
   if (partial) caveats.push({ code: 'partial_period_excluded', data: { ...partial, grain: sq.grain } });
-  const now = latest === null ? [] : table.rows.filter((r) => String(r.period) === latest);
+  // A segment with rows in a period but none that pass the brief's filters is not in that period's mix.
+  const matching = (r: Row) => (numberOrNull(r.row_count) ?? 0) > 0;
+  const now = latest === null ? [] : table.rows.filter((r) => String(r.period) === latest && matching(r));
   if (latest === null || now.length === 0) {
     caveats.push({ code: 'no_data', data: { start: latest ?? sq.window.start, end: latest ? nextPeriod(latest, sq.grain) : sq.window.end } });
     return { findings: [], caveats };
@@ -135,7 +141,7 @@ export function readKpiMix(sq: SubQuestion, table: ResultTable, dataset: Dataset
   const lyPeriod = sameLastYear(latest, sq.grain);
   // Without full data a year earlier there are no shares to compare; with it, a segment absent then had a share of zero.
   const lyUsable = lyPeriod !== null && coveredInFull(lyPeriod, sq.grain, coverage);
-  const then = lyUsable ? table.rows.filter((r) => String(r.period) === lyPeriod) : [];
+  const then = lyUsable ? table.rows.filter((r) => String(r.period) === lyPeriod && matching(r)) : [];
   const findings: Finding[] = [];
   for (const name of sq.metrics) {
     const metric = metricByName(dataset, name);
