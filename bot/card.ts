@@ -268,9 +268,12 @@ function restate(q: Question, ds: DatasetConfig, ctx: CardContext): string {
   const ranked = q.ranking ? ds.dimensions.find((x) => x.name === q.dimensions[0]) : undefined;
   if (ranked && (q.kind === 'trend' || q.kind === 'kpi')) {
     const when = w ? `, ${w}` : q.kind === 'kpi' ? ' in the latest complete period' : '';
-    if (q.rankLimit) return `The top ${q.rankLimit} ${dimensionPlural(ranked)} by ${what}${only}${when}.`;
-    const most = q.metrics.every((x) => { const metric = ds.metrics.find((y) => y.name === x); return metric ? isAdditive(metric) : true; }) ? 'the most' : 'the highest';
-    return `Which ${inSentence(ranked.label)} has ${most} ${what}${only}${when}.`;
+    const additive = q.metrics.every((x) => { const metric = ds.metrics.find((y) => y.name === x); return metric ? isAdditive(metric) : true; });
+    // The order asked, in the words of the measure: "the fewest strikes", "the least cost", "the lowest delay", "the worst late share".
+    const counted = q.metrics.every((x) => ds.metrics.find((y) => y.name === x)?.unit === 'count');
+    const order = q.rankOrder === 'lowest' ? (additive ? (counted ? 'fewest' : 'least') : 'lowest') : q.rankOrder === 'highest' ? (additive ? 'most' : 'highest') : q.rankOrder;
+    if (q.rankLimit) return order && order !== 'most' ? `The ${q.rankLimit} ${dimensionPlural(ranked)} with the ${order} ${what}${only}${when}.` : `The top ${q.rankLimit} ${dimensionPlural(ranked)} by ${what}${only}${when}.`;
+    return `Which ${inSentence(ranked.label)} has the ${order ?? (additive ? 'most' : 'highest')} ${what}${only}${when}.`;
   }
   switch (q.kind) {
     case 'growth':

@@ -3,7 +3,7 @@
 // plan edit) looks words up here, so a phrase that works in one works in all. Data terms come
 // from each dataset's catalog and values, never from here.
 import { GRAIN_WORDS } from '../../analysis/grains.js';
-import { AUDIENCES, type Audience, GRAINS, type Grain } from '../../analysis/types.js';
+import { AUDIENCES, type Audience, GRAINS, type Grain, type RankOrder } from '../../analysis/types.js';
 
 export { GRAIN_WORDS } from '../../analysis/grains.js';
 
@@ -188,7 +188,7 @@ export const ORDINARY = new Set(
   read ready report reporting reports request review see send share show showing slide slides sort stats summary summarise summarize table tables team tell thinking thought time today tomorrow understand update
   view want wanted wants week weeks wondering work working write yesterday year years month months quarter quarters day days half period periods date dates season
   trend trends trending growth grow growing grown grew change changes changed changing rate rates ratio share shares mix split pattern patterns seasonal seasonality
-  top bottom best worst highest lowest biggest smallest largest most least average averages avg mean median typical total totals overall sum count counts volume volumes level levels
+  top bottom best worst highest lowest biggest smallest largest most least fewest fewer average averages avg mean median typical total totals overall sum count counts volume volumes level levels
   up down higher lower more less increase decrease rise fall drop dip jump peak peaks trough busy busiest quiet quietest slow slowest fast faster slower strong weak
   vs versus against compared since until through between across within per each every both either whole full complete partial entire so far recent recently currently current now
   doing going looking performing perform performed performance move moved moving moves movement movements happen happened happening go went gone
@@ -248,8 +248,20 @@ export const BREAKDOWN_WH = /(?:\bwhich|\bwhat)\s+$/;
  * airports", "rank operators by repair cost"): a superlative of amount or a word of rank. Read only
  * where the clause names a breakdown. "most recent", "at most", "mostly" are not rankings.
  */
-export const RANK_WORDS = /\b(?:most|highest|biggest|largest|greatest|top|worst|best|least|lowest|fewest|smallest|busiest|quietest|costliest|priciest|dearest|leading|rank(?:ed|ing|s)?|league\s+table)\b(?!\s+(?:recent|recently|of\s+(?:the\s+)?(?:time|it|them)))/;
-export const NOT_RANK = /\b(?:at\s+(?:the\s+)?most|on\s+top\s+of|at\s+least|top\s+up|best\s+regards|all\s+the\s+best)\b/g;
+export const RANK_WORDS = /\b(?:most|highest|biggest|largest|greatest|top|bottom|worst|best|least|lowest|fewest|smallest|busiest|quietest|cheapest|costliest|priciest|dearest|leading|rank(?:ed|ing|s)?|league\s+table)\b(?!\s+(?:recent|recently|of\s+(?:the\s+)?(?:time|it|them)))/;
+export const NOT_RANK = /\b(?:at\s+(?:the\s+)?most|on\s+top\s+of|at\s+least|top\s+up|bottom\s+line|best\s+regards|all\s+the\s+best)\b/g;
+
+/**
+ * The order a ranking's word asks for: the smallest first ("the fewest strikes", "least cost",
+ * "bottom 5", "the quietest airports"), by the metric's direction ("worst", "best"), the largest
+ * value first ("highest"), or none: "most", "top", "biggest" rank by size, the plain ranking.
+ */
+export function rankOrderOf(word: string): RankOrder | undefined {
+  const w = word.toLowerCase();
+  if (/^(?:fewest|least|lowest|smallest|bottom|quietest|cheapest)$/.test(w)) return 'lowest';
+  if (w === 'worst' || w === 'best' || w === 'highest') return w;
+  return undefined;
+}
 /** Asks which segment: "which X", "what X", "who", or a rank list ("top 5", "bottom 3", "rank X by"). */
 export const RANK_ASK = /\b(?:which|what|who|whose)\b|\b(?:top|bottom)\s+(?:\d{1,2}|three|five|ten)\b|\brank\w*\b|\bleague\s+table\b/;
 

@@ -27,6 +27,7 @@ import {
   OVERALL,
   RANK_ASK,
   RANK_WORDS,
+  rankOrderOf,
   REFINES_PREVIOUS,
   ROLE_WORDS,
   SEASON_ASK,
@@ -40,7 +41,7 @@ import { overlaps, RequestText, type Span } from './text.js';
 import { findUnknownTerms } from './unknown-words.js';
 import { mendCalendarWords } from './spelling.js';
 import { COUNTING } from './metric-ranking.js';
-import { AUDIENCES, GRAINS, RANK_ORDERS } from '../../analysis/types.js';
+import { AUDIENCES, GRAINS } from '../../analysis/types.js';
 
 /** What the reader knows about a dataset's data. */
 export interface DatasetFacts {
@@ -522,6 +523,7 @@ function mergeInto(q: Question, r: ClauseReading, st: ReadState): void {
   // "…by phase of flight. Which phase costs us the most?": the ranking is what the question asks.
   if (r.ranking && q.dimensions.length > 0 && (q.kind === 'trend' || q.kind === 'kpi')) q.ranking = true;
   if (r.rankLimit && !q.rankLimit) q.rankLimit = r.rankLimit;
+  if (r.rankOrder && !q.rankOrder) q.rankOrder = r.rankOrder;
 }
 
 /** A share of a whole: "what share of all flights", "what percentage of the total", "how much of the total". */
@@ -532,11 +534,15 @@ const SHARE_OF_TOTAL = /\b(?:share|percentage|proportion|percent|fraction|portio
  * of rank beside a "which", a "top N", a "rank", or right before the breakdown's noun ("the busiest
  * origin airports"). A superlative of time ("the busiest months") asks about the calendar instead.
  */
-function asksRanking(t: string, dims: readonly string[]): boolean {
+function asksRanking(t: string, dims: readonly string[]): string | undefined {
   // "which months are busiest, by phase": the superlative is the calendar's.
-  if (dims.length === 0 || /\b(?:which|what)\s+(?:(?:time|part)\s+of\s+(?:the\s+)?)?(?:days?|weeks?|months?|quarters?|years?|seasons?|weekdays?|hours?)\b/.test(t)) return false;
+  if (dims.length === 0 || /\b(?:which|what)\s+(?:(?:time|part)\s+of\s+(?:the\s+)?)?(?:days?|weeks?|months?|quarters?|years?|seasons?|weekdays?|hours?)\b/.test(t)) return undefined;
   const text = t.replace(NOT_RANK, ' ').replace(new RegExp(`${RANK_WORDS.source}(?:\\s+(?:and|or|&)\\s+\\w+)?\\s+(?:the\\s+)?(?:days?|weeks?|months?|quarters?|years?|periods?|seasons?|times?|hours?|weekdays?)\\b`, 'g'), ' ');
-  return RANK_WORDS.test(text) && (RANK_ASK.test(text) || /\b(?:top|bottom|biggest|largest|busiest|quietest|leading|costliest|worst|best|most|fewest|least|highest|lowest|smallest)\s+(?:\d{1,2}\b|\p{L})/u.test(text));
+  // The word that says an order ("top 5 with the fewest") before one that only ranks.
+  const words = [...text.matchAll(new RegExp(RANK_WORDS.source, 'g'))].map((m) => m[0]);
+  if (words.length === 0) return undefined;
+  const word = words.find((w) => rankOrderOf(w) !== undefined) ?? words[0]!;
+  return RANK_ASK.test(text) || /\b(?:top|bottom|biggest|largest|busiest|quietest|cheapest|leading|costliest|worst|best|most|fewest|least|highest|lowest|smallest)\s+(?:\d{1,2}\b|\p{L})/u.test(text) ? word : undefined;
 }
 
 function toQuestion(r: ClauseReading, st: ReadState, previous: Question | undefined, pending: ClauseReading | null): Question {
@@ -728,8 +734,11 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
     asksGrain: st.grainSpans.some(inside),
   });
   // "top 5 routes", "worst 10", "the 5 busiest origins", "the three biggest operators": [words, the superlative, how many].
-  const topMatch = /\b(top|bottom|best|worst|biggest|largest|smallest|highest|lowest|busiest|quietest)\s+(\d{1,2}|three|five|ten)\b|\b(?:the|our|those|these)\s+(\d{1,2}|three|five|ten)\s+(busiest|biggest|largest|leading|smallest|quietest|costliest|most|highest|lowest|worst|best|top)\b/.exec(t);
-  const top = topMatch ? [topMatch[0], topMatch[1] ?? topMatch[4], topMatch[2] ?? topMatch[3]] : null;
+  // "the 10 airports with the fewest strikes": the number before the breakdown, the superlative after it.
+  const topMatch = /\b(top|bottom|best|worst|biggest|largest|smallest|highest|lowest|busiest|quietest)\s+(\d{1,2}|three|five|ten)\b|\b(?:the|our|those|these)\s+(\d{1,2}|three|five|ten)\s+(busiest|biggest|largest|leading|smallest|quietest|costliest|most|highest|lowest|worst|best|top)\b|\b(?:the|our|those|these)\s+(\d{1,2}|three|five|ten)\s+(?:[\p{L}'-]+\s+){1,4}?(?:with|having|that\s+(?:had|have|has|saw|see))\s+the\s+(most|fewest|least|highest|lowest|biggest|largest|smallest|worst|best)\b/u.exec(t);
+  const top = topMatch ? [topMatch[0], topMatch[1] ?? topMatch[4] ?? topMatch[6], topMatch[2] ?? topMatch[3] ?? topMatch[5]] : null;
+  // The word that asks for a ranking ("which airports had the fewest strikes") says its order.
+  const rankWord = asksRanking(t, dims);
   const rate = /\bper\s+(decade|year|annum)\b|\b(?:a|each)\s+(decade|year)\b(?=.{0,30}$)/.exec(t);
   const hasRateCue = rate && /\bhow\s+(?:fast|quickly|much)|\brate\b|\bper\s+decade\b|\ba\s+decade\b|\brising|\bfalling|\bincreas|\bdecreas|\bgrow|\bchang/.test(t);
   const reading: ClauseReading = {
@@ -744,7 +753,7 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
     frequency: FREQUENCY.test(clause.text) && (group !== undefined || /\bcustomers?\b|\busers?\b|\bmembers?\b|\bclients?\b|\bpeople\b/.test(t)),
     pronoun: /\b(?:it|its|that|this|they|them|their|those|these|same|either|both)\b/.test(t.replace(/\b(?:this|that)\s+(?:year|month|week|quarter|summer|winter|spring|autumn|season|time)\b/g, '')) && metrics.length === 0,
     refines: REFINES_PREVIOUS.test(clause.text) && metrics.length === 0 && !group,
-    ranking: asksRanking(t, dims),
+    ranking: rankWord !== undefined,
     perDay: /\b(?:per|a|each)\s+day\b|\bdaily\s+(?:average|rate|mean)\b|\bper-day\b/.test(t) && (new RegExp(CALENDAR_MONTHS.source, 'u').test(t) || GRAINS.some((g) => g !== 'day' && new RegExp(`\\b(?:${GRAIN_WORDS[g].adjective}|by ${g}|per ${g}|each ${g}|${g} by ${g})\\b`).test(t))),
     table: /\b(?:the\s+)?(?:numbers|figures|kpis|metrics|stats)\s+(?:by|per|for each|each)\s+(?:month|week|quarter|day|year)\b|\bside\s+by\s+side\b|\b(?:as\s+a|in\s+a|one)\s+table\b|\bmonthly\s+table\b|\btable\s+of\b/.test(t),
     refersBack: /^\s*(?:and\s+|also\s+|second(?:ly)?,?\s+|then\s+)?(?:how\s+(?:does|do|did)\s+(?:that|it|this|they|those)\s+compare|(?:is|was|were|are)\s+(?:it|that|this|they)\b|which\s+\w+\s+(?:drove|took|caused|explain))/.test(t),
@@ -761,7 +770,9 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
   }
   if (top) reading.rankLimit = /^\d+$/.test(top[2]!) ? Number(top[2]) : { three: 3, five: 5, ten: 10 }[top[2] as 'three' | 'five' | 'ten'];
   // "worst 10", "lowest 5" rank by the metric's value; "top", "largest" keep ranking by size.
-  if (top && RANK_ORDERS.includes(top[1] as RankOrder)) reading.rankOrder = top[1] as RankOrder;
+  // "the fewest strikes", "bottom 5": the smallest first, with or without a number.
+  const order = rankOrderOf(top?.[1] ?? '') ?? (rankWord ? rankOrderOf(rankWord) : undefined);
+  if (order) reading.rankOrder = order;
   // "per year and per decade" asks for both; the decade is the wider statement (it carries the year's rate too).
   if (rate && hasRateCue) reading.rateUnit = (rate[1] ?? rate[2]) === 'decade' || /\b(?:per|a|each)\s+decade\b/.test(t) ? 'decade' : 'year';
   return reading;

@@ -76,6 +76,35 @@ describe('"which X … the most Y" is a ranking of X by Y, and its answer heads 
   });
 });
 
+describe('"the fewest", "the least", "bottom N": a ranking from the smallest, and the card says so', () => {
+  it.each([
+    ['Which airports had the fewest strikes?', 'airport_name', 'strikes', null, /^Which airport has the fewest strikes/],
+    ['which airports have the least strikes', 'airport_name', 'strikes', null, /^Which airport has the fewest strikes/],
+    ['bottom 5 airports by strikes pls', 'airport_name', 'strikes', 5, /^The 5 airports with the fewest strikes/],
+    ['the 10 airports with the fewest strikes', 'airport_name', 'strikes', 10, /^The 10 airports with the fewest strikes/],
+    ['Which phase of flight has the lowest repair cost?', 'phase_of_flight', 'cost_repair', null, /^Which phase of flight has the least repair cost/],
+    ['which species are the cheapest in repairs', 'wildlife_species', 'cost_repair', null, /^Which species has the least repair cost/],
+    ['Could you list the states with the smallest number of strikes, please?', 'origin_state', 'strikes', null, /^Which state has the fewest strikes/],
+  ] as const)('%s', (text, dimension, metric, limit, said) => {
+    const b = read(strikes, text);
+    expect(b.questions).toHaveLength(1);
+    const q = b.questions[0]!;
+    expect(q).toMatchObject({ ranking: true, rankOrder: 'lowest', dimensions: [dimension], metrics: [metric] });
+    if (limit) expect(q.rankLimit).toBe(limit);
+    // "fewest" is ordinary wording, never a value to look for.
+    expect(b.unknownTerms).toEqual([]);
+    const plan = planOf(strikes, b);
+    expect(plan.items[0]).toMatchObject({ template: 'segment_shares', dimension, rankOrder: 'lowest', answersAsked: true });
+    const card = buildCard(withDefaults(b, briefDefaults(b, strikes.dataset, strikes.coverage)), plan, cardContext(strikes, b));
+    expect(card.questions[0]).toMatch(said);
+    expect(card.questions[0]).not.toMatch(/\b(?:most|top|highest)\b/);
+  });
+
+  it.each(['top 5 airports by strikes', 'which airport has the most strikes', 'what is the bottom line on strikes by state'])('no order from the smallest: %s', (text) => {
+    expect(read(strikes, text).questions[0]!.rankOrder).toBeUndefined();
+  });
+});
+
 describe('"top N … and what share of all Y do they handle": the share the top N carry, not a rate of the catalog', () => {
   it.each([
     ['top 5 busiest origin airports by number of flights, and what share of all flights do they handle?', 5, 'origin'],
