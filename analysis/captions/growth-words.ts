@@ -130,6 +130,15 @@ export function growthNotes(answer: Answer, locale: string, dataset: DatasetConf
   return [...new Set(answer.caveats.map((c) => growthNote(c, locale, dimension, dataset)))];
 }
 
+/**
+ * The earlier span a new-or-gone note names: "a year earlier" when it is the same dates a year
+ * before (or the caveat does not say), else the span itself ("in February 2015").
+ */
+function earlierText(d: Caveat['data'], locale: string): string {
+  if (d.yearEarlier !== false || typeof d.earlierStart !== 'string' || typeof d.earlierEnd !== 'string') return 'a year earlier';
+  return `in ${spanText({ start: d.earlierStart, end: d.earlierEnd }, locale)}`;
+}
+
 export function growthNote(c: Caveat, locale: string, dimension: string, dataset: DatasetConfig): string {
   const d = c.data;
   const day = (v: unknown) => (typeof v === 'string' ? formatPeriod(v, 'day', locale, 'long') : 'n/a');
@@ -147,13 +156,18 @@ export function growthNote(c: Caveat, locale: string, dimension: string, dataset
       }
       break;
     case 'no_data':
-      if (d.window === 'prior') return `There is no data for the same dates a year earlier (${spanText({ start: String(d.start), end: String(d.end) }, locale)}), so there is nothing to compare with.`;
+      if (d.window === 'prior') {
+        const span = spanText({ start: String(d.start), end: String(d.end) }, locale);
+        return d.yearEarlier === false
+          ? `There is no data for the earlier period, ${span}, so there is nothing to compare with.`
+          : `There is no data for the same dates a year earlier (${span}), so there is nothing to compare with.`;
+      }
       if (d.window === 'current') return 'There is no data in the window asked for, only in the year before.';
       break;
     case 'late_segment':
-      return `${seg(d.segment)} has no data a year earlier; it first appears on ${day(d.firstPeriod)}, so it counts as zero in the earlier window.`;
+      return `${seg(d.segment)} has no data ${earlierText(d, locale)}; it first appears on ${day(d.firstPeriod)}, so it counts as zero in the earlier window.`;
     case 'segment_gap':
-      if (d.window === 'current') return `${seg(d.segment)} had data a year earlier but none in the window asked for.`;
+      if (d.window === 'current') return `${seg(d.segment)} had data ${earlierText(d, locale)} but none in the window asked for.`;
       if (typeof d.periods === 'number' && typeof d.firstGap === 'string') break;
       return `${seg(d.segment)} has no data for part of the window.`;
     case 'series_gap':

@@ -405,7 +405,7 @@ export function readWindowComparison(asked: SubQuestion, table: ResultTable, cov
   // Dates a year before the data starts cut the current span away too; say it is the year earlier that is missing.
   const priorUncovered = coverage.firstDate !== null && prior.end <= coverage.firstDate && sq.window.end > coverage.firstDate;
   if (priorUncovered || (priorRows === 0 && currentRows > 0)) {
-    caveats.push({ code: 'no_data', data: { start: prior.start, end: prior.end, window: 'prior' } });
+    caveats.push({ code: 'no_data', data: { start: prior.start, end: prior.end, window: 'prior', yearEarlier: addMonths(sq.window.start, -12) === prior.start } });
   } else if (empty) caveats.push({ code: 'no_data', data: { start: sq.window.start, end: sq.window.end } });
   else if (currentRows === 0) caveats.push({ code: 'no_data', data: { start: sq.window.start, end: sq.window.end, window: 'current' } });
   return { current, prior: before, currentSpan, priorSpan, caveats, empty, smallSegments, complementSegments, changed: [...changed.values()] };
@@ -436,15 +436,23 @@ export function segmentPresenceCaveats(cmp: WindowComparison): Caveat[] {
   for (const [key, row] of cmp.current.segments) {
     const c = changed.get(key);
     if (!cmp.prior.segments.has(key) && c?.opened) {
-      out.push({ code: 'late_segment', data: { segment: key, firstPeriod: c.firstDay ?? row.firstDay ?? cmp.currentSpan.start, grain: 'day' } });
+      out.push({ code: 'late_segment', data: { segment: key, firstPeriod: c.firstDay ?? row.firstDay ?? cmp.currentSpan.start, grain: 'day', ...earlierSpanData(cmp.currentSpan, cmp.priorSpan) } });
     }
   }
   for (const key of cmp.prior.segments.keys()) {
     if (!cmp.current.segments.has(key) && changed.get(key)?.closed) {
-      out.push({ code: 'segment_gap', data: { segment: key, periods: 1, firstGap: cmp.currentSpan.start, grain: 'day', window: 'current' } });
+      out.push({ code: 'segment_gap', data: { segment: key, periods: 1, firstGap: cmp.currentSpan.start, grain: 'day', window: 'current', ...earlierSpanData(cmp.currentSpan, cmp.priorSpan) } });
     }
   }
   return out;
+}
+
+/**
+ * The earlier span a note about a segment new or gone names: its dates, and whether it is the same
+ * dates a year earlier (said so) or another period the request named ("February 2015").
+ */
+export function earlierSpanData(current: DateWindow, prior: DateWindow): { earlierStart: string; earlierEnd: string; yearEarlier: boolean } {
+  return { earlierStart: prior.start, earlierEnd: prior.end, yearEarlier: addMonths(current.start, -12) === prior.start };
 }
 
 /** How many segments the small-group fold holds (over both sides, complements included), 0 when there is none. */

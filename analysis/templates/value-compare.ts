@@ -13,7 +13,7 @@ import { addDays, nextPeriod, periodStart, parseIsoDate } from '../periods.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import { logRatio, logShift } from '../stats/log-shift.js';
 import type { Caveat, CellValue, DateWindow, Finding, Grain, NamedQuery, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
-import { askedPrior, comparisonWindow as nonOverlapping, priorWindow } from './growth-compare.js';
+import { askedPrior, comparisonWindow as nonOverlapping, earlierSpanData, priorWindow } from './growth-compare.js';
 import { CONFIDENCE, EMPTY_TABLE } from './performance-common.js';
 import { cellFromRow, measureColumns, measureShape, planMeasure, type MeasurePlan } from './performance-measure.js';
 import { type Cell, cellEstimate, compareCells, poolCells } from './performance-stats.js';
@@ -353,8 +353,10 @@ export function readValueCompare(sq: SubQuestion, tables: Record<string, ResultT
   const findings: Finding[] = [finding, ...seriesFindings(sq, tables.series ?? EMPTY_TABLE, spans, coverage, metric)];
   if (a.rowsCurrent + a.rowsPrior + b.rowsCurrent + b.rowsPrior === 0) caveats.push({ code: 'no_data', data: { start: spans.prior.start, end: spans.current.end } });
   for (const s of [a, b]) {
-    if (s.rowsPrior === 0 && s.rowsCurrent > 0) caveats.push({ code: 'late_segment', data: { segment: s.value, firstPeriod: firstDay(days, s.value) ?? spans.current.start, grain: 'day' } });
-    if (s.rowsCurrent === 0 && s.rowsPrior > 0) caveats.push({ code: 'segment_gap', data: { segment: s.value, periods: 1, firstGap: spans.current.start, grain: 'day', window: 'current' } });
+    if (s.rowsPrior === 0 && s.rowsCurrent > 0) caveats.push({ code: 'late_segment', data: { segment: s.value, firstPeriod: firstDay(days, s.value) ?? spans.current.start, grain: 'day', ...earlierSpanData(spans.current, spans.prior) } });
+    if (s.rowsCurrent === 0 && s.rowsPrior > 0) {
+      caveats.push({ code: 'segment_gap', data: { segment: s.value, periods: 1, firstGap: spans.current.start, grain: 'day', window: 'current', ...earlierSpanData(spans.current, spans.prior) } });
+    }
   }
   return { findings, caveats };
 }

@@ -120,6 +120,25 @@ describe('like for like is judged on the whole table', () => {
     expect(f.likeForLike!.after).toBe(Number(t.after));
   });
 
+  it('March 1995 against December 1994: the note on Denver (opened in March 1995) names December 1994, not "a year earlier"', async () => {
+    // Our SQL: Denver's first strike, its months with a strike (73 of the 89 from March 1995 to July
+    // 2002), and none in December 1994. Silent for 3 months from the first strike of December 1994:
+    // (1 - 72/88)^3 = 0.006, below 1% (analysis/presence.ts).
+    const t = await one(`SELECT CAST(MIN("Flight Date") AS VARCHAR) AS first, COUNT(DISTINCT date_trunc('month', "Flight Date")) AS months,
+        date_diff('month', date_trunc('month', MIN("Flight Date")), date_trunc('month', MAX("Flight Date"))) + 1 AS life,
+        COUNT(*) FILTER (WHERE "Flight Date" >= DATE '1994-12-01' AND "Flight Date" < DATE '1995-01-01') AS dec_1994
+      FROM strikes WHERE "Airport Name" = 'DENVER INTL AIRPORT'`);
+    expect([t.first, Number(t.months), Number(t.life), Number(t.dec_1994)]).toEqual(['1995-03-24', 73, 89, 0]);
+    expect((1 - 72 / 88) ** 3).toBeLessThan(0.01);
+    const answer = await answerSubQuestion(drivers({ start: '1995-03-01', end: '1995-04-01' }, { start: '1994-12-01', end: '1995-01-01' }), ws);
+    const f = answer.findings.find((x): x is GrowthDriversFinding => x.type === 'growth_drivers')!;
+    expect(f.likeForLike!.excluded.map((c) => [c.segment, c.opened, c.closed])).toEqual([['DENVER INTL AIRPORT', true, false]]);
+    const shown = SUB_QUESTIONS.growth_drivers.present(answer, { dataset: ws.dataset, locale: 'en-GB', audience: 'managers', chart: { width: 1200, height: 675, scale: 1 }, dataAsOf: ws.coverage.lastDate });
+    const note = shown.notes.find((n) => n.includes('DENVER'));
+    expect(note).toBe('DENVER INTL AIRPORT has no data in Dec 1994; it first appears on 24 March 1995, so it counts as zero in the earlier window.');
+    expect(shown.notes.join(' ')).not.toMatch(/a year earlier/);
+  });
+
   it('an average: an airport without strikes in one span is not opened or closed, and has no change to show', async () => {
     const answer = await answerSubQuestion(drivers(Q1_2001, Q1_2000, 'speed'), ws);
     const f = answer.findings.find((x): x is GrowthDriversFinding => x.type === 'growth_drivers')!;
