@@ -120,13 +120,16 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
   });
   lines.push(periodLine(brief, ctx));
   const dims = [...new Set(brief.questions.flatMap((q) => q.dimensions))];
-  const breakdown = dims.length === 0 ? ctx.defaults.breakdown : undefined;
-  const inForce = dims.length > 0 ? dims : breakdown ? [breakdown.value] : [];
+  // Two values set against each other ("Night vs day") are answered through their breakdown: it is in force, and read.
+  const contrasted = [...new Map(brief.questions.flatMap((q) => (q.contrast && !dims.includes(q.contrast.dimension) ? [[q.contrast.dimension, q.contrast] as const] : []))).values()];
+  const breakdown = dims.length === 0 && contrasted.length === 0 ? ctx.defaults.breakdown : undefined;
+  const inForce = dims.length > 0 || contrasted.length > 0 ? [...dims, ...contrasted.map((c) => c.dimension)] : breakdown ? [breakdown.value] : [];
+  const said = [...dims.map(dimLabel), ...contrasted.map((c) => `${dimLabel(c.dimension)} (${c.values.join(' against ')})`)];
   lines.push({
     topic: 'breakdowns',
     label: 'Breakdowns',
-    value: dims.length > 0 ? dims.map(dimLabel).join(', ') : breakdown ? `${dimLabel(breakdown.value)} (assumed)` : 'none',
-    ...(dims.length > 0 ? read(ev.dimensions) : breakdown ? { how: 'assumed' as const, reason: breakdown.reason } : { how: 'assumed' as const, reason: 'none asked' }),
+    value: said.length > 0 ? said.join(', ') : breakdown ? `${dimLabel(breakdown.value)} (assumed)` : 'none',
+    ...(dims.length > 0 ? read(ev.dimensions) : contrasted.length > 0 ? read(ev.filters) : breakdown ? { how: 'assumed' as const, reason: breakdown.reason } : { how: 'assumed' as const, reason: 'none asked' }),
     control: breakdownControl(ds, inForce.map(dimLabel)),
   });
   const filters = brief.questions.flatMap((q) => q.filters);

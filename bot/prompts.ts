@@ -12,7 +12,7 @@ import { distance } from 'fastest-levenshtein';
 import { fullWindow, readDeadlineAnswer, readWindowAnswer } from './reading/answers.js';
 import { saysAsap } from './reading/deadline.js';
 import { ACCEPT_DEFAULT, AUDIENCE_LABELS, audienceNamedBy, GRAIN_WORDS, grainNamedBy } from './reading/lexicon.js';
-import { type DatasetFacts, readRequest, rowCountMetric } from './reading/read-request.js';
+import { type DatasetFacts, isOutsideDataNote, readRequest, rowCountMetric } from './reading/read-request.js';
 import { phraseWords } from './reading/text.js';
 import { COUNTING, rankMetrics } from './reading/metric-ranking.js';
 
@@ -111,7 +111,7 @@ function windowPrompt(brief: Brief, ctx: PromptContext): Prompt {
     const lastMonth = addMonths(periodStart(full.end, 'month'), -1);
     options.push({ value: `${twelveStart.slice(0, 7)} to ${lastMonth.slice(0, 7)}`, label: `The last 12 full months of the data (${formatPeriod(twelveStart, 'month', ctx.locale)} to ${formatPeriod(lastMonth, 'month', ctx.locale)})` });
   }
-  const outside = (brief.saidBack ?? []).filter((l) => /nothing to answer for it/.test(l));
+  const outside = (brief.saidBack ?? []).filter(isOutsideDataNote);
   const question = `${outside.length > 0 ? `${outside.join(' ')} ` : ''}Which period should I use instead? Choose one, or name a period inside the data.`;
   // "this year vs last year" after data that ended years ago: the same periods counted back from
   // the data's end, as the card says relative periods are, recommended first.
@@ -356,7 +356,9 @@ function readAnswerInto(prompt: Prompt, text: string, brief: Brief, ctx: PromptC
       if (!w.ok) return w;
       // The period chosen is every question's that lost its own to a period outside the data.
       const questions = brief.questions.map((q) => (q.window ? q : { ...q, window: w.value.window, ...(w.value.compareWindow ? { compareWindow: w.value.compareWindow } : {}) }));
-      return { ok: true, brief: { ...brief, questions, window: w.value.window, ...(w.value.compareWindow ? { compareWindow: w.value.compareWindow } : {}), toAsk: (brief.toAsk ?? []).filter((t) => t !== 'window') } };
+      // The periods outside the data were said in the question just answered; the card shows the answer instead.
+      const saidBack = (brief.saidBack ?? []).filter((l) => !isOutsideDataNote(l));
+      return { ok: true, brief: { ...brief, questions, window: w.value.window, ...(w.value.compareWindow ? { compareWindow: w.value.compareWindow } : {}), saidBack, toAsk: (brief.toAsk ?? []).filter((t) => t !== 'window') } };
     }
     case 'dataset': {
       // The bot reads this one itself (readDatasetAnswer): the brief waits for the dataset.

@@ -6,7 +6,7 @@ import { addDays } from '../../analysis/periods.js';
 import type { DateWindow } from '../../analysis/types.js';
 import { isValidDate } from './calendar.js';
 import { findDeadlines } from './deadline.js';
-import { type DatasetFacts, readRequest } from './read-request.js';
+import { type DatasetFacts, isOutsideDataNote, readRequest } from './read-request.js';
 import { RequestText } from './text.js';
 import { isoDateIn } from './time-zone.js';
 
@@ -35,7 +35,7 @@ export function readWindowAnswer(text: string, facts: DatasetFacts, now: Date): 
   const window = brief.window;
   if (!window) {
     // A period read but outside the data ("last year" on data that ended years ago): said as such.
-    const outside = (brief.saidBack ?? []).filter((l) => /nothing to answer for it/.test(l));
+    const outside = (brief.saidBack ?? []).filter(isOutsideDataNote);
     if (outside.length > 0) return { ok: false, message: `${outside.join(' ')} Pick a period inside it.` };
     return { ok: false, message: `I couldn't read "${clip(text)}" as a period. Try "all", "2024", "Q3 2024", "2023-04 to 2024-03", "since March 2023", "the last 12 months" or "this year vs last".` };
   }

@@ -325,6 +325,11 @@ function staleRelativePeriods(fullText: string, periods: readonly PeriodMention[
   return { notes, windows, words, units };
 }
 
+/** A say-back line that a period named lies outside the data (asked about, then settled by the answer). */
+export function isOutsideDataNote(line: string): boolean {
+  return /nothing to answer for it/.test(line);
+}
+
 /**
  * "The data runs from 2001 to 2017": the data's whole span in the words of its stamps (a yearly
  * stamp stands for its year, a monthly one for its month), as the window words say any window.

@@ -105,6 +105,24 @@ describe('a day no calendar has, and a period outside the data, are said back', 
   });
 });
 
+describe('a period outside the data, once a period is chosen instead, is no longer said on the card', () => {
+  it.each(["What was GOOG's price in February 2031?", 'how did prices this year compare with last year?'])('%s', async (text) => {
+    const { nextPrompt, readAnswer } = await import('../../bot/prompts.js');
+    const f = await publicFacts(STOCKS_CONFIG);
+    const ctx = { dataset: f.dataset, coverage: f.coverage, facts: f, now: NOW, locale: 'en-GB' };
+    const b = readRequest(text, f, { now: NOW });
+    // stocks.csv ends in March 2010: the period asked is outside it, said in the window prompt.
+    const prompt = nextPrompt(b, ctx)!;
+    expect(prompt.topic).toBe('window');
+    expect(prompt.question).toMatch(/is after it, so there is nothing to answer for it/);
+    const answered = readAnswer(prompt, '2009', b, ctx);
+    if (!answered.ok) throw new Error(answered.message);
+    expect(answered.brief.questions[0]!.window).toEqual({ start: '2009-01-01', end: '2010-01-01' });
+    // The card shows the period answered, not the period the prompt already said was outside the data.
+    expect(cardNotes(answered.brief, f.dataset).join(' ')).not.toMatch(/nothing to answer for it/);
+  });
+});
+
 describe('a word that looks like a value the reader cannot match never vanishes', () => {
   const brief = async (text: string) => readRequest(text, await publicFacts(STOCKS_CONFIG), { now: NOW });
 

@@ -161,6 +161,9 @@ describe('two values of one breakdown set against each other, with no change ask
     for (const [i, m] of q.metrics.entries()) expect(firsts[i]).toMatchObject({ template: 'segment_shares', dimension: 'time_of_day', metrics: [m], answersAsked: true });
     expect(items.map((i) => i.template)).not.toContain('value_compare');
     expect(items.map((i) => i.template)).not.toContain('period_table');
+    // The card's breakdown line says the two values' breakdown the answers go through, never "none".
+    const card = buildCard(withDefaults(b, briefDefaults(b, strikes.dataset, strikes.coverage)), planOf(strikes, b), cardContext(strikes, b));
+    expect(card.lines.find((l) => l.topic === 'breakdowns')).toMatchObject({ value: expect.stringMatching(/^Time of day \((?:Night against Day|Day against Night)\)$/), how: 'read' });
   });
 
   it.each([
