@@ -73,3 +73,17 @@ export function silentBeyondChanceSql(life: LifeColumns, edge: string, side: 'st
   return `(${to} - ${from} > ${tolerance} AND ${gapMonths} >= 1 AND ${life.activeMonths} >= 2
       AND POWER(1 - ${p}, CAST(${gapMonths} AS DOUBLE PRECISION)) < ${PRESENCE_ALPHA})`;
 }
+
+/**
+ * The calendar years (of those given, each with its count of months holding a row) that a segment
+ * was there throughout: a year with a row in every month, or any year between two years in which
+ * it has rows, since a sparse segment (a distributor with a few releases a year) has not entered
+ * or left in a year it is seen both before and after. A first or last year with empty months may
+ * be the one it entered or left in, so it counts only when every month has a row.
+ */
+export function yearsThroughout(years: readonly { year: number; monthsWithRows: number }[]): Set<number> {
+  const seen = years.filter((y) => y.monthsWithRows > 0).map((y) => y.year);
+  if (seen.length === 0) return new Set();
+  const [first, last] = [Math.min(...seen), Math.max(...seen)];
+  return new Set(years.filter((y) => y.monthsWithRows === 12 || (y.year > first && y.year < last)).map((y) => y.year));
+}

@@ -3,6 +3,7 @@
 // its first to its last full calendar year, and its peak; gaps and late starts become caveats.
 import type { SegmentTrendFinding, SegmentTrendOverviewFinding, SegmentYearGrowth } from '../findings/segments.js';
 import { addDays, nextPeriod } from '../periods.js';
+import { yearsThroughout } from '../presence.js';
 import { cagr, relativeChange, senSlope } from '../stats/index.js';
 import type { Caveat, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
 import { compileFoldedSegments, namedSegmentCount, segmentDimension } from './segments-fold-sql.js';
@@ -116,11 +117,17 @@ function groupRows(table: ResultTable): Map<string, Map<string, FoldedRow>> {
   return out;
 }
 
-/** Growth from the first to the last calendar year that lies inside the window and has rows in all twelve months. */
+/**
+ * Growth from the first to the last calendar year that lies inside the window and that the segment
+ * was there throughout (analysis/presence.ts: every month with a row, or between two of its years
+ * with rows, so a sparse segment is not dropped for a quiet month).
+ */
 function yearGrowth(rows: Map<string, FoldedRow> | undefined, covered: { start: string; end: string }): SegmentYearGrowth | null {
   if (!rows) return null;
-  const full = [...rows.entries()]
-    .filter(([period, r]) => period >= covered.start && `${isoYear(period) + 1}-01-01` <= covered.end && numberOrNull(r.row.months_with_rows) === 12 && r.value !== null)
+  const inWindow = [...rows.entries()].filter(([period]) => period >= covered.start && `${isoYear(period) + 1}-01-01` <= covered.end);
+  const throughout = yearsThroughout(inWindow.map(([period, r]) => ({ year: isoYear(period), monthsWithRows: numberOrNull(r.row.months_with_rows) ?? 0 })));
+  const full = inWindow
+    .filter(([period, r]) => throughout.has(isoYear(period)) && r.value !== null)
     .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
   if (full.length < 2) return null;
   const [firstPeriod, first] = full[0]!;

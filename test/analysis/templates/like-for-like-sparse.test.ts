@@ -7,6 +7,7 @@ import { DuckDBInstance, type DuckDBConnection } from '@duckdb/node-api';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import type { GrowthDriversFinding } from '../../../analysis/findings/growth.js';
+import type { SegmentTrendFinding } from '../../../analysis/findings/segments.js';
 import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
 import type { SubQuestion } from '../../../analysis/types.js';
 import { openWorkspace, type Workspace } from '../../../analysis/workspace.js';
@@ -169,5 +170,30 @@ datasets:
     expect(f.likeForLike).toBeNull();
     const p = SUB_QUESTIONS.growth_drivers.present(answer, presentContext(ws, 'managers'));
     expect(p.caption).not.toMatch(/opened|closed|last there/i);
+  });
+
+  it('segment trend 2000 to 2010 by distributor: each of the top six grows between its own whole years, not Warner Bros. alone', async () => {
+    const answer = await answerSubQuestion(
+      { id: 'trend', kind: 'trend', lens: 'time_pattern', template: 'segment_trend', metrics: ['worldwide_gross'], dimension: 'distributor', grain: 'month', window: { start: '2000-01-01', end: '2011-01-01' }, filters: [], rankLimit: 6 },
+      ws,
+    );
+    const named = answer.findings.filter((f): f is SegmentTrendFinding => f.type === 'segment_trend' && !f.other);
+    expect(named.length).toBe(6);
+    // Our SQL: each distributor's years 2000–2010 with a film, the months with one, and the year's gross.
+    const years = await rows(`SELECT Distributor AS a, year(d) AS y, COUNT(DISTINCT month(d)) AS months, SUM("Worldwide Gross") AS gross
+      FROM movies WHERE d >= DATE '2000-01-01' AND d < DATE '2011-01-01' AND Distributor IS NOT NULL GROUP BY 1, 2 ORDER BY 1, 2`);
+    for (const t of named) {
+      const mine = years.filter((r) => r.a === t.segment);
+      const seen = mine.map((r) => Number(r.y));
+      // Whole years: a film in every month, or between its first and last years with films.
+      const whole = mine.filter((r) => Number(r.months) === 12 || (Number(r.y) > Math.min(...seen) && Number(r.y) < Math.max(...seen)));
+      const [from, to] = [whole[0]!, whole[whole.length - 1]!];
+      expect([t.segment, t.growth?.fromYear, t.growth?.toYear]).toEqual([t.segment, Number(from.y), Number(to.y)]);
+      expect(t.growth!.from).toBeCloseTo(Number(from.gross), 0);
+      expect(t.growth!.to).toBeCloseTo(Number(to.gross), 0);
+    }
+    // Warner Bros. from 2000 to 2009 (the newcomer's own check: 1.34B and 3.57B).
+    const warner = named.find((t) => t.segment === 'Warner Bros.')!;
+    expect([warner.growth!.fromYear, warner.growth!.toYear, Math.round(warner.growth!.from / 1e7) / 100, Math.round(warner.growth!.to / 1e7) / 100]).toEqual([2000, 2009, 1.34, 3.57]);
   });
 });
