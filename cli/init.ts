@@ -4,7 +4,7 @@ import { existsSync, writeFileSync } from 'node:fs';
 import { basename, dirname, extname, isAbsolute, relative, resolve } from 'node:path';
 import { Document, isMap, isScalar, isSeq } from 'yaml';
 import { SourceError } from '../analysis/sources/data-source.js';
-import { catalogNameOf, draftConfig, profileColumns } from '../analysis/sources/draft-config.js';
+import { catalogNameOf, draftConfig, profileColumns, type Draft } from '../analysis/sources/draft-config.js';
 import { DuckDbSource } from '../analysis/sources/duckdb-source.js';
 import { PostgresSource } from '../analysis/sources/postgres-source.js';
 import type { SourceConfig } from '../config/schema.js';
@@ -45,7 +45,7 @@ export async function draftConfigFile(opts: InitOptions): Promise<{ summary: str
       '# personal_data on columns that hold people\'s details. Then: threadcount check --config FILE',
       '',
     ].join('\n');
-    writeFileSync(opts.out, `${header}${withComments(draft.config, draft.comments, draft.timeComment)}`);
+    writeFileSync(opts.out, `${header}${withComments(draft)}`);
     return { file: opts.out, summary: `Wrote ${opts.out}.\n${draft.notes.map((n) => `  ${n}`).join('\n')}\nNext: review it, then threadcount check --config ${opts.out}\n` };
   } finally {
     await source.close();
@@ -96,19 +96,25 @@ async function onlyTable(path: string, engine: { statement_timeout_ms: number; m
   }
 }
 
-/** The draft as YAML, with what init guessed about each metric (and a text time column) as a comment above it. */
-function withComments(config: Record<string, unknown>, comments: Record<string, string>, timeComment?: string): string {
-  const doc = new Document(config);
+/** The draft as YAML, with what init guessed about each metric and dimension (and a text time column, and left-out columns) as a comment above it. */
+function withComments(draft: Draft): string {
+  const doc = new Document(draft.config);
   const datasets = doc.get('datasets');
   if (isSeq(datasets)) {
     for (const ds of datasets.items) {
-      const time = isMap(ds) && timeComment ? ds.items.find((p) => isScalar(p.key) && p.key.value === 'time_column') : undefined;
-      if (time && isScalar(time.key)) time.key.commentBefore = timeComment;
-      const metrics = isMap(ds) ? ds.get('metrics') : undefined;
-      if (!isSeq(metrics)) continue;
-      for (const m of metrics.items) {
-        const name = isMap(m) ? m.get('name') : undefined;
-        if (isMap(m) && typeof name === 'string' && comments[name]) m.commentBefore = comments[name];
+      if (!isMap(ds)) continue;
+      const keyed = (key: string) => ds.items.find((p) => isScalar(p.key) && p.key.value === key)?.key;
+      const time = keyed('time_column');
+      if (draft.timeComment && isScalar(time)) time.commentBefore = draft.timeComment;
+      const metricsKey = keyed('metrics');
+      if (draft.leftOutComment && isScalar(metricsKey)) metricsKey.commentBefore = draft.leftOutComment;
+      for (const [list, comments] of [['metrics', draft.comments], ['dimensions', draft.dimensionComments]] as const) {
+        const items = ds.get(list);
+        if (!isSeq(items)) continue;
+        for (const m of items.items) {
+          const name = isMap(m) ? m.get('name') : undefined;
+          if (isMap(m) && typeof name === 'string' && comments[name]) m.commentBefore = comments[name];
+        }
       }
     }
   }

@@ -19,6 +19,7 @@ import {
   metricKindSchema,
   qualitySchema,
   sourceSchema as internalSourceSchema,
+  dateOrderSchema,
   unitSchema,
   unitLabelSchema,
 } from './schema.js';
@@ -133,7 +134,7 @@ export type FileTimeColumn = z.infer<typeof fileTimeColumnSchema>;
 /** A source: the engine's own shapes, plus `path` for one file (or glob). */
 export const fileSourceSchema = z.union([
   internalSourceSchema,
-  z.object({ kind: z.enum(['csv', 'parquet', 'json']), path: text, memory_limit: memoryLimitSchema.optional() }).strict(),
+  z.object({ kind: z.enum(['csv', 'parquet', 'json']), path: text, memory_limit: memoryLimitSchema.optional(), date_order: dateOrderSchema.optional() }).strict(),
 ]);
 
 /** A named stretch of time a request may mention ("during the storm week"). */

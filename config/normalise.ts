@@ -108,7 +108,8 @@ class DatasetNormaliser {
   private source(): SourceConfig {
     const s = this.ds.source;
     if ('path' in s && (s.kind === 'csv' || s.kind === 'parquet' || s.kind === 'json') && !('paths' in s)) {
-      return { kind: s.kind, paths: [s.path], ...(s.memory_limit ? { memory_limit: s.memory_limit } : {}) };
+      // date_order reads dates in CSV and JSON files only (a Parquet file stores them typed).
+      return { kind: s.kind, paths: [s.path], ...(s.memory_limit ? { memory_limit: s.memory_limit } : {}), ...(s.date_order && s.kind !== 'parquet' ? { date_order: s.date_order } : {}) } as SourceConfig;
     }
     return s as SourceConfig;
   }

@@ -116,14 +116,21 @@ const envVarName = z.string().regex(/^[A-Z_][A-Z0-9_]*$/, 'must be the name of a
 /** DuckDB's memory limit as written in the config: "2GB", "512MiB". */
 export const memoryLimitSchema = z.string().regex(/^\d+(\.\d+)?\s*(KB|MB|GB|TB|KiB|MiB|GiB|TiB)$/i, 'must be an amount of memory such as 512MB or 2GB');
 
+/**
+ * Which comes first in a CSV or JSON file's dates written as text ("03-12-2001") when no value has a
+ * day above 12 to settle it (analysis/sources/file-dates.ts); values that settle it win.
+ */
+export const dateOrderSchema = z.enum(['day_first', 'month_first']);
+export type DateOrder = z.infer<typeof dateOrderSchema>;
+
 export const sourceSchema = z.discriminatedUnion('kind', [
   // A table or view in a DuckDB file. `memory_limit` (on any embedded source) bounds this
   // dataset's engine instead of engine.memory_limit.
   z.object({ kind: z.literal('duckdb'), path: z.string().min(1), memory_limit: memoryLimitSchema.optional() }).strict(),
   // Files read in place; each path may be a glob (data/*.csv).
-  z.object({ kind: z.literal('csv'), paths: z.array(z.string().min(1)).min(1), memory_limit: memoryLimitSchema.optional() }).strict(),
+  z.object({ kind: z.literal('csv'), paths: z.array(z.string().min(1)).min(1), memory_limit: memoryLimitSchema.optional(), date_order: dateOrderSchema.optional() }).strict(),
   z.object({ kind: z.literal('parquet'), paths: z.array(z.string().min(1)).min(1), memory_limit: memoryLimitSchema.optional() }).strict(),
-  z.object({ kind: z.literal('json'), paths: z.array(z.string().min(1)).min(1), memory_limit: memoryLimitSchema.optional() }).strict(),
+  z.object({ kind: z.literal('json'), paths: z.array(z.string().min(1)).min(1), memory_limit: memoryLimitSchema.optional(), date_order: dateOrderSchema.optional() }).strict(),
   // A PostgreSQL warehouse. Its URL holds a password, so the file names only the environment
   // variable that holds it (read once at start by config/environment.ts).
   z

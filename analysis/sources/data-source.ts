@@ -2,6 +2,8 @@
 // executes it with bound parameters, a row cap and a time limit.
 import type { CompiledQuery, ResultTable } from '../types.js';
 import type { Dialect, TimeColumnType } from '../sql/dialect.js';
+import type { DateOrder } from '../../config/schema.js';
+import type { TextDateReading } from './text-dates.js';
 
 export interface TableColumn {
   name: string;
@@ -20,6 +22,8 @@ export interface DataSource {
   describe(table: string): Promise<TableColumn[]>;
   run(query: CompiledQuery, options: RunOptions): Promise<ResultTable>;
   close(): Promise<void>;
+  /** Date columns the source itself read from text (CSV and JSON files), with the format and what it assumed. */
+  readonly textDates?: Readonly<Record<string, TextDateReading & { orderFromConfig?: DateOrder }>>;
 }
 
 /**

@@ -38,8 +38,12 @@ export interface ColumnProfile {
   examples: string[];
   /** A number column's least value in the sample (below zero: not an amount to add up). */
   min?: number;
+  /** A number column's greatest value in the sample (with min: a year's range, a running number's span). */
+  max?: number;
   /** A text column the engine reads as dates, and in which format. */
   textDate?: TextDateReading;
+  /** A date column the source itself read from text in a CSV or JSON file (analysis/sources/file-dates.ts), and how. */
+  readFromText?: TextDateReading;
 }
 
 /** How many distinct (date, breakdown value) pairs the sampled rows hold. */
@@ -70,7 +74,7 @@ export async function profileColumns(source: DataSource, table: string): Promise
   const parts = described.flatMap((c, i) => [
     `COUNT(DISTINCT ${q(c.name)}) AS d${i}`,
     `COUNT(${q(c.name)}) AS n${i}`,
-    ...(typeFamily(c.type) === 'number' ? [`MIN(CAST(${q(c.name)} AS ${double})) AS m${i}`] : []),
+    ...(typeFamily(c.type) === 'number' ? [`MIN(CAST(${q(c.name)} AS ${double})) AS m${i}`, `MAX(CAST(${q(c.name)} AS ${double})) AS x${i}`] : []),
   ]);
   const run = { maxRows: 1000, timeoutMs: 120_000 };
   const stats = (await source.run({ sql: `SELECT COUNT(*) AS tc_rows, ${parts.join(', ')} FROM ${sample}`, params: [] }, run)).rows[0] ?? {};
@@ -85,13 +89,16 @@ export async function profileColumns(source: DataSource, table: string): Promise
     nonNull: Number(stats[`n${i}`] ?? 0),
     examples: examples.map((r) => r[`e${i}`]).filter((v): v is string => typeof v === 'string' && v !== '').slice(0, 200),
     ...(stats[`m${i}`] !== null && stats[`m${i}`] !== undefined ? { min: Number(stats[`m${i}`]) } : {}),
+    ...(stats[`x${i}`] !== null && stats[`x${i}`] !== undefined ? { max: Number(stats[`x${i}`]) } : {}),
   }));
   const textDates = await readTextDates(source, table, columns.filter((c) => c.family === 'text' && mayBeDates(c.examples)).map((c) => c.name), SAMPLE_ROWS);
   for (const c of columns) if (textDates[c.name]) c.textDate = textDates[c.name];
+  for (const c of columns) if (c.family === 'time' && source.textDates?.[c.name]) c.readFromText = source.textDates[c.name];
   // Rows per date and breakdown value: one row each (a reading per industry per month) says the
   // numbers beside them are readings of a level, not amounts that add up over time.
   const rows = Number(stats.tc_rows ?? 0);
-  const times = columns.filter((c) => c.family === 'time' || c.textDate);
+  // A year column counts as a date here: one row per country per year makes its numbers readings too.
+  const times = columns.filter((c) => c.family === 'time' || c.textDate || (c.family === 'number' && YEAR.test(catalogNameOf(c.name))));
   const breakdowns = columns.filter((c) => c.family === 'text' && c.values > 1 && isBreakdown(c.values, rows) && !times.includes(c));
   const pairs = times.flatMap((t) => breakdowns.map((d) => ({ time: t.name, dimension: d.name })));
   const pairCounts = pairs.length
@@ -165,6 +172,16 @@ function directionOf(name: string): { higher_is_better?: boolean } {
 const ASSUMED_CURRENCY = 'USD';
 const PERCENT_WORDS = /(^|_)(rate|pct|percent|percentage|share)($|_)/;
 const ID_WORDS = /(^|_)(id|key|uuid|code)$/;
+// Numbers that name or number things rather than measure them (a flight number, a zip or FIPS code,
+// a record id, a district, a group): never added up. Read from the name's last word, or a code word anywhere.
+const CODE_NAME_END = /(^|_)(id|ids|key|uuid|code|codes|number|num|no|nr|zip|zipcode|postcode|fips|geoid|district|group|class|category|type|cluster|seq|serial)$/;
+const CODE_NAME_ANY = /(^|_)(zip|zipcode|postcode|postal|fips|geoid)($|_)/;
+// A year kept as a whole number (budget_year, year_built): a date part. The span is common practice
+// for calendar years in business and public data (ruling out counts that merely look like years).
+const YEAR_NAME = /(^|_)(year|years|yr|yyyy)($|_)/;
+const YEAR_SPAN = [1800, 2100] as const;
+// Evidence from values alone (no name): nearly every value differs (common practice: 95%).
+const NEARLY_ALL_DISTINCT = 0.95;
 const YEAR = /^(year|yr|yyyy)$/;
 const MONTH = /^(month|mon|mm)$/;
 const DAY = /^(day|dd|date_of_month|day_of_month|dom|mday)$/;
@@ -197,11 +214,18 @@ function textDateColumn(columns: ColumnProfile[]): (ColumnProfile & { textDate: 
   return found.find((c) => TIME_WORDS.test(catalogNameOf(c.name))) ?? found[0];
 }
 
-/** What init read of a text date column, and what it assumed, for the notes and the file. */
-function textDateSaid(c: ColumnProfile & { textDate: TextDateReading }): string {
-  const t = c.textDate;
+/** The source's `date_order` a format reads in. */
+function dateOrderOf(format: string): 'day_first' | 'month_first' {
+  return format.indexOf('%d') < format.indexOf('%m') ? 'day_first' : 'month_first';
+}
+
+/**
+ * What init read of a text date column, and what it assumed, for the notes and the file. `fix`: how
+ * to read the other order (the format to write, or the source's date_order to set).
+ */
+function textDateSaid(t: TextDateReading, fix: (other: string) => string = (other) => `write ${other}`): string {
   const said = [`text dates read as ${t.format} (${t.read === t.sampled ? `all ${t.sampled}` : `${t.read} of ${t.sampled}`} distinct values sampled${t.read < t.sampled ? '; the others read as no date' : ''})`];
-  if (t.dayMonthUnsettled) said.push(`every sampled value has a day and a month of 12 or under, so the data cannot tell day-first from month-first: assumed ${t.format}; if the month comes first write ${t.dayMonthUnsettled}`);
+  if (t.dayMonthUnsettled) said.push(`every sampled value has a day and a month of 12 or under, so the data cannot tell day-first from month-first: assumed ${t.format}; if the ${dateOrderOf(t.format) === 'day_first' ? 'month' : 'day'} comes first ${fix(t.dayMonthUnsettled)}`);
   const others = t.others.filter((f) => f !== t.dayMonthUnsettled);
   if (others.length) said.push(`they also fit ${others.join(', ')}: check which the data means`);
   return said.join('; ');
@@ -215,6 +239,10 @@ export interface Draft {
   comments: Record<string, string>;
   /** What init read and assumed about the time column, written above it in the file. */
   timeComment?: string;
+  /** By dimension name: why a number column was drafted as a breakdown (a code, a year), above it in the file. */
+  dimensionComments: Record<string, string>;
+  /** Number columns left out (a year or code with too many values), written above the metrics. */
+  leftOutComment?: string;
 }
 
 export function draftConfig(input: DraftInput): Draft {
@@ -246,12 +274,21 @@ export function draftConfig(input: DraftInput): Draft {
   const textDate = time || year ? undefined : textDateColumn(input.columns);
   let timeColumn: unknown;
   let timeComment: string | undefined;
+  let dateOrder: 'day_first' | 'month_first' | undefined;
   const timeParts = new Set<string>();
   if (textDate) {
     timeColumn = { expr: `strptime(${columnExpr(textDate.name)}, '${textDate.textDate.format}')` };
     timeParts.add(textDate.name);
-    notes.push(`time column: ${textDate.name}, ${textDateSaid(textDate)}`);
-    timeComment = ` drafted by init: ${textDate.name} holds dates as text, ${textDateSaid(textDate)}`;
+    notes.push(`time column: ${textDate.name}, ${textDateSaid(textDate.textDate)}`);
+    timeComment = ` drafted by init: ${textDate.name} holds dates as text, ${textDateSaid(textDate.textDate)}`;
+  } else if (time?.readFromText) {
+    // The source read the file's text dates itself: the order it took is written into the source, where it can be turned round.
+    timeColumn = time.name;
+    const read = time.readFromText;
+    const said = textDateSaid(read, (other) => `set date_order: ${dateOrderOf(other)} in source`);
+    if (read.dayMonthUnsettled && (input.source.kind === 'csv' || input.source.kind === 'json')) dateOrder = dateOrderOf(read.format);
+    notes.push(`time column: ${time.name}, ${said}`);
+    timeComment = ` drafted by init: ${time.name} holds dates as text in the file, ${said}`;
   } else if (time) {
     timeColumn = time.name;
     notes.push(`time column: ${time.name}`);
@@ -266,7 +303,7 @@ export function draftConfig(input: DraftInput): Draft {
 
   // One row per date and breakdown value, several per date: the numbers are readings of each value
   // at each date (unemployed per industry per month, a price per company per month).
-  const timeName = textDate?.name ?? time?.name;
+  const timeName = textDate?.name ?? time?.name ?? (timeColumn !== 'FILL_IN' && !month ? year?.name : undefined);
   const dateValues = input.columns.find((c) => c.name === timeName)?.values ?? 0;
   const panel = input.readings?.find((r) => r.time === timeName && r.distinct === input.rows && dateValues > 0 && dateValues < input.rows);
   // Said above each metric in the file, where the person reviews it (never in a description, which
@@ -276,13 +313,15 @@ export function draftConfig(input: DraftInput): Draft {
   comments[rowsName] = ' drafted by init: the number of rows';
   const metrics: Record<string, unknown>[] = [{ name: rowsName, label: 'Rows', also_called: [], count: 'rows', unit: 'count', kind: 'flow' }];
   const dimensions: Record<string, unknown>[] = [];
+  const dimensionComments: Record<string, string> = {};
+  const leftOutCodes: string[] = [];
   let keyColumn: string | undefined;
   const moneyMetrics: string[] = [];
   // Money columns share the currency a name states ("Cost Total $"); without one it is assumed, and said.
   const isMoney = (c: ColumnProfile) => c.family === 'number' && (MONEY_WORDS.test(catalogNameOf(c.name)) || !!currencyNamed(c.name));
   const tableCurrency = input.columns.filter(isMoney).map((c) => currencyNamed(c.name)).find(Boolean);
   // Rows per time value: about one is a reading per date (a level); many are events, whose values are averaged per row.
-  const timeValues = input.columns.find((c) => c.name === (textDate?.name ?? time?.name))?.values ?? 0;
+  const timeValues = input.columns.find((c) => c.name === timeName)?.values ?? 0;
   const eventsPerStamp = timeValues > 0 && input.rows / timeValues > 1.5;
   const leftOutText: string[] = [];
   const numericText: string[] = [];
@@ -298,10 +337,25 @@ export function draftConfig(input: DraftInput): Draft {
       notes.push(`personal data (never shown or added up): ${c.name}`);
       continue;
     }
-    const idLike = ID_WORDS.test(name) || (c.values === input.rows && input.rows > 100 && c.family !== 'number');
+    // Years, identifiers and codes kept as numbers: a breakdown when few, else counted distinct or
+    // left out; never a sum.
+    const code = codeOf(c);
+    const idLike = !!code || ID_WORDS.test(name) || (c.values === input.rows && input.rows > 100 && c.family !== 'number');
     if (idLike) {
-      if (!keyColumn && c.values === c.nonNull && c.values === input.rows) keyColumn = c.name;
-      else metrics.push({ name: unique(`distinct_${name}`), label: `Distinct ${labelOf(c.name).toLowerCase()}`, also_called: [], count_distinct: columnExpr(c.name), unit: 'count', kind: 'flow' });
+      const why = code?.why ?? 'an identifier or code (its name or its values say so)';
+      if (isBreakdown(c.values, input.rows)) {
+        const dimensionName = unique(name);
+        dimensions.push({ name: dimensionName, label: labelOf(c.name), also_called: [], column: c.name });
+        dimensionComments[dimensionName] = ` drafted by init: ${why}, so a breakdown, never added up`;
+      } else if (code?.kind === 'year') {
+        leftOutCodes.push(`${c.name} (${why}, with too many values for a breakdown)`);
+      } else if (!keyColumn && c.values === c.nonNull && c.values === input.rows) {
+        keyColumn = c.name;
+      } else {
+        const metricName = unique(`distinct_${name}`);
+        comments[metricName] = ` drafted by init: ${c.name} is ${why}, so counted distinct, never added up`;
+        metrics.push({ name: metricName, label: `Distinct ${labelOf(c.name).toLowerCase()}`, also_called: [], count_distinct: columnExpr(c.name), unit: 'count', kind: 'flow' });
+      }
       continue;
     }
     if (c.family === 'boolean') {
@@ -350,13 +404,14 @@ export function draftConfig(input: DraftInput): Draft {
       leftOutText.push(`${c.name} (${c.values.toLocaleString('en')} value${c.values === 1 ? '' : 's'}${freeText(c) ? ', free text' : ''})`);
     }
   }
+  if (leftOutCodes.length) notes.push(`left out (numbers that are not amounts): ${leftOutCodes.join(', ')}`);
   if (numericText.length) notes.push(`left out (numbers written as text: add a metric over CAST(column AS DOUBLE) if they are amounts): ${numericText.join(', ')}`);
   if (leftOutText.length) notes.push(`left out (one value only, too many values in ${input.rows.toLocaleString('en')} rows for a breakdown, or free text): ${leftOutText.join(', ')}`);
   if (moneyMetrics.length) notes.push(`money (unit currency): ${moneyMetrics.join(', ')}, in ${tableCurrency ? `${tableCurrency.code} (read from ${tableCurrency.from})` : `${ASSUMED_CURRENCY}, assumed (no column names its currency): set currency`}`);
   const dataset: Record<string, unknown> = {
     name: input.datasetName,
     label: input.label,
-    source: input.source,
+    source: dateOrder ? { ...input.source, date_order: dateOrder } : input.source,
     ...(input.table ? { table: input.table } : {}),
     time_column: timeColumn,
     timezone: 'UTC',
@@ -366,7 +421,14 @@ export function draftConfig(input: DraftInput): Draft {
   };
   notes.push(`metrics: ${metrics.map((m) => `${String(m.name)} (${String(m.kind)})`).join(', ')}`);
   notes.push(`dimensions: ${dimensions.map((d) => String(d.name)).join(', ') || 'none'}`);
-  return { config: { version: 1, datasets: [dataset] }, notes, comments, ...(timeComment ? { timeComment } : {}) };
+  return {
+    config: { version: 1, datasets: [dataset] },
+    notes,
+    comments,
+    dimensionComments,
+    ...(leftOutCodes.length ? { leftOutComment: ` left out by init (numbers that are not amounts; add a dimension if you need one): ${leftOutCodes.join(', ')}` } : {}),
+    ...(timeComment ? { timeComment } : {}),
+  };
 
   /** Sum, or average, and why: said above the metric in the file. */
   function howItAddsUp(c: ColumnProfile, name: string): { how: 'sum' | 'average'; kind: 'flow' | 'level' | 'ratio'; why: string } {
@@ -380,6 +442,28 @@ export function draftConfig(input: DraftInput): Draft {
     if (c.min !== undefined && c.min < 0 && !flow) return { how: 'average', kind: 'ratio', why: `a value per row averaged over the rows: its values go below zero (down to ${c.min}), so a total would net highs against lows (make it sum and kind: flow if it adds up)` };
     return { how: 'sum', kind: 'flow', why: 'a flow, added up over time (make it average and kind: level if it is a reading such as a balance)' };
   }
+}
+
+/** Why a number column names or numbers things rather than measures them, if it does. */
+export interface CodeReading {
+  kind: 'year' | 'code';
+  why: string;
+}
+
+/** A whole-number column that is a year, an identifier or a code, read from its name and values. */
+export function codeOf(c: ColumnProfile): CodeReading | undefined {
+  if (c.family !== 'number' || c.examples.length === 0 || !c.examples.every((v) => /^-?\d+$/.test(v.trim()))) return undefined;
+  const name = catalogNameOf(c.name);
+  const span = c.min !== undefined && c.max !== undefined ? `${c.min} to ${c.max}` : undefined;
+  if (YEAR_NAME.test(name) && span && c.min! >= YEAR_SPAN[0] && c.max! <= YEAR_SPAN[1]) return { kind: 'year', why: `a year (${span}), a part of a date` };
+  if (CODE_NAME_END.test(name) || CODE_NAME_ANY.test(name)) return { kind: 'code', why: `an identifier or code (its name says so; ${c.values.toLocaleString('en')} values)` };
+  // Values alone: a running number (row 0, 1, 2, ...: nearly every value differs and they fill
+  // their span), never for a column whose name reads as an amount. Distinct values of the same width
+  // are no evidence on their own: monthly employment in thousands is all 4-5 digit numbers.
+  if (FLOW_WORDS.test(name) || MONEY_WORDS.test(name) || !span || c.min! < 0) return undefined;
+  const distinct = c.nonNull >= 20 && c.values >= c.nonNull * NEARLY_ALL_DISTINCT;
+  if (distinct && c.max! - c.min! + 1 <= c.values * 1.1) return { kind: 'code', why: `a running number (${c.values.toLocaleString('en')} values, nearly all different, filling ${span})` };
+  return undefined;
 }
 
 /** Text whose values are all plain numbers ("0", "3500"): amounts stored as text, not labels (a code with a leading zero stays a label). */

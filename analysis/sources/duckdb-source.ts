@@ -9,6 +9,7 @@ import type { EngineConfig, SourceConfig } from '../../config/schema.js';
 import { duckdbDialect } from '../sql/dialect.js';
 import { rollupTable, storedRollupQuery, storeRollupStatement, type SharedScan } from '../rollup/rollup.js';
 import type { CellValue, CompiledQuery, ResultColumn, ResultTable } from '../types.js';
+import { readFileDates, type FileDateReading } from './file-dates.js';
 import { missingColumnMessage, SourceError, type DataSource, type RunOptions, type TableColumn } from './data-source.js';
 
 export interface DuckDbSourceOptions {
@@ -57,6 +58,8 @@ export class DuckDbSource implements DataSource {
   private constructor(
     private readonly instance: DuckDBInstance,
     private readonly connections: DuckDBConnection[],
+    /** Date columns of CSV and JSON files written as text, and the format each was read with. */
+    readonly textDates: Readonly<Record<string, FileDateReading>> = {},
   ) {
     this.idle = [...connections];
   }
@@ -89,6 +92,7 @@ export class DuckDbSource implements DataSource {
     }
     let instance: DuckDBInstance;
     let connection: DuckDBConnection;
+    let textDates: Record<string, FileDateReading> = {};
     // The engine's own catalog is in memory (where rollups are kept, see rollup/rollup.ts); a
     // DuckDB data file is attached to it read-only and made every connection's default.
     try {
@@ -112,9 +116,12 @@ export class DuckDbSource implements DataSource {
     if (opts.source.kind !== 'duckdb') {
       // File paths come from the config, not from chat; they still go in as SQL string literals.
       const list = `[${opts.paths.map((p) => `'${p.replaceAll("'", "''")}'`).join(', ')}]`;
-      const reader =
-        opts.source.kind === 'csv' ? `read_csv(${list}, auto_detect = true)` : opts.source.kind === 'json' ? `read_json(${list})` : `read_parquet(${list})`;
       try {
+        // Dates written as text in CSV and JSON are read with the format their values show (file-dates.ts).
+        const query = async (sql: string) => (await connection.runAndReadAll(sql)).getRowObjectsJson() as Record<string, unknown>[];
+        const files = opts.source.kind === 'csv' || opts.source.kind === 'json' ? await readFileDates(query, opts.source.kind, list, opts.source.date_order) : undefined;
+        if (files) textDates = files.read;
+        const reader = files?.reader ?? `read_parquet(${list})`;
         await connection.run(`CREATE VIEW ${duckdbDialect.quoteIdent(opts.table)} AS SELECT * FROM ${reader}`);
       } catch (err) {
         connection.closeSync();
@@ -124,7 +131,7 @@ export class DuckDbSource implements DataSource {
     }
     const others = await Promise.all(Array.from({ length: POOL_SIZE - 1 }, () => instance.connect()));
     if (opts.source.kind === 'duckdb') for (const c of others) await c.run(`USE ${DATA_CATALOG}`);
-    return new DuckDbSource(instance, [connection, ...others]);
+    return new DuckDbSource(instance, [connection, ...others], textDates);
   }
 
   async describe(table: string): Promise<TableColumn[]> {

@@ -33,27 +33,40 @@ export function mayBeDates(examples: readonly string[]): boolean {
   return examples.length > 0 && looks.length >= examples.length / 2;
 }
 
+/** Runs one query of the sampling and returns its rows (a source's run, or a bare connection while a source opens). */
+export type SampleQuery = (sql: string) => Promise<Record<string, unknown>[]>;
+
 /** For each named text column that reads as dates, its format; others are left out. */
 export async function readTextDates(source: DataSource, table: string, columns: readonly string[], sampleRows: number): Promise<Record<string, TextDateReading>> {
+  const run = { maxRows: SAMPLE_VALUES + 1, timeoutMs: 120_000 };
+  const query: SampleQuery = async (sql) => (await source.run({ sql, params: [] }, run)).rows;
+  return sampleTextDates(query, source.dialect.name === 'postgres' ? 'postgres' : 'duckdb', quoteIdentifier(table), columns, sampleRows);
+}
+
+/**
+ * The same reading over any relation (`from`: a quoted table or a file reader such as
+ * read_json(...)): the one rule for which format a column of date text is written in, used by init
+ * and by the embedded engine when it reads CSV and JSON files (analysis/sources/file-dates.ts).
+ */
+export async function sampleTextDates(query: SampleQuery, engine: 'duckdb' | 'postgres', from: string, columns: readonly string[], sampleRows: number): Promise<Record<string, TextDateReading>> {
   const found: Record<string, TextDateReading> = {};
   const q = quoteIdentifier;
-  const text = source.dialect.name === 'postgres' ? 'TEXT' : 'VARCHAR';
-  const run = { maxRows: SAMPLE_VALUES + 1, timeoutMs: 120_000 };
+  const text = engine === 'postgres' ? 'TEXT' : 'VARCHAR';
   for (const column of columns) {
     // Distinct values in an order of their hashes: spread over the whole sample, not the first
     // days of sorted data (a thousand minutes of 1-12 January would never settle day against month).
-    const spread = source.dialect.name === 'postgres' ? 'md5(v)' : 'hash(v)';
-    const values = `SELECT v FROM (SELECT DISTINCT CAST(${q(column)} AS ${text}) AS v FROM (SELECT ${q(column)} FROM ${q(table)} LIMIT ${sampleRows}) AS tc_sample WHERE ${q(column)} IS NOT NULL AND TRIM(CAST(${q(column)} AS ${text})) <> '') AS tc_distinct ORDER BY ${spread} LIMIT ${SAMPLE_VALUES}`;
+    const spread = engine === 'postgres' ? 'md5(v)' : 'hash(v)';
+    const values = `SELECT v FROM (SELECT DISTINCT CAST(${q(column)} AS ${text}) AS v FROM (SELECT ${q(column)} FROM ${from} LIMIT ${sampleRows}) AS tc_sample WHERE ${q(column)} IS NOT NULL AND TRIM(CAST(${q(column)} AS ${text})) <> '') AS tc_distinct ORDER BY ${spread} LIMIT ${SAMPLE_VALUES}`;
     let counts: number[];
     let sampled: number;
-    if (source.dialect.name === 'duckdb') {
+    if (engine === 'duckdb') {
       const lit = (f: string) => `'${f.replace(/'/g, "''")}'`;
       const fits = TEXT_DATE_FORMATS.map((f, i) => `COUNT(*) FILTER (WHERE year(try_strptime(v, ${lit(f)})) BETWEEN ${YEARS[0]} AND ${YEARS[1]}) AS f${i}`);
-      const row = (await source.run({ sql: `SELECT COUNT(*) AS tc_values, ${fits.join(', ')} FROM (${values}) AS tc_values`, params: [] }, run)).rows[0] ?? {};
+      const row = (await query(`SELECT COUNT(*) AS tc_values, ${fits.join(', ')} FROM (${values}) AS tc_values`))[0] ?? {};
       sampled = Number(row.tc_values ?? 0);
       counts = TEXT_DATE_FORMATS.map((_, i) => Number(row[`f${i}`] ?? 0));
     } else {
-      const rows = (await source.run({ sql: values, params: [] }, run)).rows.map((r) => String(r.v));
+      const rows = (await query(values)).map((r) => String(r.v));
       sampled = rows.length;
       counts = TEXT_DATE_FORMATS.map((f) => rows.filter((v) => fitsTextDateFormat(v, f)).length);
     }
