@@ -1,6 +1,7 @@
 // Number and period formatting shared by chart specs and captions, so a value reads the
 // same in the picture and in the prose. Pure: Intl only, no clocks, no process state.
 import type { Metric, Unit } from '../config/schema.js';
+import { growthMultiple } from './stats/growth.js';
 import type { Grain } from './types.js';
 
 export interface ValueFormat {
@@ -73,6 +74,19 @@ export function formatChange(relative: number | null, locale: string): string {
     signDisplay: 'exceptZero',
   });
   return withMinus(nf.format(relative === 0 ? 0 : relative));
+}
+
+/** A growth rate as people take it in: a large rise as a multiple ("×15", see MULTIPLE_FROM), else a percentage ("−17.1%"). */
+export function formatGrowth(relative: number | null, locale: string): string {
+  const multiple = growthMultiple(relative);
+  return multiple !== null ? formatMultiple(multiple, locale) : formatChange(relative, locale);
+}
+
+/** A multiple of a base ("×15", "×3.4"): whole from ten times up, one decimal below. */
+export function formatMultiple(ratio: number | null, locale: string): string {
+  if (ratio === null || !Number.isFinite(ratio)) return NOT_AVAILABLE;
+  const digits = ratio >= 10 ? 0 : 1;
+  return `\u00d7${numberFormat(locale, { minimumFractionDigits: digits, maximumFractionDigits: digits }).format(ratio)}`;
 }
 
 /**

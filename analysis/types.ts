@@ -19,6 +19,9 @@ export const LENSES = ['time_pattern', 'breakdown', 'summary', 'distribution'] a
 export type Lens = (typeof LENSES)[number];
 
 /** A half-open date window [start, end), ISO dates (YYYY-MM-DD) in the dataset's time zone. */
+/** The unit a change over a named stretch is measured in, from its first whole one to its last. */
+export type SpanEndsUnit = 'year' | 'quarter' | 'month';
+
 export interface DateWindow {
   start: string;
   end: string;
@@ -54,6 +57,11 @@ export interface SubQuestion {
   comparisonGroup?: string;
   /** The window the question compares with, when the request names one ("Q2 vs Q1"); like for like. */
   compareWindow?: DateWindow;
+  /**
+   * "since 2001", "over the last 10 years": a change is measured from the window's first whole
+   * period of this unit to its last (the stretch's two ends), not between its last two.
+   */
+  spanEnds?: SpanEndsUnit;
   /** The date a before/after turns on, when the request states one (else the group's launch date). */
   launchDate?: string;
   /** "bookings per day by month": per-day averages at the grain. */

@@ -1,7 +1,7 @@
 // A brief: what a request asks for, as data, with the words each part was read from. Written by
 // the reader (bot/reading/), completed by the requester's answers and corrections, and turned
 // into a plan. `threadcount read` prints it (bot/reading/brief-json.ts).
-import type { Audience, DateWindow, Grain, RankOrder, RequestKind, SegmentFilter } from '../analysis/types.js';
+import type { Audience, DateWindow, SpanEndsUnit, Grain, RankOrder, RequestKind, SegmentFilter } from '../analysis/types.js';
 
 export { AUDIENCES, type Audience } from '../analysis/types.js';
 
@@ -39,6 +39,8 @@ export interface Question {
   compareWindow?: DateWindow;
   /** The period named runs past the data's last day, so the window stops there ("this summer" so far). */
   windowSoFar?: boolean;
+  /** "since 2001", "over the last 10 years": a change is measured from the window's first whole period of this unit to its last. */
+  spanEnds?: SpanEndsUnit;
   /** Two values of one dimension set against each other ("did phone grow faster than kiosk"). */
   contrast?: { dimension: string; values: string[] };
   /** "top 5 routes": how many to rank. */

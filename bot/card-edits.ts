@@ -81,14 +81,14 @@ export function applyCorrection(brief: Brief, c: Correction, plan: Plan, dropped
   }
   if (c.window) {
     if ('all' in c.window) {
-      next = { ...next, questions: next.questions.map(({ window: _w, compareWindow: _c, windowSoFar: _s, ...q }) => q as Question) };
+      next = { ...next, questions: next.questions.map(({ window: _w, compareWindow: _c, windowSoFar: _s, spanEnds: _e, ...q }) => q as Question) };
       delete next.window;
       delete next.compareWindow;
       delete evidence.window;
       changes.push('period: all the data');
     } else {
       const { window, compareWindow } = c.window;
-      next.questions = next.questions.map(({ compareWindow: _c, windowSoFar: _s, ...q }) => ({ ...q, window, ...(compareWindow ? { compareWindow } : {}) }) as Question);
+      next.questions = next.questions.map(({ compareWindow: _c, windowSoFar: _s, spanEnds: _e, ...q }) => ({ ...q, window, ...(compareWindow ? { compareWindow } : {}) }) as Question);
       next.window = window;
       if (compareWindow) next.compareWindow = compareWindow;
       else delete next.compareWindow;

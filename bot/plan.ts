@@ -50,6 +50,7 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
     const shared: Partial<SubQuestion> = {
       filters: q.filters,
       ...(q.compareWindow ? { compareWindow: q.compareWindow } : {}),
+      ...(q.spanEnds && !q.compareWindow ? { spanEnds: q.spanEnds } : {}),
       ...(q.launchDate ? { launchDate: q.launchDate } : {}),
       ...(q.perDay ? { perDay: true } : {}),
       ...(q.rankLimit ? { rankLimit: q.rankLimit } : {}),
@@ -328,7 +329,8 @@ export function applyPlanEdit(plan: Plan, edit: PlanEdit): { plan: Plan; error?:
       if (!edit.window) return { plan, error: `I couldn't read "${edit.phrase}" as a period.` };
       const w = edit.window;
       const compare = edit.compareWindow;
-      return { plan: { ...plan, items: plan.items.map((sq) => ({ ...sq, window: w, ...(compare ? { compareWindow: compare } : {}) })) } };
+      // A new period replaces the old one's reading too ("since 2001" measured from its first year).
+      return { plan: { ...plan, items: plan.items.map(({ spanEnds: _e, ...sq }) => ({ ...sq, window: w, ...(compare ? { compareWindow: compare } : {}) })) } };
     }
     case 'add_breakdown': {
       const dimension = edit.dimension;

@@ -4,7 +4,7 @@ import { metricDirection } from '../catalog.js';
 import { verbFor } from './grammar.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { ChangedSegment, GrowthDriverSegment, GrowthDriversFinding } from '../findings/growth.js';
-import { formatChange, formatDayOfYear, formatPeriod, formatValue } from '../format.js';
+import { formatChange, formatDayOfYear, formatGrowth, formatPeriod, formatValue } from '../format.js';
 import { quantityFormat } from './performance-words.js';
 import type { Audience } from '../types.js';
 import { verdictDirection, type GrowthWords } from './growth-series-caption.js';
@@ -63,7 +63,7 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
       // (+1,210% for a channel that opened part-way through the base) would read as growth.
       const changed = lfl?.excluded.find((c) => c.segment === s.segment);
       if (changed) return `${name(s)} ${parts[0]} (${notThroughBoth(changed, f, locale)})`;
-      if (s.relative !== null) parts.push(formatChange(s.relative, locale));
+      if (s.relative !== null) parts.push(formatGrowth(s.relative, locale));
       if (audience === 'analysts' && s.contribution !== null) parts.push(`${formatPoints(s.contribution, locale)} of the total's ${formatChange(total.relative, locale)}`);
       else if (audience === 'managers' && s.shareOfChange !== null && s.shareOfChange > 0 && s.shareOfChange <= 1) {
         parts.push(`${unsignedPercent(s.shareOfChange, locale)} of the total change`);

@@ -2,7 +2,8 @@
 // value's figure in both spans and its growth, the gap, and whether the gap in growth is clear.
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { ContrastSide, ValueCompareFinding } from '../findings/contrast.js';
-import { formatChange, formatValue } from '../format.js';
+import { formatChange, formatGrowth, formatValue } from '../format.js';
+import { growthMultiple } from '../stats/growth.js';
 import type { Audience } from '../types.js';
 import { capitalise, inSentence, possessive } from './grammar.js';
 import { formatPoints, segmentText, spanText, valueText } from './growth-words.js';
@@ -22,7 +23,15 @@ function inPoints(metric: Metric): boolean {
 
 function growthText(s: ContrastSide, metric: Metric, locale: string): string {
   if (inPoints(metric)) return s.change === null ? 'no comparable base' : formatPoints(s.change, locale);
-  return s.growth === null ? 'no comparable base' : formatChange(s.growth, locale);
+  return s.growth === null ? 'no comparable base' : formatGrowth(s.growth, locale);
+}
+
+/** Which two spans are compared, in words. */
+function spansText(f: ValueCompareFinding, locale: string): string {
+  const pair = `${spanText(f.current, locale)} against ${spanText(f.prior, locale)}`;
+  if (f.priorBasis === 'asked') return pair;
+  if (f.priorBasis === 'span_ends') return `${pair} (the last whole ${f.spanUnit ?? 'period'} of the data against the first whole one from the start asked about)`;
+  return `${spanText(f.current, locale)} against the same dates a year earlier`;
 }
 
 const PERIOD_NOUN = { day: 'daily', week: 'weekly', month: 'monthly', quarter: 'quarterly', year: 'yearly' } as const;
@@ -32,7 +41,7 @@ export function valueCompareWords(f: ValueCompareFinding | undefined, metric: Me
   const name = (s: ContrastSide) => segmentText(s.value, f.dimension, dataset);
   const label = inSentence(metric.label);
   const [a, b] = [f.first, f.second];
-  const spans = f.priorBasis === 'asked' ? `${spanText(f.current, locale)} against ${spanText(f.prior, locale)}` : `${spanText(f.current, locale)} against the same dates a year earlier`;
+  const spans = spansText(f, locale);
   const hidden = [a, b].filter((s) => s.suppressed);
   if (hidden.length > 0) {
     return {
@@ -66,7 +75,9 @@ export function valueCompareWords(f: ValueCompareFinding | undefined, metric: Me
     title = clear || rel === null
       ? `${capitalise(name(fast))} ${verb} ${name(slow)}: ${figures}`
       : `${capitalise(name(a))} and ${name(b)}: no clear gap in growth (${growthText(a, metric, locale)} against ${growthText(b, metric, locale)})`;
-    if (f.growthGap !== null && audience !== 'leadership') {
+    // A gap between a multiple and a percentage ("+1,443 pts") tells nobody anything.
+    const multiples = !inPoints(metric) && (growthMultiple(a.growth) !== null || growthMultiple(b.growth) !== null);
+    if (f.growthGap !== null && audience !== 'leadership' && !multiples) {
       const gap = inPoints(metric) ? formatPoints(a.change! - b.change!, locale) : formatPoints(f.growthGap, locale);
       sentences.push(`The gap in growth is ${gap} (${name(a)} minus ${name(b)}).`);
     }

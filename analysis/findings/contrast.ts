@@ -3,7 +3,7 @@
 // growth, the gap between them, and the tests the data allows. Numbers and ISO dates only.
 import type { MetricKind } from '../../config/schema.js';
 import type { LogShift } from '../stats/log-shift.js';
-import type { DateWindow, Grain, PeriodPoint } from '../types.js';
+import type { DateWindow, Grain, PeriodPoint, SpanEndsUnit } from '../types.js';
 import type { DifferenceTest, NoTestReason } from './performance.js';
 
 export interface ContrastSide {
@@ -30,8 +30,13 @@ export interface ValueCompareFinding {
   metricKind: MetricKind;
   current: DateWindow;
   prior: DateWindow;
-  /** The compared span is the one the request named, or the same dates a year earlier. */
-  priorBasis: 'asked' | 'year_earlier';
+  /**
+   * The compared span is the one the request named, the same dates a year earlier, or (`span_ends`,
+   * "since 2001") the first whole period of the stretch asked about, set against its last.
+   */
+  priorBasis: 'asked' | 'year_earlier' | 'span_ends';
+  /** With `span_ends`: the unit of the two periods compared. */
+  spanUnit?: SpanEndsUnit;
   first: ContrastSide;
   second: ContrastSide;
   /** first − second over the span asked about, and over the span compared with. */

@@ -43,6 +43,18 @@ export function percentScale(values: readonly (number | null)[], zeroIsALevel: b
   return { typical, signed };
 }
 
+/**
+ * From this many times its base a rise is said as a multiple ("×15") rather than a percentage
+ * ("+1,426%"), which few readers take in at a glance. Saying large rises as multiples is common
+ * practice in reporting; the threshold is our rule.
+ */
+export const MULTIPLE_FROM = 3;
+
+/** The multiple of its base a growth rate (current / base − 1) reaches, when it is said as one; else null. */
+export function growthMultiple(growth: number | null): number | null {
+  return isNum(growth) && growth + 1 >= MULTIPLE_FROM ? growth + 1 : null;
+}
+
 /** Whether a percentage may be taken against `base` on this scale (the rule above, in one place). */
 export function percentBaseUsable(base: number | null, scale: PercentScale): boolean {
   if (scale.signed || !isNum(base) || base <= 0) return false;

@@ -14,7 +14,9 @@ export const growthDriversSubQuestion = defineSubQuestion({
   present: presentGrowthDrivers,
   // A window longer than a year is compared as its last complete year (or 12 months) against the one before: never overlapping.
   describe: (w, sq) =>
-    longerThanAYear(sq.window)
+    w.ends
+      ? `Which ${pluralNoun(w.dim)} drove the change in ${w.metric}: ${w.ends}.`
+      : longerThanAYear(sq.window)
       ? `Which ${pluralNoun(w.dim)} drove the change in ${w.metric}: the last complete year in ${w.span} against the one before.`
       : `Which ${pluralNoun(w.dim)} drove the change in ${w.metric}, ${w.span} against ${w.base}.`,
 });

@@ -12,7 +12,9 @@ export const growthShareShiftSubQuestion = defineSubQuestion({
   template: growthShareShiftTemplate,
   present: presentGrowthShareShift,
   describe: (w, sq) =>
-    longerThanAYear(sq.window)
+    w.ends
+      ? `How each ${w.dim}'s share of ${w.metric} shifted: ${w.ends}.`
+      : longerThanAYear(sq.window)
       ? `How each ${w.dim}'s share of ${w.metric} shifted: the last complete year in ${w.span} against the one before.`
       : `How each ${w.dim}'s share of ${w.metric} shifted, ${w.span} against ${w.base}.`,
 });

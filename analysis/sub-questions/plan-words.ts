@@ -6,6 +6,7 @@ import { grainAdjective } from '../grains.js';
 import { addDays, addMonths } from '../periods.js';
 import type { SubQuestion } from '../types.js';
 import { describeWindow } from '../window-words.js';
+import { spanEnds } from '../templates/span-ends.js';
 
 export interface PlanWords {
   /** The metric labels, lower case, as a list: "revenue", "revenue and bookings", "revenue, bookings and average fare". */
@@ -22,6 +23,11 @@ export interface PlanWords {
   groupLabel: string;
   /** What the window is compared with: "a year earlier", or the period the request named. */
   base: string;
+  /**
+   * "since 2001": the stretch's two ends, as compared ("the first whole year of January 2001 to
+   * December 2017 against the last"); '' when the request named no such stretch.
+   */
+  ends: string;
   /** Every metric adds up over time (bookings, revenue): its highs and lows read as busy and quiet; a reading or a rate's as high and low. */
   flow: boolean;
   /** The verb agreeing with the measures: "bookings are", "revenue is". */
@@ -42,10 +48,16 @@ export function planWords(sq: SubQuestion, ds: DatasetConfig, locale: string): P
     vs: group ? `${inSentence(group.members_label)} vs ${inSentence(group.others_label)}` : '',
     groupLabel: group?.label ?? '',
     base: sq.compareWindow ? describeWindow(sq.compareWindow, { firstDate: null, lastDate: null, rows: 0 }, locale) : 'a year earlier',
+    ends: endsWords(sq, locale),
     is: sq.metrics.length > 1 ? 'are' : (verbFor(label(sq.metrics[0] ?? '')) as 'is' | 'are'),
     unit: group ? unitNoun(ds, group).singular : 'unit',
     flow: sq.metrics.every((m) => { const metric = ds.metrics.find((x) => x.name === m); return !metric || quantityKind(metric) === 'flow'; }),
   };
+}
+
+function endsWords(sq: SubQuestion, locale: string): string {
+  if (!sq.spanEnds || sq.compareWindow || !spanEnds(sq.window, sq.spanEnds, undefined)) return '';
+  return `the first whole ${sq.spanEnds} of ${spanWords(sq, locale)} against the last`;
 }
 
 /** Whole months read as months ("January 2022 to June 2025"); anything else as its days ("1 June to 18 June 2025"). */

@@ -17,6 +17,7 @@ export const valueCompareSubQuestion = defineSubQuestion({
   describe: (w, sq) => {
     const [a, b] = sq.contrast?.values ?? ['', ''];
     const against = sq.compareWindow ? 'the period named' : 'the same dates a year earlier';
+    if (w.ends) return `${capitalise(w.metric)}: ${a} against ${b}, ${w.ends}: each one's growth, the gap between them and a test of the gap in growth.`;
     return `${capitalise(w.metric)}: ${a} against ${b}, ${w.span} against ${against}: each one's growth, the gap between them and a test of the gap in growth.`;
   },
 });

@@ -14,6 +14,7 @@ import { lifeColumnsSql, presenceToleranceDays, silentBeyondChanceSql } from '..
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, DateWindow, ResultTable, SubQuestion } from '../types.js';
 import { complementaryFoldCtes, minGroupSize } from './small-groups.js';
+import { spanEnds } from './span-ends.js';
 import { coveredWindow } from './trend-points.js';
 
 const WINDOW = '__tc_window';
@@ -75,6 +76,9 @@ export function comparisonWindow(w: DateWindow, coverage: Coverage | undefined):
  * spans cut to the data by a year's shift.
  */
 export function comparedSpans(asked: SubQuestion, coverage: Coverage | undefined): { current: DateWindow; prior: DateWindow; asked: boolean } {
+  // "since 2001": the stretch's last whole period against its first, both cut to the data already.
+  const ends = asked.spanEnds && !asked.compareWindow ? spanEnds(asked.window, asked.spanEnds, coverage) : null;
+  if (ends) return { current: ends.last, prior: ends.first, asked: true };
   if (asked.compareWindow) {
     const current = (coverage && coveredWindow(asked.window, coverage)) || asked.window;
     const cw = (coverage && coveredWindow(asked.compareWindow, coverage)) || asked.compareWindow;

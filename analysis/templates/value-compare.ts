@@ -12,7 +12,8 @@ import type { ContrastSide, ValueCompareFinding } from '../findings/contrast.js'
 import { addDays, nextPeriod, periodStart, parseIsoDate } from '../periods.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import { logRatio, logShift } from '../stats/log-shift.js';
-import type { Caveat, CellValue, DateWindow, Finding, Grain, NamedQuery, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
+import type { Caveat, CellValue, DateWindow, Finding, Grain, NamedQuery, PeriodPoint, ResultTable, SpanEndsUnit, SubQuestion } from '../types.js';
+import { spanEnds } from './span-ends.js';
 import { askedPrior, comparisonWindow as nonOverlapping, earlierSpanData, priorWindow } from './growth-compare.js';
 import { CONFIDENCE, EMPTY_TABLE } from './performance-common.js';
 import { cellFromRow, measureColumns, measureShape, planMeasure, type MeasurePlan } from './performance-measure.js';
@@ -24,7 +25,10 @@ import { coveredWindow, windowPeriods } from './trend-points.js';
 export interface ContrastSpans {
   current: DateWindow;
   prior: DateWindow;
-  basis: 'asked' | 'year_earlier';
+  /** `span_ends`: a stretch's first whole period against its last ("since 2001": 2001 against 2017). */
+  basis: 'asked' | 'year_earlier' | 'span_ends';
+  /** With `span_ends`: the unit of the two periods. */
+  unit?: SpanEndsUnit;
 }
 
 function daysBetween(a: string, b: string): number {
@@ -37,6 +41,8 @@ function daysBetween(a: string, b: string): number {
  * else the same dates a year earlier.
  */
 export function contrastSpans(sq: SubQuestion, coverage: Coverage | undefined): ContrastSpans {
+  const ends = sq.spanEnds && !sq.compareWindow ? spanEnds(sq.window, sq.spanEnds, coverage) : null;
+  if (ends) return { current: ends.last, prior: ends.first, basis: 'span_ends', unit: ends.unit };
   const asked = sq.compareWindow ? sq.window : nonOverlapping(sq.window, coverage);
   const current = (coverage && coveredWindow(asked, coverage)) || asked;
   if (sq.compareWindow) {
@@ -148,7 +154,8 @@ ORDER BY 1`),
 export function chartWindow(spans: ContrastSpans): DateWindow {
   const start = spans.prior.start < spans.current.start ? spans.prior.start : spans.current.start;
   const end = spans.prior.end > spans.current.end ? spans.prior.end : spans.current.end;
-  return daysBetween(start, end) <= 800 ? { start, end } : spans.current;
+  // A stretch's two ends: the whole stretch between them is what was asked about.
+  return spans.basis === 'span_ends' || daysBetween(start, end) <= 800 ? { start, end } : spans.current;
 }
 
 function compileSeries(sq: SubQuestion, ctx: CompileContext, spans: ContrastSpans): NamedQuery {
@@ -340,6 +347,7 @@ export function readValueCompare(sq: SubQuestion, tables: Record<string, ResultT
     current: spans.current,
     prior: spans.prior,
     priorBasis: spans.basis,
+    ...(spans.unit ? { spanUnit: spans.unit } : {}),
     first: strip(a),
     second: strip(b),
     gapCurrent: gap(a.current, b.current),

@@ -64,6 +64,12 @@ export interface PeriodMention extends Span {
   bounded?: boolean;
   /** Starts at the first data ("until March"). */
   fromEarliest?: boolean;
+  /**
+   * A stretch named by where it starts ("since 2001", "from March 2023 on", "over the last 10
+   * years"): the unit of that start, so a change over the stretch can be measured from its first
+   * whole period to its last.
+   */
+  startUnit?: 'year' | 'quarter' | 'month';
   shift?: Shift;
   /** Preceded by a comparison word ("vs", "against", "compared with", "than", "beat"). */
   compared: boolean;
@@ -363,7 +369,9 @@ function findRelative(text: RequestText, ctx: PeriodContext): PeriodMention[] {
       add(m.span, { window: { start: addDays(A, -count), end: A }, unit: 'span' });
     } else {
       const end = holding(unit).start;
-      add(m.span, { window: { start: shiftPeriod({ start: end, end }, unit, count).start, end }, unit: 'span' });
+      // "over the last 10 years": a stretch of whole years, whose change runs from its first to its last.
+      const startUnit = unit === 'year' && count >= 2 ? { startUnit: 'year' as const } : {};
+      add(m.span, { window: { start: shiftPeriod({ start: end, end }, unit, count).start, end }, unit: 'span', ...startUnit });
     }
   }
   // trailing twelve months
@@ -468,6 +476,7 @@ export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMentio
     const since = /\b(?:since|from|starting(?:\s+(?:in|from|with))?|beginning(?:\s+(?:in|from|with))?|after|post)\s+(?:the\s+(?:start|beginning)\s+of\s+)?(?:the\s+)?$/.exec(before);
     if (since && m.window && !m.shift && (/^since|^starting|^beginning|^post|^after/.test(since[0]) || /^\s*(?:on(?:wards?)?|onward)\b/.test(after) || !/^\s*(?:to|until|till|through|-)/.test(after))) {
       const isAfter = /^after|^post/.test(since[0]);
+      if (m.unit === 'year' || m.unit === 'quarter' || m.unit === 'month') m.startUnit = m.unit;
       m.window = { start: isAfter ? m.window.end : m.window.start, end: m.window.end };
       m.toLatest = true;
       m.unit = 'span';

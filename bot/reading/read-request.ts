@@ -4,7 +4,7 @@
 import { type Coverage, dataEnd } from '../../analysis/coverage.js';
 import { datesAfterWords, describeWindow } from '../../analysis/window-words.js';
 import { addDays } from '../../analysis/periods.js';
-import type { DateWindow, Grain, RankOrder, RequestKind, SegmentFilter } from '../../analysis/types.js';
+import type { DateWindow, Grain, RankOrder, RequestKind, SegmentFilter, SpanEndsUnit } from '../../analysis/types.js';
 import type { ValueIndex } from '../../analysis/values/value-index.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { AmbiguousValue, Askable, Brief, BriefSlot, Evidence, Question } from '../brief.js';
@@ -272,6 +272,7 @@ function dropWindowsOutside(brief: Brief, facts: DatasetFacts, dataEnd: string |
     if (q.window && outside(q.window)) {
       delete q.window;
       delete q.windowSoFar;
+      delete q.spanEnds;
       delete q.compareWindow;
       ask = true;
     }
@@ -1021,7 +1022,7 @@ function readValues(valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[], h
 // Periods of a question
 
 /** The question's window and the window it is compared with, like for like. */
-function windowsOf(periods: PeriodMention[], st: ReadState, clause: Clause): { window?: DateWindow; compareWindow?: DateWindow; windowSoFar?: boolean } {
+function windowsOf(periods: PeriodMention[], st: ReadState, clause: Clause): { window?: DateWindow; compareWindow?: DateWindow; windowSoFar?: boolean; spanEnds?: SpanEndsUnit } {
   const t = clause.text.toLowerCase();
   const plain = periods.filter((p) => p.window && !p.compared && !p.shift);
   const comparing = /\bcompar\w*|\bvs\.?\b|\bversus\b|\bagainst\b|\bbeat\w*|\bthan\b|\bdifferen\w*|\bchanged?\s+(?:between|from)\b/.test(t);
@@ -1059,7 +1060,8 @@ function windowsOf(periods: PeriodMention[], st: ReadState, clause: Clause): { w
   if (!window) return {};
   const clipped = clip(window, st);
   const so = clipped.end < window.end ? { windowSoFar: true } : {};
-  if (!other) return { window: clipped, ...so };
+  // "since 2001", "over the last 10 years": a change over the stretch runs from its first whole period to its last.
+  if (!other) return { window: clipped, ...so, ...(main?.startUnit ? { spanEnds: main.startUnit } : {}) };
   const compareWindow = compareOf(clipped, main!, other, st);
   return compareWindow ? { window: clipped, compareWindow, ...so } : { window: clipped, ...so };
 }
@@ -1128,6 +1130,10 @@ function statedLaunch(periods: PeriodMention[], text: RequestText): { date: stri
     const closed = p.unit === 'span' && !p.toLatest && !p.fromEarliest && !p.relative;
     const word = verbs.exec(before)?.[0].split(/\s+/).slice(0, 2).join(' ') ?? nouns.exec(before)?.[0].split(/\s+/)[0] ?? /(?:launch|go-live|rollout|roll-out|switch|change|rise|increase|hike|cut|reorgani[sz]ation|reorg|migration|redesign|update|campaign|promotion)$/u.exec(/^\s*(?:\p{L}+\s+){0,2}(?:launch|go-live|rollout|roll-out|switch|change|rise|increase|hike|cut|reorgani[sz]ation|reorg|migration|redesign|update|campaign|promotion)\b/u.exec(after)?.[0] ?? '')?.[0];
     if (word && closed && !/launch|start|beg[au]n|live|introduc|roll|kicked|effect|reorg|restructur|migration|redesign|campaign|promotion|outage|sale|new/.test(word)) continue;
+    // "how has generation changed since 2001", "prices rose from 2019 on": the measure moved over a
+    // stretch that starts there (a change since its start), unlike "since prices rose in March"
+    // or "since the launch in March", where something happened on the date.
+    if (word && p.startUnit && /^(?:changed|rose|increased|decreased|was|were)\b/.test(word) && verbs.test(before)) continue;
     if (word) {
       const start = p.unit === 'span' && /\bsince\b/.test(p.words.toLowerCase()) ? p.window.start : p.window.start;
       return { date: start, words: text.quote(p), mention: p };
