@@ -1,13 +1,13 @@
 // Title and caption of a value-against-value comparison, written only from its finding: each
 // value's figure in both spans and its growth, the gap, and whether the gap in growth is clear.
 import type { DatasetConfig, Metric } from '../../config/schema.js';
-import type { ContrastSide, ValueCompareFinding } from '../findings/contrast.js';
+import type { ContrastSide, PerDaySide, ValueCompareFinding } from '../findings/contrast.js';
 import { formatChange, formatGrowth, formatValue } from '../format.js';
 import { growthMultiple } from '../stats/growth.js';
 import type { Audience } from '../types.js';
 import { capitalise, inSentence, possessive } from './grammar.js';
 import { formatPoints, segmentText, spanText, valueText } from './growth-words.js';
-import { formatP } from './performance-words.js';
+import { formatP, quantityFormat } from './performance-words.js';
 
 export interface ValueCompareWords {
   title: string;
@@ -36,6 +36,23 @@ function spansText(f: ValueCompareFinding, locale: string): string {
 
 const PERIOD_NOUN = { day: 'daily', week: 'weekly', month: 'monthly', quarter: 'quarterly', year: 'yearly' } as const;
 
+/**
+ * Two spans of different lengths ("February against January": 29 days against 31): the days are
+ * said, and a total that adds up over days is also given per day, since the totals differ by the
+ * days alone. A leap day in a year (0.3%) is said but given no per-day figures, as growth drivers do.
+ */
+function lengthsSentence(f: ValueCompareFinding, metric: Metric, label: string, name: (s: ContrastSide) => string, locale: string): string | null {
+  const l = f.lengths;
+  if (!l) return null;
+  const said = `${capitalise(spanText(f.current, locale))} has ${l.current} days and ${spanText(f.prior, locale)} ${l.prior}`;
+  if (!l.perDay) return `${said}; ${label} is not a total, so the days do not change it.`;
+  if (Math.abs(l.current - l.prior) <= 0.005 * Math.max(l.current, l.prior)) return `${said}; both are compared whole.`;
+  const fmt = quantityFormat(metric, 'per_day', locale);
+  const side = (s: ContrastSide, d: PerDaySide) =>
+    `${name(s)} ${formatValue(d.current, fmt, { rate: true })} against ${formatValue(d.prior, fmt, { rate: true })}${d.growth === null ? '' : ` (${formatGrowth(d.growth, locale)})`}`;
+  return `${said}, so per day: ${side(f.first, l.perDay.first)}; ${side(f.second, l.perDay.second)}.`;
+}
+
 export function valueCompareWords(f: ValueCompareFinding | undefined, metric: Metric, dataset: DatasetConfig, locale: string, audience: Audience): ValueCompareWords {
   if (!f) return { title: `${metric.label}: nothing to compare`, caption: 'There is no data for either value in the spans compared.', clear: false };
   const name = (s: ContrastSide) => segmentText(s.value, f.dimension, dataset);
@@ -56,6 +73,8 @@ export function valueCompareWords(f: ValueCompareFinding | undefined, metric: Me
       ? `${name(s)} ${money(s.current)} (no data in the earlier span)`
       : `${name(s)} ${money(s.current)} (from ${money(s.prior)}, ${growthText(s, metric, locale)})`;
   const sentences = [`${capitalise(label)}, ${spans}: ${sideText(a)}; ${sideText(b)}.`];
+  const days = lengthsSentence(f, metric, label, name, locale);
+  if (days) sentences.push(days);
 
   const missing = [a, b].filter((s) => s.rowsPrior === 0 || s.prior === null);
   const rel = f.relativeGrowth;

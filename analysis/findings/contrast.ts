@@ -22,6 +22,13 @@ export interface ContrastSide {
   suppressed: boolean;
 }
 
+/** One value's total per day of each span, and the change per day (null on a missing or non-positive base). */
+export interface PerDaySide {
+  current: number | null;
+  prior: number | null;
+  growth: number | null;
+}
+
 export interface ValueCompareFinding {
   type: 'value_compare';
   metric: string;
@@ -39,6 +46,11 @@ export interface ValueCompareFinding {
   spanUnit?: SpanEndsUnit;
   first: ContrastSide;
   second: ContrastSide;
+  /**
+   * The two spans' lengths in days when they differ (a 29-day February against a 31-day January):
+   * a flow's totals then differ by the days alone, so each value is also given per day.
+   */
+  lengths: { current: number; prior: number; perDay: { first: PerDaySide; second: PerDaySide } | null } | null;
   /** first − second over the span asked about, and over the span compared with. */
   gapCurrent: number | null;
   gapPrior: number | null;

@@ -6,9 +6,9 @@
 // two values' levels in the span asked about (Welch, two-proportion z, delta method).
 import type { Metric } from '../../config/schema.js';
 import { groupableDimension, isAdditive, metricByName, metricKind } from '../catalog.js';
-import { type CompileContext, dateRanges, datesCondition, localDateExpr, measureSql, rowCountSql, segmentConditions, tableRef } from '../compile-context.js';
+import { type CompileContext, dateRanges, datesCondition, localDateExpr, type PeriodScope, periodScope, rowCountSql, segmentConditions, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
-import type { ContrastSide, ValueCompareFinding } from '../findings/contrast.js';
+import type { ContrastSide, PerDaySide, ValueCompareFinding } from '../findings/contrast.js';
 import { addDays, nextPeriod, periodStart, parseIsoDate } from '../periods.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import { logRatio, logShift } from '../stats/log-shift.js';
@@ -68,13 +68,18 @@ function keyExpr(q: QueryBuilder, column: string): string {
   return `CAST(${q.ident(column)} AS VARCHAR)`;
 }
 
-/** Conditions every query shares: the spans, the filters, the two values, and (with a minimum group size) only values big enough to show. */
-function conditions(q: QueryBuilder, ctx: CompileContext, sq: SubQuestion, windows: DateWindow[]): string {
+/**
+ * Conditions every query shares: the spans, the two values, the filters unless the query takes
+ * them inside each aggregate (`scope`, as periodScope does: a day or period with rows of a value
+ * but none that pass the filters keeps its row, so a filtered sum there is 0, not a gap), and (with
+ * a minimum group size) only values big enough to show.
+ */
+function conditions(q: QueryBuilder, ctx: CompileContext, sq: SubQuestion, windows: DateWindow[], scope?: PeriodScope): string {
   const c = contrastOf(sq);
   const dim = groupableDimension(ctx.dataset, c.dimension);
   const key = keyExpr(q, dim.column);
   const values = `${key} IN (${c.values.map((v) => q.bind(v)).join(', ')})`;
-  const parts = [dateRanges(q, ctx, windows), ...segmentConditions(q, ctx, sq.filters), values];
+  const parts = [scope ? scope.where : dateRanges(q, ctx, windows), ...(scope ? [] : segmentConditions(q, ctx, sq.filters)), values];
   const min = minGroupSize(ctx.dataset);
   if (min !== null) {
     // A value with fewer rows than the minimum in the compared spans is never shown on its own.
@@ -84,10 +89,18 @@ function conditions(q: QueryBuilder, ctx: CompileContext, sq: SubQuestion, windo
   return parts.join('\n  AND ');
 }
 
-/** Summary columns per row: the metric and its rows (a sum or count, which a rollup holds), or a cell's pieces. */
-function columns(q: QueryBuilder, ctx: CompileContext, metric: Metric): string[] {
-  if (isAdditive(metric)) return [`${measureSql(q, ctx, metric)} AS tc_value`, `${ctx.dialect.toDouble(rowCountSql(q, ctx))} AS tc_rows`];
+/**
+ * Summary columns per row: the metric and its rows that pass the filters (a sum or count, which a
+ * rollup holds; `scope` puts the filters inside them), or a cell's pieces (filtered in WHERE).
+ */
+function columns(q: QueryBuilder, ctx: CompileContext, metric: Metric, scope: PeriodScope | undefined): string[] {
+  if (scope) return [`${scope.measure(metric)} AS tc_value`, `${ctx.dialect.toDouble(scope.rowCount())} AS tc_rows`];
   return measureColumns(q, ctx.dataset, metric, planMeasure(q, ctx.dataset, metric));
+}
+
+/** The brief's window and filters as kpi_by_segment reads them (periodScope), for a metric whose days add up. */
+function additiveScope(q: QueryBuilder, ctx: CompileContext, sq: SubQuestion, metric: Metric, windows: DateWindow[]): PeriodScope | undefined {
+  return isAdditive(metric) ? periodScope(q, ctx, windows, sq.filters) : undefined;
 }
 
 /** The metric per day and value over both spans: the pieces every figure and test is pooled from. */
@@ -95,8 +108,9 @@ function compileDays(sq: SubQuestion, ctx: CompileContext, spans: ContrastSpans)
   const metric = metricOf(sq, ctx);
   const dim = groupableDimension(ctx.dataset, contrastOf(sq).dimension);
   const q = new QueryBuilder(ctx.dialect);
-  const cols = columns(q, ctx, metric);
-  const where = conditions(q, ctx, sq, [spans.prior, spans.current]);
+  const scope = additiveScope(q, ctx, sq, metric, [spans.prior, spans.current]);
+  const cols = columns(q, ctx, metric, scope);
+  const where = conditions(q, ctx, sq, [spans.prior, spans.current], scope);
   return {
     name: 'days',
     ...q.finish(`SELECT ${localDateExpr(q, ctx)} AS day,
@@ -115,8 +129,9 @@ function compileSides(sq: SubQuestion, ctx: CompileContext, spans: ContrastSpans
   const dim = groupableDimension(ctx.dataset, contrastOf(sq).dimension);
   const q = new QueryBuilder(ctx.dialect);
   const side = `CASE WHEN ${datesCondition(q, ctx, [spans.current])} THEN 'current' ELSE 'prior' END`;
-  const cols = columns(q, ctx, metric);
-  const where = conditions(q, ctx, sq, [spans.prior, spans.current]);
+  const scope = additiveScope(q, ctx, sq, metric, [spans.prior, spans.current]);
+  const cols = columns(q, ctx, metric, scope);
+  const where = conditions(q, ctx, sq, [spans.prior, spans.current], scope);
   return {
     name: 'sides',
     ...q.finish(`SELECT ${side} AS tc_side,
@@ -163,12 +178,14 @@ function compileSeries(sq: SubQuestion, ctx: CompileContext, spans: ContrastSpan
   const dim = groupableDimension(ctx.dataset, contrastOf(sq).dimension);
   const q = new QueryBuilder(ctx.dialect);
   const period = ctx.dialect.periodStart(sq.grain, localDateExpr(q, ctx));
-  const where = conditions(q, ctx, sq, [chartWindow(spans)]);
+  // Any metric's value per period takes the filters inside its aggregate: a period with rows but none that pass them reads 0.
+  const scope = periodScope(q, ctx, [chartWindow(spans)], sq.filters);
+  const where = conditions(q, ctx, sq, [chartWindow(spans)], scope);
   return {
     name: 'series',
     ...q.finish(`SELECT ${period} AS period,
   ${keyExpr(q, dim.column)} AS tc_key,
-  ${measureSql(q, ctx, metric)} AS tc_value
+  ${scope.measure(metric)} AS tc_value
 FROM ${tableRef(q, ctx)}
 WHERE ${where}
 GROUP BY 1, 2
@@ -338,6 +355,14 @@ export function readValueCompare(sq: SubQuestion, tables: Record<string, ResultT
     } else noLevelTest = r.reason;
   }
   const strip = ({ cell: _cell, ...side }: ContrastSide & { cell: Cell | null }): ContrastSide => side;
+  // Spans of different lengths (two named months): the days are said, and a flow is also given per day.
+  const [dc, dp] = [daysBetween(spans.current.start, spans.current.end), daysBetween(spans.prior.start, spans.prior.end)];
+  const perDay = (s: ContrastSide): PerDaySide => {
+    const current = s.current === null ? null : s.current / dc;
+    const prior = s.prior === null ? null : s.prior / dp;
+    return { current, prior, growth: current !== null && prior !== null && prior > 0 ? current / prior - 1 : null };
+  };
+  const lengths = dc !== dp && dc > 0 && dp > 0 ? { current: dc, prior: dp, perDay: isAdditive(metric) ? { first: perDay(a), second: perDay(b) } : null } : null;
   const gap = (x: number | null, y: number | null) => (x !== null && y !== null ? x - y : null);
   const finding: ValueCompareFinding = {
     type: 'value_compare',
@@ -350,6 +375,7 @@ export function readValueCompare(sq: SubQuestion, tables: Record<string, ResultT
     ...(spans.unit ? { spanUnit: spans.unit } : {}),
     first: strip(a),
     second: strip(b),
+    lengths,
     gapCurrent: gap(a.current, b.current),
     gapPrior: gap(a.prior, b.prior),
     growthGap: gap(a.growth, b.growth),

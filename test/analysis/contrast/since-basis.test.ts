@@ -3,7 +3,7 @@
 // the project was never built around: vega-datasets' iowa-electricity.csv (US EIA net generation
 // in Iowa by source, one row per source per year, 2001–2017), with the catalog of
 // test/helpers/open-data.ts. Every figure is checked against the test's own SQL on the CSV.
-import { mkdtempSync } from 'node:fs';
+import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { DuckDBInstance } from '@duckdb/node-api';
@@ -146,5 +146,65 @@ describe('answering a change since a start', () => {
     const f = (await answerSubQuestion(sq, ws)).findings.find((x): x is ValueCompareFinding => x.type === 'value_compare')!;
     expect(f.priorBasis).toBe('year_earlier');
     expect(f.prior).toEqual({ start: '2016-01-01', end: '2017-01-01' });
+  });
+});
+
+// Two named months of different lengths, on vega-datasets' seattle-weather.csv (NOAA daily
+// weather in Seattle, 2012–2015): rain days against sun days, February 2012 (29 days) against
+// January 2012 (31). Counts and per-day figures checked against the test's own SQL.
+describe('named periods of different lengths', () => {
+  let seattle: Workspace;
+  beforeAll(async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'tc-seattle-'));
+    const file = join(dir, 'seattle.yaml');
+    writeFileSync(file, `version: 1
+datasets:
+  - name: seattle_weather
+    label: Seattle weather
+    source: { kind: csv, paths: [${vegaDataFile('seattle-weather.csv')}] }
+    time_column: date
+    timezone: UTC
+    metrics:
+      - { name: days, label: Days, count: rows, unit: count, kind: flow }
+      - { name: temp_max, label: Highest temperature, average: temp_max, unit: number, kind: level }
+    dimensions:
+      - { name: weather, label: Weather, column: weather }
+`);
+    seattle = await openWorkspace(loadConfig(file));
+  }, 60_000);
+  afterAll(async () => {
+    await seattle?.source.close();
+  });
+  const sq = (metric: string): SubQuestion => ({
+    id: 'vc', kind: 'growth', lens: 'summary', template: 'value_compare', metrics: [metric], dimension: 'weather', grain: 'day',
+    window: { start: '2012-02-01', end: '2012-03-01' }, compareWindow: { start: '2012-01-01', end: '2012-02-01' }, filters: [],
+    contrast: { dimension: 'weather', values: ['rain', 'sun'] },
+  });
+
+  it('gives a count per day when a 29-day month is set against a 31-day one', async () => {
+    const db = await DuckDBInstance.create(':memory:');
+    const conn = await db.connect();
+    const rows = (await conn.runAndReadAll(`SELECT weather, month(date) AS m, COUNT(*)::DOUBLE AS n FROM read_csv_auto('${vegaDataFile('seattle-weather.csv')}')
+      WHERE date >= DATE '2012-01-01' AND date < DATE '2012-03-01' AND weather IN ('rain', 'sun') GROUP BY 1, 2`)).getRowObjectsJson();
+    conn.closeSync();
+    db.closeSync();
+    const n = (w: string, m: number) => Number(rows.find((r) => r.weather === w && Number(r.m) === m)!.n);
+    const answer = await answerSubQuestion(sq('days'), seattle);
+    const f = answer.findings.find((x): x is ValueCompareFinding => x.type === 'value_compare')!;
+    expect(f.first.current).toBe(n('rain', 2));
+    expect(f.first.prior).toBe(n('rain', 1));
+    expect(f.lengths).not.toBeNull();
+    expect([f.lengths!.current, f.lengths!.prior]).toEqual([29, 31]);
+    expect(f.lengths!.perDay!.first.current).toBeCloseTo(n('rain', 2) / 29, 10);
+    expect(f.lengths!.perDay!.first.growth).toBeCloseTo(n('rain', 2) / 29 / (n('rain', 1) / 31) - 1, 10);
+    const p = SUB_QUESTIONS.value_compare.present(answer, presentContext(seattle, 'managers'));
+    expect(p.caption).toContain('Feb 2012 has 29 days and Jan 2012 31, so per day: rain');
+    expect(captionProblems(answer, p)).toEqual([]);
+  });
+
+  it('says an average is not changed by the days', async () => {
+    const answer = await answerSubQuestion(sq('temp_max'), seattle);
+    const p = SUB_QUESTIONS.value_compare.present(answer, presentContext(seattle, 'managers'));
+    expect(p.caption).toContain('has 29 days and Jan 2012 31; highest temperature is not a total, so the days do not change it.');
   });
 });
