@@ -1,5 +1,6 @@
 // Lookups over one dataset's catalog. Names reaching SQL are checked here first.
 import type { ComparisonGroup, DatasetConfig, Dimension, Metric, MetricKind } from '../config/schema.js';
+import { type Expr, expressionColumns } from '../config/expression.js';
 import type { SeasonalModel } from './stats/decomposition.js';
 import type { RankOrder, SegmentFilter } from './types.js';
 
@@ -69,12 +70,62 @@ export function isBreakdownDimension(ds: DatasetConfig, name: string): boolean {
   return !!d && isGroupable(ds, name) && !ds.comparison_groups.some((g) => g.column === d.column);
 }
 
+/** The columns a comparison group's rule reads: its own true/false column, or those its `when` condition reads. */
+export function groupColumns(ds: DatasetConfig, g: ComparisonGroup): string[] {
+  const derived = ds.derived?.find((x) => x.name === g.column);
+  return derived ? expressionColumns(derived.expr) : [g.column];
+}
+
+/**
+ * Whether a group is made of a dimension's values alone (`{column: shop, one_of: [...]}`, or the
+ * group's own column as a dimension): every segment of it is then all members or all others, so
+ * the group is never compared within it, and naming its values names the sides of the comparison.
+ */
+export function groupMadeOf(ds: DatasetConfig, g: ComparisonGroup, dimension: string): boolean {
+  const column = ds.dimensions.find((d) => d.name === dimension)?.column;
+  if (column === undefined) return false;
+  const columns = groupColumns(ds, g);
+  return columns.length === 1 && columns[0] === column;
+}
+
+/** The values that mark a group's members, when its rule lists them (`{column: shop, one_of: [...]}`). */
+export function memberValues(ds: DatasetConfig, g: ComparisonGroup): string[] | undefined {
+  const e = ds.derived?.find((x) => x.name === g.column)?.expr;
+  if (e?.type === 'in' && !e.negated && e.list.every((x) => x.type === 'string')) return e.list.map((x) => (x as { value: string }).value);
+  if (e?.type === 'binary' && e.op === '=' && e.right.type === 'string') return [e.right.value];
+  return undefined;
+}
+
+/**
+ * Whether a value of the dimension a group is made of marks a member: read from a rule that lists
+ * values (`one_of`, `is`, `is_not`) or a true/false column; undefined for any other rule.
+ */
+export function isMemberValue(ds: DatasetConfig, g: ComparisonGroup, value: string | number | boolean): boolean | undefined {
+  const derived = ds.derived?.find((x) => x.name === g.column);
+  if (!derived) {
+    const text = String(value).toLowerCase();
+    return ['true', 't', 'yes', '1'].includes(text) ? true : ['false', 'f', 'no', '0'].includes(text) ? false : undefined;
+  }
+  const e = derived.expr;
+  const literal = (x: Expr): string | undefined => (x.type === 'string' ? x.value : x.type === 'number' ? x.text : x.type === 'boolean' ? String(x.value) : undefined);
+  if (e.type === 'in' && e.value.type === 'column') {
+    const list = e.list.map(literal);
+    if (list.some((x) => x === undefined)) return undefined;
+    return list.includes(String(value)) !== e.negated;
+  }
+  if (e.type === 'binary' && (e.op === '=' || e.op === '!=') && e.left.type === 'column') {
+    const v = literal(e.right);
+    return v === undefined ? undefined : (v === String(value)) === (e.op === '=');
+  }
+  return undefined;
+}
+
 /**
  * The first dimension that may be a breakdown, in catalog order, skipping any that `filters` pin
  * to a single value (a breakdown by team of "the Billing team only" has one row: 100%).
  */
-export function firstBreakdownDimension(ds: DatasetConfig, filters: readonly SegmentFilter[] = []): string | undefined {
-  return ds.dimensions.find((d) => isBreakdownDimension(ds, d.name) && !pinsOneValue(filters, d.name))?.name;
+export function firstBreakdownDimension(ds: DatasetConfig, filters: readonly SegmentFilter[] = [], group?: ComparisonGroup): string | undefined {
+  return ds.dimensions.find((d) => isBreakdownDimension(ds, d.name) && !pinsOneValue(filters, d.name) && !(group && groupMadeOf(ds, group, d.name)))?.name;
 }
 
 /** The filters keep a single value of the dimension ("team: Billing"), so nothing is left to break down. */

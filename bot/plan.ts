@@ -2,7 +2,7 @@
 // shaped by the audience and capped in size, and the plan edits a requester can type.
 import { isDeepStrictEqual } from 'node:util';
 import type { ComparisonGroup, DatasetConfig } from '../config/schema.js';
-import { firstBreakdownDimension, isAdditive, isBreakdownDimension, metricByName, plainCountMetric } from '../analysis/catalog.js';
+import { firstBreakdownDimension, groupMadeOf, isAdditive, isBreakdownDimension, metricByName, plainCountMetric } from '../analysis/catalog.js';
 import type { Coverage } from '../analysis/coverage.js';
 import { SUB_QUESTIONS, type TemplateName } from '../analysis/sub-questions/registry.js';
 import { type DateWindow, type Grain, type Lens, type RequestKind, type SubQuestion } from '../analysis/types.js';
@@ -137,8 +137,11 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           }
           add('performance_compare', metric, true, g, since);
           add('performance_before_after', metric, false, g, history);
-          const d = dims[0] ?? firstBreakdownDimension(ds, q.filters);
-          if (d) add('performance_by_segment', metric, false, { ...g, dimension: d, ...(dims[0] ? {} : { defaultBreakdown: true }) }, since);
+          // Never within a breakdown the group is made of ("Early Bake shops vs other shops within
+          // each shop"): each of its segments holds one side only.
+          const asked = dims.filter((x) => !groupMadeOf(ds, group, x));
+          const d = asked[0] ?? firstBreakdownDimension(ds, q.filters, group);
+          if (d) add('performance_by_segment', metric, false, { ...g, dimension: d, ...(asked[0] ? {} : { defaultBreakdown: true }) }, since);
           break;
         }
         case 'kpi': {

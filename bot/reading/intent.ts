@@ -9,6 +9,8 @@ import { KIND_CUES } from './lexicon.js';
 export interface IntentFeatures {
   /** The clause names a comparison group of the catalog. */
   namesGroup: boolean;
+  /** The clause breaks down by the column that marks a group's members ("by pass holder"). */
+  splitsByGroup?: boolean;
   /** A launch or start date is stated, or the text refers to a launch. */
   refersToLaunch: boolean;
   /** The clause compares its period with another. */
@@ -39,6 +41,8 @@ const ASKS_AMOUNT = /\b(?:what(?:'s|\s+is|\s+are|\s+was|\s+were)|how\s+many|how\
 const HOW_DID_IT_GO = /\bhow\s+(?:did|was|were)\b.{0,60}\b(?:go|do|look|turn\s+out|land|perform|end\s+up|shape\s+up)\b|\bhow\s+(?:was|were)\s+(?:last|this|the|our|yesterday|[a-z]+day)\b|\bhow(?:'s|'re|\s+is|\s+are)\b.{0,50}\b(?:doing|going|looking|performing)\b/;
 // "how many users do we have": how things stand now.
 const HOW_MANY_NOW = /\bhow\s+(?:many|much)\b.{0,60}\b(?:do\s+we\s+have|have\s+we\s+got|are\s+there|is\s+there)\b/;
+// Whether something worked: "did X work", "is it working", "a success", "made a difference", "moved the needle", "any good".
+const WORKED = /\b(?:work(?:s|ed|ing)?|succe(?:ss|ssful|eded|ed|eds)|(?:make|made|making|makes)\s+(?:a|any|much\s+of\s+a|the)?\s*difference|mov(?:e|ed|ing)\s+the\s+needle|any\s+good|do(?:ne)?\s+anything|deliver(?:s|ed|ing)?|result(?:s|ed)?|outcomes?|lift|uplift)\b/;
 const CHANGE = /\b(?:trend\w*|over\s+time|mov\w*|evolv\w*|chang\w*|gr[eo]w\w*|declin\w*|increas\w*|decreas\w*|improv\w*|worsen\w*)\b/;
 const CHANGE_OR_PATTERN = /\b(?:trend\w*|over\s+time|pattern\w*|season\w*|month\s+by\s+month|week\s+by\s+week|quarter\s+by\s+quarter|year\s+by\s+year|mov\w*|evolv\w*|chang\w*|gr[eo]w\w*|declin\w*|increas\w*|decreas\w*|improv\w*|worsen\w*|been\s+going|been\s+doing|compar\w*|over\s+the)\b/;
 
@@ -60,9 +64,10 @@ export function readIntent(clause: string, f: IntentFeatures): IntentReading {
     words.growth.push('two periods compared');
   }
   const choose = (kind: RequestKind, why: string[]): IntentReading => ({ kind, words: why.join(', '), scores });
-  // A group or a launch makes a comparison, a cause or an effect a performance question.
-  const causal = /\b(?:than|vs\.?|versus|compar\w*|against|differ\w*|more|less|fewer|higher|lower|better|worse|rest|others|everyone|non-?\w+|affect\w*|effect\w*|impact\w*|hurt|help\w*|boost\w*|speed\w*\s+up|slow\w*\s+down|change[sd]?\b|worth|pay\w*\s+off|go\s+(?:up|down)|went\s+(?:up|down)|before\s+and\s+after)\b/.test(t);
-  if ((scores.performance > 0 || causal) && (f.namesGroup || f.refersToLaunch)) return choose('performance', words.performance.length ? words.performance : ['a group or a launch set against the rest']);
+  // A group or a launch makes a comparison, a cause or an effect a performance question; so does
+  // asking whether it worked, in any register ("did Early Bake work?", "was the pass a success").
+  const causal = /\b(?:than|vs\.?|versus|compar\w*|against|differ\w*|more|less|fewer|higher|lower|better|worse|rest|others|everyone|non-?\w+|affect\w*|effect\w*|impact\w*|hurt|help\w*|boost\w*|speed\w*\s+up|slow\w*\s+down|change[sd]?\b|worth|pay\w*\s+off|go\s+(?:up|down)|went\s+(?:up|down)|before\s+and\s+after)\b/.test(t) || WORKED.test(t);
+  if ((scores.performance > 0 || causal || f.splitsByGroup === true) && (f.namesGroup || f.refersToLaunch)) return choose('performance', words.performance.length ? words.performance : ['a group or a launch set against the rest']);
   const span = f.window ? (Date.parse(f.window.end) - Date.parse(f.window.start)) / 86_400_000 : 0;
   const onePeriod = f.window !== undefined && (f.windowSingle === true || span <= 93);
   if (scores.kpi > 0 && !(f.window && span > 400 && !f.windowSingle)) return choose('kpi', words.kpi);

@@ -41,6 +41,8 @@ import { overlaps, RequestText, type Span } from './text.js';
 import { findUnknownTerms } from './unknown-words.js';
 import { mendCalendarWords } from './spelling.js';
 import { COUNTING } from './metric-ranking.js';
+import { groupMadeOf, isMemberValue, memberValues } from '../../analysis/catalog.js';
+import { listJoin } from '../../analysis/captions/grammar.js';
 import { AUDIENCES, GRAINS } from '../../analysis/types.js';
 
 /** What the reader knows about a dataset's data. */
@@ -422,6 +424,8 @@ function readQuestions(st: ReadState): { questions: Question[]; ambiguous: Ambig
   // The values a frame ("For email tickets, …") restricts the request to, in force when each question was read.
   let frame: SegmentFilter[] = [];
   const framed = new Map<Question, SegmentFilter[]>();
+  // The group each question's words named, compared or not.
+  const groupsNamed = new Map<Question, string>();
   for (const [at, clause] of clauses.entries()) {
     const r = readClause(clause, st, ambiguous);
     const previous = questions[questions.length - 1];
@@ -443,6 +447,18 @@ function readQuestions(st: ReadState): { questions: Question[]; ambiguous: Ambig
       if (!previous.launchDate) previous.launchDate = r.launchDate;
       if (previous.kind !== 'performance' && (previous.comparisonGroup || /\b(?:effect|impact|hurt|help|affect\w*|worth|change\w*)\b/i.test(previous.text))) previous.kind = 'performance';
       continue;
+    }
+    // "Did Early Bake work? Before and after the launch pls": the launch completes the question
+    // before it, which names the group it turns on.
+    if (previous && r.kind === 'performance' && r.metrics.length === 0 && !r.group && r.filters.length === 0 && r.dimensions.length === 0 && r.periods.length === 0 && refersToLaunch(r.clause.text)) {
+      const named = previous.comparisonGroup ?? groupsNamed.get(previous);
+      const g = st.ds.comparison_groups.find((x) => x.name === named);
+      if (g) {
+        previous.kind = 'performance';
+        previous.comparisonGroup = g.name;
+        if (!previous.launchDate && g.launch_date) previous.launchDate = g.launch_date;
+        continue;
+      }
     }
     // "Before and after the launch, how did bookings change?": the measure completes the question before it.
     if (previous && previous.metrics.length === 0 && !previous.frequency && r.metrics.length > 0 && !r.group && (r.kind === null || r.kind === previous.kind || previous.kind === 'performance' || r.kind === 'trend' || r.kind === 'growth') && !r.launchDate) {
@@ -474,10 +490,13 @@ function readQuestions(st: ReadState): { questions: Question[]; ambiguous: Ambig
     }
     const q = toQuestion(r, st, previous, pending);
     pending = null;
+    if (r.group) groupsNamed.set(q, r.group);
     framed.set(q, frame);
     questions.push(q);
   }
   carryFilters(questions, framed);
+  for (const [q, name] of groupsNamed) if (!q.comparisonGroup) st.notes.push(groupNotCompared(q, name, st.ds));
+  for (const q of questions) if (q.comparisonGroup) keepComparison(q, st);
   // Nothing read as a question (no metric, no cue): the whole request is one, for the card to complete.
   if (questions.length === 0 && clauses.length > 0) {
     const whole: Clause = { start: clauses[0]!.start, end: clauses[clauses.length - 1]!.end, text: st.text.original.trim(), asked: true };
@@ -656,6 +675,7 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
   const dimensions: string[] = [];
   const valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[] = [];
   let group: string | undefined;
+  let splitsByGroup = false;
 
   const metricHits: CatalogHit[] = [];
   for (const h of hits) {
@@ -665,6 +685,7 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
     if (kinds.has('personal') && !(kinds.has('value') && !personalContext(h, st.text))) continue;
     if (kinds.has('group')) {
       group ??= h.entries.find((e) => e.kind === 'group')!.name;
+      if (BREAKDOWN_BEFORE.test(lower.slice(Math.max(0, h.start - 40), h.start))) splitsByGroup = true;
       continue;
     }
     if (kinds.has('metric')) {
@@ -675,7 +696,13 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
     }
     if (kinds.has('dimension')) {
       const dim = h.entries.find((e) => e.kind === 'dimension')!.name;
-      if (isBreakdown(h, dim, hits, st) && !isGroupColumn(st.ds, dim)) dimensions.push(dim);
+      // The breakdown a group is made of ("the pass" for SkerryPass holders) names the group.
+      // Broken down by it ("revenue by pass holder"), the group is set against the rest.
+      const asGroup = groupOfColumn(st.ds, dim);
+      if (asGroup) {
+        group ??= asGroup;
+        if (isBreakdown(h, dim, hits, st)) splitsByGroup = true;
+      } else if (isBreakdown(h, dim, hits, st)) dimensions.push(dim);
       continue;
     }
     const values = h.entries.filter((e) => e.kind === 'value');
@@ -730,6 +757,7 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
   const plainPeriods = kept.filter((p) => p.window && !p.compared && !p.shift);
   const intent = readIntent(clause.text, {
     namesGroup: group !== undefined,
+    splitsByGroup,
     refersToLaunch: launch !== undefined || refersToLaunch(clause.text),
     comparesPeriods: windows.compareWindow !== undefined,
     contrastsValues: contrast !== undefined,
@@ -766,7 +794,7 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
     context: false,
   };
   // A clause with nothing to measure whose cues are only a deadline or an audience is context.
-  const onlyDeadlineOrAudience = metrics.length === 0 && dims.length === 0 && filters.length === 0 && !group && kept.every((p) => !p.window) && (/\b(?:need|needed|ideally|by|before|deadline|due|would be great|is fine|no rush|thanks|cheers|regards|best)\b/.test(t) || intent.kind === null);
+  const onlyDeadlineOrAudience = metrics.length === 0 && dims.length === 0 && filters.length === 0 && !group && !refersToLaunch(clause.text) && kept.every((p) => !p.window) && (/\b(?:need|needed|ideally|by|before|deadline|due|would be great|is fine|no rush|thanks|cheers|regards|best)\b/.test(t) || intent.kind === null);
   if (onlyDeadlineOrAudience && !reading.frequency && !reading.table && !/\?\s*$/.test(clause.text + (clause.asked ? '?' : ''))) reading.context = true;
   if (group) reading.group = group;
   if (contrast) reading.contrast = contrast;
@@ -927,9 +955,10 @@ function nearGap(a: Span, b: Span, lower: string): number {
   return gap.trim().split(/\s+/).filter((w) => w.length > 0 && !/^(?:the|a|an|of|:|-)$/.test(w)).length;
 }
 
-function isGroupColumn(ds: DatasetConfig, dim: string): boolean {
+/** The comparison group whose members a dimension's column marks (SkerryPass holders and the pass_holder column). */
+function groupOfColumn(ds: DatasetConfig, dim: string): string | undefined {
   const column = ds.dimensions.find((d) => d.name === dim)?.column;
-  return ds.comparison_groups.some((g) => g.column === column);
+  return ds.comparison_groups.find((g) => g.column === column)?.name;
 }
 
 /** "A per B" names the ratio metric of A and B, or the average of A's column when B is the row count. */
@@ -1141,6 +1170,53 @@ function statedLaunch(periods: PeriodMention[], text: RequestText): { date: stri
   }
   return undefined;
 }
+
+/**
+ * A comparison keeps both its sides. Values named of the breakdown the group is made of ("impact
+ * of Early Bake at Harrow Lane, Millbrook and St Aidan's") name one side, so they are not a filter
+ * that would leave nothing to compare with: said on the card. "Since" the launch date is the
+ * launch the comparison turns on, not a window that leaves no before period.
+ */
+function keepComparison(q: Question, st: ReadState): void {
+  const ds = st.ds;
+  const g = ds.comparison_groups.find((x) => x.name === q.comparisonGroup);
+  if (!g) return;
+  const kept: SegmentFilter[] = [];
+  for (const f of q.filters) {
+    const sides = groupMadeOf(ds, g, f.dimension) && !f.exclude ? f.values.map((v) => isMemberValue(ds, g, v)) : [];
+    const side = sides.length > 0 && sides.every((x) => x === sides[0]) ? sides[0] : undefined;
+    if (side === undefined) {
+      kept.push(f);
+      continue;
+    }
+    const named = listJoin(f.values.map(String));
+    const members = memberValues(ds, g);
+    const all = side && members !== undefined && members.length === f.values.length;
+    const one = f.values.length === 1;
+    st.notes.push(
+      all
+        ? `${named} ${one ? 'is' : 'are'} the ${g.members_label}, so I compare ${one ? 'it' : 'them'} with ${g.others_label} rather than keep to ${one ? 'it' : 'them'}.`
+        : `${named} ${one ? 'is' : 'are'} ${side ? `among the ${g.members_label}` : `among ${g.others_label}`}; kept to ${one ? 'it' : 'them'} there would be nothing to compare with, so I compare all ${g.members_label} with ${g.others_label}.`,
+    );
+  }
+  q.filters = kept;
+  if (g.launch_date && !q.launchDate && q.window?.start === g.launch_date && q.window.end === latestEnd(st) && !q.compareWindow) {
+    q.launchDate = g.launch_date;
+    delete q.window;
+    delete q.windowSoFar;
+  }
+}
+
+/**
+ * A group named in a question that sets it against nothing ("Early Bake shops' orders by month"):
+ * the answers cover every row, said on the card with the words that would compare the group.
+ */
+function groupNotCompared(q: Question, name: string, ds: DatasetConfig): string {
+  const g = ds.comparison_groups.find((x) => x.name === name)!;
+  return `"${q.text}" names ${g.label} but sets them against nothing, so I read it as a ${KIND_WORDS[q.kind]} question over all the data, not split by group. To set ${g.members_label} against ${g.others_label}${g.launch_date ? ' before and after the launch' : ''}, ask for "${g.members_label} vs ${g.others_label}".`;
+}
+
+const KIND_WORDS: Record<RequestKind, string> = { trend: 'trend', growth: 'growth', kpi: 'snapshot', performance: 'comparison' };
 
 function refersToLaunch(text: string): boolean {
   return /\b(?:since|after|before|post|pre)[- ](?:it|we|they|the)?\s*(?:[\p{L}-]+\s+){0,3}(?:launch(?:ed)?|went\s+live|started|rolled\s+out|introduc\w+|began|came\s+in)\b|\bsince\s+(?:the\s+)?launch\b|\bpost-launch\b|\bpre-launch\b|\bbefore\s+and\s+after\b|\blaunch(?:ed)?\b/iu.test(text);
