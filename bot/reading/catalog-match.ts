@@ -361,7 +361,9 @@ function wantsEvidence(h: CatalogHit, e: CatalogEntry): boolean {
   return (!!e.weak || CALENDAR_NAME.test(w.norm)) && lower && dataForm(e, w.norm) !== w.raw;
 }
 
-const SET_AGAINST = /^\s*(?:vs\.?|versus|v|or|and|&|\/)\s*$|^\s*(?:[\p{L}'-]+\s+){0,2}(?:vs\.?|versus|than|against|compared\s+(?:to|with))\s+(?:[\p{L}'-]+\s+){0,2}$/u;
+// "during the day or at night", "by day and by night": "or" and "and" with the little words of time around them;
+// "night strikes compare to day ones": a word of comparison with a few words of any kind.
+const SET_AGAINST = /^\s*(?:vs\.?|versus|v|or|and|&|\/)\s*$|^\s*(?:(?:at|in|on|by|during|the|a|an)\s+){0,2}(?:or|and)\s+(?:(?:at|in|on|by|during|the|a|an)\s+){0,2}$|^\s*(?:[\p{L}'-]+\s+){0,2}(?:vs\.?|versus|than|against|compared?\s+(?:to|with))\s+(?:[\p{L}'-]+\s+){0,2}$/u;
 
 /**
  * A value that is also an everyday word ("day", "large", "may") written in lower case when the
@@ -393,7 +395,7 @@ function valuesWithEvidence(h: CatalogHit, hits: readonly CatalogHit[], text: Re
     return false;
   };
   // Another value of its breakdown set against it: "Night vs day", "day or night".
-  // A word of comparison may have a few words around it ("night strikes than day strikes", "at night against in the day").
+  // A word of comparison may have a few words around it ("night strikes than day strikes", "at night against in the day", "during the day or at night").
   const setAgainst = (dim: string) =>
     hits.some((o) => o !== h && o.entries.some((x) => x.kind === 'value' && x.name === dim && !wantsEvidence(o, x)) && (o.end <= h.start ? o.end : h.end) < (o.end <= h.start ? h.start : o.start) && SET_AGAINST.test(o.end <= h.start ? text.lower.slice(o.end, h.start) : text.lower.slice(h.end, o.start)));
   // An entry kept on evidence is no longer a weak one: the words around it have said what it is.

@@ -832,7 +832,11 @@ function rowsAsUnit(metricHits: CatalogHit[], hits: CatalogHit[], clause: Clause
     if (metricOf(h) !== rows) continue;
     const before = st.text.lower.slice(Math.max(0, h.start - 12), h.start);
     const per = /\b(?:per|for\s+each|each|every|a|an)\s+$/.test(before);
-    if (!per && !isUnitNoun(h, hits, st.text) && shared.length === 0) continue;
+    // "the cost of strikes", "strike costs", "how much did strikes cost us": the rows the other measure is taken over.
+    const lower = st.text.lower;
+    const ofRows = others.some((o) => o.end <= h.start && /^\s+of\s+(?:the\s+|our\s+|all\s+|these\s+|those\s+)?$/.test(lower.slice(o.end, h.start)));
+    const besideOther = others.some((o) => o.start >= h.end && /^\s*$/.test(lower.slice(h.end, o.start)));
+    if (!per && !ofRows && !besideOther && !isUnitNoun(h, hits, st.text) && shared.length === 0) continue;
     const measured = others.map((o) => st.ds.metrics.find((m) => m.name === metricOf(o))!);
     // "revenue per booking" the catalog has as a ratio or an average: composeRatios reads it.
     const composed = (m: Metric) => st.ds.metrics.some((x) => (x.definition.type === 'ratio' && x.definition.numerator === m.name && x.definition.denominator === rows) || (m.definition.type === 'sum' && x.definition.type === 'average' && x.definition.column === m.definition.column && !x.definition.where));

@@ -105,6 +105,26 @@ describe('"the fewest", "the least", "bottom N": a ranking from the smallest, an
   });
 });
 
+describe('the rows a measure is taken over are not a second measure', () => {
+  it.each([
+    ['Could you break down the total cost of strikes by phase of flight, please?', 'cost_total'],
+    ['what is the cost of strikes by state', 'cost_total'],
+    ['repair costs of bird strikes per year', 'cost_repair'],
+    ['how much did strikes cost us in 2000', 'cost_total'],
+    ['strike costs by species', 'cost_total'],
+  ])('%s', (text, metric) => {
+    expect(read(strikes, text).questions.map((q) => q.metrics)).toEqual([[metric]]);
+  });
+
+  it.each(['strikes and total cost by year', 'Night vs day: how do strike numbers and repair costs compare?'])('both asked: %s', (text) => {
+    expect(read(strikes, text).questions[0]!.metrics).toHaveLength(2);
+  });
+
+  it('"flight delays by origin" is the delay of flights (flights-20k)', () => {
+    expect(read(flights, 'flight delays by origin').questions[0]!.metrics).toEqual(['avg_delay']);
+  });
+});
+
 describe('"top N … and what share of all Y do they handle": the share the top N carry, not a rate of the catalog', () => {
   it.each([
     ['top 5 busiest origin airports by number of flights, and what share of all flights do they handle?', 5, 'origin'],
@@ -149,6 +169,8 @@ describe('two values of one breakdown set against each other, with no change ask
     'how do night and day compare on strikes?',
     'Strikes: Night against Day, please',
     'day v night - repair costs??',
+    'Do more strikes happen during the day or at night?',
+    'how do night strikes compare to day ones',
   ])('%s', (text) => {
     const b = read(strikes, text);
     expect(b.questions).toHaveLength(1);
