@@ -63,7 +63,9 @@ export function caveatNote(c: Caveat, locale: string): string {
       return 'This compares groups that were not randomly assigned, so it cannot prove cause.';
     case 'segments_folded':
       if (typeof d.count === 'number' && typeof d.minRows === 'number') return `${countOf(d.count, 'segment')} with fewer than ${formatValue(d.minRows, { unit: 'count', locale: 'en' })} rows ${isAre(d.count)} not ranked and ${isAre(d.count)} combined as "All others".`;
-      if (typeof d.count === 'number' && d.byValue === true) return `${countOf(d.count, 'further segment')} ranked past those named ${isAre(d.count)} combined as "All others".`;
+      // Folded by value: an average's or a lowest-first ranking's fold holds lower or higher values, not smaller segments.
+      if (typeof d.count === 'number' && d.folded === 'change') return `${countOf(d.count, 'more segment')} with smaller changes than those named ${isAre(d.count)} combined as "All others".`;
+      if (typeof d.count === 'number' && (d.folded === 'lower' || d.folded === 'higher')) return `${countOf(d.count, 'more segment')} with ${d.folded} values than those named ${isAre(d.count)} combined as "All others".`;
       return typeof d.count === 'number' ? `${countOf(d.count, 'smaller segment')} ${isAre(d.count)} combined as "All others".` : 'Smaller segments are combined as "All others".';
     case 'segment_gap':
       return `${show(d.segment)} has no data for ${periodsText(d.periods, d.grain)}, from ${period(d.firstGap, d.grain ?? 'month')}.`;

@@ -2,6 +2,7 @@
 // segments that moved it most, written only from the finding.
 import { metricDirection } from '../catalog.js';
 import { verbFor } from './grammar.js';
+import { configuredAs } from './metric-words.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { ChangedSegment, GrowthDriverSegment, GrowthDriversFinding } from '../findings/growth.js';
 import { formatChange, formatDayOfYear, formatGrowth, formatPeriod, formatValue } from '../format.js';
@@ -75,7 +76,9 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
       sentences.push(f.others.count === 1 ? `The one other: ${money(f.others.change, true)}.` : `The other ${f.others.count} together: ${money(f.others.change, true)}.`);
     }
     if (!f.additive) {
-      sentences.push(`${label} is not a sum, so segment changes do not add up to the total's; each segment's own change is shown.`);
+      // Said as the config's choice: the same quantity set up as a sum would add up.
+      const set = configuredAs(metric, dataset);
+      sentences.push(`${label} is set up in the config as ${set.as}, so segment changes do not add up to the total's; each segment's own change is shown${set.change ? ` (${set.change} would add up)` : ''}.`);
     } else if (audience === 'analysts') {
       sentences.push(`Contribution = segment change / total before, in points of the total's growth rate; the segments' contributions sum to the total's.`);
     }

@@ -1,5 +1,6 @@
 // Title and caption for a growth_share_shift answer: whose share moved most, and whether the total
 // became more or less concentrated.
+import { configuredAs } from './metric-words.js';
 import { addMonths } from '../periods.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { GrowthShareSegment, GrowthShareShiftFinding } from '../findings/growth.js';
@@ -26,7 +27,7 @@ export function growthShareShiftWords(
       title: `${label}: no shares to compare`,
       caption: additive
         ? `There is no ${lower(label)} in either span to share out.`
-        : `${label} is not a sum or a count, so it has no shares of a total; compare segments with a breakdown instead.`,
+        : `${label} is set up in the config as ${configuredAs(metric, dataset).as}, not a sum or a count, so it has no shares of a total; compare segments with a breakdown instead.`,
     };
   }
   const name = (s: GrowthShareSegment) => segmentText(s.segment, f.dimension, dataset);

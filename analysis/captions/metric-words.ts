@@ -28,6 +28,36 @@ export function meaningAside(metric: Metric, ds: DatasetConfig, audience: Audien
   return meaning ? ` (${meaning})` : '';
 }
 
+/**
+ * How the config sets a metric up, for a sentence that follows from it ("Unemployed is set up
+ * in the config as an average per row, so …"): what the catalog decided, not a fact about the
+ * quantity. `change` names, as the subject of a sentence, the metric (the catalog's own, else a
+ * config entry) that would be a total, where one would.
+ */
+export function configuredAs(metric: Metric, ds?: DatasetConfig): { as: string; change: string | null } {
+  const def = metric.definition;
+  const label = (name: string) => ds?.metrics.find((m) => m.name === name)?.label.toLowerCase() ?? name;
+  switch (def.type) {
+    case 'sum':
+      return { as: 'a sum', change: null };
+    case 'count':
+      return { as: 'a count of rows', change: null };
+    case 'average': {
+      // A sum adds up across segments only for an amount: a percent summed is no total. The
+      // catalog's own sum of the column is named where it has one.
+      if (metric.unit === 'percent') return { as: 'an average per row', change: null };
+      const sum = ds?.metrics.find((m) => m.definition.type === 'sum' && m.definition.column === def.column && !m.definition.where);
+      return { as: 'an average per row', change: sum ? `${sum.label}, set up as sum: ${def.column},` : `a metric set up as sum: ${def.column}` };
+    }
+    case 'distinct_count':
+      return { as: 'a count of distinct values', change: null };
+    case 'ratio':
+      return { as: `a ratio (${label(def.numerator)} per ${label(def.denominator)})`, change: null };
+    case 'rate':
+      return { as: 'a share of rows', change: null };
+  }
+}
+
 // Codes that end a money column's name ("revenue_eur"): said as the code in capitals.
 const CURRENCY_CODES = new Set(['eur', 'usd', 'gbp', 'jpy', 'chf', 'cad', 'aud', 'sek', 'nok', 'dkk', 'pln', 'cny', 'inr']);
 // A name a person would not say: with an underscore, or with inner capitals.

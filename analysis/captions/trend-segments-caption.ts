@@ -1,10 +1,11 @@
 // Titles and captions for segment trends and segment shares, written only from findings.
-import type { Dimension, Metric } from '../../config/schema.js';
+import type { DatasetConfig, Dimension, Metric } from '../../config/schema.js';
 import { isAdditive } from '../catalog.js';
 import { CLEAR_LEAD, type SegmentGrowthMeasure, type SegmentRanking, type SegmentSharesFinding, type SegmentShareRow, type SegmentTrendFinding, type SegmentTrendOverviewFinding } from '../findings/segments.js';
 import { formatChange, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
 import type { Audience, Finding } from '../types.js';
 import { countOf, isPluralLabel } from './grammar.js';
+import { configuredAs } from './metric-words.js';
 import type { Words } from './trend-test-caption.js';
 import { capitalise, countWord, dimensionPlural, formatRelativeSize, formatShare, lowerLabel, segmentLabel } from './trend-words.js';
 
@@ -145,14 +146,15 @@ function rankingWords(metric: Metric, dim: Dim, f: SegmentSharesFinding, ranking
   const rule =
     ranking.minRows === null
       ? ''
-      : ` Only ${plural}${floor} are ranked (a figure over fewer swings too far to rank; the floor is ${formatShare(ranking.floorRule.share, locale)} of the ${rows.plural}, kept between ${ranking.floorRule.least} and ${ranking.floorRule.most})${ranking.thin > 0 ? `; ${countOf(ranking.thin, lowerLabel(dim.label), locale, plural)} with fewer ${ranking.thin === 1 ? 'is' : 'are'} left out` : ''}.`;
+      : ` Only ${plural}${floor} are ranked (a figure over fewer swings too far to rank; the floor is ${formatShare(ranking.floorRule.share, locale)} of the ${rows.plural}, kept between ${ranking.floorRule.least} and ${ranking.floorRule.most} and at most ${formatShare(ranking.floorRule.ofLargest, locale)} of the largest ${lowerLabel(dim.label)}'s ${rows.plural})${ranking.thin > 0 ? `; ${countOf(ranking.thin, lowerLabel(dim.label), locale, plural)} with fewer ${ranking.thin === 1 ? 'is' : 'are'} left out` : ''}.`;
   const asked = f.topNAsked ?? null;
   const fewer = asked !== null && ranked.length < asked ? ` Only ${countOf(ranked.length, lowerLabel(dim.label), locale, plural)}${floor} ${ranked.length === 1 ? 'has' : 'have'} a value.` : '';
-  const rest = fold ? ` The rest together come to ${formatValue(fold.value, fmt)} ("All others").` : '';
+  // A sum's fold adds its members up; an average's or a rate's fold is its value over all their rows.
+  const rest = fold ? ` The rest ${f.additive ? 'together come to' : 'taken together are at'} ${formatValue(fold.value, fmt)} ("All others").` : '';
   return { title, caption: `Ranked ${ranking.descending ? 'highest' : 'lowest'} first${why}: ${list}.${rule}${fewer}${rest}` };
 }
 
-export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly Finding[], audience: Audience, locale: string, rows: { plural: string; singular: string } = { plural: 'rows', singular: 'row' }, request: { ranking?: boolean; contrast?: readonly [string, string] } = {}): Words {
+export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly Finding[], audience: Audience, locale: string, rows: { plural: string; singular: string } = { plural: 'rows', singular: 'row' }, request: { ranking?: boolean; contrast?: readonly [string, string]; dataset?: DatasetConfig } = {}): Words {
   const f = findings.find((x): x is SegmentSharesFinding => x.type === 'segment_shares' && x.metric === metric.name);
   const noun = lowerLabel(metric.label);
   const plural = dimensionPlural(dim);
@@ -176,7 +178,11 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
   if (!f.additive || f.total === null || named.every((r) => r.share === null)) {
     const ranked = [...named].filter((r) => r.value !== null).sort((a, b) => b.value! - a.value!);
     const top = ranked[0];
-    const why = f.additive ? `the total is not positive or some ${plural} are negative` : `${noun} ${isPluralLabel(metric.label) ? 'are' : 'is'} not a total that splits across ${plural}`;
+    // Said as the config's choice, not as a fact about the quantity (the same data set up as a sum would split).
+    const set = configuredAs(metric, request.dataset);
+    const why = f.additive
+      ? `the total is not positive or some ${plural} are negative`
+      : `${noun} ${isPluralLabel(metric.label) ? 'are' : 'is'} set up in the config as ${set.as}, not as a total that splits across ${plural}${set.change ? ` (${set.change} would)` : ''}`;
     const list = ranked.slice(0, 5).map((r) => `${segmentLabel(r)} ${formatValue(r.value, fmt)}`).join(', ');
     return {
       title: top ? `${metric.label} ${isPluralLabel(metric.label) ? 'are' : 'is'} highest for ${segmentLabel(top)} (${formatValue(top.value, fmt)})` : `${metric.label} by ${lowerLabel(dim.label)}: no values`,

@@ -262,8 +262,8 @@ export interface SegmentRanking {
   minRows: number | null;
   /** Segments left out of the ranking for having fewer rows (in the fold). */
   thin: number;
-  /** The rule minRows came from: this share of the window's rows, kept between least and most. */
-  floorRule: { share: number; least: number; most: number };
+  /** The rule minRows came from: this share of the window's rows, kept between least and most, and at most ofLargest of the largest segment's rows. */
+  floorRule: { share: number; least: number; most: number; ofLargest: number };
 }
 
 export type SegmentFinding =

@@ -15,7 +15,7 @@ export const presentSegmentShares: Presenter = (answer, ctx) => {
   const sq = answer.subQuestion;
   const metric = metricByName(ctx.dataset, sq.metrics[0]!);
   const dim = dimensionByName(ctx.dataset, sq.dimension ?? '');
-  const words = segmentSharesWords(metric, dim, answer.findings, ctx.audience, ctx.locale, rowNoun(ctx.dataset), { ranking: sq.answersAsked === true, ...(sq.contrast ? { contrast: sq.contrast.values } : {}) });
+  const words = segmentSharesWords(metric, dim, answer.findings, ctx.audience, ctx.locale, rowNoun(ctx.dataset), { ranking: sq.answersAsked === true, dataset: ctx.dataset, ...(sq.contrast ? { contrast: sq.contrast.values } : {}) });
   const f = answer.findings.find((x): x is SegmentSharesFinding => x.type === 'segment_shares' && x.metric === metric.name);
   const header = { title: words.title, chip: metric.label, subtitle: chartSubtitle(answer, metric, ctx, { grain: false }), footer: chartFooter(answer, ctx), ...ctx.chart };
   let chart = null;

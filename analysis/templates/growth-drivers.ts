@@ -96,7 +96,8 @@ function driversOf(
       contribution: folded.contribution,
       count: tail.length + small,
     };
-    if (tail.length > 0) caveats.push({ code: 'segments_folded', data: { count: tail.length, metric } });
+    // Ranked by their change, the folded ones moved less; they need not be smaller.
+    if (tail.length > 0) caveats.push({ code: 'segments_folded', data: { count: tail.length, metric, folded: 'change' } });
   }
   const undefinedRates = all.filter((s) => s.after !== null && s.before !== null && s.relative === null).length;
   const totalRelative = relative(totalBefore, totalAfter);

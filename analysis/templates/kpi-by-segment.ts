@@ -1,12 +1,12 @@
 // Template "kpi_by_segment" (kpi × breakdown): the snapshot's three points (latest complete
 // period, the one before, a year earlier) for each segment of a dimension. The top N segments
-// (as many as the request asked for, else namedSegmentCount's default; by matching rows in the
-// latest period, then by matching rows in all three) are named; the rest are combined in
+// (as many as the request asked for, else namedSegmentCount's default; ranked by the first
+// metric's value in the latest period, as segments-fold-sql ranks them) are named; the rest are combined in
 // the database, because a ratio or a distinct count of "All others" cannot be added up from the
 // segments' own values.
 import type { DatasetConfig } from '../../config/schema.js';
-import { groupableDimension, metricByName, metricDirection } from '../catalog.js';
-import { datesCondition, type PeriodScope, rowCountSql, tableRef } from '../compile-context.js';
+import { groupableDimension, isAdditive, metricByName, metricDirection, rankDescending } from '../catalog.js';
+import { type PeriodScope, rowCountSql, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type { KpiBySegmentFinding, KpiSegmentRow, SegmentKey } from '../findings/kpi.js';
 import { nextPeriod } from '../periods.js';
@@ -15,7 +15,7 @@ import type { Caveat, CellValue, CompiledQuery, Finding, ResultTable, SubQuestio
 import { baseIsZero, kpiDelta } from './kpi-delta.js';
 import { comparisonPeriods, coveredInFull, type KpiCompileContext, latestCandidates, periodsToRead, resolvedLatest } from './kpi-periods.js';
 import { EMPTY_TABLE, numberOrNull, periodExpr, periodsScope, periodsWhere } from './kpi-sql.js';
-import { namedSegmentCount } from './segments-fold-sql.js';
+import { foldedAs, namedSegmentCount, rankFloorSql } from './segments-fold-sql.js';
 import { complementaryFoldCtes, minGroupSize, suppressedSegmentsCaveat } from './small-groups.js';
 import type { Reading, Template } from './template.js';
 
@@ -49,18 +49,20 @@ export function compileKpiBySegment(sq: SubQuestion, ctx: KpiCompileContext, top
   const measures = metrics.map((m) => `  ${scope.measure(m)} AS ${q.ident(m.name)}`);
   const [key, rank, per, other] = [KEY, RANK, PERIOD, OTHER].map(q.ident);
   const min = minGroupSize(ds);
+  const values = latestValues(q, ctx, sq, metrics[0]!, candidates);
   if (min !== null) {
-    const latestList = candidates.map((c) => ctx.dialect.dateParam(q.bind(c))).join(', ');
-    return q.finish(withMinimum(q, ctx, { table, seg, rankPeriod, rankWhere, latestList, period, n, where, measures, min: q.bind(min), scope }));
+    return q.finish(withMinimum(q, ctx, { table, seg, rankPeriod, rankWhere, period, n, where, measures, min: q.bind(min), scope, values }));
   }
-  // The latest period's rows, as date ranges on the time column (not a function of it).
-  const inLatest = datesCondition(q, ctx, candidates.map((c) => ({ start: c, end: nextPeriod(c, sq.grain) })));
-  return q.finish(`WITH ranked AS (
-  SELECT ${seg} AS ${key},
-    ROW_NUMBER() OVER (ORDER BY ${rowCountSql(q, ctx, inLatest)} DESC, ${rowCountSql(q, ctx)} DESC, ${seg} ASC NULLS LAST) AS ${rank}
-  FROM ${table}
-  WHERE ${rankWhere}
-  GROUP BY ${seg}
+  return q.finish(`WITH ${values.ctes}, ranked AS (
+  SELECT tc_kpi_seg.${key},
+    ROW_NUMBER() OVER (ORDER BY ${values.order('tc_kpi_seg')}) AS ${rank}
+  FROM (
+    SELECT ${seg} AS ${key}, ${rowCountSql(q, ctx)} AS tc_kpi_all_rows
+    FROM ${table}
+    WHERE ${rankWhere}
+    GROUP BY ${seg}
+  ) tc_kpi_seg
+  LEFT JOIN tc_kpi_values ON tc_kpi_seg.${key} IS NOT DISTINCT FROM tc_kpi_values.${key}
 ), tagged AS (
   SELECT ${table}.*,
     ${period} AS ${per},
@@ -84,6 +86,33 @@ ORDER BY 1, 4, 5`);
 }
 
 /**
+ * The first metric's value for each segment in the latest period (CTE tc_kpi_values: the key,
+ * tc_kpi_value, tc_kpi_thin), and the ranking order over it: by that value, largest first or in
+ * the direction asked, a thin segment of an average or a rate after the rest (RANK_FLOOR, on its
+ * rows in the latest period), a segment with no value there after those with one (by its rows
+ * in all the periods read, `seg`.tc_kpi_all_rows), then by name.
+ */
+function latestValues(q: QueryBuilder, ctx: KpiCompileContext, sq: SubQuestion, metric: ReturnType<typeof metricByName>, candidates: string[]) {
+  const key = q.ident(KEY);
+  const seg = q.ident(groupableDimension(ctx.dataset, sq.dimension!).column);
+  const latest = periodsScope(q, ctx, candidates, sq.grain, sq.filters);
+  const descending = !sq.rankOrder || rankDescending(metric, sq.rankOrder);
+  const floor = isAdditive(metric) ? 'NULL' : rankFloorSql(q, 'tc_kpi_latest_rows');
+  const ctes = `tc_kpi_counted AS (
+  SELECT ${seg} AS ${key}, ${latest.measure(metric)} AS tc_kpi_value, ${latest.rowCount()} AS tc_kpi_latest_rows
+  FROM ${tableRef(q, ctx)}
+  WHERE ${latest.where}
+  GROUP BY ${seg}
+), tc_kpi_values AS (
+  SELECT ${key}, tc_kpi_value, COALESCE(tc_kpi_latest_rows < ${floor}, FALSE) AS tc_kpi_thin
+  FROM tc_kpi_counted
+)`;
+  const order = (segAlias: string) =>
+    `COALESCE(tc_kpi_values.tc_kpi_thin, FALSE), tc_kpi_values.tc_kpi_value ${descending ? 'DESC' : 'ASC'} NULLS LAST, ${segAlias}.tc_kpi_all_rows DESC, ${segAlias}.${key} ASC NULLS LAST`;
+  return { ctes, order };
+}
+
+/**
  * The same query with a minimum group size: a segment with fewer rows than the minimum in any
  * period read (where it has rows at all) joins "All others" whatever its rank, so no value shown
  * rests on fewer rows; while the fold is below the minimum in a period, the smallest named
@@ -94,20 +123,24 @@ ORDER BY 1, 4, 5`);
 function withMinimum(
   q: QueryBuilder,
   ctx: KpiCompileContext,
-  p: { table: string; seg: string; rankPeriod: string; rankWhere: string; latestList: string; period: string; n: string; where: string; measures: string[]; min: string; scope: PeriodScope },
+  p: { table: string; seg: string; rankPeriod: string; rankWhere: string; period: string; n: string; where: string; measures: string[]; min: string; scope: PeriodScope; values: ReturnType<typeof latestValues> },
 ): string {
   const [key, rank, per, other, small, cellPeriod, cellRows, smallCount, rankedOut, complementCount] = [KEY, RANK, PERIOD, OTHER, SMALL, CELL_PERIOD, CELL_ROWS, 'tc_kpi_small_count', 'tc_kpi_ranked_out', 'tc_kpi_complement_count'].map(q.ident);
-  return `WITH cells AS (
+  return `WITH ${p.values.ctes}, cells AS (
   SELECT ${p.seg} AS ${key}, ${p.rankPeriod} AS ${cellPeriod}, ${rowCountSql(q, ctx)} AS ${cellRows}
   FROM ${p.table}
   WHERE ${p.rankWhere}
   GROUP BY 1, 2
 ), ranked AS (
-  SELECT ${key},
-    ROW_NUMBER() OVER (ORDER BY COALESCE(SUM(${cellRows}) FILTER (WHERE ${cellPeriod} IN (${p.latestList})), 0) DESC, SUM(${cellRows}) DESC, ${key} ASC NULLS LAST) AS ${rank},
-    (MIN(${cellRows}) < ${p.min}) AS ${small}
-  FROM cells
-  GROUP BY ${key}
+  SELECT tc_kpi_seg.${key},
+    ROW_NUMBER() OVER (ORDER BY ${p.values.order('tc_kpi_seg')}) AS ${rank},
+    tc_kpi_seg.${small}
+  FROM (
+    SELECT ${key}, SUM(${cellRows}) AS tc_kpi_all_rows, (MIN(${cellRows}) < ${p.min}) AS ${small}
+    FROM cells
+    GROUP BY ${key}
+  ) tc_kpi_seg
+  LEFT JOIN tc_kpi_values ON tc_kpi_seg.${key} IS NOT DISTINCT FROM tc_kpi_values.${key}
 ), first_fold AS (
   SELECT ${key}, (${rank} > ${p.n} OR ${small}) AS tc_kpi_folded
   FROM ranked
@@ -212,16 +245,17 @@ export function readKpiBySegment(sq: SubQuestion, table: ResultTable, dataset: D
     findings.push(finding);
   }
   const other = [...groups.values()].find((g) => g.other);
+  const folded = foldedAs(metricByName(dataset, sq.metrics[0]!), sq.rankOrder);
   if (other) {
     const count = Math.max(...[...other.byPeriod.values()].map((r) => Number(r.segment_count ?? 0)));
     const minimum = minGroupSize(dataset);
-    if (minimum === null) caveats.push({ code: 'segments_folded', data: { count } });
+    if (minimum === null) caveats.push({ code: 'segments_folded', data: { count, folded } });
     else {
       const first = [...other.byPeriod.values()][0]!;
       const small = Number(first.small_segments ?? 0);
       const ranked = Number(first.ranked_out_segments ?? 0);
       const complement = Number(first.complement_segments ?? 0);
-      if (ranked > 0) caveats.push({ code: 'segments_folded', data: { count: ranked } });
+      if (ranked > 0) caveats.push({ code: 'segments_folded', data: { count: ranked, folded } });
       if (small > 0) caveats.push(suppressedSegmentsCaveat(small, minimum, { dimension: sq.dimension! }, complement));
     }
   }

@@ -21,9 +21,20 @@ export function namedSegmentCount(sq: Pick<SubQuestion, 'rankLimit'>): number {
 /**
  * A ranking of an average or a rate by its value names only segments with enough rows: at least
  * this share of the window's rows, kept between the two bounds (common practice: a value over a
- * few dozen rows swings too far to rank; the floor is said in the caption, as rank_min_rows).
+ * few dozen rows swings too far to rank; the floor is said in the caption, as rank_min_rows), and
+ * never more than `ofLargest` of the largest segment's rows: where every segment is a dozen
+ * monthly readings, each is as firm as the others and all are ranked.
  */
-export const RANK_FLOOR = { share: 0.01, least: 30, most: 100 } as const;
+export const RANK_FLOOR = { share: 0.01, least: 30, most: 100, ofLargest: 0.5 } as const;
+
+/**
+ * RANK_FLOOR as SQL over one row per segment: `rows` is the column with each segment's rows, read
+ * with window functions over all the segments (so the SELECT it sits in must not be grouped).
+ */
+export function rankFloorSql(q: QueryBuilder, rows: string): string {
+  const share = `CEIL(${q.bind(RANK_FLOOR.share)} * SUM(${rows}) OVER ())`;
+  return q.dialect.toDouble(`LEAST(CEIL(${q.bind(RANK_FLOOR.ofLargest)} * MAX(${rows}) OVER ()), GREATEST(${q.bind(RANK_FLOOR.least)}, LEAST(${q.bind(RANK_FLOOR.most)}, ${share})))`);
+}
 
 export interface FoldedQueryOptions {
   topN: number;
@@ -35,6 +46,18 @@ export interface FoldedQueryOptions {
   totals?: boolean;
 }
 
+/**
+ * What the segments folded past those named are, against them, under the one ranking rule:
+ * 'smaller' for a sum or a count ranked largest first, 'lower' or 'higher' values otherwise
+ * (an average ranked highest first; anything ranked lowest first). Captions say it.
+ */
+export type FoldedAs = 'smaller' | 'lower' | 'higher';
+export function foldedAs(metric: Metric, rankOrder: SubQuestion['rankOrder']): FoldedAs {
+  const descending = !rankOrder || rankDescending(metric, rankOrder);
+  if (!descending) return 'higher';
+  return isAdditive(metric) ? 'smaller' : 'lower';
+}
+
 /** The dimension a segment sub-question breaks down by; personal data is refused here. */
 export function segmentDimension(sq: SubQuestion, ctx: CompileContext) {
   if (!sq.dimension) throw new CatalogError('unknown_dimension', '', `the ${sq.template} template needs a dimension to break down by`);
@@ -42,12 +65,13 @@ export function segmentDimension(sq: SubQuestion, ctx: CompileContext) {
 }
 
 /**
- * Segments are ranked by the metric when it is additive (their size is the metric) and by row
- * count otherwise (an average has no size; the biggest segments are the ones worth naming).
- * A ranking asked by value ("worst 10", sq.rankOrder) ranks by the metric in that direction; for
- * an average or a rate only segments with at least RANK_FLOOR rows are named, the thinner ones
- * are folded (rank_min_rows says the floor, thin_members how many the fold holds for it).
- * Ties rank by the value's text so the fold never depends on scan order. Columns:
+ * Segments are ranked by the metric's own value, one rule for every metric: the largest first
+ * ("top 5", a plain breakdown), or in the direction asked ("worst 10", sq.rankOrder, with the
+ * metric's direction for best/worst). Rows count only as a floor for an average or a rate: a
+ * segment with fewer rows than RANK_FLOOR (never more than half the largest segment's rows, so a
+ * table of one reading per segment and period ranks every segment) ranks after the rest and is
+ * folded (rank_min_rows says the floor, thin_members how many the fold holds for it). Ties rank
+ * by value, then by the segment's text, so the fold never depends on scan order. Columns:
  * [period,] segment (text; null for missing values and for the fold), other, seg_rank, members,
  * value, row_count [, months_with_rows] [, seg_count, grand_total, sum_squares].
  *
@@ -64,10 +88,9 @@ export function compileFoldedSegments(sq: SubQuestion, ctx: CompileContext, opts
   const metric = metricByName(ctx.dataset, sq.metrics[0]!);
   const col = q.ident(dim.column);
   const table = tableRef(q, ctx);
-  const byValue = sq.rankOrder !== undefined;
-  const rankExpr = isAdditive(metric) || byValue ? measureSql(q, ctx, metric) : d.toDouble(rowCountSql(q, ctx));
+  const rankExpr = measureSql(q, ctx, metric);
   const descending = !sq.rankOrder || rankDescending(metric, sq.rankOrder);
-  const floored = byValue && !isAdditive(metric);
+  const floored = !isAdditive(metric);
   const innerWhere = whereClause(q, ctx, sq.window, sq.filters);
   const topN = q.bind(opts.topN);
   const foldFrom = q.bind(opts.topN + 1);
@@ -93,7 +116,7 @@ export function compileFoldedSegments(sq: SubQuestion, ctx: CompileContext, opts
     `${outerScope.measure(metric)} AS ${q.ident('value')}`,
     `${d.toDouble(outerScope.rowCount())} AS row_count`,
   );
-  if (byValue) select.push(`${d.toDouble('MIN(f.tc_floor)')} AS rank_min_rows`, `${d.toDouble('COUNT(DISTINCT CASE WHEN f.tc_thin THEN f.tc_rank END)')} AS thin_members`);
+  if (floored) select.push(`${d.toDouble('MIN(f.tc_floor)')} AS rank_min_rows`, `${d.toDouble('COUNT(DISTINCT CASE WHEN f.tc_thin THEN f.tc_rank END)')} AS thin_members`);
   if (minP) {
     select.push(
       `${d.toDouble('COUNT(DISTINCT CASE WHEN f.tc_small THEN f.tc_rank END)')} AS small_members`,
@@ -113,7 +136,7 @@ WHERE ${outerScope.where}
 GROUP BY ${group.join(', ')}
 ${order}`;
   // tc_thin: too few rows to be ranked by an average's value; such a segment ranks after the rest and is folded.
-  const floor = floored ? d.toDouble(`GREATEST(${q.bind(RANK_FLOOR.least)}, LEAST(${q.bind(RANK_FLOOR.most)}, CEIL(${q.bind(RANK_FLOOR.share)} * SUM(tc_rows) OVER ())))`) : d.toDouble('NULL');
+  const floor = floored ? rankFloorSql(q, 'tc_rows') : d.toDouble('NULL');
   const segments = `tc_counted AS (
   SELECT ${col} AS tc_value, ${rankExpr} AS tc_size, ${rowCountSql(q, ctx)} AS tc_rows
   FROM ${table}

@@ -2,6 +2,7 @@
 // per-segment gap and late-start checks shared by the segment templates.
 import type { SegmentKey } from '../findings/segments.js';
 import type { Caveat, CellValue, Grain, ResultTable } from '../types.js';
+import type { FoldedAs } from './segments-fold-sql.js';
 import { suppressedSegmentsCaveat } from './small-groups.js';
 import { numberOrNull } from './trend-points.js';
 
@@ -42,7 +43,7 @@ export function readSegmentTotals(table: ResultTable): FoldedRow[] {
  * the minimum group size with any folded beside them so they cannot be worked out from the total
  * (`suppressed_small_groups`, counted by the query's small_members and complement_members).
  */
-export function foldedCaveats(rows: readonly FoldedRow[], dimension: string, minimum: number | null): Caveat[] {
+export function foldedCaveats(rows: readonly FoldedRow[], dimension: string, minimum: number | null, folded: FoldedAs): Caveat[] {
   const fold = rows.find((r) => r.other);
   if (!fold) return [];
   const small = minimum === null ? 0 : (numberOrNull(fold.row.small_members) ?? 0);
@@ -52,8 +53,8 @@ export function foldedCaveats(rows: readonly FoldedRow[], dimension: string, min
   const minRows = numberOrNull(fold.row.rank_min_rows);
   const out: Caveat[] = [];
   const rankedOut = fold.members - small - complement - thin;
-  // Ranked by value ("worst 10"), the segments past those named are not the smaller ones.
-  if (rankedOut > 0) out.push({ code: 'segments_folded', data: { count: rankedOut, dimension, ...('rank_min_rows' in fold.row ? { byValue: true } : {}) } });
+  // Ranked by value, the segments past those named are smaller only for a sum ranked largest first.
+  if (rankedOut > 0) out.push({ code: 'segments_folded', data: { count: rankedOut, dimension, folded } });
   if (thin > 0 && minRows !== null) out.push({ code: 'segments_folded', data: { count: thin, dimension, minRows } });
   if (small > 0 && minimum !== null) out.push(suppressedSegmentsCaveat(small, minimum, { dimension }, complement));
   return out;

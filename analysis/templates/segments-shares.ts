@@ -5,7 +5,7 @@ import { isAdditive, metricByName, rankDescending } from '../catalog.js';
 import type { SegmentRanking, SegmentShareRow, SegmentSharesFinding } from '../findings/segments.js';
 import { concentration, hhiBand } from '../stats/index.js';
 import type { Caveat, ResultTable, SubQuestion } from '../types.js';
-import { compileFoldedSegments, namedSegmentCount, RANK_FLOOR, segmentDimension } from './segments-fold-sql.js';
+import { compileFoldedSegments, foldedAs, namedSegmentCount, RANK_FLOOR, segmentDimension } from './segments-fold-sql.js';
 import { foldedCaveats, readSegmentTotals, type FoldedRow } from './segments-read.js';
 import { minGroupSize } from './small-groups.js';
 import type { ReadContext, Reading, Template } from './template.js';
@@ -36,7 +36,7 @@ export function readSegmentShares(sq: SubQuestion, table: ResultTable, ctx: Read
   }
   if (rows.every((r) => r.value === null)) caveats.push({ code: 'all_null', data: { metric: metricName } });
   // A ranking's caption states its row floor and how many fell short: no note repeats it.
-  caveats.push(...foldedCaveats(rows, dimension, minGroupSize(ctx.dataset)).filter((c) => !(sq.rankOrder && c.code === 'segments_folded' && 'minRows' in c.data)));
+  caveats.push(...foldedCaveats(rows, dimension, minGroupSize(ctx.dataset), foldedAs(metric, sq.rankOrder)).filter((c) => !(sq.rankOrder && c.code === 'segments_folded' && 'minRows' in c.data)));
   const additive = isAdditive(metric);
   const first = table.rows[0]!;
   const base: SegmentSharesFinding = {

@@ -1,12 +1,13 @@
 // Template "segment_trend": a metric by one dimension at the grain over the window. Each of the
 // top N segments (and one "All others" fold) gets its series, its Sen's slope, its growth from
 // its first to its last full calendar year, and its peak; gaps and late starts become caveats.
+import { metricByName } from '../catalog.js';
 import type { SegmentTrendFinding, SegmentTrendOverviewFinding, SegmentYearGrowth } from '../findings/segments.js';
 import { addDays, nextPeriod } from '../periods.js';
 import { yearsThroughout } from '../presence.js';
 import { cagr, relativeChange, senSlope } from '../stats/index.js';
 import type { Caveat, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
-import { compileFoldedSegments, namedSegmentCount, segmentDimension } from './segments-fold-sql.js';
+import { compileFoldedSegments, foldedAs, namedSegmentCount, segmentDimension } from './segments-fold-sql.js';
 import { foldedCaveats, foldedRow, readSegmentTotals, segmentCoverageCaveats, type FoldedRow } from './segments-read.js';
 import { minGroupSize } from './small-groups.js';
 import type { ReadContext, Reading, Template } from './template.js';
@@ -37,7 +38,7 @@ export function readSegmentTrend(sq: SubQuestion, totals: ResultTable, seriesTab
     return { findings: [], caveats: [...caveats, { code: 'no_data', data: { start: sq.window.start, end: sq.window.end } }] };
   }
   if (segments.every((s) => s.value === null)) caveats.push({ code: 'all_null', data: { metric } });
-  caveats.push(...foldedCaveats(segments, dimension, minGroupSize(ctx.dataset)));
+  caveats.push(...foldedCaveats(segments, dimension, minGroupSize(ctx.dataset), foldedAs(metricByName(ctx.dataset, metric), sq.rankOrder)));
 
   const { starts, partial } = windowPeriods(covered, sq.grain);
   for (const p of partial) caveats.push({ code: 'partial_period', data: { period: p, grain: sq.grain, ...partialCover(p, covered, sq.grain) } });

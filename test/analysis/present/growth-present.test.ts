@@ -187,7 +187,8 @@ describe('growth_drivers presenter', () => {
     const f: GrowthDriversFinding = { ...driversFinding, metric: 'fare_per_passenger', additive: false, others: null, segments: [{ ...driversFinding.segments[0]!, before: 20, after: 21, change: 1, relative: 0.05, shareOfChange: null, contribution: null }], total: { before: 20, after: 20.5, change: 0.5, relative: 0.025 } };
     const p = present(answer(s, [f]), 'managers');
     expect(p.title).toBe('Average fare per passenger moved most for app: +€1.00');
-    expect(p.caption).toContain('is not a sum, so segment changes do not add up');
+    // Said as the config's choice (a ratio), not as a fact about fares.
+    expect(p.caption).toContain('Average fare per passenger is set up in the config as a ratio (revenue per passengers), so segment changes do not add up');
   });
 
   it('words a late segment and a pass-holder flag in plain terms', () => {
@@ -292,7 +293,7 @@ describe('growth_share_shift presenter', () => {
 
   it('explains why a ratio metric has no shares', () => {
     const p = present(answer(sq('growth_share_shift', { metrics: ['fare_per_passenger'], dimension: 'route' }), []), 'managers');
-    expect(p.caption).toBe('Average fare per passenger is not a sum or a count, so it has no shares of a total; compare segments with a breakdown instead.');
+    expect(p.caption).toBe('Average fare per passenger is set up in the config as a ratio (revenue per passengers), not a sum or a count, so it has no shares of a total; compare segments with a breakdown instead.');
     expect(p.chart).toBeNull();
   });
 });

@@ -359,7 +359,8 @@ describe('segment_shares presenter', () => {
     const avg = answer(sq({ template: 'segment_shares', dimension: 'route', metrics: ['average_fare'] }), [shares(avgRows, { metric: 'average_fare', additive: false, total: null, countToThreshold: null, topNShare: null, hhi: null, hhiBand: null })]);
     const p = present(avg, 'managers');
     expect(p.title).toBe('Average fare per booking is highest for Mainland–Tern Holm (€42.79)');
-    expect(p.caption).toContain('Shares do not apply here: average fare per booking is not a total that splits across routes.');
+    // Said as the config's choice, naming the catalog's own sum of the same column.
+    expect(p.caption).toContain('Shares do not apply here: average fare per booking is set up in the config as an average per row, not as a total that splits across routes (Revenue, set up as sum: fare_total, would).');
     expect(p.chart?.kind).toBe('bars');
   });
 });

@@ -160,12 +160,19 @@ describe('kpi_by_segment on the demo', () => {
     expect(other.segments).toBe(3);
     const rest = monthTotals(raw, '2025-05-01', (x) => !named.includes(x.route!));
     expect(rel(other.value!, rest.revenue / rest.passengers)).toBeLessThan(1e-9);
-    expect(r.caveats).toContainEqual({ code: 'segments_folded', data: { count: 3 } });
-    // The two named routes are the two with the most rows in May 2025 (raw count).
+    expect(r.caveats).toContainEqual({ code: 'segments_folded', data: { count: 3, folded: 'lower' } });
+    // The two named routes are the two with the highest fare per passenger in May 2025 (raw
+    // reduction), among routes with at least the row floor there (RANK_FLOOR, written out).
     const counts = new Map<string, number>();
     for (const x of raw) if (monthOf(x.sail_date) === '2025-05-01') counts.set(x.route!, (counts.get(x.route!) ?? 0) + 1);
-    const top2 = [...counts.entries()].sort((a, b) => b[1] - a[1]).slice(0, 2).map(([k]) => k);
-    expect(new Set(named)).toEqual(new Set(top2));
+    const rows = [...counts.values()];
+    const floor = Math.min(Math.ceil(0.5 * Math.max(...rows)), Math.max(30, Math.min(100, Math.ceil(0.01 * rows.reduce((a, b) => a + b, 0)))));
+    const fare = (route: string) => {
+      const t = monthTotals(raw, '2025-05-01', (x) => x.route === route);
+      return t.revenue / t.passengers;
+    };
+    const top2 = [...counts.keys()].filter((k) => counts.get(k)! >= floor).sort((a, b) => fare(b) - fare(a) || a.localeCompare(b)).slice(0, 2);
+    expect(named).toEqual(top2);
   });
 
   it('keeps a route that has no data in the latest month (the Dunlin Quay maintenance gap) by name', async () => {

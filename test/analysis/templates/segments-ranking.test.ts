@@ -193,11 +193,19 @@ function checks(open: () => Promise<Workspace>): void {
     expect(f.topN).toBe(12);
   });
 
-  it('without a direction, "top 5" of an average still names the busiest (a size, not a value)', async () => {
-    const want = await truth(`SELECT origin FROM ${RAW} GROUP BY origin ORDER BY COUNT(*) DESC, origin LIMIT 5`);
-    const { named, f } = await present(question('avg_delay', 'origin', { rankLimit: 5 }));
+  it('without a direction, "top 5" of an average names the highest values, not the busiest (one ranking rule)', async () => {
+    // The floor is the same as a ranking asked by value: 100 flights here (1% of 20,000, kept to at most 100).
+    const want = await truth(`SELECT origin, AVG(delay) AS d FROM ${RAW} GROUP BY origin HAVING COUNT(*) >= 100 ORDER BY d DESC, origin LIMIT 5`);
+    const busiest = await truth(`SELECT origin FROM ${RAW} GROUP BY origin ORDER BY COUNT(*) DESC, origin LIMIT 5`);
+    const { answer, named, f } = await present(question('avg_delay', 'origin', { rankLimit: 5 }));
     expect(named.map((r) => r.segment)).toEqual(want.map((w) => w.origin));
+    for (const [i, r] of named.entries()) expect(r.value).toBeCloseTo(Number(want[i]!.d), 9);
+    expect(named.map((r) => r.segment)).not.toEqual(busiest.map((w) => w.origin));
     expect(f.ranking).toBeUndefined();
+    // The fold holds lower averages and thin origins, each said as such.
+    const folded = answer.caveats.filter((c) => c.code === 'segments_folded');
+    expect(folded).toContainEqual({ code: 'segments_folded', data: expect.objectContaining({ folded: 'lower' }) });
+    expect(folded).toContainEqual({ code: 'segments_folded', data: expect.objectContaining({ minRows: 100 }) });
   });
 }
 

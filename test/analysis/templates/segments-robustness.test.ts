@@ -91,7 +91,7 @@ describe('a dimension with a thousand values', () => {
     expect(byShop.size).toBeGreaterThan(900);
     expect(f.segmentCount).toBe(byShop.size);
     expect(f.folded).toBe(byShop.size - SEGMENT_TOP_N);
-    expect(a.caveats).toContainEqual({ code: 'segments_folded', data: { count: byShop.size - SEGMENT_TOP_N, dimension: 'shop' } });
+    expect(a.caveats).toContainEqual({ code: 'segments_folded', data: { count: byShop.size - SEGMENT_TOP_N, dimension: 'shop', folded: 'smaller' } });
     expect(f.rows.slice(0, SEGMENT_TOP_N).map((r) => r.segment)).toEqual(sorted.slice(0, SEGMENT_TOP_N).map((e) => e[0]));
     f.rows.slice(0, SEGMENT_TOP_N).forEach((r, i) => expect(r.share).toBeCloseTo(sorted[i]![1] / total, 12));
     const fold = f.rows[SEGMENT_TOP_N]!;

@@ -100,12 +100,13 @@ describe('segment SQL: the tail folded inside the database', () => {
     expect(q.sql).toContain('SUM(tc_size * tc_size) OVER ()');
   });
 
-  it('ranks an additive metric by itself and any other metric by row count', () => {
+  it('ranks every metric by its own value; only an average has a row floor', () => {
     const additive = compileFoldedSegments(seg, ctx, { topN: 8, grain: null });
     expect(additive.sql).toMatch(/SELECT "route" AS tc_value, CAST\(SUM\("fare_total"\) AS DOUBLE\) AS tc_size/);
+    expect(additive.sql).not.toContain('rank_min_rows');
     const avg = compileFoldedSegments({ ...seg, metrics: ['average_fare'] }, ctx, { topN: 8, grain: null });
-    expect(avg.sql).toMatch(/SELECT "route" AS tc_value, CAST\(COUNT\(\*\) AS DOUBLE\) AS tc_size/);
-    expect(avg.sql).toContain('AVG("fare_total")');
+    expect(avg.sql).toMatch(/SELECT "route" AS tc_value, CAST\(AVG\("fare_total"\) AS DOUBLE\) AS tc_size/);
+    expect(avg.sql).toContain('AS rank_min_rows');
   });
 
   it('segment_trend runs totals, per-period and per-year queries over the same fold', () => {

@@ -157,7 +157,7 @@ describe('segment readings', () => {
     expect(f.hhi).toBeCloseTo([...named, ...tail].reduce((a, v) => a + (100 * v / total) ** 2, 0), 9);
     expect(f.hhiBand).toBe('highly_concentrated');
     expect(f.rows.at(-1)).toMatchObject({ other: true, members: 5, cumulativeShare: 1 });
-    expect(r.caveats).toContainEqual({ code: 'segments_folded', data: { count: 5, dimension: 'route' } });
+    expect(r.caveats).toContainEqual({ code: 'segments_folded', data: { count: 5, dimension: 'route', folded: 'smaller' } });
   });
 
   it('negative segment totals: no shares, a negative_amounts caveat', () => {
