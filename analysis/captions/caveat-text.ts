@@ -101,6 +101,8 @@ function periodsText(n: unknown, grain: unknown): string {
 export function caveatFlag(c: Caveat): string {
   // A filtered series that starts at its first matching period is not empty anywhere it is drawn.
   if (c.code === 'empty_period' && c.data.leading === true) return 'starts at the first match';
+  // A fold by value holds lower (or higher) values, not a long tail of small segments.
+  if (c.code === 'segments_folded' && (c.data.folded === 'lower' || c.data.folded === 'higher')) return `${c.data.folded} values combined`;
   const flags: Record<Caveat['code'], string> = {
     partial_period: 'partial period (dashed)',
     partial_period_excluded: 'partial period excluded',

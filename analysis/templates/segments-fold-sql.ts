@@ -33,7 +33,8 @@ export const RANK_FLOOR = { share: 0.01, least: 30, most: 100, ofLargest: 0.5 } 
  */
 export function rankFloorSql(q: QueryBuilder, rows: string): string {
   const share = `CEIL(${q.bind(RANK_FLOOR.share)} * SUM(${rows}) OVER ())`;
-  return q.dialect.toDouble(`LEAST(CEIL(${q.bind(RANK_FLOOR.ofLargest)} * MAX(${rows}) OVER ()), GREATEST(${q.bind(RANK_FLOOR.least)}, LEAST(${q.bind(RANK_FLOOR.most)}, ${share})))`);
+  // The fraction is read as a double: PostgreSQL would take a bare parameter beside MAX(bigint) for a bigint.
+  return q.dialect.toDouble(`LEAST(CEIL(${q.dialect.toDouble(q.bind(RANK_FLOOR.ofLargest))} * MAX(${rows}) OVER ()), GREATEST(${q.bind(RANK_FLOOR.least)}, LEAST(${q.bind(RANK_FLOOR.most)}, ${share})))`);
 }
 
 export interface FoldedQueryOptions {

@@ -350,7 +350,7 @@ describe('growth_drivers read', () => {
     const f = find(r.findings, 'growth_drivers') as GrowthDriversFinding;
     expect(f.segments).toHaveLength(DRIVERS_TOP_N);
     expect(f.others).toMatchObject({ count: 3, change: 0 + 1 + 2 });
-    expect(r.caveats).toContainEqual({ code: 'segments_folded', data: { count: 3, metric: 'revenue' } });
+    expect(r.caveats).toContainEqual({ code: 'segments_folded', data: { count: 3, metric: 'revenue', folded: 'change' } });
   });
 
   it('gives changes only, no contributions, for a ratio metric', () => {
