@@ -3,6 +3,7 @@
 // plan's lines, so the card, the plan and any later run agree; items dropped by the requester
 // stay dropped when the plan is rebuilt (they are remembered by what they are, not their number).
 import type { Coverage } from '../analysis/coverage.js';
+import { inSentence } from '../analysis/captions/grammar.js';
 import { grainAdjective } from '../analysis/grains.js';
 import { describeSubQuestion } from '../analysis/sub-questions/describe.js';
 import type { SubQuestion } from '../analysis/types.js';
@@ -58,8 +59,8 @@ export function applyCorrection(brief: Brief, c: Correction, plan: Plan, dropped
   const problems = [...c.problems];
   const evidence = { ...(brief.evidence ?? {}) };
   const stated = { words: ctx.words, how: 'stated' as const };
-  const dimLabel = (d: string) => (ds.dimensions.find((x) => x.name === d)?.label ?? d).toLowerCase();
-  const metricLabel = (m: string) => (ds.metrics.find((x) => x.name === m)?.label ?? m).toLowerCase();
+  const dimLabel = (d: string) => inSentence(ds.dimensions.find((x) => x.name === d)?.label ?? d);
+  const metricLabel = (m: string) => inSentence(ds.metrics.find((x) => x.name === m)?.label ?? m);
   let next: Brief = { ...brief, questions: brief.questions.map((q) => ({ ...q, filters: [...q.filters], dimensions: [...q.dimensions] })) };
 
   if (c.audience && c.audience !== brief.audience) {

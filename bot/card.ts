@@ -137,7 +137,7 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
     lines.push({
       topic: 'filters',
       label: 'Only',
-      value: filters.map((f) => `${f.exclude ? 'not ' : ''}${f.values.join(' or ')} (${dimLabel(f.dimension).toLowerCase()})`).join('; '),
+      value: filters.map((f) => `${f.exclude ? 'not ' : ''}${f.values.join(' or ')} (${inSentence(dimLabel(f.dimension))})`).join('; '),
       ...read(ev.filters),
     });
   }
@@ -231,7 +231,7 @@ function periodChoice(w: DateWindow, compare: DateWindow | undefined, ctx: CardC
  * current choice ("By source"), which sends them as read ("by source"), and "No breakdown" when none is.
  */
 function breakdownControl(ds: DatasetConfig, inForce: string[]): CardLine['control'] {
-  const choices: CardChoice[] = [...ds.dimensions.filter((d) => isBreakdownDimension(ds, d.name)).map((d) => ({ value: `add a breakdown by ${d.label.toLowerCase()}`, label: `Add ${d.label.toLowerCase()}` })), { value: 'no breakdown', label: 'No breakdown' }];
+  const choices: CardChoice[] = [...ds.dimensions.filter((d) => isBreakdownDimension(ds, d.name)).map((d) => ({ value: `add a breakdown by ${d.label.toLowerCase()}`, label: `Add ${inSentence(d.label)}` })), { value: 'no breakdown', label: 'No breakdown' }];
   if (inForce.length === 0) return { kind: 'select', choices, current: 'no breakdown' };
   const by = `by ${inForce.map(inSentence).join(' and ')}`;
   return { kind: 'select', choices: [{ value: by, label: cap(by) }, ...choices], current: by };

@@ -2,6 +2,7 @@
 // read a typed (or clicked) answer. A prompt is never asked when the brief already holds it.
 import type { DatasetConfig } from '../config/schema.js';
 import type { Coverage } from '../analysis/coverage.js';
+import { inSentence } from '../analysis/captions/grammar.js';
 import { formatPeriod } from '../analysis/format.js';
 import { shortWindow } from '../analysis/window-words.js';
 import { addDays, addMonths, periodStart } from '../analysis/periods.js';
@@ -226,7 +227,7 @@ function metricsPrompt(brief: Brief, ctx: PromptContext): Prompt {
     // Counts keep the catalog's order (the first count recommended); measures go by the ranking.
     const ranked = counts ? unknown.closest.map((name) => ({ name, reason: '' })) : rankMetrics(ds, brief.requestText, unknown.text, unknown.closest);
     const ways = ranked.map((r) => ({ value: r.name, label: label(r.name) }));
-    const what = ways.map((w) => (counts ? w.label.toLowerCase() : w.label));
+    const what = ways.map((w) => (counts ? inSentence(w.label) : w.label));
     return {
       topic: 'metrics',
       question: `"${unknown.text}" could be ${counts ? 'counted' : 'measured'} as ${what.slice(0, -1).join(', ')} or ${what[what.length - 1]} in ${ds.label}. Which did you mean?`,

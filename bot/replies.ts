@@ -11,7 +11,7 @@ import type { Prompt } from './prompts.js';
 import type { RunningState, ThreadState } from './thread-state.js';
 import { SourceError } from '../analysis/sources/data-source.js';
 import { CatalogError } from '../analysis/catalog.js';
-import { listJoin as joinWords } from '../analysis/captions/grammar.js';
+import { inSentence, listJoin as joinWords } from '../analysis/captions/grammar.js';
 
 export function acknowledgement(brief: Brief, ds: DatasetConfig): string {
   const ack = requestAcknowledgement(brief, ds);
@@ -36,7 +36,7 @@ export function requestTooLong(text: string): string {
 
 function requestAcknowledgement(brief: Brief, ds: DatasetConfig): string {
   const kinds = listJoin([...new Set(brief.questions.map((q) => q.kind))].map(kindNoun));
-  const metrics = listJoin([...new Set(brief.questions.flatMap((q) => q.metrics))].map((m) => metricLabel(ds, m).toLowerCase()));
+  const metrics = listJoin([...new Set(brief.questions.flatMap((q) => q.metrics))].map((m) => inSentence(metricLabel(ds, m))));
   const n = brief.questions.length;
   const what = n > 1 ? `${n} questions (${kinds})` : `a ${kinds || 'trend'} question`;
   return metrics ? `On it: ${what} about ${metrics}. One thing first, then a brief to agree.` : `On it: ${what}. One thing first, then a brief to agree.`;

@@ -3,16 +3,37 @@
 import { formatPeriod, formatValue } from '../format.js';
 import type { Grain } from '../types.js';
 
-/** Upper-cases the first letter. */
+/**
+ * A sentence's first letter in upper case: "revenue rose" → "Revenue rose". A first word with a
+ * capital inside it ("pH", "iPhone", "eBay") is a name and keeps its case even here.
+ */
 export function capitalise(text: string): string {
-  return text.length === 0 ? text : text[0]!.toUpperCase() + text.slice(1);
+  if (text.length === 0 || /^\p{Ll}+\p{Lu}/u.test(text)) return text;
+  return text[0]!.toUpperCase() + text.slice(1);
 }
 
-/** A label in mid-sentence: "Revenue" → "revenue", but "SkerryPass holders" or "KPI" keep their capitals. */
+/**
+ * A label's word mid-sentence: an ordinary capitalised word ("Gross", "Genre", "Net") goes lower
+ * case; an acronym, a single capital or a mixed token ("US", "IMDB", "CO2", "A", "pH", "iPhone",
+ * "SkerryPass") is a name or an abbreviation and keeps its case.
+ */
+function wordInSentence(word: string): string {
+  return /^\p{Lu}\p{Ll}+(?:['’]\p{Ll}+)?$/u.test(word) ? word.toLowerCase() : word;
+}
+
+/**
+ * A label as it reads inside a sentence, the one rule every caption, title, summary and card uses:
+ * "Worldwide Gross" → "worldwide gross", "Major Genre" → "major genre", "US Gross" → "US gross",
+ * "IMDB Rating" → "IMDB rating", "SkerryPass holders" as it is. At a sentence's start, capitalise
+ * it: `capitalise(inSentence(label))` → "Worldwide gross", "IMDB rating".
+ */
 export function inSentence(label: string): string {
-  const firstWord = label.split(' ')[0] ?? '';
-  if (label.length === 0 || /[A-Z]/.test(firstWord.slice(1))) return label;
-  return label[0]!.toLowerCase() + label.slice(1);
+  return label.replace(/[\p{L}\p{N}'’]+/gu, wordInSentence);
+}
+
+/** The same label starting a sentence or a title: "Worldwide Gross" → "Worldwide gross", "IMDB Rating" → "IMDB rating". */
+export function labelAtStart(label: string): string {
+  return capitalise(inSentence(label));
 }
 
 // Nouns whose plural is the same word ("species", "aircraft"), and ones already plural.
@@ -41,13 +62,35 @@ export function countOf(n: number, noun: string, locale = 'en', plural?: string)
   return `${formatValue(n, { unit: 'count', locale })} ${nounFor(n, noun, plural)}`;
 }
 
+// Past participles that may follow a label's head noun: "Films released", "Tickets sold".
+const PARTICIPLE = /^(?:\p{L}+ed|sold|made|paid|held|kept|lost|won|seen|given|taken|sent|built|bought|flown|run|done|left)$/iu;
+
+/** The index of a label's head noun among its words: the last before any "per …" and any trailing participle. */
+function headIndex(words: readonly string[]): number {
+  const per = words.findIndex((w, i) => i > 0 && /^per$/i.test(w));
+  let i = (per === -1 ? words.length : per) - 1;
+  while (i > 0 && PARTICIPLE.test(words[i]!)) i--;
+  return Math.max(i, 0);
+}
+
 /**
- * Whether a metric's label reads as plural by its head noun (before any "per …"): "Bookings",
- * "Weekday visits per site" are; "Revenue", "Average fare per booking" are not.
+ * Whether a metric's label reads as plural by its head noun (before any "per …" or participle):
+ * "Bookings", "Weekday visits per site", "Films released" are; "Revenue", "Average fare per booking" are not.
  */
 export function isPluralLabel(label: string): boolean {
-  const head = label.trim().replace(/\s+per\s.*$/i, '').split(/\s+/).pop() ?? '';
-  return /[^s]s$/i.test(head);
+  const words = label.trim().split(/\s+/);
+  const head = words[headIndex(words)] ?? '';
+  return /[^s]s$/i.test(head) && !/us$/i.test(head);
+}
+
+/** One of a plural label's things: "films released" → "film released", "fare classes" → "fare class"; a singular label as it is. */
+export function singularNoun(label: string): string {
+  if (!isPluralLabel(label) || SAME_PLURAL.test(label)) return label;
+  const words = label.split(' ');
+  const i = headIndex(words);
+  const w = words[i]!;
+  words[i] = /[^aeiou]ies$/i.test(w) ? `${w.slice(0, -3)}y` : /(?:ss|x|z|ch|sh)es$/i.test(w) ? w.slice(0, -2) : w.slice(0, -1);
+  return words.join(' ');
 }
 
 /** "is" or "are" for n things. */

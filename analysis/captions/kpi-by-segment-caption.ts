@@ -11,9 +11,9 @@ import {
   periodName,
   pluralOf,
   segmentLabel,
-  sentenceCase,
   signedChange,
 } from './kpi-words.js';
+import { capitalise, labelAtStart } from './grammar.js';
 import { meaningAside } from './metric-words.js';
 
 // A segment with a handful of rows swings by chance; it is not named the biggest mover (rule of thumb, common practice).
@@ -39,19 +39,19 @@ export function kpiBySegmentWords(f: KpiBySegmentFinding, metric: Metric, ds: Da
   const label = (r: KpiSegmentRow) => rowLabel(r, f, ds, locale);
   if (!top) {
     return {
-      title: `${metric.label} by ${inSentence(dimLabel)}: no values in ${when}`,
+      title: `${labelAtStart(metric.label)} by ${inSentence(dimLabel)}: no values in ${when}`,
       caption: `No ${inSentence(dimLabel)} has a value of ${inSentence(metric.label)} in ${when}.`,
     };
   }
   const lyPeriod = f.total.lastYear?.period ?? null;
   const topYoy = top.lastYear ? changePhrase(top.lastYear, metric, locale) : null;
   const yoyTail = topYoy && lyPeriod ? `, ${topYoy === 'level' ? 'level with' : `${topYoy} on`} ${periodName(lyPeriod, f.grain, locale)}` : '';
-  const title = sentenceCase(`${label(top)} had the highest ${inSentence(metric.label)} in ${when}: ${kpiValue(top.value, metric, locale)}${yoyTail}`);
+  const title = capitalise(`${label(top)} had the highest ${inSentence(metric.label)} in ${when}: ${kpiValue(top.value, metric, locale)}${yoyTail}`);
 
   const sentences: string[] = [];
   const meaning = meaningAside(metric, ds, audience);
   const list = ranked.slice(0, audience === 'leadership' ? 3 : 5).map((r) => `${label(r)} ${kpiValue(r.value, metric, locale)}`);
-  sentences.push(`${metric.label}${meaning} by ${inSentence(dimLabel)} in ${when}: ${list.join(', ')}; all ${pluralOf(dimLabel)} together ${kpiValue(f.total.value, metric, locale)}.`);
+  sentences.push(`${labelAtStart(metric.label)}${meaning} by ${inSentence(dimLabel)} in ${when}: ${list.join(', ')}; all ${pluralOf(dimLabel)} together ${kpiValue(f.total.value, metric, locale)}.`);
   if (ranked.length > 1) {
     const low = ranked[ranked.length - 1]!;
     if (audience !== 'leadership') sentences.push(`The lowest was ${label(low)} at ${kpiValue(low.value, metric, locale)}.`);

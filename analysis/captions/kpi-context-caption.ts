@@ -5,7 +5,7 @@ import { formatValue } from '../format.js';
 import type { Audience } from '../types.js';
 import type { KpiWords } from './kpi-snapshot-caption.js';
 import { grainNoun, kpiValue, ordinal, periodName } from './kpi-words.js';
-import { verbFor } from './grammar.js';
+import { labelAtStart, verbFor } from './grammar.js';
 import { meaningAside } from './metric-words.js';
 
 export function kpiContextWords(f: KpiContextFinding, metric: Metric, ds: DatasetConfig, audience: Audience, locale: string): KpiWords {
@@ -21,11 +21,11 @@ export function kpiContextWords(f: KpiContextFinding, metric: Metric, ds: Datase
         : f.value <= f.min
           ? `the lowest of the ${periods}`
           : `the ${ordinal(f.rank)} highest of the ${periods}`;
-  const title = `${metric.label} in ${when} ${verbFor(metric.label, 'was')} ${value}, ${place.replace(/ since .*$/, '')}`;
+  const title = `${labelAtStart(metric.label)} in ${when} ${verbFor(metric.label, 'was')} ${value}, ${place.replace(/ since .*$/, '')}`;
 
   const sentences: string[] = [];
   const meaning = meaningAside(metric, ds, audience);
-  sentences.push(`${metric.label}${meaning} ${verbFor(metric.label, 'was')} ${value} in ${when}, ${place}.`);
+  sentences.push(`${labelAtStart(metric.label)}${meaning} ${verbFor(metric.label, 'was')} ${value} in ${when}, ${place}.`);
   if (f.n > 1) {
     const range = `from ${kpiValue(f.min, metric, locale)} in ${periodName(f.minPeriod, f.grain, locale)} to ${kpiValue(f.max, metric, locale)} in ${periodName(f.maxPeriod, f.grain, locale)}`;
     if (audience === 'leadership') sentences.push(`A typical ${grainNoun(f.grain)} is about ${kpiValue(f.median, metric, locale)}.`);

@@ -4,8 +4,9 @@ import type { KpiMixFinding, KpiMixRow } from '../findings/kpi.js';
 import { formatValue } from '../format.js';
 import { hhiBand } from '../stats/index.js';
 import type { Audience } from '../types.js';
+import { capitalise, labelAtStart } from './grammar.js';
 import type { KpiWords } from './kpi-snapshot-caption.js';
-import { inSentence, kpiValue, periodName, pluralOf, points, segmentLabel, sentenceCase, shareMove } from './kpi-words.js';
+import { inSentence, kpiValue, periodName, pluralOf, points, segmentLabel, shareMove } from './kpi-words.js';
 
 // A share that moved less than this is "about the same" (0.05 points), matching the KPI card's cut.
 const FLAT_SHARE = 0.0005;
@@ -30,12 +31,12 @@ export function kpiMixWords(f: KpiMixFinding, metric: Metric, ds: DatasetConfig,
   const ly = f.lastYearPeriod ? periodName(f.lastYearPeriod, f.grain, locale) : null;
   if (!top || top.share === null) {
     return {
-      title: `${metric.label}: no ${of} to split by ${inSentence(dimLabel)} in ${when}`,
+      title: `${labelAtStart(metric.label)}: no ${of} to split by ${inSentence(dimLabel)} in ${when}`,
       caption: `Shares of ${of} by ${inSentence(dimLabel)} cannot be given for ${when}: the total is not positive or a segment is negative.`,
     };
   }
   const topMove = ly && top.shareChange !== null ? shareMove(top.shareChange, locale, FLAT_SHARE) : null;
-  const title = sentenceCase(`${label(top)} had the largest share of ${of} in ${when}: ${pct(top.share)}${topMove ? `, ${topMove} ${ly}` : ''}`);
+  const title = capitalise(`${label(top)} had the largest share of ${of} in ${when}: ${pct(top.share)}${topMove ? `, ${topMove} ${ly}` : ''}`);
 
   const sentences: string[] = [];
   const segs = formatValue(f.segments.filter((s) => s.value > 0).length, { unit: 'count', locale });
@@ -61,7 +62,7 @@ export function kpiMixWords(f: KpiMixFinding, metric: Metric, ds: DatasetConfig,
   }
   if (audience !== 'leadership' && f.shareOf !== metric.name) {
     const values = f.segments.filter((r) => r.metricValue !== null).slice(0, 3);
-    if (values.length) sentences.push(`${metric.label} by ${inSentence(dimLabel)}: ${values.map((r) => `${label(r)} ${kpiValue(r.metricValue, metric, locale)}`).join(', ')}.`);
+    if (values.length) sentences.push(`${labelAtStart(metric.label)} by ${inSentence(dimLabel)}: ${values.map((r) => `${label(r)} ${kpiValue(r.metricValue, metric, locale)}`).join(', ')}.`);
   }
   if (audience === 'analysts' && f.hhi !== null) {
     const band = hhiBand(f.hhi).replace('_', ' ');

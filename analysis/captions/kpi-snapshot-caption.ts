@@ -13,7 +13,7 @@ import {
   shortPeriodName,
   verdict,
 } from './kpi-words.js';
-import { verbFor } from './grammar.js';
+import { labelAtStart, verbFor } from './grammar.js';
 import { meaningAside, metricFormula } from './metric-words.js';
 
 export interface KpiWords {
@@ -44,7 +44,7 @@ export function kpiSnapshotWords(
   // where the period before is the year earlier).
   const headline = against(f.lastYear) ?? against(f.previous);
   const was = verbFor(metric.label, 'was');
-  const title = headline ? `${metric.label} ${was} ${value} in ${when}, ${headline}` : `${metric.label} ${was} ${value} in ${when}`;
+  const title = headline ? `${labelAtStart(metric.label)} ${was} ${value} in ${when}, ${headline}` : `${labelAtStart(metric.label)} ${was} ${value} in ${when}`;
 
   const sentences: string[] = [];
   const partial = caveats.find((c) => c.code === 'partial_period_excluded');
@@ -59,7 +59,7 @@ export function kpiSnapshotWords(
     return phrase === 'level' ? `level with ${base}` : `${phrase} on ${base}`;
   });
   const meaning = meaningAside(metric, ds, audience);
-  sentences.push(`${metric.label}${meaning} ${was} ${value} in ${when}${latestNote}: ${detailed.join(' and ')}.`);
+  sentences.push(`${labelAtStart(metric.label)}${meaning} ${was} ${value} in ${when}${latestNote}: ${detailed.join(' and ')}.`);
 
   const verdicts = comparisons.map((d) => verdict(d, metric));
   const judged = judgement(verdicts, comparisons, f, metric, locale);

@@ -5,7 +5,7 @@ import type { DatasetConfig, Dimension, Metric } from '../../config/schema.js';
 import type { KpiDelta, SegmentKey } from '../findings/kpi.js';
 import { formatChange, formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import type { Grain } from '../types.js';
-import { pluralNoun } from './grammar.js';
+import { inSentence, pluralNoun } from './grammar.js';
 
 // Changes smaller than this are "level": the KPI card uses the same cut, so words and arrows agree.
 export const FLAT_RELATIVE = 0.0005;
@@ -30,10 +30,6 @@ export function cardValue(value: number | null, metric: Metric, locale: string):
   return kpiValue(value, metric, locale);
 }
 
-/** Upper-cases the first letter of a sentence that starts with a segment name ("app" → "App"). */
-export function sentenceCase(text: string): string {
-  return text.length > 0 ? text[0]!.toUpperCase() + text.slice(1) : text;
-}
 
 /** "up 1.3 points", "down 0.8 points", "about the same as": a share moving between two periods. */
 export function shareMove(diff: number, locale: string, flat: number): string {
@@ -125,7 +121,7 @@ export function segmentLabel(key: SegmentKey, dim: Dimension | undefined, ds: Da
 
 /** "routes", "fare classes", "booking channels". */
 export function pluralOf(label: string): string {
-  return pluralNoun(label.toLowerCase());
+  return pluralNoun(inSentence(label));
 }
 
 /** 1 → "1st", 2 → "2nd", 11 → "11th". */
@@ -136,5 +132,4 @@ export function ordinal(n: number): string {
   return `${formatValue(k, { unit: 'count', locale: 'en' })}${suffix}`;
 }
 
-import { inSentence } from './grammar.js';
 export { inSentence };

@@ -4,6 +4,7 @@
 // one are left out, the metric's label saying it instead.
 import type { DatasetConfig, Metric, MetricDefinition } from '../../config/schema.js';
 import type { Audience } from '../types.js';
+import { inSentence } from './grammar.js';
 
 /** The catalog definition as a formula in words: "sum of fare_total", "revenue divided by passengers". */
 export function metricFormula(metric: Metric, ds: DatasetConfig): string {
@@ -71,7 +72,7 @@ const IDENTIFIER = /\b[A-Za-z][A-Za-z0-9]*(?:_[A-Za-z0-9]+)+\b|\b[a-z]+(?:[A-Z][
  */
 export function managerWords(text: string, ds: DatasetConfig): string | null {
   const labels = new Map<string, string>();
-  for (const d of ds.dimensions) labels.set(d.column, d.label.toLowerCase());
+  for (const d of ds.dimensions) labels.set(d.column, inSentence(d.label));
   for (const g of ds.comparison_groups) labels.set(g.column, g.label);
   let unsaid = false;
   const out = text.replace(IDENTIFIER, (name) => {
@@ -87,7 +88,7 @@ export function managerWords(text: string, ds: DatasetConfig): string | null {
 }
 
 function formulaOf(def: MetricDefinition, ds: DatasetConfig): string {
-  const label = (name: string) => ds.metrics.find((m) => m.name === name)?.label.toLowerCase() ?? name;
+  const label = (name: string) => inSentence(ds.metrics.find((m) => m.name === name)?.label ?? name);
   const where = 'where' in def && def.where ? ` where ${conditionText(def.where)}` : '';
   switch (def.type) {
     case 'sum':

@@ -27,6 +27,7 @@ import {
   windowText,
   type WordsContext,
 } from './performance-words.js';
+import { labelAtStart } from './grammar.js';
 
 export function beforeAfterWords(findings: readonly Finding[], ctx: WordsContext): PerformanceWords {
   const { metric, group, locale, audience, dataset } = ctx;
@@ -96,7 +97,7 @@ export function beforeAfterWords(findings: readonly Finding[], ctx: WordsContext
       : notApplicable?.reason === 'window_too_short'
         ? `There is not a full month of data on both sides of the launch, so there is no before and after to compare.`
         : notApplicable?.reason === 'not_poolable'
-          ? `${metric.label} cannot be added up across months, so there is no before and after to compare.`
+          ? `${labelAtStart(metric.label)} cannot be added up across months, so there is no before and after to compare.`
           : notApplicable?.reason === 'group_empty'
             ? `One group has no ${rows.plural} on one side of the launch, so there is no before and after to compare.`
             : notApplicable?.reason === 'suppressed'

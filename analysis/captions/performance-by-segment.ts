@@ -38,11 +38,11 @@ export function bySegmentWords(findings: readonly Finding[], ctx: WordsContext, 
   const compared = segments.filter((s) => s.relative !== null);
 
   if (!consistency || consistency.segments === 0 || consistency.overallDirection === 'equal' || compared.length === 0) {
-    const title = `${label}: no ${dim.label.toLowerCase()} has both ${inText(m)} and ${inText(o)} to compare`;
+    const title = `${label}: no ${inText(dim.label)} has both ${inText(m)} and ${inText(o)} to compare`;
     const text =
       segments.length === 0
-        ? `There is no data to compare by ${dim.label.toLowerCase()} in this period.`
-        : `No ${dim.label.toLowerCase()} has ${inText(m)} and ${inText(o)} with a difference to compare in this period.`;
+        ? `There is no data to compare by ${inText(dim.label)} in this period.`
+        : `No ${inText(dim.label)} has ${inText(m)} and ${inText(o)} with a difference to compare in this period.`;
     return { title, caption: text, notes: [], takeaway: null, clear: false };
   }
 
@@ -74,14 +74,14 @@ export function bySegmentWords(findings: readonly Finding[], ctx: WordsContext, 
       .slice(0, 8)
       .map((s) => `${segmentName(s)} ${signed(s.relative!)}`)
       .join('; ');
-    caption = `${lead}, ${inText(label)} for ${inText(m)} against ${inText(o)} by ${dim.label.toLowerCase()}: ${list}. ${capitalise(chance)} overall, and ${evidence}.${smallText}`;
+    caption = `${lead}, ${inText(label)} for ${inText(m)} against ${inText(o)} by ${inText(dim.label)}: ${list}. ${capitalise(chance)} overall, and ${evidence}.${smallText}`;
   } else {
     const sig = `${consistency.significantSame} of ${total} ${plural} differ in the overall direction at the 5% level and ${consistency.significantOpposite} in the opposite direction (one test per ${inText(dim.label)}, no adjustment for multiple comparisons)`;
     const list = compared
       .slice(0, 8)
       .map((s) => `${segmentName(s)} ${signed(s.relative!)}${s.pValue !== null && s.pValue < 0.05 ? '' : ' (n.s.)'} (n = ${countText(s.nMembers, locale)} vs ${countText(s.nOthers, locale)})`)
       .join('; ');
-    caption = `Relative difference of ${inText(label)}, ${inText(m)} vs ${inText(o)}, by ${dim.label.toLowerCase()}: ${list}. ${capitalise(sig)}.${smallText}`;
+    caption = `Relative difference of ${inText(label)}, ${inText(m)} vs ${inText(o)}, by ${inText(dim.label)}: ${list}. ${capitalise(sig)}.${smallText}`;
   }
   return { title, caption, notes: [], takeaway: `${title}${range}.`, clear: same === total && verdict?.verdict !== 'no_clear_difference' };
 }

@@ -64,7 +64,7 @@ export function unitNoun(ds: DatasetConfig, group: ComparisonGroup): { plural: s
 }
 
 function nounPair(label: string): { plural: string; singular: string } {
-  const plural = label.toLowerCase();
+  const plural = inText(label);
   const singular = plural.endsWith('ies') ? `${plural.slice(0, -3)}y` : plural.endsWith('s') ? plural.slice(0, -1) : plural;
   return { plural, singular };
 }
@@ -72,7 +72,7 @@ function nounPair(label: string): { plural: string; singular: string } {
 /** What one unit of a `per_unit_day` comparison is called, from its dimension's label: "site", "sites". */
 export function unitDimensionNoun(ds: DatasetConfig, unit: string | undefined): { plural: string; singular: string } {
   const dim = ds.dimensions.find((d) => d.name === unit);
-  const singular = (dim?.label ?? unit ?? 'unit').toLowerCase();
+  const singular = inText(dim?.label ?? unit ?? 'unit');
   return { singular, plural: pluralNoun(singular) };
 }
 
@@ -256,7 +256,7 @@ export function unitsLeftOutSentence(findings: readonly Finding[], ctx: Pick<Wor
   const f = findings.find((x): x is PerformanceUnitsLeftOutFinding => x.type === 'performance_units_left_out');
   if (!f || f.units.length === 0) return null;
   const dim = ctx.dataset.dimensions.find((d) => d.name === f.dimension);
-  const noun = (dim?.label ?? f.dimension).toLowerCase();
+  const noun = inText(dim?.label ?? f.dimension);
   const list = f.units.map((u) => `${u.unit} (${inText(groupLabel(ctx.group, u.group))}, from ${day(u.first, ctx.locale)} to ${day(u.last, ctx.locale)})`);
   const one = f.units.length === 1;
   return `${countOf(f.units.length, noun, ctx.locale)} ${one ? 'was' : 'were'} not there through the whole period and ${one ? 'is' : 'are'} left out of both groups, so neither changes its make-up: ${list.join('; ')}.`;

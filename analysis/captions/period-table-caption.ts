@@ -5,7 +5,7 @@ import { metricByName } from '../catalog.js';
 import type { ChangeBasis, PeriodTableColumn, PeriodTableFinding, TableLatestFinding, TableQuotientFinding } from '../findings/table.js';
 import { formatChange, formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import type { Finding, Grain } from '../types.js';
-import { capitalise, inPeriod, inSentence, listJoin } from './grammar.js';
+import { capitalise, inPeriod, inSentence, labelAtStart, listJoin, nounFor, singularNoun } from './grammar.js';
 import { formatPoints } from './growth-words.js';
 
 export type ChangeDirection = 'up' | 'down' | 'flat' | 'none';
@@ -81,10 +81,10 @@ function peakClause(table: PeriodTableFinding, ds: DatasetConfig, locale: string
   const alongside = table.columns.slice(1).flatMap((col, k) => {
     const m = metricByName(ds, col.metric);
     const v = row?.cells[k + 1]?.value ?? null;
-    return col.kind === 'flow' && m.unit === 'count' && v !== null ? [`${valueShort(v, m, locale)} ${inSentence(m.label)}`] : [];
+    return col.kind === 'flow' && m.unit === 'count' && v !== null ? [`${valueShort(v, m, locale)} ${nounFor(v, singularNoun(inSentence(m.label)), inSentence(m.label))}`] : [];
   });
   const on = alongside.length > 0 ? ` on ${listJoin(alongside.slice(0, 2))}` : '';
-  return `${metric.label} peaked ${inPeriod(lead.high.period, table.grain, locale)} at ${valueShort(lead.high.value, metric, locale)}${on}`;
+  return `${labelAtStart(metric.label)} peaked ${inPeriod(lead.high.period, table.grain, locale)} at ${valueShort(lead.high.value, metric, locale)}${on}`;
 }
 
 /**

@@ -1,5 +1,5 @@
 // Title and caption for a series answer, written only from its findings.
-import { inPeriod, verbFor } from './grammar.js';
+import { inPeriod, inSentence, labelAtStart, verbFor } from './grammar.js';
 import type { Metric } from '../../config/schema.js';
 import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import type { Finding, Grain } from '../types.js';
@@ -18,15 +18,15 @@ export function seriesWords(metric: Metric, grain: Grain, findings: Finding[], l
   const value = (p: Point) => formatValue(p.value, fmt, { compact: true });
   const when = (p: Point) => formatPeriod(p.period, grain, locale, 'long');
   if (!peak || !trough) {
-    return { title: `${metric.label}: no complete ${grainNoun(grain)} to compare`, caption: `There is no complete ${grainNoun(grain)} of ${metric.label.toLowerCase()} in this period.` };
+    return { title: `${labelAtStart(metric.label)}: no complete ${grainNoun(grain)} to compare`, caption: `There is no complete ${grainNoun(grain)} of ${inSentence(metric.label)} in this period.` };
   }
   // One complete period is no peak: a partial one beside it may be drawn higher (issue 17 item 9).
-  const only = `${metric.label} ${verbFor(metric.label, 'was')} ${value(peak)} ${inPeriod(peak.period, grain, locale)}, the only complete ${grainNoun(grain)}`;
-  const title = peak.period === trough.period ? only : `${metric.label} peaked ${inPeriod(peak.period, grain, locale)} at ${value(peak)}`;
+  const only = `${labelAtStart(metric.label)} ${verbFor(metric.label, 'was')} ${value(peak)} ${inPeriod(peak.period, grain, locale)}, the only complete ${grainNoun(grain)}`;
+  const title = peak.period === trough.period ? only : `${labelAtStart(metric.label)} peaked ${inPeriod(peak.period, grain, locale)} at ${value(peak)}`;
   const caption =
     peak.period === trough.period
       ? `${only}.`
-      : `${metric.label} peaked ${inPeriod(peak.period, grain, locale)} at ${value(peak)}; its lowest ${grainNoun(grain)} was ${grain === 'week' ? 'the ' : ''}${when(trough)} at ${value(trough)}.`;
+      : `${labelAtStart(metric.label)} peaked ${inPeriod(peak.period, grain, locale)} at ${value(peak)}; its lowest ${grainNoun(grain)} was ${grain === 'week' ? 'the ' : ''}${when(trough)} at ${value(trough)}.`;
   return { title, caption };
 }
 

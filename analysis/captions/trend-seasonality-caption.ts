@@ -3,9 +3,9 @@ import type { Metric } from '../../config/schema.js';
 import type { CalendarMonthPattern, MonthTotalsPerDay, TrendSeasonalityFinding, TrendWeekdayFinding } from '../findings/segments.js';
 import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import type { Audience, Finding } from '../types.js';
-import { listJoin, verbFor } from './grammar.js';
+import { inSentence, labelAtStart, listJoin, verbFor } from './grammar.js';
 import type { Words } from './trend-test-caption.js';
-import { formatIndex, formatRelativeSize, grainNoun, lowerLabel, monthName, monthPair, weekdayName } from './trend-words.js';
+import { formatIndex, formatRelativeSize, grainNoun, monthName, monthPair, weekdayName } from './trend-words.js';
 
 /** `perDayAsked`: the request compared months per day ("which months have the most bookings per day"), so the title ranks them so. */
 export function seasonalityWords(metric: Metric, additive: boolean, findings: readonly Finding[], audience: Audience, locale: string, perDayAsked = false): Words {
@@ -16,7 +16,7 @@ export function seasonalityWords(metric: Metric, additive: boolean, findings: re
     const series = findings.find((f): f is Extract<Finding, { type: 'series' }> => f.type === 'series' && f.metric === metric.name);
     const months = series ? series.points.filter((p) => !p.partial && p.value !== null).length : 0;
     return {
-      title: `${metric.label}: too little history to measure seasonality`,
+      title: `${labelAtStart(metric.label)}: too little history to measure seasonality`,
       caption: `Seasonality needs at least two full years of monthly data; this period has ${months} complete ${grainNoun('month', months)}.${weekday ? ` ${weekday}` : ''}`,
     };
   }
@@ -30,7 +30,7 @@ export function seasonalityWords(metric: Metric, additive: boolean, findings: re
     ? `Per day, ${monthPair(s.perDay.byDay[0]!, s.perDay.byDay[1]!, locale)} are the busiest months; by total, ${monthPair(b0, b1, locale)}`
     : additive
     ? `${monthPair(b0, b1, locale)} are the busiest months${held}`
-    : `${metric.label} ${verbFor(metric.label)} highest in ${monthPair(b0, b1, locale)}${held}`;
+    : `${labelAtStart(metric.label)} ${verbFor(metric.label)} highest in ${monthPair(b0, b1, locale)}${held}`;
 
   if (s.model === 'additive') {
     const caption = levelSeasonCaption(metric, s, audience, locale);
@@ -40,7 +40,7 @@ export function seasonalityWords(metric: Metric, additive: boolean, findings: re
   const rel = (m: CalendarMonthPattern) => formatRelativeSize(m.index - 1, locale);
   /** "about 27% above an average month", "about 3% below", "about the same as": the side follows the index. */
   const against = (m: CalendarMonthPattern) => besideAverage(m.index, 'an average month', locale);
-  const noun = lowerLabel(metric.label);
+  const noun = inSentence(metric.label);
   let caption: string;
   if (audience === 'analysts') {
     const idx = (m: number) => {
@@ -143,9 +143,9 @@ function levelSeasonCaption(metric: Metric, s: TrendSeasonalityFinding, audience
   }
   const at = (m: number) => `${signed(byMonth(m).index)} ${side(byMonth(m).index)} the yearly mean in ${name(m)}`;
   if (audience === 'managers') {
-    return `${metric.label} runs ${at(b0)} and ${signed(byMonth(b1).index)} in ${name(b1)}; ${signed(byMonth(q0).index)} in ${name(q0)} and ${signed(byMonth(q1).index)} in ${name(q1)} are the lowest: a swing of ${swing} within the year.`;
+    return `${labelAtStart(metric.label)} runs ${at(b0)} and ${signed(byMonth(b1).index)} in ${name(b1)}; ${signed(byMonth(q0).index)} in ${name(q0)} and ${signed(byMonth(q1).index)} in ${name(q1)} are the lowest: a swing of ${swing} within the year.`;
   }
-  return `${monthPair(b0, b1, locale)} are the highest months for ${lowerLabel(metric.label)} (${at(b0)}), ${monthPair(q0, q1, locale)} the lowest (${signed(byMonth(q0).index)} in ${name(q0)}).`;
+  return `${monthPair(b0, b1, locale)} are the highest months for ${inSentence(metric.label)} (${at(b0)}), ${monthPair(q0, q1, locale)} the lowest (${signed(byMonth(q0).index)} in ${name(q0)}).`;
 }
 
 function weekdaySentence(w: TrendWeekdayFinding, additive: boolean, audience: Audience, locale: string): string {

@@ -4,10 +4,10 @@ import { isAdditive } from '../catalog.js';
 import { CLEAR_LEAD, type SegmentGrowthMeasure, type SegmentRanking, type SegmentSharesFinding, type SegmentShareRow, type SegmentTrendFinding, type SegmentTrendOverviewFinding } from '../findings/segments.js';
 import { formatChange, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
 import type { Audience, Finding } from '../types.js';
-import { countOf, isPluralLabel } from './grammar.js';
+import { countOf, inSentence, isPluralLabel, labelAtStart } from './grammar.js';
 import { configuredAs } from './metric-words.js';
 import type { Words } from './trend-test-caption.js';
-import { capitalise, countWord, dimensionPlural, formatRelativeSize, formatShare, lowerLabel, segmentLabel } from './trend-words.js';
+import { capitalise, countWord, dimensionPlural, formatRelativeSize, formatShare, segmentLabel } from './trend-words.js';
 
 type Dim = Pick<Dimension, 'label'>;
 
@@ -41,7 +41,7 @@ function sizeLine(metric: Metric, named: readonly SegmentTrendFinding[], fmt: Re
   const byValue = [...valued].sort((a, b) => b.total! - a.total!);
   const top = byValue[0]!;
   const bottom = byValue[byValue.length - 1]!;
-  const noun = lowerLabel(metric.label);
+  const noun = inSentence(metric.label);
   if (byValue.length === 1) return `${segmentLabel(top)} has ${noun} of ${formatValue(top.total, fmt)}${span}.`;
   return `Of the ${byValue.length} shown, ${segmentLabel(top)} has the highest ${noun}, ${formatValue(top.total, fmt)}${span}, and ${segmentLabel(bottom)} the lowest, ${formatValue(bottom.total, fmt)}.`;
 }
@@ -51,17 +51,17 @@ export function segmentTrendWords(metric: Metric, dim: Dim, findings: readonly F
   const trends = findings.filter((f): f is SegmentTrendFinding => f.type === 'segment_trend' && f.metric === metric.name);
   const plural = dimensionPlural(dim);
   const fmt = valueFormatOf(metric, locale);
-  const noun = lowerLabel(metric.label);
+  const noun = inSentence(metric.label);
   if (!overview || trends.length === 0) {
-    return { title: `${metric.label} by ${lowerLabel(dim.label)}: no data in this period`, caption: `There are no ${noun} to break down by ${lowerLabel(dim.label)} in this period.` };
+    return { title: `${labelAtStart(metric.label)} by ${inSentence(dim.label)}: no data in this period`, caption: `There are no ${noun} to break down by ${inSentence(dim.label)} in this period.` };
   }
   const named = trends.filter((t) => !t.other);
   const fastest = overview.fastest === null ? undefined : named.find((t) => t.segment === overview.fastest!.segment);
   if (!fastest || !overview.fastest) {
     const largestText = sizeLine(metric, named, fmt, '');
     return {
-      title: `${metric.label} by ${lowerLabel(dim.label)}: too few complete periods to compare growth`,
-      caption: `No ${lowerLabel(dim.label)} has enough complete periods for a growth rate. ${capitalise(largestText)}`.trim(),
+      title: `${labelAtStart(metric.label)} by ${inSentence(dim.label)}: too few complete periods to compare growth`,
+      caption: `No ${inSentence(dim.label)} has enough complete periods for a growth rate. ${capitalise(largestText)}`.trim(),
     };
   }
   const measure = overview.fastest.measure;
@@ -99,7 +99,7 @@ export function segmentTrendWords(metric: Metric, dim: Dim, findings: readonly F
         return `${segmentLabel(t)}: ${formatValue(t.total, fmt, { compact: true })}, ${g}${sen}`;
       })
       .join('; ');
-    caption = `By ${lowerLabel(dim.label)} (growth between the first and last calendar years with rows in all twelve months): ${list}.`;
+    caption = `By ${inSentence(dim.label)} (growth between the first and last calendar years with rows in all twelve months): ${list}.`;
   } else if (audience === 'managers') {
     const lead = tied
       ? `${both} ${overview.fastest.value > 0 ? 'grew at about the same pace' : 'held up about equally'}, ${bothRates}, too close to name one`
@@ -124,19 +124,19 @@ export function segmentTrendWords(metric: Metric, dim: Dim, findings: readonly F
  */
 function rankingWords(metric: Metric, dim: Dim, f: SegmentSharesFinding, ranking: SegmentRanking, locale: string, rows: { plural: string; singular: string }): Words {
   const fmt = valueFormatOf(metric, locale);
-  const noun = lowerLabel(metric.label);
+  const noun = inSentence(metric.label);
   const plural = dimensionPlural(dim);
   const ranked = f.rows.filter((r) => !r.other && r.value !== null);
   const fold = f.rows.find((r) => r.other && r.value !== null);
   const floor = ranking.minRows === null ? '' : ` with at least ${countOf(ranking.minRows, rows.singular, locale, rows.plural)}`;
   if (ranked.length === 0) {
     return {
-      title: `${metric.label} by ${lowerLabel(dim.label)}: no ${lowerLabel(dim.label)} to rank`,
-      caption: `No ${lowerLabel(dim.label)}${floor} has a value of ${noun} in this period${fold ? `; all of them together come to ${formatValue(fold.value, fmt)}` : ''}.`,
+      title: `${labelAtStart(metric.label)} by ${inSentence(dim.label)}: no ${inSentence(dim.label)} to rank`,
+      caption: `No ${inSentence(dim.label)}${floor} has a value of ${noun} in this period${fold ? `; all of them together come to ${formatValue(fold.value, fmt)}` : ''}.`,
     };
   }
   const first = ranked[0]!;
-  const countText = ranked.length === 1 ? lowerLabel(dim.label) : `${ranked.length} ${plural}`;
+  const countText = ranked.length === 1 ? inSentence(dim.label) : `${ranked.length} ${plural}`;
   const title = `${capitalise(ranking.order)} ${countText} by ${noun}: ${segmentLabel(first)}, ${formatValue(first.value, fmt)}`;
   const why =
     ranking.order === 'best' || ranking.order === 'worst'
@@ -146,9 +146,9 @@ function rankingWords(metric: Metric, dim: Dim, f: SegmentSharesFinding, ranking
   const rule =
     ranking.minRows === null
       ? ''
-      : ` Only ${plural}${floor} are ranked (a figure over fewer swings too far to rank; the floor is ${formatShare(ranking.floorRule.share, locale)} of the ${rows.plural}, kept between ${ranking.floorRule.least} and ${ranking.floorRule.most} and at most ${formatShare(ranking.floorRule.ofLargest, locale)} of the largest ${lowerLabel(dim.label)}'s ${rows.plural})${ranking.thin > 0 ? `; ${countOf(ranking.thin, lowerLabel(dim.label), locale, plural)} with fewer ${ranking.thin === 1 ? 'is' : 'are'} left out` : ''}.`;
+      : ` Only ${plural}${floor} are ranked (a figure over fewer swings too far to rank; the floor is ${formatShare(ranking.floorRule.share, locale)} of the ${rows.plural}, kept between ${ranking.floorRule.least} and ${ranking.floorRule.most} and at most ${formatShare(ranking.floorRule.ofLargest, locale)} of the largest ${inSentence(dim.label)}'s ${rows.plural})${ranking.thin > 0 ? `; ${countOf(ranking.thin, inSentence(dim.label), locale, plural)} with fewer ${ranking.thin === 1 ? 'is' : 'are'} left out` : ''}.`;
   const asked = f.topNAsked ?? null;
-  const fewer = asked !== null && ranked.length < asked ? ` Only ${countOf(ranked.length, lowerLabel(dim.label), locale, plural)}${floor} ${ranked.length === 1 ? 'has' : 'have'} a value.` : '';
+  const fewer = asked !== null && ranked.length < asked ? ` Only ${countOf(ranked.length, inSentence(dim.label), locale, plural)}${floor} ${ranked.length === 1 ? 'has' : 'have'} a value.` : '';
   // A sum's fold adds its members up; an average's or a rate's fold is its value over all their rows.
   const rest = fold ? ` The rest ${f.additive ? 'together come to' : 'taken together are at'} ${formatValue(fold.value, fmt)} ("All others").` : '';
   return { title, caption: `Ranked ${ranking.descending ? 'highest' : 'lowest'} first${why}: ${list}.${rule}${fewer}${rest}` };
@@ -156,15 +156,15 @@ function rankingWords(metric: Metric, dim: Dim, f: SegmentSharesFinding, ranking
 
 export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly Finding[], audience: Audience, locale: string, rows: { plural: string; singular: string } = { plural: 'rows', singular: 'row' }, request: { ranking?: boolean; contrast?: readonly [string, string]; dataset?: DatasetConfig } = {}): Words {
   const f = findings.find((x): x is SegmentSharesFinding => x.type === 'segment_shares' && x.metric === metric.name);
-  const noun = lowerLabel(metric.label);
+  const noun = inSentence(metric.label);
   const plural = dimensionPlural(dim);
   const fmt = valueFormatOf(metric, locale);
   if (!f || f.rows.length === 0) {
-    return { title: `${metric.label} by ${lowerLabel(dim.label)}: no data in this period`, caption: `There are no ${noun} to break down by ${lowerLabel(dim.label)} in this period.` };
+    return { title: `${labelAtStart(metric.label)} by ${inSentence(dim.label)}: no data in this period`, caption: `There are no ${noun} to break down by ${inSentence(dim.label)} in this period.` };
   }
   const named = f.rows.filter((r) => !r.other);
   if (f.rows.every((r) => r.value === null)) {
-    return { title: `${metric.label} by ${lowerLabel(dim.label)}: no values in this period`, caption: `${capitalise(noun)} ${isPluralLabel(metric.label) ? 'have' : 'has'} no values for any ${lowerLabel(dim.label)} in this period.` };
+    return { title: `${labelAtStart(metric.label)} by ${inSentence(dim.label)}: no values in this period`, caption: `${capitalise(noun)} ${isPluralLabel(metric.label) ? 'have' : 'has'} no values for any ${inSentence(dim.label)} in this period.` };
   }
   if (f.ranking && (!f.additive || !f.ranking.descending || f.total === null || named.every((r) => r.share === null))) return rankingWords(metric, dim, f, f.ranking, locale, rows);
   // Two values set against each other ("night vs day"): the two side by side, in the order asked.
@@ -173,7 +173,7 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
     const [a, b] = pair as [SegmentShareRow, SegmentShareRow];
     const side = (r: SegmentShareRow) => `${segmentLabel(r)} ${formatValue(r.value, fmt, { compact: true })}`;
     const shares = a.share !== null && b.share !== null && f.additive ? ` (${segmentLabel(a)} ${formatShare(a.value! / (a.value! + b.value!), locale, true)} of the two)` : '';
-    return { title: `${metric.label}: ${side(a)} against ${side(b)}`, caption: `${capitalise(noun)} over the period: ${side(a)} against ${side(b)}${shares}.` };
+    return { title: `${labelAtStart(metric.label)}: ${side(a)} against ${side(b)}`, caption: `${capitalise(noun)} over the period: ${side(a)} against ${side(b)}${shares}.` };
   }
   if (!f.additive || f.total === null || named.every((r) => r.share === null)) {
     const ranked = [...named].filter((r) => r.value !== null).sort((a, b) => b.value! - a.value!);
@@ -185,8 +185,8 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
       : `${noun} ${isPluralLabel(metric.label) ? 'are' : 'is'} set up in the config as ${set.as}, not as a total that splits across ${plural}${set.change ? ` (${set.change} would)` : ''}`;
     const list = ranked.slice(0, 5).map((r) => `${segmentLabel(r)} ${formatValue(r.value, fmt)}`).join(', ');
     return {
-      title: top ? `${metric.label} ${isPluralLabel(metric.label) ? 'are' : 'is'} highest for ${segmentLabel(top)} (${formatValue(top.value, fmt)})` : `${metric.label} by ${lowerLabel(dim.label)}: no values`,
-      caption: `Shares do not apply here: ${why}. ${list ? `By ${lowerLabel(dim.label)}: ${list}.` : ''}`.trim(),
+      title: top ? `${labelAtStart(metric.label)} ${isPluralLabel(metric.label) ? 'are' : 'is'} highest for ${segmentLabel(top)} (${formatValue(top.value, fmt)})` : `${labelAtStart(metric.label)} by ${inSentence(dim.label)}: no values`,
+      caption: `Shares do not apply here: ${why}. ${list ? `By ${inSentence(dim.label)}: ${list}.` : ''}`.trim(),
     };
   }
   // The headline names the fewest segments that carry at least half of the total.
@@ -208,7 +208,7 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
   const reach =
     c === null
       ? `the ${named.length} largest ${plural} shown carry ${formatShare(named[named.length - 1]!.cumulativeShare, locale, true)}, short of ${formatShare(f.threshold, locale)}`
-      : `${countWord(c, locale)} ${c === 1 ? `${lowerLabel(dim.label)} reaches` : `${plural} reach`} ${formatShare(f.threshold, locale)} (${formatShare(named[c - 1]!.cumulativeShare, locale, true)})`;
+      : `${countWord(c, locale)} ${c === 1 ? `${inSentence(dim.label)} reaches` : `${plural} reach`} ${formatShare(f.threshold, locale)} (${formatShare(named[c - 1]!.cumulativeShare, locale, true)})`;
   // "top 10": the share of as many as were asked, and why fewer are named when they are.
   const asked = f.topNAsked ?? null;
   const askedTop = asked !== null && f.topNShare !== null ? `the top ${f.topN} ${plural} carry ${formatShare(f.topNShare, locale, true)}` : null;
@@ -229,7 +229,7 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
   } else if (audience === 'managers') {
     caption = `${capitalise(lead)}; ${askedTop ? `${askedTop}${c === null ? '' : `; ${reach}`}` : reach}.${fewerLine}${foldLine}`;
   } else {
-    const top = k !== null ? `${capitalise(countWord(k, locale))} ${k === 1 ? lowerLabel(dim.label) : plural} ${verbFor(k)} about ${formatShare(half!.cumulativeShare, locale)} of ${noun}` : `No single ${lowerLabel(dim.label)} dominates ${noun}`;
+    const top = k !== null ? `${capitalise(countWord(k, locale))} ${k === 1 ? inSentence(dim.label) : plural} ${verbFor(k)} about ${formatShare(half!.cumulativeShare, locale)} of ${noun}` : `No single ${inSentence(dim.label)} dominates ${noun}`;
     const more = c !== null && (k === null || c > k) ? `; ${countWord(c, locale)} carry over ${formatShare(f.threshold, locale)}` : '';
     caption = `${top}${more}.`;
   }

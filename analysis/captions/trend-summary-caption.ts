@@ -5,9 +5,9 @@ import { quantityKind } from '../catalog.js';
 import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import { MODIFIED_Z_THRESHOLD } from '../stats/index.js';
 import type { Audience, Finding, Grain } from '../types.js';
-import { isPluralLabel } from './grammar.js';
+import { inSentence, isPluralLabel, labelAtStart } from './grammar.js';
 import type { Words } from './trend-test-caption.js';
-import { formatIndex, grainNoun, lowerLabel } from './trend-words.js';
+import { formatIndex, grainNoun } from './trend-words.js';
 
 // A caption names a handful of unusual periods; a list of eighty is not read (a long history of sparse data).
 const MOST_OUTLIERS_SAID = 5;
@@ -28,8 +28,8 @@ export function trendSummaryWords(metric: Metric, grain: Grain, findings: readon
   const when = (p: string) => formatPeriod(p, grain, locale, 'long');
   if (!s) {
     return {
-      title: `${metric.label}: no complete ${grainNoun(grain)} to summarise`,
-      caption: `There is no complete ${grainNoun(grain)} of ${lowerLabel(metric.label)} with a value in this period.`,
+      title: `${labelAtStart(metric.label)}: no complete ${grainNoun(grain)} to summarise`,
+      caption: `There is no complete ${grainNoun(grain)} of ${inSentence(metric.label)} with a value in this period.`,
     };
   }
   const per = grainNoun(grain);
@@ -37,11 +37,11 @@ export function trendSummaryWords(metric: Metric, grain: Grain, findings: readon
   const perGrain = quantityKind(metric) === 'flow' ? ` a ${per}` : '';
   if (s.n === 1) {
     return {
-      title: `${metric.label} ${isPluralLabel(metric.label) ? 'were' : 'was'} ${v(s.mean)} in ${when(s.minPeriod)}`,
+      title: `${labelAtStart(metric.label)} ${isPluralLabel(metric.label) ? 'were' : 'was'} ${v(s.mean)} in ${when(s.minPeriod)}`,
       caption: `Only one complete ${per} is available (${when(s.minPeriod)}: ${v(s.mean)}), so there is no spread to describe.`,
     };
   }
-  const title = `${metric.label} averaged ${v(s.mean)}${perGrain}, from ${v(s.min)} to ${v(s.max)}`;
+  const title = `${labelAtStart(metric.label)} averaged ${v(s.mean)}${perGrain}, from ${v(s.min)} to ${v(s.max)}`;
   const range = `from ${v(s.min)} (${when(s.minPeriod)}) to ${v(s.max)} (${when(s.maxPeriod)})`;
   const outlierText = (o: TrendOutlierFinding) => `${when(o.period)} (${v(o.value)}${audience === 'analysts' ? `, modified z = ${formatIndex(o.score, locale)}` : ''})`;
   const stand =
@@ -56,7 +56,7 @@ export function trendSummaryWords(metric: Metric, grain: Grain, findings: readon
   // median of weekly averages is never read as the median per flight.
   const r = s.rows;
   const rowsLine = r
-    ? ` Across the ${formatValue(r.n, { unit: 'count', locale })} ${rowsLabel ? lowerLabel(rowsLabel) : 'rows with a value'} themselves: mean ${v(r.mean)}, median ${v(r.median)}.`
+    ? ` Across the ${formatValue(r.n, { unit: 'count', locale })} ${rowsLabel ? inSentence(rowsLabel) : 'rows with a value'} themselves: mean ${v(r.mean)}, median ${v(r.median)}.`
     : '';
   const ofPeriods = quantityKind(metric) === 'flow' ? '' : ` of the ${grainNoun(grain, 2)}' values`;
   let caption: string;
@@ -64,9 +64,9 @@ export function trendSummaryWords(metric: Metric, grain: Grain, findings: readon
     const mode = s.mode === null ? 'no repeated value' : `mode ${v(s.mode)} (${s.modeCount} times)`;
     caption = `Over ${s.n} complete ${grainNoun(grain, s.n)}${ofPeriods}: mean ${v(s.mean)}, median ${v(s.median)}, standard deviation ${v(s.sd)}, ${mode}; ${range}.${stand}${rowsLine}`;
   } else if (audience === 'managers') {
-    caption = `Over ${s.n} complete ${grainNoun(grain, s.n)}, ${lowerLabel(metric.label)} averaged ${v(s.mean)}${perGrain} (median${quantityKind(metric) === 'flow' ? '' : ` ${per}`} ${v(s.median)}), ${range}.${stand}${rowsLine}`;
+    caption = `Over ${s.n} complete ${grainNoun(grain, s.n)}, ${inSentence(metric.label)} averaged ${v(s.mean)}${perGrain} (median${quantityKind(metric) === 'flow' ? '' : ` ${per}`} ${v(s.median)}), ${range}.${stand}${rowsLine}`;
   } else {
-    caption = `In a typical ${per}, ${lowerLabel(metric.label)} ${isPluralLabel(metric.label) ? 'are' : 'is'} about ${v(s.median)}; the range runs ${range}.${stand}${rowsLine}`;
+    caption = `In a typical ${per}, ${inSentence(metric.label)} ${isPluralLabel(metric.label) ? 'are' : 'is'} about ${v(s.median)}; the range runs ${range}.${stand}${rowsLine}`;
   }
   return { title, caption };
 }

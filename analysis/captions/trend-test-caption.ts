@@ -5,7 +5,7 @@ import { changesInUnits, metricDirection } from '../catalog.js';
 import { formatChange, formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import { yearFraction } from '../periods.js';
 import type { Audience, Finding, Grain } from '../types.js';
-import { inSentence, isPluralLabel } from './grammar.js';
+import { inSentence, isPluralLabel, labelAtStart } from './grammar.js';
 import type { Verdict } from './verdict-words.js';
 import { formatSmallPoints } from './growth-words.js';
 import { formatIndex, formatP, formatRelativeSize, grainNoun } from './trend-words.js';
@@ -26,7 +26,7 @@ export function trendTestWords(metric: Metric, grain: Grain, findings: readonly 
     const series = findings.find((f): f is Extract<Finding, { type: 'series' }> => f.type === 'series' && f.metric === metric.name);
     const complete = series ? series.points.filter((p) => !p.partial && p.value !== null).length : 0;
     return {
-      title: `${metric.label}: too few complete ${grainNoun(grain, 2)} to test for a trend`,
+      title: `${labelAtStart(metric.label)}: too few complete ${grainNoun(grain, 2)} to test for a trend`,
       caption: `A trend test needs at least three complete ${grainNoun(grain, 2)} with a value; ${complete === 0 ? 'this period has none' : `this period has ${complete}`}.${peakLine ? ` ${peakLine}` : ''}`,
     };
   }
@@ -52,10 +52,10 @@ export function trendTestWords(metric: Metric, grain: Grain, findings: readonly 
   const unresolved = test.seasonUnresolved === true;
   const went = test.direction === 'up' ? 'rose' : test.direction === 'down' ? 'fell' : 'moved';
   const title = unresolved
-    ? `${metric.label} ${went} from ${span}: too short a span to tell a trend from the season`
+    ? `${labelAtStart(metric.label)} ${went} from ${span}: too short a span to tell a trend from the season`
     : test.direction === 'none'
-      ? `${metric.label}: no clear trend from ${span}`
-      : `${metric.label} ${show} a ${moving} trend of about ${perPeriod} per ${grainNoun(grain)}`;
+      ? `${labelAtStart(metric.label)}: no clear trend from ${span}`
+      : `${labelAtStart(metric.label)} ${show} a ${moving} trend of about ${perPeriod} per ${grainNoun(grain)}`;
   const seasonCaveat = `With less than two years of ${grainNoun(grain, 2)}, a rise or fall cannot be told apart from the usual seasonal pattern; over two years or more the season can be allowed for.`;
 
   let caption: string;
@@ -66,18 +66,18 @@ export function trendTestWords(metric: Metric, grain: Grain, findings: readonly 
       ? `Sen's slope ${signedPoints(test.slopePerPeriod)} per ${grainNoun(grain)}${yearly ? `, ${signedPoints(test.slopePerYear)} a year` : ''}`
       : `Sen's slope ${formatValue(test.slopePerPeriod, fmt, { compact: true, signed: true })} per ${grainNoun(grain)}${yearly ? `, ${formatValue(test.slopePerYear, fmt, { compact: true, signed: true })} a year${perYearRel ? ` (${perYearRel} of the mean level)` : ''}` : ''}`;
     const raw = test.seasonallyAdjusted ? ` On the unadjusted values the test gives p ${formatP(test.rawPValue, locale)}.` : '';
-    const lead = test.direction === 'none' ? `No significant monotonic trend at the ${formatValue(test.alpha, { unit: 'percent', decimals: 0, locale })} level` : `${unresolved ? `${metric.label}: monotonic movement` : title}`;
+    const lead = test.direction === 'none' ? `No significant monotonic trend at the ${formatValue(test.alpha, { unit: 'percent', decimals: 0, locale })} level` : `${unresolved ? `${labelAtStart(metric.label)}: monotonic movement` : title}`;
     const short = unresolved ? ` Fewer than two years tested: no yearly season could be removed, so the test does not separate trend from season.` : '';
     caption = `${lead} (${method}); ${slope}.${raw}${short}`;
   } else if (unresolved) {
     const size = audience === 'managers' && test.direction !== 'none' ? ` by about ${perPeriod} a ${grainNoun(grain)}` : '';
-    caption = `${metric.label} ${went}${size} from ${span}. ${seasonCaveat}`;
+    caption = `${labelAtStart(metric.label)} ${went}${size} from ${span}. ${seasonCaveat}`;
   } else if (audience === 'managers') {
     const seasonal = test.seasonallyAdjusted ? ', after allowing for the usual seasonal pattern' : '';
     caption =
       test.direction === 'none'
-        ? `${metric.label} moved up and down from ${span} without a clear direction${seasonal}; the changes could be chance.`
-        : `${metric.label} ${test.direction === 'up' ? 'rose' : 'fell'} by about ${perPeriod} a ${grainNoun(grain)}${perYearRel ? ` (${perYearRel} a year)` : ''} from ${span}${seasonal}; a trend this steady is unlikely to be chance.`;
+        ? `${labelAtStart(metric.label)} moved up and down from ${span} without a clear direction${seasonal}; the changes could be chance.`
+        : `${labelAtStart(metric.label)} ${test.direction === 'up' ? 'rose' : 'fell'} by about ${perPeriod} a ${grainNoun(grain)}${perYearRel ? ` (${perYearRel} a year)` : ''} from ${span}${seasonal}; a trend this steady is unlikely to be chance.`;
   } else {
     const be = plural ? 'are' : 'is';
     const size = !yearly
@@ -87,8 +87,8 @@ export function trendTestWords(metric: Metric, grain: Grain, findings: readonly 
       : test.slopePerYearRelative === null ? '' : `, by about ${formatRelativeSize(test.slopePerYearRelative, locale)} a year`;
     caption =
       test.direction === 'none'
-        ? `${metric.label} ${show} no clear rise or fall from ${span}; the ups and downs could be chance.`
-        : `${metric.label} ${be} ${moving}${size}; this is unlikely to be chance.`;
+        ? `${labelAtStart(metric.label)} ${show} no clear rise or fall from ${span}; the ups and downs could be chance.`
+        : `${labelAtStart(metric.label)} ${be} ${moving}${size}; this is unlikely to be chance.`;
   }
   return { title, caption: peakLine ? `${caption} ${peakLine}` : caption };
 }
@@ -116,8 +116,8 @@ function levelTrendWords(metric: Metric, grain: Grain, test: TrendTestFinding, a
   const plural = isPluralLabel(metric.label);
   const title =
     test.direction === 'none'
-      ? `${metric.label}: no clear trend from ${span}`
-      : `${metric.label} ${plural ? 'show' : 'shows'} a ${moving} trend of about ${size(rate)} ${per}`;
+      ? `${labelAtStart(metric.label)}: no clear trend from ${span}`
+      : `${labelAtStart(metric.label)} ${plural ? 'show' : 'shows'} a ${moving} trend of about ${size(rate)} ${per}`;
   const seasonal = test.seasonallyAdjusted ? ', after taking out the usual seasonal swing' : '';
   if (audience === 'analysts') {
     const method = `Mann–Kendall${test.seasonallyAdjusted ? ' on seasonally adjusted values (additive)' : ''}, p ${formatP(test.pValue, locale)}, τ = ${formatIndex(test.tau, locale)}, n = ${test.n} ${grainNoun(grain, test.n)}, ${span}`;
@@ -127,13 +127,13 @@ function levelTrendWords(metric: Metric, grain: Grain, test: TrendTestFinding, a
     return { title, caption: `${lead} (${method}); Sen's slope ${signed(test.slopePerPeriod)} per ${grainNoun(grain)}${yearly ? `, ${signed(test.slopePerYear)} a year` : ''}${perDecade}.${raw}${byDecade}` };
   }
   if (test.direction === 'none') {
-    return { title, caption: `${metric.label} moved up and down from ${span} without a clear direction${seasonal}; the changes could be chance.` };
+    return { title, caption: `${labelAtStart(metric.label)} moved up and down from ${span} without a clear direction${seasonal}; the changes could be chance.` };
   }
   const verb = test.direction === 'up' ? 'rose' : 'fell';
   if (audience === 'managers') {
-    return { title, caption: `${metric.label} ${verb} by about ${size(rate)} ${per}${decade} from ${span}${seasonal}; a trend this steady is unlikely to be chance.${byDecade}` };
+    return { title, caption: `${labelAtStart(metric.label)} ${verb} by about ${size(rate)} ${per}${decade} from ${span}${seasonal}; a trend this steady is unlikely to be chance.${byDecade}` };
   }
-  return { title, caption: `${metric.label} ${plural ? 'are' : 'is'} ${moving}, by about ${size(rate)} ${per}${decade}; this is unlikely to be chance.${byDecade}` };
+  return { title, caption: `${labelAtStart(metric.label)} ${plural ? 'are' : 'is'} ${moving}, by about ${size(rate)} ${per}${decade}; this is unlikely to be chance.${byDecade}` };
 }
 
 /** The peak and how far the latest complete period sits from it. */

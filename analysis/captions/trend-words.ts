@@ -11,7 +11,7 @@ export function countWord(n: number, locale: string): string {
   return Number.isInteger(n) && n >= 0 && n < NUMBER_WORDS.length ? NUMBER_WORDS[n]! : formatValue(n, { unit: 'count', locale });
 }
 
-import { capitalise, pluralNoun } from './grammar.js';
+import { capitalise, inSentence, pluralNoun } from './grammar.js';
 export { capitalise };
 
 /** A p-value with three decimals, or "< 0.001" below that. */
@@ -65,16 +65,9 @@ export function segmentLabel(key: { segment: string | null; other: boolean; memb
  */
 export function dimensionPlural(dim: Pick<Dimension, 'label'>): string {
   // One plural rule for every caption (grammar.ts): "species" stays, "phase of flight" → "phases of flight".
-  return pluralNoun(lowerLabel(dim.label));
+  return pluralNoun(inSentence(dim.label));
 }
 
-/** A catalog label inside a sentence: "Booking channel" → "booking channel"; "SkerryPass holder" keeps its case. */
-export function lowerLabel(label: string): string {
-  const words = label.split(' ');
-  const first = words[0] ?? '';
-  if (/^[A-Z][a-z]*$/.test(first)) words[0] = first.toLowerCase();
-  return words.join(' ');
-}
 
 /** "about 16%" style: a relative amount without its sign, whole percent from 10%, one decimal below. */
 export function formatRelativeSize(relative: number, locale: string): string {

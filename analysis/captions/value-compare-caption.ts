@@ -5,7 +5,7 @@ import type { ContrastSide, PerDaySide, ValueCompareFinding } from '../findings/
 import { formatChange, formatGrowth, formatValue } from '../format.js';
 import { growthMultiple } from '../stats/growth.js';
 import type { Audience } from '../types.js';
-import { capitalise, inSentence, possessive } from './grammar.js';
+import { capitalise, inSentence, labelAtStart, possessive } from './grammar.js';
 import { formatPoints, segmentText, spanText, valueText } from './growth-words.js';
 import { formatP, quantityFormat } from './performance-words.js';
 
@@ -54,7 +54,7 @@ function lengthsSentence(f: ValueCompareFinding, metric: Metric, label: string, 
 }
 
 export function valueCompareWords(f: ValueCompareFinding | undefined, metric: Metric, dataset: DatasetConfig, locale: string, audience: Audience): ValueCompareWords {
-  if (!f) return { title: `${metric.label}: nothing to compare`, caption: 'There is no data for either value in the spans compared.', clear: false };
+  if (!f) return { title: `${labelAtStart(metric.label)}: nothing to compare`, caption: 'There is no data for either value in the spans compared.', clear: false };
   const name = (s: ContrastSide) => segmentText(s.value, f.dimension, dataset);
   const label = inSentence(metric.label);
   const [a, b] = [f.first, f.second];

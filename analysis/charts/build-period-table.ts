@@ -7,7 +7,7 @@ import { changeText } from '../captions/period-table-caption.js';
 import type { ChangeBasis, PeriodTableCell } from '../findings/table.js';
 import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import { GRAIN_WORDS } from '../grains.js';
-import { capitalise, possessive } from '../captions/grammar.js';
+import { capitalise, inSentence, possessive } from '../captions/grammar.js';
 import type { Grain } from '../types.js';
 import { colourDomain } from './build-growth-grid.js';
 import { headerOf } from './header.js';
@@ -105,7 +105,7 @@ export function buildPeriodTablePages(input: PeriodTableInput): PeriodTableSpec[
     const latest = from > 0 ? `latest ${GRAIN_WORDS[grain].plural}, ` : '';
     const pageNote =
       pages.length > 1 || latest
-        ? `${capitalise(`${latest}page ${p + 1} of ${pages.length}`)}: ${formatPeriod(input.rows[range.from]!.period, grain, locale)} to ${formatPeriod(input.rows[range.to - 1]!.period, grain, locale)}${last ? '' : totalRow ? `; the ${input.total!.label.toLowerCase()} row is on page ${pages.length}` : ''}`
+        ? `${capitalise(`${latest}page ${p + 1} of ${pages.length}`)}: ${formatPeriod(input.rows[range.from]!.period, grain, locale)} to ${formatPeriod(input.rows[range.to - 1]!.period, grain, locale)}${last ? '' : totalRow ? `; the ${inSentence(input.total!.label)} row is on page ${pages.length}` : ''}`
         : '';
     return {
       kind: 'period_table',
@@ -157,7 +157,7 @@ function notDrawnNote(input: PeriodTableInput, hidden: number): string | null {
       return r ? [`${possessive(m.metric.label)} ${mark} (${period(r.period)})`] : [];
     });
   });
-  const total = input.total ? `; the ${input.total.label.toLowerCase()} row and the ★ and ✖ marks cover all of them` : '';
+  const total = input.total ? `; the ${inSentence(input.total.label)} row and the ★ and ✖ marks cover all of them` : '';
   const marks = marked.length > 0 ? ` Marked among the earlier ones: ${marked.join(', ')}.` : '';
   return `Drawn: the latest ${n(rows.length - hidden)} of ${n(rows.length)} ${plural} (${period(rows[hidden]!.period)} to ${period(rows.at(-1)!.period)}); the earlier ${n(hidden)} are in the attached CSV${total}.${marks}`;
 }

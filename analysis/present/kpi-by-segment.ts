@@ -8,13 +8,14 @@ import type { KpiBySegmentFinding } from '../findings/kpi.js';
 import { valueFormatOf } from '../format.js';
 import { comparedText, findingOf, kpiHeader, kpiNotes, kpiSubtitle } from './kpi-header.js';
 import type { Presenter } from './presenter.js';
+import { inSentence, labelAtStart } from '../captions/grammar.js';
 
 export const presentKpiBySegment: Presenter = (answer, ctx) => {
   const metric = metricByName(ctx.dataset, answer.subQuestion.metrics[0]!);
   const f = findingOf<KpiBySegmentFinding>(answer, 'kpi_by_segment', metric.name);
   if (!f) {
-    const title = `${metric.label}: no complete ${answer.subQuestion.grain} to break down`;
-    return { title, caption: `There is no complete ${answer.subQuestion.grain} of ${metric.label.toLowerCase()} in the period asked for.`, notes: kpiNotes(answer, ctx, []), chart: null, takeaway: null };
+    const title = `${labelAtStart(metric.label)}: no complete ${answer.subQuestion.grain} to break down`;
+    return { title, caption: `There is no complete ${answer.subQuestion.grain} of ${inSentence(metric.label)} in the period asked for.`, notes: kpiNotes(answer, ctx, []), chart: null, takeaway: null };
   }
   const words = kpiBySegmentWords(f, metric, ctx.dataset, ctx.audience, ctx.locale);
   const ly = f.total.lastYear?.period ?? null;

@@ -12,6 +12,7 @@ import { caveatNotes } from './header.js';
 import { findingOf, kpiHeader, kpiNotes, kpiSubtitle } from './kpi-header.js';
 
 import type { Presenter } from './presenter.js';
+import { inSentence, labelAtStart } from '../captions/grammar.js';
 
 export const presentKpiContext: Presenter = (answer, ctx) => {
   const sq = answer.subQuestion;
@@ -19,8 +20,8 @@ export const presentKpiContext: Presenter = (answer, ctx) => {
   const f = findingOf<KpiContextFinding>(answer, 'kpi_context', metric.name);
   const series = answer.findings.find((x): x is Extract<Finding, { type: 'series' }> => x.type === 'series' && x.metric === metric.name);
   if (!f || !series) {
-    const title = `${metric.label}: no complete ${sq.grain} to place in context`;
-    return { title, caption: `There is no complete ${sq.grain} of ${metric.label.toLowerCase()} in the period asked for.`, notes: kpiNotes(answer, ctx, []), chart: null, takeaway: null };
+    const title = `${labelAtStart(metric.label)}: no complete ${sq.grain} to place in context`;
+    return { title, caption: `There is no complete ${sq.grain} of ${inSentence(metric.label)} in the period asked for.`, notes: kpiNotes(answer, ctx, []), chart: null, takeaway: null };
   }
   const words = kpiContextWords(f, metric, ctx.dataset, ctx.audience, ctx.locale);
   const what = `${periodName(f.firstPeriod, f.grain, ctx.locale)} to ${periodName(f.period, f.grain, ctx.locale)}, ${grainAdjective(f.grain)}; latest complete: ${periodName(f.period, f.grain, ctx.locale)}`;

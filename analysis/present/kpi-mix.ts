@@ -8,13 +8,14 @@ import type { KpiMixFinding } from '../findings/kpi.js';
 import { valueFormatOf } from '../format.js';
 import { findingOf, kpiHeader, kpiNotes, kpiSubtitle } from './kpi-header.js';
 import type { Presenter } from './presenter.js';
+import { inSentence, labelAtStart } from '../captions/grammar.js';
 
 export const presentKpiMix: Presenter = (answer, ctx) => {
   const metric = metricByName(ctx.dataset, answer.subQuestion.metrics[0]!);
   const f = findingOf<KpiMixFinding>(answer, 'kpi_mix', metric.name);
   if (!f) {
-    const title = `${metric.label}: no complete ${answer.subQuestion.grain} to split`;
-    return { title, caption: `There is no complete ${answer.subQuestion.grain} of ${metric.label.toLowerCase()} in the period asked for.`, notes: kpiNotes(answer, ctx, []), chart: null, takeaway: null };
+    const title = `${labelAtStart(metric.label)}: no complete ${answer.subQuestion.grain} to split`;
+    return { title, caption: `There is no complete ${answer.subQuestion.grain} of ${inSentence(metric.label)} in the period asked for.`, notes: kpiNotes(answer, ctx, []), chart: null, takeaway: null };
   }
   const words = kpiMixWords(f, metric, ctx.dataset, ctx.audience, ctx.locale);
   const base = f.shareOf ? metricByName(ctx.dataset, f.shareOf) : null;

@@ -8,13 +8,14 @@ import type { KpiSnapshotFinding } from '../findings/kpi.js';
 import { valueFormatOf } from '../format.js';
 import { comparedText, findingOf, kpiHeader, kpiNotes, kpiSubtitle } from './kpi-header.js';
 import type { Presenter } from './presenter.js';
+import { inSentence, labelAtStart } from '../captions/grammar.js';
 
 export const presentKpiSnapshot: Presenter = (answer, ctx) => {
   const metric = metricByName(ctx.dataset, answer.subQuestion.metrics[0]!);
   const f = findingOf<KpiSnapshotFinding>(answer, 'kpi_snapshot', metric.name);
   if (!f) {
-    const title = `${metric.label}: no complete ${answer.subQuestion.grain} to report`;
-    return { title, caption: `There is no complete ${answer.subQuestion.grain} of ${metric.label.toLowerCase()} in the period asked for.`, notes: kpiNotes(answer, ctx, []), chart: null, takeaway: null };
+    const title = `${labelAtStart(metric.label)}: no complete ${answer.subQuestion.grain} to report`;
+    return { title, caption: `There is no complete ${answer.subQuestion.grain} of ${inSentence(metric.label)} in the period asked for.`, notes: kpiNotes(answer, ctx, []), chart: null, takeaway: null };
   }
   const words = kpiSnapshotWords(f, metric, ctx.dataset, ctx.audience, ctx.locale, answer.caveats);
   const subtitle = kpiSubtitle(answer, metric, ctx, comparedText(f.period, [f.lastYear?.period ?? null, f.previous.period], f.grain, ctx.locale));

@@ -3,7 +3,7 @@
 // metrics that leads the thread's summary.
 import type { DatasetConfig } from '../../config/schema.js';
 import { caveatNote } from '../captions/caveat-text.js';
-import { capitalise, inSentence, listJoin } from '../captions/grammar.js';
+import { capitalise, inSentence, labelAtStart, listJoin } from '../captions/grammar.js';
 import { periodTableWords } from '../captions/period-table-caption.js';
 import { filterSubtitleParts } from '../captions/scope-words.js';
 import { buildPeriodTablePages, type PeriodTableRowInput } from '../charts/build-period-table.js';
@@ -82,7 +82,7 @@ function smallPrint(table: PeriodTableFinding, totalLabel: string, ctx: PresentC
   const meanings = table.columns.flatMap((c) => {
     const m = metricByName(ds, c.metric);
     const meaning = metricDefinition(m, ctx);
-    return meaning ? [`${m.label}: ${meaning}`] : [];
+    return meaning ? [`${labelAtStart(m.label)}: ${meaning}`] : [];
   });
   return [`${capitalise(changes)}`, `${totalLabel} row: ${totals.join('; ')}.`, ...(meanings.length ? [`${meanings.join('; ')}.`] : [])];
 }

@@ -3,6 +3,7 @@
 import { buildBars } from '../charts/build-bars.js';
 import { segmentTrendWords } from '../captions/trend-segments-caption.js';
 import { segmentLabel } from '../captions/trend-words.js';
+import { inSentence } from '../captions/grammar.js';
 import { dimensionByName, metricByName, metricDirection } from '../catalog.js';
 import type { SegmentTrendFinding, SegmentTrendOverviewFinding } from '../findings/segments.js';
 import { caveatNotes, chartFooter, chartSubtitle } from './header.js';
@@ -38,7 +39,7 @@ export const presentSegmentTrend: Presenter = (full, ctx) => {
         ? 'growth a year between each one\'s first and last full calendar years'
         : `growth a year, ${years.fromYear} to ${years.toYear} (full calendar years)`
       : measure === 'units'
-        ? `change a ${grain} along the trend (Sen's slope), in ${metric.unit_label ?? metric.label.toLowerCase()}`
+        ? `change a ${grain} along the trend (Sen's slope), in ${metric.unit_label ?? inSentence(metric.label)}`
         : 'growth a year along the trend (Sen\'s slope)';
   const chart =
     items.length > 0

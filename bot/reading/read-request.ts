@@ -4,6 +4,7 @@
 import { type Coverage, dataEnd } from '../../analysis/coverage.js';
 import { datesAfterWords, describeWindow } from '../../analysis/window-words.js';
 import { addDays } from '../../analysis/periods.js';
+import { inSentence } from '../../analysis/captions/grammar.js';
 import type { DateWindow, Grain, RankOrder, RequestKind, SegmentFilter, SpanEndsUnit } from '../../analysis/types.js';
 import type { ValueIndex } from '../../analysis/values/value-index.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
@@ -1313,7 +1314,7 @@ function findRoleWords(text: RequestText, ds: DatasetConfig): RoleHit[] {
  */
 function volumeHit(span: Span, words: string, ds: DatasetConfig): RoleHit {
   const counts = volumeCandidates(ds).map((name) => ds.metrics.find((m) => m.name === name)!);
-  if (counts.length === 1) return { span, role: 'count', metrics: [counts[0]!.name], saidBack: `"${words}" read as the number of ${counts[0]!.label.toLowerCase()}.` };
+  if (counts.length === 1) return { span, role: 'count', metrics: [counts[0]!.name], saidBack: `"${words}" read as the number of ${inSentence(counts[0]!.label)}.` };
   return { span, role: 'count', metrics: [], several: true };
 }
 

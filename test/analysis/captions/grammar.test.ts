@@ -2,7 +2,7 @@
 // "species" and "aircraft" are their own plurals; in "phase of flight" the head noun takes the
 // plural); the labels are those of vega-datasets' birdstrikes.csv and of our demo.
 import { describe, expect, it } from 'vitest';
-import { firstClause, firstSentence, inPeriod, inSentence, pluralNoun, verbFor } from '../../../analysis/captions/grammar.js';
+import { capitalise, firstClause, firstSentence, inPeriod, inSentence, isPluralLabel, labelAtStart, nounFor, pluralNoun, singularNoun, verbFor } from '../../../analysis/captions/grammar.js';
 
 describe('pluralNoun', () => {
   it.each([
@@ -20,10 +20,56 @@ describe('pluralNoun', () => {
 });
 
 describe('labels in a sentence', () => {
-  it('keeps an acronym or a capitalised brand, lower-cases an ordinary label', () => {
-    expect(inSentence('CO2')).toBe('CO2');
-    expect(inSentence('SkerryPass holders')).toBe('SkerryPass holders');
-    expect(inSentence('Average delay')).toBe('average delay');
+  // Labels as `threadcount init` drafts them from vega-datasets movies.json and iowa-electricity.csv
+  // (Title Case column names), as users write them, and the demo's. Ordinary English usage (any
+  // style guide): an ordinary word is lower case mid-sentence; an acronym or a name with inner
+  // capitals keeps its case, even at a sentence's start ("pH", "iPhone").
+  it.each([
+    // label, mid-sentence, at a sentence's start
+    ['Worldwide Gross', 'worldwide gross', 'Worldwide gross'],
+    ['Major Genre', 'major genre', 'Major genre'],
+    ['Net Generation', 'net generation', 'Net generation'],
+    ['US Gross', 'US gross', 'US gross'],
+    ['US DVD Sales', 'US DVD sales', 'US DVD sales'],
+    ['IMDB Rating', 'IMDB rating', 'IMDB rating'],
+    ['MPAA Rating', 'MPAA rating', 'MPAA rating'],
+    ['Rotten Tomatoes Rating', 'rotten tomatoes rating', 'Rotten tomatoes rating'],
+    ['Running Time min', 'running time min', 'Running time min'],
+    ['Films released', 'films released', 'Films released'],
+    ['CO2', 'CO2', 'CO2'],
+    ['CO2 Emissions', 'CO2 emissions', 'CO2 emissions'],
+    ['pH', 'pH', 'pH'],
+    ['Water pH', 'water pH', 'Water pH'],
+    ['iPhone Sales', 'iPhone sales', 'iPhone sales'],
+    ['SkerryPass holders', 'SkerryPass holders', 'SkerryPass holders'],
+    ['Average delay', 'average delay', 'Average delay'],
+    ['Revenue (EUR)', 'revenue (EUR)', 'Revenue (EUR)'],
+    ['First-payment revenue', 'first-payment revenue', 'First-payment revenue'],
+    ['Route A', 'route A', 'Route A'],
+    ["Director's Cut", "director's cut", "Director's cut"],
+    ['', '', ''],
+  ])('%s → "%s", at the start "%s"', (label, mid, start) => {
+    expect(inSentence(label)).toBe(mid);
+    expect(labelAtStart(label)).toBe(start);
+  });
+  it('capitalises a sentence, but not a name with inner capitals', () => {
+    expect(capitalise('revenue rose')).toBe('Revenue rose');
+    expect(capitalise('iPhone sales rose')).toBe('iPhone sales rose');
+    expect(capitalise('eBay had the largest share')).toBe('eBay had the largest share');
+  });
+  it('counts a plural label one at a time', () => {
+    expect(isPluralLabel('Films released')).toBe(true);
+    expect(isPluralLabel('Tickets sold per day')).toBe(true);
+    expect(isPluralLabel('Status')).toBe(false);
+    expect(isPluralLabel('US Gross')).toBe(false);
+    expect(singularNoun('films released')).toBe('film released');
+    expect(singularNoun('fare classes')).toBe('fare class');
+    expect(singularNoun('categories')).toBe('category');
+    expect(singularNoun('weekday visits per site')).toBe('weekday visit per site');
+    expect(singularNoun('wildlife species')).toBe('wildlife species');
+    expect(singularNoun('revenue')).toBe('revenue');
+    expect(nounFor(1, singularNoun('films released'), 'films released')).toBe('film released');
+    expect(nounFor(3, singularNoun('films released'), 'films released')).toBe('films released');
   });
   it('agrees the verb with the head noun', () => {
     expect(verbFor('Bookings')).toBe('are');
