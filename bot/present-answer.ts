@@ -86,7 +86,7 @@ export const presentSummary: SummaryPresenter = async (takeaways, { workspace, f
   const notes = [...new Set([...threadNotes(items ?? [], quality, workspace, now ?? new Date(), workspace.config.charts.locale), ...takeaways.flatMap((t) => t.dataNotes ?? [])])];
   const about = notes.length ? `\n*About the data* (applies to every answer above)\n${notes.map((n) => `- ${n}`).join('\n')}` : '';
   const text = `*Summary*${shared ? ` (filtered to ${shared})` : ''}\n${lines.join('\n')}${failed}${about}\nEach answer above has its table (CSV) and the SQL that produced it attached; the digest below puts the key charts and takeaways on one page for forwarding. These are descriptive figures from ${workspace.dataset.label}; comparisons between groups are observational, and your organisation's data-governance rules apply before sharing further.`;
-  const asOf = workspace.coverage.lastDate ? dataDateWords(workspace.coverage.lastDate, workspace.coverage.stamps, workspace.config.charts.locale) : 'n/a';
+  const asOf = workspace.coverage.lastDate ? ` · Data as of ${dataDateWords(workspace.coverage.lastDate, workspace.coverage.stamps, workspace.config.charts.locale)}` : '';
   // The digest is titled with a finding: the verdict, else the first takeaway; the rest are listed under it.
   const [headline, ...rest] = verdict ? [verdict, ...listed] : top;
   const digest = await timePhase(timings, 'render', () => renderDigest({
@@ -95,7 +95,7 @@ export const presentSummary: SummaryPresenter = async (takeaways, { workspace, f
     subtitle: `${workspace.dataset.label}${shared ? ` (filtered to ${shared})` : ''}, answering: "${requestText.length > 120 ? `${requestText.slice(0, 117)}...` : requestText}"`,
     takeaways: rest.map((t) => ({ text: scoped(t) })),
     charts: distinctCharts(top, charts),
-    footer: `Source: ${workspace.dataset.label} · Data as of ${asOf} · Observational figures; follow your organisation's data-governance rules`,
+    footer: `Source: ${workspace.dataset.label}${asOf} · Observational figures; follow your organisation's data-governance rules`,
   }));
   return { text, files: [{ name: 'digest.png', kind: 'digest', content: digest }] };
 };

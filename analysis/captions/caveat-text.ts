@@ -4,17 +4,20 @@ import { formatPeriod, formatValue } from '../format.js';
 import { countOf, isAre, listJoin } from './grammar.js';
 import type { Caveat } from '../types.js';
 
-/** A caveat field as text; a missing field never prints as "undefined". */
-function show(v: unknown): string {
-  if (typeof v === 'number') return Number.isFinite(v) ? v.toLocaleString('en') : 'n/a';
-  return typeof v === 'string' && v.length > 0 ? v : typeof v === 'boolean' ? String(v) : 'n/a';
+/**
+ * A caveat field as text; a missing one reads as `missing` ("a column", "some"), never as
+ * "undefined" or "n/a", so a note stays a sentence whatever its data holds.
+ */
+function show(v: unknown, missing: string): string {
+  if (typeof v === 'number') return Number.isFinite(v) ? v.toLocaleString('en') : missing;
+  return typeof v === 'string' && v.length > 0 ? v : missing;
 }
 
 export function caveatNote(c: Caveat, locale: string): string {
   const d = c.data;
-  const day = (iso: unknown) => (typeof iso === 'string' ? formatPeriod(iso, 'day', locale, 'long') : 'n/a');
+  const day = (iso: unknown) => (typeof iso === 'string' ? formatPeriod(iso, 'day', locale, 'long') : 'an unrecorded date');
   const period = (iso: unknown, grain: unknown) =>
-    typeof iso === 'string' ? formatPeriod(iso, (grain as Grain) ?? 'month', locale, 'long') : 'n/a';
+    typeof iso === 'string' ? formatPeriod(iso, (grain as Grain) ?? 'month', locale, 'long') : 'one period';
   switch (c.code) {
     case 'partial_period':
       return `${period(d.period, d.grain)} is partial (data from ${day(d.coveredFrom)} to ${day(d.coveredTo)}); it is drawn dashed and left out of the highs and lows.`;
@@ -35,18 +38,18 @@ export function caveatNote(c: Caveat, locale: string): string {
     case 'single_period':
       return 'Only one complete period is available, so there is no pattern to read yet.';
     case 'truncated':
-      return `The result was cut at ${show(d.rows)} rows.`;
+      return typeof d.rows === 'number' ? `The result was cut at ${show(d.rows, '')} rows.` : 'The result was cut short.';
     case 'null_share':
-      return `${show(d.column)} is missing in ${typeof d.share === 'number' && Number.isFinite(d.share) ? `${(d.share * 100).toFixed(d.share < 0.01 ? 2 : 1)}%` : 'some'} of rows (${show(d.count)}).`;
+      return `${show(d.column, 'A value')} is missing in ${typeof d.share === 'number' && Number.isFinite(d.share) ? `${(d.share * 100).toFixed(d.share < 0.01 ? 2 : 1)}%` : 'some'} of rows${typeof d.count === 'number' ? ` (${show(d.count, '')})` : ''}.`;
     case 'duplicate_keys':
       if (typeof d.sampledOneIn === 'number') {
-        return `About ${show(d.count)} rows repeat a ${show(d.column)} that should be unique (estimated from 1 ${show(d.column)} in ${show(d.sampledOneIn)}); they are counted as they are.`;
+        return `About ${show(d.count, 'some')} rows repeat a ${show(d.column, 'key')} that should be unique (estimated from 1 ${show(d.column, 'key')} in ${show(d.sampledOneIn, 'several')}); they are counted as they are.`;
       }
-      return `${show(d.count)} rows repeat a ${show(d.column)} that should be unique; they are counted as they are.`;
+      return `${show(d.count, 'Some')} rows repeat a ${show(d.column, 'key')} that should be unique; they are counted as they are.`;
     case 'negative_amounts':
-      if (d.periods === true) return `Some periods have a negative total of ${show(d.column)}, so they are left out.`;
+      if (d.periods === true) return `Some periods have a negative total of ${show(d.column, 'the amount')}, so they are left out.`;
       if (d.segments === true) return `Some segments have a negative total, so shares are not meaningful for them.`;
-      return `${show(d.count)} rows have a negative ${show(d.column)}.`;
+      return `${show(d.count, 'Some')} rows have a negative ${show(d.column, 'amount')}.`;
     case 'outlier': {
       if (typeof d.count !== 'number') return `${period(d.period, d.grain)} is an outlier.`;
       const grain = (typeof d.grain === 'string' ? d.grain : 'month') as Grain;
@@ -56,7 +59,7 @@ export function caveatNote(c: Caveat, locale: string): string {
     case 'stale_data':
       return typeof d.grain === 'string' ? `The latest data is for ${period(d.lastDate, d.grain)}, ${ageText(d.days)}.` : `The latest data is from ${day(d.lastDate)}, ${ageText(d.days)}.`;
     case 'small_sample':
-      return `Small sample (n = ${show(d.n)}): read with care.`;
+      return typeof d.n === 'number' ? `Small sample (n = ${show(d.n, '')}): read with care.` : 'Small sample: read with care.';
     case 'too_few_cycles':
       return 'Fewer than two full years of data: too little to measure seasonality.';
     case 'observational':
@@ -68,26 +71,26 @@ export function caveatNote(c: Caveat, locale: string): string {
       if (typeof d.count === 'number' && (d.folded === 'lower' || d.folded === 'higher')) return `${countOf(d.count, 'more segment')} with ${d.folded} values than those named ${isAre(d.count)} combined as "All others".`;
       return typeof d.count === 'number' ? `${countOf(d.count, 'smaller segment')} ${isAre(d.count)} combined as "All others".` : 'Smaller segments are combined as "All others".';
     case 'segment_gap':
-      return `${show(d.segment)} has no data for ${periodsText(d.periods, d.grain)}, from ${period(d.firstGap, d.grain ?? 'month')}.`;
+      return `${show(d.segment, 'One segment')} has no data for ${periodsText(d.periods, d.grain)}, from ${period(d.firstGap, d.grain ?? 'month')}.`;
     case 'late_segment':
-      return `${show(d.segment)} only has data from ${period(d.firstPeriod, d.grain ?? 'month')}.`;
+      return `${show(d.segment, 'One segment')} only has data from ${period(d.firstPeriod, d.grain ?? 'month')}.`;
     case 'base_zero':
       return 'Some growth rates cannot be computed because the earlier value is zero or missing.';
     case 'suppressed_small_groups': {
-      const under = typeof d.minimum === 'number' ? `fewer than ${show(d.minimum)} rows (the minimum group size)` : 'fewer rows than the minimum group size';
+      const under = typeof d.minimum === 'number' ? `fewer than ${show(d.minimum, 'the minimum')} rows (the minimum group size)` : 'fewer rows than the minimum group size';
       const n = typeof d.count === 'number' ? d.count : 0;
       // Periods or cells of comparison groups; whole comparison groups; or segments folded into "All others".
-      if (typeof d.groups === 'string' && d.periods === true) return `${show(n)} ${n === 1 ? 'period' : 'periods'} of ${show(d.groups)} had ${under}: too few to show, so they are left blank.`;
+      if (typeof d.groups === 'string' && d.periods === true) return `${show(n, 'Some')} ${n === 1 ? 'period' : 'periods'} of ${show(d.groups, 'a group')} had ${under}: too few to show, so they are left blank.`;
       if (typeof d.groups === 'string' && d.cells === true) {
         const more = typeof d.complementary === 'number' && d.complementary > 0 ? d.complementary : 0;
-        const also = more > 0 ? `; ${show(more)} more ${more === 1 ? 'is' : 'are'} withheld so that ${n === 1 ? 'it' : 'they'} cannot be worked out from the totals` : '';
-        return `${show(n)} ${n === 1 ? 'value' : 'values'} of ${show(d.groups)} within a segment had ${under}: too few to show, so they are withheld${also}.`;
+        const also = more > 0 ? `; ${show(more, 'some')} more ${more === 1 ? 'is' : 'are'} withheld so that ${n === 1 ? 'it' : 'they'} cannot be worked out from the totals` : '';
+        return `${show(n, 'Some')} ${n === 1 ? 'value' : 'values'} of ${show(d.groups, 'a group')} within a segment had ${under}: too few to show, so they are withheld${also}.`;
       }
-      if (typeof d.groups === 'string') return `Too few to show: ${show(d.groups)} had ${under}, so their figures are withheld.`;
+      if (typeof d.groups === 'string') return `Too few to show: ${show(d.groups, 'a group')} had ${under}, so their figures are withheld.`;
       const extra = typeof d.complementary === 'number' && d.complementary > 0 ? d.complementary : 0;
       // Complementary suppression: the segments folded beside the small ones are said, so the count stays true.
-      const beside = extra > 0 ? `, with ${show(extra)} more ${extra === 1 ? 'segment' : 'segments'} so that ${n === 1 ? 'it' : 'they'} cannot be worked out from the total` : '';
-      return `${show(n)} ${n === 1 ? 'segment' : 'segments'} with ${under} ${n === 1 ? 'is' : 'are'} combined as "All others"${beside}.`;
+      const beside = extra > 0 ? `, with ${show(extra, 'some')} more ${extra === 1 ? 'segment' : 'segments'} so that ${n === 1 ? 'it' : 'they'} cannot be worked out from the total` : '';
+      return `${show(n, 'Some')} ${n === 1 ? 'segment' : 'segments'} with ${under} ${n === 1 ? 'is' : 'are'} combined as "All others"${beside}.`;
     }
   }
 }
@@ -98,40 +101,44 @@ function periodsText(n: unknown, grain: unknown): string {
   return typeof n === 'number' ? countOf(n, noun) : `some ${noun}s`;
 }
 
+/**
+ * A caveat as the chart footer says it: one short plain sentence a reader outside the data team
+ * follows, so an image forwarded alone still carries its warning (the full note is under the post).
+ */
 export function caveatFlag(c: Caveat): string {
   // A filtered series that starts at its first matching period is not empty anywhere it is drawn.
-  if (c.code === 'empty_period' && c.data.leading === true) return 'starts at the first match';
+  if (c.code === 'empty_period' && c.data.leading === true) return 'The series starts at the first period with matching rows.';
   // A fold by value holds lower (or higher) values, not a long tail of small segments.
-  if (c.code === 'segments_folded' && (c.data.folded === 'lower' || c.data.folded === 'higher')) return `${c.data.folded} values combined`;
+  if (c.code === 'segments_folded' && (c.data.folded === 'lower' || c.data.folded === 'higher')) return `Segments with ${c.data.folded} values are combined as "All others".`;
   const flags: Record<Caveat['code'], string> = {
-    partial_period: 'partial period (dashed)',
-    partial_period_excluded: 'partial period excluded',
-    series_gap: 'gap in the series',
-    empty_period: 'empty after the filter',
-    no_data: 'no data',
-    all_null: 'no values',
-    single_period: 'single period',
-    truncated: 'result truncated',
-    null_share: 'missing values',
-    duplicate_keys: 'duplicate keys',
-    negative_amounts: 'negative amounts',
-    outlier: 'outlier',
-    stale_data: 'stale data',
-    small_sample: 'small sample',
-    too_few_cycles: 'too few cycles',
-    observational: 'observational comparison',
-    segments_folded: 'long tail combined',
-    segment_gap: 'gap in a segment',
-    late_segment: 'segment starts late',
-    base_zero: 'undefined growth',
-    suppressed_small_groups: 'small groups combined',
+    partial_period: 'A period with part of its data is drawn dashed.',
+    partial_period_excluded: 'A period with part of its data is left out.',
+    series_gap: 'Some periods have no data.',
+    empty_period: 'Some periods have no rows that match the filter.',
+    no_data: 'There is no data in the period asked for.',
+    all_null: 'The measure has no values in this period.',
+    single_period: 'Only one complete period, so no pattern to read yet.',
+    truncated: 'The result was cut short.',
+    null_share: 'Some rows have missing values.',
+    duplicate_keys: 'Some rows repeat a key that should be unique.',
+    negative_amounts: 'Some amounts are negative.',
+    outlier: 'Some periods are unusual.',
+    stale_data: 'The data is not up to date.',
+    small_sample: 'Small sample: read with care.',
+    too_few_cycles: 'Under two full years of data: too little to measure seasonality.',
+    observational: 'Groups were not randomly assigned, so this cannot prove cause.',
+    segments_folded: 'Smaller segments are combined as "All others".',
+    segment_gap: 'A segment has periods with no data.',
+    late_segment: 'A segment starts later than the others.',
+    base_zero: 'Some growth rates cannot be computed: the earlier value is zero or missing.',
+    suppressed_small_groups: 'Groups too small to show are withheld or combined.',
   };
   return flags[c.code];
 }
 
 /** How old the data is, as a person would say it: "12 days ago", "about 5 months ago", "about 16 years ago". */
 function ageText(days: unknown): string {
-  if (typeof days !== 'number' || !Number.isFinite(days)) return `${String(days)} days ago`;
+  if (typeof days !== 'number' || !Number.isFinite(days)) return 'some time ago';
   if (days < 60) return countOf(Math.round(days), 'day') + ' ago';
   if (days < 730) return `about ${countOf(Math.round(days / 30.44), 'month')} ago`;
   return `about ${countOf(Math.round(days / 365.25), 'year')} ago`;

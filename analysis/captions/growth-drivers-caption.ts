@@ -1,7 +1,7 @@
 // Title and caption for a growth_drivers answer: the total's change between the two spans and the
 // segments that moved it most, written only from the finding.
 import { metricDirection } from '../catalog.js';
-import { verbFor } from './grammar.js';
+import { labelAtStart, verbFor } from './grammar.js';
 import { configuredAs } from './metric-words.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { ChangedSegment, GrowthDriverSegment, GrowthDriversFinding } from '../findings/growth.js';
@@ -17,7 +17,7 @@ import { capitalise, dimensionLabel, directionOf, formatPoints, lower, segmentTe
 const NAMED_IN_CAPTION = 3;
 
 export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | undefined, dataset: DatasetConfig, locale: string, audience: Audience): GrowthWords {
-  const label = metric.label;
+  const label = labelAtStart(metric.label);
   if (!f) {
     return {
       title: `${label}: no data to compare by segment`,

@@ -8,13 +8,14 @@ import type { Audience, Grain } from '../types.js';
 import type { GrowthSeriesFindings, GrowthWords } from './growth-series-caption.js';
 import type { Verdict } from './verdict-words.js';
 import { latestComplete } from './growth-series-caption.js';
+import { labelAtStart } from './grammar.js';
 import { lower, periodText, yearText } from './growth-words.js';
 
 export function levelGrowthWords(metric: Metric, grain: Grain, f: GrowthSeriesFindings, locale: string, audience: Audience): GrowthWords {
   const fmt = valueFormatOf(metric, locale);
   const v = (x: number) => formatValue(x, fmt, { compact: true });
   const d = (x: number) => formatValue(x, fmt, { compact: true, signed: true });
-  const label = metric.label;
+  const label = labelAtStart(metric.label);
   const complete = (f.years?.years ?? []).filter((y) => y.complete && y.value !== null);
   // A change on the year before only between two complete years in a row.
   const changes = complete.slice(1).flatMap((y, i) => {

@@ -1,7 +1,7 @@
 // Title and caption for a growth_series answer, written only from its findings: the complete
 // years' growth, the latest year so far against the same dates a year earlier, compound growth,
 // and the latest complete period against a year earlier.
-import { verbFor } from './grammar.js';
+import { labelAtStart, verbFor } from './grammar.js';
 import type { Metric } from '../../config/schema.js';
 import type {
   GrowthCagrFinding,
@@ -57,7 +57,7 @@ export function latestComplete(series: GrowthSeriesFinding | undefined): GrowthP
 export function growthSeriesWords(metric: Metric, grain: Grain, f: GrowthSeriesFindings, locale: string, audience: Audience): GrowthWords {
   // A level (a reading) changes in its own units; a compound percentage would misstate it.
   if (growthInUnits(metric, f.series)) return levelGrowthWords(metric, grain, f, locale, audience);
-  const label = metric.label;
+  const label = labelAtStart(metric.label);
   const yearsWithRate = (f.years?.years ?? []).filter((y) => y.yoy !== null);
   const recent = yearsWithRate.slice(-2);
   const ytd = f.ytd && f.ytd.relative !== null ? f.ytd : undefined;

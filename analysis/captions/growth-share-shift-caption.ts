@@ -6,7 +6,7 @@ import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { GrowthShareSegment, GrowthShareShiftFinding } from '../findings/growth.js';
 import { formatValue } from '../format.js';
 import type { Audience } from '../types.js';
-import { possessive } from './grammar.js';
+import { labelAtStart, possessive } from './grammar.js';
 import type { GrowthWords } from './growth-series-caption.js';
 import { capitalise, dimensionLabel, formatPoints, formatShare, lower, plural, segmentText, spanText } from './growth-words.js';
 
@@ -20,7 +20,7 @@ export function growthShareShiftWords(
   locale: string,
   audience: Audience,
 ): GrowthWords {
-  const label = metric.label;
+  const label = labelAtStart(metric.label);
   if (!f) {
     const additive = metric.definition.type === 'sum' || metric.definition.type === 'count';
     return {

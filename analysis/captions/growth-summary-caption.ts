@@ -1,5 +1,5 @@
 // Title and caption for a growth_summary answer: the range, centre and spread of the growth rates.
-import { countOf, possessive } from './grammar.js';
+import { countOf, labelAtStart, possessive } from './grammar.js';
 import type { Metric } from '../../config/schema.js';
 import type { GrowthRateSummaryFinding } from '../findings/growth.js';
 import { formatChange, formatValue, valueFormatOf } from '../format.js';
@@ -12,7 +12,7 @@ export function rateBasisText(f: GrowthRateSummaryFinding): string {
 }
 
 export function growthSummaryWords(metric: Metric, f: GrowthRateSummaryFinding | undefined, locale: string, audience: Audience): GrowthWords {
-  const label = metric.label;
+  const label = labelAtStart(metric.label);
   if (!f || f.n === 0 || f.min === null || f.max === null) {
     return {
       title: `${label}: no growth rates to summarise`,

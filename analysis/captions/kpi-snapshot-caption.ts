@@ -43,8 +43,9 @@ export function kpiSnapshotWords(
   // The period before leads only when no year-earlier figure compares (and at the year grain,
   // where the period before is the year earlier).
   const headline = against(f.lastYear) ?? against(f.previous);
-  const was = verbFor(metric.label, 'was');
-  const title = headline ? `${labelAtStart(metric.label)} ${was} ${value} in ${when}, ${headline}` : `${labelAtStart(metric.label)} ${was} ${value} in ${when}`;
+  // A period with no value (no rows to average) says so, never "was n/a".
+  const stated = f.value === null ? 'had no value' : `${verbFor(metric.label, 'was')} ${value}`;
+  const title = headline ? `${labelAtStart(metric.label)} ${stated} in ${when}, ${headline}` : `${labelAtStart(metric.label)} ${stated} in ${when}`;
 
   const sentences: string[] = [];
   const partial = caveats.find((c) => c.code === 'partial_period_excluded');
@@ -59,7 +60,7 @@ export function kpiSnapshotWords(
     return phrase === 'level' ? `level with ${base}` : `${phrase} on ${base}`;
   });
   const meaning = meaningAside(metric, ds, audience);
-  sentences.push(`${labelAtStart(metric.label)}${meaning} ${was} ${value} in ${when}${latestNote}: ${detailed.join(' and ')}.`);
+  sentences.push(`${labelAtStart(metric.label)}${meaning} ${stated} in ${when}${latestNote}: ${detailed.join(' and ')}.`);
 
   const verdicts = comparisons.map((d) => verdict(d, metric));
   const judged = judgement(verdicts, comparisons, f, metric, locale);

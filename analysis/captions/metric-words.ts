@@ -8,7 +8,7 @@ import { inSentence } from './grammar.js';
 
 /** The catalog definition as a formula in words: "sum of fare_total", "revenue divided by passengers". */
 export function metricFormula(metric: Metric, ds: DatasetConfig): string {
-  return formulaOf(metric.definition, ds);
+  return formulaOf(metric.definition, ds, (column) => column);
 }
 
 /**
@@ -18,8 +18,9 @@ export function metricFormula(metric: Metric, ds: DatasetConfig): string {
  * the caption already name the metric by its label (issue 17 item 10).
  */
 export function metricMeaning(metric: Metric, ds: DatasetConfig, audience: Audience): string {
-  const formula = metricFormula(metric, ds);
-  if (audience === 'analysts') return metric.description ?? formula;
+  if (audience === 'analysts') return metric.description ?? metricFormula(metric, ds);
+  // A column named in words ("Worldwide Gross") is said as a label is in a sentence ("sum of worldwide gross").
+  const formula = formulaOf(metric.definition, ds, (column) => (/\s/.test(column) ? inSentence(column) : column));
   return (metric.description !== undefined ? managerWords(metric.description, ds) : null) ?? managerWords(formula, ds) ?? '';
 }
 
@@ -87,18 +88,18 @@ export function managerWords(text: string, ds: DatasetConfig): string | null {
   return unsaid ? null : out;
 }
 
-function formulaOf(def: MetricDefinition, ds: DatasetConfig): string {
+function formulaOf(def: MetricDefinition, ds: DatasetConfig, said: (column: string) => string): string {
   const label = (name: string) => inSentence(ds.metrics.find((m) => m.name === name)?.label ?? name);
   const where = 'where' in def && def.where ? ` where ${conditionText(def.where)}` : '';
   switch (def.type) {
     case 'sum':
-      return `sum of ${def.column}${where}`;
+      return `sum of ${said(def.column)}${where}`;
     case 'count':
       return `number of rows${where}`;
     case 'distinct_count':
-      return `number of distinct ${def.column} values${where}`;
+      return `number of distinct ${said(def.column)} values${where}`;
     case 'average':
-      return `mean of ${def.column}${where}`;
+      return `mean of ${said(def.column)}${where}`;
     case 'ratio':
       return `${label(def.numerator)} divided by ${label(def.denominator)}`;
     case 'rate':

@@ -34,9 +34,10 @@ export function chartSubtitle(answer: Answer, metric: Metric, ctx: PresentContex
 }
 
 export function chartFooter(answer: Answer, ctx: PresentContext): string[] {
-  const asOf = ctx.dataAsOf ? dataDateWords(ctx.dataAsOf.slice(0, 10), ctx.stamps, ctx.locale) : 'n/a';
+  // Without a date for the data the line is left out rather than printed as a placeholder.
+  const asOf = ctx.dataAsOf ? [`Data as of ${dataDateWords(ctx.dataAsOf.slice(0, 10), ctx.stamps, ctx.locale)}`] : [];
   const flags = [...new Set(answer.caveats.map(caveatFlag))];
-  return [`Source: ${ctx.dataset.label}`, `Data as of ${asOf}`, ...(flags.length ? [`Caveats: ${flags.join('; ')}`] : [])];
+  return [`Source: ${ctx.dataset.label}`, ...asOf, ...(flags.length ? [`Caveats: ${flags.join(' ')}`] : [])];
 }
 
 export function caveatNotes(answer: Answer, ctx: PresentContext): string[] {

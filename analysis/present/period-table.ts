@@ -52,7 +52,7 @@ export const presentPeriodTable: Presenter = (answer, ctx) => {
 };
 
 function subtitleOf(answer: Answer, table: PeriodTableFinding, ctx: PresentContext): string {
-  const labels = table.columns.map((c, i) => (i === 0 ? metricByName(ctx.dataset, c.metric).label : inSentence(metricByName(ctx.dataset, c.metric).label)));
+  const labels = table.columns.map((c, i) => (i === 0 ? labelAtStart : inSentence)(metricByName(ctx.dataset, c.metric).label));
   return [listJoin(labels), `${GRAIN_ADJECTIVE[table.grain].toLowerCase()}, ${shortWindow(table.span, ctx.stamps, ctx.locale)}`, ...filterSubtitleParts(answer.subQuestion.filters, ctx.dataset)].join(' · ');
 }
 

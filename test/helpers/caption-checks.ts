@@ -2,7 +2,8 @@
 // figure in the caption and title is one of the answer's numbers (its CSV cells, or a figure its
 // findings computed from them) within the rounding it is printed at; every direction word next to
 // a signed figure agrees with its sign; every filter is named; and no placeholder or broken
-// grammar ("n/a", "NaN", "Bookings's", "1 routes") reaches the reader.
+// grammar ("n/a", "NaN", "Bookings's", "1 routes"), nor a caveat's code, reaches the reader: in the
+// caption, title, notes, takeaway or a chart's title, subtitle and footer.
 import type { Presented } from '../../analysis/present/presenter.js';
 import type { Answer } from '../../analysis/types.js';
 
@@ -49,15 +50,25 @@ export function answerNumbers(answer: Answer): number[] {
   return [...out, ...out.map((n) => n - 1)];
 }
 
-/** The words a post shows: title, caption, notes, takeaway. */
+/** The words a post shows: title, caption, notes, takeaway, and each chart's title, subtitle and footer. */
 export function wordsOf(p: Presented): string[] {
-  return [p.title, p.caption, ...p.notes, ...(p.takeaway ? [p.takeaway.text] : [])];
+  const charts = [...(p.chart ? [p.chart] : []), ...(p.moreCharts ?? [])];
+  return [p.title, p.caption, ...p.notes, ...(p.takeaway ? [p.takeaway.text] : []), ...charts.flatMap((c) => [c.title, c.subtitle, ...c.footer])];
+}
+
+/**
+ * Placeholders and codes that must never reach a reader: "n/a", "NaN", "undefined", "null",
+ * "Infinity", an unfilled template, or a caveat's code ("base_zero") said as if it were words.
+ */
+export function placeholderIn(text: string): string | null {
+  const m = /\bn\/a\b|\bNaN\b|\bundefined\b|\bnull\b|Infinity|\$\{|\b(?:partial_period|series_gap|empty_period|no_data|all_null|single_period|null_share|duplicate_keys|negative_amounts|stale_data|small_sample|too_few_cycles|segments_folded|segment_gap|late_segment|base_zero|suppressed_small_groups)\b/.exec(text);
+  return m ? m[0] : null;
 }
 
 export function captionProblems(answer: Answer, p: Presented): string[] {
   const problems: string[] = [];
   for (const text of wordsOf(p)) {
-    if (/\bn\/a\b|\bNaN\b|\bundefined\b|\bnull\b|Infinity|\$\{/.test(text)) problems.push(`placeholder in "${text}"`);
+    if (placeholderIn(text)) problems.push(`placeholder "${placeholderIn(text)}" in "${text}"`);
     if (/\w+s's\b/.test(text)) problems.push(`possessive of a plural in "${text}"`);
     const one = /(?<![\d.,])\b1 (?!of\b|in\b|to\b|a\b|vs\b)([a-z]+s)\b/.exec(text);
     if (one && !/^(pts|others|segments?s)$/.test(one[1]!) && !/ss$|us$/.test(one[1]!)) problems.push(`"1 ${one[1]}" in "${text}"`);

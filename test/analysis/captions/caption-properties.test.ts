@@ -115,7 +115,7 @@ describe('captions agree with their tables', () => {
     expect(problems).toEqual([]);
   }, 600_000);
 
-  it('fails a caption whose direction word is flipped, or whose filter is dropped', async () => {
+  it('fails a caption whose direction word is flipped, whose filter is dropped, or a chart footer with a placeholder or code', async () => {
     const { ws } = spaces[0]!;
     const sq: SubQuestion = { id: 'g', kind: 'growth', lens: 'time_pattern', template: 'growth_series', metrics: ['revenue'], grain: 'month', window: { start: '2022-01-01', end: '2025-07-01' }, filters: [{ dimension: 'channel', values: ['web'] }] };
     const answer: Answer = await answerSubQuestion(sq, ws);
@@ -130,5 +130,11 @@ describe('captions agree with their tables', () => {
     // The filter dropped from the words.
     const unfiltered = { ...presented, title: presented.title.replace(/ \([^()]*: web\)$/, ''), caption: presented.caption.replace(/^Filtered to [^.]*: web\. /, '') };
     expect(captionProblems(answer, unfiltered)).toEqual(expect.arrayContaining([expect.stringMatching(/filter value "web" missing/)]));
+    // A chart footer carrying a placeholder or a caveat's code instead of words.
+    const chart = presented.chart!;
+    for (const footer of ['Caveats: undefined growth', 'Caveats: base_zero', 'Data as of n/a']) {
+      const leaked = { ...presented, chart: { ...chart, footer: [...chart.footer, footer] } };
+      expect(captionProblems(answer, leaked).some((p) => p.startsWith('placeholder'))).toBe(true);
+    }
   });
 });
