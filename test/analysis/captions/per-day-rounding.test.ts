@@ -104,7 +104,7 @@ describe('counts of periods in notes', () => {
   it('a filtered series that starts late says where it starts, in the note and the chart flag', () => {
     const lead = { code: 'empty_period' as const, data: { leading: true, periods: 6, firstEmpty: '2012-01-01', firstMatch: '2012-07-01', grain: 'month' } };
     expect(caveatNote(lead, 'en')).toBe('No rows match the filter before July 2012 (the 6 months from January 2012), so the series starts there.');
-    expect(caveatFlag(lead)).toBe('starts at the first match');
-    expect(caveatFlag({ code: 'empty_period', data: { periods: 2, firstEmpty: '2012-05-01', grain: 'month' } })).toBe('empty after the filter');
+    expect(caveatFlag(lead)).toBe('The series starts at the first period with matching rows.');
+    expect(caveatFlag({ code: 'empty_period', data: { periods: 2, firstEmpty: '2012-05-01', grain: 'month' } })).toBe('Some periods have no rows that match the filter.');
   });
 });

@@ -136,7 +136,7 @@ describe('performance_compare captions', () => {
     ]);
     expect(chart.groups[0]!.intervalText).toBe('95% CI €33.57 – €34.04');
     expect(chart.subtitle).toContain('from 1 April 2023 to 18 June 2025');
-    expect(chart.footer).toContain('Caveats: observational comparison');
+    expect(chart.footer).toContain('Caveats: Groups were not randomly assigned, so this cannot prove cause.');
   });
 
   it('a share reads in percentage points, and a p-value above 0.05 says it could be chance', () => {
