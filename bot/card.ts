@@ -3,7 +3,7 @@
 // from the brief (each slot with the words it was read from, or its default and why) and the plan;
 // every platform shows its text, and those that can add a control per topic whose value is a
 // correction read by the same reader as typed words.
-import { inSentence, listJoin, verbFor } from '../analysis/captions/grammar.js';
+import { inSentence, labelAtStart, listJoin, verbFor } from '../analysis/captions/grammar.js';
 import type { Coverage } from '../analysis/coverage.js';
 import { finestGrain, grainAdjective, isFinerGrain } from '../analysis/grains.js';
 import { addDays } from '../analysis/periods.js';
@@ -124,7 +124,7 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
   const contrasted = [...new Map(brief.questions.flatMap((q) => (q.contrast && !dims.includes(q.contrast.dimension) ? [[q.contrast.dimension, q.contrast] as const] : []))).values()];
   const breakdown = dims.length === 0 && contrasted.length === 0 ? ctx.defaults.breakdown : undefined;
   const inForce = dims.length > 0 || contrasted.length > 0 ? [...dims, ...contrasted.map((c) => c.dimension)] : breakdown ? [breakdown.value] : [];
-  const said = [...dims.map(dimLabel), ...contrasted.map((c) => `${dimLabel(c.dimension)} (${c.values.join(' against ')})`)];
+  const said = [...dims.map((d) => labelAtStart(dimLabel(d))), ...contrasted.map((c) => `${labelAtStart(dimLabel(c.dimension))} (${c.values.join(' against ')})`)];
   lines.push({
     topic: 'breakdowns',
     label: 'Breakdowns',
