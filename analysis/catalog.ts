@@ -40,9 +40,22 @@ export function comparisonGroupByName(ds: DatasetConfig, name: string): Comparis
   return g;
 }
 
-/** Sums and counts add up across segments and periods; averages, distinct counts, ratios and rates do not. */
+/**
+ * Sums and counts add up across segments and periods; averages, distinct counts, ratios and rates
+ * do not, and neither does a sum declared a level over time (a headcount: see `isLevelSum`).
+ */
 export function isAdditive(metric: Metric): boolean {
+  return addsAcrossSegments(metric) && !isLevelSum(metric);
+}
+
+/** Sums and counts add up across segments at one time, levels (headcounts, balances) included: shares and drivers apply. */
+export function addsAcrossSegments(metric: Metric): boolean {
   return metric.definition.type === 'sum' || metric.definition.type === 'count';
+}
+
+/** A sum declared `kind: level`: totalled across segments at each stamp of the time column, averaged over the stamps of a period. */
+export function isLevelSum(metric: Metric): boolean {
+  return metric.definition.type === 'sum' && metric.kind === 'level';
 }
 
 /** A metric that counts something (rows, with or without a filter): per-unit comparisons are counts per unit. */

@@ -1,6 +1,6 @@
 // Title and caption for a growth_drivers answer: the total's change between the two spans and the
 // segments that moved it most, written only from the finding.
-import { metricDirection } from '../catalog.js';
+import { isAdditive, metricDirection } from '../catalog.js';
 import { labelAtStart, verbFor } from './grammar.js';
 import { configuredAs } from './metric-words.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
@@ -173,7 +173,8 @@ export function spansVerdict(metric: Metric, f: GrowthDriversFinding, locale: st
 function perDaySentence(f: GrowthDriversFinding, label: string, metric: Metric, locale: string): string | null {
   const [dc, dp] = [daysBetween(f.current.start, f.current.end), daysBetween(f.prior.start, f.prior.end)];
   const { before, after } = f.total;
-  if (dc === dp || dc <= 0 || dp <= 0) return null;
+  // Only a total that adds up over days differs by the days: a level or a ratio is compared as it is.
+  if (dc === dp || dc <= 0 || dp <= 0 || !isAdditive(metric)) return null;
   const lengths = `${capitalise(spanText(f.current, locale))} has ${dc} days and ${spanText(f.prior, locale)} ${dp}`;
   // A leap day in a year (0.3%) changes no total worth a per-day figure, but the lengths are still said; a month against another (up to 10%) is given per day.
   if (!f.additive || Math.abs(dc - dp) <= 0.005 * Math.max(dc, dp) || before === null || after === null || before <= 0) return `${lengths}; both are compared whole.`;

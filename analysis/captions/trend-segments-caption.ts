@@ -1,6 +1,6 @@
 // Titles and captions for segment trends and segment shares, written only from findings.
 import type { DatasetConfig, Dimension, Metric } from '../../config/schema.js';
-import { isAdditive } from '../catalog.js';
+import { addsAcrossSegments } from '../catalog.js';
 import { CLEAR_LEAD, type SegmentGrowthMeasure, type SegmentRanking, type SegmentSharesFinding, type SegmentShareRow, type SegmentTrendFinding, type SegmentTrendOverviewFinding } from '../findings/segments.js';
 import { formatChange, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
 import type { Audience, Finding } from '../types.js';
@@ -37,7 +37,7 @@ function sameYears(a: SegmentTrendFinding, b: SegmentTrendFinding): boolean {
 function sizeLine(metric: Metric, named: readonly SegmentTrendFinding[], fmt: ReturnType<typeof valueFormatOf>, span: string): string {
   const valued = named.filter((t) => t.total !== null);
   if (valued.length === 0) return '';
-  if (isAdditive(metric)) return `${segmentLabel(valued[0]!)} is the largest, at ${formatValue(valued[0]!.total, fmt, { compact: true })}${span}.`;
+  if (addsAcrossSegments(metric)) return `${segmentLabel(valued[0]!)} is the largest, at ${formatValue(valued[0]!.total, fmt, { compact: true })}${span}.`;
   const byValue = [...valued].sort((a, b) => b.total! - a.total!);
   const top = byValue[0]!;
   const bottom = byValue[byValue.length - 1]!;

@@ -6,7 +6,7 @@
 // per-unit questions still read the table itself.
 import { createHash } from 'node:crypto';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
-import { groupableDimension, metricByName, namedUnitDimension } from '../catalog.js';
+import { groupableDimension, isLevelSum, metricByName, namedUnitDimension } from '../catalog.js';
 import { datasetRelation, type CompileContext } from '../compile-context.js';
 import { filterCondition } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
@@ -48,6 +48,8 @@ export function isRollupMetric(ds: DatasetConfig, metric: Metric): boolean {
   const def = metric.definition;
   switch (def.type) {
     case 'sum':
+      // A level's mean over stamps needs the distinct stamps, which rollup pieces do not keep.
+      return !isLevelSum(metric);
     case 'count':
     case 'average':
       return true;

@@ -1,7 +1,7 @@
 // A catalog metric as one SQL aggregate expression. Ratios are ratios of aggregates at the
 // grain asked for (never an average of per-row ratios), so they stay right at every grain.
 import type { ColumnFilter, DatasetConfig, Metric } from '../../config/schema.js';
-import { metricByName } from '../catalog.js';
+import { isLevelSum, metricByName } from '../catalog.js';
 import type { QueryBuilder } from './query-builder.js';
 
 /**
@@ -18,6 +18,10 @@ export function metricAggregate(q: QueryBuilder, ds: DatasetConfig, metric: Metr
   switch (def.type) {
     case 'sum': {
       const sum = `SUM(${q.ident(def.column)})${f(def.where)}`;
+      // A level (headcounts, balances: one reading per series per stamp) adds up across segments at
+      // one stamp but not over time: a period's value is the mean over its stamps of the stamp's
+      // total, which is the period's sum over the stamps it has rows on.
+      if (isLevelSum(metric)) return `(${d.toDouble(`COALESCE(${sum}, 0)`)} / NULLIF(${d.toDouble(`COUNT(DISTINCT ${q.ident(ds.time_column)})${f(def.where)}`)}, 0))`;
       return d.toDouble(def.where || rowCondition ? `COALESCE(${sum}, 0)` : sum);
     }
     case 'count':

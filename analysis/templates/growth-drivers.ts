@@ -1,7 +1,7 @@
 // Template "growth_drivers": which segments drove the change (growth × breakdown). The metric by
 // one dimension in the window asked for (SubQuestion.window) against the same dates a year earlier.
 import type { DatasetConfig } from '../../config/schema.js';
-import { isAdditive, metricByName } from '../catalog.js';
+import { addsAcrossSegments, metricByName } from '../catalog.js';
 import type { GrowthDriverSegment, GrowthDriversFinding } from '../findings/growth.js';
 import { percentChange, percentScale } from '../stats/index.js';
 import type { Caveat, Finding, ResultTable, SubQuestion } from '../types.js';
@@ -33,7 +33,7 @@ export function readGrowthDrivers(sq: SubQuestion, table: ResultTable, coverage:
   caveats.push(...segmentPresenceCaveats(cmp));
   const findings: Finding[] = [];
   for (const metric of sq.metrics) {
-    const finding = driversOf(sq, cmp, metric, isAdditive(metricByName(dataset, metric)), caveats);
+    const finding = driversOf(sq, cmp, metric, addsAcrossSegments(metricByName(dataset, metric)), caveats);
     if (finding) findings.push(finding);
   }
   const small = foldedMembers(cmp);

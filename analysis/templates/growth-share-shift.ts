@@ -1,7 +1,7 @@
 // Template "growth_share_shift": how each segment's share of the total moved against the same
 // dates a year earlier (growth × distribution), with concentration before and after.
 import type { DatasetConfig } from '../../config/schema.js';
-import { isAdditive, metricByName } from '../catalog.js';
+import { addsAcrossSegments, metricByName } from '../catalog.js';
 import type { Coverage } from '../coverage.js';
 import type { GrowthConcentration, GrowthShareSegment, GrowthShareShiftFinding } from '../findings/growth.js';
 import { concentration } from '../stats/index.js';
@@ -31,7 +31,7 @@ export function readGrowthShareShift(sq: SubQuestion, table: ResultTable, covera
   const ids = [...keys.map((k) => (k === null ? 'missing' : `v:${k}`)), ...(small > 0 ? ['other'] : [])];
   for (const metric of sq.metrics) {
     // Shares of a total need parts that add up to it; a ratio or an average has no such parts.
-    if (!isAdditive(metricByName(dataset, metric))) continue;
+    if (!addsAcrossSegments(metricByName(dataset, metric))) continue;
     const foldBefore = small > 0 ? (cmp.prior.folded?.values[metric] ?? 0) : null;
     const foldAfter = small > 0 ? (cmp.current.folded?.values[metric] ?? 0) : null;
     const before = [...keys.map((k) => cmp.prior.segments.get(k)?.values[metric] ?? 0), ...(foldBefore === null ? [] : [foldBefore])];

@@ -1,7 +1,7 @@
 // Template "segment_shares": each segment's share of a metric over the window, Pareto
 // cumulative shares, how many segments make up 80%, the top-N share and the HHI. Shares only
 // exist for sums and counts; any other metric gets its per-segment values and no shares.
-import { isAdditive, metricByName, rankDescending } from '../catalog.js';
+import { addsAcrossSegments, metricByName, rankDescending } from '../catalog.js';
 import type { SegmentRanking, SegmentShareRow, SegmentSharesFinding } from '../findings/segments.js';
 import { concentration, hhiBand } from '../stats/index.js';
 import type { Caveat, ResultTable, SubQuestion } from '../types.js';
@@ -37,7 +37,7 @@ export function readSegmentShares(sq: SubQuestion, table: ResultTable, ctx: Read
   if (rows.every((r) => r.value === null)) caveats.push({ code: 'all_null', data: { metric: metricName } });
   // A ranking's caption states its row floor and how many fell short: no note repeats it.
   caveats.push(...foldedCaveats(rows, dimension, minGroupSize(ctx.dataset), foldedAs(metric, sq.rankOrder)).filter((c) => !(sq.rankOrder && c.code === 'segments_folded' && 'minRows' in c.data)));
-  const additive = isAdditive(metric);
+  const additive = addsAcrossSegments(metric);
   const first = table.rows[0]!;
   const base: SegmentSharesFinding = {
     type: 'segment_shares',
