@@ -126,6 +126,8 @@ const MONEY_WORDS = /(^|_)(revenue|revenues|sales|amount|amounts|spend|spent|cos
 const CURRENCY_MARKS: readonly [RegExp, string][] = [[/\$/, 'USD'], [/€/, 'EUR'], [/£/, 'GBP'], [/¥/, 'JPY'], [/₹/, 'INR']];
 const CURRENCY_CODE = /(^|_)(usd|eur|gbp|jpy|chf|cad|aud|nzd|sek|nok|dkk|inr|cny)($|_)/;
 // A value per row that a total would not mean (a flight's delay, a rating, a duration): its mean per row.
+// Counts held at a date, which add up across segments but are averaged over time.
+const STOCK_WORDS = /(^|_)(headcount|headcounts|stock|inventory|population|employed|unemployed|employment|unemployment|employees|staff|members|subscribers|accounts|enrolled|enrollment|enrolment|residents|beds|fleet)($|_|\d)/;
 const PER_ROW_WORDS = /(^|_)(delay|delays|lateness|latency|duration|time|length|wait|waiting|rating|ratings|stars|grade|per|elevation|altitude)($|_|\d)/;
 
 // Units a column's name states ("Speed IAS in knots", "Running Time min"): written after its values.
@@ -380,6 +382,9 @@ export function draftConfig(input: DraftInput): Draft {
         comments[metricName] = points
           ? ` drafted by init: a percentage; its values are percent points (${numbers[0]} for ${numbers[0]}%), so divided by 100 (unit: percent reads 0.021 as 2.1%), averaged over time`
           : ` drafted by init: a percentage written as a fraction (0.021 for 2.1%), averaged over time`;
+        // Across a breakdown the mean of the rows' rates weights every row alike, which is not the
+        // overall rate when the rows' bases differ (a large industry and a small one).
+        if (panel) comments[metricName] += `; across ${panel.dimension} it is the plain mean of the rows' rates, not weighted by their size: for the overall rate, define a ratio of two sums (of: part, per: base) if the data holds both`;
         metrics.push({ name: metricName, label: labelOf(c.name), also_called: [], average: points ? `${columnExpr(c.name)} / 100` : columnExpr(c.name), unit: 'percent', ...directionOf(name), kind: 'level' });
         continue;
       }
@@ -433,6 +438,15 @@ export function draftConfig(input: DraftInput): Draft {
   /** Sum, or average, and why: said above the metric in the file. */
   function howItAddsUp(c: ColumnProfile, name: string): { how: 'sum' | 'average'; kind: 'flow' | 'level' | 'ratio'; why: string } {
     const flow = FLOW_WORDS.test(name) || MONEY_WORDS.test(name) || !!currencyNamed(c.name);
+    // Counts of people or things held at a date (a headcount, the unemployed per industry per
+    // month) add up across the breakdown on one date but not over time: a sum of kind level, which
+    // totals each date and averages the dates of a period (a year is its mean monthly total).
+    const wholeCounts = c.examples.length > 0 && c.examples.every((v) => /^\d+$/.test(v.trim())) && (c.min === undefined || c.min >= 0);
+    const stockName = STOCK_WORDS.test(name);
+    if ((panel || !eventsPerStamp) && !flow && (stockName || (panel && wholeCounts && !LEVEL_WORDS.test(name)))) {
+      const per = panel ? `one row per ${panel.dimension} per ${panel.time}` : `one row per ${timeName}`;
+      return { how: 'sum', kind: 'level', why: `a level held at each ${timeName} (${stockName ? 'its name reads as a count held, such as a headcount' : 'whole numbers, read as a count of people or things'}): the data has ${per}, so it is totalled on each ${timeName} and averaged over the ${timeName}s of a period (make it average if a total across rows means nothing, such as a temperature; sum and kind: flow if it adds up over time)` };
+    }
     if (LEVEL_WORDS.test(name) && (panel || !eventsPerStamp)) return { how: 'average', kind: 'level', why: 'a level (its name reads as a reading), averaged over time' };
     if (LEVEL_WORDS.test(name)) return { how: 'average', kind: 'ratio', why: `a value per row (its name reads as a reading; the data has ${(input.rows / timeValues).toFixed(1)} rows per ${timeName} on average, so the mean per row), averaged over the rows` };
     // A reading per breakdown value per date adds up across values on one date, never over time:

@@ -90,7 +90,7 @@ describe('init on text dates (stocks.csv)', () => {
 });
 
 describe('init on readings per industry per month (unemployment-across-industries.json)', () => {
-  it('drafts the unemployed count as a level averaged over time, says why in a comment, and keeps its notes out of descriptions', async () => {
+  it('drafts the unemployed count as a level (totalled per month across industries, averaged over time), says why in a comment, and keeps its notes out of descriptions', async () => {
     const file = join(mkdtempSync(join(tmpdir(), 'tc-newcomer-init-')), 'unemployment.yaml');
     const r = await run(['init', '--source', join(data, 'unemployment-across-industries.json'), '--out', file]);
     expect(r.code).toBe(0);
@@ -98,14 +98,15 @@ describe('init on readings per industry per month (unemployment-across-industrie
     const ds = (parse(text) as { datasets: Record<string, unknown>[] }).datasets[0]!;
     const metrics = ds.metrics as Record<string, unknown>[];
     // One row per industry (series) per month: 14 industries × 122 months = 1,708 rows (BLS via vega-datasets).
-    expect(metrics.find((m) => m.name === 'count')).toMatchObject({ average: 'count', kind: 'level' });
-    expect(text).toMatch(/# drafted by init: a level, averaged over time: the data has one row per series per date/);
+    // Unemployed people add up across industries in a month, not over months: a sum of kind level.
+    expect(metrics.find((m) => m.name === 'count')).toMatchObject({ sum: 'count', kind: 'level' });
+    expect(text).toMatch(/# drafted by init: a level held at each date \(whole numbers, read as a count of people or things\): the data has one row per series per date/);
     // The draft's own notes are comments: a description is what requesters read under a chart.
     for (const m of metrics) expect(String(m.description ?? '')).not.toMatch(/init/);
     expect(text).toMatch(/# drafted by init: the number of rows\n\s+- name: rows/);
     const check = await run(['check', '--config', file]);
     expect(check.code).toBe(0);
-    expect(check.out).toMatch(/count: level, average of count/);
+    expect(check.out).toMatch(/count: level, sum of count/);
   });
 
   it('keeps a flow for amounts with one row per date (births per day, no breakdown)', async () => {
