@@ -335,7 +335,8 @@ describe('growth_drivers read', () => {
     expect(d).toMatchObject({ before: 0, after: 20, change: 20, relative: null });
     expect(f.segments.reduce((acc, s) => acc + s.contribution!, 0)).toBeCloseTo(0.25, 12);
     expect(f.segments.reduce((acc, s) => acc + s.shareOfChange!, 0)).toBeCloseTo(1, 12);
-    expect(r.caveats).toContainEqual({ code: 'late_segment', data: { segment: 'd', firstPeriod: '2024-07-15', grain: 'day' } });
+    // The note names the earlier span compared, here the same dates a year earlier.
+    expect(r.caveats).toContainEqual({ code: 'late_segment', data: { segment: 'd', firstPeriod: '2024-07-15', grain: 'day', earlierStart: '2023-06-01', earlierEnd: '2023-09-01', yearEarlier: true } });
     expect(r.caveats.map((c) => c.code)).toContain('base_zero');
   });
 
@@ -383,7 +384,7 @@ describe('growth_drivers read', () => {
   it('a window whose year-earlier dates precede the data says the earlier year is missing', () => {
     const r = growthDriversTemplate.read({ ...drivers, window: { start: '2022-06-01', end: '2022-09-01' } }, { drivers: table([]) }, readCtx(fullCoverage));
     expect(r.findings).toEqual([]);
-    expect(r.caveats).toEqual([{ code: 'no_data', data: { start: '2021-06-01', end: '2021-09-01', window: 'prior' } }]);
+    expect(r.caveats).toEqual([{ code: 'no_data', data: { start: '2021-06-01', end: '2021-09-01', window: 'prior', yearEarlier: true } }]);
   });
 
   it('an all-null metric is an all_null caveat, not an exception', () => {
