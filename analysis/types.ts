@@ -65,6 +65,8 @@ export interface SubQuestion {
   /** The date a before/after turns on, when the request states one (else the group's launch date). */
   launchDate?: string;
   /** "bookings per day by month": per-day averages at the grain. */
+  /** The request asked a summed metric per row ("gross per film"): compare its mean and median per row, not its total. */
+  perRow?: string;
   perDay?: boolean;
   /** "top 5 routes": how many segments to rank. */
   rankLimit?: number;

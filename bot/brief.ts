@@ -53,6 +53,8 @@ export interface Question {
   rateUnit?: 'year' | 'decade';
   /** "bookings per day by month": a per-day average at the grain asked. */
   perDay?: boolean;
+  /** "gross per film" of a sum with no per-row average in the catalog: compare its mean (and median) per row. */
+  perRow?: string;
   /** "the numbers by month", "side by side": a table of the metrics by period. */
   table?: boolean;
   /** The metric the question took from the one before ("how has that moved"). */

@@ -53,6 +53,7 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
       ...(q.spanEnds && !q.compareWindow ? { spanEnds: q.spanEnds } : {}),
       ...(q.launchDate ? { launchDate: q.launchDate } : {}),
       ...(q.perDay ? { perDay: true } : {}),
+      ...(q.perRow ? { perRow: q.perRow } : {}),
       ...(q.rankLimit ? { rankLimit: q.rankLimit } : {}),
       ...(q.rankOrder ? { rankOrder: q.rankOrder } : {}),
       ...(q.rateUnit ? { rateUnit: q.rateUnit } : {}),

@@ -4,7 +4,7 @@ import { addsAcrossSegments } from '../catalog.js';
 import { CLEAR_LEAD, type SegmentGrowthMeasure, type SegmentRanking, type SegmentSharesFinding, type SegmentShareRow, type SegmentTrendFinding, type SegmentTrendOverviewFinding } from '../findings/segments.js';
 import { formatChange, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
 import type { Audience, Finding } from '../types.js';
-import { countOf, inSentence, isPluralLabel, labelAtStart } from './grammar.js';
+import { countOf, inSentence, isPluralLabel, labelAtStart, pluralNoun } from './grammar.js';
 import { configuredAs } from './metric-words.js';
 import type { Words } from './trend-test-caption.js';
 import { capitalise, countWord, dimensionPlural, formatRelativeSize, formatShare, segmentLabel } from './trend-words.js';
@@ -171,6 +171,7 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
   const pair = request.contrast?.map((v) => named.find((r) => segmentLabel(r).toLowerCase() === String(v).toLowerCase()));
   if (pair && pair[0] && pair[1] && pair[0].value !== null && pair[1].value !== null) {
     const [a, b] = pair as [SegmentShareRow, SegmentShareRow];
+    if (f.perRow) return perRowPairWords(metric, f.perRow, a, b, fmt, locale);
     const side = (r: SegmentShareRow) => `${segmentLabel(r)} ${formatValue(r.value, fmt, { compact: true })}`;
     const shares = a.share !== null && b.share !== null && f.additive ? ` (${segmentLabel(a)} ${formatShare(a.value! / (a.value! + b.value!), locale, true)} of the two)` : '';
     return { title: `${labelAtStart(metric.label)}: ${side(a)} against ${side(b)}`, caption: `${capitalise(noun)} over the period: ${side(a)} against ${side(b)}${shares}.` };
@@ -247,4 +248,27 @@ function bandWords(band: SegmentSharesFinding['hhiBand']): string {
     default:
       return 'n/a';
   }
+}
+
+/**
+ * Two values' mean per row of a summed metric ("gross per film"), with the median beside it: the
+ * title says which is higher on the mean, the caption says how each figure is formed and whether
+ * the medians agree (money per item is usually skewed, so a few large rows can carry a mean).
+ */
+function perRowPairWords(metric: Metric, noun: string, a: SegmentShareRow, b: SegmentShareRow, fmt: ReturnType<typeof valueFormatOf>, locale: string): Words {
+  const label = `${metric.label} per ${noun}`;
+  const v = (x: number | null | undefined) => formatValue(x ?? null, fmt, { compact: true });
+  const nouns = pluralNoun(noun);
+  const [hi, lo] = a.value! >= b.value! ? [a, b] : [b, a];
+  const title = a.value === b.value ? `${label}: ${segmentLabel(a)} and ${segmentLabel(b)} are level at ${v(a.value)} (mean)` : `${label} is higher for ${segmentLabel(hi)}: ${v(hi.value)} against ${v(lo.value)} for ${segmentLabel(lo)} (mean)`;
+  const count = (r: SegmentShareRow) => countOf(r.perRowN ?? 0, noun, locale, nouns);
+  const means = `Mean ${inSentence(metric.label)} per ${noun} (the total over the ${nouns} with a value, divided by their number) over the period: ${segmentLabel(a)} ${v(a.value)} (${count(a)}) against ${segmentLabel(b)} ${v(b.value)} (${count(b)}).`;
+  const ma = a.perRowMedian ?? null;
+  const mb = b.perRowMedian ?? null;
+  let medians = '';
+  if (ma !== null && mb !== null) {
+    const agree = Math.sign(ma - mb) === Math.sign(a.value! - b.value!);
+    medians = ` The medians (half the ${nouns} have less) are ${segmentLabel(a)} ${v(ma)} and ${segmentLabel(b)} ${v(mb)}${agree ? ', the same way round' : ', the other way round: a few large ones carry the mean'}.`;
+  }
+  return { title, caption: `${means}${medians}` };
 }

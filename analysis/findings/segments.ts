@@ -226,6 +226,9 @@ export interface SegmentShareRow extends SegmentKey {
   /** Null when shares do not apply (non-additive metric, negative or zero total). */
   share: number | null;
   cumulativeShare: number | null;
+  /** With the finding's `perRow`: `value` is the mean per row with a value; these are that count and the median. */
+  perRowN?: number;
+  perRowMedian?: number | null;
 }
 
 export interface SegmentSharesFinding {
@@ -251,6 +254,8 @@ export interface SegmentSharesFinding {
   hhiBand: HhiBand | null;
   /** "worst 10": the segments were ranked by value in this direction, not by size. */
   ranking?: SegmentRanking;
+  /** A summed metric asked per row, named by the request's word ("film"): each row's value is its mean per row. */
+  perRow?: string;
 }
 
 /** A ranking by value: its direction, and for an average or a rate the row floor a segment needs to be named. */

@@ -20,14 +20,14 @@ export function metricDefinition(metric: Metric, ctx: PresentContext): string {
   return metricMeaning(metric, ctx.dataset, ctx.audience);
 }
 
-export function chartSubtitle(answer: Answer, metric: Metric, ctx: PresentContext, opts: { grain?: boolean } = {}): string {
+export function chartSubtitle(answer: Answer, metric: Metric, ctx: PresentContext, opts: { grain?: boolean; definition?: string } = {}): string {
   const sq = answer.subQuestion;
   // A window that runs past the data ("2025" in June 2025) is said to the data's end: the chart
   // shows nothing after it, and a subtitle to 31 December would claim it does. Data stamped
   // monthly covers its last month whole and is said in months, as the thread's text says it.
   const end = ctx.dataAsOf ? dataEnd({ lastDate: ctx.dataAsOf.slice(0, 10), ...(ctx.stamps ? { stamps: ctx.stamps } : {}) }) : null;
   const shown = { start: sq.window.start, end: end !== null && end < sq.window.end ? end : sq.window.end };
-  const parts = [metricDefinition(metric, ctx), shortWindow(shown, ctx.stamps, ctx.locale)];
+  const parts = [opts.definition ?? metricDefinition(metric, ctx), shortWindow(shown, ctx.stamps, ctx.locale)];
   if (opts.grain !== false) parts.push(grainAdjective(sq.grain));
   parts.push(...filterSubtitleParts(sq.filters, ctx.dataset));
   return parts.filter((p) => p !== '').join(' · ');

@@ -5,6 +5,7 @@ import { buildPareto } from '../charts/build-pareto.js';
 import { segmentSharesWords } from '../captions/trend-segments-caption.js';
 import { segmentLabel } from '../captions/trend-words.js';
 import { rowNoun } from '../captions/performance-words.js';
+import { pluralNoun } from '../captions/grammar.js';
 import { dimensionByName, metricByName } from '../catalog.js';
 import type { SegmentSharesFinding } from '../findings/segments.js';
 import { valueFormatOf } from '../format.js';
@@ -15,9 +16,12 @@ export const presentSegmentShares: Presenter = (answer, ctx) => {
   const sq = answer.subQuestion;
   const metric = metricByName(ctx.dataset, sq.metrics[0]!);
   const dim = dimensionByName(ctx.dataset, sq.dimension ?? '');
-  const words = segmentSharesWords(metric, dim, answer.findings, ctx.audience, ctx.locale, rowNoun(ctx.dataset), { ranking: sq.answersAsked === true, dataset: ctx.dataset, ...(sq.contrast ? { contrast: sq.contrast.values } : {}) });
   const f = answer.findings.find((x): x is SegmentSharesFinding => x.type === 'segment_shares' && x.metric === metric.name);
-  const header = { title: words.title, chip: metric.label, subtitle: chartSubtitle(answer, metric, ctx, { grain: false }), footer: chartFooter(answer, ctx), ...ctx.chart };
+  const words = segmentSharesWords(metric, dim, answer.findings, ctx.audience, ctx.locale, rowNoun(ctx.dataset), { ranking: sq.answersAsked === true, dataset: ctx.dataset, ...(sq.contrast ? { contrast: sq.contrast.values } : {}) });
+  // A summed metric asked per row: the bars are each value's mean per row, and the subtitle says so.
+  const perRow = f?.perRow ? `Mean ${metric.label} per ${f.perRow} (over the ${pluralNoun(f.perRow)} with a value)` : null;
+  const subtitle = chartSubtitle(answer, metric, ctx, { grain: false, ...(perRow ? { definition: perRow } : {}) });
+  const header = { title: words.title, chip: metric.label, subtitle, footer: chartFooter(answer, ctx), ...ctx.chart };
   let chart = null;
   if (f) {
     // The template folded the tail in SQL: the fold comes last, drawn as the tail, and nothing is folded again.

@@ -11,6 +11,8 @@ import { isRollupMetric, rollupColumns, type RollupShape } from './rollup.js';
 
 /** What the rollup must keep for this sub-question, or null when it has to read the table. */
 export function rollupNeeds(sq: SubQuestion, ds: DatasetConfig): RollupShape | null {
+  // A mean and median per row ("gross per film") need each row's value.
+  if (sq.perRow) return null;
   try {
     const use = definitionOf(sq).rollup;
     if (!use || (use.when && !use.when(sq, ds))) return null;

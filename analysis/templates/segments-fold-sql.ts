@@ -3,7 +3,8 @@
 // still sends only N + 1 rows (per period) to Node.
 import type { Metric } from '../../config/schema.js';
 import { CatalogError, groupableDimension, isAdditive, metricByName, rankDescending } from '../catalog.js';
-import { type CompileContext, localDateExpr, measureSql, periodScope, rowCountSql, tableRef, whereClause } from '../compile-context.js';
+import { type CompileContext, localDateExpr, measureSql, type PeriodScope, periodScope, rowCountSql, tableRef, whereClause } from '../compile-context.js';
+import { filterCondition } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { CompiledQuery, Grain, SubQuestion } from '../types.js';
 import { complementaryFoldCtes, minGroupSize } from './small-groups.js';
@@ -45,6 +46,8 @@ export interface FoldedQueryOptions {
   monthsWithRows?: boolean;
   /** Also return the window's total and sum of squared segment values, before folding (for shares and HHI). */
   totals?: boolean;
+  /** A summed metric asked per row ("gross per film", sq.perRow): each segment's mean per row with a value, their count and median, instead of its total. */
+  perRow?: boolean;
 }
 
 /**
@@ -101,6 +104,7 @@ export function compileFoldedSegments(sq: SubQuestion, ctx: CompileContext, opts
   // The segments are those with matching rows in the window; each one's periods are read with the
   // filters inside the aggregates, so a period where it has rows but none that match is a 0.
   const outerScope = periodScope(q, ctx, sq.window, sq.filters);
+  const perRow = opts.perRow && !opts.grain ? perRowValue(q, sq, metric, outerScope) : null;
   const select: string[] = [];
   const group: string[] = [];
   if (opts.grain) {
@@ -114,9 +118,11 @@ export function compileFoldedSegments(sq: SubQuestion, ctx: CompileContext, opts
   select.push(
     `${d.toDouble('MIN(f.tc_rank)')} AS seg_rank`,
     `${d.toDouble('COUNT(DISTINCT f.tc_rank)')} AS members`,
-    `${outerScope.measure(metric)} AS ${q.ident('value')}`,
+    `${perRow ? d.toDouble(`AVG(${perRow})`) : outerScope.measure(metric)} AS ${q.ident('value')}`,
     `${d.toDouble(outerScope.rowCount())} AS row_count`,
   );
+  // "Gross per film": the mean over the rows with a value (the value column), their count and the median beside it.
+  if (perRow) select.push(`${d.toDouble(`COUNT(${perRow})`)} AS per_row_n`, `${d.toDouble(`percentile_cont(0.5) WITHIN GROUP (ORDER BY ${perRow})`)} AS per_row_median`);
   if (floored) select.push(`${d.toDouble('MIN(f.tc_floor)')} AS rank_min_rows`, `${d.toDouble('COUNT(DISTINCT CASE WHEN f.tc_thin THEN f.tc_rank END)')} AS thin_members`);
   if (minP) {
     select.push(
@@ -205,4 +211,15 @@ tc_marked AS (
     ${d.toDouble('SIGN(MIN(tc_size) OVER ())')} AS tc_min
   FROM (SELECT tc_marked.*, (tc_other AND tc_any_small = 1) AS ${hidden} FROM tc_marked) tc_h
 )`;
+}
+
+/**
+ * A summed metric's value per row, on the rows that pass the filters (and the metric's own
+ * condition), NULL elsewhere: when the request asked it per row ("gross per film"); else null.
+ */
+export function perRowValue(q: QueryBuilder, sq: SubQuestion, metric: Metric, scope: PeriodScope): string | null {
+  const def = metric.definition;
+  if (!sq.perRow || def.type !== 'sum') return null;
+  const own = def.where ? `CASE WHEN ${filterCondition(q, def.where)} THEN ${q.ident(def.column)} END` : q.ident(def.column);
+  return scope.onMatching(own);
 }

@@ -19,7 +19,7 @@ export const SHARE_TOP_N = 3;
 export const segmentSharesTemplate: Template = {
   compile: (sq, ctx) => {
     segmentDimension(sq, ctx);
-    return [{ name: 'segment_totals', ...compileFoldedSegments(sq, ctx, { topN: namedSegmentCount(sq), grain: null, totals: true }) }];
+    return [{ name: 'segment_totals', ...compileFoldedSegments(sq, ctx, { topN: namedSegmentCount(sq), grain: null, totals: true, perRow: perRowAsked(sq, ctx.dataset) }) }];
   },
   read: (sq, tables, ctx) => readSegmentShares(sq, tables.segment_totals ?? EMPTY_TABLE, ctx),
 };
@@ -37,7 +37,9 @@ export function readSegmentShares(sq: SubQuestion, table: ResultTable, ctx: Read
   if (rows.every((r) => r.value === null)) caveats.push({ code: 'all_null', data: { metric: metricName } });
   // A ranking's caption states its row floor and how many fell short: no note repeats it.
   caveats.push(...foldedCaveats(rows, dimension, minGroupSize(ctx.dataset), foldedAs(metric, sq.rankOrder)).filter((c) => !(sq.rankOrder && c.code === 'segments_folded' && 'minRows' in c.data)));
-  const additive = addsAcrossSegments(metric);
+  const perRow = perRowAsked(sq, ctx.dataset);
+  // Means per row have no shares.
+  const additive = addsAcrossSegments(metric) && !perRow;
   const first = table.rows[0]!;
   const base: SegmentSharesFinding = {
     type: 'segment_shares',
@@ -47,7 +49,8 @@ export function readSegmentShares(sq: SubQuestion, table: ResultTable, ctx: Read
     total: null,
     segmentCount: numberOrNull(first.seg_count) ?? rows.length,
     folded: rows.find((r) => r.other)?.members ?? 0,
-    rows: rows.map((r) => ({ ...keyOf(r), value: r.value, share: null, cumulativeShare: null })),
+    rows: rows.map((r) => ({ ...keyOf(r), value: r.value, share: null, cumulativeShare: null, ...(perRow ? { perRowN: numberOrNull(r.row.per_row_n) ?? 0, perRowMedian: numberOrNull(r.row.per_row_median) } : {}) })),
+    ...(perRow ? { perRow: sq.perRow! } : {}),
     threshold: SHARE_THRESHOLD,
     countToThreshold: null,
     // "top 10 airports": the share the request asked about, else the common top-three share.
@@ -125,4 +128,9 @@ function foldedShares(base: SegmentSharesFinding, rows: readonly FoldedRow[], va
     hhi,
     hhiBand: hhi === null ? null : hhiBand(hhi),
   };
+}
+
+/** Whether the request asked a summed metric per row ("gross per film"): its mean and median per row are compared, not its total. */
+export function perRowAsked(sq: SubQuestion, ds: ReadContext['dataset']): boolean {
+  return !!sq.perRow && metricByName(ds, sq.metrics[0]!).definition.type === 'sum';
 }

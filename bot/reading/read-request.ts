@@ -409,6 +409,8 @@ interface ClauseReading {
   ranking: boolean;
   rateUnit?: 'year' | 'decade';
   perDay: boolean;
+  /** "gross per film" with no average of the measure in the catalog: its mean and median per row are computed. */
+  perRow?: string;
   table: boolean;
   /** Points back at the question before ("how does that compare", "and which teams took them"). */
   refersBack: boolean;
@@ -634,6 +636,7 @@ function toQuestion(r: ClauseReading, st: ReadState, previous: Question | undefi
   if (r.ranking && q.dimensions.length > 0 && (kind === 'trend' || kind === 'kpi')) q.ranking = true;
   if (r.rateUnit) q.rateUnit = r.rateUnit;
   if (r.perDay) q.perDay = true;
+  if (r.perRow) q.perRow = r.perRow;
   if (r.table) q.table = true;
   // A launch the text refers to ("since it launched") is the group's catalog launch date.
   if (!q.launchDate && refersToLaunch(r.clause.text)) {
@@ -714,7 +717,7 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
   // measure named is such a unit ("email tickets compare with phone tickets"), it is the measure.
   const unitNouns = metricHits.map((h) => metricHits.length > 1 && isUnitNoun(h, hits, st.text));
   const allUnits = unitNouns.every((u) => u);
-  const rowsUnit = rowsAsUnit(metricHits, hits, clause, st);
+  const { hits: rowsUnit, perRow } = rowsAsUnit(metricHits, hits, clause, st);
   for (const [i, h] of metricHits.entries()) {
     if (unitNouns[i] && !allUnits) continue;
     if (rowsUnit.has(h)) continue;
@@ -798,6 +801,7 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
   const onlyDeadlineOrAudience = metrics.length === 0 && dims.length === 0 && filters.length === 0 && !group && !refersToLaunch(clause.text) && kept.every((p) => !p.window) && (/\b(?:need|needed|ideally|by|before|deadline|due|would be great|is fine|no rush|thanks|cheers|regards|best)\b/.test(t) || intent.kind === null);
   if (onlyDeadlineOrAudience && !reading.frequency && !reading.table && !/\?\s*$/.test(clause.text + (clause.asked ? '?' : ''))) reading.context = true;
   if (group) reading.group = group;
+  if (perRow) reading.perRow = perRow;
   if (contrast) reading.contrast = contrast;
   if (launch) {
     reading.launchDate = launch.date;
@@ -820,15 +824,16 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
  * Kept where the clause counts ("how many films and their gross"). "per film" with no average
  * of the measure in the catalog is said back: the totals are what can be measured.
  */
-function rowsAsUnit(metricHits: CatalogHit[], hits: CatalogHit[], clause: Clause, st: ReadState): Set<CatalogHit> {
+function rowsAsUnit(metricHits: CatalogHit[], hits: CatalogHit[], clause: Clause, st: ReadState): { hits: Set<CatalogHit>; perRow: string | null } {
   const out = new Set<CatalogHit>();
+  let perRow: string | null = null;
   const rows = rowCountMetric(st.ds)?.name;
-  if (!rows) return out;
+  if (!rows) return { hits: out, perRow };
   const inside = (s: Span) => s.start >= clause.start && s.end <= clause.end;
   const shared = st.sharedMetricHits.filter(inside);
   const others = metricHits.filter((h) => metricOf(h) !== rows);
-  if (others.length === 0 && shared.length === 0) return out;
-  if (COUNTING.test(clause.text)) return out;
+  if (others.length === 0 && shared.length === 0) return { hits: out, perRow };
+  if (COUNTING.test(clause.text)) return { hits: out, perRow };
   for (const h of metricHits) {
     if (metricOf(h) !== rows) continue;
     const before = st.text.lower.slice(Math.max(0, h.start - 12), h.start);
@@ -847,10 +852,11 @@ function rowsAsUnit(metricHits: CatalogHit[], hits: CatalogHit[], clause: Clause
     for (const m of measured) {
       if (m.definition.type !== 'sum') continue;
       const cue = h.start - (before.length - before.search(/\S+\s+$/));
-      st.notes.push(`"${st.text.quote({ start: cue, end: h.end })}": the catalog has no average of ${m.label} per row, so I measure its total; an average metric of the same column in the config would give the figure per row.`);
+      perRow = st.text.quote(h).toLowerCase();
+      st.notes.push(`"${st.text.quote({ start: cue, end: h.end })}": the catalog has no average of ${m.label} per row, so where two values are set side by side I work out its mean per ${st.text.quote(h)} (the total divided by the number with a value) and the median beside it, and elsewhere its total; an average metric of the same column in the config would give the figure per row everywhere.`);
     }
   }
-  return out;
+  return { hits: out, perRow };
 }
 
 /** The metric a hit names; of several sharing a phrase once words are folded, the one written exactly so. */
