@@ -1224,7 +1224,10 @@ function keepComparison(q: Question, st: ReadState): void {
  */
 function groupNotCompared(q: Question, name: string, ds: DatasetConfig): string {
   const g = ds.comparison_groups.find((x) => x.name === name)!;
-  return `"${q.text}" names ${g.label} but sets them against nothing, so I read it as a ${KIND_WORDS[q.kind]} question over all the data, not split by group. To set ${g.members_label} against ${g.others_label}${g.launch_date ? ' before and after the launch' : ''}, ask for "${g.members_label} vs ${g.others_label}".`;
+  const ask = `To set ${g.members_label} against ${g.others_label}${g.launch_date ? ' before and after the launch' : ''}, ask for "${g.members_label} vs ${g.others_label}".`;
+  // "Did the Early Bake shops grow faster this year?": each group's own growth is not measured yet; said, not answered silently.
+  if (q.kind === 'growth') return `"${q.text}" asks about ${g.label}, but I do not measure each group's own growth yet, so I read it as growth over all the data, not split by group. ${ask}`;
+  return `"${q.text}" names ${g.label} but sets them against nothing, so I read it as a ${KIND_WORDS[q.kind]} question over all the data, not split by group. ${ask}`;
 }
 
 const KIND_WORDS: Record<RequestKind, string> = { trend: 'trend', growth: 'growth', kpi: 'snapshot', performance: 'comparison' };

@@ -41,6 +41,12 @@ describe('whether a programme worked', () => {
     expect(note).toMatch(/Pass holders vs Other customers/);
   });
 
+  it("says a group's own growth is not measured, rather than answer the company's growth silently", () => {
+    const b = read('did the pass holders grow faster this year? revenue');
+    expect(b.questions[0]).toMatchObject({ kind: 'growth', comparisonGroup: null, metrics: ['revenue'] });
+    expect((b.saidBack ?? []).join(' ')).toMatch(/I do not measure each group's own growth yet, so I read it as growth over all the data/);
+  });
+
   it('leaves a plain question with no group alone', () => {
     const b = read('did the app work better than web for bookings last year?');
     expect(b.questions[0]!.comparisonGroup).toBeNull();
