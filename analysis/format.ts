@@ -68,6 +68,20 @@ export function formatValue(value: number | null, fmt: ValueFormat, opts: Format
   return fmt.label && fmt.unit !== 'currency' && fmt.unit !== 'percent' ? `${text}\u00a0${fmt.label}` : text;
 }
 
+/**
+ * A difference in a metric's own units: a rate or share (unit percent) moves in percentage points
+ * ("+1.2 pts", never "+1.2%", which reads as growth of the rate itself); anything else in its unit.
+ */
+export function formatUnitChange(diff: number | null, fmt: ValueFormat, opts: FormatOptions = {}): string {
+  if (fmt.unit !== 'percent') return formatValue(diff, fmt, opts);
+  if (diff === null || !Number.isFinite(diff)) return NOT_AVAILABLE;
+  const pts = diff * 100;
+  // One decimal, or two significant figures for a small move ("0.042 pts"), so no move prints as zero.
+  const size = Math.abs(pts);
+  const decimals = size === 0 || size >= 1 ? 1 : Math.min(6, 1 - Math.floor(Math.log10(size)));
+  return `${formatValue(pts, { unit: 'number', decimals, locale: fmt.locale }, { signed: opts.signed ?? false })} pts`;
+}
+
 /** A relative change as a signed percentage: 0.081 → "+8.1%", −0.05 → "−5.0%". */
 export function formatChange(relative: number | null, locale: string): string {
   if (relative === null || !Number.isFinite(relative)) return NOT_AVAILABLE;

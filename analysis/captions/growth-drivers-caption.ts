@@ -45,10 +45,14 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
   const title = bothFigures ? `${driverTitle}; ${bothFigures}` : driverTitle;
 
   const total = f.total;
+  // A rate or share moves in points: "rose 1.2 pts: 4.4% to 5.6%", never "rose 28.5%" of itself.
+  const points = metric.unit === 'percent';
   const totalMove =
-    total.relative !== null && Number.isFinite(total.relative)
-      ? `${label} ${totalVerb(total.relative, locale)}: ${money(total.before)} to ${money(total.after)} (${directionOf(total.relative) === 'flat' ? `${formatChange(total.relative, locale)}, ` : ''}${money(total.change, true)})`
-      : `${label} went from ${money(total.before)} to ${money(total.after)}`;
+    points && total.change !== null && total.before !== null && total.after !== null
+      ? `${label} ${total.change === 0 ? 'held flat' : `${total.change > 0 ? 'rose' : 'fell'} ${money(Math.abs(total.change), true).replace(/^\+/, '')}`}: ${money(total.before)} to ${money(total.after)}`
+      : total.relative !== null && Number.isFinite(total.relative)
+        ? `${label} ${totalVerb(total.relative, locale)}: ${money(total.before)} to ${money(total.after)} (${directionOf(total.relative) === 'flat' ? `${formatChange(total.relative, locale)}, ` : ''}${money(total.change, true)})`
+        : `${label} went from ${money(total.before)} to ${money(total.after)}`;
   const named = f.segments.filter((s) => s.change !== null).slice(0, NAMED_IN_CAPTION);
   const sentences = [`${totalMove}, ${spans}.`];
   const perDay = perDaySentence(f, label, metric, locale);
@@ -64,7 +68,7 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
       // (+1,210% for a channel that opened part-way through the base) would read as growth.
       const changed = lfl?.excluded.find((c) => c.segment === s.segment);
       if (changed) return `${name(s)} ${parts[0]} (${notThroughBoth(changed, f, locale)})`;
-      if (s.relative !== null) parts.push(formatGrowth(s.relative, locale));
+      if (s.relative !== null && !points) parts.push(formatGrowth(s.relative, locale));
       if (audience === 'analysts' && s.contribution !== null) parts.push(`${formatPoints(s.contribution, locale)} of the total's ${formatChange(total.relative, locale)}`);
       else if (audience === 'managers' && s.shareOfChange !== null && s.shareOfChange > 0 && s.shareOfChange <= 1) {
         parts.push(`${unsignedPercent(s.shareOfChange, locale)} of the total change`);
@@ -161,7 +165,9 @@ export function spansVerdict(metric: Metric, f: GrowthDriversFinding, locale: st
   } else {
     base = `${spanText(prior, locale)} (${spanText(current, locale)}; ${values})`;
   }
-  const where = direction === 'level' ? `level with ${base.replace(/ \(/, ` (${formatChange(rel, locale)}, `)}` : `${unsignedPercent(rel, locale)} ${direction === 'up' ? 'above' : 'below'} ${base}`;
+  // A rate or share is above or below by points, not by a percentage of itself.
+  const by = metric.unit === 'percent' && f.total.change !== null ? valueText(Math.abs(f.total.change), metric, locale, true).replace(/^\+/, '') : unsignedPercent(rel, locale);
+  const where = direction === 'level' ? `level with ${base.replace(/ \(/, ` (${formatChange(rel, locale)}, `)}` : `${by} ${direction === 'up' ? 'above' : 'below'} ${base}`;
   return { direction, higherIsBetter: metricDirection(metric), statement: wholeYears(current) ? `${label} in ${spanText(current, locale)} ${verbFor(label, 'was')} ${where}` : `${label} ${verbFor(label)} ${where}` };
 }
 

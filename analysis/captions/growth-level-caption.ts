@@ -3,7 +3,7 @@
 // slope, decade by decade), never as a compound percentage. Written only from findings.
 import { metricDirection } from '../catalog.js';
 import type { Metric } from '../../config/schema.js';
-import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
+import { formatPeriod, formatUnitChange, formatValue, valueFormatOf } from '../format.js';
 import type { Audience, Grain } from '../types.js';
 import type { GrowthSeriesFindings, GrowthWords } from './growth-series-caption.js';
 import type { Verdict } from './verdict-words.js';
@@ -14,7 +14,7 @@ import { lower, periodText, yearText } from './growth-words.js';
 export function levelGrowthWords(metric: Metric, grain: Grain, f: GrowthSeriesFindings, locale: string, audience: Audience): GrowthWords {
   const fmt = valueFormatOf(metric, locale);
   const v = (x: number) => formatValue(x, fmt, { compact: true });
-  const d = (x: number) => formatValue(x, fmt, { compact: true, signed: true });
+  const d = (x: number) => formatUnitChange(x, fmt, { compact: true, signed: true });
   const label = labelAtStart(metric.label);
   const complete = (f.years?.years ?? []).filter((y) => y.complete && y.value !== null);
   // A change on the year before only between two complete years in a row.
@@ -61,7 +61,7 @@ export function levelGrowthWords(metric: Metric, grain: Grain, f: GrowthSeriesFi
     const decade = span >= 10 ? ` (${v(Math.abs(rate.perYear) * 10)} a decade)` : '';
     const verb = rate.perYear > 0 ? 'rose' : rate.perYear < 0 ? 'fell' : 'changed';
     const method = audience === 'analysts' ? ' (Sen’s slope of the yearly values)' : '';
-    sentences.push(`From ${yearText(rate.from, locale)} to ${yearText(rate.to, locale)} it ${verb} about ${v(Math.abs(rate.perYear))} a year${decade}${method}.`);
+    sentences.push(`From ${yearText(rate.from, locale)} to ${yearText(rate.to, locale)} it ${verb} about ${d(Math.abs(rate.perYear)).replace(/^\+/, "")} a year${decade}${method}.`);
     if (rate.byDecade.length >= 2) sentences.push(`Decade by decade, the change a year was ${rate.byDecade.map((x) => `${d(x.perYear)} in the ${x.decade}s`).join(', ')}.`);
   }
   if (latest && latestChange !== null) sentences.push(`Latest complete ${grain}, ${periodText(latest.period, grain, locale, 'long')}: ${d(latestChange)} on a year earlier.`);
@@ -72,7 +72,7 @@ export function levelGrowthWords(metric: Metric, grain: Grain, f: GrowthSeriesFi
 /** The latest year so far (else the latest complete year) against the year before, in units; "level" only when it prints as zero. */
 export function levelGrowthVerdict(metric: Metric, f: GrowthSeriesFindings, locale: string): Verdict | null {
   const fmt = valueFormatOf(metric, locale);
-  const d = (x: number) => formatValue(x, fmt, { compact: true, signed: true });
+  const d = (x: number) => formatUnitChange(x, fmt, { compact: true, signed: true });
   const direction = (x: number) => (/^[^1-9]*$/.test(formatValue(x, fmt, { compact: true })) ? 'level' : x > 0 ? 'up' : 'down');
   const label = lower(metric.label);
   if (f.ytd && f.ytd.absolute !== null) {

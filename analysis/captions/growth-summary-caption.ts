@@ -2,7 +2,7 @@
 import { countOf, labelAtStart, possessive } from './grammar.js';
 import type { Metric } from '../../config/schema.js';
 import type { GrowthRateSummaryFinding } from '../findings/growth.js';
-import { formatChange, formatValue, valueFormatOf } from '../format.js';
+import { formatChange, formatUnitChange, formatValue, valueFormatOf } from '../format.js';
 import type { Audience } from '../types.js';
 import type { GrowthWords } from './growth-series-caption.js';
 import { formatPoints, lower, periodText, plural } from './growth-words.js';
@@ -24,8 +24,8 @@ export function growthSummaryWords(metric: Metric, f: GrowthRateSummaryFinding |
   // A level's changes are in its units ("+2.5 ppm"); a flow's and a ratio's are relative.
   const units = f.measure === 'units';
   const fmt = valueFormatOf(metric, locale);
-  const pct = (v: number | null) => (units ? formatValue(v, fmt, { compact: true, signed: true }) : formatChange(v, locale));
-  const spread = (sd: number) => (units ? formatValue(sd, fmt, { compact: true }) : formatPoints(sd, locale).replace(/^\+/, ''));
+  const pct = (v: number | null) => (units ? formatUnitChange(v, fmt, { compact: true, signed: true }) : formatChange(v, locale));
+  const spread = (sd: number) => (units ? formatUnitChange(sd, fmt, { compact: true }) : formatPoints(sd, locale).replace(/^\+/, ''));
   const growth = units ? 'change' : 'growth';
   const title =
     f.n === 1

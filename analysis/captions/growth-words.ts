@@ -3,7 +3,7 @@
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { GrowthSeriesFinding, GrowthSpan } from '../findings/growth.js';
 import { changesInUnits } from '../catalog.js';
-import { formatChange, formatPeriod, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
+import { formatChange, formatPeriod, formatUnitChange, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
 import { addDays, addMonths } from '../periods.js';
 import { TINY_BASE_FRACTION } from '../stats/index.js';
 import type { Answer, Audience, Caveat, Grain } from '../types.js';
@@ -63,8 +63,9 @@ export function formatShare(share: number | null, locale: string): string {
   return formatValue(share, { unit: 'percent', decimals: 1, locale });
 }
 
+/** A metric's value; signed, a change in its units (a rate's in points: see formatUnitChange). */
 export function valueText(value: number | null, metric: Metric, locale: string, signed = false): string {
-  return formatValue(value, valueFormatOf(metric, locale), { compact: true, signed });
+  return signed ? formatUnitChange(value, valueFormatOf(metric, locale), { compact: true, signed }) : formatValue(value, valueFormatOf(metric, locale), { compact: true });
 }
 
 export function yearText(iso: string, locale: string): string {
@@ -199,7 +200,8 @@ export function isAnalyst(audience: Audience): boolean {
 
 /** A level, or a quantity signed in the window asked about, grows in its units, never in percent. */
 export function growthInUnits(metric: Metric, series: GrowthSeriesFinding | undefined): boolean {
-  return changesInUnits(metric) || series?.inUnits === true;
+  // A rate or share moves in points, never in percent of itself (issue: rates and shares move in points).
+  return changesInUnits(metric) || metric.unit === 'percent' || series?.inUnits === true;
 }
 
 /** The tiny-base cut-off in words, not as a percentage figure a reader would look for in the table ("a tenth"). */

@@ -24,7 +24,7 @@ export const growthSummaryTemplate: Template = {
       const metric = metricByName(ctx.dataset, f.metric);
       // A level, or a quantity signed in this window (an average delay that goes below zero), changes in its units.
       const complete = f.points.filter((p) => !p.partial).map((p) => p.value);
-      const summary = summarizeRates(f, changesInUnits(metric) || percentScale(complete, isAdditive(metric)).signed);
+      const summary = summarizeRates(f, changesInUnits(metric) || metric.unit === 'percent' || percentScale(complete, isAdditive(metric)).signed);
       if (summary.n === 0) caveats.push({ code: 'single_period', data: { metric: f.metric, rates: 0 } });
       else if (summary.n < SMALL_RATE_COUNT) caveats.push({ code: 'small_sample', data: { n: summary.n, metric: f.metric } });
       findings.push(summary);
