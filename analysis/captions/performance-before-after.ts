@@ -67,6 +67,12 @@ export function beforeAfterWords(findings: readonly Finding[], ctx: WordsContext
       const why = none ? ` ${noTestWords(none, ctx, rows)}` : '';
       return { title, caption: `${intro}${why}`, notes, takeaway: null, clear: false };
     }
+    // A count per day is each group's volume: with no members before the launch it says how many
+    // customers joined, not whether anyone changed, so it is stated as volumes and not as a finding.
+    if (quantity === 'per_day') {
+      const volumes = `In the ${sides}, ${inText(m)} accounted for ${value(between.first)} ${inText(label)} against ${value(between.second)} for ${inText(o)}: totals a day follow how many each group holds, not how each behaves, so they are not compared as a result.`;
+      return { title: `${label} before and after the ${group.label} launch: no like-for-like comparison`, caption: `${intro} ${volumes}`, notes, takeaway: null, clear: false };
+    }
     const chance = chancePhrase(between.pValue, verdict.alpha);
     const shift = othersShift
       ? `${inText(o)}' own ${inText(label)} ${othersShift.difference > 0 ? 'rose' : othersShift.difference < 0 ? 'fell' : 'held'} ${

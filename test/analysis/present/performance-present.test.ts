@@ -292,6 +292,30 @@ describe('performance_before_after captions', () => {
     expect(chart.events).toEqual([{ index: 2, label: 'SkerryPass launch' }]);
   });
 
+  it('members absent before the launch, a count per day: the groups\' volumes are said, never a result or a summary line', () => {
+    // Bookings per day of each group follow how many customers it holds (the demo's pass holders
+    // book 2.5 times as often per customer, yet make fewer bookings a day as a group).
+    const counts = (role: 'members' | 'others', from: number): PerformanceFinding => ({ ...series(role, from), metric: 'bookings', quantity: 'per_day' } as PerformanceFinding);
+    const perDay = (comparison: 'members_vs_others' | 'others_after_vs_before', first: number, second: number, p: number): PerformanceFinding => ({ ...diff(comparison, first, second, p), metric: 'bookings', measure: 'mean' } as PerformanceFinding);
+    const a = answer(sq('performance_before_after', { lens: 'time_pattern', metrics: ['bookings'] }), [
+      counts('members', 30),
+      counts('others', 130),
+      periods,
+      { type: 'performance_did_not_applicable', metric: 'bookings', reason: 'members_empty_before' },
+      perDay('others_after_vs_before', 132, 156, 1e-10),
+      perDay('members_vs_others', 34, 132, 1e-100),
+      { type: 'performance_verdict', metric: 'bookings', comparison: 'members_vs_others', verdict: 'no_clear_difference', direction: 'lower', basis: 'test', pValue: 1e-100, alpha: 0.05, higherIsBetter: null, relative: -0.74 },
+    ]);
+    for (const audience of ['leadership', 'managers', 'analysts'] as const) {
+      const p = present(a, audience);
+      expect(p.title).toBe('Bookings per day before and after the SkerryPass launch: no like-for-like comparison');
+      expect(p.title).not.toMatch(/lower|higher|%/);
+      expect(p.caption).toContain('pass holders accounted for 34.0 bookings per day against 132 for other customers');
+      expect(p.caption).toContain('not how each behaves');
+      expect(p.takeaway).toBeNull();
+    }
+  });
+
   it('with a DiD: the four cells, the estimate, and the parallel-trends caution', () => {
     const a = answer(sq('performance_before_after', { lens: 'time_pattern' }), [
       series('members', 33),
