@@ -5,7 +5,8 @@ import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
 import type { Audience, Finding } from '../types.js';
 import { inSentence, labelAtStart, listJoin, verbFor } from './grammar.js';
 import type { Words } from './trend-test-caption.js';
-import { formatIndex, formatRelativeSize, grainNoun, monthName, monthPair, weekdayName } from './trend-words.js';
+import { formatIndex, formatP, formatRelativeSize, grainNoun, monthName, monthPair, weekdayName } from './trend-words.js';
+import { STABLE_SEASONALITY_ALPHA } from '../stats/stable-seasonality.js';
 
 /** `perDayAsked`: the request compared months per day ("which months have the most bookings per day"), so the title ranks them so. */
 export function seasonalityWords(metric: Metric, additive: boolean, findings: readonly Finding[], audience: Audience, locale: string, perDayAsked = false): Words {
@@ -32,6 +33,18 @@ export function seasonalityWords(metric: Metric, additive: boolean, findings: re
     ? `${monthPair(b0, b1, locale)} are the busiest months${held}`
     : `${labelAtStart(metric.label)} ${verbFor(metric.label)} highest in ${monthPair(b0, b1, locale)}${held}`;
 
+  // Months that differ by no more than the years' own swings are no season to plan by: the title
+  // says so rather than naming the months that happened to come out highest.
+  if (s.stable && s.stable.pValue >= STABLE_SEASONALITY_ALPHA) {
+    const test = audience === 'analysts'
+      ? ` (X-11 F-test for stable seasonality: F = ${formatIndex(s.stable.f, locale)}, df ${s.stable.df1} and ${s.stable.df2}, p ${formatP(s.stable.pValue, locale)}; seasonality is taken as present below p = 0.001)`
+      : '';
+    const highest = `On average ${monthPair(b0, b1, locale)} came out highest and ${monthPair(q0, q1, locale)} lowest, but by no more than chance would give from year to year${test}.`;
+    return {
+      title: `${labelAtStart(metric.label)}: no steady seasonal pattern across the months`,
+      caption: `${highest}${weekday ? ` ${weekday}` : ''}`,
+    };
+  }
   if (s.model === 'additive') {
     const caption = levelSeasonCaption(metric, s, audience, locale);
     return { title, caption: weekday ? `${caption} ${weekday}` : caption };

@@ -1,5 +1,6 @@
 // Findings of the trend family's extra lenses (trend test, seasonality, summary) and of the
 // segment machinery (segment trends, segment shares). Numbers, periods and segment keys only.
+import type { StableSeasonalityTest } from '../stats/stable-seasonality.js';
 import type { DecadeSlope } from '../stats/decades.js';
 import type { SeasonalModel } from '../stats/decomposition.js';
 import type { HhiBand } from '../stats/concentration.js';
@@ -81,6 +82,8 @@ export interface TrendSeasonalityFinding {
   /** The two months with the highest and the two with the lowest index, highest (or lowest) first. */
   busiest: [number, number];
   quietest: [number, number];
+  /** X-11's F-test for stable seasonality over the detrended values by month; absent when too few to test. */
+  stable?: StableSeasonalityTest;
   /**
    * A flow's months by total and by the day (months differ in length: February has 28 or 29
    * days), over the full calendar years; absent for levels and ratios, or without a full year.

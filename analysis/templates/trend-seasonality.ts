@@ -1,6 +1,7 @@
 // Template "trend_seasonality": the calendar pattern of a metric. Monthly series → classical
 // seasonal indices (period 12; multiplicative, or additive in units for a level), the busiest and quietest months and in how many
 // full years each held, plus the day-of-week pattern from a second grouped query.
+import { stableSeasonalityTest } from '../stats/stable-seasonality.js';
 import { isAdditive, metricByName, quantityKind, seasonalModel } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
@@ -139,6 +140,9 @@ function seasonalityOf(metric: string, points: readonly PeriodPoint[], model: Se
     months[order[PERIOD - 2]!.k]!.bottomTwoIn++;
   }
   const byIndex = months.map((m) => m.month).sort((a, b) => result.indices[b - 1]! - result.indices[a - 1]! || a - b);
+  // Whether the months differ by more than the year-to-year noise (X-11's stable-seasonality F-test).
+  const bySeason = Array.from({ length: PERIOD }, (_, k) => result.cycles.map((c) => c.ratios[k]).filter((r): r is number => r !== null && r !== undefined));
+  const stable = stableSeasonalityTest(bySeason);
   return {
     kind: 'ok',
     finding: {
@@ -153,6 +157,7 @@ function seasonalityOf(metric: string, points: readonly PeriodPoint[], model: Se
       rangeToYear: rangeYears[rangeYears.length - 1] ?? null,
       busiest: [byIndex[0]!, byIndex[1]!],
       quietest: [byIndex[PERIOD - 1]!, byIndex[PERIOD - 2]!],
+      ...(stable ? { stable } : {}),
       ...(flow && fullYears.size > 0 ? { perDay: totalsPerDay(fullYears) } : {}),
     },
   };

@@ -72,14 +72,15 @@ describe('init on numbers that are codes, years and identifiers', () => {
     expect(text).toContain('# left out by init (numbers that are not amounts; add a dimension if you need one): year_built');
   });
 
-  it('averages readings per country per year rather than adding them up (gapminder.json: life expectancy, fertility and population by country, every 5 years)', async () => {
+  it('averages readings per country per year rather than adding them up, and totals the population across countries in a year (gapminder.json: life expectancy, fertility and population by country, every 5 years)', async () => {
     const rows = JSON.parse(readFileSync(vegaDataFile('gapminder.json'), 'utf8')) as { country: string; year: number }[];
     // One row per country per year: the file's own shape, checked here.
     expect(new Set(rows.map((r) => `${r.country}|${r.year}`)).size).toBe(rows.length);
     const { ds, file } = await draft(vegaDataFile('gapminder.json'));
     expect(ds.time_column).toEqual({ year: 'year' });
-    expect(ds.metrics.filter((m) => m.average).map((m) => m.average)).toEqual(['pop', 'life_expect', 'fertility']);
-    expect(summed(ds)).toEqual([]);
+    expect(ds.metrics.filter((m) => m.average).map((m) => m.average)).toEqual(['life_expect', 'fertility']);
+    // People add up across countries in one year but not over the years: a sum of kind level.
+    expect(ds.metrics.find((m) => m.name === 'pop')).toMatchObject({ sum: 'pop', kind: 'level' });
     const check = await run(['check', '--config', file]);
     expect(check.code, check.out).toBe(0);
   });

@@ -206,7 +206,7 @@ describe('growth_drivers on the demo data', () => {
     const sq: SubQuestion = { ...SERIES, template: 'growth_drivers', lens: 'breakdown', metrics: ['revenue'], dimension: 'channel', window: { start: '2023-06-01', end: '2023-09-01' } };
     const answer = await answerSubQuestion(sq, ws);
     const firstKiosk = raw.filter((r) => r.channel === 'kiosk' && inSpan(r, '2023-06-01', '2023-09-01')).reduce((m, r) => (r.day < m ? r.day : m), '9999');
-    expect(answer.caveats).toContainEqual({ code: 'late_segment', data: { segment: 'kiosk', firstPeriod: firstKiosk, grain: 'day' } });
+    expect(answer.caveats).toContainEqual({ code: 'late_segment', data: expect.objectContaining({ segment: 'kiosk', firstPeriod: firstKiosk, grain: 'day' }) });
     const kiosk = (pick(answer, 'growth_drivers', 'revenue') as GrowthDriversFinding).segments.find((s) => s.segment === 'kiosk')!;
     expect(kiosk.before).toBe(0);
     closeRel(kiosk.after, revenue('2023-06-01', '2023-09-01', (r) => r.channel === 'kiosk'));
