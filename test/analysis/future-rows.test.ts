@@ -13,10 +13,10 @@ import { SUB_QUESTIONS } from '../../analysis/sub-questions/registry.js';
 import type { SubQuestion } from '../../analysis/types.js';
 import { parseConfigText } from '../../config/load.js';
 import { checkConfig, formatCheckReport } from '../../analysis/sources/dataset-check.js';
-import { vegaDataFile } from '../helpers/open-data.js';
+import { MOVIES_FILE, MOVIES_RELEASE, moviesConfigText, vegaDataFile } from '../helpers/open-data.js';
 
-const MOVIES = vegaDataFile('movies.json');
-const RELEASE = `strptime("Release Date", '%b %d %Y')`;
+const MOVIES = MOVIES_FILE;
+const RELEASE = MOVIES_RELEASE;
 // The run's clock: the day the newcomer's trial ran.
 const now = new Date('2026-12-05T09:00:00Z');
 
@@ -42,16 +42,7 @@ describe('rows dated after today (movies.json, vega-datasets)', () => {
   let truth: Awaited<ReturnType<typeof datesAround>>;
   beforeAll(async () => {
     const config = parseConfigText(
-      `version: 1
-datasets:
-  - name: movies
-    label: Movies
-    source: { kind: json, paths: ["${MOVIES}"] }
-    time_column: { expr: '${RELEASE.replace(/'/g, "''")}' }
-    timezone: UTC
-    metrics:
-      - { name: worldwide_gross, label: Worldwide Gross, sum: '"Worldwide Gross"', unit: number, kind: flow }
-`,
+      moviesConfigText([`{ name: worldwide_gross, label: Worldwide Gross, sum: '"Worldwide Gross"', unit: number, kind: flow }`]),
       '/virtual/future-rows.yaml',
     );
     loaded = config;

@@ -35,3 +35,22 @@ datasets:
 `);
   return file;
 }
+
+/** vega-datasets' movies.json (films with their grosses and release dates, "Jun 12 1998") and its release date as a DuckDB expression. */
+export const MOVIES_FILE = vegaDataFile('movies.json');
+export const MOVIES_RELEASE = `strptime("Release Date", '%b %d %Y')`;
+
+/** A config text over movies.json dated by release, with the given metric and dimension lines (YAML flow mappings). */
+export function moviesConfigText(metrics: readonly string[], dimensions: readonly string[] = []): string {
+  return `version: 1
+datasets:
+  - name: movies
+    label: Movies
+    source: { kind: json, paths: ["${MOVIES_FILE}"] }
+    time_column: { expr: '${MOVIES_RELEASE.replace(/'/g, "''")}' }
+    timezone: UTC
+    metrics:
+${metrics.map((m) => `      - ${m}`).join('\n')}
+    dimensions:${dimensions.length ? `\n${dimensions.map((d) => `      - ${d}`).join('\n')}` : ' []'}
+`;
+}

@@ -13,11 +13,11 @@ import type { SubQuestion } from '../../../analysis/types.js';
 import { openWorkspace, type Workspace } from '../../../analysis/workspace.js';
 import { parseConfigText } from '../../../config/load.js';
 import { presentContext } from '../../../bot/present-answer.js';
-import { vegaDataFile } from '../../helpers/open-data.js';
+import { MOVIES_FILE, MOVIES_RELEASE, moviesConfigText, vegaDataFile } from '../../helpers/open-data.js';
 import { SEATTLE_WEATHER_CSV, seattleWeatherConfig } from '../stats/seattle-weather.js';
 
-const MOVIES = vegaDataFile('movies.json');
-const RELEASE = `strptime("Release Date", '%b %d %Y')`;
+const MOVIES = MOVIES_FILE;
+const RELEASE = MOVIES_RELEASE;
 const Y2014 = { start: '2014-01-01', end: '2015-01-01' };
 const Y2015 = { start: '2015-01-01', end: '2016-01-01' };
 
@@ -115,19 +115,7 @@ describe('like for like on distributors and genres (movies.json, vega-datasets)'
   let ws: Workspace;
   beforeAll(async () => {
     const config = parseConfigText(
-      `version: 1
-datasets:
-  - name: movies
-    label: Movies
-    source: { kind: json, paths: ["${MOVIES}"] }
-    time_column: { expr: '${RELEASE.replace(/'/g, "''")}' }
-    timezone: UTC
-    metrics:
-      - { name: worldwide_gross, label: Worldwide Gross, sum: '"Worldwide Gross"', unit: number, kind: flow }
-    dimensions:
-      - { name: distributor, label: Distributor, column: Distributor }
-      - { name: major_genre, label: Major Genre, column: Major Genre }
-`,
+      moviesConfigText([`{ name: worldwide_gross, label: Worldwide Gross, sum: '"Worldwide Gross"', unit: number, kind: flow }`], [`{ name: distributor, label: Distributor, column: Distributor }`, `{ name: major_genre, label: Major Genre, column: Major Genre }`]),
       '/virtual/movies-lfl.yaml',
     );
     ws = await openWorkspace(config, undefined, {}, new Date('2026-12-05T09:00:00Z'));

@@ -16,10 +16,10 @@ import { presentContext } from '../../../bot/present-answer.js';
 import { buildPlan } from '../../../bot/plan.js';
 import { readRequest } from '../../../bot/reading/read-request.js';
 import { captionProblems } from '../../helpers/caption-checks.js';
-import { vegaDataFile } from '../../helpers/open-data.js';
+import { MOVIES_FILE, MOVIES_RELEASE, moviesConfigText, vegaDataFile } from '../../helpers/open-data.js';
 
-const MOVIES = vegaDataFile('movies.json');
-const RELEASE = `strptime("Release Date", '%b %d %Y')`;
+const MOVIES = MOVIES_FILE;
+const RELEASE = MOVIES_RELEASE;
 const TODAY = new Date('2026-12-05T09:00:00Z');
 
 let ws: Workspace;
@@ -27,19 +27,7 @@ let ws: Workspace;
 let truth: Map<string, { films: number; withGross: number; mean: number; median: number; total: number }>;
 beforeAll(async () => {
   const config = parseConfigText(
-    `version: 1
-datasets:
-  - name: movies
-    label: Movies
-    source: { kind: json, paths: ["${MOVIES}"] }
-    time_column: { expr: '${RELEASE.replace(/'/g, "''")}' }
-    timezone: UTC
-    metrics:
-      - { name: rows, label: Films released, also_called: [films, movies], count: rows, unit: count, kind: flow }
-      - { name: worldwide_gross, label: Worldwide Gross, sum: '"Worldwide Gross"', unit: number, kind: flow }
-    dimensions:
-      - { name: major_genre, label: Major Genre, also_called: [genre], column: Major Genre }
-`,
+    moviesConfigText([`{ name: rows, label: Films released, also_called: [films, movies], count: rows, unit: count, kind: flow }`, `{ name: worldwide_gross, label: Worldwide Gross, sum: '"Worldwide Gross"', unit: number, kind: flow }`], [`{ name: major_genre, label: Major Genre, also_called: [genre], column: Major Genre }`]),
     '/virtual/movies-per-row.yaml',
   );
   ws = await openWorkspace(config, undefined, {}, TODAY);
