@@ -202,7 +202,9 @@ function addPeriodTables(drafts: Draft[], q: Question, brief: Brief, metrics: st
  * A question's hints that one of two questions may give and the other not ("top 10 pls" after
  * "which distributors earned the most", a year named to compare with): a shared item takes them.
  */
-const SHARED_HINTS = ['rateUnit', 'rankLimit', 'rankOrder', 'compareWindow'] as const;
+// A stretch named by its start (spanEnds, "since 2000") is a hint too: the question that gave it
+// and one that only adds "top 10" plan the same item.
+const SHARED_HINTS = ['rateUnit', 'rankLimit', 'rankOrder', 'compareWindow', 'spanEnds'] as const;
 
 /**
  * Whether two drafts come to the same item: everything but whether either heads its question is
@@ -214,7 +216,7 @@ const SHARED_HINTS = ['rateUnit', 'rankLimit', 'rankOrder', 'compareWindow'] as 
  */
 function sameItem(a: Draft, b: Draft, ds: DatasetConfig): boolean {
   const core = (d: Draft) => {
-    const { headline: _h, first: _f, defaultBreakdown: _d, rateUnit: _r, rankLimit: _l, rankOrder: _o, compareWindow: _c, ...rest } = d;
+    const { headline: _h, first: _f, defaultBreakdown: _d, rateUnit: _r, rankLimit: _l, rankOrder: _o, compareWindow: _c, spanEnds: _s, ...rest } = d;
     return rest;
   };
   if (!isDeepStrictEqual(core(a), core(b))) return false;
