@@ -112,6 +112,11 @@ export function isoWeeksInYear(year: number): number {
  * fixed 52 weeks instead lands one week off for a whole year after every 53-week year.
  */
 export function sameIsoWeekLastYear(weekStart: string): string | null {
+  return sameIsoWeekYearsEarlier(weekStart, 1);
+}
+
+/** The week with the same ISO week number `years` ISO years earlier (null when that year has no such week). */
+export function sameIsoWeekYearsEarlier(weekStart: string, years: number): string | null {
   const { year, week } = isoWeekOf(weekStart);
-  return week > isoWeeksInYear(year - 1) ? null : isoWeekStart(year - 1, week);
+  return week > isoWeeksInYear(year - years) ? null : isoWeekStart(year - years, week);
 }

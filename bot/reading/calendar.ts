@@ -2,7 +2,7 @@
 // seasons, ISO weeks and years a request names, and the arithmetic a like-for-like comparison
 // needs. Month arithmetic clamps to the month's last day (31 January plus a month is 28 or 29
 // February), as people count.
-import { addDays, isoWeekOf, isoWeekStart, periodStart } from '../../analysis/periods.js';
+import { addDays, isoWeekOf, isoWeekStart, periodStart, sameIsoWeekYearsEarlier } from '../../analysis/periods.js';
 import type { DateWindow } from '../../analysis/types.js';
 
 export type PeriodUnit = 'day' | 'week' | 'month' | 'quarter' | 'half' | 'season' | 'year';
@@ -151,12 +151,26 @@ export function shiftMonths(w: DateWindow, months: number): DateWindow {
   return { start: addMonthsClamped(w.start, months), end: addMonthsClamped(w.end, months) };
 }
 
+/**
+ * A window of weeks moved back by whole years to the same ISO week numbers (README: a year earlier
+ * is the same ISO week for weeks), so Monday stays Monday; the same dates would start on another
+ * weekday. A window clipped inside its week moves by the same number of days. Undefined when the
+ * earlier year has no such week (a week 53).
+ */
+export function shiftWeeksYears(w: DateWindow, years: number): DateWindow | undefined {
+  const weekStart = startOfWeek(w.start);
+  const earlier = sameIsoWeekYearsEarlier(weekStart, years);
+  if (earlier === null) return undefined;
+  const days = daysBetween(earlier, weekStart);
+  return { start: addDays(w.start, -days), end: addDays(w.end, -days) };
+}
+
 /** A window moved back by whole years, keeping calendar position (29 February becomes the 28th). */
 export function shiftYears(w: DateWindow, years: number): DateWindow {
   return shiftMonths(w, -12 * years);
 }
 
-/** The window of the same calendar position as `w` but a week's worth of ISO weeks earlier, for a week. */
+/** Monday of the ISO week holding a date. */
 export function startOfWeek(iso: string): string {
   return periodStart(iso, 'week');
 }

@@ -9,7 +9,7 @@ import type { DateWindow, Grain, RankOrder, RequestKind, SegmentFilter, SpanEnds
 import type { ValueIndex } from '../../analysis/values/value-index.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { AmbiguousValue, Askable, Brief, BriefSlot, Evidence, Question } from '../brief.js';
-import { daysBetween, minIso, monthWindow, periodHolding, type PeriodUnit, shiftMonths, shiftPeriod, yearOf } from './calendar.js';
+import { daysBetween, minIso, monthWindow, periodHolding, type PeriodUnit, shiftMonths, shiftPeriod, shiftWeeksYears, yearOf } from './calendar.js';
 import { type CatalogEntry, type CatalogHit, closestEntries, findCatalogHits, prepareCatalog, type PreparedCatalog } from './catalog-match.js';
 import { splitClauses, type Clause } from './clauses.js';
 import { stem } from './catalog-match.js';
@@ -1130,7 +1130,7 @@ function compareOf(window: DateWindow, main: PeriodMention, other: PeriodMention
       return { start: addDays(window.start, -days), end: window.start };
     }
     const months = { year: 12, half: 6, quarter: 3, season: 12, month: 1, week: 0, day: 0 }[unit];
-    if (months > 0) return shiftMonths(window, -months * n);
+    if (months > 0) return yearsEarlier(window, main, months * n);
     const days = unit === 'week' ? 7 * n : n;
     return { start: addDays(window.start, -days), end: addDays(window.end, -days) };
   }
@@ -1146,9 +1146,14 @@ function compareOf(window: DateWindow, main: PeriodMention, other: PeriodMention
     }
     const months = coarser || (relativeLast && other.unit === 'year') ? 12 * (yearOf(mainRaw.start) - yearOf(raw.start)) : monthsBetween(raw.start, mainRaw.start);
     if (months <= 0) return clip(raw, st);
-    return shiftMonths(window, -months);
+    return yearsEarlier(window, main, months);
   }
   return clip(raw, st);
+}
+
+/** `months` back; whole years back from a week ("week 46 ... the same week last year") keep its ISO week number. */
+function yearsEarlier(window: DateWindow, main: PeriodMention, months: number): DateWindow {
+  return (main.unit === 'week' && months % 12 === 0 ? shiftWeeksYears(window, months / 12) : undefined) ?? shiftMonths(window, -months);
 }
 
 function monthsBetween(a: string, b: string): number {
