@@ -72,6 +72,8 @@ export interface SubQuestion {
   rankLimit?: number;
   /** "worst 10", "lowest 5": segments ranked by the metric's value in this direction (see rankDescending). */
   rankOrder?: RankOrder;
+  /** "what's the busiest day of the week?": the days of the week lead the seasonal pattern's title, chart and caption. */
+  weekdaysAsked?: boolean;
   /** This item answers the question as it was asked (a ranking asked with "which … the most"): the summary leads with it. */
   answersAsked?: boolean;
   /** "how fast per decade": the unit a rate of change is stated in. */

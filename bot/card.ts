@@ -288,8 +288,9 @@ function restate(q: Question, ds: DatasetConfig, ctx: CardContext): string {
       return `${cap(what)} before and after ${q.launchDate ? longDate(q.launchDate, ctx.locale) : 'the change'}.`;
     default:
       // A question about when things peak keeps that detail, so it is not folded into "how it moved".
-      if (SEASON_ASK.test(q.text) || /\bseason/i.test(q.text)) return `When in the year ${what}${only} ${is} highest and lowest${by}${w ? `, ${w}` : ''}.`;
+      // "the busiest day of the week" asks about weekdays, though "busiest" alone asks about the year.
       if (WEEKDAY_ASK.test(q.text)) return `Which days of the week ${what}${only} ${is} highest and lowest on${by}${w ? `, ${w}` : ''}.`;
+      if (SEASON_ASK.test(q.text) || /\bseason/i.test(q.text)) return `When in the year ${what}${only} ${is} highest and lowest${by}${w ? `, ${w}` : ''}.`;
       return `How ${what}${only} moved${by}${w ? `, ${w}` : ' over time'}.`;
   }
 }

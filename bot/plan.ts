@@ -104,10 +104,11 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           // "Which species cause the most cost", "top 5 busiest airports": the ranking of the
           // breakdown heads the question's answers (bars by value where shares do not apply).
           if (ranks) for (const d of dims) add('segment_shares', metric, true, { dimension: d, answersAsked: true });
-          add('series', metric, !ranks);
           // The days of the week asked about ("which weekday", "by day of week"): the time pattern
-          // answers it (on daily data) whatever the grain, and heads the question.
-          if (grain === 'month' || WEEKDAY_ASK.test(q.text.toLowerCase())) add('trend_seasonality', metric, WEEKDAY_ASK.test(q.text.toLowerCase()));
+          // answers it (on daily data) whatever the grain, heads the question and leads the summary.
+          const weekdays = WEEKDAY_ASK.test(q.text.toLowerCase());
+          add('series', metric, !ranks && !weekdays);
+          if (grain === 'month' || weekdays) add('trend_seasonality', metric, weekdays, weekdays ? { weekdaysAsked: true, answersAsked: true } : {});
           add('trend_test', metric, false);
           add('trend_summary', metric, false);
           for (const d of dims) add('segment_trend', metric, false, { dimension: d });

@@ -8,11 +8,26 @@ import type { Words } from './trend-test-caption.js';
 import { formatIndex, formatP, formatRelativeSize, grainNoun, monthName, monthPair, weekdayName } from './trend-words.js';
 import { STABLE_SEASONALITY_ALPHA } from '../stats/stable-seasonality.js';
 
-/** `perDayAsked`: the request compared months per day ("which months have the most bookings per day"), so the title ranks them so. */
-export function seasonalityWords(metric: Metric, additive: boolean, findings: readonly Finding[], audience: Audience, locale: string, perDayAsked = false): Words {
+/**
+ * `perDayAsked`: the request compared months per day ("which months have the most bookings per
+ * day"), so the title ranks them so. `weekdaysAsked`: the request asked about the days of the week
+ * ("what's the busiest day of the week?"), so the weekdays lead the title and the caption and the
+ * months follow.
+ */
+export function seasonalityWords(metric: Metric, additive: boolean, findings: readonly Finding[], audience: Audience, locale: string, perDayAsked = false, weekdaysAsked = false): Words {
+  const w = findings.find((f): f is TrendWeekdayFinding => f.type === 'trend_weekday' && f.metric === metric.name);
+  const lead = weekdaysAsked && w ? weekdayTitle(metric, w, additive, locale) : null;
+  const months = monthWords(metric, additive, findings, audience, locale, perDayAsked, lead === null);
+  if (!lead) return months;
+  const weekday = weekdaySentence(w!, additive, audience, locale);
+  return { title: lead, caption: `${weekday} ${months.caption}`.trim() };
+}
+
+/** The months' title and caption; the weekday sentence closes the caption when `withWeekdays`. */
+function monthWords(metric: Metric, additive: boolean, findings: readonly Finding[], audience: Audience, locale: string, perDayAsked: boolean, withWeekdays: boolean): Words {
   const s = findings.find((f): f is TrendSeasonalityFinding => f.type === 'trend_seasonality' && f.metric === metric.name);
   const w = findings.find((f): f is TrendWeekdayFinding => f.type === 'trend_weekday' && f.metric === metric.name);
-  const weekday = w ? weekdaySentence(w, additive, audience, locale) : '';
+  const weekday = w && withWeekdays ? weekdaySentence(w, additive, audience, locale) : '';
   if (!s) {
     const series = findings.find((f): f is Extract<Finding, { type: 'series' }> => f.type === 'series' && f.metric === metric.name);
     const months = series ? series.points.filter((p) => !p.partial && p.value !== null).length : 0;
@@ -161,16 +176,38 @@ function levelSeasonCaption(metric: Metric, s: TrendSeasonalityFinding, audience
   return `${monthPair(b0, b1, locale)} are the highest months for ${inSentence(metric.label)} (${at(b0)}), ${monthPair(q0, q1, locale)} the lowest (${signed(byMonth(q0).index)} in ${name(q0)}).`;
 }
 
-function weekdaySentence(w: TrendWeekdayFinding, additive: boolean, audience: Audience, locale: string): string {
+/** The days of the week with an index, and the highest and lowest of them (null when fewer than two differ). */
+function weekdayEnds(w: TrendWeekdayFinding) {
   const days = w.days.filter((d): d is typeof d & { index: number } => d.index !== null);
-  if (days.length < 2) return '';
+  if (days.length < 2) return null;
   let hi = days[0]!;
   let lo = days[0]!;
   for (const d of days) {
     if (d.index > hi.index) hi = d;
     if (d.index < lo.index) lo = d;
   }
-  if (hi.index === lo.index) return '';
+  return hi.index === lo.index ? null : { days, hi, lo };
+}
+
+/**
+ * The headline of a question about the days of the week: the busiest (or highest) day, with its
+ * distance from the average; days that print the same are named together as a tie.
+ */
+function weekdayTitle(metric: Metric, w: TrendWeekdayFinding, additive: boolean, locale: string): string | null {
+  const ends = weekdayEnds(w);
+  if (!ends) return null;
+  const { days, hi } = ends;
+  const printed = (d: { index: number }) => besideAverage(d.index, additive ? 'an average day' : 'the average weekday', locale);
+  const top = days.filter((d) => printed(d) === printed(hi));
+  const names = listJoin(top.map((d) => weekdayName(d.isoDay, locale)));
+  if (additive) return top.length > 1 ? `${names} tie as the busiest days of the week (${printed(hi)})` : `${names} is the busiest day of the week (${printed(hi)})`;
+  return `${labelAtStart(metric.label)} ${verbFor(metric.label)} highest on ${names} (${printed(hi)})`;
+}
+
+function weekdaySentence(w: TrendWeekdayFinding, additive: boolean, audience: Audience, locale: string): string {
+  const ends = weekdayEnds(w);
+  if (!ends) return '';
+  const { days, hi, lo } = ends;
   const day = (n: number) => weekdayName(n, locale);
   const basis = additive ? 'an average day' : 'the average weekday';
   if (audience === 'analysts') {

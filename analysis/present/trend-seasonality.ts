@@ -14,33 +14,34 @@ export const presentTrendSeasonality: Presenter = (answer, ctx) => {
   const sq = answer.subQuestion;
   const metric = metricByName(ctx.dataset, sq.metrics[0]!);
   const additive = isAdditive(metric);
-  const words = seasonalityWords(metric, additive, answer.findings, ctx.audience, ctx.locale, sq.perDay === true);
+  const words = seasonalityWords(metric, additive, answer.findings, ctx.audience, ctx.locale, sq.perDay === true, sq.weekdaysAsked === true);
   const s = answer.findings.find((f): f is TrendSeasonalityFinding => f.type === 'trend_seasonality' && f.metric === metric.name);
   const w = answer.findings.find((f): f is TrendWeekdayFinding => f.type === 'trend_weekday' && f.metric === metric.name);
-  // The profile is monthly whatever grain was asked for, so the subtitle says "monthly".
-  const header = {
-    title: words.title,
-    chip: metric.label,
-    subtitle: chartSubtitle({ ...answer, subQuestion: { ...sq, grain: 'month' } }, metric, ctx),
-    footer: chartFooter(answer, ctx),
-    ...ctx.chart,
-  };
+  // Asked about the days of the week: their bars answer it; the months are in the caption.
+  const weekdayBars = w && w.days.some((d) => d.level !== null) ? w : undefined;
+  const profile = s && !(sq.weekdaysAsked && weekdayBars) ? s : undefined;
+  // The profile is monthly whatever grain was asked for, so the subtitle says "monthly"; the
+  // weekday bars are each day's average (a flow) or level, by day of the week.
+  const subtitle = profile
+    ? chartSubtitle({ ...answer, subQuestion: { ...sq, grain: 'month' } }, metric, ctx)
+    : `${chartSubtitle(answer, metric, ctx, { grain: false })} · ${additive ? 'average a day, by day of the week' : 'by day of the week'}`;
+  const header = { title: words.title, chip: metric.label, subtitle, footer: chartFooter(answer, ctx), ...ctx.chart };
   let chart = null;
-  if (s) {
+  if (profile) {
     chart = buildSeasonalProfile({
       ...header,
-      months: s.months.map((m) => ({ month: m.month, index: m.index, min: m.min, max: m.max })),
+      months: profile.months.map((m) => ({ month: m.month, index: m.index, min: m.min, max: m.max })),
       locale: ctx.locale,
-      rangeLabel: s.rangeFromYear !== null && s.rangeToYear !== null ? `Range across ${s.rangeFromYear}–${s.rangeToYear}` : 'Range across years',
-      ...(s.model === 'additive' ? { deviationFormat: valueFormatOf(metric, ctx.locale) } : {}),
+      rangeLabel: profile.rangeFromYear !== null && profile.rangeToYear !== null ? `Range across ${profile.rangeFromYear}–${profile.rangeToYear}` : 'Range across years',
+      ...(profile.model === 'additive' ? { deviationFormat: valueFormatOf(metric, ctx.locale) } : {}),
       // A flow's index is of monthly totals, which favour long months; the caption gives the
       // per-day order where it differs. Totals are kept: they are what a monthly report adds up.
-      ...(s.model !== 'additive' && additive ? { indexTitle: 'Index of monthly totals (average month = 1.0)' } : {}),
+      ...(profile.model !== 'additive' && additive ? { indexTitle: 'Index of monthly totals (average month = 1.0)' } : {}),
     });
-  } else if (w && w.days.some((d) => d.level !== null)) {
+  } else if (weekdayBars) {
     chart = buildBars({
       ...header,
-      items: w.days.flatMap((d) => (d.level === null ? [] : [{ label: weekdayName(d.isoDay, ctx.locale), value: d.level }])),
+      items: weekdayBars.days.flatMap((d) => (d.level === null ? [] : [{ label: weekdayName(d.isoDay, ctx.locale), value: d.level }])),
       format: valueFormatOf(metric, ctx.locale),
       topN: 7,
     });
@@ -50,6 +51,6 @@ export const presentTrendSeasonality: Presenter = (answer, ctx) => {
     caption: words.caption,
     notes: caveatNotes(answer, ctx),
     chart,
-    takeaway: s ? { importance: 55, text: words.title } : null,
+    takeaway: s || (sq.weekdaysAsked && weekdayBars) ? { importance: 55, text: words.title } : null,
   };
 };

@@ -10,5 +10,8 @@ export const trendSeasonalitySubQuestion = defineSubQuestion({
   rollup: {},
   template: trendSeasonalityTemplate,
   present: presentTrendSeasonality,
-  describe: (w) => `Which calendar months ${w.flow ? 'are busiest and quietest' : 'run highest and lowest'} for ${w.metric}, and how consistently across years.`,
+  describe: (w, sq) =>
+    sq.weekdaysAsked
+      ? `Which days of the week ${w.flow ? 'are busiest and quietest' : 'run highest and lowest'} for ${w.metric}, then the calendar months.`
+      : `Which calendar months ${w.flow ? 'are busiest and quietest' : 'run highest and lowest'} for ${w.metric}, and how consistently across years.`,
 });
