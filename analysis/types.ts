@@ -42,6 +42,13 @@ export interface SegmentFilter {
 export const RANK_ORDERS = ['highest', 'lowest', 'best', 'worst'] as const;
 export type RankOrder = (typeof RANK_ORDERS)[number];
 
+/**
+ * "Which channel is growing fastest", "the slowest-growing shop": segments ranked by their own
+ * growth rate, not by how much they added to the total (which "what drove it" asks).
+ */
+export const GROWTH_RANKS = ['fastest', 'slowest'] as const;
+export type GrowthRank = (typeof GROWTH_RANKS)[number];
+
 /** One small answerable question. Plain data: compiling and charting it are pure functions. */
 export interface SubQuestion {
   id: string;
@@ -74,6 +81,8 @@ export interface SubQuestion {
   rankOrder?: RankOrder;
   /** "what's the busiest day of the week?": the days of the week lead the seasonal pattern's title, chart and caption. */
   weekdaysAsked?: boolean;
+  /** "which channel is growing fastest": segments ranked by their own growth rate (see GrowthRank). */
+  growthRank?: GrowthRank;
   /** This item answers the question as it was asked (a ranking asked with "which … the most"): the summary leads with it. */
   answersAsked?: boolean;
   /** "how fast per decade": the unit a rate of change is stated in. */

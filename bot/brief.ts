@@ -1,7 +1,7 @@
 // A brief: what a request asks for, as data, with the words each part was read from. Written by
 // the reader (bot/reading/), completed by the requester's answers and corrections, and turned
 // into a plan. `threadcount read` prints it (bot/reading/brief-json.ts).
-import type { Audience, DateWindow, SpanEndsUnit, Grain, RankOrder, RequestKind, SegmentFilter } from '../analysis/types.js';
+import type { Audience, DateWindow, SpanEndsUnit, Grain, GrowthRank, RankOrder, RequestKind, SegmentFilter } from '../analysis/types.js';
 
 export { AUDIENCES, type Audience } from '../analysis/types.js';
 
@@ -47,6 +47,8 @@ export interface Question {
   rankLimit?: number;
   /** "worst 10", "lowest 5": rank by the metric's value in this direction. */
   rankOrder?: RankOrder;
+  /** "which channel is growing fastest": its breakdown ranked by each segment's own growth rate. */
+  growthRank?: GrowthRank;
   /** Asks which segments of its breakdown come first ("which species cause the most cost", "top 5 busiest airports"): the ranking is its answer. */
   ranking?: boolean;
   /** "per decade", "a year": the unit a rate of change is stated in. */

@@ -121,7 +121,8 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           const context = q.window && monthsIn(q.window) >= 13 ? q.window : history;
           add('series', metric, false, {}, context);
           add('growth_series', metric, !dims.length, {}, context);
-          for (const [i, d] of dims.entries()) add('growth_drivers', metric, i === 0, { dimension: d }, focus);
+          // "Which channel is growing fastest": the segments ranked by their own rate answer it, and head the question.
+          for (const [i, d] of dims.entries()) add('growth_drivers', metric, i === 0, { dimension: d, ...(q.growthRank ? { growthRank: q.growthRank, answersAsked: true } : {}) }, focus);
           add('growth_summary', metric, false, {}, context);
           if (additive) for (const d of dims) add('growth_share_shift', metric, false, { dimension: d }, focus);
           break;
@@ -205,7 +206,7 @@ function addPeriodTables(drafts: Draft[], q: Question, brief: Brief, metrics: st
  */
 // A stretch named by its start (spanEnds, "since 2000") is a hint too: the question that gave it
 // and one that only adds "top 10" plan the same item.
-const SHARED_HINTS = ['rateUnit', 'rankLimit', 'rankOrder', 'compareWindow', 'spanEnds'] as const;
+const SHARED_HINTS = ['rateUnit', 'rankLimit', 'rankOrder', 'growthRank', 'compareWindow', 'spanEnds'] as const;
 
 /**
  * Whether two drafts come to the same item: everything but whether either heads its question is
@@ -217,7 +218,7 @@ const SHARED_HINTS = ['rateUnit', 'rankLimit', 'rankOrder', 'compareWindow', 'sp
  */
 function sameItem(a: Draft, b: Draft, ds: DatasetConfig): boolean {
   const core = (d: Draft) => {
-    const { headline: _h, first: _f, defaultBreakdown: _d, rateUnit: _r, rankLimit: _l, rankOrder: _o, compareWindow: _c, spanEnds: _s, ...rest } = d;
+    const { headline: _h, first: _f, defaultBreakdown: _d, rateUnit: _r, rankLimit: _l, rankOrder: _o, growthRank: _g, compareWindow: _c, spanEnds: _s, ...rest } = d;
     return rest;
   };
   if (!isDeepStrictEqual(core(a), core(b))) return false;

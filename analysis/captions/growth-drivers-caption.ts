@@ -1,10 +1,12 @@
 // Title and caption for a growth_drivers answer: the total's change between the two spans and the
 // segments that moved it most, written only from the finding.
 import { isAdditive, metricDirection } from '../catalog.js';
-import { labelAtStart, verbFor } from './grammar.js';
+import { labelAtStart, listJoin, pluralNoun, verbFor } from './grammar.js';
 import { configuredAs } from './metric-words.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
-import type { ChangedSegment, GrowthDriverSegment, GrowthDriversFinding } from '../findings/growth.js';
+import type { ChangedSegment, GrowthDriverSegment, GrowthDriversFinding, GrowthRateRanking } from '../findings/growth.js';
+import { CLEAR_LEAD } from '../findings/segments.js';
+import { SMALL_BASE_SHARE } from '../templates/growth-rate-rank.js';
 import { formatChange, formatDayOfYear, formatGrowth, formatPeriod, formatValue } from '../format.js';
 import { quantityFormat } from './performance-words.js';
 import type { Audience } from '../types.js';
@@ -30,12 +32,22 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
   const top = f.segments.find((s) => s.change !== null && s.change !== 0);
   const dim = lower(dimensionLabel(f.dimension, dataset));
 
-  // A ratio's segments do not add up to its total, so a segment can only be said to have moved most, not to have driven it.
-  const driverTitle = !top
-    ? `No ${dim} changed ${lower(label)}`
-    : f.additive
-      ? `${capitalise(name(top))} drove the biggest change in ${lower(label)}: ${money(top.change, true)}`
-      : `${label} moved most for ${name(top)}: ${money(top.change, true)}`;
+  // A rate or share moves in points: "rose 1.2 pts: 4.4% to 5.6%", never "rose 28.5%" of itself.
+  const points = metric.unit === 'percent';
+  // A segment's own change: its rate for a sum or a ratio, its points for a rate or share.
+  const own = (s: GrowthDriverSegment) => (points ? s.change : s.relative);
+  // Where no percentage is given (a base at or below zero), the change in the metric's unit.
+  const ownText = (s: GrowthDriverSegment) => (points || s.relative === null ? money(s.change, true) : formatGrowth(s.relative, locale));
+  // A ratio's segments do not add up to its total, so a segment can only be said to have moved most,
+  // not to have driven it; and "most" is its own change (a €70 basket's +€4.20 is +6%, like the others').
+  const mover = f.additive ? top : largestOwnChange(f.segments, own);
+  const driverTitle = f.byRate
+    ? rateTitle(f, f.byRate, (s) => own(s) ?? 0, name, ownText, label, dim)
+    : !top || !mover
+      ? `No ${dim} changed ${lower(label)}`
+      : f.additive
+        ? `${capitalise(name(top))} drove the biggest change in ${lower(label)}: ${money(top.change, true)}`
+        : `${label} moved most for ${name(mover)}: ${ownText(mover)}${points || mover.relative === null ? '' : ` (${money(mover.change, true)})`}`;
   // When segments came or went, the headline states both growth figures if they differ as printed.
   const lfl = f.likeForLike;
   const bothFigures =
@@ -45,8 +57,6 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
   const title = bothFigures ? `${driverTitle}; ${bothFigures}` : driverTitle;
 
   const total = f.total;
-  // A rate or share moves in points: "rose 1.2 pts: 4.4% to 5.6%", never "rose 28.5%" of itself.
-  const points = metric.unit === 'percent';
   const totalMove =
     points && total.change !== null && total.before !== null && total.after !== null
       ? `${label} ${total.change === 0 ? 'held flat' : `${total.change > 0 ? 'rose' : 'fell'} ${money(Math.abs(total.change), true).replace(/^\+/, '')}`}: ${money(total.before)} to ${money(total.after)}`
@@ -58,8 +68,11 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
   const perDay = perDaySentence(f, label, metric, locale);
   if (perDay) sentences.push(perDay);
   if (lfl) sentences.push(likeForLikeSentence(lfl, label, (s) => segmentText(s.segment, f.dimension, dataset), money, locale));
+  if (f.byRate) sentences.push(...rateSentences(f, f.byRate, name, ownText, (v) => money(v, true), locale, dim, label));
 
-  if (audience === 'leadership') {
+  if (f.byRate) {
+    // The rate ranking above already names each segment with its change.
+  } else if (audience === 'leadership') {
     if (named.length > 0) sentences.push(`Biggest moves: ${named.map((s) => `${name(s)} ${money(s.change, true)}`).join(', ')}.`);
   } else {
     const detail = named.map((s) => {
@@ -76,6 +89,8 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
       return `${name(s)} ${parts.join(', ')}`;
     });
     if (detail.length > 0) sentences.push(`Largest changes by ${dim}: ${detail.join('; ')}.`);
+  }
+  if (!f.byRate && audience !== 'leadership') {
     if (f.others && f.others.change !== null) {
       sentences.push(f.others.count === 1 ? `The one other: ${money(f.others.change, true)}.` : `The other ${f.others.count} together: ${money(f.others.change, true)}.`);
     }
@@ -188,4 +203,86 @@ function perDaySentence(f: GrowthDriversFinding, label: string, metric: Metric, 
   const fmt = quantityFormat(metric, 'per_day', locale);
   const rel = a / b - 1;
   return `${lengths}, so per day ${lower(label)} ${totalVerb(rel, locale)} (${formatValue(a, fmt, { rate: true })} against ${formatValue(b, fmt, { rate: true })} a day).`;
+}
+
+/** The segment with the largest own change (rate, or points for a rate), ties by the finding's order. */
+function largestOwnChange(segments: readonly GrowthDriverSegment[], own: (s: GrowthDriverSegment) => number | null): GrowthDriverSegment | undefined {
+  let best: GrowthDriverSegment | undefined;
+  for (const s of segments) {
+    const v = own(s);
+    if (v === null || v === 0 || !Number.isFinite(v)) continue;
+    if (!best || Math.abs(v) > Math.abs(own(best)!)) best = s;
+  }
+  // No own change to compare (no percentage anywhere): the finding's order, by weighted change.
+  return best ?? segments.find((s) => s.change !== null && s.change !== 0);
+}
+
+/** The ranked segments by name, in the ranking's order. */
+function rankedSegments(f: GrowthDriversFinding, r: GrowthRateRanking): GrowthDriverSegment[] {
+  return r.segments.map((seg) => f.segments.find((s) => s.segment === seg)).filter((s): s is GrowthDriverSegment => s !== undefined);
+}
+
+/**
+ * "Catering grew fastest in orders: +17.1%", "Catering and app grew fastest in orders, at about the
+ * same rate: +17.1% and +16.1%", "Kiosk fell fastest in revenue: −8.0%", "Take-off run grew fastest
+ * in strikes: +15.6% (taxi +500% on a small base)".
+ */
+function rateTitle(f: GrowthDriversFinding, r: GrowthRateRanking, points: (s: GrowthDriverSegment) => number, name: (s: GrowthDriverSegment) => string, ownText: (s: GrowthDriverSegment) => string, label: string, dim: string): string {
+  const ranked = rankedSegments(f, r);
+  const leaders = ranked.filter((s) => r.leaders.includes(s.segment));
+  const first = leaders[0];
+  if (!first) return `No ${dim} has a growth rate of ${lower(label)} to rank`;
+  const ahead = ranked.filter((s) => r.aheadOnSmallBase.includes(s.segment));
+  const aside = ahead.length > 0 ? ` (${listJoin(ahead.slice(0, 2).map((s) => `${name(s)} ${ownText(s)}`))}${ahead.length > 2 ? ` and ${ahead.length - 2} more` : ''} on a small base)` : '';
+  if (leaders.length > 1) {
+    // Every segment of some size within the noise of the first: none stands out, the range is said.
+    if (!r.standsOut) {
+      const [low, high] = r.order === 'fastest' ? [leaders[leaders.length - 1]!, first] : [first, leaders[leaders.length - 1]!];
+      return `No ${dim} stands out in ${lower(label)} growth: ${ownText(low)} to ${ownText(high)}, within the noise${aside}`;
+    }
+    // Some lead together: they are the answer, named as such.
+    const fell = leaders.every((s) => points(s) < 0);
+    const lead = r.order === 'fastest' ? (fell ? 'fell least' : 'grew fastest') : fell ? 'fell fastest' : 'grew slowest';
+    return `${capitalise(listJoin(leaders.map(name)))} ${lead} in ${lower(label)}, at about the same rate: ${listJoin(leaders.map(ownText))}${aside}`;
+  }
+  const rel = points(first);
+  const verb = r.order === 'fastest' ? (rel > 0 ? 'grew fastest' : 'fell least') : rel < 0 ? 'fell fastest' : 'grew slowest';
+  return `${capitalise(name(first))} ${verb} in ${lower(label)}: ${ownText(first)}${aside}`;
+}
+
+/**
+ * "Growth rate by channel, 2025 against 2024: catering +17.1% (+6.84K; a small base, 4.2% of
+ * orders in 2024); app +16.1% (+38.4K); counter +15.3% (+103K)." and how "about the same" was judged.
+ */
+function rateSentences(
+  f: GrowthDriversFinding,
+  r: GrowthRateRanking,
+  name: (s: GrowthDriverSegment) => string,
+  ownText: (s: GrowthDriverSegment) => string,
+  signed: (v: number | null) => string,
+  locale: string,
+  dim: string,
+  label: string,
+): string[] {
+  const ranked = rankedSegments(f, r);
+  if (ranked.length === 0) return [];
+  const small = (s: GrowthDriverSegment) =>
+    s.baseShare !== undefined && s.baseShare !== null && s.baseShare < SMALL_BASE_SHARE
+      ? `; a small base, ${unsignedPercent(s.baseShare, locale)} of ${f.additive ? lower(label) : 'the rows'} in ${spanText(f.prior, locale)}, so its rate swings on little`
+      : '';
+  const listed = ranked.slice(0, NAMED_IN_CAPTION + 2).map((s) => `${name(s)} ${ownText(s)} (${signed(s.change)}${small(s)})`);
+  const more = r.segments.length - listed.length;
+  const out = [`Growth rate by ${dim}, ${spanText(f.current, locale)} against ${spanText(f.prior, locale)}, ${r.order === 'fastest' ? 'fastest' : 'slowest'} first: ${listed.join('; ')}${more > 0 ? `; and ${more} more` : ''}.`];
+  if (r.leaders.length > 1) {
+    const who = capitalise(listJoin(ranked.filter((s) => r.leaders.includes(s.segment)).map(name)));
+    out.push(
+      r.noise === 'poisson'
+        ? `${who} differ by less than counting noise (two standard errors of a Poisson count), so none of them can be named ${r.order} on this data.`
+        : `${who} differ by under ${formatPoints(CLEAR_LEAD, locale).replace(/^\+/, '')} a year (common practice for what a year's noise can move), so none of them can be named ${r.order} on this data.`,
+    );
+  }
+  // Who added most is a different question ("what drove it"), said beside the rates.
+  const biggest = f.additive ? [...ranked].sort((a, b) => Math.abs(b.change ?? 0) - Math.abs(a.change ?? 0))[0] : undefined;
+  if (biggest && biggest !== ranked[0] && biggest.change !== null) out.push(`By size of change, ${name(biggest)} moved ${lower(label)} most: ${signed(biggest.change)}.`);
+  return out;
 }

@@ -1,7 +1,7 @@
 // Findings of the growth family: how fast a metric grows, period over period and year over year.
 // Numbers and ISO dates only; every rate is a finite number or null (undefined growth), never NaN.
 import type { DecadeSlope } from '../stats/decades.js';
-import type { Grain } from '../types.js';
+import type { Grain, GrowthRank } from '../types.js';
 
 /** A half-open span of calendar dates [start, end), ISO. */
 export interface GrowthSpan {
@@ -99,6 +99,23 @@ export interface GrowthDriverSegment {
   shareOfChange: number | null;
   /** change / total before: points of the total's growth rate this segment accounts for; null when not additive. */
   contribution: number | null;
+  /** Its share of the earlier span's base (the value for a sum or count, the rows otherwise); small bases are flagged. */
+  baseShare?: number | null;
+}
+
+/** The segments ranked by their own growth rate, when the request asked which grew fastest (or slowest). */
+export interface GrowthRateRanking {
+  order: GrowthRank;
+  /** Segments with a rate, in that order (the named ones and the folded tail alike). */
+  segments: (string | null)[];
+  /** The answer: the first segment of some size and those about the same as it, within the noise. */
+  leaders: (string | null)[];
+  /** Segments ranked above the answer on a small base (flagged, not named as the answer). */
+  aheadOnSmallBase: (string | null)[];
+  /** False when every segment of some size is within the noise of the first: none stands out. */
+  standsOut: boolean;
+  /** How "about the same" was judged: Poisson counting noise (two standard errors) or a lead under CLEAR_LEAD. */
+  noise: 'poisson' | 'lead';
 }
 
 /** A segment that was not there through both spans, so like-for-like growth leaves it out. */
@@ -132,6 +149,8 @@ export interface GrowthDriversFinding {
    * left out; null when every segment was there throughout (the total is then like for like).
    */
   likeForLike: { before: number | null; after: number | null; change: number | null; relative: number | null; excluded: ChangedSegment[] } | null;
+  /** "Which channel is growing fastest": the ranking by rate the headline answers with; absent for "what drove it". */
+  byRate?: GrowthRateRanking;
 }
 
 export interface GrowthRateSummaryFinding {

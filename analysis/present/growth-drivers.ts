@@ -5,7 +5,7 @@ import type { BarsSpec } from '../charts/spec.js';
 import { growthDriversWords, spansVerdict } from '../captions/growth-drivers-caption.js';
 import { growthNotes, segmentText } from '../captions/growth-words.js';
 import { metricByName, metricDirection } from '../catalog.js';
-import type { GrowthDriversFinding } from '../findings/growth.js';
+import type { GrowthDriverSegment, GrowthDriversFinding } from '../findings/growth.js';
 import { valueFormatOf } from '../format.js';
 import type { Answer, Finding } from '../types.js';
 import { twoSpanSubtitle } from './growth-header.js';
@@ -32,6 +32,7 @@ export const presentGrowthDrivers: Presenter = (answer, ctx) => {
 
 function driversChart(answer: Answer, f: GrowthDriversFinding, title: string, ctx: PresentContext): BarsSpec | null {
   const metric = metricByName(ctx.dataset, f.metric);
+  if (f.byRate) return ratesChart(answer, f, title, ctx);
   const items = f.segments
     .filter((s) => s.change !== null)
     .map((s) => ({ label: `${segmentText(s.segment, f.dimension, ctx.dataset)}${presenceMark(f, s.segment)}`, value: s.change! }));
@@ -58,4 +59,30 @@ function presenceMark(f: GrowthDriversFinding, segment: string | null): string {
   const changed = f.likeForLike?.excluded.find((x) => x.segment === segment);
   if (!changed) return '';
   return changed.opened && changed.closed ? ' (not throughout)' : changed.opened ? ' (new)' : ' (closed)';
+}
+
+/**
+ * "Which channel is growing fastest": each segment's own growth rate (in points for a rate or
+ * share), in the ranking's order; a segment without a like-for-like rate has no bar.
+ */
+function ratesChart(answer: Answer, f: GrowthDriversFinding, title: string, ctx: PresentContext): BarsSpec | null {
+  const metric = metricByName(ctx.dataset, f.metric);
+  const points = metric.unit === 'percent';
+  const items = f.byRate!.segments
+    .map((seg) => f.segments.find((s) => s.segment === seg))
+    .filter((s): s is GrowthDriverSegment => s !== undefined && (points ? s.change : s.relative) !== null)
+    .map((s) => ({ label: segmentText(s.segment, f.dimension, ctx.dataset), value: (points ? s.change : s.relative)! }));
+  if (items.length === 0) return null;
+  return buildBars({
+    title,
+    chip: `${metric.label}: growth rate`,
+    subtitle: twoSpanSubtitle(answer, metric, f.current, f.prior, ctx),
+    footer: chartFooter(answer, ctx),
+    ...ctx.chart,
+    items,
+    folded: null,
+    format: points ? valueFormatOf(metric, ctx.locale) : { unit: 'percent', decimals: 1, locale: ctx.locale },
+    signed: true,
+    higherIsBetter: metricDirection(metric) ?? undefined,
+  });
 }

@@ -14,7 +14,9 @@ export const growthDriversSubQuestion = defineSubQuestion({
   present: presentGrowthDrivers,
   // A window longer than a year is compared as its last complete year (or 12 months) against the one before: never overlapping.
   describe: (w, sq) =>
-    w.ends
+    sq.growthRank
+      ? `Which ${pluralNoun(w.dim)} ${sq.growthRank === 'fastest' ? 'grew fastest' : 'grew slowest'} in ${w.metric}, each by its own growth rate: ${w.ends || (longerThanAYear(sq.window) ? `the last complete year in ${w.span} against the one before` : `${w.span} against ${w.base}`)}.`
+      : w.ends
       ? `Which ${pluralNoun(w.dim)} drove the change in ${w.metric}: ${w.ends}.`
       : longerThanAYear(sq.window)
       ? `Which ${pluralNoun(w.dim)} drove the change in ${w.metric}: the last complete year in ${w.span} against the one before.`

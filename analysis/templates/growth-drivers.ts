@@ -15,6 +15,7 @@ import {
   type WindowComparison,
   type WindowSide,
 } from './growth-compare.js';
+import { rankByGrowthRate } from './growth-rate-rank.js';
 import { minGroupSize, suppressedSegmentsCaveat } from './small-groups.js';
 import type { Reading, Template } from './template.js';
 
@@ -33,7 +34,7 @@ export function readGrowthDrivers(sq: SubQuestion, table: ResultTable, coverage:
   caveats.push(...segmentPresenceCaveats(cmp));
   const findings: Finding[] = [];
   for (const metric of sq.metrics) {
-    const finding = driversOf(sq, cmp, metric, addsAcrossSegments(metricByName(dataset, metric)), caveats);
+    const finding = driversOf(sq, cmp, metric, addsAcrossSegments(metricByName(dataset, metric)), caveats, dataset);
     if (finding) findings.push(finding);
   }
   const small = foldedMembers(cmp);
@@ -48,6 +49,7 @@ function driversOf(
   metric: string,
   additive: boolean,
   caveats: Caveat[],
+  dataset: DatasetConfig,
 ): GrowthDriversFinding | null {
   const totalBefore = cmp.prior.total?.values[metric] ?? null;
   const totalAfter = cmp.current.total?.values[metric] ?? null;
@@ -73,6 +75,16 @@ function driversOf(
   const rows = cmp.current.total?.rows ?? 0;
   const weight = (s: GrowthDriverSegment) => (additive || rows === 0 ? 1 : (cmp.current.segments.get(s.segment)?.rows ?? 0) / rows);
   all.sort((a, b) => byWeightedChange(a, b, weight));
+  const priorRows = cmp.prior.total?.rows ?? 0;
+  for (const s of all) s.baseShare = baseShareOf(s, additive, totalBefore, priorRows > 0 ? (cmp.prior.segments.get(s.segment)?.rows ?? 0) / priorRows : null);
+  // "Which channel is growing fastest": ranked by rate, so a small fast segment is named, not folded.
+  // Segments not there through both spans have no like-for-like rate and are not ranked.
+  const notThroughout = new Set(cmp.changed.map((c) => c.segment));
+  const byRate = sq.growthRank ? rankByGrowthRate(all.filter((s) => !notThroughout.has(s.segment)), sq.growthRank, additive && metricByName(dataset, metric).unit === 'count', metricByName(dataset, metric).unit === 'percent') : undefined;
+  if (byRate) {
+    const place = new Map(byRate.segments.map((seg, i) => [seg, i]));
+    all.sort((a, b) => (place.get(a.segment) ?? Infinity) - (place.get(b.segment) ?? Infinity));
+  }
   const segments = all.slice(0, DRIVERS_TOP_N);
   const tail = all.slice(DRIVERS_TOP_N);
   // Segments below the minimum group size arrive already combined (one row per side).
@@ -115,7 +127,14 @@ function driversOf(
     segments,
     others,
     likeForLike: likeForLikeOf(cmp, metric, additive, relative),
+    ...(byRate ? { byRate } : {}),
   };
+}
+
+/** The segment's share of the earlier span's base: its value for a sum or count, its rows otherwise. */
+function baseShareOf(s: GrowthDriverSegment, additive: boolean, totalBefore: number | null, rowShare: number | null): number | null {
+  if (!additive) return rowShare;
+  return s.before !== null && totalBefore !== null && totalBefore > 0 ? finite(s.before / totalBefore) : null;
 }
 
 /** The like-for-like total, when some segment was not there through both spans and both spans have data. */

@@ -2,7 +2,7 @@
 // windows as inclusive dates. docs/reading.md says what each field means.
 import { z } from 'zod';
 import { addDays } from '../../analysis/periods.js';
-import { GRAINS, RANK_ORDERS, REQUEST_KINDS, type DateWindow } from '../../analysis/types.js';
+import { GRAINS, GROWTH_RANKS, RANK_ORDERS, REQUEST_KINDS, type DateWindow } from '../../analysis/types.js';
 import { ASKABLE, AUDIENCES, BRIEF_SLOTS, type Brief } from '../brief.js';
 
 const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/);
@@ -28,6 +28,7 @@ export const briefJsonSchema = z
           frequency: z.boolean(),
           rankLimit: z.number().int().positive().nullable(),
           rankOrder: z.enum(RANK_ORDERS).nullable(),
+          growthRank: z.enum(GROWTH_RANKS).nullable(),
           ranking: z.boolean(),
           rateUnit: z.enum(['year', 'decade']).nullable(),
           perDay: z.boolean(),
@@ -80,6 +81,7 @@ export function briefToJson(brief: Brief, dataset: string): BriefJson {
       frequency: q.frequency,
       rankLimit: q.rankLimit ?? null,
       rankOrder: q.rankOrder ?? null,
+      growthRank: q.growthRank ?? null,
       ranking: q.ranking ?? false,
       rateUnit: q.rateUnit ?? null,
       perDay: q.perDay ?? false,

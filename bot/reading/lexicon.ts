@@ -3,7 +3,7 @@
 // plan edit) looks words up here, so a phrase that works in one works in all. Data terms come
 // from each dataset's catalog and values, never from here.
 import { GRAIN_WORDS } from '../../analysis/grains.js';
-import { AUDIENCES, type Audience, GRAINS, type Grain, type RankOrder } from '../../analysis/types.js';
+import { AUDIENCES, type Audience, GRAINS, type Grain, type GrowthRank, type RankOrder } from '../../analysis/types.js';
 
 export { GRAIN_WORDS } from '../../analysis/grains.js';
 
@@ -260,6 +260,20 @@ export function rankOrderOf(word: string): RankOrder | undefined {
   const w = word.toLowerCase();
   if (/^(?:fewest|least|lowest|smallest|bottom|quietest|cheapest)$/.test(w)) return 'lowest';
   if (w === 'worst' || w === 'best' || w === 'highest') return w;
+  return undefined;
+}
+/**
+ * A ranking by growth rate ("which channel is growing fastest", "the fastest-growing shops", "the
+ * highest growth rate", "which route is shrinking fastest"): each segment's own rate of change, not
+ * its share of the total's change. Falling fastest is the lowest rate first.
+ */
+const FASTEST_GROWTH = /\b(?:fastest|quickest|most\s+(?:quickly|rapidly))\b|\b(?:highest|biggest|largest|greatest|strongest|best|top)\s+(?:(?:percentage|relative|yearly|annual)\s+)?(?:growth(?:\s+rates?)?|rates?\s+of\s+growth)\b|\bgr[eo]w\w*\s+(?:the\s+)?most\s+in\s+(?:percent(?:age)?|relative)\s+terms\b/;
+const SLOWEST_GROWTH = /\b(?:slowest|least\s+(?:quickly|rapidly))\b|\b(?:lowest|smallest|weakest|worst)\s+(?:(?:percentage|relative|yearly|annual)\s+)?(?:growth(?:\s+rates?)?|rates?\s+of\s+growth)\b/;
+const DECLINE = /\b(?:shr[iu]nk\w*|declin\w*|fall\w*|fell|drop\w*|los(?:e|ing|t)|decreas\w*|contract\w*)\b/;
+export function growthRankOf(text: string): GrowthRank | undefined {
+  const t = text.toLowerCase();
+  if (FASTEST_GROWTH.test(t)) return DECLINE.test(t) ? 'slowest' : 'fastest';
+  if (SLOWEST_GROWTH.test(t)) return 'slowest';
   return undefined;
 }
 /** Asks which segment: "which X", "what X", "who", or a rank list ("top 5", "bottom 3", "rank X by"). */

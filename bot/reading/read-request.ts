@@ -5,7 +5,7 @@ import { type Coverage, dataEnd } from '../../analysis/coverage.js';
 import { datesAfterWords, describeWindow } from '../../analysis/window-words.js';
 import { addDays } from '../../analysis/periods.js';
 import { inSentence } from '../../analysis/captions/grammar.js';
-import type { DateWindow, Grain, RankOrder, RequestKind, SegmentFilter, SpanEndsUnit } from '../../analysis/types.js';
+import type { DateWindow, Grain, GrowthRank, RankOrder, RequestKind, SegmentFilter, SpanEndsUnit } from '../../analysis/types.js';
 import type { ValueIndex } from '../../analysis/values/value-index.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { AmbiguousValue, Askable, Brief, BriefSlot, Evidence, Question } from '../brief.js';
@@ -29,6 +29,7 @@ import {
   RANK_ASK,
   RANK_WORDS,
   rankOrderOf,
+  growthRankOf,
   REFINES_PREVIOUS,
   ROLE_WORDS,
   SEASON_ASK,
@@ -406,6 +407,7 @@ interface ClauseReading {
   launchWords?: string;
   rankLimit?: number;
   rankOrder?: RankOrder;
+  growthRank?: GrowthRank;
   ranking: boolean;
   rateUnit?: 'year' | 'decade';
   perDay: boolean;
@@ -552,6 +554,7 @@ function mergeInto(q: Question, r: ClauseReading, st: ReadState): void {
   if (r.ranking && q.dimensions.length > 0 && (q.kind === 'trend' || q.kind === 'kpi')) q.ranking = true;
   if (r.rankLimit && !q.rankLimit) q.rankLimit = r.rankLimit;
   if (r.rankOrder && !q.rankOrder) q.rankOrder = r.rankOrder;
+  if (r.growthRank && !q.growthRank && q.dimensions.length > 0) q.growthRank = r.growthRank;
 }
 
 /** A share of a whole: "what share of all flights", "what percentage of the total", "how much of the total". */
@@ -633,6 +636,7 @@ function toQuestion(r: ClauseReading, st: ReadState, previous: Question | undefi
   if (r.contrast) q.contrast = r.contrast;
   if (r.rankLimit) q.rankLimit = r.rankLimit;
   if (r.rankOrder) q.rankOrder = r.rankOrder;
+  if (r.growthRank && q.dimensions.length > 0) q.growthRank = r.growthRank;
   if (r.ranking && q.dimensions.length > 0 && (kind === 'trend' || kind === 'kpi')) q.ranking = true;
   if (r.rateUnit) q.rateUnit = r.rateUnit;
   if (r.perDay) q.perDay = true;
@@ -812,6 +816,9 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
   // "the fewest strikes", "bottom 5": the smallest first, with or without a number.
   const order = rankOrderOf(top?.[1] ?? '') ?? (rankWord ? rankOrderOf(rankWord) : undefined);
   if (order) reading.rankOrder = order;
+  // "which channel is growing fastest": only where the clause names a breakdown to rank.
+  const byRate = dims.length > 0 ? growthRankOf(t) : undefined;
+  if (byRate) reading.growthRank = byRate;
   // "per year and per decade" asks for both; the decade is the wider statement (it carries the year's rate too).
   if (rate && hasRateCue) reading.rateUnit = (rate[1] ?? rate[2]) === 'decade' || /\b(?:per|a|each)\s+decade\b/.test(t) ? 'decade' : 'year';
   return reading;

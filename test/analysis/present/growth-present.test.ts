@@ -186,7 +186,8 @@ describe('growth_drivers presenter', () => {
     const s = sq('growth_drivers', { lens: 'breakdown', dimension: 'channel', metrics: ['fare_per_passenger'] });
     const f: GrowthDriversFinding = { ...driversFinding, metric: 'fare_per_passenger', additive: false, others: null, segments: [{ ...driversFinding.segments[0]!, before: 20, after: 21, change: 1, relative: 0.05, shareOfChange: null, contribution: null }], total: { before: 20, after: 20.5, change: 0.5, relative: 0.025 } };
     const p = present(answer(s, [f]), 'managers');
-    expect(p.title).toBe('Average fare per passenger moved most for app: +€1.00');
+    // "Moved most" by the segment's own change: a ratio's relative change, with the change in euro beside.
+    expect(p.title).toBe('Average fare per passenger moved most for app: +5.0% (+€1.00)');
     // Said as the config's choice (a ratio), not as a fact about fares.
     expect(p.caption).toContain('Average fare per passenger is set up in the config as a ratio (revenue per passengers), so segment changes do not add up');
   });
