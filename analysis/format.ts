@@ -74,12 +74,23 @@ export function formatValue(value: number | null, fmt: ValueFormat, opts: Format
  */
 export function formatUnitChange(diff: number | null, fmt: ValueFormat, opts: FormatOptions = {}): string {
   if (fmt.unit !== 'percent') return formatValue(diff, fmt, opts);
+  return formatPointChange(diff, fmt.locale, { signed: opts.signed ?? false });
+}
+
+/**
+ * A change of a fraction in percentage points: 0.021 → "2.1 pts" ("+2.1 pts" signed; "2.1 percentage
+ * points" spelled out). One decimal from 0.1 pts up, so a table's column reads alike ("0.7 pts",
+ * "1.2 pts"); below that two significant figures ("0.042 pts"), so no move prints as zero. A slope
+ * (`slope`) keeps two significant figures below 1 pt, so a monthly rate times twelve still agrees
+ * with the yearly one beside it ("0.31 pts a month, 3.7 pts a year"). The one points formatter.
+ */
+export function formatPointChange(diff: number | null, locale: string, opts: { signed?: boolean; spelledOut?: boolean; slope?: boolean } = {}): string {
   if (diff === null || !Number.isFinite(diff)) return NOT_AVAILABLE;
   const pts = diff * 100;
-  // One decimal, or two significant figures for a small move ("0.042 pts"), so no move prints as zero.
   const size = Math.abs(pts);
-  const decimals = size === 0 || size >= 1 ? 1 : Math.min(6, 1 - Math.floor(Math.log10(size)));
-  return `${formatValue(pts, { unit: 'number', decimals, locale: fmt.locale }, { signed: opts.signed ?? false })} pts`;
+  const decimals = size === 0 || size >= (opts.slope ? 1 : 0.1) ? 1 : Math.min(6, 1 - Math.floor(Math.log10(size)));
+  const text = formatValue(opts.signed ? pts : size, { unit: 'number', decimals, locale }, { signed: opts.signed ?? false });
+  return `${text} ${opts.spelledOut ? 'percentage points' : 'pts'}`;
 }
 
 /** A relative change as a signed percentage: 0.081 → "+8.1%", −0.05 → "−5.0%". */

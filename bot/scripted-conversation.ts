@@ -33,6 +33,9 @@ export async function playScriptedConversation(c: ScriptedConversation): Promise
   const cardCorrections = cardWords(c.answers);
   const followUps = [...(c.answers.after ?? [])];
   const tries = new Map<string, number>();
+  // A requester says "go" by default; saying it again to a card that will not run (an empty plan)
+  // is a stalled conversation, not fifty more replies.
+  let defaultGos = 0;
   // Bounded: a wrong scripted answer is re-asked, and a second wrong answer takes the default.
   for (let turn = 0; turn < 50; turn++) {
     const state = await c.store.get(c.threadId);
@@ -53,7 +56,9 @@ export async function playScriptedConversation(c: ScriptedConversation): Promise
     }
     if (state.stage === 'planning') {
       const correction = cardCorrections.shift();
-      await say(correction ?? planReplies.shift() ?? 'go');
+      const scripted = correction ?? planReplies.shift();
+      if (scripted === undefined && ++defaultGos > 2) return 'stalled';
+      await say(scripted ?? 'go');
       continue;
     }
     return 'stalled';

@@ -3,7 +3,7 @@
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { GrowthSeriesFinding, GrowthSpan } from '../findings/growth.js';
 import { changesInUnits } from '../catalog.js';
-import { formatChange, formatPeriod, formatUnitChange, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
+import { formatChange, formatPeriod, formatPointChange, formatUnitChange, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
 import { addDays, addMonths } from '../periods.js';
 import { TINY_BASE_FRACTION } from '../stats/index.js';
 import type { Answer, Audience, Caveat, Grain } from '../types.js';
@@ -40,22 +40,14 @@ export function unsignedPercent(relative: number, locale: string): string {
   return formatChange(Math.abs(relative), locale).replace(/^[+\u2212]/, '');
 }
 
-/** A fraction difference in percentage points: 0.021 → "+2.1 pts". */
+/** A fraction difference in percentage points, signed: 0.021 → "+2.1 pts" (see formatPointChange). */
 export function formatPoints(diff: number | null, locale: string): string {
-  if (diff === null || !Number.isFinite(diff)) return 'n/a';
-  const fmt: ValueFormat = { unit: 'number', decimals: 1, locale };
-  const text = formatValue(diff * 100, fmt, { signed: true });
-  return `${text} pts`;
+  return formatPointChange(diff, locale, { signed: true });
 }
 
-/**
- * A small move of a rate in points with two significant figures, unsigned: a slope of 0.00042 a
- * month is "0.042 pts", never "0.0%" or "0.0 pts".
- */
+/** A move of a rate in points, unsigned: a slope of 0.00042 a month is "0.042 pts", never "0.0 pts". */
 export function formatSmallPoints(diff: number, locale: string): string {
-  const pts = Math.abs(diff * 100);
-  const decimals = pts === 0 || pts >= 10 ? 1 : Math.min(6, Math.max(1, 1 - Math.floor(Math.log10(pts))));
-  return `${formatValue(pts, { unit: 'number', decimals, locale })} pts`;
+  return formatPointChange(diff, locale, { slope: true });
 }
 
 /** A share (0–1) as a percentage with one decimal: "40.0%". */

@@ -10,7 +10,7 @@ import type {
   PerformanceUnitsLeftOutFinding,
   Quantity,
 } from '../findings/performance.js';
-import { formatPeriod, formatValue, significant, type ValueFormat, valueFormatOf } from '../format.js';
+import { formatPeriod, formatPointChange, formatValue, significant, type ValueFormat, valueFormatOf } from '../format.js';
 import { addDays } from '../periods.js';
 import type { Audience, DateWindow, Finding } from '../types.js';
 
@@ -141,13 +141,9 @@ export function periodInText(win: (DateWindow & { clippedToLaunch?: boolean }) |
   return lead.charAt(0).toLowerCase() + lead.slice(1);
 }
 
-/** A difference in the metric's own terms; shares read in percentage points. */
+/** A difference in the metric's own terms; shares read in percentage points (see formatPointChange). */
 export function formatDifference(diff: number, fmt: ValueFormat, opts: { signed?: boolean } = {}): string {
-  if (fmt.unit === 'percent') {
-    const pp = significant(diff * 100, 2);
-    const text = formatValue(opts.signed ? pp : Math.abs(pp), { unit: 'number', decimals: Math.abs(pp) >= 10 ? 0 : 1, locale: fmt.locale }, { signed: opts.signed ?? false });
-    return `${text} percentage points`;
-  }
+  if (fmt.unit === 'percent') return formatPointChange(diff, fmt.locale, { signed: opts.signed ?? false, spelledOut: true });
   return formatValue(opts.signed ? diff : Math.abs(diff), fmt, { signed: opts.signed ?? false });
 }
 

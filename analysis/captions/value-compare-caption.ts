@@ -97,7 +97,7 @@ export function valueCompareWords(f: ValueCompareFinding | undefined, metric: Me
     // A gap between a multiple and a percentage ("+1,443 pts") tells nobody anything.
     const multiples = !inPoints(metric) && (growthMultiple(a.growth) !== null || growthMultiple(b.growth) !== null);
     if (f.growthGap !== null && audience !== 'leadership' && !multiples) {
-      const gap = inPoints(metric) ? formatPoints(a.change! - b.change!, locale) : formatPoints(f.growthGap, locale);
+      const gap = inPoints(metric) ? formatPoints(f.changeGap ?? null, locale) : formatPoints(f.growthGap, locale);
       sentences.push(`The gap in growth is ${gap} (${name(a)} minus ${name(b)}).`);
     }
   }

@@ -56,6 +56,8 @@ export interface ValueCompareFinding {
   gapPrior: number | null;
   /** first's growth − second's growth (a fraction: 0.089 is 8.9 points). */
   growthGap: number | null;
+  /** The first value's change minus the second's, in the metric's units (a rate's in points). */
+  changeGap?: number | null;
   /**
    * The ratio first / second, current against prior: how much faster first grew than second, as a
    * relative change, tested over per-period log ratios (analysis/stats/log-shift.ts).

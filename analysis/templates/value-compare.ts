@@ -379,6 +379,7 @@ export function readValueCompare(sq: SubQuestion, tables: Record<string, ResultT
     gapCurrent: gap(a.current, b.current),
     gapPrior: gap(a.prior, b.prior),
     growthGap: gap(a.growth, b.growth),
+    changeGap: gap(a.change, b.change),
     relativeGrowth,
     noGrowthTest,
     level,
