@@ -53,6 +53,31 @@ export interface DateBreakdownCount {
   distinct: number;
 }
 
+/** How many distinct (date, every breakdown value) cells the sampled rows hold: as many as rows makes each row a cell of already-counted values, not an event. */
+export interface DateCellCount {
+  time: string;
+  breakdowns: string[];
+  distinct: number;
+  /** Some stamps carry a time of day (a flight's departure): the rows are events, however unique. */
+  timeOfDay: boolean;
+}
+
+/**
+ * How a number column moves from one stamp to the next, with one row per stamp in date order: a
+ * stock (a headcount, a balance) moves little for its size and each value stays close to the last;
+ * an amount made in a period (sales, births) jumps about.
+ */
+export interface SeriesSteps {
+  /** Stamps (rows) the figures are read over. */
+  stamps: number;
+  /** Correlation of each value with the one before (lag-1 autocorrelation); null when it cannot be computed. */
+  lag1: number | null;
+  /** The mean absolute step between stamps as a share of the mean absolute value. */
+  relativeStep: number | null;
+  /** Columns whose step between stamps this column's values equal (a net change of a level beside it). */
+  changeOf: string[];
+}
+
 export interface DraftInput {
   datasetName: string;
   label: string;
@@ -62,10 +87,17 @@ export interface DraftInput {
   columns: ColumnProfile[];
   /** Distinct (date, breakdown value) pairs: one row per pair makes the numbers readings (levels). */
   readings?: DateBreakdownCount[];
+  /** Distinct (date, all breakdowns) cells per date column. */
+  cells?: DateCellCount[];
+  /** By date column (one row per stamp), by number column: how it moves between stamps. */
+  series?: Record<string, Record<string, SeriesSteps>>;
 }
 
 /** Reads each column's type, distinct and non-empty counts and a few values, over a sample of rows. */
-export async function profileColumns(source: DataSource, table: string): Promise<{ rows: number; columns: ColumnProfile[]; readings: DateBreakdownCount[] }> {
+export async function profileColumns(
+  source: DataSource,
+  table: string,
+): Promise<{ rows: number; columns: ColumnProfile[]; readings: DateBreakdownCount[]; cells: DateCellCount[]; series: Record<string, Record<string, SeriesSteps>> }> {
   const described: TableColumn[] = await source.describe(table);
   const q = quoteIdentifier;
   const text = source.dialect.name === 'postgres' ? 'TEXT' : 'VARCHAR';
@@ -104,7 +136,73 @@ export async function profileColumns(source: DataSource, table: string): Promise
   const pairCounts = pairs.length
     ? (await source.run({ sql: `SELECT ${pairs.map((p, i) => `COUNT(DISTINCT CAST(${q(p.time)} AS ${text}) || '|' || CAST(${q(p.dimension)} AS ${text})) AS p${i}`).join(', ')} FROM ${sample}`, params: [] }, run)).rows[0] ?? {}
     : {};
-  return { rows, columns, readings: pairs.map((p, i) => ({ ...p, distinct: Number(pairCounts[`p${i}`] ?? 0) })) };
+  // Rows per date and every breakdown together: one row each makes every row a cell of a grid
+  // (a shop's takings on one channel on one day), whose count counts cells, not events.
+  const cellKey = (t: ColumnProfile) => [t, ...breakdowns].map((c) => `COALESCE(CAST(${q(c.name)} AS ${text}), '')`).join(` || '|' || `);
+  // Stamps at many times of day are events' times; dates, years and stamps at one or two times of day
+  // (midnight, or a zone's midnight written in UTC: 08:00 in winter, 07:00 in summer) mark cells.
+  const timestamp = (t: ColumnProfile) => t.family === 'time' && /timestamp|datetime/i.test(t.type);
+  const cellCounts = times.length
+    ? (
+        await source.run(
+          {
+            sql: `SELECT ${times.map((t, i) => [`COUNT(DISTINCT ${cellKey(t)}) AS c${i}`, ...(timestamp(t) ? [`COUNT(DISTINCT ${q(t.name)} - date_trunc('day', ${q(t.name)})) AS h${i}`] : [])].join(', ')).join(', ')} FROM ${sample}`,
+            params: [],
+          },
+          run,
+        )
+      ).rows[0] ?? {}
+    : {};
+  const cells = times.map((t, i) => ({
+    time: t.name,
+    breakdowns: breakdowns.map((d) => d.name),
+    distinct: Number(cellCounts[`c${i}`] ?? 0),
+    timeOfDay: Number(cellCounts[`h${i}`] ?? 0) > 2 || /%[HIMS]/.test(t.textDate?.format ?? ''),
+  }));
+  const series: Record<string, Record<string, SeriesSteps>> = {};
+  for (const t of times) {
+    const steps = await seriesSteps(source, sample, t, columns.filter((c) => c.family === 'number' && !times.includes(c)), rows);
+    if (steps) series[t.name] = steps;
+  }
+  return { rows, columns, readings: pairs.map((p, i) => ({ ...p, distinct: Number(pairCounts[`p${i}`] ?? 0) })), cells, series };
+}
+
+// Stamps a series needs before its steps say anything (common practice: a year of months).
+const SERIES_MIN_STAMPS = 12;
+// Change columns tried against the others' steps, at most (each pair is one aggregate in one query).
+const CHANGE_PAIRS_MAX = 400;
+
+/** How each number column moves between stamps, when the table has one row per stamp of `time`. */
+async function seriesSteps(source: DataSource, sample: string, time: ColumnProfile, numbers: ColumnProfile[], rows: number): Promise<Record<string, SeriesSteps> | undefined> {
+  if (time.values !== rows || rows < SERIES_MIN_STAMPS || numbers.length === 0) return undefined;
+  const q = quoteIdentifier;
+  // Text dates are put in order by the format they were read in (DuckDB's try_strptime); elsewhere text order is no date order.
+  const order = time.textDate ? (source.dialect.name === 'duckdb' ? `try_strptime(${q(time.name)}, '${time.textDate.format}')` : undefined) : q(time.name);
+  if (!order) return undefined;
+  const double = source.dialect.name === 'postgres' ? 'DOUBLE PRECISION' : 'DOUBLE';
+  const x = (i: number) => `tc_x${i}`;
+  const step = (i: number) => `tc_s${i}`;
+  const prev = (i: number) => `tc_p${i}`;
+  const lagged = numbers.flatMap((c, i) => [`CAST(${q(c.name)} AS ${double}) AS ${x(i)}`, `LAG(CAST(${q(c.name)} AS ${double})) OVER (ORDER BY ${order}) AS ${prev(i)}`]);
+  // A column that goes below zero may be the net change of another: its values against that one's steps.
+  const pairs = numbers
+    .flatMap((a, i) => (a.min !== undefined && a.min < 0 ? numbers.map((b, j) => [i, j] as const).filter(([, j]) => j !== i) : []))
+    .slice(0, CHANGE_PAIRS_MAX);
+  const aggregates = [
+    'COUNT(*) AS tc_n',
+    ...numbers.flatMap((_, i) => [`CORR(${x(i)}, ${prev(i)}) AS r${i}`, `AVG(ABS(${step(i)})) / NULLIF(AVG(ABS(${x(i)})), 0) AS v${i}`]),
+    ...pairs.map(([i, j], k) => `AVG(ABS(${x(i)} - ${step(j)})) / NULLIF(AVG(ABS(${x(i)})), 0) AS m${k}`),
+  ];
+  const sql = `WITH tc_lagged AS (SELECT ${lagged.join(', ')} FROM ${sample}), tc_steps AS (SELECT *, ${numbers.map((_, i) => `${x(i)} - ${prev(i)} AS ${step(i)}`).join(', ')} FROM tc_lagged) SELECT ${aggregates.join(', ')} FROM tc_steps`;
+  const r = (await source.run({ sql, params: [] }, { maxRows: 10, timeoutMs: 120_000 })).rows[0] ?? {};
+  const num = (v: unknown) => (v === null || v === undefined || !Number.isFinite(Number(v)) ? null : Number(v));
+  const out: Record<string, SeriesSteps> = {};
+  numbers.forEach((c, i) => {
+    // A mean mismatch under 5% of the change's own size (common practice: revised figures differ a little).
+    const changeOf = pairs.filter(([a], k) => a === i && (num(r[`m${k}`]) ?? Infinity) <= 0.05).map(([, b]) => numbers[b]!.name);
+    out[c.name] = { stamps: Number(r.tc_n ?? 0), lag1: num(r[`r${i}`]), relativeStep: num(r[`v${i}`]), changeOf };
+  });
+  return out;
 }
 
 const EMAIL = /^[^\s@]+@[^\s@]+\.[^\s@]+$/;
@@ -128,6 +226,14 @@ const CURRENCY_CODE = /(^|_)(usd|eur|gbp|jpy|chf|cad|aud|nzd|sek|nok|dkk|inr|cny
 // A value per row that a total would not mean (a flight's delay, a rating, a duration): its mean per row.
 // Counts held at a date, which add up across segments but are averaged over time.
 const STOCK_WORDS = /(^|_)(headcount|headcounts|stock|inventory|population|employed|unemployed|employment|unemployment|employees|staff|members|subscribers|accounts|enrolled|enrollment|enrolment|residents|beds|fleet)($|_|\d)/;
+// A net change per row (jobs added, a balance's delta): a flow whose total nets rises against falls.
+const CHANGE_WORDS = /(^|_)(change|changes|chg|net|added|delta|deltas|diff|difference)($|_|\d)/;
+// A stock read from its values alone, with one row per stamp: each value correlates at least this well
+// with the one before (lag-1 autocorrelation) and a typical step is at most this share of its size
+// (common practice, not a published rule: payroll headcounts step about 0.2% a month, CO2 about 0.3%,
+// while sales, births or jobs added step 10% or more).
+const STEADY_LAG1 = 0.9;
+const STEADY_STEP = 0.01;
 const PER_ROW_WORDS = /(^|_)(delay|delays|lateness|latency|duration|time|length|wait|waiting|rating|ratings|stars|grade|per|elevation|altitude)($|_|\d)/;
 
 // Units a column's name states ("Speed IAS in knots", "Running Time min"): written after its values.
@@ -146,7 +252,7 @@ const UNIT_LABELS: readonly [RegExp, string][] = [
 ];
 
 /** `unit_label` when the column's name states its unit; nothing otherwise. */
-function unitLabelOf(name: string): { unit_label?: string } {
+function unitLabelNamed(name: string): { unit_label?: string } {
   const found = UNIT_LABELS.find(([re]) => re.test(name));
   return found ? { unit_label: found[1] } : {};
 }
@@ -204,9 +310,20 @@ function columnExpr(name: string): string {
   return /^[a-z_][a-z0-9_]*$/.test(name) ? name : quoteIdentifier(name);
 }
 
-function labelOf(column: string): string {
-  // Currency marks are said by the unit ("$1.2M"), not the label.
-  const words = column.replace(/([a-z0-9])([A-Z])/g, '$1 $2').replace(/[$€£¥₹]/g, ' ').replace(/[_\s]+/g, ' ').trim();
+/**
+ * A label for a column. Currency marks are said by the unit ("$1.2M"), not the label; with `unitSaid`
+ * a currency code or unit the name ends in (revenue_eur, "Speed IAS in knots") is said by the
+ * metric's currency or unit_label instead, so it is dropped from the label too.
+ */
+function labelOf(column: string, unitSaid = false): string {
+  let words = column.replace(/([a-z0-9])([A-Z])/g, '$1 $2').replace(/[$€£¥₹]/g, ' ').replace(/[_\s]+/g, ' ').trim();
+  if (unitSaid) {
+    const unitWord = (w: string) => CURRENCY_CODE.test(w.toLowerCase()) || UNIT_LABELS.some(([re]) => re.test(w.toLowerCase()));
+    const parts = words.split(' ');
+    while (parts.length > 1 && unitWord(parts[parts.length - 1]!)) parts.pop();
+    if (parts.length > 1 && /^in$/i.test(parts[parts.length - 1]!)) parts.pop();
+    words = parts.join(' ');
+  }
   return words.charAt(0).toUpperCase() + words.slice(1);
 }
 
@@ -250,6 +367,13 @@ export interface Draft {
 export function draftConfig(input: DraftInput): Draft {
   const notes: string[] = [];
   const used = new Set<string>();
+  // "min" is a unit (Running Time min) unless the column is a low beside a high (temp_min beside temp_max) or names a reading.
+  const unitLabelOf = (name: string): { unit_label?: string } => {
+    const found = unitLabelNamed(name);
+    if (found.unit_label !== 'min' || !/(^|_)min$/.test(name)) return found;
+    const high = name.replace(/min$/, 'max');
+    return LEVEL_WORDS.test(name) || input.columns.some((c) => catalogNameOf(c.name) === high) ? {} : found;
+  };
   const unique = (base: string) => {
     let name = base;
     for (let i = 2; used.has(name); i++) name = `${base}_${i}`;
@@ -313,7 +437,17 @@ export function draftConfig(input: DraftInput): Draft {
   const comments: Record<string, string> = {};
   const rowsName = unique('rows');
   comments[rowsName] = ' drafted by init: the number of rows';
-  const metrics: Record<string, unknown>[] = [{ name: rowsName, label: 'Rows', also_called: [], count: 'rows', unit: 'count', kind: 'flow' }];
+  const rowsMetric: Record<string, unknown> = { name: rowsName, label: 'Rows', also_called: [], count: 'rows', unit: 'count', kind: 'flow' };
+  const metrics: Record<string, unknown>[] = [rowsMetric];
+  // One row per date and breakdown cell (a shop's channel on a day, or one row per month): the rows
+  // hold figures already counted, so a count of rows counts cells, not events.
+  const cell = input.cells?.find((x) => x.time === timeName && x.distinct === input.rows && input.rows > 1 && !x.timeOfDay);
+  // How each number column moves between dates, when the data has one row per date.
+  const steps = timeName ? input.series?.[timeName] : undefined;
+  const steady = (c: ColumnProfile) => {
+    const s = steps?.[c.name];
+    return s && s.stamps >= SERIES_MIN_STAMPS && s.lag1 !== null && s.lag1 >= STEADY_LAG1 && s.relativeStep !== null && s.relativeStep <= STEADY_STEP ? s : undefined;
+  };
   const dimensions: Record<string, unknown>[] = [];
   const dimensionComments: Record<string, string> = {};
   const leftOutCodes: string[] = [];
@@ -372,7 +506,9 @@ export function draftConfig(input: DraftInput): Draft {
         dimensions.push({ name: unique(name), label: labelOf(c.name), also_called: [], column: c.name });
         continue;
       }
-      const metricName = unique(name);
+      // A currency code or unit the name ends in (revenue_eur) is said by currency or unit_label: not in the name either.
+      const unitSaid = isMoney(c) || !!unitLabelOf(name).unit_label;
+      const metricName = unique(unitSaid ? catalogNameOf(labelOf(c.name, true)) : name);
       // A rate or share: percent, as a fraction (0.021) or, when its values are mostly above 1.5
       // and at most 100, as points (2.1) divided by 100 so that it shows as 2.1%.
       const numbers = c.examples.map(Number).filter((v) => Number.isFinite(v));
@@ -397,7 +533,10 @@ export function draftConfig(input: DraftInput): Draft {
         moneyMetrics.push(metricName);
       }
       const currency = money ? { currency: (currencyNamed(c.name) ?? tableCurrency)?.code ?? ASSUMED_CURRENCY } : {};
-      metrics.push({ name: metricName, label: labelOf(c.name), also_called: [], [how]: columnExpr(c.name), unit: money ? 'currency' : 'number', ...currency, ...(money ? {} : unitLabelOf(name)), ...directionOf(name), kind });
+      const unitLabel = money ? {} : unitLabelOf(name);
+      // Whole numbers added up (orders, items, a headcount) count things: unit count.
+      const counted = !money && how === 'sum' && !unitLabel.unit_label && wholeNumbers && c.examples.length > 0;
+      metrics.push({ name: metricName, label: labelOf(c.name, unitSaid), also_called: [], [how]: columnExpr(c.name), unit: money ? 'currency' : counted ? 'count' : 'number', ...currency, ...unitLabel, ...directionOf(name), kind });
       continue;
     }
     if (c.family !== 'text' || c.values === 0) continue;
@@ -408,6 +547,12 @@ export function draftConfig(input: DraftInput): Draft {
     } else {
       leftOutText.push(`${c.name} (${c.values.toLocaleString('en')} value${c.values === 1 ? '' : 's'}${freeText(c) ? ', free text' : ''})`);
     }
+  }
+  if (cell && metrics.some((m) => m !== rowsMetric && (m.sum !== undefined || m.average !== undefined))) {
+    metrics.splice(metrics.indexOf(rowsMetric), 1);
+    delete comments[rowsName];
+    const per = cell.breakdowns.length ? `${[cell.time, ...cell.breakdowns].join(' × ')} cell` : cell.time;
+    notes.push(`no count of rows: the data has one row per ${per}, holding figures already counted, so a count of rows would count ${cell.breakdowns.length ? 'cells' : `${cell.time}s`}, not events (add {name: rows, count: rows, kind: flow} if each row is an event)`);
   }
   if (leftOutCodes.length) notes.push(`left out (numbers that are not amounts): ${leftOutCodes.join(', ')}`);
   if (numericText.length) notes.push(`left out (numbers written as text: add a metric over CAST(column AS DOUBLE) if they are amounts): ${numericText.join(', ')}`);
@@ -443,9 +588,32 @@ export function draftConfig(input: DraftInput): Draft {
     // totals each date and averages the dates of a period (a year is its mean monthly total).
     const wholeCounts = c.examples.length > 0 && c.examples.every((v) => /^\d+$/.test(v.trim())) && (c.min === undefined || c.min >= 0);
     const stockName = STOCK_WORDS.test(name);
+    // A net change per row (jobs added in a month): the period's change is the rows' sum, rises
+    // netted against falls, which is what a net change over a period means. Read from the data when
+    // its values are the steps of another column, else from a name that says change with values
+    // going both ways.
+    const changeOf = steps?.[c.name]?.changeOf ?? [];
+    const changeWord = CHANGE_WORDS.exec(name)?.[2];
+    if (!flow && c.min !== undefined && c.min < 0 && (changeOf.length > 0 || changeWord)) {
+      const evidence = changeOf.length
+        ? `its values are the step from one ${timeName} to the next of ${changeOf.join(', ')}`
+        : `its name says so ("${changeWord}")`;
+      return { how: 'sum', kind: 'flow', why: `a net change in each row, added up over time: ${evidence}, and its values go both ways (${c.min} to ${c.max}), so a period's change is the sum of its rows, rises netted against falls (make it average and kind: ratio if each row is a rate of change)` };
+    }
     if ((panel || !eventsPerStamp) && !flow && (stockName || (panel && wholeCounts && !LEVEL_WORDS.test(name)))) {
       const per = panel ? `one row per ${panel.dimension} per ${panel.time}` : `one row per ${timeName}`;
       return { how: 'sum', kind: 'level', why: `a level held at each ${timeName} (${stockName ? 'its name reads as a count held, such as a headcount' : 'whole numbers, read as a count of people or things'}): the data has ${per}, so it is totalled on each ${timeName} and averaged over the ${timeName}s of a period (make it average if a total across rows means nothing, such as a temperature; sum and kind: flow if it adds up over time)` };
+    }
+    // One row per date and a value that moves slowly for its size: a stock (a headcount, a balance)
+    // held at each date, not an amount made in it. Named readings (a price, a temperature) stay averages below.
+    const held = !flow && !eventsPerStamp && !LEVEL_WORDS.test(name) && !PER_ROW_WORDS.test(name) ? steady(c) : undefined;
+    if (held) {
+      const pct = `${(held.relativeStep! * 100).toFixed(held.relativeStep! < 0.001 ? 2 : 1)}%`;
+      return {
+        how: 'sum',
+        kind: 'level',
+        why: `a level held at each ${timeName}: the data has one row per ${timeName} and ${c.name} moves slowly for its size (each value correlates ${held.lag1!.toFixed(3)} with the one before over ${held.stamps} ${timeName}s; a typical step is ${pct} of its size), as a stock such as a headcount or a balance does, not an amount made in each ${timeName}: so it is taken on each ${timeName} and averaged over the ${timeName}s of a period (sum and kind: flow if it adds up over time)`,
+      };
     }
     if (LEVEL_WORDS.test(name) && (panel || !eventsPerStamp)) return { how: 'average', kind: 'level', why: 'a level (its name reads as a reading), averaged over time' };
     if (LEVEL_WORDS.test(name)) return { how: 'average', kind: 'ratio', why: `a value per row (its name reads as a reading; the data has ${(input.rows / timeValues).toFixed(1)} rows per ${timeName} on average, so the mean per row), averaged over the rows` };

@@ -27,8 +27,8 @@ describe('threadcount init', () => {
     expect(ds.time_column).toBe('date');
     expect(ds.source).toEqual({ kind: 'json', paths: [json] });
     const metrics = ds.metrics as Record<string, unknown>[];
-    // Nothing adds up a calendar part.
-    expect(metrics.map((m) => m.sum ?? m.average ?? m.count)).toEqual(['rows', 'count', 'rate / 100']);
+    // Nothing adds up a calendar part; one row per industry per month holds counted figures, so no count of rows.
+    expect(metrics.map((m) => m.sum ?? m.average ?? m.count)).toEqual(['count', 'rate / 100']);
     // The file's rates are percent points (e.g. 9.7 for 9.7%): divided by 100 for unit percent.
     expect(metrics.find((m) => m.name === 'rate')).toMatchObject({ average: 'rate / 100', unit: 'percent', kind: 'level' });
     expect(ds.dimensions).toEqual([expect.objectContaining({ name: 'series', column: 'series' })]);

@@ -103,7 +103,9 @@ describe('init on readings per industry per month (unemployment-across-industrie
     expect(text).toMatch(/# drafted by init: a level held at each date \(whole numbers, read as a count of people or things\): the data has one row per series per date/);
     // The draft's own notes are comments: a description is what requesters read under a chart.
     for (const m of metrics) expect(String(m.description ?? '')).not.toMatch(/init/);
-    expect(text).toMatch(/# drafted by init: the number of rows\n\s+- name: rows/);
+    // Each row is one industry's figure for one month, already counted: no count of rows (it would count cells).
+    expect(metrics.map((m) => m.name)).not.toContain('rows');
+    expect(r.out).toContain('no count of rows: the data has one row per date × series cell');
     const check = await run(['check', '--config', file]);
     expect(check.code).toBe(0);
     expect(check.out).toMatch(/count: level, sum of count/);
@@ -261,7 +263,8 @@ describe('init on money named with a mark (birdstrikes.csv)', () => {
     // Several strikes a day on average: the speed is a value per strike, averaged per row; its name states knots.
     const dates = header!.split(',').indexOf('Flight Date');
     expect(lines.length / new Set(lines.map((l) => l.split(',')[dates])).size).toBeGreaterThan(1.5);
-    expect(metrics.find((m) => m.name === 'speed_ias_in_knots')).toMatchObject({ average: '"Speed IAS in knots"', unit: 'number', unit_label: 'kt', kind: 'ratio' });
+    // The unit is said by unit_label, so neither the name nor the label repeats it.
+    expect(metrics.find((m) => m.name === 'speed_ias')).toMatchObject({ label: 'Speed IAS', average: '"Speed IAS in knots"', unit: 'number', unit_label: 'kt', kind: 'ratio' });
     // An airport's name is a place, not a person's: a breakdown, never personal data.
     expect(ds.dimensions).toContainEqual(expect.objectContaining({ column: 'Airport Name' }));
     expect((ds.dimensions as Record<string, unknown>[]).find((d) => d.column === 'Airport Name')).not.toHaveProperty('personal_data');
