@@ -59,9 +59,14 @@ export function withoutUnitLabel(fmt: ValueFormat): ValueFormat {
 // compact suffix ("142K thousand"), so such values are written out in full ("141,819 thousand").
 const MAGNITUDE_LABEL = /^(?:thousands?|millions?|billions?|k|m|mn|bn|000s?)$/i;
 
+/** Whether the format's unit name is itself a magnitude ("thousand"), which no compact suffix may stack on. */
+export function hasMagnitudeLabel(fmt: ValueFormat): boolean {
+  return fmt.label !== undefined && MAGNITUDE_LABEL.test(fmt.label.trim());
+}
+
 export function formatValue(value: number | null, fmt: ValueFormat, opts: FormatOptions = {}): string {
   if (value === null || !Number.isFinite(value)) return NOT_AVAILABLE;
-  if (opts.compact && fmt.label && MAGNITUDE_LABEL.test(fmt.label.trim())) opts = { ...opts, compact: false };
+  if (opts.compact && hasMagnitudeLabel(fmt)) opts = { ...opts, compact: false };
   const options = numberOptions(value, fmt, opts);
   const text = withMinus(numberFormat(fmt.locale, options).format(value === 0 ? 0 : value));
   // A no-break space keeps "355 ppm" together on a narrow line.

@@ -1,4 +1,4 @@
-import { formatValue, type ValueFormat } from '../format.js';
+import { formatValue, hasMagnitudeLabel, withoutUnitLabel, type ValueFormat } from '../format.js';
 import { headerOf, monthNames } from './header.js';
 import type { ChartHeader, SeasonalMonth, SeasonalProfileSpec } from './spec.js';
 
@@ -19,6 +19,11 @@ export interface SeasonalProfileInput extends ChartHeader {
   deviationFormat?: ValueFormat;
   /** The index axis's title, when not the default (a flow's index is of monthly totals). */
   indexTitle?: string;
+  /**
+   * The metric is a flow (bookings, revenue): its months are busier or quieter than an average
+   * one. A level or a ratio (an average basket, a rate) is higher or lower instead.
+   */
+  flow: boolean;
 }
 
 export function buildSeasonalProfile(input: SeasonalProfileInput): SeasonalProfileSpec {
@@ -33,7 +38,7 @@ export function buildSeasonalProfile(input: SeasonalProfileInput): SeasonalProfi
       min: finiteOrNull(m?.min ?? null),
       max: finiteOrNull(m?.max ?? null),
       text: input.deviationFormat
-        ? formatValue(index, input.deviationFormat, { compact: true, signed: true })
+        ? deviationText(index, input.deviationFormat)
         : formatValue(index, { unit: 'number', decimals: indexDecimals(index), locale: input.locale }),
     };
   });
@@ -46,7 +51,25 @@ export function buildSeasonalProfile(input: SeasonalProfileInput): SeasonalProfi
     rangeLabel: input.rangeLabel,
     ...(input.indexTitle ? { indexTitle: input.indexTitle } : {}),
     ...(input.deviationFormat ? { units: deviationAxis(input.deviationFormat) } : {}),
+    legend: legendWords(input),
   };
+}
+
+/**
+ * A deviation's bar label without the unit's name, which the axis title gives once: "+5.71", not
+ * "+5.71 thousand" twelve times over a crowded chart. A magnitude unit ("thousand") keeps whole
+ * figures ("+1,234"), never a suffix stacked on it ("+1.23K" thousand).
+ */
+function deviationText(index: number | null, format: ValueFormat): string {
+  return formatValue(index, withoutUnitLabel(format), { compact: !hasMagnitudeLabel(format), signed: true });
+}
+
+function legendWords(input: SeasonalProfileInput): SeasonalProfileSpec['legend'] {
+  if (input.deviationFormat) return { above: 'Above the yearly mean', below: 'Below', reference: 'Yearly mean' };
+  const reference = `Average month = ${formatValue(1, { unit: 'number', decimals: 1, locale: input.locale })}`;
+  return input.flow
+    ? { above: 'Busier than an average month', below: 'Quieter', reference }
+    : { above: 'Higher than an average month', below: 'Lower', reference };
 }
 
 /**
@@ -61,12 +84,10 @@ function finiteOrNull(v: number | null): number | null {
   return v !== null && Number.isFinite(v) ? v : null;
 }
 
+/** The axis's ticks go without the unit's name too: its title carries it. */
 function deviationAxis(format: ValueFormat): NonNullable<SeasonalProfileSpec['units']> {
   return {
-    format,
+    format: withoutUnitLabel(format),
     axisTitle: `Difference from the yearly mean${format.label ? ` (${format.label})` : ''}`,
-    referenceLabel: 'Yearly mean',
-    above: 'Above the yearly mean',
-    below: 'Below',
   };
 }

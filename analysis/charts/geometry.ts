@@ -15,6 +15,9 @@ export interface PlacedMark extends Point {
   role: string;
   /** The mark's text label, when it has one. */
   box?: Box;
+  /** The label's text and font size (device pixels), where tests read the ink back. */
+  text?: string;
+  fontSize?: number;
 }
 
 export interface PlacedLine {

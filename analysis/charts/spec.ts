@@ -218,7 +218,7 @@ export interface SeasonalMonth {
   /** Lowest and highest index of that month across the years. */
   min: number | null;
   max: number | null;
-  /** "1.32". */
+  /** "1.32"; a deviation in units without the unit's name ("+5.71"), which the axis title gives once. */
   text: string;
 }
 
@@ -233,7 +233,12 @@ export interface SeasonalProfileSpec extends ChartHeader {
    * Present when the bars are deviations in the metric's units (a level's additive pattern): the
    * axis runs through zero in units, never from 0 to an index.
    */
-  units?: { format: ValueFormat; axisTitle: string; referenceLabel: string; above: string; below: string };
+  units?: { format: ValueFormat; axisTitle: string };
+  /**
+   * Legend words of the two bar colours and the reference line, in the metric's terms: a flow is
+   * "busier" or "quieter" than an average month, a level or ratio "higher" or "lower".
+   */
+  legend: { above: string; below: string; reference: string };
   /** Legend text of the whiskers, e.g. "Range 2022–2024". */
   rangeLabel: string;
   /** The index axis's title when it is not the default: a flow's index is of monthly totals. */

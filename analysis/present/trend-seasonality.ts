@@ -4,7 +4,7 @@ import { buildBars } from '../charts/build-bars.js';
 import { buildSeasonalProfile } from '../charts/build-seasonal-profile.js';
 import { seasonalityWords } from '../captions/trend-seasonality-caption.js';
 import { weekdayName } from '../captions/trend-words.js';
-import { isAdditive, metricByName } from '../catalog.js';
+import { isAdditive, metricByName, quantityKind } from '../catalog.js';
 import type { TrendSeasonalityFinding, TrendWeekdayFinding } from '../findings/segments.js';
 import { valueFormatOf } from '../format.js';
 import { caveatNotes, chartFooter, chartSubtitle } from './header.js';
@@ -32,6 +32,7 @@ export const presentTrendSeasonality: Presenter = (answer, ctx) => {
       ...header,
       months: profile.months.map((m) => ({ month: m.month, index: m.index, min: m.min, max: m.max })),
       locale: ctx.locale,
+      flow: quantityKind(metric) === 'flow',
       rangeLabel: profile.rangeFromYear !== null && profile.rangeToYear !== null ? `Range across ${profile.rangeFromYear}–${profile.rangeToYear}` : 'Range across years',
       ...(profile.model === 'additive' ? { deviationFormat: valueFormatOf(metric, ctx.locale) } : {}),
       // A flow's index is of monthly totals, which favour long months; the caption gives the

@@ -356,6 +356,7 @@ describe('buildSeasonalProfile', () => {
       months: [{ month: 8, index: 1.5, min: 1.4, max: 1.6 }],
       locale: LOCALE,
       rangeLabel: 'Range',
+      flow: true,
     });
     expect(spec.months).toHaveLength(12);
     expect(spec.months[7]).toEqual({ label: 'Aug', index: 1.5, min: 1.4, max: 1.6, text: '1.50' });

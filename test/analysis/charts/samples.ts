@@ -240,6 +240,7 @@ export function seasonalSpec(extra: Partial<ChartHeader> = {}) {
     months: seasonalIndices(),
     locale: LOCALE,
     rangeLabel: 'Range across 2022–2024',
+    flow: true,
   });
 }
 

@@ -14,6 +14,7 @@ describe('seasonal profile labels', () => {
       months: indices.map((index, k) => ({ month: k + 1, index, min: null, max: null })),
       locale: 'en',
       rangeLabel: 'Range',
+      flow: true,
       indexTitle: 'Index of monthly totals (average month = 1.0)',
     });
     spec.months.forEach((m, k) => {
@@ -23,5 +24,31 @@ describe('seasonal profile labels', () => {
     expect(spec.months.map((m) => m.text).slice(4, 6)).toEqual(['1.002', '0.996']);
     expect(spec.months[7]!.text).toBe('1.07');
     expect(spec.indexTitle).toBe('Index of monthly totals (average month = 1.0)');
+  });
+
+  it('word the legend by the metric kind: a flow is busier or quieter, a basket or a rate higher or lower', () => {
+    const months = [{ month: 1, index: 1.002, min: null, max: null }];
+    const flow = buildSeasonalProfile({ ...header, months, locale: 'en', rangeLabel: 'Range', flow: true });
+    const basket = buildSeasonalProfile({ ...header, months, locale: 'en', rangeLabel: 'Range', flow: false });
+    expect(flow.legend).toMatchObject({ above: 'Busier than an average month', below: 'Quieter' });
+    expect(basket.legend).toMatchObject({ above: 'Higher than an average month', below: 'Lower' });
+    expect(`${basket.legend.above} ${basket.legend.below}`).not.toMatch(/busier|quieter/i);
+  });
+
+  it('print a deviation in thousands without the unit on every bar: the axis title says it once', () => {
+    // BLS payroll deviations are kept in thousands (vega-datasets us-employment.csv).
+    const spec = buildSeasonalProfile({
+      ...header,
+      months: [{ month: 2, index: -30.4, min: -420, max: 260 }, { month: 5, index: 1234.5, min: 0, max: 2000 }],
+      locale: 'en',
+      rangeLabel: 'Range',
+      flow: false,
+      deviationFormat: { unit: 'number', label: 'thousand', locale: 'en' },
+    });
+    expect(spec.months[1]!.text).toBe('\u221230.4');
+    // Whole figures, never a compact suffix stacked on the magnitude ("+1.23K" thousand).
+    expect(spec.months[4]!.text).toBe('+1,235');
+    expect(spec.units?.axisTitle).toBe('Difference from the yearly mean (thousand)');
+    expect(spec.legend.reference).toBe('Yearly mean');
   });
 });

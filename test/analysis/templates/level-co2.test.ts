@@ -154,7 +154,8 @@ describe('a level (Mauna Loa CO2) is stated in its own units', () => {
     const spec = shown.chart as SeasonalProfileSpec;
     expect(spec.reference).toBe(0);
     expect(spec.units?.axisTitle).toBe('Difference from the yearly mean (ppm)');
-    expect(spec.months[4]!.text).toBe(`+${may.toFixed(1)}\u00a0ppm`);
+    // The unit is said once, in the axis title, not after each of twelve bar labels.
+    expect(spec.months[4]!.text).toBe(`+${may.toFixed(1)}`);
     // Drawn around zero: months above the mean end above the reference line, those below beneath it.
     const { png, geometry } = await renderChartWithGeometry(spec);
     if (process.env.TC_CHART_DIR) writeFileSync(join(process.env.TC_CHART_DIR, 'co2-seasonal.png'), png);
