@@ -23,6 +23,8 @@ export interface CatalogEntry {
   partial?: boolean;
   /** A value that is also an everyday word ("foot", "high"): taken only with a cue beside it. */
   weak?: boolean;
+  /** Another form of a one-word value ("rainy" of "rain"), not the data's own text. */
+  form?: boolean;
 }
 
 export interface CatalogHit extends Span {
@@ -50,6 +52,8 @@ export interface PreparedCatalog {
   /** Phrases by their number of words, longest first. */
   byLength: Map<number, Map<string, Prepared>>;
   lengths: number[];
+  /** Phrases of several words by "length:position:word", for finding a typo inside a longer name. */
+  byWordAt: Map<string, Prepared[]>;
   entries: CatalogEntry[];
 }
 
@@ -115,7 +119,12 @@ export function prepareCatalog(ds: DatasetConfig, values?: ValueIndex): Prepared
     const to = words.some((w) => TO_END_WORDS.has(w));
     if (from !== to) ends.set(d.name, from ? 'from' : 'to');
   }
-  const prepared = { dataset: ds, dimensionWords, ends, byLength, lengths: [...byLength.keys()].sort((a, b) => b - a), entries };
+  const byWordAt = new Map<string, Prepared[]>();
+  for (const [n, bucket] of byLength) {
+    if (n < 2) continue;
+    for (const p of bucket.values()) p.words.forEach((w, k) => byWordAt.set(`${n}:${k}:${w}`, [...(byWordAt.get(`${n}:${k}:${w}`) ?? []), p]));
+  }
+  const prepared = { dataset: ds, dimensionWords, ends, byLength, lengths: [...byLength.keys()].sort((a, b) => b - a), byWordAt, entries };
   perDataset.set(key, prepared);
   return prepared;
 }
@@ -143,7 +152,8 @@ function catalogEntries(ds: DatasetConfig, values?: ValueIndex): CatalogEntry[] 
     for (const v of index.values) {
       const text = v.value;
       const weak = isWeakPhrase(text);
-      add('value', d.name, [text, ...(aliases[text] ?? []), ...(weak ? [] : valueWordForms(text))], { value: text, weak });
+      add('value', d.name, [text, ...(aliases[text] ?? [])], { value: text, weak });
+      if (!weak) add('value', d.name, valueWordForms(text).filter((f) => f !== text.toLowerCase()), { value: text, form: true });
     }
     // Parts of multi-word values ("Saltreach" of "Mainland–Saltreach"): distinctive words only.
     const partsSeen = new Map<string, string[]>();
@@ -262,6 +272,30 @@ export function findCatalogHits(text: RequestText, catalog: PreparedCatalog, opt
   // "per", "a", "each", "the"... ("revenue per booking").
   const verbForNoun = (i: number, p: Prepared) =>
     p.raw.some((r, k) => r.endsWith('ings') && words[i + k]!.norm.endsWith('ing') && !/^(?:per|a|an|each|every|one|the|our|their|its|by|average|avg|first|last|single)$/.test(words[i + k - 1]?.norm ?? ''));
+  const oneWord = catalog.byLength.get(1);
+  // A typo inside a longer name ("unemplyment rate") is that name, not a shorter one written
+  // right ("rate"): the longest phrase wins across the exact and the typo pass, when the other
+  // words are written right and the mistyped one is no catalog word or everyday word itself.
+  const typoInLonger = (i: number, n: number): Prepared | undefined => {
+    const ws = stems.slice(i, i + n);
+    // Only phrases sharing a word in its place with the window: looked up, not scanned.
+    const candidates = new Set(ws.flatMap((w, k) => catalog.byWordAt.get(`${n}:${k}:${w}`) ?? []));
+    for (const p of candidates) {
+      let wrong = 0;
+      const ok = p.words.every((target, k) => {
+        const w = ws[k]!;
+        if (w === target) return true;
+        wrong++;
+        return w.length >= 5 && !EVERYDAY.has(w) && !oneWord?.has(w) && distance(w, target) <= Math.max(1, allowedEdits(target.length));
+      });
+      if (ok && wrong === 1) return p;
+    }
+    return undefined;
+  };
+  // A value's other form right after a person or an auxiliary is a verb of the request, not the
+  // value ("did we carry" is not "car", "we rained" is no weather): "rainy days", "when it rained" stay.
+  const onlyForms = (p: Prepared) => p.entries.every((e) => e.form);
+  const verbAfterSubject = (i: number, p: Prepared) => onlyForms(p) && /^(?:we|i|you|they|he|she|did|do|does|didn't|don't|doesn't|will|would|could|can|should|shall|must|might|to|not)$/.test(words[i - 1]?.norm ?? '');
   for (const pass of options.typos === false ? (['exact'] as const) : (['exact', 'typo', 'family'] as const)) {
     const exactPass = pass === 'exact';
     for (const n of catalog.lengths) {
@@ -273,7 +307,11 @@ export function findCatalogHits(text: RequestText, catalog: PreparedCatalog, opt
         const window = stems.slice(i, i + n).join(' ');
         if (exactPass) {
           const p = bucket.get(window);
-          if (p && !verbForNoun(i, p)) take(i, n, p.entries, true);
+          if (p && !verbForNoun(i, p) && !verbAfterSubject(i, p)) take(i, n, p.entries, true);
+          else if (n > 1 && options.typos !== false) {
+            const q = typoInLonger(i, n);
+            if (q && !verbForNoun(i, q)) take(i, n, q.entries, false);
+          }
           continue;
         }
         // Typos only in words that are not everyday words themselves ("tips" is not "trips").
@@ -282,6 +320,8 @@ export function findCatalogHits(text: RequestText, catalog: PreparedCatalog, opt
         const p = pass === 'typo' ? closestWithin(window, bucket) ?? (n === 1 && words[i]!.norm !== window ? closestWithin(words[i]!.norm, bucket) : undefined) : n === 1 ? sameFamily(window, bucket) : undefined;
         // "taking" is not a typo of "takings": a plural noun of its own.
         if (p && p.raw.some((r) => r.endsWith('ings')) && window.split(' ').some((w) => w.endsWith('ing'))) continue;
+        // A typo of a value's other form is two guesses deep ("carried" is not "carred" of "car").
+        if (p && onlyForms(p)) continue;
         if (p) take(i, n, p.entries, false);
       }
     }

@@ -25,8 +25,10 @@ const E = `(?![\\p{L}\\p{N}])`;
 const CUE = `(?:by|before|due(?:\\s+(?:by|on))?|until|till|no\\s+later\\s+than|in\\s+time\\s+for|ahead\\s+of|for|need(?:ed)?\\s+(?:it|this|these|them|that|the\\s+\\w+)?\\s*(?:by|for|on)?|deadline(?:\\s+is)?:?|latest)`;
 const MEETING = `(?:review|meeting|board|call|session|presentation|offsite|off-site|sync|catch-?up|standup|stand-up|huddle|deadline|committee|update|readout|deck|report|briefing|brief|pack|all-hands|town\\s+hall|debrief|retro|workshop|1:1|one-to-one|check-in)`;
 const DAY_OF_MONTH = `(?:the\\s+)?(\\d{1,2})(?:st|nd|rd|th)(?![\\p{L}])`;
-const DAY_MONTH = `(\\d{1,2})(?:st|nd|rd|th)?(?:\\s+of)?\\s+(${MONTH_PATTERN})\\.?(?:,?\\s+((?:19|20)\\d{2}))?`;
-const MONTH_DAY = `(${MONTH_PATTERN})\\.?\\s+(\\d{1,2})(?:st|nd|rd|th)?(?:,?\\s+((?:19|20)\\d{2}))?`;
+const DAY_MONTH = `(\\d{1,2})(?![\\p{N}])(?:st|nd|rd|th)?(?:\\s+of)?\\s+(${MONTH_PATTERN})\\.?(?:,?\\s+((?:19|20)\\d{2}))?`;
+// A month before a four-digit year ("for January 2010") is a period of the data, not the 20th:
+// the day's digits end the number.
+const MONTH_DAY = `(${MONTH_PATTERN})\\.?\\s+(\\d{1,2})(?![\\p{N}])(?:st|nd|rd|th)?(?:,?\\s+((?:19|20)\\d{2}))?`;
 const ISO = `((?:19|20)\\d{2})-(\\d{2})-(\\d{2})`;
 const NUMERIC = `(\\d{1,2})/(\\d{1,2})(?:/(\\d{4}|\\d{2}))?(?![\\p{N}/])`;
 const WEEKDAY = `(?:(this|next|coming|the\\s+coming)\\s+)?(${WEEKDAY_PATTERN})(?:'s)?(?![\\p{L}])`;

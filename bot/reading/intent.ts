@@ -36,15 +36,18 @@ export interface IntentReading {
 }
 
 // A snapshot phrase around one period: "what was revenue in March", "how many tickets yesterday".
-const ASKS_AMOUNT = /\b(?:what(?:'s|\s+is|\s+are|\s+was|\s+were)|how\s+many|how\s+much|how\s+(?:quiet|busy|good|bad|strong|weak)\s+(?:was|were|is|are)|give\s+me|tell\s+me)\b/;
+// "whats" is "what's" typed without its apostrophe.
+const ASKS_AMOUNT = /\b(?:what(?:'s|s|\s+is|\s+are|\s+was|\s+were)|how\s+many|how\s+much|how\s+(?:quiet|busy|good|bad|strong|weak)\s+(?:was|were|is|are)|give\s+me|tell\s+me)\b/;
 // "How did April go", "how was last week": one period, in the past tense.
-const HOW_DID_IT_GO = /\bhow\s+(?:did|was|were)\b.{0,60}\b(?:go|do|look|turn\s+out|land|perform|end\s+up|shape\s+up)\b|\bhow\s+(?:was|were)\s+(?:last|this|the|our|yesterday|[a-z]+day)\b|\bhow(?:'s|'re|\s+is|\s+are)\b.{0,50}\b(?:doing|going|looking|performing)\b/;
+const HOW_DID_IT_GO = /\bhow\s+(?:did|was|were)\b.{0,60}\b(?:go|do|look|turn\s+out|land|perform|end\s+up|shape\s+up)\b|\bhow\s+(?:was|were)\s+(?:last|this|the|our|yesterday|[a-z]+day)\b|\bhow(?:'s|s|'re|\s+is|\s+are)\b.{0,50}\b(?:doing|going|looking|performing)\b/;
 // "how many users do we have": how things stand now.
 const HOW_MANY_NOW = /\bhow\s+(?:many|much)\b.{0,60}\b(?:do\s+we\s+have|have\s+we\s+got|are\s+there|is\s+there)\b/;
 // Whether something worked: "did X work", "is it working", "a success", "made a difference", "moved the needle", "any good".
 const WORKED = /\b(?:work(?:s|ed|ing)?|succe(?:ss|ssful|eded|ed|eds)|(?:make|made|making|makes)\s+(?:a|any|much\s+of\s+a|the)?\s*difference|mov(?:e|ed|ing)\s+the\s+needle|any\s+good|do(?:ne)?\s+anything|deliver(?:s|ed|ing)?|result(?:s|ed)?|outcomes?|lift|uplift)\b/;
 const CHANGE = /\b(?:trend\w*|over\s+time|mov\w*|evolv\w*|chang\w*|gr[eo]w\w*|declin\w*|increas\w*|decreas\w*|improv\w*|worsen\w*)\b/;
 const CHANGE_OR_PATTERN = /\b(?:trend\w*|over\s+time|pattern\w*|season\w*|month\s+by\s+month|week\s+by\s+week|quarter\s+by\s+quarter|year\s+by\s+year|mov\w*|evolv\w*|chang\w*|gr[eo]w\w*|declin\w*|increas\w*|decreas\w*|improv\w*|worsen\w*|been\s+going|been\s+doing|compar\w*|over\s+the)\b/;
+
+const TRENDING_DIRECTION = /\btrend(?:ing|ed|s)?\s+(?:up|down|upwards?|downwards?|higher|lower)\b|\b(?:an?|the)\s+(?:upward|downward|rising|falling)\s+trend\b/;
 
 export function readIntent(clause: string, f: IntentFeatures): IntentReading {
   const t = clause.toLowerCase().replace(/\b(?:growth|sales|finance|marketing|product|ops|support)\s+(?:team|meeting|review|leads?)\b/g, ' ');
@@ -76,6 +79,10 @@ export function readIntent(clause: string, f: IntentFeatures): IntentReading {
   if (onePeriod && ASKS_AMOUNT.test(t) && !f.comparesPeriods && !CHANGE.test(t) && !f.asksGrain) return choose('kpi', ['an amount in one period']);
   // A measure over one recent period, with no word of change or pattern: where it stands.
   if (f.window && f.windowRelative && span <= 370 && f.namesMeasure && !f.comparesPeriods && !f.asksGrain && !CHANGE_OR_PATTERN.test(t) && scores.growth === 0) return choose('kpi', ['one recent period']);
+  // "is X trending up?", "trending down since 2015": whether there is a trend, and its direction, over the
+  // window: the trend test, not a change between two periods.
+  const trending = TRENDING_DIRECTION.exec(t);
+  if (trending && !f.comparesPeriods) return choose('trend', [trending[0]]);
   if (scores.growth > 0) return choose('growth', words.growth);
   if (scores.trend > 0) return choose('trend', words.trend);
   return { kind: null, words: '', scores };

@@ -79,6 +79,8 @@ export interface PeriodMention extends Span {
   strong?: boolean;
   /** A day no calendar has ("30 February 2008"): the window is its month, and the reader says so. */
   notReal?: boolean;
+  /** The first day of the period named, before "since", "after" or "before" made a stretch of it: the date an event on it turns on. */
+  named?: string;
   words: string;
 }
 
@@ -237,6 +239,7 @@ function findPoints(text: RequestText, ctx: PeriodContext): Point[] {
   const seasonName = (w: string): Season => (w === 'fall' ? 'autumn' : (w as Season));
   for (const m of text.matches(re(`${B}(?:(this|last|past|previous|next)\\s+)?${SEASON}(?:\\s+(?:of\\s+)?(${YEAR}|${SHORT_YEAR})(?:\\s*[/-]\\s*(\\d{2}|${YEAR}))?)?${E}`))) {
     const s = seasonName(m[2]!);
+    if (m[2] === 'fall' && !m[1] && !m[3] && fallIsVerb(text, m.index, m.index + m[0].length)) continue;
     // "winter 2023/24" is the winter that starts in 2023: labelled by its January's year.
     const y = m[4] ? yearFrom(m[4].length === 2 ? `'${m[4]}` : m[4]) : m[3] ? yearFrom(m[3]) : undefined;
     const label = m[4] && s !== 'winter' ? yearFrom(m[3]) : y;
@@ -266,6 +269,21 @@ function findPoints(text: RequestText, ctx: PeriodContext): Point[] {
     add(m.span, { unit: 'year', year: y, make: () => yearWindow(y), which: 'latest', month: 1, digitsYear: true });
   }
   return longestFirst(found);
+}
+
+/**
+ * A bare "fall" (no "this"/"last", no year) is the verb, not the season, when the words around it
+ * make it one: a degree or a direction after it ("fall faster", "fall by 3%", "fall from 7m to 6m",
+ * "fall sharply", "fall?"), or an auxiliary or "to" before it with no article or preposition
+ * between ("did construction employment fall", "expected to fall"). "in the fall", "during fall",
+ * "fall and spring", "fall bookings" stay the season.
+ */
+function fallIsVerb(text: RequestText, start: number, end: number): boolean {
+  const before = text.lower.slice(Math.max(0, start - 60), start);
+  if (/\b(?:the|in|during|since|from|until|till|through|over|each|every|of|for|this|that|last|next|between|vs\.?|versus|and|or|by|before|after|until)\s+$/.test(before)) return false;
+  const after = text.lower.slice(end, end + 30);
+  if (/^\s*(?:$|[?!.;,)]|(?:faster|slower|further|farther|more|less|most|least|much|sharply|steeply|quickly|slowly|sharpest|back|off|behind|below|under|short|again|by|from|to|as|than|away|apart|flat)\b)/.test(after)) return true;
+  return /\b(?:did|does|do|didn't|doesn't|don't|will|would|could|can|might|may|should|shall|to|not|never|also|still|always)\s+(?:[\p{L}'-]+\s+){0,4}$/u.test(before) && !/\b(?:the|a|an|in|during|of)\s+$/.test(before);
 }
 
 /** "may" and "march" name a month only where the words around them say so. */
@@ -476,6 +494,7 @@ export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMentio
     const since = /\b(?:since|from|starting(?:\s+(?:in|from|with))?|beginning(?:\s+(?:in|from|with))?|after|post)\s+(?:the\s+(?:start|beginning)\s+of\s+)?(?:the\s+)?$/.exec(before);
     if (since && m.window && !m.shift && (/^since|^starting|^beginning|^post|^after/.test(since[0]) || /^\s*(?:on(?:wards?)?|onward)\b/.test(after) || !/^\s*(?:to|until|till|through|-)/.test(after))) {
       const isAfter = /^after|^post/.test(since[0]);
+      m.named = m.window.start;
       if (m.unit === 'year' || m.unit === 'quarter' || m.unit === 'month') m.startUnit = m.unit;
       m.window = { start: isAfter ? m.window.end : m.window.start, end: m.window.end };
       m.toLatest = true;
@@ -494,6 +513,7 @@ export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMentio
     }
     const until = /\b(?:until|till|up\s+to|through|thru|before|prior\s+to)\s+(?:the\s+end\s+of\s+)?$/.exec(before);
     if (until && m.window && !m.shift && !since) {
+      m.named = m.window.start;
       if (/^(?:before|prior)/.test(until[0])) m.window = { start: m.window.start, end: m.window.start };
       m.fromEarliest = true;
       m.unit = 'span';

@@ -43,7 +43,7 @@ import { overlaps, RequestText, type Span } from './text.js';
 import { findUnknownTerms } from './unknown-words.js';
 import { mendCalendarWords } from './spelling.js';
 import { COUNTING } from './metric-ranking.js';
-import { groupMadeOf, isMemberValue, memberValues } from '../../analysis/catalog.js';
+import { groupMadeOf, isMemberValue, memberValues, metricKind } from '../../analysis/catalog.js';
 import { listJoin } from '../../analysis/captions/grammar.js';
 import { AUDIENCES, GRAINS } from '../../analysis/types.js';
 
@@ -725,6 +725,7 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
   for (const [i, h] of metricHits.entries()) {
     if (unitNouns[i] && !allUnits) continue;
     if (rowsUnit.has(h)) continue;
+    if (isHeadOfNamedPart(h, metricHits[i - 1], st)) continue;
     metrics.push(metricOf(h));
     metricWords.push(st.text.quote(h));
   }
@@ -907,6 +908,19 @@ function isBreakdown(h: CatalogHit, dim: string, hits: CatalogHit[], st: ReadSta
 
 function isContentWord(w: string): boolean {
   return w.length >= 3 && !STOPWORDS.has(w) && !ORDINARY.has(w) && !/^\d/.test(w);
+}
+
+/**
+ * The head noun of a measure already named ("construction employment", "retail trade jobs",
+ * "government jobs"): a measure of the same quantity (its unit, unit label, how it adds up and its
+ * kind) right after another names what that one is, not a second measure. A different quantity
+ * beside it ("booking revenue", "passenger counts") is left to the other rules.
+ */
+function isHeadOfNamedPart(h: CatalogHit, prev: CatalogHit | undefined, st: ReadState): boolean {
+  if (!prev || !/^\s+$/.test(st.text.lower.slice(prev.end, h.start))) return false;
+  const [a, b] = [st.ds.metrics.find((m) => m.name === metricOf(prev)), st.ds.metrics.find((m) => m.name === metricOf(h))];
+  if (!a || !b || a === b) return false;
+  return a.unit === b.unit && a.unit_label === b.unit_label && a.definition.type === b.definition.type && metricKind(st.ds, a) === metricKind(st.ds, b);
 }
 
 /** A metric word right after a group or a value, or after "by"/"of" a breakdown: the unit counted, not a measure. */
@@ -1168,11 +1182,22 @@ function monthsBetween(a: string, b: string): number {
 }
 
 /** "it launched on 9 Jan 2023", "since the price change on 1 May": the date a before/after turns on. */
+// An event's noun right after its date, with at most two words between ("2019 launch", "2024 price rise").
+const EVENT_AFTER = /^\s*(?:[\p{L}-]+\s+){0,2}?(?:launch|go-live|rollout|roll-out|relaunch|reorgani[sz]ation|reorg|restructur\w*|migration|redesign|price\s+(?:rise|increase|hike|cut|change)|campaign|promotion|merger|acquisition|rebrand)\b/u;
+
 function statedLaunch(periods: PeriodMention[], text: RequestText): { date: string; words: string; mention: PeriodMention } | undefined {
   for (const p of periods) {
-    if (!p.window || (p.unit !== 'day' && p.unit !== 'month' && p.unit !== 'week' && p.unit !== 'span')) continue;
+    if (!p.window) continue;
     const before = text.lower.slice(Math.max(0, p.start - 60), p.start);
     const after = text.lower.slice(p.end, p.end + 30);
+    // An event dated by its year or a period alone: "since the 2019 launch", "how did the 2024 price
+    // rise affect bookings", "before and after 2015" (the date it turns on: the period's first day).
+    const eventAfter = EVENT_AFTER.exec(after);
+    const beforeAndAfter = /\bbefore\s+(?:and|or|vs\.?|versus|v|&|\/)\s+$/.test(before) && /^(?:after|post)\b/.test(p.words.toLowerCase());
+    if ((eventAfter || beforeAndAfter) && !(p.relative && p.unit !== 'span')) {
+      return { date: p.named ?? p.window.start, words: text.quote(p), mention: p };
+    }
+    if (p.unit !== 'day' && p.unit !== 'month' && p.unit !== 'week' && p.unit !== 'span') continue;
     if (p.relative && p.unit !== 'span') continue;
     const verbs = /\b(?:launch(?:ed|es)?|start(?:ed|s)?|began|begun|went\s+(?:live|up|down)|go(?:es)?\s+live|introduc(?:ed|es)|rolled\s+out|roll-?out|kicked\s+off|switch(?:ed)?|changed|effective|took\s+effect|came\s+into\s+effect|live\s+(?:from|since|on)|rose|increased|decreased|was\s+cut|were\s+cut)\b[^.;!?]{0,40}$/;
     const nouns = /\b(?:launch|rise|increase|hike|cut|change|reorgani[sz]ation|reorg|restructur\w*|migration|redesign|rollout|roll-out|switch|update|campaign|promotion|sale|outage|new\s+\w+)\s+(?:on|from|in|of)\s+(?:the\s+)?$/;
