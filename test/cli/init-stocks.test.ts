@@ -11,6 +11,7 @@ import { join } from 'node:path';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { parse } from 'yaml';
 import { vegaDataFile } from '../helpers/open-data.js';
+import { describeWithPostgres, dropSchema, uniqueName, withClient } from '../helpers/postgres.js';
 import { runCli as run } from '../helpers/run-cli.js';
 
 afterEach(() => vi.restoreAllMocks());
@@ -143,5 +144,36 @@ describe('init names and units', () => {
     const low = ds.metrics.find((m) => m.name === 'temp_min');
     expect(low).toMatchObject({ label: 'Temp min', average: 'temp_min' });
     expect(low).not.toHaveProperty('unit_label');
+  });
+});
+
+describeWithPostgres('init on the headcounts as a PostgreSQL table', (adminUrl) => {
+  const schema = uniqueName('tc_init_stocks');
+  afterEach(() => {
+    delete process.env.TC_INIT_STOCKS_URL;
+  });
+
+  it('reads the same steps through PostgreSQL: nonfarm a level, nonfarm_change its net change', async () => {
+    const rows = csvRows(vegaDataFile('us-employment.csv'));
+    await withClient(adminUrl, async (c) => {
+      await c.query(`CREATE SCHEMA ${schema}`);
+      await c.query(`CREATE TABLE ${schema}.payrolls (month date, nonfarm int, construction int, nonfarm_change int)`);
+      const col = (k: string) => rows.map((r) => r[k]);
+      await c.query(`INSERT INTO ${schema}.payrolls SELECT * FROM unnest($1::date[], $2::int[], $3::int[], $4::int[])`, [col('month'), col('nonfarm'), col('construction'), col('nonfarm_change')]);
+    });
+    try {
+      const file = join(mkdtempSync(join(tmpdir(), 'tc-init-stocks-pg-')), 'payrolls.yaml');
+      const r = await run(['init', '--source', adminUrl, '--table', `${schema}.payrolls`, '--url-env', 'TC_INIT_STOCKS_URL', '--out', file]);
+      expect(r.code, r.err).toBe(0);
+      const text = readFileSync(file, 'utf8');
+      const ds = (parse(text) as { datasets: Dataset[] }).datasets[0]!;
+      expect(ds.metrics.find((m) => m.name === 'nonfarm')).toMatchObject({ sum: 'nonfarm', kind: 'level' });
+      expect(ds.metrics.find((m) => m.name === 'construction')).toMatchObject({ sum: 'construction', kind: 'level' });
+      expect(ds.metrics.find((m) => m.name === 'nonfarm_change')).toMatchObject({ sum: 'nonfarm_change', kind: 'flow' });
+      expect(commentAbove(text, 'nonfarm_change')).toContain('its values are the step from one month to the next of nonfarm');
+      expect(ds.metrics.map((m) => m.name)).not.toContain('rows');
+    } finally {
+      await dropSchema(adminUrl, schema);
+    }
   });
 });
