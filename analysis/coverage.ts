@@ -23,7 +23,30 @@ export interface Coverage {
    * (`lastDate`), and said once. Absent when no row is dated after the day.
    */
   afterToday?: DatesAfter;
+  /**
+   * Trailing days that hold almost nothing (a few rows stamped just past the end, such as 6 flights
+   * at 00:00 on 1 July after ~16,700 a day): `lastDate` is then the last full day, so no period
+   * running past it counts as complete, and the tail is said once. Absent when the last day is full.
+   */
+  strayTail?: StrayTail;
 }
+
+/** Days after the last full day (`lastDate`), each under STRAY_DAY_SHARE of a typical day's rows. */
+export interface StrayTail {
+  firstDate: string;
+  lastDate: string;
+  rows: number;
+  /** The median rows a day over the days the data has. */
+  typicalDayRows: number;
+}
+
+/**
+ * A trailing day under 1% of a typical (median) day's rows is a stray tail, not a day of data:
+ * common practice for judging a partial last period by its coverage, not a published standard.
+ */
+export const STRAY_DAY_SHARE = 0.01;
+/** Too few days to know what a typical day holds: no tail is judged. */
+const MIN_DAYS_FOR_TAIL = 7;
 
 /** Rows dated after `day`: how many, and the first and last of their dates. */
 export interface DatesAfter {
@@ -80,10 +103,18 @@ export function compileCoverage(ctx: CompileContext): CompiledQuery {
   SELECT ${localDateExpr(q, ctx)} AS tc_d, COUNT(*) AS tc_day_rows
   FROM ${tableRef(q, ctx)}
   GROUP BY 1
+), tc_typical AS (
+  SELECT ${n('percentile_cont(0.5) WITHIN GROUP (ORDER BY tc_day_rows)')} AS tc_typical_rows FROM tc_days WHERE tc_d IS NOT NULL
+), tc_full AS (
+  SELECT MAX(tc_d) AS tc_last_full FROM tc_days, tc_typical WHERE tc_day_rows >= ${STRAY_DAY_SHARE} * tc_typical_rows
 ), ${stampGaps('tc_days')}
 SELECT (SELECT MIN(tc_d) FROM tc_days) AS first_date,
   (SELECT MAX(tc_d) FROM tc_days) AS last_date,
   (SELECT ${n('SUM(tc_day_rows)')} FROM tc_days) AS row_count,
+  (SELECT tc_typical_rows FROM tc_typical) AS typical_day_rows,
+  (SELECT tc_last_full FROM tc_full) AS last_full_date,
+  (SELECT MIN(tc_d) FROM tc_days, tc_full WHERE tc_d > tc_last_full) AS tail_first_date,
+  (SELECT ${n('SUM(tc_day_rows)')} FROM tc_days, tc_full WHERE tc_d > tc_last_full) AS tail_rows,
   ${stampColumns(ctx.dialect).join(',\n  ')}
 FROM tc_gaps`);
 }
@@ -97,10 +128,26 @@ export function readCoverage(table: ResultTable): Coverage {
   };
 }
 
-/** The coverage and the stamp granularity, as a workspace keeps them. */
+/**
+ * The coverage and the stamp granularity, as a workspace keeps them. Daily (or irregular) data
+ * whose last days hold under STRAY_DAY_SHARE of a typical day ends on its last full day; the tail
+ * is kept in `strayTail`. Data stamped weekly or coarser has whole last periods by its stamp.
+ */
 export async function readDataCoverage(source: DataSource, ctx: CompileContext, options: RunOptions): Promise<Coverage> {
   const table = await source.run(compileCoverage(ctx), options);
-  return { ...readCoverage(table), stamps: readStamps(table) };
+  const coverage: Coverage = { ...readCoverage(table), stamps: readStamps(table) };
+  const tail = readStrayTail(table, coverage);
+  return tail ? { ...coverage, lastDate: tail.lastFull, strayTail: tail.strayTail } : coverage;
+}
+
+function readStrayTail(table: ResultTable, coverage: Coverage): { lastFull: string; strayTail: StrayTail } | null {
+  const r = table.rows[0] ?? {};
+  if (coverage.stamps !== 'daily' && coverage.stamps !== 'irregular') return null;
+  if (Number(r.dates ?? 0) < MIN_DAYS_FOR_TAIL || coverage.lastDate === null) return null;
+  const lastFull = r.last_full_date;
+  const first = r.tail_first_date;
+  if (typeof lastFull !== 'string' || typeof first !== 'string' || lastFull >= coverage.lastDate) return null;
+  return { lastFull, strayTail: { firstDate: first, lastDate: coverage.lastDate, rows: Number(r.tail_rows ?? 0), typicalDayRows: Number(r.typical_day_rows ?? 0) } };
 }
 
 /**

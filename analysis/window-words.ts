@@ -1,6 +1,6 @@
 // A window said back in plain words: "1 June to 18 June 2025 (the data ends there)", so the
 // requester can see how a period phrase was read.
-import { type Coverage, type DatesAfter, dataEnd } from './coverage.js';
+import { type Coverage, type DatesAfter, dataEnd, STRAY_DAY_SHARE, type StrayTail } from './coverage.js';
 import { formatPeriod } from './format.js';
 import { finestGrain } from './grains.js';
 import { addDays, periodStart } from './periods.js';
@@ -93,4 +93,15 @@ export function datesAfterWords(after: DatesAfter, locale = 'en-GB'): string {
   const span = after.firstDate === after.lastDate ? format(after.firstDate, locale, true) : `${format(after.firstDate, locale, true)} to ${format(after.lastDate, locale, true)}`;
   const rows = after.rows === 1 ? '1 row' : `${after.rows.toLocaleString('en')} rows`;
   return `${rows} dated after ${format(after.day, locale, true)} (${span}) ${after.rows === 1 ? 'is' : 'are'} left out: a date in the future is likely a mistake in the data.`;
+}
+
+/**
+ * A stray tail, said once: "6 rows dated 1 July 2001 (under 1% of a typical day's 16,668 rows)
+ * are read as a stray tail: the data is taken to end on 30 June 2001, the last full day."
+ */
+export function strayTailWords(tail: StrayTail, lastFullDay: string, locale = 'en-GB'): string {
+  const span = tail.firstDate === tail.lastDate ? format(tail.firstDate, locale, true) : `${format(tail.firstDate, locale, true)} to ${format(tail.lastDate, locale, true)}`;
+  const rows = tail.rows === 1 ? '1 row' : `${tail.rows.toLocaleString('en')} rows`;
+  const typical = Math.round(tail.typicalDayRows).toLocaleString('en');
+  return `${rows} dated ${span} (under ${Math.round(STRAY_DAY_SHARE * 100)}% of a typical day's ${typical} rows) ${tail.rows === 1 ? 'is' : 'are'} read as a stray tail: the data is taken to end on ${format(lastFullDay, locale, true)}, its last full day, and no period after it counts as complete.`;
 }

@@ -30,11 +30,11 @@ async function wholeCoverage(ws: CoverageSource): Promise<Coverage> {
   const key = entryKey(version, JSON.stringify([ws.context.timeColumnType, query.sql, query.params]));
   const file = coverageCacheFile(ws.config, ws.dataset);
   const kept = await readCoverageEntry(file, key);
-  if (kept) return { firstDate: kept.firstDate, lastDate: kept.lastDate, rows: kept.rows, ...(kept.stamps ? { stamps: kept.stamps } : {}) };
+  if (kept) return { firstDate: kept.firstDate, lastDate: kept.lastDate, rows: kept.rows, ...(kept.stamps ? { stamps: kept.stamps } : {}), ...(kept.strayTail ? { strayTail: kept.strayTail } : {}) };
   const coverage = await read();
   // Kept only if the data kept its version while the queries ran (see check-run.ts).
   if ((await dataVersion(ws).catch(() => null)) === version) {
-    await writeEntry(file, { key, firstDate: coverage.firstDate, lastDate: coverage.lastDate, rows: coverage.rows, ...(coverage.stamps ? { stamps: coverage.stamps } : {}) });
+    await writeEntry(file, { key, firstDate: coverage.firstDate, lastDate: coverage.lastDate, rows: coverage.rows, ...(coverage.stamps ? { stamps: coverage.stamps } : {}), ...(coverage.strayTail ? { strayTail: coverage.strayTail } : {}) });
   }
   return coverage;
 }

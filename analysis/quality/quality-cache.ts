@@ -71,6 +71,7 @@ export interface CoverageEntry {
   lastDate: string | null;
   rows: number;
   stamps?: StampGranularity;
+  strayTail?: { firstDate: string; lastDate: string; rows: number; typicalDayRows: number };
 }
 
 const day = z.string().regex(/^\d{4}-\d{2}-\d{2}$/).nullable();
@@ -81,6 +82,7 @@ const coverageSchema = z.object({
   lastDate: day,
   rows: count,
   stamps: z.enum(['daily', 'weekly', 'monthly', 'quarterly', 'yearly', 'irregular'] satisfies StampGranularity[]).optional(),
+  strayTail: z.object({ firstDate: z.string(), lastDate: z.string(), rows: count, typicalDayRows: count }).optional(),
 });
 
 export async function readCoverageEntry(file: string, key: string): Promise<CoverageEntry | null> {

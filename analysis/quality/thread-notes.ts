@@ -2,7 +2,7 @@
 // the data's freshness, repeated keys, negative amounts in rows, and a partial first or last
 // period of the data. Under an answer stays only what changes that answer.
 import type { Coverage } from '../coverage.js';
-import { datesAfterWords } from '../window-words.js';
+import { datesAfterWords, strayTailWords } from '../window-words.js';
 import { caveatNote } from '../captions/caveat-text.js';
 import { formatPeriod } from '../format.js';
 import { addDays, nextPeriod, periodStart } from '../periods.js';
@@ -108,6 +108,7 @@ export function threadNotes(items: readonly SubQuestion[], quality: QualityRepor
   }
   notes.push(...partialEnds(ws.coverage, locale));
   if (ws.coverage.afterToday) notes.push(datesAfterWords(ws.coverage.afterToday, locale));
+  if (ws.coverage.strayTail && ws.coverage.lastDate) notes.push(strayTailWords(ws.coverage.strayTail, ws.coverage.lastDate, locale));
   return [...new Set(notes)];
 }
 
