@@ -41,7 +41,13 @@ export function trendSummaryWords(metric: Metric, grain: Grain, findings: readon
       caption: `Only one complete ${per} is available (${when(s.minPeriod)}: ${v(s.mean)}), so there is no spread to describe.`,
     };
   }
-  const title = `${labelAtStart(metric.label)} averaged ${v(s.mean)}${perGrain}, from ${v(s.min)} to ${v(s.max)}`;
+  // An average over a span is the span's own ratio (its rows' sum over their count), never the mean
+  // of the periods' averages, which weights a quiet week like a busy one (January's delay per
+  // flight, not the mean of four weekly means). The periods' mean stays for a flow.
+  const r = s.rows;
+  const own = quantityKind(metric) !== 'flow' && r ? r.mean : s.mean;
+  const spread = own === s.mean ? `from ${v(s.min)} to ${v(s.max)}` : `${grainNoun(grain, 2)} from ${v(s.min)} to ${v(s.max)}`;
+  const title = `${labelAtStart(metric.label)} averaged ${v(own)}${perGrain}, ${spread}`;
   const range = `from ${v(s.min)} (${when(s.minPeriod)}) to ${v(s.max)} (${when(s.maxPeriod)})`;
   const outlierText = (o: TrendOutlierFinding) => `${when(o.period)} (${v(o.value)}${audience === 'analysts' ? `, modified z = ${formatIndex(o.score, locale)}` : ''})`;
   const stand =
@@ -54,7 +60,6 @@ export function trendSummaryWords(metric: Metric, grain: Grain, findings: readon
         }.`;
   // The statistics above are of the periods' values; an average's own rows are said apart, so a
   // median of weekly averages is never read as the median per flight.
-  const r = s.rows;
   const rowsLine = r
     ? ` Across the ${formatValue(r.n, { unit: 'count', locale })} ${rowsLabel ? inSentence(rowsLabel) : 'rows with a value'} themselves: mean ${v(r.mean)}, median ${v(r.median)}.`
     : '';
@@ -64,7 +69,10 @@ export function trendSummaryWords(metric: Metric, grain: Grain, findings: readon
     const mode = s.mode === null ? 'no repeated value' : `mode ${v(s.mode)} (${s.modeCount} times)`;
     caption = `Over ${s.n} complete ${grainNoun(grain, s.n)}${ofPeriods}: mean ${v(s.mean)}, median ${v(s.median)}, standard deviation ${v(s.sd)}, ${mode}; ${range}.${stand}${rowsLine}`;
   } else if (audience === 'managers') {
-    caption = `Over ${s.n} complete ${grainNoun(grain, s.n)}, ${inSentence(metric.label)} averaged ${v(s.mean)}${perGrain} (median${quantityKind(metric) === 'flow' ? '' : ` ${per}`} ${v(s.median)}), ${range}.${stand}${rowsLine}`;
+    caption =
+      own === s.mean
+        ? `Over ${s.n} complete ${grainNoun(grain, s.n)}, ${inSentence(metric.label)} averaged ${v(s.mean)}${perGrain} (median${quantityKind(metric) === 'flow' ? '' : ` ${per}`} ${v(s.median)}), ${range}.${stand}${rowsLine}`
+        : `The ${s.n} complete ${grainNoun(grain, s.n)}' values ran ${range} (median ${per} ${v(s.median)}).${stand}${rowsLine}`;
   } else {
     caption = `In a typical ${per}, ${inSentence(metric.label)} ${isPluralLabel(metric.label) ? 'are' : 'is'} about ${v(s.median)}; the range runs ${range}.${stand}${rowsLine}`;
   }
