@@ -43,10 +43,12 @@ export function trendSummaryWords(metric: Metric, grain: Grain, findings: readon
   }
   // An average over a span is the span's own ratio (its rows' sum over their count), never the mean
   // of the periods' averages, which weights a quiet week like a busy one (January's delay per
-  // flight, not the mean of four weekly means). The periods' mean stays for a flow.
+  // flight, not the mean of four weekly means). The periods' mean stays for a flow, and for a
+  // level, a reading averaged over time.
   const r = s.rows;
-  const own = quantityKind(metric) !== 'flow' && r ? r.mean : s.mean;
-  const spread = own === s.mean ? `from ${v(s.min)} to ${v(s.max)}` : `${grainNoun(grain, 2)} from ${v(s.min)} to ${v(s.max)}`;
+  const ownRatio = quantityKind(metric) === 'ratio' && r !== undefined;
+  const own = ownRatio ? r.mean : s.mean;
+  const spread = ownRatio ? `${grainNoun(grain, 2)} from ${v(s.min)} to ${v(s.max)}` : `from ${v(s.min)} to ${v(s.max)}`;
   const title = `${labelAtStart(metric.label)} averaged ${v(own)}${perGrain}, ${spread}`;
   const range = `from ${v(s.min)} (${when(s.minPeriod)}) to ${v(s.max)} (${when(s.maxPeriod)})`;
   const outlierText = (o: TrendOutlierFinding) => `${when(o.period)} (${v(o.value)}${audience === 'analysts' ? `, modified z = ${formatIndex(o.score, locale)}` : ''})`;
@@ -69,8 +71,7 @@ export function trendSummaryWords(metric: Metric, grain: Grain, findings: readon
     const mode = s.mode === null ? 'no repeated value' : `mode ${v(s.mode)} (${s.modeCount} times)`;
     caption = `Over ${s.n} complete ${grainNoun(grain, s.n)}${ofPeriods}: mean ${v(s.mean)}, median ${v(s.median)}, standard deviation ${v(s.sd)}, ${mode}; ${range}.${stand}${rowsLine}`;
   } else if (audience === 'managers') {
-    caption =
-      own === s.mean
+    caption = !ownRatio
         ? `Over ${s.n} complete ${grainNoun(grain, s.n)}, ${inSentence(metric.label)} averaged ${v(s.mean)}${perGrain} (median${quantityKind(metric) === 'flow' ? '' : ` ${per}`} ${v(s.median)}), ${range}.${stand}${rowsLine}`
         : `The ${s.n} complete ${grainNoun(grain, s.n)}' values ran ${range} (median ${per} ${v(s.median)}).${stand}${rowsLine}`;
   } else {
