@@ -360,6 +360,19 @@ function orientEnds(hits: CatalogHit[], text: RequestText, catalog: PreparedCata
       if (side.get(h) !== 'from' || side.get(prev) === 'from') side.set(h, side.get(prev) === 'to' ? 'from' : 'to');
     }
   }
+  // "ORD vs ATL - which has worse delays as an origin?", "as destinations": the role the sentence
+  // gives them places every value of both ends in it that no nearer words placed.
+  for (const h of valueHits) {
+    if (side.has(h) || !bothEnds(h)) continue;
+    const sentence = sentenceAround(text.lower, h.start, h.end);
+    const role = /\bas\s+(?:an?\s+|the\s+|their\s+|its\s+)?([\p{L}]+)/gu;
+    for (const m of sentence.matchAll(role)) {
+      const w = m[1]!;
+      if (FROM_END_WORDS.has(w) && w !== 'from') side.set(h, 'from');
+      else if (TO_END_WORDS.has(w) && w !== 'to') side.set(h, 'to');
+      if (side.has(h)) break;
+    }
+  }
   // Two parts of one breakdown's values joined so: the value named by both, in the order written.
   const route = new Map<CatalogHit, CatalogEntry>();
   for (const [h, prev] of joined) {
@@ -378,6 +391,13 @@ function orientEnds(hits: CatalogHit[], text: RequestText, catalog: PreparedCata
     const s = side.get(h);
     return s ? { ...h, entries: h.entries.filter((e) => e.kind !== 'value' || endOf(e) === s) } : h;
   });
+}
+
+/** The sentence holding a span: from the last stop before it to the first after it. */
+function sentenceAround(lower: string, start: number, end: number): string {
+  const from = Math.max(...['.', '!', '?', ';'].map((c) => lower.lastIndexOf(c, start - 1))) + 1;
+  const stops = ['.', '!', '?', ';'].map((c) => lower.indexOf(c, end)).filter((i) => i >= 0);
+  return lower.slice(from, stops.length > 0 ? Math.min(...stops) : lower.length);
 }
 
 // Words that name a period or a grain: in lower case they are nearly always the calendar's ("day

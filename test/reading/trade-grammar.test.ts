@@ -12,6 +12,7 @@ import { readBrief } from '../../cli/read.js';
 import type { BriefJson } from '../../bot/reading/brief-json.js';
 import { vegaDataFile } from '../helpers/open-data.js';
 import { NOW, readUnemployment } from './public-data.js';
+import { FLIGHTS_CONFIG } from './open-data-configs.js';
 
 // The sectors as init drafts them (averages of a headcount level, in thousands), with the other
 // names a newcomer adds to the total: "jobs", "employment".
@@ -136,5 +137,19 @@ describe('an event dated by its year alone is the date a before/after turns on',
   it('a stretch named by its start is still a change over it, not an event', async () => {
     const q = (await readUnemployment('How has unemployment changed since 2005?')).questions[0]!;
     expect(q).toMatchObject({ kind: 'growth', launchDate: null });
+  });
+});
+
+describe('the role a sentence gives two airports places both ("as an origin")', () => {
+  const readFlights = (text: string): Promise<BriefJson> => readBrief({ configFile: FLIGHTS_CONFIG, text, now: NOW });
+  it('"ORD vs ATL - which has worse average delays as an origin?" sets the two origins against each other', async () => {
+    const q = (await readFlights('ORD vs ATL - which has worse average delays as an origin?')).questions[0]!;
+    expect(q.contrast).toEqual({ dimension: 'origin', values: ['ORD', 'ATL'] });
+    expect(q.metrics).toEqual(['avg_delay']);
+  });
+
+  it('"as destinations" places them at the other end; with no role they are asked about', async () => {
+    expect((await readFlights('ORD vs ATL as destinations: which has the worse delays?')).questions[0]!.contrast).toEqual({ dimension: 'destination', values: ['ORD', 'ATL'] });
+    expect((await readFlights('ORD vs ATL - which has worse average delays?')).toAsk).toContain('values');
   });
 });
