@@ -3,7 +3,9 @@
 // subtitle; the source, the data's date and the caveat flags in the footer.
 import { filterSubtitleParts } from '../captions/scope-words.js';
 import { grainAdjective } from '../grains.js';
-import type { Metric } from '../../config/schema.js';
+import type { Metric, MetricKind } from '../../config/schema.js';
+import { labelAtStart } from '../captions/grammar.js';
+import { quantityKind } from '../catalog.js';
 import { caveatFlag, caveatNote } from '../captions/caveat-text.js';
 import { metricMeaning } from '../captions/metric-words.js';
 import { dataEnd } from '../coverage.js';
@@ -15,10 +17,26 @@ import type { Answer, Finding, PeriodPoint } from '../types.js';
 import type { PresentContext } from './presenter.js';
 
 
-/** What `metric` means, in the words its reader gets (no raw column names outside analysts). */
+// A formula that is still an expression ("mean of rate / 100"): arithmetic, brackets or a figure.
+const EXPRESSION = /[/*+()=<>%]|\s-\s|\d/;
+
+/**
+ * What `metric` means, in the words its reader gets (no raw column names outside analysts). With
+ * no description, a formula a reader would not say ("mean of rate / 100", or one naming a raw
+ * column) gives way to the metric's label and kind in words: "Unemployment rate, a reading
+ * averaged over each period".
+ */
 export function metricDefinition(metric: Metric, ctx: PresentContext): string {
-  return metricMeaning(metric, ctx.dataset, ctx.audience);
+  const meaning = metricMeaning(metric, ctx.dataset, ctx.audience);
+  if (ctx.audience === 'analysts' || metric.description !== undefined) return meaning;
+  return meaning !== '' && !EXPRESSION.test(meaning) ? meaning : `${labelAtStart(metric.label)}, ${KIND_WORDS[quantityKind(metric)]}`;
 }
+
+const KIND_WORDS: Record<MetricKind, string> = {
+  flow: 'a total for each period',
+  level: 'a reading averaged over each period',
+  ratio: 'a ratio for each period',
+};
 
 export function chartSubtitle(answer: Answer, metric: Metric, ctx: PresentContext, opts: { grain?: boolean; definition?: string } = {}): string {
   const sq = answer.subQuestion;

@@ -82,7 +82,8 @@ function smallPrint(table: PeriodTableFinding, totalLabel: string, ctx: PresentC
   const meanings = table.columns.flatMap((c) => {
     const m = metricByName(ds, c.metric);
     const meaning = metricDefinition(m, ctx);
-    return meaning ? [`${labelAtStart(m.label)}: ${meaning}`] : [];
+    // Words that already start with the metric's label (its kind in words) need no second one.
+    return meaning ? [meaning.startsWith(labelAtStart(m.label)) ? meaning : `${labelAtStart(m.label)}: ${meaning}`] : [];
   });
   return [`${capitalise(changes)}`, `${totalLabel} row: ${totals.join('; ')}.`, ...(meanings.length ? [`${meanings.join('; ')}.`] : [])];
 }
