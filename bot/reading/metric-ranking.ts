@@ -26,6 +26,23 @@ const MONEY_ASKED = /\b(?:money|takings|income|sales|turnover|revenues?|earnings
 const MONEY_IN_LABEL = /\b(?:gross|revenues?|sales|takings|income|earnings|turnover|receipts|box office)\b/i;
 const MONEY_OUT_LABEL = /\b(?:budget|costs?|spend|spending|expenses?|price|prices)\b/i;
 
+/**
+ * Words of a quality that point to the measure of it when no measure is named: "warmer" to a
+ * temperature, "windier" to wind, "wetter" to rainfall, "pricier" to a price. Each entry: the
+ * request's words (cue) and the words of a metric's names that measure it (nouns).
+ */
+const QUALITY_MEASURES: { cue: RegExp; nouns: RegExp; about: string }[] = [
+  { cue: /\b(?:warm(?:er|est|ing|th)?|hot(?:ter|test)?|heat(?:wave)?s?|cold(?:er|est)?|cool(?:er|est|ing)?|chill(?:y|ier|iest)?|freezing|milder|mildest)\b/, nouns: /\b(?:temp|temps|temperatures?|heat|degrees?)\b/, about: 'temperature' },
+  { cue: /\bwind(?:y|ier|iest)?\b|\bgust(?:s|y)?\b/, nouns: /\bwinds?\b|\bgusts?\b/, about: 'wind' },
+  { cue: /\b(?:wet(?:ter|test)?|rain(?:y|ier|iest|fall)?|dry|drier|driest|damp(?:er|est)?)\b/, nouns: /\b(?:precip\w*|rain\w*|wet)\b/, about: 'rainfall' },
+  { cue: /\b(?:late|delay(?:ed|s)?|punctual(?:ity)?|on[- ]time)\b/, nouns: /\b(?:delays?|late|lateness|on[- ]time|punctual\w*)\b/, about: 'delay' },
+  { cue: /\b(?:expensive|pricier|priciest|cheap(?:er|est)?|costl(?:y|ier|iest))\b/, nouns: /\b(?:prices?|fares?|costs?)\b/, about: 'price' },
+  { cue: /\b(?:far(?:ther|thest)?|furthest)\b/, nouns: /\b(?:distance|miles|km|kilomet\w*)\b/, about: 'distance' },
+];
+
+/** Words of volume ("busiest", "quietest", "traffic"): like counting words, their measure is how many rows. */
+const VOLUME_ASKED = /\b(?:busiest|busier|busy|quietest|quieter|traffic|how\s+often)\b/i;
+
 function isRowCount(m: Metric): boolean {
   return m.definition.type === 'count' && !m.definition.where;
 }
@@ -63,7 +80,9 @@ function evidenceIn(requestText: string, m: Metric, asked: readonly string[]): s
 export function rankMetrics(ds: DatasetConfig, requestText: string, asked?: string, among?: readonly string[]): RankedMetric[] {
   const pool = ds.metrics.filter((m) => !among || among.includes(m.name));
   const askedWords = asked ? phraseWords(asked).filter((w) => !STOPWORDS.has(w)).map(stem) : [];
-  const counting = COUNTING.test(requestText);
+  const counting = COUNTING.test(requestText) || VOLUME_ASKED.test(requestText);
+  const lower = requestText.toLowerCase();
+  const qualities = QUALITY_MEASURES.filter((q) => q.cue.test(lower));
   const money = MONEY_ASKED.test(asked ?? requestText);
   const real = pool.filter((m) => !isRowCount(m));
   // The dataset's own name ("Iowa electricity") asked as a measure: its one measure, when it has one.
@@ -73,16 +92,20 @@ export function rankMetrics(ds: DatasetConfig, requestText: string, asked?: stri
     const moneyIn = money && !isRowCount(m) && (MONEY_IN_LABEL.test(labelWords(m).join(' ')) || (m.unit === 'currency' && m.definition.type === 'sum' && !MONEY_OUT_LABEL.test(labelWords(m).join(' '))));
     const evidence = evidenceIn(requestText, m, askedWords);
     const counts = isRowCount(m) && counting;
-    const fits = byWord || moneyIn || (ofDataset && !isRowCount(m)) || (counts && !asked);
+    // "Which city is warming faster?": the temperature, not the catalog's first measure.
+    const quality = isRowCount(m) ? undefined : qualities.find((q) => q.nouns.test(labelWords(m).join(' ')));
+    const cue = quality ? quality.cue.exec(lower)?.[0] : undefined;
+    const fits = byWord || moneyIn || (ofDataset && !isRowCount(m)) || (counts && !asked) || (quality !== undefined && !asked);
     // Higher first: words asked, then money words, then a count asked for, then any real measure.
-    const tier = byWord ? 4 : moneyIn ? 3 : ofDataset && !isRowCount(m) ? 3 : counts ? 2 : isRowCount(m) ? (real.length === 0 ? 1 : 0) : 1;
+    const tier = byWord ? 4 : moneyIn ? 3 : ofDataset && !isRowCount(m) ? 3 : quality ? 2.5 : counts ? 2 : isRowCount(m) ? (real.length === 0 ? 1 : 0) : 1;
     const said = asked ? `"${asked}"` : 'your request';
     const reason = asked && evidence.length > 0 && (byWord || moneyIn)
       ? `closest match to ${said}, and your request says "${evidence.join(' ')}"`
       : byWord ? `closest match to ${said}`
       : moneyIn && asked ? `${said} reads as money coming in, and ${m.label} is the first such measure`
       : ofDataset && !isRowCount(m) ? `the one measure of ${ds.label}`
-      : counts ? 'your request counts things ("how many", "number of"), and this counts rows'
+      : quality && cue ? `"${cue}" is about ${quality.about}, and ${m.label} measures it`
+      : counts ? (COUNTING.test(requestText) ? 'your request counts things ("how many", "number of"), and this counts rows' : `"${VOLUME_ASKED.exec(requestText)?.[0]}" asks how many, and this counts rows`)
       : isRowCount(m) ? 'the dataset has no other measure'
       : real.length === 1 ? `the one measure of ${ds.label} besides the row count`
       : order === 0 ? 'the headline metric of this dataset'
