@@ -2,7 +2,7 @@
 import type { Metric } from '../../config/schema.js';
 import type { TrendTestFinding } from '../findings/segments.js';
 import { changesInUnits, metricDirection } from '../catalog.js';
-import { formatChange, formatPeriod, formatValue, valueFormatOf } from '../format.js';
+import { formatChange, formatPeriod, formatPointChange, formatValue, valueFormatOf } from '../format.js';
 import { yearFraction } from '../periods.js';
 import type { Audience, Finding, Grain } from '../types.js';
 import { inSentence, isPluralLabel, labelAtStart } from './grammar.js';
@@ -146,10 +146,14 @@ function peakSentence(metric: Metric, grain: Grain, findings: readonly Finding[]
   if (change.from.period === change.to.period) {
     return `The latest complete ${grainNoun(grain)}, ${when(change.to.period)}, is the peak at ${value(change.to.value)}.`;
   }
+  // A rate or share sits points below its peak ("79.6%, 9.3 pts below it"), not a percentage of it.
+  const diff = change.to.value - change.from.value;
   const gap =
-    change.relative === null
-      ? `${value(change.to.value)}`
-      : `${value(change.to.value)}, ${formatRelativeSize(change.relative, locale)} ${change.relative < 0 ? 'below' : 'above'} it`;
+    fmt.unit === 'percent'
+      ? `${value(change.to.value)}, ${formatPointChange(Math.abs(diff), locale)} ${diff < 0 ? 'below' : 'above'} it`
+      : change.relative === null
+        ? `${value(change.to.value)}`
+        : `${value(change.to.value)}, ${formatRelativeSize(change.relative, locale)} ${change.relative < 0 ? 'below' : 'above'} it`;
   return `The peak was ${when(change.from.period)} at ${value(change.from.value)}; the latest complete ${grainNoun(grain)}, ${when(change.to.period)}, was ${gap}.`;
 }
 

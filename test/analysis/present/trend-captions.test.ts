@@ -162,6 +162,17 @@ describe('a rate moves in points (issue 16)', () => {
   });
 });
 
+describe("a rate's latest period against its peak is in points (issue 16)", () => {
+  // An on-time rate that peaked at 88.9% and stands at 79.6%: 88.9 − 79.6 = 9.3 points by hand
+  // arithmetic. It had read "79.6%, 10% below it" (a percentage of the rate).
+  it('says "9.3 pts below it", not a relative percentage', () => {
+    const rateChange: Finding = { type: 'change', metric: 'refund_rate', from: { period: '2023-07-01', value: 0.889 }, to: { period: '2024-12-01', value: 0.796 }, relative: -0.10461, absolute: -0.093 };
+    const c = present(answer(sq({ metrics: ['refund_rate'] }), [{ ...test, metric: 'refund_rate' }, rateChange]), 'analysts').caption;
+    expect(c).toContain('the latest complete month, December 2024, was 79.6%, 9.3 pts below it.');
+    expect(c).not.toMatch(/10% below/);
+  });
+});
+
 describe('seasonal index words follow the side of the average (issue 16)', () => {
   // An index of 0.97 is 3% below an average month (1 − 0.97), whichever place it holds in the ranking.
   const flat = [1.2, 1.1, 1.0, 0.99, 0.98, 0.975, 0.97, 0.96, 0.955, 0.95, 0.96, 0.96].map((index, k) => ({ ...monthsPattern[k]!, month: k + 1, index }));
