@@ -64,7 +64,7 @@ export function buildPeriodTablePages(input: PeriodTableInput): PeriodTableSpec[
     yearEarlier: domainOf(m.basis, input.rows.map((r) => r.cells[k]?.vsYearEarlier ?? null)),
   }));
   const columns: TableColumn[] = input.metrics.flatMap((m, k): TableColumn[] => [
-    { label: m.metric.unit === 'currency' && m.metric.currency ? m.metric.currency : 'value', group: k, role: 'value' },
+    { label: valueColumnLabel(m.metric), group: k, role: 'value' },
     { label: PREVIOUS_LABEL[grain], group: k, role: 'change' },
     { label: grain === 'day' ? 'vs 52 weeks before' : 'vs a year earlier', group: k, role: 'change' },
   ]);
@@ -167,7 +167,7 @@ function blank(partial: boolean): TableCell {
 }
 
 function changeCell(change: number | null, m: PeriodTableMetric, domain: number, locale: string): TableCell {
-  const { text, direction } = changeText(change, m.basis, m.metric, locale, false);
+  const { text, direction } = changeText(change, m.basis, unnamedUnit(m.metric), locale, false);
   if (direction === 'none') return { text, tone: null, direction: null, mark: null };
   const size = Math.max(-1, Math.min(1, change! / domain));
   const good = metricDirection(m.metric);
@@ -175,9 +175,25 @@ function changeCell(change: number | null, m: PeriodTableMetric, domain: number,
   return { text, tone: tone === 0 ? 0 : tone, direction, mark: null };
 }
 
+/**
+ * The value column's header: the currency, or the unit's name ("thousand", "ppm"), which its cells
+ * then leave out, so a narrow column holds the figure at a readable size ("14,813", not "14,813
+ * thousand" twelve times over).
+ */
+function valueColumnLabel(metric: Metric): string {
+  if (metric.unit === 'currency' && metric.currency) return metric.currency;
+  return metric.unit_label !== undefined && (metric.unit === 'count' || metric.unit === 'number') ? metric.unit_label : 'value';
+}
+
+/** The metric with its unit's name left to the column header. */
+function unnamedUnit(metric: Metric): Metric {
+  const { unit_label: _named, ...rest } = metric;
+  return rest;
+}
+
 /** Full figures where the longest fits a table cell; about three significant figures otherwise. */
 function valueTextsOf(metric: Metric, locale: string, values: (number | null)[]): string[] {
-  const fmt = valueFormatOf(metric, locale);
+  const fmt = valueFormatOf(unnamedUnit(metric), locale);
   const full = values.map((v) => (v === null ? 'n/a' : formatValue(v, fmt)));
   return full.some((t) => t.length > 10) ? values.map((v) => (v === null ? 'n/a' : formatValue(v, fmt, { compact: true }))) : full;
 }

@@ -25,7 +25,7 @@ const PARTIAL_FILL = '#F7F8FA';
 export function drawPeriodTable(canvas: Canvas, spec: PeriodTableSpec): DrawResult {
   const { ctx, layout } = prepareDirect(canvas, spec);
   const { u, plot } = layout;
-  const bodySize = 15.5 * u;
+  const bodySize = 17 * u;
   const smallSize = 12.5 * u;
 
   // Small print and legend sit at the bottom of the plot area; the table fills what is left above.
@@ -50,8 +50,10 @@ export function drawPeriodTable(canvas: Canvas, spec: PeriodTableSpec): DrawResu
   const periodW = Math.min((plot.right - plot.left) * 0.3, Math.max(labelW, noteW));
   const groups = Math.max(1, spec.groups.length);
   const groupGap = 14 * u;
-  // Few metrics leave room to spare: a group never grows past what its numbers need.
-  const groupW = Math.min(400 * u, (plot.right - plot.left - periodW - groupGap * (groups - 1)) / groups);
+  // Two metrics or more share the whole width, so the figures are as large as the rows allow;
+  // one metric alone never grows past what its numbers need.
+  const spare = (plot.right - plot.left - periodW - groupGap * (groups - 1)) / groups;
+  const groupW = groups > 1 ? spare : Math.min(560 * u, spare);
   const right = plot.left + periodW + groups * groupW + (groups - 1) * groupGap;
   const colX: { left: number; right: number }[] = [];
   spec.columns.forEach((c, j) => {
@@ -64,7 +66,7 @@ export function drawPeriodTable(canvas: Canvas, spec: PeriodTableSpec): DrawResu
 
   // One font size for all body cells, the largest at which the longest text of every column fits.
   const pad = 8 * u;
-  let size = Math.min(bodySize, rowH * 0.5);
+  let size = Math.min(bodySize, rowH * 0.56);
   spec.columns.forEach((c, j) => {
     const longest = spec.rows.map((r) => cellText(r.cells[j]!)).reduce((a, b) => (b.length > a.length ? b : a), '');
     if (longest) size = Math.min(size, fitFontSize(ctx, longest, colX[j]!.right - colX[j]!.left - 2 * pad - (c.role === 'value' ? size : 0), size, 8, (s) => font(s, true)));
