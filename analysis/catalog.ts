@@ -212,7 +212,20 @@ export function rankDescending(metric: Metric, order: RankOrder): boolean {
  * level kept in percent (a share held over time) moves in points, as a rate does.
  */
 export function changesInUnits(metric: Metric): boolean {
-  return quantityKind(metric) === 'level' && metric.unit !== 'percent';
+  return (quantityKind(metric) === 'level' && metric.unit !== 'percent') || onIntervalScale(metric);
+}
+
+// A temperature in Celsius or Fahrenheit (°C, °F, "degrees"): its zero is a point on the scale, not none of it.
+const INTERVAL_UNIT = /°|\bdeg(?:rees?|\.)?(?:\s*[CF])?\b|\bcelsius\b|\bfahrenheit\b/i;
+
+/**
+ * A metric on an interval scale has no true zero (0 °C is not "no temperature"), so a percent
+ * change or a ratio to its mean means nothing: its changes and comparisons are differences in its
+ * unit ("+1.3 °C"). Read from the unit label here; a metric whose values reach or cross zero in
+ * the data is caught by the values (stats/growth.ts percentScale).
+ */
+export function onIntervalScale(metric: Metric): boolean {
+  return metric.unit !== 'percent' && metric.unit_label !== undefined && INTERVAL_UNIT.test(metric.unit_label);
 }
 
 /** How a metric's seasonal cycle is measured: a level swings in its own units, a flow or ratio in proportion. */

@@ -1,6 +1,6 @@
 // Words the KPI captions share: a change against a
 // comparison point, period names and segment labels. Every number and date goes through format.ts.
-import { metricDirection } from '../catalog.js';
+import { metricDirection, onIntervalScale } from '../catalog.js';
 import type { DatasetConfig, Dimension, Metric } from '../../config/schema.js';
 import type { KpiDelta, SegmentKey } from '../findings/kpi.js';
 import { formatChange, formatPeriod, formatValue, valueFormatOf } from '../format.js';
@@ -47,7 +47,7 @@ export function points(diff: number, locale: string, word = 'points'): string {
 export function changeSize(d: KpiDelta, metric: Metric, locale: string): string | null {
   if (d.absolute === null) return null;
   if (isRate(metric)) return `${formatValue(Math.abs(d.absolute) * 100, { unit: 'number', decimals: 1, locale })} points`;
-  if (d.relative !== null) return formatChange(Math.abs(d.relative), locale).replace(/^\+/, '');
+  if (d.relative !== null && !onIntervalScale(metric)) return formatChange(Math.abs(d.relative), locale).replace(/^\+/, '');
   // A zero or negative base: the relative change is undefined, so give the difference itself.
   return formatValue(Math.abs(d.absolute), valueFormatOf(metric, locale), { compact: true });
 }
@@ -56,7 +56,7 @@ export type Direction = 'up' | 'down' | 'level' | 'none';
 
 export function directionOf(d: KpiDelta, metric: Metric): Direction {
   if (d.absolute === null) return 'none';
-  const flat = isRate(metric) ? Math.abs(d.absolute) < FLAT_POINTS : d.relative !== null ? Math.abs(d.relative) < FLAT_RELATIVE : d.absolute === 0;
+  const flat = isRate(metric) ? Math.abs(d.absolute) < FLAT_POINTS : d.relative !== null && !onIntervalScale(metric) ? Math.abs(d.relative) < FLAT_RELATIVE : d.absolute === 0;
   if (flat) return 'level';
   return d.absolute > 0 ? 'up' : 'down';
 }
@@ -73,7 +73,7 @@ export function changePhrase(d: KpiDelta, metric: Metric, locale: string): strin
 export function signedChange(d: KpiDelta | null, metric: Metric, locale: string): string {
   if (!d || d.absolute === null) return 'n/a';
   if (isRate(metric)) return points(d.absolute, locale, 'pts');
-  if (d.relative !== null) return formatChange(d.relative, locale);
+  if (d.relative !== null && !onIntervalScale(metric)) return formatChange(d.relative, locale);
   return formatValue(d.absolute, valueFormatOf(metric, locale), { compact: true, signed: true });
 }
 
