@@ -183,7 +183,8 @@ export type CoreFinding =
       relative: number | null;
       absolute: number;
     }
-  | { type: 'series'; metric: string; grain: Grain; points: PeriodPoint[] };
+  /** `perDay`: each point is its period's total over its days ("orders per day, monthly"). */
+  | { type: 'series'; metric: string; grain: Grain; points: PeriodPoint[]; perDay?: true };
 
 export interface Answer {
   subQuestion: SubQuestion;

@@ -77,9 +77,11 @@ export function seriesLineChart(
   const series = answer.findings.find((f): f is Extract<Finding, { type: 'series' }> => f.type === 'series' && f.metric === metric.name);
   if (!series || !series.points.some((p) => p.value !== null)) return null;
   const extra = overlay?.(series.points);
+  const header = chartHeader(answer, metric, title, ctx);
   return buildLine({
-    ...chartHeader(answer, metric, title, ctx),
-    seriesLabel: metric.label,
+    ...header,
+    ...(series.perDay ? { subtitle: `${header.subtitle} · average a day` } : {}),
+    seriesLabel: series.perDay ? `${metric.label} per day` : metric.label,
     grain: answer.subQuestion.grain,
     points: series.points,
     format: valueFormatOf(metric, ctx.locale),

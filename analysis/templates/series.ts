@@ -1,10 +1,11 @@
 // Template "series": each metric at a time grain over the window. Answers the time-pattern
 // lens of a trend request (and feeds growth and snapshot templates later).
-import { metricByName } from '../catalog.js';
+import { isAdditive, metricByName } from '../catalog.js';
+import type { DatasetConfig } from '../../config/schema.js';
 import { type CompileContext, localDateExpr, periodScope, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import { dataEnd } from '../coverage.js';
-import { addDays, nextPeriod, periodsBetween } from '../periods.js';
+import { addDays, daysBetween, nextPeriod, periodsBetween } from '../periods.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
 import { seriesOutliers } from '../quality/series-outliers.js';
@@ -32,15 +33,22 @@ export interface SeriesReading {
 
 export const seriesTemplate: Template = {
   compile: (sq, ctx) => [{ name: 'series', ...compileSeries(sq, ctx) }],
-  read: (sq, tables, ctx) => readSeries(sq, tables.series ?? { columns: [], rows: [], truncated: false }, ctx.coverage),
+  // "Orders per day, monthly": each period's total over its days (of the window and the data).
+  read: (sq, tables, ctx) => readSeries(sq, tables.series ?? { columns: [], rows: [], truncated: false }, ctx.coverage, { perDay: perDayOf(sq, ctx.dataset) }),
 };
+
+/** The metrics of `sq` to state per day: asked per day, a total that adds up over days, at a grain coarser than a day. */
+function perDayOf(sq: SubQuestion, ds: DatasetConfig): Set<string> {
+  if (!sq.perDay || sq.grain === 'day') return new Set();
+  return new Set(sq.metrics.filter((m) => isAdditive(metricByName(ds, m))));
+}
 
 /**
  * Turns the grouped rows into findings. Periods the window covers but the data does not
  * (a gap) become null points; a first or last period only partly covered is marked partial
  * and left out of the high and low, since half a month is not comparable with a whole one.
  */
-export function readSeries(sq: SubQuestion, table: ResultTable, coverage: Coverage): SeriesReading {
+export function readSeries(sq: SubQuestion, table: ResultTable, coverage: Coverage, opts: { perDay?: ReadonlySet<string> } = {}): SeriesReading {
   const caveats: Caveat[] = [];
   if (table.truncated) caveats.push({ code: 'truncated', data: { rows: table.rows.length } });
   if (coverage.firstDate === null || coverage.lastDate === null || table.rows.length === 0) {
@@ -66,11 +74,15 @@ export function readSeries(sq: SubQuestion, table: ResultTable, coverage: Covera
 
   const findings: Finding[] = [];
   for (const metric of sq.metrics) {
+    const perDay = opts.perDay?.has(metric) === true;
+    // Per day: the period's total over the days of it the window and the data cover.
+    const days = (p: string) => daysBetween(maxIso(p, effectiveStart), minIso(nextPeriod(p, sq.grain), effectiveEnd));
     const points: PeriodPoint[] = starts.map((p) => {
       const v = byPeriod.get(p)?.[metric];
-      return { period: p, value: typeof v === 'number' ? v : null, partial: partialStarts.has(p) };
+      const value = typeof v === 'number' ? (perDay ? v / days(p) : v) : null;
+      return { period: p, value, partial: partialStarts.has(p) };
     });
-    findings.push({ type: 'series', metric, grain: sq.grain, points });
+    findings.push({ type: 'series', metric, grain: sq.grain, points, ...(perDay ? { perDay: true as const } : {}) });
     caveats.push(...seriesOutliers(points, sq.grain).map((c) => ({ ...c, data: { ...c.data, metric } })));
     // A period with rows but none that pass the filters (row count 0; periodScope keeps its row)
     // is empty, not a hole in the data: additive metrics read 0 there, others have no value.

@@ -220,7 +220,11 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   // The first comparison named, even in a later question that refers back ("… and is it up on last year?").
   const compared = questions.find((q) => q.compareWindow);
   if (compared?.compareWindow) brief.compareWindow = compared.compareWindow;
-  if (grain) brief.grain = grain.grain;
+  // "Bookings per day from 1 to 14 June": over a few weeks the daily points are the per-day figures.
+  // Over longer, "per day" is an average at the default grain, not a daily grain (day-on-day noise).
+  const perDayPoints = !grain?.perDayOnly || (brief.window !== undefined && daysBetween(brief.window.start, brief.window.end) <= PER_DAY_POINTS_DAYS);
+  if (grain && perDayPoints) brief.grain = grain.grain;
+  else if (grain) delete evidence.grain;
   if (audience) brief.audience = audience.audience;
   if (deadline?.date) {
     brief.deadline = deadline.date;
@@ -797,7 +801,9 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
     pronoun: /\b(?:it|its|that|this|they|them|their|those|these|same|either|both)\b/.test(t.replace(/\b(?:this|that)\s+(?:year|month|week|quarter|summer|winter|spring|autumn|season|time)\b/g, '')) && metrics.length === 0,
     refines: REFINES_PREVIOUS.test(clause.text) && metrics.length === 0 && !group,
     ranking: rankWord !== undefined,
-    perDay: /\b(?:per|a|each)\s+day\b|\bdaily\s+(?:average|rate|mean)\b|\bper-day\b/.test(t) && (new RegExp(CALENDAR_MONTHS.source, 'u').test(t) || GRAINS.some((g) => g !== 'day' && new RegExp(`\\b(?:${GRAIN_WORDS[g].adjective}|by ${g}|per ${g}|each ${g}|${g} by ${g})\\b`).test(t))),
+    // "orders per day", "a day", "average daily": an average daily figure at whatever grain is
+    // asked (or the default); "each day" is daily points unless another grain is named beside it.
+    perDay: PER_DAY.test(t) || (/\beach\s+day\b(?![- ]of)/.test(t) && (new RegExp(CALENDAR_MONTHS.source, 'u').test(t) || GRAINS.some((g) => g !== 'day' && new RegExp(`\\b(?:${GRAIN_WORDS[g].adjective}|by ${g}|per ${g}|each ${g}|${g} by ${g})\\b`).test(t)))),
     table: /\b(?:the\s+)?(?:numbers|figures|kpis|metrics|stats)\s+(?:by|per|for each|each)\s+(?:month|week|quarter|day|year)\b|\bside\s+by\s+side\b|\b(?:as\s+a|in\s+a|one)\s+table\b|\bmonthly\s+table\b|\btable\s+of\b/.test(t),
     refersBack: /^\s*(?:and\s+|also\s+|second(?:ly)?,?\s+|then\s+)?(?:how\s+(?:does|do|did)\s+(?:that|it|this|they|those)\s+compare|(?:is|was|were|are)\s+(?:it|that|this|they)\b|which\s+\w+\s+(?:drove|took|caused|explain))/.test(t),
     context: false,
@@ -1276,10 +1282,16 @@ function refersToLaunch(text: string): boolean {
 // ---------------------------------------------------------------------------------------------
 // Grain, audience, business words, personal values
 
+/** The longest period over which "per day" alone is read as daily points (a month and a bit). */
+const PER_DAY_POINTS_DAYS = 35;
+
+/** An average daily figure asked for ("orders per day", "revenue a day", "average daily takings"), not daily points. */
+const PER_DAY = /\b(?:per|a)\s+day\b(?![- ]of\b)|\bper-day\b|\bdaily\s+(?:average|rate|mean)\b|\baverage\s+daily\b/;
+
 /** Months of the year named as the things compared ("which months", "time of year"). */
 const CALENDAR_MONTHS = /(?<![\p{L}])(?:months|which\s+month|month\s+of\s+(?:the\s+)?year|time\s+of\s+(?:the\s+)?year|seasonal(?:ity)?)(?![\p{L}])/gu;
 
-function readGrain(text: RequestText): { grain: Grain; words: string; how: 'stated' | 'inferred'; spans: Span[] } | undefined {
+function readGrain(text: RequestText): { grain: Grain; words: string; how: 'stated' | 'inferred'; spans: Span[]; perDayOnly?: true } | undefined {
   const found: { grain: Grain; span: Span; how: 'stated' | 'inferred' }[] = [];
   for (const g of GRAINS) {
     const w = GRAIN_WORDS[g];
@@ -1290,18 +1302,19 @@ function readGrain(text: RequestText): { grain: Grain; words: string; how: 'stat
       if (text.isClaimed(m.span)) continue;
       // "per day" beside another grain is a per-day rate ("bookings per day by month"), not the grain;
       // "by day of week" asks for the days of the week.
-      if (g === 'day' && (/^(?:per|a|each)\s/.test(m[0]) || /^[- ]of[- ](?:the[- ])?week\b/.test(text.lower.slice(m.span.end)))) continue;
+      if (g === 'day' && (/^(?:per|a)\s/.test(m[0]) || /^[- ]of[- ](?:the[- ])?week\b/.test(text.lower.slice(m.span.end)))) continue;
       // "per year" in "how fast ... per year", "each year" after "busiest months": a rate or a season, not a grain.
       if (g === 'year' && /^(?:per|each|every)\s/.test(m[0]) && /\b(?:how\s+(?:fast|quickly|much)|rate|rising|falling|growing|grow|busiest|quietest|peak|every\s+year|each\s+year)\b/.test(text.lower) && !/\bby\s+year\b/.test(text.lower)) continue;
       found.push({ grain: g, span: m.span, how: 'stated' });
     }
   }
-  const perDayAlone = [...text.matches(/(?<![\p{L}])(?:per|a|each)\s+day(?![\p{L}])/gu)];
+  const perDayAlone = [...text.matches(/(?<![\p{L}])(?:per|a)\s+day(?![\p{L}])/gu)];
   // "which months have the most bookings per day": months of the year compared per day, on a
   // monthly plan; a daily one would answer a different question (and note every unusual day).
   const months = [...text.matches(CALENDAR_MONTHS)];
   if (found.length === 0 && perDayAlone.length > 0 && months.length > 0) found.push({ grain: 'month', span: months[0]!.span, how: 'stated' });
-  if (found.length === 0 && perDayAlone.length > 0) found.push({ grain: 'day', span: perDayAlone[0]!.span, how: 'stated' });
+  // "per day" alone is daily points only over a short period (see PER_DAY_POINTS_DAYS).
+  if (found.length === 0 && perDayAlone.length > 0) return { grain: 'day', words: text.quote(perDayAlone[0]!.span), how: 'stated', spans: [perDayAlone[0]!.span], perDayOnly: true };
   if (found.length === 0) return undefined;
   found.sort((a, b) => (a.how === b.how ? a.span.start - b.span.start : a.how === 'stated' ? -1 : 1));
   const first = found[0]!;

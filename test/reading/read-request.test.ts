@@ -190,8 +190,22 @@ describe('per day', () => {
       expect(b.questions[0]!.perDay).toBe(true);
     }
     expect(read('bookings per day by month').grain).toBe('month');
-    // "per day" alone, with no months compared, is still the daily grain.
-    expect(read('How many bookings per day?').grain).toBe('day');
+  });
+
+  it('"per day" alone is an average daily figure at the default grain; daily points only when asked ("each day", "daily") or over a few weeks', () => {
+    const alone = read('How many bookings per day?');
+    expect(alone.grain).toBeNull();
+    expect(alone.questions[0]!.perDay).toBe(true);
+    const monthly = read('bookings per day on the Northern route, monthly');
+    expect([monthly.grain, monthly.questions[0]!.perDay]).toEqual(['month', true]);
+    for (const text of ['bookings each day in May 2025', 'daily bookings in May 2025', 'bookings day by day in May 2025']) {
+      const b = read(text);
+      expect([text, b.grain, b.questions[0]!.perDay]).toEqual([text, 'day', false]);
+    }
+    // Over two weeks the daily points are the per-day figures.
+    expect(read('bookings per day from 1 to 14 June 2025').grain).toBe('day');
+    // "a day of the week" is no per-day figure.
+    expect(read('which day of the week has the most bookings?').questions[0]!.perDay).toBe(false);
   });
 });
 
