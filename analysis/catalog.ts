@@ -68,6 +68,16 @@ export function plainCountMetric(ds: DatasetConfig): Metric | undefined {
   return ds.metrics.find((m) => m.definition.type === 'count' && !m.definition.where);
 }
 
+/**
+ * Whether one row is a thing a reader can picture (a booking, a flight): the catalog counts rows
+ * under a name of their own. A table of daily totals per shop and channel has no such count (or
+ * only one called "rows"), and a mean per row of it would mean nothing to a manager.
+ */
+export function rowsAreEvents(ds: DatasetConfig): boolean {
+  const count = plainCountMetric(ds);
+  return !!count && !/^rows?$/i.test(count.label.trim()) && !/^rows?$/i.test(count.name);
+}
+
 /** True when the dimension exists and may be grouped by or filtered on (personal data never may). */
 export function isGroupable(ds: DatasetConfig, name: string): boolean {
   const d = ds.dimensions.find((x) => x.name === name);
@@ -235,9 +245,11 @@ export function seasonalModel(metric: Metric): SeasonalModel {
 
 /**
  * The dimension whose values are a comparison group's units (sites, stores), when its unit column
- * is one and not personal data; null for a unit key that is no dimension (a customer id).
+ * is one and not personal data; null for a unit key that is no dimension (a customer id). A group
+ * without a unit column that is made of one dimension's values (`{column: shop, one_of: [...]}`)
+ * has that dimension's values as its units: its members are shops, so it is compared per shop.
  */
 export function namedUnitDimension(ds: DatasetConfig, group: ComparisonGroup): Dimension | null {
-  if (!group.unit_column) return null;
+  if (!group.unit_column) return ds.dimensions.find((d) => !d.personal_data && groupMadeOf(ds, group, d.name) && d.column !== group.column) ?? null;
   return ds.dimensions.find((d) => d.column === group.unit_column && !d.personal_data) ?? null;
 }

@@ -22,6 +22,7 @@ import {
   quantityLabel,
   sampleNoun,
   seriesQuantity,
+  seriesUnit,
   statisticText,
   testName,
   windowText,
@@ -32,9 +33,10 @@ import { labelAtStart } from './grammar.js';
 export function beforeAfterWords(findings: readonly Finding[], ctx: WordsContext): PerformanceWords {
   const { metric, group, locale, audience, dataset } = ctx;
   const quantity = seriesQuantity(findings, metric);
-  const label = quantityLabel(metric, quantity, dataset);
+  const label = quantityLabel(metric, quantity, dataset, seriesUnit(findings));
   const fmt = quantityFormat(metric, quantity, locale);
-  const rows = sampleNoun(dataset, quantity);
+  // Per unit or not, a before/after's cells are days (a group's daily total, put per unit).
+  const rows = sampleNoun(dataset, quantity === 'per_unit_day' ? 'per_day' : quantity);
   const m = groupLabel(group, 'members');
   const o = groupLabel(group, 'others');
   const value = (v: number) => formatValue(v, fmt);

@@ -100,6 +100,11 @@ export function quantityFormat(metric: Metric, quantity: Quantity, locale: strin
   return valueFormatOf(metric, locale);
 }
 
+/** The unit of a before/after answer's per-unit series (a shop's dimension), if it has one. */
+export function seriesUnit(findings: readonly Finding[]): string | undefined {
+  return findings.find((f): f is PerformanceGroupSeriesFinding => f.type === 'performance_group_series')?.unit;
+}
+
 /** The compared quantity of a before/after answer, from its series (older findings: per row for a sum). */
 export function seriesQuantity(findings: readonly Finding[], metric: Metric): Quantity {
   const series = findings.find((f): f is PerformanceGroupSeriesFinding => f.type === 'performance_group_series');

@@ -1,7 +1,7 @@
 // Presenter for "performance_before_after": members as the main line, others as the overlay, per
 // period across the launch.
 import { beforeAfterWords } from '../captions/performance-before-after.js';
-import { day, findOne, groupLabel, quantityFormat, quantityLabel, seriesQuantity, unitsLeftOutSentence } from '../captions/performance-words.js';
+import { day, findOne, groupLabel, quantityFormat, quantityLabel, seriesQuantity, seriesUnit, unitsLeftOutSentence } from '../captions/performance-words.js';
 import { buildLine, periodIndexOf } from '../charts/build-line.js';
 import { resolveGroup } from '../templates/performance-common.js';
 import { primaryMetric } from '../templates/performance-compare.js';
@@ -15,7 +15,7 @@ export const presentPerformanceBeforeAfter: Presenter = (answer, ctx) => {
   const wctx = { dataset: ctx.dataset, metric, group, locale: ctx.locale, audience: ctx.audience, dataAsOf: ctx.dataAsOf };
   const words = beforeAfterWords(answer.findings, wctx);
   const quantity = seriesQuantity(answer.findings, metric);
-  const label = quantityLabel(metric, quantity, ctx.dataset);
+  const label = quantityLabel(metric, quantity, ctx.dataset, seriesUnit(answer.findings));
   const members = findOne(answer.findings, 'performance_group_series', (f) => f.group === 'members');
   const others = findOne(answer.findings, 'performance_group_series', (f) => f.group === 'others');
   const hasValues = [members, others].some((s) => s?.points.some((p) => p.value !== null));

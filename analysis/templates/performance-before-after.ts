@@ -14,6 +14,7 @@ import { differenceFinding, primaryMetric } from './performance-compare.js';
 import { ALPHA, CONFIDENCE, compileUnitsLeftOut, EMPTY_TABLE, groupCaveats, groupKnown, isSuppressed, memberFlag, resolveGroup, roleLabel, roleOf, throughUnitsCondition, unitsLeftOutFinding } from './performance-common.js';
 import { minGroupSize, suppressedGroupsCaveat, suppressSmallCells } from './small-groups.js';
 import { cellFromRow, comparisonPlanFor, comparisonShape, goodDirection, measureColumns, perDayQuery, type MeasurePlan } from './performance-measure.js';
+import { groupableDimension } from '../catalog.js';
 import { type Cell, cellEstimate, compareCells, contrast, logRatioContrast, poolCells, verdictOf } from './performance-stats.js';
 import type { Template } from './template.js';
 
@@ -24,15 +25,17 @@ export function compileGroupPeriods(sq: SubQuestion, ctx: CompileContext, grain:
   const group = resolveGroup(ds, sq);
   const q = new QueryBuilder(ctx.dialect);
   const period = ctx.dialect.periodStart(grain, localDateExpr(q, ctx));
+  // Per day of each group's total; a group of named units is put per unit from its unit count
+  // (`compileGroupUnits`), the units being the same through the window (throughUnitsCondition).
   const plan = comparisonPlanFor(q, ctx, metric);
   const where = `${whereClause(q, ctx, sq.window, sq.filters)}\n  AND ${throughUnitsCondition(q, ctx, sq, group, sq.window)}`;
   let cols: string[];
   let body: string;
+  const keys = [
+    { sql: period, alias: 'period' },
+    { sql: memberFlag(q, group), alias: 'tc_member' },
+  ];
   if (plan.perDay) {
-    const keys = [
-      { sql: period, alias: 'period' },
-      { sql: memberFlag(q, group), alias: 'tc_member' },
-    ];
     ({ body, columns: cols } = perDayQuery(q, ctx, metric, keys, tableRef(q, ctx), `${where}\n    AND ${groupKnown(q, group)}`));
   } else {
     cols = measureColumns(q, ds, metric, plan, ctx);
@@ -52,13 +55,49 @@ GROUP BY 1, 2`;
   return { name, ...q.finish(`${body}\nORDER BY 1, 2`) };
 }
 
+/**
+ * How many units (shops) each group has over the window, for a metric compared per unit: null
+ * otherwise. Each period's per-day total divided by it is the mean unit's daily rate.
+ */
+export function compileGroupUnits(sq: SubQuestion, ctx: CompileContext): NamedQuery | null {
+  const ds = ctx.dataset;
+  const group = resolveGroup(ds, sq);
+  const shape = comparisonShape(ds, primaryMetric(ds, sq), group);
+  if (!shape.perUnit) return null;
+  const unit = groupableDimension(ds, shape.perUnit);
+  const q = new QueryBuilder(ctx.dialect);
+  const where = `${whereClause(q, ctx, sq.window, sq.filters)}\n  AND ${throughUnitsCondition(q, ctx, sq, group, sq.window)}`;
+  return {
+    name: 'group_units',
+    ...q.finish(`SELECT ${memberFlag(q, group)} AS tc_member, ${ctx.dialect.toDouble(`COUNT(DISTINCT ${q.ident(unit.column)})`)} AS tc_units
+FROM ${tableRef(q, ctx)}
+WHERE ${where}
+  AND ${groupKnown(q, group)}
+GROUP BY 1
+ORDER BY 1`),
+  };
+}
+
+/** The units per group read back, with the unit dimension; null when either group has none. */
+function unitsPerGroup(sq: SubQuestion, ds: CompileContext['dataset'], table: ResultTable | undefined): UnitsPerGroup | null {
+  const shape = comparisonShape(ds, primaryMetric(ds, sq), resolveGroup(ds, sq));
+  if (!shape.perUnit || !table) return null;
+  const count: Partial<Record<GroupRole, number>> = {};
+  for (const r of table.rows) {
+    const role = roleOf(r.tc_member);
+    if (role && typeof r.tc_units === 'number' && r.tc_units > 0) count[role] = r.tc_units;
+  }
+  return count.members && count.others ? { unit: shape.perUnit, members: count.members, others: count.others } : null;
+}
+
 export const performanceBeforeAfterTemplate: Template = {
   compile: (sq, ctx) => {
     const group = resolveGroup(ctx.dataset, sq);
     const series = compileGroupPeriods(sq, ctx, sq.grain, 'series');
     const leftOut = compileUnitsLeftOut(sq, ctx, group, sq.window);
+    const units = compileGroupUnits(sq, ctx);
     // DiD windows are whole months, so they need monthly pieces when the chart's grain is not a month.
-    return [series, ...(group.launch_date && sq.grain !== 'month' ? [compileGroupPeriods(sq, ctx, 'month', 'months')] : []), ...(leftOut ? [leftOut] : [])];
+    return [series, ...(group.launch_date && sq.grain !== 'month' ? [compileGroupPeriods(sq, ctx, 'month', 'months')] : []), ...(leftOut ? [leftOut] : []), ...(units ? [units] : [])];
   },
   read: (sq, tables, ctx) => {
     const ds = ctx.dataset;
@@ -67,7 +106,7 @@ export const performanceBeforeAfterTemplate: Template = {
     const shape = comparisonShape(ds, metric);
     const series = tables.series ?? EMPTY_TABLE;
     const months = sq.grain === 'month' ? series : (tables.months ?? EMPTY_TABLE);
-    const read = readBeforeAfter(sq, metric, group, shape, series, months, ctx.coverage, minGroupSize(ds));
+    const read = readBeforeAfter(sq, metric, group, shape, series, months, ctx.coverage, minGroupSize(ds), unitsPerGroup(sq, ds, tables.group_units));
     const leftOut = unitsLeftOutFinding(ds, group, tables.units_left_out);
     return leftOut ? { ...read, findings: [...read.findings, leftOut] } : read;
   },
@@ -75,9 +114,15 @@ export const performanceBeforeAfterTemplate: Template = {
 
 type Shape = Pick<MeasurePlan, 'kind' | 'quantity' | 'additive' | 'perDay'>;
 type Keyed = { period: string; role: GroupRole; cell: Cell; suppressed: boolean };
+/** The units (shops) each group holds through the window, when the metric is compared per unit. */
+export type UnitsPerGroup = { unit: string } & Record<GroupRole, number>;
 
-/** Cells keyed by period and group; a count compared per day spans its period's days within [start, end). */
-function keyedCells(table: ResultTable, shape: Shape, grain: Grain, start: string, end: string): Keyed[] {
+/**
+ * Cells keyed by period and group; a count compared per day spans its period's days within
+ * [start, end). With `units`, each per-day cell is put per unit: its mean and spread divided by
+ * the group's unit count (a ratio of two groups' changes is the same either way).
+ */
+function keyedCells(table: ResultTable, shape: Shape, grain: Grain, start: string, end: string, units: UnitsPerGroup | null = null): Keyed[] {
   const out: Keyed[] = [];
   for (const r of table.rows) {
     const role = roleOf(r.tc_member);
@@ -85,7 +130,10 @@ function keyedCells(table: ResultTable, shape: Shape, grain: Grain, start: strin
     const from = r.period > start ? r.period : start;
     const next = nextPeriod(r.period, grain);
     const days = daysBetween(from, next < end ? next : end);
-    out.push({ period: r.period, role, cell: cellFromRow(r as Record<string, CellValue>, shape, days), suppressed: isSuppressed(r) });
+    const cell = cellFromRow(r as Record<string, CellValue>, shape, days);
+    const k = units?.[role];
+    const scaled = k && cell.kind === 'mean' ? { ...cell, mean: cell.mean / k, m2: cell.m2 / (k * k) } : cell;
+    out.push({ period: r.period, role, cell: scaled, suppressed: isSuppressed(r) });
   }
   return out;
 }
@@ -99,8 +147,12 @@ export function readBeforeAfter(
   monthsTable: ResultTable,
   coverage: Coverage,
   minimum: number | null = null,
+  units: UnitsPerGroup | null = null,
 ): { findings: Finding[]; caveats: Caveat[] } {
   const findings: Finding[] = [];
+  // Put per unit, the figures are a mean unit's daily rate, and that is what the findings say.
+  const quantity = units && shape.perDay ? 'per_unit_day' : shape.quantity;
+  if (units && shape.perDay) shape = { ...shape, quantity };
   const caveats: Caveat[] = [];
   const effStart = coverage.firstDate && coverage.firstDate > sq.window.start ? coverage.firstDate : sq.window.start;
   const lastEnd = coverage.lastDate ? dataEnd({ ...coverage, lastDate: coverage.lastDate }) : sq.window.start;
@@ -114,7 +166,7 @@ export function readBeforeAfter(
     launchDate: group.launch_date ?? null,
     clippedToLaunch: false,
   });
-  const seriesCells = keyedCells(seriesTable, shape, sq.grain, effStart, effEnd);
+  const seriesCells = keyedCells(seriesTable, shape, sq.grain, effStart, effEnd, units);
   const starts = effStart < effEnd ? periodsBetween(effStart, effEnd, sq.grain) : [];
   const partial = new Set<string>();
   const first = starts[0];
@@ -132,10 +184,10 @@ export function readBeforeAfter(
       const cell = byPeriod.get(p);
       return { period: p, value: cell ? cellEstimate(cell) : null, partial: partial.has(p) };
     });
-    findings.push({ type: 'performance_group_series', metric: metric.name, group: role, grain: sq.grain, quantity: shape.quantity, points });
+    findings.push({ type: 'performance_group_series', metric: metric.name, group: role, grain: sq.grain, quantity: shape.quantity, ...(units && shape.perDay ? { unit: units.unit } : {}), points });
   }
 
-  const monthCells = keyedCells(monthsTable, shape, 'month', effStart, effEnd);
+  const monthCells = keyedCells(monthsTable, shape, 'month', effStart, effEnd, units);
   const pool = (role: GroupRole, w: DateWindow) =>
     poolCells(
       monthCells.filter((c) => c.role === role && c.period >= w.start && c.period < w.end).map((c) => c.cell),

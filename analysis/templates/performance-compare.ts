@@ -93,7 +93,8 @@ export function compileSample(sq: SubQuestion, ctx: CompileContext): NamedQuery 
   const group = resolveGroup(ds, sq);
   const q = new QueryBuilder(ctx.dialect);
   const plan = planMeasure(q, ds, metric);
-  if (plan.kind !== 'mean' || !plan.x) return null;
+  // Compared per day (or per unit per day), the rows' median is not the figure compared.
+  if (plan.kind !== 'mean' || !plan.x || comparisonShape(ds, metric, group).perDay) return null;
   const flag = memberFlag(q, group);
   const order = `md5(CAST(${q.ident(ds.key_column)} AS VARCHAR) || CAST(${q.bind(String(SAMPLE_SEED))} AS VARCHAR)), ${plan.x}`;
   const window = comparisonWindow(sq, group).window;

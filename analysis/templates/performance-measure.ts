@@ -3,7 +3,7 @@
 // back from a result row. Only summary rows per group ever reach Node.
 import type { ColumnFilter, ComparisonGroup, DatasetConfig, Metric, MetricDefinition } from '../../config/schema.js';
 import type { MeasureKind, Quantity } from '../findings/performance.js';
-import { metricByName, namedUnitDimension, metricDirection } from '../catalog.js';
+import { metricByName, metricDirection, namedUnitDimension, rowsAreEvents } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql } from '../compile-context.js';
 import { filterCondition, metricAggregate } from '../sql/metric-sql.js';
 import { duckdbDialect } from '../sql/dialect.js';
@@ -104,7 +104,10 @@ export function planMeasure(q: QueryBuilder, ds: DatasetConfig, metric: Metric):
  * group is; a daily rate keeps the metric's own units and has a day-to-day spread to test with.
  */
 export function planComparison(q: QueryBuilder, ds: DatasetConfig, metric: Metric, group?: ComparisonGroup): MeasurePlan {
-  if (metric.definition.type === 'count') {
+  // A sum over rows that are no thing of their own (a shop's day on one channel) is compared as a
+  // count is: per unit per day, or per day. Its mean per row would depend on how the rows are cut
+  // (channels, days without catering), not on how the units did.
+  if (metric.definition.type === 'count' || (metric.definition.type === 'sum' && !rowsAreEvents(ds))) {
     const unit = group ? namedUnitDimension(ds, group) : null;
     if (unit) return { kind: 'mean', quantity: 'per_unit_day', additive: false, perDay: true, perUnit: unit.name };
     return { kind: 'mean', quantity: 'per_day', additive: false, perDay: true };
@@ -389,7 +392,9 @@ export function comparisonPlanFor(q: QueryBuilder, ctx: CompileContext, metric: 
  */
 export function comparedFromDays(sq: SubQuestion, ds: DatasetConfig): boolean {
   const metric = metricByName(ds, sq.metrics[0]!);
-  const shape = measureShape(ds, metric);
+  const shape = comparisonShape(ds, metric);
+  // Per day (or per unit per day) there is no median of rows to read.
+  if (shape.perDay) return true;
   return comparableFromDays(shape) && !(shape.kind === 'mean' && isMoney(metric));
 }
 

@@ -220,15 +220,23 @@ function perDay(refit: boolean, from: string, to: string, weekdayOnly = true): n
 }
 
 describe('a filtered count compared between groups of sites', () => {
-  it('before and after the refit: per-day cells, a relative difference in differences near the planted lift, and the late site left out', async () => {
+  it('before and after the refit: per-site per-day cells, a relative difference in differences near the planted lift, and the late site left out', async () => {
     const a = await answerSubQuestion(question('performance_before_after', 'weekday_visits'), ws);
     const did = find(a, 'performance_did')[0] as PerformanceDidFinding;
     expect(did).toBeDefined();
-    // Equal windows of 12 months either side: 2023 against 2024.
-    expect(did.membersBefore).toBeCloseTo(perDay(true, '2023-01-01', '2024-01-01'), 9);
-    expect(did.membersAfter).toBeCloseTo(perDay(true, '2024-01-01', '2025-01-01'), 9);
-    expect(did.othersBefore).toBeCloseTo(perDay(false, '2023-01-01', '2024-01-01'), 9);
-    expect(did.othersAfter).toBeCloseTo(perDay(false, '2024-01-01', '2025-01-01'), 9);
+    // Equal windows of 12 months either side: 2023 against 2024. A group of sites is put per site
+    // (its daily total over its sites there throughout: two refitted, three others).
+    const sitesOf = (refit: boolean) => SITES.filter((s) => s.refit === refit && s.site !== 'Harbour Road').length;
+    expect([sitesOf(true), sitesOf(false)]).toEqual([2, 3]);
+    expect(did.membersBefore).toBeCloseTo(perDay(true, '2023-01-01', '2024-01-01') / sitesOf(true), 9);
+    expect(did.membersAfter).toBeCloseTo(perDay(true, '2024-01-01', '2025-01-01') / sitesOf(true), 9);
+    expect(did.othersBefore).toBeCloseTo(perDay(false, '2023-01-01', '2024-01-01') / sitesOf(false), 9);
+    expect(did.othersAfter).toBeCloseTo(perDay(false, '2024-01-01', '2025-01-01') / sitesOf(false), 9);
+    const series = find(a, 'performance_group_series');
+    expect(series.map((s) => [s.quantity, s.unit])).toEqual([
+      ['per_unit_day', 'site'],
+      ['per_unit_day', 'site'],
+    ]);
     const ratioByHand = did.membersAfter / did.membersBefore / (did.othersAfter / did.othersBefore) - 1;
     expect(did.ratio!.estimate).toBeCloseTo(ratioByHand, 12);
     // Near the planted +22%, and clearly so: the interval leaves 0 out. (It is wide, as days are
@@ -249,7 +257,7 @@ describe('a filtered count compared between groups of sites', () => {
       expect(p.caption).toContain('Harbour Road');
       expect(p.caption).toMatch(/left out of both groups/);
       expect(p.caption).not.toMatch(/no clear change/);
-      if (audience !== 'analysts') expect(p.title).toMatch(/^Weekday visits per day: about 2\d% higher for refitted sites after the launch, relative to other sites$/);
+      if (audience !== 'analysts') expect(p.title).toMatch(/^Weekday visits per site per day: about 2\d% higher for refitted sites after the launch, relative to other sites$/);
     }
   });
 
