@@ -2,13 +2,13 @@
 // shaped by the audience and capped in size, and the plan edits a requester can type.
 import { isDeepStrictEqual } from 'node:util';
 import type { ComparisonGroup, DatasetConfig } from '../config/schema.js';
-import { firstBreakdownDimension, groupMadeOf, isAdditive, isBreakdownDimension, metricByName, plainCountMetric } from '../analysis/catalog.js';
+import { firstBreakdownDimension, groupMadeOf, isAdditive, isBreakdownDimension, metricByName, namedUnitDimension, plainCountMetric } from '../analysis/catalog.js';
 import type { Coverage } from '../analysis/coverage.js';
 import { SUB_QUESTIONS, type TemplateName } from '../analysis/sub-questions/registry.js';
 import { type DateWindow, type Grain, type Lens, type RequestKind, type SubQuestion } from '../analysis/types.js';
 import { type Brief, type Question, wholeRequestQuestion } from './brief.js';
 import { fullWindow } from './reading/answers.js';
-import { AGREE, CANCEL, grainNamedBy, WEEKDAY_ASK } from './reading/lexicon.js';
+import { AGREE, CANCEL, GROUP_GROWTH_ASK, grainNamedBy, WEEKDAY_ASK } from './reading/lexicon.js';
 import { describeWindow } from '../analysis/window-words.js';
 import { describeSubQuestion } from '../analysis/sub-questions/describe.js';
 
@@ -138,7 +138,12 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
             add('performance_before_after', metric, false, g, history);
             break;
           }
-          add('performance_compare', metric, true, g, since);
+          // "Did the programme shops grow faster?" asks each group's own growth (in total and like
+          // for like), not their levels: it heads the answers when the metric adds up over the
+          // groups' units (shops), which like-for-like growth needs.
+          const growth = GROUP_GROWTH_ASK.test(q.text.toLowerCase()) && additive && namedUnitDimension(ds, group) !== null;
+          if (growth) add('performance_growth', metric, true, g, span);
+          add('performance_compare', metric, !growth, g, since);
           add('performance_before_after', metric, false, g, history);
           // Never within a breakdown the group is made of ("Early Bake shops vs other shops within
           // each shop"): each of its segments holds one side only.

@@ -1,6 +1,7 @@
 // Findings of the performance family: a comparison group (members vs others) on one metric.
 // Numbers, dates and codes only; every sentence is written later by the presenters.
 import type { DateWindow, Grain, PeriodPoint } from '../types.js';
+import type { ChangedSegment, GrowthSpan } from './growth.js';
 
 export type GroupRole = 'members' | 'others';
 
@@ -195,7 +196,36 @@ export interface PerformanceGroupSeriesFinding {
   grain: Grain;
   /** What each point is (a count's points are its mean per day in the period); absent means `metric`. */
   quantity?: Quantity;
+  /** For `per_unit_day`: the dimension whose values are the units (a shop). */
+  unit?: string;
   points: PeriodPoint[];
+}
+
+/** One group's own growth over the compared spans, in total and over its units there through both. */
+export interface GroupGrowth {
+  group: GroupRole;
+  /** The group's units with data in either span. */
+  units: number;
+  total: { before: number; after: number; relative: number | null };
+  /** Over the units there through both spans; equal to `total` when every unit was. */
+  likeForLike: { before: number; after: number; relative: number | null; units: number } | null;
+  /** Units new or gone between the spans (a shop that opened), left out of like-for-like. */
+  changed: ChangedSegment[];
+}
+
+/**
+ * "Did the members grow faster?": each group's own growth over one span against the same dates
+ * a year earlier (growth-compare.ts), in total and like for like, with the units that set the two
+ * apart. Two growth rates side by side: a description, not a test.
+ */
+export interface PerformanceGroupGrowthFinding {
+  type: 'performance_group_growth';
+  metric: string;
+  /** The dimension whose values are the groups' units (a shop). */
+  unit: string;
+  current: GrowthSpan;
+  prior: GrowthSpan;
+  groups: GroupGrowth[];
 }
 
 /** The equal-length windows either side of the launch. */
@@ -301,6 +331,7 @@ export type PerformanceFinding =
   | PerformanceFrequencyGroupFinding
   | PerformanceFrequencyRatioFinding
   | PerformanceGroupSeriesFinding
+  | PerformanceGroupGrowthFinding
   | PerformanceUnitsLeftOutFinding
   | PerformancePeriodsFinding
   | PerformanceDidFinding

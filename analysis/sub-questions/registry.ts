@@ -17,6 +17,7 @@ import { performanceBeforeAfterSubQuestion } from './performance-before-after.js
 import { performanceBySegmentSubQuestion } from './performance-by-segment.js';
 import { performanceCompareSubQuestion } from './performance-compare.js';
 import { performanceFrequencySubQuestion } from './performance-frequency.js';
+import { performanceGrowthSubQuestion } from './performance-growth.js';
 import { periodTableSubQuestion } from './period-table.js';
 import { segmentSharesSubQuestion } from './segment-shares.js';
 import { segmentTrendSubQuestion } from './segment-trend.js';
@@ -38,6 +39,7 @@ const REGISTERED = [
   growthDriversSubQuestion,
   growthSummarySubQuestion,
   growthShareShiftSubQuestion,
+  performanceGrowthSubQuestion,
   performanceCompareSubQuestion,
   performanceFrequencySubQuestion,
   performanceBeforeAfterSubQuestion,

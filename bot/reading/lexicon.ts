@@ -108,6 +108,9 @@ export const CANCEL = /^\s*(?:cancel|stop|abort|never ?mind|forget it|scrap (?:i
 /** Asks when in the year something is high or low ("the busiest and quietest months"). */
 export const SEASON_ASK = /\bbusiest\b|\bquietest\b|\bslowest\b|\bpeak\w*|\btrough\w*|\bwhen in the year\b|\bwhich (?:months?|weeks?|quarters?) (?:is|are|was|were)\b|\btime of (?:the )?year\b/;
 /** Asks how days of the week differ ("weekdays", "weekends vs weekdays"). */
+/** A group's own growth asked ("did the programme shops grow faster", "growing more slowly"): its growth, not its level. */
+export const GROUP_GROWTH_ASK = /\b(?:grow|grew|grown|growing|growth)\b/;
+
 export const WEEKDAY_ASK = /\bwhich days? (?:is|are|was|were)\b|\bdays?[- ]of[- ](?:the[- ])?week\b|\bweekdays\b|\b(?:which|what|by|per|each|every|across)\s+(?:the\s+)?weekday\b|\bweekends?\s+(?:vs|versus|compared)\b/;
 
 /** Cues for each kind of question, with weights; the reader scores a question's words with these. */
