@@ -67,6 +67,7 @@ export function caveatNote(c: Caveat, locale: string): string {
     case 'segments_folded':
       if (typeof d.count === 'number' && typeof d.minRows === 'number') return `${countOf(d.count, 'segment')} with fewer than ${formatValue(d.minRows, { unit: 'count', locale: 'en' })} rows ${isAre(d.count)} not ranked and ${isAre(d.count)} combined as "All others".`;
       // Folded by value: an average's or a lowest-first ranking's fold holds lower or higher values, not smaller segments.
+      if (typeof d.count === 'number' && d.folded === 'later_share') return `${countOf(d.count, 'more segment')} with smaller shares in the later period than those named ${isAre(d.count)} combined as "All others".`;
       if (typeof d.count === 'number' && d.folded === 'change') return `${countOf(d.count, 'more segment')} with smaller changes than those named ${isAre(d.count)} combined as "All others".`;
       if (typeof d.count === 'number' && (d.folded === 'lower' || d.folded === 'higher')) return `${countOf(d.count, 'more segment')} with ${d.folded} values than those named ${isAre(d.count)} combined as "All others".`;
       return typeof d.count === 'number' ? `${countOf(d.count, 'smaller segment')} ${isAre(d.count)} combined as "All others".` : 'Smaller segments are combined as "All others".';

@@ -83,7 +83,8 @@ export function readGrowthShareShift(sq: SubQuestion, table: ResultTable, covera
         shareAfter,
         shareChange: shareBefore !== null && shareAfter !== null ? shareAfter - shareBefore : null,
       };
-      if (tail.length > (small > 0 ? 1 : 0)) caveats.push({ code: 'segments_folded', data: { count: tail.length - (small > 0 ? 1 : 0), metric } });
+      if (tail.length > (small > 0 ? 1 : 0)) // Ranked by their share in the later span: the folded ones may have been larger before.
+      if (tail.length > (small > 0 ? 1 : 0)) caveats.push({ code: 'segments_folded', data: { count: tail.length - (small > 0 ? 1 : 0), metric, folded: 'later_share' } });
     }
     const finding: GrowthShareShiftFinding = {
       type: 'growth_share_shift',

@@ -16,6 +16,7 @@ import { duckdbDialect } from '../../../analysis/sql/dialect.js';
 import { compileWindowComparison, priorWindow, shiftDayByYears } from '../../../analysis/templates/growth-compare.js';
 import { DRIVERS_TOP_N, growthDriversTemplate } from '../../../analysis/templates/growth-drivers.js';
 import { compileGrowthSeries, growthSeriesTemplate } from '../../../analysis/templates/growth-series.js';
+import { caveatNote } from '../../../analysis/captions/caveat-text.js';
 import { growthShareShiftTemplate } from '../../../analysis/templates/growth-share-shift.js';
 import { growthSummaryTemplate } from '../../../analysis/templates/growth-summary.js';
 import { SUB_QUESTIONS } from '../../../analysis/sub-questions/registry.js';
@@ -414,6 +415,26 @@ describe('growth_share_shift read', () => {
     expect(f.segments[0]!.shareChange).toBeCloseTo(0.2, 12);
     expect(f.segments[3]!.shareChange).toBeCloseTo(-0.2, 12);
     expect(r.caveats).toContainEqual(expect.objectContaining({ code: 'segment_gap', data: expect.objectContaining({ segment: 'd' }) }));
+  });
+
+  it('folds the segments past the top 10 by their later share, and says that rule, not "smaller"', () => {
+    // Twelve segments; "k" and "l" have the smallest later shares, though "k" was the largest before.
+    const keys = 'abcdefghijkl'.split('');
+    const before = (k: string) => (k === 'k' ? 200 : 10);
+    const after = (k: string) => (k === 'k' || k === 'l' ? 5 : 20);
+    const rows = [
+      ...keys.map((k) => sideRow('prior', k, before(k))),
+      sideRow('prior', null, keys.reduce((a, k) => a + before(k), 0), 120, '2023-06-01', true),
+      ...keys.map((k) => sideRow('current', k, after(k))),
+      sideRow('current', null, keys.reduce((a, k) => a + after(k), 0), 120, '2024-06-01', true),
+    ];
+    const r = growthShareShiftTemplate.read({ ...drivers, template: 'growth_share_shift' }, { shares: table(rows) }, readCtx(fullCoverage));
+    const f = find(r.findings, 'growth_share_shift') as GrowthShareShiftFinding;
+    expect(f.segments.map((s) => s.segment)).not.toContain('k');
+    expect(f.others?.count).toBe(2);
+    const fold = r.caveats.find((c) => c.code === 'segments_folded')!;
+    expect(fold.data).toMatchObject({ count: 2, folded: 'later_share' });
+    expect(caveatNote(fold, 'en')).toBe('2 more segments with smaller shares in the later period than those named are combined as "All others".');
   });
 
   it('gives no shares for a metric that does not add up', () => {
