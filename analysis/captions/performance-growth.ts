@@ -47,13 +47,16 @@ export function groupGrowthWords(findings: readonly Finding[], ctx: WordsContext
   const O = inText(group.others_label);
   const fmt = valueFormatOf(metric, locale);
   const value = (v: number) => formatValue(v, fmt, { compact: true });
-  const pct = (r: number | null) => formatChange(r, locale);
+  const pct = (r: number | null) => (r === null ? 'new (none a year earlier)' : formatChange(r, locale));
   const totalPace = paceOf(m.total.relative, o.total.relative);
   const lflPace = paceOf(m.likeForLike?.relative, o.likeForLike?.relative);
   const anyChanged = m.changed.length > 0 || o.changed.length > 0;
   const spans = `${spanText(f.current, locale)} against ${spanText(f.prior, locale)}`;
   const unitNoun = inText(ctx.dataset.dimensions.find((d) => d.name === f.unit)?.label ?? f.unit);
-  const side = (g: GroupGrowth) => `${inText(groupLabel(group, g.group))} ${pct(g.total.relative)} (${value(g.total.before)} to ${value(g.total.after)})`;
+  const side = (g: GroupGrowth) =>
+    g.total.relative === null
+      ? `${inText(groupLabel(group, g.group))} none a year earlier (${value(g.total.after)} now)`
+      : `${inText(groupLabel(group, g.group))} ${pct(g.total.relative)} (${value(g.total.before)} to ${value(g.total.after)})`;
   let title: string;
   let verdict: string;
   const newOnes = [...m.changed, ...o.changed].map((c) => c.segment ?? '(not recorded)');
@@ -78,7 +81,7 @@ export function groupGrowthWords(findings: readonly Finding[], ctx: WordsContext
     );
   }
   if (verdict) parts.push(verdict);
-  parts.push(`Each group's growth is over its own ${pluralNoun(unitNoun)}; two growth rates side by side are a description, not a test of the ${group.label}.`);
+  parts.push(`${f.unit ? `Each group's growth is over its own ${pluralNoun(unitNoun)}; t` : 'T'}wo growth rates side by side are a description, not a test of the ${group.label}.`);
   const takeaway = title;
   return { title, caption: parts.join(' '), notes: [], takeaway };
 }

@@ -221,7 +221,7 @@ export interface GroupGrowth {
 export interface PerformanceGroupGrowthFinding {
   type: 'performance_group_growth';
   metric: string;
-  /** The dimension whose values are the groups' units (a shop). */
+  /** The dimension whose values are the groups' units (a shop); '' when the groups have no named units (each is one). */
   unit: string;
   current: GrowthSpan;
   prior: GrowthSpan;

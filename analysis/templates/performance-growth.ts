@@ -5,7 +5,7 @@
 // the units are then added up by group. A level compared between the groups answers another
 // question, and a unit new in one group (a shop opened last June) moves that group's total growth
 // without anyone doing better.
-import { groupableDimension, namedUnitDimension } from '../catalog.js';
+import { groupableDimension, isAdditive, metricByName, namedUnitDimension } from '../catalog.js';
 import type { CompileContext } from '../compile-context.js';
 import { tableRef } from '../compile-context.js';
 import type { GroupGrowth, GroupRole, PerformanceGroupGrowthFinding } from '../findings/performance.js';
@@ -16,18 +16,29 @@ import { EMPTY_TABLE, groupKnown, memberFlag, resolveGroup, roleOf } from './per
 import { primaryMetric } from './performance-compare.js';
 import type { Reading, Template } from './template.js';
 
-/** The sub-question run by the groups' unit dimension, as growth's window comparison reads it. */
-function byUnit(sq: SubQuestion, ds: CompileContext['dataset']): SubQuestion {
-  const unit = namedUnitDimension(ds, resolveGroup(ds, sq));
-  if (!unit) throw new Error(`sub-question ${sq.id}: the group's growth needs the dimension its units are (a shop)`);
-  return { ...sq, dimension: unit.name };
+/** The dimension a group without named units is compared by: its own true/false column, so each group is one unit. */
+const GROUP_AS_UNIT = '__tc_group';
+
+/**
+ * The sub-question run by the groups' unit dimension, as growth's window comparison reads it, and
+ * the dataset it reads it from. Without named units (pass holders), the group's own column serves
+ * as the dimension: each group is then one unit, and its growth has no like-for-like part of its own.
+ */
+function byUnit(sq: SubQuestion, ds: CompileContext['dataset']): { sq: SubQuestion; dataset: CompileContext['dataset']; named: boolean } {
+  const group = resolveGroup(ds, sq);
+  // Units' totals add up to a group's only for a metric that adds up (a sum or a count).
+  const unit = isAdditive(metricByName(ds, sq.metrics[0]!)) ? namedUnitDimension(ds, group) : null;
+  if (unit) return { sq: { ...sq, dimension: unit.name }, dataset: ds, named: true };
+  const dataset = { ...ds, dimensions: [...ds.dimensions, { name: GROUP_AS_UNIT, column: group.column, label: group.label, synonyms: [], personal_data: false }] };
+  return { sq: { ...sq, dimension: GROUP_AS_UNIT }, dataset, named: false };
 }
 
 /** Which group each unit is in (a unit flagged a member on any row is one). */
 function compileMembership(sq: SubQuestion, ctx: CompileContext): { sql: string; params: (string | number | boolean)[] } {
   const ds = ctx.dataset;
   const group = resolveGroup(ds, sq);
-  const unit = groupableDimension(ds, byUnit(sq, ds).dimension!);
+  const by = byUnit(sq, ds);
+  const unit = groupableDimension(by.dataset, by.sq.dimension!);
   const q = new QueryBuilder(ctx.dialect);
   return q.finish(`SELECT CAST(${q.ident(unit.column)} AS VARCHAR) AS tc_unit, BOOL_OR(${memberFlag(q, group)}) AS tc_member
 FROM ${tableRef(q, ctx)}
@@ -37,17 +48,21 @@ ORDER BY 1`);
 }
 
 export const performanceGrowthTemplate: Template = {
-  compile: (sq, ctx) => [
-    { name: 'units', ...compileWindowComparison(byUnit(sq, ctx.dataset), ctx) },
-    { name: 'membership', ...compileMembership(sq, ctx) },
-  ],
+  compile: (sq, ctx) => {
+    const by = byUnit(sq, ctx.dataset);
+    return [
+      { name: 'units', ...compileWindowComparison(by.sq, { ...ctx, dataset: by.dataset }) },
+      { name: 'membership', ...compileMembership(sq, ctx) },
+    ];
+  },
   read: (sq, tables, ctx) => {
     const by = byUnit(sq, ctx.dataset);
-    const cmp = readWindowComparison(by, tables.units ?? EMPTY_TABLE, ctx.coverage);
+    const cmp = readWindowComparison(by.sq, tables.units ?? EMPTY_TABLE, ctx.coverage);
     const caveats: Caveat[] = [...cmp.caveats, { code: 'observational', data: { group: resolveGroup(ctx.dataset, sq).name } }];
     if (cmp.empty) return { findings: [], caveats };
     const metric = primaryMetric(ctx.dataset, sq).name;
-    return { findings: [groupGrowthFinding(metric, by.dimension!, cmp, membershipOf(tables.membership ?? EMPTY_TABLE))], caveats } satisfies Reading;
+    const f = groupGrowthFinding(metric, by.named ? by.sq.dimension! : '', cmp, membershipOf(tables.membership ?? EMPTY_TABLE));
+    return { findings: [f], caveats } satisfies Reading;
   },
 };
 
