@@ -75,6 +75,11 @@ const SAME_WORD: Record<string, string> = {
   num: 'number', count: 'number',
 };
 
+// Forms of "be", "have" and "get" that put a participle after its noun ("jobs were added"), as stemmed.
+const AUXILIARY = /^(?:were|was|are|is|be|been|being|have|has|had|get|got|gotten)$/;
+// A word that reads as a past participle: "added", "shipped", "taken", "grown".
+const PARTICIPLE = /(?:ed|en|wn)$/;
+
 /** Plural and singular read alike: "routes" and "route", "categories" and "category". */
 export function stem(word: string): string {
   const same = SAME_WORD[word];
@@ -296,6 +301,19 @@ export function findCatalogHits(text: RequestText, catalog: PreparedCatalog, opt
   // value ("did we carry" is not "car", "we rained" is no weather): "rainy days", "when it rained" stay.
   const onlyForms = (p: Prepared) => p.entries.every((e) => e.form);
   const verbAfterSubject = (i: number, p: Prepared) => onlyForms(p) && /^(?:we|i|you|they|he|she|did|do|does|didn't|don't|doesn't|will|would|could|can|should|shall|must|might|to|not)$/.test(words[i - 1]?.norm ?? '');
+  // A name ending in a participle ("Jobs added", "Orders shipped") said as a clause: "jobs were
+  // added", "orders have been shipped". Only forms of "be", "have" and "get" may stand between.
+  const withAuxiliaries = (i: number, n: number): { p: Prepared; length: number } | null => {
+    for (let extra = 1; extra <= 2 && i + n + extra <= words.length; extra++) {
+      if (!free(i, n + extra) || /[.!?;,]/.test(text.lower.slice(words[i]!.end, words[i + n + extra - 1]!.start))) continue;
+      const inner = stems.slice(i + 1, i + n + extra - 1);
+      const kept = [stems[i]!, ...inner.filter((w) => !AUXILIARY.test(w)), stems[i + n + extra - 1]!];
+      if (kept.length !== n || inner.length - (kept.length - 2) !== extra) continue;
+      const p = catalog.byLength.get(n)?.get(kept.join(' '));
+      if (p && PARTICIPLE.test(p.raw[p.raw.length - 1]!)) return { p, length: n + extra };
+    }
+    return null;
+  };
   for (const pass of options.typos === false ? (['exact'] as const) : (['exact', 'typo', 'family'] as const)) {
     const exactPass = pass === 'exact';
     for (const n of catalog.lengths) {
@@ -308,9 +326,11 @@ export function findCatalogHits(text: RequestText, catalog: PreparedCatalog, opt
         if (exactPass) {
           const p = bucket.get(window);
           if (p && !verbForNoun(i, p) && !verbAfterSubject(i, p)) take(i, n, p.entries, true);
-          else if (n > 1 && options.typos !== false) {
-            const q = typoInLonger(i, n);
-            if (q && !verbForNoun(i, q)) take(i, n, q.entries, false);
+          else if (n > 1) {
+            const spread = withAuxiliaries(i, n);
+            const q = spread || options.typos === false ? undefined : typoInLonger(i, n);
+            if (spread) take(i, spread.length, spread.p.entries, true);
+            else if (q && !verbForNoun(i, q)) take(i, n, q.entries, false);
           }
           continue;
         }
