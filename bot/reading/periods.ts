@@ -450,6 +450,9 @@ function findShifts(text: RequestText): PeriodMention[] {
 const COMPARED_BEFORE = /(?:\bvs\.?|\bv\.?|\bversus|\bagainst|\bcompared\s+(?:to|with)|\bcompare\w*(?:\s+\S+){0,6}\s+(?:to|with|against)|\brelative\s+to|\bthan|\bbeat(?:s|en)?|\bbeating|\boutperform\w*|\bover|\bon|\bfrom|\bwith|\bagainst|\bto)\s+(?:the\s+|that\s+of\s+|those\s+of\s+|in\s+|for\s+|of\s+)?$/;
 const STRONG_COMPARED_BEFORE = /(?:\bvs\.?|\bv\.?|\bversus|\bagainst|\bcompared\s+(?:to|with)|\bcompare\w*(?:\s+\S+){0,6}\s+(?:to|with|against)|\brelative\s+to|\bthan|\bbeat(?:s|en)?|\bbeating|\boutperform\w*)\s+(?:the\s+|that\s+of\s+|those\s+of\s+|in\s+|for\s+|of\s+)?$/;
 
+/** A word of comparison a few words before "between" ("compared between", "how does Finance compare between"). */
+const COMPARED_BETWEEN = /\b(?:compar(?:e|ed|es|ing)|differ(?:s|ed|ing)?|difference|contrast(?:s|ed|ing)?)\s+(?:[\p{L}\p{N}'’-]+\s+){0,6}between\s+(?:the\s+)?$/u;
+
 /** Every period mention in the text, ranges and "since" folded in, each marked when it is compared against. */
 export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMention[] {
   const relative = findRelative(text, ctx);
@@ -464,12 +467,24 @@ export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMentio
   const mentions: PeriodMention[] = [];
   // Ranges: "from X to Y", "between X and Y", "X to Y", "Jan-Mar 2024".
   const used = new Set<Point>();
+  // "how X compared between 2008 and 2009": two periods set against each other, not one stretch.
+  const comparedEarlier = new Set<Point>();
+  const setAgainst = new Set<PeriodMention>();
   for (let i = 0; i + 1 < points.length; i++) {
     const a = points[i]!;
     const b = points[i + 1]!;
     const gap = text.lower.slice(a.end, b.start);
     const before = text.lower.slice(Math.max(0, a.start - 12), a.start);
     const between = /\bbetween\s+$/.test(before);
+    if (between && /^\s*and\s*$/.test(gap) && COMPARED_BETWEEN.test(text.lower.slice(Math.max(0, a.start - 80), a.start))) {
+      const [wa, wb] = rangeEnds(a, b, ctx);
+      // The earlier of the two is the base; each keeps its own year ("between May and June 2024").
+      if (a.year === undefined) a.year = Number(wa.start.slice(0, 4));
+      if (b.year === undefined) b.year = Number(wb.start.slice(0, 4));
+      comparedEarlier.add(wa.start <= wb.start ? a : b);
+      i++;
+      continue;
+    }
     const from = /\bfrom\s+$/.test(before);
     if (!(/^\s*(?:-|to|until|till|through|thru)\s*$/.test(gap) || (between && /^\s*and\s*$/.test(gap)) || (from && /^\s*(?:-|to|until|till|through|thru)\s*$/.test(gap)))) continue;
     const [wa, wb] = rangeEnds(a, b, ctx);
@@ -481,7 +496,9 @@ export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMentio
   }
   for (const p of points) {
     if (used.has(p)) continue;
-    mentions.push({ start: p.start, end: p.end, window: resolvePoint(p, ctx), unit: p.unit, relative: p.qualified === true, compared: false, ...(p.notReal ? { notReal: true } : {}), words: text.quote(p) });
+    const mention: PeriodMention = { start: p.start, end: p.end, window: resolvePoint(p, ctx), unit: p.unit, relative: p.qualified === true, compared: comparedEarlier.has(p), ...(p.notReal ? { notReal: true } : {}), words: text.quote(p) };
+    if (comparedEarlier.has(p)) setAgainst.add(mention);
+    mentions.push(mention);
   }
   // The longest reading of any stretch of words wins ("the same month last year" over "last year").
   mentions.push(...relative, ...shifts);
@@ -522,8 +539,8 @@ export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMentio
     }
     const preceding = text.lower.slice(Math.max(0, m.start - 60), m.start);
     // Weak comparison words ("on", "over", "from") count only before a relative phrase ("up on last year").
-    m.strong = STRONG_COMPARED_BEFORE.test(preceding) || /^(?:vs|versus|against|compared|than)/.test(m.words.toLowerCase());
-    m.compared = m.compared || STRONG_COMPARED_BEFORE.test(preceding) || (m.relative && !m.toLatest && COMPARED_BEFORE.test(preceding) && /^(?:last|previous|prior|a\s+year|the\s+(?:previous|prior))/.test(m.words.toLowerCase()));
+    m.strong = setAgainst.has(m) || STRONG_COMPARED_BEFORE.test(preceding) || /^(?:vs|versus|against|compared|than)/.test(m.words.toLowerCase());
+    m.compared = m.compared || setAgainst.has(m) || STRONG_COMPARED_BEFORE.test(preceding) || (m.relative && !m.toLatest && COMPARED_BEFORE.test(preceding) && /^(?:last|previous|prior|a\s+year|the\s+(?:previous|prior))/.test(m.words.toLowerCase()));
   }
   return chosen;
 }
