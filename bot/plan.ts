@@ -10,6 +10,7 @@ import { type Brief, type Question, wholeRequestQuestion } from './brief.js';
 import { fullWindow } from './reading/answers.js';
 import { AGREE, CANCEL, GROUP_GROWTH_ASK, grainNamedBy, WEEKDAY_ASK } from './reading/lexicon.js';
 import { describeWindow } from '../analysis/window-words.js';
+import { priorWindow } from '../analysis/templates/growth-compare.js';
 import { describeSubQuestion } from '../analysis/sub-questions/describe.js';
 
 export interface Plan {
@@ -42,6 +43,10 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
   const notCovered = new Set<RequestKind>();
   const readings: string[] = [];
   const questions: Question[] = brief.questions.length > 0 ? brief.questions : [wholeRequestQuestion(brief)];
+  // Periods named to compare ("2009 vs 2008"): every growth answer of the request runs up to the
+  // later of them, so none reads as the data's last two years instead (and two questions of one
+  // request still share their items).
+  const namedContext = upToLaterPeriod(questions.flatMap((q) => (q.compareWindow ? [q.window ?? all, q.compareWindow] : [])), history);
   for (const q of questions) {
     const group = groupFor(q, brief, ds);
     if (q.window) readings.push(`"${q.text}": ${describeWindow(q.window, coverage)}${q.windowSoFar ? ' so far (the data ends there)' : ''}${q.compareWindow ? `, against ${describeWindow(q.compareWindow, coverage)}` : ''}`);
@@ -118,11 +123,16 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
         case 'growth':
           // The metric's own pattern over time is the context any growth answer is read against.
           // Over a short window of its own ("this summer") the growth series needs the history around it.
-          const context = q.window && monthsIn(q.window) >= 13 ? q.window : history;
+          // Two periods named ("2009 vs 2008"): their figures head the answers, whatever the
+          // breakdown, and the growth around them runs up to the later one, so no answer under
+          // the brief reads as the data's last two years instead.
+          const named = !!q.compareWindow;
+          const context = namedContext ?? (q.window && monthsIn(q.window) >= 13 ? q.window : history);
+          if (named) add('growth_periods', metric, true, {}, focus);
           add('series', metric, false, {}, context);
-          add('growth_series', metric, !dims.length, {}, context);
+          add('growth_series', metric, !dims.length && !named, {}, context);
           // "Which channel is growing fastest": the segments ranked by their own rate answer it, and head the question.
-          for (const [i, d] of dims.entries()) add('growth_drivers', metric, i === 0, { dimension: d, ...(q.growthRank ? { growthRank: q.growthRank, answersAsked: true } : {}) }, focus);
+          for (const [i, d] of dims.entries()) add('growth_drivers', metric, i === 0 && (!named || !!q.growthRank), { dimension: d, ...(q.growthRank ? { growthRank: q.growthRank, answersAsked: true } : {}) }, focus);
           add('growth_summary', metric, false, {}, context);
           if (additive) for (const d of dims) add('growth_share_shift', metric, false, { dimension: d }, focus);
           break;
@@ -154,7 +164,12 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
         }
         case 'kpi': {
           const upTo = { start: history.start, end: focus.end };
-          add('kpi_snapshot', metric, true, {}, upTo);
+          // "How many were unemployed in 2009": a period the request named, longer than one
+          // period of the grain, is answered by its own figure (a flow's total, a level's mean
+          // reading), beside the same dates a year earlier; its last month is the snapshot.
+          const whole = q.window && !q.compareWindow && periodsIn(q.window, grain) > 1 ? q.window : null;
+          if (whole) add('growth_periods', metric, true, { compareWindow: priorWindow(whole) }, whole);
+          add('kpi_snapshot', metric, !whole, {}, upTo);
           add('kpi_context', metric, false, {}, upTo);
           for (const d of dims) add('kpi_by_segment', metric, ranks, { dimension: d, ...(ranks ? { answersAsked: true } : {}) }, upTo);
           if (additive) for (const d of dims) add('kpi_mix', metric, false, { dimension: d }, upTo);
@@ -277,6 +292,25 @@ function byTurns(items: readonly Draft[]): Draft[] {
   const out: Draft[] = [];
   for (let i = 0; out.length < items.length; i++) for (const g of groups.values()) if (g[i]) out.push(g[i]!);
   return out;
+}
+
+/**
+ * The growth context of periods named to compare: all the data up to the end of the latest of
+ * them (its year-earlier rates are then the series' last), or null when none is named or that
+ * leaves under two years.
+ */
+function upToLaterPeriod(named: readonly DateWindow[], history: DateWindow): DateWindow | null {
+  if (named.length === 0) return null;
+  const later = named.map((w) => w.end).sort().at(-1)!;
+  const span = { start: history.start, end: later < history.end ? later : history.end };
+  return monthsIn(span) >= 24 ? span : null;
+}
+
+/** How many periods of the grain a window spans, partly or whole (a day's window is 1 day). */
+function periodsIn(w: DateWindow, grain: Grain): number {
+  if (grain === 'day' || grain === 'week') return Math.ceil((Date.parse(w.end) - Date.parse(w.start)) / 86_400_000 / (grain === 'week' ? 7 : 1));
+  const months = monthsIn(w) + (w.end.slice(8) > '01' ? 1 : 0);
+  return Math.ceil(months / (grain === 'quarter' ? 3 : grain === 'year' ? 12 : 1));
 }
 
 function monthsIn(w: DateWindow): number {

@@ -15,6 +15,9 @@ import type { Verdict } from './verdict-words.js';
 import { addDays, addMonths, daysBetween } from '../periods.js';
 import { capitalise, dimensionLabel, directionOf, formatPoints, lower, segmentText, spanText, unsignedPercent, valueText } from './growth-words.js';
 
+/** What a comparison of two spans states of its total: the spans and the total over each. */
+export type SpansTotals = Pick<GrowthDriversFinding, 'current' | 'prior' | 'total' | 'additive'>;
+
 /** Segments named in a caption, largest change first. */
 const NAMED_IN_CAPTION = 3;
 
@@ -105,7 +108,7 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
   return { title, caption: sentences.join(' ') };
 }
 
-function totalVerb(relative: number, locale: string): string {
+export function totalVerb(relative: number, locale: string): string {
   switch (directionOf(relative)) {
     case 'up':
       return `rose ${unsignedPercent(relative, locale)}`;
@@ -158,7 +161,7 @@ function likeForLikeSentence(
  * The verdict on a comparison the request named ("2025 against 2023", "this summer against last"):
  * the total's change between the two spans, against the base said as the requester would.
  */
-export function spansVerdict(metric: Metric, f: GrowthDriversFinding, locale: string): Verdict | null {
+export function spansVerdict(metric: Metric, f: SpansTotals, locale: string): Verdict | null {
   const rel = f.total.relative;
   if (rel === null || !Number.isFinite(rel)) return null;
   const { current, prior } = f;
@@ -191,7 +194,7 @@ export function spansVerdict(metric: Metric, f: GrowthDriversFinding, locale: st
  * leap year has 91) differ by the days alone, so the days are said, and a total that adds up over
  * days is also said per day, from which each figure can be worked out. Null for spans of one length.
  */
-function perDaySentence(f: GrowthDriversFinding, label: string, metric: Metric, locale: string): string | null {
+export function perDaySentence(f: SpansTotals, label: string, metric: Metric, locale: string): string | null {
   const [dc, dp] = [daysBetween(f.current.start, f.current.end), daysBetween(f.prior.start, f.prior.end)];
   const { before, after } = f.total;
   // Only a total that adds up over days differs by the days: a level or a ratio is compared as it is.

@@ -153,6 +153,20 @@ export interface GrowthDriversFinding {
   byRate?: GrowthRateRanking;
 }
 
+/**
+ * Two periods the request named ("2009 vs 2008"), the metric's figure over each: a flow's total,
+ * a level's mean reading, a ratio over the whole span. No breakdown: the figures themselves.
+ */
+export interface GrowthPeriodsFinding {
+  type: 'growth_periods';
+  metric: string;
+  /** The spans compared, cut to the data. */
+  current: GrowthSpan;
+  prior: GrowthSpan;
+  additive: boolean;
+  total: { before: number | null; after: number | null; change: number | null; relative: number | null };
+}
+
 export interface GrowthRateSummaryFinding {
   type: 'growth_rate_summary';
   metric: string;
@@ -213,5 +227,6 @@ export type GrowthFinding =
   | GrowthCagrFinding
   | GrowthLevelRateFinding
   | GrowthDriversFinding
+  | GrowthPeriodsFinding
   | GrowthRateSummaryFinding
   | GrowthShareShiftFinding;

@@ -23,7 +23,8 @@ export const presentGrowthSeries: Presenter = (answer, ctx) => {
     caption: words.caption,
     notes: growthNotes(answer, ctx.locale, ctx.dataset),
     chart,
-    takeaway: found.series ? withVerdict({ importance: 60, text: `${words.title}.` }, growthVerdict(metric, found, ctx.locale)) : null,
+    // A comparison the request named is judged by its own answer (growth_periods, growth_drivers), on the spans it named.
+    takeaway: found.series ? withVerdict({ importance: 60, text: `${words.title}.` }, sq.compareWindow ? null : growthVerdict(metric, found, ctx.locale)) : null,
   };
 };
 

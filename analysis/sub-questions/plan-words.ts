@@ -47,7 +47,7 @@ export function planWords(sq: SubQuestion, ds: DatasetConfig, locale: string): P
     grain: grainAdjective(sq.grain),
     vs: group ? `${inSentence(group.members_label)} vs ${inSentence(group.others_label)}` : '',
     groupLabel: group?.label ?? '',
-    base: sq.compareWindow ? describeWindow(sq.compareWindow, { firstDate: null, lastDate: null, rows: 0 }, locale) : 'a year earlier',
+    base: sq.compareWindow ? windowWords(sq.compareWindow, locale) : 'a year earlier',
     ends: endsWords(sq, locale),
     is: sq.metrics.length > 1 ? 'are' : (verbFor(label(sq.metrics[0] ?? '')) as 'is' | 'are'),
     unit: group ? unitNoun(ds, group).singular : 'unit',
@@ -62,7 +62,10 @@ function endsWords(sq: SubQuestion, locale: string): string {
 
 /** Whole months read as months ("January 2022 to June 2025"); anything else as its days ("1 June to 18 June 2025"). */
 function spanWords(sq: SubQuestion, locale: string): string {
-  const w = sq.window;
+  return windowWords(sq.window, locale);
+}
+
+function windowWords(w: SubQuestion['window'], locale: string): string {
   if (w.start.endsWith('-01') && w.end.endsWith('-01')) return `${formatPeriod(w.start, 'month', locale, 'long')} to ${formatPeriod(addDays(w.end, -1), 'month', locale, 'long')}`;
   return describeWindow(w, { firstDate: null, lastDate: null, rows: 0 }, locale);
 }

@@ -6,6 +6,7 @@ import type { Presenter } from '../present/presenter.js';
 import type { SubQuestion } from '../types.js';
 import type { SubQuestionDefinition } from './definition.js';
 import { growthDriversSubQuestion } from './growth-drivers.js';
+import { growthPeriodsSubQuestion } from './growth-periods.js';
 import { growthSeriesSubQuestion } from './growth-series.js';
 import { growthShareShiftSubQuestion } from './growth-share-shift.js';
 import { growthSummarySubQuestion } from './growth-summary.js';
@@ -37,6 +38,7 @@ const REGISTERED = [
   segmentSharesSubQuestion,
   growthSeriesSubQuestion,
   growthDriversSubQuestion,
+  growthPeriodsSubQuestion,
   growthSummarySubQuestion,
   growthShareShiftSubQuestion,
   performanceGrowthSubQuestion,

@@ -261,7 +261,7 @@ tc_edges AS (
  * on the time column; otherwise the whole table's first and last day are read (`reach`, as in the
  * coverage check), never the filtered rows', so a segment filter never shortens the span compared.
  */
-function sidesSql(
+export function sidesSql(
   q: QueryBuilder,
   ctx: CompileContext,
   sq: SubQuestion,

@@ -1,0 +1,49 @@
+// Presenter for "growth_periods": the two named periods as two bars, earlier first.
+import { buildBars } from '../charts/build-bars.js';
+import type { BarsSpec } from '../charts/spec.js';
+import { spansVerdict } from '../captions/growth-drivers-caption.js';
+import { growthPeriodsWords } from '../captions/growth-periods-caption.js';
+import { growthNotes, spanText } from '../captions/growth-words.js';
+import { metricByName, metricDirection } from '../catalog.js';
+import type { GrowthPeriodsFinding } from '../findings/growth.js';
+import { valueFormatOf } from '../format.js';
+import type { Answer, Finding } from '../types.js';
+import { twoSpanSubtitle } from './growth-header.js';
+import { chartFooter } from './header.js';
+import { withVerdict, type PresentContext, type Presenter } from './presenter.js';
+
+export const presentGrowthPeriods: Presenter = (answer, ctx) => {
+  const metric = metricByName(ctx.dataset, answer.subQuestion.metrics[0]!);
+  const f = answer.findings.find((x): x is Extract<Finding, { type: 'growth_periods' }> => x.type === 'growth_periods' && x.metric === metric.name);
+  const words = growthPeriodsWords(metric, f, ctx.locale);
+  const chart = f ? periodsChart(answer, f, words.title, ctx) : null;
+  return {
+    title: words.title,
+    caption: words.caption,
+    notes: growthNotes(answer, ctx.locale, ctx.dataset),
+    chart,
+    // The comparison the request named: its verdict is this answer's.
+    takeaway: f ? withVerdict({ importance: 65, text: `${words.title}.` }, spansVerdict(metric, f, ctx.locale)) : null,
+  };
+};
+
+function periodsChart(answer: Answer, f: GrowthPeriodsFinding, title: string, ctx: PresentContext): BarsSpec | null {
+  const metric = metricByName(ctx.dataset, f.metric);
+  const sides = [
+    { span: f.prior, value: f.total.before },
+    { span: f.current, value: f.total.after },
+  ].sort((a, b) => (a.span.start < b.span.start ? -1 : 1));
+  const items = sides.filter((s) => s.value !== null).map((s) => ({ label: spanText(s.span, ctx.locale), value: s.value! }));
+  if (items.length === 0) return null;
+  return buildBars({
+    title,
+    chip: metric.label,
+    subtitle: twoSpanSubtitle(answer, metric, f.current, f.prior, ctx),
+    footer: chartFooter(answer, ctx),
+    ...ctx.chart,
+    items,
+    format: valueFormatOf(metric, ctx.locale),
+    signed: items.some((i) => i.value < 0),
+    higherIsBetter: metricDirection(metric) ?? undefined,
+  });
+}

@@ -1,0 +1,14 @@
+// Sub-question "growth_periods": the two periods a request named, side by side (growth × summary).
+import { presentGrowthPeriods } from '../present/growth-periods.js';
+import { growthPeriodsTemplate } from '../templates/growth-periods.js';
+import { defineSubQuestion } from './definition.js';
+import { capitalise } from './plan-words.js';
+
+export const growthPeriodsSubQuestion = defineSubQuestion({
+  name: 'growth_periods',
+  kind: 'growth',
+  lens: 'summary',
+  template: growthPeriodsTemplate,
+  present: presentGrowthPeriods,
+  describe: (w) => `${capitalise(w.metric)}, ${w.span} against ${w.base}: each period's figure and the change between them.`,
+});
