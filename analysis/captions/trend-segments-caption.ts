@@ -37,7 +37,9 @@ function sameYears(a: SegmentTrendFinding, b: SegmentTrendFinding): boolean {
 function sizeLine(metric: Metric, named: readonly SegmentTrendFinding[], fmt: ReturnType<typeof valueFormatOf>, span: string): string {
   const valued = named.filter((t) => t.total !== null);
   if (valued.length === 0) return '';
-  if (addsAcrossSegments(metric)) return `${segmentLabel(valued[0]!)} is the largest, at ${formatValue(valued[0]!.total, fmt, { compact: true })}${span}.`;
+  // The largest by value, whichever order the segments were ranked in ("lowest first" lists the smallest first).
+  const largest = valued.reduce((a, b) => (b.total! > a.total! ? b : a));
+  if (addsAcrossSegments(metric)) return `${segmentLabel(largest)} is the largest, at ${formatValue(largest.total, fmt, { compact: true })}${span}.`;
   const byValue = [...valued].sort((a, b) => b.total! - a.total!);
   const top = byValue[0]!;
   const bottom = byValue[byValue.length - 1]!;
@@ -62,6 +64,15 @@ export function segmentTrendWords(metric: Metric, dim: Dim, findings: readonly F
     return {
       title: `${labelAtStart(metric.label)} by ${inSentence(dim.label)}: too few complete periods to compare growth`,
       caption: `No ${inSentence(dim.label)} has enough complete periods for a growth rate. ${capitalise(largestText)}`.trim(),
+    };
+  }
+  if (overview.seasonUnresolved) {
+    // Over under two years a segment's slope is its seasonal swing (a shop "rising" through autumn
+    // into December): no segment is named as growing, as trend_test says for the total.
+    const largestLine = sizeLine(metric, named, fmt, ' over the period');
+    return {
+      title: `${labelAtStart(metric.label)} by ${inSentence(dim.label)}: too short a span to tell each one's trend from the season`,
+      caption: `${capitalise(largestLine)} With less than two years of ${pluralNoun(fastest.grain)}, a ${inSentence(dim.label)}'s rise or fall cannot be told apart from the usual seasonal pattern, so none is named as growing fastest; growth on the same ${pluralNoun(fastest.grain)} of the year before compares them without the season.`.trim(),
     };
   }
   const measure = overview.fastest.measure;

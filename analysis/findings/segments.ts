@@ -215,6 +215,8 @@ export interface SegmentTrendOverviewFinding {
   fastest: { segment: string | null; measure: SegmentGrowthMeasure; value: number } | null;
   /** The next fastest on the same measure, when there is one: a lead under CLEAR_LEAD is no lead. */
   runnerUp?: { segment: string | null; value: number } | null;
+  /** The slopes span under two years (no compound growth between full years): each segment's rise or fall may be the season, so none is named fastest. */
+  seasonUnresolved?: boolean;
 }
 
 /**

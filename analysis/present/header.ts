@@ -44,7 +44,11 @@ export function chartSubtitle(answer: Answer, metric: Metric, ctx: PresentContex
   // shows nothing after it, and a subtitle to 31 December would claim it does. Data stamped
   // monthly covers its last month whole and is said in months, as the thread's text says it.
   const end = ctx.dataAsOf ? dataEnd({ lastDate: ctx.dataAsOf.slice(0, 10), ...(ctx.stamps ? { stamps: ctx.stamps } : {}) }) : null;
-  const shown = { start: sq.window.start, end: end !== null && end < sq.window.end ? end : sq.window.end };
+  // A filtered series whose rows start late (a shop that opened part-way) is said from its first
+  // period with rows, as the chart draws it, not from the window asked for.
+  const firstMatch = answer.caveats.find((c) => c.code === 'empty_period' && c.data.leading === true && typeof c.data.firstMatch === 'string')?.data.firstMatch as string | undefined;
+  const start = firstMatch !== undefined && firstMatch > sq.window.start && firstMatch < sq.window.end ? firstMatch : sq.window.start;
+  const shown = { start, end: end !== null && end < sq.window.end ? end : sq.window.end };
   const parts = [opts.definition ?? metricDefinition(metric, ctx), shortWindow(shown, ctx.stamps, ctx.locale)];
   if (opts.grain !== false) parts.push(grainAdjective(sq.grain));
   parts.push(...filterSubtitleParts(sq.filters, ctx.dataset));

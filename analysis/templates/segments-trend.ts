@@ -11,7 +11,7 @@ import { compileFoldedSegments, foldedAs, namedSegmentCount, segmentDimension } 
 import { foldedCaveats, foldedRow, readSegmentTotals, segmentCoverageCaveats, type FoldedRow } from './segments-read.js';
 import { minGroupSize } from './small-groups.js';
 import type { ReadContext, Reading, Template } from './template.js';
-import { completePoints, coveredWindow, EMPTY_TABLE, isoYear, mean, numberOrNull, periodsInYear, relativeYearlyRateApplies, seasonallyAdjusted, windowPeriods } from './trend-points.js';
+import { completePoints, coveredWindow, EMPTY_TABLE, isoYear, mean, numberOrNull, periodsInYear, relativeYearlyRateApplies, seasonallyAdjusted, seasonUnresolvedOver, windowPeriods } from './trend-points.js';
 
 export const segmentTrendTemplate: Template = {
   compile: (sq, ctx) => {
@@ -98,6 +98,10 @@ export function readSegmentTrend(sq: SubQuestion, totals: ResultTable, seriesTab
     folded: segments.find((s) => s.other)?.members ?? 0,
     ...fastestGrowing(trends),
   });
+  // Without compound growth between full years, the slopes span under two years: the season, not a trend.
+  const overview = findings[findings.length - 1] as SegmentTrendOverviewFinding;
+  const spanned = Math.max(0, ...named.map((t) => completePoints(t.points)).filter((c) => c.length > 0).map((c) => c[c.length - 1]!.index - c[0]!.index + 1));
+  if (overview.fastest && overview.fastest.measure !== 'cagr' && seasonUnresolvedOver(sq.grain, spanned)) overview.seasonUnresolved = true;
   return { findings, caveats };
 }
 

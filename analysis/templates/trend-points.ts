@@ -50,6 +50,14 @@ export function periodsInYear(grain: Grain): number {
 }
 
 /**
+ * Two years are the fewest from which a yearly season can be estimated (two of each month); over
+ * fewer periods than that a rise or fall cannot be told from the season, whatever its p-value.
+ */
+export function seasonUnresolvedOver(grain: Grain, spannedPeriods: number): boolean {
+  return grain !== 'year' && spannedPeriods < 2 * periodsInYear(grain) - 1e-9;
+}
+
+/**
  * Whether a yearly rate relative to the level means anything for these complete values: every one
  * is above zero (a percentage of a level that touches or crosses zero has no base: an average delay
  * of 0.4 min rising 1 min a year would be "+250% a year"), and they span a whole year or more (a

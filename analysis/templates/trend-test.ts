@@ -8,7 +8,7 @@ import type { Caveat, Finding, PeriodPoint, ResultTable, SubQuestion } from '../
 import type { TrendTestFinding } from '../findings/segments.js';
 import { compileSeries, readSeries } from './series.js';
 import type { ReadContext, Reading, Template } from './template.js';
-import { completePoints, EMPTY_TABLE, mean, periodsInYear, relativeYearlyRateApplies, seasonallyAdjusted, seriesFinding, spansAYear } from './trend-points.js';
+import { completePoints, EMPTY_TABLE, mean, periodsInYear, relativeYearlyRateApplies, seasonallyAdjusted, seasonUnresolvedOver, seriesFinding, spansAYear } from './trend-points.js';
 
 /** Conventional two-sided significance level (common practice, not a law). */
 export const TREND_ALPHA = 0.05;
@@ -62,10 +62,8 @@ function trendTest(sq: SubQuestion, points: readonly PeriodPoint[], complete: Re
   const rawMk = adjusted ? mannKendall(raw) : mk;
   const perYear = periodsInYear(sq.grain);
   const slopePerYear = sen.slope * perYear;
-  // Two years are the fewest from which a yearly season can be estimated (two of each month);
-  // over less, the test cannot tell a trend from the season, whatever its p-value.
   const spanned = complete[complete.length - 1]!.index - complete[0]!.index + 1;
-  const seasonUnresolved = sq.grain !== 'year' && spanned < 2 * perYear - 1e-9;
+  const seasonUnresolved = seasonUnresolvedOver(sq.grain, spanned);
   const level = mean(values);
   // Sen's intercept is at time 0 of the times given, which are the series' own positions.
   return {
