@@ -1,8 +1,8 @@
 // Title and caption for a trend test (Mann–Kendall and Sen's slope), written only from findings.
 import type { Metric } from '../../config/schema.js';
 import type { TrendTestFinding } from '../findings/segments.js';
-import { changesInUnits, metricDirection } from '../catalog.js';
-import { formatChange, formatPeriod, formatPointChange, formatValue, valueFormatOf } from '../format.js';
+import { changesInUnits, metricDirection, onIntervalScale } from '../catalog.js';
+import { formatChange, formatPeriod, formatUnitChange, formatValue, valueFormatOf } from '../format.js';
 import { yearFraction } from '../periods.js';
 import type { Audience, Finding, Grain } from '../types.js';
 import { inSentence, isPluralLabel, labelAtStart } from './grammar.js';
@@ -146,11 +146,12 @@ function peakSentence(metric: Metric, grain: Grain, findings: readonly Finding[]
   if (change.from.period === change.to.period) {
     return `The latest complete ${grainNoun(grain)}, ${when(change.to.period)}, is the peak at ${value(change.to.value)}.`;
   }
-  // A rate or share sits points below its peak ("79.6%, 9.3 pts below it"), not a percentage of it.
+  // A rate or share sits points below its peak ("79.6%, 9.3 pts below it"), and a temperature
+  // degrees ("11.9 °C, 13.4 °C below it"): a percentage of either means nothing.
   const diff = change.to.value - change.from.value;
   const gap =
-    fmt.unit === 'percent'
-      ? `${value(change.to.value)}, ${formatPointChange(Math.abs(diff), locale)} ${diff < 0 ? 'below' : 'above'} it`
+    fmt.unit === 'percent' || onIntervalScale(metric)
+      ? `${value(change.to.value)}, ${formatUnitChange(Math.abs(diff), fmt, { compact: true })} ${diff < 0 ? 'below' : 'above'} it`
       : change.relative === null
         ? `${value(change.to.value)}`
         : `${value(change.to.value)}, ${formatRelativeSize(change.relative, locale)} ${change.relative < 0 ? 'below' : 'above'} it`;

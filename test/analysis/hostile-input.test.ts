@@ -326,6 +326,8 @@ describe('hostile chat input', () => {
     expect(() => checkSql({ sql: 'SELECT $2', params: [1] }, fragments, 'x')).toThrow(/placeholder/);
   });
 
+  // Two thousand whole conversations take about a minute alone and several under a loaded CI
+  // machine: the limit is generous so load never fails it (its speed is not what it checks).
   it(`conversations: ${RUNS.conversations} hostile requests with hostile typed answers reach a plan whose SQL holds none of it`, () => {
     let compiled = 0;
     fc.assert(
@@ -336,7 +338,7 @@ describe('hostile chat input', () => {
     );
     // Not vacuous: catalog words in the messages give real plans to compile.
     expect(compiled).toBeGreaterThan(RUNS.conversations);
-  }, 120_000);
+  }, 600_000);
 
   it(`compilation: ${RUNS.compilations} sub-questions with hostile segment values bind every value and paste none`, () => {
     const shape = fc.constantFrom(...vocab.shapes);

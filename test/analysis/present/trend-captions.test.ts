@@ -171,6 +171,17 @@ describe("a rate's latest period against its peak is in points (issue 16)", () =
     expect(c).toContain('the latest complete month, December 2024, was 79.6%, 9.3 pts below it.');
     expect(c).not.toMatch(/10% below/);
   });
+  it('a temperature sits degrees below its peak, never a percentage of it (0 °C is no zero amount)', () => {
+    // 25.3 °C at the peak, 11.9 °C now: 13.4 °C lower by hand arithmetic; "53% below it" before.
+    const tempChange: Finding = { type: 'change', metric: 'temp_max', from: { period: '2023-07-01', value: 25.3 }, to: { period: '2024-12-01', value: 11.9 }, relative: -0.52964, absolute: -13.4 };
+    // The demo catalog with a temperature metric added (an average in °C, as on a weather dataset).
+    const base = exampleDataset.metrics.find((m) => m.name === 'average_fare')!;
+    const dataset = { ...exampleDataset, metrics: [...exampleDataset.metrics, { ...base, name: 'temp_max', label: 'Daily high temperature', unit: 'number' as const, unit_label: '°C', decimals: 1 }] };
+    const a = answer(sq({ metrics: ['temp_max'] }), [{ ...test, metric: 'temp_max' }, tempChange]);
+    const c = definitionOf(a.subQuestion).present(a, { ...ctx('analysts'), dataset }).caption;
+    expect(c).toContain('was 11.9\u00a0°C, 13.4\u00a0°C below it.');
+    expect(c).not.toMatch(/53% below/);
+  });
 });
 
 describe('seasonal index words follow the side of the average (issue 16)', () => {
