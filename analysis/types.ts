@@ -71,6 +71,8 @@ export interface SubQuestion {
   spanEnds?: SpanEndsUnit;
   /** The date a before/after turns on, when the request states one (else the group's launch date). */
   launchDate?: string;
+  /** The two periods are either side of launchDate with no group to set against: said as a before/after, not as an effect. */
+  beforeAfter?: boolean;
   /** "bookings per day by month": per-day averages at the grain. */
   /** The request asked a summed metric per row ("gross per film"): compare its mean and median per row, not its total. */
   perRow?: string;

@@ -10,6 +10,7 @@ import { type Brief, type Question, wholeRequestQuestion } from './brief.js';
 import { fullWindow } from './reading/answers.js';
 import { AGREE, CANCEL, GROUP_GROWTH_ASK, grainNamedBy, WEEKDAY_ASK } from './reading/lexicon.js';
 import { describeWindow } from '../analysis/window-words.js';
+import { addDays, daysBetween } from '../analysis/periods.js';
 import { priorWindow } from '../analysis/templates/growth-compare.js';
 import { describeSubQuestion } from '../analysis/sub-questions/describe.js';
 
@@ -137,7 +138,17 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           if (additive) for (const d of dims) add('growth_share_shift', metric, false, { dimension: d }, focus);
           break;
         case 'performance': {
-          if (!group) break;
+          if (!group) {
+            // "Average delay before and after 1 April", with no group to set against: the metric
+            // over equal spans either side of the date (as many days as the shorter side has), then
+            // its course over all the data. Said as a before/after, not as an effect.
+            const sides = launchSides(q.launchDate, q.window, history);
+            if (sides) {
+              add('growth_periods', metric, true, { compareWindow: sides.before, beforeAfter: true }, sides.after);
+              add('series', metric, false, {}, history);
+            }
+            break;
+          }
           const g = { comparisonGroup: group.name };
           const launch = q.launchDate ?? group.launch_date;
           const since = q.window ?? (launch ? { start: launch, end: history.end } : all);
@@ -199,6 +210,19 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
     notCovered: [...notCovered],
     readings,
   };
+}
+
+/**
+ * Equal spans either side of a date a before/after turns on: from the date on, and as many days
+ * before it, as far as the data (and the window asked, at its end) reaches on the shorter side.
+ * None when the date is not inside the data.
+ */
+function launchSides(launch: string | undefined, window: DateWindow | undefined, history: DateWindow): { before: DateWindow; after: DateWindow } | null {
+  if (!launch || launch <= history.start || launch >= history.end) return null;
+  const end = window && window.end < history.end && window.end > launch ? window.end : history.end;
+  const days = Math.min(daysBetween(history.start, launch), daysBetween(launch, end));
+  if (days < 1) return null;
+  return { before: { start: addDays(launch, -days), end: launch }, after: { start: launch, end: addDays(launch, days) } };
 }
 
 /**

@@ -17,9 +17,12 @@ export const presentGrowthPeriods: Presenter = (answer, ctx) => {
   const f = answer.findings.find((x): x is Extract<Finding, { type: 'growth_periods' }> => x.type === 'growth_periods' && x.metric === metric.name);
   const words = growthPeriodsWords(metric, f, ctx.locale);
   const chart = f ? periodsChart(answer, f, words.title, ctx) : null;
+  // A before/after with no group to set against: anything else that changed over the same months
+  // (the season among them) moves the figures too.
+  const caution = answer.subQuestion.beforeAfter && f ? ' A before/after comparison is not an experiment: the season and anything else that changed over the same months can account for part of the difference.' : '';
   return {
     title: words.title,
-    caption: words.caption,
+    caption: `${words.caption}${caution}`,
     notes: growthNotes(answer, ctx.locale, ctx.dataset),
     chart,
     // The comparison the request named: its verdict is this answer's.

@@ -10,5 +10,8 @@ export const growthPeriodsSubQuestion = defineSubQuestion({
   lens: 'summary',
   template: growthPeriodsTemplate,
   present: presentGrowthPeriods,
-  describe: (w) => `${capitalise(w.metric)}, ${w.span} against ${w.base}: each period's figure and the change between them.`,
+  describe: (w, sq) =>
+    sq.beforeAfter
+      ? `${capitalise(w.metric)} before and after ${w.span.split(' to ')[0]}: ${w.span} against the as many days before (${w.base}), and the change between them.`
+      : `${capitalise(w.metric)}, ${w.span} against ${w.base}: each period's figure and the change between them.`,
 });

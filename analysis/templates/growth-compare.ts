@@ -82,7 +82,8 @@ export function comparedSpans(asked: SubQuestion, coverage: Coverage | undefined
   if (asked.compareWindow) {
     const current = (coverage && coveredWindow(asked.window, coverage)) || asked.window;
     const cw = (coverage && coveredWindow(asked.compareWindow, coverage)) || asked.compareWindow;
-    return { current, prior: askedPrior(current, cw), asked: true };
+    // A before/after's two sides are set by the plan, equal in days either side of the date.
+    return { current, prior: asked.beforeAfter ? cw : askedPrior(current, cw), asked: true };
   }
   const current = comparisonWindow(asked.window, coverage);
   return { current, prior: priorWindow(current), asked: false };

@@ -1199,7 +1199,11 @@ function statedLaunch(periods: PeriodMention[], text: RequestText): { date: stri
     // An event dated by its year or a period alone: "since the 2019 launch", "how did the 2024 price
     // rise affect bookings", "before and after 2015" (the date it turns on: the period's first day).
     const eventAfter = EVENT_AFTER.exec(after);
-    const beforeAndAfter = /\bbefore\s+(?:and|or|vs\.?|versus|v|&|\/)\s+$/.test(before) && /^(?:after|post)\b/.test(p.words.toLowerCase());
+    // "after 1 June compared with before", "did it go up after 1 June?": the date splits the data in two.
+    const afterWords = /^(?:after|post)\b/.test(p.words.toLowerCase());
+    const againstBefore = afterWords && /^\s*,?\s*(?:(?:as\s+)?compared\s+(?:with|to)|vs\.?|versus|than|against|relative\s+to)\s+(?:(?:the\s+)?(?:period\s+|time\s+|months?\s+|weeks?\s+|days?\s+)?before|beforehand|prior|earlier)\b/.test(after);
+    const movedAfter = afterWords && p.unit === 'span' && !p.startUnit && /\b(?:go(?:es)?|gone|went|get|got)\s+(?:up|down|better|worse)\s+$|\b(?:rise|rose|risen|fall|fell|fallen|drop(?:ped)?|increase[ds]?|decrease[ds]?|improve[ds]?|worsen(?:ed)?|change[ds]?|jump(?:ed)?|climb(?:ed)?)\s+$/.test(before);
+    const beforeAndAfter = (/\bbefore\s+(?:and|or|vs\.?|versus|v|&|\/)\s+$/.test(before) && afterWords) || againstBefore || movedAfter;
     if ((eventAfter || beforeAndAfter) && !(p.relative && p.unit !== 'span')) {
       return { date: p.named ?? p.window.start, words: text.quote(p), mention: p };
     }

@@ -263,11 +263,12 @@ describe('the thread as a whole', () => {
     const summary = messages.find((m) => m.fromBot && m.text.startsWith('*Summary*'))!;
     const lines = summary.text.split('\n').filter((l) => /\(see \d+\)$/.test(l));
     expect(lines.length).toBeGreaterThanOrEqual(3);
-    // The comparison the request named leads, with its figure from the rows and its scope: the
-    // headline (also the digest's title) is about Tech Support's chat tickets, not all tickets.
+    // The comparison the request named leads (its own answer, growth_periods, the two periods'
+    // figures), with its figure from the rows and its scope: the headline (also the digest's
+    // title) is about Tech Support's chat tickets, not all tickets.
     const chat = rows.filter((t) => t.team === 'Tech Support' && t.channel === 'chat');
     const ytd = (count(chat, '2024-01-01', '2024-11-30') / count(chat, '2023-01-01', '2023-11-30') - 1) * 100;
-    expect(lines[0]).toBe(`- Tickets are ${ytd.toFixed(1)}% above last year so far (January to November 29) (team: Tech Support; contact channel: chat). (see ${answer('growth_drivers').n})`);
+    expect(lines[0]).toBe(`- Tickets are ${ytd.toFixed(1)}% above last year so far (January to November 29) (team: Tech Support; contact channel: chat). (see ${answer('growth_periods').n})`);
     for (const l of lines.slice(1)) {
       const n = Number(/\(see (\d+)\)$/.exec(l)![1]);
       const target = messages.find((m) => m.fromBot && m.text.startsWith(`*${n}. `))!;
