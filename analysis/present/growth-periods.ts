@@ -4,7 +4,7 @@ import type { BarsSpec } from '../charts/spec.js';
 import { spansVerdict } from '../captions/growth-drivers-caption.js';
 import { growthPeriodsWords } from '../captions/growth-periods-caption.js';
 import { growthNotes, spanText } from '../captions/growth-words.js';
-import { metricByName, metricDirection } from '../catalog.js';
+import { metricByName } from '../catalog.js';
 import type { GrowthPeriodsFinding } from '../findings/growth.js';
 import { valueFormatOf } from '../format.js';
 import type { Answer, Finding } from '../types.js';
@@ -47,6 +47,7 @@ function periodsChart(answer: Answer, f: GrowthPeriodsFinding, title: string, ct
     items,
     format: valueFormatOf(metric, ctx.locale),
     signed: items.some((i) => i.value < 0),
-    higherIsBetter: metricDirection(metric) ?? undefined,
+    // The bars are the two periods' own figures, not changes: no rise/fall colours or legend
+    // (the chart had labelled both periods' bars "Increase").
   });
 }
