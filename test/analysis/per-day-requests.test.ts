@@ -7,25 +7,10 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { DuckDBInstance } from '@duckdb/node-api';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { vegaDataFile } from '../helpers/open-data.js';
+import { vegaDataFile, writeSeattleConfig } from '../helpers/open-data.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'tc-perday-'));
-const CONFIG = join(dir, 'weather.yaml');
-writeFileSync(
-  CONFIG,
-  `version: 1
-datasets:
-  - name: seattle_weather
-    label: Seattle weather
-    source: { kind: csv, paths: [${vegaDataFile('seattle-weather.csv')}] }
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: precipitation, label: Precipitation, sum: precipitation, unit: number, higher_is_better: true, kind: flow }
-    dimensions:
-      - { name: weather, label: Weather, column: weather }
-`,
-);
+const CONFIG = writeSeattleConfig(dir);
 writeFileSync(join(dir, 'go.yaml'), 'plan: go\n');
 const NOW = new Date('2026-12-05T09:00:00Z');
 

@@ -10,25 +10,10 @@ import { setISOWeek, startOfISOWeek } from 'date-fns';
 import { DuckDBInstance } from '@duckdb/node-api';
 import { describe, expect, it } from 'vitest';
 import { readBrief } from '../../cli/read.js';
-import { vegaDataFile } from '../helpers/open-data.js';
+import { vegaDataFile, writeSeattleConfig } from '../helpers/open-data.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'tc-isoweek-'));
-const CONFIG = join(dir, 'weather.yaml');
-writeFileSync(
-  CONFIG,
-  `version: 1
-datasets:
-  - name: seattle_weather
-    label: Seattle weather
-    source: { kind: csv, paths: [${vegaDataFile('seattle-weather.csv')}] }
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: precipitation, label: Precipitation, sum: precipitation, unit: number, higher_is_better: true, kind: flow }
-    dimensions:
-      - { name: weather, label: Weather, column: weather }
-`,
-);
+const CONFIG = writeSeattleConfig(dir);
 const NOW = new Date('2026-12-05T09:00:00Z');
 const REQUEST = 'How much precipitation was there in week 47 of 2015 compared with the same week last year?';
 

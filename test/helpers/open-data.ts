@@ -36,6 +36,29 @@ datasets:
   return file;
 }
 
+/**
+ * Writes `name` into `dir`: a config over vega-datasets' seattle-weather.csv (NOAA daily weather in
+ * Seattle, 2012–2015) with precipitation as a summed flow by weather type, plus any more metric
+ * lines (YAML flow mappings). Returns the file's path.
+ */
+export function writeSeattleConfig(dir: string, name = 'weather.yaml', moreMetrics: readonly string[] = []): string {
+  const file = join(dir, name);
+  writeFileSync(file, `version: 1
+datasets:
+  - name: seattle_weather
+    label: Seattle weather
+    source: { kind: csv, paths: [${vegaDataFile('seattle-weather.csv')}] }
+    time_column: date
+    timezone: UTC
+    metrics:
+      - { name: precipitation, label: Precipitation, sum: precipitation, unit: number, higher_is_better: true, kind: flow }
+${moreMetrics.map((m) => `      - ${m}
+`).join('')}    dimensions:
+      - { name: weather, label: Weather, column: weather }
+`);
+  return file;
+}
+
 /** vega-datasets' movies.json (films with their grosses and release dates, "Jun 12 1998") and its release date as a DuckDB expression. */
 export const MOVIES_FILE = vegaDataFile('movies.json');
 export const MOVIES_RELEASE = `strptime("Release Date", '%b %d %Y')`;
