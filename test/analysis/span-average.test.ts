@@ -10,23 +10,10 @@ import { formatValue, valueFormatOf } from '../../analysis/format.js';
 import type { SubQuestion } from '../../analysis/types.js';
 import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
 import { parseConfigText } from '../../config/load.js';
-import { vegaDataFile } from '../helpers/open-data.js';
+import { flightsParquetConfigText, vegaDataFile } from '../helpers/open-data.js';
 
 const FLIGHTS = vegaDataFile('flights-3m.parquet');
-const config = parseConfigText(
-  `version: 1
-datasets:
-  - name: flights
-    label: Flights
-    source: { kind: parquet, paths: ["${FLIGHTS}"] }
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: flights, label: Flights, count: rows, unit: count, kind: flow }
-      - { name: delay, label: Average delay, average: delay, unit: number, unit_label: min, decimals: 1, kind: ratio }
-`,
-  '/virtual/flights.yaml',
-);
+const config = parseConfigText(flightsParquetConfigText(['{ name: delay, label: Average delay, average: delay, unit: number, unit_label: min, decimals: 1, kind: ratio }']), '/virtual/flights.yaml');
 
 const JANUARY: SubQuestion = { id: 'jan', kind: 'trend', lens: 'summary', template: 'trend_summary', metrics: ['delay'], grain: 'week', window: { start: '2001-01-01', end: '2001-02-01' }, filters: [] };
 

@@ -10,22 +10,10 @@ import { answerSubQuestion } from '../../analysis/answer-sub-question.js';
 import type { Answer, PeriodPoint, SubQuestion } from '../../analysis/types.js';
 import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
 import { parseConfigText } from '../../config/load.js';
-import { vegaDataFile } from '../helpers/open-data.js';
+import { flightsParquetConfigText, vegaDataFile } from '../helpers/open-data.js';
 
 const FLIGHTS = vegaDataFile('flights-3m.parquet');
-const config = parseConfigText(
-  `version: 1
-datasets:
-  - name: flights
-    label: Flights
-    source: { kind: parquet, paths: ["${FLIGHTS}"] }
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: flights, label: Flights, count: rows, unit: count, kind: flow }
-`,
-  '/virtual/flights.yaml',
-);
+const config = parseConfigText(flightsParquetConfigText(), '/virtual/flights.yaml');
 
 const question = (template: 'series' | 'growth_series', grain: 'day' | 'week' | 'month', start: string): SubQuestion => ({
   id: `${template}-${grain}`,

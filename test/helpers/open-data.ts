@@ -59,6 +59,23 @@ ${moreMetrics.map((m) => `      - ${m}
   return file;
 }
 
+/**
+ * A config text over vega-datasets' flights-3m.parquet (US domestic flights, January to June 2001,
+ * plus six stamped 1 July) counting flights, with any more metric lines (YAML flow mappings).
+ */
+export function flightsParquetConfigText(moreMetrics: readonly string[] = []): string {
+  return `version: 1
+datasets:
+  - name: flights
+    label: Flights
+    source: { kind: parquet, paths: ["${vegaDataFile('flights-3m.parquet')}"] }
+    time_column: date
+    timezone: UTC
+    metrics:
+      - { name: flights, label: Flights, count: rows, unit: count, kind: flow }
+${moreMetrics.map((m) => `      - ${m}\n`).join('')}`;
+}
+
 /** vega-datasets' movies.json (films with their grosses and release dates, "Jun 12 1998") and its release date as a DuckDB expression. */
 export const MOVIES_FILE = vegaDataFile('movies.json');
 export const MOVIES_RELEASE = `strptime("Release Date", '%b %d %Y')`;
