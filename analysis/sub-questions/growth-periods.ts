@@ -12,6 +12,6 @@ export const growthPeriodsSubQuestion = defineSubQuestion({
   present: presentGrowthPeriods,
   describe: (w, sq) =>
     sq.beforeAfter
-      ? `${capitalise(w.metric)} before and after ${w.span.split(' to ')[0]}: ${w.span} against the as many days before (${w.base}), and the change between them.`
+      ? `${capitalise(w.metric)} before and after ${w.span.split(' to ')[0]}: ${w.span} against as many days before it (${w.base}), and the change between them.`
       : `${capitalise(w.metric)}, ${w.span} against ${w.base}: each period's figure and the change between them.`,
 });
