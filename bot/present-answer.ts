@@ -78,7 +78,10 @@ export const presentSummary: SummaryPresenter = async (takeaways, { workspace, f
   const shared = scopes.size === 1 ? [...scopes][0]! : '';
   const scoped = (t: { text: string; scope?: string }) => (t.scope && !shared ? `Filtered to ${t.scope}. ${t.text}` : t.text);
   // A takeaway the verdict already says word for word (a trend test's title) is not said again.
-  const restated = (t: { text: string; position: number }) => !!verdict && t.position === verdict.position && verdict.text.toLowerCase().includes(t.text.replace(/[.\s]+$/, '').toLowerCase());
+  // So is one from the same answer whose figures the verdict all gives ("Revenue: €142K … against
+  // €145K …" under "No: revenue is 2.0% below …; €142K against €145K").
+  const restated = (t: { text: string; position: number }) =>
+    !!verdict && t.position === verdict.position && (verdict.text.toLowerCase().includes(t.text.replace(/[.\s]+$/, '').toLowerCase()) || figuresWithin(t.text, verdict.text));
   const listed = top.filter((t) => !restated(t));
   const lines = [...(verdict ? [verdict] : []), ...listed].map((t) => `- ${scoped(t)} (see ${t.position})`);
   const failed = failures > 0 ? `\n${failures} ${failures === 1 ? 'question' : 'questions'} could not be answered; see the messages above.` : '';
@@ -112,9 +115,28 @@ export function distinctCharts(top: { position: number }[], charts: Map<number, 
   const firstPick: DigestChart[] = [];
   const later: DigestChart[] = [];
   for (const c of withChart) {
-    const key = c.spec ? `${c.spec.kind}|${c.spec.chip ?? c.spec.title}` : `png|${firstPick.length + later.length}`;
+    // Bars of the same metric over different things (two periods; each route's change) differ.
+    const over = c.spec?.kind === 'bars' && Array.isArray(c.spec.bars) ? `|${c.spec.bars.map((b) => b.label).sort().join('/')}` : '';
+    const key = c.spec ? `${c.spec.kind}|${c.spec.chip ?? c.spec.title}${over}` : `png|${firstPick.length + later.length}`;
     (seen.has(key) ? later : firstPick).push(c);
     seen.add(key);
   }
   return (firstPick.length >= 2 ? firstPick : [...firstPick, ...later]).slice(0, 4);
+}
+
+/**
+ * The figures of a text (amounts with a currency, a unit suffix, a percent, a decimal point or a
+ * thousands comma; not bare day or year numbers, which the two texts may write differently).
+ */
+function figuresOf(text: string): string[] {
+  return [...text.matchAll(/[€$£¥]?\d[\d,]*(?:\.\d+)?\s?(?:[KMBkmb]\b|%|pts\b)?/g)]
+    .map((m) => m[0].trim())
+    .filter((f) => /[€$£¥%,.]|[KMBkmb]$|pts$/.test(f));
+}
+
+/** True when the text has figures and the other text gives every one of them. */
+function figuresWithin(text: string, other: string): boolean {
+  const figures = figuresOf(text);
+  const given = new Set(figuresOf(other));
+  return figures.length > 0 && figures.every((f) => given.has(f));
 }

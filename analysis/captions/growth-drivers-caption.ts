@@ -78,6 +78,9 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
   } else if (audience === 'leadership') {
     if (named.length > 0) sentences.push(`Biggest moves: ${named.map((s) => `${name(s)} ${money(s.change, true)}`).join(', ')}.`);
   } else {
+    // "55% of the total change" reads as a part of a whole only when the named moves all went the
+    // total's way and none exceeds it; where moves offset, the rises and falls are said instead.
+    const offsetting = f.additive && named.some((s) => s.shareOfChange === null || s.shareOfChange <= 0 || s.shareOfChange > 1);
     const detail = named.map((s) => {
       const parts = [money(s.change, true)];
       // A segment not there through both spans has no like-for-like rate: its percentage
@@ -86,12 +89,14 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
       if (changed) return `${name(s)} ${parts[0]} (${notThroughBoth(changed, f, locale)})`;
       if (s.relative !== null && !points) parts.push(formatGrowth(s.relative, locale));
       if (audience === 'analysts' && s.contribution !== null) parts.push(`${formatPoints(s.contribution, locale)} of the total's ${formatChange(total.relative, locale)}`);
-      else if (audience === 'managers' && s.shareOfChange !== null && s.shareOfChange > 0 && s.shareOfChange <= 1) {
+      else if (audience === 'managers' && !offsetting && s.shareOfChange !== null) {
         parts.push(`${unsignedPercent(s.shareOfChange, locale)} of the total change`);
       }
       return `${name(s)} ${parts.join(', ')}`;
     });
     if (detail.length > 0) sentences.push(`Largest changes by ${dim}: ${detail.join('; ')}.`);
+    const offset = offsetting ? offsetSentence(f, money) : null;
+    if (offset) sentences.push(offset);
   }
   if (!f.byRate && audience !== 'leadership') {
     if (f.others && f.others.change !== null) {
@@ -106,6 +111,19 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
     }
   }
   return { title, caption: sentences.join(' ') };
+}
+
+/**
+ * "Moves offset each other: the rises add up to +€1.3K and the falls to −€4.21K." Only where every
+ * segment is listed (no folded tail, whose net would hide its own rises and falls).
+ */
+function offsetSentence(f: GrowthDriversFinding, money: (v: number | null, signed?: boolean) => string): string | null {
+  if (f.others && f.others.count > 0) return null;
+  const changes = f.segments.map((s) => s.change).filter((c): c is number => c !== null);
+  const rises = changes.filter((c) => c > 0).reduce((a, b) => a + b, 0);
+  const falls = changes.filter((c) => c < 0).reduce((a, b) => a + b, 0);
+  if (rises === 0 || falls === 0) return null;
+  return `Moves offset each other: the rises add up to ${money(rises, true)} and the falls to ${money(falls, true)}.`;
 }
 
 export function totalVerb(relative: number, locale: string): string {

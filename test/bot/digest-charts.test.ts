@@ -17,6 +17,12 @@ describe('the digest\'s charts', () => {
   it('keeps the repeats when they are all there is, rather than one chart alone', () => {
     expect(pick([chart('line', 'Revenue', 'series'), chart('line', 'Revenue', 'trend')])).toEqual(['series', 'trend']);
   });
+  it('keeps bars of one metric over different things: the two periods, then each route\'s change', () => {
+    const bars = (title: string, labels: string[]): DigestChart => ({ png: Buffer.from(title), spec: { kind: 'bars', chip: 'Revenue', title, bars: labels.map((label) => ({ label })) } as unknown as ChartSpec });
+    const list = [bars('periods', ['Jun 2024', 'Jun 2025']), chart('line', 'Revenue', 'series'), bars('drivers', ['Route A', 'Route B']), bars('periods again', ['Jun 2025', 'Jun 2024'])];
+    expect(pick(list)).toEqual(['periods', 'series', 'drivers']);
+    expect(pick(list.slice(0, 3).concat(chart('line', 'Revenue', 'trend'), chart('pareto', 'Revenue', 'shares')))).toEqual(['periods', 'series', 'drivers', 'shares']);
+  });
   it('takes at most four, in the takeaways\' order', () => {
     const five = ['Revenue', 'Bookings', 'Passengers', 'Refund rate', 'Customers'].map((m) => chart('line', m, m));
     expect(pick(five)).toEqual(['Revenue', 'Bookings', 'Passengers', 'Refund rate']);

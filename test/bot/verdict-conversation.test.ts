@@ -103,5 +103,9 @@ describe('a comparison the request names leads the summary, on the periods it na
     const change = (await revenueBetween('2025-06-01', '2025-06-18')) / (await revenueBetween('2024-06-01', '2024-06-18')) - 1;
     const pct = (Math.abs(change) * 100).toFixed(1).replace('.', '\\.');
     expect(firstLine(t)).toMatch(new RegExp(`^- ${change < 0 ? 'No' : 'Yes'}: revenue is ${pct}% ${change < 0 ? 'below' : 'above'} the same dates a year earlier \\(1 June to 18 June; `));
+    // The named comparison's own takeaway gives the same two figures: the verdict says them once.
+    const lines = t.posts.find((p) => p.text.startsWith('*Summary*'))!.text.split('\n').filter((l) => l.startsWith('- '));
+    const figures = firstLine(t).match(/€[\d.]+K against €[\d.]+K/)![0].split(' against ');
+    expect(lines.filter((l) => figures.every((f) => l.includes(f)))).toHaveLength(1);
   }, 300_000);
 });

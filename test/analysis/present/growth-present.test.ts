@@ -161,7 +161,20 @@ describe('growth_drivers presenter', () => {
     const p = present(answer(s, [driversFinding]), 'managers');
     expect(p.title).toBe('App drove the biggest change in revenue: +€15K');
     expect(p.caption).toContain('Revenue rose 5.0%: €200K to €210K (+€10K), Jun 2024 to Aug 2024 against Jun 2023 to Aug 2023.');
-    expect(p.caption).toContain('kiosk +€1K, 10.0% of the total change');
+    // app's +€15K is 150% of the +€10K total, offset by web's fall: no "n% of the total change" here.
+    expect(p.caption).toContain('kiosk +€1K. The other 2 together: €0.');
+    expect(p.caption).not.toContain('of the total change');
+    // With every segment listed (no folded tail), the rises and falls are said.
+    const all = present(answer(s, [{ ...driversFinding, others: null }]), 'managers');
+    expect(all.caption).toContain('Moves offset each other: the rises add up to +€16K and the falls to −€6K.');
+    // Moves all one way, none over the total: each one's part of it.
+    const oneWay: GrowthDriversFinding = { ...driversFinding, others: null, segments: [
+      { segment: 'app', before: 80_000, after: 86_000, change: 6_000, relative: 0.075, shareOfChange: 0.6, contribution: 0.03 },
+      { segment: 'web', before: 90_000, after: 94_000, change: 4_000, relative: 0.0444, shareOfChange: 0.4, contribution: 0.02 },
+    ] };
+    const w = present(answer(s, [oneWay]), 'managers');
+    expect(w.caption).toContain('app +€6K, +7.5%, 60.0% of the total change; web +€4K, +4.4%, 40.0% of the total change.');
+    expect(w.caption).not.toContain('offset');
     const an = present(answer(s, [driversFinding]), 'analysts');
     expect(an.caption).toContain('app +€15K, +18.8%, +7.5 pts of the total\'s +5.0%');
     if (p.chart?.kind !== 'bars') throw new Error('expected bars');
