@@ -1307,8 +1307,9 @@ function readGrain(text: RequestText): { grain: Grain; words: string; how: 'stat
       // "per day" beside another grain is a per-day rate ("bookings per day by month"), not the grain;
       // "by day of week" asks for the days of the week.
       if (g === 'day' && (/^(?:per|a)\s/.test(m[0]) || /^[- ]of[- ](?:the[- ])?week\b/.test(text.lower.slice(m.span.end)))) continue;
-      // "per year" in "how fast ... per year", "each year" after "busiest months": a rate or a season, not a grain.
-      if (g === 'year' && /^(?:per|each|every)\s/.test(m[0]) && /\b(?:how\s+(?:fast|quickly|much)|rate|rising|falling|growing|grow|busiest|quietest|peak|every\s+year|each\s+year)\b/.test(text.lower) && !/\bby\s+year\b/.test(text.lower)) continue;
+      // "per year" in "how fast ... per year", "each year" after "busiest months": a rate or a season,
+      // not a grain; "how many strikes did we have each year" is yearly figures.
+      if (g === 'year' && /^(?:per|each|every)\s/.test(m[0]) && /\b(?:how\s+(?:fast|quickly)|rate|rising|falling|growing|grow|busiest|quietest|peak)\b/.test(text.lower) && !/\bby\s+year\b/.test(text.lower)) continue;
       found.push({ grain: g, span: m.span, how: 'stated' });
     }
   }

@@ -196,3 +196,17 @@ describe('two values of one breakdown set against each other, with no change ask
     expect(planOf(strikes, b).items.map((i) => i.template)).toContain(template);
   });
 });
+
+describe('"each year" asks for yearly figures unless it qualifies a rate or a season', () => {
+  // Our own phrasings on birdstrikes.csv (vega-datasets): "each year" had been dropped whenever it
+  // appeared, so "how many strikes did we have each year" got monthly points.
+  it.each([
+    ['How many bird strikes did we have each year?', 'year'],
+    ['How much did strikes cost us each year?', 'year'],
+    ['total cost every year please', 'year'],
+    ['which months are busiest each year', null],
+    ['how fast are strikes rising per year?', null],
+  ])('%s', (text, grain) => {
+    expect(read(strikes, text).grain ?? null).toBe(grain);
+  });
+});
