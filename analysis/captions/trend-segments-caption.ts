@@ -2,7 +2,7 @@
 import type { DatasetConfig, Dimension, Metric } from '../../config/schema.js';
 import { addsAcrossSegments } from '../catalog.js';
 import { CLEAR_LEAD, type SegmentGrowthMeasure, type SegmentRanking, type SegmentSharesFinding, type SegmentShareRow, type SegmentTrendFinding, type SegmentTrendOverviewFinding } from '../findings/segments.js';
-import { formatChange, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
+import { formatChange, formatPeriod, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
 import type { Audience, Finding } from '../types.js';
 import { countOf, inSentence, isPluralLabel, labelAtStart, pluralNoun } from './grammar.js';
 import { configuredAs } from './metric-words.js';
@@ -177,6 +177,7 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
   if (f.rows.every((r) => r.value === null)) {
     return { title: `${labelAtStart(metric.label)} by ${inSentence(dim.label)}: no values in this period`, caption: `${capitalise(noun)} ${isPluralLabel(metric.label) ? 'have' : 'has'} no values for any ${inSentence(dim.label)} in this period.` };
   }
+  if (f.perDay) return perDayRankingWords(metric, dim, f, locale);
   if (f.ranking && (!f.additive || !f.ranking.descending || f.total === null || named.every((r) => r.share === null))) return rankingWords(metric, dim, f, f.ranking, locale, rows);
   // Two values set against each other ("night vs day"): the two side by side, in the order asked.
   const pair = request.contrast?.map((v) => named.find((r) => segmentLabel(r).toLowerCase() === String(v).toLowerCase()));
@@ -246,6 +247,44 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
     caption = `${top}${more}.`;
   }
   return { title, caption };
+}
+
+/**
+ * Asked per day ("which routes have the most bookings per day"): each segment's total over its
+ * days, ranked; the days are said, and a segment that opened or closed inside the period is named
+ * with the days its figure is over.
+ */
+function perDayRankingWords(metric: Metric, dim: Dim, f: SegmentSharesFinding, locale: string): Words {
+  const fmt = valueFormatOf(metric, locale);
+  const noun = inSentence(metric.label);
+  const plural = dimensionPlural(dim);
+  const a = (v: number | null) => `${formatValue(v, fmt, { rate: true })} a day`;
+  const named = f.rows.filter((r) => !r.other && r.value !== null);
+  const fold = f.rows.find((r) => r.other && r.value !== null);
+  const descending = f.ranking ? f.ranking.descending : true;
+  const top = named[0];
+  if (!top) return { title: `${labelAtStart(metric.label)} per day by ${inSentence(dim.label)}: no data in this period`, caption: `There are no ${noun} to break down by ${inSentence(dim.label)} in this period.` };
+  const day = (iso: string | null) => (iso === null ? '' : formatPeriod(iso, 'day', locale, 'long'));
+  const days = (n: number) => countOf(n, 'day', locale);
+  const mark = (r: SegmentShareRow) => (r.days?.opened ? ' (opened)' : r.days?.closed ? ' (closed)' : '');
+  const title = `${capitalise(segmentLabel(top))} has the ${descending ? 'highest' : 'lowest'} ${noun} per day: ${a(top.value)}${mark(top)}`;
+  const list = named.map((r) => `${segmentLabel(r)} ${formatValue(r.value, fmt, { rate: true })}${mark(r)}`).join(', ');
+  // The period's days: those of any segment there throughout.
+  const whole = f.rows.find((r) => r.days && !r.days.opened && !r.days.closed)?.days ?? null;
+  const basis = whole
+    ? ` Each ${inSentence(dim.label)}'s total is divided by the ${days(whole.days)} of the period the data covers (${day(whole.from)} to ${day(whole.last)}), days without a record counting as zero.`
+    : '';
+  const changed = named.filter((r) => r.days?.opened || r.days?.closed);
+  const lives = changed.map((r) => {
+    const d = r.days!;
+    const what = d.opened && d.closed ? `was there only from ${day(d.from)} to ${day(d.last)}` : d.opened ? `opened on ${day(d.from)} (its first record)` : `closed after ${day(d.last)} (its last record)`;
+    return `${segmentLabel(r)} ${what}, so its figure is per day ${d.opened && !d.closed ? 'since it opened' : d.closed && !d.opened ? 'while it was open' : 'over those days'} (${days(d.days)}).`;
+  });
+  const otherChanged = Math.max(0, (f.perDay?.changed ?? 0) - changed.length);
+  const foldLine = fold ? ` The other ${f.folded} ${plural} together come to ${a(fold.value)} ("All others").` : '';
+  const share = f.total !== null && top.share !== null ? ` ${capitalise(segmentLabel(top))} carries ${formatShare(top.share, locale, true)} of ${noun}.` : '';
+  const others = otherChanged > 0 ? ` Of those not shown, ${countOf(otherChanged, inSentence(dim.label), locale, plural)} opened or closed inside the period; each is counted over its own days.` : '';
+  return { title, caption: `Ranked ${descending ? 'highest' : 'lowest'} first, ${noun} per day: ${list}.${basis}${lives.length ? ` ${lives.join(' ')}` : ''}${others}${share}${foldLine}` };
 }
 
 function bandWords(band: SegmentSharesFinding['hhiBand']): string {

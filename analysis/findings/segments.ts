@@ -234,6 +234,20 @@ export interface SegmentShareRow extends SegmentKey {
   /** With the finding's `perRow`: `value` is the mean per row with a value; these are that count and the median. */
   perRowN?: number;
   perRowMedian?: number | null;
+  /** With the finding's `perDay`: `value` is the total over these days. */
+  days?: SegmentDays;
+}
+
+/** The days a segment's per-day figure is over: the period's, or from its first day (`opened`) or to its last (`closed`). */
+export interface SegmentDays {
+  days: number;
+  /** The segment's total over the period. */
+  total: number | null;
+  opened: boolean;
+  closed: boolean;
+  /** First and last day counted (ISO dates). */
+  from: string | null;
+  last: string | null;
 }
 
 export interface SegmentSharesFinding {
@@ -261,6 +275,8 @@ export interface SegmentSharesFinding {
   ranking?: SegmentRanking;
   /** A summed metric asked per row, named by the request's word ("film"): each row's value is its mean per row. */
   perRow?: string;
+  /** Asked per day ("which shops have the most orders per day"): each row's value is its total over its days; `changed` segments opened or closed inside the period. */
+  perDay?: { changed: number };
 }
 
 /** A ranking by value: its direction, and for an average or a rate the row floor a segment needs to be named. */

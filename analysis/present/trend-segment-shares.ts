@@ -19,7 +19,11 @@ export const presentSegmentShares: Presenter = (answer, ctx) => {
   const f = answer.findings.find((x): x is SegmentSharesFinding => x.type === 'segment_shares' && x.metric === metric.name);
   const words = segmentSharesWords(metric, dim, answer.findings, ctx.audience, ctx.locale, rowNoun(ctx.dataset), { ranking: sq.answersAsked === true, dataset: ctx.dataset, ...(sq.contrast ? { contrast: sq.contrast.values } : {}) });
   // A summed metric asked per row: the bars are each value's mean per row, and the subtitle says so.
-  const perRow = f?.perRow ? `Mean ${metric.label} per ${f.perRow} (over the ${pluralNoun(f.perRow)} with a value)` : null;
+  const perRow = f?.perRow
+    ? `Mean ${metric.label} per ${f.perRow} (over the ${pluralNoun(f.perRow)} with a value)`
+    : f?.perDay
+      ? `${metric.label} per day (each ${dim.label.toLowerCase()}'s total over its days)`
+      : null;
   const subtitle = chartSubtitle(answer, metric, ctx, { grain: false, ...(perRow ? { definition: perRow } : {}) });
   const header = { title: words.title, chip: metric.label, subtitle, footer: chartFooter(answer, ctx), ...ctx.chart };
   let chart = null;

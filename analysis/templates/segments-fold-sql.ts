@@ -1,9 +1,12 @@
 // The shared segment SQL: a metric by one dimension, with every segment past the top N folded
 // into one "All others" row inside the database, so a dimension with thousands of values
 // still sends only N + 1 rows (per period) to Node.
-import type { Metric } from '../../config/schema.js';
+import type { DatasetConfig, Metric } from '../../config/schema.js';
 import { CatalogError, groupableDimension, isAdditive, metricByName, rankDescending } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, type PeriodScope, periodScope, rowCountSql, tableRef, whereClause } from '../compile-context.js';
+import { addDays } from '../periods.js';
+import { lifeColumnsSql, presenceToleranceDays, silentBeyondChanceSql } from '../presence.js';
+import { coveredWindow } from './trend-points.js';
 import { filterCondition } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { CompiledQuery, Grain, SubQuestion } from '../types.js';
@@ -48,6 +51,17 @@ export interface FoldedQueryOptions {
   totals?: boolean;
   /** A summed metric asked per row ("gross per film", sq.perRow): each segment's mean per row with a value, their count and median, instead of its total. */
   perRow?: boolean;
+  /**
+   * "Which shops have the most orders per day" (sq.perDay, a total that adds up over days, no
+   * grain): each segment is ranked by its total over its own days, and `value` is that figure.
+   * See `perDaySegmentsSql` for which days.
+   */
+  perDay?: boolean;
+}
+
+/** Whether a segment sub-question states its metric per day: asked per day, and a total that adds up over days. */
+export function perDayAsked(sq: Pick<SubQuestion, 'perDay' | 'metrics'>, ds: DatasetConfig): boolean {
+  return sq.perDay === true && isAdditive(metricByName(ds, sq.metrics[0]!));
 }
 
 /**
@@ -105,6 +119,7 @@ export function compileFoldedSegments(sq: SubQuestion, ctx: CompileContext, opts
   // filters inside the aggregates, so a period where it has rows but none that match is a 0.
   const outerScope = periodScope(q, ctx, sq.window, sq.filters);
   const perRow = opts.perRow && !opts.grain ? perRowValue(q, sq, metric, outerScope) : null;
+  const perDay = opts.perDay && !opts.grain && !perRow && isAdditive(metric) ? perDaySegmentsSql(q, ctx, sq, { col, table, rankExpr, where: innerWhere }) : null;
   const select: string[] = [];
   const group: string[] = [];
   if (opts.grain) {
@@ -118,9 +133,22 @@ export function compileFoldedSegments(sq: SubQuestion, ctx: CompileContext, opts
   select.push(
     `${d.toDouble('MIN(f.tc_rank)')} AS seg_rank`,
     `${d.toDouble('COUNT(DISTINCT f.tc_rank)')} AS members`,
-    `${perRow ? d.toDouble(`AVG(${perRow})`) : outerScope.measure(metric)} AS ${q.ident('value')}`,
+    `${perRow ? d.toDouble(`AVG(${perRow})`) : perDay ? `${d.toDouble(outerScope.measure(metric))} / NULLIF(MAX(pd.tc_pd_days), 0)` : outerScope.measure(metric)} AS ${q.ident('value')}`,
     `${d.toDouble(outerScope.rowCount())} AS row_count`,
   );
+  // Per day: the days each figure is over, whether the segment opened or closed inside the period, and the days' edges.
+  if (perDay) {
+    select.push(
+      `${d.toDouble('MAX(pd.tc_pd_days)')} AS days`,
+      `${d.toDouble(outerScope.measure(metric))} AS period_total`,
+      // The fold's members each have their own days: no one flag stands for them.
+      'CASE WHEN f.tc_other THEN NULL ELSE BOOL_OR(pd.tc_pd_opened) END AS opened',
+      'CASE WHEN f.tc_other THEN NULL ELSE BOOL_OR(pd.tc_pd_closed) END AS closed',
+      'MIN(pd.tc_pd_from) AS from_day',
+      'MAX(pd.tc_pd_to) AS to_day',
+      `${d.toDouble('MIN(tc_changed.tc_n)')} AS changed_segments`,
+    );
+  }
   // "Gross per film": the mean over the rows with a value (the value column), their count and the median beside it.
   if (perRow) select.push(`${d.toDouble(`COUNT(${perRow})`)} AS per_row_n`, `${d.toDouble(`percentile_cont(0.5) WITHIN GROUP (ORDER BY ${perRow})`)} AS per_row_median`);
   if (floored) select.push(`${d.toDouble('MIN(f.tc_floor)')} AS rank_min_rows`, `${d.toDouble('COUNT(DISTINCT CASE WHEN f.tc_thin THEN f.tc_rank END)')} AS thin_members`);
@@ -138,18 +166,27 @@ export function compileFoldedSegments(sq: SubQuestion, ctx: CompileContext, opts
 
   const outer = `SELECT ${select.join(',\n  ')}
 FROM ${table}
-JOIN f ON ${col} IS NOT DISTINCT FROM f.tc_value
+JOIN f ON ${col} IS NOT DISTINCT FROM f.tc_value${perDay ? `
+JOIN tc_perday pd ON f.tc_value IS NOT DISTINCT FROM pd.tc_pd_value
+CROSS JOIN tc_changed` : ''}
 WHERE ${outerScope.where}
 GROUP BY ${group.join(', ')}
 ${order}`;
   // tc_thin: too few rows to be ranked by an average's value; such a segment ranks after the rest and is folded.
   const floor = floored ? rankFloorSql(q, 'tc_rows') : d.toDouble('NULL');
-  const segments = `tc_counted AS (
+  const counted = perDay
+    ? `${perDay},
+tc_counted AS (
+  SELECT tc_pd_value AS tc_value, ${d.toDouble('tc_pd_total')} / NULLIF(tc_pd_days, 0) AS tc_size, tc_pd_rows AS tc_rows
+  FROM tc_perday
+)`
+    : `tc_counted AS (
   SELECT ${col} AS tc_value, ${rankExpr} AS tc_size, ${rowCountSql(q, ctx)} AS tc_rows
   FROM ${table}
   WHERE ${innerWhere}
   GROUP BY 1
-), tc_floored AS (
+)`;
+  const segments = `${counted}, tc_floored AS (
   SELECT tc_value, tc_size, tc_rows, ${floor} AS tc_floor
   FROM tc_counted
 ), tc_segments AS (
@@ -210,6 +247,51 @@ tc_marked AS (
     ${d.toDouble(`SUM(CASE WHEN ${hidden} THEN 0 ELSE tc_size * tc_size END) OVER () + COALESCE(SUM(CASE WHEN ${hidden} THEN tc_size END) OVER (), 0) * COALESCE(SUM(CASE WHEN ${hidden} THEN tc_size END) OVER (), 0)`)} AS tc_sum_squares,
     ${d.toDouble('SIGN(MIN(tc_size) OVER ())')} AS tc_min
   FROM (SELECT tc_marked.*, (tc_other AND tc_any_small = 1) AS ${hidden} FROM tc_marked) tc_h
+)`;
+}
+
+/**
+ * Each segment's days for a figure per day (CTEs tc_life, tc_totals, tc_perday, tc_changed): the
+ * calendar days of the period the data covers (the window cut to the data's first and last day),
+ * so a day without a row counts as a zero day, as an analyst would count a shop's quiet Monday.
+ * A segment that opened inside the period (silent from the period's start up to its first row
+ * anywhere in the table, beyond chance for its own rhythm: the rule in analysis/presence.ts) is
+ * counted from its first day, one that closed up to its last: "per day since it opened", flagged
+ * (tc_opened, tc_closed) so the words say so. tc_changed counts such segments.
+ */
+function perDaySegmentsSql(q: QueryBuilder, ctx: CompileContext, sq: SubQuestion, n: { col: string; table: string; rankExpr: string; where: string }): string {
+  const d = q.dialect;
+  const covered = (ctx.coverage ? coveredWindow(sq.window, ctx.coverage) : null) ?? sq.window;
+  const day = localDateExpr(q, ctx);
+  const start = d.dateParam(q.bind(covered.start));
+  const end = d.dateParam(q.bind(covered.end));
+  const lastDay = d.dateParam(q.bind(addDays(covered.end, -1)));
+  const tolerance = q.bind(presenceToleranceDays(covered));
+  const life = { first: 'tc_life.tc_first_ever', last: 'tc_life.tc_last_ever', activeMonths: 'tc_life.tc_active_months' };
+  const opened = `COALESCE(${silentBeyondChanceSql(life, start, 'start', tolerance)}, FALSE)`;
+  const closed = `COALESCE(${silentBeyondChanceSql(life, lastDay, 'end', tolerance)}, FALSE)`;
+  // The segment's whole life, over every date the table holds (no filter: a shop opened when it first sold anything).
+  q.readsEveryDate();
+  return `tc_life AS (
+  SELECT ${n.col} AS tc_life_value, ${lifeColumnsSql(day, { first: 'tc_first_ever', last: 'tc_last_ever', activeMonths: 'tc_active_months' })}
+  FROM ${n.table}
+  GROUP BY 1
+), tc_totals AS (
+  SELECT ${n.col} AS tc_pd_value, ${n.rankExpr} AS tc_pd_total, ${rowCountSql(q, ctx)} AS tc_pd_rows
+  FROM ${n.table}
+  WHERE ${n.where}
+  GROUP BY 1
+), tc_lived AS (
+  SELECT tc_totals.tc_pd_value, tc_totals.tc_pd_total, tc_totals.tc_pd_rows, ${opened} AS tc_pd_opened, ${closed} AS tc_pd_closed,
+    CASE WHEN ${opened} THEN tc_life.tc_first_ever ELSE ${start} END AS tc_pd_from,
+    CASE WHEN ${closed} THEN tc_life.tc_last_ever + 1 ELSE ${end} END AS tc_pd_to
+  FROM tc_totals
+  LEFT JOIN tc_life ON tc_totals.tc_pd_value IS NOT DISTINCT FROM tc_life.tc_life_value
+), tc_perday AS (
+  SELECT tc_pd_value, tc_pd_total, tc_pd_rows, tc_pd_opened, tc_pd_closed, tc_pd_from, tc_pd_to, (tc_pd_to - tc_pd_from) AS tc_pd_days
+  FROM tc_lived
+), tc_changed AS (
+  SELECT COUNT(*) AS tc_n FROM tc_perday WHERE tc_pd_opened OR tc_pd_closed
 )`;
 }
 

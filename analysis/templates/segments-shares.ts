@@ -2,10 +2,11 @@
 // cumulative shares, how many segments make up 80%, the top-N share and the HHI. Shares only
 // exist for sums and counts; any other metric gets its per-segment values and no shares.
 import { addsAcrossSegments, metricByName, rankDescending } from '../catalog.js';
-import type { SegmentRanking, SegmentShareRow, SegmentSharesFinding } from '../findings/segments.js';
+import type { SegmentDays, SegmentRanking, SegmentShareRow, SegmentSharesFinding } from '../findings/segments.js';
+import { addDays } from '../periods.js';
 import { concentration, hhiBand } from '../stats/index.js';
 import type { Caveat, ResultTable, SubQuestion } from '../types.js';
-import { compileFoldedSegments, foldedAs, namedSegmentCount, RANK_FLOOR, segmentDimension } from './segments-fold-sql.js';
+import { compileFoldedSegments, foldedAs, namedSegmentCount, perDayAsked, RANK_FLOOR, segmentDimension } from './segments-fold-sql.js';
 import { foldedCaveats, readSegmentTotals, type FoldedRow } from './segments-read.js';
 import { minGroupSize } from './small-groups.js';
 import type { ReadContext, Reading, Template } from './template.js';
@@ -19,7 +20,7 @@ export const SHARE_TOP_N = 3;
 export const segmentSharesTemplate: Template = {
   compile: (sq, ctx) => {
     segmentDimension(sq, ctx);
-    return [{ name: 'segment_totals', ...compileFoldedSegments(sq, ctx, { topN: namedSegmentCount(sq), grain: null, totals: true, perRow: perRowAsked(sq, ctx.dataset) }) }];
+    return [{ name: 'segment_totals', ...compileFoldedSegments(sq, ctx, { topN: namedSegmentCount(sq), grain: null, totals: true, perRow: perRowAsked(sq, ctx.dataset), perDay: perDayAsked(sq, ctx.dataset) }) }];
   },
   read: (sq, tables, ctx) => readSegmentShares(sq, tables.segment_totals ?? EMPTY_TABLE, ctx),
 };
@@ -38,8 +39,11 @@ export function readSegmentShares(sq: SubQuestion, table: ResultTable, ctx: Read
   // A ranking's caption states its row floor and how many fell short: no note repeats it.
   caveats.push(...foldedCaveats(rows, dimension, minGroupSize(ctx.dataset), foldedAs(metric, sq.rankOrder)).filter((c) => !(sq.rankOrder && c.code === 'segments_folded' && 'minRows' in c.data)));
   const perRow = perRowAsked(sq, ctx.dataset);
+  // Per day: each segment's total over its own days; shares of those apply only while every segment had the same days.
+  const perDay = perDayAsked(sq, ctx.dataset) && !perRow;
+  const changed = perDay ? (numberOrNull(table.rows[0]?.changed_segments) ?? 0) : 0;
   // Means per row have no shares.
-  const additive = addsAcrossSegments(metric) && !perRow;
+  const additive = addsAcrossSegments(metric) && !perRow && changed === 0;
   const first = table.rows[0]!;
   const base: SegmentSharesFinding = {
     type: 'segment_shares',
@@ -51,6 +55,7 @@ export function readSegmentShares(sq: SubQuestion, table: ResultTable, ctx: Read
     folded: rows.find((r) => r.other)?.members ?? 0,
     rows: rows.map((r) => ({ ...keyOf(r), value: r.value, share: null, cumulativeShare: null, ...(perRow ? { perRowN: numberOrNull(r.row.per_row_n) ?? 0, perRowMedian: numberOrNull(r.row.per_row_median) } : {}) })),
     ...(perRow ? { perRow: sq.perRow! } : {}),
+    ...(perDay ? { perDay: { changed } } : {}),
     threshold: SHARE_THRESHOLD,
     countToThreshold: null,
     // "top 10 airports": the share the request asked about, else the common top-three share.
@@ -88,7 +93,23 @@ function rankingOf(sq: SubQuestion, metric: ReturnType<typeof metricByName>, row
 }
 
 function keyOf(r: FoldedRow) {
-  return { segment: r.segment, other: r.other, members: r.members, rank: r.rank };
+  // A per-day query returns each row's days.
+  return { segment: r.segment, other: r.other, members: r.members, rank: r.rank, ...(r.row.days !== undefined ? { days: perDayOfRow(r) } : {}) };
+}
+
+/** The days a per-day figure is over, and whether the segment opened or closed inside the period (then its first or last day). */
+export function perDayOfRow(r: FoldedRow): SegmentDays {
+  const day = (v: unknown) => (v === null || v === undefined ? null : String(v).slice(0, 10));
+  const to = day(r.row.to_day);
+  return {
+    days: numberOrNull(r.row.days) ?? 0,
+    total: numberOrNull(r.row.period_total),
+    opened: !r.other && r.row.opened === true,
+    closed: !r.other && r.row.closed === true,
+    from: day(r.row.from_day),
+    // to_day is the day after the last one counted.
+    last: to === null ? null : addDays(to, -1),
+  };
 }
 
 /** Every segment is in hand: the stats module computes everything. */

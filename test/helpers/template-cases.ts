@@ -40,6 +40,8 @@ export const CASES: SubQuestion[] = [
   base({ template: 'trend_summary', kind: 'trend', lens: 'summary', metrics: ['average_fare'], grain: 'week' }),
   base({ template: 'segment_trend', kind: 'trend', lens: 'breakdown', metrics: ['bookings'], dimension: 'channel', grain: 'quarter' }),
   base({ template: 'segment_shares', kind: 'trend', lens: 'distribution', metrics: ['revenue'], dimension: 'route' }),
+  // Asked per day: each segment's total over its own days (its first and last day read from the whole table).
+  base({ template: 'segment_shares', kind: 'trend', lens: 'distribution', metrics: ['bookings'], dimension: 'channel', perDay: true, window: SUMMER_2024, filters: [{ dimension: 'route', values: ['Mainland–Saltreach'] }] }),
   base({ template: 'growth_series', kind: 'growth', lens: 'time_pattern', metrics: ['bookings', 'revenue'] }),
   base({ template: 'growth_drivers', kind: 'growth', lens: 'breakdown', dimension: 'channel', window: SUMMER_2024 }),
   base({ template: 'growth_summary', kind: 'growth', lens: 'summary', metrics: ['passengers'] }),
