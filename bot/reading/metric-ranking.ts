@@ -40,6 +40,9 @@ const QUALITY_MEASURES: { cue: RegExp; nouns: RegExp; about: string }[] = [
   { cue: /\b(?:far(?:ther|thest)?|furthest)\b/, nouns: /\b(?:distance|miles|km|kilomet\w*)\b/, about: 'distance' },
 ];
 
+/** A measure named as the whole of a quantity ("Cost Total", "total_revenue", "Gross total"). */
+const TOTAL_IN_LABEL = /\b(?:total|overall|all|gross\s+total)\b/i;
+
 /** Words of volume ("busiest", "quietest", "traffic"): like counting words, their measure is how many rows. */
 const VOLUME_ASKED = /\b(?:busiest|busier|busy|quietest|quieter|traffic|how\s+often)\b/i;
 
@@ -110,9 +113,11 @@ export function rankMetrics(ds: DatasetConfig, requestText: string, asked?: stri
       : real.length === 1 ? `the one measure of ${ds.label} besides the row count`
       : order === 0 ? 'the headline metric of this dataset'
       : 'the first measure in the catalog after the row count';
-    return { m, order, tier, evidence: evidence.length, fits, reason };
+    // An unqualified word ("cost") among its parts (Cost Other, Cost Repair, Cost Total) means the whole.
+    const whole = byWord && evidence.length === 0 && TOTAL_IN_LABEL.test(labelWords(m).join(' '));
+    return { m, order, tier, evidence: evidence.length, whole: whole ? 1 : 0, fits, reason: whole ? `${reason}; ${m.label} is the total of what "${asked}" can mean` : reason };
   });
   // The request's other words decide only between measures that answer the words asked.
-  scored.sort((a, b) => b.tier - a.tier || (asked && a.tier >= 3 ? b.evidence - a.evidence : 0) || a.order - b.order);
+  scored.sort((a, b) => b.tier - a.tier || (asked && a.tier >= 3 ? b.evidence - a.evidence || b.whole - a.whole : 0) || a.order - b.order);
   return scored.map((s) => ({ name: s.m.name, fits: s.fits, reason: s.reason }));
 }

@@ -54,8 +54,27 @@ ${rows()}${metric('net_generation', 'Net generation', 'average: net_generation')
         also_called: []
         column: source
 `;
+// birdstrikes.csv (FAA wildlife strikes 1990-2002): its three costs as init drafts them, the total last.
+const strikes = `version: 1
+datasets:
+  - name: birdstrikes
+    label: Birdstrikes
+    source:
+      kind: csv
+      paths:
+        - ${vegaDataFile('birdstrikes.csv')}
+    time_column: Flight Date
+    timezone: UTC
+    metrics:
+${rows()}${metric('cost_other', 'Cost Other', `sum: '"Cost Other"'`)}${metric('cost_repair', 'Cost Repair', `sum: '"Cost Repair"'`)}${metric('cost_total', 'Cost Total', `sum: '"Cost Total $"'`)}    dimensions:
+      - name: origin_state
+        label: Origin State
+        also_called: []
+        column: Origin State
+`;
 const dir = mkdtempSync(join(tmpdir(), 'tc-measures-'));
-const files = { movies: join(dir, 'movies.yaml'), moviesFixed: join(dir, 'movies-fixed.yaml'), iowa: join(dir, 'iowa.yaml') };
+const files = { movies: join(dir, 'movies.yaml'), moviesFixed: join(dir, 'movies-fixed.yaml'), iowa: join(dir, 'iowa.yaml'), strikes: join(dir, 'strikes.yaml') };
+writeFileSync(files.strikes, strikes);
 writeFileSync(files.movies, movies(false));
 writeFileSync(files.moviesFixed, movies(true));
 writeFileSync(files.iowa, iowa);
@@ -142,5 +161,14 @@ describe('a breakdown the catalog lacks is asked, never replaced by the first', 
     expect(prompt?.recommended.value).toBe('none');
     expect(prompt?.options.map((o) => o.value)).toEqual(['mpaa_rating', 'major_genre', 'none']);
     expect(defaults.breakdown).toBeUndefined();
+  });
+
+  it('an unqualified "cost" recommends the total of its parts; a qualifier picks its part', async () => {
+    const { prompt } = await read(files.strikes, 'What did bird strikes cost us in 2000 compared with 1999?');
+    expect(prompt?.topic).toBe('metrics');
+    expect(prompt?.recommended.value).toBe('cost_total');
+    expect(prompt?.options.slice(0, 3).map((o) => o.value)).toEqual(['cost_total', 'cost_other', 'cost_repair']);
+    const repair = await read(files.strikes, 'how did repair cost change in 2000 against 1999?');
+    expect(repair.brief.metrics.length === 1 ? repair.brief.metrics[0] : repair.prompt?.recommended.value).toBe('cost_repair');
   });
 });
