@@ -1,6 +1,6 @@
 // Title and caption of a members-vs-others comparison within each segment (performance_by_segment).
 import type { Dimension } from '../../config/schema.js';
-import type { PerformanceSegmentFinding } from '../findings/performance.js';
+import type { PerformanceSegmentFinding, SegmentPick } from '../findings/performance.js';
 import { formatValue } from '../format.js';
 import type { Finding } from '../types.js';
 import { pluralNoun } from './grammar.js';
@@ -83,5 +83,22 @@ export function bySegmentWords(findings: readonly Finding[], ctx: WordsContext, 
       .join('; ');
     caption = `Relative difference of ${inText(label)}, ${inText(m)} vs ${inText(o)}, by ${inText(dim.label)}: ${list}. ${capitalise(sig)}.${smallText}`;
   }
-  return { title, caption, notes: [], takeaway: `${title}${range}.`, clear: same === total && verdict?.verdict !== 'no_clear_difference' };
+  const rule = pickSentence(consistency.pick, metric.label, dim.label, locale);
+  return { title, caption: rule ? `${caption} ${rule}` : caption, notes: [], takeaway: `${title}${range}.`, clear: same === total && verdict?.verdict !== 'no_clear_difference' };
+}
+
+/**
+ * Which segments are shown and why, when that is not simply all of them: "Routes shown: the 3
+ * with the most revenue over both groups; the other 2 are combined as "All others"."
+ */
+export function pickSentence(pick: SegmentPick | undefined, metricLabel: string, dimLabel: string, locale: string): string | null {
+  if (!pick) return null;
+  const plural = capitalise(pluralLabel(dimLabel));
+  const rest = pick.folded > 0 ? `; the other ${countText(pick.folded, locale)} ${pick.folded === 1 ? 'is' : 'are'} combined as "All others"` : '';
+  if (pick.rule === 'named') return `${plural} shown: the ${pick.shown === 1 ? 'one' : countText(pick.shown, locale)} named in the request${rest}.`;
+  if (pick.folded === 0) return null;
+  const what = inText(metricLabel);
+  const by = pick.order === 'largest' ? `the most ${what}` : `the ${pick.order} ${what}`;
+  const floor = pick.floorRows !== null ? ` (among ${pluralLabel(dimLabel)} with at least ${countText(pick.floorRows, locale)} rows)` : '';
+  return `${plural} shown: the ${countText(pick.shown, locale)} with ${by} over both groups${floor}${rest}.`;
 }

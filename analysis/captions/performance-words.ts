@@ -69,6 +69,12 @@ function nounPair(label: string): { plural: string; singular: string } {
   return { plural, singular };
 }
 
+/** What one unit of a unit column is called, from a distinct count of it ("customer"), else "unit". */
+export function unitColumnNoun(ds: DatasetConfig, column: string | undefined): { plural: string; singular: string } {
+  const distinct = ds.metrics.find((m) => m.definition.type === 'distinct_count' && m.definition.column === column && !m.definition.where);
+  return nounPair(distinct?.label ?? 'units');
+}
+
 /** What one unit of a `per_unit_day` comparison is called, from its dimension's label: "site", "sites". */
 export function unitDimensionNoun(ds: DatasetConfig, unit: string | undefined): { plural: string; singular: string } {
   const dim = ds.dimensions.find((d) => d.name === unit);
@@ -83,6 +89,7 @@ export function unitDimensionNoun(ds: DatasetConfig, unit: string | undefined): 
 export function quantityLabel(metric: Metric, quantity: Quantity, ds: DatasetConfig, unit?: string): string {
   if (quantity === 'per_day') return `${metric.label} per day`;
   if (quantity === 'per_unit_day') return `${metric.label} per ${unitDimensionNoun(ds, unit).singular} per day`;
+  if (quantity === 'per_unit_month') return `${metric.label} per ${unitColumnNoun(ds, unit).singular} per month`;
   return quantity === 'per_row' ? `${metric.label} per ${rowNoun(ds).singular}` : metric.label;
 }
 

@@ -19,9 +19,11 @@ export type MeasureKind = 'mean' | 'proportion' | 'ratio' | 'total';
  * booking); `per_day`: a count (plain or filtered) compared as its mean per calendar day, days
  * without a row counting as 0, so a count is never compared as a share of rows; `per_unit_day`: a
  * count between groups of named units (sites), as each unit's count per calendar day, one
- * observation per unit (the finding's `unit` names the dimension).
+ * observation per unit (the finding's `unit` names the dimension); `per_unit_month`: a sum or a
+ * count per customer (the group's unit_column) per month, over the same customers before and after
+ * a launch, months without a row counting as 0 (the finding's `unit` is the unit column).
  */
-export type Quantity = 'metric' | 'per_row' | 'per_day' | 'per_unit_day';
+export type Quantity = 'metric' | 'per_row' | 'per_day' | 'per_unit_day' | 'per_unit_month';
 
 export type TestName = 'welch_t' | 'two_proportion_z' | 'delta_ratio_z' | 'did_t' | 'did_z';
 
@@ -319,6 +321,21 @@ export interface PerformanceConsistencyFinding {
   oppositeDirection: number;
   significantSame: number;
   significantOpposite: number;
+  /** How the segments shown were picked (absent in answers kept from before it was recorded). */
+  pick?: SegmentPick;
+}
+
+/**
+ * The rule that picked a breakdown's segments: those the request named, or the first `shown` by
+ * the metric asked over both groups (its total for a sum or a count, 'largest'; its value for an
+ * average or a rate, among segments with at least `floorRows` rows), `folded` more combined.
+ */
+export interface SegmentPick {
+  rule: 'named' | 'ranked';
+  shown: number;
+  folded: number;
+  order: 'largest' | 'highest' | 'lowest';
+  floorRows: number | null;
 }
 
 export type PerformanceFinding =
@@ -337,4 +354,44 @@ export type PerformanceFinding =
   | PerformanceDidFinding
   | PerformanceDidNotApplicableFinding
   | PerformanceSegmentFinding
-  | PerformanceConsistencyFinding;
+  | PerformanceConsistencyFinding
+  | PerformanceUnitDidFinding;
+
+/** One group's customers in a per-customer before/after (performance_unit_did). */
+export interface UnitPanelGroup {
+  /** Customers with a row both before and after the launch: the ones compared. */
+  panel: number;
+  /** Customers whose first row in the windows is after the launch (they entered): left out. */
+  enteredAfter: number;
+  /** Customers with rows before the launch only (they left): left out. */
+  leftBefore: number;
+  /** The panel's mean per customer per month before and after; null without a panel. */
+  before: number | null;
+  after: number | null;
+  /** The panel is below the dataset's minimum group size: its figures are withheld. */
+  suppressed?: boolean;
+}
+
+/**
+ * "Are pass holders travelling more since launch?": the metric per customer per month over the
+ * same customers before and after the launch (equal windows, `performance_periods`), members
+ * against others, and the difference in differences in the metric's units and relative to the
+ * members' counterfactual (their before plus the others' change), with percentile-bootstrap
+ * intervals over customers. Null estimates when a group has no panel.
+ */
+export interface PerformanceUnitDidFinding {
+  type: 'performance_unit_did';
+  metric: string;
+  /** The unit column (customer_id): captions call it by its distinct count's label. */
+  unit: string;
+  /** The months in each window. */
+  months: number;
+  groups: Record<GroupRole, UnitPanelGroup>;
+  estimate: number | null;
+  ci: [number, number] | null;
+  relative: number | null;
+  relativeCi: [number, number] | null;
+  confidence: number;
+  resamples: number;
+  seed: number;
+}

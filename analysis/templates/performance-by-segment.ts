@@ -2,11 +2,11 @@
 // segment of a dimension (e.g. per route). The largest segments by rows are kept and the rest
 // folded into one "All others" row in SQL; a difference pointing the same way in most segments is
 // evidence the overall gap is not a mix effect. Small segments are flagged.
-import { groupableDimension } from '../catalog.js';
+import { groupableDimension, isAdditive, rankDescending } from '../catalog.js';
 import type { Metric } from '../../config/schema.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import { daysBetween } from '../periods.js';
-import type { Direction, GroupRole, PerformanceSegmentFinding } from '../findings/performance.js';
+import type { Direction, GroupRole, PerformanceSegmentFinding, SegmentPick } from '../findings/performance.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CellValue, Finding, NamedQuery, SubQuestion } from '../types.js';
 import { compileGroups, primaryMetric, readGroupComparison } from './performance-compare.js';
@@ -31,7 +31,7 @@ import {
 import { cellFromRow, comparisonPlanFor, comparisonShape, measureColumns, num } from './performance-measure.js';
 import { cellEstimate, compareCells, directionOf } from './performance-stats.js';
 import { complementaryFoldCtes, minGroupSize, suppressedGroupsCaveat, suppressedSegmentsCaveat, suppressSmallCells } from './small-groups.js';
-import { namedSegmentCount } from './segments-fold-sql.js';
+import { MAX_NAMED_SEGMENTS, namedSegmentCount, rankFloorSql } from './segments-fold-sql.js';
 import type { Template } from './template.js';
 
 export function compileSegments(sq: SubQuestion, ctx: CompileContext): NamedQuery {
@@ -46,8 +46,10 @@ export function compileSegments(sq: SubQuestion, ctx: CompileContext): NamedQuer
   const rankWhere = `${whereClause(q, ctx, window, sq.filters)}\n    AND ${throughUnitsCondition(q, ctx, sq, group, window)}`;
   const plan = comparisonPlanFor(q, ctx, metric, group);
   const where = `${whereClause(q, ctx, window, sq.filters)}\n  AND ${throughUnitsCondition(q, ctx, sq, group, window)}`;
-  // Segments shown by name, as many as the request asked for; the rest are folded into one row.
-  const topN = q.bind(namedSegmentCount(sq));
+  // Segments shown by name, as many as the request asked for (or named); the rest are folded into one row.
+  const topN = q.bind(segmentsShown(sq));
+  // Each segment's rank by the metric asked, over both groups (see segmentRankRule).
+  const rankedSegments = rankedSegmentsSql(q, ctx, metric, sq, seg, `${rankWhere}\n    AND ${groupKnown(q, group)}`);
   // The final SELECT: its segment keys, its aggregates over the ranked segments, then the measure.
   const finalSelect = (keys: { sql: string; alias: string }[], rankAggregates: { sql: string; alias: string }[], carried: string[], ctes: string): { body: string; columns: string[] } => {
     if (plan.perDay) {
@@ -85,15 +87,10 @@ GROUP BY 1, 2, 3`;
       { sql: q.dialect.toDouble('MIN(tc_ranked.tc_rank)'), alias: 'tc_first_rank' },
       { sql: q.dialect.toDouble(`COUNT(DISTINCT CASE WHEN tc_ranked.tc_seg_rows < ${minP} THEN tc_ranked.tc_rank END)`), alias: 'tc_small_segments' },
       { sql: q.dialect.toDouble('COUNT(DISTINCT CASE WHEN tc_ranked.tc_complement THEN tc_ranked.tc_rank END)'), alias: 'tc_complement_segments' },
+      { sql: q.dialect.toDouble('MAX(tc_ranked.tc_rank_floor)'), alias: 'tc_rank_floor' },
     ];
     const ctes = `WITH tc_sizes AS (
-  SELECT ${seg} AS tc_segment,
-    ROW_NUMBER() OVER (ORDER BY ${rowCountSql(q, ctx)} DESC, ${seg}) AS tc_rank,
-    ${rowCountSql(q, ctx)} AS tc_seg_rows
-  FROM ${tableRef(q, ctx)}
-  WHERE ${rankWhere}
-    AND ${groupKnown(q, group)}
-  GROUP BY ${seg}
+  ${rankedSegments}
 ), tc_first AS (
   SELECT tc_segment, 0 AS tc_period, tc_seg_rows, (tc_rank > ${topN} OR tc_seg_rows < ${minP}) AS tc_small_or_out
   FROM tc_sizes
@@ -103,8 +100,8 @@ tc_ranked AS (
   FROM tc_sizes
   LEFT JOIN tc_extra ON tc_sizes.tc_segment IS NOT DISTINCT FROM tc_extra.tc_sdc_key
 )`;
-    const { body: inner, columns: cols } = finalSelect(keyCols, rankCols, ['tc_rank', 'tc_seg_rows', 'tc_complement'], ctes);
-    const keys = ['tc_segment', 'tc_folded', 'tc_member', 'tc_segments', 'tc_first_rank', 'tc_small_segments', 'tc_complement_segments'];
+    const { body: inner, columns: cols } = finalSelect(keyCols, rankCols, ['tc_rank', 'tc_seg_rows', 'tc_complement', 'tc_rank_floor'], ctes);
+    const keys = ['tc_segment', 'tc_folded', 'tc_member', 'tc_segments', 'tc_first_rank', 'tc_small_segments', 'tc_complement_segments', 'tc_rank_floor'];
     return {
       name: 'segments',
       ...q.finish(
@@ -124,12 +121,7 @@ tc_ranked AS (
   }
   // Segments ranked by rows over both groups; ties broken by name so the fold is stable.
   const ctes = `WITH tc_ranked AS (
-  SELECT ${seg} AS tc_segment,
-    ROW_NUMBER() OVER (ORDER BY ${rowCountSql(q, ctx)} DESC, ${seg}) AS tc_rank
-  FROM ${tableRef(q, ctx)}
-  WHERE ${rankWhere}
-    AND ${groupKnown(q, group)}
-  GROUP BY ${seg}
+  ${rankedSegments}
 )`;
   const { body } = finalSelect(
     [
@@ -140,11 +132,54 @@ tc_ranked AS (
     [
       { sql: q.dialect.toDouble('COUNT(DISTINCT tc_ranked.tc_rank)'), alias: 'tc_segments' },
       { sql: q.dialect.toDouble('MIN(tc_ranked.tc_rank)'), alias: 'tc_first_rank' },
+      { sql: q.dialect.toDouble('MAX(tc_ranked.tc_rank_floor)'), alias: 'tc_rank_floor' },
     ],
-    ['tc_rank'],
+    ['tc_rank', 'tc_rank_floor'],
     ctes,
   );
   return { name: 'segments', ...q.finish(`${body}\nORDER BY 2, 5, 3`) };
+}
+
+/**
+ * How many segments are shown by name: those the request names when it filters the breakdown's
+ * own dimension to a list ("on the Tern Holm and Saltreach routes": all of them, none folded),
+ * else as many as it asked for ("top 3 routes"), else SEGMENT_TOP_N.
+ */
+export function segmentsShown(sq: SubQuestion): number {
+  const named = namedSegments(sq);
+  return named ? Math.min(Math.max(named.length, 1), MAX_NAMED_SEGMENTS) : namedSegmentCount(sq);
+}
+
+/** The breakdown's values the request names (a filter on the breakdown's own dimension), or null. */
+export function namedSegments(sq: SubQuestion): (string | number | boolean)[] | null {
+  const f = sq.filters.find((x) => x.dimension === sq.dimension && !x.exclude && x.values.length > 0);
+  return f ? f.values : null;
+}
+
+/**
+ * One rule picks the segments shown: their value of the metric asked over both groups, largest
+ * first (or in the direction asked, "worst 3"). A sum or a count ranks by its total; an average or
+ * a rate by its value among segments with enough rows (RANK_FLOOR, as every ranking by value: a
+ * segment under it ranks after the rest and is folded), the floor returned as tc_rank_floor.
+ * Ties rank by rows, then by the segment's text, so the fold is stable. Never by rows alone: the
+ * largest routes by bookings need not be the largest by revenue.
+ */
+function rankedSegmentsSql(q: QueryBuilder, ctx: CompileContext, metric: Metric, sq: SubQuestion, seg: string, where: string): string {
+  const descending = !sq.rankOrder || rankDescending(metric, sq.rankOrder);
+  const dir = descending ? 'DESC' : 'ASC';
+  const floored = !isAdditive(metric);
+  const floor = floored ? rankFloorSql(q, 'tc_seg_rows') : q.dialect.toDouble('NULL');
+  return `SELECT tc_segment, tc_seg_rows, tc_rank_floor,
+    ROW_NUMBER() OVER (ORDER BY ${floored ? 'CASE WHEN tc_seg_rows >= tc_rank_floor THEN 0 ELSE 1 END, ' : ''}CASE WHEN tc_seg_value IS NULL THEN 1 ELSE 0 END, tc_seg_value ${dir}, tc_seg_rows DESC, tc_segment) AS tc_rank
+  FROM (
+    SELECT tc_segment, tc_seg_rows, tc_seg_value, ${floor} AS tc_rank_floor
+    FROM (
+      SELECT ${seg} AS tc_segment, ${rowCountSql(q, ctx)} AS tc_seg_rows, ${q.dialect.toDouble(measureSql(q, ctx, metric))} AS tc_seg_value
+      FROM ${tableRef(q, ctx)}
+      WHERE ${where}
+      GROUP BY ${seg}
+    ) tc_values
+  ) tc_floored`;
 }
 
 /**
@@ -289,7 +324,7 @@ export const performanceBySegmentTemplate: Template = {
       };
       findings.push(finding);
       if (small) caveats.push({ code: 'small_sample', data: { n: Math.min(m.n, o.n), segment: e.segment ?? (e.folded ? 'All others' : 'missing'), threshold: SMALL_SAMPLE } });
-      if (e.folded && e.count - e.small - e.complement > 0) caveats.push({ code: 'segments_folded', data: { count: e.count - e.small - e.complement } });
+      // Segments folded by rank are said in the caption with the rule that picked those shown (pick).
       if (e.folded && e.small > 0 && minimum !== null) caveats.push(suppressedSegmentsCaveat(e.small, minimum, { dimension: dim.name }, e.complement));
       if (finding.difference === null || overallDirection === 'equal') continue;
       compared++;
@@ -303,8 +338,22 @@ export const performanceBySegmentTemplate: Template = {
         if (significant) sigOpposite++;
       }
     }
+    // The rule that picked the segments shown, said in the caption when the rest are folded.
+    const foldRow = order.map((k) => bySegment.get(k)!).find((e) => e.folded);
+    const anyRow = segTable.rows[0];
+    const floorRows = anyRow ? num(anyRow.tc_rank_floor) : null;
+    const named = namedSegments(sq);
+    const descending = !sq.rankOrder || rankDescending(metric, sq.rankOrder);
+    const pick: SegmentPick = {
+      rule: named ? 'named' : 'ranked',
+      shown: order.length - (foldRow ? 1 : 0),
+      folded: foldRow ? foldRow.count : 0,
+      order: isAdditive(metric) && descending ? 'largest' : descending ? 'highest' : 'lowest',
+      floorRows: isAdditive(metric) ? null : floorRows,
+    };
     findings.push({
       type: 'performance_consistency',
+      pick,
       metric: metric.name,
       dimension: dim.name,
       overallDirection,
