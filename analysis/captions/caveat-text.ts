@@ -51,10 +51,11 @@ export function caveatNote(c: Caveat, locale: string): string {
       if (d.segments === true) return `Some segments have a negative total, so shares are not meaningful for them.`;
       return `${show(d.count, 'Some')} rows have a negative ${show(d.column, 'amount')}.`;
     case 'outlier': {
-      if (typeof d.count !== 'number') return `${period(d.period, d.grain)} is an outlier.`;
       const grain = (typeof d.grain === 'string' ? d.grain : 'month') as Grain;
+      const how = outlierRuleText(d.rule, d.cycle, d.fallback, grain);
+      if (typeof d.count !== 'number') return `${period(d.period, d.grain)} is ${how.one}.`;
       const names = String(d.examples ?? '').split(',').filter(Boolean).map((p) => formatPeriod(p, grain, locale, 'long'));
-      return `${countOf(d.count, grain, 'en', grain === 'day' ? 'days' : undefined)} are unusual (modified z-score above 3.5); the ${names.length} most extreme: ${listJoin(names)}.`;
+      return `${countOf(d.count, grain, 'en', grain === 'day' ? 'days' : undefined)} are ${how.many}; the ${names.length} most extreme: ${listJoin(names)}.`;
     }
     case 'stale_data':
       return typeof d.grain === 'string' ? `The latest data is for ${period(d.lastDate, d.grain)}, ${ageText(d.days)}.` : `The latest data is from ${day(d.lastDate)}, ${ageText(d.days)}.`;
@@ -97,6 +98,30 @@ export function caveatNote(c: Caveat, locale: string): string {
 }
 
 /** "1 month", "12 weeks": a count of periods named by their grain (a period when the grain is not known). */
+/**
+ * How an unusual period was judged (quality/series-outliers.ts), said so a reader knows July was
+ * weighed against other Julys: after the cycle and trend, or among the values when there were too
+ * few cycles to measure one. An older caveat without a rule reads as before.
+ */
+function outlierRuleText(rule: unknown, cycle: unknown, fallback: unknown, grain: Grain): { one: string; many: string } {
+  const weekly = cycle === 7 || (cycle === undefined && grain === 'day');
+  const pattern = weekly ? 'weekly' : 'yearly';
+  if (rule === 'seasonal' || rule === 'seasonal_and_values') {
+    const even = weekly ? 'even for its day of the week' : 'even for the time of year';
+    const evenMany = weekly ? 'even for their day of the week' : 'even for the time of year';
+    const after = `judged on what is left once the usual ${pattern} pattern and the trend are taken out`;
+    return { one: `unusual ${even} (${after})`, many: `unusual ${evenMany} (${after}; modified z-score above 3.5)` };
+  }
+  if (fallback === 'too_few_cycles') {
+    const full = weekly ? 'full weeks' : 'full years';
+    return {
+      one: `an outlier among all the ${grain}s (modified z-score above 3.5; too few ${full} to allow for the ${pattern} pattern)`,
+      many: `unusual among all the ${grain}s (modified z-score above 3.5; too few ${full} to allow for the ${pattern} pattern)`,
+    };
+  }
+  return { one: 'an outlier', many: 'unusual (modified z-score above 3.5)' };
+}
+
 function periodsText(n: unknown, grain: unknown): string {
   const noun = typeof grain === 'string' && ['day', 'week', 'month', 'quarter', 'year'].includes(grain) ? grain : 'period';
   return typeof n === 'number' ? countOf(n, noun) : `some ${noun}s`;

@@ -51,13 +51,19 @@ export function trendSummaryWords(metric: Metric, grain: Grain, findings: readon
   const spread = ownRatio ? `${grainNoun(grain, 2)} from ${v(s.min)} to ${v(s.max)}` : `from ${v(s.min)} to ${v(s.max)}`;
   const title = `${labelAtStart(metric.label)} averaged ${v(own)}${perGrain}, ${spread}`;
   const range = `from ${v(s.min)} (${when(s.minPeriod)}) to ${v(s.max)} (${when(s.maxPeriod)})`;
-  const outlierText = (o: TrendOutlierFinding) => `${when(o.period)} (${v(o.value)}${audience === 'analysts' ? `, modified z = ${formatIndex(o.score, locale)}` : ''})`;
+  // After the cycle and trend (quality/series-outliers.ts) a period is weighed against what its time of
+  // year would give, and the caption says so: "28 °C where about 22 °C was usual", not just "stands out".
+  const seasonal = (o: TrendOutlierFinding) => (o.rule === 'seasonal' || o.rule === 'seasonal_and_values') && o.expected !== undefined;
+  const outlierText = (o: TrendOutlierFinding) =>
+    `${when(o.period)} (${v(o.value)}${seasonal(o) ? ` where about ${v(o.expected!)} was usual` : ''}${audience === 'analysts' ? `, modified z = ${formatIndex(o.score, locale)}` : ''})`;
+  const cyclePattern = grain === 'day' ? 'weekly' : 'yearly';
+  const fromWhat = outliers.some(seasonal) ? ` once the usual ${cyclePattern} pattern and the trend are taken out` : ' from the rest';
   const stand =
     outliers.length === 0
       ? audience === 'analysts'
         ? ` No ${per} has |modified z| above ${formatValue(MODIFIED_Z_THRESHOLD, { unit: 'number', decimals: 1, locale })} (Iglewicz–Hoaglin).`
         : ''
-      : ` ${outliers.length === 1 ? 'One' : String(outliers.length)} ${grainNoun(grain, outliers.length)} ${outliers.length === 1 ? 'stands' : 'stand'} out from the rest${
+      : ` ${outliers.length === 1 ? 'One' : String(outliers.length)} ${grainNoun(grain, outliers.length)} ${outliers.length === 1 ? 'stands' : 'stand'} out${fromWhat}${
           outliers.length > MOST_OUTLIERS_SAID ? `; the ${MOST_OUTLIERS_SAID} furthest out: ${mostExtreme(outliers).map(outlierText).join(', ')}` : `: ${outliers.map(outlierText).join(', ')}`
         }.`;
   // The statistics above are of the periods' values; an average's own rows are said apart, so a

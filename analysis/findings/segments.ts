@@ -1,5 +1,6 @@
 // Findings of the trend family's extra lenses (trend test, seasonality, summary) and of the
 // segment machinery (segment trends, segment shares). Numbers, periods and segment keys only.
+import type { OutlierRule } from '../quality/series-outliers.js';
 import type { StableSeasonalityTest } from '../stats/stable-seasonality.js';
 import type { DecadeSlope } from '../stats/decades.js';
 import type { SeasonalModel } from '../stats/decomposition.js';
@@ -149,10 +150,15 @@ export interface TrendOutlierFinding {
   grain: Grain;
   period: string;
   value: number;
-  /** Modified z-score (Iglewicz & Hoaglin) against the median of the complete periods. */
+  /** Modified z-score (Iglewicz & Hoaglin): of the remainder after cycle and trend, or (rule `values`) of the value against the median. */
   score: number;
+  /** Median of the complete periods' values. */
   median: number;
   threshold: number;
+  /** Which screen judged it (quality/series-outliers.ts); absent reads as `values`. */
+  rule?: OutlierRule;
+  /** What trend and season alone would have given (rules `seasonal*`). */
+  expected?: number;
 }
 
 /** A segment key: the dimension's value as text, null for rows where it is missing; the fold has `other`. */

@@ -1,6 +1,14 @@
-// Unusual periods in a series: the modified z-score (Iglewicz & Hoaglin 1993) over the complete
-// periods, so one storm month cannot hide itself by inflating the spread it is judged against.
-import { MODIFIED_Z_THRESHOLD, modifiedZScores } from '../stats/index.js';
+// Unusual periods in a series, judged on what is left once the series' own cycle and trend are
+// taken out, so that every July of a temperature record or every December of a shop's sales is
+// not called unusual for being July or December.
+//
+// Rule: the modified z-score (Iglewicz & Hoaglin 1993; 0.6745·(r − median)/MAD, |z| > 3.5) over
+// the remainders of a classical decomposition (Hyndman & Athanasopoulos, FPP 3rd ed., section 3.4;
+// seasonal part by the median per season, see stats/decomposition.ts seasonalRemainders). The
+// median and MAD keep one storm month from hiding itself by inflating the spread it is judged
+// against. Without enough cycles to measure the season the values themselves are screened.
+import { nextPeriod } from '../periods.js';
+import { MODIFIED_Z_THRESHOLD, modifiedZScores, seasonalRemainders, type SeasonalModel } from '../stats/index.js';
 import type { Caveat, Grain, PeriodPoint } from '../types.js';
 
 /**
@@ -9,14 +17,103 @@ import type { Caveat, Grain, PeriodPoint } from '../types.js';
  */
 export const MIN_OUTLIER_PERIODS = 5;
 
-/** One `outlier` caveat per complete period whose |modified z| exceeds 3.5; partial and missing periods are left out. */
-export function seriesOutliers(points: PeriodPoint[], grain: Grain): Caveat[] {
+/**
+ * The cycle each grain repeats: days by the week, weeks, months and quarters by the year (52 weeks:
+ * a year is 52.18, so week positions drift a day a year, which a few years' screen can bear).
+ * A year has no cycle here: yearly values are screened as they are.
+ */
+export const CYCLE_OF: Readonly<Partial<Record<Grain, number>>> = { day: 7, week: 52, month: 12, quarter: 4 };
+
+/**
+ * Full cycles the seasonal part needs before the remainders alone decide. With three, each season's
+ * median stands on three values, so one unusual year cannot set its season's level; with two, the
+ * median is the mean of two and an unusual month splits into two half-unusual ones, so a period is
+ * then called unusual only when it stands out both in the remainders and among the values themselves.
+ */
+export const MIN_SEASONAL_CYCLES = 3;
+const MIN_CYCLES_FOR_ANY_SEASONAL = 2;
+
+/**
+ * Which rule judged a series: `seasonal` the remainders after cycle and trend; `seasonal_and_values`
+ * (two full cycles) the remainders and the values together; `values` the values alone (no cycle at
+ * this grain, too few cycles, or periods that do not run on one after another).
+ */
+export type OutlierRule = 'seasonal' | 'seasonal_and_values' | 'values';
+
+export interface UnusualPeriod {
+  period: string;
+  value: number;
+  /** Modified z-score of the remainder (rule `values`: of the value itself). */
+  score: number;
+  /** Trend and season together: what the period would have been (rules `seasonal*` only). */
+  expected?: number;
+}
+
+export interface OutlierScreen {
+  rule: OutlierRule;
+  /** The cycle length the remainders allow for (rules `seasonal*`). */
+  cycle?: number;
+  /** Why the values alone were screened, when the grain has a cycle. */
+  fallback?: 'too_few_cycles' | 'irregular';
+  /** Median of the complete periods' values. */
+  median: number;
+  threshold: number;
+  unusual: UnusualPeriod[];
+}
+
+/**
+ * Screens the complete periods of a series (partial and missing ones are left out). `model` is how
+ * the metric's cycle behaves (catalog.ts seasonalModel); without it, multiplicative when every value
+ * is positive. Null with fewer than MIN_OUTLIER_PERIODS complete periods.
+ */
+export function screenSeries(points: readonly PeriodPoint[], grain: Grain, model?: SeasonalModel): OutlierScreen | null {
   const complete = points.filter((p): p is PeriodPoint & { value: number } => !p.partial && p.value !== null && Number.isFinite(p.value));
-  if (complete.length < MIN_OUTLIER_PERIODS) return [];
-  const result = modifiedZScores(complete.map((p) => p.value), MODIFIED_Z_THRESHOLD);
-  if (!result) return [];
-  return result.outlierIndices.map((i) => ({
+  if (complete.length < MIN_OUTLIER_PERIODS) return null;
+  const plain = modifiedZScores(complete.map((p) => p.value), MODIFIED_Z_THRESHOLD);
+  if (!plain) return null;
+  const byValue: UnusualPeriod[] = plain.outlierIndices.map((i) => ({ period: complete[i]!.period, value: complete[i]!.value, score: plain.scores[i]! }));
+  const base = { median: plain.median, threshold: MODIFIED_Z_THRESHOLD };
+  const cycle = CYCLE_OF[grain];
+  if (cycle === undefined) return { ...base, rule: 'values', unusual: byValue };
+
+  // The run from the first complete period to the last, in order, a partial or missing one as a hole.
+  const first = points.indexOf(complete[0]!);
+  const last = points.indexOf(complete[complete.length - 1]!);
+  const run = points.slice(first, last + 1);
+  const consecutive = run.every((p, i) => i === 0 || nextPeriod(run[i - 1]!.period, grain) === p.period);
+  if (!consecutive) return { ...base, rule: 'values', fallback: 'irregular', unusual: byValue };
+  const values = run.map((p) => (p.partial || p.value === null || !Number.isFinite(p.value) ? null : p.value));
+  // A ratio to the trend means nothing for a series that touches zero or goes below it (a profit, a temperature in °C).
+  const positive = values.every((v) => v === null || v > 0);
+  const m: SeasonalModel = positive ? (model ?? 'multiplicative') : 'additive';
+  const decomposed = seasonalRemainders(values, cycle, m, MIN_CYCLES_FOR_ANY_SEASONAL);
+  if (decomposed.kind !== 'ok') return { ...base, rule: 'values', fallback: 'too_few_cycles', unusual: byValue };
+
+  const z = modifiedZScores(decomposed.remainder, MODIFIED_Z_THRESHOLD);
+  if (!z) return { ...base, rule: 'values', fallback: 'too_few_cycles', unusual: byValue };
+  const both = decomposed.fullCycles < MIN_SEASONAL_CYCLES;
+  const flaggedByValue = new Set(byValue.map((u) => u.period));
+  const unusual = z.outlierIndices
+    .filter((i) => !both || flaggedByValue.has(run[i]!.period))
+    .map((i) => ({ period: run[i]!.period, value: values[i]!, score: z.scores[i]!, expected: decomposed.expected[i]! }));
+  return { ...base, rule: both ? 'seasonal_and_values' : 'seasonal', cycle, unusual };
+}
+
+/** One `outlier` caveat per unusual complete period, carrying the rule that judged it. */
+export function seriesOutliers(points: PeriodPoint[], grain: Grain, model?: SeasonalModel): Caveat[] {
+  const screen = screenSeries(points, grain, model);
+  if (!screen) return [];
+  return screen.unusual.map((u) => ({
     code: 'outlier' as const,
-    data: { period: complete[i]!.period, grain, value: complete[i]!.value, score: result.scores[i]! },
+    data: {
+      period: u.period,
+      grain,
+      value: u.value,
+      score: u.score,
+      rule: screen.rule,
+      ...(screen.cycle !== undefined ? { cycle: screen.cycle } : {}),
+      ...(screen.fallback !== undefined ? { fallback: screen.fallback } : {}),
+      ...(u.expected !== undefined ? { expected: u.expected } : {}),
+    },
   }));
 }

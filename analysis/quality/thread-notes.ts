@@ -91,6 +91,10 @@ export function summariseOutliers(caveats: readonly Caveat[]): Caveat[] {
         ...(metric ? { metric } : {}),
         count: group.length,
         grain: group[0]!.data.grain ?? 'month',
+        // How they were judged, so the note says "even for their day of the week" (one screen per series).
+        ...(group[0]!.data.rule !== undefined ? { rule: group[0]!.data.rule } : {}),
+        ...(group[0]!.data.cycle !== undefined ? { cycle: group[0]!.data.cycle } : {}),
+        ...(group[0]!.data.fallback !== undefined ? { fallback: group[0]!.data.fallback } : {}),
         examples: extreme.slice(0, OUTLIERS_NAMED).map((c) => String(c.data.period)).join(','),
       },
     });

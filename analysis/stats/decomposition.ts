@@ -1,5 +1,6 @@
 // Seasonal indices by classical decomposition, multiplicative or additive
 // (Hyndman & Athanasopoulos, Forecasting: Principles and Practice, 3rd ed., section 3.4).
+import { medianInPlace } from './order-stats.js';
 
 /**
  * Multiplicative for a flow, whose cycle grows with its level (a ratio y/T, indices averaging 1);
@@ -162,5 +163,112 @@ function countExtremes(cycles: readonly CycleRatios[], period: number): SeasonEx
     out[hi]!.highestIn++;
     out[lo]!.lowestIn++;
   }
+  return out;
+}
+
+/** What is left of each point once its trend and seasonal part are taken out (see `seasonalRemainders`). */
+export type SeasonalRemainderResult =
+  | {
+      kind: 'ok';
+      period: number;
+      model: SeasonalModel;
+      /** Full cycles in the series (its length over the period, rounded down). */
+      fullCycles: number;
+      /** Trend per point: the centred moving average, carried half a cycle past both ends on a straight line; null where a gap leaves none. */
+      trend: (number | null)[];
+      /** Seasonal part per point (it repeats every period): multiplicative ones average 1 over a cycle, additive ones sum to 0. */
+      seasonal: number[];
+      /** Trend and season together, what the point would be if nothing unusual happened: T·S (additive: T + S). */
+      expected: (number | null)[];
+      /** y/(T·S) − 1 (additive: y − T − S); null for a missing value or where there is no trend. */
+      remainder: (number | null)[];
+    }
+  | { kind: 'too_few_cycles'; period: number; points: number; fullCycles: number; required: number };
+
+/**
+ * Remainders of a classical decomposition (Hyndman & Athanasopoulos, FPP 3rd ed., section 3.4), set up to judge single
+ * points rather than to describe the cycle, in two ways that differ from `seasonalIndices`:
+ * - the seasonal part of a season is the median, not the mean, of its detrended values, so one storm month cannot
+ *   move its own month's index and hide in it (with three or more cycles; with two the median is their mean);
+ * - the centred moving average has no value in the first and last half cycle; there the trend is carried on by the
+ *   least-squares line through the nearest cycle of trend values (half a cycle at most), so the latest periods, the
+ *   ones most asked about, are judged too.
+ * Seasons are positions in the series (point i is season i mod period), which is all the remainders need. A value of
+ * null (a gap, a partial period) is left out of every average and gets no remainder. Multiplicative needs positive
+ * trend values; where the trend is not positive the point gets no remainder.
+ */
+export function seasonalRemainders(
+  values: readonly (number | null)[],
+  period: number,
+  model: SeasonalModel,
+  minCycles = MIN_CYCLES,
+): SeasonalRemainderResult {
+  if (!(Number.isInteger(period) && period >= 2)) throw new RangeError(`period must be an integer ≥ 2, got ${period}`);
+  const fullCycles = Math.floor(values.length / period);
+  if (fullCycles < minCycles) return { kind: 'too_few_cycles', period, points: values.length, fullCycles, required: minCycles };
+  const y = values.map((v) => (typeof v === 'number' && Number.isFinite(v) ? v : null));
+  const trend = extendEnds(centredMovingAverage(y, period), period);
+  const detrended = y.map((v, i) => {
+    const t = trend[i];
+    if (v === null || t === null || t === undefined) return null;
+    if (model === 'additive') return v - t;
+    return t > 0 ? v / t : null;
+  });
+  const bySeason = Array.from({ length: period }, () => [] as number[]);
+  detrended.forEach((d, i) => {
+    if (d !== null) bySeason[i % period]!.push(d);
+  });
+  // A season with no detrended value (gaps) borrows the neutral part: no seasonal effect.
+  const neutral = model === 'additive' ? 0 : 1;
+  const raw = bySeason.map((ds) => (ds.length === 0 ? neutral : medianInPlace(Float64Array.from(ds))));
+  const rawMean = raw.reduce((a, b) => a + b, 0) / period;
+  const indices = raw.map((r) => (model === 'additive' ? r - rawMean : rawMean > 0 ? r / rawMean : neutral));
+  const seasonal = y.map((_, i) => indices[i % period]!);
+  const expected = trend.map((t, i) => (t === null ? null : model === 'additive' ? t + seasonal[i]! : t * seasonal[i]!));
+  const remainder = y.map((v, i) => {
+    const e = expected[i];
+    if (v === null || e === null || e === undefined) return null;
+    if (model === 'additive') return v - e;
+    return e > 0 ? v / e - 1 : null;
+  });
+  return { kind: 'ok', period, model, fullCycles, trend, seasonal, expected, remainder };
+}
+
+/** Up to span/2 leading and trailing nulls of a trend filled from the least-squares line through the nearest `span` trend values. */
+function extendEnds(trend: readonly (number | null)[], span: number): (number | null)[] {
+  const out = [...trend];
+  const first = out.findIndex((t) => t !== null);
+  if (first < 0) return out;
+  let last = out.length - 1;
+  while (out[last] === null) last--;
+  const line = (from: number, to: number) => {
+    const xs: number[] = [];
+    const ts: number[] = [];
+    for (let i = from; i <= to; i++) {
+      const t = out[i];
+      if (t !== null && t !== undefined) {
+        xs.push(i);
+        ts.push(t);
+      }
+    }
+    if (xs.length < 2) return (_: number) => ts[0] ?? null;
+    const mx = xs.reduce((a, b) => a + b, 0) / xs.length;
+    const mt = ts.reduce((a, b) => a + b, 0) / ts.length;
+    let sxx = 0;
+    let sxt = 0;
+    xs.forEach((x, k) => {
+      sxx += (x - mx) ** 2;
+      sxt += (x - mx) * (ts[k]! - mt);
+    });
+    const slope = sxt / sxx;
+    return (x: number) => mt + slope * (x - mx);
+  };
+  // Only as far as the moving average itself falls short of an end (half a cycle): further out, past a gap near
+  // the start, a line is a guess, and a point with no trend is left unjudged.
+  const reach = Math.floor(span / 2);
+  const head = line(first, Math.min(last, first + span - 1));
+  for (let i = Math.max(0, first - reach); i < first; i++) out[i] = head(i);
+  const tail = line(Math.max(first, last - span + 1), last);
+  for (let i = last + 1; i <= Math.min(out.length - 1, last + reach); i++) out[i] = tail(i);
   return out;
 }

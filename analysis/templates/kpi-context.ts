@@ -7,16 +7,17 @@ import { MIN_OUTLIER_PERIODS, seriesOutliers } from '../quality/series-outliers.
 import { argExtremes, MODIFIED_Z_THRESHOLD, modifiedZScores, summarize } from '../stats/index.js';
 import type { Caveat, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
 import { EMPTY_TABLE } from './kpi-sql.js';
-import { compileSeries, readSeries } from './series.js';
+import { compileSeries, modelOf, readSeries } from './series.js';
+import type { DatasetConfig } from '../../config/schema.js';
 import type { Reading, Template } from './template.js';
 
 export const kpiContextTemplate: Template = {
   compile: (sq, ctx) => [{ name: 'history', ...compileSeries(sq, ctx) }],
-  read: (sq, tables, ctx) => readKpiContext(sq, tables.history ?? EMPTY_TABLE, ctx.coverage),
+  read: (sq, tables, ctx) => readKpiContext(sq, tables.history ?? EMPTY_TABLE, ctx.coverage, ctx.dataset),
 };
 
-export function readKpiContext(sq: SubQuestion, table: ResultTable, coverage: Coverage): Reading {
-  const base = readSeries(sq, table, coverage);
+export function readKpiContext(sq: SubQuestion, table: ResultTable, coverage: Coverage, dataset?: DatasetConfig): Reading {
+  const base = readSeries(sq, table, coverage, { dataset });
   const caveats: Caveat[] = [...base.caveats];
   const findings: Finding[] = [];
   for (const f of base.findings) {
@@ -25,7 +26,7 @@ export function readKpiContext(sq: SubQuestion, table: ResultTable, coverage: Co
     const context = contextOf(f.metric, sq.grain, f.points);
     if (!context) continue;
     findings.push(context);
-    caveats.push(...seriesOutliers(f.points, sq.grain).map((c) => ({ ...c, data: { ...c.data, metric: f.metric } })));
+    caveats.push(...seriesOutliers(f.points, sq.grain, modelOf(dataset, f.metric)).map((c) => ({ ...c, data: { ...c.data, metric: f.metric } })));
   }
   return { findings, caveats };
 }

@@ -1,6 +1,6 @@
 // Template "series": each metric at a time grain over the window. Answers the time-pattern
 // lens of a trend request (and feeds growth and snapshot templates later).
-import { isAdditive, metricByName } from '../catalog.js';
+import { isAdditive, metricByName, seasonalModel } from '../catalog.js';
 import type { DatasetConfig } from '../../config/schema.js';
 import { type CompileContext, localDateExpr, periodScope, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
@@ -9,6 +9,7 @@ import { addDays, daysBetween, nextPeriod, periodsBetween } from '../periods.js'
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
 import { seriesOutliers } from '../quality/series-outliers.js';
+import type { SeasonalModel } from '../stats/decomposition.js';
 import type { Template } from './template.js';
 
 export function compileSeries(sq: SubQuestion, ctx: CompileContext): CompiledQuery {
@@ -34,7 +35,7 @@ export interface SeriesReading {
 export const seriesTemplate: Template = {
   compile: (sq, ctx) => [{ name: 'series', ...compileSeries(sq, ctx) }],
   // "Orders per day, monthly": each period's total over its days (of the window and the data).
-  read: (sq, tables, ctx) => readSeries(sq, tables.series ?? { columns: [], rows: [], truncated: false }, ctx.coverage, { perDay: perDayOf(sq, ctx.dataset) }),
+  read: (sq, tables, ctx) => readSeries(sq, tables.series ?? { columns: [], rows: [], truncated: false }, ctx.coverage, { perDay: perDayOf(sq, ctx.dataset), dataset: ctx.dataset }),
 };
 
 /** The metrics of `sq` to state per day: asked per day, a total that adds up over days, at a grain coarser than a day. */
@@ -48,7 +49,13 @@ function perDayOf(sq: SubQuestion, ds: DatasetConfig): Set<string> {
  * (a gap) become null points; a first or last period only partly covered is marked partial
  * and left out of the high and low, since half a month is not comparable with a whole one.
  */
-export function readSeries(sq: SubQuestion, table: ResultTable, coverage: Coverage, opts: { perDay?: ReadonlySet<string> } = {}): SeriesReading {
+export function readSeries(
+  sq: SubQuestion,
+  table: ResultTable,
+  coverage: Coverage,
+  // The dataset, when known, says how each metric's cycle behaves for the outlier screen (catalog.ts seasonalModel).
+  opts: { perDay?: ReadonlySet<string>; dataset?: DatasetConfig } = {},
+): SeriesReading {
   const caveats: Caveat[] = [];
   if (table.truncated) caveats.push({ code: 'truncated', data: { rows: table.rows.length } });
   if (coverage.firstDate === null || coverage.lastDate === null || table.rows.length === 0) {
@@ -83,7 +90,7 @@ export function readSeries(sq: SubQuestion, table: ResultTable, coverage: Covera
       return { period: p, value, partial: partialStarts.has(p) };
     });
     findings.push({ type: 'series', metric, grain: sq.grain, points, ...(perDay ? { perDay: true as const } : {}) });
-    caveats.push(...seriesOutliers(points, sq.grain).map((c) => ({ ...c, data: { ...c.data, metric } })));
+    caveats.push(...seriesOutliers(points, sq.grain, modelOf(opts.dataset, metric)).map((c) => ({ ...c, data: { ...c.data, metric } })));
     // A period with rows but none that pass the filters (row count 0; periodScope keeps its row)
     // is empty, not a hole in the data: additive metrics read 0 there, others have no value.
     const empty = points.filter((p) => p.value === null && !p.partial && isEmptyPeriod(byPeriod.get(p.period)));
@@ -141,4 +148,10 @@ function maxIso(a: string, b: string): string {
 }
 function minIso(a: string, b: string): string {
   return a < b ? a : b;
+}
+
+/** How `metric`'s cycle behaves, when the dataset is known and holds it; undefined leaves the screen to decide. */
+export function modelOf(ds: DatasetConfig | undefined, metric: string): SeasonalModel | undefined {
+  const m = ds?.metrics.find((x) => x.name === metric);
+  return m ? seasonalModel(m) : undefined;
 }

@@ -55,7 +55,7 @@ export function readSeasonality(sq: SubQuestion, monthly: ResultTable, weekday: 
   const one = monthlyQuestion(sq);
   const metricName = one.metrics[0]!;
   const metric = metricByName(ctx.dataset, metricName);
-  const base = readSeries(one, monthly, ctx.coverage);
+  const base = readSeries(one, monthly, ctx.coverage, { dataset: ctx.dataset });
   const findings: Finding[] = [...base.findings];
   const caveats: Caveat[] = [...base.caveats];
   if (weekday.truncated) caveats.push({ code: 'truncated', data: { rows: weekday.rows.length } });

@@ -1,12 +1,13 @@
 // Template "trend_summary": summary statistics over the complete periods of the window (which
 // period holds each extreme), and periods that stand out by a robust outlier screen.
-import { modifiedZScores, summarize } from '../stats/index.js';
+import { summarize } from '../stats/index.js';
+import { screenSeries } from '../quality/series-outliers.js';
 import { metricByName } from '../catalog.js';
 import { type CompileContext, tableRef, whereClause } from '../compile-context.js';
 import { filterCondition } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
-import { compileSeries, readSeries } from './series.js';
+import { compileSeries, modelOf, readSeries } from './series.js';
 import type { ReadContext, Reading, Template } from './template.js';
 import { completePoints, EMPTY_TABLE, numberOrNull, seriesFinding } from './trend-points.js';
 
@@ -53,7 +54,7 @@ function withRowStats(reading: Reading, table: ResultTable | undefined): Reading
 
 export function readTrendSummary(sq: SubQuestion, table: ResultTable, ctx: ReadContext): Reading {
   const metric = sq.metrics[0]!;
-  const base = readSeries({ ...sq, metrics: [metric] }, table, ctx.coverage);
+  const base = readSeries({ ...sq, metrics: [metric] }, table, ctx.coverage, { dataset: ctx.dataset });
   const findings: Finding[] = [...base.findings];
   const caveats: Caveat[] = [...base.caveats];
   const series = seriesFinding(base.findings, metric);
@@ -81,16 +82,23 @@ export function readTrendSummary(sq: SubQuestion, table: ResultTable, ctx: ReadC
     maxPeriod: maxPoint.period,
   });
 
-  // A robust screen needs a few periods to estimate the spread from; below that everything looks odd.
+  // The same screen as every series (quality/series-outliers.ts): after the cycle and trend where there are
+  // cycles enough, so a July is not unusual for being July. It needs a few periods to estimate the spread from.
   if (complete.length >= MIN_PERIODS_FOR_OUTLIERS) {
-    const z = modifiedZScores(complete.map((p) => p.value));
-    if (z) {
-      for (const i of z.outlierIndices) {
-        const p = complete[i]!;
-        const score = z.scores[i]!;
-        findings.push({ type: 'trend_outlier', metric, grain: sq.grain, period: p.period, value: p.value, score, median: z.median, threshold: z.threshold });
-        caveats.push({ code: 'outlier', data: { metric, period: p.period, grain: sq.grain, score } });
-      }
+    const screen = screenSeries(series.points, sq.grain, modelOf(ctx.dataset, metric));
+    for (const u of screen?.unusual ?? []) {
+      findings.push({
+        type: 'trend_outlier',
+        metric,
+        grain: sq.grain,
+        period: u.period,
+        value: u.value,
+        score: u.score,
+        median: screen!.median,
+        threshold: screen!.threshold,
+        rule: screen!.rule,
+        ...(u.expected !== undefined ? { expected: u.expected } : {}),
+      });
     }
   }
   if (complete.length > 1 && complete.length < MIN_PERIODS_FOR_OUTLIERS) {

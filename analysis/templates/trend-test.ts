@@ -22,7 +22,7 @@ export const trendTestTemplate: Template = {
 export function readTrendTest(sq: SubQuestion, table: ResultTable, ctx: ReadContext): Reading {
   const metric = sq.metrics[0]!;
   const one = { ...sq, metrics: [metric] };
-  const base = readSeries(one, table, ctx.coverage);
+  const base = readSeries(one, table, ctx.coverage, { dataset: ctx.dataset });
   const findings: Finding[] = [...base.findings];
   const caveats: Caveat[] = [...base.caveats];
   const series = seriesFinding(base.findings, metric);

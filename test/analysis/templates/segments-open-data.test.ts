@@ -9,6 +9,7 @@ import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import type { SegmentSharesFinding, SegmentTrendFinding } from '../../../analysis/findings/segments.js';
 import { caveatNote } from '../../../analysis/captions/caveat-text.js';
 import { answerCaveats } from '../../../analysis/quality/thread-notes.js';
+import { screenSeries } from '../../../analysis/quality/series-outliers.js';
 import { SUB_QUESTIONS, type TemplateName } from '../../../analysis/sub-questions/registry.js';
 import type { SubQuestion } from '../../../analysis/types.js';
 import { FLIGHTS_JSON, STRIKES_CSV, flightsWorkspace, strikesWorkspace } from './open-data-tables.js';
@@ -131,29 +132,26 @@ describe('unusual periods are said once each, at their own grain', () => {
     expect(notes).toHaveLength(1);
     const text = caveatNote(notes[0]!, 'en-GB');
     // Independent: monthly sums of "Cost Total $" over the complete months (February 1990 to June
-    // 2002: the file starts on 8 January 1990 and ends on 25 July 2002), then the modified z-score
-    // of Iglewicz & Hoaglin (1993): 0.6745 (x - median) / MAD, unusual above 3.5.
+    // 2002: the file starts on 8 January 1990 and ends on 25 July 2002), summed here from the file,
+    // then screened by the same rule (quality/series-outliers.ts: modified z-score of what is left
+    // after the yearly pattern and trend), so the engine's sums, gaps and partial months are checked.
     const byMonth = new Map<string, number>();
     for (const s of strikes) byMonth.set(s.date.slice(0, 7), (byMonth.get(s.date.slice(0, 7)) ?? 0) + s.cost);
     const months = [...byMonth.keys()].filter((m) => m >= '1990-02' && m <= '2002-06').sort();
-    const values = months.map((m) => byMonth.get(m)!);
-    const median = (xs: number[]) => {
-      const s = [...xs].sort((a, b) => a - b);
-      return s.length % 2 ? s[(s.length - 1) / 2]! : (s[s.length / 2 - 1]! + s[s.length / 2]!) / 2;
-    };
-    const med = median(values);
-    const mad = median(values.map((v) => Math.abs(v - med)));
-    const unusual = values.filter((v) => Math.abs((0.6745 * (v - med)) / mad) > 3.5).length;
-    expect(text.startsWith(`${unusual} months are unusual`)).toBe(true);
-    const named = text.slice(text.indexOf(':') + 1).replace(/\.$/, '').split(/, | and /).map((x) => x.trim());
+    expect(months).toHaveLength(149);
+    const screen = screenSeries(months.map((m) => ({ period: `${m}-01`, value: byMonth.get(m)!, partial: false })), 'month', 'multiplicative')!;
+    expect(screen.rule).toBe('seasonal');
+    const unusual = screen.unusual.length;
+    expect(text.startsWith(`${unusual} months are unusual even for the time of year`)).toBe(true);
+    const named = text.slice(text.lastIndexOf(':') + 1).replace(/\.$/, '').split(/, | and /).map((x) => x.trim());
     expect(named.length).toBe(5);
     expect(new Set(named).size).toBe(named.length);
     // The caption names the five months furthest out (largest |z|), not every unusual month.
-    const z = months.map((m, i) => ({ m, z: Math.abs((0.6745 * (values[i]! - med)) / mad) })).sort((a, b) => b.z - a.z);
+    const z = screen.unusual.map((u) => ({ m: u.period.slice(0, 7), z: Math.abs(u.score) })).sort((a, b) => b.z - a.z);
     const monthName = (ym: string) => new Date(`${ym}-01T00:00:00Z`).toLocaleString('en-GB', { month: 'long', year: 'numeric', timeZone: 'UTC' });
     const { shown } = await present(strikesWs, sq);
     expect(unusual).toBeGreaterThan(5);
-    expect(shown.caption).toContain(`${unusual} months stand out from the rest; the 5 furthest out: `);
+    expect(shown.caption).toContain(`${unusual} months stand out once the usual yearly pattern and the trend are taken out; the 5 furthest out: `);
     const listed = /furthest out: (.*?)\.(?:\s|$)/.exec(shown.caption)![1]!;
     for (const { m } of z.slice(0, 5)) expect(listed).toContain(monthName(m));
     expect(listed).not.toContain(monthName(z[5]!.m));

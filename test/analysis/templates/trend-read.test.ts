@@ -85,7 +85,9 @@ describe('trend_summary reading', () => {
     expect(o).toHaveLength(1);
     expect(o[0]!.period).toBe('2023-11-01');
     expect(o[0]!.score).toBeCloseTo(0.6745 * 39, 12);
-    expect(r.caveats).toContainEqual({ code: 'outlier', data: { metric: 'bookings', period: '2023-11-01', grain: 'month', score: o[0]!.score } });
+    // One year is no cycle to measure a season from: the values themselves are screened, and the caveat says so.
+    expect(o[0]!.rule).toBe('values');
+    expect(r.caveats).toContainEqual({ code: 'outlier', data: { metric: 'bookings', period: '2023-11-01', grain: 'month', value: 50, score: o[0]!.score, rule: 'values', fallback: 'too_few_cycles' } });
   });
 });
 
