@@ -20,7 +20,7 @@ export const TINY_BASE_FRACTION = 0.1;
 
 /** What one quantity's values in a window allow a percentage change to be taken against. */
 export interface PercentScale {
-  /** Median of the absolute values in the window; null when there are none. */
+  /** Median of the absolute values in the window (of the non-zero ones for a count or sum); null when there are none. */
   typical: number | null;
   /**
    * The quantity is signed in this window: it went below zero, or (for an average, a ratio or a
@@ -37,7 +37,9 @@ export interface PercentScale {
 export function percentScale(values: readonly (number | null)[], zeroIsALevel: boolean): PercentScale {
   const present = values.filter(isNum);
   const signed = present.some((v) => v < 0 || (!zeroIsALevel && v === 0));
-  const abs = present.map(Math.abs).sort((a, b) => a - b);
+  // For a count or a sum, zero is "none" (a month without any cost), not its level: on a sparse
+  // quantity where most months are zero the median would be zero and any base would pass.
+  const abs = present.map(Math.abs).filter((v) => !zeroIsALevel || v > 0).sort((a, b) => a - b);
   const mid = abs.length >> 1;
   const typical = abs.length === 0 ? null : abs.length % 2 ? abs[mid]! : (abs[mid - 1]! + abs[mid]!) / 2;
   return { typical, signed };

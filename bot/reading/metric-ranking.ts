@@ -90,6 +90,11 @@ export function rankMetrics(ds: DatasetConfig, requestText: string, asked?: stri
   const real = pool.filter((m) => !isRowCount(m));
   // The dataset's own name ("Iowa electricity") asked as a measure: its one measure, when it has one.
   const ofDataset = askedWords.length > 0 && real.length === 1 && phraseWords(ds.label).map(stem).some((w) => askedWords.includes(w));
+  // A word of one measure's name beside the word asked, function words included ("other costs"
+  // for Cost Other), qualifies it: the total is then not the one meant.
+  const written = new Set(requestText.toLowerCase().split(/[^\p{L}\p{N}]+/u));
+  const qualifierOf = (m: Metric) => labelWords(m).filter((w) => w.length >= 3 && !askedWords.includes(stem(w)) && !TOTAL_IN_LABEL.test(w) && written.has(w)).length;
+  const qualified = askedWords.length > 0 && pool.some((m) => sharesWord(askedWords, m) && qualifierOf(m) > 0);
   const scored = pool.map((m, order) => {
     const byWord = askedWords.length > 0 && sharesWord(askedWords, m);
     const moneyIn = money && !isRowCount(m) && (MONEY_IN_LABEL.test(labelWords(m).join(' ')) || (m.unit === 'currency' && m.definition.type === 'sum' && !MONEY_OUT_LABEL.test(labelWords(m).join(' '))));
@@ -114,8 +119,8 @@ export function rankMetrics(ds: DatasetConfig, requestText: string, asked?: stri
       : order === 0 ? 'the headline metric of this dataset'
       : 'the first measure in the catalog after the row count';
     // An unqualified word ("cost") among its parts (Cost Other, Cost Repair, Cost Total) means the whole.
-    const whole = byWord && evidence.length === 0 && TOTAL_IN_LABEL.test(labelWords(m).join(' '));
-    return { m, order, tier, evidence: evidence.length, whole: whole ? 1 : 0, fits, reason: whole ? `${reason}; ${m.label} is the total of what "${asked}" can mean` : reason };
+    const whole = byWord && !qualified && TOTAL_IN_LABEL.test(labelWords(m).join(' '));
+    return { m, order, tier, evidence: Math.max(evidence.length, byWord ? qualifierOf(m) : 0), whole: whole ? 1 : 0, fits, reason: whole ? `${reason}; ${m.label} is the total of what "${asked}" can mean` : reason };
   });
   // The request's other words decide only between measures that answer the words asked.
   scored.sort((a, b) => b.tier - a.tier || (asked && a.tier >= 3 ? b.evidence - a.evidence || b.whole - a.whole : 0) || a.order - b.order);

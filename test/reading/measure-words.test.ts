@@ -170,5 +170,8 @@ describe('a breakdown the catalog lacks is asked, never replaced by the first', 
     expect(prompt?.options.slice(0, 3).map((o) => o.value)).toEqual(['cost_total', 'cost_other', 'cost_repair']);
     const repair = await read(files.strikes, 'how did repair cost change in 2000 against 1999?');
     expect(repair.brief.metrics.length === 1 ? repair.brief.metrics[0] : repair.prompt?.recommended.value).toBe('cost_repair');
+    // "other" is a function word, and still the word that names Cost Other here.
+    const other = await read(files.strikes, 'How did other costs from bird strikes change in 2000 compared with 1999?');
+    expect(other.brief.metrics.length === 1 ? other.brief.metrics[0] : other.prompt?.recommended.value).toBe('cost_other');
   });
 });

@@ -8,6 +8,7 @@ import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import type { GrowthDriversFinding, GrowthRateSummaryFinding, GrowthSeriesFinding } from '../../../analysis/findings/growth.js';
 import type { TrendTestFinding } from '../../../analysis/findings/segments.js';
 import { TINY_BASE_FRACTION } from '../../../analysis/stats/index.js';
+import { percentBaseUsable, percentScale } from '../../../analysis/stats/growth.js';
 import { SUB_QUESTIONS, type TemplateName } from '../../../analysis/sub-questions/registry.js';
 import type { SubQuestion } from '../../../analysis/types.js';
 import { FLIGHTS_TABLE, STRIKES_TABLE, flightsWorkspace, strikesWorkspace } from './open-data-tables.js';
@@ -55,6 +56,22 @@ const present = async (ws: Ws, sq: SubQuestion) => {
 };
 
 describe('a percentage of a tiny base is never given', () => {
+  it('a sparse cost (most months none): the usual level is that of the months with any, so US$70 is no base', async () => {
+    // "Cost Other" by month: most months are 0, so a median over them all was 0 and every base
+    // passed (a "+243,451%" month). Our SQL over the raw file gives the months and the median of
+    // those with a cost.
+    const months = await rows(`
+      SELECT CAST(date_trunc('month', "Flight Date") AS DATE) AS month, SUM("Cost Other")::DOUBLE AS cost
+      FROM strikes GROUP BY 1 ORDER BY 1`);
+    const values = months.map((r) => Number(r.cost));
+    expect(values.filter((v) => v === 0).length).toBeGreaterThan(values.length / 2);
+    const [{ med }] = (await rows(`SELECT median(c) AS med FROM (SELECT SUM("Cost Other")::DOUBLE AS c FROM strikes GROUP BY date_trunc('month', "Flight Date")) WHERE c > 0`)) as [{ med: number }];
+    const scale = percentScale(values, true);
+    expect(scale.typical).toBeCloseTo(Number(med), 6);
+    expect(percentBaseUsable(70, scale)).toBe(false);
+    expect(percentBaseUsable(Number(med), scale)).toBe(true);
+  });
+
   it('wildlife-strike costs by month: a September of US$313 gives the next September no percentage, and the summary leads with the median', async () => {
     const sq = question('growth_summary', 'cost_total', { start: '1990-02-01', end: '2002-07-01' });
     const { answer, text } = await present(strikesWs, sq);
@@ -64,12 +81,13 @@ describe('a percentage of a tiny base is never given', () => {
     // Our SQL: monthly sums of "Cost Total $" over the window, their median absolute level, and
     // each month's change on the same month a year earlier where the base is at least a tenth of it.
     // Months without a strike have no row, so no value: no rate is taken to or from them (the
-    // project says so in a note); the typical level is over the months that have one.
+    // project says so in a note); the typical level is over the months that have a cost (a month
+    // of strikes without any cost is "none", not the level: on a sparse cost most months are 0).
     const months = await rows(`
       WITH m AS (
         SELECT CAST(date_trunc('month', "Flight Date") AS DATE) AS month, SUM("Cost Total $")::DOUBLE AS cost
         FROM strikes WHERE "Flight Date" >= DATE '1990-02-01' AND "Flight Date" < DATE '2002-07-01' GROUP BY 1
-      ), typical AS (SELECT median(abs(cost)) AS med FROM m)
+      ), typical AS (SELECT median(abs(cost)) FILTER (WHERE cost <> 0) AS med FROM m)
       SELECT strftime(a.month, '%Y-%m-%d') AS month, a.cost, b.cost AS base, typical.med
       FROM m a JOIN m b ON b.month = a.month - INTERVAL 1 YEAR CROSS JOIN typical
       ORDER BY 1`);
