@@ -212,16 +212,27 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
   else if (request.ranking) title = `${capitalise(segmentLabel(named[0]!))} has the most ${noun}: ${formatValue(named[0]!.value, fmt, { compact: true })} (${formatShare(named[0]!.share, locale, true)})`;
   else if (k === 1) title = `${capitalise(segmentLabel(named[0]!))} carries ${formatShare(named[0]!.share, locale)} of ${noun}`;
   else if (k !== null) title = `${capitalise(countWord(k, locale))} ${plural} carry ${formatShare(half!.cumulativeShare, locale)} of ${noun}`;
+  else if (f.countToThreshold !== null && f.countToThreshold > 1) title = `${capitalise(paretoCount(f, locale, plural))} carry ${formatShare(f.threshold, locale)} of ${noun}`;
   else title = `${capitalise(plural)} are spread out: the largest carries ${formatShare(named[0]!.share, locale)} of ${noun}`;
 
   const namesOf = (rows: readonly SegmentShareRow[]) => rows.map((r) => `${segmentLabel(r)} (${formatShare(r.share, locale, true)})`);
   const joinNames = (xs: string[]) => (xs.length <= 1 ? xs.join('') : `${xs.slice(0, -1).join(', ')} and ${xs[xs.length - 1]}`);
-  const lead = k !== null && k > 1 ? `${joinNames(namesOf(named.slice(0, k)))} together ${verbFor(k)} ${formatShare(half!.cumulativeShare, locale, true)} of ${noun}` : `${joinNames(namesOf(named.slice(0, 1)))} ${verbFor(1)} the most`;
+  // Half the total held by more segments than are named: the largest few are named instead.
+  const largest = named.filter((r) => r.share !== null).slice(0, Math.min(3, named.length));
+  const lead =
+    k !== null && k > 1
+      ? `${joinNames(namesOf(named.slice(0, k)))} together ${verbFor(k)} ${formatShare(half!.cumulativeShare, locale, true)} of ${noun}`
+      : k === null && largest.length > 1
+        ? `the largest are ${joinNames(namesOf(largest))}`
+        : `${joinNames(namesOf(named.slice(0, 1)))} ${verbFor(1)} the most`;
   const c = f.countToThreshold;
+  const reached = f.reachShare ?? (c !== null ? named[c - 1]?.cumulativeShare ?? null : null);
+  // The 80% mark is a convention ("80/20", common practice), said so once.
+  const convention = ` (the ${formatShare(f.threshold, locale)} mark is a common rule of thumb, not a law)`;
   const reach =
     c === null
       ? `the ${named.length} largest ${plural} shown carry ${formatShare(named[named.length - 1]!.cumulativeShare, locale, true)}, short of ${formatShare(f.threshold, locale)}`
-      : `${countWord(c, locale)} ${c === 1 ? `${inSentence(dim.label)} reaches` : `${plural} reach`} ${formatShare(f.threshold, locale)} (${formatShare(named[c - 1]!.cumulativeShare, locale, true)})`;
+      : `${c === 1 ? `${paretoCount(f, locale, inSentence(dim.label))} reaches` : `${paretoCount(f, locale, plural)} reach`} ${formatShare(f.threshold, locale)} of ${noun}${reached !== null ? `, together ${formatShare(reached, locale, true)}` : ''}${convention}`;
   // "top 10": the share of as many as were asked, and why fewer are named when they are.
   const asked = f.topNAsked ?? null;
   const askedTop = asked !== null && f.topNShare !== null ? `the top ${f.topN} ${plural} carry ${formatShare(f.topNShare, locale, true)}` : null;
@@ -243,7 +254,7 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
     caption = `${capitalise(lead)}; ${askedTop ? `${askedTop}${c === null ? '' : `; ${reach}`}` : reach}.${fewerLine}${foldLine}`;
   } else {
     const top = k !== null ? `${capitalise(countWord(k, locale))} ${k === 1 ? inSentence(dim.label) : plural} ${verbFor(k)} about ${formatShare(half!.cumulativeShare, locale)} of ${noun}` : `No single ${inSentence(dim.label)} dominates ${noun}`;
-    const more = c !== null && (k === null || c > k) ? `; ${countWord(c, locale)} carry over ${formatShare(f.threshold, locale)}` : '';
+    const more = c !== null && (k === null || c > k) ? `; ${paretoCount(f, locale, plural)} carry over ${formatShare(f.threshold, locale)}` : '';
     caption = `${top}${more}.`;
   }
   return { title, caption };
@@ -285,6 +296,16 @@ function perDayRankingWords(metric: Metric, dim: Dim, f: SegmentSharesFinding, l
   const share = f.total !== null && top.share !== null ? ` ${capitalise(segmentLabel(top))} carries ${formatShare(top.share, locale, true)} of ${noun}.` : '';
   const others = otherChanged > 0 ? ` Of those not shown, ${countOf(otherChanged, inSentence(dim.label), locale, plural)} opened or closed inside the period; each is counted over its own days.` : '';
   return { title, caption: `Ranked ${descending ? 'highest' : 'lowest'} first, ${noun} per day: ${list}.${basis}${lives.length ? ` ${lives.join(' ')}` : ''}${others}${share}${foldLine}` };
+}
+
+/**
+ * The Pareto count with what it is out of, "47 of 229 airports (21%)", when the tail is folded;
+ * the bare count ("three airports") when every segment is named anyway.
+ */
+function paretoCount(f: SegmentSharesFinding, locale: string, noun: string): string {
+  const c = f.countToThreshold!;
+  if (f.folded === 0 || f.segmentCount <= 0) return `${countWord(c, locale)} ${noun}`;
+  return `${formatValue(c, { unit: 'count', locale })} of ${formatValue(f.segmentCount, { unit: 'count', locale })} ${noun} (${formatShare(c / f.segmentCount, locale)})`;
 }
 
 function bandWords(band: SegmentSharesFinding['hhiBand']): string {

@@ -19,7 +19,15 @@ export interface ParetoInput extends ChartHeader {
   folded?: SegmentValue | null;
   /** Reference share (default 0.8: the "80/20" line). */
   threshold?: number;
+  /**
+   * How many segments reach the threshold, out of how many, and what they are ("origin airports"),
+   * when known over every segment (the count may lie inside the fold): said on the reference line.
+   */
+  reach?: { count: number; of: number; noun: string } | null;
 }
+
+/** A fold this many times the largest named bar would flatten them all: it is drawn broken. */
+export const FOLD_BREAK_RATIO = 1.5;
 
 export function buildPareto(input: ParetoInput): ParetoSpec {
   const threshold = input.threshold ?? 0.8;
@@ -44,6 +52,13 @@ export function buildPareto(input: ParetoInput): ParetoSpec {
   });
   // A small tolerance so 0.8 accumulated in floating point still counts as reaching 80%.
   const thresholdIndex = total > 0 ? bars.findIndex((b) => b.cumulative >= threshold - 1e-9) : -1;
+  const pct = formatValue(threshold, shareFmt);
+  const count = (n: number) => formatValue(n, { unit: 'count', locale: input.format.locale });
+  const reach = input.reach;
+  const thresholdText = reach && reach.count > 0 ? `${pct} of total: ${count(reach.count)} of ${count(reach.of)} ${reach.noun}` : `${pct} of total`;
+  const namedMax = Math.max(0, ...bars.filter((b) => !b.other).map((b) => b.value));
+  const fold = bars.find((b) => b.other);
+  const foldBroken = !!fold && namedMax > 0 && fold.value > FOLD_BREAK_RATIO * namedMax;
   return {
     kind: 'pareto',
     ...headerOf(input),
@@ -51,6 +66,8 @@ export function buildPareto(input: ParetoInput): ParetoSpec {
     bars,
     threshold,
     thresholdIndex,
+    thresholdText,
+    foldBroken,
     valueLabel: input.valueLabel,
   };
 }

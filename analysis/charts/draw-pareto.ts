@@ -30,7 +30,8 @@ export function drawPareto(canvas: Canvas, spec: ParetoSpec): DrawResult {
   ctx.font = font(tickFont(layout).size);
   const labels = spec.bars.map((b) => wrapText(ctx, b.label, slot - 8 * u, 3));
   const pctFmt = { unit: 'percent' as const, decimals: 0, locale: spec.format.locale };
-  const aligned = alignedScale(spec.bars.map((b) => b.value));
+  // A fold that dwarfs the named bars is broken at the top: the axis is scaled to the named ones.
+  const aligned = alignedScale(spec.bars.filter((b) => !(spec.foldBroken && b.other)).map((b) => b.value));
 
   const config = {
     type: 'bar',
@@ -61,6 +62,8 @@ export function drawPareto(canvas: Canvas, spec: ParetoSpec): DrawResult {
           barPercentage: 0.9,
           maxBarThickness: 90 * u,
           borderRadius: 2 * u,
+          // The broken fold runs past the top of the axis and is cut at the plot's edge.
+          clip: 0,
           order: 1,
         },
       ],
@@ -148,7 +151,8 @@ export function drawPareto(canvas: Canvas, spec: ParetoSpec): DrawResult {
         ...cumulative.map((k) => ({ kind: 'box' as const, box: inflate(k.box, 2 * u), weight: 100 })),
         ...polyline(meta.data.map((el) => ({ x: el.x, y: el.y }))).map((segment) => ({ kind: 'segment' as const, segment, weight: 30 })),
       ];
-      const label = `${formatValue(spec.threshold, pctFmt)} of total`;
+      if (spec.foldBroken) drawFoldBreak(cx, c.getDatasetMeta(1).data, spec, area, u, obstacles);
+      const label = spec.thresholdText;
       const labelFont = font(13 * u, true);
       cx.font = labelFont;
       const lm = cx.measureText(label);
@@ -175,6 +179,45 @@ export function drawPareto(canvas: Canvas, spec: ParetoSpec): DrawResult {
   geometry.cells = barBoxes.map((b) => scaleBox(b, s));
   // chart.js clears the canvas when destroyed, so the caller releases it after encoding.
   return { geometry, release: () => chart.destroy() };
+}
+
+/**
+ * The fold's bar cut at the top of the plot: a white zigzag gap across it, so it reads as taller
+ * than drawn, and its value written inside it under the gap (added to the obstacles of later labels).
+ */
+function drawFoldBreak(cx: ReturnType<Canvas['getContext']>, bars: readonly unknown[], spec: ParetoSpec, area: Box, u: number, obstacles: Obstacle[]): void {
+  const i = spec.bars.findIndex((b) => b.other);
+  const el = bars[i] as { x: number; width: number } | undefined;
+  if (!el) return;
+  const left = el.x - el.width / 2 - 2 * u;
+  const right = el.x + el.width / 2 + 2 * u;
+  const y = area.top + 22 * u;
+  const gap = 7 * u;
+  const teeth = 4;
+  const step = (right - left) / teeth;
+  const zigzag = (dy: number) => {
+    cx.moveTo(left, y + dy);
+    for (let k = 1; k <= teeth; k++) cx.lineTo(left + k * step, y + dy + (k % 2 === 1 ? -4 * u : 0));
+  };
+  cx.save();
+  cx.fillStyle = INK.background;
+  cx.beginPath();
+  zigzag(0);
+  for (let k = teeth; k >= 0; k--) cx.lineTo(left + k * step, y + gap + (k % 2 === 1 ? -4 * u : 0));
+  cx.closePath();
+  cx.fill();
+  cx.restore();
+  const bar = spec.bars[i]!;
+  const text = bar.text;
+  const textFont = font(13 * u, true);
+  cx.font = textFont;
+  const m = cx.measureText(text);
+  const pad = 2 * u;
+  const w = m.width + 2 * pad;
+  const h = m.actualBoundingBoxAscent + m.actualBoundingBoxDescent + 2 * pad;
+  const box = { left: el.x - w / 2, top: y + gap + 6 * u, right: el.x + w / 2, bottom: y + gap + 6 * u + h };
+  drawBackedText(cx, text, box.left + pad, box.top + pad, { font: textFont, color: INK.title, align: 'left', baseline: 'top', pad });
+  obstacles.push({ kind: 'box', box: inflate(box, 2 * u), weight: 100 });
 }
 
 /**

@@ -118,6 +118,13 @@ export interface ParetoSpec extends ChartHeader {
   threshold: number;
   /** First bar at which the cumulative share reaches the threshold; -1 when none does. */
   thresholdIndex: number;
+  /** Words on the reference line: "80% of total", or "80% of total: 47 of 229 airports" when the count is known. */
+  thresholdText: string;
+  /**
+   * The fold ("All others") dwarfs the named bars: the value axis is scaled to the named bars and
+   * the fold's bar is drawn broken at the top, its value written on it.
+   */
+  foldBroken: boolean;
   /** Axis title of the bars' axis, e.g. "Revenue". */
   valueLabel: string;
 }

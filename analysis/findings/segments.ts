@@ -268,8 +268,10 @@ export interface SegmentSharesFinding {
   /** Largest first, any "All others" fold last. */
   rows: SegmentShareRow[];
   threshold: number;
-  /** Fewest segments reaching the threshold; null when shares do not apply or it lies inside the fold. */
+  /** Fewest segments (largest first, over every segment, folded or not) reaching the threshold; null when shares do not apply. */
   countToThreshold: number | null;
+  /** The share those countToThreshold segments hold together (at least the threshold). */
+  reachShare?: number | null;
   topN: number;
   /** How many the request asked for ("top 10"): topN is that number (up to MAX_NAMED_SEGMENTS) and the answer says that share. */
   topNAsked?: number | null;

@@ -3,7 +3,7 @@
 import { buildBars } from '../charts/build-bars.js';
 import { buildPareto } from '../charts/build-pareto.js';
 import { segmentSharesWords } from '../captions/trend-segments-caption.js';
-import { segmentLabel } from '../captions/trend-words.js';
+import { dimensionPlural, segmentLabel } from '../captions/trend-words.js';
 import { rowNoun } from '../captions/performance-words.js';
 import { pluralNoun } from '../captions/grammar.js';
 import { dimensionByName, metricByName } from '../catalog.js';
@@ -36,7 +36,7 @@ export const presentSegmentShares: Presenter = (answer, ctx) => {
     const sharesApply = f.rows.some((r) => r.share !== null);
     if (items.length + (folded ? 1 : 0) > 0) {
       chart = sharesApply
-        ? buildPareto({ ...header, items, folded, format, valueLabel: metric.label, threshold: f.threshold })
+        ? buildPareto({ ...header, items, folded, format, valueLabel: metric.label, threshold: f.threshold, reach: f.countToThreshold !== null && f.folded > 0 ? { count: f.countToThreshold, of: f.segmentCount, noun: dimensionPlural(dim) } : null })
         : buildBars({ ...header, items, folded, format });
     }
   }

@@ -2,10 +2,12 @@
 // cumulative shares, how many segments make up 80%, the top-N share and the HHI. Shares only
 // exist for sums and counts; any other metric gets its per-segment values and no shares.
 import { addsAcrossSegments, metricByName, rankDescending } from '../catalog.js';
+import { type CompileContext, measureSql, tableRef, whereClause } from '../compile-context.js';
+import { QueryBuilder } from '../sql/query-builder.js';
 import type { SegmentDays, SegmentRanking, SegmentShareRow, SegmentSharesFinding } from '../findings/segments.js';
 import { addDays } from '../periods.js';
 import { concentration, hhiBand } from '../stats/index.js';
-import type { Caveat, ResultTable, SubQuestion } from '../types.js';
+import type { Caveat, CompiledQuery, ResultTable, SubQuestion } from '../types.js';
 import { compileFoldedSegments, foldedAs, namedSegmentCount, perDayAsked, RANK_FLOOR, segmentDimension } from './segments-fold-sql.js';
 import { foldedCaveats, readSegmentTotals, type FoldedRow } from './segments-read.js';
 import { minGroupSize } from './small-groups.js';
@@ -20,12 +22,51 @@ export const SHARE_TOP_N = 3;
 export const segmentSharesTemplate: Template = {
   compile: (sq, ctx) => {
     segmentDimension(sq, ctx);
-    return [{ name: 'segment_totals', ...compileFoldedSegments(sq, ctx, { topN: namedSegmentCount(sq), grain: null, totals: true, perRow: perRowAsked(sq, ctx.dataset), perDay: perDayAsked(sq, ctx.dataset) }) }];
+    const totals = { name: 'segment_totals', ...compileFoldedSegments(sq, ctx, { topN: namedSegmentCount(sq), grain: null, totals: true, perRow: perRowAsked(sq, ctx.dataset), perDay: perDayAsked(sq, ctx.dataset) }) };
+    return sharesAsked(sq, ctx.dataset) ? [totals, { name: 'segment_reach', ...compileReach(sq, ctx) }] : [totals];
   },
-  read: (sq, tables, ctx) => readSegmentShares(sq, tables.segment_totals ?? EMPTY_TABLE, ctx),
+  read: (sq, tables, ctx) => readSegmentShares(sq, tables.segment_totals ?? EMPTY_TABLE, ctx, tables.segment_reach),
 };
 
-export function readSegmentShares(sq: SubQuestion, table: ResultTable, ctx: ReadContext): Reading {
+/** Whether the sub-question's segments have shares of a total (a sum or a count, largest first, not per row or per day). */
+function sharesAsked(sq: SubQuestion, ds: ReadContext['dataset']): boolean {
+  const metric = metricByName(ds, sq.metrics[0]!);
+  return addsAcrossSegments(metric) && !perRowAsked(sq, ds) && !perDayAsked(sq, ds) && (!sq.rankOrder || rankDescending(metric, sq.rankOrder));
+}
+
+/**
+ * The Pareto count over every segment, folded or not: the fewest segments, largest first, whose
+ * running sum reaches SHARE_THRESHOLD of the total (reach_count), the share they hold
+ * (reach_share), and how many segments there are. Ties do not change it: equal sizes give equal
+ * running sums whichever comes first. A missing size counts as zero, as on reading.
+ */
+export function compileReach(sq: SubQuestion, ctx: CompileContext): CompiledQuery {
+  const q = new QueryBuilder(ctx.dialect);
+  const d = ctx.dialect;
+  const dim = segmentDimension(sq, ctx);
+  const metric = metricByName(ctx.dataset, sq.metrics[0]!);
+  // The same tolerance as the stats module: a running share that should be exactly 80% may fall short by rounding.
+  const threshold = d.toDouble(q.bind(SHARE_THRESHOLD - 1e-12));
+  return q.finish(`WITH tc_reach_sizes AS (
+  SELECT ${q.ident(dim.column)} AS tc_value, COALESCE(${measureSql(q, ctx, metric)}, 0) AS tc_size
+  FROM ${tableRef(q, ctx)}
+  WHERE ${whereClause(q, ctx, sq.window, sq.filters)}
+  GROUP BY 1
+), tc_reach_run AS (
+  SELECT tc_size,
+    ROW_NUMBER() OVER (ORDER BY tc_size DESC) AS tc_rank,
+    SUM(tc_size) OVER (ORDER BY tc_size DESC ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) AS tc_run,
+    SUM(tc_size) OVER () AS tc_total
+  FROM tc_reach_sizes
+)
+SELECT ${d.toDouble(`MIN(CASE WHEN tc_run >= ${threshold} * tc_total THEN tc_rank END)`)} AS reach_count,
+  ${d.toDouble(`MIN(CASE WHEN tc_run >= ${threshold} * tc_total THEN tc_run END)`)} / NULLIF(${d.toDouble('MAX(tc_total)')}, 0) AS reach_share,
+  ${d.toDouble('COUNT(*)')} AS reach_segments,
+  ${d.toDouble('MIN(tc_size)')} AS reach_min
+FROM tc_reach_run`);
+}
+
+export function readSegmentShares(sq: SubQuestion, table: ResultTable, ctx: ReadContext, reach?: ResultTable): Reading {
   const metricName = sq.metrics[0]!;
   const metric = metricByName(ctx.dataset, metricName);
   const dimension = sq.dimension ?? '';
@@ -82,7 +123,7 @@ export function readSegmentShares(sq: SubQuestion, table: ResultTable, ctx: Read
     caveats.push({ code: 'base_zero', data: { metric: metricName } });
     return { findings: [{ ...base, total }], caveats };
   }
-  return { findings: [base.folded > 0 ? foldedShares(base, rows, values, first) : exactShares(base, rows, values)], caveats };
+  return { findings: [base.folded > 0 ? foldedShares(base, rows, values, first, reach) : exactShares(base, rows, values)], caveats };
 }
 
 /** The direction the request ranked in, and the row floor the query applied to an average or a rate. */
@@ -118,15 +159,16 @@ function exactShares(base: SegmentSharesFinding, rows: readonly FoldedRow[], val
   if (c.kind !== 'ok') return base;
   const byId = new Map(rows.map((r) => [r.id, r]));
   const shareRows: SegmentShareRow[] = c.pareto.map((p) => ({ ...keyOf(byId.get(p.key)!), rank: p.rank, value: p.value, share: p.share, cumulativeShare: p.cumulativeShare }));
-  return { ...base, total: c.total, rows: shareRows, countToThreshold: c.countToThreshold, topNShare: c.topNShare, hhi: c.hhi, hhiBand: c.band };
+  const reachShare = c.pareto[c.countToThreshold - 1]?.cumulativeShare ?? null;
+  return { ...base, total: c.total, rows: shareRows, countToThreshold: c.countToThreshold, reachShare, topNShare: c.topNShare, hhi: c.hhi, hhiBand: c.band };
 }
 
 /**
  * The tail is folded: named segments in rank order, then the fold. The count to the threshold is
- * known only if the named segments reach it; the HHI comes from the database's sum of squared
+ * the database's, over every segment (segment_reach); the HHI comes from the database's sum of squared
  * segment values over every segment, since the fold's square is not the sum of its members' squares.
  */
-function foldedShares(base: SegmentSharesFinding, rows: readonly FoldedRow[], values: readonly number[], first: ResultTable['rows'][number]): SegmentSharesFinding {
+function foldedShares(base: SegmentSharesFinding, rows: readonly FoldedRow[], values: readonly number[], first: ResultTable['rows'][number], reachTable?: ResultTable): SegmentSharesFinding {
   const total = values.reduce((a, b) => a + b, 0);
   let running = 0;
   const shareRows: SegmentShareRow[] = rows.map((r, i) => {
@@ -140,11 +182,17 @@ function foldedShares(base: SegmentSharesFinding, rows: readonly FoldedRow[], va
   const sumSquares = numberOrNull(first.sum_squares);
   const minSegment = numberOrNull(first.min_segment_value);
   const hhi = grandTotal !== null && grandTotal > 0 && sumSquares !== null && (minSegment ?? 0) >= 0 ? (10_000 * sumSquares) / (grandTotal * grandTotal) : null;
+  // Past the named segments, the count comes from the database's running sum over every segment.
+  const sql = reachTable?.rows[0];
+  const sqlCount = sql && (numberOrNull(sql.reach_min) ?? -1) >= 0 ? numberOrNull(sql.reach_count) : null;
+  // (The database's count wins: a segment folded for its size is not among the named ones.)
+  const count = sqlCount ?? (reach ? named.indexOf(reach) + 1 : null);
   return {
     ...base,
     total,
     rows: shareRows,
-    countToThreshold: reach ? named.indexOf(reach) + 1 : null,
+    countToThreshold: count,
+    reachShare: sqlCount !== null ? numberOrNull(sql!.reach_share) : reach ? reach.cumulativeShare : null,
     topNShare: topN.length === base.topN ? topN[topN.length - 1]!.cumulativeShare : null,
     hhi,
     hhiBand: hhi === null ? null : hhiBand(hhi),

@@ -348,8 +348,8 @@ describe('segment_shares presenter', () => {
 
   it('titles the fewest routes carrying half of revenue; words vary by audience', () => {
     expect(present(a, 'managers').title).toBe('Two routes carry 71% of revenue');
-    expect(present(a, 'managers').caption).toBe('Mainland–Tern Holm (39.9%) and Mainland–Saltreach (31.3%) together carry 71.2% of revenue; three routes reach 80% (85.2%).');
-    expect(present(a, 'leadership').caption).toBe('Two routes carry about 71% of revenue; three carry over 80%.');
+    expect(present(a, 'managers').caption).toBe('Mainland–Tern Holm (39.9%) and Mainland–Saltreach (31.3%) together carry 71.2% of revenue; three routes reach 80% of revenue, together 85.2% (the 80% mark is a common rule of thumb, not a law).');
+    expect(present(a, 'leadership').caption).toBe('Two routes carry about 71% of revenue; three routes carry over 80%.');
     expect(present(a, 'leadership').caption).not.toMatch(STATS_WORDS);
     expect(present(a, 'analysts').caption).toContain('HHI 2,883 (highly concentrated by the 2010 US Horizontal Merger Guidelines bands); top 3 share 85.2%.');
   });
