@@ -53,7 +53,11 @@ export function caveatNote(c: Caveat, locale: string): string {
     case 'outlier': {
       const grain = (typeof d.grain === 'string' ? d.grain : 'month') as Grain;
       const how = outlierRuleText(d.rule, d.cycle, d.fallback, grain);
-      if (typeof d.count !== 'number') return `${period(d.period, d.grain)} is ${how.one}.`;
+      if (typeof d.periods === 'string') {
+        const all = d.periods.split(',').filter(Boolean).map((p) => formatPeriod(p, grain, locale, 'long'));
+        if (all.length > 1) return `${listJoin(all)} are ${how.many}.`;
+      }
+      if (typeof d.count !== 'number') return `${period(d.periods ?? d.period, d.grain)} is ${how.one}.`;
       const names = String(d.examples ?? '').split(',').filter(Boolean).map((p) => formatPeriod(p, grain, locale, 'long'));
       return `${countOf(d.count, grain, 'en', grain === 'day' ? 'days' : undefined)} are ${how.many}; the ${names.length} most extreme: ${listJoin(names)}.`;
     }
@@ -136,6 +140,10 @@ export function caveatFlag(c: Caveat): string {
   if (c.code === 'empty_period' && c.data.leading === true) return 'The series starts at the first period with matching rows.';
   // A fold by value holds lower (or higher) values, not a long tail of small segments.
   if (c.code === 'segments_folded' && (c.data.folded === 'lower' || c.data.folded === 'higher')) return `Segments with ${c.data.folded} values are combined as "All others".`;
+  // Judged after the cycle: a reader of the image alone learns that July was weighed against other Julys.
+  if (c.code === 'outlier' && (c.data.rule === 'seasonal' || c.data.rule === 'seasonal_and_values')) {
+    return c.data.cycle === 7 ? 'Some periods are unusual even for their day of the week.' : 'Some periods are unusual even for the time of year.';
+  }
   const flags: Record<Caveat['code'], string> = {
     partial_period: 'A period with part of its data is drawn dashed.',
     partial_period_excluded: 'A period with part of its data is left out.',

@@ -61,9 +61,12 @@ export function measureNotes(caveats: readonly Caveat[], coverage: Coverage, sq:
 /** Past this many unusual periods, one note counts them and names the most extreme few. */
 const OUTLIERS_NAMED = 5;
 
-/** One `outlier` caveat per metric for many unusual periods ("235 days are unusual; the five most extreme: ..."), never one per row. */
+/**
+ * One `outlier` caveat per metric and grain: a lone period as it is, a few named together ("March 2012 and December
+ * 2015 are unusual ..."), many counted ("235 days are unusual; the five most extreme: ..."), never one per row.
+ */
 export function summariseOutliers(caveats: readonly Caveat[]): Caveat[] {
-  const outliers = caveats.filter((c) => c.code === 'outlier' && c.data.count === undefined);
+  const outliers = caveats.filter((c) => c.code === 'outlier' && c.data.count === undefined && c.data.periods === undefined);
   // One answer may screen the same series twice (its summary and its series): a period is said once.
   // Grouped by metric and grain, so each note names its periods at their own grain.
   const byMetric = new Map<string, Caveat[]>();
@@ -75,29 +78,28 @@ export function summariseOutliers(caveats: readonly Caveat[]): Caveat[] {
     const key = `${String(c.data.metric ?? '')}|${String(c.data.grain ?? 'month')}`;
     byMetric.set(key, [...(byMetric.get(key) ?? []), c]);
   }
-  const once = [...byMetric.values()].flat();
-  if (once.length <= OUTLIERS_NAMED) return caveats.filter((c) => !outliers.includes(c) || once.includes(c));
   const summaries: Caveat[] = [];
   for (const [key, group] of byMetric) {
     const metric = key.slice(0, key.lastIndexOf('|'));
-    if (group.length <= OUTLIERS_NAMED) {
+    if (group.length === 1) {
       summaries.push(...group);
       continue;
     }
+    const common = {
+      ...(metric ? { metric } : {}),
+      grain: group[0]!.data.grain ?? 'month',
+      // How they were judged, so the note says "even for their day of the week" (one screen per series).
+      ...(group[0]!.data.rule !== undefined ? { rule: group[0]!.data.rule } : {}),
+      ...(group[0]!.data.cycle !== undefined ? { cycle: group[0]!.data.cycle } : {}),
+      ...(group[0]!.data.fallback !== undefined ? { fallback: group[0]!.data.fallback } : {}),
+    };
+    // A few: one note naming each in time order ("March 2012 and December 2015 are unusual ..."), not one note apiece.
+    if (group.length <= OUTLIERS_NAMED) {
+      summaries.push({ code: 'outlier', data: { ...common, periods: group.map((c) => String(c.data.period)).sort().join(',') } });
+      continue;
+    }
     const extreme = [...group].sort((a, b) => Math.abs(Number(b.data.score ?? 0)) - Math.abs(Number(a.data.score ?? 0)) || String(a.data.period).localeCompare(String(b.data.period)));
-    summaries.push({
-      code: 'outlier',
-      data: {
-        ...(metric ? { metric } : {}),
-        count: group.length,
-        grain: group[0]!.data.grain ?? 'month',
-        // How they were judged, so the note says "even for their day of the week" (one screen per series).
-        ...(group[0]!.data.rule !== undefined ? { rule: group[0]!.data.rule } : {}),
-        ...(group[0]!.data.cycle !== undefined ? { cycle: group[0]!.data.cycle } : {}),
-        ...(group[0]!.data.fallback !== undefined ? { fallback: group[0]!.data.fallback } : {}),
-        examples: extreme.slice(0, OUTLIERS_NAMED).map((c) => String(c.data.period)).join(','),
-      },
-    });
+    summaries.push({ code: 'outlier', data: { ...common, count: group.length, examples: extreme.slice(0, OUTLIERS_NAMED).map((c) => String(c.data.period)).join(',') } });
   }
   return [...caveats.filter((c) => !outliers.includes(c)), ...summaries];
 }
