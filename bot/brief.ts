@@ -113,7 +113,7 @@ export interface Brief {
    * about: the same periods counted back from the data's end (2017 against 2016), which the period
    * prompt recommends, as relative periods count back from there.
    */
-  latestInstead?: { unit: 'year' | 'quarter' | 'month'; window: DateWindow; compareWindow?: DateWindow };
+  latestInstead?: { unit: 'year' | 'quarter' | 'month' | 'season'; window: DateWindow; compareWindow?: DateWindow };
   /** What relative periods were counted from. */
   anchor?: { today: string; why: string };
   /** How each slot was read. */

@@ -4,6 +4,7 @@ import type { DatasetConfig } from '../config/schema.js';
 import type { Coverage } from '../analysis/coverage.js';
 import { inSentence } from '../analysis/captions/grammar.js';
 import { formatPeriod } from '../analysis/format.js';
+import { seasonOf } from './reading/calendar.js';
 import { shortWindow } from '../analysis/window-words.js';
 import { addDays, addMonths, periodStart } from '../analysis/periods.js';
 import { finestGrain, isFinerGrain } from '../analysis/grains.js';
@@ -118,20 +119,26 @@ function windowPrompt(brief: Brief, ctx: PromptContext): Prompt {
   // the data's end, as the card says relative periods are, recommended first.
   const instead = brief.latestInstead;
   if (instead) {
-    const said = (w: DateWindow) => formatPeriod(w.start, instead.unit, ctx.locale);
-    const typed = (w: DateWindow) => (instead.unit === 'year' ? w.start.slice(0, 4) : instead.unit === 'quarter' ? `Q${Math.floor(Number(w.start.slice(5, 7)) / 3) + 1} ${w.start.slice(0, 4)}` : w.start.slice(0, 7));
+    // A season is said and typed by its name and label year ("summer 2015"; a northern winter by its January's year).
+    const seasonWords = (w: DateWindow) => {
+      const s = seasonOf(w.start, ctx.dataset.hemisphere ?? 'north');
+      return `${s.season} ${s.year}`;
+    };
+    const said = (w: DateWindow) => (instead.unit === 'season' ? seasonWords(w) : formatPeriod(w.start, instead.unit, ctx.locale));
+    const unitWord = instead.unit === 'season' ? seasonWords(instead.window).split(' ')[0]! : instead.unit;
+    const typed = (w: DateWindow) => (instead.unit === 'season' ? seasonWords(w) : instead.unit === 'year' ? w.start.slice(0, 4) : instead.unit === 'quarter' ? `Q${Math.floor(Number(w.start.slice(5, 7)) / 3) + 1} ${w.start.slice(0, 4)}` : w.start.slice(0, 7));
     const latest: PromptOption = {
       value: instead.compareWindow ? `${typed(instead.window)} vs ${typed(instead.compareWindow)}` : typed(instead.window),
       label: instead.compareWindow
-        ? `${said(instead.window)} against ${said(instead.compareWindow)} (the data's latest ${instead.unit} and the one before)`
-        : `${said(instead.window)} (the data's latest ${instead.unit})`,
+        ? `${capitalise(said(instead.window))} against ${said(instead.compareWindow)} (the data's latest ${unitWord} and the one before)`
+        : `${capitalise(said(instead.window))} (the data's latest ${unitWord})`,
     };
     const rest = options.filter((o) => o.value !== latest.value);
     return {
       topic: 'window',
       question,
       options: [latest, ...rest],
-      recommended: { ...latest, reason: `the data ends in ${formatPeriod(last, instead.unit, ctx.locale)}, and periods like "this ${instead.unit}" count back from there` },
+      recommended: { ...latest, reason: `the data ends in ${formatPeriod(last, instead.unit === 'season' ? 'month' : instead.unit, ctx.locale)}, and periods like "this ${unitWord}" count back from there` },
       many: false,
     };
   }

@@ -34,6 +34,13 @@ export interface PeriodContext {
   dayFirst: boolean;
   /** Named periods from the config ("the storm week"). */
   events: readonly NamedPeriod[];
+  /**
+   * The anchor is the day after data that ended before today: "this year", "this month", "year
+   * to date" are then the periods holding the data's last day (2015 on data ending 31 December
+   * 2015), never the empty one starting at the anchor, as the card says periods count back from
+   * the data's end.
+   */
+  dataEnded?: boolean;
 }
 
 export interface NamedPeriod {
@@ -340,6 +347,8 @@ function findRelative(text: RequestText, ctx: PeriodContext): PeriodMention[] {
   const add = (span: Span, m: Omit<PeriodMention, 'start' | 'end' | 'compared' | 'words' | 'relative'>) =>
     out.push({ ...span, relative: true, compared: false, words: text.quote(span), ...m });
   const holding = (unit: PeriodUnit) => periodHolding(A, unit, ctx.hemisphere);
+  // "this month", "year to date": the period the data's last day is in when periods count back from the data's end.
+  const current = (unit: PeriodUnit) => periodHolding(ctx.dataEnded ? addDays(A, -1) : A, unit, ctx.hemisphere);
 
   for (const m of text.matches(re(`${B}(?:the\\s+)?(?:day\\s+before\\s+yesterday)${E}`))) add(m.span, { window: dayWindow(addDays(A, -2)), unit: 'day' });
   for (const m of text.matches(re(`${B}yesterday'?s?${E}`))) add(m.span, { window: dayWindow(addDays(A, -1)), unit: 'day' });
@@ -347,18 +356,18 @@ function findRelative(text: RequestText, ctx: PeriodContext): PeriodMention[] {
   // this week / month / quarter / year (/ half): from its start to the latest data
   for (const m of text.matches(re(`${B}(?:(?:so\\s+far\\s+)?(?:this|the\\s+current|current)\\s+(week|month|quarter|qtr|year|half)(?:\\s+so\\s+far|\\s+to\\s+date)?)${E}`))) {
     const unit = UNIT_WORD[m[1]!]!;
-    add(m.span, { window: holding(unit), unit, toLatest: true, bounded: true });
+    add(m.span, { window: current(unit), unit, toLatest: true, bounded: true });
   }
   // "since the start of the year": this year to date.
   for (const m of text.matches(re(`${B}since\\s+the\\s+(?:start|beginning)\\s+of\\s+(?:the|this)\\s+(year|month|quarter|week)${E}`))) {
     const unit = UNIT_WORD[m[1]!]!;
-    add(m.span, { window: holding(unit), unit, toLatest: true, bounded: true });
+    add(m.span, { window: current(unit), unit, toLatest: true, bounded: true });
   }
   // year / month / quarter / week to date
   for (const m of text.matches(re(`${B}(?:(ytd|mtd|qtd|wtd)|(year|month|quarter|week)[-\\s]to[-\\s]date|(?:so\\s+far\\s+)?(?:in\\s+)?(?:the\\s+)?(year|month|quarter|week)\\s+so\\s+far|so\\s+far\\s+this\\s+(year|month|quarter|week))${E}`))) {
     const short: Record<string, PeriodUnit> = { ytd: 'year', mtd: 'month', qtd: 'quarter', wtd: 'week' };
     const unit = m[1] ? short[m[1]]! : UNIT_WORD[(m[2] ?? m[3] ?? m[4])!]!;
-    add(m.span, { window: holding(unit), unit, toLatest: true, bounded: true });
+    add(m.span, { window: current(unit), unit, toLatest: true, bounded: true });
   }
   // last / previous week, month, quarter, year, half (whole); last full month
   for (const m of text.matches(re(`${B}(?:the\\s+)?(last|previous|prior|past|latest)\\s+(?:full\\s+|complete\\s+|whole\\s+|calendar\\s+)?(week|month|quarter|qtr|year|half|weekend)${E}(?!\\s+(?:to\\s+date|so\\s+far))`))) {
@@ -494,11 +503,28 @@ export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMentio
     used.add(b);
     i++;
   }
+  // "last summer vs this summer": alone, "last summer" is the latest that has ended, which on the
+  // anchor's own season or month is the same one "this summer" names; named beside it, it is the
+  // one a year before it, so the two are never the same span.
+  const thisOnes = points.filter((p) => !used.has(p) && p.qualified && p.which === 'latest' && p.year === undefined);
+  const windowOf = (p: Point): DateWindow => {
+    const w = resolvePoint(p, ctx);
+    if (!(p.qualified && p.which === 'last' && p.year === undefined)) return w;
+    const same = thisOnes.find((t) => t.unit === p.unit && resolvePoint(t, ctx).start === w.start);
+    return same ? shiftPeriod(w, 'year', 1) : w;
+  };
   for (const p of points) {
     if (used.has(p)) continue;
-    const mention: PeriodMention = { start: p.start, end: p.end, window: resolvePoint(p, ctx), unit: p.unit, relative: p.qualified === true, compared: comparedEarlier.has(p), ...(p.notReal ? { notReal: true } : {}), words: text.quote(p) };
+    const mention: PeriodMention = { start: p.start, end: p.end, window: windowOf(p), unit: p.unit, relative: p.qualified === true, compared: comparedEarlier.has(p), ...(p.notReal ? { notReal: true } : {}), words: text.quote(p) };
     if (comparedEarlier.has(p)) setAgainst.add(mention);
     mentions.push(mention);
+  }
+  // "last year vs this year", "this quarter against last quarter": named together, the last is the
+  // one before this, whatever the anchor makes of each alone (on data ending with a year, both
+  // alone would be that year).
+  for (const last of relative) {
+    const now = last.previousOf && relative.find((r) => r.bounded && r.unit === last.previousOf && r.window && r.window.start === last.window?.start);
+    if (now && now.window) last.window = shiftPeriod(now.window, last.previousOf!, 1);
   }
   // The longest reading of any stretch of words wins ("the same month last year" over "last year").
   mentions.push(...relative, ...shifts);

@@ -145,6 +145,7 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
     hemisphere: ds.hemisphere ?? 'north',
     dayFirst,
     events: (ds.events ?? []).map((e) => ({ name: e.name, phrases: e.synonyms ?? [], window: { start: e.from, end: addDays(e.to, 1) } })),
+    dataEnded: anchor.dataEnd !== null && anchor.today === anchor.dataEnd && anchor.today < today,
   };
   const periods = findPeriods(text, periodCtx);
   for (const p of periods) text.claim(p);
@@ -236,7 +237,7 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   // Rows dated after today are left out of every answer: said on the card, where the period is agreed.
   if (facts.coverage.afterToday) notes.push(datesAfterWords(facts.coverage.afterToday));
   for (const r of roleHits) if (r.saidBack && questions.some((q) => q.metrics.includes(r.metrics[0]!))) notes.push(r.saidBack);
-  const stale = staleRelativePeriods(fullText, periods, facts, { ...periodCtx, anchor: today }, today, catalog);
+  const stale = staleRelativePeriods(fullText, periods, facts, { ...periodCtx, anchor: today, dataEnded: false }, today, catalog);
   // A relative period said back from today replaces its reading from the data's end ("this year is after it").
   for (const w of stale.words) for (let i = notes.length - 1; i >= 0; i--) if (notes[i]!.includes(`; ${w} is after it`)) notes.splice(i, 1);
   notes.push(...stale.notes);
@@ -244,7 +245,7 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   const hadComparison = brief.questions.some((q) => q.compareWindow);
   const askWindow = dropWindowsOutside(brief, facts, anchor.dataEnd, stale.windows);
   // Relative periods after data that ended years ago: the same periods counted back from the data's end, offered in their place.
-  const instead = askWindow && stale.units[0] ? latestInstead(facts, stale.units[0], hadComparison) : null;
+  const instead = askWindow && stale.units[0] ? latestInstead(facts, stale.units[0], hadComparison) ?? namedInstead(facts, stale.units[0], stale.windows) : null;
   if (instead) brief.latestInstead = instead;
   if (personal.length > 0) brief.personalData = personal;
   if (personalValues.length > 0) brief.personalValues = personalValues.map((p) => p.text);
@@ -322,21 +323,31 @@ function staleRelativePeriods(fullText: string, periods: readonly PeriodMention[
   const windows: DateWindow[] = [];
   const words: string[] = [];
   const units: PeriodMention['unit'][] = [];
+  const fromToday: string[] = [];
+  const fromEnd: string[] = [];
   for (const p of relative) {
     const real = asToday.find((x) => x.start === p.start && x.end === p.end)?.window;
     if (!real || real.start <= last) continue;
     const shown = real.end > today ? today : addDays(real.end, -1);
-    notes.push(`${dataRunsWords(facts)}; ${p.words} (${say(real.start)} to ${say(shown)}) is after it, so there is nothing to answer for it.`);
+    fromToday.push(`${p.words} (${say(real.start)} to ${say(shown)})`);
+    // The same words counted back from the data's end, as the brief's anchor counts every relative period.
+    fromEnd.push(`${p.words} ${fromEnd.length > 0 ? '' : 'is '}${describeWindow(p.window!, facts.coverage, 'en-GB')}`);
     windows.push(p.window!);
     words.push(p.words);
     units.push(p.unit);
+  }
+  // One line for every such period, so the two readings are never mixed: counted from today they
+  // are after the data; counted back from its end (the card's anchor) they are these.
+  if (fromToday.length > 0) {
+    const many = fromToday.length > 1;
+    notes.push(`${dataRunsWords(facts)}. Counted from today, ${fromToday.join(' and ')} ${many ? 'are' : 'is'} after it, so there is nothing to answer for ${many ? 'them' : 'it'}; counted back from the data's end, ${fromEnd.join(' and ')}.`);
   }
   return { notes, windows, words, units };
 }
 
 /** A say-back line that a period named lies outside the data (asked about, then settled by the answer). */
 export function isOutsideDataNote(line: string): boolean {
-  return /nothing to answer for it/.test(line);
+  return /nothing to answer for (?:it|them)\b/.test(line);
 }
 
 /**
@@ -367,6 +378,20 @@ function latestInstead(facts: DatasetFacts, unit: PeriodMention['unit'], compare
   if (window.start < firstDate) return null;
   const before = shiftPeriod(window, unit, 1);
   return { unit, window, ...(compared && before.start >= firstDate ? { compareWindow: before } : {}) };
+}
+
+/**
+ * A season named relatively ("last summer vs this summer") on data that ended years ago: the
+ * same words counted back from the data's end, when every one of them lies inside the data
+ * (summer 2015 against summer 2014), latest first. Null otherwise.
+ */
+function namedInstead(facts: DatasetFacts, unit: PeriodMention['unit'], windows: readonly DateWindow[]): Brief['latestInstead'] | null {
+  const { firstDate, lastDate } = facts.coverage;
+  if (unit !== 'season' || !firstDate || !lastDate || windows.length === 0 || windows.length > 2) return null;
+  if (windows.some((w) => w.start < firstDate || w.end > addDays(lastDate, 1))) return null;
+  const [later, earlier] = [...windows].sort((a, b) => (a.start < b.start ? 1 : -1));
+  if (earlier && earlier.start === later!.start) return null;
+  return { unit, window: later!, ...(earlier ? { compareWindow: earlier } : {}) };
 }
 
 /**
