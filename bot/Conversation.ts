@@ -284,7 +284,7 @@ export class Conversation {
   private card(thread: ThreadCommon, notes: string[] = []): { plan: PlanningState['plan']; post: { text: string; extras: PostExtras } } {
     const ws = this.deps.datasets.of(thread);
     const locale = this.deps.datasets.locale;
-    const { plan, defaults } = planFor(thread.brief, ws.dataset, ws.coverage, thread.dropped ?? []);
+    const { plan, defaults } = planFor(thread.brief, ws.dataset, ws.coverage, thread.dropped ?? [], ws.values);
     const card = buildCard(thread.brief, plan, { dataset: ws.dataset, coverage: ws.coverage, locale, defaults });
     card.notes.unshift(...notes);
     card.notes.push(...replies.cardNotes(thread.brief, ws.dataset));
@@ -384,7 +384,7 @@ export class Conversation {
       const thread = commonOf(state);
       thread.brief = edit.brief;
       thread.dropped = edit.dropped;
-      const { plan } = planFor(edit.brief, ws.dataset, ws.coverage, edit.dropped);
+      const { plan } = planFor(edit.brief, ws.dataset, ws.coverage, edit.dropped, ws.values);
       step.say('rerun', replies.followUpRun(edit.changes, edit.problems, replies.planLines(plan, ws.dataset, this.deps.datasets.locale)));
       return this.agreed(step, thread, plan, ('run' in state && state.run ? state.run.number : 0) + 1);
     }
@@ -460,7 +460,7 @@ export class Conversation {
       step.say('note', personalDataRefusal(ws.dataset, c.personalData));
       return undefined;
     }
-    const plan = 'plan' in state && state.plan ? state.plan : planFor(state.brief, ws.dataset, ws.coverage, state.dropped ?? []).plan;
+    const plan = 'plan' in state && state.plan ? state.plan : planFor(state.brief, ws.dataset, ws.coverage, state.dropped ?? [], ws.values).plan;
     const edit = applyCorrection(state.brief, c, plan, state.dropped ?? [], { dataset: ws.dataset, coverage: ws.coverage, locale: this.deps.datasets.locale, words: text });
     if (edit.changes.length === 0) {
       step.say('note', replies.correctionNotRead(text, c.unread, edit.problems));

@@ -2,7 +2,10 @@
 // them as assumed, and the plan is built from the brief with them filled in. Audience, deadline,
 // grain and period always have safe defaults; only a request with no measure at all is asked.
 import type { Coverage } from '../analysis/coverage.js';
-import { firstBreakdownDimension } from '../analysis/catalog.js';
+import { firstBreakdownDimension, isBreakdownDimension, pinsOneValue } from '../analysis/catalog.js';
+import { addDays, periodsBetween } from '../analysis/periods.js';
+import type { SegmentFilter } from '../analysis/types.js';
+import type { ValueIndex } from '../analysis/values/value-index.js';
 import { finestGrain, grainAdjective, isFinerGrain } from '../analysis/grains.js';
 import type { DatasetConfig } from '../config/schema.js';
 import type { Brief } from './brief.js';
@@ -10,7 +13,7 @@ import type { BriefDefaults } from './card.js';
 import { recommendedGrain } from './prompts.js';
 import { rankMetrics } from './reading/metric-ranking.js';
 
-export function briefDefaults(brief: Brief, ds: DatasetConfig, coverage: Coverage): BriefDefaults {
+export function briefDefaults(brief: Brief, ds: DatasetConfig, coverage: Coverage, values?: ValueIndex): BriefDefaults {
   const grain = recommendedGrain(coverage);
   const out: BriefDefaults = {
     audience: { value: 'managers', reason: 'plain words with enough detail to act on' },
@@ -30,13 +33,52 @@ export function briefDefaults(brief: Brief, ds: DatasetConfig, coverage: Coverag
   // A change is explained by a breakdown; without one asked, the catalog's first that the
   // questions' filters leave more than one value of.
   const open = brief.questions.filter((q) => q.kind === 'growth' && q.dimensions.length === 0 && !q.contrast);
-  const first = firstBreakdownDimension(ds, open.flatMap((q) => q.filters));
+  const chosen = defaultBreakdown(ds, open.flatMap((q) => q.filters), coverage, values);
   // Never in place of a breakdown the request named that the catalog lacks ("by studio"): that is asked (bot/prompts.ts).
   const unplaced = brief.unknownTerms.some((u) => u.role === 'dimension');
-  if (first && !brief.dimensionsAsked && open.length > 0 && !unplaced) {
-    out.breakdown = { value: first, reason: 'a change is easier to act on with what drove it; the first breakdown in the catalog' };
+  if (chosen && !brief.dimensionsAsked && open.length > 0 && !unplaced) {
+    out.breakdown = { value: chosen.name, reason: `a change is easier to act on with what drove it; ${chosen.why}` };
   }
   return out;
+}
+
+/** How near the most persistent breakdown another must be to count as persistent too (common practice: a tenth). */
+const PERSISTENCE_MARGIN = 0.1;
+
+/**
+ * The breakdown a change is explained by when the request names none, and why. The rule: among
+ * the catalog's breakdowns (never personal data, never a group's own column, never one the
+ * filters pin to one value), prefer the one whose values persist through the data — the mean,
+ * over its values, of the share of the data's months each value has rows in. Entities that carry
+ * on through time (cities, routes, airports) have rows nearly every month; a description of each
+ * row's outcome (weather type, status) comes and goes (snow in a few winter months), and a
+ * change "driven by" a value that is absent half the time explains little. Ties (within
+ * PERSISTENCE_MARGIN of the best) go to catalog order. Without the value index (no months read),
+ * the catalog's first breakdown, as before.
+ */
+export function defaultBreakdown(ds: DatasetConfig, filters: readonly SegmentFilter[], coverage: Coverage, values?: ValueIndex): { name: string; why: string } | undefined {
+  const first = firstBreakdownDimension(ds, filters);
+  if (!first) return undefined;
+  const catalogFirst = { name: first, why: 'the first breakdown in the catalog' };
+  if (!values || !coverage.firstDate || !coverage.lastDate) return catalogFirst;
+  const months = periodsBetween(coverage.firstDate, addDays(coverage.lastDate, 1), 'month').length;
+  const candidates = ds.dimensions.filter((d) => isBreakdownDimension(ds, d.name) && !pinsOneValue(filters, d.name));
+  const scored = candidates.map((d) => {
+    const vs = values.get(d.name)?.values ?? [];
+    const known = vs.length > 0 && vs.every((v) => v.months !== undefined);
+    return { d, persistence: known && months > 0 ? vs.reduce((a, v) => a + Math.min(1, v.months! / months), 0) / vs.length : undefined };
+  });
+  if (scored.some((s) => s.persistence === undefined) || months < 2) return catalogFirst;
+  const best = Math.max(...scored.map((s) => s.persistence!));
+  const pick = scored.find((s) => s.persistence! >= best - PERSISTENCE_MARGIN)!;
+  const pct = (x: number) => `${Math.round(x * 100)}%`;
+  const others = scored.filter((s) => s !== pick && s.persistence! < best - PERSISTENCE_MARGIN);
+  if (others.length === 0) return { name: pick.d.name, why: 'the first breakdown in the catalog' };
+  const label = (d: { label: string }) => d.label.toLowerCase();
+  return {
+    name: pick.d.name,
+    why: `${label(pick.d)}, whose values persist through the data (each is in ${pct(pick.persistence!)} of its months on average, against ${others.map((o) => `${pct(o.persistence!)} for ${label(o.d)}`).join(', ')}); name another breakdown to change it`,
+  };
 }
 
 /** The brief the plan is built from: what was read, with the defaults where nothing was. */

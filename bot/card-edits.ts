@@ -12,6 +12,7 @@ import type { DatasetConfig } from '../config/schema.js';
 import { briefDefaults, withDefaults } from './brief-defaults.js';
 import type { Brief, Question } from './brief.js';
 import type { BriefDefaults } from './card.js';
+import type { ValueIndex } from '../analysis/values/value-index.js';
 import { applyPlanEdit, buildPlan, type Plan } from './plan.js';
 import type { Correction } from './reading/corrections.js';
 import { AUDIENCE_LABELS, STOPWORDS } from './reading/lexicon.js';
@@ -27,8 +28,8 @@ export interface PlannedBrief {
 }
 
 /** The plan for a brief as read (defaults filled in), without the items the requester dropped. */
-export function planFor(brief: Brief, ds: DatasetConfig, coverage: Coverage, dropped: readonly string[]): PlannedBrief {
-  const defaults = briefDefaults(brief, ds, coverage);
+export function planFor(brief: Brief, ds: DatasetConfig, coverage: Coverage, dropped: readonly string[], values?: ValueIndex): PlannedBrief {
+  const defaults = briefDefaults(brief, ds, coverage, values);
   let plan = buildPlan(withDefaults(brief, defaults), ds, coverage);
   const numbers = plan.items.flatMap((sq, i) => (dropped.includes(itemSignature(sq)) ? [i + 1] : []));
   if (numbers.length > 0 && numbers.length < plan.items.length) plan = applyPlanEdit(plan, { type: 'drop', numbers }).plan;

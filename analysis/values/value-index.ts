@@ -8,7 +8,7 @@ import { z } from 'zod';
 import type { LoadedConfig } from '../../config/load.js';
 import type { DatasetConfig, Dimension } from '../../config/schema.js';
 import { readJsonFile, writeJsonFile } from '../cache/json-file.js';
-import { datasetRelation, type CompileContext } from '../compile-context.js';
+import { datasetRelation, localDateExpr, type CompileContext } from '../compile-context.js';
 import { dataVersion } from '../quality/data-version.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { CompiledQuery, ResultTable } from '../types.js';
@@ -17,6 +17,8 @@ import type { Workspace } from '../workspace.js';
 export interface IndexedValue {
   value: string;
   rows: number;
+  /** Calendar months with a row of this value: how far it persists through the data (bot/brief-defaults.ts). */
+  months?: number;
 }
 
 export interface DimensionValues {
@@ -39,7 +41,8 @@ export function indexedDimensions(ds: DatasetConfig): Dimension[] {
 export function compileValueQuery(ctx: CompileContext, dim: Dimension, cap = VALUE_INDEX_CAP): CompiledQuery {
   const q = new QueryBuilder(ctx.dialect);
   const col = q.ident(dim.column);
-  return q.finish(`SELECT CAST(${col} AS VARCHAR) AS value, ${ctx.dialect.toDouble('COUNT(*)')} AS row_count
+  const month = ctx.dialect.periodStart('month', localDateExpr(q, ctx));
+  return q.finish(`SELECT CAST(${col} AS VARCHAR) AS value, ${ctx.dialect.toDouble('COUNT(*)')} AS row_count, ${ctx.dialect.toDouble(`COUNT(DISTINCT ${month})`)} AS months
 FROM ${datasetRelation(q, ctx.dataset)}
 WHERE ${col} IS NOT NULL
 GROUP BY 1
@@ -49,7 +52,7 @@ LIMIT ${cap + 1}`);
 
 export function readValues(table: ResultTable, cap = VALUE_INDEX_CAP): DimensionValues {
   const values = table.rows
-    .map((r) => ({ value: String(r.value ?? ''), rows: Number(r.row_count ?? 0) }))
+    .map((r) => ({ value: String(r.value ?? ''), rows: Number(r.row_count ?? 0), ...(r.months !== undefined && r.months !== null ? { months: Number(r.months) } : {}) }))
     .filter((v) => v.value.trim().length > 0 && !/^(true|false)$/i.test(v.value));
   return { values: values.slice(0, cap), complete: table.rows.length <= cap };
 }
@@ -65,11 +68,11 @@ export async function buildValueIndex(ws: Pick<Workspace, 'context' | 'source' |
 
 // ---- kept between processes ----
 
-const FORMAT = 1;
+const FORMAT = 2;
 const entrySchema = z.object({
   format: z.literal(FORMAT),
   key: z.string(),
-  dimensions: z.record(z.string(), z.object({ values: z.array(z.object({ value: z.string(), rows: z.number() })), complete: z.boolean() })),
+  dimensions: z.record(z.string(), z.object({ values: z.array(z.object({ value: z.string(), rows: z.number(), months: z.number().optional() })), complete: z.boolean() })),
 });
 
 function cacheFile(config: LoadedConfig, ds: DatasetConfig): string {
