@@ -57,7 +57,9 @@ export function readSeasonality(sq: SubQuestion, monthly: ResultTable, weekday: 
   const metric = metricByName(ctx.dataset, metricName);
   const base = readSeries(one, monthly, ctx.coverage, { dataset: ctx.dataset });
   const findings: Finding[] = [...base.findings];
-  const caveats: Caveat[] = [...base.caveats];
+  // Unusual periods are said under the answer that draws or lists the periods (the series, the
+  // summary), not again under the pattern across the year.
+  const caveats: Caveat[] = base.caveats.filter((c) => c.code !== 'outlier');
   if (weekday.truncated) caveats.push({ code: 'truncated', data: { rows: weekday.rows.length } });
   const series = seriesFinding(base.findings, metricName);
   if (!series) return { findings, caveats };

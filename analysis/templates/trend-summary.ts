@@ -56,7 +56,8 @@ export function readTrendSummary(sq: SubQuestion, table: ResultTable, ctx: ReadC
   const metric = sq.metrics[0]!;
   const base = readSeries({ ...sq, metrics: [metric] }, table, ctx.coverage, { dataset: ctx.dataset });
   const findings: Finding[] = [...base.findings];
-  const caveats: Caveat[] = [...base.caveats];
+  // The unusual periods are this answer's own findings, named in its caption: no note repeats them.
+  const caveats: Caveat[] = base.caveats.filter((c) => c.code !== 'outlier');
   const series = seriesFinding(base.findings, metric);
   if (!series) return { findings, caveats };
   const complete = completePoints(series.points);

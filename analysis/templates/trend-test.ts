@@ -24,7 +24,9 @@ export function readTrendTest(sq: SubQuestion, table: ResultTable, ctx: ReadCont
   const one = { ...sq, metrics: [metric] };
   const base = readSeries(one, table, ctx.coverage, { dataset: ctx.dataset });
   const findings: Finding[] = [...base.findings];
-  const caveats: Caveat[] = [...base.caveats];
+  // Unusual periods are said under the answer that draws or lists the periods (the series, the
+  // summary), not again under the trend's verdict.
+  const caveats: Caveat[] = base.caveats.filter((c) => c.code !== 'outlier');
   const series = seriesFinding(base.findings, metric);
   if (!series) return { findings, caveats };
 
