@@ -10,6 +10,7 @@ import { metricAggregate } from './sql/metric-sql.js';
 import { mergeWindows, rangeCondition } from './sql/time-range.js';
 import type { QueryBuilder } from './sql/query-builder.js';
 import type { DateWindow, SegmentFilter } from './types.js';
+import { daysKept, isDayFilter } from './day-of-week.js';
 
 export interface CompileContext {
   dataset: DatasetConfig;
@@ -71,6 +72,7 @@ export function whereClause(q: QueryBuilder, ctx: CompileContext, window: DateWi
 
 export function segmentConditions(q: QueryBuilder, ctx: CompileContext, filters: SegmentFilter[]): string[] {
   return filters.map((f) => {
+    if (isDayFilter(f)) return dayOfWeekCondition(q, ctx, f);
     const dim = groupableDimension(ctx.dataset, f.dimension);
     const list = f.values.map((v) => q.bind(v)).join(', ');
     const col = q.ident(dim.column);
@@ -78,6 +80,19 @@ export function segmentConditions(q: QueryBuilder, ctx: CompileContext, filters:
     if (f.exclude) return f.values.length === 0 ? 'TRUE' : `(${col} NOT IN (${list}) OR ${col} IS NULL)`;
     return f.values.length === 0 ? 'FALSE' : `${col} IN (${list})`;
   });
+}
+
+/**
+ * The rows whose local date (the time column in the dataset's time zone, or the rollup's day) falls
+ * on the filter's days of the week. EXTRACT(ISODOW …) reads 1 = Monday … 7 = Sunday alike in DuckDB
+ * and PostgreSQL; where they differ is how a zoned timestamp becomes a local date (the dialect's
+ * localDate). The ISO day numbers are bound like every filter value.
+ */
+export function dayOfWeekCondition(q: QueryBuilder, ctx: CompileContext, f: SegmentFilter): string {
+  const days = daysKept(f);
+  if (days.length === 0) return 'FALSE';
+  if (days.length === 7) return 'TRUE';
+  return `CAST(EXTRACT(ISODOW FROM ${localDateExpr(q, ctx)}) AS INTEGER) IN (${days.map((d) => q.bind(d)).join(', ')})`;
 }
 
 export function tableRef(q: QueryBuilder, ctx: CompileContext): string {

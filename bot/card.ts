@@ -3,6 +3,7 @@
 // from the brief (each slot with the words it was read from, or its default and why) and the plan;
 // every platform shows its text, and those that can add a control per topic whose value is a
 // correction read by the same reader as typed words.
+import { DAY_OF_WEEK, DAY_OF_WEEK_LABEL, daySetValueWords, daySetWords, daysKept, isDayFilter } from '../analysis/day-of-week.js';
 import { inSentence, labelAtStart, listJoin, verbFor } from '../analysis/captions/grammar.js';
 import type { Coverage } from '../analysis/coverage.js';
 import { finestGrain, grainAdjective, isFinerGrain } from '../analysis/grains.js';
@@ -81,7 +82,7 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
   const lines: CardLine[] = [];
   const read = (e: Evidence | undefined) => (e?.how === 'answered' ? { how: 'answered' as const } : e?.words ? { how: 'read' as const, words: e.words } : { how: 'read' as const });
   const label = (m: string) => ds.metrics.find((x) => x.name === m)?.label ?? m;
-  const dimLabel = (d: string) => ds.dimensions.find((x) => x.name === d)?.label ?? d;
+  const dimLabel = (d: string) => (d === DAY_OF_WEEK ? DAY_OF_WEEK_LABEL : (ds.dimensions.find((x) => x.name === d)?.label ?? d));
 
   const audience = brief.audience ?? ctx.defaults.audience.value;
   lines.push({
@@ -124,7 +125,7 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
   const contrasted = [...new Map(brief.questions.flatMap((q) => (q.contrast && !dims.includes(q.contrast.dimension) ? [[q.contrast.dimension, q.contrast] as const] : []))).values()];
   const breakdown = dims.length === 0 && contrasted.length === 0 ? ctx.defaults.breakdown : undefined;
   const inForce = dims.length > 0 || contrasted.length > 0 ? [...dims, ...contrasted.map((c) => c.dimension)] : breakdown ? [breakdown.value] : [];
-  const said = [...dims.map((d) => labelAtStart(dimLabel(d))), ...contrasted.map((c) => `${labelAtStart(dimLabel(c.dimension))} (${c.values.join(' against ')})`)];
+  const said = [...dims.map((d) => labelAtStart(dimLabel(d))), ...contrasted.map((c) => `${labelAtStart(dimLabel(c.dimension))} (${c.values.map((v) => (c.dimension === DAY_OF_WEEK ? daySetValueWords(v) : v)).join(' against ')})`)];
   lines.push({
     topic: 'breakdowns',
     label: 'Breakdowns',
@@ -137,7 +138,7 @@ export function buildCard(brief: Brief, plan: Plan, ctx: CardContext): BriefCard
     lines.push({
       topic: 'filters',
       label: 'Only',
-      value: filters.map((f) => `${f.exclude ? 'not ' : ''}${f.values.join(' or ')} (${inSentence(dimLabel(f.dimension))})`).join('; '),
+      value: filters.map((f) => (isDayFilter(f) ? daySetWords(daysKept(f)) : `${f.exclude ? 'not ' : ''}${f.values.join(' or ')} (${inSentence(dimLabel(f.dimension))})`)).join('; '),
       ...read(ev.filters),
     });
   }
@@ -262,11 +263,11 @@ function restate(q: Question, ds: DatasetConfig, ctx: CardContext): string {
   const is = m.length > 1 ? 'are' : verbFor(m[0] ?? assumed);
   const dims = q.dimensions.map((d) => inSentence(ds.dimensions.find((x) => x.name === d)?.label ?? d));
   const by = dims.length > 0 ? ` by ${dims.join(' and ')}` : '';
-  const only = q.filters.length > 0 ? ` (${q.filters.map((f) => `${f.exclude ? 'not ' : ''}${f.values.join(' or ')}`).join('; ')})` : '';
+  const only = q.filters.length > 0 ? ` (${q.filters.map((f) => (isDayFilter(f) ? daySetWords(daysKept(f)) : `${f.exclude ? 'not ' : ''}${f.values.join(' or ')}`)).join('; ')})` : '';
   const w = q.window ? describeWindow(q.window, ctx.coverage, ctx.locale) : '';
   const group = ds.comparison_groups.find((g) => g.name === q.comparisonGroup);
   // Two values set against each other head the question's answers, whatever its kind ("how do email tickets compare with phone tickets").
-  if (q.contrast && q.kind !== 'performance') return `How ${q.contrast.values.join(' and ')} compare in ${what}${w ? `, ${w}` : ''}.`;
+  if (q.contrast && q.kind !== 'performance') return `How ${q.contrast.values.map((v) => (q.contrast!.dimension === DAY_OF_WEEK ? daySetValueWords(v) : v)).join(' and ')} compare in ${what}${w ? `, ${w}` : ''}.`;
   // "Which species cause the most cost", "top 5 busiest airports": the ranking asked, not a pattern over time.
   const ranked = q.ranking ? ds.dimensions.find((x) => x.name === q.dimensions[0]) : undefined;
   if (ranked && (q.kind === 'trend' || q.kind === 'kpi')) {

@@ -8,6 +8,8 @@ import { SUB_QUESTIONS, type TemplateName } from '../analysis/sub-questions/regi
 import { type DateWindow, type Grain, type Lens, type RequestKind, type SubQuestion } from '../analysis/types.js';
 import { type Brief, type Question, wholeRequestQuestion } from './brief.js';
 import { fullWindow } from './reading/answers.js';
+import { daySides } from './reading/day-filter.js';
+import { isDayFilter } from '../analysis/day-of-week.js';
 import { AGREE, CANCEL, GROUP_GROWTH_ASK, grainNamedBy, WEEKDAY_ASK } from './reading/lexicon.js';
 import { describeWindow } from '../analysis/window-words.js';
 import { addDays, daysBetween } from '../analysis/periods.js';
@@ -43,7 +45,8 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
   const drafts: Draft[] = [];
   const notCovered = new Set<RequestKind>();
   const readings: string[] = [];
-  const questions: Question[] = brief.questions.length > 0 ? brief.questions : [wholeRequestQuestion(brief)];
+  // "Weekends vs weekdays": each day set its own question, filtered to it (reading/day-filter.ts).
+  const questions: Question[] = (brief.questions.length > 0 ? brief.questions : [wholeRequestQuestion(brief)]).flatMap(daySides);
   // Periods named to compare ("2009 vs 2008"): every growth answer of the request runs up to the
   // later of them, so none reads as the data's last two years instead (and two questions of one
   // request still share their items).
@@ -112,7 +115,8 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           if (ranks) for (const d of dims) add('segment_shares', metric, true, { dimension: d, answersAsked: true });
           // The days of the week asked about ("which weekday", "by day of week"): the time pattern
           // answers it (on daily data) whatever the grain, heads the question and leads the summary.
-          const weekdays = WEEKDAY_ASK.test(q.text.toLowerCase());
+          // A question kept to some days ("weekends" of "weekends vs weekdays") has no week's pattern to show.
+          const weekdays = WEEKDAY_ASK.test(q.text.toLowerCase()) && !q.filters.some(isDayFilter);
           add('series', metric, !ranks && !weekdays);
           if (grain === 'month' || weekdays) add('trend_seasonality', metric, weekdays, weekdays ? { weekdaysAsked: true, answersAsked: true } : {});
           add('trend_test', metric, false);

@@ -2,6 +2,7 @@
 // an earlier run on the same data, quality-cache.ts), then each answer gets the caveats for the
 // columns it used.
 import { dimensionByName, metricByName, metricColumns } from '../catalog.js';
+import { isDayFilter } from '../day-of-week.js';
 import type { Caveat, NamedQuery, SubQuestion } from '../types.js';
 import type { Workspace } from '../workspace.js';
 import { dataVersion } from './data-version.js';
@@ -17,7 +18,7 @@ export function columnsUsed(sq: SubQuestion, ws: Workspace): string[] {
   const cols = new Set<string>([ds.time_column]);
   for (const m of sq.metrics) for (const c of metricColumns(ds, metricByName(ds, m))) cols.add(c);
   if (sq.dimension) cols.add(dimensionByName(ds, sq.dimension).column);
-  for (const f of sq.filters) cols.add(dimensionByName(ds, f.dimension).column);
+  for (const f of sq.filters) if (!isDayFilter(f)) cols.add(dimensionByName(ds, f.dimension).column);
   const group = ds.comparison_groups.find((g) => g.name === sq.comparisonGroup);
   if (group) {
     cols.add(group.column);

@@ -7,6 +7,8 @@ import type { DatasetConfig } from '../../config/schema.js';
 import { CatalogError, metricByName } from '../catalog.js';
 import { definitionOf } from '../sub-questions/registry.js';
 import type { SubQuestion } from '../types.js';
+// A day-of-week filter reads the rollup's own day (its local date), so it needs no column kept.
+import { isDayFilter } from '../day-of-week.js';
 import { isRollupMetric, rollupColumns, type RollupShape } from './rollup.js';
 
 /** What the rollup must keep for this sub-question, or null when it has to read the table. */
@@ -18,7 +20,7 @@ export function rollupNeeds(sq: SubQuestion, ds: DatasetConfig): RollupShape | n
     if (!use || (use.when && !use.when(sq, ds))) return null;
     const metrics = use.metrics ? use.metrics(sq, ds) : [...new Set(sq.metrics)];
     if (!metrics.every((m) => isRollupMetric(ds, metricByName(ds, m)))) return null;
-    const dimensions = [...(sq.dimension ? [sq.dimension] : []), ...sq.filters.map((f) => f.dimension)];
+    const dimensions = [...(sq.dimension ? [sq.dimension] : []), ...sq.filters.filter((f) => !isDayFilter(f)).map((f) => f.dimension)];
     const columns = rollupColumns(ds, { dimensions, groups: sq.comparisonGroup ? [sq.comparisonGroup] : [] });
     const moments = use.moments ? [...new Set(use.moments(sq, ds))].sort() : [];
     return { columns, metrics: metrics.sort(), ...(moments.length ? { moments } : {}) };

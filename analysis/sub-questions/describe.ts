@@ -2,11 +2,13 @@
 import type { DatasetConfig } from '../../config/schema.js';
 import { scopeText } from '../captions/scope-words.js';
 import type { SubQuestion } from '../types.js';
+import { isDayFilter } from '../day-of-week.js';
 import { planWords } from './plan-words.js';
 import { definitionOf } from './registry.js';
 
 export function describeSubQuestion(sq: SubQuestion, ds: DatasetConfig, locale: string): string {
   const text = definitionOf(sq).describe(planWords(sq, ds, locale), sq);
   const scope = scopeText(sq.filters, ds);
-  return scope ? `${text.replace(/[.?]$/, '')} (only ${scope}).` : text;
+  // Days of the week say their own "only" ("Fridays only", analysis/day-of-week.ts).
+  return scope ? `${text.replace(/[.?]$/, '')} (${sq.filters.every(isDayFilter) ? scope : `only ${scope}`}).` : text;
 }

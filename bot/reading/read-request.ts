@@ -40,6 +40,8 @@ import {
 import { findPeriods, type PeriodContext, type PeriodMention } from './periods.js';
 import { isoDateIn } from './time-zone.js';
 import { overlaps, RequestText, type Span } from './text.js';
+import { type DayReading, type DaySetMention, readDaySets } from './day-filter.js';
+import { DAY_OF_WEEK, dayFilter, dayScopeWords, isDayFilter } from '../../analysis/day-of-week.js';
 import { findUnknownTerms } from './unknown-words.js';
 import { mendCalendarWords } from './spelling.js';
 import { COUNTING } from './metric-ranking.js';
@@ -126,6 +128,8 @@ interface ReadState {
   sharedMetricHits: CatalogHit[];
   /** Readings said back on the card. */
   notes: string[];
+  /** The request's words for days of the week ("on fridays"), the evidence of a day filter. */
+  dayWords?: string[];
 }
 
 export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOptions): Brief {
@@ -154,6 +158,9 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   const roleHits = findRoleWords(text, ds);
   // A business word the catalog has no metric for ("revenue" on a support desk) stays free, to be said back as unknown.
   for (const r of roleHits) if (r.metrics.length > 0) text.claim(r.span);
+  // "on Fridays", "weekend orders", "weekends vs weekdays": days of the week as a filter (day-filter.ts).
+  const daySets = readDaySets(text);
+  for (const m of daySets.mentions) text.claim(m.span);
   const grain = readGrain(text);
   if (grain) {
     evidence.grain = { words: grain.words, how: grain.how };
@@ -170,6 +177,8 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
 
   const state: ReadState = { text, ds, catalog, anchor: anchor.today, dataEnd: anchor.dataEnd, periods, hits, roleHits, grainSpans: grain?.spans ?? [], evidence, sharedMetricHits: [], notes: [] };
   const { questions, ambiguous } = readQuestions(state);
+  applyDaySets(questions, daySets, text, state.notes);
+  state.dayWords = daySets.mentions.map((m) => m.words);
   const unknownTerms = findUnknownTerms(text, { catalog });
   // A bare "volume" that could be several counts of the data: asked, with those counts as the closest.
   for (const r of roleHits) {
@@ -1480,7 +1489,7 @@ function recordEvidence(brief: Brief, st: ReadState): void {
   if (brief.metrics.length > 0) ev.metrics = { words: [...new Set(metricWords)].join('; '), how: 'stated' };
   if (brief.dimensions.length > 0) ev.dimensions = { words: brief.dimensions.join(', '), how: 'stated' };
   const filters = q.flatMap((x) => x.filters);
-  if (filters.length > 0) ev.filters = { words: filters.map((f) => f.values.join(', ')).join('; '), how: 'stated' };
+  if (filters.length > 0) ev.filters = { words: filters.map((f) => (isDayFilter(f) ? (st.dayWords ?? []).join(', ') || dayScopeWords(f) : f.values.join(', '))).join('; '), how: 'stated' };
   if (brief.comparisonGroup) ev.comparisonGroup = { words: brief.comparisonGroup, how: 'stated' };
   const launched = q.find((x) => x.launchDate);
   if (launched?.launchDate) ev.launchDate = { words: launched.launchDate, how: st.periods.some((p) => p.window?.start === launched.launchDate && /launch|start|live|introduc|roll/.test(st.text.lower.slice(Math.max(0, p.start - 60), p.start))) ? 'stated' : 'inferred' };
@@ -1511,6 +1520,29 @@ function withoutPreamble(clause: string): string {
     .replace(/^(?:(?:could|can|would|will)\s+(?:you|someone|the data team|the team|we)\s+(?:please\s+)?(?:tell|show|let)\s+(?:us|me)\s+(?:know\s+)?)?(?:whether|if)\s+/i, '')
     .replace(/^(?:and|also|plus)\s+/i, '');
   return stripped.length > 0 ? stripped : clause;
+}
+
+/**
+ * Each day set goes to the questions whose words hold it (every question when none does, as a
+ * restriction said once for the whole request); two set against each other become the question's
+ * contrast of two day sets, whose values are the sets' ISO days ("6,7" against "1,2,3,4,5").
+ */
+function applyDaySets(questions: Question[], reading: DayReading, text: RequestText, notes: string[]): void {
+  const holding = (m: DaySetMention) => {
+    const words = text.quote(m.span).toLowerCase();
+    const own = questions.filter((q) => q.text.toLowerCase().includes(words));
+    return own.length > 0 ? own : questions;
+  };
+  const contrasted = new Set(reading.contrast ?? []);
+  for (const m of reading.mentions) {
+    if (m.saidBack) notes.push(m.saidBack);
+    if (contrasted.has(m)) continue;
+    for (const q of holding(m)) q.filters = mergeFilters(q.filters, [dayFilter(m.days)]);
+  }
+  if (reading.contrast) {
+    const [a, b] = reading.contrast;
+    for (const q of holding(a)) if (!q.contrast) q.contrast = { dimension: DAY_OF_WEEK, values: [a.days.join(','), b.days.join(',')] };
+  }
 }
 
 function mergeFilters(a: SegmentFilter[], b: SegmentFilter[]): SegmentFilter[] {

@@ -1,0 +1,75 @@
+// Days of the week named as a restriction ("on Fridays", "weekend orders", "business days") are
+// read as a day-of-week filter that every sub-question of the plan carries, never dropped as an
+// unknown word; dates ("last Friday"), deadlines ("by Friday") and a breakdown by day ("by
+// weekday") are not. Read on vega-datasets' flights-20k.json (US domestic flights, January to March
+// 2001) with the hand-written config of the other reading tests. ISO day numbers: 1 = Monday ...
+// 7 = Sunday (ISO 8601). Phrasings were written for this test.
+import { beforeAll, describe, expect, it } from 'vitest';
+import { DAY_OF_WEEK, isDayFilter } from '../../analysis/day-of-week.js';
+import { briefDefaults, withDefaults } from '../../bot/brief-defaults.js';
+import type { Brief } from '../../bot/brief.js';
+import { buildPlan } from '../../bot/plan.js';
+import { type DatasetFacts, readRequest } from '../../bot/reading/read-request.js';
+import { FLIGHTS_CONFIG } from './open-data-configs.js';
+import { publicFacts } from './public-data.js';
+
+let flights: DatasetFacts;
+const NOW = new Date('2026-12-05T01:00:00Z');
+beforeAll(async () => {
+  flights = await publicFacts(FLIGHTS_CONFIG);
+}, 120_000);
+
+const read = (text: string): Brief => readRequest(text, flights, { now: NOW, locale: 'en-GB' });
+const planOf = (b: Brief) => buildPlan(withDefaults(b, briefDefaults(b, flights.dataset, flights.coverage)), flights.dataset, flights.coverage);
+const daysOf = (b: Brief) => b.questions.map((q) => q.filters.filter(isDayFilter).flatMap((f) => f.values.map(Number)));
+
+describe('a day set in the request is a filter on the day of the week', () => {
+  it.each([
+    ['average delay on fridays', [5]],
+    ['whats the avg delay on a Sunday', [7]],
+    ['Sunday flights by origin', [7]],
+    ['delays sat and sun', [6, 7]],
+    ['weekend flights please', [6, 7]],
+    ['how are delays on the weekends trending', [6, 7]],
+    ['mean delay on business days', [1, 2, 3, 4, 5]],
+    ['delay on working days in February', [1, 2, 3, 4, 5]],
+    ['flights Mon-Fri', [1, 2, 3, 4, 5]],
+    ['delays Tuesday through Thursday', [2, 3, 4]],
+    ['flights tue-thu', [2, 3, 4]],
+    ['midweek delays', [2, 3, 4]],
+    ['delays on mondays and fridays', [1, 5]],
+    ['late share excluding weekends', [1, 2, 3, 4, 5]],
+    ['total delay minutes except Sundays by origin', [1, 2, 3, 4, 5, 6]],
+  ])('%s', (text, days) => {
+    const b = read(text);
+    expect(b.unknownTerms).toEqual([]);
+    expect(daysOf(b)).toEqual([days]);
+    // Every sub-question of the plan carries it.
+    const plan = planOf(b);
+    expect(plan.items.length).toBeGreaterThan(0);
+    for (const sq of plan.items) expect(sq.filters.filter(isDayFilter).flatMap((f) => f.values)).toEqual(days);
+  });
+
+  it('"midweek" is an assumption, said back', () => {
+    expect(read('midweek delays').saidBack?.join(' ')).toMatch(/midweek.*Tuesdays to Thursdays/);
+  });
+
+  it.each(['average delay last friday', 'flights by weekday', 'which day of the week has the worst delays', 'delays by origin, by Friday please', 'flights this weekend'])('no day filter: %s', (text) => {
+    expect(daysOf(read(text)).flat()).toEqual([]);
+  });
+});
+
+describe('two day sets set against each other', () => {
+  it.each([
+    ['flights on weekends vs weekdays', '6,7', '1,2,3,4,5'],
+    ['compare weekend and weekday delays', '6,7', '1,2,3,4,5'],
+    ['delay on fridays versus other days', '5', '1,2,3,4,6,7'],
+  ])('%s', (text, a, b) => {
+    const brief = read(text);
+    expect(brief.unknownTerms).toEqual([]);
+    expect(brief.questions[0]!.contrast).toEqual({ dimension: DAY_OF_WEEK, values: [a, b] });
+    // The plan answers each day set on its own filter, both sides for every answer.
+    const sides = new Set(planOf(brief).items.map((sq) => sq.filters.filter(isDayFilter).map((f) => f.values.join(',')).join()));
+    expect([...sides].sort()).toEqual([a, b].sort());
+  });
+});
