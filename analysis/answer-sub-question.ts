@@ -1,4 +1,5 @@
 // Compile -> run -> read for one sub-question: the only analysis step that touches a database.
+import { statisticDataset } from './statistic.js';
 import { timePhase, type PhaseTimings } from './phase-timings.js';
 import { qualityCaveatsFor } from './quality/check-run.js';
 import type { QualityReport } from './quality/quality-checks.js';
@@ -31,7 +32,7 @@ export async function answerSubQuestion(sq: SubQuestion, ws: Workspace, opts: An
   opts.onCompiled?.(queries);
   const tables: Record<string, ResultTable> = {};
   for (const q of queries) tables[q.name] = await runShared(q, ws, opts);
-  const { findings, caveats } = timePhase(opts.timings, 'read', () => template.read(sq, tables, { dataset: ws.dataset, coverage: ws.coverage }));
+  const { findings, caveats } = timePhase(opts.timings, 'read', () => template.read(sq, tables, { dataset: statisticDataset(ws.dataset, sq), coverage: ws.coverage }));
   const quality = opts.quality ? qualityCaveatsFor(sq, opts.quality, ws, opts.now ?? new Date()) : [];
   return { subQuestion: sq, queries, tables, findings, caveats: [...caveats, ...quality] };
 }
@@ -45,7 +46,8 @@ export async function answerSubQuestion(sq: SubQuestion, ws: Workspace, opts: An
  * stored copy instead. The rest (distinct counts, medians, per-unit values) read the table.
  */
 function compileFor(sq: SubQuestion, template: Template, ws: Workspace, scope: RunScope | undefined): NamedQuery[] {
-  const ctx = { ...ws.context, coverage: ws.coverage };
+  // A statistic named ("median delay"): the metric as the sub-question sees it (analysis/statistic.ts).
+  const ctx = { ...ws.context, dataset: statisticDataset(ws.context.dataset, sq), coverage: ws.coverage };
   const need = scope?.readTable ? null : rollupNeeds(sq, ws.dataset);
   if (!need) return template.compile(sq, ctx).map(({ datesRead: _dates, ...q }) => q);
   const shape = scope?.rollup;

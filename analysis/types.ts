@@ -91,6 +91,8 @@ export interface SubQuestion {
   rateUnit?: 'year' | 'decade';
   /** Two values of one dimension set against each other ("did phone grow faster than kiosk"). */
   contrast?: { dimension: string; values: [string, string] };
+  /** "median delay", "p90 delay": a quantile of an averaged metric's column instead of its mean (analysis/statistic.ts). */
+  statistic?: { quantile: number };
 }
 
 export type CellValue = string | number | boolean | null;

@@ -61,6 +61,8 @@ export interface Question {
   table?: boolean;
   /** The metric the question took from the one before ("how has that moved"). */
   metricsFromPrevious?: boolean;
+  /** "median delay", "p90 delay": a quantile of an averaged metric instead of its mean (analysis/statistic.ts), with the words it was read from. */
+  statistic?: { quantile: number; words: string };
 }
 
 /** How a slot of the brief got its value. */

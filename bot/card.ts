@@ -3,6 +3,7 @@
 // from the brief (each slot with the words it was read from, or its default and why) and the plan;
 // every platform shows its text, and those that can add a control per topic whose value is a
 // correction read by the same reader as typed words.
+import { statisticDataset } from '../analysis/statistic.js';
 import { DAY_OF_WEEK, DAY_OF_WEEK_LABEL, daySetValueWords, daySetWords, daysKept, isDayFilter } from '../analysis/day-of-week.js';
 import { inSentence, labelAtStart, listJoin, verbFor } from '../analysis/captions/grammar.js';
 import type { Coverage } from '../analysis/coverage.js';
@@ -256,7 +257,9 @@ function periodChoices(coverage: Coverage): CardChoice[] {
 
 /** A question in plain words: what, of which measure, over which period. */
 function restate(q: Question, ds: DatasetConfig, ctx: CardContext): string {
-  const m = q.metrics.map((x) => inSentence(ds.metrics.find((y) => y.name === x)?.label ?? x));
+  // "median delay": an averaged measure is restated with the statistic asked (analysis/statistic.ts).
+  const seen = q.statistic ? statisticDataset(ds, { metrics: q.metrics, statistic: q.statistic }) : ds;
+  const m = q.metrics.map((x) => inSentence(seen.metrics.find((y) => y.name === x)?.label ?? x));
   const assumed = ctx.defaults.metric ? inSentence(ds.metrics.find((y) => y.name === ctx.defaults.metric!.value)?.label ?? '') : '';
   const what = m.length > 0 ? listJoin(m) : assumed ? `${assumed} (assumed)` : 'a measure still to choose';
   // "bookings are", "revenue is"; two measures together are plural.

@@ -10,6 +10,7 @@ import { type Brief, type Question, wholeRequestQuestion } from './brief.js';
 import { fullWindow } from './reading/answers.js';
 import { daySides } from './reading/day-filter.js';
 import { isDayFilter } from '../analysis/day-of-week.js';
+import { withStatistic } from '../analysis/statistic.js';
 import { AGREE, CANCEL, GROUP_GROWTH_ASK, grainNamedBy, WEEKDAY_ASK } from './reading/lexicon.js';
 import { describeWindow } from '../analysis/window-words.js';
 import { addDays, daysBetween } from '../analysis/periods.js';
@@ -191,6 +192,11 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           break;
         }
       }
+    }
+    // "median delay": the question's items of an averaged metric take the statistic (analysis/statistic.ts).
+    if (q.statistic && drafts.length > before) {
+      // What the statistic could not reach is said on the card (reading/statistic-words.ts), where the measure is agreed.
+      drafts.push(...withStatistic(drafts.splice(before), q.statistic, ds).items);
     }
     if (drafts.length === before) notCovered.add(q.kind);
   }

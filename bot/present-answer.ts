@@ -1,5 +1,6 @@
 // An answered sub-question as a post (caption, notes, chart PNG, result CSVs, the SQL that
 // ran), and the closing summary with the takeaways in order of importance.
+import { statisticDataset } from '../analysis/statistic.js';
 import { renderChart } from '../analysis/charts/render.js';
 import { renderDigest } from '../analysis/charts/render-digest.js';
 import { dataDateWords } from '../analysis/window-words.js';
@@ -27,7 +28,7 @@ export const presentAnswer: AnswerPresenter = async (answer, { workspace, audien
   const own = { ...answer, caveats: answerCaveats(answer.caveats, workspace.coverage, sq) };
   const labelOf = (m: string) => workspace.dataset.metrics.find((x) => x.name === m)?.label ?? m;
   const dataNotes = measureNotes(answer.caveats, workspace.coverage, sq, labelOf, workspace.config.charts.locale);
-  const presented = timePhase(timings, 'read', () => definitionOf(sq).present(own, presentContext(workspace, audience)));
+  const presented = timePhase(timings, 'read', () => definitionOf(sq).present(own, { ...presentContext(workspace, audience), dataset: statisticDataset(workspace.dataset, sq) }));
   const stem = `${String(position).padStart(2, '0')}-${sq.template}-${sq.metrics.join('-')}`;
   const files: OutgoingFile[] = [];
   const spec = presented.chart;

@@ -27,7 +27,8 @@ export const metricDefinitionSchema = z.discriminatedUnion('type', [
   z.object({ type: z.literal('sum'), column: identifier, where: filterSchema.optional() }).strict(),
   z.object({ type: z.literal('count'), where: filterSchema.optional() }).strict(),
   z.object({ type: z.literal('distinct_count'), column: identifier, where: filterSchema.optional() }).strict(),
-  z.object({ type: z.literal('average'), column: identifier, where: filterSchema.optional() }).strict(),
+  // quantile: set only inside a run, when the request named a statistic (analysis/statistic.ts); never in a file.
+  z.object({ type: z.literal('average'), column: identifier, where: filterSchema.optional(), quantile: z.number().gt(0).lt(1).optional() }).strict(),
   // A ratio of two catalog metrics, computed as a ratio of their aggregates at every grain.
   z.object({ type: z.literal('ratio'), numerator: catalogName, denominator: catalogName }).strict(),
   // The share of rows (or of a base metric) that pass a filter.

@@ -15,6 +15,8 @@ import { isRollupMetric, rollupColumns, type RollupShape } from './rollup.js';
 export function rollupNeeds(sq: SubQuestion, ds: DatasetConfig): RollupShape | null {
   // A mean and median per row ("gross per film") need each row's value.
   if (sq.perRow) return null;
+  // A quantile ("median delay") needs each row's value: medians of days never add up to the median.
+  if (sq.statistic) return null;
   try {
     const use = definitionOf(sq).rollup;
     if (!use || (use.when && !use.when(sq, ds))) return null;

@@ -27,6 +27,18 @@ const GRAIN_UNIT: Record<Grain, string> = { day: 'day', week: 'week', month: 'mo
 /** The SQL standard names of the time column types, which both engines take in a CAST. */
 export const TIME_TYPE: Record<TimeColumnType, string> = { date: 'DATE', timestamp: 'TIMESTAMP', timestamptz: 'TIMESTAMP WITH TIME ZONE' };
 
+/**
+ * The continuous quantile `p` of a column (interpolated between the two nearest values, as both
+ * engines define it): quantile_cont in DuckDB, the SQL standard ordered-set aggregate
+ * percentile_cont(p) WITHIN GROUP in PostgreSQL. `p` is a number the code chose (a statistic the
+ * reader parsed, checked to lie in (0, 1)), written as a literal: DuckDB takes only a constant.
+ */
+export function quantileAggregate(dialect: Pick<Dialect, 'name'>, expr: string, p: number): string {
+  if (!(p > 0 && p < 1)) throw new Error(`quantile ${p} is not between 0 and 1`);
+  const lit = String(p);
+  return dialect.name === 'duckdb' ? `quantile_cont(${expr}, ${lit})` : `percentile_cont(${lit}) WITHIN GROUP (ORDER BY ${expr})`;
+}
+
 export function quoteIdentifier(name: string): string {
   // Doubling the quote character is the SQL standard escape for delimited identifiers.
   return `"${name.replaceAll('"', '""')}"`;

@@ -3,6 +3,7 @@
 import type { ColumnFilter, DatasetConfig, Metric } from '../../config/schema.js';
 import { isLevelSum, metricByName } from '../catalog.js';
 import type { QueryBuilder } from './query-builder.js';
+import { quantileAggregate } from './dialect.js';
 
 /**
  * `rowCondition`, when given, limits every aggregate inside the metric to the rows where it holds
@@ -29,6 +30,8 @@ export function metricAggregate(q: QueryBuilder, ds: DatasetConfig, metric: Metr
     case 'distinct_count':
       return d.toDouble(`COUNT(DISTINCT ${q.ident(def.column)})${f(def.where)}`);
     case 'average':
+      // A statistic named in the request ("median delay", analysis/statistic.ts): that quantile of the column.
+      if (def.quantile !== undefined) return d.toDouble(`${quantileAggregate(d, q.ident(def.column), def.quantile)}${f(def.where)}`);
       return d.toDouble(`AVG(${q.ident(def.column)})${f(def.where)}`);
     case 'ratio': {
       const num = metricAggregate(q, ds, metricByName(ds, def.numerator), rowCondition);

@@ -33,6 +33,7 @@ export const briefJsonSchema = z
           rateUnit: z.enum(['year', 'decade']).nullable(),
           perDay: z.boolean(),
           table: z.boolean(),
+          statistic: z.object({ quantile: z.number(), words: z.string() }).nullable().optional(),
         })
         .strict(),
     ),
@@ -86,6 +87,7 @@ export function briefToJson(brief: Brief, dataset: string): BriefJson {
       rateUnit: q.rateUnit ?? null,
       perDay: q.perDay ?? false,
       table: q.table ?? false,
+      statistic: q.statistic ?? null,
     })),
     window: inclusive(brief.window),
     compareWindow: inclusive(brief.compareWindow),

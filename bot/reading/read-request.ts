@@ -40,6 +40,7 @@ import {
 import { findPeriods, type PeriodContext, type PeriodMention } from './periods.js';
 import { isoDateIn } from './time-zone.js';
 import { overlaps, RequestText, type Span } from './text.js';
+import { applyStatistics, readStatistics } from './statistic-words.js';
 import { type DayReading, type DaySetMention, readDaySets } from './day-filter.js';
 import { DAY_OF_WEEK, dayFilter, dayScopeWords, isDayFilter } from '../../analysis/day-of-week.js';
 import { findUnknownTerms } from './unknown-words.js';
@@ -161,6 +162,9 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   // "on Fridays", "weekend orders", "weekends vs weekdays": days of the week as a filter (day-filter.ts).
   const daySets = readDaySets(text);
   for (const m of daySets.mentions) text.claim(m.span);
+  // "median delay", "p90": a statistic of the measure (statistic-words.ts).
+  const statistics = readStatistics(text);
+  for (const m of statistics) text.claim(m.span);
   const grain = readGrain(text);
   if (grain) {
     evidence.grain = { words: grain.words, how: grain.how };
@@ -179,6 +183,7 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   const { questions, ambiguous } = readQuestions(state);
   applyDaySets(questions, daySets, text, state.notes);
   state.dayWords = daySets.mentions.map((m) => m.words);
+  applyStatistics(questions, statistics, state.notes, ds);
   const unknownTerms = findUnknownTerms(text, { catalog });
   // A bare "volume" that could be several counts of the data: asked, with those counts as the closest.
   for (const r of roleHits) {

@@ -73,3 +73,26 @@ describe('two day sets set against each other', () => {
     expect([...sides].sort()).toEqual([a, b].sort());
   });
 });
+
+describe('a statistic named in the request', () => {
+  it.each([
+    ['median delay by origin', 0.5],
+    ['whats the 90th percentile delay', 0.9],
+    ['p90 delay by origin', 0.9],
+    ['delay upper quartile on weekends', 0.75],
+  ])('%s', (text, quantile) => {
+    const b = read(text);
+    expect(b.unknownTerms).toEqual([]);
+    expect(b.questions[0]!.statistic?.quantile).toBe(quantile);
+    const items = planOf(b).items;
+    // Items that take it carry it; none of the averaged metric's other items (a mean under its name) is left in.
+    expect(items.some((sq) => sq.statistic?.quantile === quantile)).toBe(true);
+    for (const sq of items) if (sq.metrics.length === 1 && sq.metrics[0] === 'avg_delay') expect(sq.statistic?.quantile).toBe(quantile);
+  });
+
+  it('a count has no median: said back, answered as it stands', () => {
+    const b = read('median flights by origin');
+    expect(b.saidBack?.join(' ')).toMatch(/"median" of flights: it is a count of rows/);
+    expect(planOf(b).items.every((sq) => sq.statistic === undefined)).toBe(true);
+  });
+});
