@@ -179,11 +179,11 @@ function numberOptions(value: number, fmt: ValueFormat, opts: FormatOptions): In
     }
     // A reading keeps its third figure: "+2.00 ppm" beside "+2.91 ppm", never "+2 ppm" (one rule of
     // three significant figures, so a caption's figure and its chart label print alike).
-    const zeros = fmt.unit === 'number' && decimals === undefined && value !== 0 && Math.abs(value) < 1000 ? { minimumSignificantDigits: 3 } : {};
-    return { ...sign, ...style, notation: 'compact', maximumSignificantDigits: 3, ...zeros };
+    const zeros = fmt.unit === 'number' && decimals === undefined && value !== 0 && Math.abs(value) < 1000 ? { minimumSignificantDigits: smallFigures(value) } : {};
+    return { ...sign, ...style, notation: 'compact', maximumSignificantDigits: smallFigures(value), ...zeros };
   }
   // A rate, and a plain number with no decimals of its own, keep three significant figures below
-  // 100 ("0.0417", "2.00", "12.3") and whole units from 100 ("355", "11,999").
+  // 100 ("0.417", "2.00", "12.3"; two below 0.1, "0.042") and whole units from 100 ("355", "11,999").
   if (((opts.rate || fmt.rate) && !currency) || fmt.unit === 'number') {
     if (decimals === undefined) return { ...sign, ...style, ...significantFigures(value) };
   }
@@ -196,10 +196,22 @@ function numberOptions(value: number, fmt: ValueFormat, opts: FormatOptions): In
   return { ...sign, ...style, minimumFractionDigits: d.min, maximumFractionDigits: d.max };
 }
 
-/** The one significant-figures rule: three figures, trailing zeros kept, below 100; whole units from 100. */
+/**
+ * The one significant-figures rule: three figures, trailing zeros kept, below 100; whole units from
+ * 100; two below 0.1 (SMALL_BELOW), so a value near zero reads "−0.023 min", not "−0.0228 min":
+ * a third figure there is past any metric's precision.
+ */
 function significantFigures(value: number): Intl.NumberFormatOptions {
   if (value === 0) return { maximumFractionDigits: 0 };
-  return Math.abs(value) >= 100 ? { maximumFractionDigits: 0 } : { minimumSignificantDigits: 3, maximumSignificantDigits: 3 };
+  const figures = smallFigures(value);
+  return Math.abs(value) >= 100 ? { maximumFractionDigits: 0 } : { minimumSignificantDigits: figures, maximumSignificantDigits: figures };
+}
+
+/** Below this magnitude a plain number keeps two significant figures instead of three. */
+const SMALL_BELOW = 0.1;
+
+function smallFigures(value: number): number {
+  return value !== 0 && Math.abs(value) < SMALL_BELOW ? 2 : 3;
 }
 
 function clampDecimals(decimals: number): number {

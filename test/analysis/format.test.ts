@@ -203,7 +203,8 @@ describe('fuzz: formatters never leak broken values', () => {
 // Number.prototype.toPrecision(3) (trailing zeros kept) below 100 and Math.round from 100.
 describe('three significant figures for plain numbers and rates', () => {
   const ppm: ValueFormat = { unit: 'number', label: 'ppm', locale: 'en' };
-  const reference = (x: number) => (Math.abs(x) >= 100 ? Math.round(x).toLocaleString('en') : x.toPrecision(3)).replace('-', MINUS);
+  // Two figures below 0.1: a third is past any metric's precision there ("−0.0228 min" was seen in a caption).
+  const reference = (x: number) => (Math.abs(x) >= 100 ? Math.round(x).toLocaleString('en') : x.toPrecision(Math.abs(x) < 0.1 ? 2 : 3)).replace('-', MINUS);
   it('prints a reading the same in full and compact below 1,000, trailing zeros kept: "+2.00 ppm" beside "+2.91 ppm"', () => {
     // Mauna Loa annual means (vega-datasets co2-concentration.csv): 2018 − 2017 = 408.5875 − 406.5842.
     const change2018 = 408.5875 - 406.58417;
@@ -212,7 +213,7 @@ describe('three significant figures for plain numbers and rates', () => {
     expect(formatValue(2.91, ppm, { compact: true, signed: true })).toBe('+2.91\u00a0ppm');
     expect(formatValue(1.6, ppm, { compact: true })).toBe('1.60\u00a0ppm');
   });
-  it('agrees with toPrecision(3) for any number below 100 and whole units from 100', () => {
+  it('agrees with toPrecision(3) for any number below 100 (toPrecision(2) below 0.1) and whole units from 100', () => {
     fc.assert(
       fc.property(fc.double({ min: -99_999, max: 99_999, noNaN: true }).filter((x) => Math.abs(x) >= 1e-6 && Math.abs(Number(x.toPrecision(3))) < 100 === Math.abs(x) < 100), (x) => {
         expect(formatValue(x, { unit: 'number', locale: 'en' })).toBe(reference(x));
@@ -221,7 +222,9 @@ describe('three significant figures for plain numbers and rates', () => {
     );
   });
   it('a format marked as a rate uses the rule wherever it is printed, and a count stays whole', () => {
-    expect(formatValue(0.0417, { unit: 'number', rate: true, locale: 'en' })).toBe('0.0417');
+    expect(formatValue(0.0417, { unit: 'number', rate: true, locale: 'en' })).toBe('0.042');
+    expect(formatValue(0.417, { unit: 'number', rate: true, locale: 'en' })).toBe('0.417');
+    expect(formatValue(-0.0228, { unit: 'number', label: 'min', locale: 'en' }, { compact: true })).toBe(`${MINUS}0.023\u00a0min`);
     expect(formatValue(1.4, { unit: 'count', locale: 'en' })).toBe('1');
     // A metric's own decimals still win.
     expect(formatValue(0.0417, { unit: 'number', rate: true, decimals: 2, locale: 'en' })).toBe('0.04');

@@ -14,7 +14,8 @@ import { presentContext } from '../../../bot/present-answer.js';
 import { loadSeattleWeather, seattleWeatherConfig } from '../stats/seattle-weather.js';
 
 // toPrecision keeps trailing zeros ("1.40"), as the caption does beside "1.43".
-const threeFigures = (x: number) => x.toPrecision(3);
+// Three significant figures, two below 0.1 (analysis/format.ts: a third figure there is past any metric's precision).
+const threeFigures = (x: number) => x.toPrecision(Math.abs(x) < 0.1 ? 2 : 3);
 
 describe('a rate of a count keeps three significant figures below 100', () => {
   it('matches toPrecision(3) for small rates and whole units from 100', () => {
