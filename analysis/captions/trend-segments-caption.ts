@@ -39,6 +39,8 @@ function sizeLine(metric: Metric, named: readonly SegmentTrendFinding[], fmt: Re
   if (valued.length === 0) return '';
   // The largest by value, whichever order the segments were ranked in ("lowest first" lists the smallest first).
   const largest = valued.reduce((a, b) => (b.total! > a.total! ? b : a));
+  // Asked per day: the largest by its figure per day, not a total.
+  if (largest.perDay) return `${segmentLabel(largest)} is the largest, at ${formatValue(largest.total, fmt, { rate: true })} a day${span}.`;
   if (addsAcrossSegments(metric)) return `${segmentLabel(largest)} is the largest, at ${formatValue(largest.total, fmt, { compact: true })}${span}.`;
   const byValue = [...valued].sort((a, b) => b.total! - a.total!);
   const top = byValue[0]!;
@@ -48,9 +50,11 @@ function sizeLine(metric: Metric, named: readonly SegmentTrendFinding[], fmt: Re
   return `Of the ${byValue.length} shown, ${segmentLabel(top)} has the highest ${noun}, ${formatValue(top.total, fmt)}${span}, and ${segmentLabel(bottom)} the lowest, ${formatValue(bottom.total, fmt)}.`;
 }
 
-export function segmentTrendWords(metric: Metric, dim: Dim, findings: readonly Finding[], audience: Audience, locale: string): Words {
-  const overview = findings.find((f): f is SegmentTrendOverviewFinding => f.type === 'segment_trend_overview' && f.metric === metric.name);
-  const trends = findings.filter((f): f is SegmentTrendFinding => f.type === 'segment_trend' && f.metric === metric.name);
+export function segmentTrendWords(asked: Metric, dim: Dim, findings: readonly Finding[], audience: Audience, locale: string): Words {
+  const overview = findings.find((f): f is SegmentTrendOverviewFinding => f.type === 'segment_trend_overview' && f.metric === asked.name);
+  const trends = findings.filter((f): f is SegmentTrendFinding => f.type === 'segment_trend' && f.metric === asked.name);
+  // Asked per day: every figure is one per day, and the words name it so.
+  const metric = trends.some((t) => t.perDay) ? { ...asked, label: `${asked.label} per day` } : asked;
   const plural = dimensionPlural(dim);
   const fmt = valueFormatOf(metric, locale);
   const noun = inSentence(metric.label);

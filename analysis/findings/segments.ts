@@ -187,9 +187,11 @@ export interface SegmentTrendFinding extends SegmentKey {
   metric: string;
   dimension: string;
   grain: Grain;
-  /** The metric over the whole window for this segment. */
+  /** The metric over the whole window for this segment (with `perDay`, over its days). */
   total: number | null;
   points: PeriodPoint[];
+  /** Asked per day: `total`, the points and the yearly growth are figures per day. */
+  perDay?: true;
   /** First period with any row of this segment. */
   firstPeriod: string | null;
   /** Sen's slope was taken on seasonally adjusted values (two full cycles or more), as in trend_test. */

@@ -70,6 +70,15 @@ export function chartHeader(answer: Answer, metric: Metric, title: string, ctx: 
   return { title, chip: metric.label, subtitle: chartSubtitle(answer, metric, ctx), footer: chartFooter(answer, ctx), ...ctx.chart };
 }
 
+/**
+ * The metric as the answer's words state it: asked per day (its series is per day), "Bookings per
+ * day", a daily average read like a ratio (no "a month" after it: it is not a total of the month).
+ */
+export function statedMetric(answer: Answer, metric: Metric): Metric {
+  const perDay = answer.findings.some((f) => f.type === 'series' && f.metric === metric.name && f.perDay === true);
+  return perDay ? { ...metric, label: `${metric.label} per day`, kind: 'ratio' } : metric;
+}
+
 /** The answer's series of `metric` as a line chart (high and low marked), or null with no values. */
 export function seriesLineChart(
   answer: Answer,

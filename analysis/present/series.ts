@@ -23,7 +23,8 @@ export const presentSeries: Presenter = (answer, ctx) => {
   };
 };
 
-function perDayCsv(series: Extract<Finding, { type: 'series' }>): string {
+/** A per-day series as its own table (period, the figure per day, partial): the query's rows are totals. */
+export function perDayCsv(series: Extract<Finding, { type: 'series' }>): string {
   const columns: ResultColumn[] = [{ name: 'period', type: 'date' }, { name: `${series.metric}_per_day`, type: 'number' }, { name: 'partial', type: 'boolean' }];
   return tableToCsv({ columns, rows: series.points.map((p) => ({ period: p.period, [`${series.metric}_per_day`]: p.value, partial: p.partial })), truncated: false });
 }

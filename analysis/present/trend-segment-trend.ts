@@ -9,6 +9,8 @@ import type { SegmentTrendFinding, SegmentTrendOverviewFinding } from '../findin
 import { caveatNotes, chartFooter, chartSubtitle } from './header.js';
 import type { Presenter } from './presenter.js';
 import { valueFormatOf } from '../format.js';
+import { tableToCsv } from '../table-csv.js';
+import type { ResultColumn } from '../types.js';
 
 export const presentSegmentTrend: Presenter = (full, ctx) => {
   // The chart is bars of window totals: nothing is drawn dashed, and growth rates already skip a
@@ -62,6 +64,18 @@ export const presentSegmentTrend: Presenter = (full, ctx) => {
     caption: words.caption,
     notes: caveatNotes(answer, ctx),
     chart,
+    // Asked per day: each segment's figures per day, as the words state them (the query's rows are totals).
+    ...(trends.some((t) => t.perDay) ? { csv: perDaySegmentsCsv(trends, metric.name) } : {}),
     takeaway: chart ? { importance: 55, text: words.title } : null,
   };
 };
+
+function perDaySegmentsCsv(trends: readonly SegmentTrendFinding[], metric: string): string {
+  const v = `${metric}_per_day`;
+  const columns: ResultColumn[] = [{ name: 'segment', type: 'text' }, { name: 'other', type: 'boolean' }, { name: 'period', type: 'text' }, { name: v, type: 'number' }, { name: 'partial', type: 'boolean' }];
+  const rows = trends.flatMap((t) => [
+    { segment: t.segment, other: t.other, period: 'whole period', [v]: t.total, partial: false },
+    ...t.points.map((p) => ({ segment: t.segment, other: t.other, period: p.period, [v]: p.value, partial: p.partial })),
+  ]);
+  return tableToCsv({ columns, rows, truncated: false });
+}

@@ -3,11 +3,11 @@
 // its first to its last full calendar year, and its peak; gaps and late starts become caveats.
 import { metricByName } from '../catalog.js';
 import type { SegmentTrendFinding, SegmentTrendOverviewFinding, SegmentYearGrowth } from '../findings/segments.js';
-import { addDays, nextPeriod } from '../periods.js';
+import { addDays, daysBetween, nextPeriod } from '../periods.js';
 import { yearsThroughout } from '../presence.js';
 import { cagr, relativeChange, senSlope } from '../stats/index.js';
 import type { Caveat, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
-import { compileFoldedSegments, foldedAs, namedSegmentCount, segmentDimension } from './segments-fold-sql.js';
+import { compileFoldedSegments, foldedAs, namedSegmentCount, perDayAsked, segmentDimension } from './segments-fold-sql.js';
 import { foldedCaveats, foldedRow, readSegmentTotals, segmentCoverageCaveats, type FoldedRow } from './segments-read.js';
 import { minGroupSize } from './small-groups.js';
 import type { ReadContext, Reading, Template } from './template.js';
@@ -18,7 +18,7 @@ export const segmentTrendTemplate: Template = {
     segmentDimension(sq, ctx);
     const topN = namedSegmentCount(sq);
     return [
-      { name: 'segment_totals', ...compileFoldedSegments(sq, ctx, { topN, grain: null, totals: true }) },
+      { name: 'segment_totals', ...compileFoldedSegments(sq, ctx, { topN, grain: null, totals: true, perDay: perDayAsked(sq, ctx.dataset) }) },
       { name: 'segment_series', ...compileFoldedSegments(sq, ctx, { topN, grain: sq.grain }) },
       { name: 'segment_years', ...compileFoldedSegments(sq, ctx, { topN, grain: 'year', monthsWithRows: true }) },
     ];
@@ -45,12 +45,22 @@ export function readSegmentTrend(sq: SubQuestion, totals: ResultTable, seriesTab
   const cells = groupRows(seriesTable);
   const yearRows = groupRows(years);
   const perYear = periodsInYear(sq.grain);
+  // Asked per day: each period's figure over its days (those the window and the data cover), as
+  // the series shows it; the totals come per day from the query (each segment over its own days).
+  const perDay = perDayAsked(sq, ctx.dataset);
+  const daily = (period: string, grain: SubQuestion['grain'], v: number | null) => {
+    if (!perDay || v === null) return v;
+    const from = period > covered.start ? period : covered.start;
+    const next = nextPeriod(period, grain);
+    const days = daysBetween(from, next < covered.end ? next : covered.end);
+    return days > 0 ? v / days : null;
+  };
 
   const findings: Finding[] = [];
   const trends: SegmentTrendFinding[] = [];
   for (const seg of segments) {
     const mine = cells.get(seg.id) ?? new Map<string, FoldedRow>();
-    const points: PeriodPoint[] = starts.map((p) => ({ period: p, value: mine.get(p)?.value ?? null, partial: partial.has(p) }));
+    const points: PeriodPoint[] = starts.map((p) => ({ period: p, value: daily(p, sq.grain, mine.get(p)?.value ?? null), partial: partial.has(p) }));
     const withRows = new Set([...mine.values()].filter((c) => c.rowCount > 0).map((c) => String(c.row.period)));
     caveats.push(...segmentCoverageCaveats(seg, dimension, sq.grain, starts, partial, withRows));
     const complete = completePoints(points);
@@ -78,8 +88,9 @@ export function readSegmentTrend(sq: SubQuestion, totals: ResultTable, seriesTab
       slopePerPeriod: sen ? sen.slope : null,
       slopePerYear,
       slopePerYearRelative: slopePerYear !== null && level !== null && level > 0 && relativeYearlyRateApplies(complete.map((c) => c.value), sq.grain) ? slopePerYear / level : null,
-      growth: yearGrowth(yearRows.get(seg.id), covered),
+      growth: yearGrowth(yearRows.get(seg.id), covered, perDay ? (period, v) => daily(period, 'year', v) : undefined),
       peak,
+      ...(perDay ? { perDay: true as const } : {}),
     };
     trends.push(trend);
     findings.push(trend);
@@ -127,7 +138,7 @@ function groupRows(table: ResultTable): Map<string, Map<string, FoldedRow>> {
  * was there throughout (analysis/presence.ts: every month with a row, or between two of its years
  * with rows, so a sparse segment is not dropped for a quiet month).
  */
-function yearGrowth(rows: Map<string, FoldedRow> | undefined, covered: { start: string; end: string }): SegmentYearGrowth | null {
+function yearGrowth(rows: Map<string, FoldedRow> | undefined, covered: { start: string; end: string }, perDay?: (period: string, v: number | null) => number | null): SegmentYearGrowth | null {
   if (!rows) return null;
   const inWindow = [...rows.entries()].filter(([period]) => period >= covered.start && `${isoYear(period) + 1}-01-01` <= covered.end);
   const throughout = yearsThroughout(inWindow.map(([period, r]) => ({ year: isoYear(period), monthsWithRows: numberOrNull(r.row.months_with_rows) ?? 0 })));
@@ -135,17 +146,21 @@ function yearGrowth(rows: Map<string, FoldedRow> | undefined, covered: { start: 
     .filter(([period, r]) => throughout.has(isoYear(period)) && r.value !== null)
     .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
   if (full.length < 2) return null;
-  const [firstPeriod, first] = full[0]!;
-  const [lastPeriod, last] = full[full.length - 1]!;
+  const [firstPeriod, firstRow] = full[0]!;
+  const [lastPeriod, lastRow] = full[full.length - 1]!;
   const fromYear = isoYear(firstPeriod);
   const toYear = isoYear(lastPeriod);
+  // Per day, a leap year's extra day does not count as growth.
+  const first = perDay ? perDay(firstPeriod, firstRow.value) : firstRow.value;
+  const last = perDay ? perDay(lastPeriod, lastRow.value) : lastRow.value;
+  if (first === null || last === null) return null;
   return {
     fromYear,
     toYear,
-    from: first.value!,
-    to: last.value!,
-    relative: relativeChange(first.value, last.value),
-    cagr: cagr(first.value, last.value, toYear - fromYear),
+    from: first,
+    to: last,
+    relative: relativeChange(first, last),
+    cagr: cagr(first, last, toYear - fromYear),
   };
 }
 

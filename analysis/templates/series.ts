@@ -39,7 +39,7 @@ export const seriesTemplate: Template = {
 };
 
 /** The metrics of `sq` to state per day: asked per day, a total that adds up over days, at a grain coarser than a day. */
-function perDayOf(sq: SubQuestion, ds: DatasetConfig): Set<string> {
+export function perDayOf(sq: SubQuestion, ds: DatasetConfig): Set<string> {
   if (!sq.perDay || sq.grain === 'day') return new Set();
   return new Set(sq.metrics.filter((m) => isAdditive(metricByName(ds, m))));
 }

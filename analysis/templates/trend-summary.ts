@@ -7,7 +7,7 @@ import { type CompileContext, tableRef, whereClause } from '../compile-context.j
 import { filterCondition } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
-import { compileSeries, modelOf, readSeries } from './series.js';
+import { compileSeries, modelOf, perDayOf, readSeries } from './series.js';
 import type { ReadContext, Reading, Template } from './template.js';
 import { completePoints, EMPTY_TABLE, numberOrNull, seriesFinding } from './trend-points.js';
 
@@ -54,7 +54,8 @@ function withRowStats(reading: Reading, table: ResultTable | undefined): Reading
 
 export function readTrendSummary(sq: SubQuestion, table: ResultTable, ctx: ReadContext): Reading {
   const metric = sq.metrics[0]!;
-  const base = readSeries({ ...sq, metrics: [metric] }, table, ctx.coverage, { dataset: ctx.dataset });
+  // Asked per day: the periods' figures per day, as the series shows them.
+  const base = readSeries({ ...sq, metrics: [metric] }, table, ctx.coverage, { dataset: ctx.dataset, perDay: perDayOf({ ...sq, metrics: [metric] }, ctx.dataset) });
   const findings: Finding[] = [...base.findings];
   // The unusual periods are this answer's own findings, named in its caption: no note repeats them.
   const caveats: Caveat[] = base.caveats.filter((c) => c.code !== 'outlier');

@@ -6,7 +6,7 @@ import { yearFraction } from '../periods.js';
 import { mannKendall, relativeChange, senSlope, slopesByDecade, type DecadeSlope, type SeasonalModel } from '../stats/index.js';
 import type { Caveat, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
 import type { TrendTestFinding } from '../findings/segments.js';
-import { compileSeries, readSeries } from './series.js';
+import { compileSeries, perDayOf, readSeries } from './series.js';
 import type { ReadContext, Reading, Template } from './template.js';
 import { completePoints, EMPTY_TABLE, mean, periodsInYear, relativeYearlyRateApplies, seasonallyAdjusted, seasonUnresolvedOver, seriesFinding, spansAYear } from './trend-points.js';
 
@@ -22,7 +22,8 @@ export const trendTestTemplate: Template = {
 export function readTrendTest(sq: SubQuestion, table: ResultTable, ctx: ReadContext): Reading {
   const metric = sq.metrics[0]!;
   const one = { ...sq, metrics: [metric] };
-  const base = readSeries(one, table, ctx.coverage, { dataset: ctx.dataset });
+  // Asked per day: the periods' figures per day, as the series shows them.
+  const base = readSeries(one, table, ctx.coverage, { dataset: ctx.dataset, perDay: perDayOf(one, ctx.dataset) });
   const findings: Finding[] = [...base.findings];
   // Unusual periods are said under the answer that draws or lists the periods (the series, the
   // summary), not again under the trend's verdict.
