@@ -73,6 +73,8 @@ export interface SubQuestion {
   launchDate?: string;
   /** The two periods are either side of launchDate with no group to set against: said as a before/after, not as an effect. */
   beforeAfter?: boolean;
+  /** growth_periods for a named period whose comparison period lies before the data's start: its figure is given alone. */
+  priorOutsideData?: boolean;
   /** "bookings per day by month": per-day averages at the grain. */
   /** The request asked a summed metric per row ("gross per film"): compare its mean and median per row, not its total. */
   perRow?: string;

@@ -184,7 +184,9 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           // period of the grain, is answered by its own figure (a flow's total, a level's mean
           // reading), beside the same dates a year earlier; its last month is the snapshot.
           const whole = q.window && !q.compareWindow && periodsIn(q.window, grain) > 1 ? q.window : null;
-          if (whole) add('growth_periods', metric, true, { compareWindow: priorWindow(whole) }, whole);
+          // Listed with the KPI question it answers; a year before the data is said in the plan line.
+          const prior = whole ? priorWindow(whole) : null;
+          if (whole && prior) add('growth_periods', metric, true, { kind: 'kpi', compareWindow: prior, ...(prior.start < history.start ? { priorOutsideData: true } : {}) }, whole);
           add('kpi_snapshot', metric, !whole, {}, upTo);
           add('kpi_context', metric, false, {}, upTo);
           for (const d of dims) add('kpi_by_segment', metric, ranks, { dimension: d, ...(ranks ? { answersAsked: true } : {}) }, upTo);

@@ -23,7 +23,8 @@ export const presentGrowthPeriods: Presenter = (answer, ctx) => {
   return {
     title: words.title,
     caption: `${words.caption}${caution}`,
-    notes: growthNotes(answer, ctx.locale, ctx.dataset),
+    // The caption already says the earlier period has no figure: its note would say it again.
+    notes: growthNotes(f && (f.total.before === null) ? { ...answer, caveats: answer.caveats.filter((c) => !(c.code === 'no_data' && c.data.window === 'prior')) } : answer, ctx.locale, ctx.dataset),
     chart,
     // The comparison the request named: its verdict is this answer's.
     takeaway: f ? withVerdict({ importance: 65, text: `${words.title}.` }, spansVerdict(metric, f, ctx.locale)) : null,

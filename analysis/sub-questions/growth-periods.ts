@@ -13,5 +13,7 @@ export const growthPeriodsSubQuestion = defineSubQuestion({
   describe: (w, sq) =>
     sq.beforeAfter
       ? `${capitalise(w.metric)} before and after ${w.span.split(' to ')[0]}: ${w.span} against as many days before it (${w.base}), and the change between them.`
-      : `${capitalise(w.metric)}, ${w.span} against ${w.base}: each period's figure and the change between them.`,
+      : sq.priorOutsideData
+        ? `${capitalise(w.metric)}, ${w.span}: its figure (${w.base}, to compare with, is before the data starts).`
+        : `${capitalise(w.metric)}, ${w.span} against ${w.base}: each period's figure and the change between them.`,
 });

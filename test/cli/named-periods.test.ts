@@ -80,12 +80,15 @@ let added: string[] = [];
 let level: string[] = [];
 let between: string[] = [];
 let total: string[] = [];
+let first: string[] = [];
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'tc-named-periods-'));
   added = await postsOf('How many jobs were added in 2009 vs 2008?');
   level = await postsOf('payrolls 2009 vs 2008?');
   between = await unemploymentPosts("Hi team, hope you're well! Could you pull together how the jobless rate in Finance compared between 2008 and 2009 for the leadership deck? Thanks so much");
   total = await unemploymentPosts('how many people were unemployed in total in 2009?');
+  // The data's first year: the year before it is not in the data.
+  first = await unemploymentPosts('how many people were unemployed in total in 2000?');
 }, 600_000);
 
 describe('two named periods with no breakdown', () => {
@@ -149,5 +152,17 @@ describe('"in total in 2009"', () => {
     expect(first, total.join('\n---\n')).toContain(`Unemployed: ${thousands(year)} in 2009 against ${thousands(industryYear(2008, 'count'))} in 2008`);
     expect(first).toContain('average over the period of the total at each date');
     expect(first).not.toMatch(/December/);
+    // Listed under the question it answers, a KPI, not under a growth heading the request never asked.
+    const card = total.find((p) => p.startsWith('*Here is what I understood.*'))!;
+    expect(card).toMatch(/\*KPI snapshot\*\n1\. Unemployed, January 2009 to December 2009 against January 2008 to December 2008/);
+    expect(card).not.toContain('*Growth*');
+  });
+
+  it('on the data\'s first year, the plan says the year before is not in the data, and the answer says it once', () => {
+    const card = first.find((p) => p.startsWith('*Here is what I understood.*'))!;
+    expect(card).toContain('1. Unemployed, January 2000 to December 2000: its figure (January 1999 to December 1999, to compare with, is before the data starts).');
+    const answer = first.find((p) => /^\*1\. /.test(p))!;
+    expect(answer).toContain(`Unemployed was ${thousands(industryYear(2000, 'count'))} in 2000; 1999 has no figure to compare with.`);
+    expect(answer).not.toContain('_Note: There is no data');
   });
 });
