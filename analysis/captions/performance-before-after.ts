@@ -20,7 +20,9 @@ import {
   noTestWords,
   quantityFormat,
   quantityLabel,
+  rowNoun,
   sampleNoun,
+  unitColumnNoun,
   seriesQuantity,
   seriesUnit,
   statisticText,
@@ -205,4 +207,79 @@ export function monthSpan(w: { start: string; end: string }, locale: string): st
 
 function windowsNote(p: PerformancePeriodsFinding, locale: string): string {
   return `Equal windows of ${months(p.months)} either side of the launch: ${monthSpan(p.before, locale)} before, ${monthSpan(p.after, locale)} after.`;
+}
+
+/**
+ * Words of a per-customer before/after (performance_unit_did): the same customers' metric per
+ * month before and after the launch, members against others, who was compared and who left out,
+ * and the caution that members chose to join.
+ */
+export function unitDidWords(findings: readonly Finding[], ctx: WordsContext): PerformanceWords | null {
+  const did = findOne(findings, 'performance_unit_did');
+  const periods = findOne(findings, 'performance_periods');
+  if (!did || !periods) return null;
+  const { metric, group, locale, dataset } = ctx;
+  const noun = unitColumnNoun(dataset, did.unit);
+  const rowsNoun = rowNoun(dataset);
+  const label = quantityLabel(metric, 'per_unit_month', dataset, did.unit);
+  const fmt = quantityFormat(metric, 'per_unit_month', locale);
+  const value = (v: number) => formatValue(v, fmt);
+  const pct = (x: number) => formatValue(x, { unit: 'percent', decimals: 1, locale }, { signed: true });
+  const m = groupLabel(group, 'members');
+  const o = groupLabel(group, 'others');
+  const [mg, og] = [did.groups.members, did.groups.others];
+  const before = monthSpan(periods.before, locale);
+  const after = monthSpan(periods.after, locale);
+  const span = `the ${months(periods.months)} before the launch (${before}) and the ${months(periods.months)} after it (${after})`;
+  const notes = [
+    windowsNote(periods, locale),
+    `Compared: ${noun.plural} with at least one ${rowsNoun.singular} both before and after the launch. They were ${noun.plural} throughout, so their months without a ${rowsNoun.singular} count as 0; ${noun.plural} seen on one side only may not have existed on the other, so they are left out rather than counted as 0.`,
+    `${capitalise(inText(m))} chose to join: ${noun.plural} who did may differ from those who did not in ways that also move the figures, so this is not an experiment and the gap is not the effect of ${group.label} alone.`,
+  ];
+  const count = (n: number) => countText(n, locale);
+  const who = (n: number, label: string) => `${count(n)} ${inText(label)}`;
+  const leftParts: string[] = [];
+  const entered = [mg.enteredAfter > 0 ? who(mg.enteredAfter, m) : null, og.enteredAfter > 0 ? who(og.enteredAfter, o) : null].filter(Boolean);
+  const left = [mg.leftBefore > 0 ? who(mg.leftBefore, m) : null, og.leftBefore > 0 ? who(og.leftBefore, o) : null].filter(Boolean);
+  if (entered.length) leftParts.push(`${entered.join(' and ')} first seen after the launch`);
+  if (left.length) leftParts.push(`${left.join(' and ')} seen only before it`);
+  const leftOut = leftParts.length ? ` Left out as having joined or left within the windows: ${leftParts.join('; ')}.` : '';
+  const move = (g: typeof mg, label: string) =>
+    g.before !== null && g.after !== null ? `${count(g.panel)} ${inText(label)} went from ${value(g.before)} to ${value(g.after)} ${inText(metric.label)} a month each` : null;
+
+  if (mg.suppressed || og.suppressed) {
+    const title = `${label}: too few ${noun.plural} to compare before and after the launch`;
+    const caption = `Over ${span}, too few ${noun.plural} of ${mg.suppressed ? inText(m) : inText(o)} booked on both sides to show (below the minimum group size).${leftOut}`;
+    return { title, caption, notes, takeaway: null, clear: false };
+  }
+  if (mg.panel === 0 || og.panel === 0) {
+    const none = mg.panel === 0 ? m : o;
+    const seen = mg.panel === 0 ? mg.enteredAfter : og.enteredAfter;
+    const title = `${label}: no ${inText(none)} to follow across the launch`;
+    const other = mg.panel === 0 ? move(og, o) : move(mg, m);
+    const caption =
+      `None of the ${count(seen + (mg.panel === 0 ? mg.leftBefore : og.leftBefore))} ${inText(none)} had a ${rowsNoun.singular} both in ${before} and in ${after}${seen > 0 ? `: ${count(seen)} first appear after the launch` : ''}, so the same ${noun.plural} cannot be followed from before to after (no difference in differences).` +
+      (other ? ` For comparison, ${other} (${before} against ${after}).` : '') +
+      leftOut;
+    return { title, caption, notes, takeaway: `${title}.`, clear: false };
+  }
+  if (did.estimate === null) {
+    return { title: `${label} before and after the launch`, caption: `There is no difference in differences to state over ${span}.${leftOut}`, notes, takeaway: null, clear: false };
+  }
+  const ci = did.relativeCi;
+  const clear = ci !== null ? ci[0] > 0 || ci[1] < 0 : did.ci !== null && (did.ci[0] > 0 || did.ci[1] < 0);
+  const chance = clear ? 'the difference is unlikely to be chance' : 'a difference this size could be chance';
+  const dir = did.estimate > 0 ? 'more' : did.estimate < 0 ? 'less' : 'the same';
+  const rel = did.relative !== null ? pct(did.relative) : null;
+  const title =
+    rel !== null
+      ? `${label}: ${inText(m)} ${rel} against the change among ${inText(o)} since the launch`
+      : `${label}: ${inText(m)} ${dir} against the change among ${inText(o)} since the launch`;
+  const interval = ci ? `; ${Math.round(did.confidence * 100)}% interval ${pct(ci[0])} to ${pct(ci[1])}` : did.ci ? `; ${Math.round(did.confidence * 100)}% interval ${formatValue(did.ci[0], fmt, { signed: true })} to ${formatValue(did.ci[1], fmt, { signed: true })} a month` : '';
+  const caption =
+    `The same ${noun.plural} over ${span}: ${move(mg, m)}, and ${move(og, o)}. ` +
+    `Set against the change among ${inText(o)}, ${inText(m)} ${dir === 'the same' ? 'moved the same' : `moved ${formatValue(Math.abs(did.estimate), fmt)} ${inText(metric.label)} a month ${did.estimate > 0 ? 'higher' : 'lower'}`}` +
+    `${rel !== null ? `: ${rel} on what their own before plus the others' change would give` : ''} (difference in differences${interval}, bootstrap over ${noun.plural}); ${chance}.` +
+    leftOut;
+  return { title, caption, notes, takeaway: `${title}; ${chance}.`, clear };
 }

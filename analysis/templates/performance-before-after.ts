@@ -17,6 +17,7 @@ import { cellFromRow, comparisonPlanFor, comparisonShape, goodDirection, measure
 import { groupableDimension } from '../catalog.js';
 import { type Cell, cellEstimate, compareCells, contrast, logRatioContrast, poolCells, verdictOf } from './performance-stats.js';
 import type { Template } from './template.js';
+import { compileUnitDid, effectiveWindow, launchOf, readUnitDid, unitDidApplies } from './performance-unit-did.js';
 
 /** Per period × group summary pieces over the whole window, at `grain`. */
 export function compileGroupPeriods(sq: SubQuestion, ctx: CompileContext, grain: Grain, name: string): NamedQuery {
@@ -90,9 +91,24 @@ function unitsPerGroup(sq: SubQuestion, ds: CompileContext['dataset'], table: Re
   return count.members && count.others ? { unit: shape.perUnit, members: count.members, others: count.others } : null;
 }
 
+/**
+ * The equal windows a per-customer before/after compares (performance-unit-did.ts), or null when
+ * the question is not asked per customer or the data has no whole month on a side.
+ */
+function unitPeriods(sq: SubQuestion, ds: CompileContext['dataset'], coverage: Coverage | undefined): PerformancePeriodsFinding | null {
+  const group = resolveGroup(ds, sq);
+  const metric = primaryMetric(ds, sq);
+  if (!unitDidApplies(ds, sq, group, metric)) return null;
+  const w = effectiveWindow(sq, coverage);
+  return equalWindows(launchOf(sq, group)!, w.start, w.end);
+}
+
 export const performanceBeforeAfterTemplate: Template = {
   compile: (sq, ctx) => {
     const group = resolveGroup(ctx.dataset, sq);
+    // "Are pass holders travelling more?": the same customers before and after, per customer.
+    const perUnit = unitPeriods(sq, ctx.dataset, ctx.coverage);
+    if (perUnit) return compileUnitDid(sq, ctx, group, primaryMetric(ctx.dataset, sq), perUnit);
     const series = compileGroupPeriods(sq, ctx, sq.grain, 'series');
     const leftOut = compileUnitsLeftOut(sq, ctx, group, sq.window);
     const units = compileGroupUnits(sq, ctx);
@@ -103,6 +119,12 @@ export const performanceBeforeAfterTemplate: Template = {
     const ds = ctx.dataset;
     const metric = primaryMetric(ds, sq);
     const group = resolveGroup(ds, sq);
+    const perUnit = tables.unit_tally ? unitPeriods(sq, ds, ctx.coverage) : null;
+    if (perUnit) {
+      // What is compared is the two equal windows, whatever the window asked.
+      const read = readUnitDid(sq, ds, group, metric, perUnit, tables);
+      return { ...read, findings: [{ type: 'performance_window', group: group.name, start: perUnit.before.start, end: perUnit.after.end, launchDate: perUnit.launchDate, clippedToLaunch: false }, ...read.findings] };
+    }
     const shape = comparisonShape(ds, metric);
     const series = tables.series ?? EMPTY_TABLE;
     const months = sq.grain === 'month' ? series : (tables.months ?? EMPTY_TABLE);
