@@ -102,6 +102,12 @@ export function cardNotes(brief: Brief, ds: DatasetConfig): string[] {
   if (personal.length > 0) out.push(`${personalDataRefusal(ds, personal)} The rest of the request is answered without it.`);
   const unknown = brief.unknownTerms.filter((u) => u.role !== 'metric');
   for (const u of unknown) {
+    // A breakdown the data does not have ("top 5 carriers"): said, with the breakdowns it has, never dropped for the whole.
+    if (u.role === 'dimension') {
+      const own = ds.dimensions.filter((d) => !d.personal_data).map((d) => inSentence(d.label));
+      out.push(`There is no "${u.text}" in this dataset, so nothing is broken down or ranked by it. ${own.length > 0 ? `The breakdowns it has: ${joinWords(own)} (say "by ${own[0]}" to use one).` : 'It has no breakdowns.'}`);
+      continue;
+    }
     const near = u.closest.length > 0 ? ` The nearest I have: ${u.closest.slice(0, 3).join(', ')}.` : '';
     out.push(`I found nothing called "${u.text}" in this dataset, so the answers cover everything without it.${near} Name a value to narrow them ("only …").`);
   }

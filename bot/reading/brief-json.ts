@@ -42,7 +42,8 @@ export const briefJsonSchema = z
     grain: z.enum(GRAINS).nullable(),
     audience: z.enum(AUDIENCES).nullable(),
     deadline: isoDate.nullable(),
-    unknownTerms: z.array(z.object({ text: z.string(), closest: z.array(z.string()) }).strict()),
+    /** `role`: what the words seemed to name (a measure, a breakdown, a value of the data), when the reader could tell. */
+    unknownTerms: z.array(z.object({ text: z.string(), closest: z.array(z.string()), role: z.enum(['metric', 'dimension', 'value', 'other']).optional() }).strict()),
     ambiguousValues: z.array(z.object({ text: z.string(), candidates: z.array(z.object({ dimension: z.string(), value: z.string() }).strict()) }).strict()),
     personalData: z.array(z.string()),
     personalValues: z.array(z.string()),
@@ -94,7 +95,7 @@ export function briefToJson(brief: Brief, dataset: string): BriefJson {
     grain: brief.grain ?? null,
     audience: brief.audience ?? null,
     deadline: brief.deadline && brief.deadline !== 'none' ? brief.deadline : null,
-    unknownTerms: brief.unknownTerms.map((u) => ({ text: u.text, closest: u.closest })),
+    unknownTerms: brief.unknownTerms.map((u) => ({ text: u.text, closest: u.closest, ...(u.role ? { role: u.role } : {}) })),
     ambiguousValues: brief.ambiguousValues ?? [],
     personalData: brief.personalData ?? [],
     personalValues: brief.personalValues ?? [],

@@ -68,9 +68,11 @@ export function allowedEdits(length: number): number {
   return length >= 9 ? 2 : length >= 5 ? 1 : 0;
 }
 
-// Words a measure's name uses interchangeably: "urgent rate" is the catalog's "urgent share".
+// Words a measure's name uses interchangeably: "urgent percentage" is the catalog's "urgent share".
+// A rate is not always a share ("unemployment rate" is no "Unemployment share" of readings over a
+// line): "rate" names a share only where the measure's own names say so (also_called: [urgent rate]).
 const SAME_WORD: Record<string, string> = {
-  rate: 'share', percentage: 'share', percent: 'share', proportion: 'share', ratio: 'share', fraction: 'share', pct: 'share',
+  percentage: 'share', percent: 'share', proportion: 'share', ratio: 'share', fraction: 'share', pct: 'share',
   avg: 'average', mean: 'average', typical: 'average',
   num: 'number', count: 'number',
 };

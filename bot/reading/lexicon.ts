@@ -187,8 +187,8 @@ export const STOPWORDS = new Set(
 export const ORDINARY = new Set(
   `able ahead ask asked asking answer answers bit break breakdown broken briefly build call chance chart charts check clear compare compared comparing comparison could cover curious
   data dashboard deck detail details dig doing drill email emails explain figure figures find follow following fyi graph graphs help hope idea insight insights interested
-  keen know last latest let look looking looks meeting meetings mind need needed needs note notes number numbers overview picture plot prepare presentation pull put question questions quick quickly
-  read ready report reporting reports request review see send share show showing slide slides sort stats summary summarise summarize table tables team tell thinking thought time today tomorrow understand update
+  keen know last latest let list listed listing look looking looks meeting meetings mind need needed needs note notes number numbers overview picture plot prepare presentation pull put question questions quick quickly
+  rank ranks ranked ranking read ready report reporting reports request review see send share show showing slide slides sort sorted stats summary summarise summarize table tables team tell thinking thought time today tomorrow understand update
   view want wanted wants week weeks wondering work working write yesterday year years month months quarter quarters day days half period periods date dates season
   trend trends trending growth grow growing grown grew change changes changed changing rate rates ratio share shares mix split pattern patterns seasonal seasonality
   top bottom best worst highest lowest biggest smallest largest most least fewest fewer average averages avg mean median typical total totals overall sum count counts volume volumes level levels
@@ -259,6 +259,22 @@ export const NOT_RANK = /\b(?:at\s+(?:the\s+)?most|on\s+top\s+of|at\s+least|top\
  * "bottom 5", "the quietest airports"), by the metric's direction ("worst", "best"), the largest
  * value first ("highest"), or none: "most", "top", "biggest" rank by size, the plain ranking.
  */
+/**
+ * A ranking's direction said as a run from one end to the other ("from top to bottom", "highest to
+ * lowest", "least to most"): the first end comes first. Read before any single word of rank, so the
+ * "bottom" of "top to bottom" does not turn the order round.
+ */
+export const RANK_RUN = /\b(?:from\s+)?(top|highest|most|biggest|largest|best|worst|lowest|least|fewest|smallest|bottom)\s+(?:down\s+|up\s+)?to\s+(?:the\s+)?(bottom|lowest|least|fewest|smallest|worst|best|top|highest|most|biggest|largest)\b/;
+
+/** The order a run from one end to the other asks for ("top to bottom": highest first). */
+export function rankRunOrder(text: string): RankOrder | undefined {
+  const m = RANK_RUN.exec(text);
+  if (!m) return undefined;
+  const first = m[1]!;
+  if (first === 'best' || first === 'worst') return first;
+  return /^(?:lowest|least|fewest|smallest|bottom)$/.test(first) ? 'lowest' : 'highest';
+}
+
 export function rankOrderOf(word: string): RankOrder | undefined {
   const w = word.toLowerCase();
   if (/^(?:fewest|least|lowest|smallest|bottom|quietest|cheapest)$/.test(w)) return 'lowest';

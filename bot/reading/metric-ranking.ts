@@ -29,24 +29,35 @@ const MONEY_OUT_LABEL = /\b(?:budget|costs?|spend|spending|expenses?|price|price
 /**
  * Words of a quality that point to the measure of it when no measure is named: "warmer" to a
  * temperature, "windier" to wind, "wetter" to rainfall, "pricier" to a price. Each entry: the
- * request's words (cue) and the words of a metric's names that measure it (nouns).
+ * request's words (cue), the words of a metric's names that measure it (nouns), and the cue words
+ * that ask for its low end ("coldest", "driest", "cheapest"; the others ask for the high end).
  */
-const QUALITY_MEASURES: { cue: RegExp; nouns: RegExp; about: string }[] = [
-  { cue: /\b(?:warm(?:er|est|ing|th)?|hot(?:ter|test)?|heat(?:wave)?s?|cold(?:er|est)?|cool(?:er|est|ing)?|chill(?:y|ier|iest)?|freezing|milder|mildest)\b/, nouns: /\b(?:temp|temps|temperatures?|heat|degrees?)\b/, about: 'temperature' },
-  { cue: /\bwind(?:y|ier|iest)?\b|\bgust(?:s|y)?\b/, nouns: /\bwinds?\b|\bgusts?\b/, about: 'wind' },
-  { cue: /\b(?:wet(?:ter|test)?|rain(?:y|ier|iest|fall)?|dry|drier|driest|damp(?:er|est)?)\b/, nouns: /\b(?:precip\w*|rain\w*|wet)\b/, about: 'rainfall' },
-  { cue: /\b(?:late|delay(?:ed|s)?|punctual(?:ity)?|on[- ]time)\b/, nouns: /\b(?:delays?|late|lateness|on[- ]time|punctual\w*)\b/, about: 'delay' },
-  { cue: /\b(?:expensive|pricier|priciest|cheap(?:er|est)?|costl(?:y|ier|iest))\b/, nouns: /\b(?:prices?|fares?|costs?)\b/, about: 'price' },
+export const QUALITY_MEASURES: { cue: RegExp; nouns: RegExp; low?: RegExp; about: string }[] = [
+  { cue: /\b(?:warm(?:er|est|ing|th)?|hot(?:ter|test)?|heat(?:wave)?s?|cold(?:er|est)?|cool(?:er|est|ing)?|chill(?:y|ier|iest)?|freezing|milder|mildest)\b/, nouns: /\b(?:temp|temps|temperatures?|heat|degrees?)\b/, low: /\b(?:cold(?:er|est)?|cool(?:er|est|ing)?|chill(?:y|ier|iest)?|freezing)\b/, about: 'temperature' },
+  { cue: /\bwind(?:y|ier|iest)?\b|\bgust(?:s|y)?\b|\bcalm(?:er|est)?\b/, nouns: /\bwinds?\b|\bgusts?\b/, low: /\bcalm(?:er|est)?\b/, about: 'wind' },
+  { cue: /\b(?:wet(?:ter|test)?|rain(?:y|ier|iest|fall)?|dry|drier|driest|damp(?:er|est)?)\b/, nouns: /\b(?:precip\w*|rain\w*|wet)\b/, low: /\b(?:dry|drier|driest)\b/, about: 'rainfall' },
+  { cue: /\b(?:late|delay(?:ed|s)?|punctual(?:ity)?|on[- ]time|slow(?:er|est)?)\b/, nouns: /\b(?:delays?|late|lateness|on[- ]time|punctual\w*)\b/, low: /\b(?:punctual(?:ity)?|on[- ]time)\b/, about: 'delay' },
+  { cue: /\b(?:expensive|pricier|priciest|cheap(?:er|est)?|costl(?:y|ier|iest))\b/, nouns: /\b(?:prices?|fares?|costs?)\b/, low: /\bcheap(?:er|est)?\b/, about: 'price' },
   { cue: /\b(?:far(?:ther|thest)?|furthest)\b/, nouns: /\b(?:distance|miles|km|kilomet\w*)\b/, about: 'distance' },
 ];
 
 /** A measure named as the whole of a quantity ("Cost Total", "total_revenue", "Gross total"). */
 const TOTAL_IN_LABEL = /\b(?:total|overall|all|gross\s+total)\b/i;
 
-/** Words of volume ("busiest", "quietest", "traffic"): like counting words, their measure is how many rows. */
-const VOLUME_ASKED = /\b(?:busiest|busier|busy|quietest|quieter|traffic|how\s+often)\b/i;
+/** Words of a measure's own name that say it holds the high or the low end of a reading ("Daily low temperature"). */
+const HIGH_END = /\b(?:high|highs|max|maximum|peak|top|upper)\b/;
+const LOW_END = /\b(?:low|lows|min|minimum|bottom|lower)\b/;
 
-function isRowCount(m: Metric): boolean {
+/** A row count named only as rows ("Rows", "Records"): the catalog says nothing of what one row is. */
+const GENERIC_ROWS = /^(?:rows?|records?|row\s+count|count|entries|observations|number\s+of\s+(?:rows|records))$/i;
+
+/** Words of volume ("busiest", "quietest", "traffic"): like counting words, their measure is how many rows. */
+export const VOLUME_ASKED = /\b(?:busiest|busier|busy|quietest|quieter|slowest|traffic|how\s+often)\b/i;
+/** Volume words that ask for the low end: the fewest rows. */
+export const VOLUME_LOW = /\b(?:quietest|quieter|slowest|fewest|least)\b/i;
+
+/** A plain count of rows: a measure only of how many things there are. */
+export function isRowCount(m: Metric): boolean {
   return m.definition.type === 'count' && !m.definition.where;
 }
 
@@ -88,6 +99,9 @@ export function rankMetrics(ds: DatasetConfig, requestText: string, asked?: stri
   const qualities = QUALITY_MEASURES.filter((q) => q.cue.test(lower));
   const money = MONEY_ASKED.test(asked ?? requestText);
   const real = pool.filter((m) => !isRowCount(m));
+  // "number of releases", "how many films": the words asked are what is counted. A row count the
+  // catalog names only as rows counts whatever its rows are, so it answers them (said as rows).
+  const countedWords = asked !== undefined && new RegExp(`\\b(?:how\\s+many|number\\s+of|no\\.?\\s+of|count(?:s)?\\s+of)\\s+(?:the\\s+|our\\s+|all\\s+)?${asked.toLowerCase().replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}\\b`).test(requestText.toLowerCase());
   // The dataset's own name ("Iowa electricity") asked as a measure: its one measure, when it has one.
   const ofDataset = askedWords.length > 0 && real.length === 1 && phraseWords(ds.label).map(stem).some((w) => askedWords.includes(w));
   // A word of one measure's name beside the word asked, function words included ("other costs"
@@ -100,19 +114,24 @@ export function rankMetrics(ds: DatasetConfig, requestText: string, asked?: stri
     const moneyIn = money && !isRowCount(m) && (MONEY_IN_LABEL.test(labelWords(m).join(' ')) || (m.unit === 'currency' && m.definition.type === 'sum' && !MONEY_OUT_LABEL.test(labelWords(m).join(' '))));
     const evidence = evidenceIn(requestText, m, askedWords);
     const counts = isRowCount(m) && counting;
+    const rowsCounted = countedWords && isRowCount(m) && GENERIC_ROWS.test(m.label.trim());
     // "Which city is warming faster?": the temperature, not the catalog's first measure.
     const quality = isRowCount(m) ? undefined : qualities.find((q) => q.nouns.test(labelWords(m).join(' ')));
     const cue = quality ? quality.cue.exec(lower)?.[0] : undefined;
-    const fits = byWord || moneyIn || (ofDataset && !isRowCount(m)) || (counts && !asked) || (quality !== undefined && !asked);
+    // "coldest" asks for the low end: a measure of lows ("Daily low temperature") before one of highs.
+    const end = quality ? ((quality.low?.test(lower) ? LOW_END : HIGH_END).test(labelWords(m).join(' ')) ? 0.1 : 0) : 0;
+    const fits = rowsCounted || byWord || moneyIn || (ofDataset && !isRowCount(m)) || (counts && !asked) || (quality !== undefined && !asked);
     // Higher first: words asked, then money words, then a count asked for, then any real measure.
-    const tier = byWord ? 4 : moneyIn ? 3 : ofDataset && !isRowCount(m) ? 3 : quality ? 2.5 : counts ? 2 : isRowCount(m) ? (real.length === 0 ? 1 : 0) : 1;
+    const tier = byWord ? 4 : rowsCounted ? 3.5 : moneyIn ? 3 : ofDataset && !isRowCount(m) ? 3 : quality ? 2.5 + end : counts ? 2 : isRowCount(m) ? (real.length === 0 ? 1 : 0) : 1;
     const said = asked ? `"${asked}"` : 'your request';
-    const reason = asked && evidence.length > 0 && (byWord || moneyIn)
+    const reason = rowsCounted
+      ? `${said} is counted, and ${m.label} counts the rows of ${ds.label} (one per ${asked!.toLowerCase().replace(/s$/, '')} if each row is one)`
+      : asked && evidence.length > 0 && (byWord || moneyIn)
       ? `closest match to ${said}, and your request says "${evidence.join(' ')}"`
       : byWord ? `closest match to ${said}`
       : moneyIn && asked ? `${said} reads as money coming in, and ${m.label} is the first such measure`
       : ofDataset && !isRowCount(m) ? `the one measure of ${ds.label}`
-      : quality && cue ? `"${cue}" is about ${quality.about}, and ${m.label} measures it`
+      : quality && cue ? `"${cue}" is about ${quality.about}, and ${m.label} measures ${end > 0 ? `its ${quality.low?.test(lower) ? 'low' : 'high'} end` : 'it'}`
       : counts ? (COUNTING.test(requestText) ? 'your request counts things ("how many", "number of"), and this counts rows' : `"${VOLUME_ASKED.exec(requestText)?.[0]}" asks how many, and this counts rows`)
       : isRowCount(m) ? 'the dataset has no other measure'
       : real.length === 1 ? `the one measure of ${ds.label} besides the row count`

@@ -29,6 +29,7 @@ import {
   RANK_ASK,
   RANK_WORDS,
   rankOrderOf,
+  rankRunOrder,
   growthRankOf,
   REFINES_PREVIOUS,
   ROLE_WORDS,
@@ -45,7 +46,8 @@ import { type DayReading, type DaySetMention, readDaySets } from './day-filter.j
 import { DAY_OF_WEEK, dayFilter, dayScopeWords, isDayFilter } from '../../analysis/day-of-week.js';
 import { findUnknownTerms } from './unknown-words.js';
 import { mendCalendarWords } from './spelling.js';
-import { COUNTING } from './metric-ranking.js';
+import { COUNTING, rankMetrics } from './metric-ranking.js';
+import { extremeOrder, findPeriodExtremes, type PeriodExtreme, wholeHistorySpans } from './extremes.js';
 import { groupMadeOf, isMemberValue, memberValues, metricKind } from '../../analysis/catalog.js';
 import { listJoin } from '../../analysis/captions/grammar.js';
 import { AUDIENCES, GRAINS } from '../../analysis/types.js';
@@ -131,6 +133,12 @@ interface ReadState {
   notes: string[];
   /** The request's words for days of the week ("on fridays"), the evidence of a day filter. */
   dayWords?: string[];
+  /** Superlatives beside a time noun ("the hottest day"): the grain of an extreme, and its end. */
+  extremes: PeriodExtreme[];
+  /** Measures a quality word pointed to ("hottest" to the daily high), with those words, for evidence. */
+  inferredMetrics: { metric: string; words: string }[];
+  /** "unemployment rate" where the catalog has the count but no rate of it: a measure it lacks, asked. */
+  ratesOfCounts: Span[];
 }
 
 export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOptions): Brief {
@@ -154,6 +162,11 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   };
   const periods = findPeriods(text, periodCtx);
   for (const p of periods) text.claim(p);
+  // "the hottest day", "which month had the most flights": the time noun is the extreme's grain, not
+  // a count of days; "on record", "ever" ask over the whole history, which no period is.
+  const extremes = findPeriodExtremes(text);
+  for (const e of extremes) for (const s of e.spans) text.claim(s);
+  for (const s of wholeHistorySpans(text)) text.claim(s);
   const hits = findCatalogHits(text, catalog);
   for (const h of hits) text.claim(h);
   const roleHits = findRoleWords(text, ds);
@@ -165,7 +178,7 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   // "median delay", "p90": a statistic of the measure (statistic-words.ts).
   const statistics = readStatistics(text);
   for (const m of statistics) text.claim(m.span);
-  const grain = readGrain(text);
+  const grain = readGrain(text) ?? extremeGrain(extremes);
   if (grain) {
     evidence.grain = { words: grain.words, how: grain.how };
     for (const s of grain.spans) text.claim(s);
@@ -179,12 +192,18 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   // "per decade": the unit a rate of change is stated in, not a term of the data.
   for (const m of text.matches(/(?<![\p{L}])(?:per|a|each)\s+decade(?![\p{L}])/gu)) text.claim(m.span);
 
-  const state: ReadState = { text, ds, catalog, anchor: anchor.today, dataEnd: anchor.dataEnd, periods, hits, roleHits, grainSpans: grain?.spans ?? [], evidence, sharedMetricHits: [], notes: [] };
+  const state: ReadState = { text, ds, catalog, anchor: anchor.today, dataEnd: anchor.dataEnd, periods, hits, roleHits, grainSpans: grain?.spans ?? [], evidence, sharedMetricHits: [], notes: [], extremes, inferredMetrics: [], ratesOfCounts: [] };
   const { questions, ambiguous } = readQuestions(state);
   applyDaySets(questions, daySets, text, state.notes);
   state.dayWords = daySets.mentions.map((m) => m.words);
   applyStatistics(questions, statistics, state.notes, ds);
   const unknownTerms = findUnknownTerms(text, { catalog });
+  // "unemployment rate" with a count of the unemployed and no rate of it: the rate asked is a
+  // measure the catalog lacks, said back with the closest, never read as the count.
+  for (const span of state.ratesOfCounts) {
+    const words = text.quote(span).toLowerCase();
+    if (!unknownTerms.some((u) => u.text === words)) unknownTerms.push({ text: words, closest: closestEntries(words, catalog, ['metric']), role: 'metric' });
+  }
   // A bare "volume" that could be several counts of the data: asked, with those counts as the closest.
   for (const r of roleHits) {
     if (!r.several || !questions.some((q) => q.metrics.length === 0 && q.text.includes(text.quote(r.span)))) continue;
@@ -769,6 +788,17 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
     if (unitNouns[i] && !allUnits) continue;
     if (rowsUnit.has(h)) continue;
     if (isHeadOfNamedPart(h, metricHits[i - 1], st)) continue;
+    // "unemployment rate" where "unemployment" names a count or a sum: the rate is not that measure.
+    const rateAfter = /^\s+rates?(?![\p{L}])/u.exec(st.text.lower.slice(h.end, h.end + 8));
+    const own = st.ds.metrics.find((m) => m.name === metricOf(h));
+    if (rateAfter && own && own.unit !== 'percent' && own.definition.type !== 'rate' && own.definition.type !== 'ratio' && !st.text.isClaimed({ start: h.end, end: h.end + rateAfter[0].length })) {
+      st.ratesOfCounts.push({ start: h.start, end: h.end + rateAfter[0].length });
+      continue;
+    }
+    // "unemployment rate" where "rate" is itself the catalog's rate: the word before says what it is a rate of.
+    const rateHit = rateAfter && own && own.unit !== 'percent' ? metricHits.find((o) => o.start === h.end + rateAfter[0].search(/\S/)) : undefined;
+    const rateOwn = rateHit ? st.ds.metrics.find((m) => m.name === metricOf(rateHit)) : undefined;
+    if (rateOwn && (rateOwn.unit === 'percent' || rateOwn.definition.type === 'rate')) continue;
     metrics.push(metricOf(h));
     metricWords.push(st.text.quote(h));
   }
@@ -799,6 +829,17 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
         metrics.push(r.metrics[0]!);
         metricWords.push(st.text.quote(r.span));
       }
+    }
+  }
+
+  // "the hottest day", "the windiest month" with no measure named: the measure the quality word
+  // points to (the same ranking the measure prompt offers), when one answers it.
+  const extreme = st.extremes.find((e) => e.at >= clause.start && e.at < clause.end);
+  if (metrics.length === 0 && extreme) {
+    const best = rankMetrics(st.ds, clause.text)[0];
+    if (best?.fits) {
+      metrics.push(best.name);
+      st.inferredMetrics.push({ metric: best.name, words: extreme.superlative });
     }
   }
 
@@ -857,11 +898,16 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
     reading.launchDate = launch.date;
     reading.launchWords = launch.words;
   }
+  // "the 3 hottest days": how many extremes.
+  const many = !top && extreme ? /(?:^|\s)(\d{1,2}|three|five|ten)\s+(?:most\s+)?$/.exec(st.text.lower.slice(Math.max(clause.start, extreme.spans[0]!.start - 12), extreme.spans[0]!.start)) : null;
+  if (many && extreme!.spans.length > 1) reading.rankLimit = /^\d+$/.test(many[1]!) ? Number(many[1]) : { three: 3, five: 5, ten: 10 }[many[1] as 'three' | 'five' | 'ten'];
   if (top) reading.rankLimit = /^\d+$/.test(top[2]!) ? Number(top[2]) : { three: 3, five: 5, ten: 10 }[top[2] as 'three' | 'five' | 'ten'];
   // "worst 10", "lowest 5" rank by the metric's value; "top", "largest" keep ranking by size.
   // "the fewest strikes", "bottom 5": the smallest first, with or without a number.
-  const order = rankOrderOf(top?.[1] ?? '') ?? (rankWord ? rankOrderOf(rankWord) : undefined);
+  const order = rankOrderOf(top?.[1] ?? '') ?? (rankWord ? rankRunOrder(t) ?? rankOrderOf(rankWord) : undefined);
   if (order) reading.rankOrder = order;
+  // "the coldest month": the end of the extreme asked, by its measure ("slowest" the most delay, or the fewest rows).
+  else if (extreme && dims.length === 0) reading.rankOrder = extremeOrder(extreme.superlative, st.ds.metrics.find((m) => m.name === metrics[0]));
   // "which channel is growing fastest": only where the clause names a breakdown to rank.
   const byRate = dims.length > 0 ? growthRankOf(t) : undefined;
   if (byRate) reading.growthRank = byRate;
@@ -1334,6 +1380,12 @@ const PER_DAY = /\b(?:per|a)\s+day\b(?![- ]of\b)|\bper-day\b|\bdaily\s+(?:averag
 /** Months of the year named as the things compared ("which months", "time of year"). */
 const CALENDAR_MONTHS = /(?<![\p{L}])(?:months|which\s+month|month\s+of\s+(?:the\s+)?year|time\s+of\s+(?:the\s+)?year|seasonal(?:ity)?)(?![\p{L}])/gu;
 
+/** The grain of the first extreme asked ("the hottest day": daily), when no grain is stated. */
+function extremeGrain(extremes: readonly PeriodExtreme[]): ReturnType<typeof readGrain> {
+  const first = extremes[0];
+  return first ? { grain: first.grain, words: first.words, how: 'stated', spans: [] } : undefined;
+}
+
 function readGrain(text: RequestText): { grain: Grain; words: string; how: 'stated' | 'inferred'; spans: Span[]; perDayOnly?: true } | undefined {
   const found: { grain: Grain; span: Span; how: 'stated' | 'inferred' }[] = [];
   for (const g of GRAINS) {
@@ -1491,7 +1543,8 @@ function recordEvidence(brief: Brief, st: ReadState): void {
   // The request's own words for its measures ("damage costs"), not the catalog's names.
   const quoted = st.hits.filter((h) => h.entries.some((e) => e.kind === 'metric' && brief.metrics.includes(e.name))).map((h) => st.text.quote(h));
   const metricWords = quoted.length > 0 ? quoted : q.filter((x) => x.metrics.length > 0).map((x) => x.metrics.join(', '));
-  if (brief.metrics.length > 0) ev.metrics = { words: [...new Set(metricWords)].join('; '), how: 'stated' };
+  const inferred = st.inferredMetrics.filter((i) => brief.metrics.includes(i.metric));
+  if (brief.metrics.length > 0) ev.metrics = quoted.length === 0 && inferred.length > 0 ? { words: [...new Set(inferred.map((i) => i.words))].join('; '), how: 'inferred' } : { words: [...new Set(metricWords)].join('; '), how: 'stated' };
   if (brief.dimensions.length > 0) ev.dimensions = { words: brief.dimensions.join(', '), how: 'stated' };
   const filters = q.flatMap((x) => x.filters);
   if (filters.length > 0) ev.filters = { words: filters.map((f) => (isDayFilter(f) ? (st.dayWords ?? []).join(', ') || dayScopeWords(f) : f.values.join(', '))).join('; '), how: 'stated' };

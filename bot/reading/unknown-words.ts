@@ -11,7 +11,8 @@ const MONTH_OR_DAY = new RegExp(`^(?:${MONTH_PATTERN}|${WEEKDAY_PATTERN})$`);
 const GRAIN_TERMS = new Set(Object.values(GRAIN_WORDS).flatMap((g) => [g.adjective, g.noun, g.plural]));
 
 /** Slots where a word names data: after "by"/"per"/"which", before "over time", after "in"/"at"/"from". */
-const DIMENSION_SLOT = /(?:\bby|\bper|\bacross|\beach|\bevery|\bwhich|\bwhat|\bsplit by|\bbroken down by|\bbreakdown by|\bbreak(?:ing)? (?:it |that |this )?down by)\s+(?:the\s+|our\s+|each\s+|individual\s+|different\s+)?$/u;
+// A ranking's place is a breakdown's too: "top 5 carriers", "the 3 busiest carriers", "rank carriers by delay".
+const DIMENSION_SLOT = /(?:\bby|\bper|\bacross|\beach|\bevery|\bwhich|\bwhat|\bsplit by|\bbroken down by|\bbreakdown by|\bbreak(?:ing)? (?:it |that |this )?down by|\b(?:top|bottom|best|worst|biggest|largest|smallest|highest|lowest|busiest|quietest)\s+(?:\d{1,2}|three|five|ten)|\b(?:the|our)\s+(?:\d{1,2}|three|five|ten)\s+(?:busiest|biggest|largest|leading|smallest|quietest|costliest|highest|lowest|worst|best|top)|\b(?:rank|ranked|ranking|sort|sorted|list)(?:\s+(?:the|our|all))?)\s+(?:the\s+|our\s+|each\s+|individual\s+|different\s+)?$/u;
 const VALUE_SLOT = /(?:\bin|\bat|\bfrom|\bvia|\bthrough|\bonly|\bjust|\bexcluding|\bexcept|\bfor|\bon|\bvs\.?|\bversus)\s+(?:the\s+)?$/;
 // After a value's place, the words that end it: the end, a period, a comparison.
 const VALUE_END = /^\s*(?:[?.!,;:)]|$|last\b|this\b|next\b|in\b|since\b|vs\b|versus\b|and\b|or\b|\d|for\b|so\s+far|yesterday|today|during\b|over\b|compared\b|last\b)/;
