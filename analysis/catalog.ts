@@ -2,6 +2,8 @@
 import type { ComparisonGroup, DatasetConfig, Dimension, Metric, MetricKind } from '../config/schema.js';
 import { type Expr, expressionColumns } from '../config/expression.js';
 import type { SeasonalModel } from './stats/decomposition.js';
+import { percentScale, percentsApply, type PercentScale } from './stats/growth.js';
+import type { ChangeBasis } from './findings/table.js';
 import type { RankOrder, SegmentFilter } from './types.js';
 
 export class CatalogError extends Error {
@@ -238,9 +240,43 @@ export function onIntervalScale(metric: Metric): boolean {
   return metric.unit !== 'percent' && metric.unit_label !== undefined && INTERVAL_UNIT.test(metric.unit_label);
 }
 
-/** How a metric's seasonal cycle is measured: a level swings in its own units, a flow or ratio in proportion. */
-export function seasonalModel(metric: Metric): SeasonalModel {
-  return quantityKind(metric) === 'level' ? 'additive' : 'multiplicative';
+/**
+ * THE rule for percentages of a metric: the scale its `values` (the ones an answer compares) give a
+ * percentage against (stats/growth.ts percentScale), marked `interval` for a metric on an interval
+ * scale (°C: onIntervalScale). Every change, ratio to a mean (a weekday or seasonal index) and
+ * relative gap of a metric goes through this (percentBaseUsable, percentChange, percentsApply):
+ * a temperature, or an average delay whose values reach or cross zero, is then compared in its
+ * units ("+1.3 °C", "2.1 min higher"), never in percent. `zeroIsALevel`: a count or sum of amounts,
+ * where zero means none (isAdditive by default).
+ */
+export function metricPercentScale(metric: Metric, values: readonly (number | null)[], zeroIsALevel = isAdditive(metric)): PercentScale {
+  return percentScale(values, zeroIsALevel, onIntervalScale(metric));
+}
+
+/** Whether the metric's values may be set against one another in percent (metricPercentScale above). */
+export function percentsApplyTo(metric: Metric, values: readonly (number | null)[], zeroIsALevel = isAdditive(metric)): boolean {
+  return percentsApply(metricPercentScale(metric, values, zeroIsALevel));
+}
+
+/**
+ * How a change of the metric is stated, from the one rule: points for a rate or share (unit
+ * percent), units for a level (changesInUnits), a metric on an interval scale or one whose
+ * `values` reach or cross zero, percent otherwise.
+ */
+export function changeBasisOf(metric: Metric, values: readonly (number | null)[] = [], zeroIsALevel = isAdditive(metric)): ChangeBasis {
+  if (metric.unit === 'percent') return 'points';
+  if (changesInUnits(metric)) return 'units';
+  return percentsApplyTo(metric, values, zeroIsALevel) ? 'percent' : 'units';
+}
+
+/**
+ * How a metric's seasonal cycle is measured: a level swings in its own units, a flow or ratio in
+ * proportion; but a metric that may not be taken in percent (an interval scale, or `values` that
+ * reach or cross zero: metricPercentScale) swings in its units too, and a rate in points.
+ */
+export function seasonalModel(metric: Metric, values: readonly (number | null)[] = []): SeasonalModel {
+  if (quantityKind(metric) === 'level' || metric.unit === 'percent') return 'additive';
+  return percentsApplyTo(metric, values, false) ? 'multiplicative' : 'additive';
 }
 
 /**

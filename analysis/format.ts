@@ -37,6 +37,8 @@ export interface FormatOptions {
 }
 
 const NOT_AVAILABLE = 'n/a';
+/** The unit of a change of a rate or share, in its one written form. */
+export const POINTS = 'pts';
 // Typographic minus: reads better than a hyphen in titles and never wraps apart from its number.
 const MINUS = '\u2212';
 const FALLBACK_LOCALE = 'en';
@@ -83,19 +85,19 @@ export function formatUnitChange(diff: number | null, fmt: ValueFormat, opts: Fo
 }
 
 /**
- * A change of a fraction in percentage points: 0.021 → "2.1 pts" ("+2.1 pts" signed; "2.1 percentage
- * points" spelled out). One decimal from 0.1 pts up, so a table's column reads alike ("0.7 pts",
+ * A change of a fraction in percentage points: 0.021 → "2.1 pts" ("+2.1 pts" signed). One decimal from 0.1 pts up, so a table's column reads alike ("0.7 pts",
  * "1.2 pts"); below that two significant figures ("0.042 pts"), so no move prints as zero. A slope
  * (`slope`) keeps two significant figures below 1 pt, so a monthly rate times twelve still agrees
- * with the yearly one beside it ("0.31 pts a month, 3.7 pts a year"). The one points formatter.
+ * with the yearly one beside it ("0.31 pts a month, 3.7 pts a year"). The one points formatter and
+ * its one form, "pts", in KPI tiles, takeaways, captions and chart labels alike (never "pp" or "points").
  */
-export function formatPointChange(diff: number | null, locale: string, opts: { signed?: boolean; spelledOut?: boolean; slope?: boolean } = {}): string {
+export function formatPointChange(diff: number | null, locale: string, opts: { signed?: boolean; slope?: boolean } = {}): string {
   if (diff === null || !Number.isFinite(diff)) return NOT_AVAILABLE;
   const pts = diff * 100;
   const size = Math.abs(pts);
   const decimals = size === 0 || size >= (opts.slope ? 1 : 0.1) ? 1 : Math.min(6, 1 - Math.floor(Math.log10(size)));
   const text = formatValue(opts.signed ? pts : size, { unit: 'number', decimals, locale }, { signed: opts.signed ?? false });
-  return `${text} ${opts.spelledOut ? 'percentage points' : 'pts'}`;
+  return `${text} ${POINTS}`;
 }
 
 /** A relative change as a signed percentage: 0.081 → "+8.1%", −0.05 → "−5.0%". */

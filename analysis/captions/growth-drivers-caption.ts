@@ -60,8 +60,10 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
   const title = bothFigures ? `${driverTitle}; ${bothFigures}` : driverTitle;
 
   const total = f.total;
+  // In units where no percentage applies: a rate (points), a temperature or a value at or below zero
+  // (the template leaves the relative change out: catalog.ts metricPercentScale).
   const totalMove =
-    points && total.change !== null && total.before !== null && total.after !== null
+    (points || total.relative === null) && total.change !== null && total.before !== null && total.after !== null
       ? `${label} ${total.change === 0 ? 'held flat' : `${total.change > 0 ? 'rose' : 'fell'} ${money(Math.abs(total.change), true).replace(/^\+/, '')}`}: ${money(total.before)} to ${money(total.after)}`
       : total.relative !== null && Number.isFinite(total.relative)
         ? `${label} ${totalVerb(total.relative, locale)}: ${money(total.before)} to ${money(total.after)} (${directionOf(total.relative) === 'flat' ? `${formatChange(total.relative, locale)}, ` : ''}${money(total.change, true)})`

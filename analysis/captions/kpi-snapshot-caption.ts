@@ -96,8 +96,8 @@ function judgement(
   return `That is ${parts.join(' but ')} (${direction}).`;
 }
 
-/** The difference at full precision for analysts: "+€0.33", "−0.5 percentage points". */
+/** The difference at full precision for analysts: "+€0.33", "−0.5 pts". */
 function exactChange(diff: number, metric: Metric, locale: string): string {
-  if (metric.unit === 'percent') return points(diff, locale, 'percentage points');
+  if (metric.unit === 'percent') return points(diff, locale);
   return formatValue(diff, valueFormatOf(metric, locale), { signed: true });
 }

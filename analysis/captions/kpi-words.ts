@@ -3,7 +3,7 @@
 import { metricDirection, onIntervalScale } from '../catalog.js';
 import type { DatasetConfig, Dimension, Metric } from '../../config/schema.js';
 import type { KpiDelta, SegmentKey } from '../findings/kpi.js';
-import { formatChange, formatPeriod, formatValue, valueFormatOf } from '../format.js';
+import { formatChange, formatPeriod, formatPointChange, formatValue, valueFormatOf } from '../format.js';
 import type { Grain } from '../types.js';
 import { inSentence, pluralNoun } from './grammar.js';
 
@@ -31,22 +31,21 @@ export function cardValue(value: number | null, metric: Metric, locale: string):
 }
 
 
-/** "up 1.3 points", "down 0.8 points", "about the same as": a share moving between two periods. */
+/** "up 1.3 pts", "down 0.8 pts", "about the same as": a share moving between two periods. */
 export function shareMove(diff: number, locale: string, flat: number): string {
   if (Math.abs(diff) < flat) return 'about the same as';
-  const size = formatValue(Math.abs(diff) * 100, { unit: 'number', decimals: 1, locale });
-  return `${diff > 0 ? 'up' : 'down'} ${size} points on`;
+  return `${diff > 0 ? 'up' : 'down'} ${formatPointChange(Math.abs(diff), locale)} on`;
 }
 
-/** A share or rate difference in percentage points, signed: "+1.3 points". */
-export function points(diff: number, locale: string, word = 'points'): string {
-  return `${formatValue(diff * 100, { unit: 'number', decimals: 1, locale }, { signed: true })} ${word}`;
+/** A share or rate difference in percentage points, signed: "+1.3 pts" (format.ts formatPointChange). */
+export function points(diff: number, locale: string): string {
+  return formatPointChange(diff, locale, { signed: true });
 }
 
-/** Unsigned size of a change: "1.6%", "0.4 points"; null when there is no comparable base. */
+/** Unsigned size of a change: "1.6%", "0.4 pts"; null when there is no comparable base. */
 export function changeSize(d: KpiDelta, metric: Metric, locale: string): string | null {
   if (d.absolute === null) return null;
-  if (isRate(metric)) return `${formatValue(Math.abs(d.absolute) * 100, { unit: 'number', decimals: 1, locale })} points`;
+  if (isRate(metric)) return formatPointChange(Math.abs(d.absolute), locale);
   if (d.relative !== null && !onIntervalScale(metric)) return formatChange(Math.abs(d.relative), locale).replace(/^\+/, '');
   // A zero or negative base: the relative change is undefined, so give the difference itself.
   return formatValue(Math.abs(d.absolute), valueFormatOf(metric, locale), { compact: true });
@@ -61,7 +60,7 @@ export function directionOf(d: KpiDelta, metric: Metric): Direction {
   return d.absolute > 0 ? 'up' : 'down';
 }
 
-/** "up 1.6%", "down 0.4 points", "level"; null when there is no base to compare with. */
+/** "up 1.6%", "down 0.4 pts", "level"; null when there is no base to compare with. */
 export function changePhrase(d: KpiDelta, metric: Metric, locale: string): string | null {
   const dir = directionOf(d, metric);
   if (dir === 'none') return null;
@@ -72,7 +71,7 @@ export function changePhrase(d: KpiDelta, metric: Metric, locale: string): strin
 /** A signed short change for labels: "+1.6%", "−0.4 pts", "n/a". */
 export function signedChange(d: KpiDelta | null, metric: Metric, locale: string): string {
   if (!d || d.absolute === null) return 'n/a';
-  if (isRate(metric)) return points(d.absolute, locale, 'pts');
+  if (isRate(metric)) return points(d.absolute, locale);
   if (d.relative !== null && !onIntervalScale(metric)) return formatChange(d.relative, locale);
   return formatValue(d.absolute, valueFormatOf(metric, locale), { compact: true, signed: true });
 }

@@ -155,7 +155,7 @@ export function periodInText(win: (DateWindow & { clippedToLaunch?: boolean }) |
 
 /** A difference in the metric's own terms; shares read in percentage points (see formatPointChange). */
 export function formatDifference(diff: number, fmt: ValueFormat, opts: { signed?: boolean } = {}): string {
-  if (fmt.unit === 'percent') return formatPointChange(diff, fmt.locale, { signed: opts.signed ?? false, spelledOut: true });
+  if (fmt.unit === 'percent') return formatPointChange(diff, fmt.locale, { signed: opts.signed ?? false });
   return formatValue(opts.signed ? diff : Math.abs(diff), fmt, { signed: opts.signed ?? false });
 }
 
@@ -214,11 +214,11 @@ export function intervalText(ci: [number, number], confidence: number, fmt: Valu
   return `${level} CI ${rangeText(ci[0], ci[1], fmt, { signed: true })}`;
 }
 
-/** "€5.26 to €5.84", or "1.6 to 2.1 percentage points" with the unit once. */
+/** "€5.26 to €5.84", or "1.6 to 2.1 pts" with the unit once. */
 export function rangeText(lo: number, hi: number, fmt: ValueFormat, opts: { signed?: boolean } = {}): string {
   if (fmt.unit === 'percent') {
-    const unitless = (v: number) => formatDifference(v, fmt, opts).replace(/ percentage points$/, '');
-    return `${unitless(lo)} to ${unitless(hi)} percentage points`;
+    const unitless = (v: number) => formatDifference(v, fmt, opts).replace(/\s\S+$/, '');
+    return `${unitless(lo)} to ${formatDifference(hi, fmt, opts)}`;
   }
   return `${formatDifference(lo, fmt, opts)} to ${formatDifference(hi, fmt, opts)}`;
 }

@@ -1,7 +1,7 @@
 // Title and caption for the seasonal pattern (monthly indices and weekdays), from findings only.
 import type { Metric } from '../../config/schema.js';
 import type { CalendarMonthPattern, MonthTotalsPerDay, TrendSeasonalityFinding, TrendWeekdayFinding } from '../findings/segments.js';
-import { formatPeriod, formatValue, valueFormatOf } from '../format.js';
+import { formatPeriod, formatUnitChange, formatValue, valueFormatOf } from '../format.js';
 import type { Audience, Finding } from '../types.js';
 import { inSentence, labelAtStart, listJoin, verbFor } from './grammar.js';
 import type { Words } from './trend-test-caption.js';
@@ -19,7 +19,7 @@ export function seasonalityWords(metric: Metric, additive: boolean, findings: re
   const lead = weekdaysAsked && w ? weekdayTitle(metric, w, additive, locale) : null;
   const months = monthWords(metric, additive, findings, audience, locale, perDayAsked, lead === null);
   if (!lead) return months;
-  const weekday = weekdaySentence(w!, additive, audience, locale);
+  const weekday = weekdaySentence(metric, w!, additive, audience, locale);
   return { title: lead, caption: `${weekday} ${months.caption}`.trim() };
 }
 
@@ -27,7 +27,7 @@ export function seasonalityWords(metric: Metric, additive: boolean, findings: re
 function monthWords(metric: Metric, additive: boolean, findings: readonly Finding[], audience: Audience, locale: string, perDayAsked: boolean, withWeekdays: boolean): Words {
   const s = findings.find((f): f is TrendSeasonalityFinding => f.type === 'trend_seasonality' && f.metric === metric.name);
   const w = findings.find((f): f is TrendWeekdayFinding => f.type === 'trend_weekday' && f.metric === metric.name);
-  const weekday = w && withWeekdays ? weekdaySentence(w, additive, audience, locale) : '';
+  const weekday = w && withWeekdays ? weekdaySentence(metric, w, additive, audience, locale) : '';
   if (!s) {
     const series = findings.find((f): f is Extract<Finding, { type: 'series' }> => f.type === 'series' && f.metric === metric.name);
     const months = series ? series.points.filter((p) => !p.partial && p.value !== null).length : 0;
@@ -153,13 +153,13 @@ function totalsAside(s: TrendSeasonalityFinding, p: MonthTotalsPerDay, locale: s
  */
 function levelSeasonCaption(metric: Metric, s: TrendSeasonalityFinding, audience: Audience, locale: string): string {
   const fmt = valueFormatOf(metric, locale);
-  const signed = (v: number) => formatValue(v, fmt, { compact: true, signed: true });
+  const signed = (v: number) => formatUnitChange(v, fmt, { compact: true, signed: true });
   const name = (m: number) => monthName(m, locale);
   const byMonth = (m: number) => s.months[m - 1]!;
   const [b0, b1] = s.busiest;
   const [q0, q1] = s.quietest;
   const side = (v: number) => (v >= 0 ? 'above' : 'below');
-  const swing = formatValue(byMonth(b0).index - byMonth(q0).index, fmt, { compact: true });
+  const swing = formatUnitChange(byMonth(b0).index - byMonth(q0).index, fmt, { compact: true });
   if (audience === 'analysts') {
     const idx = (m: number) => {
       const p = byMonth(m);
@@ -176,17 +176,43 @@ function levelSeasonCaption(metric: Metric, s: TrendSeasonalityFinding, audience
   return `${monthPair(b0, b1, locale)} are the highest months for ${inSentence(metric.label)} (${at(b0)}), ${monthPair(q0, q1, locale)} the lowest (${signed(byMonth(q0).index)} in ${name(q0)}).`;
 }
 
-/** The days of the week with an index, and the highest and lowest of them (null when fewer than two differ). */
-function weekdayEnds(w: TrendWeekdayFinding) {
-  const days = w.days.filter((d): d is typeof d & { index: number } => d.index !== null);
+/**
+ * How far a day sits from the average weekday: its index (1.08 is 8% above) where percentages of
+ * the metric apply, else its difference in units or points (TrendWeekdayFinding.inUnits).
+ */
+interface DayGap {
+  isoDay: number;
+  /** Index minus one, or the difference in units: above zero is above the average. */
+  gap: number;
+  /** "about 8.1% above the average weekday", "2.10 min above the average weekday". */
+  text: (basis: string) => string;
+}
+
+function dayGaps(metric: Metric, w: TrendWeekdayFinding, locale: string): DayGap[] {
+  if (!w.inUnits) {
+    return w.days.flatMap((d) => (d.index === null ? [] : [{ isoDay: d.isoDay, gap: d.index - 1, text: (basis: string) => besideAverage(d.index!, basis, locale) }]));
+  }
+  const fmt = valueFormatOf(metric, locale);
+  return w.days.flatMap((d) => {
+    const v = d.deviation ?? null;
+    if (v === null) return [];
+    const size = formatUnitChange(Math.abs(v), fmt, { compact: true });
+    const zero = formatUnitChange(0, fmt, { compact: true });
+    return [{ isoDay: d.isoDay, gap: size === zero ? 0 : v, text: (basis: string) => (size === zero ? `about the same as ${basis}` : `${size} ${v > 0 ? 'above' : 'below'} ${basis}`.trim()) }];
+  });
+}
+
+/** The days of the week with a distance from the average, and the highest and lowest of them (null when fewer than two differ). */
+function weekdayEnds(metric: Metric, w: TrendWeekdayFinding, locale: string) {
+  const days = dayGaps(metric, w, locale);
   if (days.length < 2) return null;
   let hi = days[0]!;
   let lo = days[0]!;
   for (const d of days) {
-    if (d.index > hi.index) hi = d;
-    if (d.index < lo.index) lo = d;
+    if (d.gap > hi.gap) hi = d;
+    if (d.gap < lo.gap) lo = d;
   }
-  return hi.index === lo.index ? null : { days, hi, lo };
+  return hi.gap === lo.gap ? null : { days, hi, lo };
 }
 
 /**
@@ -194,37 +220,42 @@ function weekdayEnds(w: TrendWeekdayFinding) {
  * distance from the average; days that print the same are named together as a tie.
  */
 function weekdayTitle(metric: Metric, w: TrendWeekdayFinding, additive: boolean, locale: string): string | null {
-  const ends = weekdayEnds(w);
+  const ends = weekdayEnds(metric, w, locale);
   if (!ends) return null;
   const { days, hi } = ends;
-  const printed = (d: { index: number }) => besideAverage(d.index, additive ? 'an average day' : 'the average weekday', locale);
+  const printed = (d: DayGap) => d.text(additive ? 'an average day' : 'the average weekday');
   const top = days.filter((d) => printed(d) === printed(hi));
   const names = listJoin(top.map((d) => weekdayName(d.isoDay, locale)));
   if (additive) return top.length > 1 ? `${names} tie as the busiest days of the week (${printed(hi)})` : `${names} is the busiest day of the week (${printed(hi)})`;
   return `${labelAtStart(metric.label)} ${verbFor(metric.label)} highest on ${names} (${printed(hi)})`;
 }
 
-function weekdaySentence(w: TrendWeekdayFinding, additive: boolean, audience: Audience, locale: string): string {
-  const ends = weekdayEnds(w);
+function weekdaySentence(metric: Metric, w: TrendWeekdayFinding, additive: boolean, audience: Audience, locale: string): string {
+  const ends = weekdayEnds(metric, w, locale);
   if (!ends) return '';
   const { days, hi, lo } = ends;
   const day = (n: number) => weekdayName(n, locale);
   const basis = additive ? 'an average day' : 'the average weekday';
   if (audience === 'analysts') {
+    if (w.inUnits) {
+      const fmt = valueFormatOf(metric, locale);
+      const list = w.days.map((d) => `${day(d.isoDay).slice(0, 3)} ${formatUnitChange(d.deviation ?? null, fmt, { compact: true, signed: true })}`).join(', ');
+      return `Weekday differences from the mean of the seven (${additive ? 'per-day level' : 'level'}): ${list}.`;
+    }
     const list = w.days.map((d) => `${day(d.isoDay).slice(0, 3)} ${formatIndex(d.index, locale)}`).join(', ');
     return `Weekday indices (${additive ? 'per-day level' : 'level'} against the mean of the seven): ${list}.`;
   }
-  // Days whose indices print the same are named together as a tie.
-  const printed = (d: { index: number }) => besideAverage(d.index, basis, locale);
-  const tied = (end: { index: number }) => days.filter((d) => printed(d) === printed(end));
-  const names = (group: typeof days) => listJoin(group.map((d) => day(d.isoDay)));
+  // Days whose distances print the same are named together as a tie.
+  const printed = (d: DayGap) => d.text(basis);
+  const tied = (end: DayGap) => days.filter((d) => printed(d) === printed(end));
+  const names = (group: DayGap[]) => listJoin(group.map((d) => day(d.isoDay)));
   if (printed(hi) === printed(lo)) return `By day of week, every day is ${printed(hi)}.`;
   const [top, bottom] = [tied(hi), tied(lo)];
   const highWord = additive ? 'busiest' : 'highest';
   const lowWord = additive ? 'quietest' : 'lowest';
   const high = top.length > 1 ? `${names(top)} tie as the ${highWord} (${printed(hi)})` : `${day(hi.isoDay)} is the ${highWord} (${printed(hi)})`;
   // The basis is said once, after the first figure: "(about 8.1% below)".
-  const lowText = sideOf(lo.index) === 0 ? printed(lo) : besideAverage(lo.index, '', locale).trim();
+  const lowText = lo.gap === 0 ? printed(lo) : lo.text('').trim();
   const low = bottom.length > 1 ? `${names(bottom)} tie as the ${lowWord} (${lowText})` : `${day(lo.isoDay)} the ${lowWord} (${lowText})`;
   return `By day of week, ${high} and ${low}.`;
 }

@@ -147,14 +147,14 @@ function peakSentence(metric: Metric, grain: Grain, findings: readonly Finding[]
     return `The latest complete ${grainNoun(grain)}, ${when(change.to.period)}, is the peak at ${value(change.to.value)}.`;
   }
   // A rate or share sits points below its peak ("79.6%, 9.3 pts below it"), and a temperature
-  // degrees ("11.9 °C, 13.4 °C below it"): a percentage of either means nothing.
+  // degrees ("11.9 °C, 13.4 °C below it"): a percentage of either means nothing. So does one of a
+  // metric whose values reach or cross zero: the template gives no relative change then (catalog.ts
+  // metricPercentScale), and the gap is in its units ("9.76 min, 4.04 min below it").
   const diff = change.to.value - change.from.value;
   const gap =
-    fmt.unit === 'percent' || onIntervalScale(metric)
+    fmt.unit === 'percent' || onIntervalScale(metric) || change.relative === null
       ? `${value(change.to.value)}, ${formatUnitChange(Math.abs(diff), fmt, { compact: true })} ${diff < 0 ? 'below' : 'above'} it`
-      : change.relative === null
-        ? `${value(change.to.value)}`
-        : `${value(change.to.value)}, ${formatRelativeSize(change.relative, locale)} ${change.relative < 0 ? 'below' : 'above'} it`;
+      : `${value(change.to.value)}, ${formatRelativeSize(change.relative, locale)} ${change.relative < 0 ? 'below' : 'above'} it`;
   return `The peak was ${when(change.from.period)} at ${value(change.from.value)}; the latest complete ${grainNoun(grain)}, ${when(change.to.period)}, was ${gap}.`;
 }
 

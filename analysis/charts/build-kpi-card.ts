@@ -1,4 +1,4 @@
-import { formatChange, formatPeriod, formatValue, type ValueFormat } from '../format.js';
+import { formatChange, formatPeriod, formatPointChange, formatValue, type ValueFormat } from '../format.js';
 import type { Grain } from '../types.js';
 import { headerOf } from './header.js';
 import type { ChartHeader, KpiCardSpec, KpiComparison } from './spec.js';
@@ -51,10 +51,10 @@ function compare(
   if (!ok) return { label, changeText: 'n/a', baseText, direction: 'none', sentiment: 'neutral' };
   const diff = value - base.value!;
   const relative = base.value !== 0 ? diff / Math.abs(base.value!) : null;
-  // Rates are compared in percentage points: "+0.4 pp" is what a rate moving 3.8% → 4.2% means.
+  // Rates are compared in percentage points: "+0.4 pts" is what a rate moving 3.8% → 4.2% means.
   const changeText =
     fmt.unit === 'percent'
-      ? `${formatValue(diff * 100, { unit: 'number', decimals: 1, locale: fmt.locale }, { signed: true })} pp`
+      ? formatPointChange(diff, fmt.locale, { signed: true })
       : formatChange(relative, fmt.locale);
   const size = relative ?? (diff === 0 ? 0 : Math.sign(diff));
   const direction = Math.abs(size) < FLAT ? 'flat' : diff > 0 ? 'up' : 'down';

@@ -1,4 +1,4 @@
-import { formatValue, hasMagnitudeLabel, withoutUnitLabel, type ValueFormat } from '../format.js';
+import { formatPointChange, formatValue, hasMagnitudeLabel, withoutUnitLabel, type ValueFormat } from '../format.js';
 import { headerOf, monthNames } from './header.js';
 import type { ChartHeader, SeasonalMonth, SeasonalProfileSpec } from './spec.js';
 
@@ -29,15 +29,21 @@ export interface SeasonalProfileInput extends ChartHeader {
 export function buildSeasonalProfile(input: SeasonalProfileInput): SeasonalProfileSpec {
   const names = monthNames(input.locale);
   const byMonth = new Map(input.months.map((m) => [m.month, m]));
+  // A rate's deviations are differences of fractions: drawn and labelled in percentage points
+  // ("+0.8 pts", formatPointChange), never "+0.8%", which reads as growth of the rate itself.
+  const points = input.deviationFormat?.unit === 'percent';
+  const scale = (v: number | null) => (v === null || !points ? v : v * 100);
   const months: SeasonalMonth[] = names.map((label, i) => {
     const m = byMonth.get(i + 1);
     const index = finiteOrNull(m?.index ?? null);
     return {
       label,
-      index,
-      min: finiteOrNull(m?.min ?? null),
-      max: finiteOrNull(m?.max ?? null),
-      text: input.deviationFormat
+      index: scale(index),
+      min: scale(finiteOrNull(m?.min ?? null)),
+      max: scale(finiteOrNull(m?.max ?? null)),
+      text: points
+        ? formatPointChange(index, input.locale, { signed: true })
+        : input.deviationFormat
         ? deviationText(index, input.deviationFormat)
         : formatValue(index, { unit: 'number', decimals: indexDecimals(index), locale: input.locale }),
     };
@@ -84,8 +90,9 @@ function finiteOrNull(v: number | null): number | null {
   return v !== null && Number.isFinite(v) ? v : null;
 }
 
-/** The axis's ticks go without the unit's name too: its title carries it. */
+/** The axis's ticks go without the unit's name too: its title carries it (points for a rate, drawn ×100). */
 function deviationAxis(format: ValueFormat): NonNullable<SeasonalProfileSpec['units']> {
+  if (format.unit === 'percent') return { format: { unit: 'number', decimals: 1, locale: format.locale }, axisTitle: 'Difference from the yearly mean (pts)' };
   return {
     format: withoutUnitLabel(format),
     axisTitle: `Difference from the yearly mean${format.label ? ` (${format.label})` : ''}`,

@@ -112,8 +112,10 @@ export interface WeekdayValue {
   dayCount: number;
   /** value / dayCount for additive metrics; the value itself otherwise. */
   level: number | null;
-  /** level / mean level across the weekdays: 1.0 is an average day. */
+  /** level / mean level across the weekdays: 1.0 is an average day; null where no percentage of the metric applies (see TrendWeekdayFinding.inUnits). */
   index: number | null;
+  /** level − mean level across the weekdays, in the metric's units (a fraction for a rate). */
+  deviation?: number | null;
   /** Share of the window's total; null for non-additive metrics. */
   share: number | null;
 }
@@ -123,6 +125,12 @@ export interface TrendWeekdayFinding {
   metric: string;
   /** Sum and count metrics add up across days, so levels are per day and shares exist. */
   additive: boolean;
+  /**
+   * No percentage of the metric applies (catalog.ts metricPercentScale: an interval scale, values
+   * that reach or cross zero) or it is a rate: each day is told by its difference from the average
+   * weekday in units or points, and `index` is null.
+   */
+  inUnits?: boolean;
   days: WeekdayValue[];
 }
 

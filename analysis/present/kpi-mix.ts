@@ -24,8 +24,8 @@ export const presentKpiMix: Presenter = (answer, ctx) => {
     .filter((r) => r.value > 0)
     .map((r) => {
       const name = mixRowLabel(r, f, ctx.dataset, ctx.locale);
-      // The number alone: the subtitle says it is the change in points, and a short label wraps less under a narrow bar.
-      const change = ly && r.lastYearValue === 0 ? 'new' : r.shareChange === null ? null : points(r.shareChange, ctx.locale, '').trim();
+      // The change in points in its one form ("+1.3 pts", formatPointChange), as in the caption.
+      const change = ly && r.lastYearValue === 0 ? 'new' : r.shareChange === null ? null : points(r.shareChange, ctx.locale);
       return { label: change ? `${name} (${change})` : name, value: r.value };
     });
   const what = `Shares of ${shareOfLabel(f, ctx.dataset)}, ${periodName(f.period, f.grain, ctx.locale)}${ly ? `; in brackets, the change in share on ${ly} in points` : ''}`;

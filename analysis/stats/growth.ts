@@ -28,13 +28,18 @@ export interface PercentScale {
    * an average delay from 10.4 to −0.07 min is not "−100.7%".
    */
   signed: boolean;
+  /**
+   * The quantity is on an interval scale (°C, °F: catalog.ts onIntervalScale): its zero is a point
+   * on the scale, not none of it, so no percentage of it means anything whatever its values.
+   */
+  interval: boolean;
 }
 
 /**
  * The scale of one quantity from its values in the window. `zeroIsALevel`: a count or a sum of
  * amounts, where zero means "none" (a month without strikes) and a fall to it is a true −100%.
  */
-export function percentScale(values: readonly (number | null)[], zeroIsALevel: boolean): PercentScale {
+export function percentScale(values: readonly (number | null)[], zeroIsALevel: boolean, interval = false): PercentScale {
   const present = values.filter(isNum);
   const signed = present.some((v) => v < 0 || (!zeroIsALevel && v === 0));
   // For a count or a sum, zero is "none" (a month without any cost), not its level: on a sparse
@@ -42,7 +47,16 @@ export function percentScale(values: readonly (number | null)[], zeroIsALevel: b
   const abs = present.map(Math.abs).filter((v) => !zeroIsALevel || v > 0).sort((a, b) => a - b);
   const mid = abs.length >> 1;
   const typical = abs.length === 0 ? null : abs.length % 2 ? abs[mid]! : (abs[mid - 1]! + abs[mid]!) / 2;
-  return { typical, signed };
+  return { typical, signed, interval };
+}
+
+/**
+ * Whether any percentage or ratio of the quantity may be given on this scale: a change ("rose
+ * 8.1%"), a ratio to a mean ("12% above an average month") or a relative gap ("8% warmer"). Not
+ * for a quantity on an interval scale, nor one that reaches or crosses zero in the window.
+ */
+export function percentsApply(scale: PercentScale): boolean {
+  return !scale.signed && !scale.interval;
 }
 
 /**
@@ -59,7 +73,7 @@ export function growthMultiple(growth: number | null): number | null {
 
 /** Whether a percentage may be taken against `base` on this scale (the rule above, in one place). */
 export function percentBaseUsable(base: number | null, scale: PercentScale): boolean {
-  if (scale.signed || !isNum(base) || base <= 0) return false;
+  if (!percentsApply(scale) || !isNum(base) || base <= 0) return false;
   return scale.typical === null || base >= TINY_BASE_FRACTION * scale.typical;
 }
 

@@ -1,9 +1,9 @@
 // Template "growth_drivers": which segments drove the change (growth × breakdown). The metric by
 // one dimension in the window asked for (SubQuestion.window) against the same dates a year earlier.
-import type { DatasetConfig } from '../../config/schema.js';
-import { addsAcrossSegments, metricByName } from '../catalog.js';
+import type { DatasetConfig, Metric } from '../../config/schema.js';
+import { addsAcrossSegments, metricByName, metricPercentScale } from '../catalog.js';
 import type { GrowthDriverSegment, GrowthDriversFinding } from '../findings/growth.js';
-import { percentChange, percentScale } from '../stats/index.js';
+import { percentChange } from '../stats/index.js';
 import type { Caveat, Finding, ResultTable, SubQuestion } from '../types.js';
 import type { Coverage } from '../coverage.js';
 import {
@@ -68,7 +68,12 @@ function driversOf(
     before: sideValue(cmp.prior.segments.get(segment)?.values[metric], priorHasRows),
     after: sideValue(cmp.current.segments.get(segment)?.values[metric], currentHasRows),
   }));
-  const relative = relativeRule(additive, [totalBefore, totalAfter, ...pairs.flatMap((p) => [p.before, p.after])]);
+  const compared = [totalBefore, totalAfter, ...pairs.flatMap((p) => [p.before, p.after])];
+  const relative = relativeRule(metricByName(dataset, metric), additive, compared);
+  // No percentage of the metric applies at all (an interval scale, or values at or below zero):
+  // no rate is missing for want of a base, so no caveat says one is.
+  const scale = metricPercentScale(metricByName(dataset, metric), compared, additive);
+  const noPercents = scale.interval || (!additive && scale.signed);
   const all: GrowthDriverSegment[] = pairs.map((p) => withShares(p, additive, totalBefore, totalChange, relative));
   // A ratio's change in a tiny segment is mostly noise, so segments of a metric that does not add up
   // are ranked by their change weighted by their share of the current rows.
@@ -113,7 +118,7 @@ function driversOf(
   }
   const undefinedRates = all.filter((s) => s.after !== null && s.before !== null && s.relative === null).length;
   const totalRelative = relative(totalBefore, totalAfter);
-  if (undefinedRates > 0 || (totalRelative === null && totalBefore !== null && totalAfter !== null)) {
+  if (!noPercents && (undefinedRates > 0 || (totalRelative === null && totalBefore !== null && totalAfter !== null))) {
     caveats.push({ code: 'base_zero', data: { metric, count: undefinedRates + (totalRelative === null ? 1 : 0) } });
   }
   return {
@@ -177,11 +182,12 @@ type RelativeRule = (before: number | null, after: number | null) => number | nu
  * against its own two values, since segments of very different sizes are all real bases. An
  * average or ratio: one scale over every value compared, so a segment averaging near zero against
  * a typical level of minutes gets no percentage, and none is given at all once any value is at or
- * below zero (an average delay from 10.4 to −0.07 min is "−10.5 min", not "−100.7%").
+ * below zero (an average delay from 10.4 to −0.07 min is "−10.5 min", not "−100.7%"). A metric on
+ * an interval scale (°C) gets none either (catalog.ts metricPercentScale, the one rule).
  */
-function relativeRule(additive: boolean, values: readonly (number | null)[]): RelativeRule {
-  if (additive) return (before, after) => percentChange(before, after, percentScale([before, after], true));
-  const scale = percentScale(values, false);
+function relativeRule(metric: Metric, additive: boolean, values: readonly (number | null)[]): RelativeRule {
+  if (additive) return (before, after) => percentChange(before, after, metricPercentScale(metric, [before, after], true));
+  const scale = metricPercentScale(metric, values, false);
   return (before, after) => percentChange(before, after, scale);
 }
 

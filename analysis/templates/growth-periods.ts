@@ -1,11 +1,11 @@
 // Template "growth_periods": the two periods a request named ("2009 vs 2008"), the metric over
 // each (growth × summary). The spans are the ones every growth comparison uses (comparedSpans);
 // each side is one aggregate over its dates, so a level is its mean reading and a flow its total.
-import { isAdditive, metricByName } from '../catalog.js';
+import { isAdditive, metricByName, metricPercentScale } from '../catalog.js';
 import { type CompileContext, measureSql, rowCountSql, tableRef } from '../compile-context.js';
 import type { GrowthPeriodsFinding } from '../findings/growth.js';
 import { QueryBuilder } from '../sql/query-builder.js';
-import { percentChange, percentScale } from '../stats/index.js';
+import { percentChange } from '../stats/index.js';
 import type { CompiledQuery, Finding, SubQuestion } from '../types.js';
 import { comparedSpans, readWindowComparison, sidesSql } from './growth-compare.js';
 import type { Reading, Template } from './template.js';
@@ -58,7 +58,7 @@ export const growthPeriodsTemplate: Template = {
           after,
           change: before !== null && after !== null ? after - before : null,
           // No percentage of a signed quantity (jobs added, below zero in a downturn) or off a tiny base.
-          relative: percentChange(before, after, percentScale([before, after], additive)),
+          relative: percentChange(before, after, metricPercentScale(metricByName(ctx.dataset, metric), [before, after], additive)),
         },
       };
       findings.push(f);

@@ -3,7 +3,7 @@
 // same day and month as the last day with data (year to date), all aggregated in the database so
 // ratio metrics stay ratios of sums. Growth rates are worked out in `read`.
 import type { DatasetConfig } from '../../config/schema.js';
-import { isAdditive, metricByName, quantityKind } from '../catalog.js';
+import { isAdditive, metricByName, metricPercentScale, quantityKind } from '../catalog.js';
 import { type CompileContext, localDateExpr, periodScope, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import { dataEnd } from '../coverage.js';
@@ -19,7 +19,7 @@ import type {
 import { addDays, nextPeriod, periodStart, periodsBetween, periodsPerYear, sameIsoWeekLastYear } from '../periods.js';
 import { finestGrain } from '../grains.js';
 import { QueryBuilder } from '../sql/query-builder.js';
-import { cagr, percentBaseUsable, percentChange, percentScale, senSlope, slopesByDecade, trailingSum, type PercentScale } from '../stats/index.js';
+import { cagr, percentBaseUsable, percentChange, senSlope, slopesByDecade, trailingSum, type PercentScale } from '../stats/index.js';
 import type { Caveat, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
 import { maxIso, minIso } from './growth-compare.js';
 import type { Reading, Template } from './template.js';
@@ -146,7 +146,11 @@ export function readGrowthSeries(
   const yearEarlier = yearEarlierIndex(starts, sq.grain, lag);
   const findings: Finding[] = [];
   for (const metric of sq.metrics) {
-    const additive = isAdditive(metricByName(dataset, metric));
+    const catalogMetric = metricByName(dataset, metric);
+    const additive = isAdditive(catalogMetric);
+    // The one rule for percentages of a metric (catalog.ts metricPercentScale): an interval scale
+    // (°C) or a signed window gives none.
+    const scaleOf = (v: readonly (number | null)[]) => metricPercentScale(catalogMetric, v, additive);
     const raw = starts.map((p) => numberOrNull(rows.periods.get(p)?.[metric]));
     if (raw.every((v) => v === null)) {
       caveats.push({ code: 'all_null', data: { metric } });
@@ -160,13 +164,13 @@ export function readGrowthSeries(
     if (gaps.length > 0) caveats.push({ code: 'series_gap', data: { metric, periods: gaps.length, firstGap: gaps[0]!, grain: sq.grain } });
 
     // Percentages only where the base allows one (stats/growth percentScale): never for a quantity
-    // that is signed in this window, never off a base below a tenth of its typical level.
-    const scale = percentScale(values, additive);
+    // that is signed in this window or on an interval scale, never off a base below a tenth of its typical level.
+    const scale = scaleOf(values);
     const pop = values.map((v, i) => (i === 0 ? null : percentChange(values[i - 1] ?? null, v, scale)));
     const yoy = lag === null ? values.map(() => null) : values.map((v, i) => percentChange(values[yearEarlier(i)] ?? null, v, scale));
     const trailingWindow = lag !== null && lag > 1 && additive ? lag : null;
     const sums = trailingWindow === null ? [] : trailingSum(values, trailingWindow);
-    const sumScale = percentScale(sums, additive);
+    const sumScale = scaleOf(sums);
     const trailing = trailingWindow === null ? values.map(() => null) : sums.map((v, i) => (i < trailingWindow ? null : percentChange(sums[i - trailingWindow] ?? null, v, sumScale)));
     const points: GrowthPoint[] = starts.map((period, i) => ({
       period,
@@ -176,7 +180,7 @@ export function readGrowthSeries(
       yoy: yoy[i]!,
       trailing: trailing[i]!,
     }));
-    const series: GrowthSeriesFinding = { type: 'growth_series', metric, grain: sq.grain, points, yoyLag: lag, trailingWindow, ...(scale.signed ? { inUnits: true } : {}) };
+    const series: GrowthSeriesFinding = { type: 'growth_series', metric, grain: sq.grain, points, yoyLag: lag, trailingWindow, ...(scale.signed || scale.interval ? { inUnits: true } : {}) };
     findings.push(series);
 
     // A rate is undefined by its base (not by the window's start) when the base period exists but
@@ -187,8 +191,8 @@ export function readGrowthSeries(
       if (v !== null && (undefinedBase(i - 1) || (lag !== null && undefinedBase(yearEarlier(i))))) undefinedAt.push(starts[i]!);
     });
 
-    const years = readYears(metric, rows, effectiveStart, effectiveEnd, additive);
-    const yearScale = yearsScale(years, additive);
+    const years = readYears(metric, rows, effectiveStart, effectiveEnd, scaleOf);
+    const yearScale = yearsScale(years, scaleOf);
     findings.push(years);
     const completeYears = years.years.filter((y) => y.complete && y.value !== null);
     years.years.forEach((y, i) => {
@@ -211,12 +215,13 @@ export function readGrowthSeries(
       findings.push(c);
     }
     if (quantityKind(metricByName(dataset, metric)) === 'level' && completeYears.length >= 2) findings.push(levelRate(metric, completeYears));
-    const ytd = readYtd(metric, rows, effectiveStart, effectiveEnd, additive);
+    const ytd = readYtd(metric, rows, effectiveStart, effectiveEnd, scaleOf);
     if (ytd) {
       if (ytd.relative === null && ytd.current.value !== null) undefinedAt.push(ytd.prior.year);
       findings.push(ytd);
     }
-    if (undefinedAt.length > 0) {
+    // On an interval scale no percentage is missing for want of a base: none was ever to be given.
+    if (undefinedAt.length > 0 && !scale.interval) {
       const reason = scale.signed ? 'signed' : values.some((v) => v !== null && v > 0 && !percentBaseUsable(v, scale)) ? 'tiny' : 'zero';
       caveats.push({ code: 'base_zero', data: { metric, count: undefinedAt.length, first: [...undefinedAt].sort()[0]!, reason } });
     }
@@ -248,11 +253,13 @@ function yearEarlierIndex(starts: readonly string[], grain: SubQuestion['grain']
 }
 
 /** The scale of a metric's complete years, the base of every yearly percentage. */
-function yearsScale(years: GrowthYearsFinding, additive: boolean): PercentScale {
-  return percentScale(years.years.filter((y) => y.complete).map((y) => y.value), additive);
+type ScaleOf = (values: readonly (number | null)[]) => PercentScale;
+
+function yearsScale(years: GrowthYearsFinding, scaleOf: ScaleOf): PercentScale {
+  return scaleOf(years.years.filter((y) => y.complete).map((y) => y.value));
 }
 
-function readYears(metric: string, rows: GrowthRows, effectiveStart: string, effectiveEnd: string, additive: boolean): GrowthYearsFinding {
+function readYears(metric: string, rows: GrowthRows, effectiveStart: string, effectiveEnd: string, scaleOf: ScaleOf): GrowthYearsFinding {
   const keys = [...rows.years.keys()].sort();
   const years: GrowthYear[] = keys.map((year) => ({
     year,
@@ -261,7 +268,7 @@ function readYears(metric: string, rows: GrowthRows, effectiveStart: string, eff
     yoy: null,
   }));
   const found: GrowthYearsFinding = { type: 'growth_years', metric, years };
-  const scale = yearsScale(found, additive);
+  const scale = yearsScale(found, scaleOf);
   for (let i = 1; i < years.length; i++) {
     const y = years[i]!;
     const prev = years[i - 1]!;
@@ -275,7 +282,7 @@ function readYears(metric: string, rows: GrowthRows, effectiveStart: string, eff
  * The last year against the year before, both counted to the same day and month. Given only when
  * the last year is unfinished (otherwise the year totals say it) and both years are covered from 1 January.
  */
-function readYtd(metric: string, rows: GrowthRows, effectiveStart: string, effectiveEnd: string, additive: boolean): GrowthYtdFinding | null {
+function readYtd(metric: string, rows: GrowthRows, effectiveStart: string, effectiveEnd: string, scaleOf: ScaleOf): GrowthYtdFinding | null {
   const through = rows.through;
   if (through === null || through.slice(5) === '12-31') return null;
   const year = `${through.slice(0, 4)}-01-01`;
@@ -291,7 +298,7 @@ function readYtd(metric: string, rows: GrowthRows, effectiveStart: string, effec
     through,
     current: { year, value: current },
     prior: { year: priorYear, value: prior },
-    relative: percentChange(prior, current, percentScale([prior, current], additive)),
+    relative: percentChange(prior, current, scaleOf([prior, current])),
     absolute: current !== null && prior !== null ? current - prior : null,
   };
 }

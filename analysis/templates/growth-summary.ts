@@ -2,9 +2,9 @@
 // Runs the growth_series query and summarises its year-over-year rates when there are enough of them,
 // otherwise its period-over-period rates.
 import type { GrowthRateSummaryFinding, GrowthSeriesFinding } from '../findings/growth.js';
-import { argExtremes, percentScale, quantileSorted, summarize } from '../stats/index.js';
+import { argExtremes, quantileSorted, summarize } from '../stats/index.js';
 import type { Finding } from '../types.js';
-import { changesInUnits, isAdditive, metricByName } from '../catalog.js';
+import { changesInUnits, metricByName, percentsApplyTo } from '../catalog.js';
 import { compileGrowthSeries, readGrowthSeries } from './growth-series.js';
 import type { Reading, Template } from './template.js';
 
@@ -24,7 +24,7 @@ export const growthSummaryTemplate: Template = {
       const metric = metricByName(ctx.dataset, f.metric);
       // A level, or a quantity signed in this window (an average delay that goes below zero), changes in its units.
       const complete = f.points.filter((p) => !p.partial).map((p) => p.value);
-      const summary = summarizeRates(f, changesInUnits(metric) || metric.unit === 'percent' || percentScale(complete, isAdditive(metric)).signed);
+      const summary = summarizeRates(f, changesInUnits(metric) || metric.unit === 'percent' || !percentsApplyTo(metric, complete));
       if (summary.n === 0) caveats.push({ code: 'single_period', data: { metric: f.metric, rates: 0 } });
       else if (summary.n < SMALL_RATE_COUNT) caveats.push({ code: 'small_sample', data: { n: summary.n, metric: f.metric } });
       findings.push(summary);

@@ -5,7 +5,7 @@
 // the database, because a ratio or a distinct count of "All others" cannot be added up from the
 // segments' own values.
 import type { DatasetConfig } from '../../config/schema.js';
-import { groupableDimension, isAdditive, metricByName, metricDirection, rankDescending } from '../catalog.js';
+import { groupableDimension, isAdditive, metricByName, rankDescending } from '../catalog.js';
 import { type PeriodScope, rowCountSql, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type { KpiBySegmentFinding, KpiSegmentRow, SegmentKey } from '../findings/kpi.js';
@@ -217,9 +217,9 @@ export function readKpiBySegment(sq: SubQuestion, table: ResultTable, dataset: D
     const point = (byPeriod: Map<string, Row>): Omit<KpiSegmentRow, 'key' | 'other' | 'segments'> => {
       const value = numberOrNull(byPeriod.get(latest)?.[name]);
       const base = (p: string | null) => (usable(p) ? numberOrNull(byPeriod.get(p!)?.[name]) : null);
-      const prev = kpiDelta(value, previous, base(previous), metricDirection(metric));
-      const ly = lastYear === null ? null : kpiDelta(value, lastYear, base(lastYear), metricDirection(metric));
-      zeroBase ||= baseIsZero(prev, value) || baseIsZero(ly, value);
+      const prev = kpiDelta(value, previous, base(previous), metric);
+      const ly = lastYear === null ? null : kpiDelta(value, lastYear, base(lastYear), metric);
+      zeroBase ||= baseIsZero(prev, value, metric) || baseIsZero(ly, value, metric);
       return { value, rows: Number(byPeriod.get(latest)?.row_count ?? 0), previous: prev, lastYear: ly };
     };
     const rows = [...groups.values()].map((g) => ({

@@ -2,7 +2,7 @@
 // window, against the period before and the same period a year earlier. One query that reads
 // only those periods.
 import type { Coverage } from '../coverage.js';
-import { metricByName, metricDirection } from '../catalog.js';
+import { metricByName } from '../catalog.js';
 import { tableRef } from '../compile-context.js';
 import type { KpiSnapshotFinding } from '../findings/kpi.js';
 import { nextPeriod } from '../periods.js';
@@ -54,9 +54,9 @@ export function readKpiSnapshot(sq: SubQuestion, table: ResultTable, dataset: Da
   for (const name of sq.metrics) {
     const metric = metricByName(dataset, name);
     const value = numberOrNull(latestRow[name]);
-    const prev = kpiDelta(value, previous, numberOrNull(baseRow(previous)?.[name]), metricDirection(metric));
-    const ly = lastYear === null ? null : kpiDelta(value, lastYear, numberOrNull(baseRow(lastYear)?.[name]), metricDirection(metric));
-    zeroBase ||= baseIsZero(prev, value) || baseIsZero(ly, value);
+    const prev = kpiDelta(value, previous, numberOrNull(baseRow(previous)?.[name]), metric);
+    const ly = lastYear === null ? null : kpiDelta(value, lastYear, numberOrNull(baseRow(lastYear)?.[name]), metric);
+    zeroBase ||= baseIsZero(prev, value, metric) || baseIsZero(ly, value, metric);
     const finding: KpiSnapshotFinding = {
       type: 'kpi_snapshot',
       metric: name,

@@ -4,7 +4,7 @@
 // (so the first rows have their bases) and the window's totals, aggregated in the database so a
 // ratio stays a ratio of sums; the changes, marks and cross-metric findings are worked out in `read`.
 import type { DatasetConfig, Metric, MetricKind } from '../../config/schema.js';
-import { metricByName, metricKind, metricDirection } from '../catalog.js';
+import { changeBasisOf, metricByName, metricKind, metricDirection } from '../catalog.js';
 import { type CompileContext, localDateExpr, periodScope, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type {
@@ -29,10 +29,12 @@ import { coveredWindow, EMPTY_TABLE, numberOrNull, windowPeriods } from './trend
 const PERIOD = '__tc_period';
 const IN_WINDOW = '__tc_in_window';
 
-/** Percent for flows and ratios of amounts, points for rates and shares (unit percent), units for levels. */
-export function changeBasisOf(metric: Metric, kind: MetricKind): ChangeBasis {
-  if (metric.unit === 'percent') return 'points';
-  return kind === 'level' ? 'units' : 'percent';
+/**
+ * Percent for flows and ratios of amounts, points for rates and shares (unit percent), units for
+ * levels, interval scales and values that reach or cross zero: catalog.ts changeBasisOf, the one rule.
+ */
+export function columnBasis(metric: Metric, kind: MetricKind, values: readonly (number | null)[]): ChangeBasis {
+  return kind === 'level' && metric.unit !== 'percent' ? 'units' : changeBasisOf(metric, values);
 }
 
 /** What the totals row holds: a flow's sum where it adds up, a level's mean, otherwise the metric over the whole window. */
@@ -186,7 +188,7 @@ function readColumn(
   baseValue: (period: string) => number | null,
 ): { column: PeriodTableColumn; cells: PeriodTableCell[]; caveats: Caveat[] } {
   const name = metric.name;
-  const basis = changeBasisOf(metric, kind);
+  const basis = columnBasis(metric, kind, rows.map((row) => shownValue(row.period)));
   const caveats: Caveat[] = [];
   let undefinedBase = 0;
   const complete: PeriodExtreme[] = [];

@@ -1,7 +1,7 @@
 // Template "segment_trend": a metric by one dimension at the grain over the window. Each of the
 // top N segments (and one "All others" fold) gets its series, its Sen's slope, its growth from
 // its first to its last full calendar year, and its peak; gaps and late starts become caveats.
-import { metricByName } from '../catalog.js';
+import { metricByName, percentsApplyTo, seasonalModel } from '../catalog.js';
 import type { SegmentTrendFinding, SegmentTrendOverviewFinding, SegmentYearGrowth } from '../findings/segments.js';
 import { addDays, daysBetween, nextPeriod } from '../periods.js';
 import { yearsThroughout } from '../presence.js';
@@ -55,6 +55,12 @@ export function readSegmentTrend(sq: SubQuestion, totals: ResultTable, seriesTab
     const days = daysBetween(from, next < covered.end ? next : covered.end);
     return days > 0 ? v / days : null;
   };
+  // One rule for every segment (catalog.ts metricPercentScale): a temperature, or a metric whose
+  // values reach or cross zero in any segment, gets no growth in percent at all, only in its units.
+  const catalogMetric = metricByName(ctx.dataset, metric);
+  const everyValue = [...cells.values(), ...yearRows.values()].flatMap((byPeriod) => [...byPeriod.values()].map((r) => r.value));
+  const percents = percentsApplyTo(catalogMetric, everyValue);
+  const model = seasonalModel(catalogMetric, everyValue);
 
   const findings: Finding[] = [];
   const trends: SegmentTrendFinding[] = [];
@@ -65,7 +71,7 @@ export function readSegmentTrend(sq: SubQuestion, totals: ResultTable, seriesTab
     caveats.push(...segmentCoverageCaveats(seg, dimension, sq.grain, starts, partial, withRows));
     const complete = completePoints(points);
     // Adjusted as in trend_test, so a segment that starts at the summer peak does not look like it fell.
-    const adjusted = seasonallyAdjusted(sq.grain, points, complete);
+    const adjusted = seasonallyAdjusted(sq.grain, points, complete, model);
     const values = adjusted ?? complete.map((c) => c.value);
     const sen = senSlope(values, complete.map((c) => c.index));
     const level = mean(values);
@@ -87,8 +93,8 @@ export function readSegmentTrend(sq: SubQuestion, totals: ResultTable, seriesTab
       seasonallyAdjusted: adjusted !== null,
       slopePerPeriod: sen ? sen.slope : null,
       slopePerYear,
-      slopePerYearRelative: slopePerYear !== null && level !== null && level > 0 && relativeYearlyRateApplies(complete.map((c) => c.value), sq.grain) ? slopePerYear / level : null,
-      growth: yearGrowth(yearRows.get(seg.id), covered, perDay ? (period, v) => daily(period, 'year', v) : undefined),
+      slopePerYearRelative: slopePerYear !== null && level !== null && level > 0 && percents && relativeYearlyRateApplies(catalogMetric, complete.map((c) => c.value), sq.grain) ? slopePerYear / level : null,
+      growth: yearGrowth(yearRows.get(seg.id), covered, percents, perDay ? (period, v) => daily(period, 'year', v) : undefined),
       peak,
       ...(perDay ? { perDay: true as const } : {}),
     };
@@ -138,7 +144,7 @@ function groupRows(table: ResultTable): Map<string, Map<string, FoldedRow>> {
  * was there throughout (analysis/presence.ts: every month with a row, or between two of its years
  * with rows, so a sparse segment is not dropped for a quiet month).
  */
-function yearGrowth(rows: Map<string, FoldedRow> | undefined, covered: { start: string; end: string }, perDay?: (period: string, v: number | null) => number | null): SegmentYearGrowth | null {
+function yearGrowth(rows: Map<string, FoldedRow> | undefined, covered: { start: string; end: string }, percents: boolean, perDay?: (period: string, v: number | null) => number | null): SegmentYearGrowth | null {
   if (!rows) return null;
   const inWindow = [...rows.entries()].filter(([period]) => period >= covered.start && `${isoYear(period) + 1}-01-01` <= covered.end);
   const throughout = yearsThroughout(inWindow.map(([period, r]) => ({ year: isoYear(period), monthsWithRows: numberOrNull(r.row.months_with_rows) ?? 0 })));
@@ -159,8 +165,8 @@ function yearGrowth(rows: Map<string, FoldedRow> | undefined, covered: { start: 
     toYear,
     from: first,
     to: last,
-    relative: relativeChange(first, last),
-    cagr: cagr(first, last, toYear - fromYear),
+    relative: percents ? relativeChange(first, last) : null,
+    cagr: percents ? cagr(first, last, toYear - fromYear) : null,
   };
 }
 

@@ -3,7 +3,9 @@
 import type { Coverage } from '../coverage.js';
 import { dataEnd as coveredEnd } from '../coverage.js';
 import { addDays, nextPeriod, parseIsoDate, periodsBetween, periodsPerYear } from '../periods.js';
-import { percentScale, seasonalIndices, type SeasonalModel } from '../stats/index.js';
+import type { Metric } from '../../config/schema.js';
+import { percentsApplyTo } from '../catalog.js';
+import { seasonalIndices, type SeasonalModel } from '../stats/index.js';
 import type { DateWindow, Finding, Grain, PeriodPoint, ResultTable } from '../types.js';
 
 export const EMPTY_TABLE: ResultTable = { columns: [], rows: [], truncated: false };
@@ -61,11 +63,12 @@ export function seasonUnresolvedOver(grain: Grain, spannedPeriods: number): bool
  * Whether a yearly rate relative to the level means anything for these complete values: every one
  * is above zero (a percentage of a level that touches or crosses zero has no base: an average delay
  * of 0.4 min rising 1 min a year would be "+250% a year"), and they span a whole year or more (a
- * quarter's slope times four is no year's growth). Otherwise the change is said in the metric's units
- * per period.
+ * quarter's slope times four is no year's growth), on a metric the one rule allows percentages of
+ * (catalog.ts metricPercentScale: never a temperature). Otherwise the change is said in the metric's
+ * units per period.
  */
-export function relativeYearlyRateApplies(values: readonly number[], grain: Grain): boolean {
-  return spansAYear(values.length, grain) && !percentScale(values, false).signed;
+export function relativeYearlyRateApplies(metric: Metric, values: readonly number[], grain: Grain): boolean {
+  return spansAYear(values.length, grain) && percentsApplyTo(metric, values, false);
 }
 
 /** Whether `periods` complete periods make a year or more: a slope over fewer is said per period, never "a year". */

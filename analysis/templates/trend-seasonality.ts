@@ -2,7 +2,7 @@
 // seasonal indices (period 12; multiplicative, or additive in units for a level), the busiest and quietest months and in how many
 // full years each held, plus the day-of-week pattern from a second grouped query.
 import { stableSeasonalityTest } from '../stats/stable-seasonality.js';
-import { isAdditive, metricByName, quantityKind, seasonalModel } from '../catalog.js';
+import { isAdditive, metricByName, percentsApplyTo, quantityKind, seasonalModel } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type { CalendarMonthPattern, MonthTotalsPerDay, TrendSeasonalityFinding, WeekdayValue } from '../findings/segments.js';
@@ -21,9 +21,17 @@ export const trendSeasonalityTemplate: Template = {
     { name: 'monthly', ...compileSeries(monthlyQuestion(sq), ctx) },
     // Data stamped once a week or coarser has no day of the week to compare.
     ...(stampedDaily(ctx.coverage) ? [{ name: 'weekday', ...compileWeekday(sq, ctx) }] : []),
+    // An average's months and weekdays can all sit above zero while its days cross it (an average
+    // delay of −5 min on a quiet day): the days decide whether percentages of it apply at all.
+    ...(stampedDaily(ctx.coverage) && !isAdditive(metricByName(ctx.dataset, sq.metrics[0]!)) ? [{ name: 'daily', ...compileSeries(dailyQuestion(sq), ctx) }] : []),
   ],
-  read: (sq, tables, ctx) => readSeasonality(sq, tables.monthly ?? EMPTY_TABLE, tables.weekday ?? EMPTY_TABLE, ctx),
+  read: (sq, tables, ctx) => readSeasonality(sq, tables.monthly ?? EMPTY_TABLE, tables.weekday ?? EMPTY_TABLE, ctx, tables.daily),
 };
+
+/** The metric day by day over the window, read only for its signs (catalog.ts metricPercentScale). */
+function dailyQuestion(sq: SubQuestion): SubQuestion {
+  return { ...sq, grain: 'day', metrics: sq.metrics.slice(0, 1) };
+}
 
 /** True unless the data is known to be stamped once a week or less often. */
 export function stampedDaily(coverage: Coverage | undefined): boolean {
@@ -51,11 +59,12 @@ GROUP BY 1
 ORDER BY 1`);
 }
 
-export function readSeasonality(sq: SubQuestion, monthly: ResultTable, weekday: ResultTable, ctx: ReadContext): Reading {
+export function readSeasonality(sq: SubQuestion, monthly: ResultTable, weekday: ResultTable, ctx: ReadContext, daily?: ResultTable): Reading {
   const one = monthlyQuestion(sq);
   const metricName = one.metrics[0]!;
   const metric = metricByName(ctx.dataset, metricName);
   const base = readSeries(one, monthly, ctx.coverage, { dataset: ctx.dataset });
+  const dailyValues = (daily?.rows ?? []).map((r) => numberOrNull(r[metricName]));
   const findings: Finding[] = [...base.findings];
   // Unusual periods are said under the answer that draws or lists the periods (the series, the
   // summary), not again under the pattern across the year.
@@ -66,7 +75,8 @@ export function readSeasonality(sq: SubQuestion, monthly: ResultTable, weekday: 
 
   const points = completeSpan(series.points);
   if (points.length > 0) {
-    const seasonal = seasonalityOf(metricName, points, seasonalModel(metric), isAdditive(metric) && quantityKind(metric) === 'flow');
+    const model = seasonalModel(metric, [...points.map((p) => p.value), ...dailyValues]);
+    const seasonal = seasonalityOf(metricName, points, model, isAdditive(metric) && quantityKind(metric) === 'flow');
     if (seasonal.kind === 'ok') findings.push(seasonal.finding);
     else caveats.push(seasonal.caveat);
   } else if (!caveats.some((c) => c.code === 'all_null' || c.code === 'single_period')) {
@@ -76,7 +86,12 @@ export function readSeasonality(sq: SubQuestion, monthly: ResultTable, weekday: 
   const covered = coveredWindow(sq.window, ctx.coverage);
   if (covered && weekday.rows.length > 0 && stampedDaily(ctx.coverage)) {
     const additive = isAdditive(metric);
-    findings.push({ type: 'trend_weekday', metric: metricName, additive, days: weekdayValues(weekday, covered, additive) });
+    const days = weekdayValues(weekday, covered, additive);
+    // A weekday's distance from the average is a ratio only where percentages of the metric apply
+    // (catalog.ts metricPercentScale); else a difference in its units (points for a rate).
+    const levels = days.map((d) => d.level);
+    const inUnits = metric.unit === 'percent' || !percentsApplyTo(metric, [...levels, ...series.points.map((p) => p.value), ...dailyValues], additive);
+    findings.push({ type: 'trend_weekday', metric: metricName, additive, ...(inUnits ? { inUnits } : {}), days: inUnits ? days.map((d) => ({ ...d, index: null })) : days });
   }
   return { findings, caveats };
 }
@@ -226,6 +241,7 @@ function weekdayValues(table: ResultTable, covered: { start: string; end: string
   return days.map((d) => ({
     ...d,
     index: d.level !== null && meanLevel !== null && meanLevel > 0 ? d.level / meanLevel : null,
+    deviation: d.level !== null && meanLevel !== null ? d.level - meanLevel : null,
     share: sharesApply && d.value !== null ? d.value / total : null,
   }));
 }

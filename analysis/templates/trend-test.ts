@@ -1,9 +1,10 @@
 // Template "trend_test": is a metric moving over time? The series at the grain (one grouped
 // query), then Mann–Kendall for direction and strength, Sen's slope for the size, and how far
 // the latest complete period sits from the peak.
-import { metricByName, seasonalModel } from '../catalog.js';
+import type { Metric } from '../../config/schema.js';
+import { metricByName, metricPercentScale, seasonalModel } from '../catalog.js';
 import { yearFraction } from '../periods.js';
-import { mannKendall, relativeChange, senSlope, slopesByDecade, type DecadeSlope, type SeasonalModel } from '../stats/index.js';
+import { mannKendall, percentChange, senSlope, slopesByDecade, type DecadeSlope, type SeasonalModel } from '../stats/index.js';
 import type { Caveat, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
 import type { TrendTestFinding } from '../findings/segments.js';
 import { compileSeries, perDayOf, readSeries } from './series.js';
@@ -40,12 +41,14 @@ export function readTrendTest(sq: SubQuestion, table: ResultTable, ctx: ReadCont
       metric,
       from: { period: peak.period, value: peak.value },
       to: { period: latest.period, value: latest.value },
-      relative: relativeChange(peak.value, latest.value),
+      // A percentage below the peak only where the one rule allows it (catalog.ts metricPercentScale).
+      relative: percentChange(peak.value, latest.value, metricPercentScale(metricByName(ctx.dataset, metric), complete.map((c) => c.value))),
       absolute: latest.value - peak.value,
     });
   }
 
-  const test = trendTest(sq, series.points, complete, seasonalModel(metricByName(ctx.dataset, metric)));
+  const catalogMetric = metricByName(ctx.dataset, metric);
+  const test = trendTest(sq, series.points, complete, seasonalModel(catalogMetric, complete.map((c) => c.value)), catalogMetric);
   if (test) {
     findings.push(test);
     if (test.smallSample) caveats.push({ code: 'small_sample', data: { n: test.n, metric } });
@@ -55,7 +58,7 @@ export function readTrendTest(sq: SubQuestion, table: ResultTable, ctx: ReadCont
   return { findings, caveats };
 }
 
-function trendTest(sq: SubQuestion, points: readonly PeriodPoint[], complete: ReturnType<typeof completePoints>, model: SeasonalModel): TrendTestFinding | null {
+function trendTest(sq: SubQuestion, points: readonly PeriodPoint[], complete: ReturnType<typeof completePoints>, model: SeasonalModel, metric: Metric): TrendTestFinding | null {
   const raw = complete.map((p) => p.value);
   const adjusted = seasonallyAdjusted(sq.grain, points, complete, model);
   const values = adjusted ?? raw;
@@ -88,7 +91,7 @@ function trendTest(sq: SubQuestion, points: readonly PeriodPoint[], complete: Re
     slopePerPeriod: sen.slope,
     slopePerYear,
     // A percentage of the level only where the rule allows one (trend-points relativeYearlyRateApplies).
-    slopePerYearRelative: level !== null && level > 0 && relativeYearlyRateApplies(raw, sq.grain) ? slopePerYear / level : null,
+    slopePerYearRelative: level !== null && level > 0 && relativeYearlyRateApplies(metric, raw, sq.grain) ? slopePerYear / level : null,
     ...(spansAYear(spanned, sq.grain) ? {} : { underAYear: true }),
     intercept: sen.intercept,
     smallSample: mk.smallSample,

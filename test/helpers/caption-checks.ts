@@ -98,3 +98,29 @@ export function captionProblems(answer: Answer, p: Presented): string[] {
   }
   return problems;
 }
+
+// A percentage said as a move or a comparison of the metric itself: a signed percentage ("+4.5%"),
+// one beside a comparing word ("8% warmer", "12% above an average month", "1.5% below"), one after a
+// moving word ("rose 8.1%", "down 2.5%") or one per period ("4.5% a year"). A percentage that is no
+// such thing passes: a confidence level ("95% interval"), a share of rows ("under 1% of a day's").
+const SIGNED_PERCENT = /(?:^|[\s(])[+\u2212-]\d[\d,]*(?:\.\d+)?\s?%/;
+const PERCENT_BESIDE = /\d(?:\.\d+)?\s?%\s+(?:above|below|higher|lower|warmer|colder|cooler|hotter|more|less|longer|shorter|up|down|on|over|under|a (?:year|month|week|day|quarter))\b/i;
+const PERCENT_AFTER = /\b(?:rose|fell|grew|shrank|increased|decreased|dropped|gained|lost|up|down|changed|moved)\s+(?:by\s+)?(?:about\s+)?\d[\d,]*(?:\.\d+)?\s?%/i;
+
+/** The first percentage in `text` said as a change or comparison of a value, or null. */
+export function percentMoveIn(text: string): string | null {
+  for (const re of [SIGNED_PERCENT, PERCENT_BESIDE, PERCENT_AFTER]) {
+    const m = re.exec(text);
+    if (m) return m[0].trim();
+  }
+  return null;
+}
+
+/**
+ * A move of a rate or share in anything but its one form, "pts" (analysis/format.ts
+ * formatPointChange): "pp", "points" or "percentage points" after a figure.
+ */
+export function pointsFormIn(text: string): string | null {
+  const m = /\d(?:\.\d+)?\s?(?:pp\b|points\b|percentage points\b)/i.exec(text);
+  return m ? m[0] : null;
+}

@@ -313,7 +313,7 @@ describe('buildKpiCard', () => {
     // The year earlier first (issue 17 item 8), then the month before.
     expect(spec.comparisons[1]).toEqual({
       label: 'vs April 2025',
-      changeText: '+1.0 pp',
+      changeText: '+1.0 pts',
       baseText: '4.0%',
       direction: 'up',
       sentiment: 'bad',

@@ -114,7 +114,7 @@ describe('kpi_snapshot presenter', () => {
     };
     const p = present('managers', rate, []);
     expect(p.title).toBe('Refund rate was 5.2% in May 2025, level with May 2024');
-    expect(p.caption).toContain('level with May 2024 (5.2%) and up 0.4 points on April 2025 (4.8%). That is worse than April (lower is better).');
+    expect(p.caption).toContain('level with May 2024 (5.2%) and up 0.4 pts on April 2025 (4.8%). That is worse than April (lower is better).');
     const card = p.chart as KpiCardSpec;
     expect(card.comparisons.map((c) => c.sentiment)).toEqual(['neutral', 'bad']);
   });
@@ -308,7 +308,7 @@ describe('kpi_mix presenter', () => {
 
   it('titles the largest share and its change in points', () => {
     // 0.3463 − 0.3573 = −0.0110 → "down 1.1 points".
-    expect(present('managers').title).toBe('Mainland–Tern Holm had the largest share of passengers in May 2025: 34.6%, down 1.1 points on May 2024');
+    expect(present('managers').title).toBe('Mainland–Tern Holm had the largest share of passengers in May 2025: 34.6%, down 1.1 pts on May 2024');
   });
 
   it('counts segments to 80%, explains the base for a ratio, gives HHI only to analysts', () => {
@@ -316,7 +316,7 @@ describe('kpi_mix presenter', () => {
     // 0.3463 + 0.3137 + 0.1436 = 0.8036 → "80.4%".
     expect(m).toContain('In May 2025 the top 3 of 5 routes carried 80.4% of passengers.');
     expect(m).toContain('Shares are of passengers, the base average fare per passenger is computed over');
-    expect(m).toContain('Biggest share changes since May 2024: Mainland–Saltreach +1.9 points, Mainland–Tern Holm −1.1 points, Tern Holm–Saltreach −0.8 points.');
+    expect(m).toContain('Biggest share changes since May 2024: Mainland–Saltreach +1.9 pts, Mainland–Tern Holm −1.1 pts, Tern Holm–Saltreach −0.8 pts.');
     expect(m).not.toContain('HHI');
     expect(present('analysts').caption).toContain('HHI 2,586 (highly concentrated by the 2010 DoJ/FTC bands), 2,564 in May 2024.');
     expect(present('leadership').caption).not.toMatch(/HHI|Shares are of/);
@@ -327,7 +327,7 @@ describe('kpi_mix presenter', () => {
     expect(chart.kind).toBe('pareto');
     expect(chart.threshold).toBe(0.8);
     expect(chart.thresholdIndex).toBe(2);
-    expect(chart.bars[0]!.label).toBe('Mainland–Tern Holm (−1.1)');
+    expect(chart.bars[0]!.label).toBe('Mainland–Tern Holm (−1.1 pts)');
     expect(chart.subtitle).toContain('in brackets, the change in share on May 2024 in points');
     expect(chart.valueLabel).toBe('Passengers');
   });

@@ -166,9 +166,9 @@ describe('performance_compare captions', () => {
       { type: 'performance_verdict', metric: 'refund_rate', comparison: 'members_vs_others', verdict: 'no_clear_difference', direction: 'lower', basis: 'test', pValue: 0.5485, alpha: 0.05, higherIsBetter: false, relative: -0.107 },
     ]);
     expect(present(a, 'leadership').caption).toContain('a difference this size could be chance');
-    expect(present(a, 'managers').caption).toContain('0.6 percentage points lower');
+    expect(present(a, 'managers').caption).toContain('0.6 pts lower');
     expect(present(a, 'managers').caption).toContain('the range of likely gaps includes no gap at all');
-    expect(present(a, 'analysts').caption).toContain('−0.6 percentage points (95% CI −2.6 to +1.4 percentage points), −10.7% relative; z = −0.60, p = 0.55');
+    expect(present(a, 'analysts').caption).toContain('−0.6 pts (95% CI −2.6 to +1.4 pts), −10.7% relative; z = −0.60, p = 0.55');
   });
 });
 
