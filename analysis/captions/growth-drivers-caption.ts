@@ -115,17 +115,10 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
   return { title, caption: sentences.join(' ') };
 }
 
-/**
- * "Moves offset each other: the rises add up to +€1.3K and the falls to −€4.21K." Only where every
- * segment is listed (no folded tail, whose net would hide its own rises and falls).
- */
+/** "Moves offset each other: the rises add up to +€1.3K and the falls to −€4.21K." */
 function offsetSentence(f: GrowthDriversFinding, money: (v: number | null, signed?: boolean) => string): string | null {
-  if (f.others && f.others.count > 0) return null;
-  const changes = f.segments.map((s) => s.change).filter((c): c is number => c !== null);
-  const rises = changes.filter((c) => c > 0).reduce((a, b) => a + b, 0);
-  const falls = changes.filter((c) => c < 0).reduce((a, b) => a + b, 0);
-  if (rises === 0 || falls === 0) return null;
-  return `Moves offset each other: the rises add up to ${money(rises, true)} and the falls to ${money(falls, true)}.`;
+  if (!f.offset) return null;
+  return `Moves offset each other: the rises add up to ${money(f.offset.rises, true)} and the falls to ${money(f.offset.falls, true)}.`;
 }
 
 export function totalVerb(relative: number, locale: string): string {

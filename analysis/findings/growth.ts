@@ -151,6 +151,8 @@ export interface GrowthDriversFinding {
   likeForLike: { before: number | null; after: number | null; change: number | null; relative: number | null; excluded: ChangedSegment[] } | null;
   /** "Which channel is growing fastest": the ranking by rate the headline answers with; absent for "what drove it". */
   byRate?: GrowthRateRanking;
+  /** Every segment's rises and falls added up, when a sum or count moved both ways (templates/growth-drivers.ts offsetOf). */
+  offset?: { rises: number; falls: number };
 }
 
 /**

@@ -133,7 +133,20 @@ function driversOf(
     others,
     likeForLike: likeForLikeOf(cmp, metric, additive, relative),
     ...(byRate ? { byRate } : {}),
+    ...offsetOf(all, additive, small),
   };
+}
+
+/**
+ * The rises and the falls of every segment added up, for a sum or count whose segments moved both
+ * ways; absent when some segments arrive combined by the database (their own moves are unknown).
+ */
+function offsetOf(all: readonly GrowthDriverSegment[], additive: boolean, combined: number): Pick<GrowthDriversFinding, 'offset'> {
+  if (!additive || combined > 0) return {};
+  const changes = all.map((s) => s.change).filter((c): c is number => c !== null);
+  const rises = changes.filter((c) => c > 0).reduce((a, b) => a + b, 0);
+  const falls = changes.filter((c) => c < 0).reduce((a, b) => a + b, 0);
+  return rises > 0 && falls < 0 ? { offset: { rises, falls } } : {};
 }
 
 /** The segment's share of the earlier span's base: its value for a sum or count, its rows otherwise. */

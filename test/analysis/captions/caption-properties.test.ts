@@ -94,10 +94,12 @@ async function filterFor(ws: Workspace, questions: SubQuestion[]): Promise<SubQu
 }
 
 describe('captions agree with their tables', () => {
-  it('on every template, three datasets, whole and filtered, for every audience', async () => {
+  // One test per dataset, so each has its own time limit on a loaded machine (all three in one
+  // had run past 600 s with eight engineers' tests on two cores).
+  it.each(['Skerrywake demo', 'support desk', 'subscription app'])('on every template, whole and filtered, for every audience: %s', async (dataset) => {
     const problems: string[] = [];
     let answered = 0;
-    for (const { name, ws } of spaces) {
+    for (const { name, ws } of spaces.filter((s) => s.name === dataset)) {
       const questions = await withContrasts(ws, questionsFor(ws));
       const filters = await filterFor(ws, questions);
       for (const sq of [...questions, ...questions.map((q) => ({ ...q, id: `${q.id}-filtered`, filters }))]) {
@@ -111,7 +113,7 @@ describe('captions agree with their tables', () => {
         answered++;
       }
     }
-    expect(answered).toBeGreaterThan(3 * TEMPLATE_NAMES.length);
+    expect(answered).toBeGreaterThan(TEMPLATE_NAMES.length);
     expect(problems).toEqual([]);
   }, 600_000);
 

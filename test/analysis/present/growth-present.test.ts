@@ -164,8 +164,8 @@ describe('growth_drivers presenter', () => {
     // app's +€15K is 150% of the +€10K total, offset by web's fall: no "n% of the total change" here.
     expect(p.caption).toContain('kiosk +€1K. The other 2 together: €0.');
     expect(p.caption).not.toContain('of the total change');
-    // With every segment listed (no folded tail), the rises and falls are said.
-    const all = present(answer(s, [{ ...driversFinding, others: null }]), 'managers');
+    // With the finding's rises and falls (templates/growth-drivers.ts offsetOf), they are said.
+    const all = present(answer(s, [{ ...driversFinding, offset: { rises: 16_000, falls: -6_000 } }]), 'managers');
     expect(all.caption).toContain('Moves offset each other: the rises add up to +€16K and the falls to −€6K.');
     // Moves all one way, none over the total: each one's part of it.
     const oneWay: GrowthDriversFinding = { ...driversFinding, others: null, segments: [

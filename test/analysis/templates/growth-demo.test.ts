@@ -221,6 +221,13 @@ describe('growth_drivers on the demo data', () => {
     closeRel(f.total.before, revenue('2024-06-01', '2024-06-19'));
     closeRel(f.total.after, revenue('2025-06-01', '2025-06-19'));
     expect(answer.caveats.map((c) => c.code)).toContain('partial_period');
+    // The routes moved both ways: every route's rise and fall added up from the raw rows.
+    const moves = [...new Set(raw.map((r) => r.route))].map((route) => revenue('2025-06-01', '2025-06-19', (r) => r.route === route) - revenue('2024-06-01', '2024-06-19', (r) => r.route === route));
+    closeRel(f.offset?.rises ?? null, moves.filter((m) => m > 0).reduce((a, b) => a + b, 0));
+    closeRel(f.offset?.falls ?? null, moves.filter((m) => m < 0).reduce((a, b) => a + b, 0));
+    const p = SUB_QUESTIONS['growth_drivers'].present(answer, presentCtx('managers'));
+    expect(p.caption).toContain('Moves offset each other: the rises add up to');
+    expect(p.caption).not.toContain('of the total change');
   });
 });
 
