@@ -196,7 +196,9 @@ const GENERAL_LABEL_WORDS = new Set(['total', 'average', 'avg', 'mean', 'median'
  * them, to be asked. Other names are the catalog author's own words and are not cut up.
  */
 function labelParts(ds: DatasetConfig, whole: readonly CatalogEntry[]): CatalogEntry[] {
-  const taken = new Set(whole.map((e) => phraseWords(e.phrase).map(stem).join(' ')));
+  // A word cut from a multi-word value ("states" of the airline "TRANS STATES AIRLINES") does not
+  // take a label's head noun ("State" of "Origin State") away: whole names and values do.
+  const taken = new Set(whole.filter((e) => !(e.kind === 'value' && e.partial)).map((e) => phraseWords(e.phrase).map(stem).join(' ')));
   const owners = new Map<string, { kind: EntryKind; name: string; phrase: string }[]>();
   // The value a rate counts ("urgent" of "Urgent share") is the data's value first, not the rate's name.
   const filterWords = new Set(ds.metrics.flatMap((m) => ('where' in m.definition && m.definition.where ? [m.definition.where.value].flat() : [])).flatMap((v) => phraseWords(String(v ?? ''))).map(stem));

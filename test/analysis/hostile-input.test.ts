@@ -21,6 +21,7 @@ import { applyCorrection, planFor } from '../../bot/card-edits.js';
 import { changesSomething, readCorrection } from '../../bot/reading/corrections.js';
 import { nextPrompt, PROMPT_TOPICS, readAnswer, type Prompt, type PromptContext, type PromptTopic } from '../../bot/prompts.js';
 import { exampleDataset as ds } from '../helpers/example-config.js';
+import { dayFilter, WEEKEND } from '../../analysis/day-of-week.js';
 
 // ---- the numbers of generated inputs ---------------------------------------------------------
 // 2,000 conversations (a request and six typed answers each) + 6,000 direct compilations with
@@ -86,6 +87,8 @@ const BENIGN_WINDOWS = [
 const BENIGN_FILTERS = [
   { dimension: 'channel', values: ['web', 'app'] },
   { dimension: 'fare_class', values: [] },
+  // "on weekends": the days of the week a request may keep (analysis/day-of-week.ts).
+  dayFilter(WEEKEND),
 ];
 
 /** The vocabulary of the templates, from compiling every template for benign sub-questions. */

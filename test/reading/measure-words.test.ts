@@ -71,6 +71,10 @@ ${rows()}${metric('cost_other', 'Cost Other', `sum: '"Cost Other"'`)}${metric('c
         label: Origin State
         also_called: []
         column: Origin State
+      - name: aircraft_airline_operator
+        label: Aircraft Airline Operator
+        also_called: []
+        column: Aircraft Airline Operator
 `;
 const dir = mkdtempSync(join(tmpdir(), 'tc-measures-'));
 const files = { movies: join(dir, 'movies.yaml'), moviesFixed: join(dir, 'movies-fixed.yaml'), iowa: join(dir, 'iowa.yaml'), strikes: join(dir, 'strikes.yaml') };
@@ -173,5 +177,16 @@ describe('a breakdown the catalog lacks is asked, never replaced by the first', 
     // "other" is a function word, and still the word that names Cost Other here.
     const other = await read(files.strikes, 'How did other costs from bird strikes change in 2000 compared with 1999?');
     expect(other.brief.metrics.length === 1 ? other.brief.metrics[0] : other.prompt?.recommended.value).toBe('cost_other');
+  });
+
+  it('a label\'s head noun names its breakdown though a value holds the word ("TRANS STATES AIRLINES")', async () => {
+    const { brief } = await read(files.strikes, 'How many bird strikes did we have each year, and which states had the most?');
+    expect(brief.questions[0]!.dimensions).toEqual(['origin_state']);
+    // "bird strikes" is asked about (the count is labelled Rows); "states" is not.
+    expect(brief.unknownTerms.filter((u) => u.role !== 'metric')).toEqual([]);
+    expect(brief.grain).toBe('year');
+    // The value is still found by its own words.
+    const airline = await read(files.strikes, 'strikes for trans states airlines');
+    expect(airline.brief.questions[0]!.filters).toEqual([{ dimension: 'aircraft_airline_operator', values: ['TRANS STATES AIRLINES'] }]);
   });
 });
