@@ -7,6 +7,15 @@ import { inSentence, labelAtStart, listJoin, verbFor } from './grammar.js';
 import type { Words } from './trend-test-caption.js';
 import { formatIndex, formatP, formatRelativeSize, grainNoun, monthName, monthPair, weekdayName } from './trend-words.js';
 import { STABLE_SEASONALITY_ALPHA } from '../stats/stable-seasonality.js';
+import { metricDirection } from '../catalog.js';
+
+/**
+ * "Busiest" and "quietest" are words of volume (bookings, revenue, visits, any count of things): an
+ * amount that should be small (a cost, repair bills) is "highest" and "lowest".
+ */
+function busyWords(metric: Metric, additive: boolean): boolean {
+  return additive && (metric.definition.type === 'count' || metricDirection(metric) !== false);
+}
 
 /**
  * `perDayAsked`: the request compared months per day ("which months have the most bookings per
@@ -43,8 +52,8 @@ function monthWords(metric: Metric, additive: boolean, findings: readonly Findin
   const together = Math.min(byMonth(b0).topTwoIn, byMonth(b1).topTwoIn);
   const held = years > 0 ? ` (top two in ${together} of ${years} full ${years === 1 ? 'year' : 'years'})` : '';
   const title = perDayAsked && s.perDay
-    ? `Per day, ${monthPair(s.perDay.byDay[0]!, s.perDay.byDay[1]!, locale)} are the busiest months; by total, ${monthPair(b0, b1, locale)}`
-    : additive
+    ? `Per day, ${monthPair(s.perDay.byDay[0]!, s.perDay.byDay[1]!, locale)} are the ${busyWords(metric, additive) ? 'busiest' : 'highest'} months; by total, ${monthPair(b0, b1, locale)}`
+    : busyWords(metric, additive)
     ? `${monthPair(b0, b1, locale)} are the busiest months${held}`
     : `${labelAtStart(metric.label)} ${verbFor(metric.label)} highest in ${monthPair(b0, b1, locale)}${held}`;
 
@@ -88,7 +97,7 @@ function monthWords(metric: Metric, additive: boolean, findings: readonly Findin
         ? `about ${rel(x)} and ${rel(y)} ${sideWord(x.index, basis).trim()}`
         : `${against(x)} and ${against(y)} respectively`;
     };
-    caption = `${name(b0)} (index ${formatIndex(byMonth(b0).index, locale)}) and ${name(b1)} (${formatIndex(byMonth(b1).index, locale)}) run ${pair(b0, b1, 'an average month')}; ${name(q0)} (${formatIndex(byMonth(q0).index, locale)}) and ${name(q1)} (${formatIndex(byMonth(q1).index, locale)}) are the ${additive ? 'quietest' : 'lowest'}, ${pair(q0, q1, '')}.`;
+    caption = `${name(b0)} (index ${formatIndex(byMonth(b0).index, locale)}) and ${name(b1)} (${formatIndex(byMonth(b1).index, locale)}) run ${pair(b0, b1, 'an average month')}; ${name(q0)} (${formatIndex(byMonth(q0).index, locale)}) and ${name(q1)} (${formatIndex(byMonth(q1).index, locale)}) are the ${busyWords(metric, additive) ? 'quietest' : 'lowest'}, ${pair(q0, q1, '')}.`;
   } else {
     const band = (a: number, b: number, basis: string) => {
       const [x, y] = [byMonth(a), byMonth(b)];
@@ -113,7 +122,8 @@ export function perDaySentence(metric: Metric, p: MonthTotalsPerDay, locale: str
   const name = (m: number) => monthName(m, locale);
   const perDay = (m: number) => `${formatValue(p.perDay[m - 1]!, fmt, { rate: true })} a day`;
   const [top, bottom] = [p.byDay[0]!, p.byDay[p.byDay.length - 1]!];
-  const lead = `Per day (months differ in length), the busiest month is ${name(top)} (${perDay(top)}) and the quietest ${name(bottom)} (${perDay(bottom)})`;
+  const [high, low] = busyWords(metric, true) ? ['busiest', 'quietest'] : ['highest', 'lowest'];
+  const lead = `Per day (months differ in length), the ${high} month is ${name(top)} (${perDay(top)}) and the ${low} ${name(bottom)} (${perDay(bottom)})`;
   if (p.swaps.length === 0) return `${lead}, the same order as by total.`;
   const passes = new Map<number, number[]>();
   for (const [up, down] of p.swaps) passes.set(up, [...(passes.get(up) ?? []), down]);
@@ -226,7 +236,7 @@ function weekdayTitle(metric: Metric, w: TrendWeekdayFinding, additive: boolean,
   const printed = (d: DayGap) => d.text(additive ? 'an average day' : 'the average weekday');
   const top = days.filter((d) => printed(d) === printed(hi));
   const names = listJoin(top.map((d) => weekdayName(d.isoDay, locale)));
-  if (additive) return top.length > 1 ? `${names} tie as the busiest days of the week (${printed(hi)})` : `${names} is the busiest day of the week (${printed(hi)})`;
+  if (busyWords(metric, additive)) return top.length > 1 ? `${names} tie as the busiest days of the week (${printed(hi)})` : `${names} is the busiest day of the week (${printed(hi)})`;
   return `${labelAtStart(metric.label)} ${verbFor(metric.label)} highest on ${names} (${printed(hi)})`;
 }
 
@@ -251,8 +261,8 @@ function weekdaySentence(metric: Metric, w: TrendWeekdayFinding, additive: boole
   const names = (group: DayGap[]) => listJoin(group.map((d) => day(d.isoDay)));
   if (printed(hi) === printed(lo)) return `By day of week, every day is ${printed(hi)}.`;
   const [top, bottom] = [tied(hi), tied(lo)];
-  const highWord = additive ? 'busiest' : 'highest';
-  const lowWord = additive ? 'quietest' : 'lowest';
+  const highWord = busyWords(metric, additive) ? 'busiest' : 'highest';
+  const lowWord = busyWords(metric, additive) ? 'quietest' : 'lowest';
   const high = top.length > 1 ? `${names(top)} tie as the ${highWord} (${printed(hi)})` : `${day(hi.isoDay)} is the ${highWord} (${printed(hi)})`;
   // The basis is said once, after the first figure: "(about 8.1% below)".
   const lowText = lo.gap === 0 ? printed(lo) : lo.text('').trim();

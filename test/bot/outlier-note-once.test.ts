@@ -12,7 +12,7 @@ import { ask } from '../../cli/ask.js';
 import { vegaDataFile } from '../helpers/open-data.js';
 import { BIRDSTRIKES_CONFIG } from '../reading/open-data-configs.js';
 
-it('a monthly cost thread names its unusual months under one answer only', async () => {
+it('a monthly cost thread names its unusual months under one answer only, and calls its days highest, not busiest', async () => {
   const out = mkdtempSync(join(tmpdir(), 'tc-outlier-once-'));
   writeFileSync(join(out, 'answers.yaml'), 'plan: go\n');
   const r = await ask({ configFile: BIRDSTRIKES_CONFIG, request: 'How has the total cost of strikes moved month by month?', answersFile: join(out, 'answers.yaml'), outDir: join(out, 'out'), now: new Date('2026-12-05T09:00:00Z') });
@@ -28,6 +28,10 @@ it('a monthly cost thread names its unusual months under one answer only', async
   const notes = answers.filter((p) => /_Note: [^_]*unusual/.test(p.text));
   expect(notes).toHaveLength(1);
   expect(notes[0]!.text).toContain(top);
+  // A cost has highs and lows, not busy and quiet days (Total cost is higher_is_better: false).
+  const season = answers.find((p) => /day of week/i.test(p.text))!;
+  expect(season.text).toMatch(/By day of week, \w+ is the highest/);
+  expect(answers.map((p) => p.text).join('\n')).not.toMatch(/busiest|quietest/);
   // The notes that are there are each said once per answer.
   for (const p of answers) {
     const lines = p.text.split('\n').filter((l) => l.startsWith('_Note:'));
