@@ -11,7 +11,11 @@ export interface SeriesWords {
 
 type Point = { period: string; value: number };
 
-export function seriesWords(metric: Metric, grain: Grain, findings: Finding[], locale: string): SeriesWords {
+/**
+ * `lowFirst`: the request asked for the low end ("the coldest month on record", "the quietest
+ * week"), so the lowest period leads and the highest follows.
+ */
+export function seriesWords(metric: Metric, grain: Grain, findings: Finding[], locale: string, lowFirst = false): SeriesWords {
   const fmt = valueFormatOf(metric, locale);
   const peak = findings.find((f): f is Extract<Finding, { type: 'peak' }> => f.type === 'peak' && f.metric === metric.name);
   const trough = findings.find((f): f is Extract<Finding, { type: 'trough' }> => f.type === 'trough' && f.metric === metric.name);
@@ -26,6 +30,10 @@ export function seriesWords(metric: Metric, grain: Grain, findings: Finding[], l
   const basis = perDay ? ` Each ${grainNoun(grain)}'s total is divided by its days (the days of it the period and the data cover).` : '';
   // One complete period is no peak: a partial one beside it may be drawn higher (issue 17 item 9).
   const only = `${labelAtStart(label)} ${verbFor(label, 'was')} ${value(peak)} ${inPeriod(peak.period, grain, locale)}, the only complete ${grainNoun(grain)}`;
+  if (peak.period !== trough.period && lowFirst) {
+    const low = `${labelAtStart(label)} ${verbFor(label, 'was')} lowest ${inPeriod(trough.period, grain, locale)}, at ${value(trough)}`;
+    return { title: low, caption: `${low}; its highest ${grainNoun(grain)} was ${grain === 'week' ? 'the ' : ''}${when(peak)} at ${value(peak)}.${basis}` };
+  }
   const title = peak.period === trough.period ? only : `${labelAtStart(label)} peaked ${inPeriod(peak.period, grain, locale)} at ${value(peak)}`;
   const caption =
     peak.period === trough.period

@@ -9,7 +9,7 @@ import type { Finding, ResultColumn } from '../types.js';
 export const presentSeries: Presenter = (answer, ctx) => {
   const sq = answer.subQuestion;
   const metric = metricByName(ctx.dataset, sq.metrics[0]!);
-  const words = seriesWords(metric, sq.grain, answer.findings, ctx.locale);
+  const words = seriesWords(metric, sq.grain, answer.findings, ctx.locale, sq.rankOrder === 'lowest');
   const chart = seriesLineChart(answer, metric, words.title, ctx);
   const series = answer.findings.find((f): f is Extract<Finding, { type: 'series' }> => f.type === 'series' && f.metric === metric.name);
   return {
