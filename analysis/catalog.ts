@@ -276,7 +276,8 @@ export function changeBasisOf(metric: Metric, values: readonly (number | null)[]
  */
 export function seasonalModel(metric: Metric, values: readonly (number | null)[] = []): SeasonalModel {
   if (quantityKind(metric) === 'level' || metric.unit === 'percent') return 'additive';
-  return percentsApplyTo(metric, values, false) ? 'multiplicative' : 'additive';
+  // A flow's zero is "none" (a dry day), not a crossing: only a ratio's or level's zero tips it.
+  return percentsApplyTo(metric, values) ? 'multiplicative' : 'additive';
 }
 
 /**

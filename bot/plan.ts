@@ -11,7 +11,7 @@ import { fullWindow } from './reading/answers.js';
 import { daySides } from './reading/day-filter.js';
 import { isDayFilter } from '../analysis/day-of-week.js';
 import { withStatistic } from '../analysis/statistic.js';
-import { AGREE, CANCEL, GROUP_GROWTH_ASK, grainNamedBy, WEEKDAY_ASK } from './reading/lexicon.js';
+import { AGREE, CANCEL, CONCENTRATION_ASK, GROUP_GROWTH_ASK, grainNamedBy, WEEKDAY_ASK } from './reading/lexicon.js';
 import { describeWindow } from '../analysis/window-words.js';
 import { addDays, daysBetween } from '../analysis/periods.js';
 import { priorWindow } from '../analysis/templates/growth-compare.js';
@@ -113,18 +113,21 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
         case 'trend':
           // "Which species cause the most cost", "top 5 busiest airports": the ranking of the
           // breakdown heads the question's answers (bars by value where shares do not apply).
+          // "How many airports make up 80% of flights": the shares and their Pareto count answer it.
+          const concentrated = !ranks && dims.length > 0 && additive && CONCENTRATION_ASK.test(q.text.toLowerCase());
           if (ranks) for (const d of dims) add('segment_shares', metric, true, { dimension: d, answersAsked: true });
+          if (concentrated) for (const d of dims) add('segment_shares', metric, true, { dimension: d });
           // The days of the week asked about ("which weekday", "by day of week"): the time pattern
           // answers it (on daily data) whatever the grain, heads the question and leads the summary.
           // A question kept to some days ("weekends" of "weekends vs weekdays") has no week's pattern to show.
           const weekdays = WEEKDAY_ASK.test(q.text.toLowerCase()) && !q.filters.some(isDayFilter);
-          add('series', metric, !ranks && !weekdays);
+          add('series', metric, !ranks && !concentrated && !weekdays);
           if (grain === 'month' || weekdays) add('trend_seasonality', metric, weekdays, weekdays ? { weekdaysAsked: true, answersAsked: true } : {});
           add('trend_test', metric, false);
           add('trend_summary', metric, false);
           for (const d of dims) add('segment_trend', metric, false, { dimension: d });
           // "worst 10 by late share": a ranking by value answers it, whatever the metric, and heads the question.
-          if ((additive || q.rankOrder) && !ranks) for (const d of dims) add('segment_shares', metric, !!q.rankOrder, { dimension: d });
+          if ((additive || q.rankOrder) && !ranks && !concentrated) for (const d of dims) add('segment_shares', metric, !!q.rankOrder, { dimension: d });
           break;
         case 'growth':
           // The metric's own pattern over time is the context any growth answer is read against.

@@ -108,6 +108,13 @@ export function verbFor(label: string, verb: 'is' | 'was' = 'is'): string {
 }
 
 /** "Route A's", but "Bookings'" (a name ending in s takes the apostrophe alone). */
+/** "a route", "an origin airport", "an hour", "a unit": the indefinite article by the word's sound (common English rules, with the usual exceptions). */
+export function withArticle(phrase: string): string {
+  const w = phrase.trim().toLowerCase();
+  const an = /^(?:hour|honest|honou?r|heir)/.test(w) || (/^[aeiou]/.test(w) && !/^(?:uni(?!n)|use|usu|uti|eu|one\b|once\b|ure)/.test(w));
+  return `${an ? 'an' : 'a'} ${phrase}`;
+}
+
 export function possessive(name: string): string {
   return /s$/i.test(name) ? `${name}'` : `${name}'s`;
 }

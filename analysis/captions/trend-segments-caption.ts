@@ -4,7 +4,7 @@ import { addsAcrossSegments } from '../catalog.js';
 import { CLEAR_LEAD, type SegmentGrowthMeasure, type SegmentRanking, type SegmentSharesFinding, type SegmentShareRow, type SegmentTrendFinding, type SegmentTrendOverviewFinding } from '../findings/segments.js';
 import { formatChange, formatPeriod, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
 import type { Audience, Finding } from '../types.js';
-import { countOf, inSentence, isPluralLabel, labelAtStart, pluralNoun } from './grammar.js';
+import { countOf, inSentence, isPluralLabel, labelAtStart, pluralNoun, withArticle } from './grammar.js';
 import { configuredAs } from './metric-words.js';
 import type { Words } from './trend-test-caption.js';
 import { capitalise, countWord, dimensionPlural, formatRelativeSize, formatShare, segmentLabel } from './trend-words.js';
@@ -76,7 +76,7 @@ export function segmentTrendWords(asked: Metric, dim: Dim, findings: readonly Fi
     const largestLine = sizeLine(metric, named, fmt, ' over the period');
     return {
       title: `${labelAtStart(metric.label)} by ${inSentence(dim.label)}: too short a span to tell each one's trend from the season`,
-      caption: `${capitalise(largestLine)} With less than two years of ${pluralNoun(fastest.grain)}, a ${inSentence(dim.label)}'s rise or fall cannot be told apart from the usual seasonal pattern, so none is named as growing fastest; growth on the same ${pluralNoun(fastest.grain)} of the year before compares them without the season.`.trim(),
+      caption: `${capitalise(largestLine)} With less than two years of ${pluralNoun(fastest.grain)}, ${withArticle(inSentence(dim.label))}'s rise or fall cannot be told apart from the usual seasonal pattern, so none is named as growing fastest; growth on the same ${pluralNoun(fastest.grain)} of the year before compares them without the season.`.trim(),
     };
   }
   const measure = overview.fastest.measure;

@@ -111,6 +111,12 @@ export const SEASON_ASK = /\bbusiest\b|\bquietest\b|\bslowest\b|\bpeak\w*|\btrou
 /** A group's own growth asked ("did the programme shops grow faster", "growing more slowly"): its growth, not its level. */
 export const GROUP_GROWTH_ASK = /\b(?:grow|grew|grown|growing|growth)\b/;
 
+/**
+ * How concentrated a measure is across a breakdown ("how many airports make up 80% of flights",
+ * "how concentrated is revenue across routes", "Pareto of customers", "80/20"): the shares answer it.
+ */
+export const CONCENTRATION_ASK = /\b(?:make|makes|made|making|account\s+for|accounts\s+for|reach|reaches|carry|carries)\s+(?:up\s+)?(?:about\s+|over\s+|half|the\s+bulk|most|\d{1,2}(?:\.\d+)?\s*%|\d{1,2}\s+per\s*cent)|\bhow\s+concentrated\b|\bconcentration\b|\bpareto\b|\b80\s*\/\s*20\b|\blong\s+tail\b/;
+
 export const WEEKDAY_ASK = /\bwhich days? (?:is|are|was|were)\b|\bdays?[- ]of[- ](?:the[- ])?week\b|\bweekdays\b|\b(?:which|what|by|per|each|every|across)\s+(?:the\s+)?weekday\b|\bweekends?\s+(?:vs|versus|compared)\b/;
 
 /** Cues for each kind of question, with weights; the reader scores a question's words with these. */

@@ -2,7 +2,7 @@
 // "species" and "aircraft" are their own plurals; in "phase of flight" the head noun takes the
 // plural); the labels are those of vega-datasets' birdstrikes.csv and of our demo.
 import { describe, expect, it } from 'vitest';
-import { capitalise, firstClause, firstSentence, inPeriod, inSentence, isPluralLabel, labelAtStart, nounFor, pluralNoun, singularNoun, verbFor } from '../../../analysis/captions/grammar.js';
+import { capitalise, firstClause, firstSentence, inPeriod, inSentence, isPluralLabel, labelAtStart, nounFor, pluralNoun, singularNoun, verbFor, withArticle } from '../../../analysis/captions/grammar.js';
 
 describe('pluralNoun', () => {
   it.each([
@@ -91,5 +91,21 @@ describe('periods and sentences', () => {
   it('cuts a caption at its first full stop, never at a decimal point', () => {
     expect(firstSentence('CO2 rose by about 1.56 ppm a year. Decade by decade, more.')).toBe('CO2 rose by about 1.56 ppm a year.');
     expect(firstSentence('No full stop here')).toBe('No full stop here');
+  });
+});
+
+describe('withArticle', () => {
+  // Common English usage (any style guide): "an" before a vowel sound, "a" before a consonant sound.
+  it.each([
+    ['origin airport', 'an origin airport'],
+    ['route', 'a route'],
+    ['hour', 'an hour'],
+    ['unit', 'a unit'],
+    ['user segment', 'a user segment'],
+    ['umbrella brand', 'an umbrella brand'],
+    ['European market', 'a European market'],
+    ['one-off order', 'a one-off order'],
+  ])('%s', (phrase, want) => {
+    expect(withArticle(phrase)).toBe(want);
   });
 });
