@@ -169,7 +169,7 @@ function levelSeasonCaption(metric: Metric, s: TrendSeasonalityFinding, audience
   const [b0, b1] = s.busiest;
   const [q0, q1] = s.quietest;
   const side = (v: number) => (v >= 0 ? 'above' : 'below');
-  const swing = formatUnitChange(byMonth(b0).index - byMonth(q0).index, fmt, { compact: true });
+  const swing = formatUnitChange(s.swing ?? byMonth(b0).index - byMonth(q0).index, fmt, { compact: true });
   if (audience === 'analysts') {
     const idx = (m: number) => {
       const p = byMonth(m);

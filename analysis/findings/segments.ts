@@ -83,6 +83,8 @@ export interface TrendSeasonalityFinding {
   /** The two months with the highest and the two with the lowest index, highest (or lowest) first. */
   busiest: [number, number];
   quietest: [number, number];
+  /** An additive pattern's swing within the year: the highest month's deviation less the lowest's, in the metric's units. */
+  swing?: number;
   /** X-11's F-test for stable seasonality over the detrended values by month; absent when too few to test. */
   stable?: StableSeasonalityTest;
   /**

@@ -174,6 +174,7 @@ function seasonalityOf(metric: string, points: readonly PeriodPoint[], model: Se
       rangeToYear: rangeYears[rangeYears.length - 1] ?? null,
       busiest: [byIndex[0]!, byIndex[1]!],
       quietest: [byIndex[PERIOD - 1]!, byIndex[PERIOD - 2]!],
+      ...(model === 'additive' ? { swing: result.indices[byIndex[0]! - 1]! - result.indices[byIndex[PERIOD - 1]! - 1]! } : {}),
       ...(stable ? { stable } : {}),
       ...(flow && fullYears.size > 0 ? { perDay: totalsPerDay(fullYears) } : {}),
     },
