@@ -7,6 +7,9 @@
 // seasonal part by the median per season, see stats/decomposition.ts seasonalRemainders). The
 // median and MAD keep one storm month from hiding itself by inflating the spread it is judged
 // against. Without enough cycles to measure the season the values themselves are screened.
+// The moving average and the season's median still lean towards a storm month, so flagged periods are
+// replaced by their fit and the decomposition redone, until the flagged periods hold, before the final
+// judgement (X-11's treatment of extreme values).
 import { nextPeriod } from '../periods.js';
 import { MODIFIED_Z_THRESHOLD, modifiedZScores, seasonalRemainders, type SeasonalModel } from '../stats/index.js';
 import type { Caveat, Grain, PeriodPoint } from '../types.js';
@@ -31,6 +34,13 @@ export const CYCLE_OF: Readonly<Partial<Record<Grain, number>>> = { day: 7, week
  * then called unusual only when it stands out both in the remainders and among the values themselves.
  */
 export const MIN_SEASONAL_CYCLES = 3;
+
+/**
+ * Decompositions run at most, the first included (see the X-11 note in screenSeries). The passes stop as soon as one
+ * flags the same periods as the one before; on the record of Mauna Loa CO2 with one month 10 ppm too high that takes
+ * under ten, and the cap only bounds a series whose flags keep changing.
+ */
+export const OUTLIER_PASSES = 10;
 const MIN_CYCLES_FOR_ANY_SEASONAL = 2;
 
 /**
@@ -89,14 +99,46 @@ export function screenSeries(points: readonly PeriodPoint[], grain: Grain, model
   const decomposed = seasonalRemainders(values, cycle, m, MIN_CYCLES_FOR_ANY_SEASONAL);
   if (decomposed.kind !== 'ok') return { ...base, rule: 'values', fallback: 'too_few_cycles', unusual: byValue };
 
-  const z = modifiedZScores(decomposed.remainder, MODIFIED_Z_THRESHOLD);
-  if (!z) return { ...base, rule: 'values', fallback: 'too_few_cycles', unusual: byValue };
   const both = decomposed.fullCycles < MIN_SEASONAL_CYCLES;
   const flaggedByValue = new Set(byValue.map((u) => u.period));
-  const unusual = z.outlierIndices
-    .filter((i) => !both || flaggedByValue.has(run[i]!.period))
-    .map((i) => ({ period: run[i]!.period, value: values[i]!, score: z.scores[i]!, expected: decomposed.expected[i]! }));
+  const judge = (fit: typeof decomposed) => {
+    const z = modifiedZScores(fit.remainder, MODIFIED_Z_THRESHOLD);
+    return z ? { z, flagged: z.outlierIndices.filter((i) => !both || flaggedByValue.has(run[i]!.period)) } : null;
+  };
+  const firstPass = judge(decomposed);
+  if (!firstPass) return { ...base, rule: 'values', fallback: 'too_few_cycles', unusual: byValue };
+
+  // Further passes, as X-11 treats extreme values (Shiskin, Young & Musgrave 1967; Ladiray & Quenneville, "Seasonal
+  // Adjustment with the X-11 Method", 2001): the moving-average trend and the season's median of the first pass
+  // include the storm month itself, which pulls its own fit towards it, shrinks its remainder and overstates what
+  // was usual. Each flagged period is replaced by its fit, the decomposition is redone on the amended series, and the
+  // original values are judged against the new fit; that fit is the "usual" reported. One such pass is not enough
+  // for a large jump: the neighbours it drags below their inflated fit are flagged too and put back at that inflated
+  // fit, so the amended series still leans up; repeating until the flagged periods hold lets the fit settle.
+  let fit = decomposed;
+  let verdict = firstPass;
+  for (let pass = 2; pass <= OUTLIER_PASSES && verdict.flagged.length > 0; pass++) {
+    const amended = [...values];
+    for (const i of verdict.flagged) amended[i] = fit.expected[i] ?? amended[i]!;
+    const refit = seasonalRemainders(amended, cycle, m, MIN_CYCLES_FOR_ANY_SEASONAL);
+    if (refit.kind !== 'ok') break;
+    const remainder = values.map((v, i) => remainderOf(v, refit.expected[i] ?? null, m));
+    const next = judge({ ...refit, remainder });
+    if (!next) break;
+    const same = next.flagged.length === verdict.flagged.length && next.flagged.every((i, k) => verdict.flagged[k] === i);
+    fit = { ...refit, remainder };
+    verdict = next;
+    if (same) break;
+  }
+  const unusual = verdict.flagged.map((i) => ({ period: run[i]!.period, value: values[i]!, score: verdict.z.scores[i]!, expected: fit.expected[i]! }));
   return { ...base, rule: both ? 'seasonal_and_values' : 'seasonal', cycle, unusual };
+}
+
+/** What is left of a value once its fit is taken out, as stats/decomposition.ts seasonalRemainders defines it. */
+function remainderOf(v: number | null, e: number | null, model: SeasonalModel): number | null {
+  if (v === null || e === null) return null;
+  if (model === 'additive') return v - e;
+  return e > 0 ? v / e - 1 : null;
 }
 
 /** One `outlier` caveat per unusual complete period, carrying the rule that judged it. */

@@ -77,7 +77,7 @@ describe('unusual months of the Mauna Loa CO2 record (NOAA, vega-datasets co2-co
     }
   });
 
-  it('flags a planted jump of 3 ppm in May 2015 (PLANTED: a copy of the record, the real May 2015 reads 403.94 ppm) and nothing in its place', () => {
+  it('flags a planted jump of 3 ppm in May 2015 (PLANTED: a copy of the record, the real May 2015 reads 404.10 ppm) and nothing in its place', () => {
     const planted = decade.map((p) => (p.period === '2015-05-01' ? { ...p, value: p.value! + 3 } : p));
     const real = screenSeries(decade, 'month', 'additive')!;
     const screen = screenSeries(planted, 'month', 'additive')!;
@@ -89,6 +89,23 @@ describe('unusual months of the Mauna Loa CO2 record (NOAA, vega-datasets co2-co
     // Expected value: the real May 2015 against its own trend and season, within the spread of other years.
     expect(top.expected!).toBeGreaterThan(byMonth.get('2015-05-01')! - 1);
     expect(top.expected!).toBeLessThan(byMonth.get('2015-05-01')! + 1);
+  });
+
+  it('does not let a planted jump raise its own usual: the fit after the flagged months are put back is within 0.15 ppm of the real value', () => {
+    // PLANTED: 3 and 10 ppm added to May 2015 of a copy of the record; the file's own May 2015 is the truth.
+    const truth = byMonth.get('2015-05-01')!;
+    const at = decade.findIndex((p) => p.period === '2015-05-01');
+    for (const jump of [3, 10]) {
+      const planted = decade.map((p) => (p.period === '2015-05-01' ? { ...p, value: p.value! + jump } : p));
+      const flagged = screenSeries(planted, 'month', 'additive')!.unusual.find((u) => u.period === '2015-05-01')!;
+      expect(flagged.value).toBeCloseTo(truth + jump, 9);
+      // 0.15 ppm: a twentieth of the smaller jump, and under the month-to-month rise of the record in spring.
+      expect(Math.abs(flagged.expected! - truth)).toBeLessThan(0.15);
+      // The one-pass fit (moving average and season's median over the planted copy) sits higher: the jump leaks in.
+      const onePass = seasonalRemainders(planted.map((p) => p.value), 12, 'additive');
+      if (onePass.kind !== 'ok') throw new Error(onePass.kind);
+      expect(onePass.expected[at]! - truth).toBeGreaterThan(jump / 15);
+    }
   });
 });
 
@@ -114,14 +131,68 @@ describe('unusual months of daily high temperature, Seattle and New York 2012–
     }
   });
 
-  it('flags New York’s warm March 2012 and December 2015, which the screen of raw values misses', () => {
+  it('flags New York’s warm February and March 2012 and December 2015, which the screen of raw values misses', () => {
     // Recalled from memory (NOAA climate summaries): March 2012 brought a record heat wave to the eastern US, and
     // December 2015 was New York's warmest December on record. Both run about 4 °C over their months' usual here.
+    // February 2012 (the mild winter of 2011–12, also recalled from memory) is flagged since the X-11-style second
+    // pass: in one pass March 2012's heat lifted the trend carried to the series' start and hid it.
     const points = meanByMonth('New York');
     const screen = screenSeries(points, 'month', 'additive')!;
-    expect(screen.unusual.map((u) => u.period)).toEqual(['2012-03-01', '2015-12-01']);
+    expect(screen.unusual.map((u) => u.period)).toEqual(['2012-02-01', '2012-03-01', '2015-12-01']);
+    // The file's own arithmetic: February 2012's mean high is more than 4 °C over every other February's.
+    const febs = points.filter((p) => monthOf(p.period) === 2).map((p) => p.value!);
+    for (const other of febs.slice(1)) expect(febs[0]! - other).toBeGreaterThan(4);
     for (const u of screen.unusual) expect(u.value - u.expected!).toBeGreaterThan(3);
     expect(screenSeries(points, 'year')!.unusual).toEqual([]);
+  });
+});
+
+describe('the wettest months, Seattle and New York 2012–2015 (NOAA daily precipitation, vega-datasets weather.csv)', () => {
+  const rows = csv('weather.csv');
+  const totalByMonth = (location: string) => {
+    const sums = new Map<string, number>();
+    for (const r of rows) if (r.location === location) sums.set(`${r.date!.slice(0, 7)}-01`, (sums.get(`${r.date!.slice(0, 7)}-01`) ?? 0) + Number(r.precipitation));
+    return monthlyPoints(sums, '2012-01-01', '2015-12-01');
+  };
+  /** The same calendar month's totals in the other years of the file. */
+  const sameMonthOtherYears = (points: PeriodPoint[], period: string) =>
+    points.filter((p) => monthOf(p.period) === monthOf(period) && p.period !== period).map((p) => p.value!);
+  const wettest = (points: PeriodPoint[]) => points.reduce((a, b) => (b.value! > a.value! ? b : a));
+
+  it('flags Seattle’s wettest month, December 2015, against a usual inside the range of the other Decembers', () => {
+    const points = totalByMonth('Seattle');
+    const top = wettest(points);
+    expect(top.period).toBe('2015-12-01');
+    const screen = screenSeries(points, 'month', 'multiplicative')!;
+    expect(screen.rule).toBe('seasonal');
+    const u = screen.unusual.find((x) => x.period === top.period)!;
+    expect(u.value).toBeCloseTo(top.value!, 9);
+    const others = sameMonthOtherYears(points, top.period);
+    expect(u.expected!).toBeGreaterThanOrEqual(Math.min(...others));
+    expect(u.expected!).toBeLessThanOrEqual(Math.max(...others));
+  });
+
+  it('in New York flags the wet April 2014, not the wettest month (June 2013), since Junes are wet every year', () => {
+    const points = totalByMonth('New York');
+    const top = wettest(points);
+    expect(top.period).toBe('2013-06-01');
+    const screen = screenSeries(points, 'month', 'multiplicative')!;
+    const periods = screen.unusual.map((u) => u.period);
+    expect(periods).not.toContain(top.period);
+    // June 2013 is under 1.7 times the other Junes' mean; April 2014 over 3 times the other Aprils'.
+    const mean = (xs: number[]) => xs.reduce((a, b) => a + b, 0) / xs.length;
+    expect(top.value! / mean(sameMonthOtherYears(points, top.period))).toBeLessThan(1.7);
+    const april = points.find((p) => p.period === '2014-04-01')!;
+    expect(april.value! / mean(sameMonthOtherYears(points, april.period))).toBeGreaterThan(3);
+    expect(periods).toContain('2014-04-01');
+    // Its usual is set by the other Aprils, not raised by its own storm: inside their range, below the one-pass fit.
+    const u = screen.unusual.find((x) => x.period === '2014-04-01')!;
+    const others = sameMonthOtherYears(points, april.period);
+    expect(u.expected!).toBeGreaterThanOrEqual(Math.min(...others));
+    expect(u.expected!).toBeLessThanOrEqual(Math.max(...others));
+    const onePass = seasonalRemainders(points.map((p) => p.value), 12, 'multiplicative');
+    if (onePass.kind !== 'ok') throw new Error(onePass.kind);
+    expect(u.expected!).toBeLessThan(onePass.expected[points.indexOf(april)]!);
   });
 });
 
