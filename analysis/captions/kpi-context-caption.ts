@@ -31,13 +31,18 @@ export function kpiContextWords(f: KpiContextFinding, metric: Metric, ds: Datase
     if (audience === 'leadership') sentences.push(`A typical ${grainNoun(f.grain)} is about ${kpiValue(f.median, metric, locale)}.`);
     else sentences.push(`The typical (median) ${grainNoun(f.grain)} is ${kpiValue(f.median, metric, locale)}; the history runs ${range}.`);
   }
+  // Judged by the series screen (quality/series-outliers.ts): against the season and trend when the history allows.
+  const seasonal = (f.outlierRule === 'seasonal' || f.outlierRule === 'seasonal_and_values') && f.usual !== undefined;
+  const usual = seasonal ? kpiValue(f.usual!, metric, locale) : '';
+  const zText = f.robustZ === null ? '' : formatValue(f.robustZ, { unit: 'number', decimals: 1, locale });
+  const ofWhat = seasonal ? ' of what is left after season and trend' : '';
   if (f.outlier && f.robustZ !== null) {
     const side = f.robustZ > 0 ? 'above' : 'below';
-    if (audience === 'leadership') sentences.push(`That is far ${side} its usual level: treat it as exceptional, not as the new normal.`);
-    else if (audience === 'managers') sentences.push(`That is far ${side} the usual range, an outlier: check what happened before reading it as a trend.`);
-    else sentences.push(`It is an outlier: modified z-score ${formatValue(f.robustZ, { unit: 'number', decimals: 1, locale })} (Iglewicz–Hoaglin; |z| above 3.5 flags an outlier).`);
+    if (audience === 'leadership') sentences.push(`That is far ${side} its usual level${seasonal ? ` for the time of year (about ${usual})` : ''}: treat it as exceptional, not as the new normal.`);
+    else if (audience === 'managers') sentences.push(`That is far ${side} ${seasonal ? `the usual for the time of year (about ${usual})` : 'the usual range'}, an outlier: check what happened before reading it as a trend.`);
+    else sentences.push(`It is an outlier: modified z-score ${zText}${ofWhat}${seasonal ? ` (usual about ${usual})` : ''} (Iglewicz–Hoaglin; |z| above 3.5 flags an outlier).`);
   } else if (f.robustZ !== null && audience === 'analysts') {
-    sentences.push(`Modified z-score ${formatValue(f.robustZ, { unit: 'number', decimals: 1, locale })}, inside the 3.5 outlier cut-off (Iglewicz–Hoaglin).`);
+    sentences.push(`Modified z-score ${zText}${ofWhat}, inside the 3.5 outlier cut-off (Iglewicz–Hoaglin).`);
   }
   if (audience === 'analysts' && f.sd !== null) {
     sentences.push(`Mean ${kpiValue(f.mean, metric, locale)}, standard deviation ${kpiValue(f.sd, metric, locale)}; percentile ${formatValue(f.percentile, { unit: 'percent', decimals: 0, locale })} (share of ${grainNoun(f.grain, 2)} at or below the latest).`);

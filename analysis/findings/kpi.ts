@@ -1,5 +1,6 @@
 // Findings of the KPI snapshot family: where a metric stands in its latest complete period,
 // against the period before and the same period a year earlier. Numbers only; no prose.
+import type { OutlierRule } from '../quality/series-outliers.js';
 import type { Grain } from '../types.js';
 
 /** A comparison point and the latest value's change against it. */
@@ -80,10 +81,17 @@ export interface KpiContextFinding {
   rank: number;
   /** Share of complete periods whose value is at or below the latest, 0–1. */
   percentile: number;
-  /** Modified z-score of the latest (Iglewicz & Hoaglin); null when it cannot be computed. */
+  /**
+   * Modified z-score of the latest (Iglewicz & Hoaglin) as the series screen scores it (quality/series-outliers.ts):
+   * of its remainder after season and trend, or of the value; null when it cannot be computed.
+   */
   robustZ: number | null;
-  /** |robustZ| above the 3.5 cut-off. */
+  /** The series screen calls the latest period unusual (the same call as the `outlier` caveat). */
   outlier: boolean;
+  /** Which rule judged the history (absent: too short to screen). */
+  outlierRule?: OutlierRule;
+  /** What the latest would have been by its season and trend (rules `seasonal*` only). */
+  usual?: number;
 }
 
 export interface KpiMixRow {

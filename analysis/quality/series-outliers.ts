@@ -69,6 +69,8 @@ export interface OutlierScreen {
   median: number;
   threshold: number;
   unusual: UnusualPeriod[];
+  /** Every period the rule scored, unusual or not, in time order (the latest period's score for a KPI's context). */
+  judged: UnusualPeriod[];
 }
 
 /**
@@ -82,22 +84,23 @@ export function screenSeries(points: readonly PeriodPoint[], grain: Grain, model
   const plain = modifiedZScores(complete.map((p) => p.value), MODIFIED_Z_THRESHOLD);
   if (!plain) return null;
   const byValue: UnusualPeriod[] = plain.outlierIndices.map((i) => ({ period: complete[i]!.period, value: complete[i]!.value, score: plain.scores[i]! }));
+  const judgedByValue: UnusualPeriod[] = complete.map((p, i) => ({ period: p.period, value: p.value, score: plain.scores[i]! }));
   const base = { median: plain.median, threshold: MODIFIED_Z_THRESHOLD };
   const cycle = CYCLE_OF[grain];
-  if (cycle === undefined) return { ...base, rule: 'values', unusual: byValue };
+  if (cycle === undefined) return { ...base, rule: 'values', unusual: byValue, judged: judgedByValue };
 
   // The run from the first complete period to the last, in order, a partial or missing one as a hole.
   const first = points.indexOf(complete[0]!);
   const last = points.indexOf(complete[complete.length - 1]!);
   const run = points.slice(first, last + 1);
   const consecutive = run.every((p, i) => i === 0 || nextPeriod(run[i - 1]!.period, grain) === p.period);
-  if (!consecutive) return { ...base, rule: 'values', fallback: 'irregular', unusual: byValue };
+  if (!consecutive) return { ...base, rule: 'values', fallback: 'irregular', unusual: byValue, judged: judgedByValue };
   const values = run.map((p) => (p.partial || p.value === null || !Number.isFinite(p.value) ? null : p.value));
   // A ratio to the trend means nothing for a series that touches zero or goes below it (a profit, a temperature in °C).
   const positive = values.every((v) => v === null || v > 0);
   const m: SeasonalModel = positive ? (model ?? 'multiplicative') : 'additive';
   const decomposed = seasonalRemainders(values, cycle, m, MIN_CYCLES_FOR_ANY_SEASONAL);
-  if (decomposed.kind !== 'ok') return { ...base, rule: 'values', fallback: 'too_few_cycles', unusual: byValue };
+  if (decomposed.kind !== 'ok') return { ...base, rule: 'values', fallback: 'too_few_cycles', unusual: byValue, judged: judgedByValue };
 
   const both = decomposed.fullCycles < MIN_SEASONAL_CYCLES;
   const flaggedByValue = new Set(byValue.map((u) => u.period));
@@ -106,7 +109,7 @@ export function screenSeries(points: readonly PeriodPoint[], grain: Grain, model
     return z ? { z, flagged: z.outlierIndices.filter((i) => !both || flaggedByValue.has(run[i]!.period)) } : null;
   };
   const firstPass = judge(decomposed);
-  if (!firstPass) return { ...base, rule: 'values', fallback: 'too_few_cycles', unusual: byValue };
+  if (!firstPass) return { ...base, rule: 'values', fallback: 'too_few_cycles', unusual: byValue, judged: judgedByValue };
 
   // Further passes, as X-11 treats extreme values (Shiskin, Young & Musgrave 1967; Ladiray & Quenneville, "Seasonal
   // Adjustment with the X-11 Method", 2001): the moving-average trend and the season's median of the first pass
@@ -131,7 +134,11 @@ export function screenSeries(points: readonly PeriodPoint[], grain: Grain, model
     if (same) break;
   }
   const unusual = verdict.flagged.map((i) => ({ period: run[i]!.period, value: values[i]!, score: verdict.z.scores[i]!, expected: fit.expected[i]! }));
-  return { ...base, rule: both ? 'seasonal_and_values' : 'seasonal', cycle, unusual };
+  const judged = run.flatMap((p, i) => {
+    const score = verdict.z.scores[i];
+    return score === null || score === undefined ? [] : [{ period: p.period, value: values[i]!, score, expected: fit.expected[i]! }];
+  });
+  return { ...base, rule: both ? 'seasonal_and_values' : 'seasonal', cycle, unusual, judged };
 }
 
 /** What is left of a value once its fit is taken out, as stats/decomposition.ts seasonalRemainders defines it. */

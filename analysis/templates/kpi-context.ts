@@ -3,8 +3,8 @@
 // the periods holding the extremes and a robust z-score that flags an unusual latest value.
 import type { Coverage } from '../coverage.js';
 import type { KpiContextFinding } from '../findings/kpi.js';
-import { MIN_OUTLIER_PERIODS, seriesOutliers } from '../quality/series-outliers.js';
-import { argExtremes, MODIFIED_Z_THRESHOLD, modifiedZScores, summarize } from '../stats/index.js';
+import { screenSeries, seriesOutliers } from '../quality/series-outliers.js';
+import { argExtremes, summarize, type SeasonalModel } from '../stats/index.js';
 import type { Caveat, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
 import { EMPTY_TABLE } from './kpi-sql.js';
 import { compileSeries, modelOf, readSeries } from './series.js';
@@ -23,7 +23,7 @@ export function readKpiContext(sq: SubQuestion, table: ResultTable, coverage: Co
   for (const f of base.findings) {
     if (f.type !== 'series') continue;
     findings.push(f);
-    const context = contextOf(f.metric, sq.grain, f.points);
+    const context = contextOf(f.metric, sq.grain, f.points, modelOf(dataset, f.metric));
     if (!context) continue;
     findings.push(context);
     caveats.push(...seriesOutliers(f.points, sq.grain, modelOf(dataset, f.metric)).map((c) => ({ ...c, data: { ...c.data, metric: f.metric } })));
@@ -31,8 +31,12 @@ export function readKpiContext(sq: SubQuestion, table: ResultTable, coverage: Co
   return { findings, caveats };
 }
 
-/** The latest complete point against all complete points of the history; null without one. */
-export function contextOf(metric: string, grain: SubQuestion['grain'], points: PeriodPoint[]): KpiContextFinding | null {
+/**
+ * The latest complete point against all complete points of the history; null without one. Whether it is unusual is the
+ * series screen's call (quality/series-outliers.ts), the same rule as every other series: against its season and
+ * trend where the history allows, else among the values. `model` is how the metric's cycle behaves (catalog.ts).
+ */
+export function contextOf(metric: string, grain: SubQuestion['grain'], points: PeriodPoint[], model?: SeasonalModel): KpiContextFinding | null {
   const complete = points.filter((p): p is PeriodPoint & { value: number } => !p.partial && p.value !== null && Number.isFinite(p.value));
   const latest = complete[complete.length - 1];
   if (!latest) return null;
@@ -41,8 +45,10 @@ export function contextOf(metric: string, grain: SubQuestion['grain'], points: P
   const { minIndex, maxIndex } = argExtremes(values);
   const above = values.filter((v) => v > latest.value).length;
   const atOrBelow = values.filter((v) => v <= latest.value).length;
-  // Too few periods make the median absolute deviation meaningless; no score rather than a wild one.
-  const z = values.length >= MIN_OUTLIER_PERIODS ? (modifiedZScores(values)?.scores[values.length - 1] ?? null) : null;
+  // Too few periods make the median absolute deviation meaningless: the screen gives no score rather than a wild one.
+  const screen = screenSeries(points, grain, model);
+  const judged = screen?.judged.find((u) => u.period === latest.period);
+  const z = judged?.score ?? null;
   return {
     type: 'kpi_context',
     metric,
@@ -61,6 +67,8 @@ export function contextOf(metric: string, grain: SubQuestion['grain'], points: P
     rank: above + 1,
     percentile: atOrBelow / values.length,
     robustZ: z,
-    outlier: z !== null && Math.abs(z) > MODIFIED_Z_THRESHOLD,
+    outlier: screen?.unusual.some((u) => u.period === latest.period) ?? false,
+    ...(screen ? { outlierRule: screen.rule } : {}),
+    ...(judged?.expected !== undefined ? { usual: judged.expected } : {}),
   };
 }
