@@ -5,25 +5,19 @@
 // from SQL), on DuckDB (the file) and PostgreSQL (a table loaded from it), straight from the table
 // and through the day-level rollup; and flights-3m.parquet (US flights, January to June 2001) on
 // DuckDB, with the expected numbers from the test's own SQL over the file (dayname(), not ISODOW).
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../analysis/answer-sub-question.js';
 import { dayFilter, WEEKEND } from '../../analysis/day-of-week.js';
 import { openRunScope } from '../../analysis/run-scope.js';
-import type { Answer, PeriodPoint, SubQuestion } from '../../analysis/types.js';
-import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
+import type { SubQuestion } from '../../analysis/types.js';
+import type { Workspace } from '../../analysis/workspace.js';
 import { parseConfigText } from '../../config/load.js';
 import { flightsParquetConfigText, vegaDataFile } from '../helpers/open-data.js';
-import { describeWithPostgres, dropSchema, onPostgres, uniqueName, withClient } from '../helpers/postgres.js';
-import { loadSeattleWeather, loadSeattleWeatherTable, seattleWeatherConfig } from './stats/seattle-weather.js';
+import { seriesPoints, useFileWorkspace } from '../helpers/workspace-checks.js';
+import { describeOnSeattleWeather, loadSeattleWeather } from './stats/seattle-weather.js';
 
 const WINDOW = { start: '2012-01-01', end: '2016-01-01' };
 const isoDay = (date: string) => ((new Date(`${date}T00:00:00Z`).getUTCDay() + 6) % 7) + 1;
-
-function seriesPoints(a: Answer, metric: string): PeriodPoint[] {
-  const f = a.findings.find((x) => x.type === 'series' && x.metric === metric);
-  if (!f || f.type !== 'series') throw new Error(`no series of ${metric}`);
-  return f.points;
-}
 
 /** Per month of the CSV, over the days kept: day count, precipitation total, temp_max sum. */
 function monthsOf(days: readonly number[]): Map<string, { days: number; precipitation: number; tempMax: number }> {
@@ -41,14 +35,9 @@ function monthsOf(days: readonly number[]): Map<string, { days: number; precipit
   return out;
 }
 
-function seattleChecks(open: () => Promise<Workspace>): void {
-  let ws: Workspace;
-  beforeAll(async () => {
-    ws = await open();
-  });
-  afterAll(async () => ws?.source.close());
+function seattleChecks(ws: () => Workspace): void {
   for (const path of ['table', 'rollup'] as const) {
-    const answer = (sq: SubQuestion) => answerSubQuestion(sq, ws, path === 'table' ? { scope: openRunScope([sq], ws, { readTable: true }) } : {});
+    const answer = (sq: SubQuestion) => answerSubQuestion(sq, ws(), path === 'table' ? { scope: openRunScope([sq], ws(), { readTable: true }) } : {});
     const sq = (days: number[], metrics: string[]): SubQuestion => ({ id: 'days', kind: 'trend', lens: 'time_pattern', template: 'series', metrics, grain: 'month', window: WINDOW, filters: [dayFilter(days)] });
 
     it(`rainfall on Mondays, by month (${path})`, async () => {
@@ -80,36 +69,20 @@ function seattleChecks(open: () => Promise<Workspace>): void {
   }
 }
 
-describe('day-of-week filter on DuckDB (seattle-weather.csv)', () => {
-  seattleChecks(() => openWorkspace(seattleWeatherConfig()));
-});
-
-describeWithPostgres('day-of-week filter on PostgreSQL (table loaded from seattle-weather.csv)', (adminUrl) => {
-  const schema = uniqueName('tc_dow');
-  seattleChecks(async () => {
-    await withClient(adminUrl, (c) => loadSeattleWeatherTable(c, schema));
-    return openWorkspace(onPostgres(seattleWeatherConfig(), 'TC_DOW_URL', schema), undefined, { TC_DOW_URL: adminUrl });
-  });
-  afterAll(async () => dropSchema(adminUrl, schema));
-});
+describeOnSeattleWeather({ duckdb: 'day-of-week filter on DuckDB (seattle-weather.csv)', postgres: 'day-of-week filter on PostgreSQL (table loaded from seattle-weather.csv)' }, 'tc_dow', seattleChecks);
 
 const FLIGHTS = vegaDataFile('flights-3m.parquet');
 const flightsConfig = parseConfigText(flightsParquetConfigText(['{ name: delay, label: Average delay, average: delay, unit: number, unit_label: min, kind: ratio }']), '/virtual/flights.yaml');
 
 describe('Fridays only on flights-3m.parquet (DuckDB)', () => {
-  let ws: Workspace;
-  const own = async (sql: string) => (await ws.source.run({ sql, params: [] }, { maxRows: 1000, timeoutMs: 120_000 })).rows;
-  beforeAll(async () => {
-    ws = await openWorkspace(flightsConfig, 'flights', {}, new Date('2026-12-05T12:00:00Z'));
-  }, 120_000);
-  afterAll(async () => ws?.source.close());
+  const { ws, own } = useFileWorkspace(flightsConfig, 'flights');
 
   it('average delay and flights per month on Fridays match the file', async () => {
     const rows = await own(`SELECT strftime(date_trunc('month', date), '%Y-%m-%d') AS m, AVG(delay) AS delay, CAST(COUNT(*) AS DOUBLE) AS n
       FROM read_parquet('${FLIGHTS}') WHERE dayname(date) = 'Friday' AND date < DATE '2001-07-01' GROUP BY 1 ORDER BY 1`);
     expect(rows.length).toBe(6);
     const sq: SubQuestion = { id: 'fri', kind: 'trend', lens: 'time_pattern', template: 'series', metrics: ['delay', 'flights'], grain: 'month', window: { start: '2001-01-01', end: '2001-07-01' }, filters: [dayFilter([5])] };
-    const a = await answerSubQuestion(sq, ws);
+    const a = await answerSubQuestion(sq, ws());
     const delay = seriesPoints(a, 'delay');
     const flights = seriesPoints(a, 'flights');
     for (const r of rows) {

@@ -6,15 +6,13 @@
 // (test/analysis/stats/seattle-weather.ts), never from the project's SQL. Each check runs through
 // the real compile path on DuckDB (the CSV file) and PostgreSQL (a table loaded from it), both
 // straight from the table and through the day-level rollup.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { expect, it } from 'vitest';
 import { answerSubQuestion } from '../../analysis/answer-sub-question.js';
 import { openRunScope } from '../../analysis/run-scope.js';
-import type { Answer, PeriodPoint, SubQuestion } from '../../analysis/types.js';
-import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
-import { describeWithPostgres, dropSchema, onPostgres, uniqueName, withClient } from '../helpers/postgres.js';
-import { loadSeattleWeather, loadSeattleWeatherTable, seattleWeatherConfig } from './stats/seattle-weather.js';
-
-const config = seattleWeatherConfig();
+import type { SubQuestion } from '../../analysis/types.js';
+import type { Workspace } from '../../analysis/workspace.js';
+import { seriesPoints } from '../helpers/workspace-checks.js';
+import { describeOnSeattleWeather, loadSeattleWeather } from './stats/seattle-weather.js';
 
 const WINDOW = { start: '2012-01-01', end: '2016-01-01' };
 const question = (template: 'series' | 'period_table' | 'growth_series', metrics: string[], weather: string): SubQuestion => ({
@@ -45,21 +43,10 @@ function fromCsv(weather: string): Map<string, { days: number; precipitation: nu
   return out;
 }
 
-function seriesPoints(a: Answer, metric: string): PeriodPoint[] {
-  const f = a.findings.find((x) => x.type === 'series' && x.metric === metric);
-  if (!f || f.type !== 'series') throw new Error(`no series of ${metric}`);
-  return f.points;
-}
-
-function checks(open: () => Promise<Workspace>): void {
-  let ws: Workspace;
-  beforeAll(async () => {
-    ws = await open();
-  });
-  afterAll(async () => ws?.source.close());
+function checks(ws: () => Workspace): void {
 
   for (const path of ['table', 'rollup'] as const) {
-    const answer = (sq: SubQuestion) => answerSubQuestion(sq, ws, path === 'table' ? { scope: openRunScope([sq], ws, { readTable: true }) } : {});
+    const answer = (sq: SubQuestion) => answerSubQuestion(sq, ws(), path === 'table' ? { scope: openRunScope([sq], ws(), { readTable: true }) } : {});
 
     it(`rain days by month: July 2013 is 0 and the lowest month (${path})`, async () => {
       const want = fromCsv('rain');
@@ -121,15 +108,4 @@ function checks(open: () => Promise<Workspace>): void {
   }
 }
 
-describe('filtered months with no matching rows on DuckDB (CSV file)', () => {
-  checks(() => openWorkspace(config));
-});
-
-describeWithPostgres('filtered months with no matching rows on PostgreSQL (table loaded from the CSV)', (adminUrl) => {
-  const schema = uniqueName('tc_empty');
-  checks(async () => {
-    await withClient(adminUrl, (c) => loadSeattleWeatherTable(c, schema));
-    return openWorkspace(onPostgres(config, 'TC_EMPTY_URL', schema), undefined, { TC_EMPTY_URL: adminUrl });
-  });
-  afterAll(async () => dropSchema(adminUrl, schema));
-});
+describeOnSeattleWeather({ duckdb: 'filtered months with no matching rows on DuckDB (CSV file)', postgres: 'filtered months with no matching rows on PostgreSQL (table loaded from the CSV)' }, 'tc_empty', checks);

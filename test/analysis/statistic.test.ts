@@ -5,21 +5,15 @@
 // quantile: linear interpolation between order statistics, the definition both engines document),
 // on DuckDB and PostgreSQL; and on flights-3m.parquet (US flights, January to June 2001) on DuckDB
 // against the test's own SQL over the file (median() and the ordered-set percentile_cont).
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../analysis/answer-sub-question.js';
 import { rollupNeeds } from '../../analysis/rollup/eligibility.js';
-import type { Answer, PeriodPoint, SubQuestion } from '../../analysis/types.js';
-import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
+import type { SubQuestion } from '../../analysis/types.js';
+import type { Workspace } from '../../analysis/workspace.js';
 import { parseConfigText } from '../../config/load.js';
 import { flightsParquetConfigText, vegaDataFile } from '../helpers/open-data.js';
-import { describeWithPostgres, dropSchema, onPostgres, uniqueName, withClient } from '../helpers/postgres.js';
-import { loadSeattleWeather, loadSeattleWeatherTable, seattleWeatherConfig } from './stats/seattle-weather.js';
-
-function seriesPoints(a: Answer, metric: string): PeriodPoint[] {
-  const f = a.findings.find((x) => x.type === 'series' && x.metric === metric);
-  if (!f || f.type !== 'series') throw new Error(`no series of ${metric}`);
-  return f.points;
-}
+import { seriesPoints, useFileWorkspace } from '../helpers/workspace-checks.js';
+import { describeOnSeattleWeather, loadSeattleWeather } from './stats/seattle-weather.js';
 
 /** Continuous quantile of a sample: position p*(n-1) between order statistics. */
 function quantile(xs: number[], p: number): number {
@@ -32,12 +26,7 @@ function quantile(xs: number[], p: number): number {
 const WINDOW = { start: '2012-01-01', end: '2016-01-01' };
 const monthly = (p: number): SubQuestion => ({ id: 'q', kind: 'trend', lens: 'time_pattern', template: 'series', metrics: ['temp_max'], grain: 'month', window: WINDOW, filters: [], statistic: { quantile: p } });
 
-function seattleChecks(open: () => Promise<Workspace>): void {
-  let ws: Workspace;
-  beforeAll(async () => {
-    ws = await open();
-  });
-  afterAll(async () => ws?.source.close());
+function seattleChecks(ws: () => Workspace): void {
 
   it.each([0.5, 0.9])('monthly quantile %s of temp_max matches the CSV; it reads the table, not a rollup', async (p) => {
     const byMonth = new Map<string, number[]>();
@@ -46,8 +35,8 @@ function seattleChecks(open: () => Promise<Workspace>): void {
       byMonth.set(k, [...(byMonth.get(k) ?? []), d.tempMax]);
     }
     const sq = monthly(p);
-    expect(rollupNeeds(sq, ws.dataset)).toBeNull();
-    const a = await answerSubQuestion(sq, ws);
+    expect(rollupNeeds(sq, ws().dataset)).toBeNull();
+    const a = await answerSubQuestion(sq, ws());
     const points = seriesPoints(a, 'temp_max');
     expect(points.length).toBe(48);
     for (const pt of points) expect(pt.value).toBeCloseTo(quantile(byMonth.get(pt.period)!, p), 9);
@@ -57,18 +46,7 @@ function seattleChecks(open: () => Promise<Workspace>): void {
   });
 }
 
-describe('a quantile of an averaged metric on DuckDB (seattle-weather.csv)', () => {
-  seattleChecks(() => openWorkspace(seattleWeatherConfig()));
-});
-
-describeWithPostgres('a quantile of an averaged metric on PostgreSQL (table loaded from seattle-weather.csv)', (adminUrl) => {
-  const schema = uniqueName('tc_quant');
-  seattleChecks(async () => {
-    await withClient(adminUrl, (c) => loadSeattleWeatherTable(c, schema));
-    return openWorkspace(onPostgres(seattleWeatherConfig(), 'TC_QUANT_URL', schema), undefined, { TC_QUANT_URL: adminUrl });
-  });
-  afterAll(async () => dropSchema(adminUrl, schema));
-});
+describeOnSeattleWeather({ duckdb: 'a quantile of an averaged metric on DuckDB (seattle-weather.csv)', postgres: 'a quantile of an averaged metric on PostgreSQL (table loaded from seattle-weather.csv)' }, 'tc_quant', seattleChecks);
 
 const FLIGHTS = vegaDataFile('flights-3m.parquet');
 const flightsConfig = parseConfigText(
@@ -78,20 +56,15 @@ const flightsConfig = parseConfigText(
 );
 
 describe('median and 90th percentile delay on flights-3m.parquet (DuckDB)', () => {
-  let ws: Workspace;
-  const own = async (sql: string) => (await ws.source.run({ sql, params: [] }, { maxRows: 1000, timeoutMs: 120_000 })).rows;
-  beforeAll(async () => {
-    ws = await openWorkspace(flightsConfig, 'flights', {}, new Date('2026-12-05T12:00:00Z'));
-  }, 120_000);
-  afterAll(async () => ws?.source.close());
+  const { ws, own } = useFileWorkspace(flightsConfig, 'flights');
   const base: SubQuestion = { id: 'q', kind: 'trend', lens: 'time_pattern', template: 'series', metrics: ['delay'], grain: 'month', window: { start: '2001-01-01', end: '2001-07-01' }, filters: [] };
 
   it('monthly median and p90 match the file', async () => {
     const rows = await own(`SELECT strftime(date_trunc('month', date), '%Y-%m-%d') AS m, median(delay) AS med, percentile_cont(0.9) WITHIN GROUP (ORDER BY delay) AS p90, AVG(delay) AS mean
       FROM read_parquet('${FLIGHTS}') WHERE date < DATE '2001-07-01' GROUP BY 1 ORDER BY 1`);
     expect(rows.length).toBe(6);
-    const med = seriesPoints(await answerSubQuestion({ ...base, statistic: { quantile: 0.5 } }, ws), 'delay');
-    const p90 = seriesPoints(await answerSubQuestion({ ...base, statistic: { quantile: 0.9 } }, ws), 'delay');
+    const med = seriesPoints(await answerSubQuestion({ ...base, statistic: { quantile: 0.5 } }, ws()), 'delay');
+    const p90 = seriesPoints(await answerSubQuestion({ ...base, statistic: { quantile: 0.9 } }, ws()), 'delay');
     for (const r of rows) {
       expect(Number(r.med)).not.toBeCloseTo(Number(r.mean), 1);
       expect(med.find((p) => p.period === r.m)!.value).toBeCloseTo(Number(r.med), 9);
@@ -102,7 +75,7 @@ describe('median and 90th percentile delay on flights-3m.parquet (DuckDB)', () =
   it('median delay by origin: each named segment is its own median over the period', async () => {
     const rows = await own(`SELECT origin, median(delay) AS med FROM read_parquet('${FLIGHTS}') WHERE date < DATE '2001-07-01' GROUP BY 1 HAVING COUNT(*) >= 100`);
     const want = new Map(rows.map((r) => [String(r.origin), Number(r.med)]));
-    const a = await answerSubQuestion({ ...base, template: 'segment_shares', lens: 'distribution', dimension: 'origin', statistic: { quantile: 0.5 } }, ws);
+    const a = await answerSubQuestion({ ...base, template: 'segment_shares', lens: 'distribution', dimension: 'origin', statistic: { quantile: 0.5 } }, ws());
     const named = a.tables.segment_totals!.rows.filter((x) => x.other === false);
     expect(named.length).toBeGreaterThan(2);
     for (const seg of named) expect(Number(seg.value)).toBeCloseTo(want.get(String(seg.segment))!, 9);

@@ -1,7 +1,11 @@
 // Loads the public Seattle daily weather record shipped in the vega-datasets package (2012–2015).
 import { readFileSync } from 'node:fs';
+import { afterAll, describe } from 'vitest';
+import { openWorkspace, type Workspace } from '../../../analysis/workspace.js';
 import { parseConfigText, type LoadedConfig } from '../../../config/load.js';
 import { vegaDataFile } from '../../helpers/open-data.js';
+import { describeWithPostgres, dropSchema, onPostgres, uniqueName, withClient } from '../../helpers/postgres.js';
+import { useWorkspace } from '../../helpers/workspace-checks.js';
 
 export interface WeatherDay {
   date: string;
@@ -93,4 +97,27 @@ ${indented}
 `,
     '/virtual/weather.yaml',
   );
+}
+
+/**
+ * The same checks on DuckDB over the CSV (describe block `names.duckdb`) and on PostgreSQL over a
+ * table loaded from it (`names.postgres`, in a schema named from `schemaPrefix`, dropped after; a
+ * failure under CI=true without a server). Each block opens the workspace of `seattleWeatherConfig()`
+ * before its checks and closes it after; the checks read it through `ws()` inside a test.
+ */
+export function describeOnSeattleWeather(names: { duckdb: string; postgres: string }, schemaPrefix: string, checks: (ws: () => Workspace) => void): void {
+  describe(names.duckdb, () => {
+    checks(useWorkspace(() => openWorkspace(seattleWeatherConfig())));
+  });
+  describeWithPostgres(names.postgres, (adminUrl) => {
+    const schema = uniqueName(schemaPrefix);
+    const urlEnv = `${schemaPrefix.toUpperCase()}_URL`;
+    checks(
+      useWorkspace(async () => {
+        await withClient(adminUrl, (c) => loadSeattleWeatherTable(c, schema));
+        return openWorkspace(onPostgres(seattleWeatherConfig(), urlEnv, schema), undefined, { [urlEnv]: adminUrl });
+      }),
+    );
+    afterAll(async () => dropSchema(adminUrl, schema));
+  });
 }

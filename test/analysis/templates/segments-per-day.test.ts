@@ -6,15 +6,15 @@
 // flight, for one last seen more than a month before the end), the data's last full day. An airport
 // seen in one calendar month only (GST, from 10 June) shows no rhythm to judge an opening by (the
 // rule in analysis/presence.ts), so it is counted over the whole half-year; the test says so too.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../../analysis/answer-sub-question.js';
 import { metricByName } from '../../../analysis/catalog.js';
 import { segmentSharesWords } from '../../../analysis/captions/trend-segments-caption.js';
 import type { SegmentSharesFinding } from '../../../analysis/findings/segments.js';
 import type { SubQuestion } from '../../../analysis/types.js';
-import { openWorkspace, type Workspace } from '../../../analysis/workspace.js';
 import { parseConfigText } from '../../../config/load.js';
 import { flightsParquetConfigText, vegaDataFile } from '../../helpers/open-data.js';
+import { useFileWorkspace } from '../../helpers/workspace-checks.js';
 
 const FLIGHTS = vegaDataFile('flights-3m.parquet');
 const config = parseConfigText(`${flightsParquetConfigText()}    dimensions:\n      - { name: origin, label: Origin airport, column: origin }\n`, '/virtual/flights.yaml');
@@ -36,12 +36,7 @@ const SQ: SubQuestion = {
 };
 
 describe('a breakdown asked per day (flights-3m.parquet, January to June 2001)', () => {
-  let ws: Workspace;
-  const own = async (sql: string) => (await ws.source.run({ sql, params: [] }, { maxRows: 1000, timeoutMs: 120_000 })).rows;
-  beforeAll(async () => {
-    ws = await openWorkspace(config, 'flights', {}, new Date('2026-12-05T12:00:00Z'));
-  }, 120_000);
-  afterAll(async () => ws?.source.close());
+  const { ws, own } = useFileWorkspace(config, 'flights');
 
   it('ranks each origin by its flights per day over its own days, and flags those that opened or closed', async () => {
     const list = ORIGINS.map((o) => `'${o}'`).join(', ');
@@ -53,7 +48,7 @@ describe('a breakdown asked per day (flights-3m.parquet, January to June 2001)',
         CAST((CASE WHEN last < DATE '2001-06-01' THEN last + 1 ELSE DATE '2001-07-01' END) - (CASE WHEN first > DATE '2001-02-01' AND date_trunc('month', first) < date_trunc('month', last) THEN first ELSE DATE '2001-01-01' END) AS DOUBLE) AS days
       FROM life ORDER BY n / days DESC`);
     expect(truth.length).toBe(ORIGINS.length);
-    const a = await answerSubQuestion(SQ, ws);
+    const a = await answerSubQuestion(SQ, ws());
     const f = a.findings.find((x): x is SegmentSharesFinding => x.type === 'segment_shares')!;
     expect(f.perDay).toBeDefined();
     const named = f.rows.filter((r) => !r.other);
@@ -69,7 +64,7 @@ describe('a breakdown asked per day (flights-3m.parquet, January to June 2001)',
     // The same totals ranked by size would read otherwise.
     const byTotal = [...truth].sort((x, y) => Number(y.n) - Number(x.n)).map((t) => t.origin);
     expect(byTotal).not.toEqual(truth.map((t) => t.origin));
-    const words = segmentSharesWords(metricByName(ws.dataset, 'flights'), { label: 'Origin airport' }, a.findings, 'managers', 'en-GB');
+    const words = segmentSharesWords(metricByName(ws().dataset, 'flights'), { label: 'Origin airport' }, a.findings, 'managers', 'en-GB');
     expect(words.title).toMatch(/^ORD has the highest flights per day: [\d,.]+ a day$/);
     expect(words.caption).toContain('divided by the 181 days of the period the data covers (1 January 2001 to 30 June 2001)');
     expect(words.caption).toMatch(/LWB opened on 4 May 2001 \(its first record\), so its figure is per day since it opened \(58 days\)/);
