@@ -176,8 +176,10 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   const daySets = readDaySets(text);
   for (const m of daySets.mentions) text.claim(m.span);
   // "median delay", "p90": a statistic of the measure (statistic-words.ts).
-  const statistics = readStatistics(text);
+  const statistics = readStatistics(text, hits, ds);
   for (const m of statistics) text.claim(m.span);
+  // "on a typical day": the day is the statistic's, no count of days.
+  for (let i = hits.length - 1; i >= 0; i--) if (statistics.some((m) => hits[i]!.start >= m.span.start && hits[i]!.end <= m.span.end)) hits.splice(i, 1);
   const grain = readGrain(text) ?? extremeGrain(extremes);
   if (grain) {
     evidence.grain = { words: grain.words, how: grain.how };

@@ -1,0 +1,90 @@
+// Reading gaps found on the trial configs (issue 16), checked with wording the reader was not
+// written around. Data: vega-datasets' weather.csv (NOAA daily weather for Seattle and New York,
+// 2012–2015) and flights-3m.parquet (US flights, January–June 2001), each under the catalog of the
+// trial configs weather-fixed.yaml and flights-fixed.yaml. Briefs are read through `threadcount
+// read`'s own path (real DuckDB).
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { readBrief } from '../../cli/read.js';
+import { vegaDataFile } from '../helpers/open-data.js';
+
+const dir = mkdtempSync(join(tmpdir(), 'tc-material-gaps-'));
+export const WEATHER_CONFIG = join(dir, 'weather.yaml');
+export const FLIGHTS_CONFIG = join(dir, 'flights.yaml');
+writeFileSync(
+  WEATHER_CONFIG,
+  `version: 1
+datasets:
+  - name: weather
+    label: Weather
+    source: { kind: csv, paths: ["${vegaDataFile('weather.csv')}"] }
+    time_column: date
+    timezone: UTC
+    metrics:
+      - { name: days, label: Days recorded, count: rows, unit: count, kind: flow, also_called: [days] }
+      - { name: precipitation, label: Precipitation, sum: precipitation, unit: number, unit_label: mm, kind: flow, also_called: [rain, rainfall] }
+      - { name: temp_max, label: Daily high temperature, average: temp_max, unit: number, unit_label: °C, kind: level, also_called: [high temperature, max temperature, temperature] }
+      - { name: temp_min, label: Daily low temperature, average: temp_min, unit: number, unit_label: °C, kind: level, also_called: [low temperature, min temperature] }
+      - { name: wind, label: Wind speed, average: wind, unit: number, unit_label: m/s, kind: level, also_called: [wind] }
+    dimensions:
+      - { name: location, label: City, column: location, also_called: [city, location] }
+      - { name: weather, label: Weather type, column: weather, also_called: [weather type, conditions] }
+`,
+);
+writeFileSync(
+  FLIGHTS_CONFIG,
+  `version: 1
+datasets:
+  - name: flights
+    label: Flights
+    source: { kind: parquet, paths: ["${vegaDataFile('flights-3m.parquet')}"] }
+    time_column: date
+    timezone: UTC
+    metrics:
+      - { name: flights, label: Flights, count: rows, unit: count, kind: flow, also_called: [flights, departures] }
+      - { name: delay, label: Average delay, average: delay, unit: number, unit_label: min, higher_is_better: false, kind: ratio, also_called: [delay, lateness] }
+      - { name: distance, label: Distance flown, sum: distance, unit: number, unit_label: miles, kind: flow, also_called: [miles, distance] }
+    dimensions:
+      - { name: origin, label: Origin airport, column: origin, also_called: [origin, airport, departure airport] }
+      - { name: destination, label: Destination airport, column: destination, also_called: [destination, arrival airport] }
+`,
+);
+
+const NOW = new Date('2026-12-05T01:00:00Z');
+export const readWeather = (text: string) => readBrief({ configFile: WEATHER_CONFIG, text, now: NOW });
+export const readFlights = (text: string) => readBrief({ configFile: FLIGHTS_CONFIG, text, now: NOW });
+
+describe('"typical", "normal", "usual" before a measure ask for its median, said back', () => {
+  it.each([
+    ['what is the typical delay?', readFlights, 'delay'],
+    ["what's a normal delay out of ORD", readFlights, 'delay'],
+    ['the usual lateness in March', readFlights, 'delay'],
+    ['usual high temperature in Seattle', readWeather, 'temp_max'],
+    ['whats the typical wind speed in New York', readWeather, 'wind'],
+  ] as const)('%s', async (text, read, metric) => {
+    const b = await read(text);
+    expect(b.questions.map((q) => q.metrics)).toEqual([[metric]]);
+    // The median: quantile 0.5 (the robust centre; common practice for "typical").
+    expect(b.questions[0]!.statistic?.quantile).toBe(0.5);
+    expect(b.saidBack.join(' ')).toMatch(/read as the median/);
+    expect(b.unknownTerms).toEqual([]);
+  });
+
+  it("the typical day's rainfall is a total: no median, and said so (the day is no count of days)", async () => {
+    const b = await readWeather("what was the typical day's rainfall?");
+    expect(b.questions.map((q) => q.metrics)).toEqual([['precipitation']]);
+    expect(b.saidBack.join(' ')).toMatch(/total, so it has no median/);
+  });
+
+  it.each([
+    ['were delays worse than usual in June', readFlights],
+    ['is a 20 minute delay normal?', readFlights],
+    ['was 2014 a normal year for rain', readWeather],
+  ] as const)('no measure after the word, no statistic: %s', async (text, read) => {
+    const b = await read(text);
+    expect(b.questions.every((q) => !q.statistic)).toBe(true);
+    expect(b.saidBack.join(' ')).not.toMatch(/median/);
+  });
+});
