@@ -483,10 +483,30 @@ function valuesWithEvidence(h: CatalogHit, hits: readonly CatalogHit[], text: Re
   const setAgainst = (dim: string) =>
     hits.some((o) => o !== h && o.entries.some((x) => x.kind === 'value' && x.name === dim && !wantsEvidence(o, x)) && (o.end <= h.start ? o.end : h.end) < (o.end <= h.start ? h.start : o.start) && SET_AGAINST.test(o.end <= h.start ? text.lower.slice(o.end, h.start) : text.lower.slice(h.end, o.start)));
   // An entry kept on evidence is no longer a weak one: the words around it have said what it is.
-  let kept = h.entries.flatMap((e) => (!wantsEvidence(h, e) ? [e] : quoted || ownWordBeside(e.name) || setAgainst(e.name) ? [{ ...e, weak: false }] : []));
+  let kept = h.entries.flatMap((e) => (!wantsEvidence(h, e) ? [e] : quoted || ownWordBeside(e.name) || setAgainst(e.name) || measureBeside(h, hits, text) ? [{ ...e, weak: false }] : []));
   if (kept.some((e) => e.kind === 'value' && !e.partial)) kept = kept.filter((e) => !(e.kind === 'value' && e.partial));
   if (kept.length === 0) return [];
   return [{ ...h, entries: kept }];
+}
+
+// Nouns that make an everyday word before them a word of the office ("finance team", "sales review"), not the data's.
+const OFFICE_AFTER = /^(?:team|teams|meeting|meetings|review|reviews|deck|decks|report|reports|department|dept|function|people|folks|lead|leads|director|directors|head|heads|manager|managers|budget|update|sync|call|committee|function|org|group)$/;
+
+/**
+ * A measure named right beside the word, as what the word narrows: the word just before it
+ * ("finance unemployment") or after it with a word of place ("unemployment in finance",
+ * "jobless among construction"). Not when an office noun follows the word ("unemployment for the
+ * finance team"), where the word is the office's. Exported for the partial-value rule of the reader.
+ */
+export function measureBeside(h: Span, hits: readonly CatalogHit[], text: RequestText): boolean {
+  const nextWord = text.lower.slice(h.end).match(/^\s*([\p{L}'-]+)/u)?.[1];
+  if (nextWord && OFFICE_AFTER.test(nextWord)) return false;
+  return hits.some((o) => {
+    if (o === h || !o.entries.some((x) => x.kind === 'metric')) return false;
+    if (o.start >= h.end) return /^\s+$/.test(text.lower.slice(h.end, o.start));
+    if (o.end <= h.start) return /^\s+(?:in|for|among|within|across|at)\s+(?:the\s+)?$/.test(text.lower.slice(o.end, h.start));
+    return false;
+  });
 }
 
 /** A long word of the same family as a one-word name: "satisfied" and "satisfaction", "cancelled" and "cancellations". */

@@ -10,7 +10,7 @@ import type { ValueIndex } from '../../analysis/values/value-index.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { AmbiguousValue, Askable, Brief, BriefSlot, Evidence, Question } from '../brief.js';
 import { daysBetween, minIso, monthWindow, periodHolding, type PeriodUnit, shiftMonths, shiftPeriod, shiftWeeksYears, yearOf } from './calendar.js';
-import { type CatalogEntry, type CatalogHit, closestEntries, findCatalogHits, prepareCatalog, type PreparedCatalog } from './catalog-match.js';
+import { type CatalogEntry, type CatalogHit, closestEntries, findCatalogHits, measureBeside, prepareCatalog, type PreparedCatalog } from './catalog-match.js';
 import { splitClauses, type Clause } from './clauses.js';
 import { stem } from './catalog-match.js';
 import { findDeadlines } from './deadline.js';
@@ -1129,8 +1129,12 @@ function readValues(valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[], h
     // ("monthly", "annual") only beside its noun ("monthly plan").
     const capitalised = /^\p{Lu}/u.test(hit.words[0]!.raw);
     const grainWord = (e: CatalogEntry) => /^(?:daily|weekly|monthly|quarterly|yearly|annual|annually)$/.test((e.value ?? '').toLowerCase());
+    // Or in lower case beside the measure it narrows ("retail unemployment"), or joined to a whole
+    // value of its own breakdown ("construction and retail").
+    const joinedToOwnValue = (e: CatalogEntry) =>
+      hits.some((o) => o !== hit && o.entries.some((x) => x.kind === 'value' && x.name === e.name && !x.partial) && /^\s*(?:and|or|&|,|vs\.?|versus)\s*$/.test(o.end <= hit.start ? lower.slice(o.end, hit.start) : lower.slice(hit.end, o.start)));
     const usable = entries.filter((e) => {
-      if (e.partial && !capitalised) return ownNounBeside;
+      if (e.partial && !capitalised) return ownNounBeside || measureBeside(hit, hits, st.text) || joinedToOwnValue(e);
       if (grainWord(e)) return ownNounBeside || /\b(?:on|the|an?)\s+$/.test(before) && /^\s*(?:plans?|subscriptions?|tier|option)\b/.test(after);
       return !e.weak || cueBeside;
     });
