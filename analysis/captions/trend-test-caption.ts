@@ -114,6 +114,9 @@ function levelTrendWords(metric: Metric, grain: Grain, test: TrendTestFinding, a
       : '';
   const moving = test.direction === 'up' ? 'rising' : 'falling';
   const plural = isPluralLabel(metric.label);
+  // Under two years a level's move is not declared a trend either: a winter high and a summer low
+  // inside one year read as a steady fall (the same rule as for flows and rates above).
+  if (test.seasonUnresolved === true) return unresolvedLevelWords(metric, grain, test, audience, locale, span, size(rate), signed(rate), per);
   const title =
     test.direction === 'none'
       ? `${labelAtStart(metric.label)}: no clear trend from ${span}`
@@ -134,6 +137,22 @@ function levelTrendWords(metric: Metric, grain: Grain, test: TrendTestFinding, a
     return { title, caption: `${labelAtStart(metric.label)} ${verb} by about ${size(rate)} ${per}${decade} from ${span}${seasonal}; a trend this steady is unlikely to be chance.${byDecade}` };
   }
   return { title, caption: `${labelAtStart(metric.label)} ${plural ? 'are' : 'is'} ${moving}, by about ${size(rate)} ${per}${decade}; this is unlikely to be chance.${byDecade}` };
+}
+
+/**
+ * A level over less than two years of sub-yearly periods: what it did, in its units, and why that
+ * is not called a trend (no yearly season can be estimated, so none was taken out).
+ */
+function unresolvedLevelWords(metric: Metric, grain: Grain, test: TrendTestFinding, audience: Audience, locale: string, span: string, size: string, signedSize: string, per: string): Words {
+  const went = test.direction === 'up' ? 'rose' : test.direction === 'down' ? 'fell' : 'moved';
+  const title = `${labelAtStart(metric.label)} ${went} from ${span}: too short a span to tell a trend from the season`;
+  const seasonCaveat = `With less than two years of ${grainNoun(grain, 2)}, a rise or fall cannot be told apart from the usual seasonal pattern; over two years or more the season can be allowed for.`;
+  if (audience === 'analysts') {
+    const method = `Mann–Kendall, p ${formatP(test.pValue, locale)}, τ = ${formatIndex(test.tau, locale)}, n = ${test.n} ${grainNoun(grain, test.n)}, ${span}`;
+    return { title, caption: `${labelAtStart(metric.label)}: monotonic movement (${method}); Sen's slope ${signedSize} ${per}. Fewer than two years tested: no yearly season could be removed, so the test does not separate trend from season.` };
+  }
+  const by = audience === 'managers' && test.direction !== 'none' ? ` by about ${size} ${per}` : '';
+  return { title, caption: `${labelAtStart(metric.label)} ${went}${by} from ${span}. ${seasonCaveat}` };
 }
 
 /** The peak and how far the latest complete period sits from it. */
