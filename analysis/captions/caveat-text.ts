@@ -66,6 +66,8 @@ export function caveatNote(c: Caveat, locale: string): string {
     case 'small_sample':
       return typeof d.n === 'number' ? `Small sample (n = ${show(d.n, '')}): read with care.` : 'Small sample: read with care.';
     case 'too_few_cycles':
+      // Gaps, not length: some calendar month has no value to measure it by (analysis/templates/trend-seasonality.ts).
+      if (typeof d.uncoveredMonths === 'number' && d.uncoveredMonths > 0) return `${countOf(d.uncoveredMonths, 'calendar month')} ${d.uncoveredMonths === 1 ? 'has' : 'have'} no data to measure ${d.uncoveredMonths === 1 ? 'it' : 'them'} by: the seasonal pattern is not measured.`;
       return 'Fewer than two full years of data: too little to measure seasonality.';
     case 'observational':
       return 'This compares groups that were not randomly assigned, so it cannot prove cause.';

@@ -39,7 +39,26 @@ function monthWords(metric: Metric, additive: boolean, findings: readonly Findin
   const weekday = w && withWeekdays ? weekdaySentence(metric, w, additive, audience, locale) : '';
   if (!s) {
     const series = findings.find((f): f is Extract<Finding, { type: 'series' }> => f.type === 'series' && f.metric === metric.name);
-    const months = series ? series.points.filter((p) => !p.partial && p.value !== null).length : 0;
+    const complete = series ? series.points.filter((p) => !p.partial && p.value !== null && /^\d{4}-\d{2}/.test(p.period)) : [];
+    const months = complete.length;
+    // Two years of months and still no pattern: some calendar month has no value in any year (a
+    // league's summer break), so it cannot be set against the others. Said as such, never as too
+    // little history.
+    const valued = new Set(complete.map((p) => Number(p.period.slice(5, 7))));
+    const empty = months >= 24 ? [1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12].filter((m) => !valued.has(m)) : [];
+    if (empty.length > 0) {
+      const names = listJoin(empty.map((m) => monthName(m, locale)));
+      return {
+        title: `${labelAtStart(metric.label)}: no seasonal pattern measured, as ${names} ${empty.length === 1 ? 'has' : 'have'} no data in any year`,
+        caption: `Over ${months} complete months, ${names} ${empty.length === 1 ? 'has' : 'have'} no data in any year, so the months of the year cannot all be set against each other and no seasonal pattern is measured; months with no data are left blank, not counted as zero.${weekday ? ` ${weekday}` : ''}`,
+      };
+    }
+    if (months >= 24) {
+      return {
+        title: `${labelAtStart(metric.label)}: no seasonal pattern measured, as gaps in the data leave some months unmeasured`,
+        caption: `Seasonality needs each calendar month measured in at least two years; over these ${months} complete months, gaps (months with no data) leave some calendar month without that, so no seasonal pattern is measured.${weekday ? ` ${weekday}` : ''}`,
+      };
+    }
     return {
       title: `${labelAtStart(metric.label)}: too little history to measure seasonality`,
       caption: `Seasonality needs at least two full years of monthly data; this period has ${months} complete ${grainNoun('month', months)}.${weekday ? ` ${weekday}` : ''}`,
