@@ -53,12 +53,6 @@ function monthWords(metric: Metric, additive: boolean, findings: readonly Findin
         caption: `Over ${months} complete months, ${names} ${empty.length === 1 ? 'has' : 'have'} no data in any year, so the months of the year cannot all be set against each other and no seasonal pattern is measured; months with no data are left blank, not counted as zero.${weekday ? ` ${weekday}` : ''}`,
       };
     }
-    if (months >= 24) {
-      return {
-        title: `${labelAtStart(metric.label)}: no seasonal pattern measured, as gaps in the data leave some months unmeasured`,
-        caption: `Seasonality needs each calendar month measured in at least two years; over these ${months} complete months, gaps (months with no data) leave some calendar month without that, so no seasonal pattern is measured.${weekday ? ` ${weekday}` : ''}`,
-      };
-    }
     return {
       title: `${labelAtStart(metric.label)}: too little history to measure seasonality`,
       caption: `Seasonality needs at least two full years of monthly data; this period has ${months} complete ${grainNoun('month', months)}.${weekday ? ` ${weekday}` : ''}`,
