@@ -2,9 +2,9 @@
 // segments that moved it most, written only from the finding.
 import { isAdditive, metricDirection } from '../catalog.js';
 import { labelAtStart, listJoin, pluralNoun, verbFor } from './grammar.js';
-import { configuredAs } from './metric-words.js';
+import { configuredAs, perDayMetric } from './metric-words.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
-import type { ChangedSegment, GrowthDriverSegment, GrowthDriversFinding, GrowthRateRanking } from '../findings/growth.js';
+import type { ChangedSegment, GrowthDriverSegment, GrowthDriversFinding, GrowthRateRanking, PerDayTotals } from '../findings/growth.js';
 import { CLEAR_LEAD } from '../findings/segments.js';
 import { SMALL_BASE_SHARE } from '../templates/growth-rate-rank.js';
 import { formatChange, formatDayOfYear, formatGrowth, formatPeriod, formatValue } from '../format.js';
@@ -16,12 +16,14 @@ import { addDays, addMonths, daysBetween } from '../periods.js';
 import { capitalise, dimensionLabel, directionOf, formatPoints, lower, segmentText, spanText, unsignedPercent, valueText } from './growth-words.js';
 
 /** What a comparison of two spans states of its total: the spans and the total over each. */
-export type SpansTotals = Pick<GrowthDriversFinding, 'current' | 'prior' | 'total' | 'additive'>;
+export type SpansTotals = Pick<GrowthDriversFinding, 'current' | 'prior' | 'total' | 'additive' | 'perDay'>;
 
 /** Segments named in a caption, largest change first. */
 const NAMED_IN_CAPTION = 3;
 
-export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | undefined, dataset: DatasetConfig, locale: string, audience: Audience): GrowthWords {
+export function growthDriversWords(asked: Metric, f: GrowthDriversFinding | undefined, dataset: DatasetConfig, locale: string, audience: Audience): GrowthWords {
+  // Asked per day: every figure is a daily average, said as "Flights per day".
+  const metric = f?.perDay ? perDayMetric(asked) : asked;
   const label = labelAtStart(metric.label);
   if (!f) {
     return {
@@ -70,7 +72,7 @@ export function growthDriversWords(metric: Metric, f: GrowthDriversFinding | und
         : `${label} went from ${money(total.before)} to ${money(total.after)}`;
   const named = f.segments.filter((s) => s.change !== null).slice(0, NAMED_IN_CAPTION);
   const sentences = [`${totalMove}, ${spans}.`];
-  const perDay = perDaySentence(f, label, metric, locale);
+  const perDay = perDaySentence(f, label, asked, locale);
   if (perDay) sentences.push(perDay);
   if (lfl) sentences.push(likeForLikeSentence(lfl, label, (s) => segmentText(s.segment, f.dimension, dataset), money, locale));
   if (f.byRate) sentences.push(...rateSentences(f, f.byRate, name, ownText, (v) => money(v, true), locale, dim, label));
@@ -208,6 +210,7 @@ export function spansVerdict(metric: Metric, f: SpansTotals, locale: string): Ve
  * days is also said per day, from which each figure can be worked out. Null for spans of one length.
  */
 export function perDaySentence(f: SpansTotals, label: string, metric: Metric, locale: string): string | null {
+  if (f.perDay) return perDayTotalsSentence(f, f.perDay, metric, locale);
   const [dc, dp] = [daysBetween(f.current.start, f.current.end), daysBetween(f.prior.start, f.prior.end)];
   const { before, after } = f.total;
   // Only a total that adds up over days differs by the days: a level or a ratio is compared as it is.
@@ -219,6 +222,24 @@ export function perDaySentence(f: SpansTotals, label: string, metric: Metric, lo
   const fmt = quantityFormat(metric, 'per_day', locale);
   const rel = a / b - 1;
   return `${lengths}, so per day ${lower(label)} ${totalVerb(rel, locale)} (${formatValue(a, fmt, { rate: true })} against ${formatValue(b, fmt, { rate: true })} a day).`;
+}
+
+/**
+ * A comparison asked per day (its figures are daily averages): what each figure is, the days of
+ * each span, and the totals beside when they tell another story (June's 30 days against January's
+ * 31 can turn a rise per day into a fall in total). `metric` is the metric itself, not its per-day view.
+ */
+function perDayTotalsSentence(f: SpansTotals, perDay: PerDayTotals, metric: Metric, locale: string): string {
+  const { days, totals } = perDay;
+  const lengths = days.after === days.before
+    ? `both have ${days.after} days`
+    : `${spanText(f.current, locale)} has ${days.after} days and ${spanText(f.prior, locale)} ${days.before}`;
+  const what = `Each figure is the period's total divided by its days (the days the data covers): ${lengths}.`;
+  const [perDayRel, totalRel] = [f.total.relative, totals.relative];
+  if (perDayRel === null || totalRel === null || !Number.isFinite(perDayRel) || !Number.isFinite(totalRel)) return what;
+  if (directionOf(perDayRel) === directionOf(totalRel)) return what;
+  const money = (v: number | null) => valueText(v, metric, locale);
+  return `${what} In totals the story differs: ${lower(labelAtStart(metric.label))} ${totalVerb(totalRel, locale)} (${money(totals.before)} to ${money(totals.after)}), ${spanText(f.current, locale)} having ${Math.abs(days.after - days.before)} ${Math.abs(days.after - days.before) === 1 ? 'day' : 'days'} ${days.after < days.before ? 'fewer' : 'more'}.`;
 }
 
 /** The segment with the largest own change (rate, or points for a rate), ties by the finding's order. */

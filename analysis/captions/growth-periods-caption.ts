@@ -8,8 +8,11 @@ import { labelAtStart } from './grammar.js';
 import { perDaySentence, totalVerb } from './growth-drivers-caption.js';
 import type { GrowthWords } from './growth-series-caption.js';
 import { lower, spanText, valueText } from './growth-words.js';
+import { perDayMetric } from './metric-words.js';
 
-export function growthPeriodsWords(metric: Metric, f: GrowthPeriodsFinding | undefined, locale: string): GrowthWords {
+export function growthPeriodsWords(asked: Metric, f: GrowthPeriodsFinding | undefined, locale: string): GrowthWords {
+  // Asked per day: the figures are daily averages, said as "Flights per day".
+  const metric = f?.perDay ? perDayMetric(asked) : asked;
   const label = labelAtStart(metric.label);
   if (!f) return { title: `${label}: no data in either period`, caption: `There is no ${lower(label)} in either period to compare.` };
   const money = (v: number | null, signed = false) => valueText(v, metric, locale, signed);
@@ -28,8 +31,8 @@ export function growthPeriodsWords(metric: Metric, f: GrowthPeriodsFinding | und
         : relative !== null && Number.isFinite(relative)
           ? `${label} ${totalVerb(relative, locale)} from ${then} to ${now}: ${money(before)} to ${money(after)} (${money(change, true)}${totalVerb(relative, locale) === 'held flat' ? `, ${formatChange(relative, locale)}` : ''}).`
           : `${label} went from ${money(before)} in ${then} to ${money(after)} in ${now}, a change of ${money(change, true)}.`;
-  const sentences = [move, figureIs(metric)];
-  const perDay = perDaySentence(f, label, metric, locale);
+  const sentences = f.perDay ? [move] : [move, figureIs(metric)];
+  const perDay = perDaySentence(f, label, asked, locale);
   if (perDay) sentences.push(perDay);
   return { title, caption: sentences.join(' ') };
 }

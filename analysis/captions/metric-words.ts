@@ -6,6 +6,14 @@ import type { DatasetConfig, Metric, MetricDefinition } from '../../config/schem
 import type { Audience } from '../types.js';
 import { inSentence } from './grammar.js';
 
+/**
+ * A metric asked per day, as its answer's words state it: "Flights per day", read like a ratio (a
+ * daily average is not a total of its period, so no "a month" follows it).
+ */
+export function perDayMetric(metric: Metric): Metric {
+  return { ...metric, label: `${metric.label} per day`, kind: 'ratio' };
+}
+
 /** The catalog definition as a formula in words: "sum of fare_total", "revenue divided by passengers". */
 export function metricFormula(metric: Metric, ds: DatasetConfig): string {
   return formulaOf(metric.definition, ds, (column) => column);

@@ -153,6 +153,11 @@ export interface GrowthDriversFinding {
   byRate?: GrowthRateRanking;
   /** Every segment's rises and falls added up, when a sum or count moved both ways (templates/growth-drivers.ts offsetOf). */
   offset?: { rises: number; falls: number };
+  /**
+   * Asked per day of a total that adds up over days ("flights per day"): `total` (and every other
+   * figure) is each span's total divided by its days, and here are the days and the plain totals.
+   */
+  perDay?: PerDayTotals;
 }
 
 /**
@@ -167,6 +172,17 @@ export interface GrowthPeriodsFinding {
   prior: GrowthSpan;
   additive: boolean;
   total: { before: number | null; after: number | null; change: number | null; relative: number | null };
+  /**
+   * Asked per day of a total that adds up over days ("flights per day"): `total` (and every other
+   * figure) is each span's total divided by its days, and here are the days and the plain totals.
+   */
+  perDay?: PerDayTotals;
+}
+
+/** A per-day comparison's days of each span (cut to the data) and the totals it divided. */
+export interface PerDayTotals {
+  days: { before: number; after: number };
+  totals: { before: number | null; after: number | null; change: number | null; relative: number | null };
 }
 
 export interface GrowthRateSummaryFinding {

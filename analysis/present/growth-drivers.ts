@@ -9,7 +9,7 @@ import type { GrowthDriverSegment, GrowthDriversFinding } from '../findings/grow
 import { valueFormatOf } from '../format.js';
 import type { Answer, Finding } from '../types.js';
 import { twoSpanSubtitle } from './growth-header.js';
-import { chartFooter } from './header.js';
+import { chartFooter, statedMetric } from './header.js';
 import { withVerdict, type PresentContext, type Presenter } from './presenter.js';
 
 const OTHERS_LABEL = 'All others';
@@ -26,7 +26,7 @@ export const presentGrowthDrivers: Presenter = (answer, ctx) => {
     chart,
     // A comparison the request named is answered here, on the spans it named (the year-so-far
     // verdict of growth_series answers only a request that named none).
-    takeaway: chart ? withVerdict({ importance: 55, text: `${words.title}.` }, f && answer.subQuestion.compareWindow ? spansVerdict(metric, f, ctx.locale) : null) : null,
+    takeaway: chart ? withVerdict({ importance: 55, text: `${words.title}.` }, f && answer.subQuestion.compareWindow ? spansVerdict(statedMetric(answer, metric), f, ctx.locale) : null) : null,
   };
 };
 
@@ -41,8 +41,8 @@ function driversChart(answer: Answer, f: GrowthDriversFinding, title: string, ct
   if (items.length === 0 && !folded) return null;
   return buildBars({
     title,
-    chip: metric.label,
-    subtitle: twoSpanSubtitle(answer, metric, f.current, f.prior, ctx),
+    chip: statedMetric(answer, metric).label,
+    subtitle: twoSpanSubtitle(answer, metric, f.current, f.prior, ctx, f.perDay !== undefined),
     footer: chartFooter(answer, ctx),
     ...ctx.chart,
     items,
@@ -75,8 +75,8 @@ function ratesChart(answer: Answer, f: GrowthDriversFinding, title: string, ctx:
   if (items.length === 0) return null;
   return buildBars({
     title,
-    chip: `${metric.label}: growth rate`,
-    subtitle: twoSpanSubtitle(answer, metric, f.current, f.prior, ctx),
+    chip: `${statedMetric(answer, metric).label}: growth rate`,
+    subtitle: twoSpanSubtitle(answer, metric, f.current, f.prior, ctx, f.perDay !== undefined),
     footer: chartFooter(answer, ctx),
     ...ctx.chart,
     items,

@@ -9,7 +9,7 @@ import type { GrowthPeriodsFinding } from '../findings/growth.js';
 import { valueFormatOf } from '../format.js';
 import type { Answer, Finding } from '../types.js';
 import { twoSpanSubtitle } from './growth-header.js';
-import { chartFooter } from './header.js';
+import { chartFooter, statedMetric } from './header.js';
 import { withVerdict, type PresentContext, type Presenter } from './presenter.js';
 
 export const presentGrowthPeriods: Presenter = (answer, ctx) => {
@@ -27,7 +27,7 @@ export const presentGrowthPeriods: Presenter = (answer, ctx) => {
     notes: growthNotes(f && (f.total.before === null) ? { ...answer, caveats: answer.caveats.filter((c) => !(c.code === 'no_data' && c.data.window === 'prior')) } : answer, ctx.locale, ctx.dataset),
     chart,
     // The comparison the request named: its verdict is this answer's.
-    takeaway: f ? withVerdict({ importance: 65, text: `${words.title}.` }, spansVerdict(metric, f, ctx.locale)) : null,
+    takeaway: f ? withVerdict({ importance: 65, text: `${words.title}.` }, spansVerdict(statedMetric(answer, metric), f, ctx.locale)) : null,
   };
 };
 
@@ -41,8 +41,8 @@ function periodsChart(answer: Answer, f: GrowthPeriodsFinding, title: string, ct
   if (items.length === 0) return null;
   return buildBars({
     title,
-    chip: metric.label,
-    subtitle: twoSpanSubtitle(answer, metric, f.current, f.prior, ctx),
+    chip: statedMetric(answer, metric).label,
+    subtitle: twoSpanSubtitle(answer, metric, f.current, f.prior, ctx, f.perDay !== undefined),
     footer: chartFooter(answer, ctx),
     ...ctx.chart,
     items,

@@ -7,7 +7,7 @@ import type { Metric, MetricKind } from '../../config/schema.js';
 import { labelAtStart } from '../captions/grammar.js';
 import { quantityKind } from '../catalog.js';
 import { caveatFlag, caveatNote } from '../captions/caveat-text.js';
-import { metricMeaning } from '../captions/metric-words.js';
+import { metricMeaning, perDayMetric } from '../captions/metric-words.js';
 import { dataEnd } from '../coverage.js';
 import { dataDateWords, shortWindow } from '../window-words.js';
 import { buildLine } from '../charts/build-line.js';
@@ -75,8 +75,8 @@ export function chartHeader(answer: Answer, metric: Metric, title: string, ctx: 
  * day", a daily average read like a ratio (no "a month" after it: it is not a total of the month).
  */
 export function statedMetric(answer: Answer, metric: Metric): Metric {
-  const perDay = answer.findings.some((f) => f.type === 'series' && f.metric === metric.name && f.perDay === true);
-  return perDay ? { ...metric, label: `${metric.label} per day`, kind: 'ratio' } : metric;
+  const perDay = answer.findings.some((f) => (f.type === 'series' || f.type === 'growth_periods' || f.type === 'growth_drivers') && f.metric === metric.name && f.perDay !== undefined);
+  return perDay ? perDayMetric(metric) : metric;
 }
 
 /** The answer's series of `metric` as a line chart (high and low marked), or null with no values. */

@@ -9,10 +9,11 @@ import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, 
 import type { Coverage } from '../coverage.js';
 import { dataEnd, lastCoveredDay } from '../coverage.js';
 import type { ChangedSegment, GrowthSpan } from '../findings/growth.js';
-import { addDays, addMonths, periodStart } from '../periods.js';
+import { addDays, addMonths, daysBetween, periodStart } from '../periods.js';
 import { lifeColumnsSql, presenceToleranceDays, silentBeyondChanceSql } from '../presence.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, DateWindow, ResultTable, SubQuestion } from '../types.js';
+import { perDayAsked } from './segments-fold-sql.js';
 import { complementaryFoldCtes, minGroupSize } from './small-groups.js';
 import { spanEnds } from './span-ends.js';
 import { coveredWindow } from './trend-points.js';
@@ -337,6 +338,19 @@ export interface WindowComparison {
   complementSegments: number;
   /** Segments not there through both spans, left out of the like-for-like totals; empty when every segment was. */
   changed: ChangedSegment[];
+}
+
+/**
+ * The days of each compared span (cut to the data), when the request asked per day of a total that
+ * adds up over days (perDayAsked: "flights per day", "daily average of orders"): the comparison is
+ * then of daily averages, so a 31-day January meets a 30-day June, or a month the data covers in
+ * part, on equal terms. Null otherwise, and for a span with no days.
+ */
+export function perDaySpanDays(sq: SubQuestion, dataset: DatasetConfig, metric: string, cmp: Pick<WindowComparison, 'currentSpan' | 'priorSpan'>): { before: number; after: number } | null {
+  if (!perDayAsked({ ...sq, metrics: [metric] }, dataset)) return null;
+  const before = daysBetween(cmp.priorSpan.start, cmp.priorSpan.end);
+  const after = daysBetween(cmp.currentSpan.start, cmp.currentSpan.end);
+  return before > 0 && after > 0 ? { before, after } : null;
 }
 
 /**

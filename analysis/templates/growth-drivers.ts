@@ -10,6 +10,7 @@ import {
   compileWindowComparison,
   foldedMembers,
   readWindowComparison,
+  perDaySpanDays,
   segmentKeys,
   segmentPresenceCaveats,
   type WindowComparison,
@@ -51,8 +52,13 @@ function driversOf(
   caveats: Caveat[],
   dataset: DatasetConfig,
 ): GrowthDriversFinding | null {
-  const totalBefore = cmp.prior.total?.values[metric] ?? null;
-  const totalAfter = cmp.current.total?.values[metric] ?? null;
+  // Asked per day: every figure of a span is divided by its days (the sums still add up, per day).
+  const days = perDaySpanDays(sq, dataset, metric, cmp);
+  const perDayOf = (v: number | null | undefined, d: number | undefined) => (v === null || v === undefined || d === undefined ? v : v / d);
+  const rawBefore = cmp.prior.total?.values[metric] ?? null;
+  const rawAfter = cmp.current.total?.values[metric] ?? null;
+  const totalBefore = perDayOf(rawBefore, days?.before) ?? null;
+  const totalAfter = perDayOf(rawAfter, days?.after) ?? null;
   if (totalBefore === null && totalAfter === null) {
     caveats.push({ code: 'all_null', data: { metric } });
     return null;
@@ -60,13 +66,13 @@ function driversOf(
   // A sum over no rows is zero, not unknown, once the side has data at all; for other metrics it stays unknown.
   const priorHasRows = (cmp.prior.total?.rows ?? 0) > 0;
   const currentHasRows = (cmp.current.total?.rows ?? 0) > 0;
-  const sideValue = (present: number | null | undefined, hasRows: boolean) =>
-    present !== undefined ? present : additive && hasRows ? 0 : null;
+  const sideValue = (present: number | null | undefined, hasRows: boolean, d?: number) =>
+    present !== undefined ? perDayOf(present, d) ?? null : additive && hasRows ? 0 : null;
   const totalChange = totalBefore !== null && totalAfter !== null ? totalAfter - totalBefore : null;
   const pairs = segmentKeys(cmp).map((segment) => ({
     segment,
-    before: sideValue(cmp.prior.segments.get(segment)?.values[metric], priorHasRows),
-    after: sideValue(cmp.current.segments.get(segment)?.values[metric], currentHasRows),
+    before: sideValue(cmp.prior.segments.get(segment)?.values[metric], priorHasRows, days?.before),
+    after: sideValue(cmp.current.segments.get(segment)?.values[metric], currentHasRows, days?.after),
   }));
   const compared = [totalBefore, totalAfter, ...pairs.flatMap((p) => [p.before, p.after])];
   const relative = relativeRule(metricByName(dataset, metric), additive, compared);
@@ -85,7 +91,7 @@ function driversOf(
   // "Which channel is growing fastest": ranked by rate, so a small fast segment is named, not folded.
   // Segments not there through both spans have no like-for-like rate and are not ranked.
   const notThroughout = new Set(cmp.changed.map((c) => c.segment));
-  const byRate = sq.growthRank ? rankByGrowthRate(all.filter((s) => !notThroughout.has(s.segment)), sq.growthRank, additive && metricByName(dataset, metric).unit === 'count', metricByName(dataset, metric).unit === 'percent') : undefined;
+  const byRate = sq.growthRank ? rankByGrowthRate(all.filter((s) => !notThroughout.has(s.segment)), sq.growthRank, additive && !days && metricByName(dataset, metric).unit === 'count', metricByName(dataset, metric).unit === 'percent') : undefined;
   if (byRate) {
     const place = new Map(byRate.segments.map((seg, i) => [seg, i]));
     all.sort((a, b) => (place.get(a.segment) ?? Infinity) - (place.get(b.segment) ?? Infinity));
@@ -95,7 +101,7 @@ function driversOf(
   // Segments below the minimum group size arrive already combined (one row per side).
   const small = foldedMembers(cmp);
   const smallRow = small > 0
-    ? { before: sideValue(cmp.prior.folded?.values[metric], priorHasRows), after: sideValue(cmp.current.folded?.values[metric], currentHasRows) }
+    ? { before: sideValue(cmp.prior.folded?.values[metric], priorHasRows, days?.before), after: sideValue(cmp.current.folded?.values[metric], currentHasRows, days?.after) }
     : null;
   let others: GrowthDriversFinding['others'] = null;
   if (tail.length > 0 || smallRow) {
@@ -131,9 +137,10 @@ function driversOf(
     total: { before: totalBefore, after: totalAfter, change: totalChange, relative: totalRelative },
     segments,
     others,
-    likeForLike: likeForLikeOf(cmp, metric, additive, relative),
+    likeForLike: likeForLikeOf(cmp, metric, additive, relative, days),
     ...(byRate ? { byRate } : {}),
     ...offsetOf(all, additive, small),
+    ...(days ? { perDay: { days, totals: { before: rawBefore, after: rawAfter, change: rawBefore !== null && rawAfter !== null ? rawAfter - rawBefore : null, relative: relative(rawBefore, rawAfter) } } } : {}),
   };
 }
 
@@ -156,12 +163,12 @@ function baseShareOf(s: GrowthDriverSegment, additive: boolean, totalBefore: num
 }
 
 /** The like-for-like total, when some segment was not there through both spans and both spans have data. */
-function likeForLikeOf(cmp: WindowComparison, metric: string, additive: boolean, relativeOf: RelativeRule): GrowthDriversFinding['likeForLike'] {
+function likeForLikeOf(cmp: WindowComparison, metric: string, additive: boolean, relativeOf: RelativeRule, days: { before: number; after: number } | null): GrowthDriversFinding['likeForLike'] {
   if (cmp.changed.length === 0 || !cmp.prior.total?.rows || !cmp.current.total?.rows) return null;
   // No segment through both spans: a sum over none is zero, a ratio over none unknown.
-  const side = (s: WindowSide) => (s.likeForLike ? s.likeForLike.values[metric] ?? null : additive ? 0 : null);
-  const before = side(cmp.prior);
-  const after = side(cmp.current);
+  const side = (s: WindowSide) => (s.likeForLike ? (s.likeForLike.values[metric] ?? null) : additive ? 0 : null) ?? null;
+  const before = days ? divide(side(cmp.prior), days.before) : side(cmp.prior);
+  const after = days ? divide(side(cmp.current), days.after) : side(cmp.current);
   return {
     before,
     after,
@@ -212,6 +219,10 @@ function byWeightedChange(a: GrowthDriverSegment, b: GrowthDriverSegment, weight
   const ka = a.segment ?? '\uffff';
   const kb = b.segment ?? '\uffff';
   return ka < kb ? -1 : ka > kb ? 1 : 0;
+}
+
+function divide(v: number | null, d: number): number | null {
+  return v === null ? null : v / d;
 }
 
 function finite(v: number): number | null {

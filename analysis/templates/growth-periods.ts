@@ -7,7 +7,7 @@ import type { GrowthPeriodsFinding } from '../findings/growth.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import { percentChange } from '../stats/index.js';
 import type { CompiledQuery, Finding, SubQuestion } from '../types.js';
-import { comparedSpans, readWindowComparison, sidesSql } from './growth-compare.js';
+import { comparedSpans, perDaySpanDays, readWindowComparison, sidesSql } from './growth-compare.js';
 import type { Reading, Template } from './template.js';
 
 const WINDOW = '__tc_window';
@@ -46,20 +46,25 @@ export const growthPeriodsTemplate: Template = {
       const additive = isAdditive(metricByName(ctx.dataset, metric));
       // A sum over no rows is zero once the side is in the data at all; anything else stays unknown.
       const side = (s: typeof cmp.current) => s.total?.values[metric] ?? (additive && s.total ? 0 : null);
+      const totalOf = (before: number | null, after: number | null): GrowthPeriodsFinding['total'] => ({
+        before,
+        after,
+        change: before !== null && after !== null ? after - before : null,
+        // No percentage of a signed quantity (jobs added, below zero in a downturn) or off a tiny base.
+        relative: percentChange(before, after, metricPercentScale(metricByName(ctx.dataset, metric), [before, after], additive)),
+      });
       const [before, after] = [side(cmp.prior), side(cmp.current)];
+      const totals = totalOf(before, after);
+      // Asked per day: each span's daily average, the totals kept beside.
+      const days = perDaySpanDays(sq, ctx.dataset, metric, cmp);
       const f: GrowthPeriodsFinding = {
         type: 'growth_periods',
         metric,
         current: cmp.currentSpan,
         prior: cmp.priorSpan,
         additive,
-        total: {
-          before,
-          after,
-          change: before !== null && after !== null ? after - before : null,
-          // No percentage of a signed quantity (jobs added, below zero in a downturn) or off a tiny base.
-          relative: percentChange(before, after, metricPercentScale(metricByName(ctx.dataset, metric), [before, after], additive)),
-        },
+        total: days ? totalOf(before === null ? null : before / days.before, after === null ? null : after / days.after) : totals,
+        ...(days ? { perDay: { days, totals } } : {}),
       };
       findings.push(f);
     }

@@ -84,6 +84,8 @@ export interface PeriodMention extends Span {
   previousOf?: PeriodUnit;
   /** Set against the window by a comparison word ("vs", "compared with"), not only a shift ("on the year before"). */
   strong?: boolean;
+  /** One end of a change said over a range ("grow from January to June"): a period of the data, never an event's date. */
+  changeEnd?: true;
   /** A day no calendar has ("30 February 2008"): the window is its month, and the reader says so. */
   notReal?: boolean;
   /** The first day of the period named, before "since", "after" or "before" made a stretch of it: the date an event on it turns on. */
@@ -462,6 +464,13 @@ const STRONG_COMPARED_BEFORE = /(?:\bvs\.?|\bv\.?|\bversus|\bagainst|\bcompared\
 /** A word of comparison a few words before "between" ("compared between", "how does Finance compare between"). */
 const COMPARED_BETWEEN = /\b(?:compar(?:e|ed|es|ing)|differ(?:s|ed|ing)?|difference|contrast(?:s|ed|ing)?)\s+(?:[\p{L}\p{N}'’-]+\s+){0,6}between\s+(?:the\s+)?$/u;
 
+/**
+ * A change said over a range ("did flights grow from January to June", "the rise from Q1 to Q3"):
+ * the two ends are set against each other, as "compared between" sets two periods, not read as one
+ * stretch whose growth would be taken against a year earlier.
+ */
+const CHANGED_FROM = /\b(?:grow(?:s|n|ing|th)?|grew|ris(?:e|es|en|ing)|rose|increas(?:e|es|ed|ing)|decreas(?:e|es|ed|ing)|fall(?:s|en|ing)?|fell|drop(?:s|ped|ping)?|declin(?:e|es|ed|ing)|climb(?:s|ed|ing)?|jump(?:s|ed)?|chang(?:e|es|ed|ing)|(?:go(?:es)?|gone|went|going)\s+(?:up|down))\s+(?:[\p{L}\p{N}'’-]+\s+){0,5}from\s+$/u;
+
 /** Every period mention in the text, ranges and "since" folded in, each marked when it is compared against. */
 export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMention[] {
   const relative = findRelative(text, ctx);
@@ -479,6 +488,7 @@ export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMentio
   // "how X compared between 2008 and 2009": two periods set against each other, not one stretch.
   const comparedEarlier = new Set<Point>();
   const setAgainst = new Set<PeriodMention>();
+  const changeEnds = new Set<Point>();
   for (let i = 0; i + 1 < points.length; i++) {
     const a = points[i]!;
     const b = points[i + 1]!;
@@ -495,6 +505,17 @@ export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMentio
       continue;
     }
     const from = /\bfrom\s+$/.test(before);
+    // "grow from January to June": two whole months (or quarters) set against each other, the
+    // earlier the base; a stretch of years ("fall from 2007 to 2010") stays the period a change is asked over.
+    if (from && a.unit === b.unit && /^(?:month|quarter)$/.test(a.unit) && /^\s*(?:-|to|until|till|through|thru)\s*$/.test(gap) && CHANGED_FROM.test(text.lower.slice(Math.max(0, a.start - 60), a.start))) {
+      const [wa, wb] = rangeEnds(a, b, ctx);
+      if (a.year === undefined) a.year = Number(wa.start.slice(0, 4));
+      if (b.year === undefined) b.year = Number(wb.start.slice(0, 4));
+      comparedEarlier.add(wa.start <= wb.start ? a : b);
+      changeEnds.add(a).add(b);
+      i++;
+      continue;
+    }
     if (!(/^\s*(?:-|to|until|till|through|thru)\s*$/.test(gap) || (between && /^\s*and\s*$/.test(gap)) || (from && /^\s*(?:-|to|until|till|through|thru)\s*$/.test(gap)))) continue;
     const [wa, wb] = rangeEnds(a, b, ctx);
     const start = (from || between) ? before.search(/\b(?:from|between)\s+$/) + Math.max(0, a.start - 12) : a.start;
@@ -515,7 +536,7 @@ export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMentio
   };
   for (const p of points) {
     if (used.has(p)) continue;
-    const mention: PeriodMention = { start: p.start, end: p.end, window: windowOf(p), unit: p.unit, relative: p.qualified === true, compared: comparedEarlier.has(p), ...(p.notReal ? { notReal: true } : {}), words: text.quote(p) };
+    const mention: PeriodMention = { start: p.start, end: p.end, window: windowOf(p), unit: p.unit, relative: p.qualified === true, compared: comparedEarlier.has(p), ...(p.notReal ? { notReal: true } : {}), ...(changeEnds.has(p) ? { changeEnd: true as const } : {}), words: text.quote(p) };
     if (comparedEarlier.has(p)) setAgainst.add(mention);
     mentions.push(mention);
   }

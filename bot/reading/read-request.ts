@@ -704,6 +704,9 @@ function toQuestion(r: ClauseReading, st: ReadState, previous: Question | undefi
   if (r.ranking && q.dimensions.length > 0 && (kind === 'trend' || kind === 'kpi')) q.ranking = true;
   if (r.rateUnit) q.rateUnit = r.rateUnit;
   if (r.perDay) q.perDay = true;
+  // "did daily flights rise from January to June": set against each other, periods of a month or
+  // more are daily figures only as each one's daily average (the days of each differ).
+  if (!r.perDay && kind === 'growth' && q.window && q.compareWindow && DAILY_MEASURE.test(r.clause.text.toLowerCase()) && daysBetween(q.compareWindow.start, q.compareWindow.end) > 7) q.perDay = true;
   if (r.perRow) q.perRow = r.perRow;
   if (r.table) q.table = true;
   // A launch the text refers to ("since it launched") is the group's catalog launch date.
@@ -1284,7 +1287,7 @@ const EVENT_AFTER = /^\s*(?:[\p{L}-]+\s+){0,2}?(?:launch|go-live|rollout|roll-ou
 
 function statedLaunch(periods: PeriodMention[], text: RequestText): { date: string; words: string; mention: PeriodMention } | undefined {
   for (const p of periods) {
-    if (!p.window) continue;
+    if (!p.window || p.changeEnd) continue;
     const before = text.lower.slice(Math.max(0, p.start - 60), p.start);
     const after = text.lower.slice(p.end, p.end + 30);
     // An event dated by its year or a period alone: "since the 2019 launch", "how did the 2024 price
@@ -1381,6 +1384,9 @@ function refersToLaunch(text: string): boolean {
 const PER_DAY_POINTS_DAYS = 35;
 
 /** An average daily figure asked for ("orders per day", "revenue a day", "average daily takings"), not daily points. */
+/** "daily flights", "flights daily": a measure said by the day, which over longer periods is their daily average. */
+const DAILY_MEASURE = /\bdaily\s+(?!basis\b|grain\b|breakdown\b|chart\b|series\b|view\b|points?\b|figures?\s+for\b)[\p{L}]+|\b[\p{L}]+\s+daily\b/u;
+
 const PER_DAY = /\b(?:per|a)\s+day\b(?![- ]of\b)|\bper-day\b|\bdaily\s+(?:average|rate|mean)\b|\baverage\s+daily\b/;
 
 /** Months of the year named as the things compared ("which months", "time of year"). */
