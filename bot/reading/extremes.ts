@@ -37,6 +37,15 @@ function isSuperlative(word: string): boolean {
   return /(?:est)$/.test(word) && QUALITY_MEASURES.some((q) => q.cue.test(word));
 }
 
+/** A superlative of a quality or a plain one ("windiest", "busiest") in the words, with its span: what a weekday question ranks by. */
+export function superlativeIn(text: RequestText, within: Span): Span | undefined {
+  for (const m of text.matches(/(?<![\p{L}])\p{L}+(?![\p{L}])/gu)) {
+    if (m.span.start < within.start || m.span.end > within.end) continue;
+    if (isSuperlative(m[0])) return m.span;
+  }
+  return undefined;
+}
+
 export function findPeriodExtremes(text: RequestText): PeriodExtreme[] {
   const out: PeriodExtreme[] = [];
   const free = (s: Span) => !text.isClaimed(s);

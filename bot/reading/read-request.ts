@@ -47,7 +47,7 @@ import { DAY_OF_WEEK, dayFilter, dayScopeWords, isDayFilter } from '../../analys
 import { findUnknownTerms } from './unknown-words.js';
 import { mendCalendarWords } from './spelling.js';
 import { COUNTING, rankMetrics } from './metric-ranking.js';
-import { extremeOrder, findPeriodExtremes, type PeriodExtreme, wholeHistorySpans } from './extremes.js';
+import { extremeOrder, findPeriodExtremes, type PeriodExtreme, superlativeIn, wholeHistorySpans } from './extremes.js';
 import { groupMadeOf, isMemberValue, memberValues, metricKind } from '../../analysis/catalog.js';
 import { listJoin } from '../../analysis/captions/grammar.js';
 import { AUDIENCES, GRAINS } from '../../analysis/types.js';
@@ -167,6 +167,9 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   const extremes = findPeriodExtremes(text);
   for (const e of extremes) for (const s of e.spans) text.claim(s);
   for (const s of wholeHistorySpans(text)) text.claim(s);
+  // "the busiest day of the week", "which days of the week": a breakdown by day of the week (the
+  // plan's weekday pattern, WEEKDAY_ASK), never a count of days.
+  for (const m of text.matches(/(?<![\p{L}])days?[- ]of[- ](?:the[- ])?week(?![\p{L}])/gu)) text.claim(m.span);
   const hits = findCatalogHits(text, catalog);
   for (const h of hits) text.claim(h);
   const roleHits = findRoleWords(text, ds);
@@ -845,6 +848,16 @@ function readClause(clause: Clause, st: ReadState, ambiguous: AmbiguousValue[]):
     if (best?.fits) {
       metrics.push(best.name);
       st.inferredMetrics.push({ metric: best.name, words: extreme.superlative });
+    }
+  }
+  // "which day of the week is windiest": the days of the week ranked by the measure the quality word points to.
+  if (metrics.length === 0 && !extreme && WEEKDAY_ASK.test(clause.text.toLowerCase())) {
+    const sup = superlativeIn(st.text, clause);
+    const best = sup ? rankMetrics(st.ds, clause.text)[0] : undefined;
+    if (sup && best?.fits) {
+      metrics.push(best.name);
+      st.text.claim(sup);
+      st.inferredMetrics.push({ metric: best.name, words: st.text.quote(sup) });
     }
   }
 

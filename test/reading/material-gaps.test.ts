@@ -88,3 +88,29 @@ describe('"typical", "normal", "usual" before a measure ask for its median, said
     expect(b.saidBack.join(' ')).not.toMatch(/median/);
   });
 });
+
+describe('"day of the week" is a breakdown phrase, never the count of days', () => {
+  it.each([
+    ['which day of the week is windiest', 'wind'],
+    ['wettest days of the week in Seattle', 'precipitation'],
+    ['which weekday is wettest?', 'precipitation'],
+    ['what day of week gets the most rain', 'precipitation'],
+  ])('%s', async (text, metric) => {
+    const b = await readWeather(text);
+    // The weather catalog counts its rows as "Days recorded" (also called "days"): not asked for here.
+    expect(b.questions.map((q) => q.metrics)).toEqual([[metric]]);
+    expect(b.unknownTerms).toEqual([]);
+    expect(b.toAsk).not.toContain('metrics');
+  });
+
+  it('"busiest day of the week" ranks by the row count the quality word points to, said as inferred from "busiest"', async () => {
+    const b = await readWeather('busiest day of the week');
+    expect(b.evidence.metrics).toEqual({ words: 'busiest', how: 'inferred' });
+  });
+
+  it('"which month is wettest" reads rainfall at a monthly grain', async () => {
+    const b = await readWeather('which month is wettest');
+    expect(b.questions.map((q) => q.metrics)).toEqual([['precipitation']]);
+    expect(b.grain).toBe('month');
+  });
+});
