@@ -3,15 +3,15 @@
 // Run through `threadcount ask` on vega-datasets' weather.csv (NOAA daily weather, Seattle and
 // New York, 2012–2015), its catalog listing weather type before city; the persistence of each
 // dimension is computed here by DuckDB SQL over the file.
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { DuckDBInstance } from '@duckdb/node-api';
 import { expect, it } from 'vitest';
-import { runCli } from '../helpers/run-cli.js';
-import { vegaDataFile } from '../helpers/open-data.js';
+import { askPostTexts } from '../helpers/run-cli.js';
+import { WEATHER_CSV, writeWeatherConfig } from '../helpers/open-data.js';
 
-const csv = vegaDataFile('weather.csv');
+const csv = WEATHER_CSV;
 
 /** The mean over a column's values of the share of the data's months each has rows in. */
 async function persistence(column: string): Promise<number> {
@@ -25,24 +25,14 @@ async function persistence(column: string): Promise<number> {
 
 it('weather.csv: city, whose values are there every month, is chosen over weather type, listed first', async () => {
   const dir = mkdtempSync(join(tmpdir(), 'tc-breakdown-'));
-  const config = join(dir, 'weather.yaml');
-  writeFileSync(config, `version: 1
-datasets:
-  - name: weather
-    label: Weather
-    source: { kind: csv, paths: ["${csv}"] }
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: precipitation, label: Precipitation, sum: precipitation, unit: number, unit_label: mm, kind: flow, also_called: [rain, rainfall] }
-    dimensions:
-      - { name: weather, label: Weather type, column: weather }
-      - { name: location, label: City, column: location }
-`);
+  const config = writeWeatherConfig(dir, [
+    '{ name: precipitation, label: Precipitation, sum: precipitation, unit: number, unit_label: mm, kind: flow, also_called: [rain, rainfall] }',
+  ], [
+    '{ name: weather, label: Weather type, column: weather }',
+    '{ name: location, label: City, column: location }',
+  ]);
   const out = join(dir, 'out');
-  const r = await runCli(['ask', '--config', config, '--request', 'how did rainfall grow in 2015?', '--out', out]);
-  expect(r.code, r.err).toBe(0);
-  const posts = (JSON.parse(readFileSync(join(out, 'thread.json'), 'utf8')) as { posts: { text: string }[] }).posts.map((p) => p.text).join('\n');
+  const posts = (await askPostTexts(config, 'how did rainfall grow in 2015?', out)).join('\n');
   const [city, type] = [await persistence('location'), await persistence('weather')];
   expect(city - type).toBeGreaterThan(0.1);
   const pct = (x: number) => `${Math.round(x * 100)}%`;

@@ -4,15 +4,15 @@
 // It had planned nothing, and `threadcount ask` had then said "go" to an empty plan fifty times.
 // Run through `threadcount ask` on vega-datasets' weather.csv (NOAA daily weather for Seattle and
 // New York, 2012-2015); the expected shares are counted here from the CSV itself.
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { addDays, daysBetween } from '../../analysis/periods.js';
-import { runCli } from '../helpers/run-cli.js';
-import { vegaDataFile } from '../helpers/open-data.js';
+import { askPostTexts } from '../helpers/run-cli.js';
+import { WEATHER_CSV, writeWeatherConfig } from '../helpers/open-data.js';
 
-const csv = vegaDataFile('weather.csv');
+const csv = WEATHER_CSV;
 const [head, ...lines] = readFileSync(csv, 'utf8').trim().split('\n');
 const columns = head!.split(',');
 const rows = lines.map((l) => Object.fromEntries(l.split(',').map((v, i) => [columns[i]!, v])));
@@ -27,24 +27,14 @@ function wetShare(start: string, end: string): number {
 describe('before and after a date, with no group', () => {
   it('compares equal spans either side of the date, from the file, and says it is not an experiment', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'tc-before-after-'));
-    const config = join(dir, 'weather.yaml');
-    writeFileSync(config, `version: 1
-datasets:
-  - name: weather
-    label: Weather
-    source: { kind: csv, paths: ["${csv}"] }
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: days, label: Days recorded, count: rows, unit: count, kind: flow }
-      - { name: wet_share, label: Share of wet days, rate: { when: "precipitation > 0" }, unit: percent, decimals: 1 }
-    dimensions:
-      - { name: city, label: City, column: location }
-`);
+    const config = writeWeatherConfig(dir, [
+      '{ name: days, label: Days recorded, count: rows, unit: count, kind: flow }',
+      '{ name: wet_share, label: Share of wet days, rate: { when: "precipitation > 0" }, unit: percent, decimals: 1 }',
+    ], [
+      '{ name: city, label: City, column: location }',
+    ]);
     const out = join(dir, 'out');
-    const r = await runCli(['ask', '--config', config, '--request', 'Did the share of wet days in Seattle go up after 2014-06-01?', '--out', out]);
-    expect(r.code, r.err).toBe(0);
-    const posts = (JSON.parse(readFileSync(join(out, 'thread.json'), 'utf8')) as { posts: { text: string }[] }).posts.map((p) => p.text);
+    const posts = await askPostTexts(config, 'Did the share of wet days in Seattle go up after 2014-06-01?', out);
     // The data ends on 31 December 2015: 579 days from 1 June 2014, so as many days before it.
     const end = '2016-01-01';
     const days = daysBetween('2014-06-01', end);

@@ -13,29 +13,22 @@ import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { formatValue } from '../../analysis/format.js';
 import { percentMoveIn, pointsFormIn } from '../helpers/caption-checks.js';
-import { flightsParquetConfigText, vegaDataFile } from '../helpers/open-data.js';
+import { flightsParquetConfigText, vegaDataFile, WEATHER_CSV, weatherConfigText } from '../helpers/open-data.js';
 import { runCli } from '../helpers/run-cli.js';
 
-const WEATHER = vegaDataFile('weather.csv');
+const WEATHER = WEATHER_CSV;
 const FLIGHTS = vegaDataFile('flights-3m.parquet');
 
 // The catalog of /work/wt/material/weather-fixed.yaml, over the same file.
-const weatherConfig = `version: 1
-datasets:
-  - name: weather
-    label: Weather
-    source: { kind: csv, paths: ["${WEATHER}"] }
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: days, label: Days recorded, count: rows, unit: count, kind: flow, also_called: [days] }
-      - { name: precipitation, label: Precipitation, sum: precipitation, unit: number, unit_label: mm, kind: flow, also_called: [rain, rainfall] }
-      - { name: temp_max, label: Daily high temperature, average: temp_max, unit: number, unit_label: °C, kind: level, also_called: [high temperature, max temperature, temperature] }
-      - { name: temp_min, label: Daily low temperature, average: temp_min, unit: number, unit_label: °C, kind: level, also_called: [low temperature, min temperature] }
-    dimensions:
-      - { name: location, label: City, column: location, also_called: [city, location] }
-      - { name: weather, label: Weather type, column: weather, also_called: [weather type, conditions] }
-`;
+const weatherConfig = weatherConfigText([
+  '{ name: days, label: Days recorded, count: rows, unit: count, kind: flow, also_called: [days] }',
+  '{ name: precipitation, label: Precipitation, sum: precipitation, unit: number, unit_label: mm, kind: flow, also_called: [rain, rainfall] }',
+  '{ name: temp_max, label: Daily high temperature, average: temp_max, unit: number, unit_label: °C, kind: level, also_called: [high temperature, max temperature, temperature] }',
+  '{ name: temp_min, label: Daily low temperature, average: temp_min, unit: number, unit_label: °C, kind: level, also_called: [low temperature, min temperature] }',
+], [
+  '{ name: location, label: City, column: location, also_called: [city, location] }',
+  '{ name: weather, label: Weather type, column: weather, also_called: [weather type, conditions] }',
+]);
 
 // The delay metric of /work/wt/material/flights-fixed.yaml: an average, not declared a level, so
 // only its values (early flights below zero) keep it out of percentages.

@@ -59,6 +59,34 @@ ${moreMetrics.map((m) => `      - ${m}
   return file;
 }
 
+/** vega-datasets' weather.csv: NOAA daily weather in Seattle and New York, 2012–2015 (one row a city a day). */
+export const WEATHER_CSV = vegaDataFile('weather.csv');
+
+/**
+ * A config text over weather.csv (dataset `weather`, stamped by `date`, UTC) with the given metric
+ * and dimension lines (YAML flow mappings), as a newcomer to the file would write it.
+ */
+export function weatherConfigText(metrics: readonly string[], dimensions: readonly string[]): string {
+  const lines = (xs: readonly string[]) => xs.map((x) => `      - ${x}\n`).join('');
+  return `version: 1
+datasets:
+  - name: weather
+    label: Weather
+    source: { kind: csv, paths: ["${WEATHER_CSV}"] }
+    time_column: date
+    timezone: UTC
+    metrics:
+${lines(metrics)}    dimensions:
+${lines(dimensions)}`;
+}
+
+/** Writes weatherConfigText into `dir` as `weather.yaml`. Returns the file's path. */
+export function writeWeatherConfig(dir: string, metrics: readonly string[], dimensions: readonly string[]): string {
+  const file = join(dir, 'weather.yaml');
+  writeFileSync(file, weatherConfigText(metrics, dimensions));
+  return file;
+}
+
 /**
  * A config text over vega-datasets' flights-3m.parquet (US domestic flights, January to June 2001,
  * plus six stamped 1 July) counting flights, with any more metric lines (YAML flow mappings).

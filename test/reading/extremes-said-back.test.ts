@@ -13,28 +13,20 @@ import { readBrief } from '../../cli/read.js';
 import { nextPrompt, type PromptContext } from '../../bot/prompts.js';
 import { cardNotes } from '../../bot/replies.js';
 import { readRequest, type DatasetFacts } from '../../bot/reading/read-request.js';
-import { moviesConfigText, vegaDataFile } from '../helpers/open-data.js';
+import { moviesConfigText, vegaDataFile, writeWeatherConfig } from '../helpers/open-data.js';
 import { FLIGHTS_CONFIG } from './open-data-configs.js';
 import { NOW, publicFacts, readUnemployment } from './public-data.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'tc-extremes-'));
-const WEATHER = join(dir, 'weather.yaml');
-writeFileSync(WEATHER, `version: 1
-datasets:
-  - name: weather
-    label: Weather
-    source: { kind: csv, paths: ["${vegaDataFile('weather.csv')}"] }
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: days, label: Days recorded, count: rows, unit: count, kind: flow, also_called: [days] }
-      - { name: precipitation, label: Precipitation, sum: precipitation, unit: number, unit_label: mm, kind: flow, also_called: [rain, rainfall] }
-      - { name: temp_max, label: Daily high temperature, average: temp_max, unit: number, unit_label: "°C", kind: level, also_called: [high temperature, temperature] }
-      - { name: temp_min, label: Daily low temperature, average: temp_min, unit: number, unit_label: "°C", kind: level, also_called: [low temperature] }
-      - { name: wind, label: Wind speed, average: wind, unit: number, unit_label: m/s, kind: level }
-    dimensions:
-      - { name: location, label: City, column: location, also_called: [city] }
-`);
+const WEATHER = writeWeatherConfig(dir, [
+  '{ name: days, label: Days recorded, count: rows, unit: count, kind: flow, also_called: [days] }',
+  '{ name: precipitation, label: Precipitation, sum: precipitation, unit: number, unit_label: mm, kind: flow, also_called: [rain, rainfall] }',
+  '{ name: temp_max, label: Daily high temperature, average: temp_max, unit: number, unit_label: "°C", kind: level, also_called: [high temperature, temperature] }',
+  '{ name: temp_min, label: Daily low temperature, average: temp_min, unit: number, unit_label: "°C", kind: level, also_called: [low temperature] }',
+  '{ name: wind, label: Wind speed, average: wind, unit: number, unit_label: m/s, kind: level }',
+], [
+  '{ name: location, label: City, column: location, also_called: [city] }',
+]);
 const MOVIES = join(dir, 'movies.yaml');
 writeFileSync(MOVIES, moviesConfigText(
   ['{ name: rows, label: Rows, count: rows, unit: count, kind: flow }', `{ name: us_gross, label: US Gross, sum: '"US Gross"', unit: number, kind: flow }`],

@@ -8,23 +8,16 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { rankMetrics } from '../../bot/reading/metric-ranking.js';
 import { parseConfigText } from '../../config/load.js';
-import { vegaDataFile } from '../helpers/open-data.js';
+import { vegaDataFile, weatherConfigText } from '../helpers/open-data.js';
 
-const weather = parseConfigText(`version: 1
-datasets:
-  - name: weather
-    label: Weather
-    source: { kind: csv, paths: ["${vegaDataFile('weather.csv')}"] }
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: days, label: Days recorded, count: rows, unit: count, kind: flow }
-      - { name: precipitation_total, label: Total precipitation, sum: precipitation, unit: number, unit_label: mm, kind: flow }
-      - { name: temp_max, label: Daily high temperature, average: temp_max, unit: number, unit_label: "°C", kind: level }
-      - { name: wind, label: Wind speed, average: wind, unit: number, unit_label: m/s, kind: level }
-    dimensions:
-      - { name: location, label: City, column: location }
-`, join(tmpdir(), 'weather.yaml')).datasets[0]!;
+const weather = parseConfigText(weatherConfigText([
+  '{ name: days, label: Days recorded, count: rows, unit: count, kind: flow }',
+  '{ name: precipitation_total, label: Total precipitation, sum: precipitation, unit: number, unit_label: mm, kind: flow }',
+  '{ name: temp_max, label: Daily high temperature, average: temp_max, unit: number, unit_label: "°C", kind: level }',
+  '{ name: wind, label: Wind speed, average: wind, unit: number, unit_label: m/s, kind: level }',
+], [
+  '{ name: location, label: City, column: location }',
+]), join(tmpdir(), 'weather.yaml')).datasets[0]!;
 
 const flights = parseConfigText(`version: 1
 datasets:

@@ -2,35 +2,27 @@
 // "this X" is never the same span. Run through `threadcount read` and `ask` with --now fixed on
 // vega-datasets' weather.csv (NOAA daily weather for Seattle and New York, 2012–2015); the
 // figures expected are computed here by DuckDB SQL over the file.
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { DuckDBInstance } from '@duckdb/node-api';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { runCli } from '../helpers/run-cli.js';
-import { vegaDataFile } from '../helpers/open-data.js';
+import { askPostTexts, runCli } from '../helpers/run-cli.js';
+import { WEATHER_CSV, writeWeatherConfig } from '../helpers/open-data.js';
 
-const csv = vegaDataFile('weather.csv');
+const csv = WEATHER_CSV;
 let dir = '';
 let config = '';
 
 beforeAll(() => {
   dir = mkdtempSync(join(tmpdir(), 'tc-anchor-'));
-  config = join(dir, 'weather.yaml');
-  writeFileSync(config, `version: 1
-datasets:
-  - name: weather
-    label: Weather
-    source: { kind: csv, paths: ["${csv}"] }
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: precipitation, label: Precipitation, sum: precipitation, unit: number, unit_label: mm, kind: flow, also_called: [rain, rainfall] }
-      - { name: temp_max, label: Daily high temperature, average: temp_max, unit: number, unit_label: °C, kind: level, also_called: [high temperature] }
-    dimensions:
-      - { name: weather, label: Weather type, column: weather, also_called: [weather type] }
-      - { name: location, label: City, column: location, also_called: [city] }
-`);
+  config = writeWeatherConfig(dir, [
+    '{ name: precipitation, label: Precipitation, sum: precipitation, unit: number, unit_label: mm, kind: flow, also_called: [rain, rainfall] }',
+    '{ name: temp_max, label: Daily high temperature, average: temp_max, unit: number, unit_label: °C, kind: level, also_called: [high temperature] }',
+  ], [
+    '{ name: weather, label: Weather type, column: weather, also_called: [weather type] }',
+    '{ name: location, label: City, column: location, also_called: [city] }',
+  ]);
 });
 
 interface BriefJson {
@@ -90,9 +82,7 @@ describe('data that ended years ago: the say-back gives both readings apart, and
   // ask runs on the real today, years after 2015 as well.
   it('accepting the offer answers summer 2015 against summer 2014 with the figures SQL gives', async () => {
     const out = mkdtempSync(join(dir, 'ask-'));
-    const r = await runCli(['ask', '--config', config, '--request', 'last summer vs this summer rainfall in Seattle', '--out', out]);
-    expect(r.code, r.err).toBe(0);
-    const posts = (JSON.parse(readFileSync(join(out, 'thread.json'), 'utf8')) as { posts: { text: string }[] }).posts.map((p) => p.text);
+    const posts = await askPostTexts(config, 'last summer vs this summer rainfall in Seattle', out);
     expect(posts[1]).toMatch(/Recommended: \*Summer 2015 against summer 2014/);
     const summer = (y: number) => sql(`SELECT sum(precipitation) FROM read_csv('${csv}') WHERE location = 'Seattle' AND date BETWEEN '${y}-06-01' AND '${y}-08-31'`);
     const [s15, s14] = [await summer(2015), await summer(2014)];
