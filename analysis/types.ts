@@ -93,6 +93,8 @@ export interface SubQuestion {
   rateUnit?: 'year' | 'decade';
   /** Two values of one dimension set against each other ("did phone grow faster than kiosk"). */
   contrast?: { dimension: string; values: [string, string] };
+  /** "What share of flights does ATL have": the one value of `dimension` whose share of the total the answer leads with (its rank, its share's course by period). */
+  focus?: { dimension: string; value: string };
   /** "median delay", "p90 delay": a quantile of an averaged metric's column instead of its mean (analysis/statistic.ts). */
   statistic?: { quantile: number };
 }

@@ -5,6 +5,12 @@ import type { Audience, DateWindow, SpanEndsUnit, Grain, GrowthRank, RankOrder, 
 
 export { AUDIENCES, type Audience } from '../analysis/types.js';
 
+/** The one value of a breakdown whose share of the total a question asks about. */
+export interface ShareFocus {
+  dimension: string;
+  value: string;
+}
+
 /** A word or phrase that names something the catalog and the data do not know. */
 export interface UnknownTerm {
   text: string;
@@ -61,6 +67,13 @@ export interface Question {
   table?: boolean;
   /** The metric the question took from the one before ("how has that moved"). */
   metricsFromPrevious?: boolean;
+  /** Asks a part of a whole ("what share of flights", "what percentage of", lexicon SHARE_ASK). */
+  shareAsked?: boolean;
+  /**
+   * "What share of flights does ATL have": the one value whose share of the total is asked. It is
+   * not a filter: the total counts every value, and the answer leads with this one's share.
+   */
+  shareOf?: ShareFocus;
   /** "median delay", "p90 delay": a quantile of an averaged metric instead of its mean (analysis/statistic.ts), with the words it was read from. */
   statistic?: { quantile: number; words: string };
 }

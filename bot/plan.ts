@@ -106,9 +106,18 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
       }
     }
     const ranks = q.ranking === true && dims.length > 0;
+    // "What share of flights does ATL have": ATL's share of the whole heads the question's answers.
+    const focused = q.shareOf && isBreakdownDimension(ds, q.shareOf.dimension) ? q.shareOf : null;
     for (const metric of metrics) {
       if (levels) break;
       const additive = ds.metrics.some((m) => m.name === metric) && isAdditive(metricByName(ds, metric));
+      if (focused && additive) {
+        // Its share by month unless a grain was asked: weekly shares of a few months swing with the calendar more than with the share.
+        const shareGrain: Grain = brief.evidence?.grain?.how === 'stated' || (grain !== 'day' && grain !== 'week') || monthsIn(span) < 2 ? grain : 'month';
+        add('segment_shares', metric, true, { dimension: focused.dimension, focus: { ...focused }, answersAsked: true, grain: shareGrain });
+        // "…, and is it growing?" of that share: its change by period (in the same item) answers it, not the whole's growth.
+        if (q.kind !== 'trend') continue;
+      }
       switch (q.kind) {
         case 'trend':
           // "Which species cause the most cost", "top 5 busiest airports": the ranking of the
@@ -121,7 +130,7 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           // answers it (on daily data) whatever the grain, heads the question and leads the summary.
           // A question kept to some days ("weekends" of "weekends vs weekdays") has no week's pattern to show.
           const weekdays = WEEKDAY_ASK.test(q.text.toLowerCase()) && !q.filters.some(isDayFilter);
-          add('series', metric, !ranks && !concentrated && !weekdays);
+          add('series', metric, !ranks && !concentrated && !weekdays && !focused);
           if (grain === 'month' || weekdays) add('trend_seasonality', metric, weekdays, weekdays ? { weekdaysAsked: true, answersAsked: true } : {});
           add('trend_test', metric, false);
           add('trend_summary', metric, false);
@@ -203,7 +212,8 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
       // What the statistic could not reach is said on the card (reading/statistic-words.ts), where the measure is agreed.
       drafts.push(...withStatistic(drafts.splice(before), q.statistic, ds).items);
     }
-    if (drafts.length === before) notCovered.add(q.kind);
+    // A follow-up about the same share shares its item with the question before it.
+    if (drafts.length === before && !focused) notCovered.add(q.kind);
   }
   // Leadership gets the headline of each question first, and fewer items.
   const leadership = brief.audience === 'leadership';

@@ -1,5 +1,6 @@
 // Clarifying prompts: what to ask next, with a recommended default and its reason, and how to
 // read a typed (or clicked) answer. A prompt is never asked when the brief already holds it.
+import { focusShares } from './reading/share-focus.js';
 import type { DatasetConfig } from '../config/schema.js';
 import type { Coverage } from '../analysis/coverage.js';
 import { inSentence } from '../analysis/captions/grammar.js';
@@ -381,8 +382,11 @@ function readAnswerInto(prompt: Prompt, text: string, brief: Brief, ctx: PromptC
       const picks = byWords.map((o) => JSON.parse(o.value) as { dimension: string; value: string });
       const asked = brief.questions.length > 0 ? brief.questions : [wholeRequestQuestion(brief)];
       const questions = asked.map((q, i) => (i === 0 ? { ...q, filters: addValues(q.filters, picks) } : q));
+      // "What share of flights does ATL have" answered "origin": ATL is the share's focus, not a filter.
+      const shareNotes = focusShares(questions, ctx.dataset);
+      const saidBack = shareNotes.length > 0 ? { saidBack: [...(brief.saidBack ?? []), ...shareNotes] } : {};
       const rest = (brief.ambiguousValues ?? []).slice(1);
-      return { ok: true, brief: { ...brief, questions, ambiguousValues: rest, toAsk: rest.length > 0 ? brief.toAsk ?? [] : (brief.toAsk ?? []).filter((t) => t !== 'values') } };
+      return { ok: true, brief: { ...brief, questions, ...saidBack, ambiguousValues: rest, toAsk: rest.length > 0 ? brief.toAsk ?? [] : (brief.toAsk ?? []).filter((t) => t !== 'values') } };
     }
     case 'dimensions': {
       if (/^\s*(?:none|no|no breakdown|nothing)\s*[.!]?\s*$/i.test(typed)) return { ok: true, brief: { ...brief, dimensions: [], dimensionsAsked: true } };

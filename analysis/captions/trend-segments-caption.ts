@@ -1,8 +1,8 @@
 // Titles and captions for segment trends and segment shares, written only from findings.
 import type { DatasetConfig, Dimension, Metric } from '../../config/schema.js';
 import { addsAcrossSegments } from '../catalog.js';
-import { CLEAR_LEAD, type SegmentGrowthMeasure, type SegmentRanking, type SegmentSharesFinding, type SegmentShareRow, type SegmentTrendFinding, type SegmentTrendOverviewFinding } from '../findings/segments.js';
-import { formatChange, formatPeriod, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
+import { CLEAR_LEAD, type SegmentGrowthMeasure, type SegmentRanking, type SegmentSharesFinding, type SegmentShareRow, type SegmentTrendFinding, type SegmentTrendOverviewFinding, type ShareFocusFinding } from '../findings/segments.js';
+import { formatChange, formatPeriod, formatPointChange, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
 import type { Audience, Finding } from '../types.js';
 import { countOf, inSentence, isPluralLabel, labelAtStart, pluralNoun, withArticle } from './grammar.js';
 import { configuredAs } from './metric-words.js';
@@ -183,6 +183,8 @@ export function segmentSharesWords(metric: Metric, dim: Dim, findings: readonly 
   }
   if (f.perDay) return perDayRankingWords(metric, dim, f, locale);
   if (f.ranking && (!f.additive || !f.ranking.descending || f.total === null || named.every((r) => r.share === null))) return rankingWords(metric, dim, f, f.ranking, locale, rows);
+  // "What share of flights does ATL have": the named segment leads.
+  if (f.focus && f.additive) return focusShareWords(metric, dim, f.focus, locale);
   // Two values set against each other ("night vs day"): the two side by side, in the order asked.
   const pair = request.contrast?.map((v) => named.find((r) => segmentLabel(r).toLowerCase() === String(v).toLowerCase()));
   if (pair && pair[0] && pair[1] && pair[0].value !== null && pair[1].value !== null) {
@@ -347,3 +349,39 @@ function perRowPairWords(metric: Metric, noun: string, a: SegmentShareRow, b: Se
   }
   return { title, caption: `${means}${medians}` };
 }
+
+/**
+ * One named segment's share ("What share of flights does ATL have?"): its share of the whole over
+ * the period with the whole beside it, its rank among every segment, and how its share moved from
+ * the first complete period to the last, in points (a difference of two shares, never a percent of one).
+ */
+export function focusShareWords(metric: Metric, dim: Dim, focus: ShareFocusFinding, locale: string): Words {
+  const fmt = valueFormatOf(metric, locale);
+  const noun = inSentence(metric.label);
+  const plural = dimensionPlural(dim);
+  const name = focus.segment;
+  const share = formatShare(focus.share, locale, true);
+  const periods = focus.series.map((p) => p.period);
+  const grain = focus.grain;
+  const span = periods.length > 0 ? ` ${formatPeriod(periods[0]!, grain, locale)}${periods.length > 1 ? `–${formatPeriod(periods[periods.length - 1]!, grain, locale)}` : ''}` : '';
+  const whole = `all ${formatValue(focus.total, fmt, { compact: true })} ${noun}`;
+  if (focus.rank === null || focus.value === 0) {
+    return { title: `${name} has no ${noun} in this period`, caption: `${name} has no ${noun} in this period (0% of ${whole},${span}); ${countOf(focus.of, inSentence(dim.label), locale, plural)} have some.` };
+  }
+  const rank = `rank ${focus.rank} of ${formatValue(focus.of, { unit: 'count', locale })} ${plural}`;
+  const title = `${name} carries ${share} of ${noun} (${rank})`;
+  const c = focus.change;
+  const moved =
+    c
+      ? `; its share ${Math.abs(c.points) < 5e-4 ? 'held at about' : c.points > 0 ? 'rose' : 'fell'} ${Math.abs(c.points) < 5e-4 ? formatShare(c.toShare, locale, true) : formatPointChange(c.points, locale)} from ${formatPeriod(c.from, grain, locale, 'long')} to ${formatPeriod(c.to, grain, locale, 'long')}${Math.abs(c.points) < 5e-4 ? '' : ` (${formatShare(c.fromShare, locale, true)} to ${formatShare(c.toShare, locale, true)})`}`
+      : '';
+  const lowHigh = focus.series.filter((p) => !p.partial && p.share !== null);
+  const range = lowHigh.length > 2 ? ` By ${GRAIN_WORD[grain]}, its share ran from ${formatShare(Math.min(...lowHigh.map((p) => p.share!)), locale, true)} to ${formatShare(Math.max(...lowHigh.map((p) => p.share!)), locale, true)}.` : '';
+  return {
+    title,
+    caption: `${name} carried ${share} of ${whole} (${formatValue(focus.value, fmt, { compact: true })}),${span}, ${rank}${moved}.${range}`,
+  };
+}
+
+const GRAIN_WORD = { day: 'day', week: 'week', month: 'month', quarter: 'quarter', year: 'year' } as const;
+

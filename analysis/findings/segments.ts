@@ -297,6 +297,30 @@ export interface SegmentSharesFinding {
   perRow?: string;
   /** Asked per day ("which shops have the most orders per day"): each row's value is its total over its days; `changed` segments opened or closed inside the period. */
   perDay?: { changed: number };
+  /** "What share of flights does ATL have": the one value asked about, its share, rank and the course of its share. */
+  focus?: ShareFocusFinding;
+}
+
+/**
+ * One named segment's share of the total over the window (every segment counted, none folded),
+ * its rank among them (ties share a rank), and its share in each period of the grain with the
+ * change in points from the first complete period to the last.
+ */
+export interface ShareFocusFinding {
+  segment: string;
+  /** Its own total over the window (0 when it has no rows there). */
+  value: number;
+  total: number;
+  share: number | null;
+  /** 1 for the largest; null when it has no rows in the window. */
+  rank: number | null;
+  /** How many segments have rows in the window. */
+  of: number;
+  /** The grain of `series`. */
+  grain: Grain;
+  series: { period: string; value: number; total: number; share: number | null; partial: boolean }[];
+  /** From the first complete period to the last, in points of share (a difference of two shares, never a percent of one). */
+  change: { from: string; to: string; fromShare: number; toShare: number; points: number } | null;
 }
 
 /** A ranking by value: its direction, and for an average or a rate the row floor a segment needs to be named. */

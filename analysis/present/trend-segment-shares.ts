@@ -1,11 +1,12 @@
 // Presenter for "segment_shares": a Pareto chart (bars largest first, running share, 80% mark);
 // for a metric that has no shares (an average, a ratio), plain bars of each segment's value.
 import { buildBars } from '../charts/build-bars.js';
+import { buildLine } from '../charts/build-line.js';
 import { buildPareto } from '../charts/build-pareto.js';
 import { segmentSharesWords } from '../captions/trend-segments-caption.js';
 import { dimensionPlural, segmentLabel } from '../captions/trend-words.js';
 import { rowNoun } from '../captions/performance-words.js';
-import { pluralNoun } from '../captions/grammar.js';
+import { inSentence, pluralNoun } from '../captions/grammar.js';
 import { dimensionByName, metricByName } from '../catalog.js';
 import type { SegmentSharesFinding } from '../findings/segments.js';
 import { valueFormatOf } from '../format.js';
@@ -27,7 +28,17 @@ export const presentSegmentShares: Presenter = (answer, ctx) => {
   const subtitle = chartSubtitle(answer, metric, ctx, { grain: false, ...(perRow ? { definition: perRow } : {}) });
   const header = { title: words.title, chip: metric.label, subtitle, footer: chartFooter(answer, ctx), ...ctx.chart };
   let chart = null;
-  if (f) {
+  if (f?.focus && f.additive && f.focus.series.length > 0) {
+    // "What share of flights does ATL have": its share period by period, the answer's own course.
+    const focus = f.focus;
+    chart = buildLine({
+      ...header,
+      seriesLabel: `${focus.segment}'s share of ${inSentence(metric.label)}`,
+      grain: focus.grain,
+      points: focus.series.map((p) => ({ period: p.period, value: p.share, partial: p.partial })),
+      format: { unit: 'percent', decimals: 1, locale: ctx.locale },
+    });
+  } else if (f) {
     // The template folded the tail in SQL: the fold comes last, drawn as the tail, and nothing is folded again.
     const fold = f.rows.find((r) => r.other && r.value !== null);
     const folded = fold ? { label: segmentLabel(fold), value: fold.value! } : null;

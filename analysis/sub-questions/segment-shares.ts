@@ -13,7 +13,9 @@ export const segmentSharesSubQuestion = defineSubQuestion({
   template: segmentSharesTemplate,
   present: presentSegmentShares,
   describe: (w, sq) =>
-    sq.rankOrder
+    sq.focus
+      ? `${sq.focus.value}'s share of all ${w.metric} (${w.span}), its rank among every ${w.dim}, and how its ${w.grain} share moved.`
+      : sq.rankOrder
       ? `The ${sq.rankLimit ? `${namedSegmentCount(sq)} ` : ''}${sq.rankOrder} ${pluralNoun(w.dim)} by ${w.metric} (${w.span}), ranked by its value.`
       : `Each ${w.dim}'s share of ${w.metric} (${w.span}), and how concentrated it is.`,
 });

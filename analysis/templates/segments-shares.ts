@@ -10,6 +10,7 @@ import { concentration, hhiBand } from '../stats/index.js';
 import type { Caveat, CompiledQuery, ResultTable, SubQuestion } from '../types.js';
 import { compileFoldedSegments, foldedAs, namedSegmentCount, perDayAsked, RANK_FLOOR, segmentDimension } from './segments-fold-sql.js';
 import { foldedCaveats, readSegmentTotals, type FoldedRow } from './segments-read.js';
+import { compileFocus, compileFocusSeries, readFocus } from './segments-focus.js';
 import { minGroupSize } from './small-groups.js';
 import type { ReadContext, Reading, Template } from './template.js';
 import { coveredWindow, EMPTY_TABLE, numberOrNull } from './trend-points.js';
@@ -23,9 +24,18 @@ export const segmentSharesTemplate: Template = {
   compile: (sq, ctx) => {
     segmentDimension(sq, ctx);
     const totals = { name: 'segment_totals', ...compileFoldedSegments(sq, ctx, { topN: namedSegmentCount(sq), grain: null, totals: true, perRow: perRowAsked(sq, ctx.dataset), perDay: perDayAsked(sq, ctx.dataset) }) };
-    return sharesAsked(sq, ctx.dataset) ? [totals, { name: 'segment_reach', ...compileReach(sq, ctx) }] : [totals];
+    if (!sharesAsked(sq, ctx.dataset)) return [totals];
+    // "What share of flights does ATL have": the named segment's share, rank and course beside the Pareto.
+    const focus = sq.focus ? [{ name: 'segment_focus', ...compileFocus(sq, ctx) }, { name: 'segment_focus_series', ...compileFocusSeries(sq, ctx) }] : [];
+    return [totals, { name: 'segment_reach', ...compileReach(sq, ctx) }, ...focus];
   },
-  read: (sq, tables, ctx) => readSegmentShares(sq, tables.segment_totals ?? EMPTY_TABLE, ctx, tables.segment_reach),
+  read: (sq, tables, ctx) => {
+    const reading = readSegmentShares(sq, tables.segment_totals ?? EMPTY_TABLE, ctx, tables.segment_reach);
+    const focus = sq.focus ? readFocus(sq, tables.segment_focus, tables.segment_focus_series, ctx) : null;
+    if (!focus) return reading;
+    // The answer is the one segment's share over every segment: no fold of the breakdown's tail is shown.
+    return { findings: reading.findings.map((f) => (f.type === 'segment_shares' && f.additive ? { ...f, focus } : f)), caveats: reading.caveats.filter((c) => c.code !== 'segments_folded') };
+  },
 };
 
 /** Whether the sub-question's segments have shares of a total (a sum or a count, largest first, not per row or per day). */

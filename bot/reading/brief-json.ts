@@ -34,6 +34,8 @@ export const briefJsonSchema = z
           perDay: z.boolean(),
           table: z.boolean(),
           statistic: z.object({ quantile: z.number(), words: z.string() }).nullable().optional(),
+          /** "What share of flights does ATL have": the one value whose share of the total is asked (not a filter). */
+          shareOf: z.object({ dimension: z.string(), value: z.string() }).strict().nullable().optional(),
         })
         .strict(),
     ),
@@ -89,6 +91,7 @@ export function briefToJson(brief: Brief, dataset: string): BriefJson {
       perDay: q.perDay ?? false,
       table: q.table ?? false,
       statistic: q.statistic ?? null,
+      ...(q.shareOf ? { shareOf: q.shareOf } : {}),
     })),
     window: inclusive(brief.window),
     compareWindow: inclusive(brief.compareWindow),

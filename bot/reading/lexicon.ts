@@ -117,6 +117,14 @@ export const GROUP_GROWTH_ASK = /\b(?:grow|grew|grown|growing|growth)\b/;
  */
 export const CONCENTRATION_ASK = /\b(?:make|makes|made|making|account\s+for|accounts\s+for|reach|reaches|carry|carries)\s+(?:up\s+)?(?:about\s+|over\s+|half|the\s+bulk|most|\d{1,2}(?:\.\d+)?\s*%|\d{1,2}\s+per\s*cent)|\bhow\s+concentrated\b|\bconcentration\b|\bpareto\b|\b80\s*\/\s*20\b|\blong\s+tail\b/;
 
+/**
+ * A part of a whole asked about ("what share of all flights", "what percentage of flights",
+ * "how big a slice of departures", "ATL's share", "what part of the total"): with one value of the
+ * data named, that value is the focus whose share is asked, not a filter that removes the rest
+ * (bot/reading/share-focus.ts).
+ */
+export const SHARE_ASK = /\b(?:share|percentage|proportion|percent|fraction|portion|slice|cut)\s+of\b|\bpart\s+of\s+(?:the\s+)?(?:total|whole|all)\b|(?:\bwhat|\bhow\s+many)\s*(?:%|per\s*cent)\s+of\b|'s\s+(?:share|slice|portion|percentage|proportion)\b|\bhow\s+much\s+of\s+(?:the\s+)?(?:total|whole|all)\b|\bshare\s+(?:does|did|do|has|had|is|was)\b/;
+
 export const WEEKDAY_ASK = /\bwhich days? (?:is|are|was|were)\b|\bdays?[- ]of[- ](?:the[- ])?week\b|\bweekdays\b|\b(?:which|what|by|per|each|every|across)\s+(?:the\s+)?weekday\b|\bweekends?\s+(?:vs|versus|compared)\b/;
 
 /** Cues for each kind of question, with weights; the reader scores a question's words with these. */

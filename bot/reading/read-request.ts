@@ -34,6 +34,7 @@ import {
   REFINES_PREVIOUS,
   ROLE_WORDS,
   SEASON_ASK,
+  SHARE_ASK,
   STOPWORDS,
   VOLUME_WORDS,
   WEEKDAY_ASK,
@@ -45,6 +46,7 @@ import { applyStatistics, readStatistics } from './statistic-words.js';
 import { type DayReading, type DaySetMention, readDaySets } from './day-filter.js';
 import { DAY_OF_WEEK, dayFilter, dayScopeWords, isDayFilter } from '../../analysis/day-of-week.js';
 import { findUnknownTerms } from './unknown-words.js';
+import { focusShares } from './share-focus.js';
 import { mendCalendarWords } from './spelling.js';
 import { COUNTING, rankMetrics } from './metric-ranking.js';
 import { extremeOrder, findPeriodExtremes, type PeriodExtreme, superlativeIn, wholeHistorySpans } from './extremes.js';
@@ -241,6 +243,8 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   const deadline = deadlines.find((d) => d.date !== null);
   const pastDeadline = deadlines.find((d) => d.date === null && d.past)?.past;
 
+  // "What share of flights does ATL have": ATL is the focus of the share, not a filter.
+  state.notes.push(...focusShares(questions, ds));
   const brief: Brief = {
     requestText: fullText,
     questions,
@@ -622,6 +626,7 @@ function mergeInto(q: Question, r: ClauseReading, st: ReadState): void {
   if (r.rankLimit && !q.rankLimit) q.rankLimit = r.rankLimit;
   if (r.rankOrder && !q.rankOrder) q.rankOrder = r.rankOrder;
   if (r.growthRank && !q.growthRank && q.dimensions.length > 0) q.growthRank = r.growthRank;
+  if (SHARE_ASK.test(r.clause.text.toLowerCase())) q.shareAsked = true;
 }
 
 /** A share of a whole: "what share of all flights", "what percentage of the total", "how much of the total". */
@@ -712,6 +717,7 @@ function toQuestion(r: ClauseReading, st: ReadState, previous: Question | undefi
   if (!r.perDay && kind === 'growth' && q.window && q.compareWindow && DAILY_MEASURE.test(r.clause.text.toLowerCase()) && daysBetween(q.compareWindow.start, q.compareWindow.end) > 7) q.perDay = true;
   if (r.perRow) q.perRow = r.perRow;
   if (r.table) q.table = true;
+  if (SHARE_ASK.test(r.clause.text.toLowerCase())) q.shareAsked = true;
   // A launch the text refers to ("since it launched") is the group's catalog launch date.
   if (!q.launchDate && refersToLaunch(r.clause.text)) {
     const g = ds.comparison_groups.find((x) => x.name === q.comparisonGroup) ?? (ds.comparison_groups.filter((x) => x.launch_date).length === 1 ? ds.comparison_groups.find((x) => x.launch_date) : undefined);

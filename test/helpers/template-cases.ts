@@ -40,6 +40,8 @@ export const CASES: SubQuestion[] = [
   base({ template: 'trend_summary', kind: 'trend', lens: 'summary', metrics: ['average_fare'], grain: 'week' }),
   base({ template: 'segment_trend', kind: 'trend', lens: 'breakdown', metrics: ['bookings'], dimension: 'channel', grain: 'quarter' }),
   base({ template: 'segment_shares', kind: 'trend', lens: 'distribution', metrics: ['revenue'], dimension: 'route' }),
+  // "What share of revenue does Mainland–Saltreach have": one named route's share, rank and monthly share (a bound value, RANK over every route) beside a filter that stays.
+  base({ template: 'segment_shares', kind: 'trend', lens: 'distribution', metrics: ['bookings'], dimension: 'route', focus: { dimension: 'route', value: 'Mainland–Saltreach' }, filters: [{ dimension: 'channel', values: ['app'] }] }),
   // Asked per day: each segment's total over its own days (its first and last day read from the whole table).
   base({ template: 'segment_shares', kind: 'trend', lens: 'distribution', metrics: ['bookings'], dimension: 'channel', perDay: true, window: SUMMER_2024, filters: [{ dimension: 'route', values: ['Mainland–Saltreach'] }] }),
   base({ template: 'growth_series', kind: 'growth', lens: 'time_pattern', metrics: ['bookings', 'revenue'] }),
