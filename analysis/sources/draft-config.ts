@@ -441,7 +441,11 @@ export function draftConfig(input: DraftInput): Draft {
   const metrics: Record<string, unknown>[] = [rowsMetric];
   // One row per date and breakdown cell (a shop's channel on a day, or one row per month): the rows
   // hold figures already counted, so a count of rows counts cells, not events.
-  const cell = input.cells?.find((x) => x.time === timeName && x.distinct === input.rows && input.rows > 1 && !x.timeOfDay);
+  // A grid's cells are mostly filled (every industry each month); rows that are unique only because
+  // they pair rare values (a match: a date, a home team and an away team of 116) fill a tiny share of
+  // date × every breakdown, and are events. A tenth filled is our own line, not a published rule.
+  const gridCells = (x: DateCellCount) => (input.columns.find((c) => c.name === x.time)?.values ?? 0) * x.breakdowns.reduce((n, b) => n * Math.max(1, input.columns.find((c) => c.name === b)?.values ?? 1), 1);
+  const cell = input.cells?.find((x) => x.time === timeName && x.distinct === input.rows && input.rows > 1 && !x.timeOfDay && input.rows >= 0.1 * gridCells(x));
   // How each number column moves between dates, when the data has one row per date.
   const steps = timeName ? input.series?.[timeName] : undefined;
   const steady = (c: ColumnProfile) => {
