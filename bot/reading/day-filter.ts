@@ -31,7 +31,7 @@ const SET_WORDS = String.raw`week-?ends?|week-?days?|week\s+days|business\s+days
 const ONE = `(?:${SET_WORDS}|${NAME})`;
 // A range or a list of days: "Monday to Friday", "mon-fri", "Sat and Sun", "Saturdays/Sundays".
 const GROUP = String.raw`(?<![\p{L}\d])(?:${ONE})(?:\s*(?:-|–|to|through|thru|until|till)\s*(?:${NAME})|(?:\s*(?:,|\/|&|\band\b|\bor\b|\bplus\b)\s*(?:${NAME}))+)?(?![\p{L}\d])`;
-const AGAINST = String.raw`^\s*(?:vs\.?|versus|v\.?|compared\s+(?:to|with)|against|or|and|relative\s+to)\s+(?:on\s+|the\s+|during\s+)?`;
+const AGAINST = String.raw`^\s*(?:vs\.?|versus|v\.?|compared\s+(?:to|with)|against|or|and|than|relative\s+to)\s+(?:on\s+|at\s+|the\s+|during\s+)?`;
 const OTHER_DAYS = String.raw`^\s*(?:vs\.?|versus|compared\s+(?:to|with)|against)\s+(?:on\s+)?(?:the\s+)?(?:other|rest\s+of\s+the|remaining)\s+(?:days?|week)(?![\p{L}])`;
 
 function dayOf(word: string): number | undefined {
@@ -106,6 +106,13 @@ export function readDaySets(text: RequestText): DayReading {
     if (!isDaySet(text, m.span, words)) continue;
     const read = daysOf(words.replace(/\s+/g, ' '));
     if (!read) continue;
+    // "between Tuesday and Thursday": the days from one to the other, as "Tuesday to Thursday".
+    const pair = /^(\p{L}+)\s+and\s+(\p{L}+)$/u.exec(words.toLowerCase());
+    if (pair && /\bbetween\s+$/.test(text.lower.slice(Math.max(0, m.span.start - 10), m.span.start))) {
+      const a = dayOf(pair[1]!);
+      const b = dayOf(pair[2]!);
+      if (a !== undefined && b !== undefined) read.days = range(a, b);
+    }
     mentions.push({ days: read.days, span: m.span, words, ...(read.saidBack ? { saidBack: read.saidBack } : {}) });
   }
   // "excluding weekends", "except Fridays", "not on weekends": every other day.

@@ -114,3 +114,25 @@ describe('"day of the week" is a breakdown phrase, never the count of days', () 
     expect(b.grain).toBe('month');
   });
 });
+
+describe('a range of days of the week is a day filter; "X than Y" sets two day sets against each other', () => {
+  const days = (b: Awaited<ReturnType<typeof readFlights>>) => b.questions.map((q) => q.filters.filter((f) => f.dimension === '@day_of_week').flatMap((f) => f.values.map(Number)));
+  // ISO 8601 day numbers: 1 = Monday ... 7 = Sunday.
+  it.each([
+    ['flights from Tuesday to Thursday', [2, 3, 4]],
+    ['average delay Mon–Wed', [1, 2, 3]],
+    ['how many flights Monday through Friday', [1, 2, 3, 4, 5]],
+    ['delays between Tuesday and Thursday', [2, 3, 4]],
+    ['flights thurs thru sat in May', [4, 5, 6]],
+  ])('%s', async (text, want) => {
+    const b = await readFlights(text);
+    expect(days(b)).toEqual([want]);
+    expect(b.unknownTerms).toEqual([]);
+  });
+
+  it.each(['do we fly more at weekends than on weekdays', 'are delays worse on weekends than weekdays'])('%s: one contrast, not one filter of every day', async (text) => {
+    const b = await readFlights(text);
+    expect(days(b).flat()).toEqual([]);
+    expect(b.questions[0]!.contrast).toEqual({ dimension: '@day_of_week', values: ['6,7', '1,2,3,4,5'] });
+  });
+});
