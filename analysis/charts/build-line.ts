@@ -2,7 +2,7 @@ import { formatPeriod, formatValue, type ValueFormat } from '../format.js';
 import type { Grain, PeriodPoint } from '../types.js';
 import { nextPeriod } from '../periods.js';
 import { headerOf } from './header.js';
-import type { ChartHeader, LineEvent, LineMark, LineSpec } from './spec.js';
+import type { ChartHeader, LineEvent, LineMark, LineSpec, LineUnusual } from './spec.js';
 
 export interface LineInput extends ChartHeader {
   /** Name of the series, e.g. "Revenue"; shown in the legend when there is an overlay. */
@@ -14,7 +14,12 @@ export interface LineInput extends ChartHeader {
   overlay?: { label: string; values: (number | null)[] };
   /** Dated events (a launch, a price change) marked with a thin vertical rule and a short label. */
   events?: LineEvent[];
+  /** Periods the outlier screen flagged, with their modified z-scores, and what the ring means in the legend. */
+  unusual?: { legend: string; periods: { period: string; score: number }[] };
 }
+
+/** Unusual periods labelled at most; the rest are ringed only, so labels never crowd the line. */
+export const MAX_UNUSUAL_LABELS = 4;
 
 export function buildLine(input: LineInput): LineSpec {
   const locale = input.format.locale;
@@ -39,6 +44,8 @@ export function buildLine(input: LineInput): LineSpec {
   }
   const events = (input.events ?? []).filter((e) => Number.isInteger(e.index) && e.index >= 0 && e.index < points.length && e.label.trim() !== '');
   if (events.length > 0) spec.events = events.map((e) => ({ index: e.index, label: e.label.trim() }));
+  const unusual = unusualMarks(input, spec.marks);
+  if (unusual.length > 0) spec.unusual = { legend: input.unusual!.legend, points: unusual };
   return spec;
 }
 
@@ -65,6 +72,35 @@ function highLowMarks(points: PeriodPoint[], grain: Grain, fmt: ValueFormat): Li
     { role: 'high', index: high.index, text: text('High', high) },
     { role: 'low', index: low.index, text: text('Low', low) },
   ];
+}
+
+/**
+ * Rings for the flagged periods that are on the chart as complete values; labels ("Dec 2015: 284.5") for the
+ * MAX_UNUSUAL_LABELS furthest out (largest |score|) that are not already the marked high or low.
+ */
+function unusualMarks(input: LineInput, marks: readonly LineMark[]): LineUnusual[] {
+  const fmt = input.format;
+  const found = (input.unusual?.periods ?? []).flatMap((u) => {
+    const index = input.points.findIndex((p) => p.period === u.period);
+    const p = input.points[index];
+    return p && !p.partial && p.value !== null && Number.isFinite(p.value) ? [{ index, value: p.value, score: u.score }] : [];
+  });
+  const marked = new Set(marks.map((m) => m.index));
+  const labelled = new Set(
+    found
+      .filter((u) => !marked.has(u.index))
+      .sort((a, b) => Math.abs(b.score) - Math.abs(a.score))
+      .slice(0, MAX_UNUSUAL_LABELS)
+      .map((u) => u.index),
+  );
+  return found
+    .sort((a, b) => a.index - b.index)
+    .map((u) => ({
+      index: u.index,
+      text: `${formatPeriod(input.points[u.index]!.period, input.grain, fmt.locale)}: ${formatValue(u.value, fmt, { compact: true })}`,
+      above: u.score > 0,
+      labelled: labelled.has(u.index),
+    }));
 }
 
 function finiteOrNull(v: number | null): number | null {

@@ -11,6 +11,8 @@ import { font, INK, OKABE_ITO } from './theme.js';
 const MAIN = OKABE_ITO.blue;
 const OVERLAY = '#8FBFE0'; // Okabe–Ito sky blue, lightened: last year recedes behind this year.
 const EVENT = INK.text;
+// Okabe–Ito vermillion: the unusual periods' rings and labels stand apart from the blue line and its high/low dots.
+const UNUSUAL = OKABE_ITO.vermillion;
 
 export function drawLine(canvas: Canvas, spec: LineSpec): DrawResult {
   const ctx = canvas.getContext('2d');
@@ -21,6 +23,7 @@ export function drawLine(canvas: Canvas, spec: LineSpec): DrawResult {
     legend.push({ label: spec.overlay.label, color: OVERLAY, shape: 'line' });
   }
   if (hasPartial) legend.push({ label: 'Partial period', color: MAIN, shape: 'hollow' });
+  if (spec.unusual) legend.push({ label: spec.unusual.legend, color: UNUSUAL, shape: 'ring' });
   const layout = layoutFrame(ctx, spec, legend);
   const { u } = layout;
 
@@ -49,7 +52,7 @@ export function drawLine(canvas: Canvas, spec: LineSpec): DrawResult {
 
   const plotHeight = layout.plot.bottom - layout.plot.top - 50 * u;
   const labelRoom = 40 * u; // marker, gap, one line of bold text, padding
-  const headroom = spec.marks.length > 0 ? Math.min(0.5, (labelRoom / Math.max(1, plotHeight - 2 * labelRoom)) * 1.1) : 0.04;
+  const headroom = spec.marks.length > 0 || (spec.unusual?.points.length ?? 0) > 0 ? Math.min(0.5, (labelRoom / Math.max(1, plotHeight - 2 * labelRoom)) * 1.1) : 0.04;
 
   const datasets: ChartConfiguration<'line'>['data']['datasets'] = [
     {
@@ -202,6 +205,23 @@ function drawAnnotations(
     obstacles.push({ kind: 'box', box: { left: x - 8 * u, top: y - 8 * u, right: x + 8 * u, bottom: y + 8 * u }, weight: 100 });
   }
 
+  // Unusual periods: a vermillion ring around the point, wider than the high/low dot so both show on one point.
+  const rings = (spec.unusual?.points ?? []).flatMap((r) => {
+    const p = main[r.index];
+    return p ? [{ r, x: p.x, y: p.y }] : [];
+  });
+  for (const { x, y } of rings) {
+    ctx.save();
+    ctx.beginPath();
+    ctx.arc(x, y, 10 * u, 0, Math.PI * 2);
+    ctx.lineWidth = 3 * u;
+    ctx.strokeStyle = UNUSUAL;
+    ctx.stroke();
+    ctx.restore();
+    obstacles.push({ kind: 'box', box: { left: x - 12 * u, top: y - 12 * u, right: x + 12 * u, bottom: y + 12 * u }, weight: 100 });
+    out.push({ role: 'unusual', x, y, box: { left: x - 10 * u, top: y - 10 * u, right: x + 10 * u, bottom: y + 10 * u } });
+  }
+
   const labelFont = font(14 * u, true);
   // The plot, plus a sliver above it; never left of the y axis or over the x axis labels.
   const bounds = { left: area.left, top: area.top - (eventRoom > 0 ? 0 : 4 * u), right: area.right, bottom: area.bottom - 1 };
@@ -228,6 +248,32 @@ function drawAnnotations(
     drawBackedText(ctx, mark.text, box.left + pad, box.top + pad, { font: labelFont, color: INK.title, align: 'left', baseline: 'top', pad });
     obstacles.push({ kind: 'box', box, weight: 100 });
     out.push({ role: mark.role, x, y, box });
+  }
+
+  const unusualFont = font(13 * u, true);
+  for (const { r, x, y } of rings) {
+    if (!r.labelled) continue;
+    ctx.font = unusualFont;
+    const m = ctx.measureText(r.text);
+    const pad = 3 * u;
+    const w = m.width + 2 * pad;
+    const h = m.actualBoundingBoxAscent + m.actualBoundingBoxDescent + 2 * pad;
+    const chosen = pickPlacement(markCandidates(x, y, w, h, r.above, u, bounds), obstacles, bounds);
+    const box = chosen.box;
+    if (chosen.leader) {
+      const ty = box.top > y ? box.top : box.bottom;
+      ctx.save();
+      ctx.strokeStyle = UNUSUAL;
+      ctx.lineWidth = Math.max(1, u);
+      ctx.beginPath();
+      ctx.moveTo(x, y + (ty > y ? 10 * u : -10 * u));
+      ctx.lineTo(Math.min(Math.max(x, box.left + pad), box.right - pad), ty);
+      ctx.stroke();
+      ctx.restore();
+    }
+    drawBackedText(ctx, r.text, box.left + pad, box.top + pad, { font: unusualFont, color: UNUSUAL, align: 'left', baseline: 'top', pad });
+    obstacles.push({ kind: 'box', box, weight: 100 });
+    out.push({ role: 'unusual-label', x, y, box });
   }
 }
 

@@ -7,7 +7,7 @@ import type { ChartHeader } from './spec.js';
 import { ellipsize, wrapText } from './text.js';
 import { CHIP, font, INK, layoutUnit } from './theme.js';
 
-export type SwatchShape = 'line' | 'dashed' | 'box' | 'hollow' | 'whisker' | 'line-dot';
+export type SwatchShape = 'line' | 'dashed' | 'box' | 'hollow' | 'whisker' | 'line-dot' | 'ring';
 
 export interface LegendItem {
   label: string;
@@ -208,6 +208,12 @@ function drawSwatch(ctx: SKRSContext2D, item: LegendItem, x: number, y: number, 
         ctx.arc(x + w / 2, y, 4.5 * u, 0, Math.PI * 2);
         ctx.fill();
       }
+      break;
+    case 'ring':
+      ctx.lineWidth = 2.5 * u;
+      ctx.beginPath();
+      ctx.arc(x + w / 2, y, 7 * u, 0, Math.PI * 2);
+      ctx.stroke();
       break;
     case 'hollow':
       ctx.setLineDash([5 * u, 4 * u]);

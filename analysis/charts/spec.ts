@@ -49,6 +49,18 @@ export interface LineMark {
   text: string;
 }
 
+/** A period the outlier screen calls unusual (quality/series-outliers.ts), drawn as a ring on the line. */
+export interface LineUnusual {
+  /** Index into `points`. */
+  index: number;
+  /** "Dec 2015: 284.5"; drawn only when `labelled`. */
+  text: string;
+  /** Above what was usual for it (its label goes above the point), or below. */
+  above: boolean;
+  /** The few furthest out carry a label; a period that is also the high or low keeps that label alone. */
+  labelled: boolean;
+}
+
 export interface LineOverlay {
   /** Legend text, e.g. "Same month last year". */
   label: string;
@@ -74,6 +86,8 @@ export interface LineSpec extends ChartHeader {
   marks: LineMark[];
   overlay?: LineOverlay;
   events?: LineEvent[];
+  /** Unusual periods, ringed; `legend` says what the ring means ("Unusual for its season"). */
+  unusual?: { legend: string; points: LineUnusual[] };
 }
 
 // ---- bars -------------------------------------------------------------------------------

@@ -79,7 +79,28 @@ export function statedMetric(answer: Answer, metric: Metric): Metric {
   return perDay ? perDayMetric(metric) : metric;
 }
 
-/** The answer's series of `metric` as a line chart (high and low marked), or null with no values. */
+/**
+ * The periods of `metric` the outlier screen flagged (its `outlier` caveats, quality/series-outliers.ts), for rings on
+ * the line, and what a ring means: unusual for its season when the season and trend judged, else among the values.
+ */
+export function unusualOnChart(answer: Answer, metric: Metric): { legend: string; periods: { period: string; score: number }[] } | undefined {
+  const caveats = answer.caveats.filter((c) => c.code === 'outlier' && c.data.metric === metric.name);
+  // A lone period's caveat carries it; several are said as one caveat (quality/thread-notes.ts) listing them in `flagged`.
+  const periods = caveats.flatMap((c) => {
+    if (typeof c.data.period === 'string' && typeof c.data.score === 'number') return [{ period: c.data.period, score: c.data.score }];
+    if (typeof c.data.flagged !== 'string') return [];
+    return c.data.flagged.split(',').flatMap((pair) => {
+      const at = pair.lastIndexOf(':');
+      const score = Number(pair.slice(at + 1));
+      return at > 0 && Number.isFinite(score) ? [{ period: pair.slice(0, at), score }] : [];
+    });
+  });
+  if (periods.length === 0) return undefined;
+  const seasonal = caveats.every((c) => c.data.rule === 'seasonal' || c.data.rule === 'seasonal_and_values');
+  return { legend: seasonal ? 'Unusual for its season' : 'Unusual among the values', periods };
+}
+
+/** The answer's series of `metric` as a line chart (high and low marked, unusual periods ringed), or null with no values. */
 export function seriesLineChart(
   answer: Answer,
   metric: Metric,
@@ -91,6 +112,7 @@ export function seriesLineChart(
   if (!series || !series.points.some((p) => p.value !== null)) return null;
   const extra = overlay?.(series.points);
   const header = chartHeader(answer, metric, title, ctx);
+  const unusual = unusualOnChart(answer, metric);
   return buildLine({
     ...header,
     ...(series.perDay ? { subtitle: `${header.subtitle} · average a day` } : {}),
@@ -99,5 +121,6 @@ export function seriesLineChart(
     points: series.points,
     format: valueFormatOf(metric, ctx.locale),
     ...(extra ? { overlay: extra } : {}),
+    ...(unusual ? { unusual } : {}),
   });
 }

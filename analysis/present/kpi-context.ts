@@ -8,7 +8,7 @@ import { metricByName } from '../catalog.js';
 import type { KpiContextFinding } from '../findings/kpi.js';
 import { valueFormatOf } from '../format.js';
 import type { Finding } from '../types.js';
-import { caveatNotes } from './header.js';
+import { caveatNotes, unusualOnChart } from './header.js';
 import { findingOf, kpiHeader, kpiNotes, kpiSubtitle } from './kpi-header.js';
 
 import type { Presenter } from './presenter.js';
@@ -25,12 +25,14 @@ export const presentKpiContext: Presenter = (answer, ctx) => {
   }
   const words = kpiContextWords(f, metric, ctx.dataset, ctx.audience, ctx.locale);
   const what = `${periodName(f.firstPeriod, f.grain, ctx.locale)} to ${periodName(f.period, f.grain, ctx.locale)}, ${grainAdjective(f.grain)}; latest complete: ${periodName(f.period, f.grain, ctx.locale)}`;
+  const unusual = unusualOnChart(answer, metric);
   const chart = buildLine({
     ...kpiHeader(answer, metric, words.title, kpiSubtitle(answer, metric, ctx, what), ctx),
     seriesLabel: metric.label,
     grain: sq.grain,
     points: series.points,
     format: valueFormatOf(metric, ctx.locale),
+    ...(unusual ? { unusual } : {}),
   });
   // The caption already says when the latest period is an outlier; other unusual periods stay in the notes.
   const notes = caveatNotes({ ...answer, caveats: answer.caveats.filter((c) => !(c.code === 'outlier' && c.data.period === f.period && f.outlier)) }, ctx);

@@ -92,6 +92,8 @@ export function summariseOutliers(caveats: readonly Caveat[]): Caveat[] {
       ...(group[0]!.data.rule !== undefined ? { rule: group[0]!.data.rule } : {}),
       ...(group[0]!.data.cycle !== undefined ? { cycle: group[0]!.data.cycle } : {}),
       ...(group[0]!.data.fallback !== undefined ? { fallback: group[0]!.data.fallback } : {}),
+      // Every period with its score ("2015-05-01:12.4,..."), for the rings on the chart (present/header.ts unusualOnChart).
+      flagged: group.map((c) => `${String(c.data.period)}:${Number(c.data.score ?? 0)}`).join(','),
     };
     // A few: one note naming each in time order ("March 2012 and December 2015 are unusual ..."), not one note apiece.
     if (group.length <= OUTLIERS_NAMED) {
