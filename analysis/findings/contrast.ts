@@ -2,7 +2,8 @@
 // values of one dimension, each in the span asked about and the span it is compared with, their
 // growth, the gap between them, and the tests the data allows. Numbers and ISO dates only.
 import type { MetricKind } from '../../config/schema.js';
-import type { LogShift } from '../stats/log-shift.js';
+import type { DifferenceShift, LogShift } from '../stats/log-shift.js';
+import type { ChangeBasis } from './table.js';
 import type { DateWindow, Grain, PeriodPoint, SpanEndsUnit } from '../types.js';
 import type { DifferenceTest, NoTestReason } from './performance.js';
 
@@ -12,7 +13,7 @@ export interface ContrastSide {
   /** The metric over the span asked about and over the span it is compared with. */
   current: number | null;
   prior: number | null;
-  /** current / prior − 1 (null on a missing or non-positive base). */
+  /** current / prior − 1 (null on a missing or non-positive base, or where no percentage of the metric applies: `basis`). */
   growth: number | null;
   /** current − prior, in the metric's units (points for a rate). */
   change: number | null;
@@ -35,6 +36,12 @@ export interface ValueCompareFinding {
   dimension: string;
   /** How the metric adds up: growth of a flow is a percentage, of a rate a change in points. */
   metricKind: MetricKind;
+  /**
+   * How each value's change and the gap between them are stated (catalog.ts changeBasisOf, the one
+   * rule): percent for a flow, points for a rate, units for a temperature or a metric whose values
+   * reach or cross zero (an average delay). Absent in findings written before it: percent.
+   */
+  basis?: ChangeBasis;
   current: DateWindow;
   prior: DateWindow;
   /**
@@ -63,6 +70,11 @@ export interface ValueCompareFinding {
    * relative change, tested over per-period log ratios (analysis/stats/log-shift.ts).
    */
   relativeGrowth: (LogShift & { periods: Grain }) | null;
+  /**
+   * With `basis` units or points: first − second, current against prior, as a difference in the
+   * metric's units, tested over per-period differences (analysis/stats/log-shift.ts differenceShift).
+   */
+  gapShift?: (DifferenceShift & { periods: Grain }) | null;
   /** Why there is no growth test, when there is none. */
   noGrowthTest: 'too_few_periods' | 'not_positive' | 'not_poolable' | 'missing_side' | null;
   /** first against second over the span asked about, for a mean, share or ratio (none for a flow). */

@@ -60,3 +60,33 @@ export function logShift(before: readonly number[], after: readonly number[], co
     nAfter: a.length,
   };
 }
+
+/**
+ * The same shift on a scale where ratios mean nothing (a temperature, an average delay that goes
+ * below zero, a rate in points: catalog.ts changeBasisOf): each period gives one difference
+ * (first − second, in the metric's units), and the shift is the mean difference after minus the
+ * mean before, with Welch's t-test across periods: the difference in differences with period
+ * effects, stated in units.
+ */
+export interface DifferenceShift {
+  /** Mean difference after − mean difference before, in the metric's units. */
+  estimate: number;
+  ci: [number, number];
+  confidence: number;
+  t: number;
+  df: number;
+  pValue: number;
+  standardError: number;
+  nBefore: number;
+  nAfter: number;
+}
+
+/** The shift from `before` to `after` (per-period differences); null with fewer than two periods a side or no spread at all. */
+export function differenceShift(before: readonly number[], after: readonly number[], confidence = 0.95): DifferenceShift | null {
+  const b = before.filter(Number.isFinite);
+  const a = after.filter(Number.isFinite);
+  if (a.length < 2 || b.length < 2) return null;
+  const r = welchTTest(moments(a), moments(b), confidence);
+  if (!r) return null;
+  return { estimate: r.difference, ci: r.ci, confidence, t: r.t, df: r.df, pValue: r.pValue, standardError: r.standardError, nBefore: b.length, nAfter: a.length };
+}

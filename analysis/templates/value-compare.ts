@@ -5,13 +5,13 @@
 // (whatever moves both alike in a period cancels), and, for a mean, share or ratio, a test of the
 // two values' levels in the span asked about (Welch, two-proportion z, delta method).
 import type { Metric } from '../../config/schema.js';
-import { groupableDimension, isAdditive, metricByName, metricKind } from '../catalog.js';
+import { changeBasisOf, groupableDimension, isAdditive, metricByName, metricKind } from '../catalog.js';
 import { type CompileContext, dateRanges, datesCondition, localDateExpr, type PeriodScope, periodScope, rowCountSql, segmentConditions, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import type { ContrastSide, PerDaySide, ValueCompareFinding } from '../findings/contrast.js';
 import { addDays, nextPeriod, periodStart, parseIsoDate } from '../periods.js';
 import { QueryBuilder } from '../sql/query-builder.js';
-import { logRatio, logShift } from '../stats/log-shift.js';
+import { differenceShift, logRatio, logShift } from '../stats/log-shift.js';
 import type { Caveat, CellValue, DateWindow, Finding, Grain, NamedQuery, PeriodPoint, ResultTable, SpanEndsUnit, SubQuestion } from '../types.js';
 import { spanEnds } from './span-ends.js';
 import { askedPrior, comparisonWindow as nonOverlapping, earlierSpanData, priorWindow } from './growth-compare.js';
@@ -291,6 +291,11 @@ export function readValueCompare(sq: SubQuestion, tables: Record<string, ResultT
   const sidesTable = tables.sides;
   const minimum = minGroupSize(dataset);
 
+  // The one rule for stating the metric's change (catalog.ts changeBasisOf): the days' values of
+  // both sides decide with the metric's unit and the dataset's own reading of its signs, so a
+  // temperature or an average delay is compared in its units, a rate in points, a flow in percent.
+  const dayValue = (p: Piece) => (p.cell ? cellEstimate(p.cell) : p.value);
+  let basis = changeBasisOf(metric, days.map(dayValue));
   const sideOf = (value: string): ContrastSide & { cell: Cell | null } => {
     const own = days.filter((p) => p.key === value);
     let cur = pooled(own.filter((p) => inSpan(p, spans.current)), metric, shape);
@@ -304,15 +309,21 @@ export function readValueCompare(sq: SubQuestion, tables: Record<string, ResultT
     // Below the minimum group size a value's rows never leave the database: only that it is too small.
     const suppressed = minimum !== null && (tables.sizes?.rows ?? []).some((r) => String(r.tc_key) === value && r.tc_shown === false);
     const change = cur.value !== null && pri.value !== null ? cur.value - pri.value : null;
-    const growth = cur.value !== null && pri.value !== null && pri.value > 0 ? cur.value / pri.value - 1 : null;
+    const growth = basis === 'percent' && cur.value !== null && pri.value !== null && pri.value > 0 ? cur.value / pri.value - 1 : null;
     return { value, current: cur.value, prior: pri.value, growth, change, rowsCurrent: cur.rows, rowsPrior: pri.rows, suppressed, cell: cur.cell };
   };
+  // The spans' own figures can cross zero where no day did (a side pooled from one early flight).
+  const spanBasis = changeBasisOf(metric, days.map(dayValue).concat(c.values.flatMap((v) => { const s = sideOf(v); return [s.current, s.prior]; })));
+  if (spanBasis !== basis) basis = spanBasis;
   const [a, b] = [sideOf(c.values[0]), sideOf(c.values[1])];
 
   // The growth test: per period, the log of first over second, in the compared span and in the span asked about.
   const periods = testPeriods(spans, coverage);
   let relativeGrowth: ValueCompareFinding['relativeGrowth'] = null;
+  let gapShift: ValueCompareFinding['gapShift'] = null;
   let noGrowthTest: ValueCompareFinding['noGrowthTest'] = null;
+  // Per period: log(first / second) where percentages apply, else first − second in units.
+  const perPeriod = (x: number | null, y: number | null): number | null => (basis === 'percent' ? logRatio(x, y) : x !== null && y !== null ? x - y : null);
   if (!poolable(metric, shape)) noGrowthTest = 'not_poolable';
   else if (a.rowsPrior === 0 || b.rowsPrior === 0 || a.rowsCurrent === 0 || b.rowsCurrent === 0) noGrowthTest = 'missing_side';
   else {
@@ -328,7 +339,7 @@ export function readValueCompare(sq: SubQuestion, tables: Record<string, ResultT
       }
       const out: number[] = [];
       for (const block of blocks.values()) {
-        const r = logRatio(pooled(block.a, metric, shape).value, pooled(block.b, metric, shape).value);
+        const r = perPeriod(pooled(block.a, metric, shape).value, pooled(block.b, metric, shape).value);
         if (r === null) return null;
         out.push(r);
       }
@@ -338,9 +349,15 @@ export function readValueCompare(sq: SubQuestion, tables: Record<string, ResultT
     const after = ratios(spans.current);
     if (!before || !after) noGrowthTest = 'not_positive';
     else {
-      const shift = logShift(before, after, CONFIDENCE);
-      if (shift) relativeGrowth = { ...shift, periods: periods.grain };
-      else noGrowthTest = 'too_few_periods';
+      if (basis === 'percent') {
+        const shift = logShift(before, after, CONFIDENCE);
+        if (shift) relativeGrowth = { ...shift, periods: periods.grain };
+        else noGrowthTest = 'too_few_periods';
+      } else {
+        const shift = differenceShift(before, after, CONFIDENCE);
+        if (shift) gapShift = { ...shift, periods: periods.grain };
+        else noGrowthTest = 'too_few_periods';
+      }
     }
   }
 
@@ -360,7 +377,7 @@ export function readValueCompare(sq: SubQuestion, tables: Record<string, ResultT
   const perDay = (s: ContrastSide): PerDaySide => {
     const current = s.current === null ? null : s.current / dc;
     const prior = s.prior === null ? null : s.prior / dp;
-    return { current, prior, growth: current !== null && prior !== null && prior > 0 ? current / prior - 1 : null };
+    return { current, prior, growth: basis === 'percent' && current !== null && prior !== null && prior > 0 ? current / prior - 1 : null };
   };
   const lengths = dc !== dp && dc > 0 && dp > 0 ? { current: dc, prior: dp, perDay: isAdditive(metric) ? { first: perDay(a), second: perDay(b) } : null } : null;
   const gap = (x: number | null, y: number | null) => (x !== null && y !== null ? x - y : null);
@@ -369,6 +386,7 @@ export function readValueCompare(sq: SubQuestion, tables: Record<string, ResultT
     metric: metric.name,
     dimension: c.dimension,
     metricKind: metricKind(dataset, metric),
+    basis,
     current: spans.current,
     prior: spans.prior,
     priorBasis: spans.basis,
@@ -381,6 +399,7 @@ export function readValueCompare(sq: SubQuestion, tables: Record<string, ResultT
     growthGap: gap(a.growth, b.growth),
     changeGap: gap(a.change, b.change),
     relativeGrowth,
+    gapShift,
     noGrowthTest,
     level,
     noLevelTest,

@@ -85,7 +85,7 @@ describe('reading a change since a start', () => {
 });
 
 describe('answering a change since a start', () => {
-  it('sets the first whole year against the last, and says a fifteen-fold rise as a multiple', async () => {
+  it('sets the first whole year against the last, and says a level\'s change in its units (catalog.ts changeBasisOf)', async () => {
     const truth = await generation();
     const brief = read('Renewables vs fossil fuels: how has their generation changed since 2001?');
     const plan = buildPlan(withDefaults(brief, briefDefaults(brief, ws.dataset, ws.coverage)), ws.dataset, ws.coverage);
@@ -103,14 +103,19 @@ describe('answering a change since a start', () => {
     expect(f.first.current).toBeCloseTo(truth.get('Renewables 2017')!, 6);
     expect(f.second.prior).toBeCloseTo(truth.get('Fossil Fuels 2001')!, 6);
     expect(f.second.current).toBeCloseTo(truth.get('Fossil Fuels 2017')!, 6);
-    expect(f.second.growth).toBeCloseTo(29329 / 35361 - 1, 10);
+    // Net generation is declared a level here (test/helpers/open-data.ts): its change is a
+    // difference in its units, never a percentage of itself (catalog.ts changeBasisOf).
+    expect(f.basis).toBe('units');
+    expect(f.second.growth).toBeNull();
+    expect(f.second.change).toBeCloseTo(truth.get('Fossil Fuels 2017')! - truth.get('Fossil Fuels 2001')!, 6);
+    expect(f.changeGap).toBeCloseTo(21933 - 1437 - (29329 - 35361), 6);
 
     const p = SUB_QUESTIONS.value_compare.present(answer, presentContext(ws, 'managers'));
     expect(p.caption).toContain('2017 against 2001');
-    // 21,933 / 1,437 = 15.26: said as ×15, not +1,426%; the fall of fossil fuels stays a percentage.
-    expect(p.title).toContain('\u00d715');
-    expect(p.title).toContain('\u221217.1%');
-    expect(p.caption).not.toMatch(/1,426%|pts/);
+    // Renewables +20,496 and fossil fuels −6,032, in units: no percentage, multiple or points.
+    expect(p.title).toContain('+20.5K');
+    expect(p.title).toContain('\u22126.03K');
+    expect(p.caption).not.toMatch(/%|pts|\u00d7/);
     expect(captionProblems(answer, p)).toEqual([]);
     // The chart shows the whole stretch, not only its two ends.
     const series = answer.findings.filter((x) => x.type === 'value_compare_series');

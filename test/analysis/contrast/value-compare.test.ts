@@ -99,9 +99,15 @@ describe('value_compare', () => {
     const answer = await answerSubQuestion(base({ metrics: ['refund_rate'], window: { start: '2024-01-01', end: '2025-01-01' } }), ws);
     const f = answer.findings.find((x): x is ValueCompareFinding => x.type === 'value_compare')!;
     expect(f.level?.test).toBe('two_proportion_z');
-    expect(f.relativeGrowth?.periods).toBe('month');
+    // A rate's gap moves in points (catalog.ts changeBasisOf): the growth test is on per-month
+    // differences of the two rates, not on their log ratios.
+    expect(f.basis).toBe('points');
+    expect(f.relativeGrowth).toBeNull();
+    expect(f.gapShift?.periods).toBe('month');
+    expect(f.first.growth).toBeNull();
     const p = SUB_QUESTIONS.value_compare.present(answer, presentContext(ws, 'managers'));
     expect(p.caption).toMatch(/pts/);
+    expect(p.caption).not.toMatch(/[+\u2212]\d[\d.]*%/);
     expect(captionProblems(answer, p)).toEqual([]);
   });
 
