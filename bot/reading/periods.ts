@@ -519,7 +519,10 @@ export function findPeriods(text: RequestText, ctx: PeriodContext): PeriodMentio
     if (!(/^\s*(?:-|to|until|till|through|thru)\s*$/.test(gap) || (between && /^\s*and\s*$/.test(gap)) || (from && /^\s*(?:-|to|until|till|through|thru)\s*$/.test(gap)))) continue;
     const [wa, wb] = rangeEnds(a, b, ctx);
     const start = (from || between) ? before.search(/\b(?:from|between)\s+$/) + Math.max(0, a.start - 12) : a.start;
-    mentions.push({ start, end: b.end, window: { start: wa.start, end: wb.end }, unit: 'span', relative: false, compared: false, words: text.quote({ start, end: b.end }) });
+    // "between 2005 and 2009", "from January to June": a change over the range runs from its first
+    // named period to its last, as "since 2005" does (never the last year against the one before).
+    const sameUnit = a.unit === b.unit && (a.unit === 'year' || a.unit === 'quarter' || a.unit === 'month') && wa.start < wb.start;
+    mentions.push({ start, end: b.end, window: { start: wa.start, end: wb.end }, unit: 'span', relative: false, compared: false, words: text.quote({ start, end: b.end }), ...(sameUnit ? { startUnit: a.unit as 'year' | 'quarter' | 'month' } : {}) });
     used.add(a);
     used.add(b);
     i++;
