@@ -201,7 +201,30 @@ export function spansVerdict(metric: Metric, f: SpansTotals, locale: string): Ve
   // A rate or share is above or below by points, not by a percentage of itself.
   const by = metric.unit === 'percent' && f.total.change !== null ? valueText(Math.abs(f.total.change), metric, locale, true).replace(/^\+/, '') : unsignedPercent(rel, locale);
   const where = direction === 'level' ? `level with ${base.replace(/ \(/, ` (${formatChange(rel, locale)}, `)}` : `${by} ${direction === 'up' ? 'above' : 'below'} ${base}`;
-  return { direction, higherIsBetter: metricDirection(metric), statement: wholeYears(current) ? `${label} in ${spanText(current, locale)} ${verbFor(label, 'was')} ${where}` : `${label} ${verbFor(label)} ${where}` };
+  const statement = wholeYears(current) ? `${label} in ${spanText(current, locale)} ${verbFor(label, 'was')} ${where}` : `${label} ${verbFor(label)} ${where}`;
+  const other = otherBasisClause(f, metric, locale);
+  return { direction, higherIsBetter: metricDirection(metric), statement: other ? `${statement}; ${other}` : statement };
+}
+
+/**
+ * When the two spans differ in days and the change per day goes the other way from the change in
+ * total (or the reverse, for a comparison asked per day), the verdict says so: a bare "No" on
+ * June's total against January's would hide that June, a day shorter, was busier per day.
+ */
+function otherBasisClause(f: SpansTotals, metric: Metric, locale: string): string | null {
+  const rel = f.total.relative;
+  if (rel === null || !Number.isFinite(rel)) return null;
+  if (f.perDay) {
+    const { totals, days } = f.perDay;
+    if (totals.relative === null || !Number.isFinite(totals.relative) || directionOf(totals.relative) === directionOf(rel)) return null;
+    return `in total, though, it ${totalVerb(totals.relative, locale)} (${days.after} days against ${days.before})`;
+  }
+  const [dc, dp] = [daysBetween(f.current.start, f.current.end), daysBetween(f.prior.start, f.prior.end)];
+  const { before, after } = f.total;
+  if (dc === dp || dc <= 0 || dp <= 0 || !isAdditive(metric) || !f.additive || before === null || after === null || before <= 0) return null;
+  const perDay = after / dc / (before / dp) - 1;
+  if (directionOf(perDay) === directionOf(rel)) return null;
+  return `per day, though, it ${totalVerb(perDay, locale)} (${dc} days against ${dp})`;
 }
 
 /**

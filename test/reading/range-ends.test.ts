@@ -5,7 +5,7 @@
 // Data: vega-datasets' flights-3m.parquet (US domestic flights, January to June 2001, FAA on-time
 // data as packaged by vega-datasets) and weather.csv (NOAA daily weather, Seattle and New York,
 // 2012–2015). Expected figures come from the test's own DuckDB SQL over the files.
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { DuckDBInstance } from '@duckdb/node-api';
@@ -37,6 +37,9 @@ datasets:
 `);
 });
 
+const flightsOf = () => flights;
+const weatherOf = () => weather;
+
 interface BriefJson {
   questions: { kind: string; window: { from: string; to: string } | null; compareWindow: unknown; spanEnds: string | null }[];
 }
@@ -56,16 +59,28 @@ async function sqlRows(query: string): Promise<unknown[][]> {
 }
 
 describe('a change over a range with two named ends', () => {
+  // Either reading sets the two ends against each other: a change verb before "from <month> to
+  // <month>" names the two months as the periods compared; any other range keeps its stretch (for
+  // the trend) and marks its ends, which the growth answers compare.
   it.each([
-    ['did flights grow from January to June?', 'flights', 'month', { from: '2001-01-01', to: '2001-06-30' }],
     ['how much did departures change between March and May', 'flights', 'month', { from: '2001-03-01', to: '2001-05-31' }],
     ['which city got wetter between 2012 and 2015', 'weather', 'year', { from: '2012-01-01', to: '2015-12-31' }],
-    ['rainfall growth from Q1 2013 to Q4 2014 by city', 'weather', 'quarter', { from: '2013-01-01', to: '2014-12-31' }],
-  ])('reads "%s" (%s) as its first whole period against its last', async (text, which, unit, window) => {
+    ['rainfall by city from 2013 to 2015: which grew most?', 'weather', 'year', { from: '2013-01-01', to: '2015-12-31' }],
+    ['monthly flights Feb to May, up or down?', 'flights', 'month', { from: '2001-02-01', to: '2001-05-31' }],
+  ])('reads "%s" (%s) as a stretch whose first whole period is set against its last', async (text, which, unit, window) => {
     const q = (await read(which === 'flights' ? flights : weather, text)).questions[0]!;
     expect(q.window).toEqual(window);
     expect(q.compareWindow).toBeNull();
     expect(q.spanEnds).toBe(unit);
+  });
+
+  it.each([
+    ['did flights grow from January to June?', flightsOf, { from: '2001-06-01', to: '2001-06-30' }, { from: '2001-01-01', to: '2001-01-31' }],
+    ['rainfall growth from Q1 2013 to Q4 2014 by city', weatherOf, { from: '2014-10-01', to: '2014-12-31' }, { from: '2013-01-01', to: '2013-03-31' }],
+  ])('reads "%s" as its last named period against its first', async (text, config, window, compareWindow) => {
+    const q = (await read(config(), text)).questions[0]!;
+    expect(q.window).toEqual(window);
+    expect(q.compareWindow).toEqual(compareWindow);
   });
 
   it('leaves a range inside one period, and a range of days, as a plain window', async () => {
@@ -79,7 +94,8 @@ describe('a change over a range with two named ends', () => {
     expect(r.code, r.err).toBe(0);
     const [[jan, jun]] = (await sqlRows(`SELECT COUNT(*) FILTER (WHERE date >= DATE '2001-01-01' AND date < DATE '2001-02-01'),
         COUNT(*) FILTER (WHERE date >= DATE '2001-06-01' AND date < DATE '2001-07-01') FROM read_parquet('${FLIGHTS}')`)) as [[bigint, bigint]];
-    const csv = readFileSync(join(out, 'tables', '02-growth_drivers-flights.csv'), 'utf8').trim().split('\n');
+    const driversCsv = readdirSync(join(out, 'tables')).find((f) => /growth_drivers/.test(f))!;
+    const csv = readFileSync(join(out, 'tables', driversCsv), 'utf8').trim().split('\n');
     const head = csv[0]!.split(',');
     const rows = csv.slice(1).map((l) => l.split(','));
     // One row per origin and window (the rollup's subtotal rows carry a grouping flag of 1).
@@ -88,12 +104,19 @@ describe('a change over a range with two named ends', () => {
     expect(total('current')).toBe(Number(jun));
     expect(total('prior')).toBe(Number(jan));
     const posts = (JSON.parse(readFileSync(join(out, 'thread.json'), 'utf8')) as { posts: { text: string }[] }).posts.map((p) => p.text);
-    const drivers = posts.find((t) => /^\*2\. /.test(t))!;
+    const drivers = posts.find((t) => /^\*\d+\. [^\n]*drove the biggest change/.test(t))!;
     expect(drivers).toContain('Jun 2001 against Jan 2001');
     // January has 31 days and June 30: the per-day figures the caption gives, from the same counts.
     const perDay = (n: bigint, days: number) => Math.round(Number(n) / days).toLocaleString('en-GB');
     expect(drivers).toContain(`${perDay(jun, 30)} against ${perDay(jan, 31)} a day`);
     // Nothing says there is no year earlier to compare with: the range's own ends are compared.
     expect(posts.join('\n')).not.toMatch(/no flights in either span/);
+    // The verdict answers "did it grow?" on the totals, and says per day went the other way.
+    const summary = posts.find((t) => t.startsWith('*Summary*'))!;
+    const perDayRise = (Number(jun) / 30 / (Number(jan) / 31) - 1) * 100;
+    expect(perDayRise).toBeGreaterThan(0);
+    expect(Number(jun)).toBeLessThan(Number(jan));
+    expect(summary).toContain(`No: flights are ${((1 - Number(jun) / Number(jan)) * 100).toFixed(1)}% below Jan 2001`);
+    expect(summary).toContain(`per day, though, it rose ${perDayRise.toFixed(1)}% (30 days against 31)`);
   }, 300_000);
 });

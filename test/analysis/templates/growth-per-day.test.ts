@@ -44,7 +44,7 @@ describe('growth asked per day (flights-3m.parquet, January against June 2001)',
 
   it('compares the two months by their daily averages, and says the totals fell', async () => {
     expect([truth.janDays, truth.junDays]).toEqual([31, 30]);
-    const a = await answerSubQuestion({ ...base, template: 'growth_periods' } as SubQuestion, ws);
+    const a = await answerSubQuestion({ ...base, template: 'growth_periods' } as unknown as SubQuestion, ws);
     const f = a.findings.find((x): x is GrowthPeriodsFinding => x.type === 'growth_periods')!;
     expect(f.perDay?.days).toEqual({ before: 31, after: 30 });
     expect(Math.abs(f.total.before! - truth.jan / 31)).toBeLessThan(1e-9);
@@ -62,7 +62,7 @@ describe('growth asked per day (flights-3m.parquet, January against June 2001)',
   }, 120_000);
 
   it('splits the change in flights per day by origin, the parts adding up to the total per day', async () => {
-    const a = await answerSubQuestion({ ...base, lens: 'breakdown', template: 'growth_drivers', dimension: 'origin' } as SubQuestion, ws);
+    const a = await answerSubQuestion({ ...base, lens: 'breakdown', template: 'growth_drivers', dimension: 'origin' } as unknown as SubQuestion, ws);
     const f = a.findings.find((x): x is GrowthDriversFinding => x.type === 'growth_drivers')!;
     expect(Math.abs(f.total.change! - (truth.jun / 30 - truth.jan / 31))).toBeLessThan(1e-9);
     const top = f.segments[0]!;
