@@ -8,7 +8,7 @@ import { addDays, addMonths } from '../periods.js';
 import { TINY_BASE_FRACTION } from '../stats/index.js';
 import type { Answer, Audience, Caveat, Grain } from '../types.js';
 import { caveatNote } from './caveat-text.js';
-import { nounFor, pluralNoun } from './grammar.js';
+import { listJoin, nounFor, pluralNoun } from './grammar.js';
 
 /** Changes smaller than this read as "held flat" in plain words (a rule of thumb; the number is still given). */
 export const FLAT_BAND = 0.01;
@@ -120,7 +120,45 @@ export function plural(noun: string, n: number | null = 2): string {
  */
 export function growthNotes(answer: Answer, locale: string, dataset: DatasetConfig): string[] {
   const dimension = answer.subQuestion.dimension ?? '';
-  return [...new Set(answer.caveats.map((c) => growthNote(c, locale, dimension, dataset)))];
+  const opened = answer.caveats.filter((c) => c.code === 'late_segment');
+  const gone = answer.caveats.filter((c) => c.code === 'segment_gap' && c.data.window === 'current');
+  // Many segments new or gone between the two spans (airports opening through a half-year) make
+  // one note each a wall of notes: past a few, one note lists them.
+  const grouped = new Set<Caveat>([...(opened.length > GROUP_NOTES_ABOVE ? opened : []), ...(gone.length > GROUP_NOTES_ABOVE ? gone : [])]);
+  const notes = answer.caveats.filter((c) => !grouped.has(c)).map((c) => growthNote(c, locale, dimension, dataset));
+  if (opened.length > GROUP_NOTES_ABOVE) notes.push(openedNote(opened, locale, dimension, dataset));
+  if (gone.length > GROUP_NOTES_ABOVE) notes.push(goneNote(gone, locale, dimension, dataset));
+  return [...new Set(notes)];
+}
+
+/** Up to this many new-or-gone segments get a note each. */
+const GROUP_NOTES_ABOVE = 2;
+/** Segments named in a grouped note before "and N more". */
+const NAMED_IN_GROUP = 6;
+
+function namedList(names: readonly string[]): string {
+  const shown = names.slice(0, NAMED_IN_GROUP);
+  return names.length > shown.length ? `${shown.join(', ')} and ${names.length - shown.length} more` : listJoin(shown);
+}
+
+/** "4 origin airports have no data in Jan 2001 and count as zero there: MQT (first seen 3 March 2001), AKN and DLG (14 April 2001), …" */
+function openedNote(cs: readonly Caveat[], locale: string, dimension: string, dataset: DatasetConfig): string {
+  const label = lower(dimensionLabel(dimension, dataset));
+  const byDay = new Map<string, string[]>();
+  for (const c of [...cs].sort((a, b) => String(a.data.firstPeriod).localeCompare(String(b.data.firstPeriod)))) {
+    const day = typeof c.data.firstPeriod === 'string' ? formatPeriod(c.data.firstPeriod, 'day', locale, 'long') : 'a later date';
+    byDay.set(day, [...(byDay.get(day) ?? []), String(c.data.segment)]);
+  }
+  const parts = [...byDay].map(([day, names], i) => `${listJoin(names)} (${i === 0 ? 'first seen ' : ''}${day})`);
+  const shown = parts.slice(0, NAMED_IN_GROUP);
+  const rest = cs.length - [...byDay.values()].slice(0, NAMED_IN_GROUP).reduce((n, names) => n + names.length, 0);
+  return `${cs.length} ${plural(label, cs.length)} have no data ${earlierText(cs[0]!.data, locale)} and count as zero there: ${shown.join(', ')}${rest > 0 ? ` and ${rest} more` : ''}.`;
+}
+
+/** "3 origin airports had data in Jan 2001 but none in the window asked for: APF, DRO and EGE." */
+function goneNote(cs: readonly Caveat[], locale: string, dimension: string, dataset: DatasetConfig): string {
+  const label = lower(dimensionLabel(dimension, dataset));
+  return `${cs.length} ${plural(label, cs.length)} had data ${earlierText(cs[0]!.data, locale)} but none in the window asked for: ${namedList(cs.map((c) => String(c.data.segment)))}.`;
 }
 
 /**

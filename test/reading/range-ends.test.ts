@@ -109,6 +109,17 @@ describe('a change over a range with two named ends', () => {
     // January has 31 days and June 30: the per-day figures the caption gives, from the same counts.
     const perDay = (n: bigint, days: number) => Math.round(Number(n) / days).toLocaleString('en-GB');
     expect(drivers).toContain(`${perDay(jun, 30)} against ${perDay(jan, 31)} a day`);
+    // Airports flying in January and not in June (the test's own SQL): one note lists them, not one note each.
+    const [[goneList]] = (await sqlRows(`WITH s AS (SELECT origin, COUNT(*) FILTER (WHERE date >= DATE '2001-01-01' AND date < DATE '2001-02-01') AS j,
+        COUNT(*) FILTER (WHERE date >= DATE '2001-06-01' AND date < DATE '2001-07-01') AS u FROM read_parquet('${FLIGHTS}') GROUP BY 1)
+      SELECT list(origin ORDER BY origin) FILTER (WHERE j > 0 AND u = 0) FROM s`)) as [[{ items: string[] }]];
+    const gone = goneList.items;
+    expect(gone.length).toBeGreaterThan(2);
+    const notes = drivers.split('\n').filter((l) => l.startsWith('_Note:'));
+    const goneNotes = notes.filter((l) => /but none in the window asked for/.test(l));
+    expect(goneNotes).toHaveLength(1);
+    expect(goneNotes[0]).toContain(`${gone.length} origin airports had data in Jan 2001 but none in the window asked for: ${gone.slice(0, 6).join(', ')}`);
+    expect(notes.filter((l) => /count as zero there|counts as zero/.test(l))).toHaveLength(1);
     // Nothing says there is no year earlier to compare with: the range's own ends are compared.
     expect(posts.join('\n')).not.toMatch(/no flights in either span/);
     // The verdict answers "did it grow?" on the totals, and says per day went the other way.
