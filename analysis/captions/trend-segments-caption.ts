@@ -16,7 +16,12 @@ type Dim = Pick<Dimension, 'label'>;
  * a percentage has no base or the span is under a year, the slope in units ("+0.3 min a week (trend)").
  */
 export function segmentGrowthText(t: SegmentTrendFinding, locale: string, withYears = true, measure?: SegmentGrowthMeasure, fmt?: ValueFormat): string | null {
-  if (measure === 'units') return t.slopePerPeriod === null || !fmt ? null : `${formatValue(t.slopePerPeriod, fmt, { signed: true })} a ${t.grain}${withYears ? ' (trend)' : ''}`;
+  if (measure === 'units') {
+    if (t.slopePerPeriod === null || !fmt) return null;
+    // A rate's slope is a move in points ("+0.12 pts a month"), never a percentage of itself.
+    const slope = fmt.unit === 'percent' ? formatPointChange(t.slopePerPeriod, locale, { signed: true, slope: true }) : formatValue(t.slopePerPeriod, fmt, { signed: true });
+    return `${slope} a ${t.grain}${withYears ? ' (trend)' : ''}`;
+  }
   if (t.growth?.cagr !== null && t.growth?.cagr !== undefined) {
     return `${formatChange(t.growth.cagr, locale)} a year${withYears ? ` from ${t.growth.fromYear} to ${t.growth.toYear}` : ''}`;
   }

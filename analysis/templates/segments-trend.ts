@@ -1,7 +1,7 @@
 // Template "segment_trend": a metric by one dimension at the grain over the window. Each of the
 // top N segments (and one "All others" fold) gets its series, its Sen's slope, its growth from
 // its first to its last full calendar year, and its peak; gaps and late starts become caveats.
-import { metricByName, percentsApplyTo, seasonalModel } from '../catalog.js';
+import { changeBasisOf, metricByName, seasonalModel } from '../catalog.js';
 import type { SegmentTrendFinding, SegmentTrendOverviewFinding, SegmentYearGrowth } from '../findings/segments.js';
 import { addDays, daysBetween, nextPeriod } from '../periods.js';
 import { yearsThroughout } from '../presence.js';
@@ -59,7 +59,8 @@ export function readSegmentTrend(sq: SubQuestion, totals: ResultTable, seriesTab
   // values reach or cross zero in any segment, gets no growth in percent at all, only in its units.
   const catalogMetric = metricByName(ctx.dataset, metric);
   const everyValue = [...cells.values(), ...yearRows.values()].flatMap((byPeriod) => [...byPeriod.values()].map((r) => r.value));
-  const percents = percentsApplyTo(catalogMetric, everyValue);
+  // One rule (catalog changeBasisOf): a rate or share moves in points, a level or a signed metric in its units.
+  const percents = changeBasisOf(catalogMetric, everyValue) === 'percent';
   const model = seasonalModel(catalogMetric, everyValue);
 
   const findings: Finding[] = [];
