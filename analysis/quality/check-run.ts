@@ -118,5 +118,8 @@ function reportFor(entry: QualityEntry, columns: string[]): QualityReport {
 }
 
 export function qualityCaveatsFor(sq: SubQuestion, report: QualityReport, ws: Workspace, now: Date): Caveat[] {
-  return qualityCaveats(report, columnsUsed(sq, ws), { now, staleAfterDays: STALE_AFTER_DAYS, ...(ws.coverage.stamps ? { stamps: ws.coverage.stamps } : {}) });
+  // Rows past the last full day (a stray tail, coverage.ts) do not make the data fresher: the data
+  // ends where every other answer of the thread says it does.
+  const ended = ws.coverage.strayTail && ws.coverage.lastDate ? { ...report, lastDate: ws.coverage.lastDate } : report;
+  return qualityCaveats(ended, columnsUsed(sq, ws), { now, staleAfterDays: STALE_AFTER_DAYS, ...(ws.coverage.stamps ? { stamps: ws.coverage.stamps } : {}) });
 }

@@ -7,6 +7,7 @@
 // typical day is common practice, not a published standard.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { answerSubQuestion } from '../../analysis/answer-sub-question.js';
+import { checkQuality, qualityCaveatsFor } from '../../analysis/quality/check-run.js';
 import type { Answer, PeriodPoint, SubQuestion } from '../../analysis/types.js';
 import { openWorkspace, type Workspace } from '../../analysis/workspace.js';
 import { parseConfigText } from '../../config/load.js';
@@ -92,5 +93,14 @@ describe('a stray tail after the last full day (flights-3m.parquet)', () => {
     if (!series || series.type !== 'growth_series') throw new Error('no growth series');
     const complete = series.points.filter((p) => !p.partial);
     expect(complete[complete.length - 1]!.period).toBe('2001-06-18');
+  }, 120_000);
+
+  it('the stale-data note dates the data to its last full day, as every answer does, not to the tail', async () => {
+    const sq = question('series', 'month', '2001-01-01');
+    const report = await checkQuality([sq], ws);
+    // The raw last stamp is the tail's day (own SQL above); the note names the day before it.
+    expect(report.lastDate).toBe(days[days.length - 1]!.d);
+    const stale = qualityCaveatsFor(sq, report, ws, new Date('2026-12-05T12:00:00Z')).find((c) => c.code === 'stale_data');
+    expect(stale?.data.lastDate).toBe(days[days.length - 2]!.d);
   }, 120_000);
 });
