@@ -234,7 +234,8 @@ const INTERVAL_UNIT = /°|\bdeg(?:rees?|\.)?(?:\s*[CF])?\b|\bcelsius\b|\bfahrenh
  * A metric on an interval scale has no true zero (0 °C is not "no temperature"), so a percent
  * change or a ratio to its mean means nothing: its changes and comparisons are differences in its
  * unit ("+1.3 °C"). Read from the unit label here; a metric whose values reach or cross zero in
- * the data is caught by the values (stats/growth.ts percentScale).
+ * the data is caught by its values (stats/growth.ts percentScale) and by the dataset's reading of
+ * its days (Metric.reachesZero, in metricPercentScale).
  */
 export function onIntervalScale(metric: Metric): boolean {
   return metric.unit !== 'percent' && metric.unit_label !== undefined && INTERVAL_UNIT.test(metric.unit_label);
@@ -250,7 +251,11 @@ export function onIntervalScale(metric: Metric): boolean {
  * where zero means none (isAdditive by default).
  */
 export function metricPercentScale(metric: Metric, values: readonly (number | null)[], zeroIsALevel = isAdditive(metric)): PercentScale {
-  return percentScale(values, zeroIsALevel, onIntervalScale(metric));
+  const scale = percentScale(values, zeroIsALevel, onIntervalScale(metric));
+  // The dataset's own reading of the metric's days (Metric.reachesZero, read once with the
+  // coverage): an average whose days reach or cross zero anywhere in the data is signed in every
+  // answer, whatever the few values one answer compares. A flow's zero is "none", not a crossing.
+  return metric.reachesZero === true && !zeroIsALevel ? { ...scale, signed: true } : scale;
 }
 
 /** Whether the metric's values may be set against one another in percent (metricPercentScale above). */

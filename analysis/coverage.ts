@@ -1,7 +1,9 @@
 // The dataset's time coverage (first and last date, rows): what partial-period and
 // freshness checks compare against. Run once per plan.
 import type { CompileContext } from './compile-context.js';
-import { localDateExpr, tableRef } from './compile-context.js';
+import { localDateExpr, measureSql, rowCountSql, tableRef } from './compile-context.js';
+import { isAdditive, isBreakdownDimension } from './catalog.js';
+import type { DatasetConfig } from '../config/schema.js';
 import type { DataSource, RunOptions } from './sources/data-source.js';
 import { QueryBuilder } from './sql/query-builder.js';
 import { addDays, nextPeriod, periodStart } from './periods.js';
@@ -29,6 +31,13 @@ export interface Coverage {
    * running past it counts as complete, and the tail is said once. Absent when the last day is full.
    */
   strayTail?: StrayTail;
+  /**
+   * The metrics (names) that are no sum or count and whose daily value, over the whole data or one
+   * breakdown value's rows, reached or went below zero (an average delay on a day of early flights):
+   * no percentage of them is given in any answer (catalog.ts metricPercentScale, via
+   * Metric.reachesZero). Read once per dataset beside the coverage (compileSigns); absent when not read.
+   */
+  reachZero?: string[];
 }
 
 /** Days after the last full day (`lastDate`), each under STRAY_DAY_SHARE of a typical day's rows. */
@@ -119,6 +128,55 @@ SELECT (SELECT MIN(tc_d) FROM tc_days) AS first_date,
 FROM tc_gaps`);
 }
 
+/** The metrics whose signs are read: averages, ratios, rates and levels (a sum's or count's zero is "none"). */
+function signedCandidates(ds: DatasetConfig) {
+  return ds.metrics.filter((m) => !isAdditive(m) && m.definition.type !== 'distinct_count');
+}
+
+/**
+ * Each candidate metric's lowest daily value over the whole data and over each breakdown value's
+ * rows (GROUPING SETS: the day, then the day and each breakdown), in one pass; with a minimum
+ * group size, only days and values with that many rows count. Null when no metric needs it.
+ */
+export function compileSigns(ctx: CompileContext): CompiledQuery | null {
+  const metrics = signedCandidates(ctx.dataset);
+  if (metrics.length === 0) return null;
+  const q = new QueryBuilder(ctx.dialect);
+  const dims = ctx.dataset.dimensions.filter((d) => isBreakdownDimension(ctx.dataset, d.name)).map((d) => q.ident(d.column));
+  const day = localDateExpr(q, ctx);
+  const sets = [`(${day})`, ...dims.map((d) => `(${day}, ${d})`)].join(', ');
+  const min = ctx.dataset.min_group_size && ctx.dataset.min_group_size > 1 ? ctx.dataset.min_group_size : null;
+  const cols = metrics.map((m, i) => `${ctx.dialect.toDouble(measureSql(q, ctx, m))} AS tc_m${i}`);
+  return q.finish(`WITH tc_cells AS (
+  SELECT ${day} AS tc_d,
+  ${cols.join(',\n  ')}
+  FROM ${tableRef(q, ctx)}
+  GROUP BY GROUPING SETS (${sets})${min === null ? '' : `\n  HAVING ${rowCountSql(q, ctx)} >= ${q.bind(min)}`}
+)
+SELECT ${metrics.map((_, i) => `MIN(tc_m${i}) AS tc_m${i}`).join(', ')}
+FROM tc_cells
+WHERE tc_d IS NOT NULL`);
+}
+
+/** The names of the metrics whose lowest daily value (compileSigns) is at or below zero. */
+export function readSigns(ds: DatasetConfig, table: ResultTable): string[] {
+  const r = table.rows[0] ?? {};
+  return signedCandidates(ds).flatMap((m, i) => {
+    const v = r[`tc_m${i}`];
+    return typeof v === 'number' && Number.isFinite(v) && v <= 0 ? [m.name] : [];
+  });
+}
+
+/**
+ * The dataset with each metric's reading of its signs set (Metric.reachesZero): what the catalog's
+ * one rule for percentages consults in every answer. Unchanged without a reading.
+ */
+export function withSigns(ds: DatasetConfig, coverage: Coverage): DatasetConfig {
+  const read = coverage.reachZero;
+  if (!read) return ds;
+  return { ...ds, metrics: ds.metrics.map((m) => (read.includes(m.name) ? { ...m, reachesZero: true } : m)) };
+}
+
 export function readCoverage(table: ResultTable): Coverage {
   const r = table.rows[0];
   return {
@@ -135,9 +193,20 @@ export function readCoverage(table: ResultTable): Coverage {
  */
 export async function readDataCoverage(source: DataSource, ctx: CompileContext, options: RunOptions): Promise<Coverage> {
   const table = await source.run(compileCoverage(ctx), options);
-  const coverage: Coverage = { ...readCoverage(table), stamps: readStamps(table) };
+  const coverage: Coverage = { ...readCoverage(table), stamps: readStamps(table), ...(await readDataSigns(source, ctx, options)) };
   const tail = readStrayTail(table, coverage);
   return tail ? { ...coverage, lastDate: tail.lastFull, strayTail: tail.strayTail } : coverage;
+}
+
+/** The signs of the metrics' days (compileSigns), or nothing when the engine could not read them (said in no answer: the answers' own values still decide). */
+async function readDataSigns(source: DataSource, ctx: CompileContext, options: RunOptions): Promise<Pick<Coverage, 'reachZero'>> {
+  const query = compileSigns(ctx);
+  if (query === null) return { reachZero: [] };
+  try {
+    return { reachZero: readSigns(ctx.dataset, await source.run(query, options)) };
+  } catch {
+    return {};
+  }
 }
 
 function readStrayTail(table: ResultTable, coverage: Coverage): { lastFull: string; strayTail: StrayTail } | null {

@@ -208,6 +208,7 @@ export function growthNote(c: Caveat, locale: string, dimension: string, dataset
       }
       break;
     case 'base_zero':
+      if (d.reason === 'signed_days') return 'This measure reaches zero or goes below it on some days of the data (as a whole or for one breakdown value), so no percentage change of it is given; changes are in its units.';
       if (d.reason === 'signed') return 'This measure reaches zero or goes below it in this window, so no percentage change of it is given; changes are in its units.';
       if (d.reason === 'tiny') return `Some growth rates are left out: the earlier value is zero, missing or under ${baseFractionWords()} of the usual (median) level, where a percentage would mislead.`;
       return 'Some growth rates cannot be worked out because the earlier value is zero, negative or missing, so those rates are left out.';

@@ -1,7 +1,7 @@
 // The dataset's coverage (first and last day, rows), kept per version of the data like the
 // quality report (quality-cache.ts), so opening a dataset whose data has not changed reads no rows.
 import type { CompileContext } from '../compile-context.js';
-import { compileCoverage, type Coverage, coverageAsOf, readDataCoverage } from '../coverage.js';
+import { compileCoverage, compileSigns, type Coverage, coverageAsOf, readDataCoverage } from '../coverage.js';
 import type { Workspace } from '../workspace.js';
 import { dataVersion } from './data-version.js';
 import { coverageCacheFile, entryKey, readCoverageEntry, writeEntry } from './quality-cache.js';
@@ -27,14 +27,16 @@ async function wholeCoverage(ws: CoverageSource): Promise<Coverage> {
   const version = await dataVersion(ws).catch(() => null);
   if (version === null) return read();
   const query = compileCoverage(ws.context);
-  const key = entryKey(version, JSON.stringify([ws.context.timeColumnType, query.sql, query.params]));
+  // The signs of the metrics' days are kept with the coverage: their query is part of the key.
+  const signs = compileSigns(ws.context);
+  const key = entryKey(version, JSON.stringify([ws.context.timeColumnType, query.sql, query.params, signs?.sql ?? null, signs?.params ?? null]));
   const file = coverageCacheFile(ws.config, ws.dataset);
   const kept = await readCoverageEntry(file, key);
-  if (kept) return { firstDate: kept.firstDate, lastDate: kept.lastDate, rows: kept.rows, ...(kept.stamps ? { stamps: kept.stamps } : {}), ...(kept.strayTail ? { strayTail: kept.strayTail } : {}) };
+  if (kept && kept.reachZero) return { firstDate: kept.firstDate, lastDate: kept.lastDate, rows: kept.rows, ...(kept.stamps ? { stamps: kept.stamps } : {}), ...(kept.strayTail ? { strayTail: kept.strayTail } : {}), reachZero: kept.reachZero };
   const coverage = await read();
   // Kept only if the data kept its version while the queries ran (see check-run.ts).
   if ((await dataVersion(ws).catch(() => null)) === version) {
-    await writeEntry(file, { key, firstDate: coverage.firstDate, lastDate: coverage.lastDate, rows: coverage.rows, ...(coverage.stamps ? { stamps: coverage.stamps } : {}), ...(coverage.strayTail ? { strayTail: coverage.strayTail } : {}) });
+    await writeEntry(file, { key, firstDate: coverage.firstDate, lastDate: coverage.lastDate, rows: coverage.rows, ...(coverage.stamps ? { stamps: coverage.stamps } : {}), ...(coverage.strayTail ? { strayTail: coverage.strayTail } : {}), ...(coverage.reachZero ? { reachZero: coverage.reachZero } : {}) });
   }
   return coverage;
 }

@@ -72,6 +72,8 @@ export interface CoverageEntry {
   rows: number;
   stamps?: StampGranularity;
   strayTail?: { firstDate: string; lastDate: string; rows: number; typicalDayRows: number };
+  /** The metrics whose days reach or cross zero (coverage.ts compileSigns). */
+  reachZero?: string[];
 }
 
 const day = z.string().regex(/^\d{4}-\d{2}-\d{2}$/).nullable();
@@ -83,6 +85,7 @@ const coverageSchema = z.object({
   rows: count,
   stamps: z.enum(['daily', 'weekly', 'monthly', 'quarterly', 'yearly', 'irregular'] satisfies StampGranularity[]).optional(),
   strayTail: z.object({ firstDate: z.string(), lastDate: z.string(), rows: count, typicalDayRows: count }).optional(),
+  reachZero: z.array(z.string()).optional(),
 });
 
 export async function readCoverageEntry(file: string, key: string): Promise<CoverageEntry | null> {

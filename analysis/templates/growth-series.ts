@@ -222,7 +222,9 @@ export function readGrowthSeries(
     }
     // On an interval scale no percentage is missing for want of a base: none was ever to be given.
     if (undefinedAt.length > 0 && !scale.interval) {
-      const reason = scale.signed ? 'signed' : values.some((v) => v !== null && v > 0 && !percentBaseUsable(v, scale)) ? 'tiny' : 'zero';
+      // Signed in this window's own values, or only by the dataset's reading of its days (Metric.reachesZero).
+      const own = metricPercentScale({ ...catalogMetric, reachesZero: false }, values, additive).signed;
+      const reason = scale.signed ? (own ? 'signed' : 'signed_days') : values.some((v) => v !== null && v > 0 && !percentBaseUsable(v, scale)) ? 'tiny' : 'zero';
       caveats.push({ code: 'base_zero', data: { metric, count: undefinedAt.length, first: [...undefinedAt].sort()[0]!, reason } });
     }
   }

@@ -72,6 +72,8 @@ describe('a temperature never moves in percent (weather.csv, whole threads)', ()
     'which weekday has the highest temperature',
     'is New York warmer than Seattle',
     'seasonality of temperature',
+    // Two cities set against each other over two years (value_compare), worded as no test was written around.
+    'Seattle vs New York high temperature in 2015 compared with 2014',
   ];
   const threads = new Map<string, string[]>();
   beforeAll(async () => {
@@ -92,6 +94,23 @@ describe('a temperature never moves in percent (weather.csv, whole threads)', ()
     const text = threads.get(requests[0]!)!.join('\n');
     expect(text).toContain(formatValue(diff, { unit: 'number', label: '°C', locale: 'en-GB' }, { compact: true, signed: true }));
   });
+});
+
+describe('two cities compared over two years say their changes and gap in °C (weather.csv)', () => {
+  it('each city\'s change and the gap between them are differences of the years\' means (own SQL over the CSV)', async () => {
+    const rows = await sql(`SELECT location AS c, year(date) AS y, AVG(temp_max) AS v FROM read_csv('${WEATHER}') WHERE year(date) IN (2014, 2015) GROUP BY 1, 2`);
+    const v = (c: string, y: number) => Number(rows.find((r) => r.c === c && Number(r.y) === y)!.v);
+    const seattle = v('Seattle', 2015) - v('Seattle', 2014);
+    const newYork = v('New York', 2015) - v('New York', 2014);
+    const fmt = (x: number) => formatValue(x, { unit: 'number', label: '°C', locale: 'en-GB' }, { compact: true, signed: true });
+    const posts = await thread(weatherConfig, 'did Seattle warm more than New York in 2015 against 2014');
+    const answer = posts.find((p) => p.includes('Seattle minus New York'))!;
+    expect(answer).toBeDefined();
+    const level = (x: number) => formatValue(x, { unit: 'number', label: '°C', locale: 'en-GB' }, { compact: true });
+    expect(answer).toContain(`Seattle ${level(v('Seattle', 2015))} (from ${level(v('Seattle', 2014))}, ${fmt(seattle)})`);
+    expect(answer).toContain(`The gap in change is ${fmt(seattle - newYork)} (Seattle minus New York)`);
+    expect(percentMoves(posts)).toEqual([]);
+  }, 300_000);
 });
 
 describe('an average delay, whose flights run early as well as late, never moves in percent (flights-3m.parquet)', () => {
