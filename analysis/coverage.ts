@@ -2,7 +2,7 @@
 // freshness checks compare against. Run once per plan.
 import type { CompileContext } from './compile-context.js';
 import { localDateExpr, measureSql, rowCountSql, tableRef } from './compile-context.js';
-import { isAdditive, isBreakdownDimension } from './catalog.js';
+import { isAdditive } from './catalog.js';
 import type { DatasetConfig } from '../config/schema.js';
 import type { DataSource, RunOptions } from './sources/data-source.js';
 import { QueryBuilder } from './sql/query-builder.js';
@@ -32,8 +32,8 @@ export interface Coverage {
    */
   strayTail?: StrayTail;
   /**
-   * The metrics (names) that are no sum or count and whose daily value, over the whole data or one
-   * breakdown value's rows, reached or went below zero (an average delay on a day of early flights):
+   * The metrics (names) that are no sum or count and whose daily value over the whole data is
+   * below zero on a material share of days (readSigns) (an average delay on a day of early flights):
    * no percentage of them is given in any answer (catalog.ts metricPercentScale, via
    * Metric.reachesZero). Read once per dataset beside the coverage (compileSigns); absent when not read.
    */
@@ -134,36 +134,46 @@ function signedCandidates(ds: DatasetConfig) {
 }
 
 /**
- * Each candidate metric's lowest daily value over the whole data and over each breakdown value's
- * rows (GROUPING SETS: the day, then the day and each breakdown), in one pass; with a minimum
- * group size, only days and values with that many rows count. Null when no metric needs it.
+ * Each candidate metric's days below zero and days with a value, over the whole data, in one pass; with a minimum
+ * group size, only days with that many rows count. One segment's odd day (a small airport's early
+ * flights) does not make the whole measure a signed one: the day of the whole data decides, and
+ * an answer on one segment still judges by the values it compares. Null when no metric needs it.
  */
 export function compileSigns(ctx: CompileContext): CompiledQuery | null {
   const metrics = signedCandidates(ctx.dataset);
   if (metrics.length === 0) return null;
   const q = new QueryBuilder(ctx.dialect);
-  const dims = ctx.dataset.dimensions.filter((d) => isBreakdownDimension(ctx.dataset, d.name)).map((d) => q.ident(d.column));
   const day = localDateExpr(q, ctx);
-  const sets = [`(${day})`, ...dims.map((d) => `(${day}, ${d})`)].join(', ');
   const min = ctx.dataset.min_group_size && ctx.dataset.min_group_size > 1 ? ctx.dataset.min_group_size : null;
   const cols = metrics.map((m, i) => `${ctx.dialect.toDouble(measureSql(q, ctx, m))} AS tc_m${i}`);
   return q.finish(`WITH tc_cells AS (
   SELECT ${day} AS tc_d,
   ${cols.join(',\n  ')}
   FROM ${tableRef(q, ctx)}
-  GROUP BY GROUPING SETS (${sets})${min === null ? '' : `\n  HAVING ${rowCountSql(q, ctx)} >= ${q.bind(min)}`}
+  GROUP BY 1${min === null ? '' : `\n  HAVING ${rowCountSql(q, ctx)} >= ${q.bind(min)}`}
 )
-SELECT ${metrics.map((_, i) => `MIN(tc_m${i}) AS tc_m${i}`).join(', ')}
+SELECT ${metrics.map((_, i) => `${ctx.dialect.toDouble(`COUNT(*) FILTER (WHERE tc_m${i} < 0)`)} AS tc_m${i}, ${ctx.dialect.toDouble(`COUNT(tc_m${i})`)} AS tc_n${i}`).join(', ')}
 FROM tc_cells
 WHERE tc_d IS NOT NULL`);
 }
 
-/** The names of the metrics whose lowest daily value (compileSigns) is at or below zero. */
+/**
+ * Days below zero, as a share of the days with a value, from which a measure counts as signed: one
+ * stray day (a day whose refunds outran its takings) leaves a measure's zero its floor, while an
+ * average delay below zero on a tenth of the days (flights-3m: 20 of 182) has none. The cut-off is
+ * our own choice, not a published rule.
+ */
+export const SIGNED_DAY_SHARE = 0.01;
+
+/**
+ * The names of the metrics below zero on at least SIGNED_DAY_SHARE of their days (compileSigns). A
+ * day at exactly zero (a platform's day with sign-ups but no revenue) is a ratio's floor, not a crossing.
+ */
 export function readSigns(ds: DatasetConfig, table: ResultTable): string[] {
   const r = table.rows[0] ?? {};
   return signedCandidates(ds).flatMap((m, i) => {
-    const v = r[`tc_m${i}`];
-    return typeof v === 'number' && Number.isFinite(v) && v <= 0 ? [m.name] : [];
+    const [below, days] = [r[`tc_m${i}`], r[`tc_n${i}`]];
+    return typeof below === 'number' && typeof days === 'number' && days > 0 && below > 0 && below / days >= SIGNED_DAY_SHARE ? [m.name] : [];
   });
 }
 

@@ -70,7 +70,7 @@ export const metricSchema = z
 export type Metric = z.infer<typeof metricSchema> & {
   /**
    * Read from the data once per dataset, never written in a file (the schema is strict): the
-   * metric's daily value, over the whole data or one breakdown value's rows, reached or went below
+   * metric's daily value, over the whole data or one breakdown value's rows, went below
    * zero (an average delay on a day of early flights). Set by analysis/workspace.ts from the
    * coverage (analysis/coverage.ts readSigns); catalog.ts metricPercentScale consults it.
    */

@@ -1,6 +1,6 @@
 // Title and caption for a growth_drivers answer: the total's change between the two spans and the
 // segments that moved it most, written only from the finding.
-import { isAdditive, metricDirection } from '../catalog.js';
+import { changeBasisOf, isAdditive, metricDirection } from '../catalog.js';
 import { labelAtStart, listJoin, pluralNoun, verbFor } from './grammar.js';
 import { configuredAs, perDayMetric } from './metric-words.js';
 import type { DatasetConfig, Metric } from '../../config/schema.js';
@@ -243,8 +243,9 @@ export function perDaySentence(f: SpansTotals, label: string, metric: Metric, lo
   if (!f.additive || Math.abs(dc - dp) <= 0.005 * Math.max(dc, dp) || before === null || after === null || before <= 0) return `${lengths}; both are compared whole.`;
   const [a, b] = [after / dc, before / dp];
   const fmt = quantityFormat(metric, 'per_day', locale);
-  const rel = a / b - 1;
-  return `${lengths}, so per day ${lower(label)} ${totalVerb(rel, locale)} (${formatValue(a, fmt, { rate: true })} against ${formatValue(b, fmt, { rate: true })} a day).`;
+  // The one rule (catalog.ts changeBasisOf): a per-day total that goes below zero moves in its units.
+  const move = changeBasisOf(metric, [a, b]) === 'percent' ? totalVerb(a / b - 1, locale) : `changed ${formatValue(a - b, fmt, { rate: true, signed: true })} a day`;
+  return `${lengths}, so per day ${lower(label)} ${move} (${formatValue(a, fmt, { rate: true })} against ${formatValue(b, fmt, { rate: true })} a day).`;
 }
 
 /**
