@@ -8,7 +8,7 @@ import { dimensionByName, metricByName, metricDirection } from '../catalog.js';
 import type { SegmentTrendFinding, SegmentTrendOverviewFinding } from '../findings/segments.js';
 import { caveatNotes, chartFooter, chartSubtitle } from './header.js';
 import type { Presenter } from './presenter.js';
-import { valueFormatOf } from '../format.js';
+import { POINTS, valueFormatOf } from '../format.js';
 import { tableToCsv } from '../table-csv.js';
 import type { ResultColumn } from '../types.js';
 
@@ -30,9 +30,12 @@ export const presentSegmentTrend: Presenter = (full, ctx) => {
   // bar says its years and the subtitle does not claim one span for all.
   const spans = new Set(trends.flatMap((t) => (measure === 'cagr' && t.growth?.cagr != null ? [`${t.growth.fromYear}–${t.growth.toYear}`] : [])));
   const ownYears = (t: SegmentTrendFinding) => (spans.size > 1 && t.growth?.cagr != null ? ` (${t.growth.fromYear}–${t.growth.toYear})` : '');
-  const items = trends.flatMap((t) => (t.other || rateOf(t) === null ? [] : [{ label: `${segmentLabel(t)}${ownYears(t)}`, value: rateOf(t)! }]));
+  // A rate's slope is drawn in points, as the title says it ("+0.13 pts a month"), not as a percentage.
+  const inPoints = measure === 'units' && metric.unit === 'percent';
+  const drawn = (t: SegmentTrendFinding) => (inPoints ? rateOf(t)! * 100 : rateOf(t)!);
+  const items = trends.flatMap((t) => (t.other || rateOf(t) === null ? [] : [{ label: `${segmentLabel(t)}${ownYears(t)}`, value: drawn(t) }]));
   const fold = trends.find((t) => t.other && rateOf(t) !== null);
-  const folded = fold ? { label: `${segmentLabel(fold)}${ownYears(fold)}`, value: rateOf(fold)! } : null;
+  const folded = fold ? { label: `${segmentLabel(fold)}${ownYears(fold)}`, value: drawn(fold) } : null;
   const years = trends.find((t) => !t.other && t.growth?.cagr != null)?.growth;
   const grain = trends[0]?.grain ?? sq.grain;
   const rateWords =
@@ -41,7 +44,7 @@ export const presentSegmentTrend: Presenter = (full, ctx) => {
         ? 'growth a year between each one\'s first and last full calendar years'
         : `growth a year, ${years.fromYear} to ${years.toYear} (full calendar years)`
       : measure === 'units'
-        ? `change a ${grain} along the trend (Sen's slope), in ${metric.unit_label ?? inSentence(metric.label)}`
+        ? `change a ${grain} along the trend (Sen's slope), in ${inPoints ? `points of ${inSentence(metric.label)}` : metric.unit_label ?? inSentence(metric.label)}`
         : 'growth a year along the trend (Sen\'s slope)';
   const chart =
     items.length > 0
@@ -53,7 +56,7 @@ export const presentSegmentTrend: Presenter = (full, ctx) => {
           ...ctx.chart,
           items,
           folded,
-          format: measure === 'units' ? valueFormatOf(metric, ctx.locale) : { unit: 'percent', decimals: 1, locale: ctx.locale },
+          format: inPoints ? { unit: 'number', decimals: 2, label: POINTS, locale: ctx.locale } : measure === 'units' ? valueFormatOf(metric, ctx.locale) : { unit: 'percent', decimals: 1, locale: ctx.locale },
           signed: true,
           // Coloured by the metric's good direction; without one, one colour for every bar.
           ...(metricDirection(metric) === null ? {} : { higherIsBetter: metricDirection(metric)! }),
