@@ -6,12 +6,8 @@
 // periods, not a count's Poisson noise, sets the interval. Stated back as a percentage.
 import { welchTTest } from './welch.js';
 
-export interface LogShift {
-  /** Mean log ratio after − before (the log of 1 + relative). */
-  logEstimate: number;
-  /** exp(logEstimate) − 1: the shift as a relative change (0.22 is +22%). */
-  relative: number;
-  /** Interval of `relative` at `confidence` (the log interval, exponentiated). */
+/** What a shift's Welch's t-test across periods gives, on either scale. */
+interface ShiftTest {
   ci: [number, number];
   confidence: number;
   t: number;
@@ -21,6 +17,13 @@ export interface LogShift {
   /** Periods behind each side. */
   nBefore: number;
   nAfter: number;
+}
+
+export interface LogShift extends ShiftTest {
+  /** Mean log ratio after − before (the log of 1 + relative). */
+  logEstimate: number;
+  /** exp(logEstimate) − 1: the shift as a relative change (0.22 is +22%); `ci` is its interval (the log interval, exponentiated). */
+  relative: number;
 }
 
 /** The log ratio of two positive values; null when either is missing, zero or negative. */
@@ -68,17 +71,9 @@ export function logShift(before: readonly number[], after: readonly number[], co
  * mean before, with Welch's t-test across periods: the difference in differences with period
  * effects, stated in units.
  */
-export interface DifferenceShift {
+export interface DifferenceShift extends ShiftTest {
   /** Mean difference after − mean difference before, in the metric's units. */
   estimate: number;
-  ci: [number, number];
-  confidence: number;
-  t: number;
-  df: number;
-  pValue: number;
-  standardError: number;
-  nBefore: number;
-  nAfter: number;
 }
 
 /** The shift from `before` to `after` (per-period differences); null with fewer than two periods a side or no spread at all. */
