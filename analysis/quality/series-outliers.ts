@@ -74,6 +74,13 @@ export interface OutlierScreen {
 }
 
 /**
+ * How far from its usual value (season and trend) a period of a proportional series must be, as a
+ * share of that value, to be called unusual besides its score: a manager does not call a month
+ * 5% off its usual unusual, however smooth the rest. Our own choice, not a published rule.
+ */
+export const MATERIAL_SHARE = 0.1;
+
+/**
  * Screens the complete periods of a series (partial and missing ones are left out). `model` is how
  * the metric's cycle behaves (catalog.ts seasonalModel); without it, multiplicative when every value
  * is positive. Null with fewer than MIN_OUTLIER_PERIODS complete periods.
@@ -133,7 +140,10 @@ export function screenSeries(points: readonly PeriodPoint[], grain: Grain, model
     verdict = next;
     if (same) break;
   }
-  const unusual = verdict.flagged.map((i) => ({ period: run[i]!.period, value: values[i]!, score: verdict.z.scores[i]!, expected: fit.expected[i]! }));
+  // A series with little noise (a smooth booking total) makes a 5% wobble score far past 3.5: a
+  // period proportional to its fit is called unusual only when it is also MATERIAL_SHARE off it.
+  const material = (i: number) => m === 'additive' || !(fit.expected[i]! > 0) || Math.abs(values[i]! / fit.expected[i]! - 1) >= MATERIAL_SHARE;
+  const unusual = verdict.flagged.filter(material).map((i) => ({ period: run[i]!.period, value: values[i]!, score: verdict.z.scores[i]!, expected: fit.expected[i]! }));
   const judged = run.flatMap((p, i) => {
     const score = verdict.z.scores[i];
     return score === null || score === undefined ? [] : [{ period: p.period, value: values[i]!, score, expected: fit.expected[i]! }];
