@@ -10,6 +10,7 @@ import { inSentence, pluralNoun } from '../captions/grammar.js';
 import { dimensionByName, metricByName } from '../catalog.js';
 import type { SegmentSharesFinding } from '../findings/segments.js';
 import { valueFormatOf } from '../format.js';
+import { grainAdjective } from '../grains.js';
 import { caveatNotes, chartFooter, chartSubtitle } from './header.js';
 import type { Presenter } from './presenter.js';
 
@@ -31,8 +32,11 @@ export const presentSegmentShares: Presenter = (answer, ctx) => {
   if (f?.focus && f.additive && f.focus.series.length > 0) {
     // "What share of flights does ATL have": its share period by period, the answer's own course.
     const focus = f.focus;
+    // The line is the segment's share of the total each period, not the metric's own rows.
+    const shareDefinition = `${focus.segment}'s share of all ${inSentence(metric.label)} (every ${inSentence(dim.label)}), ${grainAdjective(focus.grain)}`;
     chart = buildLine({
       ...header,
+      subtitle: chartSubtitle(answer, metric, ctx, { grain: false, definition: shareDefinition }),
       seriesLabel: `${focus.segment}'s share of ${inSentence(metric.label)}`,
       grain: focus.grain,
       points: focus.series.map((p) => ({ period: p.period, value: p.share, partial: p.partial })),
