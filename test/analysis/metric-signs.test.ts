@@ -4,7 +4,6 @@
 // minutes, negative for early flights) and weather.csv (NOAA daily weather, Seattle and New York,
 // 2012-2015). What the fact should say comes from the test's own SQL over the files (DuckDB's node
 // client, not the project's queries).
-import { DuckDBInstance } from '@duckdb/node-api';
 import { existsSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -18,19 +17,11 @@ import { presentContext } from '../../bot/present-answer.js';
 import { loadConfig } from '../../config/load.js';
 import { percentMoveIn } from '../helpers/caption-checks.js';
 import { flightsParquetConfigText, vegaDataFile } from '../helpers/open-data.js';
+import { referenceRows } from '../helpers/reference-sql.js';
 
 const FLIGHTS = vegaDataFile('flights-3m.parquet');
 const WEATHER = vegaDataFile('weather.csv');
 
-async function sql(query: string): Promise<Record<string, unknown>[]> {
-  const db = await DuckDBInstance.create(':memory:');
-  const c = await db.connect();
-  try {
-    return (await c.runAndReadAll(query)).getRowObjectsJS() as Record<string, unknown>[];
-  } finally {
-    c.closeSync();
-  }
-}
 
 const flightsConfig = `${flightsParquetConfigText([
   '{ name: delay, label: Average delay, average: delay, unit: number, unit_label: min, higher_is_better: false, kind: ratio }',
@@ -73,7 +64,7 @@ afterAll(async () => {
 describe('the signs of a metric\'s days, read once per dataset', () => {
   it('flights-3m: the average delay over all flights goes below zero on some days; sums are not read (own SQL)', async () => {
     // Own SQL: the share of days whose average delay over all flights is below zero (one airport's odd day does not decide).
-    const [r] = await sql(`SELECT COUNT(*) FILTER (WHERE v < 0) / COUNT(*) AS overall FROM (SELECT CAST(date AS DATE) d, AVG(delay) v FROM read_parquet('${FLIGHTS}') GROUP BY 1)`);
+    const [r] = await referenceRows(`SELECT COUNT(*) FILTER (WHERE v < 0) / COUNT(*) AS overall FROM (SELECT CAST(date AS DATE) d, AVG(delay) v FROM read_parquet('${FLIGHTS}') GROUP BY 1)`);
     // At the time of writing: −5.06 min at lowest, below zero on 20 of 182 days (SIGNED_DAY_SHARE: 1%).
     const expected = Number(r!.overall) >= 0.01;
     expect(expected).toBe(true);
@@ -83,7 +74,7 @@ describe('the signs of a metric\'s days, read once per dataset', () => {
   });
 
   it('weather.csv: the daily low goes below 0 °C, the wind never reaches zero (own SQL)', async () => {
-    const [r] = await sql(`SELECT
+    const [r] = await referenceRows(`SELECT
       (SELECT COUNT(*) FILTER (WHERE v < 0) / COUNT(*) FROM (SELECT date, AVG(temp_min) v FROM read_csv('${WEATHER}') GROUP BY 1)) AS low,
       (SELECT COUNT(*) FILTER (WHERE v < 0) / COUNT(*) FROM (SELECT date, AVG(wind) v FROM read_csv('${WEATHER}') GROUP BY 1)) AS wind`);
     const expected = [['temp_min', Number(r!.low)], ['wind', Number(r!.wind)]].filter(([, v]) => (v as number) >= 0.01).map(([m]) => m);
@@ -113,7 +104,7 @@ describe('the signs of a metric\'s days, read once per dataset', () => {
     expect(changeBasisOf(metricByName(flights.dataset, 'distance'), [1, 2])).toBe('percent');
 
     // ATL, June against January: own SQL for both months' average delay, then the answer in minutes.
-    const rows = await sql(`SELECT month(date) AS m, AVG(delay) AS v FROM read_parquet('${FLIGHTS}') WHERE origin = 'ATL' AND month(date) IN (1, 6) AND CAST(date AS DATE) < DATE '2001-07-01' GROUP BY 1 ORDER BY 1`);
+    const rows = await referenceRows(`SELECT month(date) AS m, AVG(delay) AS v FROM read_parquet('${FLIGHTS}') WHERE origin = 'ATL' AND month(date) IN (1, 6) AND CAST(date AS DATE) < DATE '2001-07-01' GROUP BY 1 ORDER BY 1`);
     expect(Number(rows[0]!.v)).toBeGreaterThan(0);
     expect(Number(rows[1]!.v)).toBeGreaterThan(0);
     const answer = await answerSubQuestion({

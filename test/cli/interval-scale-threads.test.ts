@@ -6,7 +6,6 @@
 // /work/wt/material/weather-fixed.yaml) and flights-3m.parquet (US flights, January–June 2001); the
 // demo data for the rate. Expected figures come from the test's own SQL over the files (DuckDB's
 // node client, not the project's queries).
-import { DuckDBInstance } from '@duckdb/node-api';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -14,6 +13,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { formatValue } from '../../analysis/format.js';
 import { percentMoveIn, pointsFormIn } from '../helpers/caption-checks.js';
 import { flightsParquetConfigText, vegaDataFile, WEATHER_CSV, weatherConfigText } from '../helpers/open-data.js';
+import { referenceRows } from '../helpers/reference-sql.js';
 import { runCli } from '../helpers/run-cli.js';
 
 const WEATHER = WEATHER_CSV;
@@ -38,15 +38,6 @@ const flightsConfig = `${flightsParquetConfigText([
       - { name: origin, label: Origin airport, column: origin, also_called: [origin, airport] }
 `;
 
-async function sql(query: string): Promise<Record<string, unknown>[]> {
-  const db = await DuckDBInstance.create(':memory:');
-  const c = await db.connect();
-  try {
-    return (await c.runAndReadAll(query)).getRowObjectsJS() as Record<string, unknown>[];
-  } finally {
-    c.closeSync();
-  }
-}
 
 /** The bot's posts of one whole thread (brief, answers, summary), run with the default answers. */
 async function thread(configText: string | null, request: string, configPath?: string): Promise<string[]> {
@@ -89,7 +80,7 @@ describe('a temperature never moves in percent (weather.csv, whole threads)', ()
   }
 
   it("Seattle's change from 2014 to 2015 is the difference of the years' means in °C (own SQL over the CSV)", async () => {
-    const rows = await sql(`SELECT year(date) AS y, AVG(temp_max) AS v FROM read_csv('${WEATHER}') WHERE location = 'Seattle' AND year(date) IN (2014, 2015) GROUP BY 1 ORDER BY 1`);
+    const rows = await referenceRows(`SELECT year(date) AS y, AVG(temp_max) AS v FROM read_csv('${WEATHER}') WHERE location = 'Seattle' AND year(date) IN (2014, 2015) GROUP BY 1 ORDER BY 1`);
     const diff = Number(rows[1]!.v) - Number(rows[0]!.v);
     const text = threads.get(requests[0]!)!.join('\n');
     expect(text).toContain(formatValue(diff, { unit: 'number', label: '°C', locale: 'en-GB' }, { compact: true, signed: true }));
@@ -98,7 +89,7 @@ describe('a temperature never moves in percent (weather.csv, whole threads)', ()
 
 describe('two cities compared over two years say their changes and gap in °C (weather.csv)', () => {
   it('each city\'s change and the gap between them are differences of the years\' means (own SQL over the CSV)', async () => {
-    const rows = await sql(`SELECT location AS c, year(date) AS y, AVG(temp_max) AS v FROM read_csv('${WEATHER}') WHERE year(date) IN (2014, 2015) GROUP BY 1, 2`);
+    const rows = await referenceRows(`SELECT location AS c, year(date) AS y, AVG(temp_max) AS v FROM read_csv('${WEATHER}') WHERE year(date) IN (2014, 2015) GROUP BY 1, 2`);
     const v = (c: string, y: number) => Number(rows.find((r) => r.c === c && Number(r.y) === y)!.v);
     const seattle = v('Seattle', 2015) - v('Seattle', 2014);
     const newYork = v('New York', 2015) - v('New York', 2014);
@@ -130,7 +121,7 @@ describe('an average delay, whose flights run early as well as late, never moves
 
   it('the longest-delay weekday is said in minutes above the mean of the seven weekdays (own SQL over the parquet)', async () => {
     // The six rows stamped 1 July are a stray tail the bot leaves out (analysis/coverage.ts).
-    const rows = await sql(`WITH d AS (SELECT isodow(date) AS k, AVG(delay) AS v FROM read_parquet('${FLIGHTS}') WHERE date < DATE '2001-07-01' GROUP BY 1)
+    const rows = await referenceRows(`WITH d AS (SELECT isodow(date) AS k, AVG(delay) AS v FROM read_parquet('${FLIGHTS}') WHERE date < DATE '2001-07-01' GROUP BY 1)
       SELECT k, v - (SELECT AVG(v) FROM d) AS dev FROM d ORDER BY dev DESC`);
     const top = rows[0]!;
     expect(Number(top.k)).toBe(5);

@@ -5,40 +5,18 @@
 //    season, and with under two years no season can be taken out, so the move is not called a
 //    trend ("a falling trend of about 1,440 thousand a year ... unlikely to be chance" before).
 // 2. "unemployment in finance": the Finance industry's own figures, not every industry's.
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { DuckDBInstance } from '@duckdb/node-api';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { runCli } from '../helpers/run-cli.js';
-import { vegaDataFile } from '../helpers/open-data.js';
+import { askPostTexts } from '../helpers/run-cli.js';
+import { UNEMPLOYMENT_JSON, unemploymentConfigText } from '../helpers/open-data.js';
 
-const json = vegaDataFile('unemployment-across-industries.json');
+const json = UNEMPLOYMENT_JSON;
 let dir = '';
-
-function writeConfig(): string {
-  const config = join(dir, 'unemployment.yaml');
-  writeFileSync(config, `version: 1
-datasets:
-  - name: unemployment
-    label: Unemployment by industry
-    source: { kind: json, paths: ["${json}"] }
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: unemployed, label: Unemployed, also_called: [unemployment], sum: count, unit: count, unit_label: thousand, kind: level, higher_is_better: false }
-    dimensions:
-      - { name: industry, label: Industry, also_called: [industries], column: series }
-`);
-  return config;
-}
-
-async function postsOf(request: string): Promise<string[]> {
-  const out = mkdtempSync(join(dir, 'out-'));
-  const r = await runCli(['ask', '--config', writeConfig(), '--request', request, '--out', out]);
-  expect(r.code, r.err).toBe(0);
-  return (JSON.parse(readFileSync(join(out, 'thread.json'), 'utf8')) as { posts: { text: string }[] }).posts.map((p) => p.text);
-}
+let config = '';
+const postsOf = (request: string) => askPostTexts(config, request, mkdtempSync(join(dir, 'out-')));
 
 let oneYear: string[] = [];
 let finance: string[] = [];
@@ -47,6 +25,8 @@ let finance2009 = 0;
 let all2009 = 0;
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'tc-level-short-'));
+  config = join(dir, 'unemployment.yaml');
+  writeFileSync(config, unemploymentConfigText('count'));
   const db = await DuckDBInstance.create(':memory:');
   const c = await db.connect();
   const file = json.replaceAll("'", "''");

@@ -9,10 +9,10 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { parse } from 'yaml';
-import { runCli } from '../helpers/run-cli.js';
-import { vegaDataFile } from '../helpers/open-data.js';
+import { askPostTexts, runCli } from '../helpers/run-cli.js';
+import { UNEMPLOYMENT_JSON, unemploymentConfigText } from '../helpers/open-data.js';
 
-const json = vegaDataFile('unemployment-across-industries.json');
+const json = UNEMPLOYMENT_JSON;
 const rows = JSON.parse(readFileSync(json, 'utf8')) as { series: string; date: string; count: number }[];
 const monthTotals = new Map<string, number>();
 for (const r of rows) monthTotals.set(r.date.slice(0, 7), (monthTotals.get(r.date.slice(0, 7)) ?? 0) + r.count);
@@ -25,34 +25,15 @@ function yearMean(year: number, series?: string): number {
 const thousands = (v: number) => `${Math.round(v).toLocaleString('en')}\u00a0thousand`;
 
 let dir = '';
-function writeConfig(): string {
-  const config = join(dir, 'unemployment.yaml');
-  writeFileSync(config, `version: 1
-datasets:
-  - name: unemployment
-    label: Unemployment by industry
-    source: { kind: json, paths: ["${json}"] }
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: unemployed, label: Unemployed, also_called: [unemployment], sum: count, unit: number, unit_label: thousand, kind: level, higher_is_better: false }
-    dimensions:
-      - { name: industry, label: Industry, also_called: [industries], column: series }
-`);
-  return config;
-}
-
-async function postsOf(request: string): Promise<string[]> {
-  const out = mkdtempSync(join(dir, 'out-'));
-  const r = await runCli(['ask', '--config', writeConfig(), '--request', request, '--out', out]);
-  expect(r.code, r.err).toBe(0);
-  return (JSON.parse(readFileSync(join(out, 'thread.json'), 'utf8')) as { posts: { text: string }[] }).posts.map((p) => p.text);
-}
+let config = '';
+const postsOf = (request: string) => askPostTexts(config, request, mkdtempSync(join(dir, 'out-')));
 
 let yearly: string[] = [];
 let drivers: string[] = [];
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'tc-level-sums-'));
+  config = join(dir, 'unemployment.yaml');
+  writeFileSync(config, unemploymentConfigText('number'));
   yearly = await postsOf('yearly unemployed, 2005 to 2009, by year');
   drivers = await postsOf('Which industries drove the rise in unemployment in 2009 compared with 2008?');
 }, 300_000);

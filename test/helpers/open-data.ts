@@ -122,3 +122,25 @@ ${metrics.map((m) => `      - ${m}`).join('\n')}
     dimensions:${dimensions.length ? `\n${dimensions.map((d) => `      - ${d}`).join('\n')}` : ' []'}
 `;
 }
+
+/** vega-datasets' unemployment-across-industries.json (US BLS unemployed persons in thousands by industry, monthly, 2000–2010). */
+export const UNEMPLOYMENT_JSON = vegaDataFile('unemployment-across-industries.json');
+
+/**
+ * A config text over unemployment-across-industries.json: unemployed persons as a level (a count
+ * held at each month, summed across industries on a date), in the given unit, by industry.
+ */
+export function unemploymentConfigText(unit: 'count' | 'number'): string {
+  return `version: 1
+datasets:
+  - name: unemployment
+    label: Unemployment by industry
+    source: { kind: json, paths: ["${UNEMPLOYMENT_JSON}"] }
+    time_column: date
+    timezone: UTC
+    metrics:
+      - { name: unemployed, label: Unemployed, also_called: [unemployment], sum: count, unit: ${unit}, unit_label: thousand, kind: level, higher_is_better: false }
+    dimensions:
+      - { name: industry, label: Industry, also_called: [industries], column: series }
+`;
+}

@@ -8,30 +8,26 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { readBrief } from '../../cli/read.js';
-import { vegaDataFile } from '../helpers/open-data.js';
+import { vegaDataFile, weatherConfigText } from '../helpers/open-data.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'tc-material-gaps-'));
 export const WEATHER_CONFIG = join(dir, 'weather.yaml');
 export const FLIGHTS_CONFIG = join(dir, 'flights.yaml');
 writeFileSync(
   WEATHER_CONFIG,
-  `version: 1
-datasets:
-  - name: weather
-    label: Weather
-    source: { kind: csv, paths: ["${vegaDataFile('weather.csv')}"] }
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: days, label: Days recorded, count: rows, unit: count, kind: flow, also_called: [days] }
-      - { name: precipitation, label: Precipitation, sum: precipitation, unit: number, unit_label: mm, kind: flow, also_called: [rain, rainfall] }
-      - { name: temp_max, label: Daily high temperature, average: temp_max, unit: number, unit_label: °C, kind: level, also_called: [high temperature, max temperature, temperature] }
-      - { name: temp_min, label: Daily low temperature, average: temp_min, unit: number, unit_label: °C, kind: level, also_called: [low temperature, min temperature] }
-      - { name: wind, label: Wind speed, average: wind, unit: number, unit_label: m/s, kind: level, also_called: [wind] }
-    dimensions:
-      - { name: location, label: City, column: location, also_called: [city, location] }
-      - { name: weather, label: Weather type, column: weather, also_called: [weather type, conditions] }
-`,
+  weatherConfigText(
+    [
+      '{ name: days, label: Days recorded, count: rows, unit: count, kind: flow, also_called: [days] }',
+      '{ name: precipitation, label: Precipitation, sum: precipitation, unit: number, unit_label: mm, kind: flow, also_called: [rain, rainfall] }',
+      '{ name: temp_max, label: Daily high temperature, average: temp_max, unit: number, unit_label: °C, kind: level, also_called: [high temperature, max temperature, temperature] }',
+      '{ name: temp_min, label: Daily low temperature, average: temp_min, unit: number, unit_label: °C, kind: level, also_called: [low temperature, min temperature] }',
+      '{ name: wind, label: Wind speed, average: wind, unit: number, unit_label: m/s, kind: level, also_called: [wind] }',
+    ],
+    [
+      '{ name: location, label: City, column: location, also_called: [city, location] }',
+      '{ name: weather, label: Weather type, column: weather, also_called: [weather type, conditions] }',
+    ],
+  ),
 );
 writeFileSync(
   FLIGHTS_CONFIG,

@@ -11,7 +11,7 @@ import { join } from 'node:path';
 import { DuckDBInstance } from '@duckdb/node-api';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { runCli } from '../helpers/run-cli.js';
-import { flightsParquetConfigText, vegaDataFile } from '../helpers/open-data.js';
+import { flightsParquetConfigText, vegaDataFile, weatherConfigText } from '../helpers/open-data.js';
 
 const FLIGHTS = vegaDataFile('flights-3m.parquet');
 let dir = '';
@@ -23,18 +23,10 @@ beforeAll(() => {
   flights = join(dir, 'flights.yaml');
   writeFileSync(flights, `${flightsParquetConfigText()}    dimensions:\n      - { name: origin, label: Origin airport, column: origin, also_called: [airport] }\n`);
   weather = join(dir, 'weather.yaml');
-  writeFileSync(weather, `version: 1
-datasets:
-  - name: weather
-    label: Weather
-    source: { kind: csv, paths: ["${vegaDataFile('weather.csv')}"] }
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: precipitation, label: Precipitation, sum: precipitation, unit: number, unit_label: mm, kind: flow, also_called: [rain, rainfall] }
-    dimensions:
-      - { name: location, label: City, column: location, also_called: [city] }
-`);
+  writeFileSync(weather, weatherConfigText(
+    ['{ name: precipitation, label: Precipitation, sum: precipitation, unit: number, unit_label: mm, kind: flow, also_called: [rain, rainfall] }'],
+    ['{ name: location, label: City, column: location, also_called: [city] }'],
+  ));
 });
 
 const flightsOf = () => flights;
