@@ -282,6 +282,13 @@ function restate(q: Question, ds: DatasetConfig, ctx: CardContext): string {
     if (q.rankLimit) return order && order !== 'most' ? `The ${q.rankLimit} ${dimensionPlural(ranked)} with the ${order} ${what}${only}${when}.` : `The top ${q.rankLimit} ${dimensionPlural(ranked)} by ${what}${only}${when}.`;
     return `Which ${inSentence(ranked.label)} has the ${order ?? (additive ? 'most' : 'highest')} ${what}${only}${when}.`;
   }
+  // "what percentage of flights leave from ORD": the share asked heads the question, with the whole it is a share of.
+  if (q.shareOf) {
+    const dim = inSentence(ds.dimensions.find((x) => x.name === q.shareOf!.dimension)?.label ?? q.shareOf.dimension);
+    const share = `${q.shareOf.value}'s share of all ${what}${only} (every ${dim})`;
+    if (q.kind === 'growth' && q.compareWindow) return `How ${share} changed: ${w} against ${describeWindow(q.compareWindow, ctx.coverage, ctx.locale)}.`;
+    return `${cap(share)}${w ? `, ${w}` : ''}, and how it moved.`;
+  }
   switch (q.kind) {
     case 'growth':
       return q.compareWindow ? `How ${what}${only} changed${by}: ${w} against ${describeWindow(q.compareWindow, ctx.coverage, ctx.locale)}.` : `How fast ${what}${only} ${is} growing${by}${w ? `, ${w}` : ''}.`;

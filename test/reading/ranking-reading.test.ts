@@ -151,6 +151,21 @@ describe('"top N … and what share of all Y do they handle": the share the top 
 });
 
 /** The card's context as the conversation builds it. */
+describe("a named value's share: the card's question states the share asked, not how the whole moved", () => {
+  it.each([
+    ['what percentage of flights leave from ORD', 'ORD'],
+    ['What share of all flights depart from ATL?', 'ATL'],
+    ['how much of the total flights is from DFW in 2001?', 'DFW'],
+  ])('%s', (text, code) => {
+    const b = read(flights, text);
+    const q = b.questions[0]!;
+    expect(q.shareOf).toEqual({ dimension: 'origin', value: code });
+    const card = buildCard(withDefaults(b, briefDefaults(b, flights.dataset, flights.coverage)), planOf(flights, b), cardContext(flights, b));
+    expect(card.questions[0]).toMatch(new RegExp(`^${code}'s share of all flights \\(every origin airport\\)`));
+    expect(card.questions[0]).not.toMatch(/^How flights moved/);
+  });
+});
+
 function cardContext(f: DatasetFacts, b: Brief) {
   return { dataset: f.dataset, coverage: f.coverage, defaults: briefDefaults(b, f.dataset, f.coverage), locale: 'en-GB' };
 }
