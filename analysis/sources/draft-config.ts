@@ -364,6 +364,21 @@ export interface Draft {
   leftOutComment?: string;
 }
 
+/**
+ * What a row is, where the data's name says it: a name that is one plural noun, after any size or
+ * year mark ("flights_3m" counts flights, "birdstrikes" birdstrikes). Several words ("unemployment
+ * across industries") or a singular ("football", "weather") name the data, not its rows; a column
+ * of the same name ("sales" in sales.csv) is the measure, not the rows. English plurals only.
+ */
+export function rowNoun(datasetName: string, columns: Pick<ColumnProfile, 'name'>[]): string | undefined {
+  const words = datasetName.toLowerCase().split(/[_\s]+/).filter((w) => w && !/^\d+[a-z]?$/.test(w));
+  if (words.length !== 1) return undefined;
+  const w = words[0]!;
+  if (!/^[a-z]{3,}s$/.test(w) || /(?:ss|us|is|ics|news)$/.test(w)) return undefined;
+  if (columns.some((c) => catalogNameOf(c.name) === w)) return undefined;
+  return w;
+}
+
 export function draftConfig(input: DraftInput): Draft {
   const notes: string[] = [];
   const used = new Set<string>();
@@ -435,9 +450,15 @@ export function draftConfig(input: DraftInput): Draft {
   // Said above each metric in the file, where the person reviews it (never in a description, which
   // requesters read in charts and in "what can you measure?").
   const comments: Record<string, string> = {};
-  const rowsName = unique('rows');
-  comments[rowsName] = ' drafted by init: the number of rows';
-  const rowsMetric: Record<string, unknown> = { name: rowsName, label: 'Rows', also_called: [], count: 'rows', unit: 'count', kind: 'flow' };
+  // The rows are named for what the file says a row is: a file or table named by one plural noun
+  // ("flights", "birdstrikes") counts those. Nothing else names them, so the plain label stays and
+  // the comment asks for the right word: it is what requesters will say ("how many matches").
+  const noun = rowNoun(input.datasetName, input.columns);
+  const rowsName = unique(noun ?? 'rows');
+  comments[rowsName] = noun
+    ? ` drafted by init: the number of rows, each read as one of the ${noun} the ${input.table ? 'table' : 'file'} is named for (rename it if a row is something else)`
+    : ' drafted by init: the number of rows; nothing in the file says what a row is: rename the label (and name) to it, e.g. Orders or Visits, and add the word to also_called';
+  const rowsMetric: Record<string, unknown> = { name: rowsName, label: noun ? labelOf(noun) : 'Rows', also_called: noun ? [noun.replace(/_/g, ' ')] : [], count: 'rows', unit: 'count', kind: 'flow' };
   const metrics: Record<string, unknown>[] = [rowsMetric];
   // One row per date and breakdown cell (a shop's channel on a day, or one row per month): the rows
   // hold figures already counted, so a count of rows counts cells, not events.

@@ -13,13 +13,14 @@ import { parse } from 'yaml';
 import { vegaDataFile } from '../helpers/open-data.js';
 import { runCli } from '../helpers/run-cli.js';
 
-type Dataset = { metrics: { name: string; count?: string }[] };
+type Dataset = { metrics: { name: string; label: string; also_called: string[]; count?: string }[] };
 
-async function draft(source: string): Promise<{ out: string; ds: Dataset }> {
+async function draft(source: string): Promise<{ out: string; ds: Dataset; text: string }> {
   const file = join(mkdtempSync(join(tmpdir(), 'tc-init-match-')), 'draft.yaml');
   const r = await runCli(['init', '--source', source, '--out', file]);
   expect(r.code, r.err).toBe(0);
-  return { out: r.out, ds: (parse(readFileSync(file, 'utf8')) as { datasets: Dataset[] }).datasets[0]! };
+  const text = readFileSync(file, 'utf8');
+  return { out: r.out, ds: (parse(text) as { datasets: Dataset[] }).datasets[0]!, text };
 }
 
 async function fill(file: string, time: string, breakdowns: string[]): Promise<{ rows: number; cells: number; grid: number }> {
@@ -52,5 +53,27 @@ describe('init: cells of a grid or events', () => {
     const { out, ds } = await draft(file);
     expect(ds.metrics.find((m) => m.count === 'rows')).toBeUndefined();
     expect(out).toContain('no count of rows');
+  }, 120_000);
+});
+
+describe('init: the count of rows is named for what a row is, where the data says it', () => {
+  it('flights-3m.parquet: a file named for its rows (one plural noun after the size mark) counts "Flights"', async () => {
+    const { ds, text } = await draft(vegaDataFile('flights-3m.parquet'));
+    const rows = ds.metrics.find((m) => m.count === 'rows')!;
+    expect(rows).toMatchObject({ name: 'flights', label: 'Flights', also_called: ['flights'] });
+    expect(text).toContain('each read as one of the flights the file is named for');
+  }, 120_000);
+
+  it('birdstrikes.csv: the same rule on another file, one word', async () => {
+    const { ds } = await draft(vegaDataFile('birdstrikes.csv'));
+    expect(ds.metrics.find((m) => m.count === 'rows')).toMatchObject({ label: 'Birdstrikes' });
+  }, 120_000);
+
+  it('football.json: nothing names a row (a singular name, no such column), so the plain label stays and the comment asks for it to be renamed', async () => {
+    const { ds, text } = await draft(vegaDataFile('football.json'));
+    const rows = ds.metrics.find((m) => m.count === 'rows')!;
+    expect(rows).toMatchObject({ name: 'rows', label: 'Rows', also_called: [] });
+    const comment = text.split('\n').find((l) => l.includes('drafted by init: the number of rows'))!;
+    expect(comment).toMatch(/nothing in the file says what a row is: rename the label/);
   }, 120_000);
 });

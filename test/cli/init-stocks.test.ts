@@ -121,7 +121,7 @@ describe('init on a grid of date × breakdown cells, and on events', () => {
   it('keeps the count of rows when each row is an event at its own time (flights-2k.json)', async () => {
     // Flights with their departure times: rows are events, whose count is the number of flights.
     const { ds } = await draft(vegaDataFile('flights-2k.json'));
-    expect(ds.metrics.find((m) => m.name === 'rows')).toMatchObject({ count: 'rows', unit: 'count', kind: 'flow' });
+    expect(ds.metrics.find((m) => m.count === 'rows')).toMatchObject({ name: 'flights', label: 'Flights', count: 'rows', unit: 'count', kind: 'flow' });
   });
 });
 
