@@ -146,13 +146,17 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           // the brief reads as the data's last two years instead.
           const named = !!q.compareWindow;
           const context = namedContext ?? (q.window && monthsIn(q.window) >= 13 ? q.window : history);
+          // No period named at all: the card says "all the data, 2001 to 2017", so the segments'
+          // growth runs over that span too, its first whole year against its last (as "since 2001"
+          // does); the growth series beside it gives the latest year on the one before.
+          const whole: Partial<SubQuestion> = !q.window && !brief.window && !named && !namedContext && !q.spanEnds ? { spanEnds: 'year' } : {};
           if (named) add('growth_periods', metric, true, {}, focus);
           add('series', metric, false, {}, context);
           add('growth_series', metric, !dims.length && !named, {}, context);
           // "Which channel is growing fastest": the segments ranked by their own rate answer it, and head the question.
-          for (const [i, d] of dims.entries()) add('growth_drivers', metric, i === 0 && (!named || !!q.growthRank), { dimension: d, ...(q.growthRank ? { growthRank: q.growthRank, answersAsked: true } : {}) }, focus);
+          for (const [i, d] of dims.entries()) add('growth_drivers', metric, i === 0 && (!named || !!q.growthRank), { dimension: d, ...whole, ...(q.growthRank ? { growthRank: q.growthRank, answersAsked: true } : {}) }, focus);
           add('growth_summary', metric, false, {}, context);
-          if (additive) for (const d of dims) add('growth_share_shift', metric, false, { dimension: d }, focus);
+          if (additive) for (const d of dims) add('growth_share_shift', metric, false, { dimension: d, ...whole }, focus);
           break;
         case 'performance': {
           if (!group) {
