@@ -150,6 +150,9 @@ export const KIND_CUES = {
     /\bbeat(?:s|en)?\b|\bbeating\b|\bbetter or worse\b|\b(?:better|worse) than\b|\b(?:more|less|higher|lower|bigger|smaller) than (?:last|the (?:previous|prior|same)|a year)\b/,
     /\byear[- ](?:on|over)[- ]year\b|\byoy\b|\by\/y\b|\bcagr\b|\bgrowth rate\b|\brate of (?:change|growth|increase|decline)\b|\bhow (?:fast|quickly|much) .{0,40}\b(?:chang|rising|rose|grow|fall|increas|decreas|declin|climb)\w*/,
     /\bchang(?:e|ed|es|ing)\b|\bimprov\w*|\bworsen\w*|\bdeteriorat\w*|\bgetting (?:better|worse)\b|\btaking .{0,30}\baway\b/,
+    // "has it gone up since March", "did delays come down", "are flights higher than in March":
+    // a change from that period to the latest (issue 16), never a trend read over the stretch.
+    /\b(?:go(?:ne|es|ing)?|went|come|came|coming|creep\w*|crept|tick\w*|head\w*|trend\w*|edg\w*|mov\w*)\s+(?:up|down|upwards?|downwards?)\b(?=.{0,80}\b(?:since|from|than|on|compared|vs\.?|versus|against)\b)|\b(?:go(?:ne|es|ing)?|went|come|came|coming)\s+(?:up|down)\b|\b(?:higher|lower|more|less|fewer|bigger|smaller|busier|quieter|better|worse)(?:\s+[a-z'-]+){0,3}?\s+than\s+(?:(?:it|they|that|this|we|there)\s+(?:was|were|did|had)\s+)?(?:in|during|over|for|at|back\s+in)\s+/,
   ],
   trend: [
     /\btrend\w*|\bover time\b|\bpattern\w*|\bseason\w*|\bhistor\w*|\bevolv\w*|\bevolution\b|\btrajector\w*|\bmoved\b|\bmovement\b|\btrack\w*/,

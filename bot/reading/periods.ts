@@ -459,7 +459,7 @@ function findShifts(text: RequestText): PeriodMention[] {
 
 /** Words that put the period after them in the comparison's place. */
 const COMPARED_BEFORE = /(?:\bvs\.?|\bv\.?|\bversus|\bagainst|\bcompared\s+(?:to|with)|\bcompare\w*(?:\s+\S+){0,6}\s+(?:to|with|against)|\brelative\s+to|\bthan|\bbeat(?:s|en)?|\bbeating|\boutperform\w*|\bover|\bon|\bfrom|\bwith|\bagainst|\bto)\s+(?:the\s+|that\s+of\s+|those\s+of\s+|in\s+|for\s+|of\s+)?$/;
-const STRONG_COMPARED_BEFORE = /(?:\bvs\.?|\bv\.?|\bversus|\bagainst|\bcompared\s+(?:to|with)|\bcompare\w*(?:\s+\S+){0,6}\s+(?:to|with|against)|\brelative\s+to|\bthan|\bbeat(?:s|en)?|\bbeating|\boutperform\w*)\s+(?:the\s+|that\s+of\s+|those\s+of\s+|in\s+|for\s+|of\s+)?$/;
+const STRONG_COMPARED_BEFORE = /(?:\bvs\.?|\bv\.?|\bversus|\bagainst|\bcompared\s+(?:to|with)|\bcompare\w*(?:\s+\S+){0,6}\s+(?:to|with|against)|\brelative\s+to|\bthan|\bthan\s+(?:it|they|that|this|we|there)\s+(?:was|were|did|had)|\bbeat(?:s|en)?|\bbeating|\boutperform\w*)\s+(?:the\s+|that\s+of\s+|those\s+of\s+|in\s+|for\s+|during\s+|of\s+|back\s+in\s+)?$/;
 
 /** A word of comparison a few words before "between" ("compared between", "how does Finance compare between"). */
 const COMPARED_BETWEEN = /\b(?:compar(?:e|ed|es|ing)|differ(?:s|ed|ing)?|difference|contrast(?:s|ed|ing)?)\s+(?:[\p{L}\p{N}'’-]+\s+){0,6}between\s+(?:the\s+)?$/u;

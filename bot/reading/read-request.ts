@@ -1201,6 +1201,9 @@ function readValues(valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[], h
 // ---------------------------------------------------------------------------------------------
 // Periods of a question
 
+/** A level set against one named earlier period ("higher than in March", "lower than during Q1"). */
+const LATER_THAN_NAMED = /\b(?:higher|lower|more|less|fewer|bigger|smaller|busier|quieter|better|worse|up|down)(?:\s+[a-z'-]+){0,3}?\s+than\s+(?:(?:it|they|that|this|we|there)\s+(?:was|were|did|had)\s+)?(?:in|during|over|for|at|back\s+in)\b/;
+
 /** The question's window and the window it is compared with, like for like. */
 function windowsOf(periods: PeriodMention[], st: ReadState, clause: Clause): { window?: DateWindow; compareWindow?: DateWindow; windowSoFar?: boolean; spanEnds?: SpanEndsUnit } {
   const t = clause.text.toLowerCase();
@@ -1227,6 +1230,15 @@ function windowsOf(periods: PeriodMention[], st: ReadState, clause: Clause): { w
     // "since 2024" runs to the latest data; "this year" and "2024 so far" to the latest data within their own period.
     const latest = latestEnd(st);
     window = { start: main.window.start, end: main.toLatest ? (main.bounded ? minIso(spanEnd, latest) : latest) : spanEnd };
+  } else if (other?.window && !other.shift && !other.relative && other.unit !== 'span' && other.unit !== 'day' && LATER_THAN_NAMED.test(t)) {
+    // "higher than in March", "is it lower than it was in Q1": a change from that period to the
+    // latest complete one of the same unit (June 2001 on data ending 30 June 2001), never the
+    // period running from the anchor, which holds no data when the data has ended.
+    const latest = latestEnd(st);
+    let current = periodHolding(addDays(latest, -1), other.unit, st.ds.hemisphere ?? 'north');
+    if (current.end > latest) current = shiftPeriod(current, other.unit, 1);
+    if (current.start <= other.window.start) return {};
+    return { window: clip(current, st), compareWindow: clip(other.window, st) };
   } else if (other && !other.shift?.unit.match(/^(?:month|week|quarter|day)$/)) {
     // A comparison with no window of its own ("is revenue up on last year?"): the year to date.
     const unit: PeriodUnit = other.shift?.unit === 'period' ? 'month' : other.shift?.unit === 'same' ? 'year' : ((other.shift?.unit as PeriodUnit | undefined) ?? (other.unit === 'span' ? 'year' : (other.unit as PeriodUnit)));
