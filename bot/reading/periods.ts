@@ -265,6 +265,11 @@ function findPoints(text: RequestText, ctx: PeriodContext): Point[] {
     const y = m[2] ? Number(m[2]) : undefined;
     if (w >= 1 && w <= 53) add(m.span, { unit: 'week', ...(y ? { year: y, digitsYear: true } : {}), make: (yy) => isoWeekWindow(yy, w), which: 'latest', month: 1 });
   }
+  // Decades: "the 1990s", "in 2000s", "the '90s": the ten calendar years from the one ending in 0.
+  for (const m of text.matches(re(`${B}(?:the\\s+)?(?:((?:19|20)\\d)0|'(\\d)0)s${E}`))) {
+    const start = m[1] !== undefined ? Number(m[1]) * 10 : (Number(m[2]) >= 3 ? 1900 : 2000) + Number(m[2]) * 10;
+    add(m.span, { unit: 'year', year: start, make: () => ({ start: ymd(start, 1), end: ymd(start + 10, 1) }), which: 'latest', month: 1, digitsYear: true });
+  }
   // Years: 2024, the year 2024, calendar 2024, FY2024 (read as the calendar year)
   for (const m of text.matches(re(`${B}(?:(?:the\\s+)?(?:calendar\\s+|full\\s+)?year\\s+|fy\\s?|cy\\s?)?(${YEAR})${E}(?![.,]\\d)`))) {
     const y = Number(m[1]);
@@ -273,8 +278,13 @@ function findPoints(text: RequestText, ctx: PeriodContext): Point[] {
     const anchorYear = Number(ctx.anchor.slice(0, 4));
     // A number that could be a count ("2500 tickets") is a year only near the data's years, or
     // after a word that dates it ("in 2031", "for 2031"): a year outside the data is still a year, asked about.
-    const dated = /\b(?:in|for|during|since|from|until|till|through|by|of|year|fy|cy)\s+(?:the\s+)?(?:calendar\s+|full\s+)?(?:year\s+)?$/.test(text.lower.slice(Math.max(0, m.index - 30), m.index));
-    if (y < anchorYear - 30 || y > anchorYear + (dated ? 30 : 5)) continue;
+    const lead = text.lower.slice(Math.max(0, m.index - 30), m.index);
+    const dated = /\b(?:in|for|during|since|from|until|till|through|by|of|year|fy|cy)\s+(?:the\s+)?(?:calendar\s+|full\s+)?(?:year\s+)?$/.test(lead);
+    // Far back (more than 30 years before the anchor: "deaths since 1950" on a table from 1900) a
+    // year needs a word that can only date it; "of" and "by" also take counts ("a total of 1950").
+    // The second end of a range joined to a year ("from 1950 to 1970", "1960 vs 1990") is dated by it.
+    const datedFarBack = /\b(?:in|during|since|from|between|until|till|through|before|after|year|fy|cy)\s+(?:the\s+)?(?:calendar\s+|full\s+)?(?:year\s+)?$/.test(lead) || /\b(?:19|20)\d{2}\s*(?:-|–|to|and|until|till|through|vs\.?|versus|against|compared\s+(?:to|with))\s*(?:the\s+)?(?:year\s+)?$/.test(lead);
+    if ((y < anchorYear - 30 && !datedFarBack) || y > anchorYear + (dated ? 30 : 5)) continue;
     add(m.span, { unit: 'year', year: y, make: () => yearWindow(y), which: 'latest', month: 1, digitsYear: true });
   }
   return longestFirst(found);
