@@ -24,6 +24,7 @@ export function caveatNote(c: Caveat, locale: string): string {
     case 'partial_period_excluded':
       return `${period(d.period, d.grain)} is partial and was left out.`;
     case 'series_gap':
+      if (d.zero === true) return `${periodsText(d.periods, d.grain)} ${d.periods === 1 ? 'has' : 'have'} no rows at all in the data${d.periods === 1 ? ':' : ', the first'} ${period(d.firstGap, d.grain ?? 'month')}; between the filter's first and last rows ${d.periods === 1 ? 'it counts' : 'they count'} as 0.`;
       return `${periodsText(d.periods, d.grain)} ${d.periods === 1 ? 'has' : 'have'} no data at all${d.periods === 1 ? ':' : ', the first in'} ${period(d.firstGap, d.grain ?? 'month')}.`;
     case 'empty_period': {
       const grain = (typeof d.grain === 'string' ? d.grain : 'month') as Grain;
@@ -140,6 +141,7 @@ function periodsText(n: unknown, grain: unknown): string {
 export function caveatFlag(c: Caveat): string {
   // A filtered series that starts at its first matching period is not empty anywhere it is drawn.
   if (c.code === 'empty_period' && c.data.leading === true) return 'The series starts at the first period with matching rows.';
+  if (c.code === 'series_gap' && c.data.zero === true) return 'Periods with no rows at all count as 0 inside the filtered series.';
   // A fold by value holds lower (or higher) values, not a long tail of small segments.
   if (c.code === 'segments_folded' && (c.data.folded === 'lower' || c.data.folded === 'higher')) return `Segments with ${c.data.folded} values are combined as "All others".`;
   // Judged after the cycle: a reader of the image alone learns that July was weighed against other Julys.

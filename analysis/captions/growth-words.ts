@@ -204,6 +204,7 @@ export function growthNote(c: Caveat, locale: string, dimension: string, dataset
     case 'series_gap':
       if (typeof d.firstGap === 'string' && typeof d.periods === 'number') {
         const grain = (d.grain as Grain | undefined) ?? 'month';
+        if (d.zero === true) return `${d.periods} ${plural(grain, d.periods)} in the window have no rows at all (the first is ${formatPeriod(d.firstGap, grain, locale, 'long')}); between the filter's first and last rows they count as 0.`;
         return `${d.periods} ${plural(grain, d.periods)} in the window have no data at all (the first is ${formatPeriod(d.firstGap, grain, locale, 'long')}); no rate is given next to them.`;
       }
       break;

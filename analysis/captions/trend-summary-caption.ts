@@ -45,9 +45,12 @@ export function trendSummaryWords(metric: Metric, grain: Grain, findings: readon
   // of the periods' averages, which weights a quiet week like a busy one (January's delay per
   // flight, not the mean of four weekly means). The periods' mean stays for a flow, and for a
   // level, a reading averaged over time.
+  // A rate or ratio over the span is its numerator's sum over its denominator's (s.pooled), an
+  // average of a column its rows' mean (s.rows).
   const r = s.rows;
-  const ownRatio = quantityKind(metric) === 'ratio' && r !== undefined;
-  const own = ownRatio ? r.mean : s.mean;
+  const spanOwn = s.pooled ?? r?.mean;
+  const ownRatio = quantityKind(metric) === 'ratio' && spanOwn !== undefined;
+  const own = ownRatio ? spanOwn : s.mean;
   const spread = ownRatio ? `${grainNoun(grain, 2)} from ${v(s.min)} to ${v(s.max)}` : `from ${v(s.min)} to ${v(s.max)}`;
   const title = `${labelAtStart(metric.label)} averaged ${v(own)}${perGrain}, ${spread}`;
   const range = `from ${v(s.min)} (${when(s.minPeriod)}) to ${v(s.max)} (${when(s.maxPeriod)})`;

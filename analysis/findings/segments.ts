@@ -152,6 +152,8 @@ export interface TrendSummaryFinding {
   maxPeriod: string;
   /** For an average of a column: its mean and median over the rows in the window (the statistics above are of the periods' values). */
   rows?: { n: number; mean: number; median: number };
+  /** For a rate or a ratio: the metric over every row of the window (numerator's sum over denominator's), not a mean of the periods' values. */
+  pooled?: number;
 }
 
 export interface TrendOutlierFinding {

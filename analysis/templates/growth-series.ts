@@ -23,7 +23,7 @@ import { cagr, percentBaseUsable, percentChange, senSlope, slopesByDecade, trail
 import type { Caveat, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
 import { maxIso, minIso } from './growth-compare.js';
 import type { Reading, Template } from './template.js';
-import { firstMatchingStart } from './series.js';
+import { emptyInsidePresence, firstMatchingStart } from './series.js';
 
 // Working column names, prefixed so they cannot clash with a table's own columns.
 const DAY = '__tc_day';
@@ -151,7 +151,9 @@ export function readGrowthSeries(
     // The one rule for percentages of a metric (catalog.ts metricPercentScale): an interval scale
     // (°C) or a signed window gives none.
     const scaleOf = (v: readonly (number | null)[]) => metricPercentScale(catalogMetric, v, additive);
-    const raw = starts.map((p) => numberOrNull(rows.periods.get(p)?.[metric]));
+    // A filtered count's period with no rows at all inside the segment's presence is 0 (series.ts emptyInsidePresence).
+    const zeroed = new Set(emptyInsidePresence(sq, starts, rows.periods, dataset, metric));
+    const raw = starts.map((p) => numberOrNull(rows.periods.get(p)?.[metric]) ?? (zeroed.has(p) ? 0 : null));
     if (raw.every((v) => v === null)) {
       caveats.push({ code: 'all_null', data: { metric } });
       continue;
@@ -162,6 +164,8 @@ export function readGrowthSeries(
     if (complete <= 1) caveats.push({ code: 'single_period', data: { metric, periods: complete } });
     const gaps = starts.filter((p, i) => raw[i] === null && !partial.has(p));
     if (gaps.length > 0) caveats.push({ code: 'series_gap', data: { metric, periods: gaps.length, firstGap: gaps[0]!, grain: sq.grain } });
+    const zeroes = starts.filter((p) => zeroed.has(p) && !partial.has(p));
+    if (zeroes.length > 0) caveats.push({ code: 'series_gap', data: { metric, periods: zeroes.length, firstGap: zeroes[0]!, grain: sq.grain, zero: true } });
 
     // Percentages only where the base allows one (stats/growth percentScale): never for a quantity
     // that is signed in this window or on an interval scale, never off a base below a tenth of its typical level.

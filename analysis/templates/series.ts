@@ -84,9 +84,10 @@ export function readSeries(
     const perDay = opts.perDay?.has(metric) === true;
     // Per day: the period's total over the days of it the window and the data cover.
     const days = (p: string) => daysBetween(maxIso(p, effectiveStart), minIso(nextPeriod(p, sq.grain), effectiveEnd));
+    const zeroed = new Set(emptyInsidePresence(sq, starts, byPeriod, opts.dataset, metric));
     const points: PeriodPoint[] = starts.map((p) => {
       const v = byPeriod.get(p)?.[metric];
-      const value = typeof v === 'number' ? (perDay ? v / days(p) : v) : null;
+      const value = typeof v === 'number' ? (perDay ? v / days(p) : v) : zeroed.has(p) ? 0 : null;
       return { period: p, value, partial: partialStarts.has(p) };
     });
     findings.push({ type: 'series', metric, grain: sq.grain, points, ...(perDay ? { perDay: true as const } : {}) });
@@ -99,6 +100,7 @@ export function readSeries(
     if (gaps.length > 0 && gaps.length < points.length) {
       caveats.push({ code: 'series_gap', data: { metric, periods: gaps.length, firstGap: gaps[0]!.period, grain: sq.grain } });
     }
+    if (zeroed.size > 0) caveats.push({ code: 'series_gap', data: { metric, periods: zeroed.size, firstGap: [...zeroed][0]!, grain: sq.grain, zero: true } });
     const complete = points.filter((p): p is PeriodPoint & { value: number } => p.value !== null && !p.partial);
     if (complete.length === 0) {
       caveats.push({ code: points.some((p) => p.value !== null) ? 'single_period' : 'all_null', data: { metric } });
@@ -136,6 +138,35 @@ export function firstMatchingStart(
   const lead = all.findIndex((p) => !isEmptyPeriod(rowOf(p)));
   if (lead <= 0) return { start };
   return { start: all[lead]!, caveat: { code: 'empty_period', data: { leading: true, periods: lead, firstEmpty: maxIso(all[0]!, start), firstMatch: all[lead]!, grain } } };
+}
+
+/**
+ * The periods of a filtered count or sum (additive: matches, goals) that have no rows at all in the
+ * data but lie between the segment's first and last periods with matching rows: inside the segment's
+ * presence a period with nothing is none of it (a league's summer break is 0 matches), so it reads 0.
+ * An average, rate or ratio there has nothing to divide and stays without a value; outside the
+ * presence (before a team's first match, after its last) the series does not reach. Unfiltered, a
+ * period with no rows is a hole in the data, which a count cannot tell from a quiet period, so it
+ * stays blank (said once for the thread: thread-notes.ts measureNotes).
+ */
+export function emptyInsidePresence(
+  sq: Pick<SubQuestion, 'filters'>,
+  starts: readonly string[],
+  byPeriod: ReadonlyMap<string, Record<string, unknown>>,
+  ds: DatasetConfig | undefined,
+  metric: string,
+): string[] {
+  if (sq.filters.length === 0 || !ds) return [];
+  const m = ds.metrics.find((x) => x.name === metric);
+  if (!m || !isAdditive(m)) return [];
+  const present = starts.map((p) => {
+    const n = byPeriod.get(p)?.row_count;
+    return typeof n === 'number' && n > 0;
+  });
+  const first = present.indexOf(true);
+  const last = present.lastIndexOf(true);
+  if (first < 0) return [];
+  return starts.filter((p, i) => i > first && i < last && !byPeriod.has(p));
 }
 
 /** A grouped row whose rows all failed the filters: it is there, with a row count of 0. */

@@ -2,8 +2,8 @@
 // period holds each extreme), and periods that stand out by a robust outlier screen.
 import { summarize } from '../stats/index.js';
 import { screenSeries } from '../quality/series-outliers.js';
-import { metricByName } from '../catalog.js';
-import { type CompileContext, tableRef, whereClause } from '../compile-context.js';
+import { metricByName, quantityKind } from '../catalog.js';
+import { type CompileContext, periodScope, tableRef, whereClause } from '../compile-context.js';
 import { filterCondition } from '../sql/metric-sql.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, Finding, ResultTable, SubQuestion } from '../types.js';
@@ -14,10 +14,39 @@ import { completePoints, EMPTY_TABLE, numberOrNull, seriesFinding } from './tren
 export const trendSummaryTemplate: Template = {
   compile: (sq, ctx) => {
     const rows = compileRowStats(sq, ctx);
-    return [{ name: 'series', ...compileSeries({ ...sq, metrics: sq.metrics.slice(0, 1) }, ctx) }, ...(rows ? [{ name: 'row_stats', ...rows }] : [])];
+    const pooled = compilePooled(sq, ctx);
+    return [
+      { name: 'series', ...compileSeries({ ...sq, metrics: sq.metrics.slice(0, 1) }, ctx) },
+      ...(rows ? [{ name: 'row_stats', ...rows }] : []),
+      ...(pooled ? [{ name: 'pooled', ...pooled }] : []),
+    ];
   },
-  read: (sq, tables, ctx) => withRowStats(readTrendSummary(sq, tables.series ?? EMPTY_TABLE, ctx), tables.row_stats),
+  read: (sq, tables, ctx) => withPooled(withRowStats(readTrendSummary(sq, tables.series ?? EMPTY_TABLE, ctx), tables.row_stats), tables.pooled),
 };
+
+/**
+ * A rate or a ratio over the whole window is the metric over all the window's rows: its numerator's
+ * sum over its denominator's (away wins over matches), never the mean of the periods' rates, which
+ * weighs a month of two matches like a month of forty (football.json, Barcelona and R. Madrid at
+ * home: 8.1% of matches won away, against 6.9% as the mean of the monthly rates). An average of a
+ * column gets the same from its row statistics below.
+ */
+function compilePooled(sq: SubQuestion, ctx: CompileContext): CompiledQuery | null {
+  const metric = metricByName(ctx.dataset, sq.metrics[0]!);
+  const t = metric.definition.type;
+  if (quantityKind(metric) !== 'ratio' || (t !== 'rate' && t !== 'ratio')) return null;
+  const q = new QueryBuilder(ctx.dialect);
+  const scope = periodScope(q, ctx, sq.window, sq.filters);
+  return q.finish(`SELECT ${scope.measure(metric)} AS pooled
+FROM ${tableRef(q, ctx)}
+WHERE ${scope.where}`);
+}
+
+function withPooled(reading: Reading, table: ResultTable | undefined): Reading {
+  const pooled = numberOrNull(table?.rows[0]?.pooled);
+  if (pooled === null) return reading;
+  return { ...reading, findings: reading.findings.map((f) => (f.type === 'trend_summary' ? { ...f, pooled } : f)) };
+}
 
 /**
  * An average of a column summarised period by period gives the mean and median of the periods'
