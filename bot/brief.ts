@@ -25,6 +25,11 @@ export interface UnknownTerm {
 export interface AmbiguousValue {
   text: string;
   candidates: { dimension: string; value: string }[];
+  /**
+   * Named against another value ("Serie A vs Bundesliga"): once answered, the two values of one
+   * breakdown are compared side by side (the question's contrast), not merged into one filter.
+   */
+  versus?: boolean;
 }
 
 /** One question inside a request; a message may hold several. */

@@ -10,7 +10,7 @@ import { shortWindow } from '../analysis/window-words.js';
 import { addDays, addMonths, periodStart } from '../analysis/periods.js';
 import { finestGrain, isFinerGrain } from '../analysis/grains.js';
 import { GRAINS, type DateWindow, type Grain, type SegmentFilter } from '../analysis/types.js';
-import { type Brief, type BriefSlot, type Question, type UnknownTerm, wholeRequestQuestion } from './brief.js';
+import { type AmbiguousValue, type Brief, type BriefSlot, type Question, type UnknownTerm, wholeRequestQuestion } from './brief.js';
 import { distance } from 'fastest-levenshtein';
 import { fullWindow, readDeadlineAnswer, readWindowAnswer } from './reading/answers.js';
 import { saysAsap } from './reading/deadline.js';
@@ -381,7 +381,7 @@ function readAnswerInto(prompt: Prompt, text: string, brief: Brief, ctx: PromptC
       if (byWords.length === 0) return { ok: false, message: `Choose one of: ${prompt.options.map((o) => o.label).join(', ')}.` };
       const picks = byWords.map((o) => JSON.parse(o.value) as { dimension: string; value: string });
       const asked = brief.questions.length > 0 ? brief.questions : [wholeRequestQuestion(brief)];
-      const questions = asked.map((q, i) => (i === 0 ? { ...q, filters: addValues(q.filters, picks) } : q));
+      const questions = asked.map((q, i) => (i === 0 ? withVersus({ ...q, filters: addValues(q.filters, picks) }, ambiguous, picks) : q));
       // "What share of flights does ATL have" answered "origin": ATL is the share's focus, not a filter.
       const shareNotes = focusShares(questions, ctx.dataset);
       const saidBack = shareNotes.length > 0 ? { saidBack: [...(brief.saidBack ?? []), ...shareNotes] } : {};
@@ -401,6 +401,17 @@ function readAnswerInto(prompt: Prompt, text: string, brief: Brief, ctx: PromptC
       return { ok: true, brief: { ...brief, dimensions: found, dimensionsAsked: true, unknownTerms: brief.unknownTerms.filter((u) => u.role !== 'dimension'), toAsk: (brief.toAsk ?? []).filter((t) => t !== 'dimensions') } };
     }
   }
+}
+
+/**
+ * A value asked about that was named against another ("Serie A vs Bundesliga", "Barcelona vs Real
+ * Madrid"): once the breakdown's filter holds both, they are compared side by side (the question's
+ * contrast) rather than read as one filter of either.
+ */
+function withVersus(q: Question, ambiguous: AmbiguousValue, picks: { dimension: string; value: string }[]): Question {
+  if (!ambiguous.versus || q.contrast) return q;
+  const f = q.filters.find((x) => !x.exclude && picks.some((p) => p.dimension === x.dimension) && x.values.length >= 2);
+  return f ? { ...q, contrast: { dimension: f.dimension, values: f.values.map(String) } } : q;
 }
 
 function addValues(filters: SegmentFilter[], picks: { dimension: string; value: string }[]): SegmentFilter[] {

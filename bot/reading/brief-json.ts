@@ -46,7 +46,7 @@ export const briefJsonSchema = z
     deadline: isoDate.nullable(),
     /** `role`: what the words seemed to name (a measure, a breakdown, a value of the data), when the reader could tell. */
     unknownTerms: z.array(z.object({ text: z.string(), closest: z.array(z.string()), role: z.enum(['metric', 'dimension', 'value', 'other']).optional() }).strict()),
-    ambiguousValues: z.array(z.object({ text: z.string(), candidates: z.array(z.object({ dimension: z.string(), value: z.string() }).strict()) }).strict()),
+    ambiguousValues: z.array(z.object({ text: z.string(), candidates: z.array(z.object({ dimension: z.string(), value: z.string() }).strict()), versus: z.boolean().optional() }).strict()),
     personalData: z.array(z.string()),
     personalValues: z.array(z.string()),
     toAsk: z.array(z.enum(ASKABLE)),

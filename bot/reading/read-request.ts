@@ -1136,6 +1136,7 @@ function composeRatios(metrics: string[], hits: CatalogHit[], st: ReadState, cla
 function readValues(valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[], hits: CatalogHit[], st: ReadState, clause: Clause, ambiguous: AmbiguousValue[]): { filters: SegmentFilter[]; contrast?: { dimension: string; values: string[] } } {
   const lower = st.text.lower;
   const chosen: { dimension: string; value: string; exclude: boolean; hit: CatalogHit }[] = [];
+  const pending: { amb: AmbiguousValue; hit: CatalogHit }[] = [];
   for (const { hit, entries } of valueHits) {
     const before = lower.slice(Math.max(0, hit.start - 30), hit.start);
     const after = lower.slice(hit.end, hit.end + 30);
@@ -1173,7 +1174,11 @@ function readValues(valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[], h
       for (const e of distinct) chosen.push({ dimension: e.name, value: e.value!, exclude, hit });
     } else if (strong.length > 0 || cueBeside) {
       const text = st.text.quote(hit);
-      if (!ambiguous.some((a) => a.text === text)) ambiguous.push({ text, candidates: distinct.map((e) => ({ dimension: e.name, value: e.value! })) });
+      if (!ambiguous.some((a) => a.text === text)) {
+        const amb: AmbiguousValue = { text, candidates: distinct.map((e) => ({ dimension: e.name, value: e.value! })) };
+        ambiguous.push(amb);
+        pending.push({ amb, hit });
+      }
     }
   }
   const filters: SegmentFilter[] = [];
@@ -1184,16 +1189,25 @@ function readValues(valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[], h
     } else filters.push({ dimension: c.dimension, values: [c.value], ...(c.exclude ? { exclude: true } : {}) });
   }
   // Two values of one breakdown joined by a comparison word are set against each other.
+  const comparing = (a: CatalogHit, b: CatalogHit) => {
+    const gap = a.end <= b.start ? lower.slice(a.end, b.start) : lower.slice(b.end, a.start);
+    return (/\bwith\b/.test(gap) && /\bcompar\w*/.test(clause.text.toLowerCase())) || /\b(?:vs\.?|versus|v|than|against|compar\w*|or|beat\w*|outperform\w*|outsell\w*|overtake\w*|overtook)\b|(?:^|\s)w\/(?:\s|$)/.test(gap) || (/\band\b/.test(gap) && /\bcompar\w*|\bdifferen\w*|\bbetween\b|\bfaster|\bslower|\bbetter|\bworse|\bmore\b|\bless\b|\bhigher\b|\blower\b|\bbigger\b|\bsmaller\b/.test(clause.text.toLowerCase()));
+  };
   let contrast: { dimension: string; values: string[] } | undefined;
   for (let i = 0; i + 1 < chosen.length; i++) {
     const a = chosen[i]!;
     const b = chosen[i + 1]!;
     if (a.dimension !== b.dimension || a.exclude || b.exclude) continue;
-    const gap = lower.slice(a.hit.end, b.hit.start);
-    if (/\b(?:vs\.?|versus|v|than|against|compar\w*|or|beat\w*|outperform\w*|outsell\w*|overtake\w*|overtook)\b|(?:^|\s)w\/(?:\s|$)/.test(gap) || (/\band\b/.test(gap) && /\bcompar\w*|\bdifferen\w*|\bbetween\b|\bfaster|\bslower|\bbetter|\bworse|\bmore\b|\bless\b/.test(clause.text.toLowerCase()))) {
+    if (comparing(a.hit, b.hit)) {
       contrast = { dimension: a.dimension, values: unique([a.value, b.value]) };
       break;
     }
+  }
+  // A value that needs asking about ("Bundesliga": two divisions; "Barcelona": home or away team)
+  // named against another keeps the comparison: the answer to the question sets the two side by side.
+  for (const { amb, hit } of pending) {
+    const others = [...chosen.filter((c) => !c.exclude).map((c) => c.hit), ...pending.filter((p) => p.hit !== hit).map((p) => p.hit)];
+    if (others.some((o) => o !== hit && Math.abs((o.start < hit.start ? hit.start - o.end : o.start - hit.end)) <= 40 && comparing(o, hit))) amb.versus = true;
   }
   return contrast ? { filters, contrast } : { filters };
 }

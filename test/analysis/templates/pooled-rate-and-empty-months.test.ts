@@ -101,7 +101,7 @@ describe("a filtered count's month with no rows at all is 0 inside the segment's
   }, 120_000);
 
   it('growth by month of a filtered count reads the same zeros', async () => {
-    const a = await answerSubQuestion({ ...series('matches', EPL), id: 'g', lens: 'growth', kind: 'growth', template: 'growth_series' }, ws());
+    const a = await answerSubQuestion({ ...series('matches', EPL), id: 'g', kind: 'growth', template: 'growth_series' }, ws());
     const g = a.findings.find((f) => f.type === 'growth_series');
     const p = g && 'points' in g ? (g.points as { period: string; value: number | null }[]).find((x) => x.period === '2015-06-01') : undefined;
     expect(p?.value).toBe(0);
