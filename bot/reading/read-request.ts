@@ -146,7 +146,8 @@ interface ReadState {
 export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOptions): Brief {
   const ds = facts.dataset;
   const catalog = prepareCatalog(ds, facts.values);
-  const text = new RequestText(mendCalendarWords(readablePart(fullText), catalogWords(catalog)));
+  const seasons = seasonAsYear(mendCalendarWords(readablePart(fullText), catalogWords(catalog)));
+  const text = new RequestText(seasons.text);
   const dayFirst = !/-US$/i.test(opts.locale ?? '');
   const today = isoDateIn(opts.now, ds.timezone);
   const anchor = anchorOf(today, facts);
@@ -275,7 +276,7 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
     evidence.deadline = { words: deadline.words, how: 'stated' };
   }
   if (pastDeadline) brief.pastDeadline = pastDeadline;
-  const notes = [...periodNotes(periods, facts, anchor.dataEnd), ...state.notes];
+  const notes = [...seasons.notes, ...periodNotes(periods, facts, anchor.dataEnd), ...state.notes];
   // Rows dated after today are left out of every answer: said on the card, where the period is agreed.
   if (facts.coverage.afterToday) notes.push(datesAfterWords(facts.coverage.afterToday));
   for (const r of roleHits) if (r.saidBack && questions.some((q) => q.metrics.includes(r.metrics[0]!))) notes.push(r.saidBack);
@@ -1130,6 +1131,25 @@ function composeRatios(metrics: string[], hits: CatalogHit[], st: ReadState, cla
     if (ib >= 0 && ib !== ia) metrics.splice(ib, 1);
     void clause;
   }
+}
+
+/**
+ * "Last season", "this season", "the previous season" with no season named (not "last summer"): a
+ * sports or trading season whose start no config declares. It is read as the year of the data's
+ * calendar ("last season" the last complete year, "this season" the year to date) and said on the
+ * card, never dropped: a season that straddles two years (August to May) is not what the data's
+ * year boundaries give, and the manager should see that.
+ */
+export function seasonAsYear(text: string): { text: string; notes: string[] } {
+  const notes: string[] = [];
+  const out = text.replace(/\b(this|last|previous|past|current|the\s+(?:last|previous|latest|current))\s+season\b(?!s)/gi, (whole: string, which: string) => {
+    const w = which.toLowerCase().replace(/^the\s+/, '');
+    const year = w === 'this' || w === 'current' ? 'this year' : 'last year';
+    const said = year === 'this year' ? 'the data\'s current calendar year, to date' : 'the last complete calendar year of the data';
+    notes.push(`"${whole}" read as ${said}: no season start is declared for this data, so a season is taken as a calendar year; for a season that runs across two years, name its first and last months.`);
+    return year;
+  });
+  return { text: out, notes };
 }
 
 /** Values named in a clause become filters, two of one breakdown set against each other a contrast. */

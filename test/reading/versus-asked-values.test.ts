@@ -91,3 +91,24 @@ describe('values named against each other stay compared once asked about (footba
     for (const [division, g] of rows) expect(all).toContain(`${division} ${g.toFixed(2)}`);
   }, 300_000);
 });
+
+describe('"last season" is read as the data\'s year and said, never dropped (football.json)', () => {
+  for (const [text, which] of [
+    ['goals per match in Serie A vs Bundesliga last season', 'last'],
+    ['how did home teams do in the previous season?', 'last'],
+    ['matches this season so far', 'this'],
+  ] as const) {
+    it(`"${text}"`, async () => {
+      const db = await DuckDBInstance.create(':memory:');
+      const c = await db.connect();
+      // The last year the file covers to its end (a December match), and the file's last date.
+      const [[lastFull, lastDate]] = (await c.runAndReadAll(`SELECT MAX(year(CAST(date AS DATE))) FILTER (WHERE month(CAST(date AS DATE)) = 12), strftime(MAX(CAST(date AS DATE)), '%Y-%m-%d') FROM read_json_auto('${FOOTBALL}')`)).getRows() as [[number, string]];
+      c.closeSync();
+      const brief = await readAndAccept(text);
+      const w = brief.questions[0]!.window;
+      if (which === 'last') expect(w).toEqual({ start: `${lastFull}-01-01`, end: `${Number(lastFull) + 1}-01-01` });
+      else expect(w).toEqual({ start: `${lastDate.slice(0, 4)}-01-01`, end: expect.any(String) });
+      expect((brief.saidBack ?? []).join(' ')).toMatch(/season" read as .*calendar year.*no season start is declared/);
+    }, 120_000);
+  }
+});
