@@ -121,5 +121,8 @@ export function qualityCaveatsFor(sq: SubQuestion, report: QualityReport, ws: Wo
   // Rows past the last full day (a stray tail, coverage.ts) do not make the data fresher: the data
   // ends where every other answer of the thread says it does.
   const ended = ws.coverage.strayTail && ws.coverage.lastDate ? { ...report, lastDate: ws.coverage.lastDate } : report;
-  return qualityCaveats(ended, columnsUsed(sq, ws), { now, staleAfterDays: STALE_AFTER_DAYS, ...(ws.coverage.stamps ? { stamps: ws.coverage.stamps } : {}) });
+  // A breakdown the config computes (`expr`) is named in a note by its label, never by its SQL.
+  const derived = new Set((ws.dataset.derived ?? []).map((d) => d.name));
+  const labels = new Map(ws.dataset.dimensions.filter((d) => derived.has(d.column)).map((d) => [d.column, d.label] as const));
+  return qualityCaveats(ended, columnsUsed(sq, ws), { now, staleAfterDays: STALE_AFTER_DAYS, ...(ws.coverage.stamps ? { stamps: ws.coverage.stamps } : {}), ...(labels.size > 0 ? { labels } : {}) });
 }

@@ -16,13 +16,15 @@ export interface QualityCaveatOptions {
   staleAfterDays: number;
   /** How often the data is stamped: data stamped monthly is as fresh as the end of its last month, and said as that month. */
   stamps?: StampGranularity;
+  /** Names to say instead of a column computed by the config (a breakdown's `expr`): its label. */
+  labels?: ReadonlyMap<string, string>;
 }
 
 export function qualityCaveats(report: QualityReport, columnsUsed: string[], opts: QualityCaveatOptions): Caveat[] {
   const used = new Set(columnsUsed);
   const caveats: Caveat[] = [];
   for (const n of report.nulls) {
-    if (used.has(n.column) && n.count > 0) caveats.push({ code: 'null_share', data: { column: n.column, share: n.share, count: n.count } });
+    if (used.has(n.column) && n.count > 0) caveats.push({ code: 'null_share', data: { column: opts.labels?.get(n.column) ?? n.column, share: n.share, count: n.count } });
   }
   const dup = report.duplicateKeys;
   if (dup && dup.extraRows > 0) {

@@ -91,6 +91,12 @@ describe('decades', () => {
     expect(Number(d2000s)).toBeGreaterThan(Number(d1990s)); // SQL: deaths rose, so the answer must not say they fell
     expect(posts).toContain(`rose ${pct}%`);
     expect(posts).toMatch(/No: deaths in 2000 to 2009 were [\d.]+% above 1990 to 1999/);
+
+    // The breakdown is computed by the config (an expression leaving out the total row): its
+    // missing-values note names it by its label, with SQL's count of the rows it leaves blank.
+    const [[blank, all]] = (await sql(`SELECT count(*) FILTER (WHERE Entity = 'All natural disasters'), count(*) FROM read_csv_auto('${DISASTERS}')`)) as [[bigint, bigint]];
+    expect(posts).toContain(`Disaster type is missing in ${((Number(blank) / Number(all)) * 100).toFixed(1)}% of rows (${Number(blank)})`);
+    expect(posts).not.toMatch(/case when/i);
   });
 
   it('"in the \'90s" and "since the 1950s" read as the decade and its stretch to the data\'s end', async () => {
