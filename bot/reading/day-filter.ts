@@ -34,6 +34,9 @@ const GROUP = String.raw`(?<![\p{L}\d])(?:${ONE})(?:\s*(?:-|–|to|through|thru|
 const AGAINST = String.raw`^\s*(?:vs\.?|versus|v\.?|compared\s+(?:to|with)|against|or|and|than|relative\s+to)\s+(?:on\s+|at\s+|the\s+|during\s+)?`;
 const OTHER_DAYS = String.raw`^\s*(?:vs\.?|versus|compared\s+(?:to|with)|against)\s+(?:on\s+)?(?:the\s+)?(?:other|rest\s+of\s+the|remaining)\s+(?:days?|week)(?![\p{L}])`;
 
+/** Words that put a day in the pleasantries (see isDaySet): a person, a greeting word, or "it is" just before it. */
+const PLEASANTRY_BEFORE = /(?:\b(?:you|u|me|us|we|i)\s+(?:on\s+(?:(?:a|an|this|the)\s+)?|(?:a|an)\s+)|\b(?:your|my|ur)\s+(?:\w+\s+)?|\b(?:happy|good|great|nice|lovely|wonderful|relaxing|restful|enjoy(?:\s+(?:the|your))?|(?:the\s+)?rest\s+of\s+(?:the|your))\s+|\b(?:it'?s|it\s+is|it\s+being|today\s+is|today'?s)\s+(?:(?:a|the)\s+)?)$/;
+
 function dayOf(word: string): number | undefined {
   const w = word.replace(/s$/, '');
   const order = ['mon', 'tue', 'wed', 'thu', 'fri', 'sat', 'sun'];
@@ -89,6 +92,11 @@ function isDaySet(text: RequestText, span: Span, words: string): boolean {
   const ranged = /\s(?:to|through|thru)\s|-|–/.test(w);
   if (/(?:\b(?:last|this|next|coming|past|previous|that|same|following|by|before|until|till|due|since)\s+(?:the\s+)?$)|\d\s*$/.test(before) || (!ranged && /\bfrom\s+$/.test(before))) return false;
   if (/^\s*(?:the\s+)?\d/.test(after) || /^\s*(?:of\s+)?(?:the\s+)?(?:\d|jan|feb|mar|apr|may|jun|jul|aug|sep|oct|nov|dec)/.test(after) && !/s$/.test(w)) return false;
+  // The writer's own time, not the data's: a greeting ("Happy Monday!", "have a good weekend"), the
+  // day it is ("I know it's Friday"), someone's day ("hope your Tuesday is going well"), or the
+  // day of the asking ("sorry to bother you on a Friday"): the day follows a person, a greeting
+  // word or "it is", never a measure, so it restricts nothing.
+  if (PLEASANTRY_BEFORE.test(before)) return false;
   // A breakdown by day of week is no filter.
   if (/\b(?:by|per|each|every\s+single|which|what|across|split\s+by)\s+(?:the\s+)?$/.test(before) && /^(?:week-?days?|days?)$/.test(w)) return false;
   // A single short form stands for a day only after "on" or beside another day ("sat and sun").

@@ -59,6 +59,32 @@ describe('a day set in the request is a filter on the day of the week', () => {
   });
 });
 
+describe("a day in the pleasantries is the writer's time, not a filter", () => {
+  it.each([
+    'sorry to bother you on a Friday, could you show me how delays moved by month?',
+    'Happy Monday! how have flights moved?',
+    "I know it's Friday but can you show flights by origin",
+    'hope your Tuesday is going well - average delay by month please',
+    'have a great weekend when you get there, but first: flights by origin',
+    'apologies for pinging you on a Sunday, what is the average delay by origin?',
+    "Enjoy the rest of your Wednesday! Could I get delays by month",
+  ])('no day filter: %s', (text) => {
+    const b = read(text);
+    expect(daysOf(b).flat()).toEqual([]);
+    expect(b.unknownTerms.map((t) => t.text.toLowerCase())).not.toContain('happy');
+  });
+
+  it.each([
+    // The same days about the data still filter, even beside a pleasantry.
+    ['Happy Monday! Could you show me flights on Saturdays by origin?', [6]],
+    ["I know it's Friday, but send me weekend flights by month", [6, 7]],
+    ['how many flights leave on a Friday', [5]],
+    ['what were our Sunday flights like by month', [7]],
+  ])('still a filter: %s', (text, days) => {
+    expect(daysOf(read(text))).toEqual([days]);
+  });
+});
+
 describe('two day sets set against each other', () => {
   it.each([
     ['flights on weekends vs weekdays', '6,7', '1,2,3,4,5'],
