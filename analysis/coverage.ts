@@ -50,10 +50,37 @@ export interface StrayTail {
 }
 
 /**
- * A trailing day under 1% of a typical (median) day's rows is a stray tail, not a day of data:
- * common practice for judging a partial last period by its coverage, not a published standard.
+ * A day (or a period of a series) holding under 2% of a typical one's rows is stray, not a
+ * period of data: a trailing day so thin is a stray tail, and a year of 2 films against a usual
+ * ~175 (vega-datasets' movies.json, 2011) is left out of highs, lows and the latest complete
+ * period (thinPeriods). Common practice for judging a period by its coverage, not a published
+ * standard; the share is our own choice.
  */
-export const STRAY_DAY_SHARE = 0.01;
+export const STRAY_DAY_SHARE = 0.02;
+
+/** Too few periods with rows to know what a typical one holds: none is judged thin. */
+const MIN_PERIODS_FOR_THIN = 7;
+
+/**
+ * The periods of a series that hold under STRAY_DAY_SHARE of a typical period's rows, and that
+ * typical count. Typical is where a typical row falls (the row-weighted median of the periods'
+ * counts), so a catalogue that grew from 1 film a year in 1928 to ~175 in the 2000s judges its
+ * years against ~175, not against the median year's 27. Empty when fewer than
+ * MIN_PERIODS_FOR_THIN periods have rows.
+ */
+export function thinPeriods(rowsByPeriod: ReadonlyMap<string, number>): { periods: string[]; typical: number } {
+  const held = [...rowsByPeriod].filter(([, n]) => Number.isFinite(n) && n > 0);
+  if (held.length < MIN_PERIODS_FOR_THIN) return { periods: [], typical: 0 };
+  const sorted = held.map(([, n]) => n).sort((a, b) => a - b);
+  const total = sorted.reduce((a, b) => a + b, 0);
+  let seen = 0;
+  let typical = sorted[sorted.length - 1]!;
+  for (const n of sorted) {
+    seen += n;
+    if (seen >= total / 2) { typical = n; break; }
+  }
+  return { periods: held.filter(([, n]) => n < STRAY_DAY_SHARE * typical).map(([p]) => p).sort(), typical };
+}
 /** Too few days to know what a typical day holds: no tail is judged. */
 const MIN_DAYS_FOR_TAIL = 7;
 

@@ -149,6 +149,7 @@ export interface PeriodPoint {
 export type CaveatCode =
   | 'partial_period'
   | 'partial_period_excluded'
+  | 'thin_period'
   | 'null_share'
   | 'duplicate_keys'
   | 'negative_amounts'

@@ -21,6 +21,14 @@ export function caveatNote(c: Caveat, locale: string): string {
   switch (c.code) {
     case 'partial_period':
       return `${period(d.period, d.grain)} is partial (data from ${day(d.coveredFrom)} to ${day(d.coveredTo)}); it is drawn dashed and left out of the highs and lows.`;
+    case 'thin_period': {
+      const grain = (typeof d.grain === 'string' ? d.grain : 'year') as Grain;
+      const named = typeof d.periods === 'string' ? d.periods.split(',').filter(Boolean).map((p) => formatPeriod(p, grain, locale, 'long')) : [];
+      // Many thin periods are counted, with the first and last named, not listed one by one.
+      const all = named.length > 6 ? [`${countOf(named.length, grain)} from ${named[0]} to ${named[named.length - 1]!}`] : named;
+      const held = d.fewest === d.most ? show(d.most, 'a few') : `${show(d.fewest, 'a few')}\u2013${show(d.most, 'a few')}`;
+      return `${all.length > 0 ? listJoin(all) : 'Some periods'} ${named.length === 1 ? 'holds' : 'hold'} ${held} row${d.most === 1 ? '' : 's'}${named.length === 1 ? '' : ' each'} against a usual ${show(typeof d.typical === 'number' ? Math.round(d.typical) : d.typical, 'many')}: too few to read, so ${named.length === 1 ? 'it is' : 'they are'} drawn dashed and left out of the highs, lows and the latest complete ${grain}.`;
+    }
     case 'partial_period_excluded':
       return `${period(d.period, d.grain)} is partial and was left out.`;
     case 'series_gap':
@@ -151,6 +159,7 @@ export function caveatFlag(c: Caveat): string {
   const flags: Record<Caveat['code'], string> = {
     partial_period: 'A period with part of its data is drawn dashed.',
     partial_period_excluded: 'A period with part of its data is left out.',
+    thin_period: 'Periods holding a sliver of the usual rows are drawn dashed and left out.',
     series_gap: 'Some periods have no data.',
     empty_period: 'Some periods have no rows that match the filter.',
     no_data: 'There is no data in the period asked for.',

@@ -20,6 +20,7 @@ import type { QualityReport } from './quality-checks.js';
 export function isThreadWide(c: Caveat, coverage: Coverage, sq?: Pick<SubQuestion, 'filters' | 'comparisonGroup'>): boolean {
   switch (c.code) {
     case 'series_gap':
+    case 'thin_period':
       return sq !== undefined && sq.filters.length === 0 && !sq.comparisonGroup;
     case 'stale_data':
     case 'duplicate_keys':
@@ -48,8 +49,9 @@ export function answerCaveats(caveats: readonly Caveat[], coverage: Coverage, sq
  */
 export function measureNotes(caveats: readonly Caveat[], coverage: Coverage, sq: Pick<SubQuestion, 'filters' | 'comparisonGroup'>, labelOf: (metric: string) => string, locale: string): string[] {
   return caveats
-    .filter((c) => c.code === 'series_gap' && isThreadWide(c, coverage, sq))
+    .filter((c) => (c.code === 'series_gap' || c.code === 'thin_period') && isThreadWide(c, coverage, sq))
     .map((c) => {
+      if (c.code === 'thin_period') return caveatNote(c, locale);
       const grain = (typeof c.data.grain === 'string' ? c.data.grain : 'month') as Grain;
       const n = Number(c.data.periods);
       const first = typeof c.data.firstGap === 'string' ? formatPeriod(c.data.firstGap, grain, locale, 'long') : null;

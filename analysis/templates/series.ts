@@ -4,7 +4,7 @@ import { isAdditive, metricByName, seasonalModel } from '../catalog.js';
 import type { DatasetConfig } from '../../config/schema.js';
 import { type CompileContext, localDateExpr, periodScope, tableRef } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
-import { dataEnd } from '../coverage.js';
+import { dataEnd, thinPeriods } from '../coverage.js';
 import { addDays, daysBetween, nextPeriod, periodsBetween } from '../periods.js';
 import { QueryBuilder } from '../sql/query-builder.js';
 import type { Caveat, CompiledQuery, Finding, PeriodPoint, ResultTable, SubQuestion } from '../types.js';
@@ -77,6 +77,15 @@ export function readSeries(
     const coveredFrom = maxIso(p, effectiveStart);
     const coveredTo = addDays(minIso(nextPeriod(p, sq.grain), effectiveEnd), -1);
     caveats.push({ code: 'partial_period', data: { period: p, grain: sq.grain, coveredFrom, coveredTo } });
+  }
+
+  // Periods holding a sliver of the usual rows (2 films in a year against ~175) are read like
+  // partial ones: left out of the highs, lows and the latest complete period, and said once.
+  const thin = thinPeriods(new Map(starts.filter((p) => !partialStarts.has(p)).map((p) => [p, Number(byPeriod.get(p)?.row_count ?? 0)])));
+  if (thin.periods.length > 0) {
+    const counts = thin.periods.map((p) => Number(byPeriod.get(p)?.row_count ?? 0));
+    caveats.push({ code: 'thin_period', data: { periods: thin.periods.join(','), grain: sq.grain, fewest: Math.min(...counts), most: Math.max(...counts), typical: thin.typical } });
+    for (const p of thin.periods) partialStarts.add(p);
   }
 
   const findings: Finding[] = [];
