@@ -87,3 +87,29 @@ export function yearsThroughout(years: readonly { year: number; monthsWithRows: 
   const [first, last] = [Math.min(...seen), Math.max(...seen)];
   return new Set(years.filter((y) => y.monthsWithRows === 12 || (y.year > first && y.year < last)).map((y) => y.year));
 }
+
+/** A segment's life as the value index holds it: first and last day with a row, and months with one. */
+export interface SegmentLife {
+  first: string;
+  last: string;
+  activeMonths: number;
+}
+
+function monthNumberOf(day: string): number {
+  return Number(day.slice(0, 4)) * 12 + Number(day.slice(5, 7));
+}
+
+/**
+ * The same test as `silentBeyondChanceSql` with side 'start', on a life already read: the segment
+ * was silent from `edge` (the data's first day) up to its first row beyond chance for its own
+ * rhythm, so it entered the data on that first day ("since it opened" starts there). False when its
+ * life is too short to judge, as the SQL's NULL counts as false.
+ */
+export function enteredAfter(life: SegmentLife, edge: string, toleranceDays: number): boolean {
+  const gapDays = Math.round((Date.parse(life.first) - Date.parse(edge)) / 86_400_000);
+  const gapMonths = monthNumberOf(life.first) - monthNumberOf(edge);
+  const lifeMonths = monthNumberOf(life.last) - monthNumberOf(life.first);
+  if (lifeMonths === 0 || life.activeMonths < 2) return false;
+  const p = (life.activeMonths - 1) / lifeMonths;
+  return gapDays > toleranceDays && gapMonths >= 1 && Math.pow(1 - p, gapMonths) < PRESENCE_ALPHA;
+}

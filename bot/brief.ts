@@ -79,6 +79,11 @@ export interface Question {
    * not a filter: the total counts every value, and the answer leads with this one's share.
    */
   shareOf?: ShareFocus;
+  /**
+   * "How has LWB done since it opened?": the window starts on the named value's first day in the
+   * data (bot/reading/own-start.ts), and the plan sets it against everything else over the same days.
+   */
+  ownStart?: { dimension: string; value: string; first: string; entered: boolean };
   /** "median delay", "p90 delay": a quantile of an averaged metric instead of its mean (analysis/statistic.ts), with the words it was read from. */
   statistic?: { quantile: number; words: string };
 }

@@ -118,6 +118,13 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
         // "…, and is it growing?" of that share: its change by period (in the same item) answers it, not the whole's growth.
         if (q.kind !== 'trend') continue;
       }
+      // "How has LWB done since it opened?": beside its own course, its share of everything over the
+      // same days (from its first day), so it is set against the rest like for like in time.
+      const own = q.ownStart;
+      if (own && own.entered && additive && isBreakdownDimension(ds, own.dimension) && !focused) {
+        const rest = q.filters.filter((f) => !(f.dimension === own.dimension && f.values.length === 1 && String(f.values[0]) === own.value));
+        add('segment_shares', metric, false, { dimension: own.dimension, focus: { dimension: own.dimension, value: own.value }, filters: rest, grain: grain === 'day' && monthsIn(span) >= 2 ? 'week' : grain });
+      }
       switch (q.kind) {
         case 'trend':
           // "Which species cause the most cost", "top 5 busiest airports": the ranking of the

@@ -1,6 +1,7 @@
 // Clarifying prompts: what to ask next, with a recommended default and its reason, and how to
 // read a typed (or clicked) answer. A prompt is never asked when the brief already holds it.
 import { focusShares } from './reading/share-focus.js';
+import { anchorToOwnStart } from './reading/own-start.js';
 import type { DatasetConfig } from '../config/schema.js';
 import type { Coverage } from '../analysis/coverage.js';
 import { inSentence } from '../analysis/captions/grammar.js';
@@ -383,10 +384,11 @@ function readAnswerInto(prompt: Prompt, text: string, brief: Brief, ctx: PromptC
       const asked = brief.questions.length > 0 ? brief.questions : [wholeRequestQuestion(brief)];
       const questions = asked.map((q, i) => (i === 0 ? withVersus({ ...q, filters: addValues(q.filters, picks) }, ambiguous, picks) : q));
       // "What share of flights does ATL have" answered "origin": ATL is the share's focus, not a filter.
-      const shareNotes = focusShares(questions, ctx.dataset);
+      const shareNotes = [...focusShares(questions, ctx.dataset), ...anchorToOwnStart(questions, facts)];
       const saidBack = shareNotes.length > 0 ? { saidBack: [...(brief.saidBack ?? []), ...shareNotes] } : {};
       const rest = (brief.ambiguousValues ?? []).slice(1);
-      return { ok: true, brief: { ...brief, questions, ...saidBack, ambiguousValues: rest, toAsk: rest.length > 0 ? brief.toAsk ?? [] : (brief.toAsk ?? []).filter((t) => t !== 'values') } };
+      const anchored = questions.find((q) => q.ownStart && q.window);
+      return { ok: true, brief: { ...brief, questions, ...saidBack, ...(anchored && !brief.window ? { window: anchored.window } : {}), ambiguousValues: rest, toAsk: rest.length > 0 ? brief.toAsk ?? [] : (brief.toAsk ?? []).filter((t) => t !== 'values') } };
     }
     case 'dimensions': {
       if (/^\s*(?:none|no|no breakdown|nothing)\s*[.!]?\s*$/i.test(typed)) return { ok: true, brief: { ...brief, dimensions: [], dimensionsAsked: true } };

@@ -19,6 +19,9 @@ export interface IndexedValue {
   rows: number;
   /** Calendar months with a row of this value: how far it persists through the data (bot/brief-defaults.ts). */
   months?: number;
+  /** Its first and last local day with a row (ISO dates): where its life in the data begins and ends (analysis/presence.ts). */
+  first?: string;
+  last?: string;
 }
 
 export interface DimensionValues {
@@ -41,8 +44,10 @@ export function indexedDimensions(ds: DatasetConfig): Dimension[] {
 export function compileValueQuery(ctx: CompileContext, dim: Dimension, cap = VALUE_INDEX_CAP): CompiledQuery {
   const q = new QueryBuilder(ctx.dialect);
   const col = q.ident(dim.column);
-  const month = ctx.dialect.periodStart('month', localDateExpr(q, ctx));
-  return q.finish(`SELECT CAST(${col} AS VARCHAR) AS value, ${ctx.dialect.toDouble('COUNT(*)')} AS row_count, ${ctx.dialect.toDouble(`COUNT(DISTINCT ${month})`)} AS months
+  const day = localDateExpr(q, ctx);
+  const month = ctx.dialect.periodStart('month', day);
+  return q.finish(`SELECT CAST(${col} AS VARCHAR) AS value, ${ctx.dialect.toDouble('COUNT(*)')} AS row_count, ${ctx.dialect.toDouble(`COUNT(DISTINCT ${month})`)} AS months,
+  CAST(MIN(${day}) AS VARCHAR) AS first_day, CAST(MAX(${day}) AS VARCHAR) AS last_day
 FROM ${datasetRelation(q, ctx.dataset)}
 WHERE ${col} IS NOT NULL
 GROUP BY 1
@@ -52,9 +57,21 @@ LIMIT ${cap + 1}`);
 
 export function readValues(table: ResultTable, cap = VALUE_INDEX_CAP): DimensionValues {
   const values = table.rows
-    .map((r) => ({ value: String(r.value ?? ''), rows: Number(r.row_count ?? 0), ...(r.months !== undefined && r.months !== null ? { months: Number(r.months) } : {}) }))
+    .map((r) => ({
+      value: String(r.value ?? ''),
+      rows: Number(r.row_count ?? 0),
+      ...(r.months !== undefined && r.months !== null ? { months: Number(r.months) } : {}),
+      ...(isoDay(r.first_day) ? { first: isoDay(r.first_day)! } : {}),
+      ...(isoDay(r.last_day) ? { last: isoDay(r.last_day)! } : {}),
+    }))
     .filter((v) => v.value.trim().length > 0 && !/^(true|false)$/i.test(v.value));
   return { values: values.slice(0, cap), complete: table.rows.length <= cap };
+}
+
+/** The ISO day of a date read back as text (DuckDB and PostgreSQL both write '2001-05-04'). */
+function isoDay(v: unknown): string | null {
+  const m = /^(\d{4}-\d{2}-\d{2})/.exec(String(v ?? ''));
+  return m ? m[1]! : null;
 }
 
 /** Builds the index from the data (one grouped query per dimension). */
@@ -68,11 +85,11 @@ export async function buildValueIndex(ws: Pick<Workspace, 'context' | 'source' |
 
 // ---- kept between processes ----
 
-const FORMAT = 2;
+const FORMAT = 3;
 const entrySchema = z.object({
   format: z.literal(FORMAT),
   key: z.string(),
-  dimensions: z.record(z.string(), z.object({ values: z.array(z.object({ value: z.string(), rows: z.number(), months: z.number().optional() })), complete: z.boolean() })),
+  dimensions: z.record(z.string(), z.object({ values: z.array(z.object({ value: z.string(), rows: z.number(), months: z.number().optional(), first: z.string().optional(), last: z.string().optional() })), complete: z.boolean() })),
 });
 
 function cacheFile(config: LoadedConfig, ds: DatasetConfig): string {

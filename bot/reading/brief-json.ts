@@ -36,6 +36,7 @@ export const briefJsonSchema = z
           statistic: z.object({ quantile: z.number(), words: z.string() }).nullable().optional(),
           /** "What share of flights does ATL have": the one value whose share of the total is asked (not a filter). */
           shareOf: z.object({ dimension: z.string(), value: z.string() }).strict().nullable().optional(),
+          ownStart: z.object({ dimension: z.string(), value: z.string(), first: isoDate, entered: z.boolean() }).strict().optional(),
         })
         .strict(),
     ),
@@ -92,6 +93,7 @@ export function briefToJson(brief: Brief, dataset: string): BriefJson {
       table: q.table ?? false,
       statistic: q.statistic ?? null,
       ...(q.shareOf ? { shareOf: q.shareOf } : {}),
+      ...(q.ownStart ? { ownStart: q.ownStart } : {}),
     })),
     window: inclusive(brief.window),
     compareWindow: inclusive(brief.compareWindow),

@@ -47,6 +47,7 @@ import { type DayReading, type DaySetMention, readDaySets } from './day-filter.j
 import { DAY_OF_WEEK, dayFilter, dayScopeWords, isDayFilter } from '../../analysis/day-of-week.js';
 import { findUnknownTerms } from './unknown-words.js';
 import { focusShares } from './share-focus.js';
+import { anchorToOwnStart } from './own-start.js';
 import { mendCalendarWords } from './spelling.js';
 import { COUNTING, rankMetrics } from './metric-ranking.js';
 import { extremeOrder, findPeriodExtremes, type PeriodExtreme, superlativeIn, wholeHistorySpans } from './extremes.js';
@@ -246,6 +247,8 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
 
   // "What share of flights does ATL have": ATL is the focus of the share, not a filter.
   state.notes.push(...focusShares(questions, ds));
+  // "How has LWB done since it opened?": from LWB's first day in the data (own-start.ts).
+  state.notes.push(...anchorToOwnStart(questions, facts, ambiguous.length > 0));
   const brief: Brief = {
     requestText: fullText,
     questions,
