@@ -1,5 +1,5 @@
 // Lookups over one dataset's catalog. Names reaching SQL are checked here first.
-import type { ComparisonGroup, DatasetConfig, Dimension, Metric, MetricKind } from '../config/schema.js';
+import type { ComparisonGroup, DatasetConfig, Dimension, Metric, MetricKind, OwnLevelsReading } from '../config/schema.js';
 import { type Expr, expressionColumns } from '../config/expression.js';
 import type { SeasonalModel } from './stats/decomposition.js';
 import { percentScale, percentsApply, type PercentScale } from './stats/growth.js';
@@ -198,6 +198,91 @@ export function quantityKind(metric: Metric): MetricKind {
     case 'rate':
       return 'ratio';
   }
+}
+
+/**
+ * A level read as a mean of rows (a price, a temperature, a rate per industry), not totalled
+ * across segments: across the members of a breakdown whose members each carry their own level, its
+ * plain figure is an average of unlike things. A level that sums across segments (a headcount,
+ * unemployed persons: parts of one whole) and every flow or per-event ratio never is.
+ */
+export function readsOwnLevel(metric: Metric): boolean {
+  return quantityKind(metric) === 'level' && !addsAcrossSegments(metric);
+}
+
+/**
+ * A breakdown's members are entities with levels of their own when, for the metric, each holds one
+ * reading per stamp of the time column (at least OWN_READING_SHARE of its stamps hold exactly one
+ * row: a symbol's price each month, a city's high each day), and the stamps hold at least
+ * MEMBERS_PER_STAMP of them on average (several run side by side, not one after another). Our own
+ * cut-offs. A description of each row (weather type: two cities share "sun" on a day) is no
+ * entity; neither is a breakdown of events (many flights per airport a day).
+ */
+export const OWN_READING_SHARE = 0.9;
+export const MEMBERS_PER_STAMP = 1.5;
+/** Members whose medians stand this many times apart have unlike levels (our own cut-off, "a large factor"). */
+export const UNLIKE_LEVEL_FACTOR = 2;
+
+/** What makes a combined figure of a level across entities mislead, read from the data (ownLevelDimension). */
+export interface OwnLevelEntities {
+  dimension: string;
+  members: number;
+  /** The members with the lowest and highest median (over their own stamps). */
+  lowest: { value: string; median: number };
+  highest: { value: string; median: number };
+  /** highest / lowest median, when both are above zero and the metric has a true zero; else null. */
+  factor: number | null;
+  /** Members that start after the first member does, or stop before the last does (by a twentieth of the span or more). */
+  entering: { value: string; first: string }[];
+  leaving: { value: string; last: string }[];
+}
+
+/**
+ * THE rule for a level asked across entities: the first breakdown (catalog order) whose members
+ * carry their own level of the metric (OWN_READING_SHARE, MEMBERS_PER_STAMP above), when the
+ * metric is a level averaged across rows (readsOwnLevel) and `filters` leave more than one member.
+ * An answer of the metric without that breakdown averages unlike things: the plan answers per
+ * member (bot/brief-defaults.ts) and every combined answer carries a caution (answer-sub-question.ts).
+ * Null when no breakdown qualifies, or the metric was not read from the data (Metric.ownLevels).
+ */
+export function ownLevelDimension(ds: DatasetConfig, metric: Metric, filters: readonly SegmentFilter[] = []): OwnLevelEntities | null {
+  if (!readsOwnLevel(metric) || !metric.ownLevels) return null;
+  for (const d of ds.dimensions) {
+    const reading = metric.ownLevels.find((r) => r.dimension === d.name);
+    if (!reading || !isBreakdownDimension(ds, d.name) || pinsOneValue(filters, d.name)) continue;
+    const entities = entitiesOf(metric, reading, filters);
+    if (entities) return entities;
+  }
+  return null;
+}
+
+function entitiesOf(metric: Metric, reading: OwnLevelsReading, filters: readonly SegmentFilter[]): OwnLevelEntities | null {
+  const kept = reading.members.filter((m) => filters.every((f) => f.dimension !== reading.dimension || f.values.includes(m.value) !== !!f.exclude));
+  if (kept.length < 2 || reading.stamps === 0) return null;
+  const cells = reading.members.reduce((a, m) => a + m.cells, 0);
+  const single = reading.members.reduce((a, m) => a + m.single, 0);
+  if (single < OWN_READING_SHARE * cells || cells < MEMBERS_PER_STAMP * reading.stamps) return null;
+  const valued = kept.filter((m): m is typeof m & { median: number } => m.median !== null).sort((a, b) => a.median - b.median);
+  if (valued.length < 2) return null;
+  const lowest = valued[0]!;
+  const highest = valued[valued.length - 1]!;
+  const factor = lowest.median > 0 && !onIntervalScale(metric) && metric.reachesZero !== true ? highest.median / lowest.median : null;
+  const first = kept.map((m) => m.first).sort()[0]!;
+  const last = kept.map((m) => m.last).sort().at(-1)!;
+  const margin = Math.max(1, daySpan(first, last) / 20);
+  return {
+    dimension: reading.dimension,
+    members: kept.length,
+    lowest: { value: lowest.value, median: lowest.median },
+    highest: { value: highest.value, median: highest.median },
+    factor,
+    entering: kept.filter((m) => daySpan(first, m.first) >= margin).map((m) => ({ value: m.value, first: m.first })),
+    leaving: kept.filter((m) => daySpan(m.last, last) >= margin).map((m) => ({ value: m.value, last: m.last })),
+  };
+}
+
+function daySpan(a: string, b: string): number {
+  return (Date.parse(`${b.slice(0, 10)}T00:00:00Z`) - Date.parse(`${a.slice(0, 10)}T00:00:00Z`)) / 86_400_000;
 }
 
 /**

@@ -2,8 +2,8 @@
 // freshness checks compare against. Run once per plan.
 import type { CompileContext } from './compile-context.js';
 import { localDateExpr, measureSql, rowCountSql, tableRef } from './compile-context.js';
-import { isAdditive } from './catalog.js';
-import type { DatasetConfig } from '../config/schema.js';
+import { isAdditive, isBreakdownDimension, readsOwnLevel } from './catalog.js';
+import type { DatasetConfig, Dimension, OwnLevelsReading } from '../config/schema.js';
 import type { DataSource, RunOptions } from './sources/data-source.js';
 import { QueryBuilder } from './sql/query-builder.js';
 import { addDays, nextPeriod, periodStart } from './periods.js';
@@ -212,6 +212,81 @@ export function withSigns(ds: DatasetConfig, coverage: Coverage): DatasetConfig 
   const read = coverage.reachZero;
   if (!read) return ds;
   return { ...ds, metrics: ds.metrics.map((m) => (read.includes(m.name) ? { ...m, reachesZero: true } : m)) };
+}
+
+/** Past this many members a breakdown is not read for levels of their own (its members are not judged one by one). */
+export const OWN_LEVELS_MEMBER_CAP = 1000;
+
+/**
+ * For the level metrics averaged across rows (catalog.ts readsOwnLevel), one breakdown's members
+ * as readings of their own, in one pass: per member, its cells (stamps of the time column it has
+ * rows at), how many of them hold exactly one row (a member's one reading at that stamp), its
+ * first and last day, and the median of each metric over its cells; and the distinct stamps.
+ * Null when no metric is a level averaged across rows.
+ */
+export function compileOwnLevels(ctx: CompileContext, dim: Dimension): CompiledQuery | null {
+  const metrics = ctx.dataset.metrics.filter(readsOwnLevel);
+  if (metrics.length === 0) return null;
+  const q = new QueryBuilder(ctx.dialect);
+  const n = (e: string) => ctx.dialect.toDouble(e);
+  const col = q.ident(dim.column);
+  const stamp = q.ident(ctx.dataset.time_column);
+  const day = localDateExpr(q, ctx);
+  const cols = metrics.map((m, i) => `${n(measureSql(q, ctx, m))} AS tc_m${i}`);
+  return q.finish(`WITH tc_cells AS (
+  SELECT CAST(${col} AS VARCHAR) AS tc_v, ${stamp} AS tc_t, MIN(${day}) AS tc_d, COUNT(*) AS tc_rows,
+  ${cols.join(',\n  ')}
+  FROM ${tableRef(q, ctx)}
+  WHERE ${col} IS NOT NULL AND ${stamp} IS NOT NULL
+  GROUP BY 1, 2
+)
+SELECT tc_v, ${n('COUNT(*)')} AS tc_cells, ${n('COUNT(*) FILTER (WHERE tc_rows = 1)')} AS tc_single, MIN(tc_d) AS tc_first, MAX(tc_d) AS tc_last,
+  (SELECT ${n('COUNT(DISTINCT tc_t)')} FROM tc_cells) AS tc_stamps,
+  ${metrics.map((_, i) => `${n(`percentile_cont(0.5) WITHIN GROUP (ORDER BY tc_m${i})`)} AS tc_med${i}`).join(',\n  ')}
+FROM tc_cells
+GROUP BY 1
+ORDER BY 1
+LIMIT ${OWN_LEVELS_MEMBER_CAP + 1}`);
+}
+
+/** Each level metric's reading of one breakdown (compileOwnLevels), by metric name; empty past the member cap. */
+export function readOwnLevels(ds: DatasetConfig, dimension: string, table: ResultTable): Record<string, OwnLevelsReading> {
+  if (table.rows.length === 0 || table.rows.length > OWN_LEVELS_MEMBER_CAP) return {};
+  const stamps = Number(table.rows[0]!.tc_stamps ?? 0);
+  const out: Record<string, OwnLevelsReading> = {};
+  ds.metrics.filter(readsOwnLevel).forEach((m, i) => {
+    const members = table.rows.map((r) => ({
+      value: String(r.tc_v ?? ''),
+      cells: Number(r.tc_cells ?? 0),
+      single: Number(r.tc_single ?? 0),
+      first: String(r.tc_first ?? ''),
+      last: String(r.tc_last ?? ''),
+      median: typeof r[`tc_med${i}`] === 'number' && Number.isFinite(r[`tc_med${i}`]) ? (r[`tc_med${i}`] as number) : null,
+    }));
+    out[m.name] = { dimension, stamps, members };
+  });
+  return out;
+}
+
+/**
+ * The dataset with each level metric's readings of the breakdowns set (Metric.ownLevels): one pass
+ * per breakdown, only when a metric is a level averaged across rows (none on a table of flights,
+ * whose delay is a mean per flight). A breakdown the engine could not read is left unread.
+ */
+export async function withOwnLevels(ds: DatasetConfig, source: DataSource, ctx: CompileContext, options: RunOptions): Promise<DatasetConfig> {
+  if (!ds.metrics.some(readsOwnLevel)) return ds;
+  const read: Record<string, OwnLevelsReading[]> = {};
+  for (const dim of ds.dimensions.filter((d) => isBreakdownDimension(ds, d.name))) {
+    const query = compileOwnLevels({ ...ctx, dataset: ds }, dim);
+    if (!query) break;
+    try {
+      const got = readOwnLevels(ds, dim.name, await source.run(query, options));
+      for (const [metric, reading] of Object.entries(got)) (read[metric] ??= []).push(reading);
+    } catch {
+      // Unread: the metric is answered as before, without the per-member reading.
+    }
+  }
+  return { ...ds, metrics: ds.metrics.map((m) => (read[m.name] ? { ...m, ownLevels: read[m.name] } : m)) };
 }
 
 export function readCoverage(table: ResultTable): Coverage {

@@ -2,7 +2,7 @@
 import type { DatasetConfig } from '../config/schema.js';
 import { type LoadedConfig, resolveSourcePath } from '../config/load.js';
 import type { CompileContext } from './compile-context.js';
-import { type Coverage, withSigns } from './coverage.js';
+import { type Coverage, withOwnLevels, withSigns } from './coverage.js';
 import { keptCoverage } from './quality/kept-coverage.js';
 import { SourceError, timeColumnTypeOf, type DataSource, type RunOptions, type TableColumn } from './sources/data-source.js';
 import type { TimeColumnType } from './sql/dialect.js';
@@ -35,7 +35,8 @@ export async function openWorkspace(config: LoadedConfig, datasetName?: string, 
     const coverage = await keptCoverage({ config, dataset, source, context, runOptions }, now);
     // The catalog as the data reads it: each metric knows whether its days reach or cross zero
     // (Metric.reachesZero), so every answer's one rule for percentages consults it.
-    const read = withSigns(dataset, coverage);
+    // And each level averaged across rows knows which breakdowns' members carry levels of their own (Metric.ownLevels).
+    const read = await withOwnLevels(withSigns(dataset, coverage), source, context, runOptions);
     const opened: Workspace = { config, dataset: read, source, context: { ...context, dataset: read }, coverage, runOptions, values: new Map() };
     opened.values = await loadValueIndex(opened);
     return opened;
@@ -81,7 +82,7 @@ export async function openSource(config: LoadedConfig, dataset: DatasetConfig, s
 /** Re-reads what the data covers and the values it holds (for "rerun with fresh data"); kept per version of the data, so unchanged data is not read again. */
 export async function refreshCoverage(ws: Workspace, now: Date = new Date()): Promise<void> {
   ws.coverage = await keptCoverage(ws, now);
-  const read = withSigns(ws.config.datasets.find((d) => d.name === ws.dataset.name) ?? ws.dataset, ws.coverage);
+  const read = await withOwnLevels(withSigns(ws.config.datasets.find((d) => d.name === ws.dataset.name) ?? ws.dataset, ws.coverage), ws.source, ws.context, ws.runOptions);
   ws.dataset = read;
   ws.context = { ...ws.context, dataset: read };
   ws.values = await loadValueIndex(ws);

@@ -75,7 +75,21 @@ export type Metric = z.infer<typeof metricSchema> & {
    * coverage (analysis/coverage.ts readSigns); catalog.ts metricPercentScale consults it.
    */
   readonly reachesZero?: boolean;
+  /**
+   * Read from the data once per dataset, never written in a file: for a level averaged across rows
+   * (a price, a temperature), each breakdown's members as readings of their own (analysis/coverage.ts
+   * readOwnLevels); catalog.ts ownLevelDimension decides from it whether the members are entities.
+   */
+  readonly ownLevels?: readonly OwnLevelsReading[];
 };
+
+/** One breakdown's members as the data holds them, for a level metric (see Metric.ownLevels). */
+export interface OwnLevelsReading {
+  dimension: string;
+  /** Distinct stamps of the time column with a row of any member. */
+  stamps: number;
+  members: readonly { value: string; cells: number; single: number; first: string; last: string; median: number | null }[];
+}
 
 export const dimensionSchema = z
   .object({
