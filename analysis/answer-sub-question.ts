@@ -8,7 +8,10 @@ import { dayLevelQuery } from './rollup/rollup.js';
 import { definitionOf } from './sub-questions/registry.js';
 import type { Template } from './templates/template.js';
 import type { RunScope } from './run-scope.js';
-import type { Answer, NamedQuery, ResultTable, SubQuestion } from './types.js';
+import type { Answer, Caveat, NamedQuery, ResultTable, SubQuestion } from './types.js';
+import { ownLevelDimension } from './catalog.js';
+import { valueFormatOf } from './format.js';
+import { mixedLevelsCaveat } from './captions/own-level-words.js';
 import type { Workspace } from './workspace.js';
 
 export interface AnswerOptions {
@@ -34,7 +37,24 @@ export async function answerSubQuestion(sq: SubQuestion, ws: Workspace, opts: An
   for (const q of queries) tables[q.name] = await runShared(q, ws, opts);
   const { findings, caveats } = timePhase(opts.timings, 'read', () => template.read(sq, tables, { dataset: statisticDataset(ws.dataset, sq), coverage: ws.coverage }));
   const quality = opts.quality ? qualityCaveatsFor(sq, opts.quality, ws, opts.now ?? new Date()) : [];
-  return { subQuestion: sq, queries, tables, findings, caveats: [...caveats, ...quality] };
+  return { subQuestion: sq, queries, tables, findings, caveats: [...caveats, ...mixedLevels(sq, ws), ...quality] };
+}
+
+/**
+ * A level averaged across members that carry their own level (catalog.ts ownLevelDimension: symbols'
+ * prices, cities' temperatures), answered without that breakdown: the combined figure is kept, with
+ * the caution that says why it mixes unlike things. An answer by that breakdown (or any other) is
+ * not combined across the members and carries none.
+ */
+function mixedLevels(sq: SubQuestion, ws: Workspace): Caveat[] {
+  if (sq.dimension || sq.contrast || sq.focus) return [];
+  return sq.metrics.flatMap((name) => {
+    const metric = ws.dataset.metrics.find((m) => m.name === name);
+    const e = metric ? ownLevelDimension(ws.dataset, metric, sq.filters) : null;
+    if (!metric || !e) return [];
+    const dim = ws.dataset.dimensions.find((d) => d.name === e.dimension)!;
+    return [mixedLevelsCaveat(metric.label, dim.label, e, valueFormatOf(metric, 'en'))];
+  });
 }
 
 /**

@@ -167,6 +167,7 @@ export type CaveatCode =
   | 'segments_folded'
   | 'segment_gap'
   | 'late_segment'
+  | 'mixed_levels'
   | 'base_zero'
   | 'suppressed_small_groups';
 

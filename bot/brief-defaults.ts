@@ -2,7 +2,9 @@
 // them as assumed, and the plan is built from the brief with them filled in. Audience, deadline,
 // grain and period always have safe defaults; only a request with no measure at all is asked.
 import type { Coverage } from '../analysis/coverage.js';
-import { firstBreakdownDimension, isBreakdownDimension, pinsOneValue } from '../analysis/catalog.js';
+import { firstBreakdownDimension, isBreakdownDimension, ownLevelDimension, pinsOneValue } from '../analysis/catalog.js';
+import { valueFormatOf } from '../analysis/format.js';
+import { ownLevelsReason } from '../analysis/captions/own-level-words.js';
 import { addDays, periodsBetween } from '../analysis/periods.js';
 import type { SegmentFilter } from '../analysis/types.js';
 import type { ValueIndex } from '../analysis/values/value-index.js';
@@ -39,7 +41,34 @@ export function briefDefaults(brief: Brief, ds: DatasetConfig, coverage: Coverag
   if (chosen && !brief.dimensionsAsked && open.length > 0 && !unplaced) {
     out.breakdown = { value: chosen.name, reason: `a change is easier to act on with what drove it; ${chosen.why}` };
   }
+  // A level asked across entities (a price across symbols, a temperature across cities) with no
+  // member named: answered per member, the combined figure kept with its caution (catalog.ts ownLevelDimension).
+  const levels = brief.dimensionsAsked || unplaced ? null : ownLevelsAsked(brief, ds, out.metric?.value);
+  if (levels) out.breakdown = levels;
   return out;
+}
+
+/** The kinds of question a level's own course per member answers (its trend, its change, its latest value). */
+const PER_MEMBER_KINDS: ReadonlySet<string> = new Set(['trend', 'growth', 'kpi']);
+
+/** A question of a level with no breakdown, no pair of values and no one value's share of its own. */
+function asksLevelAcross(q: Brief['questions'][number]): boolean {
+  return PER_MEMBER_KINDS.has(q.kind) && q.dimensions.length === 0 && !q.contrast && !q.shareOf;
+}
+
+/** The breakdown a level asked across entities is answered by, with why (the first metric that has one decides). */
+function ownLevelsAsked(brief: Brief, ds: DatasetConfig, assumedMetric: string | undefined): BriefDefaults['breakdown'] | null {
+  for (const q of brief.questions.filter(asksLevelAcross)) {
+    for (const name of q.metrics.length > 0 ? q.metrics : assumedMetric ? [assumedMetric] : []) {
+      const metric = ds.metrics.find((m) => m.name === name);
+      const e = metric ? ownLevelDimension(ds, metric, q.filters) : null;
+      if (!metric || !e) continue;
+      const dim = ds.dimensions.find((d) => d.name === e.dimension)!;
+      const levels = ds.metrics.filter((m) => ownLevelDimension(ds, m, q.filters)?.dimension === e.dimension).map((m) => m.name);
+      return { value: e.dimension, reason: ownLevelsReason(metric.label, dim.label, e, valueFormatOf(metric, 'en'), 'en'), levels };
+    }
+  }
+  return null;
 }
 
 /** How near the most persistent breakdown another must be to count as persistent too (common practice: a tenth). */
@@ -85,7 +114,8 @@ export function defaultBreakdown(ds: DatasetConfig, filters: readonly SegmentFil
 export function withDefaults(brief: Brief, d: BriefDefaults): Brief {
   const questions = brief.questions.map((q) => {
     const metrics = q.metrics.length === 0 && !q.frequency && d.metric ? [d.metric.value] : q.metrics;
-    const dimensions = q.kind === 'growth' && q.dimensions.length === 0 && !q.contrast && d.breakdown ? [d.breakdown.value] : q.dimensions;
+    const level = !!d.breakdown?.levels && asksLevelAcross(q) && metrics.some((m) => d.breakdown!.levels!.includes(m));
+    const dimensions = ((q.kind === 'growth' && q.dimensions.length === 0 && !q.contrast) || level) && d.breakdown ? [d.breakdown.value] : q.dimensions;
     return { ...q, metrics, dimensions };
   });
   return {

@@ -71,8 +71,12 @@ export interface BriefDefaults {
   grainCapped?: { asked: Grain; value: Grain; reason: string };
   /** Metrics taken for questions that named none ("did this summer beat last summer"). */
   metric?: { value: string; reason: string };
-  /** A breakdown to explain a change when none was asked. */
-  breakdown?: { value: string; reason: string };
+  /**
+   * A breakdown to explain a change when none was asked; or, for the metrics in `levels`, the
+   * breakdown whose members carry their own level of them (catalog.ts ownLevelDimension), which
+   * every question of those metrics is answered by, whatever its kind.
+   */
+  breakdown?: { value: string; reason: string; levels?: string[] };
 }
 
 const AUDIENCE_CHOICES: CardChoice[] = (['leadership', 'managers', 'analysts'] as const).map((a) => ({ value: `for ${a}`, label: AUDIENCE_LABELS[a].label }));

@@ -2,7 +2,7 @@
 // shaped by the audience and capped in size, and the plan edits a requester can type.
 import { isDeepStrictEqual } from 'node:util';
 import type { ComparisonGroup, DatasetConfig } from '../config/schema.js';
-import { firstBreakdownDimension, groupMadeOf, isAdditive, isBreakdownDimension, metricByName, namedUnitDimension, plainCountMetric } from '../analysis/catalog.js';
+import { firstBreakdownDimension, groupMadeOf, isAdditive, isBreakdownDimension, metricByName, namedUnitDimension, ownLevelDimension, plainCountMetric } from '../analysis/catalog.js';
 import type { Coverage } from '../analysis/coverage.js';
 import { SUB_QUESTIONS, type TemplateName } from '../analysis/sub-questions/registry.js';
 import { type DateWindow, type Grain, type Lens, type RequestKind, type SubQuestion } from '../analysis/types.js';
@@ -111,6 +111,9 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
     for (const metric of metrics) {
       if (levels) break;
       const additive = ds.metrics.some((m) => m.name === metric) && isAdditive(metricByName(ds, metric));
+      // A level whose breakdown's members carry their own level (catalog.ts ownLevelDimension): per member heads the answers.
+      const entity = ds.metrics.some((m) => m.name === metric) ? ownLevelDimension(ds, metricByName(ds, metric), q.filters) : null;
+      const perMember = entity !== null && dims.includes(entity.dimension) ? entity.dimension : null;
       if (focused && additive) {
         // Its share by month unless a grain was asked: weekly shares of a few months swing with the calendar more than with the share.
         const shareGrain: Grain = brief.evidence?.grain?.how === 'stated' || (grain !== 'day' && grain !== 'week') || monthsIn(span) < 2 ? grain : 'month';
@@ -137,11 +140,11 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           // answers it (on daily data) whatever the grain, heads the question and leads the summary.
           // A question kept to some days ("weekends" of "weekends vs weekdays") has no week's pattern to show.
           const weekdays = WEEKDAY_ASK.test(q.text.toLowerCase()) && !q.filters.some(isDayFilter);
-          add('series', metric, !ranks && !concentrated && !weekdays && !focused);
+          add('series', metric, !ranks && !concentrated && !weekdays && !focused && !perMember);
           if (grain === 'month' || weekdays) add('trend_seasonality', metric, weekdays, weekdays ? { weekdaysAsked: true, answersAsked: true } : {});
           add('trend_test', metric, false);
           add('trend_summary', metric, false);
-          for (const d of dims) add('segment_trend', metric, false, { dimension: d });
+          for (const d of dims) add('segment_trend', metric, d === perMember && !ranks && !concentrated && !weekdays, { dimension: d });
           // "worst 10 by late share": a ranking by value answers it, whatever the metric, and heads the question.
           if ((additive || q.rankOrder) && !ranks && !concentrated) for (const d of dims) add('segment_shares', metric, !!q.rankOrder, { dimension: d });
           break;
@@ -210,9 +213,9 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           // Listed with the KPI question it answers; a year before the data is said in the plan line.
           const prior = whole ? priorWindow(whole) : null;
           if (whole && prior) add('growth_periods', metric, true, { kind: 'kpi', compareWindow: prior, ...(prior.start < history.start ? { priorOutsideData: true } : {}) }, whole);
-          add('kpi_snapshot', metric, !whole, {}, upTo);
+          add('kpi_snapshot', metric, !whole && !perMember, {}, upTo);
           add('kpi_context', metric, false, {}, upTo);
-          for (const d of dims) add('kpi_by_segment', metric, ranks, { dimension: d, ...(ranks ? { answersAsked: true } : {}) }, upTo);
+          for (const d of dims) add('kpi_by_segment', metric, ranks || (d === perMember && !whole), { dimension: d, ...(ranks ? { answersAsked: true } : {}) }, upTo);
           if (additive) for (const d of dims) add('kpi_mix', metric, false, { dimension: d }, upTo);
           break;
         }

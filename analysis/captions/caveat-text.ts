@@ -3,6 +3,7 @@ import type { Grain } from '../types.js';
 import { formatPeriod, formatValue } from '../format.js';
 import { countOf, isAre, listJoin } from './grammar.js';
 import type { Caveat } from '../types.js';
+import { mixedLevelsNote } from './own-level-words.js';
 
 /**
  * A caveat field as text; a missing one reads as `missing` ("a column", "some"), never as
@@ -42,6 +43,8 @@ export function caveatNote(c: Caveat, locale: string): string {
     }
     case 'no_data':
       return 'There is no data in the period asked for.';
+    case 'mixed_levels':
+      return mixedLevelsNote(c, locale);
     case 'all_null':
       return 'The metric has no values in this period (all missing).';
     case 'single_period':
@@ -177,6 +180,7 @@ export function caveatFlag(c: Caveat): string {
     segments_folded: 'Smaller segments are combined as "All others".',
     segment_gap: 'A segment has periods with no data.',
     late_segment: 'A segment starts later than the others.',
+    mixed_levels: 'Averages members with levels of their own: unlike things.',
     base_zero: 'Some growth rates cannot be computed: the earlier value is zero or missing.',
     suppressed_small_groups: 'Groups too small to show are withheld or combined.',
   };
