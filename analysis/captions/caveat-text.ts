@@ -159,6 +159,10 @@ export function caveatFlag(c: Caveat): string {
   if (c.code === 'outlier' && (c.data.rule === 'seasonal' || c.data.rule === 'seasonal_and_values')) {
     return c.data.cycle === 7 ? 'Some periods are unusual even for their day of the week.' : 'Some periods are unusual even for the time of year.';
   }
+  // Which members, and how many, so a forwarded chart says what its one line averages.
+  if (c.code === 'mixed_levels' && typeof c.data.members === 'number' && typeof c.data.dimension === 'string') {
+    return `Averages ${countOf(c.data.members, c.data.dimension.toLowerCase())} with levels of their own: unlike things.`;
+  }
   const flags: Record<Caveat['code'], string> = {
     partial_period: 'A period with part of its data is drawn dashed.',
     partial_period_excluded: 'A period with part of its data is left out.',
