@@ -107,7 +107,6 @@ export function verbFor(label: string, verb: 'is' | 'was' = 'is'): string {
   return verb === 'is' ? (plural ? 'are' : 'is') : plural ? 'were' : 'was';
 }
 
-/** "Route A's", but "Bookings'" (a name ending in s takes the apostrophe alone). */
 /** "a route", "an origin airport", "an hour", "a unit": the indefinite article by the word's sound (common English rules, with the usual exceptions). */
 export function withArticle(phrase: string): string {
   const w = phrase.trim().toLowerCase();
@@ -115,6 +114,7 @@ export function withArticle(phrase: string): string {
   return `${an ? 'an' : 'a'} ${phrase}`;
 }
 
+/** "Route A's", but "Bookings'" (a name ending in s takes the apostrophe alone). */
 export function possessive(name: string): string {
   return /s$/i.test(name) ? `${name}'` : `${name}'s`;
 }
