@@ -157,6 +157,19 @@ export function formatPeriod(
   }
 }
 
+/**
+ * A run of days or months from its first to its last (both included), with what the two ends share
+ * said once, as the locale writes ranges (Intl's formatRange): "1 Jan – 18 Jun 2025",
+ * "16 – 22 Nov 2015", "Jan – Jun 2001"; a run across years keeps both years.
+ */
+export function formatPeriodRange(firstIso: string, lastIso: string, grain: 'day' | 'month', locale: string): string {
+  const [first, last] = [parseCalendarDate(firstIso), parseCalendarDate(lastIso)];
+  if (first === null || last === null) return NOT_AVAILABLE;
+  const options: Intl.DateTimeFormatOptions = grain === 'day' ? { day: 'numeric', month: 'short', year: 'numeric' } : { month: 'short', year: 'numeric' };
+  const df = dateFormat(locale, options);
+  return first.getTime() === last.getTime() ? df.format(first) : df.formatRange(first, last);
+}
+
 /** Rounds to `digits` significant figures; non-finite values pass through unchanged. */
 export function significant(value: number, digits = 3): number {
   if (!Number.isFinite(value) || value === 0) return value === 0 ? 0 : value;

@@ -3,7 +3,7 @@
 import type { DatasetConfig, Metric } from '../../config/schema.js';
 import type { GrowthSeriesFinding, GrowthSpan } from '../findings/growth.js';
 import { changesInUnits } from '../catalog.js';
-import { formatChange, formatPeriod, formatPointChange, formatUnitChange, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
+import { formatChange, formatPeriod, formatPeriodRange, formatPointChange, formatUnitChange, formatValue, valueFormatOf, type ValueFormat } from '../format.js';
 import { addDays, addMonths } from '../periods.js';
 import { TINY_BASE_FRACTION } from '../stats/index.js';
 import type { Answer, Audience, Caveat, Grain } from '../types.js';
@@ -77,14 +77,13 @@ export function spanText(span: GrowthSpan, locale: string): string {
     const to = formatPeriod(last, 'year', locale);
     return from === to ? from : `${from} to ${to}`;
   }
+  // Ends that share a year (or a month) say it once: "1 Jan – 18 Jun 2025" reads inside "from … to …".
   if (span.start.slice(8) === '01' && span.end.slice(8) === '01') {
-    const from = formatPeriod(span.start, 'month', locale);
-    const to = formatPeriod(addMonths(span.end, -1), 'month', locale);
-    return from === to ? from : `${from} to ${to}`;
+    // A calendar quarter is named as one ("Q1 2001"), as the quarter grain names it.
+    if (['01', '04', '07', '10'].includes(span.start.slice(5, 7)) && addMonths(span.start, 3) === span.end) return formatPeriod(span.start, 'quarter', locale);
+    return formatPeriodRange(span.start, addMonths(span.end, -1), 'month', locale);
   }
-  const from = formatPeriod(span.start, 'day', locale);
-  const to = formatPeriod(last, 'day', locale);
-  return from === to ? from : `${from} to ${to}`;
+  return formatPeriodRange(span.start, last, 'day', locale);
 }
 
 /** A segment's display name: booleans of a comparison group's column read as its labels; a missing value as "(not recorded)". */

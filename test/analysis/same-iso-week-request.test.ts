@@ -48,7 +48,7 @@ describe('the same week last year is the same ISO week number', () => {
     writeFileSync(join(dir, 'go.yaml'), 'plan: go\n');
     const out = await ask({ configFile: CONFIG, request: REQUEST, answersFile: join(dir, 'go.yaml'), outDir: join(dir, 'out'), now: NOW });
     const texts = out.thread.thread.posts.filter((p) => p.author === 'threadcount').map((p) => p.text);
-    const change = texts.find((t) => /rose|fell/.test(t) && /16 Nov 2015 to 22 Nov 2015 against 17 Nov 2014 to 23 Nov 2014/.test(t));
+    const change = texts.find((t) => /rose|fell/.test(t) && /16\s?–\s?22 Nov 2015 against 17\s?–\s?23 Nov 2014/.test(t));
     expect(change, texts.join('\n---\n')).toBeDefined();
     expect(change).toContain(`${Number(growth) >= 0 ? 'rose' : 'fell'} ${Math.abs(Number(growth)).toFixed(1)}%`);
     expect(change).toContain(`${p14!.toFixed(1)} to ${p15!.toFixed(1)}`);

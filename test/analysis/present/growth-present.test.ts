@@ -160,7 +160,7 @@ describe('growth_drivers presenter', () => {
     const s = sq('growth_drivers', { lens: 'breakdown', dimension: 'channel', window: { start: '2024-06-01', end: '2024-09-01' } });
     const p = present(answer(s, [driversFinding]), 'managers');
     expect(p.title).toBe('App drove the biggest change in revenue: +€15K');
-    expect(p.caption).toContain('Revenue rose 5.0%: €200K to €210K (+€10K), Jun 2024 to Aug 2024 against Jun 2023 to Aug 2023.');
+    expect(p.caption).toContain('Revenue rose 5.0%: €200K to €210K (+€10K), Jun\u2009–\u2009Aug 2024 against Jun\u2009–\u2009Aug 2023.');
     // app's +€15K is 150% of the +€10K total, offset by web's fall: no "n% of the total change" here.
     expect(p.caption).toContain('kiosk +€1K. The other 2 together: €0.');
     expect(p.caption).not.toContain('of the total change');
@@ -191,7 +191,7 @@ describe('growth_drivers presenter', () => {
     const f: GrowthDriversFinding = { ...driversFinding, total: { before: 865_000, after: 871_000, change: 6_000, relative: 6_000 / 865_000 } };
     const p = present(answer(s, [f]), 'leadership');
     expect(p.caption).toBe(
-      'Revenue held flat: €865K to €871K (+0.7%, +€6K), Jun 2024 to Aug 2024 against Jun 2023 to Aug 2023. Biggest moves: app +€15K, web −€6K, kiosk +€1K.',
+      'Revenue held flat: €865K to €871K (+0.7%, +€6K), Jun\u2009–\u2009Aug 2024 against Jun\u2009–\u2009Aug 2023. Biggest moves: app +€15K, web −€6K, kiosk +€1K.',
     );
   });
 

@@ -62,7 +62,7 @@ describe('a named period is compared whole', () => {
     const shown = SUB_QUESTIONS.growth_drivers.present(answer, { dataset: ws.dataset, locale: 'en-GB', audience: 'managers', chart: { width: 1200, height: 675, scale: 1 }, dataAsOf: ws.coverage.lastDate });
     expect(shown.caption).toContain(`Strikes rose ${((now / before - 1) * 100).toFixed(1)}%: ${before} to ${now}`);
     const [a, b] = [now / 90, before / 91];
-    expect(shown.caption).toContain(`Jan 2001 to Mar 2001 has 90 days and Jan 2000 to Mar 2000 91, so per day strikes rose ${((a / b - 1) * 100).toFixed(1)}% (${a.toPrecision(3)} against ${b.toPrecision(3)} a day).`);
+    expect(shown.caption).toContain(`Q1 2001 has 90 days and Q1 2000 91, so per day strikes rose ${((a / b - 1) * 100).toFixed(1)}% (${a.toPrecision(3)} against ${b.toPrecision(3)} a day).`);
   });
 
   it('a period still running is compared with as many days of the named one', async () => {

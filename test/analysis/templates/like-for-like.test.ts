@@ -99,7 +99,7 @@ describe('like-for-like growth', () => {
     expect(Math.abs(f.total.before! - sum('2024-01-01', '2024-06-19'))).toBeGreaterThan(1);
     const p = SUB_QUESTIONS.growth_drivers.present(answer, presentContext(demo, 'managers'));
     expect(captionProblems(answer, p)).toEqual([]);
-    expect(p.caption).toMatch(/1 Jan 2025 to 18 Jun 2025 against 1 Jan 2023 to 18 Jun 2023/);
+    expect(p.caption).toMatch(/1 Jan\u2009–\u200918 Jun 2025 against 1 Jan\u2009–\u200918 Jun 2023/);
   });
 
   it('the demo: summers 2024 and 2023 both have kiosk from its first day, so there is no like-for-like figure apart', async () => {
