@@ -25,6 +25,11 @@ export interface CatalogEntry {
   weak?: boolean;
   /** Another form of a one-word value ("rainy" of "rain"), not the data's own text. */
   form?: boolean;
+  /**
+   * A part that is the leading word of exactly one value in the whole dataset ("nuclear" of
+   * "Nuclear Energy"): it names that value in any case, like a one-word value, and is said back.
+   */
+  lead?: boolean;
 }
 
 export interface CatalogHit extends Span {
@@ -178,8 +183,40 @@ function catalogEntries(ds: DatasetConfig, values?: ValueIndex): CatalogEntry[] 
       for (const owner of owners) add('value', d.name, [part], { value: owner, partial: true, weak: isWeakPhrase(part) });
     }
   }
+  markLeadWords(ds, out);
   out.push(...labelParts(ds, out));
   return out;
+}
+
+/**
+ * Marks the parts of values that name their value on their own, in lower case too: the leading
+ * word of a multi-word value ("nuclear" of "Nuclear Energy", "volcanic" of "Volcanic activity"),
+ * standing alone in it (not the first half of a hyphenated word: "take" of "Take-off run"), held
+ * by that one value of the whole dataset (not "extreme" of "Extreme weather" and "Extreme
+ * temperature", nor a word two breakdowns hold), and no word of a measure's or breakdown's names,
+ * of the calendar, or of everyday requests. Such a word is as telling as a one-word value.
+ */
+function markLeadWords(ds: DatasetConfig, entries: CatalogEntry[]): void {
+  const owners = new Map<string, Set<string>>();
+  for (const e of entries) {
+    if (e.kind !== 'value') continue;
+    for (const w of phraseWords(e.phrase).map(stem)) owners.set(w, (owners.get(w) ?? new Set()).add(`${e.name}\u0000${e.value}`));
+  }
+  const catalogWords = new Set(
+    [...ds.metrics.flatMap((m) => [m.name.replaceAll('_', ' '), m.label, ...m.synonyms]), ...ds.dimensions.flatMap((d) => [d.name.replaceAll('_', ' '), d.label, d.column.replaceAll('_', ' '), ...d.synonyms]), ...ds.comparison_groups.flatMap((g) => [g.name.replaceAll('_', ' '), g.label, ...g.synonyms])]
+      .flatMap((n) => phraseWords(n))
+      .map(stem),
+  );
+  for (const e of entries) {
+    if (e.kind !== 'value' || !e.partial || e.weak || !e.value) continue;
+    const word = e.phrase.toLowerCase();
+    const key = stem(word);
+    const value = e.value.trim().toLowerCase();
+    if (!value.startsWith(word) || !/^\s/.test(value.slice(word.length))) continue;
+    if (owners.get(key)?.size !== 1 || catalogWords.has(key) || ANALYSIS_WORDS.has(key) || GENERAL_LABEL_WORDS.has(word)) continue;
+    if (EVERYDAY.has(word) || BUSINESS_NOUNS.has(word) || BUSINESS_NOUNS.has(key) || PERIOD_NOUN.test(word) || CALENDAR_NAME.test(word)) continue;
+    e.lead = true;
+  }
 }
 
 // Words of a label too general to stand for it alone ("Major Genre" is not found by "major").

@@ -136,6 +136,8 @@ interface ReadState {
   notes: string[];
   /** The request's words for days of the week ("on fridays"), the evidence of a day filter. */
   dayWords?: string[];
+  /** The request's own words for a value read from part of its name ("nuclear" for Nuclear Energy), for the card's "from …". */
+  partWords?: Map<string, string>;
   /** Superlatives beside a time noun ("the hottest day"): the grain of an extreme, and its end. */
   extremes: PeriodExtreme[];
   /** Measures a quality word pointed to ("hottest" to the daily high), with those words, for evidence. */
@@ -1155,6 +1157,13 @@ export function seasonAsYear(text: string): { text: string; notes: string[] } {
   return { text: out, notes };
 }
 
+/** "nuclear" read as the energy source Nuclear Energy: a part of a value's name, said back with the value it stands for. */
+function partReadAs(words: string, parts: readonly CatalogEntry[], ds: DatasetConfig): string {
+  const dimension = ds.dimensions.find((d) => d.name === parts[0]!.name);
+  const values = listJoin(parts.map((e) => e.value!));
+  return `"${words}" read as ${dimension ? `the ${inSentence(dimension.label)} ` : ''}${values}.`;
+}
+
 /** Values named in a clause become filters, two of one breakdown set against each other a contrast. */
 function readValues(valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[], hits: CatalogHit[], st: ReadState, clause: Clause, ambiguous: AmbiguousValue[]): { filters: SegmentFilter[]; contrast?: { dimension: string; values: string[] } } {
   const lower = st.text.lower;
@@ -1180,7 +1189,7 @@ function readValues(valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[], h
     const joinedToOwnValue = (e: CatalogEntry) =>
       hits.some((o) => o !== hit && o.entries.some((x) => x.kind === 'value' && x.name === e.name && !x.partial) && /^\s*(?:and|or|&|,|vs\.?|versus)\s*$/.test(o.end <= hit.start ? lower.slice(o.end, hit.start) : lower.slice(hit.end, o.start)));
     const usable = entries.filter((e) => {
-      if (e.partial && !capitalised) return ownNounBeside || measureBeside(hit, hits, st.text) || joinedToOwnValue(e);
+      if (e.partial && !capitalised && !e.lead) return ownNounBeside || measureBeside(hit, hits, st.text) || joinedToOwnValue(e);
       if (grainWord(e)) return ownNounBeside || /\b(?:on|the|an?)\s+$/.test(before) && /^\s*(?:plans?|subscriptions?|tier|option)\b/.test(after);
       return !e.weak || cueBeside;
     });
@@ -1195,6 +1204,10 @@ function readValues(valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[], h
     const dims = unique(distinct.map((e) => e.name));
     if (distinct.length === 1 || (dims.length === 1 && plural && distinct.every((e) => e.partial))) {
       for (const e of distinct) chosen.push({ dimension: e.name, value: e.value!, exclude, hit });
+      // A word that is only part of a value's name is said back with the whole value it was read as.
+      const parts = distinct.filter((e) => e.partial);
+      if (parts.length > 0) st.notes.push(partReadAs(st.text.quote(hit), parts, st.ds));
+      for (const e of parts) (st.partWords ??= new Map()).set(`${e.name}\u0000${e.value}`, st.text.quote(hit));
     } else if (strong.length > 0 || cueBeside) {
       const text = st.text.quote(hit);
       if (!ambiguous.some((a) => a.text === text)) {
@@ -1627,7 +1640,7 @@ function recordEvidence(brief: Brief, st: ReadState): void {
   if (brief.metrics.length > 0) ev.metrics = quoted.length === 0 && inferred.length > 0 ? { words: [...new Set(inferred.map((i) => i.words))].join('; '), how: 'inferred' } : { words: [...new Set(metricWords)].join('; '), how: 'stated' };
   if (brief.dimensions.length > 0) ev.dimensions = { words: brief.dimensions.join(', '), how: 'stated' };
   const filters = q.flatMap((x) => x.filters);
-  if (filters.length > 0) ev.filters = { words: filters.map((f) => (isDayFilter(f) ? (st.dayWords ?? []).join(', ') || dayScopeWords(f) : f.values.join(', '))).join('; '), how: 'stated' };
+  if (filters.length > 0) ev.filters = { words: filters.map((f) => (isDayFilter(f) ? (st.dayWords ?? []).join(', ') || dayScopeWords(f) : f.values.map((v) => st.partWords?.get(`${f.dimension}\u0000${v}`) ?? v).join(', '))).join('; '), how: 'stated' };
   if (brief.comparisonGroup) ev.comparisonGroup = { words: brief.comparisonGroup, how: 'stated' };
   const launched = q.find((x) => x.launchDate);
   if (launched?.launchDate) ev.launchDate = { words: launched.launchDate, how: st.periods.some((p) => p.window?.start === launched.launchDate && /launch|start|live|introduc|roll/.test(st.text.lower.slice(Math.max(0, p.start - 60), p.start))) ? 'stated' : 'inferred' };
