@@ -96,6 +96,17 @@ export function isBreakdownDimension(ds: DatasetConfig, name: string): boolean {
 }
 
 /** The columns a comparison group's rule reads: its own true/false column, or those its `when` condition reads. */
+/**
+ * Whether the group's members chose to be in it: its column or labels say they signed up, opted
+ * in, enrolled, subscribed, joined, registered, volunteered, applied, bought or hold something (a
+ * pass, a plan, a membership). Then the caution says members chose; any other group (sites
+ * refitted, regions picked) gets neutral words, since who put units in it is not known.
+ */
+export function isSelfSelected(g: ComparisonGroup): boolean {
+  const words = [g.column, g.label, g.members_label, ...(g.synonyms ?? [])].join(' ').replace(/[_-]+/g, ' ').toLowerCase();
+  return /\b(?:sign(?:ed|s)?\s*ups?|opt(?:ed|s)?\s*ins?|enrol\w*|subscri\w*|join\w*|regist\w*|volunteer\w*|appl(?:ied|icants?)|(?:card|pass|plan|policy|account)?\s*holders?|members?(?:hip)?s?|loyalty|bought|purchas\w*|adopt\w*)\b/.test(words);
+}
+
 export function groupColumns(ds: DatasetConfig, g: ComparisonGroup): string[] {
   const derived = ds.derived?.find((x) => x.name === g.column);
   return derived ? expressionColumns(derived.expr) : [g.column];

@@ -31,6 +31,7 @@ import {
   type WordsContext,
 } from './performance-words.js';
 import { labelAtStart } from './grammar.js';
+import { isSelfSelected } from '../catalog.js';
 
 export function beforeAfterWords(findings: readonly Finding[], ctx: WordsContext): PerformanceWords {
   const { metric, group, locale, audience, dataset } = ctx;
@@ -234,7 +235,9 @@ export function unitDidWords(findings: readonly Finding[], ctx: WordsContext): P
   const notes = [
     windowsNote(periods, locale),
     `Compared: ${noun.plural} with at least one ${rowsNoun.singular} both before and after the launch. They were ${noun.plural} throughout, so their months without a ${rowsNoun.singular} count as 0; ${noun.plural} seen on one side only may not have existed on the other, so they are left out rather than counted as 0.`,
-    `${capitalise(inText(m))} chose to join: ${noun.plural} who did may differ from those who did not in ways that also move the figures, so this is not an experiment and the gap is not the effect of ${group.label} alone.`,
+    isSelfSelected(group)
+      ? `${capitalise(inText(m))} chose to join: ${noun.plural} who did may differ from those who did not in ways that also move the figures, so this is not an experiment and the gap is not the effect of ${group.label} alone.`
+      : `${capitalise(inText(m))} were not picked at random: they may differ from ${inText(o)} in ways that also move the figures, so this is not an experiment and the gap is not the effect of ${group.label} alone.`,
   ];
   const count = (n: number) => countText(n, locale);
   const who = (n: number, label: string) => `${count(n)} ${inText(label)}`;

@@ -173,6 +173,9 @@ describe('a group whose members were customers before the launch', () => {
     expect(p.caption).toMatch(/a month higher: [+−]\d+\.\d% on what their own before plus the others' change would give \(difference in differences; 95% interval [+−]\d+\.\d% to [+−]\d+\.\d%, bootstrap over customers\)/);
     expect(p.caption).toContain('Left out as having joined or left within the windows');
     expect(p.notes.join(' ')).toMatch(/not an experiment/);
+    // Refunds are not something a customer signs up for: no "chose to join", neutral words instead.
+    expect(p.notes.join(' ')).toMatch(/Refunded customers were not picked at random: they may differ from other customers/);
+    expect(p.notes.join(' ')).not.toMatch(/chose/);
     expect(p.chart).not.toBeNull();
   });
 });
