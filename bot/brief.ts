@@ -45,6 +45,12 @@ export interface Question {
   launchDate?: string;
   /** Asks how often each customer (the group's unit) does something, not a metric total. */
   frequency: boolean;
+  /**
+   * A season named as a guess to test ("I suspect winter is our worst season"), not as the period:
+   * answered by the month-of-year pattern over all the data, the season set against the rest
+   * (bot/reading/hypothesis-seasons.ts).
+   */
+  seasonTested?: string;
   /** The question's own period and the period it is compared with, when it names them. */
   window?: DateWindow;
   compareWindow?: DateWindow;
@@ -139,6 +145,12 @@ export interface Brief {
    * prompt recommends, as relative periods count back from there.
    */
   latestInstead?: { unit: 'year' | 'quarter' | 'month' | 'season'; window: DateWindow; compareWindow?: DateWindow };
+  /**
+   * Events named as a time that the data cannot date ("in the recession", "during the strike"),
+   * as written: asked about when no other period was named, else said back on the card with the
+   * period that runs instead (bot/reading/undated-events.ts).
+   */
+  undatedEvents?: string[];
   /** What relative periods were counted from. */
   anchor?: { today: string; why: string };
   /** How each slot was read. */

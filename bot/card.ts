@@ -305,6 +305,7 @@ function restate(q: Question, ds: DatasetConfig, ctx: CardContext): string {
       // A question about when things peak keeps that detail, so it is not folded into "how it moved".
       // "the busiest day of the week" asks about weekdays, though "busiest" alone asks about the year.
       if (WEEKDAY_ASK.test(q.text)) return `Which days of the week ${what}${only} ${is} highest and lowest on${by}${w ? `, ${w}` : ''}.`;
+      if (q.seasonTested) return `Whether ${q.seasonTested} is when ${what}${only} ${is} highest or lowest, against the other seasons${by}${w ? `, ${w}` : ', over all the data'}.`;
       if (SEASON_ASK.test(q.text) || /\bseason/i.test(q.text)) return `When in the year ${what}${only} ${is} highest and lowest${by}${w ? `, ${w}` : ''}.`;
       return `How ${what}${only} moved${by}${w ? `, ${w}` : ' over time'}.`;
   }

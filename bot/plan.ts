@@ -140,8 +140,10 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
           // answers it (on daily data) whatever the grain, heads the question and leads the summary.
           // A question kept to some days ("weekends" of "weekends vs weekdays") has no week's pattern to show.
           const weekdays = WEEKDAY_ASK.test(q.text.toLowerCase()) && !q.filters.some(isDayFilter);
-          add('series', metric, !ranks && !concentrated && !weekdays && !focused && !perMember);
-          if (grain === 'month' || weekdays) add('trend_seasonality', metric, weekdays, weekdays ? { weekdaysAsked: true, answersAsked: true } : {});
+          // A season put up as a guess ("I suspect winter is our worst season"): the month-of-year pattern answers it and heads the question.
+          const seasonTest = !!q.seasonTested && !weekdays;
+          add('series', metric, !ranks && !concentrated && !weekdays && !focused && !perMember && !seasonTest);
+          if (grain === 'month' || weekdays || seasonTest) add('trend_seasonality', metric, weekdays || seasonTest, weekdays ? { weekdaysAsked: true, answersAsked: true } : seasonTest ? { answersAsked: true } : {});
           add('trend_test', metric, false);
           add('trend_summary', metric, false);
           for (const d of dims) add('segment_trend', metric, d === perMember && !ranks && !concentrated && !weekdays, { dimension: d });

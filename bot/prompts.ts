@@ -116,6 +116,9 @@ function windowPrompt(brief: Brief, ctx: PromptContext): Prompt {
     options.push({ value: `${twelveStart.slice(0, 7)} to ${lastMonth.slice(0, 7)}`, label: `The last 12 full months of the data (${formatPeriod(twelveStart, 'month', ctx.locale)} to ${formatPeriod(lastMonth, 'month', ctx.locale)})` });
   }
   const outside = (brief.saidBack ?? []).filter(isOutsideDataNote);
+  // "in the recession": an event the data holds no dates for, asked by name; its dates are the answer.
+  const event = !brief.window ? brief.undatedEvents?.[0] : undefined;
+  if (event && outside.length === 0) return eventPrompt(event, brief, options, range, ctx);
   const question = `${outside.length > 0 ? `${outside.join(' ')} ` : ''}Which period should I use instead? Choose one, or name a period inside the data.`;
   // "this year vs last year" after data that ended years ago: the same periods counted back from
   // the data's end, as the card says relative periods are, recommended first.
@@ -151,6 +154,33 @@ function windowPrompt(brief: Brief, ctx: PromptContext): Prompt {
     recommended: { ...all, reason: `the data runs from ${range}` },
     many: false,
   };
+}
+
+/**
+ * The dates of an event the data cannot date ("the recession"). Beside a period it is compared
+ * with ("vs 2007"), the recommended answer is the stretch after that period to the data's end
+ * (what "since then" would be); otherwise all the data. Either way the card says what was used.
+ */
+function eventPrompt(event: string, brief: Brief, options: PromptOption[], range: string, ctx: PromptContext): Prompt {
+  const full = fullWindow(ctx.coverage)!;
+  const compare = brief.compareWindow;
+  const after = compare && compare.end < full.end ? { start: compare.end, end: full.end } : null;
+  const monthOf = (iso: string) => iso.slice(0, 7);
+  const afterOption = after ? { value: `${monthOf(after.start)} to ${monthOf(addDays(after.end, -1))}`, label: `After the period compared: ${shortWindow(after, ctx.coverage.stamps, ctx.locale)}` } : null;
+  const all = options[0]!;
+  return {
+    topic: 'window',
+    question: `I can't tell the dates of "${event}" from the data: nothing in ${ctx.dataset.label} says when it was. Which dates should it cover? Type them ("Dec 2007 to Jun 2009", "2008-03 to 2009-06"), or choose one.`,
+    options: afterOption ? [afterOption, ...options] : options,
+    recommended: afterOption
+      ? { ...afterOption, reason: `"${event}" is set against ${describeWindowShort(compare!, ctx)}, so the stretch after it, to the data's end, stands in for it until you give its dates` }
+      : { ...all, reason: `the data runs from ${range}; "${event}" has no dates in it` },
+    many: false,
+  };
+}
+
+function describeWindowShort(w: DateWindow, ctx: PromptContext): string {
+  return shortWindow(w, ctx.coverage.stamps, ctx.locale);
 }
 
 /** Questions that still need a metric (frequency questions count the group's own unit). */
@@ -368,6 +398,8 @@ function readAnswerInto(prompt: Prompt, text: string, brief: Brief, ctx: PromptC
       const questions = brief.questions.map((q) => (q.window ? q : { ...q, window: w.value.window, ...(w.value.compareWindow ? { compareWindow: w.value.compareWindow } : {}) }));
       // The periods outside the data were said in the question just answered; the card shows the answer instead.
       const saidBack = (brief.saidBack ?? []).filter((l) => !isOutsideDataNote(l));
+      // "the recession" answered with its dates: the card says which dates stand for it.
+      if (!brief.window && brief.undatedEvents?.length) saidBack.push(`"${brief.undatedEvents[0]}" read as ${shortWindow(w.value.window, ctx.coverage.stamps, ctx.locale)}, the period given in reply: the data holds no dates for it.`);
       return { ok: true, brief: { ...brief, questions, window: w.value.window, ...(w.value.compareWindow ? { compareWindow: w.value.compareWindow } : {}), saidBack, toAsk: (brief.toAsk ?? []).filter((t) => t !== 'window') } };
     }
     case 'dataset': {

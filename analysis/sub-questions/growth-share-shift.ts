@@ -14,7 +14,7 @@ export const growthShareShiftSubQuestion = defineSubQuestion({
   describe: (w, sq) =>
     w.ends
       ? `How each ${w.dim}'s share of ${w.metric} shifted: ${w.ends}.`
-      : longerThanAYear(sq.window)
+      : longerThanAYear(sq.window) && !sq.compareWindow
       ? `How each ${w.dim}'s share of ${w.metric} shifted: the last complete year in ${w.span} against the one before.`
       : `How each ${w.dim}'s share of ${w.metric} shifted, ${w.span} against ${w.base}.`,
 });

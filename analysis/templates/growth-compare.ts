@@ -4,7 +4,7 @@
 // segment is also marked as present through both spans or not (a site that opened or closed in
 // between), and the segments present through both get a total of their own: like-for-like growth.
 import type { DatasetConfig } from '../../config/schema.js';
-import { groupableDimension, metricByName } from '../catalog.js';
+import { groupableDimension, isAdditive, metricByName } from '../catalog.js';
 import { type CompileContext, localDateExpr, measureSql, rowCountSql, tableRef, whereClause } from '../compile-context.js';
 import type { Coverage } from '../coverage.js';
 import { dataEnd, lastCoveredDay } from '../coverage.js';
@@ -84,22 +84,31 @@ export function comparedSpans(asked: SubQuestion, coverage: Coverage | undefined
     const current = (coverage && coveredWindow(asked.window, coverage)) || asked.window;
     const cw = (coverage && coveredWindow(asked.compareWindow, coverage)) || asked.compareWindow;
     // A before/after's two sides are set by the plan, equal in days either side of the date.
-    return { current, prior: asked.beforeAfter ? cw : askedPrior(current, cw), asked: true };
+    return { current, prior: asked.beforeAfter ? cw : askedPrior(current, cw, asked.window), asked: true };
   }
   const current = comparisonWindow(asked.window, coverage);
   return { current, prior: priorWindow(current), asked: false };
 }
 
 /**
- * A named comparison period. Whole when both spans are whole calendar periods of one kind (a
- * quarter against a quarter, a month against a month, a year against a year): named periods keep
- * their own lengths, so a leap year's first quarter keeps its 91 days. Otherwise, a span still
- * running ("2025 so far against 2023"), like for like: from its start, over the same dates (or as
- * many days) as the current span, never past its end.
+ * A named comparison period. A whole calendar year, quarter or month ("vs 2007") is compared whole,
+ * whatever the other span, unless the span asked was a period of the same kind that the data cuts
+ * short ("2002 against 2000", data ending in July 2002: the same dates of each): the brief card says "2007", so the SQL and the caption use all of 2007
+ * (a level or a ratio is its mean over the span; a total over spans of unequal length is also
+ * said per day, captions/growth-drivers-caption.ts perDaySentence). Named periods keep their own
+ * lengths, so a leap year's first quarter keeps its 91 days. The like-for-like cut of a span still
+ * running ("2025 so far against 2023": 1 January to 18 June of each) is the reader's
+ * (bot/reading/read-request.ts compareOf), which the card then shows. Any other compare span is
+ * taken like for like: from its start, over the same dates (or as many days) as the current
+ * span, never past its end.
  */
-export function askedPrior(current: DateWindow, compare: DateWindow): DateWindow {
-  const kind = wholePeriodKind(current);
-  if (kind !== null && kind === wholePeriodKind(compare)) return compare;
+export function askedPrior(current: DateWindow, compare: DateWindow, asked: DateWindow = current): DateWindow {
+  const kind = wholePeriodKind(compare);
+  if (kind !== null && kind === wholePeriodKind(current)) return compare;
+  // "2002 against 2000" on data ending 25 July 2002: two periods of one kind, the later still
+  // running, are compared over the same dates of each, as the reader cuts them (and says "so far").
+  const sameKind = kind !== null && kind === wholePeriodKind(asked);
+  if (kind !== null && kind !== 'week' && !sameKind) return compare;
   // Both starting on the same day of a month: the same dates ("1 January to 25 July" of each,
   // whatever the leap days between); otherwise as many days.
   const months = (Number(compare.start.slice(0, 4)) - Number(current.start.slice(0, 4))) * 12 + Number(compare.start.slice(5, 7)) - Number(current.start.slice(5, 7));
@@ -347,11 +356,21 @@ export interface WindowComparison {
  * part, on equal terms. Null otherwise, and for a span with no days.
  */
 export function perDaySpanDays(sq: SubQuestion, dataset: DatasetConfig, metric: string, cmp: Pick<WindowComparison, 'currentSpan' | 'priorSpan'>): { before: number; after: number } | null {
-  if (!perDayAsked({ ...sq, metrics: [metric] }, dataset)) return null;
   const before = daysBetween(cmp.priorSpan.start, cmp.priorSpan.end);
   const after = daysBetween(cmp.currentSpan.start, cmp.currentSpan.end);
-  return before > 0 && after > 0 ? { before, after } : null;
+  if (before <= 0 || after <= 0) return null;
+  if (perDayAsked({ ...sq, metrics: [metric] }, dataset)) return { before, after };
+  // Two named spans far apart in length ("2025 so far against 2023": 169 days against 365): totals
+  // that add up over days differ by the days more than by anything asked, so every figure is per day.
+  const additive = isAdditive(metricByName(dataset, metric));
+  return additive && Math.abs(after - before) > UNEQUAL_SPANS * Math.max(after, before) ? { before, after } : null;
 }
+
+/**
+ * How far two compared spans may differ in length before totals are compared per day: a tenth (our
+ * own choice), past any two calendar months (31 against 28 days is 9.7%) or a leap day.
+ */
+export const UNEQUAL_SPANS = 0.1;
 
 /**
  * Splits the comparison rows into the two sides, and works out the compared spans from the same

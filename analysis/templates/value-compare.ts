@@ -46,7 +46,7 @@ export function contrastSpans(sq: SubQuestion, coverage: Coverage | undefined): 
   const asked = sq.compareWindow ? sq.window : nonOverlapping(sq.window, coverage);
   const current = (coverage && coveredWindow(asked, coverage)) || asked;
   if (sq.compareWindow) {
-    return { current, prior: askedPrior(current, sq.compareWindow), basis: 'asked' };
+    return { current, prior: askedPrior(current, sq.compareWindow, sq.window), basis: 'asked' };
   }
   return { current, prior: priorWindow(current), basis: 'year_earlier' };
 }

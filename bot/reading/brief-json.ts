@@ -53,6 +53,8 @@ export const briefJsonSchema = z
     toAsk: z.array(z.enum(ASKABLE)),
     /** What the card says back about how the request was read (a date that is not real, a period outside the data). */
     saidBack: z.array(z.string()),
+    /** Events named as a time that the data cannot date ("the recession"), asked about or said back. */
+    undatedEvents: z.array(z.string()).optional(),
     anchor: z.object({ today: isoDate, why: z.string() }).strict(),
     evidence: z.partialRecord(
       z.enum(BRIEF_SLOTS),
@@ -106,6 +108,7 @@ export function briefToJson(brief: Brief, dataset: string): BriefJson {
     personalValues: brief.personalValues ?? [],
     toAsk: brief.toAsk ?? [],
     saidBack: brief.saidBack ?? [],
+    ...(brief.undatedEvents?.length ? { undatedEvents: brief.undatedEvents } : {}),
     anchor: brief.anchor ?? { today: '', why: '' },
     evidence: brief.evidence ?? {},
   };

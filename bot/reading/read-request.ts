@@ -40,6 +40,8 @@ import {
   WEEKDAY_ASK,
 } from './lexicon.js';
 import { findPeriods, type PeriodContext, type PeriodMention } from './periods.js';
+import { findUndatedEvents, type UndatedEvent } from './undated-events.js';
+import { hypothesisSeasons } from './hypothesis-seasons.js';
 import { isoDateIn } from './time-zone.js';
 import { overlaps, RequestText, type Span } from './text.js';
 import { applyStatistics, readStatistics } from './statistic-words.js';
@@ -178,6 +180,9 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   for (const m of text.matches(/(?<![\p{L}])days?[- ]of[- ](?:the[- ])?week(?![\p{L}])/gu)) text.claim(m.span);
   const hits = findCatalogHits(text, catalog);
   for (const h of hits) text.claim(h);
+  // "in the recession": an event the data cannot date, never a value it lacks (undated-events.ts).
+  const events = findUndatedEvents(text);
+  for (const e of events) text.claim(e);
   const roleHits = findRoleWords(text, ds);
   // A business word the catalog has no metric for ("revenue" on a support desk) stays free, to be said back as unknown.
   for (const r of roleHits) if (r.metrics.length > 0) text.claim(r.span);
@@ -205,6 +210,19 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
 
   const state: ReadState = { text, ds, catalog, anchor: anchor.today, dataEnd: anchor.dataEnd, periods, hits, roleHits, grainSpans: grain?.spans ?? [], evidence, sharedMetricHits: [], notes: [], extremes, inferredMetrics: [], ratesOfCounts: [] };
   const { questions, ambiguous } = readQuestions(state);
+  // "I suspect winter is our worst season": the season is the guess to test, not the period.
+  const tested = hypothesisSeasons(text.lower, periods);
+  for (const t of tested) {
+    for (const q of questions) {
+      if (!q.window || q.window.start !== t.mention.window!.start) continue;
+      delete q.window;
+      delete q.windowSoFar;
+      delete q.spanEnds;
+      delete q.compareWindow;
+      q.seasonTested = t.season;
+      if (q.kind === 'kpi' || q.kind === 'growth') q.kind = 'trend';
+    }
+  }
   applyDaySets(questions, daySets, text, state.notes);
   state.dayWords = daySets.mentions.map((m) => m.words);
   applyStatistics(questions, statistics, state.notes, ds);
@@ -301,9 +319,45 @@ export function readRequest(fullText: string, facts: DatasetFacts, opts: ReadOpt
   const purpose = /\b(?:for|ahead of|before)\s+(?:the|our|my|next|this)\s+([\p{L} ]{2,40}?(?:review|meeting|board|report|update|presentation|offsite|deck|pack))\b/iu.exec(text.original)?.[1];
   if (purpose) brief.purpose = purpose.trim();
   recordEvidence(brief, state);
+  const askEvent = placeUndatedEvents(brief, events, periods, facts, anchor.dataEnd);
+  if (tested.length > 0) {
+    if (!brief.window && brief.evidence) delete brief.evidence.window;
+    const all = dataWindow(facts, anchor.dataEnd);
+    const range = all ? describeWindow(all, facts.coverage) : 'all the data';
+    const notes = unique(tested.map((t) => t.season)).map((s) => `"${s}" is read as the season your guess is about, not the period: each month of the year is set against the rest over ${range}, so ${s} can be seen against the other seasons.`);
+    brief.saidBack = unique([...(brief.saidBack ?? []), ...notes]);
+  }
   brief.toAsk = toAsk(brief);
-  if (askWindow) brief.toAsk.push('window');
+  if (askWindow || askEvent) brief.toAsk.push('window');
   return brief;
+}
+
+/**
+ * Events named as a time that the data cannot date ("in the recession"). With no period of the
+ * request's own for the window (none named, or only the one it is compared with), the window
+ * counted in its place (the year to date beside "vs 2007") is taken out and the event's dates are
+ * asked (prompts.ts windowPrompt); a comparison named beside it stays. Beside a period that was
+ * named, the card says the event was not dated and the named period runs. Returns whether to ask.
+ */
+function placeUndatedEvents(brief: Brief, events: readonly UndatedEvent[], periods: readonly PeriodMention[], facts: DatasetFacts, dataEnd: string | null): boolean {
+  if (events.length === 0) return false;
+  brief.undatedEvents = unique(events.map((e) => e.words));
+  const named = periods.some((p) => p.window && !p.compared && !p.shift);
+  const asWindow = events.filter((e) => !e.compared);
+  if (!named && asWindow.length > 0 && dataWindow(facts, dataEnd)) {
+    for (const q of brief.questions) {
+      delete q.window;
+      delete q.windowSoFar;
+      delete q.spanEnds;
+    }
+    delete brief.window;
+    if (brief.evidence) delete brief.evidence.window;
+    return true;
+  }
+  const instead = brief.window ? describeWindow(brief.window, facts.coverage) : 'the whole history';
+  const notes = brief.undatedEvents.map((w) => `I can't tell the dates of "${w}" from the data, so it is not a period here: the answers use ${instead} as read. Give its dates ("from Dec 2007 to Jun 2009") to use them instead.`);
+  brief.saidBack = unique([...(brief.saidBack ?? []), ...notes]);
+  return false;
 }
 
 /** The data's days as a half-open window, or null for an empty dataset. */
@@ -697,7 +751,7 @@ function toQuestion(r: ClauseReading, st: ReadState, previous: Question | undefi
   // "…and when in the year is it highest?" points back for its measure but asks its own thing: a season.
   const asksSeason = SEASON_ASK.test(r.clause.text.toLowerCase()) || WEEKDAY_ASK.test(r.clause.text.toLowerCase());
   if (pointsBack && !asksSeason && r.kind !== 'growth' && r.kind !== 'performance') r.kind = previous!.kind;
-  const kind = r.kind ?? (fromPrevious && previous && !windows.compareWindow ? previous.kind : windows.compareWindow && !(previous && fromPrevious && previous.kind === 'kpi') ? 'growth' : previous && fromPrevious ? previous.kind : 'trend');
+  const kind = r.kind ?? (asksChangeSeries(periods, r.clause.text.toLowerCase()) ? 'growth' : fromPrevious && previous && !windows.compareWindow ? previous.kind : windows.compareWindow && !(previous && fromPrevious && previous.kind === 'kpi') ? 'growth' : previous && fromPrevious ? previous.kind : 'trend');
   const q: Question = {
     text: withoutPreamble(r.clause.text),
     kind,
@@ -1255,6 +1309,16 @@ function readValues(valueHits: { hit: CatalogHit; entries: CatalogEntry[] }[], h
 const LATER_THAN_NAMED = /\b(?:higher|lower|more|less|fewer|bigger|smaller|busier|quieter|better|worse|up|down)(?:\s+[a-z'-]+){0,3}?\s+than\s+(?:(?:it|they|that|this|we|there)\s+(?:was|were|did|had)\s+)?(?:in|during|over|for|at|back\s+in)\b/;
 
 /** The question's window and the window it is compared with, like for like. */
+/**
+ * "each quarter compared with a year earlier", "every month vs the same month last year",
+ * "year-over-year by quarter": a shift named with a grain and no period of its own asks for a
+ * series of changes, one per period at that grain (plan.ts growth_series), not two windows.
+ */
+function asksChangeSeries(periods: readonly PeriodMention[], lowerText: string): boolean {
+  if (!periods.some((p) => p.shift) || periods.some((p) => p.window && !p.compared && !p.shift)) return false;
+  return /\b(?:each|every|per|by)\s+(?:day|week|month|quarter|year)\b|\b(?:daily|weekly|monthly|quarterly)\b/.test(lowerText);
+}
+
 function windowsOf(periods: PeriodMention[], st: ReadState, clause: Clause): { window?: DateWindow; compareWindow?: DateWindow; windowSoFar?: boolean; spanEnds?: SpanEndsUnit } {
   const t = clause.text.toLowerCase();
   const plain = periods.filter((p) => p.window && !p.compared && !p.shift);
@@ -1289,6 +1353,8 @@ function windowsOf(periods: PeriodMention[], st: ReadState, clause: Clause): { w
     if (current.end > latest) current = shiftPeriod(current, other.unit, 1);
     if (current.start <= other.window.start) return {};
     return { window: clip(current, st), compareWindow: clip(other.window, st) };
+  } else if (asksChangeSeries(periods, t)) {
+    return {};
   } else if (other && !other.shift?.unit.match(/^(?:month|week|quarter|day)$/)) {
     // A comparison with no window of its own ("is revenue up on last year?"): the year to date.
     const unit: PeriodUnit = other.shift?.unit === 'period' ? 'month' : other.shift?.unit === 'same' ? 'year' : ((other.shift?.unit as PeriodUnit | undefined) ?? (other.unit === 'span' ? 'year' : (other.unit as PeriodUnit)));

@@ -86,20 +86,28 @@ describe('like-for-like growth', () => {
     expect(chart.bars.map((b) => b.label)).toContain('kiosk (new)');
   });
 
-  it('the demo: a comparison period the request named (2025 so far against 2023) is the one compared, like for like in length', async () => {
-    // "How did revenue in 2025 compare with 2023?": the data ends 18 June 2025, so 2023 is cut to 1 Jan-18 Jun too.
+  it('the demo: a whole year named as the comparison (2025 so far against 2023) is compared whole, per day', async () => {
+    // The reader cuts "2025 compared with 2023" to the same dates itself (bot/reading/read-request.ts
+    // compareOf), and the card shows that cut. A whole year handed to the template is what the card
+    // said ("2023"), so it is all of 2023 in the SQL and the caption, never a silent cut.
     const answer = await answerSubQuestion(drivers({ window: { start: '2025-01-01', end: '2025-06-19' }, compareWindow: { start: '2023-01-01', end: '2024-01-01' } }), demo);
     const f = answer.findings.find((x): x is GrowthDriversFinding => x.type === 'growth_drivers')!;
     const sum = (start: string, end: string) => demoRows.filter((r) => r.day >= start && r.day < end).reduce((a, r) => a + r.cents, 0) / 100;
     expect(f.current).toEqual({ start: '2025-01-01', end: '2025-06-19' });
-    expect(f.prior).toEqual({ start: '2023-01-01', end: '2023-06-19' });
-    expect(f.total.after).toBeCloseTo(sum('2025-01-01', '2025-06-19'), 6);
-    expect(f.total.before).toBeCloseTo(sum('2023-01-01', '2023-06-19'), 6);
+    expect(f.prior).toEqual({ start: '2023-01-01', end: '2024-01-01' });
+    // 169 days against 365: totals differ by the days more than by anything asked, so every figure
+    // is per day (the span's total over its days), with the plain totals kept beside.
+    expect(f.perDay?.days).toEqual({ after: 169, before: 365 });
+    expect(f.perDay!.totals.after).toBeCloseTo(sum('2025-01-01', '2025-06-19'), 6);
+    expect(f.perDay!.totals.before).toBeCloseTo(sum('2023-01-01', '2024-01-01'), 6);
+    expect(f.total.after).toBeCloseTo(sum('2025-01-01', '2025-06-19') / 169, 6);
+    expect(f.total.before).toBeCloseTo(sum('2023-01-01', '2024-01-01') / 365, 6);
     // Not the year-earlier base (2024), which the request did not ask about.
-    expect(Math.abs(f.total.before! - sum('2024-01-01', '2024-06-19'))).toBeGreaterThan(1);
+    expect(Math.abs(f.perDay!.totals.before! - sum('2024-01-01', '2025-01-01'))).toBeGreaterThan(1);
     const p = SUB_QUESTIONS.growth_drivers.present(answer, presentContext(demo, 'managers'));
     expect(captionProblems(answer, p)).toEqual([]);
-    expect(p.caption).toMatch(/1 Jan\u2009–\u200918 Jun 2025 against 1 Jan\u2009–\u200918 Jun 2023/);
+    expect(p.caption).toMatch(/against 2023/);
+    expect(p.caption).toMatch(/divided by its days.*169 days and 2023 365/);
   });
 
   it('the demo: summers 2024 and 2023 both have kiosk from its first day, so there is no like-for-like figure apart', async () => {
