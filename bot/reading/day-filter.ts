@@ -34,8 +34,11 @@ const GROUP = String.raw`(?<![\p{L}\d])(?:${ONE})(?:\s*(?:-|–|to|through|thru|
 const AGAINST = String.raw`^\s*(?:vs\.?|versus|v\.?|compared\s+(?:to|with)|against|or|and|than|relative\s+to)\s+(?:on\s+|at\s+|the\s+|during\s+)?`;
 const OTHER_DAYS = String.raw`^\s*(?:vs\.?|versus|compared\s+(?:to|with)|against)\s+(?:on\s+)?(?:the\s+)?(?:other|rest\s+of\s+the|remaining)\s+(?:days?|week)(?![\p{L}])`;
 
-/** Words that put a day in the pleasantries (see isDaySet): a person, a greeting word, or "it is" just before it. */
-const PLEASANTRY_BEFORE = /(?:\b(?:you|u|me|us|we|i)\s+(?:on\s+(?:(?:a|an|this|the)\s+)?|(?:a|an)\s+)|\b(?:your|my|ur)\s+(?:\w+\s+)?|\b(?:happy|good|great|nice|lovely|wonderful|relaxing|restful|enjoy(?:\s+(?:the|your))?|(?:the\s+)?rest\s+of\s+(?:the|your))\s+|\b(?:it'?s|it\s+is|it\s+being|today\s+is|today'?s)\s+(?:(?:a|the)\s+)?)$/;
+/**
+ * Words that put a day in the pleasantries (see isDaySet): a person on the day ("you on a Friday"; not
+ * "show me a weekend split", which asks for the data's days), a greeting word, or "it is" just before it.
+ */
+const PLEASANTRY_BEFORE = /(?:\b(?:you|u|me|us|we|i)\s+on\s+(?:(?:a|an|this|the)\s+)?|\b(?:your|my|ur)\s+(?:\w+\s+)?|\b(?:happy|good|great|nice|lovely|wonderful|relaxing|restful|enjoy(?:\s+(?:the|your))?|(?:the\s+)?rest\s+of\s+(?:the|your))\s+|\b(?:it'?s|it\s+is|it\s+being|today\s+is|today'?s)\s+(?:(?:a|the)\s+)?)$/;
 
 function dayOf(word: string): number | undefined {
   const w = word.replace(/s$/, '');

@@ -80,6 +80,9 @@ describe("a day in the pleasantries is the writer's time, not a filter", () => {
     ["I know it's Friday, but send me weekend flights by month", [6, 7]],
     ['how many flights leave on a Friday', [5]],
     ['what were our Sunday flights like by month', [7]],
+    // A person before the day without "on" asks for the data's days.
+    ['show me a weekend breakdown of flights by origin', [6, 7]],
+    ['give us a Saturday view of delays by month', [6]],
   ])('still a filter: %s', (text, days) => {
     expect(daysOf(read(text))).toEqual([days]);
   });
