@@ -147,7 +147,12 @@ function catalogEntries(ds: DatasetConfig, values?: ValueIndex): CatalogEntry[] 
     for (const phrase of new Set(phrases.filter((p) => p.trim().length > 0))) out.push({ kind, name, phrase, ...extra });
   };
   add('dataset', ds.name, [ds.name.replaceAll('_', ' '), ds.label]);
-  for (const m of ds.metrics) add('metric', m.name, [m.name.replaceAll('_', ' '), m.label, ...m.synonyms]);
+  // A measure named by a quality noun ("lateness", "busyness") is asked by its adjective too: "how late are flights?".
+  const adjectiveOf = (p: string) => (/^[a-z]{3,}ness$/i.test(p.trim()) ? [p.trim().slice(0, -4).replace(/i$/, 'y')] : []);
+  for (const m of ds.metrics) {
+    const names = [m.name.replaceAll('_', ' '), m.label, ...m.synonyms];
+    add('metric', m.name, [...names, ...names.flatMap(adjectiveOf)]);
+  }
   for (const g of ds.comparison_groups) add('group', g.name, [g.name.replaceAll('_', ' '), g.label, g.members_label, g.others_label, ...g.synonyms]);
   for (const d of ds.dimensions) {
     const names = [d.name.replaceAll('_', ' '), d.label, d.column.replaceAll('_', ' '), ...d.synonyms];

@@ -1025,7 +1025,9 @@ function rowsAsUnit(metricHits: CatalogHit[], hits: CatalogHit[], clause: Clause
     const lower = st.text.lower;
     const ofRows = others.some((o) => o.end <= h.start && /^\s+of\s+(?:the\s+|our\s+|all\s+|these\s+|those\s+)?$/.test(lower.slice(o.end, h.start)));
     const besideOther = others.some((o) => o.start >= h.end && /^\s*$/.test(lower.slice(h.end, o.start)));
-    if (!per && !ofRows && !besideOther && !isUnitNoun(h, hits, st.text) && shared.length === 0) continue;
+    // "how late are flights", "how busy were sailings": the rows are what the other measure describes.
+    const described = others.some((o) => o.end <= h.start && /\bhow\s+$/.test(lower.slice(Math.max(0, o.start - 5), o.start)) && /^\s+(?:are|were|is|was)\s+(?:the\s+|our\s+|all\s+)?$/.test(lower.slice(o.end, h.start)));
+    if (!per && !ofRows && !besideOther && !described && !isUnitNoun(h, hits, st.text) && shared.length === 0) continue;
     const measured = others.map((o) => st.ds.metrics.find((m) => m.name === metricOf(o))!);
     // "revenue per booking" the catalog has as a ratio or an average: composeRatios reads it.
     const composed = (m: Metric) => st.ds.metrics.some((x) => (x.definition.type === 'ratio' && x.definition.numerator === m.name && x.definition.denominator === rows) || (m.definition.type === 'sum' && x.definition.type === 'average' && x.definition.column === m.definition.column && !x.definition.where));

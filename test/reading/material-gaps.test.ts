@@ -132,3 +132,16 @@ describe('a range of days of the week is a day filter; "X than Y" sets two day s
     expect(b.questions[0]!.contrast).toEqual({ dimension: '@day_of_week', values: ['6,7', '1,2,3,4,5'] });
   });
 });
+
+describe('a measure named by a quality noun is asked by its adjective ("lateness": "how late")', () => {
+  it.each([
+    ['how late are flights out of ORD?', ['delay']],
+    ['how late were flights in March?', ['delay']],
+    // The count still reads where the rows are counted.
+    ['how many flights left, and how late were they?', ['flights', 'delay']],
+  ] as const)('%s', async (text, metrics) => {
+    const b = await readFlights(text);
+    expect(b.questions.flatMap((q) => q.metrics)).toEqual(metrics);
+    expect(b.unknownTerms).toEqual([]);
+  });
+});
