@@ -87,6 +87,6 @@ describe('data that ended years ago: the say-back gives both readings apart, and
     const summer = (y: number) => sql(`SELECT sum(precipitation) FROM read_csv('${csv}') WHERE location = 'Seattle' AND date BETWEEN '${y}-06-01' AND '${y}-08-31'`);
     const [s15, s14] = [await summer(2015), await summer(2014)];
     const said = (v: number) => `${v.toPrecision(3)}\u00a0mm`;
-    expect(posts.join('\n')).toContain(`${said(s15)} in Jun 2015 to Aug 2015 against ${said(s14)} in Jun 2014 to Aug 2014`);
+    expect(posts.join('\n')).toContain(`${said(s15)} in Jun\u2009–\u2009Aug 2015 against ${said(s14)} in Jun\u2009–\u2009Aug 2014`);
   });
 });
