@@ -4,7 +4,7 @@
 import { type OwnLevelEntities, UNLIKE_LEVEL_FACTOR } from '../catalog.js';
 import { formatPeriod, formatValue, type ValueFormat } from '../format.js';
 import type { Caveat } from '../types.js';
-import { countOf, listJoin } from './grammar.js';
+import { countOf, listJoin, pluralNoun } from './grammar.js';
 
 /** Up to this many entering or leaving members are named; past it they are counted. */
 const NAMED_MEMBERS = 3;
@@ -92,5 +92,6 @@ export function mixedLevelsNote(c: Caveat, locale: string): string {
   const { e, fmt, metric, dimension } = fromCaveat(c);
   const dim = dimension.toLowerCase();
   const moves = comingsAndGoings(e, locale);
-  return `This averages ${metric.toLowerCase()} across ${countOf(e.members, dim)}, each a level of its own (${spreadWords(e, fmt, locale)}): it mixes unlike things${e.factor !== null && e.factor >= UNLIKE_LEVEL_FACTOR ? ', follows the highest most' : ''}${moves.length > 0 ? ` and moves when a ${dim} enters or leaves (${moves.join('; ')})` : ''}. Each ${dim}'s own course is in the answer by ${dim}.`;
+  // Said once for the thread (quality/thread-notes.ts), so it names what it is about rather than "this".
+  return `A figure of ${metric.toLowerCase()} across all ${pluralNoun(dim)} averages ${countOf(e.members, dim)}, each a level of its own (${spreadWords(e, fmt, locale)}): it mixes unlike things${e.factor !== null && e.factor >= UNLIKE_LEVEL_FACTOR ? ', follows the highest most' : ''}${moves.length > 0 ? ` and moves when a ${dim} enters or leaves (${moves.join('; ')})` : ''}. Each ${dim}'s own course is in the answer by ${dim}.`;
 }

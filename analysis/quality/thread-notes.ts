@@ -21,6 +21,8 @@ export function isThreadWide(c: Caveat, coverage: Coverage, sq?: Pick<SubQuestio
   switch (c.code) {
     case 'series_gap':
     case 'thin_period':
+    // The same caution under every combined answer of a level (own-level-words.ts): said once.
+    case 'mixed_levels':
       return sq !== undefined && sq.filters.length === 0 && !sq.comparisonGroup;
     case 'stale_data':
     case 'duplicate_keys':
@@ -44,14 +46,14 @@ export function answerCaveats(caveats: readonly Caveat[], coverage: Coverage, sq
 
 /**
  * The notes about a measure's own data an answer leaves to the summary (months with no data at
- * all), each with the measure named, since another measure of the thread may have none:
+ * all, thin periods, a level averaged across members with levels of their own), each with the measure named, since another measure of the thread may have none:
  * "CO2 has no data for 5 months, the first June 1958."
  */
 export function measureNotes(caveats: readonly Caveat[], coverage: Coverage, sq: Pick<SubQuestion, 'filters' | 'comparisonGroup'>, labelOf: (metric: string) => string, locale: string): string[] {
   return caveats
-    .filter((c) => (c.code === 'series_gap' || c.code === 'thin_period') && isThreadWide(c, coverage, sq))
+    .filter((c) => (c.code === 'series_gap' || c.code === 'thin_period' || c.code === 'mixed_levels') && isThreadWide(c, coverage, sq))
     .map((c) => {
-      if (c.code === 'thin_period') return caveatNote(c, locale);
+      if (c.code !== 'series_gap') return caveatNote(c, locale);
       const grain = (typeof c.data.grain === 'string' ? c.data.grain : 'month') as Grain;
       const n = Number(c.data.periods);
       const first = typeof c.data.firstGap === 'string' ? formatPeriod(c.data.firstGap, grain, locale, 'long') : null;
