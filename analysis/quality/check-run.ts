@@ -124,5 +124,14 @@ export function qualityCaveatsFor(sq: SubQuestion, report: QualityReport, ws: Wo
   // A breakdown the config computes (`expr`) is named in a note by its label, never by its SQL.
   const derived = new Set((ws.dataset.derived ?? []).map((d) => d.name));
   const labels = new Map(ws.dataset.dimensions.filter((d) => derived.has(d.column)).map((d) => [d.column, d.label] as const));
+  // So is a measure's own expression, by the measure that sums or averages it, with the expression
+  // beside: "Goals (home_score + away_score)", not the bare SQL.
+  for (const m of sq.metrics.map((name) => metricByName(ws.dataset, name))) {
+    const cols = metricColumns(ws.dataset, m);
+    const col = cols[0];
+    if (cols.length !== 1 || col === undefined || /^[\p{L}_][\p{L}\d_]*$/u.test(col) || labels.has(col)) continue;
+    const owner = ws.dataset.metrics.find((x) => (x.definition.type === 'sum' || x.definition.type === 'average') && metricColumns(ws.dataset, x).join() === col) ?? m;
+    labels.set(col, `${owner.label} (${col})`);
+  }
   return qualityCaveats(ended, columnsUsed(sq, ws), { now, staleAfterDays: STALE_AFTER_DAYS, ...(ws.coverage.stamps ? { stamps: ws.coverage.stamps } : {}), ...(labels.size > 0 ? { labels } : {}) });
 }
