@@ -62,7 +62,7 @@ export function foldedCaveats(rows: readonly FoldedRow[], dimension: string, min
 
 /**
  * Gaps and late starts of one named segment over the window's complete periods: a late start
- * when its first row comes after the window's first period, a gap for each complete period
+ * when its first row comes after the window's first complete period, a gap for each complete period
  * after its first row with no row at all.
  */
 export function segmentCoverageCaveats(
@@ -78,7 +78,10 @@ export function segmentCoverageCaveats(
   const segment = key.segment ?? '(missing)';
   const firstIdx = starts.findIndex((p) => periodsWithRows.has(p));
   if (firstIdx < 0) return caveats;
-  if (firstIdx > 0) caveats.push({ code: 'late_segment', data: { segment, dimension, firstPeriod: starts[firstIdx]!, grain } });
+  // Late only when it starts after the window's first complete period: a league that starts in
+  // August of data that opens on 20 July (a partial month) is there from the start.
+  const firstComplete = starts.findIndex((p) => !partial.has(p));
+  if (firstIdx > Math.max(0, firstComplete)) caveats.push({ code: 'late_segment', data: { segment, dimension, firstPeriod: starts[firstIdx]!, grain } });
   const gaps = starts.slice(firstIdx).filter((p) => !partial.has(p) && !periodsWithRows.has(p));
   if (gaps.length > 0) {
     caveats.push({ code: 'segment_gap', data: { segment, dimension, periods: gaps.length, firstGap: gaps[0]!, lastGap: gaps[gaps.length - 1]!, grain } });

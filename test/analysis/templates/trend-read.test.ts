@@ -139,6 +139,23 @@ describe('segment readings', () => {
     expect(b.points.at(-1)).toEqual({ period: '2023-06-01', value: null, partial: true });
   });
 
+  it('a segment that starts in the first complete period of data that opens part-way through a month is not late', () => {
+    const ps = months('2023-01-01', 6);
+    const series = [
+      ...ps.map((p) => ({ period: p, ...seg('A', 1, 10) })),
+      // The data opens on 20 January (a partial month); B's first rows are in February, the first complete month.
+      ...ps.slice(1).map((p) => ({ period: p, ...seg('B', 2, 5) })),
+    ];
+    const r = readSegmentTrend(
+      sq({ template: 'segment_trend', dimension: 'route' }),
+      table([seg('A', 1, 60, { seg_count: 2 }), seg('B', 2, 25, { seg_count: 2 })]),
+      table(series),
+      table([]),
+      ctxFor('2023-01-20', '2023-06-30'),
+    );
+    expect(r.caveats.filter((c) => c.code === 'late_segment')).toEqual([]);
+  });
+
   it('folded shares: the count to 80% when the named segments reach it, and the HHI from the database sums', () => {
     // Eight named segments and a fold of five; values chosen so the top three reach 80%.
     const named = [500, 200, 120, 50, 40, 30, 20, 15];
