@@ -144,3 +144,24 @@ datasets:
       - { name: industry, label: Industry, also_called: [industries], column: series }
 `;
 }
+
+/** vega-datasets' football.json: European league matches, 20 July 2013 to 28 May 2017, one row per match. */
+export const FOOTBALL_JSON = vegaDataFile('football.json');
+
+/**
+ * A config text over football.json (dataset `football`, stamped by `date`, UTC) with the given
+ * metric and dimension lines (YAML flow mappings), as a newcomer to the file would write it.
+ */
+export function footballConfigText(metrics: readonly string[], dimensions: readonly string[]): string {
+  const lines = (xs: readonly string[]) => xs.map((x) => `      - ${x}\n`).join('');
+  return `version: 1
+datasets:
+  - name: football
+    label: Football matches
+    source: { kind: json, paths: ["${FOOTBALL_JSON}"] }
+    time_column: date
+    timezone: UTC
+    metrics:
+${lines(metrics)}    dimensions:
+${lines(dimensions)}`;
+}

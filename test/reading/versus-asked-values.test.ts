@@ -12,30 +12,26 @@ import { describe, expect, it } from 'vitest';
 import { nextPrompt, readAnswer, type PromptContext } from '../../bot/prompts.js';
 import { readRequest, type DatasetFacts } from '../../bot/reading/read-request.js';
 import type { Brief } from '../../bot/brief.js';
-import { vegaDataFile } from '../helpers/open-data.js';
+import { FOOTBALL_JSON, footballConfigText } from '../helpers/open-data.js';
 import { askPostTexts } from '../helpers/run-cli.js';
 import { publicFacts } from './public-data.js';
 
-const FOOTBALL = vegaDataFile('football.json');
+const FOOTBALL = FOOTBALL_JSON;
 const dir = mkdtempSync(join(tmpdir(), 'tc-versus-'));
 const file = join(dir, 'football.yaml');
-writeFileSync(file, `version: 1
-datasets:
-  - name: football
-    label: Football matches
-    source: { kind: json, paths: ["${FOOTBALL}"] }
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: matches, label: Matches, count: rows, kind: flow, unit: count, also_called: [games] }
-      - { name: goals, label: Goals, sum: home_score + away_score, kind: flow, unit: count }
-      - { name: goals_per_match, label: Goals per match, ratio: { of: goals, per: matches }, unit: number, decimals: 2, also_called: [goals per game] }
-      - { name: away_win_rate, label: Away win rate, rate: { when: "home_score < away_score" }, unit: percent, also_called: [away wins] }
-    dimensions:
-      - { name: division, label: Division, column: division, also_called: [league, leagues] }
-      - { name: home_team, label: Home team, column: home_team }
-      - { name: away_team, label: Away team, column: away_team }
-`);
+writeFileSync(file, footballConfigText(
+  [
+    '{ name: matches, label: Matches, count: rows, kind: flow, unit: count, also_called: [games] }',
+    '{ name: goals, label: Goals, sum: home_score + away_score, kind: flow, unit: count }',
+    '{ name: goals_per_match, label: Goals per match, ratio: { of: goals, per: matches }, unit: number, decimals: 2, also_called: [goals per game] }',
+    '{ name: away_win_rate, label: Away win rate, rate: { when: "home_score < away_score" }, unit: percent, also_called: [away wins] }',
+  ],
+  [
+    '{ name: division, label: Division, column: division, also_called: [league, leagues] }',
+    '{ name: home_team, label: Home team, column: home_team }',
+    '{ name: away_team, label: Away team, column: away_team }',
+  ],
+));
 const now = new Date('2026-12-05T07:00:00Z');
 let facts: DatasetFacts | undefined;
 

@@ -6,29 +6,25 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { expect, it } from 'vitest';
-import { vegaDataFile } from '../../helpers/open-data.js';
+import { FOOTBALL_JSON, footballConfigText } from '../../helpers/open-data.js';
 import { referenceRows } from '../../helpers/reference-sql.js';
 import { askPostTexts } from '../../helpers/run-cli.js';
 
-const FOOTBALL = vegaDataFile('football.json');
+const FOOTBALL = FOOTBALL_JSON;
 
 it('names the measure and its expression in the missing-values note, with the count SQL gives', async () => {
   const dir = mkdtempSync(join(tmpdir(), 'tc-expression-note-'));
   const config = join(dir, 'football.yaml');
-  writeFileSync(config, `version: 1
-datasets:
-  - name: football
-    label: Football matches
-    source: { kind: json, paths: ["${FOOTBALL}"] }
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: matches, label: Matches, count: rows, unit: count, kind: flow }
-      - { name: goals, label: Goals, sum: home_score + away_score, unit: count, kind: flow }
-      - { name: goals_per_match, label: Goals per match, also_called: [goals per game], ratio: { of: goals, per: matches }, unit: number, decimals: 2 }
-    dimensions:
-      - { name: division, label: Division, also_called: [league], column: division }
-`);
+  writeFileSync(config, footballConfigText(
+  [
+    '{ name: matches, label: Matches, count: rows, unit: count, kind: flow }',
+    '{ name: goals, label: Goals, sum: home_score + away_score, unit: count, kind: flow }',
+    '{ name: goals_per_match, label: Goals per match, also_called: [goals per game], ratio: { of: goals, per: matches }, unit: number, decimals: 2 }',
+  ],
+  [
+    '{ name: division, label: Division, also_called: [league], column: division }',
+  ],
+));
   const [r] = await referenceRows(`SELECT COUNT(*) FILTER (WHERE home_score + away_score IS NULL) AS missing FROM read_json_auto('${FOOTBALL}')`);
   const missing = Number(r!.missing);
   expect(missing).toBeGreaterThan(0);

@@ -11,26 +11,22 @@ import { trendSummaryWords } from '../../../analysis/captions/trend-summary-capt
 import { formatValue, valueFormatOf } from '../../../analysis/format.js';
 import type { SubQuestion } from '../../../analysis/types.js';
 import { parseConfigText } from '../../../config/load.js';
-import { vegaDataFile } from '../../helpers/open-data.js';
+import { FOOTBALL_JSON, footballConfigText } from '../../helpers/open-data.js';
 import { seriesPoints, useFileWorkspace } from '../../helpers/workspace-checks.js';
 
-const FOOTBALL = vegaDataFile('football.json');
-const config = parseConfigText(`version: 1
-datasets:
-  - name: football
-    label: Football matches
-    source: { kind: json, paths: ["${FOOTBALL}"] }
-    time_column: date
-    timezone: UTC
-    metrics:
-      - { name: matches, label: Matches, count: rows, kind: flow, unit: count }
-      - { name: goals, label: Goals, sum: home_score + away_score, kind: flow, unit: count }
-      - { name: away_win_rate, label: Away win rate, rate: { when: "home_score < away_score" }, unit: percent }
-      - { name: goals_per_match, label: Goals per match, ratio: { of: goals, per: matches }, unit: number, decimals: 2 }
-    dimensions:
-      - { name: division, label: Division, column: division }
-      - { name: home_team, label: Home team, column: home_team }
-`, '/virtual/football.yaml');
+const FOOTBALL = FOOTBALL_JSON;
+const config = parseConfigText(footballConfigText(
+  [
+    '{ name: matches, label: Matches, count: rows, kind: flow, unit: count }',
+    '{ name: goals, label: Goals, sum: home_score + away_score, kind: flow, unit: count }',
+    '{ name: away_win_rate, label: Away win rate, rate: { when: "home_score < away_score" }, unit: percent }',
+    '{ name: goals_per_match, label: Goals per match, ratio: { of: goals, per: matches }, unit: number, decimals: 2 }',
+  ],
+  [
+    '{ name: division, label: Division, column: division }',
+    '{ name: home_team, label: Home team, column: home_team }',
+  ],
+), '/virtual/football.yaml');
 
 const WHOLE = { start: '2013-07-20', end: '2017-05-29' };
 const summary = (metric: string, filters: SubQuestion['filters']): SubQuestion => ({ id: `sum-${metric}`, kind: 'trend', lens: 'summary', template: 'trend_summary', metrics: [metric], grain: 'month', window: WHOLE, filters });
