@@ -15,7 +15,7 @@ import { isAdditive, isBreakdownDimension } from '../analysis/catalog.js';
 import { dimensionPlural } from '../analysis/captions/trend-words.js';
 import type { DatasetConfig } from '../config/schema.js';
 import type { Brief, Evidence, Question } from './brief.js';
-import type { Plan } from './plan.js';
+import { asksWithinYear, NO_WITHIN_YEAR, type Plan } from './plan.js';
 import type { PostControl } from './port.js';
 import { planLines } from './replies.js';
 import { describeSubQuestion } from '../analysis/sub-questions/describe.js';
@@ -305,6 +305,8 @@ function restate(q: Question, ds: DatasetConfig, ctx: CardContext): string {
       // A question about when things peak keeps that detail, so it is not folded into "how it moved".
       // "the busiest day of the week" asks about weekdays, though "busiest" alone asks about the year.
       if (WEEKDAY_ASK.test(q.text)) return `Which days of the week ${what}${only} ${is} highest and lowest on${by}${w ? `, ${w}` : ''}.`;
+      // Data stamped once a year has no within-year pattern: said, with what is answered instead.
+      if (asksWithinYear(q.text) && ctx.coverage.stamps === 'yearly') return `When in the year ${what}${only} ${is} highest and lowest: ${NO_WITHIN_YEAR}; the answers show how it moved year by year${by}${w ? `, ${w}` : ''}.`;
       if (q.seasonTested) return `Whether ${q.seasonTested} is when ${what}${only} ${is} highest or lowest, against the other seasons${by}${w ? `, ${w}` : ', over all the data'}.`;
       if (SEASON_ASK.test(q.text) || /\bseason/i.test(q.text)) return `When in the year ${what}${only} ${is} highest and lowest${by}${w ? `, ${w}` : ''}.`;
       return `How ${what}${only} moved${by}${w ? `, ${w}` : ' over time'}.`;

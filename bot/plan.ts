@@ -11,7 +11,7 @@ import { fullWindow } from './reading/answers.js';
 import { daySides } from './reading/day-filter.js';
 import { isDayFilter } from '../analysis/day-of-week.js';
 import { withStatistic } from '../analysis/statistic.js';
-import { AGREE, CANCEL, CONCENTRATION_ASK, GROUP_GROWTH_ASK, grainNamedBy, WEEKDAY_ASK } from './reading/lexicon.js';
+import { AGREE, CANCEL, CONCENTRATION_ASK, GROUP_GROWTH_ASK, grainNamedBy, SEASON_ASK, WEEKDAY_ASK } from './reading/lexicon.js';
 import { describeWindow } from '../analysis/window-words.js';
 import { addDays, daysBetween } from '../analysis/periods.js';
 import { priorWindow } from '../analysis/templates/growth-compare.js';
@@ -28,6 +28,14 @@ export interface Plan {
 }
 
 export const MAX_PLAN_ITEMS = 16;
+
+/** A question about when in the year a measure peaks ("is generation seasonal?", "the busiest month"). */
+export function asksWithinYear(text: string): boolean {
+  return !WEEKDAY_ASK.test(text.toLowerCase()) && (SEASON_ASK.test(text.toLowerCase()) || /\bseason/i.test(text));
+}
+
+/** Why such a question has no answer on data stamped once a year: said on the card and with the plan. */
+export const NO_WITHIN_YEAR = 'the data is stamped once a year, so no within-year pattern can be measured';
 const LEADERSHIP_MAX_ITEMS = 6;
 const LENS_ORDER: Lens[] = ['time_pattern', 'breakdown', 'summary', 'distribution'];
 
@@ -55,6 +63,7 @@ export function buildPlan(brief: Brief, ds: DatasetConfig, coverage: Coverage): 
   for (const q of questions) {
     const group = groupFor(q, brief, ds);
     if (q.window) readings.push(`"${q.text}": ${describeWindow(q.window, coverage)}${q.windowSoFar ? ' so far (the data ends there)' : ''}${q.compareWindow ? `, against ${describeWindow(q.compareWindow, coverage)}` : ''}`);
+    if (coverage.stamps === 'yearly' && asksWithinYear(q.text)) readings.push(`"${q.text}": ${NO_WITHIN_YEAR}`);
     const focus = q.window ?? all;
     // What every sub-question of this question carries: its filters and the hints the request gave.
     const shared: Partial<SubQuestion> = {
