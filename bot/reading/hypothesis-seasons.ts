@@ -20,6 +20,16 @@ function candidateOf(sentence: string, season: string): boolean {
   return new RegExp(`\\b${s}\\s+(?:is|was|are|has|have|gets?|sees?|brings?|tends? to (?:be|have|see))\\s+${between}${top}\\b`).test(sentence) || new RegExp(`\\b(?:is|was|are)\\s+${s}\\s+${between}${top}\\b`).test(sentence);
 }
 
+/**
+ * A season asked about with a comparative in a present-tense question: "do studios release more
+ * films in summer?", "are sales higher in winter?", "is it busier in the summer?". It asks how that
+ * season compares with the rest of the year, not what one summer held.
+ */
+function comparedIn(sentence: string, season: string): boolean {
+  const more = '(?:more|less|fewer|higher|lower|busier|quieter|bigger|smaller|larger|better|worse|hotter|colder|warmer|cooler|wetter|drier|longer|shorter|greater|stronger|weaker|slower|faster)';
+  return new RegExp(`^\\s*(?:so\\s+|and\\s+|but\\s+)?(?:do|does|is|are)\\b[^?.!]*\\b${more}\\b[^?.!]*\\b(?:in|during|over)\\s+(?:the\\s+)?${season}s?\\b`).test(sentence);
+}
+
 export interface TestedSeason {
   mention: PeriodMention;
   season: string;
@@ -37,7 +47,7 @@ export function hypothesisSeasons(lower: string, periods: readonly PeriodMention
     const from = Math.max(lower.lastIndexOf('.', p.start), lower.lastIndexOf('?', p.start), lower.lastIndexOf('!', p.start)) + 1;
     const ends = ['.', '?', '!'].map((c) => lower.indexOf(c, p.end)).filter((i) => i >= 0);
     const sentence = lower.slice(from, ends.length > 0 ? Math.min(...ends) : lower.length);
-    if (HYPOTHESIS.test(sentence) || candidateOf(sentence, bare[1]!)) found.push({ mention: p, season });
+    if (HYPOTHESIS.test(sentence) || candidateOf(sentence, bare[1]!) || comparedIn(sentence, bare[1]!)) found.push({ mention: p, season });
   }
   return found;
 }

@@ -37,6 +37,10 @@ describe('a season put up as a guess is tested against the others, not used as t
     ['my guess is autumn has the strongest wind', 'autumn'],
     ['My hunch: precipitation is highest in the fall. Can you check?', 'autumn'],
     ['We reckon spring gets the least rain, right?', 'spring'],
+    // A comparative asked of a season of every year: how it compares with the rest of the year.
+    ['do we get more rain in winter?', 'winter'],
+    ['are winds stronger in the autumn?', 'autumn'],
+    ['are temperatures higher during summer than the rest of the year?', 'summer'],
   ];
   for (const [text, season] of guesses) {
     it(`"${text}": ${season} against the other seasons, over all the data`, () => {
@@ -55,6 +59,8 @@ describe('a season put up as a guess is tested against the others, not used as t
     ['how was winter?', { start: '2015-12-01', end: '2016-01-01' }],
     ['rainfall in winter 2014', { start: '2013-12-01', end: '2014-03-01' }],
     ['What was the rainfall like in summer 2013?', { start: '2013-06-01', end: '2013-09-01' }],
+    // A comparative with a dated season still looks at that season.
+    ['was there more rain in summer 2014?', { start: '2014-06-01', end: '2014-09-01' }],
   ];
   for (const [text, window] of windows) {
     it(`"${text}" keeps the season as the window`, () => {
