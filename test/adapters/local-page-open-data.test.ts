@@ -54,7 +54,8 @@ describe('the local page on iowa-electricity.csv', () => {
       expect(starters.join(' ')).not.toMatch(/month|revenue|route|SkerryPass/i);
       await page.screenshot({ path: join(SHOTS, '01-compose.png') });
 
-      await page.fill('#request-text', 'How has net generation moved over time?');
+      // One source named: across all three, net generation is answered per source (catalog.ts ownLevelDimension).
+      await page.fill('#request-text', 'How has nuclear generation moved over time?');
       await page.getByRole('button', { name: 'Post request' }).click();
       const card = page.locator('#messages article.bot', { has: page.locator('.controls') }).last();
       await card.locator('.controls select').first().waitFor({ timeout: 120_000 });

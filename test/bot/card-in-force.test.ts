@@ -50,7 +50,9 @@ describe('the card\'s selects show the values in force', () => {
     expect(period.current).toBe('only 2016 against 2015');
     expect(period.choices[0]!.value).toBe('only 2016 against 2015');
     expect(readCorrection(period.current!, facts, NOW, 'en-IE').window).toEqual({ window: { start: '2016-01-01', end: '2017-01-01' }, compareWindow: { start: '2015-01-01', end: '2016-01-01' } });
-    const trend = cardFor('How has net generation moved over time?').controls;
+    // One source named: net generation across all three would be answered per source (a level each
+    // source holds of its own, catalog.ts ownLevelDimension), so the request keeps to one.
+    const trend = cardFor('How has nuclear generation moved over time?').controls;
     expect(trend.find((c) => c.topic === 'breakdowns')!.current).toBe('no breakdown');
     expect(trend.find((c) => c.topic === 'period')!.current).toBe('all the data');
   });
